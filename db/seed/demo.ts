@@ -1,0 +1,39 @@
+import type { Kysely } from "kysely";
+import type { Database } from "../types";
+import { hashPassword } from "../../server/auth/password";
+import { DEMO_PASSWORD, DEMO_PEOPLE, DEMO_SITE } from "./people";
+
+type Db = Kysely<Database>;
+
+/** True when nobody has an account yet: the only time the demo is loaded. */
+export async function isEmpty(db: Db) {
+  const row = await db.selectFrom("users").select((eb) => eb.fn.countAll<number>().as("n")).executeTakeFirstOrThrow();
+  return Number(row.n) === 0;
+}
+
+/** Loads the demo scenario: the site, its people, and what later seed steps add. */
+export async function seedDemo(db: Db) {
+  const passwordHash = await hashPassword(DEMO_PASSWORD);
+  await db.transaction().execute(async (trx) => {
+    const site = await trx.insertInto("sites").values(DEMO_SITE).returning("id").executeTakeFirstOrThrow();
+    const people: Record<string, string> = {};
+    for (const p of DEMO_PEOPLE) {
+      const u = await trx
+        .insertInto("users")
+        .values({ email: p.email, name: p.name, passwordHash, isAdmin: p.isAdmin })
+        .returning("id")
+        .executeTakeFirstOrThrow();
+      people[p.email] = u.id;
+      if (p.role) await trx.insertInto("memberships").values({ siteId: site.id, userId: u.id, role: p.role }).execute();
+    }
+    for (const step of SEED_STEPS) await step(trx, { siteId: site.id, people });
+  });
+}
+
+export interface SeedContext {
+  siteId: string;
+  /** user id by e-mail */
+  people: Record<string, string>;
+}
+/** Later features append their part of the scenario here, in order. */
+export const SEED_STEPS: Array<(trx: Db, ctx: SeedContext) => Promise<void>> = [];

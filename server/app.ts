@@ -1,0 +1,58 @@
+import "./types";
+import { existsSync } from "node:fs";
+import { join } from "node:path";
+import express, { Router } from "express";
+import { sql } from "kysely";
+import { createLucia } from "./auth/lucia";
+import { authRoutes } from "./auth/routes";
+import type { Db } from "./db";
+import { AppError } from "./errors";
+import { errorHandler } from "./middleware/error-handler";
+import { originCheck } from "./middleware/origin";
+import { sessionMiddleware } from "./middleware/session";
+import { siteRoutes } from "./sites/routes";
+
+export interface AppDeps {
+  db: Db;
+  /** Built client to serve (dist/client); omitted in tests and in dev (Vite serves it). */
+  clientDir?: string;
+  /** Behind a TLS-terminating proxy: trust X-Forwarded-* so cookies get Secure. */
+  trustProxy?: boolean;
+}
+
+export function createApp(deps: AppDeps) {
+  const { db } = deps;
+  const app = express();
+  app.disable("x-powered-by");
+  if (deps.trustProxy) app.set("trust proxy", 1);
+  const lucia = createLucia(db);
+
+  const api = Router();
+  api.get("/health", async (_req, res) => {
+    try {
+      await sql`select 1`.execute(db);
+      res.json({ ok: true, db: "up" });
+    } catch {
+      res.status(503).json({ ok: false, db: "down" });
+    }
+  });
+  api.use(express.json({ limit: "1mb" }));
+  api.use(originCheck());
+  api.use(sessionMiddleware(lucia));
+  api.use(authRoutes(db, lucia));
+  api.use(siteRoutes(db));
+  api.use((_req, _res, next) => next(new AppError(404, "not_found", "No such API route.")));
+  api.use(errorHandler);
+
+  app.use("/api", (_req, res, next) => {
+    res.setHeader("Cache-Control", "no-store");
+    next();
+  }, api);
+
+  if (deps.clientDir && existsSync(deps.clientDir)) {
+    const dir = deps.clientDir;
+    app.use(express.static(dir, { index: false, maxAge: "1h", immutable: false }));
+    app.get("/{*splat}", (_req, res) => res.sendFile(join(dir, "index.html")));
+  }
+  return app;
+}

@@ -1,0 +1,64 @@
+import { Lucia, TimeSpan, type Adapter, type DatabaseSession, type DatabaseUser } from "lucia";
+import type { Db } from "../db";
+
+/** lucia v3's storage contract over Kysely: sessions and users live in PostgreSQL. */
+export function kyselyAdapter(db: Db): Adapter {
+  const toUser = (u: { id: string; email: string; name: string; isAdmin: boolean }): DatabaseUser => ({
+    id: u.id,
+    attributes: { email: u.email, name: u.name, isAdmin: u.isAdmin },
+  });
+  const toSession = (s: { id: string; userId: string; expiresAt: Date }): DatabaseSession => ({
+    id: s.id,
+    userId: s.userId,
+    expiresAt: s.expiresAt,
+    attributes: {},
+  });
+  return {
+    async getSessionAndUser(sessionId) {
+      const row = await db
+        .selectFrom("sessions")
+        .innerJoin("users", "users.id", "sessions.userId")
+        .select(["sessions.id", "sessions.userId", "sessions.expiresAt", "users.email", "users.name", "users.isAdmin"])
+        .where("sessions.id", "=", sessionId)
+        .executeTakeFirst();
+      if (!row) return [null, null];
+      return [toSession(row), toUser({ id: row.userId, email: row.email, name: row.name, isAdmin: row.isAdmin })];
+    },
+    async getUserSessions(userId) {
+      const rows = await db.selectFrom("sessions").selectAll().where("userId", "=", userId).execute();
+      return rows.map(toSession);
+    },
+    async setSession(s) {
+      await db.insertInto("sessions").values({ id: s.id, userId: s.userId, expiresAt: s.expiresAt }).execute();
+    },
+    async updateSessionExpiration(sessionId, expiresAt) {
+      await db.updateTable("sessions").set({ expiresAt }).where("id", "=", sessionId).execute();
+    },
+    async deleteSession(sessionId) {
+      await db.deleteFrom("sessions").where("id", "=", sessionId).execute();
+    },
+    async deleteUserSessions(userId) {
+      await db.deleteFrom("sessions").where("userId", "=", userId).execute();
+    },
+    async deleteExpiredSessions() {
+      await db.deleteFrom("sessions").where("expiresAt", "<=", new Date()).execute();
+    },
+  };
+}
+
+export function createLucia(db: Db) {
+  return new Lucia(kyselyAdapter(db), {
+    sessionExpiresIn: new TimeSpan(14, "d"),
+    sessionCookie: { name: "tideline_session", attributes: { sameSite: "lax", secure: false } },
+    getUserAttributes: (a) => ({ email: a.email, name: a.name, isAdmin: a.isAdmin }),
+  });
+}
+
+export type AppLucia = ReturnType<typeof createLucia>;
+
+declare module "lucia" {
+  interface Register {
+    Lucia: AppLucia;
+    DatabaseUserAttributes: { email: string; name: string; isAdmin: boolean };
+  }
+}

@@ -1,0 +1,33 @@
+/**
+ * Listens. Used by `npm start` after set-up, and on its own for a deployment that
+ * brings its own PostgreSQL (DATABASE_URL): `node --import tsx server/index.ts`.
+ * The process keeps no state of its own, so several can run behind a load balancer.
+ */
+import type { Server } from "node:http";
+import { join } from "node:path";
+import { createApp } from "./app";
+import { createDb, type Db } from "./db";
+
+export function serve(opts: { db: Db; port: number; host?: string; clientDir?: string }): Promise<Server> {
+  const app = createApp({ db: opts.db, clientDir: opts.clientDir, trustProxy: process.env.TRUST_PROXY === "1" });
+  return new Promise((resolve, reject) => {
+    const server = app.listen(opts.port, opts.host ?? process.env.HOST ?? "127.0.0.1", (err?: Error) =>
+      err ? reject(err) : resolve(server),
+    );
+    server.on("error", reject);
+  });
+}
+
+if (import.meta.url === `file://${process.argv[1]}`) {
+  if (!process.env.DATABASE_URL) {
+    console.error("Set DATABASE_URL, or use `npm start` for the embedded database.");
+    process.exit(1);
+  }
+  const db = createDb(process.env.DATABASE_URL);
+  const port = Number(process.env.PORT ?? 3000);
+  const server = await serve({ db, port, clientDir: join(import.meta.dirname, "..", "dist", "client") });
+  console.log(`Tideline listening on http://127.0.0.1:${port}`);
+  const stop = () => server.close(() => void db.destroy().then(() => process.exit(0)));
+  process.on("SIGINT", stop);
+  process.on("SIGTERM", stop);
+}

@@ -1,0 +1,49 @@
+import type { ErrorRequestHandler } from "express";
+import { ZodError } from "zod";
+import { AppError } from "../errors";
+
+function zodFields(err: ZodError): Record<string, string> {
+  const fields: Record<string, string> = {};
+  for (const issue of err.issues) {
+    const key = issue.path.length ? issue.path.join(".") : "_";
+    fields[key] ??= issue.message;
+  }
+  return fields;
+}
+
+/** Every error leaves as `{"error":{"code","message","fields?"}}`; no stack ever reaches the client. */
+export const errorHandler: ErrorRequestHandler = (err, _req, res, _next) => {
+  if (res.headersSent) {
+    console.error("[api] error after response started:", err);
+    res.end();
+    return;
+  }
+  if (err instanceof ZodError) {
+    const fields = zodFields(err);
+    const first = Object.entries(fields)[0];
+    res.status(400).json({
+      error: { code: "invalid_input", message: first ? `Check ${first[0] === "_" ? "the request" : first[0]}: ${first[1]}` : "Invalid input.", fields },
+    });
+    return;
+  }
+  if (err instanceof AppError) {
+    const body: Record<string, unknown> = { code: err.code, message: err.message };
+    if (err.fields) body.fields = err.fields;
+    if (err.details !== undefined) body.current = err.details;
+    res.status(err.status).json({ error: body });
+    return;
+  }
+  // body-parser and multer errors carry a status or a code of their own.
+  const status = typeof err?.status === "number" ? err.status : typeof err?.statusCode === "number" ? err.statusCode : 500;
+  if (status === 413 || err?.code === "LIMIT_FILE_SIZE") {
+    res.status(413).json({ error: { code: "too_large", message: "That is larger than Tideline accepts." } });
+    return;
+  }
+  if (status >= 400 && status < 500) {
+    const message = err?.type === "entity.parse.failed" ? "The request body is not valid JSON." : "The request could not be read.";
+    res.status(status).json({ error: { code: "bad_request", message } });
+    return;
+  }
+  console.error("[api] unexpected error:", err);
+  res.status(500).json({ error: { code: "internal", message: "Something went wrong on the server. It has been logged." } });
+};

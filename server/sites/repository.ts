@@ -1,0 +1,50 @@
+import type { Db } from "../db";
+import type { Role } from "../../src/domain/vocab";
+
+const siteCols = ["sites.id", "sites.name", "sites.kind", "sites.location", "sites.description"] as const;
+
+export const listSitesForUser = (db: Db, userId: string) =>
+  db
+    .selectFrom("sites")
+    .innerJoin("memberships", "memberships.siteId", "sites.id")
+    .select([...siteCols, "memberships.role"])
+    .where("memberships.userId", "=", userId)
+    .orderBy("sites.name")
+    .execute();
+
+export const listAllSites = (db: Db) => db.selectFrom("sites").select(siteCols).orderBy("sites.name").execute();
+
+export const findSite = (db: Db, siteId: string) =>
+  db.selectFrom("sites").select(siteCols).where("id", "=", siteId).executeTakeFirst();
+
+export const insertSite = (db: Db, s: { name: string; kind: "vessel" | "building" | "plant"; location: string; description: string }) =>
+  db.insertInto("sites").values(s).returning(siteCols).executeTakeFirstOrThrow();
+
+export const listMembers = (db: Db, siteId: string) =>
+  db
+    .selectFrom("memberships")
+    .innerJoin("users", "users.id", "memberships.userId")
+    .select(["users.id as userId", "users.email", "users.name", "memberships.role"])
+    .where("memberships.siteId", "=", siteId)
+    .orderBy("users.name")
+    .execute();
+
+export const upsertMembership = (db: Db, siteId: string, userId: string, role: Role) =>
+  db
+    .insertInto("memberships")
+    .values({ siteId, userId, role })
+    .onConflict((oc) => oc.columns(["siteId", "userId"]).doUpdateSet({ role }))
+    .execute();
+
+export const deleteMembership = (db: Db, siteId: string, userId: string) =>
+  db.deleteFrom("memberships").where("siteId", "=", siteId).where("userId", "=", userId).executeTakeFirst();
+
+export const countCurators = async (db: Db, siteId: string) =>
+  (
+    await db
+      .selectFrom("memberships")
+      .select((eb) => eb.fn.countAll<number>().as("n"))
+      .where("siteId", "=", siteId)
+      .where("role", "=", "curator")
+      .executeTakeFirstOrThrow()
+  ).n;

@@ -1,0 +1,64 @@
+import { Router } from "express";
+import { z } from "zod";
+import { addMemberBody, changeRoleBody, createSiteBody, createUserBody } from "../../src/schemas/sites";
+import type { Db } from "../db";
+import { notFound } from "../errors";
+import { requireAdmin, requireSiteRole, requireUser } from "../middleware/roles";
+import * as repo from "./repository";
+import * as service from "./service";
+
+const memberParams = z.object({ siteId: z.uuid(), userId: z.uuid() });
+
+export function siteRoutes(db: Db) {
+  const r = Router();
+
+  r.get("/sites", requireUser, async (_req, res) => {
+    const user = res.locals.user!;
+    if (user.isAdmin) {
+      const mine = new Map((await repo.listSitesForUser(db, user.id)).map((s) => [s.id, s.role]));
+      const all = await repo.listAllSites(db);
+      return res.json({ sites: all.map((s) => ({ ...s, role: mine.get(s.id) ?? "admin" })) });
+    }
+    res.json({ sites: await repo.listSitesForUser(db, user.id) });
+  });
+
+  r.post("/sites", requireAdmin, async (req, res) => {
+    const site = await repo.insertSite(db, createSiteBody.parse(req.body));
+    res.status(201).json({ site: { ...site, role: "admin" } });
+  });
+
+  r.get("/sites/:siteId", requireSiteRole(db), async (req, res) => {
+    const site = await repo.findSite(db, req.params.siteId as string);
+    if (!site) throw notFound("That site");
+    res.json({ site: { ...site, role: res.locals.siteRole } });
+  });
+
+  r.get("/sites/:siteId/members", requireSiteRole(db, "curator"), async (req, res) => {
+    res.json({ members: await repo.listMembers(db, req.params.siteId as string) });
+  });
+
+  r.post("/sites/:siteId/members", requireSiteRole(db, "curator"), async (req, res) => {
+    const { email, role } = addMemberBody.parse(req.body);
+    await service.addMember(db, req.params.siteId as string, email, role);
+    res.status(201).json({ members: await repo.listMembers(db, req.params.siteId as string) });
+  });
+
+  r.patch("/sites/:siteId/members/:userId", requireSiteRole(db, "curator"), async (req, res) => {
+    const { siteId, userId } = memberParams.parse(req.params);
+    await service.changeRole(db, siteId, userId, changeRoleBody.parse(req.body).role);
+    res.json({ members: await repo.listMembers(db, siteId) });
+  });
+
+  r.delete("/sites/:siteId/members/:userId", requireSiteRole(db, "curator"), async (req, res) => {
+    const { siteId, userId } = memberParams.parse(req.params);
+    await service.removeMember(db, siteId, userId);
+    res.json({ members: await repo.listMembers(db, siteId) });
+  });
+
+  r.post("/admin/users", requireAdmin, async (req, res) => {
+    const user = await service.createUser(db, createUserBody.parse(req.body));
+    res.status(201).json({ user });
+  });
+
+  return r;
+}

@@ -1,0 +1,62 @@
+import { NavLink, Outlet, useOutletContext, useParams } from "react-router";
+import { ErrorPanel, Loading } from "../../../components/status";
+import { visibleNav } from "../../../config/nav";
+import type { SiteSummary } from "../../../schemas/sites";
+import { useSite } from "../../../features/sites/api";
+
+export interface SiteContext {
+  site: SiteSummary;
+  role: SiteSummary["role"];
+}
+export const useSiteContext = () => useOutletContext<SiteContext>();
+
+const tab = ({ isActive }: { isActive: boolean }) =>
+  `whitespace-nowrap rounded-md px-3 py-2 text-sm font-semibold no-underline ${isActive ? "bg-hull-700 text-brass-300" : "text-mist hover:text-chalk"}`;
+
+export default function SiteLayout() {
+  const { siteId = "" } = useParams();
+  const site = useSite(siteId);
+  if (site.isPending) return <Loading what="Opening the site" />;
+  if (site.isError) return <main className="p-4"><ErrorPanel error={site.error} /></main>;
+  const nav = visibleNav(site.data.role);
+  return (
+    <>
+      <div className="no-print border-b border-hull-700 bg-hull-900/60 px-4">
+        <p className="pt-2 text-xs uppercase tracking-widest text-fog">{site.data.kind}</p>
+        <p className="text-lg font-bold" data-testid="site-name">{site.data.name}</p>
+        <nav aria-label="Site" className="-mx-1 hidden gap-1 overflow-x-auto py-2 md:flex">
+          {nav.map((n) => (
+            <NavLink key={n.label} to={n.href(siteId)} end className={tab}>
+              {n.label}
+            </NavLink>
+          ))}
+        </nav>
+      </div>
+      <nav
+        aria-label="Site (phone)"
+        className="no-print fixed inset-x-0 bottom-0 z-30 flex justify-around border-t border-hull-700 bg-hull-900 px-1 py-1 md:hidden"
+      >
+        {nav.filter((n) => n.phone).map((n) => (
+          <NavLink key={n.label} to={n.href(siteId)} end className={tab}>
+            {n.label}
+          </NavLink>
+        ))}
+        {nav.some((n) => !n.phone) && (
+          <details className="relative">
+            <summary className="cursor-pointer list-none rounded-md px-3 py-2 text-sm font-semibold text-mist">More</summary>
+            <div className="absolute bottom-12 right-0 flex w-48 flex-col rounded-md bg-hull-800 p-1 ring-1 ring-hull-600">
+              {nav.filter((n) => !n.phone).map((n) => (
+                <NavLink key={n.label} to={n.href(siteId)} end className={tab}>
+                  {n.label}
+                </NavLink>
+              ))}
+            </div>
+          </details>
+        )}
+      </nav>
+      <main id="main" className="mx-auto max-w-6xl p-4">
+        <Outlet context={{ site: site.data, role: site.data.role } satisfies SiteContext} />
+      </main>
+    </>
+  );
+}

@@ -1,0 +1,71 @@
+import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
+import { z } from "zod";
+import { memberSchema, siteSchema } from "../../schemas/sites";
+import { api } from "../../lib/api-client";
+import type { Role } from "../../domain/vocab";
+
+export const siteKeys = {
+  all: ["sites"] as const,
+  list: () => [...siteKeys.all, "list"] as const,
+  detail: (siteId: string) => [...siteKeys.all, "detail", siteId] as const,
+  members: (siteId: string) => [...siteKeys.all, "members", siteId] as const,
+};
+
+export const sitesQueryOptions = () =>
+  queryOptions({
+    queryKey: siteKeys.list(),
+    queryFn: ({ signal }) => api.get("/api/sites", z.object({ sites: z.array(siteSchema) }), signal).then((d) => d.sites),
+  });
+
+export const siteQueryOptions = (siteId: string) =>
+  queryOptions({
+    queryKey: siteKeys.detail(siteId),
+    queryFn: ({ signal }) => api.get(`/api/sites/${siteId}`, z.object({ site: siteSchema }), signal).then((d) => d.site),
+  });
+
+export const useSites = () => useQuery(sitesQueryOptions());
+export const useSite = (siteId: string) => useQuery(siteQueryOptions(siteId));
+
+const membersResponse = z.object({ members: z.array(memberSchema) });
+
+export const useMembers = (siteId: string) =>
+  useQuery({
+    queryKey: siteKeys.members(siteId),
+    queryFn: ({ signal }) => api.get(`/api/sites/${siteId}/members`, membersResponse, signal).then((d) => d.members),
+  });
+
+export function useMemberMutations(siteId: string) {
+  const qc = useQueryClient();
+  const onSuccess = (d: z.infer<typeof membersResponse>) => qc.setQueryData(siteKeys.members(siteId), d.members);
+  return {
+    add: useMutation({
+      mutationFn: (b: { email: string; role: Role }) => api.send("POST", `/api/sites/${siteId}/members`, b, membersResponse),
+      onSuccess,
+    }),
+    change: useMutation({
+      mutationFn: (b: { userId: string; role: Role }) =>
+        api.send("PATCH", `/api/sites/${siteId}/members/${b.userId}`, { role: b.role }, membersResponse),
+      onSuccess,
+    }),
+    remove: useMutation({
+      mutationFn: (userId: string) => api.send("DELETE", `/api/sites/${siteId}/members/${userId}`, undefined, membersResponse),
+      onSuccess,
+    }),
+  };
+}
+
+export function useCreateSite() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (b: { name: string; kind: "vessel" | "building" | "plant"; location: string }) =>
+      api.send("POST", "/api/sites", b, z.object({ site: siteSchema })).then((d) => d.site),
+    onSuccess: () => qc.invalidateQueries({ queryKey: siteKeys.all }),
+  });
+}
+
+export function useCreateUser() {
+  return useMutation({
+    mutationFn: (b: { email: string; name: string; password: string; isAdmin: boolean }) =>
+      api.send("POST", "/api/admin/users", b, z.object({ user: z.object({ id: z.string(), email: z.string() }) })),
+  });
+}

@@ -1,0 +1,69 @@
+import type { z } from "zod";
+
+/** Every failed API call becomes one of these, with the server's code, message and fields. */
+export class ApiError extends Error {
+  constructor(
+    public status: number,
+    public code: string,
+    message: string,
+    public fields: Record<string, string> = {},
+    /** On 409, the record as it is now on the server. */
+    public current?: unknown,
+  ) {
+    super(message);
+  }
+}
+
+type Method = "GET" | "POST" | "PATCH" | "PUT" | "DELETE";
+
+async function request(method: Method, url: string, body?: unknown, signal?: AbortSignal): Promise<unknown> {
+  let res: Response;
+  try {
+    res = await fetch(url, {
+      method,
+      credentials: "same-origin",
+      headers: body === undefined || body instanceof FormData ? {} : { "Content-Type": "application/json" },
+      body: body === undefined ? undefined : body instanceof FormData ? body : JSON.stringify(body),
+      signal,
+    });
+  } catch (e) {
+    if ((e as Error).name === "AbortError") throw e;
+    throw new ApiError(0, "offline", "Tideline's server cannot be reached. Check the connection and try again.");
+  }
+  const text = await res.text();
+  const data = text ? safeJson(text) : null;
+  if (!res.ok) {
+    const err = (data as { error?: { code?: string; message?: string; fields?: Record<string, string>; current?: unknown } } | null)?.error;
+    throw new ApiError(res.status, err?.code ?? "http_" + res.status, err?.message ?? `The server answered ${res.status}.`, err?.fields, err?.current);
+  }
+  return data;
+}
+
+function safeJson(text: string): unknown {
+  try {
+    return JSON.parse(text);
+  } catch {
+    return null;
+  }
+}
+
+/** Fetches and checks the response's shape with the shared zod schema. */
+export const api = {
+  get: <T extends z.ZodType>(url: string, schema: T, signal?: AbortSignal) =>
+    request("GET", url, undefined, signal).then((d) => schema.parse(d) as z.infer<T>),
+  send: <T extends z.ZodType>(method: Exclude<Method, "GET">, url: string, body: unknown, schema: T) =>
+    request(method, url, body).then((d) => schema.parse(d) as z.infer<T>),
+  raw: request,
+};
+
+/** Builds "?a=1&b=2" from defined values only. */
+export function qs(params: Record<string, string | number | boolean | undefined | null | string[]>): string {
+  const u = new URLSearchParams();
+  for (const [k, v] of Object.entries(params)) {
+    if (v === undefined || v === null || v === "") continue;
+    if (Array.isArray(v)) v.forEach((x) => u.append(k, x));
+    else u.set(k, String(v));
+  }
+  const s = u.toString();
+  return s ? `?${s}` : "";
+}

@@ -1,0 +1,33 @@
+import { randomBytes } from "node:crypto";
+import { inject } from "vitest";
+import pg from "pg";
+import { createDb, type Db } from "../../server/db";
+import { ensureDatabase } from "../../db/pg";
+
+export interface TestDb {
+  db: Db;
+  url: string;
+  name: string;
+  drop(): Promise<void>;
+}
+
+/** A fresh, fully migrated database of the real PostgreSQL, cloned from the template. */
+export async function createTestDb(): Promise<TestDb> {
+  const adminUrl = inject("adminUrl");
+  const name = `t_${randomBytes(6).toString("hex")}`;
+  await ensureDatabase(adminUrl, name, { template: inject("templateDb") });
+  const url = adminUrl.replace(/\/postgres$/, `/${name}`);
+  const db = createDb(url, 5);
+  return {
+    db,
+    url,
+    name,
+    async drop() {
+      await db.destroy();
+      const c = new pg.Client({ connectionString: adminUrl });
+      await c.connect();
+      await c.query(`DROP DATABASE IF EXISTS "${name}" WITH (FORCE)`);
+      await c.end();
+    },
+  };
+}

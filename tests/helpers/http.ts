@@ -1,0 +1,74 @@
+import type { AddressInfo } from "node:net";
+import type { Server } from "node:http";
+import { createApp, type AppDeps } from "../../server/app";
+
+export interface Res<T = any> {
+  status: number;
+  body: T;
+  headers: Headers;
+}
+
+/** One browser-like client: keeps its cookie and sends Tideline's own Origin. */
+export class Client {
+  cookie = "";
+  constructor(public base: string, public origin = base) {}
+
+  async call<T = any>(method: string, path: string, body?: unknown, headers: Record<string, string> = {}): Promise<Res<T>> {
+    const h: Record<string, string> = { ...headers };
+    if (this.cookie) h.cookie = this.cookie;
+    if (method !== "GET" && this.origin) h.origin = this.origin;
+    let payload: BodyInit | undefined;
+    if (body instanceof FormData || typeof body === "string" || body instanceof Uint8Array) payload = body as BodyInit;
+    else if (body !== undefined) {
+      h["content-type"] = "application/json";
+      payload = JSON.stringify(body);
+    }
+    const res = await fetch(this.base + path, { method, headers: h, body: payload, redirect: "manual" });
+    const set = res.headers.getSetCookie();
+    for (const c of set) {
+      const [pair] = c.split(";");
+      const [name, value] = pair.split("=");
+      if (name === "tideline_session") this.cookie = value ? `${name}=${value}` : "";
+    }
+    const text = await res.text();
+    let parsed: unknown = text;
+    try {
+      parsed = text ? JSON.parse(text) : null;
+    } catch {
+      /* not JSON: keep text */
+    }
+    return { status: res.status, body: parsed as T, headers: res.headers };
+  }
+  get = <T = any>(p: string) => this.call<T>("GET", p);
+  post = <T = any>(p: string, b?: unknown) => this.call<T>("POST", p, b ?? {});
+  patch = <T = any>(p: string, b?: unknown) => this.call<T>("PATCH", p, b ?? {});
+  put = <T = any>(p: string, b?: unknown) => this.call<T>("PUT", p, b ?? {});
+  del = <T = any>(p: string) => this.call<T>("DELETE", p);
+
+  async signIn(email: string, password = TEST_PASSWORD) {
+    const r = await this.post("/api/auth/sign-in", { email, password });
+    if (r.status !== 200) throw new Error(`sign-in of ${email} failed: ${r.status} ${JSON.stringify(r.body)}`);
+    return r;
+  }
+}
+
+export const TEST_PASSWORD = "correct-horse-battery";
+
+export interface TestServer {
+  base: string;
+  client(): Client;
+  close(): Promise<void>;
+}
+
+export async function startTestServer(deps: AppDeps): Promise<TestServer> {
+  const app = createApp(deps);
+  const server: Server = await new Promise((resolve) => {
+    const s = app.listen(0, "127.0.0.1", () => resolve(s));
+  });
+  const base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+  return {
+    base,
+    client: () => new Client(base),
+    close: () => new Promise((r) => { server.closeAllConnections(); server.close(() => r()); }),
+  };
+}
