@@ -39,7 +39,7 @@ export interface PriorityTerm {
 /** Effort penalty in points (≤ 0), monotone non-increasing in hours. */
 export function effortPoints(effortHours: number | null): number {
   const h = effortHours === null ? UNKNOWN_EFFORT_HOURS : requireNumber("effortHours", effortHours, { min: 0 });
-  return -Math.min(EFFORT_CAP, Math.round(EFFORT_SCALE * Math.log2(1 + h)));
+  return 0 - Math.min(EFFORT_CAP, Math.round(EFFORT_SCALE * Math.log2(1 + h))); // 0 − x avoids −0
 }
 
 /**

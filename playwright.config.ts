@@ -1,0 +1,39 @@
+import { defineConfig } from "@playwright/test";
+
+const port = Number(process.env.E2E_PORT ?? 3100);
+
+export default defineConfig({
+  testDir: "e2e",
+  fullyParallel: false,
+  workers: 1,
+  retries: process.env.CI ? 1 : 0,
+  timeout: 45_000,
+  expect: { timeout: 8_000 },
+  outputDir: ".data/test-results",
+  use: {
+    baseURL: `http://127.0.0.1:${port}`,
+    browserName: "chromium",
+    trace: "retain-on-failure",
+    launchOptions: {
+      executablePath: process.env.CHROMIUM_PATH ?? "/usr/bin/chromium",
+      args: [
+        "--no-sandbox",
+        "--disable-gpu",
+        "--disable-dev-shm-usage",
+        "--no-first-run",
+        "--disable-background-networking",
+        "--disable-component-update",
+        "--disable-sync",
+        "--disable-quic",
+      ],
+    },
+  },
+  webServer: {
+    command: "node node_modules/tsx/dist/cli.mjs server/cli/e2e-server.ts",
+    url: `http://127.0.0.1:${port}/api/health`,
+    reuseExistingServer: !process.env.CI,
+    timeout: 120_000,
+    env: { PORT: String(port) },
+    stdout: "pipe",
+  },
+});

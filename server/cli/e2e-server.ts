@@ -1,0 +1,21 @@
+// The server Playwright starts: a fresh e2e database with the demo scenario, the built
+// client, on E2E_PORT. Stopped by Playwright at the end of the run.
+import { buildClient, log, prepareDatabase } from "./prepare";
+import { ensureDatabase } from "../../db/pg";
+import { openLocalDatabase } from "../../db/local";
+import { serve } from "../index";
+
+const name = process.env.E2E_DATABASE ?? "tideline_e2e";
+const cluster = await openLocalDatabase("test", "postgres");
+await ensureDatabase(cluster.adminUrl, name, { fresh: true });
+const { local, db } = await prepareDatabase("test", name);
+const clientDir = buildClient();
+const port = Number(process.env.PORT ?? 3100);
+const server = await serve({ db, port, clientDir });
+log(`e2e server on http://127.0.0.1:${port} (database ${name})`);
+const stop = () => {
+  server.closeAllConnections();
+  server.close(() => void db.destroy().then(() => { local.stop(); cluster.stop(); process.exit(0); }));
+};
+process.on("SIGINT", stop);
+process.on("SIGTERM", stop);
