@@ -3,7 +3,22 @@
  * migrations; property names are camelCase (CamelCasePlugin maps them to snake_case).
  */
 import type { ColumnType, Generated, Selectable } from "kysely";
-import type { Role } from "../src/domain/vocab";
+import type {
+  ComponentKind,
+  Contaminant,
+  Custody,
+  DefectCategory,
+  DefectSeverity,
+  DefectStatus,
+  Disposition,
+  Earthing,
+  Heritage,
+  InsulationState,
+  Mechanism,
+  PhotoKind,
+  Role,
+  WaterType,
+} from "../src/domain/vocab";
 
 type Timestamp = ColumnType<Date, Date | string | undefined, Date | string>;
 
@@ -39,11 +54,216 @@ export interface MembershipsTable {
   createdAt: Timestamp;
 }
 
+/** Columns every editable record has: optimistic `version`, created/updated stamps. */
+interface Versioned {
+  id: Generated<string>;
+  siteId: string;
+  version: Generated<number>;
+  createdAt: Timestamp;
+  updatedAt: Timestamp;
+}
+type Text = Generated<string>;
+type Num = number | null;
+
+export interface FloodEventsTable extends Versioned {
+  occurredOn: string;
+  waterType: WaterType;
+  maxDepthM: Num;
+  hoursSubmerged: Num;
+  notes: Text;
+}
+
+export interface BoardsTable extends Versioned {
+  name: string;
+  location: Text;
+  nominalVolts: Generated<number>;
+  phases: Generated<1 | 3>;
+  frequencyHz: Generated<number>;
+  earthing: Generated<Earthing>;
+  yearBuilt: Num;
+  drawingRef: Text;
+  /** Height of the board face and of the flood water line on it, both from the floor. */
+  faceHeightMm: Num;
+  waterLineMm: Num;
+  gridRows: Generated<number>;
+  gridCols: Generated<number>;
+  notes: Text;
+}
+
+export interface SectionsTable extends Versioned {
+  boardId: string;
+  name: string;
+  sortOrder: Generated<number>;
+  notes: Text;
+}
+
+export interface PositionsTable extends Versioned {
+  boardId: string;
+  sectionId: string | null;
+  /** As painted on the board, e.g. "2-14"; unique per board, case-insensitively. */
+  designation: string;
+  kind: ComponentKind;
+  gridRow: number;
+  gridCol: number;
+  rowSpan: Generated<number>;
+  colSpan: Generated<number>;
+  circuit: Text;
+  sortOrder: Generated<number>;
+}
+
+export interface ComponentsTable extends Versioned {
+  /** Its home position: a component taken out for cleaning comes back here. */
+  positionId: string;
+  kind: ComponentKind;
+  maker: Text;
+  model: Text;
+  frame: Text;
+  mounting: Text;
+  ratingAmps: Num;
+  poles: Num;
+  voltageRating: Num;
+  interruptingKa: Num;
+  serial: Text;
+  year: Num;
+  meterRange: Text;
+  lampWatts: Num;
+  heritage: Generated<Heritage>;
+  tagNumber: string | null;
+  custody: Generated<Custody>;
+  custodyLocation: Text;
+  disposition: Disposition | null;
+  dispositionReason: Text;
+  dispositionRecommended: Disposition | null;
+  dispositionOverridden: Generated<boolean>;
+  dispositionBy: string | null;
+  dispositionAt: Date | null;
+  /** Set when the component leaves its position for good (scrapped, superseded). */
+  retiredAt: Date | null;
+  notes: Text;
+}
+
+export interface InspectionsTable {
+  id: Generated<string>;
+  siteId: string;
+  componentId: string;
+  positionId: string;
+  inspectorId: string | null;
+  inspectedAt: Timestamp;
+  percentRusted: Num;
+  astmGrade: Num;
+  isoRi: string | null;
+  belowWaterLine: boolean | null;
+  contaminants: ColumnType<Contaminant[], Contaminant[] | undefined, Contaminant[]>;
+  mechanism: Mechanism | null;
+  insulation: InsulationState | null;
+  notes: Text;
+  createdAt: Timestamp;
+}
+
+export interface CustodyMovesTable {
+  id: Generated<string>;
+  siteId: string;
+  componentId: string;
+  fromState: Custody;
+  toState: Custody;
+  location: Text;
+  note: Text;
+  movedBy: string | null;
+  movedAt: Timestamp;
+}
+
+export interface DispositionDecisionsTable {
+  id: Generated<string>;
+  siteId: string;
+  componentId: string;
+  disposition: Disposition;
+  recommended: Disposition | null;
+  overridden: Generated<boolean>;
+  reason: Text;
+  decidedBy: string | null;
+  decidedAt: Timestamp;
+}
+
+export interface AuditLogTable {
+  id: Generated<number>;
+  siteId: string;
+  entityType: string;
+  entityId: string;
+  boardId: string | null;
+  positionId: string | null;
+  action: string;
+  actorId: string | null;
+  at: Timestamp;
+  before: ColumnType<unknown, string | null | undefined, string | null>;
+  after: ColumnType<unknown, string | null | undefined, string | null>;
+}
+
+export interface DefectsTable extends Versioned {
+  boardId: string;
+  sectionId: string | null;
+  positionId: string | null;
+  componentId: string | null;
+  inspectionId: string | null;
+  title: string;
+  description: Text;
+  category: DefectCategory;
+  severity: DefectSeverity;
+  safetyCritical: Generated<boolean>;
+  blocksEnergisation: Generated<boolean>;
+  effortHours: Num;
+  costEstimate: Num;
+  partsNeeded: Text;
+  partsState: Generated<"none_needed" | "in_hand" | "wanted" | "unobtainable">;
+  assigneeId: string | null;
+  dueOn: string | null;
+  status: Generated<DefectStatus>;
+  statusReason: Text;
+  repairedBy: string | null;
+  verifiedBy: string | null;
+  closedAt: Date | null;
+  createdBy: string | null;
+  /** priorityScore() of src/domain/priority.ts, stored on every write so the register sorts by it. */
+  priorityScore: Generated<number>;
+}
+
+export interface PhotosTable extends Versioned {
+  boardId: string | null;
+  positionId: string | null;
+  componentId: string | null;
+  defectId: string | null;
+  inspectionId: string | null;
+  kind: Generated<PhotoKind>;
+  caption: Text;
+  originalName: Text;
+  format: string;
+  width: number;
+  height: number;
+  bytes: number;
+  capturedAt: Date | null;
+  cameraModel: Text;
+  originalKey: string;
+  displayKey: string;
+  thumbKey: string;
+  uploadedBy: string | null;
+  deletedAt: Date | null;
+}
+
 export interface Database {
   users: UsersTable;
   sessions: SessionsTable;
   sites: SitesTable;
   memberships: MembershipsTable;
+  floodEvents: FloodEventsTable;
+  boards: BoardsTable;
+  sections: SectionsTable;
+  positions: PositionsTable;
+  components: ComponentsTable;
+  inspections: InspectionsTable;
+  custodyMoves: CustodyMovesTable;
+  dispositionDecisions: DispositionDecisionsTable;
+  auditLog: AuditLogTable;
+  defects: DefectsTable;
+  photos: PhotosTable;
 }
 
 export type User = Selectable<UsersTable>;

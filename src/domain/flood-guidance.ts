@@ -67,7 +67,12 @@ function validate(input: FloodInput): void {
   if (input.insulation !== undefined) requireOneOf("insulation", input.insulation, INSULATION_STATES);
   if (input.mechanism !== undefined) requireOneOf("mechanism", input.mechanism, MECHANISM);
   if (input.heritage !== undefined) requireOneOf("heritage", input.heritage, HERITAGE);
-  if (input.hoursSubmerged !== undefined) requireNumber("hoursSubmerged", input.hoursSubmerged, { min: 0 });
+  if (input.hoursSubmerged !== undefined) {
+    requireNumber("hoursSubmerged", input.hoursSubmerged, { min: 0 });
+    if (input.hoursSubmerged > 0 && !input.belowWaterLine) {
+      throw new RangeError("hoursSubmerged above 0 contradicts belowWaterLine = false");
+    }
+  }
 }
 
 /** Step 1: exposure — water line, water inside, salt or sewage. */
@@ -115,7 +120,8 @@ function condition(input: FloodInput, start: Disposition, reasons: string[]): Di
  * rebuild. (3) An original part that would be replaced → source, since originals are
  * no longer made. Submersion time is recorded but sets no threshold (the guide gives none).
  * Source: FLOOD_GUIDANCE_SOURCE (from memory of NEMA GD 1 / NFPA 70B).
- * @throws RangeError for values outside the vocab lists, negative hours, bad percent
+ * @throws RangeError for values outside the vocab lists, negative hours, hours submerged
+ *   for a part above the water line, or a percentRusted outside 0–100
  */
 export function recommendDisposition(input: FloodInput): FloodRecommendation {
   validate(input);

@@ -63,6 +63,7 @@ describe("recommendDisposition — scenarios", () => {
     ["modern fuse stays replace", { kind: "fuse", heritage: "modern" }, "replace", "fuse"],
     ["original, clean above the line", { belowWaterLine: false, heritage: "original" }, "clean", "clean and inspect"],
     ["hours submerged recorded only", { hoursSubmerged: 72 }, "rebuild", "Bus structure"],
+    ["zero hours above the line is consistent", { belowWaterLine: false, hoursSubmerged: 0 }, "clean", "Above the water line"],
   ] as Array<[string, Partial<FloodInput>, Disposition, string]>)("%s → %s", (_label, over, disposition, reasonPart) => {
     const r = recommendDisposition(at(over));
     expect(r.disposition).toBe(disposition);
@@ -110,6 +111,7 @@ describe("recommendDisposition — errors", () => {
     [{ mechanism: "wobbly" }],
     [{ heritage: "antique" }],
     [{ hoursSubmerged: -1 }],
+    [{ hoursSubmerged: 5, belowWaterLine: false }], // submerged yet above the line: contradictory
     [{ percentRusted: 120 }],
     [{ belowWaterLine: "yes" }],
   ])("rejects %o with RangeError", (over) => {

@@ -14,6 +14,8 @@ import {
 } from "../../src/domain/insulation";
 
 describe("ieee43CorrectionTo40C", () => {
+  // Formula as quoted from IEEE 43-2013 by insulationtesting.com ("R40 = R_measured × 0.5^((40 − T)/10)")
+  // and electricneutron.com ("doubled for every 10 °C decrease in winding temperature").
   it.each([
     [100, 40, 100], // IEEE Std 43-2000: K_T = 1 at the 40 °C base
     [100, 30, 50], // IEEE Std 43: resistance doubles per 10 °C fall, so a 30 °C reading halves

@@ -1,0 +1,50 @@
+import type { Db } from "./db";
+
+export interface AuditEntry {
+  siteId: string;
+  entityType: string;
+  entityId: string;
+  action: string;
+  actorId: string | null;
+  boardId?: string | null;
+  positionId?: string | null;
+  before?: unknown;
+  after?: unknown;
+}
+
+/** Dates and undefined become JSON-safe; only the fields that changed are kept by diff(). */
+const json = (v: unknown) => (v === undefined || v === null ? null : JSON.stringify(v));
+
+/** Records who changed what (before/after) in the same transaction as the change. */
+export async function recordAudit(db: Db, e: AuditEntry) {
+  await db
+    .insertInto("auditLog")
+    .values({
+      siteId: e.siteId,
+      entityType: e.entityType,
+      entityId: e.entityId,
+      action: e.action,
+      actorId: e.actorId,
+      boardId: e.boardId ?? null,
+      positionId: e.positionId ?? null,
+      before: json(e.before),
+      after: json(e.after),
+    })
+    .execute();
+}
+
+/** The changed fields of an update, as { before, after } holding only those keys. */
+export function diff<T extends Record<string, unknown>>(before: T, patch: Partial<T>) {
+  const b: Record<string, unknown> = {};
+  const a: Record<string, unknown> = {};
+  for (const [k, v] of Object.entries(patch)) {
+    if (v === undefined) continue;
+    const old = before[k];
+    const same = old instanceof Date && v instanceof Date ? old.getTime() === v.getTime() : JSON.stringify(old) === JSON.stringify(v);
+    if (!same) {
+      b[k] = old;
+      a[k] = v;
+    }
+  }
+  return { before: b, after: a, changed: Object.keys(a).length > 0 };
+}
