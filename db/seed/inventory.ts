@@ -102,6 +102,7 @@ class SurveyBuilder {
   private n = 0;
   private tag = 401;
   private overrides = 0;
+  private dryOverrides = 0;
   constructor(private siteId: string, private rnd: Rnd, private volunteer: string, private curator: string) {}
 
   log(s: { boardId: string; positionId: string | null } | null, entityType: string, entityId: string, action: string, actorId: string, at: Date, before: unknown, after: unknown) {
@@ -157,10 +158,12 @@ class SurveyBuilder {
     let disposition = recommended;
     let reason = "";
     const alt = s.board.waterLineMm === null && recommended === "rebuild" ? DRY_INSIDE : OVERRIDE[recommended];
-    if (alt && (this.n % 9 === 4 || (alt === DRY_INSIDE && this.n % 4 === 1)) && this.overrides < 12) {
+    const dry = alt === DRY_INSIDE;
+    if (alt && (dry ? this.n % 4 === 1 && this.dryOverrides < 3 : this.n % 9 === 4 && this.overrides < 8)) {
       disposition = alt.to;
       reason = alt.reason;
-      this.overrides++;
+      if (dry) this.dryOverrides++;
+      else this.overrides++;
     }
     const decidedAt = new Date((latest.inspectedAt as Date).getTime() + 86_400_000);
     const overridden = disposition !== recommended;
