@@ -83,6 +83,17 @@ describe("CSV import", () => {
     expect([await count("boards"), await count("positions")]).toEqual(before);
   });
 
+  it("when two rows, or a row and an existing position, cover one grid cell, the later row is refused", async () => {
+    const file = csv([
+      "board,designation,kind,grid_row,grid_col,col_span",
+      "Forward board,T-1,transformer,3,1,2", // grid 6 × 8; row 3 is free on Forward board
+      "Forward board,T-2,fuse,3,2,", // inside T-1's span
+      "Forward board,T-3,fuse,1,1,", // 1-1 from the first test sits there
+    ]);
+    const r = await post("preview", file);
+    expect(r.body.rows.map((x: any) => x.errors.grid_col ?? null)).toEqual([null, "That grid cell is taken by T-1 (line 2)", "That grid cell is taken by 1-1"]);
+  });
+
   it("when the header lacks a required column, or the body is over 2 MB, it is refused before any row is read", async () => {
     const noKind = await post("preview", csv(["board,designation,grid_row,grid_col", "B,1,1,1"]));
     expect(noKind.status).toBe(400);
