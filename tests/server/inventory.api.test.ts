@@ -252,3 +252,34 @@ describe("flood events and the overview", () => {
     expect(r.body.originalRetainedPercent).toBeNull();
   });
 });
+
+describe("tile counts and deletions", () => {
+  it("a tile counts the position's photos that are not deleted and its defects that are neither closed nor won't-fix", async () => {
+    const board = await newBoard();
+    const { position, component } = await newPosition(board.id, { designation: "C-1" });
+    const photo = { siteId: fx.siteId, boardId: board.id, positionId: position.id, format: "jpeg", width: 10, height: 10, bytes: 100, originalKey: "o", displayKey: "d", thumbKey: "t" };
+    await t.db.insertInto("photos").values([photo, photo, { ...photo, deletedAt: new Date() }]).execute();
+    const defect = { siteId: fx.siteId, boardId: board.id, positionId: position.id, componentId: component.id, title: "Rust", category: "corrosion" as const, severity: "degraded" as const };
+    await t.db.insertInto("defects").values([
+      { ...defect, status: "open" }, { ...defect, status: "in_repair" }, { ...defect, status: "closed" }, { ...defect, status: "wont_fix" },
+    ]).execute();
+    const tile = (await as.viewer.get(`${base}/boards/${board.id}`)).body.positions[0];
+    expect([tile.photoCount, tile.openDefectCount]).toEqual([2, 2]);
+    const detail = (await as.viewer.get(`${base}/positions/${position.id}`)).body;
+    expect([detail.photoCount, detail.openDefectCount]).toEqual([2, 2]);
+  });
+
+  it("when a section is deleted its positions stay on the board without a section; a deleted position is gone but its audit remains", async () => {
+    const board = await newBoard();
+    const s = (await as.curator.post(`${base}/boards/${board.id}/sections`, { name: "Doomed" })).body;
+    const { position } = await newPosition(board.id, { sectionId: s.id });
+    expect((await as.curator.del(`${base}/sections/${s.id}?version=1`)).status).toBe(204);
+    expect((await as.viewer.get(`${base}/positions/${position.id}`)).body.position.sectionId).toBeNull();
+    expect((await as.curator.del(`${base}/positions/${position.id}?version=7`)).status).toBe(409);
+    expect((await as.curator.del(`${base}/positions/${position.id}?version=1`)).status).toBe(204);
+    expect((await as.viewer.get(`${base}/positions/${position.id}`)).status).toBe(404);
+    const audit = await t.db.selectFrom("auditLog").select(["action", "before"]).where("positionId", "=", position.id).orderBy("id").execute();
+    expect(audit.map((a) => a.action)).toEqual(["create", "delete"]);
+    expect(audit[1].before).toMatchObject({ id: position.id, component: { positionId: position.id } });
+  });
+});
