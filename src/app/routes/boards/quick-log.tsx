@@ -2,6 +2,7 @@ import { useState } from "react";
 import { Link, useSearchParams } from "react-router";
 import { SafetyNotice } from "../../../components/safety-notice";
 import { ErrorPanel, Loading } from "../../../components/status";
+import { RoleNotice } from "../../../features/inventory/components/role-notice";
 import { paths } from "../../../config/paths";
 import { tileBelowWaterLine } from "../../../domain/board-geometry";
 import { COMPONENT_KIND_LABELS, CUSTODY_LABELS, type Custody } from "../../../domain/vocab";
@@ -58,7 +59,7 @@ export default function QuickLogPage() {
     setMode("inspect");
     setSearch((s) => { if (id) s.set("position", id); else s.delete("position"); return s; });
   };
-  if (!canLog(role)) return <ErrorPanel error={null}>Your role reads the survey; volunteers and the curator log it.</ErrorPanel>;
+  if (!canLog(role)) return <RoleNotice>Your role reads the survey; volunteers and the curator log it.</RoleNotice>;
   return (
     <div className="mx-auto max-w-xl space-y-4">
       <h1 className="text-2xl font-bold">Quick log</h1>
