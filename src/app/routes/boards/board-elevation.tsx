@@ -35,7 +35,7 @@ export default function BoardElevationPage() {
   const tile = positions.find((t) => t.id === selected);
   return (
     <div className="space-y-4">
-      <nav aria-label="Breadcrumb" className="text-sm"><Link to={paths.boards.href(site.id)}>Boards</Link> / {board.name}</nav>
+      <nav aria-label="Breadcrumb" className="text-sm [&_a]:underline"><Link to={paths.boards.href(site.id)}>Boards</Link> / {board.name}</nav>
       <header className="flex flex-wrap items-end justify-between gap-3">
         <div>
           <h1 className="text-2xl font-bold">{board.name}</h1>

@@ -44,7 +44,7 @@ export default function BoardSetupPage() {
   const { board, sections, positions } = q.data;
   return (
     <div className="space-y-5">
-      <nav aria-label="Breadcrumb" className="text-sm">
+      <nav aria-label="Breadcrumb" className="text-sm [&_a]:underline">
         <Link to={paths.boards.href(site.id)}>Boards</Link> / <Link to={paths.board.href(site.id, board.id)}>{board.name}</Link> / set-up
       </nav>
       <h1 className="text-2xl font-bold">Set up {board.name}</h1>

@@ -60,13 +60,13 @@ export const BoardTile = forwardRef<HTMLButtonElement, Props>(function BoardTile
       <span className="mt-1 flex items-center gap-1 text-[11px] leading-none text-mist">
         <KindGlyph kind={t.kind} className="h-3.5 w-3.5 shrink-0" />
         {COMPONENT_KIND_SHORT[t.kind]}
-        {c?.ratingAmps != null && <span className="text-fog">{c.ratingAmps} A</span>}
+        {c?.ratingAmps != null && <span className="whitespace-nowrap text-fog">{c.ratingAmps} A</span>}
       </span>
       <span className="mt-auto flex flex-wrap items-end gap-1 pt-1">
         <span className={`rounded px-1 font-mono text-[11px] font-bold leading-4 ${gradeTone(grade)}`}>{grade == null ? "G –" : `G${grade}`}</span>
         <span className={`rounded border px-1 text-[10px] leading-[14px] ${DISPOSITION_STYLE[disp].chip}`}>
           <span aria-hidden="true">{DISPOSITION_STYLE[disp].mark} </span>
-          {disp === "undecided" ? "open" : DISPOSITION_LABELS[disp].toLowerCase()}
+          {disp === "undecided" ? "undecided" : DISPOSITION_LABELS[disp].toLowerCase()}
         </span>
       </span>
       {out && <span className="mt-0.5 truncate text-[10px] font-semibold uppercase leading-3 tracking-wide text-chalk">{CUSTODY_SHORT[c.custody]}</span>}

@@ -59,7 +59,7 @@ export function DispositionControl({ siteId, component, recommendation, canDecid
       <h3 id="disp-title" className="text-base font-bold">Disposition</h3>
       <p className="text-sm">
         Decided: <strong>{component.disposition ? DISPOSITION_LABELS[component.disposition] : "not yet"}</strong>
-        {component.dispositionOverridden && <span className="ml-2 rounded bg-brass-700 px-1 text-xs text-brass-300">override</span>}
+        {component.dispositionOverridden && <span className="ml-2 rounded bg-brass-300 px-1 text-xs font-semibold text-hull-950">override</span>}
         {component.dispositionReason && <span className="block text-mist">“{component.dispositionReason}”</span>}
       </p>
       <Recommendation rec={recommendation} />

@@ -8,10 +8,10 @@ import { custodyPattern, DISPOSITION_STYLE, gradeBar } from "./tile-style";
 const pct = (n: number, of: number) => (of ? Math.round((n / of) * 100) : 0);
 
 /** One labelled bar: the number is always written out; the bar only repeats it. */
-function Bar({ label, n, of, fill, style }: { label: React.ReactNode; n: number; of: number; fill: string; style?: React.CSSProperties }) {
+function Bar({ label, n, of, fill, style, stacked }: { label: React.ReactNode; n: number; of: number; fill: string; style?: React.CSSProperties; stacked?: boolean }) {
   return (
-    <li className="grid grid-cols-[minmax(7rem,10rem)_1fr_4.5rem] items-center gap-2 text-sm">
-      <span className="truncate">{label}</span>
+    <li className={`grid items-center gap-x-2 text-sm ${stacked ? "grid-cols-[1fr_4.5rem]" : "grid-cols-[minmax(7rem,10rem)_1fr_4.5rem]"}`}>
+      <span className={stacked ? "col-span-2" : "truncate"}>{label}</span>
       <span className="h-3 overflow-hidden rounded-full bg-hull-700" aria-hidden="true">
         <span className={`block h-full rounded-full ${fill}`} style={{ width: `${pct(n, of)}%`, ...style }} />
       </span>
@@ -81,7 +81,7 @@ export function ProgressSummary({ siteId, boardHref }: { siteId: string; boardHr
         <Card title="By board">
           <ul className="space-y-1.5">
             {o.boards.map((b) => (
-              <Bar key={b.id} of={b.positions} n={b.surveyed} fill="bg-brass-400"
+              <Bar key={b.id} of={b.positions} n={b.surveyed} fill="bg-brass-400" stacked
                 label={<Link to={boardHref(b.id)} className="inline-flex min-h-6 items-center">{b.name}</Link>} />
             ))}
           </ul>

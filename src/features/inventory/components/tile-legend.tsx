@@ -31,7 +31,7 @@ export function TileLegend() {
                 <span className={`rounded border px-1 text-xs ${DISPOSITION_STYLE[d].chip}`}>{DISPOSITION_STYLE[d].mark} {DISPOSITION_LABELS[d].toLowerCase()}</span>
               </li>
             ))}
-            <li><span className={`rounded border px-1 text-xs ${DISPOSITION_STYLE.undecided.chip}`}>· open</span> not decided</li>
+            <li><span className={`rounded border px-1 text-xs ${DISPOSITION_STYLE.undecided.chip}`}>· undecided</span> not decided yet</li>
             <li className="flex items-center gap-2">
               <span aria-hidden="true" className="relative inline-block h-5 w-7 rounded bg-hull-800 ring-1 ring-hull-600">
                 <span className="absolute right-0 top-0 border-l-[10px] border-t-[10px] border-l-transparent border-t-brass-300" />

@@ -9,10 +9,10 @@ import type { Custody, Disposition } from "../../../domain/vocab";
 
 /** Grade bands grouping ASTM D610 grades for the elevation (Tideline's own grouping). */
 export const GRADE_BANDS = [
-  { key: "sound", label: "Sound (10–8)", min: 8, max: 10, tone: "bg-kelp-700 text-kelp-300", bar: "bg-kelp-400" },
-  { key: "spotted", label: "Spotted (7–5)", min: 5, max: 7, tone: "bg-brass-700 text-brass-300", bar: "bg-brass-400" },
-  { key: "rusting", label: "Rusting (4–3)", min: 3, max: 4, tone: "bg-rust-700 text-rust-300", bar: "bg-rust-400" },
-  { key: "heavy", label: "Heavy rust (2–0)", min: 0, max: 2, tone: "bg-flare-700 text-flare-300", bar: "bg-flare-400" },
+  { key: "sound", label: "Sound (10–8)", min: 8, max: 10, tone: "bg-kelp-400 text-hull-950", bar: "bg-kelp-400" },
+  { key: "spotted", label: "Spotted (7–5)", min: 5, max: 7, tone: "bg-brass-400 text-hull-950", bar: "bg-brass-400" },
+  { key: "rusting", label: "Rusting (4–3)", min: 3, max: 4, tone: "bg-rust-400 text-hull-950", bar: "bg-rust-400" },
+  { key: "heavy", label: "Heavy rust (2–0)", min: 0, max: 2, tone: "bg-flare-400 text-hull-950", bar: "bg-flare-400" },
 ] as const;
 export type GradeBandKey = (typeof GRADE_BANDS)[number]["key"] | "ungraded";
 
