@@ -9,7 +9,7 @@ import { ElevationFilters, NO_FILTERS, tileMatches, type TileFilters } from "../
 import { PositionPanel } from "../../../features/inventory/components/position-panel";
 import { TileLegend } from "../../../features/inventory/components/tile-legend";
 import { defectHref } from "../../../features/inventory/defect-link";
-import { canCurate } from "../../../features/inventory/roles";
+import { canCurate, canLog } from "../../../features/inventory/roles";
 import { useSiteContext } from "../sites/site-layout";
 
 export default function BoardElevationPage() {
@@ -64,7 +64,7 @@ export default function BoardElevationPage() {
           canDecide={canCurate(role)}
           onClose={close}
           links={{
-            quickLog: paths.quickLog.href(site.id, selected),
+            quickLog: canLog(role) ? paths.quickLog.href(site.id, selected) : undefined,
             setup: canCurate(role) ? paths.boardSetup.href(site.id, board.id, selected) : undefined,
             defect: role !== "viewer" ? defectHref(site.id, { positionId: selected, componentId: tile?.component?.id }) : undefined,
           }}

@@ -51,13 +51,17 @@ export default function BoardSetupPage() {
       <BoardForm key={board.version} siteId={site.id} board={board} />
       <SectionsEditor siteId={site.id} boardId={board.id} sections={sections} />
       <GeneratePositions siteId={site.id} boardId={board.id} sections={sections} gridRows={board.gridRows} />
-      {editing && <EditPosition siteId={site.id} data={q.data} positionId={editing} onClose={() => edit(null)} />}
-      <details className="rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
-        <summary className="min-h-8 cursor-pointer text-lg font-bold">Add one position</summary>
-        <div className="mt-3"><PositionForm siteId={site.id} boardId={board.id} position={null} sections={sections} /></div>
-      </details>
-      <PositionOrderList siteId={site.id} boardId={board.id} sections={sections} positions={positions} selectedId={editing}
-        onEdit={(id) => { edit(id); window.scrollTo({ top: 0, behavior: "smooth" }); }} />
+      <div className="grid items-start gap-5 xl:grid-cols-[minmax(0,1fr)_30rem]">
+        <PositionOrderList siteId={site.id} boardId={board.id} sections={sections} positions={positions} selectedId={editing}
+          onEdit={(id) => { edit(id); setTimeout(() => document.getElementById("position-editor")?.scrollIntoView({ block: "start" }), 50); }} />
+        <div id="position-editor" className="order-first space-y-5 xl:order-none xl:sticky xl:top-2 xl:max-h-[calc(100dvh-1rem)] xl:overflow-y-auto">
+          {editing && <EditPosition siteId={site.id} data={q.data} positionId={editing} onClose={() => edit(null)} />}
+          <details className="rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700" open={!editing}>
+            <summary className="min-h-8 cursor-pointer text-lg font-bold">Add one position</summary>
+            <div className="mt-3"><PositionForm siteId={site.id} boardId={board.id} position={null} sections={sections} /></div>
+          </details>
+        </div>
+      </div>
     </div>
   );
 }

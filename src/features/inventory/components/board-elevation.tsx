@@ -31,7 +31,7 @@ function WaterLine({ board }: { board: Board }) {
   const top = waterLineFromTop(board.waterLineMm, board.faceHeightMm) * 100;
   return (
     <div aria-hidden="true" className="pointer-events-none absolute inset-x-0 bottom-0 z-10" style={{ top: `${top}%` }}>
-      <div className="absolute inset-0 bg-tide-700/20" />
+      <div className="absolute inset-0 bg-tide-400/15 [background-image:repeating-linear-gradient(0deg,rgba(106,168,242,0.10)_0_1px,transparent_1px_10px)]" />
       <svg className="absolute -top-2 left-0 h-4 w-full" preserveAspectRatio="none" viewBox="0 0 100 8">
         <path d="M0 4 Q 2.5 0 5 4 T 10 4 T 15 4 T 20 4 T 25 4 T 30 4 T 35 4 T 40 4 T 45 4 T 50 4 T 55 4 T 60 4 T 65 4 T 70 4 T 75 4 T 80 4 T 85 4 T 90 4 T 95 4 T 100 4"
           fill="none" className="stroke-tide-300" strokeWidth="1.4" vectorEffect="non-scaling-stroke" />

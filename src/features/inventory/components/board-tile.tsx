@@ -54,22 +54,22 @@ export const BoardTile = forwardRef<HTMLButtonElement, Props>(function BoardTile
       {c?.dispositionOverridden && (
         <span aria-hidden="true" className="absolute right-0 top-0 h-0 w-0 border-l-[14px] border-t-[14px] border-l-transparent border-t-brass-300" />
       )}
-      <span className="flex items-center gap-1">
-        <span className="font-mono text-sm font-bold leading-none tracking-tight">{t.designation}</span>
+      <span className="flex items-start justify-between gap-1 pr-2">
+        <span className="min-w-0 truncate whitespace-nowrap font-mono text-[13px] font-bold leading-4 tracking-tight">{t.designation}</span>
+        <span className={`shrink-0 rounded px-1 font-mono text-[11px] font-bold leading-4 ${gradeTone(grade)}`}>{grade == null ? "G –" : `G${grade}`}</span>
       </span>
-      <span className="mt-1 flex items-center gap-1 text-[11px] leading-none text-mist">
+      <span className="mt-1 flex items-center gap-1 whitespace-nowrap text-[11px] leading-none text-mist">
         <KindGlyph kind={t.kind} className="h-3.5 w-3.5 shrink-0" />
         {COMPONENT_KIND_SHORT[t.kind]}
-        {c?.ratingAmps != null && <span className="whitespace-nowrap text-fog">{c.ratingAmps} A</span>}
+        {c?.ratingAmps != null && <span className="text-fog">{c.ratingAmps} A</span>}
       </span>
-      <span className="mt-auto flex flex-wrap items-end gap-1 pt-1">
-        <span className={`rounded px-1 font-mono text-[11px] font-bold leading-4 ${gradeTone(grade)}`}>{grade == null ? "G –" : `G${grade}`}</span>
-        <span className={`rounded border px-1 text-[10px] leading-[14px] ${DISPOSITION_STYLE[disp].chip}`}>
+      <span className="mt-auto pt-1">
+        <span className={`inline-block whitespace-nowrap rounded border bg-hull-900/80 px-1 text-[10px] leading-[14px] ${DISPOSITION_STYLE[disp].chip}`}>
           <span aria-hidden="true">{DISPOSITION_STYLE[disp].mark} </span>
           {disp === "undecided" ? "undecided" : DISPOSITION_LABELS[disp].toLowerCase()}
         </span>
       </span>
-      {out && <span className="mt-0.5 truncate text-[10px] font-semibold uppercase leading-3 tracking-wide text-chalk">{CUSTODY_SHORT[c.custody]}</span>}
+      {out && <span className={`mt-0.5 truncate text-[10px] ${t.photoCount > 0 || t.openDefectCount > 0 ? "pr-8" : ""} font-semibold uppercase leading-3 tracking-wide text-chalk`}>{CUSTODY_SHORT[c.custody]}</span>}
       {(t.photoCount > 0 || t.openDefectCount > 0) && (
         <span className="absolute bottom-1 right-1 flex gap-0.5" aria-hidden="true">
           {t.photoCount > 0 && (

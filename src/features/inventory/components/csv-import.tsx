@@ -44,7 +44,7 @@ export function CsvImport({ siteId }: { siteId: string }) {
         <p className="font-semibold">{fileName ? `Chosen: ${fileName}` : "Drop the inventory spreadsheet here (saved as CSV)"}</p>
         <Button tone="quiet" className="mt-2" onClick={drop.open}>Choose a file</Button>
       </div>
-      <TextArea label="…or paste the CSV" rows={6} className="font-mono" value={csv}
+      <TextArea label="…or paste the CSV" rows={6} className="[&_textarea]:font-mono" value={csv}
         onChange={(e) => { setCsv(e.target.value); setFileName(null); setPreview(null); m.reset(); }}
         hint={<>Columns (any order, header row first): <span className="font-mono">{CSV_IMPORT_COLUMNS.join(", ")}</span>. Required: board, designation, kind, grid_row, grid_col.</>} />
       <div className="flex flex-wrap gap-2">

@@ -49,7 +49,7 @@ export function CustodyForm({ siteId, component, onSaved }: { siteId: string; co
           ))}
         </div>
       </fieldset>
-      {needsTag && <TextField label="Tag number on the bag" value={tag} onChange={(e) => setTag(e.target.value)} error={err?.fields.tagNumber} className="font-mono" />}
+      {needsTag && <TextField label="Tag number on the bag" value={tag} onChange={(e) => setTag(e.target.value)} error={err?.fields.tagNumber} className="[&_input]:font-mono" />}
       <TextField label="Where is it now?" placeholder="e.g. workshop bench 2, crate B" value={location} onChange={(e) => setLocation(e.target.value)} error={err?.fields.location} />
       <TextField label="Note (optional)" value={note} onChange={(e) => setNote(e.target.value)} error={err?.fields.note} />
       {conflict && (

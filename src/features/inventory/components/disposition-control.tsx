@@ -87,7 +87,7 @@ export function DispositionControl({ siteId, component, recommendation, canDecid
           )}
           {decide.isError && !conflict && !fieldError && <p role="alert" className="text-sm text-flare-300">{(decide.error as Error).message}</p>}
           {decide.isSuccess && <p role="status" className="text-sm text-kelp-300">Saved.</p>}
-          <Button type="submit" disabled={!choice || decide.isPending}>{overriding ? "Save override" : "Save disposition"}</Button>
+          <Button type="submit" disabled={!choice || decide.isPending || (choice === component.disposition && !reason.trim())}>{overriding ? "Save override" : "Save disposition"}</Button>
         </form>
       )}
     </section>

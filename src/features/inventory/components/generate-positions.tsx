@@ -24,7 +24,7 @@ export function GeneratePositions({ siteId, boardId, sections, gridRows }: { sit
     <form onSubmit={submit} aria-label="Generate a row of positions" className="rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
       <h2 className="text-lg font-bold">Generate a row</h2>
       <div className="mt-2 grid grid-cols-2 gap-3 sm:grid-cols-4 lg:grid-cols-7">
-        <TextField label="Prefix" className="font-mono" {...bind("prefix")} />
+        <TextField label="Prefix" className="[&_input]:font-mono" {...bind("prefix")} />
         <TextField label="From" inputMode="numeric" {...bind("from")} />
         <TextField label="To" inputMode="numeric" {...bind("to")} />
         <TextField label={`Grid row (1–${gridRows})`} inputMode="numeric" {...bind("gridRow")} />

@@ -39,7 +39,7 @@ export function NameplateForm({ siteId, component }: { siteId: string; component
         <TextField key={k} label={NAMEPLATE_LABELS[k]} inputMode={NUMERIC_NAMEPLATE.has(k) ? "decimal" : undefined} className={k === "maker" || k === "model" ? "col-span-2" : ""} {...bind(k)} />
       ))}
       <SelectField label="Heritage" className="col-span-2" {...bind("heritage")}>{HERITAGE.map((h) => <option key={h} value={h}>{HERITAGE_LABELS[h]}</option>)}</SelectField>
-      <TextField label="Tag number" className="font-mono" {...bind("tagNumber")} hint="Empty clears the tag." />
+      <TextField label="Tag number" className="[&_input]:font-mono" {...bind("tagNumber")} hint="Empty clears the tag." />
       <TextArea label="Notes" className="col-span-2 sm:col-span-4" {...bind("notes")} />
       {conflict && (
         <div className="col-span-2 sm:col-span-4">

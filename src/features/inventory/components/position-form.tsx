@@ -39,7 +39,7 @@ export function PositionForm({ siteId, boardId, position, sections, onDone }: {
   const submit = (e: FormEvent) => { e.preventDefault(); save(); };
   return (
     <form onSubmit={submit} aria-label={base ? `Position ${base.designation}` : "Add one position"} className="grid grid-cols-2 gap-3 sm:grid-cols-4">
-      <TextField label={LABELS.designation} className="font-mono" required {...bind("designation")} />
+      <TextField label={LABELS.designation} className="[&_input]:font-mono" required {...bind("designation")} />
       <SelectField label={LABELS.kind} {...bind("kind")}>{COMPONENT_KINDS.map((k) => <option key={k} value={k}>{COMPONENT_KIND_LABELS[k]}</option>)}</SelectField>
       <TextField label={LABELS.gridRow} inputMode="numeric" {...bind("gridRow")} />
       <TextField label={LABELS.gridCol} inputMode="numeric" {...bind("gridCol")} />

@@ -10,7 +10,7 @@ import { NAMEPLATE_LABELS, nameplateFieldsFor } from "./nameplate-fields";
 import { AuditHistory, CustodyTrail, InspectionSummary } from "./position-history";
 
 export interface PanelLinks {
-  quickLog: string;
+  quickLog?: string;
   setup?: string;
   defect?: string;
 }
@@ -73,7 +73,7 @@ export function PositionPanel({ siteId, positionId, canDecide, links, onClose }:
       {d && (
         <div className="mt-3">
           <nav aria-label="Position actions" className="flex flex-wrap gap-2 text-sm">
-            <Link className="inline-flex min-h-11 items-center rounded-md bg-brass-400 px-3 font-semibold text-hull-950 no-underline" to={links.quickLog}>Log inspection or move</Link>
+            {links.quickLog && <Link className="inline-flex min-h-11 items-center rounded-md bg-brass-400 px-3 font-semibold text-hull-950 no-underline" to={links.quickLog}>Log inspection or move</Link>}
             {links.defect && <Link className="inline-flex min-h-11 items-center rounded-md px-3 ring-1 ring-hull-600" to={links.defect}>Raise a defect</Link>}
             {links.setup && <Link className="inline-flex min-h-11 items-center rounded-md px-3 ring-1 ring-hull-600" to={links.setup}>Edit position</Link>}
           </nav>

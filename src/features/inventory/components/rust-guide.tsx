@@ -28,6 +28,13 @@ export function RustSwatch({ percent, grade }: { percent: number; grade: number 
 /** Percent used when a band is tapped: its upper bound (grade 0 has none, so three quarters). */
 export const bandPercent = (b: (typeof ASTM_D610_BANDS)[number]) => (b.grade === 0 ? 75 : b.maxPercent);
 
+/** The ISO 4628-3 degrees the band spans ("Ri 3–4" when its ends fall on different degrees). */
+function riRange(lower: number, b: (typeof ASTM_D610_BANDS)[number]): string {
+  const lo = iso4628RiGrade(b.grade === 10 ? 0 : Math.min(100, lower + 1e-6));
+  const hi = iso4628RiGrade(b.grade === 0 ? 100 : b.maxPercent);
+  return lo === hi ? lo : `${lo}–${hi.replace("Ri ", "")}`;
+}
+
 /** The ASTM D610 bands as tappable swatches with the grade and the nearest ISO 4628-3 Ri beside each. */
 export function RustGuide({ grade, onPick }: { grade: number | null; onPick: (percent: number) => void }) {
   return (
@@ -45,7 +52,7 @@ export function RustGuide({ grade, onPick }: { grade: number | null; onPick: (pe
           >
             <RustSwatch percent={shown} grade={b.grade} />
             <span className="min-w-0 flex-1">
-              <span className="block font-mono text-sm font-bold">G{b.grade} <span className="font-normal text-mist">{iso4628RiGrade(bandPercent(b))}</span></span>
+              <span className="block font-mono text-sm font-bold">G{b.grade} <span className="font-normal text-mist">{riRange(lower, b)}</span></span>
               <span className="block text-xs text-mist">{b.grade === 0 ? "> 50 %" : i === 0 ? `≤ ${b.maxPercent} %` : `${lower}–${b.maxPercent} %`}</span>
               <span className="hidden text-xs text-fog sm:block">{b.description}</span>
             </span>
