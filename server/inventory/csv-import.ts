@@ -1,7 +1,8 @@
 /**
  * POST /inventory/import: papaparse reads the file, each row is checked with zod, then
- * against the rest of the file and the database (duplicate designations per board,
- * duplicate tag numbers per site, the grid of an existing board). Unknown boards and
+ * against the rest of the file and the database (duplicate designations per board, two
+ * positions on one grid cell, duplicate tag numbers per site, the grid of an existing
+ * board). Unknown boards and
  * sections are created — the file is the crew's existing inventory, often of boards not
  * yet set up — and listed in the summary so the preview shows it. Preview writes nothing;
  * commit re-checks inside one transaction and writes all rows or none.
@@ -52,16 +53,35 @@ export function parseCsv(text: string): { rows: Parsed[]; ignoredColumns: string
 async function siteState(db: Db, siteId: string) {
   const boards = await db.selectFrom("boards").select(["id", "name", "gridRows", "gridCols"]).where("siteId", "=", siteId).execute();
   const sections = await db.selectFrom("sections").select(["id", "boardId", "name"]).where("siteId", "=", siteId).execute();
-  const designations = await db.selectFrom("positions").select(["boardId", sql<string>`lower(designation)`.as("d")]).where("siteId", "=", siteId).execute();
+  const designations = await db.selectFrom("positions").select(["boardId", "designation", sql<string>`lower(designation)`.as("d"), "gridRow", "gridCol", "rowSpan", "colSpan"]).where("siteId", "=", siteId).execute();
+  const cells = new Map<string, string>();
+  for (const p of designations) for (const c of cellsOf(p.boardId, p)) cells.set(c, p.designation);
   const tags = await db.selectFrom("components").select(sql<string>`lower(tag_number)`.as("t")).where("siteId", "=", siteId).where("tagNumber", "is not", null).execute();
   return {
     boards: new Map(boards.map((b) => [key(b.name), b])),
     sections: new Set(sections.map((s) => `${s.boardId}|${key(s.name)}`)),
     sectionIds: new Map(sections.map((s) => [`${s.boardId}|${key(s.name)}`, s.id])),
     designations: new Set(designations.map((d) => `${d.boardId}|${d.d}`)),
+    /** "boardId|row|col" → the designation covering that grid cell. */
+    cells,
     tags: new Set(tags.map((t) => t.t)),
   };
 }
+/** Every grid cell a position covers, span included. */
+function cellsOf(boardKey: string, p: { gridRow: number; gridCol: number; rowSpan: number; colSpan: number }) {
+  const out: string[] = [];
+  for (let r = p.gridRow; r < p.gridRow + p.rowSpan; r++) for (let c = p.gridCol; c < p.gridCol + p.colSpan; c++) out.push(`${boardKey}|${r}|${c}`);
+  return out;
+}
+
+/** A row whose cells another position already covers (in the database or earlier in the file). */
+function overlapError(cells: Map<string, string>, boardKey: string, rec: ImportRecord, line: number) {
+  const mine = cellsOf(boardKey, rec);
+  const hit = mine.map((c) => cells.get(c)).find((x) => x !== undefined);
+  if (hit === undefined) for (const c of mine) cells.set(c, `${rec.designation} (line ${line})`);
+  return hit === undefined ? null : `That grid cell is taken by ${hit}`;
+}
+
 export type SiteState = Awaited<ReturnType<typeof siteState>>;
 
 /** Checks every row; `records` holds the good ones in file order. */
@@ -94,6 +114,8 @@ export async function validateImport(db: Db, siteId: string, text: string) {
       }
       if (board && rec.gridRow + rec.rowSpan - 1 > board.gridRows) errors.grid_row = `The board has ${board.gridRows} rows`;
       if (board && rec.gridCol + rec.colSpan - 1 > board.gridCols) errors.grid_col = `The board has ${board.gridCols} columns`;
+      const overlap = Object.keys(errors).length ? null : overlapError(state.cells, boardKey, rec, p.line);
+      if (overlap) errors.grid_col = overlap;
       if (!board) boardsToCreate.add(rec.board);
       if (rec.section && !state.sections.has(`${boardKey}|${key(rec.section)}`)) sectionsToCreate.add(`${rec.board} / ${rec.section}`);
     }

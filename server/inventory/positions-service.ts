@@ -101,8 +101,17 @@ export async function patchPosition(db: Db, siteId: string, id: string, actorId:
     const after = await mapUnique(() => updateVersioned(trx, "positions", siteId, id, version, patch, "position"), UNIQUE.designation);
     const d = diff(before as never, patch as never);
     if (d.changed) await recordAudit(trx, { siteId, entityType: "position", entityId: id, boardId: before.boardId, positionId: id, action: "update", actorId, before: d.before, after: d.after });
+    if (patch.kind && patch.kind !== before.kind) await followKind(trx, siteId, before, patch.kind, actorId);
     return after;
   });
+}
+
+/** A slot set up with the wrong kind: its component follows, unless someone already gave it a kind of its own. */
+async function followKind(trx: Db, siteId: string, before: { id: string; boardId: string; kind: string }, kind: CreatePositionBody["kind"], actorId: string) {
+  const c = await repo.currentComponent(trx, before.id);
+  if (!c || c.kind !== before.kind) return;
+  await updateVersioned(trx, "components", siteId, c.id, c.version, { kind }, "component");
+  await recordAudit(trx, { siteId, entityType: "component", entityId: c.id, boardId: before.boardId, positionId: before.id, action: "update", actorId, before: { kind: c.kind }, after: { kind } });
 }
 
 /** Removes the position with its component and survey records; the audit keeps what it was. */

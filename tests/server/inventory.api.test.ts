@@ -218,3 +218,68 @@ describe("lookup", () => {
     expect((await as.volunteer.get(`${base}/positions/lookup?q=%25`)).body).toEqual([]); // a literal % matches nothing
   });
 });
+
+describe("flood events and the overview", () => {
+  it("when the curator records and corrects a flood event, the list shows the newest first and a stale edit gets 409", async () => {
+    const a = await as.curator.post(`${base}/flood-events`, { occurredOn: "2026-03-02", waterType: "fresh", maxDepthM: 0.4, hoursSubmerged: 6 });
+    const b = await as.curator.post(`${base}/flood-events`, { occurredOn: "2026-10-14", waterType: "salt", maxDepthM: 1.1, hoursSubmerged: 30, notes: "Harbour water" });
+    expect([a.status, b.status]).toEqual([201, 201]);
+    const list = await as.viewer.get(`${base}/flood-events`);
+    expect(list.body.map((f: any) => f.occurredOn)).toEqual(["2026-10-14", "2026-03-02"]);
+    const fix = await as.curator.patch(`${base}/flood-events/${b.body.id}`, { hoursSubmerged: 31, version: 1 });
+    expect(fix.body).toMatchObject({ hoursSubmerged: 31, version: 2 });
+    expect((await as.curator.patch(`${base}/flood-events/${b.body.id}`, { hoursSubmerged: 29, version: 1 })).status).toBe(409);
+    const bad = await as.curator.post(`${base}/flood-events`, { occurredOn: "14/10/2026", waterType: "lemonade", maxDepthM: -1 });
+    expect(bad.status).toBe(400);
+    expect(Object.keys(bad.body.error.fields).sort()).toEqual(["maxDepthM", "occurredOn", "waterType"]);
+  });
+
+  it("when a position's kind is corrected, its untouched component follows and the history says so", async () => {
+    const { position, component } = await newPosition((await newBoard()).id, { kind: "fuse" });
+    const r = await as.curator.patch(`${base}/positions/${position.id}`, { kind: "relay", version: 1 });
+    expect(r.body.kind).toBe("relay");
+    const d = (await as.viewer.get(`${base}/positions/${position.id}`)).body;
+    expect(d.component).toMatchObject({ id: component.id, kind: "relay", version: 2 });
+    expect(d.history.some((h: any) => h.entityType === "component" && h.after?.kind === "relay")).toBe(true);
+  });
+
+  it("on a site with no positions the overview is all zeros and the retained share is null", async () => {
+    const other = server.client();
+    await other.signIn(fx.crew.outsider.email);
+    const r = await other.get(`/api/sites/${fx.otherSiteId}/overview`);
+    expect(r.status).toBe(200);
+    expect(r.body.totals).toEqual({ positions: 0, surveyed: 0, bySurveyState: { not_surveyed: 0, inspected: 0, decided: 0 } });
+    expect(r.body.originalRetainedPercent).toBeNull();
+  });
+});
+
+describe("tile counts and deletions", () => {
+  it("a tile counts the position's photos that are not deleted and its defects that are neither closed nor won't-fix", async () => {
+    const board = await newBoard();
+    const { position, component } = await newPosition(board.id, { designation: "C-1" });
+    const photo = { siteId: fx.siteId, boardId: board.id, positionId: position.id, format: "jpeg", width: 10, height: 10, bytes: 100, originalKey: "o", displayKey: "d", thumbKey: "t" };
+    await t.db.insertInto("photos").values([photo, photo, { ...photo, deletedAt: new Date() }]).execute();
+    const defect = { siteId: fx.siteId, boardId: board.id, positionId: position.id, componentId: component.id, title: "Rust", category: "corrosion" as const, severity: "degraded" as const };
+    await t.db.insertInto("defects").values([
+      { ...defect, status: "open" }, { ...defect, status: "in_repair" }, { ...defect, status: "closed" }, { ...defect, status: "wont_fix" },
+    ]).execute();
+    const tile = (await as.viewer.get(`${base}/boards/${board.id}`)).body.positions[0];
+    expect([tile.photoCount, tile.openDefectCount]).toEqual([2, 2]);
+    const detail = (await as.viewer.get(`${base}/positions/${position.id}`)).body;
+    expect([detail.photoCount, detail.openDefectCount]).toEqual([2, 2]);
+  });
+
+  it("when a section is deleted its positions stay on the board without a section; a deleted position is gone but its audit remains", async () => {
+    const board = await newBoard();
+    const s = (await as.curator.post(`${base}/boards/${board.id}/sections`, { name: "Doomed" })).body;
+    const { position } = await newPosition(board.id, { sectionId: s.id });
+    expect((await as.curator.del(`${base}/sections/${s.id}?version=1`)).status).toBe(204);
+    expect((await as.viewer.get(`${base}/positions/${position.id}`)).body.position.sectionId).toBeNull();
+    expect((await as.curator.del(`${base}/positions/${position.id}?version=7`)).status).toBe(409);
+    expect((await as.curator.del(`${base}/positions/${position.id}?version=1`)).status).toBe(204);
+    expect((await as.viewer.get(`${base}/positions/${position.id}`)).status).toBe(404);
+    const audit = await t.db.selectFrom("auditLog").select(["action", "before"]).where("positionId", "=", position.id).orderBy("id").execute();
+    expect(audit.map((a) => a.action)).toEqual(["create", "delete"]);
+    expect(audit[1].before).toMatchObject({ id: position.id, component: { positionId: position.id } });
+  });
+});
