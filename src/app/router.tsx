@@ -22,6 +22,13 @@ export const router = createBrowserRouter([
         children: [
           { index: true, ...page(() => import("./routes/sites/site-home")) },
           { path: "members", ...page(() => import("./routes/sites/members")) },
+          { path: "boards", ...page(() => import("./routes/boards/board-list")) },
+          { path: "boards/new", ...page(() => import("./routes/boards/board-new")) },
+          { path: "boards/:boardId", ...page(() => import("./routes/boards/board-elevation")) },
+          { path: "boards/:boardId/setup", ...page(() => import("./routes/boards/board-setup")) },
+          { path: "log", ...page(() => import("./routes/boards/quick-log")) },
+          { path: "inventory/import", ...page(() => import("./routes/boards/inventory-import")) },
+          { path: "flood", ...page(() => import("./routes/boards/flood-events")) },
           { path: "*", ...page(() => import("./routes/not-found")) },
         ],
       },

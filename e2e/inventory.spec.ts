@@ -1,0 +1,135 @@
+import { expect, request, test, type APIRequestContext } from "@playwright/test";
+import { expectNoSeriousA11yViolations } from "./support/a11y";
+import { DEMO_PASSWORD, signIn } from "./support/auth";
+
+/**
+ * Each test makes its own small board through the API as the curator (the e2e database is
+ * shared and tests must not depend on order), then drives the screens as a person would.
+ * The board is 2000 mm tall in 4 rows with the flood line at 600 mm: row 4 was under water.
+ */
+interface Made { siteId: string; boardId: string; prefix: string }
+
+async function curatorApi(baseURL: string): Promise<APIRequestContext> {
+  const api = await request.newContext({ baseURL, extraHTTPHeaders: { Origin: baseURL } });
+  const r = await api.post("/api/auth/sign-in", { data: { email: "curator@tideline.test", password: DEMO_PASSWORD } });
+  expect(r.ok()).toBeTruthy();
+  return api;
+}
+
+async function makeBoard(baseURL: string): Promise<Made> {
+  const api = await curatorApi(baseURL);
+  const sites = (await (await api.get("/api/sites")).json()) as { sites: Array<{ id: string }> };
+  const siteId = sites.sites[0].id;
+  const prefix = `Z${Date.now().toString(36).slice(-5).toUpperCase()}-`;
+  const board = await api.post(`/api/sites/${siteId}/boards`, {
+    data: { name: `Test board ${prefix}`, faceHeightMm: 2000, waterLineMm: 600, gridRows: 4, gridCols: 6 },
+  });
+  expect(board.status()).toBe(201);
+  const { id: boardId } = (await board.json()) as { id: string };
+  const gen = await api.post(`/api/sites/${siteId}/boards/${boardId}/positions/generate`, {
+    data: { prefix, from: 1, to: 3, gridRow: 4, startCol: 1, kind: "molded_case_breaker" },
+  });
+  expect(gen.status()).toBe(201);
+  await api.dispose();
+  return { siteId, boardId, prefix };
+}
+
+test.describe("on a phone", () => {
+  test.use({ viewport: { width: 375, height: 812 } });
+
+  test("a volunteer logs an inspection and a removal through the quick log, and the board tile shows both", async ({ page, baseURL }) => {
+    const m = await makeBoard(baseURL!);
+    const designation = `${m.prefix}2`;
+    await signIn(page, "volunteer");
+    await page.getByRole("navigation", { name: "Site (phone)" }).getByRole("link", { name: "Quick log" }).click();
+    await expect(page.getByRole("heading", { level: 1, name: "Quick log" })).toBeVisible();
+
+    await page.getByLabel("Designation or tag number").fill(designation);
+    await page.getByRole("list", { name: "Matching positions" }).getByRole("button", { name: new RegExp(designation) }).click();
+    await expect(page.getByTestId("log-designation")).toHaveText(designation);
+
+    // row 4 of a 4-row, 2000 mm face reaches 0–500 mm, under the 600 mm line: prefilled "below"
+    await expect(page.getByRole("button", { name: "Yes, below" })).toHaveAttribute("aria-pressed", "true");
+    await page.getByLabel("Surface rusted (%)").fill("12");
+    // ASTM D610-08 Table 1: 12 % lies in "> 10 up to 16" → grade 3; ISO 4628-3 nearest point 8 % → Ri 4
+    await expect(page.locator("#percent-grade")).toContainText("grade 3");
+    await expect(page.locator("#percent-grade")).toContainText("Ri 4");
+    await page.getByRole("button", { name: "Salt crust" }).click();
+    await page.getByRole("button", { name: "Not tried" }).click();
+    await expectNoSeriousA11yViolations(page, "quick log form");
+    await page.getByRole("button", { name: "Save inspection" }).click();
+    await expect(page.getByTestId("logged")).toContainText("Inspection saved — grade 3 · Ri 4");
+    await expect(page.getByRole("link", { name: "Raise a defect" })).toHaveAttribute("href", /category=corrosion/);
+
+    await page.getByRole("tab", { name: "Move the part" }).click();
+    await expect(page.getByRole("button", { name: "Removed (tagged)", exact: true })).toHaveAttribute("aria-pressed", "true");
+    await page.getByLabel("Tag number on the bag").fill(`T-${m.prefix}2`);
+    await page.getByLabel("Where is it now?").fill("Crate B, engine-room flat");
+    await page.getByRole("button", { name: /Save move/ }).click();
+    await expect(page.getByTestId("logged")).toContainText("Move saved — now Removed (tagged)");
+    await expect(page.getByTestId("custody-now")).toHaveText("Removed (tagged)");
+
+    await page.getByRole("link", { name: "See it on the board" }).click();
+    const tile = page.getByTestId(`tile-${designation}`);
+    await expect(tile).toContainText("G3");
+    await expect(tile).toContainText("out · tagged");
+    await expect(page.getByTestId("position-panel")).toContainText("Crate B, engine-room flat");
+  });
+});
+
+test("the curator overrides a disposition with a reason; the tile and the position history update", async ({ page, baseURL }) => {
+  const m = await makeBoard(baseURL!);
+  const designation = `${m.prefix}1`;
+  await signIn(page, "curator");
+  await page.goto(`/sites/${m.siteId}/boards/${m.boardId}`);
+  const tile = page.getByTestId(`tile-${designation}`);
+  await expect(tile).toContainText("undecided");
+
+  // arrow keys move between tiles, Enter opens one
+  await page.getByTestId(`tile-${m.prefix}2`).focus();
+  await page.keyboard.press("ArrowLeft");
+  await expect(tile).toBeFocused();
+  await page.keyboard.press("Enter");
+  const panel = page.getByTestId("position-panel");
+  await expect(panel.getByRole("heading", { name: designation })).toBeVisible();
+
+  const recommended = (await panel.getByTestId("recommendation").locator("strong").innerText()).trim();
+  const choice = recommended === "Rebuild" ? "Replace" : "Rebuild";
+  await panel.getByRole("radio", { name: new RegExp(`^${choice}`) }).check();
+  await panel.getByRole("button", { name: "Save override" }).click();
+  await expect(panel.getByText("Say why you are overriding the recommendation")).toBeVisible();
+  await panel.getByLabel(/Why override/).fill("Keep the original breaker: rebuild under the qualified electrician.");
+  await panel.getByRole("button", { name: "Save override" }).click();
+  await expect(panel.getByRole("status").filter({ hasText: "Saved." })).toBeVisible();
+
+  await expect(tile).toContainText(choice.toLowerCase());
+  await expect(tile).toHaveAttribute("aria-label", new RegExp(`${choice} \\(override\\)`));
+  await expect(panel.getByTestId("position-history")).toContainText(choice.toLowerCase());
+  await expect(panel).toContainText("Keep the original breaker");
+  await expectNoSeriousA11yViolations(page, "board elevation with the position panel");
+});
+
+test("filters dim the tiles that do not match, without hiding them", async ({ page, baseURL }) => {
+  const m = await makeBoard(baseURL!);
+  await signIn(page, "viewer");
+  await page.goto(`/sites/${m.siteId}/boards/${m.boardId}`);
+  const tile = page.getByTestId(`tile-${m.prefix}1`);
+  await expect(tile).toBeVisible();
+  await page.getByLabel("Kind", { exact: true }).selectOption("meter");
+  await expect(tile).toHaveAttribute("data-dimmed", "true");
+  await expect(tile).toBeVisible();
+  await page.getByLabel("Kind", { exact: true }).selectOption("molded_case_breaker");
+  await expect(tile).not.toHaveAttribute("data-dimmed", "true");
+  // a viewer sees no write controls
+  await expect(page.getByRole("link", { name: "Set up this board" })).toHaveCount(0);
+  await expectNoSeriousA11yViolations(page, "board elevation");
+});
+
+test("every role sees the survey progress on the site overview, and it passes the accessibility scan", async ({ page }) => {
+  await signIn(page, "viewer");
+  const summary = page.getByTestId("progress-summary");
+  await expect(summary.getByRole("heading", { name: "Survey progress" })).toBeVisible();
+  await expect(summary.getByTestId("surveyed-count")).toContainText("/");
+  await expect(summary.getByRole("region", { name: "By disposition" })).toContainText("Not decided");
+  await expectNoSeriousA11yViolations(page, "site overview");
+});
