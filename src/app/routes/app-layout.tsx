@@ -26,6 +26,7 @@ export default function AppLayout() {
         <nav aria-label="Account" className="flex items-center gap-3 text-sm">
           {(memberships.length > 1 || user.isAdmin) && <Link to={paths.sites.href()}>Sites</Link>}
           {user.isAdmin && <Link to={paths.admin.href()}>Admin</Link>}
+          <Link to={paths.account.href()}>Account</Link>
           <span className="hidden text-mist sm:inline" data-testid="user-name">{user.name}</span>
           <button
             type="button"
