@@ -9,6 +9,7 @@ const time = (iso: string) => new Date(iso).toLocaleString(undefined, { dateStyl
 const linksIn = (text: string) => [...new Set(text.match(/https?:\/\/[^\s<>"]+/g) ?? [])];
 
 function Message({ m }: { m: MailboxMessage }) {
+  const [part, setPart] = useState<"text" | "html">("text");
   // The HTML part in a sandbox with no scripts; <base target=_top> lets a click on its link open here.
   const srcDoc = m.html ? `<base target="_top">${m.html}` : "";
   return (
@@ -27,14 +28,18 @@ function Message({ m }: { m: MailboxMessage }) {
           </ul>
         </div>
       )}
-      <h3 className="font-semibold">HTML part</h3>
-      {m.html ? (
+      <div role="group" aria-label="Which part to show" className="flex gap-2">
+        <Button tone={part === "text" ? "primary" : "quiet"} aria-pressed={part === "text"} onClick={() => setPart("text")}>Text part</Button>
+        <Button tone={part === "html" ? "primary" : "quiet"} aria-pressed={part === "html"} onClick={() => setPart("html")} disabled={!m.html}>
+          {m.html ? "HTML part" : "No HTML part"}
+        </Button>
+      </div>
+      {part === "html" && m.html ? (
+        // Mounted only when asked for: a sandboxed frame cannot run scripts, nor be scanned by them.
         <iframe title={`HTML part of “${m.subject}”`} sandbox="allow-top-navigation-by-user-activation" srcDoc={srcDoc} className="h-96 w-full rounded-md bg-white" />
       ) : (
-        <p className="text-mist">This message has no HTML part.</p>
+        <pre className="max-h-96 overflow-auto whitespace-pre-wrap break-words rounded-md bg-hull-900 p-3 font-mono text-sm">{m.text}</pre>
       )}
-      <h3 className="font-semibold">Text part</h3>
-      <pre className="max-h-96 overflow-auto whitespace-pre-wrap break-words rounded-md bg-hull-900 p-3 font-mono text-sm">{m.text}</pre>
     </article>
   );
 }
@@ -69,7 +74,7 @@ export function MailboxView() {
           ))}
         </ul>
       </div>
-      <Message m={open} />
+      <Message key={open.id} m={open} />
     </div>
   );
 }
