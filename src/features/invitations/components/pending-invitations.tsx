@@ -44,12 +44,14 @@ export function PendingInvitations({ siteId }: { siteId: string }) {
               </span>
               <span className="mt-1 block"><SendState inv={inv} /></span>
             </span>
+            <span className="flex gap-2">
             <Button tone="quiet" disabled={resend.isPending} onClick={() => { setError(null); resend.mutate(inv.id, { onError: fail }); }}>
               Resend<span className="sr-only"> to {inv.email}</span>
             </Button>
             <Button tone="quiet" onClick={() => confirm(`Withdraw the invitation for ${inv.email}? The link stops working.`) && revoke.mutate(inv.id, { onError: fail })}>
               Revoke<span className="sr-only"> the invitation for {inv.email}</span>
             </Button>
+            </span>
           </li>
         ))}
       </ul>
