@@ -1,3 +1,5 @@
+import { Link } from "react-router";
+import { paths } from "../../../config/paths";
 import { useSession } from "../../../features/auth/api";
 import { NotificationSwitches } from "../../../features/notification-prefs/components/notification-switches";
 
@@ -16,6 +18,9 @@ export default function AccountPage() {
         </dl>
       )}
       <NotificationSwitches />
+      <p>
+        <Link to={paths.home.href()}>Back to your site</Link>
+      </p>
     </main>
   );
 }

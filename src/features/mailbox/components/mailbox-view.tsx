@@ -13,7 +13,7 @@ function Message({ m }: { m: MailboxMessage }) {
   // The HTML part in a sandbox with no scripts; <base target=_top> lets a click on its link open here.
   const srcDoc = m.html ? `<base target="_top">${m.html}` : "";
   return (
-    <article aria-labelledby="msg-subject" className="space-y-3 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
+    <article aria-labelledby="msg-subject" className="min-w-0 space-y-3 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
       <h2 id="msg-subject" className="text-lg font-semibold">{m.subject || "(no subject)"}</h2>
       <dl className="grid grid-cols-[auto_1fr] gap-x-3 text-sm">
         <dt className="text-mist">From</dt><dd className="break-all">{m.from}</dd>
@@ -56,7 +56,7 @@ export function MailboxView() {
   if (!open) return <EmptyState title="No messages yet">Invite someone or ask for a password reset: the e-mail shows up here within a few seconds.</EmptyState>;
   return (
     <div className="grid gap-4 md:grid-cols-[20rem_1fr]">
-      <div className="space-y-2">
+      <div className="min-w-0 space-y-2">
         <Button tone="quiet" onClick={() => empty.mutate()} disabled={empty.isPending}>Empty the mailbox</Button>
         <ul aria-label="Received messages" className="divide-y divide-hull-700 rounded-lg bg-hull-850 ring-1 ring-hull-700">
           {box.data.map((m) => (
