@@ -94,10 +94,12 @@ function createServer(mailbox: FakeMailbox) {
 
 function listen(server: SMTPServer, port: number, host: string): Promise<number> {
   return new Promise((resolve, reject) => {
+    // smtp-server re-emits its socket's errors on itself; unheard, one would end the process.
     const onError = (e: Error) => reject(e);
-    server.server.once("error", onError);
+    server.once("error", onError);
     server.listen(port, host, () => {
-      server.server.off("error", onError);
+      server.off("error", onError);
+      server.on("error", (e: Error) => console.error(`[mail] fake server: ${e.message}`));
       const addr = server.server.address();
       resolve(typeof addr === "object" && addr ? addr.port : port);
     });
