@@ -11,7 +11,7 @@ import { optedOut } from "./prefs";
 
 export interface NotifyResult {
   sent: string[];
-  skipped: Array<{ userId: string; reason: "switched_off" | "is_actor" | "no_address" }>;
+  skipped: Array<{ userId: string; reason: "switched_off" | "is_actor" | "no_address" | "not_on_crew" }>;
   failed: Array<{ userId: string; error: string }>;
 }
 
@@ -83,6 +83,9 @@ async function sendTo(deps: MailDeps, userIds: string[], key: NotificationKey, a
 export async function notifyDefectAssigned(deps: MailDeps, p: { defectId: string; actorId: string | null }): Promise<NotifyResult> {
   const d = await loadDefect(deps, p.defectId);
   if (!d?.assigneeId) return { sent: [], skipped: [], failed: [] };
+  // Someone since taken off the crew hears nothing more about the site.
+  const member = await deps.db.selectFrom("memberships").select("userId").where("siteId", "=", d.siteId).where("userId", "=", d.assigneeId).executeTakeFirst();
+  if (!member) return { sent: [], skipped: [{ userId: d.assigneeId, reason: "not_on_crew" }], failed: [] };
   return sendTo(deps, [d.assigneeId], "defect_assigned", p.actorId, (name) =>
     compose({
       subject: `Assigned to you: ${d.title} (${d.boardName})`,

@@ -88,6 +88,13 @@ describe("a defect assigned to you", () => {
     expect(mailFor(fx.crew.scrounger.email)).toHaveLength(0);
   });
 
+  it("is not sent to an assignee who has since left the crew", async () => {
+    const gone = await makeUser(t.db, { name: "Former volunteer" });
+    const d = await makeDefect(t.db, { siteId: fx.siteId, boardId: board.boardId, assigneeId: gone.id });
+    expect(await notifyDefectAssigned(deps, { defectId: d.id, actorId: fx.crew.curator.id })).toEqual({ sent: [], skipped: [{ userId: gone.id, reason: "not_on_crew" }], failed: [] });
+    expect(mailFor(gone.email)).toHaveLength(0);
+  });
+
   it("does nothing for a defect with no assignee or that does not exist", async () => {
     const d = await makeDefect(t.db, { siteId: fx.siteId, boardId: board.boardId });
     expect(await notifyDefectAssigned(deps, { defectId: d.id, actorId: null })).toEqual({ sent: [], skipped: [], failed: [] });
