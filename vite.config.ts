@@ -9,7 +9,8 @@ export default defineConfig({
   server: {
     host: "127.0.0.1",
     port: Number(process.env.VITE_PORT ?? 5173),
-    proxy: { "/api": `http://127.0.0.1:${process.env.PORT ?? 3000}` },
+    // changeOrigin stays false: the API's Origin check compares the browser's Origin with Host.
+    proxy: { "/api": { target: `http://127.0.0.1:${process.env.PORT ?? 3000}`, changeOrigin: false } },
   },
   test: {
     include: ["tests/**/*.test.ts"],

@@ -248,6 +248,43 @@ export interface PhotosTable extends Versioned {
   deletedAt: Date | null;
 }
 
+export type SendStatus = "pending" | "sent" | "failed";
+export type NotificationKey = "defect_assigned" | "awaiting_verification" | "weekly_summary";
+
+export interface InvitationsTable {
+  id: Generated<string>;
+  siteId: string;
+  email: string;
+  role: Role;
+  /** SHA-256 of the link's token (base64url); the token itself is never stored. */
+  tokenHash: string;
+  invitedBy: string | null;
+  expiresAt: ColumnType<Date, Date, Date>;
+  acceptedAt: Date | null;
+  acceptedBy: string | null;
+  revokedAt: Date | null;
+  sendStatus: Generated<SendStatus>;
+  sendError: string | null;
+  lastSentAt: Date | null;
+  createdAt: Timestamp;
+}
+
+export interface PasswordResetsTable {
+  id: Generated<string>;
+  userId: string;
+  tokenHash: string;
+  expiresAt: ColumnType<Date, Date, Date>;
+  usedAt: Date | null;
+  createdAt: Timestamp;
+}
+
+export interface NotificationPrefsTable {
+  userId: string;
+  key: NotificationKey;
+  enabled: boolean;
+  updatedAt: Timestamp;
+}
+
 export interface Database {
   users: UsersTable;
   sessions: SessionsTable;
@@ -264,6 +301,9 @@ export interface Database {
   auditLog: AuditLogTable;
   defects: DefectsTable;
   photos: PhotosTable;
+  invitations: InvitationsTable;
+  passwordResets: PasswordResetsTable;
+  notificationPrefs: NotificationPrefsTable;
 }
 
 export type User = Selectable<UsersTable>;

@@ -12,6 +12,12 @@ import { originCheck } from "./middleware/origin";
 import { sessionMiddleware } from "./middleware/session";
 import { siteRoutes } from "./sites/routes";
 import { inventoryRoutes } from "./inventory/routes";
+import { invitationRoutes } from "./invitations/routes";
+import type { FakeMailbox } from "./mail/fake-smtp";
+import { unconfiguredMailer, type Mailer } from "./mail/mailer";
+import { mailboxRoutes } from "./mail/routes";
+import { notificationRoutes } from "./notifications/routes";
+import { passwordResetRoutes } from "./password-reset/routes";
 
 export interface AppDeps {
   db: Db;
@@ -19,6 +25,12 @@ export interface AppDeps {
   clientDir?: string;
   /** Behind a TLS-terminating proxy: trust X-Forwarded-* so cookies get Secure. */
   trustProxy?: boolean;
+  /** Sends e-mail (server/mail/setup.ts builds it from the environment); without one, every send fails and is logged. */
+  mailer?: Mailer;
+  /** The local fake mail server's messages, present only when it runs (SMTP_URL unset). */
+  mailbox?: FakeMailbox;
+  /** Base URL for links in e-mail (PUBLIC_URL). */
+  publicUrl?: string;
 }
 
 export function createApp(deps: AppDeps) {
@@ -27,6 +39,7 @@ export function createApp(deps: AppDeps) {
   app.disable("x-powered-by");
   if (deps.trustProxy) app.set("trust proxy", 1);
   const lucia = createLucia(db);
+  const mail = { db, mailer: deps.mailer ?? unconfiguredMailer(), publicUrl: (deps.publicUrl ?? "http://127.0.0.1:3000").replace(/\/+$/, "") };
 
   const api = Router();
   api.get("/health", async (_req, res) => {
@@ -44,6 +57,10 @@ export function createApp(deps: AppDeps) {
   api.use(authRoutes(db, lucia));
   api.use(siteRoutes(db));
   api.use(inventoryRoutes(db));
+  api.use(invitationRoutes(mail, lucia));
+  api.use(passwordResetRoutes(mail, lucia));
+  api.use(notificationRoutes(db));
+  api.use(mailboxRoutes(deps.mailbox));
   api.use((_req, _res, next) => next(new AppError(404, "not_found", "No such API route.")));
   api.use(errorHandler);
 

@@ -7,14 +7,25 @@ import type { Server } from "node:http";
 import { join } from "node:path";
 import { createApp } from "./app";
 import { createDb, type Db } from "./db";
+import { mailFromEnv } from "./mail/setup";
 
-export function serve(opts: { db: Db; port: number; host?: string; clientDir?: string }): Promise<Server> {
-  const app = createApp({ db: opts.db, clientDir: opts.clientDir, trustProxy: process.env.TRUST_PROXY === "1" });
+/** Also sets up e-mail from the environment (SMTP_URL, or the local fake server); it stops with the server. */
+export async function serve(opts: { db: Db; port: number; host?: string; clientDir?: string }): Promise<Server> {
+  const mail = await mailFromEnv({ port: opts.port });
+  const app = createApp({
+    db: opts.db,
+    clientDir: opts.clientDir,
+    trustProxy: process.env.TRUST_PROXY === "1",
+    mailer: mail.mailer,
+    mailbox: mail.mailbox,
+    publicUrl: mail.publicUrl,
+  });
   return new Promise((resolve, reject) => {
     const server = app.listen(opts.port, opts.host ?? process.env.HOST ?? "127.0.0.1", (err?: Error) =>
       err ? reject(err) : resolve(server),
     );
-    server.on("error", reject);
+    server.on("error", (e) => void mail.stop().finally(() => reject(e)));
+    server.on("close", () => void mail.stop());
   });
 }
 

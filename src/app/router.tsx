@@ -9,6 +9,9 @@ const page = (load: () => Promise<{ default: React.ComponentType }>): Pick<Route
 export const router = createBrowserRouter([
   { path: paths.signIn.path, ...page(() => import("./routes/auth/sign-in")), errorElement: <RouteError /> },
   { path: paths.safety.path, ...page(() => import("./routes/safety")), errorElement: <RouteError /> },
+  { path: paths.invite.path, ...page(() => import("./routes/auth/invite")), errorElement: <RouteError /> },
+  { path: paths.resetRequest.path, ...page(() => import("./routes/auth/reset-request")), errorElement: <RouteError /> },
+  { path: paths.resetPassword.path, ...page(() => import("./routes/auth/reset-password")), errorElement: <RouteError /> },
   {
     ...page(() => import("./routes/app-layout")),
     errorElement: <RouteError />,
@@ -16,6 +19,8 @@ export const router = createBrowserRouter([
       { path: paths.home.path, ...page(() => import("./routes/home-redirect")) },
       { path: paths.sites.path, ...page(() => import("./routes/sites/site-picker")) },
       { path: paths.admin.path, ...page(() => import("./routes/admin/admin-home")) },
+      { path: paths.mailbox.path, ...page(() => import("./routes/admin/mailbox")) },
+      { path: paths.account.path, ...page(() => import("./routes/account/account")) },
       {
         path: paths.site.path,
         ...page(() => import("./routes/sites/site-layout")),

@@ -25,4 +25,9 @@ export const paths = {
   floodEvents: { path: "/sites/:siteId/flood", href: (siteId: string) => `/sites/${siteId}/flood` },
   admin: { path: "/admin", href: () => "/admin" },
   safety: { path: "/safety", href: () => "/safety" },
+  invite: { path: "/invite/:token", href: (token: string) => `/invite/${token}` },
+  resetRequest: { path: "/reset-password", href: () => "/reset-password" },
+  resetPassword: { path: "/reset-password/:token", href: (token: string) => `/reset-password/${token}` },
+  account: { path: "/account", href: () => "/account" },
+  mailbox: { path: "/admin/mailbox", href: () => "/admin/mailbox" },
 } as const;

@@ -1,6 +1,7 @@
 import type { AddressInfo } from "node:net";
-import type { Server } from "node:http";
+import { createServer, type Server } from "node:http";
 import { createApp, type AppDeps } from "../../server/app";
+import { memoryMailer } from "../../server/mail/mailer";
 
 export interface Res<T = any> {
   status: number;
@@ -60,12 +61,12 @@ export interface TestServer {
   close(): Promise<void>;
 }
 
+/** Without a mailer, e-mail is kept in memory and goes nowhere; links point at this server. */
 export async function startTestServer(deps: AppDeps): Promise<TestServer> {
-  const app = createApp(deps);
-  const server: Server = await new Promise((resolve) => {
-    const s = app.listen(0, "127.0.0.1", () => resolve(s));
-  });
+  const server: Server = createServer();
+  await new Promise<void>((resolve) => server.listen(0, "127.0.0.1", () => resolve()));
   const base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
+  server.on("request", createApp({ mailer: memoryMailer(), publicUrl: base, ...deps }));
   return {
     base,
     client: () => new Client(base),

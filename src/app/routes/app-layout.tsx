@@ -23,13 +23,14 @@ export default function AppLayout() {
         <Link to={paths.home.href()} aria-label="Tideline start page" className="no-underline">
           <Wordmark />
         </Link>
-        <nav aria-label="Account" className="flex items-center gap-3 text-sm">
+        <nav aria-label="Account" className="flex items-center gap-2 text-sm sm:gap-3">
           {(memberships.length > 1 || user.isAdmin) && <Link to={paths.sites.href()}>Sites</Link>}
           {user.isAdmin && <Link to={paths.admin.href()}>Admin</Link>}
+          <Link to={paths.account.href()}>Account</Link>
           <span className="hidden text-mist sm:inline" data-testid="user-name">{user.name}</span>
           <button
             type="button"
-            className="min-h-11 rounded-md px-3 text-chalk ring-1 ring-hull-600 hover:bg-hull-700"
+            className="min-h-11 whitespace-nowrap rounded-md px-2 text-chalk ring-1 ring-hull-600 hover:bg-hull-700 sm:px-3"
             onClick={() => signOut.mutate(undefined, { onSuccess: () => navigate(paths.signIn.href()) })}
           >
             Sign out

@@ -1,5 +1,6 @@
 import { useState, type FormEvent } from "react";
-import { Navigate } from "react-router";
+import { Link, Navigate } from "react-router";
+import { paths } from "../../../config/paths";
 import { Button } from "../../../components/button";
 import { SelectField, TextField } from "../../../components/field";
 import { ApiError } from "../../../lib/api-client";
@@ -33,6 +34,9 @@ export default function AdminHome() {
   return (
     <main id="main" className="mx-auto max-w-3xl space-y-6 p-4">
       <h1 className="text-2xl font-bold">Instance administration</h1>
+      <p>
+        <Link to={paths.mailbox.href()}>Local mailbox</Link> <span className="text-mist">— e-mail kept by the fake mail server when SMTP_URL is unset</span>
+      </p>
       {msg && <p role={msg.ok ? "status" : "alert"} className={msg.ok ? "text-kelp-300" : "text-flare-300"}>{msg.text}</p>}
       <form onSubmit={site} className="space-y-3 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
         <h2 className="text-lg font-semibold">New site</h2>

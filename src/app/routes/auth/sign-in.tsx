@@ -1,4 +1,5 @@
-import { Navigate, useSearchParams } from "react-router";
+import { Link, Navigate, useSearchParams } from "react-router";
+import { paths } from "../../../config/paths";
 import { Wordmark } from "../../../components/wordmark";
 import { SignInForm } from "../../../features/auth/components/sign-in-form";
 import { useSession } from "../../../features/auth/api";
@@ -18,6 +19,9 @@ export default function SignInPage() {
           <p className="mt-1 text-mist">Condition survey and repair register for flood-damaged switchboards.</p>
         </div>
         <SignInForm next={safeNext} />
+        <p className="mt-4 text-center text-sm">
+          <Link to={paths.resetRequest.href()}>Forgot your password?</Link>
+        </p>
       </div>
     </main>
   );

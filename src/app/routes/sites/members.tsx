@@ -1,26 +1,21 @@
-import { useState, type FormEvent } from "react";
+import { useState } from "react";
 import { Button } from "../../../components/button";
-import { SelectField, TextField } from "../../../components/field";
 import { ErrorPanel, Loading } from "../../../components/status";
 import { ROLE_LABELS, ROLES, type Role } from "../../../domain/vocab";
 import { ApiError } from "../../../lib/api-client";
-import { useMemberMutations, useMembers } from "../../../features/sites/api";
+import { useQueryClient } from "@tanstack/react-query";
+import { siteKeys, useMemberMutations, useMembers } from "../../../features/sites/api";
+import { InviteForm } from "../../../features/invitations/components/invite-form";
+import { PendingInvitations } from "../../../features/invitations/components/pending-invitations";
 import { useSiteContext } from "./site-layout";
 
 export default function MembersPage() {
   const { site } = useSiteContext();
   const members = useMembers(site.id);
   const m = useMemberMutations(site.id);
+  const qc = useQueryClient();
   const [error, setError] = useState<string | null>(null);
   const fail = (e: unknown) => setError(e instanceof ApiError ? e.message : "That did not work.");
-
-  function add(e: FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    const f = new FormData(e.currentTarget);
-    const form = e.currentTarget;
-    setError(null);
-    m.add.mutate({ email: String(f.get("email")), role: f.get("role") as Role }, { onSuccess: () => form.reset(), onError: fail });
-  }
 
   return (
     <div className="space-y-6">
@@ -50,13 +45,8 @@ export default function MembersPage() {
           </li>
         ))}
       </ul>
-      <form onSubmit={add} className="grid gap-3 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700 sm:grid-cols-[1fr_14rem_auto] sm:items-end">
-        <TextField label="E-mail of an existing account" name="email" type="email" required />
-        <SelectField label="Role" name="role" defaultValue="volunteer">
-          {ROLES.map((r) => <option key={r} value={r}>{ROLE_LABELS[r]}</option>)}
-        </SelectField>
-        <Button type="submit" disabled={m.add.isPending}>Add to crew</Button>
-      </form>
+      <InviteForm siteId={site.id} onAdded={() => qc.invalidateQueries({ queryKey: siteKeys.members(site.id) })} />
+      <PendingInvitations siteId={site.id} />
     </div>
   );
 }

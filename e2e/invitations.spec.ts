@@ -1,0 +1,89 @@
+import { expect, test, type Page } from "@playwright/test";
+import { expectNoSeriousA11yViolations } from "./support/a11y";
+import { DEMO_SITE, signIn } from "./support/auth";
+import { adminApi, linkIn, uniqueEmail, waitForMail } from "./support/mailbox";
+
+async function openCrewPage(page: Page) {
+  await signIn(page, "curator");
+  await page.getByRole("link", { name: "Crew" }).first().click();
+  await expect(page.getByRole("heading", { name: `Crew on ${DEMO_SITE}` })).toBeVisible();
+}
+
+async function invite(page: Page, email: string, role = "Volunteer") {
+  await page.getByLabel("E-mail").fill(email);
+  await page.getByLabel("Role on this site").selectOption({ label: role });
+  await page.getByRole("button", { name: "Send invitation" }).click();
+  await expect(page.getByRole("status").filter({ hasText: `Invitation sent to ${email}` })).toBeVisible();
+}
+
+test("a curator invites a newcomer; the newcomer follows the e-mailed link, sets a password, lands on the site and signs in again", async ({ page, browser, baseURL }) => {
+  const email = uniqueEmail("newcomer");
+  await openCrewPage(page);
+  await invite(page, email);
+  const row = page.getByTestId("pending-invitation").filter({ hasText: email });
+  await expect(row).toContainText("✓ Sent");
+  await expectNoSeriousA11yViolations(page, "crew page with invitations");
+
+  const api = await adminApi(baseURL!);
+  const msg = await waitForMail(api, email, /invited/);
+  expect(msg.html).toContain("/invite/");
+  const link = linkIn(msg, "/invite/");
+
+  const ctx = await browser.newContext();
+  const guest = await ctx.newPage();
+  await guest.goto(link);
+  await expect(guest.getByRole("heading", { name: `Join the ${DEMO_SITE} crew` })).toBeVisible();
+  await expect(guest.getByText("Volunteer", { exact: true })).toBeVisible();
+  await expectNoSeriousA11yViolations(guest, "invitation page");
+  await guest.getByLabel("Your name, as the crew knows you").fill("Wren Tallowby");
+  await guest.getByLabel("Choose a password").fill("bilge-pump-lantern");
+  await guest.getByRole("button", { name: "Join the crew" }).click();
+  await expect(guest.getByTestId("site-name")).toHaveText(DEMO_SITE);
+  await expect(guest.getByRole("heading", { level: 1, name: "Teardown log" })).toBeVisible();
+
+  await guest.getByRole("button", { name: "Sign out" }).click();
+  await guest.getByLabel("E-mail").fill(email);
+  await guest.getByLabel("Password").fill("bilge-pump-lantern");
+  await guest.getByRole("button", { name: "Sign in" }).click();
+  await expect(guest.getByTestId("user-name")).toHaveText("Wren Tallowby");
+
+  // The link worked once; opened again it says why it no longer does.
+  await guest.goto(link);
+  await expect(guest.getByRole("alert")).toContainText("already been used");
+  await ctx.close();
+  await api.dispose();
+});
+
+test("the curator revokes a pending invitation and its link stops working", async ({ page, baseURL }) => {
+  const email = uniqueEmail("withdrawn");
+  await openCrewPage(page);
+  await invite(page, email, "Viewer");
+  const api = await adminApi(baseURL!);
+  const link = linkIn(await waitForMail(api, email, /invited/), "/invite/");
+  page.once("dialog", (d) => void d.accept());
+  await page.getByRole("button", { name: `Revoke the invitation for ${email}` }).click();
+  await expect(page.getByTestId("pending-invitation").filter({ hasText: email })).toHaveCount(0);
+  await page.goto(link);
+  await expect(page.getByRole("alert")).toContainText("withdrawn");
+  await api.dispose();
+});
+
+test("an instance admin reads the local mailbox and opens an invitation from it", async ({ page, baseURL }) => {
+  const email = uniqueEmail("mailbox");
+  const api = await adminApi(baseURL!);
+  const site = (await (await api.get("/api/sites")).json()).sites[0].id as string;
+  expect((await api.post(`/api/sites/${site}/invitations`, { data: { email, role: "photographer" } })).status()).toBe(201);
+  await signIn(page, "admin");
+  await page.getByRole("link", { name: "Admin", exact: true }).click();
+  await page.getByRole("link", { name: "Local mailbox" }).click();
+  await expect(page.getByRole("heading", { name: "Local mailbox" })).toBeVisible();
+  await page.getByRole("button", { name: new RegExp(`to ${email}`) }).click();
+  await expect(page.getByRole("heading", { level: 2, name: /invited/ })).toBeVisible();
+  await expectNoSeriousA11yViolations(page, "mailbox page");
+  await page.getByRole("button", { name: "HTML part" }).click();
+  await expect(page.frameLocator("iframe").getByRole("link", { name: "Join the crew" })).toBeVisible();
+  await page.screenshot({ path: "/tmp/email-mailbox-desktop.png", fullPage: true });
+  await page.getByRole("link", { name: /\/invite\// }).click();
+  await expect(page.getByRole("heading", { name: `Join the ${DEMO_SITE} crew` })).toBeVisible();
+  await api.dispose();
+});

@@ -1,0 +1,113 @@
+import { INVITATION_DAYS } from "../../src/schemas/invitations";
+import type { Role } from "../../src/domain/vocab";
+import { recordAudit } from "../audit";
+import { findUserByEmail } from "../auth/repository";
+import type { Db } from "../db";
+import { AppError, conflict, notFound } from "../errors";
+import type { MailDeps } from "../mail/mailer";
+import { newToken } from "../one-time-token";
+import { upsertMembership } from "../sites/repository";
+import { addedMessage, invitationMessage } from "./messages";
+import * as repo from "./repository";
+
+type Actor = { id: string; name: string; isAdmin: boolean };
+type Row = Awaited<ReturnType<typeof repo.listLive>>[number];
+
+const expiry = () => new Date(Date.now() + INVITATION_DAYS * 24 * 3600 * 1000);
+export const inviteUrl = (publicUrl: string, token: string) => `${publicUrl}/invite/${token}`;
+
+/** The curator's view; the SMTP reason is for instance admins only (it can name hosts and accounts). */
+export function toView(r: Row, viewer: { isAdmin: boolean }, now = new Date()) {
+  return {
+    id: r.id,
+    email: r.email,
+    role: r.role,
+    invitedByName: r.invitedByName,
+    createdAt: new Date(r.createdAt).toISOString(),
+    expiresAt: r.expiresAt.toISOString(),
+    expired: r.expiresAt.getTime() <= now.getTime(),
+    sendStatus: r.sendStatus,
+    sendError: viewer.isAdmin ? r.sendError : null,
+    lastSentAt: r.lastSentAt ? r.lastSentAt.toISOString() : null,
+  };
+}
+
+export const listInvitations = async (db: Db, siteId: string, viewer: { isAdmin: boolean }) =>
+  (await repo.listLive(db, siteId)).map((r) => toView(r, viewer));
+
+async function siteName(db: Db, siteId: string) {
+  return (await db.selectFrom("sites").select("name").where("id", "=", siteId).executeTakeFirstOrThrow()).name;
+}
+
+/** Sends the invitation's e-mail and records the outcome; the invitation stays either way. */
+async function deliver(deps: MailDeps, id: string, p: { siteId: string; email: string; role: Role; token: string; inviterName: string; expiresAt: Date }) {
+  const msg = invitationMessage({ siteName: await siteName(deps.db, p.siteId), role: p.role, inviterName: p.inviterName, url: inviteUrl(deps.publicUrl, p.token), expiresAt: p.expiresAt });
+  const r = await deps.mailer.send({ to: p.email, ...msg, fromName: `${p.inviterName} via Tideline` });
+  await repo.markSent(deps.db, id, r.ok ? "sent" : "failed", r.ok ? null : r.error);
+}
+
+export async function createInvitation(deps: MailDeps, siteId: string, email: string, role: Role, actor: Actor) {
+  const { db } = deps;
+  const existing = await findUserByEmail(db, email);
+  if (existing) return addExistingUser(deps, siteId, existing, role, actor);
+  const { token, hash } = newToken();
+  const expiresAt = expiry();
+  const id = await db
+    .transaction()
+    .execute(async (trx) => {
+    const live = await repo.findLiveByEmail(trx, siteId, email);
+    if (live) await repo.renewInvitation(trx, live.id, { role, tokenHash: hash, invitedBy: actor.id, expiresAt });
+    const invId = live?.id ?? (await repo.insertInvitation(trx, { siteId, email, role, tokenHash: hash, invitedBy: actor.id, expiresAt })).id;
+    await recordAudit(trx, { siteId, entityType: "invitation", entityId: invId, action: live ? "reinvited" : "invited", actorId: actor.id, after: { email, role } });
+    return invId;
+  })
+    .catch((e) => {
+      // Two curators inviting the same address at the same moment: the unique index keeps one.
+      if ((e as { code?: string }).code === "23505") throw conflict("An invitation to that address is already being sent. Refresh the list.");
+      throw e;
+    });
+  await deliver(deps, id, { siteId, email, role, token, inviterName: actor.name, expiresAt });
+  const row = await repo.findInvitation(db, siteId, id);
+  return { outcome: "invited" as const, invitation: toView(row!, actor) };
+}
+
+async function addExistingUser(deps: MailDeps, siteId: string, user: { id: string; email: string }, role: Role, actor: Actor) {
+  await deps.db.transaction().execute(async (trx) => {
+    if (await repo.isMember(trx, siteId, user.id)) throw new AppError(409, "already_member", "That person is already on this site's crew.", { email: "Already on the crew" });
+    await upsertMembership(trx, siteId, user.id, role);
+    await recordAudit(trx, { siteId, entityType: "membership", entityId: user.id, action: "added_by_invitation", actorId: actor.id, after: { role } });
+  });
+  // A courtesy note; the membership stands whether or not it is delivered.
+  const msg = addedMessage({ siteName: await siteName(deps.db, siteId), role, inviterName: actor.name, url: `${deps.publicUrl}/sites/${siteId}` });
+  await deps.mailer.send({ to: user.email, ...msg, fromName: `${actor.name} via Tideline` });
+  return { outcome: "added" as const, invitation: null };
+}
+
+async function liveOrConflict(db: Db, siteId: string, id: string, actor: Actor) {
+  const row = await repo.findInvitation(db, siteId, id);
+  if (!row) throw notFound("That invitation");
+  if (row.acceptedAt) throw conflict("That invitation has already been accepted.", toView(row, actor));
+  if (row.revokedAt) throw conflict("That invitation was revoked.", toView(row, actor));
+  return row;
+}
+
+/** A fresh link (the old one stops working) and seven more days, sent again. */
+export async function resendInvitation(deps: MailDeps, siteId: string, id: string, actor: Actor) {
+  const row = await liveOrConflict(deps.db, siteId, id, actor);
+  const { token, hash } = newToken();
+  const expiresAt = expiry();
+  await deps.db.transaction().execute(async (trx) => {
+    await repo.renewInvitation(trx, id, { tokenHash: hash, invitedBy: actor.id, expiresAt });
+    await recordAudit(trx, { siteId, entityType: "invitation", entityId: id, action: "resent", actorId: actor.id });
+  });
+  await deliver(deps, id, { siteId, email: row.email, role: row.role, token, inviterName: actor.name, expiresAt });
+  return toView((await repo.findInvitation(deps.db, siteId, id))!, actor);
+}
+
+export async function revokeInvitation(db: Db, siteId: string, id: string, actor: Actor) {
+  await liveOrConflict(db, siteId, id, actor);
+  await db.transaction().execute(async (trx) => {
+    await repo.markRevoked(trx, id);
+    await recordAudit(trx, { siteId, entityType: "invitation", entityId: id, action: "revoked", actorId: actor.id });
+  });
+}

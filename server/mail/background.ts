@@ -1,0 +1,18 @@
+/**
+ * Work that must not delay an answer (a reset e-mail: answering at once, whether the
+ * address exists or not, keeps the timing the same). Failures are logged, never lost
+ * silently; tests await backgroundIdle() before reading the mailbox.
+ */
+const pending = new Set<Promise<void>>();
+
+export function inBackground(what: string, task: () => Promise<unknown>) {
+  const p: Promise<void> = task()
+    .then(() => undefined)
+    .catch((e) => console.error(`[mail] ${what} failed: ${e instanceof Error ? e.message : String(e)}`))
+    .finally(() => pending.delete(p));
+  pending.add(p);
+}
+
+export async function backgroundIdle() {
+  while (pending.size) await Promise.allSettled([...pending]);
+}

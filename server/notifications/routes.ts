@@ -1,0 +1,27 @@
+import { Router } from "express";
+import { NOTIFICATION_KEYS, notificationKeyParam, setNotificationBody } from "../../src/schemas/account";
+import type { Db } from "../db";
+import { requireUser } from "../middleware/roles";
+import { getPrefs, setPref } from "./prefs";
+
+export function notificationRoutes(db: Db) {
+  const r = Router();
+  const send = async (userId: string) => {
+    const prefs = await getPrefs(db, userId);
+    return { prefs: NOTIFICATION_KEYS.map((key) => ({ key, enabled: prefs[key] })) };
+  };
+
+  r.get("/account/notifications", requireUser, async (_req, res) => {
+    res.json(await send(res.locals.user!.id));
+  });
+
+  // One switch per request: two tabs flipping different switches never undo each other.
+  r.put("/account/notifications/:key", requireUser, async (req, res) => {
+    const { key } = notificationKeyParam.parse(req.params);
+    const { enabled } = setNotificationBody.parse(req.body);
+    await setPref(db, res.locals.user!.id, key, enabled);
+    res.json(await send(res.locals.user!.id));
+  });
+
+  return r;
+}

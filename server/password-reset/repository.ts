@@ -1,0 +1,32 @@
+import type { Db } from "../db";
+
+export const insertReset = (db: Db, v: { userId: string; tokenHash: string; expiresAt: Date }) =>
+  db.insertInto("passwordResets").values(v).returning("id").executeTakeFirstOrThrow();
+
+export const countRecent = async (db: Db, userId: string, since: Date) =>
+  Number(
+    (
+      await db
+        .selectFrom("passwordResets")
+        .select((eb) => eb.fn.countAll<number>().as("n"))
+        .where("userId", "=", userId)
+        .where("createdAt", ">", since)
+        .executeTakeFirstOrThrow()
+    ).n,
+  );
+
+export const findByTokenHash = (db: Db, tokenHash: string, lock = false) => {
+  const q = db
+    .selectFrom("passwordResets")
+    .innerJoin("users", "users.id", "passwordResets.userId")
+    .select(["passwordResets.id", "passwordResets.userId", "passwordResets.expiresAt", "passwordResets.usedAt", "users.email"])
+    .where("passwordResets.tokenHash", "=", tokenHash);
+  return (lock ? q.forUpdate("passwordResets") : q).executeTakeFirst();
+};
+
+/** Every outstanding link of the user stops working once one of them has been used. */
+export const useAllFor = (db: Db, userId: string) =>
+  db.updateTable("passwordResets").set({ usedAt: new Date() }).where("userId", "=", userId).where("usedAt", "is", null).execute();
+
+export const setPasswordHash = (db: Db, userId: string, passwordHash: string) =>
+  db.updateTable("users").set({ passwordHash, updatedAt: new Date() }).where("id", "=", userId).execute();
