@@ -248,6 +248,14 @@ export interface PhotosTable extends Versioned {
   deletedAt: Date | null;
 }
 
+/** Per site: which photo kinds every position needs (the photographer's shoot list). */
+export interface PhotoSettingsTable {
+  siteId: string;
+  requiredKinds: ColumnType<PhotoKind[], PhotoKind[] | undefined, PhotoKind[]>;
+  version: Generated<number>;
+  updatedAt: Timestamp;
+}
+
 export interface Database {
   users: UsersTable;
   sessions: SessionsTable;
@@ -264,6 +272,7 @@ export interface Database {
   auditLog: AuditLogTable;
   defects: DefectsTable;
   photos: PhotosTable;
+  photoSettings: PhotoSettingsTable;
 }
 
 export type User = Selectable<UsersTable>;

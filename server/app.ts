@@ -11,6 +11,8 @@ import { errorHandler } from "./middleware/error-handler";
 import { originCheck } from "./middleware/origin";
 import { sessionMiddleware } from "./middleware/session";
 import { siteRoutes } from "./sites/routes";
+import { photoRoutes } from "./photos/routes";
+import { storageFromEnv, type PhotoStorage } from "./photos/storage";
 
 export interface AppDeps {
   db: Db;
@@ -18,6 +20,8 @@ export interface AppDeps {
   clientDir?: string;
   /** Behind a TLS-terminating proxy: trust X-Forwarded-* so cookies get Secure. */
   trustProxy?: boolean;
+  /** Where photo files go; default from env (PHOTO_STORAGE, local disk under .data/photos). */
+  photoStorage?: PhotoStorage;
 }
 
 export function createApp(deps: AppDeps) {
@@ -41,6 +45,7 @@ export function createApp(deps: AppDeps) {
   api.use(sessionMiddleware(lucia));
   api.use(authRoutes(db, lucia));
   api.use(siteRoutes(db));
+  api.use(photoRoutes(db, deps.photoStorage ?? storageFromEnv()));
   api.use((_req, _res, next) => next(new AppError(404, "not_found", "No such API route.")));
   api.use(errorHandler);
 
