@@ -102,7 +102,7 @@ export const getSettings = (db: Db, siteId: string) =>
 export const upsertSettings = (db: Db, siteId: string, requiredKinds: PhotoKind[], version: number) =>
   db
     .insertInto("photoSettings")
-    .values({ siteId, requiredKinds })
+    .values({ siteId, requiredKinds, version: version + 1 }) // the unsaved default counts as version 1
     .onConflict((oc) =>
       oc.column("siteId").doUpdateSet({ requiredKinds, version: sql`photo_settings.version + 1`, updatedAt: sql`now()` } as never).where("photoSettings.version", "=", version),
     )

@@ -151,7 +151,7 @@ describe("refused uploads leave nothing behind", () => {
     await snapshot();
     const flaky = new LocalDiskStorage(dir);
     let n = 0;
-    flaky.put = async (k, b, c) => {
+    flaky.put = async (k: string, b: Buffer, c: string) => {
       if (++n === 4) throw new Error("disk full");
       return LocalDiskStorage.prototype.put.call(flaky, k, b, c);
     };
@@ -221,5 +221,64 @@ describe("who may do what", () => {
     const r = await upload(as.photographer, [{ name: "x.png", data: await plainPng() }], { positionId: foreign.positions["9-9"].id });
     expect(r.status).toBe(400);
     expect(r.body.error.fields.positionId).toBeDefined();
+  });
+});
+
+describe("tagging, bulk assignment and the shoot list", () => {
+  const newPhotos = async (n: number) => {
+    const png = await plainPng();
+    const r = await upload(as.photographer, Array.from({ length: n }, (_, i) => ({ name: `shoot-${i}.png`, data: png })));
+    return r.body.photos as Array<{ id: string; version: number }>;
+  };
+
+  it("a stale version gets 409 with the photo as it is now", async () => {
+    const [p] = await newPhotos(1);
+    const ok = await as.photographer.patch(url(`/${p.id}`), { version: p.version, kind: "nameplate", caption: "Maker's plate" });
+    expect(ok.status).toBe(200);
+    expect(ok.body.photo).toMatchObject({ kind: "nameplate", caption: "Maker's plate", version: p.version + 1 });
+    const stale = await as.curator.patch(url(`/${p.id}`), { version: p.version, caption: "older edit" });
+    expect(stale.status).toBe(409);
+    expect(stale.body.error.current).toMatchObject({ caption: "Maker's plate", version: p.version + 1 });
+  });
+
+  it("the unassigned list holds a new shoot; bulk assignment files each photo to its position in one go", async () => {
+    const batch = await newPhotos(2);
+    const unassigned = (await as.photographer.get(url("?unassigned=1"))).body.photos.map((p: { id: string }) => p.id);
+    expect(unassigned).toEqual(expect.arrayContaining(batch.map((p) => p.id)));
+    const r = await as.photographer.post(url("/assign"), {
+      items: [
+        { photoId: batch[0].id, version: batch[0].version, positionId: board.positions["2-14"].id, kind: "as_found" },
+        { photoId: batch[1].id, version: batch[1].version, positionId: board.positions["2-14"].id, kind: "nameplate" },
+      ],
+    });
+    expect(r.status).toBe(200);
+    expect(r.body.photos.map((p: { designation: string; boardId: string }) => [p.designation, p.boardId])).toEqual([["2-14", board.boardId], ["2-14", board.boardId]]);
+    const again = await as.photographer.post(url("/assign"), { items: [{ photoId: batch[0].id, version: batch[0].version, positionId: board.positions["1-1"].id }] });
+    expect(again.status).toBe(409);
+  });
+
+  it("the shoot list shows per position the required shots still missing, and follows the curator's settings", async () => {
+    const list = async () => (await as.photographer.get(`/api/sites/${fx.siteId}/boards/${board.boardId}/shoot-list`)).body;
+    const before = await list();
+    expect(before.requiredKinds).toEqual(["as_found", "nameplate"]);
+    const by = (d: string, l = before) => l.positions.find((p: { designation: string }) => p.designation === d);
+    expect(by("2-14").missing).toEqual([]);
+    expect(by("1-1").missing).toEqual(["nameplate"]); // the sideways JPEG was filed as found
+    expect(by("1-2").missing).toEqual(["as_found", "nameplate"]); // its photo was deleted
+    expect([before.complete, before.total, before.shotsTaken, before.shotsRequired]).toEqual([1, 3, 3, 6]);
+
+    const settings = (await as.viewer.get(`/api/sites/${fx.siteId}/photo-settings`)).body.settings;
+    expect((await as.photographer.put(`/api/sites/${fx.siteId}/photo-settings`, { requiredKinds: ["after_work"], version: settings.version })).status).toBe(403);
+    const saved = await as.curator.put(`/api/sites/${fx.siteId}/photo-settings`, { requiredKinds: ["after_work", "as_found"], version: settings.version });
+    expect(saved.body.settings).toEqual({ requiredKinds: ["as_found", "after_work"], version: settings.version + 1 });
+    const stale = await as.curator.put(`/api/sites/${fx.siteId}/photo-settings`, { requiredKinds: ["thermal"], version: settings.version });
+    expect(stale.status).toBe(409);
+    const after = await list();
+    expect(by("2-14", after).missing).toEqual(["after_work"]);
+  });
+
+  it("photo targets list every position with its tag number, for matching file names", async () => {
+    const r = await as.photographer.get(`/api/sites/${fx.siteId}/photo-targets`);
+    expect(r.body.targets).toContainEqual(expect.objectContaining({ designation: "2-14", tagNumber: "T-2-14", boardName: "Main switchboard" }));
   });
 });

@@ -19,7 +19,7 @@ export class LocalDiskStorage implements PhotoStorage {
     return p;
   }
 
-  async put(key: string, body: Buffer) {
+  async put(key: string, body: Buffer, _contentType?: string) {
     const p = this.path(key);
     await mkdir(dirname(p), { recursive: true });
     // Write beside, then rename: a reader never sees half a file.
