@@ -19,7 +19,7 @@ export default function PhotoDesk() {
       <div className="space-y-2">
         <h1 className="text-2xl font-bold">Photo desk</h1>
         <p className="text-mist">The photographer and the curator upload and file photos. Volunteers add photos to their own inspections from the teardown log.</p>
-        <Link to={paths.photoGallery.href(siteId)}>See the photos</Link>
+        <Link className="underline" to={paths.photoGallery.href(siteId)}>See the photos</Link>
       </div>
     );
   return (
@@ -27,8 +27,8 @@ export default function PhotoDesk() {
       <div>
         <h1 className="text-2xl font-bold">Photo desk</h1>
         <p className="text-mist">
-          Upload a shoot, then file every picture to its position. <Link to={paths.photoShootList.href(siteId)}>Shoot list</Link> ·{" "}
-          <Link to={paths.photoGallery.href(siteId)}>Galleries</Link>
+          Upload a shoot, then file every picture to its position. <Link className="underline" to={paths.photoShootList.href(siteId)}>Shoot list</Link> ·{" "}
+          <Link className="underline" to={paths.photoGallery.href(siteId)}>Galleries</Link>
         </p>
       </div>
       {targets.isError && <ErrorPanel error={targets.error} />}

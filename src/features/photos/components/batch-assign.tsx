@@ -31,7 +31,12 @@ export function BatchAssign({ siteId, photos, targets }: Props) {
   const current = photos[Math.min(index, photos.length - 1)];
   const byId = useMemo(() => new Map(targets.map((t) => [t.positionId, t])), [targets]);
 
-  if (!photos.length) return <p className="text-mist">Every uploaded photo is filed to a position.</p>;
+  if (!photos.length)
+    return (
+      <p className="text-mist" role="status">
+        {note && <span className="mr-1 font-semibold text-kelp-300">✓ {note}</span>}Every uploaded photo is filed to a position.
+      </p>
+    );
   const go = (i: number) => {
     setIndex(Math.max(0, Math.min(photos.length - 1, i)));
     setTyped("");

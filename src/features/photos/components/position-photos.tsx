@@ -19,7 +19,7 @@ export function PositionPhotos({ siteId, positionId }: { siteId: string; positio
     <section aria-label="Photos of this position" className="space-y-2">
       <div className="flex items-center justify-between">
         <h3 className="font-semibold">Photos ({list.length})</h3>
-        <Link to={paths.photoGallery.href(siteId, { positionId })} className="text-sm">Gallery and before/after</Link>
+        <Link to={paths.photoGallery.href(siteId, { positionId })} className="text-sm underline">Gallery and before/after</Link>
       </div>
       {list.length ? <PhotoGrid siteId={siteId} photos={list} onOpen={setOpen} compact /> : <p className="text-sm text-mist">No photos yet.</p>}
       {open !== null && <PhotoViewer siteId={siteId} photos={list} index={open} onIndex={setOpen} onClose={() => setOpen(null)} />}
