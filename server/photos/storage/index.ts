@@ -3,6 +3,7 @@
  * disk) and S3-compatible object storage are interchangeable (PRODUCT.md "Scale").
  * Chosen by PHOTO_STORAGE=disk|s3; see README "Photos" for the variables.
  */
+import { tmpdir } from "node:os";
 import { join } from "node:path";
 import type { Readable } from "node:stream";
 import { projectRoot } from "../../../db/pg";
@@ -43,5 +44,7 @@ export function storageFromEnv(env: NodeJS.ProcessEnv = process.env): PhotoStora
       forcePathStyle: env.S3_FORCE_PATH_STYLE === "1" || env.S3_FORCE_PATH_STYLE === "true",
     });
   }
-  return new LocalDiskStorage(env.PHOTO_DIR || join(projectRoot, ".data", "photos"));
+  // Under vitest (seed tests) keep demo files out of the developer's own photo folder.
+  const fallback = env.VITEST ? join(tmpdir(), "tideline-vitest-photos") : join(projectRoot, ".data", "photos");
+  return new LocalDiskStorage(env.PHOTO_DIR || fallback);
 }
