@@ -13,6 +13,7 @@ import { sessionMiddleware } from "./middleware/session";
 import { siteRoutes } from "./sites/routes";
 import { photoRoutes } from "./photos/routes";
 import { storageFromEnv, type PhotoStorage } from "./photos/storage";
+import { inventoryRoutes } from "./inventory/routes";
 
 export interface AppDeps {
   db: Db;
@@ -46,6 +47,7 @@ export function createApp(deps: AppDeps) {
   api.use(authRoutes(db, lucia));
   api.use(siteRoutes(db));
   api.use(photoRoutes(db, deps.photoStorage ?? storageFromEnv()));
+  api.use(inventoryRoutes(db));
   api.use((_req, _res, next) => next(new AppError(404, "not_found", "No such API route.")));
   api.use(errorHandler);
 

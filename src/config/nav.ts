@@ -13,6 +13,10 @@ export interface NavItem {
 /** The site's navigation, in order. Each feature adds its pages here. */
 export const SITE_NAV: NavItem[] = [
   { label: "Overview", href: (s) => paths.site.href(s), roles: [], phone: true },
+  { label: "Boards", href: (s) => paths.boards.href(s), roles: [], phone: true },
+  { label: "Quick log", href: (s) => paths.quickLog.href(s), roles: ["volunteer", "curator", "admin"], phone: true },
+  { label: "Flood", href: (s) => paths.floodEvents.href(s), roles: ["curator", "admin"] },
+  { label: "Import CSV", href: (s) => paths.inventoryImport.href(s), roles: ["curator", "admin"] },
   { label: "Crew", href: (s) => paths.members.href(s), roles: ["curator", "admin"] },
   { label: "Photo desk", href: (s) => paths.photos.href(s), roles: ["photographer", "curator", "admin"], phone: true },
   { label: "Shoot list", href: (s) => paths.photoShootList.href(s), roles: ["photographer", "curator", "admin"] },

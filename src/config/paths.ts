@@ -5,6 +5,24 @@ export const paths = {
   sites: { path: "/sites", href: () => "/sites" },
   site: { path: "/sites/:siteId", href: (siteId: string) => `/sites/${siteId}` },
   members: { path: "/sites/:siteId/members", href: (siteId: string) => `/sites/${siteId}/members` },
+  boards: { path: "/sites/:siteId/boards", href: (siteId: string) => `/sites/${siteId}/boards` },
+  boardNew: { path: "/sites/:siteId/boards/new", href: (siteId: string) => `/sites/${siteId}/boards/new` },
+  board: {
+    path: "/sites/:siteId/boards/:boardId",
+    href: (siteId: string, boardId: string, positionId?: string) =>
+      `/sites/${siteId}/boards/${boardId}${positionId ? `?position=${positionId}` : ""}`,
+  },
+  boardSetup: {
+    path: "/sites/:siteId/boards/:boardId/setup",
+    href: (siteId: string, boardId: string, positionId?: string) =>
+      `/sites/${siteId}/boards/${boardId}/setup${positionId ? `?position=${positionId}` : ""}`,
+  },
+  quickLog: {
+    path: "/sites/:siteId/log",
+    href: (siteId: string, positionId?: string) => `/sites/${siteId}/log${positionId ? `?position=${positionId}` : ""}`,
+  },
+  inventoryImport: { path: "/sites/:siteId/inventory/import", href: (siteId: string) => `/sites/${siteId}/inventory/import` },
+  floodEvents: { path: "/sites/:siteId/flood", href: (siteId: string) => `/sites/${siteId}/flood` },
   admin: { path: "/admin", href: () => "/admin" },
   photos: { path: "/sites/:siteId/photos", href: (siteId: string) => `/sites/${siteId}/photos` },
   photoShootList: { path: "/sites/:siteId/photos/shoot-list", href: (siteId: string, boardId?: string) => `/sites/${siteId}/photos/shoot-list${boardId ? `?boardId=${boardId}` : ""}` },

@@ -1,6 +1,8 @@
 import { Link } from "react-router";
 import { SafetyNotice } from "../../../components/safety-notice";
 import { visibleNav } from "../../../config/nav";
+import { paths } from "../../../config/paths";
+import { ProgressSummary } from "../../../features/inventory/components/progress-summary";
 import type { Role } from "../../../domain/vocab";
 import { useSiteContext } from "./site-layout";
 
@@ -35,6 +37,7 @@ export default function SiteHome() {
           ))}
         </ul>
       )}
+      <ProgressSummary siteId={site.id} boardHref={(b) => paths.board.href(site.id, b)} />
       <SafetyNotice />
     </div>
   );

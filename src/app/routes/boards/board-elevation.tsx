@@ -1,0 +1,75 @@
+import { useCallback, useMemo, useState } from "react";
+import { Link, useParams, useSearchParams } from "react-router";
+import { ErrorPanel, Loading } from "../../../components/status";
+import { paths } from "../../../config/paths";
+import { EARTHING_LABELS } from "../../../domain/vocab";
+import { useBoard } from "../../../features/inventory/api";
+import { BoardElevation } from "../../../features/inventory/components/board-elevation";
+import { ElevationFilters, NO_FILTERS, tileMatches, type TileFilters } from "../../../features/inventory/components/elevation-filters";
+import { PositionPanel } from "../../../features/inventory/components/position-panel";
+import { TileLegend } from "../../../features/inventory/components/tile-legend";
+import { defectHref } from "../../../features/inventory/defect-link";
+import { canCurate } from "../../../features/inventory/roles";
+import { useSiteContext } from "../sites/site-layout";
+
+export default function BoardElevationPage() {
+  const { site, role } = useSiteContext();
+  const { boardId = "" } = useParams();
+  const [search, setSearch] = useSearchParams();
+  const [filters, setFilters] = useState<TileFilters>(NO_FILTERS);
+  const q = useBoard(site.id, boardId);
+  const selected = search.get("position");
+  const select = useCallback((id: string | null) => {
+    setSearch((s) => { if (id) s.set("position", id); else s.delete("position"); return s; }, { replace: true });
+  }, [setSearch]);
+  const close = useCallback(() => {
+    const id = selected;
+    select(null);
+    // give focus back to the tile the panel was opened from
+    setTimeout(() => (document.querySelector(`[data-position-id="${id}"]`) as HTMLElement | null)?.focus(), 0);
+  }, [select, selected]);
+  const matching = useMemo(() => q.data?.positions.filter((t) => tileMatches(t, filters)).length ?? 0, [q.data, filters]);
+  if (q.isPending) return <Loading what="Drawing the board" />;
+  if (q.isError) return <ErrorPanel error={q.error} />;
+  const { board, positions } = q.data;
+  const tile = positions.find((t) => t.id === selected);
+  return (
+    <div className="space-y-4">
+      <nav aria-label="Breadcrumb" className="text-sm"><Link to={paths.boards.href(site.id)}>Boards</Link> / {board.name}</nav>
+      <header className="flex flex-wrap items-end justify-between gap-3">
+        <div>
+          <h1 className="text-2xl font-bold">{board.name}</h1>
+          <p className="text-sm text-mist">
+            {[board.location, `${board.nominalVolts} V`, board.phases === 3 ? "3-phase" : "1-phase", `${board.frequencyHz} Hz`, EARTHING_LABELS[board.earthing],
+              board.yearBuilt ? `built ${board.yearBuilt}` : null, board.drawingRef ? `drawing ${board.drawingRef}` : null].filter(Boolean).join(" · ")}
+          </p>
+        </div>
+        {canCurate(role) && (
+          <Link to={paths.boardSetup.href(site.id, board.id)} className="inline-flex min-h-11 items-center rounded-md px-4 font-semibold ring-1 ring-hull-600 no-underline">
+            Set up this board
+          </Link>
+        )}
+      </header>
+      <ElevationFilters value={filters} onChange={setFilters} matching={matching} total={positions.length} />
+      {positions.length === 0 ? (
+        <p className="rounded-lg border border-dashed border-hull-500 p-6 text-center text-mist">No positions on this board yet.</p>
+      ) : (
+        <BoardElevation board={board} tiles={positions} filters={filters} selectedId={selected} onOpen={(t) => select(t.id)} />
+      )}
+      <TileLegend />
+      {selected && (
+        <PositionPanel
+          siteId={site.id}
+          positionId={selected}
+          canDecide={canCurate(role)}
+          onClose={close}
+          links={{
+            quickLog: paths.quickLog.href(site.id, selected),
+            setup: canCurate(role) ? paths.boardSetup.href(site.id, board.id, selected) : undefined,
+            defect: role !== "viewer" ? defectHref(site.id, { positionId: selected, componentId: tile?.component?.id }) : undefined,
+          }}
+        />
+      )}
+    </div>
+  );
+}
