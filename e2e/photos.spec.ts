@@ -11,7 +11,7 @@ async function siteId(page: Page) {
   return ((await r.json()) as { sites: Array<{ id: string; name: string }> }).sites.find((s) => s.name === "MV Kestrel Lantern")!.id;
 }
 
-test("the photographer drops three photos, watches them finish, files them to positions, and the positions count them", async ({ page }) => {
+test("the photographer drops three photos, watches them finish, files them to positions, and the board tiles show the camera badge", async ({ page }) => {
   await signIn(page, "photographer");
   await page.getByRole("link", { name: "Photo desk" }).first().click();
   await expect(page.getByRole("heading", { level: 1, name: "Photo desk" })).toBeVisible();
@@ -53,12 +53,21 @@ test("the photographer drops three photos, watches them finish, files them to po
 
   // Each position now counts its photo (the board tiles' camera badge reads the same rows).
   const id = await siteId(page);
-  const targets = (await (await page.request.get(`/api/sites/${id}/photo-targets`)).json()).targets as Array<{ positionId: string; designation: string; boardName: string }>;
+  const targets = (await (await page.request.get(`/api/sites/${id}/photo-targets`)).json()).targets as Array<{ positionId: string; boardId: string; designation: string; boardName: string }>;
   for (const d of ["4-7", "4-8", "4-9"]) {
     const t = targets.find((x) => x.designation === d && x.boardName.startsWith("Main"))!;
     const list = (await (await page.request.get(`/api/sites/${id}/photos?positionId=${t.positionId}`)).json()).photos as Array<{ originalName: string }>;
     expect(list.some((p) => p.originalName.includes(stamp)), `photo filed to ${d}`).toBe(true);
   }
+  // The board elevation: the three tiles now carry the camera badge (and say so in words).
+  const main = targets.find((x) => x.boardName.startsWith("Main"))!;
+  await page.goto(`/sites/${id}/boards/${main.boardId}`);
+  for (const d of ["4-7", "4-8", "4-9"]) {
+    const tile = page.getByTestId(`tile-${d}`);
+    await expect(tile).toHaveAccessibleName(/\d+ photos?/);
+    await expect(tile.locator('[title="photos"]')).toBeVisible();
+  }
+  await expect(page.getByTestId("tile-4-10")).not.toHaveAccessibleName(/photo/);
 });
 
 test("the shoot list shows what is missing, and the gallery's viewer steps with the keyboard", async ({ page }) => {
