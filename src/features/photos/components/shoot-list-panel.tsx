@@ -21,7 +21,7 @@ export function ShootListPanel({ siteId, boardId }: { siteId: string; boardId: s
       <p>
         <span className="font-semibold">{d.complete} of {d.total} positions</span> have every required shot ({d.shotsTaken} of {d.shotsRequired} shots, {pct} %).
       </p>
-      <progress max={100} value={pct} className="h-3 w-full accent-kelp-400" aria-label="Shoot list progress" />
+      <progress max={100} value={pct} className="h-3 w-full overflow-hidden rounded [&::-webkit-progress-bar]:bg-hull-700 [&::-webkit-progress-value]:bg-kelp-400" aria-label="Shoot list progress" />
       <label className="inline-flex min-h-11 items-center gap-2 text-sm">
         <input type="checkbox" checked={onlyMissing} onChange={(e) => setOnlyMissing(e.target.checked)} /> Only positions still missing a shot
       </label>

@@ -24,7 +24,7 @@ export function UploadList({ items, onRetry }: { items: UploadItem[]; onRetry: (
             </span>
             <span className="min-w-0 flex-1 truncate font-mono text-sm" title={i.file.name}>{i.file.name}</span>
             <progress
-              className="h-3 w-32 accent-brass-400"
+              className="h-3 w-32 overflow-hidden rounded [&::-webkit-progress-bar]:bg-hull-700 [&::-webkit-progress-value]:bg-brass-400"
               max={100}
               value={i.state === "queued" ? 0 : pct}
               aria-label={`Upload progress of ${i.file.name}`}
