@@ -102,6 +102,10 @@ test("the shoot list shows what is missing, and the gallery's viewer steps with 
   await expect(viewer).toHaveAccessibleName(/^Photo 2 of 2/);
   await page.keyboard.press("ArrowLeft");
   await expect(viewer).toHaveAccessibleName(/^Photo 1 of 2/);
+  // Tag it from the viewer: caption and kind, saved with its version.
+  await viewer.getByLabel("Caption").fill("Line side, after cleaning");
+  await viewer.getByRole("button", { name: "Save tags" }).click();
+  await expect(viewer.getByText("✓ Saved.")).toBeVisible();
   await page.screenshot({ path: "/tmp/photos-viewer-desktop.png" });
   await page.keyboard.press("Escape");
   await expect(viewer).toBeHidden();

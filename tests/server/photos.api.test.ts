@@ -86,6 +86,15 @@ describe("upload and renditions", () => {
   });
 });
 
+describe("HEIF container", () => {
+  it("an AV1-compressed HEIF (which sharp decodes itself) is accepted as heif; HEVC goes through heic-decode (not tested: no sample file)", async () => {
+    const heif = await sharp({ create: { width: 120, height: 80, channels: 3, background: "#345" } }).heif({ compression: "av1" }).toBuffer();
+    const r = await upload(as.photographer, [{ name: "phone.heic", data: heif, type: "image/heic" }]);
+    expect(r.status).toBe(201);
+    expect(r.body.photos[0]).toMatchObject({ format: "heif", width: 120, height: 80 });
+  });
+});
+
 describe("refused uploads leave nothing behind", () => {
   let rowsBefore = 0;
   let keysBefore: string[] = [];

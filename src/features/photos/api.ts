@@ -7,6 +7,7 @@ import type { PhotoKind } from "../../domain/vocab";
 export interface PhotoFilter {
   boardId?: string;
   positionId?: string;
+  inspectionId?: string;
   unassigned?: boolean;
   ids?: string[];
 }
@@ -29,7 +30,7 @@ export const photosQueryOptions = (siteId: string, f: PhotoFilter) =>
     queryKey: photoKeys.list(siteId, f),
     queryFn: ({ signal }) =>
       api
-        .get(`/api/sites/${siteId}/photos${qs({ boardId: f.boardId, positionId: f.positionId, unassigned: f.unassigned ? "1" : undefined, ids: f.ids?.join(",") })}`, listResponse, signal)
+        .get(`/api/sites/${siteId}/photos${qs({ boardId: f.boardId, positionId: f.positionId, inspectionId: f.inspectionId, unassigned: f.unassigned ? "1" : undefined, ids: f.ids?.join(",") })}`, listResponse, signal)
         .then((d) => d.photos),
   });
 export const usePhotos = (siteId: string, f: PhotoFilter, enabled = true) => useQuery({ ...photosQueryOptions(siteId, f), enabled });

@@ -63,6 +63,7 @@ export default function GalleryPage() {
           onIndex={(i) => setOpen({ ...open, i })}
           onClose={() => setOpen(null)}
           canDownloadOriginal={isCurator || role === "photographer"}
+          tagTargets={isCurator || role === "photographer" ? targets.data ?? [] : undefined}
           onDelete={isCurator ? (p) => { if (window.confirm("Delete this photo? It is kept for 30 days, then purged.")) remove.mutate(p.id, { onSuccess: () => setOpen(null) }); } : undefined}
         />
       )}

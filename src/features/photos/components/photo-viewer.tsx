@@ -1,7 +1,8 @@
 import { useEffect, useRef } from "react";
 import { PHOTO_KIND_LABELS } from "../../../domain/vocab";
-import type { Photo } from "../../../schemas/photos";
+import type { Photo, PhotoTarget } from "../../../schemas/photos";
 import { photoUrl } from "../api";
+import { PhotoTagForm } from "./photo-tag-form";
 
 interface Props {
   siteId: string;
@@ -11,12 +12,14 @@ interface Props {
   onClose: () => void;
   canDownloadOriginal?: boolean;
   onDelete?: (p: Photo) => void;
+  /** Given to those who may tag (photographer, curator): the form under the picture. */
+  tagTargets?: PhotoTarget[];
 }
 
 const btn = "min-h-11 min-w-11 rounded-md bg-hull-800 px-3 font-semibold text-chalk ring-1 ring-hull-600 hover:bg-hull-700";
 
 /** Full screen, one photo at a time: ← and → step through, Esc closes. */
-export function PhotoViewer({ siteId, photos, index, onIndex, onClose, canDownloadOriginal, onDelete }: Props) {
+export function PhotoViewer({ siteId, photos, index, onIndex, onClose, canDownloadOriginal, onDelete, tagTargets }: Props) {
   const close = useRef<HTMLButtonElement>(null);
   const p = photos[index];
   useEffect(() => {
@@ -26,6 +29,8 @@ export function PhotoViewer({ siteId, photos, index, onIndex, onClose, canDownlo
   }, []);
   useEffect(() => {
     const key = (e: KeyboardEvent) => {
+      // Arrows inside the tag form move the caret, not the photo.
+      if (e.target instanceof HTMLElement && e.target.closest("form") && e.key !== "Escape") return;
       if (e.key === "Escape") onClose();
       else if (e.key === "ArrowRight") onIndex(Math.min(photos.length - 1, index + 1));
       else if (e.key === "ArrowLeft") onIndex(Math.max(0, index - 1));
@@ -56,6 +61,7 @@ export function PhotoViewer({ siteId, photos, index, onIndex, onClose, canDownlo
       <p className="p-3 text-sm text-mist">
         {p.caption || "No caption."} {p.capturedAt && <>· taken {new Date(p.capturedAt).toLocaleString()}</>} {p.cameraModel && <>· {p.cameraModel}</>} · {p.width}×{p.height}
       </p>
+      {tagTargets && <PhotoTagForm siteId={siteId} photo={p} targets={tagTargets} />}
     </div>
   );
 }
