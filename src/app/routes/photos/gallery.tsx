@@ -18,7 +18,9 @@ export default function GalleryPage() {
   const position = targets.data?.find((t) => t.positionId === positionId);
   const boardId = positionId ? position?.boardId : params.get("boardId") ?? boards[0]?.[0];
   const photos = usePhotos(siteId, positionId ? { positionId } : { boardId }, !!(positionId || boardId));
-  const [open, setOpen] = useState<{ list: Photo[]; i: number } | null>(null);
+  // Which group is open (null: the position's own list) and where; the list itself is read
+  // from the query each render, so edits made in the viewer show at once.
+  const [open, setOpen] = useState<{ group: string | null; i: number } | null>(null);
   const { remove } = usePhotoMutations(siteId);
   const isCurator = role === "curator" || role === "admin";
 
@@ -27,6 +29,8 @@ export default function GalleryPage() {
     for (const p of photos.data ?? []) m.set(p.designation ?? "Board (no position)", [...(m.get(p.designation ?? "Board (no position)") ?? []), p]);
     return [...m.entries()].sort(([a], [b]) => a.localeCompare(b, undefined, { numeric: true }));
   }, [photos.data]);
+
+  const openList: Photo[] = !open ? [] : open.group === null ? photos.data ?? [] : groups.find(([d]) => d === open.group)?.[1] ?? [];
 
   return (
     <div className="space-y-4">
@@ -41,7 +45,7 @@ export default function GalleryPage() {
         <EmptyState title="No photos here yet">The photographer's uploads appear here once filed to a position.</EmptyState>
       ) : positionId ? (
         <>
-          <PhotoGrid siteId={siteId} photos={photos.data} onOpen={(i) => setOpen({ list: photos.data, i })} />
+          <PhotoGrid siteId={siteId} photos={photos.data} onOpen={(i) => setOpen({ group: null, i })} />
           <ComparePhotos key={positionId} siteId={siteId} photos={photos.data} />
         </>
       ) : (
@@ -51,15 +55,15 @@ export default function GalleryPage() {
               {list[0].positionId ? <button type="button" className="min-h-11 underline" onClick={() => setParams({ positionId: list[0].positionId! })}>{designation}</button> : designation}
               <span className="ml-2 font-sans text-sm text-mist">{list.length} photo{list.length === 1 ? "" : "s"}</span>
             </h2>
-            <PhotoGrid siteId={siteId} photos={list} onOpen={(i) => setOpen({ list, i })} compact />
+            <PhotoGrid siteId={siteId} photos={list} onOpen={(i) => setOpen({ group: designation, i })} compact />
           </section>
         ))
       )}
-      {open && (
+      {open && openList.length > 0 && (
         <PhotoViewer
           siteId={siteId}
-          photos={open.list}
-          index={open.i}
+          photos={openList}
+          index={Math.min(open.i, openList.length - 1)}
           onIndex={(i) => setOpen({ ...open, i })}
           onClose={() => setOpen(null)}
           canDownloadOriginal={isCurator || role === "photographer"}

@@ -24,6 +24,7 @@ export function BatchAssign({ siteId, photos, targets }: Props) {
   const [boardId, setBoardId] = useState("");
   const [staged, setStaged] = useState<Record<string, Staged>>({});
   const [note, setNote] = useState("");
+  const [kindFor, setKindFor] = useState<Record<string, PhotoKind>>({});
   const { assign } = usePhotoMutations(siteId);
   const boards = useMemo(() => [...new Map(targets.map((t) => [t.boardId, t.boardName])).entries()], [targets]);
   const pool = boardId ? targets.filter((t) => t.boardId === boardId) : targets;
@@ -42,7 +43,11 @@ export function BatchAssign({ siteId, photos, targets }: Props) {
     setTyped("");
   };
   const stage = (photo: Photo, t: PhotoTarget, source: Staged["source"], kind?: PhotoKind) =>
-    setStaged((s) => ({ ...s, [photo.id]: { positionId: t.positionId, kind: kind ?? s[photo.id]?.kind ?? photo.kind, source } }));
+    setStaged((s) => ({ ...s, [photo.id]: { positionId: t.positionId, kind: kind ?? kindFor[photo.id] ?? s[photo.id]?.kind ?? photo.kind, source } }));
+  const setKind = (photo: Photo, k: PhotoKind) => {
+    setKindFor((m) => ({ ...m, [photo.id]: k }));
+    setStaged((s) => (s[photo.id] ? { ...s, [photo.id]: { ...s[photo.id], kind: k } } : s));
+  };
 
   const onKey = (e: KeyboardEvent<HTMLInputElement>) => {
     if (e.key === "Enter" && suggestions[0]) {
@@ -123,8 +128,8 @@ export function BatchAssign({ siteId, photos, targets }: Props) {
           </ul>
           <label className="block text-sm font-semibold text-mist">
             Kind of shot
-            <select className="mt-1 block min-h-11 w-full rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk" value={here?.kind ?? current.kind}
-              onChange={(e) => here ? setStaged((s) => ({ ...s, [current.id]: { ...here, kind: e.target.value as PhotoKind } })) : undefined} disabled={!here}>
+            <select className="mt-1 block min-h-11 w-full rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk" value={here?.kind ?? kindFor[current.id] ?? current.kind}
+              onChange={(e) => setKind(current, e.target.value as PhotoKind)}>
               {PHOTO_KINDS.map((k) => <option key={k} value={k}>{PHOTO_KIND_LABELS[k]}</option>)}
             </select>
           </label>

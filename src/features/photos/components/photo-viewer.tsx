@@ -43,7 +43,7 @@ export function PhotoViewer({ siteId, photos, index, onIndex, onClose, canDownlo
   if (!p) return null;
   const title = [p.designation && `Position ${p.designation}`, PHOTO_KIND_LABELS[p.kind]].filter(Boolean).join(" · ");
   return (
-    <div role="dialog" aria-modal="true" aria-label={`Photo ${index + 1} of ${photos.length}: ${title}`} className="fixed inset-0 z-50 flex flex-col bg-hull-950/95">
+    <div role="dialog" aria-modal="true" aria-label={`Photo ${index + 1} of ${photos.length}: ${title}`} className="fixed inset-0 z-50 flex flex-col overflow-y-auto bg-hull-950">
       <div className="flex flex-wrap items-center gap-2 p-2">
         <p className="flex-1 text-sm text-chalk">
           <span className="font-semibold">{title}</span>
