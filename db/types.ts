@@ -285,6 +285,14 @@ export interface NotificationPrefsTable {
   updatedAt: Timestamp;
 }
 
+/** Per site: which photo kinds every position needs (the photographer's shoot list). */
+export interface PhotoSettingsTable {
+  siteId: string;
+  requiredKinds: ColumnType<PhotoKind[], PhotoKind[] | undefined, PhotoKind[]>;
+  version: Generated<number>;
+  updatedAt: Timestamp;
+}
+
 export interface Database {
   users: UsersTable;
   sessions: SessionsTable;
@@ -304,6 +312,7 @@ export interface Database {
   invitations: InvitationsTable;
   passwordResets: PasswordResetsTable;
   notificationPrefs: NotificationPrefsTable;
+  photoSettings: PhotoSettingsTable;
 }
 
 export type User = Selectable<UsersTable>;

@@ -11,6 +11,8 @@ import { errorHandler } from "./middleware/error-handler";
 import { originCheck } from "./middleware/origin";
 import { sessionMiddleware } from "./middleware/session";
 import { siteRoutes } from "./sites/routes";
+import { photoRoutes } from "./photos/routes";
+import { storageFromEnv, type PhotoStorage } from "./photos/storage";
 import { inventoryRoutes } from "./inventory/routes";
 import { invitationRoutes } from "./invitations/routes";
 import type { FakeMailbox } from "./mail/fake-smtp";
@@ -31,6 +33,8 @@ export interface AppDeps {
   mailbox?: FakeMailbox;
   /** Base URL for links in e-mail (PUBLIC_URL). */
   publicUrl?: string;
+  /** Where photo files go; default from env (PHOTO_STORAGE, local disk under .data/photos). */
+  photoStorage?: PhotoStorage;
 }
 
 export function createApp(deps: AppDeps) {
@@ -56,6 +60,7 @@ export function createApp(deps: AppDeps) {
   api.use(sessionMiddleware(lucia));
   api.use(authRoutes(db, lucia));
   api.use(siteRoutes(db));
+  api.use(photoRoutes(db, deps.photoStorage ?? storageFromEnv()));
   api.use(inventoryRoutes(db));
   api.use(invitationRoutes(mail, lucia));
   api.use(passwordResetRoutes(mail, lucia));

@@ -4,6 +4,7 @@ import { hashPassword } from "../../server/auth/password";
 import { DEMO_PASSWORD, DEMO_PEOPLE, DEMO_SITE } from "./people";
 import { seedInventory } from "./inventory";
 import { seedInvitations } from "./invitations";
+import { seedPhotos } from "./photos";
 
 type Db = Kysely<Database>;
 
@@ -41,4 +42,5 @@ export interface SeedContext {
 export const SEED_STEPS: Array<(trx: Db, ctx: SeedContext) => Promise<void>> = [
   seedInventory, // boards, positions, components and the survey: first, others hang on it
   seedInvitations,
+  (trx, ctx) => seedPhotos(trx, ctx), // a few labelled drawings filed to positions (after the inventory)
 ];

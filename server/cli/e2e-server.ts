@@ -4,8 +4,14 @@ import { buildClient, log, prepareDatabase } from "./prepare";
 import { ensureDatabase } from "../../db/pg";
 import { openLocalDatabase } from "../../db/local";
 import { serve } from "../index";
+import { rmSync } from "node:fs";
+import { join } from "node:path";
+import { projectRoot } from "../../db/pg";
 
 const name = process.env.E2E_DATABASE ?? "tideline_e2e";
+// The e2e database is fresh each run; so is its photo folder, apart from the dev one.
+process.env.PHOTO_DIR ??= join(projectRoot, ".data", "photos-e2e");
+rmSync(process.env.PHOTO_DIR, { recursive: true, force: true });
 const cluster = await openLocalDatabase("test", "postgres");
 await ensureDatabase(cluster.adminUrl, name, { fresh: true });
 const { local, db } = await prepareDatabase("test", name);

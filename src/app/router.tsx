@@ -27,6 +27,9 @@ export const router = createBrowserRouter([
         children: [
           { index: true, ...page(() => import("./routes/sites/site-home")) },
           { path: "members", ...page(() => import("./routes/sites/members")) },
+          { path: "photos", ...page(() => import("./routes/photos/photo-desk")) },
+          { path: "photos/shoot-list", ...page(() => import("./routes/photos/shoot-list")) },
+          { path: "photos/gallery", ...page(() => import("./routes/photos/gallery")) },
           { path: "boards", ...page(() => import("./routes/boards/board-list")) },
           { path: "boards/new", ...page(() => import("./routes/boards/board-new")) },
           { path: "boards/:boardId", ...page(() => import("./routes/boards/board-elevation")) },

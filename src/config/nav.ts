@@ -18,6 +18,11 @@ export const SITE_NAV: NavItem[] = [
   { label: "Flood", href: (s) => paths.floodEvents.href(s), roles: ["curator", "admin"] },
   { label: "Import CSV", href: (s) => paths.inventoryImport.href(s), roles: ["curator", "admin"] },
   { label: "Crew", href: (s) => paths.members.href(s), roles: ["curator", "admin"] },
+  // In the phone bar for the photographer only (the curator's four are taken).
+  { label: "Photo desk", href: (s) => paths.photos.href(s), roles: ["photographer"], phone: true },
+  { label: "Photo desk", href: (s) => paths.photos.href(s), roles: ["curator", "admin"] },
+  { label: "Shoot list", href: (s) => paths.photoShootList.href(s), roles: ["photographer", "curator", "admin"] },
+  { label: "Photos", href: (s) => paths.photoGallery.href(s), roles: [] },
 ];
 
 export const visibleNav = (role: Role | "admin") => SITE_NAV.filter((n) => !n.roles.length || n.roles.includes(role));

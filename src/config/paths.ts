@@ -24,6 +24,13 @@ export const paths = {
   inventoryImport: { path: "/sites/:siteId/inventory/import", href: (siteId: string) => `/sites/${siteId}/inventory/import` },
   floodEvents: { path: "/sites/:siteId/flood", href: (siteId: string) => `/sites/${siteId}/flood` },
   admin: { path: "/admin", href: () => "/admin" },
+  photos: { path: "/sites/:siteId/photos", href: (siteId: string) => `/sites/${siteId}/photos` },
+  photoShootList: { path: "/sites/:siteId/photos/shoot-list", href: (siteId: string, boardId?: string) => `/sites/${siteId}/photos/shoot-list${boardId ? `?boardId=${boardId}` : ""}` },
+  photoGallery: {
+    path: "/sites/:siteId/photos/gallery",
+    href: (siteId: string, f: { boardId?: string; positionId?: string } = {}) =>
+      `/sites/${siteId}/photos/gallery${f.positionId ? `?positionId=${f.positionId}` : f.boardId ? `?boardId=${f.boardId}` : ""}`,
+  },
   safety: { path: "/safety", href: () => "/safety" },
   invite: { path: "/invite/:token", href: (token: string) => `/invite/${token}` },
   resetRequest: { path: "/reset-password", href: () => "/reset-password" },
