@@ -2,6 +2,7 @@ import type { Kysely } from "kysely";
 import type { Database } from "../types";
 import { hashPassword } from "../../server/auth/password";
 import { DEMO_PASSWORD, DEMO_PEOPLE, DEMO_SITE } from "./people";
+import { seedDefects } from "./defects";
 import { seedInventory } from "./inventory";
 
 type Db = Kysely<Database>;
@@ -39,4 +40,5 @@ export interface SeedContext {
 /** Later features append their part of the scenario here, in order. */
 export const SEED_STEPS: Array<(trx: Db, ctx: SeedContext) => Promise<void>> = [
   seedInventory, // boards, positions, components and the survey: first, others hang on it
+  seedDefects, // the defect register, raised from the inventory's inspections
 ];
