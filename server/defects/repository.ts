@@ -149,3 +149,19 @@ export async function rankOf(db: Db, siteId: string, defectId: string) {
 
 export const listViews = (db: Db, siteId: string, userId: string) =>
   db.selectFrom("defectViews").select(["id", "name", "query", "version", "updatedAt"]).where("siteId", "=", siteId).where("userId", "=", userId).orderBy("name").execute();
+
+/** Where a survey finding sits, for the prefilled "raise a defect" form. */
+export async function findingContext(db: Db, siteId: string, q: { positionId?: string; componentId?: string; inspectionId?: string }) {
+  let positionId = q.positionId ?? null;
+  let componentId = q.componentId ?? null;
+  if (q.inspectionId) {
+    const i = await findInspection(db, siteId, q.inspectionId);
+    if (i) { positionId ??= i.positionId; componentId ??= i.componentId; }
+  }
+  if (!positionId && componentId) positionId = (await findComponent(db, siteId, componentId))?.positionId ?? null;
+  if (!positionId) return null;
+  const p = await db.selectFrom("positions").select(["id", "boardId", "sectionId", "designation"]).where("siteId", "=", siteId).where("id", "=", positionId).executeTakeFirst();
+  if (!p) return null;
+  componentId ??= (await findPosition(db, siteId, p.id))?.componentId ?? null;
+  return { boardId: p.boardId, sectionId: p.sectionId, positionId: p.id, designation: p.designation, componentId, inspectionId: q.inspectionId ?? null };
+}

@@ -55,6 +55,11 @@ export function defectRoutes(db: Db) {
     res.json({ positions: await repo.listPositions(db, siteId, boardId) });
   });
 
+  r.get("/sites/:siteId/defect-context", member, async (req, res) => {
+    const q = z.object({ positionId: z.uuid().optional(), componentId: z.uuid().optional(), inspectionId: z.uuid().optional() }).parse(req.query);
+    res.json({ context: await repo.findingContext(db, ctxOf(req, res).siteId, q) });
+  });
+
   r.get("/sites/:siteId/repair-plan", member, async (req, res) => {
     res.json(await repairPlan(db, ctxOf(req, res).siteId));
   });

@@ -22,6 +22,11 @@ export const router = createBrowserRouter([
         children: [
           { index: true, ...page(() => import("./routes/sites/site-home")) },
           { path: "members", ...page(() => import("./routes/sites/members")) },
+          { path: "defects", ...page(() => import("./routes/defects/register")) },
+          { path: "defects/new", ...page(() => import("./routes/defects/raise")) },
+          { path: "defects/how-priority-works", ...page(() => import("./routes/defects/priority-help")) },
+          { path: "defects/:defectId", ...page(() => import("./routes/defects/detail")) },
+          { path: "repair-plan", ...page(() => import("./routes/defects/repair-plan")) },
           { path: "*", ...page(() => import("./routes/not-found")) },
         ],
       },

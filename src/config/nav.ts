@@ -13,6 +13,8 @@ export interface NavItem {
 /** The site's navigation, in order. Each feature adds its pages here. */
 export const SITE_NAV: NavItem[] = [
   { label: "Overview", href: (s) => paths.site.href(s), roles: [], phone: true },
+  { label: "Defects", href: (s) => paths.defects.href(s), roles: [], phone: true },
+  { label: "Repair plan", href: (s) => paths.repairPlan.href(s), roles: ["curator", "admin"] },
   { label: "Crew", href: (s) => paths.members.href(s), roles: ["curator", "admin"] },
 ];
 

@@ -185,3 +185,7 @@ export const planResponse = z.object({
   })),
 });
 export type RepairPlan = z.infer<typeof planResponse>;
+
+export const contextResponse = z.object({
+  context: z.object({ boardId: z.string(), sectionId: z.string().nullable(), positionId: z.string(), designation: z.string(), componentId: z.string().nullable(), inspectionId: z.string().nullable() }).nullable(),
+});
