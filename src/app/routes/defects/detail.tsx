@@ -32,7 +32,7 @@ export default function DefectPage() {
   ];
   return (
     <div className="space-y-4">
-      <p className="no-print text-sm"><Link to={paths.defects.href(site.id)}>← Defect register</Link></p>
+      <p className="no-print text-sm"><Link className="underline" to={paths.defects.href(site.id)}>← Defect register</Link></p>
       <header>
         <p className="font-mono text-brass-300">D-{d.ref}</p>
         <h1 className="text-2xl font-bold">{d.title}</h1>
@@ -48,7 +48,7 @@ export default function DefectPage() {
           <dl className="mt-2 grid grid-cols-[8rem_1fr] gap-x-3 gap-y-1 text-sm">
             {facts.map(([k, v]) => <div key={k} className="contents"><dt className="text-mist">{k}</dt><dd>{v}</dd></div>)}
             <dt className="text-mist">Photos</dt>
-            <dd>{detail.photoCount} attached{d.positionId && <> · <a href={`/sites/${site.id}/positions/${d.positionId}`}>position {d.designation} and its photos</a></>}</dd>
+            <dd>{detail.photoCount} attached{d.positionId && <> · <a className="underline" href={`/sites/${site.id}/positions/${d.positionId}`}>position {d.designation} and its photos</a></>}</dd>
           </dl>
         </section>
         <WhyItRanks siteId={site.id} detail={detail} />

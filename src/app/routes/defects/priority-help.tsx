@@ -24,7 +24,7 @@ export default function PriorityHelpPage() {
   const { site } = useSiteContext();
   return (
     <article className="max-w-3xl space-y-4">
-      <p className="text-sm"><Link to={paths.defects.href(site.id)}>← Defect register</Link></p>
+      <p className="text-sm"><Link className="underline" to={paths.defects.href(site.id)}>← Defect register</Link></p>
       <h1 className="text-2xl font-bold">How priority works</h1>
       <p className="text-mist">Every defect gets points from the same formula; the register and the repair plan list the highest first. Each defect's page shows its own terms under “Why it ranks here”.</p>
       <FormulaText />

@@ -52,7 +52,7 @@ export function Register({ siteId, canManage, canRaise }: { siteId: string; canM
           {filtered ? (
             <button type="button" className="underline" onClick={() => onState({ q: "", board: [], category: [], severity: [], status: [], assignee: [], flag: [], page: 0 })}>Clear the filters to see every defect.</button>
           ) : canRaise ? (
-            <>Raise one from a survey finding, or <Link to={paths.defectNew.href(siteId)}>raise a defect</Link> here.</>
+            <>Raise one from a survey finding, or <Link className="underline" to={paths.defectNew.href(siteId)}>raise a defect</Link> here.</>
           ) : (
             <>Defects appear here once the crew raises them from the survey.</>
           )}

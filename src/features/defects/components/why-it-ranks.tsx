@@ -27,7 +27,7 @@ export function WhyItRanks({ siteId, detail }: { siteId: string; detail: DefectD
           </tr>
         </tbody>
       </table>
-      <p className="mt-2 text-sm"><Link to={paths.priorityHelp.href(siteId)}>How the points are worked out</Link></p>
+      <p className="mt-2 text-sm"><Link className="underline" to={paths.priorityHelp.href(siteId)}>How the points are worked out</Link></p>
     </section>
   );
 }
