@@ -28,7 +28,7 @@ export function FlagMarks({ safety, blocking }: { safety: boolean; blocking: boo
   return (
     <span className="mt-1 flex flex-wrap gap-1 text-xs">
       {safety && <span className="rounded border border-flare-400 px-1.5 text-flare-300">⚡ Safety-critical</span>}
-      {blocking && <span className="rounded border border-brass-400 px-1.5 text-brass-300">⛔ Blocks energising</span>}
+      {blocking && <span className="rounded border border-brass-400 px-1.5 text-brass-300">■ Blocks energising</span>}
     </span>
   );
 }

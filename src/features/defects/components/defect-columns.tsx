@@ -46,7 +46,7 @@ export function makeColumns(siteId: string) {
       cell: (c) => (
         <span className="font-mono">
           {c.getValue()}
-          {c.row.original.pinned && <span className="ml-1 text-tide-300" title={`Pinned ${c.row.original.pinned} another defect`}>📌<span className="sr-only"> pinned {c.row.original.pinned}</span></span>}
+          {c.row.original.pinned && <span className="ml-1 rounded bg-tide-700 px-1 text-xs text-tide-300" title={`Pinned ${c.row.original.pinned} another defect`}>{c.row.original.pinned === "above" ? "↑" : "↓"} pin<span className="sr-only">ned {c.row.original.pinned}</span></span>}
         </span>
       ),
     }),

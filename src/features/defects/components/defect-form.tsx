@@ -84,7 +84,7 @@ export function DefectForm({ siteId, options, prefill, canManage, onSubmit, pend
       </label>
       <label className="flex min-h-11 items-start gap-3 rounded-md bg-hull-900 p-3 ring-1 ring-brass-400/60">
         <input type="checkbox" name="blocksEnergisation" className="mt-1 h-5 w-5 accent-brass-400" />
-        <span><span className="block font-semibold">⛔ Blocks energising its section</span><span className="block text-sm text-mist">The section must not be brought back until this is dealt with.</span></span>
+        <span><span className="block font-semibold">■ Blocks energising its section</span><span className="block text-sm text-mist">The section must not be brought back until this is dealt with.</span></span>
       </label>
       <TextField label="Estimated effort (hours)" name="effortHours" type="number" min={0} step={0.5} inputMode="decimal" error={fields.effortHours} hint="Leave blank if unknown: it counts as a working day." />
       <TextField label="Estimated cost" name="costEstimate" type="number" min={0} step={1} inputMode="decimal" error={fields.costEstimate} />

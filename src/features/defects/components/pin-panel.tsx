@@ -30,7 +30,7 @@ export function PinPanel({ siteId, detail, canManage }: { siteId: string; detail
       <ul className="space-y-2">
         {detail.pins.map((p) => (
           <li key={p.id} className={`rounded-md p-2 ring-1 ${p.removedAt ? "ring-hull-700 text-fog" : "ring-tide-400"}`}>
-            <p>📌 Pinned <strong>{p.direction}</strong> D-{p.relativeRef ?? "?"} by {p.pinnedByName ?? "someone"} on {when(p.pinnedAt)} {p.removedAt ? "(lifted)" : "(in force)"}</p>
+            <p>Pinned <strong>{p.direction}</strong> D-{p.relativeRef ?? "?"} by {p.pinnedByName ?? "someone"} on {when(p.pinnedAt)} {p.removedAt ? "(lifted)" : "(in force)"}</p>
             <p className="text-sm">Reason: {p.reason}</p>
             {p.removedAt && <p className="text-sm">Lifted by {p.removedByName ?? "someone"} on {when(p.removedAt)}{p.removedReason ? `: ${p.removedReason}` : ""}</p>}
           </li>
