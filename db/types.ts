@@ -224,6 +224,46 @@ export interface DefectsTable extends Versioned {
   createdBy: string | null;
   /** priorityScore() of src/domain/priority.ts, stored on every write so the register sorts by it. */
   priorityScore: Generated<number>;
+  /** Human reference shown as D-<ref> (migration 0400). */
+  ref: Generated<number>;
+}
+
+/** A curator's pin of a defect just above or below another, with the reason (migration 0400). */
+export interface DefectPinsTable {
+  id: Generated<string>;
+  siteId: string;
+  defectId: string;
+  direction: "above" | "below";
+  relativeTo: string;
+  reason: string;
+  pinnedBy: string | null;
+  pinnedAt: Timestamp;
+  removedAt: Date | null;
+  removedBy: string | null;
+  removedReason: Generated<string>;
+}
+
+export interface DefectStatusChangesTable {
+  id: Generated<number>;
+  siteId: string;
+  defectId: string;
+  fromStatus: DefectStatus | null;
+  toStatus: DefectStatus;
+  reason: Generated<string>;
+  actorId: string | null;
+  at: Timestamp;
+}
+
+/** A person's saved register view: the register's URL query string under a name. */
+export interface DefectViewsTable {
+  id: Generated<string>;
+  siteId: string;
+  userId: string;
+  name: string;
+  query: Generated<string>;
+  version: Generated<number>;
+  createdAt: Timestamp;
+  updatedAt: Timestamp;
 }
 
 export interface PhotosTable extends Versioned {
@@ -313,6 +353,9 @@ export interface Database {
   passwordResets: PasswordResetsTable;
   notificationPrefs: NotificationPrefsTable;
   photoSettings: PhotoSettingsTable;
+  defectPins: DefectPinsTable;
+  defectStatusChanges: DefectStatusChangesTable;
+  defectViews: DefectViewsTable;
 }
 
 export type User = Selectable<UsersTable>;

@@ -20,6 +20,7 @@ import { unconfiguredMailer, type Mailer } from "./mail/mailer";
 import { mailboxRoutes } from "./mail/routes";
 import { notificationRoutes } from "./notifications/routes";
 import { passwordResetRoutes } from "./password-reset/routes";
+import { defectRoutes } from "./defects/routes";
 
 export interface AppDeps {
   db: Db;
@@ -66,6 +67,7 @@ export function createApp(deps: AppDeps) {
   api.use(passwordResetRoutes(mail, lucia));
   api.use(notificationRoutes(db));
   api.use(mailboxRoutes(deps.mailbox));
+  api.use(defectRoutes(db));
   api.use((_req, _res, next) => next(new AppError(404, "not_found", "No such API route.")));
   api.use(errorHandler);
 

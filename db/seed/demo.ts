@@ -2,6 +2,7 @@ import type { Kysely } from "kysely";
 import type { Database } from "../types";
 import { hashPassword } from "../../server/auth/password";
 import { DEMO_PASSWORD, DEMO_PEOPLE, DEMO_SITE } from "./people";
+import { seedDefects } from "./defects";
 import { seedInventory } from "./inventory";
 import { seedInvitations } from "./invitations";
 import { seedPhotos } from "./photos";
@@ -43,4 +44,5 @@ export const SEED_STEPS: Array<(trx: Db, ctx: SeedContext) => Promise<void>> = [
   seedInventory, // boards, positions, components and the survey: first, others hang on it
   seedInvitations,
   (trx, ctx) => seedPhotos(trx, ctx), // a few labelled drawings filed to positions (after the inventory)
+  seedDefects, // the defect register, raised from the inventory's inspections
 ];

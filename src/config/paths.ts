@@ -23,6 +23,17 @@ export const paths = {
   },
   inventoryImport: { path: "/sites/:siteId/inventory/import", href: (siteId: string) => `/sites/${siteId}/inventory/import` },
   floodEvents: { path: "/sites/:siteId/flood", href: (siteId: string) => `/sites/${siteId}/flood` },
+  defects: { path: "/sites/:siteId/defects", href: (siteId: string, query = "") => `/sites/${siteId}/defects${query ? `?${query}` : ""}` },
+  defectNew: {
+    path: "/sites/:siteId/defects/new",
+    href: (siteId: string, prefill: { positionId?: string; componentId?: string; inspectionId?: string; category?: string; severity?: string; boardId?: string } = {}) => {
+      const q = new URLSearchParams(Object.entries(prefill).filter(([, v]) => v) as Array<[string, string]>).toString();
+      return `/sites/${siteId}/defects/new${q ? `?${q}` : ""}`;
+    },
+  },
+  defect: { path: "/sites/:siteId/defects/:defectId", href: (siteId: string, defectId: string) => `/sites/${siteId}/defects/${defectId}` },
+  priorityHelp: { path: "/sites/:siteId/defects/how-priority-works", href: (siteId: string) => `/sites/${siteId}/defects/how-priority-works` },
+  repairPlan: { path: "/sites/:siteId/repair-plan", href: (siteId: string) => `/sites/${siteId}/repair-plan` },
   admin: { path: "/admin", href: () => "/admin" },
   photos: { path: "/sites/:siteId/photos", href: (siteId: string) => `/sites/${siteId}/photos` },
   photoShootList: { path: "/sites/:siteId/photos/shoot-list", href: (siteId: string, boardId?: string) => `/sites/${siteId}/photos/shoot-list${boardId ? `?boardId=${boardId}` : ""}` },

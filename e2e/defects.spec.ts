@@ -1,0 +1,104 @@
+import { expect, test, type Page } from "@playwright/test";
+import { expectNoSeriousA11yViolations } from "./support/a11y";
+import { signIn } from "./support/auth";
+
+async function openRegister(page: Page) {
+  await page.getByRole("link", { name: "Defects", exact: true }).first().click();
+  await expect(page.getByRole("heading", { level: 1, name: "Defect register" })).toBeVisible();
+  await expect(page.getByRole("status").filter({ hasText: /Showing/ })).toBeVisible();
+}
+const refs = (page: Page) => page.locator("tbody a[data-row-link]").allInnerTexts();
+
+test("the curator filters and sorts the register, and a shared link opens the same view", async ({ page, context }) => {
+  await signIn(page, "curator");
+  await openRegister(page);
+  await page.locator("summary", { hasText: "Severity" }).click();
+  await page.getByRole("checkbox", { name: "4 · Disabling" }).check();
+  await page.locator("summary", { hasText: "Severity" }).click();
+  await expect(page).toHaveURL(/severity=disabling/);
+  await page.getByRole("button", { name: /^Due/ }).click();
+  await expect(page).toHaveURL(/sort=dueOn/);
+  await expect(page.getByRole("columnheader", { name: /Due/ })).toHaveAttribute("aria-sort", /ascending|descending/);
+  const badges = await page.locator("tbody").getByText(/4 · Disabling/).count();
+  expect(badges).toBe(await page.locator("tbody tr").count());
+  const mine = await refs(page);
+  expect(mine.length).toBeGreaterThan(0);
+  const shared = await context.newPage();
+  await shared.goto(page.url());
+  await expect(shared.getByRole("status").filter({ hasText: /Showing/ })).toBeVisible();
+  expect(await refs(shared)).toEqual(mine);
+  await expect(shared.getByRole("columnheader", { name: /Due/ })).toHaveAttribute("aria-sort", /ascending|descending/);
+  await expectNoSeriousA11yViolations(page, "defect register");
+});
+
+test("the register moves between rows with the arrow keys", async ({ page }) => {
+  await signIn(page, "curator");
+  await openRegister(page);
+  const links = page.locator("tbody a[data-row-link]");
+  await links.first().focus();
+  await page.keyboard.press("ArrowDown");
+  await expect(links.nth(1)).toBeFocused();
+  await page.keyboard.press("x");
+  await expect(page.getByText("1 selected")).toBeVisible();
+});
+
+test("the curator pins a defect with a reason and the pin shows with its reason", async ({ page }) => {
+  await signIn(page, "curator");
+  await openRegister(page);
+  const all = await refs(page);
+  const target = all[1];
+  await page.locator("tbody a[data-row-link]").nth(12).click();
+  await expect(page.getByRole("heading", { name: "Why it ranks here" })).toBeVisible();
+  const reason = `Same enclosure is open (${Date.now()})`;
+  await page.getByLabel("Pin it").selectOption("below");
+  await page.getByLabel("defect", { exact: true }).fill(target);
+  await page.getByLabel("because").fill(reason);
+  await page.getByRole("button", { name: "Pin", exact: true }).click();
+  await expect(page.getByText(`Reason: ${reason}`)).toBeVisible();
+  await expect(page.getByText(new RegExp(`Pinned below ${target} by Ines Marrow`))).toBeVisible();
+  await expectNoSeriousA11yViolations(page, "defect page");
+  await page.getByRole("button", { name: "Lift the pin" }).click();
+  await expect(page.getByText("(lifted)").first()).toBeVisible();
+});
+
+test("a volunteer raises a prefilled defect, sees no pin form, and cannot use bulk actions", async ({ page }) => {
+  await signIn(page, "volunteer");
+  const siteUrl = page.url().match(/\/sites\/[^/]+/)![0];
+  await page.goto(`${siteUrl}/defects/new?category=corrosion&severity=degraded`);
+  await expect(page.getByRole("heading", { name: "Raise a defect" })).toBeVisible();
+  await expect(page.getByLabel("Category")).toHaveValue("corrosion");
+  await expect(page.getByRole("radio", { name: /2 · Degraded/ })).toBeChecked();
+  await expect(page.getByText("Cannot do its job or stops its section being brought back")).toBeVisible();
+  await expectNoSeriousA11yViolations(page, "raise-a-defect form");
+  await page.getByLabel("What is wrong").fill("Green verdigris on the neutral bar");
+  await page.getByRole("button", { name: "Raise the defect" }).click();
+  await expect(page.getByRole("heading", { level: 1, name: "Green verdigris on the neutral bar" })).toBeVisible();
+  await expect(page.getByRole("button", { name: "Start the repair" })).toBeVisible();
+  await expect(page.getByLabel("because")).toHaveCount(0);
+  await expect(page.getByRole("button", { name: "Pin", exact: true })).toHaveCount(0);
+  await page.goto(`${siteUrl}/defects`);
+  await expect(page.getByRole("status").filter({ hasText: /Showing/ })).toBeVisible();
+  await page.locator("tbody input[type=checkbox]").first().check();
+  await expect(page.getByRole("button", { name: "Apply…" })).toHaveCount(0);
+});
+
+test("the curator bulk-assigns with one confirmation; the repair plan prints by section with totals", async ({ page }) => {
+  await signIn(page, "curator");
+  await openRegister(page);
+  await page.goto(page.url() + "?status=open&sort=ref&dir=desc");
+  await expect(page.getByRole("status").filter({ hasText: /Showing/ })).toBeVisible();
+  const boxes = page.locator("tbody input[type=checkbox]");
+  await boxes.nth(0).check();
+  await boxes.nth(1).check();
+  await page.getByLabel("Assign to").selectOption({ label: "Tobias Quell" });
+  await page.getByRole("button", { name: "Apply…" }).click();
+  await page.getByRole("button", { name: "Yes, change 2" }).click();
+  await expect(page.getByText("2 selected")).toHaveCount(0);
+  await expect(page.locator("tbody tr").nth(0)).toContainText("Tobias Quell");
+  await page.getByRole("link", { name: "Repair plan" }).first().click();
+  await expect(page.getByRole("heading", { level: 1, name: /Repair plan/ })).toBeVisible();
+  await expect(page.getByText("Section total").first()).toBeVisible();
+  await expectNoSeriousA11yViolations(page, "repair plan");
+  await page.emulateMedia({ media: "print" });
+  await expect(page.getByRole("button", { name: "Print the plan" })).toBeHidden();
+});

@@ -1,0 +1,167 @@
+import { sql } from "kysely";
+import type { Insertable, Updateable } from "kysely";
+import type { Database } from "../../db/types";
+import type { Db } from "../db";
+import { registerBase, ROW_COLUMNS, RANK_KEY, RANK_TIE, type RegisterRow } from "./list-query";
+
+export const findRow = async (db: Db, siteId: string, id: string) =>
+  (await registerBase(db, siteId, false).select(ROW_COLUMNS as any).where("d.id", "=", id).executeTakeFirst()) as RegisterRow | undefined;
+
+/** Locks the defect row for the rest of the transaction (serialises concurrent moves). */
+export const lockDefect = (db: Db, siteId: string, id: string) =>
+  db.selectFrom("defects").selectAll().where("siteId", "=", siteId).where("id", "=", id).forUpdate().executeTakeFirst();
+
+export const insertDefect = (db: Db, v: Insertable<Database["defects"]>) =>
+  db.insertInto("defects").values(v).returning("id").executeTakeFirstOrThrow();
+
+/** Writes a patch and bumps the version; nothing is written unless `version` is current. */
+export const updateDefect = (db: Db, id: string, version: number, patch: Updateable<Database["defects"]>) =>
+  db
+    .updateTable("defects")
+    .set({ ...patch, version: sql`version + 1`, updatedAt: sql`now()` })
+    .where("id", "=", id)
+    .where("version", "=", version)
+    .returning("id")
+    .executeTakeFirst();
+
+export const insertStatusChange = (db: Db, v: Insertable<Database["defectStatusChanges"]>) =>
+  db.insertInto("defectStatusChanges").values(v).execute();
+
+/** Heritage of the linked component (priority's "original fabric" term). */
+export const componentHeritage = async (db: Db, siteId: string, componentId: string | null) =>
+  componentId
+    ? (await db.selectFrom("components").select("heritage").where("siteId", "=", siteId).where("id", "=", componentId).executeTakeFirst())?.heritage ?? null
+    : null;
+
+export const findPosition = (db: Db, siteId: string, id: string) =>
+  db
+    .selectFrom("positions as p")
+    .leftJoin("components as c", (j) => j.onRef("c.positionId", "=", "p.id").on("c.retiredAt", "is", null))
+    .select(["p.id", "p.boardId", "p.sectionId", "c.id as componentId"])
+    .where("p.siteId", "=", siteId)
+    .where("p.id", "=", id)
+    .executeTakeFirst();
+
+export const findComponent = (db: Db, siteId: string, id: string) =>
+  db.selectFrom("components").select(["id", "positionId"]).where("siteId", "=", siteId).where("id", "=", id).executeTakeFirst();
+export const findInspection = (db: Db, siteId: string, id: string) =>
+  db.selectFrom("inspections").select(["id", "positionId", "componentId"]).where("siteId", "=", siteId).where("id", "=", id).executeTakeFirst();
+export const findBoard = (db: Db, siteId: string, id: string) =>
+  db.selectFrom("boards").select("id").where("siteId", "=", siteId).where("id", "=", id).executeTakeFirst();
+export const findSection = (db: Db, siteId: string, id: string) =>
+  db.selectFrom("sections").select(["id", "boardId"]).where("siteId", "=", siteId).where("id", "=", id).executeTakeFirst();
+
+export const memberRole = async (db: Db, siteId: string, userId: string) =>
+  (await db.selectFrom("memberships").select("role").where("siteId", "=", siteId).where("userId", "=", userId).executeTakeFirst())?.role ?? null;
+
+export const listCrew = (db: Db, siteId: string) =>
+  db
+    .selectFrom("memberships as m")
+    .innerJoin("users as u", "u.id", "m.userId")
+    .select(["u.id", "u.name", "m.role"])
+    .where("m.siteId", "=", siteId)
+    .orderBy("u.name")
+    .execute();
+
+export const listBoards = (db: Db, siteId: string) =>
+  db.selectFrom("boards").select(["id", "name"]).where("siteId", "=", siteId).orderBy("name").execute();
+export const listSections = (db: Db, siteId: string) =>
+  db.selectFrom("sections").select(["id", "boardId", "name"]).where("siteId", "=", siteId).orderBy("boardId").orderBy("sortOrder").execute();
+export const listPositions = (db: Db, siteId: string, boardId: string) =>
+  db
+    .selectFrom("positions as p")
+    .leftJoin("components as c", (j) => j.onRef("c.positionId", "=", "p.id").on("c.retiredAt", "is", null))
+    .select(["p.id", "p.designation", "p.sectionId", "c.id as componentId"])
+    .where("p.siteId", "=", siteId)
+    .where("p.boardId", "=", boardId)
+    .orderBy("p.sortOrder")
+    .orderBy("p.designation")
+    .limit(2000)
+    .execute();
+
+export const pinsOf = (db: Db, siteId: string, defectId: string) =>
+  db
+    .selectFrom("defectPins as pn")
+    .leftJoin("users as ua", "ua.id", "pn.pinnedBy")
+    .leftJoin("users as ub", "ub.id", "pn.removedBy")
+    .leftJoin("defects as t", "t.id", "pn.relativeTo")
+    .select([
+      "pn.id", "pn.direction", "pn.relativeTo", "t.ref as relativeRef", "pn.reason", "pn.pinnedBy", "ua.name as pinnedByName",
+      "pn.pinnedAt", "pn.removedAt", "ub.name as removedByName", "pn.removedReason",
+    ])
+    .where("pn.siteId", "=", siteId)
+    .where("pn.defectId", "=", defectId)
+    .orderBy("pn.pinnedAt", "desc")
+    .execute();
+
+export const activePin = (db: Db, defectId: string) =>
+  db.selectFrom("defectPins").selectAll().where("defectId", "=", defectId).where("removedAt", "is", null).executeTakeFirst();
+export const isPinTarget = async (db: Db, defectId: string) =>
+  !!(await db.selectFrom("defectPins").select("id").where("relativeTo", "=", defectId).where("removedAt", "is", null).executeTakeFirst());
+
+export const statusHistory = (db: Db, defectId: string) =>
+  db
+    .selectFrom("defectStatusChanges as h")
+    .leftJoin("users as u", "u.id", "h.actorId")
+    .select(["h.id", "h.fromStatus", "h.toStatus", "h.reason", "u.name as actorName", "h.at"])
+    .where("h.defectId", "=", defectId)
+    .orderBy("h.at", "desc")
+    .orderBy("h.id", "desc")
+    .execute();
+
+export const auditOf = (db: Db, siteId: string, defectId: string) =>
+  db
+    .selectFrom("auditLog as l")
+    .leftJoin("users as u", "u.id", "l.actorId")
+    .select(["l.id", "l.action", "u.name as actorName", "l.at", "l.after"])
+    .where("l.siteId", "=", siteId)
+    .where("l.entityType", "=", "defect")
+    .where("l.entityId", "=", defectId)
+    .orderBy("l.at", "desc")
+    .orderBy("l.id", "desc")
+    .limit(100)
+    .execute();
+
+export const userNames = async (db: Db, ids: Array<string | null>) => {
+  const list = ids.filter((x): x is string => !!x);
+  if (!list.length) return new Map<string, string>();
+  const rows = await db.selectFrom("users").select(["id", "name"]).where("id", "in", list).execute();
+  return new Map(rows.map((r) => [r.id, r.name]));
+};
+
+export const photoCount = async (db: Db, defectId: string) =>
+  Number(
+    (await db.selectFrom("photos").select((eb) => eb.fn.countAll<number>().as("n")).where("defectId", "=", defectId).where("deletedAt", "is", null).executeTakeFirstOrThrow()).n,
+  );
+
+/** 1-based place of a defect in the site's ranked order (with pins), as the register shows it. */
+export async function rankOf(db: Db, siteId: string, defectId: string) {
+  const r = await sql<{ place: number }>`
+    WITH ranked AS (SELECT id, row_number() over (order by priority_score desc, created_at, id) AS rn FROM defects WHERE site_id = ${siteId}),
+    placed AS (
+      SELECT d.id, row_number() over (order by ${RANK_KEY}, ${RANK_TIE}, d.id) AS place
+      FROM defects d LEFT JOIN defect_pins pin ON pin.defect_id = d.id AND pin.removed_at IS NULL
+      LEFT JOIN ranked r ON r.id = d.id LEFT JOIN ranked tr ON tr.id = pin.relative_to
+      WHERE d.site_id = ${siteId})
+    SELECT place FROM placed WHERE id = ${defectId}`.execute(db);
+  return r.rows[0] ? Number(r.rows[0].place) : null;
+}
+
+export const listViews = (db: Db, siteId: string, userId: string) =>
+  db.selectFrom("defectViews").select(["id", "name", "query", "version", "updatedAt"]).where("siteId", "=", siteId).where("userId", "=", userId).orderBy("name").execute();
+
+/** Where a survey finding sits, for the prefilled "raise a defect" form. */
+export async function findingContext(db: Db, siteId: string, q: { positionId?: string; componentId?: string; inspectionId?: string }) {
+  let positionId = q.positionId ?? null;
+  let componentId = q.componentId ?? null;
+  if (q.inspectionId) {
+    const i = await findInspection(db, siteId, q.inspectionId);
+    if (i) { positionId ??= i.positionId; componentId ??= i.componentId; }
+  }
+  if (!positionId && componentId) positionId = (await findComponent(db, siteId, componentId))?.positionId ?? null;
+  if (!positionId) return null;
+  const p = await db.selectFrom("positions").select(["id", "boardId", "sectionId", "designation"]).where("siteId", "=", siteId).where("id", "=", positionId).executeTakeFirst();
+  if (!p) return null;
+  componentId ??= (await findPosition(db, siteId, p.id))?.componentId ?? null;
+  return { boardId: p.boardId, sectionId: p.sectionId, positionId: p.id, designation: p.designation, componentId, inspectionId: q.inspectionId ?? null };
+}

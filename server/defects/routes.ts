@@ -1,0 +1,121 @@
+import { Router, type Request, type Response } from "express";
+import { z } from "zod";
+import type { Role } from "../../src/domain/vocab";
+import {
+  assignBody, bulkBody, createDefectBody, listQuery, patchDefectBody, pinBody, transitionBody, unpinBody, viewBody,
+} from "../../src/schemas/defects";
+import type { Db } from "../db";
+import { requireSiteRole } from "../middleware/roles";
+import { streamCsv } from "./csv";
+import { listPage } from "./list-query";
+import { pin, unpin } from "./pins";
+import { detail, repairPlan, toJson } from "./reads";
+import * as repo from "./repository";
+import * as service from "./service";
+import * as views from "./views";
+
+const site = z.object({ siteId: z.uuid() });
+const one = site.extend({ defectId: z.uuid({ message: "defectId must be a UUID" }) });
+const viewParams = site.extend({ viewId: z.uuid() });
+const boardParams = site.extend({ boardId: z.uuid() });
+
+const ctxOf = (req: Request, res: Response): service.Ctx => ({
+  siteId: site.parse(req.params).siteId,
+  actor: { id: res.locals.user!.id, role: res.locals.siteRole as Role | "admin" },
+});
+/** The client's calendar day (for "overdue"), else the server's in UTC. */
+const todayOf = (q: { today?: string }) => q.today ?? new Date().toISOString().slice(0, 10);
+
+export function defectRoutes(db: Db) {
+  const r = Router();
+  const base = "/sites/:siteId/defects";
+  const member = requireSiteRole(db);
+  const raisers = requireSiteRole(db, "curator", "volunteer");
+  const curator = requireSiteRole(db, "curator");
+
+  r.get(base, member, async (req, res) => {
+    const f = listQuery.parse(req.query);
+    const { rows, total } = await listPage(db, ctxOf(req, res).siteId, f, todayOf(f));
+    res.json({ rows: rows.map(toJson), total, page: f.page, size: f.size });
+  });
+
+  r.get(`${base}.csv`, member, async (req, res) => {
+    const f = listQuery.parse(req.query);
+    await streamCsv(db, ctxOf(req, res).siteId, f, todayOf(f), res, `defects-${todayOf(f)}.csv`);
+  });
+
+  r.get(`${base}/options`, member, async (req, res) => {
+    const { siteId } = ctxOf(req, res);
+    const [boards, sections, crew] = await Promise.all([repo.listBoards(db, siteId), repo.listSections(db, siteId), repo.listCrew(db, siteId)]);
+    res.json({ boards, sections, crew });
+  });
+
+  r.get("/sites/:siteId/defect-positions/:boardId", member, async (req, res) => {
+    const { siteId, boardId } = boardParams.parse(req.params);
+    res.json({ positions: await repo.listPositions(db, siteId, boardId) });
+  });
+
+  r.get("/sites/:siteId/defect-context", member, async (req, res) => {
+    const q = z.object({ positionId: z.uuid().optional(), componentId: z.uuid().optional(), inspectionId: z.uuid().optional() }).parse(req.query);
+    res.json({ context: await repo.findingContext(db, ctxOf(req, res).siteId, q) });
+  });
+
+  r.get("/sites/:siteId/repair-plan", member, async (req, res) => {
+    res.json(await repairPlan(db, ctxOf(req, res).siteId));
+  });
+
+  r.get(`${base}/views`, member, async (req, res) => {
+    res.json({ views: await views.listViews(db, ctxOf(req, res).siteId, res.locals.user!.id) });
+  });
+  r.post(`${base}/views`, member, async (req, res) => {
+    res.status(201).json({ view: await views.saveView(db, ctxOf(req, res).siteId, res.locals.user!.id, viewBody.parse(req.body)) });
+  });
+  r.put(`${base}/views/:viewId`, member, async (req, res) => {
+    const { siteId, viewId } = viewParams.parse(req.params);
+    res.json({ view: await views.updateView(db, siteId, res.locals.user!.id, viewId, viewBody.parse(req.body)) });
+  });
+  r.delete(`${base}/views/:viewId`, member, async (req, res) => {
+    const { siteId, viewId } = viewParams.parse(req.params);
+    await views.deleteView(db, siteId, res.locals.user!.id, viewId);
+    res.status(204).end();
+  });
+
+  r.post(`${base}/bulk`, curator, async (req, res) => {
+    res.json(await service.bulk(db, ctxOf(req, res), bulkBody.parse(req.body)));
+  });
+
+  r.post(base, raisers, async (req, res) => {
+    const row = await service.createDefect(db, ctxOf(req, res), createDefectBody.parse(req.body));
+    res.status(201).json({ defect: toJson(row) });
+  });
+
+  r.get(`${base}/:defectId`, member, async (req, res) => {
+    res.json(await detail(db, ctxOf(req, res), one.parse(req.params).defectId));
+  });
+
+  r.patch(`${base}/:defectId`, raisers, async (req, res) => {
+    const row = await service.patchDefect(db, ctxOf(req, res), one.parse(req.params).defectId, patchDefectBody.parse(req.body));
+    res.json({ defect: toJson(row) });
+  });
+
+  r.post(`${base}/:defectId/status`, raisers, async (req, res) => {
+    const row = await service.moveDefect(db, ctxOf(req, res), one.parse(req.params).defectId, transitionBody.parse(req.body));
+    res.json({ defect: toJson(row) });
+  });
+
+  r.post(`${base}/:defectId/assignee`, curator, async (req, res) => {
+    const row = await service.assignDefect(db, ctxOf(req, res), one.parse(req.params).defectId, assignBody.parse(req.body));
+    res.json({ defect: toJson(row) });
+  });
+
+  r.put(`${base}/:defectId/pin`, curator, async (req, res) => {
+    await pin(db, ctxOf(req, res), one.parse(req.params).defectId, pinBody.parse(req.body));
+    res.json(await detail(db, ctxOf(req, res), one.parse(req.params).defectId));
+  });
+  r.delete(`${base}/:defectId/pin`, curator, async (req, res) => {
+    await unpin(db, ctxOf(req, res), one.parse(req.params).defectId, unpinBody.parse(req.body ?? {}).reason);
+    res.json(await detail(db, ctxOf(req, res), one.parse(req.params).defectId));
+  });
+
+  return r;
+}

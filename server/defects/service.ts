@@ -1,0 +1,195 @@
+/**
+ * Defect use cases. Every assignment goes through assign() and every status change
+ * through transition(): the one place each, so notifications can hook in there.
+ */
+import { sql } from "kysely";
+import { recordAudit, diff } from "../audit";
+import type { Db } from "../db";
+import { AppError, conflict, forbidden, notFound } from "../errors";
+import { canEdit, canManage, canRaise, checkTransition, type Actor } from "../../src/domain/defect-workflow";
+import { priorityScore } from "../../src/domain/priority";
+import type { DefectStatus } from "../../src/domain/vocab";
+import type { BulkBody, CreateDefectBody, PatchDefectBody } from "../../src/schemas/defects";
+import * as repo from "./repository";
+
+export interface Ctx {
+  siteId: string;
+  actor: Actor;
+}
+type Locked = NonNullable<Awaited<ReturnType<typeof repo.lockDefect>>>;
+
+/** priority_score for the stored fields; original fabric comes from the linked component. */
+export async function scoreFor(db: Db, siteId: string, d: Pick<Locked, "severity" | "safetyCritical" | "blocksEnergisation" | "effortHours" | "partsState" | "componentId">) {
+  const heritage = await repo.componentHeritage(db, siteId, d.componentId);
+  return priorityScore({
+    severity: d.severity,
+    safetyCritical: d.safetyCritical,
+    blocksEnergisation: d.blocksEnergisation,
+    originalFabric: heritage === "original",
+    effortHours: d.effortHours === null ? null : Number(d.effortHours),
+    partsAvailable: d.partsState,
+  });
+}
+
+async function current(db: Db, siteId: string, id: string) {
+  return repo.findRow(db, siteId, id);
+}
+
+/** Locks the defect and checks the caller's version; stale → 409 with the fresh record. */
+async function lockAt(db: Db, ctx: Ctx, id: string, version?: number) {
+  const d = await repo.lockDefect(db, ctx.siteId, id);
+  if (!d) throw notFound("That defect");
+  if (version !== undefined && d.version !== version)
+    throw conflict("Someone changed this defect since you opened it. Check the current values and try again.", await current(db, ctx.siteId, id));
+  return d;
+}
+
+/** Board, section, position, component and inspection must all be of this site and agree. */
+async function resolveLinks(db: Db, siteId: string, b: { boardId: string; sectionId?: string | null; positionId?: string | null; componentId?: string | null; inspectionId?: string | null }) {
+  const out = { boardId: b.boardId, sectionId: b.sectionId ?? null, positionId: b.positionId ?? null, componentId: b.componentId ?? null, inspectionId: b.inspectionId ?? null };
+  const bad = (field: string, msg: string) => new AppError(400, "invalid_input", msg, { [field]: msg });
+  if (out.inspectionId) {
+    const i = await repo.findInspection(db, siteId, out.inspectionId);
+    if (!i) throw bad("inspectionId", "That inspection is not on this site");
+    out.positionId ??= i.positionId;
+    out.componentId ??= i.componentId;
+  }
+  if (out.positionId) {
+    const p = await repo.findPosition(db, siteId, out.positionId);
+    if (!p) throw bad("positionId", "That position is not on this site");
+    if (p.boardId !== out.boardId) throw bad("positionId", "That position is on another board");
+    out.sectionId ??= p.sectionId;
+    out.componentId ??= p.componentId;
+  }
+  if (out.componentId) {
+    const c = await repo.findComponent(db, siteId, out.componentId);
+    if (!c) throw bad("componentId", "That component is not on this site");
+    if (out.positionId && c.positionId !== out.positionId) throw bad("componentId", "That component belongs to another position");
+  }
+  if (!(await repo.findBoard(db, siteId, out.boardId))) throw bad("boardId", "That board is not on this site");
+  if (out.sectionId) {
+    const s = await repo.findSection(db, siteId, out.sectionId);
+    if (!s || s.boardId !== out.boardId) throw bad("sectionId", "That section is not on this board");
+  }
+  return out;
+}
+
+export async function createDefect(db: Db, ctx: Ctx, body: CreateDefectBody) {
+  if (!canRaise(ctx.actor.role)) throw forbidden("Your role on this site cannot raise defects.");
+  if ((body.assigneeId || body.dueOn) && !canManage(ctx.actor.role)) throw forbidden("Only the curator assigns defects and sets due dates.");
+  return db.transaction().execute(async (trx) => {
+    const links = await resolveLinks(trx, ctx.siteId, body);
+    const { assigneeId, ...rest } = body;
+    const values = { ...rest, ...links, siteId: ctx.siteId, createdBy: ctx.actor.id };
+    const { score } = await scoreFor(trx, ctx.siteId, { ...values, effortHours: values.effortHours });
+    const { id } = await repo.insertDefect(trx, { ...values, priorityScore: score });
+    await repo.insertStatusChange(trx, { siteId: ctx.siteId, defectId: id, fromStatus: null, toStatus: "open", actorId: ctx.actor.id });
+    await recordAudit(trx, { siteId: ctx.siteId, entityType: "defect", entityId: id, action: "create", actorId: ctx.actor.id, boardId: links.boardId, positionId: links.positionId, after: values });
+    if (assigneeId) await assign(trx, ctx, await lockAt(trx, ctx, id), assigneeId);
+    return (await current(trx, ctx.siteId, id))!;
+  });
+}
+
+export async function patchDefect(db: Db, ctx: Ctx, id: string, body: PatchDefectBody) {
+  return db.transaction().execute(async (trx) => {
+    const d = await lockAt(trx, ctx, id, body.version);
+    if (!canEdit(d, ctx.actor)) throw forbidden("Only the curator, or the volunteer who raised it, can edit this defect.");
+    const { version: _v, assigneeId, ...fields } = body;
+    if ((assigneeId !== undefined || fields.dueOn !== undefined) && !canManage(ctx.actor.role)) throw forbidden("Only the curator assigns defects and sets due dates.");
+    const links = await resolveLinks(trx, ctx.siteId, {
+      boardId: d.boardId,
+      sectionId: fields.sectionId !== undefined ? fields.sectionId : d.sectionId,
+      positionId: fields.positionId !== undefined ? fields.positionId : d.positionId,
+      componentId: fields.componentId !== undefined ? fields.componentId : fields.positionId !== undefined ? null : d.componentId,
+    });
+    const next = { ...d, ...fields, ...links };
+    const { score } = await scoreFor(trx, ctx.siteId, next);
+    const change = diff(d as Record<string, unknown>, { ...fields, ...links, priorityScore: score });
+    let version = d.version;
+    if (change.changed) {
+      const ok = await repo.updateDefect(trx, id, version, { ...fields, ...links, priorityScore: score });
+      if (!ok) throw conflict("Someone changed this defect at the same moment.", await current(trx, ctx.siteId, id));
+      version += 1;
+      await recordAudit(trx, { siteId: ctx.siteId, entityType: "defect", entityId: id, action: "update", actorId: ctx.actor.id, boardId: d.boardId, positionId: next.positionId, before: change.before, after: change.after });
+    }
+    if (assigneeId !== undefined && assigneeId !== d.assigneeId) await assign(trx, ctx, { ...d, version }, assigneeId);
+    return (await current(trx, ctx.siteId, id))!;
+  });
+}
+
+/** THE assignment use case (curator only; the assignee must be on the crew). */
+export async function assign(trx: Db, ctx: Ctx, d: Locked, assigneeId: string | null) {
+  if (!canManage(ctx.actor.role)) throw forbidden("Only the curator assigns defects.");
+  if (assigneeId && !(await repo.memberRole(trx, ctx.siteId, assigneeId)))
+    throw new AppError(400, "invalid_input", "That person is not on this site's crew.", { assigneeId: "Not on the crew" });
+  if (assigneeId === d.assigneeId) return d.version;
+  const ok = await repo.updateDefect(trx, d.id, d.version, { assigneeId });
+  if (!ok) throw conflict("Someone changed this defect at the same moment.", await current(trx, ctx.siteId, d.id));
+  await recordAudit(trx, { siteId: ctx.siteId, entityType: "defect", entityId: d.id, action: "assign", actorId: ctx.actor.id, boardId: d.boardId, positionId: d.positionId, before: { assigneeId: d.assigneeId }, after: { assigneeId } });
+  return d.version + 1;
+}
+
+const TRANSITION_STATUS = { forbidden: 403, reason_required: 400, not_allowed: 409, same_person: 409, no_repairer: 409 } as const;
+
+/** THE status-change use case: checks the workflow rules, records history and audit. */
+export async function transition(trx: Db, ctx: Ctx, d: Locked, to: DefectStatus, opts: { reason?: string; repairedBy?: string | null } = {}) {
+  const r = checkTransition(d, to, ctx.actor, opts);
+  if (!r.ok) throw new AppError(TRANSITION_STATUS[r.code], r.code, r.message, r.code === "reason_required" ? { reason: r.message } : undefined);
+  const reason = opts.reason?.trim() ?? "";
+  const patch = {
+    status: to,
+    statusReason: reason,
+    ...(r.set.repairedBy !== undefined ? { repairedBy: r.set.repairedBy } : {}),
+    ...(r.set.verifiedBy !== undefined ? { verifiedBy: r.set.verifiedBy } : {}),
+    closedAt: r.set.closed ? sql<Date>`now()` : to === "closed" ? d.closedAt : null,
+  };
+  const ok = await repo.updateDefect(trx, d.id, d.version, patch as any);
+  if (!ok) throw conflict("Someone changed this defect at the same moment.", await current(trx, ctx.siteId, d.id));
+  await repo.insertStatusChange(trx, { siteId: ctx.siteId, defectId: d.id, fromStatus: d.status, toStatus: to, reason, actorId: ctx.actor.id });
+  await recordAudit(trx, { siteId: ctx.siteId, entityType: "defect", entityId: d.id, action: "status", actorId: ctx.actor.id, boardId: d.boardId, positionId: d.positionId, before: { status: d.status }, after: { status: to, reason, ...r.set } });
+  return d.version + 1;
+}
+
+export async function moveDefect(db: Db, ctx: Ctx, id: string, b: { to: DefectStatus; reason: string; repairedBy?: string | null; version: number }) {
+  return db.transaction().execute(async (trx) => {
+    await transition(trx, ctx, await lockAt(trx, ctx, id, b.version), b.to, b);
+    return (await current(trx, ctx.siteId, id))!;
+  });
+}
+
+export async function assignDefect(db: Db, ctx: Ctx, id: string, b: { assigneeId: string | null; version: number }) {
+  return db.transaction().execute(async (trx) => {
+    await assign(trx, ctx, await lockAt(trx, ctx, id, b.version), b.assigneeId);
+    return (await current(trx, ctx.siteId, id))!;
+  });
+}
+
+/** Curator's bulk edit: all or nothing, each defect through the same use case as one at a time. */
+export async function bulk(db: Db, ctx: Ctx, b: BulkBody) {
+  if (!canManage(ctx.actor.role)) throw forbidden("Only the curator can change several defects at once.");
+  const ids = [...new Set(b.ids)];
+  return db.transaction().execute(async (trx) => {
+    const errors: Record<string, string> = {};
+    for (const id of ids) {
+      const d = await repo.lockDefect(trx, ctx.siteId, id);
+      if (!d) { errors[id] = "Not found on this site"; continue; }
+      try {
+        if (b.action.type === "assign") await assign(trx, ctx, d, b.action.assigneeId);
+        else if (b.action.type === "status") await transition(trx, ctx, d, b.action.to, { reason: b.action.reason });
+        else await setDue(trx, ctx, d, b.action.dueOn);
+      } catch (e) {
+        if (!(e instanceof AppError)) throw e;
+        errors[id] = `D-${d.ref}: ${e.message}`;
+      }
+    }
+    if (Object.keys(errors).length)
+      throw new AppError(409, "bulk_rejected", `Nothing was changed: ${Object.keys(errors).length} of ${ids.length} defects cannot take that change.`, errors);
+    return { updated: ids.length };
+  });
+}
+
+async function setDue(trx: Db, ctx: Ctx, d: Locked, dueOn: string | null) {
+  if (d.dueOn === dueOn) return;
+  await repo.updateDefect(trx, d.id, d.version, { dueOn });
+  await recordAudit(trx, { siteId: ctx.siteId, entityType: "defect", entityId: d.id, action: "update", actorId: ctx.actor.id, boardId: d.boardId, positionId: d.positionId, before: { dueOn: d.dueOn }, after: { dueOn } });
+}

@@ -1,0 +1,97 @@
+/**
+ * Who may move a defect from one status to another. Tideline's own rules (no external
+ * source): volunteers raise defects and carry their own through the repair as the doer;
+ * the curator triages, defers, closes and reopens; everyone else reads. Closing needs a
+ * verifier who is not the person recorded as having done the repair — the common
+ * practice of independent verification ("a second pair of eyes").
+ */
+import { DEFECT_STATUSES, type DefectStatus, type Role } from "./vocab";
+import { requireOneOf } from "./guards";
+
+export type Actor = { id: string; role: Role | "admin" };
+export interface WorkflowDefect {
+  status: DefectStatus;
+  createdBy: string | null;
+  assigneeId: string | null;
+  repairedBy: string | null;
+}
+
+/** Statuses that take a written reason. */
+export const REASON_REQUIRED: ReadonlySet<DefectStatus> = new Set(["deferred", "wont_fix"]);
+/** Statuses the register calls "open work" (the repair plan lists these). */
+export const ACTIVE_STATUSES: readonly DefectStatus[] = ["open", "triaged", "in_repair", "awaiting_verification"];
+
+/** Curator (and instance admin) moves: from → allowed targets. */
+const CURATOR_MOVES: Record<DefectStatus, DefectStatus[]> = {
+  open: ["triaged", "in_repair", "deferred", "wont_fix"],
+  triaged: ["open", "in_repair", "deferred", "wont_fix"],
+  in_repair: ["triaged", "awaiting_verification", "deferred", "wont_fix"],
+  awaiting_verification: ["closed", "in_repair", "deferred", "wont_fix"],
+  closed: ["open"],
+  deferred: ["open", "triaged"],
+  wont_fix: ["open"],
+};
+/** Volunteer moves, only on a defect they raised or were assigned. */
+const VOLUNTEER_MOVES: Partial<Record<DefectStatus, DefectStatus[]>> = {
+  open: ["in_repair"],
+  triaged: ["in_repair"],
+  in_repair: ["awaiting_verification"],
+};
+
+export type TransitionResult =
+  | { ok: true; set: { repairedBy?: string | null; verifiedBy?: string | null; closed?: boolean; reopened?: boolean } }
+  | { ok: false; code: "forbidden" | "not_allowed" | "reason_required" | "same_person" | "no_repairer"; message: string };
+
+/** Targets `actor` may choose from `defect`'s current status (for the buttons on screen). */
+export function allowedTargets(defect: WorkflowDefect, actor: Actor): DefectStatus[] {
+  requireOneOf("status", defect.status, DEFECT_STATUSES);
+  if (actor.role === "curator" || actor.role === "admin") return CURATOR_MOVES[defect.status];
+  if (actor.role === "volunteer" && (defect.createdBy === actor.id || defect.assigneeId === actor.id))
+    return VOLUNTEER_MOVES[defect.status] ?? [];
+  return [];
+}
+
+/**
+ * Checks one move and says what it records. `repairedBy` on the way to verification is
+ * the doer: the volunteer themself, or whoever the curator names (default: the assignee,
+ * else the curator). Closing records the actor as verifier and refuses when they did the repair.
+ * @throws RangeError for a status outside DEFECT_STATUSES
+ */
+export function checkTransition(
+  defect: WorkflowDefect,
+  to: DefectStatus,
+  actor: Actor,
+  opts: { reason?: string; repairedBy?: string | null } = {},
+): TransitionResult {
+  requireOneOf("to", to, DEFECT_STATUSES);
+  const targets = allowedTargets(defect, actor);
+  if (!targets.includes(to)) {
+    const anyone = CURATOR_MOVES[defect.status].includes(to);
+    return anyone
+      ? { ok: false, code: "forbidden", message: `Your role cannot move this defect from ${defect.status} to ${to}.` }
+      : { ok: false, code: "not_allowed", message: `A defect cannot go from ${defect.status} to ${to}.` };
+  }
+  if (REASON_REQUIRED.has(to) && !opts.reason?.trim())
+    return { ok: false, code: "reason_required", message: "Say why: deferring or declining a defect needs a reason." };
+  if (to === "awaiting_verification") {
+    const doer = actor.role === "volunteer" ? actor.id : (opts.repairedBy ?? defect.assigneeId ?? actor.id);
+    return { ok: true, set: { repairedBy: doer } };
+  }
+  if (to === "closed") {
+    if (!defect.repairedBy) return { ok: false, code: "no_repairer", message: "Nobody is recorded as having done the repair." };
+    if (defect.repairedBy === actor.id)
+      return { ok: false, code: "same_person", message: "Someone other than the person who did the repair must verify and close it." };
+    return { ok: true, set: { verifiedBy: actor.id, closed: true } };
+  }
+  if (defect.status === "closed" || (to === "in_repair" && defect.status === "awaiting_verification"))
+    return { ok: true, set: { verifiedBy: null, repairedBy: defect.status === "closed" ? defect.repairedBy : null, reopened: defect.status === "closed" } };
+  return { ok: true, set: {} };
+}
+
+/** Only the curator (or an instance admin) triages, assigns, pins and bulk-edits. */
+export const canManage = (role: Role | "admin") => role === "curator" || role === "admin";
+/** Who raises defects: volunteers and the curator. */
+export const canRaise = (role: Role | "admin") => canManage(role) || role === "volunteer";
+/** Field edits: the curator on any defect, a volunteer on one they raised that is not closed. */
+export const canEdit = (d: WorkflowDefect, actor: Actor) =>
+  canManage(actor.role) || (actor.role === "volunteer" && d.createdBy === actor.id && d.status !== "closed");

@@ -1,0 +1,194 @@
+import Papa from "papaparse";
+import { sql } from "kysely";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { priorityScore, rankDefects } from "../../src/domain/priority";
+import { DEFECT_CATEGORIES, DEFECT_SEVERITIES, DEFECT_STATUSES } from "../../src/domain/vocab";
+import { createTestDb, type TestDb } from "../helpers/db";
+import { makeCrew } from "../helpers/fixtures";
+import { startTestServer, type Client, type TestServer } from "../helpers/http";
+import { makeBoard } from "./defects-fixtures";
+
+let t: TestDb;
+let server: TestServer;
+let fx: Awaited<ReturnType<typeof makeCrew>>;
+let curator: Client;
+let viewer: Client;
+let boards: Array<Awaited<ReturnType<typeof makeBoard>>>;
+const N = 45;
+
+/** 45 varied defects written straight into the table, with distinct creation times. */
+beforeAll(async () => {
+  t = await createTestDb();
+  server = await startTestServer({ db: t.db });
+  fx = await makeCrew(t.db);
+  boards = [await makeBoard(t.db, fx.siteId, "Aft board", 4), await makeBoard(t.db, fx.siteId, "Main board", 4)];
+  const people = [fx.crew.volunteer.id, fx.crew.curator.id, null];
+  for (let i = 0; i < N; i++) {
+    const b = boards[i % 2];
+    const p = b.positions[i % 4];
+    const severity = DEFECT_SEVERITIES[i % 4];
+    const effortHours = i % 5 === 0 ? null : (i % 7) + 0.5;
+    const { score } = priorityScore({ severity, safetyCritical: i % 3 === 0, blocksEnergisation: i % 4 === 1, originalFabric: p.heritage === "original", effortHours, partsAvailable: "wanted" });
+    await t.db.insertInto("defects").values({
+      siteId: fx.siteId, boardId: b.boardId, sectionId: p.sectionId, positionId: p.id, componentId: p.componentId,
+      title: i === 7 ? 'Terminal "L2", loose, =SUM(A1)' : `Defect number ${String(i).padStart(2, "0")}${i % 6 === 0 ? " verdigris" : ""}`,
+      description: i === 7 ? "Line one\nline two, with comma" : "",
+      category: DEFECT_CATEGORIES[i % DEFECT_CATEGORIES.length], severity, status: DEFECT_STATUSES[i % 5],
+      safetyCritical: i % 3 === 0, blocksEnergisation: i % 4 === 1, effortHours, costEstimate: i % 4 === 0 ? null : i * 10,
+      partsState: "wanted", assigneeId: people[i % 3], dueOn: i % 3 === 2 ? null : `2027-01-${String((i % 28) + 1).padStart(2, "0")}`,
+      priorityScore: score, createdAt: new Date(Date.UTC(2026, 10, 1, 0, 0, i)),
+    }).execute();
+  }
+  curator = server.client();
+  await curator.signIn(fx.crew.curator.email);
+  viewer = server.client();
+  await viewer.signIn(fx.crew.viewer.email);
+});
+afterAll(async () => {
+  await server.close();
+  await t.drop();
+});
+
+const url = (qs: string) => `/api/sites/${fx.siteId}/defects?${qs}`;
+const ids = async (qs: string) => {
+  const r = await viewer.get(url(qs));
+  expect(r.status).toBe(200);
+  return r.body.rows.map((x: { id: string }) => x.id) as string[];
+};
+/** The same order written as plain SQL, independently of the app's query builder. */
+const direct = async (where: string, order: string) =>
+  (await sql.raw<{ id: string }>(`SELECT d.id FROM defects d JOIN boards b ON b.id = d.board_id LEFT JOIN positions p ON p.id = d.position_id LEFT JOIN users a ON a.id = d.assignee_id WHERE d.site_id = '${fx.siteId}' ${where} ORDER BY ${order}`).execute(t.db)).rows.map((r) => r.id);
+
+describe("server-side sorting, each checked against direct SQL", () => {
+  it.each([
+    ["severity&dir=desc", "array_position(ARRAY['cosmetic','degraded','impaired','disabling'], d.severity) DESC, d.ref DESC"],
+    ["severity&dir=asc", "array_position(ARRAY['cosmetic','degraded','impaired','disabling'], d.severity) ASC, d.ref ASC"],
+    ["status&dir=asc", "array_position(ARRAY['open','triaged','in_repair','awaiting_verification','closed','deferred','wont_fix'], d.status), d.ref"],
+    ["board&dir=asc", "lower(b.name), d.ref"],
+    ["position&dir=desc", "lower(p.designation) DESC, d.ref DESC"],
+    ["dueOn&dir=asc", "d.due_on ASC NULLS LAST, d.ref"],
+    ["dueOn&dir=desc", "d.due_on DESC NULLS LAST, d.ref DESC"],
+    ["effortHours&dir=desc", "d.effort_hours DESC NULLS LAST, d.ref DESC"],
+    ["costEstimate&dir=asc", "d.cost_estimate ASC NULLS LAST, d.ref"],
+    ["assignee&dir=asc", "lower(a.name) ASC NULLS LAST, d.ref"],
+    ["title&dir=asc", "lower(d.title), d.ref"],
+    ["createdAt&dir=desc", "d.created_at DESC, d.ref DESC"],
+  ])("sort=%s", async (qs, order) => {
+    expect(await ids(`sort=${qs}&size=200`)).toEqual(await direct("", order));
+  });
+
+  it("sort=priority desc is the order of rankDefects() from src/domain/priority.ts, pins included", async () => {
+    const all = await t.db.selectFrom("defects").select(["id", "priorityScore", "createdAt"]).where("siteId", "=", fx.siteId).execute();
+    const byScore = [...all].sort((a, b) => b.priorityScore - a.priorityScore || +a.createdAt - +b.createdAt);
+    const pins = [
+      { defectId: byScore[40].id, direction: "above" as const, relativeTo: byScore[2].id },
+      { defectId: byScore[41].id, direction: "above" as const, relativeTo: byScore[2].id },
+      { defectId: byScore[0].id, direction: "below" as const, relativeTo: byScore[30].id },
+      { defectId: byScore[1].id, direction: "below" as const, relativeTo: byScore[30].id },
+    ];
+    for (const p of pins) {
+      const r = await curator.put(`/api/sites/${fx.siteId}/defects/${p.defectId}/pin`, { direction: p.direction, relativeTo: p.relativeTo, reason: "Test pin" });
+      expect(r.status).toBe(200);
+    }
+    const pinOf = new Map(pins.map((p) => [p.defectId, { direction: p.direction, relativeTo: p.relativeTo }]));
+    const expected = rankDefects(all.map((d) => ({ id: d.id, score: d.priorityScore, createdAt: d.createdAt.toISOString(), pin: pinOf.get(d.id) ?? null }))).map((d) => d.id);
+    expect(await ids("sort=priority&dir=desc&size=200")).toEqual(expected);
+    expect(await ids("sort=priority&dir=asc&size=200")).toEqual([...expected].reverse());
+    const detail = await viewer.get(`/api/sites/${fx.siteId}/defects/${byScore[40].id}`);
+    expect(detail.body.rank).toBe(expected.indexOf(byScore[40].id) + 1);
+    expect(detail.body.terms.reduce((s: number, x: { points: number }) => s + x.points, 0)).toBe(byScore[40].priorityScore);
+  });
+});
+
+describe("filtering, each checked against direct SQL", () => {
+  it.each([
+    ["category=corrosion&category=heat", "AND d.category IN ('corrosion','heat')"],
+    ["severity=disabling&status=open", "AND d.severity = 'disabling' AND d.status = 'open'"],
+    ["flag=safety&flag=blocking", "AND d.safety_critical AND d.blocks_energisation"],
+    ["assignee=none", "AND d.assignee_id IS NULL"],
+    ["q=VERDIGRIS", "AND d.title ILIKE '%verdigris%'"],
+    ["q=50%25", "AND false"],
+  ])("%s", async (qs, where) => {
+    expect(await ids(`${qs}&sort=ref&dir=asc&size=200`)).toEqual(await direct(where, "d.ref"));
+  });
+
+  it("board and assignee filters match direct SQL", async () => {
+    const got = await ids(`board=${boards[1].boardId}&assignee=${fx.crew.volunteer.id}&sort=ref&dir=asc&size=200`);
+    expect(got).toEqual(await direct(`AND d.board_id = '${boards[1].boardId}' AND d.assignee_id = '${fx.crew.volunteer.id}'`, "d.ref"));
+    expect(got.length).toBeGreaterThan(0);
+  });
+
+  it("overdue counts from the day the client sends", async () => {
+    const got = await ids("flag=overdue&today=2027-01-10&sort=ref&dir=asc&size=200");
+    expect(got).toEqual(await direct("AND d.due_on < '2027-01-10' AND d.status NOT IN ('closed','deferred','wont_fix')", "d.ref"));
+  });
+
+  it("a bad filter value is a 400 naming it", async () => {
+    const r = await viewer.get(url("severity=terrible"));
+    expect(r.status).toBe(400);
+    expect(Object.keys(r.body.error.fields)[0]).toMatch(/^severity/);
+  });
+});
+
+describe("pagination", () => {
+  it("pages of 10 together are the whole sorted list, and total counts the filter", async () => {
+    const whole = await ids("sort=dueOn&dir=asc&size=200");
+    const pages: string[] = [];
+    for (let page = 0; page < 5; page++) {
+      const r = await viewer.get(url(`sort=dueOn&dir=asc&size=10&page=${page}`));
+      expect(r.body.total).toBe(N);
+      pages.push(...r.body.rows.map((x: { id: string }) => x.id));
+    }
+    expect(pages).toEqual(whole);
+    expect((await viewer.get(url("size=201"))).status).toBe(400);
+  });
+});
+
+describe("CSV export", () => {
+  it("streams the filtered view as UTF-8 CSV with a BOM that papaparse reads back row for row", async () => {
+    const res = await fetch(`${server.base}/api/sites/${fx.siteId}/defects.csv?sort=ref&dir=asc`, { headers: { cookie: viewer.cookie } });
+    expect(res.headers.get("content-type")).toBe("text/csv; charset=utf-8");
+    const bytes = new Uint8Array(await res.arrayBuffer());
+    expect([...bytes.slice(0, 3)]).toEqual([0xef, 0xbb, 0xbf]);
+    const text = new TextDecoder("utf-8", { ignoreBOM: true }).decode(bytes);
+    expect(text.charCodeAt(0)).toBe(0xfeff);
+    expect(text).toContain("\r\n");
+    const parsed = Papa.parse<string[]>(text.slice(1).trimEnd(), { header: false });
+    expect(parsed.errors).toEqual([]);
+    const [header, ...rows] = parsed.data;
+    expect(header[0]).toBe("Ref");
+    expect(rows.length).toBe(N);
+    const refs = (await direct("", "d.ref")).length;
+    expect(rows.length).toBe(refs);
+    const tricky = rows.find((r) => r[1].includes("Terminal"))!;
+    // RFC 4180 quoting survives the round trip; the formula-looking title is not a formula
+    expect(tricky[1]).toBe('Terminal "L2", loose, =SUM(A1)');
+    expect(tricky[21]).toBe("Line one\nline two, with comma");
+  });
+
+  it("guards a cell that starts like a formula with a leading quote", async () => {
+    await t.db.updateTable("defects").set({ title: "=HYPERLINK(\"http://x\")" }).where("siteId", "=", fx.siteId).where("title", "=", "Defect number 00 verdigris").execute();
+    const res = await fetch(`${server.base}/api/sites/${fx.siteId}/defects.csv?q=HYPERLINK`, { headers: { cookie: viewer.cookie } });
+    const rows = Papa.parse<string[]>((await res.text()).trimEnd()).data // Response.text() drops the BOM;
+    expect(rows).toHaveLength(2);
+    expect(rows[1][1]).toBe("'=HYPERLINK(\"http://x\")");
+  });
+});
+
+describe("repair plan", () => {
+  it("lists only active defects per board and section in rank order, with effort and cost totals", async () => {
+    const r = await viewer.get(`/api/sites/${fx.siteId}/repair-plan`);
+    expect(r.status).toBe(200);
+    const active = await direct("AND d.status IN ('open','triaged','in_repair','awaiting_verification')", "d.ref");
+    const listed = r.body.boards.flatMap((b: any) => b.sections.flatMap((s: any) => s.defects));
+    expect(listed.length).toBe(active.length);
+    for (const b of r.body.boards)
+      for (const s of b.sections) {
+        const ranks = s.defects.map((d: any) => d.rank);
+        expect(ranks).toEqual([...ranks].sort((x, y) => x - y));
+        expect(s.effortHours).toBeCloseTo(s.defects.reduce((a: number, d: any) => a + (d.effortHours ?? 0), 0));
+        expect(s.cost).toBe(s.defects.reduce((a: number, d: any) => a + (d.costEstimate ?? 0), 0));
+        expect(s.unestimated).toBe(s.defects.filter((d: any) => d.effortHours === null).length);
+      }
+  });
+});
