@@ -10,6 +10,7 @@ import { AppError } from "./errors";
 import { errorHandler } from "./middleware/error-handler";
 import { originCheck } from "./middleware/origin";
 import { sessionMiddleware } from "./middleware/session";
+import { readingRoutes } from "./readings/routes";
 import { siteRoutes } from "./sites/routes";
 
 export interface AppDeps {
@@ -41,6 +42,7 @@ export function createApp(deps: AppDeps) {
   api.use(sessionMiddleware(lucia));
   api.use(authRoutes(db, lucia));
   api.use(siteRoutes(db));
+  api.use(readingRoutes(db));
   api.use((_req, _res, next) => next(new AppError(404, "not_found", "No such API route.")));
   api.use(errorHandler);
 
