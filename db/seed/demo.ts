@@ -3,6 +3,7 @@ import type { Database } from "../types";
 import { hashPassword } from "../../server/auth/password";
 import { DEMO_PASSWORD, DEMO_PEOPLE, DEMO_SITE } from "./people";
 import { seedInventory } from "./inventory";
+import { seedReadings } from "./readings";
 
 type Db = Kysely<Database>;
 
@@ -39,4 +40,5 @@ export interface SeedContext {
 /** Later features append their part of the scenario here, in order. */
 export const SEED_STEPS: Array<(trx: Db, ctx: SeedContext) => Promise<void>> = [
   seedInventory, // boards, positions, components and the survey: first, others hang on it
+  seedReadings, // test readings on the main board: after the inventory
 ];
