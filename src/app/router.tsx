@@ -22,6 +22,10 @@ export const router = createBrowserRouter([
         children: [
           { index: true, ...page(() => import("./routes/sites/site-home")) },
           { path: "members", ...page(() => import("./routes/sites/members")) },
+          { path: "readings", ...page(() => import("./routes/readings/readings-home")) },
+          { path: "readings/criteria", ...page(() => import("./routes/readings/criteria")) },
+          { path: "readings/boards/:boardId", ...page(() => import("./routes/readings/board-readings")) },
+          { path: "readings/components/:componentId", ...page(() => import("./routes/readings/component-readings")) },
           { path: "*", ...page(() => import("./routes/not-found")) },
         ],
       },

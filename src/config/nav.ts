@@ -13,6 +13,7 @@ export interface NavItem {
 /** The site's navigation, in order. Each feature adds its pages here. */
 export const SITE_NAV: NavItem[] = [
   { label: "Overview", href: (s) => paths.site.href(s), roles: [], phone: true },
+  { label: "Readings", href: (s) => paths.readings.href(s), roles: [], phone: true },
   { label: "Crew", href: (s) => paths.members.href(s), roles: ["curator", "admin"] },
 ];
 
