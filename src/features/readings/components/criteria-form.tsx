@@ -35,7 +35,7 @@ export function CriteriaForm({ siteId, criteria, canEdit }: { siteId: string; cr
   return (
     <div className="space-y-3">
       <fieldset disabled={!canEdit}>
-        <FormShell key={criteria.version} title={canEdit ? "Criteria for this site" : "Criteria for this site (set by the curator)"} onSubmit={submit} error={message} busy={save.isPending || !canEdit} submitLabel="Save criteria">
+        <FormShell key={criteria.version} title={canEdit ? "Criteria for this site" : "Criteria for this site (set by the curator)"} onSubmit={submit} error={message} busy={save.isPending} disabled={!canEdit} submitLabel="Save criteria">
           <SelectField label="Temperature correction" name="correctionMethod" defaultValue={criteria.correctionMethod}>
             {CORRECTION_METHODS.map((m) => <option key={m} value={m}>{CORRECTION_METHOD_LABELS[m]}</option>)}
           </SelectField>

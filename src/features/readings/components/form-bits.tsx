@@ -1,5 +1,5 @@
 import type { ReactNode } from "react";
-import { TextField } from "../../../components/field";
+import { SelectField, TextField } from "../../../components/field";
 import { ApiError } from "../../../lib/api-client";
 import { localNow } from "../format";
 
@@ -15,15 +15,15 @@ export function saveErrors(e: unknown): { message: string; fields: Record<string
   return { message: "That did not save. Try again.", fields: {} };
 }
 
-export function FormShell({ title, onSubmit, error, children, busy, submitLabel }: {
-  title: string; onSubmit: (e: React.FormEvent<HTMLFormElement>) => void; error: string | null; children: ReactNode; busy: boolean; submitLabel: string;
+export function FormShell({ title, onSubmit, error, children, busy, submitLabel, disabled = false }: {
+  title: string; onSubmit: (e: React.FormEvent<HTMLFormElement>) => void; error: string | null; children: ReactNode; busy: boolean; submitLabel: string; disabled?: boolean;
 }) {
   return (
     <form onSubmit={onSubmit} noValidate aria-label={title} className="space-y-3 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
       <h3 className="text-lg font-bold">{title}</h3>
       {error && <p role="alert" className="rounded-md bg-flare-700/30 p-2 text-flare-300">{error}</p>}
       <div className="grid gap-3 sm:grid-cols-2">{children}</div>
-      <button type="submit" disabled={busy} className="min-h-11 w-full rounded-md bg-brass-400 px-4 font-semibold text-hull-950 hover:bg-brass-300 disabled:bg-hull-600 sm:w-auto">
+      <button type="submit" disabled={busy || disabled} className="min-h-11 w-full rounded-md bg-brass-400 px-4 font-semibold text-hull-950 hover:bg-brass-300 disabled:bg-hull-600 sm:w-auto">
         {busy ? "Saving…" : submitLabel}
       </button>
     </form>
@@ -44,14 +44,9 @@ export function ComponentSelect({ options, name = "componentId", label = "Compon
   options: TargetOption[]; name?: string; label?: string; error?: string; defaultValue?: string; allowNone?: string;
 }) {
   return (
-    <label className="block text-sm font-semibold text-mist">
-      {label}
-      <select name={name} defaultValue={defaultValue ?? (allowNone ? "" : options[0]?.componentId)} aria-invalid={!!error}
-        className="mt-1 block min-h-11 w-full rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk">
-        {allowNone && <option value="">{allowNone}</option>}
-        {options.map((o) => <option key={o.componentId} value={o.componentId}>{o.designation} · {o.circuit}</option>)}
-      </select>
-      {error && <span role="alert" className="mt-1 block text-sm font-normal text-flare-300">{error}</span>}
-    </label>
+    <SelectField label={label} name={name} defaultValue={defaultValue ?? (allowNone ? "" : options[0]?.componentId)} error={error}>
+      {allowNone && <option value="">{allowNone}</option>}
+      {options.map((o) => <option key={o.componentId} value={o.componentId}>{o.designation} · {o.circuit}</option>)}
+    </SelectField>
   );
 }

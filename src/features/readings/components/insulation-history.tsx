@@ -1,14 +1,18 @@
+import { useState } from "react";
 import { CONDUCTOR_LABELS, type InsulationReading } from "../../../schemas/readings";
 import { megohms, sig, when } from "../format";
 import { SourceDetails } from "./source-details";
 import { VerdictBadge } from "./verdict-badge";
 
 /** Newest first; as a list of cards so it reads on a phone as well as a desk. */
-export function InsulationHistory({ readings, showTarget = true }: { readings: InsulationReading[]; showTarget?: boolean }) {
+export function InsulationHistory({ readings, showTarget = true, limit = 10 }: { readings: InsulationReading[]; showTarget?: boolean; limit?: number }) {
+  const [all, setAll] = useState(false);
   if (readings.length === 0) return <p className="text-mist">No insulation readings yet.</p>;
+  const shown = all ? readings : readings.slice(0, limit);
   return (
+    <>
     <ul className="space-y-2" aria-label="Insulation readings">
-      {readings.map((r) => {
+      {shown.map((r) => {
         const j = r.judgement;
         return (
           <li key={r.id} className="rounded-lg bg-hull-850 p-3 ring-1 ring-hull-700" data-testid="insulation-reading">
@@ -42,5 +46,11 @@ export function InsulationHistory({ readings, showTarget = true }: { readings: I
         );
       })}
     </ul>
+    {shown.length < readings.length && (
+      <button type="button" onClick={() => setAll(true)} className="min-h-11 rounded-md px-4 ring-1 ring-hull-600 hover:bg-hull-700">
+        Show all {readings.length} readings
+      </button>
+    )}
+    </>
   );
 }
