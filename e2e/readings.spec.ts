@@ -35,6 +35,8 @@ test("a volunteer records three insulation readings on different days and temper
     await expect(saved).toContainText(r.corrected);
     await expect(saved).toContainText(r.verdict);
   }
+  const more = page.getByRole("button", { name: /^Show all \d+ readings$/ });
+  if (await more.isVisible()) await more.click();
   const mine = page.getByTestId("insulation-reading").filter({ hasText: circuit });
   await expect(mine).toHaveCount(3);
   await expect(mine.first().getByTestId("corrected")).toHaveText("111 MΩ at 20 °C");
