@@ -21,7 +21,7 @@ export function DryOutChart({ readings, title }: { readings: InsulationReading[]
             <XAxis dataKey="t" type="number" scale="time" domain={s.xDomain} tickFormatter={day} stroke="var(--color-mist)" allowDuplicatedCategory={false} />
             <YAxis type="number" scale="log" domain={s.yDomain} ticks={s.yTicks} allowDataOverflow tickFormatter={(v: number) => sig(v)} stroke="var(--color-mist)" width={56}
               label={{ value: `MΩ at ${s.baseC} °C (log)`, angle: -90, position: "insideLeft", fill: "var(--color-mist)", dy: 60 }} />
-            <Tooltip labelFormatter={(v) => day(Number(v))} formatter={(v) => [`${sig(Number(v))} MΩ`, "Corrected"]}
+            <Tooltip labelFormatter={(v) => day(Number(v))} formatter={(v, name) => [`${sig(Number(v))} MΩ`, name === "Estimate" ? "Estimate (not a promise)" : "Corrected"]}
               contentStyle={{ background: "var(--color-hull-800)", border: "1px solid var(--color-hull-600)" }} />
             <ReferenceLine y={s.minimum} stroke="var(--color-flare-400)" strokeWidth={2}
               label={{ value: `Minimum ${sig(s.minimum)} MΩ`, position: "insideTopLeft", fill: "var(--color-flare-300)" }} />

@@ -65,15 +65,20 @@ export function InsulationForm({ siteId, boardId, options, defaultComponentId }:
         <SelectField label="Conductors tested" name="conductors" defaultValue="A-G" error={errors.conductors}>
           {CONDUCTORS.map((c) => <option key={c} value={c}>{CONDUCTOR_LABELS[c]}</option>)}
         </SelectField>
-        <NumberField label="Test voltage (V DC)" name="testVoltsDc" defaultValue={1000} step="1" error={errors.testVoltsDc} />
         <NumberField label="Reading (MΩ)" name="megohms" required error={errors.megohms} />
         <NumberField label="Equipment temperature (°C)" name="equipmentTempC" required error={errors.equipmentTempC} />
-        <NumberField label="Ambient temperature (°C)" name="ambientTempC" error={errors.ambientTempC} />
-        <NumberField label="Relative humidity (%)" name="humidityPercent" error={errors.humidityPercent} />
-        <NumberField label="Test duration (s)" name="durationS" defaultValue={60} step="1" error={errors.durationS} />
-        <TextField label="Instrument" name="instrument" error={errors.instrument} />
+        <NumberField label="Test voltage (V DC)" name="testVoltsDc" defaultValue={1000} step="1" error={errors.testVoltsDc} />
         <WhenField error={errors.measuredAt} />
-        <details className="sm:col-span-2">
+        <details className="sm:col-span-2" open={!!(errors.ambientTempC || errors.humidityPercent || errors.durationS)}>
+          <summary className="min-h-11 cursor-pointer py-2 font-semibold text-mist">Conditions and instrument (ambient, humidity, duration)</summary>
+          <div className="grid gap-3 sm:grid-cols-2">
+            <NumberField label="Ambient temperature (°C)" name="ambientTempC" error={errors.ambientTempC} />
+            <NumberField label="Relative humidity (%)" name="humidityPercent" error={errors.humidityPercent} />
+            <NumberField label="Test duration (s)" name="durationS" defaultValue={60} step="1" error={errors.durationS} />
+            <TextField label="Instrument" name="instrument" error={errors.instrument} />
+          </div>
+        </details>
+        <details className="sm:col-span-2" open={!!(errors.r30s || errors.r1min || errors.r10min)}>
           <summary className="min-h-11 cursor-pointer py-2 font-semibold text-mist">Timed readings (optional: 30 s, 1 min, 10 min)</summary>
           <div className="grid gap-3 sm:grid-cols-3">
             <NumberField label="At 30 s (MΩ)" name="r30s" error={errors.r30s} />
