@@ -90,3 +90,16 @@ test("the curator sees the readings home and criteria with the table source; bot
   await page.getByText("Default minimums: ANSI/NETA MTS-2019 Table 100.1").click();
   await expect(page.getByRole("cell", { name: "600 V", exact: true })).toBeVisible();
 });
+
+test("an impossible reading is refused with a message beside the field, and nothing is saved", async ({ page }) => {
+  await signIn(page, "volunteer");
+  await openMainBoard(page);
+  const form = page.getByRole("form", { name: "Record an insulation-resistance reading" });
+  await form.getByLabel("Circuit", { exact: true }).fill("Refused reading check");
+  await form.getByLabel("Reading (MΩ)").fill("0");
+  await form.getByLabel("Equipment temperature (°C)").fill("20");
+  await form.getByRole("button", { name: "Save reading" }).click();
+  await expect(form.getByText("Reading must be more than 0 MΩ")).toBeVisible();
+  await expect(form.getByLabel("Reading (MΩ)")).toHaveAttribute("aria-invalid", "true");
+  await expect(page.getByTestId("insulation-reading").filter({ hasText: "Refused reading check" })).toHaveCount(0);
+});
