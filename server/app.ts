@@ -12,6 +12,7 @@ import { originCheck } from "./middleware/origin";
 import { sessionMiddleware } from "./middleware/session";
 import { readingRoutes } from "./readings/routes";
 import { siteRoutes } from "./sites/routes";
+import { inventoryRoutes } from "./inventory/routes";
 
 export interface AppDeps {
   db: Db;
@@ -37,12 +38,14 @@ export function createApp(deps: AppDeps) {
       res.status(503).json({ ok: false, db: "down" });
     }
   });
+  api.use("/sites/:siteId/inventory/import", express.json({ limit: "2mb" })); // a CSV file sent as JSON {csv}
   api.use(express.json({ limit: "1mb" }));
   api.use(originCheck());
   api.use(sessionMiddleware(lucia));
   api.use(authRoutes(db, lucia));
   api.use(siteRoutes(db));
   api.use(readingRoutes(db));
+  api.use(inventoryRoutes(db));
   api.use((_req, _res, next) => next(new AppError(404, "not_found", "No such API route.")));
   api.use(errorHandler);
 

@@ -89,100 +89,139 @@ function custodyPath(target: Custody): Custody[] {
   return CHAIN.slice(1, CHAIN.indexOf(target) + 1);
 }
 
+interface Spot { board: SeedBoard; boardId: string; p: SeedPosition; positionId: string; componentId: string; below: boolean; heritage: Heritage }
+type Decided = { disposition: Disposition | null; recommended: Disposition | null; reason: string; decidedAt: Date | null };
+
+/** Collects every row of the survey in memory, then writes each table in one statement. */
+class SurveyBuilder {
+  audit: Insertable<AuditLogTable>[] = [];
+  inspections: Insertable<InspectionsTable>[] = [];
+  moves: Insertable<CustodyMovesTable>[] = [];
+  decisions: Insertable<DispositionDecisionsTable>[] = [];
+  components: Insertable<ComponentsTable>[] = [];
+  private n = 0;
+  private tag = 401;
+  private overrides = 0;
+  private dryOverrides = 0;
+  constructor(private siteId: string, private rnd: Rnd, private volunteer: string, private curator: string) {}
+
+  log(s: { boardId: string; positionId: string | null } | null, entityType: string, entityId: string, action: string, actorId: string, at: Date, before: unknown, after: unknown) {
+    this.audit.push({ siteId: this.siteId, entityType, entityId, boardId: s?.boardId ?? null, positionId: s?.positionId ?? null, action, actorId, at, before: before === null ? null : JSON.stringify(before), after: JSON.stringify(after) });
+  }
+
+  add(s: Spot) {
+    this.n++;
+    this.log(s, "position", s.positionId, "create", this.curator, day(3), null, { designation: s.p.designation, kind: s.p.kind });
+    const latest = this.inspect(s);
+    const decided = this.decide(s, latest);
+    const path = custodyPath(custodyTarget(decided.disposition, this.rnd, this.n));
+    const custody = this.walk(s, path, decided.decidedAt ?? (latest?.inspectedAt as Date | undefined) ?? day(6));
+    const tagged = path.length > 0 || this.rnd.chance(0.2);
+    this.components.push({
+      id: s.componentId, siteId: this.siteId, positionId: s.positionId, kind: s.p.kind, ...nameplateFor(s.p.kind, s.heritage, this.rnd), heritage: s.heritage,
+      serial: `${s.p.kind === "meter" ? "CIW" : "HB"}-${(4600 + this.n * 37) % 99999}`,
+      tagNumber: tagged ? `KL-${String(this.tag++).padStart(4, "0")}` : null,
+      custody, custodyLocation: LOCATION[custody], disposition: decided.disposition, dispositionRecommended: decided.recommended,
+      dispositionOverridden: decided.disposition !== null && decided.disposition !== decided.recommended, dispositionReason: decided.reason,
+      dispositionBy: decided.disposition ? this.curator : null, dispositionAt: decided.decidedAt, version: 1 + path.length + (decided.disposition ? 1 : 0),
+    });
+  }
+
+  /** Most positions inspected once, some twice (the newest is current), some not yet. */
+  private inspect(s: Spot) {
+    const { rnd, n } = this;
+    const count = rnd.chance(0.12) ? 0 : rnd.chance(0.2) ? 2 : 1;
+    let latest: Insertable<InspectionsTable> | null = null;
+    for (let k = 0; k < count; k++) {
+      const pct = s.p.kind === "busbar" || rnd.chance(0.05) ? null : rnd.pick(s.below ? BELOW_RUST : ABOVE_RUST);
+      const at = k === 0 ? day(5 + Math.floor(rnd.between(0, 18)), 9 + (n % 8)) : day(27 + Math.floor(rnd.between(0, 16)), 9 + (n % 8));
+      latest = {
+        id: randomUUID(), siteId: this.siteId, componentId: s.componentId, positionId: s.positionId, inspectorId: rnd.chance(0.75) ? this.volunteer : this.curator,
+        inspectedAt: at, createdAt: at, percentRusted: pct, astmGrade: pct === null ? null : astmD610Grade(pct), isoRi: pct === null ? null : iso4628RiGrade(pct),
+        belowWaterLine: s.below, contaminants: contaminants(s.below, rnd), insulation: insulation(s.below, rnd), mechanism: mechanism(s.p.kind, rnd),
+        notes: k === 1 ? "Re-inspected after the first wash-down." : s.below ? "Tide mark across the face; silt behind the escutcheon." : "",
+      };
+      this.inspections.push(latest);
+      this.log(s, "inspection", latest.id!, "inspect", latest.inspectorId!, at, null, { percentRusted: pct, astmGrade: latest.astmGrade, isoRi: latest.isoRi });
+    }
+    return latest;
+  }
+
+  /** Two thirds of inspected parts decided, from the flood guidance; a few curator overrides. */
+  private decide(s: Spot, latest: Insertable<InspectionsTable> | null): Decided {
+    if (!latest || !this.rnd.chance(0.65)) return { disposition: null, recommended: null, reason: "", decidedAt: null };
+    const recommended = recommendDisposition({
+      kind: s.p.kind, waterType: FLOOD.waterType, belowWaterLine: s.below, hoursSubmerged: s.below ? FLOOD.hoursSubmerged : undefined,
+      contaminants: latest.contaminants as Contaminant[], insulation: latest.insulation ?? undefined, mechanism: latest.mechanism ?? undefined,
+      percentRusted: latest.percentRusted ?? undefined, heritage: s.heritage,
+    }).disposition;
+    let disposition = recommended;
+    let reason = "";
+    const alt = s.board.waterLineMm === null && recommended === "rebuild" ? DRY_INSIDE : OVERRIDE[recommended];
+    const dry = alt === DRY_INSIDE;
+    if (alt && (dry ? this.n % 4 === 1 && this.dryOverrides < 3 : this.n % 9 === 4 && this.overrides < 8)) {
+      disposition = alt.to;
+      reason = alt.reason;
+      if (dry) this.dryOverrides++;
+      else this.overrides++;
+    }
+    const decidedAt = new Date((latest.inspectedAt as Date).getTime() + 86_400_000);
+    const overridden = disposition !== recommended;
+    this.decisions.push({ siteId: this.siteId, componentId: s.componentId, disposition, recommended, overridden, reason, decidedBy: this.curator, decidedAt });
+    this.log(s, "component", s.componentId, "disposition", this.curator, decidedAt, { disposition: null }, { disposition, recommended, dispositionOverridden: overridden, dispositionReason: reason });
+    return { disposition, recommended, reason, decidedAt };
+  }
+
+  /** Moves the component along its custody path; returns where it is now. */
+  private walk(s: Spot, path: Custody[], start: Date): Custody {
+    let from: Custody = "in_place";
+    let movedAt = start;
+    for (const to of path) {
+      movedAt = new Date(movedAt.getTime() + 36 * 3_600_000);
+      const by = to === "scrapped" ? this.curator : this.volunteer;
+      this.moves.push({ siteId: this.siteId, componentId: s.componentId, fromState: from, toState: to, location: LOCATION[to], note: to === "removed" ? "Tagged and bagged with its screws." : "", movedBy: by, movedAt });
+      this.log(s, "component", s.componentId, "custody", by, movedAt, { custody: from }, { custody: to, custodyLocation: LOCATION[to] });
+      from = to;
+    }
+    return from;
+  }
+
+  async flush(db: Db) {
+    await db.insertInto("components").values(this.components).execute();
+    if (this.inspections.length) await db.insertInto("inspections").values(this.inspections).execute();
+    if (this.moves.length) await db.insertInto("custodyMoves").values(this.moves).execute();
+    if (this.decisions.length) await db.insertInto("dispositionDecisions").values(this.decisions).execute();
+    for (let i = 0; i < this.audit.length; i += 1000) await db.insertInto("auditLog").values(this.audit.slice(i, i + 1000)).execute();
+  }
+}
+
+async function insertBoard(db: Db, siteId: string, b: SeedBoard) {
+  const { sections: sectionNames, positions: layout, ...boardFields } = b;
+  const board = await db.insertInto("boards").values({ siteId, ...boardFields, phases: 3, frequencyHz: 60, earthing: "ungrounded" }).returning("id").executeTakeFirstOrThrow();
+  const sections = await db.insertInto("sections").values(sectionNames.map((name, i) => ({ siteId, boardId: board.id, name, sortOrder: i }))).returning(["id", "name"]).execute();
+  const sectionId = new Map(sections.map((s) => [s.name, s.id]));
+  const positions = layout.map((p, i) => ({
+    id: randomUUID(), siteId, boardId: board.id, sectionId: sectionId.get(p.section) ?? null, designation: p.designation, kind: p.kind,
+    gridRow: p.row, gridCol: p.col, rowSpan: p.rowSpan ?? 1, colSpan: p.colSpan ?? 1, circuit: p.circuit, sortOrder: i,
+  }));
+  await db.insertInto("positions").values(positions).execute();
+  return { boardId: board.id, positionIds: positions.map((p) => p.id) };
+}
+
 export async function seedInventory(db: Db, ctx: SeedContext) {
   const rnd = seededRandom(19461014);
   const { siteId } = ctx;
-  const volunteer = ctx.people["volunteer@tideline.test"];
   const curator = ctx.people["curator@tideline.test"];
-  const audit: Insertable<AuditLogTable>[] = [];
-  const inspections: Insertable<InspectionsTable>[] = [];
-  const moves: Insertable<CustodyMovesTable>[] = [];
-  const decisions: Insertable<DispositionDecisionsTable>[] = [];
-  const components: Insertable<ComponentsTable>[] = [];
-  const flood = await db.insertInto("floodEvents").values({ siteId, ...FLOOD, notes: "Harbour water over the engine-room plates while laid up; pumped out after about 30 hours (invented scenario)." }).returning("id").executeTakeFirstOrThrow();
-  audit.push({ siteId, entityType: "flood_event", entityId: flood.id, action: "create", actorId: curator, at: day(2), after: JSON.stringify(FLOOD) });
-  let n = 0;
-  let tag = 401;
-  let overrides = 0;
-  for (const b of SEED_BOARDS) {
-    const { sections: sectionNames, positions: layout, ...boardFields } = b;
-    const board = await db.insertInto("boards").values({ siteId, ...boardFields, phases: 3, frequencyHz: 60, earthing: "ungrounded" }).returning("id").executeTakeFirstOrThrow();
-    audit.push({ siteId, entityType: "board", entityId: board.id, boardId: board.id, action: "create", actorId: curator, at: day(2), after: JSON.stringify({ name: b.name }) });
-    const sections = await db.insertInto("sections").values(sectionNames.map((name, i) => ({ siteId, boardId: board.id, name, sortOrder: i }))).returning(["id", "name"]).execute();
-    const sectionId = new Map(sections.map((s) => [s.name, s.id]));
-    const positions = layout.map((p, i) => ({
-      id: randomUUID(), siteId, boardId: board.id, sectionId: sectionId.get(p.section) ?? null, designation: p.designation, kind: p.kind,
-      gridRow: p.row, gridCol: p.col, rowSpan: p.rowSpan ?? 1, colSpan: p.colSpan ?? 1, circuit: p.circuit, sortOrder: i,
-    }));
-    await db.insertInto("positions").values(positions).execute();
-    layout.forEach((p, i) => {
-      n++;
-      const positionId = positions[i].id;
-      const componentId = randomUUID();
-      const heritage = heritageOf(p, rnd);
-      const below = belowWaterLine(b, p);
-      audit.push({ siteId, entityType: "position", entityId: positionId, boardId: board.id, positionId, action: "create", actorId: curator, at: day(3), after: JSON.stringify({ designation: p.designation, kind: p.kind }) });
-      // Inspections: most positions once, some twice (the newest is current).
-      const count = rnd.chance(0.12) ? 0 : rnd.chance(0.2) ? 2 : 1;
-      let latest: Insertable<InspectionsTable> | null = null;
-      for (let k = 0; k < count; k++) {
-        const pct = p.kind === "busbar" || rnd.chance(0.05) ? null : rnd.pick(below ? BELOW_RUST : ABOVE_RUST);
-        const at = k === 0 ? day(5 + Math.floor(rnd.between(0, 18)), 9 + (n % 8)) : day(27 + Math.floor(rnd.between(0, 16)), 9 + (n % 8));
-        latest = {
-          id: randomUUID(), siteId, componentId, positionId, inspectorId: rnd.chance(0.75) ? volunteer : curator, inspectedAt: at, createdAt: at,
-          percentRusted: pct, astmGrade: pct === null ? null : astmD610Grade(pct), isoRi: pct === null ? null : iso4628RiGrade(pct),
-          belowWaterLine: below, contaminants: contaminants(below, rnd), insulation: insulation(below, rnd), mechanism: mechanism(p.kind, rnd),
-          notes: k === 1 ? "Re-inspected after the first wash-down." : below ? "Tide mark across the face; silt behind the escutcheon." : "",
-        };
-        inspections.push(latest);
-        audit.push({ siteId, entityType: "inspection", entityId: latest.id!, boardId: board.id, positionId, action: "inspect", actorId: latest.inspectorId ?? null, at, after: JSON.stringify({ percentRusted: pct, astmGrade: latest.astmGrade, isoRi: latest.isoRi }) });
-      }
-      // Disposition from the flood guidance; every ninth decision is a curator override.
-      let disposition: Disposition | null = null;
-      let recommended: Disposition | null = null;
-      let reason = "";
-      let decidedAt: Date | null = null;
-      if (latest && rnd.chance(0.65)) {
-        recommended = recommendDisposition({
-          kind: p.kind, waterType: FLOOD.waterType, belowWaterLine: below, hoursSubmerged: below ? FLOOD.hoursSubmerged : undefined,
-          contaminants: latest.contaminants as Contaminant[], insulation: latest.insulation ?? undefined, mechanism: latest.mechanism ?? undefined,
-          percentRusted: latest.percentRusted ?? undefined, heritage,
-        }).disposition;
-        disposition = recommended;
-        const alt = b.waterLineMm === null && recommended === "rebuild" ? DRY_INSIDE : OVERRIDE[recommended];
-        if (alt && (n % 9 === 4 || (alt === DRY_INSIDE && n % 4 === 1)) && overrides < 12) {
-          disposition = alt.to;
-          reason = alt.reason;
-          overrides++;
-        }
-        decidedAt = new Date((latest.inspectedAt as Date).getTime() + 86_400_000);
-        decisions.push({ siteId, componentId, disposition, recommended, overridden: disposition !== recommended, reason, decidedBy: curator, decidedAt });
-        audit.push({ siteId, entityType: "component", entityId: componentId, boardId: board.id, positionId, action: "disposition", actorId: curator, at: decidedAt, before: JSON.stringify({ disposition: null }), after: JSON.stringify({ disposition, recommended, overridden: disposition !== recommended, reason }) });
-      }
-      // Custody: walk the chain to where this component is now.
-      const path = custodyPath(custodyTarget(disposition, rnd, n));
-      let from: Custody = "in_place";
-      let movedAt = decidedAt ?? (latest?.inspectedAt as Date | undefined) ?? day(6);
-      const tagged = path.length > 0 || rnd.chance(0.2);
-      for (const to of path) {
-        movedAt = new Date(movedAt.getTime() + 36 * 3_600_000);
-        moves.push({ siteId, componentId, fromState: from, toState: to, location: LOCATION[to], note: to === "removed" ? "Tagged and bagged with its screws." : "", movedBy: to === "scrapped" ? curator : volunteer, movedAt });
-        audit.push({ siteId, entityType: "component", entityId: componentId, boardId: board.id, positionId, action: "custody", actorId: to === "scrapped" ? curator : volunteer, at: movedAt, before: JSON.stringify({ custody: from }), after: JSON.stringify({ custody: to, location: LOCATION[to] }) });
-        from = to;
-      }
-      components.push({
-        id: componentId, siteId, positionId, kind: p.kind, ...nameplateFor(p.kind, heritage, rnd), heritage,
-        serial: `${p.kind === "meter" ? "CIW" : "HB"}-${(4600 + n * 37) % 99999}`,
-        tagNumber: tagged ? `KL-${String(tag++).padStart(4, "0")}` : null,
-        custody: from, custodyLocation: LOCATION[from], disposition, dispositionRecommended: recommended,
-        dispositionOverridden: disposition !== null && disposition !== recommended, dispositionReason: reason,
-        dispositionBy: disposition ? curator : null, dispositionAt: decidedAt, version: 1 + path.length + (disposition ? 1 : 0),
-      });
-    });
+  const survey = new SurveyBuilder(siteId, rnd, ctx.people["volunteer@tideline.test"], curator);
+  const notes = "Harbour water over the engine-room plates while laid up; pumped out after about 30 hours (invented scenario).";
+  const flood = await db.insertInto("floodEvents").values({ siteId, ...FLOOD, notes }).returning("id").executeTakeFirstOrThrow();
+  survey.log(null, "flood_event", flood.id, "create", curator, day(2), null, FLOOD);
+  for (const board of SEED_BOARDS) {
+    const { boardId, positionIds } = await insertBoard(db, siteId, board);
+    survey.log({ boardId, positionId: null }, "board", boardId, "create", curator, day(2), null, { name: board.name });
+    board.positions.forEach((p, i) =>
+      survey.add({ board, boardId, p, positionId: positionIds[i], componentId: randomUUID(), below: belowWaterLine(board, p), heritage: heritageOf(p, rnd) }),
+    );
   }
-  await db.insertInto("components").values(components).execute();
-  if (inspections.length) await db.insertInto("inspections").values(inspections).execute();
-  if (moves.length) await db.insertInto("custodyMoves").values(moves).execute();
-  if (decisions.length) await db.insertInto("dispositionDecisions").values(decisions).execute();
-  for (let i = 0; i < audit.length; i += 1000) await db.insertInto("auditLog").values(audit.slice(i, i + 1000)).execute();
+  await survey.flush(db);
 }
