@@ -153,4 +153,4 @@ export async function listGroundChecks(db: Db, f: ReadingFilter & { id?: string 
 }
 
 export const photoOnSite = (db: Db, siteId: string, photoId: string) =>
-  db.selectFrom("photos").select("id").where("siteId", "=", siteId).where("id", "=", photoId).where("deletedAt", "is", null).executeTakeFirst();
+  db.selectFrom("photos").select(["id", "kind"]).where("siteId", "=", siteId).where("id", "=", photoId).where("deletedAt", "is", null).executeTakeFirst();

@@ -148,7 +148,11 @@ export async function recordThermal(db: Db, siteId: string, componentId: string,
   checkWhen(b.measuredAt);
   const id = await db.transaction().execute(async (trx) => {
     const c = await componentOrThrow(trx, siteId, componentId);
-    if (b.photoId && !(await repo.photoOnSite(trx, siteId, b.photoId))) throw invalid("photoId", "That photo is not on this site.");
+    if (b.photoId) {
+      const photo = await repo.photoOnSite(trx, siteId, b.photoId);
+      if (!photo) throw invalid("photoId", "That photo is not on this site.");
+      if (photo.kind !== "thermal") throw invalid("photoId", "That photo is not filed as a thermal image.");
+    }
     const row = {
       siteId, boardId: c.boardId, componentId, componentTempC: b.componentTempC, similarTempC: b.similarTempC, ambientTempC: b.ambientTempC,
       loadPercent: b.loadPercent, loadAmps: b.loadAmps, photoId: b.photoId, instrument: b.instrument, notes: b.notes, measuredAt: b.measuredAt, recordedBy: userId,

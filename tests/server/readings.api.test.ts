@@ -170,6 +170,20 @@ describe("corrected values and verdicts (hand-computed from the published tables
     expect(r.body.scan.judgement.action).toMatch(/repair as time permits/i);
   });
 
+  it("a thermal scan links only a thermal image of this site", async () => {
+    const photo = (kind: "thermal" | "as_found") =>
+      t.db.insertInto("photos").values({ siteId: fx.siteId, boardId, componentId, kind, format: "jpeg", width: 640, height: 480, bytes: 1000, originalKey: `o-${kind}`, displayKey: `d-${kind}`, thumbKey: `t-${kind}` }).returning("id").executeTakeFirstOrThrow();
+    const scan = (photoId: string) => as.volunteer.post(`${site()}/components/${componentId}/thermal-scans`, { componentTempC: 30, ambientTempC: 25, photoId, measuredAt: "2026-11-20T11:00:00Z" });
+    const thermal = await photo("thermal");
+    const ok = await scan(thermal.id);
+    expect(ok.status).toBe(201);
+    expect(ok.body.scan.photoId).toBe(thermal.id);
+    const wrongKind = await scan((await photo("as_found")).id);
+    expect(wrongKind.status).toBe(400);
+    expect(wrongKind.body.error.fields.photoId).toMatch(/thermal image/);
+    expect((await scan("00000000-0000-4000-8000-000000000000")).status).toBe(400);
+  });
+
   it("a ground-lamp check with phase B dark names phase B and the hull; latest returns it", async () => {
     const r = await as.volunteer.post(`${site()}/boards/${boardId}/ground-checks`, { energisation: "Section 1 first energisation", lineVolts: 450, lamps: { A: "bright", B: "dark", C: "bright" }, measuredAt: "2026-11-22T08:00:00Z" });
     expect(r.status).toBe(201);

@@ -49,7 +49,7 @@ export function ThermalForm({ siteId, options, defaultComponentId }: { siteId: s
         <NumberField label="Ambient air (°C)" name="ambientTempC" error={errors.ambientTempC} />
         <NumberField label="Load (% of rating)" name="loadPercent" error={errors.loadPercent} />
         <NumberField label="Load (A)" name="loadAmps" error={errors.loadAmps} />
-        <TextField label="Thermal image photo id (optional)" name="photoId" hint="From the photo's page, when it has been uploaded" error={errors.photoId} />
+        <TextField label="Thermal image photo id (optional)" name="photoId" hint="A photo filed as a thermal image, when one has been uploaded" error={errors.photoId} />
         <TextField label="Camera" name="instrument" />
         <WhenField error={errors.measuredAt} />
         <TextField label="Notes" name="notes" className="sm:col-span-2" />
