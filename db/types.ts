@@ -333,6 +333,89 @@ export interface PhotoSettingsTable {
   updatedAt: Timestamp;
 }
 
+// ---- Readings (issue 7): stored raw, judged on every read against reading_criteria ----
+export type Conductors = "A-B" | "B-C" | "C-A" | "A-G" | "B-G" | "C-G" | "line-load";
+export type LampLook = "bright" | "dim" | "dark";
+
+interface ReadingRow {
+  id: Generated<string>;
+  siteId: string;
+  boardId: string;
+  measuredAt: ColumnType<Date, Date | string, Date | string>;
+  instrument: Text;
+  notes: Text;
+  recordedBy: string | null;
+  createdAt: Timestamp;
+}
+
+export interface InsulationReadingsTable extends ReadingRow {
+  componentId: string | null;
+  circuit: Text;
+  testVoltsDc: number;
+  megohms: number;
+  conductors: Conductors;
+  equipmentTempC: number;
+  ambientTempC: Num;
+  humidityPercent: Num;
+  durationS: Num;
+  r30sMegohms: Num;
+  r1minMegohms: Num;
+  r10minMegohms: Num;
+}
+
+export interface ContactReadingsTable extends ReadingRow {
+  componentId: string;
+  poleMicroOhms: number[];
+  testCurrentA: number;
+}
+
+export interface ThermalScansTable extends ReadingRow {
+  componentId: string;
+  componentTempC: number;
+  similarTempC: Num;
+  ambientTempC: Num;
+  loadPercent: Num;
+  loadAmps: Num;
+  photoId: string | null;
+}
+
+export interface GroundLampChecksTable extends ReadingRow {
+  energisation: Text;
+  lineVolts: number;
+  lampA: LampLook | null;
+  lampB: LampLook | null;
+  lampC: LampLook | null;
+  voltsA: Num;
+  voltsB: Num;
+  voltsC: Num;
+  branchOhms: Num;
+}
+
+export interface ReadingCriteriaTable {
+  siteId: string;
+  correctionMethod: Generated<"ieee43_40c" | "neta_20c">;
+  insulationMedium: Generated<"solid" | "oil">;
+  thermalClass: Generated<"A" | "B" | "F" | "H">;
+  minimumMegohms: Num;
+  minimumSource: Text;
+  contactOutlierPercent: Generated<number>;
+  version: Generated<number>;
+  updatedBy: string | null;
+  updatedAt: Timestamp;
+}
+
+export interface ComponentReadingOverridesTable {
+  id: Generated<string>;
+  siteId: string;
+  componentId: string;
+  minimumMegohms: Num;
+  maximumMicroOhms: Num;
+  source: string;
+  version: Generated<number>;
+  updatedBy: string | null;
+  updatedAt: Timestamp;
+}
+
 export interface Database {
   users: UsersTable;
   sessions: SessionsTable;
@@ -356,6 +439,12 @@ export interface Database {
   defectPins: DefectPinsTable;
   defectStatusChanges: DefectStatusChangesTable;
   defectViews: DefectViewsTable;
+  insulationReadings: InsulationReadingsTable;
+  contactReadings: ContactReadingsTable;
+  thermalScans: ThermalScansTable;
+  groundLampChecks: GroundLampChecksTable;
+  readingCriteria: ReadingCriteriaTable;
+  componentReadingOverrides: ComponentReadingOverridesTable;
 }
 
 export type User = Selectable<UsersTable>;

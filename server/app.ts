@@ -10,6 +10,7 @@ import { AppError } from "./errors";
 import { errorHandler } from "./middleware/error-handler";
 import { originCheck } from "./middleware/origin";
 import { sessionMiddleware } from "./middleware/session";
+import { readingRoutes } from "./readings/routes";
 import { siteRoutes } from "./sites/routes";
 import { photoRoutes } from "./photos/routes";
 import { storageFromEnv, type PhotoStorage } from "./photos/storage";
@@ -62,6 +63,7 @@ export function createApp(deps: AppDeps) {
   api.use(authRoutes(db, lucia));
   api.use(siteRoutes(db));
   api.use(photoRoutes(db, deps.photoStorage ?? storageFromEnv()));
+  api.use(readingRoutes(db));
   api.use(inventoryRoutes(db));
   api.use(invitationRoutes(mail, lucia));
   api.use(passwordResetRoutes(mail, lucia));

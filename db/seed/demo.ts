@@ -6,6 +6,7 @@ import { seedDefects } from "./defects";
 import { seedInventory } from "./inventory";
 import { seedInvitations } from "./invitations";
 import { seedPhotos } from "./photos";
+import { seedReadings } from "./readings";
 
 type Db = Kysely<Database>;
 
@@ -45,4 +46,5 @@ export const SEED_STEPS: Array<(trx: Db, ctx: SeedContext) => Promise<void>> = [
   seedInvitations,
   (trx, ctx) => seedPhotos(trx, ctx), // a few labelled drawings filed to positions (after the inventory)
   seedDefects, // the defect register, raised from the inventory's inspections
+  seedReadings, // test readings on the main board: after the inventory
 ];

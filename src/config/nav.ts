@@ -19,6 +19,7 @@ export const SITE_NAV: NavItem[] = [
   { label: "Import CSV", href: (s) => paths.inventoryImport.href(s), roles: ["curator", "admin"] },
   { label: "Defects", href: (s) => paths.defects.href(s), roles: [], phone: true },
   { label: "Repair plan", href: (s) => paths.repairPlan.href(s), roles: ["curator", "admin"] },
+  { label: "Readings", href: (s) => paths.readings.href(s), roles: [], phone: true },
   { label: "Crew", href: (s) => paths.members.href(s), roles: ["curator", "admin"] },
   // In the phone bar for the photographer only (the curator's four are taken).
   { label: "Photo desk", href: (s) => paths.photos.href(s), roles: ["photographer"], phone: true },

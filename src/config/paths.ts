@@ -34,6 +34,13 @@ export const paths = {
   defect: { path: "/sites/:siteId/defects/:defectId", href: (siteId: string, defectId: string) => `/sites/${siteId}/defects/${defectId}` },
   priorityHelp: { path: "/sites/:siteId/defects/how-priority-works", href: (siteId: string) => `/sites/${siteId}/defects/how-priority-works` },
   repairPlan: { path: "/sites/:siteId/repair-plan", href: (siteId: string) => `/sites/${siteId}/repair-plan` },
+  readings: { path: "/sites/:siteId/readings", href: (siteId: string) => `/sites/${siteId}/readings` },
+  readingsBoard: { path: "/sites/:siteId/readings/boards/:boardId", href: (siteId: string, boardId: string) => `/sites/${siteId}/readings/boards/${boardId}` },
+  readingsComponent: {
+    path: "/sites/:siteId/readings/components/:componentId",
+    href: (siteId: string, componentId: string) => `/sites/${siteId}/readings/components/${componentId}`,
+  },
+  readingsCriteria: { path: "/sites/:siteId/readings/criteria", href: (siteId: string) => `/sites/${siteId}/readings/criteria` },
   admin: { path: "/admin", href: () => "/admin" },
   photos: { path: "/sites/:siteId/photos", href: (siteId: string) => `/sites/${siteId}/photos` },
   photoShootList: { path: "/sites/:siteId/photos/shoot-list", href: (siteId: string, boardId?: string) => `/sites/${siteId}/photos/shoot-list${boardId ? `?boardId=${boardId}` : ""}` },

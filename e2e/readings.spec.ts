@@ -1,0 +1,105 @@
+import { expect, test, type Page } from "@playwright/test";
+import { expectNoSeriousA11yViolations } from "./support/a11y";
+import { signIn } from "./support/auth";
+
+const MAIN = "Main switchboard (engine room, aft)";
+
+async function openMainBoard(page: Page) {
+  await page.getByRole("link", { name: "Readings", exact: true }).first().click();
+  await expect(page.getByRole("heading", { level: 1, name: "Test readings" })).toBeVisible();
+  await page.getByRole("link", { name: new RegExp(MAIN.replace(/[()]/g, "\\$&")) }).click();
+  await expect(page.getByRole("heading", { level: 1, name: `Readings · ${MAIN}` })).toBeVisible();
+}
+
+test("a volunteer records three insulation readings on different days and temperatures and sees corrected values, verdicts and the chart", async ({ page }) => {
+  const circuit = `Test feeder ${Date.now().toString(36)}`;
+  await signIn(page, "volunteer");
+  await openMainBoard(page);
+  await expect(page.getByRole("note", { name: "Safety notice" }).first()).toBeVisible();
+  const form = page.getByRole("form", { name: "Record an insulation-resistance reading" });
+  // NETA Table 100.14 solid multipliers (from memory, see tests/domain): 10 °C 0.63, 20 °C 1.00, 30 °C 1.58.
+  // ANSI/NETA MTS-2019 Table 100.1: a 450 V board uses the 600 V row, minimum 100 MΩ.
+  const rows = [
+    { when: "2026-11-25T08:00", megohms: "40", temp: "10", corrected: "25.2 MΩ corrected to 20 °C", verdict: "Below the recorded minimum" },
+    { when: "2026-11-26T08:00", megohms: "45", temp: "20", corrected: "45 MΩ corrected to 20 °C", verdict: "Below the recorded minimum" },
+    { when: "2026-11-27T08:00", megohms: "70", temp: "30", corrected: "111 MΩ corrected to 20 °C", verdict: "Meets the recorded criterion" },
+  ];
+  for (const r of rows) {
+    await form.getByLabel("Component").selectOption({ label: "No component: name the circuit" });
+    await form.getByLabel("Circuit", { exact: true }).fill(circuit);
+    await form.getByLabel("Reading (MΩ)").fill(r.megohms);
+    await form.getByLabel("Equipment temperature (°C)").fill(r.temp);
+    await form.getByLabel("Measured at").fill(r.when);
+    await form.getByRole("button", { name: "Save reading" }).click();
+    const saved = page.getByRole("status").filter({ hasText: "Saved:" });
+    await expect(saved).toContainText(r.corrected);
+    await expect(saved).toContainText(r.verdict);
+  }
+  const more = page.getByRole("button", { name: /^Show all \d+ readings$/ });
+  if (await more.isVisible()) await more.click();
+  const mine = page.getByTestId("insulation-reading").filter({ hasText: circuit });
+  await expect(mine).toHaveCount(3);
+  await expect(mine.first().getByTestId("corrected")).toHaveText("111 MΩ at 20 °C");
+  await mine.first().getByText("Source").click();
+  await expect(mine.first().getByText("ANSI/NETA MTS-2019 Table 100.1")).toBeVisible();
+
+  await page.getByLabel("Component or circuit").selectOption({ label: `${circuit} (3)` });
+  const chart = page.getByTestId("dry-out-chart");
+  await expect(chart.locator("svg.recharts-surface")).toBeVisible();
+  await expect(chart.getByText("Minimum 100 MΩ")).toBeVisible();
+  await expect(chart.getByTestId("forecast-words")).toContainText("reaches the 100 MΩ minimum");
+  await expectNoSeriousA11yViolations(page, "board readings page");
+});
+
+test("a ground-lamp check with one dark lamp names the phase and shows on the latest check", async ({ page }) => {
+  await signIn(page, "volunteer");
+  await openMainBoard(page);
+  await page.getByRole("group", { name: "Kind of reading" }).getByRole("button", { name: "Ground lamps" }).click();
+  const form = page.getByRole("form", { name: "Record a ground-lamp check" });
+  await form.getByLabel("Energisation").fill("Section B feeders closed one by one");
+  await form.getByRole("group", { name: "Phase C lamp" }).getByLabel("Dark").check();
+  await form.getByRole("button", { name: "Save lamp check" }).click();
+  const words = "Phase C lamp dark, A and B bright: suspect a ground on phase C — on a vessel, a fault to the hull.";
+  await expect(page.getByRole("status").filter({ hasText: words })).toBeVisible();
+  const latest = page.getByRole("region", { name: "Latest ground-lamp check" });
+  await expect(latest.getByTestId("ground-words")).toHaveText(words);
+  await expect(latest.getByText("Section B feeders closed one by one")).toBeVisible();
+});
+
+test("a viewer reads the readings without record forms; the criteria page and a component page pass the scan", async ({ page }) => {
+  await signIn(page, "viewer");
+  await openMainBoard(page);
+  await expect(page.getByRole("heading", { name: "Record a reading" })).toHaveCount(0);
+  await expect(page.getByText("Level 2 of 4").first()).toBeVisible();
+  await expect(page.getByText("▲ High").first()).toBeVisible();
+  await page.getByRole("navigation", { name: "Components with readings" }).getByRole("link", { name: "G1" }).click();
+  await expect(page.getByRole("heading", { level: 1, name: /G1/ })).toBeVisible();
+  await expectNoSeriousA11yViolations(page, "component readings page");
+  await page.goto(page.url().replace(/\/components\/.*$/, "/criteria"));
+  await expect(page.getByRole("heading", { level: 1, name: "Reading criteria" })).toBeVisible();
+  await expect(page.getByRole("button", { name: "Save criteria" })).toBeDisabled();
+  await expectNoSeriousA11yViolations(page, "criteria page");
+});
+
+test("the curator sees the readings home and criteria with the table source; both pass the scan", async ({ page }) => {
+  await signIn(page, "curator");
+  await page.getByRole("link", { name: "Readings", exact: true }).first().click();
+  await expectNoSeriousA11yViolations(page, "readings home");
+  await page.getByRole("link", { name: "Criteria the readings are judged against" }).click();
+  await expect(page.getByRole("button", { name: "Save criteria" })).toBeEnabled();
+  await page.getByText("Default minimums: ANSI/NETA MTS-2019 Table 100.1").click();
+  await expect(page.getByRole("cell", { name: "600 V", exact: true })).toBeVisible();
+});
+
+test("an impossible reading is refused with a message beside the field, and nothing is saved", async ({ page }) => {
+  await signIn(page, "volunteer");
+  await openMainBoard(page);
+  const form = page.getByRole("form", { name: "Record an insulation-resistance reading" });
+  await form.getByLabel("Circuit", { exact: true }).fill("Refused reading check");
+  await form.getByLabel("Reading (MΩ)").fill("0");
+  await form.getByLabel("Equipment temperature (°C)").fill("20");
+  await form.getByRole("button", { name: "Save reading" }).click();
+  await expect(form.getByText("Reading must be more than 0 MΩ")).toBeVisible();
+  await expect(form.getByLabel("Reading (MΩ)")).toHaveAttribute("aria-invalid", "true");
+  await expect(page.getByTestId("insulation-reading").filter({ hasText: "Refused reading check" })).toHaveCount(0);
+});

@@ -1,0 +1,156 @@
+import type { Insertable } from "kysely";
+import type {
+  ComponentReadingOverridesTable,
+  ContactReadingsTable,
+  GroundLampChecksTable,
+  InsulationReadingsTable,
+  ThermalScansTable,
+} from "../../db/types";
+import type { Db } from "../db";
+
+export const findBoard = (db: Db, siteId: string, boardId: string) =>
+  db.selectFrom("boards").select(["id", "name", "nominalVolts"]).where("siteId", "=", siteId).where("id", "=", boardId).executeTakeFirst();
+
+/** A component with its home position and board: where its readings are filed. */
+export const findComponent = (db: Db, siteId: string, componentId: string) =>
+  db
+    .selectFrom("components as c")
+    .innerJoin("positions as p", "p.id", "c.positionId")
+    .innerJoin("boards as b", "b.id", "p.boardId")
+    .select(["c.id", "c.kind", "c.voltageRating", "p.id as positionId", "p.designation", "p.circuit", "b.id as boardId", "b.name as boardName", "b.nominalVolts"])
+    .where("c.siteId", "=", siteId)
+    .where("c.id", "=", componentId)
+    .executeTakeFirst();
+
+export const listTargets = async (db: Db, siteId: string) => {
+  const boards = await db.selectFrom("boards").select(["id", "name", "nominalVolts"]).where("siteId", "=", siteId).orderBy("name").execute();
+  const positions = await db
+    .selectFrom("positions as p")
+    .leftJoin("components as c", (j) => j.onRef("c.positionId", "=", "p.id").on("c.retiredAt", "is", null))
+    .select(["p.id as positionId", "p.boardId", "p.designation", "p.circuit", "p.kind", "c.id as componentId"])
+    .where("p.siteId", "=", siteId)
+    .orderBy("p.sortOrder")
+    .orderBy("p.designation")
+    .execute();
+  return boards.map((b) => ({ ...b, positions: positions.filter((p) => p.boardId === b.id).map(({ boardId: _b, ...p }) => p) }));
+};
+
+export const site = (db: Db, siteId: string) => db.selectFrom("sites").select(["id", "kind"]).where("id", "=", siteId).executeTakeFirstOrThrow();
+
+// ---- criteria and manufacturer's values ---------------------------------------------------
+export const getCriteria = (db: Db, siteId: string) => db.selectFrom("readingCriteria").selectAll().where("siteId", "=", siteId).executeTakeFirst();
+
+export const insertCriteria = (db: Db, row: { siteId: string; updatedBy: string } & Record<string, unknown>) =>
+  db.insertInto("readingCriteria").values(row as never).returningAll().executeTakeFirstOrThrow();
+
+export const updateCriteria = (db: Db, siteId: string, version: number, patch: Record<string, unknown>) =>
+  db
+    .updateTable("readingCriteria")
+    .set((eb) => ({ ...patch, version: eb("version", "+", 1), updatedAt: new Date() }))
+    .where("siteId", "=", siteId)
+    .where("version", "=", version)
+    .returningAll()
+    .executeTakeFirst();
+
+export const listOverrides = (db: Db, siteId: string, componentIds: string[]) =>
+  componentIds.length === 0
+    ? Promise.resolve([])
+    : db.selectFrom("componentReadingOverrides").selectAll().where("siteId", "=", siteId).where("componentId", "in", componentIds).execute();
+
+export const getOverride = (db: Db, siteId: string, componentId: string) =>
+  db.selectFrom("componentReadingOverrides").selectAll().where("siteId", "=", siteId).where("componentId", "=", componentId).executeTakeFirst();
+
+export const insertOverride = (db: Db, row: Insertable<ComponentReadingOverridesTable>) =>
+  db.insertInto("componentReadingOverrides").values(row).returningAll().executeTakeFirstOrThrow();
+
+export const updateOverride = (db: Db, id: string, version: number, patch: Partial<Insertable<ComponentReadingOverridesTable>>) =>
+  db
+    .updateTable("componentReadingOverrides")
+    .set((eb) => ({ ...patch, version: eb("version", "+", 1), updatedAt: new Date() }))
+    .where("id", "=", id)
+    .where("version", "=", version)
+    .returningAll()
+    .executeTakeFirst();
+
+export const deleteOverride = (db: Db, siteId: string, componentId: string) =>
+  db.deleteFrom("componentReadingOverrides").where("siteId", "=", siteId).where("componentId", "=", componentId).executeTakeFirst();
+
+// ---- readings ---------------------------------------------------------------------------
+export interface ReadingFilter {
+  siteId: string;
+  boardId?: string;
+  componentId?: string;
+  circuit?: string;
+  limit?: number;
+}
+
+export const insertInsulation = (db: Db, row: Insertable<InsulationReadingsTable>) =>
+  db.insertInto("insulationReadings").values(row).returning("id").executeTakeFirstOrThrow();
+export const insertContact = (db: Db, row: Insertable<ContactReadingsTable>) =>
+  db.insertInto("contactReadings").values(row).returning("id").executeTakeFirstOrThrow();
+export const insertThermal = (db: Db, row: Insertable<ThermalScansTable>) =>
+  db.insertInto("thermalScans").values(row).returning("id").executeTakeFirstOrThrow();
+export const insertGroundCheck = (db: Db, row: Insertable<GroundLampChecksTable>) =>
+  db.insertInto("groundLampChecks").values(row).returning("id").executeTakeFirstOrThrow();
+
+export async function listInsulation(db: Db, f: ReadingFilter & { id?: string }) {
+  let q = db
+    .selectFrom("insulationReadings as r")
+    .innerJoin("boards as b", "b.id", "r.boardId")
+    .leftJoin("components as c", "c.id", "r.componentId")
+    .leftJoin("positions as p", "p.id", "c.positionId")
+    .leftJoin("users as u", "u.id", "r.recordedBy")
+    .selectAll("r")
+    .select(["p.designation", "u.name as recordedByName", "c.voltageRating", "b.nominalVolts"])
+    .where("r.siteId", "=", f.siteId);
+  if (f.id) q = q.where("r.id", "=", f.id);
+  if (f.boardId) q = q.where("r.boardId", "=", f.boardId);
+  if (f.componentId) q = q.where("r.componentId", "=", f.componentId);
+  if (f.circuit) q = q.where("r.circuit", "=", f.circuit);
+  return q.orderBy("r.measuredAt", "desc").orderBy("r.createdAt", "desc").limit(f.limit ?? 500).execute();
+}
+
+export async function listContacts(db: Db, f: ReadingFilter & { id?: string }) {
+  let q = db
+    .selectFrom("contactReadings as r")
+    .innerJoin("components as c", "c.id", "r.componentId")
+    .innerJoin("positions as p", "p.id", "c.positionId")
+    .leftJoin("users as u", "u.id", "r.recordedBy")
+    .selectAll("r")
+    .select(["p.designation", "u.name as recordedByName"])
+    .where("r.siteId", "=", f.siteId);
+  if (f.id) q = q.where("r.id", "=", f.id);
+  if (f.boardId) q = q.where("r.boardId", "=", f.boardId);
+  if (f.componentId) q = q.where("r.componentId", "=", f.componentId);
+  return q.orderBy("r.measuredAt", "desc").orderBy("r.createdAt", "desc").limit(f.limit ?? 500).execute();
+}
+
+export async function listThermal(db: Db, f: ReadingFilter & { id?: string }) {
+  let q = db
+    .selectFrom("thermalScans as r")
+    .innerJoin("components as c", "c.id", "r.componentId")
+    .innerJoin("positions as p", "p.id", "c.positionId")
+    .leftJoin("users as u", "u.id", "r.recordedBy")
+    .selectAll("r")
+    .select(["p.designation", "u.name as recordedByName"])
+    .where("r.siteId", "=", f.siteId);
+  if (f.id) q = q.where("r.id", "=", f.id);
+  if (f.boardId) q = q.where("r.boardId", "=", f.boardId);
+  if (f.componentId) q = q.where("r.componentId", "=", f.componentId);
+  return q.orderBy("r.measuredAt", "desc").orderBy("r.createdAt", "desc").limit(f.limit ?? 500).execute();
+}
+
+export async function listGroundChecks(db: Db, f: ReadingFilter & { id?: string }) {
+  let q = db
+    .selectFrom("groundLampChecks as r")
+    .leftJoin("users as u", "u.id", "r.recordedBy")
+    .selectAll("r")
+    .select(["u.name as recordedByName"])
+    .where("r.siteId", "=", f.siteId);
+  if (f.id) q = q.where("r.id", "=", f.id);
+  if (f.boardId) q = q.where("r.boardId", "=", f.boardId);
+  return q.orderBy("r.measuredAt", "desc").orderBy("r.createdAt", "desc").limit(f.limit ?? 500).execute();
+}
+
+export const photoOnSite = (db: Db, siteId: string, photoId: string) =>
+  db.selectFrom("photos").select(["id", "kind"]).where("siteId", "=", siteId).where("id", "=", photoId).where("deletedAt", "is", null).executeTakeFirst();

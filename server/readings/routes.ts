@@ -1,0 +1,112 @@
+import { Router } from "express";
+import { z } from "zod";
+import type { Role } from "../../src/domain/vocab";
+import {
+  contactReadingBody,
+  criteriaBody,
+  groundCheckBody,
+  insulationReadingBody,
+  overrideBody,
+  thermalScanBody,
+} from "../../src/schemas/readings";
+import type { Db } from "../db";
+import { requireSiteRole } from "../middleware/roles";
+import * as repo from "./repository";
+import * as service from "./service";
+
+/** Volunteers (at the board) and the curator record readings; every member reads them. */
+const RECORDERS: Role[] = ["volunteer", "curator"];
+
+const boardParams = z.object({ siteId: z.uuid(), boardId: z.uuid({ message: "boardId must be a UUID" }) });
+const componentParams = z.object({ siteId: z.uuid(), componentId: z.uuid({ message: "componentId must be a UUID" }) });
+const insulationQuery = z.object({ componentId: z.uuid().optional(), circuit: z.string().max(120).optional() });
+
+export function readingRoutes(db: Db) {
+  const r = Router();
+  const read = requireSiteRole(db);
+  const record = requireSiteRole(db, ...RECORDERS);
+  const curate = requireSiteRole(db, "curator");
+  const user = (res: { locals: Record<string, any> }) => res.locals.user!.id as string;
+  const S = "/sites/:siteId";
+
+  r.get(`${S}/readings/targets`, read, async (req, res) => {
+    res.json({ boards: await repo.listTargets(db, req.params.siteId as string) });
+  });
+  r.get(`${S}/readings/criteria`, read, async (req, res) => {
+    res.json({ criteria: await service.loadCriteria(db, req.params.siteId as string) });
+  });
+  r.put(`${S}/readings/criteria`, curate, async (req, res) => {
+    res.json({ criteria: await service.saveCriteria(db, req.params.siteId as string, user(res), criteriaBody.parse(req.body)) });
+  });
+
+  // ---- per board ----
+  r.get(`${S}/boards/:boardId/readings`, read, async (req, res) => {
+    const { siteId, boardId } = boardParams.parse(req.params);
+    res.json(await service.boardReadings(db, siteId, boardId));
+  });
+  r.get(`${S}/boards/:boardId/insulation-readings`, read, async (req, res) => {
+    const { siteId, boardId } = boardParams.parse(req.params);
+    res.json({ readings: await service.listInsulation(db, siteId, { boardId, ...insulationQuery.parse(req.query) }) });
+  });
+  r.post(`${S}/boards/:boardId/insulation-readings`, record, async (req, res) => {
+    const { siteId, boardId } = boardParams.parse(req.params);
+    res.status(201).json({ reading: await service.recordInsulation(db, siteId, boardId, user(res), insulationReadingBody.parse(req.body)) });
+  });
+  r.get(`${S}/boards/:boardId/contact-readings`, read, async (req, res) => {
+    const { siteId, boardId } = boardParams.parse(req.params);
+    res.json({ readings: await service.listContacts(db, siteId, { boardId }) });
+  });
+  r.get(`${S}/boards/:boardId/thermal-scans`, read, async (req, res) => {
+    const { siteId, boardId } = boardParams.parse(req.params);
+    res.json({ scans: await service.listThermal(db, siteId, { boardId }) });
+  });
+  r.get(`${S}/boards/:boardId/ground-checks`, read, async (req, res) => {
+    const { siteId, boardId } = boardParams.parse(req.params);
+    res.json({ checks: await service.listGroundChecks(db, siteId, { boardId }) });
+  });
+  r.get(`${S}/boards/:boardId/ground-checks/latest`, read, async (req, res) => {
+    const { siteId, boardId } = boardParams.parse(req.params);
+    res.json({ check: await service.latestGroundCheck(db, siteId, boardId) });
+  });
+  r.post(`${S}/boards/:boardId/ground-checks`, record, async (req, res) => {
+    const { siteId, boardId } = boardParams.parse(req.params);
+    res.status(201).json({ check: await service.recordGroundCheck(db, siteId, boardId, user(res), groundCheckBody.parse(req.body)) });
+  });
+
+  // ---- per component ----
+  r.get(`${S}/components/:componentId/readings`, read, async (req, res) => {
+    const { siteId, componentId } = componentParams.parse(req.params);
+    res.json(await service.componentReadings(db, siteId, componentId));
+  });
+  r.get(`${S}/components/:componentId/insulation-readings`, read, async (req, res) => {
+    const { siteId, componentId } = componentParams.parse(req.params);
+    res.json({ readings: await service.listInsulation(db, siteId, { componentId }) });
+  });
+  r.get(`${S}/components/:componentId/contact-readings`, read, async (req, res) => {
+    const { siteId, componentId } = componentParams.parse(req.params);
+    res.json({ readings: await service.listContacts(db, siteId, { componentId }) });
+  });
+  r.post(`${S}/components/:componentId/contact-readings`, record, async (req, res) => {
+    const { siteId, componentId } = componentParams.parse(req.params);
+    res.status(201).json({ reading: await service.recordContact(db, siteId, componentId, user(res), contactReadingBody.parse(req.body)) });
+  });
+  r.get(`${S}/components/:componentId/thermal-scans`, read, async (req, res) => {
+    const { siteId, componentId } = componentParams.parse(req.params);
+    res.json({ scans: await service.listThermal(db, siteId, { componentId }) });
+  });
+  r.post(`${S}/components/:componentId/thermal-scans`, record, async (req, res) => {
+    const { siteId, componentId } = componentParams.parse(req.params);
+    res.status(201).json({ scan: await service.recordThermal(db, siteId, componentId, user(res), thermalScanBody.parse(req.body)) });
+  });
+  r.put(`${S}/components/:componentId/reading-override`, curate, async (req, res) => {
+    const { siteId, componentId } = componentParams.parse(req.params);
+    res.json({ override: await service.saveOverride(db, siteId, componentId, user(res), overrideBody.parse(req.body)) });
+  });
+  r.delete(`${S}/components/:componentId/reading-override`, curate, async (req, res) => {
+    const { siteId, componentId } = componentParams.parse(req.params);
+    await service.removeOverride(db, siteId, componentId, user(res));
+    res.json({ override: null });
+  });
+
+  return r;
+}

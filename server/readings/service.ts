@@ -1,0 +1,233 @@
+import { DEFAULT_CRITERIA, correctInsulation, judgeGroundCheck, type ReadingCriteria } from "../../src/domain/reading-judgement";
+import type { z } from "zod";
+import type {
+  contactReadingBody,
+  criteriaBody,
+  groundCheckBody,
+  insulationReadingBody,
+  overrideBody,
+  thermalScanBody,
+  Criteria,
+} from "../../src/schemas/readings";
+import { recordAudit } from "../audit";
+import type { Db } from "../db";
+import { AppError, conflict, notFound } from "../errors";
+import { contactDto, groundDto, insulationDto, thermalDto, type Overrides } from "./judge";
+import * as repo from "./repository";
+
+const invalid = (field: string, message: string) => new AppError(400, "invalid_input", message, { [field]: message });
+
+/** The site's criteria, or the defaults (version 0) when the curator has set none. */
+export async function loadCriteria(db: Db, siteId: string): Promise<Criteria> {
+  const row = await repo.getCriteria(db, siteId);
+  if (!row) return { ...DEFAULT_CRITERIA, version: 0, updatedAt: null };
+  return {
+    correctionMethod: row.correctionMethod,
+    insulationMedium: row.insulationMedium,
+    thermalClass: row.thermalClass,
+    minimumMegohms: row.minimumMegohms,
+    minimumSource: row.minimumSource,
+    contactOutlierPercent: row.contactOutlierPercent,
+    version: row.version,
+    updatedAt: row.updatedAt.toISOString(),
+  };
+}
+
+export async function saveCriteria(db: Db, siteId: string, userId: string, body: z.infer<typeof criteriaBody>) {
+  return db.transaction().execute(async (trx) => {
+    const before = await loadCriteria(trx, siteId);
+    if (body.version !== before.version) throw conflict("Someone changed the criteria since you opened them. Here they are now.", before);
+    const { version, ...patch } = body;
+    const saved = before.version === 0
+      ? await repo.insertCriteria(trx, { siteId, updatedBy: userId, ...patch })
+      : await repo.updateCriteria(trx, siteId, version, { ...patch, updatedBy: userId });
+    if (!saved) throw conflict("Someone changed the criteria since you opened them. Here they are now.", await loadCriteria(trx, siteId));
+    await recordAudit(trx, { siteId, entityType: "reading_criteria", entityId: siteId, action: "update", actorId: userId, before, after: patch });
+    return loadCriteria(trx, siteId);
+  });
+}
+
+async function overridesFor(db: Db, siteId: string, componentIds: Array<string | null>): Promise<Overrides> {
+  const ids = [...new Set(componentIds.filter((x): x is string => !!x))];
+  const rows = await repo.listOverrides(db, siteId, ids);
+  return new Map(rows.map((o) => [o.componentId, { minimumMegohms: o.minimumMegohms, maximumMicroOhms: o.maximumMicroOhms, source: o.source }]));
+}
+
+const overrideDto = (o: NonNullable<Awaited<ReturnType<typeof repo.getOverride>>>) => ({
+  componentId: o.componentId, minimumMegohms: o.minimumMegohms, maximumMicroOhms: o.maximumMicroOhms, source: o.source, version: o.version,
+});
+
+export async function saveOverride(db: Db, siteId: string, componentId: string, userId: string, body: z.infer<typeof overrideBody>) {
+  return db.transaction().execute(async (trx) => {
+    const component = await repo.findComponent(trx, siteId, componentId);
+    if (!component) throw notFound("That component");
+    const existing = await repo.getOverride(trx, siteId, componentId);
+    const values = { minimumMegohms: body.minimumMegohms, maximumMicroOhms: body.maximumMicroOhms, source: body.source, updatedBy: userId };
+    let saved;
+    if (!existing) saved = await repo.insertOverride(trx, { siteId, componentId, ...values });
+    else {
+      if (body.version !== existing.version) throw conflict("Someone changed this manufacturer's value since you opened it.", overrideDto(existing));
+      saved = await repo.updateOverride(trx, existing.id, existing.version, values);
+      if (!saved) throw conflict("Someone changed this manufacturer's value since you opened it.", overrideDto((await repo.getOverride(trx, siteId, componentId))!));
+    }
+    await recordAudit(trx, { siteId, entityType: "component_reading_override", entityId: componentId, action: existing ? "update" : "create", actorId: userId, boardId: component.boardId, positionId: component.positionId, before: existing ?? null, after: values });
+    return overrideDto(saved);
+  });
+}
+
+export async function removeOverride(db: Db, siteId: string, componentId: string, userId: string) {
+  await db.transaction().execute(async (trx) => {
+    const existing = await repo.getOverride(trx, siteId, componentId);
+    if (!existing) throw notFound("That manufacturer's value");
+    await repo.deleteOverride(trx, siteId, componentId);
+    await recordAudit(trx, { siteId, entityType: "component_reading_override", entityId: componentId, action: "delete", actorId: userId, before: existing });
+  });
+}
+
+/** A reading from the future is a typing slip (one hour's slack for clocks). */
+function checkWhen(measuredAt: string, now = Date.now()) {
+  if (new Date(measuredAt).getTime() > now + 3600_000) throw invalid("measuredAt", "The reading's time is in the future.");
+}
+
+async function boardOrThrow(db: Db, siteId: string, boardId: string) {
+  const board = await repo.findBoard(db, siteId, boardId);
+  if (!board) throw notFound("That board");
+  return board;
+}
+async function componentOrThrow(db: Db, siteId: string, componentId: string) {
+  const c = await repo.findComponent(db, siteId, componentId);
+  if (!c) throw notFound("That component");
+  return c;
+}
+
+export async function recordInsulation(db: Db, siteId: string, boardId: string, userId: string, b: z.infer<typeof insulationReadingBody>) {
+  checkWhen(b.measuredAt);
+  const criteria = await loadCriteria(db, siteId);
+  try {
+    correctInsulation(b.megohms, b.equipmentTempC, criteria);
+  } catch (e) {
+    if (e instanceof RangeError) {
+      const range = criteria.correctionMethod === "ieee43_40c" ? "−10 to 100 °C for the IEEE 43 correction" : "−10 to 110 °C for the NETA correction table";
+      throw invalid("equipmentTempC", `Equipment temperature must be within ${range}.`);
+    }
+    throw e;
+  }
+  const id = await db.transaction().execute(async (trx) => {
+    await boardOrThrow(trx, siteId, boardId);
+    let positionId: string | null = null;
+    if (b.componentId) {
+      const c = await componentOrThrow(trx, siteId, b.componentId);
+      if (c.boardId !== boardId) throw invalid("componentId", "That component is not on this board.");
+      positionId = c.positionId;
+    }
+    const row = {
+      siteId, boardId, componentId: b.componentId, circuit: b.circuit, testVoltsDc: b.testVoltsDc, megohms: b.megohms, conductors: b.conductors,
+      equipmentTempC: b.equipmentTempC, ambientTempC: b.ambientTempC, humidityPercent: b.humidityPercent, durationS: b.durationS,
+      r30sMegohms: b.r30s, r1minMegohms: b.r1min, r10minMegohms: b.r10min, instrument: b.instrument, notes: b.notes, measuredAt: b.measuredAt, recordedBy: userId,
+    };
+    const { id } = await repo.insertInsulation(trx, row);
+    await recordAudit(trx, { siteId, entityType: "insulation_reading", entityId: id, action: "record", actorId: userId, boardId, positionId, after: row });
+    return id;
+  });
+  return (await listInsulation(db, siteId, { id }))[0];
+}
+
+export async function recordContact(db: Db, siteId: string, componentId: string, userId: string, b: z.infer<typeof contactReadingBody>) {
+  checkWhen(b.measuredAt);
+  const id = await db.transaction().execute(async (trx) => {
+    const c = await componentOrThrow(trx, siteId, componentId);
+    const row = { siteId, boardId: c.boardId, componentId, poleMicroOhms: b.poleMicroOhms, testCurrentA: b.testCurrentA, instrument: b.instrument, notes: b.notes, measuredAt: b.measuredAt, recordedBy: userId };
+    const { id } = await repo.insertContact(trx, row);
+    await recordAudit(trx, { siteId, entityType: "contact_reading", entityId: id, action: "record", actorId: userId, boardId: c.boardId, positionId: c.positionId, after: row });
+    return id;
+  });
+  return (await listContacts(db, siteId, { id }))[0];
+}
+
+export async function recordThermal(db: Db, siteId: string, componentId: string, userId: string, b: z.infer<typeof thermalScanBody>) {
+  checkWhen(b.measuredAt);
+  const id = await db.transaction().execute(async (trx) => {
+    const c = await componentOrThrow(trx, siteId, componentId);
+    if (b.photoId) {
+      const photo = await repo.photoOnSite(trx, siteId, b.photoId);
+      if (!photo) throw invalid("photoId", "That photo is not on this site.");
+      if (photo.kind !== "thermal") throw invalid("photoId", "That photo is not filed as a thermal image.");
+    }
+    const row = {
+      siteId, boardId: c.boardId, componentId, componentTempC: b.componentTempC, similarTempC: b.similarTempC, ambientTempC: b.ambientTempC,
+      loadPercent: b.loadPercent, loadAmps: b.loadAmps, photoId: b.photoId, instrument: b.instrument, notes: b.notes, measuredAt: b.measuredAt, recordedBy: userId,
+    };
+    const { id } = await repo.insertThermal(trx, row);
+    await recordAudit(trx, { siteId, entityType: "thermal_scan", entityId: id, action: "record", actorId: userId, boardId: c.boardId, positionId: c.positionId, after: row });
+    return id;
+  });
+  return (await listThermal(db, siteId, { id }))[0];
+}
+
+export async function recordGroundCheck(db: Db, siteId: string, boardId: string, userId: string, b: z.infer<typeof groundCheckBody>) {
+  checkWhen(b.measuredAt);
+  try {
+    judgeGroundCheck({ lineVolts: b.lineVolts, lamps: b.lamps, volts: b.volts, branchOhms: b.branchOhms });
+  } catch (e) {
+    if (e instanceof RangeError) throw invalid("volts", `These lamp readings cannot be judged: ${e.message}.`);
+    throw e;
+  }
+  const id = await db.transaction().execute(async (trx) => {
+    await boardOrThrow(trx, siteId, boardId);
+    const row = {
+      siteId, boardId, energisation: b.energisation, lineVolts: b.lineVolts,
+      lampA: b.lamps?.A ?? null, lampB: b.lamps?.B ?? null, lampC: b.lamps?.C ?? null,
+      voltsA: b.volts?.A ?? null, voltsB: b.volts?.B ?? null, voltsC: b.volts?.C ?? null,
+      branchOhms: b.branchOhms, instrument: b.instrument, notes: b.notes, measuredAt: b.measuredAt, recordedBy: userId,
+    };
+    const { id } = await repo.insertGroundCheck(trx, row);
+    await recordAudit(trx, { siteId, entityType: "ground_lamp_check", entityId: id, action: "record", actorId: userId, boardId, after: row });
+    return id;
+  });
+  return (await listGroundChecks(db, siteId, { id }))[0];
+}
+
+type Filter = Omit<repo.ReadingFilter, "siteId"> & { id?: string };
+
+export async function listInsulation(db: Db, siteId: string, f: Filter) {
+  const [criteria, rows] = await Promise.all([loadCriteria(db, siteId), repo.listInsulation(db, { siteId, ...f })]);
+  const overrides = await overridesFor(db, siteId, rows.map((r) => r.componentId));
+  return rows.map((r) => insulationDto(r, criteria as ReadingCriteria, overrides));
+}
+export async function listContacts(db: Db, siteId: string, f: Filter) {
+  const [criteria, rows] = await Promise.all([loadCriteria(db, siteId), repo.listContacts(db, { siteId, ...f })]);
+  const overrides = await overridesFor(db, siteId, rows.map((r) => r.componentId));
+  return rows.map((r) => contactDto(r, criteria as ReadingCriteria, overrides));
+}
+export async function listThermal(db: Db, siteId: string, f: Filter) {
+  return (await repo.listThermal(db, { siteId, ...f })).map(thermalDto);
+}
+export async function listGroundChecks(db: Db, siteId: string, f: Filter) {
+  const [s, rows] = await Promise.all([repo.site(db, siteId), repo.listGroundChecks(db, { siteId, ...f })]);
+  return rows.map((r) => groundDto(r, s.kind));
+}
+
+export async function boardReadings(db: Db, siteId: string, boardId: string) {
+  const board = await boardOrThrow(db, siteId, boardId);
+  const [insulation, contacts, thermal, groundChecks] = await Promise.all([
+    listInsulation(db, siteId, { boardId }), listContacts(db, siteId, { boardId }), listThermal(db, siteId, { boardId }), listGroundChecks(db, siteId, { boardId }),
+  ]);
+  return { board: { ...board, nominalVolts: Number(board.nominalVolts) }, insulation, contacts, thermal, groundChecks };
+}
+
+export async function componentReadings(db: Db, siteId: string, componentId: string) {
+  const c = await componentOrThrow(db, siteId, componentId);
+  const [insulation, contacts, thermal, override] = await Promise.all([
+    listInsulation(db, siteId, { componentId }), listContacts(db, siteId, { componentId }), listThermal(db, siteId, { componentId }), repo.getOverride(db, siteId, componentId),
+  ]);
+  return {
+    component: { id: c.id, boardId: c.boardId, boardName: c.boardName, designation: c.designation, circuit: c.circuit, kind: c.kind, ratedVolts: Number(c.voltageRating ?? c.nominalVolts) },
+    override: override ? overrideDto(override) : null,
+    insulation, contacts, thermal,
+  };
+}
+
+export async function latestGroundCheck(db: Db, siteId: string, boardId: string) {
+  await boardOrThrow(db, siteId, boardId);
+  return (await listGroundChecks(db, siteId, { boardId, limit: 1 }))[0] ?? null;
+}

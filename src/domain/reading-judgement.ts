@@ -1,0 +1,276 @@
+/**
+ * Judging recorded readings against a site's criteria: which correction, which minimum,
+ * where it comes from, and a verdict that only ever says whether the numbers meet the
+ * recorded criterion. Builds on insulation.ts, thermal.ts, contacts.ts and
+ * ground-detection.ts; adds nothing to their arithmetic except a configurable contact
+ * threshold. Verdicts never say "safe": a qualified person decides (NFPA 70E).
+ */
+import { contactResistanceOutliers, CONTACT_DEVIATION_LIMIT } from "./contacts";
+import { BALANCE_TOLERANCE, locateGround, suspectPhaseFromLamps, type LampState, type Phase } from "./ground-detection";
+import { requireNumber, requirePositive } from "./guards";
+import {
+  dielectricAbsorptionRatio,
+  ieee43CorrectionTo40C,
+  judgeInsulation,
+  minimumPolarizationIndex,
+  netaCorrectionFactor,
+  netaMinimumInsulation,
+  polarizationIndex,
+  type InsulationMedium,
+  type InsulationVerdict,
+  type ThermalClass,
+} from "./insulation";
+import { classifyTemperatureRise, type ThermalLevel } from "./thermal";
+
+export type Verdict = InsulationVerdict;
+export const VERDICT_LABELS: Record<Verdict, string> = {
+  meets: "Meets the recorded criterion",
+  below_minimum: "Below the recorded minimum",
+  investigate: "Investigate",
+};
+
+export const CORRECTION_METHODS = ["ieee43_40c", "neta_20c"] as const;
+export type CorrectionMethod = (typeof CORRECTION_METHODS)[number];
+export const CORRECTION_METHOD_LABELS: Record<CorrectionMethod, string> = {
+  ieee43_40c: "IEEE 43 halving rule, corrected to 40 °C",
+  neta_20c: "NETA multipliers, corrected to 20 °C",
+};
+
+export interface ReadingCriteria {
+  correctionMethod: CorrectionMethod;
+  insulationMedium: InsulationMedium;
+  thermalClass: ThermalClass;
+  /** Site-wide minimum insulation resistance, MΩ; null → the NETA table by rated voltage. */
+  minimumMegohms: number | null;
+  minimumSource: string;
+  /** A pole is flagged above the lowest by more than this percentage of the lowest. */
+  contactOutlierPercent: number;
+}
+
+/** Defaults: NETA to 20 °C (its minimums are at 20 °C), solid insulation, class B, NETA 50 %. */
+export const DEFAULT_CRITERIA: ReadingCriteria = {
+  correctionMethod: "neta_20c",
+  insulationMedium: "solid",
+  thermalClass: "B",
+  minimumMegohms: null,
+  minimumSource: "",
+  contactOutlierPercent: CONTACT_DEVIATION_LIMIT * 100,
+};
+
+/** Where a criterion comes from: a short text and the table's name/number. */
+export interface CriterionSource {
+  table: string;
+  text: string;
+}
+
+export interface ManufacturerValue {
+  minimumMegohms?: number | null;
+  maximumMicroOhms?: number | null;
+  source: string;
+}
+
+const fmt = (n: number) => Number(n.toPrecision(3)).toString();
+
+/**
+ * A reading corrected to the base temperature of the site's method.
+ * IEEE 43: R40 = R·0.5^((40 − T)/10); NETA: R20 = R·F(T) (Table 100.14, interpolated).
+ * @throws RangeError when the temperature is outside the method's range
+ */
+export function correctInsulation(megohms: number, temperatureC: number, c: Pick<ReadingCriteria, "correctionMethod" | "insulationMedium">) {
+  if (c.correctionMethod === "ieee43_40c") {
+    return {
+      correctedMegohms: ieee43CorrectionTo40C(megohms, temperatureC),
+      baseTemperatureC: 40,
+      source: { table: "IEEE Std 43, temperature correction to 40 °C", text: `R40 = R × 0.5^((40 − ${fmt(temperatureC)})/10)` },
+    };
+  }
+  requirePositive("megohms", megohms);
+  const factor = netaCorrectionFactor(temperatureC, c.insulationMedium);
+  return {
+    correctedMegohms: megohms * factor,
+    baseTemperatureC: 20,
+    source: {
+      table: "NETA ATS/MTS Table 100.14, correction to 20 °C",
+      text: `Multiplier ${Number(factor.toFixed(3))} at ${fmt(temperatureC)} °C, ${c.insulationMedium} insulation (interpolated between 5 °C rows)`,
+    },
+  };
+}
+
+/**
+ * The minimum that applies: a manufacturer's value for the component, else the site's
+ * own minimum, else NETA Table 100.1 by rated voltage (ANSI/NETA MTS-2019 values).
+ */
+export function insulationMinimum(ratedVolts: number, c: ReadingCriteria, maker?: ManufacturerValue | null) {
+  const table = netaMinimumInsulation(ratedVolts);
+  if (maker?.minimumMegohms != null) {
+    return { minMegohms: maker.minimumMegohms, recommendedTestVoltsDc: table.testVoltsDc, from: "manufacturer" as const, source: { table: "Manufacturer's value", text: maker.source } };
+  }
+  if (c.minimumMegohms != null) {
+    return { minMegohms: c.minimumMegohms, recommendedTestVoltsDc: table.testVoltsDc, from: "site" as const, source: { table: "Site criterion set by the curator", text: c.minimumSource || "No source text given" } };
+  }
+  return {
+    minMegohms: table.minMegohms,
+    recommendedTestVoltsDc: table.testVoltsDc,
+    from: "table" as const,
+    source: {
+      table: "ANSI/NETA MTS-2019 Table 100.1",
+      text: `Equipment rated ${fmt(ratedVolts)} V: test at ${table.testVoltsDc} V DC, minimum ${table.minMegohms} MΩ (values at 20 °C)`,
+    },
+  };
+}
+
+export interface InsulationReadingInput {
+  megohms: number;
+  equipmentTempC: number;
+  testVoltsDc: number;
+  ratedVolts: number;
+  r30s?: number | null;
+  r1min?: number | null;
+  r10min?: number | null;
+}
+
+/**
+ * Corrected value, minimum, PI/DAR and verdict for one insulation reading.
+ * Order of the verdict: judgeInsulation (below minimum → PI/DAR low → meets).
+ * @throws RangeError for a temperature outside the method's range or impossible values
+ */
+export function judgeInsulationReading(r: InsulationReadingInput, c: ReadingCriteria, maker?: ManufacturerValue | null) {
+  const corrected = correctInsulation(r.megohms, r.equipmentTempC, c);
+  const minimum = insulationMinimum(r.ratedVolts, c, maker);
+  const pi = r.r1min != null && r.r10min != null ? polarizationIndex(r.r1min, r.r10min) : null;
+  const dar = r.r30s != null && r.r1min != null ? dielectricAbsorptionRatio(r.r30s, r.r1min) : null;
+  const minimumPi = minimumPolarizationIndex(c.thermalClass);
+  const j = judgeInsulation({ correctedMegohms: corrected.correctedMegohms, minimumMegohms: minimum.minMegohms, pi, minimumPi, dar });
+  const notes: string[] = [];
+  if (r.testVoltsDc < minimum.recommendedTestVoltsDc) {
+    notes.push(`Tested at ${r.testVoltsDc} V DC; NETA Table 100.1 suggests ${minimum.recommendedTestVoltsDc} V DC for this rating.`);
+  }
+  if (c.correctionMethod === "ieee43_40c" && minimum.from === "table") {
+    notes.push("NETA's minimums are for 20 °C; a value corrected to 40 °C is lower, so this comparison errs on the strict side.");
+  }
+  return {
+    correctedMegohms: corrected.correctedMegohms,
+    baseTemperatureC: corrected.baseTemperatureC,
+    correction: corrected.source,
+    minimum: { megohms: minimum.minMegohms, from: minimum.from, source: minimum.source },
+    pi,
+    dar,
+    minimumPi,
+    piSource: { table: "IEEE Std 43, recommended minimum polarization index", text: `Thermal class ${c.thermalClass}: PI at least ${minimumPi}` },
+    verdict: j.verdict,
+    reasons: j.reasons,
+    notes,
+  };
+}
+
+/**
+ * Contact-resistance outliers at a configurable threshold.
+ * Formula: flag i when R_i − R_min > p·R_min. At p = 50 % this is NETA's rule and calls
+ * contactResistanceOutliers itself.
+ * @param percent threshold, % of the lowest, > 0
+ */
+export function contactOutliersAt(microOhms: readonly number[], percent: number): number[] {
+  const p = requirePositive("percent", percent);
+  if (p === CONTACT_DEVIATION_LIMIT * 100) return contactResistanceOutliers(microOhms);
+  contactResistanceOutliers(microOhms); // same input checks
+  if (microOhms.length < 2) return [];
+  const lowest = Math.min(...microOhms);
+  return microOhms.flatMap((v, i) => (v - lowest > (p / 100) * lowest * (1 + 1e-9) ? [i] : []));
+}
+
+/** Verdict for one set of pole readings: outliers or poles above a manufacturer's maximum → investigate. */
+export function judgeContactReading(poleMicroOhms: readonly number[], c: Pick<ReadingCriteria, "contactOutlierPercent">, maker?: ManufacturerValue | null) {
+  const outliers = contactOutliersAt(poleMicroOhms, c.contactOutlierPercent);
+  const lowest = Math.min(...poleMicroOhms);
+  const limitMicroOhms = lowest * (1 + c.contactOutlierPercent / 100);
+  const max = maker?.maximumMicroOhms ?? null;
+  const overMax = max == null ? [] : poleMicroOhms.flatMap((v, i) => (v > max ? [i] : []));
+  const reasons: string[] = [];
+  const pole = (i: number) => `Pole ${i + 1}`;
+  for (const i of outliers) reasons.push(`${pole(i)} (${fmt(poleMicroOhms[i])} µΩ) is more than ${fmt(c.contactOutlierPercent)} % above the lowest pole (${fmt(lowest)} µΩ).`);
+  for (const i of overMax) reasons.push(`${pole(i)} (${fmt(poleMicroOhms[i])} µΩ) is above the manufacturer's ${fmt(max!)} µΩ.`);
+  if (reasons.length === 0) reasons.push(`Every pole is within ${fmt(c.contactOutlierPercent)} % of the lowest (${fmt(lowest)} µΩ).`);
+  const sources: CriterionSource[] = [
+    { table: "NETA ATS/MTS circuit-breaker tests, contact resistance", text: `Investigate a pole deviating by more than ${fmt(c.contactOutlierPercent)} % of the lowest value` },
+  ];
+  if (max != null) sources.push({ table: "Manufacturer's value", text: maker!.source });
+  return {
+    outliers,
+    overMaximum: overMax,
+    limitMicroOhms,
+    verdict: (outliers.length || overMax.length ? "investigate" : "meets") as Verdict,
+    reasons,
+    sources,
+  };
+}
+
+/** Rises over a similar component and over ambient, classified by NETA Table 100.18. */
+export function judgeThermalScan(s: { componentTempC: number; similarTempC?: number | null; ambientTempC?: number | null }) {
+  const t = requireNumber("componentTempC", s.componentTempC);
+  const overSimilarC = s.similarTempC == null ? undefined : t - requireNumber("similarTempC", s.similarTempC);
+  const overAmbientC = s.ambientTempC == null ? undefined : t - requireNumber("ambientTempC", s.ambientTempC);
+  const { level, action } = classifyTemperatureRise({ overSimilarC, overAmbientC });
+  return {
+    overSimilarC: overSimilarC ?? null,
+    overAmbientC: overAmbientC ?? null,
+    level: level as ThermalLevel,
+    action,
+    verdict: (level === 0 ? "meets" : "investigate") as Verdict,
+    source: { table: "NETA ATS/MTS Table 100.18, thermographic survey suggested actions", text: `Level ${level}: ${action}` },
+  };
+}
+
+const PHASE_LIST: Phase[] = ["A", "B", "C"];
+
+function joinWords(parts: string[]) {
+  return parts.length <= 1 ? parts.join("") : `${parts.slice(0, -1).join(", ")} and ${parts.at(-1)}`;
+}
+
+/** "A and C bright" or "A dim and C bright": how the other two lamps look. */
+function othersInWords(phase: Phase, describe: (p: Phase) => string) {
+  const others = PHASE_LIST.filter((p) => p !== phase);
+  const [x, y] = others.map(describe);
+  return x === y ? `${others.join(" and ")} ${x}` : joinWords(others.map((p) => `${p} ${describe(p)}`));
+}
+
+export interface GroundCheckInput {
+  lineVolts: number;
+  lamps?: Record<Phase, LampState> | null;
+  volts?: Record<Phase, number> | null;
+  branchOhms?: number | null;
+  siteKind?: "vessel" | "building" | "plant";
+}
+
+/**
+ * The suspected grounded phase in words. Measured volts win over looks: locateGround
+ * (Millman model, 5 % balance band); otherwise suspectPhaseFromLamps.
+ * "meets" only when the lamps are balanced (no ground shown).
+ */
+export function judgeGroundCheck(g: GroundCheckInput) {
+  const hull = g.siteKind === "vessel" ? " — on a vessel, a fault to the hull" : "";
+  if (g.volts) {
+    const found = locateGround({ lineVolts: g.lineVolts, ...g.volts, branchOhms: g.branchOhms ?? undefined });
+    const vPh = g.lineVolts / Math.sqrt(3);
+    const values = PHASE_LIST.map((p) => g.volts![p]);
+    const balanced = Math.max(...values) - Math.min(...values) <= BALANCE_TOLERANCE * vPh;
+    const v = (p: Phase) => `${fmt(g.volts![p])} V`;
+    const words = found.phase
+      ? `Phase ${found.phase} lamp at ${v(found.phase)} to ground, ${othersInWords(found.phase, v)}: suspect a ground on phase ${found.phase}${hull}.` +
+        (found.faultOhms != null ? ` Estimated fault resistance about ${fmt(found.faultOhms)} Ω (estimate from the lamp model).` : "")
+      : found.reason;
+    return { phase: found.phase, faultOhms: found.faultOhms, words, verdict: (balanced ? "meets" : "investigate") as Verdict, source: GROUND_SOURCE };
+  }
+  if (!g.lamps) throw new RangeError("give the lamps' look or their volts to ground");
+  const found = suspectPhaseFromLamps(g.lamps);
+  const states = PHASE_LIST.map((p) => g.lamps![p]);
+  const balanced = states.every((s) => s === states[0]) && states[0] !== "dark";
+  const words = found.phase
+    ? `Phase ${found.phase} lamp ${g.lamps[found.phase]}, ${othersInWords(found.phase, (p) => g.lamps![p])}: suspect a ground on phase ${found.phase}${hull}.`
+    : found.reason;
+  return { phase: found.phase, faultOhms: null, words, verdict: (balanced ? "meets" : "investigate") as Verdict, source: GROUND_SOURCE };
+}
+
+const GROUND_SOURCE: CriterionSource = {
+  table: "Ground-detection lamps on an ungrounded system (Millman's theorem; common practice)",
+  text: "Three equal lamps glow alike; one darker than the other two points at a ground on that phase",
+};

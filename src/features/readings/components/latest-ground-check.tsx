@@ -1,0 +1,22 @@
+import { ErrorPanel, Loading } from "../../../components/status";
+import { SafetyNotice } from "../../../components/safety-notice";
+import { useLatestGroundCheck } from "../api";
+import { GroundCheckCard } from "./ground-check-history";
+
+/**
+ * Self-contained: the board page composes it with just the site and board ids.
+ * Shows the latest ground-lamp check with the suspected phase in words.
+ */
+export function LatestGroundCheck({ siteId, boardId }: { siteId: string; boardId: string }) {
+  const latest = useLatestGroundCheck(siteId, boardId);
+  return (
+    <section aria-labelledby={`latest-ground-${boardId}`} className="space-y-2 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
+      <h2 id={`latest-ground-${boardId}`} className="text-lg font-bold">Latest ground-lamp check</h2>
+      {latest.isPending && <Loading what="Reading the lamps" />}
+      {latest.isError && <ErrorPanel error={latest.error} />}
+      {latest.data === null && <p className="text-mist">No ground-lamp check recorded on this board yet.</p>}
+      {latest.data && <GroundCheckCard check={latest.data} />}
+      <SafetyNotice compact />
+    </section>
+  );
+}

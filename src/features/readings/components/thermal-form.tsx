@@ -1,0 +1,60 @@
+import { useState, type FormEvent } from "react";
+import { TextField } from "../../../components/field";
+import { thermalScanBody } from "../../../schemas/readings";
+import { useRecordThermal } from "../api";
+import { fieldErrors, numOrNull, toIso } from "../format";
+import { ComponentSelect, FormShell, NumberField, WhenField, saveErrors, type TargetOption } from "./form-bits";
+
+export function ThermalForm({ siteId, options, defaultComponentId }: { siteId: string; options: TargetOption[]; defaultComponentId?: string }) {
+  const save = useRecordThermal(siteId);
+  const [errors, setErrors] = useState<Record<string, string>>({});
+  const [message, setMessage] = useState<string | null>(null);
+  const [saved, setSaved] = useState<string | null>(null);
+
+  function submit(e: FormEvent<HTMLFormElement>) {
+    e.preventDefault();
+    const f = new FormData(e.currentTarget);
+    const componentId = String(f.get("componentId") ?? "");
+    const body = {
+      componentTempC: numOrNull(f.get("componentTempC")),
+      similarTempC: numOrNull(f.get("similarTempC")),
+      ambientTempC: numOrNull(f.get("ambientTempC")),
+      loadPercent: numOrNull(f.get("loadPercent")),
+      loadAmps: numOrNull(f.get("loadAmps")),
+      photoId: String(f.get("photoId") ?? "").trim() || null,
+      instrument: String(f.get("instrument") ?? ""),
+      notes: String(f.get("notes") ?? ""),
+      measuredAt: toIso(String(f.get("measuredAt") ?? "")),
+    };
+    const parsed = thermalScanBody.safeParse(body);
+    setMessage(null);
+    if (!parsed.success || !componentId) {
+      setErrors({ ...(parsed.success ? {} : fieldErrors(parsed.error.issues)), ...(componentId ? {} : { componentId: "Choose the component" }) });
+      setMessage("Check the fields marked below.");
+      return;
+    }
+    setErrors({});
+    save.mutate({ componentId, ...parsed.data }, {
+      onSuccess: (s) => setSaved(`Level ${s.judgement.level}: ${s.judgement.action}.`),
+      onError: (err) => { const s = saveErrors(err); setErrors(s.fields); setMessage(s.message); },
+    });
+  }
+
+  return (
+    <div className="space-y-3">
+      <FormShell title="Record a thermal scan" onSubmit={submit} error={message} busy={save.isPending} submitLabel="Save scan">
+        <ComponentSelect options={options} defaultValue={defaultComponentId} error={errors.componentId} />
+        <NumberField label="Component temperature (°C)" name="componentTempC" required error={errors.componentTempC} />
+        <NumberField label="Similar component, similar load (°C)" name="similarTempC" error={errors.similarTempC} />
+        <NumberField label="Ambient air (°C)" name="ambientTempC" error={errors.ambientTempC} />
+        <NumberField label="Load (% of rating)" name="loadPercent" error={errors.loadPercent} />
+        <NumberField label="Load (A)" name="loadAmps" error={errors.loadAmps} />
+        <TextField label="Thermal image photo id (optional)" name="photoId" hint="A photo filed as a thermal image, when one has been uploaded" error={errors.photoId} />
+        <TextField label="Camera" name="instrument" />
+        <WhenField error={errors.measuredAt} />
+        <TextField label="Notes" name="notes" className="sm:col-span-2" />
+      </FormShell>
+      {saved && <p role="status" className="rounded-md bg-hull-800 p-3">Saved. {saved}</p>}
+    </div>
+  );
+}

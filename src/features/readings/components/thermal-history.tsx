@@ -1,0 +1,33 @@
+import type { ThermalScan } from "../../../schemas/readings";
+import { sig, when } from "../format";
+import { SourceDetails } from "./source-details";
+
+const rise = (v: number | null, what: string) => (v == null ? null : `${v >= 0 ? "+" : ""}${sig(v)} °C over ${what}`);
+
+export function ThermalHistory({ scans }: { scans: ThermalScan[] }) {
+  if (scans.length === 0) return <p className="text-mist">No thermal scans yet.</p>;
+  return (
+    <ul className="space-y-2" aria-label="Thermal findings">
+      {scans.map((s) => (
+        <li key={s.id} className="rounded-lg bg-hull-850 p-3 ring-1 ring-hull-700">
+          <div className="flex flex-wrap items-baseline justify-between gap-2">
+            <span className="font-mono font-semibold">{s.designation}</span>
+            <span className="text-sm text-mist">{when(s.measuredAt)}</span>
+          </div>
+          <p className="mt-1">
+            <span className="mr-2 inline-block rounded bg-hull-700 px-2 py-0.5 font-mono font-bold" data-testid="thermal-level">Level {s.judgement.level} of 4</span>
+            <strong>{s.judgement.action}</strong>
+          </p>
+          <p className="text-sm text-mist">
+            {sig(s.componentTempC)} °C · {[rise(s.judgement.overSimilarC, "a similar component"), rise(s.judgement.overAmbientC, "ambient")].filter(Boolean).join(" · ")}
+            {s.loadPercent != null && ` · load ${sig(s.loadPercent)} %`}
+            {s.loadAmps != null && ` · load ${sig(s.loadAmps)} A`}
+          </p>
+          {s.photoId && <p className="text-sm">Thermal image on file (photo {s.photoId.slice(0, 8)})</p>}
+          <SourceDetails sources={[{ title: "Temperature-rise bands", source: s.judgement.source }]} />
+          {s.notes && <p className="text-sm text-mist">{s.notes}</p>}
+        </li>
+      ))}
+    </ul>
+  );
+}

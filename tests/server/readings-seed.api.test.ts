@@ -1,0 +1,40 @@
+import { afterAll, beforeAll, expect, it } from "vitest";
+import { seedDemo } from "../../db/seed/demo";
+import * as service from "../../server/readings/service";
+import { createTestDb, type TestDb } from "../helpers/db";
+
+let t: TestDb;
+let siteId: string;
+let boardId: string;
+beforeAll(async () => {
+  t = await createTestDb();
+  await seedDemo(t.db);
+  siteId = (await t.db.selectFrom("sites").select("id").executeTakeFirstOrThrow()).id;
+  boardId = (await t.db.selectFrom("boards").select("id").where("name", "=", "Main switchboard (engine room, aft)").executeTakeFirstOrThrow()).id;
+});
+afterAll(async () => t.drop());
+
+it("the demo dry-out has three circuits megged on ten days at varied temperatures, corrected values rising", async () => {
+  const { insulation } = await service.boardReadings(t.db, siteId, boardId);
+  const byComponent = new Map<string | null, typeof insulation>();
+  for (const r of insulation) byComponent.set(r.componentId, [...(byComponent.get(r.componentId) ?? []), r]);
+  expect(byComponent.size).toBe(3);
+  for (const series of byComponent.values()) {
+    expect(series).toHaveLength(10);
+    expect(new Set(series.map((r) => r.equipmentTempC)).size).toBeGreaterThan(5);
+    const oldestFirst = [...series].reverse().map((r) => r.judgement.correctedMegohms!);
+    expect(oldestFirst.at(-1)!).toBeGreaterThan(oldestFirst[0] * 5);
+  }
+  const verdicts = new Set(insulation.map((r) => r.judgement.verdict));
+  expect(verdicts).toContain("below_minimum");
+  expect(verdicts).toContain("meets");
+});
+
+it("the demo has one outlier pole, a level-2 thermal finding and a dim phase-B lamp", async () => {
+  const { contacts, thermal, groundChecks } = await service.boardReadings(t.db, siteId, boardId);
+  expect(contacts.filter((c) => c.judgement.outliers.length > 0).map((c) => c.designation)).toEqual(["G1"]);
+  expect(thermal.map((s) => s.judgement.level)).toContain(2);
+  expect(groundChecks).toHaveLength(2);
+  expect(groundChecks[0].judgement.words).toBe("Phase B lamp dim, A and C bright: suspect a ground on phase B — on a vessel, a fault to the hull.");
+  expect(groundChecks[1].judgement.verdict).toBe("meets");
+});
