@@ -7,7 +7,7 @@
  */
 import { partSpecKey, normaliseText, type PartSpec } from "./parts";
 import { requireNumber, requireOneOf } from "./guards";
-import { PART_STATUSES, type PartStatus } from "./vocab";
+import { COMPONENT_KIND_LABELS, PART_STATUSES, type PartStatus } from "./vocab";
 
 export const LEAD_SOURCE_KINDS = ["donor", "dealer", "collector", "salvage", "other"] as const;
 export type LeadSourceKind = (typeof LEAD_SOURCE_KINDS)[number];
@@ -110,4 +110,21 @@ export function budgetByBoard(lines: readonly BudgetLineInput[]): { rows: Budget
   const out = [...rows.values()].map((r) => ({ ...r, estimated: round2(r.estimated), spent: round2(r.spent) }));
   const total = out.reduce((t, r) => ({ estimated: round2(t.estimated + r.estimated), spent: round2(t.spent + r.spent) }), { estimated: 0, spent: 0 });
   return { rows: out, total };
+}
+
+/**
+ * One readable line for a spec, e.g. "Power (open-frame) breaker · 225 A · 3-pole · 600 V ·
+ * frame K-225 · Drawout · Northbay Electric NB 3 — arc chute". Blank fields are left out.
+ */
+export function partTitle(spec: PartSpec, need?: string | null): string {
+  const bits = [COMPONENT_KIND_LABELS[spec.kind] ?? spec.kind];
+  if (spec.ratingAmps != null) bits.push(`${spec.ratingAmps} A`);
+  if (spec.poles != null) bits.push(`${spec.poles}-pole`);
+  if (spec.voltageRating != null) bits.push(`${spec.voltageRating} V`);
+  if (spec.frame?.trim()) bits.push(`frame ${spec.frame.trim()}`);
+  if (spec.mounting?.trim()) bits.push(spec.mounting.trim());
+  const maker = [spec.maker?.trim(), spec.model?.trim()].filter(Boolean).join(" ");
+  if (maker) bits.push(maker);
+  const title = bits.join(" · ");
+  return need?.trim() ? `${title} — ${need.trim()}` : title;
 }

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { budgetByBoard, canMovePart, needKey, needMatchesLine } from "../../src/domain/part-workflow";
+import { budgetByBoard, canMovePart, needKey, needMatchesLine, partTitle } from "../../src/domain/part-workflow";
 import type { PartSpec } from "../../src/domain/parts";
 import type { PartStatus } from "../../src/domain/vocab";
 
@@ -86,5 +86,15 @@ describe("budgetByBoard", () => {
     [{ qtyByBoard: { A: 1 }, estimatedUnitCost: 1, spent: -5 }],
   ])("throws RangeError for impossible input %j", (line) => {
     expect(() => budgetByBoard([line])).toThrow(RangeError);
+  });
+});
+
+describe("partTitle", () => {
+  it.each([
+    [mcb, "", "Molded-case breaker · 100 A · 3-pole · 600 V · frame F · Bolt-on · Acme Q3"],
+    [{ kind: "ground_lamp", voltageRating: 250 } as PartSpec, "lens", "Ground-detection lamp · 250 V — lens"],
+    [{ kind: "other" } as PartSpec, null, "Other"],
+  ])("%j %j → %s", (spec, need, title) => {
+    expect(partTitle(spec, need)).toBe(title);
   });
 });
