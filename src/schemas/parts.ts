@@ -8,17 +8,22 @@ const money = z.number({ message: "Enter an amount" }).min(0, { message: "Cannot
 const dateText = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, { message: "Use YYYY-MM-DD" });
 const version = z.number().int().min(1);
 
+const rating = z.number().positive({ message: "Must be above 0" }).max(100_000).nullable();
+const poles = z.number().int({ message: "Whole number" }).min(1).max(12).nullable();
+const volts = z.number().int({ message: "Whole number" }).positive().max(100_000).nullable();
+const mustMatch = z.array(z.enum(SPEC_FIELDS)).max(SPEC_FIELDS.length).nullable();
+
 export const specFields = {
   kind: z.enum(COMPONENT_KINDS),
-  ratingAmps: z.number().positive({ message: "Must be above 0" }).max(100_000).nullable().default(null),
-  poles: z.number().int({ message: "Whole number" }).min(1).max(12).nullable().default(null),
-  voltageRating: z.number().int({ message: "Whole number" }).positive().max(100_000).nullable().default(null),
+  ratingAmps: rating.default(null),
+  poles: poles.default(null),
+  voltageRating: volts.default(null),
   frame: shortText().default(""),
   mounting: shortText().default(""),
   maker: shortText().default(""),
   model: shortText().default(""),
   need: shortText(300).default(""),
-  mustMatch: z.array(z.enum(SPEC_FIELDS)).max(SPEC_FIELDS.length).nullable().default(null),
+  mustMatch: mustMatch.default(null),
 };
 
 export const createLineBody = z.object({
@@ -33,15 +38,15 @@ export type CreateLineBody = z.input<typeof createLineBody>;
 export const updateLineBody = z.object({
   version,
   kind: specFields.kind.optional(),
-  ratingAmps: specFields.ratingAmps.optional(),
-  poles: specFields.poles.optional(),
-  voltageRating: specFields.voltageRating.optional(),
+  ratingAmps: rating.optional(),
+  poles: poles.optional(),
+  voltageRating: volts.optional(),
   frame: shortText().optional(),
   mounting: shortText().optional(),
   maker: shortText().optional(),
   model: shortText().optional(),
   need: shortText(300).optional(),
-  mustMatch: specFields.mustMatch.optional(),
+  mustMatch: mustMatch.optional(),
   manualQty: z.number().int().min(0).max(10_000).optional(),
   notes: shortText(4000).optional(),
   estimatedUnitCost: money.nullable().optional(),
@@ -74,17 +79,27 @@ export const statusBody = z.discriminatedUnion("to", [
 ]);
 export type StatusBody = z.input<typeof statusBody>;
 
-export const leadBody = z.object({
-  sourceKind: z.enum(LEAD_SOURCE_KINDS).default("other"),
+const leadFields = {
+  sourceKind: z.enum(LEAD_SOURCE_KINDS),
   source: shortText(300).min(1, { message: "Where might it come from?" }),
-  contact: shortText(500).default(""),
-  askingPrice: money.nullable().default(null),
-  qtyOffered: z.number().int().min(1).max(10_000).nullable().default(null),
-  notes: shortText(4000).default(""),
-  status: z.enum(LEAD_STATUSES).default("open"),
+  contact: shortText(500),
+  askingPrice: money.nullable(),
+  qtyOffered: z.number().int().min(1).max(10_000).nullable(),
+  notes: shortText(4000),
+  status: z.enum(LEAD_STATUSES),
+};
+export const leadBody = z.object({
+  ...leadFields,
+  sourceKind: leadFields.sourceKind.default("other"),
+  contact: leadFields.contact.default(""),
+  askingPrice: leadFields.askingPrice.default(null),
+  qtyOffered: leadFields.qtyOffered.default(null),
+  notes: leadFields.notes.default(""),
+  status: leadFields.status.default("open"),
 });
 export type LeadBody = z.input<typeof leadBody>;
-export const updateLeadBody = leadBody.partial().extend({ version });
+// No defaults here: an absent field is left as it is.
+export const updateLeadBody = z.object(leadFields).partial().extend({ version });
 
 export const listQuery = z.object({
   status: z.enum([...PART_STATUSES, "open", "all"]).default("open"),
