@@ -11,6 +11,7 @@ import { errorHandler } from "./middleware/error-handler";
 import { originCheck } from "./middleware/origin";
 import { sessionMiddleware } from "./middleware/session";
 import { siteRoutes } from "./sites/routes";
+import { inventoryRoutes } from "./inventory/routes";
 import { partsRoutes } from "./parts/routes";
 
 export interface AppDeps {
@@ -42,6 +43,7 @@ export function createApp(deps: AppDeps) {
   api.use(sessionMiddleware(lucia));
   api.use(authRoutes(db, lucia));
   api.use(siteRoutes(db));
+  api.use(inventoryRoutes(db));
   api.use(partsRoutes(db));
   api.use((_req, _res, next) => next(new AppError(404, "not_found", "No such API route.")));
   api.use(errorHandler);

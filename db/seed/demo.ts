@@ -2,6 +2,7 @@ import type { Kysely } from "kysely";
 import type { Database } from "../types";
 import { hashPassword } from "../../server/auth/password";
 import { DEMO_PASSWORD, DEMO_PEOPLE, DEMO_SITE } from "./people";
+import { seedInventory } from "./inventory";
 
 type Db = Kysely<Database>;
 
@@ -36,4 +37,6 @@ export interface SeedContext {
   people: Record<string, string>;
 }
 /** Later features append their part of the scenario here, in order. */
-export const SEED_STEPS: Array<(trx: Db, ctx: SeedContext) => Promise<void>> = [];
+export const SEED_STEPS: Array<(trx: Db, ctx: SeedContext) => Promise<void>> = [
+  seedInventory, // boards, positions, components and the survey: first, others hang on it
+];

@@ -1,0 +1,56 @@
+import type { Insertable } from "kysely";
+import type { BoardsTable, FloodEventsTable, SectionsTable } from "../../db/types";
+import type { Db } from "../db";
+
+export const listFloodEvents = (db: Db, siteId: string) =>
+  db.selectFrom("floodEvents").selectAll().where("siteId", "=", siteId).orderBy("occurredOn", "desc").orderBy("createdAt", "desc").execute();
+
+/** The flood event recommendations use: the most recent one. */
+export const latestFloodEvent = (db: Db, siteId: string) =>
+  db.selectFrom("floodEvents").selectAll().where("siteId", "=", siteId).orderBy("occurredOn", "desc").orderBy("createdAt", "desc").limit(1).executeTakeFirst();
+
+export const insertFloodEvent = (db: Db, v: Insertable<FloodEventsTable>) =>
+  db.insertInto("floodEvents").values(v).returningAll().executeTakeFirstOrThrow();
+
+/** Boards with their position count and how many positions have at least one inspection. */
+export const listBoards = (db: Db, siteId: string) =>
+  db
+    .selectFrom("boards as b")
+    .selectAll("b")
+    .select((eb) => [
+      eb.selectFrom("positions as p").whereRef("p.boardId", "=", "b.id").select(eb.fn.countAll<number>().as("n")).as("positionCount"),
+      eb
+        .selectFrom("positions as p")
+        .whereRef("p.boardId", "=", "b.id")
+        .where((w) => w.exists(w.selectFrom("inspections as i").select("i.id").whereRef("i.positionId", "=", "p.id")))
+        .select(eb.fn.countAll<number>().as("n"))
+        .as("surveyedCount"),
+    ])
+    .where("b.siteId", "=", siteId)
+    .orderBy("b.name")
+    .execute();
+
+export const insertBoard = (db: Db, v: Insertable<BoardsTable>) => db.insertInto("boards").values(v).returningAll().executeTakeFirstOrThrow();
+
+/** The furthest row and column any position of the board reaches (its span included). */
+export const boardExtent = (db: Db, boardId: string) =>
+  db
+    .selectFrom("positions")
+    .select((eb) => [
+      eb.fn.coalesce(eb.fn.max(eb("gridRow", "+", eb.ref("rowSpan"))), eb.lit(1)).as("rowEnd"),
+      eb.fn.coalesce(eb.fn.max(eb("gridCol", "+", eb.ref("colSpan"))), eb.lit(1)).as("colEnd"),
+    ])
+    .where("boardId", "=", boardId)
+    .executeTakeFirstOrThrow();
+
+export const listSections = (db: Db, boardId: string) =>
+  db.selectFrom("sections").selectAll().where("boardId", "=", boardId).orderBy("sortOrder").orderBy("name").execute();
+
+export const nextSectionOrder = async (db: Db, boardId: string) =>
+  Number(
+    (await db.selectFrom("sections").select((eb) => eb.fn.coalesce(eb.fn.max("sortOrder"), eb.lit(-1)).as("m")).where("boardId", "=", boardId).executeTakeFirstOrThrow()).m,
+  ) + 1;
+
+export const insertSection = (db: Db, v: Insertable<SectionsTable>) => db.insertInto("sections").values(v).returningAll().executeTakeFirstOrThrow();
+
+export const deleteSection = (db: Db, id: string) => db.deleteFrom("sections").where("id", "=", id).execute();

@@ -1,0 +1,71 @@
+/** Flood events, boards, sections and the site overview. Any member reads; the curator writes. */
+import { Router } from "express";
+import {
+  boardParams, createBoardBody, createFloodEventBody, createSectionBody, deleteQuery, floodEventParams,
+  patchBoardBody, patchFloodEventBody, patchSectionBody, sectionParams, siteParams,
+} from "../../src/schemas/inventory";
+import type { Db } from "../db";
+import { requireSiteRole } from "../middleware/roles";
+import * as repo from "./boards-repository";
+import * as service from "./boards-service";
+import { actorOf, requireOwned } from "./common";
+import { overview } from "./overview";
+import { boardTiles, toTile } from "./positions-repository";
+
+const S = "/sites/:siteId";
+
+export function boardRoutes(db: Db) {
+  const r = Router();
+  const anyMember = requireSiteRole(db);
+  const curator = requireSiteRole(db, "curator");
+
+  r.get(`${S}/overview`, anyMember, async (req, res) => {
+    res.json(await overview(db, siteParams.parse(req.params).siteId));
+  });
+
+  r.get(`${S}/flood-events`, anyMember, async (req, res) => {
+    res.json(await repo.listFloodEvents(db, siteParams.parse(req.params).siteId));
+  });
+  r.post(`${S}/flood-events`, curator, async (req, res) => {
+    const { siteId } = siteParams.parse(req.params);
+    res.status(201).json(await service.createFloodEvent(db, siteId, actorOf(res), createFloodEventBody.parse(req.body)));
+  });
+  r.patch(`${S}/flood-events/:floodEventId`, curator, async (req, res) => {
+    const { siteId, floodEventId } = floodEventParams.parse(req.params);
+    res.json(await service.patchFloodEvent(db, siteId, floodEventId, actorOf(res), patchFloodEventBody.parse(req.body)));
+  });
+
+  r.get(`${S}/boards`, anyMember, async (req, res) => {
+    const rows = await repo.listBoards(db, siteParams.parse(req.params).siteId);
+    res.json(rows.map((b) => ({ ...b, positionCount: Number(b.positionCount ?? 0), surveyedCount: Number(b.surveyedCount ?? 0) })));
+  });
+  r.post(`${S}/boards`, curator, async (req, res) => {
+    const { siteId } = siteParams.parse(req.params);
+    res.status(201).json(await service.createBoard(db, siteId, actorOf(res), createBoardBody.parse(req.body)));
+  });
+  r.get(`${S}/boards/:boardId`, anyMember, async (req, res) => {
+    const { siteId, boardId } = boardParams.parse(req.params);
+    const board = await requireOwned(db, "boards", siteId, boardId, "That board");
+    const [sections, tiles] = await Promise.all([repo.listSections(db, boardId), boardTiles(db, boardId)]);
+    res.json({ board, sections, positions: tiles.map(toTile) });
+  });
+  r.patch(`${S}/boards/:boardId`, curator, async (req, res) => {
+    const { siteId, boardId } = boardParams.parse(req.params);
+    res.json(await service.patchBoard(db, siteId, boardId, actorOf(res), patchBoardBody.parse(req.body)));
+  });
+
+  r.post(`${S}/boards/:boardId/sections`, curator, async (req, res) => {
+    const { siteId, boardId } = boardParams.parse(req.params);
+    res.status(201).json(await service.createSection(db, siteId, boardId, actorOf(res), createSectionBody.parse(req.body)));
+  });
+  r.patch(`${S}/sections/:sectionId`, curator, async (req, res) => {
+    const { siteId, sectionId } = sectionParams.parse(req.params);
+    res.json(await service.patchSection(db, siteId, sectionId, actorOf(res), patchSectionBody.parse(req.body)));
+  });
+  r.delete(`${S}/sections/:sectionId`, curator, async (req, res) => {
+    const { siteId, sectionId } = sectionParams.parse(req.params);
+    await service.deleteSection(db, siteId, sectionId, actorOf(res), deleteQuery.parse(req.query).version);
+    res.status(204).end();
+  });
+  return r;
+}

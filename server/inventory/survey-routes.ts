@@ -1,0 +1,41 @@
+/**
+ * The condition survey on a component. Volunteers and the curator log inspections and
+ * custody moves; only the curator edits nameplates and decides dispositions.
+ */
+import { Router } from "express";
+import { componentParams, createInspectionBody, custodyBody, dispositionBody, patchComponentBody } from "../../src/schemas/inventory";
+import type { Db } from "../db";
+import { requireSiteRole } from "../middleware/roles";
+import { actorOf } from "./common";
+import * as service from "./survey-service";
+
+const C = "/sites/:siteId/components/:componentId";
+
+export function surveyRoutes(db: Db) {
+  const r = Router();
+  const anyMember = requireSiteRole(db);
+  const fieldCrew = requireSiteRole(db, "volunteer", "curator");
+  const curator = requireSiteRole(db, "curator");
+
+  r.patch(C, curator, async (req, res) => {
+    const { siteId, componentId } = componentParams.parse(req.params);
+    res.json(await service.patchComponent(db, siteId, componentId, actorOf(res), patchComponentBody.parse(req.body)));
+  });
+  r.post(`${C}/inspections`, fieldCrew, async (req, res) => {
+    const { siteId, componentId } = componentParams.parse(req.params);
+    res.status(201).json(await service.createInspection(db, siteId, componentId, actorOf(res), createInspectionBody.parse(req.body)));
+  });
+  r.post(`${C}/custody`, fieldCrew, async (req, res) => {
+    const { siteId, componentId } = componentParams.parse(req.params);
+    res.status(201).json(await service.moveCustody(db, siteId, componentId, actorOf(res), custodyBody.parse(req.body)));
+  });
+  r.get(`${C}/recommendation`, anyMember, async (req, res) => {
+    const { siteId, componentId } = componentParams.parse(req.params);
+    res.json(await service.recommendation(db, siteId, componentId));
+  });
+  r.put(`${C}/disposition`, curator, async (req, res) => {
+    const { siteId, componentId } = componentParams.parse(req.params);
+    res.json(await service.decideDisposition(db, siteId, componentId, actorOf(res), dispositionBody.parse(req.body)));
+  });
+  return r;
+}

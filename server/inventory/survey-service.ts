@@ -1,0 +1,120 @@
+/** Use cases on a component: nameplate edits, inspections, custody moves and dispositions. */
+import { astmD610Grade, iso4628RiGrade } from "../../src/domain/corrosion";
+import type { z } from "zod";
+import type { PatchComponentBody, createInspectionBody, custodyBody, dispositionBody } from "../../src/schemas/inventory";
+import { diff, recordAudit } from "../audit";
+import type { Db } from "../db";
+import { AppError } from "../errors";
+import { UNIQUE, defined, mapUnique, requireOwned, stale, updateVersioned } from "./common";
+import { recommendFor } from "./recommendation";
+import * as repo from "./survey-repository";
+import * as positions from "./positions-repository";
+
+type Inspect = z.output<typeof createInspectionBody>;
+type Custody = z.output<typeof custodyBody>;
+type Decide = z.output<typeof dispositionBody>;
+
+const boardOf = async (db: Db, positionId: string) =>
+  (await db.selectFrom("positions").select("boardId").where("id", "=", positionId).executeTakeFirstOrThrow()).boardId;
+
+export async function patchComponent(db: Db, siteId: string, id: string, actorId: string, body: PatchComponentBody) {
+  const { version, tagNumber, ...rest } = body;
+  const patch = { ...defined(rest), ...(tagNumber === undefined ? {} : { tagNumber: tagNumber === "" ? null : tagNumber }) };
+  return db.transaction().execute(async (trx) => {
+    const before = await requireOwned(trx, "components", siteId, id, "That component", true);
+    if (before.version !== version) throw stale("component", before);
+    const after = await mapUnique(() => updateVersioned(trx, "components", siteId, id, version, patch, "component"), UNIQUE.tag);
+    const d = diff(before as never, patch as never);
+    if (d.changed)
+      await recordAudit(trx, { siteId, entityType: "component", entityId: id, boardId: await boardOf(trx, before.positionId), positionId: before.positionId, action: "update", actorId, before: d.before, after: d.after });
+    return after;
+  });
+}
+
+/** Appends an inspection; the ASTM D610 and ISO 4628-3 grades come from src/domain/corrosion.ts. */
+export async function createInspection(db: Db, siteId: string, componentId: string, actorId: string, b: Inspect) {
+  return db.transaction().execute(async (trx) => {
+    const c = await requireOwned(trx, "components", siteId, componentId, "That component");
+    const pct = b.percentRusted ?? null;
+    const row = await repo.insertInspection(trx, {
+      siteId, componentId, positionId: c.positionId, inspectorId: actorId, percentRusted: pct,
+      astmGrade: pct === null ? null : astmD610Grade(pct), isoRi: pct === null ? null : iso4628RiGrade(pct),
+      belowWaterLine: b.belowWaterLine ?? null, contaminants: [...new Set(b.contaminants)], mechanism: b.mechanism ?? null,
+      insulation: b.insulation ?? null, notes: b.notes,
+    });
+    await recordAudit(trx, { siteId, entityType: "inspection", entityId: row.id, boardId: await boardOf(trx, c.positionId), positionId: c.positionId, action: "inspect", actorId, after: row });
+    return row;
+  });
+}
+
+const DEFAULT_LOCATION: Record<string, string> = { in_place: "In its position", refitted: "In its position" };
+
+export async function moveCustody(db: Db, siteId: string, componentId: string, actorId: string, b: Custody) {
+  return db.transaction().execute(async (trx) => {
+    const before = await requireOwned(trx, "components", siteId, componentId, "That component", true);
+    if (before.version !== b.version) throw stale("component", before);
+    if (before.custody === b.toState) throw new AppError(409, "same_state", "It is already in that custody state.", { toState: "Already there" }, before);
+    const patch: Record<string, unknown> = { custody: b.toState, custodyLocation: b.location || DEFAULT_LOCATION[b.toState] || "" };
+    if (b.tagNumber && b.tagNumber !== before.tagNumber) patch.tagNumber = b.tagNumber;
+    const component = await mapUnique(() => updateVersioned(trx, "components", siteId, componentId, b.version, patch, "component"), UNIQUE.tag);
+    const move = await repo.insertMove(trx, { siteId, componentId, fromState: before.custody, toState: b.toState, location: patch.custodyLocation as string, note: b.note, movedBy: actorId });
+    await recordAudit(trx, {
+      siteId, entityType: "component", entityId: componentId, boardId: await boardOf(trx, before.positionId), positionId: before.positionId, action: "custody", actorId,
+      before: { custody: before.custody, custodyLocation: before.custodyLocation, ...(patch.tagNumber ? { tagNumber: before.tagNumber } : {}) },
+      after: { ...patch, note: b.note },
+    });
+    return { component, move };
+  });
+}
+
+/**
+ * Stores the decision with the recommendation it was made against. Overridden means a
+ * recommendation existed and the decision differs; an override needs a reason.
+ */
+export async function decideDisposition(db: Db, siteId: string, componentId: string, actorId: string, b: Decide) {
+  return db.transaction().execute(async (trx) => {
+    const before = await requireOwned(trx, "components", siteId, componentId, "That component", true);
+    if (before.version !== b.version) throw stale("component", before);
+    const recommendation = await recommendFor(trx, siteId, before);
+    const recommended = recommendation.recommendation?.disposition ?? null;
+    const overridden = recommended !== null && b.disposition !== recommended;
+    if (overridden && !b.reason.trim())
+      throw new AppError(400, "reason_required", `Tideline recommends "${recommended}"; say why you chose otherwise.`, { reason: "Give the reason for overriding the recommendation" });
+    const now = new Date();
+    const patch = { disposition: b.disposition, dispositionReason: b.reason, dispositionRecommended: recommended, dispositionOverridden: overridden, dispositionBy: actorId, dispositionAt: now };
+    const component = await updateVersioned(trx, "components", siteId, componentId, b.version, patch, "component");
+    const decision = await repo.insertDecision(trx, { siteId, componentId, disposition: b.disposition, recommended, overridden, reason: b.reason, decidedBy: actorId, decidedAt: now });
+    await recordAudit(trx, {
+      siteId, entityType: "component", entityId: componentId, boardId: await boardOf(trx, before.positionId), positionId: before.positionId, action: "disposition", actorId,
+      before: { disposition: before.disposition, dispositionReason: before.dispositionReason, dispositionOverridden: before.dispositionOverridden },
+      after: { disposition: b.disposition, dispositionReason: b.reason, recommended, dispositionOverridden: overridden },
+    });
+    return { component, decision, recommendation };
+  });
+}
+
+export async function recommendation(db: Db, siteId: string, componentId: string) {
+  return recommendFor(db, siteId, await requireOwned(db, "components", siteId, componentId, "That component"));
+}
+
+/** Everything the side panel shows for one position. */
+export async function positionDetail(db: Db, siteId: string, positionId: string) {
+  const position = await requireOwned(db, "positions", siteId, positionId, "That position");
+  const board = await requireOwned(db, "boards", siteId, position.boardId, "That board");
+  const section = position.sectionId ? await db.selectFrom("sections").select(["id", "name"]).where("id", "=", position.sectionId).executeTakeFirst() : undefined;
+  const component = (await positions.currentComponent(db, positionId)) ?? null;
+  const [inspections, history, counts] = await Promise.all([repo.inspectionsOfPosition(db, positionId), repo.historyOfPosition(db, positionId), repo.positionCounts(db, positionId)]);
+  return {
+    position,
+    board: { id: board.id, name: board.name, waterLineMm: board.waterLineMm, faceHeightMm: board.faceHeightMm, gridRows: board.gridRows, gridCols: board.gridCols },
+    section: section ?? null,
+    component,
+    recommendation: component ? await recommendFor(db, siteId, component) : null,
+    inspections,
+    custodyMoves: component ? await repo.movesOfComponent(db, component.id) : [],
+    dispositions: component ? await repo.decisionsOfComponent(db, component.id) : [],
+    history,
+    photoCount: Number(counts.photoCount ?? 0),
+    openDefectCount: Number(counts.openDefectCount ?? 0),
+  };
+}
