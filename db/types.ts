@@ -344,6 +344,14 @@ export interface PartShareLinksTable {
   revokedBy: string | null;
 }
 
+/** Per site: which photo kinds every position needs (the photographer's shoot list). */
+export interface PhotoSettingsTable {
+  siteId: string;
+  requiredKinds: ColumnType<PhotoKind[], PhotoKind[] | undefined, PhotoKind[]>;
+  version: Generated<number>;
+  updatedAt: Timestamp;
+}
+
 export interface Database {
   users: UsersTable;
   sessions: SessionsTable;
@@ -366,6 +374,7 @@ export interface Database {
   partAcquisitions: PartAcquisitionsTable;
   partLineHistory: PartLineHistoryTable;
   partShareLinks: PartShareLinksTable;
+  photoSettings: PhotoSettingsTable;
 }
 
 export type User = Selectable<UsersTable>;

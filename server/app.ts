@@ -13,6 +13,8 @@ import { sessionMiddleware } from "./middleware/session";
 import { siteRoutes } from "./sites/routes";
 import { inventoryRoutes } from "./inventory/routes";
 import { partsRoutes } from "./parts/routes";
+import { photoRoutes } from "./photos/routes";
+import { storageFromEnv, type PhotoStorage } from "./photos/storage";
 
 export interface AppDeps {
   db: Db;
@@ -20,6 +22,8 @@ export interface AppDeps {
   clientDir?: string;
   /** Behind a TLS-terminating proxy: trust X-Forwarded-* so cookies get Secure. */
   trustProxy?: boolean;
+  /** Where photo files go; default from env (PHOTO_STORAGE, local disk under .data/photos). */
+  photoStorage?: PhotoStorage;
 }
 
 export function createApp(deps: AppDeps) {
@@ -44,7 +48,8 @@ export function createApp(deps: AppDeps) {
   api.use(authRoutes(db, lucia));
   api.use(siteRoutes(db));
   api.use(inventoryRoutes(db));
-  api.use(partsRoutes(db));
+  api.use(partsRoutes(db, deps.photoStorage ?? storageFromEnv()));
+  api.use(photoRoutes(db, deps.photoStorage ?? storageFromEnv()));
   api.use((_req, _res, next) => next(new AppError(404, "not_found", "No such API route.")));
   api.use(errorHandler);
 

@@ -1,9 +1,12 @@
+import { pipeline } from "node:stream/promises";
+import type { Readable } from "node:stream";
 import { Router, type Response } from "express";
 import { z } from "zod";
 import {
   createLineBody, heritageRuleBody, leadBody, listQuery, shareLinkBody, statusBody, updateLeadBody, updateLineBody,
 } from "../../src/schemas/parts";
 import type { Db } from "../db";
+import type { PhotoStorage } from "../photos/storage";
 import { AppError } from "../errors";
 import { ANY_MEMBER, requireSiteRole } from "../middleware/roles";
 import { toCsv } from "./csv";
@@ -20,15 +23,16 @@ const tokenParams = z.object({ token: z.string().regex(/^[A-Za-z0-9_-]{43}$/) })
 const actor = (res: Response) => res.locals.user!.id;
 const today = () => new Date().toISOString().slice(0, 10);
 
-function sendPhoto(res: Response, photo: { body: Buffer; contentType: string } | null) {
+async function sendPhoto(res: Response, photo: Readable | null) {
   if (!photo) throw new AppError(404, "not_found", "No nameplate photo is stored for that.");
-  res.setHeader("Content-Type", photo.contentType);
   res.setHeader("Cache-Control", "private, max-age=300");
-  res.send(photo.body);
+  res.setHeader("X-Content-Type-Options", "nosniff");
+  res.type("image/jpeg"); // thumbnails are always JPEG renditions (server/photos)
+  await pipeline(photo, res);
 }
 
 /** The wanted list (issue 6): members read; scrounger and curator edit; curator sets heritage rules and revokes shares. */
-export function partsRoutes(db: Db) {
+export function partsRoutes(db: Db, storage: PhotoStorage) {
   const r = Router();
   const base = "/sites/:siteId/parts";
 
@@ -64,7 +68,7 @@ export function partsRoutes(db: Db) {
 
   r.get(`${base}/photos/:photoId/thumb`, requireSiteRole(db, ...ANY_MEMBER), async (req, res) => {
     const { siteId, photoId } = photoParams.parse(req.params);
-    sendPhoto(res, await nameplateThumb(db, siteId, photoId));
+    await sendPhoto(res, await nameplateThumb(db, storage, siteId, photoId));
   });
 
   r.patch(`${base}/leads/:leadId`, requireSiteRole(db, ...EDIT), async (req, res) => {
@@ -106,7 +110,7 @@ export function partsRoutes(db: Db) {
     if (!parsed.success) throw new AppError(404, "not_found", "No such photo.");
     const siteId = await share.siteOfToken(db, parsed.data.token);
     if (!(await share.photoIsShared(db, parsed.data.token, parsed.data.photoId))) throw new AppError(404, "not_found", "No such photo.");
-    sendPhoto(res, await nameplateThumb(db, siteId, parsed.data.photoId));
+    await sendPhoto(res, await nameplateThumb(db, storage, siteId, parsed.data.photoId));
   });
 
   return r;

@@ -22,6 +22,9 @@ export const router = createBrowserRouter([
         children: [
           { index: true, ...page(() => import("./routes/sites/site-home")) },
           { path: "members", ...page(() => import("./routes/sites/members")) },
+          { path: "photos", ...page(() => import("./routes/photos/photo-desk")) },
+          { path: "photos/shoot-list", ...page(() => import("./routes/photos/shoot-list")) },
+          { path: "photos/gallery", ...page(() => import("./routes/photos/gallery")) },
           { path: "*", ...page(() => import("./routes/not-found")) },
         ],
       },

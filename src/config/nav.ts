@@ -14,6 +14,9 @@ export interface NavItem {
 export const SITE_NAV: NavItem[] = [
   { label: "Overview", href: (s) => paths.site.href(s), roles: [], phone: true },
   { label: "Crew", href: (s) => paths.members.href(s), roles: ["curator", "admin"] },
+  { label: "Photo desk", href: (s) => paths.photos.href(s), roles: ["photographer", "curator", "admin"], phone: true },
+  { label: "Shoot list", href: (s) => paths.photoShootList.href(s), roles: ["photographer", "curator", "admin"] },
+  { label: "Photos", href: (s) => paths.photoGallery.href(s), roles: [] },
 ];
 
 export const visibleNav = (role: Role | "admin") => SITE_NAV.filter((n) => !n.roles.length || n.roles.includes(role));

@@ -6,5 +6,12 @@ export const paths = {
   site: { path: "/sites/:siteId", href: (siteId: string) => `/sites/${siteId}` },
   members: { path: "/sites/:siteId/members", href: (siteId: string) => `/sites/${siteId}/members` },
   admin: { path: "/admin", href: () => "/admin" },
+  photos: { path: "/sites/:siteId/photos", href: (siteId: string) => `/sites/${siteId}/photos` },
+  photoShootList: { path: "/sites/:siteId/photos/shoot-list", href: (siteId: string, boardId?: string) => `/sites/${siteId}/photos/shoot-list${boardId ? `?boardId=${boardId}` : ""}` },
+  photoGallery: {
+    path: "/sites/:siteId/photos/gallery",
+    href: (siteId: string, f: { boardId?: string; positionId?: string } = {}) =>
+      `/sites/${siteId}/photos/gallery${f.positionId ? `?positionId=${f.positionId}` : f.boardId ? `?boardId=${f.boardId}` : ""}`,
+  },
   safety: { path: "/safety", href: () => "/safety" },
 } as const;

@@ -1,4 +1,8 @@
+import { mkdtempSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
 import Papa from "papaparse";
+import { LocalDiskStorage } from "../../server/photos/storage/local-disk";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { CSV_COLUMNS, csvRow } from "../../server/parts/csv";
 import { createTestDb, type TestDb } from "../helpers/db";
@@ -13,18 +17,27 @@ let fx: Awaited<ReturnType<typeof makeCrew>>;
 let scrounger: Client;
 let curator: Client;
 let lineId: string;
+let photoId: string;
+const storage = new LocalDiskStorage(mkdtempSync(join(tmpdir(), "tideline-parts-")));
+const THUMB = Buffer.from([0xff, 0xd8, 0xff, 0xe0, 1, 2, 3, 0xff, 0xd9]); // bytes only compared, never decoded
 const PRIVATE = { notes: "=HYPERLINK(\"http://x\") ask Bosun privately", contact: "Yardmaster, 07700 900123", price: 4321.5, member: "Test scrounger" };
 
 beforeAll(async () => {
   t = await createTestDb();
-  server = await startTestServer({ db: t.db });
+  server = await startTestServer({ db: t.db, photoStorage: storage });
   fx = await makeCrew(t.db);
   scrounger = server.client();
   curator = server.client();
   await scrounger.signIn(fx.crew.scrounger.email);
   await curator.signIn(fx.crew.curator.email);
   const board = await makeBoard(t.db, fx.siteId, "Aft board");
-  await makeComponent(t.db, fx.siteId, board.id, "A-1", { ...BREAKER, disposition: "replace" });
+  const a1 = await makeComponent(t.db, fx.siteId, board.id, "A-1", { ...BREAKER, disposition: "replace" });
+  const photo = await t.db.insertInto("photos").values({
+    siteId: fx.siteId, boardId: board.id, positionId: a1.positionId, componentId: a1.componentId, kind: "nameplate", format: "jpeg",
+    width: 10, height: 10, bytes: THUMB.length, originalKey: "o", displayKey: "d", thumbKey: `sites/${fx.siteId}/np/thumb.jpg`,
+  }).returning("id").executeTakeFirstOrThrow();
+  photoId = photo.id;
+  await storage.put(`sites/${fx.siteId}/np/thumb.jpg`, THUMB, "image/jpeg");
   await makeComponent(t.db, fx.siteId, board.id, "A-2", { ...BREAKER, frame: "+K, \"quoted\"\nframe", disposition: "source" });
   const lines = (await scrounger.get(`/api/sites/${fx.siteId}/parts`)).body.lines;
   const line = lines.find((l: any) => l.frame === "K-225");
@@ -94,6 +107,19 @@ describe("public share link", () => {
     for (const secret of ["1234", String(PRIVATE.price), PRIVATE.contact, "Bosun", PRIVATE.member, "Dealer in old switchgear", "estimated", "spent", "notes", "contact", "asking"])
       expect(json, `share JSON leaks ${secret}`).not.toContain(secret);
     expect(r.body.lines.find((l: any) => l.need === "clear lamp lens")).toMatchObject({ qty: 3 });
+    const withPhoto = r.body.lines.find((l: any) => l.photoUrls.length);
+    expect(withPhoto.photoUrls).toEqual([`/api/share/parts/${made.body.token}/photos/${photoId}`]);
+    const img = await fetch(server.base + withPhoto.photoUrls[0]);
+    expect(img.status).toBe(200);
+    expect(Buffer.from(await img.arrayBuffer())).toEqual(THUMB);
+    expect((await fetch(server.base + `/api/share/parts/${made.body.token}/photos/00000000-0000-4000-8000-000000000000`)).status).toBe(404);
+  });
+
+  it("members get the nameplate thumbnail through the parts route; outsiders get 404", async () => {
+    const r = await fetch(server.base + `/api/sites/${fx.siteId}/parts/photos/${photoId}/thumb`, { headers: { cookie: scrounger.cookie } });
+    expect(r.status).toBe(200);
+    expect(Buffer.from(await r.arrayBuffer())).toEqual(THUMB);
+    expect((await fetch(server.base + `/api/sites/${fx.siteId}/parts/photos/${photoId}/thumb`)).status).toBe(401);
   });
 
   it("stops working once the curator revokes it (410), an unknown token is 404, and only the curator may revoke", async () => {
@@ -107,6 +133,7 @@ describe("public share link", () => {
     const gone = await anon.get(`/api/share/parts/${made.body.token}`);
     expect(gone.status).toBe(410);
     expect(gone.body.error.code).toBe("revoked");
+    expect((await fetch(server.base + `/api/share/parts/${made.body.token}/photos/${photoId}`)).status).toBe(410);
     expect((await anon.get(`/api/share/parts/${"x".repeat(43)}`)).status).toBe(404);
     expect((await anon.get(`/api/share/parts/short`)).status).toBe(404);
   });

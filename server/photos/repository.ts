@@ -1,0 +1,137 @@
+import { sql } from "kysely";
+import type { Insertable } from "kysely";
+import type { PhotosTable } from "../../db/types";
+import type { PhotoKind } from "../../src/domain/vocab";
+import type { Db } from "../db";
+
+const cols = [
+  "photos.id", "photos.siteId", "photos.boardId", "photos.positionId", "photos.componentId", "photos.defectId",
+  "photos.inspectionId", "photos.kind", "photos.caption", "photos.originalName", "photos.format", "photos.width",
+  "photos.height", "photos.bytes", "photos.capturedAt", "photos.cameraModel", "photos.uploadedBy", "photos.createdAt",
+  "photos.version", "photos.deletedAt", "photos.originalKey", "photos.displayKey", "photos.thumbKey",
+] as const;
+
+const base = (db: Db) =>
+  db
+    .selectFrom("photos")
+    .leftJoin("users", "users.id", "photos.uploadedBy")
+    .leftJoin("boards", "boards.id", "photos.boardId")
+    .leftJoin("positions", "positions.id", "photos.positionId")
+    .select([...cols, "users.name as uploaderName", "boards.name as boardName", "positions.designation"]);
+
+export type PhotoRow = Awaited<ReturnType<typeof findPhoto>> & {};
+
+export const findPhoto = (db: Db, siteId: string, photoId: string) =>
+  base(db).where("photos.siteId", "=", siteId).where("photos.id", "=", photoId).executeTakeFirst();
+
+export interface ListFilter {
+  boardId?: string;
+  positionId?: string;
+  componentId?: string;
+  defectId?: string;
+  inspectionId?: string;
+  kind?: PhotoKind;
+  unassigned?: boolean;
+  ids?: string[];
+  limit: number;
+  offset: number;
+}
+
+export function listPhotos(db: Db, siteId: string, f: ListFilter) {
+  let q = base(db).where("photos.siteId", "=", siteId).where("photos.deletedAt", "is", null);
+  for (const k of ["boardId", "positionId", "componentId", "defectId", "inspectionId", "kind"] as const)
+    if (f[k]) q = q.where(`photos.${k}`, "=", f[k] as string);
+  if (f.unassigned) q = q.where("photos.positionId", "is", null).where("photos.defectId", "is", null).where("photos.inspectionId", "is", null);
+  if (f.ids?.length) q = q.where("photos.id", "in", f.ids);
+  return q.orderBy("photos.createdAt", "desc").orderBy("photos.id").limit(f.limit).offset(f.offset).execute();
+}
+
+export const insertPhoto = (db: Db, row: Insertable<PhotosTable>) => db.insertInto("photos").values(row).returning("id").executeTakeFirstOrThrow();
+
+export const updatePhoto = (db: Db, siteId: string, photoId: string, version: number, patch: Partial<Insertable<PhotosTable>>) =>
+  db
+    .updateTable("photos")
+    .set({ ...patch, version: sql`version + 1`, updatedAt: sql`now()` } as never)
+    .where("siteId", "=", siteId)
+    .where("id", "=", photoId)
+    .where("version", "=", version)
+    .where("deletedAt", "is", null)
+    .returning("id")
+    .executeTakeFirst();
+
+/** The board/position/component a target id belongs to, checked against the site. */
+export const findPositionTarget = (db: Db, siteId: string, positionId: string) =>
+  db.selectFrom("positions").select(["id as positionId", "boardId"]).where("siteId", "=", siteId).where("id", "=", positionId).executeTakeFirst();
+export const findBoard = (db: Db, siteId: string, boardId: string) =>
+  db.selectFrom("boards").select(["id", "name"]).where("siteId", "=", siteId).where("id", "=", boardId).executeTakeFirst();
+export const findComponentTarget = (db: Db, siteId: string, componentId: string) =>
+  db
+    .selectFrom("components")
+    .innerJoin("positions", "positions.id", "components.positionId")
+    .select(["components.id as componentId", "components.positionId", "positions.boardId"])
+    .where("components.siteId", "=", siteId)
+    .where("components.id", "=", componentId)
+    .executeTakeFirst();
+export const findDefectTarget = (db: Db, siteId: string, defectId: string) =>
+  db.selectFrom("defects").select(["id as defectId", "boardId", "positionId", "componentId"]).where("siteId", "=", siteId).where("id", "=", defectId).executeTakeFirst();
+export const findInspectionTarget = (db: Db, siteId: string, inspectionId: string) =>
+  db
+    .selectFrom("inspections")
+    .innerJoin("positions", "positions.id", "inspections.positionId")
+    .select(["inspections.id as inspectionId", "inspections.componentId", "inspections.positionId", "positions.boardId", "inspections.inspectorId"])
+    .where("inspections.siteId", "=", siteId)
+    .where("inspections.id", "=", inspectionId)
+    .executeTakeFirst();
+
+/** Every position of the site with its current component's tag number. */
+export const listTargets = (db: Db, siteId: string) =>
+  db
+    .selectFrom("positions")
+    .innerJoin("boards", "boards.id", "positions.boardId")
+    .leftJoin("components", (j) => j.onRef("components.positionId", "=", "positions.id").on("components.retiredAt", "is", null))
+    .select(["positions.id as positionId", "positions.boardId", "boards.name as boardName", "positions.designation", "components.tagNumber", "components.id as componentId"])
+    .where("positions.siteId", "=", siteId)
+    .orderBy("boards.name")
+    .orderBy("positions.sortOrder")
+    .orderBy("positions.designation")
+    .execute();
+
+export const getSettings = (db: Db, siteId: string) =>
+  db.selectFrom("photoSettings").select(["requiredKinds", "version"]).where("siteId", "=", siteId).executeTakeFirst();
+
+export const upsertSettings = (db: Db, siteId: string, requiredKinds: PhotoKind[], version: number) =>
+  db
+    .insertInto("photoSettings")
+    .values({ siteId, requiredKinds, version: version + 1 }) // the unsaved default counts as version 1
+    .onConflict((oc) =>
+      oc.column("siteId").doUpdateSet({ requiredKinds, version: sql`photo_settings.version + 1`, updatedAt: sql`now()` } as never).where("photoSettings.version", "=", version),
+    )
+    .returning(["requiredKinds", "version"])
+    .executeTakeFirst();
+
+/** Per position of the board: which kinds it has live photos of, and how many photos. */
+export const boardPositionKinds = (db: Db, siteId: string, boardId: string) =>
+  db
+    .selectFrom("positions")
+    .leftJoin("photos", (j) => j.onRef("photos.positionId", "=", "positions.id").on("photos.deletedAt", "is", null))
+    .select([
+      "positions.id",
+      "positions.designation",
+      sql<PhotoKind[]>`coalesce(array_agg(DISTINCT photos.kind) FILTER (WHERE photos.id IS NOT NULL), '{}')`.as("kinds"),
+      sql<number>`count(photos.id)::int`.as("photoCount"),
+    ])
+    .where("positions.siteId", "=", siteId)
+    .where("positions.boardId", "=", boardId)
+    .groupBy(["positions.id", "positions.designation", "positions.sortOrder", "positions.gridRow", "positions.gridCol"])
+    .orderBy("positions.sortOrder")
+    .orderBy("positions.gridRow")
+    .orderBy("positions.gridCol")
+    .execute();
+
+export const allPhotoKeys = (db: Db) =>
+  db.selectFrom("photos").select(["id", "siteId", "originalKey", "displayKey", "thumbKey", "deletedAt"]).execute();
+
+export const expiredDeleted = (db: Db, before: Date) =>
+  db.selectFrom("photos").select(["id", "siteId", "originalKey", "displayKey", "thumbKey"]).where("deletedAt", "<", before).execute();
+
+export const deletePhotoRow = (db: Db, photoId: string) => db.deleteFrom("photos").where("id", "=", photoId).execute();

@@ -1,0 +1,105 @@
+import { Router } from "express";
+import { pipeline } from "node:stream/promises";
+import { z } from "zod";
+import { bulkAssignBody, boardParams, photoListQuery, photoParams, photoPatch, photoSettingsBody, RENDITIONS, uploadFields } from "../../src/schemas/photos";
+import type { Role } from "../../src/domain/vocab";
+import type { Db } from "../db";
+import { AppError, forbidden, notFound } from "../errors";
+import { requireSiteRole } from "../middleware/roles";
+import * as repo from "./repository";
+import * as service from "./service";
+import { StorageNotFound, type PhotoStorage } from "./storage";
+import { receiveFiles } from "./upload";
+
+const siteOnly = z.object({ siteId: z.uuid() });
+const renditionParams = photoParams.extend({ rendition: z.enum(RENDITIONS) });
+/** Originals keep the camera's EXIF, GPS included: only the people who shoot and curate get them. */
+const ORIGINAL_ROLES = new Set(["curator", "photographer", "admin"]);
+
+export function photoRoutes(db: Db, storage: PhotoStorage) {
+  const r = Router();
+  const actor = (res: { locals: Express.Locals }) => ({ user: res.locals.user!, role: res.locals.siteRole as Role | "admin" });
+
+  r.post("/sites/:siteId/photos", requireSiteRole(db, "curator", "photographer", "volunteer"), receiveFiles, async (req, res) => {
+    const { siteId } = siteOnly.parse(req.params);
+    const files = (req.files as Express.Multer.File[] | undefined) ?? [];
+    if (!files.length) throw new AppError(400, "no_files", 'Attach at least one picture in the "files" field.');
+    const fields = uploadFields.parse(req.body ?? {});
+    const ids = await service.uploadPhotos(db, storage, siteId, actor(res), files, fields);
+    const photos = await repo.listPhotos(db, siteId, { ids, limit: ids.length, offset: 0 });
+    res.status(201).json({ photos: photos.map(service.toPhoto) });
+  });
+
+  r.get("/sites/:siteId/photos", requireSiteRole(db), async (req, res) => {
+    const { siteId } = siteOnly.parse(req.params);
+    const q = photoListQuery.parse(req.query);
+    const ids = q.ids ? z.array(z.uuid()).max(500).parse(q.ids.split(",").filter(Boolean)) : undefined;
+    const rows = await repo.listPhotos(db, siteId, { ...q, ids, unassigned: !!q.unassigned });
+    res.json({ photos: rows.map(service.toPhoto) });
+  });
+
+  r.get("/sites/:siteId/photo-targets", requireSiteRole(db), async (req, res) => {
+    res.json({ targets: await repo.listTargets(db, siteOnly.parse(req.params).siteId) });
+  });
+
+  r.get("/sites/:siteId/photo-settings", requireSiteRole(db), async (req, res) => {
+    res.json({ settings: await service.getSettings(db, siteOnly.parse(req.params).siteId) });
+  });
+
+  r.put("/sites/:siteId/photo-settings", requireSiteRole(db, "curator"), async (req, res) => {
+    const { siteId } = siteOnly.parse(req.params);
+    res.json({ settings: await service.saveSettings(db, siteId, actor(res), photoSettingsBody.parse(req.body)) });
+  });
+
+  r.get("/sites/:siteId/boards/:boardId/shoot-list", requireSiteRole(db), async (req, res) => {
+    const { siteId, boardId } = boardParams.parse(req.params);
+    res.json(await service.shootList(db, siteId, boardId));
+  });
+
+  r.post("/sites/:siteId/photos/assign", requireSiteRole(db, "curator", "photographer"), async (req, res) => {
+    const { siteId } = siteOnly.parse(req.params);
+    res.json({ photos: await service.bulkAssign(db, siteId, actor(res), bulkAssignBody.parse(req.body)) });
+  });
+
+  r.get("/sites/:siteId/photos/:photoId", requireSiteRole(db), async (req, res) => {
+    const { siteId, photoId } = photoParams.parse(req.params);
+    const row = await repo.findPhoto(db, siteId, photoId);
+    if (!row || row.deletedAt) throw notFound("That photo");
+    res.json({ photo: service.toPhoto(row) });
+  });
+
+  r.patch("/sites/:siteId/photos/:photoId", requireSiteRole(db, "curator", "photographer", "volunteer"), async (req, res) => {
+    const { siteId, photoId } = photoParams.parse(req.params);
+    res.json({ photo: await service.updatePhoto(db, siteId, photoId, actor(res), photoPatch.parse(req.body)) });
+  });
+
+  r.delete("/sites/:siteId/photos/:photoId", requireSiteRole(db, "curator"), async (req, res) => {
+    const { siteId, photoId } = photoParams.parse(req.params);
+    await service.softDelete(db, siteId, photoId, actor(res));
+    res.json({ ok: true });
+  });
+
+  r.get("/sites/:siteId/photos/:photoId/:rendition", requireSiteRole(db), async (req, res) => {
+    const { siteId, photoId, rendition } = renditionParams.parse(req.params);
+    if (rendition === "original" && !ORIGINAL_ROLES.has(res.locals.siteRole ?? "")) throw forbidden("Originals keep the camera's location data; only the photographer and the curator download them.");
+    const row = await repo.findPhoto(db, siteId, photoId);
+    if (!row || row.deletedAt) throw notFound("That photo");
+    const key = rendition === "original" ? row.originalKey : rendition === "display" ? row.displayKey : row.thumbKey;
+    let body;
+    try {
+      body = await storage.get(key);
+    } catch (e) {
+      if (e instanceof StorageNotFound) throw new AppError(404, "file_missing", "The picture's file is missing from storage; run the photo cleanup report.");
+      throw e;
+    }
+    res.setHeader("Cache-Control", "private, max-age=86400");
+    res.setHeader("X-Content-Type-Options", "nosniff");
+    res.type(rendition === "original" ? mimeOf(row.format) : "image/jpeg");
+    if (rendition === "original") res.attachment(row.originalName || `photo.${row.format}`);
+    await pipeline(body, res);
+  });
+
+  return r;
+}
+
+const mimeOf = (f: string) => ({ jpeg: "image/jpeg", png: "image/png", webp: "image/webp", tiff: "image/tiff", heif: "image/heif" })[f] ?? "application/octet-stream";

@@ -1,0 +1,157 @@
+import type { User } from "lucia";
+import { randomUUID } from "node:crypto";
+import { recordAudit } from "../audit";
+import type { Db } from "../db";
+import { AppError, conflict, forbidden, notFound } from "../errors";
+import type { BulkAssign, PhotoPatch, UploadFields } from "../../src/schemas/photos";
+import { PHOTO_KINDS, type PhotoKind, type Role } from "../../src/domain/vocab";
+import { processImage, type ProcessedImage } from "./images";
+import * as repo from "./repository";
+import { photoKey, type PhotoStorage } from "./storage";
+import { assertMayAttach, resolveTarget } from "./targets";
+
+export interface UploadedFile {
+  originalname: string;
+  buffer: Buffer;
+}
+type Actor = { user: User; role: Role | "admin" };
+
+/** What the client sees of a photo row: no storage keys, dates as ISO strings. */
+export function toPhoto(r: NonNullable<repo.PhotoRow>) {
+  const { originalKey: _o, displayKey: _d, thumbKey: _t, deletedAt: _x, ...rest } = r;
+  return { ...rest, capturedAt: r.capturedAt ? r.capturedAt.toISOString() : null, createdAt: r.createdAt.toISOString() };
+}
+
+/**
+ * Every file is checked and rendered first, so one refused file stores nothing. Then
+ * one transaction inserts the rows and, before it commits, writes the files; if any
+ * write or the commit fails, every file written is deleted again. A crash between the
+ * file writes and the commit can leave files without rows: `npm run photos:cleanup`
+ * reports them.
+ */
+export async function uploadPhotos(db: Db, storage: PhotoStorage, siteId: string, actor: Actor, files: UploadedFile[], fields: UploadFields) {
+  await assertMayAttach(db, siteId, actor.user, actor.role, fields);
+  const target = await resolveTarget(db, siteId, fields);
+  const processed: Array<{ file: UploadedFile; img: ProcessedImage }> = [];
+  for (const file of files) processed.push({ file, img: await processImage(file.buffer, safeName(file.originalname)) });
+  const written: string[] = [];
+  try {
+    return await db.transaction().execute(async (trx) => {
+      const ids: string[] = [];
+      for (const { file, img } of processed) {
+        const id = randomUUID();
+        const keys = { originalKey: photoKey(siteId, id, "original", img.ext), displayKey: photoKey(siteId, id, "display", "jpg"), thumbKey: photoKey(siteId, id, "thumb", "jpg") };
+        await repo.insertPhoto(trx, {
+          id, siteId, ...target, ...keys, kind: fields.kind, caption: fields.caption, originalName: safeName(file.originalname),
+          format: img.format, width: img.width, height: img.height, bytes: file.buffer.length, capturedAt: img.capturedAt,
+          cameraModel: img.cameraModel, uploadedBy: actor.user.id,
+        });
+        await recordAudit(trx, { siteId, entityType: "photo", entityId: id, action: "upload", actorId: actor.user.id, boardId: target.boardId, positionId: target.positionId, after: { kind: fields.kind, originalName: safeName(file.originalname), ...target } });
+        for (const [key, body, type] of [[keys.originalKey, file.buffer, img.mime], [keys.displayKey, img.display, "image/jpeg"], [keys.thumbKey, img.thumb, "image/jpeg"]] as const) {
+          written.push(key);
+          await storage.put(key, body, type).catch((e) => {
+            console.error("[photos] storage write failed:", (e as Error).message);
+            throw new AppError(503, "storage_failed", "The photo store did not accept the file; nothing was saved. Try again in a moment.");
+          });
+        }
+        ids.push(id);
+      }
+      return ids;
+    });
+  } catch (e) {
+    await Promise.allSettled(written.map((k) => storage.delete(k)));
+    throw e;
+  }
+}
+
+/** File names are shown, never used as paths; keep them printable and short. */
+const safeName = (n: string) => (n || "photo").replace(/[\u0000-\u001f\u007f]/g, "").slice(0, 200);
+
+async function currentOr404(db: Db, siteId: string, photoId: string) {
+  const row = await repo.findPhoto(db, siteId, photoId);
+  if (!row || row.deletedAt) throw notFound("That photo");
+  return row;
+}
+
+const mayEdit = (actor: Actor, row: NonNullable<repo.PhotoRow>) =>
+  ["admin", "curator", "photographer"].includes(actor.role) || (actor.role === "volunteer" && row.uploadedBy === actor.user.id);
+
+export async function updatePhoto(db: Db, siteId: string, photoId: string, actor: Actor, patch: PhotoPatch) {
+  return db.transaction().execute(async (trx) => {
+    const row = await currentOr404(trx, siteId, photoId);
+    if (!mayEdit(actor, row)) throw forbidden("Only the photographer and the curator tag photos.");
+    const retarget = ["boardId", "positionId", "componentId", "defectId"].some((k) => k in patch && patch[k as keyof PhotoPatch] !== undefined);
+    if (retarget && actor.role === "volunteer") throw forbidden("Volunteers may not move photos to other positions.");
+    if (row.version !== patch.version) throw conflict("Someone changed this photo meanwhile. Here is how it is now.", toPhoto(row));
+    const set: Record<string, unknown> = {};
+    if (patch.kind) set.kind = patch.kind;
+    if (patch.caption !== undefined) set.caption = patch.caption;
+    if (retarget) {
+      const t = await resolveTarget(trx, siteId, { boardId: patch.boardId ?? undefined, positionId: patch.positionId ?? undefined, componentId: patch.componentId ?? undefined, defectId: patch.defectId ?? undefined });
+      Object.assign(set, { boardId: t.boardId, positionId: t.positionId, componentId: t.componentId, defectId: t.defectId });
+    }
+    await repo.updatePhoto(trx, siteId, photoId, patch.version, set);
+    await recordAudit(trx, { siteId, entityType: "photo", entityId: photoId, action: "update", actorId: actor.user.id, boardId: (set.boardId as string) ?? row.boardId, positionId: (set.positionId as string) ?? row.positionId, before: pick(row, Object.keys(set)), after: set });
+    return toPhoto((await repo.findPhoto(trx, siteId, photoId))!);
+  });
+}
+
+const pick = (o: Record<string, unknown>, keys: string[]) => Object.fromEntries(keys.map((k) => [k, o[k]]));
+
+/** Files a batch to positions in one transaction; one stale photo refuses the whole batch. */
+export async function bulkAssign(db: Db, siteId: string, actor: Actor, body: BulkAssign) {
+  return db.transaction().execute(async (trx) => {
+    const out = [];
+    for (const item of body.items) {
+      const row = await currentOr404(trx, siteId, item.photoId);
+      if (row.version !== item.version) throw conflict(`${row.originalName || "A photo"} was changed meanwhile; reload the batch.`, toPhoto(row));
+      const t = await resolveTarget(trx, siteId, { positionId: item.positionId });
+      const set = { boardId: t.boardId, positionId: t.positionId, ...(item.kind ? { kind: item.kind } : {}) };
+      await repo.updatePhoto(trx, siteId, item.photoId, item.version, set);
+      await recordAudit(trx, { siteId, entityType: "photo", entityId: item.photoId, action: "assign", actorId: actor.user.id, boardId: t.boardId, positionId: t.positionId, before: { positionId: row.positionId, kind: row.kind }, after: set });
+      out.push(toPhoto((await repo.findPhoto(trx, siteId, item.photoId))!));
+    }
+    return out;
+  });
+}
+
+/** Soft delete: the row and files stay for 30 days (`npm run photos:cleanup -- --purge`). */
+export async function softDelete(db: Db, siteId: string, photoId: string, actor: Actor) {
+  await db.transaction().execute(async (trx) => {
+    const row = await currentOr404(trx, siteId, photoId);
+    await trx.updateTable("photos").set({ deletedAt: new Date() }).where("id", "=", photoId).execute();
+    await recordAudit(trx, { siteId, entityType: "photo", entityId: photoId, action: "delete", actorId: actor.user.id, boardId: row.boardId, positionId: row.positionId, before: { originalName: row.originalName, kind: row.kind } });
+  });
+}
+
+export const DEFAULT_REQUIRED: PhotoKind[] = ["as_found", "nameplate"];
+
+export async function getSettings(db: Db, siteId: string) {
+  return (await repo.getSettings(db, siteId)) ?? { requiredKinds: DEFAULT_REQUIRED, version: 1 };
+}
+
+export async function saveSettings(db: Db, siteId: string, actor: Actor, body: { requiredKinds: PhotoKind[]; version: number }) {
+  return db.transaction().execute(async (trx) => {
+    const before = await getSettings(trx, siteId);
+    const kinds = PHOTO_KINDS.filter((k) => body.requiredKinds.includes(k));
+    const saved = await repo.upsertSettings(trx, siteId, kinds, body.version);
+    if (!saved || (before.version !== body.version)) throw conflict("The required shots were changed meanwhile.", await getSettings(trx, siteId));
+    await recordAudit(trx, { siteId, entityType: "photo_settings", entityId: siteId, action: "update", actorId: actor.user.id, before, after: saved });
+    return saved;
+  });
+}
+
+export async function shootList(db: Db, siteId: string, boardId: string) {
+  const board = await repo.findBoard(db, siteId, boardId);
+  if (!board) throw notFound("That board");
+  const { requiredKinds } = await getSettings(db, siteId);
+  const rows = await repo.boardPositionKinds(db, siteId, boardId);
+  const positions = rows.map((r) => ({
+    id: r.id, designation: r.designation, photoCount: r.photoCount,
+    have: PHOTO_KINDS.filter((k) => r.kinds.includes(k)),
+    missing: requiredKinds.filter((k) => !r.kinds.includes(k)),
+  }));
+  const shotsRequired = positions.length * requiredKinds.length;
+  const shotsTaken = shotsRequired - positions.reduce((n, p) => n + p.missing.length, 0);
+  return { board, requiredKinds, positions, complete: positions.filter((p) => !p.missing.length).length, total: positions.length, shotsTaken, shotsRequired };
+}

@@ -1,0 +1,47 @@
+/**
+ * Where photo files live, behind one small interface so the embedded default (local
+ * disk) and S3-compatible object storage are interchangeable (PRODUCT.md "Scale").
+ * Chosen by PHOTO_STORAGE=disk|s3; see README "Photos" for the variables.
+ */
+import { join } from "node:path";
+import type { Readable } from "node:stream";
+import { projectRoot } from "../../../db/pg";
+import { LocalDiskStorage } from "./local-disk";
+import { S3Storage } from "./s3";
+
+export interface PhotoStorage {
+  readonly kind: "disk" | "s3";
+  put(key: string, body: Buffer, contentType: string): Promise<void>;
+  /** The stored bytes as a stream; rejects with StorageNotFound when the key is absent. */
+  get(key: string): Promise<Readable>;
+  /** Deleting an absent key is not an error. */
+  delete(key: string): Promise<void>;
+  /** Every key under the prefix (the cleanup command compares them with the table). */
+  listKeys(prefix?: string): Promise<string[]>;
+}
+
+export class StorageNotFound extends Error {
+  constructor(key: string) {
+    super(`No stored object ${key}`);
+  }
+}
+
+/** Keys are built here only: sites/<siteId>/<photoId>/<rendition>.<ext>. No user text in a key. */
+export const photoKey = (siteId: string, photoId: string, rendition: "original" | "display" | "thumb", ext: string) =>
+  `sites/${siteId}/${photoId}/${rendition}.${ext}`;
+
+export function storageFromEnv(env: NodeJS.ProcessEnv = process.env): PhotoStorage {
+  if ((env.PHOTO_STORAGE ?? "disk") === "s3") {
+    const need = ["S3_BUCKET"] as const;
+    for (const n of need) if (!env[n]) throw new Error(`PHOTO_STORAGE=s3 needs ${n}`);
+    return new S3Storage({
+      bucket: env.S3_BUCKET!,
+      endpoint: env.S3_ENDPOINT || undefined,
+      region: env.S3_REGION || "us-east-1",
+      accessKeyId: env.S3_ACCESS_KEY_ID,
+      secretAccessKey: env.S3_SECRET_ACCESS_KEY,
+      forcePathStyle: env.S3_FORCE_PATH_STYLE === "1" || env.S3_FORCE_PATH_STYLE === "true",
+    });
+  }
+  return new LocalDiskStorage(env.PHOTO_DIR || join(projectRoot, ".data", "photos"));
+}

@@ -1,0 +1,65 @@
+import { createReadStream } from "node:fs";
+import { mkdir, readdir, rename, rm, rmdir, stat, writeFile } from "node:fs/promises";
+import { dirname, join, relative, resolve, sep } from "node:path";
+import type { Readable } from "node:stream";
+import { StorageNotFound, type PhotoStorage } from "./index";
+
+/** Photos as files under one folder (the embedded default: .data/photos). */
+export class LocalDiskStorage implements PhotoStorage {
+  readonly kind = "disk" as const;
+  readonly root: string;
+  constructor(root: string) {
+    this.root = resolve(root);
+  }
+
+  /** Keys are ours, but refuse anything that would leave the root all the same. */
+  private path(key: string) {
+    const p = resolve(this.root, key);
+    if (!p.startsWith(this.root + sep)) throw new Error(`Key escapes the photo folder: ${key}`);
+    return p;
+  }
+
+  async put(key: string, body: Buffer, _contentType?: string) {
+    const p = this.path(key);
+    await mkdir(dirname(p), { recursive: true });
+    // Write beside, then rename: a reader never sees half a file.
+    const tmp = `${p}.${process.pid}.partial`;
+    await writeFile(tmp, body);
+    await rename(tmp, p);
+  }
+
+  async get(key: string): Promise<Readable> {
+    const p = this.path(key);
+    try {
+      if (!(await stat(p)).isFile()) throw new StorageNotFound(key);
+    } catch {
+      throw new StorageNotFound(key);
+    }
+    return createReadStream(p);
+  }
+
+  async delete(key: string) {
+    await rm(this.path(key), { force: true });
+    // Leave no empty photo folders behind; ignore a folder that still holds files.
+    await rmdir(dirname(this.path(key))).catch(() => undefined);
+  }
+
+  async listKeys(prefix = "") {
+    const out: string[] = [];
+    const walk = async (dir: string) => {
+      let names: string[];
+      try {
+        names = await readdir(dir);
+      } catch {
+        return;
+      }
+      for (const n of names) {
+        const p = join(dir, n);
+        if ((await stat(p)).isDirectory()) await walk(p);
+        else out.push(relative(this.root, p).split(sep).join("/"));
+      }
+    };
+    await walk(this.root);
+    return out.filter((k) => k.startsWith(prefix)).sort();
+  }
+}

@@ -1,0 +1,37 @@
+import type { RequestHandler } from "express";
+import multer from "multer";
+import { AppError } from "../errors";
+
+/** Explicit limits: a 48 MP phone JPEG is ~25 MB, a 20-picture batch stays in memory once. */
+export const UPLOAD_LIMITS = {
+  fileSize: 40 * 1024 * 1024,
+  files: 20,
+  fields: 20,
+  fieldSize: 4 * 1024,
+  fieldNameSize: 100,
+  parts: 45,
+  headerPairs: 200,
+};
+
+const upload = multer({ storage: multer.memoryStorage(), limits: UPLOAD_LIMITS }).array("files", UPLOAD_LIMITS.files);
+
+const MESSAGES: Record<string, [number, string]> = {
+  LIMIT_FILE_SIZE: [413, `A file is larger than ${UPLOAD_LIMITS.fileSize / 1024 / 1024} MB; Tideline accepts pictures up to that size.`],
+  LIMIT_FILE_COUNT: [413, `At most ${UPLOAD_LIMITS.files} files per upload.`],
+  LIMIT_UNEXPECTED_FILE: [413, `Send the pictures in the "files" field, at most ${UPLOAD_LIMITS.files} at a time.`],
+  LIMIT_FIELD_COUNT: [413, "Too many form fields."],
+  LIMIT_FIELD_VALUE: [413, "A form field is too long."],
+  LIMIT_FIELD_KEY: [413, "A form field name is too long."],
+  LIMIT_PART_COUNT: [413, "Too many parts in the upload."],
+};
+
+/** multer, with its errors turned into clear JSON (413 too large, 400 unreadable), never 500. */
+export const receiveFiles: RequestHandler = (req, res, next) => {
+  upload(req, res, (err?: unknown) => {
+    if (!err) return next();
+    const code = (err as { code?: string }).code ?? "";
+    const known = MESSAGES[code];
+    if (known) return next(new AppError(known[0], code === "LIMIT_FILE_SIZE" ? "too_large" : "too_many", known[1]));
+    next(new AppError(400, "bad_upload", "The upload could not be read (it may have been interrupted); try again."));
+  });
+};

@@ -1,0 +1,71 @@
+import { useMemo, useState } from "react";
+import { useParams, useSearchParams } from "react-router";
+import { EmptyState, ErrorPanel, Loading } from "../../../components/status";
+import { usePhotoMutations, usePhotos, usePhotoTargets } from "../../../features/photos/api";
+import { ComparePhotos } from "../../../features/photos/components/compare-photos";
+import { PhotoGrid } from "../../../features/photos/components/photo-grid";
+import { PhotoViewer } from "../../../features/photos/components/photo-viewer";
+import type { Photo } from "../../../schemas/photos";
+import { useSiteContext } from "../sites/site-layout";
+
+export default function GalleryPage() {
+  const { siteId = "" } = useParams();
+  const { role } = useSiteContext();
+  const [params, setParams] = useSearchParams();
+  const positionId = params.get("positionId") ?? undefined;
+  const targets = usePhotoTargets(siteId);
+  const boards = useMemo(() => [...new Map((targets.data ?? []).map((t) => [t.boardId, t.boardName])).entries()], [targets.data]);
+  const position = targets.data?.find((t) => t.positionId === positionId);
+  const boardId = positionId ? position?.boardId : params.get("boardId") ?? boards[0]?.[0];
+  const photos = usePhotos(siteId, positionId ? { positionId } : { boardId }, !!(positionId || boardId));
+  const [open, setOpen] = useState<{ list: Photo[]; i: number } | null>(null);
+  const { remove } = usePhotoMutations(siteId);
+  const isCurator = role === "curator" || role === "admin";
+
+  const groups = useMemo(() => {
+    const m = new Map<string, Photo[]>();
+    for (const p of photos.data ?? []) m.set(p.designation ?? "Board (no position)", [...(m.get(p.designation ?? "Board (no position)") ?? []), p]);
+    return [...m.entries()].sort(([a], [b]) => a.localeCompare(b, undefined, { numeric: true }));
+  }, [photos.data]);
+
+  return (
+    <div className="space-y-4">
+      <h1 className="text-2xl font-bold">{position ? `Photos of position ${position.designation}` : "Photos by board"}</h1>
+      <label className="block max-w-md text-sm font-semibold text-mist">
+        Board
+        <select className="mt-1 block min-h-11 w-full rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk" value={boardId ?? ""} onChange={(e) => setParams({ boardId: e.target.value })}>
+          {boards.map(([id, name]) => <option key={id} value={id}>{name}</option>)}
+        </select>
+      </label>
+      {photos.isPending && (positionId || boardId) ? <Loading what="Loading photos" /> : photos.isError ? <ErrorPanel error={photos.error} /> : !photos.data?.length ? (
+        <EmptyState title="No photos here yet">The photographer's uploads appear here once filed to a position.</EmptyState>
+      ) : positionId ? (
+        <>
+          <PhotoGrid siteId={siteId} photos={photos.data} onOpen={(i) => setOpen({ list: photos.data, i })} />
+          <ComparePhotos key={positionId} siteId={siteId} photos={photos.data} />
+        </>
+      ) : (
+        groups.map(([designation, list]) => (
+          <section key={designation} aria-label={`Position ${designation}`} className="space-y-1">
+            <h2 className="font-mono font-semibold">
+              {list[0].positionId ? <button type="button" className="min-h-11 underline" onClick={() => setParams({ positionId: list[0].positionId! })}>{designation}</button> : designation}
+              <span className="ml-2 font-sans text-sm text-mist">{list.length} photo{list.length === 1 ? "" : "s"}</span>
+            </h2>
+            <PhotoGrid siteId={siteId} photos={list} onOpen={(i) => setOpen({ list, i })} compact />
+          </section>
+        ))
+      )}
+      {open && (
+        <PhotoViewer
+          siteId={siteId}
+          photos={open.list}
+          index={open.i}
+          onIndex={(i) => setOpen({ ...open, i })}
+          onClose={() => setOpen(null)}
+          canDownloadOriginal={isCurator || role === "photographer"}
+          onDelete={isCurator ? (p) => { if (window.confirm("Delete this photo? It is kept for 30 days, then purged.")) remove.mutate(p.id, { onSuccess: () => setOpen(null) }); } : undefined}
+        />
+      )}
+    </div>
+  );
+}

@@ -1,0 +1,41 @@
+import { Link, useParams } from "react-router";
+import { ErrorPanel, Loading } from "../../../components/status";
+import { paths } from "../../../config/paths";
+import { usePhotoMutations, usePhotos, usePhotoTargets } from "../../../features/photos/api";
+import { BatchAssign } from "../../../features/photos/components/batch-assign";
+import { UploadPanel } from "../../../features/photos/components/upload-panel";
+import { useSiteContext } from "../sites/site-layout";
+
+const UPLOADERS = new Set(["photographer", "curator", "admin"]);
+
+export default function PhotoDesk() {
+  const { siteId = "" } = useParams();
+  const { role } = useSiteContext();
+  const targets = usePhotoTargets(siteId);
+  const unassigned = usePhotos(siteId, { unassigned: true }, UPLOADERS.has(role));
+  const { invalidate } = usePhotoMutations(siteId);
+  if (!UPLOADERS.has(role))
+    return (
+      <div className="space-y-2">
+        <h1 className="text-2xl font-bold">Photo desk</h1>
+        <p className="text-mist">The photographer and the curator upload and file photos. Volunteers add photos to their own inspections from the teardown log.</p>
+        <Link to={paths.photoGallery.href(siteId)}>See the photos</Link>
+      </div>
+    );
+  return (
+    <div className="space-y-6">
+      <div>
+        <h1 className="text-2xl font-bold">Photo desk</h1>
+        <p className="text-mist">
+          Upload a shoot, then file every picture to its position. <Link to={paths.photoShootList.href(siteId)}>Shoot list</Link> ·{" "}
+          <Link to={paths.photoGallery.href(siteId)}>Galleries</Link>
+        </p>
+      </div>
+      {targets.isError && <ErrorPanel error={targets.error} />}
+      <UploadPanel siteId={siteId} targets={targets.data ?? []} onUploaded={() => void invalidate()} />
+      {unassigned.isPending || targets.isPending ? <Loading what="Finding unfiled photos" /> : unassigned.isError ? <ErrorPanel error={unassigned.error} /> : (
+        <BatchAssign siteId={siteId} photos={unassigned.data} targets={targets.data ?? []} />
+      )}
+    </div>
+  );
+}

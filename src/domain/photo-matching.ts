@@ -1,0 +1,65 @@
+/**
+ * Matching a photo's file name to a position after a shoot: photographers often name
+ * files after the designation painted on the board ("2-14_front.jpg") or the tag on the
+ * bag ("KL-0042.jpg"). Pure; no I/O.
+ */
+
+export interface MatchTarget {
+  positionId: string;
+  boardId: string;
+  designation: string;
+  tagNumber: string | null;
+}
+
+export type MatchResult =
+  | { kind: "tag" | "designation"; positionId: string; matched: string }
+  | { kind: "ambiguous"; candidates: string[]; matched: string }
+  | { kind: "none" };
+
+/** Separators a camera or a person uses interchangeably: - _ . space and / become "-". */
+export function normalizeToken(s: string): string {
+  return s.trim().toLowerCase().replace(/[\s_./\\-]+/g, "-");
+}
+
+/** The name without its extension, normalised; the token must stand alone (no letter or digit glued on). */
+function containsToken(name: string, token: string): boolean {
+  if (!token) return false;
+  const escaped = token.replace(/[.*+?^${}()|[\]\\]/g, "\\$&");
+  return new RegExp(`(^|[^a-z0-9])${escaped}($|[^a-z0-9])`).test(name);
+}
+
+/**
+ * Tag numbers first (unique per site), then designations (unique per board only: the
+ * same "1-1" on two boards is ambiguous unless a board is chosen). The longest match
+ * wins, so "2-14" beats "2-1" and "14".
+ * @param fileName e.g. "IMG 2-14 front.JPG"
+ * @param boardId when given, only that board's designations count
+ */
+export function matchFileName(fileName: string, targets: MatchTarget[], boardId?: string): MatchResult {
+  if (typeof fileName !== "string") throw new RangeError("fileName must be a string");
+  const name = normalizeToken(fileName.replace(/\.[a-z0-9]{2,5}$/i, ""));
+  const tags = targets.filter((t) => t.tagNumber && containsToken(name, normalizeToken(t.tagNumber)));
+  if (tags.length) {
+    const best = longest(tags, (t) => normalizeToken(t.tagNumber!));
+    return best.length === 1 ? { kind: "tag", positionId: best[0].positionId, matched: best[0].tagNumber! } : { kind: "ambiguous", candidates: best.map((t) => t.positionId), matched: best[0].tagNumber! };
+  }
+  const pool = boardId ? targets.filter((t) => t.boardId === boardId) : targets;
+  const des = pool.filter((t) => containsToken(name, normalizeToken(t.designation)));
+  if (!des.length) return { kind: "none" };
+  const best = longest(des, (t) => normalizeToken(t.designation));
+  return best.length === 1 ? { kind: "designation", positionId: best[0].positionId, matched: best[0].designation } : { kind: "ambiguous", candidates: best.map((t) => t.positionId), matched: best[0].designation };
+}
+
+function longest<T>(xs: T[], key: (x: T) => string): T[] {
+  const max = Math.max(...xs.map((x) => key(x).length));
+  return xs.filter((x) => key(x).length === max);
+}
+
+/** Finds positions by what the photographer types: exact designation or tag first, then prefixes. */
+export function searchTargets<T extends MatchTarget>(typed: string, targets: T[], limit = 8): T[] {
+  const q = normalizeToken(typed);
+  if (!q) return [];
+  const exact = targets.filter((t) => normalizeToken(t.designation) === q || (t.tagNumber && normalizeToken(t.tagNumber) === q));
+  const prefix = targets.filter((t) => !exact.includes(t) && (normalizeToken(t.designation).startsWith(q) || (t.tagNumber && normalizeToken(t.tagNumber).startsWith(q))));
+  return [...exact, ...prefix].slice(0, limit);
+}

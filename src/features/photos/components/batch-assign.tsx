@@ -1,0 +1,138 @@
+import { useMemo, useState, type KeyboardEvent } from "react";
+import { Button } from "../../../components/button";
+import { ErrorPanel } from "../../../components/status";
+import { matchFileName, searchTargets } from "../../../domain/photo-matching";
+import { PHOTO_KINDS, PHOTO_KIND_LABELS, type PhotoKind } from "../../../domain/vocab";
+import type { Photo, PhotoTarget } from "../../../schemas/photos";
+import { photoUrl, usePhotoMutations } from "../api";
+import { AssignmentTable, type Staged } from "./assignment-table";
+
+interface Props {
+  siteId: string;
+  photos: Photo[];
+  targets: PhotoTarget[];
+}
+
+/**
+ * After a shoot: step through the unfiled photos and give each a position by typing
+ * its designation or tag number (Enter files it and moves on; Page Up / Page Down step),
+ * or match file names automatically — every match is shown before anything is saved.
+ */
+export function BatchAssign({ siteId, photos, targets }: Props) {
+  const [index, setIndex] = useState(0);
+  const [typed, setTyped] = useState("");
+  const [boardId, setBoardId] = useState("");
+  const [staged, setStaged] = useState<Record<string, Staged>>({});
+  const [note, setNote] = useState("");
+  const { assign } = usePhotoMutations(siteId);
+  const boards = useMemo(() => [...new Map(targets.map((t) => [t.boardId, t.boardName])).entries()], [targets]);
+  const pool = boardId ? targets.filter((t) => t.boardId === boardId) : targets;
+  const suggestions = searchTargets(typed, pool);
+  const current = photos[Math.min(index, photos.length - 1)];
+  const byId = useMemo(() => new Map(targets.map((t) => [t.positionId, t])), [targets]);
+
+  if (!photos.length) return <p className="text-mist">Every uploaded photo is filed to a position.</p>;
+  const go = (i: number) => {
+    setIndex(Math.max(0, Math.min(photos.length - 1, i)));
+    setTyped("");
+  };
+  const stage = (photo: Photo, t: PhotoTarget, source: Staged["source"], kind?: PhotoKind) =>
+    setStaged((s) => ({ ...s, [photo.id]: { positionId: t.positionId, kind: kind ?? s[photo.id]?.kind ?? photo.kind, source } }));
+
+  const onKey = (e: KeyboardEvent<HTMLInputElement>) => {
+    if (e.key === "Enter" && suggestions[0]) {
+      e.preventDefault();
+      stage(current, suggestions[0], "typed");
+      go(index + 1);
+    } else if (e.key === "PageDown") {
+      e.preventDefault();
+      go(index + 1);
+    } else if (e.key === "PageUp") {
+      e.preventDefault();
+      go(index - 1);
+    }
+  };
+
+  const autoMatch = () => {
+    let found = 0;
+    let unsure = 0;
+    for (const p of photos) {
+      if (staged[p.id]) continue;
+      const m = matchFileName(p.originalName, targets, boardId || undefined);
+      if (m.kind === "tag" || m.kind === "designation") {
+        stage(p, byId.get(m.positionId)!, m.kind === "tag" ? "tag in file name" : "designation in file name");
+        found++;
+      } else if (m.kind === "ambiguous") unsure++;
+    }
+    setNote(`${found} matched by file name${unsure ? `; ${unsure} named a designation found on several boards — choose the board and match again` : ""}. Check them below, then save.`);
+  };
+
+  const save = () =>
+    assign.mutate(
+      { items: photos.filter((p) => staged[p.id]).map((p) => ({ photoId: p.id, version: p.version, positionId: staged[p.id].positionId, kind: staged[p.id].kind })) },
+      { onSuccess: (saved) => { setStaged({}); setIndex(0); setNote(`${saved.length} photo(s) filed.`); } },
+    );
+  const count = Object.keys(staged).length;
+  const here = staged[current.id];
+
+  return (
+    <section aria-labelledby="assign-title" className="space-y-3">
+      <h2 id="assign-title" className="text-xl font-bold">File the shoot to positions</h2>
+      <div className="flex flex-wrap items-end gap-3">
+        <label className="block text-sm font-semibold text-mist">
+          Board
+          <select className="mt-1 block min-h-11 rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk" value={boardId} onChange={(e) => setBoardId(e.target.value)}>
+            <option value="">All boards</option>
+            {boards.map(([id, name]) => <option key={id} value={id}>{name}</option>)}
+          </select>
+        </label>
+        <Button tone="quiet" onClick={autoMatch}>Match file names</Button>
+        <p className="text-sm text-mist" aria-live="polite">{note}</p>
+      </div>
+      <div className="grid gap-4 md:grid-cols-[minmax(0,1fr)_minmax(0,1fr)]">
+        <figure className="rounded-lg bg-hull-850 p-2 ring-1 ring-hull-700">
+          <img src={photoUrl(siteId, current.id, "display")} alt={`Photo ${index + 1} of ${photos.length}, ${current.originalName}`} className="max-h-80 w-full object-contain" />
+          <figcaption className="mt-1 font-mono text-sm text-mist">{index + 1} / {photos.length} · {current.originalName}</figcaption>
+        </figure>
+        <div className="space-y-3">
+          <label className="block text-sm font-semibold text-mist">
+            Designation or tag number
+            <input
+              className="mt-1 block min-h-11 w-full rounded-md border border-hull-500 bg-hull-900 px-3 font-mono text-chalk focus:border-brass-400 focus:outline-none"
+              value={typed}
+              onChange={(e) => setTyped(e.target.value)}
+              onKeyDown={onKey}
+              autoComplete="off"
+              aria-describedby="assign-help"
+            />
+          </label>
+          <p id="assign-help" className="text-xs text-fog">Enter files this photo to the first match and moves on. Page Up / Page Down step without filing.</p>
+          <ul aria-label="Matching positions" className="space-y-1">
+            {suggestions.map((t, i) => (
+              <li key={t.positionId}>
+                <button type="button" className={`min-h-11 w-full rounded-md px-3 text-left ring-1 ${i === 0 ? "bg-hull-700 ring-brass-400" : "bg-hull-800 ring-hull-600"}`} onClick={() => { stage(current, t, "typed"); go(index + 1); }}>
+                  <span className="font-mono">{t.designation}</span> <span className="text-sm text-mist">{t.boardName}{t.tagNumber ? ` · tag ${t.tagNumber}` : ""}</span>
+                </button>
+              </li>
+            ))}
+          </ul>
+          <label className="block text-sm font-semibold text-mist">
+            Kind of shot
+            <select className="mt-1 block min-h-11 w-full rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk" value={here?.kind ?? current.kind}
+              onChange={(e) => here ? setStaged((s) => ({ ...s, [current.id]: { ...here, kind: e.target.value as PhotoKind } })) : undefined} disabled={!here}>
+              {PHOTO_KINDS.map((k) => <option key={k} value={k}>{PHOTO_KIND_LABELS[k]}</option>)}
+            </select>
+          </label>
+          <p className="text-sm" aria-live="polite">{here ? <>Filed to <span className="font-mono">{byId.get(here.positionId)?.designation}</span> (not saved yet)</> : "Not filed yet."}</p>
+          <div className="flex gap-2">
+            <Button tone="quiet" onClick={() => go(index - 1)} disabled={index === 0}>Previous</Button>
+            <Button tone="quiet" onClick={() => go(index + 1)} disabled={index >= photos.length - 1}>Next</Button>
+          </div>
+        </div>
+      </div>
+      <AssignmentTable photos={photos} staged={staged} byId={byId} onRemove={(id) => setStaged(({ [id]: _, ...rest }) => rest)} />
+      {assign.isError && <ErrorPanel error={assign.error} />}
+      <Button onClick={save} disabled={!count || assign.isPending}>{assign.isPending ? "Saving…" : `Save ${count} assignment${count === 1 ? "" : "s"}`}</Button>
+    </section>
+  );
+}

@@ -1,0 +1,61 @@
+import { useEffect, useRef } from "react";
+import { PHOTO_KIND_LABELS } from "../../../domain/vocab";
+import type { Photo } from "../../../schemas/photos";
+import { photoUrl } from "../api";
+
+interface Props {
+  siteId: string;
+  photos: Photo[];
+  index: number;
+  onIndex: (i: number) => void;
+  onClose: () => void;
+  canDownloadOriginal?: boolean;
+  onDelete?: (p: Photo) => void;
+}
+
+const btn = "min-h-11 min-w-11 rounded-md bg-hull-800 px-3 font-semibold text-chalk ring-1 ring-hull-600 hover:bg-hull-700";
+
+/** Full screen, one photo at a time: ← and → step through, Esc closes. */
+export function PhotoViewer({ siteId, photos, index, onIndex, onClose, canDownloadOriginal, onDelete }: Props) {
+  const close = useRef<HTMLButtonElement>(null);
+  const p = photos[index];
+  useEffect(() => {
+    const opener = document.activeElement as HTMLElement | null;
+    close.current?.focus();
+    return () => opener?.focus?.();
+  }, []);
+  useEffect(() => {
+    const key = (e: KeyboardEvent) => {
+      if (e.key === "Escape") onClose();
+      else if (e.key === "ArrowRight") onIndex(Math.min(photos.length - 1, index + 1));
+      else if (e.key === "ArrowLeft") onIndex(Math.max(0, index - 1));
+      else return;
+      e.preventDefault();
+    };
+    window.addEventListener("keydown", key);
+    return () => window.removeEventListener("keydown", key);
+  }, [index, photos.length, onIndex, onClose]);
+  if (!p) return null;
+  const title = [p.designation && `Position ${p.designation}`, PHOTO_KIND_LABELS[p.kind]].filter(Boolean).join(" · ");
+  return (
+    <div role="dialog" aria-modal="true" aria-label={`Photo ${index + 1} of ${photos.length}: ${title}`} className="fixed inset-0 z-50 flex flex-col bg-hull-950/95">
+      <div className="flex flex-wrap items-center gap-2 p-2">
+        <p className="flex-1 text-sm text-chalk">
+          <span className="font-semibold">{title}</span>
+          <span className="text-mist"> — {index + 1} of {photos.length}{p.boardName ? ` · ${p.boardName}` : ""}</span>
+        </p>
+        {canDownloadOriginal && <a className={`${btn} inline-flex items-center no-underline`} href={photoUrl(siteId, p.id, "original")}>Original</a>}
+        {onDelete && <button type="button" className={btn} onClick={() => onDelete(p)}>Delete</button>}
+        <button ref={close} type="button" className={btn} onClick={onClose}>Close</button>
+      </div>
+      <div className="relative flex min-h-0 flex-1 items-center justify-center">
+        <img src={photoUrl(siteId, p.id, "display")} alt={p.caption || title} className="max-h-full max-w-full object-contain" />
+        <button type="button" className={`${btn} absolute left-2`} onClick={() => onIndex(Math.max(0, index - 1))} disabled={index === 0} aria-label="Previous photo">←</button>
+        <button type="button" className={`${btn} absolute right-2`} onClick={() => onIndex(Math.min(photos.length - 1, index + 1))} disabled={index === photos.length - 1} aria-label="Next photo">→</button>
+      </div>
+      <p className="p-3 text-sm text-mist">
+        {p.caption || "No caption."} {p.capturedAt && <>· taken {new Date(p.capturedAt).toLocaleString()}</>} {p.cameraModel && <>· {p.cameraModel}</>} · {p.width}×{p.height}
+      </p>
+    </div>
+  );
+}

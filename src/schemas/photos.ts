@@ -1,0 +1,117 @@
+import { z } from "zod";
+import { PHOTO_KINDS } from "../domain/vocab";
+
+const id = z.uuid({ message: "must be an id" });
+const optId = id.nullable().optional();
+
+/** Fields sent beside the file(s) of an upload (multipart text fields). */
+export const uploadFields = z.object({
+  kind: z.enum(PHOTO_KINDS).default("other"),
+  caption: z.string().trim().max(500).default(""),
+  boardId: id.optional(),
+  positionId: id.optional(),
+  componentId: id.optional(),
+  defectId: id.optional(),
+  inspectionId: id.optional(),
+});
+export type UploadFields = z.infer<typeof uploadFields>;
+
+export const photoSchema = z.object({
+  id: z.string(),
+  siteId: z.string(),
+  boardId: z.string().nullable(),
+  positionId: z.string().nullable(),
+  componentId: z.string().nullable(),
+  defectId: z.string().nullable(),
+  inspectionId: z.string().nullable(),
+  kind: z.enum(PHOTO_KINDS),
+  caption: z.string(),
+  originalName: z.string(),
+  format: z.string(),
+  width: z.number(),
+  height: z.number(),
+  bytes: z.number(),
+  capturedAt: z.string().nullable(),
+  cameraModel: z.string(),
+  uploadedBy: z.string().nullable(),
+  uploaderName: z.string().nullable(),
+  boardName: z.string().nullable(),
+  designation: z.string().nullable(),
+  createdAt: z.string(),
+  version: z.number(),
+});
+export type Photo = z.infer<typeof photoSchema>;
+
+export const photoListQuery = z.object({
+  boardId: id.optional(),
+  positionId: id.optional(),
+  componentId: id.optional(),
+  defectId: id.optional(),
+  inspectionId: id.optional(),
+  kind: z.enum(PHOTO_KINDS).optional(),
+  /** Only photos not yet filed to a board or position (after a shoot). */
+  unassigned: z.enum(["1", "true"]).optional(),
+  ids: z.string().max(20000).optional(),
+  limit: z.coerce.number().int().min(1).max(500).default(200),
+  offset: z.coerce.number().int().min(0).default(0),
+});
+
+export const photoPatch = z.object({
+  version: z.number().int().min(1),
+  kind: z.enum(PHOTO_KINDS).optional(),
+  caption: z.string().trim().max(500).optional(),
+  boardId: optId,
+  positionId: optId,
+  componentId: optId,
+  defectId: optId,
+});
+export type PhotoPatch = z.infer<typeof photoPatch>;
+
+export const bulkAssignBody = z.object({
+  items: z
+    .array(z.object({ photoId: id, version: z.number().int().min(1), positionId: id, kind: z.enum(PHOTO_KINDS).optional() }))
+    .min(1)
+    .max(200),
+});
+export type BulkAssign = z.infer<typeof bulkAssignBody>;
+
+export const photoSettingsSchema = z.object({ requiredKinds: z.array(z.enum(PHOTO_KINDS)), version: z.number() });
+export const photoSettingsBody = z.object({
+  requiredKinds: z.array(z.enum(PHOTO_KINDS)).max(PHOTO_KINDS.length).refine((a) => new Set(a).size === a.length, "list each kind once"),
+  version: z.number().int().min(1),
+});
+
+export const shootListSchema = z.object({
+  board: z.object({ id: z.string(), name: z.string() }),
+  requiredKinds: z.array(z.enum(PHOTO_KINDS)),
+  positions: z.array(
+    z.object({
+      id: z.string(),
+      designation: z.string(),
+      photoCount: z.number(),
+      have: z.array(z.enum(PHOTO_KINDS)),
+      missing: z.array(z.enum(PHOTO_KINDS)),
+    }),
+  ),
+  /** Positions with every required kind; shots = required shots taken out of all required. */
+  complete: z.number(),
+  total: z.number(),
+  shotsTaken: z.number(),
+  shotsRequired: z.number(),
+});
+export type ShootList = z.infer<typeof shootListSchema>;
+
+/** What a photo can be filed to, for bulk assignment by designation or tag number. */
+export const photoTargetSchema = z.object({
+  positionId: z.string(),
+  boardId: z.string(),
+  boardName: z.string(),
+  designation: z.string(),
+  tagNumber: z.string().nullable(),
+  componentId: z.string().nullable(),
+});
+export type PhotoTarget = z.infer<typeof photoTargetSchema>;
+
+export const photoParams = z.object({ siteId: id, photoId: id });
+export const boardParams = z.object({ siteId: id, boardId: id });
+export const RENDITIONS = ["thumb", "display", "original"] as const;
