@@ -1,5 +1,6 @@
 import type { Kysely } from "kysely";
 import type { Database } from "../types";
+import { seedParts } from "./parts";
 import { hashPassword } from "../../server/auth/password";
 import { DEMO_PASSWORD, DEMO_PEOPLE, DEMO_SITE } from "./people";
 import { seedInventory } from "./inventory";
@@ -39,4 +40,5 @@ export interface SeedContext {
 /** Later features append their part of the scenario here, in order. */
 export const SEED_STEPS: Array<(trx: Db, ctx: SeedContext) => Promise<void>> = [
   seedInventory, // boards, positions, components and the survey: first, others hang on it
+  seedParts, // the wanted list: demand from the register, leads and acquisitions
 ];
