@@ -9,6 +9,7 @@ const page = (load: () => Promise<{ default: React.ComponentType }>): Pick<Route
 export const router = createBrowserRouter([
   { path: paths.signIn.path, ...page(() => import("./routes/auth/sign-in")), errorElement: <RouteError /> },
   { path: paths.safety.path, ...page(() => import("./routes/safety")), errorElement: <RouteError /> },
+  { path: paths.shareParts.path, ...page(() => import("./routes/parts/share-parts")), errorElement: <RouteError /> },
   {
     ...page(() => import("./routes/app-layout")),
     errorElement: <RouteError />,
@@ -25,6 +26,9 @@ export const router = createBrowserRouter([
           { path: "photos", ...page(() => import("./routes/photos/photo-desk")) },
           { path: "photos/shoot-list", ...page(() => import("./routes/photos/shoot-list")) },
           { path: "photos/gallery", ...page(() => import("./routes/photos/gallery")) },
+          { path: "parts", ...page(() => import("./routes/parts/parts-list")) },
+          { path: "parts/print", ...page(() => import("./routes/parts/parts-print")) },
+          { path: "parts/:lineId", ...page(() => import("./routes/parts/part-line")) },
           { path: "*", ...page(() => import("./routes/not-found")) },
         ],
       },

@@ -14,4 +14,8 @@ export const paths = {
       `/sites/${siteId}/photos/gallery${f.positionId ? `?positionId=${f.positionId}` : f.boardId ? `?boardId=${f.boardId}` : ""}`,
   },
   safety: { path: "/safety", href: () => "/safety" },
+  parts: { path: "/sites/:siteId/parts", href: (siteId: string, search = "") => `/sites/${siteId}/parts${search}` },
+  partsPrint: { path: "/sites/:siteId/parts/print", href: (siteId: string, search = "") => `/sites/${siteId}/parts/print${search}` },
+  partLine: { path: "/sites/:siteId/parts/:lineId", href: (siteId: string, lineId: string) => `/sites/${siteId}/parts/${lineId}` },
+  shareParts: { path: "/share/parts/:token", href: (token: string) => `/share/parts/${token}` },
 } as const;
