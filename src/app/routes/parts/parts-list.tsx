@@ -39,7 +39,7 @@ export default function PartsListPage() {
       {list.data && (list.data.lines.length ? (
         <>
           <p className="text-sm text-mist" role="status">{list.data.lines.length} line(s), {list.data.lines.reduce((s, l) => s + l.qty, 0)} part(s)</p>
-          <PartsTable siteId={site.id} lines={list.data.lines} />
+          <PartsTable siteId={site.id} lines={list.data.lines} busy={list.isPlaceholderData} />
         </>
       ) : (
         <EmptyState title="Nothing on the list for this filter">

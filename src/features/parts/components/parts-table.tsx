@@ -6,12 +6,12 @@ import { partColumns, partsFeatures } from "./part-columns";
 const ARROW = { asc: " ▲", desc: " ▼" } as const;
 
 /** The scrounger's list: TanStack Table v9, sorted in the browser; filters are in the URL and applied by the server. */
-export function PartsTable({ siteId, lines }: { siteId: string; lines: PartLine[] }) {
+export function PartsTable({ siteId, lines, busy = false }: { siteId: string; lines: PartLine[]; busy?: boolean }) {
   const columns = useMemo(() => partColumns(siteId), [siteId]);
   const table = useTable({ features: partsFeatures, columns, data: lines });
   return (
     <div className="overflow-x-auto rounded-lg ring-1 ring-hull-700">
-      <table className="w-full min-w-[52rem] border-collapse text-left" aria-label="Wanted parts">
+      <table className={`w-full min-w-[52rem] border-collapse text-left ${busy ? "opacity-60" : ""}`} aria-label="Wanted parts" aria-busy={busy}>
         <thead className="bg-hull-850">
           {table.getHeaderGroups().map((g) => (
             <tr key={g.id}>
