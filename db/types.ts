@@ -3,6 +3,7 @@
  * migrations; property names are camelCase (CamelCasePlugin maps them to snake_case).
  */
 import type { ColumnType, Generated, Selectable } from "kysely";
+import type { LeadSourceKind, LeadStatus } from "../src/domain/part-workflow";
 import type {
   ComponentKind,
   Contaminant,
@@ -13,8 +14,10 @@ import type {
   Disposition,
   Earthing,
   Heritage,
+  HeritageRule,
   InsulationState,
   Mechanism,
+  PartStatus,
   PhotoKind,
   Role,
   WaterType,
@@ -325,6 +328,99 @@ export interface NotificationPrefsTable {
   updatedAt: Timestamp;
 }
 
+/** A line of the parts wanted list (issue 6): one specification, its status and heritage rule. */
+export interface PartLinesTable extends Versioned {
+  origin: "register" | "manual";
+  kind: ComponentKind;
+  ratingAmps: Num;
+  poles: Num;
+  voltageRating: Num;
+  frame: Text;
+  mounting: Text;
+  maker: Text;
+  model: Text;
+  /** What exactly is wanted when it is not the whole component ("arc chute", "pilot lamp lens"). */
+  need: Text;
+  notes: Text;
+  cancelReason: Text;
+  createdBy: string | null;
+  /** SPEC_FIELDS that must match for a need to join this line; null = all of them. */
+  mustMatch: ColumnType<string[] | null, string[] | null | undefined, string[] | null>;
+  specKey: string;
+  heritageRule: Generated<HeritageRule>;
+  status: Generated<PartStatus>;
+  autoCancelled: Generated<boolean>;
+  manualQty: Generated<number>;
+  estimatedUnitCost: Num;
+  fittedAt: Date | null;
+}
+
+/** Ties a line to the component or defect that wants it; kept (inactive or fitted) for the history. */
+export interface PartDemandLinksTable {
+  id: Generated<string>;
+  siteId: string;
+  lineId: string;
+  componentId: string | null;
+  defectId: string | null;
+  positionId: string | null;
+  boardId: string | null;
+  qty: Generated<number>;
+  active: Generated<boolean>;
+  fitted: Generated<boolean>;
+  createdAt: Timestamp;
+  withdrawnAt: Date | null;
+  fittedAt: Date | null;
+}
+
+export interface PartLeadsTable extends Versioned {
+  lineId: string;
+  sourceKind: Generated<LeadSourceKind>;
+  source: string;
+  contact: Text;
+  notes: Text;
+  createdBy: string | null;
+  askingPrice: Num;
+  qtyOffered: Num;
+  status: Generated<LeadStatus>;
+}
+
+export interface PartAcquisitionsTable {
+  id: Generated<string>;
+  siteId: string;
+  lineId: string;
+  leadId: string | null;
+  qty: number;
+  cost: number;
+  acquiredOn: string;
+  notes: Text;
+  recordedBy: string | null;
+  createdAt: Timestamp;
+}
+
+export interface PartLineHistoryTable {
+  id: Generated<number>;
+  siteId: string;
+  lineId: string;
+  action: string;
+  summary: Text;
+  fromStatus: PartStatus | null;
+  toStatus: PartStatus | null;
+  actorId: string | null;
+  at: Timestamp;
+}
+
+/** A public read-only link to the wanted list; only the SHA-256 of its token is stored. */
+export interface PartShareLinksTable {
+  id: Generated<string>;
+  siteId: string;
+  tokenHash: string;
+  label: Text;
+  createdBy: string | null;
+  createdAt: Timestamp;
+  revokedAt: Date | null;
+  revokedBy: string | null;
+}
+
 /** Per site: which photo kinds every position needs (the photographer's shoot list). */
 export interface PhotoSettingsTable {
   siteId: string;
@@ -435,6 +531,12 @@ export interface Database {
   invitations: InvitationsTable;
   passwordResets: PasswordResetsTable;
   notificationPrefs: NotificationPrefsTable;
+  partLines: PartLinesTable;
+  partDemandLinks: PartDemandLinksTable;
+  partLeads: PartLeadsTable;
+  partAcquisitions: PartAcquisitionsTable;
+  partLineHistory: PartLineHistoryTable;
+  partShareLinks: PartShareLinksTable;
   photoSettings: PhotoSettingsTable;
   defectPins: DefectPinsTable;
   defectStatusChanges: DefectStatusChangesTable;

@@ -22,6 +22,7 @@ import { mailboxRoutes } from "./mail/routes";
 import { notificationRoutes } from "./notifications/routes";
 import { passwordResetRoutes } from "./password-reset/routes";
 import { defectRoutes } from "./defects/routes";
+import { partsRoutes } from "./parts/routes";
 
 export interface AppDeps {
   db: Db;
@@ -70,6 +71,7 @@ export function createApp(deps: AppDeps) {
   api.use(notificationRoutes(db));
   api.use(mailboxRoutes(deps.mailbox));
   api.use(defectRoutes(db));
+  api.use(partsRoutes(db, deps.photoStorage ?? storageFromEnv()));
   api.use((_req, _res, next) => next(new AppError(404, "not_found", "No such API route.")));
   api.use(errorHandler);
 

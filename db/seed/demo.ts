@@ -1,5 +1,6 @@
 import type { Kysely } from "kysely";
 import type { Database } from "../types";
+import { seedParts } from "./parts";
 import { hashPassword } from "../../server/auth/password";
 import { DEMO_PASSWORD, DEMO_PEOPLE, DEMO_SITE } from "./people";
 import { seedDefects } from "./defects";
@@ -47,4 +48,5 @@ export const SEED_STEPS: Array<(trx: Db, ctx: SeedContext) => Promise<void>> = [
   (trx, ctx) => seedPhotos(trx, ctx), // a few labelled drawings filed to positions (after the inventory)
   seedDefects, // the defect register, raised from the inventory's inspections
   seedReadings, // test readings on the main board: after the inventory
+  seedParts, // the wanted list: demand from the register, leads and acquisitions
 ];

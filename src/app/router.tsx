@@ -12,6 +12,7 @@ export const router = createBrowserRouter([
   { path: paths.invite.path, ...page(() => import("./routes/auth/invite")), errorElement: <RouteError /> },
   { path: paths.resetRequest.path, ...page(() => import("./routes/auth/reset-request")), errorElement: <RouteError /> },
   { path: paths.resetPassword.path, ...page(() => import("./routes/auth/reset-password")), errorElement: <RouteError /> },
+  { path: paths.shareParts.path, ...page(() => import("./routes/parts/share-parts")), errorElement: <RouteError /> },
   {
     ...page(() => import("./routes/app-layout")),
     errorElement: <RouteError />,
@@ -46,6 +47,9 @@ export const router = createBrowserRouter([
           { path: "readings/criteria", ...page(() => import("./routes/readings/criteria")) },
           { path: "readings/boards/:boardId", ...page(() => import("./routes/readings/board-readings")) },
           { path: "readings/components/:componentId", ...page(() => import("./routes/readings/component-readings")) },
+          { path: "parts", ...page(() => import("./routes/parts/parts-list")) },
+          { path: "parts/print", ...page(() => import("./routes/parts/parts-print")) },
+          { path: "parts/:lineId", ...page(() => import("./routes/parts/part-line")) },
           { path: "*", ...page(() => import("./routes/not-found")) },
         ],
       },

@@ -26,6 +26,7 @@ export const SITE_NAV: NavItem[] = [
   { label: "Photo desk", href: (s) => paths.photos.href(s), roles: ["curator", "admin"] },
   { label: "Shoot list", href: (s) => paths.photoShootList.href(s), roles: ["photographer", "curator", "admin"] },
   { label: "Photos", href: (s) => paths.photoGallery.href(s), roles: [] },
+  { label: "Wanted parts", href: (s) => paths.parts.href(s), roles: [], phone: true },
 ];
 
 export const visibleNav = (role: Role | "admin") => SITE_NAV.filter((n) => !n.roles.length || n.roles.includes(role));

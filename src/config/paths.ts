@@ -55,4 +55,8 @@ export const paths = {
   resetPassword: { path: "/reset-password/:token", href: (token: string) => `/reset-password/${token}` },
   account: { path: "/account", href: () => "/account" },
   mailbox: { path: "/admin/mailbox", href: () => "/admin/mailbox" },
+  parts: { path: "/sites/:siteId/parts", href: (siteId: string, search = "") => `/sites/${siteId}/parts${search}` },
+  partsPrint: { path: "/sites/:siteId/parts/print", href: (siteId: string, search = "") => `/sites/${siteId}/parts/print${search}` },
+  partLine: { path: "/sites/:siteId/parts/:lineId", href: (siteId: string, lineId: string) => `/sites/${siteId}/parts/${lineId}` },
+  shareParts: { path: "/share/parts/:token", href: (token: string) => `/share/parts/${token}` },
 } as const;

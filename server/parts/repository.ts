@@ -1,0 +1,131 @@
+import { sql } from "kysely";
+import type { Insertable, Updateable } from "kysely";
+import type { Database, PartLinesTable } from "../../db/types";
+import { OPEN_PART_STATUSES } from "../../src/domain/part-workflow";
+import type { PartStatus } from "../../src/domain/vocab";
+import type { Db } from "../db";
+
+const lineCols = [
+  "id", "siteId", "version", "origin", "kind", "ratingAmps", "poles", "voltageRating", "frame", "mounting", "maker", "model",
+  "need", "notes", "cancelReason", "mustMatch", "specKey", "heritageRule", "status", "autoCancelled", "manualQty",
+  "estimatedUnitCost", "fittedAt", "createdAt", "updatedAt",
+] as const;
+
+/** One advisory lock per site serialises demand reconciliation, so two readers never create the same line twice. */
+export const lockSiteParts = (db: Db, siteId: string) => sql`select pg_advisory_xact_lock(hashtext(${"parts:" + siteId}))`.execute(db);
+
+/** Current components whose disposition asks for a part, with their home position and board. */
+export const wantedComponents = (db: Db, siteId: string) =>
+  db
+    .selectFrom("components as c")
+    .innerJoin("positions as p", "p.id", "c.positionId")
+    .select(["c.id", "c.kind", "c.ratingAmps", "c.poles", "c.voltageRating", "c.frame", "c.mounting", "c.maker", "c.model", "c.positionId", "p.boardId"])
+    .where("c.siteId", "=", siteId)
+    .where("c.retiredAt", "is", null)
+    .where("c.disposition", "in", ["replace", "source"])
+    .execute();
+
+/** Open defects that need a part, with the nameplate of their component when they have one. */
+export const wantedDefects = (db: Db, siteId: string) =>
+  db
+    .selectFrom("defects as d")
+    .leftJoin("components as c", "c.id", "d.componentId")
+    .select([
+      "d.id", "d.partsNeeded", "d.positionId", "d.boardId", "d.componentId",
+      "c.kind", "c.ratingAmps", "c.poles", "c.voltageRating", "c.frame", "c.mounting", "c.maker", "c.model",
+    ])
+    .where("d.siteId", "=", siteId)
+    .where("d.partsState", "=", "wanted")
+    .where("d.status", "not in", ["closed", "wont_fix"])
+    .execute();
+
+export const linksOfSite = (db: Db, siteId: string) =>
+  db.selectFrom("partDemandLinks").selectAll().where("siteId", "=", siteId).where((eb) => eb.or([eb("active", "=", true), eb("fitted", "=", true)])).execute();
+
+/** Lines demand may join: open ones, and the ones reconciliation itself closed (it may reopen them). */
+export const joinableLines = (db: Db, siteId: string) =>
+  db
+    .selectFrom("partLines")
+    .select(lineCols)
+    .where("siteId", "=", siteId)
+    .where((eb) => eb.or([eb("status", "in", OPEN_PART_STATUSES), eb.and([eb("status", "=", "cancelled"), eb("autoCancelled", "=", true)])]))
+    .orderBy("createdAt")
+    .execute();
+
+export const linesByIds = (db: Db, siteId: string, ids: string[]) =>
+  ids.length ? db.selectFrom("partLines").select(lineCols).where("siteId", "=", siteId).where("id", "in", ids).execute() : Promise.resolve([]);
+
+export const findLine = (db: Db, siteId: string, id: string, forUpdate = false) => {
+  const q = db.selectFrom("partLines").select(lineCols).where("siteId", "=", siteId).where("id", "=", id);
+  return (forUpdate ? q.forUpdate() : q).executeTakeFirst();
+};
+export type LineRecord = NonNullable<Awaited<ReturnType<typeof findLine>>>;
+
+export const insertLine = (db: Db, v: Insertable<PartLinesTable>) => db.insertInto("partLines").values(v).returning(lineCols).executeTakeFirstOrThrow();
+
+export const updateLine = (db: Db, id: string, v: Updateable<PartLinesTable>) =>
+  db
+    .updateTable("partLines")
+    .set({ ...v, version: sql`version + 1`, updatedAt: sql`now()` })
+    .where("id", "=", id)
+    .returning(lineCols)
+    .executeTakeFirstOrThrow();
+
+export const addHistory = (db: Db, v: Insertable<Database["partLineHistory"]>) => db.insertInto("partLineHistory").values(v).execute();
+
+export interface LineFilter {
+  status: PartStatus | "open" | "all";
+  boardId?: string;
+  kind?: string;
+  heritageRule?: string;
+}
+
+export function listLines(db: Db, siteId: string, f: LineFilter) {
+  let q = db.selectFrom("partLines").select(lineCols).where("siteId", "=", siteId);
+  if (f.status === "open") q = q.where("status", "in", OPEN_PART_STATUSES);
+  else if (f.status !== "all") q = q.where("status", "=", f.status);
+  if (f.kind) q = q.where("kind", "=", f.kind as never);
+  if (f.heritageRule) q = q.where("heritageRule", "=", f.heritageRule as never);
+  if (f.boardId)
+    q = q.where((eb) =>
+      eb.exists(
+        eb.selectFrom("partDemandLinks as l").select("l.id").whereRef("l.lineId", "=", "partLines.id").where("l.boardId", "=", f.boardId!)
+          .where((e) => e.or([e("l.active", "=", true), e("l.fitted", "=", true)])),
+      ),
+    );
+  return q.orderBy("createdAt").execute();
+}
+
+/** Every link of the lines (withdrawn ones only when asked), with the position, board and defect they point at. */
+export function linksOfLines(db: Db, lineIds: string[], withWithdrawn = false) {
+  if (!lineIds.length) return Promise.resolve([]);
+  let q = db
+    .selectFrom("partDemandLinks as l")
+    .leftJoin("positions as p", "p.id", "l.positionId")
+    .leftJoin("boards as b", "b.id", "l.boardId")
+    .leftJoin("defects as d", "d.id", "l.defectId")
+    .select(["l.id", "l.lineId", "l.positionId", "l.boardId", "l.componentId", "l.defectId", "l.qty", "l.active", "l.fitted", "l.createdAt",
+      "p.designation", "b.name as boardName", "d.title as defectTitle"])
+    .where("l.lineId", "in", lineIds);
+  if (!withWithdrawn) q = q.where((e) => e.or([e("l.active", "=", true), e("l.fitted", "=", true)]));
+  return q.orderBy("b.name").orderBy("p.designation").execute();
+}
+
+export const leadCounts = (db: Db, lineIds: string[]) =>
+  lineIds.length
+    ? db.selectFrom("partLeads").select(["lineId", (eb) => eb.fn.countAll<number>().as("n")]).where("lineId", "in", lineIds).groupBy("lineId").execute()
+    : Promise.resolve([]);
+
+export const spentByLine = (db: Db, lineIds: string[]) =>
+  lineIds.length
+    ? db.selectFrom("partAcquisitions").select(["lineId", sql<number>`coalesce(sum(cost), 0)::float8`.as("spent")]).where("lineId", "in", lineIds).groupBy("lineId").execute()
+    : Promise.resolve([]);
+
+/** Nameplate photos of the components the lines are for (not deleted), oldest first. */
+export const nameplatePhotos = (db: Db, componentIds: string[]) =>
+  componentIds.length
+    ? db.selectFrom("photos").select(["id", "componentId"]).where("componentId", "in", componentIds).where("kind", "=", "nameplate")
+        .where("deletedAt", "is", null).orderBy("createdAt").execute()
+    : Promise.resolve([]);
+
+export const boardsOfSite = (db: Db, siteId: string) => db.selectFrom("boards").select(["id", "name"]).where("siteId", "=", siteId).orderBy("name").execute();

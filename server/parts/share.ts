@@ -1,0 +1,69 @@
+/**
+ * Public share links: an unguessable token (32 random bytes, base64url) handed out once;
+ * only its SHA-256 is stored, so a database leak does not leak working links. The public
+ * payload is built field by field from an allowlist: no prices, contacts, notes or names.
+ */
+import { createHash, randomBytes } from "node:crypto";
+import { sql } from "kysely";
+import { sharedListResponse, type SharedList } from "../../src/schemas/parts";
+import { recordAudit } from "../audit";
+import type { Db } from "../db";
+import { AppError, notFound } from "../errors";
+import * as repo from "./repository";
+import { buildRows } from "./rows";
+import { reconcileDemand } from "./demand";
+
+export const hashToken = (token: string) => createHash("sha256").update(token).digest("hex");
+
+export async function createShareLink(db: Db, siteId: string, label: string, actorId: string) {
+  const token = randomBytes(32).toString("base64url");
+  const row = await db.transaction().execute(async (trx) => {
+    const r = await trx.insertInto("partShareLinks").values({ siteId, tokenHash: hashToken(token), label, createdBy: actorId }).returning(["id", "label", "createdAt", "revokedAt"]).executeTakeFirstOrThrow();
+    await recordAudit(trx, { siteId, entityType: "part_share_link", entityId: r.id, action: "create", actorId, after: { label } });
+    return r;
+  });
+  return { token, link: { ...row, createdAt: row.createdAt.toISOString(), revokedAt: null, createdByName: null } };
+}
+
+export async function listShareLinks(db: Db, siteId: string) {
+  const rows = await db.selectFrom("partShareLinks as s").leftJoin("users as u", "u.id", "s.createdBy")
+    .select(["s.id", "s.label", "s.createdAt", "s.revokedAt", "u.name as createdByName"]).where("s.siteId", "=", siteId).orderBy("s.createdAt", "desc").execute();
+  return rows.map((r) => ({ ...r, createdAt: r.createdAt.toISOString(), revokedAt: r.revokedAt?.toISOString() ?? null }));
+}
+
+export async function revokeShareLink(db: Db, siteId: string, id: string, actorId: string) {
+  await db.transaction().execute(async (trx) => {
+    const r = await trx.updateTable("partShareLinks").set({ revokedAt: sql`coalesce(revoked_at, now())`, revokedBy: actorId }).where("siteId", "=", siteId).where("id", "=", id).returning("id").executeTakeFirst();
+    if (!r) throw notFound("That share link");
+    await recordAudit(trx, { siteId, entityType: "part_share_link", entityId: id, action: "revoke", actorId });
+  });
+}
+
+/** The site behind a token: unknown → 404, revoked → 410 Gone. */
+export async function siteOfToken(db: Db, token: string) {
+  const link = await db.selectFrom("partShareLinks").select(["siteId", "revokedAt"]).where("tokenHash", "=", hashToken(token)).executeTakeFirst();
+  if (!link) throw new AppError(404, "not_found", "This share link does not exist.");
+  if (link.revokedAt) throw new AppError(410, "revoked", "This share link has been withdrawn by the crew.");
+  return link.siteId;
+}
+
+export async function sharedList(db: Db, token: string): Promise<SharedList> {
+  const siteId = await siteOfToken(db, token);
+  await db.transaction().execute((trx) => reconcileDemand(trx, siteId, null));
+  const site = await db.selectFrom("sites").select("name").where("id", "=", siteId).executeTakeFirstOrThrow();
+  const lines = (await buildRows(db, await repo.listLines(db, siteId, { status: "all" }))).filter((l) => l.status === "wanted" || l.status === "lead_found");
+  return sharedListResponse.parse({
+    siteName: site.name,
+    lines: lines.map((l) => ({
+      ref: l.id.slice(0, 8), kind: l.kind, ratingAmps: l.ratingAmps, poles: l.poles, voltageRating: l.voltageRating, frame: l.frame, mounting: l.mounting,
+      maker: l.maker, model: l.model, need: l.need, title: l.title, qty: l.qty, heritageRule: l.heritageRule, status: l.status,
+      photoUrls: l.photoIds.map((p) => `/api/share/parts/${token}/photos/${p}`),
+    })),
+  });
+}
+
+/** True when the photo is a nameplate photo of a line the token shares. */
+export async function photoIsShared(db: Db, token: string, photoId: string) {
+  const shared = await sharedList(db, token);
+  return shared.lines.some((l) => l.photoUrls.some((u) => u.endsWith(`/${photoId}`)));
+}

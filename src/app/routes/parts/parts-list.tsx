@@ -1,0 +1,56 @@
+import { Link } from "react-router";
+import { EmptyState, ErrorPanel, Loading } from "../../../components/status";
+import { paths } from "../../../config/paths";
+import { csvUrl, usePartsList } from "../../../features/parts/api";
+import { BudgetPanel } from "../../../features/parts/components/budget-panel";
+import { NewLineForm } from "../../../features/parts/components/new-line-form";
+import { PartsFilters } from "../../../features/parts/components/parts-filters";
+import { PartsTable } from "../../../features/parts/components/parts-table";
+import { ShareLinksPanel } from "../../../features/parts/components/share-links-panel";
+import { useFilterParams } from "../../../features/parts/use-filter-params";
+import { useSiteContext } from "../sites/site-layout";
+
+const EDITORS = new Set(["scrounger", "curator", "admin"]);
+
+export default function PartsListPage() {
+  const { site, role } = useSiteContext();
+  const [filter, setFilter, search] = useFilterParams();
+  const list = usePartsList(site.id, filter);
+  const canEdit = EDITORS.has(role);
+  return (
+    <div className="space-y-5">
+      <header className="flex flex-wrap items-end justify-between gap-3">
+        <div>
+          <h1 className="text-2xl font-bold">Wanted parts</h1>
+          <p className="text-mist">Everything the register says to replace or source, one line per specification, plus what was added by hand.</p>
+        </div>
+        <div className="no-print flex flex-wrap gap-2">
+          <a href={csvUrl(site.id, filter)} download className="inline-flex min-h-11 items-center rounded-md bg-hull-800 px-4 font-semibold text-chalk no-underline ring-1 ring-hull-600">
+            Export CSV
+          </a>
+          <Link to={paths.partsPrint.href(site.id, search)} className="inline-flex min-h-11 items-center rounded-md bg-hull-800 px-4 font-semibold text-chalk no-underline ring-1 ring-hull-600">
+            Print wanted list
+          </Link>
+        </div>
+      </header>
+      <PartsFilters value={filter} boards={list.data?.boards ?? []} onChange={setFilter} />
+      {list.isPending && <Loading what="Gathering the wanted list" />}
+      {list.isError && <ErrorPanel error={list.error} />}
+      {list.data && (list.data.lines.length ? (
+        <>
+          <p className="text-sm text-mist" role="status">{list.data.lines.length} line(s), {list.data.lines.reduce((s, l) => s + l.qty, 0)} part(s)</p>
+          <PartsTable siteId={site.id} lines={list.data.lines} busy={list.isPlaceholderData} />
+        </>
+      ) : (
+        <EmptyState title="Nothing on the list for this filter">
+          Set a component's disposition to replace or source, mark a defect's parts as wanted, or add a part by hand.
+        </EmptyState>
+      ))}
+      {canEdit && <NewLineForm siteId={site.id} />}
+      <div className="grid gap-4 lg:grid-cols-2">
+        {list.data && <BudgetPanel budget={list.data.budget} />}
+        {canEdit && <ShareLinksPanel siteId={site.id} canRevoke={role === "curator" || role === "admin"} />}
+      </div>
+    </div>
+  );
+}

@@ -1,0 +1,36 @@
+import { Link } from "react-router";
+import { Button } from "../../../components/button";
+import { EmptyState, ErrorPanel, Loading } from "../../../components/status";
+import { paths } from "../../../config/paths";
+import { thumbUrl, usePartsList } from "../../../features/parts/api";
+import { PrintSheet } from "../../../features/parts/components/print-sheet";
+import { useFilterParams } from "../../../features/parts/use-filter-params";
+import { useSiteContext } from "../sites/site-layout";
+
+/** The wanted list to print and hand round: the current filter, one card per line with its nameplate photo. */
+export default function PartsPrintPage() {
+  const { site } = useSiteContext();
+  const [filter, , search] = useFilterParams();
+  const list = usePartsList(site.id, filter);
+  return (
+    <div className="space-y-4">
+      <div className="no-print flex flex-wrap items-center gap-3">
+        <Link to={paths.parts.href(site.id, search)} className="inline-flex min-h-11 items-center">← Back to the list</Link>
+        <Button onClick={() => window.print()}>Print</Button>
+      </div>
+      <h1 className="text-2xl font-bold print:text-black">Parts wanted for {site.name}</h1>
+      <p className="text-mist print:text-black">Printed {new Date().toLocaleDateString()}. Shapes mark the heritage rule: ◆ original pattern only, ◈ period equivalent acceptable, ○ modern equivalent acceptable.</p>
+      {list.isPending && <Loading />}
+      {list.isError && <ErrorPanel error={list.error} />}
+      {list.data && !list.data.lines.length && <EmptyState title="Nothing to print for this filter" />}
+      {list.data && (
+        <PrintSheet
+          lines={list.data.lines.map((l) => ({
+            ...l, ref: l.id.slice(0, 8), photoUrl: l.photoIds[0] ? thumbUrl(site.id, l.photoIds[0]) : null,
+            positions: l.positions.filter((p) => p.state === "active" && p.designation).map((p) => `${p.boardName} ${p.designation}`).join(", "),
+          }))}
+        />
+      )}
+    </div>
+  );
+}

@@ -1,0 +1,46 @@
+import { useTable } from "@tanstack/react-table";
+import { useMemo } from "react";
+import type { PartLine } from "../../../schemas/parts";
+import { partColumns, partsFeatures } from "./part-columns";
+
+const ARROW = { asc: " ▲", desc: " ▼" } as const;
+
+/** The scrounger's list: TanStack Table v9, sorted in the browser; filters are in the URL and applied by the server. */
+export function PartsTable({ siteId, lines, busy = false }: { siteId: string; lines: PartLine[]; busy?: boolean }) {
+  const columns = useMemo(() => partColumns(siteId), [siteId]);
+  const table = useTable({ features: partsFeatures, columns, data: lines });
+  return (
+    <div className="overflow-x-auto rounded-lg ring-1 ring-hull-700">
+      <table className={`w-full min-w-[52rem] border-collapse text-left ${busy ? "opacity-60" : ""}`} aria-label="Wanted parts" aria-busy={busy}>
+        <thead className="bg-hull-850">
+          {table.getHeaderGroups().map((g) => (
+            <tr key={g.id}>
+              {g.headers.map((h) => {
+                const sorted = h.column.getIsSorted();
+                return (
+                  <th key={h.id} scope="col" className="p-2 text-sm text-mist" aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : "none"}>
+                    <button type="button" className="min-h-11 text-left font-semibold hover:text-chalk" onClick={h.column.getToggleSortingHandler()}>
+                      <table.FlexRender header={h} />
+                      <span aria-hidden="true">{sorted ? ARROW[sorted] : ""}</span>
+                    </button>
+                  </th>
+                );
+              })}
+            </tr>
+          ))}
+        </thead>
+        <tbody>
+          {table.getRowModel().rows.map((row) => (
+            <tr key={row.id} className="border-t border-hull-700 align-top" data-testid="part-row">
+              {row.getAllCells().map((cell) => (
+                <td key={cell.id} className="p-2">
+                  <table.FlexRender cell={cell} />
+                </td>
+              ))}
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+  );
+}

@@ -1,0 +1,240 @@
+import { z } from "zod";
+import { LEAD_SOURCE_KINDS, LEAD_STATUSES } from "../domain/part-workflow";
+import { SPEC_FIELDS } from "../domain/parts";
+import { COMPONENT_KINDS, HERITAGE_RULES, PART_STATUSES } from "../domain/vocab";
+
+const shortText = (max = 200) => z.string().trim().max(max, { message: `At most ${max} characters` });
+const money = z.number({ message: "Enter an amount" }).min(0, { message: "Cannot be negative" }).max(10_000_000);
+const dateText = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, { message: "Use YYYY-MM-DD" });
+const version = z.number().int().min(1);
+
+const rating = z.number().positive({ message: "Must be above 0" }).max(100_000).nullable();
+const poles = z.number().int({ message: "Whole number" }).min(1).max(12).nullable();
+const volts = z.number().int({ message: "Whole number" }).positive().max(100_000).nullable();
+const mustMatch = z.array(z.enum(SPEC_FIELDS)).max(SPEC_FIELDS.length).nullable();
+
+export const specFields = {
+  kind: z.enum(COMPONENT_KINDS),
+  ratingAmps: rating.default(null),
+  poles: poles.default(null),
+  voltageRating: volts.default(null),
+  frame: shortText().default(""),
+  mounting: shortText().default(""),
+  maker: shortText().default(""),
+  model: shortText().default(""),
+  need: shortText(300).default(""),
+  mustMatch: mustMatch.default(null),
+};
+
+export const createLineBody = z.object({
+  ...specFields,
+  qty: z.number().int({ message: "Whole number" }).min(1).max(10_000),
+  notes: shortText(4000).default(""),
+  estimatedUnitCost: money.nullable().default(null),
+  heritageRule: z.enum(HERITAGE_RULES).optional(),
+});
+export type CreateLineBody = z.input<typeof createLineBody>;
+
+export const updateLineBody = z.object({
+  version,
+  kind: specFields.kind.optional(),
+  ratingAmps: rating.optional(),
+  poles: poles.optional(),
+  voltageRating: volts.optional(),
+  frame: shortText().optional(),
+  mounting: shortText().optional(),
+  maker: shortText().optional(),
+  model: shortText().optional(),
+  need: shortText(300).optional(),
+  mustMatch: mustMatch.optional(),
+  manualQty: z.number().int().min(0).max(10_000).optional(),
+  notes: shortText(4000).optional(),
+  estimatedUnitCost: money.nullable().optional(),
+});
+export type UpdateLineBody = z.input<typeof updateLineBody>;
+
+export const heritageRuleBody = z.object({ version, heritageRule: z.enum(HERITAGE_RULES) });
+
+export const acquisitionBody = z.object({
+  cost: money,
+  acquiredOn: dateText,
+  qty: z.number().int().min(1).max(10_000).default(1),
+  leadId: z.uuid().nullable().default(null),
+  notes: shortText(2000).default(""),
+});
+export type AcquisitionBody = z.input<typeof acquisitionBody>;
+
+/** What the fitted part makes of the component it goes into (heritage). */
+export const FITTED_HERITAGE = ["unchanged", "period", "modern"] as const;
+export type FittedHeritage = (typeof FITTED_HERITAGE)[number];
+
+const note = shortText(2000).default("");
+export const statusBody = z.discriminatedUnion("to", [
+  z.object({ to: z.literal("wanted"), version, note }),
+  z.object({ to: z.literal("lead_found"), version, note }),
+  z.object({ to: z.literal("acquired"), version, note, acquisition: acquisitionBody.optional() }),
+  z.object({ to: z.literal("received"), version, note }),
+  z.object({ to: z.literal("fitted"), version, note, heritageAfter: z.enum(FITTED_HERITAGE) }),
+  z.object({ to: z.literal("cancelled"), version, reason: shortText(1000).min(1, { message: "Say why the line is cancelled" }) }),
+]);
+export type StatusBody = z.input<typeof statusBody>;
+
+const leadFields = {
+  sourceKind: z.enum(LEAD_SOURCE_KINDS),
+  source: shortText(300).min(1, { message: "Where might it come from?" }),
+  contact: shortText(500),
+  askingPrice: money.nullable(),
+  qtyOffered: z.number().int().min(1).max(10_000).nullable(),
+  notes: shortText(4000),
+  status: z.enum(LEAD_STATUSES),
+};
+export const leadBody = z.object({
+  ...leadFields,
+  sourceKind: leadFields.sourceKind.default("other"),
+  contact: leadFields.contact.default(""),
+  askingPrice: leadFields.askingPrice.default(null),
+  qtyOffered: leadFields.qtyOffered.default(null),
+  notes: leadFields.notes.default(""),
+  status: leadFields.status.default("open"),
+});
+export type LeadBody = z.input<typeof leadBody>;
+// No defaults here: an absent field is left as it is.
+export const updateLeadBody = z.object(leadFields).partial().extend({ version });
+
+export const listQuery = z.object({
+  status: z.enum([...PART_STATUSES, "open", "all"]).default("open"),
+  boardId: z.uuid().optional(),
+  kind: z.enum(COMPONENT_KINDS).optional(),
+  heritageRule: z.enum(HERITAGE_RULES).optional(),
+});
+export type ListQuery = z.input<typeof listQuery>;
+
+export const shareLinkBody = z.object({ label: shortText(200).default("") });
+
+// ── responses ─────────────────────────────────────────────────────────────────
+const specOut = {
+  kind: z.enum(COMPONENT_KINDS),
+  ratingAmps: z.number().nullable(),
+  poles: z.number().nullable(),
+  voltageRating: z.number().nullable(),
+  frame: z.string(),
+  mounting: z.string(),
+  maker: z.string(),
+  model: z.string(),
+  need: z.string(),
+};
+
+export const linePositionSchema = z.object({
+  linkId: z.string(),
+  positionId: z.string().nullable(),
+  designation: z.string().nullable(),
+  boardId: z.string().nullable(),
+  boardName: z.string().nullable(),
+  componentId: z.string().nullable(),
+  defectId: z.string().nullable(),
+  defectTitle: z.string().nullable(),
+  qty: z.number(),
+  state: z.enum(["active", "fitted", "withdrawn"]),
+});
+export type LinePosition = z.infer<typeof linePositionSchema>;
+
+export const lineSchema = z.object({
+  id: z.string(),
+  version: z.number(),
+  origin: z.enum(["register", "manual"]),
+  ...specOut,
+  title: z.string(),
+  mustMatch: z.array(z.enum(SPEC_FIELDS)).nullable(),
+  status: z.enum(PART_STATUSES),
+  heritageRule: z.enum(HERITAGE_RULES),
+  cancelReason: z.string(),
+  notes: z.string(),
+  manualQty: z.number(),
+  qty: z.number(),
+  estimatedUnitCost: z.number().nullable(),
+  estimated: z.number().nullable(),
+  spent: z.number(),
+  leadCount: z.number(),
+  photoIds: z.array(z.string()),
+  positions: z.array(linePositionSchema),
+  updatedAt: z.string(),
+});
+export type PartLine = z.infer<typeof lineSchema>;
+
+export const budgetSchema = z.object({
+  rows: z.array(z.object({ boardId: z.string(), boardName: z.string(), estimated: z.number(), spent: z.number(), unestimatedLines: z.number() })),
+  total: z.object({ estimated: z.number(), spent: z.number() }),
+});
+export type PartsBudget = z.infer<typeof budgetSchema>;
+
+export const listResponse = z.object({
+  lines: z.array(lineSchema),
+  budget: budgetSchema,
+  boards: z.array(z.object({ id: z.string(), name: z.string() })),
+});
+export type PartsListResponse = z.infer<typeof listResponse>;
+
+export const leadSchema = z.object({
+  id: z.string(),
+  version: z.number(),
+  lineId: z.string(),
+  sourceKind: z.enum(LEAD_SOURCE_KINDS),
+  source: z.string(),
+  contact: z.string(),
+  askingPrice: z.number().nullable(),
+  qtyOffered: z.number().nullable(),
+  notes: z.string(),
+  status: z.enum(LEAD_STATUSES),
+  createdAt: z.string(),
+});
+export type PartLead = z.infer<typeof leadSchema>;
+
+export const acquisitionSchema = z.object({
+  id: z.string(),
+  leadId: z.string().nullable(),
+  qty: z.number(),
+  cost: z.number(),
+  acquiredOn: z.string(),
+  notes: z.string(),
+});
+
+export const historySchema = z.object({
+  id: z.number(),
+  at: z.string(),
+  action: z.string(),
+  summary: z.string(),
+  fromStatus: z.enum(PART_STATUSES).nullable(),
+  toStatus: z.enum(PART_STATUSES).nullable(),
+  actorName: z.string().nullable(),
+});
+
+export const lineDetailResponse = z.object({
+  line: lineSchema,
+  leads: z.array(leadSchema),
+  acquisitions: z.array(acquisitionSchema),
+  history: z.array(historySchema),
+  nextStatuses: z.array(z.enum(PART_STATUSES)),
+});
+export type LineDetail = z.infer<typeof lineDetailResponse>;
+
+export const shareLinkSchema = z.object({
+  id: z.string(),
+  label: z.string(),
+  createdAt: z.string(),
+  revokedAt: z.string().nullable(),
+  createdByName: z.string().nullable(),
+});
+export type ShareLink = z.infer<typeof shareLinkSchema>;
+
+/** The public share page: specifications, quantities, photos. Nothing else, by construction. */
+export const sharedLineSchema = z.strictObject({
+  ref: z.string(),
+  ...specOut,
+  title: z.string(),
+  qty: z.number(),
+  heritageRule: z.enum(HERITAGE_RULES),
+  status: z.enum(["wanted", "lead_found"]),
+  photoUrls: z.array(z.string()),
+});
+export const sharedListResponse = z.strictObject({ siteName: z.string(), lines: z.array(sharedLineSchema) });
+export type SharedList = z.infer<typeof sharedListResponse>;

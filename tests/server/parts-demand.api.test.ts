@@ -1,0 +1,156 @@
+import { afterAll, beforeAll, beforeEach, describe, expect, it } from "vitest";
+import { reconcileDemand } from "../../server/parts/service";
+import { createTestDb, type TestDb } from "../helpers/db";
+import { makeCrew } from "../helpers/fixtures";
+import { startTestServer, type Client, type TestServer } from "../helpers/http";
+import { BREAKER, makeBoard, makeComponent, makeDefect, setDisposition } from "./parts-fixtures";
+
+// Merging rules: Tideline's own (src/domain/parts.ts, issue 6). These tests check the
+// register → wanted list wiring over HTTP against real PostgreSQL.
+let t: TestDb;
+let server: TestServer;
+let fx: Awaited<ReturnType<typeof makeCrew>>;
+let scrounger: Client;
+let siteId: string;
+let boardId: string;
+
+beforeAll(async () => {
+  t = await createTestDb();
+  server = await startTestServer({ db: t.db });
+  fx = await makeCrew(t.db);
+  scrounger = server.client();
+  await scrounger.signIn(fx.crew.scrounger.email);
+});
+afterAll(async () => {
+  await server.close();
+  await t.drop();
+});
+beforeEach(async () => {
+  // A fresh site per test keeps the lists independent.
+  const s = await t.db.insertInto("sites").values({ name: "Test hulk", kind: "vessel", location: "", description: "" }).returning("id").executeTakeFirstOrThrow();
+  siteId = s.id;
+  await t.db.insertInto("memberships").values({ siteId, userId: fx.crew.scrounger.id, role: "scrounger" }).execute();
+  boardId = (await makeBoard(t.db, siteId)).id;
+});
+
+const list = async (q = "") => {
+  const r = await scrounger.get(`/api/sites/${siteId}/parts${q}`);
+  expect(r.status).toBe(200);
+  return r.body.lines as Array<Record<string, any>>;
+};
+
+describe("demand follows dispositions", () => {
+  it("when a component is set to replace, a wanted line appears with its position; set back to clean, it is gone", async () => {
+    const c = await makeComponent(t.db, siteId, boardId, "2-14");
+    expect(await list()).toEqual([]);
+    await setDisposition(t.db, c.componentId, "replace");
+    const lines = await list();
+    expect(lines).toHaveLength(1);
+    expect(lines[0]).toMatchObject({ status: "wanted", qty: 1, kind: "power_breaker", ratingAmps: 225, heritageRule: "original_only", origin: "register" });
+    expect(lines[0].positions).toEqual([expect.objectContaining({ designation: "2-14", boardId, componentId: c.componentId, state: "active" })]);
+    await setDisposition(t.db, c.componentId, "clean");
+    expect(await list()).toEqual([]);
+    const all = await list("?status=all");
+    expect(all[0]).toMatchObject({ status: "cancelled", qty: 0 });
+  });
+
+  it("when two positions need the same spec (maker typed differently), they share one line of qty 2; other poles split", async () => {
+    const a = await makeComponent(t.db, siteId, boardId, "1-1", { ...BREAKER, disposition: "source" });
+    const b = await makeComponent(t.db, siteId, boardId, "1-2", { ...BREAKER, maker: "  NORTHBAY electric", disposition: "replace" });
+    await makeComponent(t.db, siteId, boardId, "1-3", { ...BREAKER, poles: 2, disposition: "replace" });
+    const lines = await list();
+    expect(lines.map((l) => l.qty).sort()).toEqual([1, 2]);
+    const merged = lines.find((l) => l.qty === 2)!;
+    expect(merged.positions.map((p: any) => p.componentId).sort()).toEqual([a.componentId, b.componentId].sort());
+  });
+
+  it("when a merged position goes back to clean, the line keeps the other and its quantity drops", async () => {
+    const a = await makeComponent(t.db, siteId, boardId, "3-1", { ...BREAKER, disposition: "replace" });
+    await makeComponent(t.db, siteId, boardId, "3-2", { ...BREAKER, disposition: "replace" });
+    const before = await list();
+    await setDisposition(t.db, a.componentId, "clean");
+    const after = await list();
+    expect(after).toHaveLength(1);
+    expect(after[0]).toMatchObject({ id: before[0].id, qty: 1 });
+  });
+
+  it("when a component's nameplate changes, its demand moves to the line of the new spec", async () => {
+    const a = await makeComponent(t.db, siteId, boardId, "4-1", { ...BREAKER, disposition: "replace" });
+    await list();
+    await t.db.updateTable("components").set({ ratingAmps: 400 }).where("id", "=", a.componentId).execute();
+    const lines = await list();
+    expect(lines).toHaveLength(1);
+    expect(lines[0].ratingAmps).toBe(400);
+  });
+
+  it("a retired component asks for nothing", async () => {
+    const a = await makeComponent(t.db, siteId, boardId, "4-2", { ...BREAKER, disposition: "replace" });
+    await t.db.updateTable("components").set({ retiredAt: new Date() }).where("id", "=", a.componentId).execute();
+    expect(await list()).toEqual([]);
+  });
+
+  it("an open defect with parts wanted adds a line for the named part; a closed one does not", async () => {
+    const c = await makeComponent(t.db, siteId, boardId, "5-1");
+    const d = await makeDefect(t.db, siteId, boardId, c, { partsNeeded: "Arc chute" });
+    await makeDefect(t.db, siteId, boardId, c, { partsNeeded: "handle", status: "closed" });
+    const lines = await list();
+    expect(lines).toHaveLength(1);
+    expect(lines[0]).toMatchObject({ need: "Arc chute", qty: 1 });
+    expect(lines[0].positions[0]).toMatchObject({ defectId: d.id, defectTitle: "Arc chute cracked" });
+    await t.db.updateTable("defects").set({ partsState: "in_hand" }).where("id", "=", d.id).execute();
+    expect(await list()).toEqual([]);
+  });
+
+  it("a defect asking for its whole component, when that component is itself being replaced, adds no second part", async () => {
+    const c = await makeComponent(t.db, siteId, boardId, "5-2", { ...BREAKER, disposition: "replace" });
+    const d = await makeDefect(t.db, siteId, boardId, c, { partsNeeded: "" });
+    const lines = await list();
+    expect(lines).toHaveLength(1);
+    expect(lines[0].qty).toBe(1);
+    expect(lines[0].positions.map((p: any) => p.defectId ?? p.componentId).sort()).toEqual([c.componentId, d.id].sort());
+  });
+
+  it("reconcileDemand is idempotent: running it again adds no links or lines", async () => {
+    await makeComponent(t.db, siteId, boardId, "6-1", { ...BREAKER, disposition: "replace" });
+    await t.db.transaction().execute((trx) => reconcileDemand(trx, siteId));
+    const again = await t.db.transaction().execute((trx) => reconcileDemand(trx, siteId));
+    expect(again).toEqual({ created: 0, linked: 0, withdrawn: 0 });
+    const links = await t.db.selectFrom("partDemandLinks").select("id").where("siteId", "=", siteId).execute();
+    expect(links).toHaveLength(1);
+  });
+
+  it("after the line is fitted it stays in the history (status fitted) even when the component goes back to clean, and no new line appears", async () => {
+    const c = await makeComponent(t.db, siteId, boardId, "7-1", { ...BREAKER, disposition: "replace" });
+    const [line] = await list();
+    const date = "2026-11-20";
+    let v = line.version;
+    for (const body of [
+      { to: "acquired", acquisition: { cost: 80, acquiredOn: date } },
+      { to: "received", note: "Inspected: contacts good" },
+      { to: "fitted", heritageAfter: "period" },
+    ]) {
+      const r = await scrounger.post(`/api/sites/${siteId}/parts/${line.id}/status`, { ...body, version: v });
+      expect(r.status, JSON.stringify(r.body)).toBe(200);
+      v = r.body.line.version;
+    }
+    expect(await list()).toEqual([]); // open list: nothing more wanted
+    await setDisposition(t.db, c.componentId, "clean");
+    const fitted = await list("?status=fitted");
+    expect(fitted).toHaveLength(1);
+    expect(fitted[0]).toMatchObject({ id: line.id, qty: 1 });
+    expect(fitted[0].positions[0]).toMatchObject({ designation: "7-1", state: "fitted" });
+  });
+});
+
+describe("manual lines and must-match lists", () => {
+  it("a hand-added line with a relaxed must-match list absorbs register demand of another maker", async () => {
+    const add = await scrounger.post(`/api/sites/${siteId}/parts`, {
+      kind: "power_breaker", ratingAmps: 225, poles: 3, mustMatch: ["ratingAmps", "poles"], qty: 1, notes: "one spare",
+    });
+    expect(add.status, JSON.stringify(add.body)).toBe(201);
+    await makeComponent(t.db, siteId, boardId, "8-1", { ...BREAKER, maker: "Other Works", disposition: "replace" });
+    const lines = await list();
+    expect(lines).toHaveLength(1);
+    expect(lines[0]).toMatchObject({ id: add.body.line.id, origin: "manual", qty: 2, manualQty: 1 });
+  });
+});

@@ -1,0 +1,47 @@
+/** Boards, positions, components and defects written straight to the tables, for the wanted-list tests. */
+import type { Db } from "../../server/db";
+import type { ComponentKind, Disposition } from "../../src/domain/vocab";
+
+export async function makeBoard(db: Db, siteId: string, name = "Main switchboard") {
+  return db.insertInto("boards").values({ siteId, name }).returning(["id", "name"]).executeTakeFirstOrThrow();
+}
+
+let col = 0;
+export interface Nameplate {
+  kind?: ComponentKind;
+  ratingAmps?: number | null;
+  poles?: number | null;
+  voltageRating?: number | null;
+  frame?: string;
+  mounting?: string;
+  maker?: string;
+  model?: string;
+  disposition?: Disposition | null;
+}
+
+export const BREAKER: Nameplate = { kind: "power_breaker", ratingAmps: 225, poles: 3, voltageRating: 600, frame: "K-225", mounting: "Drawout", maker: "Northbay Electric", model: "NB 3" };
+
+export async function makeComponent(db: Db, siteId: string, boardId: string, designation: string, np: Nameplate = BREAKER) {
+  const { disposition = null, kind = "power_breaker", ...rest } = np;
+  const position = await db.insertInto("positions").values({ siteId, boardId, designation, kind, gridRow: 1, gridCol: ++col }).returning("id").executeTakeFirstOrThrow();
+  const component = await db
+    .insertInto("components")
+    .values({ siteId, positionId: position.id, kind, disposition, ...rest })
+    .returning(["id", "version"])
+    .executeTakeFirstOrThrow();
+  return { positionId: position.id, componentId: component.id, designation };
+}
+
+export const setDisposition = (db: Db, componentId: string, disposition: Disposition | null) =>
+  db.updateTable("components").set({ disposition }).where("id", "=", componentId).execute();
+
+export async function makeDefect(db: Db, siteId: string, boardId: string, c: { positionId: string; componentId: string } | null, o: { partsNeeded?: string; partsState?: "wanted" | "none_needed"; status?: "open" | "closed" } = {}) {
+  return db
+    .insertInto("defects")
+    .values({
+      siteId, boardId, positionId: c?.positionId ?? null, componentId: c?.componentId ?? null, title: "Arc chute cracked", category: "mechanical", severity: "impaired",
+      partsNeeded: o.partsNeeded ?? "arc chute", partsState: o.partsState ?? "wanted", status: o.status ?? "open",
+    })
+    .returning(["id"])
+    .executeTakeFirstOrThrow();
+}
