@@ -46,6 +46,7 @@ export function createApp(deps: AppDeps) {
   app.disable("x-powered-by");
   if (deps.trustProxy) app.set("trust proxy", 1);
   const lucia = createLucia(db);
+  const photoStorage = deps.photoStorage ?? storageFromEnv();
   const mail = { db, mailer: deps.mailer ?? unconfiguredMailer(), publicUrl: (deps.publicUrl ?? "http://127.0.0.1:3000").replace(/\/+$/, "") };
 
   const api = Router();
@@ -63,7 +64,7 @@ export function createApp(deps: AppDeps) {
   api.use(sessionMiddleware(lucia));
   api.use(authRoutes(db, lucia));
   api.use(siteRoutes(db));
-  api.use(photoRoutes(db, deps.photoStorage ?? storageFromEnv()));
+  api.use(photoRoutes(db, photoStorage));
   api.use(readingRoutes(db));
   api.use(inventoryRoutes(db));
   api.use(invitationRoutes(mail, lucia));
@@ -71,7 +72,7 @@ export function createApp(deps: AppDeps) {
   api.use(notificationRoutes(db));
   api.use(mailboxRoutes(deps.mailbox));
   api.use(defectRoutes(db));
-  api.use(partsRoutes(db, deps.photoStorage ?? storageFromEnv()));
+  api.use(partsRoutes(db, photoStorage));
   api.use((_req, _res, next) => next(new AppError(404, "not_found", "No such API route.")));
   api.use(errorHandler);
 
