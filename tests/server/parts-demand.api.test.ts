@@ -154,3 +154,21 @@ describe("manual lines and must-match lists", () => {
     expect(lines[0]).toMatchObject({ id: add.body.line.id, origin: "manual", qty: 2, manualQty: 1 });
   });
 });
+
+describe("through the inventory's disposition endpoint", () => {
+  it("when the curator sets a component to replace through the API, it is wanted; back to clean, it is gone", async () => {
+    const curator = server.client();
+    await curator.signIn(fx.crew.curator.email);
+    await t.db.insertInto("memberships").values({ siteId, userId: fx.crew.curator.id, role: "curator" }).execute();
+    const c = await makeComponent(t.db, siteId, boardId, "9-1");
+    const put = (disposition: string, version: number) =>
+      curator.put(`/api/sites/${siteId}/components/${c.componentId}/disposition`, { disposition, reason: "Test: curator's call", version });
+    const r1 = await put("replace", 1);
+    expect(r1.status, JSON.stringify(r1.body)).toBe(200);
+    const lines = await list();
+    expect(lines.map((l) => l.positions.map((p: any) => p.designation))).toEqual([["9-1"]]);
+    const r2 = await put("clean", r1.body.component.version);
+    expect(r2.status, JSON.stringify(r2.body)).toBe(200);
+    expect(await list()).toEqual([]);
+  });
+});
