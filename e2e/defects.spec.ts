@@ -76,6 +76,12 @@ test("a volunteer raises a prefilled defect, sees no pin form, and cannot use bu
   await page.getByRole("button", { name: "Raise the defect" }).click();
   await expect(page.getByRole("heading", { level: 1, name: "Green verdigris on the neutral bar" })).toBeVisible();
   await expect(page.getByRole("button", { name: "Start the repair" })).toBeVisible();
+  // blank effort counts as 8 h (−25); 1 h costs −8 (src/domain/priority.ts)
+  await expect(page.getByRole("row", { name: /Effort not estimated/ })).toContainText("-25");
+  await page.getByRole("button", { name: "Edit the details" }).click();
+  await page.getByLabel("Effort (hours)").fill("1");
+  await page.getByRole("button", { name: "Save" }).click();
+  await expect(page.getByRole("row", { name: /Effort 1 h/ })).toContainText("-8");
   await expect(page.getByLabel("because")).toHaveCount(0);
   await expect(page.getByRole("button", { name: "Pin", exact: true })).toHaveCount(0);
   await page.goto(`${siteUrl}/defects`);
