@@ -31,6 +31,20 @@ test("the curator filters and sorts the register, and a shared link opens the sa
   expect(await refs(shared)).toEqual(mine);
   await expect(shared.getByRole("columnheader", { name: /Due/ })).toHaveAttribute("aria-sort", /ascending|descending/);
   await expectNoSeriousA11yViolations(page, "defect register");
+  await page.getByRole("link", { name: "How priority works" }).click();
+  await expect(page.getByRole("heading", { level: 1, name: "How priority works" })).toBeVisible();
+  await expect(page.getByText("Safety-critical: +40")).toBeVisible();
+  await expectNoSeriousA11yViolations(page, "priority help page");
+});
+
+test("an empty filter result says what to do", async ({ page }) => {
+  await signIn(page, "viewer");
+  await openRegister(page);
+  await page.getByLabel("Search title, notes, position or D-number").fill("no-such-defect-anywhere");
+  await expect(page.getByText("No defect matches these filters")).toBeVisible();
+  await expect(page.getByRole("link", { name: "Raise a defect" })).toHaveCount(0);
+  await page.getByRole("button", { name: "Clear the filters to see every defect." }).click();
+  await expect(page.getByRole("status").filter({ hasText: /Showing/ })).toBeVisible();
 });
 
 test("the register moves between rows with the arrow keys", async ({ page }) => {
