@@ -79,6 +79,7 @@ test("the curator pins a defect with a reason and the pin shows with its reason"
 
 test("a volunteer raises a prefilled defect, sees no pin form, and cannot use bulk actions", async ({ page }) => {
   await signIn(page, "volunteer");
+  await page.waitForURL(/\/sites\/[^/]+/);
   const siteUrl = page.url().match(/\/sites\/[^/]+/)![0];
   await page.goto(`${siteUrl}/defects/new?category=corrosion&severity=degraded`);
   await expect(page.getByRole("heading", { name: "Raise a defect" })).toBeVisible();
