@@ -13,9 +13,11 @@ test("the curator filters and sorts the register, and a shared link opens the sa
   await signIn(page, "curator");
   await openRegister(page);
   await page.locator("summary", { hasText: "Severity" }).click();
-  await page.getByRole("checkbox", { name: "4 · Disabling" }).check();
-  await page.locator("summary", { hasText: "Severity" }).click();
+  // the box is controlled by the URL, which the router updates a moment after the click
+  await page.getByRole("checkbox", { name: "4 · Disabling" }).click();
   await expect(page).toHaveURL(/severity=disabling/);
+  await expect(page.getByRole("checkbox", { name: "4 · Disabling" })).toBeChecked();
+  await page.locator("summary", { hasText: "Severity" }).click();
   await page.getByRole("button", { name: /^Due/ }).click();
   await expect(page).toHaveURL(/sort=dueOn/);
   await expect(page.getByRole("columnheader", { name: /Due/ })).toHaveAttribute("aria-sort", /ascending|descending/);
@@ -29,6 +31,20 @@ test("the curator filters and sorts the register, and a shared link opens the sa
   expect(await refs(shared)).toEqual(mine);
   await expect(shared.getByRole("columnheader", { name: /Due/ })).toHaveAttribute("aria-sort", /ascending|descending/);
   await expectNoSeriousA11yViolations(page, "defect register");
+  await page.getByRole("link", { name: "How priority works" }).click();
+  await expect(page.getByRole("heading", { level: 1, name: "How priority works" })).toBeVisible();
+  await expect(page.getByText("Safety-critical: +40")).toBeVisible();
+  await expectNoSeriousA11yViolations(page, "priority help page");
+});
+
+test("an empty filter result says what to do", async ({ page }) => {
+  await signIn(page, "viewer");
+  await openRegister(page);
+  await page.getByLabel("Search title, notes, position or D-number").fill("no-such-defect-anywhere");
+  await expect(page.getByText("No defect matches these filters")).toBeVisible();
+  await expect(page.getByRole("link", { name: "Raise a defect" })).toHaveCount(0);
+  await page.getByRole("button", { name: "Clear the filters to see every defect." }).click();
+  await expect(page.getByRole("status").filter({ hasText: /Showing/ })).toBeVisible();
 });
 
 test("the register moves between rows with the arrow keys", async ({ page }) => {
@@ -63,6 +79,7 @@ test("the curator pins a defect with a reason and the pin shows with its reason"
 
 test("a volunteer raises a prefilled defect, sees no pin form, and cannot use bulk actions", async ({ page }) => {
   await signIn(page, "volunteer");
+  await page.waitForURL(/\/sites\/[^/]+/);
   const siteUrl = page.url().match(/\/sites\/[^/]+/)![0];
   await page.goto(`${siteUrl}/defects/new?category=corrosion&severity=degraded`);
   await expect(page.getByRole("heading", { name: "Raise a defect" })).toBeVisible();
@@ -74,6 +91,12 @@ test("a volunteer raises a prefilled defect, sees no pin form, and cannot use bu
   await page.getByRole("button", { name: "Raise the defect" }).click();
   await expect(page.getByRole("heading", { level: 1, name: "Green verdigris on the neutral bar" })).toBeVisible();
   await expect(page.getByRole("button", { name: "Start the repair" })).toBeVisible();
+  // blank effort counts as 8 h (−25); 1 h costs −8 (src/domain/priority.ts)
+  await expect(page.getByRole("row", { name: /Effort not estimated/ })).toContainText("-25");
+  await page.getByRole("button", { name: "Edit the details" }).click();
+  await page.getByLabel("Effort (hours)").fill("1");
+  await page.getByRole("button", { name: "Save" }).click();
+  await expect(page.getByRole("row", { name: /Effort 1 h/ })).toContainText("-8");
   await expect(page.getByLabel("because")).toHaveCount(0);
   await expect(page.getByRole("button", { name: "Pin", exact: true })).toHaveCount(0);
   await page.goto(`${siteUrl}/defects`);

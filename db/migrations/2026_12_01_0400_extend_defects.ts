@@ -62,8 +62,9 @@ export async function up(db: Kysely<any>): Promise<void> {
   await idx("defect_views_user_idx", "defect_views", ["user_id"]);
 
   // One (site_id, column) index per sortable or filterable register column.
-  for (const col of ["ref", "title", "category", "board_id", "assignee_id", "due_on", "effort_hours", "cost_estimate", "created_at", "updated_at", "safety_critical", "blocks_energisation", "section_id"])
+  for (const col of ["ref", "category", "board_id", "assignee_id", "due_on", "effort_hours", "cost_estimate", "created_at", "updated_at", "safety_critical", "blocks_energisation", "section_id"])
     await idx(`defects_site_${col}_idx`, "defects", ["site_id", col]);
+  await sql`CREATE INDEX defects_site_title_lower_idx ON defects (site_id, lower(title))`.execute(db);
   // Severity and status sort by their order on the scale, not alphabetically.
   await sql`CREATE INDEX defects_site_severity_rank_idx ON defects (site_id, (array_position(ARRAY['cosmetic','degraded','impaired','disabling']::text[], severity)))`.execute(db);
   await sql`CREATE INDEX defects_site_status_rank_idx ON defects (site_id, (array_position(ARRAY['open','triaged','in_repair','awaiting_verification','closed','deferred','wont_fix']::text[], status)))`.execute(db);

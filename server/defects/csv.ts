@@ -1,4 +1,3 @@
-import { once } from "node:events";
 import type { Response } from "express";
 import { CompiledQuery, sql } from "kysely";
 import Papa from "papaparse";
@@ -43,10 +42,18 @@ export async function streamCsv(db: Db, siteId: string, f: ListQuery, today: str
   res.setHeader("Content-Disposition", `attachment; filename="${filename}"`);
   let closed = false;
   res.on("close", () => (closed = true));
-  const write = async (chunk: string) => {
-    if (!res.write(chunk)) await Promise.race([once(res, "drain"), once(res, "close")]);
-  };
+  // Back-pressure: wait for the socket to drain (or the client to leave) before the next batch.
+  const write = (chunk: string) =>
+    res.write(chunk) || closed
+      ? Promise.resolve()
+      : new Promise<void>((resolve) => {
+          const done = () => { res.off("drain", done); res.off("close", done); resolve(); };
+          res.on("drain", done);
+          res.on("close", done);
+        });
   await db.transaction().setIsolationLevel("repeatable read").setAccessMode("read only").execute(async (trx) => {
+    // Plan the cursor for all its rows, not for the first tenth (cursor_tuple_fraction).
+    await sql`SET LOCAL cursor_tuple_fraction = 1.0`.execute(trx);
     await trx.executeQuery(CompiledQuery.raw(`DECLARE defects_csv NO SCROLL CURSOR FOR ${compiled.sql}`, [...compiled.parameters]));
     await write("\uFEFF" + Papa.unparse([HEADER], { newline: "\r\n" }) + "\r\n");
     while (!closed) {

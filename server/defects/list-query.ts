@@ -3,29 +3,18 @@ import type { Database } from "../../db/types";
 import type { ListQuery, SortKey } from "../../src/schemas/defects";
 import type { Db } from "../db";
 
-/** The joins every register read uses: board, section, position, assignee, active pin. */
-export function registerBase(db: Db, siteId: string, withRank: boolean) {
-  const start = withRank
-    ? db.with("ranked", (qb) =>
-        qb
-          .selectFrom("defects")
-          .select(["id", sql<number>`row_number() over (order by priority_score desc, created_at, id)`.as("rn")])
-          .where("siteId", "=", siteId),
-      )
-    : db;
-  let q = (start as Db)
+/** The joins every register read uses: board, section, position, assignee, active pin and its target. */
+export function registerBase(db: Db, siteId: string) {
+  return db
     .selectFrom("defects as d")
     .innerJoin("boards as b", "b.id", "d.boardId")
     .leftJoin("sections as s", "s.id", "d.sectionId")
     .leftJoin("positions as p", "p.id", "d.positionId")
     .leftJoin("users as a", "a.id", "d.assigneeId")
     .leftJoin("defectPins as pin", (j) => j.onRef("pin.defectId", "=", "d.id").on("pin.removedAt", "is", null))
+    .leftJoin("defects as t", "t.id", "pin.relativeTo")
     .where("d.siteId", "=", siteId);
-  if (withRank)
-    q = (q as any).leftJoin("ranked as r", "r.id", "d.id").leftJoin("ranked as tr", "tr.id", "pin.relativeTo");
-  return q;
 }
-type Base = ReturnType<typeof registerBase>;
 
 export const ROW_COLUMNS = [
   "d.id", "d.ref", "d.siteId", "d.boardId", "b.name as boardName", "d.sectionId", "s.name as sectionName",
@@ -75,10 +64,29 @@ export function applyFilters<QB extends SelectQueryBuilder<any, any, any>>(qb: Q
 
 const SEVERITY_ORDER = sql`array_position(ARRAY['cosmetic','degraded','impaired','disabling']::text[], d.severity)`;
 const STATUS_ORDER = sql`array_position(ARRAY['open','triaged','in_repair','awaiting_verification','closed','deferred','wont_fix']::text[], d.status)`;
-/** Effective rank with pins: a pinned defect takes its target's place, half a step above or below. */
-export const RANK_KEY = sql<number>`CASE WHEN tr.rn IS NULL THEN r.rn::numeric ELSE tr.rn + CASE pin.direction WHEN 'above' THEN -0.5 ELSE 0.5 END END`;
-/** Among several pinned to one target, "below" pins land nearest the target last-in-first (as rankDefects). */
-export const RANK_TIE = sql<number>`CASE WHEN tr.rn IS NOT NULL AND pin.direction = 'below' THEN -r.rn ELSE r.rn END`;
+/**
+ * The ranked order as ORDER BY keys (for "priority desc"), equal to rankDefects() of
+ * src/domain/priority.ts for non-chained pins: a pinned defect takes its target's key
+ * (score desc, created asc, id asc) and sits just before (above) or after (below) it;
+ * several "above" pins keep their own order, several "below" pins the reverse of it.
+ * No window over the whole site: only the page's rows are sorted by keys, not ranks.
+ */
+const BELOW = sql`(t.id IS NOT NULL AND pin.direction = 'below')`;
+export const RANK_KEYS: Array<[ReturnType<typeof sql>, "ASC" | "DESC"]> = [
+  [sql`coalesce(t.priority_score, d.priority_score)`, "DESC"],
+  [sql`coalesce(t.created_at, d.created_at)`, "ASC"],
+  [sql`coalesce(t.id, d.id)`, "ASC"],
+  [sql`CASE WHEN t.id IS NULL THEN 0 WHEN pin.direction = 'above' THEN -1 ELSE 1 END`, "ASC"],
+  [sql`CASE WHEN ${BELOW} THEN -d.priority_score ELSE d.priority_score END`, "DESC"],
+  [sql`CASE WHEN ${BELOW} THEN NULL ELSE d.created_at END`, "ASC"],
+  [sql`CASE WHEN ${BELOW} THEN d.created_at END`, "DESC"],
+  [sql`CASE WHEN ${BELOW} THEN NULL ELSE d.id END`, "ASC"],
+  [sql`CASE WHEN ${BELOW} THEN d.id END`, "DESC"],
+];
+const flip = (d: "ASC" | "DESC") => (d === "ASC" ? "DESC" : "ASC");
+/** "k1 DIR, k2 DIR, …" for the ranked order, reversed when `reverse`. */
+export const rankOrderSql = (reverse: boolean) =>
+  sql.join(RANK_KEYS.map(([e, d]) => sql`${e} ${sql.raw(reverse ? flip(d) : d)}`));
 
 const SORT_EXPR: Record<Exclude<SortKey, "priority">, ReturnType<typeof sql>> = {
   ref: sql`d.ref`,
@@ -103,27 +111,30 @@ const SORT_EXPR: Record<Exclude<SortKey, "priority">, ReturnType<typeof sql>> = 
 export function applySort<QB extends SelectQueryBuilder<any, any, any>>(qb: QB, sort: SortKey, dir: "asc" | "desc"): QB {
   const q = qb as SelectQueryBuilder<any, any, any>;
   if (sort === "priority") {
-    const d = dir === "desc" ? sql`ASC` : sql`DESC`;
-    return q.orderBy(sql`${RANK_KEY} ${d}`).orderBy(sql`${RANK_TIE} ${d}`).orderBy("d.id") as QB;
+    let out = q;
+    for (const [e, d] of RANK_KEYS) out = out.orderBy(sql`${e} ${sql.raw(dir === "desc" ? d : flip(d))}`);
+    return out as QB;
   }
   const d = dir === "asc" ? sql`ASC NULLS LAST` : sql`DESC NULLS LAST`;
   return q.orderBy(sql`${SORT_EXPR[sort]} ${d}`).orderBy(sql`d.ref ${dir === "asc" ? sql`ASC` : sql`DESC`}`) as QB;
 }
 
-/** The register's page plus the total under the same filters. */
+/**
+ * The register's page plus the total under the same filters. The page is found first as
+ * ids only (narrow sort, often an index scan), then its rows are read with every column.
+ */
 export async function listPage(db: Db, siteId: string, f: ListQuery, today: string) {
-  const rowsQ = applySort(applyFilters(registerBase(db, siteId, f.sort === "priority") as Base, f, today), f.sort, f.dir)
-    .select(ROW_COLUMNS as any)
-    .limit(f.size)
-    .offset(f.page * f.size);
-  const countQ = applyFilters(registerBase(db, siteId, false), f, today).select((eb) => eb.fn.countAll<number>().as("n"));
-  const [rows, count] = await Promise.all([rowsQ.execute(), countQ.executeTakeFirstOrThrow()]);
-  return { rows: rows as RegisterRow[], total: Number(count.n) };
+  const idsQ = applySort(applyFilters(registerBase(db, siteId), f, today), f.sort, f.dir).select("d.id").limit(f.size).offset(f.page * f.size);
+  const countQ = applyFilters(registerBase(db, siteId), f, today).select((eb) => eb.fn.countAll<number>().as("n"));
+  const [ids, count] = await Promise.all([idsQ.execute(), countQ.executeTakeFirstOrThrow()]);
+  const rows = ids.length ? ((await registerBase(db, siteId).select(ROW_COLUMNS as any).where("d.id", "in", ids.map((r) => r.id)).execute()) as RegisterRow[]) : [];
+  const byId = new Map(rows.map((r) => [r.id, r]));
+  return { rows: ids.map((r) => byId.get(r.id)!), total: Number(count.n) };
 }
 
 /** The filtered, sorted register without paging (CSV export runs it through a cursor). */
 export const registerQuery = (db: Db, siteId: string, f: ListQuery, today: string) =>
-  applySort(applyFilters(registerBase(db, siteId, f.sort === "priority") as Base, f, today), f.sort, f.dir).select(ROW_COLUMNS as any);
+  applySort(applyFilters(registerBase(db, siteId), f, today), f.sort, f.dir).select(ROW_COLUMNS as any);
 
 export type RegisterRow = {
   id: string; ref: number; siteId: string; boardId: string; boardName: string; sectionId: string | null; sectionName: string | null;

@@ -2,10 +2,10 @@ import { sql } from "kysely";
 import type { Insertable, Updateable } from "kysely";
 import type { Database } from "../../db/types";
 import type { Db } from "../db";
-import { registerBase, ROW_COLUMNS, RANK_KEY, RANK_TIE, type RegisterRow } from "./list-query";
+import { rankOrderSql, registerBase, ROW_COLUMNS, type RegisterRow } from "./list-query";
 
 export const findRow = async (db: Db, siteId: string, id: string) =>
-  (await registerBase(db, siteId, false).select(ROW_COLUMNS as any).where("d.id", "=", id).executeTakeFirst()) as RegisterRow | undefined;
+  (await registerBase(db, siteId).select(ROW_COLUMNS as any).where("d.id", "=", id).executeTakeFirst()) as RegisterRow | undefined;
 
 /** Locks the defect row for the rest of the transaction (serialises concurrent moves). */
 export const lockDefect = (db: Db, siteId: string, id: string) =>
@@ -137,11 +137,10 @@ export const photoCount = async (db: Db, defectId: string) =>
 /** 1-based place of a defect in the site's ranked order (with pins), as the register shows it. */
 export async function rankOf(db: Db, siteId: string, defectId: string) {
   const r = await sql<{ place: number }>`
-    WITH ranked AS (SELECT id, row_number() over (order by priority_score desc, created_at, id) AS rn FROM defects WHERE site_id = ${siteId}),
-    placed AS (
-      SELECT d.id, row_number() over (order by ${RANK_KEY}, ${RANK_TIE}, d.id) AS place
+    WITH placed AS (
+      SELECT d.id, row_number() over (order by ${rankOrderSql(false)}) AS place
       FROM defects d LEFT JOIN defect_pins pin ON pin.defect_id = d.id AND pin.removed_at IS NULL
-      LEFT JOIN ranked r ON r.id = d.id LEFT JOIN ranked tr ON tr.id = pin.relative_to
+      LEFT JOIN defects t ON t.id = pin.relative_to
       WHERE d.site_id = ${siteId})
     SELECT place FROM placed WHERE id = ${defectId}`.execute(db);
   return r.rows[0] ? Number(r.rows[0].place) : null;

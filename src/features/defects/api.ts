@@ -1,6 +1,6 @@
 import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { z } from "zod";
-import { api, qs } from "../../lib/api-client";
+import { api, ApiError, qs } from "../../lib/api-client";
 import {
   contextResponse, defectDetailSchema, defectRowSchema, listResponse, optionsResponse, planResponse, positionsResponse, viewSchema,
   type BulkBody,
@@ -57,7 +57,13 @@ export const useSavedViews = (siteId: string) =>
 /** Every write refreshes the whole feature's cache for the site (lists, detail, plan). */
 function useWrite<TVars, TOut>(siteId: string, fn: (v: TVars) => Promise<TOut>) {
   const qc = useQueryClient();
-  return useMutation({ mutationFn: fn, onSuccess: () => qc.invalidateQueries({ queryKey: defectKeys.all(siteId) }) });
+  return useMutation({
+    mutationFn: fn,
+    // a 409 means our copy is stale: refetch so the page shows the current record
+    onSettled: (_d, err) => {
+      if (!err || (err instanceof ApiError && err.status === 409)) void qc.invalidateQueries({ queryKey: defectKeys.all(siteId) });
+    },
+  });
 }
 
 export const useCreateDefect = (siteId: string) =>

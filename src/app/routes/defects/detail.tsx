@@ -7,6 +7,7 @@ import { PARTS_STATE_LABELS } from "../../../schemas/defects";
 import { useDefect, useDefectOptions } from "../../../features/defects/api";
 import { FlagMarks, SeverityBadge, StatusBadge } from "../../../features/defects/components/badges";
 import { DefectHistory } from "../../../features/defects/components/defect-history";
+import { EditPanel } from "../../../features/defects/components/edit-panel";
 import { PinPanel } from "../../../features/defects/components/pin-panel";
 import { WhyItRanks } from "../../../features/defects/components/why-it-ranks";
 import { WorkflowPanel } from "../../../features/defects/components/workflow-panel";
@@ -42,6 +43,7 @@ export default function DefectPage() {
         {d.description && <p className="mt-2 max-w-3xl whitespace-pre-line">{d.description}</p>}
       </header>
       {d.safetyCritical && <SafetyNotice compact />}
+      <EditPanel siteId={site.id} detail={detail} canManage={manage} />
       <div className="grid gap-4 lg:grid-cols-2">
         <section aria-labelledby="facts-title" className="rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
           <h2 id="facts-title" className="text-lg font-bold">Details</h2>
