@@ -133,3 +133,63 @@ test("every role sees the survey progress on the site overview, and it passes th
   await expect(summary.getByRole("region", { name: "By disposition" })).toContainText("Not decided");
   await expectNoSeriousA11yViolations(page, "site overview");
 });
+
+test("the curator sets up a board: new board, a generated row, reorder from the keyboard, nameplate by kind", async ({ page }) => {
+  test.setTimeout(120_000); // four axe scans on a 2-core machine shared with other checkouts
+  const prefix = `N${Date.now().toString(36).slice(-4).toUpperCase()}-`;
+  await signIn(page, "curator");
+  await page.getByRole("navigation", { name: "Site" }).getByRole("link", { name: "Boards" }).click();
+  await expect(page.getByRole("heading", { level: 1, name: /Boards on/ })).toBeVisible();
+  await expectNoSeriousA11yViolations(page, "board list");
+  await page.getByRole("link", { name: "New board" }).click();
+  await page.getByLabel("Name", { exact: true }).fill(`Shore panel ${prefix}`);
+  await page.getByLabel("Grid rows").fill("3");
+  await page.getByLabel("Grid columns").fill("4");
+  await expectNoSeriousA11yViolations(page, "new board form");
+  await page.getByRole("button", { name: "Create board" }).click();
+  await expect(page.getByRole("heading", { level: 1, name: `Set up Shore panel ${prefix}` })).toBeVisible();
+
+  const row = page.getByRole("form", { name: "Generate a row of positions" });
+  await row.getByLabel("Prefix", { exact: true }).fill(prefix);
+  await row.getByLabel("To", { exact: true }).fill("3");
+  await row.getByLabel("Kind", { exact: true }).selectOption("meter");
+  await row.getByRole("button", { name: /^Create/ }).click();
+  await expect(row.getByRole("status")).toHaveText("Created 3 positions.");
+  const list = page.getByRole("region", { name: "Positions, in list order" });
+  await expect(list.getByTestId(`order-${prefix}3`)).toBeVisible();
+
+  await list.getByRole("button", { name: `Move ${prefix}3 up` }).click();
+  await expect(list.locator("li").nth(1)).toHaveAttribute("data-testid", `order-${prefix}3`);
+  await page.reload();
+  await expect(list.locator("li").nth(1)).toHaveAttribute("data-testid", `order-${prefix}3`);
+
+  await list.getByRole("button", { name: `Edit ${prefix}1` }).click();
+  const plate = page.getByRole("form", { name: "Nameplate" });
+  await expect(plate.getByLabel(/Meter range/)).toBeVisible();
+  await expect(plate.getByLabel(/Interrupting rating/)).toHaveCount(0);
+  await plate.getByLabel(/Meter range/).fill("0–600 V");
+  await plate.getByRole("button", { name: "Save nameplate" }).click();
+  await expect(plate.getByRole("status")).toHaveText("Nameplate saved.");
+  await expectNoSeriousA11yViolations(page, "board set-up");
+});
+
+test("the CSV import shows row-by-row errors before anything is written; the flood page passes the scan", async ({ page }) => {
+  test.setTimeout(90_000);
+  await signIn(page, "curator");
+  await page.waitForURL(/\/sites\/[^/]+/);
+  const siteUrl = page.url().replace(/(\/sites\/[^/]+).*/, "$1");
+  await page.goto(`${siteUrl}/inventory/import`);
+  await page.getByLabel("…or paste the CSV").fill(
+    "board,designation,kind,grid_row,grid_col\nImport check board,IC-1,meter,1,1\nImport check board,IC-2,toaster,1,2\n",
+  );
+  await page.getByRole("button", { name: "Check the file" }).click();
+  await expect(page.getByTestId("import-summary")).toContainText("2 rows: 1 ready, 1 with errors");
+  await expect(page.getByTestId("import-line-3")).toContainText("kind");
+  await expect(page.getByRole("button", { name: /Import all/ })).toBeDisabled();
+  await expectNoSeriousA11yViolations(page, "CSV import preview");
+
+  await page.goto(`${siteUrl}/flood`);
+  await expect(page.getByRole("heading", { level: 1, name: "The flood" })).toBeVisible();
+  await expect(page.getByLabel("Water", { exact: true }).first()).toBeVisible();
+  await expectNoSeriousA11yViolations(page, "flood event page");
+});
