@@ -193,3 +193,38 @@ test("the CSV import shows row-by-row errors before anything is written; the flo
   await expect(page.getByLabel("Water", { exact: true }).first()).toBeVisible();
   await expectNoSeriousA11yViolations(page, "flood event page");
 });
+
+test("when someone else decides first, the curator sees their value and can apply theirs or re-apply their own", async ({ page, baseURL }) => {
+  const m = await makeBoard(baseURL!);
+  const designation = `${m.prefix}3`;
+  await signIn(page, "curator");
+  await page.goto(`/sites/${m.siteId}/boards/${m.boardId}`);
+  await page.getByTestId(`tile-${designation}`).click();
+  const panel = page.getByTestId("position-panel");
+  await expect(panel.getByTestId("recommendation")).toBeVisible();
+
+  // a second curator decides "clean" behind this one's back
+  const api = await curatorApi(baseURL!);
+  const board = (await (await api.get(`/api/sites/${m.siteId}/boards/${m.boardId}`)).json()) as {
+    positions: Array<{ designation: string; component: { id: string; version: number } }>;
+  };
+  const c = board.positions.find((p) => p.designation === designation)!.component;
+  const put = await api.put(`/api/sites/${m.siteId}/components/${c.id}/disposition`, {
+    data: { disposition: "clean", reason: "Second curator: dry and bright inside.", version: c.version },
+  });
+  expect(put.ok()).toBeTruthy();
+  await api.dispose();
+
+  const recommended = (await panel.getByTestId("recommendation").locator("strong").innerText()).trim();
+  const choice = recommended === "Rebuild" ? "Replace" : "Rebuild";
+  await panel.getByRole("radio", { name: new RegExp(`^${choice}`) }).check();
+  await panel.getByLabel(/Why override/).fill("Original part: find a period spare.");
+  await panel.getByRole("button", { name: "Save override" }).click();
+  const notice = panel.getByTestId("conflict-notice");
+  await expect(notice).toContainText("Someone else saved this");
+  await expect(notice).toContainText("clean");
+  await expect(panel.getByLabel(/Why override/)).toHaveValue("Original part: find a period spare.");
+  await notice.getByRole("button", { name: "Apply mine again" }).click();
+  await expect(panel.getByRole("status").filter({ hasText: "Saved." })).toBeVisible();
+  await expect(page.getByTestId(`tile-${designation}`)).toContainText(choice.toLowerCase());
+});
