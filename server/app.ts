@@ -37,6 +37,7 @@ export function createApp(deps: AppDeps) {
       res.status(503).json({ ok: false, db: "down" });
     }
   });
+  api.use("/sites/:siteId/inventory/import", express.json({ limit: "2mb" })); // a CSV file sent as JSON {csv}
   api.use(express.json({ limit: "1mb" }));
   api.use(originCheck());
   api.use(sessionMiddleware(lucia));

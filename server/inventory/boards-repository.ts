@@ -1,4 +1,4 @@
-import type { Insertable } from "kysely";
+import { sql, type Insertable } from "kysely";
 import type { BoardsTable, FloodEventsTable, SectionsTable } from "../../db/types";
 import type { Db } from "../db";
 
@@ -29,6 +29,9 @@ export const listBoards = (db: Db, siteId: string) =>
     .where("b.siteId", "=", siteId)
     .orderBy("b.name")
     .execute();
+
+export const boardByName = (db: Db, siteId: string, name: string) =>
+  db.selectFrom("boards").select("id").where("siteId", "=", siteId).where(sql<string>`lower(name)`, "=", name.trim().toLowerCase()).executeTakeFirst();
 
 export const insertBoard = (db: Db, v: Insertable<BoardsTable>) => db.insertInto("boards").values(v).returningAll().executeTakeFirstOrThrow();
 

@@ -28,8 +28,15 @@ export async function patchFloodEvent(db: Db, siteId: string, id: string, actorI
   });
 }
 
+/** Board names are unique per site (case-insensitively): the CSV import finds boards by name. */
+async function requireFreeName(db: Db, siteId: string, name: string, exceptId?: string) {
+  const taken = await repo.boardByName(db, siteId, name);
+  if (taken && taken.id !== exceptId) throw new AppError(409, "duplicate", "This site already has a board of that name.", { name: "Already used on this site" });
+}
+
 export async function createBoard(db: Db, siteId: string, actorId: string, body: CreateBoardBody) {
   return db.transaction().execute(async (trx) => {
+    await requireFreeName(trx, siteId, body.name);
     const row = await repo.insertBoard(trx, { siteId, ...defined(body), name: body.name });
     await recordAudit(trx, { siteId, entityType: "board", entityId: row.id, boardId: row.id, action: "create", actorId, after: row });
     return row;
@@ -42,6 +49,7 @@ export async function patchBoard(db: Db, siteId: string, id: string, actorId: st
   return db.transaction().execute(async (trx) => {
     const before = await requireOwned(trx, "boards", siteId, id, "That board", true);
     if (before.version !== version) throw stale("board", before);
+    if (patch.name !== undefined) await requireFreeName(trx, siteId, patch.name, id);
     // The grid may not shrink under a position: it would vanish from the elevation.
     const ext = await repo.boardExtent(trx, id);
     const fields: Record<string, string> = {};

@@ -84,14 +84,42 @@ function overlapError(cells: Map<string, string>, boardKey: string, rec: ImportR
 
 export type SiteState = Awaited<ReturnType<typeof siteState>>;
 
+/** The checks of a row against the database and the rows above it; remembers what it has seen. */
+class CrossCheck {
+  private seenDesignation = new Map<string, number>();
+  private seenTag = new Map<string, number>();
+  boardsToCreate = new Map<string, string>();
+  sectionsToCreate = new Set<string>();
+  constructor(private state: SiteState) {}
+
+  check(rec: ImportRecord, line: number, errors: Record<string, string>) {
+    const board = this.state.boards.get(key(rec.board));
+    const boardKey = board?.id ?? `new:${key(rec.board)}`;
+    const dKey = `${boardKey}|${key(rec.designation)}`;
+    if (this.seenDesignation.has(dKey)) errors.designation = `Also on line ${this.seenDesignation.get(dKey)} for this board`;
+    else if (this.state.designations.has(dKey)) errors.designation = "Already on this board";
+    if (!this.seenDesignation.has(dKey)) this.seenDesignation.set(dKey, line);
+    if (rec.tagNumber) {
+      const t = key(rec.tagNumber);
+      if (this.seenTag.has(t)) errors.tag_number = `Also on line ${this.seenTag.get(t)}`;
+      else if (this.state.tags.has(t)) errors.tag_number = "Already on a component of this site";
+      if (!this.seenTag.has(t)) this.seenTag.set(t, line);
+    }
+    if (board && rec.gridRow + rec.rowSpan - 1 > board.gridRows) errors.grid_row = `The board has ${board.gridRows} rows`;
+    if (board && rec.gridCol + rec.colSpan - 1 > board.gridCols) errors.grid_col = `The board has ${board.gridCols} columns`;
+    const overlap = Object.keys(errors).length ? null : overlapError(this.state.cells, boardKey, rec, line);
+    if (overlap) errors.grid_col = overlap;
+    // A board named in two spellings of case is one board: keep the first spelling.
+    if (!board && !this.boardsToCreate.has(key(rec.board))) this.boardsToCreate.set(key(rec.board), rec.board);
+    if (rec.section && !this.state.sections.has(`${boardKey}|${key(rec.section)}`)) this.sectionsToCreate.add(`${rec.board} / ${rec.section}`);
+  }
+}
+
 /** Checks every row; `records` holds the good ones in file order. */
 export async function validateImport(db: Db, siteId: string, text: string) {
   const { rows: parsed, ignoredColumns } = parseCsv(text);
   const state = await siteState(db, siteId);
-  const seenDesignation = new Map<string, number>();
-  const seenTag = new Map<string, number>();
-  const boardsToCreate = new Set<string>();
-  const sectionsToCreate = new Set<string>();
+  const cross = new CrossCheck(state);
   const rows: ImportRow[] = [];
   const records: ImportRecord[] = [];
   for (const p of parsed) {
@@ -99,36 +127,16 @@ export async function validateImport(db: Db, siteId: string, text: string) {
     const errors: Record<string, string> = {};
     if (!res.success) for (const i of res.error.issues) errors[String(i.path[0] ?? "_")] ??= i.message;
     const rec = res.success ? toRecord(res.data) : null;
-    if (rec) {
-      const board = state.boards.get(key(rec.board));
-      const boardKey = board?.id ?? `new:${key(rec.board)}`;
-      const dKey = `${boardKey}|${key(rec.designation)}`;
-      if (seenDesignation.has(dKey)) errors.designation = `Also on line ${seenDesignation.get(dKey)} for this board`;
-      else if (state.designations.has(dKey)) errors.designation = "Already on this board";
-      seenDesignation.set(dKey, seenDesignation.get(dKey) ?? p.line);
-      if (rec.tagNumber) {
-        const t = key(rec.tagNumber);
-        if (seenTag.has(t)) errors.tag_number = `Also on line ${seenTag.get(t)}`;
-        else if (state.tags.has(t)) errors.tag_number = "Already on a component of this site";
-        seenTag.set(t, seenTag.get(t) ?? p.line);
-      }
-      if (board && rec.gridRow + rec.rowSpan - 1 > board.gridRows) errors.grid_row = `The board has ${board.gridRows} rows`;
-      if (board && rec.gridCol + rec.colSpan - 1 > board.gridCols) errors.grid_col = `The board has ${board.gridCols} columns`;
-      const overlap = Object.keys(errors).length ? null : overlapError(state.cells, boardKey, rec, p.line);
-      if (overlap) errors.grid_col = overlap;
-      if (!board) boardsToCreate.add(rec.board);
-      if (rec.section && !state.sections.has(`${boardKey}|${key(rec.section)}`)) sectionsToCreate.add(`${rec.board} / ${rec.section}`);
-    }
+    if (rec) cross.check(rec, p.line, errors);
     const ok = Object.keys(errors).length === 0;
     rows.push({ line: p.line, ok, errors, data: rec });
     if (ok && rec) records.push(rec);
   }
-  // A board named in two spellings of case is one board: keep the first spelling.
-  const uniqueBoards = [...new Map([...boardsToCreate].map((b) => [key(b), b])).values()];
   const failed = rows.filter((r) => !r.ok).length;
-  const response: ImportResponse = {
-    rows,
-    summary: { rows: rows.length, ok: rows.length - failed, failed, boardsToCreate: uniqueBoards, sectionsToCreate: [...sectionsToCreate], ignoredColumns, committed: false },
+  const summary = {
+    rows: rows.length, ok: rows.length - failed, failed, boardsToCreate: [...cross.boardsToCreate.values()],
+    sectionsToCreate: [...cross.sectionsToCreate], ignoredColumns, committed: false,
   };
+  const response: ImportResponse = { rows, summary };
   return { response, records, state };
 }

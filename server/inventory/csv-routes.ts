@@ -9,7 +9,7 @@ import { ImportInvalid, commitImport } from "./csv-commit";
 import { streamInventoryCsv } from "./csv-export";
 import { validateImport } from "./csv-import";
 
-/** 2 MB of CSV is some 10 000 rows, more than any board set; larger gets 413. JSON bodies keep the app's 1 MB limit. */
+/** 2 MB of CSV is some 10 000 rows, more than any board set; larger gets 413 (JSON {csv} too: its parser is set in app.ts). */
 const csvText = express.text({ type: ["text/csv", "text/plain", "application/csv"], limit: "2mb" });
 
 const slug = (s: string) => s.toLowerCase().normalize("NFKD").replace(/[^a-z0-9]+/g, "-").replace(/^-|-$/g, "") || "site";

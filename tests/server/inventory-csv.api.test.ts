@@ -103,6 +103,10 @@ describe("CSV import", () => {
     const json = await curator.post(`${base}/inventory/import?mode=preview`, { csv: csv([HEADER, "JSON board,,J-1,fuse,1,1,,,,,,,"]) });
     expect(json.status).toBe(200);
     expect(json.body.summary.ok).toBe(1);
+    // 1.5 MB as JSON {csv} is within the import's 2 MB (the rest of the API stops at 1 MB); over 2 MB is 413.
+    const padded = csv([HEADER, "JSON board,,J-1,fuse,1,1,,,,,,,"]) + " ".repeat(1_500_000); // a blank last line, skipped
+    expect((await curator.post(`${base}/inventory/import?mode=preview`, { csv: padded })).status).toBe(200);
+    expect((await curator.post(`${base}/inventory/import?mode=preview`, { csv: padded + " ".repeat(600_000) })).status).toBe(413);
   });
 });
 

@@ -96,6 +96,13 @@ describe("boards, sections and positions", () => {
     expect(dup2.body.error.fields.designation).toBeDefined();
   });
 
+  it("when a second board takes a name the site already uses (any case), it gets 409 on name", async () => {
+    await newBoard("Steering flat board");
+    const r = await as.curator.post(`${base}/boards`, { name: "steering FLAT board" });
+    expect(r.status).toBe(409);
+    expect(r.body.error.fields.name).toBeDefined();
+  });
+
   it("when the grid would shrink under a position, the board edit is refused with the field named", async () => {
     const board = await newBoard();
     await newPosition(board.id, { gridRow: 4, gridCol: 6 });
