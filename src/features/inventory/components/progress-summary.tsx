@@ -10,8 +10,8 @@ const pct = (n: number, of: number) => (of ? Math.round((n / of) * 100) : 0);
 /** One labelled bar: the number is always written out; the bar only repeats it. */
 function Bar({ label, n, of, fill, style, stacked }: { label: React.ReactNode; n: number; of: number; fill: string; style?: React.CSSProperties; stacked?: boolean }) {
   return (
-    <li className={`grid items-center gap-x-2 text-sm ${stacked ? "grid-cols-[1fr_4.5rem]" : "grid-cols-[minmax(7rem,10rem)_1fr_4.5rem]"}`}>
-      <span className={stacked ? "col-span-2" : "truncate"}>{label}</span>
+    <li className={`grid items-center gap-x-2 text-sm ${stacked ? "grid-cols-[1fr_4.5rem]" : "grid-cols-[1fr_4.5rem] sm:grid-cols-[minmax(7rem,10rem)_1fr_4.5rem]"}`}>
+      <span className={stacked ? "col-span-2" : "col-span-2 truncate sm:col-span-1"}>{label}</span>
       <span className="h-3 overflow-hidden rounded-full bg-hull-700" aria-hidden="true">
         <span className={`block h-full rounded-full ${fill}`} style={{ width: `${pct(n, of)}%`, ...style }} />
       </span>
