@@ -122,6 +122,11 @@ test("filters dim the tiles that do not match, without hiding them", async ({ pa
   await expect(tile).not.toHaveAttribute("data-dimmed", "true");
   // a viewer sees no write controls
   await expect(page.getByRole("link", { name: "Set up this board" })).toHaveCount(0);
+  await tile.click();
+  const panel = page.getByTestId("position-panel");
+  await expect(panel.getByRole("heading", { name: "Disposition" })).toBeVisible();
+  await expect(panel.getByRole("radio")).toHaveCount(0);
+  await expect(panel.getByRole("link", { name: "Log inspection or move" })).toHaveCount(0);
   await expectNoSeriousA11yViolations(page, "board elevation");
 });
 
@@ -187,6 +192,10 @@ test("the CSV import shows row-by-row errors before anything is written; the flo
   await expect(page.getByTestId("import-line-3")).toContainText("kind");
   await expect(page.getByRole("button", { name: /Import all/ })).toBeDisabled();
   await expectNoSeriousA11yViolations(page, "CSV import preview");
+  const csv = await page.request.get(await page.getByRole("link", { name: "Export the current inventory" }).getAttribute("href") ?? "");
+  expect(csv.status()).toBe(200);
+  expect(csv.headers()["content-type"]).toContain("text/csv");
+  expect(await csv.text()).toContain("designation");
 
   await page.goto(`${siteUrl}/flood`);
   await expect(page.getByRole("heading", { level: 1, name: "The flood" })).toBeVisible();
