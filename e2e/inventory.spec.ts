@@ -167,6 +167,11 @@ test("the curator sets up a board: new board, a generated row, reorder from the 
   await expect(list.locator("li").nth(1)).toHaveAttribute("data-testid", `order-${prefix}3`);
   await page.reload();
   await expect(list.locator("li").nth(1)).toHaveAttribute("data-testid", `order-${prefix}3`);
+  // and by dragging: 2 dropped onto the first place → 2, 1, 3
+  await list.getByTestId(`order-${prefix}2`).dragTo(list.getByTestId(`order-${prefix}1`));
+  await expect(list.locator("li").nth(0)).toHaveAttribute("data-testid", `order-${prefix}2`);
+  await page.reload();
+  await expect(list.locator("li").nth(0)).toHaveAttribute("data-testid", `order-${prefix}2`);
 
   await list.getByRole("button", { name: `Edit ${prefix}1` }).click();
   const plate = page.getByRole("form", { name: "Nameplate" });
