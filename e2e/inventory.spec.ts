@@ -122,6 +122,11 @@ test("filters dim the tiles that do not match, without hiding them", async ({ pa
   await expect(tile).not.toHaveAttribute("data-dimmed", "true");
   // a viewer sees no write controls
   await expect(page.getByRole("link", { name: "Set up this board" })).toHaveCount(0);
+  await tile.click();
+  const panel = page.getByTestId("position-panel");
+  await expect(panel.getByRole("heading", { name: "Disposition" })).toBeVisible();
+  await expect(panel.getByRole("radio")).toHaveCount(0);
+  await expect(panel.getByRole("link", { name: "Log inspection or move" })).toHaveCount(0);
   await expectNoSeriousA11yViolations(page, "board elevation");
 });
 
@@ -132,4 +137,108 @@ test("every role sees the survey progress on the site overview, and it passes th
   await expect(summary.getByTestId("surveyed-count")).toContainText("/");
   await expect(summary.getByRole("region", { name: "By disposition" })).toContainText("Not decided");
   await expectNoSeriousA11yViolations(page, "site overview");
+});
+
+test("the curator sets up a board: new board, a generated row, reorder from the keyboard, nameplate by kind", async ({ page }) => {
+  test.setTimeout(120_000); // four axe scans on a 2-core machine shared with other checkouts
+  const prefix = `N${Date.now().toString(36).slice(-4).toUpperCase()}-`;
+  await signIn(page, "curator");
+  await page.getByRole("navigation", { name: "Site" }).getByRole("link", { name: "Boards" }).click();
+  await expect(page.getByRole("heading", { level: 1, name: /Boards on/ })).toBeVisible();
+  await expectNoSeriousA11yViolations(page, "board list");
+  await page.getByRole("link", { name: "New board" }).click();
+  await page.getByLabel("Name", { exact: true }).fill(`Shore panel ${prefix}`);
+  await page.getByLabel("Grid rows").fill("3");
+  await page.getByLabel("Grid columns").fill("4");
+  await expectNoSeriousA11yViolations(page, "new board form");
+  await page.getByRole("button", { name: "Create board" }).click();
+  await expect(page.getByRole("heading", { level: 1, name: `Set up Shore panel ${prefix}` })).toBeVisible();
+
+  const row = page.getByRole("form", { name: "Generate a row of positions" });
+  await row.getByLabel("Prefix", { exact: true }).fill(prefix);
+  await row.getByLabel("To", { exact: true }).fill("3");
+  await row.getByLabel("Kind", { exact: true }).selectOption("meter");
+  await row.getByRole("button", { name: /^Create/ }).click();
+  await expect(row.getByRole("status")).toHaveText("Created 3 positions.");
+  const list = page.getByRole("region", { name: "Positions, in list order" });
+  await expect(list.getByTestId(`order-${prefix}3`)).toBeVisible();
+
+  await list.getByRole("button", { name: `Move ${prefix}3 up` }).click();
+  await expect(list.locator("li").nth(1)).toHaveAttribute("data-testid", `order-${prefix}3`);
+  await page.reload();
+  await expect(list.locator("li").nth(1)).toHaveAttribute("data-testid", `order-${prefix}3`);
+  // and by dragging: 2 dropped onto the first place → 2, 1, 3
+  await list.getByTestId(`order-${prefix}2`).dragTo(list.getByTestId(`order-${prefix}1`));
+  await expect(list.locator("li").nth(0)).toHaveAttribute("data-testid", `order-${prefix}2`);
+  await page.reload();
+  await expect(list.locator("li").nth(0)).toHaveAttribute("data-testid", `order-${prefix}2`);
+
+  await list.getByRole("button", { name: `Edit ${prefix}1` }).click();
+  const plate = page.getByRole("form", { name: "Nameplate" });
+  await expect(plate.getByLabel(/Meter range/)).toBeVisible();
+  await expect(plate.getByLabel(/Interrupting rating/)).toHaveCount(0);
+  await plate.getByLabel(/Meter range/).fill("0–600 V");
+  await plate.getByRole("button", { name: "Save nameplate" }).click();
+  await expect(plate.getByRole("status")).toHaveText("Nameplate saved.");
+  await expectNoSeriousA11yViolations(page, "board set-up");
+});
+
+test("the CSV import shows row-by-row errors before anything is written; the flood page passes the scan", async ({ page }) => {
+  test.setTimeout(90_000);
+  await signIn(page, "curator");
+  await page.waitForURL(/\/sites\/[^/]+/);
+  const siteUrl = page.url().replace(/(\/sites\/[^/]+).*/, "$1");
+  await page.goto(`${siteUrl}/inventory/import`);
+  await page.getByLabel("…or paste the CSV").fill(
+    "board,designation,kind,grid_row,grid_col\nImport check board,IC-1,meter,1,1\nImport check board,IC-2,toaster,1,2\n",
+  );
+  await page.getByRole("button", { name: "Check the file" }).click();
+  await expect(page.getByTestId("import-summary")).toContainText("2 rows: 1 ready, 1 with errors");
+  await expect(page.getByTestId("import-line-3")).toContainText("kind");
+  await expect(page.getByRole("button", { name: /Import all/ })).toBeDisabled();
+  await expectNoSeriousA11yViolations(page, "CSV import preview");
+  const csv = await page.request.get(await page.getByRole("link", { name: "Export the current inventory" }).getAttribute("href") ?? "");
+  expect(csv.status()).toBe(200);
+  expect(csv.headers()["content-type"]).toContain("text/csv");
+  expect(await csv.text()).toContain("designation");
+
+  await page.goto(`${siteUrl}/flood`);
+  await expect(page.getByRole("heading", { level: 1, name: "The flood" })).toBeVisible();
+  await expect(page.getByLabel("Water", { exact: true }).first()).toBeVisible();
+  await expectNoSeriousA11yViolations(page, "flood event page");
+});
+
+test("when someone else decides first, the curator sees their value and can apply theirs or re-apply their own", async ({ page, baseURL }) => {
+  const m = await makeBoard(baseURL!);
+  const designation = `${m.prefix}3`;
+  await signIn(page, "curator");
+  await page.goto(`/sites/${m.siteId}/boards/${m.boardId}`);
+  await page.getByTestId(`tile-${designation}`).click();
+  const panel = page.getByTestId("position-panel");
+  await expect(panel.getByTestId("recommendation")).toBeVisible();
+
+  // a second curator decides "clean" behind this one's back
+  const api = await curatorApi(baseURL!);
+  const board = (await (await api.get(`/api/sites/${m.siteId}/boards/${m.boardId}`)).json()) as {
+    positions: Array<{ designation: string; component: { id: string; version: number } }>;
+  };
+  const c = board.positions.find((p) => p.designation === designation)!.component;
+  const put = await api.put(`/api/sites/${m.siteId}/components/${c.id}/disposition`, {
+    data: { disposition: "clean", reason: "Second curator: dry and bright inside.", version: c.version },
+  });
+  expect(put.ok()).toBeTruthy();
+  await api.dispose();
+
+  const recommended = (await panel.getByTestId("recommendation").locator("strong").innerText()).trim();
+  const choice = recommended === "Rebuild" ? "Replace" : "Rebuild";
+  await panel.getByRole("radio", { name: new RegExp(`^${choice}`) }).check();
+  await panel.getByLabel(/Why override/).fill("Original part: find a period spare.");
+  await panel.getByRole("button", { name: "Save override" }).click();
+  const notice = panel.getByTestId("conflict-notice");
+  await expect(notice).toContainText("Someone else saved this");
+  await expect(notice).toContainText("clean");
+  await expect(panel.getByLabel(/Why override/)).toHaveValue("Original part: find a period spare.");
+  await notice.getByRole("button", { name: "Apply mine again" }).click();
+  await expect(panel.getByRole("status").filter({ hasText: "Saved." })).toBeVisible();
+  await expect(page.getByTestId(`tile-${designation}`)).toContainText(choice.toLowerCase());
 });

@@ -66,7 +66,9 @@ export default function BoardElevationPage() {
           links={{
             quickLog: canLog(role) ? paths.quickLog.href(site.id, selected) : undefined,
             setup: canCurate(role) ? paths.boardSetup.href(site.id, board.id, selected) : undefined,
-            defect: role !== "viewer" ? defectHref(site.id, { positionId: selected, componentId: tile?.component?.id }) : undefined,
+            defect: role !== "viewer"
+              ? (latest) => defectHref(site.id, { positionId: selected, componentId: tile?.component?.id, inspection: latest })
+              : undefined,
           }}
         />
       )}

@@ -23,10 +23,10 @@ function EditPosition({ siteId, data, positionId, onClose }: { siteId: string; d
         <h2 id="edit-title" className="text-lg font-bold">Position <span className="font-mono">{p.designation}</span></h2>
         <button type="button" onClick={onClose} className="min-h-11 rounded-md px-3 ring-1 ring-hull-600">Close</button>
       </div>
-      <PositionForm key={`${p.id}-${p.version}`} siteId={siteId} boardId={data.board.id} position={p} sections={data.sections} onDone={(deleted) => deleted && onClose()} />
+      <PositionForm key={p.id} siteId={siteId} boardId={data.board.id} position={p} sections={data.sections} onDone={(deleted) => deleted && onClose()} />
       <h3 className="text-base font-bold">Component nameplate</h3>
       {detail.isPending && <Loading />}
-      {detail.data?.component && <NameplateForm key={`${detail.data.component.id}-${detail.data.component.version}`} siteId={siteId} component={detail.data.component} />}
+      {detail.data?.component && <NameplateForm key={detail.data.component.id} siteId={siteId} component={detail.data.component} />}
     </section>
   );
 }
@@ -48,7 +48,7 @@ export default function BoardSetupPage() {
         <Link to={paths.boards.href(site.id)}>Boards</Link> / <Link to={paths.board.href(site.id, board.id)}>{board.name}</Link> / set-up
       </nav>
       <h1 className="text-2xl font-bold">Set up {board.name}</h1>
-      <BoardForm key={board.version} siteId={site.id} board={board} />
+      <BoardForm key={board.id} siteId={site.id} board={board} />
       <SectionsEditor siteId={site.id} boardId={board.id} sections={sections} />
       <GeneratePositions siteId={site.id} boardId={board.id} sections={sections} gridRows={board.gridRows} />
       <div className="grid items-start gap-5 xl:grid-cols-[minmax(0,1fr)_30rem]">

@@ -37,7 +37,8 @@ export default function SiteHome() {
           ))}
         </ul>
       )}
-      <ProgressSummary siteId={site.id} boardHref={(b) => paths.board.href(site.id, b)} />
+      <ProgressSummary siteId={site.id} boardHref={(b) => paths.board.href(site.id, b)}
+        floodHref={role === "curator" || role === "admin" ? paths.floodEvents.href(site.id) : undefined} />
       <SafetyNotice />
     </div>
   );

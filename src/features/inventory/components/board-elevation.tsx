@@ -4,7 +4,7 @@ import type { Board, TileRow } from "../contract";
 import { BoardTile } from "./board-tile";
 import { tileMatches, type TileFilters } from "./elevation-filters";
 
-const ROW_REM = 5.25;
+const ROW_REM = 5.5;
 
 /** The tile nearest in the arrow's direction, scored on centre distance (off-axis counts double). */
 export function neighbour(tiles: TileRow[], from: TileRow, key: string): TileRow | undefined {

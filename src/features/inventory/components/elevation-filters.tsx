@@ -1,4 +1,4 @@
-import { useId } from "react";
+import { useId, useState } from "react";
 import {
   COMPONENT_KIND_LABELS, COMPONENT_KINDS, CUSTODY, CUSTODY_LABELS, DISPOSITION_LABELS, DISPOSITIONS,
   type ComponentKind, type Custody, type Disposition,
@@ -33,9 +33,15 @@ export function ElevationFilters({ value, onChange, matching, total }: {
   total: number;
 }) {
   const id = useId();
+  const [shown, setShown] = useState(false);
   const set = <K extends keyof TileFilters>(k: K, v: TileFilters[K]) => onChange({ ...value, [k]: v });
   return (
-    <fieldset className="grid grid-cols-2 gap-2 rounded-lg bg-hull-850 p-3 ring-1 ring-hull-700 sm:grid-cols-[repeat(4,minmax(0,1fr))_auto] sm:items-end">
+    <div>
+    <button type="button" aria-expanded={shown} aria-controls={`${id}-filters`} onClick={() => setShown(!shown)}
+      className="min-h-11 w-full rounded-md bg-hull-850 px-3 text-left font-semibold ring-1 ring-hull-700 md:hidden">
+      {shown ? "▾" : "▸"} Filters{filtersActive(value) ? ` · ${matching} of ${total} match` : ""}
+    </button>
+    <fieldset id={`${id}-filters`} className={`${shown ? "mt-2 grid" : "hidden"} md:mt-0 md:grid grid-cols-2 gap-2 rounded-lg bg-hull-850 p-3 ring-1 ring-hull-700 sm:grid-cols-[repeat(4,minmax(0,1fr))_auto] sm:items-end`}>
       <legend className="sr-only">Filter the tiles (non-matching tiles are dimmed)</legend>
       <div>
         <label htmlFor={`${id}-kind`} className="text-xs font-semibold text-mist">Kind</label>
@@ -76,5 +82,6 @@ export function ElevationFilters({ value, onChange, matching, total }: {
         )}
       </div>
     </fieldset>
+    </div>
   );
 }

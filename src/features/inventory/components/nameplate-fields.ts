@@ -15,7 +15,7 @@ export const NAMEPLATE_LABELS: Record<NameplateKey, string> = {
   interruptingKa: "Interrupting rating (kA)",
   serial: "Serial",
   year: "Year",
-  meterRange: "Meter range (e.g. 0–600 V)",
+  meterRange: "Meter range",
   lampWatts: "Lamp wattage (W)",
 };
 export const NUMERIC_NAMEPLATE = new Set<NameplateKey>(["ratingAmps", "poles", "voltageRating", "interruptingKa", "year", "lampWatts"]);

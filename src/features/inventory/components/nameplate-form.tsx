@@ -34,23 +34,23 @@ export function NameplateForm({ siteId, component }: { siteId: string; component
   const save = (version: number) => m.mutate({ id: base.id, ...toBody(d, base, version) }, { onSuccess: (c) => { setBase(c); setD(toDraft(c)); } });
   const submit = (e: FormEvent) => { e.preventDefault(); save(base.version); };
   return (
-    <form onSubmit={submit} aria-label="Nameplate" className="grid grid-cols-2 gap-3 sm:grid-cols-4">
+    <form onSubmit={submit} aria-label="Nameplate" className="grid grid-cols-2 gap-3">
       {nameplateFieldsFor(base.kind).map((k) => (
         <TextField key={k} label={NAMEPLATE_LABELS[k]} inputMode={NUMERIC_NAMEPLATE.has(k) ? "decimal" : undefined} className={k === "maker" || k === "model" ? "col-span-2" : ""} {...bind(k)} />
       ))}
       <SelectField label="Heritage" className="col-span-2" {...bind("heritage")}>{HERITAGE.map((h) => <option key={h} value={h}>{HERITAGE_LABELS[h]}</option>)}</SelectField>
       <TextField label="Tag number" className="[&_input]:font-mono" {...bind("tagNumber")} hint="Empty clears the tag." />
-      <TextArea label="Notes" className="col-span-2 sm:col-span-4" {...bind("notes")} />
+      <TextArea label="Notes" className="col-span-2" {...bind("notes")} />
       {conflict && (
-        <div className="col-span-2 sm:col-span-4">
+        <div className="col-span-2">
           <ConflictNotice base={base} current={conflict} labels={ALL_LABELS} busy={m.isPending}
             onUseTheirs={() => { setBase(conflict); setD(toDraft(conflict)); m.reset(); }}
             onApplyMine={() => { setBase(conflict); save(conflict.version); }} />
         </div>
       )}
-      {m.isError && !conflict && <p role="alert" className="col-span-2 text-sm text-flare-300 sm:col-span-4">{m.error.message}</p>}
-      {m.isSuccess && <p role="status" className="col-span-2 text-sm text-kelp-300 sm:col-span-4">Nameplate saved.</p>}
-      <div className="col-span-2 sm:col-span-4"><Button type="submit" disabled={m.isPending}>Save nameplate</Button></div>
+      {m.isError && !conflict && <p role="alert" className="col-span-2 text-sm text-flare-300">{m.error.message}</p>}
+      {m.isSuccess && <p role="status" className="col-span-2 text-sm text-kelp-300">Nameplate saved.</p>}
+      <div className="col-span-2"><Button type="submit" disabled={m.isPending}>Save nameplate</Button></div>
     </form>
   );
 }

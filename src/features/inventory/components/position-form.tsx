@@ -38,7 +38,7 @@ export function PositionForm({ siteId, boardId, position, sections, onDone }: {
   }
   const submit = (e: FormEvent) => { e.preventDefault(); save(); };
   return (
-    <form onSubmit={submit} aria-label={base ? `Position ${base.designation}` : "Add one position"} className="grid grid-cols-2 gap-3 sm:grid-cols-4">
+    <form onSubmit={submit} aria-label={base ? `Position ${base.designation}` : "Add one position"} className="grid grid-cols-2 gap-3">
       <TextField label={LABELS.designation} className="[&_input]:font-mono" required {...bind("designation")} />
       <SelectField label={LABELS.kind} {...bind("kind")}>{COMPONENT_KINDS.map((k) => <option key={k} value={k}>{COMPONENT_KIND_LABELS[k]}</option>)}</SelectField>
       <TextField label={LABELS.gridRow} inputMode="numeric" {...bind("gridRow")} />
@@ -51,22 +51,22 @@ export function PositionForm({ siteId, boardId, position, sections, onDone }: {
         {sections.map((s) => <option key={s.id} value={s.id}>{s.name}</option>)}
       </SelectField>
       {conflict && base && (
-        <div className="col-span-2 sm:col-span-4">
+        <div className="col-span-2">
           <ConflictNotice base={base} current={conflict} labels={LABELS} busy={m.update.isPending}
             onUseTheirs={() => { setBase(conflict); setD(toDraft(conflict)); m.update.reset(); }}
             onApplyMine={() => { setBase(conflict); save(conflict.version); }} />
         </div>
       )}
-      {active.isError && !conflict && <p role="alert" className="col-span-2 text-sm text-flare-300 sm:col-span-4">{active.error.message}</p>}
-      {active.isSuccess && <p role="status" className="col-span-2 text-sm text-kelp-300 sm:col-span-4">Saved.</p>}
-      <div className="col-span-2 flex flex-wrap gap-2 sm:col-span-4">
+      {active.isError && !conflict && <p role="alert" className="col-span-2 text-sm text-flare-300">{active.error.message}</p>}
+      {active.isSuccess && <p role="status" className="col-span-2 text-sm text-kelp-300">Saved.</p>}
+      <div className="col-span-2 flex flex-wrap gap-2">
         <Button type="submit" disabled={active.isPending}>{base ? "Save position" : "Add position"}</Button>
         {base && (
           <Button tone="danger" onClick={() => confirm(`Delete position ${base.designation} and its component's records?`) &&
             m.remove.mutate({ id: base.id, version: base.version }, { onSuccess: () => onDone?.(true) })}>Delete position</Button>
         )}
       </div>
-      {m.remove.isError && <p role="alert" className="col-span-2 text-sm text-flare-300 sm:col-span-4">{m.remove.error.message}</p>}
+      {m.remove.isError && <p role="alert" className="col-span-2 text-sm text-flare-300">{m.remove.error.message}</p>}
     </form>
   );
 }

@@ -3,7 +3,7 @@ import { Link } from "react-router";
 import { ErrorPanel, Loading } from "../../../components/status";
 import { COMPONENT_KIND_LABELS, CUSTODY_LABELS, HERITAGE_LABELS } from "../../../domain/vocab";
 import { usePosition } from "../api";
-import type { Component } from "../contract";
+import type { Component, PositionDetail } from "../contract";
 import { DispositionControl } from "./disposition-control";
 import { KindGlyph } from "./kind-glyph";
 import { NAMEPLATE_LABELS, nameplateFieldsFor } from "./nameplate-fields";
@@ -12,7 +12,8 @@ import { AuditHistory, CustodyTrail, InspectionSummary } from "./position-histor
 export interface PanelLinks {
   quickLog?: string;
   setup?: string;
-  defect?: string;
+  /** Built from the latest inspection, so the defect form is prefilled from the finding. */
+  defect?: (latest: PositionDetail["inspections"][number] | undefined) => string;
 }
 
 function Nameplate({ c }: { c: Component }) {
@@ -74,7 +75,7 @@ export function PositionPanel({ siteId, positionId, canDecide, links, onClose }:
         <div className="mt-3">
           <nav aria-label="Position actions" className="flex flex-wrap gap-2 text-sm">
             {links.quickLog && <Link className="inline-flex min-h-11 items-center rounded-md bg-brass-400 px-3 font-semibold text-hull-950 no-underline" to={links.quickLog}>Log inspection or move</Link>}
-            {links.defect && <Link className="inline-flex min-h-11 items-center rounded-md px-3 ring-1 ring-hull-600" to={links.defect}>Raise a defect</Link>}
+            {links.defect && <Link className="inline-flex min-h-11 items-center rounded-md px-3 ring-1 ring-hull-600" to={links.defect(d.inspections[0])}>Raise a defect</Link>}
             {links.setup && <Link className="inline-flex min-h-11 items-center rounded-md px-3 ring-1 ring-hull-600" to={links.setup}>Edit position</Link>}
           </nav>
           {d.component ? <><H>Component</H><Nameplate c={d.component} /></> : <p className="mt-3 text-fog">No component in this position.</p>}

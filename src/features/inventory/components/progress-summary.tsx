@@ -1,8 +1,8 @@
 import { Link } from "react-router";
 import { ErrorPanel, Loading } from "../../../components/status";
-import { CUSTODY, CUSTODY_LABELS, DISPOSITION_LABELS, DISPOSITIONS } from "../../../domain/vocab";
+import { CUSTODY, CUSTODY_LABELS, DISPOSITION_LABELS, DISPOSITIONS, WATER_TYPE_LABELS } from "../../../domain/vocab";
 import { GRADE_KEYS } from "../../../schemas/inventory";
-import { useOverview } from "../api";
+import { useFloodEvents, useOverview } from "../api";
 import { custodyPattern, DISPOSITION_STYLE, gradeBar } from "./tile-style";
 
 const pct = (n: number, of: number) => (of ? Math.round((n / of) * 100) : 0);
@@ -10,8 +10,8 @@ const pct = (n: number, of: number) => (of ? Math.round((n / of) * 100) : 0);
 /** One labelled bar: the number is always written out; the bar only repeats it. */
 function Bar({ label, n, of, fill, style, stacked }: { label: React.ReactNode; n: number; of: number; fill: string; style?: React.CSSProperties; stacked?: boolean }) {
   return (
-    <li className={`grid items-center gap-x-2 text-sm ${stacked ? "grid-cols-[1fr_4.5rem]" : "grid-cols-[minmax(7rem,10rem)_1fr_4.5rem]"}`}>
-      <span className={stacked ? "col-span-2" : "truncate"}>{label}</span>
+    <li className={`grid items-center gap-x-2 text-sm ${stacked ? "grid-cols-[1fr_4.5rem]" : "grid-cols-[1fr_4.5rem] sm:grid-cols-[minmax(7rem,10rem)_1fr_4.5rem]"}`}>
+      <span className={stacked ? "col-span-2" : "col-span-2 truncate sm:col-span-1"}>{label}</span>
       <span className="h-3 overflow-hidden rounded-full bg-hull-700" aria-hidden="true">
         <span className={`block h-full rounded-full ${fill}`} style={{ width: `${pct(n, of)}%`, ...style }} />
       </span>
@@ -29,8 +29,23 @@ function Card({ title, children }: { title: string; children: React.ReactNode })
   );
 }
 
+/** The flood that drives the recommendations, in one line, with a link to record or correct it. */
+function FloodLine({ siteId, floodHref }: { siteId: string; floodHref?: string }) {
+  const q = useFloodEvents(siteId);
+  const e = q.data?.[0];
+  if (q.isPending) return null;
+  return (
+    <p className="rounded-md bg-hull-850 px-3 py-2 text-sm ring-1 ring-hull-700">
+      <span aria-hidden="true" className="text-tide-300">≈ </span>
+      {e ? <>Flood of {e.occurredOn}: <strong>{WATER_TYPE_LABELS[e.waterType]}</strong>{e.maxDepthM != null && `, up to ${e.maxDepthM} m`}{e.hoursSubmerged != null && `, about ${e.hoursSubmerged} h submerged`}. It drives every recommended disposition.</>
+        : <>No flood event recorded: recommendations wait for it.</>}
+      {floodHref && <> <Link to={floodHref} className="underline">{e ? "Correct it" : "Record the flood"}</Link></>}
+    </p>
+  );
+}
+
 /** Survey progress of the whole site at a glance, for every role. */
-export function ProgressSummary({ siteId, boardHref }: { siteId: string; boardHref: (boardId: string) => string }) {
+export function ProgressSummary({ siteId, boardHref, floodHref }: { siteId: string; boardHref: (boardId: string) => string; floodHref?: string }) {
   const q = useOverview(siteId);
   if (q.isPending) return <Loading what="Counting the positions" />;
   if (q.isError) return <ErrorPanel error={q.error} />;
@@ -39,6 +54,7 @@ export function ProgressSummary({ siteId, boardHref }: { siteId: string; boardHr
   return (
     <section aria-labelledby="progress-title" className="space-y-3" data-testid="progress-summary">
       <h2 id="progress-title" className="text-xl font-bold">Survey progress</h2>
+      <FloodLine siteId={siteId} floodHref={floodHref} />
       <div className="grid gap-3 sm:grid-cols-3">
         <div className="rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
           <p className="text-sm text-mist">Positions surveyed</p>

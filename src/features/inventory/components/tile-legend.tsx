@@ -12,7 +12,7 @@ export function TileLegend() {
     <details className="rounded-lg bg-hull-850 p-3 text-sm ring-1 ring-hull-700" open>
       <summary className="min-h-8 cursor-pointer font-semibold">How to read a tile</summary>
       <div className="mt-2 grid gap-4 sm:grid-cols-2 lg:grid-cols-4">
-        <section aria-label="Rust grade">
+        <section>
           <h3 className="text-xs font-semibold uppercase tracking-wide text-fog">Rust grade (ASTM D610)</h3>
           <ul className="mt-1 space-y-1">
             {GRADE_BANDS.map((b) => (
@@ -23,7 +23,7 @@ export function TileLegend() {
             <li className="flex items-center gap-2"><span className="rounded bg-hull-700 px-1 font-mono text-xs font-bold text-mist">G –</span>Not graded yet</li>
           </ul>
         </section>
-        <section aria-label="Disposition">
+        <section>
           <h3 className="text-xs font-semibold uppercase tracking-wide text-fog">Disposition</h3>
           <ul className="mt-1 space-y-1">
             {DISPOSITIONS.map((d) => (
@@ -40,7 +40,7 @@ export function TileLegend() {
             </li>
           </ul>
         </section>
-        <section aria-label="Custody">
+        <section>
           <h3 className="text-xs font-semibold uppercase tracking-wide text-fog">Where the part is</h3>
           <ul className="mt-1 space-y-1">
             <li className="flex items-center gap-2"><Swatch />In place (no pattern)</li>
@@ -50,7 +50,7 @@ export function TileLegend() {
             <li className="flex items-center gap-2"><Swatch style={custodyPattern("missing")} className="outline-2 outline-dashed outline-fog" />Dotted, dashed edge: missing</li>
           </ul>
         </section>
-        <section aria-label="Kinds and badges">
+        <section>
           <h3 className="text-xs font-semibold uppercase tracking-wide text-fog">Kinds and badges</h3>
           <ul className="mt-1 grid grid-cols-2 gap-x-2 gap-y-0.5">
             {COMPONENT_KINDS.map((k) => (
