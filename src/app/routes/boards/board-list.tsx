@@ -3,6 +3,7 @@ import { EmptyState, ErrorPanel, Loading } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { EARTHING_LABELS } from "../../../domain/vocab";
 import { inventoryCsvHref, useBoards } from "../../../features/inventory/api";
+import { BoardThumbnail } from "../../../features/inventory/components/board-thumbnail";
 import { canCurate } from "../../../features/inventory/roles";
 import { useSiteContext } from "../sites/site-layout";
 
@@ -36,6 +37,8 @@ export default function BoardListPage() {
           <li key={b.id} className="rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
             <Link to={paths.board.href(site.id, b.id)} className="text-lg font-bold text-chalk">{b.name}</Link>
             <p className="text-sm text-mist">{[b.location, `${b.nominalVolts} V`, `${b.phases}-phase`, `${b.frequencyHz} Hz`, EARTHING_LABELS[b.earthing], b.yearBuilt && `built ${b.yearBuilt}`].filter(Boolean).join(" · ")}</p>
+            <div className="mt-3"><BoardThumbnail siteId={site.id} boardId={b.id} /></div>
+            <p className="mt-1 text-xs text-fog">{b.waterLineMm != null ? `Flood line at ${b.waterLineMm} mm of the ${b.faceHeightMm ?? "?"} mm face` : "The water did not reach this face"} · cells filled by rust grade, hatched when the part is out</p>
             <p className="mt-3 text-sm"><span className="font-mono font-bold">{b.surveyedCount}</span> of <span className="font-mono">{b.positionCount}</span> positions surveyed ({pct(b.surveyedCount, b.positionCount)}%)</p>
             <div className="mt-1 h-2 rounded-full bg-hull-700" aria-hidden="true"><div className="h-2 rounded-full bg-brass-400" style={{ width: `${pct(b.surveyedCount, b.positionCount)}%` }} /></div>
             {canCurate(role) && <Link to={paths.boardSetup.href(site.id, b.id)} className="mt-3 inline-flex min-h-11 items-center text-sm">Set up</Link>}
