@@ -71,7 +71,7 @@ export function createApp(deps: AppDeps) {
   api.use(passwordResetRoutes(mail, lucia));
   api.use(notificationRoutes(db));
   api.use(mailboxRoutes(deps.mailbox));
-  api.use(defectRoutes(db));
+  api.use(defectRoutes(db, mail));
   api.use(partsRoutes(db, photoStorage));
   api.use((_req, _res, next) => next(new AppError(404, "not_found", "No such API route.")));
   api.use(errorHandler);

@@ -5,6 +5,8 @@ import {
   assignBody, bulkBody, createDefectBody, listQuery, patchDefectBody, pinBody, transitionBody, unpinBody, viewBody,
 } from "../../src/schemas/defects";
 import type { Db } from "../db";
+import type { MailDeps } from "../mail/mailer";
+import { notifyDefectAssigned, notifyAwaitingVerification } from "../notifications/service";
 import { requireSiteRole } from "../middleware/roles";
 import { streamCsv } from "./csv";
 import { listPage } from "./list-query";
@@ -22,11 +24,27 @@ const boardParams = site.extend({ boardId: z.uuid() });
 const ctxOf = (req: Request, res: Response): service.Ctx => ({
   siteId: site.parse(req.params).siteId,
   actor: { id: res.locals.user!.id, role: res.locals.siteRole as Role | "admin" },
+  notices: [],
 });
 /** The client's calendar day (for "overdue"), else the server's in UTC. */
 const todayOf = (q: { today?: string }) => q.today ?? new Date().toISOString().slice(0, 10);
 
-export function defectRoutes(db: Db) {
+/**
+ * E-mails what a committed change asked for, after the answer has gone out: a slow or
+ * failing mail server never delays or undoes the change (the notifier logs failures).
+ */
+function sendNotices(mail: MailDeps | undefined, ctx: service.Ctx) {
+  if (!mail || !ctx.notices?.length) return;
+  const notices = ctx.notices;
+  void (async () => {
+    for (const n of notices) {
+      const p = { defectId: n.defectId, actorId: ctx.actor.id };
+      await (n.kind === "assigned" ? notifyDefectAssigned(mail, p) : notifyAwaitingVerification(mail, p));
+    }
+  })().catch((e) => console.error("[defects] notification failed:", e));
+}
+
+export function defectRoutes(db: Db, mail?: MailDeps) {
   const r = Router();
   const base = "/sites/:siteId/defects";
   const member = requireSiteRole(db);
@@ -81,12 +99,16 @@ export function defectRoutes(db: Db) {
   });
 
   r.post(`${base}/bulk`, curator, async (req, res) => {
-    res.json(await service.bulk(db, ctxOf(req, res), bulkBody.parse(req.body)));
+    const ctx = ctxOf(req, res);
+    res.json(await service.bulk(db, ctx, bulkBody.parse(req.body)));
+    sendNotices(mail, ctx);
   });
 
   r.post(base, raisers, async (req, res) => {
-    const row = await service.createDefect(db, ctxOf(req, res), createDefectBody.parse(req.body));
+    const ctx = ctxOf(req, res);
+    const row = await service.createDefect(db, ctx, createDefectBody.parse(req.body));
     res.status(201).json({ defect: toJson(row) });
+    sendNotices(mail, ctx);
   });
 
   r.get(`${base}/:defectId`, member, async (req, res) => {
@@ -94,18 +116,24 @@ export function defectRoutes(db: Db) {
   });
 
   r.patch(`${base}/:defectId`, raisers, async (req, res) => {
-    const row = await service.patchDefect(db, ctxOf(req, res), one.parse(req.params).defectId, patchDefectBody.parse(req.body));
+    const ctx = ctxOf(req, res);
+    const row = await service.patchDefect(db, ctx, one.parse(req.params).defectId, patchDefectBody.parse(req.body));
     res.json({ defect: toJson(row) });
+    sendNotices(mail, ctx);
   });
 
   r.post(`${base}/:defectId/status`, raisers, async (req, res) => {
-    const row = await service.moveDefect(db, ctxOf(req, res), one.parse(req.params).defectId, transitionBody.parse(req.body));
+    const ctx = ctxOf(req, res);
+    const row = await service.moveDefect(db, ctx, one.parse(req.params).defectId, transitionBody.parse(req.body));
     res.json({ defect: toJson(row) });
+    sendNotices(mail, ctx);
   });
 
   r.post(`${base}/:defectId/assignee`, curator, async (req, res) => {
-    const row = await service.assignDefect(db, ctxOf(req, res), one.parse(req.params).defectId, assignBody.parse(req.body));
+    const ctx = ctxOf(req, res);
+    const row = await service.assignDefect(db, ctx, one.parse(req.params).defectId, assignBody.parse(req.body));
     res.json({ defect: toJson(row) });
+    sendNotices(mail, ctx);
   });
 
   r.put(`${base}/:defectId/pin`, curator, async (req, res) => {

@@ -15,6 +15,12 @@ import * as repo from "./repository";
 export interface Ctx {
   siteId: string;
   actor: Actor;
+  /** Filled by assign() and transition(); the route sends them once the transaction has committed. */
+  notices?: DefectNotice[];
+}
+export interface DefectNotice {
+  kind: "assigned" | "awaiting_verification";
+  defectId: string;
 }
 type Locked = NonNullable<Awaited<ReturnType<typeof repo.lockDefect>>>;
 
@@ -126,6 +132,7 @@ export async function assign(trx: Db, ctx: Ctx, d: Locked, assigneeId: string | 
   const ok = await repo.updateDefect(trx, d.id, d.version, { assigneeId });
   if (!ok) throw conflict("Someone changed this defect at the same moment.", await current(trx, ctx.siteId, d.id));
   await recordAudit(trx, { siteId: ctx.siteId, entityType: "defect", entityId: d.id, action: "assign", actorId: ctx.actor.id, boardId: d.boardId, positionId: d.positionId, before: { assigneeId: d.assigneeId }, after: { assigneeId } });
+  if (assigneeId) ctx.notices?.push({ kind: "assigned", defectId: d.id });
   return d.version + 1;
 }
 
@@ -147,6 +154,7 @@ export async function transition(trx: Db, ctx: Ctx, d: Locked, to: DefectStatus,
   if (!ok) throw conflict("Someone changed this defect at the same moment.", await current(trx, ctx.siteId, d.id));
   await repo.insertStatusChange(trx, { siteId: ctx.siteId, defectId: d.id, fromStatus: d.status, toStatus: to, reason, actorId: ctx.actor.id });
   await recordAudit(trx, { siteId: ctx.siteId, entityType: "defect", entityId: d.id, action: "status", actorId: ctx.actor.id, boardId: d.boardId, positionId: d.positionId, before: { status: d.status }, after: { status: to, reason, ...r.set } });
+  if (to === "awaiting_verification") ctx.notices?.push({ kind: "awaiting_verification", defectId: d.id });
   return d.version + 1;
 }
 
