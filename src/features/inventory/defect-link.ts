@@ -1,3 +1,4 @@
+import { paths } from "../../config/paths";
 import type { DefectCategory, DefectSeverity } from "../../domain/vocab";
 import type { Inspection } from "./contract";
 
@@ -25,5 +26,5 @@ export function defectHref(siteId: string, p: {
   if (p.inspection) u.set("inspectionId", p.inspection.id);
   const s = suggestDefect(p.inspection);
   if (s) { u.set("category", s.category); u.set("severity", s.severity); }
-  return `/sites/${siteId}/defects/new?${u.toString()}`;
+  return paths.defectNew.href(siteId, Object.fromEntries(u));
 }

@@ -10,6 +10,8 @@ import { PositionPanel } from "../../../features/inventory/components/position-p
 import { TileLegend } from "../../../features/inventory/components/tile-legend";
 import { defectHref } from "../../../features/inventory/defect-link";
 import { canCurate, canLog } from "../../../features/inventory/roles";
+import { PositionPhotos } from "../../../features/photos/components/position-photos";
+import { LatestGroundCheck } from "../../../features/readings/components/latest-ground-check";
 import { useSiteContext } from "../sites/site-layout";
 
 export default function BoardElevationPage() {
@@ -57,13 +59,23 @@ export default function BoardElevationPage() {
         <BoardElevation board={board} tiles={positions} filters={filters} selectedId={selected} onOpen={(t) => select(t.id)} />
       )}
       <TileLegend />
+      <div className="grid gap-4 md:grid-cols-[1fr_auto] md:items-start">
+        <LatestGroundCheck siteId={site.id} boardId={board.id} />
+        <nav aria-label="More about this board" className="flex flex-col gap-2 text-sm">
+          <Link className="inline-flex min-h-11 items-center rounded-md px-4 ring-1 ring-hull-600" to={paths.readingsBoard.href(site.id, board.id)}>Test readings of this board</Link>
+          <Link className="inline-flex min-h-11 items-center rounded-md px-4 ring-1 ring-hull-600" to={paths.photoGallery.href(site.id, { boardId: board.id })}>Photos of this board</Link>
+          <Link className="inline-flex min-h-11 items-center rounded-md px-4 ring-1 ring-hull-600" to={paths.defects.href(site.id, `board=${board.id}`)}>Defects on this board</Link>
+        </nav>
+      </div>
       {selected && (
         <PositionPanel
           siteId={site.id}
           positionId={selected}
           canDecide={canCurate(role)}
           onClose={close}
+          photos={<PositionPhotos siteId={site.id} positionId={selected} />}
           links={{
+            readings: (componentId) => paths.readingsComponent.href(site.id, componentId),
             quickLog: canLog(role) ? paths.quickLog.href(site.id, selected) : undefined,
             setup: canCurate(role) ? paths.boardSetup.href(site.id, board.id, selected) : undefined,
             defect: role !== "viewer"

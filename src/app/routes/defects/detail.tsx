@@ -50,7 +50,7 @@ export default function DefectPage() {
           <dl className="mt-2 grid grid-cols-[8rem_1fr] gap-x-3 gap-y-1 text-sm">
             {facts.map(([k, v]) => <div key={k} className="contents"><dt className="text-mist">{k}</dt><dd>{v}</dd></div>)}
             <dt className="text-mist">Photos</dt>
-            <dd>{detail.photoCount} attached{d.positionId && <> · <a className="underline" href={`/sites/${site.id}/positions/${d.positionId}`}>position {d.designation} and its photos</a></>}</dd>
+            <dd>{detail.photoCount} attached{d.positionId && <> · <Link className="underline" to={paths.board.href(site.id, d.boardId, d.positionId)}>position {d.designation} and its photos</Link></>}</dd>
           </dl>
         </section>
         <WhyItRanks siteId={site.id} detail={detail} />

@@ -1,6 +1,6 @@
 import { NavLink, Outlet, useOutletContext, useParams } from "react-router";
 import { ErrorPanel, Loading } from "../../../components/status";
-import { visibleNav } from "../../../config/nav";
+import { phoneNav, visibleNav } from "../../../config/nav";
 import type { SiteSummary } from "../../../schemas/sites";
 import { useSite } from "../../../features/sites/api";
 
@@ -19,6 +19,7 @@ export default function SiteLayout() {
   if (site.isPending) return <Loading what="Opening the site" />;
   if (site.isError) return <main className="p-4"><ErrorPanel error={site.error} /></main>;
   const nav = visibleNav(site.data.role);
+  const phone = phoneNav(site.data.role);
   return (
     <>
       <div className="no-print border-b border-hull-700 bg-hull-900/60 px-4">
@@ -36,16 +37,16 @@ export default function SiteLayout() {
         aria-label="Site (phone)"
         className="no-print fixed inset-x-0 bottom-0 z-30 flex justify-around border-t border-hull-700 bg-hull-900 px-1 py-1 md:hidden"
       >
-        {nav.filter((n) => n.phone).map((n) => (
+        {phone.bar.map((n) => (
           <NavLink key={n.label} to={n.href(siteId)} end className={tab}>
             {n.label}
           </NavLink>
         ))}
-        {nav.some((n) => !n.phone) && (
+        {phone.more.length > 0 && (
           <details className="relative">
             <summary className="cursor-pointer list-none rounded-md px-3 py-2 text-sm font-semibold text-mist">More</summary>
             <div className="absolute bottom-12 right-0 flex w-48 flex-col rounded-md bg-hull-800 p-1 ring-1 ring-hull-600">
-              {nav.filter((n) => !n.phone).map((n) => (
+              {phone.more.map((n) => (
                 <NavLink key={n.label} to={n.href(siteId)} end className={tab}>
                   {n.label}
                 </NavLink>

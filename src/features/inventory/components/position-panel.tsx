@@ -1,3 +1,4 @@
+import type { ReactNode } from "react";
 import { useEffect, useRef } from "react";
 import { Link } from "react-router";
 import { ErrorPanel, Loading } from "../../../components/status";
@@ -14,6 +15,8 @@ export interface PanelLinks {
   setup?: string;
   /** Built from the latest inspection, so the defect form is prefilled from the finding. */
   defect?: (latest: PositionDetail["inspections"][number] | undefined) => string;
+  /** The component's test readings (built from its id once the panel knows it). */
+  readings?: (componentId: string) => string;
 }
 
 function Nameplate({ c }: { c: Component }) {
@@ -35,12 +38,14 @@ function Nameplate({ c }: { c: Component }) {
 const H = ({ children }: { children: React.ReactNode }) => <h3 className="mt-5 text-base font-bold">{children}</h3>;
 
 /** Side panel (a full-height drawer on a phone) with everything about one position. */
-export function PositionPanel({ siteId, positionId, canDecide, links, onClose }: {
+export function PositionPanel({ siteId, positionId, canDecide, links, onClose, photos }: {
   siteId: string;
   positionId: string;
   canDecide: boolean;
   links: PanelLinks;
   onClose: () => void;
+  /** The position's photo strip, composed in by the route (features do not import each other). */
+  photos?: ReactNode;
 }) {
   const q = usePosition(siteId, positionId);
   const closeRef = useRef<HTMLButtonElement>(null);
@@ -76,9 +81,11 @@ export function PositionPanel({ siteId, positionId, canDecide, links, onClose }:
           <nav aria-label="Position actions" className="flex flex-wrap gap-2 text-sm">
             {links.quickLog && <Link className="inline-flex min-h-11 items-center rounded-md bg-brass-400 px-3 font-semibold text-hull-950 no-underline" to={links.quickLog}>Log inspection or move</Link>}
             {links.defect && <Link className="inline-flex min-h-11 items-center rounded-md px-3 ring-1 ring-hull-600" to={links.defect(d.inspections[0])}>Raise a defect</Link>}
+            {links.readings && d.component && <Link className="inline-flex min-h-11 items-center rounded-md px-3 ring-1 ring-hull-600" to={links.readings(d.component.id)}>Test readings</Link>}
             {links.setup && <Link className="inline-flex min-h-11 items-center rounded-md px-3 ring-1 ring-hull-600" to={links.setup}>Edit position</Link>}
           </nav>
           {d.component ? <><H>Component</H><Nameplate c={d.component} /></> : <p className="mt-3 text-fog">No component in this position.</p>}
+          {photos && <div className="mt-4">{photos}</div>}
           <H>Latest inspection</H>
           {d.inspections[0] ? <InspectionSummary i={d.inspections[0]} /> : <p className="text-sm text-fog">Not surveyed yet.</p>}
           <H>Custody</H>
