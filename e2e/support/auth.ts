@@ -10,4 +10,6 @@ export async function signIn(page: Page, role: "admin" | "curator" | "volunteer"
   await page.getByLabel("Password").fill(DEMO_PASSWORD);
   await page.getByRole("button", { name: "Sign in" }).click();
   await expect(page.getByRole("button", { name: "Sign out" })).toBeVisible();
+  // The start page redirects on: wait for the landing page, so page.url() is the site's.
+  await page.waitForURL(role === "admin" ? /\/sites$/ : /\/sites\/[0-9a-f-]{36}/);
 }
