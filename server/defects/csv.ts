@@ -1,6 +1,6 @@
 import type { Response } from "express";
 import { CompiledQuery, sql } from "kysely";
-import Papa from "papaparse";
+import { BOM, csvLines, guardCell } from "../csv";
 import type { Db } from "../db";
 import { DEFECT_CATEGORY_LABELS, DEFECT_SEVERITY_LABELS, DEFECT_STATUS_LABELS } from "../../src/domain/vocab";
 import { PARTS_STATE_LABELS, type ListQuery } from "../../src/schemas/defects";
@@ -13,11 +13,6 @@ const HEADER = [
   "Pinned", "Raised", "Updated", "Description",
 ];
 
-/**
- * CSV-injection guard (STACK.md 'Spreadsheets', the OWASP advice): a text cell that a
- * spreadsheet would read as a formula gets a leading single quote. Numbers stay numbers.
- */
-export const guardCell = (v: string) => (/^[=+\-@\t\r]/.test(v) ? `'${v}` : v);
 const yn = (b: boolean) => (b ? "yes" : "no");
 
 export function csvRecord(r: RegisterRow): Array<string | number> {
@@ -55,11 +50,11 @@ export async function streamCsv(db: Db, siteId: string, f: ListQuery, today: str
     // Plan the cursor for all its rows, not for the first tenth (cursor_tuple_fraction).
     await sql`SET LOCAL cursor_tuple_fraction = 1.0`.execute(trx);
     await trx.executeQuery(CompiledQuery.raw(`DECLARE defects_csv NO SCROLL CURSOR FOR ${compiled.sql}`, [...compiled.parameters]));
-    await write("\uFEFF" + Papa.unparse([HEADER], { newline: "\r\n" }) + "\r\n");
+    await write(BOM + csvLines([HEADER]));
     while (!closed) {
       const batch = await sql<RegisterRow>`FETCH ${sql.raw(String(BATCH))} FROM defects_csv`.execute(trx);
       if (!batch.rows.length) break;
-      await write(Papa.unparse(batch.rows.map(csvRecord), { newline: "\r\n" }) + "\r\n");
+      await write(csvLines(batch.rows.map(csvRecord)));
       if (batch.rows.length < BATCH) break;
     }
     await sql`CLOSE defects_csv`.execute(trx);

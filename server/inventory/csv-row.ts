@@ -1,19 +1,12 @@
 /**
  * One inventory spreadsheet row: cells are text, so empty means "not given", numbers are
  * parsed here, and kind / heritage accept the stored key or the label shown on screen.
- * Also the CSV-injection guard (a leading quote before = + - @ tab CR) and its reverse.
  */
 import { z } from "zod";
+import { RISKY, unguardCell } from "../csv";
 import { COMPONENT_KINDS, COMPONENT_KIND_LABELS, COMPONENT_KIND_SHORT, HERITAGE, HERITAGE_LABELS } from "../../src/domain/vocab";
 
-/**
- * Cells a spreadsheet would run as a formula (OWASP CSV injection advice). The export hands
- * this to papaparse's escapeFormulae, which prefixes a single quote; papaparse's own default
- * pattern stops at a line break, so a multi-line "=…" cell would slip through it.
- */
-export const RISKY = /^[=+\-@\t\r]/;
-/** Undoes the export's guard on import, so an exported file reads back as it was. */
-export const unguardCell = (v: string) => (v.length > 1 && v[0] === "'" && RISKY.test(v.slice(1)) ? v.slice(1) : v);
+export { RISKY, unguardCell };
 
 const blank = (v: unknown) => v === undefined || v === null || (typeof v === "string" && v.trim() === "");
 const optText = (max: number) => z.preprocess((v) => (blank(v) ? "" : String(v).trim()), z.string().max(max, { message: `At most ${max} characters` }));

@@ -1,5 +1,5 @@
-/** The wanted list as CSV: RFC 4180 (papaparse, CRLF, quoted where needed), UTF-8 with a BOM. */
-import Papa from "papaparse";
+/** The wanted list as CSV (server/csv.ts: RFC 4180, UTF-8 with a BOM, formula guard). */
+import { BOM, csvLines, guardCell } from "../csv";
 import { COMPONENT_KIND_LABELS, HERITAGE_RULE_LABELS, PART_STATUS_LABELS } from "../../src/domain/vocab";
 import type { PartLine } from "../../src/schemas/parts";
 
@@ -7,14 +7,6 @@ export const CSV_COLUMNS = [
   "Line", "Status", "Heritage rule", "Kind", "Rating (A)", "Poles", "Voltage (V)", "Frame", "Mounting", "Maker", "Model",
   "Part wanted", "Qty", "Positions", "Leads", "Est. unit cost", "Estimated", "Spent", "Notes",
 ] as const;
-
-/**
- * CSV-injection guard (OWASP "CSV Injection"): a text cell starting with = + - @, tab or
- * carriage return gets a leading apostrophe so a spreadsheet shows it as text, not a formula.
- */
-export function guardCell(v: string): string {
-  return /^[=+\-@\t\r]/.test(v) ? `'${v}` : v;
-}
 
 const num = (v: number | null) => (v == null ? "" : String(v));
 
@@ -28,5 +20,5 @@ export function csvRow(l: PartLine): string[] {
 }
 
 export function toCsv(lines: PartLine[]): string {
-  return "\uFEFF" + Papa.unparse({ fields: [...CSV_COLUMNS], data: lines.map(csvRow) }, { newline: "\r\n", quotes: false }) + "\r\n";
+  return BOM + csvLines([[...CSV_COLUMNS], ...lines.map(csvRow)]);
 }
