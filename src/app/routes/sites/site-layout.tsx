@@ -10,6 +10,10 @@ export interface SiteContext {
 }
 export const useSiteContext = () => useOutletContext<SiteContext>();
 
+/** Phone bar: five equal cells (four pages and More) that fit 320 px, each at least 44 px tall. */
+const phoneTab = ({ isActive }: { isActive: boolean }) =>
+  `flex min-h-11 min-w-0 flex-1 items-center justify-center rounded-md px-1 text-center text-[0.8rem] leading-tight font-semibold no-underline ${isActive ? "bg-hull-700 text-brass-300" : "text-mist hover:text-chalk"}`;
+
 const tab = ({ isActive }: { isActive: boolean }) =>
   `whitespace-nowrap rounded-md px-3 py-2 text-sm font-semibold no-underline ${isActive ? "bg-hull-700 text-brass-300" : "text-mist hover:text-chalk"}`;
 
@@ -35,16 +39,16 @@ export default function SiteLayout() {
       </div>
       <nav
         aria-label="Site (phone)"
-        className="no-print fixed inset-x-0 bottom-0 z-30 flex justify-around border-t border-hull-700 bg-hull-900 px-1 py-1 md:hidden"
+        className="no-print fixed inset-x-0 bottom-0 z-30 flex gap-1 border-t border-hull-700 bg-hull-900 px-1 py-1 md:hidden"
       >
         {phone.bar.map((n) => (
-          <NavLink key={n.label} to={n.href(siteId)} end className={tab}>
+          <NavLink key={n.label} to={n.href(siteId)} end className={phoneTab}>
             {n.label}
           </NavLink>
         ))}
         {phone.more.length > 0 && (
-          <details className="relative">
-            <summary className="cursor-pointer list-none rounded-md px-3 py-2 text-sm font-semibold text-mist">More</summary>
+          <details className="relative min-w-0 flex-1">
+            <summary className="flex min-h-11 cursor-pointer list-none items-center justify-center rounded-md px-1 text-[0.8rem] font-semibold text-mist">More</summary>
             <div className="absolute bottom-12 right-0 flex w-48 flex-col rounded-md bg-hull-800 p-1 ring-1 ring-hull-600">
               {phone.more.map((n) => (
                 <NavLink key={n.label} to={n.href(siteId)} end className={tab}>
