@@ -10,7 +10,7 @@ import { sql } from "kysely";
 import Papa from "papaparse";
 import { CSV_EXPORT_EXTRA_COLUMNS, CSV_IMPORT_COLUMNS } from "../../src/schemas/inventory";
 import type { Db } from "../db";
-import { RISKY } from "./csv-row";
+import { RISKY } from "../csv";
 
 const PAGE = 500;
 export const EXPORT_COLUMNS = [...CSV_IMPORT_COLUMNS, ...CSV_EXPORT_EXTRA_COLUMNS];

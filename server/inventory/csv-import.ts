@@ -12,7 +12,8 @@ import { sql } from "kysely";
 import { CSV_EXPORT_EXTRA_COLUMNS, CSV_IMPORT_COLUMNS, type ImportResponse, type ImportRow } from "../../src/schemas/inventory";
 import type { Db } from "../db";
 import { AppError } from "../errors";
-import { csvRowSchema, toRecord, unguardCell, type ImportRecord } from "./csv-row";
+import { unguardCell } from "../csv";
+import { csvRowSchema, toRecord, type ImportRecord } from "./csv-row";
 
 interface Parsed { line: number; cells: Record<string, string> }
 const REQUIRED = ["board", "designation", "kind", "grid_row", "grid_col"];

@@ -3,10 +3,8 @@
  * parsed here, and kind / heritage accept the stored key or the label shown on screen.
  */
 import { z } from "zod";
-import { RISKY, unguardCell } from "../csv";
 import { COMPONENT_KINDS, COMPONENT_KIND_LABELS, COMPONENT_KIND_SHORT, HERITAGE, HERITAGE_LABELS } from "../../src/domain/vocab";
 
-export { RISKY, unguardCell };
 
 const blank = (v: unknown) => v === undefined || v === null || (typeof v === "string" && v.trim() === "");
 const optText = (max: number) => z.preprocess((v) => (blank(v) ? "" : String(v).trim()), z.string().max(max, { message: `At most ${max} characters` }));
