@@ -48,6 +48,8 @@ export interface SitesTable {
   location: Generated<string>;
   description: Generated<string>;
   createdAt: Timestamp;
+  /** ISO 4217 code for the site's costs (issue 14). */
+  currency: Generated<string>;
 }
 
 export interface MembershipsTable {
@@ -173,6 +175,9 @@ export interface CustodyMovesTable {
   note: Text;
   movedBy: string | null;
   movedAt: Timestamp;
+  /** Rules of src/domain/custody-chain.ts the curator released for this move (issue 14). */
+  releasedRules: ColumnType<string[], string[] | undefined, string[]>;
+  releaseReason: Generated<string>;
 }
 
 export interface DispositionDecisionsTable {
@@ -275,6 +280,8 @@ export interface PhotosTable extends Versioned {
   componentId: string | null;
   defectId: string | null;
   inspectionId: string | null;
+  /** A custody move the photo was taken with (issue 14). */
+  custodyMoveId: Generated<string | null>;
   kind: Generated<PhotoKind>;
   caption: Text;
   originalName: Text;
@@ -330,6 +337,8 @@ export interface NotificationPrefsTable {
 
 /** A line of the parts wanted list (issue 6): one specification, its status and heritage rule. */
 export interface PartLinesTable extends Versioned {
+  /** Short per-site number a person can say (W-12); issue 14. */
+  number: Generated<number>;
   origin: "register" | "manual";
   kind: ComponentKind;
   ratingAmps: Num;
@@ -512,7 +521,20 @@ export interface ComponentReadingOverridesTable {
   updatedAt: Timestamp;
 }
 
+/** A reading that raised a defect or proves its repair (issue 14); owned by server/defects. */
+export interface DefectReadingsTable {
+  id: Generated<string>;
+  siteId: string;
+  defectId: string;
+  readingKind: "insulation" | "contact" | "thermal" | "ground";
+  readingId: string;
+  role: "raised_from" | "retest";
+  linkedBy: string | null;
+  linkedAt: Timestamp;
+}
+
 export interface Database {
+  defectReadings: DefectReadingsTable;
   users: UsersTable;
   sessions: SessionsTable;
   sites: SitesTable;

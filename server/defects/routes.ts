@@ -2,7 +2,7 @@ import { Router, type Request, type Response } from "express";
 import { z } from "zod";
 import type { Role } from "../../src/domain/vocab";
 import {
-  assignBody, bulkBody, createDefectBody, listQuery, patchDefectBody, pinBody, transitionBody, unpinBody, viewBody,
+  assignBody, bulkBody, createDefectBody, linkReadingBody, listQuery, patchDefectBody, pinBody, transitionBody, unpinBody, viewBody,
 } from "../../src/schemas/defects";
 import type { Db } from "../db";
 import type { MailDeps } from "../mail/mailer";
@@ -13,6 +13,7 @@ import { streamCsv } from "./csv";
 import { listPage } from "./list-query";
 import { pin, unpin } from "./pins";
 import { detail, repairPlan, toJson } from "./reads";
+import { defectsOfBoardReadings, evidenceOf } from "./evidence";
 import * as repo from "./repository";
 import * as service from "./service";
 import * as views from "./views";
@@ -110,6 +111,20 @@ export function defectRoutes(db: Db, mail?: MailDeps) {
     const row = await service.createDefect(db, ctx, createDefectBody.parse(req.body));
     res.status(201).json({ defect: toJson(row) });
     sendNotices(mail, ctx);
+  });
+
+  r.get(`${base}/:defectId/evidence`, member, async (req, res) => {
+    const ctx = ctxOf(req, res);
+    const d = await detail(db, ctx, one.parse(req.params).defectId);
+    res.json(await evidenceOf(db, ctx.siteId, d.defect));
+  });
+  r.post(`${base}/:defectId/readings`, raisers, async (req, res) => {
+    const ctx = ctxOf(req, res);
+    res.status(201).json(await service.addReadingLink(db, ctx, one.parse(req.params).defectId, linkReadingBody.parse(req.body)));
+  });
+  r.get("/sites/:siteId/boards/:boardId/reading-defects", member, async (req, res) => {
+    const { siteId, boardId } = boardParams.parse(req.params);
+    res.json({ links: await defectsOfBoardReadings(db, siteId, boardId) });
   });
 
   r.get(`${base}/:defectId`, member, async (req, res) => {

@@ -10,6 +10,7 @@ import { canEdit, canManage, canRaise, checkTransition, type Actor } from "../..
 import { priorityScore } from "../../src/domain/priority";
 import type { DefectStatus } from "../../src/domain/vocab";
 import type { BulkBody, CreateDefectBody, PatchDefectBody } from "../../src/schemas/defects";
+import { evidenceOf, linkReading, repairEvidence, type ReadingKind } from "./evidence";
 import * as repo from "./repository";
 
 export interface Ctx {
@@ -85,14 +86,26 @@ export async function createDefect(db: Db, ctx: Ctx, body: CreateDefectBody) {
   if ((body.assigneeId || body.dueOn) && !canManage(ctx.actor.role)) throw forbidden("Only the curator assigns defects and sets due dates.");
   return db.transaction().execute(async (trx) => {
     const links = await resolveLinks(trx, ctx.siteId, body);
-    const { assigneeId, ...rest } = body;
+    const { assigneeId, fromReading, ...rest } = body;
     const values = { ...rest, ...links, siteId: ctx.siteId, createdBy: ctx.actor.id };
     const { score } = await scoreFor(trx, ctx.siteId, { ...values, effortHours: values.effortHours });
     const { id } = await repo.insertDefect(trx, { ...values, priorityScore: score });
     await repo.insertStatusChange(trx, { siteId: ctx.siteId, defectId: id, fromStatus: null, toStatus: "raised", actorId: ctx.actor.id });
     await recordAudit(trx, { siteId: ctx.siteId, entityType: "defect", entityId: id, action: "create", actorId: ctx.actor.id, boardId: links.boardId, positionId: links.positionId, after: values });
     if (assigneeId) await assign(trx, ctx, await lockAt(trx, ctx, id), assigneeId);
+    if (fromReading) await linkReading(trx, ctx.siteId, ctx.actor.id, { id, ...links }, { readingKind: fromReading.kind, readingId: fromReading.id, role: "raised_from" });
     return (await current(trx, ctx.siteId, id))!;
+  });
+}
+
+/** Links a re-test (or origin) reading to a defect: the curator, or a volunteer who raised, holds or repaired it. */
+export async function addReadingLink(db: Db, ctx: Ctx, id: string, b: { readingKind: ReadingKind; readingId: string; role: "raised_from" | "retest" }) {
+  return db.transaction().execute(async (trx) => {
+    const d = await lockAt(trx, ctx, id);
+    const own = [d.createdBy, d.assigneeId, d.repairedBy].includes(ctx.actor.id);
+    if (!canManage(ctx.actor.role) && !(ctx.actor.role === "volunteer" && own)) throw forbidden("Only the curator, or the volunteer working on it, links readings to this defect.");
+    await linkReading(trx, ctx.siteId, ctx.actor.id, d, b);
+    return evidenceOf(trx, ctx.siteId, d);
   });
 }
 
@@ -136,11 +149,11 @@ export async function assign(trx: Db, ctx: Ctx, d: Locked, assigneeId: string | 
   return d.version + 1;
 }
 
-const TRANSITION_STATUS = { forbidden: 403, reason_required: 400, not_allowed: 409, same_person: 409, no_repairer: 409 } as const;
+const TRANSITION_STATUS = { forbidden: 403, reason_required: 400, not_allowed: 409, same_person: 409, no_repairer: 409, evidence_required: 422 } as const;
 
 /** THE status-change use case: checks the workflow rules, records history and audit. */
 export async function transition(trx: Db, ctx: Ctx, d: Locked, to: DefectStatus, opts: { reason?: string; repairedBy?: string | null } = {}) {
-  const r = checkTransition(d, to, ctx.actor, opts);
+  const r = checkTransition(d, to, ctx.actor, { ...opts, ...(to === "closed" ? { evidence: await repairEvidence(trx, ctx.siteId, d.id) } : {}) });
   if (!r.ok) throw new AppError(TRANSITION_STATUS[r.code], r.code, r.message, r.code === "reason_required" ? { reason: r.message } : undefined);
   const reason = opts.reason?.trim() ?? "";
   const patch = {

@@ -1,4 +1,4 @@
-import type { Insertable } from "kysely";
+import { sql, type Insertable } from "kysely";
 import type { CustodyMovesTable, DispositionDecisionsTable, InspectionsTable } from "../../db/types";
 import type { Db } from "../db";
 
@@ -19,7 +19,13 @@ export const insertInspection = async (db: Db, v: Insertable<InspectionsTable>) 
   return db.selectFrom("inspections as i").leftJoin("users as u", "u.id", "i.inspectorId").select(inspectionCols).where("i.id", "=", id).executeTakeFirstOrThrow();
 };
 
-const moveCols = ["m.id", "m.componentId", "m.fromState", "m.toState", "m.location", "m.note", "m.movedBy", "u.name as movedByName", "m.movedAt"] as const;
+const moveCols = ["m.id", "m.componentId", "m.fromState", "m.toState", "m.location", "m.note", "m.movedBy", "u.name as movedByName", "m.movedAt", "m.releasedRules", "m.releaseReason"] as const;
+
+/** Tags of the form T-0042 on the site, highest number first (for the next generated tag). */
+export const highestGeneratedTag = (db: Db, siteId: string) =>
+  db.selectFrom("components").select(sql<number | null>`max(substring(tag_number from ${TAG_PATTERN})::int)`.as("n"))
+    .where("siteId", "=", siteId).where("tagNumber", "~", TAG_PATTERN).executeTakeFirst();
+const TAG_PATTERN = "^T-(\\d{1,9})$";
 
 export const movesOfComponent = (db: Db, componentId: string) =>
   db.selectFrom("custodyMoves as m").leftJoin("users as u", "u.id", "m.movedBy").select(moveCols)

@@ -3,7 +3,7 @@
  * custody moves; only the curator edits nameplates and decides dispositions.
  */
 import { Router } from "express";
-import { componentParams, createInspectionBody, custodyBody, dispositionBody, patchComponentBody } from "../../src/schemas/inventory";
+import { componentParams, createInspectionBody, custodyBody, dispositionBody, patchComponentBody, siteParams } from "../../src/schemas/inventory";
 import type { Db } from "../db";
 import { requireSiteRole } from "../middleware/roles";
 import { actorOf } from "./common";
@@ -27,7 +27,14 @@ export function surveyRoutes(db: Db) {
   });
   r.post(`${C}/custody`, fieldCrew, async (req, res) => {
     const { siteId, componentId } = componentParams.parse(req.params);
-    res.status(201).json(await service.moveCustody(db, siteId, componentId, actorOf(res), custodyBody.parse(req.body)));
+    res.status(201).json(await service.moveCustody(db, siteId, componentId, { id: actorOf(res), role: res.locals.siteRole ?? "viewer" }, custodyBody.parse(req.body)));
+  });
+  r.get(`${C}/custody-options`, fieldCrew, async (req, res) => {
+    const { siteId, componentId } = componentParams.parse(req.params);
+    res.json(await service.custodyOptions(db, siteId, componentId));
+  });
+  r.get("/sites/:siteId/tags/next", fieldCrew, async (req, res) => {
+    res.json(await service.nextTag(db, siteParams.parse(req.params).siteId));
   });
   r.get(`${C}/recommendation`, anyMember, async (req, res) => {
     const { siteId, componentId } = componentParams.parse(req.params);

@@ -9,6 +9,9 @@ import { UNIQUE, defined, mapUnique, requireOwned, stale, updateVersioned } from
 import { recommendFor } from "./recommendation";
 import * as repo from "./survey-repository";
 import * as positions from "./positions-repository";
+import * as readings from "../readings/service";
+import { CUSTODY, type ComponentKind, type Custody as CustodyState, type Disposition, type Role } from "../../src/domain/vocab";
+import { READING_REQUIRED_KINDS, checkCustodyMove, proposeNext, type CustodyFacts } from "../../src/domain/custody-chain";
 
 type Inspect = z.output<typeof createInspectionBody>;
 type Custody = z.output<typeof custodyBody>;
@@ -49,22 +52,68 @@ export async function createInspection(db: Db, siteId: string, componentId: stri
 
 const DEFAULT_LOCATION: Record<string, string> = { in_place: "In its position", refitted: "In its position" };
 
-export async function moveCustody(db: Db, siteId: string, componentId: string, actorId: string, b: Custody) {
+/** What src/domain/custody-chain.ts needs to judge a move of this component. */
+async function custodyFacts(trx: Db, siteId: string, c: { id: string; kind: ComponentKind; custody: CustodyState; disposition: Disposition | null; tagNumber: string | null }, tagNumber?: string): Promise<CustodyFacts> {
+  const [inspection, reading] = await Promise.all([
+    repo.latestInspection(trx, c.id),
+    READING_REQUIRED_KINDS.has(c.kind) ? readings.listInsulation(trx, siteId, { componentId: c.id, limit: 1 }) : Promise.resolve([]),
+  ]);
+  return {
+    from: c.custody, kind: c.kind, disposition: c.disposition, tagNumber: tagNumber ?? c.tagNumber,
+    latestInsulation: inspection?.insulation ?? null, latestMechanism: inspection?.mechanism ?? null, latestReading: reading[0]?.judgement.verdict ?? null,
+  };
+}
+
+/**
+ * A custody move, checked against the chain (src/domain/custody-chain.ts): a move off the
+ * chain is refused with 409, a missing proof with 422, each naming every rule it breaks.
+ * The curator (or an admin) may release the releasable ones with `releaseReason`; the move
+ * then records which rules were released and why, and the audit trail carries both.
+ */
+export async function moveCustody(db: Db, siteId: string, componentId: string, actor: { id: string; role: Role | "admin" }, b: Custody) {
+  const actorId = actor.id;
   return db.transaction().execute(async (trx) => {
     const before = await requireOwned(trx, "components", siteId, componentId, "That component", true);
     if (before.version !== b.version) throw stale("component", before);
-    if (before.custody === b.toState) throw new AppError(409, "same_state", "It is already in that custody state.", { toState: "Already there" }, before);
+    const refusals = checkCustodyMove(await custodyFacts(trx, siteId, before, b.tagNumber), b.toState);
+    const releasing = b.releaseReason !== undefined;
+    if (releasing && actor.role !== "curator" && actor.role !== "admin")
+      throw new AppError(403, "forbidden", "Only the curator releases a move the custody chain refuses.", { releaseReason: "Curator only" });
+    const blocking = refusals.filter((r) => !releasing || !r.releasable);
+    if (blocking.length) {
+      const status = blocking.some((r) => r.status === 409) ? 409 : 422;
+      const fields = blocking.some((r) => r.rule === "tag_required") ? { tagNumber: "A tag is needed to take it off" } : undefined;
+      throw new AppError(status, blocking[0].rule, blocking.map((r) => r.message).join(" "), fields, { refusals: blocking, component: before });
+    }
+    const released = releasing ? refusals.map((r) => r.rule) : [];
+    const releaseReason = released.length ? b.releaseReason! : "";
     const patch: Record<string, unknown> = { custody: b.toState, custodyLocation: b.location || DEFAULT_LOCATION[b.toState] || "" };
     if (b.tagNumber && b.tagNumber !== before.tagNumber) patch.tagNumber = b.tagNumber;
     const component = await mapUnique(() => updateVersioned(trx, "components", siteId, componentId, b.version, patch, "component"), UNIQUE.tag);
-    const move = await repo.insertMove(trx, { siteId, componentId, fromState: before.custody, toState: b.toState, location: patch.custodyLocation as string, note: b.note, movedBy: actorId });
+    const move = await repo.insertMove(trx, { siteId, componentId, fromState: before.custody, toState: b.toState, location: patch.custodyLocation as string, note: b.note, movedBy: actorId, releasedRules: released, releaseReason });
     await recordAudit(trx, {
       siteId, entityType: "component", entityId: componentId, boardId: await boardOf(trx, before.positionId), positionId: before.positionId, action: "custody", actorId,
       before: { custody: before.custody, custodyLocation: before.custodyLocation, ...(patch.tagNumber ? { tagNumber: before.tagNumber } : {}) },
-      after: { ...patch, note: b.note },
+      after: { ...patch, note: b.note, ...(released.length ? { releasedRules: released, releaseReason } : {}) },
     });
     return { component, move };
   });
+}
+
+/** What the custody form shows before a move: the rules each state would break and the proposed next move. */
+export async function custodyOptions(db: Db, siteId: string, componentId: string) {
+  const c = await requireOwned(db, "components", siteId, componentId, "That component");
+  const facts = await custodyFacts(db, siteId, c);
+  return {
+    proposed: proposeNext(facts),
+    moves: CUSTODY.filter((s) => s !== c.custody).map((to) => ({ to, refusals: checkCustodyMove(facts, to) })),
+  };
+}
+
+/** The next free generated tag on the site, T-0001 upwards (typed or scanned tags are kept as they are). */
+export async function nextTag(db: Db, siteId: string) {
+  const n = Number((await repo.highestGeneratedTag(db, siteId))?.n ?? 0) + 1;
+  return { tagNumber: `T-${String(n).padStart(4, "0")}` };
 }
 
 /**

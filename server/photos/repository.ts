@@ -6,7 +6,7 @@ import type { Db } from "../db";
 
 const cols = [
   "photos.id", "photos.siteId", "photos.boardId", "photos.positionId", "photos.componentId", "photos.defectId",
-  "photos.inspectionId", "photos.kind", "photos.caption", "photos.originalName", "photos.format", "photos.width",
+  "photos.inspectionId", "photos.custodyMoveId", "photos.kind", "photos.caption", "photos.originalName", "photos.format", "photos.width",
   "photos.height", "photos.bytes", "photos.capturedAt", "photos.cameraModel", "photos.uploadedBy", "photos.createdAt",
   "photos.version", "photos.deletedAt", "photos.originalKey", "photos.displayKey", "photos.thumbKey",
 ] as const;
@@ -30,6 +30,7 @@ export interface ListFilter {
   componentId?: string;
   defectId?: string;
   inspectionId?: string;
+  custodyMoveId?: string;
   kind?: PhotoKind;
   unassigned?: boolean;
   ids?: string[];
@@ -39,7 +40,7 @@ export interface ListFilter {
 
 export function listPhotos(db: Db, siteId: string, f: ListFilter) {
   let q = base(db).where("photos.siteId", "=", siteId).where("photos.deletedAt", "is", null);
-  for (const k of ["boardId", "positionId", "componentId", "defectId", "inspectionId", "kind"] as const)
+  for (const k of ["boardId", "positionId", "componentId", "defectId", "inspectionId", "custodyMoveId", "kind"] as const)
     if (f[k]) q = q.where(`photos.${k}`, "=", f[k] as string);
   if (f.unassigned) q = q.where("photos.positionId", "is", null).where("photos.defectId", "is", null).where("photos.inspectionId", "is", null);
   if (f.ids?.length) q = q.where("photos.id", "in", f.ids);
@@ -81,6 +82,16 @@ export const findInspectionTarget = (db: Db, siteId: string, inspectionId: strin
     .select(["inspections.id as inspectionId", "inspections.componentId", "inspections.positionId", "positions.boardId", "inspections.inspectorId"])
     .where("inspections.siteId", "=", siteId)
     .where("inspections.id", "=", inspectionId)
+    .executeTakeFirst();
+
+export const findCustodyMoveTarget = (db: Db, siteId: string, custodyMoveId: string) =>
+  db
+    .selectFrom("custodyMoves as m")
+    .innerJoin("components as c", "c.id", "m.componentId")
+    .innerJoin("positions as p", "p.id", "c.positionId")
+    .select(["m.id as custodyMoveId", "m.componentId", "c.positionId", "p.boardId", "m.movedBy"])
+    .where("m.siteId", "=", siteId)
+    .where("m.id", "=", custodyMoveId)
     .executeTakeFirst();
 
 /** Every position of the site with its current component's tag number. */

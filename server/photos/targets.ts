@@ -10,6 +10,7 @@ export interface Target {
   componentId: string | null;
   defectId: string | null;
   inspectionId: string | null;
+  custodyMoveId?: string | null;
 }
 export interface TargetIds {
   boardId?: string | null;
@@ -17,6 +18,7 @@ export interface TargetIds {
   componentId?: string | null;
   defectId?: string | null;
   inspectionId?: string | null;
+  custodyMoveId?: string | null;
 }
 
 const missing = (field: string) => new AppError(400, "unknown_target", `That ${field.replace(/Id$/, "")} is not on this site.`, { [field]: "Not on this site" });
@@ -32,6 +34,11 @@ export async function resolveTarget(db: Db, siteId: string, ids: TargetIds): Pro
     const i = await repo.findInspectionTarget(db, siteId, ids.inspectionId);
     if (!i) throw missing("inspectionId");
     Object.assign(t, { inspectionId: i.inspectionId, componentId: i.componentId, positionId: i.positionId, boardId: i.boardId });
+  }
+  if (ids.custodyMoveId) {
+    const m = await repo.findCustodyMoveTarget(db, siteId, ids.custodyMoveId);
+    if (!m) throw missing("custodyMoveId");
+    Object.assign(t, { custodyMoveId: m.custodyMoveId, componentId: t.componentId ?? m.componentId, positionId: t.positionId ?? m.positionId, boardId: t.boardId ?? m.boardId });
   }
   if (ids.defectId) {
     const d = await repo.findDefectTarget(db, siteId, ids.defectId);
@@ -58,9 +65,14 @@ export async function resolveTarget(db: Db, siteId: string, ids: TargetIds): Pro
   return t;
 }
 
-/** Photographers and curators file photos anywhere; volunteers only to their own inspections. */
+/** Photographers and curators file photos anywhere; volunteers only to their own inspections and custody moves. */
 export async function assertMayAttach(db: Db, siteId: string, user: User, role: Role | "admin", ids: TargetIds) {
   if (role === "admin" || role === "curator" || role === "photographer") return;
+  if (role === "volunteer" && ids.custodyMoveId && !ids.inspectionId) {
+    const m = await repo.findCustodyMoveTarget(db, siteId, ids.custodyMoveId);
+    if (m && m.movedBy === user.id) return;
+    throw forbidden("Volunteers may attach photos to their own inspections and custody moves only.");
+  }
   if (role === "volunteer" && ids.inspectionId) {
     const i = await repo.findInspectionTarget(db, siteId, ids.inspectionId);
     if (i && i.inspectorId === user.id) return;

@@ -49,7 +49,7 @@ export interface CustodyRefusal {
   /** 409: the move is not on the chain; 422: a proof is missing. */
   status: 409 | 422;
   message: string;
-  /** The curator can release this refusal with a written reason (never "same_state"). */
+  /** The curator can release this refusal with a written reason (never "same_state" or "tag_required"). */
   releasable: boolean;
 }
 
@@ -69,7 +69,9 @@ export function checkCustodyMove(f: CustodyFacts, to: Custody): CustodyRefusal[]
     if (to === "refitted") refuse("not_ready", 409, "A part is refitted only from “ready to refit”: make it ready first (cleaned or rebuilt, its disposition decided).");
     else refuse("off_chain", 409, `The chain does not go from “${label(f.from)}” to “${label(to)}”.${CHAIN[f.from].length ? ` Next on the chain: ${CHAIN[f.from].map(label).join(", ")}.` : ""}`);
   }
-  if (to === "removed" && !f.tagNumber?.trim()) refuse("tag_required", 422, "A part comes off only with a tag: type, scan or generate a tag number.");
+  // The tag is never released: generating one costs a tap, and the chain back depends on it.
+  if (to === "removed" && !f.tagNumber?.trim())
+    out.push({ rule: "tag_required", status: 422, message: "A part comes off only with a tag: type, scan or generate a tag number.", releasable: false });
   if ((to === "ready_to_refit" || to === "refitted") && !f.disposition)
     refuse("disposition_undecided", 422, "Its disposition is not decided yet: the curator decides clean, rebuild, replace or source first.");
   if (to === "refitted") {

@@ -79,8 +79,25 @@ export const createDefectBody = z.object({
   partsState: fields.partsState.default("none_needed"),
   assigneeId: fields.assigneeId.default(null),
   dueOn: fields.dueOn.default(null),
+  /** The failing reading this defect is raised from (issue 14); linked both ways. */
+  fromReading: z.object({ kind: z.enum(["insulation", "contact", "thermal", "ground"]), id: z.uuid() }).nullable().default(null),
 });
 export type CreateDefectBody = z.infer<typeof createDefectBody>;
+
+export const READING_KINDS = ["insulation", "contact", "thermal", "ground"] as const;
+export const linkReadingBody = z.object({ readingKind: z.enum(READING_KINDS), readingId: z.uuid(), role: z.enum(["raised_from", "retest"]).default("retest") });
+export type LinkReadingBody = z.input<typeof linkReadingBody>;
+const judged = { readingKind: z.enum(READING_KINDS), readingId: z.string(), measuredAt: z.string(), verdict: z.string(), summary: z.string() };
+export const evidenceResponse = z.object({
+  linked: z.array(z.object({ ...judged, id: z.string(), role: z.enum(["raised_from", "retest"]), linkedAt: z.string() })),
+  candidates: z.array(z.object(judged)),
+  retestsMeeting: z.number(),
+  afterPhotos: z.number(),
+});
+export type Evidence = z.infer<typeof evidenceResponse>;
+export const readingDefectsResponse = z.object({
+  links: z.array(z.object({ readingKind: z.enum(READING_KINDS), readingId: z.string(), role: z.string(), defectId: z.string(), ref: z.number(), status: z.enum(DEFECT_STATUSES), title: z.string() })),
+});
 
 export const patchDefectBody = z.object(fields).partial().extend({ version: z.number().int().min(1) }).strict();
 export type PatchDefectBody = z.infer<typeof patchDefectBody>;

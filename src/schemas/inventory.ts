@@ -230,6 +230,8 @@ export type CreateInspectionBody = z.input<typeof createInspectionBody>;
 export const custodyMoveSchema = z.object({
   id, componentId: id, fromState: z.enum(CUSTODY), toState: z.enum(CUSTODY), location: z.string(), note: z.string(),
   movedBy: id.nullable(), movedByName: z.string().nullable(), movedAt: stamp,
+  /** Rules of src/domain/custody-chain.ts the curator released for this move, and why (issue 14). */
+  releasedRules: z.array(z.string()).default([]), releaseReason: z.string().default(""),
 });
 export type CustodyMove = z.infer<typeof custodyMoveSchema>;
 /**
@@ -242,9 +244,22 @@ export const custodyBody = z.object({
   location: text(200).default(""),
   note: text(2000).default(""),
   tagNumber: text(40).min(1).optional(),
+  /** The curator's release of the chain's refusals (src/domain/custody-chain.ts), with the reason; curator only. */
+  releaseReason: text(2000).min(5, "Say why in a few words").optional(),
   version,
 });
 export type CustodyBody = z.input<typeof custodyBody>;
+/** The body of a 409/422 custody refusal's `current`: every rule the move breaks. */
+export const custodyRefusalSchema = z.object({
+  rule: z.string(), status: z.union([z.literal(409), z.literal(422)]), message: z.string(), releasable: z.boolean(),
+});
+export type CustodyRefusalDto = z.infer<typeof custodyRefusalSchema>;
+export const nextTagResponse = z.object({ tagNumber: z.string() });
+export const custodyOptionsResponse = z.object({
+  proposed: z.enum(CUSTODY).nullable(),
+  moves: z.array(z.object({ to: z.enum(CUSTODY), refusals: z.array(custodyRefusalSchema) })),
+});
+export type CustodyOptions = z.infer<typeof custodyOptionsResponse>;
 export const custodyResponse = z.object({ component: componentSchema, move: custodyMoveSchema });
 
 export const recommendationSchema = z.object({

@@ -13,6 +13,8 @@ export const uploadFields = z.object({
   componentId: id.optional(),
   defectId: id.optional(),
   inspectionId: id.optional(),
+  /** A custody move the photo goes with (issue 14: the quick log's "Move the part"). */
+  custodyMoveId: id.optional(),
 });
 export type UploadFields = z.infer<typeof uploadFields>;
 
@@ -24,6 +26,7 @@ export const photoSchema = z.object({
   componentId: z.string().nullable(),
   defectId: z.string().nullable(),
   inspectionId: z.string().nullable(),
+  custodyMoveId: z.string().nullable().default(null),
   kind: z.enum(PHOTO_KINDS),
   caption: z.string(),
   originalName: z.string(),
@@ -48,6 +51,7 @@ export const photoListQuery = z.object({
   componentId: id.optional(),
   defectId: id.optional(),
   inspectionId: id.optional(),
+  custodyMoveId: id.optional(),
   kind: z.enum(PHOTO_KINDS).optional(),
   /** Only photos not yet filed to a board or position (after a shoot). */
   unassigned: z.enum(["1", "true"]).optional(),

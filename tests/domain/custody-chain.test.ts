@@ -40,10 +40,11 @@ describe("checkCustodyMove", () => {
     expect(rules(facts, to)).toEqual(expected);
   });
 
-  it("answers 409 for a move off the chain and 422 for a missing proof; only same_state cannot be released", () => {
+  it("answers 409 for a move off the chain and 422 for a missing proof; a missing tag and same_state cannot be released", () => {
     const r = checkCustodyMove(f({ from: "in_workshop", disposition: null }), "refitted");
     expect(r.map((x) => [x.rule, x.status, x.releasable])).toEqual([["not_ready", 409, true], ["disposition_undecided", 422, true], ]);
     expect(checkCustodyMove(f({ from: "removed" }), "removed")[0]).toMatchObject({ status: 409, releasable: false });
+    expect(checkCustodyMove(f({ from: "in_place", tagNumber: null }), "removed")[0]).toMatchObject({ status: 422, releasable: false });
   });
 
   it("throws RangeError for a state outside the list", () => {

@@ -40,7 +40,7 @@ describe("checkTransition", () => {
     ["curator reopens a closed defect", d("closed", { repairedBy: VOL }), "raised", curator, undefined, true],
     ["admin acts as curator", d("raised"), "scheduled", { id: "a", role: "admin" } as Actor, undefined, true],
   ] as Array<[string, WorkflowDefect, DefectStatus, Actor, string | undefined, true | string]>)("%s", (_c, defect, to, actor, reason, expected) => {
-    const r = checkTransition(defect, to, actor, { reason });
+    const r = checkTransition(defect, to, actor, { reason, evidence: { retestsMeeting: 1, afterPhotos: 0 } });
     if (expected === true) expect(r.ok).toBe(true);
     else expect(r.ok ? "ok" : r.code).toBe(expected);
   });
@@ -56,7 +56,18 @@ describe("checkTransition", () => {
   });
 
   it("records the curator as verifier on closing", () => {
-    expect(checkTransition(d("awaiting_retest", { repairedBy: VOL }), "closed", curator)).toEqual({ ok: true, set: { verifiedBy: CUR, closed: true } });
+    expect(checkTransition(d("awaiting_retest", { repairedBy: VOL }), "closed", curator, { evidence: { retestsMeeting: 0, afterPhotos: 1 } })).toEqual({ ok: true, set: { verifiedBy: CUR, closed: true } });
+  });
+
+  // Issue 14: a repair is closed on evidence (common practice: re-test or photograph the work).
+  it.each([
+    ["no evidence at all", undefined, "evidence_required"],
+    ["a re-test that does not meet its criterion counts for nothing", { retestsMeeting: 0, afterPhotos: 0 }, "evidence_required"],
+    ["a re-test meeting its criterion", { retestsMeeting: 1, afterPhotos: 0 }, "ok"],
+    ["an after-work photo", { retestsMeeting: 0, afterPhotos: 2 }, "ok"],
+  ] as const)("closing with %s", (_c, evidence, expected) => {
+    const r = checkTransition(d("awaiting_retest", { repairedBy: VOL }), "closed", curator, { evidence });
+    expect(r.ok ? "ok" : r.code).toBe(expected);
   });
 
   it("sending a repair back clears the doer", () => {
@@ -74,6 +85,8 @@ describe("allowedTargets and canEdit", () => {
     ["curator on open", d("raised"), curator, ["scheduled", "under_repair", "deferred", "accepted_as_is"]],
     ["own volunteer on open", d("raised"), volunteer, ["under_repair"]],
     ["own volunteer awaiting verification", d("awaiting_retest"), volunteer, []],
+    ["the curator who did the repair is not offered the close (issue 14)", d("awaiting_retest", { repairedBy: CUR }), curator, ["under_repair", "deferred", "accepted_as_is"]],
+    ["another curator is", d("awaiting_retest", { repairedBy: VOL }), curator, ["closed", "under_repair", "deferred", "accepted_as_is"]],
     ["other volunteer", d("raised"), otherVolunteer, []],
     ["viewer", d("raised"), viewer, []],
   ] as Array<[string, WorkflowDefect, Actor, DefectStatus[]]>)("%s", (_c, defect, actor, expected) => {

@@ -104,6 +104,14 @@ describe("workflow", () => {
     expect(d).toMatchObject({ status: "awaiting_retest", repairedBy: fx.crew.volunteer.id });
     const self = await move(as.volunteer, d, "closed");
     expect(self.status).toBe(403);
+    // issue 14: closing asks for the evidence first
+    const bare = await move(as.curator, d, "closed");
+    expect(bare.status).toBe(422);
+    expect(bare.body.error.code).toBe("evidence_required");
+    const reading = await as.volunteer.post(`/api/sites/${fx.siteId}/boards/${d.boardId}/insulation-readings`,
+      { circuit: "Feeder 3", testVoltsDc: 1000, megohms: 500, conductors: "A-G", equipmentTempC: 20, measuredAt: "2026-11-20T09:00:00Z" });
+    expect(reading.status).toBe(201);
+    expect((await as.volunteer.post(url(`/${d.id}/readings`), { readingKind: "insulation", readingId: reading.body.reading.id, role: "retest" })).status).toBe(201);
     const closed = await move(as.curator, d, "closed");
     expect(closed.status).toBe(200);
     expect(closed.body.defect).toMatchObject({ status: "closed", verifiedBy: fx.crew.curator.id });

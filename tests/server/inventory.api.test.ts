@@ -180,7 +180,7 @@ describe("optimistic versions", () => {
 
   it("when a custody move carries a stale version, it gets 409 and no move is recorded", async () => {
     const { component } = await newPosition((await newBoard()).id);
-    expect((await as.volunteer.post(`${base}/components/${component.id}/custody`, { toState: "removed", version: 1 })).status).toBe(201);
+    expect((await as.volunteer.post(`${base}/components/${component.id}/custody`, { toState: "removed", tagNumber: "KL-9101", version: 1 })).status).toBe(201);
     const stale = await as.volunteer.post(`${base}/components/${component.id}/custody`, { toState: "in_workshop", version: 1 });
     expect(stale.status).toBe(409);
     expect(stale.body.error.current.custody).toBe("removed");
@@ -194,7 +194,7 @@ describe("history and detail", () => {
     const { position, component } = await newPosition((await newBoard()).id, { designation: "H-1" });
     await as.curator.patch(`${base}/components/${component.id}`, { maker: "Northgate Switchgear Co.", version: 1 });
     await as.volunteer.post(`${base}/components/${component.id}/inspections`, { percentRusted: 0.2 });
-    await as.volunteer.post(`${base}/components/${component.id}/custody`, { toState: "removed", version: 2 });
+    await as.volunteer.post(`${base}/components/${component.id}/custody`, { toState: "removed", tagNumber: "KL-9102", version: 2 });
     await as.curator.patch(`${base}/positions/${position.id}`, { circuit: "Steering gear", version: 1 });
     const r = await as.viewer.get(`${base}/positions/${position.id}`);
     expect(r.status).toBe(200);

@@ -1,7 +1,7 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { api, qs } from "../../lib/api-client";
 import {
-  boardDetailResponse, boardListResponse, boardSchema, componentSchema, createdPositionResponse, custodyResponse,
+  boardDetailResponse, boardListResponse, boardSchema, componentSchema, createdPositionResponse, custodyOptionsResponse, custodyResponse, nextTagResponse,
   dispositionResponse, floodEventListResponse, floodEventSchema, generatedPositionsResponse, importResponse,
   inspectionSchema, lookupResponse, overviewResponse, positionDetailResponse, positionSchema, reorderedPositionsResponse,
   sectionSchema,
@@ -19,6 +19,7 @@ export const inventoryKeys = {
   board: (siteId: string, boardId: string) => [...inventoryKeys.all(siteId), "board", boardId] as const,
   position: (siteId: string, positionId: string) => [...inventoryKeys.all(siteId), "position", positionId] as const,
   lookup: (siteId: string, q: string) => [...inventoryKeys.all(siteId), "lookup", q] as const,
+  custodyOptions: (siteId: string, componentId: string) => [...inventoryKeys.all(siteId), "custody-options", componentId] as const,
 };
 
 const base = (siteId: string) => `/api/sites/${siteId}`;
@@ -93,6 +94,15 @@ export const useUpdateComponent = (siteId: string) =>
 export const useLogInspection = (siteId: string) =>
   useInventoryMutation(siteId, ({ componentId, ...b }: CreateInspectionBody & { componentId: string }) =>
     api.send("POST", `${base(siteId)}/components/${componentId}/inspections`, b, inspectionSchema));
+
+/** The chain's verdict on every move from where the component is now, and the proposed next one. */
+export const useCustodyOptions = (siteId: string, componentId: string) =>
+  useQuery({
+    queryKey: inventoryKeys.custodyOptions(siteId, componentId),
+    queryFn: ({ signal }) => api.get(`${base(siteId)}/components/${componentId}/custody-options`, custodyOptionsResponse, signal),
+  });
+/** The next free generated tag (T-0001…), fetched when the person asks for one. */
+export const fetchNextTag = (siteId: string) => api.get(`${base(siteId)}/tags/next`, nextTagResponse);
 
 export const useMoveCustody = (siteId: string) =>
   useInventoryMutation(siteId, ({ componentId, ...b }: CustodyBody & { componentId: string }) =>

@@ -8,6 +8,8 @@ export interface PhotoFilter {
   boardId?: string;
   positionId?: string;
   inspectionId?: string;
+  custodyMoveId?: string;
+  defectId?: string;
   unassigned?: boolean;
   ids?: string[];
 }
@@ -30,7 +32,7 @@ export const photosQueryOptions = (siteId: string, f: PhotoFilter) =>
     queryKey: photoKeys.list(siteId, f),
     queryFn: ({ signal }) =>
       api
-        .get(`/api/sites/${siteId}/photos${qs({ boardId: f.boardId, positionId: f.positionId, inspectionId: f.inspectionId, unassigned: f.unassigned ? "1" : undefined, ids: f.ids?.join(",") })}`, listResponse, signal)
+        .get(`/api/sites/${siteId}/photos${qs({ boardId: f.boardId, positionId: f.positionId, inspectionId: f.inspectionId, custodyMoveId: f.custodyMoveId, defectId: f.defectId, unassigned: f.unassigned ? "1" : undefined, ids: f.ids?.join(",") })}`, listResponse, signal)
         .then((d) => d.photos),
   });
 export const usePhotos = (siteId: string, f: PhotoFilter, enabled = true) => useQuery({ ...photosQueryOptions(siteId, f), enabled });
@@ -92,6 +94,8 @@ export interface UploadTags {
   boardId?: string;
   positionId?: string;
   inspectionId?: string;
+  custodyMoveId?: string;
+  defectId?: string;
 }
 
 /**
@@ -105,7 +109,7 @@ export function uploadOne(siteId: string, file: File, tags: UploadTags, onProgre
     const fd = new FormData();
     fd.append("kind", tags.kind);
     if (tags.caption) fd.append("caption", tags.caption);
-    for (const k of ["boardId", "positionId", "inspectionId"] as const) if (tags[k]) fd.append(k, tags[k]!);
+    for (const k of ["boardId", "positionId", "inspectionId", "custodyMoveId", "defectId"] as const) if (tags[k]) fd.append(k, tags[k]!);
     fd.append("files", file, file.name);
     xhr.open("POST", `/api/sites/${siteId}/photos`);
     xhr.responseType = "json";

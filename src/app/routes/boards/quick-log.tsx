@@ -14,7 +14,9 @@ import { KindGlyph } from "../../../features/inventory/components/kind-glyph";
 import { PositionFinder } from "../../../features/inventory/components/position-finder";
 import { gradeTone } from "../../../features/inventory/components/tile-style";
 import { defectHref } from "../../../features/inventory/defect-link";
-import { canLog } from "../../../features/inventory/roles";
+import { canCurate, canLog } from "../../../features/inventory/roles";
+import { InspectionPhotos } from "../../../features/photos/components/inspection-photos";
+import type { CustodyMove } from "../../../schemas/inventory";
 import { useSiteContext } from "../sites/site-layout";
 
 function belowDefault(d: PositionDetail): boolean | null {
@@ -27,15 +29,20 @@ function belowDefault(d: PositionDetail): boolean | null {
   }
 }
 
-type Done = { kind: "inspection"; inspection: Inspection } | { kind: "custody"; to: Custody } | null;
+type Done = { kind: "inspection"; inspection: Inspection } | { kind: "custody"; move: CustodyMove } | null;
 
 function Logged({ done, siteId, d, onNext }: { done: NonNullable<Done>; siteId: string; d: PositionDetail; onNext: () => void }) {
   const i = done.kind === "inspection" ? done.inspection : null;
   return (
     <div role="status" className="rounded-lg border-2 border-kelp-400 bg-kelp-700/30 p-3" data-testid="logged">
       <p className="font-semibold text-kelp-300">
-        {i ? <>Inspection saved{i.astmGrade != null && <> — grade {i.astmGrade} · {i.isoRi}</>}.</> : <>Move saved — now {CUSTODY_LABELS[(done as { to: Custody }).to]}.</>}
+        {i ? <>Inspection saved{i.astmGrade != null && <> — grade {i.astmGrade} · {i.isoRi}</>}.</> : <>Move saved — now {CUSTODY_LABELS[(done as { move: CustodyMove }).move.toState as Custody]}.</>}
       </p>
+      <div className="mt-2">
+        {done.kind === "inspection"
+          ? <InspectionPhotos siteId={siteId} inspectionId={done.inspection.id} label="Photos of this inspection" />
+          : <InspectionPhotos siteId={siteId} custodyMoveId={done.move.id} defaultKind="during_work" label="Photos of this move" />}
+      </div>
       <div className="mt-2 flex flex-wrap gap-2 text-sm">
         <Link className="inline-flex min-h-11 items-center rounded-md px-3 ring-1 ring-hull-500"
           to={defectHref(siteId, { positionId: d.position.id, componentId: d.component?.id, inspection: i })}>
@@ -93,8 +100,8 @@ export default function QuickLogPage() {
                   <InspectionForm key={`${positionId}-${q.data.inspections.length}`} siteId={site.id} componentId={q.data.component.id}
                     belowDefault={belowDefault(q.data)} onSaved={(i) => { setDone({ kind: "inspection", inspection: i }); window.scrollTo({ top: 0 }); }} />
                 ) : (
-                  <CustodyForm key={`${positionId}-${q.data.component.version}`} siteId={site.id} component={q.data.component}
-                    onSaved={(to) => { setDone({ kind: "custody", to }); window.scrollTo({ top: 0 }); }} />
+                  <CustodyForm key={positionId} siteId={site.id} component={q.data.component} canRelease={canCurate(role)}
+                    onSaved={(move) => { setDone({ kind: "custody", move }); window.scrollTo({ top: 0 }); }} />
                 )}
               </div>
             </>

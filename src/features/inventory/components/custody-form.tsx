@@ -1,64 +1,103 @@
-import { useState, type FormEvent } from "react";
+import { useEffect, useState, type FormEvent } from "react";
 import { Button } from "../../../components/button";
 import { TextField } from "../../../components/field";
-import { CUSTODY, CUSTODY_LABELS, type Custody } from "../../../domain/vocab";
+import { CUSTODY_LABELS, type Custody } from "../../../domain/vocab";
 import { ApiError } from "../../../lib/api-client";
-import { useMoveCustody } from "../api";
+import type { CustodyMove } from "../../../schemas/inventory";
+import { fetchNextTag, useCustodyOptions, useMoveCustody } from "../api";
 import type { Component } from "../contract";
 import { ConflictNotice } from "./conflict-notice";
 
 type Held = Pick<Component, "id" | "custody" | "version" | "tagNumber"> & { custodyLocation?: string };
 const LABELS = { custody: "Where it is", custodyLocation: "Location", tagNumber: "Tag" };
-/** The usual next step from each state, offered first (Tideline's own ordering of the teardown path). */
-const NEXT: Record<Custody, Custody> = {
-  in_place: "removed", removed: "in_workshop", in_workshop: "ready_to_refit", ready_to_refit: "refitted",
-  refitted: "removed", scrapped: "in_workshop", missing: "in_workshop",
-};
 
-/** Log a move of the part: to which state, where it is now, and a tag when it comes off. */
-export function CustodyForm({ siteId, component, onSaved }: { siteId: string; component: Held; onSaved: (to: Custody) => void }) {
+/**
+ * Log a move of the part along the tag-and-return chain (src/domain/custody-chain.ts): the
+ * server's proposal is chosen first, each move it would refuse says why, a removal asks for a
+ * tag (typed, scanned with a keyboard-wedge scanner, or generated), and the curator may
+ * release a refused move with a written reason.
+ */
+export function CustodyForm({ siteId, component, canRelease, onSaved }: { siteId: string; component: Held; canRelease: boolean; onSaved: (move: CustodyMove) => void }) {
   const [base, setBase] = useState<Held>(component);
-  const [to, setTo] = useState<Custody>(NEXT[component.custody]);
+  const options = useCustodyOptions(siteId, base.id);
+  const [to, setTo] = useState<Custody | null>(null);
+  const [picked, setPicked] = useState(false);
   const [location, setLocation] = useState("");
   const [tag, setTag] = useState("");
   const [note, setNote] = useState("");
+  const [release, setRelease] = useState("");
+  const [tagError, setTagError] = useState<string | null>(null);
   const move = useMoveCustody(siteId);
+  useEffect(() => { if (!picked && options.data) setTo(options.data.proposed); }, [options.data, picked]);
+
   const err = move.error instanceof ApiError ? move.error : null;
   const conflict = err?.status === 409 && err.code === "conflict" && err.current ? (err.current as Held) : null;
   const needsTag = !base.tagNumber && to === "removed";
+  const chosen = options.data?.moves.find((m) => m.to === to);
+  const refusals = (chosen?.refusals ?? []).filter((r) => !(r.rule === "tag_required" && tag.trim()));
+  const releasable = refusals.length > 0 && refusals.every((r) => r.releasable);
+  const blocked = refusals.length > 0 && !(canRelease && releasable && release.trim().length >= 5);
 
   function save(version: number) {
+    if (!to) return;
     move.mutate(
-      { componentId: base.id, toState: to, location: location.trim(), note: note.trim(), version, ...(needsTag && tag.trim() ? { tagNumber: tag.trim() } : {}) },
-      { onSuccess: (r) => { setBase(r.component); setTo(NEXT[r.component.custody]); setLocation(""); setNote(""); setTag(""); onSaved(r.component.custody); } },
+      { componentId: base.id, toState: to, location: location.trim(), note: note.trim(), version,
+        ...(needsTag && tag.trim() ? { tagNumber: tag.trim() } : {}), ...(refusals.length && release.trim() ? { releaseReason: release.trim() } : {}) },
+      { onSuccess: (r) => { setBase(r.component); setPicked(false); setTo(null); setLocation(""); setNote(""); setTag(""); setRelease(""); onSaved(r.move); } },
     );
   }
   const submit = (e: FormEvent) => { e.preventDefault(); save(base.version); };
-  const states = [NEXT[base.custody], ...CUSTODY.filter((c) => c !== NEXT[base.custody] && c !== base.custody)];
+  const generate = () => { setTagError(null); fetchNextTag(siteId).then((r) => setTag(r.tagNumber), () => setTagError("No tag could be generated: type one.")); };
+  const choose = (c: Custody) => { setPicked(true); setTo(c); move.reset(); };
+  const moves = options.data?.moves ?? [];
+  const ordered = [...moves].sort((a, b) => (a.to === options.data?.proposed ? -1 : b.to === options.data?.proposed ? 1 : a.refusals.length - b.refusals.length));
   return (
     <form onSubmit={submit} className="space-y-3" aria-label="Log a custody move">
       <p className="text-sm">Now: <strong data-testid="custody-now">{CUSTODY_LABELS[base.custody]}</strong>{base.tagNumber && <span className="font-mono text-mist"> · tag {base.tagNumber}</span>}</p>
+      {options.data && (
+        <p className="text-sm text-mist" data-testid="custody-proposal">
+          {options.data.proposed ? <>Next on the chain: <strong className="text-chalk">{CUSTODY_LABELS[options.data.proposed]}</strong></> : "The chain is complete here: choose a move only if the part moves again."}
+        </p>
+      )}
       <fieldset>
         <legend className="text-sm font-semibold text-mist">Move it to</legend>
         <div className="mt-1 grid grid-cols-2 gap-2">
-          {states.map((c) => (
-            <button key={c} type="button" aria-pressed={to === c} onClick={() => setTo(c)}
-              className={`min-h-12 rounded-md px-3 text-left font-semibold ring-1 ${to === c ? "bg-tide-300 text-hull-950 ring-tide-300" : "bg-hull-800 ring-hull-600"}`}>
-              {CUSTODY_LABELS[c]}
+          {ordered.map((m) => (
+            <button key={m.to} type="button" aria-pressed={to === m.to} onClick={() => choose(m.to)}
+              className={`min-h-12 rounded-md px-3 py-1 text-left font-semibold ring-1 ${to === m.to ? "bg-tide-300 text-hull-950 ring-tide-300" : m.refusals.length ? "bg-hull-850 text-mist ring-hull-700" : "bg-hull-800 ring-hull-600"}`}>
+              {CUSTODY_LABELS[m.to]}
+              {m.refusals.some((r) => r.rule !== "tag_required") && <span className="block text-xs font-normal">{m.refusals.some((r) => r.status === 409) ? "✕ not on the chain" : "△ needs a proof"}</span>}
             </button>
           ))}
         </div>
       </fieldset>
-      {needsTag && <TextField label="Tag number on the bag" value={tag} onChange={(e) => setTag(e.target.value)} error={err?.fields.tagNumber} className="[&_input]:font-mono" />}
+      {refusals.length > 0 && (
+        <div role="note" aria-label="What this move still needs" className="rounded-md border-l-4 border-rust-400 bg-hull-850 p-2 text-sm" data-testid="custody-refusals">
+          <ul className="list-disc space-y-1 pl-5">{refusals.map((r) => <li key={r.rule}>{r.message}</li>)}</ul>
+          {canRelease && releasable ? (
+            <TextField label="Release it anyway — the reason is recorded and shown" value={release} onChange={(e) => setRelease(e.target.value)}
+              placeholder="e.g. refitted for a dry fit only, locked out" error={err?.fields.releaseReason} className="mt-2" />
+          ) : <p className="mt-1 text-mist">{releasable ? "The curator can release it with a written reason." : "Fix this first."}</p>}
+        </div>
+      )}
+      {needsTag && (
+        <div className="flex items-end gap-2">
+          <TextField label="Tag number on the bag" value={tag} onChange={(e) => setTag(e.target.value)} error={err?.fields.tagNumber ?? tagError ?? undefined}
+            className="flex-1 [&_input]:font-mono" required autoComplete="off" />
+          <Button type="button" tone="quiet" className="mb-0.5" onClick={generate}>Generate a tag</Button>
+        </div>
+      )}
       <TextField label="Where is it now?" placeholder="e.g. workshop bench 2, crate B" value={location} onChange={(e) => setLocation(e.target.value)} error={err?.fields.location} />
       <TextField label="Note (optional)" value={note} onChange={(e) => setNote(e.target.value)} error={err?.fields.note} />
       {conflict && (
         <ConflictNotice base={base} current={conflict} labels={LABELS} busy={move.isPending}
-          onUseTheirs={() => { setBase(conflict); setTo(NEXT[conflict.custody]); move.reset(); }}
+          onUseTheirs={() => { setBase(conflict); setPicked(false); move.reset(); }}
           onApplyMine={() => { setBase(conflict); save(conflict.version); }} />
       )}
-      {err && !conflict && !Object.keys(err.fields).length && <p role="alert" className="text-sm text-flare-300">{err.message}</p>}
-      <Button type="submit" className="w-full min-h-14 text-lg" disabled={move.isPending}>{move.isPending ? "Saving…" : `Save move: ${CUSTODY_LABELS[to]}`}</Button>
+      {err && !conflict && <p role="alert" className="text-sm text-flare-300">{err.message}</p>}
+      <Button type="submit" className="w-full min-h-14 text-lg" disabled={move.isPending || !to || blocked}>
+        {move.isPending ? "Saving…" : to ? `Save move: ${CUSTODY_LABELS[to]}${refusals.length && !blocked ? " (released)" : ""}` : "Choose where it went"}
+      </Button>
     </form>
   );
 }

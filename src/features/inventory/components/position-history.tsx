@@ -71,6 +71,11 @@ export function CustodyTrail({ moves }: { moves: CustodyMove[] }) {
           {CUSTODY_LABELS[m.fromState]} → <strong>{CUSTODY_LABELS[m.toState]}</strong>
           {m.location && <span className="text-mist"> · {m.location}</span>}
           {m.note && <span className="block text-mist">“{m.note}”</span>}
+          {m.releaseReason && (
+            <span className="mt-0.5 block rounded bg-flare-700/30 px-1.5 py-0.5 text-flare-300" data-testid="custody-release">
+              Released by the curator past {m.releasedRules.length} check{m.releasedRules.length === 1 ? "" : "s"} of the chain: “{m.releaseReason}”
+            </span>
+          )}
           <span className="block text-xs text-fog">{m.movedByName ?? "Someone"} · {when(m.movedAt)}</span>
         </li>
       ))}

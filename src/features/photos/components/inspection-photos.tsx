@@ -7,19 +7,21 @@ import { PhotoViewer } from "./photo-viewer";
 import { UploadList } from "./upload-list";
 
 /**
- * For the inspection form (volunteers may attach photos to their own inspections): take
- * or pick photos, see them upload, and the inspection's photos so far. Self-contained
- * (props: siteId, inspectionId) so the inventory screens can compose it.
+ * For the quick log (volunteers may attach photos to their own inspections and custody
+ * moves) and a defect's evidence: take or pick photos (the phone's camera), see them upload,
+ * and the photos so far. Self-contained (siteId and one of inspectionId / custodyMoveId /
+ * defectId) so other screens can compose it.
  */
-export function InspectionPhotos({ siteId, inspectionId }: { siteId: string; inspectionId: string }) {
-  const [kind, setKind] = useState<PhotoKind>("damage");
-  const photos = usePhotos(siteId, { inspectionId });
+export function InspectionPhotos({ siteId, inspectionId, custodyMoveId, defectId, defaultKind = "damage", label = "Photos of this inspection" }:
+  { siteId: string; inspectionId?: string; custodyMoveId?: string; defectId?: string; defaultKind?: PhotoKind; label?: string }) {
+  const [kind, setKind] = useState<PhotoKind>(defaultKind);
+  const photos = usePhotos(siteId, { inspectionId, custodyMoveId, defectId });
   const { invalidate } = usePhotoMutations(siteId);
   const queue = useUploadQueue(siteId, () => void invalidate());
   const [open, setOpen] = useState<number | null>(null);
   const list = photos.data ?? [];
   return (
-    <section aria-label="Photos of this inspection" className="space-y-2">
+    <section aria-label={label} className="space-y-2">
       <div className="flex flex-wrap items-end gap-2">
         <label className="text-sm font-semibold text-mist">Kind
           <select className="mt-1 block min-h-11 rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk" value={kind} onChange={(e) => setKind(e.target.value as PhotoKind)}>
@@ -29,7 +31,7 @@ export function InspectionPhotos({ siteId, inspectionId }: { siteId: string; ins
         <label className="inline-flex min-h-11 cursor-pointer items-center rounded-md bg-hull-800 px-4 font-semibold text-chalk ring-1 ring-hull-600 hover:bg-hull-700">
           Add photos
           <input type="file" accept="image/*" capture="environment" multiple className="sr-only"
-            onChange={(e) => { queue.add([...(e.target.files ?? [])], { kind, caption: "", inspectionId }); e.target.value = ""; }} />
+            onChange={(e) => { queue.add([...(e.target.files ?? [])], { kind, caption: "", inspectionId, custodyMoveId, defectId }); e.target.value = ""; }} />
         </label>
       </div>
       <UploadList items={queue.items} onRetry={queue.retry} />
