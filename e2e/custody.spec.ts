@@ -31,6 +31,7 @@ const noSidewaysScroll = async (page: Page) =>
   expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(await page.evaluate(() => window.innerWidth));
 
 test.describe("on a 360 px phone", () => {
+  test.setTimeout(150_000);
   test.use({ viewport: { width: 360, height: 740 } });
 
   test("a volunteer tags a part off with a generated tag, photographs the move, and cannot refit it from the workshop", async ({ page, baseURL }) => {
@@ -69,6 +70,7 @@ test.describe("on a 360 px phone", () => {
 });
 
 test("the curator releases a refused refit with a reason, and the trail shows it", async ({ page, baseURL }) => {
+  test.setTimeout(150_000);
   const m = await makeBreaker(baseURL!);
   await signIn(page, "curator");
   await page.goto(`/sites/${m.siteId}/log`);

@@ -68,6 +68,13 @@ export async function resolveTarget(db: Db, siteId: string, ids: TargetIds): Pro
 /** Photographers and curators file photos anywhere; volunteers only to their own inspections and custody moves. */
 export async function assertMayAttach(db: Db, siteId: string, user: User, role: Role | "admin", ids: TargetIds) {
   if (role === "admin" || role === "curator" || role === "photographer") return;
+  if (role === "volunteer" && ids.defectId && !ids.inspectionId && !ids.custodyMoveId) {
+    const d = await repo.findDefectTarget(db, siteId, ids.defectId);
+    const own = d && (await db.selectFrom("defects").select("id").where("id", "=", ids.defectId)
+      .where((eb) => eb.or([eb("createdBy", "=", user.id), eb("assigneeId", "=", user.id), eb("repairedBy", "=", user.id)])).executeTakeFirst());
+    if (own) return;
+    throw forbidden("Volunteers may attach photos to defects they raised, hold or repaired.");
+  }
   if (role === "volunteer" && ids.custodyMoveId && !ids.inspectionId) {
     const m = await repo.findCustodyMoveTarget(db, siteId, ids.custodyMoveId);
     if (m && m.movedBy === user.id) return;

@@ -2,8 +2,8 @@ import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient }
 import { z } from "zod";
 import { api, ApiError, qs } from "../../lib/api-client";
 import {
-  contextResponse, defectDetailSchema, defectRowSchema, listResponse, optionsResponse, planResponse, positionsResponse, viewSchema,
-  type BulkBody,
+  contextResponse, defectDetailSchema, evidenceResponse, defectRowSchema, listResponse, optionsResponse, planResponse, positionsResponse, viewSchema,
+  type BulkBody, type LinkReadingBody,
 } from "../../schemas/defects";
 import type { DefectStatus } from "../../domain/vocab";
 
@@ -15,6 +15,7 @@ export const defectKeys = {
   positions: (siteId: string, boardId: string) => [...defectKeys.all(siteId), "positions", boardId] as const,
   views: (siteId: string) => [...defectKeys.all(siteId), "views"] as const,
   plan: (siteId: string) => [...defectKeys.all(siteId), "plan"] as const,
+  evidence: (siteId: string, id: string) => [...defectKeys.all(siteId), "evidence", id] as const,
 };
 const base = (siteId: string) => `/api/sites/${siteId}/defects`;
 const one = z.object({ defect: defectRowSchema });
@@ -70,6 +71,12 @@ export const useCreateDefect = (siteId: string) =>
   useWrite(siteId, (b: Record<string, unknown>) => api.send("POST", base(siteId), b, one).then((d) => d.defect));
 export const usePatchDefect = (siteId: string, id: string) =>
   useWrite(siteId, (b: Record<string, unknown>) => api.send("PATCH", `${base(siteId)}/${id}`, b, one).then((d) => d.defect));
+/** What proves the repair: linked readings (judged), after-work photos, and readings of the component to link. */
+export const useEvidence = (siteId: string, id: string) =>
+  useQuery({ queryKey: defectKeys.evidence(siteId, id), queryFn: ({ signal }) => api.get(`${base(siteId)}/${id}/evidence`, evidenceResponse, signal) });
+export const useLinkReading = (siteId: string, id: string) =>
+  useWrite(siteId, (b: LinkReadingBody) => api.send("POST", `${base(siteId)}/${id}/readings`, b, evidenceResponse));
+
 export const useMoveDefect = (siteId: string, id: string) =>
   useWrite(siteId, (b: { to: DefectStatus; reason: string; version: number }) => api.send("POST", `${base(siteId)}/${id}/status`, b, one).then((d) => d.defect));
 export const useAssignDefect = (siteId: string, id: string) =>

@@ -8,6 +8,8 @@ import { useDefect, useDefectOptions } from "../../../features/defects/api";
 import { FlagMarks, SeverityBadge, StatusBadge } from "../../../features/defects/components/badges";
 import { DefectHistory } from "../../../features/defects/components/defect-history";
 import { EditPanel } from "../../../features/defects/components/edit-panel";
+import { EvidencePanel } from "../../../features/defects/components/evidence-panel";
+import { InspectionPhotos } from "../../../features/photos/components/inspection-photos";
 import { PinPanel } from "../../../features/defects/components/pin-panel";
 import { WhyItRanks } from "../../../features/defects/components/why-it-ranks";
 import { WorkflowPanel } from "../../../features/defects/components/workflow-panel";
@@ -57,6 +59,11 @@ export default function DefectPage() {
         <WorkflowPanel siteId={site.id} detail={detail} options={options.data} canManage={manage} />
         <PinPanel siteId={site.id} detail={detail} canManage={manage} />
       </div>
+      {(["under_repair", "awaiting_retest", "closed"] as string[]).includes(d.status) || manage ? (
+        <EvidencePanel siteId={site.id} detail={detail} canLink={manage || role === "volunteer"}
+          photos={manage || role === "volunteer" || role === "photographer"
+            ? <InspectionPhotos siteId={site.id} defectId={d.id} defaultKind="after_work" label="Photos of this defect" /> : undefined} />
+      ) : null}
       <DefectHistory detail={detail} />
     </div>
   );

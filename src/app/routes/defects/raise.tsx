@@ -18,6 +18,9 @@ export default function RaiseDefectPage() {
   const context = useFindingContext(site.id, q);
   const create = useCreateDefect(site.id);
   const manage = role === "curator" || role === "admin";
+  const readingKind = oneOf(["insulation", "contact", "thermal", "ground"] as const, params.get("readingKind"));
+  const readingId = params.get("readingId");
+  const fromReading = readingKind && readingId ? { kind: readingKind, id: readingId } : null;
   if (!manage && role !== "volunteer")
     return <EmptyState title="Your role reads the register">Volunteers and the curator raise defects.</EmptyState>;
   const waiting = options.isPending || (context.fetchStatus === "fetching" && context.isPending);
@@ -25,6 +28,7 @@ export default function RaiseDefectPage() {
     <div className="space-y-4">
       <h1 className="text-2xl font-bold">Raise a defect</h1>
       {context.data && <p className="text-mist">From the survey of position <span className="font-mono text-chalk">{context.data.designation}</span>.</p>}
+      {fromReading && <p className="text-mist" data-testid="from-reading">Raised from a {fromReading.kind} reading that did not meet its criterion; the defect and the reading will link to each other.</p>}
       <SafetyNotice compact />
       {waiting && <Loading />}
       {options.isError && <ErrorPanel error={options.error} />}
@@ -41,7 +45,7 @@ export default function RaiseDefectPage() {
             category: oneOf<DefectCategory>(DEFECT_CATEGORIES, params.get("category")),
             severity: oneOf<DefectSeverity>(DEFECT_SEVERITIES, params.get("severity")),
           }}
-          onSubmit={(b) => create.mutate(b, { onSuccess: (d) => navigate(paths.defect.href(site.id, d.id)) })}
+          onSubmit={(b) => create.mutate({ ...b, ...(fromReading ? { fromReading } : {}) }, { onSuccess: (d) => navigate(paths.defect.href(site.id, d.id)) })}
           pending={create.isPending}
           error={create.error}
         />

@@ -2,6 +2,7 @@ import type { ContactReading } from "../../../schemas/readings";
 import { sig, when } from "../format";
 import { SourceDetails } from "./source-details";
 import { VerdictBadge } from "./verdict-badge";
+import { ReadingDefects } from "./reading-defects";
 
 /** Hatched pattern plus the word "high": an outlier pole never relies on colour alone. */
 const HATCH = { backgroundImage: "repeating-linear-gradient(45deg, rgba(236,138,94,0.35) 0 6px, transparent 6px 12px)" };
@@ -39,6 +40,7 @@ export function ContactHistory({ readings }: { readings: ContactReading[] }) {
             <p className="mt-1 text-sm text-mist">Limit at the recorded threshold: {sig(r.judgement.limitMicroOhms)} µΩ</p>
             <div className="mt-1"><VerdictBadge verdict={r.judgement.verdict} /></div>
             <ul className="mt-1 text-sm">{r.judgement.reasons.map((x) => <li key={x}>{x}</li>)}</ul>
+            <ReadingDefects kind="contact" reading={r} />
             <SourceDetails sources={r.judgement.sources.map((s, i) => ({ title: i === 0 ? "Pole comparison" : "Manufacturer", source: s }))} />
             {r.notes && <p className="text-sm text-mist">{r.notes}</p>}
           </li>

@@ -3,6 +3,7 @@ import { CONDUCTOR_LABELS, type InsulationReading } from "../../../schemas/readi
 import { megohms, sig, when } from "../format";
 import { SourceDetails } from "./source-details";
 import { VerdictBadge } from "./verdict-badge";
+import { ReadingDefects } from "./reading-defects";
 
 /** Newest first; as a list of cards so it reads on a phone as well as a desk. */
 export function InsulationHistory({ readings, showTarget = true, limit = 10 }: { readings: InsulationReading[]; showTarget?: boolean; limit?: number }) {
@@ -36,6 +37,7 @@ export function InsulationHistory({ readings, showTarget = true, limit = 10 }: {
             </p>
             <div className="mt-1"><VerdictBadge verdict={j.verdict} /></div>
             <ul className="mt-1 text-sm">{[...j.reasons, ...j.notes].map((x) => <li key={x}>{x}</li>)}</ul>
+            <ReadingDefects kind="insulation" reading={r} />
             <SourceDetails sources={[
               ...(j.correction ? [{ title: "Temperature correction", source: j.correction }] : []),
               { title: "Minimum", source: j.minimum.source },

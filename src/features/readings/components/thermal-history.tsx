@@ -1,5 +1,6 @@
 import type { ThermalScan } from "../../../schemas/readings";
 import { sig, when } from "../format";
+import { ReadingDefects } from "./reading-defects";
 import { SourceDetails } from "./source-details";
 
 const rise = (v: number | null, what: string) => (v == null ? null : `${v >= 0 ? "+" : ""}${sig(v)} °C over ${what}`);
@@ -24,6 +25,7 @@ export function ThermalHistory({ scans }: { scans: ThermalScan[] }) {
             {s.loadAmps != null && ` · load ${sig(s.loadAmps)} A`}
           </p>
           {s.photoId && <p className="text-sm">Thermal image on file (photo {s.photoId.slice(0, 8)})</p>}
+          <ReadingDefects kind="thermal" reading={s} />
           <SourceDetails sources={[{ title: "Temperature-rise bands", source: s.judgement.source }]} />
           {s.notes && <p className="text-sm text-mist">{s.notes}</p>}
         </li>
