@@ -56,7 +56,7 @@ beforeAll(async () => {
 
   const port = await freePort();
   base = `http://127.0.0.1:${port}`;
-  const env = { ...process.env, DATABASE_URL: url, PORT: String(port), PUBLIC_URL: base };
+  const env: NodeJS.ProcessEnv = { ...process.env, DATABASE_URL: url, PORT: String(port), PUBLIC_URL: base };
   delete env.SMTP_URL;
   child = spawn(process.execPath, [join(projectRoot, "node_modules", "tsx", "dist", "cli.mjs"), "server/index.ts"], { cwd: projectRoot, env, stdio: ["ignore", "pipe", "pipe"] });
   child.stdout!.on("data", (d) => (serverLog += d));
