@@ -37,11 +37,13 @@ export function partsRoutes(db: Db, storage: PhotoStorage) {
   const base = "/sites/:siteId/parts";
 
   r.get(base, requireSiteRole(db, ...ANY_MEMBER), async (req, res) => {
-    res.json(await service.listParts(db, req.params.siteId as string, listQuery.parse(req.query), actor(res)));
+    res.json(await service.listParts(db, req.params.siteId as string, listQuery.parse(req.query)));
   });
 
   r.get("/sites/:siteId/parts.csv", requireSiteRole(db, ...ANY_MEMBER), async (req, res) => {
-    const { lines } = await service.listParts(db, req.params.siteId as string, listQuery.parse(req.query), actor(res));
+    const { page: _p, size: _s, ...filter } = listQuery.parse(req.query);
+    const lines = [];
+    for await (const part of service.allLines(db, req.params.siteId as string, filter)) lines.push(...part);
     res.setHeader("Content-Type", "text/csv; charset=utf-8");
     res.setHeader("Content-Disposition", `attachment; filename="wanted-parts-${today()}.csv"`);
     res.send(toCsv(lines));
