@@ -44,7 +44,7 @@ export const wantedDefects = (db: Db, siteId: string, scope?: { ids: readonly st
     ])
     .where("d.siteId", "=", siteId)
     .where("d.partsState", "=", "wanted")
-    .where("d.status", "not in", ["closed", "wont_fix"]);
+    .where("d.status", "not in", ["closed", "accepted_as_is"]);
   if (scope)
     q = q.where((eb) => eb.or([
       ...(scope.ids.length ? [eb("d.id", "in", [...scope.ids])] : []),

@@ -184,7 +184,7 @@ describe("through the defects and inventory services (kept current by the writes
     await t.db.insertInto("memberships").values({ siteId, userId: fx.crew.curator.id, role: "curator" }).execute();
   });
 
-  it("a defect raised with parts wanted is on the list at once; closing it as won't fix withdraws it and the line closes itself", async () => {
+  it("a defect raised with parts wanted is on the list at once; closing it as accepted as is withdraws it and the line closes itself", async () => {
     const c = await makeComponent(t.db, siteId, boardId, "10-1");
     const r = await curator.post(`/api/sites/${siteId}/defects`, {
       boardId, positionId: c.positionId, title: "Handle snapped", category: "mechanical", severity: "impaired", partsNeeded: "Operating handle", partsState: "wanted",
@@ -193,7 +193,7 @@ describe("through the defects and inventory services (kept current by the writes
     const lines = await list();
     expect(lines).toHaveLength(1);
     expect(lines[0]).toMatchObject({ need: "Operating handle", qty: 1 });
-    const moved = await curator.post(`/api/sites/${siteId}/defects/${r.body.defect?.id ?? r.body.id}/status`, { to: "wont_fix", reason: "Handle kept as found", version: r.body.defect?.version ?? r.body.version });
+    const moved = await curator.post(`/api/sites/${siteId}/defects/${r.body.defect?.id ?? r.body.id}/status`, { to: "accepted_as_is", reason: "Handle kept as found", version: r.body.defect?.version ?? r.body.version });
     expect(moved.status, JSON.stringify(moved.body)).toBe(200);
     expect(await list()).toEqual([]);
     expect((await list("?status=all"))[0]).toMatchObject({ status: "cancelled" });
