@@ -8,6 +8,7 @@ import { authRoutes } from "./auth/routes";
 import type { Db } from "./db";
 import { AppError } from "./errors";
 import { errorHandler } from "./middleware/error-handler";
+import { allowedHostsFrom, hostAllowlist, parseHostList, plainErrorPage, securityHeaders } from "./middleware/hardening";
 import { originCheck } from "./middleware/origin";
 import { sessionMiddleware } from "./middleware/session";
 import { readingRoutes } from "./readings/routes";
@@ -38,6 +39,8 @@ export interface AppDeps {
   publicUrl?: string;
   /** Where photo files go; default from env (PHOTO_STORAGE, local disk under .data/photos). */
   photoStorage?: PhotoStorage;
+  /** Host names served besides loopback and PUBLIC_URL's host (default: ALLOWED_HOSTS). */
+  allowedHosts?: string[];
 }
 
 export function createApp(deps: AppDeps) {
@@ -48,6 +51,8 @@ export function createApp(deps: AppDeps) {
   const lucia = createLucia(db);
   const photoStorage = deps.photoStorage ?? storageFromEnv();
   const mail = { db, mailer: deps.mailer ?? unconfiguredMailer(), publicUrl: (deps.publicUrl ?? "http://127.0.0.1:3000").replace(/\/+$/, "") };
+  app.use(hostAllowlist(allowedHostsFrom({ publicUrl: mail.publicUrl, extra: deps.allowedHosts ?? parseHostList(process.env.ALLOWED_HOSTS) })));
+  app.use(securityHeaders({ https: mail.publicUrl.startsWith("https:") }));
 
   const api = Router();
   api.get("/health", async (_req, res) => {
@@ -86,5 +91,6 @@ export function createApp(deps: AppDeps) {
     app.use(express.static(dir, { index: false, maxAge: "1h", immutable: false }));
     app.get("/{*splat}", (_req, res) => res.sendFile(join(dir, "index.html")));
   }
+  app.use(plainErrorPage);
   return app;
 }
