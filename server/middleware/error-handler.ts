@@ -31,6 +31,7 @@ export const errorHandler: ErrorRequestHandler = (err, _req, res, _next) => {
     const body: Record<string, unknown> = { code: err.code, message: err.message };
     if (err.fields) body.fields = err.fields;
     if (err.details !== undefined) body.current = err.details;
+    if (err.headers) res.set(err.headers);
     res.status(err.status).json({ error: body });
     return;
   }
