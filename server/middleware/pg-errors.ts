@@ -27,3 +27,6 @@ export function mapPgError(err: unknown): PgMapped | null {
     return { status: 409, code: "conflict", message: "Someone changed the same records at the same moment. Try again." };
   return null;
 }
+
+/** A unique-key clash (23505): two first saves of the same row at once. */
+export const isUniqueViolation = (e: unknown) => (e as { code?: unknown })?.code === "23505";

@@ -30,9 +30,9 @@ export type Invitation = z.infer<typeof invitationSchema>;
 
 export const invitationsResponse = z.object({ invitations: z.array(invitationSchema) });
 
-/** Inviting an address that already has an account adds the membership at once. */
+/** Every address gets an invitation to accept, whether or not it has an account: the answer is the same. */
 export const createInvitationResponse = z.object({
-  outcome: z.enum(["invited", "added"]),
+  outcome: z.literal("invited"),
   invitation: invitationSchema.nullable(),
   invitations: z.array(invitationSchema),
 });

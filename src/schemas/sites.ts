@@ -29,10 +29,6 @@ export const memberSchema = z.object({
 });
 export type Member = z.infer<typeof memberSchema>;
 
-export const addMemberBody = z.object({
-  email: text().trim().toLowerCase().email({ message: "Enter an e-mail address" }),
-  role: z.enum(ROLES),
-});
 export const changeRoleBody = z.object({ role: z.enum(ROLES) });
 
 export const createUserBody = z.object({
