@@ -20,7 +20,8 @@ export const FLAGS = ["safety", "blocking", "pinned", "unassigned", "overdue"] a
 export type Flag = (typeof FLAGS)[number];
 
 const many = <T extends z.ZodType>(item: T) =>
-  z.preprocess((v) => (v === undefined ? [] : Array.isArray(v) ? v : String(v).split(",").filter(Boolean)), z.array(item).max(50));
+  // Only a string is split; anything else (an object from a crafted query) goes on to fail the array check, never to throw here.
+  z.preprocess((v) => (v === undefined ? [] : typeof v === "string" ? v.split(",").filter(Boolean) : v), z.array(item).max(50));
 const dateStr = isoDate("Use YYYY-MM-DD");
 
 /** The register's query: the same keys live in the browser's URL, so a link shows the same view. */
