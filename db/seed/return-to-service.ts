@@ -50,7 +50,7 @@ export async function seedReturnToService(db: Db, ctx: SeedContext, now = new Da
     .execute();
   const byDes = new Map(positions.map((p) => [p.designation, p]));
   const flagged = new Set(
-    (await db.selectFrom("defects").select("positionId").where("boardId", "=", board.id).where("status", "not in", ["closed", "wont_fix"])
+    (await db.selectFrom("defects").select("positionId").where("boardId", "=", board.id).where("status", "not in", ["closed", "accepted_as_is"])
       .where((eb) => eb.or([eb("safetyCritical", "=", true), eb("blocksEnergisation", "=", true)])).execute()).map((d) => d.positionId),
   );
   const clean = (p: (typeof positions)[number]) => !!p.componentId && !flagged.has(p.id);
@@ -114,10 +114,10 @@ export async function seedReturnToService(db: Db, ctx: SeedContext, now = new Da
     closedAt: day(9, 7), createdBy: tobias, priorityScore: score, createdAt: blew, updatedAt: day(9, 7),
   }).returning(["id"]).executeTakeFirstOrThrow();
   await db.insertInto("defectStatusChanges").values([
-    { siteId, defectId: defect.id, fromStatus: null, toStatus: "open", actorId: tobias, at: blew, reason: "" },
-    { siteId, defectId: defect.id, fromStatus: "open", toStatus: "in_repair", actorId: tobias, at: day(10, 13), reason: "" },
-    { siteId, defectId: defect.id, fromStatus: "in_repair", toStatus: "awaiting_verification", actorId: tobias, at: day(10, 17), reason: "" },
-    { siteId, defectId: defect.id, fromStatus: "awaiting_verification", toStatus: "closed", actorId: ines, at: day(9, 7), reason: "Insulator cleaned and dried; re-megged 420 MΩ." },
+    { siteId, defectId: defect.id, fromStatus: null, toStatus: "raised", actorId: tobias, at: blew, reason: "" },
+    { siteId, defectId: defect.id, fromStatus: "raised", toStatus: "under_repair", actorId: tobias, at: day(10, 13), reason: "" },
+    { siteId, defectId: defect.id, fromStatus: "under_repair", toStatus: "awaiting_retest", actorId: tobias, at: day(10, 17), reason: "" },
+    { siteId, defectId: defect.id, fromStatus: "awaiting_retest", toStatus: "closed", actorId: ines, at: day(9, 7), reason: "Insulator cleaned and dried; re-megged 420 MΩ." },
   ]).execute();
   await db.insertInto("rtsIncidents").values({ siteId, boardId: board.id, stageId: s1.id, attempt: 1, at: blew, kind: "protection_operated", positionId: bt.id, defectId: defect.id, summary: "Temporary feed fuse on phase B blew on “Bus section A, bus tie and bus section B”", note: "Smell of hot dust near the bus tie before it went.", recordedBy: tobias }).execute();
 

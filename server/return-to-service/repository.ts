@@ -39,7 +39,7 @@ export const openDefectsOn = (db: Db, siteId: string, positionIds: string[]) =>
         .select(["d.id", "d.ref", "d.title", "d.positionId", "p.designation", "d.safetyCritical", "d.blocksEnergisation"])
         .where("d.siteId", "=", siteId)
         .where("d.positionId", "in", positionIds)
-        .where("d.status", "not in", ["closed", "wont_fix"])
+        .where("d.status", "not in", ["closed", "accepted_as_is"])
         .orderBy("d.ref")
         .execute()
     : Promise.resolve([]);

@@ -219,7 +219,7 @@ describe("sign-offs", () => {
     expect(r.body.incidents).toHaveLength(1);
     const defect = (await as.viewer.get(`${site()}/defects/${r.body.incidents[0].defectId}`)).body;
     const d = defect.defect ?? defect;
-    expect(d).toMatchObject({ safetyCritical: true, blocksEnergisation: true, status: "open" });
+    expect(d).toMatchObject({ safetyCritical: true, blocksEnergisation: true, status: "raised" });
     const s = await stageOf(stage.id);
     expect(s.status).toBe("stopped");
     expect(s.gate.state).toBe("stopped");
