@@ -23,6 +23,7 @@ const commands = {
   "photos:cleanup": { script: "server/cli/photos-cleanup.ts", needs: ["deps", "postgres"] },
   backup: { script: "server/cli/backup.ts", needs: ["deps", "postgres"] },
   restore: { script: "server/cli/restore.ts", needs: ["deps", "postgres"] },
+  "rts:overdue": { script: "server/cli/rts-overdue.ts", needs: ["deps", "postgres"] },
 };
 
 function say(msg) {
