@@ -1,6 +1,7 @@
 import "./types";
 import { existsSync } from "node:fs";
 import { join } from "node:path";
+import compression from "compression";
 import express, { Router } from "express";
 import { createLucia } from "./auth/lucia";
 import { authRoutes } from "./auth/routes";
@@ -49,6 +50,13 @@ export function createApp(deps: AppDeps) {
   const photoStorage = deps.photoStorage ?? storageFromEnv();
   const mail = { db, mailer: deps.mailer ?? unconfiguredMailer(), publicUrl: (deps.publicUrl ?? "http://127.0.0.1:3000").replace(/\/+$/, "") };
 
+  // gzip for JSON, HTML, JS and CSS (issue 15: a 345 KiB entry and MBs of JSON went raw). Downloads
+  // (Content-Disposition: attachment) stream uncompressed with their own back-pressure; images are
+  // already compressed and the `compression` package's default filter leaves them alone.
+  app.use(compression({
+    filter: (req, res) => !res.getHeader("Content-Disposition") && compression.filter(req, res),
+  }));
+
   const api = Router();
   api.get("/health", async (_req, res) => {
     const { db: state } = await databaseState(db);
@@ -79,8 +87,11 @@ export function createApp(deps: AppDeps) {
 
   if (deps.clientDir && existsSync(deps.clientDir)) {
     const dir = deps.clientDir;
-    app.use(express.static(dir, { index: false, maxAge: "1h", immutable: false }));
-    app.get("/{*splat}", (_req, res) => res.sendFile(join(dir, "index.html")));
+    // Vite names every built asset by its content hash: cache those for a year as immutable. index.html
+    // (and anything unhashed) is revalidated each time, so a new build is picked up at once.
+    app.use("/assets", express.static(join(dir, "assets"), { index: false, maxAge: "365d", immutable: true, fallthrough: false }));
+    app.use(express.static(dir, { index: false, maxAge: 0, setHeaders: (res) => res.setHeader("Cache-Control", "no-cache") }));
+    app.get("/{*splat}", (_req, res) => res.sendFile(join(dir, "index.html"), { headers: { "Cache-Control": "no-cache" } }));
   }
   return app;
 }
