@@ -93,6 +93,15 @@ export function fontRuns(text: string, wanted: FontName): Array<{ font: FontName
   return runs;
 }
 
+/**
+ * JetBrains Mono draws "...", "->", "<=" and the like as contextual ligatures whose glyphs
+ * the Latin subset file lacks (fontkit then reads past the table). Readings and tags
+ * want plain characters anyway: contextual alternates and ligatures off for the mono faces.
+ * A fresh object each time, since fontkit fills it in.
+ */
+const featuresFor = (font: FontName) =>
+  font === "mono" || font === "monoBold" || font === "greek" ? ({ calt: false, liga: false } as unknown as PDFKit.Mixins.TextOptions["features"]) : undefined;
+
 export type TextOpts = PDFKit.Mixins.TextOptions & { font?: FontName; size?: number; color?: string };
 
 /** doc.text with Tideline's fonts and the fallback runs; x/y as pdfkit's. */
@@ -102,14 +111,16 @@ export function text(doc: PDFKit.PDFDocument, str: string, x: number | undefined
   doc.fillColor(color ?? INK.text);
   const runs = fontRuns(str, font);
   if (runs.length <= 1) {
-    doc.font(runs[0]?.font ?? font);
-    if (x === undefined) doc.text(runs[0]?.text ?? "", rest);
-    else doc.text(runs[0]?.text ?? "", x, y, rest);
+    const f = runs[0]?.font ?? font;
+    doc.font(f);
+    const o = { ...rest, features: featuresFor(f) };
+    if (x === undefined) doc.text(runs[0]?.text ?? "", o);
+    else doc.text(runs[0]?.text ?? "", x, y, o);
     return doc;
   }
   runs.forEach((r, i) => {
     doc.font(r.font);
-    const o = { ...rest, continued: i < runs.length - 1 };
+    const o = { ...rest, features: featuresFor(r.font), continued: i < runs.length - 1 };
     if (i === 0 && x !== undefined) doc.text(r.text, x, y, o);
     else doc.text(r.text, o);
   });
@@ -122,7 +133,7 @@ export function heightOf(doc: PDFKit.PDFDocument, str: string, width: number, op
   if (size) doc.fontSize(size);
   doc.font(font);
   const clean = fontRuns(str, font).map((r) => r.text).join("");
-  return doc.heightOfString(clean, { width, ...rest });
+  return doc.heightOfString(clean, { width, ...rest, features: featuresFor(font) });
 }
 
 export function widthOf(doc: PDFKit.PDFDocument, str: string, opts: { font?: FontName; size?: number } = {}) {
@@ -130,7 +141,7 @@ export function widthOf(doc: PDFKit.PDFDocument, str: string, opts: { font?: Fon
   let w = 0;
   for (const r of fontRuns(str, opts.font ?? "body")) {
     doc.font(r.font);
-    w += doc.widthOfString(r.text);
+    w += doc.widthOfString(r.text, { features: featuresFor(r.font) });
   }
   return w;
 }

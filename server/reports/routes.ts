@@ -8,16 +8,15 @@
  */
 import { Router, type Response } from "express";
 import { z } from "zod";
-import { assignTagsBody, labelsQuery, surveyReportQuery } from "../../src/schemas/reports";
+import { REPORT_ROLES, assignTagsBody, labelsQuery, surveyReportQuery } from "../../src/schemas/reports";
 import type { Db } from "../db";
 import { assignTags, findTag } from "../inventory/tags-service";
-import { ANY_MEMBER, requireSiteRole, requireUser } from "../middleware/roles";
+import { requireSiteRole, requireUser } from "../middleware/roles";
 import type { PhotoStorage } from "../photos/storage";
 import { labelItems, renderLabels } from "./labels";
 import { prepareSurveyReport, writeSurveyReport } from "./service";
 
 const tagParams = z.object({ tag: z.string().trim().min(1).max(40, { message: "A tag number has at most 40 characters" }) });
-const LABEL_ROLES = ["curator", "volunteer", "photographer", "scrounger"] as const;
 
 const attachment = (res: Response, filename: string) =>
   res.setHeader("Content-Disposition", `attachment; filename="${filename.replace(/[^A-Za-z0-9._-]/g, "_")}"`);
@@ -25,7 +24,7 @@ const attachment = (res: Response, filename: string) =>
 export function reportRoutes(db: Db, storage: PhotoStorage, publicUrl: string) {
   const r = Router();
 
-  r.get("/sites/:siteId/reports/survey.pdf", requireSiteRole(db, ...ANY_MEMBER), async (req, res) => {
+  r.get("/sites/:siteId/reports/survey.pdf", requireSiteRole(db, ...REPORT_ROLES.report), async (req, res) => {
     const q = surveyReportQuery.parse(req.query);
     const user = res.locals.user!;
     const prepared = await prepareSurveyReport(db, req.params.siteId as string, q, { id: user.id, name: user.name });
@@ -44,7 +43,7 @@ export function reportRoutes(db: Db, storage: PhotoStorage, publicUrl: string) {
     }
   });
 
-  r.get("/sites/:siteId/labels.pdf", requireSiteRole(db, ...LABEL_ROLES), async (req, res) => {
+  r.get("/sites/:siteId/labels.pdf", requireSiteRole(db, ...REPORT_ROLES.labels), async (req, res) => {
     const q = labelsQuery.parse(req.query);
     const { items, untagged } = await labelItems(db, req.params.siteId as string, q);
     const doc = renderLabels(items, { sheet: q.sheet, start: q.start, copies: q.copies, baseUrl: publicUrl, title: "Tideline tag labels" });
@@ -56,7 +55,7 @@ export function reportRoutes(db: Db, storage: PhotoStorage, publicUrl: string) {
     doc.end();
   });
 
-  r.post("/sites/:siteId/tags/assign", requireSiteRole(db, "volunteer", "curator"), async (req, res) => {
+  r.post("/sites/:siteId/tags/assign", requireSiteRole(db, ...REPORT_ROLES.assignTags), async (req, res) => {
     const b = assignTagsBody.parse(req.body);
     res.json(await assignTags(db, req.params.siteId as string, b.positionIds, res.locals.user!.id, b.prefix));
   });

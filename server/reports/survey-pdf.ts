@@ -128,8 +128,9 @@ export async function renderSurvey(doc: PDFKit.PDFDocument, data: ReportData, o:
   const kv = (k: string, v: string) => {
     const y = doc.y;
     text(doc, k, left, y, { size: 10, color: INK.muted, width: 150 });
+    const yk = doc.y;
     text(doc, v, left + 155, y, { size: 10, width: contentW() - 155 });
-    doc.y = Math.max(doc.y, y + 14);
+    doc.y = Math.max(doc.y, yk, y + 14);
     doc.x = left;
   };
   kv("Scope", data.query.boardId ? `Board: ${data.boards[0]?.name ?? ""}` : `Whole site: ${data.boards.map((b) => b.name).join(", ") || "no boards yet"}`);
@@ -416,7 +417,10 @@ function drawBoardFront(doc: PDFKit.PDFDocument, b: ReportBoard, x: number, w: n
     const frac = Math.min(1, Math.max(0, 1 - b.waterLineMm / b.faceHeightMm)); // src/domain/board-geometry.ts waterLineFromTop
     const wy = oy + frac * gh;
     doc.save().moveTo(ox - 6, wy).lineTo(ox + gw + 6, wy).lineWidth(1.6).dash(5, { space: 3 }).strokeColor(INK.tide).stroke().undash().restore();
-    text(doc, `Flood water line ${fmtNum(b.waterLineMm)} mm`, ox, wy + 2, { size: 7, color: INK.tide, lineBreak: false });
+    const label = `Flood water line ${fmtNum(b.waterLineMm)} mm`;
+    const lw = widthOf(doc, label, { size: 7, font: "bold" }) + 6;
+    doc.save().rect(ox + gw - lw, wy - 10, lw, 9).fill("#ffffff").restore();
+    text(doc, label, ox + gw - lw + 3, wy - 9, { size: 7, font: "bold", color: INK.tide, lineBreak: false });
   }
   doc.y = oy + gh + 10;
   doc.x = x;
@@ -453,7 +457,7 @@ async function drawPosition(doc: PDFKit.PDFDocument, p: ReportPosition, x: numbe
     if (c.lampWatts != null) facts.push(["Lamp", `${c.lampWatts} W`]);
     if (c.serial || c.year) facts.push(["Serial, year", [c.serial, c.year ? String(c.year) : ""].filter(Boolean).join(", ")]);
     facts.push(["Heritage", HERITAGE_LABELS[c.heritage]]);
-    facts.push(["Custody", `${CUSTODY_LABELS[c.custody]}${c.custodyLocation ? ` (${c.custodyLocation})` : ""}`]);
+    facts.push(["Custody", `${CUSTODY_LABELS[c.custody]}${c.custodyLocation ? `; at ${c.custodyLocation}` : ""}`]);
   } else facts.push(["Component", "None recorded at this position"]);
 
   const cond: Array<[string, string, string?]> = [];

@@ -22,6 +22,8 @@ export const router = createBrowserRouter([
       { path: paths.admin.path, ...page(() => import("./routes/admin/admin-home")) },
       { path: paths.mailbox.path, ...page(() => import("./routes/admin/mailbox")) },
       { path: paths.account.path, ...page(() => import("./routes/account/account")) },
+      { path: paths.scan.path, ...page(() => import("./routes/reports/scan")) },
+      { path: paths.tag.path, ...page(() => import("./routes/reports/tag")) },
       {
         path: paths.site.path,
         ...page(() => import("./routes/sites/site-layout")),
@@ -48,6 +50,7 @@ export const router = createBrowserRouter([
           { path: "readings/boards/:boardId", ...page(() => import("./routes/readings/board-readings")) },
           { path: "readings/components/:componentId", ...page(() => import("./routes/readings/component-readings")) },
           { path: "parts", ...page(() => import("./routes/parts/parts-list")) },
+          { path: "reports", ...page(() => import("./routes/reports/reports")) },
           { path: "parts/print", ...page(() => import("./routes/parts/parts-print")) },
           { path: "parts/:lineId", ...page(() => import("./routes/parts/part-line")) },
           { path: "*", ...page(() => import("./routes/not-found")) },

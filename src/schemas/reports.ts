@@ -4,6 +4,7 @@
  */
 import { z } from "zod";
 import { LABEL_SHEET_IDS } from "../domain/label-sheets";
+import type { Role } from "../domain/vocab";
 
 /** Sections a person may leave out. Cover, contents and the safety caution are always in. */
 export const REPORT_SECTIONS = ["summary", "board", "positions", "dryout", "defects", "parts"] as const;
@@ -69,3 +70,12 @@ export const tagLookupResponse = z.object({
   matches: z.array(z.object({ siteId: z.string(), siteName: z.string(), boardId: z.string(), boardName: z.string(), positionId: z.string(), designation: z.string() })),
 });
 export type TagLookup = z.infer<typeof tagLookupResponse>;
+
+/** Who may do what here, used by the server's guards and the client's screens alike ([] = every member; admins always). */
+export const REPORT_ROLES = {
+  report: [] as Role[],
+  labels: ["curator", "volunteer", "photographer", "scrounger"] as Role[],
+  assignTags: ["curator", "volunteer"] as Role[],
+};
+export const reportAllowed = (action: keyof typeof REPORT_ROLES, role: Role | "admin") =>
+  role === "admin" || REPORT_ROLES[action].length === 0 || REPORT_ROLES[action].includes(role);

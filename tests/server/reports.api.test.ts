@@ -207,6 +207,15 @@ describe("tag labels", () => {
     expect(await decodeQr(png, crop(slot5))).toMatch(new RegExp(`^${server.base}/t/KL-\\d{4}$`));
   }, 60_000);
 
+  it("every section of the demo prints on the thermal roll (long names cut with an ellipsis, mono text without ligatures)", async () => {
+    const sections = await t.db.selectFrom("sections").select("id").where("siteId", "=", siteId).execute();
+    for (const s of sections) {
+      const r = await getBytes(volunteer, `/api/sites/${siteId}/labels.pdf?sheet=thermal-50x25&sectionId=${s.id}`);
+      expect(r.status).toBe(200);
+      expect(r.bytes.subarray(0, 5).toString()).toBe("%PDF-");
+    }
+  }, 60_000);
+
   it("viewers cannot print labels; a bad start is a 400", async () => {
     expect((await viewer.get(`/api/sites/${siteId}/labels.pdf?boardId=${mainId}`)).status).toBe(403);
     const bad = await volunteer.get(`/api/sites/${siteId}/labels.pdf?boardId=${mainId}&sheet=a4-21&start=0`);
