@@ -32,7 +32,7 @@ test("a viewer makes the main board's survey, watches its pages arrive, and the 
   await openReports(page);
   await expectNoSeriousA11yViolations(page, "reports page");
   await expect(page.getByRole("heading", { name: "Tag labels" })).toHaveCount(0); // viewers do not print labels
-  const board = page.getByRole("form", { name: "Condition survey (PDF)" }).getByLabel("Board");
+  const board = page.getByRole("form", { name: "Condition survey (PDF)" }).getByLabel("Board", { exact: true });
   await board.selectOption((await board.locator("option", { hasText: "Main switchboard" }).getAttribute("value"))!);
   await page.getByRole("button", { name: "Make the report" }).click();
   await expect(page.getByText(/Page \d+ of \d+/)).toBeVisible({ timeout: 60_000 });
