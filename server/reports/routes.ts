@@ -10,6 +10,7 @@ import { Router, type Response } from "express";
 import { z } from "zod";
 import { REPORT_ROLES, assignTagsBody, labelsQuery, surveyReportQuery } from "../../src/schemas/reports";
 import type { Db } from "../db";
+import { limitExports } from "../export-stream";
 import { assignTags, findTag } from "../inventory/tags-service";
 import { requireSiteRole, requireUser } from "../middleware/roles";
 import type { PhotoStorage } from "../photos/storage";
@@ -24,7 +25,7 @@ const attachment = (res: Response, filename: string) =>
 export function reportRoutes(db: Db, storage: PhotoStorage, publicUrl: string) {
   const r = Router();
 
-  r.get("/sites/:siteId/reports/survey.pdf", requireSiteRole(db, ...REPORT_ROLES.report), async (req, res) => {
+  r.get("/sites/:siteId/reports/survey.pdf", requireSiteRole(db, ...REPORT_ROLES.report), limitExports, async (req, res) => {
     const q = surveyReportQuery.parse(req.query);
     const user = res.locals.user!;
     const prepared = await prepareSurveyReport(db, req.params.siteId as string, q, { id: user.id, name: user.name });
@@ -43,7 +44,7 @@ export function reportRoutes(db: Db, storage: PhotoStorage, publicUrl: string) {
     }
   });
 
-  r.get("/sites/:siteId/labels.pdf", requireSiteRole(db, ...REPORT_ROLES.labels), async (req, res) => {
+  r.get("/sites/:siteId/labels.pdf", requireSiteRole(db, ...REPORT_ROLES.labels), limitExports, async (req, res) => {
     const q = labelsQuery.parse(req.query);
     const { items, untagged } = await labelItems(db, req.params.siteId as string, q);
     const doc = renderLabels(items, { sheet: q.sheet, start: q.start, copies: q.copies, baseUrl: publicUrl, title: "Tideline tag labels" });

@@ -9,6 +9,7 @@ import type { Writable } from "node:stream";
 import sharp from "sharp";
 import type { SurveyReportQuery } from "../../src/schemas/reports";
 import type { Db } from "../db";
+import { exportWriteTimeoutMs } from "../export-stream";
 import type { PhotoStorage } from "../photos/storage";
 import { newDocument } from "./pdf-base";
 import { loadSurveyData, type ReportData, type ReportPhoto } from "./survey-data";
@@ -84,7 +85,14 @@ export async function writeSurveyReport(prepared: PreparedReport, storage: Photo
     afterPosition: async (n) => {
       if (out.destroyed) throw new Error("report_aborted");
       onProgress?.(n);
-      if (out.writableNeedDrain) await Promise.race([once(out, "drain"), closed]);
+      if (out.writableNeedDrain) {
+        // A reader that takes nothing for the export timeout is dropped, as every download is (server/export-stream.ts).
+        let timer: NodeJS.Timeout | undefined;
+        const stalled = new Promise<"stalled">((resolve) => (timer = setTimeout(() => resolve("stalled"), exportWriteTimeoutMs())));
+        const got = await Promise.race([once(out, "drain"), closed, stalled]);
+        clearTimeout(timer);
+        if (got === "stalled" || out.destroyed) throw new Error("report_aborted");
+      }
     },
   });
   doc.end();

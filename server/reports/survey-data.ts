@@ -72,6 +72,10 @@ export interface ReportData {
   query: SurveyReportQuery;
 }
 
+/** Defect states in which nothing more is to be done; every other state is "open" in the report. */
+export const FINISHED: DefectStatus[] = ["closed", "accepted_as_is"];
+export const isOpenDefect = (s: DefectStatus) => !FINISHED.includes(s);
+
 /** Photos the report shows per position: as found and after work, newest first, up to this many of each. */
 export const PHOTOS_PER_KIND = 2;
 const REPORT_PHOTO_KINDS: PhotoKind[] = ["as_found", "after_work"];
@@ -168,7 +172,7 @@ async function loadBoard(db: Db, siteId: string, b: BoardRow, q: SurveyReportQue
     db.selectFrom("defects as d").leftJoin("positions as p", "p.id", "d.positionId").leftJoin("users as u", "u.id", "d.assigneeId")
       .select(["d.ref", "d.title", "p.designation", "d.category", "d.severity", "d.status", "d.safetyCritical", "d.blocksEnergisation", "u.name as assigneeName", "d.dueOn", "d.priorityScore"])
       .where("d.siteId", "=", siteId).where("d.boardId", "=", b.id)
-      .orderBy(sql`case when d.status in ('closed','wont_fix') then 1 else 0 end`).orderBy("d.priorityScore", "desc").orderBy("d.ref")
+      .orderBy(sql`case when d.status in (${sql.join(FINISHED.map((x) => sql.lit(x)))}) then 1 else 0 end`).orderBy("d.priorityScore", "desc").orderBy("d.ref")
       .execute(),
   ]);
 

@@ -14,7 +14,7 @@ import {
 } from "../../src/domain/vocab";
 import { REPORT_SECTIONS, type ReportSection } from "../../src/schemas/reports";
 import { INK, SAFETY_CAUTION, SCOPE_STATEMENT, heightOf, line, text, widthOf } from "./pdf-base";
-import type { ReportBoard, ReportData, ReportPhoto, ReportPosition } from "./survey-data";
+import { isOpenDefect, type ReportBoard, type ReportData, type ReportPhoto, type ReportPosition } from "./survey-data";
 
 export interface RenderOptions {
   /** Dry run: lay out only, photos as boxes, numbers unknown. */
@@ -321,7 +321,7 @@ function drawSummary(doc: PDFKit.PDFDocument, data: ReportData, x: number, w: nu
     if (p.component?.heritage === "original" && p.component.custody !== "scrapped" && p.component.custody !== "missing") retained++;
   }
   const defects = data.boards.flatMap((b) => b.defects);
-  const open = defects.filter((d) => d.status !== "closed" && d.status !== "wont_fix");
+  const open = defects.filter((d) => isOpenDefect(d.status));
   const pct = (n: number) => (all.length ? `${Math.round((n / all.length) * 1000) / 10} %` : "—");
 
   const big = (label: string, value: string, bx: number, by: number) => {
@@ -372,7 +372,7 @@ function drawSummary(doc: PDFKit.PDFDocument, data: ReportData, x: number, w: nu
     text(doc, "Per board", x, doc.y, { font: "bold", size: 12, color: INK.brass });
     doc.moveDown(0.2);
     table(doc, x, w, ensure, [{ title: "Board", width: 3 }, { title: "Positions", width: 1, align: "right" }, { title: "Surveyed", width: 1, align: "right" }, { title: "Open defects", width: 1, align: "right" }],
-      data.boards.map((b) => [{ text: b.name }, { text: String(b.positions.length) }, { text: String(b.positions.filter((p) => p.latest).length) }, { text: String(b.defects.filter((d) => d.status !== "closed" && d.status !== "wont_fix").length) }]));
+      data.boards.map((b) => [{ text: b.name }, { text: String(b.positions.length) }, { text: String(b.positions.filter((p) => p.latest).length) }, { text: String(b.defects.filter((d) => isOpenDefect(d.status)).length) }]));
   }
 }
 

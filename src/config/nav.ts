@@ -24,7 +24,7 @@ export const SITE_NAV: NavItem[] = [
   { label: "Wanted parts", href: (s) => paths.parts.href(s), roles: [] },
   { label: "Reports", href: (s) => paths.reports.href(s), roles: [] },
   { label: "Scan tag", href: () => paths.scan.href(), roles: [] },
-  { label: "Flood", href: (s) => paths.floodEvents.href(s), roles: ["curator", "admin"] },
+  { label: "Flood record", href: (s) => paths.floodEvents.href(s), roles: ["curator", "admin"] },
   { label: "Import CSV", href: (s) => paths.inventoryImport.href(s), roles: ["curator", "admin"] },
   { label: "Crew", href: (s) => paths.members.href(s), roles: ["curator", "admin"] },
 ];
