@@ -11,7 +11,7 @@ import type { PartLine } from "../../src/schemas/parts";
 import type { SurveyReportQuery } from "../../src/schemas/reports";
 import type { Db } from "../db";
 import { notFound } from "../errors";
-import { listParts } from "../parts/service";
+import { allLines } from "../parts/service";
 import * as readings from "../readings/service";
 
 export interface ReportPhoto { id: string; kind: PhotoKind; displayKey: string; caption: string; takenAt: Date }
@@ -97,9 +97,7 @@ export async function loadSurveyData(db: Db, siteId: string, q: SurveyReportQuer
   const [flood, criteria, parts] = await Promise.all([
     db.selectFrom("floodEvents").selectAll().where("siteId", "=", siteId).orderBy("occurredOn", "desc").orderBy("createdAt", "desc").limit(1).executeTakeFirst(),
     readings.loadCriteria(db, siteId),
-    q.sections && !q.sections.includes("parts") && !q.sections.includes("summary")
-      ? Promise.resolve({ lines: [] as PartLine[] })
-      : listParts(db, siteId, { status: "open", boardId: q.boardId }, viewer.id),
+    q.sections && !q.sections.includes("parts") && !q.sections.includes("summary") ? Promise.resolve([] as PartLine[]) : openParts(db, siteId, q.boardId),
   ]);
 
   const boards: ReportBoard[] = [];
@@ -130,11 +128,18 @@ export async function loadSurveyData(db: Db, siteId: string, q: SurveyReportQuer
     surveyors: surveyRows.map((r) => ({ name: r.name, inspections: Number(r.n) })),
     inspectedFrom: firsts.length ? new Date(Math.min(...firsts)) : null,
     inspectedTo: lasts.length ? new Date(Math.max(...lasts)) : null,
-    parts: parts.lines,
+    parts,
     generatedAt: new Date(),
     generatedBy: viewer.name,
     query: q,
   };
+}
+
+/** Every open line of the wanted list (of one board, or the site), through the parts service. */
+async function openParts(db: Db, siteId: string, boardId?: string) {
+  const out: PartLine[] = [];
+  for await (const page of allLines(db, siteId, { status: "open", boardId })) out.push(...page);
+  return out;
 }
 
 type BoardRow = Awaited<ReturnType<typeof boardQuery>>[number];
