@@ -126,6 +126,7 @@ test("typing a tag that is on no site of the person's says so without saying mor
 });
 
 test("a volunteer prints thermal labels for one section and gets a PDF", async ({ page }) => {
+  test.setTimeout(120_000); // the accessibility scan of the whole page is slow on a busy machine
   await signIn(page, "volunteer");
   await openReports(page);
   const labels = page.getByRole("form", { name: "Tag labels" });
