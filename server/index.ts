@@ -30,6 +30,7 @@ export async function serve(opts: { db: Db; port: number; host?: string; clientD
 }
 
 if (import.meta.url === `file://${process.argv[1]}`) {
+  process.env.NODE_ENV ??= "production";
   if (!process.env.DATABASE_URL) {
     console.error("Set DATABASE_URL, or use `npm start` for the embedded database.");
     process.exit(1);
