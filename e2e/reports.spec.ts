@@ -100,7 +100,7 @@ test("a volunteer's phone scans a tag with the camera and lands on its position"
     await expectNoSeriousA11yViolations(page, "scan page");
     await page.getByRole("button", { name: "Scan a tag" }).click();
     await page.waitForURL(/\/sites\/[0-9a-f-]{36}\/boards\/[0-9a-f-]{36}\?position=[0-9a-f-]{36}/, { timeout: 30_000 });
-    await expect(page.getByRole("dialog").getByText("M-1").first()).toBeVisible();
+    await expect(page.getByRole("dialog").getByText("M-1").first()).toBeVisible({ timeout: 30_000 });
     await page.screenshot({ path: join(OUT, "scanned-phone.png") });
   } finally {
     await browser.close();
@@ -114,7 +114,7 @@ test("a signed-out person who opens a tag's link signs in and lands on the posit
   await page.getByLabel("Password").fill(DEMO_PASSWORD);
   await page.getByRole("button", { name: "Sign in" }).click();
   await page.waitForURL(/\/boards\/[0-9a-f-]{36}\?position=/);
-  await expect(page.getByRole("dialog").getByText("M-1").first()).toBeVisible();
+  await expect(page.getByRole("dialog").getByText("M-1").first()).toBeVisible({ timeout: 30_000 });
 });
 
 test("typing a tag that is on no site of the person's says so without saying more", async ({ page }) => {
