@@ -150,7 +150,7 @@ export function assessDryOut(
     const piOk = opts.minimumPi == null || (last.pi != null && last.pi >= opts.minimumPi);
     if (stable && atTemp && piOk) return none("complete", "Dry-out criterion met: the last three corrected readings are stable within ±5 % at temperature, reach the minimum, and the PI meets its minimum. A qualified person decides what follows.", null, 3);
     const missing = [!stable && "three readings stable within ±5 %", !atTemp && "readings at the target temperature", !piOk && "a polarization index that meets its minimum"].filter(Boolean).join(", ");
-    return none("reached", `The latest corrected reading reaches the minimum; dry-out not yet shown complete (still needs ${missing}).`, null, 0);
+    return none("reached", `Dry-out not yet shown complete: still needs ${missing}.`, null, 0);
   }
   if (pts.length < 3) return none("too_few", "No estimate: it needs three or more readings.");
   const window = pts.slice(-DRY_OUT_WINDOW);
