@@ -103,7 +103,7 @@ async function main() {
     const cookie = signIn.headers.getSetCookie()[0].split(";")[0];
     const cases: Array<[string, string]> = [
       ["ranked (20 pins), first page", "sort=priority&dir=desc"],
-      ["open+triaged disabling, by due date", "status=open&status=triaged&severity=disabling&sort=dueOn&dir=asc"],
+      ["raised+scheduled disabling, by due date", "status=raised&status=scheduled&severity=disabling&sort=dueOn&dir=asc"],
       ["text search 'verdigris', ranked", "q=verdigris&sort=priority"],
       ["safety-critical, by effort", "flag=safety&sort=effortHours&dir=desc"],
       ["one assignee, by board, page 20", `assignee=${fx.assignee}&sort=board&page=20`],

@@ -7,6 +7,7 @@ import type { Db } from "../db";
 import { AppError } from "../errors";
 import { UNIQUE, defined, mapUnique, requireOwned, stale, updateVersioned } from "./common";
 import * as repo from "./positions-repository";
+import { demandChanged, demandOfPosition } from "../parts/service";
 
 type Board = Selectable<BoardsTable>;
 interface Cell { gridRow: number; gridCol: number; rowSpan?: number; colSpan?: number }
@@ -112,6 +113,7 @@ async function followKind(trx: Db, siteId: string, before: { id: string; boardId
   if (!c || c.kind !== before.kind) return;
   await updateVersioned(trx, "components", siteId, c.id, c.version, { kind }, "component");
   await recordAudit(trx, { siteId, entityType: "component", entityId: c.id, boardId: before.boardId, positionId: before.id, action: "update", actorId, before: { kind: c.kind }, after: { kind } });
+  await demandChanged(trx, siteId, { componentIds: [c.id] }, actorId);
 }
 
 /** Removes the position with its component and survey records; the audit keeps what it was. */
@@ -120,8 +122,11 @@ export async function deletePosition(db: Db, siteId: string, id: string, actorId
     const before = await requireOwned(trx, "positions", siteId, id, "That position", true);
     if (version !== undefined && before.version !== version) throw stale("position", before);
     const component = await repo.currentComponent(trx, id);
+    const demand = await demandOfPosition(trx, siteId, id);
     await repo.deletePosition(trx, id);
     await recordAudit(trx, { siteId, entityType: "position", entityId: id, boardId: before.boardId, positionId: id, action: "delete", actorId, before: { ...before, component } });
+    // Its demand links went with the component; lines left empty close, defects that rode on it stand alone.
+    await demandChanged(trx, siteId, demand, actorId);
   });
 }
 

@@ -101,11 +101,22 @@ export type LeadBody = z.input<typeof leadBody>;
 // No defaults here: an absent field is left as it is.
 export const updateLeadBody = z.object(leadFields).partial().extend({ version });
 
+/** Server-side sorts of the wanted list ("part" = kind, rating, maker, model, need). */
+export const PART_SORTS = ["created", "part", "heritageRule", "qty", "positions", "status", "leadCount", "estimated"] as const;
+export type PartSort = (typeof PART_SORTS)[number];
+export const PART_PAGE_SIZES = [25, 50, 100, 200, 500] as const;
+
 export const listQuery = z.object({
   status: z.enum([...PART_STATUSES, "open", "all"]).default("open"),
   boardId: z.uuid().optional(),
   kind: z.enum(COMPONENT_KINDS).optional(),
   heritageRule: z.enum(HERITAGE_RULES).optional(),
+  /** Words to find in the maker, model, frame, mounting or part wanted. */
+  q: shortText(200).optional(),
+  sort: z.enum(PART_SORTS).optional(),
+  dir: z.enum(["asc", "desc"]).optional(),
+  page: z.coerce.number().int().min(1).max(100_000).optional(),
+  size: z.coerce.number().int().min(1).max(500).optional(),
 });
 export type ListQuery = z.input<typeof listQuery>;
 
@@ -169,6 +180,10 @@ export type PartsBudget = z.infer<typeof budgetSchema>;
 
 export const listResponse = z.object({
   lines: z.array(lineSchema),
+  /** Lines matching the filter on every page; `lines` is page `page` of `size`. */
+  total: z.number(),
+  page: z.number(),
+  size: z.number(),
   budget: budgetSchema,
   boards: z.array(z.object({ id: z.string(), name: z.string() })),
 });
