@@ -65,8 +65,8 @@ export function forecastWords(s: NonNullable<ReturnType<typeof dryOutSeries>>) {
     case "rising": {
       const r = a.hoursToTarget!;
       if (r.central > MAX_FORECAST_HOURS) return `Estimate, not a promise: at the recent rate${rate} the minimum is more than 60 days away; not drawn.${skipped}`;
-      const range = r.high == null ? `at the soonest ${span(r.low)}, no upper bound from these readings` : `range ${span(r.low)} to ${span(r.high)}`;
-      return `Estimate, not a promise: at the recent rate${rate} the corrected value would reach the ${fmt(s.minimum)} MΩ minimum about ${span(r.central)} after the last reading (${range}). Re-test; a qualified person decides.${skipped}`;
+      const range = r.high == null ? ` (at the soonest ${span(r.low)}; no upper bound from these readings)` : span(r.low) === span(r.high) ? "" : ` (range ${span(r.low)} to ${span(r.high)})`;
+      return `Estimate, not a promise: at the recent rate${rate} the corrected value would reach the ${fmt(s.minimum)} MΩ minimum about ${span(r.central)} after the last reading${range}. Re-test; a qualified person decides.${skipped}`;
     }
     case "too_few":
       return `No estimate: it needs three or more readings valid for judging with a rising trend.${skipped}`;
