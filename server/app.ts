@@ -4,10 +4,12 @@ import { join } from "node:path";
 import express, { Router } from "express";
 import { createLucia } from "./auth/lucia";
 import { authRoutes } from "./auth/routes";
+import { createLimiters } from "./auth/throttle";
 import type { Db } from "./db";
 import { AppError } from "./errors";
 import { databaseState } from "./health";
 import { errorHandler } from "./middleware/error-handler";
+import { allowedHostsFrom, hostAllowlist, parseHostList, plainErrorPage, securityHeaders } from "./middleware/hardening";
 import { originCheck } from "./middleware/origin";
 import { sessionMiddleware } from "./middleware/session";
 import { readingRoutes } from "./readings/routes";
@@ -38,6 +40,8 @@ export interface AppDeps {
   publicUrl?: string;
   /** Where photo files go; default from env (PHOTO_STORAGE, local disk under .data/photos). */
   photoStorage?: PhotoStorage;
+  /** Host names served besides loopback and PUBLIC_URL's host (default: ALLOWED_HOSTS). */
+  allowedHosts?: string[];
 }
 
 export function createApp(deps: AppDeps) {
@@ -48,6 +52,8 @@ export function createApp(deps: AppDeps) {
   const lucia = createLucia(db);
   const photoStorage = deps.photoStorage ?? storageFromEnv();
   const mail = { db, mailer: deps.mailer ?? unconfiguredMailer(), publicUrl: (deps.publicUrl ?? "http://127.0.0.1:3000").replace(/\/+$/, "") };
+  app.use(hostAllowlist(allowedHostsFrom({ publicUrl: mail.publicUrl, extra: deps.allowedHosts ?? parseHostList(process.env.ALLOWED_HOSTS) })));
+  app.use(securityHeaders({ https: mail.publicUrl.startsWith("https:") }));
 
   const api = Router();
   api.get("/health", async (_req, res) => {
@@ -58,13 +64,14 @@ export function createApp(deps: AppDeps) {
   api.use(express.json({ limit: "1mb" }));
   api.use(originCheck());
   api.use(sessionMiddleware(lucia));
-  api.use(authRoutes(db, lucia));
+  const limiters = createLimiters(db);
+  api.use(authRoutes(db, lucia, { mail, limiters }));
   api.use(siteRoutes(db));
   api.use(photoRoutes(db, photoStorage));
   api.use(readingRoutes(db));
   api.use(inventoryRoutes(db));
-  api.use(invitationRoutes(mail, lucia));
-  api.use(passwordResetRoutes(mail, lucia));
+  api.use(invitationRoutes(mail, lucia, limiters));
+  api.use(passwordResetRoutes(mail, lucia, limiters));
   api.use(notificationRoutes(db));
   api.use(mailboxRoutes(deps.mailbox));
   api.use(defectRoutes(db, mail));
@@ -82,5 +89,6 @@ export function createApp(deps: AppDeps) {
     app.use(express.static(dir, { index: false, maxAge: "1h", immutable: false }));
     app.get("/{*splat}", (_req, res) => res.sendFile(join(dir, "index.html")));
   }
+  app.use(plainErrorPage);
   return app;
 }

@@ -1,7 +1,8 @@
 import type { Db } from "./db";
 
 export interface AuditEntry {
-  siteId: string;
+  /** null for what belongs to no site (sign-ins, accounts). */
+  siteId: string | null;
   entityType: string;
   entityId: string;
   action: string;

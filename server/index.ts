@@ -8,11 +8,19 @@ import { join } from "node:path";
 import { createApp } from "./app";
 import { createDb, type Db } from "./db";
 import { mailFromEnv } from "./mail/setup";
+import { storageFromEnv } from "./photos/storage";
+import { LocalDiskStorage } from "./photos/storage/local-disk";
 
 /** Also sets up e-mail from the environment (SMTP_URL, or the local fake server); it stops with the server. */
 export async function serve(opts: { db: Db; port: number; host?: string; clientDir?: string }): Promise<Server> {
   const mail = await mailFromEnv({ port: opts.port });
+  const photoStorage = storageFromEnv();
+  if (photoStorage instanceof LocalDiskStorage) {
+    const removed = await photoStorage.removeLeftovers();
+    if (removed.length) console.log(`[tideline] removed ${removed.length} partial photo file(s) left by an interrupted upload`);
+  }
   const app = createApp({
+    photoStorage,
     db: opts.db,
     clientDir: opts.clientDir,
     trustProxy: process.env.TRUST_PROXY === "1",
@@ -30,6 +38,7 @@ export async function serve(opts: { db: Db; port: number; host?: string; clientD
 }
 
 if (import.meta.url === `file://${process.argv[1]}`) {
+  process.env.NODE_ENV ??= "production";
   if (!process.env.DATABASE_URL) {
     console.error("Set DATABASE_URL, or use `npm start` for the embedded database.");
     process.exit(1);

@@ -25,6 +25,27 @@ function requireFits(board: Board, c: Cell) {
   if (Object.keys(f).length) throw new AppError(400, "invalid_input", "That position does not fit on the board's grid.", f);
 }
 
+const overlaps = (a: Required<Cell>, b: Required<Cell>) =>
+  a.gridRow < b.gridRow + b.rowSpan && b.gridRow < a.gridRow + a.rowSpan && a.gridCol < b.gridCol + b.colSpan && b.gridCol < a.gridCol + a.colSpan;
+const full = (c: Cell): Required<Cell> => ({ gridRow: c.gridRow, gridCol: c.gridCol, rowSpan: c.rowSpan ?? 1, colSpan: c.colSpan ?? 1 });
+
+/**
+ * One position per grid cell, as the CSV import refuses: 409 naming the position that
+ * covers the cell. The exclusion constraint positions_one_per_cell (migration
+ * 2026_12_02_0220) backs this for two saves at the same moment.
+ */
+async function requireFreeCells(trx: Db, boardId: string, cells: Cell[], exceptId?: string) {
+  const others = (await repo.boardPositions(trx, boardId)).filter((p) => p.id !== exceptId);
+  for (const c of cells.map(full)) {
+    const hit = others.find((p) => overlaps(full(p), c));
+    if (hit) throw new AppError(409, "cell_taken", `That grid cell is taken by ${hit.designation}.`, { gridRow: `Taken by ${hit.designation}`, gridCol: `Taken by ${hit.designation}` });
+  }
+  const own = cells.map(full);
+  own.forEach((a, i) => {
+    if (own.some((b, j) => j < i && overlaps(a, b))) throw new AppError(409, "cell_taken", "Two of these positions would share a grid cell.", { gridCol: "Overlaps another new position" });
+  });
+}
+
 async function requireSectionOf(db: Db, siteId: string, boardId: string, sectionId: string | null | undefined) {
   if (!sectionId) return;
   const s = await requireOwned(db, "sections", siteId, sectionId, "That section");
@@ -46,6 +67,7 @@ export async function createPosition(db: Db, siteId: string, boardId: string, ac
   return db.transaction().execute(async (trx) => {
     const board = await requireOwned(trx, "boards", siteId, boardId, "That board");
     requireFits(board, body);
+    await requireFreeCells(trx, boardId, [body]);
     await requireSectionOf(trx, siteId, boardId, body.sectionId);
     return (await insertWithComponents(trx, siteId, board, actorId, [body]))[0];
   });
@@ -65,6 +87,7 @@ export async function generatePositions(db: Db, siteId: string, boardId: string,
     }));
     const taken = await repo.designationsTaken(trx, boardId, items.map((x) => x.designation));
     if (taken.length) throw new AppError(409, "duplicate", `Already on this board: ${taken.join(", ")}.`, { prefix: `Already used: ${taken.join(", ")}` });
+    await requireFreeCells(trx, boardId, items);
     return insertWithComponents(trx, siteId, board, actorId, items);
   });
 }
@@ -98,6 +121,7 @@ export async function patchPosition(db: Db, siteId: string, id: string, actorId:
     if (before.version !== version) throw stale("position", before);
     const board = await requireOwned(trx, "boards", siteId, before.boardId, "That board");
     requireFits(board, { ...before, ...patch });
+    if (["gridRow", "gridCol", "rowSpan", "colSpan"].some((k) => k in patch)) await requireFreeCells(trx, before.boardId, [{ ...before, ...patch }], id);
     await requireSectionOf(trx, siteId, before.boardId, patch.sectionId);
     const after = await mapUnique(() => updateVersioned(trx, "positions", siteId, id, version, patch, "position"), UNIQUE.designation);
     const d = diff(before as never, patch as never);

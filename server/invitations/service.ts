@@ -6,8 +6,7 @@ import type { Db } from "../db";
 import { AppError, conflict, notFound } from "../errors";
 import type { MailDeps } from "../mail/mailer";
 import { newToken } from "../one-time-token";
-import { upsertMembership } from "../sites/repository";
-import { addedMessage, invitationMessage } from "./messages";
+import { invitationMessage } from "./messages";
 import * as repo from "./repository";
 
 type Actor = { id: string; name: string; isAdmin: boolean };
@@ -48,8 +47,11 @@ async function deliver(deps: MailDeps, id: string, p: { siteId: string; email: s
 
 export async function createInvitation(deps: MailDeps, siteId: string, email: string, role: Role, actor: Actor) {
   const { db } = deps;
+  // Everyone joins by accepting: an address with an account gets the same invitation and
+  // the same answer as one without (the link then asks for that account's password).
   const existing = await findUserByEmail(db, email);
-  if (existing) return addExistingUser(deps, siteId, existing, role, actor);
+  if (existing && (await repo.isMember(db, siteId, existing.id)))
+    throw new AppError(409, "already_member", "That person is already on this site's crew.", { email: "Already on the crew" });
   const { token, hash } = newToken();
   const expiresAt = expiry();
   const id = await db
@@ -69,18 +71,6 @@ export async function createInvitation(deps: MailDeps, siteId: string, email: st
   await deliver(deps, id, { siteId, email, role, token, inviterName: actor.name, expiresAt });
   const row = await repo.findInvitation(db, siteId, id);
   return { outcome: "invited" as const, invitation: toView(row!, actor) };
-}
-
-async function addExistingUser(deps: MailDeps, siteId: string, user: { id: string; email: string }, role: Role, actor: Actor) {
-  await deps.db.transaction().execute(async (trx) => {
-    if (await repo.isMember(trx, siteId, user.id)) throw new AppError(409, "already_member", "That person is already on this site's crew.", { email: "Already on the crew" });
-    await upsertMembership(trx, siteId, user.id, role);
-    await recordAudit(trx, { siteId, entityType: "membership", entityId: user.id, action: "added_by_invitation", actorId: actor.id, after: { role } });
-  });
-  // A courtesy note; the membership stands whether or not it is delivered.
-  const msg = addedMessage({ siteName: await siteName(deps.db, siteId), role, inviterName: actor.name, url: `${deps.publicUrl}/sites/${siteId}` });
-  await deps.mailer.send({ to: user.email, ...msg, fromName: `${actor.name} via Tideline` });
-  return { outcome: "added" as const, invitation: null };
 }
 
 async function liveOrConflict(db: Db, siteId: string, id: string, actor: Actor) {

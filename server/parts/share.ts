@@ -5,6 +5,7 @@
  */
 import { createHash, randomBytes } from "node:crypto";
 import { sql } from "kysely";
+import { partTitle } from "../../src/domain/part-workflow";
 import { sharedListResponse, type SharedList } from "../../src/schemas/parts";
 import { recordAudit } from "../audit";
 import type { Db } from "../db";
@@ -56,7 +57,9 @@ export async function sharedList(db: Db, token: string): Promise<SharedList> {
     siteName: site.name,
     lines: lines.map((l) => ({
       ref: l.id.slice(0, 8), kind: l.kind, ratingAmps: l.ratingAmps, poles: l.poles, voltageRating: l.voltageRating, frame: l.frame, mounting: l.mounting,
-      maker: l.maker, model: l.model, need: l.need, title: l.title, qty: l.qty, heritageRule: l.heritageRule, status: l.status,
+      // Structured fields only: a line's "need" and its title's tail are free text typed on a defect
+      // (phone numbers and prices have turned up there), so neither leaves the site.
+      maker: l.maker, model: l.model, need: "", title: partTitle({ ...l, mustMatch: undefined }), qty: l.qty, heritageRule: l.heritageRule, status: l.status,
       photoUrls: l.photoIds.map((p) => `/api/share/parts/${token}/photos/${p}`),
     })),
   });

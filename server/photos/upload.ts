@@ -13,7 +13,9 @@ export const UPLOAD_LIMITS = {
   headerPairs: 200,
 };
 
-const upload = multer({ storage: multer.memoryStorage(), limits: UPLOAD_LIMITS }).array("files", UPLOAD_LIMITS.files);
+// Browsers send a file name as raw UTF-8 in filename="…"; busboy reads such parameters as
+// latin1 unless told otherwise ("Ståle.jpg" would become "StÃ¥le.jpg"). multer passes the option on.
+const upload = multer({ storage: multer.memoryStorage(), limits: UPLOAD_LIMITS, defParamCharset: "utf8" }).array("files", UPLOAD_LIMITS.files);
 
 const MESSAGES: Record<string, [number, string]> = {
   LIMIT_FILE_SIZE: [413, `A file is larger than ${UPLOAD_LIMITS.fileSize / 1024 / 1024} MB; Tideline accepts pictures up to that size.`],

@@ -5,6 +5,7 @@
  * against the site's method (→ 400 naming the field).
  */
 import { z } from "zod";
+import { text as safeText, int, isoDateTime } from "./common";
 import { CORRECTION_METHODS, VERDICTS } from "../domain/reading-judgement";
 import { READING_QUALIFIERS, THERMAL_CLASSES } from "../domain/insulation";
 import { TRIP_UNITS } from "../domain/trip-test";
@@ -28,20 +29,20 @@ const megohms = (label: string) => num(label, 0, 1e7, "MΩ");
 const qualifier = opt(z.enum(READING_QUALIFIERS, { message: "Choose at or above the meter's range, or below its resolution" }));
 export const QUALIFIER_LABELS = { at_or_above: "≥ meter's limit", below: "≤ resolution" } as const;
 
-const measuredAt = z.iso.datetime({ offset: true, message: "Give the date and time of the reading" });
-const text = (max: number) => z.string().trim().max(max).default("");
+const measuredAt = isoDateTime("Give the date and time of the reading");
+const text = (max: number) => safeText().trim().max(max).default("");
 
 export const insulationReadingBody = z.object({
   componentId: opt(z.uuid({ message: "componentId must be a UUID" })),
   circuit: text(120),
-  testVoltsDc: z.number().int({ message: "Test voltage must be whole volts" }).min(50, { message: "Test voltage must be at least 50 V DC" }).max(15000, { message: "Test voltage must be at most 15000 V DC" }),
+  testVoltsDc: int({ message: "Test voltage must be whole volts" }).min(50, { message: "Test voltage must be at least 50 V DC" }).max(15000, { message: "Test voltage must be at most 15000 V DC" }),
   megohms: megohms("Reading"),
   megohmsQualifier: qualifier,
   conductors: z.enum(CONDUCTORS, { message: "Choose which conductors were tested" }),
   equipmentTempC: num("Equipment temperature", -10, 110, "°C"),
   ambientTempC: opt(num("Ambient temperature", -40, 80, "°C")),
   humidityPercent: opt(num("Relative humidity", 0, 100, "%")),
-  durationS: opt(z.number().int().min(1, { message: "Duration must be at least 1 s" }).max(3600, { message: "Duration must be at most 3600 s" })),
+  durationS: opt(int().min(1, { message: "Duration must be at least 1 s" }).max(3600, { message: "Duration must be at most 3600 s" })),
   r30s: opt(megohms("30-second reading")),
   r1min: opt(megohms("1-minute reading")),
   r10min: opt(megohms("10-minute reading")),
@@ -98,37 +99,37 @@ export const criteriaBody = z.object({
   minimumSource: text(500),
   contactOutlierPercent: num("Contact threshold", 1, 500, "%"),
   dewPointMarginK: num("Dew-point margin", 0, 20, "K").default(3),
-  version: z.number().int().min(0),
+  version: int().min(0),
 }).refine((b) => b.minimumMegohms === null || b.minimumSource !== "", { message: "Say where the site's minimum comes from", path: ["minimumSource"] });
 export type CriteriaBody = z.input<typeof criteriaBody>;
 
 export const overrideBody = z.object({
   minimumMegohms: opt(positive("Manufacturer's minimum", 1e7, "MΩ")),
   maximumMicroOhms: opt(positive("Manufacturer's maximum", 1e7, "µΩ")),
-  source: z.string().trim().min(1, { message: "Say where the manufacturer's value comes from" }).max(500),
-  version: z.number().int().min(0).optional(),
+  source: safeText().trim().min(1, { message: "Say where the manufacturer's value comes from" }).max(500),
+  version: int().min(0).optional(),
 }).refine((b) => b.minimumMegohms !== null || b.maximumMicroOhms !== null, { message: "Give a minimum MΩ, a maximum µΩ, or both", path: ["minimumMegohms"] });
 export type OverrideBody = z.input<typeof overrideBody>;
 
 // ---- Responses ---------------------------------------------------------------------------
-export const sourceSchema = z.object({ table: z.string(), text: z.string() });
+export const sourceSchema = z.object({ table: safeText(), text: safeText() });
 const ratioBound = z.enum(["exact", "at_least", "at_most", "not_computable"]);
 export type CriterionSourceDto = z.infer<typeof sourceSchema>;
 const verdict = z.enum(VERDICTS);
 const base = {
-  id: z.string(),
-  boardId: z.string(),
-  componentId: z.string().nullable(),
-  designation: z.string().nullable(),
-  measuredAt: z.string(),
-  instrument: z.string(),
-  notes: z.string(),
-  recordedBy: z.string().nullable(),
+  id: safeText(),
+  boardId: safeText(),
+  componentId: safeText().nullable(),
+  designation: safeText().nullable(),
+  measuredAt: safeText(),
+  instrument: safeText(),
+  notes: safeText(),
+  recordedBy: safeText().nullable(),
 };
 
 export const insulationReadingSchema = z.object({
   ...base,
-  circuit: z.string(),
+  circuit: safeText(),
   testVoltsDc: z.number(),
   megohms: z.number(),
   conductors: z.enum(CONDUCTORS),
@@ -162,8 +163,8 @@ export const insulationReadingSchema = z.object({
     suggestedTestVoltsDc: z.number(),
     testVoltageOver: z.boolean(),
     verdict,
-    reasons: z.array(z.string()),
-    notes: z.array(z.string()),
+    reasons: z.array(safeText()),
+    notes: z.array(safeText()),
   }),
 });
 export type InsulationReading = z.infer<typeof insulationReadingSchema>;
@@ -177,7 +178,7 @@ export const contactReadingSchema = z.object({
     overMaximum: z.array(z.number()),
     limitMicroOhms: z.number(),
     verdict,
-    reasons: z.array(z.string()),
+    reasons: z.array(safeText()),
     sources: z.array(sourceSchema),
   }),
 });
@@ -190,7 +191,7 @@ export const thermalScanSchema = z.object({
   ambientTempC: z.number().nullable(),
   loadPercent: z.number().nullable(),
   loadAmps: z.number().nullable(),
-  photoId: z.string().nullable(),
+  photoId: safeText().nullable(),
   judgement: z.object({
     overSimilarC: z.number().nullable(),
     overAmbientC: z.number().nullable(),
@@ -199,8 +200,8 @@ export const thermalScanSchema = z.object({
     measuredLevel: z.number(),
     scaledLevel: z.number().nullable(),
     level: z.number(),
-    action: z.string(),
-    warnings: z.array(z.string()),
+    action: safeText(),
+    warnings: z.array(safeText()),
     verdict,
     source: sourceSchema,
   }),
@@ -209,7 +210,7 @@ export type ThermalScan = z.infer<typeof thermalScanSchema>;
 
 export const groundCheckSchema = z.object({
   ...base,
-  energisation: z.string(),
+  energisation: safeText(),
   lineVolts: z.number(),
   lamps: phases(z.enum(LAMP_LOOKS)).nullable(),
   volts: phases(z.number()).nullable(),
@@ -218,7 +219,7 @@ export const groundCheckSchema = z.object({
   judgement: z.object({
     phase: z.enum(PHASE_KEYS).nullable(), faultOhms: z.number().nullable(),
     faultRange: z.object({ lowOhms: z.number().nullable(), centralOhms: z.number().nullable(), highOhms: z.number().nullable(), capacitanceNeglected: z.boolean() }).nullable(),
-    words: z.string(), verdict, source: sourceSchema,
+    words: safeText(), verdict, source: sourceSchema,
   }),
 });
 export type GroundCheck = z.infer<typeof groundCheckSchema>;
@@ -228,29 +229,29 @@ export const criteriaSchema = z.object({
   insulationMedium: z.enum(INSULATION_MEDIA),
   thermalClass: z.enum(THERMAL_CLASSES),
   minimumMegohms: z.number().nullable(),
-  minimumSource: z.string(),
+  minimumSource: safeText(),
   contactOutlierPercent: z.number(),
   dewPointMarginK: z.number(),
   version: z.number(),
-  updatedAt: z.string().nullable(),
+  updatedAt: safeText().nullable(),
 });
 export type Criteria = z.infer<typeof criteriaSchema>;
 
 export const overrideSchema = z.object({
-  componentId: z.string(),
+  componentId: safeText(),
   minimumMegohms: z.number().nullable(),
   maximumMicroOhms: z.number().nullable(),
-  source: z.string(),
+  source: safeText(),
   version: z.number(),
 });
 export type ComponentOverride = z.infer<typeof overrideSchema>;
 
 export const readingTargetsSchema = z.object({
   boards: z.array(z.object({
-    id: z.string(),
-    name: z.string(),
+    id: safeText(),
+    name: safeText(),
     nominalVolts: z.number(),
-    positions: z.array(z.object({ positionId: z.string(), designation: z.string(), circuit: z.string(), componentId: z.string().nullable(), kind: z.string() })),
+    positions: z.array(z.object({ positionId: safeText(), designation: safeText(), circuit: safeText(), componentId: safeText().nullable(), kind: safeText() })),
   })),
 });
 export type ReadingTargets = z.infer<typeof readingTargetsSchema>;
@@ -292,7 +293,7 @@ export const tripTestSchema = z.object({
   test: z.enum(TRIP_TESTS),
   tripUnit: z.enum(TRIP_UNITS),
   adjustable: z.boolean(),
-  pole: z.string(),
+  pole: safeText(),
   ratingAmps: z.number(),
   systemVolts: z.number(),
   testAmps: z.number().nullable(),
@@ -303,7 +304,7 @@ export const tripTestSchema = z.object({
   publishedLowAmps: z.number().nullable(),
   publishedHighAmps: z.number().nullable(),
   pickupAmps: z.number().nullable(),
-  judgement: z.object({ verdict, reasons: z.array(z.string()), window: z.string(), source: sourceSchema }),
+  judgement: z.object({ verdict, reasons: z.array(safeText()), window: safeText(), source: sourceSchema }),
 });
 export type TripTest = z.infer<typeof tripTestSchema>;
 
@@ -313,7 +314,7 @@ export const stepVoltageBody = z.object({
   conductors: z.enum(CONDUCTORS, { message: "Choose which conductors were tested" }),
   equipmentTempC: opt(num("Equipment temperature", -10, 110, "°C")),
   steps: z.array(z.object({
-    testVoltsDc: z.number().int({ message: "Whole volts" }).min(50, { message: "At least 50 V DC" }).max(15000, { message: "At most 15000 V DC" }),
+    testVoltsDc: int({ message: "Whole volts" }).min(50, { message: "At least 50 V DC" }).max(15000, { message: "At most 15000 V DC" }),
     megohms: megohms("Reading"),
   })).min(2, { message: "Give at least two steps" }).max(8, { message: "At most eight steps" }),
   instrument: text(200),
@@ -325,18 +326,18 @@ export type StepVoltageBody = z.input<typeof stepVoltageBody>;
 
 export const stepVoltageSchema = z.object({
   ...base,
-  circuit: z.string(),
+  circuit: safeText(),
   conductors: z.enum(CONDUCTORS),
   equipmentTempC: z.number().nullable(),
   steps: z.array(z.object({ testVoltsDc: z.number(), megohms: z.number() })),
-  judgement: z.object({ largestFall: z.number(), verdict, reasons: z.array(z.string()), source: sourceSchema }),
+  judgement: z.object({ largestFall: z.number(), verdict, reasons: z.array(safeText()), source: sourceSchema }),
 });
 export type StepVoltageTest = z.infer<typeof stepVoltageSchema>;
 
 export const groundHuntBody = z.object({
-  hunt: z.string().trim().min(1, { message: "Name this hunt (e.g. the energisation it belongs to)" }).max(120),
+  hunt: safeText().trim().min(1, { message: "Name this hunt (e.g. the energisation it belongs to)" }).max(120),
   positionId: opt(z.uuid({ message: "positionId must be a UUID" })),
-  feeder: z.string().trim().min(1, { message: "Name the feeder opened or closed" }).max(120),
+  feeder: safeText().trim().min(1, { message: "Name the feeder opened or closed" }).max(120),
   action: z.enum(["opened", "closed"], { message: "Opened or closed?" }),
   lamps: phases(z.enum(LAMP_LOOKS, { message: "Choose bright, dim or dark" })),
   notes: text(2000),
@@ -346,29 +347,29 @@ export type GroundHuntBody = z.input<typeof groundHuntBody>;
 
 export const groundHuntStepSchema = z.object({
   ...base,
-  hunt: z.string(),
-  positionId: z.string().nullable(),
-  feeder: z.string(),
+  hunt: safeText(),
+  positionId: safeText().nullable(),
+  feeder: safeText(),
   action: z.enum(["opened", "closed"]),
   lamps: phases(z.enum(LAMP_LOOKS)),
 });
 export type GroundHuntStep = z.infer<typeof groundHuntStepSchema>;
-export const groundHuntSchema = z.object({ hunt: z.string(), steps: z.array(groundHuntStepSchema), finding: z.object({ feeder: z.string().nullable(), words: z.string() }) });
+export const groundHuntSchema = z.object({ hunt: safeText(), steps: z.array(groundHuntStepSchema), finding: z.object({ feeder: safeText().nullable(), words: safeText() }) });
 export type GroundHunt = z.infer<typeof groundHuntSchema>;
 
 export const phaseComparisonSchema = z.object({
-  key: z.string(),
-  label: z.string(),
-  measuredAt: z.string(),
+  key: safeText(),
+  label: safeText(),
+  measuredAt: safeText(),
   values: z.object({ A: z.number().nullable(), B: z.number().nullable(), C: z.number().nullable() }),
   flagged: z.array(z.enum(PHASE_KEYS)),
   trend: z.array(z.object({ conductors: z.enum(CONDUCTORS), previous: z.number(), current: z.number(), dropFraction: z.number(), flagged: z.boolean() })),
-  reasons: z.array(z.string()),
+  reasons: z.array(safeText()),
 });
 export type PhaseComparison = z.infer<typeof phaseComparisonSchema>;
 
 export const boardReadingsSchema = z.object({
-  board: z.object({ id: z.string(), name: z.string(), nominalVolts: z.number() }),
+  board: z.object({ id: safeText(), name: safeText(), nominalVolts: z.number() }),
   insulation: z.array(insulationReadingSchema),
   contacts: z.array(contactReadingSchema),
   thermal: z.array(thermalScanSchema),
@@ -381,7 +382,7 @@ export const boardReadingsSchema = z.object({
 export type BoardReadings = z.infer<typeof boardReadingsSchema>;
 
 export const componentReadingsSchema = z.object({
-  component: z.object({ id: z.string(), boardId: z.string(), boardName: z.string(), designation: z.string(), circuit: z.string(), kind: z.string(), ratedVolts: z.number() }),
+  component: z.object({ id: safeText(), boardId: safeText(), boardName: safeText(), designation: safeText(), circuit: safeText(), kind: safeText(), ratedVolts: z.number() }),
   override: overrideSchema.nullable(),
   insulation: z.array(insulationReadingSchema),
   contacts: z.array(contactReadingSchema),
