@@ -25,6 +25,7 @@ import { notificationRoutes } from "./notifications/routes";
 import { passwordResetRoutes } from "./password-reset/routes";
 import { defectRoutes } from "./defects/routes";
 import { partsRoutes } from "./parts/routes";
+import { reportRoutes } from "./reports/routes";
 import { rtsRoutes } from "./return-to-service/routes";
 
 export interface AppDeps {
@@ -77,6 +78,7 @@ export function createApp(deps: AppDeps) {
   api.use(mailboxRoutes(deps.mailbox));
   api.use(defectRoutes(db, mail));
   api.use(partsRoutes(db, photoStorage));
+  api.use(reportRoutes(db, photoStorage, mail.publicUrl));
   api.use(rtsRoutes(db));
   api.use((_req, _res, next) => next(new AppError(404, "not_found", "No such API route.")));
   api.use(errorHandler);
