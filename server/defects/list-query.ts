@@ -67,16 +67,19 @@ const STATUS_ORDER = sql`array_position(ARRAY['raised','scheduled','under_repair
 /**
  * The ranked order as ORDER BY keys (for "priority desc"), equal to rankDefects() of
  * src/domain/priority.ts for non-chained pins: a pinned defect takes its target's key
- * (score desc, created asc, id asc) and sits just before (above) or after (below) it;
+ * (safety-critical first, score desc, created asc, id asc) and sits just before (above) or after (below) it;
  * several "above" pins keep their own order, several "below" pins the reverse of it.
  * No window over the whole site: only the page's rows are sorted by keys, not ranks.
  */
 const BELOW = sql`(t.id IS NOT NULL AND pin.direction = 'below')`;
 export const RANK_KEYS: Array<[ReturnType<typeof sql>, "ASC" | "DESC"]> = [
+  // Safety-critical first (issue 13 item 7): the same key as compareByPriority's first term.
+  [sql`coalesce(t.safety_critical, d.safety_critical)`, "DESC"],
   [sql`coalesce(t.priority_score, d.priority_score)`, "DESC"],
   [sql`coalesce(t.created_at, d.created_at)`, "ASC"],
   [sql`coalesce(t.id, d.id)`, "ASC"],
   [sql`CASE WHEN t.id IS NULL THEN 0 WHEN pin.direction = 'above' THEN -1 ELSE 1 END`, "ASC"],
+  [sql`CASE WHEN ${BELOW} THEN NOT d.safety_critical ELSE d.safety_critical END`, "DESC"],
   [sql`CASE WHEN ${BELOW} THEN -d.priority_score ELSE d.priority_score END`, "DESC"],
   [sql`CASE WHEN ${BELOW} THEN NULL ELSE d.created_at END`, "ASC"],
   [sql`CASE WHEN ${BELOW} THEN d.created_at END`, "DESC"],
