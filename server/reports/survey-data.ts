@@ -13,6 +13,8 @@ import type { Db } from "../db";
 import { notFound } from "../errors";
 import { allLines } from "../parts/service";
 import * as readings from "../readings/service";
+import { boardView } from "../return-to-service/view";
+import type { RtsBoardView } from "../../src/schemas/return-to-service";
 
 export interface ReportPhoto { id: string; kind: PhotoKind; displayKey: string; caption: string; takenAt: Date }
 
@@ -56,6 +58,8 @@ export interface ReportBoard {
   insulationSeries: Array<{ label: string; readings: InsulationReading[] }>;
   groundChecks: GroundCheck[];
   defects: ReportDefect[];
+  /** The board's return-to-service record (server/return-to-service), when that section is asked for. */
+  rts: RtsBoardView | null;
 }
 
 export interface ReportData {
@@ -101,7 +105,11 @@ export async function loadSurveyData(db: Db, siteId: string, q: SurveyReportQuer
   ]);
 
   const boards: ReportBoard[] = [];
-  for (const b of boardRows) boards.push(await loadBoard(db, siteId, b, q));
+  for (const b of boardRows) {
+    const board = await loadBoard(db, siteId, b, q);
+    board.rts = !q.sections || q.sections.includes("rts") ? await boardView(db, siteId, b.id, new Date()) : null;
+    boards.push(board);
+  }
 
   const boardIds = boardRows.map((b) => b.id);
   const surveyRows = boardIds.length
@@ -247,6 +255,7 @@ async function loadBoard(db: Db, siteId: string, b: BoardRow, q: SurveyReportQue
     insulationSeries: [...series.values()].sort((x, y) => x.label.localeCompare(y.label, undefined, { numeric: true })),
     groundChecks: groundChecks.filter((r) => inRange(r.measuredAt, q)),
     defects: defects.map((d) => ({ ...d, priorityScore: Number(d.priorityScore), dueOn: d.dueOn ?? null })),
+    rts: null,
   };
 }
 

@@ -14,6 +14,7 @@ import {
 } from "../../src/domain/vocab";
 import { REPORT_SECTIONS, type ReportSection } from "../../src/schemas/reports";
 import { INK, SAFETY_CAUTION, SCOPE_STATEMENT, heightOf, line, text, widthOf } from "./pdf-base";
+import { STAGE_STATUS_LABELS, STEP_KIND_LABELS, SUPPLY_LABELS } from "../../src/domain/return-to-service";
 import { isOpenDefect, type ReportBoard, type ReportData, type ReportPhoto, type ReportPosition } from "./survey-data";
 
 export interface RenderOptions {
@@ -53,6 +54,7 @@ export function tocEntries(data: ReportData): TocEntry[] {
       if (used.has("")) out.push({ key: `sec:none:${b.id}`, title: "Positions outside any section", level: 1 });
     }
     if (s.includes("dryout")) out.push({ key: `dryout:${b.id}`, title: "Insulation dry-out charts", level: 1 });
+    if (s.includes("rts")) out.push({ key: `rts:${b.id}`, title: "Return-to-service record", level: 1 });
     if (s.includes("defects")) out.push({ key: `defects:${b.id}`, title: "Defect register", level: 1 });
   }
   if (s.includes("parts")) out.push({ key: "parts", title: "Parts wanted", level: 0 });
@@ -221,6 +223,13 @@ export async function renderSurvey(doc: PDFKit.PDFDocument, data: ReportData, o:
         { size: 8.5, color: INK.muted },
       );
       drawDryOut(doc, b, left, contentW(), ensure);
+    }
+    if (sections.includes("rts")) {
+      addPage();
+      mark(`rts:${b.id}`, "Return-to-service record", 1);
+      text(doc, `${b.name} · Return-to-service record`, left, doc.y, { font: "bold", size: 13, color: INK.brass });
+      doc.moveDown(0.3);
+      drawRts(doc, b, left, contentW(), ensure);
     }
     if (sections.includes("defects")) {
       addPage();
@@ -636,4 +645,49 @@ function drawParts(doc: PDFKit.PDFDocument, data: ReportData, x: number, w: numb
       { text: l.title }, { text: String(l.qty) }, { text: PART_STATUS_LABELS[l.status] }, { text: HERITAGE_RULE_LABELS[l.heritageRule] },
       { text: l.positions.filter((p) => p.state === "active").map((p) => `${p.boardName ?? ""} ${p.designation ?? ""}`.trim()).join(", ") || "spares" },
     ]));
+}
+
+/** Stages in order with their hold points and every sign-off entry; released-with-reason items and incidents in red. */
+function drawRts(doc: PDFKit.PDFDocument, b: ReportBoard, x: number, w: number, ensure: (h: number) => void) {
+  const v = b.rts;
+  if (!v || v.stages.length === 0) {
+    text(doc, "No return-to-service stages are recorded for this board.", x, doc.y, { size: 9.5, color: INK.muted });
+    return;
+  }
+  text(doc, "Each stage as planned and as signed: hold points, who signed them and when. Items released with a reason instead of signed are in red. The record shows what people signed; it declares nothing safe.", x, doc.y, { size: 8, color: INK.muted, width: w });
+  doc.moveDown(0.4);
+  v.stages.forEach((st, i) => {
+    ensure(90);
+    text(doc, `Stage ${i + 1}: ${st.name} · ${STAGE_STATUS_LABELS[st.status] ?? st.status}`, x, doc.y, { font: "bold", size: 11, width: w });
+    const bits = [
+      SUPPLY_LABELS[st.supply] ?? st.supply,
+      st.protectionDevice ? `protection ${st.protectionDevice}${st.protectionRatingA != null ? ` ${st.protectionRatingA} A` : ""}` : "",
+      st.qualifiedPerson ? `qualified person ${st.qualifiedPerson.name}${st.qualifiedPerson.qualification ? ` (${st.qualifiedPerson.qualification})` : ""}` : "",
+      st.energisedAt ? `energised ${fmtDate(st.energisedAt)}` : "",
+      st.releasedAt ? `released ${fmtDate(st.releasedAt)}` : "",
+      `watch ${st.watchHours} h, checks every ${st.checkEveryHours} h`,
+      st.positions.length ? `positions ${st.positions.map((p) => p.designation).join(", ")}` : "",
+    ].filter(Boolean);
+    text(doc, bits.join(" · "), x, doc.y, { size: 8.5, color: INK.muted, width: w });
+    doc.moveDown(0.2);
+    table(doc, x, w, ensure, [{ title: "Step", width: 3 }, { title: "Kind", width: 1.3 }, { title: "Entries (oldest first)", width: 4 }],
+      st.steps.map((step) => {
+        const released = step.entries.some((e) => e.kind === "released" && !e.supersededBy);
+        const entries = step.entries.map((e) =>
+          `${e.kind === "signed" ? "Signed" : e.kind === "released" ? "Released with reason" : "Struck"} by ${e.signerName} ${fmtDate(e.signedAt)} ${new Date(e.signedAt).toISOString().slice(11, 16)} UTC${e.reason ? `: ${e.reason}` : ""}${e.supersededBy ? " (superseded)" : ""}`).join("\n") || "Not signed";
+        return [{ text: `${step.title}${step.qualifiedOnly ? " (qualified person)" : ""}`, color: released ? INK.flare : undefined, bold: released },
+          { text: STEP_KIND_LABELS[step.kind] ?? step.kind }, { text: entries, color: released ? INK.flare : undefined }];
+      }));
+  });
+  const events = v.events.filter((e) => e.kind !== "signoff");
+  if (events.length) {
+    text(doc, "Energisations, watch checks, incidents and breaker operations", x, doc.y, { font: "bold", size: 11, color: INK.brass });
+    doc.moveDown(0.2);
+    table(doc, x, w, ensure, [{ title: "When (UTC)", width: 1.4 }, { title: "Stage", width: 1.6 }, { title: "What", width: 4 }, { title: "By", width: 1.2 }],
+      events.map((e) => {
+        const red = e.alert || e.kind === "incident";
+        return [{ text: `${fmtDate(e.at)} ${new Date(e.at).toISOString().slice(11, 16)}` }, { text: e.stageName },
+          { text: `${e.title}${e.detail ? `: ${e.detail}` : ""}`, color: red ? INK.flare : undefined, bold: red }, { text: e.by ?? "—" }];
+      }));
+  }
 }

@@ -7,13 +7,14 @@ import { LABEL_SHEET_IDS } from "../domain/label-sheets";
 import type { Role } from "../domain/vocab";
 
 /** Sections a person may leave out. Cover, contents and the safety caution are always in. */
-export const REPORT_SECTIONS = ["summary", "board", "positions", "dryout", "defects", "parts"] as const;
+export const REPORT_SECTIONS = ["summary", "board", "positions", "dryout", "rts", "defects", "parts"] as const;
 export type ReportSection = (typeof REPORT_SECTIONS)[number];
 export const REPORT_SECTION_LABELS: Record<ReportSection, string> = {
   summary: "Summary",
   board: "Board front",
   positions: "Positions, one by one",
   dryout: "Dry-out charts",
+  rts: "Return-to-service record",
   defects: "Defect register",
   parts: "Parts wanted",
 };

@@ -93,7 +93,7 @@ describe("condition survey report", () => {
 
   it("a viewer downloads the main board's report with every section, the caution and the statement that it certifies nothing", () => {
     for (const s of ["Condition survey", "MV Kestrel Lantern", "Main switchboard", "Contents", "Summary", "Board front", "Insulation dry-out",
-      "Defect register", "Parts wanted", "Flood event", "Safety caution and scope of this report"]) expect(text).toContain(s);
+      "Defect register", "Parts wanted", "Flood event", "Return-to-service record", "Safety caution and scope of this report"]) expect(text).toContain(s);
     expect(text).toContain("Flooded switchgear can kill: electric shock and arc flash.");
     expect(text).toContain("NFPA 70E");
     expect(text.replace(/\s+/g, " ")).toContain("It certifies nothing: it does not declare any equipment safe");
