@@ -475,7 +475,13 @@ export interface InsulationReadingsTable extends ReadingRow {
   r30sMegohms: Num;
   r1minMegohms: Num;
   r10minMegohms: Num;
+  /** Issue 13: how the meter showed each value (null = exactly). */
+  megohmsQualifier: ReadingQualifierCol;
+  r30sQualifier: ReadingQualifierCol;
+  r1minQualifier: ReadingQualifierCol;
+  r10minQualifier: ReadingQualifierCol;
 }
+export type ReadingQualifierCol = "at_or_above" | "below" | null;
 
 export interface ContactReadingsTable extends ReadingRow {
   componentId: string;
@@ -503,6 +509,44 @@ export interface GroundLampChecksTable extends ReadingRow {
   voltsB: Num;
   voltsC: Num;
   branchOhms: Num;
+  capacitanceMicroF: Num;
+}
+
+export interface TripTestsTable extends ReadingRow {
+  componentId: string;
+  test: "inverse_time" | "instantaneous";
+  tripUnit: "thermal_magnetic" | "electronic";
+  adjustable: Generated<boolean>;
+  pole: Text;
+  ratingAmps: number;
+  systemVolts: number;
+  testAmps: Num;
+  tripSeconds: Num;
+  bandMinSeconds: Num;
+  bandMaxSeconds: Num;
+  settingAmps: Num;
+  publishedLowAmps: Num;
+  publishedHighAmps: Num;
+  pickupAmps: Num;
+}
+
+export interface StepVoltageTestsTable extends ReadingRow {
+  componentId: string | null;
+  circuit: Text;
+  conductors: Conductors;
+  equipmentTempC: Num;
+  stepVolts: number[];
+  stepMegohms: number[];
+}
+
+export interface GroundHuntStepsTable extends ReadingRow {
+  hunt: string;
+  positionId: string | null;
+  feeder: string;
+  action: "opened" | "closed";
+  lampA: LampLook;
+  lampB: LampLook;
+  lampC: LampLook;
 }
 
 export interface ReadingCriteriaTable {
@@ -513,6 +557,7 @@ export interface ReadingCriteriaTable {
   minimumMegohms: Num;
   minimumSource: Text;
   contactOutlierPercent: Generated<number>;
+  dewPointMarginK: Generated<number>;
   version: Generated<number>;
   updatedBy: string | null;
   updatedAt: Timestamp;
@@ -745,6 +790,9 @@ export interface Database {
   groundLampChecks: GroundLampChecksTable;
   readingCriteria: ReadingCriteriaTable;
   componentReadingOverrides: ComponentReadingOverridesTable;
+  tripTests: TripTestsTable;
+  stepVoltageTests: StepVoltageTestsTable;
+  groundHuntSteps: GroundHuntStepsTable;
   rtsQualifiedPersons: RtsQualifiedPersonsTable;
   rtsSettings: RtsSettingsTable;
   rtsStages: RtsStagesTable;

@@ -1,6 +1,7 @@
 import "./types";
 import { existsSync } from "node:fs";
 import { join } from "node:path";
+import compression from "compression";
 import express, { Router } from "express";
 import { createLucia } from "./auth/lucia";
 import { authRoutes } from "./auth/routes";
@@ -25,6 +26,7 @@ import { notificationRoutes } from "./notifications/routes";
 import { passwordResetRoutes } from "./password-reset/routes";
 import { defectRoutes } from "./defects/routes";
 import { partsRoutes } from "./parts/routes";
+import { reportRoutes } from "./reports/routes";
 import { rtsRoutes } from "./return-to-service/routes";
 
 export interface AppDeps {
@@ -56,6 +58,13 @@ export function createApp(deps: AppDeps) {
   app.use(hostAllowlist(allowedHostsFrom({ publicUrl: mail.publicUrl, extra: deps.allowedHosts ?? parseHostList(process.env.ALLOWED_HOSTS) })));
   app.use(securityHeaders({ https: mail.publicUrl.startsWith("https:") }));
 
+  // gzip for JSON, HTML, JS and CSS (issue 15: a 345 KiB entry and MBs of JSON went raw). Downloads
+  // (Content-Disposition: attachment) stream uncompressed with their own back-pressure; images are
+  // already compressed and the `compression` package's default filter leaves them alone.
+  app.use(compression({
+    filter: (req, res) => !res.getHeader("Content-Disposition") && compression.filter(req, res),
+  }));
+
   const api = Router();
   api.get("/health", async (_req, res) => {
     const { db: state } = await databaseState(db);
@@ -77,6 +86,7 @@ export function createApp(deps: AppDeps) {
   api.use(mailboxRoutes(deps.mailbox));
   api.use(defectRoutes(db, mail));
   api.use(partsRoutes(db, photoStorage));
+  api.use(reportRoutes(db, photoStorage, mail.publicUrl));
   api.use(rtsRoutes(db));
   api.use((_req, _res, next) => next(new AppError(404, "not_found", "No such API route.")));
   api.use(errorHandler);
@@ -88,8 +98,11 @@ export function createApp(deps: AppDeps) {
 
   if (deps.clientDir && existsSync(deps.clientDir)) {
     const dir = deps.clientDir;
-    app.use(express.static(dir, { index: false, maxAge: "1h", immutable: false }));
-    app.get("/{*splat}", (_req, res) => res.sendFile(join(dir, "index.html")));
+    // Vite names every built asset by its content hash: cache those for a year as immutable. index.html
+    // (and anything unhashed) is revalidated each time, so a new build is picked up at once.
+    app.use("/assets", express.static(join(dir, "assets"), { index: false, maxAge: "365d", immutable: true, fallthrough: false }));
+    app.use(express.static(dir, { index: false, maxAge: 0, setHeaders: (res) => res.setHeader("Cache-Control", "no-cache") }));
+    app.get("/{*splat}", (_req, res) => res.sendFile(join(dir, "index.html"), { headers: { "Cache-Control": "no-cache" } }));
   }
   app.use(plainErrorPage);
   return app;

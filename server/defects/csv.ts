@@ -35,14 +35,14 @@ export function csvRecord(r: RegisterRow): Array<string | number> {
  * is written as it is now; one that stopped matching the filters is left out.
  */
 export async function streamCsv(db: Db, siteId: string, f: ListQuery, today: string, res: Response, filename: string) {
-  const ids = (await applySort(applyFilters(registerBase(db, siteId), f, today), f.sort, f.dir).select("d.id").execute()).map((r) => r.id as string);
+  const ids = (await applySort(applyFilters(registerBase(db, siteId), f, today, siteId), f.sort, f.dir).select("d.id").execute()).map((r) => r.id as string);
   res.setHeader("Content-Type", "text/csv; charset=utf-8");
   res.setHeader("Content-Disposition", `attachment; filename="${filename}"`);
   await runExport(res, async (out) => {
     await out.write(BOM + csvLines([HEADER]));
     for (let i = 0; i < ids.length; i += BATCH) {
       const page = ids.slice(i, i + BATCH);
-      const rows = (await readPage(() => applyFilters(registerBase(db, siteId), f, today).select(ROW_COLUMNS as any).where("d.id", "in", page).execute())) as RegisterRow[];
+      const rows = (await readPage(() => applyFilters(registerBase(db, siteId), f, today, siteId).select(ROW_COLUMNS as any).where("d.id", "in", page).execute())) as RegisterRow[];
       const byId = new Map(rows.map((r) => [r.id, r]));
       const ordered = page.map((id) => byId.get(id)).filter((r): r is RegisterRow => r !== undefined);
       if (ordered.length) await out.write(csvLines(ordered.map(csvRecord)));

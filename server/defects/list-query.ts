@@ -16,6 +16,14 @@ export function registerBase(db: Db, siteId: string) {
     .where("d.siteId", "=", siteId);
 }
 
+/** The count needs no join but the pin, and that only when filtering on pinned defects. */
+function countBase(db: Db, siteId: string, f: ListQuery) {
+  const q = db.selectFrom("defects as d").where("d.siteId", "=", siteId);
+  return f.flag.includes("pinned")
+    ? q.leftJoin("defectPins as pin", (j) => j.onRef("pin.defectId", "=", "d.id").on("pin.removedAt", "is", null))
+    : q;
+}
+
 export const ROW_COLUMNS = [
   "d.id", "d.ref", "d.siteId", "d.boardId", "b.name as boardName", "d.sectionId", "s.name as sectionName",
   "d.positionId", "p.designation", "d.componentId", "d.inspectionId", "d.title", "d.description",
@@ -28,15 +36,19 @@ export const ROW_COLUMNS = [
 /** LIKE pattern for a free-text search, with the user's % and _ taken literally. */
 const likePattern = (q: string) => `%${q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
 
-export function applyFilters<QB extends SelectQueryBuilder<any, any, any>>(qb: QB, f: ListQuery, today: string): QB {
+export function applyFilters<QB extends SelectQueryBuilder<any, any, any>>(qb: QB, f: ListQuery, today: string, siteId: string): QB {
   let q = qb as SelectQueryBuilder<any, any, any>;
   if (f.q) {
     const pat = likePattern(f.q);
     const refMatch = /^d?-?(\d{1,12})$/i.exec(f.q);
+    // Every branch is index-served, so PostgreSQL ORs bitmap index scans instead of testing each
+    // defect joined to its position: the defect text by its trigram index, the designation as the
+    // matching positions' ids (trigram index on positions, computed once as an array) against
+    // defects_position_id_idx, the reference by its own index (issue 15).
     q = q.where((eb) => {
       const ors: Expression<SqlBool>[] = [
         sql<SqlBool>`(d.title || ' ' || d.description) ILIKE ${pat}`,
-        sql<SqlBool>`p.designation ILIKE ${pat}`,
+        sql<SqlBool>`d.position_id = ANY(ARRAY(SELECT sp.id FROM positions sp WHERE sp.site_id = ${siteId} AND sp.designation ILIKE ${pat}))`,
       ];
       if (refMatch) ors.push(eb("d.ref", "=", Number(refMatch[1])));
       return eb.or(ors);
@@ -67,16 +79,19 @@ const STATUS_ORDER = sql`array_position(ARRAY['raised','scheduled','under_repair
 /**
  * The ranked order as ORDER BY keys (for "priority desc"), equal to rankDefects() of
  * src/domain/priority.ts for non-chained pins: a pinned defect takes its target's key
- * (score desc, created asc, id asc) and sits just before (above) or after (below) it;
+ * (safety-critical first, score desc, created asc, id asc) and sits just before (above) or after (below) it;
  * several "above" pins keep their own order, several "below" pins the reverse of it.
  * No window over the whole site: only the page's rows are sorted by keys, not ranks.
  */
 const BELOW = sql`(t.id IS NOT NULL AND pin.direction = 'below')`;
 export const RANK_KEYS: Array<[ReturnType<typeof sql>, "ASC" | "DESC"]> = [
+  // Safety-critical first (issue 13 item 7): the same key as compareByPriority's first term.
+  [sql`coalesce(t.safety_critical, d.safety_critical)`, "DESC"],
   [sql`coalesce(t.priority_score, d.priority_score)`, "DESC"],
   [sql`coalesce(t.created_at, d.created_at)`, "ASC"],
   [sql`coalesce(t.id, d.id)`, "ASC"],
   [sql`CASE WHEN t.id IS NULL THEN 0 WHEN pin.direction = 'above' THEN -1 ELSE 1 END`, "ASC"],
+  [sql`CASE WHEN ${BELOW} THEN NOT d.safety_critical ELSE d.safety_critical END`, "DESC"],
   [sql`CASE WHEN ${BELOW} THEN -d.priority_score ELSE d.priority_score END`, "DESC"],
   [sql`CASE WHEN ${BELOW} THEN NULL ELSE d.created_at END`, "ASC"],
   [sql`CASE WHEN ${BELOW} THEN d.created_at END`, "DESC"],
@@ -124,8 +139,8 @@ export function applySort<QB extends SelectQueryBuilder<any, any, any>>(qb: QB, 
  * ids only (narrow sort, often an index scan), then its rows are read with every column.
  */
 export async function listPage(db: Db, siteId: string, f: ListQuery, today: string) {
-  const idsQ = applySort(applyFilters(registerBase(db, siteId), f, today), f.sort, f.dir).select("d.id").limit(f.size).offset(f.page * f.size);
-  const countQ = applyFilters(registerBase(db, siteId), f, today).select((eb) => eb.fn.countAll<number>().as("n"));
+  const idsQ = applySort(applyFilters(registerBase(db, siteId), f, today, siteId), f.sort, f.dir).select("d.id").limit(f.size).offset(f.page * f.size);
+  const countQ = applyFilters(countBase(db, siteId, f), f, today, siteId).select((eb) => eb.fn.countAll<number>().as("n"));
   const [ids, count] = await Promise.all([idsQ.execute(), countQ.executeTakeFirstOrThrow()]);
   const rows = ids.length ? ((await registerBase(db, siteId).select(ROW_COLUMNS as any).where("d.id", "in", ids.map((r) => r.id)).execute()) as RegisterRow[]) : [];
   const byId = new Map(rows.map((r) => [r.id, r]));
@@ -134,7 +149,7 @@ export async function listPage(db: Db, siteId: string, f: ListQuery, today: stri
 
 /** The filtered, sorted register without paging (CSV export runs it through a cursor). */
 export const registerQuery = (db: Db, siteId: string, f: ListQuery, today: string) =>
-  applySort(applyFilters(registerBase(db, siteId), f, today), f.sort, f.dir).select(ROW_COLUMNS as any);
+  applySort(applyFilters(registerBase(db, siteId), f, today, siteId), f.sort, f.dir).select(ROW_COLUMNS as any);
 
 export type RegisterRow = {
   id: string; ref: number; siteId: string; boardId: string; boardName: string; sectionId: string | null; sectionName: string | null;

@@ -2,9 +2,12 @@ import type { Insertable } from "kysely";
 import type {
   ComponentReadingOverridesTable,
   ContactReadingsTable,
+  GroundHuntStepsTable,
   GroundLampChecksTable,
   InsulationReadingsTable,
+  StepVoltageTestsTable,
   ThermalScansTable,
+  TripTestsTable,
 } from "../../db/types";
 import type { Db } from "../db";
 
@@ -143,9 +146,10 @@ export async function listThermal(db: Db, f: ReadingFilter & { id?: string }) {
 export async function listGroundChecks(db: Db, f: ReadingFilter & { id?: string }) {
   let q = db
     .selectFrom("groundLampChecks as r")
+    .innerJoin("boards as b", "b.id", "r.boardId")
     .leftJoin("users as u", "u.id", "r.recordedBy")
     .selectAll("r")
-    .select(["u.name as recordedByName"])
+    .select(["u.name as recordedByName", "b.frequencyHz"])
     .where("r.siteId", "=", f.siteId);
   if (f.id) q = q.where("r.id", "=", f.id);
   if (f.boardId) q = q.where("r.boardId", "=", f.boardId);
@@ -154,3 +158,55 @@ export async function listGroundChecks(db: Db, f: ReadingFilter & { id?: string 
 
 export const photoOnSite = (db: Db, siteId: string, photoId: string) =>
   db.selectFrom("photos").select(["id", "kind"]).where("siteId", "=", siteId).where("id", "=", photoId).where("deletedAt", "is", null).executeTakeFirst();
+
+export const insertTripTest = (db: Db, row: Insertable<TripTestsTable>) =>
+  db.insertInto("tripTests").values(row).returning("id").executeTakeFirstOrThrow();
+export const insertStepTest = (db: Db, row: Insertable<StepVoltageTestsTable>) =>
+  db.insertInto("stepVoltageTests").values(row).returning("id").executeTakeFirstOrThrow();
+export const insertHuntStep = (db: Db, row: Insertable<GroundHuntStepsTable>) =>
+  db.insertInto("groundHuntSteps").values(row).returning("id").executeTakeFirstOrThrow();
+
+export async function listTripTests(db: Db, f: ReadingFilter & { id?: string }) {
+  let q = db
+    .selectFrom("tripTests as r")
+    .innerJoin("components as c", "c.id", "r.componentId")
+    .innerJoin("positions as p", "p.id", "c.positionId")
+    .leftJoin("users as u", "u.id", "r.recordedBy")
+    .selectAll("r")
+    .select(["p.designation", "u.name as recordedByName"])
+    .where("r.siteId", "=", f.siteId);
+  if (f.id) q = q.where("r.id", "=", f.id);
+  if (f.boardId) q = q.where("r.boardId", "=", f.boardId);
+  if (f.componentId) q = q.where("r.componentId", "=", f.componentId);
+  return q.orderBy("r.measuredAt", "desc").orderBy("r.createdAt", "desc").limit(f.limit ?? 500).execute();
+}
+
+export async function listStepTests(db: Db, f: ReadingFilter & { id?: string }) {
+  let q = db
+    .selectFrom("stepVoltageTests as r")
+    .leftJoin("components as c", "c.id", "r.componentId")
+    .leftJoin("positions as p", "p.id", "c.positionId")
+    .leftJoin("users as u", "u.id", "r.recordedBy")
+    .selectAll("r")
+    .select(["p.designation", "u.name as recordedByName"])
+    .where("r.siteId", "=", f.siteId);
+  if (f.id) q = q.where("r.id", "=", f.id);
+  if (f.boardId) q = q.where("r.boardId", "=", f.boardId);
+  if (f.componentId) q = q.where("r.componentId", "=", f.componentId);
+  return q.orderBy("r.measuredAt", "desc").orderBy("r.createdAt", "desc").limit(f.limit ?? 500).execute();
+}
+
+export async function listHuntSteps(db: Db, f: ReadingFilter & { id?: string }) {
+  let q = db
+    .selectFrom("groundHuntSteps as r")
+    .leftJoin("users as u", "u.id", "r.recordedBy")
+    .selectAll("r")
+    .select(["u.name as recordedByName"])
+    .where("r.siteId", "=", f.siteId);
+  if (f.id) q = q.where("r.id", "=", f.id);
+  if (f.boardId) q = q.where("r.boardId", "=", f.boardId);
+  return q.orderBy("r.measuredAt", "asc").orderBy("r.createdAt", "asc").limit(f.limit ?? 1000).execute();
+}
+
+export const findPosition = (db: Db, siteId: string, positionId: string) =>
+  db.selectFrom("positions").select(["id", "boardId", "designation"]).where("siteId", "=", siteId).where("id", "=", positionId).executeTakeFirst();

@@ -6,7 +6,10 @@ import {
   contactReadingBody,
   criteriaBody,
   groundCheckBody,
+  groundHuntBody,
   insulationReadingBody,
+  stepVoltageBody,
+  tripTestBody,
   overrideBody,
   thermalScanBody,
 } from "../../src/schemas/readings";
@@ -74,7 +77,32 @@ export function readingRoutes(db: Db) {
     res.status(201).json({ check: await service.recordGroundCheck(db, siteId, boardId, user(res), groundCheckBody.parse(req.body)) });
   });
 
+  r.get(`${S}/boards/:boardId/step-voltage-tests`, read, async (req, res) => {
+    const { siteId, boardId } = boardParams.parse(req.params);
+    res.json({ tests: await service.listStepTests(db, siteId, { boardId }) });
+  });
+  r.post(`${S}/boards/:boardId/step-voltage-tests`, record, async (req, res) => {
+    const { siteId, boardId } = boardParams.parse(req.params);
+    res.status(201).json({ test: await service.recordStepTest(db, siteId, boardId, user(res), stepVoltageBody.parse(req.body)) });
+  });
+  r.get(`${S}/boards/:boardId/ground-hunts`, read, async (req, res) => {
+    const { siteId, boardId } = boardParams.parse(req.params);
+    res.json({ hunts: await service.listGroundHunts(db, siteId, boardId) });
+  });
+  r.post(`${S}/boards/:boardId/ground-hunts`, record, async (req, res) => {
+    const { siteId, boardId } = boardParams.parse(req.params);
+    res.status(201).json({ step: await service.recordHuntStep(db, siteId, boardId, user(res), groundHuntBody.parse(req.body)) });
+  });
+
   // ---- per component ----
+  r.get(`${S}/components/:componentId/trip-tests`, read, async (req, res) => {
+    const { siteId, componentId } = componentParams.parse(req.params);
+    res.json({ tests: await service.listTripTests(db, siteId, { componentId }) });
+  });
+  r.post(`${S}/components/:componentId/trip-tests`, record, async (req, res) => {
+    const { siteId, componentId } = componentParams.parse(req.params);
+    res.status(201).json({ test: await service.recordTripTest(db, siteId, componentId, user(res), tripTestBody.parse(req.body)) });
+  });
   r.get(`${S}/components/:componentId/readings`, read, async (req, res) => {
     const { siteId, componentId } = componentParams.parse(req.params);
     res.json(await service.componentReadings(db, siteId, componentId));

@@ -14,13 +14,16 @@ import type { Db } from "../db";
 import { AppError, conflict, notFound } from "../errors";
 import { onReadingRecorded } from "../return-to-service/hooks";
 import { isUniqueViolation } from "../middleware/pg-errors";
-import { contactDto, groundDto, insulationDto, thermalDto, type Overrides } from "./judge";
+import { phaseComparisons } from "./comparisons";
+import { contactDto, groundDto, huntStepDto, insulationDto, judgeTrip, stepDto, thermalDto, tripDto, type Overrides } from "./judge";
+import { groundHuntFinding } from "../../src/domain/ground-detection";
+import type { GroundHunt, groundHuntBody, stepVoltageBody, tripTestBody } from "../../src/schemas/readings";
 import * as repo from "./repository";
 
 const invalid = (field: string, message: string) => new AppError(400, "invalid_input", message, { [field]: message });
 
 /** The site's criteria, or the defaults (version 0) when the curator has set none. */
-export async function loadCriteria(db: Db, siteId: string): Promise<Criteria> {
+export async function loadCriteria(db: Db, siteId: string): Promise<Criteria & ReadingCriteria> {
   const row = await repo.getCriteria(db, siteId);
   if (!row) return { ...DEFAULT_CRITERIA, version: 0, updatedAt: null };
   return {
@@ -30,6 +33,7 @@ export async function loadCriteria(db: Db, siteId: string): Promise<Criteria> {
     minimumMegohms: row.minimumMegohms,
     minimumSource: row.minimumSource,
     contactOutlierPercent: row.contactOutlierPercent,
+    dewPointMarginK: row.dewPointMarginK,
     version: row.version,
     updatedAt: row.updatedAt.toISOString(),
   };
@@ -133,7 +137,8 @@ export async function recordInsulation(db: Db, siteId: string, boardId: string, 
     const row = {
       siteId, boardId, componentId: b.componentId, circuit: b.circuit, testVoltsDc: b.testVoltsDc, megohms: b.megohms, conductors: b.conductors,
       equipmentTempC: b.equipmentTempC, ambientTempC: b.ambientTempC, humidityPercent: b.humidityPercent, durationS: b.durationS,
-      r30sMegohms: b.r30s, r1minMegohms: b.r1min, r10minMegohms: b.r10min, instrument: b.instrument, notes: b.notes, measuredAt: b.measuredAt, recordedBy: userId,
+      r30sMegohms: b.r30s, r1minMegohms: b.r1min, r10minMegohms: b.r10min,
+      megohmsQualifier: b.megohmsQualifier, r30sQualifier: b.r30sQualifier, r1minQualifier: b.r1minQualifier, r10minQualifier: b.r10minQualifier, instrument: b.instrument, notes: b.notes, measuredAt: b.measuredAt, recordedBy: userId,
     };
     const { id } = await repo.insertInsulation(trx, row);
     await recordAudit(trx, { siteId, entityType: "insulation_reading", entityId: id, action: "record", actorId: userId, boardId, positionId, after: row });
@@ -192,7 +197,7 @@ export async function recordGroundCheck(db: Db, siteId: string, boardId: string,
       siteId, boardId, energisation: b.energisation, lineVolts: b.lineVolts,
       lampA: b.lamps?.A ?? null, lampB: b.lamps?.B ?? null, lampC: b.lamps?.C ?? null,
       voltsA: b.volts?.A ?? null, voltsB: b.volts?.B ?? null, voltsC: b.volts?.C ?? null,
-      branchOhms: b.branchOhms, instrument: b.instrument, notes: b.notes, measuredAt: b.measuredAt, recordedBy: userId,
+      branchOhms: b.branchOhms, capacitanceMicroF: b.capacitanceMicroF, instrument: b.instrument, notes: b.notes, measuredAt: b.measuredAt, recordedBy: userId,
     };
     const { id } = await repo.insertGroundCheck(trx, row);
     await recordAudit(trx, { siteId, entityType: "ground_lamp_check", entityId: id, action: "record", actorId: userId, boardId, after: row });
@@ -206,12 +211,12 @@ type Filter = Omit<repo.ReadingFilter, "siteId"> & { id?: string };
 export async function listInsulation(db: Db, siteId: string, f: Filter) {
   const [criteria, rows] = await Promise.all([loadCriteria(db, siteId), repo.listInsulation(db, { siteId, ...f })]);
   const overrides = await overridesFor(db, siteId, rows.map((r) => r.componentId));
-  return rows.map((r) => insulationDto(r, criteria as ReadingCriteria, overrides));
+  return rows.map((r) => insulationDto(r, criteria, overrides));
 }
 export async function listContacts(db: Db, siteId: string, f: Filter) {
   const [criteria, rows] = await Promise.all([loadCriteria(db, siteId), repo.listContacts(db, { siteId, ...f })]);
   const overrides = await overridesFor(db, siteId, rows.map((r) => r.componentId));
-  return rows.map((r) => contactDto(r, criteria as ReadingCriteria, overrides));
+  return rows.map((r) => contactDto(r, criteria, overrides));
 }
 export async function listThermal(db: Db, siteId: string, f: Filter) {
   return (await repo.listThermal(db, { siteId, ...f })).map(thermalDto);
@@ -223,25 +228,108 @@ export async function listGroundChecks(db: Db, siteId: string, f: Filter) {
 
 export async function boardReadings(db: Db, siteId: string, boardId: string) {
   const board = await boardOrThrow(db, siteId, boardId);
-  const [insulation, contacts, thermal, groundChecks] = await Promise.all([
+  const [insulation, contacts, thermal, groundChecks, tripTests, stepTests, groundHunts] = await Promise.all([
     listInsulation(db, siteId, { boardId }), listContacts(db, siteId, { boardId }), listThermal(db, siteId, { boardId }), listGroundChecks(db, siteId, { boardId }),
+    listTripTests(db, siteId, { boardId }), listStepTests(db, siteId, { boardId }), listGroundHunts(db, siteId, boardId),
   ]);
-  return { board: { ...board, nominalVolts: Number(board.nominalVolts) }, insulation, contacts, thermal, groundChecks };
+  return {
+    board: { ...board, nominalVolts: Number(board.nominalVolts) }, insulation, contacts, thermal, groundChecks, tripTests, stepTests, groundHunts,
+    phaseComparisons: phaseComparisons(insulation),
+  };
 }
 
 export async function componentReadings(db: Db, siteId: string, componentId: string) {
   const c = await componentOrThrow(db, siteId, componentId);
-  const [insulation, contacts, thermal, override] = await Promise.all([
+  const [insulation, contacts, thermal, override, tripTests, stepTests] = await Promise.all([
     listInsulation(db, siteId, { componentId }), listContacts(db, siteId, { componentId }), listThermal(db, siteId, { componentId }), repo.getOverride(db, siteId, componentId),
+    listTripTests(db, siteId, { componentId }), listStepTests(db, siteId, { componentId }),
   ]);
   return {
     component: { id: c.id, boardId: c.boardId, boardName: c.boardName, designation: c.designation, circuit: c.circuit, kind: c.kind, ratedVolts: Number(c.voltageRating ?? c.nominalVolts) },
     override: override ? overrideDto(override) : null,
-    insulation, contacts, thermal,
+    insulation, contacts, thermal, tripTests, stepTests,
   };
 }
 
 export async function latestGroundCheck(db: Db, siteId: string, boardId: string) {
   await boardOrThrow(db, siteId, boardId);
   return (await listGroundChecks(db, siteId, { boardId, limit: 1 }))[0] ?? null;
+}
+
+export async function recordTripTest(db: Db, siteId: string, componentId: string, userId: string, b: z.infer<typeof tripTestBody>) {
+  checkWhen(b.measuredAt);
+  try {
+    judgeTrip({ ...b });
+  } catch (e) {
+    if (e instanceof RangeError) throw invalid("test", `This trip test cannot be judged: ${e.message}.`);
+    throw e;
+  }
+  const id = await db.transaction().execute(async (trx) => {
+    const c = await componentOrThrow(trx, siteId, componentId);
+    const { measuredAt, ...rest } = b;
+    const row = { siteId, boardId: c.boardId, componentId, ...rest, measuredAt, recordedBy: userId };
+    const { id } = await repo.insertTripTest(trx, row);
+    await recordAudit(trx, { siteId, entityType: "trip_test", entityId: id, action: "record", actorId: userId, boardId: c.boardId, positionId: c.positionId, after: row });
+    return id;
+  });
+  return (await listTripTests(db, siteId, { id }))[0];
+}
+
+export async function recordStepTest(db: Db, siteId: string, boardId: string, userId: string, b: z.infer<typeof stepVoltageBody>) {
+  checkWhen(b.measuredAt);
+  const id = await db.transaction().execute(async (trx) => {
+    await boardOrThrow(trx, siteId, boardId);
+    let positionId: string | null = null;
+    if (b.componentId) {
+      const c = await componentOrThrow(trx, siteId, b.componentId);
+      if (c.boardId !== boardId) throw invalid("componentId", "That component is not on this board.");
+      positionId = c.positionId;
+    }
+    const row = {
+      siteId, boardId, componentId: b.componentId, circuit: b.circuit, conductors: b.conductors, equipmentTempC: b.equipmentTempC,
+      stepVolts: b.steps.map((s) => s.testVoltsDc), stepMegohms: b.steps.map((s) => s.megohms), instrument: b.instrument, notes: b.notes, measuredAt: b.measuredAt, recordedBy: userId,
+    };
+    const { id } = await repo.insertStepTest(trx, row);
+    await recordAudit(trx, { siteId, entityType: "step_voltage_test", entityId: id, action: "record", actorId: userId, boardId, positionId, after: row });
+    return id;
+  });
+  return (await listStepTests(db, siteId, { id }))[0];
+}
+
+export async function recordHuntStep(db: Db, siteId: string, boardId: string, userId: string, b: z.infer<typeof groundHuntBody>) {
+  checkWhen(b.measuredAt);
+  const id = await db.transaction().execute(async (trx) => {
+    await boardOrThrow(trx, siteId, boardId);
+    if (b.positionId) {
+      const p = await repo.findPosition(trx, siteId, b.positionId);
+      if (!p || p.boardId !== boardId) throw invalid("positionId", "That position is not on this board.");
+    }
+    const row = {
+      siteId, boardId, hunt: b.hunt, positionId: b.positionId, feeder: b.feeder, action: b.action,
+      lampA: b.lamps.A, lampB: b.lamps.B, lampC: b.lamps.C, instrument: "", notes: b.notes, measuredAt: b.measuredAt, recordedBy: userId,
+    };
+    const { id } = await repo.insertHuntStep(trx, row);
+    await recordAudit(trx, { siteId, entityType: "ground_hunt_step", entityId: id, action: "record", actorId: userId, boardId, positionId: b.positionId, after: row });
+    return id;
+  });
+  return (await repo.listHuntSteps(db, { siteId, id })).map(huntStepDto)[0];
+}
+
+export async function listTripTests(db: Db, siteId: string, f: Filter) {
+  return (await repo.listTripTests(db, { siteId, ...f })).map(tripDto);
+}
+export async function listStepTests(db: Db, siteId: string, f: Filter) {
+  return (await repo.listStepTests(db, { siteId, ...f })).map(stepDto);
+}
+
+/** The board's ground hunts, each with its steps in time order and what they point at (groundHuntFinding). */
+export async function listGroundHunts(db: Db, siteId: string, boardId: string): Promise<GroundHunt[]> {
+  const steps = (await repo.listHuntSteps(db, { siteId, boardId })).map(huntStepDto);
+  const byHunt = new Map<string, typeof steps>();
+  for (const s of steps) {
+    if (!byHunt.has(s.hunt)) byHunt.set(s.hunt, []);
+    byHunt.get(s.hunt)!.push(s);
+  }
+  return [...byHunt].map(([hunt, st]) => ({ hunt, steps: st, finding: groundHuntFinding(st) }))
+    .sort((a, b) => Date.parse(b.steps.at(-1)!.measuredAt) - Date.parse(a.steps.at(-1)!.measuredAt));
 }

@@ -21,7 +21,7 @@ export interface RecordedReading {
   /** Thermal: NETA level 0–4. */
   level?: number;
   /** Insulation: the verdict against the recorded criterion. */
-  verdict?: "meets" | "below_minimum" | "investigate";
+  verdict?: "meets" | "below_minimum" | "investigate" | "not_valid";
   designation?: string | null;
   words: string;
 }

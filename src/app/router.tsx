@@ -1,6 +1,29 @@
-import { createBrowserRouter, type RouteObject } from "react-router";
+import { createBrowserRouter, type LoaderFunctionArgs, type RouteObject } from "react-router";
 import { paths } from "../config/paths";
+import { queryClient } from "./query-client";
 import { RouteError } from "./routes/route-error";
+
+/**
+ * Loaders start a page's data fetches while its code chunk downloads, instead of after the
+ * session → site → page components have rendered one after another (issue 15). They never wait:
+ * the pages read the same queries from the cache. Feature APIs are imported lazily, so the entry
+ * chunk stays small (and zod out of it).
+ */
+const prefetch = (start: (args: LoaderFunctionArgs) => Promise<unknown>) => (args: LoaderFunctionArgs) => {
+  start(args).catch(() => undefined); // a failed prefetch is retried by the page's own query
+  return null;
+};
+const site = (args: LoaderFunctionArgs) => args.params.siteId as string;
+const prefetchSession = prefetch(() => import("../features/auth/api").then((m) => queryClient.prefetchQuery(m.sessionQueryOptions())));
+const prefetchSite = prefetch((a) => import("../features/sites/api").then((m) => queryClient.prefetchQuery(m.siteQueryOptions(site(a)))));
+const inventory = (pick: (m: typeof import("../features/inventory/api"), a: LoaderFunctionArgs) => Parameters<typeof queryClient.prefetchQuery>[0]) =>
+  prefetch((a) => import("../features/inventory/api").then((m) => queryClient.prefetchQuery(pick(m, a))));
+const prefetchParts = prefetch((a) =>
+  Promise.all([import("../features/parts/api"), import("../schemas/parts")]).then(([m, s]) => {
+    const parsed = s.listQuery.safeParse(Object.fromEntries(new URL(a.request.url).searchParams));
+    return queryClient.prefetchQuery(m.partsListQueryOptions(site(a), parsed.success ? parsed.data : { status: "open" }));
+  }),
+);
 
 const page = (load: () => Promise<{ default: React.ComponentType }>): Pick<RouteObject, "lazy"> => ({
   lazy: () => load().then((m) => ({ Component: m.default })),
@@ -15,6 +38,7 @@ export const router = createBrowserRouter([
   { path: paths.shareParts.path, ...page(() => import("./routes/parts/share-parts")), errorElement: <RouteError /> },
   {
     ...page(() => import("./routes/app-layout")),
+    loader: prefetchSession,
     errorElement: <RouteError />,
     children: [
       { path: paths.home.path, ...page(() => import("./routes/home-redirect")) },
@@ -22,18 +46,21 @@ export const router = createBrowserRouter([
       { path: paths.admin.path, ...page(() => import("./routes/admin/admin-home")) },
       { path: paths.mailbox.path, ...page(() => import("./routes/admin/mailbox")) },
       { path: paths.account.path, ...page(() => import("./routes/account/account")) },
+      { path: paths.scan.path, ...page(() => import("./routes/reports/scan")) },
+      { path: paths.tag.path, ...page(() => import("./routes/reports/tag")) },
       {
         path: paths.site.path,
         ...page(() => import("./routes/sites/site-layout")),
+        loader: prefetchSite,
         children: [
-          { index: true, ...page(() => import("./routes/sites/site-home")) },
+          { index: true, ...page(() => import("./routes/sites/site-home")), loader: inventory((m, a) => m.overviewQueryOptions(site(a)) as never) },
           { path: "members", ...page(() => import("./routes/sites/members")) },
           { path: "photos", ...page(() => import("./routes/photos/photo-desk")) },
           { path: "photos/shoot-list", ...page(() => import("./routes/photos/shoot-list")) },
           { path: "photos/gallery", ...page(() => import("./routes/photos/gallery")) },
-          { path: "boards", ...page(() => import("./routes/boards/board-list")) },
+          { path: "boards", ...page(() => import("./routes/boards/board-list")), loader: inventory((m, a) => m.boardsQueryOptions(site(a)) as never) },
           { path: "boards/new", ...page(() => import("./routes/boards/board-new")) },
-          { path: "boards/:boardId", ...page(() => import("./routes/boards/board-elevation")) },
+          { path: "boards/:boardId", ...page(() => import("./routes/boards/board-elevation")), loader: inventory((m, a) => m.boardQueryOptions(site(a), a.params.boardId as string) as never) },
           { path: "boards/:boardId/setup", ...page(() => import("./routes/boards/board-setup")) },
           { path: "log", ...page(() => import("./routes/boards/quick-log")) },
           { path: "inventory/import", ...page(() => import("./routes/boards/inventory-import")) },
@@ -51,7 +78,8 @@ export const router = createBrowserRouter([
           { path: "boards/:boardId/return-to-service", ...page(() => import("./routes/return-to-service/board-rts")) },
           { path: "boards/:boardId/watch", ...page(() => import("./routes/return-to-service/watch")) },
           { path: "boards/:boardId/return-to-service/stages/:stageId/sheet", ...page(() => import("./routes/return-to-service/stage-sheet")) },
-          { path: "parts", ...page(() => import("./routes/parts/parts-list")) },
+          { path: "parts", ...page(() => import("./routes/parts/parts-list")), loader: prefetchParts },
+          { path: "reports", ...page(() => import("./routes/reports/reports")) },
           { path: "parts/print", ...page(() => import("./routes/parts/parts-print")) },
           { path: "parts/:lineId", ...page(() => import("./routes/parts/part-line")) },
           { path: "*", ...page(() => import("./routes/not-found")) },

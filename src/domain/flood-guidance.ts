@@ -39,12 +39,18 @@ export const SUBMERGED_RULES: Record<ComponentKind, Rule> = {
   busbar: { disposition: "rebuild", reason: "Bus structure may be reconditioned: cleaned, dried, inspected and tested by qualified people." },
   bus_tie: { disposition: "rebuild", reason: "A bus tie is reconditioned with the bus structure and breakers it joins." },
   switch: { disposition: "rebuild", reason: "Open and bolted-pressure switches may be reconditioned; an enclosed safety switch or molded-case switch is replaced instead." },
+  enclosed_switch: { disposition: "replace", reason: "Submerged enclosed safety switches are replaced, not reconditioned (NEMA GD 1 guidance, from memory)." },
+  electronic_trip_unit: { disposition: "replace", reason: "Submerged electronic trip units (and their sensors and accessories) are replaced: water and silt ruin the electronics (NEMA GD 1 guidance, from memory)." },
   other: { disposition: "replace", reason: "Not in Tideline's table: submerged equipment is replaced unless its maker says it may be reconditioned." },
 };
 
 const RANK: Record<Disposition, number> = { clean: 0, rebuild: 1, replace: 2, source: 3 };
 const worse = (a: Disposition, b: Disposition): Disposition => (RANK[b] > RANK[a] ? b : a);
 const CORROSIVE_WATER: readonly WaterType[] = ["salt", "brackish", "sewage"];
+/** Signs the water reached the part whatever the recorded water line says (common practice). */
+export const WATER_CONTACT_EVIDENCE: readonly Contaminant[] = ["water_inside", "silt", "water_marks", "corrosion_products"];
+/** Kinds that are sealed or electronic: they cannot be opened to degrease or wash. */
+const SEALED_KINDS: readonly ComponentKind[] = ["molded_case_breaker", "electronic_trip_unit", "fuse", "meter", "relay", "enclosed_switch", "ground_lamp"];
 
 export interface FloodInput {
   kind: ComponentKind;
@@ -81,11 +87,17 @@ function validate(input: FloodInput): void {
   }
 }
 
-/** Step 1: exposure — water line, water inside, salt or sewage. */
+const EVIDENCE_WORDS: Partial<Record<Contaminant, string>> = {
+  water_inside: "water inside", silt: "silt", water_marks: "water marks", corrosion_products: "fresh corrosion products",
+};
+
+/** Step 1: exposure — water line, evidence of water contact, salt or sewage. */
 function exposure(input: FloodInput, reasons: string[]): Disposition {
-  const wetInside = input.contaminants.includes("water_inside");
-  if (input.belowWaterLine || wetInside) {
-    if (!input.belowWaterLine) reasons.push("Water was found inside, so it is treated as if it had been below the water line.");
+  const evidence = WATER_CONTACT_EVIDENCE.filter((c) => input.contaminants.includes(c));
+  if (input.belowWaterLine || evidence.length > 0) {
+    if (!input.belowWaterLine) {
+      reasons.push(`Evidence of water contact (${evidence.map((c) => EVIDENCE_WORDS[c]).join(", ")}) overrides the recorded water line: treated as if it had been below it.`);
+    }
     const rule = SUBMERGED_RULES[input.kind];
     reasons.push(rule.reason);
     if (rule.disposition === "rebuild" && CORROSIVE_WATER.includes(input.waterType)) {
@@ -97,7 +109,7 @@ function exposure(input: FloodInput, reasons: string[]): Disposition {
     reasons.push("Above the water line, but salt or sewage residue is corrosive and conductive: recondition rather than just clean.");
     return "rebuild";
   }
-  reasons.push("Above the water line and dry: clean and inspect.");
+  reasons.push("Above the water line with no sign of water contact: clean and inspect.");
   if (input.contaminants.includes("mould")) reasons.push("Mould present: clean with suitable respiratory protection.");
   return "clean";
 }
@@ -108,6 +120,15 @@ function condition(input: FloodInput, start: Disposition, reasons: string[]): Di
   if (input.insulation === "charred") { d = worse(d, "replace"); reasons.push("Charred insulation cannot be restored."); }
   if (input.insulation === "swollen") { d = worse(d, "replace"); reasons.push("Swollen or delaminated insulation has lost its strength and cannot be restored."); }
   if (input.insulation === "tracking") { d = worse(d, "rebuild"); reasons.push("Tracking must be removed and the insulation re-tested."); }
+  if (input.contaminants.includes("oil")) {
+    if (SEALED_KINDS.includes(input.kind)) {
+      d = worse(d, "replace");
+      reasons.push("Oil on a sealed or electronic part: it cannot be opened to degrease, and oil carries silt and salt into it.");
+    } else {
+      d = worse(d, "rebuild");
+      reasons.push("Oil on the part: strip and degrease, since oil holds conductive dirt on insulation and attacks some older insulating materials.");
+    }
+  }
   if (input.mechanism === "seized") { d = worse(d, "replace"); reasons.push("A seized mechanism means the part cannot be relied on to operate."); }
   if (input.mechanism === "stiff") { d = worse(d, "rebuild"); reasons.push("A stiff mechanism needs stripping, cleaning and lubricating."); }
   if (input.percentRusted !== undefined && astmD610Grade(input.percentRusted) <= 3) {
@@ -119,11 +140,15 @@ function condition(input: FloodInput, start: Disposition, reasons: string[]): Di
 
 /**
  * Recommends clean / rebuild / replace / source with plain-sentence reasons.
- * Rules, in order: (1) below the water line, or water inside → SUBMERGED_RULES by kind;
+ * Rules, in order: (1) below the water line, or any evidence of water contact (water
+ * inside, silt, water marks, fresh corrosion products — the evidence overrides the
+ * recorded water line) → SUBMERGED_RULES by kind (enclosed safety switches and electronic
+ * trip units are replaced);
  * above it → clean, or rebuild when the water was salt, brackish or sewage or a salt
  * crust is present. (2) Charred or swollen insulation or a seized mechanism → replace;
  * tracking, a stiff mechanism or rust over 10 % (ASTM D610 grade ≤ 3) → at least
- * rebuild. (3) An original part that would be replaced → source, since originals are
+ * rebuild; oil → replace for sealed or electronic kinds, else at least rebuild (Tideline's
+ * rule: oil holds conductive dirt and cannot be washed out of a sealed part). (3) An original part that would be replaced → source, since originals are
  * no longer made. Submersion time is recorded but sets no threshold (the guide gives none).
  * Source: FLOOD_GUIDANCE_SOURCE (from memory of NEMA GD 1 / NFPA 70B).
  * @throws RangeError for values outside the vocab lists, negative hours, hours submerged

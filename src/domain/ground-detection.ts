@@ -124,3 +124,82 @@ export function suspectPhaseFromLamps(lamps: Record<Phase, LampState>): { phase:
   const note = unequal ? " The other two differ, which system capacitance or a weak lamp can cause." : "";
   return { phase, reason: `Phase ${phase} lamp is darkest: ground suspected on phase ${phase}.${note}` };
 }
+
+/**
+ * Fault resistance from the faulted lamp's voltage when the system's capacitance to ground
+ * is known. Model: each phase to ground has admittance Y = G + jωC (lamp branch G = 1/R_branch
+ * in parallel with the phase's capacitance C); the fault F = 1/R_fault is on one phase.
+ * Millman: V_G = F·E_f/(3Y + F), so the faulted lamp reads V_f = V_ph·|3Y| / |3Y + F|.
+ * Solving for a real F: (3G + F)² + (3ωC)² = (3|Y|·V_ph/V_f)²
+ *   → F = √((3|Y|·V_ph/V_f)² − (3ωC)²) − 3G,  R_fault = 1/F.
+ * With C = 0 this is the resistive formula of locateGround. Neglecting C on a system with
+ * real capacitance overstates R_fault (about 49 % high with 2 kΩ lamp branches, a 2 kΩ
+ * fault and 1 µF per phase at 60 Hz — tests/domain/ground-detection.test.ts).
+ * @returns R_fault, Ω; 0 for a dead ground (V_f = 0); null when the reading shows no fault
+ *   (V_f at or above what the capacitance alone gives)
+ */
+export function faultOhmsWithCapacitance(input: {
+  lineVolts: number; faultedVolts: number; branchOhms: number; capacitanceMicroF: number; frequencyHz: number;
+}): number | null {
+  const vPh = requirePositive("lineVolts", input.lineVolts) / Math.sqrt(3);
+  const vf = requireNumber("faultedVolts", input.faultedVolts, { min: 0 });
+  const g = 1 / requirePositive("branchOhms", input.branchOhms);
+  const wc = 2 * Math.PI * requirePositive("frequencyHz", input.frequencyHz) * requireNumber("capacitanceMicroF", input.capacitanceMicroF, { min: 0 }) * 1e-6;
+  if (vf === 0) return 0;
+  const yAbs = Math.hypot(g, wc);
+  const inside = (3 * yAbs * (vPh / vf)) ** 2 - (3 * wc) ** 2;
+  const f = Math.sqrt(Math.max(0, inside)) - 3 * g;
+  return f <= 0 ? null : 1 / f;
+}
+
+/** The crew's capacitance figure is itself an estimate: the range uses it ± this share (Tideline's choice). */
+export const CAPACITANCE_UNCERTAINTY = 0.25;
+
+/**
+ * Fault-resistance estimate as a range, from the faulted lamp's volts. With the phase
+ * capacitance entered: central at C, low at C·(1 + 25 %), high at C·(1 − 25 %). Without
+ * it: the resistive estimate is only an upper bound (capacitance always lowers it), so the
+ * range is [null, resistive] and says so.
+ */
+export function faultEstimateRange(input: {
+  lineVolts: number; faultedVolts: number; branchOhms: number; capacitanceMicroF?: number | null; frequencyHz: number;
+}): { lowOhms: number | null; centralOhms: number | null; highOhms: number | null; capacitanceNeglected: boolean } {
+  const base = { lineVolts: input.lineVolts, faultedVolts: input.faultedVolts, branchOhms: input.branchOhms, frequencyHz: input.frequencyHz };
+  const resistive = faultOhmsWithCapacitance({ ...base, capacitanceMicroF: 0 });
+  if (input.capacitanceMicroF == null || input.capacitanceMicroF === 0) {
+    return { lowOhms: null, centralOhms: null, highOhms: resistive, capacitanceNeglected: true };
+  }
+  const c = input.capacitanceMicroF;
+  return {
+    lowOhms: faultOhmsWithCapacitance({ ...base, capacitanceMicroF: c * (1 + CAPACITANCE_UNCERTAINTY) }),
+    centralOhms: faultOhmsWithCapacitance({ ...base, capacitanceMicroF: c }),
+    highOhms: faultOhmsWithCapacitance({ ...base, capacitanceMicroF: c * (1 - CAPACITANCE_UNCERTAINTY) }),
+    capacitanceNeglected: false,
+  };
+}
+
+export interface GroundHuntStep {
+  /** The feeder or circuit opened (or closed again) at this step. */
+  feeder: string;
+  action: "opened" | "closed";
+  lamps: Record<Phase, LampState>;
+}
+
+/**
+ * Reads a ground hunt log: feeders opened one at a time while the lamps are watched.
+ * Rule (common practice): the step at which the lamps go from showing a ground to all
+ * alike (balanced, not dark) points at the feeder just opened. Returns that feeder, or
+ * null while no opening has cleared the ground.
+ */
+export function groundHuntFinding(steps: readonly GroundHuntStep[]): { feeder: string | null; words: string } {
+  let showing = true;
+  for (const s of steps) {
+    requireOneOf("action", s.action, ["opened", "closed"]);
+    const balanced = suspectPhaseFromLamps(s.lamps).phase === null && PHASES.some((p) => s.lamps[p] !== "dark") && PHASES.every((p) => s.lamps[p] === s.lamps.A);
+    if (showing && balanced && s.action === "opened") {
+      return { feeder: s.feeder, words: `The lamps went back to alike when ${s.feeder} was opened: the ground is most likely on ${s.feeder} or what it feeds. Confirm with an insulation test before closing it again.` };
+    }
+    showing = !balanced;
+  }
+  return { feeder: null, words: steps.length ? "No opening so far has cleared the ground indication." : "No steps logged yet." };
+}

@@ -73,6 +73,8 @@ export interface Rankable {
   /** ISO 8601 timestamp. */
   createdAt: string;
   score: number;
+  /** A safety-critical defect ranks above every defect that is not (issue 13 item 7). */
+  safetyCritical?: boolean;
   pin?: { direction: "above" | "below"; relativeTo: string } | null;
 }
 
@@ -82,8 +84,14 @@ function timeOf(createdAt: string): number {
   return t;
 }
 
-/** Stable order: score descending, then older first (createdAt ascending), then id ascending. */
+/**
+ * Stable order: safety-critical first (whatever the points: a hazard is never outranked by
+ * convenience), then score descending, then older first (createdAt ascending), then id.
+ */
 export function compareByPriority(a: Rankable, b: Rankable): number {
+  const sa = a.safetyCritical ? 1 : 0;
+  const sb = b.safetyCritical ? 1 : 0;
+  if (sa !== sb) return sb - sa;
   if (a.score !== b.score) return b.score - a.score;
   const dt = timeOf(a.createdAt) - timeOf(b.createdAt);
   if (dt !== 0) return dt;
@@ -122,6 +130,7 @@ export const PRIORITY_FORMULA_TEXT = [
   `- Parts: in hand or none needed +${PARTS_POINTS.in_hand}, wanted ${PARTS_POINTS.wanted}, unobtainable ${PARTS_POINTS.unobtainable}`,
   `- Effort: minus ${EFFORT_SCALE} × log₂(1 + hours), at most ${EFFORT_CAP}; a blank estimate counts as ${UNKNOWN_EFFORT_HOURS} hours`,
   "",
+  "Safety-critical defects always come before every defect that is not, whatever the points; the points order each group.",
   "Equal scores: the older defect first, then by reference. The curator can place a defect just before or after another (the curator's order).",
   "The score plans the work; it does not make anything safe. Hazards are for qualified people under NFPA 70E.",
 ].join("\n");

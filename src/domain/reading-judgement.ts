@@ -6,27 +6,35 @@
  * threshold. Verdicts never say "safe": a qualified person decides (NFPA 70E).
  */
 import { contactResistanceOutliers, CONTACT_DEVIATION_LIMIT } from "./contacts";
-import { BALANCE_TOLERANCE, locateGround, suspectPhaseFromLamps, type LampState, type Phase } from "./ground-detection";
+import { BALANCE_TOLERANCE, CAPACITANCE_UNCERTAINTY, faultEstimateRange, locateGround, suspectPhaseFromLamps, type LampState, type Phase } from "./ground-detection";
 import { requireNumber, requirePositive } from "./guards";
 import {
-  dielectricAbsorptionRatio,
+  DEW_POINT_MARGIN_K,
+  IEEE43_PI_NOT_REQUIRED_ABOVE_MEGOHMS,
+  IEEE43_RANGE_C,
   ieee43CorrectionTo40C,
+  insulationReadingValidity,
   judgeInsulation,
   minimumPolarizationIndex,
   netaCorrectionFactor,
   netaMinimumInsulation,
-  polarizationIndex,
+  qualifiedRatio,
+  testVoltageAdvice,
   type InsulationMedium,
   type InsulationVerdict,
+  type ReadingQualifier,
   type ThermalClass,
 } from "./insulation";
-import { classifyTemperatureRise, type ThermalLevel } from "./thermal";
+import { classifyTemperatureRise, LOAD_SCALING_EXPONENT, LOW_LOAD_PERCENT, scaleRiseToRatedLoad, THERMAL_ACTIONS, type ThermalLevel } from "./thermal";
 
-export type Verdict = InsulationVerdict;
+/** "not_valid": taken at or near the dew point or below freezing — kept, shown, never judged on. */
+export type Verdict = InsulationVerdict | "not_valid";
+export const VERDICTS = ["meets", "below_minimum", "investigate", "not_valid"] as const;
 export const VERDICT_LABELS: Record<Verdict, string> = {
   meets: "Meets the recorded criterion",
   below_minimum: "Below the recorded minimum",
   investigate: "Investigate",
+  not_valid: "Not valid for judging",
 };
 
 export const CORRECTION_METHODS = ["ieee43_40c", "neta_20c"] as const;
@@ -45,6 +53,8 @@ export interface ReadingCriteria {
   minimumSource: string;
   /** A pole is flagged above the lowest by more than this percentage of the lowest. */
   contactOutlierPercent: number;
+  /** Insulation readings with the equipment within this many kelvin of the dew point are not judged. */
+  dewPointMarginK: number;
 }
 
 /** Defaults: NETA to 20 °C (its minimums are at 20 °C), solid insulation, class B, NETA 50 %. */
@@ -55,6 +65,7 @@ export const DEFAULT_CRITERIA: ReadingCriteria = {
   minimumMegohms: null,
   minimumSource: "",
   contactOutlierPercent: CONTACT_DEVIATION_LIMIT * 100,
+  dewPointMarginK: DEW_POINT_MARGIN_K,
 };
 
 /** Where a criterion comes from: a short text and the table's name/number. */
@@ -84,7 +95,7 @@ export function correctInsulation(megohms: number, temperatureC: number, c: Pick
       source: { table: "IEEE Std 43, temperature correction to 40 °C", text: `R40 = R × 0.5^((40 − ${fmt(temperatureC)})/10)` },
     };
   }
-  requirePositive("megohms", megohms);
+  requireNumber("megohms", megohms, { min: 0 });
   const factor = netaCorrectionFactor(temperatureC, c.insulationMedium);
   return {
     correctedMegohms: megohms * factor,
@@ -127,6 +138,12 @@ export interface InsulationReadingInput {
   r30s?: number | null;
   r1min?: number | null;
   r10min?: number | null;
+  megohmsQualifier?: ReadingQualifier | null;
+  r30sQualifier?: ReadingQualifier | null;
+  r1minQualifier?: ReadingQualifier | null;
+  r10minQualifier?: ReadingQualifier | null;
+  ambientTempC?: number | null;
+  humidityPercent?: number | null;
 }
 
 /**
@@ -137,28 +154,50 @@ export interface InsulationReadingInput {
 export function judgeInsulationReading(r: InsulationReadingInput, c: ReadingCriteria, maker?: ManufacturerValue | null) {
   const corrected = correctInsulation(r.megohms, r.equipmentTempC, c);
   const minimum = insulationMinimum(r.ratedVolts, c, maker);
-  const pi = r.r1min != null && r.r10min != null ? polarizationIndex(r.r1min, r.r10min) : null;
-  const dar = r.r30s != null && r.r1min != null ? dielectricAbsorptionRatio(r.r30s, r.r1min) : null;
+  const q = (v: number, qualifier?: ReadingQualifier | null) => ({ megohms: v, qualifier: qualifier ?? null });
+  const piBound = r.r1min != null && r.r10min != null ? qualifiedRatio(q(r.r1min, r.r1minQualifier), q(r.r10min, r.r10minQualifier)) : null;
+  const darBound = r.r30s != null && r.r1min != null ? qualifiedRatio(q(r.r30s, r.r30sQualifier), q(r.r1min, r.r1minQualifier)) : null;
   const minimumPi = minimumPolarizationIndex(c.thermalClass);
-  const j = judgeInsulation({ correctedMegohms: corrected.correctedMegohms, minimumMegohms: minimum.minMegohms, pi, minimumPi, dar });
-  const notes: string[] = [];
-  if (r.testVoltsDc < minimum.recommendedTestVoltsDc) {
-    notes.push(`Tested at ${r.testVoltsDc} V DC; NETA Table 100.1 suggests ${minimum.recommendedTestVoltsDc} V DC for this rating.`);
-  }
+  // IEEE 43: above 5 000 MΩ at 40 °C (1-minute reading) the PI is not needed to judge.
+  const r1At40 = r.r1min != null && r.equipmentTempC >= IEEE43_RANGE_C.min && r.equipmentTempC <= IEEE43_RANGE_C.max ? ieee43CorrectionTo40C(r.r1min, r.equipmentTempC) : null;
+  const piNotRequired = r1At40 !== null && r1At40 > IEEE43_PI_NOT_REQUIRED_ABOVE_MEGOHMS && r.r1minQualifier !== "below";
+  const j = judgeInsulation({
+    correctedMegohms: corrected.correctedMegohms, qualifier: r.megohmsQualifier ?? null, minimumMegohms: minimum.minMegohms,
+    pi: piBound, minimumPi, dar: darBound, piNotRequired,
+  });
+  const validity = insulationReadingValidity({ equipmentTempC: r.equipmentTempC, ambientTempC: r.ambientTempC, humidityPercent: r.humidityPercent, marginK: c.dewPointMarginK ?? DEW_POINT_MARGIN_K });
+  const voltage = testVoltageAdvice(r.ratedVolts, r.testVoltsDc);
+  const notes: string[] = [...j.notes];
+  if (voltage.note) notes.push(voltage.note);
   if (c.correctionMethod === "ieee43_40c" && minimum.from === "table") {
     notes.push("NETA's minimums are for 20 °C; a value corrected to 40 °C is lower, so this comparison errs on the strict side.");
   }
+  if (r.ambientTempC == null || r.humidityPercent == null) notes.push("No ambient temperature and humidity: the dew point could not be checked.");
+  const verdict: Verdict = validity.valid ? j.verdict : "not_valid";
+  const reasons = validity.valid ? j.reasons : [...validity.reasons, `Not judged; the numbers alone: ${j.reasons.join(" ")}`];
   return {
     correctedMegohms: corrected.correctedMegohms,
+    qualifier: r.megohmsQualifier ?? null,
     baseTemperatureC: corrected.baseTemperatureC,
     correction: corrected.source,
     minimum: { megohms: minimum.minMegohms, from: minimum.from, source: minimum.source },
-    pi,
-    dar,
+    pi: piBound?.value ?? null,
+    piBound: piBound?.bound ?? null,
+    dar: darBound?.value ?? null,
+    darBound: darBound?.bound ?? null,
+    piNotRequired,
     minimumPi,
     piSource: { table: "IEEE Std 43, recommended minimum polarization index", text: `Thermal class ${c.thermalClass}: PI at least ${minimumPi}` },
-    verdict: j.verdict,
-    reasons: j.reasons,
+    validForJudging: validity.valid,
+    dewPointC: validity.dewPointC,
+    validitySource: {
+      table: "Dew point: Magnus formula, Alduchov–Eskridge coefficients (1996)",
+      text: `Readings with the equipment at or within ${c.dewPointMarginK ?? DEW_POINT_MARGIN_K} K of the dew point, or below 0 °C, are not judged (common practice)`,
+    },
+    suggestedTestVoltsDc: voltage.suggestedVoltsDc,
+    testVoltageOver: voltage.over,
+    verdict,
+    reasons,
     notes,
   };
 }
@@ -204,19 +243,42 @@ export function judgeContactReading(poleMicroOhms: readonly number[], c: Pick<Re
   };
 }
 
-/** Rises over a similar component and over ambient, classified by NETA Table 100.18. */
-export function judgeThermalScan(s: { componentTempC: number; similarTempC?: number | null; ambientTempC?: number | null }) {
+/**
+ * Rises over a similar component and over ambient, classified by NETA Table 100.18; with
+ * the load known (below 100 %), each rise is also scaled to rated load (thermal.ts,
+ * ΔT ∝ (I/I_rated)², common practice) and the more severe of the measured and scaled
+ * levels is the level. Scans under 40 % load carry a warning (common practice).
+ */
+export function judgeThermalScan(s: { componentTempC: number; similarTempC?: number | null; ambientTempC?: number | null; loadPercent?: number | null }) {
   const t = requireNumber("componentTempC", s.componentTempC);
   const overSimilarC = s.similarTempC == null ? undefined : t - requireNumber("similarTempC", s.similarTempC);
   const overAmbientC = s.ambientTempC == null ? undefined : t - requireNumber("ambientTempC", s.ambientTempC);
-  const { level, action } = classifyTemperatureRise({ overSimilarC, overAmbientC });
+  const measured = classifyTemperatureRise({ overSimilarC, overAmbientC });
+  const load = s.loadPercent != null && s.loadPercent > 0 ? s.loadPercent : null;
+  const scale = (rise: number | undefined) => (rise === undefined || load === null ? undefined : scaleRiseToRatedLoad(rise, Math.min(load, 200)).scaledRiseC);
+  const scaledSimilarC = load !== null && load < 100 ? scale(overSimilarC) : undefined;
+  const scaledAmbientC = load !== null && load < 100 ? scale(overAmbientC) : undefined;
+  const scaled = scaledSimilarC !== undefined || scaledAmbientC !== undefined ? classifyTemperatureRise({ overSimilarC: scaledSimilarC, overAmbientC: scaledAmbientC }) : null;
+  const level = Math.max(measured.level, scaled?.level ?? 0) as ThermalLevel;
+  const action = THERMAL_ACTIONS[level];
+  const warnings: string[] = [];
+  if (load === null) warnings.push("Load not recorded: the rise cannot be scaled to rated load.");
+  else if (load < LOW_LOAD_PERCENT) warnings.push(`Scanned at ${fmt(load)} % load: below about ${LOW_LOAD_PERCENT} % a scan shows little, and scaling to full load magnifies every error (common practice). Re-scan under more load.`);
   return {
     overSimilarC: overSimilarC ?? null,
     overAmbientC: overAmbientC ?? null,
-    level: level as ThermalLevel,
+    scaledOverSimilarC: scaledSimilarC ?? null,
+    scaledOverAmbientC: scaledAmbientC ?? null,
+    measuredLevel: measured.level as ThermalLevel,
+    scaledLevel: (scaled?.level ?? null) as ThermalLevel | null,
+    level,
     action,
+    warnings,
     verdict: (level === 0 ? "meets" : "investigate") as Verdict,
-    source: { table: "NETA ATS/MTS Table 100.18, thermographic survey suggested actions", text: `Level ${level}: ${action}` },
+    source: {
+      table: "NETA ATS/MTS Table 100.18, thermographic survey suggested actions",
+      text: `Level ${level}: ${action}` + (scaled ? `. Rises scaled to rated load by (100 / ${fmt(load!)} %)^${LOAD_SCALING_EXPONENT} (ΔT ∝ I², common practice)` : ""),
+    },
   };
 }
 
@@ -238,6 +300,9 @@ export interface GroundCheckInput {
   lamps?: Record<Phase, LampState> | null;
   volts?: Record<Phase, number> | null;
   branchOhms?: number | null;
+  /** System capacitance to ground per phase, µF, when the crew knows it. */
+  capacitanceMicroF?: number | null;
+  frequencyHz?: number | null;
   siteKind?: "vessel" | "building" | "plant";
 }
 
@@ -254,11 +319,21 @@ export function judgeGroundCheck(g: GroundCheckInput) {
     const values = PHASE_LIST.map((p) => g.volts![p]);
     const balanced = Math.max(...values) - Math.min(...values) <= BALANCE_TOLERANCE * vPh;
     const v = (p: Phase) => `${fmt(g.volts![p])} V`;
+    const range = found.phase && g.branchOhms != null
+      ? faultEstimateRange({ lineVolts: g.lineVolts, faultedVolts: g.volts[found.phase], branchOhms: g.branchOhms, capacitanceMicroF: g.capacitanceMicroF, frequencyHz: g.frequencyHz ?? 60 })
+      : null;
+    const ohms = (x: number | null) => (x == null ? "?" : `${fmt(x)} Ω`);
+    const rangeWords = !range ? ""
+      : range.capacitanceNeglected
+        ? ` Estimated fault resistance at most about ${ohms(range.highOhms)} (lamp model without the system's capacitance, which only lowers it: enter the capacitance per phase for a range).`
+        : ` Estimated fault resistance ${ohms(range.lowOhms)} to ${ohms(range.highOhms)}, about ${ohms(range.centralOhms)} (lamp model with ${fmt(g.capacitanceMicroF!)} µF per phase ± ${CAPACITANCE_UNCERTAINTY * 100} %).`;
     const words = found.phase
-      ? `Phase ${found.phase} lamp at ${v(found.phase)} to ground, ${othersInWords(found.phase, v)}: suspect a ground on phase ${found.phase}${hull}.` +
-        (found.faultOhms != null ? ` Estimated fault resistance about ${fmt(found.faultOhms)} Ω (estimate from the lamp model).` : "")
+      ? `Phase ${found.phase} lamp at ${v(found.phase)} to ground, ${othersInWords(found.phase, v)}: suspect a ground on phase ${found.phase}${hull}.` + rangeWords
       : found.reason;
-    return { phase: found.phase, faultOhms: found.faultOhms, words, verdict: (balanced ? "meets" : "investigate") as Verdict, source: GROUND_SOURCE };
+    return {
+      phase: found.phase, faultOhms: range ? (range.centralOhms ?? range.highOhms) : found.faultOhms, faultRange: range,
+      words, verdict: (balanced ? "meets" : "investigate") as Verdict, source: GROUND_SOURCE,
+    };
   }
   if (!g.lamps) throw new RangeError("give the lamps' look or their volts to ground");
   const found = suspectPhaseFromLamps(g.lamps);
@@ -267,7 +342,7 @@ export function judgeGroundCheck(g: GroundCheckInput) {
   const words = found.phase
     ? `Phase ${found.phase} lamp ${g.lamps[found.phase]}, ${othersInWords(found.phase, (p) => g.lamps![p])}: suspect a ground on phase ${found.phase}${hull}.`
     : found.reason;
-  return { phase: found.phase, faultOhms: null, words, verdict: (balanced ? "meets" : "investigate") as Verdict, source: GROUND_SOURCE };
+  return { phase: found.phase, faultOhms: null, faultRange: null, words, verdict: (balanced ? "meets" : "investigate") as Verdict, source: GROUND_SOURCE };
 }
 
 const GROUND_SOURCE: CriterionSource = {

@@ -60,3 +60,30 @@ export function classifyTemperatureRise(input: { overSimilarC?: number; overAmbi
   const level = Math.max(similar, ambient) as ThermalLevel;
   return { level, action: THERMAL_ACTIONS[level] };
 }
+
+/** Exponent of the load-scaling relation ΔT ∝ (I / I_rated)^n (common practice: about 2, as I²R heating). */
+export const LOAD_SCALING_EXPONENT = 2;
+/** Below this load, % of rated, a scan shows little (common practice; from memory of infrared-survey guides). */
+export const LOW_LOAD_PERCENT = 40;
+
+/**
+ * A temperature rise measured at part load, scaled to rated load.
+ * Formula: ΔT_rated = ΔT_measured · (100 / load%)^n, n = LOAD_SCALING_EXPONENT (2: the
+ * heat of a resistive joint goes with I²R; common practice, and practitioners use n
+ * between about 1.6 and 2 — Tideline takes 2, the I²R value). Example (issue 13): 8 °C
+ * at 30 % load → 8 · (1/0.3)² = 88.9 °C at rated load.
+ * @param riseC measured rise, °C (kelvin difference); a rise ≤ 0 is returned unscaled
+ * @param loadPercent load at the time of the scan, % of rated, > 0 … 200
+ * @returns scaled rise, °C, and whether the scan was taken at too low a load to mean much
+ */
+export function scaleRiseToRatedLoad(riseC: number, loadPercent: number, exponent = LOAD_SCALING_EXPONENT): {
+  scaledRiseC: number;
+  factor: number;
+  lowLoad: boolean;
+} {
+  const rise = requireNumber("riseC", riseC);
+  const load = requireNumber("loadPercent", loadPercent, { min: 0, minExclusive: true, max: 200 });
+  const n = requireNumber("exponent", exponent, { min: 1, max: 3 });
+  const factor = Math.pow(100 / load, n);
+  return { scaledRiseC: rise > 0 ? rise * factor : rise, factor, lowLoad: load < LOW_LOAD_PERCENT };
+}

@@ -45,6 +45,8 @@ export const COMPONENT_KINDS = [
   "relay",
   "terminal_strip",
   "other",
+  "electronic_trip_unit",
+  "enclosed_switch",
 ] as const;
 export type ComponentKind = (typeof COMPONENT_KINDS)[number];
 export const COMPONENT_KIND_LABELS: Record<ComponentKind, string> = {
@@ -60,6 +62,8 @@ export const COMPONENT_KIND_LABELS: Record<ComponentKind, string> = {
   relay: "Relay",
   terminal_strip: "Terminal strip",
   other: "Other",
+  electronic_trip_unit: "Electronic trip unit",
+  enclosed_switch: "Enclosed safety switch",
 };
 /** Short text shown on a board tile beside the kind glyph (never colour alone). */
 export const COMPONENT_KIND_SHORT: Record<ComponentKind, string> = {
@@ -77,6 +81,8 @@ export const COMPONENT_KIND_SHORT: Record<ComponentKind, string> = {
   relay: "RLY",
   terminal_strip: "TB",
   other: "OTH",
+  electronic_trip_unit: "ETU",
+  enclosed_switch: "ESW",
 };
 
 export const HERITAGE = ["original", "period", "modern"] as const;
@@ -134,7 +140,7 @@ export const INSULATION_STATE_LABELS: Record<InsulationState, string> = {
   swollen: "Swollen / delaminated",
 };
 
-export const CONTAMINANTS = ["silt", "salt_crust", "oil", "mould", "water_inside"] as const;
+export const CONTAMINANTS = ["silt", "salt_crust", "oil", "mould", "water_inside", "water_marks", "corrosion_products"] as const;
 export type Contaminant = (typeof CONTAMINANTS)[number];
 export const CONTAMINANT_LABELS: Record<Contaminant, string> = {
   silt: "Silt / mud",
@@ -142,6 +148,8 @@ export const CONTAMINANT_LABELS: Record<Contaminant, string> = {
   oil: "Oil",
   mould: "Mould / organic growth",
   water_inside: "Water still inside",
+  water_marks: "Water marks / tide line",
+  corrosion_products: "Fresh corrosion products (verdigris, white salts)",
 };
 
 export const DEFECT_CATEGORIES = [

@@ -6,8 +6,9 @@
  */
 import { z } from "zod";
 import { text as safeText, int, isoDateTime } from "./common";
-import { CORRECTION_METHODS } from "../domain/reading-judgement";
-import { THERMAL_CLASSES } from "../domain/insulation";
+import { CORRECTION_METHODS, VERDICTS } from "../domain/reading-judgement";
+import { READING_QUALIFIERS, THERMAL_CLASSES } from "../domain/insulation";
+import { TRIP_UNITS } from "../domain/trip-test";
 
 export const CONDUCTORS = ["A-B", "B-C", "C-A", "A-G", "B-G", "C-G", "line-load"] as const;
 export type Conductors = (typeof CONDUCTORS)[number];
@@ -23,6 +24,10 @@ const num = (label: string, min: number, max: number, unit: string) =>
 const positive = (label: string, max: number, unit: string) =>
   z.number({ message: `${label} must be a number` }).positive({ message: `${label} must be more than 0 ${unit}` }).max(max, { message: `${label} must be at most ${max} ${unit}` });
 const opt = <T extends z.ZodType>(s: T) => s.nullish().transform((v) => v ?? null);
+/** A megohm value: 0 is a reading (a dead short), not an error. */
+const megohms = (label: string) => num(label, 0, 1e7, "MΩ");
+const qualifier = opt(z.enum(READING_QUALIFIERS, { message: "Choose at or above the meter's range, or below its resolution" }));
+export const QUALIFIER_LABELS = { at_or_above: "≥ meter's limit", below: "≤ resolution" } as const;
 
 const measuredAt = isoDateTime("Give the date and time of the reading");
 const text = (max: number) => safeText().trim().max(max).default("");
@@ -31,15 +36,19 @@ export const insulationReadingBody = z.object({
   componentId: opt(z.uuid({ message: "componentId must be a UUID" })),
   circuit: text(120),
   testVoltsDc: int({ message: "Test voltage must be whole volts" }).min(50, { message: "Test voltage must be at least 50 V DC" }).max(15000, { message: "Test voltage must be at most 15000 V DC" }),
-  megohms: positive("Reading", 1e7, "MΩ"),
+  megohms: megohms("Reading"),
+  megohmsQualifier: qualifier,
   conductors: z.enum(CONDUCTORS, { message: "Choose which conductors were tested" }),
   equipmentTempC: num("Equipment temperature", -10, 110, "°C"),
   ambientTempC: opt(num("Ambient temperature", -40, 80, "°C")),
   humidityPercent: opt(num("Relative humidity", 0, 100, "%")),
   durationS: opt(int().min(1, { message: "Duration must be at least 1 s" }).max(3600, { message: "Duration must be at most 3600 s" })),
-  r30s: opt(positive("30-second reading", 1e7, "MΩ")),
-  r1min: opt(positive("1-minute reading", 1e7, "MΩ")),
-  r10min: opt(positive("10-minute reading", 1e7, "MΩ")),
+  r30s: opt(megohms("30-second reading")),
+  r1min: opt(megohms("1-minute reading")),
+  r10min: opt(megohms("10-minute reading")),
+  r30sQualifier: qualifier,
+  r1minQualifier: qualifier,
+  r10minQualifier: qualifier,
   instrument: text(200),
   notes: text(2000),
   measuredAt,
@@ -75,6 +84,7 @@ export const groundCheckBody = z.object({
   lamps: opt(phases(z.enum(LAMP_LOOKS, { message: "Choose bright, dim or dark" }))),
   volts: opt(phases(num("Volts to ground", 0, 2000, "V"))),
   branchOhms: opt(positive("Lamp branch resistance", 1e7, "Ω")),
+  capacitanceMicroF: opt(num("Capacitance to ground per phase", 0, 1000, "µF")),
   instrument: text(200),
   notes: text(2000),
   measuredAt,
@@ -88,6 +98,7 @@ export const criteriaBody = z.object({
   minimumMegohms: opt(positive("Minimum", 1e7, "MΩ")),
   minimumSource: text(500),
   contactOutlierPercent: num("Contact threshold", 1, 500, "%"),
+  dewPointMarginK: num("Dew-point margin", 0, 20, "K").default(3),
   version: int().min(0),
 }).refine((b) => b.minimumMegohms === null || b.minimumSource !== "", { message: "Say where the site's minimum comes from", path: ["minimumSource"] });
 export type CriteriaBody = z.input<typeof criteriaBody>;
@@ -102,8 +113,9 @@ export type OverrideBody = z.input<typeof overrideBody>;
 
 // ---- Responses ---------------------------------------------------------------------------
 export const sourceSchema = z.object({ table: safeText(), text: safeText() });
+const ratioBound = z.enum(["exact", "at_least", "at_most", "not_computable"]);
 export type CriterionSourceDto = z.infer<typeof sourceSchema>;
-const verdict = z.enum(["meets", "below_minimum", "investigate"]);
+const verdict = z.enum(VERDICTS);
 const base = {
   id: safeText(),
   boardId: safeText(),
@@ -128,15 +140,28 @@ export const insulationReadingSchema = z.object({
   r30s: z.number().nullable(),
   r1min: z.number().nullable(),
   r10min: z.number().nullable(),
+  megohmsQualifier: z.enum(READING_QUALIFIERS).nullable(),
+  r30sQualifier: z.enum(READING_QUALIFIERS).nullable(),
+  r1minQualifier: z.enum(READING_QUALIFIERS).nullable(),
+  r10minQualifier: z.enum(READING_QUALIFIERS).nullable(),
   judgement: z.object({
     correctedMegohms: z.number().nullable(),
+    qualifier: z.enum(READING_QUALIFIERS).nullable(),
     baseTemperatureC: z.number().nullable(),
     correction: sourceSchema.nullable(),
     minimum: z.object({ megohms: z.number(), from: z.enum(["manufacturer", "site", "table"]), source: sourceSchema }),
     pi: z.number().nullable(),
+    piBound: ratioBound.nullable(),
     dar: z.number().nullable(),
+    darBound: ratioBound.nullable(),
+    piNotRequired: z.boolean(),
     minimumPi: z.number(),
     piSource: sourceSchema,
+    validForJudging: z.boolean(),
+    dewPointC: z.number().nullable(),
+    validitySource: sourceSchema,
+    suggestedTestVoltsDc: z.number(),
+    testVoltageOver: z.boolean(),
     verdict,
     reasons: z.array(safeText()),
     notes: z.array(safeText()),
@@ -170,8 +195,13 @@ export const thermalScanSchema = z.object({
   judgement: z.object({
     overSimilarC: z.number().nullable(),
     overAmbientC: z.number().nullable(),
+    scaledOverSimilarC: z.number().nullable(),
+    scaledOverAmbientC: z.number().nullable(),
+    measuredLevel: z.number(),
+    scaledLevel: z.number().nullable(),
     level: z.number(),
     action: safeText(),
+    warnings: z.array(safeText()),
     verdict,
     source: sourceSchema,
   }),
@@ -185,7 +215,12 @@ export const groundCheckSchema = z.object({
   lamps: phases(z.enum(LAMP_LOOKS)).nullable(),
   volts: phases(z.number()).nullable(),
   branchOhms: z.number().nullable(),
-  judgement: z.object({ phase: z.enum(PHASE_KEYS).nullable(), faultOhms: z.number().nullable(), words: safeText(), verdict, source: sourceSchema }),
+  capacitanceMicroF: z.number().nullable(),
+  judgement: z.object({
+    phase: z.enum(PHASE_KEYS).nullable(), faultOhms: z.number().nullable(),
+    faultRange: z.object({ lowOhms: z.number().nullable(), centralOhms: z.number().nullable(), highOhms: z.number().nullable(), capacitanceNeglected: z.boolean() }).nullable(),
+    words: safeText(), verdict, source: sourceSchema,
+  }),
 });
 export type GroundCheck = z.infer<typeof groundCheckSchema>;
 
@@ -196,6 +231,7 @@ export const criteriaSchema = z.object({
   minimumMegohms: z.number().nullable(),
   minimumSource: safeText(),
   contactOutlierPercent: z.number(),
+  dewPointMarginK: z.number(),
   version: z.number(),
   updatedAt: safeText().nullable(),
 });
@@ -220,12 +256,128 @@ export const readingTargetsSchema = z.object({
 });
 export type ReadingTargets = z.infer<typeof readingTargetsSchema>;
 
+// ---- Issue 13: trip tests, step-voltage tests, ground hunt, phase comparison ----------------
+export const TRIP_TESTS = ["inverse_time", "instantaneous"] as const;
+export const TRIP_TEST_LABELS = { inverse_time: "Overload (inverse-time) at 300 %", instantaneous: "Instantaneous pickup" } as const;
+
+export const tripTestBody = z.object({
+  test: z.enum(TRIP_TESTS, { message: "Choose the test" }),
+  tripUnit: z.enum(TRIP_UNITS, { message: "Choose the trip unit" }),
+  adjustable: z.boolean().default(false),
+  pole: text(20),
+  ratingAmps: positive("Rating", 10000, "A"),
+  systemVolts: positive("System voltage", 1000, "V"),
+  testAmps: opt(positive("Test current", 200000, "A")),
+  tripSeconds: opt(num("Trip time", 0, 100000, "s")),
+  bandMinSeconds: opt(num("Band minimum", 0, 100000, "s")),
+  bandMaxSeconds: opt(num("Band maximum", 0, 100000, "s")),
+  settingAmps: opt(positive("Setting", 200000, "A")),
+  publishedLowAmps: opt(positive("Published low", 200000, "A")),
+  publishedHighAmps: opt(positive("Published high", 200000, "A")),
+  pickupAmps: opt(positive("Pickup current", 200000, "A")),
+  instrument: text(200),
+  notes: text(2000),
+  measuredAt,
+})
+  .refine((b) => b.test !== "inverse_time" || b.testAmps !== null, { message: "Give the test current", path: ["testAmps"] })
+  .refine((b) => b.test !== "instantaneous" || b.pickupAmps !== null, { message: "Give the pickup current", path: ["pickupAmps"] })
+  .refine((b) => b.test !== "instantaneous" || !(b.tripUnit === "electronic" || b.adjustable) || b.settingAmps !== null, { message: "Give the setting in amperes", path: ["settingAmps"] })
+  .refine((b) => b.test !== "instantaneous" || b.tripUnit === "electronic" || b.adjustable || (b.publishedLowAmps !== null && b.publishedHighAmps !== null), { message: "Give the manufacturer's published range", path: ["publishedLowAmps"] })
+  .refine((b) => (b.bandMinSeconds === null) === (b.bandMaxSeconds === null), { message: "Give both ends of the band, or neither", path: ["bandMaxSeconds"] })
+  .refine((b) => b.bandMinSeconds === null || b.bandMaxSeconds === null || b.bandMaxSeconds >= b.bandMinSeconds, { message: "The band's maximum must be at least its minimum", path: ["bandMaxSeconds"] })
+  .refine((b) => b.publishedLowAmps === null || b.publishedHighAmps === null || b.publishedHighAmps >= b.publishedLowAmps, { message: "The high end must be at least the low end", path: ["publishedHighAmps"] });
+export type TripTestBody = z.input<typeof tripTestBody>;
+
+export const tripTestSchema = z.object({
+  ...base,
+  test: z.enum(TRIP_TESTS),
+  tripUnit: z.enum(TRIP_UNITS),
+  adjustable: z.boolean(),
+  pole: safeText(),
+  ratingAmps: z.number(),
+  systemVolts: z.number(),
+  testAmps: z.number().nullable(),
+  tripSeconds: z.number().nullable(),
+  bandMinSeconds: z.number().nullable(),
+  bandMaxSeconds: z.number().nullable(),
+  settingAmps: z.number().nullable(),
+  publishedLowAmps: z.number().nullable(),
+  publishedHighAmps: z.number().nullable(),
+  pickupAmps: z.number().nullable(),
+  judgement: z.object({ verdict, reasons: z.array(safeText()), window: safeText(), source: sourceSchema }),
+});
+export type TripTest = z.infer<typeof tripTestSchema>;
+
+export const stepVoltageBody = z.object({
+  componentId: opt(z.uuid({ message: "componentId must be a UUID" })),
+  circuit: text(120),
+  conductors: z.enum(CONDUCTORS, { message: "Choose which conductors were tested" }),
+  equipmentTempC: opt(num("Equipment temperature", -10, 110, "°C")),
+  steps: z.array(z.object({
+    testVoltsDc: int({ message: "Whole volts" }).min(50, { message: "At least 50 V DC" }).max(15000, { message: "At most 15000 V DC" }),
+    megohms: megohms("Reading"),
+  })).min(2, { message: "Give at least two steps" }).max(8, { message: "At most eight steps" }),
+  instrument: text(200),
+  notes: text(2000),
+  measuredAt,
+}).refine((b) => b.componentId !== null || b.circuit !== "", { message: "Name the circuit or choose a component", path: ["circuit"] })
+  .refine((b) => new Set(b.steps.map((s) => s.testVoltsDc)).size === b.steps.length, { message: "Each step needs its own voltage", path: ["steps"] });
+export type StepVoltageBody = z.input<typeof stepVoltageBody>;
+
+export const stepVoltageSchema = z.object({
+  ...base,
+  circuit: safeText(),
+  conductors: z.enum(CONDUCTORS),
+  equipmentTempC: z.number().nullable(),
+  steps: z.array(z.object({ testVoltsDc: z.number(), megohms: z.number() })),
+  judgement: z.object({ largestFall: z.number(), verdict, reasons: z.array(safeText()), source: sourceSchema }),
+});
+export type StepVoltageTest = z.infer<typeof stepVoltageSchema>;
+
+export const groundHuntBody = z.object({
+  hunt: safeText().trim().min(1, { message: "Name this hunt (e.g. the energisation it belongs to)" }).max(120),
+  positionId: opt(z.uuid({ message: "positionId must be a UUID" })),
+  feeder: safeText().trim().min(1, { message: "Name the feeder opened or closed" }).max(120),
+  action: z.enum(["opened", "closed"], { message: "Opened or closed?" }),
+  lamps: phases(z.enum(LAMP_LOOKS, { message: "Choose bright, dim or dark" })),
+  notes: text(2000),
+  measuredAt,
+});
+export type GroundHuntBody = z.input<typeof groundHuntBody>;
+
+export const groundHuntStepSchema = z.object({
+  ...base,
+  hunt: safeText(),
+  positionId: safeText().nullable(),
+  feeder: safeText(),
+  action: z.enum(["opened", "closed"]),
+  lamps: phases(z.enum(LAMP_LOOKS)),
+});
+export type GroundHuntStep = z.infer<typeof groundHuntStepSchema>;
+export const groundHuntSchema = z.object({ hunt: safeText(), steps: z.array(groundHuntStepSchema), finding: z.object({ feeder: safeText().nullable(), words: safeText() }) });
+export type GroundHunt = z.infer<typeof groundHuntSchema>;
+
+export const phaseComparisonSchema = z.object({
+  key: safeText(),
+  label: safeText(),
+  measuredAt: safeText(),
+  values: z.object({ A: z.number().nullable(), B: z.number().nullable(), C: z.number().nullable() }),
+  flagged: z.array(z.enum(PHASE_KEYS)),
+  trend: z.array(z.object({ conductors: z.enum(CONDUCTORS), previous: z.number(), current: z.number(), dropFraction: z.number(), flagged: z.boolean() })),
+  reasons: z.array(safeText()),
+});
+export type PhaseComparison = z.infer<typeof phaseComparisonSchema>;
+
 export const boardReadingsSchema = z.object({
   board: z.object({ id: safeText(), name: safeText(), nominalVolts: z.number() }),
   insulation: z.array(insulationReadingSchema),
   contacts: z.array(contactReadingSchema),
   thermal: z.array(thermalScanSchema),
   groundChecks: z.array(groundCheckSchema),
+  tripTests: z.array(tripTestSchema),
+  stepTests: z.array(stepVoltageSchema),
+  groundHunts: z.array(groundHuntSchema),
+  phaseComparisons: z.array(phaseComparisonSchema),
 });
 export type BoardReadings = z.infer<typeof boardReadingsSchema>;
 
@@ -235,5 +387,8 @@ export const componentReadingsSchema = z.object({
   insulation: z.array(insulationReadingSchema),
   contacts: z.array(contactReadingSchema),
   thermal: z.array(thermalScanSchema),
+  tripTests: z.array(tripTestSchema),
+  stepTests: z.array(stepVoltageSchema),
 });
 export type ComponentReadings = z.infer<typeof componentReadingsSchema>;
+

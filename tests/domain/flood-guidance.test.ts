@@ -38,8 +38,9 @@ describe("recommendDisposition — submerged, fresh water, no other damage", () 
 describe("recommendDisposition — scenarios", () => {
   it.each([
     // [label, input, disposition, a reason must contain]
-    ["dry above the line, clean", { belowWaterLine: false }, "clean", "Above the water line and dry"], // NEMA GD 1 (memory)
-    ["above the line with silt only", { belowWaterLine: false, contaminants: ["silt"] }, "clean", "clean and inspect"],
+    ["dry above the line, clean", { belowWaterLine: false }, "clean", "no sign of water contact"], // NEMA GD 1 (memory)
+    // Issue 13 item 6: silt is evidence of water contact, which overrides the recorded line (common practice).
+    ["above the line with silt only", { belowWaterLine: false, contaminants: ["silt"] }, "rebuild", "overrides the recorded water line"],
     ["above the line, mould", { belowWaterLine: false, contaminants: ["mould"] }, "clean", "respiratory"], // common practice
     ["above the line, salt water", { belowWaterLine: false, waterType: "salt" }, "rebuild", "corrosive and conductive"], // NEMA GD 1: salt residue corrosive and conductive
     ["above the line, sewage", { belowWaterLine: false, waterType: "sewage" }, "rebuild", "salt or sewage"],

@@ -130,7 +130,12 @@ describe("time-resistance ratios", () => {
     expect(dielectricAbsorptionRatio(r30, r60)).toBeCloseTo(dar, 12);
   });
 
-  it.each([[0, 10], [10, 0], [-1, 10], [NaN, 10], [10, Infinity]])("ratios reject (%f, %f)", (a, b) => {
+  it.each([[0, 10], [10, 0], [0, 0]])("a zero reading makes the ratio not computable (%f, %f), not an error (issue 13 item 1)", (a, b) => {
+    expect(polarizationIndex(a, b)).toBeNull();
+    expect(dielectricAbsorptionRatio(a, b)).toBeNull();
+  });
+
+  it.each([[-1, 10], [NaN, 10], [10, Infinity]])("ratios reject (%f, %f)", (a, b) => {
     expect(() => polarizationIndex(a, b)).toThrow(RangeError);
     expect(() => dielectricAbsorptionRatio(a, b)).toThrow(RangeError);
   });

@@ -17,7 +17,8 @@ describe("dryOutSeries", () => {
     expect((s.extension![1].t - T0) / HOUR).toBeCloseTo(30 + 13.219280949, 6);
     expect(s.extension![1].y).toBe(100);
     expect(s.yDomain).toEqual([1, 1000]);
-    expect(forecastWords(s)).toMatch(/^Estimate, not a promise: .*13\.2 h after the last reading/);
+    // whole hours (no false precision); an exact fit has no spread, so no range is printed
+    expect(forecastWords(s)).toMatch(/^Estimate, not a promise: .*about 13 h after the last reading\. Re-test/);
   });
 
   it("draws no extension when the minimum is met, the trend falls, or a reading could not be corrected", () => {
@@ -29,9 +30,24 @@ describe("dryOutSeries", () => {
   });
 
   it("does not draw an estimate more than 60 days out", () => {
-    const slow = dryOutSeries([reading(0, 1), reading(240, 1.01), reading(480, 1.02)])!;
+    // 1 → 1.5 MΩ over 40 days: rising (the window changes 50 %), doubling about every 68 days.
+    const slow = dryOutSeries([reading(0, 1), reading(480, 1.22), reading(960, 1.5)])!;
     expect(slow.extension).toBeNull();
     expect(forecastWords(slow)).toContain("more than 60 days");
+  });
+
+  it("a series flattening below the minimum says so instead of promising it (issue 13 item 4)", () => {
+    const flat = dryOutSeries([reading(0, 1), reading(240, 1.01), reading(480, 1.02)])!;
+    expect(flat.extension).toBeNull();
+    expect(forecastWords(flat)).toMatch(/^Levelling off below the minimum: drying alone may not get there/);
+  });
+
+  it("readings not valid for judging are drawn apart and left out of the trend", () => {
+    const bad = { ...reading(5, 300), judgement: { ...reading(5, 300).judgement, validForJudging: false } } as InsulationReading;
+    const s = dryOutSeries([reading(0, 5), reading(10, 10), reading(20, 20), bad])!;
+    expect(s.points.map((p) => p.y)).toEqual([5, 10, 20]);
+    expect(s.excluded.map((p) => p.y)).toEqual([300]);
+    expect(forecastWords(s)).toMatch(/1 reading not valid for judging/);
   });
 });
 

@@ -78,7 +78,7 @@ describe("server-side sorting, each checked against direct SQL", () => {
   });
 
   it("sort=priority desc is the order of rankDefects() from src/domain/priority.ts, pins included", async () => {
-    const all = await t.db.selectFrom("defects").select(["id", "priorityScore", "createdAt"]).where("siteId", "=", fx.siteId).execute();
+    const all = await t.db.selectFrom("defects").select(["id", "priorityScore", "safetyCritical", "createdAt"]).where("siteId", "=", fx.siteId).execute();
     const byScore = [...all].sort((a, b) => b.priorityScore - a.priorityScore || +a.createdAt - +b.createdAt);
     const pins = [
       { defectId: byScore[40].id, direction: "above" as const, relativeTo: byScore[2].id },
@@ -91,7 +91,7 @@ describe("server-side sorting, each checked against direct SQL", () => {
       expect(r.status).toBe(200);
     }
     const pinOf = new Map(pins.map((p) => [p.defectId, { direction: p.direction, relativeTo: p.relativeTo }]));
-    const expected = rankDefects(all.map((d) => ({ id: d.id, score: d.priorityScore, createdAt: d.createdAt.toISOString(), pin: pinOf.get(d.id) ?? null }))).map((d) => d.id);
+    const expected = rankDefects(all.map((d) => ({ id: d.id, score: d.priorityScore, safetyCritical: d.safetyCritical, createdAt: d.createdAt.toISOString(), pin: pinOf.get(d.id) ?? null }))).map((d) => d.id);
     expect(await ids("sort=priority&dir=desc&size=200")).toEqual(expected);
     expect(await ids("sort=priority&dir=asc&size=200")).toEqual([...expected].reverse());
     const detail = await viewer.get(`/api/sites/${fx.siteId}/defects/${byScore[40].id}`);

@@ -1,6 +1,9 @@
 /** Display helpers for readings (units always shown beside the number). */
 export const sig = (n: number, digits = 3) => Number(n.toPrecision(digits)).toLocaleString("en-GB");
-export const megohms = (n: number | null) => (n == null ? "—" : `${sig(n)} MΩ`);
+export const megohms = (n: number | null, qualifier?: "at_or_above" | "below" | null) =>
+  n == null ? "—" : `${qualifier === "at_or_above" ? "≥ " : qualifier === "below" ? "≤ " : ""}${sig(n)} MΩ`;
+/** A form's qualifier select: "" → null. */
+export const qualifierOf = (v: FormDataEntryValue | null) => (v === "at_or_above" || v === "below" ? v : null);
 export const when = (iso: string) =>
   new Date(iso).toLocaleString("en-GB", { day: "numeric", month: "short", year: "numeric", hour: "2-digit", minute: "2-digit" });
 export const day = (ms: number) => new Date(ms).toLocaleDateString("en-GB", { day: "numeric", month: "short" });

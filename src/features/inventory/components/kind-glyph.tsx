@@ -28,6 +28,10 @@ const GLYPHS: Record<ComponentKind, React.ReactNode> = {
   relay: (<><rect x="3" y="4" width="8" height="12" rx="1" /><path d="M5 7h4M5 10h4M5 13h4" /><path d="M11 10h3l3-3" /></>),
   // a row of screw terminals
   terminal_strip: (<><rect x="2" y="6" width="16" height="8" rx="1" /><circle cx="6" cy="10" r="1.3" /><circle cx="10" cy="10" r="1.3" /><circle cx="14" cy="10" r="1.3" /></>),
+  // a small box with a chip and a pointer dial: the trip unit's setting knob
+  electronic_trip_unit: (<><rect x="3" y="4" width="14" height="12" rx="1.5" /><rect x="5.5" y="7" width="4" height="4" /><circle cx="13.5" cy="9" r="2" /><path d="M13.5 9 14.8 7.7" /></>),
+  // a closed box with a handle on its side
+  enclosed_switch: (<><rect x="3" y="3" width="11" height="14" rx="1" /><path d="M14 8h3v5" strokeWidth="2" /><path d="M6 7h5M6 10h5" /></>),
   // a diamond for anything else
   other: (<><path d="M10 3 17 10 10 17 3 10Z" /></>),
 };

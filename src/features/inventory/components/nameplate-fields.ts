@@ -34,6 +34,8 @@ const BY_KIND: Record<ComponentKind, NameplateKey[]> = {
   transformer: ["voltageRating", "ratingAmps"],
   relay: ["voltageRating", "mounting"],
   terminal_strip: ["ratingAmps", "voltageRating"],
+  electronic_trip_unit: ["ratingAmps", "frame", "voltageRating"],
+  enclosed_switch: ["ratingAmps", "poles", "voltageRating", "mounting"],
   other: ["frame", "ratingAmps", "poles", "voltageRating", "interruptingKa", "meterRange", "lampWatts", "mounting"],
 };
 

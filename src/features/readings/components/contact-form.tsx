@@ -1,4 +1,5 @@
 import { useState, type FormEvent } from "react";
+import type { Verdict } from "../../../domain/reading-judgement";
 import { TextField } from "../../../components/field";
 import { contactReadingBody } from "../../../schemas/readings";
 import { useRecordContact } from "../api";
@@ -11,7 +12,7 @@ export function ContactForm({ siteId, options, defaultComponentId }: { siteId: s
   const [poles, setPoles] = useState(3);
   const [errors, setErrors] = useState<Record<string, string>>({});
   const [message, setMessage] = useState<string | null>(null);
-  const [saved, setSaved] = useState<null | { verdict: "meets" | "below_minimum" | "investigate"; reasons: string[] }>(null);
+  const [saved, setSaved] = useState<null | { verdict: Verdict; reasons: string[] }>(null);
 
   function submit(e: FormEvent<HTMLFormElement>) {
     e.preventDefault();

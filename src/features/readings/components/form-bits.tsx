@@ -50,3 +50,14 @@ export function ComponentSelect({ options, name = "componentId", label = "Compon
     </SelectField>
   );
 }
+
+/** How the meter showed a value: exactly, at or above its top of range (">2000"), or below its resolution. */
+export function QualifierField({ name, label, error }: { name: string; label: string; error?: string }) {
+  return (
+    <SelectField label={label} name={name} defaultValue="" error={error}>
+      <option value="">As shown (exact)</option>
+      <option value="at_or_above">At or above the meter's limit (≥)</option>
+      <option value="below">Below the meter's resolution (≤)</option>
+    </SelectField>
+  );
+}

@@ -2,8 +2,8 @@ import { useState, type FormEvent } from "react";
 import { SelectField, TextField } from "../../../components/field";
 import { CONDUCTORS, CONDUCTOR_LABELS, insulationReadingBody, type InsulationReading } from "../../../schemas/readings";
 import { useRecordInsulation } from "../api";
-import { fieldErrors, megohms, numOrNull, toIso } from "../format";
-import { ComponentSelect, FormShell, NumberField, WhenField, saveErrors, type TargetOption } from "./form-bits";
+import { fieldErrors, megohms, numOrNull, qualifierOf, toIso } from "../format";
+import { ComponentSelect, FormShell, NumberField, QualifierField, WhenField, saveErrors, type TargetOption } from "./form-bits";
 import { VerdictBadge } from "./verdict-badge";
 
 /** Phone-first: the volunteer at the board with the tester in the other hand. */
@@ -32,6 +32,10 @@ export function InsulationForm({ siteId, boardId, options, defaultComponentId }:
       r30s: numOrNull(f.get("r30s")),
       r1min: numOrNull(f.get("r1min")),
       r10min: numOrNull(f.get("r10min")),
+      megohmsQualifier: qualifierOf(f.get("megohmsQualifier")),
+      r30sQualifier: qualifierOf(f.get("r30sQualifier")),
+      r1minQualifier: qualifierOf(f.get("r1minQualifier")),
+      r10minQualifier: qualifierOf(f.get("r10minQualifier")),
       instrument: String(f.get("instrument") ?? ""),
       notes: String(f.get("notes") ?? ""),
       measuredAt: toIso(String(f.get("measuredAt") ?? "")),
@@ -65,14 +69,15 @@ export function InsulationForm({ siteId, boardId, options, defaultComponentId }:
         <SelectField label="Conductors tested" name="conductors" defaultValue="A-G" error={errors.conductors}>
           {CONDUCTORS.map((c) => <option key={c} value={c}>{CONDUCTOR_LABELS[c]}</option>)}
         </SelectField>
-        <NumberField label="Reading (MΩ)" name="megohms" required error={errors.megohms} />
+        <NumberField label="Reading (MΩ)" name="megohms" required hint="0 for a dead short" error={errors.megohms} />
+        <QualifierField label="The meter showed it" name="megohmsQualifier" error={errors.megohmsQualifier} />
         <NumberField label="Equipment temperature (°C)" name="equipmentTempC" required error={errors.equipmentTempC} />
         <NumberField label="Test voltage (V DC)" name="testVoltsDc" defaultValue={1000} step="1" error={errors.testVoltsDc} />
         <WhenField error={errors.measuredAt} />
         <details className="sm:col-span-2" open={!!(errors.ambientTempC || errors.humidityPercent || errors.durationS)}>
           <summary className="min-h-11 cursor-pointer py-2 font-semibold text-mist">Conditions and instrument (ambient, humidity, duration)</summary>
           <div className="grid gap-3 sm:grid-cols-2">
-            <NumberField label="Ambient temperature (°C)" name="ambientTempC" error={errors.ambientTempC} />
+            <NumberField label="Ambient temperature (°C)" name="ambientTempC" hint="With humidity: checks the dew point" error={errors.ambientTempC} />
             <NumberField label="Relative humidity (%)" name="humidityPercent" error={errors.humidityPercent} />
             <NumberField label="Test duration (s)" name="durationS" defaultValue={60} step="1" error={errors.durationS} />
             <TextField label="Instrument" name="instrument" error={errors.instrument} />
@@ -84,15 +89,19 @@ export function InsulationForm({ siteId, boardId, options, defaultComponentId }:
             <NumberField label="At 30 s (MΩ)" name="r30s" error={errors.r30s} />
             <NumberField label="At 1 min (MΩ)" name="r1min" error={errors.r1min} />
             <NumberField label="At 10 min (MΩ)" name="r10min" error={errors.r10min} />
+            <QualifierField label="30 s shown as" name="r30sQualifier" />
+            <QualifierField label="1 min shown as" name="r1minQualifier" />
+            <QualifierField label="10 min shown as" name="r10minQualifier" />
           </div>
         </details>
         <TextField label="Notes" name="notes" className="sm:col-span-2" error={errors.notes} />
       </FormShell>
       {last && (
         <p role="status" className="rounded-md bg-hull-800 p-3">
-          Saved: {megohms(last.megohms)} at {last.equipmentTempC} °C is{" "}
-          <strong>{megohms(last.judgement.correctedMegohms)}</strong> corrected to {last.judgement.baseTemperatureC} °C.{" "}
+          Saved: {megohms(last.megohms, last.megohmsQualifier)} at {last.equipmentTempC} °C is{" "}
+          <strong>{megohms(last.judgement.correctedMegohms, last.megohmsQualifier)}</strong> corrected to {last.judgement.baseTemperatureC} °C.{" "}
           <VerdictBadge verdict={last.judgement.verdict} />
+          {last.judgement.notes.filter((n) => /Tested at/.test(n)).map((n) => <span key={n} className="mt-1 block text-sm">{n}</span>)}
         </p>
       )}
     </div>

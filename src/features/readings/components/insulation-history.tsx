@@ -5,6 +5,13 @@ import { SourceDetails } from "./source-details";
 import { VerdictBadge } from "./verdict-badge";
 import { ReadingDefects } from "./reading-defects";
 
+const BOUND_WORDS = { exact: "", at_least: "at least ", at_most: "at most ", not_computable: "" } as const;
+/** " · PI at least 2.1", " · PI not computable", or nothing. */
+function ratioWords(label: string, value: number | null, bound: keyof typeof BOUND_WORDS | null) {
+  if (bound === "not_computable") return ` · ${label} not computable`;
+  return value == null ? "" : ` · ${label} ${BOUND_WORDS[bound ?? "exact"]}${sig(value)}`;
+}
+
 /** Newest first; as a list of cards so it reads on a phone as well as a desk. */
 export function InsulationHistory({ readings, showTarget = true, limit = 10 }: { readings: InsulationReading[]; showTarget?: boolean; limit?: number }) {
   const [all, setAll] = useState(false);
@@ -26,14 +33,16 @@ export function InsulationHistory({ readings, showTarget = true, limit = 10 }: {
               <span className="text-sm text-mist">{when(r.measuredAt)}</span>
             </div>
             <p className="mt-1 font-mono">
-              {megohms(r.megohms)} at {sig(r.equipmentTempC)} °C, {r.testVoltsDc} V DC
+              {megohms(r.megohms, r.megohmsQualifier)} at {sig(r.equipmentTempC)} °C, {r.testVoltsDc} V DC
               {" → "}
-              <strong className="text-chalk" data-testid="corrected">{j.correctedMegohms == null ? "not corrected" : `${megohms(j.correctedMegohms)} at ${j.baseTemperatureC} °C`}</strong>
+              <strong className="text-chalk" data-testid="corrected">{j.correctedMegohms == null ? "not corrected" : `${megohms(j.correctedMegohms, j.qualifier)} at ${j.baseTemperatureC} °C`}</strong>
             </p>
             <p className="text-sm text-mist">
               Minimum {megohms(j.minimum.megohms)}
-              {j.pi != null && ` · PI ${sig(j.pi)} (minimum ${j.minimumPi})`}
-              {j.dar != null && ` · DAR ${sig(j.dar)}`}
+              {ratioWords("PI", j.pi, j.piBound)}{j.pi != null && j.piBound !== "not_computable" && ` (minimum ${j.minimumPi})`}
+              {ratioWords("DAR", j.dar, j.darBound)}
+              {j.dewPointC != null && ` · dew point ${sig(j.dewPointC)} °C`}
+              {j.testVoltageOver && ` · above the suggested ${j.suggestedTestVoltsDc} V DC`}
             </p>
             <div className="mt-1"><VerdictBadge verdict={j.verdict} /></div>
             <ul className="mt-1 text-sm">{[...j.reasons, ...j.notes].map((x) => <li key={x}>{x}</li>)}</ul>
@@ -42,6 +51,7 @@ export function InsulationHistory({ readings, showTarget = true, limit = 10 }: {
               ...(j.correction ? [{ title: "Temperature correction", source: j.correction }] : []),
               { title: "Minimum", source: j.minimum.source },
               ...(j.pi != null ? [{ title: "Polarization index", source: j.piSource }] : []),
+              ...(j.dewPointC != null || !j.validForJudging ? [{ title: "Valid for judging", source: j.validitySource }] : []),
             ]} />
             {r.recordedBy && <p className="text-xs text-fog">Recorded by {r.recordedBy}{r.instrument && ` · ${r.instrument}`}</p>}
           </li>
