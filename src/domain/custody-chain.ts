@@ -39,10 +39,10 @@ export interface CustodyFacts {
   latestInsulation: InsulationState | null;
   latestMechanism: Mechanism | null;
   /** Verdict of the newest insulation reading of this component, null when none. */
-  latestReading: "meets" | "below_minimum" | "investigate" | null;
+  latestReading: "meets" | "below_minimum" | "investigate" | "not_valid" | null;
 }
 
-export type CustodyRule = "same_state" | "off_chain" | "tag_required" | "disposition_undecided" | "not_ready" | "condition_unproven" | "reading_required" | "reading_failing";
+export type CustodyRule = "same_state" | "off_chain" | "tag_required" | "disposition_undecided" | "not_ready" | "condition_unproven" | "reading_required" | "reading_failing" | "reading_not_valid";
 
 export interface CustodyRefusal {
   rule: CustodyRule;
@@ -79,6 +79,7 @@ export function checkCustodyMove(f: CustodyFacts, to: Custody): CustodyRefusal[]
     if (bad.length) refuse("condition_unproven", 422, `Its latest inspection still shows ${bad.join(" and ")}: inspect it again after the work.`);
     if (READING_REQUIRED_KINDS.has(f.kind)) {
       if (f.latestReading === null) refuse("reading_required", 422, "This kind needs an insulation-resistance reading meeting its criterion before it is refitted.");
+      else if (f.latestReading === "not_valid") refuse("reading_not_valid", 422, "Its latest insulation-resistance reading was taken at or near the dew point (or below freezing) and is not valid for judging: re-test in dry conditions.");
       else if (f.latestReading !== "meets") refuse("reading_failing", 422, "Its latest insulation-resistance reading does not meet the recorded criterion: re-test after drying or repair.");
     }
   }

@@ -27,6 +27,7 @@ describe("checkCustodyMove", () => {
     ["refit when the last inspection shows a seized mechanism", f({ latestMechanism: "seized" }), "refitted", ["condition_unproven"]],
     ["a breaker without any insulation reading (NETA MTS §7.6, from memory)", f({ latestReading: null }), "refitted", ["reading_required"]],
     ["a breaker whose latest reading is below the minimum", f({ latestReading: "below_minimum" }), "refitted", ["reading_failing"]],
+    ["a breaker whose latest reading was taken near the dew point (not valid for judging, issue 13)", f({ latestReading: "not_valid" }), "refitted", ["reading_not_valid"]],
     ["a bus section needs a reading too (NETA MTS §7.1, from memory)", f({ kind: "busbar", latestReading: null }), "refitted", ["reading_required"]],
     ["a meter needs no reading (common practice: inspected, not megger-tested)", f({ kind: "meter", latestReading: null }), "refitted", []],
     ["a ground lamp needs no reading", f({ kind: "ground_lamp", latestReading: "below_minimum" }), "refitted", []],
