@@ -13,6 +13,7 @@ import { randomUUID } from "node:crypto";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createApp } from "../../server/app";
 import { rolesFor, type RtsAction } from "../../src/domain/return-to-service";
+import { REPORT_ROLES } from "../../src/schemas/reports";
 import type { Role } from "../../src/domain/vocab";
 import { createTestDb, type TestDb } from "../helpers/db";
 import { makeCrew } from "../helpers/fixtures";
@@ -27,6 +28,8 @@ const PHOTO_UP = ["curator", "photographer", "volunteer"] as const;
 const FILING = ["curator", "photographer"] as const;
 const PARTS = ["curator", "scrounger"] as const;
 /** Return to service declares its own permission table (src/domain/return-to-service.ts); the matrix checks the routes follow it. */
+/** [] in REPORT_ROLES means every member. */
+const report = (action: keyof typeof REPORT_ROLES): Access => (REPORT_ROLES[action].length === 0 ? "member" : REPORT_ROLES[action]);
 const rts = (action: RtsAction) => rolesFor(action).filter((r) => r !== "admin") as Role[];
 
 /** Who may call each route (an instance admin counts as every role on every site). */
@@ -167,6 +170,16 @@ export const ACCESS: Record<string, Access> = {
   "POST /api/sites/:siteId/return-to-service/signoffs/:signoffId/supersede": rts("sign"),
   "POST /api/sites/:siteId/components/:componentId/breaker-operations": rts("record_operation"),
   "PUT /api/sites/:siteId/components/:componentId/operations-budget": rts("set_budget"),
+  "GET /api/sites/:siteId/boards/:boardId/step-voltage-tests": "member",
+  "POST /api/sites/:siteId/boards/:boardId/step-voltage-tests": FIELD,
+  "GET /api/sites/:siteId/boards/:boardId/ground-hunts": "member",
+  "POST /api/sites/:siteId/boards/:boardId/ground-hunts": FIELD,
+  "GET /api/sites/:siteId/components/:componentId/trip-tests": "member",
+  "POST /api/sites/:siteId/components/:componentId/trip-tests": FIELD,
+  "GET /api/sites/:siteId/reports/survey.pdf": report("report"),
+  "GET /api/sites/:siteId/labels.pdf": report("labels"),
+  "POST /api/sites/:siteId/tags/assign": report("assignTags"),
+  "GET /api/tags/:tag": "user",
 };
 
 const ROLES_ON_SITE = ["curator", "volunteer", "photographer", "scrounger", "viewer"] as const;
