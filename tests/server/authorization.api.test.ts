@@ -180,6 +180,11 @@ export const ACCESS: Record<string, Access> = {
   "GET /api/sites/:siteId/labels.pdf": report("labels"),
   "POST /api/sites/:siteId/tags/assign": report("assignTags"),
   "GET /api/tags/:tag": "user",
+  "GET /api/sites/:siteId/components/:componentId/custody-options": FIELD,
+  "GET /api/sites/:siteId/tags/next": FIELD,
+  "GET /api/sites/:siteId/defects/:defectId/evidence": "member",
+  "POST /api/sites/:siteId/defects/:defectId/readings": FIELD,
+  "GET /api/sites/:siteId/boards/:boardId/reading-defects": "member",
 };
 
 const ROLES_ON_SITE = ["curator", "volunteer", "photographer", "scrounger", "viewer"] as const;
