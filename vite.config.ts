@@ -33,7 +33,7 @@ export default defineConfig({
   },
   test: {
     include: ["tests/**/*.test.ts"],
-    // The fault tests have their own part (`npm test -- faults`, vitest.faults.config.ts).
+    // The fault tests have their own part (`npm test -- faults`, tests/faults/vitest.config.ts).
     exclude: [...configDefaults.exclude, "tests/faults/**"],
     globalSetup: ["tests/setup/global-setup.ts"],
     testTimeout: 20000,

@@ -47,8 +47,8 @@ try {
   if (wants("unit")) vitest("vitest: domain and API tests", "vitest.json", []);
 
   // Database connections dropped, the database stopped under writes, readers that never read
-  // (tests/faults, vitest.faults.config.ts): a few minutes, one file at a time.
-  if (wants("faults")) vitest("vitest: fault tests", "vitest-faults.json", ["--config", "vitest.faults.config.ts"]);
+  // (tests/faults, tests/faults/vitest.config.ts): a few minutes, one file at a time.
+  if (wants("faults")) vitest("vitest: fault tests", "vitest-faults.json", ["--config", "tests/faults/vitest.config.ts"]);
 
   if (wants("e2e")) {
     const out = join(reports, "playwright.json");

@@ -1,3 +1,4 @@
+import { fileURLToPath } from "node:url";
 import { defineConfig } from "vitest/config";
 
 // `npm test -- faults`: the fault tests (database connections dropped, the database stopped
@@ -5,6 +6,8 @@ import { defineConfig } from "vitest/config";
 // `unit`; `npm test` (and CI) runs both. One file at a time: they stop servers and
 // terminate backends, and timings are only meaningful without the other files' load.
 export default defineConfig({
+  // Kept under tests/ (the agreed top level); paths below stay relative to the project root.
+  root: fileURLToPath(new URL("../..", import.meta.url)),
   test: {
     include: ["tests/faults/**/*.test.ts"],
     globalSetup: ["tests/setup/global-setup.ts"],
