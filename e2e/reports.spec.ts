@@ -130,6 +130,9 @@ test("a volunteer prints thermal labels for one section and gets a PDF", async (
   await signIn(page, "volunteer");
   await openReports(page);
   const labels = page.getByRole("form", { name: "Tag labels" });
+  // other tests add boards to the demo site, so choose the demo's main board by name
+  const board = labels.getByLabel("Board", { exact: true });
+  await board.selectOption((await board.locator("option", { hasText: "Main switchboard" }).getAttribute("value"))!);
   await labels.getByLabel("Print labels for").selectOption("section");
   await labels.getByLabel("Label stock").selectOption("thermal-50x25");
   await labels.getByRole("button", { name: /Make \d+ labels?/ }).click();

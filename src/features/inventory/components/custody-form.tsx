@@ -1,4 +1,4 @@
-import { useEffect, useState, type FormEvent } from "react";
+import { useState, type FormEvent } from "react";
 import { Button } from "../../../components/button";
 import { TextField } from "../../../components/field";
 import { CUSTODY_LABELS, type Custody } from "../../../domain/vocab";
@@ -20,15 +20,16 @@ const LABELS = { custody: "Where it is", custodyLocation: "Location", tagNumber:
 export function CustodyForm({ siteId, component, canRelease, onSaved }: { siteId: string; component: Held; canRelease: boolean; onSaved: (move: CustodyMove) => void }) {
   const [base, setBase] = useState<Held>(component);
   const options = useCustodyOptions(siteId, base.id);
-  const [to, setTo] = useState<Custody | null>(null);
-  const [picked, setPicked] = useState(false);
+  // The person's own pick, else the server's proposal: derived on each render, so a refetch of
+  // the options after a save can never leave the form with no move chosen.
+  const [picked, setPicked] = useState<Custody | null>(null);
+  const to: Custody | null = picked ?? options.data?.proposed ?? null;
   const [location, setLocation] = useState("");
   const [tag, setTag] = useState("");
   const [note, setNote] = useState("");
   const [release, setRelease] = useState("");
   const [tagError, setTagError] = useState<string | null>(null);
   const move = useMoveCustody(siteId);
-  useEffect(() => { if (!picked && options.data) setTo(options.data.proposed); }, [options.data, picked]);
 
   const err = move.error instanceof ApiError ? move.error : null;
   const conflict = err?.status === 409 && err.code === "conflict" && err.current ? (err.current as Held) : null;
@@ -43,12 +44,12 @@ export function CustodyForm({ siteId, component, canRelease, onSaved }: { siteId
     move.mutate(
       { componentId: base.id, toState: to, location: location.trim(), note: note.trim(), version,
         ...(needsTag && tag.trim() ? { tagNumber: tag.trim() } : {}), ...(refusals.length && release.trim() ? { releaseReason: release.trim() } : {}) },
-      { onSuccess: (r) => { setBase(r.component); setPicked(false); setTo(null); setLocation(""); setNote(""); setTag(""); setRelease(""); onSaved(r.move); } },
+      { onSuccess: (r) => { setBase(r.component); setPicked(null); setLocation(""); setNote(""); setTag(""); setRelease(""); onSaved(r.move); } },
     );
   }
   const submit = (e: FormEvent) => { e.preventDefault(); save(base.version); };
   const generate = () => { setTagError(null); fetchNextTag(siteId).then((r) => setTag(r.tagNumber), () => setTagError("No tag could be generated: type one.")); };
-  const choose = (c: Custody) => { setPicked(true); setTo(c); move.reset(); };
+  const choose = (c: Custody) => { setPicked(c); move.reset(); };
   const moves = options.data?.moves ?? [];
   const ordered = [...moves].sort((a, b) => (a.to === options.data?.proposed ? -1 : b.to === options.data?.proposed ? 1 : a.refusals.length - b.refusals.length));
   return (
@@ -91,11 +92,11 @@ export function CustodyForm({ siteId, component, canRelease, onSaved }: { siteId
       <TextField label="Note (optional)" value={note} onChange={(e) => setNote(e.target.value)} error={err?.fields.note} />
       {conflict && (
         <ConflictNotice base={base} current={conflict} labels={LABELS} busy={move.isPending}
-          onUseTheirs={() => { setBase(conflict); setPicked(false); move.reset(); }}
+          onUseTheirs={() => { setBase(conflict); setPicked(null); move.reset(); }}
           onApplyMine={() => { setBase(conflict); save(conflict.version); }} />
       )}
       {err && !conflict && <p role="alert" className="text-sm text-flare-300">{err.message}</p>}
-      <Button type="submit" className="w-full min-h-14 text-lg" disabled={move.isPending || !to || blocked}>
+      <Button type="submit" className="w-full min-h-14 text-lg" disabled={move.isPending || options.isFetching || !to || blocked}>
         {move.isPending ? "Saving…" : to ? `Save move: ${CUSTODY_LABELS[to]}${refusals.length && !blocked ? " (released)" : ""}` : "Choose where it went"}
       </Button>
     </form>

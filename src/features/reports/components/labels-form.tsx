@@ -39,7 +39,8 @@ export function LabelsForm({ siteId, boards, boardId, onBoardChange, sections, p
   const thermal = perSheet === 1;
   const tagged = positions.filter((p) => p.tagNumber);
   const untagged = positions.filter((p) => p.hasComponent && !p.tagNumber);
-  const secId = sectionId || sections[0]?.id || "";
+  // Default to the first section that has anything to print, not simply the first section.
+  const secId = sectionId || (sections.find((s) => tagged.some((p) => p.sectionId === s.id)) ?? sections[0])?.id || "";
   const count =
     which === "board" ? tagged.length
     : which === "section" ? tagged.filter((p) => p.sectionId === secId).length
