@@ -25,7 +25,7 @@ async function makeBoard(siteId: string) {
   const section = await db.insertInto("sections").values({ siteId, boardId: board.id, name: "Power distribution" }).returning("id").executeTakeFirstOrThrow();
   const other = await db.insertInto("sections").values({ siteId, boardId: board.id, name: "Lighting" }).returning("id").executeTakeFirstOrThrow();
   const mk = async (designation: string, circuit: string, sec: string, year: number) => {
-    const p = await db.insertInto("positions").values({ siteId, boardId: board.id, sectionId: sec, designation, kind: "molded_case_breaker", gridRow: 1, gridCol: 1, circuit }).returning("id").executeTakeFirstOrThrow();
+    const p = await db.insertInto("positions").values({ siteId, boardId: board.id, sectionId: sec, designation, kind: "molded_case_breaker", gridRow: 1, gridCol: Object.keys(pos).length + 1, circuit }).returning("id").executeTakeFirstOrThrow();
     pos[designation] = p.id;
     comp[designation] = (await db.insertInto("components").values({ siteId, positionId: p.id, kind: "molded_case_breaker", poles: 3, voltageRating: 500, year }).returning("id").executeTakeFirstOrThrow()).id;
   };
