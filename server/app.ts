@@ -23,6 +23,7 @@ import { notificationRoutes } from "./notifications/routes";
 import { passwordResetRoutes } from "./password-reset/routes";
 import { defectRoutes } from "./defects/routes";
 import { partsRoutes } from "./parts/routes";
+import type { Jobs } from "./jobs";
 
 export interface AppDeps {
   db: Db;
@@ -38,6 +39,8 @@ export interface AppDeps {
   publicUrl?: string;
   /** Where photo files go; default from env (PHOTO_STORAGE, local disk under .data/photos). */
   photoStorage?: PhotoStorage;
+  /** The background job queue (server/jobs): e-mail goes through its outbox, photo renditions through its worker. */
+  jobs?: Jobs;
 }
 
 export function createApp(deps: AppDeps) {
@@ -47,7 +50,7 @@ export function createApp(deps: AppDeps) {
   if (deps.trustProxy) app.set("trust proxy", 1);
   const lucia = createLucia(db);
   const photoStorage = deps.photoStorage ?? storageFromEnv();
-  const mail = { db, mailer: deps.mailer ?? unconfiguredMailer(), publicUrl: (deps.publicUrl ?? "http://127.0.0.1:3000").replace(/\/+$/, "") };
+  const mail = { db, mailer: deps.mailer ?? unconfiguredMailer(), publicUrl: (deps.publicUrl ?? "http://127.0.0.1:3000").replace(/\/+$/, ""), jobs: deps.jobs };
 
   const api = Router();
   api.get("/health", async (_req, res) => {

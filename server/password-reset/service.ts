@@ -4,6 +4,7 @@ import type { Db } from "../db";
 import { AppError } from "../errors";
 import { compose } from "../mail/compose";
 import type { MailDeps } from "../mail/mailer";
+import { queueMail } from "../mail/outbox";
 import { hashToken, newToken } from "../one-time-token";
 import * as repo from "./repository";
 
@@ -26,7 +27,7 @@ export async function sendResetLink(deps: MailDeps, email: string) {
     return { sent: false as const, reason: "too_many" };
   }
   const { token, hash } = newToken();
-  await repo.insertReset(deps.db, { userId: user.id, tokenHash: hash, expiresAt: new Date(Date.now() + RESET_MINUTES * 60_000) });
+  const reset = { userId: user.id, tokenHash: hash, expiresAt: new Date(Date.now() + RESET_MINUTES * 60_000) };
   const msg = compose({
     subject: "Set a new Tideline password",
     greeting: `Hello ${user.name},`,
@@ -37,6 +38,16 @@ export async function sendResetLink(deps: MailDeps, email: string) {
     action: { label: "Set a new password", url: resetUrl(deps.publicUrl, token) },
     footer: ["If you did not ask for this, ignore this e-mail: your password stays as it is."],
   });
+  const jobs = deps.jobs;
+  if (jobs) {
+    // The link and its e-mail commit together; the outbox job delivers and retries.
+    await deps.db.transaction().execute(async (trx) => {
+      await repo.insertReset(trx, reset);
+      await queueMail(trx, jobs, { to: user.email, ...msg });
+    });
+    return { sent: true as const, reason: undefined };
+  }
+  await repo.insertReset(deps.db, reset);
   const r = await deps.mailer.send({ to: user.email, ...msg });
   return { sent: r.ok, reason: r.ok ? undefined : r.error };
 }

@@ -1,0 +1,43 @@
+/**
+ * Every background job and schedule Tideline has, in one place. Each process (web,
+ * worker or both) calls startJobs(); a web-only instance defines the same queues but
+ * runs no handler. To add a job: define it here (or in a `defineXJobs(jobs, deps)` of
+ * your domain called from here), then `jobs.enqueue(name, data, { trx })` from a service.
+ */
+import type { Db } from "../db";
+import type { Mailer } from "../mail/mailer";
+import { defineMailJobs } from "../mail/outbox";
+import { sendWeeklySummaries } from "../notifications/weekly";
+import type { PhotoStorage } from "../photos/storage";
+import { createJobs, type Jobs, type JobsConfig } from "./index";
+
+export interface JobDeps {
+  db: Db;
+  mailer: Mailer;
+  publicUrl: string;
+  photoStorage: PhotoStorage;
+}
+
+export const WEEKLY_SUMMARY_JOB = "notifications.weekly-summary";
+
+/** Mondays 07:00 in TIDELINE_TZ (default UTC); WEEKLY_SUMMARY_CRON=off when an outside scheduler runs `npm run mail:weekly`. */
+export const weeklyCron = (env = process.env) => env.WEEKLY_SUMMARY_CRON ?? "0 7 * * 1";
+
+export function defineAppJobs(jobs: Jobs, deps: JobDeps, env = process.env) {
+  defineMailJobs(jobs, deps);
+  jobs.define(WEEKLY_SUMMARY_JOB, async (_data, ctx) => {
+    const r = await sendWeeklySummaries({ ...deps, jobs });
+    ctx.log.info(r, "weekly summary queued");
+  }, { retryLimit: 2, retryDelay: 300 });
+  const cron = weeklyCron(env);
+  if (cron === "off") jobs.never(WEEKLY_SUMMARY_JOB);
+  else jobs.every(WEEKLY_SUMMARY_JOB, cron, {}, env.TIDELINE_TZ ?? "UTC");
+}
+
+/** Creates, defines and starts the queue of this process. */
+export async function startJobs(deps: JobDeps, opts: Omit<JobsConfig, "db">): Promise<Jobs> {
+  const jobs = createJobs({ db: deps.db, ...opts });
+  defineAppJobs(jobs, deps);
+  await jobs.start();
+  return jobs;
+}
