@@ -43,6 +43,10 @@ export interface AppDeps {
   jobs?: Jobs;
 }
 
+/** The app without a job queue cannot make photo renditions; say so instead of failing obscurely. */
+const missingJobs = () =>
+  ({ enqueue: async () => { throw new AppError(503, "no_job_queue", "Background jobs are not running on this server."); } }) as unknown as Jobs;
+
 export function createApp(deps: AppDeps) {
   const { db } = deps;
   const app = express();
@@ -67,7 +71,7 @@ export function createApp(deps: AppDeps) {
   api.use(sessionMiddleware(lucia));
   api.use(authRoutes(db, lucia));
   api.use(siteRoutes(db));
-  api.use(photoRoutes(db, photoStorage));
+  api.use(photoRoutes(db, photoStorage, deps.jobs ?? missingJobs()));
   api.use(readingRoutes(db));
   api.use(inventoryRoutes(db));
   api.use(invitationRoutes(mail, lucia));

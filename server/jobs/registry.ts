@@ -8,6 +8,7 @@ import type { Db } from "../db";
 import type { Mailer } from "../mail/mailer";
 import { defineMailJobs } from "../mail/outbox";
 import { sendWeeklySummaries } from "../notifications/weekly";
+import { definePhotoJobs } from "../photos/service";
 import type { PhotoStorage } from "../photos/storage";
 import { createJobs, type Jobs, type JobsConfig } from "./index";
 
@@ -25,6 +26,7 @@ export const weeklyCron = (env = process.env) => env.WEEKLY_SUMMARY_CRON ?? "0 7
 
 export function defineAppJobs(jobs: Jobs, deps: JobDeps, env = process.env) {
   defineMailJobs(jobs, deps);
+  definePhotoJobs(jobs, deps);
   jobs.define(WEEKLY_SUMMARY_JOB, async (_data, ctx) => {
     const r = await sendWeeklySummaries({ ...deps, jobs });
     ctx.log.info(r, "weekly summary queued");
