@@ -1,4 +1,4 @@
-import { defineConfig } from "vitest/config";
+import { configDefaults, defineConfig } from "vitest/config";
 import react from "@vitejs/plugin-react";
 
 // One config for the client build and for vitest. The API runs separately (server/);
@@ -14,6 +14,8 @@ export default defineConfig({
   },
   test: {
     include: ["tests/**/*.test.ts"],
+    // The fault tests have their own part (`npm test -- faults`, vitest.faults.config.ts).
+    exclude: [...configDefaults.exclude, "tests/faults/**"],
     globalSetup: ["tests/setup/global-setup.ts"],
     testTimeout: 20000,
     hookTimeout: 60000,

@@ -58,7 +58,7 @@ test("the register moves between rows with the arrow keys", async ({ page }) => 
   await expect(page.getByText("1 selected")).toBeVisible();
 });
 
-test("the curator pins a defect with a reason and the pin shows with its reason", async ({ page }) => {
+test("the curator places a defect after another with a reason and the order shows with its reason", async ({ page }) => {
   await signIn(page, "curator");
   await openRegister(page);
   const all = await refs(page);
@@ -66,18 +66,18 @@ test("the curator pins a defect with a reason and the pin shows with its reason"
   await page.locator("tbody a[data-row-link]").nth(12).click();
   await expect(page.getByRole("heading", { name: "Why it ranks here" })).toBeVisible();
   const reason = `Same enclosure is open (${Date.now()})`;
-  await page.getByLabel("Pin it").selectOption("below");
+  await page.getByLabel("Do it").selectOption("below");
   await page.getByLabel("defect", { exact: true }).fill(target);
   await page.getByLabel("because").fill(reason);
-  await page.getByRole("button", { name: "Pin", exact: true }).click();
+  await page.getByRole("button", { name: "Set the order", exact: true }).click();
   await expect(page.getByText(`Reason: ${reason}`)).toBeVisible();
-  await expect(page.getByText(new RegExp(`Pinned below ${target} by Ines Marrow`))).toBeVisible();
+  await expect(page.getByText(new RegExp(`Placed after ${target} by Ines Marrow`))).toBeVisible();
   await expectNoSeriousA11yViolations(page, "defect page");
-  await page.getByRole("button", { name: "Lift the pin" }).click();
+  await page.getByRole("button", { name: "Back to its score's place" }).click();
   await expect(page.getByText("(lifted)").first()).toBeVisible();
 });
 
-test("a volunteer raises a prefilled defect, sees no pin form, and cannot use bulk actions", async ({ page }) => {
+test("a volunteer raises a prefilled defect, sees no curator's order form, and cannot use bulk actions", async ({ page }) => {
   await signIn(page, "volunteer");
   await page.waitForURL(/\/sites\/[^/]+/);
   const siteUrl = page.url().match(/\/sites\/[^/]+/)![0];
@@ -98,7 +98,7 @@ test("a volunteer raises a prefilled defect, sees no pin form, and cannot use bu
   await page.getByRole("button", { name: "Save" }).click();
   await expect(page.getByRole("row", { name: /Effort 1 h/ })).toContainText("-8");
   await expect(page.getByLabel("because")).toHaveCount(0);
-  await expect(page.getByRole("button", { name: "Pin", exact: true })).toHaveCount(0);
+  await expect(page.getByRole("button", { name: "Set the order", exact: true })).toHaveCount(0);
   await page.goto(`${siteUrl}/defects`);
   await expect(page.getByRole("status").filter({ hasText: /Showing/ })).toBeVisible();
   await page.locator("tbody input[type=checkbox]").first().check();

@@ -203,7 +203,7 @@ test("the CSV import shows row-by-row errors before anything is written; the flo
   expect(await csv.text()).toContain("designation");
 
   await page.goto(`${siteUrl}/flood`);
-  await expect(page.getByRole("heading", { level: 1, name: "The flood" })).toBeVisible();
+  await expect(page.getByRole("heading", { level: 1, name: "Flood record" })).toBeVisible();
   await expect(page.getByLabel("Water", { exact: true }).first()).toBeVisible();
   await expectNoSeriousA11yViolations(page, "flood event page");
 });

@@ -2,11 +2,11 @@ import "./types";
 import { existsSync } from "node:fs";
 import { join } from "node:path";
 import express, { Router } from "express";
-import { sql } from "kysely";
 import { createLucia } from "./auth/lucia";
 import { authRoutes } from "./auth/routes";
 import type { Db } from "./db";
 import { AppError } from "./errors";
+import { databaseState } from "./health";
 import { errorHandler } from "./middleware/error-handler";
 import { originCheck } from "./middleware/origin";
 import { sessionMiddleware } from "./middleware/session";
@@ -58,12 +58,8 @@ export function createApp(deps: AppDeps) {
 
   const api = Router();
   api.get("/health", async (_req, res) => {
-    try {
-      await sql`select 1`.execute(db);
-      res.json({ ok: true, db: "up" });
-    } catch {
-      res.status(503).json({ ok: false, db: "down" });
-    }
+    const { db: state } = await databaseState(db);
+    res.status(state === "up" ? 200 : 503).json({ ok: state === "up", db: state });
   });
   api.use("/sites/:siteId/inventory/import", express.json({ limit: "2mb" })); // a CSV file sent as JSON {csv}
   api.use(express.json({ limit: "1mb" }));

@@ -10,9 +10,72 @@ pg.types.setTypeParser(pg.types.builtins.DATE, (v) => v);
 
 export type Db = Kysely<Database>;
 
-export function createDb(connectionString: string, max = 10): Db {
-  const pool = new pg.Pool({ connectionString, max, connectionTimeoutMillis: 5000 });
-  // An idle client losing its connection must not crash the process; health reports it.
-  pool.on("error", (err) => console.error("[db] idle client error:", err.message));
+export interface DbOptions {
+  /** Connections in the pool (DATABASE_POOL_MAX, default 10: PostgreSQL allows 100, and several processes share it). */
+  max?: number;
+  /** A statement running longer is cancelled by the server (57014 → 503). 0 = none (migrations, seeds, bench). */
+  statementTimeoutMs?: number;
+  /** A connection left idle inside a transaction this long is closed by the server (a leaked transaction; photo uploads write files inside one, hence a minute). */
+  idleInTransactionMs?: number;
+  /** Waiting for a free connection, or for a new one to open, fails after this (→ 503 database busy/down). */
+  connectionTimeoutMs?: number;
+}
+
+const envInt = (name: string, fallback: number) => {
+  const v = Number(process.env[name]);
+  return Number.isFinite(v) && v >= 0 && process.env[name] !== "" && process.env[name] !== undefined ? v : fallback;
+};
+
+/** The settings the app serves with; tools that run long statements pass their own. */
+export const APP_DB_OPTIONS: Required<DbOptions> = {
+  max: envInt("DATABASE_POOL_MAX", 10),
+  statementTimeoutMs: envInt("DATABASE_STATEMENT_TIMEOUT_MS", 30_000),
+  idleInTransactionMs: envInt("DATABASE_IDLE_IN_TRANSACTION_MS", 60_000),
+  connectionTimeoutMs: envInt("DATABASE_CONNECT_TIMEOUT_MS", 5_000),
+};
+
+/** For migrations, seeds, the benchmark and backups: no statement or idle-in-transaction limit. */
+export const MAINTENANCE_DB_OPTIONS: DbOptions = { max: 2, statementTimeoutMs: 0, idleInTransactionMs: 0, connectionTimeoutMs: 30_000 };
+
+/**
+ * A Kysely over a pg Pool that survives losing the database: every client the pool
+ * opens gets an 'error' listener for its whole life, so a backend terminated while the
+ * client is checked out (pg_terminate_backend, `pg_ctl stop -m fast`, a killed
+ * postmaster) fails the query that was using it instead of raising an unhandled 'error'
+ * that ends the process. pg marks such a client not queryable and the pool discards it on
+ * release; new clients are opened when the database is back.
+ */
+export function createDb(connectionString: string, options: number | DbOptions = {}): Db {
+  const o = { ...APP_DB_OPTIONS, ...(typeof options === "number" ? { max: options } : options) };
+  const pool = new pg.Pool({
+    connectionString,
+    max: o.max,
+    connectionTimeoutMillis: o.connectionTimeoutMs,
+    idleTimeoutMillis: 30_000,
+    keepAlive: true,
+    application_name: "tideline",
+    ...(o.statementTimeoutMs ? { statement_timeout: o.statementTimeoutMs } : {}),
+    ...(o.idleInTransactionMs ? { idle_in_transaction_session_timeout: o.idleInTransactionMs } : {}),
+  });
+  pool.on("connect", (client) => {
+    client.on("error", (err) => logConnectionLoss(err));
+  });
+  // The pool re-emits an idle client's error; the client's own listener above has logged it.
+  pool.on("error", () => {});
   return new Kysely<Database>({ dialect: new PostgresDialect({ pool }), plugins: [new CamelCasePlugin()] });
+}
+
+let lastLog = 0;
+let suppressed = 0;
+/** One line per second at most: a database restart drops every connection at once. */
+function logConnectionLoss(err: Error & { code?: string }) {
+  const now = Date.now();
+  if (now - lastLog < 1000) {
+    suppressed++;
+    return;
+  }
+  lastLog = now;
+  const more = suppressed ? ` (and ${suppressed} more)` : "";
+  suppressed = 0;
+  console.error(`[db] a database connection was lost: ${err.code ? `${err.code} ` : ""}${err.message}${more}`);
 }

@@ -13,7 +13,7 @@ const reports = join(projectRoot, ".data", "reports");
 rmSync(reports, { recursive: true, force: true });
 mkdirSync(reports, { recursive: true });
 const bin = (name: string) => join(projectRoot, "node_modules", ".bin", name);
-const only = process.argv.slice(2); // e.g. `npm test -- unit` or `-- e2e`
+const only = process.argv.slice(2); // e.g. `npm test -- unit`, `-- faults` or `-- e2e`
 const wants = (part: string) => only.length === 0 || only.includes(part);
 
 function step(title: string, cmd: string, args: string[], env: Record<string, string> = {}) {
@@ -31,9 +31,9 @@ let skipped = 0;
 try {
   if (wants("types")) typecheckOk = step("type check (tsc --noEmit)", bin("tsc"), ["--noEmit", "-p", "tsconfig.json"]);
 
-  if (wants("unit")) {
-    const out = join(reports, "vitest.json");
-    step("vitest: domain and API tests", bin("vitest"), ["run", "--reporter=default", "--reporter=json", `--outputFile.json=${out}`], { NO_COLOR: "1" });
+  const vitest = (title: string, report: string, args: string[]) => {
+    const out = join(reports, report);
+    step(title, bin("vitest"), ["run", ...args, "--reporter=default", "--reporter=json", `--outputFile.json=${out}`], { NO_COLOR: "1" });
     if (existsSync(out)) {
       const v = JSON.parse(readFileSync(out, "utf8"));
       passed += v.numPassedTests;
@@ -42,7 +42,13 @@ try {
       // A file that fails to load has no tests to count; count it as a failure.
       failed += v.testResults.filter((f: { status: string; assertionResults: unknown[] }) => f.status === "failed" && f.assertionResults.length === 0).length;
     } else failed += 1;
-  }
+  };
+
+  if (wants("unit")) vitest("vitest: domain and API tests", "vitest.json", []);
+
+  // Database connections dropped, the database stopped under writes, readers that never read
+  // (tests/faults, vitest.faults.config.ts): a few minutes, one file at a time.
+  if (wants("faults")) vitest("vitest: fault tests", "vitest-faults.json", ["--config", "vitest.faults.config.ts"]);
 
   if (wants("e2e")) {
     const out = join(reports, "playwright.json");

@@ -1,10 +1,10 @@
 // `npm run db:migrate`: brings the database (DATABASE_URL or the embedded one) up to date.
-import { createDb } from "../../server/db";
+import { createDb, MAINTENANCE_DB_OPTIONS } from "../../server/db";
 import { openLocalDatabase } from "../local";
 import { migrateToLatest } from "../migrate";
 
 const local = await openLocalDatabase("dev");
-const db = createDb(local.url);
+const db = createDb(local.url, MAINTENANCE_DB_OPTIONS);
 try {
   const applied = await migrateToLatest(db);
   console.log(applied.length ? `[tideline] applied: ${applied.join(", ")}` : "[tideline] database is up to date");

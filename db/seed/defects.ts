@@ -34,7 +34,7 @@ const PIN_REASONS = [
   "Wait for the bronze fixings; no point opening it twice.",
   "The surveyor asked to see this one before anything else is refitted.",
 ];
-const STATUS_PLAN: DefectStatus[] = ["open", "open", "triaged", "triaged", "in_repair", "awaiting_verification", "closed", "open", "deferred", "triaged", "wont_fix", "in_repair"];
+const STATUS_PLAN: DefectStatus[] = ["raised", "raised", "scheduled", "scheduled", "under_repair", "awaiting_retest", "closed", "raised", "deferred", "scheduled", "accepted_as_is", "under_repair"];
 
 export async function seedDefects(db: Db, ctx: SeedContext) {
   const { siteId } = ctx;
@@ -58,15 +58,15 @@ export async function seedDefects(db: Db, ctx: SeedContext) {
     const { score } = priorityScore({ severity: f.severity, safetyCritical: !!f.safety, blocksEnergisation: !!f.blocks, originalFabric: ins.heritage === "original", effortHours: f.effort, partsAvailable: partsState });
     const raisedBy = ins.inspectorId ?? volunteer;
     const createdAt = new Date((ins.inspectedAt as Date).getTime() + 3_600_000);
-    const assigneeId = status === "open" ? null : n % 3 === 0 ? curator : volunteer;
-    const repairedBy = status === "awaiting_verification" || status === "closed" ? (assigneeId === curator ? volunteer : assigneeId) : null;
+    const assigneeId = status === "raised" ? null : n % 3 === 0 ? curator : volunteer;
+    const repairedBy = status === "awaiting_retest" || status === "closed" ? (assigneeId === curator ? volunteer : assigneeId) : null;
     defects.push({
       siteId, boardId: ins.boardId, sectionId: ins.sectionId, positionId: ins.positionId, componentId: ins.componentId, inspectionId: ins.id,
       title: `${f.title} (${ins.designation})`, description: `Raised from the survey of position ${ins.designation}.`,
       category: f.category, severity: f.severity, safetyCritical: !!f.safety, blocksEnergisation: !!f.blocks,
       effortHours: f.effort, costEstimate: f.cost, partsNeeded: f.parts ?? "", partsState, assigneeId,
       dueOn: assigneeId ? `2026-12-${String(3 + (n % 25)).padStart(2, "0")}` : null, status,
-      statusReason: status === "deferred" ? "Wait for the board to finish drying out before touching it." : status === "wont_fix" ? "Cosmetic on a modern replacement part; leave as is." : "",
+      statusReason: status === "deferred" ? "Wait for the board to finish drying out before touching it." : status === "accepted_as_is" ? "Cosmetic on a modern replacement part; leave as is." : "",
       repairedBy, verifiedBy: status === "closed" ? curator : null,
       closedAt: status === "closed" ? new Date(createdAt.getTime() + 5 * 86_400_000) : null,
       createdBy: raisedBy, priorityScore: score, createdAt, updatedAt: createdAt,
@@ -76,13 +76,13 @@ export async function seedDefects(db: Db, ctx: SeedContext) {
   const inserted = await db.insertInto("defects").values(defects).returning(["id", "status", "createdBy", "createdAt", "boardId", "positionId"]).execute();
   const history = inserted.flatMap((d) => {
     const at = d.createdAt as Date;
-    const steps: DefectStatus[] = d.status === "open" ? ["open"] : d.status === "closed" ? ["open", "triaged", "in_repair", "awaiting_verification", "closed"] : ["open", d.status];
-    return steps.map((to, k) => ({ siteId, defectId: d.id, fromStatus: k ? steps[k - 1] : null, toStatus: to, actorId: to === "in_repair" || to === "awaiting_verification" ? volunteer : k ? curator : d.createdBy, at: new Date(at.getTime() + k * 86_400_000), reason: "" }));
+    const steps: DefectStatus[] = d.status === "raised" ? ["raised"] : d.status === "closed" ? ["raised", "scheduled", "under_repair", "awaiting_retest", "closed"] : ["raised", d.status];
+    return steps.map((to, k) => ({ siteId, defectId: d.id, fromStatus: k ? steps[k - 1] : null, toStatus: to, actorId: to === "under_repair" || to === "awaiting_retest" ? volunteer : k ? curator : d.createdBy, at: new Date(at.getTime() + k * 86_400_000), reason: "" }));
   });
   await db.insertInto("defectStatusChanges").values(history).execute();
   await db.insertInto("auditLog").values(inserted.map((d) => ({ siteId, entityType: "defect", entityId: d.id, boardId: d.boardId, positionId: d.positionId, action: "create", actorId: d.createdBy, at: d.createdAt }))).execute();
   // Three pins, each against an unpinned defect in its own place (pins do not chain).
-  const active = inserted.filter((d) => d.status !== "closed" && d.status !== "wont_fix");
+  const active = inserted.filter((d) => d.status !== "closed" && d.status !== "accepted_as_is");
   const pins = [[active[20], active[3], "above"], [active[9], active[1], "below"], [active[30], active[5], "above"]] as const;
   await db.insertInto("defectPins").values(pins.filter(([a, b]) => a && b).map(([a, b, direction], k) => ({ siteId, defectId: a.id, relativeTo: b.id, direction, reason: PIN_REASONS[k], pinnedBy: curator }))).execute();
 }

@@ -15,7 +15,7 @@ import { migrateToLatest } from "../../db/migrate";
 import { ensureDatabase } from "../../db/pg";
 import { createApp } from "../app";
 import { hashPassword } from "../auth/password";
-import { createDb, type Db } from "../db";
+import { createDb, MAINTENANCE_DB_OPTIONS, type Db } from "../db";
 import { listPage, registerQuery } from "../defects/list-query";
 import { priorityScore, type PartsAvailability } from "../../src/domain/priority";
 import { DEFECT_CATEGORIES, DEFECT_SEVERITIES, DEFECT_STATUSES } from "../../src/domain/vocab";
@@ -91,7 +91,7 @@ async function main() {
   const local = await openLocalDatabase("test", "postgres");
   const name = `tideline_bench_${randomBytes(4).toString("hex")}`;
   await ensureDatabase(local.adminUrl, name, { fresh: true });
-  const db = createDb(local.adminUrl.replace(/\/postgres$/, `/${name}`), 10);
+  const db = createDb(local.adminUrl.replace(/\/postgres$/, `/${name}`), { ...MAINTENANCE_DB_OPTIONS, max: 10 });
   try {
     await migrateToLatest(db);
     const fx = await seed(db);
@@ -103,7 +103,7 @@ async function main() {
     const cookie = signIn.headers.getSetCookie()[0].split(";")[0];
     const cases: Array<[string, string]> = [
       ["ranked (20 pins), first page", "sort=priority&dir=desc"],
-      ["open+triaged disabling, by due date", "status=open&status=triaged&severity=disabling&sort=dueOn&dir=asc"],
+      ["raised+scheduled disabling, by due date", "status=raised&status=scheduled&severity=disabling&sort=dueOn&dir=asc"],
       ["text search 'verdigris', ranked", "q=verdigris&sort=priority"],
       ["safety-critical, by effort", "flag=safety&sort=effortHours&dir=desc"],
       ["one assignee, by board, page 20", `assignee=${fx.assignee}&sort=board&page=20`],

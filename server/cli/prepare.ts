@@ -11,24 +11,26 @@ import { openLocalDatabase, type LocalDatabase } from "../../db/local";
 import { migrateToLatest } from "../../db/migrate";
 import { isEmpty, seedDemo } from "../../db/seed/demo";
 import { projectRoot } from "../../db/pg";
-import { createDb, type Db } from "../db";
+import { createDb, MAINTENANCE_DB_OPTIONS, type Db } from "../db";
 
 export async function prepareDatabase(mode: "dev" | "test", database?: string, opts: { seed?: boolean } = { seed: true }): Promise<{ local: LocalDatabase; db: Db }> {
   const local = await openLocalDatabase(mode, database);
-  const db = createDb(local.url);
+  // Migrations and the demo seed may run long statements: their own pool, without the app's timeouts.
+  const setup = createDb(local.url, MAINTENANCE_DB_OPTIONS);
   try {
-    const applied = await migrateToLatest(db);
+    const applied = await migrateToLatest(setup);
     if (applied.length) log(`migrations applied: ${applied.length}`);
-    if (opts.seed !== false && (await isEmpty(db))) {
+    if (opts.seed !== false && (await isEmpty(setup))) {
       log("empty database: loading the demo scenario (MV Kestrel Lantern, invented)…");
-      await seedDemo(db);
+      await seedDemo(setup);
     }
   } catch (e) {
-    await db.destroy();
+    await setup.destroy();
     local.stop();
     throw e;
   }
-  return { local, db };
+  await setup.destroy();
+  return { local, db: createDb(local.url) };
 }
 
 function sourceHash(): string {

@@ -1,10 +1,10 @@
 import type { Response } from "express";
-import { CompiledQuery, sql } from "kysely";
 import { BOM, csvLines, guardCell } from "../csv";
 import type { Db } from "../db";
 import { DEFECT_CATEGORY_LABELS, DEFECT_SEVERITY_LABELS, DEFECT_STATUS_LABELS } from "../../src/domain/vocab";
 import { PARTS_STATE_LABELS, type ListQuery } from "../../src/schemas/defects";
-import { registerQuery, type RegisterRow } from "./list-query";
+import { readPage, runExport } from "../export-stream";
+import { applyFilters, applySort, registerBase, ROW_COLUMNS, type RegisterRow } from "./list-query";
 
 const BATCH = 500;
 const HEADER = [
@@ -27,37 +27,25 @@ export function csvRecord(r: RegisterRow): Array<string | number> {
 
 /**
  * Streams the filtered register as RFC 4180 CSV (CRLF, quotes doubled; papaparse), UTF-8
- * with a BOM so spreadsheets pick the encoding. Rows come through a PostgreSQL cursor
- * (DECLARE … FETCH) BATCH at a time, so memory stays flat whatever the size; Kysely's
- * .stream() needs the pg-cursor package, which Tideline does not ship.
+ * with a BOM so spreadsheets pick the encoding. The export never holds a connection while
+ * the reader is slow: one short query fixes the order (the ids of every matching defect,
+ * sorted as the register sorts them), then each page of BATCH rows is its own short query
+ * and is written out, waiting for the socket to drain, with the connection back in the pool
+ * (server/export-stream.ts: write timeout, per-person cap). A defect changed between pages
+ * is written as it is now; one that stopped matching the filters is left out.
  */
 export async function streamCsv(db: Db, siteId: string, f: ListQuery, today: string, res: Response, filename: string) {
-  const compiled = registerQuery(db, siteId, f, today).compile();
+  const ids = (await applySort(applyFilters(registerBase(db, siteId), f, today), f.sort, f.dir).select("d.id").execute()).map((r) => r.id as string);
   res.setHeader("Content-Type", "text/csv; charset=utf-8");
   res.setHeader("Content-Disposition", `attachment; filename="${filename}"`);
-  let closed = false;
-  res.on("close", () => (closed = true));
-  // Back-pressure: wait for the socket to drain (or the client to leave) before the next batch.
-  const write = (chunk: string) =>
-    res.write(chunk) || closed
-      ? Promise.resolve()
-      : new Promise<void>((resolve) => {
-          const done = () => { res.off("drain", done); res.off("close", done); resolve(); };
-          res.on("drain", done);
-          res.on("close", done);
-        });
-  await db.transaction().setIsolationLevel("repeatable read").setAccessMode("read only").execute(async (trx) => {
-    // Plan the cursor for all its rows, not for the first tenth (cursor_tuple_fraction).
-    await sql`SET LOCAL cursor_tuple_fraction = 1.0`.execute(trx);
-    await trx.executeQuery(CompiledQuery.raw(`DECLARE defects_csv NO SCROLL CURSOR FOR ${compiled.sql}`, [...compiled.parameters]));
-    await write(BOM + csvLines([HEADER]));
-    while (!closed) {
-      const batch = await sql<RegisterRow>`FETCH ${sql.raw(String(BATCH))} FROM defects_csv`.execute(trx);
-      if (!batch.rows.length) break;
-      await write(csvLines(batch.rows.map(csvRecord)));
-      if (batch.rows.length < BATCH) break;
+  await runExport(res, async (out) => {
+    await out.write(BOM + csvLines([HEADER]));
+    for (let i = 0; i < ids.length; i += BATCH) {
+      const page = ids.slice(i, i + BATCH);
+      const rows = (await readPage(() => applyFilters(registerBase(db, siteId), f, today).select(ROW_COLUMNS as any).where("d.id", "in", page).execute())) as RegisterRow[];
+      const byId = new Map(rows.map((r) => [r.id, r]));
+      const ordered = page.map((id) => byId.get(id)).filter((r): r is RegisterRow => r !== undefined);
+      if (ordered.length) await out.write(csvLines(ordered.map(csvRecord)));
     }
-    await sql`CLOSE defects_csv`.execute(trx);
   });
-  res.end();
 }

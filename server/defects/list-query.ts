@@ -57,13 +57,13 @@ export function applyFilters<QB extends SelectQueryBuilder<any, any, any>>(qb: Q
     if (flag === "pinned") q = q.where("pin.id", "is not", null);
     if (flag === "unassigned") q = q.where("d.assigneeId", "is", null);
     if (flag === "overdue")
-      q = q.where("d.dueOn", "<", today).where("d.status", "not in", ["closed", "deferred", "wont_fix"]);
+      q = q.where("d.dueOn", "<", today).where("d.status", "not in", ["closed", "deferred", "accepted_as_is"]);
   }
   return q as QB;
 }
 
 const SEVERITY_ORDER = sql`array_position(ARRAY['cosmetic','degraded','impaired','disabling']::text[], d.severity)`;
-const STATUS_ORDER = sql`array_position(ARRAY['open','triaged','in_repair','awaiting_verification','closed','deferred','wont_fix']::text[], d.status)`;
+const STATUS_ORDER = sql`array_position(ARRAY['raised','scheduled','under_repair','awaiting_retest','closed','deferred','accepted_as_is']::text[], d.status)`;
 /**
  * The ranked order as ORDER BY keys (for "priority desc"), equal to rankDefects() of
  * src/domain/priority.ts for non-chained pins: a pinned defect takes its target's key

@@ -7,6 +7,7 @@ import {
 import type { Db } from "../db";
 import type { MailDeps } from "../mail/mailer";
 import { notifyDefectAssigned, notifyAwaitingVerification } from "../notifications/service";
+import { limitExports } from "../export-stream";
 import { requireSiteRole } from "../middleware/roles";
 import { streamCsv } from "./csv";
 import { listPage } from "./list-query";
@@ -57,7 +58,7 @@ export function defectRoutes(db: Db, mail?: MailDeps) {
     res.json({ rows: rows.map(toJson), total, page: f.page, size: f.size });
   });
 
-  r.get(`${base}.csv`, member, async (req, res) => {
+  r.get(`${base}.csv`, member, limitExports, async (req, res) => {
     const f = listQuery.parse(req.query);
     await streamCsv(db, ctxOf(req, res).siteId, f, todayOf(f), res, `defects-${todayOf(f)}.csv`);
   });

@@ -89,7 +89,7 @@ export async function createDefect(db: Db, ctx: Ctx, body: CreateDefectBody) {
     const values = { ...rest, ...links, siteId: ctx.siteId, createdBy: ctx.actor.id };
     const { score } = await scoreFor(trx, ctx.siteId, { ...values, effortHours: values.effortHours });
     const { id } = await repo.insertDefect(trx, { ...values, priorityScore: score });
-    await repo.insertStatusChange(trx, { siteId: ctx.siteId, defectId: id, fromStatus: null, toStatus: "open", actorId: ctx.actor.id });
+    await repo.insertStatusChange(trx, { siteId: ctx.siteId, defectId: id, fromStatus: null, toStatus: "raised", actorId: ctx.actor.id });
     await recordAudit(trx, { siteId: ctx.siteId, entityType: "defect", entityId: id, action: "create", actorId: ctx.actor.id, boardId: links.boardId, positionId: links.positionId, after: values });
     if (assigneeId) await assign(trx, ctx, await lockAt(trx, ctx, id), assigneeId);
     return (await current(trx, ctx.siteId, id))!;
@@ -154,7 +154,7 @@ export async function transition(trx: Db, ctx: Ctx, d: Locked, to: DefectStatus,
   if (!ok) throw conflict("Someone changed this defect at the same moment.", await current(trx, ctx.siteId, d.id));
   await repo.insertStatusChange(trx, { siteId: ctx.siteId, defectId: d.id, fromStatus: d.status, toStatus: to, reason, actorId: ctx.actor.id });
   await recordAudit(trx, { siteId: ctx.siteId, entityType: "defect", entityId: d.id, action: "status", actorId: ctx.actor.id, boardId: d.boardId, positionId: d.positionId, before: { status: d.status }, after: { status: to, reason, ...r.set } });
-  if (to === "awaiting_verification") ctx.notices?.push({ kind: "awaiting_verification", defectId: d.id });
+  if (to === "awaiting_retest") ctx.notices?.push({ kind: "awaiting_verification", defectId: d.id });
   return d.version + 1;
 }
 

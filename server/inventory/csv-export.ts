@@ -4,13 +4,13 @@
  * Streamed in keyset-paged batches: the pg driver here has no cursor package, so
  * Kysely's .stream() is not available; pages of 500 keep memory flat all the same.
  */
-import { once } from "node:events";
 import type { Response } from "express";
 import { sql } from "kysely";
 import Papa from "papaparse";
 import { CSV_EXPORT_EXTRA_COLUMNS, CSV_IMPORT_COLUMNS } from "../../src/schemas/inventory";
 import type { Db } from "../db";
 import { RISKY } from "../csv";
+import { readPage, runExport } from "../export-stream";
 
 const PAGE = 500;
 export const EXPORT_COLUMNS = [...CSV_IMPORT_COLUMNS, ...CSV_EXPORT_EXTRA_COLUMNS];
@@ -53,21 +53,19 @@ const cells = (r: ExportRow) => [
 
 const unparse = (rows: unknown[][]) => Papa.unparse(rows, { newline: "\r\n", escapeFormulae: RISKY }) + "\r\n";
 
-async function write(res: Response, chunk: string) {
-  if (!res.write(chunk)) await once(res, "drain");
-}
-
 export async function streamInventoryCsv(db: Db, siteId: string, fileName: string, res: Response) {
   res.setHeader("Content-Type", "text/csv; charset=utf-8");
   res.setHeader("Content-Disposition", `attachment; filename="${fileName}"`);
-  await write(res, "\uFEFF" + unparse([EXPORT_COLUMNS]));
-  let after: Key | null = null;
-  for (;;) {
-    const rows = await page(db, siteId, after);
-    if (rows.length) await write(res, unparse(rows.map(cells)));
-    if (rows.length < PAGE) break;
-    const last = rows[rows.length - 1];
-    after = { boardName: last.boardName, boardId: last.boardId, sortOrder: last.sortOrder, id: last.id };
-  }
-  res.end();
+  await runExport(res, async (out) => {
+    await out.write("\uFEFF" + unparse([EXPORT_COLUMNS]));
+    let after: Key | null = null;
+    for (;;) {
+      // Each page is its own short query: no connection is held while the socket drains.
+      const rows = await readPage(() => page(db, siteId, after));
+      if (rows.length) await out.write(unparse(rows.map(cells)));
+      if (rows.length < PAGE) break;
+      const last = rows[rows.length - 1];
+      after = { boardName: last.boardName, boardId: last.boardId, sortOrder: last.sortOrder, id: last.id };
+    }
+  });
 }

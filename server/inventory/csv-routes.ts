@@ -3,6 +3,7 @@ import express, { Router } from "express";
 import { importJsonBody, importQuery, siteParams } from "../../src/schemas/inventory";
 import type { Db } from "../db";
 import { AppError } from "../errors";
+import { limitExports } from "../export-stream";
 import { requireSiteRole } from "../middleware/roles";
 import { actorOf } from "./common";
 import { ImportInvalid, commitImport } from "./csv-commit";
@@ -17,7 +18,7 @@ const slug = (s: string) => s.toLowerCase().normalize("NFKD").replace(/[^a-z0-9]
 export function csvRoutes(db: Db) {
   const r = Router();
 
-  r.get("/sites/:siteId/inventory.csv", requireSiteRole(db), async (req, res) => {
+  r.get("/sites/:siteId/inventory.csv", requireSiteRole(db), limitExports, async (req, res) => {
     const { siteId } = siteParams.parse(req.params);
     const site = await db.selectFrom("sites").select("name").where("id", "=", siteId).executeTakeFirstOrThrow();
     const day = new Date().toISOString().slice(0, 10);

@@ -30,7 +30,7 @@ export const boardTiles = (db: Db, boardId: string) =>
     ])
     .select((eb) => [
       eb.selectFrom("photos as ph").whereRef("ph.positionId", "=", "p.id").where("ph.deletedAt", "is", null).select(eb.fn.countAll<number>().as("n")).as("photoCount"),
-      eb.selectFrom("defects as d").whereRef("d.positionId", "=", "p.id").where("d.status", "not in", ["closed", "wont_fix"]).select(eb.fn.countAll<number>().as("n")).as("openDefectCount"),
+      eb.selectFrom("defects as d").whereRef("d.positionId", "=", "p.id").where("d.status", "not in", ["closed", "accepted_as_is"]).select(eb.fn.countAll<number>().as("n")).as("openDefectCount"),
     ])
     .where("p.boardId", "=", boardId)
     .orderBy("p.gridRow")

@@ -50,5 +50,5 @@ export const historyOfPosition = (db: Db, positionId: string) =>
 export const positionCounts = (db: Db, positionId: string) =>
   db.selectNoFrom((eb) => [
     eb.selectFrom("photos").where("positionId", "=", positionId).where("deletedAt", "is", null).select(eb.fn.countAll<number>().as("n")).as("photoCount"),
-    eb.selectFrom("defects").where("positionId", "=", positionId).where("status", "not in", ["closed", "wont_fix"]).select(eb.fn.countAll<number>().as("n")).as("openDefectCount"),
+    eb.selectFrom("defects").where("positionId", "=", positionId).where("status", "not in", ["closed", "accepted_as_is"]).select(eb.fn.countAll<number>().as("n")).as("openDefectCount"),
   ]).executeTakeFirstOrThrow();

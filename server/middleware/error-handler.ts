@@ -1,5 +1,6 @@
 import type { ErrorRequestHandler } from "express";
 import { ZodError } from "zod";
+import { dbFailureOf } from "../db-errors";
 import { AppError } from "../errors";
 
 function zodFields(err: ZodError): Record<string, string> {
@@ -14,8 +15,9 @@ function zodFields(err: ZodError): Record<string, string> {
 /** Every error leaves as `{"error":{"code","message","fields?"}}`; no stack ever reaches the client. */
 export const errorHandler: ErrorRequestHandler = (err, _req, res, _next) => {
   if (res.headersSent) {
-    console.error("[api] error after response started:", err);
-    res.end();
+    // Half a file must not look like a whole one: cut the connection so the download fails.
+    console.error("[api] error after response started:", dbFailureOf(err) ? `database ${dbFailureOf(err)}: ${err?.message}` : err);
+    res.destroy();
     return;
   }
   if (err instanceof ZodError) {
@@ -42,6 +44,18 @@ export const errorHandler: ErrorRequestHandler = (err, _req, res, _next) => {
   if (status >= 400 && status < 500) {
     const message = err?.type === "entity.parse.failed" ? "The request body is not valid JSON." : "The request could not be read.";
     res.status(status).json({ error: { code: "bad_request", message } });
+    return;
+  }
+  const dbFailure = dbFailureOf(err);
+  if (dbFailure) {
+    // The database went away or is overloaded: this request fails, the process and the pool carry on.
+    console.error(`[api] database ${dbFailure}: ${err?.code ? `${err.code} ` : ""}${err?.message ?? err}`);
+    res.setHeader("Retry-After", "5");
+    res.status(503).json({
+      error: dbFailure === "timeout"
+        ? { code: "db_timeout", message: "The database took too long to answer, so this request could not be completed. Try again in a moment." }
+        : { code: "db_unavailable", message: "The database cannot be reached just now, so this request could not be completed. Try again in a moment." },
+    });
     return;
   }
   console.error("[api] unexpected error:", err);

@@ -36,7 +36,7 @@ export const wantedDefects = (db: Db, siteId: string) =>
     ])
     .where("d.siteId", "=", siteId)
     .where("d.partsState", "=", "wanted")
-    .where("d.status", "not in", ["closed", "wont_fix"])
+    .where("d.status", "not in", ["closed", "accepted_as_is"])
     .execute();
 
 export const linksOfSite = (db: Db, siteId: string) =>

@@ -9,6 +9,7 @@ import type { Db } from "../db";
 import type { PhotoStorage } from "../photos/storage";
 import { AppError } from "../errors";
 import { ANY_MEMBER, requireSiteRole } from "../middleware/roles";
+import { limitExports, runExport } from "../export-stream";
 import { toCsv } from "./csv";
 import { nameplateThumb } from "./photo-bytes";
 import * as service from "./service";
@@ -40,11 +41,16 @@ export function partsRoutes(db: Db, storage: PhotoStorage) {
     res.json(await service.listParts(db, req.params.siteId as string, listQuery.parse(req.query), actor(res)));
   });
 
-  r.get("/sites/:siteId/parts.csv", requireSiteRole(db, ...ANY_MEMBER), async (req, res) => {
+  r.get("/sites/:siteId/parts.csv", requireSiteRole(db, ...ANY_MEMBER), limitExports, async (req, res) => {
+    // A few hundred lines per site: read in one go (the connection is back in the pool before
+    // the first byte goes out), then written with the export's back-pressure and write timeout.
     const { lines } = await service.listParts(db, req.params.siteId as string, listQuery.parse(req.query), actor(res));
     res.setHeader("Content-Type", "text/csv; charset=utf-8");
     res.setHeader("Content-Disposition", `attachment; filename="wanted-parts-${today()}.csv"`);
-    res.send(toCsv(lines));
+    const csv = Buffer.from(toCsv(lines), "utf8");
+    await runExport(res, async (out) => {
+      for (let i = 0; i < csv.length; i += 64 * 1024) await out.write(csv.subarray(i, i + 64 * 1024));
+    });
   });
 
   r.post(base, requireSiteRole(db, ...EDIT), async (req, res) => {

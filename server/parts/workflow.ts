@@ -4,7 +4,7 @@
  *   that position is in hand and inspected) — one custody move each, audited;
  * - fitted: each such component goes to "refitted", its heritage becomes what the form says the
  *   fitted part is (period / modern) unless "unchanged" (a sub-part fitted into the original);
- *   each linked defect still being worked moves to "awaiting verification" with its parts in hand;
+ *   each linked defect still being worked moves to "awaiting re-test" with its parts in hand;
  *   the links become fitted (history) so the register's demand counts as met.
  */
 import { sql } from "kysely";
@@ -19,7 +19,7 @@ import * as repo from "./repository";
 import { lineRow, lockedLine } from "./rows";
 
 type Body = z.infer<typeof statusBody>;
-const WORKING_DEFECT = ["open", "triaged", "in_repair", "deferred"] as const;
+const WORKING_DEFECT = ["raised", "scheduled", "under_repair", "deferred"] as const;
 
 export async function moveLineStatus(db: Db, siteId: string, lineId: string, b: Body, actorId: string) {
   await db.transaction().execute(async (trx) => {
@@ -80,11 +80,11 @@ async function defectAwaitsVerification(trx: Db, siteId: string, defectId: strin
   const d = await trx.selectFrom("defects").select(["id", "status", "partsState", "positionId", "boardId"]).where("id", "=", defectId).where("siteId", "=", siteId).forUpdate().executeTakeFirst();
   if (!d || !(WORKING_DEFECT as readonly string[]).includes(d.status)) return;
   await trx.updateTable("defects")
-    .set({ status: "awaiting_verification", partsState: "in_hand", repairedBy: actorId, statusReason: "Part from the wanted list fitted", version: sql`version + 1`, updatedAt: sql`now()` })
+    .set({ status: "awaiting_retest", partsState: "in_hand", repairedBy: actorId, statusReason: "Part from the wanted list fitted", version: sql`version + 1`, updatedAt: sql`now()` })
     .where("id", "=", defectId).execute();
   await recordAudit(trx, {
     siteId, entityType: "defect", entityId: defectId, action: "status", actorId, positionId: d.positionId, boardId: d.boardId,
-    before: { status: d.status, partsState: d.partsState }, after: { status: "awaiting_verification", partsState: "in_hand" },
+    before: { status: d.status, partsState: d.partsState }, after: { status: "awaiting_retest", partsState: "in_hand" },
   });
 }
 

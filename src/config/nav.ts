@@ -22,7 +22,7 @@ export const SITE_NAV: NavItem[] = [
   { label: "Shoot list", href: (s) => paths.photoShootList.href(s), roles: ["photographer", "curator", "admin"] },
   { label: "Photos", href: (s) => paths.photoGallery.href(s), roles: [] },
   { label: "Wanted parts", href: (s) => paths.parts.href(s), roles: [] },
-  { label: "Flood", href: (s) => paths.floodEvents.href(s), roles: ["curator", "admin"] },
+  { label: "Flood record", href: (s) => paths.floodEvents.href(s), roles: ["curator", "admin"] },
   { label: "Import CSV", href: (s) => paths.inventoryImport.href(s), roles: ["curator", "admin"] },
   { label: "Crew", href: (s) => paths.members.href(s), roles: ["curator", "admin"] },
 ];

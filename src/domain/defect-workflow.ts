@@ -17,25 +17,25 @@ export interface WorkflowDefect {
 }
 
 /** Statuses that take a written reason. */
-export const REASON_REQUIRED: ReadonlySet<DefectStatus> = new Set(["deferred", "wont_fix"]);
+export const REASON_REQUIRED: ReadonlySet<DefectStatus> = new Set(["deferred", "accepted_as_is"]);
 /** Statuses the register calls "open work" (the repair plan lists these). */
-export const ACTIVE_STATUSES: readonly DefectStatus[] = ["open", "triaged", "in_repair", "awaiting_verification"];
+export const ACTIVE_STATUSES: readonly DefectStatus[] = ["raised", "scheduled", "under_repair", "awaiting_retest"];
 
 /** Curator (and instance admin) moves: from → allowed targets. */
 const CURATOR_MOVES: Record<DefectStatus, DefectStatus[]> = {
-  open: ["triaged", "in_repair", "deferred", "wont_fix"],
-  triaged: ["open", "in_repair", "deferred", "wont_fix"],
-  in_repair: ["triaged", "awaiting_verification", "deferred", "wont_fix"],
-  awaiting_verification: ["closed", "in_repair", "deferred", "wont_fix"],
-  closed: ["open"],
-  deferred: ["open", "triaged"],
-  wont_fix: ["open"],
+  raised: ["scheduled", "under_repair", "deferred", "accepted_as_is"],
+  scheduled: ["raised", "under_repair", "deferred", "accepted_as_is"],
+  under_repair: ["scheduled", "awaiting_retest", "deferred", "accepted_as_is"],
+  awaiting_retest: ["closed", "under_repair", "deferred", "accepted_as_is"],
+  closed: ["raised"],
+  deferred: ["raised", "scheduled"],
+  accepted_as_is: ["raised"],
 };
 /** Volunteer moves, only on a defect they raised or were assigned. */
 const VOLUNTEER_MOVES: Partial<Record<DefectStatus, DefectStatus[]>> = {
-  open: ["in_repair"],
-  triaged: ["in_repair"],
-  in_repair: ["awaiting_verification"],
+  raised: ["under_repair"],
+  scheduled: ["under_repair"],
+  under_repair: ["awaiting_retest"],
 };
 
 export type TransitionResult =
@@ -72,8 +72,8 @@ export function checkTransition(
       : { ok: false, code: "not_allowed", message: `A defect cannot go from ${defect.status} to ${to}.` };
   }
   if (REASON_REQUIRED.has(to) && !opts.reason?.trim())
-    return { ok: false, code: "reason_required", message: "Say why: deferring or declining a defect needs a reason." };
-  if (to === "awaiting_verification") {
+    return { ok: false, code: "reason_required", message: "Say why: deferring a defect or accepting it as is needs a reason." };
+  if (to === "awaiting_retest") {
     const doer = actor.role === "volunteer" ? actor.id : (opts.repairedBy ?? defect.assigneeId ?? actor.id);
     return { ok: true, set: { repairedBy: doer } };
   }
@@ -83,7 +83,7 @@ export function checkTransition(
       return { ok: false, code: "same_person", message: "Someone other than the person who did the repair must verify and close it." };
     return { ok: true, set: { verifiedBy: actor.id, closed: true } };
   }
-  if (defect.status === "closed" || (to === "in_repair" && defect.status === "awaiting_verification"))
+  if (defect.status === "closed" || (to === "under_repair" && defect.status === "awaiting_retest"))
     return { ok: true, set: { verifiedBy: null, repairedBy: defect.status === "closed" ? defect.repairedBy : null, reopened: defect.status === "closed" } };
   return { ok: true, set: {} };
 }

@@ -14,9 +14,15 @@ import {
 import { astmD610Grade } from "./corrosion";
 import { requireNumber, requireOneOf } from "./guards";
 
+/** What the crew reads beside a recommendation: which guidance it follows. */
 export const FLOOD_GUIDANCE_SOURCE =
-  "Tideline rule table, from memory of NEMA GD 1 (Evaluating Water-Damaged Electrical Equipment) " +
-  "and NFPA 70B (equipment exposed to water); a qualified person confirms every result.";
+  "Follows NEMA GD 1 (Evaluating Water-Damaged Electrical Equipment) and NFPA 70B (equipment exposed " +
+  "to water); a qualified person confirms every result.";
+/** Where the rule table comes from, for the help text of the flood record (not the recommendation). */
+export const FLOOD_GUIDANCE_PROVENANCE =
+  "Tideline's own small rule table, written from memory of NEMA GD 1 and the NFPA 70B chapter on equipment " +
+  "exposed to water and checked against published summaries of the NEMA replace / recondition lists. " +
+  "Check the current editions and the manufacturer's instructions.";
 
 type Rule = { disposition: "rebuild" | "replace"; reason: string };
 

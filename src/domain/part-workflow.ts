@@ -121,7 +121,8 @@ export function partTitle(spec: PartSpec, need?: string | null): string {
   if (spec.ratingAmps != null) bits.push(`${spec.ratingAmps} A`);
   if (spec.poles != null) bits.push(`${spec.poles}-pole`);
   if (spec.voltageRating != null) bits.push(`${spec.voltageRating} V`);
-  if (spec.frame?.trim()) bits.push(`frame ${spec.frame.trim()}`);
+  // "frame 50 A frame" reads doubled: only prefix the word when the value does not carry it.
+  if (spec.frame?.trim()) bits.push(/\bframe\b/i.test(spec.frame) ? spec.frame.trim() : `frame ${spec.frame.trim()}`);
   if (spec.mounting?.trim()) bits.push(spec.mounting.trim());
   const maker = [spec.maker?.trim(), spec.model?.trim()].filter(Boolean).join(" ");
   if (maker) bits.push(maker);

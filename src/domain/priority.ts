@@ -113,7 +113,7 @@ export function rankDefects<T extends Rankable>(items: readonly T[]): T[] {
 
 /** The formula in words for the help page, built from the constants above. */
 export const PRIORITY_FORMULA_TEXT = [
-  "**How Tideline orders defects** (higher points first)",
+  "**How Tideline orders defects** (highest priority score first)",
   "",
   `- Severity: cosmetic ${SEVERITY_POINTS.cosmetic}, degraded ${SEVERITY_POINTS.degraded}, impaired ${SEVERITY_POINTS.impaired}, disabling ${SEVERITY_POINTS.disabling}`,
   `- Safety-critical: +${SAFETY_POINTS}`,
@@ -122,6 +122,6 @@ export const PRIORITY_FORMULA_TEXT = [
   `- Parts: in hand or none needed +${PARTS_POINTS.in_hand}, wanted ${PARTS_POINTS.wanted}, unobtainable ${PARTS_POINTS.unobtainable}`,
   `- Effort: minus ${EFFORT_SCALE} × log₂(1 + hours), at most ${EFFORT_CAP}; a blank estimate counts as ${UNKNOWN_EFFORT_HOURS} hours`,
   "",
-  "Equal scores: the older defect first, then by reference. A curator can pin a defect above or below another.",
+  "Equal scores: the older defect first, then by reference. The curator can place a defect just before or after another (the curator's order).",
   "The score plans the work; it does not make anything safe. Hazards are for qualified people under NFPA 70E.",
 ].join("\n");

@@ -49,7 +49,7 @@ export const COMPONENT_KINDS = [
 export type ComponentKind = (typeof COMPONENT_KINDS)[number];
 export const COMPONENT_KIND_LABELS: Record<ComponentKind, string> = {
   molded_case_breaker: "Molded-case breaker",
-  power_breaker: "Power (open-frame) breaker",
+  power_breaker: "Air circuit breaker (open-frame power breaker)",
   meter: "Meter",
   ground_lamp: "Ground-detection lamp",
   fuse: "Fuse / fuse holder",
@@ -63,8 +63,10 @@ export const COMPONENT_KIND_LABELS: Record<ComponentKind, string> = {
 };
 /** Short text shown on a board tile beside the kind glyph (never colour alone). */
 export const COMPONENT_KIND_SHORT: Record<ComponentKind, string> = {
-  molded_case_breaker: "MCB",
-  power_breaker: "PWR",
+  // The trade's abbreviations: MCCB (molded-case circuit breaker; MCB is a miniature breaker),
+  // ACB (air circuit breaker, the open-frame low-voltage power circuit breaker).
+  molded_case_breaker: "MCCB",
+  power_breaker: "ACB",
   meter: "MTR",
   ground_lamp: "GL",
   fuse: "FU",
@@ -183,23 +185,23 @@ export const DEFECT_SEVERITY_DEFINITIONS: Record<DefectSeverity, string> = {
 };
 
 export const DEFECT_STATUSES = [
-  "open",
-  "triaged",
-  "in_repair",
-  "awaiting_verification",
+  "raised",
+  "scheduled",
+  "under_repair",
+  "awaiting_retest",
   "closed",
   "deferred",
-  "wont_fix",
+  "accepted_as_is",
 ] as const;
 export type DefectStatus = (typeof DEFECT_STATUSES)[number];
 export const DEFECT_STATUS_LABELS: Record<DefectStatus, string> = {
-  open: "Open",
-  triaged: "Triaged",
-  in_repair: "In repair",
-  awaiting_verification: "Awaiting verification",
+  raised: "Raised",
+  scheduled: "Scheduled",
+  under_repair: "Under repair",
+  awaiting_retest: "Awaiting re-test",
   closed: "Closed",
   deferred: "Deferred",
-  wont_fix: "Won't fix",
+  accepted_as_is: "Accepted as is",
 };
 
 export const PART_STATUSES = ["wanted", "lead_found", "acquired", "received", "fitted", "cancelled"] as const;

@@ -19,26 +19,26 @@ const d = (status: DefectStatus, over: Partial<WorkflowDefect> = {}): WorkflowDe
 describe("checkTransition", () => {
   it.each([
     // [case, defect, to, actor, reason, expected ok or error code]
-    ["volunteer starts their own open defect", d("open"), "in_repair", volunteer, undefined, true],
-    ["volunteer sends their own repair for verification", d("in_repair"), "awaiting_verification", volunteer, undefined, true],
-    ["volunteer starts a triaged defect assigned to them", d("triaged", { createdBy: CUR, assigneeId: OTHER }), "in_repair", otherVolunteer, undefined, true],
-    ["volunteer cannot move someone else's defect", d("open"), "in_repair", otherVolunteer, undefined, "forbidden"],
-    ["volunteer cannot triage", d("open"), "triaged", volunteer, undefined, "forbidden"],
-    ["volunteer cannot close even another's repair", d("awaiting_verification", { repairedBy: OTHER }), "closed", volunteer, undefined, "forbidden"],
-    ["volunteer cannot defer", d("open"), "deferred", volunteer, "later", "forbidden"],
-    ["viewer moves nothing", d("open"), "triaged", viewer, undefined, "forbidden"],
-    ["scrounger moves nothing", d("open"), "in_repair", scrounger, undefined, "forbidden"],
-    ["curator triages", d("open"), "triaged", curator, undefined, true],
-    ["curator closes a repair done by someone else", d("awaiting_verification", { repairedBy: VOL }), "closed", curator, undefined, true],
-    ["curator cannot close their own repair", d("awaiting_verification", { repairedBy: CUR }), "closed", curator, undefined, "same_person"],
-    ["closing needs a recorded repairer", d("awaiting_verification"), "closed", curator, undefined, "no_repairer"],
-    ["deferring needs a reason", d("open"), "deferred", curator, "  ", "reason_required"],
-    ["deferring with a reason", d("triaged"), "deferred", curator, "Wait for the dry-out", true],
-    ["won't fix needs a reason", d("open"), "wont_fix", curator, "", "reason_required"],
-    ["open cannot jump to closed", d("open"), "closed", curator, undefined, "not_allowed"],
-    ["closed can only reopen", d("closed", { repairedBy: VOL }), "in_repair", curator, undefined, "not_allowed"],
-    ["curator reopens a closed defect", d("closed", { repairedBy: VOL }), "open", curator, undefined, true],
-    ["admin acts as curator", d("open"), "triaged", { id: "a", role: "admin" } as Actor, undefined, true],
+    ["volunteer starts their own open defect", d("raised"), "under_repair", volunteer, undefined, true],
+    ["volunteer sends their own repair for verification", d("under_repair"), "awaiting_retest", volunteer, undefined, true],
+    ["volunteer starts a scheduled defect assigned to them", d("scheduled", { createdBy: CUR, assigneeId: OTHER }), "under_repair", otherVolunteer, undefined, true],
+    ["volunteer cannot move someone else's defect", d("raised"), "under_repair", otherVolunteer, undefined, "forbidden"],
+    ["volunteer cannot triage", d("raised"), "scheduled", volunteer, undefined, "forbidden"],
+    ["volunteer cannot close even another's repair", d("awaiting_retest", { repairedBy: OTHER }), "closed", volunteer, undefined, "forbidden"],
+    ["volunteer cannot defer", d("raised"), "deferred", volunteer, "later", "forbidden"],
+    ["viewer moves nothing", d("raised"), "scheduled", viewer, undefined, "forbidden"],
+    ["scrounger moves nothing", d("raised"), "under_repair", scrounger, undefined, "forbidden"],
+    ["curator triages", d("raised"), "scheduled", curator, undefined, true],
+    ["curator closes a repair done by someone else", d("awaiting_retest", { repairedBy: VOL }), "closed", curator, undefined, true],
+    ["curator cannot close their own repair", d("awaiting_retest", { repairedBy: CUR }), "closed", curator, undefined, "same_person"],
+    ["closing needs a recorded repairer", d("awaiting_retest"), "closed", curator, undefined, "no_repairer"],
+    ["deferring needs a reason", d("raised"), "deferred", curator, "  ", "reason_required"],
+    ["deferring with a reason", d("scheduled"), "deferred", curator, "Wait for the dry-out", true],
+    ["won't fix needs a reason", d("raised"), "accepted_as_is", curator, "", "reason_required"],
+    ["open cannot jump to closed", d("raised"), "closed", curator, undefined, "not_allowed"],
+    ["closed can only reopen", d("closed", { repairedBy: VOL }), "under_repair", curator, undefined, "not_allowed"],
+    ["curator reopens a closed defect", d("closed", { repairedBy: VOL }), "raised", curator, undefined, true],
+    ["admin acts as curator", d("raised"), "scheduled", { id: "a", role: "admin" } as Actor, undefined, true],
   ] as Array<[string, WorkflowDefect, DefectStatus, Actor, string | undefined, true | string]>)("%s", (_c, defect, to, actor, reason, expected) => {
     const r = checkTransition(defect, to, actor, { reason });
     if (expected === true) expect(r.ok).toBe(true);
@@ -46,46 +46,46 @@ describe("checkTransition", () => {
   });
 
   it("records the volunteer as the doer when they send a repair for verification", () => {
-    const r = checkTransition(d("in_repair", { assigneeId: OTHER }), "awaiting_verification", volunteer);
+    const r = checkTransition(d("under_repair", { assigneeId: OTHER }), "awaiting_retest", volunteer);
     expect(r).toEqual({ ok: true, set: { repairedBy: VOL } });
   });
 
   it("records the assignee as the doer when the curator sends it for verification", () => {
-    const r = checkTransition(d("in_repair", { assigneeId: OTHER }), "awaiting_verification", curator);
+    const r = checkTransition(d("under_repair", { assigneeId: OTHER }), "awaiting_retest", curator);
     expect(r).toEqual({ ok: true, set: { repairedBy: OTHER } });
   });
 
   it("records the curator as verifier on closing", () => {
-    expect(checkTransition(d("awaiting_verification", { repairedBy: VOL }), "closed", curator)).toEqual({ ok: true, set: { verifiedBy: CUR, closed: true } });
+    expect(checkTransition(d("awaiting_retest", { repairedBy: VOL }), "closed", curator)).toEqual({ ok: true, set: { verifiedBy: CUR, closed: true } });
   });
 
   it("sending a repair back clears the doer", () => {
-    const r = checkTransition(d("awaiting_verification", { repairedBy: VOL }), "in_repair", curator);
+    const r = checkTransition(d("awaiting_retest", { repairedBy: VOL }), "under_repair", curator);
     expect(r.ok && r.set.repairedBy).toBeNull();
   });
 
   it("throws RangeError for an unknown status", () => {
-    expect(() => checkTransition(d("open"), "fixed" as DefectStatus, curator)).toThrow(RangeError);
+    expect(() => checkTransition(d("raised"), "fixed" as DefectStatus, curator)).toThrow(RangeError);
   });
 });
 
 describe("allowedTargets and canEdit", () => {
   it.each([
-    ["curator on open", d("open"), curator, ["triaged", "in_repair", "deferred", "wont_fix"]],
-    ["own volunteer on open", d("open"), volunteer, ["in_repair"]],
-    ["own volunteer awaiting verification", d("awaiting_verification"), volunteer, []],
-    ["other volunteer", d("open"), otherVolunteer, []],
-    ["viewer", d("open"), viewer, []],
+    ["curator on open", d("raised"), curator, ["scheduled", "under_repair", "deferred", "accepted_as_is"]],
+    ["own volunteer on open", d("raised"), volunteer, ["under_repair"]],
+    ["own volunteer awaiting verification", d("awaiting_retest"), volunteer, []],
+    ["other volunteer", d("raised"), otherVolunteer, []],
+    ["viewer", d("raised"), viewer, []],
   ] as Array<[string, WorkflowDefect, Actor, DefectStatus[]]>)("%s", (_c, defect, actor, expected) => {
     expect(allowedTargets(defect, actor)).toEqual(expected);
   });
 
   it.each([
     ["curator edits any", d("closed"), curator, true],
-    ["volunteer edits their own open defect", d("open"), volunteer, true],
+    ["volunteer edits their own open defect", d("raised"), volunteer, true],
     ["volunteer cannot edit their own closed defect", d("closed"), volunteer, false],
-    ["volunteer cannot edit another's", d("open"), otherVolunteer, false],
-    ["viewer cannot edit", d("open"), viewer, false],
+    ["volunteer cannot edit another's", d("raised"), otherVolunteer, false],
+    ["viewer cannot edit", d("raised"), viewer, false],
   ] as Array<[string, WorkflowDefect, Actor, boolean]>)("%s", (_c, defect, actor, expected) => {
     expect(canEdit(defect, actor)).toBe(expected);
   });

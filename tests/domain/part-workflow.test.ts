@@ -94,6 +94,8 @@ describe("partTitle", () => {
     [mcb, "", "Molded-case breaker · 100 A · 3-pole · 600 V · frame F · Bolt-on · Acme Q3"],
     [{ kind: "ground_lamp", voltageRating: 250 } as PartSpec, "lens", "Ground-detection lamp · 250 V — lens"],
     [{ kind: "other" } as PartSpec, null, "Other"],
+    // Issue 14: a frame typed as "50 A frame" is not doubled ("frame 50 A frame").
+    [{ kind: "molded_case_breaker", frame: "50 A frame" } as PartSpec, null, "Molded-case breaker · 50 A frame"],
   ])("%j %j → %s", (spec, need, title) => {
     expect(partTitle(spec, need)).toBe(title);
   });

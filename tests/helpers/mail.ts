@@ -46,7 +46,7 @@ export async function makeBoard(db: Db, siteId: string, name = "Main switchboard
 
 export async function makeDefect(
   db: Db,
-  v: { siteId: string; boardId: string; positionId?: string; title?: string; assigneeId?: string | null; repairedBy?: string | null; status?: "open" | "awaiting_verification" | "closed" | "deferred"; blocksEnergisation?: boolean; safetyCritical?: boolean; createdAt?: Date; closedAt?: Date | null },
+  v: { siteId: string; boardId: string; positionId?: string; title?: string; assigneeId?: string | null; repairedBy?: string | null; status?: "raised" | "awaiting_retest" | "closed" | "deferred"; blocksEnergisation?: boolean; safetyCritical?: boolean; createdAt?: Date; closedAt?: Date | null },
 ) {
   return db
     .insertInto("defects")
@@ -59,7 +59,7 @@ export async function makeDefect(
       severity: "impaired",
       assigneeId: v.assigneeId ?? null,
       repairedBy: v.repairedBy ?? null,
-      status: v.status ?? "open",
+      status: v.status ?? "raised",
       blocksEnergisation: v.blocksEnergisation ?? false,
       safetyCritical: v.safetyCritical ?? false,
       createdAt: v.createdAt ?? new Date(),

@@ -40,16 +40,16 @@ it("when the curator assigns a defect, the assignee gets an e-mail naming it", a
 
 it("when a volunteer's repair awaits verification, the curator is told; a switched-off curator is not", async () => {
   let d = (await as.volunteer.post(url(), { boardId: board.boardId, title: "Loose lug on phase B", category: "wiring", severity: "impaired" })).body.defect;
-  d = (await as.volunteer.post(url(`/${d.id}/status`), { to: "in_repair", version: d.version })).body.defect;
-  d = (await as.volunteer.post(url(`/${d.id}/status`), { to: "awaiting_verification", version: d.version })).body.defect;
-  expect(d.status).toBe("awaiting_verification");
+  d = (await as.volunteer.post(url(`/${d.id}/status`), { to: "under_repair", version: d.version })).body.defect;
+  d = (await as.volunteer.post(url(`/${d.id}/status`), { to: "awaiting_retest", version: d.version })).body.defect;
+  expect(d.status).toBe("awaiting_retest");
   await app.smtp.mailbox.waitFor((x) => x.to.includes(fx.crew.curator.email) && x.text.includes("Loose lug on phase B"));
 
   await t.db.insertInto("notificationPrefs").values({ userId: fx.crew.curator.id, key: "awaiting_verification", enabled: false }).execute();
   let e = (await as.volunteer.post(url(), { boardId: board.boardId, title: "Cracked arc chute", category: "mechanical", severity: "impaired" })).body.defect;
-  e = (await as.volunteer.post(url(`/${e.id}/status`), { to: "in_repair", version: e.version })).body.defect;
-  e = (await as.volunteer.post(url(`/${e.id}/status`), { to: "awaiting_verification", version: e.version })).body.defect;
-  expect(e.status).toBe("awaiting_verification");
+  e = (await as.volunteer.post(url(`/${e.id}/status`), { to: "under_repair", version: e.version })).body.defect;
+  e = (await as.volunteer.post(url(`/${e.id}/status`), { to: "awaiting_retest", version: e.version })).body.defect;
+  expect(e.status).toBe("awaiting_retest");
   await new Promise((r) => setTimeout(r, 600));
   expect(app.smtp.mailbox.list().some((x) => x.text.includes("Cracked arc chute"))).toBe(false);
 });

@@ -63,7 +63,7 @@ describe("server-side sorting, each checked against direct SQL", () => {
   it.each([
     ["severity&dir=desc", "array_position(ARRAY['cosmetic','degraded','impaired','disabling'], d.severity) DESC, d.ref DESC"],
     ["severity&dir=asc", "array_position(ARRAY['cosmetic','degraded','impaired','disabling'], d.severity) ASC, d.ref ASC"],
-    ["status&dir=asc", "array_position(ARRAY['open','triaged','in_repair','awaiting_verification','closed','deferred','wont_fix'], d.status), d.ref"],
+    ["status&dir=asc", "array_position(ARRAY['raised','scheduled','under_repair','awaiting_retest','closed','deferred','accepted_as_is'], d.status), d.ref"],
     ["board&dir=asc", "lower(b.name), d.ref"],
     ["position&dir=desc", "lower(p.designation) DESC, d.ref DESC"],
     ["dueOn&dir=asc", "d.due_on ASC NULLS LAST, d.ref"],
@@ -103,7 +103,7 @@ describe("server-side sorting, each checked against direct SQL", () => {
 describe("filtering, each checked against direct SQL", () => {
   it.each([
     ["category=corrosion&category=heat", "AND d.category IN ('corrosion','heat')"],
-    ["severity=disabling&status=open", "AND d.severity = 'disabling' AND d.status = 'open'"],
+    ["severity=disabling&status=raised", "AND d.severity = 'disabling' AND d.status = 'raised'"],
     ["flag=safety&flag=blocking", "AND d.safety_critical AND d.blocks_energisation"],
     ["assignee=none", "AND d.assignee_id IS NULL"],
     ["q=VERDIGRIS", "AND d.title ILIKE '%verdigris%'"],
@@ -120,7 +120,7 @@ describe("filtering, each checked against direct SQL", () => {
 
   it("overdue counts from the day the client sends", async () => {
     const got = await ids("flag=overdue&today=2027-01-10&sort=ref&dir=asc&size=200");
-    expect(got).toEqual(await direct("AND d.due_on < '2027-01-10' AND d.status NOT IN ('closed','deferred','wont_fix')", "d.ref"));
+    expect(got).toEqual(await direct("AND d.due_on < '2027-01-10' AND d.status NOT IN ('closed','deferred','accepted_as_is')", "d.ref"));
   });
 
   it("a bad filter value is a 400 naming it", async () => {
@@ -179,7 +179,7 @@ describe("repair plan", () => {
   it("lists only active defects per board and section in rank order, with effort and cost totals", async () => {
     const r = await viewer.get(`/api/sites/${fx.siteId}/repair-plan`);
     expect(r.status).toBe(200);
-    const active = await direct("AND d.status IN ('open','triaged','in_repair','awaiting_verification')", "d.ref");
+    const active = await direct("AND d.status IN ('raised','scheduled','under_repair','awaiting_retest')", "d.ref");
     const listed = r.body.boards.flatMap((b: any) => b.sections.flatMap((s: any) => s.defects));
     expect(listed.length).toBe(active.length);
     for (const b of r.body.boards)

@@ -35,7 +35,7 @@ describe("raising a defect", () => {
     const r = await raise(as.volunteer, { inspectionId: board.inspectionId, effortHours: 3, partsState: "in_hand" });
     expect(r.status).toBe(201);
     const p = board.positions[0];
-    expect(r.body.defect).toMatchObject({ positionId: p.id, componentId: p.componentId, sectionId: p.sectionId, designation: "1-1", status: "open", createdBy: fx.crew.volunteer.id });
+    expect(r.body.defect).toMatchObject({ positionId: p.id, componentId: p.componentId, sectionId: p.sectionId, designation: "1-1", status: "raised", createdBy: fx.crew.volunteer.id });
     // position 1-1's component is original fabric (fixture): 45 + 10 heritage − 16 effort + 10 parts
     const expected = priorityScore({ severity: "impaired", safetyCritical: false, blocksEnergisation: false, originalFabric: true, effortHours: 3, partsAvailable: "in_hand" }).score;
     expect(r.body.defect.priorityScore).toBe(expected);
@@ -99,9 +99,9 @@ describe("workflow", () => {
 
   it("a volunteer carries their own defect to verification; only someone else closes it", async () => {
     let d = (await raise(as.volunteer)).body.defect;
-    d = (await move(as.volunteer, d, "in_repair")).body.defect;
-    d = (await move(as.volunteer, d, "awaiting_verification")).body.defect;
-    expect(d).toMatchObject({ status: "awaiting_verification", repairedBy: fx.crew.volunteer.id });
+    d = (await move(as.volunteer, d, "under_repair")).body.defect;
+    d = (await move(as.volunteer, d, "awaiting_retest")).body.defect;
+    expect(d).toMatchObject({ status: "awaiting_retest", repairedBy: fx.crew.volunteer.id });
     const self = await move(as.volunteer, d, "closed");
     expect(self.status).toBe(403);
     const closed = await move(as.curator, d, "closed");
@@ -109,13 +109,13 @@ describe("workflow", () => {
     expect(closed.body.defect).toMatchObject({ status: "closed", verifiedBy: fx.crew.curator.id });
     expect(closed.body.defect.closedAt).not.toBeNull();
     const page = await as.curator.get(url(`/${d.id}`));
-    expect(page.body.history.map((h: { toStatus: string }) => h.toStatus)).toEqual(["closed", "awaiting_verification", "in_repair", "open"]);
+    expect(page.body.history.map((h: { toStatus: string }) => h.toStatus)).toEqual(["closed", "awaiting_retest", "under_repair", "raised"]);
   });
 
   it("the curator who did the repair cannot verify it (409 same_person)", async () => {
     let d = (await raise(as.curator)).body.defect;
-    d = (await move(as.curator, d, "in_repair")).body.defect;
-    d = (await move(as.curator, d, "awaiting_verification", { repairedBy: fx.crew.curator.id })).body.defect;
+    d = (await move(as.curator, d, "under_repair")).body.defect;
+    d = (await move(as.curator, d, "awaiting_retest", { repairedBy: fx.crew.curator.id })).body.defect;
     const r = await move(as.curator, d, "closed");
     expect(r.status).toBe(409);
     expect(r.body.error.code).toBe("same_person");
@@ -132,8 +132,8 @@ describe("workflow", () => {
 
   it("a volunteer cannot move a defect someone else raised; a viewer cannot move any", async () => {
     const d = (await raise(as.curator)).body.defect;
-    expect((await move(as.volunteer, d, "in_repair")).status).toBe(403);
-    expect((await move(as.viewer, d, "triaged")).status).toBe(403);
+    expect((await move(as.volunteer, d, "under_repair")).status).toBe(403);
+    expect((await move(as.viewer, d, "scheduled")).status).toBe(403);
   });
 
   it("only the curator assigns", async () => {
@@ -184,11 +184,11 @@ describe("bulk actions", () => {
     const ok = (await raise(as.curator)).body.defect;
     const closedOne = (await raise(as.curator)).body.defect;
     await t.db.updateTable("defects").set({ status: "closed" }).where("id", "=", closedOne.id).execute();
-    const r = await as.curator.post(url("/bulk"), { ids: [ok.id, closedOne.id], action: { type: "status", to: "triaged" } });
+    const r = await as.curator.post(url("/bulk"), { ids: [ok.id, closedOne.id], action: { type: "status", to: "scheduled" } });
     expect(r.status).toBe(409);
     expect(r.body.error.fields[closedOne.id]).toMatch(/cannot go from closed/);
     const still = await t.db.selectFrom("defects").select("status").where("id", "=", ok.id).executeTakeFirstOrThrow();
-    expect(still.status).toBe("open");
+    expect(still.status).toBe("raised");
   });
 
   it("a volunteer cannot use bulk actions (403)", async () => {
@@ -202,7 +202,7 @@ describe("saved views", () => {
     const r = await as.curator.post(url("/views"), { name: "Safety first", query: "flag=safety&sort=priority&dir=desc" });
     expect(r.status).toBe(201);
     expect((await as.curator.post(url("/views"), { name: "safety FIRST", query: "" })).status).toBe(409);
-    expect((await as.viewer.post(url("/views"), { name: "Safety first", query: "status=open" })).status).toBe(201);
+    expect((await as.viewer.post(url("/views"), { name: "Safety first", query: "status=raised" })).status).toBe(201);
     const mine = await as.curator.get(url("/views"));
     expect(mine.body.views.map((v: { name: string }) => v.name)).toEqual(["Safety first"]);
     expect(mine.body.views[0].query).toBe("flag=safety&sort=priority&dir=desc");

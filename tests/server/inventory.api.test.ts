@@ -268,7 +268,7 @@ describe("tile counts and deletions", () => {
     await t.db.insertInto("photos").values([photo, photo, { ...photo, deletedAt: new Date() }]).execute();
     const defect = { siteId: fx.siteId, boardId: board.id, positionId: position.id, componentId: component.id, title: "Rust", category: "corrosion" as const, severity: "degraded" as const };
     await t.db.insertInto("defects").values([
-      { ...defect, status: "open" }, { ...defect, status: "in_repair" }, { ...defect, status: "closed" }, { ...defect, status: "wont_fix" },
+      { ...defect, status: "raised" }, { ...defect, status: "under_repair" }, { ...defect, status: "closed" }, { ...defect, status: "accepted_as_is" },
     ]).execute();
     const tile = (await as.viewer.get(`${base}/boards/${board.id}`)).body.positions[0];
     expect([tile.photoCount, tile.openDefectCount]).toEqual([2, 2]);

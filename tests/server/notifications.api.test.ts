@@ -104,7 +104,7 @@ describe("a defect assigned to you", () => {
 
 describe("a repair awaiting verification", () => {
   it("mails the site's curators except the one who repaired it", async () => {
-    const d = await makeDefect(t.db, { siteId: fx.siteId, boardId: board.boardId, status: "awaiting_verification", repairedBy: secondCurator.id });
+    const d = await makeDefect(t.db, { siteId: fx.siteId, boardId: board.boardId, status: "awaiting_retest", repairedBy: secondCurator.id });
     smtp.mailbox.clear();
     const r = await notifyAwaitingVerification(deps, { defectId: d.id, actorId: secondCurator.id });
     expect(r.sent).toEqual([fx.crew.curator.id]);
@@ -116,7 +116,7 @@ describe("a repair awaiting verification", () => {
 
   it("respects a curator's switch", async () => {
     await switchOff(fx.crew.curator.email, "awaiting_verification");
-    const d = await makeDefect(t.db, { siteId: fx.siteId, boardId: board.boardId, status: "awaiting_verification", repairedBy: fx.crew.volunteer.id });
+    const d = await makeDefect(t.db, { siteId: fx.siteId, boardId: board.boardId, status: "awaiting_retest", repairedBy: fx.crew.volunteer.id });
     const r = await notifyAwaitingVerification(deps, { defectId: d.id, actorId: fx.crew.volunteer.id });
     expect(r.sent).toEqual([secondCurator.id]);
     expect(r.skipped).toEqual([{ userId: fx.crew.curator.id, reason: "switched_off" }]);
@@ -150,7 +150,7 @@ describe("the weekly summary", () => {
     expect(msg.text).toContain("Defects opened: 1");
     expect(msg.text).toContain("Defects closed: 1");
     expect(msg.text).toContain("block re-energisation or are safety-critical: 2");
-    expect(msg.text).toContain("Seized operating handle — Aft board 2-14 (blocks re-energisation; open)");
+    expect(msg.text).toContain("Seized operating handle — Aft board 2-14 (blocks re-energisation; raised)");
     expect(msg.text).toContain("Missing arc chute — Aft board 2-14 (safety-critical; deferred)");
     expect(msg.text).not.toMatch(/Salt crust on bus — .*\(blocks/);
     expect(msg.subject).toBe("Tideline weekly: Another crew's site, 2030-03-03 to 2030-03-10 — 2 blockers");

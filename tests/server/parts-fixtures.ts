@@ -35,12 +35,12 @@ export async function makeComponent(db: Db, siteId: string, boardId: string, des
 export const setDisposition = (db: Db, componentId: string, disposition: Disposition | null) =>
   db.updateTable("components").set({ disposition }).where("id", "=", componentId).execute();
 
-export async function makeDefect(db: Db, siteId: string, boardId: string, c: { positionId: string; componentId: string } | null, o: { partsNeeded?: string; partsState?: "wanted" | "none_needed"; status?: "open" | "closed" } = {}) {
+export async function makeDefect(db: Db, siteId: string, boardId: string, c: { positionId: string; componentId: string } | null, o: { partsNeeded?: string; partsState?: "wanted" | "none_needed"; status?: "raised" | "closed" } = {}) {
   return db
     .insertInto("defects")
     .values({
       siteId, boardId, positionId: c?.positionId ?? null, componentId: c?.componentId ?? null, title: "Arc chute cracked", category: "mechanical", severity: "impaired",
-      partsNeeded: o.partsNeeded ?? "arc chute", partsState: o.partsState ?? "wanted", status: o.status ?? "open",
+      partsNeeded: o.partsNeeded ?? "arc chute", partsState: o.partsState ?? "wanted", status: o.status ?? "raised",
     })
     .returning(["id"])
     .executeTakeFirstOrThrow();

@@ -79,7 +79,7 @@ describe("status workflow", () => {
     const moves = await t.db.selectFrom("custodyMoves").select(["fromState", "toState"]).where("componentId", "=", comp.componentId).orderBy("movedAt").execute();
     expect(moves).toEqual([{ fromState: "in_place", toState: "ready_to_refit" }, { fromState: "ready_to_refit", toState: "refitted" }]);
     const d = await t.db.selectFrom("defects").select(["status", "partsState", "version"]).where("id", "=", defect!.id).executeTakeFirstOrThrow();
-    expect(d).toMatchObject({ status: "awaiting_verification", partsState: "in_hand", version: 2 });
+    expect(d).toMatchObject({ status: "awaiting_retest", partsState: "in_hand", version: 2 });
     const audit = await t.db.selectFrom("auditLog").select(["entityType", "action"]).where("entityId", "in", [defect!.id, comp.componentId]).execute();
     expect(audit).toEqual(expect.arrayContaining([{ entityType: "defect", action: "status" }, { entityType: "component", action: "parts_update" }]));
   });

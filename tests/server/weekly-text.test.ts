@@ -42,9 +42,9 @@ describe("buildWeeklySummary", () => {
   it("names why each blocker blocks, its status, and puts the count in the subject", () => {
     const m = buildWeeklySummary({
       ...base,
-      blockers: { count: 1, items: [{ ...line(1), status: "in_repair", safetyCritical: true, blocksEnergisation: true }] },
+      blockers: { count: 1, items: [{ ...line(1), status: "under_repair", safetyCritical: true, blocksEnergisation: true }] },
     });
-    expect(m.text).toContain("- Defect 1 — Main 1-1 (blocks re-energisation, safety-critical; in repair)");
+    expect(m.text).toContain("- Defect 1 — Main 1-1 (blocks re-energisation, safety-critical; under repair)");
     expect(m.subject).toMatch(/ — 1 blocker$/);
   });
 

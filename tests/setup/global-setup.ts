@@ -1,5 +1,5 @@
 import type { TestProject } from "vitest/node";
-import { createDb } from "../../server/db";
+import { createDb, MAINTENANCE_DB_OPTIONS } from "../../server/db";
 import { ensureDatabase } from "../../db/pg";
 import { openLocalDatabase } from "../../db/local";
 import { migrateToLatest } from "../../db/migrate";
@@ -14,7 +14,7 @@ export const TEMPLATE_DB = "tideline_template";
 export default async function setup(project: TestProject) {
   const local = await openLocalDatabase("test", "postgres");
   await ensureDatabase(local.adminUrl, TEMPLATE_DB, { fresh: true });
-  const db = createDb(local.adminUrl.replace(/\/postgres$/, `/${TEMPLATE_DB}`), 1);
+  const db = createDb(local.adminUrl.replace(/\/postgres$/, `/${TEMPLATE_DB}`), { ...MAINTENANCE_DB_OPTIONS, max: 1 });
   await migrateToLatest(db);
   // pg-boss creates its own schema (pgboss) on first start; do it once here so every clone has it.
   const jobs = createJobs({ db, work: false });

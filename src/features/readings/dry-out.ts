@@ -49,4 +49,5 @@ export function forecastWords(s: NonNullable<ReturnType<typeof dryOutSeries>>) {
 }
 
 const fmt = (n: number) => Number(n.toPrecision(3)).toString();
-const span = (hours: number) => (hours < 48 ? `${fmt(hours)} h` : `${fmt(hours / 24)} days`);
+// A fitted estimate supports whole hours at best, and whole days beyond two (no false precision).
+export const span = (hours: number) => (hours < 48 ? `${Math.max(1, Math.round(hours))} h` : `${Math.round(hours / 24)} days`);

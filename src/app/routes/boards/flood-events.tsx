@@ -1,4 +1,5 @@
 import { ErrorPanel, Loading } from "../../../components/status";
+import { FLOOD_GUIDANCE_PROVENANCE } from "../../../domain/flood-guidance";
 import { WATER_TYPE_LABELS } from "../../../domain/vocab";
 import { useFloodEvents } from "../../../features/inventory/api";
 import { FloodEventForm } from "../../../features/inventory/components/flood-event-form";
@@ -13,7 +14,7 @@ export default function FloodEventsPage() {
   const [latest, ...older] = q.data;
   return (
     <div className="max-w-3xl space-y-4">
-      <h1 className="text-2xl font-bold">The flood</h1>
+      <h1 className="text-2xl font-bold">Flood record</h1>
       <p className="text-mist">
         What the water was and how long it stood drives every recommended disposition. The newest event is the one used.
       </p>
@@ -31,6 +32,7 @@ export default function FloodEventsPage() {
       ) : latest ? (
         <p>{latest.occurredOn}: {WATER_TYPE_LABELS[latest.waterType]}{latest.maxDepthM != null && `, up to ${latest.maxDepthM} m`}{latest.hoursSubmerged != null && `, ${latest.hoursSubmerged} h`}.</p>
       ) : <p className="text-fog">No flood event recorded yet.</p>}
+      <p className="text-xs text-fog">Where the recommendations come from: {FLOOD_GUIDANCE_PROVENANCE}</p>
       {older.length > 0 && (
         <ul className="space-y-1 text-sm text-mist">
           {older.map((e) => <li key={e.id}>{e.occurredOn}: {WATER_TYPE_LABELS[e.waterType]}{e.notes && ` — ${e.notes}`}</li>)}

@@ -26,14 +26,14 @@ export default function PriorityHelpPage() {
     <article className="max-w-3xl space-y-4">
       <p className="text-sm"><Link className="underline" to={paths.defects.href(site.id)}>← Defect register</Link></p>
       <h1 className="text-2xl font-bold">How priority works</h1>
-      <p className="text-mist">Every defect gets points from the same formula; the register and the repair plan list the highest first. Each defect's page shows its own terms under “Why it ranks here”.</p>
+      <p className="text-mist">Every defect gets a priority score from the same formula; the register and the repair plan list the highest first. Each defect's page shows its own terms under “Why it ranks here”.</p>
       <FormulaText />
       <h2 className="text-lg font-bold">The severity scale</h2>
       <dl className="space-y-2">
         {DEFECT_SEVERITIES.map((s) => <div key={s}><dt className="font-semibold">{DEFECT_SEVERITY_LABELS[s]}</dt><dd className="text-mist">{DEFECT_SEVERITY_DEFINITIONS[s]}</dd></div>)}
       </dl>
-      <h2 className="text-lg font-bold">Pins</h2>
-      <p>The curator can pin a defect just above or just below another one, with a reason; the pin and its reason are kept on the defect's page, with who pinned it and when. A pin is against a defect that is in its own place (pins do not chain).</p>
+      <h2 className="text-lg font-bold">Curator's order</h2>
+      <p>The curator can place a defect just before or just after another one, with a reason; the placing and its reason are kept on the defect's page, with who set it and when. A defect is placed against one that sits in its own score's place (placings do not chain).</p>
       <SafetyNotice />
     </article>
   );

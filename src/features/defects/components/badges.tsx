@@ -11,13 +11,23 @@ export function SeverityBadge({ severity }: { severity: DefectSeverity }) {
   return <span className={`inline-block whitespace-nowrap rounded px-2 py-0.5 text-xs font-semibold ${SEVERITY_TONE[severity]}`}>{DEFECT_SEVERITY_LABELS[severity]}</span>;
 }
 
+/*
+ * A defect's state is drawn as a repair tag (the card a crew ties to a part): a notched
+ * left edge, a mark for the stage of the work and the word. The edge colour repeats the
+ * word; it never stands alone. Tideline's own marks: ▲ raised, ◷ scheduled (a clock),
+ * ⚒ under repair, Ω awaiting re-test (the meter's unit), ✓ closed, ⇥ deferred, ≈ accepted as is.
+ */
 const STATUS_MARK: Record<DefectStatus, string> = {
-  open: "○", triaged: "◔", in_repair: "◑", awaiting_verification: "◕", closed: "●", deferred: "⏸", wont_fix: "✕",
+  raised: "▲", scheduled: "◷", under_repair: "⚒", awaiting_retest: "Ω", closed: "✓", deferred: "⇥", accepted_as_is: "≈",
+};
+const STATUS_EDGE: Record<DefectStatus, string> = {
+  raised: "border-l-rust-400", scheduled: "border-l-tide-400", under_repair: "border-l-brass-400", awaiting_retest: "border-l-brass-300",
+  closed: "border-l-kelp-400", deferred: "border-l-hull-500", accepted_as_is: "border-l-hull-500",
 };
 export function StatusBadge({ status }: { status: DefectStatus; title?: string }) {
   return (
-    <span className="inline-flex items-center gap-1 whitespace-nowrap rounded bg-hull-800 px-2 py-0.5 text-xs ring-1 ring-hull-600">
-      <span aria-hidden="true">{STATUS_MARK[status]}</span>
+    <span data-status={status} className={`repair-tag inline-flex items-center gap-1.5 whitespace-nowrap border-l-4 bg-hull-800 py-0.5 pl-2.5 pr-2 text-xs font-semibold ${STATUS_EDGE[status]}`}>
+      <span aria-hidden="true" className="font-mono">{STATUS_MARK[status]}</span>
       {DEFECT_STATUS_LABELS[status]}
     </span>
   );

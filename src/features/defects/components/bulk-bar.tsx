@@ -12,7 +12,7 @@ const control = "mt-1 block min-h-11 rounded-md border border-hull-500 bg-hull-9
 export function BulkBar({ siteId, ids, options, onDone }: { siteId: string; ids: string[]; options?: DefectOptions; onDone: () => void }) {
   const [kind, setKind] = useState<Kind>("assign");
   const [assignee, setAssignee] = useState("");
-  const [to, setTo] = useState<DefectStatus>("triaged");
+  const [to, setTo] = useState<DefectStatus>("scheduled");
   const [reason, setReason] = useState("");
   const [due, setDue] = useState("");
   const [confirming, setConfirming] = useState(false);
@@ -55,7 +55,7 @@ export function BulkBar({ siteId, ids, options, onDone }: { siteId: string; ids:
                 {DEFECT_STATUSES.map((s) => <option key={s} value={s}>{DEFECT_STATUS_LABELS[s]}</option>)}
               </select>
             </label>
-            <label className="text-sm font-semibold text-mist">Reason (deferring or won't fix)
+            <label className="text-sm font-semibold text-mist">Reason (deferring or accepting as is)
               <input className={`${control} w-64`} value={reason} onChange={(e) => setReason(e.target.value)} />
             </label>
           </>

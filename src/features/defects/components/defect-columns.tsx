@@ -13,7 +13,7 @@ const date = (s: string) => s.slice(0, 10);
 
 /** Column labels for the column menu and the CSV (ids match the server's sort keys). */
 export const COLUMN_LABELS: Record<string, string> = {
-  ref: "Ref", priority: "Points", title: "Defect", board: "Board", position: "Position", category: "Category",
+  ref: "Ref", priority: "Priority score", title: "Defect", board: "Board", position: "Position", category: "Category",
   severity: "Severity", status: "Status", assignee: "Assignee", dueOn: "Due", effortHours: "Effort (h)",
   costEstimate: "Cost", createdAt: "Raised", updatedAt: "Updated",
 };
@@ -42,11 +42,11 @@ export function makeColumns(siteId: string) {
       ),
     }),
     col.accessor("priorityScore", {
-      id: "priority", header: "Points",
+      id: "priority", header: "Priority score",
       cell: (c) => (
         <span className="font-mono">
           {c.getValue()}
-          {c.row.original.pinned && <span className="ml-1 rounded bg-tide-700 px-1 text-xs text-tide-300" title={`Pinned ${c.row.original.pinned} another defect`}>{c.row.original.pinned === "above" ? "↑" : "↓"} pin<span className="sr-only">ned {c.row.original.pinned}</span></span>}
+          {c.row.original.pinned && <span className="ml-1 rounded bg-tide-700 px-1 text-xs text-tide-300" title={`Placed by the curator ${c.row.original.pinned === "above" ? "before" : "after"} another defect`}>{c.row.original.pinned === "above" ? "↑" : "↓"} order<span className="sr-only"> set by the curator: {c.row.original.pinned === "above" ? "before" : "after"}</span></span>}
         </span>
       ),
     }),

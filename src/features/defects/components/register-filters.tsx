@@ -4,7 +4,7 @@ import type { DefectOptions, Flag } from "../../../schemas/defects";
 import type { RegisterState } from "../url-state";
 
 const FLAG_LABELS: Record<Flag, string> = {
-  safety: "Safety-critical", blocking: "Blocks energising", pinned: "Pinned", unassigned: "Nobody assigned", overdue: "Past due",
+  safety: "Safety-critical", blocking: "Blocks energising", pinned: "Curator's order", unassigned: "Nobody assigned", overdue: "Past due",
 };
 type FacetKey = "board" | "category" | "severity" | "status" | "assignee" | "flag";
 

@@ -33,7 +33,7 @@ export function RepairPlanSheet({ siteId, plan }: { siteId: string; plan: Repair
                 <tbody>
                   {s.defects.map((d) => (
                     <tr key={d.id} className="border-b border-hull-700">
-                      <td className="px-2 py-1 font-mono">{d.rank}{d.pinned && <span title="Pinned by the curator" className="ml-1 text-xs">{d.pinned === "above" ? "↑" : "↓"} pin<span className="sr-only">ned</span></span>}</td>
+                      <td className="px-2 py-1 font-mono">{d.rank}{d.pinned && <span title="Order set by the curator" className="ml-1 text-xs">{d.pinned === "above" ? "↑" : "↓"} order<span className="sr-only"> set by the curator</span></span>}</td>
                       <td className="px-2 py-1 font-mono"><Link to={paths.defect.href(siteId, d.id)}>D-{d.ref}</Link></td>
                       <td className="px-2 py-1 font-mono">{d.designation ?? "—"}</td>
                       <td className="px-2 py-1">{d.title}<FlagMarks safety={d.safetyCritical} blocking={d.blocksEnergisation} /></td>

@@ -10,10 +10,10 @@ export function WhyItRanks({ siteId, detail }: { siteId: string; detail: DefectD
       <h2 id="why-title" className="text-lg font-bold">Why it ranks here</h2>
       <p className="text-mist">
         {detail.rank ? <>Number <strong className="text-chalk">{detail.rank}</strong> in the site's order</> : "Not ranked"}
-        {detail.defect.pinned && <> — pinned {detail.defect.pinned} another defect by the curator</>}.
+        {detail.defect.pinned && <> — placed {detail.defect.pinned === "above" ? "before" : "after"} another defect by the curator</>}.
       </p>
       <table className="mt-2 w-full max-w-md text-sm">
-        <caption className="sr-only">Priority points by term</caption>
+        <caption className="sr-only">Priority score by term</caption>
         <tbody>
           {detail.terms.map((t) => (
             <tr key={t.key} className="border-b border-hull-700">
@@ -22,12 +22,12 @@ export function WhyItRanks({ siteId, detail }: { siteId: string; detail: DefectD
             </tr>
           ))}
           <tr>
-            <th scope="row" className="py-1 text-left font-semibold">Points</th>
+            <th scope="row" className="py-1 text-left font-semibold">Priority score</th>
             <td className="py-1 text-right font-mono font-semibold">{total}</td>
           </tr>
         </tbody>
       </table>
-      <p className="mt-2 text-sm"><Link className="underline" to={paths.priorityHelp.href(siteId)}>How the points are worked out</Link></p>
+      <p className="mt-2 text-sm"><Link className="underline" to={paths.priorityHelp.href(siteId)}>How the priority score is worked out</Link></p>
     </section>
   );
 }

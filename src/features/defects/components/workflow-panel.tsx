@@ -6,8 +6,8 @@ import type { DefectDetail, DefectOptions } from "../../../schemas/defects";
 import { useAssignDefect, useMoveDefect } from "../api";
 
 const VERB: Partial<Record<DefectStatus, string>> = {
-  triaged: "Mark triaged", in_repair: "Start the repair", awaiting_verification: "Repair done: ask for verification",
-  closed: "Verified: close", open: "Reopen", deferred: "Defer", wont_fix: "Won't fix",
+  scheduled: "Schedule the work", under_repair: "Start the repair", awaiting_retest: "Repair done: ready for re-test",
+  closed: "Re-tested: close", raised: "Reopen", deferred: "Defer", accepted_as_is: "Accept as is",
 };
 
 /** Status moves this person may make (from the server's allowedTargets), and the curator's assignment. */
@@ -23,18 +23,18 @@ export function WorkflowPanel({ siteId, detail, options, canManage }: { siteId: 
       {detail.allowedTargets.length === 0 && <p className="text-mist">Your role cannot move this defect from “{DEFECT_STATUS_LABELS[d.status]}”.</p>}
       {detail.allowedTargets.length > 0 && (
         <>
-          <label className="mt-2 block text-sm font-semibold text-mist">Note or reason (needed to defer or decline)
+          <label className="mt-2 block text-sm font-semibold text-mist">Note or reason (needed to defer or accept as is)
             <input value={reason} onChange={(e) => setReason(e.target.value)} maxLength={2000} className="mt-1 block min-h-11 w-full rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk" />
           </label>
           <div className="mt-2 flex flex-wrap gap-2">
             {detail.allowedTargets.map((to) => (
-              <Button key={to} tone={to === "wont_fix" || to === "deferred" ? "quiet" : "primary"} disabled={move.isPending}
+              <Button key={to} tone={to === "accepted_as_is" || to === "deferred" ? "quiet" : "primary"} disabled={move.isPending}
                 onClick={() => move.mutate({ to, reason, version: d.version }, { onSuccess: () => setReason("") })}>
                 {VERB[to] ?? DEFECT_STATUS_LABELS[to]}
               </Button>
             ))}
           </div>
-          {d.status === "awaiting_verification" && <p className="mt-2 text-sm text-mist">Closing needs someone other than the person who did the repair.</p>}
+          {d.status === "awaiting_retest" && <p className="mt-2 text-sm text-mist">Closing needs someone other than the person who did the repair.</p>}
         </>
       )}
       {canManage && (

@@ -17,14 +17,17 @@ export function HeritageRuleBadge({ rule, large = false }: { rule: HeritageRule;
   );
 }
 
-const STEPS: PartStatus[] = ["wanted", "lead_found", "acquired", "received", "fitted"];
+/*
+ * Where the part is on its way to the board, as a store-room word with a mark of its own
+ * (⌕ hunted, ☍ a lead, ⛟ on its way, ☑ in the store and inspected, ⚙ fitted, — cancelled).
+ */
+const PART_MARK: Record<PartStatus, string> = { wanted: "⌕", lead_found: "☍", acquired: "⛟", received: "☑", fitted: "⚙", cancelled: "—" };
 
 export function PartStatusBadge({ status }: { status: PartStatus }) {
-  const step = STEPS.indexOf(status);
-  const cls = status === "cancelled" ? "bg-hull-700 text-mist line-through decoration-1" : status === "fitted" ? "bg-kelp-700 text-chalk" : "bg-hull-700 text-chalk";
+  const cls = status === "cancelled" ? "border-hull-600 text-mist line-through decoration-1" : status === "fitted" ? "border-kelp-400 text-kelp-300" : "border-hull-500 text-chalk";
   return (
-    <span className={`inline-flex items-center gap-1 whitespace-nowrap rounded px-2 py-0.5 text-sm ${cls}`}>
-      {step >= 0 && <span className="font-mono text-xs text-mist" aria-hidden="true">{step + 1}/5</span>}
+    <span className={`inline-flex items-center gap-1 whitespace-nowrap border-b-2 px-1 py-0.5 text-sm ${cls}`}>
+      <span className="font-mono text-xs" aria-hidden="true">{PART_MARK[status]}</span>
       {PART_STATUS_LABELS[status]}
     </span>
   );

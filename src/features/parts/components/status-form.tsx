@@ -62,7 +62,7 @@ export function StatusForm({ siteId, detail }: { siteId: string; detail: LineDet
               <input type="radio" name="heritageAfter" value={v} defaultChecked={i === 0} className="h-5 w-5" /> {label}
             </label>
           ))}
-          <p className="text-xs text-fog">Each component this line is for is marked refitted; each linked defect moves to awaiting verification. Re-test before energising — a qualified person decides.</p>
+          <p className="text-xs text-fog">Each component this line is for is marked refitted; each linked defect moves to awaiting re-test. Re-test before energising — a qualified person decides.</p>
         </fieldset>
       )}
       {to === "received" && <p className="text-sm text-mist">Each component this line is for will show custody “ready to refit”.</p>}
