@@ -1,3 +1,4 @@
+import { sql } from "kysely";
 import { hashPassword } from "../auth/password";
 import { findUserByEmail } from "../auth/repository";
 import type { Db } from "../db";
@@ -40,12 +41,17 @@ export async function sendResetLink(deps: MailDeps, email: string) {
   });
   const jobs = deps.jobs;
   if (jobs) {
-    // The link and its e-mail commit together; the outbox job delivers and retries.
-    await deps.db.transaction().execute(async (trx) => {
+    // The link and its e-mail commit together; the outbox job delivers and retries. One
+    // request per account at a time (a transaction-scoped advisory lock), so requests
+    // arriving together cannot all pass the hourly count.
+    const queued = await deps.db.transaction().execute(async (trx) => {
+      await sql`select pg_advisory_xact_lock(hashtext(${"password-reset:" + user.id}))`.execute(trx);
+      if ((await repo.countRecent(trx, user.id, hourAgo)) >= MAX_PER_HOUR) return false;
       await repo.insertReset(trx, reset);
       await queueMail(trx, jobs, { to: user.email, ...msg });
+      return true;
     });
-    return { sent: true as const, reason: undefined };
+    return queued ? { sent: true as const, reason: undefined } : { sent: false as const, reason: "too_many" };
   }
   await repo.insertReset(deps.db, reset);
   const r = await deps.mailer.send({ to: user.email, ...msg });
