@@ -22,7 +22,9 @@ const provider: MigrationProvider = {
 
 /** Runs every migration in db/migrations not yet applied; throws on the first failure. */
 export async function migrateToLatest(db: Kysely<any>): Promise<string[]> {
-  const { error, results } = await new Migrator({ db, provider }).migrateToLatest();
+  // Engineers land migrations in parallel under their own timestamp prefixes: a database that already ran a
+  // later-stamped one must still take an earlier-stamped one that arrives after it.
+  const { error, results } = await new Migrator({ db, provider, allowUnorderedMigrations: true }).migrateToLatest();
   if (error) {
     const failed = results?.find((r) => r.status === "Error")?.migrationName ?? "unknown";
     throw new Error(`migration ${failed} failed: ${error instanceof Error ? error.message : String(error)}`);

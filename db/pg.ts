@@ -120,6 +120,11 @@ export async function startCluster(opts: ClusterOptions): Promise<Cluster> {
   };
 }
 
+/** Runs pg_ctl on a cluster folder as the user that owns it (fault tests stop and start their own cluster). */
+export function pgCtl(dataDir: string, args: string[]) {
+  return asPostgres(join(pgBin(), "pg_ctl"), ["-D", dataDir, ...args], true);
+}
+
 function chownPostgres(dir: string) {
   const uid = Number(execFileSync("id", ["-u", "postgres"]).toString());
   const gid = Number(execFileSync("id", ["-g", "postgres"]).toString());

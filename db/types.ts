@@ -187,9 +187,17 @@ export interface DispositionDecisionsTable {
   decidedAt: Timestamp;
 }
 
+/** rate-limiter-flexible's PostgreSQL store (server/auth/throttle.ts); expire is ms since the epoch. */
+export interface RateLimitsTable {
+  key: string;
+  points: number;
+  expire: number | null;
+}
+
 export interface AuditLogTable {
   id: Generated<number>;
-  siteId: string;
+  /** null for what belongs to no site: sign-ins, accounts (migration 2026_12_02_0200). */
+  siteId: string | null;
   entityType: string;
   entityId: string;
   boardId: string | null;
@@ -549,6 +557,7 @@ export interface Database {
   custodyMoves: CustodyMovesTable;
   dispositionDecisions: DispositionDecisionsTable;
   auditLog: AuditLogTable;
+  rateLimits: RateLimitsTable;
   defects: DefectsTable;
   photos: PhotosTable;
   invitations: InvitationsTable;

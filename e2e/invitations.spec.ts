@@ -88,3 +88,26 @@ test("an instance admin reads the local mailbox and opens an invitation from it"
   await expect(page.getByRole("heading", { name: `Join the ${DEMO_SITE} crew` })).toBeVisible();
   await api.dispose();
 });
+
+test("an address that already has an account gets the same invitation and joins only when it accepts with its password", async ({ page, browser, baseURL }) => {
+  const email = uniqueEmail("has-account");
+  const api = await adminApi(baseURL!);
+  const created = await api.post("/api/admin/users", { data: { email, name: "Oriel Fathomley", password: "deckhouse-compass-rose", isAdmin: false } });
+  expect(created.status()).toBe(201);
+
+  await openCrewPage(page);
+  await invite(page, email, "Viewer"); // the same answer as for a newcomer: nothing says the address has an account
+  await expect(page.getByRole("listitem").filter({ hasText: "Oriel Fathomley" })).toHaveCount(0);
+
+  const link = linkIn(await waitForMail(api, email, /invited/), "/invite/");
+  const ctx = await browser.newContext();
+  const guest = await ctx.newPage();
+  await guest.goto(link);
+  await expect(guest.getByText("This address already has a Tideline account")).toBeVisible();
+  await guest.getByLabel("Password").fill("deckhouse-compass-rose");
+  await guest.getByRole("button", { name: "Sign in and join" }).click();
+  await expect(guest.getByTestId("site-name")).toHaveText(DEMO_SITE);
+  await expect(guest.getByTestId("user-name")).toHaveText("Oriel Fathomley");
+  await ctx.close();
+  await api.dispose();
+});

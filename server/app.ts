@@ -4,10 +4,12 @@ import { join } from "node:path";
 import express, { Router } from "express";
 import { createLucia } from "./auth/lucia";
 import { authRoutes } from "./auth/routes";
+import { createLimiters } from "./auth/throttle";
 import type { Db } from "./db";
 import { AppError } from "./errors";
 import { databaseState } from "./health";
 import { errorHandler } from "./middleware/error-handler";
+import { allowedHostsFrom, hostAllowlist, parseHostList, plainErrorPage, securityHeaders } from "./middleware/hardening";
 import { originCheck } from "./middleware/origin";
 import { sessionMiddleware } from "./middleware/session";
 import { readingRoutes } from "./readings/routes";
@@ -41,6 +43,8 @@ export interface AppDeps {
   photoStorage?: PhotoStorage;
   /** The background job queue (server/jobs): e-mail goes through its outbox, photo renditions through its worker. */
   jobs?: Jobs;
+  /** Host names served besides loopback and PUBLIC_URL's host (default: ALLOWED_HOSTS). */
+  allowedHosts?: string[];
 }
 
 /** The app without a job queue cannot make photo renditions; say so instead of failing obscurely. */
@@ -55,6 +59,8 @@ export function createApp(deps: AppDeps) {
   const lucia = createLucia(db);
   const photoStorage = deps.photoStorage ?? storageFromEnv();
   const mail = { db, mailer: deps.mailer ?? unconfiguredMailer(), publicUrl: (deps.publicUrl ?? "http://127.0.0.1:3000").replace(/\/+$/, ""), jobs: deps.jobs };
+  app.use(hostAllowlist(allowedHostsFrom({ publicUrl: mail.publicUrl, extra: deps.allowedHosts ?? parseHostList(process.env.ALLOWED_HOSTS) })));
+  app.use(securityHeaders({ https: mail.publicUrl.startsWith("https:") }));
 
   const api = Router();
   api.get("/health", async (_req, res) => {
@@ -65,13 +71,14 @@ export function createApp(deps: AppDeps) {
   api.use(express.json({ limit: "1mb" }));
   api.use(originCheck());
   api.use(sessionMiddleware(lucia));
-  api.use(authRoutes(db, lucia));
+  const limiters = createLimiters(db);
+  api.use(authRoutes(db, lucia, { mail, limiters }));
   api.use(siteRoutes(db));
   api.use(photoRoutes(db, photoStorage, deps.jobs ?? missingJobs()));
   api.use(readingRoutes(db));
   api.use(inventoryRoutes(db));
-  api.use(invitationRoutes(mail, lucia));
-  api.use(passwordResetRoutes(mail, lucia));
+  api.use(invitationRoutes(mail, lucia, limiters));
+  api.use(passwordResetRoutes(mail, lucia, limiters));
   api.use(notificationRoutes(db));
   api.use(mailboxRoutes(deps.mailbox));
   api.use(defectRoutes(db, mail));
@@ -89,5 +96,6 @@ export function createApp(deps: AppDeps) {
     app.use(express.static(dir, { index: false, maxAge: "1h", immutable: false }));
     app.get("/{*splat}", (_req, res) => res.sendFile(join(dir, "index.html")));
   }
+  app.use(plainErrorPage);
   return app;
 }

@@ -1,7 +1,8 @@
 import type { Db } from "./db";
 
 export interface AuditEntry {
-  siteId: string;
+  /** null for what belongs to no site (sign-ins, accounts). */
+  siteId: string | null;
   entityType: string;
   entityId: string;
   action: string;
@@ -31,6 +32,15 @@ export async function recordAudit(db: Db, e: AuditEntry) {
       after: json(e.after),
     })
     .execute();
+}
+
+/** Many audit rows in one statement per 1,000 (set-based writers such as the wanted list's demand sync). */
+export async function recordAuditMany(db: Db, entries: readonly AuditEntry[]) {
+  const rows = entries.map((e) => ({
+    siteId: e.siteId, entityType: e.entityType, entityId: e.entityId, action: e.action, actorId: e.actorId,
+    boardId: e.boardId ?? null, positionId: e.positionId ?? null, before: json(e.before), after: json(e.after),
+  }));
+  for (let i = 0; i < rows.length; i += 1000) await db.insertInto("auditLog").values(rows.slice(i, i + 1000)).execute();
 }
 
 /** The changed fields of an update, as { before, after } holding only those keys. */

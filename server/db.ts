@@ -10,6 +10,10 @@ pg.types.setTypeParser(pg.types.builtins.DATE, (v) => v);
 
 export type Db = Kysely<Database>;
 
+const pools = new WeakMap<Db, pg.Pool>();
+/** The pg Pool under a Db made by createDb, for libraries that take a pool (the rate limiter's store). */
+export const poolOf = (db: Db): pg.Pool | undefined => pools.get(db);
+
 export interface DbOptions {
   /** Connections in the pool (DATABASE_POOL_MAX, default 10: PostgreSQL allows 100, and several processes share it). */
   max?: number;
@@ -62,7 +66,9 @@ export function createDb(connectionString: string, options: number | DbOptions =
   });
   // The pool re-emits an idle client's error; the client's own listener above has logged it.
   pool.on("error", () => {});
-  return new Kysely<Database>({ dialect: new PostgresDialect({ pool }), plugins: [new CamelCasePlugin()] });
+  const db = new Kysely<Database>({ dialect: new PostgresDialect({ pool }), plugins: [new CamelCasePlugin()] });
+  pools.set(db, pool);
+  return db;
 }
 
 let lastLog = 0;

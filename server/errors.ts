@@ -6,6 +6,8 @@ export class AppError extends Error {
     message: string,
     public fields?: Record<string, string>,
     public details?: unknown,
+    /** Extra response headers, e.g. Retry-After on a 429. */
+    public headers?: Record<string, string>,
   ) {
     super(message);
   }

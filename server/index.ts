@@ -79,6 +79,7 @@ export function stopOnSignals(running: Running, after: () => Promise<void> | voi
 }
 
 if (import.meta.url === `file://${process.argv[1]}`) {
+  process.env.NODE_ENV ??= "production";
   if (!process.env.DATABASE_URL) {
     console.error("Set DATABASE_URL, or use `npm start` for the embedded database.");
     process.exit(1);

@@ -1,5 +1,13 @@
+import { createHash } from "node:crypto";
 import { Lucia, TimeSpan, type Adapter, type DatabaseSession, type DatabaseUser } from "lucia";
 import type { Db } from "../db";
+
+/**
+ * The database keeps the SHA-256 of each session id, never the id itself (the cookie's
+ * value): a copy of the sessions table does not let anyone sign in as the crew.
+ * Migration 2026_12_02_0230 ended the sessions stored before this.
+ */
+export const sessionKey = (sessionId: string) => createHash("sha256").update(sessionId).digest("hex");
 
 /** lucia v3's storage contract over Kysely: sessions and users live in PostgreSQL. */
 export function kyselyAdapter(db: Db): Adapter {
@@ -19,23 +27,24 @@ export function kyselyAdapter(db: Db): Adapter {
         .selectFrom("sessions")
         .innerJoin("users", "users.id", "sessions.userId")
         .select(["sessions.id", "sessions.userId", "sessions.expiresAt", "users.email", "users.name", "users.isAdmin"])
-        .where("sessions.id", "=", sessionId)
+        .where("sessions.id", "=", sessionKey(sessionId))
         .executeTakeFirst();
       if (!row) return [null, null];
-      return [toSession(row), toUser({ id: row.userId, email: row.email, name: row.name, isAdmin: row.isAdmin })];
+      return [toSession({ ...row, id: sessionId }), toUser({ id: row.userId, email: row.email, name: row.name, isAdmin: row.isAdmin })];
     },
+    /** The ids here are the stored hashes: enough to count and expire sessions, useless as cookies. */
     async getUserSessions(userId) {
       const rows = await db.selectFrom("sessions").selectAll().where("userId", "=", userId).execute();
       return rows.map(toSession);
     },
     async setSession(s) {
-      await db.insertInto("sessions").values({ id: s.id, userId: s.userId, expiresAt: s.expiresAt }).execute();
+      await db.insertInto("sessions").values({ id: sessionKey(s.id), userId: s.userId, expiresAt: s.expiresAt }).execute();
     },
     async updateSessionExpiration(sessionId, expiresAt) {
-      await db.updateTable("sessions").set({ expiresAt }).where("id", "=", sessionId).execute();
+      await db.updateTable("sessions").set({ expiresAt }).where("id", "=", sessionKey(sessionId)).execute();
     },
     async deleteSession(sessionId) {
-      await db.deleteFrom("sessions").where("id", "=", sessionId).execute();
+      await db.deleteFrom("sessions").where("id", "=", sessionKey(sessionId)).execute();
     },
     async deleteUserSessions(userId) {
       await db.deleteFrom("sessions").where("userId", "=", userId).execute();

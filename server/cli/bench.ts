@@ -41,7 +41,7 @@ async function seed(db: Db) {
   await sql`INSERT INTO boards (site_id, name) SELECT ${s}, 'Board ' || b FROM generate_series(1, 10) b`.execute(db);
   await sql`INSERT INTO sections (site_id, board_id, name, sort_order) SELECT ${s}, b.id, b.name || ' / section ' || k, k FROM boards b, generate_series(1, 8) k WHERE b.site_id = ${s}`.execute(db);
   await sql`INSERT INTO positions (site_id, board_id, section_id, designation, kind, grid_row, grid_col)
-    SELECT ${s}, sec.board_id, sec.id, sec.sort_order || '-' || n, 'molded_case_breaker', 1 + n / 60, 1 + n % 60
+    SELECT ${s}, sec.board_id, sec.id, sec.sort_order || '-' || n, 'molded_case_breaker', 1 + (sec.sort_order * ${POSITIONS / 80} + n) / 60, 1 + (sec.sort_order * ${POSITIONS / 80} + n) % 60
     FROM sections sec, generate_series(1, ${POSITIONS / 80}) n WHERE sec.site_id = ${s}`.execute(db);
   await sql`INSERT INTO components (site_id, position_id, kind, heritage)
     SELECT site_id, id, kind, (ARRAY['original','original','period','modern'])[1 + (abs(hashtext(id::text)) % 4)] FROM positions WHERE site_id = ${s}`.execute(db);

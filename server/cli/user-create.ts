@@ -41,7 +41,7 @@ if (!input.success) {
 }
 const { local, db } = await prepareDatabase("dev", undefined, { seed: false });
 try {
-  const user = await createUser(db, input.data);
+  const user = await createUser(db, input.data, null);
   console.log(`[tideline] created ${user.email}${user.isAdmin ? " (instance admin)" : ""}`);
 } catch (e) {
   console.error(`[tideline] ${e instanceof Error ? e.message : e}`);

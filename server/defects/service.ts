@@ -11,6 +11,7 @@ import { priorityScore } from "../../src/domain/priority";
 import type { DefectStatus } from "../../src/domain/vocab";
 import type { BulkBody, CreateDefectBody, PatchDefectBody } from "../../src/schemas/defects";
 import * as repo from "./repository";
+import { demandChanged } from "../parts/service";
 
 export interface Ctx {
   siteId: string;
@@ -92,6 +93,7 @@ export async function createDefect(db: Db, ctx: Ctx, body: CreateDefectBody) {
     await repo.insertStatusChange(trx, { siteId: ctx.siteId, defectId: id, fromStatus: null, toStatus: "raised", actorId: ctx.actor.id });
     await recordAudit(trx, { siteId: ctx.siteId, entityType: "defect", entityId: id, action: "create", actorId: ctx.actor.id, boardId: links.boardId, positionId: links.positionId, after: values });
     if (assigneeId) await assign(trx, ctx, await lockAt(trx, ctx, id), assigneeId);
+    await demandChanged(trx, ctx.siteId, { defectIds: [id] }, ctx.actor.id); // parts wanted → the wanted list, in this transaction
     return (await current(trx, ctx.siteId, id))!;
   });
 }
@@ -117,6 +119,7 @@ export async function patchDefect(db: Db, ctx: Ctx, id: string, body: PatchDefec
       if (!ok) throw conflict("Someone changed this defect at the same moment.", await current(trx, ctx.siteId, id));
       version += 1;
       await recordAudit(trx, { siteId: ctx.siteId, entityType: "defect", entityId: id, action: "update", actorId: ctx.actor.id, boardId: d.boardId, positionId: next.positionId, before: change.before, after: change.after });
+      await demandChanged(trx, ctx.siteId, { defectIds: [id] }, ctx.actor.id);
     }
     if (assigneeId !== undefined && assigneeId !== d.assigneeId) await assign(trx, ctx, { ...d, version }, assigneeId);
     return (await current(trx, ctx.siteId, id))!;
@@ -161,6 +164,7 @@ export async function transition(trx: Db, ctx: Ctx, d: Locked, to: DefectStatus,
 export async function moveDefect(db: Db, ctx: Ctx, id: string, b: { to: DefectStatus; reason: string; repairedBy?: string | null; version: number }) {
   return db.transaction().execute(async (trx) => {
     await transition(trx, ctx, await lockAt(trx, ctx, id, b.version), b.to, b);
+    await demandChanged(trx, ctx.siteId, { defectIds: [id] }, ctx.actor.id); // closed / won't fix / reopened changes what is wanted
     return (await current(trx, ctx.siteId, id))!;
   });
 }
@@ -192,6 +196,7 @@ export async function bulk(db: Db, ctx: Ctx, b: BulkBody) {
     }
     if (Object.keys(errors).length)
       throw new AppError(409, "bulk_rejected", `Nothing was changed: ${Object.keys(errors).length} of ${ids.length} defects cannot take that change.`, errors);
+    if (b.action.type === "status") await demandChanged(trx, ctx.siteId, { defectIds: ids }, ctx.actor.id);
     return { updated: ids.length };
   });
 }

@@ -1,4 +1,5 @@
 import { sql } from "kysely";
+import { recordAudit } from "../audit";
 import type { Db } from "../db";
 import { AppError, notFound } from "../errors";
 import { listQuery } from "../../src/schemas/defects";
@@ -18,7 +19,11 @@ const taken = () => new AppError(409, "name_taken", "You already have a view wit
 export async function saveView(db: Db, siteId: string, userId: string, b: { name: string; query: string }) {
   checkQuery(b.query);
   try {
-    return await db.insertInto("defectViews").values({ siteId, userId, name: b.name, query: b.query }).returning(["id", "name", "query", "version", "updatedAt"]).executeTakeFirstOrThrow();
+    return await db.transaction().execute(async (trx) => {
+      const row = await trx.insertInto("defectViews").values({ siteId, userId, name: b.name, query: b.query }).returning(["id", "name", "query", "version", "updatedAt"]).executeTakeFirstOrThrow();
+      await recordAudit(trx, { siteId, entityType: "defect_view", entityId: row.id, action: "create", actorId: userId, after: b });
+      return row;
+    });
   } catch (e) {
     if ((e as { code?: string }).code === "23505") throw taken();
     throw e;
@@ -28,14 +33,17 @@ export async function saveView(db: Db, siteId: string, userId: string, b: { name
 export async function updateView(db: Db, siteId: string, userId: string, id: string, b: { name: string; query: string }) {
   checkQuery(b.query);
   try {
-    const row = await db
-      .updateTable("defectViews")
-      .set({ name: b.name, query: b.query, version: sql`version + 1`, updatedAt: sql`now()` })
-      .where("id", "=", id).where("siteId", "=", siteId).where("userId", "=", userId)
-      .returning(["id", "name", "query", "version", "updatedAt"])
-      .executeTakeFirst();
-    if (!row) throw notFound("That saved view");
-    return row;
+    return await db.transaction().execute(async (trx) => {
+      const row = await trx
+        .updateTable("defectViews")
+        .set({ name: b.name, query: b.query, version: sql`version + 1`, updatedAt: sql`now()` })
+        .where("id", "=", id).where("siteId", "=", siteId).where("userId", "=", userId)
+        .returning(["id", "name", "query", "version", "updatedAt"])
+        .executeTakeFirst();
+      if (!row) throw notFound("That saved view");
+      await recordAudit(trx, { siteId, entityType: "defect_view", entityId: id, action: "update", actorId: userId, after: b });
+      return row;
+    });
   } catch (e) {
     if ((e as { code?: string }).code === "23505") throw taken();
     throw e;
@@ -43,8 +51,11 @@ export async function updateView(db: Db, siteId: string, userId: string, id: str
 }
 
 export async function deleteView(db: Db, siteId: string, userId: string, id: string) {
-  const r = await db.deleteFrom("defectViews").where("id", "=", id).where("siteId", "=", siteId).where("userId", "=", userId).executeTakeFirst();
-  if (!r.numDeletedRows) throw notFound("That saved view");
+  await db.transaction().execute(async (trx) => {
+    const r = await trx.deleteFrom("defectViews").where("id", "=", id).where("siteId", "=", siteId).where("userId", "=", userId).executeTakeFirst();
+    if (!r.numDeletedRows) throw notFound("That saved view");
+    await recordAudit(trx, { siteId, entityType: "defect_view", entityId: id, action: "delete", actorId: userId });
+  });
 }
 
 export const listViews = repo.listViews;

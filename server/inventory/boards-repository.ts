@@ -12,20 +12,27 @@ export const latestFloodEvent = (db: Db, siteId: string) =>
 export const insertFloodEvent = (db: Db, v: Insertable<FloodEventsTable>) =>
   db.insertInto("floodEvents").values(v).returningAll().executeTakeFirstOrThrow();
 
-/** Boards with their position count and how many positions have at least one inspection. */
+/**
+ * Boards with their position count and how many positions have at least one inspection: one
+ * grouped pass over the site's positions (hash-joined to the inspected positions), not a
+ * correlated count per board.
+ */
 export const listBoards = (db: Db, siteId: string) =>
   db
+    .with("counts", (w) =>
+      w.selectFrom("positions as p")
+        .leftJoin(
+          (eb) => eb.selectFrom("inspections as i").select("i.positionId").distinct().where("i.siteId", "=", siteId).as("s"),
+          (j) => j.onRef("s.positionId", "=", "p.id"),
+        )
+        .select(["p.boardId", (eb) => eb.fn.countAll<number>().as("n"), (eb) => eb.fn.count<number>("s.positionId").as("surveyed")])
+        .where("p.siteId", "=", siteId)
+        .groupBy("p.boardId"),
+    )
     .selectFrom("boards as b")
+    .leftJoin("counts", "counts.boardId", "b.id")
     .selectAll("b")
-    .select((eb) => [
-      eb.selectFrom("positions as p").whereRef("p.boardId", "=", "b.id").select(eb.fn.countAll<number>().as("n")).as("positionCount"),
-      eb
-        .selectFrom("positions as p")
-        .whereRef("p.boardId", "=", "b.id")
-        .where((w) => w.exists(w.selectFrom("inspections as i").select("i.id").whereRef("i.positionId", "=", "p.id")))
-        .select(eb.fn.countAll<number>().as("n"))
-        .as("surveyedCount"),
-    ])
+    .select([sql<number>`coalesce(counts.n, 0)::int`.as("positionCount"), sql<number>`coalesce(counts.surveyed, 0)::int`.as("surveyedCount")])
     .where("b.siteId", "=", siteId)
     .orderBy("b.name")
     .execute();

@@ -7,6 +7,7 @@ import type { Db } from "../db";
 import { AppError } from "../errors";
 import { UNIQUE, defined, mapUnique, requireOwned, stale, updateVersioned } from "./common";
 import * as repo from "./positions-repository";
+import { demandChanged, demandOfPosition } from "../parts/service";
 
 type Board = Selectable<BoardsTable>;
 interface Cell { gridRow: number; gridCol: number; rowSpan?: number; colSpan?: number }
@@ -22,6 +23,27 @@ export function gridFields(board: Pick<Board, "gridRows" | "gridCols">, c: Cell,
 function requireFits(board: Board, c: Cell) {
   const f = gridFields(board, c);
   if (Object.keys(f).length) throw new AppError(400, "invalid_input", "That position does not fit on the board's grid.", f);
+}
+
+const overlaps = (a: Required<Cell>, b: Required<Cell>) =>
+  a.gridRow < b.gridRow + b.rowSpan && b.gridRow < a.gridRow + a.rowSpan && a.gridCol < b.gridCol + b.colSpan && b.gridCol < a.gridCol + a.colSpan;
+const full = (c: Cell): Required<Cell> => ({ gridRow: c.gridRow, gridCol: c.gridCol, rowSpan: c.rowSpan ?? 1, colSpan: c.colSpan ?? 1 });
+
+/**
+ * One position per grid cell, as the CSV import refuses: 409 naming the position that
+ * covers the cell. The exclusion constraint positions_one_per_cell (migration
+ * 2026_12_02_0220) backs this for two saves at the same moment.
+ */
+async function requireFreeCells(trx: Db, boardId: string, cells: Cell[], exceptId?: string) {
+  const others = (await repo.boardPositions(trx, boardId)).filter((p) => p.id !== exceptId);
+  for (const c of cells.map(full)) {
+    const hit = others.find((p) => overlaps(full(p), c));
+    if (hit) throw new AppError(409, "cell_taken", `That grid cell is taken by ${hit.designation}.`, { gridRow: `Taken by ${hit.designation}`, gridCol: `Taken by ${hit.designation}` });
+  }
+  const own = cells.map(full);
+  own.forEach((a, i) => {
+    if (own.some((b, j) => j < i && overlaps(a, b))) throw new AppError(409, "cell_taken", "Two of these positions would share a grid cell.", { gridCol: "Overlaps another new position" });
+  });
 }
 
 async function requireSectionOf(db: Db, siteId: string, boardId: string, sectionId: string | null | undefined) {
@@ -45,6 +67,7 @@ export async function createPosition(db: Db, siteId: string, boardId: string, ac
   return db.transaction().execute(async (trx) => {
     const board = await requireOwned(trx, "boards", siteId, boardId, "That board");
     requireFits(board, body);
+    await requireFreeCells(trx, boardId, [body]);
     await requireSectionOf(trx, siteId, boardId, body.sectionId);
     return (await insertWithComponents(trx, siteId, board, actorId, [body]))[0];
   });
@@ -64,6 +87,7 @@ export async function generatePositions(db: Db, siteId: string, boardId: string,
     }));
     const taken = await repo.designationsTaken(trx, boardId, items.map((x) => x.designation));
     if (taken.length) throw new AppError(409, "duplicate", `Already on this board: ${taken.join(", ")}.`, { prefix: `Already used: ${taken.join(", ")}` });
+    await requireFreeCells(trx, boardId, items);
     return insertWithComponents(trx, siteId, board, actorId, items);
   });
 }
@@ -97,6 +121,7 @@ export async function patchPosition(db: Db, siteId: string, id: string, actorId:
     if (before.version !== version) throw stale("position", before);
     const board = await requireOwned(trx, "boards", siteId, before.boardId, "That board");
     requireFits(board, { ...before, ...patch });
+    if (["gridRow", "gridCol", "rowSpan", "colSpan"].some((k) => k in patch)) await requireFreeCells(trx, before.boardId, [{ ...before, ...patch }], id);
     await requireSectionOf(trx, siteId, before.boardId, patch.sectionId);
     const after = await mapUnique(() => updateVersioned(trx, "positions", siteId, id, version, patch, "position"), UNIQUE.designation);
     const d = diff(before as never, patch as never);
@@ -112,6 +137,7 @@ async function followKind(trx: Db, siteId: string, before: { id: string; boardId
   if (!c || c.kind !== before.kind) return;
   await updateVersioned(trx, "components", siteId, c.id, c.version, { kind }, "component");
   await recordAudit(trx, { siteId, entityType: "component", entityId: c.id, boardId: before.boardId, positionId: before.id, action: "update", actorId, before: { kind: c.kind }, after: { kind } });
+  await demandChanged(trx, siteId, { componentIds: [c.id] }, actorId);
 }
 
 /** Removes the position with its component and survey records; the audit keeps what it was. */
@@ -120,8 +146,11 @@ export async function deletePosition(db: Db, siteId: string, id: string, actorId
     const before = await requireOwned(trx, "positions", siteId, id, "That position", true);
     if (version !== undefined && before.version !== version) throw stale("position", before);
     const component = await repo.currentComponent(trx, id);
+    const demand = await demandOfPosition(trx, siteId, id);
     await repo.deletePosition(trx, id);
     await recordAudit(trx, { siteId, entityType: "position", entityId: id, boardId: before.boardId, positionId: id, action: "delete", actorId, before: { ...before, component } });
+    // Its demand links went with the component; lines left empty close, defects that rode on it stand alone.
+    await demandChanged(trx, siteId, demand, actorId);
   });
 }
 

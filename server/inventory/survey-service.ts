@@ -9,6 +9,7 @@ import { UNIQUE, defined, mapUnique, requireOwned, stale, updateVersioned } from
 import { recommendFor } from "./recommendation";
 import * as repo from "./survey-repository";
 import * as positions from "./positions-repository";
+import { demandChanged } from "../parts/service";
 
 type Inspect = z.output<typeof createInspectionBody>;
 type Custody = z.output<typeof custodyBody>;
@@ -27,6 +28,7 @@ export async function patchComponent(db: Db, siteId: string, id: string, actorId
     const d = diff(before as never, patch as never);
     if (d.changed)
       await recordAudit(trx, { siteId, entityType: "component", entityId: id, boardId: await boardOf(trx, before.positionId), positionId: before.positionId, action: "update", actorId, before: d.before, after: d.after });
+    if (d.changed) await demandChanged(trx, siteId, { componentIds: [id] }, actorId); // a nameplate change moves its wanted-list demand
     return after;
   });
 }
@@ -89,6 +91,7 @@ export async function decideDisposition(db: Db, siteId: string, componentId: str
       before: { disposition: before.disposition, dispositionReason: before.dispositionReason, dispositionOverridden: before.dispositionOverridden },
       after: { disposition: b.disposition, dispositionReason: b.reason, recommended, dispositionOverridden: overridden },
     });
+    if (b.disposition !== before.disposition) await demandChanged(trx, siteId, { componentIds: [componentId] }, actorId);
     return { component, decision, recommendation };
   });
 }

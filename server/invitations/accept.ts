@@ -6,7 +6,7 @@ import { findUserByEmail, insertUser } from "../auth/repository";
 import type { Db } from "../db";
 import { AppError } from "../errors";
 import { hashToken } from "../one-time-token";
-import { upsertMembership } from "../sites/repository";
+import { joinByInvitation } from "../sites/service";
 import * as repo from "./repository";
 
 const gone = (code: string, message: string) => new AppError(410, code, message);
@@ -51,7 +51,7 @@ export async function acceptInvitation(db: Db, token: string, body: { name?: str
       const { name, password } = acceptNewAccountBody.parse(body);
       userId = (await insertUser(trx, { email: inv.email, name, passwordHash: await hashPassword(password), isAdmin: false })).id;
     }
-    if (!(await repo.isMember(trx, inv.siteId, userId))) await upsertMembership(trx, inv.siteId, userId, inv.role);
+    await joinByInvitation(trx, inv.siteId, userId, inv.role, inv.id);
     await repo.markAccepted(trx, inv.id, userId);
     await recordAudit(trx, { siteId: inv.siteId, entityType: "invitation", entityId: inv.id, action: "accepted", actorId: userId, after: { role: inv.role } });
     return { userId, siteId: inv.siteId };

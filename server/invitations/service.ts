@@ -7,8 +7,7 @@ import { AppError, conflict, notFound } from "../errors";
 import type { MailDeps } from "../mail/mailer";
 import { latestDelivery, queueMail, type Delivery } from "../mail/outbox";
 import { newToken } from "../one-time-token";
-import { upsertMembership } from "../sites/repository";
-import { addedMessage, invitationMessage } from "./messages";
+import { invitationMessage } from "./messages";
 import * as repo from "./repository";
 
 type Actor = { id: string; name: string; isAdmin: boolean };
@@ -88,8 +87,11 @@ async function deliverNow(deps: MailDeps, id: string, p: Delivering) {
 
 export async function createInvitation(deps: MailDeps, siteId: string, email: string, role: Role, actor: Actor) {
   const { db } = deps;
+  // Everyone joins by accepting: an address with an account gets the same invitation and
+  // the same answer as one without (the link then asks for that account's password).
   const existing = await findUserByEmail(db, email);
-  if (existing) return addExistingUser(deps, siteId, existing, role, actor);
+  if (existing && (await repo.isMember(db, siteId, existing.id)))
+    throw new AppError(409, "already_member", "That person is already on this site's crew.", { email: "Already on the crew" });
   const { token, hash } = newToken();
   const expiresAt = expiry();
   const id = await db
@@ -109,19 +111,6 @@ export async function createInvitation(deps: MailDeps, siteId: string, email: st
     });
   await deliverNow(deps, id, { siteId, email, role, token, inviterName: actor.name, expiresAt });
   return { outcome: "invited" as const, invitation: await viewOf(db, siteId, id, actor) };
-}
-
-async function addExistingUser(deps: MailDeps, siteId: string, user: { id: string; email: string }, role: Role, actor: Actor) {
-  // A courtesy note; the membership stands whether or not it is delivered.
-  const note = async (db: Db) => ({ to: user.email, ...addedMessage({ siteName: await siteName(db, siteId), role, inviterName: actor.name, url: `${deps.publicUrl}/sites/${siteId}` }), fromName: `${actor.name} via Tideline` });
-  await deps.db.transaction().execute(async (trx) => {
-    if (await repo.isMember(trx, siteId, user.id)) throw new AppError(409, "already_member", "That person is already on this site's crew.", { email: "Already on the crew" });
-    await upsertMembership(trx, siteId, user.id, role);
-    await recordAudit(trx, { siteId, entityType: "membership", entityId: user.id, action: "added_by_invitation", actorId: actor.id, after: { role } });
-    if (deps.jobs) await queueMail(trx, deps.jobs, await note(trx), { type: "membership", id: user.id });
-  });
-  if (!deps.jobs) await deps.mailer.send(await note(deps.db));
-  return { outcome: "added" as const, invitation: null };
 }
 
 async function liveOrConflict(db: Db, siteId: string, id: string, actor: Actor) {

@@ -2,6 +2,7 @@ import type { ErrorRequestHandler } from "express";
 import { ZodError } from "zod";
 import { dbFailureOf } from "../db-errors";
 import { AppError } from "../errors";
+import { mapPgError } from "./pg-errors";
 
 function zodFields(err: ZodError): Record<string, string> {
   const fields: Record<string, string> = {};
@@ -32,7 +33,14 @@ export const errorHandler: ErrorRequestHandler = (err, _req, res, _next) => {
     const body: Record<string, unknown> = { code: err.code, message: err.message };
     if (err.fields) body.fields = err.fields;
     if (err.details !== undefined) body.current = err.details;
+    if (err.headers) res.set(err.headers);
     res.status(err.status).json({ error: body });
+    return;
+  }
+  const pg = mapPgError(err);
+  if (pg) {
+    console.warn(`[api] database refused input (${(err as { code: string }).code}): ${(err as Error).message}`);
+    res.status(pg.status).json({ error: { code: pg.code, message: pg.message } });
     return;
   }
   // body-parser and multer errors carry a status or a code of their own.

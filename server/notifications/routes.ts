@@ -1,5 +1,6 @@
 import { Router } from "express";
 import { NOTIFICATION_KEYS, notificationKeyParam, setNotificationBody } from "../../src/schemas/account";
+import { recordAudit } from "../audit";
 import type { Db } from "../db";
 import { requireUser } from "../middleware/roles";
 import { getPrefs, setPref } from "./prefs";
@@ -19,7 +20,11 @@ export function notificationRoutes(db: Db) {
   r.put("/account/notifications/:key", requireUser, async (req, res) => {
     const { key } = notificationKeyParam.parse(req.params);
     const { enabled } = setNotificationBody.parse(req.body);
-    await setPref(db, res.locals.user!.id, key, enabled);
+    const userId = res.locals.user!.id;
+    await db.transaction().execute(async (trx) => {
+      await setPref(trx, userId, key, enabled);
+      await recordAudit(trx, { siteId: null, entityType: "notification_pref", entityId: userId, action: "update", actorId: userId, after: { [key]: enabled } });
+    });
     res.json(await send(res.locals.user!.id));
   });
 

@@ -1,12 +1,18 @@
 /**
  * Demand follows the register: components set to replace/source and open defects whose
  * parts are wanted become links on wanted-list lines, aggregated by specification.
+ *
+ * It is kept current by the writes, never by a read: the inventory and defects services call
+ * `demandChanged` (through server/parts/service.ts) in the transaction that changed a
+ * disposition, a nameplate or a defect's parts, and it brings just those sources in line with
+ * a fixed number of set-based statements, however many rows the change touched.
  */
+import { randomUUID } from "node:crypto";
 import { sql } from "kysely";
 import { aggregateDemand, normaliseText, type PartSpec } from "../../src/domain/parts";
 import { needKey, needMatchesLine } from "../../src/domain/part-workflow";
-import { COMPONENT_KINDS, type ComponentKind } from "../../src/domain/vocab";
-import { recordAudit } from "../audit";
+import { COMPONENT_KINDS, type ComponentKind, type PartStatus } from "../../src/domain/vocab";
+import { recordAuditMany, type AuditEntry } from "../audit";
 import type { Db } from "../db";
 import * as repo from "./repository";
 
@@ -38,66 +44,116 @@ export const lineSpec = (l: Pick<repo.LineRecord, "kind" | "ratingAmps" | "poles
   ...specOf(l), mustMatch: l.mustMatch ?? undefined,
 });
 
-async function collectNeeds(trx: Db, siteId: string): Promise<Need[]> {
-  const comps = await repo.wantedComponents(trx, siteId);
+/** What changed: the whole site, or some components and/or defects. */
+export type DemandScope = "site" | { componentIds?: readonly string[]; defectIds?: readonly string[] };
+
+const sourceId = (s: Need["source"]) => s.componentId ?? s.defectId!;
+
+/**
+ * Finds the first line (oldest first) a need may join. Lines are indexed once per distinct
+ * must-match list, so matching costs one key per need and list, not one per need and line.
+ */
+class LineIndex {
+  private groups = new Map<string, { mustMatch: PartSpec["mustMatch"]; byKey: Map<string, Array<{ line: repo.LineRecord; order: number }>> }>();
+  private n = 0;
+  add(line: repo.LineRecord) {
+    const spec = lineSpec(line);
+    const sig = spec.mustMatch === undefined ? "*" : [...spec.mustMatch].sort().join(",");
+    const g = this.groups.get(sig) ?? this.groups.set(sig, { mustMatch: spec.mustMatch, byKey: new Map() }).get(sig)!;
+    const key = needKey(spec, line.need);
+    g.byKey.set(key, [...(g.byKey.get(key) ?? []), { line, order: this.n++ }]);
+  }
+  find(n: Need): repo.LineRecord | undefined {
+    let best: { line: repo.LineRecord; order: number } | undefined;
+    for (const g of this.groups.values()) {
+      for (const c of g.byKey.get(needKey({ ...n.spec, mustMatch: g.mustMatch }, n.need)) ?? [])
+        if (c.line.status !== "fitted" && (!best || c.order < best.order)) best = c;
+    }
+    return best?.line;
+  }
+}
+
+async function collectNeeds(trx: Db, siteId: string, scope: DemandScope): Promise<Need[]> {
+  const comps = await repo.wantedComponents(trx, siteId, scope === "site" ? undefined : scope.componentIds ?? []);
   const needs: Need[] = comps.map((c) => ({
     source: { componentId: c.id, defectId: null }, spec: specOf(c), need: "", qty: 1, positionId: c.positionId, boardId: c.boardId,
   }));
-  const wanted = new Set(comps.map((c) => c.id));
-  for (const d of await repo.wantedDefects(trx, siteId)) {
+  const defects = await repo.wantedDefects(trx, siteId, scope === "site" ? undefined : { ids: scope.defectIds ?? [], componentIds: scope.componentIds ?? [] });
+  for (const d of defects) {
     const need = d.partsNeeded.trim();
-    const ridesWith = !need && d.componentId && wanted.has(d.componentId) ? d.componentId : undefined;
+    const ridesWith = !need && d.componentId && d.componentWanted ? d.componentId : undefined;
     needs.push({ source: { componentId: null, defectId: d.id }, spec: specOf(d), need, qty: ridesWith ? 0 : 1, positionId: d.positionId, boardId: d.boardId, ridesWith });
   }
   return needs;
 }
 
-const sourceId = (s: Need["source"]) => s.componentId ?? s.defectId!;
+type Withdrawal = { link: repo.LinkRecord; why: string };
+type Attachment = { line: repo.LineRecord; need: Need; note: boolean };
+const CHUNK = 1000;
+async function chunked<T>(rows: T[], write: (part: T[]) => Promise<unknown>) {
+  for (let i = 0; i < rows.length; i += CHUNK) await write(rows.slice(i, i + CHUNK));
+}
 
 /**
- * Brings the site's wanted list in line with the register, inside the caller's transaction:
- * keeps links whose source still wants the same spec, moves or withdraws the rest (fitted links
- * are history and never touched), joins new needs to a matching open line (reopening one this
- * function closed), creates lines for the remaining specs via aggregateDemand, and closes
- * register lines left with no demand while nobody has bought anything for them.
- * Call it after changing dispositions or defects' parts state; the list calls it on every read.
+ * Brings the wanted list in line with the register for the sources in `scope`, inside the
+ * caller's transaction: keeps links whose source still wants the same spec, moves or withdraws
+ * the rest (fitted links are history and never touched), joins new needs to a matching open line
+ * (reopening one this function closed), creates lines for the remaining specs via
+ * aggregateDemand, and closes register lines left with no demand while nobody has bought
+ * anything for them. The statements are set-based: their number does not grow with the rows.
  */
-export async function reconcileDemand(trx: Db, siteId: string, actorId: string | null = null): Promise<{ created: number; linked: number; withdrawn: number }> {
+export async function syncDemand(trx: Db, siteId: string, scope: DemandScope, actorId: string | null = null): Promise<{ created: number; linked: number; withdrawn: number }> {
+  if (scope !== "site" && !scope.componentIds?.length && !scope.defectIds?.length) return { created: 0, linked: 0, withdrawn: 0 };
   await repo.lockSiteParts(trx, siteId);
-  const needs = await collectNeeds(trx, siteId);
-  const links = await repo.linksOfSite(trx, siteId);
+  const needs = await collectNeeds(trx, siteId, scope);
+  const rideTargets = [...new Set(needs.flatMap((n) => (n.ridesWith ? [n.ridesWith] : [])))];
+  const links = await repo.linksOfSources(trx, siteId, scope === "site" ? undefined : {
+    componentIds: [...new Set([...(scope.componentIds ?? []), ...rideTargets])],
+    defectIds: [...new Set([...(scope.defectIds ?? []), ...needs.flatMap((n) => (n.source.defectId ? [n.source.defectId] : []))])],
+  });
   const lines = await repo.joinableLines(trx, siteId);
-  const allLines = new Map((await repo.linesByIds(trx, siteId, [...new Set(links.map((l) => l.lineId))])).map((l) => [l.id, l]));
-  for (const l of lines) allLines.set(l.id, l);
-  const stats = { created: 0, linked: 0, withdrawn: 0 };
-  const bySource = new Map<string, typeof links>();
+  const index = new LineIndex();
+  lines.forEach((l) => index.add(l));
+  const allLines = new Map(lines.map((l) => [l.id, l]));
+  for (const l of await repo.linesByIds(trx, siteId, [...new Set(links.map((l) => l.lineId))].filter((id) => !allLines.has(id)))) allLines.set(l.id, l);
+
+  const bySource = new Map<string, repo.LinkRecord[]>();
   for (const l of links) bySource.set(l.componentId ?? l.defectId!, [...(bySource.get(l.componentId ?? l.defectId!) ?? []), l]);
   const wantedIds = new Set(needs.map((n) => sourceId(n.source)));
+  const processed = new Set(needs.filter((n) => n.source.componentId).map((n) => n.source.componentId!));
+  // A defect riding on a component outside this change follows that component's current line.
   const lineOfComponent = new Map<string, string>();
+  for (const id of rideTargets) {
+    if (processed.has(id)) continue;
+    const mine = bySource.get(id) ?? [];
+    const active = mine.find((l) => l.active);
+    if (active && !mine.some((l) => l.fitted)) lineOfComponent.set(id, active.lineId);
+  }
+  const withdrawals: Withdrawal[] = [];
+  const attachments: Attachment[] = [];
+  const newLines: Array<{ line: repo.LineRecord; spec: PartSpec }> = [];
   const pending: Need[] = [];
 
   for (const n of needs.filter((x) => !x.ridesWith)) {
     const mine = bySource.get(sourceId(n.source)) ?? [];
-    const fitted = mine.find((l) => l.fitted);
-    if (fitted) continue; // satisfied: the part was fitted, the list keeps it as history
-    const keep = mine.find((l) => l.active && (() => { const line = allLines.get(l.lineId); return line && needMatchesLine(n, { spec: lineSpec(line), need: line.need }); })());
-    for (const l of mine) if (l.active && l !== keep) stats.withdrawn += await withdraw(trx, siteId, l, actorId, "its specification changed");
+    if (mine.some((l) => l.fitted)) continue; // satisfied: the part was fitted, the list keeps it as history
+    const keep = mine.find((l) => { const line = l.active && allLines.get(l.lineId); return line && needMatchesLine(n, { spec: lineSpec(line), need: line.need }); });
+    for (const l of mine) if (l.active && l !== keep) withdrawals.push({ link: l, why: "its specification changed" });
     if (keep) { if (n.source.componentId) lineOfComponent.set(n.source.componentId, keep.lineId); continue; }
-    const target = lines.find((line) => line.status !== "fitted" && needMatchesLine(n, { spec: lineSpec(line), need: line.need }));
+    const target = index.find(n);
     if (target) {
-      await attach(trx, siteId, target, n, actorId);
-      stats.linked += 1;
+      attachments.push({ line: target, need: n, note: true });
       if (n.source.componentId) lineOfComponent.set(n.source.componentId, target.id);
     } else pending.push(n);
   }
 
   for (const group of groupByNeed(pending)) {
     for (const d of aggregateDemand(group.map((n) => ({ spec: n.spec, qty: n.qty, positionId: n.positionId ?? undefined })))) {
-      const line = await createRegisterLine(trx, siteId, d.spec, group[0].need, actorId);
-      lines.push(line);
-      stats.created += 1;
+      const line = newRegisterLine(siteId, d.spec, group[0].need, actorId);
+      newLines.push({ line, spec: d.spec });
+      index.add(line);
       for (const n of group.filter((x) => needKey(x.spec) === needKey(d.spec))) {
-        await attach(trx, siteId, line, n, actorId, false);
+        attachments.push({ line, need: n, note: false });
         if (n.source.componentId) lineOfComponent.set(n.source.componentId, line.id);
       }
     }
@@ -108,14 +164,20 @@ export async function reconcileDemand(trx: Db, siteId: string, actorId: string |
     const mine = bySource.get(sourceId(n.source)) ?? [];
     if (!lineId || mine.some((l) => l.fitted)) continue;
     if (mine.some((l) => l.active && l.lineId === lineId)) continue;
-    for (const l of mine) if (l.active) stats.withdrawn += await withdraw(trx, siteId, l, actorId, "it now goes with its component");
-    await attach(trx, siteId, lines.find((l) => l.id === lineId)!, n, actorId);
+    for (const l of mine) if (l.active) withdrawals.push({ link: l, why: "it now goes with its component" });
+    const line = allLines.get(lineId) ?? newLines.find((x) => x.line.id === lineId)?.line;
+    if (line) attachments.push({ line, need: n, note: true });
   }
 
-  for (const l of links) if (l.active && !l.fitted && !wantedIds.has(l.componentId ?? l.defectId!)) stats.withdrawn += await withdraw(trx, siteId, l, actorId, "its source no longer asks for a part");
-  await closeEmptyLines(trx, siteId, actorId);
-  return stats;
+  const inScope = (l: repo.LinkRecord) => scope === "site" || (l.componentId ? scope.componentIds?.includes(l.componentId) : scope.defectIds?.includes(l.defectId!));
+  for (const l of links) if (l.active && !l.fitted && inScope(l) && !wantedIds.has(l.componentId ?? l.defectId!)) withdrawals.push({ link: l, why: "its source no longer asks for a part" });
+
+  await write(trx, siteId, actorId, { withdrawals, attachments, newLines: newLines.map((x) => x.line) });
+  return { created: newLines.length, linked: attachments.filter((a) => a.note).length - attachments.filter((a) => a.note && a.need.ridesWith).length, withdrawn: withdrawals.length };
 }
+
+/** Every demand on the site, e.g. after a line's spec changed or to rebuild the list; the same statements as demandChanged. */
+export const reconcileDemand = (trx: Db, siteId: string, actorId: string | null = null) => syncDemand(trx, siteId, "site", actorId);
 
 function groupByNeed(needs: Need[]): Need[][] {
   const groups = new Map<string, Need[]>();
@@ -123,47 +185,80 @@ function groupByNeed(needs: Need[]): Need[][] {
   return [...groups.values()];
 }
 
-async function createRegisterLine(trx: Db, siteId: string, spec: PartSpec, need: string, actorId: string | null) {
+function newRegisterLine(siteId: string, spec: PartSpec, need: string, actorId: string | null): repo.LineRecord {
   const s = specOf(spec);
-  const line = await repo.insertLine(trx, {
-    siteId, origin: "register", kind: s.kind, ratingAmps: s.ratingAmps ?? null, poles: s.poles ?? null, voltageRating: s.voltageRating ?? null,
-    frame: s.frame ?? "", mounting: s.mounting ?? "", maker: s.maker ?? "", model: s.model ?? "", need, specKey: needKey(s, need), createdBy: actorId,
-  });
-  await repo.addHistory(trx, { siteId, lineId: line.id, action: "created", summary: "Added from the register", toStatus: "wanted", actorId });
-  await recordAudit(trx, { siteId, entityType: "part_line", entityId: line.id, action: "create", actorId, after: line });
-  return line;
+  const now = new Date();
+  return {
+    id: randomUUID(), siteId, version: 1, origin: "register", kind: s.kind, ratingAmps: s.ratingAmps ?? null, poles: s.poles ?? null, voltageRating: s.voltageRating ?? null,
+    frame: s.frame ?? "", mounting: s.mounting ?? "", maker: s.maker ?? "", model: s.model ?? "", need, notes: "", cancelReason: "", mustMatch: null,
+    specKey: needKey(s, need), heritageRule: "original_only", status: "wanted", autoCancelled: false, manualQty: 0, estimatedUnitCost: null, fittedAt: null,
+    createdAt: now, updatedAt: now, createdBy: actorId,
+  } as repo.LineRecord;
 }
 
-async function attach(trx: Db, siteId: string, line: repo.LineRecord, n: Need, actorId: string | null, note = true) {
-  const link = await trx.insertInto("partDemandLinks")
-    .values({ siteId, lineId: line.id, componentId: n.source.componentId, defectId: n.source.defectId, positionId: n.positionId, boardId: n.boardId, qty: n.qty })
-    .returning(["id"]).executeTakeFirstOrThrow();
-  if (line.status === "cancelled" && line.autoCancelled) {
-    const leads = await trx.selectFrom("partLeads").select("id").where("lineId", "=", line.id).where("status", "!=", "dead").execute();
-    const to = leads.length ? "lead_found" : "wanted";
-    Object.assign(line, await repo.updateLine(trx, line.id, { status: to, autoCancelled: false, cancelReason: "" }));
-    await repo.addHistory(trx, { siteId, lineId: line.id, action: "reopened", summary: "Wanted again by the register", fromStatus: "cancelled", toStatus: to, actorId });
+type History = { siteId: string; lineId: string; action: string; summary: string; fromStatus?: PartStatus | null; toStatus?: PartStatus | null; actorId: string | null };
+
+/** Writes what syncDemand decided: a fixed number of statements (chunked only past 1,000 rows). */
+async function write(trx: Db, siteId: string, actorId: string | null, plan: { withdrawals: Withdrawal[]; attachments: Attachment[]; newLines: repo.LineRecord[] }) {
+  const history: History[] = [];
+  const audit: AuditEntry[] = [];
+  if (plan.withdrawals.length) {
+    const ids = [...new Set(plan.withdrawals.map((w) => w.link.id))];
+    await chunked(ids, (part) => trx.updateTable("partDemandLinks").set({ active: false, withdrawnAt: sql`now()` }).where("id", "in", part).execute());
+    for (const { link: l, why } of plan.withdrawals) {
+      history.push({ siteId, lineId: l.lineId, action: "demand_withdrawn", summary: `A position no longer needs it: ${why}`, actorId });
+      audit.push({ siteId, entityType: "part_demand_link", entityId: l.id, action: "withdraw", actorId, positionId: l.positionId, boardId: l.boardId, before: { active: true }, after: { active: false } });
+    }
   }
-  if (note) await repo.addHistory(trx, { siteId, lineId: line.id, action: "demand_added", summary: n.source.defectId ? "A defect asks for it" : "A component set to replace or source", actorId });
-  await recordAudit(trx, { siteId, entityType: "part_demand_link", entityId: link.id, action: "create", actorId, positionId: n.positionId, boardId: n.boardId, after: { lineId: line.id, ...n.source } });
-}
-
-async function withdraw(trx: Db, siteId: string, l: { id: string; lineId: string; positionId: string | null; boardId: string | null }, actorId: string | null, why: string) {
-  await trx.updateTable("partDemandLinks").set({ active: false, withdrawnAt: sql`now()` }).where("id", "=", l.id).execute();
-  await repo.addHistory(trx, { siteId, lineId: l.lineId, action: "demand_withdrawn", summary: `A position no longer needs it: ${why}`, actorId });
-  await recordAudit(trx, { siteId, entityType: "part_demand_link", entityId: l.id, action: "withdraw", actorId, positionId: l.positionId, boardId: l.boardId, before: { active: true }, after: { active: false } });
-  return 1;
-}
-
-/** Register lines still at wanted / lead found with no demand left close themselves; bought parts stay (as spares). */
-async function closeEmptyLines(trx: Db, siteId: string, actorId: string | null) {
-  const empty = await trx.selectFrom("partLines as pl").select(["pl.id", "pl.status"])
-    .where("pl.siteId", "=", siteId).where("pl.origin", "=", "register").where("pl.manualQty", "=", 0).where("pl.status", "in", ["wanted", "lead_found"])
-    .where((eb) => eb.not(eb.exists(eb.selectFrom("partDemandLinks as l").select("l.id").whereRef("l.lineId", "=", "pl.id").where("l.active", "=", true))))
-    .execute();
-  for (const l of empty) {
-    await repo.updateLine(trx, l.id, { status: "cancelled", autoCancelled: true, cancelReason: "No longer wanted: nothing on the register asks for it." });
-    await repo.addHistory(trx, { siteId, lineId: l.id, action: "auto_cancelled", summary: "Closed: nothing on the register asks for it any more", fromStatus: l.status, toStatus: "cancelled", actorId });
-    await recordAudit(trx, { siteId, entityType: "part_line", entityId: l.id, action: "auto_cancel", actorId, before: { status: l.status }, after: { status: "cancelled" } });
+  if (plan.newLines.length) {
+    await chunked(plan.newLines, (part) => trx.insertInto("partLines").values(part.map(({ version: _v, status: _s, autoCancelled: _a, manualQty: _m, heritageRule: _h, createdAt: _c, updatedAt: _u, ...l }) => l)).execute());
+    for (const line of plan.newLines) {
+      history.push({ siteId, lineId: line.id, action: "created", summary: "Added from the register", toStatus: "wanted", actorId });
+      audit.push({ siteId, entityType: "part_line", entityId: line.id, action: "create", actorId, after: line });
+    }
   }
+  if (plan.attachments.length) {
+    const rows = plan.attachments.map((a) => ({
+      id: randomUUID(), siteId, lineId: a.line.id, componentId: a.need.source.componentId, defectId: a.need.source.defectId, positionId: a.need.positionId, boardId: a.need.boardId, qty: a.need.qty,
+    }));
+    await chunked(rows, (part) => trx.insertInto("partDemandLinks").values(part).execute());
+    // Lines this function closed come back when demand returns: to "lead found" when a live lead exists.
+    const reopen = [...new Set(plan.attachments.filter((a) => a.line.status === "cancelled" && a.line.autoCancelled).map((a) => a.line.id))];
+    const reopened = reopen.length
+      ? await trx.updateTable("partLines as pl")
+          .set({
+            status: sql`case when exists (select 1 from part_leads pd where pd.line_id = pl.id and pd.status <> 'dead') then 'lead_found' else 'wanted' end`,
+            autoCancelled: false, cancelReason: "", version: sql`pl.version + 1`, updatedAt: sql`now()`,
+          })
+          .where("pl.id", "in", reopen).where("pl.status", "=", "cancelled").where("pl.autoCancelled", "=", true)
+          .returning(["pl.id", "pl.status"]).execute()
+      : [];
+    for (const r of reopened) {
+      history.push({ siteId, lineId: r.id, action: "reopened", summary: "Wanted again by the register", fromStatus: "cancelled", toStatus: r.status, actorId });
+      const line = plan.attachments.find((a) => a.line.id === r.id)!.line;
+      Object.assign(line, { status: r.status, autoCancelled: false, cancelReason: "" });
+    }
+    plan.attachments.forEach((a, i) => {
+      if (a.note) history.push({ siteId, lineId: a.line.id, action: "demand_added", summary: a.need.source.defectId ? "A defect asks for it" : "A component set to replace or source", actorId });
+      audit.push({ siteId, entityType: "part_demand_link", entityId: rows[i].id, action: "create", actorId, positionId: a.need.positionId, boardId: a.need.boardId, after: { lineId: a.line.id, ...a.need.source } });
+    });
+  }
+  // Register lines still at wanted / lead found with no demand left close themselves; bought parts stay (as spares).
+  const closed = await sql<{ id: string; fromStatus: PartStatus }>`
+    with empty as (
+      select pl.id, pl.status from part_lines pl
+      where pl.site_id = ${siteId} and pl.origin = 'register' and pl.manual_qty = 0 and pl.status in ('wanted', 'lead_found')
+        and not exists (select 1 from part_demand_links l where l.line_id = pl.id and l.active)
+      for update
+    )
+    update part_lines pl set status = 'cancelled', auto_cancelled = true, cancel_reason = 'No longer wanted: nothing on the register asks for it.',
+      version = pl.version + 1, updated_at = now()
+    from empty where pl.id = empty.id
+    returning pl.id, empty.status as "fromStatus"`.execute(trx);
+  for (const l of closed.rows) {
+    history.push({ siteId, lineId: l.id, action: "auto_cancelled", summary: "Closed: nothing on the register asks for it any more", fromStatus: l.fromStatus, toStatus: "cancelled", actorId });
+    audit.push({ siteId, entityType: "part_line", entityId: l.id, action: "auto_cancel", actorId, before: { status: l.fromStatus }, after: { status: "cancelled" } });
+  }
+  await chunked(history, (part) => trx.insertInto("partLineHistory").values(part).execute());
+  await recordAuditMany(trx, audit);
 }

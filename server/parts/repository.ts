@@ -14,33 +14,58 @@ const lineCols = [
 /** One advisory lock per site serialises demand reconciliation, so two readers never create the same line twice. */
 export const lockSiteParts = (db: Db, siteId: string) => sql`select pg_advisory_xact_lock(hashtext(${"parts:" + siteId}))`.execute(db);
 
-/** Current components whose disposition asks for a part, with their home position and board. */
-export const wantedComponents = (db: Db, siteId: string) =>
-  db
+/** Current components whose disposition asks for a part, with their home position and board (all of the site, or these ids). */
+export const wantedComponents = (db: Db, siteId: string, ids?: readonly string[]) => {
+  if (ids && !ids.length) return Promise.resolve([]);
+  let q = db
     .selectFrom("components as c")
     .innerJoin("positions as p", "p.id", "c.positionId")
     .select(["c.id", "c.kind", "c.ratingAmps", "c.poles", "c.voltageRating", "c.frame", "c.mounting", "c.maker", "c.model", "c.positionId", "p.boardId"])
     .where("c.siteId", "=", siteId)
     .where("c.retiredAt", "is", null)
-    .where("c.disposition", "in", ["replace", "source"])
-    .execute();
+    .where("c.disposition", "in", ["replace", "source"]);
+  if (ids) q = q.where("c.id", "in", [...ids]);
+  return q.orderBy("c.createdAt").orderBy("c.id").execute();
+};
 
-/** Open defects that need a part, with the nameplate of their component when they have one. */
-export const wantedDefects = (db: Db, siteId: string) =>
-  db
+/**
+ * Open defects that need a part, with the nameplate of their component when they have one and
+ * whether that component is itself wanted (all of the site, or these defects and those of these components).
+ */
+export const wantedDefects = (db: Db, siteId: string, scope?: { ids: readonly string[]; componentIds: readonly string[] }) => {
+  if (scope && !scope.ids.length && !scope.componentIds.length) return Promise.resolve([]);
+  let q = db
     .selectFrom("defects as d")
     .leftJoin("components as c", "c.id", "d.componentId")
     .select([
       "d.id", "d.partsNeeded", "d.positionId", "d.boardId", "d.componentId",
       "c.kind", "c.ratingAmps", "c.poles", "c.voltageRating", "c.frame", "c.mounting", "c.maker", "c.model",
+      sql<boolean>`coalesce(c.retired_at is null and c.disposition in ('replace', 'source'), false)`.as("componentWanted"),
     ])
     .where("d.siteId", "=", siteId)
     .where("d.partsState", "=", "wanted")
-    .where("d.status", "not in", ["closed", "accepted_as_is"])
-    .execute();
+    .where("d.status", "not in", ["closed", "accepted_as_is"]);
+  if (scope)
+    q = q.where((eb) => eb.or([
+      ...(scope.ids.length ? [eb("d.id", "in", [...scope.ids])] : []),
+      ...(scope.componentIds.length ? [eb("d.componentId", "in", [...scope.componentIds])] : []),
+    ]));
+  return q.orderBy("d.createdAt").orderBy("d.id").execute();
+};
 
-export const linksOfSite = (db: Db, siteId: string) =>
-  db.selectFrom("partDemandLinks").selectAll().where("siteId", "=", siteId).where((eb) => eb.or([eb("active", "=", true), eb("fitted", "=", true)])).execute();
+/** Active and fitted links of the site, or of these sources. */
+export const linksOfSources = (db: Db, siteId: string, scope?: { componentIds: readonly string[]; defectIds: readonly string[] }) => {
+  let q = db.selectFrom("partDemandLinks").selectAll().where("siteId", "=", siteId).where((eb) => eb.or([eb("active", "=", true), eb("fitted", "=", true)]));
+  if (scope) {
+    if (!scope.componentIds.length && !scope.defectIds.length) return Promise.resolve([]);
+    q = q.where((eb) => eb.or([
+      ...(scope.componentIds.length ? [eb("componentId", "in", [...scope.componentIds])] : []),
+      ...(scope.defectIds.length ? [eb("defectId", "in", [...scope.defectIds])] : []),
+    ]));
+  }
+  return q.execute();
+};
+export type LinkRecord = Awaited<ReturnType<typeof linksOfSources>>[number];
 
 /** Lines demand may join: open ones, and the ones reconciliation itself closed (it may reopen them). */
 export const joinableLines = (db: Db, siteId: string) =>
@@ -78,23 +103,60 @@ export interface LineFilter {
   boardId?: string;
   kind?: string;
   heritageRule?: string;
+  q?: string;
+  sort?: "created" | "part" | "heritageRule" | "qty" | "positions" | "status" | "leadCount" | "estimated";
+  dir?: "asc" | "desc";
 }
 
-export function listLines(db: Db, siteId: string, f: LineFilter) {
-  let q = db.selectFrom("partLines").select(lineCols).where("siteId", "=", siteId);
-  if (f.status === "open") q = q.where("status", "in", OPEN_PART_STATUSES);
-  else if (f.status !== "all") q = q.where("status", "=", f.status);
-  if (f.kind) q = q.where("kind", "=", f.kind as never);
-  if (f.heritageRule) q = q.where("heritageRule", "=", f.heritageRule as never);
+/** Quantity a line stands for, in SQL (the same rule as lineQty in rows.ts). */
+const qtySql = sql<number>`(pl.manual_qty + coalesce((select sum(l.qty) from part_demand_links l where l.line_id = pl.id
+  and (case when pl.status = 'fitted' then l.fitted else l.active end)), 0))`;
+
+function filtered(db: Db, siteId: string, f: LineFilter) {
+  let q = db.selectFrom("partLines as pl").where("pl.siteId", "=", siteId);
+  if (f.status === "open") q = q.where("pl.status", "in", OPEN_PART_STATUSES);
+  else if (f.status !== "all") q = q.where("pl.status", "=", f.status);
+  if (f.kind) q = q.where("pl.kind", "=", f.kind as never);
+  if (f.heritageRule) q = q.where("pl.heritageRule", "=", f.heritageRule as never);
+  if (f.q?.trim()) {
+    const like = `%${f.q.trim().replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
+    q = q.where(sql<boolean>`concat_ws(' ', pl.maker, pl.model, pl.frame, pl.mounting, pl.need, pl.notes) ilike ${like}`);
+  }
   if (f.boardId)
     q = q.where((eb) =>
       eb.exists(
-        eb.selectFrom("partDemandLinks as l").select("l.id").whereRef("l.lineId", "=", "partLines.id").where("l.boardId", "=", f.boardId!)
+        eb.selectFrom("partDemandLinks as l").select("l.id").whereRef("l.lineId", "=", "pl.id").where("l.boardId", "=", f.boardId!)
           .where((e) => e.or([e("l.active", "=", true), e("l.fitted", "=", true)])),
       ),
     );
-  return q.orderBy("createdAt").execute();
+  return q;
 }
+
+const STATUS_ORDER = sql`array_position(array['wanted','lead_found','acquired','received','fitted','cancelled']::text[], pl.status)`;
+const RULE_ORDER = sql`array_position(array['original_only','period_ok','modern_ok']::text[], pl.heritage_rule)`;
+const SORT_SQL = {
+  created: [sql`pl.created_at`],
+  part: [sql`pl.kind`, sql`pl.rating_amps`, sql`lower(pl.maker)`, sql`lower(pl.model)`, sql`lower(pl.need)`],
+  heritageRule: [RULE_ORDER],
+  qty: [qtySql],
+  positions: [sql`(select min(p.designation) from part_demand_links l join positions p on p.id = l.position_id where l.line_id = pl.id and l.active)`],
+  status: [STATUS_ORDER],
+  leadCount: [sql`(select count(*) from part_leads pd where pd.line_id = pl.id)`],
+  estimated: [sql`pl.estimated_unit_cost * ${qtySql}`],
+} as const;
+
+/** One page of the filtered lines, sorted by the server; ties keep the order lines were created in. */
+export function listLines(db: Db, siteId: string, f: LineFilter, page?: { limit: number; offset: number }) {
+  const dir = f.dir === "desc" ? sql`desc nulls last` : sql`asc nulls last`;
+  let q = filtered(db, siteId, f).select(lineCols.map((c) => `pl.${c}` as const));
+  for (const expr of SORT_SQL[f.sort ?? "created"]) q = q.orderBy(sql`${expr} ${dir}`);
+  q = q.orderBy("pl.createdAt").orderBy("pl.id");
+  if (page) q = q.limit(page.limit).offset(page.offset);
+  return q.execute();
+}
+
+export const countLines = async (db: Db, siteId: string, f: LineFilter) =>
+  Number((await filtered(db, siteId, f).select((eb) => eb.fn.countAll<number>().as("n")).executeTakeFirstOrThrow()).n);
 
 /** Every link of the lines (withdrawn ones only when asked), with the position, board and defect they point at. */
 export function linksOfLines(db: Db, lineIds: string[], withWithdrawn = false) {

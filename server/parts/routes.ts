@@ -38,13 +38,16 @@ export function partsRoutes(db: Db, storage: PhotoStorage) {
   const base = "/sites/:siteId/parts";
 
   r.get(base, requireSiteRole(db, ...ANY_MEMBER), async (req, res) => {
-    res.json(await service.listParts(db, req.params.siteId as string, listQuery.parse(req.query), actor(res)));
+    res.json(await service.listParts(db, req.params.siteId as string, listQuery.parse(req.query)));
   });
 
   r.get("/sites/:siteId/parts.csv", requireSiteRole(db, ...ANY_MEMBER), limitExports, async (req, res) => {
-    // A few hundred lines per site: read in one go (the connection is back in the pool before
-    // the first byte goes out), then written with the export's back-pressure and write timeout.
-    const { lines } = await service.listParts(db, req.params.siteId as string, listQuery.parse(req.query), actor(res));
+    // Read 500 lines at a time into memory (a site has hundreds to a few thousand lines; the
+    // connection is back in the pool before the first byte goes out), then written with the
+    // export's back-pressure and write timeout.
+    const { page: _p, size: _s, ...filter } = listQuery.parse(req.query);
+    const lines = [];
+    for await (const part of service.allLines(db, req.params.siteId as string, filter)) lines.push(...part);
     res.setHeader("Content-Type", "text/csv; charset=utf-8");
     res.setHeader("Content-Disposition", `attachment; filename="wanted-parts-${today()}.csv"`);
     const csv = Buffer.from(toCsv(lines), "utf8");

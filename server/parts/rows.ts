@@ -1,5 +1,6 @@
 /** Builds the wanted-list rows the API sends: a line with its positions, quantity, money and photos. */
-import { budgetByBoard, partTitle } from "../../src/domain/part-workflow";
+import { sql } from "kysely";
+import { partTitle } from "../../src/domain/part-workflow";
 import type { PartLine, PartsBudget } from "../../src/schemas/parts";
 import type { Db } from "../db";
 import { conflict, notFound } from "../errors";
@@ -16,17 +17,22 @@ export function lineQty(line: Pick<repo.LineRecord, "status" | "manualQty">, lin
   return line.manualQty + counted.reduce((s, l) => s + l.qty, 0);
 }
 
+/** Builds the rows of these lines with four queries in all (links, lead counts, spend, photos), grouped by line once. */
 export async function buildRows(db: Db, lines: repo.LineRecord[], withWithdrawn = false): Promise<PartLine[]> {
+  if (!lines.length) return [];
   const ids = lines.map((l) => l.id);
   const [links, leads, spent] = await Promise.all([repo.linksOfLines(db, ids, withWithdrawn), repo.leadCounts(db, ids), repo.spentByLine(db, ids)]);
   const componentIds = [...new Set(links.filter((l) => l.componentId && (l.active || l.fitted)).map((l) => l.componentId!))];
   const photos = await repo.nameplatePhotos(db, componentIds);
   const leadN = new Map(leads.map((l) => [l.lineId, Number(l.n)]));
   const spentN = new Map(spent.map((s) => [s.lineId, Number(s.spent)]));
+  const linksByLine = groupBy(links, (l) => l.lineId);
+  const photosByComponent = groupBy(photos, (p) => p.componentId ?? "");
   return lines.map((line) => {
-    const mine = links.filter((l) => l.lineId === line.id);
+    const mine = linksByLine.get(line.id) ?? [];
     const qty = lineQty(line, mine);
-    const comps = new Set(mine.filter((l) => l.active || l.fitted).map((l) => l.componentId));
+    const comps = [...new Set(mine.filter((l) => l.active || l.fitted).map((l) => l.componentId).filter((c): c is string => !!c))];
+    const photoIds = comps.flatMap((c) => photosByComponent.get(c) ?? []).sort((a, b) => a.order - b.order).map((p) => p.id);
     return {
       id: line.id,
       version: line.version,
@@ -52,7 +58,7 @@ export async function buildRows(db: Db, lines: repo.LineRecord[], withWithdrawn 
       estimated: line.estimatedUnitCost == null ? null : Math.round(line.estimatedUnitCost * qty * 100) / 100,
       spent: spentN.get(line.id) ?? 0,
       leadCount: leadN.get(line.id) ?? 0,
-      photoIds: photos.filter((p) => comps.has(p.componentId)).map((p) => p.id),
+      photoIds,
       positions: mine.map((l) => ({
         linkId: l.id, positionId: l.positionId, designation: l.designation, boardId: l.boardId, boardName: l.boardName,
         componentId: l.componentId, defectId: l.defectId, defectTitle: l.defectTitle, qty: l.qty,
@@ -63,24 +69,54 @@ export async function buildRows(db: Db, lines: repo.LineRecord[], withWithdrawn 
   });
 }
 
-/** Estimated vs spent per board and in total, over every line that is not cancelled. */
+function groupBy<T>(rows: readonly T[], key: (r: T) => string): Map<string, Array<T & { order: number }>> {
+  const out = new Map<string, Array<T & { order: number }>>();
+  rows.forEach((r, order) => {
+    const k = key(r);
+    const list = out.get(k);
+    if (list) list.push({ ...r, order });
+    else out.set(k, [{ ...r, order }]);
+  });
+  return out;
+}
+
+/**
+ * Estimated vs spent per board and in total, over every line that is not cancelled, in one SQL
+ * statement: estimated = unit cost × quantity on the board; spent = the line's acquisitions shared
+ * in proportion to each board's quantity (proportional allocation, common practice; the same rule
+ * as budgetByBoard in src/domain/part-workflow.ts, which the tests hold it to). A fitted line counts
+ * its fitted links, any other its active ones; hand-added quantity and links with no board are
+ * "not tied to a board"; a line with spend but no quantity left puts its spend there too.
+ */
 export async function siteBudget(db: Db, siteId: string, boards: Array<{ id: string; name: string }>): Promise<PartsBudget> {
-  const lines = (await repo.listLines(db, siteId, { status: "all" })).filter((l) => l.status !== "cancelled");
-  const rows = await buildRows(db, lines);
+  const r = await sql<{ boardId: string; estimated: number; spent: number; unestimatedLines: number }>`
+    with lines as (
+      select id, manual_qty, estimated_unit_cost, status from part_lines where site_id = ${siteId} and status <> 'cancelled'
+    ), q as (
+      select l.id as line_id, coalesce(dl.board_id::text, '') as board, dl.qty
+      from lines l join part_demand_links dl on dl.line_id = l.id and (case when l.status = 'fitted' then dl.fitted else dl.active end)
+      union all
+      select id, '', manual_qty from lines where manual_qty > 0
+    ), qb as (
+      select line_id, board, sum(qty) as qty from q group by line_id, board having sum(qty) > 0
+    ), tot as (
+      select line_id, sum(qty) as total from qb group by line_id
+    ), spent as (
+      select a.line_id, sum(a.cost) as spent from part_acquisitions a join lines l on l.id = a.line_id group by a.line_id
+    ), per as (
+      select qb.board, coalesce(l.estimated_unit_cost * qb.qty, 0) as estimated, coalesce(s.spent, 0) * qb.qty / tot.total as spent,
+        (l.estimated_unit_cost is null)::int as unestimated
+      from qb join lines l on l.id = qb.line_id join tot on tot.line_id = qb.line_id left join spent s on s.line_id = qb.line_id
+      union all
+      select '', 0, s.spent, 0 from spent s where s.spent > 0 and not exists (select 1 from tot where tot.line_id = s.line_id)
+    )
+    select board as "boardId", round(sum(estimated), 2)::float8 as estimated, round(sum(spent), 2)::float8 as spent, sum(unestimated)::int as "unestimatedLines"
+    from per group by board order by board = '', board`.execute(db);
   const names = new Map(boards.map((b) => [b.id, b.name]));
-  const budget = budgetByBoard(
-    rows.map((r) => {
-      const qtyByBoard: Record<string, number> = {};
-      for (const p of r.positions.filter((x) => (r.status === "fitted" ? x.state === "fitted" : x.state === "active")))
-        qtyByBoard[p.boardId ?? ""] = (qtyByBoard[p.boardId ?? ""] ?? 0) + p.qty;
-      if (r.manualQty) qtyByBoard[""] = (qtyByBoard[""] ?? 0) + r.manualQty;
-      return { qtyByBoard, estimatedUnitCost: r.estimatedUnitCost, spent: r.spent };
-    }),
-  );
-  return {
-    rows: budget.rows.map((b) => ({ ...b, boardName: b.boardId ? names.get(b.boardId) ?? "Board" : "Not tied to a board" })),
-    total: budget.total,
-  };
+  const rows = r.rows.map((b) => ({ ...b, boardName: b.boardId ? names.get(b.boardId) ?? "Board" : "Not tied to a board" }));
+  const round2 = (x: number) => Math.round(x * 100) / 100;
+  const total = rows.reduce((t, b) => ({ estimated: round2(t.estimated + b.estimated), spent: round2(t.spent + b.spent) }), { estimated: 0, spent: 0 });
+  return { rows, total };
 }
 
 export async function lineRow(db: Db, siteId: string, lineId: string, withWithdrawn = false) {

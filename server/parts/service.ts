@@ -6,22 +6,52 @@ import type { z } from "zod";
 import { diff, recordAudit } from "../audit";
 import type { Db } from "../db";
 import { AppError, conflict, forbidden, notFound } from "../errors";
-import { lineSpec, reconcileDemand } from "./demand";
+import { lineSpec, reconcileDemand, syncDemand } from "./demand";
 import * as repo from "./repository";
 import { buildRows, lineRow, lockedLine, siteBudget } from "./rows";
 
-export { reconcileDemand } from "./demand";
+export { reconcileDemand, syncDemand, type DemandScope } from "./demand";
 export { moveLineStatus, insertAcquisition } from "./workflow";
 export { lineRow } from "./rows";
 
 type Actor = { id: string; role: Role | "admin" };
 
-/** The list as the register wants it now: reconciles first, in its own transaction. */
-export async function listParts(db: Db, siteId: string, filter: repo.LineFilter, actorId: string | null) {
-  await db.transaction().execute((trx) => reconcileDemand(trx, siteId, actorId));
+/**
+ * Called by the inventory and defects services in the transaction that changed dispositions,
+ * nameplates or defects' parts: brings the wanted list in line for just those sources. The list
+ * itself never reconciles on a read.
+ */
+export const demandChanged = (trx: Db, siteId: string, scope: { componentIds?: readonly string[]; defectIds?: readonly string[] }, actorId: string | null) =>
+  syncDemand(trx, siteId, scope, actorId);
+
+/** The components and defects whose demand sits on a position, read before the position is deleted. */
+export async function demandOfPosition(trx: Db, siteId: string, positionId: string) {
+  const rows = await trx.selectFrom("partDemandLinks").select(["componentId", "defectId"]).where("siteId", "=", siteId).where("positionId", "=", positionId).where("active", "=", true).execute();
+  return { componentIds: rows.flatMap((r) => (r.componentId ? [r.componentId] : [])), defectIds: rows.flatMap((r) => (r.defectId ? [r.defectId] : [])) };
+}
+
+export const DEFAULT_PAGE_SIZE = 50;
+
+/** One page of the list with the filter's total, the site's budget and boards: a fixed number of queries. */
+export async function listParts(db: Db, siteId: string, filter: repo.LineFilter & { page?: number; size?: number }) {
+  const size = filter.size ?? DEFAULT_PAGE_SIZE;
+  const page = filter.page ?? 1;
   const boards = await repo.boardsOfSite(db, siteId);
-  const [lines, budget] = await Promise.all([repo.listLines(db, siteId, filter).then((l) => buildRows(db, l)), siteBudget(db, siteId, boards)]);
-  return { lines, budget, boards };
+  const [lines, total, budget] = await Promise.all([
+    repo.listLines(db, siteId, filter, { limit: size, offset: (page - 1) * size }).then((l) => buildRows(db, l)),
+    repo.countLines(db, siteId, filter),
+    siteBudget(db, siteId, boards),
+  ]);
+  return { lines, total, page, size, budget, boards };
+}
+
+/** Every line of the filter (CSV), built 500 lines at a time. */
+export async function* allLines(db: Db, siteId: string, filter: repo.LineFilter) {
+  for (let offset = 0; ; offset += 500) {
+    const page = await repo.listLines(db, siteId, filter, { limit: 500, offset });
+    if (page.length) yield await buildRows(db, page);
+    if (page.length < 500) return;
+  }
 }
 
 export async function lineDetail(db: Db, siteId: string, lineId: string) {

@@ -5,13 +5,13 @@
  */
 import { createHash, randomBytes } from "node:crypto";
 import { sql } from "kysely";
+import { partTitle } from "../../src/domain/part-workflow";
 import { sharedListResponse, type SharedList } from "../../src/schemas/parts";
 import { recordAudit } from "../audit";
 import type { Db } from "../db";
 import { AppError, notFound } from "../errors";
 import * as repo from "./repository";
 import { buildRows } from "./rows";
-import { reconcileDemand } from "./demand";
 
 export const hashToken = (token: string) => createHash("sha256").update(token).digest("hex");
 
@@ -47,23 +47,34 @@ export async function siteOfToken(db: Db, token: string) {
   return link.siteId;
 }
 
+/** The public list. A read only: it never writes (demand is kept current by the writes, issue 15). */
 export async function sharedList(db: Db, token: string): Promise<SharedList> {
   const siteId = await siteOfToken(db, token);
-  await db.transaction().execute((trx) => reconcileDemand(trx, siteId, null));
   const site = await db.selectFrom("sites").select("name").where("id", "=", siteId).executeTakeFirstOrThrow();
-  const lines = (await buildRows(db, await repo.listLines(db, siteId, { status: "all" }))).filter((l) => l.status === "wanted" || l.status === "lead_found");
+  const lines = (await buildRows(db, [...await repo.listLines(db, siteId, { status: "wanted" }), ...await repo.listLines(db, siteId, { status: "lead_found" })]
+    .sort((a, b) => a.createdAt.getTime() - b.createdAt.getTime() || (a.id < b.id ? -1 : 1))));
   return sharedListResponse.parse({
     siteName: site.name,
     lines: lines.map((l) => ({
       ref: l.id.slice(0, 8), kind: l.kind, ratingAmps: l.ratingAmps, poles: l.poles, voltageRating: l.voltageRating, frame: l.frame, mounting: l.mounting,
-      maker: l.maker, model: l.model, need: l.need, title: l.title, qty: l.qty, heritageRule: l.heritageRule, status: l.status,
+      // Structured fields only: a line's "need" and its title's tail are free text typed on a defect
+      // (phone numbers and prices have turned up there), so neither leaves the site.
+      maker: l.maker, model: l.model, need: "", title: partTitle({ ...l, mustMatch: undefined }), qty: l.qty, heritageRule: l.heritageRule, status: l.status,
       photoUrls: l.photoIds.map((p) => `/api/share/parts/${token}/photos/${p}`),
     })),
   });
 }
 
-/** True when the photo is a nameplate photo of a line the token shares. */
+/** True when the photo is a nameplate photo of a component on a line the token shares (one query). */
 export async function photoIsShared(db: Db, token: string, photoId: string) {
-  const shared = await sharedList(db, token);
-  return shared.lines.some((l) => l.photoUrls.some((u) => u.endsWith(`/${photoId}`)));
+  const siteId = await siteOfToken(db, token);
+  const row = await db.selectFrom("photos as ph")
+    .innerJoin("partDemandLinks as l", "l.componentId", "ph.componentId")
+    .innerJoin("partLines as pl", "pl.id", "l.lineId")
+    .select("ph.id")
+    .where("ph.id", "=", photoId).where("ph.siteId", "=", siteId).where("ph.kind", "=", "nameplate").where("ph.deletedAt", "is", null)
+    .where("pl.siteId", "=", siteId).where("pl.status", "in", ["wanted", "lead_found"])
+    .where((e) => e.or([e("l.active", "=", true), e("l.fitted", "=", true)]))
+    .limit(1).executeTakeFirst();
+  return !!row;
 }

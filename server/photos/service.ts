@@ -138,10 +138,19 @@ export async function updatePhoto(db: Db, siteId: string, photoId: string, actor
       const t = await resolveTarget(trx, siteId, { boardId: patch.boardId ?? undefined, positionId: patch.positionId ?? undefined, componentId: patch.componentId ?? undefined, defectId: patch.defectId ?? undefined });
       Object.assign(set, { boardId: t.boardId, positionId: t.positionId, componentId: t.componentId, defectId: t.defectId });
     }
-    await repo.updatePhoto(trx, siteId, photoId, patch.version, set);
+    // The version is checked again by the UPDATE itself: a concurrent save that won the row lock
+    // makes this one match nothing, so it is refused and no audit row is written for it.
+    if (!(await repo.updatePhoto(trx, siteId, photoId, patch.version, set))) throw await staleConflict(trx, siteId, photoId, "Someone changed this photo meanwhile. Here is how it is now.");
     await recordAudit(trx, { siteId, entityType: "photo", entityId: photoId, action: "update", actorId: actor.user.id, boardId: (set.boardId as string) ?? row.boardId, positionId: (set.positionId as string) ?? row.positionId, before: pick(row, Object.keys(set)), after: set });
     return toPhoto((await repo.findPhoto(trx, siteId, photoId))!);
   });
+}
+
+/** 409 with the photo as it is now (or 404 when it was deleted meanwhile). */
+async function staleConflict(trx: Db, siteId: string, photoId: string, message: string) {
+  const fresh = await repo.findPhoto(trx, siteId, photoId);
+  if (!fresh || fresh.deletedAt) return notFound("That photo");
+  return conflict(message, toPhoto(fresh));
 }
 
 const pick = (o: Record<string, unknown>, keys: string[]) => Object.fromEntries(keys.map((k) => [k, o[k]]));
@@ -155,7 +164,8 @@ export async function bulkAssign(db: Db, siteId: string, actor: Actor, body: Bul
       if (row.version !== item.version) throw conflict(`${row.originalName || "A photo"} was changed meanwhile; reload the batch.`, toPhoto(row));
       const t = await resolveTarget(trx, siteId, { positionId: item.positionId });
       const set = { boardId: t.boardId, positionId: t.positionId, ...(item.kind ? { kind: item.kind } : {}) };
-      await repo.updatePhoto(trx, siteId, item.photoId, item.version, set);
+      if (!(await repo.updatePhoto(trx, siteId, item.photoId, item.version, set)))
+        throw await staleConflict(trx, siteId, item.photoId, `${row.originalName || "A photo"} was changed meanwhile; reload the batch.`);
       await recordAudit(trx, { siteId, entityType: "photo", entityId: item.photoId, action: "assign", actorId: actor.user.id, boardId: t.boardId, positionId: t.positionId, before: { positionId: row.positionId, kind: row.kind }, after: set });
       out.push(toPhoto((await repo.findPhoto(trx, siteId, item.photoId))!));
     }

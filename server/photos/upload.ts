@@ -25,7 +25,9 @@ export const UPLOAD_LIMITS = {
   headerPairs: 200,
 };
 
-const upload = multer({ storage: multer.diskStorage({ destination: TMP }), limits: UPLOAD_LIMITS }).array("files", UPLOAD_LIMITS.files);
+// Browsers send a file name as raw UTF-8 in filename="…"; busboy reads such parameters as
+// latin1 unless told otherwise ("Ståle.jpg" would become "StÃ¥le.jpg"). multer passes the option on.
+const upload = multer({ storage: multer.diskStorage({ destination: TMP }), limits: UPLOAD_LIMITS, defParamCharset: "utf8" }).array("files", UPLOAD_LIMITS.files);
 
 /** Removes the request's temporary files (also those of a refused or failed upload). */
 export async function removeTemporary(files: Array<{ path: string }> | undefined) {

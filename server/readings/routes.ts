@@ -1,5 +1,6 @@
 import { Router } from "express";
 import { z } from "zod";
+import { text } from "../../src/schemas/common";
 import type { Role } from "../../src/domain/vocab";
 import {
   contactReadingBody,
@@ -19,7 +20,7 @@ const RECORDERS: Role[] = ["volunteer", "curator"];
 
 const boardParams = z.object({ siteId: z.uuid(), boardId: z.uuid({ message: "boardId must be a UUID" }) });
 const componentParams = z.object({ siteId: z.uuid(), componentId: z.uuid({ message: "componentId must be a UUID" }) });
-const insulationQuery = z.object({ componentId: z.uuid().optional(), circuit: z.string().max(120).optional() });
+const insulationQuery = z.object({ componentId: z.uuid().optional(), circuit: text().max(120).optional() });
 
 export function readingRoutes(db: Db) {
   const r = Router();

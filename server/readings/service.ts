@@ -12,6 +12,7 @@ import type {
 import { recordAudit } from "../audit";
 import type { Db } from "../db";
 import { AppError, conflict, notFound } from "../errors";
+import { isUniqueViolation } from "../middleware/pg-errors";
 import { contactDto, groundDto, insulationDto, thermalDto, type Overrides } from "./judge";
 import * as repo from "./repository";
 
@@ -44,6 +45,10 @@ export async function saveCriteria(db: Db, siteId: string, userId: string, body:
     if (!saved) throw conflict("Someone changed the criteria since you opened them. Here they are now.", await loadCriteria(trx, siteId));
     await recordAudit(trx, { siteId, entityType: "reading_criteria", entityId: siteId, action: "update", actorId: userId, before, after: patch });
     return loadCriteria(trx, siteId);
+  }).catch(async (e) => {
+    // Two first saves at once: the second INSERT meets the first's row (23505) → 409 with the saved criteria.
+    if (isUniqueViolation(e)) throw conflict("Someone saved the criteria at the same moment. Here they are now.", await loadCriteria(db, siteId));
+    throw e;
   });
 }
 
@@ -72,6 +77,10 @@ export async function saveOverride(db: Db, siteId: string, componentId: string, 
     }
     await recordAudit(trx, { siteId, entityType: "component_reading_override", entityId: componentId, action: existing ? "update" : "create", actorId: userId, boardId: component.boardId, positionId: component.positionId, before: existing ?? null, after: values });
     return overrideDto(saved);
+  }).catch(async (e) => {
+    if (!isUniqueViolation(e)) throw e;
+    const now = await repo.getOverride(db, siteId, componentId);
+    throw conflict("Someone saved a manufacturer's value for this component at the same moment.", now ? overrideDto(now) : undefined);
   });
 }
 

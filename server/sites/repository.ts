@@ -29,12 +29,22 @@ export const listMembers = (db: Db, siteId: string) =>
     .orderBy("users.name")
     .execute();
 
-export const upsertMembership = (db: Db, siteId: string, userId: string, role: Role) =>
-  db
-    .insertInto("memberships")
-    .values({ siteId, userId, role })
-    .onConflict((oc) => oc.columns(["siteId", "userId"]).doUpdateSet({ role }))
-    .execute();
+export const insertMembership = (db: Db, siteId: string, userId: string, role: Role) =>
+  db.insertInto("memberships").values({ siteId, userId, role }).execute();
+
+export const updateMembershipRole = (db: Db, siteId: string, userId: string, role: Role) =>
+  db.updateTable("memberships").set({ role }).where("siteId", "=", siteId).where("userId", "=", userId).execute();
+
+export const findMembership = (db: Db, siteId: string, userId: string) =>
+  db.selectFrom("memberships").select(["role"]).where("siteId", "=", siteId).where("userId", "=", userId).executeTakeFirst();
+
+/**
+ * Locks the site's row for the rest of the transaction: every change of the site's crew
+ * takes this lock first, so two of them (two curators demoting each other) run one after
+ * the other and the second sees the first's result. false when the site does not exist.
+ */
+export const lockSite = async (db: Db, siteId: string) =>
+  !!(await db.selectFrom("sites").select("id").where("id", "=", siteId).forUpdate().executeTakeFirst());
 
 export const deleteMembership = (db: Db, siteId: string, userId: string) =>
   db.deleteFrom("memberships").where("siteId", "=", siteId).where("userId", "=", userId).executeTakeFirst();

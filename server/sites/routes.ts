@@ -1,6 +1,6 @@
 import { Router } from "express";
 import { z } from "zod";
-import { addMemberBody, changeRoleBody, createSiteBody, createUserBody } from "../../src/schemas/sites";
+import { changeRoleBody, createSiteBody, createUserBody } from "../../src/schemas/sites";
 import type { Db } from "../db";
 import { notFound } from "../errors";
 import { requireAdmin, requireSiteRole, requireUser } from "../middleware/roles";
@@ -23,7 +23,7 @@ export function siteRoutes(db: Db) {
   });
 
   r.post("/sites", requireAdmin, async (req, res) => {
-    const site = await repo.insertSite(db, createSiteBody.parse(req.body));
+    const site = await service.createSite(db, createSiteBody.parse(req.body), res.locals.user!.id);
     res.status(201).json({ site: { ...site, role: "admin" } });
   });
 
@@ -37,26 +37,22 @@ export function siteRoutes(db: Db) {
     res.json({ members: await repo.listMembers(db, req.params.siteId as string) });
   });
 
-  r.post("/sites/:siteId/members", requireSiteRole(db, "curator"), async (req, res) => {
-    const { email, role } = addMemberBody.parse(req.body);
-    await service.addMember(db, req.params.siteId as string, email, role);
-    res.status(201).json({ members: await repo.listMembers(db, req.params.siteId as string) });
-  });
+  // No "add a member" here: people join a site only by accepting an invitation (/invitations).
 
   r.patch("/sites/:siteId/members/:userId", requireSiteRole(db, "curator"), async (req, res) => {
     const { siteId, userId } = memberParams.parse(req.params);
-    await service.changeRole(db, siteId, userId, changeRoleBody.parse(req.body).role);
+    await service.changeRole(db, siteId, userId, changeRoleBody.parse(req.body).role, res.locals.user!.id);
     res.json({ members: await repo.listMembers(db, siteId) });
   });
 
   r.delete("/sites/:siteId/members/:userId", requireSiteRole(db, "curator"), async (req, res) => {
     const { siteId, userId } = memberParams.parse(req.params);
-    await service.removeMember(db, siteId, userId);
+    await service.removeMember(db, siteId, userId, res.locals.user!.id);
     res.json({ members: await repo.listMembers(db, siteId) });
   });
 
   r.post("/admin/users", requireAdmin, async (req, res) => {
-    const user = await service.createUser(db, createUserBody.parse(req.body));
+    const user = await service.createUser(db, createUserBody.parse(req.body), res.locals.user!.id);
     res.status(201).json({ user });
   });
 

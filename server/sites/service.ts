@@ -1,40 +1,67 @@
 import type { Role } from "../../src/domain/vocab";
+import { recordAudit } from "../audit";
 import { findUserByEmail, insertUser } from "../auth/repository";
 import { hashPassword } from "../auth/password";
 import type { Db } from "../db";
 import { AppError, conflict, notFound } from "../errors";
 import * as repo from "./repository";
 
-export async function addMember(db: Db, siteId: string, email: string, role: Role) {
-  const user = await findUserByEmail(db, email);
-  if (!user) throw new AppError(404, "no_such_user", "No account uses that e-mail address yet. Invite them instead.", { email: "No account with this address" });
-  await repo.upsertMembership(db, siteId, user.id, role);
+/**
+ * The one writer of memberships. Every change locks the site's row first, then checks the
+ * rule that a site keeps at least one curator (so nobody locks the crew out of its own
+ * board), then writes and audits, all in the caller's transaction. Nobody is added to a
+ * site except through an invitation they accept (server/invitations/accept.ts).
+ */
+const lastCurator = () => conflict("A site needs at least one curator. Make someone else curator first.");
+
+async function lockedMember(trx: Db, siteId: string, userId: string) {
+  if (!(await repo.lockSite(trx, siteId))) throw notFound("That site");
+  return repo.findMembership(trx, siteId, userId);
 }
 
-/** A site always keeps at least one curator, so nobody locks the crew out of its own board. */
-export async function changeRole(db: Db, siteId: string, userId: string, role: Role) {
+/** Adds a membership as an invitation is accepted; someone already on the crew keeps their role. */
+export async function joinByInvitation(trx: Db, siteId: string, userId: string, role: Role, invitationId: string) {
+  if (await lockedMember(trx, siteId, userId)) return false;
+  await repo.insertMembership(trx, siteId, userId, role);
+  await recordAudit(trx, { siteId, entityType: "membership", entityId: userId, action: "add", actorId: userId, after: { role, invitationId } });
+  return true;
+}
+
+export async function changeRole(db: Db, siteId: string, userId: string, role: Role, actorId: string) {
   await db.transaction().execute(async (trx) => {
-    const members = await repo.listMembers(trx, siteId);
-    const m = members.find((x) => x.userId === userId);
+    const m = await lockedMember(trx, siteId, userId);
     if (!m) throw notFound("That member");
-    if (m.role === "curator" && role !== "curator" && (await repo.countCurators(trx, siteId)) <= 1)
-      throw conflict("A site needs at least one curator. Make someone else curator first.");
-    await repo.upsertMembership(trx, siteId, userId, role);
+    if (m.role === role) return;
+    if (m.role === "curator" && (await repo.countCurators(trx, siteId)) <= 1) throw lastCurator();
+    await repo.updateMembershipRole(trx, siteId, userId, role);
+    await recordAudit(trx, { siteId, entityType: "membership", entityId: userId, action: "change", actorId, before: { role: m.role }, after: { role } });
   });
 }
 
-export async function removeMember(db: Db, siteId: string, userId: string) {
+export async function removeMember(db: Db, siteId: string, userId: string, actorId: string) {
   await db.transaction().execute(async (trx) => {
-    const members = await repo.listMembers(trx, siteId);
-    const m = members.find((x) => x.userId === userId);
+    const m = await lockedMember(trx, siteId, userId);
     if (!m) throw notFound("That member");
-    if (m.role === "curator" && (await repo.countCurators(trx, siteId)) <= 1)
-      throw conflict("A site needs at least one curator. Make someone else curator first.");
+    if (m.role === "curator" && (await repo.countCurators(trx, siteId)) <= 1) throw lastCurator();
     await repo.deleteMembership(trx, siteId, userId);
+    await recordAudit(trx, { siteId, entityType: "membership", entityId: userId, action: "remove", actorId, before: { role: m.role } });
   });
 }
 
-export async function createUser(db: Db, u: { email: string; name: string; password: string; isAdmin: boolean }) {
+export async function createSite(db: Db, s: { name: string; kind: "vessel" | "building" | "plant"; location: string; description: string }, actorId: string) {
+  return db.transaction().execute(async (trx) => {
+    const site = await repo.insertSite(trx, s);
+    await recordAudit(trx, { siteId: site.id, entityType: "site", entityId: site.id, action: "create", actorId, after: s });
+    return site;
+  });
+}
+
+export async function createUser(db: Db, u: { email: string; name: string; password: string; isAdmin: boolean }, actorId: string | null) {
   if (await findUserByEmail(db, u.email)) throw new AppError(409, "email_taken", "An account with that e-mail already exists.", { email: "Already in use" });
-  return insertUser(db, { email: u.email, name: u.name, passwordHash: await hashPassword(u.password), isAdmin: u.isAdmin });
+  const passwordHash = await hashPassword(u.password);
+  return db.transaction().execute(async (trx) => {
+    const user = await insertUser(trx, { email: u.email, name: u.name, passwordHash, isAdmin: u.isAdmin });
+    await recordAudit(trx, { siteId: null, entityType: "user", entityId: user.id, action: "create", actorId, after: { email: u.email, name: u.name, isAdmin: u.isAdmin } });
+    return user;
+  });
 }

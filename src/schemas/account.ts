@@ -1,16 +1,17 @@
 import { z } from "zod";
+import { text } from "./common";
 import { passwordRule } from "./auth";
 
 export const resetRequestBody = z.object({
-  email: z.string().trim().toLowerCase().email({ message: "Enter an e-mail address" }).max(254),
+  email: text().trim().toLowerCase().email({ message: "Enter an e-mail address" }).max(254),
 });
 /** The one answer to every reset request, whether or not an account uses the address. */
 export const RESET_REQUEST_MESSAGE =
   "If an account uses that address, a link to set a new password is on its way. It works once, for one hour.";
-export const resetRequestResponse = z.object({ ok: z.literal(true), message: z.string() });
+export const resetRequestResponse = z.object({ ok: z.literal(true), message: text() });
 
 export const resetPasswordBody = z.object({ password: passwordRule });
-export const resetPreview = z.object({ email: z.string() });
+export const resetPreview = z.object({ email: text() });
 
 export const NOTIFICATION_KEYS = ["defect_assigned", "awaiting_verification", "weekly_summary"] as const;
 export type NotificationKey = (typeof NOTIFICATION_KEYS)[number];

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { text, int, queryInt, isoDate } from "./common";
 import { DEFECT_CATEGORIES, DEFECT_SEVERITIES, DEFECT_STATUSES } from "../domain/vocab";
 
 export const PARTS_STATES = ["none_needed", "in_hand", "wanted", "unobtainable"] as const;
@@ -19,12 +20,13 @@ export const FLAGS = ["safety", "blocking", "pinned", "unassigned", "overdue"] a
 export type Flag = (typeof FLAGS)[number];
 
 const many = <T extends z.ZodType>(item: T) =>
-  z.preprocess((v) => (v === undefined ? [] : Array.isArray(v) ? v : String(v).split(",").filter(Boolean)), z.array(item).max(50));
-const dateStr = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, { message: "Use YYYY-MM-DD" });
+  // Only a string is split; anything else (an object from a crafted query) goes on to fail the array check, never to throw here.
+  z.preprocess((v) => (v === undefined ? [] : typeof v === "string" ? v.split(",").filter(Boolean) : v), z.array(item).max(50));
+const dateStr = isoDate("Use YYYY-MM-DD");
 
 /** The register's query: the same keys live in the browser's URL, so a link shows the same view. */
 export const listQuery = z.object({
-  q: z.string().trim().max(200).default(""),
+  q: text().trim().max(200).default(""),
   board: many(z.uuid()),
   category: many(z.enum(DEFECT_CATEGORIES)),
   severity: many(z.enum(DEFECT_SEVERITIES)),
@@ -34,8 +36,8 @@ export const listQuery = z.object({
   flag: many(z.enum(FLAGS)),
   sort: z.enum(SORT_KEYS).default("priority"),
   dir: z.enum(["asc", "desc"]).default("desc"),
-  page: z.coerce.number().int().min(0).max(100_000).default(0),
-  size: z.coerce.number().int().min(1).max(200).default(25),
+  page: queryInt().min(0).max(100_000).default(0),
+  size: queryInt().min(1).max(200).default(25),
   /** the day "overdue" counts from (the client's today); defaults to the server's */
   today: dateStr.optional(),
 });
@@ -49,15 +51,15 @@ const fields = {
   sectionId: z.uuid().nullable(),
   positionId: z.uuid().nullable(),
   componentId: z.uuid().nullable(),
-  title: z.string().trim().min(3, { message: "Say in a few words what is wrong" }).max(200),
-  description: z.string().trim().max(8000),
+  title: text().trim().min(3, { message: "Say in a few words what is wrong" }).max(200),
+  description: text().trim().max(8000),
   category: z.enum(DEFECT_CATEGORIES, { message: "Choose a category" }),
   severity: z.enum(DEFECT_SEVERITIES, { message: "Choose a severity" }),
   safetyCritical: z.boolean(),
   blocksEnergisation: z.boolean(),
   effortHours: hours,
   costEstimate: money,
-  partsNeeded: z.string().trim().max(2000),
+  partsNeeded: text().trim().max(2000),
   partsState: z.enum(PARTS_STATES),
   assigneeId: z.uuid().nullable(),
   dueOn: dateStr.nullable(),
@@ -82,60 +84,60 @@ export const createDefectBody = z.object({
 });
 export type CreateDefectBody = z.infer<typeof createDefectBody>;
 
-export const patchDefectBody = z.object(fields).partial().extend({ version: z.number().int().min(1) }).strict();
+export const patchDefectBody = z.object(fields).partial().extend({ version: int().min(1) }).strict();
 export type PatchDefectBody = z.infer<typeof patchDefectBody>;
 
 export const transitionBody = z.object({
   to: z.enum(DEFECT_STATUSES),
-  reason: z.string().trim().max(2000).default(""),
+  reason: text().trim().max(2000).default(""),
   repairedBy: z.uuid().nullable().optional(),
-  version: z.number().int().min(1),
+  version: int().min(1),
 });
-export const assignBody = z.object({ assigneeId: z.uuid().nullable(), version: z.number().int().min(1) });
+export const assignBody = z.object({ assigneeId: z.uuid().nullable(), version: int().min(1) });
 export const pinBody = z.object({
   direction: z.enum(["above", "below"]),
   relativeTo: z.uuid({ message: "Choose the defect to pin against" }),
-  reason: z.string().trim().min(3, { message: "Give the reason for the pin" }).max(2000),
+  reason: text().trim().min(3, { message: "Give the reason for the pin" }).max(2000),
 });
-export const unpinBody = z.object({ reason: z.string().trim().max(2000).default("") });
+export const unpinBody = z.object({ reason: text().trim().max(2000).default("") });
 
 export const bulkBody = z.object({
   ids: z.array(z.uuid()).min(1, { message: "Select at least one defect" }).max(500),
   action: z.discriminatedUnion("type", [
     z.object({ type: z.literal("assign"), assigneeId: z.uuid().nullable() }),
-    z.object({ type: z.literal("status"), to: z.enum(DEFECT_STATUSES), reason: z.string().trim().max(2000).default("") }),
+    z.object({ type: z.literal("status"), to: z.enum(DEFECT_STATUSES), reason: text().trim().max(2000).default("") }),
     z.object({ type: z.literal("due"), dueOn: dateStr.nullable() }),
   ]),
 });
 export type BulkBody = z.infer<typeof bulkBody>;
 
 export const viewBody = z.object({
-  name: z.string().trim().min(1, { message: "Name the view" }).max(80),
-  query: z.string().max(4000).default(""),
+  name: text().trim().min(1, { message: "Name the view" }).max(80),
+  query: text().max(4000).default(""),
 });
 
-const termSchema = z.object({ key: z.string(), label: z.string(), points: z.number() });
+const termSchema = z.object({ key: text(), label: text(), points: z.number() });
 const pinSchema = z.object({
-  id: z.string(), direction: z.enum(["above", "below"]), relativeTo: z.string(), relativeRef: z.number().nullable(),
-  reason: z.string(), pinnedBy: z.string().nullable(), pinnedByName: z.string().nullable(), pinnedAt: z.string(),
-  removedAt: z.string().nullable(), removedByName: z.string().nullable(), removedReason: z.string(),
+  id: text(), direction: z.enum(["above", "below"]), relativeTo: text(), relativeRef: z.number().nullable(),
+  reason: text(), pinnedBy: text().nullable(), pinnedByName: text().nullable(), pinnedAt: text(),
+  removedAt: text().nullable(), removedByName: text().nullable(), removedReason: text(),
 });
 export type DefectPin = z.infer<typeof pinSchema>;
 
 export const defectRowSchema = z.object({
-  id: z.string(), ref: z.number(), siteId: z.string(), boardId: z.string(), boardName: z.string(),
-  sectionId: z.string().nullable(), sectionName: z.string().nullable(),
-  positionId: z.string().nullable(), designation: z.string().nullable(),
-  componentId: z.string().nullable(), inspectionId: z.string().nullable(),
-  title: z.string(), description: z.string(),
+  id: text(), ref: z.number(), siteId: text(), boardId: text(), boardName: text(),
+  sectionId: text().nullable(), sectionName: text().nullable(),
+  positionId: text().nullable(), designation: text().nullable(),
+  componentId: text().nullable(), inspectionId: text().nullable(),
+  title: text(), description: text(),
   category: z.enum(DEFECT_CATEGORIES), severity: z.enum(DEFECT_SEVERITIES), status: z.enum(DEFECT_STATUSES),
-  statusReason: z.string(), safetyCritical: z.boolean(), blocksEnergisation: z.boolean(),
+  statusReason: text(), safetyCritical: z.boolean(), blocksEnergisation: z.boolean(),
   effortHours: z.number().nullable(), costEstimate: z.number().nullable(),
-  partsNeeded: z.string(), partsState: z.enum(PARTS_STATES),
-  assigneeId: z.string().nullable(), assigneeName: z.string().nullable(), dueOn: z.string().nullable(),
-  repairedBy: z.string().nullable(), verifiedBy: z.string().nullable(), createdBy: z.string().nullable(),
+  partsNeeded: text(), partsState: z.enum(PARTS_STATES),
+  assigneeId: text().nullable(), assigneeName: text().nullable(), dueOn: text().nullable(),
+  repairedBy: text().nullable(), verifiedBy: text().nullable(), createdBy: text().nullable(),
   priorityScore: z.number(), pinned: z.enum(["above", "below"]).nullable(),
-  version: z.number(), createdAt: z.string(), updatedAt: z.string(), closedAt: z.string().nullable(),
+  version: z.number(), createdAt: text(), updatedAt: text(), closedAt: text().nullable(),
 });
 export type DefectRow = z.infer<typeof defectRowSchema>;
 
@@ -147,38 +149,38 @@ export const listResponse = z.object({
 });
 
 export const defectDetailSchema = z.object({
-  defect: defectRowSchema.extend({ repairedByName: z.string().nullable(), verifiedByName: z.string().nullable(), createdByName: z.string().nullable() }),
+  defect: defectRowSchema.extend({ repairedByName: text().nullable(), verifiedByName: text().nullable(), createdByName: text().nullable() }),
   terms: z.array(termSchema),
   rank: z.number().nullable(),
   allowedTargets: z.array(z.enum(DEFECT_STATUSES)),
   canEdit: z.boolean(),
-  heritage: z.string().nullable(),
+  heritage: text().nullable(),
   photoCount: z.number(),
   pins: z.array(pinSchema),
-  history: z.array(z.object({ id: z.number(), fromStatus: z.string().nullable(), toStatus: z.string(), reason: z.string(), actorName: z.string().nullable(), at: z.string() })),
-  audit: z.array(z.object({ id: z.number(), action: z.string(), actorName: z.string().nullable(), at: z.string(), after: z.unknown() })),
+  history: z.array(z.object({ id: z.number(), fromStatus: text().nullable(), toStatus: text(), reason: text(), actorName: text().nullable(), at: text() })),
+  audit: z.array(z.object({ id: z.number(), action: text(), actorName: text().nullable(), at: text(), after: z.unknown() })),
 });
 export type DefectDetail = z.infer<typeof defectDetailSchema>;
 
 export const optionsResponse = z.object({
-  boards: z.array(z.object({ id: z.string(), name: z.string() })),
-  sections: z.array(z.object({ id: z.string(), boardId: z.string(), name: z.string() })),
-  crew: z.array(z.object({ id: z.string(), name: z.string(), role: z.string() })),
+  boards: z.array(z.object({ id: text(), name: text() })),
+  sections: z.array(z.object({ id: text(), boardId: text(), name: text() })),
+  crew: z.array(z.object({ id: text(), name: text(), role: text() })),
 });
 export type DefectOptions = z.infer<typeof optionsResponse>;
 
 export const positionsResponse = z.object({
-  positions: z.array(z.object({ id: z.string(), designation: z.string(), sectionId: z.string().nullable(), componentId: z.string().nullable() })),
+  positions: z.array(z.object({ id: text(), designation: text(), sectionId: text().nullable(), componentId: text().nullable() })),
 });
 
-export const viewSchema = z.object({ id: z.string(), name: z.string(), query: z.string(), version: z.number(), updatedAt: z.string() });
+export const viewSchema = z.object({ id: text(), name: text(), query: text(), version: z.number(), updatedAt: text() });
 export type SavedView = z.infer<typeof viewSchema>;
 
 export const planResponse = z.object({
   boards: z.array(z.object({
-    boardId: z.string(), boardName: z.string(),
+    boardId: text(), boardName: text(),
     sections: z.array(z.object({
-      sectionId: z.string().nullable(), sectionName: z.string(),
+      sectionId: text().nullable(), sectionName: text(),
       effortHours: z.number(), unestimated: z.number(), cost: z.number(),
       defects: z.array(defectRowSchema.extend({ rank: z.number() })),
     })),
@@ -187,5 +189,5 @@ export const planResponse = z.object({
 export type RepairPlan = z.infer<typeof planResponse>;
 
 export const contextResponse = z.object({
-  context: z.object({ boardId: z.string(), sectionId: z.string().nullable(), positionId: z.string(), designation: z.string(), componentId: z.string().nullable(), inspectionId: z.string().nullable() }).nullable(),
+  context: z.object({ boardId: text(), sectionId: text().nullable(), positionId: text(), designation: text(), componentId: text().nullable(), inspectionId: text().nullable() }).nullable(),
 });

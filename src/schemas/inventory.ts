@@ -5,18 +5,19 @@
  * carry `version`; a stale one gets 409 {error:{code:"conflict", message, current}}.
  */
 import { z } from "zod";
+import { text as safeText, int as safeInt, queryInt, isoDate } from "./common";
 import {
   COMPONENT_KINDS, CONTAMINANTS, CUSTODY, DISPOSITIONS, EARTHING, HERITAGE,
   INSULATION_STATES, MECHANISM, WATER_TYPES,
 } from "../domain/vocab";
 
-const text = (max: number) => z.string().trim().max(max, { message: `At most ${max} characters` });
+const text = (max: number) => safeText().trim().max(max, { message: `At most ${max} characters` });
 const int = (min: number, max: number) =>
-  z.number().int({ message: "Whole number" }).min(min, { message: `At least ${min}` }).max(max, { message: `At most ${max}` });
+  safeInt({ message: "Whole number" }).min(min, { message: `At least ${min}` }).max(max, { message: `At most ${max}` });
 const num = (min: number, max: number) => z.number().min(min, { message: `At least ${min}` }).max(max, { message: `At most ${max}` });
 const version = int(1, 2_147_483_647);
-const stamp = z.string();
-const id = z.string();
+const stamp = safeText();
+const id = safeText();
 
 // ───────────── params ─────────────
 export const siteParams = z.object({ siteId: z.uuid() });
@@ -26,17 +27,17 @@ export const sectionParams = siteParams.extend({ sectionId: z.uuid() });
 export const positionParams = siteParams.extend({ positionId: z.uuid() });
 export const componentParams = siteParams.extend({ componentId: z.uuid() });
 /** DELETE may carry ?version=n; when given and stale the delete is refused with 409. */
-export const deleteQuery = z.object({ version: z.coerce.number().int().min(1).optional() });
+export const deleteQuery = z.object({ version: queryInt().min(1).optional() });
 
 // ───────────── flood events: GET/POST /flood-events, PATCH /flood-events/:id ─────────────
 export const floodEventSchema = z.object({
-  id, occurredOn: z.string(), waterType: z.enum(WATER_TYPES),
+  id, occurredOn: safeText(), waterType: z.enum(WATER_TYPES),
   maxDepthM: z.number().nullable(), hoursSubmerged: z.number().nullable(),
-  notes: z.string(), version: z.number(), createdAt: stamp, updatedAt: stamp,
+  notes: safeText(), version: z.number(), createdAt: stamp, updatedAt: stamp,
 });
 export type FloodEvent = z.infer<typeof floodEventSchema>;
 export const createFloodEventBody = z.object({
-  occurredOn: z.iso.date({ message: "A date as YYYY-MM-DD" }),
+  occurredOn: isoDate("A date as YYYY-MM-DD"),
   waterType: z.enum(WATER_TYPES),
   maxDepthM: num(0, 100).nullable().optional(),
   hoursSubmerged: num(0, 100_000).nullable().optional(),
@@ -50,10 +51,10 @@ export const floodEventListResponse = z.array(floodEventSchema);
 
 // ───────────── boards ─────────────
 export const boardSchema = z.object({
-  id, name: z.string(), location: z.string(), nominalVolts: z.number(), phases: z.union([z.literal(1), z.literal(3)]),
-  frequencyHz: z.number(), earthing: z.enum(EARTHING), yearBuilt: z.number().nullable(), drawingRef: z.string(),
+  id, name: safeText(), location: safeText(), nominalVolts: z.number(), phases: z.union([z.literal(1), z.literal(3)]),
+  frequencyHz: z.number(), earthing: z.enum(EARTHING), yearBuilt: z.number().nullable(), drawingRef: safeText(),
   faceHeightMm: z.number().nullable(), waterLineMm: z.number().nullable(),
-  gridRows: z.number(), gridCols: z.number(), notes: z.string(),
+  gridRows: z.number(), gridCols: z.number(), notes: safeText(),
   version: z.number(), createdAt: stamp, updatedAt: stamp,
 });
 export type Board = z.infer<typeof boardSchema>;
@@ -84,7 +85,7 @@ export const boardListResponse = z.array(boardListItem);
 
 // ───────────── sections ─────────────
 export const sectionSchema = z.object({
-  id, boardId: id, name: z.string(), sortOrder: z.number(), notes: z.string(),
+  id, boardId: id, name: safeText(), sortOrder: z.number(), notes: safeText(),
   version: z.number(), createdAt: stamp, updatedAt: stamp,
 });
 export type Section = z.infer<typeof sectionSchema>;
@@ -99,9 +100,9 @@ export type PatchSectionBody = z.infer<typeof patchSectionBody>;
 
 // ───────────── positions ─────────────
 export const positionSchema = z.object({
-  id, boardId: id, sectionId: id.nullable(), designation: z.string(), kind: z.enum(COMPONENT_KINDS),
+  id, boardId: id, sectionId: id.nullable(), designation: safeText(), kind: z.enum(COMPONENT_KINDS),
   gridRow: z.number(), gridCol: z.number(), rowSpan: z.number(), colSpan: z.number(),
-  circuit: z.string(), sortOrder: z.number(), version: z.number(), createdAt: stamp, updatedAt: stamp,
+  circuit: safeText(), sortOrder: z.number(), version: z.number(), createdAt: stamp, updatedAt: stamp,
 });
 export type Position = z.infer<typeof positionSchema>;
 const designation = text(40).min(1, { message: "Give the designation painted on the board" });
@@ -123,7 +124,7 @@ export type PatchPositionBody = z.infer<typeof patchPositionBody>;
 /** Creates `${prefix}${from}` … `${prefix}${to}` left to right from startCol on gridRow (≤ 60 at once). */
 export const generatePositionsBody = z
   .object({
-    prefix: z.string().max(20),
+    prefix: safeText().max(20),
     from: int(0, 9999),
     to: int(0, 9999),
     gridRow: int(1, 60),
@@ -141,16 +142,16 @@ export type ReorderPositionsBody = z.infer<typeof reorderPositionsBody>;
 // ───────────── components ─────────────
 export const componentSchema = z.object({
   id, positionId: id, kind: z.enum(COMPONENT_KINDS),
-  maker: z.string(), model: z.string(), frame: z.string(), mounting: z.string(),
+  maker: safeText(), model: safeText(), frame: safeText(), mounting: safeText(),
   ratingAmps: z.number().nullable(), poles: z.number().nullable(), voltageRating: z.number().nullable(),
-  interruptingKa: z.number().nullable(), serial: z.string(), year: z.number().nullable(),
-  meterRange: z.string(), lampWatts: z.number().nullable(),
-  heritage: z.enum(HERITAGE), tagNumber: z.string().nullable(),
-  custody: z.enum(CUSTODY), custodyLocation: z.string(),
-  disposition: z.enum(DISPOSITIONS).nullable(), dispositionReason: z.string(),
+  interruptingKa: z.number().nullable(), serial: safeText(), year: z.number().nullable(),
+  meterRange: safeText(), lampWatts: z.number().nullable(),
+  heritage: z.enum(HERITAGE), tagNumber: safeText().nullable(),
+  custody: z.enum(CUSTODY), custodyLocation: safeText(),
+  disposition: z.enum(DISPOSITIONS).nullable(), dispositionReason: safeText(),
   dispositionRecommended: z.enum(DISPOSITIONS).nullable(), dispositionOverridden: z.boolean(),
   dispositionBy: id.nullable(), dispositionAt: stamp.nullable(), retiredAt: stamp.nullable(),
-  notes: z.string(), version: z.number(), createdAt: stamp, updatedAt: stamp,
+  notes: safeText(), version: z.number(), createdAt: stamp, updatedAt: stamp,
 });
 export type Component = z.infer<typeof componentSchema>;
 /** Nameplate fields typed by kind; an empty tagNumber ("") clears the tag. Tag numbers are unique per site. */
@@ -177,18 +178,18 @@ export type PatchComponentBody = z.infer<typeof patchComponentBody>;
 
 // ───────────── board elevation: GET /boards/:boardId ─────────────
 export const tileComponentSchema = z.object({
-  id, kind: z.enum(COMPONENT_KINDS), tagNumber: z.string().nullable(), heritage: z.enum(HERITAGE),
+  id, kind: z.enum(COMPONENT_KINDS), tagNumber: safeText().nullable(), heritage: z.enum(HERITAGE),
   custody: z.enum(CUSTODY), disposition: z.enum(DISPOSITIONS).nullable(), dispositionOverridden: z.boolean(),
-  maker: z.string(), model: z.string(), ratingAmps: z.number().nullable(), poles: z.number().nullable(),
+  maker: safeText(), model: safeText(), ratingAmps: z.number().nullable(), poles: z.number().nullable(),
   version: z.number(),
 });
 export const tileLatestSchema = z.object({
-  astmGrade: z.number().nullable(), isoRi: z.string().nullable(), percentRusted: z.number().nullable(),
+  astmGrade: z.number().nullable(), isoRi: safeText().nullable(), percentRusted: z.number().nullable(),
   inspectedAt: stamp, belowWaterLine: z.boolean().nullable(),
 });
 export const tileRowSchema = z.object({
-  id, designation: z.string(), kind: z.enum(COMPONENT_KINDS), gridRow: z.number(), gridCol: z.number(),
-  rowSpan: z.number(), colSpan: z.number(), circuit: z.string(), sectionId: id.nullable(), sortOrder: z.number(),
+  id, designation: safeText(), kind: z.enum(COMPONENT_KINDS), gridRow: z.number(), gridCol: z.number(),
+  rowSpan: z.number(), colSpan: z.number(), circuit: safeText(), sectionId: id.nullable(), sortOrder: z.number(),
   version: z.number(),
   component: tileComponentSchema.nullable(),
   latest: tileLatestSchema.nullable(),
@@ -207,13 +208,13 @@ export const reorderedPositionsResponse = z.object({ positions: z.array(position
 
 // ───────────── survey ─────────────
 export const inspectionSchema = z.object({
-  id, componentId: id, positionId: id, inspectorId: id.nullable(), inspectorName: z.string().nullable(),
+  id, componentId: id, positionId: id, inspectorId: id.nullable(), inspectorName: safeText().nullable(),
   inspectedAt: stamp, percentRusted: z.number().nullable(),
   /** ASTM D610 grade 10…0 and ISO 4628-3 "Ri n", computed by the server from percentRusted. */
-  astmGrade: z.number().nullable(), isoRi: z.string().nullable(),
+  astmGrade: z.number().nullable(), isoRi: safeText().nullable(),
   belowWaterLine: z.boolean().nullable(), contaminants: z.array(z.enum(CONTAMINANTS)),
   mechanism: z.enum(MECHANISM).nullable(), insulation: z.enum(INSULATION_STATES).nullable(),
-  notes: z.string(), createdAt: stamp,
+  notes: safeText(), createdAt: stamp,
 });
 export type Inspection = z.infer<typeof inspectionSchema>;
 /** POST /components/:id/inspections → 201 inspectionSchema. Appends; the newest is current. */
@@ -228,8 +229,8 @@ export const createInspectionBody = z.object({
 export type CreateInspectionBody = z.input<typeof createInspectionBody>;
 
 export const custodyMoveSchema = z.object({
-  id, componentId: id, fromState: z.enum(CUSTODY), toState: z.enum(CUSTODY), location: z.string(), note: z.string(),
-  movedBy: id.nullable(), movedByName: z.string().nullable(), movedAt: stamp,
+  id, componentId: id, fromState: z.enum(CUSTODY), toState: z.enum(CUSTODY), location: safeText(), note: safeText(),
+  movedBy: id.nullable(), movedByName: safeText().nullable(), movedAt: stamp,
 });
 export type CustodyMove = z.infer<typeof custodyMoveSchema>;
 /**
@@ -249,8 +250,8 @@ export const custodyResponse = z.object({ component: componentSchema, move: cust
 
 export const recommendationSchema = z.object({
   disposition: z.enum(DISPOSITIONS),
-  reasons: z.array(z.string()),
-  source: z.string(),
+  reasons: z.array(safeText()),
+  source: safeText(),
 });
 /**
  * GET /components/:id/recommendation. `recommendation` is null when the site has no flood
@@ -259,7 +260,7 @@ export const recommendationSchema = z.object({
  */
 export const recommendationResponse = z.object({
   recommendation: recommendationSchema.nullable(),
-  assumptions: z.array(z.string()),
+  assumptions: z.array(safeText()),
   basis: z.object({
     floodEventId: id.nullable(), waterType: z.enum(WATER_TYPES).nullable(),
     inspectionId: id.nullable(), belowWaterLine: z.boolean().nullable(),
@@ -269,7 +270,7 @@ export type RecommendationResponse = z.infer<typeof recommendationResponse>;
 
 export const dispositionDecisionSchema = z.object({
   id, componentId: id, disposition: z.enum(DISPOSITIONS), recommended: z.enum(DISPOSITIONS).nullable(),
-  overridden: z.boolean(), reason: z.string(), decidedBy: id.nullable(), decidedByName: z.string().nullable(), decidedAt: stamp,
+  overridden: z.boolean(), reason: safeText(), decidedBy: id.nullable(), decidedByName: safeText().nullable(), decidedAt: stamp,
 });
 export type DispositionDecision = z.infer<typeof dispositionDecisionSchema>;
 /**
@@ -284,8 +285,8 @@ export const dispositionResponse = z.object({
 
 // ───────────── position detail and lookup ─────────────
 export const auditRowSchema = z.object({
-  id: z.number(), entityType: z.string(), entityId: id, action: z.string(),
-  actorId: id.nullable(), actorName: z.string().nullable(), at: stamp,
+  id: z.number(), entityType: safeText(), entityId: id, action: safeText(),
+  actorId: id.nullable(), actorName: safeText().nullable(), at: stamp,
   before: z.unknown(), after: z.unknown(),
 });
 export type AuditRow = z.infer<typeof auditRowSchema>;
@@ -293,10 +294,10 @@ export type AuditRow = z.infer<typeof auditRowSchema>;
 export const positionDetailResponse = z.object({
   position: positionSchema,
   board: z.object({
-    id, name: z.string(), waterLineMm: z.number().nullable(), faceHeightMm: z.number().nullable(),
+    id, name: safeText(), waterLineMm: z.number().nullable(), faceHeightMm: z.number().nullable(),
     gridRows: z.number(), gridCols: z.number(),
   }),
-  section: z.object({ id, name: z.string() }).nullable(),
+  section: z.object({ id, name: safeText() }).nullable(),
   component: componentSchema.nullable(),
   recommendation: recommendationResponse.nullable(),
   inspections: z.array(inspectionSchema),
@@ -311,9 +312,9 @@ export type PositionDetail = z.infer<typeof positionDetailResponse>;
 export const lookupQuery = z.object({ q: text(60).min(1, { message: "Type a designation or tag number" }) });
 /** GET /positions/lookup?q= — exact matches (designation or tag, case-insensitive) first, then prefix, then contains; ≤ 20. */
 export const lookupMatchSchema = z.object({
-  positionId: id, designation: z.string(), kind: z.enum(COMPONENT_KINDS), circuit: z.string(),
-  boardId: id, boardName: z.string(), sectionName: z.string().nullable(),
-  componentId: id.nullable(), componentVersion: z.number().nullable(), tagNumber: z.string().nullable(),
+  positionId: id, designation: safeText(), kind: z.enum(COMPONENT_KINDS), circuit: safeText(),
+  boardId: id, boardName: safeText(), sectionName: safeText().nullable(),
+  componentId: id.nullable(), componentVersion: z.number().nullable(), tagNumber: safeText().nullable(),
   custody: z.enum(CUSTODY).nullable(), matchedOn: z.enum(["designation", "tag"]), exact: z.boolean(),
 });
 export type LookupMatch = z.infer<typeof lookupMatchSchema>;
@@ -340,7 +341,7 @@ export const overviewResponse = z.object({
   byCustody: countsOf(CUSTODY),
   byGrade: countsOf(GRADE_KEYS),
   originalRetainedPercent: z.number().nullable(),
-  boards: z.array(z.object({ id, name: z.string(), positions: z.number(), surveyed: z.number() })),
+  boards: z.array(z.object({ id, name: safeText(), positions: z.number(), surveyed: z.number() })),
 });
 export type Overview = z.infer<typeof overviewResponse>;
 
@@ -358,22 +359,22 @@ export const CSV_EXPORT_EXTRA_COLUMNS = [
 ] as const;
 export const importQuery = z.object({ mode: z.enum(["preview", "commit"]).default("preview") });
 /** Body: text/csv (≤ 2 MB, else 413) or JSON { csv }. */
-export const importJsonBody = z.object({ csv: z.string().min(1, { message: "The file is empty" }).max(2_000_000) });
+export const importJsonBody = z.object({ csv: safeText().min(1, { message: "The file is empty" }).max(2_000_000) });
 export const importRowSchema = z.object({
   /** Line in the file (the header is line 1). */
   line: z.number(),
   ok: z.boolean(),
-  errors: z.record(z.string(), z.string()),
+  errors: z.record(safeText(), safeText()),
   /** The row as it will be written (camelCase fields), or null when it cannot be read. */
-  data: z.record(z.string(), z.unknown()).nullable(),
+  data: z.record(safeText(), z.unknown()).nullable(),
 });
 export type ImportRow = z.infer<typeof importRowSchema>;
 export const importSummarySchema = z.object({
   rows: z.number(), ok: z.number(), failed: z.number(),
   /** Boards named in the file that do not exist yet: they are created (450 V, 3-phase, 60 Hz, ungrounded defaults, grid sized to fit). */
-  boardsToCreate: z.array(z.string()),
-  sectionsToCreate: z.array(z.string()),
-  ignoredColumns: z.array(z.string()),
+  boardsToCreate: z.array(safeText()),
+  sectionsToCreate: z.array(safeText()),
+  ignoredColumns: z.array(safeText()),
   committed: z.boolean(),
 });
 export type ImportSummary = z.infer<typeof importSummarySchema>;

@@ -1,16 +1,17 @@
 import { z } from "zod";
+import { text, int, isoDate } from "./common";
 import { LEAD_SOURCE_KINDS, LEAD_STATUSES } from "../domain/part-workflow";
 import { SPEC_FIELDS } from "../domain/parts";
 import { COMPONENT_KINDS, HERITAGE_RULES, PART_STATUSES } from "../domain/vocab";
 
-const shortText = (max = 200) => z.string().trim().max(max, { message: `At most ${max} characters` });
+const shortText = (max = 200) => text().trim().max(max, { message: `At most ${max} characters` });
 const money = z.number({ message: "Enter an amount" }).min(0, { message: "Cannot be negative" }).max(10_000_000);
-const dateText = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, { message: "Use YYYY-MM-DD" });
-const version = z.number().int().min(1);
+const dateText = isoDate("Use YYYY-MM-DD");
+const version = int().min(1);
 
 const rating = z.number().positive({ message: "Must be above 0" }).max(100_000).nullable();
-const poles = z.number().int({ message: "Whole number" }).min(1).max(12).nullable();
-const volts = z.number().int({ message: "Whole number" }).positive().max(100_000).nullable();
+const poles = int({ message: "Whole number" }).min(1).max(12).nullable();
+const volts = int({ message: "Whole number" }).positive().max(100_000).nullable();
 const mustMatch = z.array(z.enum(SPEC_FIELDS)).max(SPEC_FIELDS.length).nullable();
 
 export const specFields = {
@@ -28,7 +29,7 @@ export const specFields = {
 
 export const createLineBody = z.object({
   ...specFields,
-  qty: z.number().int({ message: "Whole number" }).min(1).max(10_000),
+  qty: int({ message: "Whole number" }).min(1).max(10_000),
   notes: shortText(4000).default(""),
   estimatedUnitCost: money.nullable().default(null),
   heritageRule: z.enum(HERITAGE_RULES).optional(),
@@ -47,7 +48,7 @@ export const updateLineBody = z.object({
   model: shortText().optional(),
   need: shortText(300).optional(),
   mustMatch: mustMatch.optional(),
-  manualQty: z.number().int().min(0).max(10_000).optional(),
+  manualQty: int().min(0).max(10_000).optional(),
   notes: shortText(4000).optional(),
   estimatedUnitCost: money.nullable().optional(),
 });
@@ -58,7 +59,7 @@ export const heritageRuleBody = z.object({ version, heritageRule: z.enum(HERITAG
 export const acquisitionBody = z.object({
   cost: money,
   acquiredOn: dateText,
-  qty: z.number().int().min(1).max(10_000).default(1),
+  qty: int().min(1).max(10_000).default(1),
   leadId: z.uuid().nullable().default(null),
   notes: shortText(2000).default(""),
 });
@@ -84,7 +85,7 @@ const leadFields = {
   source: shortText(300).min(1, { message: "Where might it come from?" }),
   contact: shortText(500),
   askingPrice: money.nullable(),
-  qtyOffered: z.number().int().min(1).max(10_000).nullable(),
+  qtyOffered: int().min(1).max(10_000).nullable(),
   notes: shortText(4000),
   status: z.enum(LEAD_STATUSES),
 };
@@ -101,11 +102,22 @@ export type LeadBody = z.input<typeof leadBody>;
 // No defaults here: an absent field is left as it is.
 export const updateLeadBody = z.object(leadFields).partial().extend({ version });
 
+/** Server-side sorts of the wanted list ("part" = kind, rating, maker, model, need). */
+export const PART_SORTS = ["created", "part", "heritageRule", "qty", "positions", "status", "leadCount", "estimated"] as const;
+export type PartSort = (typeof PART_SORTS)[number];
+export const PART_PAGE_SIZES = [25, 50, 100, 200, 500] as const;
+
 export const listQuery = z.object({
   status: z.enum([...PART_STATUSES, "open", "all"]).default("open"),
   boardId: z.uuid().optional(),
   kind: z.enum(COMPONENT_KINDS).optional(),
   heritageRule: z.enum(HERITAGE_RULES).optional(),
+  /** Words to find in the maker, model, frame, mounting or part wanted. */
+  q: shortText(200).optional(),
+  sort: z.enum(PART_SORTS).optional(),
+  dir: z.enum(["asc", "desc"]).optional(),
+  page: z.coerce.number().int().min(1).max(100_000).optional(),
+  size: z.coerce.number().int().min(1).max(500).optional(),
 });
 export type ListQuery = z.input<typeof listQuery>;
 
@@ -117,95 +129,99 @@ const specOut = {
   ratingAmps: z.number().nullable(),
   poles: z.number().nullable(),
   voltageRating: z.number().nullable(),
-  frame: z.string(),
-  mounting: z.string(),
-  maker: z.string(),
-  model: z.string(),
-  need: z.string(),
+  frame: text(),
+  mounting: text(),
+  maker: text(),
+  model: text(),
+  need: text(),
 };
 
 export const linePositionSchema = z.object({
-  linkId: z.string(),
-  positionId: z.string().nullable(),
-  designation: z.string().nullable(),
-  boardId: z.string().nullable(),
-  boardName: z.string().nullable(),
-  componentId: z.string().nullable(),
-  defectId: z.string().nullable(),
-  defectTitle: z.string().nullable(),
+  linkId: text(),
+  positionId: text().nullable(),
+  designation: text().nullable(),
+  boardId: text().nullable(),
+  boardName: text().nullable(),
+  componentId: text().nullable(),
+  defectId: text().nullable(),
+  defectTitle: text().nullable(),
   qty: z.number(),
   state: z.enum(["active", "fitted", "withdrawn"]),
 });
 export type LinePosition = z.infer<typeof linePositionSchema>;
 
 export const lineSchema = z.object({
-  id: z.string(),
+  id: text(),
   version: z.number(),
   origin: z.enum(["register", "manual"]),
   ...specOut,
-  title: z.string(),
+  title: text(),
   mustMatch: z.array(z.enum(SPEC_FIELDS)).nullable(),
   status: z.enum(PART_STATUSES),
   heritageRule: z.enum(HERITAGE_RULES),
-  cancelReason: z.string(),
-  notes: z.string(),
+  cancelReason: text(),
+  notes: text(),
   manualQty: z.number(),
   qty: z.number(),
   estimatedUnitCost: z.number().nullable(),
   estimated: z.number().nullable(),
   spent: z.number(),
   leadCount: z.number(),
-  photoIds: z.array(z.string()),
+  photoIds: z.array(text()),
   positions: z.array(linePositionSchema),
-  updatedAt: z.string(),
+  updatedAt: text(),
 });
 export type PartLine = z.infer<typeof lineSchema>;
 
 export const budgetSchema = z.object({
-  rows: z.array(z.object({ boardId: z.string(), boardName: z.string(), estimated: z.number(), spent: z.number(), unestimatedLines: z.number() })),
+  rows: z.array(z.object({ boardId: text(), boardName: text(), estimated: z.number(), spent: z.number(), unestimatedLines: z.number() })),
   total: z.object({ estimated: z.number(), spent: z.number() }),
 });
 export type PartsBudget = z.infer<typeof budgetSchema>;
 
 export const listResponse = z.object({
   lines: z.array(lineSchema),
+  /** Lines matching the filter on every page; `lines` is page `page` of `size`. */
+  total: z.number(),
+  page: z.number(),
+  size: z.number(),
   budget: budgetSchema,
-  boards: z.array(z.object({ id: z.string(), name: z.string() })),
+  boards: z.array(z.object({ id: text(), name: text() })),
 });
 export type PartsListResponse = z.infer<typeof listResponse>;
 
 export const leadSchema = z.object({
-  id: z.string(),
+  id: text(),
   version: z.number(),
-  lineId: z.string(),
+  lineId: text(),
   sourceKind: z.enum(LEAD_SOURCE_KINDS),
-  source: z.string(),
-  contact: z.string(),
+  source: text(),
+  contact: text(),
   askingPrice: z.number().nullable(),
   qtyOffered: z.number().nullable(),
-  notes: z.string(),
+  notes: text(),
   status: z.enum(LEAD_STATUSES),
-  createdAt: z.string(),
+  createdAt: text(),
 });
 export type PartLead = z.infer<typeof leadSchema>;
 
 export const acquisitionSchema = z.object({
-  id: z.string(),
-  leadId: z.string().nullable(),
+  id: text(),
+  leadId: text().nullable(),
   qty: z.number(),
   cost: z.number(),
-  acquiredOn: z.string(),
-  notes: z.string(),
+  acquiredOn: text(),
+  notes: text(),
 });
 
 export const historySchema = z.object({
   id: z.number(),
-  at: z.string(),
-  action: z.string(),
-  summary: z.string(),
+  at: text(),
+  action: text(),
+  summary: text(),
   fromStatus: z.enum(PART_STATUSES).nullable(),
   toStatus: z.enum(PART_STATUSES).nullable(),
-  actorName: z.string().nullable(),
+  actorName: text().nullable(),
 });
 
 export const lineDetailResponse = z.object({
@@ -218,23 +234,23 @@ export const lineDetailResponse = z.object({
 export type LineDetail = z.infer<typeof lineDetailResponse>;
 
 export const shareLinkSchema = z.object({
-  id: z.string(),
-  label: z.string(),
-  createdAt: z.string(),
-  revokedAt: z.string().nullable(),
-  createdByName: z.string().nullable(),
+  id: text(),
+  label: text(),
+  createdAt: text(),
+  revokedAt: text().nullable(),
+  createdByName: text().nullable(),
 });
 export type ShareLink = z.infer<typeof shareLinkSchema>;
 
 /** The public share page: specifications, quantities, photos. Nothing else, by construction. */
 export const sharedLineSchema = z.strictObject({
-  ref: z.string(),
+  ref: text(),
   ...specOut,
-  title: z.string(),
+  title: text(),
   qty: z.number(),
   heritageRule: z.enum(HERITAGE_RULES),
   status: z.enum(["wanted", "lead_found"]),
-  photoUrls: z.array(z.string()),
+  photoUrls: z.array(text()),
 });
-export const sharedListResponse = z.strictObject({ siteName: z.string(), lines: z.array(sharedLineSchema) });
+export const sharedListResponse = z.strictObject({ siteName: text(), lines: z.array(sharedLineSchema) });
 export type SharedList = z.infer<typeof sharedListResponse>;

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { text, int, queryInt } from "./common";
 import { PHOTO_KINDS } from "../domain/vocab";
 
 const id = z.uuid({ message: "must be an id" });
@@ -7,7 +8,7 @@ const optId = id.nullable().optional();
 /** Fields sent beside the file(s) of an upload (multipart text fields). */
 export const uploadFields = z.object({
   kind: z.enum(PHOTO_KINDS).default("other"),
-  caption: z.string().trim().max(500).default(""),
+  caption: text().trim().max(500).default(""),
   boardId: id.optional(),
   positionId: id.optional(),
   componentId: id.optional(),
@@ -17,27 +18,27 @@ export const uploadFields = z.object({
 export type UploadFields = z.infer<typeof uploadFields>;
 
 export const photoSchema = z.object({
-  id: z.string(),
-  siteId: z.string(),
-  boardId: z.string().nullable(),
-  positionId: z.string().nullable(),
-  componentId: z.string().nullable(),
-  defectId: z.string().nullable(),
-  inspectionId: z.string().nullable(),
+  id: text(),
+  siteId: text(),
+  boardId: text().nullable(),
+  positionId: text().nullable(),
+  componentId: text().nullable(),
+  defectId: text().nullable(),
+  inspectionId: text().nullable(),
   kind: z.enum(PHOTO_KINDS),
-  caption: z.string(),
-  originalName: z.string(),
-  format: z.string(),
+  caption: text(),
+  originalName: text(),
+  format: text(),
   width: z.number(),
   height: z.number(),
   bytes: z.number(),
-  capturedAt: z.string().nullable(),
-  cameraModel: z.string(),
-  uploadedBy: z.string().nullable(),
-  uploaderName: z.string().nullable(),
-  boardName: z.string().nullable(),
-  designation: z.string().nullable(),
-  createdAt: z.string(),
+  capturedAt: text().nullable(),
+  cameraModel: text(),
+  uploadedBy: text().nullable(),
+  uploaderName: text().nullable(),
+  boardName: text().nullable(),
+  designation: text().nullable(),
+  createdAt: text(),
   version: z.number(),
   /** 'processing' until the background job has made the display copy and thumbnail. */
   renditionState: z.enum(["processing", "ready", "failed"]),
@@ -54,15 +55,15 @@ export const photoListQuery = z.object({
   kind: z.enum(PHOTO_KINDS).optional(),
   /** Only photos not yet filed to a board or position (after a shoot). */
   unassigned: z.enum(["1", "true"]).optional(),
-  ids: z.string().max(20000).optional(),
-  limit: z.coerce.number().int().min(1).max(500).default(200),
-  offset: z.coerce.number().int().min(0).default(0),
+  ids: text().max(20000).optional(),
+  limit: queryInt().min(1).max(500).default(200),
+  offset: queryInt().min(0).default(0),
 });
 
 export const photoPatch = z.object({
-  version: z.number().int().min(1),
+  version: int().min(1),
   kind: z.enum(PHOTO_KINDS).optional(),
-  caption: z.string().trim().max(500).optional(),
+  caption: text().trim().max(500).optional(),
   boardId: optId,
   positionId: optId,
   componentId: optId,
@@ -72,7 +73,7 @@ export type PhotoPatch = z.infer<typeof photoPatch>;
 
 export const bulkAssignBody = z.object({
   items: z
-    .array(z.object({ photoId: id, version: z.number().int().min(1), positionId: id, kind: z.enum(PHOTO_KINDS).optional() }))
+    .array(z.object({ photoId: id, version: int().min(1), positionId: id, kind: z.enum(PHOTO_KINDS).optional() }))
     .min(1)
     .max(200),
 });
@@ -81,16 +82,16 @@ export type BulkAssign = z.infer<typeof bulkAssignBody>;
 export const photoSettingsSchema = z.object({ requiredKinds: z.array(z.enum(PHOTO_KINDS)), version: z.number() });
 export const photoSettingsBody = z.object({
   requiredKinds: z.array(z.enum(PHOTO_KINDS)).max(PHOTO_KINDS.length).refine((a) => new Set(a).size === a.length, "list each kind once"),
-  version: z.number().int().min(1),
+  version: int().min(1),
 });
 
 export const shootListSchema = z.object({
-  board: z.object({ id: z.string(), name: z.string() }),
+  board: z.object({ id: text(), name: text() }),
   requiredKinds: z.array(z.enum(PHOTO_KINDS)),
   positions: z.array(
     z.object({
-      id: z.string(),
-      designation: z.string(),
+      id: text(),
+      designation: text(),
       photoCount: z.number(),
       have: z.array(z.enum(PHOTO_KINDS)),
       missing: z.array(z.enum(PHOTO_KINDS)),
@@ -106,12 +107,12 @@ export type ShootList = z.infer<typeof shootListSchema>;
 
 /** What a photo can be filed to, for bulk assignment by designation or tag number. */
 export const photoTargetSchema = z.object({
-  positionId: z.string(),
-  boardId: z.string(),
-  boardName: z.string(),
-  designation: z.string(),
-  tagNumber: z.string().nullable(),
-  componentId: z.string().nullable(),
+  positionId: text(),
+  boardId: text(),
+  boardName: text(),
+  designation: text(),
+  tagNumber: text().nullable(),
+  componentId: text().nullable(),
 });
 export type PhotoTarget = z.infer<typeof photoTargetSchema>;
 

@@ -5,6 +5,7 @@
  * against the site's method (→ 400 naming the field).
  */
 import { z } from "zod";
+import { text as safeText, int, isoDateTime } from "./common";
 import { CORRECTION_METHODS } from "../domain/reading-judgement";
 import { THERMAL_CLASSES } from "../domain/insulation";
 
@@ -23,19 +24,19 @@ const positive = (label: string, max: number, unit: string) =>
   z.number({ message: `${label} must be a number` }).positive({ message: `${label} must be more than 0 ${unit}` }).max(max, { message: `${label} must be at most ${max} ${unit}` });
 const opt = <T extends z.ZodType>(s: T) => s.nullish().transform((v) => v ?? null);
 
-const measuredAt = z.iso.datetime({ offset: true, message: "Give the date and time of the reading" });
-const text = (max: number) => z.string().trim().max(max).default("");
+const measuredAt = isoDateTime("Give the date and time of the reading");
+const text = (max: number) => safeText().trim().max(max).default("");
 
 export const insulationReadingBody = z.object({
   componentId: opt(z.uuid({ message: "componentId must be a UUID" })),
   circuit: text(120),
-  testVoltsDc: z.number().int({ message: "Test voltage must be whole volts" }).min(50, { message: "Test voltage must be at least 50 V DC" }).max(15000, { message: "Test voltage must be at most 15000 V DC" }),
+  testVoltsDc: int({ message: "Test voltage must be whole volts" }).min(50, { message: "Test voltage must be at least 50 V DC" }).max(15000, { message: "Test voltage must be at most 15000 V DC" }),
   megohms: positive("Reading", 1e7, "MΩ"),
   conductors: z.enum(CONDUCTORS, { message: "Choose which conductors were tested" }),
   equipmentTempC: num("Equipment temperature", -10, 110, "°C"),
   ambientTempC: opt(num("Ambient temperature", -40, 80, "°C")),
   humidityPercent: opt(num("Relative humidity", 0, 100, "%")),
-  durationS: opt(z.number().int().min(1, { message: "Duration must be at least 1 s" }).max(3600, { message: "Duration must be at most 3600 s" })),
+  durationS: opt(int().min(1, { message: "Duration must be at least 1 s" }).max(3600, { message: "Duration must be at most 3600 s" })),
   r30s: opt(positive("30-second reading", 1e7, "MΩ")),
   r1min: opt(positive("1-minute reading", 1e7, "MΩ")),
   r10min: opt(positive("10-minute reading", 1e7, "MΩ")),
@@ -87,36 +88,36 @@ export const criteriaBody = z.object({
   minimumMegohms: opt(positive("Minimum", 1e7, "MΩ")),
   minimumSource: text(500),
   contactOutlierPercent: num("Contact threshold", 1, 500, "%"),
-  version: z.number().int().min(0),
+  version: int().min(0),
 }).refine((b) => b.minimumMegohms === null || b.minimumSource !== "", { message: "Say where the site's minimum comes from", path: ["minimumSource"] });
 export type CriteriaBody = z.input<typeof criteriaBody>;
 
 export const overrideBody = z.object({
   minimumMegohms: opt(positive("Manufacturer's minimum", 1e7, "MΩ")),
   maximumMicroOhms: opt(positive("Manufacturer's maximum", 1e7, "µΩ")),
-  source: z.string().trim().min(1, { message: "Say where the manufacturer's value comes from" }).max(500),
-  version: z.number().int().min(0).optional(),
+  source: safeText().trim().min(1, { message: "Say where the manufacturer's value comes from" }).max(500),
+  version: int().min(0).optional(),
 }).refine((b) => b.minimumMegohms !== null || b.maximumMicroOhms !== null, { message: "Give a minimum MΩ, a maximum µΩ, or both", path: ["minimumMegohms"] });
 export type OverrideBody = z.input<typeof overrideBody>;
 
 // ---- Responses ---------------------------------------------------------------------------
-export const sourceSchema = z.object({ table: z.string(), text: z.string() });
+export const sourceSchema = z.object({ table: safeText(), text: safeText() });
 export type CriterionSourceDto = z.infer<typeof sourceSchema>;
 const verdict = z.enum(["meets", "below_minimum", "investigate"]);
 const base = {
-  id: z.string(),
-  boardId: z.string(),
-  componentId: z.string().nullable(),
-  designation: z.string().nullable(),
-  measuredAt: z.string(),
-  instrument: z.string(),
-  notes: z.string(),
-  recordedBy: z.string().nullable(),
+  id: safeText(),
+  boardId: safeText(),
+  componentId: safeText().nullable(),
+  designation: safeText().nullable(),
+  measuredAt: safeText(),
+  instrument: safeText(),
+  notes: safeText(),
+  recordedBy: safeText().nullable(),
 };
 
 export const insulationReadingSchema = z.object({
   ...base,
-  circuit: z.string(),
+  circuit: safeText(),
   testVoltsDc: z.number(),
   megohms: z.number(),
   conductors: z.enum(CONDUCTORS),
@@ -137,8 +138,8 @@ export const insulationReadingSchema = z.object({
     minimumPi: z.number(),
     piSource: sourceSchema,
     verdict,
-    reasons: z.array(z.string()),
-    notes: z.array(z.string()),
+    reasons: z.array(safeText()),
+    notes: z.array(safeText()),
   }),
 });
 export type InsulationReading = z.infer<typeof insulationReadingSchema>;
@@ -152,7 +153,7 @@ export const contactReadingSchema = z.object({
     overMaximum: z.array(z.number()),
     limitMicroOhms: z.number(),
     verdict,
-    reasons: z.array(z.string()),
+    reasons: z.array(safeText()),
     sources: z.array(sourceSchema),
   }),
 });
@@ -165,12 +166,12 @@ export const thermalScanSchema = z.object({
   ambientTempC: z.number().nullable(),
   loadPercent: z.number().nullable(),
   loadAmps: z.number().nullable(),
-  photoId: z.string().nullable(),
+  photoId: safeText().nullable(),
   judgement: z.object({
     overSimilarC: z.number().nullable(),
     overAmbientC: z.number().nullable(),
     level: z.number(),
-    action: z.string(),
+    action: safeText(),
     verdict,
     source: sourceSchema,
   }),
@@ -179,12 +180,12 @@ export type ThermalScan = z.infer<typeof thermalScanSchema>;
 
 export const groundCheckSchema = z.object({
   ...base,
-  energisation: z.string(),
+  energisation: safeText(),
   lineVolts: z.number(),
   lamps: phases(z.enum(LAMP_LOOKS)).nullable(),
   volts: phases(z.number()).nullable(),
   branchOhms: z.number().nullable(),
-  judgement: z.object({ phase: z.enum(PHASE_KEYS).nullable(), faultOhms: z.number().nullable(), words: z.string(), verdict, source: sourceSchema }),
+  judgement: z.object({ phase: z.enum(PHASE_KEYS).nullable(), faultOhms: z.number().nullable(), words: safeText(), verdict, source: sourceSchema }),
 });
 export type GroundCheck = z.infer<typeof groundCheckSchema>;
 
@@ -193,34 +194,34 @@ export const criteriaSchema = z.object({
   insulationMedium: z.enum(INSULATION_MEDIA),
   thermalClass: z.enum(THERMAL_CLASSES),
   minimumMegohms: z.number().nullable(),
-  minimumSource: z.string(),
+  minimumSource: safeText(),
   contactOutlierPercent: z.number(),
   version: z.number(),
-  updatedAt: z.string().nullable(),
+  updatedAt: safeText().nullable(),
 });
 export type Criteria = z.infer<typeof criteriaSchema>;
 
 export const overrideSchema = z.object({
-  componentId: z.string(),
+  componentId: safeText(),
   minimumMegohms: z.number().nullable(),
   maximumMicroOhms: z.number().nullable(),
-  source: z.string(),
+  source: safeText(),
   version: z.number(),
 });
 export type ComponentOverride = z.infer<typeof overrideSchema>;
 
 export const readingTargetsSchema = z.object({
   boards: z.array(z.object({
-    id: z.string(),
-    name: z.string(),
+    id: safeText(),
+    name: safeText(),
     nominalVolts: z.number(),
-    positions: z.array(z.object({ positionId: z.string(), designation: z.string(), circuit: z.string(), componentId: z.string().nullable(), kind: z.string() })),
+    positions: z.array(z.object({ positionId: safeText(), designation: safeText(), circuit: safeText(), componentId: safeText().nullable(), kind: safeText() })),
   })),
 });
 export type ReadingTargets = z.infer<typeof readingTargetsSchema>;
 
 export const boardReadingsSchema = z.object({
-  board: z.object({ id: z.string(), name: z.string(), nominalVolts: z.number() }),
+  board: z.object({ id: safeText(), name: safeText(), nominalVolts: z.number() }),
   insulation: z.array(insulationReadingSchema),
   contacts: z.array(contactReadingSchema),
   thermal: z.array(thermalScanSchema),
@@ -229,7 +230,7 @@ export const boardReadingsSchema = z.object({
 export type BoardReadings = z.infer<typeof boardReadingsSchema>;
 
 export const componentReadingsSchema = z.object({
-  component: z.object({ id: z.string(), boardId: z.string(), boardName: z.string(), designation: z.string(), circuit: z.string(), kind: z.string(), ratedVolts: z.number() }),
+  component: z.object({ id: safeText(), boardId: safeText(), boardName: safeText(), designation: safeText(), circuit: safeText(), kind: safeText(), ratedVolts: z.number() }),
   override: overrideSchema.nullable(),
   insulation: z.array(insulationReadingSchema),
   contacts: z.array(contactReadingSchema),

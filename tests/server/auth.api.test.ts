@@ -1,4 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { sessionKey } from "../../server/auth/lucia";
 import { createDb } from "../../server/db";
 import { createTestDb, type TestDb } from "../helpers/db";
 import { makeCrew } from "../helpers/fixtures";
@@ -92,7 +93,7 @@ describe("session lifetime", () => {
     const c = server.client();
     await c.signIn(fx.crew.photographer.email);
     const id = c.cookie.split("=")[1];
-    await t.db.updateTable("sessions").set({ expiresAt: new Date(Date.now() - 1000) }).where("id", "=", id).execute();
+    await t.db.updateTable("sessions").set({ expiresAt: new Date(Date.now() - 1000) }).where("id", "=", sessionKey(id)).execute(); // stored hashed
     expect((await c.get("/api/session")).status).toBe(401);
   });
 

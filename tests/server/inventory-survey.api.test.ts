@@ -22,7 +22,7 @@ beforeAll(async () => {
   await volunteer.signIn(fx.crew.volunteer.email);
   base = `/api/sites/${fx.siteId}`;
   // 4 rows on a 1600 mm face, water line at 900 mm: rows 3–4 reach below it, rows 1–2 stay above.
-  boardId = (await curator.post(`${base}/boards`, { name: "Survey board", gridRows: 4, gridCols: 8, faceHeightMm: 1600, waterLineMm: 900 })).body.id;
+  boardId = (await curator.post(`${base}/boards`, { name: "Survey board", gridRows: 4, gridCols: 60, faceHeightMm: 1600, waterLineMm: 900 })).body.id;
 });
 afterAll(async () => {
   await server.close();
@@ -31,7 +31,7 @@ afterAll(async () => {
 
 let n = 0;
 async function component(kind: string, heritage: "original" | "period" | "modern", gridRow = 4) {
-  const r = await curator.post(`${base}/boards/${boardId}/positions`, { designation: `S-${++n}`, kind, gridRow, gridCol: n % 8 + 1 });
+  const r = await curator.post(`${base}/boards/${boardId}/positions`, { designation: `S-${++n}`, kind, gridRow, gridCol: n % 60 + 1 }); // one cell per position (a unique cell per board, migration 0220)
   const c = r.body.component;
   const p = await curator.patch(`${base}/components/${c.id}`, { heritage, version: c.version });
   return p.body as { id: string; version: number; positionId: string };

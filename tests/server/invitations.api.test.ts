@@ -167,15 +167,33 @@ describe("resend and revoke", () => {
 });
 
 describe("addresses that already have an account", () => {
-  it("an invite for an existing user adds the membership at once and tells them", async () => {
+  it("an address with an account gets the same answer and the same kind of invitation as a new one; it joins only by accepting", async () => {
     const other = await makeUser(t.db, { email: fresh(), name: "Already Here" });
-    const r = await curator.post(`/api/sites/${fx.siteId}/invitations`, { email: other.email.toUpperCase(), role: "viewer" });
-    expect(r.status).toBe(201);
-    expect(r.body).toMatchObject({ outcome: "added", invitation: null });
+    const newcomer = fresh();
+    const a = await curator.post(`/api/sites/${fx.siteId}/invitations`, { email: other.email.toUpperCase(), role: "viewer" });
+    const b = await curator.post(`/api/sites/${fx.siteId}/invitations`, { email: newcomer, role: "viewer" });
+    expect(a.status).toBe(201);
+    expect(b.status).toBe(201);
+    const shape = (r: typeof a) => ({ outcome: r.body.outcome, keys: Object.keys(r.body.invitation).sort(), sendStatus: r.body.invitation.sendStatus });
+    expect(shape(a)).toEqual(shape(b));
+    expect(a.body.outcome).toBe("invited");
+    const none = await t.db.selectFrom("memberships").select("role").where("siteId", "=", fx.siteId).where("userId", "=", other.id).executeTakeFirst();
+    expect(none).toBeUndefined();
+    const msg = await smtp.mailbox.waitFor((x) => x.to.includes(other.email));
+    expect(msg.subject).toContain("invited");
+    const token = tokenOf(linkIn(msg, server.base));
+    const invitee = server.client();
+    expect((await invitee.post(`/api/invitations/${token}/accept`, { password: TEST_PASSWORD })).status).toBe(200);
     const m = await t.db.selectFrom("memberships").select("role").where("siteId", "=", fx.siteId).where("userId", "=", other.id).executeTakeFirst();
     expect(m).toEqual({ role: "viewer" });
-    const msg = await smtp.mailbox.waitFor((x) => x.to.includes(other.email));
-    expect(msg.subject).toContain("added");
+    const audit = await t.db.selectFrom("auditLog").select(["action", "actorId"]).where("entityType", "=", "membership").where("entityId", "=", other.id).execute();
+    expect(audit).toEqual([{ action: "add", actorId: other.id }]);
+  });
+
+  it("there is no way to add an existing account directly (POST /members is gone)", async () => {
+    const other = await makeUser(t.db, { email: fresh() });
+    const r = await curator.post(`/api/sites/${fx.siteId}/members`, { email: other.email, role: "viewer" });
+    expect(r.status).toBe(404);
   });
 
   it("inviting someone already on the crew is a 409", async () => {

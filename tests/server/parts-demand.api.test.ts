@@ -3,7 +3,7 @@ import { reconcileDemand } from "../../server/parts/service";
 import { createTestDb, type TestDb } from "../helpers/db";
 import { makeCrew } from "../helpers/fixtures";
 import { startTestServer, type Client, type TestServer } from "../helpers/http";
-import { BREAKER, makeBoard, makeComponent, makeDefect, setDisposition } from "./parts-fixtures";
+import { BREAKER, makeBoard, makeComponent, makeDefect, registerChanged, setDisposition } from "./parts-fixtures";
 
 // Merging rules: Tideline's own (src/domain/parts.ts, issue 6). These tests check the
 // register → wanted list wiring over HTTP against real PostgreSQL.
@@ -78,6 +78,7 @@ describe("demand follows dispositions", () => {
     const a = await makeComponent(t.db, siteId, boardId, "4-1", { ...BREAKER, disposition: "replace" });
     await list();
     await t.db.updateTable("components").set({ ratingAmps: 400 }).where("id", "=", a.componentId).execute();
+    await registerChanged(t.db, siteId, { componentIds: [a.componentId] });
     const lines = await list();
     expect(lines).toHaveLength(1);
     expect(lines[0].ratingAmps).toBe(400);
@@ -86,6 +87,7 @@ describe("demand follows dispositions", () => {
   it("a retired component asks for nothing", async () => {
     const a = await makeComponent(t.db, siteId, boardId, "4-2", { ...BREAKER, disposition: "replace" });
     await t.db.updateTable("components").set({ retiredAt: new Date() }).where("id", "=", a.componentId).execute();
+    await registerChanged(t.db, siteId, { componentIds: [a.componentId] });
     expect(await list()).toEqual([]);
   });
 
@@ -98,6 +100,7 @@ describe("demand follows dispositions", () => {
     expect(lines[0]).toMatchObject({ need: "Arc chute", qty: 1 });
     expect(lines[0].positions[0]).toMatchObject({ defectId: d.id, defectTitle: "Arc chute cracked" });
     await t.db.updateTable("defects").set({ partsState: "in_hand" }).where("id", "=", d.id).execute();
+    await registerChanged(t.db, siteId, { defectIds: [d.id] });
     expect(await list()).toEqual([]);
   });
 
@@ -170,5 +173,57 @@ describe("through the inventory's disposition endpoint", () => {
     const r2 = await put("clean", r1.body.component.version);
     expect(r2.status, JSON.stringify(r2.body)).toBe(200);
     expect(await list()).toEqual([]);
+  });
+});
+
+describe("through the defects and inventory services (kept current by the writes, never by a read)", () => {
+  let curator: Awaited<ReturnType<typeof server.client>>;
+  beforeEach(async () => {
+    curator = server.client();
+    await curator.signIn(fx.crew.curator.email);
+    await t.db.insertInto("memberships").values({ siteId, userId: fx.crew.curator.id, role: "curator" }).execute();
+  });
+
+  it("a defect raised with parts wanted is on the list at once; closing it as accepted as is withdraws it and the line closes itself", async () => {
+    const c = await makeComponent(t.db, siteId, boardId, "10-1");
+    const r = await curator.post(`/api/sites/${siteId}/defects`, {
+      boardId, positionId: c.positionId, title: "Handle snapped", category: "mechanical", severity: "impaired", partsNeeded: "Operating handle", partsState: "wanted",
+    });
+    expect(r.status, JSON.stringify(r.body)).toBe(201);
+    const lines = await list();
+    expect(lines).toHaveLength(1);
+    expect(lines[0]).toMatchObject({ need: "Operating handle", qty: 1 });
+    const moved = await curator.post(`/api/sites/${siteId}/defects/${r.body.defect?.id ?? r.body.id}/status`, { to: "accepted_as_is", reason: "Handle kept as found", version: r.body.defect?.version ?? r.body.version });
+    expect(moved.status, JSON.stringify(moved.body)).toBe(200);
+    expect(await list()).toEqual([]);
+    expect((await list("?status=all"))[0]).toMatchObject({ status: "cancelled" });
+  });
+
+  it("deleting a position withdraws its demand: the line it alone wanted closes itself", async () => {
+    const c = await makeComponent(t.db, siteId, boardId, "10-2", { ...BREAKER, disposition: "replace" });
+    expect(await list()).toHaveLength(1);
+    const r = await curator.del(`/api/sites/${siteId}/positions/${c.positionId}`);
+    expect(r.status, JSON.stringify(r.body)).toBeLessThan(300);
+    expect(await list()).toEqual([]);
+  });
+
+  it("a nameplate edit through the API moves the demand to the new spec's line", async () => {
+    const c = await makeComponent(t.db, siteId, boardId, "10-3", { ...BREAKER, disposition: "replace" });
+    const r = await curator.patch(`/api/sites/${siteId}/components/${c.componentId}`, { ratingAmps: 600, version: 1 });
+    expect(r.status, JSON.stringify(r.body)).toBe(200);
+    const lines = await list();
+    expect(lines.map((l) => l.ratingAmps)).toEqual([600]);
+  });
+
+  it("pages and filters on the server: size, page, total and a text search", async () => {
+    for (let i = 0; i < 5; i++) await makeComponent(t.db, siteId, boardId, `11-${i}`, { ...BREAKER, ratingAmps: 100 + i, disposition: "replace" });
+    const r = await scrounger.get(`/api/sites/${siteId}/parts?size=2&page=2&sort=part&dir=desc`);
+    expect(r.status).toBe(200);
+    expect(r.body).toMatchObject({ total: 5, page: 2, size: 2 });
+    expect(r.body.lines.map((l: any) => l.ratingAmps)).toEqual([102, 101]);
+    const found = await scrounger.get(`/api/sites/${siteId}/parts?q=${encodeURIComponent("nb 3")}`);
+    expect(found.body.total).toBe(5);
+    const none = await scrounger.get(`/api/sites/${siteId}/parts?q=zzz`);
+    expect(none.body).toMatchObject({ total: 0, lines: [] });
   });
 });

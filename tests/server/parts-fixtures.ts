@@ -1,5 +1,10 @@
-/** Boards, positions, components and defects written straight to the tables, for the wanted-list tests. */
+/**
+ * Boards, positions, components and defects written straight to the tables, for the wanted-list tests.
+ * A direct write bypasses the inventory and defects services, so each helper then tells the parts
+ * domain what changed (`registerChanged`), as those services do in their transactions.
+ */
 import type { Db } from "../../server/db";
+import { syncDemand } from "../../server/parts/service";
 import type { ComponentKind, Disposition } from "../../src/domain/vocab";
 
 export async function makeBoard(db: Db, siteId: string, name = "Main switchboard") {
@@ -29,14 +34,21 @@ export async function makeComponent(db: Db, siteId: string, boardId: string, des
     .values({ siteId, positionId: position.id, kind, disposition, ...rest })
     .returning(["id", "version"])
     .executeTakeFirstOrThrow();
+  await registerChanged(db, siteId, { componentIds: [component.id] });
   return { positionId: position.id, componentId: component.id, designation };
 }
 
-export const setDisposition = (db: Db, componentId: string, disposition: Disposition | null) =>
-  db.updateTable("components").set({ disposition }).where("id", "=", componentId).execute();
+/** What the inventory and defects services do after a change: bring the wanted list in line for those sources. */
+export const registerChanged = (db: Db, siteId: string, scope: { componentIds?: string[]; defectIds?: string[] }) =>
+  db.transaction().execute((trx) => syncDemand(trx, siteId, scope));
+
+export async function setDisposition(db: Db, componentId: string, disposition: Disposition | null) {
+  const c = await db.updateTable("components").set({ disposition }).where("id", "=", componentId).returning("siteId").executeTakeFirstOrThrow();
+  await registerChanged(db, c.siteId, { componentIds: [componentId] });
+}
 
 export async function makeDefect(db: Db, siteId: string, boardId: string, c: { positionId: string; componentId: string } | null, o: { partsNeeded?: string; partsState?: "wanted" | "none_needed"; status?: "raised" | "closed" } = {}) {
-  return db
+  const d = await db
     .insertInto("defects")
     .values({
       siteId, boardId, positionId: c?.positionId ?? null, componentId: c?.componentId ?? null, title: "Arc chute cracked", category: "mechanical", severity: "impaired",
@@ -44,4 +56,6 @@ export async function makeDefect(db: Db, siteId: string, boardId: string, c: { p
     })
     .returning(["id"])
     .executeTakeFirstOrThrow();
+  await registerChanged(db, siteId, { defectIds: [d.id] });
+  return d;
 }

@@ -106,13 +106,31 @@ describe("public share link", () => {
     const json = JSON.stringify(r.body);
     for (const secret of ["1234", String(PRIVATE.price), PRIVATE.contact, "Bosun", PRIVATE.member, "Dealer in old switchgear", "estimated", "spent", "notes", "contact", "asking"])
       expect(json, `share JSON leaks ${secret}`).not.toContain(secret);
-    expect(r.body.lines.find((l: any) => l.need === "clear lamp lens")).toMatchObject({ qty: 3 });
+    // Free text typed on a line or a defect never leaves the site; the line is still there by its spec.
+    expect(json).not.toContain("clear lamp lens");
+    expect(r.body.lines.find((l: any) => l.kind === "ground_lamp")).toMatchObject({ qty: 3, need: "" });
     const withPhoto = r.body.lines.find((l: any) => l.photoUrls.length);
     expect(withPhoto.photoUrls).toEqual([`/api/share/parts/${made.body.token}/photos/${photoId}`]);
     const img = await fetch(server.base + withPhoto.photoUrls[0]);
     expect(img.status).toBe(200);
     expect(Buffer.from(await img.arrayBuffer())).toEqual(THUMB);
     expect((await fetch(server.base + `/api/share/parts/${made.body.token}/photos/00000000-0000-4000-8000-000000000000`)).status).toBe(404);
+  });
+
+  it("a defect's free-text parts needed (a phone number, a price) is not in the shared list; its line is, by spec", async () => {
+    const board = await makeBoard(t.db, fx.siteId, "Share-check board");
+    const c = await makeComponent(t.db, fx.siteId, board.id, "S-9", { ...BREAKER, ratingAmps: 400, frame: "L-400" });
+    const d = await curator.post(`/api/sites/${fx.siteId}/defects`, {
+      boardId: board.id, positionId: c.positionId, componentId: c.componentId, title: "Arc chute cracked", category: "mechanical", severity: "impaired",
+      partsNeeded: "arc chute - ring Jory on 07700 900456, quoted $85", partsState: "wanted",
+    });
+    expect(d.status).toBe(201);
+    const made = await curator.post(`/api/sites/${fx.siteId}/parts/share-links`, { label: "Free-text check" });
+    const r = await server.client().get(`/api/share/parts/${made.body.token}`);
+    expect(r.status).toBe(200);
+    const json = JSON.stringify(r.body);
+    for (const secret of ["07700 900456", "$85", "Jory", "arc chute"]) expect(json, `share JSON leaks ${secret}`).not.toContain(secret);
+    expect(r.body.lines.some((l: any) => l.ratingAmps === 400 && l.frame === "L-400")).toBe(true);
   });
 
   it("members get the nameplate thumbnail through the parts route; outsiders get 404", async () => {

@@ -14,8 +14,9 @@ const as: Record<string, Client> = {};
 async function makeBoard(siteId: string) {
   const db = t.db;
   const board = await db.insertInto("boards").values({ siteId, name: "Main switchboard", nominalVolts: 450 }).returning("id").executeTakeFirstOrThrow();
+  let col = 0;
   const mk = async (designation: string, circuit: string) => {
-    const p = await db.insertInto("positions").values({ siteId, boardId: board.id, designation, kind: "molded_case_breaker", gridRow: 1, gridCol: 1, circuit }).returning("id").executeTakeFirstOrThrow();
+    const p = await db.insertInto("positions").values({ siteId, boardId: board.id, designation, kind: "molded_case_breaker", gridRow: 1, gridCol: ++col, circuit }).returning("id").executeTakeFirstOrThrow();
     return (await db.insertInto("components").values({ siteId, positionId: p.id, kind: "molded_case_breaker", poles: 3 }).returning("id").executeTakeFirstOrThrow()).id;
   };
   return { boardId: board.id, componentId: await mk("1-1", "Steering gear"), otherComponentId: await mk("1-2", "Galley") };

@@ -16,8 +16,9 @@ export const partsKeys = {
 };
 
 const base = (siteId: string) => `/api/sites/${siteId}/parts`;
-const filterQs = (f: ListQuery) => qs({ status: f.status, boardId: f.boardId, kind: f.kind, heritageRule: f.heritageRule });
-export const csvUrl = (siteId: string, f: ListQuery) => `${base(siteId)}.csv${filterQs(f)}`;
+const filterQs = (f: ListQuery) => qs({ status: f.status, boardId: f.boardId, kind: f.kind, heritageRule: f.heritageRule, q: f.q, sort: f.sort, dir: f.dir, page: f.page as number | undefined, size: f.size as number | undefined });
+/** The CSV holds every line of the filter, in the list's order (no page). */
+export const csvUrl = (siteId: string, f: ListQuery) => `${base(siteId)}.csv${filterQs({ ...f, page: undefined, size: undefined })}`;
 export const thumbUrl = (siteId: string, photoId: string) => `${base(siteId)}/photos/${photoId}/thumb`;
 
 export const partsListQueryOptions = (siteId: string, f: ListQuery) =>

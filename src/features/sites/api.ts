@@ -38,10 +38,6 @@ export function useMemberMutations(siteId: string) {
   const qc = useQueryClient();
   const onSuccess = (d: z.infer<typeof membersResponse>) => qc.setQueryData(siteKeys.members(siteId), d.members);
   return {
-    add: useMutation({
-      mutationFn: (b: { email: string; role: Role }) => api.send("POST", `/api/sites/${siteId}/members`, b, membersResponse),
-      onSuccess,
-    }),
     change: useMutation({
       mutationFn: (b: { userId: string; role: Role }) =>
         api.send("PATCH", `/api/sites/${siteId}/members/${b.userId}`, { role: b.role }, membersResponse),

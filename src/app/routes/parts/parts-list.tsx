@@ -5,6 +5,7 @@ import { csvUrl, usePartsList } from "../../../features/parts/api";
 import { BudgetPanel } from "../../../features/parts/components/budget-panel";
 import { NewLineForm } from "../../../features/parts/components/new-line-form";
 import { PartsFilters } from "../../../features/parts/components/parts-filters";
+import { PartsPager } from "../../../features/parts/components/parts-pager";
 import { PartsTable } from "../../../features/parts/components/parts-table";
 import { ShareLinksPanel } from "../../../features/parts/components/share-links-panel";
 import { useFilterParams } from "../../../features/parts/use-filter-params";
@@ -33,13 +34,16 @@ export default function PartsListPage() {
           </Link>
         </div>
       </header>
-      <PartsFilters value={filter} boards={list.data?.boards ?? []} onChange={setFilter} />
+      <PartsFilters value={filter} boards={list.data?.boards ?? []} onChange={(f) => setFilter({ ...f, page: undefined })} />
       {list.isPending && <Loading what="Gathering the wanted list" />}
       {list.isError && <ErrorPanel error={list.error} />}
       {list.data && (list.data.lines.length ? (
         <>
-          <p className="text-sm text-mist" role="status">{list.data.lines.length} line(s), {list.data.lines.reduce((s, l) => s + l.qty, 0)} part(s)</p>
-          <PartsTable siteId={site.id} lines={list.data.lines} busy={list.isPlaceholderData} />
+          <PartsTable
+            siteId={site.id} lines={list.data.lines} busy={list.isPlaceholderData} sort={filter.sort} dir={filter.dir}
+            onSort={(sort, dir) => setFilter({ ...filter, sort, dir, page: undefined })}
+          />
+          <PartsPager total={list.data.total} page={list.data.page} size={list.data.size} onPage={(page, size) => setFilter({ ...filter, page, size })} />
         </>
       ) : (
         <EmptyState title="Nothing on the list for this filter">

@@ -11,7 +11,8 @@ import { useSiteContext } from "../sites/site-layout";
 export default function PartsPrintPage() {
   const { site } = useSiteContext();
   const [filter, , search] = useFilterParams();
-  const list = usePartsList(site.id, filter);
+  // Printing takes the whole filter (up to 500 lines, the server's largest page), not the page on screen.
+  const list = usePartsList(site.id, { ...filter, page: undefined, size: 500 });
   return (
     <div className="space-y-4">
       <div className="no-print flex flex-wrap items-center gap-3">
@@ -23,6 +24,9 @@ export default function PartsPrintPage() {
       {list.isPending && <Loading />}
       {list.isError && <ErrorPanel error={list.error} />}
       {list.data && !list.data.lines.length && <EmptyState title="Nothing to print for this filter" />}
+      {list.data && list.data.total > list.data.lines.length && (
+        <p className="no-print text-flare-300">Showing the first {list.data.lines.length} of {list.data.total} lines: narrow the filter to print the rest.</p>
+      )}
       {list.data && (
         <PrintSheet
           lines={list.data.lines.map((l) => ({

@@ -45,7 +45,7 @@ export default function MembersPage() {
           </li>
         ))}
       </ul>
-      <InviteForm siteId={site.id} onAdded={() => qc.invalidateQueries({ queryKey: siteKeys.members(site.id) })} />
+      <InviteForm siteId={site.id} onSent={() => qc.invalidateQueries({ queryKey: siteKeys.members(site.id) })} />
       <PendingInvitations siteId={site.id} />
     </div>
   );

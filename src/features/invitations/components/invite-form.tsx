@@ -8,8 +8,8 @@ import { useInvitationMutations } from "../api";
 
 type Note = { ok: boolean; text: string };
 
-/** Invite by e-mail; an address that already has an account joins the crew at once (onAdded). */
-export function InviteForm({ siteId, onAdded }: { siteId: string; onAdded: () => void }) {
+/** Invite by e-mail; everyone joins by accepting the link (someone with an account confirms with their password). */
+export function InviteForm({ siteId, onSent }: { siteId: string; onSent: () => void }) {
   const { create } = useInvitationMutations(siteId);
   const [fields, setFields] = useState<Record<string, string>>({});
   const [note, setNote] = useState<Note | null>(null);
@@ -25,10 +25,8 @@ export function InviteForm({ siteId, onAdded }: { siteId: string; onAdded: () =>
     create.mutate(parsed.data, {
       onSuccess: (d) => {
         form.reset();
-        if (d.outcome === "added") {
-          onAdded();
-          setNote({ ok: true, text: `${parsed.data.email} already has an account and is now on the crew.` });
-        } else if (d.invitation?.sendStatus === "sent") setNote({ ok: true, text: `Invitation sent to ${parsed.data.email}.` });
+        onSent();
+        if (d.invitation?.sendStatus === "sent") setNote({ ok: true, text: `Invitation sent to ${parsed.data.email}.` });
         else if (d.invitation?.sendStatus === "pending") setNote({ ok: true, text: `Invitation to ${parsed.data.email} saved; its e-mail is on its way (the list below says when it has gone).` });
         else setNote({ ok: false, text: `The invitation for ${parsed.data.email} is saved, but the e-mail was not sent. Try Resend below.` });
       },
@@ -42,7 +40,7 @@ export function InviteForm({ siteId, onAdded }: { siteId: string; onAdded: () =>
   return (
     <form onSubmit={submit} noValidate aria-labelledby="invite-title" className="space-y-3 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
       <h2 id="invite-title" className="text-lg font-semibold">Invite someone</h2>
-      <p className="text-sm text-mist">They get an e-mail with a link that works once, for 7 days, to choose their own name and password.</p>
+      <p className="text-sm text-mist">They get an e-mail with a link that works once, for 7 days. They join the crew when they accept it: newcomers choose a name and password, people with an account confirm theirs.</p>
       <div className="grid gap-3 sm:grid-cols-[1fr_14rem_auto] sm:items-end">
         <TextField label="E-mail" name="email" type="email" inputMode="email" autoComplete="off" required error={fields.email} />
         <SelectField label="Role on this site" name="role" defaultValue="volunteer" error={fields.role}>

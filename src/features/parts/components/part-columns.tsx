@@ -17,6 +17,7 @@ const col = createColumnHelper<typeof partsFeatures, PartLine>();
 export function partColumns(siteId: string) {
   return col.columns([
     col.accessor("title", {
+      id: "part",
       header: "Part wanted",
       sortFn: "alphanumeric",
       cell: (c) => (
@@ -56,7 +57,7 @@ export function partColumns(siteId: string) {
     col.accessor((r) => PART_STATUSES.indexOf(r.status), { id: "status", header: "Status", sortFn: "basic", cell: (c) => <PartStatusBadge status={c.row.original.status} /> }),
     col.accessor("leadCount", { header: "Leads", sortFn: "basic", cell: (c) => <span className="font-mono">{c.getValue()}</span> }),
     col.accessor((r) => r.estimated ?? -1, {
-      id: "money",
+      id: "estimated",
       header: "Estimated / spent",
       sortFn: "basic",
       cell: (c) => <span className="whitespace-nowrap font-mono text-sm">{money(c.row.original.estimated)} / {money(c.row.original.spent)}</span>,

@@ -6,8 +6,16 @@ const select = "mt-1 block min-h-11 w-full rounded-md border border-hull-500 bg-
 export function PartsFilters({ value, boards, onChange }: { value: ListQuery; boards: Array<{ id: string; name: string }>; onChange: (f: ListQuery) => void }) {
   const set = (k: keyof ListQuery) => (e: React.ChangeEvent<HTMLSelectElement>) => onChange({ ...value, [k]: e.target.value || undefined });
   return (
-    <fieldset className="no-print grid grid-cols-2 gap-3 md:grid-cols-4">
+    <fieldset className="no-print grid grid-cols-2 gap-3 md:grid-cols-5">
       <legend className="sr-only">Filter the wanted list</legend>
+      <label className="col-span-2 text-sm font-semibold text-mist md:col-span-1">
+        Find
+        <input
+          type="search" className={select} defaultValue={value.q ?? ""} placeholder="maker, model, frame…"
+          onKeyDown={(e) => { if (e.key === "Enter") onChange({ ...value, q: e.currentTarget.value.trim() || undefined }); }}
+          onBlur={(e) => { if ((e.currentTarget.value.trim() || undefined) !== value.q) onChange({ ...value, q: e.currentTarget.value.trim() || undefined }); }}
+        />
+      </label>
       <label className="text-sm font-semibold text-mist">
         Status
         <select className={select} value={value.status ?? "open"} onChange={set("status")}>

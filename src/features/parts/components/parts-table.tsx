@@ -1,14 +1,36 @@
-import { useTable } from "@tanstack/react-table";
+import { functionalUpdate, useTable } from "@tanstack/react-table";
 import { useMemo } from "react";
-import type { PartLine } from "../../../schemas/parts";
+import type { PartLine, PartSort } from "../../../schemas/parts";
 import { partColumns, partsFeatures } from "./part-columns";
 
 const ARROW = { asc: " ▲", desc: " ▼" } as const;
 
-/** The scrounger's list: TanStack Table v9, sorted in the browser; filters are in the URL and applied by the server. */
-export function PartsTable({ siteId, lines, busy = false }: { siteId: string; lines: PartLine[]; busy?: boolean }) {
+interface Props {
+  siteId: string;
+  lines: PartLine[];
+  busy?: boolean;
+  sort?: PartSort;
+  dir?: "asc" | "desc";
+  onSort: (sort: PartSort, dir: "asc" | "desc") => void;
+}
+
+/** The scrounger's list: TanStack Table v9; sorting, filters and pages are in the URL and done by the server. */
+export function PartsTable({ siteId, lines, busy = false, sort, dir, onSort }: Props) {
   const columns = useMemo(() => partColumns(siteId), [siteId]);
-  const table = useTable({ features: partsFeatures, columns, data: lines });
+  const sorting = useMemo(() => (sort && sort !== "created" ? [{ id: sort, desc: dir === "desc" }] : []), [sort, dir]);
+  const table = useTable({
+    features: partsFeatures,
+    columns,
+    data: lines,
+    getRowId: (r) => r.id,
+    manualSorting: true,
+    enableMultiSort: false,
+    state: { sorting },
+    onSortingChange: (u) => {
+      const next = functionalUpdate(u, sorting)[0];
+      onSort((next?.id ?? "created") as PartSort, next?.desc ? "desc" : "asc");
+    },
+  });
   return (
     <div className="overflow-x-auto rounded-lg ring-1 ring-hull-700">
       <table className={`w-full min-w-[52rem] border-collapse text-left ${busy ? "opacity-60" : ""}`} aria-label="Wanted parts" aria-busy={busy}>

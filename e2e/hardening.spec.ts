@@ -1,0 +1,41 @@
+import { expect, test } from "@playwright/test";
+import { signIn } from "./support/auth";
+
+// The built client under the server's Content-Security-Policy (helmet): no inline-script
+// exception is needed, so nothing the pages do may be blocked.
+test("the built client runs under the CSP: no violations while signing in and opening the main pages", async ({ page }) => {
+  const violations: string[] = [];
+  page.on("console", (m) => {
+    if (/Content Security Policy/i.test(m.text())) violations.push(m.text());
+  });
+  await page.addInitScript(() => {
+    document.addEventListener("securitypolicyviolation", (e) => console.error(`Content Security Policy violation: ${e.violatedDirective} ${e.blockedURI}`));
+  });
+  const first = await page.goto("/sign-in");
+  const csp = first!.headers()["content-security-policy"] ?? "";
+  expect(csp).toContain("script-src 'self'");
+  expect(csp).toContain("frame-ancestors 'none'");
+  expect(first!.headers()["x-content-type-options"]).toBe("nosniff");
+
+  await signIn(page, "curator");
+  for (const name of ["Boards", "Defects", "Photos"]) {
+    const link = page.getByRole("link", { name, exact: true }).first();
+    if (await link.count()) {
+      await link.click();
+      await page.waitForLoadState("networkidle");
+    }
+  }
+  expect(violations).toEqual([]);
+});
+
+test("too many wrong passwords: the sign-in form says plainly how long to wait", async ({ page }) => {
+  const email = `nobody-${Date.now()}@tideline.test`;
+  await page.goto("/sign-in");
+  for (let i = 0; i < 11; i++) {
+    await page.getByLabel("E-mail").fill(email);
+    await page.getByLabel("Password").fill("not-the-password");
+    await page.getByRole("button", { name: "Sign in" }).click();
+    await expect(page.getByRole("alert")).toBeVisible();
+  }
+  await expect(page.getByRole("alert")).toContainText(/Too many failed sign-ins for this account\. Try again in \d+ minutes?\./);
+});
