@@ -7,6 +7,7 @@ import { createHash } from "node:crypto";
 import { existsSync, readFileSync, writeFileSync, readdirSync } from "node:fs";
 import { join, dirname } from "node:path";
 import { fileURLToPath } from "node:url";
+import { aptGet } from "./apt.mjs";
 
 const root = join(dirname(fileURLToPath(import.meta.url)), "..");
 const isRoot = typeof process.getuid === "function" && process.getuid() === 0;
@@ -21,6 +22,7 @@ const commands = {
   worker: { script: "server/cli/worker.ts", needs: ["deps", "postgres"] },
   "mail:weekly": { script: "server/cli/weekly-summary.ts", needs: ["deps", "postgres"] },
   "photos:cleanup": { script: "server/cli/photos-cleanup.ts", needs: ["deps", "postgres"] },
+  "rts:overdue": { script: "server/cli/rts-overdue.ts", needs: ["deps", "postgres"] },
 };
 
 function say(msg) {
@@ -65,7 +67,7 @@ function aptInstall(pkgs, why) {
   }
   say(`installing ${pkgs.join(", ")} from Debian's packages (${why})…`);
   const env = { ...process.env, DEBIAN_FRONTEND: "noninteractive" };
-  if (run("apt-get", ["update", "-qq"], { env }) !== 0 || run("apt-get", ["install", "-y", "-qq", ...pkgs], { env }) !== 0) {
+  if (aptGet(["update", "-qq"], { cwd: root, env }) !== 0 || aptGet(["install", "-y", "-qq", ...pkgs], { cwd: root, env }) !== 0) {
     say(`apt-get could not install ${pkgs.join(" ")}.`);
     process.exit(1);
   }

@@ -3,6 +3,7 @@
  * migrations; property names are camelCase (CamelCasePlugin maps them to snake_case).
  */
 import type { ColumnType, Generated, Selectable } from "kysely";
+import type { StageStatus, StepKind, Supply, VoltageStep } from "../src/domain/return-to-service";
 import type { LeadSourceKind, LeadStatus } from "../src/domain/part-workflow";
 import type {
   ComponentKind,
@@ -323,7 +324,7 @@ export interface MailOutboxTable {
 }
 
 export type SendStatus = "pending" | "sent" | "failed";
-export type NotificationKey = "defect_assigned" | "awaiting_verification" | "weekly_summary";
+export type NotificationKey = "defect_assigned" | "awaiting_verification" | "weekly_summary" | "watch_overdue";
 
 export interface InvitationsTable {
   id: Generated<string>;
@@ -543,6 +544,172 @@ export interface ComponentReadingOverridesTable {
   updatedAt: Timestamp;
 }
 
+// ---- Return to service (issue 12, migration 2026_12_02_0300): owned by server/return-to-service ----
+type RtsSupply = Supply;
+type RtsVoltageStep = VoltageStep;
+type RtsStageStatus = StageStatus;
+type RtsStepKind = StepKind;
+export type RtsSignoffKind = "signed" | "released" | "struck";
+export type RtsLamps = "equal" | "one_dim" | "one_dark" | "not_seen";
+export type RtsIncidentKind = "protection_operated" | "dark_lamp" | "hot_spot" | "low_insulation" | "other";
+
+export interface RtsQualifiedPersonsTable extends Versioned {
+  userId: string;
+  qualification: string;
+  expiresOn: string | null;
+  updatedBy: string | null;
+}
+
+export interface RtsSettingsTable {
+  siteId: string;
+  insulationMaxAgeDays: Generated<number>;
+  template: ColumnType<unknown, string, string>;
+  version: Generated<number>;
+  updatedBy: string | null;
+  updatedAt: Timestamp;
+}
+
+export interface RtsStagesTable extends Versioned {
+  boardId: string;
+  sortOrder: number;
+  name: string;
+  supply: RtsSupply;
+  protectionDevice: Text;
+  protectionRatingA: Num;
+  protectionLimitA: Num;
+  voltageStep: RtsVoltageStep;
+  stepVolts: Num;
+  dependsOnId: string | null;
+  qualifiedPersonId: string | null;
+  watchHours: Generated<number>;
+  checkEveryHours: Generated<number>;
+  status: Generated<RtsStageStatus>;
+  attempt: Generated<number>;
+  energisedAt: Date | null;
+  releasedAt: Date | null;
+  notes: Text;
+}
+
+export interface RtsStageItemsTable {
+  id: Generated<string>;
+  siteId: string;
+  stageId: string;
+  sectionId: string | null;
+  positionId: string | null;
+}
+
+export interface RtsStepsTable extends Versioned {
+  stageId: string;
+  sortOrder: number;
+  kind: RtsStepKind;
+  title: string;
+  detail: Text;
+  qualifiedOnly: Generated<boolean>;
+}
+
+export interface RtsSignoffsTable {
+  id: Generated<string>;
+  siteId: string;
+  stageId: string;
+  stepId: string;
+  attempt: number;
+  kind: RtsSignoffKind;
+  signedBy: string | null;
+  signerName: string;
+  signedAt: Timestamp;
+  reason: Text;
+  note: Text;
+  evidence: ColumnType<unknown, string | undefined, never>;
+  supersedesId: string | null;
+}
+
+export interface RtsEnergisationsTable {
+  id: Generated<string>;
+  siteId: string;
+  boardId: string;
+  stageId: string;
+  attempt: number;
+  kind: "energise" | "de_energise";
+  at: ColumnType<Date, Date | string, Date | string>;
+  supply: RtsSupply;
+  volts: Num;
+  protectionDevice: Text;
+  protectionRatingA: Num;
+  note: Text;
+  recordedBy: string | null;
+  createdAt: Timestamp;
+}
+
+export interface RtsWatchChecksTable {
+  id: Generated<string>;
+  siteId: string;
+  stageId: string;
+  attempt: number;
+  at: ColumnType<Date, Date | string, Date | string>;
+  lamps: RtsLamps;
+  lampPhase: "A" | "B" | "C" | null;
+  smell: Generated<boolean>;
+  sound: Generated<boolean>;
+  warmToHand: Generated<boolean>;
+  thermalPositionId: string | null;
+  thermalC: Num;
+  ambientC: Num;
+  note: Text;
+  recordedBy: string | null;
+  createdAt: Timestamp;
+}
+
+export interface RtsIncidentsTable {
+  id: Generated<string>;
+  siteId: string;
+  boardId: string;
+  stageId: string;
+  attempt: number;
+  at: ColumnType<Date, Date | string, Date | string>;
+  kind: RtsIncidentKind;
+  positionId: string | null;
+  defectId: string | null;
+  watchCheckId: string | null;
+  readingKind: "thermal_scan" | "insulation_reading" | null;
+  readingId: string | null;
+  summary: string;
+  note: Text;
+  recordedBy: string | null;
+  createdAt: Timestamp;
+}
+
+export interface RtsBreakerOperationsTable {
+  id: Generated<string>;
+  siteId: string;
+  boardId: string;
+  componentId: string;
+  stageId: string | null;
+  operation: "open" | "close";
+  at: ColumnType<Date, Date | string, Date | string>;
+  why: Text;
+  operatedBy: string | null;
+  createdAt: Timestamp;
+}
+
+export interface RtsOperationBudgetsTable extends Versioned {
+  componentId: string;
+  budget: number;
+  reason: Text;
+  updatedBy: string | null;
+}
+
+export interface RtsOverdueNoticesTable {
+  id: Generated<string>;
+  siteId: string;
+  stageId: string;
+  attempt: number;
+  dueAt: ColumnType<Date, Date | string, Date | string>;
+  sentTo: string | null;
+  outcome: "sent" | "failed" | "switched_off" | "no_qualified_person";
+  error: string | null;
+  createdAt: Timestamp;
+}
+
 export interface Database {
   users: UsersTable;
   sessions: SessionsTable;
@@ -580,6 +747,18 @@ export interface Database {
   readingCriteria: ReadingCriteriaTable;
   componentReadingOverrides: ComponentReadingOverridesTable;
   mailOutbox: MailOutboxTable;
+  rtsQualifiedPersons: RtsQualifiedPersonsTable;
+  rtsSettings: RtsSettingsTable;
+  rtsStages: RtsStagesTable;
+  rtsStageItems: RtsStageItemsTable;
+  rtsSteps: RtsStepsTable;
+  rtsSignoffs: RtsSignoffsTable;
+  rtsEnergisations: RtsEnergisationsTable;
+  rtsWatchChecks: RtsWatchChecksTable;
+  rtsIncidents: RtsIncidentsTable;
+  rtsBreakerOperations: RtsBreakerOperationsTable;
+  rtsOperationBudgets: RtsOperationBudgetsTable;
+  rtsOverdueNotices: RtsOverdueNoticesTable;
 }
 
 export type User = Selectable<UsersTable>;

@@ -26,6 +26,7 @@ import { passwordResetRoutes } from "./password-reset/routes";
 import { defectRoutes } from "./defects/routes";
 import { partsRoutes } from "./parts/routes";
 import type { Jobs } from "./jobs";
+import { rtsRoutes } from "./return-to-service/routes";
 
 export interface AppDeps {
   db: Db;
@@ -83,6 +84,7 @@ export function createApp(deps: AppDeps) {
   api.use(mailboxRoutes(deps.mailbox));
   api.use(defectRoutes(db, mail));
   api.use(partsRoutes(db, photoStorage));
+  api.use(rtsRoutes(db));
   api.use((_req, _res, next) => next(new AppError(404, "not_found", "No such API route.")));
   api.use(errorHandler);
 

@@ -14,6 +14,7 @@ import { log } from "./log";
 import { mailFromEnv } from "./mail/setup";
 import { storageFromEnv } from "./photos/storage";
 import { shutdownHttp } from "./shutdown";
+import { LocalDiskStorage } from "./photos/storage/local-disk";
 
 export interface Running {
   server: Server;
@@ -26,15 +27,19 @@ export interface Running {
 export async function serve(opts: { db: Db; port: number; host?: string; clientDir?: string; work?: boolean }): Promise<Running> {
   const mail = await mailFromEnv({ port: opts.port });
   const photoStorage = storageFromEnv();
+  if (photoStorage instanceof LocalDiskStorage) {
+    const removed = await photoStorage.removeLeftovers();
+    if (removed.length) console.log(`[tideline] removed ${removed.length} partial photo file(s) left by an interrupted upload`);
+  }
   const jobs = await startJobs({ db: opts.db, mailer: mail.mailer, publicUrl: mail.publicUrl, photoStorage }, { work: opts.work ?? workerEnabled() });
   const app = createApp({
+    photoStorage,
     db: opts.db,
     clientDir: opts.clientDir,
     trustProxy: process.env.TRUST_PROXY === "1",
     mailer: mail.mailer,
     mailbox: mail.mailbox,
     publicUrl: mail.publicUrl,
-    photoStorage,
     jobs,
   });
   const server = await new Promise<Server>((resolve, reject) => {

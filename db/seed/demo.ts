@@ -8,6 +8,7 @@ import { seedInventory } from "./inventory";
 import { seedInvitations } from "./invitations";
 import { seedPhotos } from "./photos";
 import { seedReadings } from "./readings";
+import { seedReturnToService } from "./return-to-service";
 
 type Db = Kysely<Database>;
 
@@ -49,4 +50,5 @@ export const SEED_STEPS: Array<(trx: Db, ctx: SeedContext) => Promise<void>> = [
   seedDefects, // the defect register, raised from the inventory's inspections
   seedReadings, // test readings on the main board: after the inventory
   seedParts, // the wanted list: demand from the register, leads and acquisitions
+  (trx, ctx) => seedReturnToService(trx, ctx), // the main board's staged return to service, relative to today: after defects and readings
 ];

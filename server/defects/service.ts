@@ -81,21 +81,47 @@ async function resolveLinks(db: Db, siteId: string, b: { boardId: string; sectio
   return out;
 }
 
+/** Inserts a defect with its first status and audit entry, inside the caller's transaction. */
+async function insertRaised(trx: Db, ctx: Ctx, body: Omit<CreateDefectBody, "assigneeId">, auditAction = "create") {
+  const links = await resolveLinks(trx, ctx.siteId, body);
+  const values = { ...body, ...links, siteId: ctx.siteId, createdBy: ctx.actor.id };
+  const { score } = await scoreFor(trx, ctx.siteId, { ...values, effortHours: values.effortHours });
+  const { id } = await repo.insertDefect(trx, { ...values, priorityScore: score });
+  await repo.insertStatusChange(trx, { siteId: ctx.siteId, defectId: id, fromStatus: null, toStatus: "raised", actorId: ctx.actor.id });
+  await recordAudit(trx, { siteId: ctx.siteId, entityType: "defect", entityId: id, action: auditAction, actorId: ctx.actor.id, boardId: links.boardId, positionId: links.positionId, after: values });
+  return id;
+}
+
 export async function createDefect(db: Db, ctx: Ctx, body: CreateDefectBody) {
   if (!canRaise(ctx.actor.role)) throw forbidden("Your role on this site cannot raise defects.");
   if ((body.assigneeId || body.dueOn) && !canManage(ctx.actor.role)) throw forbidden("Only the curator assigns defects and sets due dates.");
   return db.transaction().execute(async (trx) => {
-    const links = await resolveLinks(trx, ctx.siteId, body);
     const { assigneeId, ...rest } = body;
-    const values = { ...rest, ...links, siteId: ctx.siteId, createdBy: ctx.actor.id };
-    const { score } = await scoreFor(trx, ctx.siteId, { ...values, effortHours: values.effortHours });
-    const { id } = await repo.insertDefect(trx, { ...values, priorityScore: score });
-    await repo.insertStatusChange(trx, { siteId: ctx.siteId, defectId: id, fromStatus: null, toStatus: "raised", actorId: ctx.actor.id });
-    await recordAudit(trx, { siteId: ctx.siteId, entityType: "defect", entityId: id, action: "create", actorId: ctx.actor.id, boardId: links.boardId, positionId: links.positionId, after: values });
+    const id = await insertRaised(trx, ctx, rest);
     if (assigneeId) await assign(trx, ctx, await lockAt(trx, ctx, id), assigneeId);
     await demandChanged(trx, ctx.siteId, { defectIds: [id] }, ctx.actor.id); // parts wanted → the wanted list, in this transaction
     return (await current(trx, ctx.siteId, id))!;
   });
+}
+
+/**
+ * An incident defect opened by another domain (return to service) inside ITS transaction:
+ * always safety-critical and blocking energisation, open, unassigned, raised in the name of
+ * whoever recorded the incident (whatever their role: the incident itself is the finding).
+ * Audited as `incident`. Returns the defect's id and reference.
+ */
+export async function raiseIncidentDefect(
+  trx: Db,
+  ctx: Pick<Ctx, "siteId" | "actor">,
+  b: { boardId: string; positionId: string | null; title: string; description: string; category: CreateDefectBody["category"]; severity?: CreateDefectBody["severity"] },
+) {
+  const id = await insertRaised(trx, ctx, {
+    boardId: b.boardId, positionId: b.positionId, sectionId: null, componentId: null, inspectionId: null,
+    title: b.title.slice(0, 200), description: b.description.slice(0, 8000), category: b.category, severity: b.severity ?? "disabling",
+    safetyCritical: true, blocksEnergisation: true, effortHours: null, costEstimate: null, partsNeeded: "", partsState: "none_needed", dueOn: null,
+  }, "incident");
+  const row = await repo.lockDefect(trx, ctx.siteId, id);
+  return { id, ref: Number(row!.ref) };
 }
 
 export async function patchDefect(db: Db, ctx: Ctx, id: string, body: PatchDefectBody) {

@@ -1,4 +1,4 @@
-import { DEFAULT_CRITERIA, correctInsulation, judgeGroundCheck, type ReadingCriteria } from "../../src/domain/reading-judgement";
+import { DEFAULT_CRITERIA, correctInsulation, judgeGroundCheck, judgeThermalScan, type ReadingCriteria } from "../../src/domain/reading-judgement";
 import type { z } from "zod";
 import type {
   contactReadingBody,
@@ -12,6 +12,7 @@ import type {
 import { recordAudit } from "../audit";
 import type { Db } from "../db";
 import { AppError, conflict, notFound } from "../errors";
+import { onReadingRecorded } from "../return-to-service/hooks";
 import { isUniqueViolation } from "../middleware/pg-errors";
 import { contactDto, groundDto, insulationDto, thermalDto, type Overrides } from "./judge";
 import * as repo from "./repository";
@@ -136,6 +137,8 @@ export async function recordInsulation(db: Db, siteId: string, boardId: string, 
     };
     const { id } = await repo.insertInsulation(trx, row);
     await recordAudit(trx, { siteId, entityType: "insulation_reading", entityId: id, action: "record", actorId: userId, boardId, positionId, after: row });
+    const [judged] = await listInsulation(trx, siteId, { id });
+    await onReadingRecorded(trx, siteId, userId, { kind: "insulation_reading", id, boardId, componentId: b.componentId, measuredAt: new Date(b.measuredAt), verdict: judged.judgement.verdict, words: judged.judgement.reasons.join(" ") });
     return id;
   });
   return (await listInsulation(db, siteId, { id }))[0];
@@ -168,6 +171,8 @@ export async function recordThermal(db: Db, siteId: string, componentId: string,
     };
     const { id } = await repo.insertThermal(trx, row);
     await recordAudit(trx, { siteId, entityType: "thermal_scan", entityId: id, action: "record", actorId: userId, boardId: c.boardId, positionId: c.positionId, after: row });
+    const j = judgeThermalScan(row);
+    await onReadingRecorded(trx, siteId, userId, { kind: "thermal_scan", id, boardId: c.boardId, componentId, measuredAt: new Date(b.measuredAt), level: j.level, words: j.source.text });
     return id;
   });
   return (await listThermal(db, siteId, { id }))[0];

@@ -59,4 +59,18 @@ export const paths = {
   partsPrint: { path: "/sites/:siteId/parts/print", href: (siteId: string, search = "") => `/sites/${siteId}/parts/print${search}` },
   partLine: { path: "/sites/:siteId/parts/:lineId", href: (siteId: string, lineId: string) => `/sites/${siteId}/parts/${lineId}` },
   shareParts: { path: "/share/parts/:token", href: (token: string) => `/share/parts/${token}` },
+  returnToService: { path: "/sites/:siteId/return-to-service", href: (siteId: string) => `/sites/${siteId}/return-to-service` },
+  rtsBoard: {
+    path: "/sites/:siteId/boards/:boardId/return-to-service",
+    href: (siteId: string, boardId: string, stageId?: string) => `/sites/${siteId}/boards/${boardId}/return-to-service${stageId ? `#stage-${stageId}` : ""}`,
+  },
+  rtsWatch: {
+    path: "/sites/:siteId/boards/:boardId/watch",
+    href: (siteId: string, boardId: string, stageId?: string) => `/sites/${siteId}/boards/${boardId}/watch${stageId ? `?stage=${stageId}` : ""}`,
+  },
+  rtsStageSheet: {
+    path: "/sites/:siteId/boards/:boardId/return-to-service/stages/:stageId/sheet",
+    href: (siteId: string, boardId: string, stageId: string) => `/sites/${siteId}/boards/${boardId}/return-to-service/stages/${stageId}/sheet`,
+  },
+  rtsSettings: { path: "/sites/:siteId/return-to-service/settings", href: (siteId: string) => `/sites/${siteId}/return-to-service/settings` },
 } as const;

@@ -13,7 +13,7 @@ export const resetRequestResponse = z.object({ ok: z.literal(true), message: tex
 export const resetPasswordBody = z.object({ password: passwordRule });
 export const resetPreview = z.object({ email: text() });
 
-export const NOTIFICATION_KEYS = ["defect_assigned", "awaiting_verification", "weekly_summary"] as const;
+export const NOTIFICATION_KEYS = ["defect_assigned", "awaiting_verification", "weekly_summary", "watch_overdue"] as const;
 export type NotificationKey = (typeof NOTIFICATION_KEYS)[number];
 export const NOTIFICATION_LABELS: Record<NotificationKey, { label: string; hint: string }> = {
   defect_assigned: { label: "A defect is assigned to me", hint: "An e-mail when someone makes you the person to fix a defect." },
@@ -24,6 +24,10 @@ export const NOTIFICATION_LABELS: Record<NotificationKey, { label: string; hint:
   weekly_summary: {
     label: "Weekly summary of my sites",
     hint: "Curators: once a week, what was surveyed, opened and closed, and what still blocks re-energisation.",
+  },
+  watch_overdue: {
+    label: "A watch check is overdue on my stage",
+    hint: "Qualified persons: an e-mail when a stage you are named for misses a watch check.",
   },
 };
 

@@ -51,6 +51,7 @@ describe("notification switches", () => {
       { key: "defect_assigned", enabled: true },
       { key: "awaiting_verification", enabled: true },
       { key: "weekly_summary", enabled: true },
+      { key: "watch_overdue", enabled: true },
     ]);
     await c.put("/api/account/notifications/weekly_summary", { enabled: false });
     const after = (await c.get("/api/account/notifications")).body.prefs;

@@ -17,7 +17,9 @@ afterAll(async () => t.drop());
 it("the demo dry-out has three circuits megged on ten days at varied temperatures, corrected values rising", async () => {
   const { insulation } = await service.boardReadings(t.db, siteId, boardId);
   const byComponent = new Map<string | null, typeof insulation>();
-  for (const r of insulation) byComponent.set(r.componentId, [...(byComponent.get(r.componentId) ?? []), r]);
+  // The dry-out series (the return-to-service demo adds readings on other circuits).
+  for (const r of insulation.filter((x) => ["1-1", "1-2", "BUS-A"].includes(x.designation ?? "")))
+    byComponent.set(r.componentId, [...(byComponent.get(r.componentId) ?? []), r]);
   expect(byComponent.size).toBe(3);
   for (const series of byComponent.values()) {
     expect(series).toHaveLength(10);

@@ -4,6 +4,15 @@ import { dirname, join, relative, resolve, sep } from "node:path";
 import type { Readable } from "node:stream";
 import { StorageNotFound, type PhotoStorage } from "./index";
 
+function processAlive(pid: number) {
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch (e) {
+    return (e as NodeJS.ErrnoException).code === "EPERM"; // alive, but not ours to signal
+  }
+}
+
 /** Photos as files under one folder (the embedded default: .data/photos). */
 export class LocalDiskStorage implements PhotoStorage {
   readonly kind = "disk" as const;
@@ -55,6 +64,24 @@ export class LocalDiskStorage implements PhotoStorage {
     await rm(this.path(key), { force: true });
     // Leave no empty photo folders behind; ignore a folder that still holds files.
     await rmdir(dirname(this.path(key))).catch(() => undefined);
+  }
+
+  /**
+   * Removes what an interrupted write left: `<key>.<pid>.partial` files whose writer is no
+   * longer running (a crash between write and rename can leave them, zero bytes or half a
+   * photo). Called once at start, before any upload of this process. Returns what it removed.
+   */
+  async removeLeftovers(): Promise<string[]> {
+    const removed: string[] = [];
+    for (const key of await this.listKeys()) {
+      const m = /\.(\d+)\.partial$/.exec(key);
+      if (!m) continue;
+      const pid = Number(m[1]);
+      if (pid !== process.pid && processAlive(pid)) continue; // another process is writing it now
+      await rm(this.path(key), { force: true });
+      removed.push(key);
+    }
+    return removed;
   }
 
   async listKeys(prefix = "") {
