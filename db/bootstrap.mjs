@@ -22,6 +22,8 @@ const commands = {
   worker: { script: "server/cli/worker.ts", needs: ["deps", "postgres"] },
   "mail:weekly": { script: "server/cli/weekly-summary.ts", needs: ["deps", "postgres"] },
   "photos:cleanup": { script: "server/cli/photos-cleanup.ts", needs: ["deps", "postgres"] },
+  backup: { script: "server/cli/backup.ts", needs: ["deps", "postgres"] },
+  restore: { script: "server/cli/restore.ts", needs: ["deps", "postgres"] },
   "rts:overdue": { script: "server/cli/rts-overdue.ts", needs: ["deps", "postgres"] },
 };
 

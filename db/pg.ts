@@ -29,7 +29,7 @@ export interface Cluster {
   stop(): void;
 }
 
-function pgBin(): string {
+export function pgBin(): string {
   const base = "/usr/lib/postgresql";
   const versions = existsSync(base)
     ? readdirSync(base).filter((v) => existsSync(join(base, v, "bin", "initdb")))

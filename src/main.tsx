@@ -1,3 +1,4 @@
+import "./zod-config"; // first: before any zod schema exists (CSP without eval)
 import { StrictMode } from "react";
 import { createRoot } from "react-dom/client";
 import { RouterProvider } from "react-router";

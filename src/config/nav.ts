@@ -18,6 +18,7 @@ export const SITE_NAV: NavItem[] = [
   { label: "Defects", href: (s) => paths.defects.href(s), roles: [] },
   { label: "Repair plan", href: (s) => paths.repairPlan.href(s), roles: ["curator", "admin"] },
   { label: "Readings", href: (s) => paths.readings.href(s), roles: [] },
+  { label: "Return to service", href: (s) => paths.returnToService.href(s), roles: [] },
   { label: "Photo desk", href: (s) => paths.photos.href(s), roles: ["photographer", "curator", "admin"] },
   { label: "Shoot list", href: (s) => paths.photoShootList.href(s), roles: ["photographer", "curator", "admin"] },
   { label: "Photos", href: (s) => paths.photoGallery.href(s), roles: [] },

@@ -12,6 +12,7 @@
 import { randomUUID } from "node:crypto";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createApp } from "../../server/app";
+import { rolesFor, type RtsAction } from "../../src/domain/return-to-service";
 import type { Role } from "../../src/domain/vocab";
 import { createTestDb, type TestDb } from "../helpers/db";
 import { makeCrew } from "../helpers/fixtures";
@@ -25,6 +26,8 @@ const FIELD = ["curator", "volunteer"] as const; // raise defects, log inspectio
 const PHOTO_UP = ["curator", "photographer", "volunteer"] as const;
 const FILING = ["curator", "photographer"] as const;
 const PARTS = ["curator", "scrounger"] as const;
+/** Return to service declares its own permission table (src/domain/return-to-service.ts); the matrix checks the routes follow it. */
+const rts = (action: RtsAction) => rolesFor(action).filter((r) => r !== "admin") as Role[];
 
 /** Who may call each route (an instance admin counts as every role on every site). */
 export const ACCESS: Record<string, Access> = {
@@ -140,6 +143,30 @@ export const ACCESS: Record<string, Access> = {
   "POST /api/sites/:siteId/parts/:lineId/leads": PARTS,
   "GET /api/share/parts/:token": "public",
   "GET /api/share/parts/:token/photos/:photoId": "public",
+  "GET /api/sites/:siteId/return-to-service": rts("read"),
+  "GET /api/sites/:siteId/return-to-service/settings": rts("read"),
+  "PUT /api/sites/:siteId/return-to-service/settings": rts("plan"),
+  "GET /api/sites/:siteId/return-to-service/qualified-persons": rts("read"),
+  "PUT /api/sites/:siteId/return-to-service/qualified-persons/:userId": rts("manage_qualified"),
+  "DELETE /api/sites/:siteId/return-to-service/qualified-persons/:userId": rts("manage_qualified"),
+  "GET /api/sites/:siteId/boards/:boardId/return-to-service": rts("read"),
+  "POST /api/sites/:siteId/boards/:boardId/return-to-service/stages": rts("plan"),
+  "GET /api/sites/:siteId/return-to-service/stages/:stageId": rts("read"),
+  "PATCH /api/sites/:siteId/return-to-service/stages/:stageId": rts("plan"),
+  "DELETE /api/sites/:siteId/return-to-service/stages/:stageId": rts("plan"),
+  "POST /api/sites/:siteId/return-to-service/stages/:stageId/move": rts("plan"),
+  "POST /api/sites/:siteId/return-to-service/stages/:stageId/steps": rts("plan"),
+  "POST /api/sites/:siteId/return-to-service/stages/:stageId/watch-checks": rts("record_watch"),
+  "POST /api/sites/:siteId/return-to-service/stages/:stageId/incidents": rts("record_incident"),
+  "POST /api/sites/:siteId/return-to-service/stages/:stageId/de-energise": rts("de_energise"),
+  "POST /api/sites/:siteId/return-to-service/stages/:stageId/restart": rts("restart"),
+  "PATCH /api/sites/:siteId/return-to-service/steps/:stepId": rts("plan"),
+  "DELETE /api/sites/:siteId/return-to-service/steps/:stepId": rts("plan"),
+  "POST /api/sites/:siteId/return-to-service/steps/:stepId/move": rts("plan"),
+  "POST /api/sites/:siteId/return-to-service/steps/:stepId/signoffs": rts("sign"),
+  "POST /api/sites/:siteId/return-to-service/signoffs/:signoffId/supersede": rts("sign"),
+  "POST /api/sites/:siteId/components/:componentId/breaker-operations": rts("record_operation"),
+  "PUT /api/sites/:siteId/components/:componentId/operations-budget": rts("set_budget"),
 };
 
 const ROLES_ON_SITE = ["curator", "volunteer", "photographer", "scrounger", "viewer"] as const;

@@ -24,8 +24,9 @@ async function makeBoard(siteId: string) {
   const board = await db.insertInto("boards").values({ siteId, name: "Main switchboard", nominalVolts: 450 }).returning("id").executeTakeFirstOrThrow();
   const section = await db.insertInto("sections").values({ siteId, boardId: board.id, name: "Power distribution" }).returning("id").executeTakeFirstOrThrow();
   const other = await db.insertInto("sections").values({ siteId, boardId: board.id, name: "Lighting" }).returning("id").executeTakeFirstOrThrow();
+  let col = 0; // one grid cell per position (exclusion constraint, migration 2026_12_02_0220)
   const mk = async (designation: string, circuit: string, sec: string, year: number) => {
-    const p = await db.insertInto("positions").values({ siteId, boardId: board.id, sectionId: sec, designation, kind: "molded_case_breaker", gridRow: 1, gridCol: 1, circuit }).returning("id").executeTakeFirstOrThrow();
+    const p = await db.insertInto("positions").values({ siteId, boardId: board.id, sectionId: sec, designation, kind: "molded_case_breaker", gridRow: 1, gridCol: ++col, circuit }).returning("id").executeTakeFirstOrThrow();
     pos[designation] = p.id;
     comp[designation] = (await db.insertInto("components").values({ siteId, positionId: p.id, kind: "molded_case_breaker", poles: 3, voltageRating: 500, year }).returning("id").executeTakeFirstOrThrow()).id;
   };

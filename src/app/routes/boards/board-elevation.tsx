@@ -41,6 +41,7 @@ export default function BoardElevationPage() {
       <header className="flex flex-wrap items-end justify-between gap-3">
         <div>
           <h1 className="text-2xl font-bold">{board.name}</h1>
+          <Link to={paths.rtsBoard.href(site.id, board.id)} className="text-sm underline">Return to service: stages, hold points and watch</Link>
           <p className="text-sm text-mist">
             {[board.location, `${board.nominalVolts} V`, board.phases === 3 ? "3-phase" : "1-phase", `${board.frequencyHz} Hz`, EARTHING_LABELS[board.earthing],
               board.yearBuilt ? `built ${board.yearBuilt}` : null, board.drawingRef ? `drawing ${board.drawingRef}` : null].filter(Boolean).join(" · ")}

@@ -7,6 +7,7 @@ import { useQueryClient } from "@tanstack/react-query";
 import { siteKeys, useMemberMutations, useMembers } from "../../../features/sites/api";
 import { InviteForm } from "../../../features/invitations/components/invite-form";
 import { PendingInvitations } from "../../../features/invitations/components/pending-invitations";
+import { QualifiedPersons } from "../../../features/return-to-service/components/qualified-persons";
 import { useSiteContext } from "./site-layout";
 
 export default function MembersPage() {
@@ -47,6 +48,7 @@ export default function MembersPage() {
       </ul>
       <InviteForm siteId={site.id} onSent={() => qc.invalidateQueries({ queryKey: siteKeys.members(site.id) })} />
       <PendingInvitations siteId={site.id} />
+      <QualifiedPersons siteId={site.id} />
     </div>
   );
 }

@@ -1,0 +1,37 @@
+import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
+import { api } from "../../lib/api-client";
+import type { QualifiedPerson, RtsBoardView, RtsOverviewBoard } from "../../schemas/return-to-service";
+
+const site = (siteId: string) => `/api/sites/${siteId}`;
+export const rtsKeys = {
+  all: (siteId: string) => ["rts", siteId] as const,
+  board: (siteId: string, boardId: string) => [...rtsKeys.all(siteId), "board", boardId] as const,
+  overview: (siteId: string) => [...rtsKeys.all(siteId), "overview"] as const,
+  qualified: (siteId: string) => [...rtsKeys.all(siteId), "qualified"] as const,
+};
+
+export const useRtsBoard = (siteId: string, boardId: string) =>
+  useQuery({
+    queryKey: rtsKeys.board(siteId, boardId),
+    queryFn: ({ signal }) => api.raw("GET", `${site(siteId)}/boards/${boardId}/return-to-service`, undefined, signal) as Promise<RtsBoardView>,
+    refetchInterval: 60_000,
+  });
+export const useRtsOverview = (siteId: string) =>
+  useQuery({
+    queryKey: rtsKeys.overview(siteId),
+    queryFn: ({ signal }) => (api.raw("GET", `${site(siteId)}/return-to-service`, undefined, signal) as Promise<{ boards: RtsOverviewBoard[] }>).then((d) => d.boards),
+  });
+export const useQualifiedPersons = (siteId: string) =>
+  useQuery({
+    queryKey: rtsKeys.qualified(siteId),
+    queryFn: ({ signal }) => (api.raw("GET", `${site(siteId)}/return-to-service/qualified-persons`, undefined, signal) as Promise<{ people: QualifiedPerson[] }>).then((d) => d.people),
+  });
+
+/** One mutation hook for every write of the feature: method, path under the site, body. Invalidates the feature. */
+export function useRtsAction(siteId: string) {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (v: { method: "POST" | "PUT" | "PATCH" | "DELETE"; path: string; body?: unknown }) => api.raw(v.method, `${site(siteId)}${v.path}`, v.body ?? {}),
+    onSettled: () => qc.invalidateQueries({ queryKey: rtsKeys.all(siteId) }),
+  });
+}
