@@ -15,10 +15,10 @@ const isRoot = typeof process.getuid === "function" && process.getuid() === 0;
 const commands = {
   start: { script: "server/cli/start.ts", needs: ["deps", "postgres"] },
   dev: { script: "server/cli/dev.ts", needs: ["deps", "postgres"] },
-  test: { script: "tests/run-all.ts", needs: ["deps", "postgres", "chromium"] },
+  test: { script: "tests/run-all.ts", needs: ["deps", "postgres", "chromium", "poppler"] },
   migrate: { script: "db/cli/migrate.ts", needs: ["deps", "postgres"] },
   "user:create": { script: "server/cli/user-create.ts", needs: ["deps", "postgres"] },
-  bench: { script: "server/cli/bench.ts", needs: ["deps", "postgres"] },
+  bench: { script: "server/cli/bench.ts", needs: ["deps", "postgres", "poppler"] },
   worker: { script: "server/cli/worker.ts", needs: ["deps", "postgres"] },
   "mail:weekly": { script: "server/cli/weekly-summary.ts", needs: ["deps", "postgres"] },
   "photos:cleanup": { script: "server/cli/photos-cleanup.ts", needs: ["deps", "postgres"] },
@@ -90,6 +90,12 @@ function ensureChromium() {
   aptInstall(["chromium"], "Debian's chromium for the end-to-end tests");
 }
 
+/** pdftotext, pdftoppm and pdfinfo: the report and label tests read Tideline's PDFs with them. */
+function ensurePoppler() {
+  if (existsSync("/usr/bin/pdftotext") && existsSync("/usr/bin/pdftoppm")) return;
+  aptInstall(["poppler-utils"], "Debian's poppler-utils (pdftotext, pdftoppm) for the report tests");
+}
+
 const name = process.argv[2];
 const command = commands[name];
 if (!command) {
@@ -99,6 +105,7 @@ if (!command) {
 if (command.needs.includes("deps")) ensureDeps();
 if (command.needs.includes("postgres")) ensurePostgres();
 if (command.needs.includes("chromium")) ensureChromium();
+if (command.needs.includes("poppler")) ensurePoppler();
 
 const tsx = join(root, "node_modules", "tsx", "dist", "cli.mjs");
 const child = spawn(process.execPath, [tsx, command.script, ...process.argv.slice(3)], {

@@ -26,6 +26,7 @@ import { passwordResetRoutes } from "./password-reset/routes";
 import { defectRoutes } from "./defects/routes";
 import { partsRoutes } from "./parts/routes";
 import type { Jobs } from "./jobs";
+import { reportRoutes } from "./reports/routes";
 import { rtsRoutes } from "./return-to-service/routes";
 
 export interface AppDeps {
@@ -84,6 +85,7 @@ export function createApp(deps: AppDeps) {
   api.use(mailboxRoutes(deps.mailbox));
   api.use(defectRoutes(db, mail));
   api.use(partsRoutes(db, photoStorage));
+  api.use(reportRoutes(db, photoStorage, mail.publicUrl));
   api.use(rtsRoutes(db));
   api.use((_req, _res, next) => next(new AppError(404, "not_found", "No such API route.")));
   api.use(errorHandler);

@@ -20,6 +20,7 @@ import { listPage, registerQuery } from "../defects/list-query";
 import { priorityScore, type PartsAvailability } from "../../src/domain/priority";
 import { DEFECT_CATEGORIES, DEFECT_SEVERITIES, DEFECT_STATUSES } from "../../src/domain/vocab";
 import { listQuery } from "../../src/schemas/defects";
+import { benchReport } from "./bench-report";
 
 const N = Number(process.env.BENCH_N ?? 30);
 const POSITIONS = 50_000;
@@ -160,3 +161,5 @@ async function main() {
 }
 
 await main();
+// The condition survey report's case (issue 17) runs on its own scratch database.
+if (process.env.BENCH_REPORT !== "0") await benchReport();

@@ -22,6 +22,8 @@ export const router = createBrowserRouter([
       { path: paths.admin.path, ...page(() => import("./routes/admin/admin-home")) },
       { path: paths.mailbox.path, ...page(() => import("./routes/admin/mailbox")) },
       { path: paths.account.path, ...page(() => import("./routes/account/account")) },
+      { path: paths.scan.path, ...page(() => import("./routes/reports/scan")) },
+      { path: paths.tag.path, ...page(() => import("./routes/reports/tag")) },
       {
         path: paths.site.path,
         ...page(() => import("./routes/sites/site-layout")),
@@ -52,6 +54,7 @@ export const router = createBrowserRouter([
           { path: "boards/:boardId/watch", ...page(() => import("./routes/return-to-service/watch")) },
           { path: "boards/:boardId/return-to-service/stages/:stageId/sheet", ...page(() => import("./routes/return-to-service/stage-sheet")) },
           { path: "parts", ...page(() => import("./routes/parts/parts-list")) },
+          { path: "reports", ...page(() => import("./routes/reports/reports")) },
           { path: "parts/print", ...page(() => import("./routes/parts/parts-print")) },
           { path: "parts/:lineId", ...page(() => import("./routes/parts/part-line")) },
           { path: "*", ...page(() => import("./routes/not-found")) },

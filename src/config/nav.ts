@@ -23,6 +23,8 @@ export const SITE_NAV: NavItem[] = [
   { label: "Shoot list", href: (s) => paths.photoShootList.href(s), roles: ["photographer", "curator", "admin"] },
   { label: "Photos", href: (s) => paths.photoGallery.href(s), roles: [] },
   { label: "Wanted parts", href: (s) => paths.parts.href(s), roles: [] },
+  { label: "Reports", href: (s) => paths.reports.href(s), roles: [] },
+  { label: "Scan tag", href: () => paths.scan.href(), roles: [] },
   { label: "Flood record", href: (s) => paths.floodEvents.href(s), roles: ["curator", "admin"] },
   { label: "Import CSV", href: (s) => paths.inventoryImport.href(s), roles: ["curator", "admin"] },
   { label: "Crew", href: (s) => paths.members.href(s), roles: ["curator", "admin"] },
@@ -32,7 +34,7 @@ export const SITE_NAV: NavItem[] = [
 const PHONE_BAR: Record<Who, string[]> = {
   curator: ["Overview", "Boards", "Defects", "Quick log"],
   admin: ["Overview", "Boards", "Defects", "Quick log"],
-  volunteer: ["Quick log", "Boards", "Readings", "Defects"],
+  volunteer: ["Quick log", "Scan tag", "Boards", "Readings"],
   photographer: ["Photo desk", "Shoot list", "Boards", "Overview"],
   scrounger: ["Wanted parts", "Boards", "Defects", "Overview"],
   viewer: ["Overview", "Boards", "Defects", "Readings"],

@@ -58,6 +58,10 @@ export const paths = {
   parts: { path: "/sites/:siteId/parts", href: (siteId: string, search = "") => `/sites/${siteId}/parts${search}` },
   partsPrint: { path: "/sites/:siteId/parts/print", href: (siteId: string, search = "") => `/sites/${siteId}/parts/print${search}` },
   partLine: { path: "/sites/:siteId/parts/:lineId", href: (siteId: string, lineId: string) => `/sites/${siteId}/parts/${lineId}` },
+  reports: { path: "/sites/:siteId/reports", href: (siteId: string) => `/sites/${siteId}/reports` },
+  scan: { path: "/scan", href: () => "/scan" },
+  /** The short URL in a tag's QR code. */
+  tag: { path: "/t/:tag", href: (tag: string) => `/t/${encodeURIComponent(tag)}` },
   shareParts: { path: "/share/parts/:token", href: (token: string) => `/share/parts/${token}` },
   returnToService: { path: "/sites/:siteId/return-to-service", href: (siteId: string) => `/sites/${siteId}/return-to-service` },
   rtsBoard: {

@@ -1,0 +1,55 @@
+import { useQueryClient } from "@tanstack/react-query";
+import { useState } from "react";
+import { SafetyNotice } from "../../../components/safety-notice";
+import { EmptyState, ErrorPanel, Loading } from "../../../components/status";
+import { inventoryKeys, useBoard, useBoards } from "../../../features/inventory/api";
+import { LabelsForm } from "../../../features/reports/components/labels-form";
+import { ReportForm } from "../../../features/reports/components/report-form";
+import { reportAllowed } from "../../../schemas/reports";
+import { useSiteContext } from "../sites/site-layout";
+
+/** Reports and labels: the condition survey PDF for everyone on the site, tag labels for the crew who handle parts. */
+export default function ReportsPage() {
+  const { site, role } = useSiteContext();
+  const boards = useBoards(site.id);
+  const [labelBoard, setLabelBoard] = useState("");
+  const boardId = labelBoard || boards.data?.[0]?.id || "";
+  const detail = useBoard(site.id, boardId);
+  const qc = useQueryClient();
+  const canLabel = reportAllowed("labels", role);
+
+  return (
+    <div className="space-y-6">
+      <header>
+        <h1 className="text-2xl font-bold">Reports and labels</h1>
+        <p className="text-mist">Hand the survey to owners, insurers, sponsors and the heritage body; print tags for tag-and-bag.</p>
+      </header>
+      {boards.isPending && <Loading what="Loading the boards" />}
+      {boards.isError && <ErrorPanel error={boards.error} />}
+      {boards.data && boards.data.length === 0 && <EmptyState title="No boards yet">A report needs at least one board.</EmptyState>}
+      {boards.data && boards.data.length > 0 && (
+        <>
+          <section className="rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
+            <ReportForm siteId={site.id} siteName={site.name} boards={boards.data} />
+          </section>
+          {canLabel && (
+            <section className="rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
+              {detail.isError && <ErrorPanel error={detail.error} />}
+              <LabelsForm
+                siteId={site.id}
+                boards={boards.data}
+                boardId={boardId}
+                onBoardChange={setLabelBoard}
+                sections={detail.data?.sections ?? []}
+                positions={(detail.data?.positions ?? []).map((p) => ({ id: p.id, designation: p.designation, sectionId: p.sectionId, tagNumber: p.component?.tagNumber ?? null, hasComponent: !!p.component }))}
+                canAssign={reportAllowed("assignTags", role)}
+                onTagsAssigned={() => void qc.invalidateQueries({ queryKey: inventoryKeys.all(site.id) })}
+              />
+            </section>
+          )}
+          <SafetyNotice />
+        </>
+      )}
+    </div>
+  );
+}
