@@ -19,6 +19,7 @@ const commands = {
   migrate: { script: "db/cli/migrate.ts", needs: ["deps", "postgres"] },
   "user:create": { script: "server/cli/user-create.ts", needs: ["deps", "postgres"] },
   bench: { script: "server/cli/bench.ts", needs: ["deps", "postgres", "poppler"] },
+  worker: { script: "server/cli/worker.ts", needs: ["deps", "postgres"] },
   "mail:weekly": { script: "server/cli/weekly-summary.ts", needs: ["deps", "postgres"] },
   "photos:cleanup": { script: "server/cli/photos-cleanup.ts", needs: ["deps", "postgres"] },
   backup: { script: "server/cli/backup.ts", needs: ["deps", "postgres"] },

@@ -305,6 +305,29 @@ export interface PhotosTable extends Versioned {
   thumbKey: string;
   uploadedBy: string | null;
   deletedAt: Date | null;
+  /** 'processing' until the rendition job has written the display copy and thumbnail. */
+  renditionState: Generated<RenditionState>;
+  renditionError: string | null;
+}
+
+export type RenditionState = "processing" | "ready" | "failed";
+export type OutboxStatus = "queued" | "retrying" | "sent" | "failed";
+
+/** E-mail waiting for, or past, delivery by the "mail.send" job (server/mail/outbox.ts). */
+export interface MailOutboxTable {
+  id: Generated<string>;
+  toAddress: string;
+  fromName: string | null;
+  subject: string;
+  textBody: string;
+  htmlBody: string;
+  status: Generated<OutboxStatus>;
+  attempts: Generated<number>;
+  lastError: string | null;
+  refType: string | null;
+  refId: string | null;
+  createdAt: Generated<Date>;
+  sentAt: Date | null;
 }
 
 export type SendStatus = "pending" | "sent" | "failed";
@@ -793,6 +816,7 @@ export interface Database {
   tripTests: TripTestsTable;
   stepVoltageTests: StepVoltageTestsTable;
   groundHuntSteps: GroundHuntStepsTable;
+  mailOutbox: MailOutboxTable;
   rtsQualifiedPersons: RtsQualifiedPersonsTable;
   rtsSettings: RtsSettingsTable;
   rtsStages: RtsStagesTable;

@@ -26,6 +26,7 @@ import { notificationRoutes } from "./notifications/routes";
 import { passwordResetRoutes } from "./password-reset/routes";
 import { defectRoutes } from "./defects/routes";
 import { partsRoutes } from "./parts/routes";
+import type { Jobs } from "./jobs";
 import { reportRoutes } from "./reports/routes";
 import { rtsRoutes } from "./return-to-service/routes";
 
@@ -43,9 +44,15 @@ export interface AppDeps {
   publicUrl?: string;
   /** Where photo files go; default from env (PHOTO_STORAGE, local disk under .data/photos). */
   photoStorage?: PhotoStorage;
+  /** The background job queue (server/jobs): e-mail goes through its outbox, photo renditions through its worker. */
+  jobs?: Jobs;
   /** Host names served besides loopback and PUBLIC_URL's host (default: ALLOWED_HOSTS). */
   allowedHosts?: string[];
 }
+
+/** The app without a job queue cannot make photo renditions; say so instead of failing obscurely. */
+const missingJobs = () =>
+  ({ enqueue: async () => { throw new AppError(503, "no_job_queue", "Background jobs are not running on this server."); } }) as unknown as Jobs;
 
 export function createApp(deps: AppDeps) {
   const { db } = deps;
@@ -54,7 +61,7 @@ export function createApp(deps: AppDeps) {
   if (deps.trustProxy) app.set("trust proxy", 1);
   const lucia = createLucia(db);
   const photoStorage = deps.photoStorage ?? storageFromEnv();
-  const mail = { db, mailer: deps.mailer ?? unconfiguredMailer(), publicUrl: (deps.publicUrl ?? "http://127.0.0.1:3000").replace(/\/+$/, "") };
+  const mail = { db, mailer: deps.mailer ?? unconfiguredMailer(), publicUrl: (deps.publicUrl ?? "http://127.0.0.1:3000").replace(/\/+$/, ""), jobs: deps.jobs };
   app.use(hostAllowlist(allowedHostsFrom({ publicUrl: mail.publicUrl, extra: deps.allowedHosts ?? parseHostList(process.env.ALLOWED_HOSTS) })));
   app.use(securityHeaders({ https: mail.publicUrl.startsWith("https:") }));
 
@@ -77,7 +84,7 @@ export function createApp(deps: AppDeps) {
   const limiters = createLimiters(db);
   api.use(authRoutes(db, lucia, { mail, limiters }));
   api.use(siteRoutes(db));
-  api.use(photoRoutes(db, photoStorage));
+  api.use(photoRoutes(db, photoStorage, deps.jobs ?? missingJobs()));
   api.use(readingRoutes(db));
   api.use(inventoryRoutes(db));
   api.use(invitationRoutes(mail, lucia, limiters));

@@ -2,23 +2,36 @@
  * Listens. Used by `npm start` after set-up, and on its own for a deployment that
  * brings its own PostgreSQL (DATABASE_URL): `node --import tsx server/index.ts`.
  * The process keeps no state of its own, so several can run behind a load balancer.
+ * TIDELINE_WORKER=off makes it a web-only instance (run `npm run worker` elsewhere).
  */
 import type { Server } from "node:http";
 import { join } from "node:path";
 import { createApp } from "./app";
 import { createDb, type Db } from "./db";
+import { workerEnabled, type Jobs } from "./jobs";
+import { startJobs } from "./jobs/registry";
+import { log } from "./log";
 import { mailFromEnv } from "./mail/setup";
 import { storageFromEnv } from "./photos/storage";
+import { shutdownHttp } from "./shutdown";
 import { LocalDiskStorage } from "./photos/storage/local-disk";
 
-/** Also sets up e-mail from the environment (SMTP_URL, or the local fake server); it stops with the server. */
-export async function serve(opts: { db: Db; port: number; host?: string; clientDir?: string }): Promise<Server> {
+export interface Running {
+  server: Server;
+  jobs: Jobs;
+  /** Graceful: stop accepting, finish in-flight requests and running jobs within limits; the caller closes the pool. */
+  stop(): Promise<void>;
+}
+
+/** Also sets up e-mail from the environment (SMTP_URL, or the local fake server) and the job queue. */
+export async function serve(opts: { db: Db; port: number; host?: string; clientDir?: string; work?: boolean }): Promise<Running> {
   const mail = await mailFromEnv({ port: opts.port });
   const photoStorage = storageFromEnv();
   if (photoStorage instanceof LocalDiskStorage) {
     const removed = await photoStorage.removeLeftovers();
     if (removed.length) console.log(`[tideline] removed ${removed.length} partial photo file(s) left by an interrupted upload`);
   }
+  const jobs = await startJobs({ db: opts.db, mailer: mail.mailer, publicUrl: mail.publicUrl, photoStorage }, { work: opts.work ?? workerEnabled() });
   const app = createApp({
     photoStorage,
     db: opts.db,
@@ -27,14 +40,47 @@ export async function serve(opts: { db: Db; port: number; host?: string; clientD
     mailer: mail.mailer,
     mailbox: mail.mailbox,
     publicUrl: mail.publicUrl,
+    jobs,
   });
-  return new Promise((resolve, reject) => {
-    const server = app.listen(opts.port, opts.host ?? process.env.HOST ?? "127.0.0.1", (err?: Error) =>
-      err ? reject(err) : resolve(server),
-    );
-    server.on("error", (e) => void mail.stop().finally(() => reject(e)));
-    server.on("close", () => void mail.stop());
+  const server = await new Promise<Server>((resolve, reject) => {
+    const s = app.listen(opts.port, opts.host ?? process.env.HOST ?? "127.0.0.1", (err?: Error) => (err ? reject(err) : resolve(s)));
+  }).catch(async (e) => {
+    await jobs.stop(1000);
+    await mail.stop();
+    throw e;
   });
+  let stopping: Promise<void> | undefined;
+  return {
+    server,
+    jobs,
+    stop: () =>
+      (stopping ??= (async () => {
+        app.locals.draining = true; // /api/health/ready answers 503 from now on
+        const limit = Number(process.env.SHUTDOWN_TIMEOUT_MS ?? 25_000);
+        await Promise.all([shutdownHttp(server, limit), jobs.stop(limit)]);
+        await mail.stop();
+      })()),
+  };
+}
+
+/** SIGTERM / SIGINT: graceful stop, then `after` (close the pool, stop an embedded cluster), then exit. */
+export function stopOnSignals(running: Running, after: () => Promise<void> | void) {
+  let once = false;
+  const stop = async (sig: string) => {
+    if (once) return;
+    once = true;
+    log.info({ signal: sig }, "shutting down: no new requests; finishing in-flight requests and running jobs");
+    try {
+      await running.stop();
+      await after();
+      log.info("stopped");
+      process.exit(0);
+    } catch (e) {
+      log.error({ err: e }, "shutdown failed");
+      process.exit(1);
+    }
+  };
+  for (const sig of ["SIGINT", "SIGTERM", "SIGHUP"] as const) process.on(sig, () => void stop(sig));
 }
 
 if (import.meta.url === `file://${process.argv[1]}`) {
@@ -43,11 +89,9 @@ if (import.meta.url === `file://${process.argv[1]}`) {
     console.error("Set DATABASE_URL, or use `npm start` for the embedded database.");
     process.exit(1);
   }
-  const db = createDb(process.env.DATABASE_URL);
+  const db = createDb(process.env.DATABASE_URL, Number(process.env.DATABASE_POOL_MAX ?? 10));
   const port = Number(process.env.PORT ?? 3000);
-  const server = await serve({ db, port, clientDir: join(import.meta.dirname, "..", "dist", "client") });
-  console.log(`Tideline listening on http://127.0.0.1:${port}`);
-  const stop = () => server.close(() => void db.destroy().then(() => process.exit(0)));
-  process.on("SIGINT", stop);
-  process.on("SIGTERM", stop);
+  const running = await serve({ db, port, clientDir: join(import.meta.dirname, "..", "dist", "client") });
+  log.info({ port, worker: running.jobs.working }, `Tideline listening on http://127.0.0.1:${port}`);
+  stopOnSignals(running, () => db.destroy());
 }

@@ -1,10 +1,11 @@
 /**
  * The e-mail to an account's owner when its sign-in is locked after repeated wrong
- * passwords. One function, so the outbox can take it over later. Runs after the answer
+ * passwords, through the e-mail outbox when the app runs its job queue. Runs after the answer
  * has gone out: an unknown address and a known one look the same from outside.
  */
 import { compose } from "../mail/compose";
 import type { MailDeps } from "../mail/mailer";
+import { sendOrQueue } from "../mail/outbox";
 import { findUserByEmail } from "./repository";
 
 export async function sendSignInLockedAlert(deps: MailDeps, email: string, p: { failures: number; lockMinutes: number }) {
@@ -20,6 +21,6 @@ export async function sendSignInLockedAlert(deps: MailDeps, email: string, p: { 
     action: { label: "Set a new password", url: `${deps.publicUrl}/reset-password` },
     footer: ["You get this message at most once per lock, however many attempts are made."],
   });
-  const r = await deps.mailer.send({ to: user.email, ...msg });
+  const r = await sendOrQueue(deps, { to: user.email, ...msg });
   return { sent: r.ok };
 }

@@ -42,6 +42,8 @@ async function memoryPhotos() {
   const storage: PhotoStorage = {
     kind: "disk",
     put: async () => {},
+    putFile: async () => {},
+    check: async () => {},
     delete: async () => {},
     listKeys: async () => [],
     get: async (key) => {

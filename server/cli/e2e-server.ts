@@ -3,11 +3,13 @@
 import { buildClient, log, prepareDatabase } from "./prepare";
 import { ensureDatabase } from "../../db/pg";
 import { openLocalDatabase } from "../../db/local";
-import { serve } from "../index";
+import { serve, stopOnSignals } from "../index";
 import { rmSync } from "node:fs";
 import { join } from "node:path";
 import { projectRoot } from "../../db/pg";
 
+// Background jobs (e-mail, photo renditions) are picked up quickly in browser tests.
+process.env.TIDELINE_JOB_POLL_SECONDS ??= "0.5";
 const name = process.env.E2E_DATABASE ?? "tideline_e2e";
 // The e2e database is fresh each run; so is its photo folder, apart from the dev one.
 process.env.PHOTO_DIR ??= join(projectRoot, ".data", "photos-e2e");
@@ -17,11 +19,10 @@ await ensureDatabase(cluster.adminUrl, name, { fresh: true });
 const { local, db } = await prepareDatabase("test", name);
 const clientDir = buildClient();
 const port = Number(process.env.PORT ?? 3100);
-const server = await serve({ db, port, clientDir });
+const running = await serve({ db, port, clientDir });
 log(`e2e server on http://127.0.0.1:${port} (database ${name})`);
-const stop = () => {
-  server.closeAllConnections();
-  server.close(() => void db.destroy().then(() => { local.stop(); cluster.stop(); process.exit(0); }));
-};
-process.on("SIGINT", stop);
-process.on("SIGTERM", stop);
+stopOnSignals(running, async () => {
+  await db.destroy();
+  local.stop();
+  cluster.stop();
+});

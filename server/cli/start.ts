@@ -2,7 +2,7 @@
 // Production mode: Express (and its final handler) never prints a stack into a page.
 process.env.NODE_ENV ??= "production";
 import { DEMO_PASSWORD, DEMO_PEOPLE } from "../../db/seed/people";
-import { serve } from "../index";
+import { serve, stopOnSignals } from "../index";
 import { buildClient, log, prepareDatabase } from "./prepare";
 
 const started = Date.now();
@@ -16,24 +16,14 @@ try {
   throw e;
 }
 const port = Number(process.env.PORT ?? 3000);
-const server = await serve({ db, port, clientDir });
+const running = await serve({ db, port, clientDir });
 
 log(`ready in ${((Date.now() - started) / 1000).toFixed(1)} s — open http://127.0.0.1:${port}`);
 log(`demo accounts (password "${DEMO_PASSWORD}"): ${DEMO_PEOPLE.map((p) => p.email).join(", ")}`);
 log("Ctrl-C stops the server and the database; data is kept in .data/");
 
-let stopping = false;
-async function stop() {
-  if (stopping) return;
-  stopping = true;
-  log("stopping…");
-  server.closeAllConnections?.();
-  await new Promise((r) => server.close(r));
+log(running.jobs.working ? "background jobs run in this process (TIDELINE_WORKER=off to leave them to `npm run worker`)" : "TIDELINE_WORKER=off: no background jobs here; run `npm run worker`");
+stopOnSignals(running, async () => {
   await db.destroy();
   local.stop();
-  log("stopped.");
-  process.exit(0);
-}
-process.on("SIGINT", stop);
-process.on("SIGTERM", stop);
-process.on("SIGHUP", stop);
+});

@@ -7,6 +7,7 @@
 import nodemailer from "nodemailer";
 import addressparser from "nodemailer/lib/addressparser";
 import type { Db } from "../db";
+import type { Jobs } from "../jobs";
 
 export interface MailMessage {
   to: string;
@@ -29,6 +30,8 @@ export interface MailDeps {
   mailer: Mailer;
   /** Base URL of the pages people open from an e-mail, without a trailing slash. */
   publicUrl: string;
+  /** The job queue: with it, e-mail goes through the outbox (server/mail/outbox.ts); without, it is sent at once. */
+  jobs?: Jobs;
 }
 
 export const DEFAULT_FROM = '"Tideline" <no-reply@tideline.invalid>';

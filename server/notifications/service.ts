@@ -7,6 +7,7 @@ import { DEFECT_SEVERITY_LABELS, DEFECT_STATUS_LABELS } from "../../src/domain/v
 import type { NotificationKey } from "../../src/schemas/account";
 import { compose, type Composed } from "../mail/compose";
 import type { MailDeps } from "../mail/mailer";
+import { sendOrQueue } from "../mail/outbox";
 import { optedOut } from "./prefs";
 
 export interface NotifyResult {
@@ -71,7 +72,8 @@ async function sendTo(deps: MailDeps, userIds: string[], key: NotificationKey, a
     else if (off.has(id)) out.skipped.push({ userId: id, reason: "switched_off" });
     else if (!u) out.skipped.push({ userId: id, reason: "no_address" });
     else {
-      const r = await deps.mailer.send({ to: u.email, ...build(u.name) });
+      // Through the outbox when the app runs its job queue: "sent" then means queued for delivery.
+      const r = await sendOrQueue(deps, { to: u.email, ...build(u.name) });
       if (r.ok) out.sent.push(id);
       else out.failed.push({ userId: id, error: r.error });
     }

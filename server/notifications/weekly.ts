@@ -6,6 +6,7 @@
 import { sql } from "kysely";
 import type { Db } from "../db";
 import type { MailDeps } from "../mail/mailer";
+import { sendOrQueue } from "../mail/outbox";
 import { optedOut } from "./prefs";
 import { buildWeeklySummary, LIST_LIMIT, type WeeklyInput } from "./weekly-text";
 
@@ -105,7 +106,7 @@ export async function sendWeeklySummaries(deps: MailDeps, opts: { now?: Date } =
     if (!wanted.length) continue;
     const msg = buildWeeklySummary(await gatherWeek(deps.db, site, now, deps.publicUrl));
     for (const c of wanted) {
-      const r = await deps.mailer.send({ to: c.email, ...msg });
+      const r = await sendOrQueue(deps, { to: c.email, ...msg });
       if (r.ok) out.sent++;
       else out.failed++;
     }

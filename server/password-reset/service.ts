@@ -1,9 +1,11 @@
+import { sql } from "kysely";
 import { hashPassword } from "../auth/password";
 import { findUserByEmail } from "../auth/repository";
 import type { Db } from "../db";
 import { AppError } from "../errors";
 import { compose } from "../mail/compose";
 import type { MailDeps } from "../mail/mailer";
+import { queueMail } from "../mail/outbox";
 import { hashToken, newToken } from "../one-time-token";
 import * as repo from "./repository";
 
@@ -26,7 +28,7 @@ export async function sendResetLink(deps: MailDeps, email: string) {
     return { sent: false as const, reason: "too_many" };
   }
   const { token, hash } = newToken();
-  await repo.insertReset(deps.db, { userId: user.id, tokenHash: hash, expiresAt: new Date(Date.now() + RESET_MINUTES * 60_000) });
+  const reset = { userId: user.id, tokenHash: hash, expiresAt: new Date(Date.now() + RESET_MINUTES * 60_000) };
   const msg = compose({
     subject: "Set a new Tideline password",
     greeting: `Hello ${user.name},`,
@@ -37,6 +39,21 @@ export async function sendResetLink(deps: MailDeps, email: string) {
     action: { label: "Set a new password", url: resetUrl(deps.publicUrl, token) },
     footer: ["If you did not ask for this, ignore this e-mail: your password stays as it is."],
   });
+  const jobs = deps.jobs;
+  if (jobs) {
+    // The link and its e-mail commit together; the outbox job delivers and retries. One
+    // request per account at a time (a transaction-scoped advisory lock), so requests
+    // arriving together cannot all pass the hourly count.
+    const queued = await deps.db.transaction().execute(async (trx) => {
+      await sql`select pg_advisory_xact_lock(hashtext(${"password-reset:" + user.id}))`.execute(trx);
+      if ((await repo.countRecent(trx, user.id, hourAgo)) >= MAX_PER_HOUR) return false;
+      await repo.insertReset(trx, reset);
+      await queueMail(trx, jobs, { to: user.email, ...msg });
+      return true;
+    });
+    return queued ? { sent: true as const, reason: undefined } : { sent: false as const, reason: "too_many" };
+  }
+  await repo.insertReset(deps.db, reset);
   const r = await deps.mailer.send({ to: user.email, ...msg });
   return { sent: r.ok, reason: r.ok ? undefined : r.error };
 }

@@ -20,7 +20,8 @@ export async function findOrphans(db: Db, storage: PhotoStorage): Promise<Orphan
   const referenced = new Set<string>();
   const rowsWithoutFiles: OrphanReport["rowsWithoutFiles"] = [];
   for (const r of rows) {
-    const want = [r.originalKey, r.displayKey, r.thumbKey];
+    // A photo still processing (or whose processing failed) has no renditions yet: only its original is expected.
+    const want = r.renditionState === "ready" ? [r.originalKey, r.displayKey, r.thumbKey] : [r.originalKey];
     want.forEach((k) => referenced.add(k));
     const missing = want.filter((k) => !stored.has(k));
     if (missing.length) rowsWithoutFiles.push({ photoId: r.id, missing });

@@ -4,8 +4,9 @@
  * stripped, and two upright JPEG renditions without any metadata (no EXIF, no GPS, no ICC).
  * Facts about sharp 0.35.5 used here are in STACK.md "Photos".
  */
+import { open, stat } from "node:fs/promises";
 import exifr from "exifr";
-import sharp, { type Metadata, type Sharp } from "sharp";
+import sharp, { type Sharp } from "sharp";
 import { AppError } from "../errors";
 import { decodeHeicOneAtATime } from "./heic-queue";
 
@@ -19,7 +20,8 @@ const ALLOWED = new Set(["jpeg", "png", "webp", "tiff", "heif"]);
 const MIME: Record<string, string> = { jpeg: "image/jpeg", png: "image/png", webp: "image/webp", tiff: "image/tiff", heif: "image/heif" };
 const EXT: Record<string, string> = { jpeg: "jpg", png: "png", webp: "webp", tiff: "tif", heif: "heic" };
 
-export interface ProcessedImage {
+/** What the upload learns from the file without decoding its pixels. */
+export interface ImageFacts {
   format: string;
   mime: string;
   ext: string;
@@ -28,17 +30,26 @@ export interface ProcessedImage {
   height: number;
   capturedAt: Date | null;
   cameraModel: string;
+  /** Phone HEIC (HEVC): decoded by heic-decode, since sharp's libvips cannot. */
+  hevc: boolean;
+}
+
+export interface ProcessedImage extends ImageFacts {
   display: Buffer;
   thumb: Buffer;
 }
 
+/** A file path (an upload streamed to disk) or bytes. */
+type Source = string | Buffer;
+
 const refuse = (status: number, code: string, name: string, why: string) =>
   new AppError(status, code, `${name}: ${why}`, { file: why });
 
-async function readMetadata(buf: Buffer, name: string) {
-  if (buf.length === 0) throw refuse(400, "empty_file", name, "the file is empty.");
+async function readMetadata(src: Source, name: string) {
+  if (typeof src !== "string" && src.length === 0) throw refuse(400, "empty_file", name, "the file is empty.");
+  if (typeof src === "string" && (await stat(src)).size === 0) throw refuse(400, "empty_file", name, "the file is empty.");
   try {
-    return await sharp(buf, { limitInputPixels: MAX_INPUT_PIXELS }).metadata();
+    return await sharp(src, { limitInputPixels: MAX_INPUT_PIXELS }).metadata();
   } catch (e) {
     const msg = (e as Error).message;
     if (/pixel limit/i.test(msg)) throw bomb(name);
@@ -52,9 +63,9 @@ const bomb = (name: string) =>
   refuse(413, "too_many_pixels", name, `the picture has more than ${MAX_INPUT_PIXELS / 1e6} megapixels; Tideline refuses it (a decompression bomb or a panorama too large to handle).`);
 
 /** Capture time and camera model from EXIF, read from the original before stripping. */
-async function captureFacts(buf: Buffer): Promise<{ capturedAt: Date | null; cameraModel: string }> {
+async function captureFacts(src: Source): Promise<{ capturedAt: Date | null; cameraModel: string }> {
   try {
-    const tags = await exifr.parse(buf, { pick: ["DateTimeOriginal", "CreateDate", "Make", "Model"] });
+    const tags = await exifr.parse(src, { pick: ["DateTimeOriginal", "CreateDate", "Make", "Model"] });
     const when = tags?.DateTimeOriginal ?? tags?.CreateDate;
     const capturedAt = when instanceof Date && !Number.isNaN(when.getTime()) ? when : null;
     const model = [tags?.Make, tags?.Model].filter((x) => typeof x === "string" && x.trim()).join(" ").trim();
@@ -64,48 +75,89 @@ async function captureFacts(buf: Buffer): Promise<{ capturedAt: Date | null; cam
   }
 }
 
-/** A sharp input for the pixels: phone HEIC (HEVC) goes through heic-decode first. */
-async function pixelSource(buf: Buffer, meta: Metadata) {
-  if (meta.format === "heif" && meta.compression === "hevc") {
-    const d = await decodeHeicOneAtATime(buf).catch(() => {
-      throw refuse(400, "unreadable_image", "HEIC", "this HEIC picture could not be decoded; it may be damaged.");
-    });
-    return () => sharp(Buffer.from(d.data.buffer, d.data.byteOffset, d.data.byteLength), { raw: { width: d.width, height: d.height, channels: 4 }, limitInputPixels: MAX_INPUT_PIXELS });
-  }
-  return () => sharp(buf, { limitInputPixels: MAX_INPUT_PIXELS });
+/**
+ * The last bytes of the file: a JPEG ends with the EOI marker FF D9 (ITU-T T.81 §B.2.1), a
+ * PNG with its IEND chunk (PNG 2nd ed. §11.2.5). Missing, the upload was cut short; this
+ * is checked at upload without decoding, so an interrupted transfer is refused at once.
+ */
+async function looksComplete(src: Source, format: string): Promise<boolean> {
+  if (format !== "jpeg" && format !== "png") return true;
+  let tail: Buffer;
+  if (typeof src === "string") {
+    const fh = await open(src, "r");
+    try {
+      const size = (await fh.stat()).size;
+      const n = Math.min(size, 64);
+      tail = Buffer.alloc(n);
+      await fh.read(tail, 0, n, size - n);
+    } finally {
+      await fh.close();
+    }
+  } else tail = src.subarray(Math.max(0, src.length - 64));
+  if (format === "png") return tail.includes(Buffer.from("IEND", "ascii"));
+  // Some cameras pad after EOI; look for it among the last bytes.
+  for (let i = tail.length - 2; i >= 0; i--) if (tail[i] === 0xff && tail[i + 1] === 0xd9) return true;
+  return false;
 }
 
-async function render(make: () => Sharp, px: number, name: string): Promise<Buffer> {
-  try {
-    // rotate() applies the EXIF orientation; sharp writes no EXIF/XMP/ICC unless asked
-    // (STACK.md "Photos"). JPEG rather than WebP so any EXIF reader can check the result.
-    return await make().rotate().resize({ width: px, height: px, fit: "inside", withoutEnlargement: true }).jpeg({ quality: 82, mozjpeg: true }).toBuffer();
-  } catch (e) {
-    const msg = (e as Error).message;
-    if (/pixel limit/i.test(msg)) throw bomb(name);
-    throw refuse(400, "truncated_image", name, "the picture is damaged or cut short (the upload may have been interrupted); try it again.");
-  }
-}
-
-export async function processImage(buf: Buffer, name: string): Promise<ProcessedImage> {
-  const meta = await readMetadata(buf, name);
+/** Refusals come here, before anything is stored: type from the bytes, pixel limit, a cut-off file. */
+export async function inspectImage(src: Source, name: string): Promise<ImageFacts> {
+  const meta = await readMetadata(src, name);
   const format = meta.format ?? "";
   if (!ALLOWED.has(format))
     throw refuse(415, "unsupported_type", name, `${format.toUpperCase() || "this"} is not accepted; upload JPEG, PNG, WebP, HEIC/HEIF or TIFF.`);
   if ((meta.width ?? 0) * (meta.height ?? 0) > MAX_INPUT_PIXELS) throw bomb(name);
-  const make = await pixelSource(buf, meta);
-  const display = await render(make, DISPLAY_PX, name);
-  const thumb = await render(make, THUMB_PX, name);
+  if (!(await looksComplete(src, format)))
+    throw refuse(400, "truncated_image", name, "the picture is damaged or cut short (the upload may have been interrupted); try it again.");
   const sideways = (meta.orientation ?? 1) >= 5;
-  const facts = await captureFacts(buf);
   return {
     format,
     mime: MIME[format],
     ext: EXT[format],
     width: sideways ? meta.height! : meta.width!,
     height: sideways ? meta.width! : meta.height!,
-    ...facts,
-    display,
-    thumb,
+    hevc: format === "heif" && meta.compression === "hevc",
+    ...(await captureFacts(src)),
   };
+}
+
+/** A sharp input for the pixels: phone HEIC (HEVC) goes through heic-decode first. */
+async function pixelSource(buf: Buffer, hevc: boolean): Promise<Sharp> {
+  if (hevc) {
+    const d = await decodeHeicOneAtATime(buf).catch(() => {
+      throw refuse(400, "unreadable_image", "HEIC", "this HEIC picture could not be decoded; it may be damaged.");
+    });
+    return sharp(Buffer.from(d.data.buffer, d.data.byteOffset, d.data.byteLength), { raw: { width: d.width, height: d.height, channels: 4 }, limitInputPixels: MAX_INPUT_PIXELS });
+  }
+  return sharp(buf, { limitInputPixels: MAX_INPUT_PIXELS });
+}
+
+const box = (px: number) => ({ width: px, height: px, fit: "inside" as const, withoutEnlargement: true });
+
+/**
+ * The two renditions, decoding the original once: the display copy from the original
+ * (rotate() applies the EXIF orientation; sharp writes no EXIF/XMP/ICC unless asked,
+ * STACK.md "Photos"), the thumbnail from the display copy (already upright, 1600 px is
+ * plenty for 320). Plain libjpeg for the display copy: mozjpeg about doubles its encode
+ * time (issue 15's measurement) for a smaller file nobody waits on; the thumbnail, sent to
+ * every phone in a gallery, keeps mozjpeg's smaller output at a tiny cost.
+ * JPEG rather than WebP so any EXIF reader can check the result.
+ */
+export async function renderRenditions(original: Buffer, facts: Pick<ImageFacts, "hevc">, name: string): Promise<{ display: Buffer; thumb: Buffer }> {
+  try {
+    const display = await (await pixelSource(original, facts.hevc)).rotate().resize(box(DISPLAY_PX)).jpeg({ quality: 82 }).toBuffer();
+    const thumb = await sharp(display).resize(box(THUMB_PX)).jpeg({ quality: 82, mozjpeg: true }).toBuffer();
+    return { display, thumb };
+  } catch (e) {
+    if (e instanceof AppError) throw e;
+    const msg = (e as Error).message;
+    if (/pixel limit/i.test(msg)) throw bomb(name);
+    throw refuse(400, "truncated_image", name, "the picture is damaged or cut short (the upload may have been interrupted); try it again.");
+  }
+}
+
+/** Facts and renditions at once, from bytes (the demo seed). */
+export async function processImage(buf: Buffer, name: string): Promise<ProcessedImage> {
+  const facts = await inspectImage(buf, name);
+  return { ...facts, ...(await renderRenditions(buf, facts, name)) };
 }

@@ -1,6 +1,6 @@
 import { sql } from "kysely";
 import type { Insertable } from "kysely";
-import type { PhotosTable } from "../../db/types";
+import type { PhotosTable, RenditionState } from "../../db/types";
 import type { PhotoKind } from "../../src/domain/vocab";
 import type { Db } from "../db";
 
@@ -9,6 +9,7 @@ const cols = [
   "photos.inspectionId", "photos.custodyMoveId", "photos.kind", "photos.caption", "photos.originalName", "photos.format", "photos.width",
   "photos.height", "photos.bytes", "photos.capturedAt", "photos.cameraModel", "photos.uploadedBy", "photos.createdAt",
   "photos.version", "photos.deletedAt", "photos.originalKey", "photos.displayKey", "photos.thumbKey",
+  "photos.renditionState", "photos.renditionError",
 ] as const;
 
 const base = (db: Db) =>
@@ -140,9 +141,13 @@ export const boardPositionKinds = (db: Db, siteId: string, boardId: string) =>
     .execute();
 
 export const allPhotoKeys = (db: Db) =>
-  db.selectFrom("photos").select(["id", "siteId", "originalKey", "displayKey", "thumbKey", "deletedAt"]).execute();
+  db.selectFrom("photos").select(["id", "siteId", "originalKey", "displayKey", "thumbKey", "deletedAt", "renditionState"]).execute();
 
 export const expiredDeleted = (db: Db, before: Date) =>
   db.selectFrom("photos").select(["id", "siteId", "originalKey", "displayKey", "thumbKey"]).where("deletedAt", "<", before).execute();
 
 export const deletePhotoRow = (db: Db, photoId: string) => db.deleteFrom("photos").where("id", "=", photoId).execute();
+
+/** Written by the rendition job only. */
+export const setRenditionState = (db: Db, id: string, state: RenditionState, error: string | null) =>
+  db.updateTable("photos").set({ renditionState: state, renditionError: error }).where("id", "=", id).execute();

@@ -9,25 +9,31 @@ import { requireSiteRole } from "../middleware/roles";
 import * as repo from "./repository";
 import * as service from "./service";
 import { StorageNotFound, type PhotoStorage } from "./storage";
-import { receiveFiles } from "./upload";
+import { receiveFiles, removeTemporary } from "./upload";
+import type { Jobs } from "../jobs";
 
 const siteOnly = z.object({ siteId: z.uuid() });
 const renditionParams = photoParams.extend({ rendition: z.enum(RENDITIONS) });
 /** Originals keep the camera's EXIF, GPS included: only the people who shoot and curate get them. */
 const ORIGINAL_ROLES = new Set(["curator", "photographer", "admin"]);
 
-export function photoRoutes(db: Db, storage: PhotoStorage) {
+export function photoRoutes(db: Db, storage: PhotoStorage, jobs: Jobs) {
   const r = Router();
   const actor = (res: { locals: Express.Locals }) => ({ user: res.locals.user!, role: res.locals.siteRole as Role | "admin" });
 
   r.post("/sites/:siteId/photos", requireSiteRole(db, "curator", "photographer", "volunteer"), receiveFiles, async (req, res) => {
-    const { siteId } = siteOnly.parse(req.params);
     const files = (req.files as Express.Multer.File[] | undefined) ?? [];
-    if (!files.length) throw new AppError(400, "no_files", 'Attach at least one picture in the "files" field.');
-    const fields = uploadFields.parse(req.body ?? {});
-    const ids = await service.uploadPhotos(db, storage, siteId, actor(res), files, fields);
-    const photos = await repo.listPhotos(db, siteId, { ids, limit: ids.length, offset: 0 });
-    res.status(201).json({ photos: photos.map(service.toPhoto) });
+    try {
+      const { siteId } = siteOnly.parse(req.params);
+      if (!files.length) throw new AppError(400, "no_files", 'Attach at least one picture in the "files" field.');
+      const fields = uploadFields.parse(req.body ?? {});
+      const ids = await service.uploadPhotos(db, storage, jobs, siteId, actor(res), files, fields);
+      const photos = await repo.listPhotos(db, siteId, { ids, limit: ids.length, offset: 0 });
+      // 201 with each photo 'processing': its display copy and thumbnail follow from the job queue.
+      res.status(201).json({ photos: photos.map(service.toPhoto) });
+    } finally {
+      await removeTemporary(files);
+    }
   });
 
   r.get("/sites/:siteId/photos", requireSiteRole(db), async (req, res) => {
@@ -84,6 +90,8 @@ export function photoRoutes(db: Db, storage: PhotoStorage) {
     if (rendition === "original" && !ORIGINAL_ROLES.has(res.locals.siteRole ?? "")) throw forbidden("Originals keep the camera's location data; only the photographer and the curator download them.");
     const row = await repo.findPhoto(db, siteId, photoId);
     if (!row || row.deletedAt) throw notFound("That photo");
+    if (rendition !== "original" && row.renditionState !== "ready")
+      throw new AppError(409, row.renditionState === "failed" ? "rendition_failed" : "processing", row.renditionState === "failed" ? `This photo could not be processed: ${row.renditionError ?? "unknown reason"}` : "This photo is still being processed; its copies appear in a moment.");
     const key = rendition === "original" ? row.originalKey : rendition === "display" ? row.displayKey : row.thumbKey;
     let body;
     try {

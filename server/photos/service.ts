@@ -5,16 +5,23 @@ import type { Db } from "../db";
 import { AppError, conflict, forbidden, notFound } from "../errors";
 import type { BulkAssign, PhotoPatch, UploadFields } from "../../src/schemas/photos";
 import { PHOTO_KINDS, type PhotoKind, type Role } from "../../src/domain/vocab";
-import { processImage, type ProcessedImage } from "./images";
+import { buffer } from "node:stream/consumers";
+import type { Jobs } from "../jobs";
+import { log } from "../log";
+import { inspectImage, renderRenditions, type ImageFacts } from "./images";
 import * as repo from "./repository";
 import { photoKey, type PhotoStorage } from "./storage";
 import { assertMayAttach, resolveTarget } from "./targets";
 
 export interface UploadedFile {
   originalname: string;
-  buffer: Buffer;
+  /** The upload as a temporary file (multer's disk storage). */
+  path: string;
+  size: number;
 }
 type Actor = { user: User; role: Role | "admin" };
+
+export const RENDITION_JOB = "photo.renditions";
 
 /** What the client sees of a photo row: no storage keys, dates as ISO strings. */
 export function toPhoto(r: NonNullable<repo.PhotoRow>) {
@@ -23,37 +30,43 @@ export function toPhoto(r: NonNullable<repo.PhotoRow>) {
 }
 
 /**
- * Every file is checked and rendered first, so one refused file stores nothing. Then
- * one transaction inserts the rows and, before it commits, writes the files; if any
- * write or the commit fails, every file written is deleted again. A crash between the
- * file writes and the commit can leave files without rows: `npm run photos:cleanup`
- * reports them.
+ * The upload answers once the originals are stored; renditions are a job.
+ * 1. Every file is inspected (type from the bytes, pixel limit, cut-off file, capture
+ *    facts) without decoding it, so one refused file stores nothing.
+ * 2. The originals are streamed from their temporary files into the photo store.
+ * 3. One transaction inserts the rows ('processing') and enqueues their rendition jobs;
+ *    no file I/O happens inside it. If it fails, the stored originals are deleted again.
+ * A crash between 2 and 3 can leave files without rows: `npm run photos:cleanup` reports them.
  */
-export async function uploadPhotos(db: Db, storage: PhotoStorage, siteId: string, actor: Actor, files: UploadedFile[], fields: UploadFields) {
+export async function uploadPhotos(db: Db, storage: PhotoStorage, jobs: Jobs, siteId: string, actor: Actor, files: UploadedFile[], fields: UploadFields) {
   await assertMayAttach(db, siteId, actor.user, actor.role, fields);
   const target = await resolveTarget(db, siteId, fields);
-  const processed: Array<{ file: UploadedFile; img: ProcessedImage }> = [];
-  for (const file of files) processed.push({ file, img: await processImage(file.buffer, safeName(file.originalname)) });
+  const inspected: Array<{ file: UploadedFile; facts: ImageFacts; id: string; name: string }> = [];
+  for (const file of files) {
+    const name = safeName(file.originalname);
+    inspected.push({ file, name, facts: await inspectImage(file.path, name), id: randomUUID() });
+  }
   const written: string[] = [];
   try {
+    for (const { file, facts, id } of inspected) {
+      const key = photoKey(siteId, id, "original", facts.ext);
+      written.push(key);
+      await storage.putFile(key, file.path, facts.mime).catch((e) => {
+        log.error({ err: e }, "photo store write failed");
+        throw new AppError(503, "storage_failed", "The photo store did not accept the file; nothing was saved. Try again in a moment.");
+      });
+    }
     return await db.transaction().execute(async (trx) => {
       const ids: string[] = [];
-      for (const { file, img } of processed) {
-        const id = randomUUID();
-        const keys = { originalKey: photoKey(siteId, id, "original", img.ext), displayKey: photoKey(siteId, id, "display", "jpg"), thumbKey: photoKey(siteId, id, "thumb", "jpg") };
+      for (const { file, facts, id, name } of inspected) {
+        const keys = { originalKey: photoKey(siteId, id, "original", facts.ext), displayKey: photoKey(siteId, id, "display", "jpg"), thumbKey: photoKey(siteId, id, "thumb", "jpg") };
         await repo.insertPhoto(trx, {
-          id, siteId, ...target, ...keys, kind: fields.kind, caption: fields.caption, originalName: safeName(file.originalname),
-          format: img.format, width: img.width, height: img.height, bytes: file.buffer.length, capturedAt: img.capturedAt,
-          cameraModel: img.cameraModel, uploadedBy: actor.user.id,
+          id, siteId, ...target, ...keys, kind: fields.kind, caption: fields.caption, originalName: name,
+          format: facts.format, width: facts.width, height: facts.height, bytes: file.size, capturedAt: facts.capturedAt,
+          cameraModel: facts.cameraModel, uploadedBy: actor.user.id, renditionState: "processing",
         });
-        await recordAudit(trx, { siteId, entityType: "photo", entityId: id, action: "upload", actorId: actor.user.id, boardId: target.boardId, positionId: target.positionId, after: { kind: fields.kind, originalName: safeName(file.originalname), ...target } });
-        for (const [key, body, type] of [[keys.originalKey, file.buffer, img.mime], [keys.displayKey, img.display, "image/jpeg"], [keys.thumbKey, img.thumb, "image/jpeg"]] as const) {
-          written.push(key);
-          await storage.put(key, body, type).catch((e) => {
-            console.error("[photos] storage write failed:", (e as Error).message);
-            throw new AppError(503, "storage_failed", "The photo store did not accept the file; nothing was saved. Try again in a moment.");
-          });
-        }
+        await recordAudit(trx, { siteId, entityType: "photo", entityId: id, action: "upload", actorId: actor.user.id, boardId: target.boardId, positionId: target.positionId, after: { kind: fields.kind, originalName: name, ...target } });
+        await jobs.enqueue(RENDITION_JOB, { siteId, photoId: id, hevc: facts.hevc }, { trx });
         ids.push(id);
       }
       return ids;
@@ -62,6 +75,41 @@ export async function uploadPhotos(db: Db, storage: PhotoStorage, siteId: string
     await Promise.allSettled(written.map((k) => storage.delete(k)));
     throw e;
   }
+}
+
+/**
+ * The rendition job: read the original back from the store, decode it once, write the
+ * display copy and the thumbnail, mark the photo ready. A picture that cannot be decoded
+ * is marked failed at once (trying again would not help); a store or database hiccup is
+ * retried, and marked failed with its reason after the last attempt.
+ */
+export function definePhotoJobs(jobs: Jobs, deps: { db: Db; photoStorage: PhotoStorage }, onRendered?: (seconds: number) => void) {
+  jobs.define<{ siteId: string; photoId: string; hevc: boolean }>(
+    RENDITION_JOB,
+    async ({ siteId, photoId, hevc }, ctx) => {
+      const row = await repo.findPhoto(deps.db, siteId, photoId);
+      if (!row || row.renditionState === "ready") return;
+      const t0 = performance.now();
+      let out: { display: Buffer; thumb: Buffer };
+      try {
+        const original = await buffer(await deps.photoStorage.get(row.originalKey));
+        out = await renderRenditions(original, { hevc }, row.originalName || "photo");
+      } catch (e) {
+        const permanent = e instanceof AppError;
+        if (permanent || ctx.lastAttempt) {
+          const why = permanent ? (e as AppError).fields?.file ?? e.message : "the display copy could not be made; try uploading it again.";
+          await repo.setRenditionState(deps.db, photoId, "failed", String(why));
+          if (permanent) return;
+        }
+        throw e;
+      }
+      await deps.photoStorage.put(row.displayKey, out.display, "image/jpeg");
+      await deps.photoStorage.put(row.thumbKey, out.thumb, "image/jpeg");
+      await repo.setRenditionState(deps.db, photoId, "ready", null);
+      onRendered?.((performance.now() - t0) / 1000);
+    },
+    { retryLimit: 3, retryDelay: 5, retryBackoff: true, expireInSeconds: 300 },
+  );
 }
 
 /** File names are shown, never used as paths; keep them printable and short. */

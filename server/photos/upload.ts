@@ -1,8 +1,20 @@
 import type { RequestHandler } from "express";
+import { mkdirSync } from "node:fs";
+import { rm } from "node:fs/promises";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
 import multer from "multer";
 import { AppError } from "../errors";
 
-/** Explicit limits: a 48 MP phone JPEG is ~25 MB, a 20-picture batch stays in memory once. */
+/**
+ * Uploads stream to temporary files (multer's disk storage), never into memory: twenty
+ * 40 MB pictures in one request would otherwise sit in the heap. UPLOAD_TMP_DIR chooses
+ * the folder (default: the system's temporary folder); the route removes the files when done.
+ */
+const TMP = process.env.UPLOAD_TMP_DIR ?? join(tmpdir(), "tideline-uploads");
+mkdirSync(TMP, { recursive: true });
+
+/** Explicit limits: a 48 MP phone JPEG is ~25 MB. */
 export const UPLOAD_LIMITS = {
   fileSize: 40 * 1024 * 1024,
   files: 20,
@@ -15,7 +27,12 @@ export const UPLOAD_LIMITS = {
 
 // Browsers send a file name as raw UTF-8 in filename="…"; busboy reads such parameters as
 // latin1 unless told otherwise ("Ståle.jpg" would become "StÃ¥le.jpg"). multer passes the option on.
-const upload = multer({ storage: multer.memoryStorage(), limits: UPLOAD_LIMITS, defParamCharset: "utf8" }).array("files", UPLOAD_LIMITS.files);
+const upload = multer({ storage: multer.diskStorage({ destination: TMP }), limits: UPLOAD_LIMITS, defParamCharset: "utf8" }).array("files", UPLOAD_LIMITS.files);
+
+/** Removes the request's temporary files (also those of a refused or failed upload). */
+export async function removeTemporary(files: Array<{ path: string }> | undefined) {
+  await Promise.allSettled((files ?? []).map((f) => rm(f.path, { force: true })));
+}
 
 const MESSAGES: Record<string, [number, string]> = {
   LIMIT_FILE_SIZE: [413, `A file is larger than ${UPLOAD_LIMITS.fileSize / 1024 / 1024} MB; Tideline accepts pictures up to that size.`],
@@ -31,6 +48,8 @@ const MESSAGES: Record<string, [number, string]> = {
 export const receiveFiles: RequestHandler = (req, res, next) => {
   upload(req, res, (err?: unknown) => {
     if (!err) return next();
+    // multer removes what it wrote for a failed request; any file already complete goes too.
+    void removeTemporary(req.files as Express.Multer.File[] | undefined);
     const code = (err as { code?: string }).code ?? "";
     const known = MESSAGES[code];
     if (known) return next(new AppError(known[0], code === "LIMIT_FILE_SIZE" ? "too_large" : "too_many", known[1]));

@@ -43,6 +43,9 @@ export const photoSchema = z.object({
   designation: text().nullable(),
   createdAt: text(),
   version: z.number(),
+  /** 'processing' until the background job has made the display copy and thumbnail. */
+  renditionState: z.enum(["processing", "ready", "failed"]),
+  renditionError: z.string().nullable(),
 });
 export type Photo = z.infer<typeof photoSchema>;
 

@@ -1,7 +1,11 @@
 import type { AddressInfo } from "node:net";
 import { createServer, type Server } from "node:http";
 import { createApp, type AppDeps } from "../../server/app";
+import { createJobs, type Jobs } from "../../server/jobs";
+import { startJobs } from "../../server/jobs/registry";
 import { memoryMailer } from "../../server/mail/mailer";
+import { storageFromEnv } from "../../server/photos/storage";
+import { jobsIdle } from "./jobs";
 
 export interface Res<T = any> {
   status: number;
@@ -57,19 +61,34 @@ export const TEST_PASSWORD = "correct-horse-battery";
 
 export interface TestServer {
   base: string;
+  jobs: Jobs;
   client(): Client;
+  /** Waits until every background job that is due has run (e-mail sent, renditions made). */
+  jobsIdle(timeoutMs?: number): Promise<void>;
   close(): Promise<void>;
 }
 
-/** Without a mailer, e-mail is kept in memory and goes nowhere; links point at this server. */
+/**
+ * The app with its job queue and a worker in this process, as `npm start` runs it.
+ * Without a mailer, e-mail is kept in memory and goes nowhere; links point at this server.
+ */
 export async function startTestServer(deps: AppDeps): Promise<TestServer> {
   const server: Server = createServer();
   await new Promise<void>((resolve) => server.listen(0, "127.0.0.1", () => resolve()));
   const base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
-  server.on("request", createApp({ mailer: memoryMailer(), publicUrl: base, ...deps }));
+  const full = { mailer: memoryMailer(), publicUrl: base, photoStorage: deps.photoStorage ?? storageFromEnv(), ...deps };
+  const jobDeps = { db: full.db, mailer: full.mailer, publicUrl: full.publicUrl, photoStorage: full.photoStorage };
+  // A test of an unreachable database gets a queue that never started (enqueue then fails like the database).
+  const jobs = deps.jobs ?? (await startJobs(jobDeps, { work: true, pollingIntervalSeconds: 0.5 }).catch(() => createJobs({ db: full.db, work: false })));
+  server.on("request", createApp({ ...full, jobs }));
   return {
     base,
+    jobs,
     client: () => new Client(base),
-    close: () => new Promise((r) => { server.closeAllConnections(); server.close(() => r()); }),
+    jobsIdle: (timeoutMs) => jobsIdle(full.db, timeoutMs),
+    async close() {
+      await new Promise<void>((r) => { server.closeAllConnections(); server.close(() => r()); });
+      if (!deps.jobs) await jobs.stop(2000);
+    },
   };
 }

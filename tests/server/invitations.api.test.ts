@@ -41,7 +41,12 @@ describe("inviting someone new", () => {
     const email = fresh();
     const { r, msg, token } = await invite(email, "photographer");
     expect(r.body.outcome).toBe("invited");
-    expect(r.body.invitation).toMatchObject({ email, role: "photographer", sendStatus: "sent", expired: false });
+    // Queued in the outbox with the invitation; the job delivers it and the list then says sent.
+    expect(r.body.invitation).toMatchObject({ email, role: "photographer", sendStatus: "pending", expired: false });
+    await server.jobsIdle();
+    const listed = (await curator.get(`/api/sites/${fx.siteId}/invitations`)).body.invitations.find((i: { email: string }) => i.email === email);
+    expect(listed).toMatchObject({ sendStatus: "sent", sendError: null });
+    expect(smtp.mailbox.list().filter((m) => m.to.includes(email))).toHaveLength(1);
     expect(msg.from).toBe('"Test curator via Tideline" <no-reply@tideline.invalid>');
     expect(msg.subject).toContain("Test hulk");
     expect(msg.html).toContain(`${server.base}/invite/${token}`);

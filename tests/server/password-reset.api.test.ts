@@ -21,6 +21,7 @@ beforeAll(async () => {
 });
 afterAll(async () => {
   await backgroundIdle();
+  await server.jobsIdle();
   await env.close();
   await t.drop();
 });
@@ -29,6 +30,7 @@ async function requestLink(email: string) {
   const r = await server.client().post("/api/auth/password-reset", { email });
   expect(r.status).toBe(202);
   await backgroundIdle();
+  await server.jobsIdle();
   const msg = await smtp.mailbox.waitFor((m) => m.to.includes(email));
   return { msg, token: tokenOf(linkIn(msg, server.base)) };
 }
@@ -45,6 +47,7 @@ describe("asking for a reset", () => {
     expect(b.body).toEqual(a.body);
     expect(a.headers.get("set-cookie")).toBe(b.headers.get("set-cookie"));
     await backgroundIdle();
+    await server.jobsIdle();
     const to = smtp.mailbox.list().map((m) => m.to);
     expect(to).toEqual([known.email]);
   });
@@ -70,6 +73,7 @@ describe("asking for a reset", () => {
     const u = await makeUser(t.db, { email: fresh() });
     for (let i = 0; i < 4; i++) expect((await server.client().post("/api/auth/password-reset", { email: u.email })).status).toBe(202);
     await backgroundIdle();
+    await server.jobsIdle();
     expect(smtp.mailbox.list().filter((m) => m.to.includes(u.email))).toHaveLength(3);
   });
 });

@@ -72,6 +72,7 @@ describe.each([
     const original = await sidewaysJpegWithGps();
     const r = await c.call("POST", `/api/sites/${fx.siteId}/photos`, form([{ name: "s3.jpg", data: original }]));
     expect(r.status).toBe(201);
+    await server.jobsIdle(); // the renditions are made by the job queue's worker
     const id = r.body.photos[0].id;
     const got = await fetch(`${server.base}/api/sites/${fx.siteId}/photos/${id}/original`, { headers: { cookie: c.cookie } });
     expect(Buffer.from(await got.arrayBuffer()).equals(original)).toBe(true);
@@ -91,6 +92,7 @@ describe("cleanup", () => {
     await c.signIn(fx.crew.photographer.email);
     const png = await noisyJpeg(64, 64);
     const r = await c.call("POST", `/api/sites/${fx.siteId}/photos`, form([{ name: "a.jpg", data: png }, { name: "b.jpg", data: png }, { name: "c.jpg", data: png }]));
+    await server.jobsIdle();
     await server.close();
     const [a, b, cc] = r.body.photos.map((p: { id: string }) => p.id);
     await disk.put(`sites/${fx.siteId}/stray/original.jpg`, png, "image/jpeg");

@@ -37,7 +37,12 @@ afterAll(async () => {
 });
 
 const url = (p = "") => `/api/sites/${fx.siteId}/photos${p}`;
-const upload = (c: Client, files: Parameters<typeof form>[0], fields: Record<string, string> = {}) => c.call("POST", url(), form(files, fields));
+/** Uploads, then waits for the background job to make the renditions (as the client's refetch does). */
+const upload = async (c: Client, files: Parameters<typeof form>[0], fields: Record<string, string> = {}) => {
+  const r = await c.call("POST", url(), form(files, fields));
+  await server.jobsIdle();
+  return r;
+};
 const rowCount = async () => Number((await t.db.selectFrom("photos").select((eb) => eb.fn.countAll().as("n")).executeTakeFirstOrThrow()).n);
 const bytesOf = async (c: Client, path: string) => {
   const res = await fetch(server.base + path, { headers: { cookie: c.cookie } });
@@ -54,6 +59,9 @@ describe("upload and renditions", () => {
     const p = r.body.photos[0];
     expect(p).toMatchObject({ width: 200, height: 400, format: "jpeg", cameraModel: "Testcam Deckhand 7", boardId: board.boardId, designation: "1-1", kind: "as_found" });
     expect(p.capturedAt).toMatch(/^2026-11-0[23]T/);
+    // The upload answers once the original is stored; the job then makes the renditions.
+    expect(p.renditionState).toBe("processing");
+    expect((await as.viewer.get(url(`/${p.id}`))).body.photo).toMatchObject({ renditionState: "ready", renditionError: null });
     for (const rendition of ["display", "thumb"]) {
       const img = await bytesOf(as.viewer, url(`/${p.id}/${rendition}`));
       expect(img.status).toBe(200);
@@ -83,6 +91,23 @@ describe("upload and renditions", () => {
     expect(await dims(wide.id, "display")).toMatchObject({ width: 1600, height: 800 });
     expect(await dims(wide.id, "thumb")).toMatchObject({ width: 320, height: 160 });
     expect(await dims(small.id, "display")).toMatchObject({ width: 64, height: 48 });
+  });
+});
+
+describe("rendition failures", () => {
+  it("a picture whose header reads but whose pixels do not is stored, then shown as not processed with the reason", async () => {
+    const whole = await noisyJpeg();
+    // Half the data, then the end-of-image marker, so the upload's quick checks pass.
+    const damaged = Buffer.concat([whole.subarray(0, Math.floor(whole.length / 2)), Buffer.from([0xff, 0xd9])]);
+    const r = await upload(as.photographer, [{ name: "half.jpg", data: damaged }]);
+    expect(r.status).toBe(201);
+    const photo = (await as.viewer.get(url(`/${r.body.photos[0].id}`))).body.photo;
+    expect(photo).toMatchObject({ renditionState: "failed", renditionError: expect.stringMatching(/damaged or cut short/) });
+    const thumb = await as.viewer.get(url(`/${photo.id}/thumb`));
+    expect(thumb.status).toBe(409);
+    expect(thumb.body.error.code).toBe("rendition_failed");
+    // The original is kept for the photographer and the curator.
+    expect((await bytesOf(as.curator, url(`/${photo.id}/original`))).body.equals(damaged)).toBe(true);
   });
 });
 
@@ -156,13 +181,13 @@ describe("refused uploads leave nothing behind", () => {
     expect(r.status).toBe(415);
   });
 
-  it("when storage fails on a later file, the rows roll back and the written files are deleted", async () => {
+  it("when storage fails on a later file, no row is written and the originals already stored are deleted", async () => {
     await snapshot();
     const flaky = new LocalDiskStorage(dir);
     let n = 0;
-    flaky.put = async (k: string, b: Buffer, c: string) => {
-      if (++n === 4) throw new Error("disk full");
-      return LocalDiskStorage.prototype.put.call(flaky, k, b, c);
+    flaky.putFile = async (k: string, path: string, c: string) => {
+      if (++n === 2) throw new Error("disk full");
+      return LocalDiskStorage.prototype.putFile.call(flaky, k, path, c);
     };
     const other = await startTestServer({ db: t.db, photoStorage: flaky });
     const c = other.client();
@@ -171,7 +196,7 @@ describe("refused uploads leave nothing behind", () => {
     const r = await c.call("POST", url(), form([{ name: "a.png", data: png }, { name: "b.png", data: png }]));
     await other.close();
     expect(r.status).toBe(503);
-    expect(n).toBe(4);
+    expect(n).toBe(2);
   });
 
   it("a request without files gets 400", async () => {

@@ -38,6 +38,7 @@ describe("sign-in throttle (rate-limiter-flexible, counters in PostgreSQL)", () 
     expect(right.headers.getSetCookie()).toEqual([]);
     for (let i = 0; i < 3; i++) await wrong(email);
     await backgroundIdle();
+    await server.jobsIdle(); // the alert goes out through the e-mail outbox
     const alerts = mailer.sent.filter((m) => m.to === email);
     expect(alerts).toHaveLength(1);
     expect(alerts[0].subject).toMatch(/failed sign-ins/);
@@ -61,6 +62,7 @@ describe("sign-in throttle (rate-limiter-flexible, counters in PostgreSQL)", () 
     for (let i = 0; i < 10; i++) expect((await wrong(ghost)).status).toBe(401);
     expect((await wrong(ghost)).status).toBe(429);
     await backgroundIdle();
+    await server.jobsIdle(); // the alert goes out through the e-mail outbox
     expect(mailer.sent.filter((m) => m.to === ghost)).toEqual([]);
   });
 

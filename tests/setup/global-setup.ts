@@ -3,6 +3,7 @@ import { createDb, MAINTENANCE_DB_OPTIONS } from "../../server/db";
 import { ensureDatabase } from "../../db/pg";
 import { openLocalDatabase } from "../../db/local";
 import { migrateToLatest } from "../../db/migrate";
+import { createJobs } from "../../server/jobs";
 
 export const TEMPLATE_DB = "tideline_template";
 
@@ -15,6 +16,10 @@ export default async function setup(project: TestProject) {
   await ensureDatabase(local.adminUrl, TEMPLATE_DB, { fresh: true });
   const db = createDb(local.adminUrl.replace(/\/postgres$/, `/${TEMPLATE_DB}`), { ...MAINTENANCE_DB_OPTIONS, max: 1 });
   await migrateToLatest(db);
+  // pg-boss creates its own schema (pgboss) on first start; do it once here so every clone has it.
+  const jobs = createJobs({ db, work: false });
+  await jobs.start();
+  await jobs.stop(1000);
   await db.destroy();
   project.provide("adminUrl", local.adminUrl);
   project.provide("templateDb", TEMPLATE_DB);

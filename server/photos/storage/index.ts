@@ -13,6 +13,10 @@ import { S3Storage } from "./s3";
 export interface PhotoStorage {
   readonly kind: "disk" | "s3";
   put(key: string, body: Buffer, contentType: string): Promise<void>;
+  /** Stores a file from disk, streamed (an upload multer wrote to a temporary file). */
+  putFile(key: string, path: string, contentType: string): Promise<void>;
+  /** Throws when the store cannot be reached or written (the readiness check). */
+  check(): Promise<void>;
   /** The stored bytes as a stream; rejects with StorageNotFound when the key is absent. */
   get(key: string): Promise<Readable>;
   /** Deleting an absent key is not an error. */

@@ -1,5 +1,5 @@
 import { createReadStream } from "node:fs";
-import { mkdir, readdir, rename, rm, rmdir, stat, writeFile } from "node:fs/promises";
+import { access, constants, copyFile, mkdir, readdir, rename, rm, rmdir, stat, writeFile } from "node:fs/promises";
 import { dirname, join, relative, resolve, sep } from "node:path";
 import type { Readable } from "node:stream";
 import { StorageNotFound, type PhotoStorage } from "./index";
@@ -35,6 +35,19 @@ export class LocalDiskStorage implements PhotoStorage {
     const tmp = `${p}.${process.pid}.partial`;
     await writeFile(tmp, body);
     await rename(tmp, p);
+  }
+
+  async putFile(key: string, path: string, _contentType?: string) {
+    const p = this.path(key);
+    await mkdir(dirname(p), { recursive: true });
+    const tmp = `${p}.${process.pid}.partial`;
+    await copyFile(path, tmp);
+    await rename(tmp, p);
+  }
+
+  async check() {
+    await mkdir(this.root, { recursive: true });
+    await access(this.root, constants.W_OK);
   }
 
   async get(key: string): Promise<Readable> {

@@ -1,4 +1,6 @@
-import { DeleteObjectCommand, GetObjectCommand, ListObjectsV2Command, PutObjectCommand, S3Client } from "@aws-sdk/client-s3";
+import { DeleteObjectCommand, GetObjectCommand, HeadBucketCommand, ListObjectsV2Command, PutObjectCommand, S3Client } from "@aws-sdk/client-s3";
+import { createReadStream } from "node:fs";
+import { stat } from "node:fs/promises";
 import type { Readable } from "node:stream";
 import { StorageNotFound, type PhotoStorage } from "./index";
 
@@ -33,6 +35,18 @@ export class S3Storage implements PhotoStorage {
     await this.client.send(
       new PutObjectCommand({ Bucket: this.opts.bucket, Key: key, Body: body, ContentType: contentType, ContentLength: body.length }),
     );
+  }
+
+  /** Streamed from disk with its length known, so the SDK sends it as it reads it. */
+  async putFile(key: string, path: string, contentType: string) {
+    const { size } = await stat(path);
+    await this.client.send(
+      new PutObjectCommand({ Bucket: this.opts.bucket, Key: key, Body: createReadStream(path), ContentType: contentType, ContentLength: size }),
+    );
+  }
+
+  async check() {
+    await this.client.send(new HeadBucketCommand({ Bucket: this.opts.bucket }));
   }
 
   async get(key: string): Promise<Readable> {

@@ -20,6 +20,8 @@ export const invitationsQueryOptions = (siteId: string) =>
   queryOptions({
     queryKey: invitationKeys.list(siteId),
     queryFn: ({ signal }) => api.get(`/api/sites/${siteId}/invitations`, invitationsResponse, signal).then((d) => d.invitations),
+    // While an e-mail waits in the outbox, look again every two seconds until it has gone.
+    refetchInterval: (q) => (q.state.data?.some((i) => i.sendStatus === "pending" && !i.expired) ? 2000 : false),
   });
 export const useInvitations = (siteId: string) => useQuery(invitationsQueryOptions(siteId));
 

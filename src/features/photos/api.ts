@@ -34,6 +34,8 @@ export const photosQueryOptions = (siteId: string, f: PhotoFilter) =>
       api
         .get(`/api/sites/${siteId}/photos${qs({ boardId: f.boardId, positionId: f.positionId, inspectionId: f.inspectionId, custodyMoveId: f.custodyMoveId, defectId: f.defectId, unassigned: f.unassigned ? "1" : undefined, ids: f.ids?.join(",") })}`, listResponse, signal)
         .then((d) => d.photos),
+    // While a photo's renditions are being made, look again every two seconds.
+    refetchInterval: (q) => (q.state.data?.some((p) => p.renditionState === "processing") ? 2000 : false),
   });
 export const usePhotos = (siteId: string, f: PhotoFilter, enabled = true) => useQuery({ ...photosQueryOptions(siteId, f), enabled });
 

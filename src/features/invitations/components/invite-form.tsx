@@ -27,6 +27,7 @@ export function InviteForm({ siteId, onSent }: { siteId: string; onSent: () => v
         form.reset();
         onSent();
         if (d.invitation?.sendStatus === "sent") setNote({ ok: true, text: `Invitation sent to ${parsed.data.email}.` });
+        else if (d.invitation?.sendStatus === "pending") setNote({ ok: true, text: `Invitation to ${parsed.data.email} saved; its e-mail is on its way (the list below says when it has gone).` });
         else setNote({ ok: false, text: `The invitation for ${parsed.data.email} is saved, but the e-mail was not sent. Try Resend below.` });
       },
       onError: (err) => {

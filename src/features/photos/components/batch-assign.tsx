@@ -4,8 +4,9 @@ import { ErrorPanel } from "../../../components/status";
 import { matchFileName, searchTargets } from "../../../domain/photo-matching";
 import { PHOTO_KINDS, PHOTO_KIND_LABELS, type PhotoKind } from "../../../domain/vocab";
 import type { Photo, PhotoTarget } from "../../../schemas/photos";
-import { photoUrl, usePhotoMutations } from "../api";
+import { usePhotoMutations } from "../api";
 import { AssignmentTable, type Staged } from "./assignment-table";
+import { RenditionImage } from "./rendition-image";
 
 interface Props {
   siteId: string;
@@ -101,7 +102,7 @@ export function BatchAssign({ siteId, photos, targets }: Props) {
       </div>
       <div className="grid gap-4 md:grid-cols-[minmax(0,1fr)_minmax(0,1fr)]">
         <figure className="rounded-lg bg-hull-850 p-2 ring-1 ring-hull-700">
-          <img src={photoUrl(siteId, current.id, "display")} alt={`Photo ${index + 1} of ${photos.length}, ${current.originalName}`} className="max-h-80 w-full object-contain" />
+          <RenditionImage siteId={siteId} photo={current} rendition="display" alt={`Photo ${index + 1} of ${photos.length}, ${current.originalName}`} className="max-h-80 w-full object-contain" />
           <figcaption className="mt-1 font-mono text-sm text-mist">{index + 1} / {photos.length} · {current.originalName}</figcaption>
         </figure>
         <div className="space-y-3">

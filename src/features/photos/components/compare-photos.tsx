@@ -2,6 +2,7 @@ import { useState } from "react";
 import { PHOTO_KIND_LABELS } from "../../../domain/vocab";
 import type { Photo } from "../../../schemas/photos";
 import { photoUrl } from "../api";
+import { RenditionImage } from "./rendition-image";
 
 const label = (p: Photo) => `${PHOTO_KIND_LABELS[p.kind]} · ${new Date(p.capturedAt ?? p.createdAt).toLocaleDateString()}${p.caption ? ` · ${p.caption}` : ""}`;
 
@@ -50,7 +51,7 @@ export function ComparePhotos({ siteId, photos }: { siteId: string; photos: Phot
         <div className="grid gap-2 sm:grid-cols-2">
           {[a, b].map((p, i) => (
             <figure key={i}>
-              <img src={photoUrl(siteId, p.id, "display")} alt={`${i === 0 ? "Before" : "After"}: ${label(p)}`} className="w-full rounded-md object-contain" />
+              <RenditionImage siteId={siteId} photo={p} rendition="display" alt={`${i === 0 ? "Before" : "After"}: ${label(p)}`} className="w-full rounded-md object-contain" />
               <figcaption className="text-sm text-mist">{i === 0 ? "Before" : "After"} — {label(p)}</figcaption>
             </figure>
           ))}

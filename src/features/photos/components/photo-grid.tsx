@@ -1,6 +1,6 @@
 import { PHOTO_KIND_LABELS } from "../../../domain/vocab";
 import type { Photo } from "../../../schemas/photos";
-import { photoUrl } from "../api";
+import { RenditionImage } from "./rendition-image";
 
 /** Thumbnails as buttons (they open the viewer); each labelled with what it shows. */
 export function PhotoGrid({ siteId, photos, onOpen, compact = false }: { siteId: string; photos: Photo[]; onOpen: (i: number) => void; compact?: boolean }) {
@@ -14,7 +14,7 @@ export function PhotoGrid({ siteId, photos, onOpen, compact = false }: { siteId:
             className="group block w-full overflow-hidden rounded-md bg-hull-800 text-left ring-1 ring-hull-700 hover:ring-brass-400"
             aria-label={`Open photo: ${PHOTO_KIND_LABELS[p.kind]}${p.designation ? `, position ${p.designation}` : ""}${p.caption ? `, ${p.caption}` : ""}`}
           >
-            <img src={photoUrl(siteId, p.id, "thumb")} alt="" loading="lazy" className={compact ? "h-20 w-28 object-cover" : "aspect-[4/3] w-full object-cover"} />
+            <RenditionImage siteId={siteId} photo={p} rendition="thumb" alt="" className={compact ? "h-20 w-28 object-cover" : "aspect-[4/3] w-full object-cover"} />
             {!compact && (
               <span className="block truncate px-2 py-1 text-xs text-mist">
                 {PHOTO_KIND_LABELS[p.kind]}{p.designation ? ` · ${p.designation}` : ""}

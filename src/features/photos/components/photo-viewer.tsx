@@ -3,6 +3,7 @@ import { PHOTO_KIND_LABELS } from "../../../domain/vocab";
 import type { Photo, PhotoTarget } from "../../../schemas/photos";
 import { photoUrl } from "../api";
 import { PhotoTagForm } from "./photo-tag-form";
+import { RenditionImage } from "./rendition-image";
 
 interface Props {
   siteId: string;
@@ -54,7 +55,7 @@ export function PhotoViewer({ siteId, photos, index, onIndex, onClose, canDownlo
         <button ref={close} type="button" className={btn} onClick={onClose}>Close</button>
       </div>
       <div className="relative flex min-h-0 flex-1 items-center justify-center">
-        <img src={photoUrl(siteId, p.id, "display")} alt={p.caption || title} className="max-h-full max-w-full object-contain" />
+        <RenditionImage siteId={siteId} photo={p} rendition="display" alt={p.caption || title} className="max-h-full max-w-full object-contain" />
         <button type="button" className={`${btn} absolute left-2`} onClick={() => onIndex(Math.max(0, index - 1))} disabled={index === 0} aria-label="Previous photo">←</button>
         <button type="button" className={`${btn} absolute right-2`} onClick={() => onIndex(Math.min(photos.length - 1, index + 1))} disabled={index === photos.length - 1} aria-label="Next photo">→</button>
       </div>

@@ -1,0 +1,221 @@
+/**
+ * Background jobs on pg-boss (a PostgreSQL-backed queue: jobs survive restarts, each
+ * runs once across every instance, failures retry with backoff, and the rows can be
+ * read in the `pgboss` schema). Tideline's own surface is this small module:
+ *
+ *   jobs.define(name, handler, { retryLimit, retryDelay, retryBackoff, expireInSeconds })
+ *   jobs.enqueue(name, data, { trx })      // inside a Kysely transaction: commits with it
+ *   jobs.schedule(name, cron, data?)       // kept in the database (pgboss.schedule)
+ *
+ * Every process defines every job (server/jobs/registry.ts), so a web-only instance
+ * (TIDELINE_WORKER=off) creates the queues and enqueues; only processes with the
+ * worker on run handlers and fire schedules.
+ */
+import { CompiledQuery, type Kysely } from "kysely";
+import PgBoss from "pg-boss";
+import type { Db } from "../db";
+import { log as rootLog, type Logger } from "../log";
+
+export interface JobContext {
+  id: string;
+  name: string;
+  /** 0 on the first attempt. */
+  retryCount: number;
+  retryLimit: number;
+  /** True when a failure now will not be retried. */
+  lastAttempt: boolean;
+  log: Logger;
+}
+export type JobHandler<T> = (data: T, ctx: JobContext) => Promise<unknown>;
+
+export interface JobOptions {
+  /** Attempts after the first (pg-boss default 2). */
+  retryLimit?: number;
+  /** Seconds before the first retry. */
+  retryDelay?: number;
+  /** Double the delay on each retry (with jitter). */
+  retryBackoff?: boolean;
+  /** A run longer than this is failed (and retried). Default 15 minutes. */
+  expireInSeconds?: number;
+  /** Jobs fetched at once by one worker of this process; they run one after another. */
+  batchSize?: number;
+}
+
+export interface EnqueueOptions {
+  /** Enqueue inside this transaction: the job exists only if the transaction commits. */
+  trx?: Kysely<any>;
+  /** Run no earlier than this. */
+  startAfter?: Date;
+  /** At most one queued job per key (see pg-boss singletonKey). */
+  singletonKey?: string;
+}
+
+export interface JobsConfig {
+  db: Db;
+  /** Run handlers and schedules in this process (false in a web-only instance). */
+  work: boolean;
+  /** How often each queue is polled when idle; default TIDELINE_JOB_POLL_SECONDS or 2. */
+  pollingIntervalSeconds?: number;
+  /** Seconds between schedule checks (pg-boss default 30; tests use less). */
+  cronMonitorIntervalSeconds?: number;
+  log?: Logger;
+}
+
+interface Definition {
+  handler: JobHandler<any>;
+  options: JobOptions;
+}
+
+/** pg-boss talks to PostgreSQL through Kysely's pool (one pool per process), or a transaction. */
+const executor = (db: Kysely<any>): PgBoss.Db => ({
+  async executeSql(text, values) {
+    const r = await db.withoutPlugins().executeQuery(CompiledQuery.raw(text, values ?? []));
+    return { rows: r.rows as any[] };
+  },
+});
+
+export class Jobs {
+  private boss: PgBoss;
+  private defs = new Map<string, Definition>();
+  private schedules = new Map<string, { cron: string; data: object; tz: string } | null>();
+  private started = false;
+  private stopping = false;
+  private failures = 0;
+  readonly log: Logger;
+  /** Hooks for metrics: called after each job with its outcome and duration. */
+  onJobEnd?: (name: string, ok: boolean, seconds: number) => void;
+
+  constructor(private config: JobsConfig) {
+    this.log = (config.log ?? rootLog).child({ component: "jobs" });
+    const poll = config.pollingIntervalSeconds ?? Number(process.env.TIDELINE_JOB_POLL_SECONDS ?? 2);
+    this.boss = new PgBoss({
+      db: executor(config.db),
+      schema: "pgboss",
+      supervise: config.work,
+      schedule: config.work,
+      migrate: true,
+      pollingIntervalSeconds: poll,
+      ...(config.cronMonitorIntervalSeconds ? { cronMonitorIntervalSeconds: config.cronMonitorIntervalSeconds } : {}),
+    });
+    // Unheard 'error' events would end the process; a lost connection is logged and polling goes on.
+    this.boss.on("error", (e) => this.log.error({ err: e }, "job queue error"));
+  }
+
+  get working() {
+    return this.config.work;
+  }
+
+  /** Declare a job and its handler; call before start(). */
+  define<T>(name: string, handler: JobHandler<T>, options: JobOptions = {}) {
+    if (this.started) throw new Error(`define("${name}") after start()`);
+    this.defs.set(name, { handler, options });
+  }
+
+  /** A schedule kept in the database; set again on every start by the processes that work. */
+  every(name: string, cron: string, data: object = {}, tz = "UTC") {
+    this.schedules.set(name, { cron, data, tz });
+  }
+
+  /** Removes a schedule kept in the database (e.g. switched off by configuration). */
+  never(name: string) {
+    this.schedules.set(name, null);
+  }
+
+  async start() {
+    if (this.started) return;
+    await this.boss.start();
+    for (const [name, { options }] of this.defs) {
+      const { batchSize: _b, ...queueOpts } = options;
+      const q = Object.fromEntries(Object.entries(queueOpts).filter(([, v]) => v !== undefined));
+      await this.boss.createQueue(name, { name, ...q });
+      await this.boss.updateQueue(name, { name, ...q });
+    }
+    if (this.config.work) {
+      for (const [name, def] of this.defs) await this.boss.work(name, { includeMetadata: true, batchSize: def.options.batchSize ?? 1 }, (jobs) => this.run(name, def, jobs));
+      for (const [name, s] of this.schedules) {
+        if (s) await this.boss.schedule(name, s.cron, s.data, { tz: s.tz });
+        else await this.boss.unschedule(name);
+      }
+    }
+    this.started = true;
+    this.log.info({ queues: [...this.defs.keys()], worker: this.config.work }, "job queue started");
+  }
+
+  private async run(name: string, def: Definition, batch: PgBoss.JobWithMetadata<any>[]) {
+    // pg-boss completes or fails the whole batch; batches are 1 unless a job asks for more.
+    for (const job of batch) {
+      const ctx: JobContext = {
+        id: job.id, name, retryCount: job.retryCount, retryLimit: job.retryLimit,
+        lastAttempt: job.retryCount >= job.retryLimit, log: this.log.child({ job: name, jobId: job.id, attempt: job.retryCount + 1 }),
+      };
+      const t0 = performance.now();
+      try {
+        await def.handler(job.data, ctx);
+        this.onJobEnd?.(name, true, (performance.now() - t0) / 1000);
+      } catch (e) {
+        this.failures++;
+        this.onJobEnd?.(name, false, (performance.now() - t0) / 1000);
+        ctx.log.warn({ err: e, willRetry: !ctx.lastAttempt }, "job failed");
+        throw e;
+      }
+    }
+  }
+
+  /** Queue a job; with `trx` it is part of that transaction. Throws for an undefined job. */
+  async enqueue<T extends object>(name: string, data: T, opts: EnqueueOptions = {}): Promise<string | null> {
+    if (!this.defs.has(name)) throw new Error(`No job named "${name}" is defined (server/jobs/registry.ts)`);
+    const options: PgBoss.SendOptions = {};
+    if (opts.trx) options.db = executor(opts.trx);
+    if (opts.startAfter) options.startAfter = opts.startAfter;
+    if (opts.singletonKey) options.singletonKey = opts.singletonKey;
+    const id = await this.boss.send(name, data, options);
+    if (!id && !opts.singletonKey) throw new Error(`The job queue refused "${name}" (is its queue created? call jobs.start() first)`);
+    return id;
+  }
+
+  async schedule(name: string, cron: string, data: object = {}, tz = "UTC") {
+    await this.boss.schedule(name, cron, data, { tz });
+  }
+
+  async unschedule(name: string) {
+    await this.boss.unschedule(name);
+  }
+
+  /** Jobs waiting or running, per queue, and the failures seen by this process. */
+  async stats() {
+    const queues: Record<string, { waiting: number; active: number; failed: number }> = {};
+    const { rows } = await executor(this.config.db).executeSql(
+      `select name, state, count(*)::int as n from pgboss.job where name = any($1) group by name, state`,
+      [[...this.defs.keys()]],
+    );
+    for (const name of this.defs.keys()) queues[name] = { waiting: 0, active: 0, failed: 0 };
+    for (const r of rows) {
+      const q = queues[r.name];
+      if (r.state === "created" || r.state === "retry") q.waiting += r.n;
+      else if (r.state === "active") q.active += r.n;
+      else if (r.state === "failed") q.failed += r.n;
+    }
+    return { queues, failuresHere: this.failures };
+  }
+
+  /** Running: started and not stopping (the readiness check). */
+  get running() {
+    return this.started && !this.stopping;
+  }
+
+  /**
+   * Stop taking jobs; wait up to `timeoutMs` for running ones to finish, then hand the
+   * rest back to the queue (failed with a retry left, so another worker picks them up).
+   */
+  async stop(timeoutMs = 20_000) {
+    if (!this.started || this.stopping) return;
+    this.stopping = true;
+    await this.boss.stop({ graceful: true, timeout: timeoutMs, close: false, wait: true });
+    this.log.info("job queue stopped");
+  }
+}
+
+export const createJobs = (config: JobsConfig) => new Jobs(config);
+
+/** The worker switch: TIDELINE_WORKER=off (or 0/false) makes a web-only instance. */
+export const workerEnabled = (env = process.env) => !["off", "0", "false", "no"].includes((env.TIDELINE_WORKER ?? "on").toLowerCase());
