@@ -15,7 +15,11 @@ function preloadFonts(patterns: RegExp[]): Plugin {
       handler: (_html, ctx) =>
         Object.keys(ctx.bundle ?? {})
           .filter((f) => f.endsWith(".woff2") && patterns.some((p) => p.test(f)))
-          .map((f) => ({ tag: "link", attrs: { rel: "preload", as: "font", type: "font/woff2", href: `/${f}`, crossorigin: "" }, injectTo: "head" as const })),
+          .map((f) => ({
+            tag: "link",
+            attrs: { rel: "preload", as: "font", type: "font/woff2", href: `/${f}`, crossorigin: "" },
+            injectTo: "head" as const,
+          })),
     },
   };
 }
@@ -23,7 +27,10 @@ function preloadFonts(patterns: RegExp[]): Plugin {
 // One config for the client build and for vitest. The API runs separately (server/);
 // in dev, Vite proxies /api to it.
 export default defineConfig({
-  plugins: [react(), preloadFonts([/atkinson-hyperlegible-next-latin-wght-normal/, /jetbrains-mono-latin-wght-normal/])],
+  plugins: [
+    react(),
+    preloadFonts([/atkinson-hyperlegible-next-latin-wght-normal/, /jetbrains-mono-latin-wght-normal/]),
+  ],
   build: { outDir: "dist/client", emptyOutDir: true, sourcemap: false, reportCompressedSize: true },
   server: {
     host: "127.0.0.1",

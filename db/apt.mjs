@@ -6,7 +6,8 @@
 // loop also covers the package lists' lock that `apt-get update` takes.
 import { spawnSync } from "node:child_process";
 
-const LOCK_HELD = /Could not get lock|Unable to acquire the dpkg frontend lock|Unable to lock (the )?(administration )?directory|is another process using it/i;
+const LOCK_HELD =
+  /Could not get lock|Unable to acquire the dpkg frontend lock|Unable to lock (the )?(administration )?directory|is another process using it/i;
 
 function sleepSync(ms) {
   Atomics.wait(new Int32Array(new SharedArrayBuffer(4)), 0, 0, ms);
@@ -21,7 +22,12 @@ export function aptGet(args, { cwd, env = process.env, say = (m) => process.stdo
   let told = false;
   for (;;) {
     const left = Math.max(0, Math.ceil((deadline - Date.now()) / 1000));
-    const r = spawnSync(bin, ["-o", `DPkg::Lock::Timeout=${left}`, ...args], { cwd, env, stdio: ["inherit", "pipe", "pipe"], encoding: "utf8" });
+    const r = spawnSync(bin, ["-o", `DPkg::Lock::Timeout=${left}`, ...args], {
+      cwd,
+      env,
+      stdio: ["inherit", "pipe", "pipe"],
+      encoding: "utf8",
+    });
     if (r.error) throw r.error;
     const out = `${r.stdout ?? ""}${r.stderr ?? ""}`;
     if (r.status === 0 || !LOCK_HELD.test(out)) {
@@ -31,7 +37,9 @@ export function aptGet(args, { cwd, env = process.env, say = (m) => process.stdo
     }
     if (Date.now() >= deadline) {
       process.stderr.write(r.stderr ?? "");
-      say(`another package install still holds the package lock after ${waitS} s; giving up. Run the command again when it has finished (or set TIDELINE_APT_LOCK_WAIT_S).`);
+      say(
+        `another package install still holds the package lock after ${waitS} s; giving up. Run the command again when it has finished (or set TIDELINE_APT_LOCK_WAIT_S).`,
+      );
       return r.status ?? 1;
     }
     if (!told) say(`another package install holds the package lock; waiting for it (up to ${waitS} s)…`);

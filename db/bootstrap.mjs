@@ -39,7 +39,9 @@ function run(cmd, args, opts = {}) {
 
 function lockHash() {
   const lock = join(root, "package-lock.json");
-  return createHash("sha256").update(readFileSync(existsSync(lock) ? lock : join(root, "package.json"))).digest("hex");
+  return createHash("sha256")
+    .update(readFileSync(existsSync(lock) ? lock : join(root, "package.json")))
+    .digest("hex");
 }
 
 function ensureDeps() {
@@ -69,7 +71,10 @@ function aptInstall(pkgs, why) {
   }
   say(`installing ${pkgs.join(", ")} from Debian's packages (${why})…`);
   const env = { ...process.env, DEBIAN_FRONTEND: "noninteractive" };
-  if (aptGet(["update", "-qq"], { cwd: root, env }) !== 0 || aptGet(["install", "-y", "-qq", ...pkgs], { cwd: root, env }) !== 0) {
+  if (
+    aptGet(["update", "-qq"], { cwd: root, env }) !== 0 ||
+    aptGet(["install", "-y", "-qq", ...pkgs], { cwd: root, env }) !== 0
+  ) {
     say(`apt-get could not install ${pkgs.join(" ")}.`);
     process.exit(1);
   }

@@ -14,7 +14,10 @@ export interface LocalDatabase {
 export const DEFAULT_PG_PORT = 54329;
 export const DEFAULT_TEST_PG_PORT = 54339;
 
-export async function openLocalDatabase(mode: "dev" | "test", database = mode === "dev" ? "tideline" : "tideline_test"): Promise<LocalDatabase> {
+export async function openLocalDatabase(
+  mode: "dev" | "test",
+  database = mode === "dev" ? "tideline" : "tideline_test",
+): Promise<LocalDatabase> {
   if (process.env.DATABASE_URL && mode === "dev") {
     const admin = new URL(process.env.DATABASE_URL);
     admin.pathname = "/postgres";

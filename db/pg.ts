@@ -31,11 +31,12 @@ export interface Cluster {
 
 export function pgBin(): string {
   const base = "/usr/lib/postgresql";
-  const versions = existsSync(base)
-    ? readdirSync(base).filter((v) => existsSync(join(base, v, "bin", "initdb")))
-    : [];
+  const versions = existsSync(base) ? readdirSync(base).filter((v) => existsSync(join(base, v, "bin", "initdb"))) : [];
   versions.sort((a, b) => Number(b) - Number(a));
-  if (!versions.length) throw new Error("PostgreSQL server not found under /usr/lib/postgresql; run `npm start` as root or apt-get install postgresql");
+  if (!versions.length)
+    throw new Error(
+      "PostgreSQL server not found under /usr/lib/postgresql; run `npm start` as root or apt-get install postgresql",
+    );
   return join(base, versions[0], "bin");
 }
 
@@ -66,7 +67,10 @@ function dataDirFor(name: string): string {
 }
 
 function running(bin: string, dataDir: string) {
-  return existsSync(join(dataDir, "postmaster.pid")) && asPostgres(join(bin, "pg_ctl"), ["-D", dataDir, "status"], true).status === 0;
+  return (
+    existsSync(join(dataDir, "postmaster.pid")) &&
+    asPostgres(join(bin, "pg_ctl"), ["-D", dataDir, "status"], true).status === 0
+  );
 }
 
 async function waitReady(port: number) {
@@ -91,7 +95,17 @@ export async function startCluster(opts: ClusterOptions): Promise<Cluster> {
     mkdirSync(dataDir, { recursive: true });
     chmodSync(dataDir, 0o700);
     if (isRoot) chownPostgres(dataDir);
-    const r = asPostgres(join(bin, "initdb"), ["-D", dataDir, "-U", "postgres", "-A", "trust", "-E", "UTF8", "--locale=C.UTF-8"]);
+    const r = asPostgres(join(bin, "initdb"), [
+      "-D",
+      dataDir,
+      "-U",
+      "postgres",
+      "-A",
+      "trust",
+      "-E",
+      "UTF8",
+      "--locale=C.UTF-8",
+    ]);
     if (r.status !== 0) throw new Error(`initdb failed: ${r.stderr || r.stdout}`);
   }
   let startedHere = false;
@@ -102,8 +116,20 @@ export async function startCluster(opts: ClusterOptions): Promise<Cluster> {
       `-c unix_socket_directories=${dataDir}`,
       ...(opts.durable ? [] : ["-c fsync=off", "-c synchronous_commit=off", "-c full_page_writes=off"]),
     ].join(" ");
-    const r = asPostgres(join(bin, "pg_ctl"), ["-D", dataDir, "-l", join(dataDir, "startup.log"), "-w", "-t", "60", "-o", settings, "start"]);
-    if (r.status !== 0) throw new Error(`PostgreSQL did not start (see ${join(dataDir, "startup.log")}): ${r.stderr || r.stdout}`);
+    const r = asPostgres(join(bin, "pg_ctl"), [
+      "-D",
+      dataDir,
+      "-l",
+      join(dataDir, "startup.log"),
+      "-w",
+      "-t",
+      "60",
+      "-o",
+      settings,
+      "start",
+    ]);
+    if (r.status !== 0)
+      throw new Error(`PostgreSQL did not start (see ${join(dataDir, "startup.log")}): ${r.stderr || r.stdout}`);
     startedHere = true;
   }
   await waitReady(opts.port);
@@ -132,7 +158,11 @@ function chownPostgres(dir: string) {
 }
 
 /** Creates the database if it does not exist (or drops and recreates it when fresh). */
-export async function ensureDatabase(adminUrl: string, database: string, opts: { fresh?: boolean; template?: string } = {}) {
+export async function ensureDatabase(
+  adminUrl: string,
+  database: string,
+  opts: { fresh?: boolean; template?: string } = {},
+) {
   const c = new pg.Client({ connectionString: adminUrl });
   await c.connect();
   try {

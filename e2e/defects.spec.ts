@@ -21,7 +21,10 @@ test("the curator filters and sorts the register, and a shared link opens the sa
   await page.getByRole("button", { name: /^Due/ }).click();
   await expect(page).toHaveURL(/sort=dueOn/);
   await expect(page.getByRole("columnheader", { name: /Due/ })).toHaveAttribute("aria-sort", /ascending|descending/);
-  const badges = await page.locator("tbody").getByText(/4 · Disabling/).count();
+  const badges = await page
+    .locator("tbody")
+    .getByText(/4 · Disabling/)
+    .count();
   expect(badges).toBe(await page.locator("tbody tr").count());
   const mine = await refs(page);
   expect(mine.length).toBeGreaterThan(0);
@@ -58,7 +61,9 @@ test("the register moves between rows with the arrow keys", async ({ page }) => 
   await expect(page.getByText("1 selected")).toBeVisible();
 });
 
-test("the curator places a defect after another with a reason and the order shows with its reason", async ({ page }) => {
+test("the curator places a defect after another with a reason and the order shows with its reason", async ({
+  page,
+}) => {
   await signIn(page, "curator");
   await openRegister(page);
   const all = await refs(page);
@@ -77,7 +82,9 @@ test("the curator places a defect after another with a reason and the order show
   await expect(page.getByText("(lifted)").first()).toBeVisible();
 });
 
-test("a volunteer raises a prefilled defect, sees no curator's order form, and cannot use bulk actions", async ({ page }) => {
+test("a volunteer raises a prefilled defect, sees no curator's order form, and cannot use bulk actions", async ({
+  page,
+}) => {
   await signIn(page, "volunteer");
   await page.waitForURL(/\/sites\/[^/]+/);
   const siteUrl = page.url().match(/\/sites\/[^/]+/)![0];
@@ -105,7 +112,9 @@ test("a volunteer raises a prefilled defect, sees no curator's order form, and c
   await expect(page.getByRole("button", { name: "Apply…" })).toHaveCount(0);
 });
 
-test("the curator bulk-assigns with one confirmation; the repair plan prints by section with totals", async ({ page }) => {
+test("the curator bulk-assigns with one confirmation; the repair plan prints by section with totals", async ({
+  page,
+}) => {
   await signIn(page, "curator");
   await openRegister(page);
   await page.goto(page.url() + "?status=open&sort=ref&dir=desc");

@@ -3,13 +3,17 @@ import { signIn } from "./support/auth";
 
 // The built client under the server's Content-Security-Policy (helmet): no inline-script
 // exception is needed, so nothing the pages do may be blocked.
-test("the built client runs under the CSP: no violations while signing in and opening the main pages", async ({ page }) => {
+test("the built client runs under the CSP: no violations while signing in and opening the main pages", async ({
+  page,
+}) => {
   const violations: string[] = [];
   page.on("console", (m) => {
     if (/Content Security Policy/i.test(m.text())) violations.push(m.text());
   });
   await page.addInitScript(() => {
-    document.addEventListener("securitypolicyviolation", (e) => console.error(`Content Security Policy violation: ${e.violatedDirective} ${e.blockedURI}`));
+    document.addEventListener("securitypolicyviolation", (e) =>
+      console.error(`Content Security Policy violation: ${e.violatedDirective} ${e.blockedURI}`),
+    );
   });
   const first = await page.goto("/sign-in");
   const csp = first!.headers()["content-security-policy"] ?? "";
@@ -37,5 +41,7 @@ test("too many wrong passwords: the sign-in form says plainly how long to wait",
     await page.getByRole("button", { name: "Sign in" }).click();
     await expect(page.getByRole("alert")).toBeVisible();
   }
-  await expect(page.getByRole("alert")).toContainText(/Too many failed sign-ins for this account\. Try again in \d+ minutes?\./);
+  await expect(page.getByRole("alert")).toContainText(
+    /Too many failed sign-ins for this account\. Try again in \d+ minutes?\./,
+  );
 });

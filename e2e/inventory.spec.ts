@@ -7,7 +7,11 @@ import { DEMO_PASSWORD, signIn } from "./support/auth";
  * shared and tests must not depend on order), then drives the screens as a person would.
  * The board is 2000 mm tall in 4 rows with the flood line at 600 mm: row 4 was under water.
  */
-interface Made { siteId: string; boardId: string; prefix: string }
+interface Made {
+  siteId: string;
+  boardId: string;
+  prefix: string;
+}
 
 async function curatorApi(baseURL: string): Promise<APIRequestContext> {
   const api = await request.newContext({ baseURL, extraHTTPHeaders: { Origin: baseURL } });
@@ -37,7 +41,10 @@ async function makeBoard(baseURL: string): Promise<Made> {
 test.describe("on a phone", () => {
   test.use({ viewport: { width: 375, height: 812 } });
 
-  test("a volunteer logs an inspection and a removal through the quick log, and the board tile shows both", async ({ page, baseURL }) => {
+  test("a volunteer logs an inspection and a removal through the quick log, and the board tile shows both", async ({
+    page,
+    baseURL,
+  }) => {
     const m = await makeBoard(baseURL!);
     const designation = `${m.prefix}2`;
     await signIn(page, "volunteer");
@@ -45,7 +52,10 @@ test.describe("on a phone", () => {
     await expect(page.getByRole("heading", { level: 1, name: "Quick log" })).toBeVisible();
 
     await page.getByLabel("Designation or tag number").fill(designation);
-    await page.getByRole("list", { name: "Matching positions" }).getByRole("button", { name: new RegExp(designation) }).click();
+    await page
+      .getByRole("list", { name: "Matching positions" })
+      .getByRole("button", { name: new RegExp(designation) })
+      .click();
     await expect(page.getByTestId("log-designation")).toHaveText(designation);
 
     // row 4 of a 4-row, 2000 mm face reaches 0–500 mm, under the 600 mm line: prefilled "below"
@@ -62,7 +72,10 @@ test.describe("on a phone", () => {
     await expect(page.getByRole("link", { name: "Raise a defect" })).toHaveAttribute("href", /category=corrosion/);
 
     await page.getByRole("tab", { name: "Move the part" }).click();
-    await expect(page.getByRole("button", { name: "Removed (tagged)", exact: true })).toHaveAttribute("aria-pressed", "true");
+    await expect(page.getByRole("button", { name: "Removed (tagged)", exact: true })).toHaveAttribute(
+      "aria-pressed",
+      "true",
+    );
     await page.getByLabel("Tag number on the bag").fill(`T-${m.prefix}2`);
     await page.getByLabel("Where is it now?").fill("Crate B, engine-room flat");
     await page.getByRole("button", { name: /Save move/ }).click();
@@ -77,7 +90,10 @@ test.describe("on a phone", () => {
   });
 });
 
-test("the curator overrides a disposition with a reason; the tile and the position history update", async ({ page, baseURL }) => {
+test("the curator overrides a disposition with a reason; the tile and the position history update", async ({
+  page,
+  baseURL,
+}) => {
   const m = await makeBoard(baseURL!);
   const designation = `${m.prefix}1`;
   await signIn(page, "curator");
@@ -130,7 +146,9 @@ test("filters dim the tiles that do not match, without hiding them", async ({ pa
   await expectNoSeriousA11yViolations(page, "board elevation");
 });
 
-test("every role sees the survey progress on the site overview, and it passes the accessibility scan", async ({ page }) => {
+test("every role sees the survey progress on the site overview, and it passes the accessibility scan", async ({
+  page,
+}) => {
   await signIn(page, "viewer");
   const summary = page.getByTestId("progress-summary");
   await expect(summary.getByRole("heading", { name: "Survey progress" })).toBeVisible();
@@ -139,7 +157,9 @@ test("every role sees the survey progress on the site overview, and it passes th
   await expectNoSeriousA11yViolations(page, "site overview");
 });
 
-test("the curator sets up a board: new board, a generated row, reorder from the keyboard, nameplate by kind", async ({ page }) => {
+test("the curator sets up a board: new board, a generated row, reorder from the keyboard, nameplate by kind", async ({
+  page,
+}) => {
   test.setTimeout(120_000); // four axe scans on a 2-core machine shared with other checkouts
   const prefix = `N${Date.now().toString(36).slice(-4).toUpperCase()}-`;
   await signIn(page, "curator");
@@ -183,21 +203,27 @@ test("the curator sets up a board: new board, a generated row, reorder from the 
   await expectNoSeriousA11yViolations(page, "board set-up");
 });
 
-test("the CSV import shows row-by-row errors before anything is written; the flood page passes the scan", async ({ page }) => {
+test("the CSV import shows row-by-row errors before anything is written; the flood page passes the scan", async ({
+  page,
+}) => {
   test.setTimeout(90_000);
   await signIn(page, "curator");
   await page.waitForURL(/\/sites\/[^/]+/);
   const siteUrl = page.url().replace(/(\/sites\/[^/]+).*/, "$1");
   await page.goto(`${siteUrl}/inventory/import`);
-  await page.getByLabel("…or paste the CSV").fill(
-    "board,designation,kind,grid_row,grid_col\nImport check board,IC-1,meter,1,1\nImport check board,IC-2,toaster,1,2\n",
-  );
+  await page
+    .getByLabel("…or paste the CSV")
+    .fill(
+      "board,designation,kind,grid_row,grid_col\nImport check board,IC-1,meter,1,1\nImport check board,IC-2,toaster,1,2\n",
+    );
   await page.getByRole("button", { name: "Check the file" }).click();
   await expect(page.getByTestId("import-summary")).toContainText("2 rows: 1 ready, 1 with errors");
   await expect(page.getByTestId("import-line-3")).toContainText("kind");
   await expect(page.getByRole("button", { name: /Import all/ })).toBeDisabled();
   await expectNoSeriousA11yViolations(page, "CSV import preview");
-  const csv = await page.request.get(await page.getByRole("link", { name: "Export the current inventory" }).getAttribute("href") ?? "");
+  const csv = await page.request.get(
+    (await page.getByRole("link", { name: "Export the current inventory" }).getAttribute("href")) ?? "",
+  );
   expect(csv.status()).toBe(200);
   expect(csv.headers()["content-type"]).toContain("text/csv");
   expect(await csv.text()).toContain("designation");
@@ -208,7 +234,10 @@ test("the CSV import shows row-by-row errors before anything is written; the flo
   await expectNoSeriousA11yViolations(page, "flood event page");
 });
 
-test("when someone else decides first, the curator sees their value and can apply theirs or re-apply their own", async ({ page, baseURL }) => {
+test("when someone else decides first, the curator sees their value and can apply theirs or re-apply their own", async ({
+  page,
+  baseURL,
+}) => {
   const m = await makeBoard(baseURL!);
   const designation = `${m.prefix}3`;
   await signIn(page, "curator");

@@ -17,7 +17,11 @@ async function invite(page: Page, email: string, role = "Volunteer") {
   await expect(page.getByRole("status").filter({ hasText: `Invitation to ${email} saved` })).toBeVisible();
 }
 
-test("a curator invites a newcomer; the newcomer follows the e-mailed link, sets a password, lands on the site and signs in again", async ({ page, browser, baseURL }) => {
+test("a curator invites a newcomer; the newcomer follows the e-mailed link, sets a password, lands on the site and signs in again", async ({
+  page,
+  browser,
+  baseURL,
+}) => {
   const email = uniqueEmail("newcomer");
   await openCrewPage(page);
   await invite(page, email);
@@ -73,7 +77,9 @@ test("an instance admin reads the local mailbox and opens an invitation from it"
   const email = uniqueEmail("mailbox");
   const api = await adminApi(baseURL!);
   const site = (await (await api.get("/api/sites")).json()).sites[0].id as string;
-  expect((await api.post(`/api/sites/${site}/invitations`, { data: { email, role: "photographer" } })).status()).toBe(201);
+  expect((await api.post(`/api/sites/${site}/invitations`, { data: { email, role: "photographer" } })).status()).toBe(
+    201,
+  );
   await signIn(page, "admin");
   await page.getByRole("link", { name: "Admin", exact: true }).click();
   await page.getByRole("link", { name: "Local mailbox" }).click();
@@ -89,10 +95,16 @@ test("an instance admin reads the local mailbox and opens an invitation from it"
   await api.dispose();
 });
 
-test("an address that already has an account gets the same invitation and joins only when it accepts with its password", async ({ page, browser, baseURL }) => {
+test("an address that already has an account gets the same invitation and joins only when it accepts with its password", async ({
+  page,
+  browser,
+  baseURL,
+}) => {
   const email = uniqueEmail("has-account");
   const api = await adminApi(baseURL!);
-  const created = await api.post("/api/admin/users", { data: { email, name: "Oriel Fathomley", password: "deckhouse-compass-rose", isAdmin: false } });
+  const created = await api.post("/api/admin/users", {
+    data: { email, name: "Oriel Fathomley", password: "deckhouse-compass-rose", isAdmin: false },
+  });
   expect(created.status()).toBe(201);
 
   await openCrewPage(page);

@@ -13,7 +13,10 @@ async function openList(page: import("@playwright/test").Page) {
   await expect(page.getByTestId("part-row").first()).toBeVisible();
 }
 
-test("the scrounger filters the list, records a lead, exports CSV and opens the share link signed out", async ({ page, browser }) => {
+test("the scrounger filters the list, records a lead, exports CSV and opens the share link signed out", async ({
+  page,
+  browser,
+}) => {
   await openList(page);
   await expectNoSeriousA11yViolations(page, "wanted list");
   await page.screenshot({ path: shot("list-desktop"), fullPage: true });
@@ -60,7 +63,16 @@ test("the scrounger filters the list, records a lead, exports CSV and opens the 
   await expect(pub.getByRole("heading", { level: 1, name: /Parts wanted for MV Kestrel Lantern/ })).toBeVisible();
   await expect(pub.getByTestId("sheet-line").first()).toBeVisible();
   const body = await pub.locator("body").innerText();
-  for (const secret of [source, "3.20", "Rufus Lade", "Ines Marrow", "Copperline", "counter@copperline.example", "Keep six on the shelf", "Sign out"])
+  for (const secret of [
+    source,
+    "3.20",
+    "Rufus Lade",
+    "Ines Marrow",
+    "Copperline",
+    "counter@copperline.example",
+    "Keep six on the shelf",
+    "Sign out",
+  ])
     expect(body, `share page shows ${secret}`).not.toContain(secret);
   await expectNoSeriousA11yViolations(pub, "public share page");
   await pub.setViewportSize({ width: 375, height: 812 });

@@ -2,11 +2,18 @@ import { expect, test } from "@playwright/test";
 import { expectNoSeriousA11yViolations } from "./support/a11y";
 import { adminApi, linkIn, uniqueEmail, waitForMail } from "./support/mailbox";
 
-test("someone who forgot their password gets a link by e-mail, sets a new one and is signed in", async ({ page, baseURL }) => {
+test("someone who forgot their password gets a link by e-mail, sets a new one and is signed in", async ({
+  page,
+  baseURL,
+}) => {
   const email = uniqueEmail("forgetful");
   const api = await adminApi(baseURL!);
   // A throw-away account, so the demo accounts keep their password.
-  expect((await api.post("/api/admin/users", { data: { email, name: "Sable Oakum", password: "first-password-1" } })).status()).toBe(201);
+  expect(
+    (
+      await api.post("/api/admin/users", { data: { email, name: "Sable Oakum", password: "first-password-1" } })
+    ).status(),
+  ).toBe(201);
 
   await page.goto("/sign-in");
   await page.getByRole("link", { name: "Forgot your password?" }).click();

@@ -4,14 +4,21 @@ import { expectNoSeriousA11yViolations } from "./support/a11y";
 import { signIn } from "./support/auth";
 
 /** A small real JPEG drawn here (a flat colour with a label), not a photograph. */
-const jpeg = (color: string) => sharp({ create: { width: 640, height: 480, channels: 3, background: color } }).jpeg({ quality: 80 }).toBuffer();
+const jpeg = (color: string) =>
+  sharp({ create: { width: 640, height: 480, channels: 3, background: color } })
+    .jpeg({ quality: 80 })
+    .toBuffer();
 
 async function siteId(page: Page) {
   const r = await page.request.get("/api/sites");
-  return ((await r.json()) as { sites: Array<{ id: string; name: string }> }).sites.find((s) => s.name === "MV Kestrel Lantern")!.id;
+  return ((await r.json()) as { sites: Array<{ id: string; name: string }> }).sites.find(
+    (s) => s.name === "MV Kestrel Lantern",
+  )!.id;
 }
 
-test("the photographer drops three photos, watches them finish, files them to positions, and the board tiles show the camera badge", async ({ page }) => {
+test("the photographer drops three photos, watches them finish, files them to positions, and the board tiles show the camera badge", async ({
+  page,
+}) => {
   await signIn(page, "photographer");
   await page.getByRole("link", { name: "Photo desk" }).first().click();
   await expect(page.getByRole("heading", { level: 1, name: "Photo desk" })).toBeVisible();
@@ -39,7 +46,11 @@ test("the photographer drops three photos, watches them finish, files them to po
   const input = page.getByLabel("Designation or tag number");
   await input.focus();
   for (let i = 0; i < 3; i++) {
-    if (await page.getByText(`DSC_${stamp}.jpg`, { exact: false }).first().isVisible() && (await page.locator("figcaption").innerText()).includes(`DSC_${stamp}`)) break;
+    if (
+      (await page.getByText(`DSC_${stamp}.jpg`, { exact: false }).first().isVisible()) &&
+      (await page.locator("figcaption").innerText()).includes(`DSC_${stamp}`)
+    )
+      break;
     await page.keyboard.press("PageDown");
   }
   await expect(page.locator("figcaption")).toContainText(`DSC_${stamp}.jpg`);
@@ -53,11 +64,20 @@ test("the photographer drops three photos, watches them finish, files them to po
 
   // Each position now counts its photo (the board tiles' camera badge reads the same rows).
   const id = await siteId(page);
-  const targets = (await (await page.request.get(`/api/sites/${id}/photo-targets`)).json()).targets as Array<{ positionId: string; boardId: string; designation: string; boardName: string }>;
+  const targets = (await (await page.request.get(`/api/sites/${id}/photo-targets`)).json()).targets as Array<{
+    positionId: string;
+    boardId: string;
+    designation: string;
+    boardName: string;
+  }>;
   for (const d of ["4-7", "4-8", "4-9"]) {
     const t = targets.find((x) => x.designation === d && x.boardName.startsWith("Main"))!;
-    const list = (await (await page.request.get(`/api/sites/${id}/photos?positionId=${t.positionId}`)).json()).photos as Array<{ originalName: string }>;
-    expect(list.some((p) => p.originalName.includes(stamp)), `photo filed to ${d}`).toBe(true);
+    const list = (await (await page.request.get(`/api/sites/${id}/photos?positionId=${t.positionId}`)).json())
+      .photos as Array<{ originalName: string }>;
+    expect(
+      list.some((p) => p.originalName.includes(stamp)),
+      `photo filed to ${d}`,
+    ).toBe(true);
   }
   // The board elevation: the three tiles now carry the camera badge (and say so in words).
   const main = targets.find((x) => x.boardName.startsWith("Main"))!;
@@ -80,12 +100,23 @@ test("the shoot list shows what is missing, and the gallery's viewer steps with 
   await expectNoSeriousA11yViolations(page, "shoot list");
 
   // Two photos of one position, uploaded through the API, then the position's gallery.
-  const targets = (await (await page.request.get(`/api/sites/${id}/photo-targets`)).json()).targets as Array<{ positionId: string; designation: string; boardName: string }>;
+  const targets = (await (await page.request.get(`/api/sites/${id}/photo-targets`)).json()).targets as Array<{
+    positionId: string;
+    designation: string;
+    boardName: string;
+  }>;
   const pos = targets.find((x) => x.designation === "5-3" && x.boardName.startsWith("Main"))!;
-  for (const [kind, color] of [["as_found", "#444"], ["after_work", "#999"]]) {
+  for (const [kind, color] of [
+    ["as_found", "#444"],
+    ["after_work", "#999"],
+  ]) {
     const r = await page.request.post(`/api/sites/${id}/photos`, {
       headers: { origin: new URL(page.url()).origin },
-      multipart: { kind, positionId: pos.positionId, files: { name: `${kind}.jpg`, mimeType: "image/jpeg", buffer: await jpeg(color) } },
+      multipart: {
+        kind,
+        positionId: pos.positionId,
+        files: { name: `${kind}.jpg`, mimeType: "image/jpeg", buffer: await jpeg(color) },
+      },
     });
     expect(r.status()).toBe(201);
   }
@@ -95,7 +126,10 @@ test("the shoot list shows what is missing, and the gallery's viewer steps with 
   await page.getByLabel("Slider").check();
   await expect(page.getByRole("slider")).toBeVisible();
   await expectNoSeriousA11yViolations(page, "position gallery");
-  await page.getByRole("button", { name: /^Open photo/ }).first().click();
+  await page
+    .getByRole("button", { name: /^Open photo/ })
+    .first()
+    .click();
   const viewer = page.getByRole("dialog");
   await expect(viewer).toHaveAccessibleName(/^Photo 1 of 2/);
   await page.keyboard.press("ArrowRight");

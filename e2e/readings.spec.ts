@@ -11,7 +11,9 @@ async function openMainBoard(page: Page) {
   await expect(page.getByRole("heading", { level: 1, name: `Readings · ${MAIN}` })).toBeVisible();
 }
 
-test("a volunteer records three insulation readings on different days and temperatures and sees corrected values, verdicts and the chart", async ({ page }) => {
+test("a volunteer records three insulation readings on different days and temperatures and sees corrected values, verdicts and the chart", async ({
+  page,
+}) => {
   test.setTimeout(120_000); // three saves, a chart and an accessibility scan on a shared, loaded machine
   const circuit = `Test feeder ${Date.now().toString(36)}`;
   await signIn(page, "volunteer");
@@ -21,9 +23,27 @@ test("a volunteer records three insulation readings on different days and temper
   // NETA Table 100.14 solid multipliers (from memory, see tests/domain): 10 °C 0.63, 20 °C 1.00, 30 °C 1.58.
   // ANSI/NETA MTS-2019 Table 100.1: a 450 V board uses the 600 V row, minimum 100 MΩ.
   const rows = [
-    { when: "2026-11-25T08:00", megohms: "40", temp: "10", corrected: "25.2 MΩ corrected to 20 °C", verdict: "Below the recorded minimum" },
-    { when: "2026-11-26T08:00", megohms: "45", temp: "20", corrected: "45 MΩ corrected to 20 °C", verdict: "Below the recorded minimum" },
-    { when: "2026-11-27T08:00", megohms: "70", temp: "30", corrected: "111 MΩ corrected to 20 °C", verdict: "Meets the recorded criterion" },
+    {
+      when: "2026-11-25T08:00",
+      megohms: "40",
+      temp: "10",
+      corrected: "25.2 MΩ corrected to 20 °C",
+      verdict: "Below the recorded minimum",
+    },
+    {
+      when: "2026-11-26T08:00",
+      megohms: "45",
+      temp: "20",
+      corrected: "45 MΩ corrected to 20 °C",
+      verdict: "Below the recorded minimum",
+    },
+    {
+      when: "2026-11-27T08:00",
+      megohms: "70",
+      temp: "30",
+      corrected: "111 MΩ corrected to 20 °C",
+      verdict: "Meets the recorded criterion",
+    },
   ];
   for (const r of rows) {
     await form.getByLabel("Component").selectOption({ label: "No component: name the circuit" });
@@ -67,7 +87,9 @@ test("a ground-lamp check with one dark lamp names the phase and shows on the la
   await expect(latest.getByText("Section B feeders closed one by one")).toBeVisible();
 });
 
-test("a viewer reads the readings without record forms; the criteria page and a component page pass the scan", async ({ page }) => {
+test("a viewer reads the readings without record forms; the criteria page and a component page pass the scan", async ({
+  page,
+}) => {
   test.setTimeout(120_000); // two accessibility scans on a shared, loaded machine
   await signIn(page, "viewer");
   await openMainBoard(page);

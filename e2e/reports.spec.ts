@@ -26,7 +26,9 @@ async function openReports(page: Page) {
   await expect(page.getByRole("heading", { name: "Reports and labels" })).toBeVisible();
 }
 
-test("a viewer makes the main board's survey, watches its pages arrive, and the first page looks like Tideline's cover", async ({ page }) => {
+test("a viewer makes the main board's survey, watches its pages arrive, and the first page looks like Tideline's cover", async ({
+  page,
+}) => {
   test.setTimeout(180_000);
   await signIn(page, "viewer");
   await openReports(page);
@@ -51,7 +53,10 @@ test("a viewer makes the main board's survey, watches its pages arrive, and the 
   expect(Math.abs(meta.width! - 413)).toBeLessThanOrEqual(1); // 210 mm at 50 dpi (poppler rounds up)
   expect(Math.abs(meta.height! - 585)).toBeLessThanOrEqual(1); // 297 mm
   const mean = async (top: number, height: number) => {
-    const strip = await sharp(join(OUT, "cover.png")).extract({ left: 0, top, width: meta.width!, height }).png().toBuffer();
+    const strip = await sharp(join(OUT, "cover.png"))
+      .extract({ left: 0, top, width: meta.width!, height })
+      .png()
+      .toBuffer();
     const s = await sharp(strip).stats(); // stats() reads its input, so the strip is cut out first
     return s.channels.slice(0, 3).map((c) => c.mean);
   };
@@ -66,15 +71,22 @@ test("a viewer makes the main board's survey, watches its pages arrive, and the 
 
 /** A short video (YUV 4:2:0, the .y4m chromium's fake camera plays) of a QR code on white. */
 async function qrVideo(text: string, file: string) {
-  const W = 640, H = 480;
+  const W = 640,
+    H = 480;
   const code = await QRCode.toBuffer(text, { errorCorrectionLevel: "M", margin: 4, width: 360 });
   const grey = await sharp({ create: { width: W, height: H, channels: 3, background: "#ffffff" } })
-    .composite([{ input: code, gravity: "center" }]).greyscale().raw().toBuffer();
+    .composite([{ input: code, gravity: "center" }])
+    .greyscale()
+    .raw()
+    .toBuffer();
   const y = Buffer.alloc(W * H);
   for (let i = 0; i < W * H; i++) y[i] = grey[i * (grey.length / (W * H))];
   const chroma = Buffer.alloc((W / 2) * (H / 2), 128); // grey: no colour
   const frame = Buffer.concat([Buffer.from("FRAME\n"), y, chroma, chroma]);
-  await writeFile(file, Buffer.concat([Buffer.from(`YUV4MPEG2 W${W} H${H} F10:1 Ip A1:1 C420jpeg\n`), frame, frame, frame]));
+  await writeFile(
+    file,
+    Buffer.concat([Buffer.from(`YUV4MPEG2 W${W} H${H} F10:1 Ip A1:1 C420jpeg\n`), frame, frame, frame]),
+  );
 }
 
 test("a volunteer's phone scans a tag with the camera and lands on its position", async ({}, testInfo) => {
@@ -86,12 +98,26 @@ test("a volunteer's phone scans a tag with the camera and lands on its position"
   const browser = await chromium.launch({
     executablePath: process.env.CHROMIUM_PATH ?? "/usr/bin/chromium",
     args: [
-      "--no-sandbox", "--disable-gpu", "--disable-dev-shm-usage", "--no-first-run", "--disable-background-networking", "--disable-component-update",
-      "--disable-sync", "--disable-quic", "--use-fake-device-for-media-stream", "--use-fake-ui-for-media-stream", `--use-file-for-fake-video-capture=${video}`,
+      "--no-sandbox",
+      "--disable-gpu",
+      "--disable-dev-shm-usage",
+      "--no-first-run",
+      "--disable-background-networking",
+      "--disable-component-update",
+      "--disable-sync",
+      "--disable-quic",
+      "--use-fake-device-for-media-stream",
+      "--use-fake-ui-for-media-stream",
+      `--use-file-for-fake-video-capture=${video}`,
     ],
   });
   try {
-    const context = await browser.newContext({ baseURL, viewport: { width: 390, height: 844 }, isMobile: true, hasTouch: true });
+    const context = await browser.newContext({
+      baseURL,
+      viewport: { width: 390, height: 844 },
+      isMobile: true,
+      hasTouch: true,
+    });
     await context.grantPermissions(["camera"], { origin: baseURL });
     const page = await context.newPage();
     await signIn(page, "volunteer");

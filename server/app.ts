@@ -10,7 +10,13 @@ import type { Db } from "./db";
 import { AppError } from "./errors";
 import { databaseState } from "./health";
 import { errorHandler } from "./middleware/error-handler";
-import { allowedHostsFrom, hostAllowlist, parseHostList, plainErrorPage, securityHeaders } from "./middleware/hardening";
+import {
+  allowedHostsFrom,
+  hostAllowlist,
+  parseHostList,
+  plainErrorPage,
+  securityHeaders,
+} from "./middleware/hardening";
 import { originCheck } from "./middleware/origin";
 import { sessionMiddleware } from "./middleware/session";
 import { readingRoutes } from "./readings/routes";
@@ -52,7 +58,11 @@ export interface AppDeps {
 
 /** The app without a job queue cannot make photo renditions; say so instead of failing obscurely. */
 const missingJobs = () =>
-  ({ enqueue: async () => { throw new AppError(503, "no_job_queue", "Background jobs are not running on this server."); } }) as unknown as Jobs;
+  ({
+    enqueue: async () => {
+      throw new AppError(503, "no_job_queue", "Background jobs are not running on this server.");
+    },
+  }) as unknown as Jobs;
 
 export function createApp(deps: AppDeps) {
   const { db } = deps;
@@ -61,16 +71,30 @@ export function createApp(deps: AppDeps) {
   if (deps.trustProxy) app.set("trust proxy", 1);
   const lucia = createLucia(db);
   const photoStorage = deps.photoStorage ?? storageFromEnv();
-  const mail = { db, mailer: deps.mailer ?? unconfiguredMailer(), publicUrl: (deps.publicUrl ?? "http://127.0.0.1:3000").replace(/\/+$/, ""), jobs: deps.jobs };
-  app.use(hostAllowlist(allowedHostsFrom({ publicUrl: mail.publicUrl, extra: deps.allowedHosts ?? parseHostList(process.env.ALLOWED_HOSTS) })));
+  const mail = {
+    db,
+    mailer: deps.mailer ?? unconfiguredMailer(),
+    publicUrl: (deps.publicUrl ?? "http://127.0.0.1:3000").replace(/\/+$/, ""),
+    jobs: deps.jobs,
+  };
+  app.use(
+    hostAllowlist(
+      allowedHostsFrom({
+        publicUrl: mail.publicUrl,
+        extra: deps.allowedHosts ?? parseHostList(process.env.ALLOWED_HOSTS),
+      }),
+    ),
+  );
   app.use(securityHeaders({ https: mail.publicUrl.startsWith("https:") }));
 
   // gzip for JSON, HTML, JS and CSS (issue 15: a 345 KiB entry and MBs of JSON went raw). Downloads
   // (Content-Disposition: attachment) stream uncompressed with their own back-pressure; images are
   // already compressed and the `compression` package's default filter leaves them alone.
-  app.use(compression({
-    filter: (req, res) => !res.getHeader("Content-Disposition") && compression.filter(req, res),
-  }));
+  app.use(
+    compression({
+      filter: (req, res) => !res.getHeader("Content-Disposition") && compression.filter(req, res),
+    }),
+  );
 
   const api = Router();
   api.get("/health", async (_req, res) => {
@@ -98,18 +122,29 @@ export function createApp(deps: AppDeps) {
   api.use((_req, _res, next) => next(new AppError(404, "not_found", "No such API route.")));
   api.use(errorHandler);
 
-  app.use("/api", (_req, res, next) => {
-    res.setHeader("Cache-Control", "no-store");
-    next();
-  }, api);
+  app.use(
+    "/api",
+    (_req, res, next) => {
+      res.setHeader("Cache-Control", "no-store");
+      next();
+    },
+    api,
+  );
 
   if (deps.clientDir && existsSync(deps.clientDir)) {
     const dir = deps.clientDir;
     // Vite names every built asset by its content hash: cache those for a year as immutable. index.html
     // (and anything unhashed) is revalidated each time, so a new build is picked up at once.
-    app.use("/assets", express.static(join(dir, "assets"), { index: false, maxAge: "365d", immutable: true, fallthrough: false }));
-    app.use(express.static(dir, { index: false, maxAge: 0, setHeaders: (res) => res.setHeader("Cache-Control", "no-cache") }));
-    app.get("/{*splat}", (_req, res) => res.sendFile(join(dir, "index.html"), { headers: { "Cache-Control": "no-cache" } }));
+    app.use(
+      "/assets",
+      express.static(join(dir, "assets"), { index: false, maxAge: "365d", immutable: true, fallthrough: false }),
+    );
+    app.use(
+      express.static(dir, { index: false, maxAge: 0, setHeaders: (res) => res.setHeader("Cache-Control", "no-cache") }),
+    );
+    app.get("/{*splat}", (_req, res) =>
+      res.sendFile(join(dir, "index.html"), { headers: { "Cache-Control": "no-cache" } }),
+    );
   }
   app.use(plainErrorPage);
   return app;

@@ -37,10 +37,21 @@ export async function recordAudit(db: Db, e: AuditEntry) {
 /** Many audit rows in one statement per 1,000 (set-based writers such as the wanted list's demand sync). */
 export async function recordAuditMany(db: Db, entries: readonly AuditEntry[]) {
   const rows = entries.map((e) => ({
-    siteId: e.siteId, entityType: e.entityType, entityId: e.entityId, action: e.action, actorId: e.actorId,
-    boardId: e.boardId ?? null, positionId: e.positionId ?? null, before: json(e.before), after: json(e.after),
+    siteId: e.siteId,
+    entityType: e.entityType,
+    entityId: e.entityId,
+    action: e.action,
+    actorId: e.actorId,
+    boardId: e.boardId ?? null,
+    positionId: e.positionId ?? null,
+    before: json(e.before),
+    after: json(e.after),
   }));
-  for (let i = 0; i < rows.length; i += 1000) await db.insertInto("auditLog").values(rows.slice(i, i + 1000)).execute();
+  for (let i = 0; i < rows.length; i += 1000)
+    await db
+      .insertInto("auditLog")
+      .values(rows.slice(i, i + 1000))
+      .execute();
 }
 
 /** The changed fields of an update, as { before, after } holding only those keys. */
@@ -50,7 +61,10 @@ export function diff<T extends Record<string, unknown>>(before: T, patch: Partia
   for (const [k, v] of Object.entries(patch)) {
     if (v === undefined) continue;
     const old = before[k];
-    const same = old instanceof Date && v instanceof Date ? old.getTime() === v.getTime() : JSON.stringify(old) === JSON.stringify(v);
+    const same =
+      old instanceof Date && v instanceof Date
+        ? old.getTime() === v.getTime()
+        : JSON.stringify(old) === JSON.stringify(v);
     if (!same) {
       b[k] = old;
       a[k] = v;

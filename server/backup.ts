@@ -40,7 +40,11 @@ function pgConnection(url: string) {
   const u = new URL(url);
   const password = decodeURIComponent(u.password);
   u.password = "";
-  return { dbname: u.toString(), env: { ...process.env, ...(password ? { PGPASSWORD: password } : {}) }, database: decodeURIComponent(u.pathname.slice(1)) };
+  return {
+    dbname: u.toString(),
+    env: { ...process.env, ...(password ? { PGPASSWORD: password } : {}) },
+    database: decodeURIComponent(u.pathname.slice(1)),
+  };
 }
 
 function runTool(tool: string, args: string[], env: NodeJS.ProcessEnv) {
@@ -49,18 +53,39 @@ function runTool(tool: string, args: string[], env: NodeJS.ProcessEnv) {
   if (r.status !== 0) throw new Error(`${tool} failed (exit ${r.status}): ${(r.stderr || r.stdout).trim()}`);
 }
 
-const MEDIA: Record<string, string> = { jpg: "image/jpeg", jpeg: "image/jpeg", png: "image/png", webp: "image/webp", tif: "image/tiff", tiff: "image/tiff", heic: "image/heic", heif: "image/heif" };
+const MEDIA: Record<string, string> = {
+  jpg: "image/jpeg",
+  jpeg: "image/jpeg",
+  png: "image/png",
+  webp: "image/webp",
+  tif: "image/tiff",
+  tiff: "image/tiff",
+  heic: "image/heic",
+  heif: "image/heif",
+};
 const contentTypeOf = (key: string) => MEDIA[key.split(".").pop()?.toLowerCase() ?? ""] ?? "application/octet-stream";
 const photoKeys = async (storage: PhotoStorage) => (await storage.listKeys()).filter((k) => !k.endsWith(".partial"));
 
-export async function backup(opts: { databaseUrl: string; storage: PhotoStorage; out: string }): Promise<{ file: string; photos: number }> {
+export async function backup(opts: {
+  databaseUrl: string;
+  storage: PhotoStorage;
+  out: string;
+}): Promise<{ file: string; photos: number }> {
   const work = await mkdtemp(join(tmpdir(), "tideline-backup-"));
   try {
     const conn = pgConnection(opts.databaseUrl);
-    runTool("pg_dump", ["--format=custom", "--no-owner", "--no-acl", `--file=${join(work, "database.dump")}`, `--dbname=${conn.dbname}`], conn.env);
+    runTool(
+      "pg_dump",
+      ["--format=custom", "--no-owner", "--no-acl", `--file=${join(work, "database.dump")}`, `--dbname=${conn.dbname}`],
+      conn.env,
+    );
     const manifest: Manifest = {
-      format: BACKUP_FORMAT, version: BACKUP_VERSION, createdAt: new Date().toISOString(), database: conn.database,
-      photoStorage: opts.storage.kind, photos: [],
+      format: BACKUP_FORMAT,
+      version: BACKUP_VERSION,
+      createdAt: new Date().toISOString(),
+      database: conn.database,
+      photoStorage: opts.storage.kind,
+      photos: [],
     };
     for (const key of await photoKeys(opts.storage)) {
       const dest = join(work, "photos", key);
@@ -68,7 +93,10 @@ export async function backup(opts: { databaseUrl: string; storage: PhotoStorage;
       const hash = createHash("sha256");
       let bytes = 0;
       const source = await opts.storage.get(key);
-      source.on("data", (c: Buffer) => { hash.update(c); bytes += c.length; });
+      source.on("data", (c: Buffer) => {
+        hash.update(c);
+        bytes += c.length;
+      });
       await pipeline(source, createWriteStream(dest));
       manifest.photos.push({ key, bytes, sha256: hash.digest("hex") });
     }
@@ -82,21 +110,40 @@ export async function backup(opts: { databaseUrl: string; storage: PhotoStorage;
   }
 }
 
-export async function restore(opts: { databaseUrl: string; storage: PhotoStorage; file: string }): Promise<{ photos: number; removed: number }> {
+export async function restore(opts: {
+  databaseUrl: string;
+  storage: PhotoStorage;
+  file: string;
+}): Promise<{ photos: number; removed: number }> {
   const work = await mkdtemp(join(tmpdir(), "tideline-restore-"));
   try {
     await tar.extract({ file: opts.file, cwd: work, strict: true });
     const manifest = JSON.parse(await readFile(join(work, "manifest.json"), "utf8")) as Manifest;
-    if (manifest.format !== BACKUP_FORMAT || manifest.version > BACKUP_VERSION) throw new Error(`${opts.file} is not a Tideline backup this version can read`);
+    if (manifest.format !== BACKUP_FORMAT || manifest.version > BACKUP_VERSION)
+      throw new Error(`${opts.file} is not a Tideline backup this version can read`);
     // Check every photo before touching anything: a damaged archive changes nothing.
     const photos: Array<{ key: string; body: Buffer }> = [];
     for (const p of manifest.photos) {
       const body = await readFile(join(work, "photos", p.key));
-      if (createHash("sha256").update(body).digest("hex") !== p.sha256) throw new Error(`photo ${p.key} in the archive is damaged (checksum differs)`);
+      if (createHash("sha256").update(body).digest("hex") !== p.sha256)
+        throw new Error(`photo ${p.key} in the archive is damaged (checksum differs)`);
       photos.push({ key: p.key, body });
     }
     const conn = pgConnection(opts.databaseUrl);
-    runTool("pg_restore", ["--clean", "--if-exists", "--no-owner", "--no-acl", "--single-transaction", "--exit-on-error", `--dbname=${conn.dbname}`, join(work, "database.dump")], conn.env);
+    runTool(
+      "pg_restore",
+      [
+        "--clean",
+        "--if-exists",
+        "--no-owner",
+        "--no-acl",
+        "--single-transaction",
+        "--exit-on-error",
+        `--dbname=${conn.dbname}`,
+        join(work, "database.dump"),
+      ],
+      conn.env,
+    );
     const keep = new Set(manifest.photos.map((p) => p.key));
     let removed = 0;
     for (const key of await photoKeys(opts.storage)) {

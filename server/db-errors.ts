@@ -6,7 +6,15 @@
  * 57P03 cannot_connect_now, 53300 too_many_connections, 25P03
  * idle_in_transaction_session_timeout, 57014 query_canceled) and Node's socket errnos.
  */
-const SOCKET_ERRNOS = new Set(["ECONNREFUSED", "ECONNRESET", "EPIPE", "ETIMEDOUT", "EHOSTUNREACH", "ENETUNREACH", "EAI_AGAIN"]);
+const SOCKET_ERRNOS = new Set([
+  "ECONNREFUSED",
+  "ECONNRESET",
+  "EPIPE",
+  "ETIMEDOUT",
+  "EHOSTUNREACH",
+  "ENETUNREACH",
+  "EAI_AGAIN",
+]);
 const LOST_SQLSTATES = new Set(["57P01", "57P02", "57P03", "53300", "25P03"]);
 const MESSAGES = [
   /Connection terminated/i, // pg: the socket closed (unexpectedly, or while we ended it)

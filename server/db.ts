@@ -39,7 +39,12 @@ export const APP_DB_OPTIONS: Required<DbOptions> = {
 };
 
 /** For migrations, seeds, the benchmark and backups: no statement or idle-in-transaction limit. */
-export const MAINTENANCE_DB_OPTIONS: DbOptions = { max: 2, statementTimeoutMs: 0, idleInTransactionMs: 0, connectionTimeoutMs: 30_000 };
+export const MAINTENANCE_DB_OPTIONS: DbOptions = {
+  max: 2,
+  statementTimeoutMs: 0,
+  idleInTransactionMs: 0,
+  connectionTimeoutMs: 30_000,
+};
 
 /**
  * A Kysely over a pg Pool that survives losing the database: every client the pool

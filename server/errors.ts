@@ -14,5 +14,7 @@ export class AppError extends Error {
 }
 
 export const notFound = (what = "That record") => new AppError(404, "not_found", `${what} was not found.`);
-export const forbidden = (message = "Your role on this site does not allow that.") => new AppError(403, "forbidden", message);
-export const conflict = (message: string, current?: unknown) => new AppError(409, "conflict", message, undefined, current);
+export const forbidden = (message = "Your role on this site does not allow that.") =>
+  new AppError(403, "forbidden", message);
+export const conflict = (message: string, current?: unknown) =>
+  new AppError(409, "conflict", message, undefined, current);

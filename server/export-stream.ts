@@ -44,7 +44,13 @@ export const limitExports: RequestHandler = (_req, res, next) => {
   const now = running.get(who) ?? 0;
   if (now >= exportsPerPerson()) {
     res.setHeader("Retry-After", String(RETRY_AFTER_S));
-    return next(new AppError(429, "too_many_exports", `You already have ${now} downloads running. Let one finish, then try again.`));
+    return next(
+      new AppError(
+        429,
+        "too_many_exports",
+        `You already have ${now} downloads running. Let one finish, then try again.`,
+      ),
+    );
   }
   running.set(who, now + 1);
   let freed = false;

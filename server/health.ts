@@ -21,7 +21,10 @@ export async function databaseState(db: Db, timeoutMs = 3000): Promise<{ db: DbS
     return { db: "up" };
   } catch (e) {
     const failure = dbFailureOf(e);
-    return { db: "down", reason: failure === "timeout" || (e as { code?: string }).code === "ETIMEDOUT" ? "timeout" : "unreachable" };
+    return {
+      db: "down",
+      reason: failure === "timeout" || (e as { code?: string }).code === "ETIMEDOUT" ? "timeout" : "unreachable",
+    };
   } finally {
     clearTimeout(timer);
   }

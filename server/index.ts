@@ -24,14 +24,24 @@ export interface Running {
 }
 
 /** Also sets up e-mail from the environment (SMTP_URL, or the local fake server) and the job queue. */
-export async function serve(opts: { db: Db; port: number; host?: string; clientDir?: string; work?: boolean }): Promise<Running> {
+export async function serve(opts: {
+  db: Db;
+  port: number;
+  host?: string;
+  clientDir?: string;
+  work?: boolean;
+}): Promise<Running> {
   const mail = await mailFromEnv({ port: opts.port });
   const photoStorage = storageFromEnv();
   if (photoStorage instanceof LocalDiskStorage) {
     const removed = await photoStorage.removeLeftovers();
-    if (removed.length) console.log(`[tideline] removed ${removed.length} partial photo file(s) left by an interrupted upload`);
+    if (removed.length)
+      console.log(`[tideline] removed ${removed.length} partial photo file(s) left by an interrupted upload`);
   }
-  const jobs = await startJobs({ db: opts.db, mailer: mail.mailer, publicUrl: mail.publicUrl, photoStorage }, { work: opts.work ?? workerEnabled() });
+  const jobs = await startJobs(
+    { db: opts.db, mailer: mail.mailer, publicUrl: mail.publicUrl, photoStorage },
+    { work: opts.work ?? workerEnabled() },
+  );
   const app = createApp({
     photoStorage,
     db: opts.db,
@@ -43,7 +53,9 @@ export async function serve(opts: { db: Db; port: number; host?: string; clientD
     jobs,
   });
   const server = await new Promise<Server>((resolve, reject) => {
-    const s = app.listen(opts.port, opts.host ?? process.env.HOST ?? "127.0.0.1", (err?: Error) => (err ? reject(err) : resolve(s)));
+    const s = app.listen(opts.port, opts.host ?? process.env.HOST ?? "127.0.0.1", (err?: Error) =>
+      err ? reject(err) : resolve(s),
+    );
   }).catch(async (e) => {
     await jobs.stop(1000);
     await mail.stop();

@@ -10,7 +10,10 @@ export const log = pino({
   level: process.env.LOG_LEVEL ?? (process.env.VITEST ? "error" : "info"),
   base: { service: "tideline", pid: process.pid },
   timestamp: pino.stdTimeFunctions.isoTime,
-  redact: { paths: ["req.headers.cookie", "req.headers.authorization", 'res.headers["set-cookie"]'], censor: "[redacted]" },
+  redact: {
+    paths: ["req.headers.cookie", "req.headers.authorization", 'res.headers["set-cookie"]'],
+    censor: "[redacted]",
+  },
 });
 
 export type Logger = typeof log;

@@ -11,7 +11,9 @@ export function shutdownHttp(server: Server, limitMs: number): Promise<void> {
     const timer = setTimeout(() => server.closeAllConnections(), limitMs);
     timer.unref();
     // A response finished while closing tells its client to reconnect elsewhere.
-    server.on("request", (_req, res) => { if (!res.headersSent) res.setHeader("Connection", "close"); });
+    server.on("request", (_req, res) => {
+      if (!res.headersSent) res.setHeader("Connection", "close");
+    });
     server.close(() => {
       clearTimeout(timer);
       resolve();

@@ -29,18 +29,28 @@ let passed = 0;
 let failed = 0;
 let skipped = 0;
 try {
-  if (wants("types")) typecheckOk = step("type check (tsc --noEmit)", bin("tsc"), ["--noEmit", "-p", "tsconfig.json"]);
+  if (wants("types")) {
+    typecheckOk = step("type check (tsc --noEmit)", bin("tsc"), ["--noEmit", "-p", "tsconfig.json"]);
+    // The formatter decides the layout of every file (.prettierrc.json); `npm run format` fixes it.
+    if (!step("format check (prettier --check)", bin("prettier"), ["--check", ".", "--log-level", "warn"]))
+      typecheckOk = false;
+  }
 
   const vitest = (title: string, report: string, args: string[]) => {
     const out = join(reports, report);
-    step(title, bin("vitest"), ["run", ...args, "--reporter=default", "--reporter=json", `--outputFile.json=${out}`], { NO_COLOR: "1" });
+    step(title, bin("vitest"), ["run", ...args, "--reporter=default", "--reporter=json", `--outputFile.json=${out}`], {
+      NO_COLOR: "1",
+    });
     if (existsSync(out)) {
       const v = JSON.parse(readFileSync(out, "utf8"));
       passed += v.numPassedTests;
       failed += v.numFailedTests;
       skipped += v.numPendingTests + v.numTodoTests;
       // A file that fails to load has no tests to count; count it as a failure.
-      failed += v.testResults.filter((f: { status: string; assertionResults: unknown[] }) => f.status === "failed" && f.assertionResults.length === 0).length;
+      failed += v.testResults.filter(
+        (f: { status: string; assertionResults: unknown[] }) =>
+          f.status === "failed" && f.assertionResults.length === 0,
+      ).length;
     } else failed += 1;
   };
 
@@ -48,11 +58,14 @@ try {
 
   // Database connections dropped, the database stopped under writes, readers that never read
   // (tests/faults, tests/faults/vitest.config.ts): a few minutes, one file at a time.
-  if (wants("faults")) vitest("vitest: fault tests", "vitest-faults.json", ["--config", "tests/faults/vitest.config.ts"]);
+  if (wants("faults"))
+    vitest("vitest: fault tests", "vitest-faults.json", ["--config", "tests/faults/vitest.config.ts"]);
 
   if (wants("e2e")) {
     const out = join(reports, "playwright.json");
-    step("playwright: end-to-end in chromium", bin("playwright"), ["test", "--reporter=list,json"], { PLAYWRIGHT_JSON_OUTPUT_NAME: out });
+    step("playwright: end-to-end in chromium", bin("playwright"), ["test", "--reporter=list,json"], {
+      PLAYWRIGHT_JSON_OUTPUT_NAME: out,
+    });
     if (existsSync(out)) {
       const p = JSON.parse(readFileSync(out, "utf8"));
       passed += p.stats.expected + p.stats.flaky;
@@ -65,7 +78,7 @@ try {
   cluster.stop();
 }
 
-if (!typecheckOk) console.log("[tideline] the type check failed (see above)");
+if (!typecheckOk) console.log("[tideline] the type check or the format check failed (see above)");
 const ok = typecheckOk && failed === 0 && passed > 0;
 console.log(`Tests: ${passed} passed, ${failed} failed${skipped ? `, ${skipped} skipped` : ""}`);
 process.exit(ok ? 0 : 1);

@@ -12,7 +12,9 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn("version", "integer", (c) => c.notNull().defaultTo(1))
     .addColumn("updated_at", "timestamptz", (c) => c.notNull().defaultTo(sql`now()`))
     .execute();
-  await sql`CREATE INDEX photos_position_kind_live_idx ON photos (position_id, kind) WHERE deleted_at IS NULL`.execute(db);
+  await sql`CREATE INDEX photos_position_kind_live_idx ON photos (position_id, kind) WHERE deleted_at IS NULL`.execute(
+    db,
+  );
   await sql`CREATE INDEX photos_deleted_at_idx ON photos (deleted_at) WHERE deleted_at IS NOT NULL`.execute(db);
 }
 

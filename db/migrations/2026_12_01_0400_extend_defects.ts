@@ -49,7 +49,8 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn("updated_at", "timestamptz", (c) => c.notNull().defaultTo(sql`now()`))
     .execute();
 
-  const idx = (name: string, table: string, cols: string[]) => db.schema.createIndex(name).on(table).columns(cols).execute();
+  const idx = (name: string, table: string, cols: string[]) =>
+    db.schema.createIndex(name).on(table).columns(cols).execute();
   await sql`CREATE UNIQUE INDEX defect_pins_active_uq ON defect_pins (defect_id) WHERE removed_at IS NULL`.execute(db);
   await idx("defect_pins_relative_idx", "defect_pins", ["relative_to"]);
   await idx("defect_pins_site_idx", "defect_pins", ["site_id"]);
@@ -62,14 +63,33 @@ export async function up(db: Kysely<any>): Promise<void> {
   await idx("defect_views_user_idx", "defect_views", ["user_id"]);
 
   // One (site_id, column) index per sortable or filterable register column.
-  for (const col of ["ref", "category", "board_id", "assignee_id", "due_on", "effort_hours", "cost_estimate", "created_at", "updated_at", "safety_critical", "blocks_energisation", "section_id"])
+  for (const col of [
+    "ref",
+    "category",
+    "board_id",
+    "assignee_id",
+    "due_on",
+    "effort_hours",
+    "cost_estimate",
+    "created_at",
+    "updated_at",
+    "safety_critical",
+    "blocks_energisation",
+    "section_id",
+  ])
     await idx(`defects_site_${col}_idx`, "defects", ["site_id", col]);
   await sql`CREATE INDEX defects_site_title_lower_idx ON defects (site_id, lower(title))`.execute(db);
   // Severity and status sort by their order on the scale, not alphabetically.
-  await sql`CREATE INDEX defects_site_severity_rank_idx ON defects (site_id, (array_position(ARRAY['cosmetic','degraded','impaired','disabling']::text[], severity)))`.execute(db);
-  await sql`CREATE INDEX defects_site_status_rank_idx ON defects (site_id, (array_position(ARRAY['open','triaged','in_repair','awaiting_verification','closed','deferred','wont_fix']::text[], status)))`.execute(db);
+  await sql`CREATE INDEX defects_site_severity_rank_idx ON defects (site_id, (array_position(ARRAY['cosmetic','degraded','impaired','disabling']::text[], severity)))`.execute(
+    db,
+  );
+  await sql`CREATE INDEX defects_site_status_rank_idx ON defects (site_id, (array_position(ARRAY['open','triaged','in_repair','awaiting_verification','closed','deferred','wont_fix']::text[], status)))`.execute(
+    db,
+  );
   await sql`CREATE INDEX defects_site_rank_idx ON defects (site_id, priority_score DESC, created_at, id)`.execute(db);
-  await sql`CREATE INDEX defects_search_trgm_idx ON defects USING gin ((title || ' ' || description) gin_trgm_ops)`.execute(db);
+  await sql`CREATE INDEX defects_search_trgm_idx ON defects USING gin ((title || ' ' || description) gin_trgm_ops)`.execute(
+    db,
+  );
   await sql`CREATE INDEX positions_designation_trgm_idx ON positions USING gin (designation gin_trgm_ops)`.execute(db);
 }
 

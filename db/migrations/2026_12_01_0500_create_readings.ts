@@ -11,8 +11,10 @@ const LAMP = ["bright", "dim", "dark"];
 
 export async function up(db: Kysely<any>): Promise<void> {
   const id = (t: any) => t.addColumn("id", "uuid", (c: any) => c.primaryKey().defaultTo(sql`gen_random_uuid()`));
-  const site = (t: any) => t.addColumn("site_id", "uuid", (c: any) => c.notNull().references("sites.id").onDelete("cascade"));
-  const board = (t: any) => t.addColumn("board_id", "uuid", (c: any) => c.notNull().references("boards.id").onDelete("cascade"));
+  const site = (t: any) =>
+    t.addColumn("site_id", "uuid", (c: any) => c.notNull().references("sites.id").onDelete("cascade"));
+  const board = (t: any) =>
+    t.addColumn("board_id", "uuid", (c: any) => c.notNull().references("boards.id").onDelete("cascade"));
   const common = (t: any) =>
     t
       .addColumn("measured_at", "timestamptz", (c: any) => c.notNull())
@@ -69,12 +71,32 @@ export async function up(db: Kysely<any>): Promise<void> {
   await db.schema
     .createTable("reading_criteria")
     .addColumn("site_id", "uuid", (c: any) => c.primaryKey().references("sites.id").onDelete("cascade"))
-    .addColumn("correction_method", "text", (c: any) => c.notNull().defaultTo("neta_20c").check(sql`correction_method IN ('ieee43_40c', 'neta_20c')`))
-    .addColumn("insulation_medium", "text", (c: any) => c.notNull().defaultTo("solid").check(sql`insulation_medium IN ('solid', 'oil')`))
-    .addColumn("thermal_class", "text", (c: any) => c.notNull().defaultTo("B").check(sql`thermal_class IN ('A', 'B', 'F', 'H')`))
+    .addColumn("correction_method", "text", (c: any) =>
+      c
+        .notNull()
+        .defaultTo("neta_20c")
+        .check(sql`correction_method IN ('ieee43_40c', 'neta_20c')`),
+    )
+    .addColumn("insulation_medium", "text", (c: any) =>
+      c
+        .notNull()
+        .defaultTo("solid")
+        .check(sql`insulation_medium IN ('solid', 'oil')`),
+    )
+    .addColumn("thermal_class", "text", (c: any) =>
+      c
+        .notNull()
+        .defaultTo("B")
+        .check(sql`thermal_class IN ('A', 'B', 'F', 'H')`),
+    )
     .addColumn("minimum_megohms", "double precision", (c: any) => c.check(sql`minimum_megohms > 0`))
     .addColumn("minimum_source", "text", (c: any) => c.notNull().defaultTo(""))
-    .addColumn("contact_outlier_percent", "double precision", (c: any) => c.notNull().defaultTo(50).check(sql`contact_outlier_percent > 0`))
+    .addColumn("contact_outlier_percent", "double precision", (c: any) =>
+      c
+        .notNull()
+        .defaultTo(50)
+        .check(sql`contact_outlier_percent > 0`),
+    )
     .addColumn("version", "integer", (c: any) => c.notNull().defaultTo(1))
     .addColumn("updated_by", "uuid", (c: any) => c.references("users.id").onDelete("set null"))
     .addColumn("updated_at", "timestamptz", (c: any) => c.notNull().defaultTo(sql`now()`))
@@ -90,13 +112,15 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn("updated_at", "timestamptz", (c: any) => c.notNull().defaultTo(sql`now()`))
     .execute();
 
-  const idx = async (name: string, table: string, cols: string[]) => db.schema.createIndex(name).on(table).columns(cols).execute();
+  const idx = async (name: string, table: string, cols: string[]) =>
+    db.schema.createIndex(name).on(table).columns(cols).execute();
   for (const t of ["insulation_readings", "contact_readings", "thermal_scans", "ground_lamp_checks"]) {
     await idx(`${t}_board_idx`, t, ["board_id", "measured_at"]);
     await idx(`${t}_site_idx`, t, ["site_id", "measured_at"]);
     await idx(`${t}_recorded_by_idx`, t, ["recorded_by"]);
   }
-  for (const t of ["insulation_readings", "contact_readings", "thermal_scans"]) await idx(`${t}_component_idx`, t, ["component_id", "measured_at"]);
+  for (const t of ["insulation_readings", "contact_readings", "thermal_scans"])
+    await idx(`${t}_component_idx`, t, ["component_id", "measured_at"]);
   await idx("insulation_readings_circuit_idx", "insulation_readings", ["board_id", "circuit", "measured_at"]);
   await idx("thermal_scans_photo_idx", "thermal_scans", ["photo_id"]);
   await idx("reading_criteria_updated_by_idx", "reading_criteria", ["updated_by"]);
@@ -105,6 +129,13 @@ export async function up(db: Kysely<any>): Promise<void> {
 }
 
 export async function down(db: Kysely<any>): Promise<void> {
-  for (const t of ["component_reading_overrides", "reading_criteria", "ground_lamp_checks", "thermal_scans", "contact_readings", "insulation_readings"])
+  for (const t of [
+    "component_reading_overrides",
+    "reading_criteria",
+    "ground_lamp_checks",
+    "thermal_scans",
+    "contact_readings",
+    "insulation_readings",
+  ])
     await db.schema.dropTable(t).execute();
 }

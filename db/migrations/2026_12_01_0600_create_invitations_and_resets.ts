@@ -17,13 +17,20 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn("accepted_at", "timestamptz")
     .addColumn("accepted_by", "uuid", (c) => c.references("users.id").onDelete("set null"))
     .addColumn("revoked_at", "timestamptz")
-    .addColumn("send_status", "text", (c) => c.notNull().defaultTo("pending").check(sql`send_status IN ('pending', 'sent', 'failed')`))
+    .addColumn("send_status", "text", (c) =>
+      c
+        .notNull()
+        .defaultTo("pending")
+        .check(sql`send_status IN ('pending', 'sent', 'failed')`),
+    )
     .addColumn("send_error", "text")
     .addColumn("last_sent_at", "timestamptz")
     .addColumn("created_at", "timestamptz", (c) => c.notNull().defaultTo(sql`now()`))
     .execute();
   // One live invitation per address and site; accepted and revoked ones stay as history.
-  await sql`CREATE UNIQUE INDEX invitations_live_uq ON invitations (site_id, lower(email)) WHERE accepted_at IS NULL AND revoked_at IS NULL`.execute(db);
+  await sql`CREATE UNIQUE INDEX invitations_live_uq ON invitations (site_id, lower(email)) WHERE accepted_at IS NULL AND revoked_at IS NULL`.execute(
+    db,
+  );
   await db.schema.createIndex("invitations_site_idx").on("invitations").columns(["site_id", "created_at"]).execute();
   await db.schema.createIndex("invitations_invited_by_idx").on("invitations").column("invited_by").execute();
   await db.schema.createIndex("invitations_accepted_by_idx").on("invitations").column("accepted_by").execute();
@@ -37,12 +44,18 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn("used_at", "timestamptz")
     .addColumn("created_at", "timestamptz", (c) => c.notNull().defaultTo(sql`now()`))
     .execute();
-  await db.schema.createIndex("password_resets_user_idx").on("password_resets").columns(["user_id", "created_at"]).execute();
+  await db.schema
+    .createIndex("password_resets_user_idx")
+    .on("password_resets")
+    .columns(["user_id", "created_at"])
+    .execute();
 
   await db.schema
     .createTable("notification_prefs")
     .addColumn("user_id", "uuid", (c) => c.notNull().references("users.id").onDelete("cascade"))
-    .addColumn("key", "text", (c) => c.notNull().check(sql`key IN ('defect_assigned', 'awaiting_verification', 'weekly_summary')`))
+    .addColumn("key", "text", (c) =>
+      c.notNull().check(sql`key IN ('defect_assigned', 'awaiting_verification', 'weekly_summary')`),
+    )
     .addColumn("enabled", "boolean", (c) => c.notNull())
     .addColumn("updated_at", "timestamptz", (c) => c.notNull().defaultTo(sql`now()`))
     .addPrimaryKeyConstraint("notification_prefs_pk", ["user_id", "key"])

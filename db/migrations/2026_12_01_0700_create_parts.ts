@@ -5,7 +5,20 @@ import { Kysely, sql } from "kysely";
 // public share links. Frozen in time: never import app code here.
 
 const list = (values: readonly string[]) => sql.raw(values.map((v) => `'${v}'`).join(", "));
-const KINDS = ["molded_case_breaker", "power_breaker", "meter", "ground_lamp", "fuse", "switch", "bus_tie", "busbar", "transformer", "relay", "terminal_strip", "other"];
+const KINDS = [
+  "molded_case_breaker",
+  "power_breaker",
+  "meter",
+  "ground_lamp",
+  "fuse",
+  "switch",
+  "bus_tie",
+  "busbar",
+  "transformer",
+  "relay",
+  "terminal_strip",
+  "other",
+];
 const STATUSES = ["wanted", "lead_found", "acquired", "received", "fitted", "cancelled"];
 const RULES = ["original_only", "period_ok", "modern_ok"];
 const LEAD_KINDS = ["donor", "dealer", "collector", "salvage", "other"];
@@ -13,14 +26,16 @@ const LEAD_STATUSES = ["open", "chasing", "secured", "dead"];
 
 export async function up(db: Kysely<any>): Promise<void> {
   const id = (t: any) => t.addColumn("id", "uuid", (c: any) => c.primaryKey().defaultTo(sql`gen_random_uuid()`));
-  const site = (t: any) => t.addColumn("site_id", "uuid", (c: any) => c.notNull().references("sites.id").onDelete("cascade"));
+  const site = (t: any) =>
+    t.addColumn("site_id", "uuid", (c: any) => c.notNull().references("sites.id").onDelete("cascade"));
   const stamps = (t: any) =>
     t
       .addColumn("version", "integer", (c: any) => c.notNull().defaultTo(1))
       .addColumn("created_at", "timestamptz", (c: any) => c.notNull().defaultTo(sql`now()`))
       .addColumn("updated_at", "timestamptz", (c: any) => c.notNull().defaultTo(sql`now()`));
   const text = (name: string) => (t: any) => t.addColumn(name, "text", (c: any) => c.notNull().defaultTo(""));
-  const user = (name: string) => (t: any) => t.addColumn(name, "uuid", (c: any) => c.references("users.id").onDelete("set null"));
+  const user = (name: string) => (t: any) =>
+    t.addColumn(name, "uuid", (c: any) => c.references("users.id").onDelete("set null"));
 
   let lines = stamps(site(id(db.schema.createTable("part_lines"))))
     .addColumn("origin", "text", (c: any) => c.notNull().check(sql`origin IN ('register', 'manual')`))
@@ -32,10 +47,25 @@ export async function up(db: Kysely<any>): Promise<void> {
   await user("created_by")(lines)
     .addColumn("must_match", sql`text[]`)
     .addColumn("spec_key", "text", (c: any) => c.notNull())
-    .addColumn("heritage_rule", "text", (c: any) => c.notNull().defaultTo("original_only").check(sql`heritage_rule IN (${list(RULES)})`))
-    .addColumn("status", "text", (c: any) => c.notNull().defaultTo("wanted").check(sql`status IN (${list(STATUSES)})`))
+    .addColumn("heritage_rule", "text", (c: any) =>
+      c
+        .notNull()
+        .defaultTo("original_only")
+        .check(sql`heritage_rule IN (${list(RULES)})`),
+    )
+    .addColumn("status", "text", (c: any) =>
+      c
+        .notNull()
+        .defaultTo("wanted")
+        .check(sql`status IN (${list(STATUSES)})`),
+    )
     .addColumn("auto_cancelled", "boolean", (c: any) => c.notNull().defaultTo(false))
-    .addColumn("manual_qty", "integer", (c: any) => c.notNull().defaultTo(0).check(sql`manual_qty >= 0`))
+    .addColumn("manual_qty", "integer", (c: any) =>
+      c
+        .notNull()
+        .defaultTo(0)
+        .check(sql`manual_qty >= 0`),
+    )
     .addColumn("estimated_unit_cost", "numeric", (c: any) => c.check(sql`estimated_unit_cost >= 0`))
     .addColumn("fitted_at", "timestamptz")
     .execute();
@@ -46,7 +76,12 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn("defect_id", "uuid", (c: any) => c.references("defects.id").onDelete("cascade"))
     .addColumn("position_id", "uuid", (c: any) => c.references("positions.id").onDelete("set null"))
     .addColumn("board_id", "uuid", (c: any) => c.references("boards.id").onDelete("set null"))
-    .addColumn("qty", "integer", (c: any) => c.notNull().defaultTo(1).check(sql`qty >= 0`))
+    .addColumn("qty", "integer", (c: any) =>
+      c
+        .notNull()
+        .defaultTo(1)
+        .check(sql`qty >= 0`),
+    )
     .addColumn("active", "boolean", (c: any) => c.notNull().defaultTo(true))
     .addColumn("fitted", "boolean", (c: any) => c.notNull().defaultTo(false))
     .addColumn("created_at", "timestamptz", (c: any) => c.notNull().defaultTo(sql`now()`))
@@ -57,13 +92,23 @@ export async function up(db: Kysely<any>): Promise<void> {
 
   let leads = stamps(site(id(db.schema.createTable("part_leads"))))
     .addColumn("line_id", "uuid", (c: any) => c.notNull().references("part_lines.id").onDelete("cascade"))
-    .addColumn("source_kind", "text", (c: any) => c.notNull().defaultTo("other").check(sql`source_kind IN (${list(LEAD_KINDS)})`))
+    .addColumn("source_kind", "text", (c: any) =>
+      c
+        .notNull()
+        .defaultTo("other")
+        .check(sql`source_kind IN (${list(LEAD_KINDS)})`),
+    )
     .addColumn("source", "text", (c: any) => c.notNull());
   for (const col of ["contact", "notes"]) leads = text(col)(leads);
   await user("created_by")(leads)
     .addColumn("asking_price", "numeric", (c: any) => c.check(sql`asking_price >= 0`))
     .addColumn("qty_offered", "integer", (c: any) => c.check(sql`qty_offered >= 1`))
-    .addColumn("status", "text", (c: any) => c.notNull().defaultTo("open").check(sql`status IN (${list(LEAD_STATUSES)})`))
+    .addColumn("status", "text", (c: any) =>
+      c
+        .notNull()
+        .defaultTo("open")
+        .check(sql`status IN (${list(LEAD_STATUSES)})`),
+    )
     .execute();
 
   await user("recorded_by")(text("notes")(site(id(db.schema.createTable("part_acquisitions")))))
@@ -90,7 +135,8 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn("revoked_at", "timestamptz")
     .execute();
 
-  const idx = async (name: string, table: string, cols: string[]) => db.schema.createIndex(name).on(table).columns(cols).execute();
+  const idx = async (name: string, table: string, cols: string[]) =>
+    db.schema.createIndex(name).on(table).columns(cols).execute();
   await idx("part_lines_site_status_idx", "part_lines", ["site_id", "status"]);
   await idx("part_lines_site_key_idx", "part_lines", ["site_id", "spec_key"]);
   await idx("part_lines_site_kind_idx", "part_lines", ["site_id", "kind"]);
@@ -99,13 +145,22 @@ export async function up(db: Kysely<any>): Promise<void> {
   for (const col of ["line_id", "component_id", "defect_id", "position_id", "board_id", "site_id"])
     await idx(`part_demand_links_${col}_idx`, "part_demand_links", [col]);
   for (const col of ["line_id", "site_id", "created_by"]) await idx(`part_leads_${col}_idx`, "part_leads", [col]);
-  for (const col of ["line_id", "lead_id", "site_id", "recorded_by"]) await idx(`part_acquisitions_${col}_idx`, "part_acquisitions", [col]);
+  for (const col of ["line_id", "lead_id", "site_id", "recorded_by"])
+    await idx(`part_acquisitions_${col}_idx`, "part_acquisitions", [col]);
   await idx("part_line_history_line_idx", "part_line_history", ["line_id", "at"]);
   for (const col of ["site_id", "actor_id"]) await idx(`part_line_history_${col}_idx`, "part_line_history", [col]);
-  for (const col of ["site_id", "created_by", "revoked_by"]) await idx(`part_share_links_${col}_idx`, "part_share_links", [col]);
+  for (const col of ["site_id", "created_by", "revoked_by"])
+    await idx(`part_share_links_${col}_idx`, "part_share_links", [col]);
 }
 
 export async function down(db: Kysely<any>): Promise<void> {
-  for (const t of ["part_share_links", "part_line_history", "part_acquisitions", "part_leads", "part_demand_links", "part_lines"])
+  for (const t of [
+    "part_share_links",
+    "part_line_history",
+    "part_acquisitions",
+    "part_leads",
+    "part_demand_links",
+    "part_lines",
+  ])
     await db.schema.dropTable(t).execute();
 }

@@ -21,8 +21,12 @@ export async function up(db: Kysely<any>): Promise<void> {
            jsonb_build_object('ref', old_ref), jsonb_build_object('ref', new_ref)
     FROM ${renumbered} r WHERE old_ref <> new_ref`.execute(db);
   await sql`ALTER TABLE defects ALTER COLUMN ref DROP IDENTITY IF EXISTS`.execute(db);
-  await sql`UPDATE defects d SET ref = r.new_ref FROM ${renumbered} r WHERE d.id = r.id AND d.ref <> r.new_ref`.execute(db);
-  await sql`INSERT INTO defect_ref_counters (site_id, last_ref) SELECT site_id, max(ref) FROM defects GROUP BY site_id`.execute(db);
+  await sql`UPDATE defects d SET ref = r.new_ref FROM ${renumbered} r WHERE d.id = r.id AND d.ref <> r.new_ref`.execute(
+    db,
+  );
+  await sql`INSERT INTO defect_ref_counters (site_id, last_ref) SELECT site_id, max(ref) FROM defects GROUP BY site_id`.execute(
+    db,
+  );
   await sql`CREATE UNIQUE INDEX defects_site_ref_uq ON defects (site_id, ref)`.execute(db);
 
   await sql`CREATE FUNCTION defects_next_ref() RETURNS trigger LANGUAGE plpgsql AS $$
@@ -38,7 +42,9 @@ export async function up(db: Kysely<any>): Promise<void> {
       RETURN NEW;
     END
   $$`.execute(db);
-  await sql`CREATE TRIGGER defects_next_ref BEFORE INSERT ON defects FOR EACH ROW EXECUTE FUNCTION defects_next_ref()`.execute(db);
+  await sql`CREATE TRIGGER defects_next_ref BEFORE INSERT ON defects FOR EACH ROW EXECUTE FUNCTION defects_next_ref()`.execute(
+    db,
+  );
 }
 
 export async function down(db: Kysely<any>): Promise<void> {

@@ -24,14 +24,22 @@ export async function up(db: Kysely<any>): Promise<void> {
   for (const c of clashes.rows) {
     // One new row per moved position, at column 1, below everything on the board; a grid
     // has at most 60 rows (boards' check), so a crowded board keeps the newest rows.
-    const { rows } = await sql<{ r: number }>`SELECT greatest(b.grid_rows, coalesce(max(p.grid_row + p.row_span - 1), 0)) + 1 AS r
-      FROM boards b LEFT JOIN positions p ON p.board_id = b.id WHERE b.id = ${c.boardId} GROUP BY b.grid_rows`.execute(db);
+    const { rows } = await sql<{
+      r: number;
+    }>`SELECT greatest(b.grid_rows, coalesce(max(p.grid_row + p.row_span - 1), 0)) + 1 AS r
+      FROM boards b LEFT JOIN positions p ON p.board_id = b.id WHERE b.id = ${c.boardId} GROUP BY b.grid_rows`.execute(
+      db,
+    );
     const row = Math.min(rows[0].r, 60);
-    await sql`UPDATE positions SET grid_row = ${row}, grid_col = 1, row_span = 1, col_span = 1, updated_at = now(), version = version + 1 WHERE id = ${c.id}`.execute(db);
+    await sql`UPDATE positions SET grid_row = ${row}, grid_col = 1, row_span = 1, col_span = 1, updated_at = now(), version = version + 1 WHERE id = ${c.id}`.execute(
+      db,
+    );
     await sql`UPDATE boards SET grid_rows = greatest(grid_rows, ${row}) WHERE id = ${c.boardId}`.execute(db);
     await sql`INSERT INTO audit_log (site_id, entity_type, entity_id, board_id, position_id, action, actor_id, before, after)
       VALUES (${c.siteId}, 'position', ${c.id}, ${c.boardId}, ${c.id}, 'moved_off_shared_cell', NULL,
-              ${JSON.stringify({ gridRow: c.gridRow, gridCol: c.gridCol })}::jsonb, ${JSON.stringify({ gridRow: row, gridCol: 1 })}::jsonb)`.execute(db);
+              ${JSON.stringify({ gridRow: c.gridRow, gridCol: c.gridCol })}::jsonb, ${JSON.stringify({ gridRow: row, gridCol: 1 })}::jsonb)`.execute(
+      db,
+    );
   }
 
   await sql`ALTER TABLE positions ADD CONSTRAINT positions_one_per_cell EXCLUDE USING gist (

@@ -9,15 +9,29 @@ const list = (values: readonly string[]) => sql.raw(values.map((v) => `'${v}'`).
 const SUPPLY = ["temporary_fused", "external", "normal"];
 const VOLTAGE_STEP = ["reduced", "full"];
 const STAGE_STATUS = ["planned", "energised", "stopped", "de_energised", "released"];
-const STEP_KIND = ["isolate", "insulation", "defects", "protection", "clearance", "energise", "ground_lamps", "thermal", "watch", "release", "custom"];
+const STEP_KIND = [
+  "isolate",
+  "insulation",
+  "defects",
+  "protection",
+  "clearance",
+  "energise",
+  "ground_lamps",
+  "thermal",
+  "watch",
+  "release",
+  "custom",
+];
 const SIGNOFF_KIND = ["signed", "released", "struck"];
 const LAMPS = ["equal", "one_dim", "one_dark", "not_seen"];
 const INCIDENT = ["protection_operated", "dark_lamp", "hot_spot", "low_insulation", "other"];
 
 export async function up(db: Kysely<any>): Promise<void> {
   const id = (t: any) => t.addColumn("id", "uuid", (c: any) => c.primaryKey().defaultTo(sql`gen_random_uuid()`));
-  const site = (t: any) => t.addColumn("site_id", "uuid", (c: any) => c.notNull().references("sites.id").onDelete("cascade"));
-  const user = (name: string) => (t: any) => t.addColumn(name, "uuid", (c: any) => c.references("users.id").onDelete("set null"));
+  const site = (t: any) =>
+    t.addColumn("site_id", "uuid", (c: any) => c.notNull().references("sites.id").onDelete("cascade"));
+  const user = (name: string) => (t: any) =>
+    t.addColumn(name, "uuid", (c: any) => c.references("users.id").onDelete("set null"));
   const stamps = (t: any) =>
     t
       .addColumn("version", "integer", (c: any) => c.notNull().defaultTo(1))
@@ -33,7 +47,12 @@ export async function up(db: Kysely<any>): Promise<void> {
 
   await user("updated_by")(db.schema.createTable("rts_settings"))
     .addColumn("site_id", "uuid", (c: any) => c.primaryKey().references("sites.id").onDelete("cascade"))
-    .addColumn("insulation_max_age_days", "integer", (c: any) => c.notNull().defaultTo(7).check(sql`insulation_max_age_days BETWEEN 1 AND 365`))
+    .addColumn("insulation_max_age_days", "integer", (c: any) =>
+      c
+        .notNull()
+        .defaultTo(7)
+        .check(sql`insulation_max_age_days BETWEEN 1 AND 365`),
+    )
     .addColumn("template", "jsonb", (c: any) => c.notNull())
     .addColumn("version", "integer", (c: any) => c.notNull().defaultTo(1))
     .addColumn("updated_at", "timestamptz", (c: any) => c.notNull().defaultTo(sql`now()`))
@@ -50,9 +69,24 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn("voltage_step", "text", (c: any) => c.notNull().check(sql`voltage_step IN (${list(VOLTAGE_STEP)})`))
     .addColumn("step_volts", "double precision", (c: any) => c.check(sql`step_volts > 0`))
     .addColumn("depends_on_id", "uuid", (c: any) => c.references("rts_stages.id").onDelete("set null"))
-    .addColumn("watch_hours", "double precision", (c: any) => c.notNull().defaultTo(24).check(sql`watch_hours >= 0`))
-    .addColumn("check_every_hours", "double precision", (c: any) => c.notNull().defaultTo(4).check(sql`check_every_hours > 0`))
-    .addColumn("status", "text", (c: any) => c.notNull().defaultTo("planned").check(sql`status IN (${list(STAGE_STATUS)})`))
+    .addColumn("watch_hours", "double precision", (c: any) =>
+      c
+        .notNull()
+        .defaultTo(24)
+        .check(sql`watch_hours >= 0`),
+    )
+    .addColumn("check_every_hours", "double precision", (c: any) =>
+      c
+        .notNull()
+        .defaultTo(4)
+        .check(sql`check_every_hours > 0`),
+    )
+    .addColumn("status", "text", (c: any) =>
+      c
+        .notNull()
+        .defaultTo("planned")
+        .check(sql`status IN (${list(STAGE_STATUS)})`),
+    )
     .addColumn("attempt", "integer", (c: any) => c.notNull().defaultTo(1))
     .addColumn("energised_at", "timestamptz")
     .addColumn("released_at", "timestamptz")
@@ -90,7 +124,9 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn("evidence", "jsonb", (c: any) => c.notNull().defaultTo(sql`'[]'::jsonb`))
     .addColumn("supersedes_id", "uuid", (c: any) => c.unique().references("rts_signoffs.id").onDelete("cascade"))
     .execute();
-  await sql`CREATE UNIQUE INDEX rts_signoffs_first_uq ON rts_signoffs (step_id, attempt) WHERE supersedes_id IS NULL`.execute(db);
+  await sql`CREATE UNIQUE INDEX rts_signoffs_first_uq ON rts_signoffs (step_id, attempt) WHERE supersedes_id IS NULL`.execute(
+    db,
+  );
   await sql`CREATE FUNCTION rts_signoffs_immutable() RETURNS trigger LANGUAGE plpgsql AS $$
     BEGIN
       -- The one change allowed: a deleted account's id set to null (its name stays in signer_name).
@@ -100,7 +136,9 @@ export async function up(db: Kysely<any>): Promise<void> {
       END IF;
       RAISE EXCEPTION 'rts_signoffs rows cannot be changed; add a superseding entry' USING ERRCODE = 'check_violation';
     END $$`.execute(db);
-  await sql`CREATE TRIGGER rts_signoffs_no_update BEFORE UPDATE ON rts_signoffs FOR EACH ROW EXECUTE FUNCTION rts_signoffs_immutable()`.execute(db);
+  await sql`CREATE TRIGGER rts_signoffs_no_update BEFORE UPDATE ON rts_signoffs FOR EACH ROW EXECUTE FUNCTION rts_signoffs_immutable()`.execute(
+    db,
+  );
 
   await user("recorded_by")(site(id(db.schema.createTable("rts_energisations"))))
     .addColumn("board_id", "uuid", (c: any) => c.notNull().references("boards.id").onDelete("cascade"))
@@ -186,7 +224,8 @@ export async function up(db: Kysely<any>): Promise<void> {
       END IF;
     END $$`.execute(db);
 
-  const idx = async (name: string, table: string, cols: string[]) => db.schema.createIndex(name).on(table).columns(cols).execute();
+  const idx = async (name: string, table: string, cols: string[]) =>
+    db.schema.createIndex(name).on(table).columns(cols).execute();
   await idx("rts_qualified_persons_user_idx", "rts_qualified_persons", ["user_id"]);
   await idx("rts_qualified_persons_updated_by_idx", "rts_qualified_persons", ["updated_by"]);
   await idx("rts_settings_updated_by_idx", "rts_settings", ["updated_by"]);
@@ -229,8 +268,18 @@ export async function up(db: Kysely<any>): Promise<void> {
 
 export async function down(db: Kysely<any>): Promise<void> {
   for (const t of [
-    "rts_overdue_notices", "rts_operation_budgets", "rts_breaker_operations", "rts_incidents", "rts_watch_checks",
-    "rts_energisations", "rts_signoffs", "rts_steps", "rts_stage_items", "rts_stages", "rts_settings", "rts_qualified_persons",
+    "rts_overdue_notices",
+    "rts_operation_budgets",
+    "rts_breaker_operations",
+    "rts_incidents",
+    "rts_watch_checks",
+    "rts_energisations",
+    "rts_signoffs",
+    "rts_steps",
+    "rts_stage_items",
+    "rts_stages",
+    "rts_settings",
+    "rts_qualified_persons",
   ])
     await db.schema.dropTable(t).execute();
   await sql`DROP FUNCTION IF EXISTS rts_signoffs_immutable()`.execute(db);

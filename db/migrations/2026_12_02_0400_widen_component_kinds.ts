@@ -6,8 +6,20 @@ import { Kysely, sql } from "kysely";
 // Frozen in time: no app imports.
 
 const KINDS = [
-  "molded_case_breaker", "power_breaker", "meter", "ground_lamp", "fuse", "switch", "bus_tie", "busbar",
-  "transformer", "relay", "terminal_strip", "other", "electronic_trip_unit", "enclosed_switch",
+  "molded_case_breaker",
+  "power_breaker",
+  "meter",
+  "ground_lamp",
+  "fuse",
+  "switch",
+  "bus_tie",
+  "busbar",
+  "transformer",
+  "relay",
+  "terminal_strip",
+  "other",
+  "electronic_trip_unit",
+  "enclosed_switch",
 ];
 const OLD = KINDS.slice(0, 12);
 const TABLES = ["positions", "components", "part_lines"];
@@ -16,11 +28,16 @@ async function setKinds(db: Kysely<any>, kinds: string[]) {
   for (const table of TABLES) {
     const found = await sql<{ conname: string }>`
       SELECT c.conname FROM pg_constraint c JOIN pg_class t ON t.oid = c.conrelid
-      WHERE t.relname = ${table} AND c.contype = 'c' AND pg_get_constraintdef(c.oid) LIKE '%molded_case_breaker%'`.execute(db);
+      WHERE t.relname = ${table} AND c.contype = 'c' AND pg_get_constraintdef(c.oid) LIKE '%molded_case_breaker%'`.execute(
+      db,
+    );
     if (found.rows.length === 0) continue; // table absent on this branch's schema
-    for (const r of found.rows) await sql`ALTER TABLE ${sql.table(table)} DROP CONSTRAINT ${sql.ref(r.conname)}`.execute(db);
+    for (const r of found.rows)
+      await sql`ALTER TABLE ${sql.table(table)} DROP CONSTRAINT ${sql.ref(r.conname)}`.execute(db);
     const list = sql.raw(kinds.map((k) => `'${k}'`).join(", "));
-    await sql`ALTER TABLE ${sql.table(table)} ADD CONSTRAINT ${sql.ref(`${table}_kind_check`)} CHECK (kind IN (${list}))`.execute(db);
+    await sql`ALTER TABLE ${sql.table(table)} ADD CONSTRAINT ${sql.ref(`${table}_kind_check`)} CHECK (kind IN (${list}))`.execute(
+      db,
+    );
   }
 }
 
@@ -29,6 +46,9 @@ export async function up(db: Kysely<any>): Promise<void> {
 }
 
 export async function down(db: Kysely<any>): Promise<void> {
-  for (const table of TABLES) await sql`UPDATE ${sql.table(table)} SET kind = 'other' WHERE kind IN ('electronic_trip_unit', 'enclosed_switch')`.execute(db).catch(() => undefined);
+  for (const table of TABLES)
+    await sql`UPDATE ${sql.table(table)} SET kind = 'other' WHERE kind IN ('electronic_trip_unit', 'enclosed_switch')`
+      .execute(db)
+      .catch(() => undefined);
   await setKinds(db, OLD);
 }

@@ -10,12 +10,28 @@ const LAMP = "IN ('bright', 'dim', 'dark')";
 
 export async function up(db: Kysely<any>): Promise<void> {
   await sql`ALTER TABLE insulation_readings DROP CONSTRAINT IF EXISTS insulation_readings_megohms_check`.execute(db);
-  await sql`ALTER TABLE insulation_readings ADD CONSTRAINT insulation_readings_megohms_check CHECK (megohms >= 0)`.execute(db);
+  await sql`ALTER TABLE insulation_readings ADD CONSTRAINT insulation_readings_megohms_check CHECK (megohms >= 0)`.execute(
+    db,
+  );
   for (const col of ["megohms_qualifier", "r30s_qualifier", "r1min_qualifier", "r10min_qualifier"]) {
-    await db.schema.alterTable("insulation_readings").addColumn(col, "text", (c) => c.check(sql.raw(`${col} ${QUALIFIER}`))).execute();
+    await db.schema
+      .alterTable("insulation_readings")
+      .addColumn(col, "text", (c) => c.check(sql.raw(`${col} ${QUALIFIER}`)))
+      .execute();
   }
-  await db.schema.alterTable("reading_criteria").addColumn("dew_point_margin_k", "double precision", (c) => c.notNull().defaultTo(3).check(sql`dew_point_margin_k BETWEEN 0 AND 20`)).execute();
-  await db.schema.alterTable("ground_lamp_checks").addColumn("capacitance_micro_f", "double precision", (c) => c.check(sql`capacitance_micro_f >= 0`)).execute();
+  await db.schema
+    .alterTable("reading_criteria")
+    .addColumn("dew_point_margin_k", "double precision", (c) =>
+      c
+        .notNull()
+        .defaultTo(3)
+        .check(sql`dew_point_margin_k BETWEEN 0 AND 20`),
+    )
+    .execute();
+  await db.schema
+    .alterTable("ground_lamp_checks")
+    .addColumn("capacitance_micro_f", "double precision", (c) => c.check(sql`capacitance_micro_f >= 0`))
+    .execute();
 
   const id = (b: any) => b.addColumn("id", "uuid", (c: any) => c.primaryKey().defaultTo(sql`gen_random_uuid()`));
   const common = (b: any) =>
@@ -54,7 +70,10 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn("step_volts", sql`integer[]`, (c: any) => c.notNull())
     .addColumn("step_megohms", sql`double precision[]`, (c: any) => c.notNull())
     .addCheckConstraint("step_voltage_tests_target_ck", sql`component_id IS NOT NULL OR circuit <> ''`)
-    .addCheckConstraint("step_voltage_tests_steps_ck", sql`cardinality(step_volts) = cardinality(step_megohms) AND cardinality(step_volts) >= 2`)
+    .addCheckConstraint(
+      "step_voltage_tests_steps_ck",
+      sql`cardinality(step_volts) = cardinality(step_megohms) AND cardinality(step_volts) >= 2`,
+    )
     .execute();
 
   await common(id(db.schema.createTable("ground_hunt_steps")))
@@ -67,7 +86,8 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn("lamp_c", "text", (c: any) => c.notNull().check(sql.raw(`lamp_c ${LAMP}`)))
     .execute();
 
-  const idx = async (name: string, table: string, cols: string[]) => db.schema.createIndex(name).on(table).columns(cols).execute();
+  const idx = async (name: string, table: string, cols: string[]) =>
+    db.schema.createIndex(name).on(table).columns(cols).execute();
   for (const table of ["trip_tests", "step_voltage_tests", "ground_hunt_steps"]) {
     await idx(`${table}_board_idx`, table, ["board_id", "measured_at"]);
     await idx(`${table}_site_idx`, table, ["site_id", "measured_at"]);
@@ -79,11 +99,15 @@ export async function up(db: Kysely<any>): Promise<void> {
 }
 
 export async function down(db: Kysely<any>): Promise<void> {
-  for (const table of ["ground_hunt_steps", "step_voltage_tests", "trip_tests"]) await db.schema.dropTable(table).execute();
+  for (const table of ["ground_hunt_steps", "step_voltage_tests", "trip_tests"])
+    await db.schema.dropTable(table).execute();
   await db.schema.alterTable("ground_lamp_checks").dropColumn("capacitance_micro_f").execute();
   await db.schema.alterTable("reading_criteria").dropColumn("dew_point_margin_k").execute();
-  for (const col of ["megohms_qualifier", "r30s_qualifier", "r1min_qualifier", "r10min_qualifier"]) await db.schema.alterTable("insulation_readings").dropColumn(col).execute();
+  for (const col of ["megohms_qualifier", "r30s_qualifier", "r1min_qualifier", "r10min_qualifier"])
+    await db.schema.alterTable("insulation_readings").dropColumn(col).execute();
   await sql`DELETE FROM insulation_readings WHERE megohms = 0`.execute(db);
   await sql`ALTER TABLE insulation_readings DROP CONSTRAINT IF EXISTS insulation_readings_megohms_check`.execute(db);
-  await sql`ALTER TABLE insulation_readings ADD CONSTRAINT insulation_readings_megohms_check CHECK (megohms > 0)`.execute(db);
+  await sql`ALTER TABLE insulation_readings ADD CONSTRAINT insulation_readings_megohms_check CHECK (megohms > 0)`.execute(
+    db,
+  );
 }

@@ -25,8 +25,12 @@ async function rename(db: Kysely<any>, pairs: [string, string][], order: readonl
   await sql`UPDATE defects SET status = ${caseOf("status", pairs)}`.execute(db);
   await sql`ALTER TABLE defects ALTER COLUMN status SET DEFAULT ${sql.lit(order[0])}`.execute(db);
   await sql`ALTER TABLE defects ADD CONSTRAINT defects_status_check CHECK (status IN (${quoted(order)}))`.execute(db);
-  await sql`CREATE INDEX defects_site_status_rank_idx ON defects (site_id, (array_position(ARRAY[${quoted(order)}]::text[], status)))`.execute(db);
-  await sql`UPDATE defect_status_changes SET from_status = ${caseOf("from_status", pairs)}, to_status = ${caseOf("to_status", pairs)}`.execute(db);
+  await sql`CREATE INDEX defects_site_status_rank_idx ON defects (site_id, (array_position(ARRAY[${quoted(order)}]::text[], status)))`.execute(
+    db,
+  );
+  await sql`UPDATE defect_status_changes SET from_status = ${caseOf("from_status", pairs)}, to_status = ${caseOf("to_status", pairs)}`.execute(
+    db,
+  );
   for (const side of ["before", "after"]) {
     const col = `${side}->>'status'`;
     await sql`UPDATE audit_log SET ${sql.ref(side)} = jsonb_set(${sql.ref(side)}, '{status}', to_jsonb((${caseOf(col, pairs)})::text))
@@ -43,5 +47,9 @@ export async function up(db: Kysely<any>): Promise<void> {
 }
 
 export async function down(db: Kysely<any>): Promise<void> {
-  await rename(db, MAP.map(([a, b]) => [b, a]), ORDER_OLD);
+  await rename(
+    db,
+    MAP.map(([a, b]) => [b, a]),
+    ORDER_OLD,
+  );
 }

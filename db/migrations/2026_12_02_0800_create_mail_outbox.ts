@@ -13,7 +13,12 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn("subject", "text", (c) => c.notNull())
     .addColumn("text_body", "text", (c) => c.notNull())
     .addColumn("html_body", "text", (c) => c.notNull())
-    .addColumn("status", "text", (c) => c.notNull().defaultTo("queued").check(sql`status IN ('queued', 'retrying', 'sent', 'failed')`))
+    .addColumn("status", "text", (c) =>
+      c
+        .notNull()
+        .defaultTo("queued")
+        .check(sql`status IN ('queued', 'retrying', 'sent', 'failed')`),
+    )
     .addColumn("attempts", "integer", (c) => c.notNull().defaultTo(0))
     .addColumn("last_error", "text")
     .addColumn("ref_type", "text")
@@ -21,7 +26,11 @@ export async function up(db: Kysely<any>): Promise<void> {
     .addColumn("created_at", "timestamptz", (c) => c.notNull().defaultTo(sql`now()`))
     .addColumn("sent_at", "timestamptz")
     .execute();
-  await db.schema.createIndex("mail_outbox_ref_idx").on("mail_outbox").columns(["ref_type", "ref_id", "created_at"]).execute();
+  await db.schema
+    .createIndex("mail_outbox_ref_idx")
+    .on("mail_outbox")
+    .columns(["ref_type", "ref_id", "created_at"])
+    .execute();
   await db.schema.createIndex("mail_outbox_status_idx").on("mail_outbox").columns(["status", "created_at"]).execute();
 }
 

@@ -7,7 +7,12 @@ import { Kysely, sql } from "kysely";
 export async function up(db: Kysely<any>): Promise<void> {
   await db.schema
     .alterTable("photos")
-    .addColumn("rendition_state", "text", (c) => c.notNull().defaultTo("ready").check(sql`rendition_state IN ('processing', 'ready', 'failed')`))
+    .addColumn("rendition_state", "text", (c) =>
+      c
+        .notNull()
+        .defaultTo("ready")
+        .check(sql`rendition_state IN ('processing', 'ready', 'failed')`),
+    )
     .addColumn("rendition_error", "text")
     .execute();
   await sql`CREATE INDEX photos_processing_idx ON photos (site_id) WHERE rendition_state <> 'ready'`.execute(db);

@@ -14,7 +14,10 @@ type Db = Kysely<Database>;
 
 /** True when nobody has an account yet: the only time the demo is loaded. */
 export async function isEmpty(db: Db) {
-  const row = await db.selectFrom("users").select((eb) => eb.fn.countAll<number>().as("n")).executeTakeFirstOrThrow();
+  const row = await db
+    .selectFrom("users")
+    .select((eb) => eb.fn.countAll<number>().as("n"))
+    .executeTakeFirstOrThrow();
   return Number(row.n) === 0;
 }
 

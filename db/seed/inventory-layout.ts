@@ -50,17 +50,67 @@ export function seededRandom(seed: number) {
   };
 }
 
-const MAIN_SECTIONS = ["Instruments and control", "Generators and bus tie", "Power distribution", "Lighting distribution"];
-const POWER_FEEDS = ["Main circulating pump", "Fire pump", "Bilge pump No. 1", "Bilge pump No. 2", "Steering gear", "Windlass", "Fuel transfer pump", "Lube oil pump", "Engine-room fan supply", "Engine-room fan exhaust", "Air compressor", "Capstan", "Galley range", "Workshop lathe", "Sanitary pump", "Fresh-water pump", "Refrigeration", "Cargo winch", "Boat winch", "Spare"];
-const LIGHT_FEEDS = ["Engine-room lighting", "Accommodation lighting fwd", "Accommodation lighting aft", "Navigation lights", "Deck floodlights", "Wheelhouse", "Chart room", "Mess room", "Galley lighting", "Steering flat lighting", "Shaft tunnel lighting", "Searchlight", "Radio room", "Emergency lantern charger", "Spare"];
+const MAIN_SECTIONS = [
+  "Instruments and control",
+  "Generators and bus tie",
+  "Power distribution",
+  "Lighting distribution",
+];
+const POWER_FEEDS = [
+  "Main circulating pump",
+  "Fire pump",
+  "Bilge pump No. 1",
+  "Bilge pump No. 2",
+  "Steering gear",
+  "Windlass",
+  "Fuel transfer pump",
+  "Lube oil pump",
+  "Engine-room fan supply",
+  "Engine-room fan exhaust",
+  "Air compressor",
+  "Capstan",
+  "Galley range",
+  "Workshop lathe",
+  "Sanitary pump",
+  "Fresh-water pump",
+  "Refrigeration",
+  "Cargo winch",
+  "Boat winch",
+  "Spare",
+];
+const LIGHT_FEEDS = [
+  "Engine-room lighting",
+  "Accommodation lighting fwd",
+  "Accommodation lighting aft",
+  "Navigation lights",
+  "Deck floodlights",
+  "Wheelhouse",
+  "Chart room",
+  "Mess room",
+  "Galley lighting",
+  "Steering flat lighting",
+  "Shaft tunnel lighting",
+  "Searchlight",
+  "Radio room",
+  "Emergency lantern charger",
+  "Spare",
+];
 
 function mainBoard(): SeedPosition[] {
   const p: SeedPosition[] = [];
   const top = (designation: string, kind: ComponentKind, col: number, circuit: string, colSpan = 1) =>
     p.push({ designation, kind, row: 1, col, colSpan, circuit, section: MAIN_SECTIONS[0] });
-  ["Voltmeter, generator 1", "Ammeter, generator 1", "Kilowatt meter, generator 1", "Frequency meter"].forEach((c, i) => top(`M-${i + 1}`, "meter", i + 1, c));
+  ["Voltmeter, generator 1", "Ammeter, generator 1", "Kilowatt meter, generator 1", "Frequency meter"].forEach((c, i) =>
+    top(`M-${i + 1}`, "meter", i + 1, c),
+  );
   ["A", "B", "C"].forEach((ph, i) => top(`GL-${ph}`, "ground_lamp", 5 + i, `Ground-detection lamp, phase ${ph}`));
-  ["Voltmeter, generator 2", "Ammeter, generator 2", "Kilowatt meter, generator 2", "Synchroscope", "Bus voltmeter"].forEach((c, i) => top(`M-${i + 5}`, "meter", 8 + i, c));
+  [
+    "Voltmeter, generator 2",
+    "Ammeter, generator 2",
+    "Kilowatt meter, generator 2",
+    "Synchroscope",
+    "Bus voltmeter",
+  ].forEach((c, i) => top(`M-${i + 5}`, "meter", 8 + i, c));
   const r2 = (designation: string, kind: ComponentKind, col: number, circuit: string, colSpan = 1) =>
     p.push({ designation, kind, row: 2, col, colSpan, circuit, section: MAIN_SECTIONS[0] });
   r2("S-1", "switch", 1, "Voltmeter selector switch");
@@ -84,33 +134,135 @@ function mainBoard(): SeedPosition[] {
     const last = r === 10 ? 10 : 12;
     for (let c = 1; c <= last; c++) {
       const n = (r - 5) * 12 + c;
-      const kind: ComponentKind = r === 9 && c >= 11 ? "switch" : (r === 7 && c === 12) || (r === 10 && c === 10) ? "fuse" : "molded_case_breaker";
-      p.push({ designation: `${r - 4}-${c}`, kind, row: r, col: c, circuit: feeds[n % feeds.length], section: MAIN_SECTIONS[lighting ? 3 : 2] });
+      const kind: ComponentKind =
+        r === 9 && c >= 11
+          ? "switch"
+          : (r === 7 && c === 12) || (r === 10 && c === 10)
+            ? "fuse"
+            : "molded_case_breaker";
+      p.push({
+        designation: `${r - 4}-${c}`,
+        kind,
+        row: r,
+        col: c,
+        circuit: feeds[n % feeds.length],
+        section: MAIN_SECTIONS[lighting ? 3 : 2],
+      });
     }
   }
-  p.push({ designation: "TB-1", kind: "terminal_strip", row: 10, col: 11, colSpan: 2, circuit: "Outgoing cable terminals", section: MAIN_SECTIONS[3] });
+  p.push({
+    designation: "TB-1",
+    kind: "terminal_strip",
+    row: 10,
+    col: 11,
+    colSpan: 2,
+    circuit: "Outgoing cable terminals",
+    section: MAIN_SECTIONS[3],
+  });
   return p;
 }
 
 const EMERGENCY_SECTIONS = ["Emergency generator panel", "Emergency distribution"];
-const EMERGENCY_FEEDS = ["Emergency lighting, engine room", "Emergency lighting, alleyways", "Navigation lights (standby)", "Steering gear (standby)", "Fire pump (emergency)", "Radio", "General alarm", "Fire detection panel", "Whistle", "Emergency bilge pump", "Battery charger", "Spare"];
+const EMERGENCY_FEEDS = [
+  "Emergency lighting, engine room",
+  "Emergency lighting, alleyways",
+  "Navigation lights (standby)",
+  "Steering gear (standby)",
+  "Fire pump (emergency)",
+  "Radio",
+  "General alarm",
+  "Fire detection panel",
+  "Whistle",
+  "Emergency bilge pump",
+  "Battery charger",
+  "Spare",
+];
 
 function emergencyBoard(): SeedPosition[] {
   const p: SeedPosition[] = [];
   const s0 = EMERGENCY_SECTIONS[0];
-  p.push({ designation: "EM-1", kind: "meter", row: 1, col: 1, circuit: "Voltmeter, emergency generator", section: s0 });
+  p.push({
+    designation: "EM-1",
+    kind: "meter",
+    row: 1,
+    col: 1,
+    circuit: "Voltmeter, emergency generator",
+    section: s0,
+  });
   p.push({ designation: "EM-2", kind: "meter", row: 1, col: 2, circuit: "Ammeter, emergency generator", section: s0 });
-  ["A", "B", "C"].forEach((ph, i) => p.push({ designation: `EGL-${ph}`, kind: "ground_lamp", row: 1, col: 3 + i, circuit: `Ground-detection lamp, phase ${ph}`, section: s0 }));
+  ["A", "B", "C"].forEach((ph, i) =>
+    p.push({
+      designation: `EGL-${ph}`,
+      kind: "ground_lamp",
+      row: 1,
+      col: 3 + i,
+      circuit: `Ground-detection lamp, phase ${ph}`,
+      section: s0,
+    }),
+  );
   p.push({ designation: "EM-3", kind: "meter", row: 1, col: 6, circuit: "Frequency meter, emergency", section: s0 });
-  p.push({ designation: "EG", kind: "power_breaker", row: 2, col: 1, colSpan: 2, circuit: "Emergency generator breaker", section: s0 });
-  p.push({ designation: "ET-1", kind: "bus_tie", row: 2, col: 3, colSpan: 2, circuit: "Tie feeder from main switchboard", section: s0 });
-  p.push({ designation: "ET-X", kind: "transformer", row: 2, col: 5, colSpan: 2, circuit: "Lighting transformer 450/115 V", section: s0 });
+  p.push({
+    designation: "EG",
+    kind: "power_breaker",
+    row: 2,
+    col: 1,
+    colSpan: 2,
+    circuit: "Emergency generator breaker",
+    section: s0,
+  });
+  p.push({
+    designation: "ET-1",
+    kind: "bus_tie",
+    row: 2,
+    col: 3,
+    colSpan: 2,
+    circuit: "Tie feeder from main switchboard",
+    section: s0,
+  });
+  p.push({
+    designation: "ET-X",
+    kind: "transformer",
+    row: 2,
+    col: 5,
+    colSpan: 2,
+    circuit: "Lighting transformer 450/115 V",
+    section: s0,
+  });
   for (let r = 3; r <= 5; r++)
     for (let c = 1; c <= 6; c++)
-      p.push({ designation: `E${r - 2}-${c}`, kind: "molded_case_breaker", row: r, col: c, circuit: EMERGENCY_FEEDS[((r - 3) * 6 + c) % EMERGENCY_FEEDS.length], section: EMERGENCY_SECTIONS[1] });
-  for (let i = 1; i <= 4; i++) p.push({ designation: `EF-${i}`, kind: "fuse", row: 6, col: i, circuit: `Control fuse ${i}`, section: EMERGENCY_SECTIONS[1] });
-  p.push({ designation: "ER-1", kind: "relay", row: 6, col: 5, circuit: "Undervoltage relay, emergency changeover", section: EMERGENCY_SECTIONS[1] });
-  p.push({ designation: "ES-1", kind: "switch", row: 6, col: 6, circuit: "Changeover switch, main / emergency", section: EMERGENCY_SECTIONS[1] });
+      p.push({
+        designation: `E${r - 2}-${c}`,
+        kind: "molded_case_breaker",
+        row: r,
+        col: c,
+        circuit: EMERGENCY_FEEDS[((r - 3) * 6 + c) % EMERGENCY_FEEDS.length],
+        section: EMERGENCY_SECTIONS[1],
+      });
+  for (let i = 1; i <= 4; i++)
+    p.push({
+      designation: `EF-${i}`,
+      kind: "fuse",
+      row: 6,
+      col: i,
+      circuit: `Control fuse ${i}`,
+      section: EMERGENCY_SECTIONS[1],
+    });
+  p.push({
+    designation: "ER-1",
+    kind: "relay",
+    row: 6,
+    col: 5,
+    circuit: "Undervoltage relay, emergency changeover",
+    section: EMERGENCY_SECTIONS[1],
+  });
+  p.push({
+    designation: "ES-1",
+    kind: "switch",
+    row: 6,
+    col: 6,
+    circuit: "Changeover switch, main / emergency",
+    section: EMERGENCY_SECTIONS[1],
+  });
   return p;
 }
 
@@ -118,24 +270,45 @@ export const SEED_BOARDS: SeedBoard[] = [
   {
     name: "Main switchboard (engine room, aft)",
     location: "Engine room, aft bulkhead, starboard side",
-    nominalVolts: 450, yearBuilt: 1946, drawingRef: "KL-E-101 rev C (fictional yard drawing)",
-    faceHeightMm: 2100, waterLineMm: 1100, gridRows: 10, gridCols: 12,
-    notes: "Dead-front, 450 V three-phase 60 Hz, ungrounded with three ground-detection lamps. Harbour water reached 1.1 m on the face.",
-    sections: MAIN_SECTIONS, positions: mainBoard(),
+    nominalVolts: 450,
+    yearBuilt: 1946,
+    drawingRef: "KL-E-101 rev C (fictional yard drawing)",
+    faceHeightMm: 2100,
+    waterLineMm: 1100,
+    gridRows: 10,
+    gridCols: 12,
+    notes:
+      "Dead-front, 450 V three-phase 60 Hz, ungrounded with three ground-detection lamps. Harbour water reached 1.1 m on the face.",
+    sections: MAIN_SECTIONS,
+    positions: mainBoard(),
   },
   {
     name: "Emergency board (boat deck)",
     location: "Emergency generator room, boat deck",
-    nominalVolts: 450, yearBuilt: 1947, drawingRef: "KL-E-140 (fictional)",
-    faceHeightMm: 1500, waterLineMm: null, gridRows: 6, gridCols: 6,
+    nominalVolts: 450,
+    yearBuilt: 1947,
+    drawingRef: "KL-E-140 (fictional)",
+    faceHeightMm: 1500,
+    waterLineMm: null,
+    gridRows: 6,
+    gridCols: 6,
     notes: "Above the flood, but salt spray came in through the storm-damaged skylight.",
-    sections: EMERGENCY_SECTIONS, positions: emergencyBoard(),
+    sections: EMERGENCY_SECTIONS,
+    positions: emergencyBoard(),
   },
 ];
 
 export interface Nameplate {
-  maker: string; model: string; frame: string; ratingAmps: number | null; poles: number | null;
-  voltageRating: number | null; interruptingKa: number | null; year: number | null; meterRange: string; lampWatts: number | null;
+  maker: string;
+  model: string;
+  frame: string;
+  ratingAmps: number | null;
+  poles: number | null;
+  voltageRating: number | null;
+  interruptingKa: number | null;
+  year: number | null;
+  meterRange: string;
+  lampWatts: number | null;
 }
 
 const MAKERS: Record<Heritage, string[]> = {
@@ -143,31 +316,88 @@ const MAKERS: Record<Heritage, string[]> = {
   period: ["Ostrander Electric Mfg.", "Whitcombe Apparatus Co."],
   modern: ["Vantor Controls", "Kellsey Power Products"],
 };
-const YEARS: Record<Heritage, [number, number]> = { original: [1944, 1947], period: [1951, 1962], modern: [2003, 2019] };
+const YEARS: Record<Heritage, [number, number]> = {
+  original: [1944, 1947],
+  period: [1951, 1962],
+  modern: [2003, 2019],
+};
 
 /** An invented nameplate for a component of this kind and heritage. */
 export function nameplateFor(kind: ComponentKind, heritage: Heritage, rnd: ReturnType<typeof seededRandom>): Nameplate {
   const maker = rnd.pick(MAKERS[heritage]);
   const [y0, y1] = YEARS[heritage];
   const year = Math.round(rnd.between(y0, y1));
-  const base: Nameplate = { maker, model: "", frame: "", ratingAmps: null, poles: null, voltageRating: null, interruptingKa: null, year, meterRange: "", lampWatts: null };
+  const base: Nameplate = {
+    maker,
+    model: "",
+    frame: "",
+    ratingAmps: null,
+    poles: null,
+    voltageRating: null,
+    interruptingKa: null,
+    year,
+    meterRange: "",
+    lampWatts: null,
+  };
   switch (kind) {
     case "molded_case_breaker": {
       const amps = rnd.pick([15, 20, 30, 40, 50, 70, 100]);
-      return { ...base, model: heritage === "modern" ? "VX-125" : rnd.pick(["Type QF", "Type QFL"]), frame: amps > 50 ? "100 A frame" : "50 A frame", ratingAmps: amps, poles: 3, voltageRating: 500, interruptingKa: rnd.pick([5, 10, 15]) };
+      return {
+        ...base,
+        model: heritage === "modern" ? "VX-125" : rnd.pick(["Type QF", "Type QFL"]),
+        frame: amps > 50 ? "100 A frame" : "50 A frame",
+        ratingAmps: amps,
+        poles: 3,
+        voltageRating: 500,
+        interruptingKa: rnd.pick([5, 10, 15]),
+      };
     }
     case "power_breaker":
-      return { ...base, model: "Type NA air circuit breaker", frame: "1600 A frame", ratingAmps: rnd.pick([600, 800, 1200]), poles: 3, voltageRating: 600, interruptingKa: 25 };
+      return {
+        ...base,
+        model: "Type NA air circuit breaker",
+        frame: "1600 A frame",
+        ratingAmps: rnd.pick([600, 800, 1200]),
+        poles: 3,
+        voltageRating: 600,
+        interruptingKa: 25,
+      };
     case "bus_tie":
-      return { ...base, model: "Type NA tie breaker", frame: "1600 A frame", ratingAmps: 1200, poles: 3, voltageRating: 600, interruptingKa: 25 };
+      return {
+        ...base,
+        model: "Type NA tie breaker",
+        frame: "1600 A frame",
+        ratingAmps: 1200,
+        poles: 3,
+        voltageRating: 600,
+        interruptingKa: 25,
+      };
     case "busbar":
       return { ...base, model: "Copper bus, 2 × 50 × 6 mm per phase", ratingAmps: 1600, poles: 3, voltageRating: 600 };
     case "meter":
-      return { ...base, maker: heritage === "original" ? "Calloway Instrument Works" : maker, model: "Switchboard pattern, 6 in. dial", meterRange: rnd.pick(["0–600 V", "0–1500 A", "0–1000 kW", "55–65 Hz"]) };
+      return {
+        ...base,
+        maker: heritage === "original" ? "Calloway Instrument Works" : maker,
+        model: "Switchboard pattern, 6 in. dial",
+        meterRange: rnd.pick(["0–600 V", "0–1500 A", "0–1000 kW", "55–65 Hz"]),
+      };
     case "ground_lamp":
-      return { ...base, maker: heritage === "original" ? "Pennard Fuse & Lamp Co." : maker, model: "Lampholder with red lens", lampWatts: 25, voltageRating: 250 };
+      return {
+        ...base,
+        maker: heritage === "original" ? "Pennard Fuse & Lamp Co." : maker,
+        model: "Lampholder with red lens",
+        lampWatts: 25,
+        voltageRating: 250,
+      };
     case "fuse":
-      return { ...base, maker: heritage === "original" ? "Pennard Fuse & Lamp Co." : maker, model: "Cartridge fuse holder", ratingAmps: rnd.pick([2, 5, 10, 15]), poles: 1, voltageRating: 600 };
+      return {
+        ...base,
+        maker: heritage === "original" ? "Pennard Fuse & Lamp Co." : maker,
+        model: "Cartridge fuse holder",
+        ratingAmps: rnd.pick([2, 5, 10, 15]),
+        poles: 1,
+        voltageRating: 600,
+      };
     case "transformer":
       return { ...base, model: "Dry-type, air-cooled", ratingAmps: 10, voltageRating: 450, meterRange: "450/115 V" };
     case "relay":

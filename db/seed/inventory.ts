@@ -6,7 +6,14 @@
  */
 import { randomUUID } from "node:crypto";
 import type { Kysely, Insertable } from "kysely";
-import type { Database, InspectionsTable, CustodyMovesTable, DispositionDecisionsTable, AuditLogTable, ComponentsTable } from "../types";
+import type {
+  Database,
+  InspectionsTable,
+  CustodyMovesTable,
+  DispositionDecisionsTable,
+  AuditLogTable,
+  ComponentsTable,
+} from "../types";
 import type { SeedContext } from "./demo";
 import type { Contaminant, Custody, Disposition, Heritage, InsulationState, Mechanism } from "../../src/domain/vocab";
 import { astmD610Grade, iso4628RiGrade } from "../../src/domain/corrosion";
@@ -24,18 +31,32 @@ const ABOVE_RUST = [0, 0.01, 0.02, 0.05, 0.1, 0.2, 0.5, 1, 2];
 const MOVING_KINDS = new Set(["molded_case_breaker", "power_breaker", "bus_tie", "switch", "relay"]);
 const CHAIN: Custody[] = ["in_place", "removed", "in_workshop", "ready_to_refit", "refitted"];
 const LOCATION: Record<Custody, string> = {
-  in_place: "In its position", removed: "Bag rack A, engine-room flat", in_workshop: "Workshop bench 2",
-  ready_to_refit: "Refit shelf, engine-room flat", refitted: "In its position", scrapped: "Scrap bin (kept for parts)", missing: "Not found at the last check",
+  in_place: "In its position",
+  removed: "Bag rack A, engine-room flat",
+  in_workshop: "Workshop bench 2",
+  ready_to_refit: "Refit shelf, engine-room flat",
+  refitted: "In its position",
+  scrapped: "Scrap bin (kept for parts)",
+  missing: "Not found at the last check",
 };
 const OVERRIDE: Partial<Record<Disposition, { to: Disposition; reason: string }>> = {
-  source: { to: "rebuild", reason: "Original fabric: the restorer judges it sound enough to strip and rebuild rather than hunt for another." },
-  replace: { to: "rebuild", reason: "Keep the original pattern: rebuild under the qualified electrician, re-test before it goes back." },
+  source: {
+    to: "rebuild",
+    reason: "Original fabric: the restorer judges it sound enough to strip and rebuild rather than hunt for another.",
+  },
+  replace: {
+    to: "rebuild",
+    reason: "Keep the original pattern: rebuild under the qualified electrician, re-test before it goes back.",
+  },
   rebuild: { to: "replace", reason: "Moulding cracked behind the arc chute once opened; not worth rebuilding." },
   clean: { to: "rebuild", reason: "Salt crust found under the cover once opened: strip it down." },
 };
 
 /** On the board the water never reached, some parts were only splashed on the front. */
-const DRY_INSIDE = { to: "clean" as Disposition, reason: "Spray reached the front only; dry and clean inside when opened, so clean and re-test rather than strip." };
+const DRY_INSIDE = {
+  to: "clean" as Disposition,
+  reason: "Spray reached the front only; dry and clean inside when opened, so clean and re-test rather than strip.",
+};
 
 /** True when the bottom edge of the position sat below the flood's water line on the face. */
 function belowWaterLine(b: SeedBoard, p: SeedPosition) {
@@ -78,7 +99,8 @@ function custodyTarget(d: Disposition | null, rnd: Rnd, n: number): Custody {
   if (d === null) return rnd.chance(0.25) ? "removed" : "in_place";
   if (d === "replace") return rnd.pick<Custody>(["removed", "in_workshop", "scrapped", "scrapped"]);
   if (d === "source") return rnd.pick<Custody>(["removed", "in_workshop", "in_place"]);
-  if (d === "rebuild") return rnd.pick<Custody>(["removed", "in_workshop", "in_workshop", "ready_to_refit", "refitted"]);
+  if (d === "rebuild")
+    return rnd.pick<Custody>(["removed", "in_workshop", "in_workshop", "ready_to_refit", "refitted"]);
   return rnd.pick<Custody>(["in_place", "in_place", "refitted", "ready_to_refit"]);
 }
 
@@ -89,8 +111,21 @@ function custodyPath(target: Custody): Custody[] {
   return CHAIN.slice(1, CHAIN.indexOf(target) + 1);
 }
 
-interface Spot { board: SeedBoard; boardId: string; p: SeedPosition; positionId: string; componentId: string; below: boolean; heritage: Heritage }
-type Decided = { disposition: Disposition | null; recommended: Disposition | null; reason: string; decidedAt: Date | null };
+interface Spot {
+  board: SeedBoard;
+  boardId: string;
+  p: SeedPosition;
+  positionId: string;
+  componentId: string;
+  below: boolean;
+  heritage: Heritage;
+}
+type Decided = {
+  disposition: Disposition | null;
+  recommended: Disposition | null;
+  reason: string;
+  decidedAt: Date | null;
+};
 
 /** Collects every row of the survey in memory, then writes each table in one statement. */
 class SurveyBuilder {
@@ -103,27 +138,66 @@ class SurveyBuilder {
   private tag = 401;
   private overrides = 0;
   private dryOverrides = 0;
-  constructor(private siteId: string, private rnd: Rnd, private volunteer: string, private curator: string) {}
+  constructor(
+    private siteId: string,
+    private rnd: Rnd,
+    private volunteer: string,
+    private curator: string,
+  ) {}
 
-  log(s: { boardId: string; positionId: string | null } | null, entityType: string, entityId: string, action: string, actorId: string, at: Date, before: unknown, after: unknown) {
-    this.audit.push({ siteId: this.siteId, entityType, entityId, boardId: s?.boardId ?? null, positionId: s?.positionId ?? null, action, actorId, at, before: before === null ? null : JSON.stringify(before), after: JSON.stringify(after) });
+  log(
+    s: { boardId: string; positionId: string | null } | null,
+    entityType: string,
+    entityId: string,
+    action: string,
+    actorId: string,
+    at: Date,
+    before: unknown,
+    after: unknown,
+  ) {
+    this.audit.push({
+      siteId: this.siteId,
+      entityType,
+      entityId,
+      boardId: s?.boardId ?? null,
+      positionId: s?.positionId ?? null,
+      action,
+      actorId,
+      at,
+      before: before === null ? null : JSON.stringify(before),
+      after: JSON.stringify(after),
+    });
   }
 
   add(s: Spot) {
     this.n++;
-    this.log(s, "position", s.positionId, "create", this.curator, day(3), null, { designation: s.p.designation, kind: s.p.kind });
+    this.log(s, "position", s.positionId, "create", this.curator, day(3), null, {
+      designation: s.p.designation,
+      kind: s.p.kind,
+    });
     const latest = this.inspect(s);
     const decided = this.decide(s, latest);
     const path = custodyPath(custodyTarget(decided.disposition, this.rnd, this.n));
     const custody = this.walk(s, path, decided.decidedAt ?? (latest?.inspectedAt as Date | undefined) ?? day(6));
     const tagged = path.length > 0 || this.rnd.chance(0.2);
     this.components.push({
-      id: s.componentId, siteId: this.siteId, positionId: s.positionId, kind: s.p.kind, ...nameplateFor(s.p.kind, s.heritage, this.rnd), heritage: s.heritage,
+      id: s.componentId,
+      siteId: this.siteId,
+      positionId: s.positionId,
+      kind: s.p.kind,
+      ...nameplateFor(s.p.kind, s.heritage, this.rnd),
+      heritage: s.heritage,
       serial: `${s.p.kind === "meter" ? "CIW" : "HB"}-${(4600 + this.n * 37) % 99999}`,
       tagNumber: tagged ? `KL-${String(this.tag++).padStart(4, "0")}` : null,
-      custody, custodyLocation: LOCATION[custody], disposition: decided.disposition, dispositionRecommended: decided.recommended,
-      dispositionOverridden: decided.disposition !== null && decided.disposition !== decided.recommended, dispositionReason: decided.reason,
-      dispositionBy: decided.disposition ? this.curator : null, dispositionAt: decided.decidedAt, version: 1 + path.length + (decided.disposition ? 1 : 0),
+      custody,
+      custodyLocation: LOCATION[custody],
+      disposition: decided.disposition,
+      dispositionRecommended: decided.recommended,
+      dispositionOverridden: decided.disposition !== null && decided.disposition !== decided.recommended,
+      dispositionReason: decided.reason,
+      dispositionBy: decided.disposition ? this.curator : null,
+      dispositionAt: decided.decidedAt,
+      version: 1 + path.length + (decided.disposition ? 1 : 0),
     });
   }
 
@@ -134,15 +208,38 @@ class SurveyBuilder {
     let latest: Insertable<InspectionsTable> | null = null;
     for (let k = 0; k < count; k++) {
       const pct = s.p.kind === "busbar" || rnd.chance(0.05) ? null : rnd.pick(s.below ? BELOW_RUST : ABOVE_RUST);
-      const at = k === 0 ? day(5 + Math.floor(rnd.between(0, 18)), 9 + (n % 8)) : day(27 + Math.floor(rnd.between(0, 16)), 9 + (n % 8));
+      const at =
+        k === 0
+          ? day(5 + Math.floor(rnd.between(0, 18)), 9 + (n % 8))
+          : day(27 + Math.floor(rnd.between(0, 16)), 9 + (n % 8));
       latest = {
-        id: randomUUID(), siteId: this.siteId, componentId: s.componentId, positionId: s.positionId, inspectorId: rnd.chance(0.75) ? this.volunteer : this.curator,
-        inspectedAt: at, createdAt: at, percentRusted: pct, astmGrade: pct === null ? null : astmD610Grade(pct), isoRi: pct === null ? null : iso4628RiGrade(pct),
-        belowWaterLine: s.below, contaminants: contaminants(s.below, rnd), insulation: insulation(s.below, rnd), mechanism: mechanism(s.p.kind, rnd),
-        notes: k === 1 ? "Re-inspected after the first wash-down." : s.below ? "Tide mark across the face; silt behind the escutcheon." : "",
+        id: randomUUID(),
+        siteId: this.siteId,
+        componentId: s.componentId,
+        positionId: s.positionId,
+        inspectorId: rnd.chance(0.75) ? this.volunteer : this.curator,
+        inspectedAt: at,
+        createdAt: at,
+        percentRusted: pct,
+        astmGrade: pct === null ? null : astmD610Grade(pct),
+        isoRi: pct === null ? null : iso4628RiGrade(pct),
+        belowWaterLine: s.below,
+        contaminants: contaminants(s.below, rnd),
+        insulation: insulation(s.below, rnd),
+        mechanism: mechanism(s.p.kind, rnd),
+        notes:
+          k === 1
+            ? "Re-inspected after the first wash-down."
+            : s.below
+              ? "Tide mark across the face; silt behind the escutcheon."
+              : "",
       };
       this.inspections.push(latest);
-      this.log(s, "inspection", latest.id!, "inspect", latest.inspectorId!, at, null, { percentRusted: pct, astmGrade: latest.astmGrade, isoRi: latest.isoRi });
+      this.log(s, "inspection", latest.id!, "inspect", latest.inspectorId!, at, null, {
+        percentRusted: pct,
+        astmGrade: latest.astmGrade,
+        isoRi: latest.isoRi,
+      });
     }
     return latest;
   }
@@ -151,9 +248,15 @@ class SurveyBuilder {
   private decide(s: Spot, latest: Insertable<InspectionsTable> | null): Decided {
     if (!latest || !this.rnd.chance(0.65)) return { disposition: null, recommended: null, reason: "", decidedAt: null };
     const recommended = recommendDisposition({
-      kind: s.p.kind, waterType: FLOOD.waterType, belowWaterLine: s.below, hoursSubmerged: s.below ? FLOOD.hoursSubmerged : undefined,
-      contaminants: latest.contaminants as Contaminant[], insulation: latest.insulation ?? undefined, mechanism: latest.mechanism ?? undefined,
-      percentRusted: latest.percentRusted ?? undefined, heritage: s.heritage,
+      kind: s.p.kind,
+      waterType: FLOOD.waterType,
+      belowWaterLine: s.below,
+      hoursSubmerged: s.below ? FLOOD.hoursSubmerged : undefined,
+      contaminants: latest.contaminants as Contaminant[],
+      insulation: latest.insulation ?? undefined,
+      mechanism: latest.mechanism ?? undefined,
+      percentRusted: latest.percentRusted ?? undefined,
+      heritage: s.heritage,
     }).disposition;
     let disposition = recommended;
     let reason = "";
@@ -167,8 +270,26 @@ class SurveyBuilder {
     }
     const decidedAt = new Date((latest.inspectedAt as Date).getTime() + 86_400_000);
     const overridden = disposition !== recommended;
-    this.decisions.push({ siteId: this.siteId, componentId: s.componentId, disposition, recommended, overridden, reason, decidedBy: this.curator, decidedAt });
-    this.log(s, "component", s.componentId, "disposition", this.curator, decidedAt, { disposition: null }, { disposition, recommended, dispositionOverridden: overridden, dispositionReason: reason });
+    this.decisions.push({
+      siteId: this.siteId,
+      componentId: s.componentId,
+      disposition,
+      recommended,
+      overridden,
+      reason,
+      decidedBy: this.curator,
+      decidedAt,
+    });
+    this.log(
+      s,
+      "component",
+      s.componentId,
+      "disposition",
+      this.curator,
+      decidedAt,
+      { disposition: null },
+      { disposition, recommended, dispositionOverridden: overridden, dispositionReason: reason },
+    );
     return { disposition, recommended, reason, decidedAt };
   }
 
@@ -179,8 +300,26 @@ class SurveyBuilder {
     for (const to of path) {
       movedAt = new Date(movedAt.getTime() + 36 * 3_600_000);
       const by = to === "scrapped" ? this.curator : this.volunteer;
-      this.moves.push({ siteId: this.siteId, componentId: s.componentId, fromState: from, toState: to, location: LOCATION[to], note: to === "removed" ? "Tagged and bagged with its screws." : "", movedBy: by, movedAt });
-      this.log(s, "component", s.componentId, "custody", by, movedAt, { custody: from }, { custody: to, custodyLocation: LOCATION[to] });
+      this.moves.push({
+        siteId: this.siteId,
+        componentId: s.componentId,
+        fromState: from,
+        toState: to,
+        location: LOCATION[to],
+        note: to === "removed" ? "Tagged and bagged with its screws." : "",
+        movedBy: by,
+        movedAt,
+      });
+      this.log(
+        s,
+        "component",
+        s.componentId,
+        "custody",
+        by,
+        movedAt,
+        { custody: from },
+        { custody: to, custodyLocation: LOCATION[to] },
+      );
       from = to;
     }
     return from;
@@ -191,18 +330,40 @@ class SurveyBuilder {
     if (this.inspections.length) await db.insertInto("inspections").values(this.inspections).execute();
     if (this.moves.length) await db.insertInto("custodyMoves").values(this.moves).execute();
     if (this.decisions.length) await db.insertInto("dispositionDecisions").values(this.decisions).execute();
-    for (let i = 0; i < this.audit.length; i += 1000) await db.insertInto("auditLog").values(this.audit.slice(i, i + 1000)).execute();
+    for (let i = 0; i < this.audit.length; i += 1000)
+      await db
+        .insertInto("auditLog")
+        .values(this.audit.slice(i, i + 1000))
+        .execute();
   }
 }
 
 async function insertBoard(db: Db, siteId: string, b: SeedBoard) {
   const { sections: sectionNames, positions: layout, ...boardFields } = b;
-  const board = await db.insertInto("boards").values({ siteId, ...boardFields, phases: 3, frequencyHz: 60, earthing: "ungrounded" }).returning("id").executeTakeFirstOrThrow();
-  const sections = await db.insertInto("sections").values(sectionNames.map((name, i) => ({ siteId, boardId: board.id, name, sortOrder: i }))).returning(["id", "name"]).execute();
+  const board = await db
+    .insertInto("boards")
+    .values({ siteId, ...boardFields, phases: 3, frequencyHz: 60, earthing: "ungrounded" })
+    .returning("id")
+    .executeTakeFirstOrThrow();
+  const sections = await db
+    .insertInto("sections")
+    .values(sectionNames.map((name, i) => ({ siteId, boardId: board.id, name, sortOrder: i })))
+    .returning(["id", "name"])
+    .execute();
   const sectionId = new Map(sections.map((s) => [s.name, s.id]));
   const positions = layout.map((p, i) => ({
-    id: randomUUID(), siteId, boardId: board.id, sectionId: sectionId.get(p.section) ?? null, designation: p.designation, kind: p.kind,
-    gridRow: p.row, gridCol: p.col, rowSpan: p.rowSpan ?? 1, colSpan: p.colSpan ?? 1, circuit: p.circuit, sortOrder: i,
+    id: randomUUID(),
+    siteId,
+    boardId: board.id,
+    sectionId: sectionId.get(p.section) ?? null,
+    designation: p.designation,
+    kind: p.kind,
+    gridRow: p.row,
+    gridCol: p.col,
+    rowSpan: p.rowSpan ?? 1,
+    colSpan: p.colSpan ?? 1,
+    circuit: p.circuit,
+    sortOrder: i,
   }));
   await db.insertInto("positions").values(positions).execute();
   return { boardId: board.id, positionIds: positions.map((p) => p.id) };
@@ -213,14 +374,27 @@ export async function seedInventory(db: Db, ctx: SeedContext) {
   const { siteId } = ctx;
   const curator = ctx.people["curator@tideline.test"];
   const survey = new SurveyBuilder(siteId, rnd, ctx.people["volunteer@tideline.test"], curator);
-  const notes = "Harbour water over the engine-room plates while laid up; pumped out after about 30 hours (invented scenario).";
-  const flood = await db.insertInto("floodEvents").values({ siteId, ...FLOOD, notes }).returning("id").executeTakeFirstOrThrow();
+  const notes =
+    "Harbour water over the engine-room plates while laid up; pumped out after about 30 hours (invented scenario).";
+  const flood = await db
+    .insertInto("floodEvents")
+    .values({ siteId, ...FLOOD, notes })
+    .returning("id")
+    .executeTakeFirstOrThrow();
   survey.log(null, "flood_event", flood.id, "create", curator, day(2), null, FLOOD);
   for (const board of SEED_BOARDS) {
     const { boardId, positionIds } = await insertBoard(db, siteId, board);
     survey.log({ boardId, positionId: null }, "board", boardId, "create", curator, day(2), null, { name: board.name });
     board.positions.forEach((p, i) =>
-      survey.add({ board, boardId, p, positionId: positionIds[i], componentId: randomUUID(), below: belowWaterLine(board, p), heritage: heritageOf(p, rnd) }),
+      survey.add({
+        board,
+        boardId,
+        p,
+        positionId: positionIds[i],
+        componentId: randomUUID(),
+        below: belowWaterLine(board, p),
+        heritage: heritageOf(p, rnd),
+      }),
     );
   }
   await survey.flush(db);

@@ -15,19 +15,32 @@ import { photoKey, storageFromEnv, type PhotoStorage } from "../../server/photos
 import type { SeedContext } from "./demo";
 
 const SHOTS: Array<{ board: string; designation: string; kind: PhotoKind; caption: string; day: number }> = [
-  { board: "Main", designation: "1-1", kind: "as_found", caption: "Front as found: silt line across the escutcheon (drawing)", day: 3 },
+  {
+    board: "Main",
+    designation: "1-1",
+    kind: "as_found",
+    caption: "Front as found: silt line across the escutcheon (drawing)",
+    day: 3,
+  },
   { board: "Main", designation: "1-1", kind: "nameplate", caption: "Nameplate (drawing)", day: 3 },
   { board: "Main", designation: "1-1", kind: "after_work", caption: "Front after cleaning (drawing)", day: 12 },
   { board: "Main", designation: "1-2", kind: "as_found", caption: "Front as found (drawing)", day: 3 },
   { board: "Main", designation: "1-3", kind: "damage", caption: "Corroded terminal lug, line side (drawing)", day: 4 },
-  { board: "Emergency", designation: "EG", kind: "as_found", caption: "Emergency generator breaker as found (drawing)", day: 5 },
+  {
+    board: "Emergency",
+    designation: "EG",
+    kind: "as_found",
+    caption: "Emergency generator breaker as found (drawing)",
+    day: 5,
+  },
 ];
 
 const esc = (s: string) => s.replace(/[&<>"]/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;" })[c]!);
 
 /** A breaker face drawn in SVG; the silt line is drawn for as-found, not for after-work. */
 function drawing(designation: string, kind: PhotoKind) {
-  const silt = kind === "after_work" ? "" : `<rect x="0" y="430" width="1200" height="470" fill="#6b5a3a" opacity="0.55"/>`;
+  const silt =
+    kind === "after_work" ? "" : `<rect x="0" y="430" width="1200" height="470" fill="#6b5a3a" opacity="0.55"/>`;
   const rust = kind === "damage" ? `<circle cx="600" cy="610" r="90" fill="#8a3b12" opacity="0.8"/>` : "";
   return Buffer.from(`<svg xmlns="http://www.w3.org/2000/svg" width="1200" height="900" viewBox="0 0 1200 900">
     <rect width="1200" height="900" fill="#2b3238"/>
@@ -55,13 +68,34 @@ export async function seedPhotos(db: Kysely<Database>, ctx: SeedContext, storage
     const jpeg = await sharp(drawing(shot.designation, shot.kind)).jpeg({ quality: 85 }).toBuffer();
     const img = await processImage(jpeg, `${shot.designation}-${shot.kind}.jpg`);
     const id = randomUUID();
-    const keys = { originalKey: photoKey(ctx.siteId, id, "original", img.ext), displayKey: photoKey(ctx.siteId, id, "display", "jpg"), thumbKey: photoKey(ctx.siteId, id, "thumb", "jpg") };
+    const keys = {
+      originalKey: photoKey(ctx.siteId, id, "original", img.ext),
+      displayKey: photoKey(ctx.siteId, id, "display", "jpg"),
+      thumbKey: photoKey(ctx.siteId, id, "thumb", "jpg"),
+    };
     const at = new Date(Date.UTC(2026, 10, shot.day, 10, 0, 0));
-    await db.insertInto("photos").values({
-      id, siteId: ctx.siteId, boardId: pos.boardId, positionId: pos.id, kind: shot.kind, caption: shot.caption,
-      originalName: `${shot.designation}-${shot.kind}-drawing.jpg`, format: img.format, width: img.width, height: img.height,
-      bytes: jpeg.length, capturedAt: at, cameraModel: "", uploadedBy: photographer, createdAt: at, updatedAt: at, ...keys,
-    }).execute();
+    await db
+      .insertInto("photos")
+      .values({
+        id,
+        siteId: ctx.siteId,
+        boardId: pos.boardId,
+        positionId: pos.id,
+        kind: shot.kind,
+        caption: shot.caption,
+        originalName: `${shot.designation}-${shot.kind}-drawing.jpg`,
+        format: img.format,
+        width: img.width,
+        height: img.height,
+        bytes: jpeg.length,
+        capturedAt: at,
+        cameraModel: "",
+        uploadedBy: photographer,
+        createdAt: at,
+        updatedAt: at,
+        ...keys,
+      })
+      .execute();
     await storage.put(keys.originalKey, jpeg, img.mime);
     await storage.put(keys.displayKey, img.display, "image/jpeg");
     await storage.put(keys.thumbKey, img.thumb, "image/jpeg");

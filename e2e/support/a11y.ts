@@ -8,6 +8,12 @@ import { expect, type Page } from "@playwright/test";
 export async function expectNoSeriousA11yViolations(page: Page, context = "page") {
   const result = await new AxeBuilder({ page }).withTags(["wcag2a", "wcag2aa"]).analyze();
   const bad = result.violations.filter((v) => v.impact === "serious" || v.impact === "critical");
-  const summary = bad.map((v) => `${v.impact}: ${v.id} — ${v.help} (${v.nodes.map((n) => n.target.join(" ")).slice(0, 3).join("; ")})`);
+  const summary = bad.map(
+    (v) =>
+      `${v.impact}: ${v.id} — ${v.help} (${v.nodes
+        .map((n) => n.target.join(" "))
+        .slice(0, 3)
+        .join("; ")})`,
+  );
   expect(summary, `accessibility violations on ${context}`).toEqual([]);
 }

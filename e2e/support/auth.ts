@@ -4,7 +4,10 @@ export const DEMO_PASSWORD = "tideline-demo";
 export const DEMO_SITE = "MV Kestrel Lantern";
 
 /** Signs in through the real form, as a person would. */
-export async function signIn(page: Page, role: "admin" | "curator" | "volunteer" | "photographer" | "scrounger" | "viewer") {
+export async function signIn(
+  page: Page,
+  role: "admin" | "curator" | "volunteer" | "photographer" | "scrounger" | "viewer",
+) {
   await page.goto("/sign-in");
   await page.getByLabel("E-mail").fill(`${role}@tideline.test`);
   await page.getByLabel("Password").fill(DEMO_PASSWORD);

@@ -15,12 +15,15 @@ type Message = { to: string; subject: string; text: string; html: string | null 
 export async function waitForMail(api: APIRequestContext, to: string, subject: RegExp): Promise<Message> {
   let found: Message | undefined;
   await expect
-    .poll(async () => {
-      const r = await api.get("/api/admin/mailbox");
-      const { messages } = (await r.json()) as { messages: Message[] };
-      found = messages.find((m) => m.to.includes(to) && subject.test(m.subject));
-      return !!found;
-    }, { timeout: 10_000 })
+    .poll(
+      async () => {
+        const r = await api.get("/api/admin/mailbox");
+        const { messages } = (await r.json()) as { messages: Message[] };
+        found = messages.find((m) => m.to.includes(to) && subject.test(m.subject));
+        return !!found;
+      },
+      { timeout: 10_000 },
+    )
     .toBe(true);
   return found!;
 }

@@ -8,7 +8,11 @@ import type { MailDeps } from "../mail/mailer";
 import { sendOrQueue } from "../mail/outbox";
 import { findUserByEmail } from "./repository";
 
-export async function sendSignInLockedAlert(deps: MailDeps, email: string, p: { failures: number; lockMinutes: number }) {
+export async function sendSignInLockedAlert(
+  deps: MailDeps,
+  email: string,
+  p: { failures: number; lockMinutes: number },
+) {
   const user = await findUserByEmail(deps.db, email);
   if (!user) return { sent: false as const, reason: "unknown_address" };
   const msg = compose({

@@ -30,7 +30,10 @@ export function kyselyAdapter(db: Db): Adapter {
         .where("sessions.id", "=", sessionKey(sessionId))
         .executeTakeFirst();
       if (!row) return [null, null];
-      return [toSession({ ...row, id: sessionId }), toUser({ id: row.userId, email: row.email, name: row.name, isAdmin: row.isAdmin })];
+      return [
+        toSession({ ...row, id: sessionId }),
+        toUser({ id: row.userId, email: row.email, name: row.name, isAdmin: row.isAdmin }),
+      ];
     },
     /** The ids here are the stored hashes: enough to count and expire sessions, useless as cookies. */
     async getUserSessions(userId) {
@@ -38,7 +41,10 @@ export function kyselyAdapter(db: Db): Adapter {
       return rows.map(toSession);
     },
     async setSession(s) {
-      await db.insertInto("sessions").values({ id: sessionKey(s.id), userId: s.userId, expiresAt: s.expiresAt }).execute();
+      await db
+        .insertInto("sessions")
+        .values({ id: sessionKey(s.id), userId: s.userId, expiresAt: s.expiresAt })
+        .execute();
     },
     async updateSessionExpiration(sessionId, expiresAt) {
       await db.updateTable("sessions").set({ expiresAt }).where("id", "=", sessionKey(sessionId)).execute();

@@ -1,7 +1,12 @@
 import { hash, verify } from "@node-rs/argon2";
 
 // OWASP Password Storage Cheat Sheet, minimum for argon2id: m=19 MiB, t=2, p=1.
-const OPTIONS = { algorithm: 2 /* Algorithm.Argon2id (a const enum) */, memoryCost: 19456, timeCost: 2, parallelism: 1 } as const;
+const OPTIONS = {
+  algorithm: 2 /* Algorithm.Argon2id (a const enum) */,
+  memoryCost: 19456,
+  timeCost: 2,
+  parallelism: 1,
+} as const;
 
 export const hashPassword = (password: string) => hash(password, OPTIONS);
 

@@ -31,7 +31,10 @@ export function authRoutes(db: Db, lucia: AppLucia, opts: { mail: MailDeps; limi
     const user = await findUserByEmail(db, email);
     const ok = await verifyPassword(user?.passwordHash ?? null, password);
     if (!user || !ok) {
-      const [failures] = await Promise.all([countFailure(limiters.signInAccount, acct), countFailure(limiters.signInAddress, ip)]);
+      const [failures] = await Promise.all([
+        countFailure(limiters.signInAccount, acct),
+        countFailure(limiters.signInAddress, ip),
+      ]);
       if (failures === LIMITS.signInAccount.points) {
         const lockMinutes = LIMITS.signInAccount.duration / 60;
         inBackground("sign-in lock e-mail", () => sendSignInLockedAlert(opts.mail, acct, { failures, lockMinutes }));
@@ -40,7 +43,13 @@ export function authRoutes(db: Db, lucia: AppLucia, opts: { mail: MailDeps; limi
     }
     await limiters.signInAccount.delete(acct);
     const session = await lucia.createSession(user.id, {});
-    await recordAudit(db, { siteId: null, entityType: "user", entityId: user.id, action: "signed_in", actorId: user.id });
+    await recordAudit(db, {
+      siteId: null,
+      entityType: "user",
+      entityId: user.id,
+      action: "signed_in",
+      actorId: user.id,
+    });
     setCookie(res, lucia.createSessionCookie(session.id));
     res.json({ user: { id: user.id, email: user.email, name: user.name, isAdmin: user.isAdmin } });
   });

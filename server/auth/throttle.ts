@@ -10,7 +10,12 @@
  * - password reset: 5 requests per e-mail address and 20 per IP in 1 h;
  * - invitations: 40 sent (new or resent) per curator in 1 h; 20 accept attempts per IP in 15 min.
  */
-import { RateLimiterMemory, RateLimiterPostgres, RateLimiterRes, type RateLimiterAbstract } from "rate-limiter-flexible";
+import {
+  RateLimiterMemory,
+  RateLimiterPostgres,
+  RateLimiterRes,
+  type RateLimiterAbstract,
+} from "rate-limiter-flexible";
 import { poolOf, type Db } from "../db";
 import { AppError } from "../errors";
 
@@ -37,7 +42,14 @@ function limiter(db: Db, spec: LimitSpec): RateLimiterAbstract {
   const pool = poolOf(db);
   const insurance = new RateLimiterMemory(spec);
   if (!pool) return insurance;
-  return new RateLimiterPostgres({ ...spec, storeClient: pool, storeType: "pool", tableName: "rate_limits", tableCreated: true, insuranceLimiter: insurance });
+  return new RateLimiterPostgres({
+    ...spec,
+    storeClient: pool,
+    storeType: "pool",
+    tableName: "rate_limits",
+    tableCreated: true,
+    insuranceLimiter: insurance,
+  });
 }
 
 export function createLimiters(db: Db): Limiters {
@@ -49,9 +61,16 @@ const minutes = (ms: number) => Math.max(1, Math.ceil(ms / 60_000));
 /** 429 with Retry-After (RFC 6585 §4, RFC 9110 §10.2.3); the message says how long to wait. */
 export function tooMany(what: string, msBeforeNext: number) {
   const wait = minutes(msBeforeNext);
-  return new AppError(429, "too_many_requests", `${what} Try again in ${wait} minute${wait === 1 ? "" : "s"}.`, undefined, undefined, {
-    "Retry-After": String(Math.max(1, Math.ceil(msBeforeNext / 1000))),
-  });
+  return new AppError(
+    429,
+    "too_many_requests",
+    `${what} Try again in ${wait} minute${wait === 1 ? "" : "s"}.`,
+    undefined,
+    undefined,
+    {
+      "Retry-After": String(Math.max(1, Math.ceil(msBeforeNext / 1000))),
+    },
+  );
 }
 
 /** Counts one request against the limit; over it → 429. */

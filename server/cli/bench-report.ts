@@ -28,7 +28,8 @@ import { StorageNotFound, type PhotoStorage } from "../photos/storage";
 import { downscale } from "../reports/service";
 
 const RUNS = Number(process.env.BENCH_REPORT_RUNS ?? 3);
-const ROWS = 25, COLS = 20; // 500 positions
+const ROWS = 25,
+  COLS = 20; // 500 positions
 const PHOTOS_PER_POSITION = 4;
 const PASSWORD = "bench-password-123";
 
@@ -37,7 +38,13 @@ async function memoryPhotos() {
   const pool: Buffer[] = [];
   for (let i = 0; i < 20; i++) {
     const raw = randomBytes(400 * 300 * 3);
-    pool.push(await sharp(raw, { raw: { width: 400, height: 300, channels: 3 } }).resize(1600, 1200, { kernel: "cubic" }).blur(0.6).jpeg({ quality: 82 }).toBuffer());
+    pool.push(
+      await sharp(raw, { raw: { width: 400, height: 300, channels: 3 } })
+        .resize(1600, 1200, { kernel: "cubic" })
+        .blur(0.6)
+        .jpeg({ quality: 82 })
+        .toBuffer(),
+    );
   }
   const storage: PhotoStorage = {
     kind: "disk",
@@ -56,13 +63,37 @@ async function memoryPhotos() {
 }
 
 async function seed(db: Db) {
-  const site = await db.insertInto("sites").values({ name: "Bench tender", kind: "vessel" }).returning("id").executeTakeFirstOrThrow();
-  const u = await db.insertInto("users").values({ email: "report-bench@example.test", name: "Bench surveyor", passwordHash: await hashPassword(PASSWORD) }).returning("id").executeTakeFirstOrThrow();
+  const site = await db
+    .insertInto("sites")
+    .values({ name: "Bench tender", kind: "vessel" })
+    .returning("id")
+    .executeTakeFirstOrThrow();
+  const u = await db
+    .insertInto("users")
+    .values({ email: "report-bench@example.test", name: "Bench surveyor", passwordHash: await hashPassword(PASSWORD) })
+    .returning("id")
+    .executeTakeFirstOrThrow();
   await db.insertInto("memberships").values({ siteId: site.id, userId: u.id, role: "viewer" }).execute();
   const s = site.id;
-  const board = await db.insertInto("boards").values({ siteId: s, name: "Bench main board", gridRows: ROWS, gridCols: COLS, faceHeightMm: 2100, waterLineMm: 900 }).returning("id").executeTakeFirstOrThrow();
-  await db.insertInto("floodEvents").values({ siteId: s, occurredOn: "2026-10-01", waterType: "salt", maxDepthM: 1.1, hoursSubmerged: 30 }).execute();
-  await sql`INSERT INTO sections (site_id, board_id, name, sort_order) SELECT ${s}, ${board.id}, 'Section ' || k, k FROM generate_series(1, 5) k`.execute(db);
+  const board = await db
+    .insertInto("boards")
+    .values({
+      siteId: s,
+      name: "Bench main board",
+      gridRows: ROWS,
+      gridCols: COLS,
+      faceHeightMm: 2100,
+      waterLineMm: 900,
+    })
+    .returning("id")
+    .executeTakeFirstOrThrow();
+  await db
+    .insertInto("floodEvents")
+    .values({ siteId: s, occurredOn: "2026-10-01", waterType: "salt", maxDepthM: 1.1, hoursSubmerged: 30 })
+    .execute();
+  await sql`INSERT INTO sections (site_id, board_id, name, sort_order) SELECT ${s}, ${board.id}, 'Section ' || k, k FROM generate_series(1, 5) k`.execute(
+    db,
+  );
   await sql`INSERT INTO positions (site_id, board_id, section_id, designation, kind, grid_row, grid_col, sort_order, circuit)
     SELECT ${s}, ${board.id}, (SELECT id FROM sections WHERE board_id = ${board.id} AND sort_order = 1 + (r - 1) / 5), r || '-' || c, 'molded_case_breaker', r, c, r * 100 + c, 'Feeder ' || r || '-' || c
     FROM generate_series(1, ${ROWS}) r, generate_series(1, ${COLS}) c`.execute(db);
@@ -77,23 +108,48 @@ async function seed(db: Db) {
     FROM components c JOIN positions p ON p.id = c.position_id WHERE p.board_id = ${board.id}`.execute(db);
   await sql`INSERT INTO insulation_readings (site_id, board_id, component_id, circuit, test_volts_dc, megohms, conductors, equipment_temp_c, measured_at, recorded_by)
     SELECT c.site_id, ${board.id}, c.id, p.circuit, 1000, 0.5 * k * k, 'A-B', 24, now() - ((6 - k) || ' days')::interval, ${u.id}
-    FROM components c JOIN positions p ON p.id = c.position_id, generate_series(1, 5) k WHERE p.board_id = ${board.id} AND p.grid_col <= 4`.execute(db);
-  const positions = await db.selectFrom("positions as p").innerJoin("components as c", "c.positionId", "p.id").select(["p.id", "c.id as componentId"]).where("p.boardId", "=", board.id).execute();
+    FROM components c JOIN positions p ON p.id = c.position_id, generate_series(1, 5) k WHERE p.board_id = ${board.id} AND p.grid_col <= 4`.execute(
+    db,
+  );
+  const positions = await db
+    .selectFrom("positions as p")
+    .innerJoin("components as c", "c.positionId", "p.id")
+    .select(["p.id", "c.id as componentId"])
+    .where("p.boardId", "=", board.id)
+    .execute();
   let n = 0;
   const photos = positions.flatMap((p) =>
     Array.from({ length: PHOTOS_PER_POSITION }, (_, k) => {
       const id = randomUUID();
       const key = `sites/${s}/${n++}/${id}`;
       return {
-        id, siteId: s, boardId: board.id, positionId: p.id, componentId: p.componentId, kind: (k < 2 ? "as_found" : "after_work") as "as_found" | "after_work",
-        format: "jpeg", width: 1600, height: 1200, bytes: 300_000, originalKey: `${key}/o`, displayKey: `${key}/d`, thumbKey: `${key}/t`, uploadedBy: u.id,
+        id,
+        siteId: s,
+        boardId: board.id,
+        positionId: p.id,
+        componentId: p.componentId,
+        kind: (k < 2 ? "as_found" : "after_work") as "as_found" | "after_work",
+        format: "jpeg",
+        width: 1600,
+        height: 1200,
+        bytes: 300_000,
+        originalKey: `${key}/o`,
+        displayKey: `${key}/d`,
+        thumbKey: `${key}/t`,
+        uploadedBy: u.id,
       };
     }),
   );
-  for (let i = 0; i < photos.length; i += 500) await db.insertInto("photos").values(photos.slice(i, i + 500)).execute();
+  for (let i = 0; i < photos.length; i += 500)
+    await db
+      .insertInto("photos")
+      .values(photos.slice(i, i + 500))
+      .execute();
   await sql`INSERT INTO defects (site_id, board_id, position_id, component_id, title, category, severity, created_by)
     SELECT c.site_id, ${board.id}, c.position_id, c.id, 'Bench defect ' || row_number() over (), 'corrosion', 'degraded', ${u.id}
-    FROM components c JOIN positions p ON p.id = c.position_id WHERE p.board_id = ${board.id} AND p.grid_col % 3 = 0`.execute(db);
+    FROM components c JOIN positions p ON p.id = c.position_id WHERE p.board_id = ${board.id} AND p.grid_col % 3 = 0`.execute(
+    db,
+  );
   return { siteId: s, boardId: board.id, email: "report-bench@example.test", photos: photos.length };
 }
 
@@ -110,11 +166,17 @@ export async function benchReport() {
     const t0 = performance.now();
     const fx = await seed(db);
     const { storage, pool } = await memoryPhotos();
-    console.log(`\nReport case: one board of ${ROWS * COLS} positions and ${fx.photos} photos (display copies ${(pool[0].length / 1e3).toFixed(0)} kB, 1600 × 1200 JPEG) seeded in ${((performance.now() - t0) / 1000).toFixed(1)} s; ${RUNS} runs`);
+    console.log(
+      `\nReport case: one board of ${ROWS * COLS} positions and ${fx.photos} photos (display copies ${(pool[0].length / 1e3).toFixed(0)} kB, 1600 × 1200 JPEG) seeded in ${((performance.now() - t0) / 1000).toFixed(1)} s; ${RUNS} runs`,
+    );
     const server = createApp({ db, photoStorage: storage }).listen(0, "127.0.0.1");
     await new Promise((r) => server.once("listening", r));
     const base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
-    const signIn = await fetch(`${base}/api/auth/sign-in`, { method: "POST", headers: { "content-type": "application/json", origin: base }, body: JSON.stringify({ email: fx.email, password: PASSWORD }) });
+    const signIn = await fetch(`${base}/api/auth/sign-in`, {
+      method: "POST",
+      headers: { "content-type": "application/json", origin: base },
+      body: JSON.stringify({ email: fx.email, password: PASSWORD }),
+    });
     const cookie = signIn.headers.getSetCookie()[0].split(";")[0];
 
     const measure = async (photos: boolean) => {
@@ -123,14 +185,23 @@ export async function benchReport() {
       let peak = rss0;
       const sampler = setInterval(() => (peak = Math.max(peak, process.memoryUsage().rss)), 25);
       const a = performance.now();
-      const res = await fetch(`${base}/api/sites/${fx.siteId}/reports/survey.pdf?boardId=${fx.boardId}&photos=${photos ? "yes" : "no"}`, { headers: { cookie } });
+      const res = await fetch(
+        `${base}/api/sites/${fx.siteId}/reports/survey.pdf?boardId=${fx.boardId}&photos=${photos ? "yes" : "no"}`,
+        { headers: { cookie } },
+      );
       const firstByte = performance.now() - a;
       let bytes = 0;
       for await (const chunk of res.body as unknown as AsyncIterable<Uint8Array>) bytes += chunk.length;
       const secs = (performance.now() - a) / 1000;
       clearInterval(sampler);
       if (res.status !== 200) throw new Error(`report answered ${res.status}`);
-      return { secs, firstByte, mb: bytes / 1e6, pages: Number(res.headers.get("x-report-pages")), peakMb: (peak - rss0) / 1e6 };
+      return {
+        secs,
+        firstByte,
+        mb: bytes / 1e6,
+        pages: Number(res.headers.get("x-report-pages")),
+        peakMb: (peak - rss0) / 1e6,
+      };
     };
     const rows: Array<[string, Awaited<ReturnType<typeof measure>>[]]> = [];
     for (const photos of [true, false]) {
@@ -154,14 +225,32 @@ export async function benchReport() {
     });
     const pdfkitSecs = (performance.now() - p0) / 1000;
 
-    console.log(`${"report".padEnd(18)} ${"seconds p50 (min–max)".padEnd(24)} ${"first byte ms".padEnd(14)} ${"MB".padEnd(6)} ${"pages".padEnd(6)} peak RSS growth MB p50 (min–max)`);
+    console.log(
+      `${"report".padEnd(18)} ${"seconds p50 (min–max)".padEnd(24)} ${"first byte ms".padEnd(14)} ${"MB".padEnd(6)} ${"pages".padEnd(6)} peak RSS growth MB p50 (min–max)`,
+    );
     for (const [label, runs] of rows)
-      console.log(`${label.padEnd(18)} ${`${median(runs.map((r) => r.secs)).toFixed(1)} (${spread(runs.map((r) => r.secs))})`.padEnd(24)} ${median(runs.map((r) => r.firstByte)).toFixed(0).padEnd(14)} ${median(runs.map((r) => r.mb)).toFixed(1).padEnd(6)} ${String(runs[0].pages).padEnd(6)} ${median(runs.map((r) => r.peakMb)).toFixed(0)} (${spread(runs.map((r) => r.peakMb))})`);
+      console.log(
+        `${label.padEnd(18)} ${`${median(runs.map((r) => r.secs)).toFixed(1)} (${spread(runs.map((r) => r.secs))})`.padEnd(24)} ${median(
+          runs.map((r) => r.firstByte),
+        )
+          .toFixed(0)
+          .padEnd(14)} ${median(runs.map((r) => r.mb))
+          .toFixed(1)
+          .padEnd(
+            6,
+          )} ${String(runs[0].pages).padEnd(6)} ${median(runs.map((r) => r.peakMb)).toFixed(0)} (${spread(runs.map((r) => r.peakMb))})`,
+      );
     const withPhotos = median(rows[0][1].map((r) => r.secs));
     const without = median(rows[1][1].map((r) => r.secs));
-    console.log(`bare sharp, ${fx.photos} downscales to 480 px: ${sharpSecs.toFixed(1)} s → report with photos / sharp alone = ${(withPhotos / sharpSecs).toFixed(2)}`);
-    console.log(`bare pdfkit, ${pages} pages of plain text: ${pdfkitSecs.toFixed(1)} s → report without photos / pdfkit alone = ${(without / pdfkitSecs).toFixed(2)}`);
-    console.log("(first byte = the dry run that numbers the pages, plus the data load; peak RSS growth = the whole process, sampled every 25 ms, over its size before the request)");
+    console.log(
+      `bare sharp, ${fx.photos} downscales to 480 px: ${sharpSecs.toFixed(1)} s → report with photos / sharp alone = ${(withPhotos / sharpSecs).toFixed(2)}`,
+    );
+    console.log(
+      `bare pdfkit, ${pages} pages of plain text: ${pdfkitSecs.toFixed(1)} s → report without photos / pdfkit alone = ${(without / pdfkitSecs).toFixed(2)}`,
+    );
+    console.log(
+      "(first byte = the dry run that numbers the pages, plus the data load; peak RSS growth = the whole process, sampled every 25 ms, over its size before the request)",
+    );
     server.closeAllConnections();
     server.close();
   } finally {

@@ -11,11 +11,15 @@ const apiPort = process.env.PORT ?? "3000";
 // Links in e-mail open the Vite dev server, where the person is working.
 const publicUrl = process.env.PUBLIC_URL ?? `http://127.0.0.1:${process.env.VITE_PORT ?? 5173}`;
 const env = { ...process.env, DATABASE_URL: local.url, PORT: apiPort, PUBLIC_URL: publicUrl };
-const api = spawn(process.execPath, [join(projectRoot, "node_modules/tsx/dist/cli.mjs"), "watch", "--clear-screen=false", "server/index.ts"], {
-  cwd: projectRoot,
-  stdio: "inherit",
-  env,
-});
+const api = spawn(
+  process.execPath,
+  [join(projectRoot, "node_modules/tsx/dist/cli.mjs"), "watch", "--clear-screen=false", "server/index.ts"],
+  {
+    cwd: projectRoot,
+    stdio: "inherit",
+    env,
+  },
+);
 const vite = spawn(join(projectRoot, "node_modules/.bin/vite"), [], { cwd: projectRoot, stdio: "inherit", env });
 log(`dev: open http://127.0.0.1:${process.env.VITE_PORT ?? 5173} (API on ${apiPort})`);
 

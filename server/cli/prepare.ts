@@ -13,7 +13,11 @@ import { isEmpty, seedDemo } from "../../db/seed/demo";
 import { projectRoot } from "../../db/pg";
 import { createDb, MAINTENANCE_DB_OPTIONS, type Db } from "../db";
 
-export async function prepareDatabase(mode: "dev" | "test", database?: string, opts: { seed?: boolean } = { seed: true }): Promise<{ local: LocalDatabase; db: Db }> {
+export async function prepareDatabase(
+  mode: "dev" | "test",
+  database?: string,
+  opts: { seed?: boolean } = { seed: true },
+): Promise<{ local: LocalDatabase; db: Db }> {
   const local = await openLocalDatabase(mode, database);
   // Migrations and the demo seed may run long statements: their own pool, without the app's timeouts.
   const setup = createDb(local.url, MAINTENANCE_DB_OPTIONS);
@@ -53,9 +57,13 @@ export function buildClient(): string {
   const out = join(projectRoot, "dist", "client");
   const stampFile = join(projectRoot, "dist", ".client-source-hash");
   const want = sourceHash();
-  if (existsSync(join(out, "index.html")) && existsSync(stampFile) && readFileSync(stampFile, "utf8") === want) return out;
+  if (existsSync(join(out, "index.html")) && existsSync(stampFile) && readFileSync(stampFile, "utf8") === want)
+    return out;
   log("building the client (vite build)…");
-  const r = spawnSync(join(projectRoot, "node_modules", ".bin", "vite"), ["build", "--logLevel", "warn"], { cwd: projectRoot, stdio: "inherit" });
+  const r = spawnSync(join(projectRoot, "node_modules", ".bin", "vite"), ["build", "--logLevel", "warn"], {
+    cwd: projectRoot,
+    stdio: "inherit",
+  });
   if (r.status !== 0) throw new Error("vite build failed");
   writeFileSync(stampFile, want);
   reportBundle(out);

@@ -11,11 +11,15 @@ if (!file || !existsSync(resolve(file))) {
   console.error("Usage: npm run restore -- FILE   (a .tar.gz written by `npm run backup`)");
   process.exit(2);
 }
-console.log("[tideline] restoring: this replaces the database and the photo store with the archive's; stop the server first.");
+console.log(
+  "[tideline] restoring: this replaces the database and the photo store with the archive's; stop the server first.",
+);
 const local = await openLocalDatabase("dev");
 try {
   const r = await restore({ databaseUrl: local.url, storage: storageFromEnv(), file: resolve(file) });
-  console.log(`[tideline] restored the database and ${r.photos} photo files (${r.removed} files not in the archive removed) from ${file}`);
+  console.log(
+    `[tideline] restored the database and ${r.photos} photo files (${r.removed} files not in the archive removed) from ${file}`,
+  );
 } finally {
   local.stop();
 }

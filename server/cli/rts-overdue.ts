@@ -41,8 +41,13 @@ async function pickMailer(): Promise<Mailer> {
 const { local, db } = await prepareDatabase("dev", undefined, { seed: false });
 const mailer = await pickMailer();
 try {
-  const r = await sendOverdueWatchNotices({ db, mailer, publicUrl: publicUrlFromEnv(Number(process.env.PORT ?? 3000)) }, now);
-  log(`overdue watch checks: ${r.checked} live stage(s), ${r.overdue} overdue, ${r.sent} sent, ${r.failed} failed, ${r.skipped} skipped`);
+  const r = await sendOverdueWatchNotices(
+    { db, mailer, publicUrl: publicUrlFromEnv(Number(process.env.PORT ?? 3000)) },
+    now,
+  );
+  log(
+    `overdue watch checks: ${r.checked} live stage(s), ${r.overdue} overdue, ${r.sent} sent, ${r.failed} failed, ${r.skipped} skipped`,
+  );
   if (r.failed) process.exitCode = 1;
 } finally {
   mailer.close();

@@ -22,7 +22,11 @@ log(`ready in ${((Date.now() - started) / 1000).toFixed(1)} s — open http://12
 log(`demo accounts (password "${DEMO_PASSWORD}"): ${DEMO_PEOPLE.map((p) => p.email).join(", ")}`);
 log("Ctrl-C stops the server and the database; data is kept in .data/");
 
-log(running.jobs.working ? "background jobs run in this process (TIDELINE_WORKER=off to leave them to `npm run worker`)" : "TIDELINE_WORKER=off: no background jobs here; run `npm run worker`");
+log(
+  running.jobs.working
+    ? "background jobs run in this process (TIDELINE_WORKER=off to leave them to `npm run worker`)"
+    : "TIDELINE_WORKER=off: no background jobs here; run `npm run worker`",
+);
 stopOnSignals(running, async () => {
   await db.destroy();
   local.stop();

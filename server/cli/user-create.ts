@@ -34,7 +34,12 @@ function askHidden(question: string): Promise<string> {
 }
 
 const password = process.env.TIDELINE_PASSWORD ?? (await askHidden("Password (at least 10 characters): "));
-const input = createUserBody.safeParse({ email: values.email, name: values.name ?? values.email, password, isAdmin: values.admin });
+const input = createUserBody.safeParse({
+  email: values.email,
+  name: values.name ?? values.email,
+  password,
+  isAdmin: values.admin,
+});
 if (!input.success) {
   console.error(input.error.issues.map((i) => `${i.path.join(".")}: ${i.message}`).join("\n"));
   process.exit(2);

@@ -43,7 +43,10 @@ async function pickMailer(): Promise<Mailer> {
 const { local, db } = await prepareDatabase("dev", undefined, { seed: false });
 const mailer = await pickMailer();
 try {
-  const r = await sendWeeklySummaries({ db, mailer, publicUrl: publicUrlFromEnv(Number(process.env.PORT ?? 3000)) }, { now });
+  const r = await sendWeeklySummaries(
+    { db, mailer, publicUrl: publicUrlFromEnv(Number(process.env.PORT ?? 3000)) },
+    { now },
+  );
   log(`weekly summary: ${r.sites} site(s), ${r.sent} sent, ${r.failed} failed, ${r.switchedOff} switched off`);
   if (r.failed) process.exitCode = 1;
 } finally {

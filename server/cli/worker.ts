@@ -28,10 +28,17 @@ const mail =
         return { mailer, publicUrl: publicUrlFromEnv(webPort), stop: async () => mailer.close() };
       })()
     : await mailFromEnv({ port: webPort });
-const jobs = await startJobs({ db, mailer: mail.mailer, publicUrl: mail.publicUrl, photoStorage: storageFromEnv() }, { work: true });
+const jobs = await startJobs(
+  { db, mailer: mail.mailer, publicUrl: mail.publicUrl, photoStorage: storageFromEnv() },
+  { work: true },
+);
 logger.info("worker running: background jobs and schedules, no web server (Ctrl-C stops it)");
 stopOnSignals(
-  { server: undefined as never, jobs, stop: () => jobs.stop(Number(process.env.SHUTDOWN_TIMEOUT_MS ?? 25_000)).then(() => mail.stop()) },
+  {
+    server: undefined as never,
+    jobs,
+    stop: () => jobs.stop(Number(process.env.SHUTDOWN_TIMEOUT_MS ?? 25_000)).then(() => mail.stop()),
+  },
   async () => {
     await db.destroy();
     local.stop();

@@ -8,9 +8,28 @@ import { applyFilters, applySort, registerBase, ROW_COLUMNS, type RegisterRow } 
 
 const BATCH = 500;
 const HEADER = [
-  "Ref", "Title", "Board", "Section", "Position", "Category", "Severity", "Status", "Status reason", "Safety-critical",
-  "Blocks energisation", "Effort (h)", "Cost estimate", "Parts needed", "Parts", "Assignee", "Due", "Priority points",
-  "Pinned", "Raised", "Updated", "Description",
+  "Ref",
+  "Title",
+  "Board",
+  "Section",
+  "Position",
+  "Category",
+  "Severity",
+  "Status",
+  "Status reason",
+  "Safety-critical",
+  "Blocks energisation",
+  "Effort (h)",
+  "Cost estimate",
+  "Parts needed",
+  "Parts",
+  "Assignee",
+  "Due",
+  "Priority points",
+  "Pinned",
+  "Raised",
+  "Updated",
+  "Description",
 ];
 
 const yn = (b: boolean) => (b ? "yes" : "no");
@@ -18,10 +37,28 @@ const yn = (b: boolean) => (b ? "yes" : "no");
 export function csvRecord(r: RegisterRow): Array<string | number> {
   const t = (v: string | null) => guardCell(v ?? "");
   return [
-    `D-${r.ref}`, t(r.title), t(r.boardName), t(r.sectionName), t(r.designation), DEFECT_CATEGORY_LABELS[r.category],
-    DEFECT_SEVERITY_LABELS[r.severity], DEFECT_STATUS_LABELS[r.status], t(r.statusReason), yn(r.safetyCritical),
-    yn(r.blocksEnergisation), r.effortHours ?? "", r.costEstimate ?? "", t(r.partsNeeded), PARTS_STATE_LABELS[r.partsState],
-    t(r.assigneeName), r.dueOn ?? "", r.priorityScore, r.pinned ?? "", r.createdAt.toISOString(), r.updatedAt.toISOString(), t(r.description),
+    `D-${r.ref}`,
+    t(r.title),
+    t(r.boardName),
+    t(r.sectionName),
+    t(r.designation),
+    DEFECT_CATEGORY_LABELS[r.category],
+    DEFECT_SEVERITY_LABELS[r.severity],
+    DEFECT_STATUS_LABELS[r.status],
+    t(r.statusReason),
+    yn(r.safetyCritical),
+    yn(r.blocksEnergisation),
+    r.effortHours ?? "",
+    r.costEstimate ?? "",
+    t(r.partsNeeded),
+    PARTS_STATE_LABELS[r.partsState],
+    t(r.assigneeName),
+    r.dueOn ?? "",
+    r.priorityScore,
+    r.pinned ?? "",
+    r.createdAt.toISOString(),
+    r.updatedAt.toISOString(),
+    t(r.description),
   ];
 }
 
@@ -35,14 +72,23 @@ export function csvRecord(r: RegisterRow): Array<string | number> {
  * is written as it is now; one that stopped matching the filters is left out.
  */
 export async function streamCsv(db: Db, siteId: string, f: ListQuery, today: string, res: Response, filename: string) {
-  const ids = (await applySort(applyFilters(registerBase(db, siteId), f, today, siteId), f.sort, f.dir).select("d.id").execute()).map((r) => r.id as string);
+  const ids = (
+    await applySort(applyFilters(registerBase(db, siteId), f, today, siteId), f.sort, f.dir)
+      .select("d.id")
+      .execute()
+  ).map((r) => r.id as string);
   res.setHeader("Content-Type", "text/csv; charset=utf-8");
   res.setHeader("Content-Disposition", `attachment; filename="${filename}"`);
   await runExport(res, async (out) => {
     await out.write(BOM + csvLines([HEADER]));
     for (let i = 0; i < ids.length; i += BATCH) {
       const page = ids.slice(i, i + BATCH);
-      const rows = (await readPage(() => applyFilters(registerBase(db, siteId), f, today, siteId).select(ROW_COLUMNS as any).where("d.id", "in", page).execute())) as RegisterRow[];
+      const rows = (await readPage(() =>
+        applyFilters(registerBase(db, siteId), f, today, siteId)
+          .select(ROW_COLUMNS as any)
+          .where("d.id", "in", page)
+          .execute(),
+      )) as RegisterRow[];
       const byId = new Map(rows.map((r) => [r.id, r]));
       const ordered = page.map((id) => byId.get(id)).filter((r): r is RegisterRow => r !== undefined);
       if (ordered.length) await out.write(csvLines(ordered.map(csvRecord)));

@@ -18,73 +18,195 @@ export type LinkRole = "raised_from" | "retest";
 export async function judgedReading(db: Db, siteId: string, kind: ReadingKind, id: string) {
   if (kind === "insulation") {
     const r = (await readings.listInsulation(db, siteId, { id }))[0];
-    return r && { componentId: r.componentId, boardId: r.boardId, measuredAt: r.measuredAt, verdict: r.judgement.verdict, summary: `Insulation ${r.megohms} MΩ at ${r.testVoltsDc} V DC (${r.conductors})` };
+    return (
+      r && {
+        componentId: r.componentId,
+        boardId: r.boardId,
+        measuredAt: r.measuredAt,
+        verdict: r.judgement.verdict,
+        summary: `Insulation ${r.megohms} MΩ at ${r.testVoltsDc} V DC (${r.conductors})`,
+      }
+    );
   }
   if (kind === "contact") {
     const r = (await readings.listContacts(db, siteId, { id }))[0];
-    return r && { componentId: r.componentId, boardId: r.boardId, measuredAt: r.measuredAt, verdict: r.judgement.verdict, summary: `Contact resistance ${r.poleMicroOhms.join(" / ")} µΩ` };
+    return (
+      r && {
+        componentId: r.componentId,
+        boardId: r.boardId,
+        measuredAt: r.measuredAt,
+        verdict: r.judgement.verdict,
+        summary: `Contact resistance ${r.poleMicroOhms.join(" / ")} µΩ`,
+      }
+    );
   }
   if (kind === "thermal") {
     const r = (await readings.listThermal(db, siteId, { id }))[0];
-    return r && { componentId: r.componentId, boardId: r.boardId, measuredAt: r.measuredAt, verdict: r.judgement.verdict, summary: `Thermal scan ${r.componentTempC} °C, level ${r.judgement.level}: ${r.judgement.action}` };
+    return (
+      r && {
+        componentId: r.componentId,
+        boardId: r.boardId,
+        measuredAt: r.measuredAt,
+        verdict: r.judgement.verdict,
+        summary: `Thermal scan ${r.componentTempC} °C, level ${r.judgement.level}: ${r.judgement.action}`,
+      }
+    );
   }
   const r = (await readings.listGroundChecks(db, siteId, { id }))[0];
-  return r && { componentId: null, boardId: r.boardId, measuredAt: r.measuredAt, verdict: r.judgement.verdict, summary: `Ground lamps: ${r.judgement.words}` };
+  return (
+    r && {
+      componentId: null,
+      boardId: r.boardId,
+      measuredAt: r.measuredAt,
+      verdict: r.judgement.verdict,
+      summary: `Ground lamps: ${r.judgement.words}`,
+    }
+  );
 }
 
 const linksOf = (db: Db, defectId: string) =>
-  db.selectFrom("defectReadings").select(["id", "readingKind", "readingId", "role", "linkedAt"]).where("defectId", "=", defectId).orderBy("linkedAt").execute();
+  db
+    .selectFrom("defectReadings")
+    .select(["id", "readingKind", "readingId", "role", "linkedAt"])
+    .where("defectId", "=", defectId)
+    .orderBy("linkedAt")
+    .execute();
 
 /** What the close needs, counted now. */
 export async function repairEvidence(db: Db, siteId: string, defectId: string) {
   const links = (await linksOf(db, defectId)).filter((l) => l.role === "retest");
   const judged = await Promise.all(links.map((l) => judgedReading(db, siteId, l.readingKind, l.readingId)));
-  const photos = await db.selectFrom("photos").select(sql<number>`count(*)::int`.as("n"))
-    .where("siteId", "=", siteId).where("defectId", "=", defectId).where("kind", "=", "after_work").where("deletedAt", "is", null).executeTakeFirstOrThrow();
+  const photos = await db
+    .selectFrom("photos")
+    .select(sql<number>`count(*)::int`.as("n"))
+    .where("siteId", "=", siteId)
+    .where("defectId", "=", defectId)
+    .where("kind", "=", "after_work")
+    .where("deletedAt", "is", null)
+    .executeTakeFirstOrThrow();
   return { retestsMeeting: judged.filter((j) => j?.verdict === "meets").length, afterPhotos: Number(photos.n) };
 }
 
 /** The defect page's evidence panel: linked readings (judged), after photos, and the component's recent readings to link. */
 export async function evidenceOf(db: Db, siteId: string, d: { id: string; componentId: string | null }) {
   const links = await linksOf(db, d.id);
-  const linked = (await Promise.all(links.map(async (l) => ({ ...l, linkedAt: new Date(l.linkedAt).toISOString(), reading: await judgedReading(db, siteId, l.readingKind, l.readingId) }))))
+  const linked = (
+    await Promise.all(
+      links.map(async (l) => ({
+        ...l,
+        linkedAt: new Date(l.linkedAt).toISOString(),
+        reading: await judgedReading(db, siteId, l.readingKind, l.readingId),
+      })),
+    )
+  )
     .filter((l) => l.reading)
-    .map((l) => ({ id: l.id, readingKind: l.readingKind, readingId: l.readingId, role: l.role, linkedAt: l.linkedAt, ...l.reading!, measuredAt: String(l.reading!.measuredAt) }));
+    .map((l) => ({
+      id: l.id,
+      readingKind: l.readingKind,
+      readingId: l.readingId,
+      role: l.role,
+      linkedAt: l.linkedAt,
+      ...l.reading!,
+      measuredAt: String(l.reading!.measuredAt),
+    }));
   const taken = new Set(links.map((l) => `${l.readingKind}:${l.readingId}`));
-  const candidates: Array<{ readingKind: ReadingKind; readingId: string; measuredAt: string; verdict: string; summary: string }> = [];
+  const candidates: Array<{
+    readingKind: ReadingKind;
+    readingId: string;
+    measuredAt: string;
+    verdict: string;
+    summary: string;
+  }> = [];
   if (d.componentId) {
     const [ins, con, th] = await Promise.all([
       readings.listInsulation(db, siteId, { componentId: d.componentId, limit: 10 }),
       readings.listContacts(db, siteId, { componentId: d.componentId, limit: 10 }),
       readings.listThermal(db, siteId, { componentId: d.componentId, limit: 10 }),
     ]);
-    for (const r of ins) candidates.push({ readingKind: "insulation", readingId: r.id, measuredAt: String(r.measuredAt), verdict: r.judgement.verdict, summary: `Insulation ${r.megohms} MΩ at ${r.testVoltsDc} V DC` });
-    for (const r of con) candidates.push({ readingKind: "contact", readingId: r.id, measuredAt: String(r.measuredAt), verdict: r.judgement.verdict, summary: `Contact ${r.poleMicroOhms.join(" / ")} µΩ` });
-    for (const r of th) candidates.push({ readingKind: "thermal", readingId: r.id, measuredAt: String(r.measuredAt), verdict: r.judgement.verdict, summary: `Thermal ${r.componentTempC} °C, level ${r.judgement.level}` });
+    for (const r of ins)
+      candidates.push({
+        readingKind: "insulation",
+        readingId: r.id,
+        measuredAt: String(r.measuredAt),
+        verdict: r.judgement.verdict,
+        summary: `Insulation ${r.megohms} MΩ at ${r.testVoltsDc} V DC`,
+      });
+    for (const r of con)
+      candidates.push({
+        readingKind: "contact",
+        readingId: r.id,
+        measuredAt: String(r.measuredAt),
+        verdict: r.judgement.verdict,
+        summary: `Contact ${r.poleMicroOhms.join(" / ")} µΩ`,
+      });
+    for (const r of th)
+      candidates.push({
+        readingKind: "thermal",
+        readingId: r.id,
+        measuredAt: String(r.measuredAt),
+        verdict: r.judgement.verdict,
+        summary: `Thermal ${r.componentTempC} °C, level ${r.judgement.level}`,
+      });
   }
   const evidence = await repairEvidence(db, siteId, d.id);
   return {
     linked,
-    candidates: candidates.filter((c) => !taken.has(`${c.readingKind}:${c.readingId}`)).sort((a, b) => b.measuredAt.localeCompare(a.measuredAt)).slice(0, 15),
+    candidates: candidates
+      .filter((c) => !taken.has(`${c.readingKind}:${c.readingId}`))
+      .sort((a, b) => b.measuredAt.localeCompare(a.measuredAt))
+      .slice(0, 15),
     ...evidence,
   };
 }
 
 /** Links a reading to a defect (as its origin or as a re-test); the reading must be on the site and, when both name one, the same component. */
-export async function linkReading(db: Db, siteId: string, actorId: string, d: { id: string; componentId: string | null; boardId: string; positionId: string | null }, b: { readingKind: ReadingKind; readingId: string; role: LinkRole }) {
+export async function linkReading(
+  db: Db,
+  siteId: string,
+  actorId: string,
+  d: { id: string; componentId: string | null; boardId: string; positionId: string | null },
+  b: { readingKind: ReadingKind; readingId: string; role: LinkRole },
+) {
   const r = await judgedReading(db, siteId, b.readingKind, b.readingId);
   if (!r) throw notFound("That reading");
   if (r.componentId && d.componentId && r.componentId !== d.componentId)
-    throw new AppError(400, "invalid_input", "That reading is of another component.", { readingId: "Another component" });
-  if (!r.componentId && r.boardId !== d.boardId) throw new AppError(400, "invalid_input", "That reading is of another board.", { readingId: "Another board" });
-  const row = await db.insertInto("defectReadings").values({ siteId, defectId: d.id, readingKind: b.readingKind, readingId: b.readingId, role: b.role, linkedBy: actorId })
-    .onConflict((oc) => oc.columns(["defectId", "readingKind", "readingId"]).doUpdateSet({ role: b.role })).returning("id").executeTakeFirstOrThrow();
-  await recordAudit(db, { siteId, entityType: "defect", entityId: d.id, action: "link_reading", actorId, boardId: d.boardId, positionId: d.positionId, after: { ...b, verdict: r.verdict } });
+    throw new AppError(400, "invalid_input", "That reading is of another component.", {
+      readingId: "Another component",
+    });
+  if (!r.componentId && r.boardId !== d.boardId)
+    throw new AppError(400, "invalid_input", "That reading is of another board.", { readingId: "Another board" });
+  const row = await db
+    .insertInto("defectReadings")
+    .values({
+      siteId,
+      defectId: d.id,
+      readingKind: b.readingKind,
+      readingId: b.readingId,
+      role: b.role,
+      linkedBy: actorId,
+    })
+    .onConflict((oc) => oc.columns(["defectId", "readingKind", "readingId"]).doUpdateSet({ role: b.role }))
+    .returning("id")
+    .executeTakeFirstOrThrow();
+  await recordAudit(db, {
+    siteId,
+    entityType: "defect",
+    entityId: d.id,
+    action: "link_reading",
+    actorId,
+    boardId: d.boardId,
+    positionId: d.positionId,
+    after: { ...b, verdict: r.verdict },
+  });
   return row;
 }
 
 /** For the readings screens: the defects each reading of a board raised or proves. */
 export const defectsOfBoardReadings = (db: Db, siteId: string, boardId: string) =>
-  db.selectFrom("defectReadings as l").innerJoin("defects as d", "d.id", "l.defectId")
+  db
+    .selectFrom("defectReadings as l")
+    .innerJoin("defects as d", "d.id", "l.defectId")
     .select(["l.readingKind", "l.readingId", "l.role", "d.id as defectId", "d.ref", "d.status", "d.title"])
-    .where("l.siteId", "=", siteId).where("d.boardId", "=", boardId).execute();
+    .where("l.siteId", "=", siteId)
+    .where("d.boardId", "=", boardId)
+    .execute();

@@ -25,18 +25,52 @@ function countBase(db: Db, siteId: string, f: ListQuery) {
 }
 
 export const ROW_COLUMNS = [
-  "d.id", "d.ref", "d.siteId", "d.boardId", "b.name as boardName", "d.sectionId", "s.name as sectionName",
-  "d.positionId", "p.designation", "d.componentId", "d.inspectionId", "d.title", "d.description",
-  "d.category", "d.severity", "d.status", "d.statusReason", "d.safetyCritical", "d.blocksEnergisation",
-  "d.effortHours", "d.costEstimate", "d.partsNeeded", "d.partsState", "d.assigneeId", "a.name as assigneeName",
-  "d.dueOn", "d.repairedBy", "d.verifiedBy", "d.createdBy", "d.priorityScore", "pin.direction as pinned",
-  "d.version", "d.createdAt", "d.updatedAt", "d.closedAt",
+  "d.id",
+  "d.ref",
+  "d.siteId",
+  "d.boardId",
+  "b.name as boardName",
+  "d.sectionId",
+  "s.name as sectionName",
+  "d.positionId",
+  "p.designation",
+  "d.componentId",
+  "d.inspectionId",
+  "d.title",
+  "d.description",
+  "d.category",
+  "d.severity",
+  "d.status",
+  "d.statusReason",
+  "d.safetyCritical",
+  "d.blocksEnergisation",
+  "d.effortHours",
+  "d.costEstimate",
+  "d.partsNeeded",
+  "d.partsState",
+  "d.assigneeId",
+  "a.name as assigneeName",
+  "d.dueOn",
+  "d.repairedBy",
+  "d.verifiedBy",
+  "d.createdBy",
+  "d.priorityScore",
+  "pin.direction as pinned",
+  "d.version",
+  "d.createdAt",
+  "d.updatedAt",
+  "d.closedAt",
 ] as const;
 
 /** LIKE pattern for a free-text search, with the user's % and _ taken literally. */
 const likePattern = (q: string) => `%${q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
 
-export function applyFilters<QB extends SelectQueryBuilder<any, any, any>>(qb: QB, f: ListQuery, today: string, siteId: string): QB {
+export function applyFilters<QB extends SelectQueryBuilder<any, any, any>>(
+  qb: QB,
+  f: ListQuery,
+  today: string,
+  siteId: string,
+): QB {
   let q = qb as SelectQueryBuilder<any, any, any>;
   if (f.q) {
     const pat = likePattern(f.q);
@@ -61,7 +95,12 @@ export function applyFilters<QB extends SelectQueryBuilder<any, any, any>>(qb: Q
   if (f.assignee.length) {
     const ids = f.assignee.filter((a) => a !== "none");
     const none = f.assignee.includes("none");
-    q = q.where((eb) => eb.or([...(ids.length ? [eb("d.assigneeId", "in", ids)] : []), ...(none ? [eb("d.assigneeId", "is", null)] : [])]));
+    q = q.where((eb) =>
+      eb.or([
+        ...(ids.length ? [eb("d.assigneeId", "in", ids)] : []),
+        ...(none ? [eb("d.assigneeId", "is", null)] : []),
+      ]),
+    );
   }
   for (const flag of f.flag) {
     if (flag === "safety") q = q.where("d.safetyCritical", "=", true);
@@ -123,7 +162,11 @@ const SORT_EXPR: Record<Exclude<SortKey, "priority">, ReturnType<typeof sql>> = 
  * ORDER BY for a register sort. "priority desc" is the ranked order (highest first);
  * every other key sorts its column with blanks last, then by reference for a stable page.
  */
-export function applySort<QB extends SelectQueryBuilder<any, any, any>>(qb: QB, sort: SortKey, dir: "asc" | "desc"): QB {
+export function applySort<QB extends SelectQueryBuilder<any, any, any>>(
+  qb: QB,
+  sort: SortKey,
+  dir: "asc" | "desc",
+): QB {
   const q = qb as SelectQueryBuilder<any, any, any>;
   if (sort === "priority") {
     let out = q;
@@ -139,10 +182,24 @@ export function applySort<QB extends SelectQueryBuilder<any, any, any>>(qb: QB, 
  * ids only (narrow sort, often an index scan), then its rows are read with every column.
  */
 export async function listPage(db: Db, siteId: string, f: ListQuery, today: string) {
-  const idsQ = applySort(applyFilters(registerBase(db, siteId), f, today, siteId), f.sort, f.dir).select("d.id").limit(f.size).offset(f.page * f.size);
-  const countQ = applyFilters(countBase(db, siteId, f), f, today, siteId).select((eb) => eb.fn.countAll<number>().as("n"));
+  const idsQ = applySort(applyFilters(registerBase(db, siteId), f, today, siteId), f.sort, f.dir)
+    .select("d.id")
+    .limit(f.size)
+    .offset(f.page * f.size);
+  const countQ = applyFilters(countBase(db, siteId, f), f, today, siteId).select((eb) =>
+    eb.fn.countAll<number>().as("n"),
+  );
   const [ids, count] = await Promise.all([idsQ.execute(), countQ.executeTakeFirstOrThrow()]);
-  const rows = ids.length ? ((await registerBase(db, siteId).select(ROW_COLUMNS as any).where("d.id", "in", ids.map((r) => r.id)).execute()) as RegisterRow[]) : [];
+  const rows = ids.length
+    ? ((await registerBase(db, siteId)
+        .select(ROW_COLUMNS as any)
+        .where(
+          "d.id",
+          "in",
+          ids.map((r) => r.id),
+        )
+        .execute()) as RegisterRow[])
+    : [];
   const byId = new Map(rows.map((r) => [r.id, r]));
   return { rows: ids.map((r) => byId.get(r.id)!), total: Number(count.n) };
 }
@@ -152,12 +209,39 @@ export const registerQuery = (db: Db, siteId: string, f: ListQuery, today: strin
   applySort(applyFilters(registerBase(db, siteId), f, today, siteId), f.sort, f.dir).select(ROW_COLUMNS as any);
 
 export type RegisterRow = {
-  id: string; ref: number; siteId: string; boardId: string; boardName: string; sectionId: string | null; sectionName: string | null;
-  positionId: string | null; designation: string | null; componentId: string | null; inspectionId: string | null;
-  title: string; description: string; category: Database["defects"]["category"]; severity: Database["defects"]["severity"];
-  status: import("../../src/domain/vocab").DefectStatus; statusReason: string; safetyCritical: boolean; blocksEnergisation: boolean;
-  effortHours: number | null; costEstimate: number | null; partsNeeded: string; partsState: "none_needed" | "in_hand" | "wanted" | "unobtainable";
-  assigneeId: string | null; assigneeName: string | null; dueOn: string | null; repairedBy: string | null; verifiedBy: string | null;
-  createdBy: string | null; priorityScore: number; pinned: "above" | "below" | null; version: number;
-  createdAt: Date; updatedAt: Date; closedAt: Date | null;
+  id: string;
+  ref: number;
+  siteId: string;
+  boardId: string;
+  boardName: string;
+  sectionId: string | null;
+  sectionName: string | null;
+  positionId: string | null;
+  designation: string | null;
+  componentId: string | null;
+  inspectionId: string | null;
+  title: string;
+  description: string;
+  category: Database["defects"]["category"];
+  severity: Database["defects"]["severity"];
+  status: import("../../src/domain/vocab").DefectStatus;
+  statusReason: string;
+  safetyCritical: boolean;
+  blocksEnergisation: boolean;
+  effortHours: number | null;
+  costEstimate: number | null;
+  partsNeeded: string;
+  partsState: "none_needed" | "in_hand" | "wanted" | "unobtainable";
+  assigneeId: string | null;
+  assigneeName: string | null;
+  dueOn: string | null;
+  repairedBy: string | null;
+  verifiedBy: string | null;
+  createdBy: string | null;
+  priorityScore: number;
+  pinned: "above" | "below" | null;
+  version: number;
+  createdAt: Date;
+  updatedAt: Date;
+  closedAt: Date | null;
 };

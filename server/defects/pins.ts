@@ -11,7 +11,12 @@ import type { Ctx } from "./service";
  * chain (the target may not itself be pinned, and a pinned defect's own place is not a
  * target), so the register's SQL order equals rankDefects() of src/domain/priority.ts.
  */
-export async function pin(db: Db, ctx: Ctx, id: string, b: { direction: "above" | "below"; relativeTo: string; reason: string }) {
+export async function pin(
+  db: Db,
+  ctx: Ctx,
+  id: string,
+  b: { direction: "above" | "below"; relativeTo: string; reason: string },
+) {
   if (!canManage(ctx.actor.role)) throw forbidden("Only the curator pins defects.");
   return db.transaction().execute(async (trx) => {
     const d = await repo.lockDefect(trx, ctx.siteId, id);
@@ -20,17 +25,49 @@ export async function pin(db: Db, ctx: Ctx, id: string, b: { direction: "above" 
     if (b.relativeTo === id) throw bad("A defect cannot be pinned against itself");
     const target = await repo.lockDefect(trx, ctx.siteId, b.relativeTo);
     if (!target) throw bad("That defect is not on this site");
-    if (await repo.activePin(trx, b.relativeTo)) throw bad(`D-${target.ref} is itself pinned; pin against a defect in its own place`);
+    if (await repo.activePin(trx, b.relativeTo))
+      throw bad(`D-${target.ref} is itself pinned; pin against a defect in its own place`);
     if (await repo.isPinTarget(trx, id)) throw bad(`Other defects are pinned against D-${d.ref}; unpin them first`);
     const old = await repo.activePin(trx, id);
-    if (old) await trx.updateTable("defectPins").set({ removedAt: sql`now()`, removedBy: ctx.actor.id, removedReason: "Replaced by a new pin" }).where("id", "=", old.id).execute();
+    if (old)
+      await trx
+        .updateTable("defectPins")
+        .set({ removedAt: sql`now()`, removedBy: ctx.actor.id, removedReason: "Replaced by a new pin" })
+        .where("id", "=", old.id)
+        .execute();
     const row = await trx
       .insertInto("defectPins")
-      .values({ siteId: ctx.siteId, defectId: id, direction: b.direction, relativeTo: b.relativeTo, reason: b.reason, pinnedBy: ctx.actor.id })
+      .values({
+        siteId: ctx.siteId,
+        defectId: id,
+        direction: b.direction,
+        relativeTo: b.relativeTo,
+        reason: b.reason,
+        pinnedBy: ctx.actor.id,
+      })
       .returning("id")
       .executeTakeFirstOrThrow();
-    await trx.updateTable("defects").set({ updatedAt: sql`now()`, version: sql`version + 1` }).where("id", "=", id).execute();
-    await recordAudit(trx, { siteId: ctx.siteId, entityType: "defect", entityId: id, action: "pin", actorId: ctx.actor.id, boardId: d.boardId, positionId: d.positionId, after: { pinId: row.id, direction: b.direction, relativeTo: b.relativeTo, relativeRef: target.ref, reason: b.reason } });
+    await trx
+      .updateTable("defects")
+      .set({ updatedAt: sql`now()`, version: sql`version + 1` })
+      .where("id", "=", id)
+      .execute();
+    await recordAudit(trx, {
+      siteId: ctx.siteId,
+      entityType: "defect",
+      entityId: id,
+      action: "pin",
+      actorId: ctx.actor.id,
+      boardId: d.boardId,
+      positionId: d.positionId,
+      after: {
+        pinId: row.id,
+        direction: b.direction,
+        relativeTo: b.relativeTo,
+        relativeRef: target.ref,
+        reason: b.reason,
+      },
+    });
     return row;
   });
 }
@@ -42,8 +79,26 @@ export async function unpin(db: Db, ctx: Ctx, id: string, reason: string) {
     if (!d) throw notFound("That defect");
     const old = await repo.activePin(trx, id);
     if (!old) throw notFound("A pin on that defect");
-    await trx.updateTable("defectPins").set({ removedAt: sql`now()`, removedBy: ctx.actor.id, removedReason: reason }).where("id", "=", old.id).execute();
-    await trx.updateTable("defects").set({ updatedAt: sql`now()`, version: sql`version + 1` }).where("id", "=", id).execute();
-    await recordAudit(trx, { siteId: ctx.siteId, entityType: "defect", entityId: id, action: "unpin", actorId: ctx.actor.id, boardId: d.boardId, positionId: d.positionId, before: { pinId: old.id }, after: { reason } });
+    await trx
+      .updateTable("defectPins")
+      .set({ removedAt: sql`now()`, removedBy: ctx.actor.id, removedReason: reason })
+      .where("id", "=", old.id)
+      .execute();
+    await trx
+      .updateTable("defects")
+      .set({ updatedAt: sql`now()`, version: sql`version + 1` })
+      .where("id", "=", id)
+      .execute();
+    await recordAudit(trx, {
+      siteId: ctx.siteId,
+      entityType: "defect",
+      entityId: id,
+      action: "unpin",
+      actorId: ctx.actor.id,
+      boardId: d.boardId,
+      positionId: d.positionId,
+      before: { pinId: old.id },
+      after: { reason },
+    });
   });
 }

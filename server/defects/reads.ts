@@ -8,7 +8,12 @@ import * as repo from "./repository";
 import { scoreFor, type Ctx } from "./service";
 
 const iso = (d: Date | string | null) => (d === null ? null : d instanceof Date ? d.toISOString() : d);
-export const toJson = (r: RegisterRow) => ({ ...r, createdAt: iso(r.createdAt)!, updatedAt: iso(r.updatedAt)!, closedAt: iso(r.closedAt) });
+export const toJson = (r: RegisterRow) => ({
+  ...r,
+  createdAt: iso(r.createdAt)!,
+  updatedAt: iso(r.updatedAt)!,
+  closedAt: iso(r.closedAt),
+});
 
 /** The defect page: the record, why it ranks where it does, who may move it, pins and history. */
 export async function detail(db: Db, ctx: Ctx, id: string) {
@@ -27,9 +32,9 @@ export async function detail(db: Db, ctx: Ctx, id: string) {
   return {
     defect: {
       ...toJson(row),
-      repairedByName: row.repairedBy ? names.get(row.repairedBy) ?? null : null,
-      verifiedByName: row.verifiedBy ? names.get(row.verifiedBy) ?? null : null,
-      createdByName: row.createdBy ? names.get(row.createdBy) ?? null : null,
+      repairedByName: row.repairedBy ? (names.get(row.repairedBy) ?? null) : null,
+      verifiedByName: row.verifiedBy ? (names.get(row.verifiedBy) ?? null) : null,
+      createdByName: row.createdBy ? (names.get(row.createdBy) ?? null) : null,
     },
     terms,
     rank,
@@ -37,7 +42,12 @@ export async function detail(db: Db, ctx: Ctx, id: string) {
     canEdit: canEdit(row, ctx.actor),
     heritage,
     photoCount,
-    pins: pins.map((p) => ({ ...p, pinnedAt: iso(p.pinnedAt)!, removedAt: iso(p.removedAt), relativeRef: p.relativeRef ?? null })),
+    pins: pins.map((p) => ({
+      ...p,
+      pinnedAt: iso(p.pinnedAt)!,
+      removedAt: iso(p.removedAt),
+      relativeRef: p.relativeRef ?? null,
+    })),
     history: history.map((h) => ({ ...h, at: iso(h.at)! })),
     audit: audit.map((a) => ({ ...a, at: iso(a.at)! })),
   };
@@ -50,15 +60,34 @@ export async function detail(db: Db, ctx: Ctx, id: string) {
 export async function repairPlan(db: Db, siteId: string) {
   const f = listQuery.parse({ status: ACTIVE_STATUSES, sort: "priority", dir: "desc" });
   const rows = (await registerQuery(db, siteId, f, "9999-12-31").execute()) as RegisterRow[];
-  const pins = await db.selectFrom("defectPins").select(["defectId", "direction", "relativeTo"]).where("siteId", "=", siteId).where("removedAt", "is", null).execute();
+  const pins = await db
+    .selectFrom("defectPins")
+    .select(["defectId", "direction", "relativeTo"])
+    .where("siteId", "=", siteId)
+    .where("removedAt", "is", null)
+    .execute();
   const pinOf = new Map(pins.map((p) => [p.defectId, { direction: p.direction, relativeTo: p.relativeTo }]));
-  const ranked = rankDefects(rows.map((r) => ({ ...r, score: r.priorityScore, createdAt: r.createdAt.toISOString(), pin: pinOf.get(r.id) ?? null })));
+  const ranked = rankDefects(
+    rows.map((r) => ({
+      ...r,
+      score: r.priorityScore,
+      createdAt: r.createdAt.toISOString(),
+      pin: pinOf.get(r.id) ?? null,
+    })),
+  );
   const boards = new Map<string, { boardId: string; boardName: string; sections: Map<string, any> }>();
   ranked.forEach((r, i) => {
     const b = boards.get(r.boardId) ?? { boardId: r.boardId, boardName: r.boardName, sections: new Map() };
     boards.set(r.boardId, b);
     const key = r.sectionId ?? "none";
-    const s = b.sections.get(key) ?? { sectionId: r.sectionId, sectionName: r.sectionName ?? "No section", effortHours: 0, unestimated: 0, cost: 0, defects: [] };
+    const s = b.sections.get(key) ?? {
+      sectionId: r.sectionId,
+      sectionName: r.sectionName ?? "No section",
+      effortHours: 0,
+      unestimated: 0,
+      cost: 0,
+      defects: [],
+    };
     b.sections.set(key, s);
     if (r.effortHours === null) s.unestimated += 1;
     s.effortHours += r.effortHours ?? 0;
@@ -69,6 +98,10 @@ export async function repairPlan(db: Db, siteId: string) {
   return {
     boards: [...boards.values()]
       .sort((a, b) => a.boardName.localeCompare(b.boardName))
-      .map((b) => ({ boardId: b.boardId, boardName: b.boardName, sections: [...b.sections.values()].sort((x, y) => x.defects[0].rank - y.defects[0].rank) })),
+      .map((b) => ({
+        boardId: b.boardId,
+        boardName: b.boardName,
+        sections: [...b.sections.values()].sort((x, y) => x.defects[0].rank - y.defects[0].rank),
+      })),
   };
 }

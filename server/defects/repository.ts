@@ -5,7 +5,10 @@ import type { Db } from "../db";
 import { rankOrderSql, registerBase, ROW_COLUMNS, type RegisterRow } from "./list-query";
 
 export const findRow = async (db: Db, siteId: string, id: string) =>
-  (await registerBase(db, siteId).select(ROW_COLUMNS as any).where("d.id", "=", id).executeTakeFirst()) as RegisterRow | undefined;
+  (await registerBase(db, siteId)
+    .select(ROW_COLUMNS as any)
+    .where("d.id", "=", id)
+    .executeTakeFirst()) as RegisterRow | undefined;
 
 /** Locks the defect row for the rest of the transaction (serialises concurrent moves). */
 export const lockDefect = (db: Db, siteId: string, id: string) =>
@@ -30,7 +33,14 @@ export const insertStatusChange = (db: Db, v: Insertable<Database["defectStatusC
 /** Heritage of the linked component (priority's "original fabric" term). */
 export const componentHeritage = async (db: Db, siteId: string, componentId: string | null) =>
   componentId
-    ? (await db.selectFrom("components").select("heritage").where("siteId", "=", siteId).where("id", "=", componentId).executeTakeFirst())?.heritage ?? null
+    ? ((
+        await db
+          .selectFrom("components")
+          .select("heritage")
+          .where("siteId", "=", siteId)
+          .where("id", "=", componentId)
+          .executeTakeFirst()
+      )?.heritage ?? null)
     : null;
 
 export const findPosition = (db: Db, siteId: string, id: string) =>
@@ -43,16 +53,38 @@ export const findPosition = (db: Db, siteId: string, id: string) =>
     .executeTakeFirst();
 
 export const findComponent = (db: Db, siteId: string, id: string) =>
-  db.selectFrom("components").select(["id", "positionId"]).where("siteId", "=", siteId).where("id", "=", id).executeTakeFirst();
+  db
+    .selectFrom("components")
+    .select(["id", "positionId"])
+    .where("siteId", "=", siteId)
+    .where("id", "=", id)
+    .executeTakeFirst();
 export const findInspection = (db: Db, siteId: string, id: string) =>
-  db.selectFrom("inspections").select(["id", "positionId", "componentId"]).where("siteId", "=", siteId).where("id", "=", id).executeTakeFirst();
+  db
+    .selectFrom("inspections")
+    .select(["id", "positionId", "componentId"])
+    .where("siteId", "=", siteId)
+    .where("id", "=", id)
+    .executeTakeFirst();
 export const findBoard = (db: Db, siteId: string, id: string) =>
   db.selectFrom("boards").select("id").where("siteId", "=", siteId).where("id", "=", id).executeTakeFirst();
 export const findSection = (db: Db, siteId: string, id: string) =>
-  db.selectFrom("sections").select(["id", "boardId"]).where("siteId", "=", siteId).where("id", "=", id).executeTakeFirst();
+  db
+    .selectFrom("sections")
+    .select(["id", "boardId"])
+    .where("siteId", "=", siteId)
+    .where("id", "=", id)
+    .executeTakeFirst();
 
 export const memberRole = async (db: Db, siteId: string, userId: string) =>
-  (await db.selectFrom("memberships").select("role").where("siteId", "=", siteId).where("userId", "=", userId).executeTakeFirst())?.role ?? null;
+  (
+    await db
+      .selectFrom("memberships")
+      .select("role")
+      .where("siteId", "=", siteId)
+      .where("userId", "=", userId)
+      .executeTakeFirst()
+  )?.role ?? null;
 
 export const listCrew = (db: Db, siteId: string) =>
   db
@@ -66,7 +98,13 @@ export const listCrew = (db: Db, siteId: string) =>
 export const listBoards = (db: Db, siteId: string) =>
   db.selectFrom("boards").select(["id", "name"]).where("siteId", "=", siteId).orderBy("name").execute();
 export const listSections = (db: Db, siteId: string) =>
-  db.selectFrom("sections").select(["id", "boardId", "name"]).where("siteId", "=", siteId).orderBy("boardId").orderBy("sortOrder").execute();
+  db
+    .selectFrom("sections")
+    .select(["id", "boardId", "name"])
+    .where("siteId", "=", siteId)
+    .orderBy("boardId")
+    .orderBy("sortOrder")
+    .execute();
 export const listPositions = (db: Db, siteId: string, boardId: string) =>
   db
     .selectFrom("positions as p")
@@ -86,8 +124,17 @@ export const pinsOf = (db: Db, siteId: string, defectId: string) =>
     .leftJoin("users as ub", "ub.id", "pn.removedBy")
     .leftJoin("defects as t", "t.id", "pn.relativeTo")
     .select([
-      "pn.id", "pn.direction", "pn.relativeTo", "t.ref as relativeRef", "pn.reason", "pn.pinnedBy", "ua.name as pinnedByName",
-      "pn.pinnedAt", "pn.removedAt", "ub.name as removedByName", "pn.removedReason",
+      "pn.id",
+      "pn.direction",
+      "pn.relativeTo",
+      "t.ref as relativeRef",
+      "pn.reason",
+      "pn.pinnedBy",
+      "ua.name as pinnedByName",
+      "pn.pinnedAt",
+      "pn.removedAt",
+      "ub.name as removedByName",
+      "pn.removedReason",
     ])
     .where("pn.siteId", "=", siteId)
     .where("pn.defectId", "=", defectId)
@@ -95,9 +142,19 @@ export const pinsOf = (db: Db, siteId: string, defectId: string) =>
     .execute();
 
 export const activePin = (db: Db, defectId: string) =>
-  db.selectFrom("defectPins").selectAll().where("defectId", "=", defectId).where("removedAt", "is", null).executeTakeFirst();
+  db
+    .selectFrom("defectPins")
+    .selectAll()
+    .where("defectId", "=", defectId)
+    .where("removedAt", "is", null)
+    .executeTakeFirst();
 export const isPinTarget = async (db: Db, defectId: string) =>
-  !!(await db.selectFrom("defectPins").select("id").where("relativeTo", "=", defectId).where("removedAt", "is", null).executeTakeFirst());
+  !!(await db
+    .selectFrom("defectPins")
+    .select("id")
+    .where("relativeTo", "=", defectId)
+    .where("removedAt", "is", null)
+    .executeTakeFirst());
 
 export const statusHistory = (db: Db, defectId: string) =>
   db
@@ -131,7 +188,14 @@ export const userNames = async (db: Db, ids: Array<string | null>) => {
 
 export const photoCount = async (db: Db, defectId: string) =>
   Number(
-    (await db.selectFrom("photos").select((eb) => eb.fn.countAll<number>().as("n")).where("defectId", "=", defectId).where("deletedAt", "is", null).executeTakeFirstOrThrow()).n,
+    (
+      await db
+        .selectFrom("photos")
+        .select((eb) => eb.fn.countAll<number>().as("n"))
+        .where("defectId", "=", defectId)
+        .where("deletedAt", "is", null)
+        .executeTakeFirstOrThrow()
+    ).n,
   );
 
 /** 1-based place of a defect in the site's ranked order (with pins), as the register shows it. */
@@ -147,20 +211,45 @@ export async function rankOf(db: Db, siteId: string, defectId: string) {
 }
 
 export const listViews = (db: Db, siteId: string, userId: string) =>
-  db.selectFrom("defectViews").select(["id", "name", "query", "version", "updatedAt"]).where("siteId", "=", siteId).where("userId", "=", userId).orderBy("name").execute();
+  db
+    .selectFrom("defectViews")
+    .select(["id", "name", "query", "version", "updatedAt"])
+    .where("siteId", "=", siteId)
+    .where("userId", "=", userId)
+    .orderBy("name")
+    .execute();
 
 /** Where a survey finding sits, for the prefilled "raise a defect" form. */
-export async function findingContext(db: Db, siteId: string, q: { positionId?: string; componentId?: string; inspectionId?: string }) {
+export async function findingContext(
+  db: Db,
+  siteId: string,
+  q: { positionId?: string; componentId?: string; inspectionId?: string },
+) {
   let positionId = q.positionId ?? null;
   let componentId = q.componentId ?? null;
   if (q.inspectionId) {
     const i = await findInspection(db, siteId, q.inspectionId);
-    if (i) { positionId ??= i.positionId; componentId ??= i.componentId; }
+    if (i) {
+      positionId ??= i.positionId;
+      componentId ??= i.componentId;
+    }
   }
   if (!positionId && componentId) positionId = (await findComponent(db, siteId, componentId))?.positionId ?? null;
   if (!positionId) return null;
-  const p = await db.selectFrom("positions").select(["id", "boardId", "sectionId", "designation"]).where("siteId", "=", siteId).where("id", "=", positionId).executeTakeFirst();
+  const p = await db
+    .selectFrom("positions")
+    .select(["id", "boardId", "sectionId", "designation"])
+    .where("siteId", "=", siteId)
+    .where("id", "=", positionId)
+    .executeTakeFirst();
   if (!p) return null;
   componentId ??= (await findPosition(db, siteId, p.id))?.componentId ?? null;
-  return { boardId: p.boardId, sectionId: p.sectionId, positionId: p.id, designation: p.designation, componentId, inspectionId: q.inspectionId ?? null };
+  return {
+    boardId: p.boardId,
+    sectionId: p.sectionId,
+    positionId: p.id,
+    designation: p.designation,
+    componentId,
+    inspectionId: q.inspectionId ?? null,
+  };
 }

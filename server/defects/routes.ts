@@ -2,7 +2,16 @@ import { Router, type Request, type Response } from "express";
 import { z } from "zod";
 import type { Role } from "../../src/domain/vocab";
 import {
-  assignBody, bulkBody, createDefectBody, linkReadingBody, listQuery, patchDefectBody, pinBody, transitionBody, unpinBody, viewBody,
+  assignBody,
+  bulkBody,
+  createDefectBody,
+  linkReadingBody,
+  listQuery,
+  patchDefectBody,
+  pinBody,
+  transitionBody,
+  unpinBody,
+  viewBody,
 } from "../../src/schemas/defects";
 import type { Db } from "../db";
 import type { MailDeps } from "../mail/mailer";
@@ -66,7 +75,11 @@ export function defectRoutes(db: Db, mail?: MailDeps) {
 
   r.get(`${base}/options`, member, async (req, res) => {
     const { siteId } = ctxOf(req, res);
-    const [boards, sections, crew] = await Promise.all([repo.listBoards(db, siteId), repo.listSections(db, siteId), repo.listCrew(db, siteId)]);
+    const [boards, sections, crew] = await Promise.all([
+      repo.listBoards(db, siteId),
+      repo.listSections(db, siteId),
+      repo.listCrew(db, siteId),
+    ]);
     res.json({ boards, sections, crew });
   });
 
@@ -76,7 +89,9 @@ export function defectRoutes(db: Db, mail?: MailDeps) {
   });
 
   r.get("/sites/:siteId/defect-context", member, async (req, res) => {
-    const q = z.object({ positionId: z.uuid().optional(), componentId: z.uuid().optional(), inspectionId: z.uuid().optional() }).parse(req.query);
+    const q = z
+      .object({ positionId: z.uuid().optional(), componentId: z.uuid().optional(), inspectionId: z.uuid().optional() })
+      .parse(req.query);
     res.json({ context: await repo.findingContext(db, ctxOf(req, res).siteId, q) });
   });
 
@@ -88,7 +103,9 @@ export function defectRoutes(db: Db, mail?: MailDeps) {
     res.json({ views: await views.listViews(db, ctxOf(req, res).siteId, res.locals.user!.id) });
   });
   r.post(`${base}/views`, member, async (req, res) => {
-    res.status(201).json({ view: await views.saveView(db, ctxOf(req, res).siteId, res.locals.user!.id, viewBody.parse(req.body)) });
+    res
+      .status(201)
+      .json({ view: await views.saveView(db, ctxOf(req, res).siteId, res.locals.user!.id, viewBody.parse(req.body)) });
   });
   r.put(`${base}/views/:viewId`, member, async (req, res) => {
     const { siteId, viewId } = viewParams.parse(req.params);
@@ -120,7 +137,9 @@ export function defectRoutes(db: Db, mail?: MailDeps) {
   });
   r.post(`${base}/:defectId/readings`, raisers, async (req, res) => {
     const ctx = ctxOf(req, res);
-    res.status(201).json(await service.addReadingLink(db, ctx, one.parse(req.params).defectId, linkReadingBody.parse(req.body)));
+    res
+      .status(201)
+      .json(await service.addReadingLink(db, ctx, one.parse(req.params).defectId, linkReadingBody.parse(req.body)));
   });
   r.get("/sites/:siteId/boards/:boardId/reading-defects", member, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);

@@ -27,7 +27,11 @@ export interface DefectNotice {
 type Locked = NonNullable<Awaited<ReturnType<typeof repo.lockDefect>>>;
 
 /** priority_score for the stored fields; original fabric comes from the linked component. */
-export async function scoreFor(db: Db, siteId: string, d: Pick<Locked, "severity" | "safetyCritical" | "blocksEnergisation" | "effortHours" | "partsState" | "componentId">) {
+export async function scoreFor(
+  db: Db,
+  siteId: string,
+  d: Pick<Locked, "severity" | "safetyCritical" | "blocksEnergisation" | "effortHours" | "partsState" | "componentId">,
+) {
   const heritage = await repo.componentHeritage(db, siteId, d.componentId);
   return priorityScore({
     severity: d.severity,
@@ -48,13 +52,32 @@ async function lockAt(db: Db, ctx: Ctx, id: string, version?: number) {
   const d = await repo.lockDefect(db, ctx.siteId, id);
   if (!d) throw notFound("That defect");
   if (version !== undefined && d.version !== version)
-    throw conflict("Someone changed this defect since you opened it. Check the current values and try again.", await current(db, ctx.siteId, id));
+    throw conflict(
+      "Someone changed this defect since you opened it. Check the current values and try again.",
+      await current(db, ctx.siteId, id),
+    );
   return d;
 }
 
 /** Board, section, position, component and inspection must all be of this site and agree. */
-async function resolveLinks(db: Db, siteId: string, b: { boardId: string; sectionId?: string | null; positionId?: string | null; componentId?: string | null; inspectionId?: string | null }) {
-  const out = { boardId: b.boardId, sectionId: b.sectionId ?? null, positionId: b.positionId ?? null, componentId: b.componentId ?? null, inspectionId: b.inspectionId ?? null };
+async function resolveLinks(
+  db: Db,
+  siteId: string,
+  b: {
+    boardId: string;
+    sectionId?: string | null;
+    positionId?: string | null;
+    componentId?: string | null;
+    inspectionId?: string | null;
+  },
+) {
+  const out = {
+    boardId: b.boardId,
+    sectionId: b.sectionId ?? null,
+    positionId: b.positionId ?? null,
+    componentId: b.componentId ?? null,
+    inspectionId: b.inspectionId ?? null,
+  };
   const bad = (field: string, msg: string) => new AppError(400, "invalid_input", msg, { [field]: msg });
   if (out.inspectionId) {
     const i = await repo.findInspection(db, siteId, out.inspectionId);
@@ -72,7 +95,8 @@ async function resolveLinks(db: Db, siteId: string, b: { boardId: string; sectio
   if (out.componentId) {
     const c = await repo.findComponent(db, siteId, out.componentId);
     if (!c) throw bad("componentId", "That component is not on this site");
-    if (out.positionId && c.positionId !== out.positionId) throw bad("componentId", "That component belongs to another position");
+    if (out.positionId && c.positionId !== out.positionId)
+      throw bad("componentId", "That component belongs to another position");
   }
   if (!(await repo.findBoard(db, siteId, out.boardId))) throw bad("boardId", "That board is not on this site");
   if (out.sectionId) {
@@ -83,35 +107,67 @@ async function resolveLinks(db: Db, siteId: string, b: { boardId: string; sectio
 }
 
 /** Inserts a defect with its first status and audit entry, inside the caller's transaction. */
-async function insertRaised(trx: Db, ctx: Pick<Ctx, "siteId" | "actor">, body: Omit<CreateDefectBody, "assigneeId" | "fromReading">, auditAction = "create") {
+async function insertRaised(
+  trx: Db,
+  ctx: Pick<Ctx, "siteId" | "actor">,
+  body: Omit<CreateDefectBody, "assigneeId" | "fromReading">,
+  auditAction = "create",
+) {
   const links = await resolveLinks(trx, ctx.siteId, body);
   const values = { ...body, ...links, siteId: ctx.siteId, createdBy: ctx.actor.id };
   const { score } = await scoreFor(trx, ctx.siteId, { ...values, effortHours: values.effortHours });
   const { id } = await repo.insertDefect(trx, { ...values, priorityScore: score });
-  await repo.insertStatusChange(trx, { siteId: ctx.siteId, defectId: id, fromStatus: null, toStatus: "raised", actorId: ctx.actor.id });
-  await recordAudit(trx, { siteId: ctx.siteId, entityType: "defect", entityId: id, action: auditAction, actorId: ctx.actor.id, boardId: links.boardId, positionId: links.positionId, after: values });
+  await repo.insertStatusChange(trx, {
+    siteId: ctx.siteId,
+    defectId: id,
+    fromStatus: null,
+    toStatus: "raised",
+    actorId: ctx.actor.id,
+  });
+  await recordAudit(trx, {
+    siteId: ctx.siteId,
+    entityType: "defect",
+    entityId: id,
+    action: auditAction,
+    actorId: ctx.actor.id,
+    boardId: links.boardId,
+    positionId: links.positionId,
+    after: values,
+  });
   return id;
 }
 
 export async function createDefect(db: Db, ctx: Ctx, body: CreateDefectBody) {
   if (!canRaise(ctx.actor.role)) throw forbidden("Your role on this site cannot raise defects.");
-  if ((body.assigneeId || body.dueOn) && !canManage(ctx.actor.role)) throw forbidden("Only the curator assigns defects and sets due dates.");
+  if ((body.assigneeId || body.dueOn) && !canManage(ctx.actor.role))
+    throw forbidden("Only the curator assigns defects and sets due dates.");
   return db.transaction().execute(async (trx) => {
     const { assigneeId, fromReading, ...rest } = body;
     const id = await insertRaised(trx, ctx, rest);
     if (assigneeId) await assign(trx, ctx, await lockAt(trx, ctx, id), assigneeId);
-    if (fromReading) await linkReading(trx, ctx.siteId, ctx.actor.id, (await lockAt(trx, ctx, id))!, { readingKind: fromReading.kind, readingId: fromReading.id, role: "raised_from" });
+    if (fromReading)
+      await linkReading(trx, ctx.siteId, ctx.actor.id, (await lockAt(trx, ctx, id))!, {
+        readingKind: fromReading.kind,
+        readingId: fromReading.id,
+        role: "raised_from",
+      });
     await demandChanged(trx, ctx.siteId, { defectIds: [id] }, ctx.actor.id); // parts wanted → the wanted list, in this transaction
     return (await current(trx, ctx.siteId, id))!;
   });
 }
 
 /** Links a re-test (or origin) reading to a defect: the curator, or a volunteer who raised, holds or repaired it. */
-export async function addReadingLink(db: Db, ctx: Ctx, id: string, b: { readingKind: ReadingKind; readingId: string; role: "raised_from" | "retest" }) {
+export async function addReadingLink(
+  db: Db,
+  ctx: Ctx,
+  id: string,
+  b: { readingKind: ReadingKind; readingId: string; role: "raised_from" | "retest" },
+) {
   return db.transaction().execute(async (trx) => {
     const d = await lockAt(trx, ctx, id);
     const own = [d.createdBy, d.assigneeId, d.repairedBy].includes(ctx.actor.id);
-    if (!canManage(ctx.actor.role) && !(ctx.actor.role === "volunteer" && own)) throw forbidden("Only the curator, or the volunteer working on it, links readings to this defect.");
+    if (!canManage(ctx.actor.role) && !(ctx.actor.role === "volunteer" && own))
+      throw forbidden("Only the curator, or the volunteer working on it, links readings to this defect.");
     await linkReading(trx, ctx.siteId, ctx.actor.id, d, b);
     return evidenceOf(trx, ctx.siteId, d);
   });
@@ -126,13 +182,38 @@ export async function addReadingLink(db: Db, ctx: Ctx, id: string, b: { readingK
 export async function raiseIncidentDefect(
   trx: Db,
   ctx: Pick<Ctx, "siteId" | "actor">,
-  b: { boardId: string; positionId: string | null; title: string; description: string; category: CreateDefectBody["category"]; severity?: CreateDefectBody["severity"] },
+  b: {
+    boardId: string;
+    positionId: string | null;
+    title: string;
+    description: string;
+    category: CreateDefectBody["category"];
+    severity?: CreateDefectBody["severity"];
+  },
 ) {
-  const id = await insertRaised(trx, ctx, {
-    boardId: b.boardId, positionId: b.positionId, sectionId: null, componentId: null, inspectionId: null,
-    title: b.title.slice(0, 200), description: b.description.slice(0, 8000), category: b.category, severity: b.severity ?? "disabling",
-    safetyCritical: true, blocksEnergisation: true, effortHours: null, costEstimate: null, partsNeeded: "", partsState: "none_needed", dueOn: null,
-  }, "incident");
+  const id = await insertRaised(
+    trx,
+    ctx,
+    {
+      boardId: b.boardId,
+      positionId: b.positionId,
+      sectionId: null,
+      componentId: null,
+      inspectionId: null,
+      title: b.title.slice(0, 200),
+      description: b.description.slice(0, 8000),
+      category: b.category,
+      severity: b.severity ?? "disabling",
+      safetyCritical: true,
+      blocksEnergisation: true,
+      effortHours: null,
+      costEstimate: null,
+      partsNeeded: "",
+      partsState: "none_needed",
+      dueOn: null,
+    },
+    "incident",
+  );
   const row = await repo.lockDefect(trx, ctx.siteId, id);
   return { id, ref: Number(row!.ref) };
 }
@@ -140,14 +221,17 @@ export async function raiseIncidentDefect(
 export async function patchDefect(db: Db, ctx: Ctx, id: string, body: PatchDefectBody) {
   return db.transaction().execute(async (trx) => {
     const d = await lockAt(trx, ctx, id, body.version);
-    if (!canEdit(d, ctx.actor)) throw forbidden("Only the curator, or the volunteer who raised it, can edit this defect.");
+    if (!canEdit(d, ctx.actor))
+      throw forbidden("Only the curator, or the volunteer who raised it, can edit this defect.");
     const { version: _v, assigneeId, ...fields } = body;
-    if ((assigneeId !== undefined || fields.dueOn !== undefined) && !canManage(ctx.actor.role)) throw forbidden("Only the curator assigns defects and sets due dates.");
+    if ((assigneeId !== undefined || fields.dueOn !== undefined) && !canManage(ctx.actor.role))
+      throw forbidden("Only the curator assigns defects and sets due dates.");
     const links = await resolveLinks(trx, ctx.siteId, {
       boardId: d.boardId,
       sectionId: fields.sectionId !== undefined ? fields.sectionId : d.sectionId,
       positionId: fields.positionId !== undefined ? fields.positionId : d.positionId,
-      componentId: fields.componentId !== undefined ? fields.componentId : fields.positionId !== undefined ? null : d.componentId,
+      componentId:
+        fields.componentId !== undefined ? fields.componentId : fields.positionId !== undefined ? null : d.componentId,
     });
     const next = { ...d, ...fields, ...links };
     const { score } = await scoreFor(trx, ctx.siteId, next);
@@ -157,7 +241,17 @@ export async function patchDefect(db: Db, ctx: Ctx, id: string, body: PatchDefec
       const ok = await repo.updateDefect(trx, id, version, { ...fields, ...links, priorityScore: score });
       if (!ok) throw conflict("Someone changed this defect at the same moment.", await current(trx, ctx.siteId, id));
       version += 1;
-      await recordAudit(trx, { siteId: ctx.siteId, entityType: "defect", entityId: id, action: "update", actorId: ctx.actor.id, boardId: d.boardId, positionId: next.positionId, before: change.before, after: change.after });
+      await recordAudit(trx, {
+        siteId: ctx.siteId,
+        entityType: "defect",
+        entityId: id,
+        action: "update",
+        actorId: ctx.actor.id,
+        boardId: d.boardId,
+        positionId: next.positionId,
+        before: change.before,
+        after: change.after,
+      });
       await demandChanged(trx, ctx.siteId, { defectIds: [id] }, ctx.actor.id);
     }
     if (assigneeId !== undefined && assigneeId !== d.assigneeId) await assign(trx, ctx, { ...d, version }, assigneeId);
@@ -169,21 +263,55 @@ export async function patchDefect(db: Db, ctx: Ctx, id: string, body: PatchDefec
 export async function assign(trx: Db, ctx: Ctx, d: Locked, assigneeId: string | null) {
   if (!canManage(ctx.actor.role)) throw forbidden("Only the curator assigns defects.");
   if (assigneeId && !(await repo.memberRole(trx, ctx.siteId, assigneeId)))
-    throw new AppError(400, "invalid_input", "That person is not on this site's crew.", { assigneeId: "Not on the crew" });
+    throw new AppError(400, "invalid_input", "That person is not on this site's crew.", {
+      assigneeId: "Not on the crew",
+    });
   if (assigneeId === d.assigneeId) return d.version;
   const ok = await repo.updateDefect(trx, d.id, d.version, { assigneeId });
   if (!ok) throw conflict("Someone changed this defect at the same moment.", await current(trx, ctx.siteId, d.id));
-  await recordAudit(trx, { siteId: ctx.siteId, entityType: "defect", entityId: d.id, action: "assign", actorId: ctx.actor.id, boardId: d.boardId, positionId: d.positionId, before: { assigneeId: d.assigneeId }, after: { assigneeId } });
+  await recordAudit(trx, {
+    siteId: ctx.siteId,
+    entityType: "defect",
+    entityId: d.id,
+    action: "assign",
+    actorId: ctx.actor.id,
+    boardId: d.boardId,
+    positionId: d.positionId,
+    before: { assigneeId: d.assigneeId },
+    after: { assigneeId },
+  });
   if (assigneeId) ctx.notices?.push({ kind: "assigned", defectId: d.id });
   return d.version + 1;
 }
 
-const TRANSITION_STATUS = { forbidden: 403, reason_required: 400, not_allowed: 409, same_person: 409, no_repairer: 409, evidence_required: 422 } as const;
+const TRANSITION_STATUS = {
+  forbidden: 403,
+  reason_required: 400,
+  not_allowed: 409,
+  same_person: 409,
+  no_repairer: 409,
+  evidence_required: 422,
+} as const;
 
 /** THE status-change use case: checks the workflow rules, records history and audit. */
-export async function transition(trx: Db, ctx: Ctx, d: Locked, to: DefectStatus, opts: { reason?: string; repairedBy?: string | null } = {}) {
-  const r = checkTransition(d, to, ctx.actor, { ...opts, ...(to === "closed" ? { evidence: await repairEvidence(trx, ctx.siteId, d.id) } : {}) });
-  if (!r.ok) throw new AppError(TRANSITION_STATUS[r.code], r.code, r.message, r.code === "reason_required" ? { reason: r.message } : undefined);
+export async function transition(
+  trx: Db,
+  ctx: Ctx,
+  d: Locked,
+  to: DefectStatus,
+  opts: { reason?: string; repairedBy?: string | null } = {},
+) {
+  const r = checkTransition(d, to, ctx.actor, {
+    ...opts,
+    ...(to === "closed" ? { evidence: await repairEvidence(trx, ctx.siteId, d.id) } : {}),
+  });
+  if (!r.ok)
+    throw new AppError(
+      TRANSITION_STATUS[r.code],
+      r.code,
+      r.message,
+      r.code === "reason_required" ? { reason: r.message } : undefined,
+    );
   const reason = opts.reason?.trim() ?? "";
   const patch = {
     status: to,
@@ -194,13 +322,35 @@ export async function transition(trx: Db, ctx: Ctx, d: Locked, to: DefectStatus,
   };
   const ok = await repo.updateDefect(trx, d.id, d.version, patch as any);
   if (!ok) throw conflict("Someone changed this defect at the same moment.", await current(trx, ctx.siteId, d.id));
-  await repo.insertStatusChange(trx, { siteId: ctx.siteId, defectId: d.id, fromStatus: d.status, toStatus: to, reason, actorId: ctx.actor.id });
-  await recordAudit(trx, { siteId: ctx.siteId, entityType: "defect", entityId: d.id, action: "status", actorId: ctx.actor.id, boardId: d.boardId, positionId: d.positionId, before: { status: d.status }, after: { status: to, reason, ...r.set } });
+  await repo.insertStatusChange(trx, {
+    siteId: ctx.siteId,
+    defectId: d.id,
+    fromStatus: d.status,
+    toStatus: to,
+    reason,
+    actorId: ctx.actor.id,
+  });
+  await recordAudit(trx, {
+    siteId: ctx.siteId,
+    entityType: "defect",
+    entityId: d.id,
+    action: "status",
+    actorId: ctx.actor.id,
+    boardId: d.boardId,
+    positionId: d.positionId,
+    before: { status: d.status },
+    after: { status: to, reason, ...r.set },
+  });
   if (to === "awaiting_retest") ctx.notices?.push({ kind: "awaiting_verification", defectId: d.id });
   return d.version + 1;
 }
 
-export async function moveDefect(db: Db, ctx: Ctx, id: string, b: { to: DefectStatus; reason: string; repairedBy?: string | null; version: number }) {
+export async function moveDefect(
+  db: Db,
+  ctx: Ctx,
+  id: string,
+  b: { to: DefectStatus; reason: string; repairedBy?: string | null; version: number },
+) {
   return db.transaction().execute(async (trx) => {
     await transition(trx, ctx, await lockAt(trx, ctx, id, b.version), b.to, b);
     await demandChanged(trx, ctx.siteId, { defectIds: [id] }, ctx.actor.id); // closed / won't fix / reopened changes what is wanted
@@ -223,7 +373,10 @@ export async function bulk(db: Db, ctx: Ctx, b: BulkBody) {
     const errors: Record<string, string> = {};
     for (const id of ids) {
       const d = await repo.lockDefect(trx, ctx.siteId, id);
-      if (!d) { errors[id] = "Not found on this site"; continue; }
+      if (!d) {
+        errors[id] = "Not found on this site";
+        continue;
+      }
       try {
         if (b.action.type === "assign") await assign(trx, ctx, d, b.action.assigneeId);
         else if (b.action.type === "status") await transition(trx, ctx, d, b.action.to, { reason: b.action.reason });
@@ -234,7 +387,12 @@ export async function bulk(db: Db, ctx: Ctx, b: BulkBody) {
       }
     }
     if (Object.keys(errors).length)
-      throw new AppError(409, "bulk_rejected", `Nothing was changed: ${Object.keys(errors).length} of ${ids.length} defects cannot take that change.`, errors);
+      throw new AppError(
+        409,
+        "bulk_rejected",
+        `Nothing was changed: ${Object.keys(errors).length} of ${ids.length} defects cannot take that change.`,
+        errors,
+      );
     if (b.action.type === "status") await demandChanged(trx, ctx.siteId, { defectIds: ids }, ctx.actor.id);
     return { updated: ids.length };
   });
@@ -243,5 +401,15 @@ export async function bulk(db: Db, ctx: Ctx, b: BulkBody) {
 async function setDue(trx: Db, ctx: Ctx, d: Locked, dueOn: string | null) {
   if (d.dueOn === dueOn) return;
   await repo.updateDefect(trx, d.id, d.version, { dueOn });
-  await recordAudit(trx, { siteId: ctx.siteId, entityType: "defect", entityId: d.id, action: "update", actorId: ctx.actor.id, boardId: d.boardId, positionId: d.positionId, before: { dueOn: d.dueOn }, after: { dueOn } });
+  await recordAudit(trx, {
+    siteId: ctx.siteId,
+    entityType: "defect",
+    entityId: d.id,
+    action: "update",
+    actorId: ctx.actor.id,
+    boardId: d.boardId,
+    positionId: d.positionId,
+    before: { dueOn: d.dueOn },
+    after: { dueOn },
+  });
 }

@@ -11,17 +11,32 @@ function checkQuery(query: string) {
   const obj: Record<string, string | string[]> = {};
   for (const k of new Set(params.keys())) obj[k] = params.getAll(k).length > 1 ? params.getAll(k) : params.get(k)!;
   const r = listQuery.passthrough().safeParse(obj);
-  if (!r.success) throw new AppError(400, "invalid_input", "That view's filters are not valid.", { query: r.error.issues[0]?.message ?? "invalid" });
+  if (!r.success)
+    throw new AppError(400, "invalid_input", "That view's filters are not valid.", {
+      query: r.error.issues[0]?.message ?? "invalid",
+    });
 }
 
-const taken = () => new AppError(409, "name_taken", "You already have a view with that name.", { name: "Already used" });
+const taken = () =>
+  new AppError(409, "name_taken", "You already have a view with that name.", { name: "Already used" });
 
 export async function saveView(db: Db, siteId: string, userId: string, b: { name: string; query: string }) {
   checkQuery(b.query);
   try {
     return await db.transaction().execute(async (trx) => {
-      const row = await trx.insertInto("defectViews").values({ siteId, userId, name: b.name, query: b.query }).returning(["id", "name", "query", "version", "updatedAt"]).executeTakeFirstOrThrow();
-      await recordAudit(trx, { siteId, entityType: "defect_view", entityId: row.id, action: "create", actorId: userId, after: b });
+      const row = await trx
+        .insertInto("defectViews")
+        .values({ siteId, userId, name: b.name, query: b.query })
+        .returning(["id", "name", "query", "version", "updatedAt"])
+        .executeTakeFirstOrThrow();
+      await recordAudit(trx, {
+        siteId,
+        entityType: "defect_view",
+        entityId: row.id,
+        action: "create",
+        actorId: userId,
+        after: b,
+      });
       return row;
     });
   } catch (e) {
@@ -30,18 +45,33 @@ export async function saveView(db: Db, siteId: string, userId: string, b: { name
   }
 }
 
-export async function updateView(db: Db, siteId: string, userId: string, id: string, b: { name: string; query: string }) {
+export async function updateView(
+  db: Db,
+  siteId: string,
+  userId: string,
+  id: string,
+  b: { name: string; query: string },
+) {
   checkQuery(b.query);
   try {
     return await db.transaction().execute(async (trx) => {
       const row = await trx
         .updateTable("defectViews")
         .set({ name: b.name, query: b.query, version: sql`version + 1`, updatedAt: sql`now()` })
-        .where("id", "=", id).where("siteId", "=", siteId).where("userId", "=", userId)
+        .where("id", "=", id)
+        .where("siteId", "=", siteId)
+        .where("userId", "=", userId)
         .returning(["id", "name", "query", "version", "updatedAt"])
         .executeTakeFirst();
       if (!row) throw notFound("That saved view");
-      await recordAudit(trx, { siteId, entityType: "defect_view", entityId: id, action: "update", actorId: userId, after: b });
+      await recordAudit(trx, {
+        siteId,
+        entityType: "defect_view",
+        entityId: id,
+        action: "update",
+        actorId: userId,
+        after: b,
+      });
       return row;
     });
   } catch (e) {
@@ -52,7 +82,12 @@ export async function updateView(db: Db, siteId: string, userId: string, id: str
 
 export async function deleteView(db: Db, siteId: string, userId: string, id: string) {
   await db.transaction().execute(async (trx) => {
-    const r = await trx.deleteFrom("defectViews").where("id", "=", id).where("siteId", "=", siteId).where("userId", "=", userId).executeTakeFirst();
+    const r = await trx
+      .deleteFrom("defectViews")
+      .where("id", "=", id)
+      .where("siteId", "=", siteId)
+      .where("userId", "=", userId)
+      .executeTakeFirst();
     if (!r.numDeletedRows) throw notFound("That saved view");
     await recordAudit(trx, { siteId, entityType: "defect_view", entityId: id, action: "delete", actorId: userId });
   });

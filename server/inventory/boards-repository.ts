@@ -3,11 +3,24 @@ import type { BoardsTable, FloodEventsTable, SectionsTable } from "../../db/type
 import type { Db } from "../db";
 
 export const listFloodEvents = (db: Db, siteId: string) =>
-  db.selectFrom("floodEvents").selectAll().where("siteId", "=", siteId).orderBy("occurredOn", "desc").orderBy("createdAt", "desc").execute();
+  db
+    .selectFrom("floodEvents")
+    .selectAll()
+    .where("siteId", "=", siteId)
+    .orderBy("occurredOn", "desc")
+    .orderBy("createdAt", "desc")
+    .execute();
 
 /** The flood event recommendations use: the most recent one. */
 export const latestFloodEvent = (db: Db, siteId: string) =>
-  db.selectFrom("floodEvents").selectAll().where("siteId", "=", siteId).orderBy("occurredOn", "desc").orderBy("createdAt", "desc").limit(1).executeTakeFirst();
+  db
+    .selectFrom("floodEvents")
+    .selectAll()
+    .where("siteId", "=", siteId)
+    .orderBy("occurredOn", "desc")
+    .orderBy("createdAt", "desc")
+    .limit(1)
+    .executeTakeFirst();
 
 export const insertFloodEvent = (db: Db, v: Insertable<FloodEventsTable>) =>
   db.insertInto("floodEvents").values(v).returningAll().executeTakeFirstOrThrow();
@@ -20,27 +33,42 @@ export const insertFloodEvent = (db: Db, v: Insertable<FloodEventsTable>) =>
 export const listBoards = (db: Db, siteId: string) =>
   db
     .with("counts", (w) =>
-      w.selectFrom("positions as p")
+      w
+        .selectFrom("positions as p")
         .leftJoin(
-          (eb) => eb.selectFrom("inspections as i").select("i.positionId").distinct().where("i.siteId", "=", siteId).as("s"),
+          (eb) =>
+            eb.selectFrom("inspections as i").select("i.positionId").distinct().where("i.siteId", "=", siteId).as("s"),
           (j) => j.onRef("s.positionId", "=", "p.id"),
         )
-        .select(["p.boardId", (eb) => eb.fn.countAll<number>().as("n"), (eb) => eb.fn.count<number>("s.positionId").as("surveyed")])
+        .select([
+          "p.boardId",
+          (eb) => eb.fn.countAll<number>().as("n"),
+          (eb) => eb.fn.count<number>("s.positionId").as("surveyed"),
+        ])
         .where("p.siteId", "=", siteId)
         .groupBy("p.boardId"),
     )
     .selectFrom("boards as b")
     .leftJoin("counts", "counts.boardId", "b.id")
     .selectAll("b")
-    .select([sql<number>`coalesce(counts.n, 0)::int`.as("positionCount"), sql<number>`coalesce(counts.surveyed, 0)::int`.as("surveyedCount")])
+    .select([
+      sql<number>`coalesce(counts.n, 0)::int`.as("positionCount"),
+      sql<number>`coalesce(counts.surveyed, 0)::int`.as("surveyedCount"),
+    ])
     .where("b.siteId", "=", siteId)
     .orderBy("b.name")
     .execute();
 
 export const boardByName = (db: Db, siteId: string, name: string) =>
-  db.selectFrom("boards").select("id").where("siteId", "=", siteId).where(sql<string>`lower(name)`, "=", name.trim().toLowerCase()).executeTakeFirst();
+  db
+    .selectFrom("boards")
+    .select("id")
+    .where("siteId", "=", siteId)
+    .where(sql<string>`lower(name)`, "=", name.trim().toLowerCase())
+    .executeTakeFirst();
 
-export const insertBoard = (db: Db, v: Insertable<BoardsTable>) => db.insertInto("boards").values(v).returningAll().executeTakeFirstOrThrow();
+export const insertBoard = (db: Db, v: Insertable<BoardsTable>) =>
+  db.insertInto("boards").values(v).returningAll().executeTakeFirstOrThrow();
 
 /** The furthest row and column any position of the board reaches (its span included). */
 export const boardExtent = (db: Db, boardId: string) =>
@@ -58,9 +86,16 @@ export const listSections = (db: Db, boardId: string) =>
 
 export const nextSectionOrder = async (db: Db, boardId: string) =>
   Number(
-    (await db.selectFrom("sections").select((eb) => eb.fn.coalesce(eb.fn.max("sortOrder"), eb.lit(-1)).as("m")).where("boardId", "=", boardId).executeTakeFirstOrThrow()).m,
+    (
+      await db
+        .selectFrom("sections")
+        .select((eb) => eb.fn.coalesce(eb.fn.max("sortOrder"), eb.lit(-1)).as("m"))
+        .where("boardId", "=", boardId)
+        .executeTakeFirstOrThrow()
+    ).m,
   ) + 1;
 
-export const insertSection = (db: Db, v: Insertable<SectionsTable>) => db.insertInto("sections").values(v).returningAll().executeTakeFirstOrThrow();
+export const insertSection = (db: Db, v: Insertable<SectionsTable>) =>
+  db.insertInto("sections").values(v).returningAll().executeTakeFirstOrThrow();
 
 export const deleteSection = (db: Db, id: string) => db.deleteFrom("sections").where("id", "=", id).execute();

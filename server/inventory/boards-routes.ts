@@ -1,8 +1,17 @@
 /** Flood events, boards, sections and the site overview. Any member reads; the curator writes. */
 import { Router } from "express";
 import {
-  boardParams, createBoardBody, createFloodEventBody, createSectionBody, deleteQuery, floodEventParams,
-  patchBoardBody, patchFloodEventBody, patchSectionBody, sectionParams, siteParams,
+  boardParams,
+  createBoardBody,
+  createFloodEventBody,
+  createSectionBody,
+  deleteQuery,
+  floodEventParams,
+  patchBoardBody,
+  patchFloodEventBody,
+  patchSectionBody,
+  sectionParams,
+  siteParams,
 } from "../../src/schemas/inventory";
 import type { Db } from "../db";
 import { requireSiteRole } from "../middleware/roles";
@@ -28,16 +37,26 @@ export function boardRoutes(db: Db) {
   });
   r.post(`${S}/flood-events`, curator, async (req, res) => {
     const { siteId } = siteParams.parse(req.params);
-    res.status(201).json(await service.createFloodEvent(db, siteId, actorOf(res), createFloodEventBody.parse(req.body)));
+    res
+      .status(201)
+      .json(await service.createFloodEvent(db, siteId, actorOf(res), createFloodEventBody.parse(req.body)));
   });
   r.patch(`${S}/flood-events/:floodEventId`, curator, async (req, res) => {
     const { siteId, floodEventId } = floodEventParams.parse(req.params);
-    res.json(await service.patchFloodEvent(db, siteId, floodEventId, actorOf(res), patchFloodEventBody.parse(req.body)));
+    res.json(
+      await service.patchFloodEvent(db, siteId, floodEventId, actorOf(res), patchFloodEventBody.parse(req.body)),
+    );
   });
 
   r.get(`${S}/boards`, anyMember, async (req, res) => {
     const rows = await repo.listBoards(db, siteParams.parse(req.params).siteId);
-    res.json(rows.map((b) => ({ ...b, positionCount: Number(b.positionCount ?? 0), surveyedCount: Number(b.surveyedCount ?? 0) })));
+    res.json(
+      rows.map((b) => ({
+        ...b,
+        positionCount: Number(b.positionCount ?? 0),
+        surveyedCount: Number(b.surveyedCount ?? 0),
+      })),
+    );
   });
   r.post(`${S}/boards`, curator, async (req, res) => {
     const { siteId } = siteParams.parse(req.params);
@@ -56,7 +75,9 @@ export function boardRoutes(db: Db) {
 
   r.post(`${S}/boards/:boardId/sections`, curator, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);
-    res.status(201).json(await service.createSection(db, siteId, boardId, actorOf(res), createSectionBody.parse(req.body)));
+    res
+      .status(201)
+      .json(await service.createSection(db, siteId, boardId, actorOf(res), createSectionBody.parse(req.body)));
   });
   r.patch(`${S}/sections/:sectionId`, curator, async (req, res) => {
     const { siteId, sectionId } = sectionParams.parse(req.params);

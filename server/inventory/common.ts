@@ -14,14 +14,31 @@ export type Row<T extends Editable> = Selectable<Database[T]>;
 
 export const actorOf = (res: Response) => res.locals.user!.id;
 
-export async function findOwned<T extends Editable>(db: Db, table: T, siteId: string, id: string, lock = false): Promise<Row<T> | undefined> {
+export async function findOwned<T extends Editable>(
+  db: Db,
+  table: T,
+  siteId: string,
+  id: string,
+  lock = false,
+): Promise<Row<T> | undefined> {
   // The table name is a closed union, so the dynamic select stays type-safe at the call site.
-  let q = (db as Db).selectFrom(table as "boards").selectAll().where("id", "=", id).where("siteId", "=", siteId);
+  let q = (db as Db)
+    .selectFrom(table as "boards")
+    .selectAll()
+    .where("id", "=", id)
+    .where("siteId", "=", siteId);
   if (lock) q = q.forUpdate();
   return (await q.executeTakeFirst()) as Row<T> | undefined;
 }
 
-export async function requireOwned<T extends Editable>(db: Db, table: T, siteId: string, id: string, what: string, lock = false) {
+export async function requireOwned<T extends Editable>(
+  db: Db,
+  table: T,
+  siteId: string,
+  id: string,
+  what: string,
+  lock = false,
+) {
   const row = await findOwned(db, table, siteId, id, lock);
   if (!row) throw notFound(what);
   return row;
@@ -29,14 +46,23 @@ export async function requireOwned<T extends Editable>(db: Db, table: T, siteId:
 
 /** The stale-version 409: message for people, the current record for the form to show. */
 export const stale = (what: string, current: unknown) =>
-  conflict(`Someone else changed this ${what} since you opened it. Their version is shown; re-apply your change to it.`, current);
+  conflict(
+    `Someone else changed this ${what} since you opened it. Their version is shown; re-apply your change to it.`,
+    current,
+  );
 
 /**
  * Applies `patch` only if the row is still at `version`; bumps version and updated_at.
  * Returns the new row, or throws 404 (gone) / 409 with the fresh record (stale).
  */
 export async function updateVersioned<T extends Editable>(
-  db: Db, table: T, siteId: string, id: string, version: number, patch: Record<string, unknown>, what: string,
+  db: Db,
+  table: T,
+  siteId: string,
+  id: string,
+  version: number,
+  patch: Record<string, unknown>,
+  what: string,
 ): Promise<Row<T>> {
   const updated = await db
     .updateTable(table as "boards")
@@ -53,7 +79,10 @@ export async function updateVersioned<T extends Editable>(
 }
 
 /** PostgreSQL unique_violation (23505) on the named index, as a 409 with a field message. */
-export async function mapUnique<T>(work: () => Promise<T>, byIndex: Record<string, [field: string, message: string]>): Promise<T> {
+export async function mapUnique<T>(
+  work: () => Promise<T>,
+  byIndex: Record<string, [field: string, message: string]>,
+): Promise<T> {
   try {
     return await work();
   } catch (e) {
@@ -67,8 +96,18 @@ export async function mapUnique<T>(work: () => Promise<T>, byIndex: Record<strin
 }
 
 export const UNIQUE = {
-  designation: { positions_board_designation_uq: ["designation", "That designation is already used on this board"] as [string, string] },
-  tag: { components_tag_uq: ["tagNumber", "That tag number is already on another component of this site"] as [string, string] },
+  designation: {
+    positions_board_designation_uq: ["designation", "That designation is already used on this board"] as [
+      string,
+      string,
+    ],
+  },
+  tag: {
+    components_tag_uq: ["tagNumber", "That tag number is already on another component of this site"] as [
+      string,
+      string,
+    ],
+  },
 };
 
 /** Drops undefined keys, so a PATCH only touches what it names. */

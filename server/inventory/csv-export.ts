@@ -25,30 +25,101 @@ const page = (db: Db, siteId: string, after: Key | null) =>
     .leftJoin("components as c", (j) => j.onRef("c.positionId", "=", "p.id").on("c.retiredAt", "is", null))
     .leftJoinLateral(
       (eb) =>
-        eb.selectFrom("inspections as i").select(["i.percentRusted", "i.astmGrade", "i.isoRi", "i.inspectedAt"])
-          .whereRef("i.componentId", "=", "c.id").orderBy("i.inspectedAt", "desc").orderBy("i.createdAt", "desc").limit(1).as("li"),
+        eb
+          .selectFrom("inspections as i")
+          .select(["i.percentRusted", "i.astmGrade", "i.isoRi", "i.inspectedAt"])
+          .whereRef("i.componentId", "=", "c.id")
+          .orderBy("i.inspectedAt", "desc")
+          .orderBy("i.createdAt", "desc")
+          .limit(1)
+          .as("li"),
       (j) => j.onTrue(),
     )
     .select([
-      "b.name as boardName", "b.id as boardId", "p.sortOrder", "p.id", "s.name as section", "p.designation", "p.kind", "p.gridRow", "p.gridCol",
-      "p.rowSpan", "p.colSpan", "p.circuit", "c.maker", "c.model", "c.frame", "c.mounting", "c.ratingAmps", "c.poles", "c.voltageRating",
-      "c.interruptingKa", "c.serial", "c.year", "c.meterRange", "c.lampWatts", "c.heritage", "c.tagNumber", "c.notes", "c.custody",
-      "c.custodyLocation", "c.disposition", "c.dispositionOverridden", "li.percentRusted", "li.astmGrade", "li.isoRi", "li.inspectedAt",
+      "b.name as boardName",
+      "b.id as boardId",
+      "p.sortOrder",
+      "p.id",
+      "s.name as section",
+      "p.designation",
+      "p.kind",
+      "p.gridRow",
+      "p.gridCol",
+      "p.rowSpan",
+      "p.colSpan",
+      "p.circuit",
+      "c.maker",
+      "c.model",
+      "c.frame",
+      "c.mounting",
+      "c.ratingAmps",
+      "c.poles",
+      "c.voltageRating",
+      "c.interruptingKa",
+      "c.serial",
+      "c.year",
+      "c.meterRange",
+      "c.lampWatts",
+      "c.heritage",
+      "c.tagNumber",
+      "c.notes",
+      "c.custody",
+      "c.custodyLocation",
+      "c.disposition",
+      "c.dispositionOverridden",
+      "li.percentRusted",
+      "li.astmGrade",
+      "li.isoRi",
+      "li.inspectedAt",
     ])
     .where("p.siteId", "=", siteId)
-    .$if(after !== null, (q) => q.where(sql<boolean>`(b.name, b.id, p.sort_order, p.id) > (${after!.boardName}, ${after!.boardId}, ${after!.sortOrder}, ${after!.id})`))
-    .orderBy("b.name").orderBy("b.id").orderBy("p.sortOrder").orderBy("p.id")
+    .$if(after !== null, (q) =>
+      q.where(
+        sql<boolean>`(b.name, b.id, p.sort_order, p.id) > (${after!.boardName}, ${after!.boardId}, ${after!.sortOrder}, ${after!.id})`,
+      ),
+    )
+    .orderBy("b.name")
+    .orderBy("b.id")
+    .orderBy("p.sortOrder")
+    .orderBy("p.id")
     .limit(PAGE)
     .execute();
 
 type ExportRow = Awaited<ReturnType<typeof page>>[number];
 
 const cells = (r: ExportRow) => [
-  r.boardName, r.section ?? "", r.designation, r.kind, r.gridRow, r.gridCol, r.rowSpan, r.colSpan, r.circuit,
-  r.maker, r.model, r.frame, r.mounting, r.ratingAmps, r.poles, r.voltageRating, r.interruptingKa, r.serial,
-  r.year, r.meterRange, r.lampWatts, r.heritage, r.tagNumber, r.notes,
-  r.custody, r.custodyLocation, r.disposition, r.dispositionOverridden === null ? "" : r.dispositionOverridden ? "yes" : "no",
-  r.percentRusted, r.astmGrade, r.isoRi, r.inspectedAt ? new Date(r.inspectedAt).toISOString() : "",
+  r.boardName,
+  r.section ?? "",
+  r.designation,
+  r.kind,
+  r.gridRow,
+  r.gridCol,
+  r.rowSpan,
+  r.colSpan,
+  r.circuit,
+  r.maker,
+  r.model,
+  r.frame,
+  r.mounting,
+  r.ratingAmps,
+  r.poles,
+  r.voltageRating,
+  r.interruptingKa,
+  r.serial,
+  r.year,
+  r.meterRange,
+  r.lampWatts,
+  r.heritage,
+  r.tagNumber,
+  r.notes,
+  r.custody,
+  r.custodyLocation,
+  r.disposition,
+  r.dispositionOverridden === null ? "" : r.dispositionOverridden ? "yes" : "no",
+  r.percentRusted,
+  r.astmGrade,
+  r.isoRi,
+  r.inspectedAt ? new Date(r.inspectedAt).toISOString() : "",
 ];
 
 const unparse = (rows: unknown[][]) => Papa.unparse(rows, { newline: "\r\n", escapeFormulae: RISKY }) + "\r\n";

@@ -9,13 +9,21 @@
  */
 import Papa from "papaparse";
 import { sql } from "kysely";
-import { CSV_EXPORT_EXTRA_COLUMNS, CSV_IMPORT_COLUMNS, type ImportResponse, type ImportRow } from "../../src/schemas/inventory";
+import {
+  CSV_EXPORT_EXTRA_COLUMNS,
+  CSV_IMPORT_COLUMNS,
+  type ImportResponse,
+  type ImportRow,
+} from "../../src/schemas/inventory";
 import type { Db } from "../db";
 import { AppError } from "../errors";
 import { unguardCell } from "../csv";
 import { csvRowSchema, toRecord, type ImportRecord } from "./csv-row";
 
-interface Parsed { line: number; cells: Record<string, string> }
+interface Parsed {
+  line: number;
+  cells: Record<string, string>;
+}
 const REQUIRED = ["board", "designation", "kind", "grid_row", "grid_col"];
 const key = (s: string) => s.trim().toLowerCase();
 
@@ -34,7 +42,10 @@ export function parseCsv(text: string): { rows: Parsed[]; ignoredColumns: string
   if (!raw.length) throw new AppError(400, "invalid_input", "The file is empty.", { csv: "No header row" });
   const header = raw[0].data.map((h) => h.trim().toLowerCase().replace(/\s+/g, "_"));
   const missing = REQUIRED.filter((c) => !header.includes(c));
-  if (missing.length) throw new AppError(400, "invalid_input", `The header row lacks: ${missing.join(", ")}.`, { csv: `Missing columns: ${missing.join(", ")}` });
+  if (missing.length)
+    throw new AppError(400, "invalid_input", `The header row lacks: ${missing.join(", ")}.`, {
+      csv: `Missing columns: ${missing.join(", ")}`,
+    });
   const known = new Set<string>([...CSV_IMPORT_COLUMNS, ...CSV_EXPORT_EXTRA_COLUMNS]);
   const ignoredColumns = header.filter((h) => h && !known.has(h));
   let line = 1;
@@ -45,19 +56,46 @@ export function parseCsv(text: string): { rows: Parsed[]; ignoredColumns: string
     prevStart = r.start;
     if (r === raw[0] || r.data.every((c) => c.trim() === "")) continue;
     const cells: Record<string, string> = {};
-    header.forEach((h, i) => { if ((CSV_IMPORT_COLUMNS as readonly string[]).includes(h)) cells[h] = unguardCell(r.data[i] ?? ""); });
+    header.forEach((h, i) => {
+      if ((CSV_IMPORT_COLUMNS as readonly string[]).includes(h)) cells[h] = unguardCell(r.data[i] ?? "");
+    });
     rows.push({ line, cells });
   }
   return { rows, ignoredColumns };
 }
 
 async function siteState(db: Db, siteId: string) {
-  const boards = await db.selectFrom("boards").select(["id", "name", "gridRows", "gridCols"]).where("siteId", "=", siteId).execute();
-  const sections = await db.selectFrom("sections").select(["id", "boardId", "name"]).where("siteId", "=", siteId).execute();
-  const designations = await db.selectFrom("positions").select(["boardId", "designation", sql<string>`lower(designation)`.as("d"), "gridRow", "gridCol", "rowSpan", "colSpan"]).where("siteId", "=", siteId).execute();
+  const boards = await db
+    .selectFrom("boards")
+    .select(["id", "name", "gridRows", "gridCols"])
+    .where("siteId", "=", siteId)
+    .execute();
+  const sections = await db
+    .selectFrom("sections")
+    .select(["id", "boardId", "name"])
+    .where("siteId", "=", siteId)
+    .execute();
+  const designations = await db
+    .selectFrom("positions")
+    .select([
+      "boardId",
+      "designation",
+      sql<string>`lower(designation)`.as("d"),
+      "gridRow",
+      "gridCol",
+      "rowSpan",
+      "colSpan",
+    ])
+    .where("siteId", "=", siteId)
+    .execute();
   const cells = new Map<string, string>();
   for (const p of designations) for (const c of cellsOf(p.boardId, p)) cells.set(c, p.designation);
-  const tags = await db.selectFrom("components").select(sql<string>`lower(tag_number)`.as("t")).where("siteId", "=", siteId).where("tagNumber", "is not", null).execute();
+  const tags = await db
+    .selectFrom("components")
+    .select(sql<string>`lower(tag_number)`.as("t"))
+    .where("siteId", "=", siteId)
+    .where("tagNumber", "is not", null)
+    .execute();
   return {
     boards: new Map(boards.map((b) => [key(b.name), b])),
     sections: new Set(sections.map((s) => `${s.boardId}|${key(s.name)}`)),
@@ -71,7 +109,8 @@ async function siteState(db: Db, siteId: string) {
 /** Every grid cell a position covers, span included. */
 function cellsOf(boardKey: string, p: { gridRow: number; gridCol: number; rowSpan: number; colSpan: number }) {
   const out: string[] = [];
-  for (let r = p.gridRow; r < p.gridRow + p.rowSpan; r++) for (let c = p.gridCol; c < p.gridCol + p.colSpan; c++) out.push(`${boardKey}|${r}|${c}`);
+  for (let r = p.gridRow; r < p.gridRow + p.rowSpan; r++)
+    for (let c = p.gridCol; c < p.gridCol + p.colSpan; c++) out.push(`${boardKey}|${r}|${c}`);
   return out;
 }
 
@@ -97,7 +136,8 @@ class CrossCheck {
     const board = this.state.boards.get(key(rec.board));
     const boardKey = board?.id ?? `new:${key(rec.board)}`;
     const dKey = `${boardKey}|${key(rec.designation)}`;
-    if (this.seenDesignation.has(dKey)) errors.designation = `Also on line ${this.seenDesignation.get(dKey)} for this board`;
+    if (this.seenDesignation.has(dKey))
+      errors.designation = `Also on line ${this.seenDesignation.get(dKey)} for this board`;
     else if (this.state.designations.has(dKey)) errors.designation = "Already on this board";
     if (!this.seenDesignation.has(dKey)) this.seenDesignation.set(dKey, line);
     if (rec.tagNumber) {
@@ -106,13 +146,16 @@ class CrossCheck {
       else if (this.state.tags.has(t)) errors.tag_number = "Already on a component of this site";
       if (!this.seenTag.has(t)) this.seenTag.set(t, line);
     }
-    if (board && rec.gridRow + rec.rowSpan - 1 > board.gridRows) errors.grid_row = `The board has ${board.gridRows} rows`;
-    if (board && rec.gridCol + rec.colSpan - 1 > board.gridCols) errors.grid_col = `The board has ${board.gridCols} columns`;
+    if (board && rec.gridRow + rec.rowSpan - 1 > board.gridRows)
+      errors.grid_row = `The board has ${board.gridRows} rows`;
+    if (board && rec.gridCol + rec.colSpan - 1 > board.gridCols)
+      errors.grid_col = `The board has ${board.gridCols} columns`;
     const overlap = Object.keys(errors).length ? null : overlapError(this.state.cells, boardKey, rec, line);
     if (overlap) errors.grid_col = overlap;
     // A board named in two spellings of case is one board: keep the first spelling.
     if (!board && !this.boardsToCreate.has(key(rec.board))) this.boardsToCreate.set(key(rec.board), rec.board);
-    if (rec.section && !this.state.sections.has(`${boardKey}|${key(rec.section)}`)) this.sectionsToCreate.add(`${rec.board} / ${rec.section}`);
+    if (rec.section && !this.state.sections.has(`${boardKey}|${key(rec.section)}`))
+      this.sectionsToCreate.add(`${rec.board} / ${rec.section}`);
   }
 }
 
@@ -135,8 +178,13 @@ export async function validateImport(db: Db, siteId: string, text: string) {
   }
   const failed = rows.filter((r) => !r.ok).length;
   const summary = {
-    rows: rows.length, ok: rows.length - failed, failed, boardsToCreate: [...cross.boardsToCreate.values()],
-    sectionsToCreate: [...cross.sectionsToCreate], ignoredColumns, committed: false,
+    rows: rows.length,
+    ok: rows.length - failed,
+    failed,
+    boardsToCreate: [...cross.boardsToCreate.values()],
+    sectionsToCreate: [...cross.sectionsToCreate],
+    ignoredColumns,
+    committed: false,
   };
   const response: ImportResponse = { rows, summary };
   return { response, records, state };

@@ -13,7 +13,12 @@ import { validateImport } from "./csv-import";
 /** 2 MB of CSV is some 10 000 rows, more than any board set; larger gets 413 (JSON {csv} too: its parser is set in app.ts). */
 const csvText = express.text({ type: ["text/csv", "text/plain", "application/csv"], limit: "2mb" });
 
-const slug = (s: string) => s.toLowerCase().normalize("NFKD").replace(/[^a-z0-9]+/g, "-").replace(/^-|-$/g, "") || "site";
+const slug = (s: string) =>
+  s
+    .toLowerCase()
+    .normalize("NFKD")
+    .replace(/[^a-z0-9]+/g, "-")
+    .replace(/^-|-$/g, "") || "site";
 
 export function csvRoutes(db: Db) {
   const r = Router();
@@ -35,7 +40,9 @@ export function csvRoutes(db: Db) {
       res.status(201).json(await commitImport(db, siteId, actorOf(res), text));
     } catch (e) {
       if (!(e instanceof ImportInvalid)) throw e;
-      res.status(400).json({ error: { code: e.code, message: e.message, fields: e.fields, rows: e.result.rows, summary: e.result.summary } });
+      res.status(400).json({
+        error: { code: e.code, message: e.message, fields: e.fields, rows: e.result.rows, summary: e.result.summary },
+      });
     }
   });
   return r;

@@ -8,7 +8,8 @@ import { CUSTODY, DISPOSITIONS, type Custody, type Disposition } from "../../src
 import { GRADE_KEYS, type Overview } from "../../src/schemas/inventory";
 import type { Db } from "../db";
 
-const zeros = <K extends string>(keys: readonly K[]) => Object.fromEntries(keys.map((k) => [k, 0])) as Record<K, number>;
+const zeros = <K extends string>(keys: readonly K[]) =>
+  Object.fromEntries(keys.map((k) => [k, 0])) as Record<K, number>;
 
 interface Tally {
   set: number;
@@ -67,7 +68,10 @@ export async function overview(db: Db, siteId: string): Promise<Overview> {
   for (const r of rows) {
     if (r.set === SET.board) {
       const b = perBoard.get(r.boardId!);
-      if (b) { b.positions += r.n; if (r.surveyed) b.surveyed += r.n; }
+      if (b) {
+        b.positions += r.n;
+        if (r.surveyed) b.surveyed += r.n;
+      }
       positions += r.n;
       if (r.surveyed) surveyed += r.n;
     } else if (r.set === SET.disposition) {
@@ -81,7 +85,9 @@ export async function overview(db: Db, siteId: string): Promise<Overview> {
   }
   return {
     totals: { positions, surveyed, bySurveyState },
-    byDisposition, byCustody, byGrade,
+    byDisposition,
+    byCustody,
+    byGrade,
     originalRetainedPercent: positions ? Math.round((retained / positions) * 1000) / 10 : null,
     boards: [...perBoard.values()],
   };

@@ -23,14 +23,48 @@ export const boardTiles = (db: Db, boardId: string) =>
       (j) => j.onTrue(),
     )
     .select([
-      "p.id", "p.designation", "p.kind", "p.gridRow", "p.gridCol", "p.rowSpan", "p.colSpan", "p.circuit", "p.sectionId", "p.sortOrder", "p.version",
-      "c.id as cId", "c.kind as cKind", "c.tagNumber", "c.heritage", "c.custody", "c.disposition", "c.dispositionOverridden",
-      "c.maker", "c.model", "c.ratingAmps", "c.poles", "c.version as cVersion",
-      "li.astmGrade", "li.isoRi", "li.percentRusted", "li.inspectedAt", "li.belowWaterLine",
+      "p.id",
+      "p.designation",
+      "p.kind",
+      "p.gridRow",
+      "p.gridCol",
+      "p.rowSpan",
+      "p.colSpan",
+      "p.circuit",
+      "p.sectionId",
+      "p.sortOrder",
+      "p.version",
+      "c.id as cId",
+      "c.kind as cKind",
+      "c.tagNumber",
+      "c.heritage",
+      "c.custody",
+      "c.disposition",
+      "c.dispositionOverridden",
+      "c.maker",
+      "c.model",
+      "c.ratingAmps",
+      "c.poles",
+      "c.version as cVersion",
+      "li.astmGrade",
+      "li.isoRi",
+      "li.percentRusted",
+      "li.inspectedAt",
+      "li.belowWaterLine",
     ])
     .select((eb) => [
-      eb.selectFrom("photos as ph").whereRef("ph.positionId", "=", "p.id").where("ph.deletedAt", "is", null).select(eb.fn.countAll<number>().as("n")).as("photoCount"),
-      eb.selectFrom("defects as d").whereRef("d.positionId", "=", "p.id").where("d.status", "not in", ["closed", "accepted_as_is"]).select(eb.fn.countAll<number>().as("n")).as("openDefectCount"),
+      eb
+        .selectFrom("photos as ph")
+        .whereRef("ph.positionId", "=", "p.id")
+        .where("ph.deletedAt", "is", null)
+        .select(eb.fn.countAll<number>().as("n"))
+        .as("photoCount"),
+      eb
+        .selectFrom("defects as d")
+        .whereRef("d.positionId", "=", "p.id")
+        .where("d.status", "not in", ["closed", "accepted_as_is"])
+        .select(eb.fn.countAll<number>().as("n"))
+        .as("openDefectCount"),
     ])
     .where("p.boardId", "=", boardId)
     .orderBy("p.gridRow")
@@ -42,24 +76,51 @@ export type TileQueryRow = Awaited<ReturnType<typeof boardTiles>>[number];
 
 export function toTile(r: TileQueryRow) {
   return {
-    id: r.id, designation: r.designation, kind: r.kind, gridRow: r.gridRow, gridCol: r.gridCol, rowSpan: r.rowSpan, colSpan: r.colSpan,
-    circuit: r.circuit, sectionId: r.sectionId, sortOrder: r.sortOrder, version: r.version,
+    id: r.id,
+    designation: r.designation,
+    kind: r.kind,
+    gridRow: r.gridRow,
+    gridCol: r.gridCol,
+    rowSpan: r.rowSpan,
+    colSpan: r.colSpan,
+    circuit: r.circuit,
+    sectionId: r.sectionId,
+    sortOrder: r.sortOrder,
+    version: r.version,
     component: r.cId
       ? {
-          id: r.cId, kind: r.cKind!, tagNumber: r.tagNumber, heritage: r.heritage!, custody: r.custody!, disposition: r.disposition,
-          dispositionOverridden: r.dispositionOverridden!, maker: r.maker!, model: r.model!, ratingAmps: r.ratingAmps, poles: r.poles, version: r.cVersion!,
+          id: r.cId,
+          kind: r.cKind!,
+          tagNumber: r.tagNumber,
+          heritage: r.heritage!,
+          custody: r.custody!,
+          disposition: r.disposition,
+          dispositionOverridden: r.dispositionOverridden!,
+          maker: r.maker!,
+          model: r.model!,
+          ratingAmps: r.ratingAmps,
+          poles: r.poles,
+          version: r.cVersion!,
         }
       : null,
     latest: r.inspectedAt
-      ? { astmGrade: r.astmGrade, isoRi: r.isoRi, percentRusted: r.percentRusted, inspectedAt: r.inspectedAt, belowWaterLine: r.belowWaterLine }
+      ? {
+          astmGrade: r.astmGrade,
+          isoRi: r.isoRi,
+          percentRusted: r.percentRusted,
+          inspectedAt: r.inspectedAt,
+          belowWaterLine: r.belowWaterLine,
+        }
       : null,
     photoCount: Number(r.photoCount ?? 0),
     openDefectCount: Number(r.openDefectCount ?? 0),
   };
 }
 
-export const insertPositions = (db: Db, rows: Insertable<PositionsTable>[]) => db.insertInto("positions").values(rows).returningAll().execute();
-export const insertComponents = (db: Db, rows: Insertable<ComponentsTable>[]) => db.insertInto("components").values(rows).returningAll().execute();
+export const insertPositions = (db: Db, rows: Insertable<PositionsTable>[]) =>
+  db.insertInto("positions").values(rows).returningAll().execute();
+export const insertComponents = (db: Db, rows: Insertable<ComponentsTable>[]) =>
+  db.insertInto("components").values(rows).returningAll().execute();
 
 export const designationsTaken = async (db: Db, boardId: string, designations: string[]) =>
   designations.length === 0
@@ -69,20 +130,40 @@ export const designationsTaken = async (db: Db, boardId: string, designations: s
           .selectFrom("positions")
           .select("designation")
           .where("boardId", "=", boardId)
-          .where(sql<string>`lower(designation)`, "in", designations.map((d) => d.toLowerCase()))
+          .where(
+            sql<string>`lower(designation)`,
+            "in",
+            designations.map((d) => d.toLowerCase()),
+          )
           .execute()
       ).map((r) => r.designation);
 
 export const boardPositions = (db: Db, boardId: string) =>
-  db.selectFrom("positions").selectAll().where("boardId", "=", boardId).orderBy("sortOrder").orderBy("gridRow").orderBy("gridCol").execute();
+  db
+    .selectFrom("positions")
+    .selectAll()
+    .where("boardId", "=", boardId)
+    .orderBy("sortOrder")
+    .orderBy("gridRow")
+    .orderBy("gridCol")
+    .execute();
 
 export const setSortOrder = (db: Db, id: string, sortOrder: number) =>
-  db.updateTable("positions").set({ sortOrder, version: sql`version + 1`, updatedAt: new Date() }).where("id", "=", id).execute();
+  db
+    .updateTable("positions")
+    .set({ sortOrder, version: sql`version + 1`, updatedAt: new Date() })
+    .where("id", "=", id)
+    .execute();
 
 export const deletePosition = (db: Db, id: string) => db.deleteFrom("positions").where("id", "=", id).execute();
 
 export const currentComponent = (db: Db, positionId: string) =>
-  db.selectFrom("components").selectAll().where("positionId", "=", positionId).where("retiredAt", "is", null).executeTakeFirst();
+  db
+    .selectFrom("components")
+    .selectAll()
+    .where("positionId", "=", positionId)
+    .where("retiredAt", "is", null)
+    .executeTakeFirst();
 
 const likeEscape = (s: string) => s.replace(/[\\%_]/g, (m) => `\\${m}`);
 
@@ -97,13 +178,26 @@ export const lookup = (db: Db, siteId: string, q: string) => {
     .leftJoin("sections as s", "s.id", "p.sectionId")
     .leftJoin("components as c", (j) => j.onRef("c.positionId", "=", "p.id").on("c.retiredAt", "is", null))
     .select([
-      "p.id as positionId", "p.designation", "p.kind", "p.circuit", "b.id as boardId", "b.name as boardName", "s.name as sectionName",
-      "c.id as componentId", "c.version as componentVersion", "c.tagNumber", "c.custody",
+      "p.id as positionId",
+      "p.designation",
+      "p.kind",
+      "p.circuit",
+      "b.id as boardId",
+      "b.name as boardName",
+      "s.name as sectionName",
+      "c.id as componentId",
+      "c.version as componentVersion",
+      "c.tagNumber",
+      "c.custody",
     ])
-    .select(sql<number>`case when lower(p.designation) = ${lower} or lower(c.tag_number) = ${lower} then 0
-      when lower(p.designation) like ${prefix} or lower(c.tag_number) like ${prefix} then 1 else 2 end`.as("rank"))
+    .select(
+      sql<number>`case when lower(p.designation) = ${lower} or lower(c.tag_number) = ${lower} then 0
+      when lower(p.designation) like ${prefix} or lower(c.tag_number) like ${prefix} then 1 else 2 end`.as("rank"),
+    )
     .where("p.siteId", "=", siteId)
-    .where((eb) => eb.or([eb(sql`lower(p.designation)`, "like", contains), eb(sql`lower(c.tag_number)`, "like", contains)]))
+    .where((eb) =>
+      eb.or([eb(sql`lower(p.designation)`, "like", contains), eb(sql`lower(c.tag_number)`, "like", contains)]),
+    )
     .orderBy("rank")
     .orderBy("b.name")
     .orderBy("p.sortOrder")

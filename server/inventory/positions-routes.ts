@@ -1,8 +1,15 @@
 /** Positions: set-up by the curator, lookup and the side-panel detail for every member. */
 import { Router } from "express";
 import {
-  boardParams, createPositionBody, deleteQuery, generatePositionsBody, lookupQuery, patchPositionBody,
-  positionParams, reorderPositionsBody, siteParams,
+  boardParams,
+  createPositionBody,
+  deleteQuery,
+  generatePositionsBody,
+  lookupQuery,
+  patchPositionBody,
+  positionParams,
+  reorderPositionsBody,
+  siteParams,
 } from "../../src/schemas/inventory";
 import type { Db } from "../db";
 import { requireSiteRole } from "../middleware/roles";
@@ -19,15 +26,33 @@ export function positionRoutes(db: Db) {
 
   r.post(`${S}/boards/:boardId/positions/generate`, curator, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);
-    res.status(201).json({ positions: await service.generatePositions(db, siteId, boardId, actorOf(res), generatePositionsBody.parse(req.body)) });
+    res.status(201).json({
+      positions: await service.generatePositions(
+        db,
+        siteId,
+        boardId,
+        actorOf(res),
+        generatePositionsBody.parse(req.body),
+      ),
+    });
   });
   r.post(`${S}/boards/:boardId/positions/reorder`, curator, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);
-    res.json({ positions: await service.reorderPositions(db, siteId, boardId, actorOf(res), reorderPositionsBody.parse(req.body).ids) });
+    res.json({
+      positions: await service.reorderPositions(
+        db,
+        siteId,
+        boardId,
+        actorOf(res),
+        reorderPositionsBody.parse(req.body).ids,
+      ),
+    });
   });
   r.post(`${S}/boards/:boardId/positions`, curator, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);
-    res.status(201).json(await service.createPosition(db, siteId, boardId, actorOf(res), createPositionBody.parse(req.body)));
+    res
+      .status(201)
+      .json(await service.createPosition(db, siteId, boardId, actorOf(res), createPositionBody.parse(req.body)));
   });
 
   r.get(`${S}/positions/lookup`, anyMember, async (req, res) => {

@@ -34,15 +34,30 @@ export async function recommendFor(db: Db, siteId: string, c: Component): Promis
   const flood = await latestFloodEvent(db, siteId);
   const insp = await latestInspection(db, c.id);
   const assumptions: string[] = [];
-  const basis = { floodEventId: flood?.id ?? null, waterType: flood?.waterType ?? null, inspectionId: insp?.id ?? null, belowWaterLine: null as boolean | null };
-  if (!flood) return { recommendation: null, assumptions: ["No flood event is recorded for this site yet, so there is nothing to base a recommendation on."], basis };
+  const basis = {
+    floodEventId: flood?.id ?? null,
+    waterType: flood?.waterType ?? null,
+    inspectionId: insp?.id ?? null,
+    belowWaterLine: null as boolean | null,
+  };
+  if (!flood)
+    return {
+      recommendation: null,
+      assumptions: ["No flood event is recorded for this site yet, so there is nothing to base a recommendation on."],
+      basis,
+    };
   let below = insp?.belowWaterLine ?? null;
   if (below === null) {
     below = await belowFromBoard(db, c.positionId);
-    if (below !== null) assumptions.push(`No inspection says whether it was below the water line: judged from its place on the board (${below ? "below" : "above"} the recorded water line).`);
+    if (below !== null)
+      assumptions.push(
+        `No inspection says whether it was below the water line: judged from its place on the board (${below ? "below" : "above"} the recorded water line).`,
+      );
     else {
       below = true;
-      assumptions.push("Nothing records whether it was below the water line: treated as below it (the cautious reading).");
+      assumptions.push(
+        "Nothing records whether it was below the water line: treated as below it (the cautious reading).",
+      );
     }
   }
   if (!insp) assumptions.push("Not inspected yet: the recommendation uses the flood and the kind of part only.");

@@ -3,7 +3,14 @@
  * custody moves; only the curator edits nameplates and decides dispositions.
  */
 import { Router } from "express";
-import { componentParams, createInspectionBody, custodyBody, dispositionBody, patchComponentBody, siteParams } from "../../src/schemas/inventory";
+import {
+  componentParams,
+  createInspectionBody,
+  custodyBody,
+  dispositionBody,
+  patchComponentBody,
+  siteParams,
+} from "../../src/schemas/inventory";
 import type { Db } from "../db";
 import { requireSiteRole } from "../middleware/roles";
 import { actorOf } from "./common";
@@ -23,11 +30,25 @@ export function surveyRoutes(db: Db) {
   });
   r.post(`${C}/inspections`, fieldCrew, async (req, res) => {
     const { siteId, componentId } = componentParams.parse(req.params);
-    res.status(201).json(await service.createInspection(db, siteId, componentId, actorOf(res), createInspectionBody.parse(req.body)));
+    res
+      .status(201)
+      .json(
+        await service.createInspection(db, siteId, componentId, actorOf(res), createInspectionBody.parse(req.body)),
+      );
   });
   r.post(`${C}/custody`, fieldCrew, async (req, res) => {
     const { siteId, componentId } = componentParams.parse(req.params);
-    res.status(201).json(await service.moveCustody(db, siteId, componentId, { id: actorOf(res), role: res.locals.siteRole ?? "viewer" }, custodyBody.parse(req.body)));
+    res
+      .status(201)
+      .json(
+        await service.moveCustody(
+          db,
+          siteId,
+          componentId,
+          { id: actorOf(res), role: res.locals.siteRole ?? "viewer" },
+          custodyBody.parse(req.body),
+        ),
+      );
   });
   r.get(`${C}/custody-options`, fieldCrew, async (req, res) => {
     const { siteId, componentId } = componentParams.parse(req.params);

@@ -1,7 +1,12 @@
 /** Use cases on a component: nameplate edits, inspections, custody moves and dispositions. */
 import { astmD610Grade, iso4628RiGrade } from "../../src/domain/corrosion";
 import type { z } from "zod";
-import type { PatchComponentBody, createInspectionBody, custodyBody, dispositionBody } from "../../src/schemas/inventory";
+import type {
+  PatchComponentBody,
+  createInspectionBody,
+  custodyBody,
+  dispositionBody,
+} from "../../src/schemas/inventory";
 import { diff, recordAudit } from "../audit";
 import type { Db } from "../db";
 import { AppError } from "../errors";
@@ -10,8 +15,19 @@ import { recommendFor } from "./recommendation";
 import * as repo from "./survey-repository";
 import * as positions from "./positions-repository";
 import * as readings from "../readings/service";
-import { CUSTODY, type ComponentKind, type Custody as CustodyState, type Disposition, type Role } from "../../src/domain/vocab";
-import { READING_REQUIRED_KINDS, checkCustodyMove, proposeNext, type CustodyFacts } from "../../src/domain/custody-chain";
+import {
+  CUSTODY,
+  type ComponentKind,
+  type Custody as CustodyState,
+  type Disposition,
+  type Role,
+} from "../../src/domain/vocab";
+import {
+  READING_REQUIRED_KINDS,
+  checkCustodyMove,
+  proposeNext,
+  type CustodyFacts,
+} from "../../src/domain/custody-chain";
 import { demandChanged } from "../parts/service";
 
 type Inspect = z.output<typeof createInspectionBody>;
@@ -23,14 +39,30 @@ const boardOf = async (db: Db, positionId: string) =>
 
 export async function patchComponent(db: Db, siteId: string, id: string, actorId: string, body: PatchComponentBody) {
   const { version, tagNumber, ...rest } = body;
-  const patch = { ...defined(rest), ...(tagNumber === undefined ? {} : { tagNumber: tagNumber === "" ? null : tagNumber }) };
+  const patch = {
+    ...defined(rest),
+    ...(tagNumber === undefined ? {} : { tagNumber: tagNumber === "" ? null : tagNumber }),
+  };
   return db.transaction().execute(async (trx) => {
     const before = await requireOwned(trx, "components", siteId, id, "That component", true);
     if (before.version !== version) throw stale("component", before);
-    const after = await mapUnique(() => updateVersioned(trx, "components", siteId, id, version, patch, "component"), UNIQUE.tag);
+    const after = await mapUnique(
+      () => updateVersioned(trx, "components", siteId, id, version, patch, "component"),
+      UNIQUE.tag,
+    );
     const d = diff(before as never, patch as never);
     if (d.changed)
-      await recordAudit(trx, { siteId, entityType: "component", entityId: id, boardId: await boardOf(trx, before.positionId), positionId: before.positionId, action: "update", actorId, before: d.before, after: d.after });
+      await recordAudit(trx, {
+        siteId,
+        entityType: "component",
+        entityId: id,
+        boardId: await boardOf(trx, before.positionId),
+        positionId: before.positionId,
+        action: "update",
+        actorId,
+        before: d.before,
+        after: d.after,
+      });
     if (d.changed) await demandChanged(trx, siteId, { componentIds: [id] }, actorId); // a nameplate change moves its wanted-list demand
     return after;
   });
@@ -42,12 +74,29 @@ export async function createInspection(db: Db, siteId: string, componentId: stri
     const c = await requireOwned(trx, "components", siteId, componentId, "That component");
     const pct = b.percentRusted ?? null;
     const row = await repo.insertInspection(trx, {
-      siteId, componentId, positionId: c.positionId, inspectorId: actorId, percentRusted: pct,
-      astmGrade: pct === null ? null : astmD610Grade(pct), isoRi: pct === null ? null : iso4628RiGrade(pct),
-      belowWaterLine: b.belowWaterLine ?? null, contaminants: [...new Set(b.contaminants)], mechanism: b.mechanism ?? null,
-      insulation: b.insulation ?? null, notes: b.notes,
+      siteId,
+      componentId,
+      positionId: c.positionId,
+      inspectorId: actorId,
+      percentRusted: pct,
+      astmGrade: pct === null ? null : astmD610Grade(pct),
+      isoRi: pct === null ? null : iso4628RiGrade(pct),
+      belowWaterLine: b.belowWaterLine ?? null,
+      contaminants: [...new Set(b.contaminants)],
+      mechanism: b.mechanism ?? null,
+      insulation: b.insulation ?? null,
+      notes: b.notes,
     });
-    await recordAudit(trx, { siteId, entityType: "inspection", entityId: row.id, boardId: await boardOf(trx, c.positionId), positionId: c.positionId, action: "inspect", actorId, after: row });
+    await recordAudit(trx, {
+      siteId,
+      entityType: "inspection",
+      entityId: row.id,
+      boardId: await boardOf(trx, c.positionId),
+      positionId: c.positionId,
+      action: "inspect",
+      actorId,
+      after: row,
+    });
     return row;
   });
 }
@@ -55,14 +104,32 @@ export async function createInspection(db: Db, siteId: string, componentId: stri
 const DEFAULT_LOCATION: Record<string, string> = { in_place: "In its position", refitted: "In its position" };
 
 /** What src/domain/custody-chain.ts needs to judge a move of this component. */
-async function custodyFacts(trx: Db, siteId: string, c: { id: string; kind: ComponentKind; custody: CustodyState; disposition: Disposition | null; tagNumber: string | null }, tagNumber?: string): Promise<CustodyFacts> {
+async function custodyFacts(
+  trx: Db,
+  siteId: string,
+  c: {
+    id: string;
+    kind: ComponentKind;
+    custody: CustodyState;
+    disposition: Disposition | null;
+    tagNumber: string | null;
+  },
+  tagNumber?: string,
+): Promise<CustodyFacts> {
   const [inspection, reading] = await Promise.all([
     repo.latestInspection(trx, c.id),
-    READING_REQUIRED_KINDS.has(c.kind) ? readings.listInsulation(trx, siteId, { componentId: c.id, limit: 1 }) : Promise.resolve([]),
+    READING_REQUIRED_KINDS.has(c.kind)
+      ? readings.listInsulation(trx, siteId, { componentId: c.id, limit: 1 })
+      : Promise.resolve([]),
   ]);
   return {
-    from: c.custody, kind: c.kind, disposition: c.disposition, tagNumber: tagNumber ?? c.tagNumber,
-    latestInsulation: inspection?.insulation ?? null, latestMechanism: inspection?.mechanism ?? null, latestReading: reading[0]?.judgement.verdict ?? null,
+    from: c.custody,
+    kind: c.kind,
+    disposition: c.disposition,
+    tagNumber: tagNumber ?? c.tagNumber,
+    latestInsulation: inspection?.insulation ?? null,
+    latestMechanism: inspection?.mechanism ?? null,
+    latestReading: reading[0]?.judgement.verdict ?? null,
   };
 }
 
@@ -72,7 +139,13 @@ async function custodyFacts(trx: Db, siteId: string, c: { id: string; kind: Comp
  * The curator (or an admin) may release the releasable ones with `releaseReason`; the move
  * then records which rules were released and why, and the audit trail carries both.
  */
-export async function moveCustody(db: Db, siteId: string, componentId: string, actor: { id: string; role: Role | "admin" }, b: Custody) {
+export async function moveCustody(
+  db: Db,
+  siteId: string,
+  componentId: string,
+  actor: { id: string; role: Role | "admin" },
+  b: Custody,
+) {
   const actorId = actor.id;
   return db.transaction().execute(async (trx) => {
     const before = await requireOwned(trx, "components", siteId, componentId, "That component", true);
@@ -80,22 +153,55 @@ export async function moveCustody(db: Db, siteId: string, componentId: string, a
     const refusals = checkCustodyMove(await custodyFacts(trx, siteId, before, b.tagNumber), b.toState);
     const releasing = b.releaseReason !== undefined;
     if (releasing && actor.role !== "curator" && actor.role !== "admin")
-      throw new AppError(403, "forbidden", "Only the curator releases a move the custody chain refuses.", { releaseReason: "Curator only" });
+      throw new AppError(403, "forbidden", "Only the curator releases a move the custody chain refuses.", {
+        releaseReason: "Curator only",
+      });
     const blocking = refusals.filter((r) => !releasing || !r.releasable);
     if (blocking.length) {
       const status = blocking.some((r) => r.status === 409) ? 409 : 422;
-      const fields = blocking.some((r) => r.rule === "tag_required") ? { tagNumber: "A tag is needed to take it off" } : undefined;
-      throw new AppError(status, blocking[0].rule, blocking.map((r) => r.message).join(" "), fields, { refusals: blocking, component: before });
+      const fields = blocking.some((r) => r.rule === "tag_required")
+        ? { tagNumber: "A tag is needed to take it off" }
+        : undefined;
+      throw new AppError(status, blocking[0].rule, blocking.map((r) => r.message).join(" "), fields, {
+        refusals: blocking,
+        component: before,
+      });
     }
     const released = releasing ? refusals.map((r) => r.rule) : [];
     const releaseReason = released.length ? b.releaseReason! : "";
-    const patch: Record<string, unknown> = { custody: b.toState, custodyLocation: b.location || DEFAULT_LOCATION[b.toState] || "" };
+    const patch: Record<string, unknown> = {
+      custody: b.toState,
+      custodyLocation: b.location || DEFAULT_LOCATION[b.toState] || "",
+    };
     if (b.tagNumber && b.tagNumber !== before.tagNumber) patch.tagNumber = b.tagNumber;
-    const component = await mapUnique(() => updateVersioned(trx, "components", siteId, componentId, b.version, patch, "component"), UNIQUE.tag);
-    const move = await repo.insertMove(trx, { siteId, componentId, fromState: before.custody, toState: b.toState, location: patch.custodyLocation as string, note: b.note, movedBy: actorId, releasedRules: released, releaseReason });
+    const component = await mapUnique(
+      () => updateVersioned(trx, "components", siteId, componentId, b.version, patch, "component"),
+      UNIQUE.tag,
+    );
+    const move = await repo.insertMove(trx, {
+      siteId,
+      componentId,
+      fromState: before.custody,
+      toState: b.toState,
+      location: patch.custodyLocation as string,
+      note: b.note,
+      movedBy: actorId,
+      releasedRules: released,
+      releaseReason,
+    });
     await recordAudit(trx, {
-      siteId, entityType: "component", entityId: componentId, boardId: await boardOf(trx, before.positionId), positionId: before.positionId, action: "custody", actorId,
-      before: { custody: before.custody, custodyLocation: before.custodyLocation, ...(patch.tagNumber ? { tagNumber: before.tagNumber } : {}) },
+      siteId,
+      entityType: "component",
+      entityId: componentId,
+      boardId: await boardOf(trx, before.positionId),
+      positionId: before.positionId,
+      action: "custody",
+      actorId,
+      before: {
+        custody: before.custody,
+        custodyLocation: before.custodyLocation,
+        ...(patch.tagNumber ? { tagNumber: before.tagNumber } : {}),
+      },
       after: { ...patch, note: b.note, ...(released.length ? { releasedRules: released, releaseReason } : {}) },
     });
     return { component, move };
@@ -130,17 +236,51 @@ export async function decideDisposition(db: Db, siteId: string, componentId: str
     const recommended = recommendation.recommendation?.disposition ?? null;
     const overridden = recommended !== null && b.disposition !== recommended;
     if (overridden && !b.reason.trim())
-      throw new AppError(400, "reason_required", `Tideline recommends "${recommended}"; say why you chose otherwise.`, { reason: "Give the reason for overriding the recommendation" });
+      throw new AppError(400, "reason_required", `Tideline recommends "${recommended}"; say why you chose otherwise.`, {
+        reason: "Give the reason for overriding the recommendation",
+      });
     const now = new Date();
-    const patch = { disposition: b.disposition, dispositionReason: b.reason, dispositionRecommended: recommended, dispositionOverridden: overridden, dispositionBy: actorId, dispositionAt: now };
+    const patch = {
+      disposition: b.disposition,
+      dispositionReason: b.reason,
+      dispositionRecommended: recommended,
+      dispositionOverridden: overridden,
+      dispositionBy: actorId,
+      dispositionAt: now,
+    };
     const component = await updateVersioned(trx, "components", siteId, componentId, b.version, patch, "component");
-    const decision = await repo.insertDecision(trx, { siteId, componentId, disposition: b.disposition, recommended, overridden, reason: b.reason, decidedBy: actorId, decidedAt: now });
-    await recordAudit(trx, {
-      siteId, entityType: "component", entityId: componentId, boardId: await boardOf(trx, before.positionId), positionId: before.positionId, action: "disposition", actorId,
-      before: { disposition: before.disposition, dispositionReason: before.dispositionReason, dispositionOverridden: before.dispositionOverridden },
-      after: { disposition: b.disposition, dispositionReason: b.reason, recommended, dispositionOverridden: overridden },
+    const decision = await repo.insertDecision(trx, {
+      siteId,
+      componentId,
+      disposition: b.disposition,
+      recommended,
+      overridden,
+      reason: b.reason,
+      decidedBy: actorId,
+      decidedAt: now,
     });
-    if (b.disposition !== before.disposition) await demandChanged(trx, siteId, { componentIds: [componentId] }, actorId);
+    await recordAudit(trx, {
+      siteId,
+      entityType: "component",
+      entityId: componentId,
+      boardId: await boardOf(trx, before.positionId),
+      positionId: before.positionId,
+      action: "disposition",
+      actorId,
+      before: {
+        disposition: before.disposition,
+        dispositionReason: before.dispositionReason,
+        dispositionOverridden: before.dispositionOverridden,
+      },
+      after: {
+        disposition: b.disposition,
+        dispositionReason: b.reason,
+        recommended,
+        dispositionOverridden: overridden,
+      },
+    });
+    if (b.disposition !== before.disposition)
+      await demandChanged(trx, siteId, { componentIds: [componentId] }, actorId);
     return { component, decision, recommendation };
   });
 }
@@ -153,12 +293,25 @@ export async function recommendation(db: Db, siteId: string, componentId: string
 export async function positionDetail(db: Db, siteId: string, positionId: string) {
   const position = await requireOwned(db, "positions", siteId, positionId, "That position");
   const board = await requireOwned(db, "boards", siteId, position.boardId, "That board");
-  const section = position.sectionId ? await db.selectFrom("sections").select(["id", "name"]).where("id", "=", position.sectionId).executeTakeFirst() : undefined;
+  const section = position.sectionId
+    ? await db.selectFrom("sections").select(["id", "name"]).where("id", "=", position.sectionId).executeTakeFirst()
+    : undefined;
   const component = (await positions.currentComponent(db, positionId)) ?? null;
-  const [inspections, history, counts] = await Promise.all([repo.inspectionsOfPosition(db, positionId), repo.historyOfPosition(db, positionId), repo.positionCounts(db, positionId)]);
+  const [inspections, history, counts] = await Promise.all([
+    repo.inspectionsOfPosition(db, positionId),
+    repo.historyOfPosition(db, positionId),
+    repo.positionCounts(db, positionId),
+  ]);
   return {
     position,
-    board: { id: board.id, name: board.name, waterLineMm: board.waterLineMm, faceHeightMm: board.faceHeightMm, gridRows: board.gridRows, gridCols: board.gridCols },
+    board: {
+      id: board.id,
+      name: board.name,
+      waterLineMm: board.waterLineMm,
+      faceHeightMm: board.faceHeightMm,
+      gridRows: board.gridRows,
+      gridCols: board.gridCols,
+    },
     section: section ?? null,
     component,
     recommendation: component ? await recommendFor(db, siteId, component) : null,

@@ -19,7 +19,11 @@ export function commonPrefix(tags: string[]): string {
   }
   let best = "T-";
   let n = 0;
-  for (const [p, c] of counts) if (c > n) { best = p; n = c; }
+  for (const [p, c] of counts)
+    if (c > n) {
+      best = p;
+      n = c;
+    }
   return best;
 }
 
@@ -39,12 +43,21 @@ export async function assignTags(db: Db, siteId: string, positionIds: string[], 
       .where("c.siteId", "=", siteId)
       .where("c.positionId", "in", positionIds)
       .where("c.retiredAt", "is", null)
-      .orderBy("p.boardId").orderBy("p.sortOrder").orderBy("p.designation")
+      .orderBy("p.boardId")
+      .orderBy("p.sortOrder")
+      .orderBy("p.designation")
       .forUpdate("c")
       .execute();
     const found = new Set(targets.map((t) => t.positionId));
     const missing = positionIds.filter((id) => !found.has(id));
-    const existing = (await trx.selectFrom("components").select("tagNumber").where("siteId", "=", siteId).where("tagNumber", "is not", null).execute()).map((r) => r.tagNumber!);
+    const existing = (
+      await trx
+        .selectFrom("components")
+        .select("tagNumber")
+        .where("siteId", "=", siteId)
+        .where("tagNumber", "is not", null)
+        .execute()
+    ).map((r) => r.tagNumber!);
     const pre = prefix ?? commonPrefix(existing);
     let next = 0;
     let digits = 4;
@@ -60,11 +73,31 @@ export async function assignTags(db: Db, siteId: string, positionIds: string[], 
       if (t.tagNumber) continue;
       next++;
       const tagNumber = `${pre}${String(next).padStart(digits, "0")}`;
-      await trx.updateTable("components").set({ tagNumber, version: sql`version + 1`, updatedAt: new Date() }).where("id", "=", t.id).execute();
-      await recordAudit(trx, { siteId, entityType: "component", entityId: t.id, action: "update", actorId, boardId: t.boardId, positionId: t.positionId, before: { tagNumber: null }, after: { tagNumber } });
+      await trx
+        .updateTable("components")
+        .set({ tagNumber, version: sql`version + 1`, updatedAt: new Date() })
+        .where("id", "=", t.id)
+        .execute();
+      await recordAudit(trx, {
+        siteId,
+        entityType: "component",
+        entityId: t.id,
+        action: "update",
+        actorId,
+        boardId: t.boardId,
+        positionId: t.positionId,
+        before: { tagNumber: null },
+        after: { tagNumber },
+      });
       assigned.push({ positionId: t.positionId, tagNumber });
     }
-    return { assigned, alreadyTagged: targets.filter((t) => t.tagNumber).map((t) => ({ positionId: t.positionId, tagNumber: t.tagNumber! })), withoutComponent: missing };
+    return {
+      assigned,
+      alreadyTagged: targets
+        .filter((t) => t.tagNumber)
+        .map((t) => ({ positionId: t.positionId, tagNumber: t.tagNumber! })),
+      withoutComponent: missing,
+    };
   });
 }
 
@@ -79,13 +112,26 @@ export async function findTag(db: Db, user: { id: string; isAdmin: boolean }, ta
     .innerJoin("positions as p", "p.id", "c.positionId")
     .innerJoin("boards as b", "b.id", "p.boardId")
     .innerJoin("sites as s", "s.id", "c.siteId")
-    .select(["s.id as siteId", "s.name as siteName", "b.id as boardId", "b.name as boardName", "p.id as positionId", "p.designation"])
+    .select([
+      "s.id as siteId",
+      "s.name as siteName",
+      "b.id as boardId",
+      "b.name as boardName",
+      "p.id as positionId",
+      "p.designation",
+    ])
     .where(sql<string>`lower(c.tag_number)`, "=", tag.toLowerCase())
     .where("c.retiredAt", "is", null)
-    .$if(!user.isAdmin, (w) => w.where("c.siteId", "in", (eb) => eb.selectFrom("memberships").select("siteId").where("userId", "=", user.id)))
+    .$if(!user.isAdmin, (w) =>
+      w.where("c.siteId", "in", (eb) => eb.selectFrom("memberships").select("siteId").where("userId", "=", user.id)),
+    )
     .orderBy("s.name")
     .execute();
   if (rows.length === 0)
-    throw new AppError(404, "tag_not_found", `No position on the sites you can see carries tag ${tag}. A tag from another crew's site stays hidden: ask that site's curator to add you.`);
+    throw new AppError(
+      404,
+      "tag_not_found",
+      `No position on the sites you can see carries tag ${tag}. A tag from another crew's site stays hidden: ask that site's curator to add you.`,
+    );
   return { tag, matches: rows };
 }

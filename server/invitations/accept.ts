@@ -13,10 +13,20 @@ const gone = (code: string, message: string) => new AppError(410, code, message)
 
 /** Unknown links get 404; used, revoked and expired ones 410 with a reason the holder can act on. */
 function usable<T extends { acceptedAt: Date | null; revokedAt: Date | null; expiresAt: Date }>(row: T | undefined): T {
-  if (!row) throw new AppError(404, "invitation_not_found", "This invitation link is not valid. Check that the whole link was copied.");
-  if (row.acceptedAt) throw gone("invitation_used", "This invitation has already been used. Sign in instead, or ask the curator for a new one.");
+  if (!row)
+    throw new AppError(
+      404,
+      "invitation_not_found",
+      "This invitation link is not valid. Check that the whole link was copied.",
+    );
+  if (row.acceptedAt)
+    throw gone(
+      "invitation_used",
+      "This invitation has already been used. Sign in instead, or ask the curator for a new one.",
+    );
   if (row.revokedAt) throw gone("invitation_revoked", "This invitation was withdrawn by the curator.");
-  if (row.expiresAt.getTime() <= Date.now()) throw gone("invitation_expired", "This invitation has expired. Ask the curator to send it again.");
+  if (row.expiresAt.getTime() <= Date.now())
+    throw gone("invitation_expired", "This invitation has expired. Ask the curator to send it again.");
   return row;
 }
 
@@ -45,15 +55,26 @@ export async function acceptInvitation(db: Db, token: string, body: { name?: str
     if (existing) {
       const { password } = acceptExistingAccountBody.parse(body);
       if (!(await verifyPassword(existing.passwordHash, password)))
-        throw new AppError(401, "bad_credentials", "That password does not match the account for this address.", { password: "Wrong password" });
+        throw new AppError(401, "bad_credentials", "That password does not match the account for this address.", {
+          password: "Wrong password",
+        });
       userId = existing.id;
     } else {
       const { name, password } = acceptNewAccountBody.parse(body);
-      userId = (await insertUser(trx, { email: inv.email, name, passwordHash: await hashPassword(password), isAdmin: false })).id;
+      userId = (
+        await insertUser(trx, { email: inv.email, name, passwordHash: await hashPassword(password), isAdmin: false })
+      ).id;
     }
     await joinByInvitation(trx, inv.siteId, userId, inv.role, inv.id);
     await repo.markAccepted(trx, inv.id, userId);
-    await recordAudit(trx, { siteId: inv.siteId, entityType: "invitation", entityId: inv.id, action: "accepted", actorId: userId, after: { role: inv.role } });
+    await recordAudit(trx, {
+      siteId: inv.siteId,
+      entityType: "invitation",
+      entityId: inv.id,
+      action: "accepted",
+      actorId: userId,
+      after: { role: inv.role },
+    });
     return { userId, siteId: inv.siteId };
   });
 }

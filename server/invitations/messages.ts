@@ -3,7 +3,13 @@ import { compose, type Composed } from "../mail/compose";
 
 const when = (d: Date) => d.toISOString().slice(0, 10);
 
-export function invitationMessage(p: { siteName: string; role: Role; inviterName: string | null; url: string; expiresAt: Date }): Composed {
+export function invitationMessage(p: {
+  siteName: string;
+  role: Role;
+  inviterName: string | null;
+  url: string;
+  expiresAt: Date;
+}): Composed {
   const who = p.inviterName ?? "The crew's curator";
   return compose({
     subject: `You are invited to the ${p.siteName} crew on Tideline`,

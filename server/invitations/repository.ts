@@ -19,7 +19,10 @@ const cols = [
 ] as const;
 
 const withInviter = (db: Db) =>
-  db.selectFrom("invitations").leftJoin("users", "users.id", "invitations.invitedBy").select([...cols, "users.name as invitedByName"]);
+  db
+    .selectFrom("invitations")
+    .leftJoin("users", "users.id", "invitations.invitedBy")
+    .select([...cols, "users.name as invitedByName"]);
 
 export type InvitationRow = Awaited<ReturnType<typeof findInvitation>> & {};
 
@@ -45,12 +48,22 @@ export const findLiveByEmail = (db: Db, siteId: string, email: string) =>
     .where("revokedAt", "is", null)
     .executeTakeFirst();
 
-export const insertInvitation = (db: Db, v: { siteId: string; email: string; role: Role; tokenHash: string; invitedBy: string; expiresAt: Date }) =>
-  db.insertInto("invitations").values(v).returning("id").executeTakeFirstOrThrow();
+export const insertInvitation = (
+  db: Db,
+  v: { siteId: string; email: string; role: Role; tokenHash: string; invitedBy: string; expiresAt: Date },
+) => db.insertInto("invitations").values(v).returning("id").executeTakeFirstOrThrow();
 
 /** A new link: the old token stops working, the seven days start again. */
-export const renewInvitation = (db: Db, id: string, v: { role?: Role; tokenHash: string; invitedBy: string; expiresAt: Date }) =>
-  db.updateTable("invitations").set({ ...v, sendStatus: "pending", sendError: null }).where("id", "=", id).execute();
+export const renewInvitation = (
+  db: Db,
+  id: string,
+  v: { role?: Role; tokenHash: string; invitedBy: string; expiresAt: Date },
+) =>
+  db
+    .updateTable("invitations")
+    .set({ ...v, sendStatus: "pending", sendError: null })
+    .where("id", "=", id)
+    .execute();
 
 export const markSent = (db: Db, id: string, status: SendStatus, error: string | null) =>
   db
@@ -59,7 +72,8 @@ export const markSent = (db: Db, id: string, status: SendStatus, error: string |
     .where("id", "=", id)
     .execute();
 
-export const markRevoked = (db: Db, id: string) => db.updateTable("invitations").set({ revokedAt: new Date() }).where("id", "=", id).execute();
+export const markRevoked = (db: Db, id: string) =>
+  db.updateTable("invitations").set({ revokedAt: new Date() }).where("id", "=", id).execute();
 
 /** The invitation behind a link, locked for the accepting transaction. */
 export const findByTokenHash = (db: Db, tokenHash: string, lock = false) => {
@@ -76,4 +90,9 @@ export const markAccepted = (db: Db, id: string, userId: string) =>
   db.updateTable("invitations").set({ acceptedAt: new Date(), acceptedBy: userId }).where("id", "=", id).execute();
 
 export const isMember = async (db: Db, siteId: string, userId: string) =>
-  !!(await db.selectFrom("memberships").select("userId").where("siteId", "=", siteId).where("userId", "=", userId).executeTakeFirst());
+  !!(await db
+    .selectFrom("memberships")
+    .select("userId")
+    .where("siteId", "=", siteId)
+    .where("userId", "=", userId)
+    .executeTakeFirst());

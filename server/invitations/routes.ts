@@ -11,7 +11,9 @@ import * as service from "./service";
 
 const siteParams = z.object({ siteId: z.uuid() });
 const invParams = z.object({ siteId: z.uuid(), invitationId: z.uuid({ message: "invitationId must be a UUID" }) });
-const tokenParams = z.object({ token: z.string().regex(/^[A-Za-z0-9_-]{20,100}$/, { message: "That is not an invitation link" }) });
+const tokenParams = z.object({
+  token: z.string().regex(/^[A-Za-z0-9_-]{20,100}$/, { message: "That is not an invitation link" }),
+});
 
 export function invitationRoutes(deps: MailDeps, lucia: AppLucia, limiters: Limiters) {
   const r = Router();

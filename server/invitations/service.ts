@@ -49,7 +49,11 @@ export const INVITATION_REF = "invitation";
 
 export async function listInvitations(db: Db, siteId: string, viewer: { isAdmin: boolean }) {
   const rows = await repo.listLive(db, siteId);
-  const deliveries = await latestDelivery(db, INVITATION_REF, rows.map((r) => r.id));
+  const deliveries = await latestDelivery(
+    db,
+    INVITATION_REF,
+    rows.map((r) => r.id),
+  );
   const now = new Date();
   return rows.map((r) => toView(r, viewer, now, deliveries.get(r.id)));
 }
@@ -66,7 +70,13 @@ async function siteName(db: Db, siteId: string) {
 type Delivering = { siteId: string; email: string; role: Role; token: string; inviterName: string; expiresAt: Date };
 
 async function message(deps: MailDeps, db: Db, p: Delivering) {
-  const msg = invitationMessage({ siteName: await siteName(db, p.siteId), role: p.role, inviterName: p.inviterName, url: inviteUrl(deps.publicUrl, p.token), expiresAt: p.expiresAt });
+  const msg = invitationMessage({
+    siteName: await siteName(db, p.siteId),
+    role: p.role,
+    inviterName: p.inviterName,
+    url: inviteUrl(deps.publicUrl, p.token),
+    expiresAt: p.expiresAt,
+  });
   return { to: p.email, ...msg, fromName: `${p.inviterName} via Tideline` };
 }
 
@@ -91,22 +101,34 @@ export async function createInvitation(deps: MailDeps, siteId: string, email: st
   // the same answer as one without (the link then asks for that account's password).
   const existing = await findUserByEmail(db, email);
   if (existing && (await repo.isMember(db, siteId, existing.id)))
-    throw new AppError(409, "already_member", "That person is already on this site's crew.", { email: "Already on the crew" });
+    throw new AppError(409, "already_member", "That person is already on this site's crew.", {
+      email: "Already on the crew",
+    });
   const { token, hash } = newToken();
   const expiresAt = expiry();
   const id = await db
     .transaction()
     .execute(async (trx) => {
-    const live = await repo.findLiveByEmail(trx, siteId, email);
-    if (live) await repo.renewInvitation(trx, live.id, { role, tokenHash: hash, invitedBy: actor.id, expiresAt });
-    const invId = live?.id ?? (await repo.insertInvitation(trx, { siteId, email, role, tokenHash: hash, invitedBy: actor.id, expiresAt })).id;
-    await recordAudit(trx, { siteId, entityType: "invitation", entityId: invId, action: live ? "reinvited" : "invited", actorId: actor.id, after: { email, role } });
-    await queueDelivery(deps, trx, invId, { siteId, email, role, token, inviterName: actor.name, expiresAt });
-    return invId;
-  })
+      const live = await repo.findLiveByEmail(trx, siteId, email);
+      if (live) await repo.renewInvitation(trx, live.id, { role, tokenHash: hash, invitedBy: actor.id, expiresAt });
+      const invId =
+        live?.id ??
+        (await repo.insertInvitation(trx, { siteId, email, role, tokenHash: hash, invitedBy: actor.id, expiresAt })).id;
+      await recordAudit(trx, {
+        siteId,
+        entityType: "invitation",
+        entityId: invId,
+        action: live ? "reinvited" : "invited",
+        actorId: actor.id,
+        after: { email, role },
+      });
+      await queueDelivery(deps, trx, invId, { siteId, email, role, token, inviterName: actor.name, expiresAt });
+      return invId;
+    })
     .catch((e) => {
       // Two curators inviting the same address at the same moment: the unique index keeps one.
-      if ((e as { code?: string }).code === "23505") throw conflict("An invitation to that address is already being sent. Refresh the list.");
+      if ((e as { code?: string }).code === "23505")
+        throw conflict("An invitation to that address is already being sent. Refresh the list.");
       throw e;
     });
   await deliverNow(deps, id, { siteId, email, role, token, inviterName: actor.name, expiresAt });
@@ -129,7 +151,14 @@ export async function resendInvitation(deps: MailDeps, siteId: string, id: strin
   await deps.db.transaction().execute(async (trx) => {
     await repo.renewInvitation(trx, id, { tokenHash: hash, invitedBy: actor.id, expiresAt });
     await recordAudit(trx, { siteId, entityType: "invitation", entityId: id, action: "resent", actorId: actor.id });
-    await queueDelivery(deps, trx, id, { siteId, email: row.email, role: row.role, token, inviterName: actor.name, expiresAt });
+    await queueDelivery(deps, trx, id, {
+      siteId,
+      email: row.email,
+      role: row.role,
+      token,
+      inviterName: actor.name,
+      expiresAt,
+    });
   });
   await deliverNow(deps, id, { siteId, email: row.email, role: row.role, token, inviterName: actor.name, expiresAt });
   return viewOf(deps.db, siteId, id, actor);

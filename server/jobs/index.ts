@@ -131,7 +131,10 @@ export class Jobs {
       await this.boss.updateQueue(name, { name, ...q });
     }
     if (this.config.work) {
-      for (const [name, def] of this.defs) await this.boss.work(name, { includeMetadata: true, batchSize: def.options.batchSize ?? 1 }, (jobs) => this.run(name, def, jobs));
+      for (const [name, def] of this.defs)
+        await this.boss.work(name, { includeMetadata: true, batchSize: def.options.batchSize ?? 1 }, (jobs) =>
+          this.run(name, def, jobs),
+        );
       for (const [name, s] of this.schedules) {
         if (s) await this.boss.schedule(name, s.cron, s.data, { tz: s.tz });
         else await this.boss.unschedule(name);
@@ -145,8 +148,12 @@ export class Jobs {
     // pg-boss completes or fails the whole batch; batches are 1 unless a job asks for more.
     for (const job of batch) {
       const ctx: JobContext = {
-        id: job.id, name, retryCount: job.retryCount, retryLimit: job.retryLimit,
-        lastAttempt: job.retryCount >= job.retryLimit, log: this.log.child({ job: name, jobId: job.id, attempt: job.retryCount + 1 }),
+        id: job.id,
+        name,
+        retryCount: job.retryCount,
+        retryLimit: job.retryLimit,
+        lastAttempt: job.retryCount >= job.retryLimit,
+        log: this.log.child({ job: name, jobId: job.id, attempt: job.retryCount + 1 }),
       };
       const t0 = performance.now();
       try {
@@ -169,7 +176,8 @@ export class Jobs {
     if (opts.startAfter) options.startAfter = opts.startAfter;
     if (opts.singletonKey) options.singletonKey = opts.singletonKey;
     const id = await this.boss.send(name, data, options);
-    if (!id && !opts.singletonKey) throw new Error(`The job queue refused "${name}" (is its queue created? call jobs.start() first)`);
+    if (!id && !opts.singletonKey)
+      throw new Error(`The job queue refused "${name}" (is its queue created? call jobs.start() first)`);
     return id;
   }
 
@@ -218,4 +226,5 @@ export class Jobs {
 export const createJobs = (config: JobsConfig) => new Jobs(config);
 
 /** The worker switch: TIDELINE_WORKER=off (or 0/false) makes a web-only instance. */
-export const workerEnabled = (env = process.env) => !["off", "0", "false", "no"].includes((env.TIDELINE_WORKER ?? "on").toLowerCase());
+export const workerEnabled = (env = process.env) =>
+  !["off", "0", "false", "no"].includes((env.TIDELINE_WORKER ?? "on").toLowerCase());

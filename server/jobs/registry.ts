@@ -32,14 +32,22 @@ export const overdueCron = (env = process.env) => env.RTS_OVERDUE_CRON ?? "*/5 *
 export function defineAppJobs(jobs: Jobs, deps: JobDeps, env = process.env) {
   defineMailJobs(jobs, deps);
   definePhotoJobs(jobs, deps);
-  jobs.define(WEEKLY_SUMMARY_JOB, async (_data, ctx) => {
-    const r = await sendWeeklySummaries({ ...deps, jobs });
-    ctx.log.info(r, "weekly summary queued");
-  }, { retryLimit: 2, retryDelay: 300 });
-  jobs.define(OVERDUE_WATCH_JOB, async (_data, ctx) => {
-    const r = await sendOverdueWatchNotices({ ...deps, jobs }, new Date());
-    if (r.overdue) ctx.log.info(r, "overdue watch checks noticed");
-  }, { retryLimit: 1, retryDelay: 60 });
+  jobs.define(
+    WEEKLY_SUMMARY_JOB,
+    async (_data, ctx) => {
+      const r = await sendWeeklySummaries({ ...deps, jobs });
+      ctx.log.info(r, "weekly summary queued");
+    },
+    { retryLimit: 2, retryDelay: 300 },
+  );
+  jobs.define(
+    OVERDUE_WATCH_JOB,
+    async (_data, ctx) => {
+      const r = await sendOverdueWatchNotices({ ...deps, jobs }, new Date());
+      if (r.overdue) ctx.log.info(r, "overdue watch checks noticed");
+    },
+    { retryLimit: 1, retryDelay: 60 },
+  );
   if (overdueCron(env) === "off") jobs.never(OVERDUE_WATCH_JOB);
   else jobs.every(OVERDUE_WATCH_JOB, overdueCron(env), {}, "UTC");
   const cron = weeklyCron(env);

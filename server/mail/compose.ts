@@ -42,7 +42,9 @@ function htmlPart(p: MailParts): string {
       ? `<p style="margin:24px 0"><a href="${escapeHtml(p.action.url)}" style="background:#e5b24f;color:#0b1117;padding:12px 20px;border-radius:6px;font-weight:bold;text-decoration:none;display:inline-block">${escapeHtml(p.action.label)}</a></p>` +
         `<p style="margin:0 0 16px;font-size:13px;color:#4a5f6c">Or open this address: <a href="${escapeHtml(p.action.url)}" style="color:#1f4775">${escapeHtml(p.action.url)}</a></p>`
       : "",
-    p.footer?.length ? `<hr style="border:0;border-top:1px solid #b4c3cd;margin:24px 0 12px">${p.footer.map((f) => `<p style="margin:0 0 6px;font-size:12px;color:#4a5f6c">${escapeHtml(f)}</p>`).join("")}` : "",
+    p.footer?.length
+      ? `<hr style="border:0;border-top:1px solid #b4c3cd;margin:24px 0 12px">${p.footer.map((f) => `<p style="margin:0 0 6px;font-size:12px;color:#4a5f6c">${escapeHtml(f)}</p>`).join("")}`
+      : "",
   ];
   return `<!doctype html><html lang="en"><head><meta charset="utf-8"><title>${escapeHtml(p.subject)}</title></head><body style="margin:0;background:#edf2f5;color:#0b1117;font-family:Verdana,Arial,sans-serif;font-size:15px"><div style="max-width:560px;margin:0 auto;padding:24px;background:#ffffff"><p style="margin:0 0 20px;font-weight:bold;letter-spacing:1px;color:#22313d">TIDELINE</p>${blocks.join("")}</div></body></html>`;
 }

@@ -63,7 +63,8 @@ export interface FakeSmtp {
   stop(): Promise<void>;
 }
 
-const addresses = (a: AddressObject | AddressObject[] | undefined) => (Array.isArray(a) ? a.map((x) => x.text).join(", ") : (a?.text ?? ""));
+const addresses = (a: AddressObject | AddressObject[] | undefined) =>
+  Array.isArray(a) ? a.map((x) => x.text).join(", ") : (a?.text ?? "");
 
 function createServer(mailbox: FakeMailbox) {
   return new SMTPServer({
@@ -107,7 +108,9 @@ function listen(server: SMTPServer, port: number, host: string): Promise<number>
 }
 
 /** Starts on host:port; when that port is taken (another checkout), on a free one. */
-export async function startFakeSmtp(opts: { port?: number; host?: string; mailbox?: FakeMailbox } = {}): Promise<FakeSmtp> {
+export async function startFakeSmtp(
+  opts: { port?: number; host?: string; mailbox?: FakeMailbox } = {},
+): Promise<FakeSmtp> {
   const host = opts.host ?? "127.0.0.1";
   const mailbox = opts.mailbox ?? new FakeMailbox();
   let server = createServer(mailbox);

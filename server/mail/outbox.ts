@@ -36,11 +36,24 @@ export const SUPERSEDED = "Replaced by a newer message before it was delivered."
  */
 export async function queueMail(trx: Kysely<Database>, jobs: Jobs, msg: MailMessage, ref?: MailRef): Promise<string> {
   if (ref)
-    await trx.updateTable("mailOutbox").set({ status: "failed", lastError: SUPERSEDED })
-      .where("refType", "=", ref.type).where("refId", "=", ref.id).where("status", "in", ["queued", "retrying"]).execute();
+    await trx
+      .updateTable("mailOutbox")
+      .set({ status: "failed", lastError: SUPERSEDED })
+      .where("refType", "=", ref.type)
+      .where("refId", "=", ref.id)
+      .where("status", "in", ["queued", "retrying"])
+      .execute();
   const row = await trx
     .insertInto("mailOutbox")
-    .values({ toAddress: msg.to, fromName: msg.fromName ?? null, subject: msg.subject, textBody: msg.text, htmlBody: msg.html, refType: ref?.type ?? null, refId: ref?.id ?? null })
+    .values({
+      toAddress: msg.to,
+      fromName: msg.fromName ?? null,
+      subject: msg.subject,
+      textBody: msg.text,
+      htmlBody: msg.html,
+      refType: ref?.type ?? null,
+      refId: ref?.id ?? null,
+    })
     .returning("id")
     .executeTakeFirstOrThrow();
   await jobs.enqueue(MAIL_JOB, { outboxId: row.id }, { trx });
@@ -51,10 +64,16 @@ export async function queueMail(trx: Kysely<Database>, jobs: Jobs, msg: MailMess
  * With a job queue: queued in the outbox (in `trx` when given, else its own transaction).
  * Without one (a one-off CLI run such as `npm run mail:weekly -- --dry-run`): sent now.
  */
-export async function sendOrQueue(deps: { db: Db; mailer: Mailer; jobs?: Jobs }, msg: MailMessage, opts: { trx?: Kysely<Database>; ref?: MailRef } = {}): Promise<SendResult | { ok: true; queued: string }> {
+export async function sendOrQueue(
+  deps: { db: Db; mailer: Mailer; jobs?: Jobs },
+  msg: MailMessage,
+  opts: { trx?: Kysely<Database>; ref?: MailRef } = {},
+): Promise<SendResult | { ok: true; queued: string }> {
   if (!deps.jobs) return deps.mailer.send(msg);
   const jobs = deps.jobs;
-  const queued = opts.trx ? await queueMail(opts.trx, jobs, msg, opts.ref) : await deps.db.transaction().execute((trx) => queueMail(trx, jobs, msg, opts.ref));
+  const queued = opts.trx
+    ? await queueMail(opts.trx, jobs, msg, opts.ref)
+    : await deps.db.transaction().execute((trx) => queueMail(trx, jobs, msg, opts.ref));
   return { ok: true, queued };
 }
 
@@ -66,14 +85,28 @@ export function defineMailJobs(jobs: Jobs, deps: { db: Db; mailer: Mailer }) {
       const row = await deps.db.selectFrom("mailOutbox").selectAll().where("id", "=", outboxId).executeTakeFirst();
       // Sent by an earlier run of this job, or withdrawn: nothing to do.
       if (!row || row.status === "sent" || row.status === "failed") return;
-      const r = await deps.mailer.send({ to: row.toAddress, subject: row.subject, text: row.textBody, html: row.htmlBody, fromName: row.fromName ?? undefined });
+      const r = await deps.mailer.send({
+        to: row.toAddress,
+        subject: row.subject,
+        text: row.textBody,
+        html: row.htmlBody,
+        fromName: row.fromName ?? undefined,
+      });
       if (r.ok) {
-        await deps.db.updateTable("mailOutbox").set({ status: "sent", sentAt: new Date(), attempts: row.attempts + 1, lastError: null }).where("id", "=", outboxId).execute();
+        await deps.db
+          .updateTable("mailOutbox")
+          .set({ status: "sent", sentAt: new Date(), attempts: row.attempts + 1, lastError: null })
+          .where("id", "=", outboxId)
+          .execute();
         ctx.log.info({ outboxId }, "e-mail sent");
         return;
       }
       const status: OutboxStatus = ctx.lastAttempt ? "failed" : "retrying";
-      await deps.db.updateTable("mailOutbox").set({ status, attempts: row.attempts + 1, lastError: r.error.slice(0, 1000) }).where("id", "=", outboxId).execute();
+      await deps.db
+        .updateTable("mailOutbox")
+        .set({ status, attempts: row.attempts + 1, lastError: r.error.slice(0, 1000) })
+        .where("id", "=", outboxId)
+        .execute();
       throw new Error(r.error);
     },
     mailRetry(),
@@ -100,6 +133,7 @@ export async function latestDelivery(db: Db, refType: string, ids: string[]): Pr
     .orderBy("refId")
     .orderBy("createdAt", "desc")
     .execute();
-  for (const r of rows) out.set(r.refId!, { status: r.status, lastError: r.lastError, sentAt: r.sentAt, attempts: r.attempts });
+  for (const r of rows)
+    out.set(r.refId!, { status: r.status, lastError: r.lastError, sentAt: r.sentAt, attempts: r.attempts });
   return out;
 }

@@ -10,7 +10,8 @@ import type { FakeMailbox } from "./fake-smtp";
 export function mailboxRoutes(mailbox: FakeMailbox | undefined) {
   const r = Router();
   const active = () => {
-    if (!mailbox) throw new AppError(404, "not_found", "There is no local mailbox: e-mail goes to a real mail server (SMTP_URL).");
+    if (!mailbox)
+      throw new AppError(404, "not_found", "There is no local mailbox: e-mail goes to a real mail server (SMTP_URL).");
     return mailbox;
   };
   r.get("/admin/mailbox", requireAdmin, (_req, res) => {

@@ -16,7 +16,8 @@ export interface MailSetup {
   stop(): Promise<void>;
 }
 
-export const publicUrlFromEnv = (port: number, env = process.env) => (env.PUBLIC_URL ?? `http://127.0.0.1:${port}`).replace(/\/+$/, "");
+export const publicUrlFromEnv = (port: number, env = process.env) =>
+  (env.PUBLIC_URL ?? `http://127.0.0.1:${port}`).replace(/\/+$/, "");
 
 export async function mailFromEnv(opts: { port: number; env?: NodeJS.ProcessEnv }): Promise<MailSetup> {
   const env = opts.env ?? process.env;
@@ -27,7 +28,9 @@ export async function mailFromEnv(opts: { port: number; env?: NodeJS.ProcessEnv 
   }
   const fake = await startFakeSmtp({ port: Number(env.SMTP_PORT ?? DEFAULT_SMTP_PORT) });
   const mailer = smtpMailer({ url: fake.url, from: env.MAIL_FROM });
-  console.log(`[mail] SMTP_URL is unset: e-mail goes to the local fake server on ${fake.url} (read it at ${publicUrl}/admin/mailbox as an admin); nothing leaves this machine`);
+  console.log(
+    `[mail] SMTP_URL is unset: e-mail goes to the local fake server on ${fake.url} (read it at ${publicUrl}/admin/mailbox as an admin); nothing leaves this machine`,
+  );
   return {
     mailer,
     mailbox: fake.mailbox,

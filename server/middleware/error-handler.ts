@@ -17,7 +17,10 @@ function zodFields(err: ZodError): Record<string, string> {
 export const errorHandler: ErrorRequestHandler = (err, _req, res, _next) => {
   if (res.headersSent) {
     // Half a file must not look like a whole one: cut the connection so the download fails.
-    console.error("[api] error after response started:", dbFailureOf(err) ? `database ${dbFailureOf(err)}: ${err?.message}` : err);
+    console.error(
+      "[api] error after response started:",
+      dbFailureOf(err) ? `database ${dbFailureOf(err)}: ${err?.message}` : err,
+    );
     res.destroy();
     return;
   }
@@ -25,7 +28,11 @@ export const errorHandler: ErrorRequestHandler = (err, _req, res, _next) => {
     const fields = zodFields(err);
     const first = Object.entries(fields)[0];
     res.status(400).json({
-      error: { code: "invalid_input", message: first ? `Check ${first[0] === "_" ? "the request" : first[0]}: ${first[1]}` : "Invalid input.", fields },
+      error: {
+        code: "invalid_input",
+        message: first ? `Check ${first[0] === "_" ? "the request" : first[0]}: ${first[1]}` : "Invalid input.",
+        fields,
+      },
     });
     return;
   }
@@ -44,13 +51,15 @@ export const errorHandler: ErrorRequestHandler = (err, _req, res, _next) => {
     return;
   }
   // body-parser and multer errors carry a status or a code of their own.
-  const status = typeof err?.status === "number" ? err.status : typeof err?.statusCode === "number" ? err.statusCode : 500;
+  const status =
+    typeof err?.status === "number" ? err.status : typeof err?.statusCode === "number" ? err.statusCode : 500;
   if (status === 413 || err?.code === "LIMIT_FILE_SIZE") {
     res.status(413).json({ error: { code: "too_large", message: "That is larger than Tideline accepts." } });
     return;
   }
   if (status >= 400 && status < 500) {
-    const message = err?.type === "entity.parse.failed" ? "The request body is not valid JSON." : "The request could not be read.";
+    const message =
+      err?.type === "entity.parse.failed" ? "The request body is not valid JSON." : "The request could not be read.";
     res.status(status).json({ error: { code: "bad_request", message } });
     return;
   }
@@ -60,12 +69,23 @@ export const errorHandler: ErrorRequestHandler = (err, _req, res, _next) => {
     console.error(`[api] database ${dbFailure}: ${err?.code ? `${err.code} ` : ""}${err?.message ?? err}`);
     res.setHeader("Retry-After", "5");
     res.status(503).json({
-      error: dbFailure === "timeout"
-        ? { code: "db_timeout", message: "The database took too long to answer, so this request could not be completed. Try again in a moment." }
-        : { code: "db_unavailable", message: "The database cannot be reached just now, so this request could not be completed. Try again in a moment." },
+      error:
+        dbFailure === "timeout"
+          ? {
+              code: "db_timeout",
+              message:
+                "The database took too long to answer, so this request could not be completed. Try again in a moment.",
+            }
+          : {
+              code: "db_unavailable",
+              message:
+                "The database cannot be reached just now, so this request could not be completed. Try again in a moment.",
+            },
     });
     return;
   }
   console.error("[api] unexpected error:", err);
-  res.status(500).json({ error: { code: "internal", message: "Something went wrong on the server. It has been logged." } });
+  res
+    .status(500)
+    .json({ error: { code: "internal", message: "Something went wrong on the server. It has been logged." } });
 };

@@ -43,7 +43,12 @@ export function hostAllowlist(allowed: Set<string>): RequestHandler {
     if (host && allowed.has(host)) return next();
     res.status(421);
     if (req.path.startsWith("/api/")) {
-      res.json({ error: { code: "unknown_host", message: "This server does not answer to that host name. Set PUBLIC_URL or ALLOWED_HOSTS." } });
+      res.json({
+        error: {
+          code: "unknown_host",
+          message: "This server does not answer to that host name. Set PUBLIC_URL or ALLOWED_HOSTS.",
+        },
+      });
     } else {
       res.type("text/plain").send("This server does not answer to that host name.");
     }
@@ -90,7 +95,12 @@ const page = (status: number, title: string) =>
 
 /** Errors outside /api (a malformed path such as /%E0%A4%A, a failed file read): a plain page, never a stack. */
 export const plainErrorPage: ErrorRequestHandler = (err, _req, res, _next) => {
-  const status = typeof err?.status === "number" && err.status >= 400 && err.status < 600 ? err.status : typeof err?.statusCode === "number" ? err.statusCode : 500;
+  const status =
+    typeof err?.status === "number" && err.status >= 400 && err.status < 600
+      ? err.status
+      : typeof err?.statusCode === "number"
+        ? err.statusCode
+        : 500;
   if (status >= 500) console.error("[web] error serving a page:", err);
   if (res.headersSent) return void res.end();
   const title = status === 404 ? "Not found" : status < 500 ? "Bad request" : "Server error";

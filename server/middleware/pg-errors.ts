@@ -16,15 +16,32 @@ export function mapPgError(err: unknown): PgMapped | null {
   if (typeof e?.code !== "string" || !/^[0-9A-Z]{5}$/.test(e.code) || e.severity === undefined) return null;
   const code = e.code;
   if (code.startsWith("22"))
-    return { status: 400, code: "invalid_input", message: "A value in the request cannot be stored (out of range or malformed). Check the numbers, dates and text." };
+    return {
+      status: 400,
+      code: "invalid_input",
+      message:
+        "A value in the request cannot be stored (out of range or malformed). Check the numbers, dates and text.",
+    };
   if (code === "23505" || code === "23P01")
-    return { status: 409, code: "conflict", message: "That clashes with a record saved a moment ago. Refresh and try again." };
+    return {
+      status: 409,
+      code: "conflict",
+      message: "That clashes with a record saved a moment ago. Refresh and try again.",
+    };
   if (code === "23503")
-    return { status: 409, code: "conflict", message: "That refers to a record that no longer exists, or is still referred to. Refresh and try again." };
+    return {
+      status: 409,
+      code: "conflict",
+      message: "That refers to a record that no longer exists, or is still referred to. Refresh and try again.",
+    };
   if (code === "23502" || code === "23514")
     return { status: 400, code: "invalid_input", message: "A value in the request is missing or not allowed." };
   if (code === "40001" || code === "40P01")
-    return { status: 409, code: "conflict", message: "Someone changed the same records at the same moment. Try again." };
+    return {
+      status: 409,
+      code: "conflict",
+      message: "Someone changed the same records at the same moment. Try again.",
+    };
   return null;
 }
 

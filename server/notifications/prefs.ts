@@ -3,7 +3,11 @@ import type { Db } from "../db";
 
 /** Every notification is on until its user switches it off (a row with enabled = false). */
 export async function getPrefs(db: Db, userId: string): Promise<Record<NotificationKey, boolean>> {
-  const rows = await db.selectFrom("notificationPrefs").select(["key", "enabled"]).where("userId", "=", userId).execute();
+  const rows = await db
+    .selectFrom("notificationPrefs")
+    .select(["key", "enabled"])
+    .where("userId", "=", userId)
+    .execute();
   const out = Object.fromEntries(NOTIFICATION_KEYS.map((k) => [k, true])) as Record<NotificationKey, boolean>;
   for (const r of rows) out[r.key] = r.enabled;
   return out;

@@ -23,7 +23,14 @@ export function notificationRoutes(db: Db) {
     const userId = res.locals.user!.id;
     await db.transaction().execute(async (trx) => {
       await setPref(trx, userId, key, enabled);
-      await recordAudit(trx, { siteId: null, entityType: "notification_pref", entityId: userId, action: "update", actorId: userId, after: { [key]: enabled } });
+      await recordAudit(trx, {
+        siteId: null,
+        entityType: "notification_pref",
+        entityId: userId,
+        action: "update",
+        actorId: userId,
+        after: { [key]: enabled },
+      });
     });
     res.json(await send(res.locals.user!.id));
   });

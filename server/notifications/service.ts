@@ -17,7 +17,8 @@ export interface NotifyResult {
 }
 
 /** Where a defect opens in the client (the defect register's detail page). */
-export const defectUrl = (publicUrl: string, siteId: string, defectId: string) => `${publicUrl}/sites/${siteId}/defects/${defectId}`;
+export const defectUrl = (publicUrl: string, siteId: string, defectId: string) =>
+  `${publicUrl}/sites/${siteId}/defects/${defectId}`;
 
 async function loadDefect(deps: MailDeps, defectId: string) {
   return deps.db
@@ -62,10 +63,18 @@ const footer = (publicUrl: string, what: string) => [
   "Tideline records and computes; it never declares equipment safe. A qualified person decides.",
 ];
 
-async function sendTo(deps: MailDeps, userIds: string[], key: NotificationKey, actorId: string | null, build: (name: string) => Composed): Promise<NotifyResult> {
+async function sendTo(
+  deps: MailDeps,
+  userIds: string[],
+  key: NotificationKey,
+  actorId: string | null,
+  build: (name: string) => Composed,
+): Promise<NotifyResult> {
   const out: NotifyResult = { sent: [], skipped: [], failed: [] };
   const off = await optedOut(deps.db, userIds, key);
-  const users = userIds.length ? await deps.db.selectFrom("users").select(["id", "email", "name"]).where("id", "in", userIds).execute() : [];
+  const users = userIds.length
+    ? await deps.db.selectFrom("users").select(["id", "email", "name"]).where("id", "in", userIds).execute()
+    : [];
   for (const id of userIds) {
     const u = users.find((x) => x.id === id);
     if (id === actorId) out.skipped.push({ userId: id, reason: "is_actor" });
@@ -82,11 +91,19 @@ async function sendTo(deps: MailDeps, userIds: string[], key: NotificationKey, a
 }
 
 /** To the defect's assignee, unless they assigned it to themselves or switched this off. */
-export async function notifyDefectAssigned(deps: MailDeps, p: { defectId: string; actorId: string | null }): Promise<NotifyResult> {
+export async function notifyDefectAssigned(
+  deps: MailDeps,
+  p: { defectId: string; actorId: string | null },
+): Promise<NotifyResult> {
   const d = await loadDefect(deps, p.defectId);
   if (!d?.assigneeId) return { sent: [], skipped: [], failed: [] };
   // Someone since taken off the crew hears nothing more about the site.
-  const member = await deps.db.selectFrom("memberships").select("userId").where("siteId", "=", d.siteId).where("userId", "=", d.assigneeId).executeTakeFirst();
+  const member = await deps.db
+    .selectFrom("memberships")
+    .select("userId")
+    .where("siteId", "=", d.siteId)
+    .where("userId", "=", d.assigneeId)
+    .executeTakeFirst();
   if (!member) return { sent: [], skipped: [{ userId: d.assigneeId, reason: "not_on_crew" }], failed: [] };
   return sendTo(deps, [d.assigneeId], "defect_assigned", p.actorId, (name) =>
     compose({
@@ -100,16 +117,28 @@ export async function notifyDefectAssigned(deps: MailDeps, p: { defectId: string
 }
 
 /** To the site's curators (who verify repairs), except whoever repaired it and whoever made the change. */
-export async function notifyAwaitingVerification(deps: MailDeps, p: { defectId: string; actorId: string | null }): Promise<NotifyResult> {
+export async function notifyAwaitingVerification(
+  deps: MailDeps,
+  p: { defectId: string; actorId: string | null },
+): Promise<NotifyResult> {
   const d = await loadDefect(deps, p.defectId);
   if (!d) return { sent: [], skipped: [], failed: [] };
-  const curators = await deps.db.selectFrom("memberships").select("userId").where("siteId", "=", d.siteId).where("role", "=", "curator").execute();
+  const curators = await deps.db
+    .selectFrom("memberships")
+    .select("userId")
+    .where("siteId", "=", d.siteId)
+    .where("role", "=", "curator")
+    .execute();
   const ids = curators.map((c) => c.userId).filter((id) => id !== d.repairedBy);
   return sendTo(deps, ids, "awaiting_verification", p.actorId, (name) =>
     compose({
       subject: `Waiting for your check: ${d.title} (${d.boardName})`,
       greeting: `Hello ${name},`,
-      body: [`A repair on ${d.siteName} is ready for a curator to verify:`, [d.title, ...facts(d)], "Check the work and the readings before closing it."],
+      body: [
+        `A repair on ${d.siteName} is ready for a curator to verify:`,
+        [d.title, ...facts(d)],
+        "Check the work and the readings before closing it.",
+      ],
       action: { label: "Verify the repair", url: defectUrl(deps.publicUrl, d.siteId, d.id) },
       footer: footer(deps.publicUrl, "you are a curator of this site"),
     }),

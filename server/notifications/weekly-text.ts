@@ -39,7 +39,9 @@ function lines<T extends DefectLine>(items: T[], count: number, fmt: (d: T) => s
 }
 
 function blockerText(b: BlockerLine): string {
-  const why = [b.blocksEnergisation ? "blocks re-energisation" : "", b.safetyCritical ? "safety-critical" : ""].filter(Boolean).join(", ");
+  const why = [b.blocksEnergisation ? "blocks re-energisation" : "", b.safetyCritical ? "safety-critical" : ""]
+    .filter(Boolean)
+    .join(", ");
   return `${b.title} — ${where(b)} (${why}; ${DEFECT_STATUS_LABELS[b.status].toLowerCase()})`;
 }
 
@@ -56,16 +58,37 @@ export function buildWeeklySummary(w: WeeklyInput): Composed {
     ],
   ];
   if (quiet) body.push("No inspections were logged and no defects were opened or closed this week.");
-  if (i.byBoard.length) body.push("Inspections by board:", i.byBoard.map((b) => `${b.board}: ${b.count}`));
-  if (w.opened.count) body.push("Opened:", lines(w.opened.items, w.opened.count, (d) => `${d.title} — ${where(d)}`));
-  if (w.closed.count) body.push("Closed:", lines(w.closed.items, w.closed.count, (d) => `${d.title} — ${where(d)}`));
-  if (w.blockers.count) body.push("Still blocking re-energisation or marked safety-critical:", lines(w.blockers.items, w.blockers.count, blockerText));
-  else body.push("No unresolved defect is marked as blocking re-energisation or safety-critical. That is not a statement that any board is safe to energise: a qualified person decides.");
+  if (i.byBoard.length)
+    body.push(
+      "Inspections by board:",
+      i.byBoard.map((b) => `${b.board}: ${b.count}`),
+    );
+  if (w.opened.count)
+    body.push(
+      "Opened:",
+      lines(w.opened.items, w.opened.count, (d) => `${d.title} — ${where(d)}`),
+    );
+  if (w.closed.count)
+    body.push(
+      "Closed:",
+      lines(w.closed.items, w.closed.count, (d) => `${d.title} — ${where(d)}`),
+    );
+  if (w.blockers.count)
+    body.push(
+      "Still blocking re-energisation or marked safety-critical:",
+      lines(w.blockers.items, w.blockers.count, blockerText),
+    );
+  else
+    body.push(
+      "No unresolved defect is marked as blocking re-energisation or safety-critical. That is not a statement that any board is safe to energise: a qualified person decides.",
+    );
   return compose({
     subject: `Tideline weekly: ${w.siteName}, ${day(w.from)} to ${day(w.to)}${w.blockers.count ? ` — ${plural(w.blockers.count, "blocker")}` : ""}`,
     greeting: "Hello,",
     body,
     action: { label: `Open ${w.siteName}`, url: w.siteUrl },
-    footer: [`You get this as a curator of ${w.siteName}. Switch the weekly summary off on your account page: ${w.accountUrl}`],
+    footer: [
+      `You get this as a curator of ${w.siteName}. Switch the weekly summary off on your account page: ${w.accountUrl}`,
+    ],
   });
 }

@@ -35,7 +35,11 @@ const defectLines = (db: Db, siteId: string) =>
 const asSet = <T extends { total: number }>(rows: T[]) => ({ count: rows[0]?.total ?? 0, items: rows });
 
 async function inspectionsInWeek(db: Db, siteId: string, from: Date, now: Date) {
-  const base = db.selectFrom("inspections").where("siteId", "=", siteId).where("inspectedAt", ">", from).where("inspectedAt", "<=", now);
+  const base = db
+    .selectFrom("inspections")
+    .where("siteId", "=", siteId)
+    .where("inspectedAt", ">", from)
+    .where("inspectedAt", "<=", now);
   const totals = await base
     .select([sql<number>`count(*)::int`.as("total"), sql<number>`count(distinct position_id)::int`.as("positions")])
     .executeTakeFirstOrThrow();
@@ -53,9 +57,17 @@ async function inspectionsInWeek(db: Db, siteId: string, from: Date, now: Date) 
   return { total: totals.total, positions: totals.positions, byBoard };
 }
 
-export async function gatherWeek(db: Db, site: { id: string; name: string }, now: Date, publicUrl: string): Promise<WeeklyInput> {
+export async function gatherWeek(
+  db: Db,
+  site: { id: string; name: string },
+  now: Date,
+  publicUrl: string,
+): Promise<WeeklyInput> {
   const from = new Date(now.getTime() - WEEK_MS);
-  const opened = await defectLines(db, site.id).where("defects.createdAt", ">", from).where("defects.createdAt", "<=", now).execute();
+  const opened = await defectLines(db, site.id)
+    .where("defects.createdAt", ">", from)
+    .where("defects.createdAt", "<=", now)
+    .execute();
   const closed = await defectLines(db, site.id)
     .where("defects.status", "=", "closed")
     .where("defects.closedAt", ">", from)
@@ -100,7 +112,11 @@ export async function sendWeeklySummaries(deps: MailDeps, opts: { now?: Date } =
       .execute();
     if (!curators.length) continue;
     out.sites++;
-    const off = await optedOut(deps.db, curators.map((c) => c.id), "weekly_summary");
+    const off = await optedOut(
+      deps.db,
+      curators.map((c) => c.id),
+      "weekly_summary",
+    );
     const wanted = curators.filter((c) => !off.has(c.id));
     out.switchedOff += curators.length - wanted.length;
     if (!wanted.length) continue;

@@ -27,7 +27,16 @@ interface Need {
   ridesWith?: string;
 }
 
-type Nameplate = { kind: ComponentKind | null; ratingAmps: number | null; poles: number | null; voltageRating: number | null; frame: string | null; mounting: string | null; maker: string | null; model: string | null };
+type Nameplate = {
+  kind: ComponentKind | null;
+  ratingAmps: number | null;
+  poles: number | null;
+  voltageRating: number | null;
+  frame: string | null;
+  mounting: string | null;
+  maker: string | null;
+  model: string | null;
+};
 const pos = (v: number | null) => (v != null && Number.isFinite(v) && v > 0 ? v : null);
 
 /** Register values are not validated like wanted-list input; an odd one (0 A) is treated as blank, never a crash. */
@@ -35,13 +44,25 @@ export function specOf(c: Partial<Nameplate>): PartSpec {
   const kind = c.kind && (COMPONENT_KINDS as readonly string[]).includes(c.kind) ? c.kind : "other";
   const poles = pos(c.poles ?? null);
   return {
-    kind, ratingAmps: pos(c.ratingAmps ?? null), poles: poles != null && Number.isInteger(poles) ? poles : null, voltageRating: pos(c.voltageRating ?? null),
-    frame: c.frame ?? "", mounting: c.mounting ?? "", maker: c.maker ?? "", model: c.model ?? "",
+    kind,
+    ratingAmps: pos(c.ratingAmps ?? null),
+    poles: poles != null && Number.isInteger(poles) ? poles : null,
+    voltageRating: pos(c.voltageRating ?? null),
+    frame: c.frame ?? "",
+    mounting: c.mounting ?? "",
+    maker: c.maker ?? "",
+    model: c.model ?? "",
   };
 }
 
-export const lineSpec = (l: Pick<repo.LineRecord, "kind" | "ratingAmps" | "poles" | "voltageRating" | "frame" | "mounting" | "maker" | "model" | "mustMatch">): PartSpec => ({
-  ...specOf(l), mustMatch: l.mustMatch ?? undefined,
+export const lineSpec = (
+  l: Pick<
+    repo.LineRecord,
+    "kind" | "ratingAmps" | "poles" | "voltageRating" | "frame" | "mounting" | "maker" | "model" | "mustMatch"
+  >,
+): PartSpec => ({
+  ...specOf(l),
+  mustMatch: l.mustMatch ?? undefined,
 });
 
 /** What changed: the whole site, or some components and/or defects. */
@@ -54,7 +75,10 @@ const sourceId = (s: Need["source"]) => s.componentId ?? s.defectId!;
  * must-match list, so matching costs one key per need and list, not one per need and line.
  */
 class LineIndex {
-  private groups = new Map<string, { mustMatch: PartSpec["mustMatch"]; byKey: Map<string, Array<{ line: repo.LineRecord; order: number }>> }>();
+  private groups = new Map<
+    string,
+    { mustMatch: PartSpec["mustMatch"]; byKey: Map<string, Array<{ line: repo.LineRecord; order: number }>> }
+  >();
   private n = 0;
   add(line: repo.LineRecord) {
     const spec = lineSpec(line);
@@ -74,15 +98,32 @@ class LineIndex {
 }
 
 async function collectNeeds(trx: Db, siteId: string, scope: DemandScope): Promise<Need[]> {
-  const comps = await repo.wantedComponents(trx, siteId, scope === "site" ? undefined : scope.componentIds ?? []);
+  const comps = await repo.wantedComponents(trx, siteId, scope === "site" ? undefined : (scope.componentIds ?? []));
   const needs: Need[] = comps.map((c) => ({
-    source: { componentId: c.id, defectId: null }, spec: specOf(c), need: "", qty: 1, positionId: c.positionId, boardId: c.boardId,
+    source: { componentId: c.id, defectId: null },
+    spec: specOf(c),
+    need: "",
+    qty: 1,
+    positionId: c.positionId,
+    boardId: c.boardId,
   }));
-  const defects = await repo.wantedDefects(trx, siteId, scope === "site" ? undefined : { ids: scope.defectIds ?? [], componentIds: scope.componentIds ?? [] });
+  const defects = await repo.wantedDefects(
+    trx,
+    siteId,
+    scope === "site" ? undefined : { ids: scope.defectIds ?? [], componentIds: scope.componentIds ?? [] },
+  );
   for (const d of defects) {
     const need = d.partsNeeded.trim();
     const ridesWith = !need && d.componentId && d.componentWanted ? d.componentId : undefined;
-    needs.push({ source: { componentId: null, defectId: d.id }, spec: specOf(d), need, qty: ridesWith ? 0 : 1, positionId: d.positionId, boardId: d.boardId, ridesWith });
+    needs.push({
+      source: { componentId: null, defectId: d.id },
+      spec: specOf(d),
+      need,
+      qty: ridesWith ? 0 : 1,
+      positionId: d.positionId,
+      boardId: d.boardId,
+      ridesWith,
+    });
   }
   return needs;
 }
@@ -102,23 +143,46 @@ async function chunked<T>(rows: T[], write: (part: T[]) => Promise<unknown>) {
  * aggregateDemand, and closes register lines left with no demand while nobody has bought
  * anything for them. The statements are set-based: their number does not grow with the rows.
  */
-export async function syncDemand(trx: Db, siteId: string, scope: DemandScope, actorId: string | null = null): Promise<{ created: number; linked: number; withdrawn: number }> {
-  if (scope !== "site" && !scope.componentIds?.length && !scope.defectIds?.length) return { created: 0, linked: 0, withdrawn: 0 };
+export async function syncDemand(
+  trx: Db,
+  siteId: string,
+  scope: DemandScope,
+  actorId: string | null = null,
+): Promise<{ created: number; linked: number; withdrawn: number }> {
+  if (scope !== "site" && !scope.componentIds?.length && !scope.defectIds?.length)
+    return { created: 0, linked: 0, withdrawn: 0 };
   await repo.lockSiteParts(trx, siteId);
   const needs = await collectNeeds(trx, siteId, scope);
   const rideTargets = [...new Set(needs.flatMap((n) => (n.ridesWith ? [n.ridesWith] : [])))];
-  const links = await repo.linksOfSources(trx, siteId, scope === "site" ? undefined : {
-    componentIds: [...new Set([...(scope.componentIds ?? []), ...rideTargets])],
-    defectIds: [...new Set([...(scope.defectIds ?? []), ...needs.flatMap((n) => (n.source.defectId ? [n.source.defectId] : []))])],
-  });
+  const links = await repo.linksOfSources(
+    trx,
+    siteId,
+    scope === "site"
+      ? undefined
+      : {
+          componentIds: [...new Set([...(scope.componentIds ?? []), ...rideTargets])],
+          defectIds: [
+            ...new Set([
+              ...(scope.defectIds ?? []),
+              ...needs.flatMap((n) => (n.source.defectId ? [n.source.defectId] : [])),
+            ]),
+          ],
+        },
+  );
   const lines = await repo.joinableLines(trx, siteId);
   const index = new LineIndex();
   lines.forEach((l) => index.add(l));
   const allLines = new Map(lines.map((l) => [l.id, l]));
-  for (const l of await repo.linesByIds(trx, siteId, [...new Set(links.map((l) => l.lineId))].filter((id) => !allLines.has(id)))) allLines.set(l.id, l);
+  for (const l of await repo.linesByIds(
+    trx,
+    siteId,
+    [...new Set(links.map((l) => l.lineId))].filter((id) => !allLines.has(id)),
+  ))
+    allLines.set(l.id, l);
 
   const bySource = new Map<string, repo.LinkRecord[]>();
-  for (const l of links) bySource.set(l.componentId ?? l.defectId!, [...(bySource.get(l.componentId ?? l.defectId!) ?? []), l]);
+  for (const l of links)
+    bySource.set(l.componentId ?? l.defectId!, [...(bySource.get(l.componentId ?? l.defectId!) ?? []), l]);
   const wantedIds = new Set(needs.map((n) => sourceId(n.source)));
   const processed = new Set(needs.filter((n) => n.source.componentId).map((n) => n.source.componentId!));
   // A defect riding on a component outside this change follows that component's current line.
@@ -137,9 +201,15 @@ export async function syncDemand(trx: Db, siteId: string, scope: DemandScope, ac
   for (const n of needs.filter((x) => !x.ridesWith)) {
     const mine = bySource.get(sourceId(n.source)) ?? [];
     if (mine.some((l) => l.fitted)) continue; // satisfied: the part was fitted, the list keeps it as history
-    const keep = mine.find((l) => { const line = l.active && allLines.get(l.lineId); return line && needMatchesLine(n, { spec: lineSpec(line), need: line.need }); });
+    const keep = mine.find((l) => {
+      const line = l.active && allLines.get(l.lineId);
+      return line && needMatchesLine(n, { spec: lineSpec(line), need: line.need });
+    });
     for (const l of mine) if (l.active && l !== keep) withdrawals.push({ link: l, why: "its specification changed" });
-    if (keep) { if (n.source.componentId) lineOfComponent.set(n.source.componentId, keep.lineId); continue; }
+    if (keep) {
+      if (n.source.componentId) lineOfComponent.set(n.source.componentId, keep.lineId);
+      continue;
+    }
     const target = index.find(n);
     if (target) {
       attachments.push({ line: target, need: n, note: true });
@@ -148,7 +218,9 @@ export async function syncDemand(trx: Db, siteId: string, scope: DemandScope, ac
   }
 
   for (const group of groupByNeed(pending)) {
-    for (const d of aggregateDemand(group.map((n) => ({ spec: n.spec, qty: n.qty, positionId: n.positionId ?? undefined })))) {
+    for (const d of aggregateDemand(
+      group.map((n) => ({ spec: n.spec, qty: n.qty, positionId: n.positionId ?? undefined })),
+    )) {
       const line = newRegisterLine(siteId, d.spec, group[0].need, actorId);
       newLines.push({ line, spec: d.spec });
       index.add(line);
@@ -169,15 +241,24 @@ export async function syncDemand(trx: Db, siteId: string, scope: DemandScope, ac
     if (line) attachments.push({ line, need: n, note: true });
   }
 
-  const inScope = (l: repo.LinkRecord) => scope === "site" || (l.componentId ? scope.componentIds?.includes(l.componentId) : scope.defectIds?.includes(l.defectId!));
-  for (const l of links) if (l.active && !l.fitted && inScope(l) && !wantedIds.has(l.componentId ?? l.defectId!)) withdrawals.push({ link: l, why: "its source no longer asks for a part" });
+  const inScope = (l: repo.LinkRecord) =>
+    scope === "site" ||
+    (l.componentId ? scope.componentIds?.includes(l.componentId) : scope.defectIds?.includes(l.defectId!));
+  for (const l of links)
+    if (l.active && !l.fitted && inScope(l) && !wantedIds.has(l.componentId ?? l.defectId!))
+      withdrawals.push({ link: l, why: "its source no longer asks for a part" });
 
   await write(trx, siteId, actorId, { withdrawals, attachments, newLines: newLines.map((x) => x.line) });
-  return { created: newLines.length, linked: attachments.filter((a) => a.note).length - attachments.filter((a) => a.note && a.need.ridesWith).length, withdrawn: withdrawals.length };
+  return {
+    created: newLines.length,
+    linked: attachments.filter((a) => a.note).length - attachments.filter((a) => a.note && a.need.ridesWith).length,
+    withdrawn: withdrawals.length,
+  };
 }
 
 /** Every demand on the site, e.g. after a line's spec changed or to rebuild the list; the same statements as demandChanged. */
-export const reconcileDemand = (trx: Db, siteId: string, actorId: string | null = null) => syncDemand(trx, siteId, "site", actorId);
+export const reconcileDemand = (trx: Db, siteId: string, actorId: string | null = null) =>
+  syncDemand(trx, siteId, "site", actorId);
 
 function groupByNeed(needs: Need[]): Need[][] {
   const groups = new Map<string, Need[]>();
@@ -189,58 +270,182 @@ function newRegisterLine(siteId: string, spec: PartSpec, need: string, actorId: 
   const s = specOf(spec);
   const now = new Date();
   return {
-    id: randomUUID(), siteId, version: 1, origin: "register", kind: s.kind, ratingAmps: s.ratingAmps ?? null, poles: s.poles ?? null, voltageRating: s.voltageRating ?? null,
-    frame: s.frame ?? "", mounting: s.mounting ?? "", maker: s.maker ?? "", model: s.model ?? "", need, notes: "", cancelReason: "", mustMatch: null,
-    specKey: needKey(s, need), heritageRule: "original_only", status: "wanted", autoCancelled: false, manualQty: 0, estimatedUnitCost: null, fittedAt: null,
-    createdAt: now, updatedAt: now, createdBy: actorId,
+    id: randomUUID(),
+    siteId,
+    version: 1,
+    origin: "register",
+    kind: s.kind,
+    ratingAmps: s.ratingAmps ?? null,
+    poles: s.poles ?? null,
+    voltageRating: s.voltageRating ?? null,
+    frame: s.frame ?? "",
+    mounting: s.mounting ?? "",
+    maker: s.maker ?? "",
+    model: s.model ?? "",
+    need,
+    notes: "",
+    cancelReason: "",
+    mustMatch: null,
+    specKey: needKey(s, need),
+    heritageRule: "original_only",
+    status: "wanted",
+    autoCancelled: false,
+    manualQty: 0,
+    estimatedUnitCost: null,
+    fittedAt: null,
+    createdAt: now,
+    updatedAt: now,
+    createdBy: actorId,
   } as repo.LineRecord;
 }
 
-type History = { siteId: string; lineId: string; action: string; summary: string; fromStatus?: PartStatus | null; toStatus?: PartStatus | null; actorId: string | null };
+type History = {
+  siteId: string;
+  lineId: string;
+  action: string;
+  summary: string;
+  fromStatus?: PartStatus | null;
+  toStatus?: PartStatus | null;
+  actorId: string | null;
+};
 
 /** Writes what syncDemand decided: a fixed number of statements (chunked only past 1,000 rows). */
-async function write(trx: Db, siteId: string, actorId: string | null, plan: { withdrawals: Withdrawal[]; attachments: Attachment[]; newLines: repo.LineRecord[] }) {
+async function write(
+  trx: Db,
+  siteId: string,
+  actorId: string | null,
+  plan: { withdrawals: Withdrawal[]; attachments: Attachment[]; newLines: repo.LineRecord[] },
+) {
   const history: History[] = [];
   const audit: AuditEntry[] = [];
   if (plan.withdrawals.length) {
     const ids = [...new Set(plan.withdrawals.map((w) => w.link.id))];
-    await chunked(ids, (part) => trx.updateTable("partDemandLinks").set({ active: false, withdrawnAt: sql`now()` }).where("id", "in", part).execute());
+    await chunked(ids, (part) =>
+      trx
+        .updateTable("partDemandLinks")
+        .set({ active: false, withdrawnAt: sql`now()` })
+        .where("id", "in", part)
+        .execute(),
+    );
     for (const { link: l, why } of plan.withdrawals) {
-      history.push({ siteId, lineId: l.lineId, action: "demand_withdrawn", summary: `A position no longer needs it: ${why}`, actorId });
-      audit.push({ siteId, entityType: "part_demand_link", entityId: l.id, action: "withdraw", actorId, positionId: l.positionId, boardId: l.boardId, before: { active: true }, after: { active: false } });
+      history.push({
+        siteId,
+        lineId: l.lineId,
+        action: "demand_withdrawn",
+        summary: `A position no longer needs it: ${why}`,
+        actorId,
+      });
+      audit.push({
+        siteId,
+        entityType: "part_demand_link",
+        entityId: l.id,
+        action: "withdraw",
+        actorId,
+        positionId: l.positionId,
+        boardId: l.boardId,
+        before: { active: true },
+        after: { active: false },
+      });
     }
   }
   if (plan.newLines.length) {
-    await chunked(plan.newLines, (part) => trx.insertInto("partLines").values(part.map(({ version: _v, status: _s, autoCancelled: _a, manualQty: _m, heritageRule: _h, createdAt: _c, updatedAt: _u, ...l }) => l)).execute());
+    await chunked(plan.newLines, (part) =>
+      trx
+        .insertInto("partLines")
+        .values(
+          part.map(
+            ({
+              version: _v,
+              status: _s,
+              autoCancelled: _a,
+              manualQty: _m,
+              heritageRule: _h,
+              createdAt: _c,
+              updatedAt: _u,
+              ...l
+            }) => l,
+          ),
+        )
+        .execute(),
+    );
     for (const line of plan.newLines) {
-      history.push({ siteId, lineId: line.id, action: "created", summary: "Added from the register", toStatus: "wanted", actorId });
+      history.push({
+        siteId,
+        lineId: line.id,
+        action: "created",
+        summary: "Added from the register",
+        toStatus: "wanted",
+        actorId,
+      });
       audit.push({ siteId, entityType: "part_line", entityId: line.id, action: "create", actorId, after: line });
     }
   }
   if (plan.attachments.length) {
     const rows = plan.attachments.map((a) => ({
-      id: randomUUID(), siteId, lineId: a.line.id, componentId: a.need.source.componentId, defectId: a.need.source.defectId, positionId: a.need.positionId, boardId: a.need.boardId, qty: a.need.qty,
+      id: randomUUID(),
+      siteId,
+      lineId: a.line.id,
+      componentId: a.need.source.componentId,
+      defectId: a.need.source.defectId,
+      positionId: a.need.positionId,
+      boardId: a.need.boardId,
+      qty: a.need.qty,
     }));
     await chunked(rows, (part) => trx.insertInto("partDemandLinks").values(part).execute());
     // Lines this function closed come back when demand returns: to "lead found" when a live lead exists.
-    const reopen = [...new Set(plan.attachments.filter((a) => a.line.status === "cancelled" && a.line.autoCancelled).map((a) => a.line.id))];
+    const reopen = [
+      ...new Set(
+        plan.attachments.filter((a) => a.line.status === "cancelled" && a.line.autoCancelled).map((a) => a.line.id),
+      ),
+    ];
     const reopened = reopen.length
-      ? await trx.updateTable("partLines as pl")
+      ? await trx
+          .updateTable("partLines as pl")
           .set({
             status: sql`case when exists (select 1 from part_leads pd where pd.line_id = pl.id and pd.status <> 'dead') then 'lead_found' else 'wanted' end`,
-            autoCancelled: false, cancelReason: "", version: sql`pl.version + 1`, updatedAt: sql`now()`,
+            autoCancelled: false,
+            cancelReason: "",
+            version: sql`pl.version + 1`,
+            updatedAt: sql`now()`,
           })
-          .where("pl.id", "in", reopen).where("pl.status", "=", "cancelled").where("pl.autoCancelled", "=", true)
-          .returning(["pl.id", "pl.status"]).execute()
+          .where("pl.id", "in", reopen)
+          .where("pl.status", "=", "cancelled")
+          .where("pl.autoCancelled", "=", true)
+          .returning(["pl.id", "pl.status"])
+          .execute()
       : [];
     for (const r of reopened) {
-      history.push({ siteId, lineId: r.id, action: "reopened", summary: "Wanted again by the register", fromStatus: "cancelled", toStatus: r.status, actorId });
+      history.push({
+        siteId,
+        lineId: r.id,
+        action: "reopened",
+        summary: "Wanted again by the register",
+        fromStatus: "cancelled",
+        toStatus: r.status,
+        actorId,
+      });
       const line = plan.attachments.find((a) => a.line.id === r.id)!.line;
       Object.assign(line, { status: r.status, autoCancelled: false, cancelReason: "" });
     }
     plan.attachments.forEach((a, i) => {
-      if (a.note) history.push({ siteId, lineId: a.line.id, action: "demand_added", summary: a.need.source.defectId ? "A defect asks for it" : "A component set to replace or source", actorId });
-      audit.push({ siteId, entityType: "part_demand_link", entityId: rows[i].id, action: "create", actorId, positionId: a.need.positionId, boardId: a.need.boardId, after: { lineId: a.line.id, ...a.need.source } });
+      if (a.note)
+        history.push({
+          siteId,
+          lineId: a.line.id,
+          action: "demand_added",
+          summary: a.need.source.defectId ? "A defect asks for it" : "A component set to replace or source",
+          actorId,
+        });
+      audit.push({
+        siteId,
+        entityType: "part_demand_link",
+        entityId: rows[i].id,
+        action: "create",
+        actorId,
+        positionId: a.need.positionId,
+        boardId: a.need.boardId,
+        after: { lineId: a.line.id, ...a.need.source },
+      });
     });
   }
   // Register lines still at wanted / lead found with no demand left close themselves; bought parts stay (as spares).
@@ -256,8 +461,24 @@ async function write(trx: Db, siteId: string, actorId: string | null, plan: { wi
     from empty where pl.id = empty.id
     returning pl.id, empty.status as "fromStatus"`.execute(trx);
   for (const l of closed.rows) {
-    history.push({ siteId, lineId: l.id, action: "auto_cancelled", summary: "Closed: nothing on the register asks for it any more", fromStatus: l.fromStatus, toStatus: "cancelled", actorId });
-    audit.push({ siteId, entityType: "part_line", entityId: l.id, action: "auto_cancel", actorId, before: { status: l.fromStatus }, after: { status: "cancelled" } });
+    history.push({
+      siteId,
+      lineId: l.id,
+      action: "auto_cancelled",
+      summary: "Closed: nothing on the register asks for it any more",
+      fromStatus: l.fromStatus,
+      toStatus: "cancelled",
+      actorId,
+    });
+    audit.push({
+      siteId,
+      entityType: "part_line",
+      entityId: l.id,
+      action: "auto_cancel",
+      actorId,
+      before: { status: l.fromStatus },
+      after: { status: "cancelled" },
+    });
   }
   await chunked(history, (part) => trx.insertInto("partLineHistory").values(part).execute());
   await recordAuditMany(trx, audit);

@@ -4,9 +4,20 @@ import type { Db } from "../db";
 import { StorageNotFound, type PhotoStorage } from "../photos/storage";
 
 /** The thumbnail of a live nameplate photo of the site, or null (no such photo, or its file is missing). */
-export async function nameplateThumb(db: Db, storage: PhotoStorage, siteId: string, photoId: string): Promise<Readable | null> {
-  const photo = await db.selectFrom("photos").select(["id", "thumbKey"]).where("id", "=", photoId).where("siteId", "=", siteId)
-    .where("kind", "=", "nameplate").where("deletedAt", "is", null).executeTakeFirst();
+export async function nameplateThumb(
+  db: Db,
+  storage: PhotoStorage,
+  siteId: string,
+  photoId: string,
+): Promise<Readable | null> {
+  const photo = await db
+    .selectFrom("photos")
+    .select(["id", "thumbKey"])
+    .where("id", "=", photoId)
+    .where("siteId", "=", siteId)
+    .where("kind", "=", "nameplate")
+    .where("deletedAt", "is", null)
+    .executeTakeFirst();
   if (!photo) return null;
   try {
     return await storage.get(photo.thumbKey);

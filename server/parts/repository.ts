@@ -6,13 +6,36 @@ import type { PartStatus } from "../../src/domain/vocab";
 import type { Db } from "../db";
 
 const lineCols = [
-  "id", "siteId", "version", "origin", "kind", "ratingAmps", "poles", "voltageRating", "frame", "mounting", "maker", "model",
-  "need", "notes", "cancelReason", "mustMatch", "specKey", "heritageRule", "status", "autoCancelled", "manualQty",
-  "estimatedUnitCost", "fittedAt", "createdAt", "updatedAt",
+  "id",
+  "siteId",
+  "version",
+  "origin",
+  "kind",
+  "ratingAmps",
+  "poles",
+  "voltageRating",
+  "frame",
+  "mounting",
+  "maker",
+  "model",
+  "need",
+  "notes",
+  "cancelReason",
+  "mustMatch",
+  "specKey",
+  "heritageRule",
+  "status",
+  "autoCancelled",
+  "manualQty",
+  "estimatedUnitCost",
+  "fittedAt",
+  "createdAt",
+  "updatedAt",
 ] as const;
 
 /** One advisory lock per site serialises demand reconciliation, so two readers never create the same line twice. */
-export const lockSiteParts = (db: Db, siteId: string) => sql`select pg_advisory_xact_lock(hashtext(${"parts:" + siteId}))`.execute(db);
+export const lockSiteParts = (db: Db, siteId: string) =>
+  sql`select pg_advisory_xact_lock(hashtext(${"parts:" + siteId}))`.execute(db);
 
 /** Current components whose disposition asks for a part, with their home position and board (all of the site, or these ids). */
 export const wantedComponents = (db: Db, siteId: string, ids?: readonly string[]) => {
@@ -20,7 +43,19 @@ export const wantedComponents = (db: Db, siteId: string, ids?: readonly string[]
   let q = db
     .selectFrom("components as c")
     .innerJoin("positions as p", "p.id", "c.positionId")
-    .select(["c.id", "c.kind", "c.ratingAmps", "c.poles", "c.voltageRating", "c.frame", "c.mounting", "c.maker", "c.model", "c.positionId", "p.boardId"])
+    .select([
+      "c.id",
+      "c.kind",
+      "c.ratingAmps",
+      "c.poles",
+      "c.voltageRating",
+      "c.frame",
+      "c.mounting",
+      "c.maker",
+      "c.model",
+      "c.positionId",
+      "p.boardId",
+    ])
     .where("c.siteId", "=", siteId)
     .where("c.retiredAt", "is", null)
     .where("c.disposition", "in", ["replace", "source"]);
@@ -32,36 +67,65 @@ export const wantedComponents = (db: Db, siteId: string, ids?: readonly string[]
  * Open defects that need a part, with the nameplate of their component when they have one and
  * whether that component is itself wanted (all of the site, or these defects and those of these components).
  */
-export const wantedDefects = (db: Db, siteId: string, scope?: { ids: readonly string[]; componentIds: readonly string[] }) => {
+export const wantedDefects = (
+  db: Db,
+  siteId: string,
+  scope?: { ids: readonly string[]; componentIds: readonly string[] },
+) => {
   if (scope && !scope.ids.length && !scope.componentIds.length) return Promise.resolve([]);
   let q = db
     .selectFrom("defects as d")
     .leftJoin("components as c", "c.id", "d.componentId")
     .select([
-      "d.id", "d.partsNeeded", "d.positionId", "d.boardId", "d.componentId",
-      "c.kind", "c.ratingAmps", "c.poles", "c.voltageRating", "c.frame", "c.mounting", "c.maker", "c.model",
-      sql<boolean>`coalesce(c.retired_at is null and c.disposition in ('replace', 'source'), false)`.as("componentWanted"),
+      "d.id",
+      "d.partsNeeded",
+      "d.positionId",
+      "d.boardId",
+      "d.componentId",
+      "c.kind",
+      "c.ratingAmps",
+      "c.poles",
+      "c.voltageRating",
+      "c.frame",
+      "c.mounting",
+      "c.maker",
+      "c.model",
+      sql<boolean>`coalesce(c.retired_at is null and c.disposition in ('replace', 'source'), false)`.as(
+        "componentWanted",
+      ),
     ])
     .where("d.siteId", "=", siteId)
     .where("d.partsState", "=", "wanted")
     .where("d.status", "not in", ["closed", "accepted_as_is"]);
   if (scope)
-    q = q.where((eb) => eb.or([
-      ...(scope.ids.length ? [eb("d.id", "in", [...scope.ids])] : []),
-      ...(scope.componentIds.length ? [eb("d.componentId", "in", [...scope.componentIds])] : []),
-    ]));
+    q = q.where((eb) =>
+      eb.or([
+        ...(scope.ids.length ? [eb("d.id", "in", [...scope.ids])] : []),
+        ...(scope.componentIds.length ? [eb("d.componentId", "in", [...scope.componentIds])] : []),
+      ]),
+    );
   return q.orderBy("d.createdAt").orderBy("d.id").execute();
 };
 
 /** Active and fitted links of the site, or of these sources. */
-export const linksOfSources = (db: Db, siteId: string, scope?: { componentIds: readonly string[]; defectIds: readonly string[] }) => {
-  let q = db.selectFrom("partDemandLinks").selectAll().where("siteId", "=", siteId).where((eb) => eb.or([eb("active", "=", true), eb("fitted", "=", true)]));
+export const linksOfSources = (
+  db: Db,
+  siteId: string,
+  scope?: { componentIds: readonly string[]; defectIds: readonly string[] },
+) => {
+  let q = db
+    .selectFrom("partDemandLinks")
+    .selectAll()
+    .where("siteId", "=", siteId)
+    .where((eb) => eb.or([eb("active", "=", true), eb("fitted", "=", true)]));
   if (scope) {
     if (!scope.componentIds.length && !scope.defectIds.length) return Promise.resolve([]);
-    q = q.where((eb) => eb.or([
-      ...(scope.componentIds.length ? [eb("componentId", "in", [...scope.componentIds])] : []),
-      ...(scope.defectIds.length ? [eb("defectId", "in", [...scope.defectIds])] : []),
-    ]));
+    q = q.where((eb) =>
+      eb.or([
+        ...(scope.componentIds.length ? [eb("componentId", "in", [...scope.componentIds])] : []),
+        ...(scope.defectIds.length ? [eb("defectId", "in", [...scope.defectIds])] : []),
+      ]),
+    );
   }
   return q.execute();
 };
@@ -73,12 +137,19 @@ export const joinableLines = (db: Db, siteId: string) =>
     .selectFrom("partLines")
     .select(lineCols)
     .where("siteId", "=", siteId)
-    .where((eb) => eb.or([eb("status", "in", OPEN_PART_STATUSES), eb.and([eb("status", "=", "cancelled"), eb("autoCancelled", "=", true)])]))
+    .where((eb) =>
+      eb.or([
+        eb("status", "in", OPEN_PART_STATUSES),
+        eb.and([eb("status", "=", "cancelled"), eb("autoCancelled", "=", true)]),
+      ]),
+    )
     .orderBy("createdAt")
     .execute();
 
 export const linesByIds = (db: Db, siteId: string, ids: string[]) =>
-  ids.length ? db.selectFrom("partLines").select(lineCols).where("siteId", "=", siteId).where("id", "in", ids).execute() : Promise.resolve([]);
+  ids.length
+    ? db.selectFrom("partLines").select(lineCols).where("siteId", "=", siteId).where("id", "in", ids).execute()
+    : Promise.resolve([]);
 
 export const findLine = (db: Db, siteId: string, id: string, forUpdate = false) => {
   const q = db.selectFrom("partLines").select(lineCols).where("siteId", "=", siteId).where("id", "=", id);
@@ -86,7 +157,8 @@ export const findLine = (db: Db, siteId: string, id: string, forUpdate = false) 
 };
 export type LineRecord = NonNullable<Awaited<ReturnType<typeof findLine>>>;
 
-export const insertLine = (db: Db, v: Insertable<PartLinesTable>) => db.insertInto("partLines").values(v).returning(lineCols).executeTakeFirstOrThrow();
+export const insertLine = (db: Db, v: Insertable<PartLinesTable>) =>
+  db.insertInto("partLines").values(v).returning(lineCols).executeTakeFirstOrThrow();
 
 export const updateLine = (db: Db, id: string, v: Updateable<PartLinesTable>) =>
   db
@@ -96,7 +168,8 @@ export const updateLine = (db: Db, id: string, v: Updateable<PartLinesTable>) =>
     .returning(lineCols)
     .executeTakeFirstOrThrow();
 
-export const addHistory = (db: Db, v: Insertable<Database["partLineHistory"]>) => db.insertInto("partLineHistory").values(v).execute();
+export const addHistory = (db: Db, v: Insertable<Database["partLineHistory"]>) =>
+  db.insertInto("partLineHistory").values(v).execute();
 
 export interface LineFilter {
   status: PartStatus | "open" | "all";
@@ -120,12 +193,18 @@ function filtered(db: Db, siteId: string, f: LineFilter) {
   if (f.heritageRule) q = q.where("pl.heritageRule", "=", f.heritageRule as never);
   if (f.q?.trim()) {
     const like = `%${f.q.trim().replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
-    q = q.where(sql<boolean>`concat_ws(' ', pl.maker, pl.model, pl.frame, pl.mounting, pl.need, pl.notes) ilike ${like}`);
+    q = q.where(
+      sql<boolean>`concat_ws(' ', pl.maker, pl.model, pl.frame, pl.mounting, pl.need, pl.notes) ilike ${like}`,
+    );
   }
   if (f.boardId)
     q = q.where((eb) =>
       eb.exists(
-        eb.selectFrom("partDemandLinks as l").select("l.id").whereRef("l.lineId", "=", "pl.id").where("l.boardId", "=", f.boardId!)
+        eb
+          .selectFrom("partDemandLinks as l")
+          .select("l.id")
+          .whereRef("l.lineId", "=", "pl.id")
+          .where("l.boardId", "=", f.boardId!)
           .where((e) => e.or([e("l.active", "=", true), e("l.fitted", "=", true)])),
       ),
     );
@@ -139,7 +218,9 @@ const SORT_SQL = {
   part: [sql`pl.kind`, sql`pl.rating_amps`, sql`lower(pl.maker)`, sql`lower(pl.model)`, sql`lower(pl.need)`],
   heritageRule: [RULE_ORDER],
   qty: [qtySql],
-  positions: [sql`(select min(p.designation) from part_demand_links l join positions p on p.id = l.position_id where l.line_id = pl.id and l.active)`],
+  positions: [
+    sql`(select min(p.designation) from part_demand_links l join positions p on p.id = l.position_id where l.line_id = pl.id and l.active)`,
+  ],
   status: [STATUS_ORDER],
   leadCount: [sql`(select count(*) from part_leads pd where pd.line_id = pl.id)`],
   estimated: [sql`pl.estimated_unit_cost * ${qtySql}`],
@@ -156,7 +237,13 @@ export function listLines(db: Db, siteId: string, f: LineFilter, page?: { limit:
 }
 
 export const countLines = async (db: Db, siteId: string, f: LineFilter) =>
-  Number((await filtered(db, siteId, f).select((eb) => eb.fn.countAll<number>().as("n")).executeTakeFirstOrThrow()).n);
+  Number(
+    (
+      await filtered(db, siteId, f)
+        .select((eb) => eb.fn.countAll<number>().as("n"))
+        .executeTakeFirstOrThrow()
+    ).n,
+  );
 
 /** Every link of the lines (withdrawn ones only when asked), with the position, board and defect they point at. */
 export function linksOfLines(db: Db, lineIds: string[], withWithdrawn = false) {
@@ -166,8 +253,21 @@ export function linksOfLines(db: Db, lineIds: string[], withWithdrawn = false) {
     .leftJoin("positions as p", "p.id", "l.positionId")
     .leftJoin("boards as b", "b.id", "l.boardId")
     .leftJoin("defects as d", "d.id", "l.defectId")
-    .select(["l.id", "l.lineId", "l.positionId", "l.boardId", "l.componentId", "l.defectId", "l.qty", "l.active", "l.fitted", "l.createdAt",
-      "p.designation", "b.name as boardName", "d.title as defectTitle"])
+    .select([
+      "l.id",
+      "l.lineId",
+      "l.positionId",
+      "l.boardId",
+      "l.componentId",
+      "l.defectId",
+      "l.qty",
+      "l.active",
+      "l.fitted",
+      "l.createdAt",
+      "p.designation",
+      "b.name as boardName",
+      "d.title as defectTitle",
+    ])
     .where("l.lineId", "in", lineIds);
   if (!withWithdrawn) q = q.where((e) => e.or([e("l.active", "=", true), e("l.fitted", "=", true)]));
   return q.orderBy("b.name").orderBy("p.designation").execute();
@@ -175,19 +275,36 @@ export function linksOfLines(db: Db, lineIds: string[], withWithdrawn = false) {
 
 export const leadCounts = (db: Db, lineIds: string[]) =>
   lineIds.length
-    ? db.selectFrom("partLeads").select(["lineId", (eb) => eb.fn.countAll<number>().as("n")]).where("lineId", "in", lineIds).groupBy("lineId").execute()
+    ? db
+        .selectFrom("partLeads")
+        .select(["lineId", (eb) => eb.fn.countAll<number>().as("n")])
+        .where("lineId", "in", lineIds)
+        .groupBy("lineId")
+        .execute()
     : Promise.resolve([]);
 
 export const spentByLine = (db: Db, lineIds: string[]) =>
   lineIds.length
-    ? db.selectFrom("partAcquisitions").select(["lineId", sql<number>`coalesce(sum(cost), 0)::float8`.as("spent")]).where("lineId", "in", lineIds).groupBy("lineId").execute()
+    ? db
+        .selectFrom("partAcquisitions")
+        .select(["lineId", sql<number>`coalesce(sum(cost), 0)::float8`.as("spent")])
+        .where("lineId", "in", lineIds)
+        .groupBy("lineId")
+        .execute()
     : Promise.resolve([]);
 
 /** Nameplate photos of the components the lines are for (not deleted), oldest first. */
 export const nameplatePhotos = (db: Db, componentIds: string[]) =>
   componentIds.length
-    ? db.selectFrom("photos").select(["id", "componentId"]).where("componentId", "in", componentIds).where("kind", "=", "nameplate")
-        .where("deletedAt", "is", null).orderBy("createdAt").execute()
+    ? db
+        .selectFrom("photos")
+        .select(["id", "componentId"])
+        .where("componentId", "in", componentIds)
+        .where("kind", "=", "nameplate")
+        .where("deletedAt", "is", null)
+        .orderBy("createdAt")
+        .execute()
     : Promise.resolve([]);
 
-export const boardsOfSite = (db: Db, siteId: string) => db.selectFrom("boards").select(["id", "name"]).where("siteId", "=", siteId).orderBy("name").execute();
+export const boardsOfSite = (db: Db, siteId: string) =>
+  db.selectFrom("boards").select(["id", "name"]).where("siteId", "=", siteId).orderBy("name").execute();

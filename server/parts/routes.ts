@@ -3,7 +3,14 @@ import type { Readable } from "node:stream";
 import { Router, type Response } from "express";
 import { z } from "zod";
 import {
-  createLineBody, heritageRuleBody, leadBody, listQuery, shareLinkBody, statusBody, updateLeadBody, updateLineBody,
+  createLineBody,
+  heritageRuleBody,
+  leadBody,
+  listQuery,
+  shareLinkBody,
+  statusBody,
+  updateLeadBody,
+  updateLineBody,
 } from "../../src/schemas/parts";
 import type { Db } from "../db";
 import type { PhotoStorage } from "../photos/storage";
@@ -58,7 +65,10 @@ export function partsRoutes(db: Db, storage: PhotoStorage) {
 
   r.post(base, requireSiteRole(db, ...EDIT), async (req, res) => {
     const siteId = req.params.siteId as string;
-    const id = await service.createManualLine(db, siteId, createLineBody.parse(req.body), { id: actor(res), role: res.locals.siteRole! });
+    const id = await service.createManualLine(db, siteId, createLineBody.parse(req.body), {
+      id: actor(res),
+      role: res.locals.siteRole!,
+    });
     res.status(201).json({ line: await service.lineRow(db, siteId, id) });
   });
 
@@ -66,7 +76,12 @@ export function partsRoutes(db: Db, storage: PhotoStorage) {
     res.json({ links: await share.listShareLinks(db, req.params.siteId as string) });
   });
   r.post(`${base}/share-links`, requireSiteRole(db, ...EDIT), async (req, res) => {
-    const { token, link } = await share.createShareLink(db, req.params.siteId as string, shareLinkBody.parse(req.body).label, actor(res));
+    const { token, link } = await share.createShareLink(
+      db,
+      req.params.siteId as string,
+      shareLinkBody.parse(req.body).label,
+      actor(res),
+    );
     res.status(201).json({ link, token, url: `/share/parts/${token}` });
   });
   r.delete(`${base}/share-links/:linkId`, requireSiteRole(db, "curator"), async (req, res) => {
@@ -118,7 +133,8 @@ export function partsRoutes(db: Db, storage: PhotoStorage) {
     const parsed = tokenParams.extend({ photoId: z.uuid() }).safeParse(req.params);
     if (!parsed.success) throw new AppError(404, "not_found", "No such photo.");
     const siteId = await share.siteOfToken(db, parsed.data.token);
-    if (!(await share.photoIsShared(db, parsed.data.token, parsed.data.photoId))) throw new AppError(404, "not_found", "No such photo.");
+    if (!(await share.photoIsShared(db, parsed.data.token, parsed.data.photoId)))
+      throw new AppError(404, "not_found", "No such photo.");
     await sendPhoto(res, await nameplateThumb(db, storage, siteId, parsed.data.photoId));
   });
 

@@ -12,7 +12,10 @@ type LinkRow = Awaited<ReturnType<typeof repo.linksOfLines>>[number];
 const iso = (d: Date | string) => (d instanceof Date ? d.toISOString() : new Date(d).toISOString());
 
 /** Quantity a line stands for: its manual quantity plus active demand, or, once fitted, what was fitted. */
-export function lineQty(line: Pick<repo.LineRecord, "status" | "manualQty">, links: Array<Pick<LinkRow, "qty" | "active" | "fitted">>) {
+export function lineQty(
+  line: Pick<repo.LineRecord, "status" | "manualQty">,
+  links: Array<Pick<LinkRow, "qty" | "active" | "fitted">>,
+) {
   const counted = line.status === "fitted" ? links.filter((l) => l.fitted) : links.filter((l) => l.active);
   return line.manualQty + counted.reduce((s, l) => s + l.qty, 0);
 }
@@ -21,8 +24,14 @@ export function lineQty(line: Pick<repo.LineRecord, "status" | "manualQty">, lin
 export async function buildRows(db: Db, lines: repo.LineRecord[], withWithdrawn = false): Promise<PartLine[]> {
   if (!lines.length) return [];
   const ids = lines.map((l) => l.id);
-  const [links, leads, spent] = await Promise.all([repo.linksOfLines(db, ids, withWithdrawn), repo.leadCounts(db, ids), repo.spentByLine(db, ids)]);
-  const componentIds = [...new Set(links.filter((l) => l.componentId && (l.active || l.fitted)).map((l) => l.componentId!))];
+  const [links, leads, spent] = await Promise.all([
+    repo.linksOfLines(db, ids, withWithdrawn),
+    repo.leadCounts(db, ids),
+    repo.spentByLine(db, ids),
+  ]);
+  const componentIds = [
+    ...new Set(links.filter((l) => l.componentId && (l.active || l.fitted)).map((l) => l.componentId!)),
+  ];
   const photos = await repo.nameplatePhotos(db, componentIds);
   const leadN = new Map(leads.map((l) => [l.lineId, Number(l.n)]));
   const spentN = new Map(spent.map((s) => [s.lineId, Number(s.spent)]));
@@ -31,8 +40,18 @@ export async function buildRows(db: Db, lines: repo.LineRecord[], withWithdrawn 
   return lines.map((line) => {
     const mine = linksByLine.get(line.id) ?? [];
     const qty = lineQty(line, mine);
-    const comps = [...new Set(mine.filter((l) => l.active || l.fitted).map((l) => l.componentId).filter((c): c is string => !!c))];
-    const photoIds = comps.flatMap((c) => photosByComponent.get(c) ?? []).sort((a, b) => a.order - b.order).map((p) => p.id);
+    const comps = [
+      ...new Set(
+        mine
+          .filter((l) => l.active || l.fitted)
+          .map((l) => l.componentId)
+          .filter((c): c is string => !!c),
+      ),
+    ];
+    const photoIds = comps
+      .flatMap((c) => photosByComponent.get(c) ?? [])
+      .sort((a, b) => a.order - b.order)
+      .map((p) => p.id);
     return {
       id: line.id,
       version: line.version,
@@ -60,8 +79,15 @@ export async function buildRows(db: Db, lines: repo.LineRecord[], withWithdrawn 
       leadCount: leadN.get(line.id) ?? 0,
       photoIds,
       positions: mine.map((l) => ({
-        linkId: l.id, positionId: l.positionId, designation: l.designation, boardId: l.boardId, boardName: l.boardName,
-        componentId: l.componentId, defectId: l.defectId, defectTitle: l.defectTitle, qty: l.qty,
+        linkId: l.id,
+        positionId: l.positionId,
+        designation: l.designation,
+        boardId: l.boardId,
+        boardName: l.boardName,
+        componentId: l.componentId,
+        defectId: l.defectId,
+        defectTitle: l.defectTitle,
+        qty: l.qty,
         state: l.fitted ? ("fitted" as const) : l.active ? ("active" as const) : ("withdrawn" as const),
       })),
       updatedAt: iso(line.updatedAt),
@@ -88,7 +114,11 @@ function groupBy<T>(rows: readonly T[], key: (r: T) => string): Map<string, Arra
  * its fitted links, any other its active ones; hand-added quantity and links with no board are
  * "not tied to a board"; a line with spend but no quantity left puts its spend there too.
  */
-export async function siteBudget(db: Db, siteId: string, boards: Array<{ id: string; name: string }>): Promise<PartsBudget> {
+export async function siteBudget(
+  db: Db,
+  siteId: string,
+  boards: Array<{ id: string; name: string }>,
+): Promise<PartsBudget> {
   const r = await sql<{ boardId: string; estimated: number; spent: number; unestimatedLines: number }>`
     with lines as (
       select id, manual_qty, estimated_unit_cost, status from part_lines where site_id = ${siteId} and status <> 'cancelled'
@@ -113,9 +143,15 @@ export async function siteBudget(db: Db, siteId: string, boards: Array<{ id: str
     select board as "boardId", round(sum(estimated), 2)::float8 as estimated, round(sum(spent), 2)::float8 as spent, sum(unestimated)::int as "unestimatedLines"
     from per group by board order by board = '', board`.execute(db);
   const names = new Map(boards.map((b) => [b.id, b.name]));
-  const rows = r.rows.map((b) => ({ ...b, boardName: b.boardId ? names.get(b.boardId) ?? "Board" : "Not tied to a board" }));
+  const rows = r.rows.map((b) => ({
+    ...b,
+    boardName: b.boardId ? (names.get(b.boardId) ?? "Board") : "Not tied to a board",
+  }));
   const round2 = (x: number) => Math.round(x * 100) / 100;
-  const total = rows.reduce((t, b) => ({ estimated: round2(t.estimated + b.estimated), spent: round2(t.spent + b.spent) }), { estimated: 0, spent: 0 });
+  const total = rows.reduce(
+    (t, b) => ({ estimated: round2(t.estimated + b.estimated), spent: round2(t.spent + b.spent) }),
+    { estimated: 0, spent: 0 },
+  );
   return { rows, total };
 }
 
@@ -129,6 +165,10 @@ export async function lineRow(db: Db, siteId: string, lineId: string, withWithdr
 export async function lockedLine(trx: Db, siteId: string, lineId: string, version: number) {
   const line = await repo.findLine(trx, siteId, lineId, true);
   if (!line) throw notFound("That wanted-list line");
-  if (line.version !== version) throw conflict("Someone changed this line since you opened it. Here it is as it is now.", await lineRow(trx, siteId, lineId));
+  if (line.version !== version)
+    throw conflict(
+      "Someone changed this line since you opened it. Here it is as it is now.",
+      await lineRow(trx, siteId, lineId),
+    );
   return line;
 }

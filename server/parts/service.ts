@@ -21,13 +21,26 @@ type Actor = { id: string; role: Role | "admin" };
  * nameplates or defects' parts: brings the wanted list in line for just those sources. The list
  * itself never reconciles on a read.
  */
-export const demandChanged = (trx: Db, siteId: string, scope: { componentIds?: readonly string[]; defectIds?: readonly string[] }, actorId: string | null) =>
-  syncDemand(trx, siteId, scope, actorId);
+export const demandChanged = (
+  trx: Db,
+  siteId: string,
+  scope: { componentIds?: readonly string[]; defectIds?: readonly string[] },
+  actorId: string | null,
+) => syncDemand(trx, siteId, scope, actorId);
 
 /** The components and defects whose demand sits on a position, read before the position is deleted. */
 export async function demandOfPosition(trx: Db, siteId: string, positionId: string) {
-  const rows = await trx.selectFrom("partDemandLinks").select(["componentId", "defectId"]).where("siteId", "=", siteId).where("positionId", "=", positionId).where("active", "=", true).execute();
-  return { componentIds: rows.flatMap((r) => (r.componentId ? [r.componentId] : [])), defectIds: rows.flatMap((r) => (r.defectId ? [r.defectId] : [])) };
+  const rows = await trx
+    .selectFrom("partDemandLinks")
+    .select(["componentId", "defectId"])
+    .where("siteId", "=", siteId)
+    .where("positionId", "=", positionId)
+    .where("active", "=", true)
+    .execute();
+  return {
+    componentIds: rows.flatMap((r) => (r.componentId ? [r.componentId] : [])),
+    defectIds: rows.flatMap((r) => (r.defectId ? [r.defectId] : [])),
+  };
 }
 
 export const DEFAULT_PAGE_SIZE = 50;
@@ -58,10 +71,20 @@ export async function lineDetail(db: Db, siteId: string, lineId: string) {
   const line = await lineRow(db, siteId, lineId, true);
   const [leads, acquisitions, history] = await Promise.all([
     db.selectFrom("partLeads").selectAll().where("lineId", "=", lineId).orderBy("createdAt").execute(),
-    db.selectFrom("partAcquisitions").select(["id", "leadId", "qty", "cost", "acquiredOn", "notes"]).where("lineId", "=", lineId).orderBy("acquiredOn").execute(),
-    db.selectFrom("partLineHistory as h").leftJoin("users as u", "u.id", "h.actorId")
+    db
+      .selectFrom("partAcquisitions")
+      .select(["id", "leadId", "qty", "cost", "acquiredOn", "notes"])
+      .where("lineId", "=", lineId)
+      .orderBy("acquiredOn")
+      .execute(),
+    db
+      .selectFrom("partLineHistory as h")
+      .leftJoin("users as u", "u.id", "h.actorId")
       .select(["h.id", "h.at", "h.action", "h.summary", "h.fromStatus", "h.toStatus", "u.name as actorName"])
-      .where("h.lineId", "=", lineId).orderBy("h.at", "desc").orderBy("h.id", "desc").execute(),
+      .where("h.lineId", "=", lineId)
+      .orderBy("h.at", "desc")
+      .orderBy("h.id", "desc")
+      .execute(),
   ]);
   return {
     line,
@@ -73,45 +96,119 @@ export async function lineDetail(db: Db, siteId: string, lineId: string) {
 }
 
 export async function createManualLine(db: Db, siteId: string, b: z.infer<typeof createLineBody>, actor: Actor) {
-  if (b.heritageRule && actor.role !== "curator" && actor.role !== "admin") throw forbidden("Only the curator sets a line's heritage rule.");
+  if (b.heritageRule && actor.role !== "curator" && actor.role !== "admin")
+    throw forbidden("Only the curator sets a line's heritage rule.");
   return db.transaction().execute(async (trx) => {
     const spec = { ...b, mustMatch: b.mustMatch ?? undefined };
     const line = await repo.insertLine(trx, {
-      siteId, origin: "manual", kind: b.kind, ratingAmps: b.ratingAmps, poles: b.poles, voltageRating: b.voltageRating, frame: b.frame, mounting: b.mounting,
-      maker: b.maker, model: b.model, need: b.need, mustMatch: b.mustMatch, specKey: needKey(spec, b.need), manualQty: b.qty, notes: b.notes,
-      estimatedUnitCost: b.estimatedUnitCost, heritageRule: b.heritageRule, createdBy: actor.id,
+      siteId,
+      origin: "manual",
+      kind: b.kind,
+      ratingAmps: b.ratingAmps,
+      poles: b.poles,
+      voltageRating: b.voltageRating,
+      frame: b.frame,
+      mounting: b.mounting,
+      maker: b.maker,
+      model: b.model,
+      need: b.need,
+      mustMatch: b.mustMatch,
+      specKey: needKey(spec, b.need),
+      manualQty: b.qty,
+      notes: b.notes,
+      estimatedUnitCost: b.estimatedUnitCost,
+      heritageRule: b.heritageRule,
+      createdBy: actor.id,
     });
-    await repo.addHistory(trx, { siteId, lineId: line.id, action: "created", summary: `Added by hand (${b.qty} wanted)`, toStatus: "wanted", actorId: actor.id });
-    await recordAudit(trx, { siteId, entityType: "part_line", entityId: line.id, action: "create", actorId: actor.id, after: line });
+    await repo.addHistory(trx, {
+      siteId,
+      lineId: line.id,
+      action: "created",
+      summary: `Added by hand (${b.qty} wanted)`,
+      toStatus: "wanted",
+      actorId: actor.id,
+    });
+    await recordAudit(trx, {
+      siteId,
+      entityType: "part_line",
+      entityId: line.id,
+      action: "create",
+      actorId: actor.id,
+      after: line,
+    });
     return line.id;
   });
 }
 
-
-export async function updateLine(db: Db, siteId: string, lineId: string, b: z.infer<typeof updateLineBody>, actorId: string) {
+export async function updateLine(
+  db: Db,
+  siteId: string,
+  lineId: string,
+  b: z.infer<typeof updateLineBody>,
+  actorId: string,
+) {
   await db.transaction().execute(async (trx) => {
     const line = await lockedLine(trx, siteId, lineId, b.version);
     const { version: _v, ...patch } = b;
-    if (patch.manualQty !== undefined && line.origin === "manual" && patch.manualQty < 1) throw new AppError(400, "invalid_input", "A line added by hand needs a quantity of at least 1.", { manualQty: "At least 1" });
+    if (patch.manualQty !== undefined && line.origin === "manual" && patch.manualQty < 1)
+      throw new AppError(400, "invalid_input", "A line added by hand needs a quantity of at least 1.", {
+        manualQty: "At least 1",
+      });
     const next = { ...line, ...patch };
     const specKey = needKey(lineSpec(next), next.need);
     const d = diff(line as unknown as Record<string, unknown>, { ...patch, specKey });
     if (!d.changed) return;
     await repo.updateLine(trx, lineId, { ...patch, specKey });
-    await repo.addHistory(trx, { siteId, lineId, action: "edited", summary: `Changed ${Object.keys(d.after).filter((k) => k !== "specKey").join(", ")}`, actorId });
-    await recordAudit(trx, { siteId, entityType: "part_line", entityId: lineId, action: "update", actorId, before: d.before, after: d.after });
+    await repo.addHistory(trx, {
+      siteId,
+      lineId,
+      action: "edited",
+      summary: `Changed ${Object.keys(d.after)
+        .filter((k) => k !== "specKey")
+        .join(", ")}`,
+      actorId,
+    });
+    await recordAudit(trx, {
+      siteId,
+      entityType: "part_line",
+      entityId: lineId,
+      action: "update",
+      actorId,
+      before: d.before,
+      after: d.after,
+    });
     if (specKey !== line.specKey) await reconcileDemand(trx, siteId, actorId); // a changed spec may gain or shed positions
   });
   return lineRow(db, siteId, lineId);
 }
 
-export async function setHeritageRule(db: Db, siteId: string, lineId: string, b: { version: number; heritageRule: repo.LineRecord["heritageRule"] }, actorId: string) {
+export async function setHeritageRule(
+  db: Db,
+  siteId: string,
+  lineId: string,
+  b: { version: number; heritageRule: repo.LineRecord["heritageRule"] },
+  actorId: string,
+) {
   await db.transaction().execute(async (trx) => {
     const line = await lockedLine(trx, siteId, lineId, b.version);
     if (line.heritageRule === b.heritageRule) return;
     await repo.updateLine(trx, lineId, { heritageRule: b.heritageRule });
-    await repo.addHistory(trx, { siteId, lineId, action: "heritage_rule", summary: `Heritage rule set to ${b.heritageRule.replace("_", " ")}`, actorId });
-    await recordAudit(trx, { siteId, entityType: "part_line", entityId: lineId, action: "heritage_rule", actorId, before: { heritageRule: line.heritageRule }, after: { heritageRule: b.heritageRule } });
+    await repo.addHistory(trx, {
+      siteId,
+      lineId,
+      action: "heritage_rule",
+      summary: `Heritage rule set to ${b.heritageRule.replace("_", " ")}`,
+      actorId,
+    });
+    await recordAudit(trx, {
+      siteId,
+      entityType: "part_line",
+      entityId: lineId,
+      action: "heritage_rule",
+      actorId,
+      before: { heritageRule: line.heritageRule },
+      after: { heritageRule: b.heritageRule },
+    });
   });
   return lineRow(db, siteId, lineId);
 }
@@ -120,29 +217,88 @@ export async function addLead(db: Db, siteId: string, lineId: string, b: z.infer
   return db.transaction().execute(async (trx) => {
     const line = await repo.findLine(trx, siteId, lineId, true);
     if (!line) throw notFound("That wanted-list line");
-    const lead = await trx.insertInto("partLeads").values({ ...b, siteId, lineId, createdBy: actorId }).returningAll().executeTakeFirstOrThrow();
-    await repo.addHistory(trx, { siteId, lineId, action: "lead_added", summary: `Lead recorded: ${lead.source}`, actorId });
-    await recordAudit(trx, { siteId, entityType: "part_lead", entityId: lead.id, action: "create", actorId, after: lead });
+    const lead = await trx
+      .insertInto("partLeads")
+      .values({ ...b, siteId, lineId, createdBy: actorId })
+      .returningAll()
+      .executeTakeFirstOrThrow();
+    await repo.addHistory(trx, {
+      siteId,
+      lineId,
+      action: "lead_added",
+      summary: `Lead recorded: ${lead.source}`,
+      actorId,
+    });
+    await recordAudit(trx, {
+      siteId,
+      entityType: "part_lead",
+      entityId: lead.id,
+      action: "create",
+      actorId,
+      after: lead,
+    });
     if (line.status === "wanted") {
       await repo.updateLine(trx, lineId, { status: "lead_found" });
-      await repo.addHistory(trx, { siteId, lineId, action: "status", summary: "A lead was recorded", fromStatus: "wanted", toStatus: "lead_found", actorId });
+      await repo.addHistory(trx, {
+        siteId,
+        lineId,
+        action: "status",
+        summary: "A lead was recorded",
+        fromStatus: "wanted",
+        toStatus: "lead_found",
+        actorId,
+      });
     }
     return lead;
   });
 }
 
-export async function updateLead(db: Db, siteId: string, leadId: string, b: z.infer<typeof updateLeadBody>, actorId: string) {
+export async function updateLead(
+  db: Db,
+  siteId: string,
+  leadId: string,
+  b: z.infer<typeof updateLeadBody>,
+  actorId: string,
+) {
   return db.transaction().execute(async (trx) => {
-    const lead = await trx.selectFrom("partLeads").selectAll().where("siteId", "=", siteId).where("id", "=", leadId).forUpdate().executeTakeFirst();
+    const lead = await trx
+      .selectFrom("partLeads")
+      .selectAll()
+      .where("siteId", "=", siteId)
+      .where("id", "=", leadId)
+      .forUpdate()
+      .executeTakeFirst();
     if (!lead) throw notFound("That lead");
-    if (lead.version !== b.version) throw conflict("Someone changed this lead since you opened it.", { ...lead, createdAt: lead.createdAt.toISOString() });
+    if (lead.version !== b.version)
+      throw conflict("Someone changed this lead since you opened it.", {
+        ...lead,
+        createdAt: lead.createdAt.toISOString(),
+      });
     const { version: _v, ...patch } = b;
     const d = diff(lead as unknown as Record<string, unknown>, patch);
     if (!d.changed) return lead;
-    const next = await trx.updateTable("partLeads").set({ ...patch, version: sql`version + 1`, updatedAt: sql`now()` }).where("id", "=", leadId).returningAll().executeTakeFirstOrThrow();
-    await repo.addHistory(trx, { siteId, lineId: lead.lineId, action: "lead_edited", summary: `Lead ${next.source}: changed ${Object.keys(d.after).join(", ")}`, actorId });
-    await recordAudit(trx, { siteId, entityType: "part_lead", entityId: leadId, action: "update", actorId, before: d.before, after: d.after });
+    const next = await trx
+      .updateTable("partLeads")
+      .set({ ...patch, version: sql`version + 1`, updatedAt: sql`now()` })
+      .where("id", "=", leadId)
+      .returningAll()
+      .executeTakeFirstOrThrow();
+    await repo.addHistory(trx, {
+      siteId,
+      lineId: lead.lineId,
+      action: "lead_edited",
+      summary: `Lead ${next.source}: changed ${Object.keys(d.after).join(", ")}`,
+      actorId,
+    });
+    await recordAudit(trx, {
+      siteId,
+      entityType: "part_lead",
+      entityId: leadId,
+      action: "update",
+      actorId,
+      before: d.before,
+      after: d.after,
+    });
     return next;
   });
 }
-

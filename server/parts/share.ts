@@ -18,22 +18,48 @@ export const hashToken = (token: string) => createHash("sha256").update(token).d
 export async function createShareLink(db: Db, siteId: string, label: string, actorId: string) {
   const token = randomBytes(32).toString("base64url");
   const row = await db.transaction().execute(async (trx) => {
-    const r = await trx.insertInto("partShareLinks").values({ siteId, tokenHash: hashToken(token), label, createdBy: actorId }).returning(["id", "label", "createdAt", "revokedAt"]).executeTakeFirstOrThrow();
-    await recordAudit(trx, { siteId, entityType: "part_share_link", entityId: r.id, action: "create", actorId, after: { label } });
+    const r = await trx
+      .insertInto("partShareLinks")
+      .values({ siteId, tokenHash: hashToken(token), label, createdBy: actorId })
+      .returning(["id", "label", "createdAt", "revokedAt"])
+      .executeTakeFirstOrThrow();
+    await recordAudit(trx, {
+      siteId,
+      entityType: "part_share_link",
+      entityId: r.id,
+      action: "create",
+      actorId,
+      after: { label },
+    });
     return r;
   });
   return { token, link: { ...row, createdAt: row.createdAt.toISOString(), revokedAt: null, createdByName: null } };
 }
 
 export async function listShareLinks(db: Db, siteId: string) {
-  const rows = await db.selectFrom("partShareLinks as s").leftJoin("users as u", "u.id", "s.createdBy")
-    .select(["s.id", "s.label", "s.createdAt", "s.revokedAt", "u.name as createdByName"]).where("s.siteId", "=", siteId).orderBy("s.createdAt", "desc").execute();
-  return rows.map((r) => ({ ...r, createdAt: r.createdAt.toISOString(), revokedAt: r.revokedAt?.toISOString() ?? null }));
+  const rows = await db
+    .selectFrom("partShareLinks as s")
+    .leftJoin("users as u", "u.id", "s.createdBy")
+    .select(["s.id", "s.label", "s.createdAt", "s.revokedAt", "u.name as createdByName"])
+    .where("s.siteId", "=", siteId)
+    .orderBy("s.createdAt", "desc")
+    .execute();
+  return rows.map((r) => ({
+    ...r,
+    createdAt: r.createdAt.toISOString(),
+    revokedAt: r.revokedAt?.toISOString() ?? null,
+  }));
 }
 
 export async function revokeShareLink(db: Db, siteId: string, id: string, actorId: string) {
   await db.transaction().execute(async (trx) => {
-    const r = await trx.updateTable("partShareLinks").set({ revokedAt: sql`coalesce(revoked_at, now())`, revokedBy: actorId }).where("siteId", "=", siteId).where("id", "=", id).returning("id").executeTakeFirst();
+    const r = await trx
+      .updateTable("partShareLinks")
+      .set({ revokedAt: sql`coalesce(revoked_at, now())`, revokedBy: actorId })
+      .where("siteId", "=", siteId)
+      .where("id", "=", id)
+      .returning("id")
+      .executeTakeFirst();
     if (!r) throw notFound("That share link");
     await recordAudit(trx, { siteId, entityType: "part_share_link", entityId: id, action: "revoke", actorId });
   });
@@ -41,7 +67,11 @@ export async function revokeShareLink(db: Db, siteId: string, id: string, actorI
 
 /** The site behind a token: unknown → 404, revoked → 410 Gone. */
 export async function siteOfToken(db: Db, token: string) {
-  const link = await db.selectFrom("partShareLinks").select(["siteId", "revokedAt"]).where("tokenHash", "=", hashToken(token)).executeTakeFirst();
+  const link = await db
+    .selectFrom("partShareLinks")
+    .select(["siteId", "revokedAt"])
+    .where("tokenHash", "=", hashToken(token))
+    .executeTakeFirst();
   if (!link) throw new AppError(404, "not_found", "This share link does not exist.");
   if (link.revokedAt) throw new AppError(410, "revoked", "This share link has been withdrawn by the crew.");
   return link.siteId;
@@ -51,15 +81,32 @@ export async function siteOfToken(db: Db, token: string) {
 export async function sharedList(db: Db, token: string): Promise<SharedList> {
   const siteId = await siteOfToken(db, token);
   const site = await db.selectFrom("sites").select("name").where("id", "=", siteId).executeTakeFirstOrThrow();
-  const lines = (await buildRows(db, [...await repo.listLines(db, siteId, { status: "wanted" }), ...await repo.listLines(db, siteId, { status: "lead_found" })]
-    .sort((a, b) => a.createdAt.getTime() - b.createdAt.getTime() || (a.id < b.id ? -1 : 1))));
+  const lines = await buildRows(
+    db,
+    [
+      ...(await repo.listLines(db, siteId, { status: "wanted" })),
+      ...(await repo.listLines(db, siteId, { status: "lead_found" })),
+    ].sort((a, b) => a.createdAt.getTime() - b.createdAt.getTime() || (a.id < b.id ? -1 : 1)),
+  );
   return sharedListResponse.parse({
     siteName: site.name,
     lines: lines.map((l) => ({
-      ref: l.id.slice(0, 8), kind: l.kind, ratingAmps: l.ratingAmps, poles: l.poles, voltageRating: l.voltageRating, frame: l.frame, mounting: l.mounting,
+      ref: l.id.slice(0, 8),
+      kind: l.kind,
+      ratingAmps: l.ratingAmps,
+      poles: l.poles,
+      voltageRating: l.voltageRating,
+      frame: l.frame,
+      mounting: l.mounting,
       // Structured fields only: a line's "need" and its title's tail are free text typed on a defect
       // (phone numbers and prices have turned up there), so neither leaves the site.
-      maker: l.maker, model: l.model, need: "", title: partTitle({ ...l, mustMatch: undefined }), qty: l.qty, heritageRule: l.heritageRule, status: l.status,
+      maker: l.maker,
+      model: l.model,
+      need: "",
+      title: partTitle({ ...l, mustMatch: undefined }),
+      qty: l.qty,
+      heritageRule: l.heritageRule,
+      status: l.status,
       photoUrls: l.photoIds.map((p) => `/api/share/parts/${token}/photos/${p}`),
     })),
   });
@@ -68,13 +115,19 @@ export async function sharedList(db: Db, token: string): Promise<SharedList> {
 /** True when the photo is a nameplate photo of a component on a line the token shares (one query). */
 export async function photoIsShared(db: Db, token: string, photoId: string) {
   const siteId = await siteOfToken(db, token);
-  const row = await db.selectFrom("photos as ph")
+  const row = await db
+    .selectFrom("photos as ph")
     .innerJoin("partDemandLinks as l", "l.componentId", "ph.componentId")
     .innerJoin("partLines as pl", "pl.id", "l.lineId")
     .select("ph.id")
-    .where("ph.id", "=", photoId).where("ph.siteId", "=", siteId).where("ph.kind", "=", "nameplate").where("ph.deletedAt", "is", null)
-    .where("pl.siteId", "=", siteId).where("pl.status", "in", ["wanted", "lead_found"])
+    .where("ph.id", "=", photoId)
+    .where("ph.siteId", "=", siteId)
+    .where("ph.kind", "=", "nameplate")
+    .where("ph.deletedAt", "is", null)
+    .where("pl.siteId", "=", siteId)
+    .where("pl.status", "in", ["wanted", "lead_found"])
     .where((e) => e.or([e("l.active", "=", true), e("l.fitted", "=", true)]))
-    .limit(1).executeTakeFirst();
+    .limit(1)
+    .executeTakeFirst();
   return !!row;
 }

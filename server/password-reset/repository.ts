@@ -19,14 +19,25 @@ export const findByTokenHash = (db: Db, tokenHash: string, lock = false) => {
   const q = db
     .selectFrom("passwordResets")
     .innerJoin("users", "users.id", "passwordResets.userId")
-    .select(["passwordResets.id", "passwordResets.userId", "passwordResets.expiresAt", "passwordResets.usedAt", "users.email"])
+    .select([
+      "passwordResets.id",
+      "passwordResets.userId",
+      "passwordResets.expiresAt",
+      "passwordResets.usedAt",
+      "users.email",
+    ])
     .where("passwordResets.tokenHash", "=", tokenHash);
   return (lock ? q.forUpdate("passwordResets") : q).executeTakeFirst();
 };
 
 /** Every outstanding link of the user stops working once one of them has been used. */
 export const useAllFor = (db: Db, userId: string) =>
-  db.updateTable("passwordResets").set({ usedAt: new Date() }).where("userId", "=", userId).where("usedAt", "is", null).execute();
+  db
+    .updateTable("passwordResets")
+    .set({ usedAt: new Date() })
+    .where("userId", "=", userId)
+    .where("usedAt", "is", null)
+    .execute();
 
 export const setPasswordHash = (db: Db, userId: string, passwordHash: string) =>
   db.updateTable("users").set({ passwordHash, updatedAt: new Date() }).where("id", "=", userId).execute();

@@ -8,7 +8,9 @@ import type { MailDeps } from "../mail/mailer";
 import { setCookie } from "../middleware/session";
 import { completeReset, previewReset, sendResetLink } from "./service";
 
-const tokenParams = z.object({ token: z.string().regex(/^[A-Za-z0-9_-]{20,100}$/, { message: "That is not a reset link" }) });
+const tokenParams = z.object({
+  token: z.string().regex(/^[A-Za-z0-9_-]{20,100}$/, { message: "That is not a reset link" }),
+});
 
 export function passwordResetRoutes(deps: MailDeps, lucia: AppLucia, limiters: Limiters) {
   const r = Router();

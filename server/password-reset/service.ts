@@ -60,8 +60,10 @@ export async function sendResetLink(deps: MailDeps, email: string) {
 
 function usable<T extends { usedAt: Date | null; expiresAt: Date }>(row: T | undefined): T {
   if (!row) throw new AppError(404, "reset_not_found", "This link is not valid. Ask for a new one.");
-  if (row.usedAt) throw new AppError(410, "reset_used", "This link has already been used. Ask for a new one if you need it.");
-  if (row.expiresAt.getTime() <= Date.now()) throw new AppError(410, "reset_expired", "This link has expired. Ask for a new one.");
+  if (row.usedAt)
+    throw new AppError(410, "reset_used", "This link has already been used. Ask for a new one if you need it.");
+  if (row.expiresAt.getTime() <= Date.now())
+    throw new AppError(410, "reset_expired", "This link has expired. Ask for a new one.");
   return row;
 }
 

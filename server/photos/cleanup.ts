@@ -26,7 +26,12 @@ export async function findOrphans(db: Db, storage: PhotoStorage): Promise<Orphan
     const missing = want.filter((k) => !stored.has(k));
     if (missing.length) rowsWithoutFiles.push({ photoId: r.id, missing });
   }
-  return { filesWithoutRows: keys.filter((k) => !referenced.has(k)), rowsWithoutFiles, storedKeys: keys.length, rows: rows.length };
+  return {
+    filesWithoutRows: keys.filter((k) => !referenced.has(k)),
+    rowsWithoutFiles,
+    storedKeys: keys.length,
+    rows: rows.length,
+  };
 }
 
 /**

@@ -17,7 +17,13 @@ export const DISPLAY_PX = 1600;
 
 /** sharp's format names we accept; SVG, GIF, AVIF-as-named, PDF and the rest are refused. */
 const ALLOWED = new Set(["jpeg", "png", "webp", "tiff", "heif"]);
-const MIME: Record<string, string> = { jpeg: "image/jpeg", png: "image/png", webp: "image/webp", tiff: "image/tiff", heif: "image/heif" };
+const MIME: Record<string, string> = {
+  jpeg: "image/jpeg",
+  png: "image/png",
+  webp: "image/webp",
+  tiff: "image/tiff",
+  heif: "image/heif",
+};
 const EXT: Record<string, string> = { jpeg: "jpg", png: "png", webp: "webp", tiff: "tif", heif: "heic" };
 
 /** What the upload learns from the file without decoding its pixels. */
@@ -47,20 +53,31 @@ const refuse = (status: number, code: string, name: string, why: string) =>
 
 async function readMetadata(src: Source, name: string) {
   if (typeof src !== "string" && src.length === 0) throw refuse(400, "empty_file", name, "the file is empty.");
-  if (typeof src === "string" && (await stat(src)).size === 0) throw refuse(400, "empty_file", name, "the file is empty.");
+  if (typeof src === "string" && (await stat(src)).size === 0)
+    throw refuse(400, "empty_file", name, "the file is empty.");
   try {
     return await sharp(src, { limitInputPixels: MAX_INPUT_PIXELS }).metadata();
   } catch (e) {
     const msg = (e as Error).message;
     if (/pixel limit/i.test(msg)) throw bomb(name);
     if (/unsupported image format/i.test(msg))
-      throw refuse(415, "unsupported_type", name, "this is not a picture Tideline accepts (JPEG, PNG, WebP, HEIC/HEIF or TIFF).");
+      throw refuse(
+        415,
+        "unsupported_type",
+        name,
+        "this is not a picture Tideline accepts (JPEG, PNG, WebP, HEIC/HEIF or TIFF).",
+      );
     throw refuse(400, "unreadable_image", name, "the picture could not be read; it may be damaged or cut short.");
   }
 }
 
 const bomb = (name: string) =>
-  refuse(413, "too_many_pixels", name, `the picture has more than ${MAX_INPUT_PIXELS / 1e6} megapixels; Tideline refuses it (a decompression bomb or a panorama too large to handle).`);
+  refuse(
+    413,
+    "too_many_pixels",
+    name,
+    `the picture has more than ${MAX_INPUT_PIXELS / 1e6} megapixels; Tideline refuses it (a decompression bomb or a panorama too large to handle).`,
+  );
 
 /** Capture time and camera model from EXIF, read from the original before stripping. */
 async function captureFacts(src: Source): Promise<{ capturedAt: Date | null; cameraModel: string }> {
@@ -68,7 +85,10 @@ async function captureFacts(src: Source): Promise<{ capturedAt: Date | null; cam
     const tags = await exifr.parse(src, { pick: ["DateTimeOriginal", "CreateDate", "Make", "Model"] });
     const when = tags?.DateTimeOriginal ?? tags?.CreateDate;
     const capturedAt = when instanceof Date && !Number.isNaN(when.getTime()) ? when : null;
-    const model = [tags?.Make, tags?.Model].filter((x) => typeof x === "string" && x.trim()).join(" ").trim();
+    const model = [tags?.Make, tags?.Model]
+      .filter((x) => typeof x === "string" && x.trim())
+      .join(" ")
+      .trim();
     return { capturedAt, cameraModel: model.slice(0, 200) };
   } catch {
     return { capturedAt: null, cameraModel: "" };
@@ -105,10 +125,20 @@ export async function inspectImage(src: Source, name: string): Promise<ImageFact
   const meta = await readMetadata(src, name);
   const format = meta.format ?? "";
   if (!ALLOWED.has(format))
-    throw refuse(415, "unsupported_type", name, `${format.toUpperCase() || "this"} is not accepted; upload JPEG, PNG, WebP, HEIC/HEIF or TIFF.`);
+    throw refuse(
+      415,
+      "unsupported_type",
+      name,
+      `${format.toUpperCase() || "this"} is not accepted; upload JPEG, PNG, WebP, HEIC/HEIF or TIFF.`,
+    );
   if ((meta.width ?? 0) * (meta.height ?? 0) > MAX_INPUT_PIXELS) throw bomb(name);
   if (!(await looksComplete(src, format)))
-    throw refuse(400, "truncated_image", name, "the picture is damaged or cut short (the upload may have been interrupted); try it again.");
+    throw refuse(
+      400,
+      "truncated_image",
+      name,
+      "the picture is damaged or cut short (the upload may have been interrupted); try it again.",
+    );
   const sideways = (meta.orientation ?? 1) >= 5;
   return {
     format,
@@ -127,7 +157,10 @@ async function pixelSource(buf: Buffer, hevc: boolean): Promise<Sharp> {
     const d = await decodeHeicOneAtATime(buf).catch(() => {
       throw refuse(400, "unreadable_image", "HEIC", "this HEIC picture could not be decoded; it may be damaged.");
     });
-    return sharp(Buffer.from(d.data.buffer, d.data.byteOffset, d.data.byteLength), { raw: { width: d.width, height: d.height, channels: 4 }, limitInputPixels: MAX_INPUT_PIXELS });
+    return sharp(Buffer.from(d.data.buffer, d.data.byteOffset, d.data.byteLength), {
+      raw: { width: d.width, height: d.height, channels: 4 },
+      limitInputPixels: MAX_INPUT_PIXELS,
+    });
   }
   return sharp(buf, { limitInputPixels: MAX_INPUT_PIXELS });
 }
@@ -143,16 +176,31 @@ const box = (px: number) => ({ width: px, height: px, fit: "inside" as const, wi
  * every phone in a gallery, keeps mozjpeg's smaller output at a tiny cost.
  * JPEG rather than WebP so any EXIF reader can check the result.
  */
-export async function renderRenditions(original: Buffer, facts: Pick<ImageFacts, "hevc">, name: string): Promise<{ display: Buffer; thumb: Buffer }> {
+export async function renderRenditions(
+  original: Buffer,
+  facts: Pick<ImageFacts, "hevc">,
+  name: string,
+): Promise<{ display: Buffer; thumb: Buffer }> {
   try {
-    const display = await (await pixelSource(original, facts.hevc)).rotate().resize(box(DISPLAY_PX)).jpeg({ quality: 82 }).toBuffer();
+    const display = await (
+      await pixelSource(original, facts.hevc)
+    )
+      .rotate()
+      .resize(box(DISPLAY_PX))
+      .jpeg({ quality: 82 })
+      .toBuffer();
     const thumb = await sharp(display).resize(box(THUMB_PX)).jpeg({ quality: 82, mozjpeg: true }).toBuffer();
     return { display, thumb };
   } catch (e) {
     if (e instanceof AppError) throw e;
     const msg = (e as Error).message;
     if (/pixel limit/i.test(msg)) throw bomb(name);
-    throw refuse(400, "truncated_image", name, "the picture is damaged or cut short (the upload may have been interrupted); try it again.");
+    throw refuse(
+      400,
+      "truncated_image",
+      name,
+      "the picture is damaged or cut short (the upload may have been interrupted); try it again.",
+    );
   }
 }
 

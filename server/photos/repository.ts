@@ -5,11 +5,32 @@ import type { PhotoKind } from "../../src/domain/vocab";
 import type { Db } from "../db";
 
 const cols = [
-  "photos.id", "photos.siteId", "photos.boardId", "photos.positionId", "photos.componentId", "photos.defectId",
-  "photos.inspectionId", "photos.custodyMoveId", "photos.kind", "photos.caption", "photos.originalName", "photos.format", "photos.width",
-  "photos.height", "photos.bytes", "photos.capturedAt", "photos.cameraModel", "photos.uploadedBy", "photos.createdAt",
-  "photos.version", "photos.deletedAt", "photos.originalKey", "photos.displayKey", "photos.thumbKey",
-  "photos.renditionState", "photos.renditionError",
+  "photos.id",
+  "photos.siteId",
+  "photos.boardId",
+  "photos.positionId",
+  "photos.componentId",
+  "photos.defectId",
+  "photos.inspectionId",
+  "photos.custodyMoveId",
+  "photos.kind",
+  "photos.caption",
+  "photos.originalName",
+  "photos.format",
+  "photos.width",
+  "photos.height",
+  "photos.bytes",
+  "photos.capturedAt",
+  "photos.cameraModel",
+  "photos.uploadedBy",
+  "photos.createdAt",
+  "photos.version",
+  "photos.deletedAt",
+  "photos.originalKey",
+  "photos.displayKey",
+  "photos.thumbKey",
+  "photos.renditionState",
+  "photos.renditionError",
 ] as const;
 
 const base = (db: Db) =>
@@ -41,16 +62,35 @@ export interface ListFilter {
 
 export function listPhotos(db: Db, siteId: string, f: ListFilter) {
   let q = base(db).where("photos.siteId", "=", siteId).where("photos.deletedAt", "is", null);
-  for (const k of ["boardId", "positionId", "componentId", "defectId", "inspectionId", "custodyMoveId", "kind"] as const)
+  for (const k of [
+    "boardId",
+    "positionId",
+    "componentId",
+    "defectId",
+    "inspectionId",
+    "custodyMoveId",
+    "kind",
+  ] as const)
     if (f[k]) q = q.where(`photos.${k}`, "=", f[k] as string);
-  if (f.unassigned) q = q.where("photos.positionId", "is", null).where("photos.defectId", "is", null).where("photos.inspectionId", "is", null);
+  if (f.unassigned)
+    q = q
+      .where("photos.positionId", "is", null)
+      .where("photos.defectId", "is", null)
+      .where("photos.inspectionId", "is", null);
   if (f.ids?.length) q = q.where("photos.id", "in", f.ids);
   return q.orderBy("photos.createdAt", "desc").orderBy("photos.id").limit(f.limit).offset(f.offset).execute();
 }
 
-export const insertPhoto = (db: Db, row: Insertable<PhotosTable>) => db.insertInto("photos").values(row).returning("id").executeTakeFirstOrThrow();
+export const insertPhoto = (db: Db, row: Insertable<PhotosTable>) =>
+  db.insertInto("photos").values(row).returning("id").executeTakeFirstOrThrow();
 
-export const updatePhoto = (db: Db, siteId: string, photoId: string, version: number, patch: Partial<Insertable<PhotosTable>>) =>
+export const updatePhoto = (
+  db: Db,
+  siteId: string,
+  photoId: string,
+  version: number,
+  patch: Partial<Insertable<PhotosTable>>,
+) =>
   db
     .updateTable("photos")
     .set({ ...patch, version: sql`version + 1`, updatedAt: sql`now()` } as never)
@@ -63,9 +103,19 @@ export const updatePhoto = (db: Db, siteId: string, photoId: string, version: nu
 
 /** The board/position/component a target id belongs to, checked against the site. */
 export const findPositionTarget = (db: Db, siteId: string, positionId: string) =>
-  db.selectFrom("positions").select(["id as positionId", "boardId"]).where("siteId", "=", siteId).where("id", "=", positionId).executeTakeFirst();
+  db
+    .selectFrom("positions")
+    .select(["id as positionId", "boardId"])
+    .where("siteId", "=", siteId)
+    .where("id", "=", positionId)
+    .executeTakeFirst();
 export const findBoard = (db: Db, siteId: string, boardId: string) =>
-  db.selectFrom("boards").select(["id", "name"]).where("siteId", "=", siteId).where("id", "=", boardId).executeTakeFirst();
+  db
+    .selectFrom("boards")
+    .select(["id", "name"])
+    .where("siteId", "=", siteId)
+    .where("id", "=", boardId)
+    .executeTakeFirst();
 export const findComponentTarget = (db: Db, siteId: string, componentId: string) =>
   db
     .selectFrom("components")
@@ -75,12 +125,23 @@ export const findComponentTarget = (db: Db, siteId: string, componentId: string)
     .where("components.id", "=", componentId)
     .executeTakeFirst();
 export const findDefectTarget = (db: Db, siteId: string, defectId: string) =>
-  db.selectFrom("defects").select(["id as defectId", "boardId", "positionId", "componentId"]).where("siteId", "=", siteId).where("id", "=", defectId).executeTakeFirst();
+  db
+    .selectFrom("defects")
+    .select(["id as defectId", "boardId", "positionId", "componentId"])
+    .where("siteId", "=", siteId)
+    .where("id", "=", defectId)
+    .executeTakeFirst();
 export const findInspectionTarget = (db: Db, siteId: string, inspectionId: string) =>
   db
     .selectFrom("inspections")
     .innerJoin("positions", "positions.id", "inspections.positionId")
-    .select(["inspections.id as inspectionId", "inspections.componentId", "inspections.positionId", "positions.boardId", "inspections.inspectorId"])
+    .select([
+      "inspections.id as inspectionId",
+      "inspections.componentId",
+      "inspections.positionId",
+      "positions.boardId",
+      "inspections.inspectorId",
+    ])
     .where("inspections.siteId", "=", siteId)
     .where("inspections.id", "=", inspectionId)
     .executeTakeFirst();
@@ -100,8 +161,17 @@ export const listTargets = (db: Db, siteId: string) =>
   db
     .selectFrom("positions")
     .innerJoin("boards", "boards.id", "positions.boardId")
-    .leftJoin("components", (j) => j.onRef("components.positionId", "=", "positions.id").on("components.retiredAt", "is", null))
-    .select(["positions.id as positionId", "positions.boardId", "boards.name as boardName", "positions.designation", "components.tagNumber", "components.id as componentId"])
+    .leftJoin("components", (j) =>
+      j.onRef("components.positionId", "=", "positions.id").on("components.retiredAt", "is", null),
+    )
+    .select([
+      "positions.id as positionId",
+      "positions.boardId",
+      "boards.name as boardName",
+      "positions.designation",
+      "components.tagNumber",
+      "components.id as componentId",
+    ])
     .where("positions.siteId", "=", siteId)
     .orderBy("boards.name")
     .orderBy("positions.sortOrder")
@@ -116,7 +186,10 @@ export const upsertSettings = (db: Db, siteId: string, requiredKinds: PhotoKind[
     .insertInto("photoSettings")
     .values({ siteId, requiredKinds, version: version + 1 }) // the unsaved default counts as version 1
     .onConflict((oc) =>
-      oc.column("siteId").doUpdateSet({ requiredKinds, version: sql`photo_settings.version + 1`, updatedAt: sql`now()` } as never).where("photoSettings.version", "=", version),
+      oc
+        .column("siteId")
+        .doUpdateSet({ requiredKinds, version: sql`photo_settings.version + 1`, updatedAt: sql`now()` } as never)
+        .where("photoSettings.version", "=", version),
     )
     .returning(["requiredKinds", "version"])
     .executeTakeFirst();
@@ -129,7 +202,9 @@ export const boardPositionKinds = (db: Db, siteId: string, boardId: string) =>
     .select([
       "positions.id",
       "positions.designation",
-      sql<PhotoKind[]>`coalesce(array_agg(DISTINCT photos.kind) FILTER (WHERE photos.id IS NOT NULL), '{}')`.as("kinds"),
+      sql<PhotoKind[]>`coalesce(array_agg(DISTINCT photos.kind) FILTER (WHERE photos.id IS NOT NULL), '{}')`.as(
+        "kinds",
+      ),
       sql<number>`count(photos.id)::int`.as("photoCount"),
     ])
     .where("positions.siteId", "=", siteId)
@@ -141,10 +216,17 @@ export const boardPositionKinds = (db: Db, siteId: string, boardId: string) =>
     .execute();
 
 export const allPhotoKeys = (db: Db) =>
-  db.selectFrom("photos").select(["id", "siteId", "originalKey", "displayKey", "thumbKey", "deletedAt", "renditionState"]).execute();
+  db
+    .selectFrom("photos")
+    .select(["id", "siteId", "originalKey", "displayKey", "thumbKey", "deletedAt", "renditionState"])
+    .execute();
 
 export const expiredDeleted = (db: Db, before: Date) =>
-  db.selectFrom("photos").select(["id", "siteId", "originalKey", "displayKey", "thumbKey"]).where("deletedAt", "<", before).execute();
+  db
+    .selectFrom("photos")
+    .select(["id", "siteId", "originalKey", "displayKey", "thumbKey"])
+    .where("deletedAt", "<", before)
+    .execute();
 
 export const deletePhotoRow = (db: Db, photoId: string) => db.deleteFrom("photos").where("id", "=", photoId).execute();
 

@@ -1,7 +1,16 @@
 import { Router } from "express";
 import { pipeline } from "node:stream/promises";
 import { z } from "zod";
-import { bulkAssignBody, boardParams, photoListQuery, photoParams, photoPatch, photoSettingsBody, RENDITIONS, uploadFields } from "../../src/schemas/photos";
+import {
+  bulkAssignBody,
+  boardParams,
+  photoListQuery,
+  photoParams,
+  photoPatch,
+  photoSettingsBody,
+  RENDITIONS,
+  uploadFields,
+} from "../../src/schemas/photos";
 import type { Role } from "../../src/domain/vocab";
 import type { Db } from "../db";
 import { AppError, forbidden, notFound } from "../errors";
@@ -19,22 +28,30 @@ const ORIGINAL_ROLES = new Set(["curator", "photographer", "admin"]);
 
 export function photoRoutes(db: Db, storage: PhotoStorage, jobs: Jobs) {
   const r = Router();
-  const actor = (res: { locals: Express.Locals }) => ({ user: res.locals.user!, role: res.locals.siteRole as Role | "admin" });
-
-  r.post("/sites/:siteId/photos", requireSiteRole(db, "curator", "photographer", "volunteer"), receiveFiles, async (req, res) => {
-    const files = (req.files as Express.Multer.File[] | undefined) ?? [];
-    try {
-      const { siteId } = siteOnly.parse(req.params);
-      if (!files.length) throw new AppError(400, "no_files", 'Attach at least one picture in the "files" field.');
-      const fields = uploadFields.parse(req.body ?? {});
-      const ids = await service.uploadPhotos(db, storage, jobs, siteId, actor(res), files, fields);
-      const photos = await repo.listPhotos(db, siteId, { ids, limit: ids.length, offset: 0 });
-      // 201 with each photo 'processing': its display copy and thumbnail follow from the job queue.
-      res.status(201).json({ photos: photos.map(service.toPhoto) });
-    } finally {
-      await removeTemporary(files);
-    }
+  const actor = (res: { locals: Express.Locals }) => ({
+    user: res.locals.user!,
+    role: res.locals.siteRole as Role | "admin",
   });
+
+  r.post(
+    "/sites/:siteId/photos",
+    requireSiteRole(db, "curator", "photographer", "volunteer"),
+    receiveFiles,
+    async (req, res) => {
+      const files = (req.files as Express.Multer.File[] | undefined) ?? [];
+      try {
+        const { siteId } = siteOnly.parse(req.params);
+        if (!files.length) throw new AppError(400, "no_files", 'Attach at least one picture in the "files" field.');
+        const fields = uploadFields.parse(req.body ?? {});
+        const ids = await service.uploadPhotos(db, storage, jobs, siteId, actor(res), files, fields);
+        const photos = await repo.listPhotos(db, siteId, { ids, limit: ids.length, offset: 0 });
+        // 201 with each photo 'processing': its display copy and thumbnail follow from the job queue.
+        res.status(201).json({ photos: photos.map(service.toPhoto) });
+      } finally {
+        await removeTemporary(files);
+      }
+    },
+  );
 
   r.get("/sites/:siteId/photos", requireSiteRole(db), async (req, res) => {
     const { siteId } = siteOnly.parse(req.params);
@@ -74,10 +91,14 @@ export function photoRoutes(db: Db, storage: PhotoStorage, jobs: Jobs) {
     res.json({ photo: service.toPhoto(row) });
   });
 
-  r.patch("/sites/:siteId/photos/:photoId", requireSiteRole(db, "curator", "photographer", "volunteer"), async (req, res) => {
-    const { siteId, photoId } = photoParams.parse(req.params);
-    res.json({ photo: await service.updatePhoto(db, siteId, photoId, actor(res), photoPatch.parse(req.body)) });
-  });
+  r.patch(
+    "/sites/:siteId/photos/:photoId",
+    requireSiteRole(db, "curator", "photographer", "volunteer"),
+    async (req, res) => {
+      const { siteId, photoId } = photoParams.parse(req.params);
+      res.json({ photo: await service.updatePhoto(db, siteId, photoId, actor(res), photoPatch.parse(req.body)) });
+    },
+  );
 
   r.delete("/sites/:siteId/photos/:photoId", requireSiteRole(db, "curator"), async (req, res) => {
     const { siteId, photoId } = photoParams.parse(req.params);
@@ -87,17 +108,31 @@ export function photoRoutes(db: Db, storage: PhotoStorage, jobs: Jobs) {
 
   r.get("/sites/:siteId/photos/:photoId/:rendition", requireSiteRole(db), async (req, res) => {
     const { siteId, photoId, rendition } = renditionParams.parse(req.params);
-    if (rendition === "original" && !ORIGINAL_ROLES.has(res.locals.siteRole ?? "")) throw forbidden("Originals keep the camera's location data; only the photographer and the curator download them.");
+    if (rendition === "original" && !ORIGINAL_ROLES.has(res.locals.siteRole ?? ""))
+      throw forbidden(
+        "Originals keep the camera's location data; only the photographer and the curator download them.",
+      );
     const row = await repo.findPhoto(db, siteId, photoId);
     if (!row || row.deletedAt) throw notFound("That photo");
     if (rendition !== "original" && row.renditionState !== "ready")
-      throw new AppError(409, row.renditionState === "failed" ? "rendition_failed" : "processing", row.renditionState === "failed" ? `This photo could not be processed: ${row.renditionError ?? "unknown reason"}` : "This photo is still being processed; its copies appear in a moment.");
+      throw new AppError(
+        409,
+        row.renditionState === "failed" ? "rendition_failed" : "processing",
+        row.renditionState === "failed"
+          ? `This photo could not be processed: ${row.renditionError ?? "unknown reason"}`
+          : "This photo is still being processed; its copies appear in a moment.",
+      );
     const key = rendition === "original" ? row.originalKey : rendition === "display" ? row.displayKey : row.thumbKey;
     let body;
     try {
       body = await storage.get(key);
     } catch (e) {
-      if (e instanceof StorageNotFound) throw new AppError(404, "file_missing", "The picture's file is missing from storage; run the photo cleanup report.");
+      if (e instanceof StorageNotFound)
+        throw new AppError(
+          404,
+          "file_missing",
+          "The picture's file is missing from storage; run the photo cleanup report.",
+        );
       throw e;
     }
     res.setHeader("Cache-Control", "private, max-age=86400");
@@ -110,4 +145,6 @@ export function photoRoutes(db: Db, storage: PhotoStorage, jobs: Jobs) {
   return r;
 }
 
-const mimeOf = (f: string) => ({ jpeg: "image/jpeg", png: "image/png", webp: "image/webp", tiff: "image/tiff", heif: "image/heif" })[f] ?? "application/octet-stream";
+const mimeOf = (f: string) =>
+  ({ jpeg: "image/jpeg", png: "image/png", webp: "image/webp", tiff: "image/tiff", heif: "image/heif" })[f] ??
+  "application/octet-stream";

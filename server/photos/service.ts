@@ -26,7 +26,11 @@ export const RENDITION_JOB = "photo.renditions";
 /** What the client sees of a photo row: no storage keys, dates as ISO strings. */
 export function toPhoto(r: NonNullable<repo.PhotoRow>) {
   const { originalKey: _o, displayKey: _d, thumbKey: _t, deletedAt: _x, ...rest } = r;
-  return { ...rest, capturedAt: r.capturedAt ? r.capturedAt.toISOString() : null, createdAt: r.createdAt.toISOString() };
+  return {
+    ...rest,
+    capturedAt: r.capturedAt ? r.capturedAt.toISOString() : null,
+    createdAt: r.createdAt.toISOString(),
+  };
 }
 
 /**
@@ -38,7 +42,15 @@ export function toPhoto(r: NonNullable<repo.PhotoRow>) {
  *    no file I/O happens inside it. If it fails, the stored originals are deleted again.
  * A crash between 2 and 3 can leave files without rows: `npm run photos:cleanup` reports them.
  */
-export async function uploadPhotos(db: Db, storage: PhotoStorage, jobs: Jobs, siteId: string, actor: Actor, files: UploadedFile[], fields: UploadFields) {
+export async function uploadPhotos(
+  db: Db,
+  storage: PhotoStorage,
+  jobs: Jobs,
+  siteId: string,
+  actor: Actor,
+  files: UploadedFile[],
+  fields: UploadFields,
+) {
   await assertMayAttach(db, siteId, actor.user, actor.role, fields);
   const target = await resolveTarget(db, siteId, fields);
   const inspected: Array<{ file: UploadedFile; facts: ImageFacts; id: string; name: string }> = [];
@@ -53,19 +65,48 @@ export async function uploadPhotos(db: Db, storage: PhotoStorage, jobs: Jobs, si
       written.push(key);
       await storage.putFile(key, file.path, facts.mime).catch((e) => {
         log.error({ err: e }, "photo store write failed");
-        throw new AppError(503, "storage_failed", "The photo store did not accept the file; nothing was saved. Try again in a moment.");
+        throw new AppError(
+          503,
+          "storage_failed",
+          "The photo store did not accept the file; nothing was saved. Try again in a moment.",
+        );
       });
     }
     return await db.transaction().execute(async (trx) => {
       const ids: string[] = [];
       for (const { file, facts, id, name } of inspected) {
-        const keys = { originalKey: photoKey(siteId, id, "original", facts.ext), displayKey: photoKey(siteId, id, "display", "jpg"), thumbKey: photoKey(siteId, id, "thumb", "jpg") };
+        const keys = {
+          originalKey: photoKey(siteId, id, "original", facts.ext),
+          displayKey: photoKey(siteId, id, "display", "jpg"),
+          thumbKey: photoKey(siteId, id, "thumb", "jpg"),
+        };
         await repo.insertPhoto(trx, {
-          id, siteId, ...target, ...keys, kind: fields.kind, caption: fields.caption, originalName: name,
-          format: facts.format, width: facts.width, height: facts.height, bytes: file.size, capturedAt: facts.capturedAt,
-          cameraModel: facts.cameraModel, uploadedBy: actor.user.id, renditionState: "processing",
+          id,
+          siteId,
+          ...target,
+          ...keys,
+          kind: fields.kind,
+          caption: fields.caption,
+          originalName: name,
+          format: facts.format,
+          width: facts.width,
+          height: facts.height,
+          bytes: file.size,
+          capturedAt: facts.capturedAt,
+          cameraModel: facts.cameraModel,
+          uploadedBy: actor.user.id,
+          renditionState: "processing",
         });
-        await recordAudit(trx, { siteId, entityType: "photo", entityId: id, action: "upload", actorId: actor.user.id, boardId: target.boardId, positionId: target.positionId, after: { kind: fields.kind, originalName: name, ...target } });
+        await recordAudit(trx, {
+          siteId,
+          entityType: "photo",
+          entityId: id,
+          action: "upload",
+          actorId: actor.user.id,
+          boardId: target.boardId,
+          positionId: target.positionId,
+          after: { kind: fields.kind, originalName: name, ...target },
+        });
         await jobs.enqueue(RENDITION_JOB, { siteId, photoId: id, hevc: facts.hevc }, { trx });
         ids.push(id);
       }
@@ -83,7 +124,11 @@ export async function uploadPhotos(db: Db, storage: PhotoStorage, jobs: Jobs, si
  * is marked failed at once (trying again would not help); a store or database hiccup is
  * retried, and marked failed with its reason after the last attempt.
  */
-export function definePhotoJobs(jobs: Jobs, deps: { db: Db; photoStorage: PhotoStorage }, onRendered?: (seconds: number) => void) {
+export function definePhotoJobs(
+  jobs: Jobs,
+  deps: { db: Db; photoStorage: PhotoStorage },
+  onRendered?: (seconds: number) => void,
+) {
   jobs.define<{ siteId: string; photoId: string; hevc: boolean }>(
     RENDITION_JOB,
     async ({ siteId, photoId, hevc }, ctx) => {
@@ -97,7 +142,9 @@ export function definePhotoJobs(jobs: Jobs, deps: { db: Db; photoStorage: PhotoS
       } catch (e) {
         const permanent = e instanceof AppError;
         if (permanent || ctx.lastAttempt) {
-          const why = permanent ? (e as AppError).fields?.file ?? e.message : "the display copy could not be made; try uploading it again.";
+          const why = permanent
+            ? ((e as AppError).fields?.file ?? e.message)
+            : "the display copy could not be made; try uploading it again.";
           await repo.setRenditionState(deps.db, photoId, "failed", String(why));
           if (permanent) return;
         }
@@ -122,26 +169,51 @@ async function currentOr404(db: Db, siteId: string, photoId: string) {
 }
 
 const mayEdit = (actor: Actor, row: NonNullable<repo.PhotoRow>) =>
-  ["admin", "curator", "photographer"].includes(actor.role) || (actor.role === "volunteer" && row.uploadedBy === actor.user.id);
+  ["admin", "curator", "photographer"].includes(actor.role) ||
+  (actor.role === "volunteer" && row.uploadedBy === actor.user.id);
 
 export async function updatePhoto(db: Db, siteId: string, photoId: string, actor: Actor, patch: PhotoPatch) {
   return db.transaction().execute(async (trx) => {
     const row = await currentOr404(trx, siteId, photoId);
     if (!mayEdit(actor, row)) throw forbidden("Only the photographer and the curator tag photos.");
-    const retarget = ["boardId", "positionId", "componentId", "defectId"].some((k) => k in patch && patch[k as keyof PhotoPatch] !== undefined);
+    const retarget = ["boardId", "positionId", "componentId", "defectId"].some(
+      (k) => k in patch && patch[k as keyof PhotoPatch] !== undefined,
+    );
     if (retarget && actor.role === "volunteer") throw forbidden("Volunteers may not move photos to other positions.");
-    if (row.version !== patch.version) throw conflict("Someone changed this photo meanwhile. Here is how it is now.", toPhoto(row));
+    if (row.version !== patch.version)
+      throw conflict("Someone changed this photo meanwhile. Here is how it is now.", toPhoto(row));
     const set: Record<string, unknown> = {};
     if (patch.kind) set.kind = patch.kind;
     if (patch.caption !== undefined) set.caption = patch.caption;
     if (retarget) {
-      const t = await resolveTarget(trx, siteId, { boardId: patch.boardId ?? undefined, positionId: patch.positionId ?? undefined, componentId: patch.componentId ?? undefined, defectId: patch.defectId ?? undefined });
-      Object.assign(set, { boardId: t.boardId, positionId: t.positionId, componentId: t.componentId, defectId: t.defectId });
+      const t = await resolveTarget(trx, siteId, {
+        boardId: patch.boardId ?? undefined,
+        positionId: patch.positionId ?? undefined,
+        componentId: patch.componentId ?? undefined,
+        defectId: patch.defectId ?? undefined,
+      });
+      Object.assign(set, {
+        boardId: t.boardId,
+        positionId: t.positionId,
+        componentId: t.componentId,
+        defectId: t.defectId,
+      });
     }
     // The version is checked again by the UPDATE itself: a concurrent save that won the row lock
     // makes this one match nothing, so it is refused and no audit row is written for it.
-    if (!(await repo.updatePhoto(trx, siteId, photoId, patch.version, set))) throw await staleConflict(trx, siteId, photoId, "Someone changed this photo meanwhile. Here is how it is now.");
-    await recordAudit(trx, { siteId, entityType: "photo", entityId: photoId, action: "update", actorId: actor.user.id, boardId: (set.boardId as string) ?? row.boardId, positionId: (set.positionId as string) ?? row.positionId, before: pick(row, Object.keys(set)), after: set });
+    if (!(await repo.updatePhoto(trx, siteId, photoId, patch.version, set)))
+      throw await staleConflict(trx, siteId, photoId, "Someone changed this photo meanwhile. Here is how it is now.");
+    await recordAudit(trx, {
+      siteId,
+      entityType: "photo",
+      entityId: photoId,
+      action: "update",
+      actorId: actor.user.id,
+      boardId: (set.boardId as string) ?? row.boardId,
+      positionId: (set.positionId as string) ?? row.positionId,
+      before: pick(row, Object.keys(set)),
+      after: set,
+    });
     return toPhoto((await repo.findPhoto(trx, siteId, photoId))!);
   });
 }
@@ -161,12 +233,28 @@ export async function bulkAssign(db: Db, siteId: string, actor: Actor, body: Bul
     const out = [];
     for (const item of body.items) {
       const row = await currentOr404(trx, siteId, item.photoId);
-      if (row.version !== item.version) throw conflict(`${row.originalName || "A photo"} was changed meanwhile; reload the batch.`, toPhoto(row));
+      if (row.version !== item.version)
+        throw conflict(`${row.originalName || "A photo"} was changed meanwhile; reload the batch.`, toPhoto(row));
       const t = await resolveTarget(trx, siteId, { positionId: item.positionId });
       const set = { boardId: t.boardId, positionId: t.positionId, ...(item.kind ? { kind: item.kind } : {}) };
       if (!(await repo.updatePhoto(trx, siteId, item.photoId, item.version, set)))
-        throw await staleConflict(trx, siteId, item.photoId, `${row.originalName || "A photo"} was changed meanwhile; reload the batch.`);
-      await recordAudit(trx, { siteId, entityType: "photo", entityId: item.photoId, action: "assign", actorId: actor.user.id, boardId: t.boardId, positionId: t.positionId, before: { positionId: row.positionId, kind: row.kind }, after: set });
+        throw await staleConflict(
+          trx,
+          siteId,
+          item.photoId,
+          `${row.originalName || "A photo"} was changed meanwhile; reload the batch.`,
+        );
+      await recordAudit(trx, {
+        siteId,
+        entityType: "photo",
+        entityId: item.photoId,
+        action: "assign",
+        actorId: actor.user.id,
+        boardId: t.boardId,
+        positionId: t.positionId,
+        before: { positionId: row.positionId, kind: row.kind },
+        after: set,
+      });
       out.push(toPhoto((await repo.findPhoto(trx, siteId, item.photoId))!));
     }
     return out;
@@ -178,7 +266,16 @@ export async function softDelete(db: Db, siteId: string, photoId: string, actor:
   await db.transaction().execute(async (trx) => {
     const row = await currentOr404(trx, siteId, photoId);
     await trx.updateTable("photos").set({ deletedAt: new Date() }).where("id", "=", photoId).execute();
-    await recordAudit(trx, { siteId, entityType: "photo", entityId: photoId, action: "delete", actorId: actor.user.id, boardId: row.boardId, positionId: row.positionId, before: { originalName: row.originalName, kind: row.kind } });
+    await recordAudit(trx, {
+      siteId,
+      entityType: "photo",
+      entityId: photoId,
+      action: "delete",
+      actorId: actor.user.id,
+      boardId: row.boardId,
+      positionId: row.positionId,
+      before: { originalName: row.originalName, kind: row.kind },
+    });
   });
 }
 
@@ -188,13 +285,27 @@ export async function getSettings(db: Db, siteId: string) {
   return (await repo.getSettings(db, siteId)) ?? { requiredKinds: DEFAULT_REQUIRED, version: 1 };
 }
 
-export async function saveSettings(db: Db, siteId: string, actor: Actor, body: { requiredKinds: PhotoKind[]; version: number }) {
+export async function saveSettings(
+  db: Db,
+  siteId: string,
+  actor: Actor,
+  body: { requiredKinds: PhotoKind[]; version: number },
+) {
   return db.transaction().execute(async (trx) => {
     const before = await getSettings(trx, siteId);
     const kinds = PHOTO_KINDS.filter((k) => body.requiredKinds.includes(k));
     const saved = await repo.upsertSettings(trx, siteId, kinds, body.version);
-    if (!saved || (before.version !== body.version)) throw conflict("The required shots were changed meanwhile.", await getSettings(trx, siteId));
-    await recordAudit(trx, { siteId, entityType: "photo_settings", entityId: siteId, action: "update", actorId: actor.user.id, before, after: saved });
+    if (!saved || before.version !== body.version)
+      throw conflict("The required shots were changed meanwhile.", await getSettings(trx, siteId));
+    await recordAudit(trx, {
+      siteId,
+      entityType: "photo_settings",
+      entityId: siteId,
+      action: "update",
+      actorId: actor.user.id,
+      before,
+      after: saved,
+    });
     return saved;
   });
 }
@@ -205,11 +316,21 @@ export async function shootList(db: Db, siteId: string, boardId: string) {
   const { requiredKinds } = await getSettings(db, siteId);
   const rows = await repo.boardPositionKinds(db, siteId, boardId);
   const positions = rows.map((r) => ({
-    id: r.id, designation: r.designation, photoCount: r.photoCount,
+    id: r.id,
+    designation: r.designation,
+    photoCount: r.photoCount,
     have: PHOTO_KINDS.filter((k) => r.kinds.includes(k)),
     missing: requiredKinds.filter((k) => !r.kinds.includes(k)),
   }));
   const shotsRequired = positions.length * requiredKinds.length;
   const shotsTaken = shotsRequired - positions.reduce((n, p) => n + p.missing.length, 0);
-  return { board, requiredKinds, positions, complete: positions.filter((p) => !p.missing.length).length, total: positions.length, shotsTaken, shotsRequired };
+  return {
+    board,
+    requiredKinds,
+    positions,
+    complete: positions.filter((p) => !p.missing.length).length,
+    total: positions.length,
+    shotsTaken,
+    shotsRequired,
+  };
 }

@@ -21,7 +21,10 @@ export interface TargetIds {
   custodyMoveId?: string | null;
 }
 
-const missing = (field: string) => new AppError(400, "unknown_target", `That ${field.replace(/Id$/, "")} is not on this site.`, { [field]: "Not on this site" });
+const missing = (field: string) =>
+  new AppError(400, "unknown_target", `That ${field.replace(/Id$/, "")} is not on this site.`, {
+    [field]: "Not on this site",
+  });
 
 /**
  * Fills in what a photo belongs to from the most specific id given (inspection →
@@ -33,12 +36,22 @@ export async function resolveTarget(db: Db, siteId: string, ids: TargetIds): Pro
   if (ids.inspectionId) {
     const i = await repo.findInspectionTarget(db, siteId, ids.inspectionId);
     if (!i) throw missing("inspectionId");
-    Object.assign(t, { inspectionId: i.inspectionId, componentId: i.componentId, positionId: i.positionId, boardId: i.boardId });
+    Object.assign(t, {
+      inspectionId: i.inspectionId,
+      componentId: i.componentId,
+      positionId: i.positionId,
+      boardId: i.boardId,
+    });
   }
   if (ids.custodyMoveId) {
     const m = await repo.findCustodyMoveTarget(db, siteId, ids.custodyMoveId);
     if (!m) throw missing("custodyMoveId");
-    Object.assign(t, { custodyMoveId: m.custodyMoveId, componentId: t.componentId ?? m.componentId, positionId: t.positionId ?? m.positionId, boardId: t.boardId ?? m.boardId });
+    Object.assign(t, {
+      custodyMoveId: m.custodyMoveId,
+      componentId: t.componentId ?? m.componentId,
+      positionId: t.positionId ?? m.positionId,
+      boardId: t.boardId ?? m.boardId,
+    });
   }
   if (ids.defectId) {
     const d = await repo.findDefectTarget(db, siteId, ids.defectId);
@@ -51,7 +64,11 @@ export async function resolveTarget(db: Db, siteId: string, ids: TargetIds): Pro
   if (ids.componentId && !t.componentId) {
     const c = await repo.findComponentTarget(db, siteId, ids.componentId);
     if (!c) throw missing("componentId");
-    Object.assign(t, { componentId: c.componentId, positionId: t.positionId ?? c.positionId, boardId: t.boardId ?? c.boardId });
+    Object.assign(t, {
+      componentId: c.componentId,
+      positionId: t.positionId ?? c.positionId,
+      boardId: t.boardId ?? c.boardId,
+    });
   }
   if (ids.positionId && !t.positionId) {
     const p = await repo.findPositionTarget(db, siteId, ids.positionId);
@@ -70,8 +87,16 @@ export async function assertMayAttach(db: Db, siteId: string, user: User, role: 
   if (role === "admin" || role === "curator" || role === "photographer") return;
   if (role === "volunteer" && ids.defectId && !ids.inspectionId && !ids.custodyMoveId) {
     const d = await repo.findDefectTarget(db, siteId, ids.defectId);
-    const own = d && (await db.selectFrom("defects").select("id").where("id", "=", ids.defectId)
-      .where((eb) => eb.or([eb("createdBy", "=", user.id), eb("assigneeId", "=", user.id), eb("repairedBy", "=", user.id)])).executeTakeFirst());
+    const own =
+      d &&
+      (await db
+        .selectFrom("defects")
+        .select("id")
+        .where("id", "=", ids.defectId)
+        .where((eb) =>
+          eb.or([eb("createdBy", "=", user.id), eb("assigneeId", "=", user.id), eb("repairedBy", "=", user.id)]),
+        )
+        .executeTakeFirst());
     if (own) return;
     throw forbidden("Volunteers may attach photos to defects they raised, hold or repaired.");
   }
@@ -85,5 +110,9 @@ export async function assertMayAttach(db: Db, siteId: string, user: User, role: 
     if (i && i.inspectorId === user.id) return;
     throw forbidden("Volunteers may attach photos to their own inspections only.");
   }
-  throw forbidden(role === "volunteer" ? "Volunteers may attach photos to their own inspections only." : "Only the photographer and the curator upload and file photos.");
+  throw forbidden(
+    role === "volunteer"
+      ? "Volunteers may attach photos to their own inspections only."
+      : "Only the photographer and the curator upload and file photos.",
+  );
 }

@@ -27,7 +27,11 @@ export const UPLOAD_LIMITS = {
 
 // Browsers send a file name as raw UTF-8 in filename="…"; busboy reads such parameters as
 // latin1 unless told otherwise ("Ståle.jpg" would become "StÃ¥le.jpg"). multer passes the option on.
-const upload = multer({ storage: multer.diskStorage({ destination: TMP }), limits: UPLOAD_LIMITS, defParamCharset: "utf8" }).array("files", UPLOAD_LIMITS.files);
+const upload = multer({
+  storage: multer.diskStorage({ destination: TMP }),
+  limits: UPLOAD_LIMITS,
+  defParamCharset: "utf8",
+}).array("files", UPLOAD_LIMITS.files);
 
 /** Removes the request's temporary files (also those of a refused or failed upload). */
 export async function removeTemporary(files: Array<{ path: string }> | undefined) {
@@ -35,7 +39,10 @@ export async function removeTemporary(files: Array<{ path: string }> | undefined
 }
 
 const MESSAGES: Record<string, [number, string]> = {
-  LIMIT_FILE_SIZE: [413, `A file is larger than ${UPLOAD_LIMITS.fileSize / 1024 / 1024} MB; Tideline accepts pictures up to that size.`],
+  LIMIT_FILE_SIZE: [
+    413,
+    `A file is larger than ${UPLOAD_LIMITS.fileSize / 1024 / 1024} MB; Tideline accepts pictures up to that size.`,
+  ],
   LIMIT_FILE_COUNT: [413, `At most ${UPLOAD_LIMITS.files} files per upload.`],
   LIMIT_UNEXPECTED_FILE: [413, `Send the pictures in the "files" field, at most ${UPLOAD_LIMITS.files} at a time.`],
   LIMIT_FIELD_COUNT: [413, "Too many form fields."],

@@ -8,7 +8,8 @@ import { comparePhases, compareWithPrevious, type PhaseKey } from "../../src/dom
 import type { InsulationReading, PhaseComparison } from "../../src/schemas/readings";
 
 const keyOf = (r: InsulationReading) => (r.componentId ? `c:${r.componentId}` : `circuit:${r.circuit}`);
-const labelOf = (r: InsulationReading) => (r.designation ? `${r.designation}${r.circuit ? ` · ${r.circuit}` : ""}` : r.circuit);
+const labelOf = (r: InsulationReading) =>
+  r.designation ? `${r.designation}${r.circuit ? ` · ${r.circuit}` : ""}` : r.circuit;
 
 export function phaseComparisons(readings: InsulationReading[]): PhaseComparison[] {
   const usable = readings
@@ -25,7 +26,9 @@ export function phaseComparisons(readings: InsulationReading[]): PhaseComparison
     const latest = (c: string) => rs.find((r) => r.conductors === c);
     const values: Record<PhaseKey, number | null> = { A: null, B: null, C: null };
     for (const p of ["A", "B", "C"] as const) values[p] = latest(`${p}-G`)?.judgement.correctedMegohms ?? null;
-    const measured = Object.fromEntries(Object.entries(values).filter(([, v]) => v != null)) as Partial<Record<PhaseKey, number>>;
+    const measured = Object.fromEntries(Object.entries(values).filter(([, v]) => v != null)) as Partial<
+      Record<PhaseKey, number>
+    >;
     const phases = comparePhases(measured);
     const trend: PhaseComparison["trend"] = [];
     const reasons = [...phases.reasons];
@@ -33,11 +36,25 @@ export function phaseComparisons(readings: InsulationReading[]): PhaseComparison
       const [cur, prev] = rs.filter((r) => r.conductors === c);
       if (!cur || !prev) continue;
       const t = compareWithPrevious(cur.judgement.correctedMegohms!, prev.judgement.correctedMegohms!);
-      trend.push({ conductors: c, previous: prev.judgement.correctedMegohms!, current: cur.judgement.correctedMegohms!, dropFraction: t.dropFraction, flagged: t.flagged });
+      trend.push({
+        conductors: c,
+        previous: prev.judgement.correctedMegohms!,
+        current: cur.judgement.correctedMegohms!,
+        dropFraction: t.dropFraction,
+        flagged: t.flagged,
+      });
       if (t.reason) reasons.push(`${c}: ${t.reason}`);
     }
     if (Object.keys(measured).length < 2 && trend.length === 0) continue;
-    out.push({ key, label: labelOf(rs[0]), measuredAt: rs[0].measuredAt, values, flagged: phases.flagged, trend, reasons });
+    out.push({
+      key,
+      label: labelOf(rs[0]),
+      measuredAt: rs[0].measuredAt,
+      values,
+      flagged: phases.flagged,
+      trend,
+      reasons,
+    });
   }
   return out;
 }

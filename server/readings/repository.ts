@@ -12,7 +12,12 @@ import type {
 import type { Db } from "../db";
 
 export const findBoard = (db: Db, siteId: string, boardId: string) =>
-  db.selectFrom("boards").select(["id", "name", "nominalVolts"]).where("siteId", "=", siteId).where("id", "=", boardId).executeTakeFirst();
+  db
+    .selectFrom("boards")
+    .select(["id", "name", "nominalVolts"])
+    .where("siteId", "=", siteId)
+    .where("id", "=", boardId)
+    .executeTakeFirst();
 
 /** A component with its home position and board: where its readings are filed. */
 export const findComponent = (db: Db, siteId: string, componentId: string) =>
@@ -20,13 +25,28 @@ export const findComponent = (db: Db, siteId: string, componentId: string) =>
     .selectFrom("components as c")
     .innerJoin("positions as p", "p.id", "c.positionId")
     .innerJoin("boards as b", "b.id", "p.boardId")
-    .select(["c.id", "c.kind", "c.voltageRating", "p.id as positionId", "p.designation", "p.circuit", "b.id as boardId", "b.name as boardName", "b.nominalVolts"])
+    .select([
+      "c.id",
+      "c.kind",
+      "c.voltageRating",
+      "p.id as positionId",
+      "p.designation",
+      "p.circuit",
+      "b.id as boardId",
+      "b.name as boardName",
+      "b.nominalVolts",
+    ])
     .where("c.siteId", "=", siteId)
     .where("c.id", "=", componentId)
     .executeTakeFirst();
 
 export const listTargets = async (db: Db, siteId: string) => {
-  const boards = await db.selectFrom("boards").select(["id", "name", "nominalVolts"]).where("siteId", "=", siteId).orderBy("name").execute();
+  const boards = await db
+    .selectFrom("boards")
+    .select(["id", "name", "nominalVolts"])
+    .where("siteId", "=", siteId)
+    .orderBy("name")
+    .execute();
   const positions = await db
     .selectFrom("positions as p")
     .leftJoin("components as c", (j) => j.onRef("c.positionId", "=", "p.id").on("c.retiredAt", "is", null))
@@ -35,16 +55,25 @@ export const listTargets = async (db: Db, siteId: string) => {
     .orderBy("p.sortOrder")
     .orderBy("p.designation")
     .execute();
-  return boards.map((b) => ({ ...b, positions: positions.filter((p) => p.boardId === b.id).map(({ boardId: _b, ...p }) => p) }));
+  return boards.map((b) => ({
+    ...b,
+    positions: positions.filter((p) => p.boardId === b.id).map(({ boardId: _b, ...p }) => p),
+  }));
 };
 
-export const site = (db: Db, siteId: string) => db.selectFrom("sites").select(["id", "kind"]).where("id", "=", siteId).executeTakeFirstOrThrow();
+export const site = (db: Db, siteId: string) =>
+  db.selectFrom("sites").select(["id", "kind"]).where("id", "=", siteId).executeTakeFirstOrThrow();
 
 // ---- criteria and manufacturer's values ---------------------------------------------------
-export const getCriteria = (db: Db, siteId: string) => db.selectFrom("readingCriteria").selectAll().where("siteId", "=", siteId).executeTakeFirst();
+export const getCriteria = (db: Db, siteId: string) =>
+  db.selectFrom("readingCriteria").selectAll().where("siteId", "=", siteId).executeTakeFirst();
 
 export const insertCriteria = (db: Db, row: { siteId: string; updatedBy: string } & Record<string, unknown>) =>
-  db.insertInto("readingCriteria").values(row as never).returningAll().executeTakeFirstOrThrow();
+  db
+    .insertInto("readingCriteria")
+    .values(row as never)
+    .returningAll()
+    .executeTakeFirstOrThrow();
 
 export const updateCriteria = (db: Db, siteId: string, version: number, patch: Record<string, unknown>) =>
   db
@@ -58,15 +87,30 @@ export const updateCriteria = (db: Db, siteId: string, version: number, patch: R
 export const listOverrides = (db: Db, siteId: string, componentIds: string[]) =>
   componentIds.length === 0
     ? Promise.resolve([])
-    : db.selectFrom("componentReadingOverrides").selectAll().where("siteId", "=", siteId).where("componentId", "in", componentIds).execute();
+    : db
+        .selectFrom("componentReadingOverrides")
+        .selectAll()
+        .where("siteId", "=", siteId)
+        .where("componentId", "in", componentIds)
+        .execute();
 
 export const getOverride = (db: Db, siteId: string, componentId: string) =>
-  db.selectFrom("componentReadingOverrides").selectAll().where("siteId", "=", siteId).where("componentId", "=", componentId).executeTakeFirst();
+  db
+    .selectFrom("componentReadingOverrides")
+    .selectAll()
+    .where("siteId", "=", siteId)
+    .where("componentId", "=", componentId)
+    .executeTakeFirst();
 
 export const insertOverride = (db: Db, row: Insertable<ComponentReadingOverridesTable>) =>
   db.insertInto("componentReadingOverrides").values(row).returningAll().executeTakeFirstOrThrow();
 
-export const updateOverride = (db: Db, id: string, version: number, patch: Partial<Insertable<ComponentReadingOverridesTable>>) =>
+export const updateOverride = (
+  db: Db,
+  id: string,
+  version: number,
+  patch: Partial<Insertable<ComponentReadingOverridesTable>>,
+) =>
   db
     .updateTable("componentReadingOverrides")
     .set((eb) => ({ ...patch, version: eb("version", "+", 1), updatedAt: new Date() }))
@@ -76,7 +120,11 @@ export const updateOverride = (db: Db, id: string, version: number, patch: Parti
     .executeTakeFirst();
 
 export const deleteOverride = (db: Db, siteId: string, componentId: string) =>
-  db.deleteFrom("componentReadingOverrides").where("siteId", "=", siteId).where("componentId", "=", componentId).executeTakeFirst();
+  db
+    .deleteFrom("componentReadingOverrides")
+    .where("siteId", "=", siteId)
+    .where("componentId", "=", componentId)
+    .executeTakeFirst();
 
 // ---- readings ---------------------------------------------------------------------------
 export interface ReadingFilter {
@@ -110,7 +158,11 @@ export async function listInsulation(db: Db, f: ReadingFilter & { id?: string })
   if (f.boardId) q = q.where("r.boardId", "=", f.boardId);
   if (f.componentId) q = q.where("r.componentId", "=", f.componentId);
   if (f.circuit) q = q.where("r.circuit", "=", f.circuit);
-  return q.orderBy("r.measuredAt", "desc").orderBy("r.createdAt", "desc").limit(f.limit ?? 500).execute();
+  return q
+    .orderBy("r.measuredAt", "desc")
+    .orderBy("r.createdAt", "desc")
+    .limit(f.limit ?? 500)
+    .execute();
 }
 
 export async function listContacts(db: Db, f: ReadingFilter & { id?: string }) {
@@ -125,7 +177,11 @@ export async function listContacts(db: Db, f: ReadingFilter & { id?: string }) {
   if (f.id) q = q.where("r.id", "=", f.id);
   if (f.boardId) q = q.where("r.boardId", "=", f.boardId);
   if (f.componentId) q = q.where("r.componentId", "=", f.componentId);
-  return q.orderBy("r.measuredAt", "desc").orderBy("r.createdAt", "desc").limit(f.limit ?? 500).execute();
+  return q
+    .orderBy("r.measuredAt", "desc")
+    .orderBy("r.createdAt", "desc")
+    .limit(f.limit ?? 500)
+    .execute();
 }
 
 export async function listThermal(db: Db, f: ReadingFilter & { id?: string }) {
@@ -140,7 +196,11 @@ export async function listThermal(db: Db, f: ReadingFilter & { id?: string }) {
   if (f.id) q = q.where("r.id", "=", f.id);
   if (f.boardId) q = q.where("r.boardId", "=", f.boardId);
   if (f.componentId) q = q.where("r.componentId", "=", f.componentId);
-  return q.orderBy("r.measuredAt", "desc").orderBy("r.createdAt", "desc").limit(f.limit ?? 500).execute();
+  return q
+    .orderBy("r.measuredAt", "desc")
+    .orderBy("r.createdAt", "desc")
+    .limit(f.limit ?? 500)
+    .execute();
 }
 
 export async function listGroundChecks(db: Db, f: ReadingFilter & { id?: string }) {
@@ -153,11 +213,21 @@ export async function listGroundChecks(db: Db, f: ReadingFilter & { id?: string 
     .where("r.siteId", "=", f.siteId);
   if (f.id) q = q.where("r.id", "=", f.id);
   if (f.boardId) q = q.where("r.boardId", "=", f.boardId);
-  return q.orderBy("r.measuredAt", "desc").orderBy("r.createdAt", "desc").limit(f.limit ?? 500).execute();
+  return q
+    .orderBy("r.measuredAt", "desc")
+    .orderBy("r.createdAt", "desc")
+    .limit(f.limit ?? 500)
+    .execute();
 }
 
 export const photoOnSite = (db: Db, siteId: string, photoId: string) =>
-  db.selectFrom("photos").select(["id", "kind"]).where("siteId", "=", siteId).where("id", "=", photoId).where("deletedAt", "is", null).executeTakeFirst();
+  db
+    .selectFrom("photos")
+    .select(["id", "kind"])
+    .where("siteId", "=", siteId)
+    .where("id", "=", photoId)
+    .where("deletedAt", "is", null)
+    .executeTakeFirst();
 
 export const insertTripTest = (db: Db, row: Insertable<TripTestsTable>) =>
   db.insertInto("tripTests").values(row).returning("id").executeTakeFirstOrThrow();
@@ -178,7 +248,11 @@ export async function listTripTests(db: Db, f: ReadingFilter & { id?: string }) 
   if (f.id) q = q.where("r.id", "=", f.id);
   if (f.boardId) q = q.where("r.boardId", "=", f.boardId);
   if (f.componentId) q = q.where("r.componentId", "=", f.componentId);
-  return q.orderBy("r.measuredAt", "desc").orderBy("r.createdAt", "desc").limit(f.limit ?? 500).execute();
+  return q
+    .orderBy("r.measuredAt", "desc")
+    .orderBy("r.createdAt", "desc")
+    .limit(f.limit ?? 500)
+    .execute();
 }
 
 export async function listStepTests(db: Db, f: ReadingFilter & { id?: string }) {
@@ -193,7 +267,11 @@ export async function listStepTests(db: Db, f: ReadingFilter & { id?: string }) 
   if (f.id) q = q.where("r.id", "=", f.id);
   if (f.boardId) q = q.where("r.boardId", "=", f.boardId);
   if (f.componentId) q = q.where("r.componentId", "=", f.componentId);
-  return q.orderBy("r.measuredAt", "desc").orderBy("r.createdAt", "desc").limit(f.limit ?? 500).execute();
+  return q
+    .orderBy("r.measuredAt", "desc")
+    .orderBy("r.createdAt", "desc")
+    .limit(f.limit ?? 500)
+    .execute();
 }
 
 export async function listHuntSteps(db: Db, f: ReadingFilter & { id?: string }) {
@@ -205,8 +283,17 @@ export async function listHuntSteps(db: Db, f: ReadingFilter & { id?: string }) 
     .where("r.siteId", "=", f.siteId);
   if (f.id) q = q.where("r.id", "=", f.id);
   if (f.boardId) q = q.where("r.boardId", "=", f.boardId);
-  return q.orderBy("r.measuredAt", "asc").orderBy("r.createdAt", "asc").limit(f.limit ?? 1000).execute();
+  return q
+    .orderBy("r.measuredAt", "asc")
+    .orderBy("r.createdAt", "asc")
+    .limit(f.limit ?? 1000)
+    .execute();
 }
 
 export const findPosition = (db: Db, siteId: string, positionId: string) =>
-  db.selectFrom("positions").select(["id", "boardId", "designation"]).where("siteId", "=", siteId).where("id", "=", positionId).executeTakeFirst();
+  db
+    .selectFrom("positions")
+    .select(["id", "boardId", "designation"])
+    .where("siteId", "=", siteId)
+    .where("id", "=", positionId)
+    .executeTakeFirst();

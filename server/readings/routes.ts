@@ -40,7 +40,9 @@ export function readingRoutes(db: Db) {
     res.json({ criteria: await service.loadCriteria(db, req.params.siteId as string) });
   });
   r.put(`${S}/readings/criteria`, curate, async (req, res) => {
-    res.json({ criteria: await service.saveCriteria(db, req.params.siteId as string, user(res), criteriaBody.parse(req.body)) });
+    res.json({
+      criteria: await service.saveCriteria(db, req.params.siteId as string, user(res), criteriaBody.parse(req.body)),
+    });
   });
 
   // ---- per board ----
@@ -54,7 +56,9 @@ export function readingRoutes(db: Db) {
   });
   r.post(`${S}/boards/:boardId/insulation-readings`, record, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);
-    res.status(201).json({ reading: await service.recordInsulation(db, siteId, boardId, user(res), insulationReadingBody.parse(req.body)) });
+    res.status(201).json({
+      reading: await service.recordInsulation(db, siteId, boardId, user(res), insulationReadingBody.parse(req.body)),
+    });
   });
   r.get(`${S}/boards/:boardId/contact-readings`, read, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);
@@ -74,7 +78,9 @@ export function readingRoutes(db: Db) {
   });
   r.post(`${S}/boards/:boardId/ground-checks`, record, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);
-    res.status(201).json({ check: await service.recordGroundCheck(db, siteId, boardId, user(res), groundCheckBody.parse(req.body)) });
+    res.status(201).json({
+      check: await service.recordGroundCheck(db, siteId, boardId, user(res), groundCheckBody.parse(req.body)),
+    });
   });
 
   r.get(`${S}/boards/:boardId/step-voltage-tests`, read, async (req, res) => {
@@ -83,7 +89,9 @@ export function readingRoutes(db: Db) {
   });
   r.post(`${S}/boards/:boardId/step-voltage-tests`, record, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);
-    res.status(201).json({ test: await service.recordStepTest(db, siteId, boardId, user(res), stepVoltageBody.parse(req.body)) });
+    res
+      .status(201)
+      .json({ test: await service.recordStepTest(db, siteId, boardId, user(res), stepVoltageBody.parse(req.body)) });
   });
   r.get(`${S}/boards/:boardId/ground-hunts`, read, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);
@@ -91,7 +99,9 @@ export function readingRoutes(db: Db) {
   });
   r.post(`${S}/boards/:boardId/ground-hunts`, record, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);
-    res.status(201).json({ step: await service.recordHuntStep(db, siteId, boardId, user(res), groundHuntBody.parse(req.body)) });
+    res
+      .status(201)
+      .json({ step: await service.recordHuntStep(db, siteId, boardId, user(res), groundHuntBody.parse(req.body)) });
   });
 
   // ---- per component ----
@@ -101,7 +111,9 @@ export function readingRoutes(db: Db) {
   });
   r.post(`${S}/components/:componentId/trip-tests`, record, async (req, res) => {
     const { siteId, componentId } = componentParams.parse(req.params);
-    res.status(201).json({ test: await service.recordTripTest(db, siteId, componentId, user(res), tripTestBody.parse(req.body)) });
+    res
+      .status(201)
+      .json({ test: await service.recordTripTest(db, siteId, componentId, user(res), tripTestBody.parse(req.body)) });
   });
   r.get(`${S}/components/:componentId/readings`, read, async (req, res) => {
     const { siteId, componentId } = componentParams.parse(req.params);
@@ -117,7 +129,9 @@ export function readingRoutes(db: Db) {
   });
   r.post(`${S}/components/:componentId/contact-readings`, record, async (req, res) => {
     const { siteId, componentId } = componentParams.parse(req.params);
-    res.status(201).json({ reading: await service.recordContact(db, siteId, componentId, user(res), contactReadingBody.parse(req.body)) });
+    res.status(201).json({
+      reading: await service.recordContact(db, siteId, componentId, user(res), contactReadingBody.parse(req.body)),
+    });
   });
   r.get(`${S}/components/:componentId/thermal-scans`, read, async (req, res) => {
     const { siteId, componentId } = componentParams.parse(req.params);
@@ -125,11 +139,15 @@ export function readingRoutes(db: Db) {
   });
   r.post(`${S}/components/:componentId/thermal-scans`, record, async (req, res) => {
     const { siteId, componentId } = componentParams.parse(req.params);
-    res.status(201).json({ scan: await service.recordThermal(db, siteId, componentId, user(res), thermalScanBody.parse(req.body)) });
+    res
+      .status(201)
+      .json({ scan: await service.recordThermal(db, siteId, componentId, user(res), thermalScanBody.parse(req.body)) });
   });
   r.put(`${S}/components/:componentId/reading-override`, curate, async (req, res) => {
     const { siteId, componentId } = componentParams.parse(req.params);
-    res.json({ override: await service.saveOverride(db, siteId, componentId, user(res), overrideBody.parse(req.body)) });
+    res.json({
+      override: await service.saveOverride(db, siteId, componentId, user(res), overrideBody.parse(req.body)),
+    });
   });
   r.delete(`${S}/components/:componentId/reading-override`, curate, async (req, res) => {
     const { siteId, componentId } = componentParams.parse(req.params);

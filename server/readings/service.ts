@@ -1,4 +1,10 @@
-import { DEFAULT_CRITERIA, correctInsulation, judgeGroundCheck, judgeThermalScan, type ReadingCriteria } from "../../src/domain/reading-judgement";
+import {
+  DEFAULT_CRITERIA,
+  correctInsulation,
+  judgeGroundCheck,
+  judgeThermalScan,
+  type ReadingCriteria,
+} from "../../src/domain/reading-judgement";
 import type { z } from "zod";
 import type {
   contactReadingBody,
@@ -15,7 +21,17 @@ import { AppError, conflict, notFound } from "../errors";
 import { onReadingRecorded } from "../return-to-service/hooks";
 import { isUniqueViolation } from "../middleware/pg-errors";
 import { phaseComparisons } from "./comparisons";
-import { contactDto, groundDto, huntStepDto, insulationDto, judgeTrip, stepDto, thermalDto, tripDto, type Overrides } from "./judge";
+import {
+  contactDto,
+  groundDto,
+  huntStepDto,
+  insulationDto,
+  judgeTrip,
+  stepDto,
+  thermalDto,
+  tripDto,
+  type Overrides,
+} from "./judge";
 import { groundHuntFinding } from "../../src/domain/ground-detection";
 import type { GroundHunt, groundHuntBody, stepVoltageBody, tripTestBody } from "../../src/schemas/readings";
 import * as repo from "./repository";
@@ -40,53 +56,115 @@ export async function loadCriteria(db: Db, siteId: string): Promise<Criteria & R
 }
 
 export async function saveCriteria(db: Db, siteId: string, userId: string, body: z.infer<typeof criteriaBody>) {
-  return db.transaction().execute(async (trx) => {
-    const before = await loadCriteria(trx, siteId);
-    if (body.version !== before.version) throw conflict("Someone changed the criteria since you opened them. Here they are now.", before);
-    const { version, ...patch } = body;
-    const saved = before.version === 0
-      ? await repo.insertCriteria(trx, { siteId, updatedBy: userId, ...patch })
-      : await repo.updateCriteria(trx, siteId, version, { ...patch, updatedBy: userId });
-    if (!saved) throw conflict("Someone changed the criteria since you opened them. Here they are now.", await loadCriteria(trx, siteId));
-    await recordAudit(trx, { siteId, entityType: "reading_criteria", entityId: siteId, action: "update", actorId: userId, before, after: patch });
-    return loadCriteria(trx, siteId);
-  }).catch(async (e) => {
-    // Two first saves at once: the second INSERT meets the first's row (23505) → 409 with the saved criteria.
-    if (isUniqueViolation(e)) throw conflict("Someone saved the criteria at the same moment. Here they are now.", await loadCriteria(db, siteId));
-    throw e;
-  });
+  return db
+    .transaction()
+    .execute(async (trx) => {
+      const before = await loadCriteria(trx, siteId);
+      if (body.version !== before.version)
+        throw conflict("Someone changed the criteria since you opened them. Here they are now.", before);
+      const { version, ...patch } = body;
+      const saved =
+        before.version === 0
+          ? await repo.insertCriteria(trx, { siteId, updatedBy: userId, ...patch })
+          : await repo.updateCriteria(trx, siteId, version, { ...patch, updatedBy: userId });
+      if (!saved)
+        throw conflict(
+          "Someone changed the criteria since you opened them. Here they are now.",
+          await loadCriteria(trx, siteId),
+        );
+      await recordAudit(trx, {
+        siteId,
+        entityType: "reading_criteria",
+        entityId: siteId,
+        action: "update",
+        actorId: userId,
+        before,
+        after: patch,
+      });
+      return loadCriteria(trx, siteId);
+    })
+    .catch(async (e) => {
+      // Two first saves at once: the second INSERT meets the first's row (23505) → 409 with the saved criteria.
+      if (isUniqueViolation(e))
+        throw conflict(
+          "Someone saved the criteria at the same moment. Here they are now.",
+          await loadCriteria(db, siteId),
+        );
+      throw e;
+    });
 }
 
 async function overridesFor(db: Db, siteId: string, componentIds: Array<string | null>): Promise<Overrides> {
   const ids = [...new Set(componentIds.filter((x): x is string => !!x))];
   const rows = await repo.listOverrides(db, siteId, ids);
-  return new Map(rows.map((o) => [o.componentId, { minimumMegohms: o.minimumMegohms, maximumMicroOhms: o.maximumMicroOhms, source: o.source }]));
+  return new Map(
+    rows.map((o) => [
+      o.componentId,
+      { minimumMegohms: o.minimumMegohms, maximumMicroOhms: o.maximumMicroOhms, source: o.source },
+    ]),
+  );
 }
 
 const overrideDto = (o: NonNullable<Awaited<ReturnType<typeof repo.getOverride>>>) => ({
-  componentId: o.componentId, minimumMegohms: o.minimumMegohms, maximumMicroOhms: o.maximumMicroOhms, source: o.source, version: o.version,
+  componentId: o.componentId,
+  minimumMegohms: o.minimumMegohms,
+  maximumMicroOhms: o.maximumMicroOhms,
+  source: o.source,
+  version: o.version,
 });
 
-export async function saveOverride(db: Db, siteId: string, componentId: string, userId: string, body: z.infer<typeof overrideBody>) {
-  return db.transaction().execute(async (trx) => {
-    const component = await repo.findComponent(trx, siteId, componentId);
-    if (!component) throw notFound("That component");
-    const existing = await repo.getOverride(trx, siteId, componentId);
-    const values = { minimumMegohms: body.minimumMegohms, maximumMicroOhms: body.maximumMicroOhms, source: body.source, updatedBy: userId };
-    let saved;
-    if (!existing) saved = await repo.insertOverride(trx, { siteId, componentId, ...values });
-    else {
-      if (body.version !== existing.version) throw conflict("Someone changed this manufacturer's value since you opened it.", overrideDto(existing));
-      saved = await repo.updateOverride(trx, existing.id, existing.version, values);
-      if (!saved) throw conflict("Someone changed this manufacturer's value since you opened it.", overrideDto((await repo.getOverride(trx, siteId, componentId))!));
-    }
-    await recordAudit(trx, { siteId, entityType: "component_reading_override", entityId: componentId, action: existing ? "update" : "create", actorId: userId, boardId: component.boardId, positionId: component.positionId, before: existing ?? null, after: values });
-    return overrideDto(saved);
-  }).catch(async (e) => {
-    if (!isUniqueViolation(e)) throw e;
-    const now = await repo.getOverride(db, siteId, componentId);
-    throw conflict("Someone saved a manufacturer's value for this component at the same moment.", now ? overrideDto(now) : undefined);
-  });
+export async function saveOverride(
+  db: Db,
+  siteId: string,
+  componentId: string,
+  userId: string,
+  body: z.infer<typeof overrideBody>,
+) {
+  return db
+    .transaction()
+    .execute(async (trx) => {
+      const component = await repo.findComponent(trx, siteId, componentId);
+      if (!component) throw notFound("That component");
+      const existing = await repo.getOverride(trx, siteId, componentId);
+      const values = {
+        minimumMegohms: body.minimumMegohms,
+        maximumMicroOhms: body.maximumMicroOhms,
+        source: body.source,
+        updatedBy: userId,
+      };
+      let saved;
+      if (!existing) saved = await repo.insertOverride(trx, { siteId, componentId, ...values });
+      else {
+        if (body.version !== existing.version)
+          throw conflict("Someone changed this manufacturer's value since you opened it.", overrideDto(existing));
+        saved = await repo.updateOverride(trx, existing.id, existing.version, values);
+        if (!saved)
+          throw conflict(
+            "Someone changed this manufacturer's value since you opened it.",
+            overrideDto((await repo.getOverride(trx, siteId, componentId))!),
+          );
+      }
+      await recordAudit(trx, {
+        siteId,
+        entityType: "component_reading_override",
+        entityId: componentId,
+        action: existing ? "update" : "create",
+        actorId: userId,
+        boardId: component.boardId,
+        positionId: component.positionId,
+        before: existing ?? null,
+        after: values,
+      });
+      return overrideDto(saved);
+    })
+    .catch(async (e) => {
+      if (!isUniqueViolation(e)) throw e;
+      const now = await repo.getOverride(db, siteId, componentId);
+      throw conflict(
+        "Someone saved a manufacturer's value for this component at the same moment.",
+        now ? overrideDto(now) : undefined,
+      );
+    });
 }
 
 export async function removeOverride(db: Db, siteId: string, componentId: string, userId: string) {
@@ -94,13 +172,21 @@ export async function removeOverride(db: Db, siteId: string, componentId: string
     const existing = await repo.getOverride(trx, siteId, componentId);
     if (!existing) throw notFound("That manufacturer's value");
     await repo.deleteOverride(trx, siteId, componentId);
-    await recordAudit(trx, { siteId, entityType: "component_reading_override", entityId: componentId, action: "delete", actorId: userId, before: existing });
+    await recordAudit(trx, {
+      siteId,
+      entityType: "component_reading_override",
+      entityId: componentId,
+      action: "delete",
+      actorId: userId,
+      before: existing,
+    });
   });
 }
 
 /** A reading from the future is a typing slip (one hour's slack for clocks). */
 function checkWhen(measuredAt: string, now = Date.now()) {
-  if (new Date(measuredAt).getTime() > now + 3600_000) throw invalid("measuredAt", "The reading's time is in the future.");
+  if (new Date(measuredAt).getTime() > now + 3600_000)
+    throw invalid("measuredAt", "The reading's time is in the future.");
 }
 
 async function boardOrThrow(db: Db, siteId: string, boardId: string) {
@@ -114,14 +200,23 @@ async function componentOrThrow(db: Db, siteId: string, componentId: string) {
   return c;
 }
 
-export async function recordInsulation(db: Db, siteId: string, boardId: string, userId: string, b: z.infer<typeof insulationReadingBody>) {
+export async function recordInsulation(
+  db: Db,
+  siteId: string,
+  boardId: string,
+  userId: string,
+  b: z.infer<typeof insulationReadingBody>,
+) {
   checkWhen(b.measuredAt);
   const criteria = await loadCriteria(db, siteId);
   try {
     correctInsulation(b.megohms, b.equipmentTempC, criteria);
   } catch (e) {
     if (e instanceof RangeError) {
-      const range = criteria.correctionMethod === "ieee43_40c" ? "−10 to 100 °C for the IEEE 43 correction" : "−10 to 110 °C for the NETA correction table";
+      const range =
+        criteria.correctionMethod === "ieee43_40c"
+          ? "−10 to 100 °C for the IEEE 43 correction"
+          : "−10 to 110 °C for the NETA correction table";
       throw invalid("equipmentTempC", `Equipment temperature must be within ${range}.`);
     }
     throw e;
@@ -135,33 +230,99 @@ export async function recordInsulation(db: Db, siteId: string, boardId: string, 
       positionId = c.positionId;
     }
     const row = {
-      siteId, boardId, componentId: b.componentId, circuit: b.circuit, testVoltsDc: b.testVoltsDc, megohms: b.megohms, conductors: b.conductors,
-      equipmentTempC: b.equipmentTempC, ambientTempC: b.ambientTempC, humidityPercent: b.humidityPercent, durationS: b.durationS,
-      r30sMegohms: b.r30s, r1minMegohms: b.r1min, r10minMegohms: b.r10min,
-      megohmsQualifier: b.megohmsQualifier, r30sQualifier: b.r30sQualifier, r1minQualifier: b.r1minQualifier, r10minQualifier: b.r10minQualifier, instrument: b.instrument, notes: b.notes, measuredAt: b.measuredAt, recordedBy: userId,
+      siteId,
+      boardId,
+      componentId: b.componentId,
+      circuit: b.circuit,
+      testVoltsDc: b.testVoltsDc,
+      megohms: b.megohms,
+      conductors: b.conductors,
+      equipmentTempC: b.equipmentTempC,
+      ambientTempC: b.ambientTempC,
+      humidityPercent: b.humidityPercent,
+      durationS: b.durationS,
+      r30sMegohms: b.r30s,
+      r1minMegohms: b.r1min,
+      r10minMegohms: b.r10min,
+      megohmsQualifier: b.megohmsQualifier,
+      r30sQualifier: b.r30sQualifier,
+      r1minQualifier: b.r1minQualifier,
+      r10minQualifier: b.r10minQualifier,
+      instrument: b.instrument,
+      notes: b.notes,
+      measuredAt: b.measuredAt,
+      recordedBy: userId,
     };
     const { id } = await repo.insertInsulation(trx, row);
-    await recordAudit(trx, { siteId, entityType: "insulation_reading", entityId: id, action: "record", actorId: userId, boardId, positionId, after: row });
+    await recordAudit(trx, {
+      siteId,
+      entityType: "insulation_reading",
+      entityId: id,
+      action: "record",
+      actorId: userId,
+      boardId,
+      positionId,
+      after: row,
+    });
     const [judged] = await listInsulation(trx, siteId, { id });
-    await onReadingRecorded(trx, siteId, userId, { kind: "insulation_reading", id, boardId, componentId: b.componentId, measuredAt: new Date(b.measuredAt), verdict: judged.judgement.verdict, words: judged.judgement.reasons.join(" ") });
+    await onReadingRecorded(trx, siteId, userId, {
+      kind: "insulation_reading",
+      id,
+      boardId,
+      componentId: b.componentId,
+      measuredAt: new Date(b.measuredAt),
+      verdict: judged.judgement.verdict,
+      words: judged.judgement.reasons.join(" "),
+    });
     return id;
   });
   return (await listInsulation(db, siteId, { id }))[0];
 }
 
-export async function recordContact(db: Db, siteId: string, componentId: string, userId: string, b: z.infer<typeof contactReadingBody>) {
+export async function recordContact(
+  db: Db,
+  siteId: string,
+  componentId: string,
+  userId: string,
+  b: z.infer<typeof contactReadingBody>,
+) {
   checkWhen(b.measuredAt);
   const id = await db.transaction().execute(async (trx) => {
     const c = await componentOrThrow(trx, siteId, componentId);
-    const row = { siteId, boardId: c.boardId, componentId, poleMicroOhms: b.poleMicroOhms, testCurrentA: b.testCurrentA, instrument: b.instrument, notes: b.notes, measuredAt: b.measuredAt, recordedBy: userId };
+    const row = {
+      siteId,
+      boardId: c.boardId,
+      componentId,
+      poleMicroOhms: b.poleMicroOhms,
+      testCurrentA: b.testCurrentA,
+      instrument: b.instrument,
+      notes: b.notes,
+      measuredAt: b.measuredAt,
+      recordedBy: userId,
+    };
     const { id } = await repo.insertContact(trx, row);
-    await recordAudit(trx, { siteId, entityType: "contact_reading", entityId: id, action: "record", actorId: userId, boardId: c.boardId, positionId: c.positionId, after: row });
+    await recordAudit(trx, {
+      siteId,
+      entityType: "contact_reading",
+      entityId: id,
+      action: "record",
+      actorId: userId,
+      boardId: c.boardId,
+      positionId: c.positionId,
+      after: row,
+    });
     return id;
   });
   return (await listContacts(db, siteId, { id }))[0];
 }
 
-export async function recordThermal(db: Db, siteId: string, componentId: string, userId: string, b: z.infer<typeof thermalScanBody>) {
+export async function recordThermal(
+  db: Db,
+  siteId: string,
+  componentId: string,
+  userId: string,
+  b: z.infer<typeof thermalScanBody>,
+) {
   checkWhen(b.measuredAt);
   const id = await db.transaction().execute(async (trx) => {
     const c = await componentOrThrow(trx, siteId, componentId);
@@ -171,19 +332,53 @@ export async function recordThermal(db: Db, siteId: string, componentId: string,
       if (photo.kind !== "thermal") throw invalid("photoId", "That photo is not filed as a thermal image.");
     }
     const row = {
-      siteId, boardId: c.boardId, componentId, componentTempC: b.componentTempC, similarTempC: b.similarTempC, ambientTempC: b.ambientTempC,
-      loadPercent: b.loadPercent, loadAmps: b.loadAmps, photoId: b.photoId, instrument: b.instrument, notes: b.notes, measuredAt: b.measuredAt, recordedBy: userId,
+      siteId,
+      boardId: c.boardId,
+      componentId,
+      componentTempC: b.componentTempC,
+      similarTempC: b.similarTempC,
+      ambientTempC: b.ambientTempC,
+      loadPercent: b.loadPercent,
+      loadAmps: b.loadAmps,
+      photoId: b.photoId,
+      instrument: b.instrument,
+      notes: b.notes,
+      measuredAt: b.measuredAt,
+      recordedBy: userId,
     };
     const { id } = await repo.insertThermal(trx, row);
-    await recordAudit(trx, { siteId, entityType: "thermal_scan", entityId: id, action: "record", actorId: userId, boardId: c.boardId, positionId: c.positionId, after: row });
+    await recordAudit(trx, {
+      siteId,
+      entityType: "thermal_scan",
+      entityId: id,
+      action: "record",
+      actorId: userId,
+      boardId: c.boardId,
+      positionId: c.positionId,
+      after: row,
+    });
     const j = judgeThermalScan(row);
-    await onReadingRecorded(trx, siteId, userId, { kind: "thermal_scan", id, boardId: c.boardId, componentId, measuredAt: new Date(b.measuredAt), level: j.level, words: j.source.text });
+    await onReadingRecorded(trx, siteId, userId, {
+      kind: "thermal_scan",
+      id,
+      boardId: c.boardId,
+      componentId,
+      measuredAt: new Date(b.measuredAt),
+      level: j.level,
+      words: j.source.text,
+    });
     return id;
   });
   return (await listThermal(db, siteId, { id }))[0];
 }
 
-export async function recordGroundCheck(db: Db, siteId: string, boardId: string, userId: string, b: z.infer<typeof groundCheckBody>) {
+export async function recordGroundCheck(
+  db: Db,
+  siteId: string,
+  boardId: string,
+  userId: string,
+  b: z.infer<typeof groundCheckBody>,
+) {
   checkWhen(b.measuredAt);
   try {
     judgeGroundCheck({ lineVolts: b.lineVolts, lamps: b.lamps, volts: b.volts, branchOhms: b.branchOhms });
@@ -194,13 +389,33 @@ export async function recordGroundCheck(db: Db, siteId: string, boardId: string,
   const id = await db.transaction().execute(async (trx) => {
     await boardOrThrow(trx, siteId, boardId);
     const row = {
-      siteId, boardId, energisation: b.energisation, lineVolts: b.lineVolts,
-      lampA: b.lamps?.A ?? null, lampB: b.lamps?.B ?? null, lampC: b.lamps?.C ?? null,
-      voltsA: b.volts?.A ?? null, voltsB: b.volts?.B ?? null, voltsC: b.volts?.C ?? null,
-      branchOhms: b.branchOhms, capacitanceMicroF: b.capacitanceMicroF, instrument: b.instrument, notes: b.notes, measuredAt: b.measuredAt, recordedBy: userId,
+      siteId,
+      boardId,
+      energisation: b.energisation,
+      lineVolts: b.lineVolts,
+      lampA: b.lamps?.A ?? null,
+      lampB: b.lamps?.B ?? null,
+      lampC: b.lamps?.C ?? null,
+      voltsA: b.volts?.A ?? null,
+      voltsB: b.volts?.B ?? null,
+      voltsC: b.volts?.C ?? null,
+      branchOhms: b.branchOhms,
+      capacitanceMicroF: b.capacitanceMicroF,
+      instrument: b.instrument,
+      notes: b.notes,
+      measuredAt: b.measuredAt,
+      recordedBy: userId,
     };
     const { id } = await repo.insertGroundCheck(trx, row);
-    await recordAudit(trx, { siteId, entityType: "ground_lamp_check", entityId: id, action: "record", actorId: userId, boardId, after: row });
+    await recordAudit(trx, {
+      siteId,
+      entityType: "ground_lamp_check",
+      entityId: id,
+      action: "record",
+      actorId: userId,
+      boardId,
+      after: row,
+    });
     return id;
   });
   return (await listGroundChecks(db, siteId, { id }))[0];
@@ -210,12 +425,20 @@ type Filter = Omit<repo.ReadingFilter, "siteId"> & { id?: string };
 
 export async function listInsulation(db: Db, siteId: string, f: Filter) {
   const [criteria, rows] = await Promise.all([loadCriteria(db, siteId), repo.listInsulation(db, { siteId, ...f })]);
-  const overrides = await overridesFor(db, siteId, rows.map((r) => r.componentId));
+  const overrides = await overridesFor(
+    db,
+    siteId,
+    rows.map((r) => r.componentId),
+  );
   return rows.map((r) => insulationDto(r, criteria, overrides));
 }
 export async function listContacts(db: Db, siteId: string, f: Filter) {
   const [criteria, rows] = await Promise.all([loadCriteria(db, siteId), repo.listContacts(db, { siteId, ...f })]);
-  const overrides = await overridesFor(db, siteId, rows.map((r) => r.componentId));
+  const overrides = await overridesFor(
+    db,
+    siteId,
+    rows.map((r) => r.componentId),
+  );
   return rows.map((r) => contactDto(r, criteria, overrides));
 }
 export async function listThermal(db: Db, siteId: string, f: Filter) {
@@ -229,11 +452,23 @@ export async function listGroundChecks(db: Db, siteId: string, f: Filter) {
 export async function boardReadings(db: Db, siteId: string, boardId: string) {
   const board = await boardOrThrow(db, siteId, boardId);
   const [insulation, contacts, thermal, groundChecks, tripTests, stepTests, groundHunts] = await Promise.all([
-    listInsulation(db, siteId, { boardId }), listContacts(db, siteId, { boardId }), listThermal(db, siteId, { boardId }), listGroundChecks(db, siteId, { boardId }),
-    listTripTests(db, siteId, { boardId }), listStepTests(db, siteId, { boardId }), listGroundHunts(db, siteId, boardId),
+    listInsulation(db, siteId, { boardId }),
+    listContacts(db, siteId, { boardId }),
+    listThermal(db, siteId, { boardId }),
+    listGroundChecks(db, siteId, { boardId }),
+    listTripTests(db, siteId, { boardId }),
+    listStepTests(db, siteId, { boardId }),
+    listGroundHunts(db, siteId, boardId),
   ]);
   return {
-    board: { ...board, nominalVolts: Number(board.nominalVolts) }, insulation, contacts, thermal, groundChecks, tripTests, stepTests, groundHunts,
+    board: { ...board, nominalVolts: Number(board.nominalVolts) },
+    insulation,
+    contacts,
+    thermal,
+    groundChecks,
+    tripTests,
+    stepTests,
+    groundHunts,
     phaseComparisons: phaseComparisons(insulation),
   };
 }
@@ -241,13 +476,29 @@ export async function boardReadings(db: Db, siteId: string, boardId: string) {
 export async function componentReadings(db: Db, siteId: string, componentId: string) {
   const c = await componentOrThrow(db, siteId, componentId);
   const [insulation, contacts, thermal, override, tripTests, stepTests] = await Promise.all([
-    listInsulation(db, siteId, { componentId }), listContacts(db, siteId, { componentId }), listThermal(db, siteId, { componentId }), repo.getOverride(db, siteId, componentId),
-    listTripTests(db, siteId, { componentId }), listStepTests(db, siteId, { componentId }),
+    listInsulation(db, siteId, { componentId }),
+    listContacts(db, siteId, { componentId }),
+    listThermal(db, siteId, { componentId }),
+    repo.getOverride(db, siteId, componentId),
+    listTripTests(db, siteId, { componentId }),
+    listStepTests(db, siteId, { componentId }),
   ]);
   return {
-    component: { id: c.id, boardId: c.boardId, boardName: c.boardName, designation: c.designation, circuit: c.circuit, kind: c.kind, ratedVolts: Number(c.voltageRating ?? c.nominalVolts) },
+    component: {
+      id: c.id,
+      boardId: c.boardId,
+      boardName: c.boardName,
+      designation: c.designation,
+      circuit: c.circuit,
+      kind: c.kind,
+      ratedVolts: Number(c.voltageRating ?? c.nominalVolts),
+    },
     override: override ? overrideDto(override) : null,
-    insulation, contacts, thermal, tripTests, stepTests,
+    insulation,
+    contacts,
+    thermal,
+    tripTests,
+    stepTests,
   };
 }
 
@@ -256,7 +507,13 @@ export async function latestGroundCheck(db: Db, siteId: string, boardId: string)
   return (await listGroundChecks(db, siteId, { boardId, limit: 1 }))[0] ?? null;
 }
 
-export async function recordTripTest(db: Db, siteId: string, componentId: string, userId: string, b: z.infer<typeof tripTestBody>) {
+export async function recordTripTest(
+  db: Db,
+  siteId: string,
+  componentId: string,
+  userId: string,
+  b: z.infer<typeof tripTestBody>,
+) {
   checkWhen(b.measuredAt);
   try {
     judgeTrip({ ...b });
@@ -269,13 +526,28 @@ export async function recordTripTest(db: Db, siteId: string, componentId: string
     const { measuredAt, ...rest } = b;
     const row = { siteId, boardId: c.boardId, componentId, ...rest, measuredAt, recordedBy: userId };
     const { id } = await repo.insertTripTest(trx, row);
-    await recordAudit(trx, { siteId, entityType: "trip_test", entityId: id, action: "record", actorId: userId, boardId: c.boardId, positionId: c.positionId, after: row });
+    await recordAudit(trx, {
+      siteId,
+      entityType: "trip_test",
+      entityId: id,
+      action: "record",
+      actorId: userId,
+      boardId: c.boardId,
+      positionId: c.positionId,
+      after: row,
+    });
     return id;
   });
   return (await listTripTests(db, siteId, { id }))[0];
 }
 
-export async function recordStepTest(db: Db, siteId: string, boardId: string, userId: string, b: z.infer<typeof stepVoltageBody>) {
+export async function recordStepTest(
+  db: Db,
+  siteId: string,
+  boardId: string,
+  userId: string,
+  b: z.infer<typeof stepVoltageBody>,
+) {
   checkWhen(b.measuredAt);
   const id = await db.transaction().execute(async (trx) => {
     await boardOrThrow(trx, siteId, boardId);
@@ -286,17 +558,42 @@ export async function recordStepTest(db: Db, siteId: string, boardId: string, us
       positionId = c.positionId;
     }
     const row = {
-      siteId, boardId, componentId: b.componentId, circuit: b.circuit, conductors: b.conductors, equipmentTempC: b.equipmentTempC,
-      stepVolts: b.steps.map((s) => s.testVoltsDc), stepMegohms: b.steps.map((s) => s.megohms), instrument: b.instrument, notes: b.notes, measuredAt: b.measuredAt, recordedBy: userId,
+      siteId,
+      boardId,
+      componentId: b.componentId,
+      circuit: b.circuit,
+      conductors: b.conductors,
+      equipmentTempC: b.equipmentTempC,
+      stepVolts: b.steps.map((s) => s.testVoltsDc),
+      stepMegohms: b.steps.map((s) => s.megohms),
+      instrument: b.instrument,
+      notes: b.notes,
+      measuredAt: b.measuredAt,
+      recordedBy: userId,
     };
     const { id } = await repo.insertStepTest(trx, row);
-    await recordAudit(trx, { siteId, entityType: "step_voltage_test", entityId: id, action: "record", actorId: userId, boardId, positionId, after: row });
+    await recordAudit(trx, {
+      siteId,
+      entityType: "step_voltage_test",
+      entityId: id,
+      action: "record",
+      actorId: userId,
+      boardId,
+      positionId,
+      after: row,
+    });
     return id;
   });
   return (await listStepTests(db, siteId, { id }))[0];
 }
 
-export async function recordHuntStep(db: Db, siteId: string, boardId: string, userId: string, b: z.infer<typeof groundHuntBody>) {
+export async function recordHuntStep(
+  db: Db,
+  siteId: string,
+  boardId: string,
+  userId: string,
+  b: z.infer<typeof groundHuntBody>,
+) {
   checkWhen(b.measuredAt);
   const id = await db.transaction().execute(async (trx) => {
     await boardOrThrow(trx, siteId, boardId);
@@ -305,11 +602,31 @@ export async function recordHuntStep(db: Db, siteId: string, boardId: string, us
       if (!p || p.boardId !== boardId) throw invalid("positionId", "That position is not on this board.");
     }
     const row = {
-      siteId, boardId, hunt: b.hunt, positionId: b.positionId, feeder: b.feeder, action: b.action,
-      lampA: b.lamps.A, lampB: b.lamps.B, lampC: b.lamps.C, instrument: "", notes: b.notes, measuredAt: b.measuredAt, recordedBy: userId,
+      siteId,
+      boardId,
+      hunt: b.hunt,
+      positionId: b.positionId,
+      feeder: b.feeder,
+      action: b.action,
+      lampA: b.lamps.A,
+      lampB: b.lamps.B,
+      lampC: b.lamps.C,
+      instrument: "",
+      notes: b.notes,
+      measuredAt: b.measuredAt,
+      recordedBy: userId,
     };
     const { id } = await repo.insertHuntStep(trx, row);
-    await recordAudit(trx, { siteId, entityType: "ground_hunt_step", entityId: id, action: "record", actorId: userId, boardId, positionId: b.positionId, after: row });
+    await recordAudit(trx, {
+      siteId,
+      entityType: "ground_hunt_step",
+      entityId: id,
+      action: "record",
+      actorId: userId,
+      boardId,
+      positionId: b.positionId,
+      after: row,
+    });
     return id;
   });
   return (await repo.listHuntSteps(db, { siteId, id })).map(huntStepDto)[0];
@@ -330,6 +647,7 @@ export async function listGroundHunts(db: Db, siteId: string, boardId: string): 
     if (!byHunt.has(s.hunt)) byHunt.set(s.hunt, []);
     byHunt.get(s.hunt)!.push(s);
   }
-  return [...byHunt].map(([hunt, st]) => ({ hunt, steps: st, finding: groundHuntFinding(st) }))
+  return [...byHunt]
+    .map(([hunt, st]) => ({ hunt, steps: st, finding: groundHuntFinding(st) }))
     .sort((a, b) => Date.parse(b.steps.at(-1)!.measuredAt) - Date.parse(a.steps.at(-1)!.measuredAt));
 }

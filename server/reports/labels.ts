@@ -13,16 +13,36 @@ import type { Db } from "../db";
 import { notFound } from "../errors";
 import { INK, line, mm, newDocument, text } from "./pdf-base";
 
-export interface LabelItem { tagNumber: string; boardName: string; designation: string; kind: ComponentKind; siteName: string }
+export interface LabelItem {
+  tagNumber: string;
+  boardName: string;
+  designation: string;
+  kind: ComponentKind;
+  siteName: string;
+}
 
 /** Tagged components at the chosen positions, in board, section and position order. */
-export async function labelItems(db: Db, siteId: string, q: LabelsQuery): Promise<{ items: LabelItem[]; untagged: number }> {
+export async function labelItems(
+  db: Db,
+  siteId: string,
+  q: LabelsQuery,
+): Promise<{ items: LabelItem[]; untagged: number }> {
   if (q.boardId) {
-    const b = await db.selectFrom("boards").select("id").where("siteId", "=", siteId).where("id", "=", q.boardId).executeTakeFirst();
+    const b = await db
+      .selectFrom("boards")
+      .select("id")
+      .where("siteId", "=", siteId)
+      .where("id", "=", q.boardId)
+      .executeTakeFirst();
     if (!b) throw notFound("That board");
   }
   if (q.sectionId) {
-    const s = await db.selectFrom("sections").select("id").where("siteId", "=", siteId).where("id", "=", q.sectionId).executeTakeFirst();
+    const s = await db
+      .selectFrom("sections")
+      .select("id")
+      .where("siteId", "=", siteId)
+      .where("id", "=", q.sectionId)
+      .executeTakeFirst();
     if (!s) throw notFound("That section");
   }
   const rows = await db
@@ -36,9 +56,20 @@ export async function labelItems(db: Db, siteId: string, q: LabelsQuery): Promis
     .$if(!!q.boardId, (w) => w.where("p.boardId", "=", q.boardId!))
     .$if(!!q.sectionId, (w) => w.where("p.sectionId", "=", q.sectionId!))
     .$if(!!q.positionIds?.length, (w) => w.where("p.id", "in", q.positionIds!))
-    .orderBy("b.name").orderBy(sql`coalesce(s.sort_order, 1000000)`).orderBy("p.sortOrder").orderBy("p.designation")
+    .orderBy("b.name")
+    .orderBy(sql`coalesce(s.sort_order, 1000000)`)
+    .orderBy("p.sortOrder")
+    .orderBy("p.designation")
     .execute();
-  const items = rows.filter((r) => r.tagNumber).map((r) => ({ tagNumber: r.tagNumber!, boardName: r.boardName, designation: r.designation, kind: r.kind, siteName: r.siteName }));
+  const items = rows
+    .filter((r) => r.tagNumber)
+    .map((r) => ({
+      tagNumber: r.tagNumber!,
+      boardName: r.boardName,
+      designation: r.designation,
+      kind: r.kind,
+      siteName: r.siteName,
+    }));
   return { items, untagged: rows.length - items.length };
 }
 
@@ -53,7 +84,10 @@ export function drawQr(doc: PDFKit.PDFDocument, url: string, x: number, y: numbe
   for (let r = 0; r < n; r++) {
     let c = 0;
     while (c < n) {
-      if (!qr.modules.get(r, c)) { c++; continue; }
+      if (!qr.modules.get(r, c)) {
+        c++;
+        continue;
+      }
       const start = c;
       while (c < n && qr.modules.get(r, c)) c++;
       doc.rect(x + (quiet + start) * cell, y + (quiet + r) * cell, (c - start) * cell + 0.01, cell + 0.01);
@@ -62,10 +96,19 @@ export function drawQr(doc: PDFKit.PDFDocument, url: string, x: number, y: numbe
   doc.fill("#000000").restore();
 }
 
-export function renderLabels(items: LabelItem[], opts: { sheet: LabelSheetId; start: number; copies: number; baseUrl: string; title: string }) {
+export function renderLabels(
+  items: LabelItem[],
+  opts: { sheet: LabelSheetId; start: number; copies: number; baseUrl: string; title: string },
+) {
   const sheet = labelSheet(opts.sheet);
   const thermal = sheet.cols === 1 && sheet.rows === 1;
-  const doc = newDocument({ size: [mm(sheet.pageWidth), mm(sheet.pageHeight)], margin: 0, title: opts.title, author: "Tideline", subject: "Tag labels" });
+  const doc = newDocument({
+    size: [mm(sheet.pageWidth), mm(sheet.pageHeight)],
+    margin: 0,
+    title: opts.title,
+    author: "Tideline",
+    subject: "Tag labels",
+  });
   const list = items.flatMap((it) => Array.from({ length: opts.copies }, () => it));
   const slots = labelSlots(sheet, list.length, thermal ? 1 : opts.start);
   let page = -1;
@@ -79,12 +122,24 @@ export function renderLabels(items: LabelItem[], opts: { sheet: LabelSheetId; st
   });
   if (list.length === 0) {
     doc.addPage({ size: [mm(sheet.pageWidth), mm(sheet.pageHeight)], margin: 0 });
-    text(doc, "No tagged positions were chosen.", mm(5), mm(5), { size: 9, color: INK.muted, width: mm(sheet.pageWidth - 10) });
+    text(doc, "No tagged positions were chosen.", mm(5), mm(5), {
+      size: 9,
+      color: INK.muted,
+      width: mm(sheet.pageWidth - 10),
+    });
   }
   return doc;
 }
 
-function drawLabel(doc: PDFKit.PDFDocument, it: LabelItem, x: number, y: number, w: number, h: number, baseUrl: string) {
+function drawLabel(
+  doc: PDFKit.PDFDocument,
+  it: LabelItem,
+  x: number,
+  y: number,
+  w: number,
+  h: number,
+  baseUrl: string,
+) {
   const pad = Math.min(mm(1.5), h * 0.06);
   const q = Math.min(h - 2 * pad, w * 0.46);
   drawQr(doc, tagUrl(baseUrl, it.tagNumber), x + pad, y + (h - q) / 2, q);

@@ -30,8 +30,25 @@ const FALLBACK: FontName[] = ["body", "ext", "mono", "greek"];
 
 /** Characters none of the shipped fonts draw, written out instead. */
 const SUBSTITUTES: Record<string, string> = {
-  "≥": ">=", "≤": "<=", "→": "->", "←": "<-", "✕": "x", "×": "x", "✓": "yes", "⚠": "!", "−": "-", "○": "o", "◇": "<>", "⌕": "?", "…": "...",
-  "’": "'", "‘": "'", "“": '"', "”": '"', "⅝": "5/8", "\u00a0": " ",
+  "≥": ">=",
+  "≤": "<=",
+  "→": "->",
+  "←": "<-",
+  "✕": "x",
+  "×": "x",
+  "✓": "yes",
+  "⚠": "!",
+  "−": "-",
+  "○": "o",
+  "◇": "<>",
+  "⌕": "?",
+  "…": "...",
+  "’": "'",
+  "‘": "'",
+  "“": '"',
+  "”": '"',
+  "⅝": "5/8",
+  "\u00a0": " ",
 };
 
 type Glyphs = { hasGlyphForCodePoint(cp: number): boolean };
@@ -53,23 +70,39 @@ export const INK = {
   faint: "#edf2f5", // chalk
   brass: "#7a5714", // brass-700, headings
   brassBar: "#cf972c", // brass-500, rules and bars
-  kelp: "#1d5a49", kelpLight: "#8fe0c6",
-  rust: "#7c3a1c", rustLight: "#f5ae8c",
-  flare: "#7d2222", flareLight: "#ff9d9d",
-  tide: "#1f4775", tideLight: "#9cc8ff",
+  kelp: "#1d5a49",
+  kelpLight: "#8fe0c6",
+  rust: "#7c3a1c",
+  rustLight: "#f5ae8c",
+  flare: "#7d2222",
+  flareLight: "#ff9d9d",
+  tide: "#1f4775",
+  tideLight: "#9cc8ff",
   brassLight: "#f0cd80",
 } as const;
 
 export const PT_PER_MM = 72 / 25.4;
 export const mm = (v: number) => v * PT_PER_MM;
 
-export function newDocument(opts: { size: "A4" | "LETTER" | [number, number]; margin: number; title: string; author: string; subject: string }) {
+export function newDocument(opts: {
+  size: "A4" | "LETTER" | [number, number];
+  margin: number;
+  title: string;
+  author: string;
+  subject: string;
+}) {
   const doc = new PDFDocument({
     size: opts.size,
     margin: opts.margin,
     autoFirstPage: false,
     compress: true,
-    info: { Title: opts.title, Author: opts.author, Subject: opts.subject, Creator: "Tideline", Producer: "Tideline (pdfkit)" },
+    info: {
+      Title: opts.title,
+      Author: opts.author,
+      Subject: opts.subject,
+      Creator: "Tideline",
+      Producer: "Tideline (pdfkit)",
+    },
     lang: "en",
   });
   for (const n of Object.keys(FONT_FILES) as FontName[]) doc.registerFont(n, join(FONT_DIR, FONT_FILES[n]));
@@ -85,7 +118,8 @@ export function fontRuns(text: string, wanted: FontName): Array<{ font: FontName
   for (const ch of clean) {
     const cp = ch.codePointAt(0)!;
     let font: FontName = wanted;
-    if (cp > 0x20 && !g.get(wanted)!.hasGlyphForCodePoint(cp)) font = FALLBACK.find((f) => g.get(f)!.hasGlyphForCodePoint(cp)) ?? wanted;
+    if (cp > 0x20 && !g.get(wanted)!.hasGlyphForCodePoint(cp))
+      font = FALLBACK.find((f) => g.get(f)!.hasGlyphForCodePoint(cp)) ?? wanted;
     const last = runs[runs.length - 1];
     if (last && last.font === font) last.text += ch;
     else runs.push({ font, text: ch });
@@ -100,12 +134,20 @@ export function fontRuns(text: string, wanted: FontName): Array<{ font: FontName
  * A fresh object each time, since fontkit fills it in.
  */
 const featuresFor = (font: FontName) =>
-  font === "mono" || font === "monoBold" || font === "greek" ? ({ calt: false, liga: false } as unknown as PDFKit.Mixins.TextOptions["features"]) : undefined;
+  font === "mono" || font === "monoBold" || font === "greek"
+    ? ({ calt: false, liga: false } as unknown as PDFKit.Mixins.TextOptions["features"])
+    : undefined;
 
 export type TextOpts = PDFKit.Mixins.TextOptions & { font?: FontName; size?: number; color?: string };
 
 /** doc.text with Tideline's fonts and the fallback runs; x/y as pdfkit's. */
-export function text(doc: PDFKit.PDFDocument, str: string, x: number | undefined, y: number | undefined, opts: TextOpts = {}) {
+export function text(
+  doc: PDFKit.PDFDocument,
+  str: string,
+  x: number | undefined,
+  y: number | undefined,
+  opts: TextOpts = {},
+) {
   const { font = "body", size, color, ...rest } = opts;
   if (size) doc.fontSize(size);
   doc.fillColor(color ?? INK.text);
@@ -132,7 +174,9 @@ export function heightOf(doc: PDFKit.PDFDocument, str: string, width: number, op
   const { font = "body", size, ...rest } = opts;
   if (size) doc.fontSize(size);
   doc.font(font);
-  const clean = fontRuns(str, font).map((r) => r.text).join("");
+  const clean = fontRuns(str, font)
+    .map((r) => r.text)
+    .join("");
   return doc.heightOfString(clean, { width, ...rest, features: featuresFor(font) });
 }
 

@@ -17,7 +17,9 @@ import type { PhotoStorage } from "../photos/storage";
 import { labelItems, renderLabels } from "./labels";
 import { prepareSurveyReport, writeSurveyReport } from "./service";
 
-const tagParams = z.object({ tag: z.string().trim().min(1).max(40, { message: "A tag number has at most 40 characters" }) });
+const tagParams = z.object({
+  tag: z.string().trim().min(1).max(40, { message: "A tag number has at most 40 characters" }),
+});
 
 const attachment = (res: Response, filename: string) =>
   res.setHeader("Content-Disposition", `attachment; filename="${filename.replace(/[^A-Za-z0-9._-]/g, "_")}"`);
@@ -25,29 +27,40 @@ const attachment = (res: Response, filename: string) =>
 export function reportRoutes(db: Db, storage: PhotoStorage, publicUrl: string) {
   const r = Router();
 
-  r.get("/sites/:siteId/reports/survey.pdf", requireSiteRole(db, ...REPORT_ROLES.report), limitExports, async (req, res) => {
-    const q = surveyReportQuery.parse(req.query);
-    const user = res.locals.user!;
-    const prepared = await prepareSurveyReport(db, req.params.siteId as string, q, { id: user.id, name: user.name });
-    res.status(200);
-    res.type("application/pdf");
-    attachment(res, prepared.filename);
-    res.setHeader("X-Report-Pages", String(prepared.plan.totalPages));
-    res.setHeader("X-Report-Positions", String(prepared.data.boards.reduce((s, b) => s + b.positions.length, 0)));
-    res.setHeader("Access-Control-Expose-Headers", "X-Report-Pages, X-Report-Positions");
-    try {
-      await writeSurveyReport(prepared, storage, res);
-    } catch (e) {
-      // Headers are gone: the only honest signal left is a cut-off response.
-      if ((e as Error).message !== "report_aborted") console.error("survey report failed mid-stream", e);
-      res.destroy();
-    }
-  });
+  r.get(
+    "/sites/:siteId/reports/survey.pdf",
+    requireSiteRole(db, ...REPORT_ROLES.report),
+    limitExports,
+    async (req, res) => {
+      const q = surveyReportQuery.parse(req.query);
+      const user = res.locals.user!;
+      const prepared = await prepareSurveyReport(db, req.params.siteId as string, q, { id: user.id, name: user.name });
+      res.status(200);
+      res.type("application/pdf");
+      attachment(res, prepared.filename);
+      res.setHeader("X-Report-Pages", String(prepared.plan.totalPages));
+      res.setHeader("X-Report-Positions", String(prepared.data.boards.reduce((s, b) => s + b.positions.length, 0)));
+      res.setHeader("Access-Control-Expose-Headers", "X-Report-Pages, X-Report-Positions");
+      try {
+        await writeSurveyReport(prepared, storage, res);
+      } catch (e) {
+        // Headers are gone: the only honest signal left is a cut-off response.
+        if ((e as Error).message !== "report_aborted") console.error("survey report failed mid-stream", e);
+        res.destroy();
+      }
+    },
+  );
 
   r.get("/sites/:siteId/labels.pdf", requireSiteRole(db, ...REPORT_ROLES.labels), limitExports, async (req, res) => {
     const q = labelsQuery.parse(req.query);
     const { items, untagged } = await labelItems(db, req.params.siteId as string, q);
-    const doc = renderLabels(items, { sheet: q.sheet, start: q.start, copies: q.copies, baseUrl: publicUrl, title: "Tideline tag labels" });
+    const doc = renderLabels(items, {
+      sheet: q.sheet,
+      start: q.start,
+      copies: q.copies,
+      baseUrl: publicUrl,
+      title: "Tideline tag labels",
+    });
     res.type("application/pdf");
     attachment(res, `tag-labels-${q.sheet}.pdf`);
     res.setHeader("X-Labels", String(items.length * q.copies));

@@ -22,8 +22,11 @@ export const REPORT_PHOTO_QUALITY = 60;
 const LOOKAHEAD = 4;
 
 export async function downscale(bytes: Buffer) {
-  return sharp(bytes).rotate().resize({ width: REPORT_PHOTO_PX, height: REPORT_PHOTO_PX, fit: "inside", withoutEnlargement: true })
-    .jpeg({ quality: REPORT_PHOTO_QUALITY }).toBuffer();
+  return sharp(bytes)
+    .rotate()
+    .resize({ width: REPORT_PHOTO_PX, height: REPORT_PHOTO_PX, fit: "inside", withoutEnlargement: true })
+    .jpeg({ quality: REPORT_PHOTO_QUALITY })
+    .toBuffer();
 }
 
 /** Reads photos in report order a few ahead of the page being drawn. */
@@ -53,28 +56,52 @@ function photoLoader(storage: PhotoStorage, data: ReportData) {
   };
 }
 
-export interface PreparedReport { data: ReportData; plan: RenderPlan; filename: string; title: string }
+export interface PreparedReport {
+  data: ReportData;
+  plan: RenderPlan;
+  filename: string;
+  title: string;
+}
 
-export async function prepareSurveyReport(db: Db, siteId: string, q: SurveyReportQuery, viewer: { id: string; name: string }): Promise<PreparedReport> {
+export async function prepareSurveyReport(
+  db: Db,
+  siteId: string,
+  q: SurveyReportQuery,
+  viewer: { id: string; name: string },
+): Promise<PreparedReport> {
   const data = await loadSurveyData(db, siteId, q, viewer);
   const title = `Condition survey · ${data.site.name}${q.boardId ? ` · ${data.boards[0].name}` : ""}`;
   const dry = documentFor(data, title);
   dry.on("data", () => {});
   const plan = await renderSurvey(dry, data, { dry: true });
   dry.end();
-  const slug = `${data.site.name}${q.boardId ? `-${data.boards[0].name}` : ""}`.toLowerCase().replace(/[^a-z0-9]+/g, "-").replace(/^-|-$/g, "");
+  const slug = `${data.site.name}${q.boardId ? `-${data.boards[0].name}` : ""}`
+    .toLowerCase()
+    .replace(/[^a-z0-9]+/g, "-")
+    .replace(/^-|-$/g, "");
   return { data, plan, title, filename: `condition-survey-${slug}-${data.generatedAt.toISOString().slice(0, 10)}.pdf` };
 }
 
 function documentFor(data: ReportData, title: string) {
-  return newDocument({ size: data.query.paper === "letter" ? "LETTER" : "A4", margin: 48, title, author: data.generatedBy, subject: "Condition survey: observations and readings; certifies nothing" });
+  return newDocument({
+    size: data.query.paper === "letter" ? "LETTER" : "A4",
+    margin: 48,
+    title,
+    author: data.generatedBy,
+    subject: "Condition survey: observations and readings; certifies nothing",
+  });
 }
 
 /**
  * Renders a prepared report into `out` (an HTTP response or a file). Resolves when the
  * last byte is handed over; stops early (rejecting) when `out` is destroyed.
  */
-export async function writeSurveyReport(prepared: PreparedReport, storage: PhotoStorage, out: Writable, onProgress?: (positionsDone: number) => void) {
+export async function writeSurveyReport(
+  prepared: PreparedReport,
+  storage: PhotoStorage,
+  out: Writable,
+  onProgress?: (positionsDone: number) => void,
+) {
   const doc = documentFor(prepared.data, prepared.title);
   doc.pipe(out);
   const closed = new Promise<void>((resolve) => out.once("close", resolve));
@@ -88,7 +115,9 @@ export async function writeSurveyReport(prepared: PreparedReport, storage: Photo
       if (out.writableNeedDrain) {
         // A reader that takes nothing for the export timeout is dropped, as every download is (server/export-stream.ts).
         let timer: NodeJS.Timeout | undefined;
-        const stalled = new Promise<"stalled">((resolve) => (timer = setTimeout(() => resolve("stalled"), exportWriteTimeoutMs())));
+        const stalled = new Promise<"stalled">(
+          (resolve) => (timer = setTimeout(() => resolve("stalled"), exportWriteTimeoutMs())),
+        );
         const got = await Promise.race([once(out, "drain"), closed, stalled]);
         clearTimeout(timer);
         if (got === "stalled" || out.destroyed) throw new Error("report_aborted");

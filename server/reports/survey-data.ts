@@ -5,7 +5,15 @@
  * reconciliation, which every read of the wanted list runs.
  */
 import { sql } from "kysely";
-import type { ComponentKind, Custody, DefectSeverity, DefectStatus, Disposition, Heritage, PhotoKind } from "../../src/domain/vocab";
+import type {
+  ComponentKind,
+  Custody,
+  DefectSeverity,
+  DefectStatus,
+  Disposition,
+  Heritage,
+  PhotoKind,
+} from "../../src/domain/vocab";
 import type { Criteria, ContactReading, GroundCheck, InsulationReading, ThermalScan } from "../../src/schemas/readings";
 import type { PartLine } from "../../src/schemas/parts";
 import type { SurveyReportQuery } from "../../src/schemas/reports";
@@ -16,7 +24,13 @@ import * as readings from "../readings/service";
 import { boardView } from "../return-to-service/view";
 import type { RtsBoardView } from "../../src/schemas/return-to-service";
 
-export interface ReportPhoto { id: string; kind: PhotoKind; displayKey: string; caption: string; takenAt: Date }
+export interface ReportPhoto {
+  id: string;
+  kind: PhotoKind;
+  displayKey: string;
+  caption: string;
+  takenAt: Date;
+}
 
 export interface ReportPosition {
   id: string;
@@ -29,14 +43,43 @@ export interface ReportPosition {
   rowSpan: number;
   colSpan: number;
   component: null | {
-    id: string; kind: ComponentKind; maker: string; model: string; frame: string; mounting: string; ratingAmps: number | null; poles: number | null;
-    voltageRating: number | null; interruptingKa: number | null; serial: string; year: number | null; meterRange: string; lampWatts: number | null;
-    heritage: Heritage; tagNumber: string | null; custody: Custody; custodyLocation: string; disposition: Disposition | null; dispositionReason: string;
-    dispositionRecommended: Disposition | null; dispositionOverridden: boolean; decidedByName: string | null; dispositionAt: Date | null; notes: string;
+    id: string;
+    kind: ComponentKind;
+    maker: string;
+    model: string;
+    frame: string;
+    mounting: string;
+    ratingAmps: number | null;
+    poles: number | null;
+    voltageRating: number | null;
+    interruptingKa: number | null;
+    serial: string;
+    year: number | null;
+    meterRange: string;
+    lampWatts: number | null;
+    heritage: Heritage;
+    tagNumber: string | null;
+    custody: Custody;
+    custodyLocation: string;
+    disposition: Disposition | null;
+    dispositionReason: string;
+    dispositionRecommended: Disposition | null;
+    dispositionOverridden: boolean;
+    decidedByName: string | null;
+    dispositionAt: Date | null;
+    notes: string;
   };
   latest: null | {
-    inspectedAt: Date; inspectorName: string | null; percentRusted: number | null; astmGrade: number | null; isoRi: string | null;
-    belowWaterLine: boolean | null; contaminants: string[]; mechanism: string | null; insulation: string | null; notes: string;
+    inspectedAt: Date;
+    inspectorName: string | null;
+    percentRusted: number | null;
+    astmGrade: number | null;
+    isoRi: string | null;
+    belowWaterLine: boolean | null;
+    contaminants: string[];
+    mechanism: string | null;
+    insulation: string | null;
+    notes: string;
   };
   photos: ReportPhoto[];
   insulation: InsulationReading[];
@@ -45,13 +88,33 @@ export interface ReportPosition {
 }
 
 export interface ReportDefect {
-  ref: number; title: string; designation: string | null; category: string; severity: DefectSeverity; status: DefectStatus;
-  safetyCritical: boolean; blocksEnergisation: boolean; assigneeName: string | null; dueOn: string | null; priorityScore: number;
+  ref: number;
+  title: string;
+  designation: string | null;
+  category: string;
+  severity: DefectSeverity;
+  status: DefectStatus;
+  safetyCritical: boolean;
+  blocksEnergisation: boolean;
+  assigneeName: string | null;
+  dueOn: string | null;
+  priorityScore: number;
 }
 
 export interface ReportBoard {
-  id: string; name: string; location: string; nominalVolts: number; phases: number; frequencyHz: number; earthing: string; yearBuilt: number | null;
-  faceHeightMm: number | null; waterLineMm: number | null; gridRows: number; gridCols: number; drawingRef: string;
+  id: string;
+  name: string;
+  location: string;
+  nominalVolts: number;
+  phases: number;
+  frequencyHz: number;
+  earthing: string;
+  yearBuilt: number | null;
+  faceHeightMm: number | null;
+  waterLineMm: number | null;
+  gridRows: number;
+  gridCols: number;
+  drawingRef: string;
   sections: Array<{ id: string; name: string }>;
   positions: ReportPosition[];
   /** Insulation readings by series (a component or a circuit, and the conductors tested). */
@@ -65,7 +128,13 @@ export interface ReportBoard {
 export interface ReportData {
   site: { id: string; name: string; kind: string; location: string; description: string };
   boards: ReportBoard[];
-  flood: null | { occurredOn: string; waterType: string; maxDepthM: number | null; hoursSubmerged: number | null; notes: string };
+  flood: null | {
+    occurredOn: string;
+    waterType: string;
+    maxDepthM: number | null;
+    hoursSubmerged: number | null;
+    notes: string;
+  };
   criteria: Criteria;
   surveyors: Array<{ name: string; inspections: number }>;
   inspectedFrom: Date | null;
@@ -91,17 +160,35 @@ const inRange = (d: Date | string, q: SurveyReportQuery) => {
 };
 
 /** Loads the report's data for one board or the whole site. Throws 404 for a board not on the site. */
-export async function loadSurveyData(db: Db, siteId: string, q: SurveyReportQuery, viewer: { id: string; name: string }): Promise<ReportData> {
-  const site = await db.selectFrom("sites").select(["id", "name", "kind", "location", "description"]).where("id", "=", siteId).executeTakeFirstOrThrow();
+export async function loadSurveyData(
+  db: Db,
+  siteId: string,
+  q: SurveyReportQuery,
+  viewer: { id: string; name: string },
+): Promise<ReportData> {
+  const site = await db
+    .selectFrom("sites")
+    .select(["id", "name", "kind", "location", "description"])
+    .where("id", "=", siteId)
+    .executeTakeFirstOrThrow();
   let bq = db.selectFrom("boards").selectAll().where("siteId", "=", siteId).orderBy("name");
   if (q.boardId) bq = bq.where("id", "=", q.boardId);
   const boardRows = await bq.execute();
   if (q.boardId && boardRows.length === 0) throw notFound("That board");
 
   const [flood, criteria, parts] = await Promise.all([
-    db.selectFrom("floodEvents").selectAll().where("siteId", "=", siteId).orderBy("occurredOn", "desc").orderBy("createdAt", "desc").limit(1).executeTakeFirst(),
+    db
+      .selectFrom("floodEvents")
+      .selectAll()
+      .where("siteId", "=", siteId)
+      .orderBy("occurredOn", "desc")
+      .orderBy("createdAt", "desc")
+      .limit(1)
+      .executeTakeFirst(),
     readings.loadCriteria(db, siteId),
-    q.sections && !q.sections.includes("parts") && !q.sections.includes("summary") ? Promise.resolve([] as PartLine[]) : openParts(db, siteId, q.boardId),
+    q.sections && !q.sections.includes("parts") && !q.sections.includes("summary")
+      ? Promise.resolve([] as PartLine[])
+      : openParts(db, siteId, q.boardId),
   ]);
 
   const boards: ReportBoard[] = [];
@@ -117,7 +204,12 @@ export async function loadSurveyData(db: Db, siteId: string, q: SurveyReportQuer
         .selectFrom("inspections as i")
         .innerJoin("positions as p", "p.id", "i.positionId")
         .leftJoin("users as u", "u.id", "i.inspectorId")
-        .select([sql<string>`coalesce(u.name, 'Unknown')`.as("name"), sql<number>`count(*)::int`.as("n"), sql<Date>`min(i.inspected_at)`.as("first"), sql<Date>`max(i.inspected_at)`.as("last")])
+        .select([
+          sql<string>`coalesce(u.name, 'Unknown')`.as("name"),
+          sql<number>`count(*)::int`.as("n"),
+          sql<Date>`min(i.inspected_at)`.as("first"),
+          sql<Date>`max(i.inspected_at)`.as("last"),
+        ])
         .where("p.boardId", "in", boardIds)
         .$if(!!q.from, (w) => w.where(sql`i.inspected_at::date`, ">=", q.from!))
         .$if(!!q.to, (w) => w.where(sql`i.inspected_at::date`, "<=", q.to!))
@@ -131,7 +223,15 @@ export async function loadSurveyData(db: Db, siteId: string, q: SurveyReportQuer
   return {
     site,
     boards,
-    flood: flood ? { occurredOn: flood.occurredOn, waterType: flood.waterType, maxDepthM: flood.maxDepthM, hoursSubmerged: flood.hoursSubmerged, notes: flood.notes } : null,
+    flood: flood
+      ? {
+          occurredOn: flood.occurredOn,
+          waterType: flood.waterType,
+          maxDepthM: flood.maxDepthM,
+          hoursSubmerged: flood.hoursSubmerged,
+          notes: flood.notes,
+        }
+      : null,
     criteria,
     surveyors: surveyRows.map((r) => ({ name: r.name, inspections: Number(r.n) })),
     inspectedFrom: firsts.length ? new Date(Math.min(...firsts)) : null,
@@ -154,40 +254,116 @@ type BoardRow = Awaited<ReturnType<typeof boardQuery>>[number];
 const boardQuery = (db: Db) => db.selectFrom("boards").selectAll().execute();
 
 async function loadBoard(db: Db, siteId: string, b: BoardRow, q: SurveyReportQuery): Promise<ReportBoard> {
-  const [sections, positions, components, latest, photos, insulation, contacts, thermal, groundChecks, defects] = await Promise.all([
-    db.selectFrom("sections").select(["id", "name", "sortOrder"]).where("boardId", "=", b.id).orderBy("sortOrder").orderBy("name").execute(),
-    db.selectFrom("positions").select(["id", "designation", "kind", "circuit", "sectionId", "gridRow", "gridCol", "rowSpan", "colSpan", "sortOrder"])
-      .where("boardId", "=", b.id).orderBy("sortOrder").orderBy("gridRow").orderBy("gridCol").execute(),
-    db.selectFrom("components as c").innerJoin("positions as p", "p.id", "c.positionId").leftJoin("users as u", "u.id", "c.dispositionBy")
-      .selectAll("c").select("u.name as decidedByName")
-      .where("p.boardId", "=", b.id).where("c.retiredAt", "is", null).execute(),
-    // The newest inspection of each position's component inside the date range (DISTINCT ON).
-    db.selectFrom("inspections as i").innerJoin("positions as p", "p.id", "i.positionId").leftJoin("users as u", "u.id", "i.inspectorId")
-      .innerJoin("components as c", (j) => j.onRef("c.id", "=", "i.componentId").on("c.retiredAt", "is", null))
-      .select(["i.positionId", "i.inspectedAt", "u.name as inspectorName", "i.percentRusted", "i.astmGrade", "i.isoRi", "i.belowWaterLine", "i.contaminants", "i.mechanism", "i.insulation", "i.notes"])
-      .distinctOn("i.positionId")
-      .where("p.boardId", "=", b.id)
-      .$if(!!q.from, (w) => w.where(sql`i.inspected_at::date`, ">=", q.from!))
-      .$if(!!q.to, (w) => w.where(sql`i.inspected_at::date`, "<=", q.to!))
-      .orderBy("i.positionId").orderBy("i.inspectedAt", "desc").orderBy("i.createdAt", "desc")
-      .execute(),
-    q.photos === "yes"
-      ? db.selectFrom("photos as ph").innerJoin("positions as p", "p.id", "ph.positionId")
-          .select(["ph.id", "ph.positionId", "ph.kind", "ph.displayKey", "ph.caption", sql<Date>`coalesce(ph.captured_at, ph.created_at)`.as("takenAt")])
-          .where("p.boardId", "=", b.id).where("ph.deletedAt", "is", null).where("ph.kind", "in", REPORT_PHOTO_KINDS)
-          .orderBy(sql`coalesce(ph.captured_at, ph.created_at)`, "desc")
-          .execute()
-      : Promise.resolve([]),
-    readings.listInsulation(db, siteId, { boardId: b.id, limit: ALL }),
-    readings.listContacts(db, siteId, { boardId: b.id, limit: ALL }),
-    readings.listThermal(db, siteId, { boardId: b.id, limit: ALL }),
-    readings.listGroundChecks(db, siteId, { boardId: b.id, limit: ALL }),
-    db.selectFrom("defects as d").leftJoin("positions as p", "p.id", "d.positionId").leftJoin("users as u", "u.id", "d.assigneeId")
-      .select(["d.ref", "d.title", "p.designation", "d.category", "d.severity", "d.status", "d.safetyCritical", "d.blocksEnergisation", "u.name as assigneeName", "d.dueOn", "d.priorityScore"])
-      .where("d.siteId", "=", siteId).where("d.boardId", "=", b.id)
-      .orderBy(sql`case when d.status in (${sql.join(FINISHED.map((x) => sql.lit(x)))}) then 1 else 0 end`).orderBy("d.priorityScore", "desc").orderBy("d.ref")
-      .execute(),
-  ]);
+  const [sections, positions, components, latest, photos, insulation, contacts, thermal, groundChecks, defects] =
+    await Promise.all([
+      db
+        .selectFrom("sections")
+        .select(["id", "name", "sortOrder"])
+        .where("boardId", "=", b.id)
+        .orderBy("sortOrder")
+        .orderBy("name")
+        .execute(),
+      db
+        .selectFrom("positions")
+        .select([
+          "id",
+          "designation",
+          "kind",
+          "circuit",
+          "sectionId",
+          "gridRow",
+          "gridCol",
+          "rowSpan",
+          "colSpan",
+          "sortOrder",
+        ])
+        .where("boardId", "=", b.id)
+        .orderBy("sortOrder")
+        .orderBy("gridRow")
+        .orderBy("gridCol")
+        .execute(),
+      db
+        .selectFrom("components as c")
+        .innerJoin("positions as p", "p.id", "c.positionId")
+        .leftJoin("users as u", "u.id", "c.dispositionBy")
+        .selectAll("c")
+        .select("u.name as decidedByName")
+        .where("p.boardId", "=", b.id)
+        .where("c.retiredAt", "is", null)
+        .execute(),
+      // The newest inspection of each position's component inside the date range (DISTINCT ON).
+      db
+        .selectFrom("inspections as i")
+        .innerJoin("positions as p", "p.id", "i.positionId")
+        .leftJoin("users as u", "u.id", "i.inspectorId")
+        .innerJoin("components as c", (j) => j.onRef("c.id", "=", "i.componentId").on("c.retiredAt", "is", null))
+        .select([
+          "i.positionId",
+          "i.inspectedAt",
+          "u.name as inspectorName",
+          "i.percentRusted",
+          "i.astmGrade",
+          "i.isoRi",
+          "i.belowWaterLine",
+          "i.contaminants",
+          "i.mechanism",
+          "i.insulation",
+          "i.notes",
+        ])
+        .distinctOn("i.positionId")
+        .where("p.boardId", "=", b.id)
+        .$if(!!q.from, (w) => w.where(sql`i.inspected_at::date`, ">=", q.from!))
+        .$if(!!q.to, (w) => w.where(sql`i.inspected_at::date`, "<=", q.to!))
+        .orderBy("i.positionId")
+        .orderBy("i.inspectedAt", "desc")
+        .orderBy("i.createdAt", "desc")
+        .execute(),
+      q.photos === "yes"
+        ? db
+            .selectFrom("photos as ph")
+            .innerJoin("positions as p", "p.id", "ph.positionId")
+            .select([
+              "ph.id",
+              "ph.positionId",
+              "ph.kind",
+              "ph.displayKey",
+              "ph.caption",
+              sql<Date>`coalesce(ph.captured_at, ph.created_at)`.as("takenAt"),
+            ])
+            .where("p.boardId", "=", b.id)
+            .where("ph.deletedAt", "is", null)
+            .where("ph.kind", "in", REPORT_PHOTO_KINDS)
+            .orderBy(sql`coalesce(ph.captured_at, ph.created_at)`, "desc")
+            .execute()
+        : Promise.resolve([]),
+      readings.listInsulation(db, siteId, { boardId: b.id, limit: ALL }),
+      readings.listContacts(db, siteId, { boardId: b.id, limit: ALL }),
+      readings.listThermal(db, siteId, { boardId: b.id, limit: ALL }),
+      readings.listGroundChecks(db, siteId, { boardId: b.id, limit: ALL }),
+      db
+        .selectFrom("defects as d")
+        .leftJoin("positions as p", "p.id", "d.positionId")
+        .leftJoin("users as u", "u.id", "d.assigneeId")
+        .select([
+          "d.ref",
+          "d.title",
+          "p.designation",
+          "d.category",
+          "d.severity",
+          "d.status",
+          "d.safetyCritical",
+          "d.blocksEnergisation",
+          "u.name as assigneeName",
+          "d.dueOn",
+          "d.priorityScore",
+        ])
+        .where("d.siteId", "=", siteId)
+        .where("d.boardId", "=", b.id)
+        .orderBy(sql`case when d.status in (${sql.join(FINISHED.map((x) => sql.lit(x)))}) then 1 else 0 end`)
+        .orderBy("d.priorityScore", "desc")
+        .orderBy("d.ref")
+        .execute(),
+    ]);
 
   const compByPos = new Map(components.map((c) => [c.positionId, c]));
   const latestByPos = new Map(latest.map((l) => [l.positionId, l]));
@@ -196,7 +372,8 @@ async function loadBoard(db: Db, siteId: string, b: BoardRow, q: SurveyReportQue
     const takenAt = new Date(ph.takenAt);
     if (!inRange(takenAt, q) || !ph.positionId) continue;
     const list = photosByPos.get(ph.positionId) ?? [];
-    if (list.filter((x) => x.kind === ph.kind).length < PHOTOS_PER_KIND) list.push({ id: ph.id, kind: ph.kind, displayKey: ph.displayKey, caption: ph.caption, takenAt });
+    if (list.filter((x) => x.kind === ph.kind).length < PHOTOS_PER_KIND)
+      list.push({ id: ph.id, kind: ph.kind, displayKey: ph.displayKey, caption: ph.caption, takenAt });
     photosByPos.set(ph.positionId, list);
   }
   const ins = insulation.filter((r) => inRange(r.measuredAt, q));
@@ -207,33 +384,78 @@ async function loadBoard(db: Db, siteId: string, b: BoardRow, q: SurveyReportQue
     for (const r of rows) if (r.componentId) m.set(r.componentId, [...(m.get(r.componentId) ?? []), r]);
     return m;
   };
-  const insBy = byComponent(ins), conBy = byComponent(con), thmBy = byComponent(thm);
+  const insBy = byComponent(ins),
+    conBy = byComponent(con),
+    thmBy = byComponent(thm);
 
   // Positions in the order of the board's sections, then their own order.
   const sectionOrder = new Map(sections.map((s, i) => [s.id, i]));
-  const ordered = [...positions].sort((x, y) => (sectionOrder.get(x.sectionId ?? "") ?? 1e6) - (sectionOrder.get(y.sectionId ?? "") ?? 1e6) || x.sortOrder - y.sortOrder);
+  const ordered = [...positions].sort(
+    (x, y) =>
+      (sectionOrder.get(x.sectionId ?? "") ?? 1e6) - (sectionOrder.get(y.sectionId ?? "") ?? 1e6) ||
+      x.sortOrder - y.sortOrder,
+  );
 
   const reportPositions: ReportPosition[] = ordered.map((p) => {
     const c = compByPos.get(p.id);
     const l = latestByPos.get(p.id);
     return {
-      id: p.id, designation: p.designation, kind: p.kind, circuit: p.circuit, sectionId: p.sectionId, gridRow: p.gridRow, gridCol: p.gridCol, rowSpan: p.rowSpan, colSpan: p.colSpan,
+      id: p.id,
+      designation: p.designation,
+      kind: p.kind,
+      circuit: p.circuit,
+      sectionId: p.sectionId,
+      gridRow: p.gridRow,
+      gridCol: p.gridCol,
+      rowSpan: p.rowSpan,
+      colSpan: p.colSpan,
       component: c
         ? {
-            id: c.id, kind: c.kind, maker: c.maker, model: c.model, frame: c.frame, mounting: c.mounting, ratingAmps: num(c.ratingAmps), poles: num(c.poles),
-            voltageRating: num(c.voltageRating), interruptingKa: num(c.interruptingKa), serial: c.serial, year: num(c.year), meterRange: c.meterRange, lampWatts: num(c.lampWatts),
-            heritage: c.heritage, tagNumber: c.tagNumber, custody: c.custody, custodyLocation: c.custodyLocation, disposition: c.disposition, dispositionReason: c.dispositionReason,
-            dispositionRecommended: c.dispositionRecommended, dispositionOverridden: c.dispositionOverridden, decidedByName: c.decidedByName, dispositionAt: c.dispositionAt, notes: c.notes,
+            id: c.id,
+            kind: c.kind,
+            maker: c.maker,
+            model: c.model,
+            frame: c.frame,
+            mounting: c.mounting,
+            ratingAmps: num(c.ratingAmps),
+            poles: num(c.poles),
+            voltageRating: num(c.voltageRating),
+            interruptingKa: num(c.interruptingKa),
+            serial: c.serial,
+            year: num(c.year),
+            meterRange: c.meterRange,
+            lampWatts: num(c.lampWatts),
+            heritage: c.heritage,
+            tagNumber: c.tagNumber,
+            custody: c.custody,
+            custodyLocation: c.custodyLocation,
+            disposition: c.disposition,
+            dispositionReason: c.dispositionReason,
+            dispositionRecommended: c.dispositionRecommended,
+            dispositionOverridden: c.dispositionOverridden,
+            decidedByName: c.decidedByName,
+            dispositionAt: c.dispositionAt,
+            notes: c.notes,
           }
         : null,
       latest: l
-        ? { inspectedAt: l.inspectedAt, inspectorName: l.inspectorName, percentRusted: num(l.percentRusted), astmGrade: num(l.astmGrade), isoRi: l.isoRi, belowWaterLine: l.belowWaterLine,
-            contaminants: l.contaminants ?? [], mechanism: l.mechanism, insulation: l.insulation, notes: l.notes }
+        ? {
+            inspectedAt: l.inspectedAt,
+            inspectorName: l.inspectorName,
+            percentRusted: num(l.percentRusted),
+            astmGrade: num(l.astmGrade),
+            isoRi: l.isoRi,
+            belowWaterLine: l.belowWaterLine,
+            contaminants: l.contaminants ?? [],
+            mechanism: l.mechanism,
+            insulation: l.insulation,
+            notes: l.notes,
+          }
         : null,
       photos: photosByPos.get(p.id) ?? [],
-      insulation: c ? insBy.get(c.id) ?? [] : [],
-      contacts: c ? conBy.get(c.id) ?? [] : [],
-      thermal: c ? thmBy.get(c.id) ?? [] : [],
+      insulation: c ? (insBy.get(c.id) ?? []) : [],
+      contacts: c ? (conBy.get(c.id) ?? []) : [],
+      thermal: c ? (thmBy.get(c.id) ?? []) : [],
     };
   });
 
@@ -248,8 +470,19 @@ async function loadBoard(db: Db, siteId: string, b: BoardRow, q: SurveyReportQue
   }
 
   return {
-    id: b.id, name: b.name, location: b.location, nominalVolts: Number(b.nominalVolts), phases: b.phases, frequencyHz: Number(b.frequencyHz), earthing: b.earthing,
-    yearBuilt: num(b.yearBuilt), faceHeightMm: num(b.faceHeightMm), waterLineMm: num(b.waterLineMm), gridRows: b.gridRows, gridCols: b.gridCols, drawingRef: b.drawingRef,
+    id: b.id,
+    name: b.name,
+    location: b.location,
+    nominalVolts: Number(b.nominalVolts),
+    phases: b.phases,
+    frequencyHz: Number(b.frequencyHz),
+    earthing: b.earthing,
+    yearBuilt: num(b.yearBuilt),
+    faceHeightMm: num(b.faceHeightMm),
+    waterLineMm: num(b.waterLineMm),
+    gridRows: b.gridRows,
+    gridCols: b.gridCols,
+    drawingRef: b.drawingRef,
     sections: sections.map((s) => ({ id: s.id, name: s.name })),
     positions: reportPositions,
     insulationSeries: [...series.values()].sort((x, y) => x.label.localeCompare(y.label, undefined, { numeric: true })),

@@ -36,18 +36,30 @@ export async function onReadingRecorded(trx: Db, siteId: string, actorId: string
   if (!c) return [];
   const stages = (await repo.listStages(trx, r.boardId)).filter((s) => s.status === "energised");
   if (!stages.length) return [];
-  const [items, positions] = await Promise.all([repo.listItems(trx, stages.map((s) => s.id)), repo.listPositions(trx, r.boardId)]);
+  const [items, positions] = await Promise.all([
+    repo.listItems(
+      trx,
+      stages.map((s) => s.id),
+    ),
+    repo.listPositions(trx, r.boardId),
+  ]);
   const out = [];
   for (const s of stages) {
     if (!stagePositionIds(s.id, items, positions).includes(c.positionId)) continue;
     const locked = (await repo.lockStage(trx, ctx.siteId, s.id))!;
     if (locked.status !== "energised") continue;
-    const summary = r.kind === "thermal_scan"
-      ? `Thermal level ${r.level} on ${c.designation} while “${s.name}” is live`
-      : `Insulation below the minimum on ${c.designation} while “${s.name}” is live`;
+    const summary =
+      r.kind === "thermal_scan"
+        ? `Thermal level ${r.level} on ${c.designation} while “${s.name}” is live`
+        : `Insulation below the minimum on ${c.designation} while “${s.name}” is live`;
     const { incident, defect } = await openIncident(trx, ctx, locked, {
-      kind: r.kind === "thermal_scan" ? "hot_spot" : "low_insulation", positionId: c.positionId, at: r.measuredAt,
-      summary, note: r.words, readingKind: r.kind, readingId: r.id,
+      kind: r.kind === "thermal_scan" ? "hot_spot" : "low_insulation",
+      positionId: c.positionId,
+      at: r.measuredAt,
+      summary,
+      note: r.words,
+      readingKind: r.kind,
+      readingId: r.id,
     });
     out.push({ incidentId: incident.id, defectId: defect.id, defectRef: defect.ref });
   }

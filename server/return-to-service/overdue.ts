@@ -26,7 +26,15 @@ export async function sendOverdueWatchNotices(deps: MailDeps, now: Date): Promis
     out.checked++;
     if (!s.energisedAt) continue;
     const checks = (await repo.checkTimes(deps.db, s.id, s.attempt)).map((d) => d.toISOString());
-    const w = watchSchedule({ energisedAt: s.energisedAt.toISOString(), watchHours: s.watchHours, checkEveryHours: s.checkEveryHours, checks }, now.getTime());
+    const w = watchSchedule(
+      {
+        energisedAt: s.energisedAt.toISOString(),
+        watchHours: s.watchHours,
+        checkEveryHours: s.checkEveryHours,
+        checks,
+      },
+      now.getTime(),
+    );
     if (!w.overdueSince) continue;
     out.overdue++;
     const dueAt = new Date(w.overdueSince);

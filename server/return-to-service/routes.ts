@@ -3,8 +3,22 @@ import { z } from "zod";
 import { rolesFor, type RtsAction } from "../../src/domain/return-to-service";
 import type { Role } from "../../src/domain/vocab";
 import {
-  budgetBody, createStageBody, deEnergiseBody, incidentBody, moveBody, operationBody, patchStageBody, patchStepBody, qualifiedBody,
-  restartBody, settingsBody, signBody, stepBody, supersedeBody, watchCheckBody, type RtsOverviewBoard,
+  budgetBody,
+  createStageBody,
+  deEnergiseBody,
+  incidentBody,
+  moveBody,
+  operationBody,
+  patchStageBody,
+  patchStepBody,
+  qualifiedBody,
+  restartBody,
+  settingsBody,
+  signBody,
+  stepBody,
+  supersedeBody,
+  watchCheckBody,
+  type RtsOverviewBoard,
 } from "../../src/schemas/return-to-service";
 import type { Db } from "../db";
 import { AppError } from "../errors";
@@ -52,22 +66,38 @@ export function rtsRoutes(db: Db) {
       const v = await boardView(db, siteId, b.id, now);
       const current = v.stages.find((s) => s.status !== "released") ?? null;
       boards.push({
-        boardId: b.id, boardName: b.name, stages: v.stages.length, released: v.stages.filter((s) => s.status === "released").length,
-        current: current && { id: current.id, name: current.name, state: current.gate.state, blockers: current.gate.blockers.length },
+        boardId: b.id,
+        boardName: b.name,
+        stages: v.stages.length,
+        released: v.stages.filter((s) => s.status === "released").length,
+        current: current && {
+          id: current.id,
+          name: current.name,
+          state: current.gate.state,
+          blockers: current.gate.blockers.length,
+        },
         overdue: v.stages.some((s) => !!s.watch?.overdueSince),
       });
     }
     res.json({ boards });
   });
 
-  r.get(`${base}/settings`, may("read"), async (req, res) => res.json({ settings: await loadSettings(db, site.parse(req.params).siteId) }));
-  r.put(`${base}/settings`, may("plan"), async (req, res) => res.json({ settings: await service.saveSettings(db, ctxOf(req, res), settingsBody.parse(req.body)) }));
+  r.get(`${base}/settings`, may("read"), async (req, res) =>
+    res.json({ settings: await loadSettings(db, site.parse(req.params).siteId) }),
+  );
+  r.put(`${base}/settings`, may("plan"), async (req, res) =>
+    res.json({ settings: await service.saveSettings(db, ctxOf(req, res), settingsBody.parse(req.body)) }),
+  );
 
   // Qualified persons (the crew page): every member reads, the curator edits.
-  r.get(`${base}/qualified-persons`, may("read"), async (req, res) => res.json({ people: await service.qualifiedCrew(db, site.parse(req.params).siteId, today()) }));
+  r.get(`${base}/qualified-persons`, may("read"), async (req, res) =>
+    res.json({ people: await service.qualifiedCrew(db, site.parse(req.params).siteId, today()) }),
+  );
   r.put(`${base}/qualified-persons/:userId`, may("manage_qualified"), async (req, res) => {
     const { userId } = userP.parse(req.params);
-    res.json({ person: await service.saveQualified(db, ctxOf(req, res), userId, qualifiedBody.parse(req.body), today()) });
+    res.json({
+      person: await service.saveQualified(db, ctxOf(req, res), userId, qualifiedBody.parse(req.body), today()),
+    });
   });
   r.delete(`${base}/qualified-persons/:userId`, may("manage_qualified"), async (req, res) => {
     await service.removeQualified(db, ctxOf(req, res), userP.parse(req.params).userId);
@@ -97,17 +127,40 @@ export function rtsRoutes(db: Db) {
     res.status(204).end();
   });
   r.post(`${stage}/move`, may("plan"), async (req, res) => {
-    res.json({ order: await service.moveStage(db, ctxOf(req, res), stageP.parse(req.params).stageId, moveBody.parse(req.body).toIndex) });
+    res.json({
+      order: await service.moveStage(
+        db,
+        ctxOf(req, res),
+        stageP.parse(req.params).stageId,
+        moveBody.parse(req.body).toIndex,
+      ),
+    });
   });
   r.post(`${stage}/steps`, may("plan"), async (req, res) => {
     await service.addStep(db, ctxOf(req, res), stageP.parse(req.params).stageId, stepBody.parse(req.body));
     await stageAnswer(req, res, 201);
   });
   r.post(`${stage}/watch-checks`, may("record_watch"), async (req, res) => {
-    res.status(201).json(await service.recordWatchCheck(db, ctxOf(req, res), stageP.parse(req.params).stageId, watchCheckBody.parse(req.body)));
+    res
+      .status(201)
+      .json(
+        await service.recordWatchCheck(
+          db,
+          ctxOf(req, res),
+          stageP.parse(req.params).stageId,
+          watchCheckBody.parse(req.body),
+        ),
+      );
   });
   r.post(`${stage}/incidents`, may("record_incident"), async (req, res) => {
-    res.status(201).json({ incident: await service.recordIncident(db, ctxOf(req, res), stageP.parse(req.params).stageId, incidentBody.parse(req.body)) });
+    res.status(201).json({
+      incident: await service.recordIncident(
+        db,
+        ctxOf(req, res),
+        stageP.parse(req.params).stageId,
+        incidentBody.parse(req.body),
+      ),
+    });
   });
   r.post(`${stage}/de-energise`, may("de_energise"), async (req, res) => {
     await service.deEnergise(db, ctxOf(req, res), stageP.parse(req.params).stageId, deEnergiseBody.parse(req.body));
@@ -119,34 +172,78 @@ export function rtsRoutes(db: Db) {
   });
 
   const step = `${base}/steps/:stepId`;
-  r.patch(step, may("plan"), async (req, res) => res.json({ step: await service.patchStep(db, ctxOf(req, res), stepP.parse(req.params).stepId, patchStepBody.parse(req.body)) }));
+  r.patch(step, may("plan"), async (req, res) =>
+    res.json({
+      step: await service.patchStep(db, ctxOf(req, res), stepP.parse(req.params).stepId, patchStepBody.parse(req.body)),
+    }),
+  );
   r.delete(step, may("plan"), async (req, res) => {
     await service.deleteStep(db, ctxOf(req, res), stepP.parse(req.params).stepId);
     res.status(204).end();
   });
-  r.post(`${step}/move`, may("plan"), async (req, res) => res.json({ order: await service.moveStep(db, ctxOf(req, res), stepP.parse(req.params).stepId, moveBody.parse(req.body).toIndex) }));
+  r.post(`${step}/move`, may("plan"), async (req, res) =>
+    res.json({
+      order: await service.moveStep(
+        db,
+        ctxOf(req, res),
+        stepP.parse(req.params).stepId,
+        moveBody.parse(req.body).toIndex,
+      ),
+    }),
+  );
   r.post(`${step}/signoffs`, may("sign"), async (req, res) => {
-    res.status(201).json({ stage: await service.sign(db, ctxOf(req, res), stepP.parse(req.params).stepId, signBody.parse(req.body)) });
+    res.status(201).json({
+      stage: await service.sign(db, ctxOf(req, res), stepP.parse(req.params).stepId, signBody.parse(req.body)),
+    });
   });
 
   // Signatures are never edited nor deleted: a correction is a new entry that supersedes.
   const signoff = `${base}/signoffs/:signoffId`;
   r.post(`${signoff}/supersede`, may("sign"), async (req, res) => {
-    res.status(201).json({ stage: await service.supersede(db, ctxOf(req, res), signoffP.parse(req.params).signoffId, supersedeBody.parse(req.body)) });
+    res.status(201).json({
+      stage: await service.supersede(
+        db,
+        ctxOf(req, res),
+        signoffP.parse(req.params).signoffId,
+        supersedeBody.parse(req.body),
+      ),
+    });
   });
   r.all(signoff, may("read"), (req, res) => {
     signoffP.parse(req.params);
-    if (req.method === "GET" || req.method === "HEAD") throw new AppError(404, "not_found", "Signatures are read with their stage.");
+    if (req.method === "GET" || req.method === "HEAD")
+      throw new AppError(404, "not_found", "Signatures are read with their stage.");
     res.setHeader("Allow", "GET");
-    res.status(405).json({ error: { code: "immutable", message: "A signature cannot be changed or deleted. Correct it with a new entry that supersedes it." } });
+    res.status(405).json({
+      error: {
+        code: "immutable",
+        message: "A signature cannot be changed or deleted. Correct it with a new entry that supersedes it.",
+      },
+    });
   });
 
   // Breaker operations and budgets.
   r.post("/sites/:siteId/components/:componentId/breaker-operations", may("record_operation"), async (req, res) => {
-    res.status(201).json(await service.recordOperation(db, ctxOf(req, res), componentP.parse(req.params).componentId, operationBody.parse(req.body)));
+    res
+      .status(201)
+      .json(
+        await service.recordOperation(
+          db,
+          ctxOf(req, res),
+          componentP.parse(req.params).componentId,
+          operationBody.parse(req.body),
+        ),
+      );
   });
   r.put("/sites/:siteId/components/:componentId/operations-budget", may("set_budget"), async (req, res) => {
-    res.json({ budget: await service.setBudget(db, ctxOf(req, res), componentP.parse(req.params).componentId, budgetBody.parse(req.body)) });
+    res.json({
+      budget: await service.setBudget(
+        db,
+        ctxOf(req, res),
+        componentP.parse(req.params).componentId,
+        budgetBody.parse(req.body),
+      ),
+    });
   });
   return r;
 }

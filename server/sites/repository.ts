@@ -17,8 +17,10 @@ export const listAllSites = (db: Db) => db.selectFrom("sites").select(siteCols).
 export const findSite = (db: Db, siteId: string) =>
   db.selectFrom("sites").select(siteCols).where("id", "=", siteId).executeTakeFirst();
 
-export const insertSite = (db: Db, s: { name: string; kind: "vessel" | "building" | "plant"; location: string; description: string }) =>
-  db.insertInto("sites").values(s).returning(siteCols).executeTakeFirstOrThrow();
+export const insertSite = (
+  db: Db,
+  s: { name: string; kind: "vessel" | "building" | "plant"; location: string; description: string },
+) => db.insertInto("sites").values(s).returning(siteCols).executeTakeFirstOrThrow();
 
 export const listMembers = (db: Db, siteId: string) =>
   db
@@ -36,7 +38,12 @@ export const updateMembershipRole = (db: Db, siteId: string, userId: string, rol
   db.updateTable("memberships").set({ role }).where("siteId", "=", siteId).where("userId", "=", userId).execute();
 
 export const findMembership = (db: Db, siteId: string, userId: string) =>
-  db.selectFrom("memberships").select(["role"]).where("siteId", "=", siteId).where("userId", "=", userId).executeTakeFirst();
+  db
+    .selectFrom("memberships")
+    .select(["role"])
+    .where("siteId", "=", siteId)
+    .where("userId", "=", userId)
+    .executeTakeFirst();
 
 /**
  * Locks the site's row for the rest of the transaction: every change of the site's crew

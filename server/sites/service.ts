@@ -23,7 +23,14 @@ async function lockedMember(trx: Db, siteId: string, userId: string) {
 export async function joinByInvitation(trx: Db, siteId: string, userId: string, role: Role, invitationId: string) {
   if (await lockedMember(trx, siteId, userId)) return false;
   await repo.insertMembership(trx, siteId, userId, role);
-  await recordAudit(trx, { siteId, entityType: "membership", entityId: userId, action: "add", actorId: userId, after: { role, invitationId } });
+  await recordAudit(trx, {
+    siteId,
+    entityType: "membership",
+    entityId: userId,
+    action: "add",
+    actorId: userId,
+    after: { role, invitationId },
+  });
   return true;
 }
 
@@ -34,7 +41,15 @@ export async function changeRole(db: Db, siteId: string, userId: string, role: R
     if (m.role === role) return;
     if (m.role === "curator" && (await repo.countCurators(trx, siteId)) <= 1) throw lastCurator();
     await repo.updateMembershipRole(trx, siteId, userId, role);
-    await recordAudit(trx, { siteId, entityType: "membership", entityId: userId, action: "change", actorId, before: { role: m.role }, after: { role } });
+    await recordAudit(trx, {
+      siteId,
+      entityType: "membership",
+      entityId: userId,
+      action: "change",
+      actorId,
+      before: { role: m.role },
+      after: { role },
+    });
   });
 }
 
@@ -44,24 +59,54 @@ export async function removeMember(db: Db, siteId: string, userId: string, actor
     if (!m) throw notFound("That member");
     if (m.role === "curator" && (await repo.countCurators(trx, siteId)) <= 1) throw lastCurator();
     await repo.deleteMembership(trx, siteId, userId);
-    await recordAudit(trx, { siteId, entityType: "membership", entityId: userId, action: "remove", actorId, before: { role: m.role } });
+    await recordAudit(trx, {
+      siteId,
+      entityType: "membership",
+      entityId: userId,
+      action: "remove",
+      actorId,
+      before: { role: m.role },
+    });
   });
 }
 
-export async function createSite(db: Db, s: { name: string; kind: "vessel" | "building" | "plant"; location: string; description: string }, actorId: string) {
+export async function createSite(
+  db: Db,
+  s: { name: string; kind: "vessel" | "building" | "plant"; location: string; description: string },
+  actorId: string,
+) {
   return db.transaction().execute(async (trx) => {
     const site = await repo.insertSite(trx, s);
-    await recordAudit(trx, { siteId: site.id, entityType: "site", entityId: site.id, action: "create", actorId, after: s });
+    await recordAudit(trx, {
+      siteId: site.id,
+      entityType: "site",
+      entityId: site.id,
+      action: "create",
+      actorId,
+      after: s,
+    });
     return site;
   });
 }
 
-export async function createUser(db: Db, u: { email: string; name: string; password: string; isAdmin: boolean }, actorId: string | null) {
-  if (await findUserByEmail(db, u.email)) throw new AppError(409, "email_taken", "An account with that e-mail already exists.", { email: "Already in use" });
+export async function createUser(
+  db: Db,
+  u: { email: string; name: string; password: string; isAdmin: boolean },
+  actorId: string | null,
+) {
+  if (await findUserByEmail(db, u.email))
+    throw new AppError(409, "email_taken", "An account with that e-mail already exists.", { email: "Already in use" });
   const passwordHash = await hashPassword(u.password);
   return db.transaction().execute(async (trx) => {
     const user = await insertUser(trx, { email: u.email, name: u.name, passwordHash, isAdmin: u.isAdmin });
-    await recordAudit(trx, { siteId: null, entityType: "user", entityId: user.id, action: "create", actorId, after: { email: u.email, name: u.name, isAdmin: u.isAdmin } });
+    await recordAudit(trx, {
+      siteId: null,
+      entityType: "user",
+      entityId: user.id,
+      action: "create",
+      actorId,
+      after: { email: u.email, name: u.name, isAdmin: u.isAdmin },
+    });
     return user;
   });
 }

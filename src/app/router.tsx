@@ -14,14 +14,24 @@ const prefetch = (start: (args: LoaderFunctionArgs) => Promise<unknown>) => (arg
   return null;
 };
 const site = (args: LoaderFunctionArgs) => args.params.siteId as string;
-const prefetchSession = prefetch(() => import("../features/auth/api").then((m) => queryClient.prefetchQuery(m.sessionQueryOptions())));
-const prefetchSite = prefetch((a) => import("../features/sites/api").then((m) => queryClient.prefetchQuery(m.siteQueryOptions(site(a)))));
-const inventory = (pick: (m: typeof import("../features/inventory/api"), a: LoaderFunctionArgs) => Parameters<typeof queryClient.prefetchQuery>[0]) =>
-  prefetch((a) => import("../features/inventory/api").then((m) => queryClient.prefetchQuery(pick(m, a))));
+const prefetchSession = prefetch(() =>
+  import("../features/auth/api").then((m) => queryClient.prefetchQuery(m.sessionQueryOptions())),
+);
+const prefetchSite = prefetch((a) =>
+  import("../features/sites/api").then((m) => queryClient.prefetchQuery(m.siteQueryOptions(site(a)))),
+);
+const inventory = (
+  pick: (
+    m: typeof import("../features/inventory/api"),
+    a: LoaderFunctionArgs,
+  ) => Parameters<typeof queryClient.prefetchQuery>[0],
+) => prefetch((a) => import("../features/inventory/api").then((m) => queryClient.prefetchQuery(pick(m, a))));
 const prefetchParts = prefetch((a) =>
   Promise.all([import("../features/parts/api"), import("../schemas/parts")]).then(([m, s]) => {
     const parsed = s.listQuery.safeParse(Object.fromEntries(new URL(a.request.url).searchParams));
-    return queryClient.prefetchQuery(m.partsListQueryOptions(site(a), parsed.success ? parsed.data : { status: "open" }));
+    return queryClient.prefetchQuery(
+      m.partsListQueryOptions(site(a), parsed.success ? parsed.data : { status: "open" }),
+    );
   }),
 );
 
@@ -34,7 +44,11 @@ export const router = createBrowserRouter([
   { path: paths.safety.path, ...page(() => import("./routes/safety")), errorElement: <RouteError /> },
   { path: paths.invite.path, ...page(() => import("./routes/auth/invite")), errorElement: <RouteError /> },
   { path: paths.resetRequest.path, ...page(() => import("./routes/auth/reset-request")), errorElement: <RouteError /> },
-  { path: paths.resetPassword.path, ...page(() => import("./routes/auth/reset-password")), errorElement: <RouteError /> },
+  {
+    path: paths.resetPassword.path,
+    ...page(() => import("./routes/auth/reset-password")),
+    errorElement: <RouteError />,
+  },
   { path: paths.shareParts.path, ...page(() => import("./routes/parts/share-parts")), errorElement: <RouteError /> },
   {
     ...page(() => import("./routes/app-layout")),
@@ -53,14 +67,26 @@ export const router = createBrowserRouter([
         ...page(() => import("./routes/sites/site-layout")),
         loader: prefetchSite,
         children: [
-          { index: true, ...page(() => import("./routes/sites/site-home")), loader: inventory((m, a) => m.overviewQueryOptions(site(a)) as never) },
+          {
+            index: true,
+            ...page(() => import("./routes/sites/site-home")),
+            loader: inventory((m, a) => m.overviewQueryOptions(site(a)) as never),
+          },
           { path: "members", ...page(() => import("./routes/sites/members")) },
           { path: "photos", ...page(() => import("./routes/photos/photo-desk")) },
           { path: "photos/shoot-list", ...page(() => import("./routes/photos/shoot-list")) },
           { path: "photos/gallery", ...page(() => import("./routes/photos/gallery")) },
-          { path: "boards", ...page(() => import("./routes/boards/board-list")), loader: inventory((m, a) => m.boardsQueryOptions(site(a)) as never) },
+          {
+            path: "boards",
+            ...page(() => import("./routes/boards/board-list")),
+            loader: inventory((m, a) => m.boardsQueryOptions(site(a)) as never),
+          },
           { path: "boards/new", ...page(() => import("./routes/boards/board-new")) },
-          { path: "boards/:boardId", ...page(() => import("./routes/boards/board-elevation")), loader: inventory((m, a) => m.boardQueryOptions(site(a), a.params.boardId as string) as never) },
+          {
+            path: "boards/:boardId",
+            ...page(() => import("./routes/boards/board-elevation")),
+            loader: inventory((m, a) => m.boardQueryOptions(site(a), a.params.boardId as string) as never),
+          },
           { path: "boards/:boardId/setup", ...page(() => import("./routes/boards/board-setup")) },
           { path: "log", ...page(() => import("./routes/boards/quick-log")) },
           { path: "inventory/import", ...page(() => import("./routes/boards/inventory-import")) },
@@ -77,7 +103,10 @@ export const router = createBrowserRouter([
           { path: "return-to-service", ...page(() => import("./routes/return-to-service/overview")) },
           { path: "boards/:boardId/return-to-service", ...page(() => import("./routes/return-to-service/board-rts")) },
           { path: "boards/:boardId/watch", ...page(() => import("./routes/return-to-service/watch")) },
-          { path: "boards/:boardId/return-to-service/stages/:stageId/sheet", ...page(() => import("./routes/return-to-service/stage-sheet")) },
+          {
+            path: "boards/:boardId/return-to-service/stages/:stageId/sheet",
+            ...page(() => import("./routes/return-to-service/stage-sheet")),
+          },
           { path: "parts", ...page(() => import("./routes/parts/parts-list")), loader: prefetchParts },
           { path: "reports", ...page(() => import("./routes/reports/reports")) },
           { path: "parts/print", ...page(() => import("./routes/parts/parts-print")) },

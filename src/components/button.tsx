@@ -8,7 +8,11 @@ const TONES: Record<Tone, string> = {
 };
 
 /** At least 44 px tall: gloved fingers on a phone. */
-export function Button({ tone = "primary", className = "", ...rest }: ButtonHTMLAttributes<HTMLButtonElement> & { tone?: Tone }) {
+export function Button({
+  tone = "primary",
+  className = "",
+  ...rest
+}: ButtonHTMLAttributes<HTMLButtonElement> & { tone?: Tone }) {
   return (
     <button
       type="button"

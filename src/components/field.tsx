@@ -1,4 +1,10 @@
-import { useId, type InputHTMLAttributes, type ReactNode, type SelectHTMLAttributes, type TextareaHTMLAttributes } from "react";
+import {
+  useId,
+  type InputHTMLAttributes,
+  type ReactNode,
+  type SelectHTMLAttributes,
+  type TextareaHTMLAttributes,
+} from "react";
 
 const control =
   "mt-1 block w-full min-h-11 rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk placeholder:text-fog focus:border-brass-400 focus:outline-none aria-[invalid=true]:border-flare-400";
@@ -17,7 +23,11 @@ function Frame({ id, label, error, hint, className = "", children }: Wrap & { id
         {label}
       </label>
       {children}
-      {hint && !error && <p id={`${id}-hint`} className="mt-1 text-xs text-fog">{hint}</p>}
+      {hint && !error && (
+        <p id={`${id}-hint`} className="mt-1 text-xs text-fog">
+          {hint}
+        </p>
+      )}
       {error && (
         <p id={`${id}-error`} className="mt-1 text-sm text-flare-300" role="alert">
           {error}
@@ -27,33 +37,66 @@ function Frame({ id, label, error, hint, className = "", children }: Wrap & { id
   );
 }
 
-const describedBy = (id: string, error?: string, hint?: ReactNode) => (error ? `${id}-error` : hint ? `${id}-hint` : undefined);
+const describedBy = (id: string, error?: string, hint?: ReactNode) =>
+  error ? `${id}-error` : hint ? `${id}-hint` : undefined;
 
 export function TextField({ label, error, hint, className, ...rest }: Wrap & InputHTMLAttributes<HTMLInputElement>) {
   const id = useId();
   return (
     <Frame id={id} label={label} error={error} hint={hint} className={className}>
-      <input id={id} aria-invalid={!!error} aria-describedby={describedBy(id, error, hint)} className={control} {...rest} />
+      <input
+        id={id}
+        aria-invalid={!!error}
+        aria-describedby={describedBy(id, error, hint)}
+        className={control}
+        {...rest}
+      />
     </Frame>
   );
 }
 
-export function SelectField({ label, error, hint, className, children, ...rest }: Wrap & SelectHTMLAttributes<HTMLSelectElement>) {
+export function SelectField({
+  label,
+  error,
+  hint,
+  className,
+  children,
+  ...rest
+}: Wrap & SelectHTMLAttributes<HTMLSelectElement>) {
   const id = useId();
   return (
     <Frame id={id} label={label} error={error} hint={hint} className={className}>
-      <select id={id} aria-invalid={!!error} aria-describedby={describedBy(id, error, hint)} className={control} {...rest}>
+      <select
+        id={id}
+        aria-invalid={!!error}
+        aria-describedby={describedBy(id, error, hint)}
+        className={control}
+        {...rest}
+      >
         {children}
       </select>
     </Frame>
   );
 }
 
-export function TextArea({ label, error, hint, className, ...rest }: Wrap & TextareaHTMLAttributes<HTMLTextAreaElement>) {
+export function TextArea({
+  label,
+  error,
+  hint,
+  className,
+  ...rest
+}: Wrap & TextareaHTMLAttributes<HTMLTextAreaElement>) {
   const id = useId();
   return (
     <Frame id={id} label={label} error={error} hint={hint} className={className}>
-      <textarea id={id} aria-invalid={!!error} aria-describedby={describedBy(id, error, hint)} className={`${control} py-2`} rows={3} {...rest} />
+      <textarea
+        id={id}
+        aria-invalid={!!error}
+        aria-describedby={describedBy(id, error, hint)}
+        className={`${control} py-2`}
+        rows={3}
+        {...rest}
+      />
     </Frame>
   );
 }

@@ -9,7 +9,12 @@
 import type { ComponentKind } from "./vocab";
 
 /** Kinds whose opens and closes are counted against a budget. */
-export const OPERATED_KINDS: ReadonlySet<ComponentKind> = new Set(["molded_case_breaker", "power_breaker", "bus_tie", "switch"]);
+export const OPERATED_KINDS: ReadonlySet<ComponentKind> = new Set([
+  "molded_case_breaker",
+  "power_breaker",
+  "bus_tie",
+  "switch",
+]);
 
 /** Tideline's default budgets by age (year on the nameplate; unknown counts as old). */
 export const DEFAULT_BUDGETS = [
@@ -22,9 +27,13 @@ export const DEFAULT_BUDGETS = [
  * The default operations budget for a component, or null when its kind is not counted.
  * @param year nameplate year, or null when unknown (treated as pre-1950: the cautious reading)
  */
-export function defaultOperationsBudget(kind: ComponentKind, year: number | null): { budget: number; basis: string } | null {
+export function defaultOperationsBudget(
+  kind: ComponentKind,
+  year: number | null,
+): { budget: number; basis: string } | null {
   if (!OPERATED_KINDS.has(kind)) return null;
-  if (year !== null && !(Number.isInteger(year) && year > 1800 && year < 3000)) throw new RangeError(`year must be a plausible year, got ${year}`);
+  if (year !== null && !(Number.isInteger(year) && year > 1800 && year < 3000))
+    throw new RangeError(`year must be a plausible year, got ${year}`);
   const row = DEFAULT_BUDGETS.find((b) => (year ?? 0) < b.before)!;
   return { budget: row.operations, basis: row.basis };
 }
@@ -45,14 +54,19 @@ export interface OperationsStatus {
  * instead of working the old breaker.
  */
 export function operationsStatus(used: number, budget: number, planned = 0): OperationsStatus {
-  for (const [n, v] of [["used", used], ["budget", budget], ["planned", planned]] as const)
+  for (const [n, v] of [
+    ["used", used],
+    ["budget", budget],
+    ["planned", planned],
+  ] as const)
     if (!Number.isInteger(v) || v < 0) throw new RangeError(`${n} must be a whole number ≥ 0, got ${v}`);
   const remaining = budget - used;
   const overBudget = used > budget;
   const wouldExceed = used + planned > budget;
   let warning: string | null = null;
   if (overBudget) warning = `Operated ${used} times against a budget of ${budget}.`;
-  else if (wouldExceed) warning = `${planned} more operation${planned === 1 ? "" : "s"} would pass its budget (${used} of ${budget} used).`;
+  else if (wouldExceed)
+    warning = `${planned} more operation${planned === 1 ? "" : "s"} would pass its budget (${used} of ${budget} used).`;
   if (warning) warning += " Consider energising from the temporary supply instead of operating it.";
   return { used, budget, remaining, wouldExceed, overBudget, warning };
 }

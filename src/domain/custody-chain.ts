@@ -9,7 +9,14 @@
  * from memory. The curator may release a refused move with a written reason.
  * Pure: the server enforces it, the form shows it.
  */
-import { CUSTODY, type ComponentKind, type Custody, type Disposition, type InsulationState, type Mechanism } from "./vocab";
+import {
+  CUSTODY,
+  type ComponentKind,
+  type Custody,
+  type Disposition,
+  type InsulationState,
+  type Mechanism,
+} from "./vocab";
 import { requireOneOf } from "./guards";
 
 /** Moves along or off the chain, from → to (common practice). Anything else is off the chain. */
@@ -25,7 +32,12 @@ export const CHAIN: Record<Custody, readonly Custody[]> = {
 
 /** Kinds normally insulation-tested before return to service (ANSI/NETA MTS-2019 §7, from memory). */
 export const READING_REQUIRED_KINDS: ReadonlySet<ComponentKind> = new Set([
-  "molded_case_breaker", "power_breaker", "bus_tie", "busbar", "switch", "transformer",
+  "molded_case_breaker",
+  "power_breaker",
+  "bus_tie",
+  "busbar",
+  "switch",
+  "transformer",
 ]);
 
 /** What the rules need to know about the component. */
@@ -42,7 +54,16 @@ export interface CustodyFacts {
   latestReading: "meets" | "below_minimum" | "investigate" | "not_valid" | null;
 }
 
-export type CustodyRule = "same_state" | "off_chain" | "tag_required" | "disposition_undecided" | "not_ready" | "condition_unproven" | "reading_required" | "reading_failing" | "reading_not_valid";
+export type CustodyRule =
+  | "same_state"
+  | "off_chain"
+  | "tag_required"
+  | "disposition_undecided"
+  | "not_ready"
+  | "condition_unproven"
+  | "reading_required"
+  | "reading_failing"
+  | "reading_not_valid";
 
 export interface CustodyRefusal {
   rule: CustodyRule;
@@ -62,25 +83,69 @@ const BAD_INSULATION: ReadonlySet<InsulationState> = new Set(["tracking", "charr
 export function checkCustodyMove(f: CustodyFacts, to: Custody): CustodyRefusal[] {
   requireOneOf("from", f.from, CUSTODY);
   requireOneOf("to", to, CUSTODY);
-  if (f.from === to) return [{ rule: "same_state", status: 409, message: "It is already in that custody state.", releasable: false }];
+  if (f.from === to)
+    return [{ rule: "same_state", status: 409, message: "It is already in that custody state.", releasable: false }];
   const out: CustodyRefusal[] = [];
-  const refuse = (rule: CustodyRule, status: 409 | 422, message: string) => out.push({ rule, status, message, releasable: true });
+  const refuse = (rule: CustodyRule, status: 409 | 422, message: string) =>
+    out.push({ rule, status, message, releasable: true });
   if (!CHAIN[f.from].includes(to)) {
-    if (to === "refitted") refuse("not_ready", 409, "A part is refitted only from “ready to refit”: make it ready first (cleaned or rebuilt, its disposition decided).");
-    else refuse("off_chain", 409, `The chain does not go from “${label(f.from)}” to “${label(to)}”.${CHAIN[f.from].length ? ` Next on the chain: ${CHAIN[f.from].map(label).join(", ")}.` : ""}`);
+    if (to === "refitted")
+      refuse(
+        "not_ready",
+        409,
+        "A part is refitted only from “ready to refit”: make it ready first (cleaned or rebuilt, its disposition decided).",
+      );
+    else
+      refuse(
+        "off_chain",
+        409,
+        `The chain does not go from “${label(f.from)}” to “${label(to)}”.${CHAIN[f.from].length ? ` Next on the chain: ${CHAIN[f.from].map(label).join(", ")}.` : ""}`,
+      );
   }
   // The tag is never released: generating one costs a tap, and the chain back depends on it.
   if (to === "removed" && !f.tagNumber?.trim())
-    out.push({ rule: "tag_required", status: 422, message: "A part comes off only with a tag: type, scan or generate a tag number.", releasable: false });
+    out.push({
+      rule: "tag_required",
+      status: 422,
+      message: "A part comes off only with a tag: type, scan or generate a tag number.",
+      releasable: false,
+    });
   if ((to === "ready_to_refit" || to === "refitted") && !f.disposition)
-    refuse("disposition_undecided", 422, "Its disposition is not decided yet: the curator decides clean, rebuild, replace or source first.");
+    refuse(
+      "disposition_undecided",
+      422,
+      "Its disposition is not decided yet: the curator decides clean, rebuild, replace or source first.",
+    );
   if (to === "refitted") {
-    const bad = [f.latestInsulation && BAD_INSULATION.has(f.latestInsulation) ? `insulation “${f.latestInsulation}”` : null, f.latestMechanism === "seized" ? "mechanism seized" : null].filter(Boolean);
-    if (bad.length) refuse("condition_unproven", 422, `Its latest inspection still shows ${bad.join(" and ")}: inspect it again after the work.`);
+    const bad = [
+      f.latestInsulation && BAD_INSULATION.has(f.latestInsulation) ? `insulation “${f.latestInsulation}”` : null,
+      f.latestMechanism === "seized" ? "mechanism seized" : null,
+    ].filter(Boolean);
+    if (bad.length)
+      refuse(
+        "condition_unproven",
+        422,
+        `Its latest inspection still shows ${bad.join(" and ")}: inspect it again after the work.`,
+      );
     if (READING_REQUIRED_KINDS.has(f.kind)) {
-      if (f.latestReading === null) refuse("reading_required", 422, "This kind needs an insulation-resistance reading meeting its criterion before it is refitted.");
-      else if (f.latestReading === "not_valid") refuse("reading_not_valid", 422, "Its latest insulation-resistance reading was taken at or near the dew point (or below freezing) and is not valid for judging: re-test in dry conditions.");
-      else if (f.latestReading !== "meets") refuse("reading_failing", 422, "Its latest insulation-resistance reading does not meet the recorded criterion: re-test after drying or repair.");
+      if (f.latestReading === null)
+        refuse(
+          "reading_required",
+          422,
+          "This kind needs an insulation-resistance reading meeting its criterion before it is refitted.",
+        );
+      else if (f.latestReading === "not_valid")
+        refuse(
+          "reading_not_valid",
+          422,
+          "Its latest insulation-resistance reading was taken at or near the dew point (or below freezing) and is not valid for judging: re-test in dry conditions.",
+        );
+      else if (f.latestReading !== "meets")
+        refuse(
+          "reading_failing",
+          422,
+          "Its latest insulation-resistance reading does not meet the recorded criterion: re-test after drying or repair.",
+        );
     }
   }
   return out;
@@ -106,7 +171,12 @@ export function proposeNext(f: CustodyFacts): Custody | null {
 }
 
 const LABELS: Record<Custody, string> = {
-  in_place: "in place", removed: "removed (tagged)", in_workshop: "in workshop", ready_to_refit: "ready to refit",
-  refitted: "refitted", scrapped: "scrapped", missing: "missing",
+  in_place: "in place",
+  removed: "removed (tagged)",
+  in_workshop: "in workshop",
+  ready_to_refit: "ready to refit",
+  refitted: "refitted",
+  scrapped: "scrapped",
+  missing: "missing",
 };
 const label = (c: Custody) => LABELS[c];

@@ -40,14 +40,21 @@ const VOLUNTEER_MOVES: Partial<Record<DefectStatus, DefectStatus[]>> = {
 
 export type TransitionResult =
   | { ok: true; set: { repairedBy?: string | null; verifiedBy?: string | null; closed?: boolean; reopened?: boolean } }
-  | { ok: false; code: "forbidden" | "not_allowed" | "reason_required" | "same_person" | "no_repairer" | "evidence_required"; message: string };
+  | {
+      ok: false;
+      code: "forbidden" | "not_allowed" | "reason_required" | "same_person" | "no_repairer" | "evidence_required";
+      message: string;
+    };
 
 /**
  * What proves a repair (issue 14): re-test readings linked to the defect that meet their
  * criterion, and "after work" photos filed to it. Closing needs at least one (common practice:
  * a repair is closed on evidence, not on someone's word).
  */
-export interface RepairEvidence { retestsMeeting: number; afterPhotos: number }
+export interface RepairEvidence {
+  retestsMeeting: number;
+  afterPhotos: number;
+}
 
 /** Targets `actor` may choose from `defect`'s current status (for the buttons on screen). */
 export function allowedTargets(defect: WorkflowDefect, actor: Actor): DefectStatus[] {
@@ -74,8 +81,18 @@ export function checkTransition(
 ): TransitionResult {
   requireOneOf("to", to, DEFECT_STATUSES);
   const targets = allowedTargets(defect, actor);
-  if (to === "closed" && defect.status === "awaiting_retest" && defect.repairedBy === actor.id && CURATOR_MOVES[defect.status].includes(to) && (actor.role === "curator" || actor.role === "admin"))
-    return { ok: false, code: "same_person", message: "Someone other than the person who did the repair must verify and close it." };
+  if (
+    to === "closed" &&
+    defect.status === "awaiting_retest" &&
+    defect.repairedBy === actor.id &&
+    CURATOR_MOVES[defect.status].includes(to) &&
+    (actor.role === "curator" || actor.role === "admin")
+  )
+    return {
+      ok: false,
+      code: "same_person",
+      message: "Someone other than the person who did the repair must verify and close it.",
+    };
   if (!targets.includes(to)) {
     const anyone = CURATOR_MOVES[defect.status].includes(to);
     return anyone
@@ -83,21 +100,42 @@ export function checkTransition(
       : { ok: false, code: "not_allowed", message: `A defect cannot go from ${defect.status} to ${to}.` };
   }
   if (REASON_REQUIRED.has(to) && !opts.reason?.trim())
-    return { ok: false, code: "reason_required", message: "Say why: deferring a defect or accepting it as is needs a reason." };
+    return {
+      ok: false,
+      code: "reason_required",
+      message: "Say why: deferring a defect or accepting it as is needs a reason.",
+    };
   if (to === "awaiting_retest") {
     const doer = actor.role === "volunteer" ? actor.id : (opts.repairedBy ?? defect.assigneeId ?? actor.id);
     return { ok: true, set: { repairedBy: doer } };
   }
   if (to === "closed") {
-    if (!defect.repairedBy) return { ok: false, code: "no_repairer", message: "Nobody is recorded as having done the repair." };
+    if (!defect.repairedBy)
+      return { ok: false, code: "no_repairer", message: "Nobody is recorded as having done the repair." };
     if (defect.repairedBy === actor.id)
-      return { ok: false, code: "same_person", message: "Someone other than the person who did the repair must verify and close it." };
+      return {
+        ok: false,
+        code: "same_person",
+        message: "Someone other than the person who did the repair must verify and close it.",
+      };
     if (!opts.evidence || (opts.evidence.retestsMeeting === 0 && opts.evidence.afterPhotos === 0))
-      return { ok: false, code: "evidence_required", message: "Close on evidence: link a re-test reading that meets its criterion, or file an “after work” photo to this defect." };
+      return {
+        ok: false,
+        code: "evidence_required",
+        message:
+          "Close on evidence: link a re-test reading that meets its criterion, or file an “after work” photo to this defect.",
+      };
     return { ok: true, set: { verifiedBy: actor.id, closed: true } };
   }
   if (defect.status === "closed" || (to === "under_repair" && defect.status === "awaiting_retest"))
-    return { ok: true, set: { verifiedBy: null, repairedBy: defect.status === "closed" ? defect.repairedBy : null, reopened: defect.status === "closed" } };
+    return {
+      ok: true,
+      set: {
+        verifiedBy: null,
+        repairedBy: defect.status === "closed" ? defect.repairedBy : null,
+        reopened: defect.status === "closed",
+      },
+    };
   return { ok: true, set: {} };
 }
 

@@ -87,10 +87,19 @@ export function locateGround(input: {
   const sorted = [...readings].sort((x, y) => x.v - y.v);
   const tolerance = BALANCE_TOLERANCE * vPh;
   if (sorted[2].v - sorted[0].v <= tolerance) {
-    return { phase: null, faultOhms: null, reason: "All three lamps read alike: no ground shown (a very high-resistance ground may not show)." };
+    return {
+      phase: null,
+      faultOhms: null,
+      reason: "All three lamps read alike: no ground shown (a very high-resistance ground may not show).",
+    };
   }
   if (sorted[1].v - sorted[0].v <= tolerance) {
-    return { phase: null, faultOhms: null, reason: "Two lamps read equally low: not the single-ground pattern. Check for grounds on two phases, a failed lamp or a blown lamp fuse." };
+    return {
+      phase: null,
+      faultOhms: null,
+      reason:
+        "Two lamps read equally low: not the single-ground pattern. Check for grounds on two phases, a failed lamp or a blown lamp fuse.",
+    };
   }
   const phase = sorted[0].p;
   const k = Math.min(1, Math.max(0, 1 - sorted[0].v / vPh));
@@ -111,13 +120,19 @@ export function suspectPhaseFromLamps(lamps: Record<Phase, LampState>): { phase:
   const states = PHASES.map((p) => ({ p, rank: LAMP_RANK[requireOneOf(p, lamps[p], ["bright", "dim", "dark"])] }));
   const sorted = [...states].sort((x, y) => x.rank - y.rank);
   if (sorted[2].rank === 0) {
-    return { phase: null, reason: "All lamps dark: check the lamp supply, fuses and lamps first; this says nothing about grounds." };
+    return {
+      phase: null,
+      reason: "All lamps dark: check the lamp supply, fuses and lamps first; this says nothing about grounds.",
+    };
   }
   if (sorted[0].rank === sorted[2].rank) {
     return { phase: null, reason: "All lamps look alike: no ground shown (a high-resistance ground may not show)." };
   }
   if (sorted[0].rank === sorted[1].rank) {
-    return { phase: null, reason: "Two lamps equally dark: not the single-ground pattern. Check lamps and fuses, or grounds on two phases." };
+    return {
+      phase: null,
+      reason: "Two lamps equally dark: not the single-ground pattern. Check lamps and fuses, or grounds on two phases.",
+    };
   }
   const phase = sorted[0].p;
   const unequal = sorted[1].rank !== sorted[2].rank;
@@ -139,12 +154,21 @@ export function suspectPhaseFromLamps(lamps: Record<Phase, LampState>): { phase:
  *   (V_f at or above what the capacitance alone gives)
  */
 export function faultOhmsWithCapacitance(input: {
-  lineVolts: number; faultedVolts: number; branchOhms: number; capacitanceMicroF: number; frequencyHz: number;
+  lineVolts: number;
+  faultedVolts: number;
+  branchOhms: number;
+  capacitanceMicroF: number;
+  frequencyHz: number;
 }): number | null {
   const vPh = requirePositive("lineVolts", input.lineVolts) / Math.sqrt(3);
   const vf = requireNumber("faultedVolts", input.faultedVolts, { min: 0 });
   const g = 1 / requirePositive("branchOhms", input.branchOhms);
-  const wc = 2 * Math.PI * requirePositive("frequencyHz", input.frequencyHz) * requireNumber("capacitanceMicroF", input.capacitanceMicroF, { min: 0 }) * 1e-6;
+  const wc =
+    2 *
+    Math.PI *
+    requirePositive("frequencyHz", input.frequencyHz) *
+    requireNumber("capacitanceMicroF", input.capacitanceMicroF, { min: 0 }) *
+    1e-6;
   if (vf === 0) return 0;
   const yAbs = Math.hypot(g, wc);
   const inside = (3 * yAbs * (vPh / vf)) ** 2 - (3 * wc) ** 2;
@@ -162,9 +186,18 @@ export const CAPACITANCE_UNCERTAINTY = 0.25;
  * range is [null, resistive] and says so.
  */
 export function faultEstimateRange(input: {
-  lineVolts: number; faultedVolts: number; branchOhms: number; capacitanceMicroF?: number | null; frequencyHz: number;
+  lineVolts: number;
+  faultedVolts: number;
+  branchOhms: number;
+  capacitanceMicroF?: number | null;
+  frequencyHz: number;
 }): { lowOhms: number | null; centralOhms: number | null; highOhms: number | null; capacitanceNeglected: boolean } {
-  const base = { lineVolts: input.lineVolts, faultedVolts: input.faultedVolts, branchOhms: input.branchOhms, frequencyHz: input.frequencyHz };
+  const base = {
+    lineVolts: input.lineVolts,
+    faultedVolts: input.faultedVolts,
+    branchOhms: input.branchOhms,
+    frequencyHz: input.frequencyHz,
+  };
   const resistive = faultOhmsWithCapacitance({ ...base, capacitanceMicroF: 0 });
   if (input.capacitanceMicroF == null || input.capacitanceMicroF === 0) {
     return { lowOhms: null, centralOhms: null, highOhms: resistive, capacitanceNeglected: true };
@@ -195,11 +228,20 @@ export function groundHuntFinding(steps: readonly GroundHuntStep[]): { feeder: s
   let showing = true;
   for (const s of steps) {
     requireOneOf("action", s.action, ["opened", "closed"]);
-    const balanced = suspectPhaseFromLamps(s.lamps).phase === null && PHASES.some((p) => s.lamps[p] !== "dark") && PHASES.every((p) => s.lamps[p] === s.lamps.A);
+    const balanced =
+      suspectPhaseFromLamps(s.lamps).phase === null &&
+      PHASES.some((p) => s.lamps[p] !== "dark") &&
+      PHASES.every((p) => s.lamps[p] === s.lamps.A);
     if (showing && balanced && s.action === "opened") {
-      return { feeder: s.feeder, words: `The lamps went back to alike when ${s.feeder} was opened: the ground is most likely on ${s.feeder} or what it feeds. Confirm with an insulation test before closing it again.` };
+      return {
+        feeder: s.feeder,
+        words: `The lamps went back to alike when ${s.feeder} was opened: the ground is most likely on ${s.feeder} or what it feeds. Confirm with an insulation test before closing it again.`,
+      };
     }
     showing = !balanced;
   }
-  return { feeder: null, words: steps.length ? "No opening so far has cleared the ground indication." : "No steps logged yet." };
+  return {
+    feeder: null,
+    words: steps.length ? "No opening so far has cleared the ground indication." : "No steps logged yet.",
+  };
 }

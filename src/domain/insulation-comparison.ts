@@ -20,12 +20,21 @@ export type PhaseKey = "A" | "B" | "C";
  * base). Rule: flag a phase whose value is under PHASE_RATIO_FLAG × the highest.
  * @param values corrected MΩ per phase, ≥ 0; phases not measured are left out
  */
-export function comparePhases(values: Partial<Record<PhaseKey, number>>): { flagged: PhaseKey[]; highest: number | null; reasons: string[] } {
-  const entries = (Object.entries(values) as [PhaseKey, number][]).filter(([, v]) => v != null).map(([p, v]) => [p, requireNumber(p, v, { min: 0 })] as const);
+export function comparePhases(values: Partial<Record<PhaseKey, number>>): {
+  flagged: PhaseKey[];
+  highest: number | null;
+  reasons: string[];
+} {
+  const entries = (Object.entries(values) as [PhaseKey, number][])
+    .filter(([, v]) => v != null)
+    .map(([p, v]) => [p, requireNumber(p, v, { min: 0 })] as const);
   if (entries.length < 2) return { flagged: [], highest: null, reasons: [] };
   const highest = Math.max(...entries.map(([, v]) => v));
   const flagged = entries.filter(([, v]) => v < PHASE_RATIO_FLAG * highest).map(([p]) => p);
-  const reasons = flagged.map((p) => `${p} to ground (${fmt(values[p]!)} MΩ) is under half the highest phase (${fmt(highest)} MΩ): look for a wet or tracked path on ${p}.`);
+  const reasons = flagged.map(
+    (p) =>
+      `${p} to ground (${fmt(values[p]!)} MΩ) is under half the highest phase (${fmt(highest)} MΩ): look for a wet or tracked path on ${p}.`,
+  );
   return { flagged, highest, reasons };
 }
 
@@ -33,13 +42,22 @@ export function comparePhases(values: Partial<Record<PhaseKey, number>>): { flag
  * A reading against the previous test of the same circuit and conductors (both corrected
  * to the same base). Rule: flag when current < (1 − TREND_DROP_FLAG) × previous.
  */
-export function compareWithPrevious(currentMegohms: number, previousMegohms: number): { dropFraction: number; flagged: boolean; reason: string | null } {
+export function compareWithPrevious(
+  currentMegohms: number,
+  previousMegohms: number,
+): { dropFraction: number; flagged: boolean; reason: string | null } {
   const cur = requireNumber("currentMegohms", currentMegohms, { min: 0 });
   const prev = requireNumber("previousMegohms", previousMegohms, { min: 0 });
   if (prev === 0) return { dropFraction: 0, flagged: false, reason: null };
   const drop = (prev - cur) / prev;
   const flagged = drop > TREND_DROP_FLAG;
-  return { dropFraction: drop, flagged, reason: flagged ? `Down ${Math.round(drop * 100)} % since the previous test (${fmt(prev)} → ${fmt(cur)} MΩ, corrected): find out why before going on.` : null };
+  return {
+    dropFraction: drop,
+    flagged,
+    reason: flagged
+      ? `Down ${Math.round(drop * 100)} % since the previous test (${fmt(prev)} → ${fmt(cur)} MΩ, corrected): find out why before going on.`
+      : null,
+  };
 }
 
 export interface VoltageStep {
@@ -54,19 +72,48 @@ export interface VoltageStep {
  * reading at the lowest voltage.
  * @returns the steps in rising voltage, the largest fall as a fraction, and the verdict
  */
-export function judgeStepVoltage(steps: readonly VoltageStep[]): { steps: VoltageStep[]; largestFall: number; verdict: "meets" | "investigate"; reasons: string[] } {
+export function judgeStepVoltage(steps: readonly VoltageStep[]): {
+  steps: VoltageStep[];
+  largestFall: number;
+  verdict: "meets" | "investigate";
+  reasons: string[];
+} {
   if (!Array.isArray(steps) || steps.length < 2) throw new RangeError("a step-voltage test needs at least two steps");
-  const sorted = steps.map((s, i) => ({ testVoltsDc: requirePositive(`steps[${i}].testVoltsDc`, s.testVoltsDc), megohms: requireNumber(`steps[${i}].megohms`, s.megohms, { min: 0 }) }))
+  const sorted = steps
+    .map((s, i) => ({
+      testVoltsDc: requirePositive(`steps[${i}].testVoltsDc`, s.testVoltsDc),
+      megohms: requireNumber(`steps[${i}].megohms`, s.megohms, { min: 0 }),
+    }))
     .sort((a, b) => a.testVoltsDc - b.testVoltsDc);
   const first = sorted[0];
-  if (first.megohms === 0) return { steps: sorted, largestFall: 0, verdict: "investigate", reasons: ["0 MΩ at the lowest step: a dead short; a step test says nothing more."] };
+  if (first.megohms === 0)
+    return {
+      steps: sorted,
+      largestFall: 0,
+      verdict: "investigate",
+      reasons: ["0 MΩ at the lowest step: a dead short; a step test says nothing more."],
+    };
   const falls = sorted.slice(1).map((s) => (first.megohms - s.megohms) / first.megohms);
   const largestFall = Math.max(0, ...falls);
   if (largestFall > STEP_VOLTAGE_FALL_FLAG) {
     const at = sorted[1 + falls.indexOf(Math.max(...falls))];
-    return { steps: sorted, largestFall, verdict: "investigate", reasons: [`Falls ${Math.round(largestFall * 100)} % from ${fmt(first.megohms)} MΩ at ${first.testVoltsDc} V to ${fmt(at.megohms)} MΩ at ${at.testVoltsDc} V: more than 25 % points at moisture, dirt or cracks (common practice).`] };
+    return {
+      steps: sorted,
+      largestFall,
+      verdict: "investigate",
+      reasons: [
+        `Falls ${Math.round(largestFall * 100)} % from ${fmt(first.megohms)} MΩ at ${first.testVoltsDc} V to ${fmt(at.megohms)} MΩ at ${at.testVoltsDc} V: more than 25 % points at moisture, dirt or cracks (common practice).`,
+      ],
+    };
   }
-  return { steps: sorted, largestFall, verdict: "meets", reasons: [`Falls at most ${Math.round(largestFall * 100)} % as the voltage rises (25 % or less meets the recorded criterion; common practice).`] };
+  return {
+    steps: sorted,
+    largestFall,
+    verdict: "meets",
+    reasons: [
+      `Falls at most ${Math.round(largestFall * 100)} % as the voltage rises (25 % or less meets the recorded criterion; common practice).`,
+    ],
+  };
 }
 
 function fmt(n: number): string {

@@ -136,20 +136,40 @@ export function assessDryOut(
   requirePoints(readings);
   const target = requirePositive("targetMegohms", targetMegohms);
   const pts = [...readings].sort((a, b) => a.hours - b.hours);
-  const none = (state: DryOutState, message: string, slope: number | null = null, windowSize = 0): DryOutAssessment => ({ state, slopePerHour: slope, windowSize, hoursToTarget: null, message });
+  const none = (
+    state: DryOutState,
+    message: string,
+    slope: number | null = null,
+    windowSize = 0,
+  ): DryOutAssessment => ({ state, slopePerHour: slope, windowSize, hoursToTarget: null, message });
   if (pts.length === 0) return none("no_readings", "No readings valid for judging yet.");
   const last = pts[pts.length - 1];
   const lastThree = pts.slice(-3);
   if (last.megohms >= target) {
     const mean = lastThree.reduce((s, p) => s + p.megohms, 0) / lastThree.length;
-    const stable = lastThree.length === 3 && lastThree.every((p) => Math.abs(p.megohms - mean) <= STABLE_FRACTION * mean);
+    const stable =
+      lastThree.length === 3 && lastThree.every((p) => Math.abs(p.megohms - mean) <= STABLE_FRACTION * mean);
     const temps = lastThree.map((p) => p.temperatureC).filter((t): t is number => t != null);
-    const atTemp = temps.length === lastThree.length && (opts.targetTemperatureC != null
-      ? temps.every((t) => Math.abs(t - opts.targetTemperatureC!) <= TARGET_TEMPERATURE_BAND_K)
-      : Math.max(...temps) - Math.min(...temps) <= TARGET_TEMPERATURE_BAND_K);
+    const atTemp =
+      temps.length === lastThree.length &&
+      (opts.targetTemperatureC != null
+        ? temps.every((t) => Math.abs(t - opts.targetTemperatureC!) <= TARGET_TEMPERATURE_BAND_K)
+        : Math.max(...temps) - Math.min(...temps) <= TARGET_TEMPERATURE_BAND_K);
     const piOk = opts.minimumPi == null || (last.pi != null && last.pi >= opts.minimumPi);
-    if (stable && atTemp && piOk) return none("complete", "Dry-out criterion met: the last three corrected readings are stable within ±5 % at temperature, reach the minimum, and the PI meets its minimum. A qualified person decides what follows.", null, 3);
-    const missing = [!stable && "three readings stable within ±5 %", !atTemp && "readings at the target temperature", !piOk && "a polarization index that meets its minimum"].filter(Boolean).join(", ");
+    if (stable && atTemp && piOk)
+      return none(
+        "complete",
+        "Dry-out criterion met: the last three corrected readings are stable within ±5 % at temperature, reach the minimum, and the PI meets its minimum. A qualified person decides what follows.",
+        null,
+        3,
+      );
+    const missing = [
+      !stable && "three readings stable within ±5 %",
+      !atTemp && "readings at the target temperature",
+      !piOk && "a polarization index that meets its minimum",
+    ]
+      .filter(Boolean)
+      .join(", ");
     return none("reached", `Dry-out not yet shown complete: still needs ${missing}.`, null, 0);
   }
   if (pts.length < 3) return none("too_few", "No estimate: it needs three or more readings.");
@@ -162,16 +182,33 @@ export function assessDryOut(
   const earlierFit = earlier.length >= 2 ? fitLogResistance(earlier) : null;
   const flat = Math.abs(b * spanH) < Math.log(1 + STABLE_FRACTION);
   const slowing = earlierFit !== null && earlierFit.slopePerHour > 0 && b < LEVELLING_RATIO * earlierFit.slopePerHour;
-  if (b > 0 && (flat || slowing) || (b <= 0 && flat)) {
-    return none("levelling_below", `Levelling off below the minimum: drying alone may not get there. Look for what holds the moisture (silt, a cracked part, salt residue).`, b, window.length);
+  if ((b > 0 && (flat || slowing)) || (b <= 0 && flat)) {
+    return none(
+      "levelling_below",
+      `Levelling off below the minimum: drying alone may not get there. Look for what holds the moisture (silt, a cracked part, salt residue).`,
+      b,
+      window.length,
+    );
   }
-  if (b <= 0) return none("falling", "The recent readings are falling: no estimate. Look for what is wetting the insulation again.", b, window.length);
+  if (b <= 0)
+    return none(
+      "falling",
+      "The recent readings are falling: no estimate. Look for what is wetting the insulation again.",
+      b,
+      window.length,
+    );
   const se = slopeStandardError(window, fit);
   const gap = Math.log(target) - Math.log(last.megohms);
   const central = gap / b;
   const low = gap / (b + se);
   const high = b - se > 0 ? gap / (b - se) : null;
-  return { state: "rising", slopePerHour: b, windowSize: window.length, hoursToTarget: { low, central, high }, message: "Estimate from the recent readings, not a promise: re-test; a qualified person decides." };
+  return {
+    state: "rising",
+    slopePerHour: b,
+    windowSize: window.length,
+    hoursToTarget: { low, central, high },
+    message: "Estimate from the recent readings, not a promise: re-test; a qualified person decides.",
+  };
 }
 
 /**

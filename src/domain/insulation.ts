@@ -10,7 +10,14 @@ import { NETA_MINIMUM_INSULATION, NETA_TEMPERATURE_CORRECTION } from "./insulati
 export { NETA_MINIMUM_INSULATION, NETA_TEMPERATURE_CORRECTION } from "./insulation-tables";
 export type { NetaCorrectionRow, NetaMinimumRow } from "./insulation-tables";
 export { assessDryOut, fitLogResistance, forecastDryOut, slopeStandardError } from "./insulation-dry-out";
-export type { DryOutAssessment, DryOutForecast, DryOutPoint, DryOutReading, DryOutState, LogResistanceFit } from "./insulation-dry-out";
+export type {
+  DryOutAssessment,
+  DryOutForecast,
+  DryOutPoint,
+  DryOutReading,
+  DryOutState,
+  LogResistanceFit,
+} from "./insulation-dry-out";
 
 export type InsulationMedium = "solid" | "oil";
 export const THERMAL_CLASSES = ["A", "B", "F", "H"] as const;
@@ -66,11 +73,7 @@ export function netaCorrectionFactor(temperatureC: number, insulation: Insulatio
  * @param insulation "solid" (switchboards, breakers, dry-type) or "oil" (immersed)
  * @throws RangeError outside the tabulated range or for negative/NaN megohms
  */
-export function netaCorrectionTo20C(
-  megohms: number,
-  temperatureC: number,
-  insulation: InsulationMedium,
-): number {
+export function netaCorrectionTo20C(megohms: number, temperatureC: number, insulation: InsulationMedium): number {
   requireMegohms("megohms", megohms);
   return megohms * netaCorrectionFactor(temperatureC, insulation);
 }
@@ -112,7 +115,8 @@ export interface QualifiedMegohms {
 }
 
 /** What a ratio of two qualified readings can say: a value, a lower or upper bound, or nothing. */
-export type RatioBound = { value: number; bound: "exact" | "at_least" | "at_most" } | { value: null; bound: "not_computable" };
+export type RatioBound =
+  { value: number; bound: "exact" | "at_least" | "at_most" } | { value: null; bound: "not_computable" };
 
 /**
  * PI or DAR from qualified readings. Rules (interval arithmetic on the true values):
@@ -189,8 +193,12 @@ export function insulationReadingValidity(input: {
   let dew: number | null = null;
   if (input.ambientTempC != null && input.humidityPercent != null && input.humidityPercent > 0) {
     dew = dewPointC(input.ambientTempC, input.humidityPercent);
-    if (t <= dew) reasons.push(`Equipment at ${fmt(t)} °C is at or below the dew point (${fmt1(dew)} °C): moisture condenses on it.`);
-    else if (t < dew + margin) reasons.push(`Equipment at ${fmt(t)} °C is within ${fmt(margin)} K of the dew point (${fmt1(dew)} °C).`);
+    if (t <= dew)
+      reasons.push(
+        `Equipment at ${fmt(t)} °C is at or below the dew point (${fmt1(dew)} °C): moisture condenses on it.`,
+      );
+    else if (t < dew + margin)
+      reasons.push(`Equipment at ${fmt(t)} °C is within ${fmt(margin)} K of the dew point (${fmt1(dew)} °C).`);
   }
   if (t < 0) reasons.push(`Equipment below freezing (${fmt(t)} °C): ice hides the water that returns on thawing.`);
   return { valid: reasons.length === 0, dewPointC: dew, reasons };
@@ -211,10 +219,18 @@ export function testVoltageAdvice(ratedVolts: number, testVoltsDc: number): Test
   const { testVoltsDc: suggested } = netaMinimumInsulation(ratedVolts);
   const used = requirePositive("testVoltsDc", testVoltsDc);
   if (used > suggested) {
-    return { suggestedVoltsDc: suggested, over: true, note: `Tested at ${used} V DC, above the ${suggested} V DC NETA Table 100.1 gives for ${fmt(ratedVolts)} V equipment: a higher voltage can overstress old or wet insulation.` };
+    return {
+      suggestedVoltsDc: suggested,
+      over: true,
+      note: `Tested at ${used} V DC, above the ${suggested} V DC NETA Table 100.1 gives for ${fmt(ratedVolts)} V equipment: a higher voltage can overstress old or wet insulation.`,
+    };
   }
   if (used < suggested) {
-    return { suggestedVoltsDc: suggested, over: false, note: `Tested at ${used} V DC; NETA Table 100.1 suggests ${suggested} V DC for ${fmt(ratedVolts)} V equipment.` };
+    return {
+      suggestedVoltsDc: suggested,
+      over: false,
+      note: `Tested at ${used} V DC; NETA Table 100.1 suggests ${suggested} V DC for ${fmt(ratedVolts)} V equipment.`,
+    };
   }
   return { suggestedVoltsDc: suggested, over: false, note: null };
 }
@@ -293,30 +309,62 @@ export function judgeInsulation(input: InsulationJudgementInput): {
   const minDar = input.minimumDar == null ? 1 : requirePositive("minimumDar", input.minimumDar);
   const notes: string[] = [];
   if (r === 0) {
-    return { verdict: "below_minimum", reasons: [`0 MΩ: a dead short (a fault), below any minimum (${fmt(min)} MΩ here).`], notes };
+    return {
+      verdict: "below_minimum",
+      reasons: [`0 MΩ: a dead short (a fault), below any minimum (${fmt(min)} MΩ here).`],
+      notes,
+    };
   }
   if (r < min) {
-    const shown = q === "below" ? `Below the meter's resolution (${fmt(r)} MΩ)` : q === "at_or_above" ? `At the meter's top of range (${fmt(r)} MΩ)` : `${fmt(r)} MΩ`;
+    const shown =
+      q === "below"
+        ? `Below the meter's resolution (${fmt(r)} MΩ)`
+        : q === "at_or_above"
+          ? `At the meter's top of range (${fmt(r)} MΩ)`
+          : `${fmt(r)} MΩ`;
     if (q === "at_or_above") {
-      return { verdict: "investigate", reasons: [`${shown}, which is under the ${fmt(min)} MΩ minimum: the true value is unknown. Re-test on a higher range.`], notes };
+      return {
+        verdict: "investigate",
+        reasons: [
+          `${shown}, which is under the ${fmt(min)} MΩ minimum: the true value is unknown. Re-test on a higher range.`,
+        ],
+        notes,
+      };
     }
     return { verdict: "below_minimum", reasons: [`${shown} is under the ${fmt(min)} MΩ minimum.`], notes };
   }
   if (q === "below") {
-    return { verdict: "investigate", reasons: [`Recorded as below the meter's resolution (${fmt(r)} MΩ), which is not under the minimum: check the entry.`], notes };
+    return {
+      verdict: "investigate",
+      reasons: [
+        `Recorded as below the meter's resolution (${fmt(r)} MΩ), which is not under the minimum: check the entry.`,
+      ],
+      notes,
+    };
   }
   const reasons: string[] = [];
   const ratio = (label: string, b: RatioBound | null, minimum: number) => {
     if (b === null) return;
-    if (b.bound === "not_computable") { notes.push(`${label} not computable (a zero reading, or both readings at the meter's limit).`); return; }
+    if (b.bound === "not_computable") {
+      notes.push(`${label} not computable (a zero reading, or both readings at the meter's limit).`);
+      return;
+    }
     const low = b.value < minimum;
     if (b.bound === "exact" && low) reasons.push(`${label} ${fmt(b.value)} is under ${fmt(minimum)}.`);
     else if (b.bound === "at_most" && low) reasons.push(`${label} at most ${fmt(b.value)}, under ${fmt(minimum)}.`);
-    else if (b.bound === "at_least" && low) notes.push(`${label} at least ${fmt(b.value)} (a reading at the meter's limit): cannot tell whether it reaches ${fmt(minimum)}.`);
-    else if (b.bound === "at_most") notes.push(`${label} at most ${fmt(b.value)} (a reading below resolution): cannot confirm it reaches ${fmt(minimum)}.`);
+    else if (b.bound === "at_least" && low)
+      notes.push(
+        `${label} at least ${fmt(b.value)} (a reading at the meter's limit): cannot tell whether it reaches ${fmt(minimum)}.`,
+      );
+    else if (b.bound === "at_most")
+      notes.push(
+        `${label} at most ${fmt(b.value)} (a reading below resolution): cannot confirm it reaches ${fmt(minimum)}.`,
+      );
   };
   if (input.piNotRequired && pi !== null) {
-    notes.push(`The 1-minute reading corrected to 40 °C is above ${IEEE43_PI_NOT_REQUIRED_ABOVE_MEGOHMS} MΩ: IEEE Std 43 does not need the PI to judge this insulation.`);
+    notes.push(
+      `The 1-minute reading corrected to 40 °C is above ${IEEE43_PI_NOT_REQUIRED_ABOVE_MEGOHMS} MΩ: IEEE Std 43 does not need the PI to judge this insulation.`,
+    );
   } else ratio("Polarization index", pi, minPi);
   ratio("Absorption ratio", dar, minDar);
   if (reasons.length > 0) return { verdict: "investigate", reasons, notes };

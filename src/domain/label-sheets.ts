@@ -31,28 +31,78 @@ const IN = 25.4;
 
 export const LABEL_SHEETS = [
   {
-    id: "a4-21", label: "A4, 21 labels (3 × 7), 63.5 × 38.1 mm", pageWidth: 210, pageHeight: 297, cols: 3, rows: 7,
-    labelWidth: 63.5, labelHeight: 38.1, top: 15.15, left: 7.2, pitchX: 66.0, pitchY: 38.1,
+    id: "a4-21",
+    label: "A4, 21 labels (3 × 7), 63.5 × 38.1 mm",
+    pageWidth: 210,
+    pageHeight: 297,
+    cols: 3,
+    rows: 7,
+    labelWidth: 63.5,
+    labelHeight: 38.1,
+    top: 15.15,
+    left: 7.2,
+    pitchX: 66.0,
+    pitchY: 38.1,
     source: "Common A4 21-up address-label layout, from memory (common practice)",
   },
   {
-    id: "a4-24", label: "A4, 24 labels (3 × 8), 63.5 × 33.9 mm", pageWidth: 210, pageHeight: 297, cols: 3, rows: 8,
-    labelWidth: 63.5, labelHeight: 33.9, top: 12.9, left: 7.2, pitchX: 66.0, pitchY: 33.9,
+    id: "a4-24",
+    label: "A4, 24 labels (3 × 8), 63.5 × 33.9 mm",
+    pageWidth: 210,
+    pageHeight: 297,
+    cols: 3,
+    rows: 8,
+    labelWidth: 63.5,
+    labelHeight: 33.9,
+    top: 12.9,
+    left: 7.2,
+    pitchX: 66.0,
+    pitchY: 33.9,
     source: "Common A4 24-up address-label layout, from memory (common practice)",
   },
   {
-    id: "letter-30", label: "US Letter, 30 labels (3 × 10), 2⅝ × 1 in", pageWidth: 8.5 * IN, pageHeight: 11 * IN, cols: 3, rows: 10,
-    labelWidth: 2.625 * IN, labelHeight: 1 * IN, top: 0.5 * IN, left: 0.1875 * IN, pitchX: 2.75 * IN, pitchY: 1 * IN,
+    id: "letter-30",
+    label: "US Letter, 30 labels (3 × 10), 2⅝ × 1 in",
+    pageWidth: 8.5 * IN,
+    pageHeight: 11 * IN,
+    cols: 3,
+    rows: 10,
+    labelWidth: 2.625 * IN,
+    labelHeight: 1 * IN,
+    top: 0.5 * IN,
+    left: 0.1875 * IN,
+    pitchX: 2.75 * IN,
+    pitchY: 1 * IN,
     source: "Common US Letter 30-up address-label layout, from memory (common practice)",
   },
   {
-    id: "letter-10", label: "US Letter, 10 labels (2 × 5), 4 × 2 in", pageWidth: 8.5 * IN, pageHeight: 11 * IN, cols: 2, rows: 5,
-    labelWidth: 4 * IN, labelHeight: 2 * IN, top: 0.5 * IN, left: 0.15625 * IN, pitchX: 4.1875 * IN, pitchY: 2 * IN,
+    id: "letter-10",
+    label: "US Letter, 10 labels (2 × 5), 4 × 2 in",
+    pageWidth: 8.5 * IN,
+    pageHeight: 11 * IN,
+    cols: 2,
+    rows: 5,
+    labelWidth: 4 * IN,
+    labelHeight: 2 * IN,
+    top: 0.5 * IN,
+    left: 0.15625 * IN,
+    pitchX: 4.1875 * IN,
+    pitchY: 2 * IN,
     source: "Common US Letter 10-up shipping-label layout, from memory (common practice)",
   },
   {
-    id: "thermal-50x25", label: "Thermal label printer, 50 × 25 mm, one per label", pageWidth: 50, pageHeight: 25, cols: 1, rows: 1,
-    labelWidth: 50, labelHeight: 25, top: 0, left: 0, pitchX: 50, pitchY: 25,
+    id: "thermal-50x25",
+    label: "Thermal label printer, 50 × 25 mm, one per label",
+    pageWidth: 50,
+    pageHeight: 25,
+    cols: 1,
+    rows: 1,
+    labelWidth: 50,
+    labelHeight: 25,
+    top: 0,
+    left: 0,
+    pitchX: 50,
+    pitchY: 25,
     source: "A common small thermal label size (common practice): the page is the label",
   },
 ] as const satisfies readonly LabelSheet[];
@@ -80,7 +130,8 @@ export interface LabelSlot {
  */
 export function labelSlots(sheet: LabelSheet, count: number, start = 1): LabelSlot[] {
   const perSheet = sheet.cols * sheet.rows;
-  if (!Number.isInteger(start) || start < 1 || start > perSheet) throw new RangeError(`start must be 1…${perSheet} for this sheet`);
+  if (!Number.isInteger(start) || start < 1 || start > perSheet)
+    throw new RangeError(`start must be 1…${perSheet} for this sheet`);
   if (!Number.isInteger(count) || count < 0) throw new RangeError("count must be a whole number ≥ 0");
   const slots: LabelSlot[] = [];
   for (let i = 0; i < count; i++) {
@@ -99,7 +150,12 @@ export function sheetFits(sheet: LabelSheet): boolean {
   const eps = 0.01;
   const right = sheet.left + (sheet.cols - 1) * sheet.pitchX + sheet.labelWidth;
   const bottom = sheet.top + (sheet.rows - 1) * sheet.pitchY + sheet.labelHeight;
-  return right <= sheet.pageWidth + eps && bottom <= sheet.pageHeight + eps && sheet.pitchX + eps >= sheet.labelWidth && sheet.pitchY + eps >= sheet.labelHeight;
+  return (
+    right <= sheet.pageWidth + eps &&
+    bottom <= sheet.pageHeight + eps &&
+    sheet.pitchX + eps >= sheet.labelWidth &&
+    sheet.pitchY + eps >= sheet.labelHeight
+  );
 }
 
 /** The short URL a tag's QR code carries: `<base>/t/<tag>`. */

@@ -48,7 +48,8 @@ export function canMovePart(from: PartStatus, to: PartStatus): boolean {
   return MOVES[from].includes(to);
 }
 
-export const nextPartStatuses = (from: PartStatus): readonly PartStatus[] => MOVES[requireOneOf("from", from, PART_STATUSES)];
+export const nextPartStatuses = (from: PartStatus): readonly PartStatus[] =>
+  MOVES[requireOneOf("from", from, PART_STATUSES)];
 
 /**
  * Key of a need against a line: partSpecKey of the spec under the line's must-match list,
@@ -62,7 +63,10 @@ export function needKey(spec: PartSpec, need?: string | null): string {
 }
 
 /** True when a need joins a line whose spec and must-match list are given. */
-export function needMatchesLine(need: { spec: PartSpec; need?: string | null }, line: { spec: PartSpec; need?: string | null }): boolean {
+export function needMatchesLine(
+  need: { spec: PartSpec; need?: string | null },
+  line: { spec: PartSpec; need?: string | null },
+): boolean {
   const mustMatch = line.spec.mustMatch;
   return needKey({ ...need.spec, mustMatch }, need.need) === needKey(line.spec, line.need);
 }
@@ -91,9 +95,13 @@ const round2 = (x: number) => Math.round(x * 100) / 100;
  * rounded to cents. Proportional allocation: common practice.
  * @throws RangeError for a negative quantity, cost or spend
  */
-export function budgetByBoard(lines: readonly BudgetLineInput[]): { rows: BudgetRow[]; total: { estimated: number; spent: number } } {
+export function budgetByBoard(lines: readonly BudgetLineInput[]): {
+  rows: BudgetRow[];
+  total: { estimated: number; spent: number };
+} {
   const rows = new Map<string, BudgetRow>();
-  const row = (b: string) => rows.get(b) ?? rows.set(b, { boardId: b, estimated: 0, spent: 0, unestimatedLines: 0 }).get(b)!;
+  const row = (b: string) =>
+    rows.get(b) ?? rows.set(b, { boardId: b, estimated: 0, spent: 0, unestimatedLines: 0 }).get(b)!;
   for (const line of lines) {
     requireNumber("spent", line.spent, { min: 0 });
     if (line.estimatedUnitCost !== null) requireNumber("estimatedUnitCost", line.estimatedUnitCost, { min: 0 });
@@ -108,7 +116,10 @@ export function budgetByBoard(lines: readonly BudgetLineInput[]): { rows: Budget
     }
   }
   const out = [...rows.values()].map((r) => ({ ...r, estimated: round2(r.estimated), spent: round2(r.spent) }));
-  const total = out.reduce((t, r) => ({ estimated: round2(t.estimated + r.estimated), spent: round2(t.spent + r.spent) }), { estimated: 0, spent: 0 });
+  const total = out.reduce(
+    (t, r) => ({ estimated: round2(t.estimated + r.estimated), spent: round2(t.spent + r.spent) }),
+    { estimated: 0, spent: 0 },
+  );
   return { rows: out, total };
 }
 

@@ -89,7 +89,9 @@ export interface DemandLine {
  * Lines come out in the order their first need appears.
  * @throws RangeError for a quantity that is not a whole number ≥ 1, or a bad spec
  */
-export function aggregateDemand(items: ReadonlyArray<{ spec: PartSpec; positionId?: string; qty: number }>): DemandLine[] {
+export function aggregateDemand(
+  items: ReadonlyArray<{ spec: PartSpec; positionId?: string; qty: number }>,
+): DemandLine[] {
   const lines = new Map<string, DemandLine>();
   for (const item of items) {
     requireNumber("qty", item.qty, { min: 1 });
@@ -97,7 +99,8 @@ export function aggregateDemand(items: ReadonlyArray<{ spec: PartSpec; positionI
     const key = partSpecKey(item.spec);
     const line = lines.get(key) ?? { key, spec: item.spec, qty: 0, positionIds: [] };
     line.qty += item.qty;
-    if (item.positionId !== undefined && !line.positionIds.includes(item.positionId)) line.positionIds.push(item.positionId);
+    if (item.positionId !== undefined && !line.positionIds.includes(item.positionId))
+      line.positionIds.push(item.positionId);
     lines.set(key, line);
   }
   return [...lines.values()];

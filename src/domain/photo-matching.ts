@@ -18,7 +18,10 @@ export type MatchResult =
 
 /** Separators a camera or a person uses interchangeably: - _ . space and / become "-". */
 export function normalizeToken(s: string): string {
-  return s.trim().toLowerCase().replace(/[\s_./\\-]+/g, "-");
+  return s
+    .trim()
+    .toLowerCase()
+    .replace(/[\s_./\\-]+/g, "-");
 }
 
 /** The name without its extension, normalised; the token must stand alone (no letter or digit glued on). */
@@ -41,13 +44,17 @@ export function matchFileName(fileName: string, targets: MatchTarget[], boardId?
   const tags = targets.filter((t) => t.tagNumber && containsToken(name, normalizeToken(t.tagNumber)));
   if (tags.length) {
     const best = longest(tags, (t) => normalizeToken(t.tagNumber!));
-    return best.length === 1 ? { kind: "tag", positionId: best[0].positionId, matched: best[0].tagNumber! } : { kind: "ambiguous", candidates: best.map((t) => t.positionId), matched: best[0].tagNumber! };
+    return best.length === 1
+      ? { kind: "tag", positionId: best[0].positionId, matched: best[0].tagNumber! }
+      : { kind: "ambiguous", candidates: best.map((t) => t.positionId), matched: best[0].tagNumber! };
   }
   const pool = boardId ? targets.filter((t) => t.boardId === boardId) : targets;
   const des = pool.filter((t) => containsToken(name, normalizeToken(t.designation)));
   if (!des.length) return { kind: "none" };
   const best = longest(des, (t) => normalizeToken(t.designation));
-  return best.length === 1 ? { kind: "designation", positionId: best[0].positionId, matched: best[0].designation } : { kind: "ambiguous", candidates: best.map((t) => t.positionId), matched: best[0].designation };
+  return best.length === 1
+    ? { kind: "designation", positionId: best[0].positionId, matched: best[0].designation }
+    : { kind: "ambiguous", candidates: best.map((t) => t.positionId), matched: best[0].designation };
 }
 
 function longest<T>(xs: T[], key: (x: T) => string): T[] {
@@ -59,7 +66,13 @@ function longest<T>(xs: T[], key: (x: T) => string): T[] {
 export function searchTargets<T extends MatchTarget>(typed: string, targets: T[], limit = 8): T[] {
   const q = normalizeToken(typed);
   if (!q) return [];
-  const exact = targets.filter((t) => normalizeToken(t.designation) === q || (t.tagNumber && normalizeToken(t.tagNumber) === q));
-  const prefix = targets.filter((t) => !exact.includes(t) && (normalizeToken(t.designation).startsWith(q) || (t.tagNumber && normalizeToken(t.tagNumber).startsWith(q))));
+  const exact = targets.filter(
+    (t) => normalizeToken(t.designation) === q || (t.tagNumber && normalizeToken(t.tagNumber) === q),
+  );
+  const prefix = targets.filter(
+    (t) =>
+      !exact.includes(t) &&
+      (normalizeToken(t.designation).startsWith(q) || (t.tagNumber && normalizeToken(t.tagNumber).startsWith(q))),
+  );
   return [...exact, ...prefix].slice(0, limit);
 }

@@ -9,11 +9,21 @@ import { requireNumber, requireOneOf } from "./guards";
 export const PARTS_AVAILABILITY = ["in_hand", "wanted", "none_needed", "unobtainable"] as const;
 export type PartsAvailability = (typeof PARTS_AVAILABILITY)[number];
 
-export const SEVERITY_POINTS: Record<DefectSeverity, number> = { cosmetic: 10, degraded: 25, impaired: 45, disabling: 70 };
+export const SEVERITY_POINTS: Record<DefectSeverity, number> = {
+  cosmetic: 10,
+  degraded: 25,
+  impaired: 45,
+  disabling: 70,
+};
 export const SAFETY_POINTS = 40;
 export const BLOCKING_POINTS = 25;
 export const HERITAGE_POINTS = 10;
-export const PARTS_POINTS: Record<PartsAvailability, number> = { in_hand: 10, none_needed: 10, wanted: 0, unobtainable: -10 };
+export const PARTS_POINTS: Record<PartsAvailability, number> = {
+  in_hand: 10,
+  none_needed: 10,
+  wanted: 0,
+  unobtainable: -10,
+};
 /** Effort penalty: EFFORT_SCALE · log2(1 + hours), rounded, capped at EFFORT_CAP. */
 export const EFFORT_SCALE = 8;
 export const EFFORT_CAP = 30;
@@ -56,14 +66,20 @@ export function priorityScore(input: PriorityInput): { score: number; terms: Pri
   requireOneOf("partsAvailable", input.partsAvailable, PARTS_AVAILABILITY);
   const effort = effortPoints(input.effortHours);
   const effortLabel =
-    input.effortHours === null ? `Effort not estimated (counted as ${UNKNOWN_EFFORT_HOURS} h)` : `Effort ${input.effortHours} h`;
+    input.effortHours === null
+      ? `Effort not estimated (counted as ${UNKNOWN_EFFORT_HOURS} h)`
+      : `Effort ${input.effortHours} h`;
   const terms: PriorityTerm[] = [
     { key: "severity", label: `Severity: ${input.severity}`, points: SEVERITY_POINTS[input.severity] },
     { key: "safety", label: "Safety-critical", points: input.safetyCritical ? SAFETY_POINTS : 0 },
     { key: "blocking", label: "Blocks energisation", points: input.blocksEnergisation ? BLOCKING_POINTS : 0 },
     { key: "heritage", label: "Original fabric", points: input.originalFabric ? HERITAGE_POINTS : 0 },
     { key: "effort", label: effortLabel, points: effort },
-    { key: "parts", label: `Parts: ${input.partsAvailable.replace("_", " ")}`, points: PARTS_POINTS[input.partsAvailable] },
+    {
+      key: "parts",
+      label: `Parts: ${input.partsAvailable.replace("_", " ")}`,
+      points: PARTS_POINTS[input.partsAvailable],
+    },
   ];
   return { score: terms.reduce((s, t) => s + t.points, 0), terms };
 }

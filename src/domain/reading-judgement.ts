@@ -6,7 +6,15 @@
  * threshold. Verdicts never say "safe": a qualified person decides (NFPA 70E).
  */
 import { contactResistanceOutliers, CONTACT_DEVIATION_LIMIT } from "./contacts";
-import { BALANCE_TOLERANCE, CAPACITANCE_UNCERTAINTY, faultEstimateRange, locateGround, suspectPhaseFromLamps, type LampState, type Phase } from "./ground-detection";
+import {
+  BALANCE_TOLERANCE,
+  CAPACITANCE_UNCERTAINTY,
+  faultEstimateRange,
+  locateGround,
+  suspectPhaseFromLamps,
+  type LampState,
+  type Phase,
+} from "./ground-detection";
 import { requireNumber, requirePositive } from "./guards";
 import {
   DEW_POINT_MARGIN_K,
@@ -25,7 +33,14 @@ import {
   type ReadingQualifier,
   type ThermalClass,
 } from "./insulation";
-import { classifyTemperatureRise, LOAD_SCALING_EXPONENT, LOW_LOAD_PERCENT, scaleRiseToRatedLoad, THERMAL_ACTIONS, type ThermalLevel } from "./thermal";
+import {
+  classifyTemperatureRise,
+  LOAD_SCALING_EXPONENT,
+  LOW_LOAD_PERCENT,
+  scaleRiseToRatedLoad,
+  THERMAL_ACTIONS,
+  type ThermalLevel,
+} from "./thermal";
 
 /** "not_valid": taken at or near the dew point or below freezing — kept, shown, never judged on. */
 export type Verdict = InsulationVerdict | "not_valid";
@@ -87,12 +102,19 @@ const fmt = (n: number) => Number(n.toPrecision(3)).toString();
  * IEEE 43: R40 = R·0.5^((40 − T)/10); NETA: R20 = R·F(T) (Table 100.14, interpolated).
  * @throws RangeError when the temperature is outside the method's range
  */
-export function correctInsulation(megohms: number, temperatureC: number, c: Pick<ReadingCriteria, "correctionMethod" | "insulationMedium">) {
+export function correctInsulation(
+  megohms: number,
+  temperatureC: number,
+  c: Pick<ReadingCriteria, "correctionMethod" | "insulationMedium">,
+) {
   if (c.correctionMethod === "ieee43_40c") {
     return {
       correctedMegohms: ieee43CorrectionTo40C(megohms, temperatureC),
       baseTemperatureC: 40,
-      source: { table: "IEEE Std 43, temperature correction to 40 °C", text: `R40 = R × 0.5^((40 − ${fmt(temperatureC)})/10)` },
+      source: {
+        table: "IEEE Std 43, temperature correction to 40 °C",
+        text: `R40 = R × 0.5^((40 − ${fmt(temperatureC)})/10)`,
+      },
     };
   }
   requireNumber("megohms", megohms, { min: 0 });
@@ -114,10 +136,20 @@ export function correctInsulation(megohms: number, temperatureC: number, c: Pick
 export function insulationMinimum(ratedVolts: number, c: ReadingCriteria, maker?: ManufacturerValue | null) {
   const table = netaMinimumInsulation(ratedVolts);
   if (maker?.minimumMegohms != null) {
-    return { minMegohms: maker.minimumMegohms, recommendedTestVoltsDc: table.testVoltsDc, from: "manufacturer" as const, source: { table: "Manufacturer's value", text: maker.source } };
+    return {
+      minMegohms: maker.minimumMegohms,
+      recommendedTestVoltsDc: table.testVoltsDc,
+      from: "manufacturer" as const,
+      source: { table: "Manufacturer's value", text: maker.source },
+    };
   }
   if (c.minimumMegohms != null) {
-    return { minMegohms: c.minimumMegohms, recommendedTestVoltsDc: table.testVoltsDc, from: "site" as const, source: { table: "Site criterion set by the curator", text: c.minimumSource || "No source text given" } };
+    return {
+      minMegohms: c.minimumMegohms,
+      recommendedTestVoltsDc: table.testVoltsDc,
+      from: "site" as const,
+      source: { table: "Site criterion set by the curator", text: c.minimumSource || "No source text given" },
+    };
   }
   return {
     minMegohms: table.minMegohms,
@@ -151,30 +183,57 @@ export interface InsulationReadingInput {
  * Order of the verdict: judgeInsulation (below minimum → PI/DAR low → meets).
  * @throws RangeError for a temperature outside the method's range or impossible values
  */
-export function judgeInsulationReading(r: InsulationReadingInput, c: ReadingCriteria, maker?: ManufacturerValue | null) {
+export function judgeInsulationReading(
+  r: InsulationReadingInput,
+  c: ReadingCriteria,
+  maker?: ManufacturerValue | null,
+) {
   const corrected = correctInsulation(r.megohms, r.equipmentTempC, c);
   const minimum = insulationMinimum(r.ratedVolts, c, maker);
   const q = (v: number, qualifier?: ReadingQualifier | null) => ({ megohms: v, qualifier: qualifier ?? null });
-  const piBound = r.r1min != null && r.r10min != null ? qualifiedRatio(q(r.r1min, r.r1minQualifier), q(r.r10min, r.r10minQualifier)) : null;
-  const darBound = r.r30s != null && r.r1min != null ? qualifiedRatio(q(r.r30s, r.r30sQualifier), q(r.r1min, r.r1minQualifier)) : null;
+  const piBound =
+    r.r1min != null && r.r10min != null
+      ? qualifiedRatio(q(r.r1min, r.r1minQualifier), q(r.r10min, r.r10minQualifier))
+      : null;
+  const darBound =
+    r.r30s != null && r.r1min != null ? qualifiedRatio(q(r.r30s, r.r30sQualifier), q(r.r1min, r.r1minQualifier)) : null;
   const minimumPi = minimumPolarizationIndex(c.thermalClass);
   // IEEE 43: above 5 000 MΩ at 40 °C (1-minute reading) the PI is not needed to judge.
-  const r1At40 = r.r1min != null && r.equipmentTempC >= IEEE43_RANGE_C.min && r.equipmentTempC <= IEEE43_RANGE_C.max ? ieee43CorrectionTo40C(r.r1min, r.equipmentTempC) : null;
-  const piNotRequired = r1At40 !== null && r1At40 > IEEE43_PI_NOT_REQUIRED_ABOVE_MEGOHMS && r.r1minQualifier !== "below";
+  const r1At40 =
+    r.r1min != null && r.equipmentTempC >= IEEE43_RANGE_C.min && r.equipmentTempC <= IEEE43_RANGE_C.max
+      ? ieee43CorrectionTo40C(r.r1min, r.equipmentTempC)
+      : null;
+  const piNotRequired =
+    r1At40 !== null && r1At40 > IEEE43_PI_NOT_REQUIRED_ABOVE_MEGOHMS && r.r1minQualifier !== "below";
   const j = judgeInsulation({
-    correctedMegohms: corrected.correctedMegohms, qualifier: r.megohmsQualifier ?? null, minimumMegohms: minimum.minMegohms,
-    pi: piBound, minimumPi, dar: darBound, piNotRequired,
+    correctedMegohms: corrected.correctedMegohms,
+    qualifier: r.megohmsQualifier ?? null,
+    minimumMegohms: minimum.minMegohms,
+    pi: piBound,
+    minimumPi,
+    dar: darBound,
+    piNotRequired,
   });
-  const validity = insulationReadingValidity({ equipmentTempC: r.equipmentTempC, ambientTempC: r.ambientTempC, humidityPercent: r.humidityPercent, marginK: c.dewPointMarginK ?? DEW_POINT_MARGIN_K });
+  const validity = insulationReadingValidity({
+    equipmentTempC: r.equipmentTempC,
+    ambientTempC: r.ambientTempC,
+    humidityPercent: r.humidityPercent,
+    marginK: c.dewPointMarginK ?? DEW_POINT_MARGIN_K,
+  });
   const voltage = testVoltageAdvice(r.ratedVolts, r.testVoltsDc);
   const notes: string[] = [...j.notes];
   if (voltage.note) notes.push(voltage.note);
   if (c.correctionMethod === "ieee43_40c" && minimum.from === "table") {
-    notes.push("NETA's minimums are for 20 °C; a value corrected to 40 °C is lower, so this comparison errs on the strict side.");
+    notes.push(
+      "NETA's minimums are for 20 °C; a value corrected to 40 °C is lower, so this comparison errs on the strict side.",
+    );
   }
-  if (r.ambientTempC == null || r.humidityPercent == null) notes.push("No ambient temperature and humidity: the dew point could not be checked.");
+  if (r.ambientTempC == null || r.humidityPercent == null)
+    notes.push("No ambient temperature and humidity: the dew point could not be checked.");
   const verdict: Verdict = validity.valid ? j.verdict : "not_valid";
-  const reasons = validity.valid ? j.reasons : [...validity.reasons, `Not judged; the numbers alone: ${j.reasons.join(" ")}`];
+  const reasons = validity.valid
+    ? j.reasons
+    : [...validity.reasons, `Not judged; the numbers alone: ${j.reasons.join(" ")}`];
   return {
     correctedMegohms: corrected.correctedMegohms,
     qualifier: r.megohmsQualifier ?? null,
@@ -187,7 +246,10 @@ export function judgeInsulationReading(r: InsulationReadingInput, c: ReadingCrit
     darBound: darBound?.bound ?? null,
     piNotRequired,
     minimumPi,
-    piSource: { table: "IEEE Std 43, recommended minimum polarization index", text: `Thermal class ${c.thermalClass}: PI at least ${minimumPi}` },
+    piSource: {
+      table: "IEEE Std 43, recommended minimum polarization index",
+      text: `Thermal class ${c.thermalClass}: PI at least ${minimumPi}`,
+    },
     validForJudging: validity.valid,
     dewPointC: validity.dewPointC,
     validitySource: {
@@ -218,7 +280,11 @@ export function contactOutliersAt(microOhms: readonly number[], percent: number)
 }
 
 /** Verdict for one set of pole readings: outliers or poles above a manufacturer's maximum → investigate. */
-export function judgeContactReading(poleMicroOhms: readonly number[], c: Pick<ReadingCriteria, "contactOutlierPercent">, maker?: ManufacturerValue | null) {
+export function judgeContactReading(
+  poleMicroOhms: readonly number[],
+  c: Pick<ReadingCriteria, "contactOutlierPercent">,
+  maker?: ManufacturerValue | null,
+) {
   const outliers = contactOutliersAt(poleMicroOhms, c.contactOutlierPercent);
   const lowest = Math.min(...poleMicroOhms);
   const limitMicroOhms = lowest * (1 + c.contactOutlierPercent / 100);
@@ -226,11 +292,19 @@ export function judgeContactReading(poleMicroOhms: readonly number[], c: Pick<Re
   const overMax = max == null ? [] : poleMicroOhms.flatMap((v, i) => (v > max ? [i] : []));
   const reasons: string[] = [];
   const pole = (i: number) => `Pole ${i + 1}`;
-  for (const i of outliers) reasons.push(`${pole(i)} (${fmt(poleMicroOhms[i])} µΩ) is more than ${fmt(c.contactOutlierPercent)} % above the lowest pole (${fmt(lowest)} µΩ).`);
-  for (const i of overMax) reasons.push(`${pole(i)} (${fmt(poleMicroOhms[i])} µΩ) is above the manufacturer's ${fmt(max!)} µΩ.`);
-  if (reasons.length === 0) reasons.push(`Every pole is within ${fmt(c.contactOutlierPercent)} % of the lowest (${fmt(lowest)} µΩ).`);
+  for (const i of outliers)
+    reasons.push(
+      `${pole(i)} (${fmt(poleMicroOhms[i])} µΩ) is more than ${fmt(c.contactOutlierPercent)} % above the lowest pole (${fmt(lowest)} µΩ).`,
+    );
+  for (const i of overMax)
+    reasons.push(`${pole(i)} (${fmt(poleMicroOhms[i])} µΩ) is above the manufacturer's ${fmt(max!)} µΩ.`);
+  if (reasons.length === 0)
+    reasons.push(`Every pole is within ${fmt(c.contactOutlierPercent)} % of the lowest (${fmt(lowest)} µΩ).`);
   const sources: CriterionSource[] = [
-    { table: "NETA ATS/MTS circuit-breaker tests, contact resistance", text: `Investigate a pole deviating by more than ${fmt(c.contactOutlierPercent)} % of the lowest value` },
+    {
+      table: "NETA ATS/MTS circuit-breaker tests, contact resistance",
+      text: `Investigate a pole deviating by more than ${fmt(c.contactOutlierPercent)} % of the lowest value`,
+    },
   ];
   if (max != null) sources.push({ table: "Manufacturer's value", text: maker!.source });
   return {
@@ -249,21 +323,33 @@ export function judgeContactReading(poleMicroOhms: readonly number[], c: Pick<Re
  * ΔT ∝ (I/I_rated)², common practice) and the more severe of the measured and scaled
  * levels is the level. Scans under 40 % load carry a warning (common practice).
  */
-export function judgeThermalScan(s: { componentTempC: number; similarTempC?: number | null; ambientTempC?: number | null; loadPercent?: number | null }) {
+export function judgeThermalScan(s: {
+  componentTempC: number;
+  similarTempC?: number | null;
+  ambientTempC?: number | null;
+  loadPercent?: number | null;
+}) {
   const t = requireNumber("componentTempC", s.componentTempC);
   const overSimilarC = s.similarTempC == null ? undefined : t - requireNumber("similarTempC", s.similarTempC);
   const overAmbientC = s.ambientTempC == null ? undefined : t - requireNumber("ambientTempC", s.ambientTempC);
   const measured = classifyTemperatureRise({ overSimilarC, overAmbientC });
   const load = s.loadPercent != null && s.loadPercent > 0 ? s.loadPercent : null;
-  const scale = (rise: number | undefined) => (rise === undefined || load === null ? undefined : scaleRiseToRatedLoad(rise, Math.min(load, 200)).scaledRiseC);
+  const scale = (rise: number | undefined) =>
+    rise === undefined || load === null ? undefined : scaleRiseToRatedLoad(rise, Math.min(load, 200)).scaledRiseC;
   const scaledSimilarC = load !== null && load < 100 ? scale(overSimilarC) : undefined;
   const scaledAmbientC = load !== null && load < 100 ? scale(overAmbientC) : undefined;
-  const scaled = scaledSimilarC !== undefined || scaledAmbientC !== undefined ? classifyTemperatureRise({ overSimilarC: scaledSimilarC, overAmbientC: scaledAmbientC }) : null;
+  const scaled =
+    scaledSimilarC !== undefined || scaledAmbientC !== undefined
+      ? classifyTemperatureRise({ overSimilarC: scaledSimilarC, overAmbientC: scaledAmbientC })
+      : null;
   const level = Math.max(measured.level, scaled?.level ?? 0) as ThermalLevel;
   const action = THERMAL_ACTIONS[level];
   const warnings: string[] = [];
   if (load === null) warnings.push("Load not recorded: the rise cannot be scaled to rated load.");
-  else if (load < LOW_LOAD_PERCENT) warnings.push(`Scanned at ${fmt(load)} % load: below about ${LOW_LOAD_PERCENT} % a scan shows little, and scaling to full load magnifies every error (common practice). Re-scan under more load.`);
+  else if (load < LOW_LOAD_PERCENT)
+    warnings.push(
+      `Scanned at ${fmt(load)} % load: below about ${LOW_LOAD_PERCENT} % a scan shows little, and scaling to full load magnifies every error (common practice). Re-scan under more load.`,
+    );
   return {
     overSimilarC: overSimilarC ?? null,
     overAmbientC: overAmbientC ?? null,
@@ -277,7 +363,11 @@ export function judgeThermalScan(s: { componentTempC: number; similarTempC?: num
     verdict: (level === 0 ? "meets" : "investigate") as Verdict,
     source: {
       table: "NETA ATS/MTS Table 100.18, thermographic survey suggested actions",
-      text: `Level ${level}: ${action}` + (scaled ? `. Rises scaled to rated load by (100 / ${fmt(load!)} %)^${LOAD_SCALING_EXPONENT} (ΔT ∝ I², common practice)` : ""),
+      text:
+        `Level ${level}: ${action}` +
+        (scaled
+          ? `. Rises scaled to rated load by (100 / ${fmt(load!)} %)^${LOAD_SCALING_EXPONENT} (ΔT ∝ I², common practice)`
+          : ""),
     },
   };
 }
@@ -319,20 +409,33 @@ export function judgeGroundCheck(g: GroundCheckInput) {
     const values = PHASE_LIST.map((p) => g.volts![p]);
     const balanced = Math.max(...values) - Math.min(...values) <= BALANCE_TOLERANCE * vPh;
     const v = (p: Phase) => `${fmt(g.volts![p])} V`;
-    const range = found.phase && g.branchOhms != null
-      ? faultEstimateRange({ lineVolts: g.lineVolts, faultedVolts: g.volts[found.phase], branchOhms: g.branchOhms, capacitanceMicroF: g.capacitanceMicroF, frequencyHz: g.frequencyHz ?? 60 })
-      : null;
+    const range =
+      found.phase && g.branchOhms != null
+        ? faultEstimateRange({
+            lineVolts: g.lineVolts,
+            faultedVolts: g.volts[found.phase],
+            branchOhms: g.branchOhms,
+            capacitanceMicroF: g.capacitanceMicroF,
+            frequencyHz: g.frequencyHz ?? 60,
+          })
+        : null;
     const ohms = (x: number | null) => (x == null ? "?" : `${fmt(x)} Ω`);
-    const rangeWords = !range ? ""
+    const rangeWords = !range
+      ? ""
       : range.capacitanceNeglected
         ? ` Estimated fault resistance at most about ${ohms(range.highOhms)} (lamp model without the system's capacitance, which only lowers it: enter the capacitance per phase for a range).`
         : ` Estimated fault resistance ${ohms(range.lowOhms)} to ${ohms(range.highOhms)}, about ${ohms(range.centralOhms)} (lamp model with ${fmt(g.capacitanceMicroF!)} µF per phase ± ${CAPACITANCE_UNCERTAINTY * 100} %).`;
     const words = found.phase
-      ? `Phase ${found.phase} lamp at ${v(found.phase)} to ground, ${othersInWords(found.phase, v)}: suspect a ground on phase ${found.phase}${hull}.` + rangeWords
+      ? `Phase ${found.phase} lamp at ${v(found.phase)} to ground, ${othersInWords(found.phase, v)}: suspect a ground on phase ${found.phase}${hull}.` +
+        rangeWords
       : found.reason;
     return {
-      phase: found.phase, faultOhms: range ? (range.centralOhms ?? range.highOhms) : found.faultOhms, faultRange: range,
-      words, verdict: (balanced ? "meets" : "investigate") as Verdict, source: GROUND_SOURCE,
+      phase: found.phase,
+      faultOhms: range ? (range.centralOhms ?? range.highOhms) : found.faultOhms,
+      faultRange: range,
+      words,
+      verdict: (balanced ? "meets" : "investigate") as Verdict,
+      source: GROUND_SOURCE,
     };
   }
   if (!g.lamps) throw new RangeError("give the lamps' look or their volts to ground");
@@ -342,7 +445,14 @@ export function judgeGroundCheck(g: GroundCheckInput) {
   const words = found.phase
     ? `Phase ${found.phase} lamp ${g.lamps[found.phase]}, ${othersInWords(found.phase, (p) => g.lamps![p])}: suspect a ground on phase ${found.phase}${hull}.`
     : found.reason;
-  return { phase: found.phase, faultOhms: null, faultRange: null, words, verdict: (balanced ? "meets" : "investigate") as Verdict, source: GROUND_SOURCE };
+  return {
+    phase: found.phase,
+    faultOhms: null,
+    faultRange: null,
+    words,
+    verdict: (balanced ? "meets" : "investigate") as Verdict,
+    source: GROUND_SOURCE,
+  };
 }
 
 const GROUND_SOURCE: CriterionSource = {

@@ -30,7 +30,17 @@ export const STAGE_STATUS_LABELS: Record<StageStatus, string> = {
 };
 
 export const STEP_KINDS = [
-  "isolate", "insulation", "defects", "protection", "clearance", "energise", "ground_lamps", "thermal", "watch", "release", "custom",
+  "isolate",
+  "insulation",
+  "defects",
+  "protection",
+  "clearance",
+  "energise",
+  "ground_lamps",
+  "thermal",
+  "watch",
+  "release",
+  "custom",
 ] as const;
 export type StepKind = (typeof STEP_KINDS)[number];
 export const STEP_KIND_LABELS: Record<StepKind, string> = {
@@ -66,21 +76,71 @@ export interface TemplateStep {
  * the board's rating, watch the ground lamps, scan after warm-up, watch before the next stage).
  */
 export const DEFAULT_TEMPLATE: TemplateStep[] = [
-  { kind: "isolate", title: "Isolate and prove dead", detail: "Lockout/tagout applied at every source of supply; absence of voltage tested with a proven tester (NFPA 70E Article 120, from memory)." },
-  { kind: "insulation", title: "Insulation resistance of every circuit meets its criterion", detail: "Each circuit in the stage has a recent reading meeting the recorded criterion, and none has fallen since the one before." },
-  { kind: "defects", title: "Energisation-blocking defects closed", detail: "No open safety-critical or energisation-blocking defect on the stage's positions." },
-  { kind: "protection", title: "Temporary protection fitted and its rating recorded", detail: "The device in front of the stage and its rating in amperes, at or below the stage's limit." },
-  { kind: "clearance", title: "Personnel clear and outside the arc-flash boundary", detail: "Everyone accounted for; whoever operates does so from a safe position outside the arc-flash boundary (NFPA 70E 130.5, from memory)." },
+  {
+    kind: "isolate",
+    title: "Isolate and prove dead",
+    detail:
+      "Lockout/tagout applied at every source of supply; absence of voltage tested with a proven tester (NFPA 70E Article 120, from memory).",
+  },
+  {
+    kind: "insulation",
+    title: "Insulation resistance of every circuit meets its criterion",
+    detail:
+      "Each circuit in the stage has a recent reading meeting the recorded criterion, and none has fallen since the one before.",
+  },
+  {
+    kind: "defects",
+    title: "Energisation-blocking defects closed",
+    detail: "No open safety-critical or energisation-blocking defect on the stage's positions.",
+  },
+  {
+    kind: "protection",
+    title: "Temporary protection fitted and its rating recorded",
+    detail: "The device in front of the stage and its rating in amperes, at or below the stage's limit.",
+  },
+  {
+    kind: "clearance",
+    title: "Personnel clear and outside the arc-flash boundary",
+    detail:
+      "Everyone accounted for; whoever operates does so from a safe position outside the arc-flash boundary (NFPA 70E 130.5, from memory).",
+  },
   { kind: "energise", title: "Energise", detail: "A qualified person energises the stage from the recorded supply." },
-  { kind: "ground_lamps", title: "Ground-detection lamps checked", detail: "Three equal lamps: no ground shown. A dim or dark lamp points at a ground on that phase — stop and trace it." },
-  { kind: "thermal", title: "Warm-up, then thermal scan of the stage and its feeder", detail: "After warm-up under load, scan the stage and trace its feeder for local versus spread heating." },
-  { kind: "watch", title: "Watch period", detail: "Left energised under watch, with checks at the set interval, before the next stage." },
-  { kind: "release", title: "Release of the stage", detail: "A qualified person releases the stage; the next one may then be prepared." },
+  {
+    kind: "ground_lamps",
+    title: "Ground-detection lamps checked",
+    detail:
+      "Three equal lamps: no ground shown. A dim or dark lamp points at a ground on that phase — stop and trace it.",
+  },
+  {
+    kind: "thermal",
+    title: "Warm-up, then thermal scan of the stage and its feeder",
+    detail: "After warm-up under load, scan the stage and trace its feeder for local versus spread heating.",
+  },
+  {
+    kind: "watch",
+    title: "Watch period",
+    detail: "Left energised under watch, with checks at the set interval, before the next stage.",
+  },
+  {
+    kind: "release",
+    title: "Release of the stage",
+    detail: "A qualified person releases the stage; the next one may then be prepared.",
+  },
 ];
 
 /** Actions of the return-to-service domain (one table, read by server routes and client controls). */
 export const RTS_ACTIONS = [
-  "read", "plan", "sign", "release_blocked", "record_watch", "record_incident", "record_operation", "set_budget", "manage_qualified", "restart", "de_energise",
+  "read",
+  "plan",
+  "sign",
+  "release_blocked",
+  "record_watch",
+  "record_incident",
+  "record_operation",
+  "set_budget",
+  "manage_qualified",
+  "restart",
+  "de_energise",
 ] as const;
 export type RtsAction = (typeof RTS_ACTIONS)[number];
 type Who = Role | "admin";
@@ -120,7 +180,8 @@ export function checkReorder(
 ): { ok: true; order: string[] } | { ok: false; message: string } {
   const from = stages.findIndex((s) => s.id === stageId);
   if (from < 0) throw new RangeError("stageId is not in the plan");
-  if (!Number.isInteger(toIndex) || toIndex < 0 || toIndex >= stages.length) throw new RangeError(`toIndex must be 0…${stages.length - 1}`);
+  if (!Number.isInteger(toIndex) || toIndex < 0 || toIndex >= stages.length)
+    throw new RangeError(`toIndex must be 0…${stages.length - 1}`);
   const order = stages.map((s) => s.id);
   order.splice(from, 1);
   order.splice(toIndex, 0, stageId);

@@ -112,10 +112,26 @@ export interface GateInput {
 }
 
 export type BlockerCode =
-  | "insulation_missing" | "insulation_old" | "insulation_not_met" | "insulation_fell"
-  | "defect_open" | "protection_missing" | "protection_no_limit" | "protection_above_limit"
-  | "no_qualified_person" | "qualification_expired" | "ground_shown" | "depends_on" | "stopped"
-  | "not_energised" | "lamps_not_checked" | "thermal_missing" | "hot_spot" | "watch_running" | "watch_overdue" | "watch_gap";
+  | "insulation_missing"
+  | "insulation_old"
+  | "insulation_not_met"
+  | "insulation_fell"
+  | "defect_open"
+  | "protection_missing"
+  | "protection_no_limit"
+  | "protection_above_limit"
+  | "no_qualified_person"
+  | "qualification_expired"
+  | "ground_shown"
+  | "depends_on"
+  | "stopped"
+  | "not_energised"
+  | "lamps_not_checked"
+  | "thermal_missing"
+  | "hot_spot"
+  | "watch_running"
+  | "watch_overdue"
+  | "watch_gap";
 export interface Blocker {
   code: BlockerCode;
   message: string;
@@ -131,7 +147,8 @@ export interface HoldPoint {
   signoff: GateSignoff | null;
   qualifiedOnly: boolean;
 }
-export type StageState = "released" | "live" | "stopped" | "de_energised" | "ready_to_energise" | "blocked" | "preparing";
+export type StageState =
+  "released" | "live" | "stopped" | "de_energised" | "ready_to_energise" | "blocked" | "preparing";
 export interface GateResult {
   stageId: string;
   state: StageState;
@@ -152,7 +169,12 @@ const daysOld = (fromMs: number, toMs: number) => Math.floor((toMs - fromMs) / D
 const label = (c: GateCircuit) => (c.circuit ? `${c.designation} (${c.circuit})` : c.designation);
 
 /** Insulation blockers for the circuits as of `asOfMs`. */
-export function insulationBlockers(circuits: GateCircuit[], asOfMs: number, maxAgeDays: number, links: GateLinks): Blocker[] {
+export function insulationBlockers(
+  circuits: GateCircuit[],
+  asOfMs: number,
+  maxAgeDays: number,
+  links: GateLinks,
+): Blocker[] {
   if (!(maxAgeDays >= 1)) throw new RangeError("maxReadingAgeDays must be at least 1");
   const out: Blocker[] = [];
   for (const c of circuits) {
@@ -166,16 +188,33 @@ export function insulationBlockers(circuits: GateCircuit[], asOfMs: number, maxA
     }
     const age = asOfMs - ms(latest.measuredAt);
     if (age > maxAgeDays * DAY_MS) {
-      out.push({ code: "insulation_old", message: `${label(c)}: latest insulation reading is ${daysOld(ms(latest.measuredAt), asOfMs)} days old (the site asks for one within ${maxAgeDays}).`, href });
+      out.push({
+        code: "insulation_old",
+        message: `${label(c)}: latest insulation reading is ${daysOld(ms(latest.measuredAt), asOfMs)} days old (the site asks for one within ${maxAgeDays}).`,
+        href,
+      });
       continue;
     }
     if (latest.verdict !== "meets") {
-      out.push({ code: "insulation_not_met", message: `${label(c)}: latest insulation reading does not meet the recorded criterion.`, href });
+      out.push({
+        code: "insulation_not_met",
+        message: `${label(c)}: latest insulation reading does not meet the recorded criterion.`,
+        href,
+      });
       continue;
     }
     const prev = usable[1];
-    if (prev && latest.correctedMegohms != null && prev.correctedMegohms != null && latest.correctedMegohms < prev.correctedMegohms * (1 - FALL_TOLERANCE)) {
-      out.push({ code: "insulation_fell", message: `${label(c)}: insulation resistance fell from ${fmt(prev.correctedMegohms)} to ${fmt(latest.correctedMegohms)} MΩ (corrected) since the reading before.`, href });
+    if (
+      prev &&
+      latest.correctedMegohms != null &&
+      prev.correctedMegohms != null &&
+      latest.correctedMegohms < prev.correctedMegohms * (1 - FALL_TOLERANCE)
+    ) {
+      out.push({
+        code: "insulation_fell",
+        message: `${label(c)}: insulation resistance fell from ${fmt(prev.correctedMegohms)} to ${fmt(latest.correctedMegohms)} MΩ (corrected) since the reading before.`,
+        href,
+      });
     }
   }
   return out;
@@ -185,17 +224,33 @@ export function defectBlockers(defects: GateDefect[], links: GateLinks): Blocker
   return defects
     .filter((d) => d.safetyCritical || d.blocksEnergisation)
     .map((d) => {
-      const flags = [d.safetyCritical && "safety-critical", d.blocksEnergisation && "blocks energisation"].filter(Boolean).join(", ");
-      return { code: "defect_open" as const, message: `D-${d.ref} open${d.designation ? ` on ${d.designation}` : ""}: ${d.title} (${flags}).`, href: links.defect(d.id) };
+      const flags = [d.safetyCritical && "safety-critical", d.blocksEnergisation && "blocks energisation"]
+        .filter(Boolean)
+        .join(", ");
+      return {
+        code: "defect_open" as const,
+        message: `D-${d.ref} open${d.designation ? ` on ${d.designation}` : ""}: ${d.title} (${flags}).`,
+        href: links.defect(d.id),
+      };
     });
 }
 
 export function protectionBlockers(s: GateStage, links: GateLinks): Blocker[] {
   const href = links.stage(s.id);
-  if (s.protectionRatingA == null) return [{ code: "protection_missing", message: "No rating recorded for the protection in front of this stage.", href }];
-  if (s.protectionLimitA == null) return [{ code: "protection_no_limit", message: "No limit set for the protection in front of this stage.", href }];
+  if (s.protectionRatingA == null)
+    return [
+      { code: "protection_missing", message: "No rating recorded for the protection in front of this stage.", href },
+    ];
+  if (s.protectionLimitA == null)
+    return [{ code: "protection_no_limit", message: "No limit set for the protection in front of this stage.", href }];
   if (s.protectionRatingA > s.protectionLimitA)
-    return [{ code: "protection_above_limit", message: `The protection is rated ${fmt(s.protectionRatingA)} A, above the stage's limit of ${fmt(s.protectionLimitA)} A.`, href }];
+    return [
+      {
+        code: "protection_above_limit",
+        message: `The protection is rated ${fmt(s.protectionRatingA)} A, above the stage's limit of ${fmt(s.protectionLimitA)} A.`,
+        href,
+      },
+    ];
   return [];
 }
 
@@ -203,13 +258,30 @@ export function protectionBlockers(s: GateStage, links: GateLinks): Blocker[] {
 export function energiseBlockers(input: GateInput, today: string): Blocker[] {
   const { stage: s, links } = input;
   const out: Blocker[] = [];
-  if (!s.qualifiedPerson) out.push({ code: "no_qualified_person", message: "No qualified person named for this stage.", href: links.stage(s.id) });
+  if (!s.qualifiedPerson)
+    out.push({
+      code: "no_qualified_person",
+      message: "No qualified person named for this stage.",
+      href: links.stage(s.id),
+    });
   else if (!isQualifiedOn(s.qualifiedPerson, today))
-    out.push({ code: "qualification_expired", message: `${s.qualifiedPerson.name}'s qualification expired on ${s.qualifiedPerson.expiresOn}.`, href: links.crew() });
+    out.push({
+      code: "qualification_expired",
+      message: `${s.qualifiedPerson.name}'s qualification expired on ${s.qualifiedPerson.expiresOn}.`,
+      href: links.crew(),
+    });
   if (s.dependsOn && s.dependsOn.status !== "released")
-    out.push({ code: "depends_on", message: `Waits for “${s.dependsOn.name}” to be released.`, href: links.stage(s.dependsOn.id) });
+    out.push({
+      code: "depends_on",
+      message: `Waits for “${s.dependsOn.name}” to be released.`,
+      href: links.stage(s.dependsOn.id),
+    });
   if (input.lamps?.suggestsGround && (!s.energisedAt || ms(input.lamps.at) <= ms(s.energisedAt)))
-    out.push({ code: "ground_shown", message: `The board's latest lamp check suggests a ground: ${input.lamps.words}`, href: input.lamps.source === "ground_check" ? links.groundChecks() : links.watch(s.id) });
+    out.push({
+      code: "ground_shown",
+      message: `The board's latest lamp check suggests a ground: ${input.lamps.words}`,
+      href: input.lamps.source === "ground_check" ? links.groundChecks() : links.watch(s.id),
+    });
   return out;
 }
 
@@ -217,7 +289,13 @@ function stoppedBlocker(input: GateInput): Blocker[] {
   const { stage: s, links } = input;
   if (s.status !== "stopped") return [];
   const last = input.incidents.at(-1);
-  return [{ code: "stopped", message: `Stopped by an incident${last ? `: ${last.summary}` : ""}. The curator starts the stage again once it is dealt with.`, href: last?.defectId ? links.defect(last.defectId) : links.stage(s.id) }];
+  return [
+    {
+      code: "stopped",
+      message: `Stopped by an incident${last ? `: ${last.summary}` : ""}. The curator starts the stage again once it is dealt with.`,
+      href: last?.defectId ? links.defect(last.defectId) : links.stage(s.id),
+    },
+  ];
 }
 
 function afterEnergiseBlockers(kind: StepKind, input: GateInput, nowMs: number): Blocker[] {
@@ -227,21 +305,66 @@ function afterEnergiseBlockers(kind: StepKind, input: GateInput, nowMs: number):
   const since = ms(s.energisedAt);
   if (kind === "ground_lamps") {
     const l = input.lamps;
-    if (!l || ms(l.at) < since) return [{ code: "lamps_not_checked", message: "No lamp check recorded since the stage was energised.", href: links.watch(s.id) }];
-    if (l.suggestsGround) return [{ code: "ground_shown", message: `The latest lamp check suggests a ground: ${l.words}`, href: l.source === "ground_check" ? links.groundChecks() : links.watch(s.id) }];
+    if (!l || ms(l.at) < since)
+      return [
+        {
+          code: "lamps_not_checked",
+          message: "No lamp check recorded since the stage was energised.",
+          href: links.watch(s.id),
+        },
+      ];
+    if (l.suggestsGround)
+      return [
+        {
+          code: "ground_shown",
+          message: `The latest lamp check suggests a ground: ${l.words}`,
+          href: l.source === "ground_check" ? links.groundChecks() : links.watch(s.id),
+        },
+      ];
     return [];
   }
   if (kind === "thermal") {
     const scans = input.thermal.filter((t) => ms(t.at) >= since);
-    if (!scans.length) return [{ code: "thermal_missing", message: "No thermal scan of the stage's positions since it was energised.", href: links.stage(s.id) }];
-    return scans.filter((t) => t.level >= 3).map((t) => ({ code: "hot_spot" as const, message: `${t.designation}: thermal scan at level ${t.level} (NETA Table 100.18).`, href: links.stage(s.id) }));
+    if (!scans.length)
+      return [
+        {
+          code: "thermal_missing",
+          message: "No thermal scan of the stage's positions since it was energised.",
+          href: links.stage(s.id),
+        },
+      ];
+    return scans
+      .filter((t) => t.level >= 3)
+      .map((t) => ({
+        code: "hot_spot" as const,
+        message: `${t.designation}: thermal scan at level ${t.level} (NETA Table 100.18).`,
+        href: links.stage(s.id),
+      }));
   }
   if (kind === "watch") {
-    const w = watchSchedule({ energisedAt: s.energisedAt, watchHours: s.watchHours, checkEveryHours: s.checkEveryHours, checks: input.watchChecks.map((c) => c.at) }, nowMs);
+    const w = watchSchedule(
+      {
+        energisedAt: s.energisedAt,
+        watchHours: s.watchHours,
+        checkEveryHours: s.checkEveryHours,
+        checks: input.watchChecks.map((c) => c.at),
+      },
+      nowMs,
+    );
     const out: Blocker[] = [];
     const href = links.watch(s.id);
-    for (const g of w.gaps) out.push({ code: "watch_gap", message: `No check between ${g.from} and ${g.to} (every ${fmt(s.checkEveryHours)} h asked).`, href });
-    if (w.overdueSince) out.push({ code: "watch_overdue", message: `A watch check was due at ${w.overdueSince} and has not been recorded.`, href });
+    for (const g of w.gaps)
+      out.push({
+        code: "watch_gap",
+        message: `No check between ${g.from} and ${g.to} (every ${fmt(s.checkEveryHours)} h asked).`,
+        href,
+      });
+    if (w.overdueSince)
+      out.push({
+        code: "watch_overdue",
+        message: `A watch check was due at ${w.overdueSince} and has not been recorded.`,
+        href,
+      });
     if (!w.complete) out.push({ code: "watch_running", message: `The watch period runs until ${w.endsAt}.`, href });
     return out;
   }
@@ -274,7 +397,11 @@ export function evaluateStage(input: GateInput, now: string): GateResult {
   const holdPoints: HoldPoint[] = [];
   let allBeforeDone = true;
   for (const step of input.steps) {
-    const blockers = AFTER_ENERGISE_KINDS.has(step.kind) ? afterEnergiseBlockers(step.kind, input, nowMs) : step.kind === "custom" ? [] : (byKind.get(step.kind) ?? []);
+    const blockers = AFTER_ENERGISE_KINDS.has(step.kind)
+      ? afterEnergiseBlockers(step.kind, input, nowMs)
+      : step.kind === "custom"
+        ? []
+        : (byKind.get(step.kind) ?? []);
     const cur = step.current && step.current.kind !== "struck" ? step.current : null;
     let state: HoldState;
     if (cur?.kind === "signed") state = "met";
@@ -282,12 +409,22 @@ export function evaluateStage(input: GateInput, now: string): GateResult {
     else if (blockers.length) state = "blocked";
     else if (!allBeforeDone || (AFTER_ENERGISE_KINDS.has(step.kind) && !s.energisedAt)) state = "waiting";
     else state = "ready";
-    holdPoints.push({ stepId: step.id, kind: step.kind, title: step.title, state, blockers: state === "met" ? [] : blockers, signoff: step.current, qualifiedOnly: step.qualifiedOnly });
+    holdPoints.push({
+      stepId: step.id,
+      kind: step.kind,
+      title: step.title,
+      state,
+      blockers: state === "met" ? [] : blockers,
+      signoff: step.current,
+      qualifiedOnly: step.qualifiedOnly,
+    });
     if (state !== "met" && state !== "released") allBeforeDone = false;
   }
   // An energisation blocker with no home step (the curator removed it) still blocks the energise step.
   const seen = new Set<string>();
-  const blockers = holdPoints.flatMap((h) => h.blockers).filter((b) => (seen.has(b.message) ? false : (seen.add(b.message), true)));
+  const blockers = holdPoints
+    .flatMap((h) => h.blockers)
+    .filter((b) => (seen.has(b.message) ? false : (seen.add(b.message), true)));
 
   const energise = holdPoints.find((h) => h.kind === "energise");
   let state: StageState;
@@ -301,7 +438,13 @@ export function evaluateStage(input: GateInput, now: string): GateResult {
 
   const releasedWithReason = holdPoints
     .filter((h) => h.signoff?.kind === "released")
-    .map((h) => ({ stepId: h.stepId, title: h.title, reason: h.signoff!.reason, by: h.signoff!.signerName, at: h.signoff!.signedAt }));
+    .map((h) => ({
+      stepId: h.stepId,
+      title: h.title,
+      reason: h.signoff!.reason,
+      by: h.signoff!.signerName,
+      at: h.signoff!.signedAt,
+    }));
   return { stageId: s.id, state, holdPoints, blockers, releasedWithReason };
 }
 

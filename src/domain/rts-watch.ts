@@ -46,7 +46,10 @@ export function watchSchedule(w: WatchInput, nowMs: number): WatchState {
   const end = start + w.watchHours * HOUR_MS;
   const every = w.checkEveryHours * HOUR_MS;
   const grace = WATCH_GRACE_MINUTES * 60_000;
-  const checks = w.checks.map((c) => parse("check", c)).filter((t) => t >= start && t <= nowMs).sort((a, b) => a - b);
+  const checks = w.checks
+    .map((c) => parse("check", c))
+    .filter((t) => t >= start && t <= nowMs)
+    .sort((a, b) => a - b);
   const gaps: WatchState["gaps"] = [];
   let last = start;
   for (const t of checks) {

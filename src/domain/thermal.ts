@@ -76,7 +76,11 @@ export const LOW_LOAD_PERCENT = 40;
  * @param loadPercent load at the time of the scan, % of rated, > 0 … 200
  * @returns scaled rise, °C, and whether the scan was taken at too low a load to mean much
  */
-export function scaleRiseToRatedLoad(riseC: number, loadPercent: number, exponent = LOAD_SCALING_EXPONENT): {
+export function scaleRiseToRatedLoad(
+  riseC: number,
+  loadPercent: number,
+  exponent = LOAD_SCALING_EXPONENT,
+): {
   scaledRiseC: number;
   factor: number;
   lowLoad: boolean;

@@ -14,7 +14,10 @@ import { requireNumber, requireOneOf, requirePositive } from "./guards";
 
 export const TRIP_UNITS = ["thermal_magnetic", "electronic"] as const;
 export type TripUnit = (typeof TRIP_UNITS)[number];
-export const TRIP_UNIT_LABELS: Record<TripUnit, string> = { thermal_magnetic: "Thermal-magnetic", electronic: "Electronic trip unit" };
+export const TRIP_UNIT_LABELS: Record<TripUnit, string> = {
+  thermal_magnetic: "Thermal-magnetic",
+  electronic: "Electronic trip unit",
+};
 
 export interface InverseTimeRow {
   /** Highest continuous-current rating this row covers, A. */
@@ -50,7 +53,12 @@ export interface TripBand {
  * else NETA Table 100.7 (0 to its maximum) for a thermal-magnetic breaker up to 600 A; null
  * when neither applies (an electronic trip unit or a larger breaker needs its own curve).
  */
-export function inverseTimeBand(input: { ratingAmps: number; systemVolts: number; tripUnit: TripUnit; manufacturer?: { minSeconds: number; maxSeconds: number } | null }): TripBand | null {
+export function inverseTimeBand(input: {
+  ratingAmps: number;
+  systemVolts: number;
+  tripUnit: TripUnit;
+  manufacturer?: { minSeconds: number; maxSeconds: number } | null;
+}): TripBand | null {
   const amps = requirePositive("ratingAmps", input.ratingAmps);
   const volts = requirePositive("systemVolts", input.systemVolts);
   requireOneOf("tripUnit", input.tripUnit, TRIP_UNITS);
@@ -64,7 +72,11 @@ export function inverseTimeBand(input: { ratingAmps: number; systemVolts: number
   const row = NETA_INVERSE_TIME_300.find((r) => amps <= r.maxAmps);
   if (!row) return null;
   const max = volts <= 250 ? row.maxSeconds240 : row.maxSeconds600;
-  return { minSeconds: 0, maxSeconds: max, source: `NETA ATS Table 100.7 (after NEMA AB 4), ${amps} A at ${volts <= 250 ? "240" : "480–600"} V: at most ${max} s — values from memory, check your edition` };
+  return {
+    minSeconds: 0,
+    maxSeconds: max,
+    source: `NETA ATS Table 100.7 (after NEMA AB 4), ${amps} A at ${volts <= 250 ? "240" : "480–600"} V: at most ${max} s — values from memory, check your edition`,
+  };
 }
 
 export type TripVerdict = "meets" | "investigate";
@@ -75,7 +87,11 @@ export type TripVerdict = "meets" | "investigate";
  * trip (tripSeconds null) or tripped outside the band → investigate; inside → meets.
  */
 export function judgeInverseTimeTrip(input: {
-  ratingAmps: number; testAmps: number; tripSeconds: number | null; systemVolts: number; tripUnit: TripUnit;
+  ratingAmps: number;
+  testAmps: number;
+  tripSeconds: number | null;
+  systemVolts: number;
+  tripUnit: TripUnit;
   manufacturer?: { minSeconds: number; maxSeconds: number } | null;
 }): { verdict: TripVerdict; percentOfRating: number; band: TripBand | null; reasons: string[] } {
   const rating = requirePositive("ratingAmps", input.ratingAmps);
@@ -84,13 +100,40 @@ export function judgeInverseTimeTrip(input: {
   const percent = (100 * test) / rating;
   const band = inverseTimeBand(input);
   const reasons: string[] = [];
-  if (Math.abs(percent - 300) > 30) reasons.push(`Tested at ${fmt(percent)} % of rating: the 300 % band does not apply; test at ${fmt(3 * rating)} A.`);
-  if (!band) reasons.push("No band to judge against: record the manufacturer's band from the breaker's time-current curve.");
+  if (Math.abs(percent - 300) > 30)
+    reasons.push(`Tested at ${fmt(percent)} % of rating: the 300 % band does not apply; test at ${fmt(3 * rating)} A.`);
+  if (!band)
+    reasons.push("No band to judge against: record the manufacturer's band from the breaker's time-current curve.");
   if (reasons.length) return { verdict: "investigate", percentOfRating: percent, band, reasons };
-  if (t === null) return { verdict: "investigate", percentOfRating: percent, band, reasons: [`Did not trip: the band ends at ${fmt(band!.maxSeconds)} s.`] };
-  if (t > band!.maxSeconds) return { verdict: "investigate", percentOfRating: percent, band, reasons: [`Tripped in ${fmt(t)} s, slower than the ${fmt(band!.maxSeconds)} s the band allows.`] };
-  if (t < band!.minSeconds) return { verdict: "investigate", percentOfRating: percent, band, reasons: [`Tripped in ${fmt(t)} s, faster than the band's ${fmt(band!.minSeconds)} s: nuisance tripping likely.`] };
-  return { verdict: "meets", percentOfRating: percent, band, reasons: [`Tripped in ${fmt(t)} s, inside the band (${fmt(band!.minSeconds)}–${fmt(band!.maxSeconds)} s): meets the recorded criterion.`] };
+  if (t === null)
+    return {
+      verdict: "investigate",
+      percentOfRating: percent,
+      band,
+      reasons: [`Did not trip: the band ends at ${fmt(band!.maxSeconds)} s.`],
+    };
+  if (t > band!.maxSeconds)
+    return {
+      verdict: "investigate",
+      percentOfRating: percent,
+      band,
+      reasons: [`Tripped in ${fmt(t)} s, slower than the ${fmt(band!.maxSeconds)} s the band allows.`],
+    };
+  if (t < band!.minSeconds)
+    return {
+      verdict: "investigate",
+      percentOfRating: percent,
+      band,
+      reasons: [`Tripped in ${fmt(t)} s, faster than the band's ${fmt(band!.minSeconds)} s: nuisance tripping likely.`],
+    };
+  return {
+    verdict: "meets",
+    percentOfRating: percent,
+    band,
+    reasons: [
+      `Tripped in ${fmt(t)} s, inside the band (${fmt(band!.minSeconds)}–${fmt(band!.maxSeconds)} s): meets the recorded criterion.`,
+    ],
+  };
 }
 
 /**
@@ -111,7 +154,11 @@ export const INSTANTANEOUS_TOLERANCE = {
  * @param input.published the manufacturer's published range, A (non-adjustable)
  */
 export function judgeInstantaneousTrip(input: {
-  tripUnit: TripUnit; adjustable: boolean; pickupAmps: number; settingAmps?: number | null; published?: { lowAmps: number; highAmps: number } | null;
+  tripUnit: TripUnit;
+  adjustable: boolean;
+  pickupAmps: number;
+  settingAmps?: number | null;
+  published?: { lowAmps: number; highAmps: number } | null;
 }): { verdict: TripVerdict; lowAmps: number; highAmps: number; source: string; reasons: string[] } {
   requireOneOf("tripUnit", input.tripUnit, TRIP_UNITS);
   const pickup = requirePositive("pickupAmps", input.pickupAmps);
@@ -120,7 +167,8 @@ export function judgeInstantaneousTrip(input: {
   let source: string;
   if (input.tripUnit === "electronic" || input.adjustable) {
     const setting = requirePositive("settingAmps", input.settingAmps ?? NaN);
-    const tol = input.tripUnit === "electronic" ? INSTANTANEOUS_TOLERANCE.electronic : INSTANTANEOUS_TOLERANCE.adjustable;
+    const tol =
+      input.tripUnit === "electronic" ? INSTANTANEOUS_TOLERANCE.electronic : INSTANTANEOUS_TOLERANCE.adjustable;
     low = setting * tol.low;
     high = setting * tol.high;
     source = `NETA ATS Table 100.8 (from memory): ${input.tripUnit === "electronic" ? "electronic trip, −30 %/+30 %" : "adjustable thermal-magnetic, −30 %/+40 %"} of the ${fmt(setting)} A setting`;
@@ -134,9 +182,11 @@ export function judgeInstantaneousTrip(input: {
     source = `NETA ATS Table 100.8 (from memory): non-adjustable, published ${fmt(lo)}–${fmt(hi)} A widened −25 %/+25 %`;
   }
   const inside = pickup >= low && pickup <= high;
-  const reasons = [inside
-    ? `Picked up at ${fmt(pickup)} A, inside ${fmt(low)}–${fmt(high)} A: meets the recorded criterion.`
-    : `Picked up at ${fmt(pickup)} A, outside ${fmt(low)}–${fmt(high)} A.`];
+  const reasons = [
+    inside
+      ? `Picked up at ${fmt(pickup)} A, inside ${fmt(low)}–${fmt(high)} A: meets the recorded criterion.`
+      : `Picked up at ${fmt(pickup)} A, outside ${fmt(low)}–${fmt(high)} A.`,
+  ];
   return { verdict: inside ? "meets" : "investigate", lowAmps: low, highAmps: high, source, reasons };
 }
 

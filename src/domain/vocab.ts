@@ -140,7 +140,15 @@ export const INSULATION_STATE_LABELS: Record<InsulationState, string> = {
   swollen: "Swollen / delaminated",
 };
 
-export const CONTAMINANTS = ["silt", "salt_crust", "oil", "mould", "water_inside", "water_marks", "corrosion_products"] as const;
+export const CONTAMINANTS = [
+  "silt",
+  "salt_crust",
+  "oil",
+  "mould",
+  "water_inside",
+  "water_marks",
+  "corrosion_products",
+] as const;
 export type Contaminant = (typeof CONTAMINANTS)[number];
 export const CONTAMINANT_LABELS: Record<Contaminant, string> = {
   silt: "Silt / mud",

@@ -33,8 +33,16 @@ async function request(method: Method, url: string, body?: unknown, signal?: Abo
   const text = await res.text();
   const data = text ? safeJson(text) : null;
   if (!res.ok) {
-    const err = (data as { error?: { code?: string; message?: string; fields?: Record<string, string>; current?: unknown } } | null)?.error;
-    throw new ApiError(res.status, err?.code ?? "http_" + res.status, err?.message ?? `The server answered ${res.status}.`, err?.fields, err?.current);
+    const err = (
+      data as { error?: { code?: string; message?: string; fields?: Record<string, string>; current?: unknown } } | null
+    )?.error;
+    throw new ApiError(
+      res.status,
+      err?.code ?? "http_" + res.status,
+      err?.message ?? `The server answered ${res.status}.`,
+      err?.fields,
+      err?.current,
+    );
   }
   return data;
 }

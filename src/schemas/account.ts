@@ -13,10 +13,18 @@ export const resetRequestResponse = z.object({ ok: z.literal(true), message: tex
 export const resetPasswordBody = z.object({ password: passwordRule });
 export const resetPreview = z.object({ email: text() });
 
-export const NOTIFICATION_KEYS = ["defect_assigned", "awaiting_verification", "weekly_summary", "watch_overdue"] as const;
+export const NOTIFICATION_KEYS = [
+  "defect_assigned",
+  "awaiting_verification",
+  "weekly_summary",
+  "watch_overdue",
+] as const;
 export type NotificationKey = (typeof NOTIFICATION_KEYS)[number];
 export const NOTIFICATION_LABELS: Record<NotificationKey, { label: string; hint: string }> = {
-  defect_assigned: { label: "A defect is assigned to me", hint: "An e-mail when someone makes you the person to fix a defect." },
+  defect_assigned: {
+    label: "A defect is assigned to me",
+    hint: "An e-mail when someone makes you the person to fix a defect.",
+  },
   awaiting_verification: {
     label: "A repair is waiting for my check",
     hint: "Curators: an e-mail when a repaired defect on your site needs verifying.",

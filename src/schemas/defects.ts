@@ -12,8 +12,20 @@ export const PARTS_STATE_LABELS: Record<(typeof PARTS_STATES)[number], string> =
 
 /** Register columns the server can sort by (one index each, migration 0400). */
 export const SORT_KEYS = [
-  "priority", "ref", "title", "board", "position", "category", "severity", "status",
-  "assignee", "dueOn", "effortHours", "costEstimate", "createdAt", "updatedAt",
+  "priority",
+  "ref",
+  "title",
+  "board",
+  "position",
+  "category",
+  "severity",
+  "status",
+  "assignee",
+  "dueOn",
+  "effortHours",
+  "costEstimate",
+  "createdAt",
+  "updatedAt",
 ] as const;
 export type SortKey = (typeof SORT_KEYS)[number];
 export const FLAGS = ["safety", "blocking", "pinned", "unassigned", "overdue"] as const;
@@ -21,7 +33,10 @@ export type Flag = (typeof FLAGS)[number];
 
 const many = <T extends z.ZodType>(item: T) =>
   // Only a string is split; anything else (an object from a crafted query) goes on to fail the array check, never to throw here.
-  z.preprocess((v) => (v === undefined ? [] : typeof v === "string" ? v.split(",").filter(Boolean) : v), z.array(item).max(50));
+  z.preprocess(
+    (v) => (v === undefined ? [] : typeof v === "string" ? v.split(",").filter(Boolean) : v),
+    z.array(item).max(50),
+  );
 const dateStr = isoDate("Use YYYY-MM-DD");
 
 /** The register's query: the same keys live in the browser's URL, so a link shows the same view. */
@@ -82,26 +97,55 @@ export const createDefectBody = z.object({
   assigneeId: fields.assigneeId.default(null),
   dueOn: fields.dueOn.default(null),
   /** The failing reading this defect is raised from (issue 14); linked both ways. */
-  fromReading: z.object({ kind: z.enum(["insulation", "contact", "thermal", "ground"]), id: z.uuid() }).nullable().default(null),
+  fromReading: z
+    .object({ kind: z.enum(["insulation", "contact", "thermal", "ground"]), id: z.uuid() })
+    .nullable()
+    .default(null),
 });
 export type CreateDefectBody = z.infer<typeof createDefectBody>;
 
 export const READING_KINDS = ["insulation", "contact", "thermal", "ground"] as const;
-export const linkReadingBody = z.object({ readingKind: z.enum(READING_KINDS), readingId: z.uuid(), role: z.enum(["raised_from", "retest"]).default("retest") });
+export const linkReadingBody = z.object({
+  readingKind: z.enum(READING_KINDS),
+  readingId: z.uuid(),
+  role: z.enum(["raised_from", "retest"]).default("retest"),
+});
 export type LinkReadingBody = z.input<typeof linkReadingBody>;
-const judged = { readingKind: z.enum(READING_KINDS), readingId: z.string(), measuredAt: z.string(), verdict: z.string(), summary: z.string() };
+const judged = {
+  readingKind: z.enum(READING_KINDS),
+  readingId: z.string(),
+  measuredAt: z.string(),
+  verdict: z.string(),
+  summary: z.string(),
+};
 export const evidenceResponse = z.object({
-  linked: z.array(z.object({ ...judged, id: z.string(), role: z.enum(["raised_from", "retest"]), linkedAt: z.string() })),
+  linked: z.array(
+    z.object({ ...judged, id: z.string(), role: z.enum(["raised_from", "retest"]), linkedAt: z.string() }),
+  ),
   candidates: z.array(z.object(judged)),
   retestsMeeting: z.number(),
   afterPhotos: z.number(),
 });
 export type Evidence = z.infer<typeof evidenceResponse>;
 export const readingDefectsResponse = z.object({
-  links: z.array(z.object({ readingKind: z.enum(READING_KINDS), readingId: z.string(), role: z.string(), defectId: z.string(), ref: z.number(), status: z.enum(DEFECT_STATUSES), title: z.string() })),
+  links: z.array(
+    z.object({
+      readingKind: z.enum(READING_KINDS),
+      readingId: z.string(),
+      role: z.string(),
+      defectId: z.string(),
+      ref: z.number(),
+      status: z.enum(DEFECT_STATUSES),
+      title: z.string(),
+    }),
+  ),
 });
 
-export const patchDefectBody = z.object(fields).partial().extend({ version: int().min(1) }).strict();
+export const patchDefectBody = z
+  .object(fields)
+  .partial()
+  .extend({ version: int().min(1) })
+  .strict();
 export type PatchDefectBody = z.infer<typeof patchDefectBody>;
 
 export const transitionBody = z.object({
@@ -135,26 +179,56 @@ export const viewBody = z.object({
 
 const termSchema = z.object({ key: text(), label: text(), points: z.number() });
 const pinSchema = z.object({
-  id: text(), direction: z.enum(["above", "below"]), relativeTo: text(), relativeRef: z.number().nullable(),
-  reason: text(), pinnedBy: text().nullable(), pinnedByName: text().nullable(), pinnedAt: text(),
-  removedAt: text().nullable(), removedByName: text().nullable(), removedReason: text(),
+  id: text(),
+  direction: z.enum(["above", "below"]),
+  relativeTo: text(),
+  relativeRef: z.number().nullable(),
+  reason: text(),
+  pinnedBy: text().nullable(),
+  pinnedByName: text().nullable(),
+  pinnedAt: text(),
+  removedAt: text().nullable(),
+  removedByName: text().nullable(),
+  removedReason: text(),
 });
 export type DefectPin = z.infer<typeof pinSchema>;
 
 export const defectRowSchema = z.object({
-  id: text(), ref: z.number(), siteId: text(), boardId: text(), boardName: text(),
-  sectionId: text().nullable(), sectionName: text().nullable(),
-  positionId: text().nullable(), designation: text().nullable(),
-  componentId: text().nullable(), inspectionId: text().nullable(),
-  title: text(), description: text(),
-  category: z.enum(DEFECT_CATEGORIES), severity: z.enum(DEFECT_SEVERITIES), status: z.enum(DEFECT_STATUSES),
-  statusReason: text(), safetyCritical: z.boolean(), blocksEnergisation: z.boolean(),
-  effortHours: z.number().nullable(), costEstimate: z.number().nullable(),
-  partsNeeded: text(), partsState: z.enum(PARTS_STATES),
-  assigneeId: text().nullable(), assigneeName: text().nullable(), dueOn: text().nullable(),
-  repairedBy: text().nullable(), verifiedBy: text().nullable(), createdBy: text().nullable(),
-  priorityScore: z.number(), pinned: z.enum(["above", "below"]).nullable(),
-  version: z.number(), createdAt: text(), updatedAt: text(), closedAt: text().nullable(),
+  id: text(),
+  ref: z.number(),
+  siteId: text(),
+  boardId: text(),
+  boardName: text(),
+  sectionId: text().nullable(),
+  sectionName: text().nullable(),
+  positionId: text().nullable(),
+  designation: text().nullable(),
+  componentId: text().nullable(),
+  inspectionId: text().nullable(),
+  title: text(),
+  description: text(),
+  category: z.enum(DEFECT_CATEGORIES),
+  severity: z.enum(DEFECT_SEVERITIES),
+  status: z.enum(DEFECT_STATUSES),
+  statusReason: text(),
+  safetyCritical: z.boolean(),
+  blocksEnergisation: z.boolean(),
+  effortHours: z.number().nullable(),
+  costEstimate: z.number().nullable(),
+  partsNeeded: text(),
+  partsState: z.enum(PARTS_STATES),
+  assigneeId: text().nullable(),
+  assigneeName: text().nullable(),
+  dueOn: text().nullable(),
+  repairedBy: text().nullable(),
+  verifiedBy: text().nullable(),
+  createdBy: text().nullable(),
+  priorityScore: z.number(),
+  pinned: z.enum(["above", "below"]).nullable(),
+  version: z.number(),
+  createdAt: text(),
+  updatedAt: text(),
+  closedAt: text().nullable(),
 });
 export type DefectRow = z.infer<typeof defectRowSchema>;
 
@@ -166,7 +240,11 @@ export const listResponse = z.object({
 });
 
 export const defectDetailSchema = z.object({
-  defect: defectRowSchema.extend({ repairedByName: text().nullable(), verifiedByName: text().nullable(), createdByName: text().nullable() }),
+  defect: defectRowSchema.extend({
+    repairedByName: text().nullable(),
+    verifiedByName: text().nullable(),
+    createdByName: text().nullable(),
+  }),
   terms: z.array(termSchema),
   rank: z.number().nullable(),
   allowedTargets: z.array(z.enum(DEFECT_STATUSES)),
@@ -174,8 +252,19 @@ export const defectDetailSchema = z.object({
   heritage: text().nullable(),
   photoCount: z.number(),
   pins: z.array(pinSchema),
-  history: z.array(z.object({ id: z.number(), fromStatus: text().nullable(), toStatus: text(), reason: text(), actorName: text().nullable(), at: text() })),
-  audit: z.array(z.object({ id: z.number(), action: text(), actorName: text().nullable(), at: text(), after: z.unknown() })),
+  history: z.array(
+    z.object({
+      id: z.number(),
+      fromStatus: text().nullable(),
+      toStatus: text(),
+      reason: text(),
+      actorName: text().nullable(),
+      at: text(),
+    }),
+  ),
+  audit: z.array(
+    z.object({ id: z.number(), action: text(), actorName: text().nullable(), at: text(), after: z.unknown() }),
+  ),
 });
 export type DefectDetail = z.infer<typeof defectDetailSchema>;
 
@@ -187,24 +276,43 @@ export const optionsResponse = z.object({
 export type DefectOptions = z.infer<typeof optionsResponse>;
 
 export const positionsResponse = z.object({
-  positions: z.array(z.object({ id: text(), designation: text(), sectionId: text().nullable(), componentId: text().nullable() })),
+  positions: z.array(
+    z.object({ id: text(), designation: text(), sectionId: text().nullable(), componentId: text().nullable() }),
+  ),
 });
 
 export const viewSchema = z.object({ id: text(), name: text(), query: text(), version: z.number(), updatedAt: text() });
 export type SavedView = z.infer<typeof viewSchema>;
 
 export const planResponse = z.object({
-  boards: z.array(z.object({
-    boardId: text(), boardName: text(),
-    sections: z.array(z.object({
-      sectionId: text().nullable(), sectionName: text(),
-      effortHours: z.number(), unestimated: z.number(), cost: z.number(),
-      defects: z.array(defectRowSchema.extend({ rank: z.number() })),
-    })),
-  })),
+  boards: z.array(
+    z.object({
+      boardId: text(),
+      boardName: text(),
+      sections: z.array(
+        z.object({
+          sectionId: text().nullable(),
+          sectionName: text(),
+          effortHours: z.number(),
+          unestimated: z.number(),
+          cost: z.number(),
+          defects: z.array(defectRowSchema.extend({ rank: z.number() })),
+        }),
+      ),
+    }),
+  ),
 });
 export type RepairPlan = z.infer<typeof planResponse>;
 
 export const contextResponse = z.object({
-  context: z.object({ boardId: text(), sectionId: text().nullable(), positionId: text(), designation: text(), componentId: text().nullable(), inspectionId: text().nullable() }).nullable(),
+  context: z
+    .object({
+      boardId: text(),
+      sectionId: text().nullable(),
+      positionId: text(),
+      designation: text(),
+      componentId: text().nullable(),
+      inspectionId: text().nullable(),
+    })
+    .nullable(),
 });

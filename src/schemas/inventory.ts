@@ -7,14 +7,30 @@
 import { z } from "zod";
 import { text as safeText, int as safeInt, queryInt, isoDate } from "./common";
 import {
-  COMPONENT_KINDS, CONTAMINANTS, CUSTODY, DISPOSITIONS, EARTHING, HERITAGE,
-  INSULATION_STATES, MECHANISM, WATER_TYPES,
+  COMPONENT_KINDS,
+  CONTAMINANTS,
+  CUSTODY,
+  DISPOSITIONS,
+  EARTHING,
+  HERITAGE,
+  INSULATION_STATES,
+  MECHANISM,
+  WATER_TYPES,
 } from "../domain/vocab";
 
-const text = (max: number) => safeText().trim().max(max, { message: `At most ${max} characters` });
+const text = (max: number) =>
+  safeText()
+    .trim()
+    .max(max, { message: `At most ${max} characters` });
 const int = (min: number, max: number) =>
-  safeInt({ message: "Whole number" }).min(min, { message: `At least ${min}` }).max(max, { message: `At most ${max}` });
-const num = (min: number, max: number) => z.number().min(min, { message: `At least ${min}` }).max(max, { message: `At most ${max}` });
+  safeInt({ message: "Whole number" })
+    .min(min, { message: `At least ${min}` })
+    .max(max, { message: `At most ${max}` });
+const num = (min: number, max: number) =>
+  z
+    .number()
+    .min(min, { message: `At least ${min}` })
+    .max(max, { message: `At most ${max}` });
 const version = int(1, 2_147_483_647);
 const stamp = safeText();
 const id = safeText();
@@ -31,9 +47,15 @@ export const deleteQuery = z.object({ version: queryInt().min(1).optional() });
 
 // ───────────── flood events: GET/POST /flood-events, PATCH /flood-events/:id ─────────────
 export const floodEventSchema = z.object({
-  id, occurredOn: safeText(), waterType: z.enum(WATER_TYPES),
-  maxDepthM: z.number().nullable(), hoursSubmerged: z.number().nullable(),
-  notes: safeText(), version: z.number(), createdAt: stamp, updatedAt: stamp,
+  id,
+  occurredOn: safeText(),
+  waterType: z.enum(WATER_TYPES),
+  maxDepthM: z.number().nullable(),
+  hoursSubmerged: z.number().nullable(),
+  notes: safeText(),
+  version: z.number(),
+  createdAt: stamp,
+  updatedAt: stamp,
 });
 export type FloodEvent = z.infer<typeof floodEventSchema>;
 export const createFloodEventBody = z.object({
@@ -51,11 +73,23 @@ export const floodEventListResponse = z.array(floodEventSchema);
 
 // ───────────── boards ─────────────
 export const boardSchema = z.object({
-  id, name: safeText(), location: safeText(), nominalVolts: z.number(), phases: z.union([z.literal(1), z.literal(3)]),
-  frequencyHz: z.number(), earthing: z.enum(EARTHING), yearBuilt: z.number().nullable(), drawingRef: safeText(),
-  faceHeightMm: z.number().nullable(), waterLineMm: z.number().nullable(),
-  gridRows: z.number(), gridCols: z.number(), notes: safeText(),
-  version: z.number(), createdAt: stamp, updatedAt: stamp,
+  id,
+  name: safeText(),
+  location: safeText(),
+  nominalVolts: z.number(),
+  phases: z.union([z.literal(1), z.literal(3)]),
+  frequencyHz: z.number(),
+  earthing: z.enum(EARTHING),
+  yearBuilt: z.number().nullable(),
+  drawingRef: safeText(),
+  faceHeightMm: z.number().nullable(),
+  waterLineMm: z.number().nullable(),
+  gridRows: z.number(),
+  gridCols: z.number(),
+  notes: safeText(),
+  version: z.number(),
+  createdAt: stamp,
+  updatedAt: stamp,
 });
 export type Board = z.infer<typeof boardSchema>;
 export const createBoardBody = z.object({
@@ -85,8 +119,14 @@ export const boardListResponse = z.array(boardListItem);
 
 // ───────────── sections ─────────────
 export const sectionSchema = z.object({
-  id, boardId: id, name: safeText(), sortOrder: z.number(), notes: safeText(),
-  version: z.number(), createdAt: stamp, updatedAt: stamp,
+  id,
+  boardId: id,
+  name: safeText(),
+  sortOrder: z.number(),
+  notes: safeText(),
+  version: z.number(),
+  createdAt: stamp,
+  updatedAt: stamp,
 });
 export type Section = z.infer<typeof sectionSchema>;
 export const createSectionBody = z.object({
@@ -100,9 +140,20 @@ export type PatchSectionBody = z.infer<typeof patchSectionBody>;
 
 // ───────────── positions ─────────────
 export const positionSchema = z.object({
-  id, boardId: id, sectionId: id.nullable(), designation: safeText(), kind: z.enum(COMPONENT_KINDS),
-  gridRow: z.number(), gridCol: z.number(), rowSpan: z.number(), colSpan: z.number(),
-  circuit: safeText(), sortOrder: z.number(), version: z.number(), createdAt: stamp, updatedAt: stamp,
+  id,
+  boardId: id,
+  sectionId: id.nullable(),
+  designation: safeText(),
+  kind: z.enum(COMPONENT_KINDS),
+  gridRow: z.number(),
+  gridCol: z.number(),
+  rowSpan: z.number(),
+  colSpan: z.number(),
+  circuit: safeText(),
+  sortOrder: z.number(),
+  version: z.number(),
+  createdAt: stamp,
+  updatedAt: stamp,
 });
 export type Position = z.infer<typeof positionSchema>;
 const designation = text(40).min(1, { message: "Give the designation painted on the board" });
@@ -141,17 +192,36 @@ export type ReorderPositionsBody = z.infer<typeof reorderPositionsBody>;
 
 // ───────────── components ─────────────
 export const componentSchema = z.object({
-  id, positionId: id, kind: z.enum(COMPONENT_KINDS),
-  maker: safeText(), model: safeText(), frame: safeText(), mounting: safeText(),
-  ratingAmps: z.number().nullable(), poles: z.number().nullable(), voltageRating: z.number().nullable(),
-  interruptingKa: z.number().nullable(), serial: safeText(), year: z.number().nullable(),
-  meterRange: safeText(), lampWatts: z.number().nullable(),
-  heritage: z.enum(HERITAGE), tagNumber: safeText().nullable(),
-  custody: z.enum(CUSTODY), custodyLocation: safeText(),
-  disposition: z.enum(DISPOSITIONS).nullable(), dispositionReason: safeText(),
-  dispositionRecommended: z.enum(DISPOSITIONS).nullable(), dispositionOverridden: z.boolean(),
-  dispositionBy: id.nullable(), dispositionAt: stamp.nullable(), retiredAt: stamp.nullable(),
-  notes: safeText(), version: z.number(), createdAt: stamp, updatedAt: stamp,
+  id,
+  positionId: id,
+  kind: z.enum(COMPONENT_KINDS),
+  maker: safeText(),
+  model: safeText(),
+  frame: safeText(),
+  mounting: safeText(),
+  ratingAmps: z.number().nullable(),
+  poles: z.number().nullable(),
+  voltageRating: z.number().nullable(),
+  interruptingKa: z.number().nullable(),
+  serial: safeText(),
+  year: z.number().nullable(),
+  meterRange: safeText(),
+  lampWatts: z.number().nullable(),
+  heritage: z.enum(HERITAGE),
+  tagNumber: safeText().nullable(),
+  custody: z.enum(CUSTODY),
+  custodyLocation: safeText(),
+  disposition: z.enum(DISPOSITIONS).nullable(),
+  dispositionReason: safeText(),
+  dispositionRecommended: z.enum(DISPOSITIONS).nullable(),
+  dispositionOverridden: z.boolean(),
+  dispositionBy: id.nullable(),
+  dispositionAt: stamp.nullable(),
+  retiredAt: stamp.nullable(),
+  notes: safeText(),
+  version: z.number(),
+  createdAt: stamp,
+  updatedAt: stamp,
 });
 export type Component = z.infer<typeof componentSchema>;
 /** Nameplate fields typed by kind; an empty tagNumber ("") clears the tag. Tag numbers are unique per site. */
@@ -178,18 +248,37 @@ export type PatchComponentBody = z.infer<typeof patchComponentBody>;
 
 // ───────────── board elevation: GET /boards/:boardId ─────────────
 export const tileComponentSchema = z.object({
-  id, kind: z.enum(COMPONENT_KINDS), tagNumber: safeText().nullable(), heritage: z.enum(HERITAGE),
-  custody: z.enum(CUSTODY), disposition: z.enum(DISPOSITIONS).nullable(), dispositionOverridden: z.boolean(),
-  maker: safeText(), model: safeText(), ratingAmps: z.number().nullable(), poles: z.number().nullable(),
+  id,
+  kind: z.enum(COMPONENT_KINDS),
+  tagNumber: safeText().nullable(),
+  heritage: z.enum(HERITAGE),
+  custody: z.enum(CUSTODY),
+  disposition: z.enum(DISPOSITIONS).nullable(),
+  dispositionOverridden: z.boolean(),
+  maker: safeText(),
+  model: safeText(),
+  ratingAmps: z.number().nullable(),
+  poles: z.number().nullable(),
   version: z.number(),
 });
 export const tileLatestSchema = z.object({
-  astmGrade: z.number().nullable(), isoRi: safeText().nullable(), percentRusted: z.number().nullable(),
-  inspectedAt: stamp, belowWaterLine: z.boolean().nullable(),
+  astmGrade: z.number().nullable(),
+  isoRi: safeText().nullable(),
+  percentRusted: z.number().nullable(),
+  inspectedAt: stamp,
+  belowWaterLine: z.boolean().nullable(),
 });
 export const tileRowSchema = z.object({
-  id, designation: safeText(), kind: z.enum(COMPONENT_KINDS), gridRow: z.number(), gridCol: z.number(),
-  rowSpan: z.number(), colSpan: z.number(), circuit: safeText(), sectionId: id.nullable(), sortOrder: z.number(),
+  id,
+  designation: safeText(),
+  kind: z.enum(COMPONENT_KINDS),
+  gridRow: z.number(),
+  gridCol: z.number(),
+  rowSpan: z.number(),
+  colSpan: z.number(),
+  circuit: safeText(),
+  sectionId: id.nullable(),
+  sortOrder: z.number(),
   version: z.number(),
   component: tileComponentSchema.nullable(),
   latest: tileLatestSchema.nullable(),
@@ -198,7 +287,11 @@ export const tileRowSchema = z.object({
 });
 export type TileRow = z.infer<typeof tileRowSchema>;
 /** positions ordered by gridRow, gridCol. */
-export const boardDetailResponse = z.object({ board: boardSchema, sections: z.array(sectionSchema), positions: z.array(tileRowSchema) });
+export const boardDetailResponse = z.object({
+  board: boardSchema,
+  sections: z.array(sectionSchema),
+  positions: z.array(tileRowSchema),
+});
 export type BoardDetail = z.infer<typeof boardDetailResponse>;
 /** POST /boards/:boardId/positions → 201 this; generate → 201 { positions: [this…] }. */
 export const createdPositionResponse = z.object({ position: positionSchema, component: componentSchema });
@@ -208,13 +301,22 @@ export const reorderedPositionsResponse = z.object({ positions: z.array(position
 
 // ───────────── survey ─────────────
 export const inspectionSchema = z.object({
-  id, componentId: id, positionId: id, inspectorId: id.nullable(), inspectorName: safeText().nullable(),
-  inspectedAt: stamp, percentRusted: z.number().nullable(),
+  id,
+  componentId: id,
+  positionId: id,
+  inspectorId: id.nullable(),
+  inspectorName: safeText().nullable(),
+  inspectedAt: stamp,
+  percentRusted: z.number().nullable(),
   /** ASTM D610 grade 10…0 and ISO 4628-3 "Ri n", computed by the server from percentRusted. */
-  astmGrade: z.number().nullable(), isoRi: safeText().nullable(),
-  belowWaterLine: z.boolean().nullable(), contaminants: z.array(z.enum(CONTAMINANTS)),
-  mechanism: z.enum(MECHANISM).nullable(), insulation: z.enum(INSULATION_STATES).nullable(),
-  notes: safeText(), createdAt: stamp,
+  astmGrade: z.number().nullable(),
+  isoRi: safeText().nullable(),
+  belowWaterLine: z.boolean().nullable(),
+  contaminants: z.array(z.enum(CONTAMINANTS)),
+  mechanism: z.enum(MECHANISM).nullable(),
+  insulation: z.enum(INSULATION_STATES).nullable(),
+  notes: safeText(),
+  createdAt: stamp,
 });
 export type Inspection = z.infer<typeof inspectionSchema>;
 /** POST /components/:id/inspections → 201 inspectionSchema. Appends; the newest is current. */
@@ -229,10 +331,18 @@ export const createInspectionBody = z.object({
 export type CreateInspectionBody = z.input<typeof createInspectionBody>;
 
 export const custodyMoveSchema = z.object({
-  id, componentId: id, fromState: z.enum(CUSTODY), toState: z.enum(CUSTODY), location: safeText(), note: safeText(),
-  movedBy: id.nullable(), movedByName: safeText().nullable(), movedAt: stamp,
+  id,
+  componentId: id,
+  fromState: z.enum(CUSTODY),
+  toState: z.enum(CUSTODY),
+  location: safeText(),
+  note: safeText(),
+  movedBy: id.nullable(),
+  movedByName: safeText().nullable(),
+  movedAt: stamp,
   /** Rules of src/domain/custody-chain.ts the curator released for this move, and why (issue 14). */
-  releasedRules: z.array(z.string()).default([]), releaseReason: safeText().default(""),
+  releasedRules: z.array(z.string()).default([]),
+  releaseReason: safeText().default(""),
 });
 export type CustodyMove = z.infer<typeof custodyMoveSchema>;
 /**
@@ -252,7 +362,10 @@ export const custodyBody = z.object({
 export type CustodyBody = z.input<typeof custodyBody>;
 /** The body of a 409/422 custody refusal's `current`: every rule the move breaks. */
 export const custodyRefusalSchema = z.object({
-  rule: z.string(), status: z.union([z.literal(409), z.literal(422)]), message: z.string(), releasable: z.boolean(),
+  rule: z.string(),
+  status: z.union([z.literal(409), z.literal(422)]),
+  message: z.string(),
+  releasable: z.boolean(),
 });
 export type CustodyRefusalDto = z.infer<typeof custodyRefusalSchema>;
 export const nextTagResponse = z.object({ tagNumber: z.string() });
@@ -277,15 +390,24 @@ export const recommendationResponse = z.object({
   recommendation: recommendationSchema.nullable(),
   assumptions: z.array(safeText()),
   basis: z.object({
-    floodEventId: id.nullable(), waterType: z.enum(WATER_TYPES).nullable(),
-    inspectionId: id.nullable(), belowWaterLine: z.boolean().nullable(),
+    floodEventId: id.nullable(),
+    waterType: z.enum(WATER_TYPES).nullable(),
+    inspectionId: id.nullable(),
+    belowWaterLine: z.boolean().nullable(),
   }),
 });
 export type RecommendationResponse = z.infer<typeof recommendationResponse>;
 
 export const dispositionDecisionSchema = z.object({
-  id, componentId: id, disposition: z.enum(DISPOSITIONS), recommended: z.enum(DISPOSITIONS).nullable(),
-  overridden: z.boolean(), reason: safeText(), decidedBy: id.nullable(), decidedByName: safeText().nullable(), decidedAt: stamp,
+  id,
+  componentId: id,
+  disposition: z.enum(DISPOSITIONS),
+  recommended: z.enum(DISPOSITIONS).nullable(),
+  overridden: z.boolean(),
+  reason: safeText(),
+  decidedBy: id.nullable(),
+  decidedByName: safeText().nullable(),
+  decidedAt: stamp,
 });
 export type DispositionDecision = z.infer<typeof dispositionDecisionSchema>;
 /**
@@ -295,22 +417,34 @@ export type DispositionDecision = z.infer<typeof dispositionDecisionSchema>;
 export const dispositionBody = z.object({ disposition: z.enum(DISPOSITIONS), reason: text(2000).default(""), version });
 export type DispositionBody = z.input<typeof dispositionBody>;
 export const dispositionResponse = z.object({
-  component: componentSchema, decision: dispositionDecisionSchema, recommendation: recommendationResponse,
+  component: componentSchema,
+  decision: dispositionDecisionSchema,
+  recommendation: recommendationResponse,
 });
 
 // ───────────── position detail and lookup ─────────────
 export const auditRowSchema = z.object({
-  id: z.number(), entityType: safeText(), entityId: id, action: safeText(),
-  actorId: id.nullable(), actorName: safeText().nullable(), at: stamp,
-  before: z.unknown(), after: z.unknown(),
+  id: z.number(),
+  entityType: safeText(),
+  entityId: id,
+  action: safeText(),
+  actorId: id.nullable(),
+  actorName: safeText().nullable(),
+  at: stamp,
+  before: z.unknown(),
+  after: z.unknown(),
 });
 export type AuditRow = z.infer<typeof auditRowSchema>;
 /** GET /positions/:positionId; lists newest first. */
 export const positionDetailResponse = z.object({
   position: positionSchema,
   board: z.object({
-    id, name: safeText(), waterLineMm: z.number().nullable(), faceHeightMm: z.number().nullable(),
-    gridRows: z.number(), gridCols: z.number(),
+    id,
+    name: safeText(),
+    waterLineMm: z.number().nullable(),
+    faceHeightMm: z.number().nullable(),
+    gridRows: z.number(),
+    gridCols: z.number(),
   }),
   section: z.object({ id, name: safeText() }).nullable(),
   component: componentSchema.nullable(),
@@ -327,10 +461,19 @@ export type PositionDetail = z.infer<typeof positionDetailResponse>;
 export const lookupQuery = z.object({ q: text(60).min(1, { message: "Type a designation or tag number" }) });
 /** GET /positions/lookup?q= — exact matches (designation or tag, case-insensitive) first, then prefix, then contains; ≤ 20. */
 export const lookupMatchSchema = z.object({
-  positionId: id, designation: safeText(), kind: z.enum(COMPONENT_KINDS), circuit: safeText(),
-  boardId: id, boardName: safeText(), sectionName: safeText().nullable(),
-  componentId: id.nullable(), componentVersion: z.number().nullable(), tagNumber: safeText().nullable(),
-  custody: z.enum(CUSTODY).nullable(), matchedOn: z.enum(["designation", "tag"]), exact: z.boolean(),
+  positionId: id,
+  designation: safeText(),
+  kind: z.enum(COMPONENT_KINDS),
+  circuit: safeText(),
+  boardId: id,
+  boardName: safeText(),
+  sectionName: safeText().nullable(),
+  componentId: id.nullable(),
+  componentVersion: z.number().nullable(),
+  tagNumber: safeText().nullable(),
+  custody: z.enum(CUSTODY).nullable(),
+  matchedOn: z.enum(["designation", "tag"]),
+  exact: z.boolean(),
 });
 export type LookupMatch = z.infer<typeof lookupMatchSchema>;
 export const lookupResponse = z.array(lookupMatchSchema);
@@ -349,7 +492,8 @@ export const GRADE_KEYS = ["10", "9", "8", "7", "6", "5", "4", "3", "2", "1", "0
  */
 export const overviewResponse = z.object({
   totals: z.object({
-    positions: z.number(), surveyed: z.number(),
+    positions: z.number(),
+    surveyed: z.number(),
     bySurveyState: countsOf(["not_surveyed", "inspected", "decided"] as const),
   }),
   byDisposition: countsOf([...DISPOSITIONS, "undecided"] as const),
@@ -363,14 +507,41 @@ export type Overview = z.infer<typeof overviewResponse>;
 // ───────────── CSV: GET /inventory.csv, POST /inventory/import ─────────────
 /** Columns the import reads (header names, any order, case-insensitive); board, designation, kind, grid_row, grid_col required. */
 export const CSV_IMPORT_COLUMNS = [
-  "board", "section", "designation", "kind", "grid_row", "grid_col", "row_span", "col_span", "circuit",
-  "maker", "model", "frame", "mounting", "rating_amps", "poles", "voltage_rating", "interrupting_ka", "serial",
-  "year", "meter_range", "lamp_watts", "heritage", "tag_number", "notes",
+  "board",
+  "section",
+  "designation",
+  "kind",
+  "grid_row",
+  "grid_col",
+  "row_span",
+  "col_span",
+  "circuit",
+  "maker",
+  "model",
+  "frame",
+  "mounting",
+  "rating_amps",
+  "poles",
+  "voltage_rating",
+  "interrupting_ka",
+  "serial",
+  "year",
+  "meter_range",
+  "lamp_watts",
+  "heritage",
+  "tag_number",
+  "notes",
 ] as const;
 /** The export writes the import columns, then these read-only survey columns (ignored on import). */
 export const CSV_EXPORT_EXTRA_COLUMNS = [
-  "custody", "custody_location", "disposition", "disposition_overridden", "latest_percent_rusted",
-  "latest_astm_grade", "latest_iso_ri", "latest_inspected_at",
+  "custody",
+  "custody_location",
+  "disposition",
+  "disposition_overridden",
+  "latest_percent_rusted",
+  "latest_astm_grade",
+  "latest_iso_ri",
+  "latest_inspected_at",
 ] as const;
 export const importQuery = z.object({ mode: z.enum(["preview", "commit"]).default("preview") });
 /** Body: text/csv (≤ 2 MB, else 413) or JSON { csv }. */
@@ -385,7 +556,9 @@ export const importRowSchema = z.object({
 });
 export type ImportRow = z.infer<typeof importRowSchema>;
 export const importSummarySchema = z.object({
-  rows: z.number(), ok: z.number(), failed: z.number(),
+  rows: z.number(),
+  ok: z.number(),
+  failed: z.number(),
   /** Boards named in the file that do not exist yet: they are created (450 V, 3-phase, 60 Hz, ungrounded defaults, grid sized to fit). */
   boardsToCreate: z.array(safeText()),
   sectionsToCreate: z.array(safeText()),

@@ -4,7 +4,10 @@ import { LEAD_SOURCE_KINDS, LEAD_STATUSES } from "../domain/part-workflow";
 import { SPEC_FIELDS } from "../domain/parts";
 import { COMPONENT_KINDS, HERITAGE_RULES, PART_STATUSES } from "../domain/vocab";
 
-const shortText = (max = 200) => text().trim().max(max, { message: `At most ${max} characters` });
+const shortText = (max = 200) =>
+  text()
+    .trim()
+    .max(max, { message: `At most ${max} characters` });
 const money = z.number({ message: "Enter an amount" }).min(0, { message: "Cannot be negative" }).max(10_000_000);
 const dateText = isoDate("Use YYYY-MM-DD");
 const version = int().min(1);
@@ -76,7 +79,11 @@ export const statusBody = z.discriminatedUnion("to", [
   z.object({ to: z.literal("acquired"), version, note, acquisition: acquisitionBody.optional() }),
   z.object({ to: z.literal("received"), version, note }),
   z.object({ to: z.literal("fitted"), version, note, heritageAfter: z.enum(FITTED_HERITAGE) }),
-  z.object({ to: z.literal("cancelled"), version, reason: shortText(1000).min(1, { message: "Say why the line is cancelled" }) }),
+  z.object({
+    to: z.literal("cancelled"),
+    version,
+    reason: shortText(1000).min(1, { message: "Say why the line is cancelled" }),
+  }),
 ]);
 export type StatusBody = z.input<typeof statusBody>;
 
@@ -103,7 +110,16 @@ export type LeadBody = z.input<typeof leadBody>;
 export const updateLeadBody = z.object(leadFields).partial().extend({ version });
 
 /** Server-side sorts of the wanted list ("part" = kind, rating, maker, model, need). */
-export const PART_SORTS = ["created", "part", "heritageRule", "qty", "positions", "status", "leadCount", "estimated"] as const;
+export const PART_SORTS = [
+  "created",
+  "part",
+  "heritageRule",
+  "qty",
+  "positions",
+  "status",
+  "leadCount",
+  "estimated",
+] as const;
 export type PartSort = (typeof PART_SORTS)[number];
 export const PART_PAGE_SIZES = [25, 50, 100, 200, 500] as const;
 
@@ -174,7 +190,15 @@ export const lineSchema = z.object({
 export type PartLine = z.infer<typeof lineSchema>;
 
 export const budgetSchema = z.object({
-  rows: z.array(z.object({ boardId: text(), boardName: text(), estimated: z.number(), spent: z.number(), unestimatedLines: z.number() })),
+  rows: z.array(
+    z.object({
+      boardId: text(),
+      boardName: text(),
+      estimated: z.number(),
+      spent: z.number(),
+      unestimatedLines: z.number(),
+    }),
+  ),
   total: z.object({ estimated: z.number(), spent: z.number() }),
 });
 export type PartsBudget = z.infer<typeof budgetSchema>;

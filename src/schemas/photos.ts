@@ -85,7 +85,10 @@ export type BulkAssign = z.infer<typeof bulkAssignBody>;
 
 export const photoSettingsSchema = z.object({ requiredKinds: z.array(z.enum(PHOTO_KINDS)), version: z.number() });
 export const photoSettingsBody = z.object({
-  requiredKinds: z.array(z.enum(PHOTO_KINDS)).max(PHOTO_KINDS.length).refine((a) => new Set(a).size === a.length, "list each kind once"),
+  requiredKinds: z
+    .array(z.enum(PHOTO_KINDS))
+    .max(PHOTO_KINDS.length)
+    .refine((a) => new Set(a).size === a.length, "list each kind once"),
   version: int().min(1),
 });
 

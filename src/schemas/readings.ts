@@ -13,50 +13,78 @@ import { TRIP_UNITS } from "../domain/trip-test";
 export const CONDUCTORS = ["A-B", "B-C", "C-A", "A-G", "B-G", "C-G", "line-load"] as const;
 export type Conductors = (typeof CONDUCTORS)[number];
 export const CONDUCTOR_LABELS: Record<Conductors, string> = {
-  "A-B": "A to B", "B-C": "B to C", "C-A": "C to A", "A-G": "A to ground", "B-G": "B to ground", "C-G": "C to ground", "line-load": "Open pole, line to load",
+  "A-B": "A to B",
+  "B-C": "B to C",
+  "C-A": "C to A",
+  "A-G": "A to ground",
+  "B-G": "B to ground",
+  "C-G": "C to ground",
+  "line-load": "Open pole, line to load",
 };
 export const LAMP_LOOKS = ["bright", "dim", "dark"] as const;
 export const PHASE_KEYS = ["A", "B", "C"] as const;
 export const INSULATION_MEDIA = ["solid", "oil"] as const;
 
 const num = (label: string, min: number, max: number, unit: string) =>
-  z.number({ message: `${label} must be a number` }).min(min, { message: `${label} must be at least ${min} ${unit}` }).max(max, { message: `${label} must be at most ${max} ${unit}` });
+  z
+    .number({ message: `${label} must be a number` })
+    .min(min, { message: `${label} must be at least ${min} ${unit}` })
+    .max(max, { message: `${label} must be at most ${max} ${unit}` });
 const positive = (label: string, max: number, unit: string) =>
-  z.number({ message: `${label} must be a number` }).positive({ message: `${label} must be more than 0 ${unit}` }).max(max, { message: `${label} must be at most ${max} ${unit}` });
+  z
+    .number({ message: `${label} must be a number` })
+    .positive({ message: `${label} must be more than 0 ${unit}` })
+    .max(max, { message: `${label} must be at most ${max} ${unit}` });
 const opt = <T extends z.ZodType>(s: T) => s.nullish().transform((v) => v ?? null);
 /** A megohm value: 0 is a reading (a dead short), not an error. */
 const megohms = (label: string) => num(label, 0, 1e7, "MΩ");
-const qualifier = opt(z.enum(READING_QUALIFIERS, { message: "Choose at or above the meter's range, or below its resolution" }));
+const qualifier = opt(
+  z.enum(READING_QUALIFIERS, { message: "Choose at or above the meter's range, or below its resolution" }),
+);
 export const QUALIFIER_LABELS = { at_or_above: "≥ meter's limit", below: "≤ resolution" } as const;
 
 const measuredAt = isoDateTime("Give the date and time of the reading");
 const text = (max: number) => safeText().trim().max(max).default("");
 
-export const insulationReadingBody = z.object({
-  componentId: opt(z.uuid({ message: "componentId must be a UUID" })),
-  circuit: text(120),
-  testVoltsDc: int({ message: "Test voltage must be whole volts" }).min(50, { message: "Test voltage must be at least 50 V DC" }).max(15000, { message: "Test voltage must be at most 15000 V DC" }),
-  megohms: megohms("Reading"),
-  megohmsQualifier: qualifier,
-  conductors: z.enum(CONDUCTORS, { message: "Choose which conductors were tested" }),
-  equipmentTempC: num("Equipment temperature", -10, 110, "°C"),
-  ambientTempC: opt(num("Ambient temperature", -40, 80, "°C")),
-  humidityPercent: opt(num("Relative humidity", 0, 100, "%")),
-  durationS: opt(int().min(1, { message: "Duration must be at least 1 s" }).max(3600, { message: "Duration must be at most 3600 s" })),
-  r30s: opt(megohms("30-second reading")),
-  r1min: opt(megohms("1-minute reading")),
-  r10min: opt(megohms("10-minute reading")),
-  r30sQualifier: qualifier,
-  r1minQualifier: qualifier,
-  r10minQualifier: qualifier,
-  instrument: text(200),
-  notes: text(2000),
-  measuredAt,
-}).refine((b) => b.componentId !== null || b.circuit !== "", { message: "Name the circuit or choose a component", path: ["circuit"] });
+export const insulationReadingBody = z
+  .object({
+    componentId: opt(z.uuid({ message: "componentId must be a UUID" })),
+    circuit: text(120),
+    testVoltsDc: int({ message: "Test voltage must be whole volts" })
+      .min(50, { message: "Test voltage must be at least 50 V DC" })
+      .max(15000, { message: "Test voltage must be at most 15000 V DC" }),
+    megohms: megohms("Reading"),
+    megohmsQualifier: qualifier,
+    conductors: z.enum(CONDUCTORS, { message: "Choose which conductors were tested" }),
+    equipmentTempC: num("Equipment temperature", -10, 110, "°C"),
+    ambientTempC: opt(num("Ambient temperature", -40, 80, "°C")),
+    humidityPercent: opt(num("Relative humidity", 0, 100, "%")),
+    durationS: opt(
+      int()
+        .min(1, { message: "Duration must be at least 1 s" })
+        .max(3600, { message: "Duration must be at most 3600 s" }),
+    ),
+    r30s: opt(megohms("30-second reading")),
+    r1min: opt(megohms("1-minute reading")),
+    r10min: opt(megohms("10-minute reading")),
+    r30sQualifier: qualifier,
+    r1minQualifier: qualifier,
+    r10minQualifier: qualifier,
+    instrument: text(200),
+    notes: text(2000),
+    measuredAt,
+  })
+  .refine((b) => b.componentId !== null || b.circuit !== "", {
+    message: "Name the circuit or choose a component",
+    path: ["circuit"],
+  });
 export type InsulationReadingBody = z.input<typeof insulationReadingBody>;
 
 export const contactReadingBody = z.object({
-  poleMicroOhms: z.array(positive("Pole reading", 1e7, "µΩ")).min(1, { message: "Give at least one pole" }).max(6, { message: "At most six poles" }),
+  poleMicroOhms: z
+    .array(positive("Pole reading", 1e7, "µΩ"))
+    .min(1, { message: "Give at least one pole" })
+    .max(6, { message: "At most six poles" }),
   testCurrentA: positive("Test current", 1000, "A"),
   instrument: text(200),
   notes: text(2000),
@@ -64,51 +92,71 @@ export const contactReadingBody = z.object({
 });
 export type ContactReadingBody = z.input<typeof contactReadingBody>;
 
-export const thermalScanBody = z.object({
-  componentTempC: num("Component temperature", -40, 400, "°C"),
-  similarTempC: opt(num("Similar component temperature", -40, 400, "°C")),
-  ambientTempC: opt(num("Ambient temperature", -40, 80, "°C")),
-  loadPercent: opt(num("Load", 0, 200, "%")),
-  loadAmps: opt(num("Load current", 0, 100000, "A")),
-  photoId: opt(z.uuid({ message: "photoId must be a UUID" })),
-  instrument: text(200),
-  notes: text(2000),
-  measuredAt,
-}).refine((b) => b.similarTempC !== null || b.ambientTempC !== null, { message: "Give a similar component's temperature, the ambient, or both", path: ["similarTempC"] });
+export const thermalScanBody = z
+  .object({
+    componentTempC: num("Component temperature", -40, 400, "°C"),
+    similarTempC: opt(num("Similar component temperature", -40, 400, "°C")),
+    ambientTempC: opt(num("Ambient temperature", -40, 80, "°C")),
+    loadPercent: opt(num("Load", 0, 200, "%")),
+    loadAmps: opt(num("Load current", 0, 100000, "A")),
+    photoId: opt(z.uuid({ message: "photoId must be a UUID" })),
+    instrument: text(200),
+    notes: text(2000),
+    measuredAt,
+  })
+  .refine((b) => b.similarTempC !== null || b.ambientTempC !== null, {
+    message: "Give a similar component's temperature, the ambient, or both",
+    path: ["similarTempC"],
+  });
 export type ThermalScanBody = z.input<typeof thermalScanBody>;
 
 const phases = <T extends z.ZodType>(s: T) => z.object({ A: s, B: s, C: s });
-export const groundCheckBody = z.object({
-  energisation: text(200),
-  lineVolts: positive("Line voltage", 1000, "V"),
-  lamps: opt(phases(z.enum(LAMP_LOOKS, { message: "Choose bright, dim or dark" }))),
-  volts: opt(phases(num("Volts to ground", 0, 2000, "V"))),
-  branchOhms: opt(positive("Lamp branch resistance", 1e7, "Ω")),
-  capacitanceMicroF: opt(num("Capacitance to ground per phase", 0, 1000, "µF")),
-  instrument: text(200),
-  notes: text(2000),
-  measuredAt,
-}).refine((b) => b.lamps !== null || b.volts !== null, { message: "Record how each lamp looks or its volts to ground", path: ["lamps"] });
+export const groundCheckBody = z
+  .object({
+    energisation: text(200),
+    lineVolts: positive("Line voltage", 1000, "V"),
+    lamps: opt(phases(z.enum(LAMP_LOOKS, { message: "Choose bright, dim or dark" }))),
+    volts: opt(phases(num("Volts to ground", 0, 2000, "V"))),
+    branchOhms: opt(positive("Lamp branch resistance", 1e7, "Ω")),
+    capacitanceMicroF: opt(num("Capacitance to ground per phase", 0, 1000, "µF")),
+    instrument: text(200),
+    notes: text(2000),
+    measuredAt,
+  })
+  .refine((b) => b.lamps !== null || b.volts !== null, {
+    message: "Record how each lamp looks or its volts to ground",
+    path: ["lamps"],
+  });
 export type GroundCheckBody = z.input<typeof groundCheckBody>;
 
-export const criteriaBody = z.object({
-  correctionMethod: z.enum(CORRECTION_METHODS),
-  insulationMedium: z.enum(INSULATION_MEDIA),
-  thermalClass: z.enum(THERMAL_CLASSES),
-  minimumMegohms: opt(positive("Minimum", 1e7, "MΩ")),
-  minimumSource: text(500),
-  contactOutlierPercent: num("Contact threshold", 1, 500, "%"),
-  dewPointMarginK: num("Dew-point margin", 0, 20, "K").default(3),
-  version: int().min(0),
-}).refine((b) => b.minimumMegohms === null || b.minimumSource !== "", { message: "Say where the site's minimum comes from", path: ["minimumSource"] });
+export const criteriaBody = z
+  .object({
+    correctionMethod: z.enum(CORRECTION_METHODS),
+    insulationMedium: z.enum(INSULATION_MEDIA),
+    thermalClass: z.enum(THERMAL_CLASSES),
+    minimumMegohms: opt(positive("Minimum", 1e7, "MΩ")),
+    minimumSource: text(500),
+    contactOutlierPercent: num("Contact threshold", 1, 500, "%"),
+    dewPointMarginK: num("Dew-point margin", 0, 20, "K").default(3),
+    version: int().min(0),
+  })
+  .refine((b) => b.minimumMegohms === null || b.minimumSource !== "", {
+    message: "Say where the site's minimum comes from",
+    path: ["minimumSource"],
+  });
 export type CriteriaBody = z.input<typeof criteriaBody>;
 
-export const overrideBody = z.object({
-  minimumMegohms: opt(positive("Manufacturer's minimum", 1e7, "MΩ")),
-  maximumMicroOhms: opt(positive("Manufacturer's maximum", 1e7, "µΩ")),
-  source: safeText().trim().min(1, { message: "Say where the manufacturer's value comes from" }).max(500),
-  version: int().min(0).optional(),
-}).refine((b) => b.minimumMegohms !== null || b.maximumMicroOhms !== null, { message: "Give a minimum MΩ, a maximum µΩ, or both", path: ["minimumMegohms"] });
+export const overrideBody = z
+  .object({
+    minimumMegohms: opt(positive("Manufacturer's minimum", 1e7, "MΩ")),
+    maximumMicroOhms: opt(positive("Manufacturer's maximum", 1e7, "µΩ")),
+    source: safeText().trim().min(1, { message: "Say where the manufacturer's value comes from" }).max(500),
+    version: int().min(0).optional(),
+  })
+  .refine((b) => b.minimumMegohms !== null || b.maximumMicroOhms !== null, {
+    message: "Give a minimum MΩ, a maximum µΩ, or both",
+    path: ["minimumMegohms"],
+  });
 export type OverrideBody = z.input<typeof overrideBody>;
 
 // ---- Responses ---------------------------------------------------------------------------
@@ -217,9 +265,19 @@ export const groundCheckSchema = z.object({
   branchOhms: z.number().nullable(),
   capacitanceMicroF: z.number().nullable(),
   judgement: z.object({
-    phase: z.enum(PHASE_KEYS).nullable(), faultOhms: z.number().nullable(),
-    faultRange: z.object({ lowOhms: z.number().nullable(), centralOhms: z.number().nullable(), highOhms: z.number().nullable(), capacitanceNeglected: z.boolean() }).nullable(),
-    words: safeText(), verdict, source: sourceSchema,
+    phase: z.enum(PHASE_KEYS).nullable(),
+    faultOhms: z.number().nullable(),
+    faultRange: z
+      .object({
+        lowOhms: z.number().nullable(),
+        centralOhms: z.number().nullable(),
+        highOhms: z.number().nullable(),
+        capacitanceNeglected: z.boolean(),
+      })
+      .nullable(),
+    words: safeText(),
+    verdict,
+    source: sourceSchema,
   }),
 });
 export type GroundCheck = z.infer<typeof groundCheckSchema>;
@@ -247,45 +305,84 @@ export const overrideSchema = z.object({
 export type ComponentOverride = z.infer<typeof overrideSchema>;
 
 export const readingTargetsSchema = z.object({
-  boards: z.array(z.object({
-    id: safeText(),
-    name: safeText(),
-    nominalVolts: z.number(),
-    positions: z.array(z.object({ positionId: safeText(), designation: safeText(), circuit: safeText(), componentId: safeText().nullable(), kind: safeText() })),
-  })),
+  boards: z.array(
+    z.object({
+      id: safeText(),
+      name: safeText(),
+      nominalVolts: z.number(),
+      positions: z.array(
+        z.object({
+          positionId: safeText(),
+          designation: safeText(),
+          circuit: safeText(),
+          componentId: safeText().nullable(),
+          kind: safeText(),
+        }),
+      ),
+    }),
+  ),
 });
 export type ReadingTargets = z.infer<typeof readingTargetsSchema>;
 
 // ---- Issue 13: trip tests, step-voltage tests, ground hunt, phase comparison ----------------
 export const TRIP_TESTS = ["inverse_time", "instantaneous"] as const;
-export const TRIP_TEST_LABELS = { inverse_time: "Overload (inverse-time) at 300 %", instantaneous: "Instantaneous pickup" } as const;
+export const TRIP_TEST_LABELS = {
+  inverse_time: "Overload (inverse-time) at 300 %",
+  instantaneous: "Instantaneous pickup",
+} as const;
 
-export const tripTestBody = z.object({
-  test: z.enum(TRIP_TESTS, { message: "Choose the test" }),
-  tripUnit: z.enum(TRIP_UNITS, { message: "Choose the trip unit" }),
-  adjustable: z.boolean().default(false),
-  pole: text(20),
-  ratingAmps: positive("Rating", 10000, "A"),
-  systemVolts: positive("System voltage", 1000, "V"),
-  testAmps: opt(positive("Test current", 200000, "A")),
-  tripSeconds: opt(num("Trip time", 0, 100000, "s")),
-  bandMinSeconds: opt(num("Band minimum", 0, 100000, "s")),
-  bandMaxSeconds: opt(num("Band maximum", 0, 100000, "s")),
-  settingAmps: opt(positive("Setting", 200000, "A")),
-  publishedLowAmps: opt(positive("Published low", 200000, "A")),
-  publishedHighAmps: opt(positive("Published high", 200000, "A")),
-  pickupAmps: opt(positive("Pickup current", 200000, "A")),
-  instrument: text(200),
-  notes: text(2000),
-  measuredAt,
-})
-  .refine((b) => b.test !== "inverse_time" || b.testAmps !== null, { message: "Give the test current", path: ["testAmps"] })
-  .refine((b) => b.test !== "instantaneous" || b.pickupAmps !== null, { message: "Give the pickup current", path: ["pickupAmps"] })
-  .refine((b) => b.test !== "instantaneous" || !(b.tripUnit === "electronic" || b.adjustable) || b.settingAmps !== null, { message: "Give the setting in amperes", path: ["settingAmps"] })
-  .refine((b) => b.test !== "instantaneous" || b.tripUnit === "electronic" || b.adjustable || (b.publishedLowAmps !== null && b.publishedHighAmps !== null), { message: "Give the manufacturer's published range", path: ["publishedLowAmps"] })
-  .refine((b) => (b.bandMinSeconds === null) === (b.bandMaxSeconds === null), { message: "Give both ends of the band, or neither", path: ["bandMaxSeconds"] })
-  .refine((b) => b.bandMinSeconds === null || b.bandMaxSeconds === null || b.bandMaxSeconds >= b.bandMinSeconds, { message: "The band's maximum must be at least its minimum", path: ["bandMaxSeconds"] })
-  .refine((b) => b.publishedLowAmps === null || b.publishedHighAmps === null || b.publishedHighAmps >= b.publishedLowAmps, { message: "The high end must be at least the low end", path: ["publishedHighAmps"] });
+export const tripTestBody = z
+  .object({
+    test: z.enum(TRIP_TESTS, { message: "Choose the test" }),
+    tripUnit: z.enum(TRIP_UNITS, { message: "Choose the trip unit" }),
+    adjustable: z.boolean().default(false),
+    pole: text(20),
+    ratingAmps: positive("Rating", 10000, "A"),
+    systemVolts: positive("System voltage", 1000, "V"),
+    testAmps: opt(positive("Test current", 200000, "A")),
+    tripSeconds: opt(num("Trip time", 0, 100000, "s")),
+    bandMinSeconds: opt(num("Band minimum", 0, 100000, "s")),
+    bandMaxSeconds: opt(num("Band maximum", 0, 100000, "s")),
+    settingAmps: opt(positive("Setting", 200000, "A")),
+    publishedLowAmps: opt(positive("Published low", 200000, "A")),
+    publishedHighAmps: opt(positive("Published high", 200000, "A")),
+    pickupAmps: opt(positive("Pickup current", 200000, "A")),
+    instrument: text(200),
+    notes: text(2000),
+    measuredAt,
+  })
+  .refine((b) => b.test !== "inverse_time" || b.testAmps !== null, {
+    message: "Give the test current",
+    path: ["testAmps"],
+  })
+  .refine((b) => b.test !== "instantaneous" || b.pickupAmps !== null, {
+    message: "Give the pickup current",
+    path: ["pickupAmps"],
+  })
+  .refine(
+    (b) => b.test !== "instantaneous" || !(b.tripUnit === "electronic" || b.adjustable) || b.settingAmps !== null,
+    { message: "Give the setting in amperes", path: ["settingAmps"] },
+  )
+  .refine(
+    (b) =>
+      b.test !== "instantaneous" ||
+      b.tripUnit === "electronic" ||
+      b.adjustable ||
+      (b.publishedLowAmps !== null && b.publishedHighAmps !== null),
+    { message: "Give the manufacturer's published range", path: ["publishedLowAmps"] },
+  )
+  .refine((b) => (b.bandMinSeconds === null) === (b.bandMaxSeconds === null), {
+    message: "Give both ends of the band, or neither",
+    path: ["bandMaxSeconds"],
+  })
+  .refine((b) => b.bandMinSeconds === null || b.bandMaxSeconds === null || b.bandMaxSeconds >= b.bandMinSeconds, {
+    message: "The band's maximum must be at least its minimum",
+    path: ["bandMaxSeconds"],
+  })
+  .refine(
+    (b) => b.publishedLowAmps === null || b.publishedHighAmps === null || b.publishedHighAmps >= b.publishedLowAmps,
+    { message: "The high end must be at least the low end", path: ["publishedHighAmps"] },
+  );
 export type TripTestBody = z.input<typeof tripTestBody>;
 
 export const tripTestSchema = z.object({
@@ -308,20 +405,35 @@ export const tripTestSchema = z.object({
 });
 export type TripTest = z.infer<typeof tripTestSchema>;
 
-export const stepVoltageBody = z.object({
-  componentId: opt(z.uuid({ message: "componentId must be a UUID" })),
-  circuit: text(120),
-  conductors: z.enum(CONDUCTORS, { message: "Choose which conductors were tested" }),
-  equipmentTempC: opt(num("Equipment temperature", -10, 110, "°C")),
-  steps: z.array(z.object({
-    testVoltsDc: int({ message: "Whole volts" }).min(50, { message: "At least 50 V DC" }).max(15000, { message: "At most 15000 V DC" }),
-    megohms: megohms("Reading"),
-  })).min(2, { message: "Give at least two steps" }).max(8, { message: "At most eight steps" }),
-  instrument: text(200),
-  notes: text(2000),
-  measuredAt,
-}).refine((b) => b.componentId !== null || b.circuit !== "", { message: "Name the circuit or choose a component", path: ["circuit"] })
-  .refine((b) => new Set(b.steps.map((s) => s.testVoltsDc)).size === b.steps.length, { message: "Each step needs its own voltage", path: ["steps"] });
+export const stepVoltageBody = z
+  .object({
+    componentId: opt(z.uuid({ message: "componentId must be a UUID" })),
+    circuit: text(120),
+    conductors: z.enum(CONDUCTORS, { message: "Choose which conductors were tested" }),
+    equipmentTempC: opt(num("Equipment temperature", -10, 110, "°C")),
+    steps: z
+      .array(
+        z.object({
+          testVoltsDc: int({ message: "Whole volts" })
+            .min(50, { message: "At least 50 V DC" })
+            .max(15000, { message: "At most 15000 V DC" }),
+          megohms: megohms("Reading"),
+        }),
+      )
+      .min(2, { message: "Give at least two steps" })
+      .max(8, { message: "At most eight steps" }),
+    instrument: text(200),
+    notes: text(2000),
+    measuredAt,
+  })
+  .refine((b) => b.componentId !== null || b.circuit !== "", {
+    message: "Name the circuit or choose a component",
+    path: ["circuit"],
+  })
+  .refine((b) => new Set(b.steps.map((s) => s.testVoltsDc)).size === b.steps.length, {
+    message: "Each step needs its own voltage",
+    path: ["steps"],
+  });
 export type StepVoltageBody = z.input<typeof stepVoltageBody>;
 
 export const stepVoltageSchema = z.object({
@@ -354,7 +466,11 @@ export const groundHuntStepSchema = z.object({
   lamps: phases(z.enum(LAMP_LOOKS)),
 });
 export type GroundHuntStep = z.infer<typeof groundHuntStepSchema>;
-export const groundHuntSchema = z.object({ hunt: safeText(), steps: z.array(groundHuntStepSchema), finding: z.object({ feeder: safeText().nullable(), words: safeText() }) });
+export const groundHuntSchema = z.object({
+  hunt: safeText(),
+  steps: z.array(groundHuntStepSchema),
+  finding: z.object({ feeder: safeText().nullable(), words: safeText() }),
+});
 export type GroundHunt = z.infer<typeof groundHuntSchema>;
 
 export const phaseComparisonSchema = z.object({
@@ -363,7 +479,15 @@ export const phaseComparisonSchema = z.object({
   measuredAt: safeText(),
   values: z.object({ A: z.number().nullable(), B: z.number().nullable(), C: z.number().nullable() }),
   flagged: z.array(z.enum(PHASE_KEYS)),
-  trend: z.array(z.object({ conductors: z.enum(CONDUCTORS), previous: z.number(), current: z.number(), dropFraction: z.number(), flagged: z.boolean() })),
+  trend: z.array(
+    z.object({
+      conductors: z.enum(CONDUCTORS),
+      previous: z.number(),
+      current: z.number(),
+      dropFraction: z.number(),
+      flagged: z.boolean(),
+    }),
+  ),
   reasons: z.array(safeText()),
 });
 export type PhaseComparison = z.infer<typeof phaseComparisonSchema>;
@@ -382,7 +506,15 @@ export const boardReadingsSchema = z.object({
 export type BoardReadings = z.infer<typeof boardReadingsSchema>;
 
 export const componentReadingsSchema = z.object({
-  component: z.object({ id: safeText(), boardId: safeText(), boardName: safeText(), designation: safeText(), circuit: safeText(), kind: safeText(), ratedVolts: z.number() }),
+  component: z.object({
+    id: safeText(),
+    boardId: safeText(),
+    boardName: safeText(),
+    designation: safeText(),
+    circuit: safeText(),
+    kind: safeText(),
+    ratedVolts: z.number(),
+  }),
   override: overrideSchema.nullable(),
   insulation: z.array(insulationReadingSchema),
   contacts: z.array(contactReadingSchema),
@@ -391,4 +523,3 @@ export const componentReadingsSchema = z.object({
   stepTests: z.array(stepVoltageSchema),
 });
 export type ComponentReadings = z.infer<typeof componentReadingsSchema>;
-

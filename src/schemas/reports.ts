@@ -25,7 +25,11 @@ const dateText = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, { message: "Use YYYY-MM
 const sectionList = z
   .union([z.string(), z.array(z.string())])
   .transform((v) => (Array.isArray(v) ? v : v.split(",")).map((s) => s.trim()).filter(Boolean))
-  .pipe(z.array(z.enum(REPORT_SECTIONS, { message: `Sections are ${REPORT_SECTIONS.join(", ")}` })).min(1, { message: "Choose at least one section" }));
+  .pipe(
+    z
+      .array(z.enum(REPORT_SECTIONS, { message: `Sections are ${REPORT_SECTIONS.join(", ")}` }))
+      .min(1, { message: "Choose at least one section" }),
+  );
 
 export const surveyReportQuery = z
   .object({
@@ -37,7 +41,10 @@ export const surveyReportQuery = z
     to: dateText.optional(),
     paper: z.enum(["a4", "letter"]).default("a4"),
   })
-  .refine((q) => !q.from || !q.to || q.from <= q.to, { message: "The start date must not be after the end date", path: ["from"] });
+  .refine((q) => !q.from || !q.to || q.from <= q.to, {
+    message: "The start date must not be after the end date",
+    path: ["from"],
+  });
 export type SurveyReportQuery = z.output<typeof surveyReportQuery>;
 
 /** What to print labels for: explicit positions, a section or a board (only tagged components get a label). */
@@ -56,19 +63,38 @@ export const labelsQuery = z
     /** Copies of each label (one for the part, one for its bag). */
     copies: z.coerce.number().int().min(1).max(4).default(1),
   })
-  .refine((q) => q.boardId || q.sectionId || q.positionIds?.length, { message: "Choose a board, a section or positions", path: ["boardId"] });
+  .refine((q) => q.boardId || q.sectionId || q.positionIds?.length, {
+    message: "Choose a board, a section or positions",
+    path: ["boardId"],
+  });
 export type LabelsQuery = z.output<typeof labelsQuery>;
 
 /** Give the next free tag numbers to the untagged components at these positions. */
 export const assignTagsBody = z.object({
-  positionIds: z.array(z.uuid({ message: "positionIds must be UUIDs" })).min(1).max(2000),
+  positionIds: z
+    .array(z.uuid({ message: "positionIds must be UUIDs" }))
+    .min(1)
+    .max(2000),
   /** Prefix of new tags, e.g. "KL-"; absent = the prefix most tags of the site already use (or "T-"). */
-  prefix: z.string().trim().regex(/^[A-Za-z0-9]{0,8}-?$/, { message: "Up to 8 letters or digits, optionally ending in -" }).optional(),
+  prefix: z
+    .string()
+    .trim()
+    .regex(/^[A-Za-z0-9]{0,8}-?$/, { message: "Up to 8 letters or digits, optionally ending in -" })
+    .optional(),
 });
 
 export const tagLookupResponse = z.object({
   tag: z.string(),
-  matches: z.array(z.object({ siteId: z.string(), siteName: z.string(), boardId: z.string(), boardName: z.string(), positionId: z.string(), designation: z.string() })),
+  matches: z.array(
+    z.object({
+      siteId: z.string(),
+      siteName: z.string(),
+      boardId: z.string(),
+      boardName: z.string(),
+      positionId: z.string(),
+      designation: z.string(),
+    }),
+  ),
 });
 export type TagLookup = z.infer<typeof tagLookupResponse>;
 

@@ -1,5 +1,13 @@
 import { z } from "zod";
-import { STEP_KINDS, SUPPLIES, VOLTAGE_STEPS, type StageStatus, type StepKind, type Supply, type VoltageStep } from "../domain/return-to-service";
+import {
+  STEP_KINDS,
+  SUPPLIES,
+  VOLTAGE_STEPS,
+  type StageStatus,
+  type StepKind,
+  type Supply,
+  type VoltageStep,
+} from "../domain/return-to-service";
 import type { GateResult } from "../domain/rts-gate";
 import type { OperationsStatus } from "../domain/breaker-operations";
 import type { ComponentKind } from "../domain/vocab";
@@ -22,8 +30,14 @@ const stageFields = {
   stepVolts: z.number().positive().max(100_000).nullable(),
   dependsOnId: z.uuid().nullable(),
   qualifiedPersonId: z.uuid().nullable(),
-  watchHours: z.number().min(0).max(24 * 60),
-  checkEveryHours: z.number().min(0.25, { message: "At least every 15 minutes" }).max(24 * 14),
+  watchHours: z
+    .number()
+    .min(0)
+    .max(24 * 60),
+  checkEveryHours: z
+    .number()
+    .min(0.25, { message: "At least every 15 minutes" })
+    .max(24 * 14),
   notes: text(4000),
 };
 export const createStageBody = z
@@ -41,7 +55,10 @@ export const createStageBody = z
     checkEveryHours: stageFields.checkEveryHours.default(4),
     notes: stageFields.notes.default(""),
   })
-  .refine((b) => b.sectionIds.length + b.positionIds.length > 0, { message: "Name at least one section or circuit the stage brings back", path: ["sectionIds"] });
+  .refine((b) => b.sectionIds.length + b.positionIds.length > 0, {
+    message: "Name at least one section or circuit the stage brings back",
+    path: ["sectionIds"],
+  });
 export type CreateStageBody = z.infer<typeof createStageBody>;
 export const patchStageBody = z.object(stageFields).partial().extend({ version }).strict();
 export type PatchStageBody = z.infer<typeof patchStageBody>;
@@ -54,9 +71,20 @@ export const stepBody = z.object({
   /** Insert at this position (0 = top); default at the end. */
   atIndex: z.number().int().min(0).max(1000).optional(),
 });
-export const patchStepBody = z.object({ title: stepBody.shape.title, detail: text(2000), version }).partial().extend({ version }).strict();
+export const patchStepBody = z
+  .object({ title: stepBody.shape.title, detail: text(2000), version })
+  .partial()
+  .extend({ version })
+  .strict();
 
-export const EVIDENCE_TYPES = ["insulation_reading", "thermal_scan", "ground_check", "photo", "defect", "watch_check"] as const;
+export const EVIDENCE_TYPES = [
+  "insulation_reading",
+  "thermal_scan",
+  "ground_check",
+  "photo",
+  "defect",
+  "watch_check",
+] as const;
 export const evidenceItem = z.object({ type: z.enum(EVIDENCE_TYPES), id: z.uuid() });
 export type EvidenceItem = z.infer<typeof evidenceItem>;
 
@@ -98,8 +126,14 @@ export const watchCheckBody = z
     ambientC: z.number().min(-50).max(80).nullable().default(null),
     note: text(2000).default(""),
   })
-  .refine((b) => b.lamps === "equal" || b.lamps === "not_seen" || b.lampPhase, { message: "Which phase's lamp?", path: ["lampPhase"] })
-  .refine((b) => b.thermalC === null || b.ambientC !== null, { message: "Give the air temperature beside the thermal reading", path: ["ambientC"] });
+  .refine((b) => b.lamps === "equal" || b.lamps === "not_seen" || b.lampPhase, {
+    message: "Which phase's lamp?",
+    path: ["lampPhase"],
+  })
+  .refine((b) => b.thermalC === null || b.ambientC !== null, {
+    message: "Give the air temperature beside the thermal reading",
+    path: ["ambientC"],
+  });
 
 export const INCIDENT_KINDS = ["protection_operated", "dark_lamp", "hot_spot", "low_insulation", "other"] as const;
 export type IncidentKind = (typeof INCIDENT_KINDS)[number];
@@ -117,7 +151,10 @@ export const incidentBody = z.object({
   at: when.optional(),
 });
 export const deEnergiseBody = z.object({ note: text(2000).default(""), at: when.optional() });
-export const restartBody = z.object({ reason: z.string().trim().min(3, { message: "Say what was done about the incident" }).max(2000), version });
+export const restartBody = z.object({
+  reason: z.string().trim().min(3, { message: "Say what was done about the incident" }).max(2000),
+  version,
+});
 
 export const operationBody = z.object({
   operation: z.enum(["open", "close"]),
@@ -125,7 +162,11 @@ export const operationBody = z.object({
   why: z.string().trim().min(2, { message: "Say why it was operated" }).max(500),
   at: when.optional(),
 });
-export const budgetBody = z.object({ budget: z.number().int().min(0).max(100_000), reason: text(500).default(""), version: z.number().int().min(0) });
+export const budgetBody = z.object({
+  budget: z.number().int().min(0).max(100_000),
+  reason: text(500).default(""),
+  version: z.number().int().min(0),
+});
 
 export const qualifiedBody = z.object({
   qualification: z.string().trim().min(2, { message: "Say what the qualification is" }).max(500),
@@ -134,7 +175,11 @@ export const qualifiedBody = z.object({
   version: z.number().int().min(0),
 });
 
-export const templateStep = z.object({ kind: z.enum(STEP_KINDS), title: z.string().trim().min(2).max(300), detail: text(2000).default("") });
+export const templateStep = z.object({
+  kind: z.enum(STEP_KINDS),
+  title: z.string().trim().min(2).max(300),
+  detail: text(2000).default(""),
+});
 export const settingsBody = z.object({
   insulationMaxAgeDays: z.number().int().min(1).max(365),
   template: z.array(templateStep).min(1).max(40),
@@ -192,7 +237,13 @@ export interface RtsStage {
   version: number;
   steps: RtsStep[];
   gate: GateResult;
-  watch: { endsAt: string; nextDueAt: string | null; overdueSince: string | null; checksDone: number; complete: boolean } | null;
+  watch: {
+    endsAt: string;
+    nextDueAt: string | null;
+    overdueSince: string | null;
+    checksDone: number;
+    complete: boolean;
+  } | null;
   /** Breakers the stage would operate that are at or past their budget. */
   operationWarnings: Array<{ componentId: string; designation: string; warning: string }>;
   circuitCount: number;
@@ -229,7 +280,13 @@ export interface RtsBoardView {
   breakers: RtsBreaker[];
   sections: Array<{ id: string; name: string }>;
   positions: Array<{ id: string; designation: string; circuit: string; sectionId: string | null }>;
-  qualifiedPersons: Array<{ userId: string; name: string; qualification: string; expiresOn: string | null; current: boolean }>;
+  qualifiedPersons: Array<{
+    userId: string;
+    name: string;
+    qualification: string;
+    expiresOn: string | null;
+    current: boolean;
+  }>;
   now: string;
 }
 export interface RtsOverviewBoard {

@@ -6,14 +6,32 @@ import { gradeBand } from "../../src/features/inventory/components/tile-style";
 import { suggestDefect } from "../../src/features/inventory/defect-link";
 
 const tile = (id: string, gridRow: number, gridCol: number, extra: Partial<TileRow> = {}): TileRow => ({
-  id, designation: id, kind: "molded_case_breaker", gridRow, gridCol, rowSpan: 1, colSpan: 1, circuit: "", sectionId: null,
-  sortOrder: 0, version: 1, component: null, latest: null, photoCount: 0, openDefectCount: 0, ...extra,
+  id,
+  designation: id,
+  kind: "molded_case_breaker",
+  gridRow,
+  gridCol,
+  rowSpan: 1,
+  colSpan: 1,
+  circuit: "",
+  sectionId: null,
+  sortOrder: 0,
+  version: 1,
+  component: null,
+  latest: null,
+  photoCount: 0,
+  openDefectCount: 0,
+  ...extra,
 });
 
 describe("arrow-key neighbour on the elevation grid", () => {
   //  a b c
   //  d [e e]   (e spans two columns)
-  const a = tile("a", 1, 1), b = tile("b", 1, 2), c = tile("c", 1, 3), d = tile("d", 2, 1), e = tile("e", 2, 2, { colSpan: 2 });
+  const a = tile("a", 1, 1),
+    b = tile("b", 1, 2),
+    c = tile("c", 1, 3),
+    d = tile("d", 2, 1),
+    e = tile("e", 2, 2, { colSpan: 2 });
   const all = [a, b, c, d, e];
   it.each([
     [a, "ArrowRight", b],
@@ -33,7 +51,9 @@ describe("arrow-key neighbour on the elevation grid", () => {
 });
 
 describe("filters", () => {
-  const graded = tile("g", 1, 1, { latest: { astmGrade: 3, isoRi: "Ri 4", percentRusted: 12, inspectedAt: "", belowWaterLine: true } });
+  const graded = tile("g", 1, 1, {
+    latest: { astmGrade: 3, isoRi: "Ri 4", percentRusted: 12, inspectedAt: "", belowWaterLine: true },
+  });
   it("a tile matches no filters, and is dimmed by a filter it does not meet", () => {
     expect(tileMatches(graded, NO_FILTERS)).toBe(true);
     expect(tileMatches(graded, { ...NO_FILTERS, band: "rusting" })).toBe(true);
@@ -42,8 +62,17 @@ describe("filters", () => {
     expect(tileMatches(graded, { ...NO_FILTERS, kind: "meter" })).toBe(false);
   });
   // Tideline's own grouping of ASTM D610 grades (10–8, 7–5, 4–3, 2–0) — not from the standard.
-  it.each([[10, "sound"], [8, "sound"], [7, "spotted"], [5, "spotted"], [4, "rusting"], [3, "rusting"], [2, "heavy"], [0, "heavy"], [null, "ungraded"]] as const)(
-    "grade %s is in the %s band", (g, band) => expect(gradeBand(g)).toBe(band));
+  it.each([
+    [10, "sound"],
+    [8, "sound"],
+    [7, "spotted"],
+    [5, "spotted"],
+    [4, "rusting"],
+    [3, "rusting"],
+    [2, "heavy"],
+    [0, "heavy"],
+    [null, "ungraded"],
+  ] as const)("grade %s is in the %s band", (g, band) => expect(gradeBand(g)).toBe(band));
 });
 
 describe("defect prefill from a finding (Tideline's own rule)", () => {

@@ -36,7 +36,9 @@ describe("tileBelowWaterLine", () => {
   });
 
   it("a tile whose bottom is exactly at the line is not below it (common practice: touching is not under)", () => {
-    expect(tileBelowWaterLine({ gridRow: 4, rowSpan: 1 }, { gridRows: 4, faceHeightMm: 1000, waterLineMm: 0 })).toBe(false);
+    expect(tileBelowWaterLine({ gridRow: 4, rowSpan: 1 }, { gridRows: 4, faceHeightMm: 1000, waterLineMm: 0 })).toBe(
+      false,
+    );
   });
 
   it.each([

@@ -12,10 +12,16 @@ describe("contactResistanceOutliers", () => {
     // NETA ATS/MTS: "more than 50 % of the lowest" — exactly 50 % is not flagged.
     [[50, 75, 60], []],
     [[0.7, 1.05], []], // exactly 1.5 × in decimal, not flagged despite binary rounding
-    [[100, 151, 149, 150.5], [1, 3]], // limit 150 µΩ (NETA 50 % rule)
+    [
+      [100, 151, 149, 150.5],
+      [1, 3],
+    ], // limit 150 µΩ (NETA 50 % rule)
     [[200, 90, 95], [0]], // the lowest need not be first
     [[40, 40, 40], []],
-    [[10, 100, 1000], [1, 2]],
+    [
+      [10, 100, 1000],
+      [1, 2],
+    ],
   ])("%j → flagged %j", (readings, flagged) => {
     expect(contactResistanceOutliers(readings)).toEqual(flagged);
   });
@@ -29,7 +35,11 @@ describe("contactResistanceOutliers", () => {
   });
 
   it("never flags the lowest pole and scales with the readings (property)", () => {
-    const sets = [[12, 19, 13], [80, 81, 200, 79], [5, 7.6, 7.4]];
+    const sets = [
+      [12, 19, 13],
+      [80, 81, 200, 79],
+      [5, 7.6, 7.4],
+    ];
     for (const set of sets) {
       const lowestIndex = set.indexOf(Math.min(...set));
       const flagged = contactResistanceOutliers(set);

@@ -1,5 +1,10 @@
 import { describe, expect, it } from "vitest";
-import { FLOOD_GUIDANCE_SOURCE, SUBMERGED_RULES, recommendDisposition, type FloodInput } from "../../src/domain/flood-guidance";
+import {
+  FLOOD_GUIDANCE_SOURCE,
+  SUBMERGED_RULES,
+  recommendDisposition,
+  type FloodInput,
+} from "../../src/domain/flood-guidance";
 import { COMPONENT_KINDS, type ComponentKind, type Disposition } from "../../src/domain/vocab";
 
 // All rows: from memory of NEMA GD 1 "Evaluating Water-Damaged Electrical Equipment" and
@@ -40,13 +45,28 @@ describe("recommendDisposition — scenarios", () => {
     // [label, input, disposition, a reason must contain]
     ["dry above the line, clean", { belowWaterLine: false }, "clean", "no sign of water contact"], // NEMA GD 1 (memory)
     // Issue 13 item 6: silt is evidence of water contact, which overrides the recorded line (common practice).
-    ["above the line with silt only", { belowWaterLine: false, contaminants: ["silt"] }, "rebuild", "overrides the recorded water line"],
+    [
+      "above the line with silt only",
+      { belowWaterLine: false, contaminants: ["silt"] },
+      "rebuild",
+      "overrides the recorded water line",
+    ],
     ["above the line, mould", { belowWaterLine: false, contaminants: ["mould"] }, "clean", "respiratory"], // common practice
     ["above the line, salt water", { belowWaterLine: false, waterType: "salt" }, "rebuild", "corrosive and conductive"], // NEMA GD 1: salt residue corrosive and conductive
     ["above the line, sewage", { belowWaterLine: false, waterType: "sewage" }, "rebuild", "salt or sewage"],
     ["above the line, brackish", { belowWaterLine: false, waterType: "brackish" }, "rebuild", "salt or sewage"],
-    ["above the line, salt crust", { belowWaterLine: false, contaminants: ["salt_crust"] }, "rebuild", "salt or sewage"],
-    ["above the line but water inside an MCCB", { kind: "molded_case_breaker", belowWaterLine: false, contaminants: ["water_inside"] }, "replace", "treated as if"],
+    [
+      "above the line, salt crust",
+      { belowWaterLine: false, contaminants: ["salt_crust"] },
+      "rebuild",
+      "salt or sewage",
+    ],
+    [
+      "above the line but water inside an MCCB",
+      { kind: "molded_case_breaker", belowWaterLine: false, contaminants: ["water_inside"] },
+      "replace",
+      "treated as if",
+    ],
     ["submerged busbar in salt water", { waterType: "salt" }, "rebuild", "strip-down"],
     ["submerged power breaker, sewage", { kind: "power_breaker", waterType: "sewage" }, "rebuild", "strip-down"],
     ["charred busbar insulation", { insulation: "charred" }, "replace", "Charred"], // NEMA GD 1 (memory)
@@ -57,19 +77,42 @@ describe("recommendDisposition — scenarios", () => {
     ["free mechanism changes nothing", { kind: "power_breaker", mechanism: "free" }, "rebuild", "Power (open-frame)"],
     ["rust 12 % above the line", { belowWaterLine: false, percentRusted: 12 }, "rebuild", "ASTM D610 grade 3"], // ASTM D610-08 Table 1: 12 % → grade 3
     ["rust 10 % above the line", { belowWaterLine: false, percentRusted: 10 }, "clean", "Above the water line"], // grade 4
-    ["original MCCB submerged → source", { kind: "molded_case_breaker", heritage: "original" }, "source", "Original fabric"],
-    ["original meter, charred → source", { kind: "meter", heritage: "original", insulation: "charred" }, "source", "no longer made"],
-    ["original power breaker → rebuild, kept", { kind: "power_breaker", heritage: "original" }, "rebuild", "keep it and rebuild"],
+    [
+      "original MCCB submerged → source",
+      { kind: "molded_case_breaker", heritage: "original" },
+      "source",
+      "Original fabric",
+    ],
+    [
+      "original meter, charred → source",
+      { kind: "meter", heritage: "original", insulation: "charred" },
+      "source",
+      "no longer made",
+    ],
+    [
+      "original power breaker → rebuild, kept",
+      { kind: "power_breaker", heritage: "original" },
+      "rebuild",
+      "keep it and rebuild",
+    ],
     ["period MCCB stays replace", { kind: "molded_case_breaker", heritage: "period" }, "replace", "sealed"],
     ["modern fuse stays replace", { kind: "fuse", heritage: "modern" }, "replace", "fuse"],
     ["original, clean above the line", { belowWaterLine: false, heritage: "original" }, "clean", "clean and inspect"],
     ["hours submerged recorded only", { hoursSubmerged: 72 }, "rebuild", "Bus structure"],
-    ["zero hours above the line is consistent", { belowWaterLine: false, hoursSubmerged: 0 }, "clean", "Above the water line"],
-  ] as Array<[string, Partial<FloodInput>, Disposition, string]>)("%s → %s", (_label, over, disposition, reasonPart) => {
-    const r = recommendDisposition(at(over));
-    expect(r.disposition).toBe(disposition);
-    expect(r.reasons.some((s) => s.includes(reasonPart))).toBe(true);
-  });
+    [
+      "zero hours above the line is consistent",
+      { belowWaterLine: false, hoursSubmerged: 0 },
+      "clean",
+      "Above the water line",
+    ],
+  ] as Array<[string, Partial<FloodInput>, Disposition, string]>)(
+    "%s → %s",
+    (_label, over, disposition, reasonPart) => {
+      const r = recommendDisposition(at(over));
+      expect(r.disposition).toBe(disposition);
+      expect(r.reasons.some((s) => s.includes(reasonPart))).toBe(true);
+    },
+  );
 });
 
 describe("recommendDisposition — properties", () => {
@@ -77,11 +120,13 @@ describe("recommendDisposition — properties", () => {
   const rank: Record<Disposition, number> = { clean: 0, rebuild: 1, replace: 2, source: 2 };
 
   it("salt or sewage never gives a milder result than fresh water (all kinds, both sides of the line)", () => {
-    for (const kind of kinds) for (const belowWaterLine of [true, false]) for (const waterType of ["salt", "sewage"] as const) {
-      const fresh = recommendDisposition(at({ kind, belowWaterLine })).disposition;
-      const dirty = recommendDisposition(at({ kind, belowWaterLine, waterType })).disposition;
-      expect(rank[dirty]).toBeGreaterThanOrEqual(rank[fresh]);
-    }
+    for (const kind of kinds)
+      for (const belowWaterLine of [true, false])
+        for (const waterType of ["salt", "sewage"] as const) {
+          const fresh = recommendDisposition(at({ kind, belowWaterLine })).disposition;
+          const dirty = recommendDisposition(at({ kind, belowWaterLine, waterType })).disposition;
+          expect(rank[dirty]).toBeGreaterThanOrEqual(rank[fresh]);
+        }
   });
 
   it("being below the line never gives a milder result than above it", () => {
@@ -93,13 +138,14 @@ describe("recommendDisposition — properties", () => {
   });
 
   it("only original fabric is ever sent to source, and every result names its source and a caution", () => {
-    for (const kind of kinds) for (const heritage of ["original", "period", "modern", undefined] as const) {
-      const r = recommendDisposition(at({ kind, heritage, insulation: "charred" }));
-      expect(r.disposition).toBe(heritage === "original" ? "source" : "replace");
-      expect(r.source).toBe(FLOOD_GUIDANCE_SOURCE);
-      expect(r.reasons.at(-1)).toMatch(/qualified person/);
-      for (const s of r.reasons) expect(s).not.toMatch(/\bsafe\b/i);
-    }
+    for (const kind of kinds)
+      for (const heritage of ["original", "period", "modern", undefined] as const) {
+        const r = recommendDisposition(at({ kind, heritage, insulation: "charred" }));
+        expect(r.disposition).toBe(heritage === "original" ? "source" : "replace");
+        expect(r.source).toBe(FLOOD_GUIDANCE_SOURCE);
+        expect(r.reasons.at(-1)).toMatch(/qualified person/);
+        for (const s of r.reasons) expect(s).not.toMatch(/\bsafe\b/i);
+      }
   });
 });
 

@@ -14,7 +14,10 @@ import {
 // neutral, and each lamp voltage is |E_i − V_ground|. Nothing below uses the closed form
 // of the implementation (no k, no √(1 + k + k²)).
 type C = { re: number; im: number };
-const polar = (mag: number, deg: number): C => ({ re: mag * Math.cos((deg * Math.PI) / 180), im: mag * Math.sin((deg * Math.PI) / 180) });
+const polar = (mag: number, deg: number): C => ({
+  re: mag * Math.cos((deg * Math.PI) / 180),
+  im: mag * Math.sin((deg * Math.PI) / 180),
+});
 const add = (a: C, b: C): C => ({ re: a.re + b.re, im: a.im + b.im });
 const sub = (a: C, b: C): C => ({ re: a.re - b.re, im: a.im - b.im });
 const scale = (a: C, s: number): C => ({ re: a.re * s, im: a.im * s });
@@ -52,13 +55,28 @@ const CASES: Array<[number, number, Phase, number]> = [
 describe("groundLampVoltages", () => {
   it.each([
     // Bolted ground on 450 V: faulted lamp 0 V, the others see full line voltage (common practice).
-    [{ lineVolts: 450, faultPhase: "A", faultOhms: 0, branchOhms: 2000 }, { A: 0, B: 450, C: 450 }],
-    [{ lineVolts: 450, faultPhase: "C", faultOhms: 0, branchOhms: 2000 }, { A: 450, B: 450, C: 0 }],
+    [
+      { lineVolts: 450, faultPhase: "A", faultOhms: 0, branchOhms: 2000 },
+      { A: 0, B: 450, C: 450 },
+    ],
+    [
+      { lineVolts: 450, faultPhase: "C", faultOhms: 0, branchOhms: 2000 },
+      { A: 450, B: 450, C: 0 },
+    ],
     // No ground: each lamp at V_line/√3 = 259.8 V (arithmetic).
-    [{ lineVolts: 450, faultPhase: null, faultOhms: 0, branchOhms: 2000 }, { A: 259.81, B: 259.81, C: 259.81 }],
-    [{ lineVolts: 480, faultPhase: null, faultOhms: 0, branchOhms: 2000 }, { A: 277.13, B: 277.13, C: 277.13 }],
+    [
+      { lineVolts: 450, faultPhase: null, faultOhms: 0, branchOhms: 2000 },
+      { A: 259.81, B: 259.81, C: 259.81 },
+    ],
+    [
+      { lineVolts: 480, faultPhase: null, faultOhms: 0, branchOhms: 2000 },
+      { A: 277.13, B: 277.13, C: 277.13 },
+    ],
     // An open-circuit "fault" is no fault.
-    [{ lineVolts: 450, faultPhase: "B", faultOhms: Infinity, branchOhms: 2000 }, { A: 259.81, B: 259.81, C: 259.81 }],
+    [
+      { lineVolts: 450, faultPhase: "B", faultOhms: Infinity, branchOhms: 2000 },
+      { A: 259.81, B: 259.81, C: 259.81 },
+    ],
   ] as const)("%o → %o", (input, expected) => {
     const v = groundLampVoltages(input);
     expect(v.A).toBeCloseTo(expected.A, 1);
@@ -66,13 +84,16 @@ describe("groundLampVoltages", () => {
     expect(v.C).toBeCloseTo(expected.C, 1);
   });
 
-  it.each(CASES)("matches a complex nodal (Millman) solution: %f V, %f Ω lamps, phase %s, %f Ω fault", (lineVolts, branchOhms, faultPhase, faultOhms) => {
-    const got = groundLampVoltages({ lineVolts, branchOhms, faultPhase, faultOhms });
-    const ref = referenceLampVolts(lineVolts, branchOhms, faultPhase, faultOhms);
-    expect(got.A).toBeCloseTo(ref.A, 9);
-    expect(got.B).toBeCloseTo(ref.B, 9);
-    expect(got.C).toBeCloseTo(ref.C, 9);
-  });
+  it.each(CASES)(
+    "matches a complex nodal (Millman) solution: %f V, %f Ω lamps, phase %s, %f Ω fault",
+    (lineVolts, branchOhms, faultPhase, faultOhms) => {
+      const got = groundLampVoltages({ lineVolts, branchOhms, faultPhase, faultOhms });
+      const ref = referenceLampVolts(lineVolts, branchOhms, faultPhase, faultOhms);
+      expect(got.A).toBeCloseTo(ref.A, 9);
+      expect(got.B).toBeCloseTo(ref.B, 9);
+      expect(got.C).toBeCloseTo(ref.C, 9);
+    },
+  );
 
   it("dims the faulted lamp and brightens the others as the fault hardens (property)", () => {
     let lastFaulted = Infinity;
@@ -101,12 +122,15 @@ describe("groundLampVoltages", () => {
 });
 
 describe("locateGround", () => {
-  it.each(CASES)("round-trips %f V, %f Ω lamps, phase %s, %f Ω fault", (lineVolts, branchOhms, faultPhase, faultOhms) => {
-    const v = groundLampVoltages({ lineVolts, branchOhms, faultPhase, faultOhms });
-    const found = locateGround({ lineVolts, ...v, branchOhms });
-    expect(found.phase).toBe(faultPhase);
-    expect(found.faultOhms).toBeCloseTo(faultOhms, 6);
-  });
+  it.each(CASES)(
+    "round-trips %f V, %f Ω lamps, phase %s, %f Ω fault",
+    (lineVolts, branchOhms, faultPhase, faultOhms) => {
+      const v = groundLampVoltages({ lineVolts, branchOhms, faultPhase, faultOhms });
+      const found = locateGround({ lineVolts, ...v, branchOhms });
+      expect(found.phase).toBe(faultPhase);
+      expect(found.faultOhms).toBeCloseTo(faultOhms, 6);
+    },
+  );
 
   it.each([
     [{ lineVolts: 450, A: 259.8, B: 259.8, C: 259.8 }, null, "alike"], // balanced (arithmetic)

@@ -34,7 +34,12 @@ describe("ieee43CorrectionTo40C", () => {
   });
 
   it.each([
-    [-1, 20], [NaN, 20], [100, NaN], [100, -10.1], [100, 100.1], [Infinity, 20],
+    [-1, 20],
+    [NaN, 20],
+    [100, NaN],
+    [100, -10.1],
+    [100, 100.1],
+    [Infinity, 20],
   ])("rejects (%f MΩ, %f °C) with RangeError", (m, t) => {
     expect(() => ieee43CorrectionTo40C(m, t)).toThrow(RangeError);
   });
@@ -46,23 +51,47 @@ describe("NETA temperature-correction table", () => {
   // of the NETA ATS/MTS table 100.14 (memory says 0.75 at 15 °C oil; the found table prints 0.74,
   // which Tideline follows).
   it.each([
-    [0, 0.25], [5, 0.36], [10, 0.5], [15, 0.74], [20, 1.0], [25, 1.4], [30, 1.98], [35, 2.8],
-    [40, 3.95], [45, 5.6], [50, 7.85], [55, 11.2], [60, 15.85], [65, 22.4], [70, 31.75], [75, 44.7],
+    [0, 0.25],
+    [5, 0.36],
+    [10, 0.5],
+    [15, 0.74],
+    [20, 1.0],
+    [25, 1.4],
+    [30, 1.98],
+    [35, 2.8],
+    [40, 3.95],
+    [45, 5.6],
+    [50, 7.85],
+    [55, 11.2],
+    [60, 15.85],
+    [65, 22.4],
+    [70, 31.75],
+    [75, 44.7],
   ])("oil multiplier at %i °C is %f (datsan.com.tr Megger table)", (t, factor) => {
     expect(netaCorrectionFactor(t, "oil")).toBe(factor);
   });
 
   it.each([
-    [10, 0.63], [20, 1.0], [30, 1.58], [40, 2.5], // from memory (values in Tideline's brief)
-    [0, 0.4], [15, 0.81], [50, 3.98], [70, 10.0], [110, 63.2], // from memory
+    [10, 0.63],
+    [20, 1.0],
+    [30, 1.58],
+    [40, 2.5], // from memory (values in Tideline's brief)
+    [0, 0.4],
+    [15, 0.81],
+    [50, 3.98],
+    [70, 10.0],
+    [110, 63.2], // from memory
   ])("solid multiplier at %i °C is %f (from memory)", (t, factor) => {
     expect(netaCorrectionFactor(t, "solid")).toBe(factor);
   });
 
-  it.each([[-10, 0.125], [-5, 0.18], [80, 63.5], [85, 89.789], [110, 509.0]])(
-    "oil multiplier at %i °C is %f (from memory)",
-    (t, factor) => expect(netaCorrectionFactor(t, "oil")).toBe(factor),
-  );
+  it.each([
+    [-10, 0.125],
+    [-5, 0.18],
+    [80, 63.5],
+    [85, 89.789],
+    [110, 509.0],
+  ])("oil multiplier at %i °C is %f (from memory)", (t, factor) => expect(netaCorrectionFactor(t, "oil")).toBe(factor));
 
   // Typo guards: the solid column follows 10^((T−20)/50) and the oil column roughly doubles
   // every 10 °C (arithmetic on the published shape; tolerances cover the table's rounding).
@@ -108,7 +137,11 @@ describe("netaCorrectionTo20C", () => {
   });
 
   it.each([
-    [100, -10.01, "solid"], [100, 110.01, "oil"], [100, NaN, "oil"], [-5, 20, "solid"], [100, 20, "air"],
+    [100, -10.01, "solid"],
+    [100, 110.01, "oil"],
+    [100, NaN, "oil"],
+    [-5, 20, "solid"],
+    [100, 20, "air"],
   ] as const)("rejects (%f MΩ, %f °C, %s) with RangeError", (m, t, ins) => {
     expect(() => netaCorrectionTo20C(m, t, ins as "oil")).toThrow(RangeError);
   });
@@ -130,12 +163,20 @@ describe("time-resistance ratios", () => {
     expect(dielectricAbsorptionRatio(r30, r60)).toBeCloseTo(dar, 12);
   });
 
-  it.each([[0, 10], [10, 0], [0, 0]])("a zero reading makes the ratio not computable (%f, %f), not an error (issue 13 item 1)", (a, b) => {
+  it.each([
+    [0, 10],
+    [10, 0],
+    [0, 0],
+  ])("a zero reading makes the ratio not computable (%f, %f), not an error (issue 13 item 1)", (a, b) => {
     expect(polarizationIndex(a, b)).toBeNull();
     expect(dielectricAbsorptionRatio(a, b)).toBeNull();
   });
 
-  it.each([[-1, 10], [NaN, 10], [10, Infinity]])("ratios reject (%f, %f)", (a, b) => {
+  it.each([
+    [-1, 10],
+    [NaN, 10],
+    [10, Infinity],
+  ])("ratios reject (%f, %f)", (a, b) => {
     expect(() => polarizationIndex(a, b)).toThrow(RangeError);
     expect(() => dielectricAbsorptionRatio(a, b)).toThrow(RangeError);
   });
@@ -157,16 +198,25 @@ describe("time-resistance ratios", () => {
 describe("netaMinimumInsulation", () => {
   // ANSI/NETA MTS-2019 Table 100.1 (studylib.net copy of the MTS-2019 tables).
   it.each([
-    [120, 500, 25], [250, 500, 25], // MTS-2019 Table 100.1, 250 V row
-    [251, 1000, 100], [450, 1000, 100], [480, 1000, 100], [600, 1000, 100], // 600 V row
-    [601, 1000, 100], [1000, 1000, 100], // 1 000 V row
-    [2400, 1000, 500], [2500, 1000, 500], // 2 500 V row
-    [4160, 2500, 1500], [5000, 2500, 1500], // 5 000 V row
+    [120, 500, 25],
+    [250, 500, 25], // MTS-2019 Table 100.1, 250 V row
+    [251, 1000, 100],
+    [450, 1000, 100],
+    [480, 1000, 100],
+    [600, 1000, 100], // 600 V row
+    [601, 1000, 100],
+    [1000, 1000, 100], // 1 000 V row
+    [2400, 1000, 500],
+    [2500, 1000, 500], // 2 500 V row
+    [4160, 2500, 1500],
+    [5000, 2500, 1500], // 5 000 V row
     [8000, 2500, 2500], // 8 000 V row
-    [13800, 2500, 5000], [15000, 2500, 5000], // 15 000 V row
+    [13800, 2500, 5000],
+    [15000, 2500, 5000], // 15 000 V row
     [25000, 5000, 10000], // 25 000 V row
     [34000, 5000, 100000], // 34 000 V row
-    [34500, 5000, 100000], [69000, 5000, 100000], // "46 000 and above" row (next row up)
+    [34500, 5000, 100000],
+    [69000, 5000, 100000], // "46 000 and above" row (next row up)
   ])("%f V equipment → %f V DC test, %f MΩ minimum", (v, testVoltsDc, minMegohms) => {
     expect(netaMinimumInsulation(v)).toEqual({ testVoltsDc, minMegohms });
   });

@@ -8,9 +8,12 @@ import { describe, expect, it } from "vitest";
 import { LABEL_SHEETS, labelSheet, labelSlots, sheetFits, tagFromScan, tagUrl } from "../../src/domain/label-sheets";
 
 describe("label sheets", () => {
-  it.each(LABEL_SHEETS.map((s) => [s.id, s] as const))("%s: every label lies on the page and none overlap", (_id, s) => {
-    expect(sheetFits(s)).toBe(true);
-  });
+  it.each(LABEL_SHEETS.map((s) => [s.id, s] as const))(
+    "%s: every label lies on the page and none overlap",
+    (_id, s) => {
+      expect(sheetFits(s)).toBe(true);
+    },
+  );
 
   it.each([
     // id, page (mm), labels per sheet — A4 is 210 × 297 mm (ISO 216); US Letter 8.5 × 11 in = 215.9 × 279.4 mm (ANSI/ASME Y14.1)

@@ -30,7 +30,16 @@ describe("canMovePart", () => {
   });
 });
 
-const mcb: PartSpec = { kind: "molded_case_breaker", ratingAmps: 100, poles: 3, voltageRating: 600, frame: "F", mounting: "Bolt-on", maker: "Acme", model: "Q3" };
+const mcb: PartSpec = {
+  kind: "molded_case_breaker",
+  ratingAmps: 100,
+  poles: 3,
+  voltageRating: 600,
+  frame: "F",
+  mounting: "Bolt-on",
+  maker: "Acme",
+  model: "Q3",
+};
 
 describe("needKey and needMatchesLine", () => {
   it.each([
@@ -44,7 +53,12 @@ describe("needKey and needMatchesLine", () => {
 
   it.each([
     ["a line with no must-match list takes only an identical spec", undefined, { maker: "Other" }, false],
-    ["a line matching on rating and poles takes another maker", ["ratingAmps", "poles"], { maker: "Other", model: "Z" }, true],
+    [
+      "a line matching on rating and poles takes another maker",
+      ["ratingAmps", "poles"],
+      { maker: "Other", model: "Z" },
+      true,
+    ],
     ["a line matching on rating and poles refuses other poles", ["ratingAmps", "poles"], { poles: 2 }, false],
     ["kind always matters", ["ratingAmps"], { kind: "fuse" }, false],
   ] as Array<[string, string[] | undefined, Partial<PartSpec>, boolean]>)("%s", (_label, mustMatch, over, joins) => {

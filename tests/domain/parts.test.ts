@@ -55,12 +55,21 @@ describe("sameSpec", () => {
   });
 
   it("needs with different must-match lists never merge", () => {
-    expect(sameSpec({ ...breaker, mustMatch: ["ratingAmps"] }, { ...breaker, mustMatch: ["ratingAmps", "poles"] })).toBe(false);
-    expect(sameSpec({ ...breaker, mustMatch: ["poles", "ratingAmps"] }, { ...breaker, mustMatch: ["ratingAmps", "poles"] })).toBe(true);
+    expect(
+      sameSpec({ ...breaker, mustMatch: ["ratingAmps"] }, { ...breaker, mustMatch: ["ratingAmps", "poles"] }),
+    ).toBe(false);
+    expect(
+      sameSpec({ ...breaker, mustMatch: ["poles", "ratingAmps"] }, { ...breaker, mustMatch: ["ratingAmps", "poles"] }),
+    ).toBe(true);
   });
 
   it("is symmetric and the key is stable (property)", () => {
-    const variants: PartSpec[] = [breaker, { ...breaker, maker: "NORTHBAY electric" }, { ...breaker, poles: 2 }, { ...breaker, frame: null }];
+    const variants: PartSpec[] = [
+      breaker,
+      { ...breaker, maker: "NORTHBAY electric" },
+      { ...breaker, poles: 2 },
+      { ...breaker, frame: null },
+    ];
     for (const a of variants) for (const b of variants) expect(sameSpec(a, b)).toBe(sameSpec(b, a));
     expect(partSpecKey(breaker)).toBe(partSpecKey({ ...breaker }));
   });

@@ -45,7 +45,14 @@ describe("priorityScore", () => {
       for (const originalFabric of [false, true])
         for (const effortHours of [0, 0.5, 2, 8, 40, 400, null])
           for (const partsAvailable of PARTS_AVAILABILITY)
-            combos.push({ severity, safetyCritical: false, blocksEnergisation, originalFabric, effortHours, partsAvailable });
+            combos.push({
+              severity,
+              safetyCritical: false,
+              blocksEnergisation,
+              originalFabric,
+              effortHours,
+              partsAvailable,
+            });
 
   it(`a safety-critical defect never ranks below an otherwise equal one (${combos.length} combinations)`, () => {
     for (const c of combos) {
@@ -90,17 +97,46 @@ describe("priorityScore", () => {
 });
 
 describe("compareByPriority and rankDefects", () => {
-  const d = (id: string, score: number, createdAt = "2026-03-01T10:00:00Z", pin: Rankable["pin"] = null): Rankable => ({ id, score, createdAt, pin });
+  const d = (id: string, score: number, createdAt = "2026-03-01T10:00:00Z", pin: Rankable["pin"] = null): Rankable => ({
+    id,
+    score,
+    createdAt,
+    pin,
+  });
 
   it.each([
-    [[d("x", 10), d("y", 30), d("z", 20)], ["y", "z", "x"]], // score descending
-    [[d("new", 20, "2026-03-02T00:00:00Z"), d("old", 20, "2026-03-01T00:00:00Z")], ["old", "new"]], // older first
-    [[d("b", 20), d("a", 20), d("c", 20)], ["a", "b", "c"]], // then id
-    [[d("late", 20, "2026-03-01T12:00:00+02:00"), d("early", 20, "2026-03-01T11:00:00Z")], ["late", "early"]], // 10:00Z vs 11:00Z
-    [[d("x", 10, undefined, { direction: "above", relativeTo: "y" }), d("y", 30), d("z", 20)], ["x", "y", "z"]], // pin above
-    [[d("y", 30, undefined, { direction: "below", relativeTo: "x" }), d("x", 10), d("z", 20)], ["z", "x", "y"]], // pin below
-    [[d("x", 10, undefined, { direction: "above", relativeTo: "gone" }), d("y", 30)], ["y", "x"]], // missing target ignored
-    [[d("x", 10, undefined, { direction: "above", relativeTo: "x" }), d("y", 30)], ["y", "x"]], // self-pin ignored
+    [
+      [d("x", 10), d("y", 30), d("z", 20)],
+      ["y", "z", "x"],
+    ], // score descending
+    [
+      [d("new", 20, "2026-03-02T00:00:00Z"), d("old", 20, "2026-03-01T00:00:00Z")],
+      ["old", "new"],
+    ], // older first
+    [
+      [d("b", 20), d("a", 20), d("c", 20)],
+      ["a", "b", "c"],
+    ], // then id
+    [
+      [d("late", 20, "2026-03-01T12:00:00+02:00"), d("early", 20, "2026-03-01T11:00:00Z")],
+      ["late", "early"],
+    ], // 10:00Z vs 11:00Z
+    [
+      [d("x", 10, undefined, { direction: "above", relativeTo: "y" }), d("y", 30), d("z", 20)],
+      ["x", "y", "z"],
+    ], // pin above
+    [
+      [d("y", 30, undefined, { direction: "below", relativeTo: "x" }), d("x", 10), d("z", 20)],
+      ["z", "x", "y"],
+    ], // pin below
+    [
+      [d("x", 10, undefined, { direction: "above", relativeTo: "gone" }), d("y", 30)],
+      ["y", "x"],
+    ], // missing target ignored
+    [
+      [d("x", 10, undefined, { direction: "above", relativeTo: "x" }), d("y", 30)],
+      ["y", "x"],
+    ], // self-pin ignored
   ])("orders %j as %j", (items, ids) => {
     expect(rankDefects(items).map((i) => i.id)).toEqual(ids);
   });
@@ -108,7 +144,9 @@ describe("compareByPriority and rankDefects", () => {
   it("is stable: no input order changes the result (all 120 orders of five defects)", () => {
     const items = [d("c", 20), d("a", 20), d("b", 20, "2026-02-01T00:00:00Z"), d("e", 50), d("d", 5)];
     const permutations = (xs: Rankable[]): Rankable[][] =>
-      xs.length <= 1 ? [xs] : xs.flatMap((x, i) => permutations([...xs.slice(0, i), ...xs.slice(i + 1)]).map((rest) => [x, ...rest]));
+      xs.length <= 1
+        ? [xs]
+        : xs.flatMap((x, i) => permutations([...xs.slice(0, i), ...xs.slice(i + 1)]).map((rest) => [x, ...rest]));
     const all = permutations(items);
     expect(all).toHaveLength(120);
     for (const order of all) {
@@ -130,7 +168,17 @@ describe("compareByPriority and rankDefects", () => {
 
 describe("PRIORITY_FORMULA_TEXT", () => {
   it("states every constant the formula uses and never promises safety", () => {
-    for (const fragment of ["cosmetic 10", "disabling 70", "+40", "+25", "+10", "unobtainable -10", "log₂(1 + hours)", "at most 30", "8 hours"]) {
+    for (const fragment of [
+      "cosmetic 10",
+      "disabling 70",
+      "+40",
+      "+25",
+      "+10",
+      "unobtainable -10",
+      "log₂(1 + hours)",
+      "at most 30",
+      "8 hours",
+    ]) {
       expect(PRIORITY_FORMULA_TEXT).toContain(fragment);
     }
     expect(PRIORITY_FORMULA_TEXT).toMatch(/does not make anything safe/);

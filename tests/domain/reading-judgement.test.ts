@@ -14,7 +14,13 @@ import {
 
 const neta = DEFAULT_CRITERIA;
 const ieee: ReadingCriteria = { ...DEFAULT_CRITERIA, correctionMethod: "ieee43_40c" };
-const reading = (megohms: number, equipmentTempC: number, extra = {}) => ({ megohms, equipmentTempC, testVoltsDc: 1000, ratedVolts: 450, ...extra });
+const reading = (megohms: number, equipmentTempC: number, extra = {}) => ({
+  megohms,
+  equipmentTempC,
+  testVoltsDc: 1000,
+  ratedVolts: 450,
+  ...extra,
+});
 
 describe("correctInsulation", () => {
   it.each([
@@ -29,7 +35,11 @@ describe("correctInsulation", () => {
     expect(r.source.table).toMatch(c.correctionMethod === "neta_20c" ? /100\.14/ : /IEEE Std 43/);
   });
 
-  it.each([[120, neta], [105, ieee], [-11, neta]] as const)("rejects %f °C outside the method's range (%o)", (t, c) => {
+  it.each([
+    [120, neta],
+    [105, ieee],
+    [-11, neta],
+  ] as const)("rejects %f °C outside the method's range (%o)", (t, c) => {
     expect(() => correctInsulation(100, t, c)).toThrow(RangeError);
   });
 });
@@ -39,13 +49,43 @@ describe("judgeInsulationReading", () => {
     // 450 V board → ANSI/NETA MTS-2019 Table 100.1 600 V row: 100 MΩ minimum, 1000 V DC.
     ["60 MΩ at 30 °C corrects to 94.8 MΩ, under 100 MΩ", reading(60, 30), neta, null, "below_minimum"],
     ["80 MΩ at 30 °C corrects to 126.4 MΩ, reaches 100 MΩ", reading(80, 30), neta, null, "meets"],
-    ["a site minimum of 200 MΩ puts 126.4 MΩ below", reading(80, 30), { ...neta, minimumMegohms: 200, minimumSource: "Crew rule" }, null, "below_minimum"],
-    ["a manufacturer's 50 MΩ replaces the site's 200 MΩ", reading(80, 30), { ...neta, minimumMegohms: 200 }, { minimumMegohms: 50, source: "Maker's leaflet" }, "meets"],
+    [
+      "a site minimum of 200 MΩ puts 126.4 MΩ below",
+      reading(80, 30),
+      { ...neta, minimumMegohms: 200, minimumSource: "Crew rule" },
+      null,
+      "below_minimum",
+    ],
+    [
+      "a manufacturer's 50 MΩ replaces the site's 200 MΩ",
+      reading(80, 30),
+      { ...neta, minimumMegohms: 200 },
+      { minimumMegohms: 50, source: "Maker's leaflet" },
+      "meets",
+    ],
     // IEEE Std 43-2000: class B minimum PI 2.0; PI = 300/200 = 1.5
-    ["PI 1.5 under class B's 2.0 is investigated", reading(400, 20, { r1min: 200, r10min: 300 }), neta, null, "investigate"],
-    ["PI 1.5 meets class A's 1.5", reading(400, 20, { r1min: 200, r10min: 300 }), { ...neta, thermalClass: "A" }, null, "meets"],
+    [
+      "PI 1.5 under class B's 2.0 is investigated",
+      reading(400, 20, { r1min: 200, r10min: 300 }),
+      neta,
+      null,
+      "investigate",
+    ],
+    [
+      "PI 1.5 meets class A's 1.5",
+      reading(400, 20, { r1min: 200, r10min: 300 }),
+      { ...neta, thermalClass: "A" },
+      null,
+      "meets",
+    ],
     // DAR = 60 s / 30 s = 180/200 = 0.9 < 1 (common practice: falling during the test)
-    ["a falling absorption ratio is investigated", reading(400, 20, { r30s: 200, r1min: 180 }), neta, null, "investigate"],
+    [
+      "a falling absorption ratio is investigated",
+      reading(400, 20, { r30s: 200, r1min: 180 }),
+      neta,
+      null,
+      "investigate",
+    ],
   ] as const)("%s", (_label, r, c, maker, verdict) => {
     const j = judgeInsulationReading(r, c, maker);
     expect(j.verdict).toBe(verdict);
@@ -60,8 +100,17 @@ describe("judgeInsulationReading", () => {
   });
 
   it("says which source wins: manufacturer, then site, then table", () => {
-    expect(judgeInsulationReading(reading(80, 30), { ...neta, minimumMegohms: 200 }, { minimumMegohms: 50, source: "m" }).minimum.from).toBe("manufacturer");
-    expect(judgeInsulationReading(reading(80, 30), { ...neta, minimumMegohms: 200 }, { source: "contacts only", maximumMicroOhms: 90 }).minimum.from).toBe("site");
+    expect(
+      judgeInsulationReading(reading(80, 30), { ...neta, minimumMegohms: 200 }, { minimumMegohms: 50, source: "m" })
+        .minimum.from,
+    ).toBe("manufacturer");
+    expect(
+      judgeInsulationReading(
+        reading(80, 30),
+        { ...neta, minimumMegohms: 200 },
+        { source: "contacts only", maximumMicroOhms: 90 },
+      ).minimum.from,
+    ).toBe("site");
     expect(judgeInsulationReading(reading(80, 30), neta).minimum.from).toBe("table");
   });
 });
@@ -77,10 +126,20 @@ describe("contactOutliersAt", () => {
   });
 
   it("at 50 % agrees with contactResistanceOutliers (property)", () => {
-    for (const set of [[12, 19, 13], [80, 81, 200, 79], [5, 7.6, 7.4], [0.7, 1.05]]) expect(contactOutliersAt(set, 50)).toEqual(contactResistanceOutliers(set));
+    for (const set of [
+      [12, 19, 13],
+      [80, 81, 200, 79],
+      [5, 7.6, 7.4],
+      [0.7, 1.05],
+    ])
+      expect(contactOutliersAt(set, 50)).toEqual(contactResistanceOutliers(set));
   });
 
-  it.each([[[50, 0], 50], [[50, 60], 0], [[50, 60], NaN]])("rejects %j at %f %%", (poles, percent) => {
+  it.each([
+    [[50, 0], 50],
+    [[50, 60], 0],
+    [[50, 60], NaN],
+  ])("rejects %j at %f %%", (poles, percent) => {
     expect(() => contactOutliersAt(poles, percent)).toThrow(RangeError);
   });
 });
@@ -122,7 +181,9 @@ describe("judgeGroundCheck", () => {
   it("names the dark lamp's phase in words, with the hull on a vessel", () => {
     const j = judgeGroundCheck({ lineVolts: 450, lamps: { A: "bright", B: "dark", C: "bright" }, siteKind: "vessel" });
     expect(j.phase).toBe("B");
-    expect(j.words).toBe("Phase B lamp dark, A and C bright: suspect a ground on phase B — on a vessel, a fault to the hull.");
+    expect(j.words).toBe(
+      "Phase B lamp dark, A and C bright: suspect a ground on phase B — on a vessel, a fault to the hull.",
+    );
     expect(j.verdict).toBe("investigate");
   });
 
@@ -132,8 +193,12 @@ describe("judgeGroundCheck", () => {
   });
 
   it("balanced lamps meet the criterion; all dark is investigated", () => {
-    expect(judgeGroundCheck({ lineVolts: 450, lamps: { A: "bright", B: "bright", C: "bright" } }).verdict).toBe("meets");
-    expect(judgeGroundCheck({ lineVolts: 450, lamps: { A: "dark", B: "dark", C: "dark" } }).verdict).toBe("investigate");
+    expect(judgeGroundCheck({ lineVolts: 450, lamps: { A: "bright", B: "bright", C: "bright" } }).verdict).toBe(
+      "meets",
+    );
+    expect(judgeGroundCheck({ lineVolts: 450, lamps: { A: "dark", B: "dark", C: "dark" } }).verdict).toBe(
+      "investigate",
+    );
   });
 
   it("from volts, round-trips the fault phase and resistance of the Millman model", () => {
@@ -143,7 +208,9 @@ describe("judgeGroundCheck", () => {
     expect(j.faultOhms).toBeCloseTo(1000, 6);
     // By hand: k = 2000/(2000 + 3·1000) = 0.4, V_ph = 450/√3 = 259.8 V; faulted 259.8 × 0.6 = 155.9 V,
     // healthy 259.8 × √(1 + 0.4 + 0.16) = 324.5 V (closed form in ground-detection.ts, Millman's theorem).
-    expect(j.words).toMatch(/^Phase A lamp at 156 V to ground, B and C 324 V: suspect a ground on phase A — on a vessel, a fault to the hull\./);
+    expect(j.words).toMatch(
+      /^Phase A lamp at 156 V to ground, B and C 324 V: suspect a ground on phase A — on a vessel, a fault to the hull\./,
+    );
   });
 
   it("needs lamps or volts", () => {

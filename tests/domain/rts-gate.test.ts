@@ -15,23 +15,56 @@ const links = {
 };
 const steps = (signed: string[] = []): GateStep[] =>
   DEFAULT_TEMPLATE.map((t, i) => ({
-    id: `s${i}`, kind: t.kind, title: t.title, qualifiedOnly: t.kind === "energise" || t.kind === "release",
-    current: signed.includes(t.kind) ? { id: `x${i}`, kind: "signed", signerName: "Ines Marrow", signedAt: "2026-12-02T08:00:00Z", reason: "" } : null,
+    id: `s${i}`,
+    kind: t.kind,
+    title: t.title,
+    qualifiedOnly: t.kind === "energise" || t.kind === "release",
+    current: signed.includes(t.kind)
+      ? { id: `x${i}`, kind: "signed", signerName: "Ines Marrow", signedAt: "2026-12-02T08:00:00Z", reason: "" }
+      : null,
   }));
 const good = (): GateInput => ({
   stage: {
-    id: "st", name: "Power distribution", status: "planned", supply: "temporary_fused", protectionDevice: "Fused disconnect",
-    protectionRatingA: 20, protectionLimitA: 30, energisedAt: null, watchHours: 24, checkEveryHours: 4,
-    qualifiedPerson: { userId: "u", name: "Ines Marrow", expiresOn: "2027-06-30", qualification: "Marine electrician" }, dependsOn: null,
+    id: "st",
+    name: "Power distribution",
+    status: "planned",
+    supply: "temporary_fused",
+    protectionDevice: "Fused disconnect",
+    protectionRatingA: 20,
+    protectionLimitA: 30,
+    energisedAt: null,
+    watchHours: 24,
+    checkEveryHours: 4,
+    qualifiedPerson: { userId: "u", name: "Ines Marrow", expiresOn: "2027-06-30", qualification: "Marine electrician" },
+    dependsOn: null,
   },
   steps: steps(),
-  circuits: [{
-    positionId: "p1", designation: "1-1", circuit: "Steering gear", componentId: "c1", needsInsulation: true,
-    readings: [{ id: "r2", measuredAt: "2026-12-01T09:00:00Z", verdict: "meets", correctedMegohms: 200 }, { id: "r1", measuredAt: "2026-11-30T09:00:00Z", verdict: "meets", correctedMegohms: 190 }],
-  }],
+  circuits: [
+    {
+      positionId: "p1",
+      designation: "1-1",
+      circuit: "Steering gear",
+      componentId: "c1",
+      needsInsulation: true,
+      readings: [
+        { id: "r2", measuredAt: "2026-12-01T09:00:00Z", verdict: "meets", correctedMegohms: 200 },
+        { id: "r1", measuredAt: "2026-11-30T09:00:00Z", verdict: "meets", correctedMegohms: 190 },
+      ],
+    },
+  ],
   defects: [],
-  lamps: { id: "g", at: "2026-12-01T10:00:00Z", suggestsGround: false, words: "All three alike.", source: "ground_check" },
-  watchChecks: [], thermal: [], incidents: [], maxReadingAgeDays: 7, links,
+  lamps: {
+    id: "g",
+    at: "2026-12-01T10:00:00Z",
+    suggestsGround: false,
+    words: "All three alike.",
+    source: "ground_check",
+  },
+  watchChecks: [],
+  thermal: [],
+  incidents: [],
+  maxReadingAgeDays: 7,
+  links,
 });
 const codes = (i: GateInput) => evaluateStage(i, NOW).blockers.map((b) => b.code);
 const with_ = (f: (i: GateInput) => void) => {
@@ -51,19 +84,95 @@ describe("the gate before energising: one row per blocker (source beside each)",
 
   it.each<[string, (i: GateInput) => unknown, string, string]>([
     // [what, change, expected code, source]
-    ["no insulation reading", (i: GateInput) => (i.circuits[0].readings = []), "insulation_missing", "common practice: prove every circuit before it is energised"],
-    ["latest reading older than D days", (i: GateInput) => (i.maxReadingAgeDays = 1), "insulation_old", "issue 12: D per site, default 7 (common practice)"],
-    ["latest reading below the criterion", (i: GateInput) => (i.circuits[0].readings[0].verdict = "below_minimum"), "insulation_not_met", "ANSI/NETA MTS Table 100.1 via reading-judgement"],
-    ["latest reading fell more than 10 %", (i: GateInput) => (i.circuits[0].readings[0].correctedMegohms = 150), "insulation_fell", "common practice: a falling IR means moisture returning; 10 % Tideline's allowance"],
-    ["open safety-critical defect", (i: GateInput) => i.defects.push({ id: "d", ref: 7, title: "Arc track", designation: "1-1", safetyCritical: true, blocksEnergisation: false }), "defect_open", "issue 12 (common practice)"],
-    ["open energisation-blocking defect", (i: GateInput) => i.defects.push({ id: "d", ref: 8, title: "Seized", designation: "1-1", safetyCritical: false, blocksEnergisation: true }), "defect_open", "issue 12 (common practice)"],
-    ["protection above the stage's limit", (i: GateInput) => (i.stage.protectionRatingA = 63), "protection_above_limit", "common practice: temporary fused feed far below the board's rating"],
-    ["no protection rating recorded", (i: GateInput) => (i.stage.protectionRatingA = null), "protection_missing", "common practice"],
+    [
+      "no insulation reading",
+      (i: GateInput) => (i.circuits[0].readings = []),
+      "insulation_missing",
+      "common practice: prove every circuit before it is energised",
+    ],
+    [
+      "latest reading older than D days",
+      (i: GateInput) => (i.maxReadingAgeDays = 1),
+      "insulation_old",
+      "issue 12: D per site, default 7 (common practice)",
+    ],
+    [
+      "latest reading below the criterion",
+      (i: GateInput) => (i.circuits[0].readings[0].verdict = "below_minimum"),
+      "insulation_not_met",
+      "ANSI/NETA MTS Table 100.1 via reading-judgement",
+    ],
+    [
+      "latest reading fell more than 10 %",
+      (i: GateInput) => (i.circuits[0].readings[0].correctedMegohms = 150),
+      "insulation_fell",
+      "common practice: a falling IR means moisture returning; 10 % Tideline's allowance",
+    ],
+    [
+      "open safety-critical defect",
+      (i: GateInput) =>
+        i.defects.push({
+          id: "d",
+          ref: 7,
+          title: "Arc track",
+          designation: "1-1",
+          safetyCritical: true,
+          blocksEnergisation: false,
+        }),
+      "defect_open",
+      "issue 12 (common practice)",
+    ],
+    [
+      "open energisation-blocking defect",
+      (i: GateInput) =>
+        i.defects.push({
+          id: "d",
+          ref: 8,
+          title: "Seized",
+          designation: "1-1",
+          safetyCritical: false,
+          blocksEnergisation: true,
+        }),
+      "defect_open",
+      "issue 12 (common practice)",
+    ],
+    [
+      "protection above the stage's limit",
+      (i: GateInput) => (i.stage.protectionRatingA = 63),
+      "protection_above_limit",
+      "common practice: temporary fused feed far below the board's rating",
+    ],
+    [
+      "no protection rating recorded",
+      (i: GateInput) => (i.stage.protectionRatingA = null),
+      "protection_missing",
+      "common practice",
+    ],
     ["no limit set", (i: GateInput) => (i.stage.protectionLimitA = null), "protection_no_limit", "common practice"],
-    ["no qualified person", (i: GateInput) => (i.stage.qualifiedPerson = null), "no_qualified_person", "NFPA 70E: qualified persons (Article 100 definition, from memory)"],
-    ["qualification expired", (i: GateInput) => (i.stage.qualifiedPerson!.expiresOn = "2026-12-01"), "qualification_expired", "NFPA 70E 110.2 training records (from memory)"],
-    ["latest lamp check suggests a ground", (i: GateInput) => (i.lamps!.suggestsGround = true), "ground_shown", "common practice: ground-detection lamps on an ungrounded system"],
-    ["the stage it depends on is not released", (i: GateInput) => (i.stage.dependsOn = { id: "a", name: "Bus tie", status: "energised" }), "depends_on", "issue 12"],
+    [
+      "no qualified person",
+      (i: GateInput) => (i.stage.qualifiedPerson = null),
+      "no_qualified_person",
+      "NFPA 70E: qualified persons (Article 100 definition, from memory)",
+    ],
+    [
+      "qualification expired",
+      (i: GateInput) => (i.stage.qualifiedPerson!.expiresOn = "2026-12-01"),
+      "qualification_expired",
+      "NFPA 70E 110.2 training records (from memory)",
+    ],
+    [
+      "latest lamp check suggests a ground",
+      (i: GateInput) => (i.lamps!.suggestsGround = true),
+      "ground_shown",
+      "common practice: ground-detection lamps on an ungrounded system",
+    ],
+    [
+      "the stage it depends on is not released",
+      (i: GateInput) => (i.stage.dependsOn = { id: "a", name: "Bus tie", status: "energised" }),
+      "depends_on",
+      "issue 12",
+    ],
   ])("%s → %s (source: %s)", (_what, change, code) => {
     const i = with_(change);
     const r = evaluateStage(i, NOW);
@@ -87,13 +196,27 @@ describe("the gate before energising: one row per blocker (source beside each)",
   it("combinations: each blocker lands on its own hold point, with links", () => {
     const i = with_((x) => {
       x.circuits[0].readings = [];
-      x.defects.push({ id: "d1", ref: 12, title: "Charred strip", designation: "1-1", safetyCritical: true, blocksEnergisation: true });
+      x.defects.push({
+        id: "d1",
+        ref: 12,
+        title: "Charred strip",
+        designation: "1-1",
+        safetyCritical: true,
+        blocksEnergisation: true,
+      });
       x.stage.protectionRatingA = 100;
       x.stage.qualifiedPerson = null;
     });
     const r = evaluateStage(i, NOW);
     const by = Object.fromEntries(r.holdPoints.map((h) => [h.kind, h.blockers.map((b) => b.code)]));
-    expect(by).toMatchObject({ isolate: [], insulation: ["insulation_missing"], defects: ["defect_open"], protection: ["protection_above_limit"], clearance: [], energise: ["no_qualified_person"] });
+    expect(by).toMatchObject({
+      isolate: [],
+      insulation: ["insulation_missing"],
+      defects: ["defect_open"],
+      protection: ["protection_above_limit"],
+      clearance: [],
+      energise: ["no_qualified_person"],
+    });
     expect(r.blockers.find((b) => b.code === "defect_open")!.href).toBe("/defects/d1");
     expect(r.blockers.find((b) => b.code === "defect_open")!.message).toContain("D-12");
   });
@@ -103,28 +226,45 @@ describe("the gate before energising: one row per blocker (source beside each)",
       x.steps = x.steps.filter((s) => s.kind !== "insulation");
       x.circuits[0].readings = [];
     });
-    expect(evaluateStage(i, NOW).holdPoints.find((h) => h.kind === "energise")!.blockers.map((b) => b.code)).toEqual(["insulation_missing"]);
+    expect(
+      evaluateStage(i, NOW)
+        .holdPoints.find((h) => h.kind === "energise")!
+        .blockers.map((b) => b.code),
+    ).toEqual(["insulation_missing"]);
   });
 
   it("a blocked hold point released with a reason counts as passed and is listed in red for ever", () => {
     const i = with_((x) => {
       x.circuits[0].readings = [];
       x.steps[0].current = { id: "a", kind: "signed", signerName: "T", signedAt: NOW, reason: "" };
-      x.steps[1].current = { id: "b", kind: "released", signerName: "Ines Marrow", signedAt: NOW, reason: "Spare circuit, cable off" };
+      x.steps[1].current = {
+        id: "b",
+        kind: "released",
+        signerName: "Ines Marrow",
+        signedAt: NOW,
+        reason: "Spare circuit, cable off",
+      };
     });
     const r = evaluateStage(i, NOW);
     expect(r.holdPoints[1].state).toBe("released");
     expect(r.holdPoints[2].state).toBe("ready");
-    expect(r.releasedWithReason).toEqual([expect.objectContaining({ reason: "Spare circuit, cable off", by: "Ines Marrow" })]);
+    expect(r.releasedWithReason).toEqual([
+      expect.objectContaining({ reason: "Spare circuit, cable off", by: "Ines Marrow" }),
+    ]);
   });
 
   it("with every pre-energisation hold point signed, the stage shows ready to energise (never 'safe')", () => {
-    const r = evaluateStage(with_((x) => (x.steps = steps(["isolate", "insulation", "defects", "protection", "clearance"]))), NOW);
+    const r = evaluateStage(
+      with_((x) => (x.steps = steps(["isolate", "insulation", "defects", "protection", "clearance"]))),
+      NOW,
+    );
     expect(r.state).toBe("ready_to_energise");
     expect(JSON.stringify(r)).not.toMatch(/\bsafe\b/i);
   });
   it("a struck-out signature no longer counts", () => {
-    const i = with_((x) => (x.steps[0].current = { id: "a", kind: "struck", signerName: "T", signedAt: NOW, reason: "wrong board" }));
+    const i = with_(
+      (x) => (x.steps[0].current = { id: "a", kind: "struck", signerName: "T", signedAt: NOW, reason: "wrong board" }),
+    );
     expect(evaluateStage(i, NOW).holdPoints[0].state).toBe("ready");
   });
 });
@@ -138,14 +278,39 @@ describe("the gate after energising", () => {
       f(x);
     });
   it("pre-energisation evidence is judged as of the energisation (a reading 7 days old then is not re-judged now)", () => {
-    const r = evaluateStage(live((x) => (x.circuits[0].readings[0].measuredAt = "2026-11-26T09:00:00Z")), "2026-12-05T12:00:00Z");
+    const r = evaluateStage(
+      live((x) => (x.circuits[0].readings[0].measuredAt = "2026-11-26T09:00:00Z")),
+      "2026-12-05T12:00:00Z",
+    );
     expect(r.holdPoints.find((h) => h.kind === "insulation")!.state).toBe("met");
   });
   it.each([
-    ["no lamp check since energising", (x: GateInput) => (x.lamps!.at = "2026-12-01T10:00:00Z"), "ground_lamps", "lamps_not_checked"],
-    ["a dim lamp since energising", (x: GateInput) => (x.lamps = { id: "w", at: "2026-12-02T07:00:00Z", suggestsGround: true, words: "one dim", source: "watch_check" }), "ground_lamps", "ground_shown"],
+    [
+      "no lamp check since energising",
+      (x: GateInput) => (x.lamps!.at = "2026-12-01T10:00:00Z"),
+      "ground_lamps",
+      "lamps_not_checked",
+    ],
+    [
+      "a dim lamp since energising",
+      (x: GateInput) =>
+        (x.lamps = {
+          id: "w",
+          at: "2026-12-02T07:00:00Z",
+          suggestsGround: true,
+          words: "one dim",
+          source: "watch_check",
+        }),
+      "ground_lamps",
+      "ground_shown",
+    ],
     ["no thermal scan since energising", () => {}, "thermal", "thermal_missing"],
-    ["a level-3 hot spot (NETA Table 100.18)", (x: GateInput) => x.thermal.push({ id: "t", at: "2026-12-02T08:00:00Z", level: 3, designation: "1-1" }), "thermal", "hot_spot"],
+    [
+      "a level-3 hot spot (NETA Table 100.18)",
+      (x: GateInput) => x.thermal.push({ id: "t", at: "2026-12-02T08:00:00Z", level: 3, designation: "1-1" }),
+      "thermal",
+      "hot_spot",
+    ],
   ])("%s → %s %s", (_w, f, kind, code) => {
     const r = evaluateStage(live(f as (x: GateInput) => void), NOW);
     expect(r.holdPoints.find((h) => h.kind === kind)!.blockers.map((b) => b.code)).toContain(code);
@@ -157,7 +322,15 @@ describe("the gate after energising", () => {
     expect(w).toEqual(["watch_overdue", "watch_running"]);
   });
   it("a stopped stage cannot be released", () => {
-    const r = evaluateStage(live((x) => ((x.stage.status = "stopped"), x.incidents.push({ id: "i", at: NOW, summary: "Fuse blew", defectId: "d9" }))), NOW);
+    const r = evaluateStage(
+      live(
+        (x) => (
+          (x.stage.status = "stopped"),
+          x.incidents.push({ id: "i", at: NOW, summary: "Fuse blew", defectId: "d9" })
+        ),
+      ),
+      NOW,
+    );
     expect(r.state).toBe("stopped");
     const rel = r.holdPoints.find((h) => h.kind === "release")!;
     expect(rel.blockers[0]).toMatchObject({ code: "stopped", href: "/defects/d9" });
@@ -182,21 +355,29 @@ describe("watch schedule (common practice; 15 min grace is Tideline's)", () => {
     expect(w.complete).toBe(true);
     expect(w.gaps).toEqual([{ from: "2026-12-02T04:00:00.000Z", to: "2026-12-02T11:00:00.000Z" }]);
   });
-  it("rejects an interval of zero", () => expect(() => watchSchedule({ ...base, checkEveryHours: 0, checks: [] }, at(1))).toThrow(RangeError));
+  it("rejects an interval of zero", () =>
+    expect(() => watchSchedule({ ...base, checkEveryHours: 0, checks: [] }, at(1))).toThrow(RangeError));
 });
 
 describe("insulation blockers directly", () => {
-  it("throws on a reading age below one day", () => expect(() => insulationBlockers([], Date.parse(NOW), 0, links)).toThrow(RangeError));
+  it("throws on a reading age below one day", () =>
+    expect(() => insulationBlockers([], Date.parse(NOW), 0, links)).toThrow(RangeError));
 });
 
 describe("plan order and permissions", () => {
-  const stages = [{ id: "a", dependsOnId: null, name: "Bus tie" }, { id: "b", dependsOnId: "a", name: "Power" }, { id: "c", dependsOnId: null, name: "Lighting" }];
+  const stages = [
+    { id: "a", dependsOnId: null, name: "Bus tie" },
+    { id: "b", dependsOnId: "a", name: "Power" },
+    { id: "c", dependsOnId: null, name: "Lighting" },
+  ];
   it.each([
     ["b", 0, false],
     ["a", 2, false],
     ["c", 0, true],
     ["b", 2, true],
-  ])("moving %s to %i: allowed %s", (id, to, ok) => expect(checkReorder(stages, id as string, to as number).ok).toBe(ok));
+  ])("moving %s to %i: allowed %s", (id, to, ok) =>
+    expect(checkReorder(stages, id as string, to as number).ok).toBe(ok),
+  );
   it.each([
     ["viewer", "sign", false],
     ["volunteer", "sign", true],
@@ -215,12 +396,26 @@ describe("breaker operations budget (Tideline's defaults; ANSI C37.50 endurance 
     ["molded_case_breaker", null, 10],
     ["molded_case_breaker", 1962, 50],
     ["bus_tie", 2010, 500],
-  ] as const)("%s made %s → %i operations", (kind, year, n) => expect(defaultOperationsBudget(kind, year)!.budget).toBe(n));
+  ] as const)("%s made %s → %i operations", (kind, year, n) =>
+    expect(defaultOperationsBudget(kind, year)!.budget).toBe(n),
+  );
   it("meters are not counted", () => expect(defaultOperationsBudget("meter", 1946)).toBeNull());
   it.each([
     [8, 10, 1, false, null],
-    [10, 10, 1, true, "1 more operation would pass its budget (10 of 10 used). Consider energising from the temporary supply instead of operating it."],
-    [11, 10, 0, false, "Operated 11 times against a budget of 10. Consider energising from the temporary supply instead of operating it."],
+    [
+      10,
+      10,
+      1,
+      true,
+      "1 more operation would pass its budget (10 of 10 used). Consider energising from the temporary supply instead of operating it.",
+    ],
+    [
+      11,
+      10,
+      0,
+      false,
+      "Operated 11 times against a budget of 10. Consider energising from the temporary supply instead of operating it.",
+    ],
   ])("used %i of %i, %i planned: would exceed %s", (used, budget, planned, exceed, warning) => {
     const s = operationsStatus(used, budget, planned);
     expect(s.wouldExceed || s.overBudget).toBe(exceed || used > budget);

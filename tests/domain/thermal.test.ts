@@ -57,7 +57,10 @@ describe("classifyTemperatureRise with both comparisons", () => {
       for (let a = -2; a <= 45; a += 0.5) {
         const both = classifyTemperatureRise({ overSimilarC: s, overAmbientC: a }).level;
         expect(both).toBe(
-          Math.max(classifyTemperatureRise({ overSimilarC: s }).level, classifyTemperatureRise({ overAmbientC: a }).level),
+          Math.max(
+            classifyTemperatureRise({ overSimilarC: s }).level,
+            classifyTemperatureRise({ overAmbientC: a }).level,
+          ),
         );
       }
     }
@@ -80,12 +83,10 @@ describe("actions and errors", () => {
     expect(classifyTemperatureRise({ overAmbientC: 25 })).toEqual({ level: 3, action: THERMAL_ACTIONS[3] });
   });
 
-  it.each([
-    [{}],
-    [{ overSimilarC: NaN }],
-    [{ overAmbientC: Infinity }],
-    [{ overSimilarC: 2, overAmbientC: NaN }],
-  ])("rejects %o with RangeError", (input) => {
-    expect(() => classifyTemperatureRise(input)).toThrow(RangeError);
-  });
+  it.each([[{}], [{ overSimilarC: NaN }], [{ overAmbientC: Infinity }], [{ overSimilarC: 2, overAmbientC: NaN }]])(
+    "rejects %o with RangeError",
+    (input) => {
+      expect(() => classifyTemperatureRise(input)).toThrow(RangeError);
+    },
+  );
 });

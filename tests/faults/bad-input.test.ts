@@ -31,11 +31,40 @@ beforeAll(async () => {
   await admin.signIn(fx.crew.admin.email);
   const b = await makeBoard(t.db, fx.siteId);
   const d = await makeDefect(t.db, { siteId: fx.siteId, boardId: b.boardId, positionId: b.positionId });
-  const photo = await t.db.insertInto("photos").values({ siteId: fx.siteId, boardId: b.boardId, positionId: b.positionId, originalName: "p.jpg", format: "jpeg", width: 1, height: 1, bytes: 1, originalKey: "o", displayKey: "d", thumbKey: "t" }).returning("id").executeTakeFirstOrThrow();
-  const section = await t.db.insertInto("sections").values({ siteId: fx.siteId, boardId: b.boardId, name: "Feeder panel" }).returning("id").executeTakeFirstOrThrow();
+  const photo = await t.db
+    .insertInto("photos")
+    .values({
+      siteId: fx.siteId,
+      boardId: b.boardId,
+      positionId: b.positionId,
+      originalName: "p.jpg",
+      format: "jpeg",
+      width: 1,
+      height: 1,
+      bytes: 1,
+      originalKey: "o",
+      displayKey: "d",
+      thumbKey: "t",
+    })
+    .returning("id")
+    .executeTakeFirstOrThrow();
+  const section = await t.db
+    .insertInto("sections")
+    .values({ siteId: fx.siteId, boardId: b.boardId, name: "Feeder panel" })
+    .returning("id")
+    .executeTakeFirstOrThrow();
   const line = await admin.post(`/api/sites/${fx.siteId}/parts`, { kind: "ground_lamp", voltageRating: 250, qty: 2 });
   expect(line.status).toBe(201);
-  Object.assign(ids, { boardId: b.boardId, positionId: b.positionId, componentId: b.componentId, defectId: d.id, photoId: photo.id, sectionId: section.id, userId: fx.crew.viewer.id, lineId: line.body.line.id });
+  Object.assign(ids, {
+    boardId: b.boardId,
+    positionId: b.positionId,
+    componentId: b.componentId,
+    defectId: d.id,
+    photoId: photo.id,
+    sectionId: section.id,
+    userId: fx.crew.viewer.id,
+    lineId: line.body.line.id,
+  });
 });
 afterAll(async () => {
   await server.close();
@@ -60,7 +89,8 @@ async function stillSignedIn() {
   if ((await admin.get("/api/session")).status === 401) await admin.signIn(fx.crew.admin.email);
 }
 
-const routes = () => listRoutes(createApp({ db: t.db })).filter((r) => r.path.startsWith("/api/") && r.path !== "/api/auth/sign-out");
+const routes = () =>
+  listRoutes(createApp({ db: t.db })).filter((r) => r.path.startsWith("/api/") && r.path !== "/api/auth/sign-out");
 
 describe("hostile input never gets a 500 (fast-check over the route table)", () => {
   it("every write route, hostile JSON bodies", async () => {
@@ -69,7 +99,10 @@ describe("hostile input never gets a 500 (fast-check over the route table)", () 
     for (const r of writes) {
       await fc.assert(
         fc.asyncProperty(nastyBody, async (body) => {
-          judge(`${r.method} ${r.path} ${JSON.stringify(body).slice(0, 200)}`, await admin.call(r.method, fill(r.path), body));
+          judge(
+            `${r.method} ${r.path} ${JSON.stringify(body).slice(0, 200)}`,
+            await admin.call(r.method, fill(r.path), body),
+          );
         }),
         { numRuns: 12 },
       );

@@ -79,7 +79,11 @@ describe("when the backend of an in-flight request is terminated", () => {
   });
 
   it("every idle connection of the pool terminated at once: the next requests reconnect", async () => {
-    await Promise.all([curator.get("/api/health"), curator.get(`/api/sites/${fx.siteId}/boards`), curator.get("/api/health")]);
+    await Promise.all([
+      curator.get("/api/health"),
+      curator.get(`/api/sites/${fx.siteId}/boards`),
+      curator.get("/api/health"),
+    ]);
     await terminate(admin, await backendsOf(admin, tdb.name));
     await sleep(200);
     const r = await curator.get(`/api/sites/${fx.siteId}/boards`);
@@ -103,10 +107,15 @@ describe("when the database connection drops during a streaming CSV export", () 
     // The server fills the socket buffers, then waits for them to drain: from then on no
     // connection of its pool is in a query or a transaction (sampled until steady).
     let quiet = 0;
-    await waitFor("the export to block on the socket", async () => {
-      quiet = (await backendsOf(admin, tdb.name, "state <> 'idle'")).length === 0 ? quiet + 1 : 0;
-      return quiet >= 5;
-    }, 60_000, 300);
+    await waitFor(
+      "the export to block on the socket",
+      async () => {
+        quiet = (await backendsOf(admin, tdb.name, "state <> 'idle'")).length === 0 ? quiet + 1 : 0;
+        return quiet >= 5;
+      },
+      60_000,
+      300,
+    );
     await terminate(admin, await backendsOf(admin, tdb.name));
     const body = await dl.readAll();
     expect(body.equals(reference)).toBe(true);

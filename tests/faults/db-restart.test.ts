@@ -58,11 +58,20 @@ beforeAll(async () => {
   base = `http://127.0.0.1:${port}`;
   const env: NodeJS.ProcessEnv = { ...process.env, DATABASE_URL: url, PORT: String(port), PUBLIC_URL: base };
   delete env.SMTP_URL;
-  child = spawn(process.execPath, [join(projectRoot, "node_modules", "tsx", "dist", "cli.mjs"), "server/index.ts"], { cwd: projectRoot, env, stdio: ["ignore", "pipe", "pipe"] });
+  child = spawn(process.execPath, [join(projectRoot, "node_modules", "tsx", "dist", "cli.mjs"), "server/index.ts"], {
+    cwd: projectRoot,
+    env,
+    stdio: ["ignore", "pipe", "pipe"],
+  });
   child.stdout!.on("data", (d) => (serverLog += d));
   child.stderr!.on("data", (d) => (serverLog += d));
   child.on("exit", (code, signal) => (exited = { code, signal }));
-  await waitFor("the server to answer /api/health", async () => (await fetch(`${base}/api/health`)).status === 200, 90_000, 250);
+  await waitFor(
+    "the server to answer /api/health",
+    async () => (await fetch(`${base}/api/health`)).status === 200,
+    90_000,
+    250,
+  );
   curator = new Client(base);
   await curator.signIn(fx.crew.curator.email);
 });
@@ -89,15 +98,25 @@ interface Burst {
 function postFresh(path: string, body: unknown): Promise<number> {
   return new Promise((resolve, reject) => {
     const payload = JSON.stringify(body);
-    const req = request(base + path, {
-      method: "POST",
-      agent: false,
-      headers: { "content-type": "application/json", "content-length": Buffer.byteLength(payload), origin: base, cookie: curator.cookie, connection: "close" },
-    }, (res) => {
-      res.resume();
-      res.on("end", () => resolve(res.statusCode ?? 0));
-      res.on("error", reject);
-    });
+    const req = request(
+      base + path,
+      {
+        method: "POST",
+        agent: false,
+        headers: {
+          "content-type": "application/json",
+          "content-length": Buffer.byteLength(payload),
+          origin: base,
+          cookie: curator.cookie,
+          connection: "close",
+        },
+      },
+      (res) => {
+        res.resume();
+        res.on("end", () => resolve(res.statusCode ?? 0));
+        res.on("error", reject);
+      },
+    );
     req.on("error", reject);
     req.end(payload);
   });
@@ -114,7 +133,11 @@ function writeBurst(tag: string): Burst {
       const notes = `${tag}-${w}-${i}`;
       let status = 0;
       try {
-        status = await postFresh(`/api/sites/${siteId}/flood-events`, { occurredOn: "2026-11-20", waterType: "salt", notes });
+        status = await postFresh(`/api/sites/${siteId}/flood-events`, {
+          occurredOn: "2026-11-20",
+          waterType: "salt",
+          notes,
+        });
       } catch (e) {
         status = -1; // the connection itself failed: the server would have to be gone
         failures.push(String((e as Error & { cause?: Error }).cause ?? e));
@@ -124,7 +147,15 @@ function writeBurst(tag: string): Burst {
       if (status !== 201) await sleep(50);
     }
   });
-  return { acked, statuses, failures, stop: async () => { running = false; await Promise.all(writers); } };
+  return {
+    acked,
+    statuses,
+    failures,
+    stop: async () => {
+      running = false;
+      await Promise.all(writers);
+    },
+  };
 }
 
 const health = async () => {
@@ -146,20 +177,31 @@ async function outageUnderWrites(tag: string, takeDown: () => void) {
   const burst = writeBurst(tag);
   await waitFor("some writes acknowledged", async () => burst.acked.length >= 20, 60_000);
   takeDown();
-  await waitFor("health to report the database down", async () => {
-    const h = await health();
-    return h.status === 503 && h.body.db === "down";
-  }, 60_000, 200);
+  await waitFor(
+    "health to report the database down",
+    async () => {
+      const h = await health();
+      return h.status === 503 && h.body.db === "down";
+    },
+    60_000,
+    200,
+  );
   await sleep(1000); // writers keep knocking on a database that is not there
   await startDatabase();
   await waitFor("health to report the database up", async () => (await health()).body.db === "up", 60_000, 200);
   const ackedBefore = burst.acked.length;
-  await waitFor("writes acknowledged again after the restart", async () => burst.acked.length >= ackedBefore + 20, 60_000);
+  await waitFor(
+    "writes acknowledged again after the restart",
+    async () => burst.acked.length >= ackedBefore + 20,
+    60_000,
+  );
   await burst.stop();
 
   expect(exited, serverLog.slice(-3000)).toBeNull();
   // Acknowledged, or refused with 503 while the database was away: nothing else.
-  expect([...burst.statuses.keys()].sort(), JSON.stringify([...burst.statuses]) + burst.failures.join("; ")).toEqual([201, 503]);
+  expect([...burst.statuses.keys()].sort(), JSON.stringify([...burst.statuses]) + burst.failures.join("; ")).toEqual([
+    201, 503,
+  ]);
   const stored = await storedNotes();
   const lost = burst.acked.filter((n) => !stored.has(n));
   expect(lost).toEqual([]);
@@ -184,7 +226,11 @@ describe("the database goes away under a write burst", () => {
   it("a 503 during the outage carries a clear message and Retry-After", async () => {
     pgCtl(cluster.dataDir, ["-m", "fast", "-w", "stop"]);
     try {
-      const r = await curator.post(`/api/sites/${siteId}/flood-events`, { occurredOn: "2026-11-20", waterType: "salt", notes: "while down" });
+      const r = await curator.post(`/api/sites/${siteId}/flood-events`, {
+        occurredOn: "2026-11-20",
+        waterType: "salt",
+        notes: "while down",
+      });
       expect(r.status).toBe(503);
       expect(r.body.error).toMatchObject({ code: "db_unavailable" });
       expect(r.body.error.message).toMatch(/try again/i);

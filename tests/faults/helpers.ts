@@ -6,7 +6,12 @@ import type { Db } from "../../server/db";
 export const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
 /** Polls `probe` until it returns something truthy, or fails after `timeoutMs`. */
-export async function waitFor<T>(what: string, probe: () => Promise<T | null | undefined | false>, timeoutMs = 30_000, everyMs = 100): Promise<T> {
+export async function waitFor<T>(
+  what: string,
+  probe: () => Promise<T | null | undefined | false>,
+  timeoutMs = 30_000,
+  everyMs = 100,
+): Promise<T> {
   const until = Date.now() + timeoutMs;
   for (;;) {
     const v = await probe().catch(() => null);
@@ -35,7 +40,10 @@ export async function adminClient(adminUrl: string) {
 
 /** Backends of `database` (other than the caller's) doing `filter`; e.g. waiting on a lock. */
 export async function backendsOf(admin: pg.Client, database: string, where = "true"): Promise<number[]> {
-  const r = await admin.query(`SELECT pid FROM pg_stat_activity WHERE datname = $1 AND pid <> pg_backend_pid() AND backend_type = 'client backend' AND ${where}`, [database]);
+  const r = await admin.query(
+    `SELECT pid FROM pg_stat_activity WHERE datname = $1 AND pid <> pg_backend_pid() AND backend_type = 'client backend' AND ${where}`,
+    [database],
+  );
   return r.rows.map((x) => x.pid as number);
 }
 
@@ -90,7 +98,11 @@ export function openDownload(url: string, cookie: string, opts: { paused?: boole
 /** `n` defects on a new board with long descriptions, so an export runs to many megabytes. */
 export async function bulkDefects(db: Db, siteId: string, n: number, descriptionBytes = 4000) {
   const { sql } = await import("kysely");
-  const board = await db.insertInto("boards").values({ siteId, name: `Bulk board ${Math.random().toString(36).slice(2, 8)}` }).returning("id").executeTakeFirstOrThrow();
+  const board = await db
+    .insertInto("boards")
+    .values({ siteId, name: `Bulk board ${Math.random().toString(36).slice(2, 8)}` })
+    .returning("id")
+    .executeTakeFirstOrThrow();
   await sql`
     INSERT INTO defects (site_id, board_id, title, description, category, severity)
     SELECT ${siteId}, ${board.id}, 'Verdigris on bus bar ' || g, repeat('Salt crust and green corrosion along the bar. ', ${Math.ceil(descriptionBytes / 46)}), 'corrosion', 'degraded'

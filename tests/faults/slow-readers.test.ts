@@ -56,7 +56,12 @@ describe("ten CSV exports that are never read", () => {
       viewers.push(c);
     }
     const url = `${server.base}/api/sites/${fx.siteId}/defects.csv`;
-    const stalled: Download[] = await Promise.all(viewers.flatMap((v) => [openDownload(url, v.cookie, { paused: true }), openDownload(url, v.cookie, { paused: true })]));
+    const stalled: Download[] = await Promise.all(
+      viewers.flatMap((v) => [
+        openDownload(url, v.cookie, { paused: true }),
+        openDownload(url, v.cookie, { paused: true }),
+      ]),
+    );
     expect(stalled.map((d) => d.res.statusCode)).toEqual(Array(10).fill(200));
 
     // A third at once from the same person is refused, with a time to come back.
@@ -67,15 +72,22 @@ describe("ten CSV exports that are never read", () => {
 
     // Once the exports are blocked on their sockets, none holds a connection.
     let quiet = 0;
-    await waitFor("the exports to block on their readers", async () => {
-      quiet = (await backendsOf(admin, tdb.name, "state <> 'idle'")).length === 0 ? quiet + 1 : 0;
-      return quiet >= 3;
-    }, 60_000, 300);
+    await waitFor(
+      "the exports to block on their readers",
+      async () => {
+        quiet = (await backendsOf(admin, tdb.name, "state <> 'idle'")).length === 0 ? quiet + 1 : 0;
+        return quiet >= 3;
+      },
+      60_000,
+      300,
+    );
     expect([...runningExports().values()].reduce((a, b) => a + b, 0)).toBe(10);
 
     // Everyone else is served: the curator's boards and register, a fresh sign-in, health.
     const curator = server.client();
-    const signIn = await timed(() => curator.post("/api/auth/sign-in", { email: fx.crew.curator.email, password: "correct-horse-battery" }));
+    const signIn = await timed(() =>
+      curator.post("/api/auth/sign-in", { email: fx.crew.curator.email, password: "correct-horse-battery" }),
+    );
     const boards = await timed(() => curator.get(`/api/sites/${fx.siteId}/boards`));
     const register = await timed(() => curator.get(`/api/sites/${fx.siteId}/defects?size=25`));
     const health = await timed(() => curator.get("/api/health"));
@@ -88,7 +100,12 @@ describe("ten CSV exports that are never read", () => {
 
     // Nobody read: after the write timeout the server drops each stalled download and frees its slot
     // (the reader, once it reads again, finds the body cut short).
-    await waitFor("the server to drop the stalled downloads", async () => runningExports().size === 0, WRITE_TIMEOUT_MS + 60_000, 250);
+    await waitFor(
+      "the server to drop the stalled downloads",
+      async () => runningExports().size === 0,
+      WRITE_TIMEOUT_MS + 60_000,
+      250,
+    );
     await expect(stalled[0].readAll()).rejects.toThrow();
     for (const d of stalled) d.destroy();
     const again = await viewers[0].get(`/api/sites/${fx.siteId}/defects.csv?size=1&q=no-such-defect`);

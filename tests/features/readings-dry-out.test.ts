@@ -6,7 +6,10 @@ const HOUR = 3_600_000;
 const T0 = Date.UTC(2026, 10, 10, 8);
 /** Only the fields the chart reads; the rest of a reading does not matter here. */
 const reading = (hours: number, corrected: number | null, minimum = 100) =>
-  ({ measuredAt: new Date(T0 + hours * HOUR).toISOString(), judgement: { correctedMegohms: corrected, baseTemperatureC: 20, minimum: { megohms: minimum } } }) as unknown as InsulationReading;
+  ({
+    measuredAt: new Date(T0 + hours * HOUR).toISOString(),
+    judgement: { correctedMegohms: corrected, baseTemperatureC: 20, minimum: { megohms: minimum } },
+  }) as unknown as InsulationReading;
 
 describe("dryOutSeries", () => {
   it("extends the fitted trend from the last reading to the minimum (constructed R = 5·2^(t/10 h))", () => {
@@ -43,7 +46,10 @@ describe("dryOutSeries", () => {
   });
 
   it("readings not valid for judging are drawn apart and left out of the trend", () => {
-    const bad = { ...reading(5, 300), judgement: { ...reading(5, 300).judgement, validForJudging: false } } as InsulationReading;
+    const bad = {
+      ...reading(5, 300),
+      judgement: { ...reading(5, 300).judgement, validForJudging: false },
+    } as InsulationReading;
     const s = dryOutSeries([reading(0, 5), reading(10, 10), reading(20, 20), bad])!;
     expect(s.points.map((p) => p.y)).toEqual([5, 10, 20]);
     expect(s.excluded.map((p) => p.y)).toEqual([300]);

@@ -16,9 +16,17 @@ export interface Res<T = any> {
 /** One browser-like client: keeps its cookie and sends Tideline's own Origin. */
 export class Client {
   cookie = "";
-  constructor(public base: string, public origin = base) {}
+  constructor(
+    public base: string,
+    public origin = base,
+  ) {}
 
-  async call<T = any>(method: string, path: string, body?: unknown, headers: Record<string, string> = {}): Promise<Res<T>> {
+  async call<T = any>(
+    method: string,
+    path: string,
+    body?: unknown,
+    headers: Record<string, string> = {},
+  ): Promise<Res<T>> {
     const h: Record<string, string> = { ...headers };
     if (this.cookie) h.cookie = this.cookie;
     if (method !== "GET" && this.origin) h.origin = this.origin;
@@ -76,10 +84,19 @@ export async function startTestServer(deps: AppDeps): Promise<TestServer> {
   const server: Server = createServer();
   await new Promise<void>((resolve) => server.listen(0, "127.0.0.1", () => resolve()));
   const base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
-  const full = { mailer: memoryMailer(), publicUrl: base, photoStorage: deps.photoStorage ?? storageFromEnv(), ...deps };
+  const full = {
+    mailer: memoryMailer(),
+    publicUrl: base,
+    photoStorage: deps.photoStorage ?? storageFromEnv(),
+    ...deps,
+  };
   const jobDeps = { db: full.db, mailer: full.mailer, publicUrl: full.publicUrl, photoStorage: full.photoStorage };
   // A test of an unreachable database gets a queue that never started (enqueue then fails like the database).
-  const jobs = deps.jobs ?? (await startJobs(jobDeps, { work: true, pollingIntervalSeconds: 0.5 }).catch(() => createJobs({ db: full.db, work: false })));
+  const jobs =
+    deps.jobs ??
+    (await startJobs(jobDeps, { work: true, pollingIntervalSeconds: 0.5 }).catch(() =>
+      createJobs({ db: full.db, work: false }),
+    ));
   server.on("request", createApp({ ...full, jobs }));
   return {
     base,
@@ -87,7 +104,10 @@ export async function startTestServer(deps: AppDeps): Promise<TestServer> {
     client: () => new Client(base),
     jobsIdle: (timeoutMs) => jobsIdle(full.db, timeoutMs),
     async close() {
-      await new Promise<void>((r) => { server.closeAllConnections(); server.close(() => r()); });
+      await new Promise<void>((r) => {
+        server.closeAllConnections();
+        server.close(() => r());
+      });
       if (!deps.jobs) await jobs.stop(2000);
     },
   };

@@ -4,7 +4,9 @@ import { smtpMailer } from "../../server/mail/mailer";
 import { startTestServer, type TestServer } from "./http";
 
 /** The app over HTTP with real SMTP to the local fake server, as in development. */
-export async function startMailTestServer(db: Db): Promise<{ server: TestServer; smtp: FakeSmtp; close(): Promise<void> }> {
+export async function startMailTestServer(
+  db: Db,
+): Promise<{ server: TestServer; smtp: FakeSmtp; close(): Promise<void> }> {
   const smtp = await startFakeSmtp({ port: 0 });
   const mailer = smtpMailer({ url: smtp.url });
   const server = await startTestServer({ db, mailer, mailbox: smtp.mailbox });
@@ -46,7 +48,19 @@ export async function makeBoard(db: Db, siteId: string, name = "Main switchboard
 
 export async function makeDefect(
   db: Db,
-  v: { siteId: string; boardId: string; positionId?: string; title?: string; assigneeId?: string | null; repairedBy?: string | null; status?: "raised" | "awaiting_retest" | "closed" | "deferred"; blocksEnergisation?: boolean; safetyCritical?: boolean; createdAt?: Date; closedAt?: Date | null },
+  v: {
+    siteId: string;
+    boardId: string;
+    positionId?: string;
+    title?: string;
+    assigneeId?: string | null;
+    repairedBy?: string | null;
+    status?: "raised" | "awaiting_retest" | "closed" | "deferred";
+    blocksEnergisation?: boolean;
+    safetyCritical?: boolean;
+    createdAt?: Date;
+    closedAt?: Date | null;
+  },
 ) {
   return db
     .insertInto("defects")

@@ -23,19 +23,47 @@ export function requestSchemas(): Array<[string, z.ZodObject]> {
   const out: Array<[string, z.ZodObject]> = [];
   for (const [mod, exports] of Object.entries(SCHEMA_MODULES))
     for (const [name, v] of Object.entries(exports))
-      if (v instanceof z.ZodObject && /(Body|Query|Patch|Fields|Params|Param)$/.test(name)) out.push([`${mod}.${name}`, v]);
+      if (v instanceof z.ZodObject && /(Body|Query|Patch|Fields|Params|Param)$/.test(name))
+        out.push([`${mod}.${name}`, v]);
   return out;
 }
 
 export const FIELD_NAMES = [...new Set(requestSchemas().flatMap(([, s]) => Object.keys(s.shape)))].sort();
 
 export const NASTY_STRINGS = [
-  "\u0000", "ACB\u0000-1", "\ud800", "x\udfffy", "\udc00\ud800", "2026-13-45", "0000-01-01", "9999-99-99", "2026-02-30",
-  "2026-12-02T25:61:00Z", "0000-12-02T06:00:00Z", "=HYPERLINK(\"http://x\")", "+1", "-1", "@SUM(A1)", "../../etc/passwd",
-  "%E0%A4%A", "'; DROP TABLE users; --", "<script>alert(1)</script>", "𝔘𝔫𝔦𝔠𝔬𝔡𝔢 ✓", "", " ", "a".repeat(5000),
-  "00000000-0000-0000-0000-000000000000", "D-2147483648", "NaN", "Infinity", "true", "null",
+  "\u0000",
+  "ACB\u0000-1",
+  "\ud800",
+  "x\udfffy",
+  "\udc00\ud800",
+  "2026-13-45",
+  "0000-01-01",
+  "9999-99-99",
+  "2026-02-30",
+  "2026-12-02T25:61:00Z",
+  "0000-12-02T06:00:00Z",
+  '=HYPERLINK("http://x")',
+  "+1",
+  "-1",
+  "@SUM(A1)",
+  "../../etc/passwd",
+  "%E0%A4%A",
+  "'; DROP TABLE users; --",
+  "<script>alert(1)</script>",
+  "𝔘𝔫𝔦𝔠𝔬𝔡𝔢 ✓",
+  "",
+  " ",
+  "a".repeat(5000),
+  "00000000-0000-0000-0000-000000000000",
+  "D-2147483648",
+  "NaN",
+  "Infinity",
+  "true",
+  "null",
 ];
-export const NASTY_NUMBERS = [0, -1, 1, 0.5, -0, 2147483647, 2147483648, -2147483649, 9007199254740993, 1e21, 1e308, -1e308, 5e-324];
+export const NASTY_NUMBERS = [
+  0, -1, 1, 0.5, -0, 2147483647, 2147483648, -2147483649, 9007199254740993, 1e21, 1e308, -1e308, 5e-324,
+];
 
 export const nastyString = fc.oneof(
   { weight: 3, arbitrary: fc.constantFrom(...NASTY_STRINGS) },
@@ -57,19 +85,46 @@ export const nastyValue: fc.Arbitrary<unknown> = fc.letrec((tie) => ({
 })).value;
 
 /** A JSON body: known field names with hostile values, sometimes a whole valid-looking shape. */
-export const nastyBody = fc.dictionary(fc.oneof(fc.constantFrom(...FIELD_NAMES), fc.string({ maxLength: 8 })), nastyValue, { maxKeys: 8 });
+export const nastyBody = fc.dictionary(
+  fc.oneof(fc.constantFrom(...FIELD_NAMES), fc.string({ maxLength: 8 })),
+  nastyValue,
+  { maxKeys: 8 },
+);
 
 /** Percent-encodes UTF-8 bytes; a lone surrogate becomes the raw (invalid) bytes ED A0 80 as an attacker would send. */
 export function encodeRaw(s: string): string {
   let out = "";
   for (const ch of s) {
     const cp = ch.codePointAt(0)!;
-    if (cp >= 0xd800 && cp <= 0xdfff) out += `%${(0xe0 | (cp >> 12)).toString(16)}%${(0x80 | ((cp >> 6) & 0x3f)).toString(16)}%${(0x80 | (cp & 0x3f)).toString(16)}`.toUpperCase();
+    if (cp >= 0xd800 && cp <= 0xdfff)
+      out +=
+        `%${(0xe0 | (cp >> 12)).toString(16)}%${(0x80 | ((cp >> 6) & 0x3f)).toString(16)}%${(0x80 | (cp & 0x3f)).toString(16)}`.toUpperCase();
     else out += encodeURIComponent(ch);
   }
   return out;
 }
 
 export const nastyQuery = fc
-  .dictionary(fc.constantFrom(...FIELD_NAMES, "q", "today", "page", "size", "sort", "dir", "status", "flag", "board", "limit", "offset"), nastyString, { maxKeys: 4 })
-  .map((d) => Object.entries(d).map(([k, v]) => `${encodeURIComponent(k)}=${encodeRaw(v)}`).join("&"));
+  .dictionary(
+    fc.constantFrom(
+      ...FIELD_NAMES,
+      "q",
+      "today",
+      "page",
+      "size",
+      "sort",
+      "dir",
+      "status",
+      "flag",
+      "board",
+      "limit",
+      "offset",
+    ),
+    nastyString,
+    { maxKeys: 4 },
+  )
+  .map((d) =>
+    Object.entries(d)
+      .map(([k, v]) => `${encodeURIComponent(k)}=${encodeRaw(v)}`)
+      .join("&"),
+  );

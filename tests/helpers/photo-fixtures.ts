@@ -8,13 +8,20 @@ import type { Db } from "../../server/db";
  * model, a capture time and GPS tags. Upright it is 200×400 with red on top.
  */
 export async function sidewaysJpegWithGps() {
-  const red = await sharp({ create: { width: 200, height: 200, channels: 3, background: "#d00000" } }).png().toBuffer();
+  const red = await sharp({ create: { width: 200, height: 200, channels: 3, background: "#d00000" } })
+    .png()
+    .toBuffer();
   return sharp({ create: { width: 400, height: 200, channels: 3, background: "#0000d0" } })
     .composite([{ input: red, left: 0, top: 0 }])
     .withExif({
       IFD0: { Make: "Testcam", Model: "Deckhand 7" },
       IFD2: { DateTimeOriginal: "2026:11:03 09:41:07" },
-      IFD3: { GPSLatitudeRef: "N", GPSLatitude: "51/1 30/1 1234/100", GPSLongitudeRef: "W", GPSLongitude: "3/1 10/1 0/1" },
+      IFD3: {
+        GPSLatitudeRef: "N",
+        GPSLatitude: "51/1 30/1 1234/100",
+        GPSLongitudeRef: "W",
+        GPSLongitude: "3/1 10/1 0/1",
+      },
     })
     .withMetadata({ orientation: 6 })
     .jpeg({ quality: 90 })
@@ -25,11 +32,15 @@ export async function sidewaysJpegWithGps() {
 export async function noisyJpeg(width = 640, height = 480) {
   const raw = Buffer.alloc(width * height * 3);
   for (let i = 0; i < raw.length; i++) raw[i] = (i * 2654435761) >>> 24;
-  return sharp(raw, { raw: { width, height, channels: 3 } }).jpeg({ quality: 92 }).toBuffer();
+  return sharp(raw, { raw: { width, height, channels: 3 } })
+    .jpeg({ quality: 92 })
+    .toBuffer();
 }
 
 export const plainPng = (color = "#2a7") =>
-  sharp({ create: { width: 64, height: 48, channels: 3, background: color } }).png().toBuffer();
+  sharp({ create: { width: 64, height: 48, channels: 3, background: color } })
+    .png()
+    .toBuffer();
 
 /**
  * A valid PNG whose header claims 30 000 × 30 000 pixels (900 MP) but whose data is a
@@ -61,7 +72,8 @@ export function pngPixelBomb(width = 30000, height = 30000) {
 export function form(files: Array<{ name: string; data: Buffer; type?: string }>, fields: Record<string, string> = {}) {
   const fd = new FormData();
   for (const [k, v] of Object.entries(fields)) fd.append(k, v);
-  for (const f of files) fd.append("files", new Blob([new Uint8Array(f.data)], { type: f.type ?? "image/jpeg" }), f.name);
+  for (const f of files)
+    fd.append("files", new Blob([new Uint8Array(f.data)], { type: f.type ?? "image/jpeg" }), f.name);
   return fd;
 }
 
@@ -71,8 +83,16 @@ export async function makeBoard(db: Db, siteId: string, designations: string[], 
   const positions: Record<string, { id: string; componentId: string }> = {};
   let col = 1;
   for (const d of designations) {
-    const p = await db.insertInto("positions").values({ siteId, boardId: board.id, designation: d, kind: "molded_case_breaker", gridRow: 1, gridCol: col++ }).returning("id").executeTakeFirstOrThrow();
-    const c = await db.insertInto("components").values({ siteId, positionId: p.id, kind: "molded_case_breaker", tagNumber: `T-${d}` }).returning("id").executeTakeFirstOrThrow();
+    const p = await db
+      .insertInto("positions")
+      .values({ siteId, boardId: board.id, designation: d, kind: "molded_case_breaker", gridRow: 1, gridCol: col++ })
+      .returning("id")
+      .executeTakeFirstOrThrow();
+    const c = await db
+      .insertInto("components")
+      .values({ siteId, positionId: p.id, kind: "molded_case_breaker", tagNumber: `T-${d}` })
+      .returning("id")
+      .executeTakeFirstOrThrow();
     positions[d] = { id: p.id, componentId: c.id };
   }
   return { boardId: board.id, positions };

@@ -23,9 +23,18 @@ export function loggingDb(url: string): QueryLog {
   const db = new Kysely<Database>({
     dialect: new PostgresDialect({ pool }),
     plugins: [new CamelCasePlugin()],
-    log: (e) => { statements.push(e.query.sql); },
+    log: (e) => {
+      statements.push(e.query.sql);
+    },
   });
-  return { db, statements, reset: () => { statements.length = 0; }, close: () => db.destroy() };
+  return {
+    db,
+    statements,
+    reset: () => {
+      statements.length = 0;
+    },
+    close: () => db.destroy(),
+  };
 }
 
 /** Statements that change data or take locks. */

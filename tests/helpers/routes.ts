@@ -19,7 +19,8 @@ export function listRoutes(app: Express): MountedRoute[] {
       if (layer.route) {
         const paths = Array.isArray(layer.route.path) ? layer.route.path : [layer.route.path];
         for (const p of paths)
-          for (const [m, on] of Object.entries(layer.route.methods)) if (on && m !== "_all") out.push({ method: m.toUpperCase(), path: prefix + p });
+          for (const [m, on] of Object.entries(layer.route.methods))
+            if (on && m !== "_all") out.push({ method: m.toUpperCase(), path: prefix + p });
       } else if (layer.handle?.stack) {
         const raw = Array.isArray(layer.rawPath) ? layer.rawPath[0] : layer.rawPath;
         walk(layer.handle.stack, prefix + (raw && raw !== "/" ? raw : ""));

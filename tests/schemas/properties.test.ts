@@ -10,7 +10,8 @@ import { nastyBody, requestSchemas } from "../helpers/nasty";
 
 function* leaves(v: unknown, path = ""): Generator<[string, unknown]> {
   if (Array.isArray(v)) for (const [i, x] of v.entries()) yield* leaves(x, `${path}[${i}]`);
-  else if (v && typeof v === "object" && !(v instanceof Date)) for (const [k, x] of Object.entries(v)) yield* leaves(x, path ? `${path}.${k}` : k);
+  else if (v && typeof v === "object" && !(v instanceof Date))
+    for (const [k, x] of Object.entries(v)) yield* leaves(x, path ? `${path}.${k}` : k);
   else yield [path, v];
 }
 
@@ -31,7 +32,11 @@ describe("request schemas under hostile input", () => {
         }
         for (const [path, v] of leaves(r.data)) {
           if (typeof v === "string") expect(isStorableText(v), `${path} = ${JSON.stringify(v)}`).toBe(true);
-          if (typeof v === "number" && Number.isInteger(v) && /version|count|qty|row|col|span|order|page|size|limit|offset/i.test(path))
+          if (
+            typeof v === "number" &&
+            Number.isInteger(v) &&
+            /version|count|qty|row|col|span|order|page|size|limit|offset/i.test(path)
+          )
             expect(v >= INT4_MIN && v <= INT4_MAX, `${path} = ${v}`).toBe(true);
         }
       }),

@@ -13,7 +13,9 @@ function fakeAptGet(busy: number) {
   const count = join(dir, `count-${busy}`);
   const script = join(dir, `apt-get-${busy}`);
   writeFileSync(count, "0");
-  writeFileSync(script, `#!/bin/sh
+  writeFileSync(
+    script,
+    `#!/bin/sh
 n=$(cat ${count}); n=$((n+1)); echo $n > ${count}
 echo "$@" >> ${count}.args
 if [ $n -le ${busy} ]; then
@@ -22,9 +24,14 @@ if [ $n -le ${busy} ]; then
   exit 100
 fi
 echo "installed"
-`);
+`,
+  );
   chmodSync(script, 0o755);
-  return { script, calls: () => Number(readFileSync(count, "utf8").trim()), args: () => readFileSync(`${count}.args`, "utf8") };
+  return {
+    script,
+    calls: () => Number(readFileSync(count, "utf8").trim()),
+    args: () => readFileSync(`${count}.args`, "utf8"),
+  };
 }
 
 function runApt(script: string, waitS: number) {
@@ -32,7 +39,12 @@ function runApt(script: string, waitS: number) {
   return spawnSync(process.execPath, ["-e", code], {
     cwd: projectRoot,
     encoding: "utf8",
-    env: { ...process.env, TIDELINE_APT_GET: script, TIDELINE_APT_LOCK_WAIT_S: String(waitS), TIDELINE_APT_LOCK_RETRY_MS: "100" },
+    env: {
+      ...process.env,
+      TIDELINE_APT_GET: script,
+      TIDELINE_APT_LOCK_WAIT_S: String(waitS),
+      TIDELINE_APT_LOCK_RETRY_MS: "100",
+    },
   });
 }
 

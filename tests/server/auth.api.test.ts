@@ -53,17 +53,27 @@ describe("sign-in", () => {
   });
 
   it("when the e-mail is typed in another case, it still signs in", async () => {
-    const r = await server.client().post("/api/auth/sign-in", { email: fx.crew.viewer.email.toUpperCase(), password: "correct-horse-battery" });
+    const r = await server
+      .client()
+      .post("/api/auth/sign-in", { email: fx.crew.viewer.email.toUpperCase(), password: "correct-horse-battery" });
     expect(r.status).toBe(200);
   });
 
   it("when the password is wrong or the e-mail unknown, it answers 401 with the same message", async () => {
-    const wrong = await server.client().post("/api/auth/sign-in", { email: fx.crew.curator.email, password: "nope-nope-nope" });
-    const unknown = await server.client().post("/api/auth/sign-in", { email: "nobody@example.test", password: "nope-nope-nope" });
+    const wrong = await server
+      .client()
+      .post("/api/auth/sign-in", { email: fx.crew.curator.email, password: "nope-nope-nope" });
+    const unknown = await server
+      .client()
+      .post("/api/auth/sign-in", { email: "nobody@example.test", password: "nope-nope-nope" });
     expect(wrong.status).toBe(401);
     expect(unknown.status).toBe(401);
     expect(wrong.body.error.message).toBe(unknown.body.error.message);
-    expect(wrong.headers.getSetCookie().some((x) => x.startsWith("tideline_session=") && !x.startsWith("tideline_session=;"))).toBe(false);
+    expect(
+      wrong.headers
+        .getSetCookie()
+        .some((x) => x.startsWith("tideline_session=") && !x.startsWith("tideline_session=;")),
+    ).toBe(false);
   });
 
   it("when the body is malformed, it answers 400 with the offending fields, never 500", async () => {
@@ -93,7 +103,11 @@ describe("session lifetime", () => {
     const c = server.client();
     await c.signIn(fx.crew.photographer.email);
     const id = c.cookie.split("=")[1];
-    await t.db.updateTable("sessions").set({ expiresAt: new Date(Date.now() - 1000) }).where("id", "=", sessionKey(id)).execute(); // stored hashed
+    await t.db
+      .updateTable("sessions")
+      .set({ expiresAt: new Date(Date.now() - 1000) })
+      .where("id", "=", sessionKey(id))
+      .execute(); // stored hashed
     expect((await c.get("/api/session")).status).toBe(401);
   });
 

@@ -29,7 +29,8 @@ const FILING = ["curator", "photographer"] as const;
 const PARTS = ["curator", "scrounger"] as const;
 /** Return to service declares its own permission table (src/domain/return-to-service.ts); the matrix checks the routes follow it. */
 /** [] in REPORT_ROLES means every member. */
-const report = (action: keyof typeof REPORT_ROLES): Access => (REPORT_ROLES[action].length === 0 ? "member" : REPORT_ROLES[action]);
+const report = (action: keyof typeof REPORT_ROLES): Access =>
+  REPORT_ROLES[action].length === 0 ? "member" : REPORT_ROLES[action];
 const rts = (action: RtsAction) => rolesFor(action).filter((r) => r !== "admin") as Role[];
 
 /** Who may call each route (an instance admin counts as every role on every site). */
@@ -243,8 +244,14 @@ describe("authorization matrix (from the app's own route table)", () => {
   it("every mounted /api route is in the access table, and every entry in the table is still mounted", () => {
     const mounted = routes().map((r) => `${r.method} ${r.path}`);
     expect(mounted.length).toBeGreaterThan(100);
-    expect(mounted.filter((k) => !(k in ACCESS)), "routes with no entry in ACCESS").toEqual([]);
-    expect(Object.keys(ACCESS).filter((k) => !mounted.includes(k)), "ACCESS entries for routes that no longer exist").toEqual([]);
+    expect(
+      mounted.filter((k) => !(k in ACCESS)),
+      "routes with no entry in ACCESS",
+    ).toEqual([]);
+    expect(
+      Object.keys(ACCESS).filter((k) => !mounted.includes(k)),
+      "ACCESS entries for routes that no longer exist",
+    ).toEqual([]);
   });
 
   it("every role, an admin, a member of another site and a signed-out caller get what the table says, and never a 500", async () => {
@@ -257,10 +264,20 @@ describe("authorization matrix (from the app's own route table)", () => {
         c = server.client(); // signing out must not end the session the rest of the matrix uses
         await c.signIn(fx.crew[who].email);
       }
-      const r: Res = await c.call(method, fill(path, fx.siteId), method === "GET" || method === "DELETE" ? undefined : {});
+      const r: Res = await c.call(
+        method,
+        fill(path, fx.siteId),
+        method === "GET" || method === "DELETE" ? undefined : {},
+      );
       const body = typeof r.body === "string" ? r.body : JSON.stringify(r.body ?? "");
       const got =
-        r.status === 401 ? "401" : r.status === 403 ? "403" : r.status === 404 && r.body?.error?.message === SITE_NOT_FOUND ? "site404" : "allowed";
+        r.status === 401
+          ? "401"
+          : r.status === 403
+            ? "403"
+            : r.status === 404 && r.body?.error?.message === SITE_NOT_FOUND
+              ? "site404"
+              : "allowed";
       if (r.status >= 500) failures.push(`${key} as ${who}: ${r.status} ${body.slice(0, 200)}`);
       else if (/\bat .+\.(ts|js):\d+/.test(body)) failures.push(`${key} as ${who}: a stack trace in the body`);
       else if (got !== want) failures.push(`${key} as ${who}: expected ${want}, got ${r.status} ${body.slice(0, 120)}`);

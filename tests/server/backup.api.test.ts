@@ -30,14 +30,29 @@ beforeAll(async () => {
   t = await createTestDb();
   fx = await makeCrew(t.db);
   await t.db.insertInto("boards").values({ siteId: fx.siteId, name: "Main switchboard" }).execute();
-  await t.db.insertInto("floodEvents").values([
-    { siteId: fx.siteId, occurredOn: "2026-11-20", waterType: "salt", notes: "Harbour water to 1.1 m — ünïcode kept" },
-    { siteId: fx.siteId, occurredOn: "2026-11-21", waterType: "brackish", notes: "second" },
-  ]).execute();
+  await t.db
+    .insertInto("floodEvents")
+    .values([
+      {
+        siteId: fx.siteId,
+        occurredOn: "2026-11-20",
+        waterType: "salt",
+        notes: "Harbour water to 1.1 m — ünïcode kept",
+      },
+      { siteId: fx.siteId, occurredOn: "2026-11-21", waterType: "brackish", notes: "second" },
+    ])
+    .execute();
   work = await mkdtemp(join(tmpdir(), "tideline-backup-test-"));
   fake = new S3rver({ address: "127.0.0.1", port: 0, directory: join(work, "s3"), silent: true });
   const addr = (await fake.run()) as AddressInfo;
-  s3 = new S3Storage({ bucket: "tideline-backup", endpoint: `http://127.0.0.1:${addr.port}`, region: "us-east-1", accessKeyId: "S3RVER", secretAccessKey: "S3RVER", forcePathStyle: true });
+  s3 = new S3Storage({
+    bucket: "tideline-backup",
+    endpoint: `http://127.0.0.1:${addr.port}`,
+    region: "us-east-1",
+    accessKeyId: "S3RVER",
+    secretAccessKey: "S3RVER",
+    forcePathStyle: true,
+  });
   await s3.client.send(new CreateBucketCommand({ Bucket: "tideline-backup" }));
 });
 
@@ -52,7 +67,9 @@ afterAll(async () => {
 async function snapshot() {
   const out: Record<string, unknown[]> = {};
   for (const table of ["users", "sites", "memberships", "boards", "flood_events", "audit_log"]) {
-    const exists = await sql<{ n: number }>`select count(*)::int as n from information_schema.tables where table_name = ${table}`.execute(t.db);
+    const exists = await sql<{
+      n: number;
+    }>`select count(*)::int as n from information_schema.tables where table_name = ${table}`.execute(t.db);
     if (!exists.rows[0].n) continue;
     const r = await sql<{ row: string }>`select t::text as row from ${sql.table(table)} t order by 1`.execute(t.db);
     out[table] = r.rows.map((x) => x.row);
@@ -86,12 +103,17 @@ describe.each([
     expect(made.photos).toBe(3);
     const names: string[] = [];
     await tar.list({ file, onReadEntry: (e) => void names.push(e.path) });
-    expect(names).toEqual(expect.arrayContaining(["manifest.json", "database.dump", `photos/sites/${fx.siteId}/a/original.jpg`]));
+    expect(names).toEqual(
+      expect.arrayContaining(["manifest.json", "database.dump", `photos/sites/${fx.siteId}/a/original.jpg`]),
+    );
 
     // A bad day: rows changed, added and deleted, a photo deleted, one overwritten, one added.
     await t.db.updateTable("boards").set({ name: "Renamed by mistake" }).where("siteId", "=", fx.siteId).execute();
     await t.db.deleteFrom("floodEvents").where("notes", "=", "second").execute();
-    await t.db.insertInto("floodEvents").values({ siteId: fx.siteId, occurredOn: "2026-12-01", waterType: "fresh", notes: "after the backup" }).execute();
+    await t.db
+      .insertInto("floodEvents")
+      .values({ siteId: fx.siteId, occurredOn: "2026-12-01", waterType: "fresh", notes: "after the backup" })
+      .execute();
     await storage.delete(`sites/${fx.siteId}/a/display.jpg`);
     await storage.put(`sites/${fx.siteId}/b/original.png`, randomBytes(10), "image/png");
     await storage.put(`sites/${fx.siteId}/c/original.jpg`, randomBytes(10), "image/jpeg");
@@ -102,8 +124,16 @@ describe.each([
     expect(await snapshot()).toEqual(dbBefore);
     expect(await photoBytes(storage)).toEqual(photosBefore);
     // The app's pool works on the restored database.
-    expect((await t.db.selectFrom("floodEvents").select("notes").where("siteId", "=", fx.siteId).orderBy("occurredOn").execute()).map((x) => x.notes))
-      .toEqual(["Harbour water to 1.1 m — ünïcode kept", "second"]);
+    expect(
+      (
+        await t.db
+          .selectFrom("floodEvents")
+          .select("notes")
+          .where("siteId", "=", fx.siteId)
+          .orderBy("occurredOn")
+          .execute()
+      ).map((x) => x.notes),
+    ).toEqual(["Harbour water to 1.1 m — ünïcode kept", "second"]);
   });
 });
 
@@ -113,6 +143,8 @@ it("refuses a file that is not a Tideline backup, changing nothing", async () =>
   await writeFile(join(work, "manifest.json"), JSON.stringify({ format: "something-else", version: 1 }));
   await tar.create({ gzip: true, file, cwd: work }, ["manifest.json"]);
   const before = await snapshot();
-  await expect(restore({ databaseUrl: t.url, storage: new LocalDiskStorage(join(work, "photos-x")), file })).rejects.toThrow(/not a Tideline backup/);
+  await expect(
+    restore({ databaseUrl: t.url, storage: new LocalDiskStorage(join(work, "photos-x")), file }),
+  ).rejects.toThrow(/not a Tideline backup/);
   expect(await snapshot()).toEqual(before);
 });

@@ -31,7 +31,18 @@ afterAll(async () => {
 async function makePhoto(name: string) {
   return t.db
     .insertInto("photos")
-    .values({ siteId: fx.siteId, originalName: name, format: "jpeg", width: 10, height: 10, bytes: 100, originalKey: `o/${name}`, displayKey: `d/${name}`, thumbKey: `t/${name}`, uploadedBy: fx.crew.curator.id })
+    .values({
+      siteId: fx.siteId,
+      originalName: name,
+      format: "jpeg",
+      width: 10,
+      height: 10,
+      bytes: 100,
+      originalKey: `o/${name}`,
+      displayKey: `d/${name}`,
+      thumbKey: `t/${name}`,
+      uploadedBy: fx.crew.curator.id,
+    })
     .returning("id")
     .executeTakeFirstOrThrow();
 }
@@ -51,10 +62,23 @@ describe("photos", () => {
       expect(statuses(rs)).toEqual([200, 409]);
       const lost = rs.find((r) => r.status === 409)!;
       const won = rs.find((r) => r.status === 200)!;
-      expect(lost.body.error.current).toMatchObject({ id: p.id, version: 2, caption: won.body.photo?.caption ?? expect.any(String) });
-      const row = await t.db.selectFrom("photos").select(["caption", "version"]).where("id", "=", p.id).executeTakeFirstOrThrow();
+      expect(lost.body.error.current).toMatchObject({
+        id: p.id,
+        version: 2,
+        caption: won.body.photo?.caption ?? expect.any(String),
+      });
+      const row = await t.db
+        .selectFrom("photos")
+        .select(["caption", "version"])
+        .where("id", "=", p.id)
+        .executeTakeFirstOrThrow();
       expect(row.version).toBe(2);
-      const audits = await t.db.selectFrom("auditLog").select("after").where("entityId", "=", p.id).where("action", "=", "update").execute();
+      const audits = await t.db
+        .selectFrom("auditLog")
+        .select("after")
+        .where("entityId", "=", p.id)
+        .where("action", "=", "update")
+        .execute();
       expect(audits).toHaveLength(1);
       expect(audits[0].after).toEqual({ caption: row.caption });
     }
@@ -64,7 +88,14 @@ describe("photos", () => {
     const p = await makePhoto("bulk.jpg");
     const other = await t.db
       .insertInto("positions")
-      .values({ siteId: fx.siteId, boardId: board.boardId, designation: "2-15", kind: "molded_case_breaker", gridRow: 1, gridCol: 2 })
+      .values({
+        siteId: fx.siteId,
+        boardId: board.boardId,
+        designation: "2-15",
+        kind: "molded_case_breaker",
+        gridRow: 1,
+        gridCol: 2,
+      })
       .returning("id")
       .executeTakeFirstOrThrow();
     const body = (positionId: string) => ({ items: [{ photoId: p.id, version: 1, positionId }] });
@@ -73,7 +104,12 @@ describe("photos", () => {
       curator.post(`/api/sites/${fx.siteId}/photos/assign`, body(other.id)),
     ]);
     expect(statuses(rs)).toEqual([200, 409]);
-    const audits = await t.db.selectFrom("auditLog").select("action").where("entityId", "=", p.id).where("action", "=", "assign").execute();
+    const audits = await t.db
+      .selectFrom("auditLog")
+      .select("action")
+      .where("entityId", "=", p.id)
+      .where("action", "=", "assign")
+      .execute();
     expect(audits).toHaveLength(1);
   });
 });
@@ -81,7 +117,11 @@ describe("photos", () => {
 describe("membership: the last-curator rule under concurrency", () => {
   it("two curators demoting each other at the same moment: one succeeds, the other gets 409, and the site keeps a curator", async () => {
     for (let round = 0; round < 4; round++) {
-      const site = await t.db.insertInto("sites").values({ name: `Race ${round}`, kind: "vessel" }).returning("id").executeTakeFirstOrThrow();
+      const site = await t.db
+        .insertInto("sites")
+        .values({ name: `Race ${round}`, kind: "vessel" })
+        .returning("id")
+        .executeTakeFirstOrThrow();
       const a = await makeUser(t.db, { siteId: site.id, role: "curator" });
       const b = await makeUser(t.db, { siteId: site.id, role: "curator" });
       const ca = server.client();
@@ -93,20 +133,32 @@ describe("membership: the last-curator rule under concurrency", () => {
         cb.patch(`/api/sites/${site.id}/members/${a.id}`, { role: "volunteer" }),
       ]);
       expect(statuses(rs)).toEqual([200, 409]);
-      const curators = await t.db.selectFrom("memberships").select("userId").where("siteId", "=", site.id).where("role", "=", "curator").execute();
+      const curators = await t.db
+        .selectFrom("memberships")
+        .select("userId")
+        .where("siteId", "=", site.id)
+        .where("role", "=", "curator")
+        .execute();
       expect(curators).toHaveLength(1);
     }
   });
 
   it("two curators removing each other at the same moment: one succeeds, the other gets 409 (or 404: its curator role is gone)", async () => {
-    const site = await t.db.insertInto("sites").values({ name: "Race remove", kind: "vessel" }).returning("id").executeTakeFirstOrThrow();
+    const site = await t.db
+      .insertInto("sites")
+      .values({ name: "Race remove", kind: "vessel" })
+      .returning("id")
+      .executeTakeFirstOrThrow();
     const a = await makeUser(t.db, { siteId: site.id, role: "curator" });
     const b = await makeUser(t.db, { siteId: site.id, role: "curator" });
     const ca = server.client();
     const cb = server.client();
     await ca.signIn(a.email);
     await cb.signIn(b.email);
-    const rs = await Promise.all([ca.del(`/api/sites/${site.id}/members/${b.id}`), cb.del(`/api/sites/${site.id}/members/${a.id}`)]);
+    const rs = await Promise.all([
+      ca.del(`/api/sites/${site.id}/members/${b.id}`),
+      cb.del(`/api/sites/${site.id}/members/${a.id}`),
+    ]);
     expect(rs.filter((r) => r.status === 200)).toHaveLength(1);
     expect(rs.every((r) => r.status < 500)).toBe(true);
     const left = await t.db.selectFrom("memberships").select("role").where("siteId", "=", site.id).execute();
@@ -117,7 +169,13 @@ describe("membership: the last-curator rule under concurrency", () => {
     const v = await makeUser(t.db, { siteId: fx.siteId, role: "volunteer" });
     expect((await curator.patch(`/api/sites/${fx.siteId}/members/${v.id}`, { role: "viewer" })).status).toBe(200);
     expect((await curator.del(`/api/sites/${fx.siteId}/members/${v.id}`)).status).toBe(200);
-    const rows = await t.db.selectFrom("auditLog").select(["action", "actorId", "before", "after"]).where("entityType", "=", "membership").where("entityId", "=", v.id).orderBy("id").execute();
+    const rows = await t.db
+      .selectFrom("auditLog")
+      .select(["action", "actorId", "before", "after"])
+      .where("entityType", "=", "membership")
+      .where("entityId", "=", v.id)
+      .orderBy("id")
+      .execute();
     expect(rows).toEqual([
       { action: "change", actorId: fx.crew.curator.id, before: { role: "volunteer" }, after: { role: "viewer" } },
       { action: "remove", actorId: fx.crew.curator.id, before: { role: "viewer" }, after: null },
@@ -127,7 +185,15 @@ describe("membership: the last-curator rule under concurrency", () => {
 
 describe("settings: two first saves at once", () => {
   it("the site's reading criteria: one 200, one 409 with the saved criteria, never a 500", async () => {
-    const body = { correctionMethod: "neta_20c", insulationMedium: "solid", thermalClass: "B", minimumMegohms: null, minimumSource: "", contactOutlierPercent: 50, version: 0 };
+    const body = {
+      correctionMethod: "neta_20c",
+      insulationMedium: "solid",
+      thermalClass: "B",
+      minimumMegohms: null,
+      minimumSource: "",
+      contactOutlierPercent: 50,
+      version: 0,
+    };
     const rs = await Promise.all([
       curator.put(`/api/sites/${fx.siteId}/readings/criteria`, body),
       curator.put(`/api/sites/${fx.siteId}/readings/criteria`, { ...body, contactOutlierPercent: 60 }),

@@ -31,7 +31,12 @@ afterAll(async () => {
 
 let n = 0;
 async function component(kind = "molded_case_breaker") {
-  const r = await curator.post(`${base}/boards/${boardId}/positions`, { designation: `C-${++n}`, kind, gridRow: Math.ceil(n / 8), gridCol: ((n - 1) % 8) + 1 });
+  const r = await curator.post(`${base}/boards/${boardId}/positions`, {
+    designation: `C-${++n}`,
+    kind,
+    gridRow: Math.ceil(n / 8),
+    gridCol: ((n - 1) % 8) + 1,
+  });
   return r.body.component as { id: string; version: number };
 }
 const move = (who: Client, c: { id: string; version: number }, body: Record<string, unknown>) =>
@@ -42,10 +47,18 @@ async function step(c: { id: string; version: number }, toState: string, extra: 
   return r.body.component as { id: string; version: number };
 }
 const decide = async (c: { id: string; version: number }, disposition: string) =>
-  (await curator.put(`${base}/components/${c.id}/disposition`, { disposition, version: c.version })).body.component as { id: string; version: number };
+  (await curator.put(`${base}/components/${c.id}/disposition`, { disposition, version: c.version })).body.component as {
+    id: string;
+    version: number;
+  };
 const reading = (componentId: string, megohms: number) =>
   volunteer.post(`${base}/boards/${boardId}/insulation-readings`, {
-    componentId, testVoltsDc: 1000, megohms, conductors: "A-G", equipmentTempC: 20, measuredAt: "2026-11-20T09:00:00Z",
+    componentId,
+    testVoltsDc: 1000,
+    megohms,
+    conductors: "A-G",
+    equipmentTempC: 20,
+    measuredAt: "2026-11-20T09:00:00Z",
   });
 
 describe("the custody chain", () => {
@@ -55,7 +68,9 @@ describe("the custody chain", () => {
     expect(r.status).toBe(422);
     expect(r.body.error).toMatchObject({ code: "tag_required", fields: { tagNumber: expect.any(String) } });
     expect(r.body.error.message).toMatch(/tag/);
-    expect(await t.db.selectFrom("custodyMoves").select("id").where("componentId", "=", c.id).execute()).toHaveLength(0);
+    expect(await t.db.selectFrom("custodyMoves").select("id").where("componentId", "=", c.id).execute()).toHaveLength(
+      0,
+    );
     expect((await move(volunteer, c, { toState: "removed", tagNumber: "KL-7001" })).status).toBe(201);
   });
 
@@ -86,7 +101,12 @@ describe("the custody chain", () => {
     const r = await move(volunteer, c, { toState: "refitted" });
     expect(r.status).toBe(409);
     expect(r.body.error.code).toBe("not_ready");
-    expect(r.body.error.current.refusals.map((x: { rule: string }) => x.rule)).toEqual(["not_ready", "disposition_undecided", "condition_unproven", "reading_failing"]);
+    expect(r.body.error.current.refusals.map((x: { rule: string }) => x.rule)).toEqual([
+      "not_ready",
+      "disposition_undecided",
+      "condition_unproven",
+      "reading_failing",
+    ]);
     expect(r.body.error.message).toMatch(/ready to refit/);
   });
 
@@ -152,11 +172,27 @@ describe("the curator's release", () => {
     const reason = "Refitted for the owner's photo day only; isolated and locked out, not to be energised";
     const r = await move(curator, c, { toState: "refitted", releaseReason: reason });
     expect(r.status).toBe(201);
-    expect(r.body.move).toMatchObject({ toState: "refitted", releasedRules: ["not_ready", "disposition_undecided", "reading_required"], releaseReason: reason });
-    const audit = await t.db.selectFrom("auditLog").select(["after", "actorId"]).where("entityId", "=", c.id).where("action", "=", "custody").orderBy("id", "desc").executeTakeFirstOrThrow();
+    expect(r.body.move).toMatchObject({
+      toState: "refitted",
+      releasedRules: ["not_ready", "disposition_undecided", "reading_required"],
+      releaseReason: reason,
+    });
+    const audit = await t.db
+      .selectFrom("auditLog")
+      .select(["after", "actorId"])
+      .where("entityId", "=", c.id)
+      .where("action", "=", "custody")
+      .orderBy("id", "desc")
+      .executeTakeFirstOrThrow();
     expect(audit.actorId).toBe(fx.crew.curator.id);
-    expect(audit.after).toMatchObject({ custody: "refitted", releasedRules: ["not_ready", "disposition_undecided", "reading_required"], releaseReason: reason });
-    const detail = await volunteer.get(`${base}/positions/${(await t.db.selectFrom("components").select("positionId").where("id", "=", c.id).executeTakeFirstOrThrow()).positionId}`);
+    expect(audit.after).toMatchObject({
+      custody: "refitted",
+      releasedRules: ["not_ready", "disposition_undecided", "reading_required"],
+      releaseReason: reason,
+    });
+    const detail = await volunteer.get(
+      `${base}/positions/${(await t.db.selectFrom("components").select("positionId").where("id", "=", c.id).executeTakeFirstOrThrow()).positionId}`,
+    );
     expect(detail.body.custodyMoves[0]).toMatchObject({ releaseReason: reason, movedByName: expect.any(String) });
   });
 

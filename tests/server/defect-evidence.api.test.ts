@@ -28,18 +28,33 @@ afterAll(async () => {
 });
 
 const site = () => `/api/sites/${fx.siteId}`;
-const move = (c: Client, d: { id: string; version: number }, to: string) => c.post(`${site()}/defects/${d.id}/status`, { to, version: d.version });
+const move = (c: Client, d: { id: string; version: number }, to: string) =>
+  c.post(`${site()}/defects/${d.id}/status`, { to, version: d.version });
 const insulation = async (megohms: number, componentId: string | null = board.positions[0].componentId) =>
-  (await as.volunteer.post(`${site()}/boards/${board.boardId}/insulation-readings`, {
-    componentId, ...(componentId ? {} : { circuit: "Feeder 3" }), testVoltsDc: 1000, megohms, conductors: "A-G", equipmentTempC: 20, measuredAt: "2026-11-20T09:00:00Z",
-  })).body.reading as { id: string; judgement: { verdict: string } };
+  (
+    await as.volunteer.post(`${site()}/boards/${board.boardId}/insulation-readings`, {
+      componentId,
+      ...(componentId ? {} : { circuit: "Feeder 3" }),
+      testVoltsDc: 1000,
+      megohms,
+      conductors: "A-G",
+      equipmentTempC: 20,
+      measuredAt: "2026-11-20T09:00:00Z",
+    })
+  ).body.reading as { id: string; judgement: { verdict: string } };
 
 async function toRetest(from: string | null = null) {
   const c = board.positions[0].componentId;
-  let d = (await as.volunteer.post(`${site()}/defects`, {
-    boardId: board.boardId, componentId: c, title: "Low insulation on the line side", category: "insulation", severity: "impaired",
-    ...(from ? { fromReading: { kind: "insulation", id: from } } : {}),
-  })).body.defect;
+  let d = (
+    await as.volunteer.post(`${site()}/defects`, {
+      boardId: board.boardId,
+      componentId: c,
+      title: "Low insulation on the line side",
+      category: "insulation",
+      severity: "impaired",
+      ...(from ? { fromReading: { kind: "insulation", id: from } } : {}),
+    })
+  ).body.defect;
   d = (await move(as.volunteer, d, "under_repair")).body.defect;
   d = (await move(as.volunteer, d, "awaiting_retest")).body.defect;
   expect(d.status).toBe("awaiting_retest");
@@ -52,9 +67,18 @@ describe("a defect raised from a failing reading", () => {
     expect(low.judgement.verdict).toBe("below_minimum");
     const d = await toRetest(low.id);
     const ev = (await as.viewer.get(`${site()}/defects/${d.id}/evidence`)).body;
-    expect(ev.linked).toEqual([expect.objectContaining({ readingKind: "insulation", readingId: low.id, role: "raised_from", verdict: "below_minimum" })]);
+    expect(ev.linked).toEqual([
+      expect.objectContaining({
+        readingKind: "insulation",
+        readingId: low.id,
+        role: "raised_from",
+        verdict: "below_minimum",
+      }),
+    ]);
     const links = (await as.viewer.get(`${site()}/boards/${board.boardId}/reading-defects`)).body.links;
-    expect(links).toEqual(expect.arrayContaining([expect.objectContaining({ readingId: low.id, defectId: d.id, role: "raised_from" })]));
+    expect(links).toEqual(
+      expect.arrayContaining([expect.objectContaining({ readingId: low.id, defectId: d.id, role: "raised_from" })]),
+    );
   });
 });
 
@@ -63,16 +87,30 @@ describe("closing on evidence", () => {
     const d = await toRetest();
     const r = await move(as.curator, d, "closed");
     expect(r.status).toBe(422);
-    expect(r.body.error).toMatchObject({ code: "evidence_required", message: expect.stringMatching(/re-test reading|after work/) });
+    expect(r.body.error).toMatchObject({
+      code: "evidence_required",
+      message: expect.stringMatching(/re-test reading|after work/),
+    });
   });
 
   it("a re-test that still fails is not evidence; one meeting its criterion is, and the close records the verifier", async () => {
     let d = await toRetest();
     const still = await insulation(0.8);
-    expect((await as.volunteer.post(`${site()}/defects/${d.id}/readings`, { readingKind: "insulation", readingId: still.id })).status).toBe(201);
+    expect(
+      (
+        await as.volunteer.post(`${site()}/defects/${d.id}/readings`, {
+          readingKind: "insulation",
+          readingId: still.id,
+        })
+      ).status,
+    ).toBe(201);
     expect((await move(as.curator, d, "closed")).body.error.code).toBe("evidence_required");
     const good = await insulation(800);
-    const linked = await as.volunteer.post(`${site()}/defects/${d.id}/readings`, { readingKind: "insulation", readingId: good.id, role: "retest" });
+    const linked = await as.volunteer.post(`${site()}/defects/${d.id}/readings`, {
+      readingKind: "insulation",
+      readingId: good.id,
+      role: "retest",
+    });
     expect(linked.body).toMatchObject({ retestsMeeting: 1 });
     d = (await as.curator.get(`${site()}/defects/${d.id}`)).body.defect;
     const closed = await move(as.curator, d, "closed");
@@ -82,10 +120,23 @@ describe("closing on evidence", () => {
 
   it("an after-work photo filed to the defect is evidence", async () => {
     const d = await toRetest();
-    await t.db.insertInto("photos").values({
-      siteId: fx.siteId, boardId: board.boardId, defectId: d.id, kind: "after_work", format: "jpeg", width: 10, height: 10, bytes: 10,
-      originalKey: `t/${d.id}`, displayKey: `t/${d.id}-d`, thumbKey: `t/${d.id}-t`, uploadedBy: fx.crew.curator.id,
-    }).execute();
+    await t.db
+      .insertInto("photos")
+      .values({
+        siteId: fx.siteId,
+        boardId: board.boardId,
+        defectId: d.id,
+        kind: "after_work",
+        format: "jpeg",
+        width: 10,
+        height: 10,
+        bytes: 10,
+        originalKey: `t/${d.id}`,
+        displayKey: `t/${d.id}-d`,
+        thumbKey: `t/${d.id}-t`,
+        uploadedBy: fx.crew.curator.id,
+      })
+      .execute();
     expect((await move(as.curator, d, "closed")).status).toBe(200);
   });
 
@@ -94,7 +145,10 @@ describe("closing on evidence", () => {
     expect((await as.volunteer.get(`${site()}/defects/${d.id}`)).body.allowedTargets).not.toContain("closed");
     expect((await as.curator.get(`${site()}/defects/${d.id}`)).body.allowedTargets).toContain("closed");
     const good = await insulation(900);
-    expect((await as.viewer.post(`${site()}/defects/${d.id}/readings`, { readingKind: "insulation", readingId: good.id })).status).toBe(403);
+    expect(
+      (await as.viewer.post(`${site()}/defects/${d.id}/readings`, { readingKind: "insulation", readingId: good.id }))
+        .status,
+    ).toBe(403);
   });
 
   it("a reading of another component cannot be linked (400)", async () => {
@@ -102,7 +156,10 @@ describe("closing on evidence", () => {
     const other = board.positions.find((p) => p.componentId && p.componentId !== d.componentId);
     if (!other?.componentId) throw new Error("fixture needs a second component");
     const r = await insulation(900, other.componentId);
-    const link = await as.volunteer.post(`${site()}/defects/${d.id}/readings`, { readingKind: "insulation", readingId: r.id });
+    const link = await as.volunteer.post(`${site()}/defects/${d.id}/readings`, {
+      readingKind: "insulation",
+      readingId: r.id,
+    });
     expect(link.status).toBe(400);
   });
 });

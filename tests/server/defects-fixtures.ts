@@ -5,12 +5,26 @@ export async function makeBoard(db: Db, siteId: string, name = "Main switchboard
   const board = await db.insertInto("boards").values({ siteId, name }).returning("id").executeTakeFirstOrThrow();
   const sections = [];
   for (const [i, s] of ["Generator panel", "Feeder panel"].entries())
-    sections.push(await db.insertInto("sections").values({ siteId, boardId: board.id, name: `${name} · ${s}`, sortOrder: i }).returning("id").executeTakeFirstOrThrow());
+    sections.push(
+      await db
+        .insertInto("sections")
+        .values({ siteId, boardId: board.id, name: `${name} · ${s}`, sortOrder: i })
+        .returning("id")
+        .executeTakeFirstOrThrow(),
+    );
   const positions = [];
   for (let i = 1; i <= n; i++) {
     const p = await db
       .insertInto("positions")
-      .values({ siteId, boardId: board.id, sectionId: sections[i % 2].id, designation: `1-${i}`, kind: "molded_case_breaker", gridRow: 1, gridCol: i })
+      .values({
+        siteId,
+        boardId: board.id,
+        sectionId: sections[i % 2].id,
+        designation: `1-${i}`,
+        kind: "molded_case_breaker",
+        gridRow: 1,
+        gridCol: i,
+      })
       .returning(["id", "sectionId"])
       .executeTakeFirstOrThrow();
     const c = await db

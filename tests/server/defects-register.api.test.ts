@@ -28,16 +28,41 @@ beforeAll(async () => {
     const p = b.positions[i % 4];
     const severity = DEFECT_SEVERITIES[i % 4];
     const effortHours = i % 5 === 0 ? null : (i % 7) + 0.5;
-    const { score } = priorityScore({ severity, safetyCritical: i % 3 === 0, blocksEnergisation: i % 4 === 1, originalFabric: p.heritage === "original", effortHours, partsAvailable: "wanted" });
-    await t.db.insertInto("defects").values({
-      siteId: fx.siteId, boardId: b.boardId, sectionId: p.sectionId, positionId: p.id, componentId: p.componentId,
-      title: i === 7 ? 'Terminal "L2", loose, =SUM(A1)' : `Defect number ${String(i).padStart(2, "0")}${i % 6 === 0 ? " verdigris" : ""}`,
-      description: i === 7 ? "Line one\nline two, with comma" : "",
-      category: DEFECT_CATEGORIES[i % DEFECT_CATEGORIES.length], severity, status: DEFECT_STATUSES[i % 5],
-      safetyCritical: i % 3 === 0, blocksEnergisation: i % 4 === 1, effortHours, costEstimate: i % 4 === 0 ? null : i * 10,
-      partsState: "wanted", assigneeId: people[i % 3], dueOn: i % 3 === 2 ? null : `2027-01-${String((i % 28) + 1).padStart(2, "0")}`,
-      priorityScore: score, createdAt: new Date(Date.UTC(2026, 10, 1, 0, 0, i)),
-    }).execute();
+    const { score } = priorityScore({
+      severity,
+      safetyCritical: i % 3 === 0,
+      blocksEnergisation: i % 4 === 1,
+      originalFabric: p.heritage === "original",
+      effortHours,
+      partsAvailable: "wanted",
+    });
+    await t.db
+      .insertInto("defects")
+      .values({
+        siteId: fx.siteId,
+        boardId: b.boardId,
+        sectionId: p.sectionId,
+        positionId: p.id,
+        componentId: p.componentId,
+        title:
+          i === 7
+            ? 'Terminal "L2", loose, =SUM(A1)'
+            : `Defect number ${String(i).padStart(2, "0")}${i % 6 === 0 ? " verdigris" : ""}`,
+        description: i === 7 ? "Line one\nline two, with comma" : "",
+        category: DEFECT_CATEGORIES[i % DEFECT_CATEGORIES.length],
+        severity,
+        status: DEFECT_STATUSES[i % 5],
+        safetyCritical: i % 3 === 0,
+        blocksEnergisation: i % 4 === 1,
+        effortHours,
+        costEstimate: i % 4 === 0 ? null : i * 10,
+        partsState: "wanted",
+        assigneeId: people[i % 3],
+        dueOn: i % 3 === 2 ? null : `2027-01-${String((i % 28) + 1).padStart(2, "0")}`,
+        priorityScore: score,
+        createdAt: new Date(Date.UTC(2026, 10, 1, 0, 0, i)),
+      })
+      .execute();
   }
   curator = server.client();
   await curator.signIn(fx.crew.curator.email);
@@ -57,13 +82,28 @@ const ids = async (qs: string) => {
 };
 /** The same order written as plain SQL, independently of the app's query builder. */
 const direct = async (where: string, order: string) =>
-  (await sql.raw<{ id: string }>(`SELECT d.id FROM defects d JOIN boards b ON b.id = d.board_id LEFT JOIN positions p ON p.id = d.position_id LEFT JOIN users a ON a.id = d.assignee_id WHERE d.site_id = '${fx.siteId}' ${where} ORDER BY ${order}`).execute(t.db)).rows.map((r) => r.id);
+  (
+    await sql
+      .raw<{ id: string }>(
+        `SELECT d.id FROM defects d JOIN boards b ON b.id = d.board_id LEFT JOIN positions p ON p.id = d.position_id LEFT JOIN users a ON a.id = d.assignee_id WHERE d.site_id = '${fx.siteId}' ${where} ORDER BY ${order}`,
+      )
+      .execute(t.db)
+  ).rows.map((r) => r.id);
 
 describe("server-side sorting, each checked against direct SQL", () => {
   it.each([
-    ["severity&dir=desc", "array_position(ARRAY['cosmetic','degraded','impaired','disabling'], d.severity) DESC, d.ref DESC"],
-    ["severity&dir=asc", "array_position(ARRAY['cosmetic','degraded','impaired','disabling'], d.severity) ASC, d.ref ASC"],
-    ["status&dir=asc", "array_position(ARRAY['raised','scheduled','under_repair','awaiting_retest','closed','deferred','accepted_as_is'], d.status), d.ref"],
+    [
+      "severity&dir=desc",
+      "array_position(ARRAY['cosmetic','degraded','impaired','disabling'], d.severity) DESC, d.ref DESC",
+    ],
+    [
+      "severity&dir=asc",
+      "array_position(ARRAY['cosmetic','degraded','impaired','disabling'], d.severity) ASC, d.ref ASC",
+    ],
+    [
+      "status&dir=asc",
+      "array_position(ARRAY['raised','scheduled','under_repair','awaiting_retest','closed','deferred','accepted_as_is'], d.status), d.ref",
+    ],
     ["board&dir=asc", "lower(b.name), d.ref"],
     ["position&dir=desc", "lower(p.designation) DESC, d.ref DESC"],
     ["dueOn&dir=asc", "d.due_on ASC NULLS LAST, d.ref"],
@@ -78,7 +118,11 @@ describe("server-side sorting, each checked against direct SQL", () => {
   });
 
   it("sort=priority desc is the order of rankDefects() from src/domain/priority.ts, pins included", async () => {
-    const all = await t.db.selectFrom("defects").select(["id", "priorityScore", "safetyCritical", "createdAt"]).where("siteId", "=", fx.siteId).execute();
+    const all = await t.db
+      .selectFrom("defects")
+      .select(["id", "priorityScore", "safetyCritical", "createdAt"])
+      .where("siteId", "=", fx.siteId)
+      .execute();
     const byScore = [...all].sort((a, b) => b.priorityScore - a.priorityScore || +a.createdAt - +b.createdAt);
     const pins = [
       { defectId: byScore[40].id, direction: "above" as const, relativeTo: byScore[2].id },
@@ -87,16 +131,30 @@ describe("server-side sorting, each checked against direct SQL", () => {
       { defectId: byScore[1].id, direction: "below" as const, relativeTo: byScore[30].id },
     ];
     for (const p of pins) {
-      const r = await curator.put(`/api/sites/${fx.siteId}/defects/${p.defectId}/pin`, { direction: p.direction, relativeTo: p.relativeTo, reason: "Test pin" });
+      const r = await curator.put(`/api/sites/${fx.siteId}/defects/${p.defectId}/pin`, {
+        direction: p.direction,
+        relativeTo: p.relativeTo,
+        reason: "Test pin",
+      });
       expect(r.status).toBe(200);
     }
     const pinOf = new Map(pins.map((p) => [p.defectId, { direction: p.direction, relativeTo: p.relativeTo }]));
-    const expected = rankDefects(all.map((d) => ({ id: d.id, score: d.priorityScore, safetyCritical: d.safetyCritical, createdAt: d.createdAt.toISOString(), pin: pinOf.get(d.id) ?? null }))).map((d) => d.id);
+    const expected = rankDefects(
+      all.map((d) => ({
+        id: d.id,
+        score: d.priorityScore,
+        safetyCritical: d.safetyCritical,
+        createdAt: d.createdAt.toISOString(),
+        pin: pinOf.get(d.id) ?? null,
+      })),
+    ).map((d) => d.id);
     expect(await ids("sort=priority&dir=desc&size=200")).toEqual(expected);
     expect(await ids("sort=priority&dir=asc&size=200")).toEqual([...expected].reverse());
     const detail = await viewer.get(`/api/sites/${fx.siteId}/defects/${byScore[40].id}`);
     expect(detail.body.rank).toBe(expected.indexOf(byScore[40].id) + 1);
-    expect(detail.body.terms.reduce((s: number, x: { points: number }) => s + x.points, 0)).toBe(byScore[40].priorityScore);
+    expect(detail.body.terms.reduce((s: number, x: { points: number }) => s + x.points, 0)).toBe(
+      byScore[40].priorityScore,
+    );
   });
 });
 
@@ -114,13 +172,17 @@ describe("filtering, each checked against direct SQL", () => {
 
   it("board and assignee filters match direct SQL", async () => {
     const got = await ids(`board=${boards[1].boardId}&assignee=${fx.crew.volunteer.id}&sort=ref&dir=asc&size=200`);
-    expect(got).toEqual(await direct(`AND d.board_id = '${boards[1].boardId}' AND d.assignee_id = '${fx.crew.volunteer.id}'`, "d.ref"));
+    expect(got).toEqual(
+      await direct(`AND d.board_id = '${boards[1].boardId}' AND d.assignee_id = '${fx.crew.volunteer.id}'`, "d.ref"),
+    );
     expect(got.length).toBeGreaterThan(0);
   });
 
   it("overdue counts from the day the client sends", async () => {
     const got = await ids("flag=overdue&today=2027-01-10&sort=ref&dir=asc&size=200");
-    expect(got).toEqual(await direct("AND d.due_on < '2027-01-10' AND d.status NOT IN ('closed','deferred','accepted_as_is')", "d.ref"));
+    expect(got).toEqual(
+      await direct("AND d.due_on < '2027-01-10' AND d.status NOT IN ('closed','deferred','accepted_as_is')", "d.ref"),
+    );
   });
 
   it("a bad filter value is a 400 naming it", async () => {
@@ -146,7 +208,9 @@ describe("pagination", () => {
 
 describe("CSV export", () => {
   it("streams the filtered view as UTF-8 CSV with a BOM that papaparse reads back row for row", async () => {
-    const res = await fetch(`${server.base}/api/sites/${fx.siteId}/defects.csv?sort=ref&dir=asc`, { headers: { cookie: viewer.cookie } });
+    const res = await fetch(`${server.base}/api/sites/${fx.siteId}/defects.csv?sort=ref&dir=asc`, {
+      headers: { cookie: viewer.cookie },
+    });
     expect(res.headers.get("content-type")).toBe("text/csv; charset=utf-8");
     const bytes = new Uint8Array(await res.arrayBuffer());
     expect([...bytes.slice(0, 3)]).toEqual([0xef, 0xbb, 0xbf]);
@@ -167,11 +231,18 @@ describe("CSV export", () => {
   });
 
   it("guards a cell that starts like a formula with a leading quote", async () => {
-    await t.db.updateTable("defects").set({ title: "=HYPERLINK(\"http://x\")" }).where("siteId", "=", fx.siteId).where("title", "=", "Defect number 00 verdigris").execute();
-    const res = await fetch(`${server.base}/api/sites/${fx.siteId}/defects.csv?q=HYPERLINK`, { headers: { cookie: viewer.cookie } });
-    const rows = Papa.parse<string[]>((await res.text()).trimEnd()).data // Response.text() drops the BOM;
+    await t.db
+      .updateTable("defects")
+      .set({ title: '=HYPERLINK("http://x")' })
+      .where("siteId", "=", fx.siteId)
+      .where("title", "=", "Defect number 00 verdigris")
+      .execute();
+    const res = await fetch(`${server.base}/api/sites/${fx.siteId}/defects.csv?q=HYPERLINK`, {
+      headers: { cookie: viewer.cookie },
+    });
+    const rows = Papa.parse<string[]>((await res.text()).trimEnd()).data; // Response.text() drops the BOM;
     expect(rows).toHaveLength(2);
-    expect(rows[1][1]).toBe("'=HYPERLINK(\"http://x\")");
+    expect(rows[1][1]).toBe('\'=HYPERLINK("http://x")');
   });
 });
 

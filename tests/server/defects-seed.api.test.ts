@@ -14,7 +14,21 @@ it("the demo seed raises about 60 defects from inspections, across the workflow,
   const rows = await t.db
     .selectFrom("defects as d")
     .leftJoin("components as c", "c.id", "d.componentId")
-    .select(["d.id", "d.status", "d.inspectionId", "d.severity", "d.safetyCritical", "d.blocksEnergisation", "d.effortHours", "d.partsState", "d.priorityScore", "d.repairedBy", "d.verifiedBy", "d.assigneeId", "c.heritage"])
+    .select([
+      "d.id",
+      "d.status",
+      "d.inspectionId",
+      "d.severity",
+      "d.safetyCritical",
+      "d.blocksEnergisation",
+      "d.effortHours",
+      "d.partsState",
+      "d.priorityScore",
+      "d.repairedBy",
+      "d.verifiedBy",
+      "d.assigneeId",
+      "c.heritage",
+    ])
     .execute();
   expect(rows.length).toBeGreaterThanOrEqual(55);
   // Every defect comes from an inspection, except the return-to-service demo's incident defect.
@@ -23,7 +37,16 @@ it("the demo seed raises about 60 defects from inspections, across the workflow,
   expect(new Set(rows.map((r) => r.assigneeId).filter(Boolean)).size).toBeGreaterThanOrEqual(2);
   // the stored score is what src/domain/priority.ts computes from the stored fields
   for (const r of rows)
-    expect(r.priorityScore).toBe(priorityScore({ severity: r.severity, safetyCritical: r.safetyCritical, blocksEnergisation: r.blocksEnergisation, originalFabric: r.heritage === "original", effortHours: r.effortHours, partsAvailable: r.partsState }).score);
+    expect(r.priorityScore).toBe(
+      priorityScore({
+        severity: r.severity,
+        safetyCritical: r.safetyCritical,
+        blocksEnergisation: r.blocksEnergisation,
+        originalFabric: r.heritage === "original",
+        effortHours: r.effortHours,
+        partsAvailable: r.partsState,
+      }).score,
+    );
   for (const r of rows.filter((x) => x.status === "closed")) {
     expect(r.verifiedBy).toBeTruthy();
     expect(r.verifiedBy).not.toBe(r.repairedBy);

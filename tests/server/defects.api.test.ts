@@ -28,16 +28,36 @@ afterAll(async () => {
 
 const url = (p = "") => `/api/sites/${fx.siteId}/defects${p}`;
 const raise = (c: Client, over: Record<string, unknown> = {}) =>
-  c.post(url(), { boardId: board.boardId, title: "Arc track on line side", category: "insulation", severity: "impaired", ...over });
+  c.post(url(), {
+    boardId: board.boardId,
+    title: "Arc track on line side",
+    category: "insulation",
+    severity: "impaired",
+    ...over,
+  });
 
 describe("raising a defect", () => {
   it("when a volunteer raises one from an inspection, it gets the position, component and section of that inspection", async () => {
     const r = await raise(as.volunteer, { inspectionId: board.inspectionId, effortHours: 3, partsState: "in_hand" });
     expect(r.status).toBe(201);
     const p = board.positions[0];
-    expect(r.body.defect).toMatchObject({ positionId: p.id, componentId: p.componentId, sectionId: p.sectionId, designation: "1-1", status: "raised", createdBy: fx.crew.volunteer.id });
+    expect(r.body.defect).toMatchObject({
+      positionId: p.id,
+      componentId: p.componentId,
+      sectionId: p.sectionId,
+      designation: "1-1",
+      status: "raised",
+      createdBy: fx.crew.volunteer.id,
+    });
     // position 1-1's component is original fabric (fixture): 45 + 10 heritage − 16 effort + 10 parts
-    const expected = priorityScore({ severity: "impaired", safetyCritical: false, blocksEnergisation: false, originalFabric: true, effortHours: 3, partsAvailable: "in_hand" }).score;
+    const expected = priorityScore({
+      severity: "impaired",
+      safetyCritical: false,
+      blocksEnergisation: false,
+      originalFabric: true,
+      effortHours: 3,
+      partsAvailable: "in_hand",
+    }).score;
     expect(r.body.defect.priorityScore).toBe(expected);
     expect(expected).toBe(49);
   });
@@ -83,7 +103,11 @@ describe("editing", () => {
 
   it("changing severity re-stores the priority score", async () => {
     const d = (await raise(as.curator, { severity: "cosmetic", effortHours: 0 })).body.defect;
-    const r = await as.curator.patch(url(`/${d.id}`), { severity: "disabling", safetyCritical: true, version: d.version });
+    const r = await as.curator.patch(url(`/${d.id}`), {
+      severity: "disabling",
+      safetyCritical: true,
+      version: d.version,
+    });
     expect(r.body.defect.priorityScore).toBe(70 + 40 + 10); // disabling + safety + parts none needed; no component
   });
 
@@ -108,16 +132,35 @@ describe("workflow", () => {
     const bare = await move(as.curator, d, "closed");
     expect(bare.status).toBe(422);
     expect(bare.body.error.code).toBe("evidence_required");
-    const reading = await as.volunteer.post(`/api/sites/${fx.siteId}/boards/${d.boardId}/insulation-readings`,
-      { circuit: "Feeder 3", testVoltsDc: 1000, megohms: 500, conductors: "A-G", equipmentTempC: 20, measuredAt: "2026-11-20T09:00:00Z" });
+    const reading = await as.volunteer.post(`/api/sites/${fx.siteId}/boards/${d.boardId}/insulation-readings`, {
+      circuit: "Feeder 3",
+      testVoltsDc: 1000,
+      megohms: 500,
+      conductors: "A-G",
+      equipmentTempC: 20,
+      measuredAt: "2026-11-20T09:00:00Z",
+    });
     expect(reading.status).toBe(201);
-    expect((await as.volunteer.post(url(`/${d.id}/readings`), { readingKind: "insulation", readingId: reading.body.reading.id, role: "retest" })).status).toBe(201);
+    expect(
+      (
+        await as.volunteer.post(url(`/${d.id}/readings`), {
+          readingKind: "insulation",
+          readingId: reading.body.reading.id,
+          role: "retest",
+        })
+      ).status,
+    ).toBe(201);
     const closed = await move(as.curator, d, "closed");
     expect(closed.status).toBe(200);
     expect(closed.body.defect).toMatchObject({ status: "closed", verifiedBy: fx.crew.curator.id });
     expect(closed.body.defect.closedAt).not.toBeNull();
     const page = await as.curator.get(url(`/${d.id}`));
-    expect(page.body.history.map((h: { toStatus: string }) => h.toStatus)).toEqual(["closed", "awaiting_retest", "under_repair", "raised"]);
+    expect(page.body.history.map((h: { toStatus: string }) => h.toStatus)).toEqual([
+      "closed",
+      "awaiting_retest",
+      "under_repair",
+      "raised",
+    ]);
   });
 
   it("the curator who did the repair cannot verify it (409 same_person)", async () => {
@@ -146,10 +189,16 @@ describe("workflow", () => {
 
   it("only the curator assigns", async () => {
     const d = (await raise(as.volunteer)).body.defect;
-    expect((await as.volunteer.post(url(`/${d.id}/assignee`), { assigneeId: fx.crew.volunteer.id, version: d.version })).status).toBe(403);
+    expect(
+      (await as.volunteer.post(url(`/${d.id}/assignee`), { assigneeId: fx.crew.volunteer.id, version: d.version }))
+        .status,
+    ).toBe(403);
     const r = await as.curator.post(url(`/${d.id}/assignee`), { assigneeId: fx.crew.volunteer.id, version: d.version });
     expect(r.body.defect.assigneeId).toBe(fx.crew.volunteer.id);
-    const outsider = await as.curator.post(url(`/${d.id}/assignee`), { assigneeId: fx.crew.outsider.id, version: r.body.defect.version });
+    const outsider = await as.curator.post(url(`/${d.id}/assignee`), {
+      assigneeId: fx.crew.outsider.id,
+      version: r.body.defect.version,
+    });
     expect(outsider.status).toBe(400);
   });
 });
@@ -158,9 +207,20 @@ describe("pins", () => {
   it("the curator pins a defect with a reason and the pin is recorded with who and when", async () => {
     const a = (await raise(as.curator, { severity: "cosmetic" })).body.defect;
     const b = (await raise(as.curator, { severity: "disabling" })).body.defect;
-    const r = await as.curator.put(url(`/${a.id}/pin`), { direction: "above", relativeTo: b.id, reason: "Same enclosure is open this week" });
+    const r = await as.curator.put(url(`/${a.id}/pin`), {
+      direction: "above",
+      relativeTo: b.id,
+      reason: "Same enclosure is open this week",
+    });
     expect(r.status).toBe(200);
-    expect(r.body.pins[0]).toMatchObject({ direction: "above", relativeTo: b.id, relativeRef: b.ref, reason: "Same enclosure is open this week", pinnedByName: "Test curator", removedAt: null });
+    expect(r.body.pins[0]).toMatchObject({
+      direction: "above",
+      relativeTo: b.id,
+      relativeRef: b.ref,
+      reason: "Same enclosure is open this week",
+      pinnedByName: "Test curator",
+      removedAt: null,
+    });
     expect(r.body.defect.pinned).toBe("above");
     const un = await as.curator.call("DELETE", url(`/${a.id}/pin`), { reason: "Enclosure closed again" });
     expect(un.body.pins[0]).toMatchObject({ removedByName: "Test curator", removedReason: "Enclosure closed again" });
@@ -170,7 +230,9 @@ describe("pins", () => {
   it("a volunteer cannot pin (403), and a pin without a reason is a 400", async () => {
     const a = (await raise(as.curator)).body.defect;
     const b = (await raise(as.curator)).body.defect;
-    expect((await as.volunteer.put(url(`/${a.id}/pin`), { direction: "below", relativeTo: b.id, reason: "Because" })).status).toBe(403);
+    expect(
+      (await as.volunteer.put(url(`/${a.id}/pin`), { direction: "below", relativeTo: b.id, reason: "Because" })).status,
+    ).toBe(403);
     const r = await as.curator.put(url(`/${a.id}/pin`), { direction: "below", relativeTo: b.id, reason: "" });
     expect(r.status).toBe(400);
     expect(r.body.error.fields.reason).toBeTruthy();
@@ -181,7 +243,10 @@ describe("bulk actions", () => {
   it("the curator assigns and sets the due date of several defects at once", async () => {
     const ids = [];
     for (let i = 0; i < 3; i++) ids.push((await raise(as.curator)).body.defect.id);
-    const r = await as.curator.post(url("/bulk"), { ids, action: { type: "assign", assigneeId: fx.crew.volunteer.id } });
+    const r = await as.curator.post(url("/bulk"), {
+      ids,
+      action: { type: "assign", assigneeId: fx.crew.volunteer.id },
+    });
     expect(r.body).toEqual({ updated: 3 });
     await as.curator.post(url("/bulk"), { ids, action: { type: "due", dueOn: "2027-01-15" } });
     const rows = await t.db.selectFrom("defects").select(["assigneeId", "dueOn"]).where("id", "in", ids).execute();
@@ -192,7 +257,10 @@ describe("bulk actions", () => {
     const ok = (await raise(as.curator)).body.defect;
     const closedOne = (await raise(as.curator)).body.defect;
     await t.db.updateTable("defects").set({ status: "closed" }).where("id", "=", closedOne.id).execute();
-    const r = await as.curator.post(url("/bulk"), { ids: [ok.id, closedOne.id], action: { type: "status", to: "scheduled" } });
+    const r = await as.curator.post(url("/bulk"), {
+      ids: [ok.id, closedOne.id],
+      action: { type: "status", to: "scheduled" },
+    });
     expect(r.status).toBe(409);
     expect(r.body.error.fields[closedOne.id]).toMatch(/cannot go from closed/);
     const still = await t.db.selectFrom("defects").select("status").where("id", "=", ok.id).executeTakeFirstOrThrow();
@@ -201,20 +269,28 @@ describe("bulk actions", () => {
 
   it("a volunteer cannot use bulk actions (403)", async () => {
     const d = (await raise(as.volunteer)).body.defect;
-    expect((await as.volunteer.post(url("/bulk"), { ids: [d.id], action: { type: "due", dueOn: null } })).status).toBe(403);
+    expect((await as.volunteer.post(url("/bulk"), { ids: [d.id], action: { type: "due", dueOn: null } })).status).toBe(
+      403,
+    );
   });
 });
 
 describe("saved views", () => {
   it("each person keeps their own named views; names are unique per person", async () => {
-    const r = await as.curator.post(url("/views"), { name: "Safety first", query: "flag=safety&sort=priority&dir=desc" });
+    const r = await as.curator.post(url("/views"), {
+      name: "Safety first",
+      query: "flag=safety&sort=priority&dir=desc",
+    });
     expect(r.status).toBe(201);
     expect((await as.curator.post(url("/views"), { name: "safety FIRST", query: "" })).status).toBe(409);
     expect((await as.viewer.post(url("/views"), { name: "Safety first", query: "status=raised" })).status).toBe(201);
     const mine = await as.curator.get(url("/views"));
     expect(mine.body.views.map((v: { name: string }) => v.name)).toEqual(["Safety first"]);
     expect(mine.body.views[0].query).toBe("flag=safety&sort=priority&dir=desc");
-    const upd = await as.curator.put(url(`/views/${r.body.view.id}`), { name: "Safety first", query: "flag=safety&flag=blocking" });
+    const upd = await as.curator.put(url(`/views/${r.body.view.id}`), {
+      name: "Safety first",
+      query: "flag=safety&flag=blocking",
+    });
     expect(upd.body.view.version).toBe(2);
     expect((await as.viewer.call("DELETE", url(`/views/${r.body.view.id}`))).status).toBe(404);
     expect((await as.curator.call("DELETE", url(`/views/${r.body.view.id}`))).status).toBe(204);
@@ -227,8 +303,15 @@ describe("saved views", () => {
 
 describe("partial edits", () => {
   it("a PATCH naming one field leaves the others as they were", async () => {
-    const d = (await raise(as.curator, { effortHours: 4, costEstimate: 120, partsNeeded: "Arc chute", description: "Left pole" })).body.defect;
+    const d = (
+      await raise(as.curator, { effortHours: 4, costEstimate: 120, partsNeeded: "Arc chute", description: "Left pole" })
+    ).body.defect;
     const r = await as.curator.patch(url(`/${d.id}`), { title: "Arc track, line side pole A", version: d.version });
-    expect(r.body.defect).toMatchObject({ effortHours: 4, costEstimate: 120, partsNeeded: "Arc chute", description: "Left pole" });
+    expect(r.body.defect).toMatchObject({
+      effortHours: 4,
+      costEstimate: 120,
+      partsNeeded: "Arc chute",
+      description: "Left pole",
+    });
   });
 });

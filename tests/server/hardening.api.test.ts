@@ -14,7 +14,10 @@ let fx: Awaited<ReturnType<typeof makeCrew>>;
 beforeAll(async () => {
   t = await createTestDb();
   const clientDir = mkdtempSync(join(tmpdir(), "tideline-client-"));
-  writeFileSync(join(clientDir, "index.html"), '<!doctype html><div id="root"></div><script type="module" src="/assets/x.js"></script>');
+  writeFileSync(
+    join(clientDir, "index.html"),
+    '<!doctype html><div id="root"></div><script type="module" src="/assets/x.js"></script>',
+  );
   server = await startTestServer({ db: t.db, clientDir, allowedHosts: ["tideline.example.org"] });
   fx = await makeCrew(t.db);
 });
@@ -26,22 +29,29 @@ afterAll(async () => {
 /** A raw request: fetch will not let a test set Host. */
 function raw(method: string, path: string, headers: Record<string, string>, body?: string) {
   const u = new URL(server.base);
-  return new Promise<{ status: number; headers: Record<string, string | string[] | undefined>; body: string }>((resolve, reject) => {
-    const req = request({ host: u.hostname, port: u.port, method, path, headers }, (res) => {
-      let data = "";
-      res.setEncoding("utf8");
-      res.on("data", (c) => (data += c));
-      res.on("end", () => resolve({ status: res.statusCode!, headers: res.headers, body: data }));
-    });
-    req.on("error", reject);
-    req.end(body);
-  });
+  return new Promise<{ status: number; headers: Record<string, string | string[] | undefined>; body: string }>(
+    (resolve, reject) => {
+      const req = request({ host: u.hostname, port: u.port, method, path, headers }, (res) => {
+        let data = "";
+        res.setEncoding("utf8");
+        res.on("data", (c) => (data += c));
+        res.on("end", () => resolve({ status: res.statusCode!, headers: res.headers, body: data }));
+      });
+      req.on("error", reject);
+      req.end(body);
+    },
+  );
 }
 
 describe("DNS rebinding: only Tideline's own host names are served", () => {
   it("when a foreign Host comes with a matching Origin, sign-in is refused with 421 and no session", async () => {
     const body = JSON.stringify({ email: fx.crew.curator.email, password: TEST_PASSWORD });
-    const r = await raw("POST", "/api/auth/sign-in", { host: "evil.example:80", origin: "http://evil.example", "content-type": "application/json" }, body);
+    const r = await raw(
+      "POST",
+      "/api/auth/sign-in",
+      { host: "evil.example:80", origin: "http://evil.example", "content-type": "application/json" },
+      body,
+    );
     expect(r.status).toBe(421);
     expect(r.headers["set-cookie"]).toBeUndefined();
     expect(JSON.parse(r.body).error.code).toBe("unknown_host");

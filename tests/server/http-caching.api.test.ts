@@ -31,15 +31,17 @@ afterAll(async () => {
 
 /** A raw GET (fetch would undo the gzip and hide it). */
 function get(path: string, headers: Record<string, string> = {}) {
-  return new Promise<{ status: number; headers: Record<string, string | string[] | undefined>; body: Buffer }>((resolve, reject) => {
-    const req = request(server.base + path, { headers }, (res) => {
-      const chunks: Buffer[] = [];
-      res.on("data", (c) => chunks.push(c));
-      res.on("end", () => resolve({ status: res.statusCode!, headers: res.headers, body: Buffer.concat(chunks) }));
-    });
-    req.on("error", reject);
-    req.end();
-  });
+  return new Promise<{ status: number; headers: Record<string, string | string[] | undefined>; body: Buffer }>(
+    (resolve, reject) => {
+      const req = request(server.base + path, { headers }, (res) => {
+        const chunks: Buffer[] = [];
+        res.on("data", (c) => chunks.push(c));
+        res.on("end", () => resolve({ status: res.statusCode!, headers: res.headers, body: Buffer.concat(chunks) }));
+      });
+      req.on("error", reject);
+      req.end();
+    },
+  );
 }
 
 describe("compression and caching", () => {

@@ -41,7 +41,8 @@ describe("defect numbers count per site", () => {
     const boardA = await newBoard(curator, fx.siteId, "A main");
     const raise = (c: Client, siteId: string, boardId: string, title: string) =>
       c.post(`/api/sites/${siteId}/defects`, { boardId, title, category: "corrosion", severity: "degraded" });
-    for (const n of [1, 2, 3]) expect((await raise(curator, fx.siteId, boardA, `Verdigris on bus ${n}`)).body.defect.ref).toBe(n);
+    for (const n of [1, 2, 3])
+      expect((await raise(curator, fx.siteId, boardA, `Verdigris on bus ${n}`)).body.defect.ref).toBe(n);
 
     const curatorB = server.client();
     const b = await makeUser(t.db, { siteId: fx.otherSiteId, role: "volunteer" });
@@ -52,7 +53,10 @@ describe("defect numbers count per site", () => {
 
     const vol = server.client();
     await vol.signIn(b.email);
-    const both = await Promise.all([raise(curatorB, fx.otherSiteId, boardB, "Seized handle"), raise(vol, fx.otherSiteId, boardB, "Missing arc chute")]);
+    const both = await Promise.all([
+      raise(curatorB, fx.otherSiteId, boardB, "Seized handle"),
+      raise(vol, fx.otherSiteId, boardB, "Missing arc chute"),
+    ]);
     expect(both.map((r) => r.body.defect.ref).sort()).toEqual([2, 3]);
   });
 });
@@ -61,7 +65,13 @@ describe("one position per grid cell", () => {
   it("the API refuses a second position on a taken cell (409 naming the holder), as the CSV import does", async () => {
     const boardId = await newBoard(curator, fx.siteId, "Grid check");
     const pos = (designation: string, gridRow: number, gridCol: number, extra = {}) =>
-      curator.post(`/api/sites/${fx.siteId}/boards/${boardId}/positions`, { designation, kind: "molded_case_breaker", gridRow, gridCol, ...extra });
+      curator.post(`/api/sites/${fx.siteId}/boards/${boardId}/positions`, {
+        designation,
+        kind: "molded_case_breaker",
+        gridRow,
+        gridCol,
+        ...extra,
+      });
     expect((await pos("1-1", 1, 1, { colSpan: 2 })).status).toBe(201);
     const clash = await pos("1-2", 1, 2);
     expect(clash.status).toBe(409);
@@ -69,13 +79,27 @@ describe("one position per grid cell", () => {
     expect((await pos("1-3", 1, 3)).status).toBe(201);
     const moved = await curator.get(`/api/sites/${fx.siteId}/boards/${boardId}`);
     const p13 = moved.body.positions.find((p: { designation: string }) => p.designation === "1-3");
-    const onto = await curator.patch(`/api/sites/${fx.siteId}/positions/${p13.id}`, { version: p13.version, gridCol: 2 });
+    const onto = await curator.patch(`/api/sites/${fx.siteId}/positions/${p13.id}`, {
+      version: p13.version,
+      gridCol: 2,
+    });
     expect(onto.status).toBe(409);
   });
 
   it("the database refuses it too (exclusion constraint), so two saves at once cannot both land", async () => {
-    const board = await t.db.insertInto("boards").values({ siteId: fx.siteId, name: "Raw grid" }).returning("id").executeTakeFirstOrThrow();
-    const row = (designation: string, gridCol: number) => ({ siteId: fx.siteId, boardId: board.id, designation, kind: "fuse" as const, gridRow: 2, gridCol });
+    const board = await t.db
+      .insertInto("boards")
+      .values({ siteId: fx.siteId, name: "Raw grid" })
+      .returning("id")
+      .executeTakeFirstOrThrow();
+    const row = (designation: string, gridCol: number) => ({
+      siteId: fx.siteId,
+      boardId: board.id,
+      designation,
+      kind: "fuse" as const,
+      gridRow: 2,
+      gridCol,
+    });
     await t.db.insertInto("positions").values(row("F1", 1)).execute();
     await expect(t.db.insertInto("positions").values(row("F2", 1)).execute()).rejects.toMatchObject({ code: "23P01" });
   });
@@ -102,6 +126,8 @@ describe("session ids", () => {
     expect(rows.map((r) => r.id)).not.toContain(id);
     expect((await c.get("/api/session")).status).toBe(200);
     await c.post("/api/auth/sign-out");
-    expect(await t.db.selectFrom("sessions").select("id").where("id", "=", sessionKey(id)).executeTakeFirst()).toBeUndefined();
+    expect(
+      await t.db.selectFrom("sessions").select("id").where("id", "=", sessionKey(id)).executeTakeFirst(),
+    ).toBeUndefined();
   });
 });

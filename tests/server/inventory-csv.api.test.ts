@@ -25,10 +25,20 @@ afterAll(async () => {
 });
 
 const csv = (rows: string[]) => rows.join("\r\n") + "\r\n";
-const post = (mode: string, body: string) => curator.call("POST", `${base}/inventory/import?mode=${mode}`, body, { "content-type": "text/csv" });
+const post = (mode: string, body: string) =>
+  curator.call("POST", `${base}/inventory/import?mode=${mode}`, body, { "content-type": "text/csv" });
 const count = async (table: "positions" | "boards" | "components") =>
-  Number((await t.db.selectFrom(table).select((eb) => eb.fn.countAll<number>().as("n")).where("siteId", "=", fx.siteId).executeTakeFirstOrThrow()).n);
-const HEADER = "board,section,designation,kind,grid_row,grid_col,circuit,maker,rating_amps,poles,year,heritage,tag_number";
+  Number(
+    (
+      await t.db
+        .selectFrom(table)
+        .select((eb) => eb.fn.countAll<number>().as("n"))
+        .where("siteId", "=", fx.siteId)
+        .executeTakeFirstOrThrow()
+    ).n,
+  );
+const HEADER =
+  "board,section,designation,kind,grid_row,grid_col,circuit,maker,rating_amps,poles,year,heritage,tag_number";
 
 describe("CSV import", () => {
   it("when the file is good, preview writes nothing and commit creates the board, sections, positions and components", async () => {
@@ -49,9 +59,24 @@ describe("CSV import", () => {
     expect(commit.status).toBe(201);
     expect(commit.body.summary.committed).toBe(true);
     expect(await count("positions")).toBe(3);
-    const meter = await t.db.selectFrom("components").selectAll().where("siteId", "=", fx.siteId).where("kind", "=", "meter").executeTakeFirstOrThrow();
-    expect(meter).toMatchObject({ maker: "Calloway Instrument Works", heritage: "original", year: 1945, tagNumber: null });
-    const history = await t.db.selectFrom("auditLog").select("action").where("siteId", "=", fx.siteId).where("entityType", "=", "position").execute();
+    const meter = await t.db
+      .selectFrom("components")
+      .selectAll()
+      .where("siteId", "=", fx.siteId)
+      .where("kind", "=", "meter")
+      .executeTakeFirstOrThrow();
+    expect(meter).toMatchObject({
+      maker: "Calloway Instrument Works",
+      heritage: "original",
+      year: 1945,
+      tagNumber: null,
+    });
+    const history = await t.db
+      .selectFrom("auditLog")
+      .select("action")
+      .where("siteId", "=", fx.siteId)
+      .where("entityType", "=", "position")
+      .execute();
     expect(history).toHaveLength(3);
   });
 
@@ -91,7 +116,11 @@ describe("CSV import", () => {
       "Forward board,T-3,fuse,1,1,", // 1-1 from the first test sits there
     ]);
     const r = await post("preview", file);
-    expect(r.body.rows.map((x: any) => x.errors.grid_col ?? null)).toEqual([null, "That grid cell is taken by T-1 (line 2)", "That grid cell is taken by 1-1"]);
+    expect(r.body.rows.map((x: any) => x.errors.grid_col ?? null)).toEqual([
+      null,
+      "That grid cell is taken by T-1 (line 2)",
+      "That grid cell is taken by 1-1",
+    ]);
   });
 
   it("when the header lacks a required column, or the body is over 2 MB, it is refused before any row is read", async () => {
@@ -100,26 +129,42 @@ describe("CSV import", () => {
     expect(noKind.body.error.fields.csv).toMatch(/kind/);
     const big = await post("preview", HEADER + "\r\n" + "x".repeat(2_100_000));
     expect(big.status).toBe(413);
-    const json = await curator.post(`${base}/inventory/import?mode=preview`, { csv: csv([HEADER, "JSON board,,J-1,fuse,1,1,,,,,,,"]) });
+    const json = await curator.post(`${base}/inventory/import?mode=preview`, {
+      csv: csv([HEADER, "JSON board,,J-1,fuse,1,1,,,,,,,"]),
+    });
     expect(json.status).toBe(200);
     expect(json.body.summary.ok).toBe(1);
     // 1.5 MB as JSON {csv} is within the import's 2 MB (the rest of the API stops at 1 MB); over 2 MB is 413.
     const padded = csv([HEADER, "JSON board,,J-1,fuse,1,1,,,,,,,"]) + " ".repeat(1_500_000); // a blank last line, skipped
     expect((await curator.post(`${base}/inventory/import?mode=preview`, { csv: padded })).status).toBe(200);
-    expect((await curator.post(`${base}/inventory/import?mode=preview`, { csv: padded + " ".repeat(600_000) })).status).toBe(413);
+    expect(
+      (await curator.post(`${base}/inventory/import?mode=preview`, { csv: padded + " ".repeat(600_000) })).status,
+    ).toBe(413);
   });
 });
 
 describe("CSV export", () => {
   it("streams RFC 4180 CSV with a BOM that papaparse reads back, formula-like cells guarded, and it imports into another site", async () => {
-    const m = await t.db.selectFrom("components").select(["id", "version"]).where("siteId", "=", fx.siteId).where("kind", "=", "meter").executeTakeFirstOrThrow();
-    await curator.patch(`${base}/components/${m.id}`, { notes: '=HYPERLINK("http://example.test")\nsecond line, with "quotes"', version: m.version });
+    const m = await t.db
+      .selectFrom("components")
+      .select(["id", "version"])
+      .where("siteId", "=", fx.siteId)
+      .where("kind", "=", "meter")
+      .executeTakeFirstOrThrow();
+    await curator.patch(`${base}/components/${m.id}`, {
+      notes: '=HYPERLINK("http://example.test")\nsecond line, with "quotes"',
+      version: m.version,
+    });
     const r = await curator.get(`${base}/inventory.csv`);
     expect(r.status).toBe(200);
     expect(r.headers.get("content-type")).toMatch(/text\/csv; charset=utf-8/);
-    expect(r.headers.get("content-disposition")).toMatch(/attachment; filename="test-hulk-inventory-\d{4}-\d{2}-\d{2}\.csv"/);
+    expect(r.headers.get("content-disposition")).toMatch(
+      /attachment; filename="test-hulk-inventory-\d{4}-\d{2}-\d{2}\.csv"/,
+    );
     // fetch's text() drops a BOM, so read the raw bytes: EF BB BF is UTF-8's byte order mark.
-    const bytes = new Uint8Array(await (await fetch(server.base + `${base}/inventory.csv`, { headers: { cookie: curator.cookie } })).arrayBuffer());
+    const bytes = new Uint8Array(
+      await (await fetch(server.base + `${base}/inventory.csv`, { headers: { cookie: curator.cookie } })).arrayBuffer(),
+    );
     expect([...bytes.slice(0, 3)]).toEqual([0xef, 0xbb, 0xbf]);
     const text = new TextDecoder("utf-8", { ignoreBOM: true }).decode(bytes).slice(1);
     expect(text).toContain("\r\n");
@@ -130,14 +175,25 @@ describe("CSV export", () => {
     const meterRow = parsed.data.find((d) => d.kind === "meter")!;
     expect(meterRow.notes.startsWith("'=HYPERLINK")).toBe(true); // OWASP CSV injection: leading quote
     expect(meterRow.notes).toContain('second line, with "quotes"');
-    expect(parsed.data.find((d) => d.designation === "1-1")).toMatchObject({ tag_number: "KL-1001", custody: "in_place", heritage: "original" });
+    expect(parsed.data.find((d) => d.designation === "1-1")).toMatchObject({
+      tag_number: "KL-1001",
+      custody: "in_place",
+      heritage: "original",
+    });
 
     const other = server.client();
     await other.signIn(fx.crew.outsider.email);
-    const back = await other.call("POST", `/api/sites/${fx.otherSiteId}/inventory/import?mode=commit`, text, { "content-type": "text/csv" });
+    const back = await other.call("POST", `/api/sites/${fx.otherSiteId}/inventory/import?mode=commit`, text, {
+      "content-type": "text/csv",
+    });
     expect(back.status).toBe(201);
     expect(back.body.summary.ignoredColumns).toEqual([]);
-    const copied = await t.db.selectFrom("components").select("notes").where("siteId", "=", fx.otherSiteId).where("kind", "=", "meter").executeTakeFirstOrThrow();
+    const copied = await t.db
+      .selectFrom("components")
+      .select("notes")
+      .where("siteId", "=", fx.otherSiteId)
+      .where("kind", "=", "meter")
+      .executeTakeFirstOrThrow();
     expect(copied.notes).toBe('=HYPERLINK("http://example.test")\nsecond line, with "quotes"'); // the guard is undone on import
   });
 

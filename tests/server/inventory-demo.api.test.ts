@@ -37,15 +37,31 @@ it("the overview's counts agree with the same counts taken by direct SQL on the 
     (select count(*) from components where disposition is not null and retired_at is null)::int as decided`);
   expect(o.totals).toMatchObject({ positions: totals.positions, surveyed: totals.surveyed });
   expect(o.totals.bySurveyState.decided).toBe(totals.decided);
-  expect(o.totals.bySurveyState.not_surveyed + o.totals.bySurveyState.inspected + o.totals.bySurveyState.decided).toBe(totals.positions);
-  for (const c of await rows(sql<{ custody: string; n: number }>`select custody, count(*)::int as n from components group by custody`))
+  expect(o.totals.bySurveyState.not_surveyed + o.totals.bySurveyState.inspected + o.totals.bySurveyState.decided).toBe(
+    totals.positions,
+  );
+  for (const c of await rows(
+    sql<{ custody: string; n: number }>`select custody, count(*)::int as n from components group by custody`,
+  ))
     expect(o.byCustody[c.custody as keyof typeof o.byCustody]).toBe(c.n);
-  for (const d of await rows(sql<{ d: string; n: number }>`select coalesce(disposition, 'undecided') as d, count(*)::int as n from components group by 1`))
+  for (const d of await rows(
+    sql<{
+      d: string;
+      n: number;
+    }>`select coalesce(disposition, 'undecided') as d, count(*)::int as n from components group by 1`,
+  ))
     expect(o.byDisposition[d.d as keyof typeof o.byDisposition]).toBe(d.n);
-  const grades = await rows(sql<{ g: string; n: number }>`select coalesce(li.astm_grade::text, 'ungraded') as g, count(*)::int as n
+  const grades = await rows(sql<{
+    g: string;
+    n: number;
+  }>`select coalesce(li.astm_grade::text, 'ungraded') as g, count(*)::int as n
     from components c left join lateral (select astm_grade from inspections i where i.component_id = c.id order by inspected_at desc, created_at desc limit 1) li on true group by 1`);
   for (const g of grades) expect(o.byGrade[g.g as keyof typeof o.byGrade]).toBe(g.n);
-  const [kept] = await rows(sql<{ pct: number }>`select round(100.0 * count(*) filter (where heritage = 'original' and custody not in ('scrapped', 'missing')) / count(*), 1)::float as pct from components`);
+  const [kept] = await rows(
+    sql<{
+      pct: number;
+    }>`select round(100.0 * count(*) filter (where heritage = 'original' and custody not in ('scrapped', 'missing')) / count(*), 1)::float as pct from components`,
+  );
   expect(o.originalRetainedPercent).toBe(kept.pct);
   expect(o.boards.reduce((s, b) => s + b.positions, 0)).toBe(totals.positions);
 });
@@ -54,7 +70,13 @@ it("the demo's boards read through the API with every state a tile can show", as
   const list = boardListResponse.parse((await curator.get(`${base}/boards`)).body);
   expect(list.map((b) => b.name)).toEqual(["Emergency board (boat deck)", "Main switchboard (engine room, aft)"]);
   const main = list.find((b) => b.name.startsWith("Main"))!;
-  expect(main).toMatchObject({ nominalVolts: 450, phases: 3, frequencyHz: 60, earthing: "ungrounded", waterLineMm: 1100 });
+  expect(main).toMatchObject({
+    nominalVolts: 450,
+    phases: 3,
+    frequencyHz: 60,
+    earthing: "ungrounded",
+    waterLineMm: 1100,
+  });
   const detail = boardDetailResponse.parse((await curator.get(`${base}/boards/${main.id}`)).body);
   expect(detail.positions).toHaveLength(main.positionCount);
   const tiles = detail.positions;
@@ -85,7 +107,9 @@ it("a demo position's detail has its inspections, custody moves, decisions and h
   expect(d.custodyMoves.length).toBeGreaterThan(0);
   expect(d.dispositions[0].overridden).toBe(true);
   expect(d.dispositions[0].reason.length).toBeGreaterThan(10);
-  expect(d.history.map((h: any) => h.action)).toEqual(expect.arrayContaining(["create", "inspect", "disposition", "custody"]));
+  expect(d.history.map((h: any) => h.action)).toEqual(
+    expect.arrayContaining(["create", "inspect", "disposition", "custody"]),
+  );
   expect(d.history[0].actorName).toBeTruthy();
   expect(d.recommendation.recommendation.disposition).toBe(d.dispositions[0].recommended);
 });

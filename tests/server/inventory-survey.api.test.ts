@@ -22,7 +22,15 @@ beforeAll(async () => {
   await volunteer.signIn(fx.crew.volunteer.email);
   base = `/api/sites/${fx.siteId}`;
   // 4 rows on a 1600 mm face, water line at 900 mm: rows 3–4 reach below it, rows 1–2 stay above.
-  boardId = (await curator.post(`${base}/boards`, { name: "Survey board", gridRows: 4, gridCols: 60, faceHeightMm: 1600, waterLineMm: 900 })).body.id;
+  boardId = (
+    await curator.post(`${base}/boards`, {
+      name: "Survey board",
+      gridRows: 4,
+      gridCols: 60,
+      faceHeightMm: 1600,
+      waterLineMm: 900,
+    })
+  ).body.id;
 });
 afterAll(async () => {
   await server.close();
@@ -31,7 +39,12 @@ afterAll(async () => {
 
 let n = 0;
 async function component(kind: string, heritage: "original" | "period" | "modern", gridRow = 4) {
-  const r = await curator.post(`${base}/boards/${boardId}/positions`, { designation: `S-${++n}`, kind, gridRow, gridCol: n % 60 + 1 }); // one cell per position (a unique cell per board, migration 0220)
+  const r = await curator.post(`${base}/boards/${boardId}/positions`, {
+    designation: `S-${++n}`,
+    kind,
+    gridRow,
+    gridCol: (n % 60) + 1,
+  }); // one cell per position (a unique cell per board, migration 0220)
   const c = r.body.component;
   const p = await curator.patch(`${base}/components/${c.id}`, { heritage, version: c.version });
   return p.body as { id: string; version: number; positionId: string };
@@ -46,13 +59,22 @@ describe("before any flood event is recorded", () => {
     expect(r.body.assumptions[0]).toMatch(/No flood event/);
     const d = await curator.put(`${base}/components/${c.id}/disposition`, { disposition: "clean", version: c.version });
     expect(d.status).toBe(200);
-    expect(d.body.component).toMatchObject({ disposition: "clean", dispositionRecommended: null, dispositionOverridden: false });
+    expect(d.body.component).toMatchObject({
+      disposition: "clean",
+      dispositionRecommended: null,
+      dispositionOverridden: false,
+    });
   });
 });
 
 describe("recommendations and dispositions after a salt-water flood", () => {
   beforeAll(async () => {
-    const f = await curator.post(`${base}/flood-events`, { occurredOn: "2026-10-14", waterType: "salt", maxDepthM: 1.1, hoursSubmerged: 30 });
+    const f = await curator.post(`${base}/flood-events`, {
+      occurredOn: "2026-10-14",
+      waterType: "salt",
+      maxDepthM: 1.1,
+      hoursSubmerged: 30,
+    });
     expect(f.status).toBe(201);
   });
 
@@ -62,14 +84,22 @@ describe("recommendations and dispositions after a salt-water flood", () => {
     ["molded_case_breaker", "original", 4, true, "source"], // same, but an original part cannot be bought new: Tideline's heritage rule → source
     ["power_breaker", "period", 4, true, "rebuild"], // NEMA GD 1 (from memory): power breakers may be reconditioned by qualified people
     ["meter", "modern", 1, false, "rebuild"], // NFPA 70B (from memory): above the line, salt residue is corrosive → recondition, not just clean
-  ] as const)("a %s (%s) in row %i (below the line: %s) is recommended %s", async (kind, heritage, row, below, expected) => {
-    const c = await component(kind, heritage, row);
-    await volunteer.post(`${base}/components/${c.id}/inspections`, { percentRusted: 0.5, belowWaterLine: below, contaminants: [], insulation: "intact" });
-    const r = await curator.get(`${base}/components/${c.id}/recommendation`);
-    expect(r.body.recommendation.disposition).toBe(expected);
-    expect(r.body.recommendation.source).toMatch(/NEMA GD 1/);
-    expect(r.body.basis.belowWaterLine).toBe(below);
-  });
+  ] as const)(
+    "a %s (%s) in row %i (below the line: %s) is recommended %s",
+    async (kind, heritage, row, below, expected) => {
+      const c = await component(kind, heritage, row);
+      await volunteer.post(`${base}/components/${c.id}/inspections`, {
+        percentRusted: 0.5,
+        belowWaterLine: below,
+        contaminants: [],
+        insulation: "intact",
+      });
+      const r = await curator.get(`${base}/components/${c.id}/recommendation`);
+      expect(r.body.recommendation.disposition).toBe(expected);
+      expect(r.body.recommendation.source).toMatch(/NEMA GD 1/);
+      expect(r.body.basis.belowWaterLine).toBe(below);
+    },
+  );
 
   it("when nothing says whether it was under water, the board's water line decides (position height vs water line)", async () => {
     const high = await component("molded_case_breaker", "modern", 1); // row 1 bottom edge at 1200 mm, above 900 mm
@@ -83,47 +113,96 @@ describe("recommendations and dispositions after a salt-water flood", () => {
 
   it("when the curator follows the recommendation, no reason is needed and it is not an override", async () => {
     const c = await component("molded_case_breaker", "modern");
-    const r = await curator.put(`${base}/components/${c.id}/disposition`, { disposition: "replace", version: c.version });
+    const r = await curator.put(`${base}/components/${c.id}/disposition`, {
+      disposition: "replace",
+      version: c.version,
+    });
     expect(r.status).toBe(200);
-    expect(r.body.component).toMatchObject({ disposition: "replace", dispositionRecommended: "replace", dispositionOverridden: false, version: c.version + 1 });
-    expect(r.body.decision).toMatchObject({ disposition: "replace", recommended: "replace", overridden: false, decidedByName: "Test curator" });
+    expect(r.body.component).toMatchObject({
+      disposition: "replace",
+      dispositionRecommended: "replace",
+      dispositionOverridden: false,
+      version: c.version + 1,
+    });
+    expect(r.body.decision).toMatchObject({
+      disposition: "replace",
+      recommended: "replace",
+      overridden: false,
+      decidedByName: "Test curator",
+    });
   });
 
   it("when the curator overrides without a reason, it gets 400 on reason; with one, the override and reason are kept in the history", async () => {
     const c = await component("molded_case_breaker", "original");
-    const bare = await curator.put(`${base}/components/${c.id}/disposition`, { disposition: "rebuild", reason: "  ", version: c.version });
+    const bare = await curator.put(`${base}/components/${c.id}/disposition`, {
+      disposition: "rebuild",
+      reason: "  ",
+      version: c.version,
+    });
     expect(bare.status).toBe(400);
     expect(bare.body.error.fields.reason).toBeDefined();
-    const ok = await curator.put(`${base}/components/${c.id}/disposition`, { disposition: "rebuild", reason: "Keep original fabric; the restorer can rebuild it.", version: c.version });
+    const ok = await curator.put(`${base}/components/${c.id}/disposition`, {
+      disposition: "rebuild",
+      reason: "Keep original fabric; the restorer can rebuild it.",
+      version: c.version,
+    });
     expect(ok.status).toBe(200);
-    expect(ok.body.component).toMatchObject({ disposition: "rebuild", dispositionRecommended: "source", dispositionOverridden: true, dispositionReason: "Keep original fabric; the restorer can rebuild it." });
-    const again = await curator.put(`${base}/components/${c.id}/disposition`, { disposition: "source", version: ok.body.component.version });
+    expect(ok.body.component).toMatchObject({
+      disposition: "rebuild",
+      dispositionRecommended: "source",
+      dispositionOverridden: true,
+      dispositionReason: "Keep original fabric; the restorer can rebuild it.",
+    });
+    const again = await curator.put(`${base}/components/${c.id}/disposition`, {
+      disposition: "source",
+      version: ok.body.component.version,
+    });
     expect(again.body.component.dispositionOverridden).toBe(false);
     const detail = (await volunteer.get(`${base}/positions/${c.positionId}`)).body;
-    expect(detail.dispositions.map((d: any) => [d.disposition, d.overridden])).toEqual([["source", false], ["rebuild", true]]);
+    expect(detail.dispositions.map((d: any) => [d.disposition, d.overridden])).toEqual([
+      ["source", false],
+      ["rebuild", true],
+    ]);
     const audit = detail.history.filter((h: any) => h.action === "disposition");
-    expect(audit[1].after).toMatchObject({ disposition: "rebuild", dispositionOverridden: true, recommended: "source" });
+    expect(audit[1].after).toMatchObject({
+      disposition: "rebuild",
+      dispositionOverridden: true,
+      recommended: "source",
+    });
   });
 
   it("when a disposition is saved on a stale version, it gets 409 with the component as it is now", async () => {
     const c = await component("fuse", "modern");
     await curator.put(`${base}/components/${c.id}/disposition`, { disposition: "replace", version: c.version });
-    const stale = await curator.put(`${base}/components/${c.id}/disposition`, { disposition: "rebuild", reason: "x", version: c.version });
+    const stale = await curator.put(`${base}/components/${c.id}/disposition`, {
+      disposition: "rebuild",
+      reason: "x",
+      version: c.version,
+    });
     expect(stale.status).toBe(409);
     expect(stale.body.error.current).toMatchObject({ id: c.id, disposition: "replace" });
   });
 
   it("when a volunteer tries to decide a disposition or edit a nameplate, it gets 403", async () => {
     const c = await component("fuse", "modern");
-    expect((await volunteer.put(`${base}/components/${c.id}/disposition`, { disposition: "replace", version: c.version })).status).toBe(403);
+    expect(
+      (await volunteer.put(`${base}/components/${c.id}/disposition`, { disposition: "replace", version: c.version }))
+        .status,
+    ).toBe(403);
     expect((await volunteer.patch(`${base}/components/${c.id}`, { maker: "x", version: c.version })).status).toBe(403);
   });
 
   it("when an inspection is out of range or names an unknown contaminant, it gets 400 with those fields", async () => {
     const c = await component("fuse", "modern");
-    const r = await volunteer.post(`${base}/components/${c.id}/inspections`, { percentRusted: 101, contaminants: ["lava"], mechanism: "wobbly" });
+    const r = await volunteer.post(`${base}/components/${c.id}/inspections`, {
+      percentRusted: 101,
+      contaminants: ["lava"],
+      mechanism: "wobbly",
+    });
     expect(r.status).toBe(400);
-    expect(Object.keys(r.body.error.fields)).toEqual(expect.arrayContaining(["percentRusted", "contaminants.0", "mechanism"]));
+    expect(Object.keys(r.body.error.fields)).toEqual(
+      expect.arrayContaining(["percentRusted", "contaminants.0", "mechanism"]),
+    );
   });
 
   it("when a custody move names the state it is already in, it gets 409 same_state", async () => {

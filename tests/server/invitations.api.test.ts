@@ -44,7 +44,9 @@ describe("inviting someone new", () => {
     // Queued in the outbox with the invitation; the job delivers it and the list then says sent.
     expect(r.body.invitation).toMatchObject({ email, role: "photographer", sendStatus: "pending", expired: false });
     await server.jobsIdle();
-    const listed = (await curator.get(`/api/sites/${fx.siteId}/invitations`)).body.invitations.find((i: { email: string }) => i.email === email);
+    const listed = (await curator.get(`/api/sites/${fx.siteId}/invitations`)).body.invitations.find(
+      (i: { email: string }) => i.email === email,
+    );
     expect(listed).toMatchObject({ sendStatus: "sent", sendError: null });
     expect(smtp.mailbox.list().filter((m) => m.to.includes(email))).toHaveLength(1);
     expect(msg.from).toBe('"Test curator via Tideline" <no-reply@tideline.invalid>');
@@ -66,8 +68,17 @@ describe("inviting someone new", () => {
     const invitee = server.client();
     const preview = await invitee.get(`/api/invitations/${token}`);
     expect(preview.status).toBe(200);
-    expect(preview.body.invitation).toMatchObject({ siteName: "Test hulk", role: "scrounger", email, accountExists: false, invitedByName: "Test curator" });
-    const accepted = await invitee.post(`/api/invitations/${token}/accept`, { name: "Nell Ashgrove", password: "a-long-enough-secret" });
+    expect(preview.body.invitation).toMatchObject({
+      siteName: "Test hulk",
+      role: "scrounger",
+      email,
+      accountExists: false,
+      invitedByName: "Test curator",
+    });
+    const accepted = await invitee.post(`/api/invitations/${token}/accept`, {
+      name: "Nell Ashgrove",
+      password: "a-long-enough-secret",
+    });
     expect(accepted.status).toBe(200);
     expect(accepted.body).toEqual({ siteId: fx.siteId });
     const session = await invitee.get("/api/session");
@@ -82,13 +93,23 @@ describe("inviting someone new", () => {
   it("a used link is refused (410) when looked at and when accepted again", async () => {
     const email = fresh();
     const { token } = await invite(email);
-    expect((await server.client().post(`/api/invitations/${token}/accept`, { name: "Once", password: "a-long-enough-secret" })).status).toBe(200);
+    expect(
+      (
+        await server
+          .client()
+          .post(`/api/invitations/${token}/accept`, { name: "Once", password: "a-long-enough-secret" })
+      ).status,
+    ).toBe(200);
     const look = await server.client().get(`/api/invitations/${token}`);
     expect(look.status).toBe(410);
     expect(look.body.error.code).toBe("invitation_used");
-    const twice = await server.client().post(`/api/invitations/${token}/accept`, { name: "Twice", password: "another-long-secret" });
+    const twice = await server
+      .client()
+      .post(`/api/invitations/${token}/accept`, { name: "Twice", password: "another-long-secret" });
     expect(twice.status).toBe(410);
-    expect(await t.db.selectFrom("users").select("name").where("email", "=", email).execute()).toEqual([{ name: "Once" }]);
+    expect(await t.db.selectFrom("users").select("name").where("email", "=", email).execute()).toEqual([
+      { name: "Once" },
+    ]);
   });
 
   it("two acceptances of one link at the same moment make one account", async () => {
@@ -105,8 +126,14 @@ describe("inviting someone new", () => {
   it("an expired link is refused with 410 invitation_expired", async () => {
     const email = fresh();
     const { token } = await invite(email);
-    await t.db.updateTable("invitations").set({ expiresAt: new Date(Date.now() - 1000) }).where("email", "=", email).execute();
-    const r = await server.client().post(`/api/invitations/${token}/accept`, { name: "Late", password: "a-long-enough-secret" });
+    await t.db
+      .updateTable("invitations")
+      .set({ expiresAt: new Date(Date.now() - 1000) })
+      .where("email", "=", email)
+      .execute();
+    const r = await server
+      .client()
+      .post(`/api/invitations/${token}/accept`, { name: "Late", password: "a-long-enough-secret" });
     expect(r.status).toBe(410);
     expect(r.body.error.code).toBe("invitation_expired");
     const listed = await curator.get(`/api/sites/${fx.siteId}/invitations`);
@@ -161,8 +188,15 @@ describe("resend and revoke", () => {
   });
 
   it("each change is in the audit trail", async () => {
-    const rows = await t.db.selectFrom("auditLog").select("action").where("entityType", "=", "invitation").where("siteId", "=", fx.siteId).execute();
-    expect(new Set(rows.map((r) => r.action))).toEqual(new Set(["invited", "reinvited", "resent", "revoked", "accepted"]));
+    const rows = await t.db
+      .selectFrom("auditLog")
+      .select("action")
+      .where("entityType", "=", "invitation")
+      .where("siteId", "=", fx.siteId)
+      .execute();
+    expect(new Set(rows.map((r) => r.action))).toEqual(
+      new Set(["invited", "reinvited", "resent", "revoked", "accepted"]),
+    );
   });
 });
 
@@ -170,23 +204,45 @@ describe("addresses that already have an account", () => {
   it("an address with an account gets the same answer and the same kind of invitation as a new one; it joins only by accepting", async () => {
     const other = await makeUser(t.db, { email: fresh(), name: "Already Here" });
     const newcomer = fresh();
-    const a = await curator.post(`/api/sites/${fx.siteId}/invitations`, { email: other.email.toUpperCase(), role: "viewer" });
+    const a = await curator.post(`/api/sites/${fx.siteId}/invitations`, {
+      email: other.email.toUpperCase(),
+      role: "viewer",
+    });
     const b = await curator.post(`/api/sites/${fx.siteId}/invitations`, { email: newcomer, role: "viewer" });
     expect(a.status).toBe(201);
     expect(b.status).toBe(201);
-    const shape = (r: typeof a) => ({ outcome: r.body.outcome, keys: Object.keys(r.body.invitation).sort(), sendStatus: r.body.invitation.sendStatus });
+    const shape = (r: typeof a) => ({
+      outcome: r.body.outcome,
+      keys: Object.keys(r.body.invitation).sort(),
+      sendStatus: r.body.invitation.sendStatus,
+    });
     expect(shape(a)).toEqual(shape(b));
     expect(a.body.outcome).toBe("invited");
-    const none = await t.db.selectFrom("memberships").select("role").where("siteId", "=", fx.siteId).where("userId", "=", other.id).executeTakeFirst();
+    const none = await t.db
+      .selectFrom("memberships")
+      .select("role")
+      .where("siteId", "=", fx.siteId)
+      .where("userId", "=", other.id)
+      .executeTakeFirst();
     expect(none).toBeUndefined();
     const msg = await smtp.mailbox.waitFor((x) => x.to.includes(other.email));
     expect(msg.subject).toContain("invited");
     const token = tokenOf(linkIn(msg, server.base));
     const invitee = server.client();
     expect((await invitee.post(`/api/invitations/${token}/accept`, { password: TEST_PASSWORD })).status).toBe(200);
-    const m = await t.db.selectFrom("memberships").select("role").where("siteId", "=", fx.siteId).where("userId", "=", other.id).executeTakeFirst();
+    const m = await t.db
+      .selectFrom("memberships")
+      .select("role")
+      .where("siteId", "=", fx.siteId)
+      .where("userId", "=", other.id)
+      .executeTakeFirst();
     expect(m).toEqual({ role: "viewer" });
-    const audit = await t.db.selectFrom("auditLog").select(["action", "actorId"]).where("entityType", "=", "membership").where("entityId", "=", other.id).execute();
+    const audit = await t.db
+      .selectFrom("auditLog")
+      .select(["action", "actorId"])
+      .where("entityType", "=", "membership")
+      .where("entityId", "=", other.id)
+      .execute();
     expect(audit).toEqual([{ action: "add", actorId: other.id }]);
   });
 
@@ -197,7 +253,10 @@ describe("addresses that already have an account", () => {
   });
 
   it("inviting someone already on the crew is a 409", async () => {
-    const r = await curator.post(`/api/sites/${fx.siteId}/invitations`, { email: fx.crew.viewer.email, role: "viewer" });
+    const r = await curator.post(`/api/sites/${fx.siteId}/invitations`, {
+      email: fx.crew.viewer.email,
+      role: "viewer",
+    });
     expect(r.status).toBe(409);
     expect(r.body.error.code).toBe("already_member");
   });
@@ -212,7 +271,9 @@ describe("addresses that already have an account", () => {
     expect(wrong.status).toBe(401);
     const ok = await invitee.post(`/api/invitations/${token}/accept`, { password: TEST_PASSWORD });
     expect(ok.status).toBe(200);
-    expect((await invitee.get("/api/session")).body.memberships).toEqual([{ siteId: fx.siteId, siteName: "Test hulk", role: "photographer" }]);
+    expect((await invitee.get("/api/session")).body.memberships).toEqual([
+      { siteId: fx.siteId, siteName: "Test hulk", role: "photographer" },
+    ]);
   });
 });
 
@@ -246,7 +307,9 @@ describe("the dev mailbox", () => {
     const r = await a.get("/api/admin/mailbox");
     expect(r.status).toBe(200);
     expect(r.body.messages.length).toBeGreaterThan(0);
-    expect(r.body.messages[0]).toEqual(expect.objectContaining({ subject: expect.any(String), text: expect.any(String), html: expect.any(String) }));
+    expect(r.body.messages[0]).toEqual(
+      expect.objectContaining({ subject: expect.any(String), text: expect.any(String), html: expect.any(String) }),
+    );
     expect((await curator.get("/api/admin/mailbox")).status).toBe(403);
     expect((await server.client().get("/api/admin/mailbox")).status).toBe(401);
   });

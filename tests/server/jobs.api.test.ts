@@ -17,10 +17,14 @@ beforeAll(async () => {
   t = await createTestDb();
   const define = (j: Jobs) => {
     j.define<{ tag: string }>("test.record", async ({ tag }) => void ran.push(tag));
-    j.define<{ tag: string }>("test.flaky", async ({ tag }) => {
-      if (++flaky < 3) throw new Error(`not yet (${flaky})`);
-      ran.push(tag);
-    }, { retryLimit: 4, retryDelay: 1 });
+    j.define<{ tag: string }>(
+      "test.flaky",
+      async ({ tag }) => {
+        if (++flaky < 3) throw new Error(`not yet (${flaky})`);
+        ran.push(tag);
+      },
+      { retryLimit: 4, retryDelay: 1 },
+    );
   };
   // A web-only instance (no handlers) and a worker, against one database.
   web = createJobs({ db: t.db, work: false, pollingIntervalSeconds: 0.5 });
@@ -73,8 +77,15 @@ describe("the job queue (pg-boss)", () => {
 
 describe("the app's jobs", () => {
   it("keep the weekly summary's schedule in the database (Mondays 07:00 UTC unless WEEKLY_SUMMARY_CRON says otherwise)", async () => {
-    const app = await startJobs({ db: t.db, mailer: memoryMailer(), publicUrl: "http://x.test", photoStorage: storageFromEnv() }, { work: true, pollingIntervalSeconds: 0.5 });
-    const { rows } = await sql<{ name: string; cron: string; timezone: string }>`select name, cron, timezone from pgboss.schedule`.execute(t.db);
+    const app = await startJobs(
+      { db: t.db, mailer: memoryMailer(), publicUrl: "http://x.test", photoStorage: storageFromEnv() },
+      { work: true, pollingIntervalSeconds: 0.5 },
+    );
+    const { rows } = await sql<{
+      name: string;
+      cron: string;
+      timezone: string;
+    }>`select name, cron, timezone from pgboss.schedule`.execute(t.db);
     expect(rows).toContainEqual({ name: WEEKLY_SUMMARY_JOB, cron: "0 7 * * 1", timezone: "UTC" });
     await app.stop(1000);
   });

@@ -17,7 +17,8 @@ const smtp = new SMTPServer({
   onData(stream, _s, cb) {
     stream.on("data", () => {});
     stream.on("end", () => {
-      if (refusing) return cb(Object.assign(new Error("Mailbox unavailable: relay refused (test)"), { responseCode: 554 }));
+      if (refusing)
+        return cb(Object.assign(new Error("Mailbox unavailable: relay refused (test)"), { responseCode: 554 }));
       received++;
       cb();
     });
@@ -53,15 +54,30 @@ afterAll(async () => {
 
 describe("when the mail server fails", () => {
   it("the invitation is saved and listed as not sent; only an admin sees the reason; resend delivers it once", async () => {
-    const r = await curator.post(`/api/sites/${fx.siteId}/invitations`, { email: "stormbound@example.test", role: "volunteer" });
+    const r = await curator.post(`/api/sites/${fx.siteId}/invitations`, {
+      email: "stormbound@example.test",
+      role: "volunteer",
+    });
     expect(r.status).toBe(201);
-    expect(r.body.invitation).toMatchObject({ email: "stormbound@example.test", sendStatus: "pending", sendError: null, lastSentAt: null });
+    expect(r.body.invitation).toMatchObject({
+      email: "stormbound@example.test",
+      sendStatus: "pending",
+      sendError: null,
+      lastSentAt: null,
+    });
     await server.jobsIdle();
-    const row = await t.db.selectFrom("invitations").selectAll().where("email", "=", "stormbound@example.test").executeTakeFirstOrThrow();
+    const row = await t.db
+      .selectFrom("invitations")
+      .selectAll()
+      .where("email", "=", "stormbound@example.test")
+      .executeTakeFirstOrThrow();
     const listed = await curator.get(`/api/sites/${fx.siteId}/invitations`);
     expect(listed.body.invitations[0]).toMatchObject({ sendStatus: "failed", sendError: null });
     const asAdmin = await admin.get(`/api/sites/${fx.siteId}/invitations`);
-    expect(asAdmin.body.invitations[0]).toMatchObject({ sendStatus: "failed", sendError: expect.stringMatching(/554|relay refused/) });
+    expect(asAdmin.body.invitations[0]).toMatchObject({
+      sendStatus: "failed",
+      sendError: expect.stringMatching(/554|relay refused/),
+    });
 
     refusing = false;
     const again = await curator.post(`/api/sites/${fx.siteId}/invitations/${row.id}/resend`);
@@ -74,23 +90,40 @@ describe("when the mail server fails", () => {
     await new Promise((res) => setTimeout(res, 2500));
     await server.jobsIdle();
     expect(received).toBe(1);
-    const outbox = await t.db.selectFrom("mailOutbox").select(["status", "lastError"]).where("refId", "=", row.id).orderBy("createdAt").execute();
-    expect(outbox).toEqual([{ status: "failed", lastError: SUPERSEDED }, { status: "sent", lastError: null }]);
+    const outbox = await t.db
+      .selectFrom("mailOutbox")
+      .select(["status", "lastError"])
+      .where("refId", "=", row.id)
+      .orderBy("createdAt")
+      .execute();
+    expect(outbox).toEqual([
+      { status: "failed", lastError: SUPERSEDED },
+      { status: "sent", lastError: null },
+    ]);
     refusing = true;
   });
 
   it("a message refused while the mail server is down goes out once, by itself, when it is back", async () => {
     received = 0;
-    const r = await curator.post(`/api/sites/${fx.siteId}/invitations`, { email: "heldback@example.test", role: "viewer" });
+    const r = await curator.post(`/api/sites/${fx.siteId}/invitations`, {
+      email: "heldback@example.test",
+      role: "viewer",
+    });
     expect(r.status).toBe(201);
     await server.jobsIdle();
-    expect((await curator.get(`/api/sites/${fx.siteId}/invitations`)).body.invitations.find((i: { email: string }) => i.email === "heldback@example.test").sendStatus).toBe("failed");
+    expect(
+      (await curator.get(`/api/sites/${fx.siteId}/invitations`)).body.invitations.find(
+        (i: { email: string }) => i.email === "heldback@example.test",
+      ).sendStatus,
+    ).toBe("failed");
     refusing = false;
     const until = Date.now() + 15_000;
     let status = "";
     while (Date.now() < until && status !== "sent") {
       await new Promise((res) => setTimeout(res, 250));
-      status = (await curator.get(`/api/sites/${fx.siteId}/invitations`)).body.invitations.find((i: { email: string }) => i.email === "heldback@example.test").sendStatus;
+      status = (await curator.get(`/api/sites/${fx.siteId}/invitations`)).body.invitations.find(
+        (i: { email: string }) => i.email === "heldback@example.test",
+      ).sendStatus;
     }
     expect(status).toBe("sent");
     await server.jobsIdle();

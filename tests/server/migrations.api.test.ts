@@ -18,8 +18,12 @@ it("when migrations run on an empty database, every table exists and a second ru
   await ensureDatabase(adminUrl, name, { fresh: true });
   const applied = await migrateToLatest(db);
   expect(applied.length).toBeGreaterThan(0);
-  const tables = await sql<{ tableName: string }>`select table_name from information_schema.tables where table_schema = 'public'`.execute(db);
-  expect(tables.rows.map((r) => r.tableName)).toEqual(expect.arrayContaining(["users", "sessions", "sites", "memberships"]));
+  const tables = await sql<{
+    tableName: string;
+  }>`select table_name from information_schema.tables where table_schema = 'public'`.execute(db);
+  expect(tables.rows.map((r) => r.tableName)).toEqual(
+    expect.arrayContaining(["users", "sessions", "sites", "memberships"]),
+  );
   expect(await migrateToLatest(db)).toEqual([]);
 });
 
@@ -40,24 +44,70 @@ it("the demo seed loads into the migrated database with the six demo accounts", 
 it("the defect-state rename maps every old value to the new one and back, in defects, history, audit and saved views", async () => {
   const m = await import("../../db/migrations/2026_12_02_0500_rename_defect_statuses");
   const site = await db.selectFrom("sites").select("id").executeTakeFirstOrThrow();
-  const user = await db.selectFrom("users").select("id").where("email", "=", "curator@tideline.test").executeTakeFirstOrThrow();
-  await db.insertInto("defectViews").values({ siteId: site.id, userId: user.id, name: "Work in hand", query: "status=scheduled&status=under_repair&sort=priority" }).execute();
+  const user = await db
+    .selectFrom("users")
+    .select("id")
+    .where("email", "=", "curator@tideline.test")
+    .executeTakeFirstOrThrow();
+  await db
+    .insertInto("defectViews")
+    .values({
+      siteId: site.id,
+      userId: user.id,
+      name: "Work in hand",
+      query: "status=scheduled&status=under_repair&sort=priority",
+    })
+    .execute();
   const counts = async () =>
-    Object.fromEntries((await sql<{ status: string; n: string }>`select status, count(*) n from defects group by status`.execute(db)).rows.map((r) => [r.status, Number(r.n)]));
+    Object.fromEntries(
+      (
+        await sql<{ status: string; n: string }>`select status, count(*) n from defects group by status`.execute(db)
+      ).rows.map((r) => [r.status, Number(r.n)]),
+    );
   const after = await counts();
-  expect(Object.keys(after).sort()).toEqual(["accepted_as_is", "awaiting_retest", "closed", "deferred", "raised", "scheduled", "under_repair"]);
+  expect(Object.keys(after).sort()).toEqual([
+    "accepted_as_is",
+    "awaiting_retest",
+    "closed",
+    "deferred",
+    "raised",
+    "scheduled",
+    "under_repair",
+  ]);
 
   await m.down(db);
   const before = await counts();
-  expect(before).toEqual({ open: after.raised, triaged: after.scheduled, in_repair: after.under_repair, awaiting_verification: after.awaiting_retest, closed: after.closed, deferred: after.deferred, wont_fix: after.accepted_as_is });
-  expect((await db.selectFrom("defectViews").select("query").where("name", "=", "Work in hand").executeTakeFirstOrThrow()).query).toBe("status=triaged&status=in_repair&sort=priority");
-  const history = await sql<{ s: string }>`select distinct to_status s from defect_status_changes order by 1`.execute(db);
-  expect(history.rows.map((r) => r.s)).toEqual(expect.arrayContaining(["open", "triaged", "in_repair", "awaiting_verification", "closed"]));
+  expect(before).toEqual({
+    open: after.raised,
+    triaged: after.scheduled,
+    in_repair: after.under_repair,
+    awaiting_verification: after.awaiting_retest,
+    closed: after.closed,
+    deferred: after.deferred,
+    wont_fix: after.accepted_as_is,
+  });
+  expect(
+    (await db.selectFrom("defectViews").select("query").where("name", "=", "Work in hand").executeTakeFirstOrThrow())
+      .query,
+  ).toBe("status=triaged&status=in_repair&sort=priority");
+  const history = await sql<{ s: string }>`select distinct to_status s from defect_status_changes order by 1`.execute(
+    db,
+  );
+  expect(history.rows.map((r) => r.s)).toEqual(
+    expect.arrayContaining(["open", "triaged", "in_repair", "awaiting_verification", "closed"]),
+  );
 
   await m.up(db);
   expect(await counts()).toEqual(after);
-  expect((await db.selectFrom("defectViews").select("query").where("name", "=", "Work in hand").executeTakeFirstOrThrow()).query).toBe("status=scheduled&status=under_repair&sort=priority");
-  const stale = await sql<{ n: string }>`select count(*) n from defect_status_changes where to_status in ('open','triaged','in_repair','awaiting_verification','wont_fix')`.execute(db);
+  expect(
+    (await db.selectFrom("defectViews").select("query").where("name", "=", "Work in hand").executeTakeFirstOrThrow())
+      .query,
+  ).toBe("status=scheduled&status=under_repair&sort=priority");
+  const stale = await sql<{
+    n: string;
+  }>`select count(*) n from defect_status_changes where to_status in ('open','triaged','in_repair','awaiting_verification','wont_fix')`.execute(
+    db,
+  );
   expect(Number(stale.rows[0].n)).toBe(0);
   await expect(sql`update defects set status = 'triaged'`.execute(db)).rejects.toThrow(/defects_status_check/);
 });

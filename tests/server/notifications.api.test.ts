@@ -41,7 +41,8 @@ const switchOff = async (email: string, key: string) => {
   const r = await (await signedIn(email)).put(`/api/account/notifications/${key}`, { enabled: false });
   expect(r.status).toBe(200);
 };
-const switchOn = async (email: string, key: string) => (await signedIn(email)).put(`/api/account/notifications/${key}`, { enabled: true });
+const switchOn = async (email: string, key: string) =>
+  (await signedIn(email)).put(`/api/account/notifications/${key}`, { enabled: true });
 const mailFor = (email: string) => smtp.mailbox.list().filter((m) => m.to.includes(email));
 
 describe("notification switches", () => {
@@ -69,10 +70,18 @@ describe("notification switches", () => {
 
 describe("a defect assigned to you", () => {
   it("mails the assignee with the defect, its board and position, and a link", async () => {
-    const d = await makeDefect(t.db, { siteId: fx.siteId, boardId: board.boardId, positionId: board.positionId, assigneeId: fx.crew.volunteer.id, blocksEnergisation: true });
+    const d = await makeDefect(t.db, {
+      siteId: fx.siteId,
+      boardId: board.boardId,
+      positionId: board.positionId,
+      assigneeId: fx.crew.volunteer.id,
+      blocksEnergisation: true,
+    });
     const r = await notifyDefectAssigned(deps, { defectId: d.id, actorId: fx.crew.curator.id });
     expect(r.sent).toEqual([fx.crew.volunteer.id]);
-    const msg = await smtp.mailbox.waitFor((m) => m.to.includes(fx.crew.volunteer.email) && m.subject.startsWith("Assigned to you"));
+    const msg = await smtp.mailbox.waitFor(
+      (m) => m.to.includes(fx.crew.volunteer.email) && m.subject.startsWith("Assigned to you"),
+    );
     expect(msg.text).toContain("Engine-room board, position 2-14");
     expect(msg.text).toContain("Blocks re-energisation");
     expect(msg.text).toContain(`http://tideline.example/sites/${fx.siteId}/defects/${d.id}`);
@@ -83,29 +92,50 @@ describe("a defect assigned to you", () => {
     await switchOff(fx.crew.scrounger.email, "defect_assigned");
     const d = await makeDefect(t.db, { siteId: fx.siteId, boardId: board.boardId, assigneeId: fx.crew.scrounger.id });
     smtp.mailbox.clear();
-    expect(await notifyDefectAssigned(deps, { defectId: d.id, actorId: fx.crew.curator.id })).toMatchObject({ sent: [], skipped: [{ reason: "switched_off" }] });
+    expect(await notifyDefectAssigned(deps, { defectId: d.id, actorId: fx.crew.curator.id })).toMatchObject({
+      sent: [],
+      skipped: [{ reason: "switched_off" }],
+    });
     await switchOn(fx.crew.scrounger.email, "defect_assigned");
-    expect(await notifyDefectAssigned(deps, { defectId: d.id, actorId: fx.crew.scrounger.id })).toMatchObject({ sent: [], skipped: [{ reason: "is_actor" }] });
+    expect(await notifyDefectAssigned(deps, { defectId: d.id, actorId: fx.crew.scrounger.id })).toMatchObject({
+      sent: [],
+      skipped: [{ reason: "is_actor" }],
+    });
     expect(mailFor(fx.crew.scrounger.email)).toHaveLength(0);
   });
 
   it("is not sent to an assignee who has since left the crew", async () => {
     const gone = await makeUser(t.db, { name: "Former volunteer" });
     const d = await makeDefect(t.db, { siteId: fx.siteId, boardId: board.boardId, assigneeId: gone.id });
-    expect(await notifyDefectAssigned(deps, { defectId: d.id, actorId: fx.crew.curator.id })).toEqual({ sent: [], skipped: [{ userId: gone.id, reason: "not_on_crew" }], failed: [] });
+    expect(await notifyDefectAssigned(deps, { defectId: d.id, actorId: fx.crew.curator.id })).toEqual({
+      sent: [],
+      skipped: [{ userId: gone.id, reason: "not_on_crew" }],
+      failed: [],
+    });
     expect(mailFor(gone.email)).toHaveLength(0);
   });
 
   it("does nothing for a defect with no assignee or that does not exist", async () => {
     const d = await makeDefect(t.db, { siteId: fx.siteId, boardId: board.boardId });
-    expect(await notifyDefectAssigned(deps, { defectId: d.id, actorId: null })).toEqual({ sent: [], skipped: [], failed: [] });
-    expect(await notifyDefectAssigned(deps, { defectId: "00000000-0000-4000-8000-000000000000", actorId: null })).toEqual({ sent: [], skipped: [], failed: [] });
+    expect(await notifyDefectAssigned(deps, { defectId: d.id, actorId: null })).toEqual({
+      sent: [],
+      skipped: [],
+      failed: [],
+    });
+    expect(
+      await notifyDefectAssigned(deps, { defectId: "00000000-0000-4000-8000-000000000000", actorId: null }),
+    ).toEqual({ sent: [], skipped: [], failed: [] });
   });
 });
 
 describe("a repair awaiting verification", () => {
   it("mails the site's curators except the one who repaired it", async () => {
-    const d = await makeDefect(t.db, { siteId: fx.siteId, boardId: board.boardId, status: "awaiting_retest", repairedBy: secondCurator.id });
+    const d = await makeDefect(t.db, {
+      siteId: fx.siteId,
+      boardId: board.boardId,
+      status: "awaiting_retest",
+      repairedBy: secondCurator.id,
+    });
     smtp.mailbox.clear();
     const r = await notifyAwaitingVerification(deps, { defectId: d.id, actorId: secondCurator.id });
     expect(r.sent).toEqual([fx.crew.curator.id]);
@@ -117,7 +147,12 @@ describe("a repair awaiting verification", () => {
 
   it("respects a curator's switch", async () => {
     await switchOff(fx.crew.curator.email, "awaiting_verification");
-    const d = await makeDefect(t.db, { siteId: fx.siteId, boardId: board.boardId, status: "awaiting_retest", repairedBy: fx.crew.volunteer.id });
+    const d = await makeDefect(t.db, {
+      siteId: fx.siteId,
+      boardId: board.boardId,
+      status: "awaiting_retest",
+      repairedBy: fx.crew.volunteer.id,
+    });
     const r = await notifyAwaitingVerification(deps, { defectId: d.id, actorId: fx.crew.volunteer.id });
     expect(r.sent).toEqual([secondCurator.id]);
     expect(r.skipped).toEqual([{ userId: fx.crew.curator.id, reason: "switched_off" }]);
@@ -131,14 +166,40 @@ describe("the weekly summary", () => {
     const b = await makeBoard(t.db, site, "Aft board");
     const now = new Date("2030-03-10T07:00:00Z");
     const daysAgo = (d: number) => new Date(now.getTime() - d * 86_400_000);
-    await t.db.insertInto("inspections").values([
-      { siteId: site, componentId: b.componentId, positionId: b.positionId, inspectedAt: daysAgo(1) },
-      { siteId: site, componentId: b.componentId, positionId: b.positionId, inspectedAt: daysAgo(2) },
-      { siteId: site, componentId: b.componentId, positionId: b.positionId, inspectedAt: daysAgo(9) },
-    ]).execute();
-    await makeDefect(t.db, { siteId: site, boardId: b.boardId, positionId: b.positionId, title: "Seized operating handle", createdAt: daysAgo(3), blocksEnergisation: true });
-    await makeDefect(t.db, { siteId: site, boardId: b.boardId, positionId: b.positionId, title: "Missing arc chute", createdAt: daysAgo(20), status: "deferred", safetyCritical: true });
-    await makeDefect(t.db, { siteId: site, boardId: b.boardId, title: "Salt crust on bus", createdAt: daysAgo(30), status: "closed", closedAt: daysAgo(2), blocksEnergisation: true });
+    await t.db
+      .insertInto("inspections")
+      .values([
+        { siteId: site, componentId: b.componentId, positionId: b.positionId, inspectedAt: daysAgo(1) },
+        { siteId: site, componentId: b.componentId, positionId: b.positionId, inspectedAt: daysAgo(2) },
+        { siteId: site, componentId: b.componentId, positionId: b.positionId, inspectedAt: daysAgo(9) },
+      ])
+      .execute();
+    await makeDefect(t.db, {
+      siteId: site,
+      boardId: b.boardId,
+      positionId: b.positionId,
+      title: "Seized operating handle",
+      createdAt: daysAgo(3),
+      blocksEnergisation: true,
+    });
+    await makeDefect(t.db, {
+      siteId: site,
+      boardId: b.boardId,
+      positionId: b.positionId,
+      title: "Missing arc chute",
+      createdAt: daysAgo(20),
+      status: "deferred",
+      safetyCritical: true,
+    });
+    await makeDefect(t.db, {
+      siteId: site,
+      boardId: b.boardId,
+      title: "Salt crust on bus",
+      createdAt: daysAgo(30),
+      status: "closed",
+      closedAt: daysAgo(2),
+      blocksEnergisation: true,
+    });
     const silent = await makeUser(t.db, { siteId: site, role: "curator" });
     await switchOff(silent.email, "weekly_summary");
     smtp.mailbox.clear();

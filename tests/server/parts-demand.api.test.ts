@@ -27,7 +27,11 @@ afterAll(async () => {
 });
 beforeEach(async () => {
   // A fresh site per test keeps the lists independent.
-  const s = await t.db.insertInto("sites").values({ name: "Test hulk", kind: "vessel", location: "", description: "" }).returning("id").executeTakeFirstOrThrow();
+  const s = await t.db
+    .insertInto("sites")
+    .values({ name: "Test hulk", kind: "vessel", location: "", description: "" })
+    .returning("id")
+    .executeTakeFirstOrThrow();
   siteId = s.id;
   await t.db.insertInto("memberships").values({ siteId, userId: fx.crew.scrounger.id, role: "scrounger" }).execute();
   boardId = (await makeBoard(t.db, siteId)).id;
@@ -46,8 +50,17 @@ describe("demand follows dispositions", () => {
     await setDisposition(t.db, c.componentId, "replace");
     const lines = await list();
     expect(lines).toHaveLength(1);
-    expect(lines[0]).toMatchObject({ status: "wanted", qty: 1, kind: "power_breaker", ratingAmps: 225, heritageRule: "original_only", origin: "register" });
-    expect(lines[0].positions).toEqual([expect.objectContaining({ designation: "2-14", boardId, componentId: c.componentId, state: "active" })]);
+    expect(lines[0]).toMatchObject({
+      status: "wanted",
+      qty: 1,
+      kind: "power_breaker",
+      ratingAmps: 225,
+      heritageRule: "original_only",
+      origin: "register",
+    });
+    expect(lines[0].positions).toEqual([
+      expect.objectContaining({ designation: "2-14", boardId, componentId: c.componentId, state: "active" }),
+    ]);
     await setDisposition(t.db, c.componentId, "clean");
     expect(await list()).toEqual([]);
     const all = await list("?status=all");
@@ -56,7 +69,11 @@ describe("demand follows dispositions", () => {
 
   it("when two positions need the same spec (maker typed differently), they share one line of qty 2; other poles split", async () => {
     const a = await makeComponent(t.db, siteId, boardId, "1-1", { ...BREAKER, disposition: "source" });
-    const b = await makeComponent(t.db, siteId, boardId, "1-2", { ...BREAKER, maker: "  NORTHBAY electric", disposition: "replace" });
+    const b = await makeComponent(t.db, siteId, boardId, "1-2", {
+      ...BREAKER,
+      maker: "  NORTHBAY electric",
+      disposition: "replace",
+    });
     await makeComponent(t.db, siteId, boardId, "1-3", { ...BREAKER, poles: 2, disposition: "replace" });
     const lines = await list();
     expect(lines.map((l) => l.qty).sort()).toEqual([1, 2]);
@@ -110,7 +127,9 @@ describe("demand follows dispositions", () => {
     const lines = await list();
     expect(lines).toHaveLength(1);
     expect(lines[0].qty).toBe(1);
-    expect(lines[0].positions.map((p: any) => p.defectId ?? p.componentId).sort()).toEqual([c.componentId, d.id].sort());
+    expect(lines[0].positions.map((p: any) => p.defectId ?? p.componentId).sort()).toEqual(
+      [c.componentId, d.id].sort(),
+    );
   });
 
   it("reconcileDemand is idempotent: running it again adds no links or lines", async () => {
@@ -148,7 +167,12 @@ describe("demand follows dispositions", () => {
 describe("manual lines and must-match lists", () => {
   it("a hand-added line with a relaxed must-match list absorbs register demand of another maker", async () => {
     const add = await scrounger.post(`/api/sites/${siteId}/parts`, {
-      kind: "power_breaker", ratingAmps: 225, poles: 3, mustMatch: ["ratingAmps", "poles"], qty: 1, notes: "one spare",
+      kind: "power_breaker",
+      ratingAmps: 225,
+      poles: 3,
+      mustMatch: ["ratingAmps", "poles"],
+      qty: 1,
+      notes: "one spare",
     });
     expect(add.status, JSON.stringify(add.body)).toBe(201);
     await makeComponent(t.db, siteId, boardId, "8-1", { ...BREAKER, maker: "Other Works", disposition: "replace" });
@@ -165,7 +189,11 @@ describe("through the inventory's disposition endpoint", () => {
     await t.db.insertInto("memberships").values({ siteId, userId: fx.crew.curator.id, role: "curator" }).execute();
     const c = await makeComponent(t.db, siteId, boardId, "9-1");
     const put = (disposition: string, version: number) =>
-      curator.put(`/api/sites/${siteId}/components/${c.componentId}/disposition`, { disposition, reason: "Test: curator's call", version });
+      curator.put(`/api/sites/${siteId}/components/${c.componentId}/disposition`, {
+        disposition,
+        reason: "Test: curator's call",
+        version,
+      });
     const r1 = await put("replace", 1);
     expect(r1.status, JSON.stringify(r1.body)).toBe(200);
     const lines = await list();
@@ -187,13 +215,23 @@ describe("through the defects and inventory services (kept current by the writes
   it("a defect raised with parts wanted is on the list at once; closing it as accepted as is withdraws it and the line closes itself", async () => {
     const c = await makeComponent(t.db, siteId, boardId, "10-1");
     const r = await curator.post(`/api/sites/${siteId}/defects`, {
-      boardId, positionId: c.positionId, title: "Handle snapped", category: "mechanical", severity: "impaired", partsNeeded: "Operating handle", partsState: "wanted",
+      boardId,
+      positionId: c.positionId,
+      title: "Handle snapped",
+      category: "mechanical",
+      severity: "impaired",
+      partsNeeded: "Operating handle",
+      partsState: "wanted",
     });
     expect(r.status, JSON.stringify(r.body)).toBe(201);
     const lines = await list();
     expect(lines).toHaveLength(1);
     expect(lines[0]).toMatchObject({ need: "Operating handle", qty: 1 });
-    const moved = await curator.post(`/api/sites/${siteId}/defects/${r.body.defect?.id ?? r.body.id}/status`, { to: "accepted_as_is", reason: "Handle kept as found", version: r.body.defect?.version ?? r.body.version });
+    const moved = await curator.post(`/api/sites/${siteId}/defects/${r.body.defect?.id ?? r.body.id}/status`, {
+      to: "accepted_as_is",
+      reason: "Handle kept as found",
+      version: r.body.defect?.version ?? r.body.version,
+    });
     expect(moved.status, JSON.stringify(moved.body)).toBe(200);
     expect(await list()).toEqual([]);
     expect((await list("?status=all"))[0]).toMatchObject({ status: "cancelled" });
@@ -216,7 +254,12 @@ describe("through the defects and inventory services (kept current by the writes
   });
 
   it("pages and filters on the server: size, page, total and a text search", async () => {
-    for (let i = 0; i < 5; i++) await makeComponent(t.db, siteId, boardId, `11-${i}`, { ...BREAKER, ratingAmps: 100 + i, disposition: "replace" });
+    for (let i = 0; i < 5; i++)
+      await makeComponent(t.db, siteId, boardId, `11-${i}`, {
+        ...BREAKER,
+        ratingAmps: 100 + i,
+        disposition: "replace",
+      });
     const r = await scrounger.get(`/api/sites/${siteId}/parts?size=2&page=2&sort=part&dir=desc`);
     expect(r.status).toBe(200);
     expect(r.body).toMatchObject({ total: 5, page: 2, size: 2 });

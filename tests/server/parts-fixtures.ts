@@ -24,11 +24,30 @@ export interface Nameplate {
   disposition?: Disposition | null;
 }
 
-export const BREAKER: Nameplate = { kind: "power_breaker", ratingAmps: 225, poles: 3, voltageRating: 600, frame: "K-225", mounting: "Drawout", maker: "Northbay Electric", model: "NB 3" };
+export const BREAKER: Nameplate = {
+  kind: "power_breaker",
+  ratingAmps: 225,
+  poles: 3,
+  voltageRating: 600,
+  frame: "K-225",
+  mounting: "Drawout",
+  maker: "Northbay Electric",
+  model: "NB 3",
+};
 
-export async function makeComponent(db: Db, siteId: string, boardId: string, designation: string, np: Nameplate = BREAKER) {
+export async function makeComponent(
+  db: Db,
+  siteId: string,
+  boardId: string,
+  designation: string,
+  np: Nameplate = BREAKER,
+) {
   const { disposition = null, kind = "power_breaker", ...rest } = np;
-  const position = await db.insertInto("positions").values({ siteId, boardId, designation, kind, gridRow: 1, gridCol: ++col }).returning("id").executeTakeFirstOrThrow();
+  const position = await db
+    .insertInto("positions")
+    .values({ siteId, boardId, designation, kind, gridRow: 1, gridCol: ++col })
+    .returning("id")
+    .executeTakeFirstOrThrow();
   const component = await db
     .insertInto("components")
     .values({ siteId, positionId: position.id, kind, disposition, ...rest })
@@ -43,16 +62,35 @@ export const registerChanged = (db: Db, siteId: string, scope: { componentIds?: 
   db.transaction().execute((trx) => syncDemand(trx, siteId, scope));
 
 export async function setDisposition(db: Db, componentId: string, disposition: Disposition | null) {
-  const c = await db.updateTable("components").set({ disposition }).where("id", "=", componentId).returning("siteId").executeTakeFirstOrThrow();
+  const c = await db
+    .updateTable("components")
+    .set({ disposition })
+    .where("id", "=", componentId)
+    .returning("siteId")
+    .executeTakeFirstOrThrow();
   await registerChanged(db, c.siteId, { componentIds: [componentId] });
 }
 
-export async function makeDefect(db: Db, siteId: string, boardId: string, c: { positionId: string; componentId: string } | null, o: { partsNeeded?: string; partsState?: "wanted" | "none_needed"; status?: "raised" | "closed" } = {}) {
+export async function makeDefect(
+  db: Db,
+  siteId: string,
+  boardId: string,
+  c: { positionId: string; componentId: string } | null,
+  o: { partsNeeded?: string; partsState?: "wanted" | "none_needed"; status?: "raised" | "closed" } = {},
+) {
   const d = await db
     .insertInto("defects")
     .values({
-      siteId, boardId, positionId: c?.positionId ?? null, componentId: c?.componentId ?? null, title: "Arc chute cracked", category: "mechanical", severity: "impaired",
-      partsNeeded: o.partsNeeded ?? "arc chute", partsState: o.partsState ?? "wanted", status: o.status ?? "raised",
+      siteId,
+      boardId,
+      positionId: c?.positionId ?? null,
+      componentId: c?.componentId ?? null,
+      title: "Arc chute cracked",
+      category: "mechanical",
+      severity: "impaired",
+      partsNeeded: o.partsNeeded ?? "arc chute",
+      partsState: o.partsState ?? "wanted",
+      status: o.status ?? "raised",
     })
     .returning(["id"])
     .executeTakeFirstOrThrow();

@@ -23,8 +23,18 @@ describe("demo wanted list", () => {
     await c.signIn("scrounger@tideline.test", "tideline-demo");
     const site = (await c.get("/api/sites")).body.sites[0];
     const body = (await c.get(`/api/sites/${site.id}/parts`)).body;
-    const wanted = await t.db.selectFrom("components").select((eb) => eb.fn.countAll<number>().as("n")).where("disposition", "in", ["replace", "source"]).where("retiredAt", "is", null).executeTakeFirstOrThrow();
-    const demanded = body.lines.filter((l: any) => l.origin === "register").reduce((s: number, l: any) => s + l.positions.filter((p: any) => p.componentId && p.state === "active").length, 0);
+    const wanted = await t.db
+      .selectFrom("components")
+      .select((eb) => eb.fn.countAll<number>().as("n"))
+      .where("disposition", "in", ["replace", "source"])
+      .where("retiredAt", "is", null)
+      .executeTakeFirstOrThrow();
+    const demanded = body.lines
+      .filter((l: any) => l.origin === "register")
+      .reduce(
+        (s: number, l: any) => s + l.positions.filter((p: any) => p.componentId && p.state === "active").length,
+        0,
+      );
     expect(demanded).toBe(Number(wanted.n));
     expect(body.lines.find((l: any) => l.origin === "manual")).toMatchObject({ qty: 6, heritageRule: "modern_ok" });
     expect(body.lines.filter((l: any) => l.leadCount > 0).length).toBeGreaterThanOrEqual(3);

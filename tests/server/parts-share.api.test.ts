@@ -20,7 +20,12 @@ let lineId: string;
 let photoId: string;
 const storage = new LocalDiskStorage(mkdtempSync(join(tmpdir(), "tideline-parts-")));
 const THUMB = Buffer.from([0xff, 0xd8, 0xff, 0xe0, 1, 2, 3, 0xff, 0xd9]); // bytes only compared, never decoded
-const PRIVATE = { notes: "=HYPERLINK(\"http://x\") ask Bosun privately", contact: "Yardmaster, 07700 900123", price: 4321.5, member: "Test scrounger" };
+const PRIVATE = {
+  notes: '=HYPERLINK("http://x") ask Bosun privately',
+  contact: "Yardmaster, 07700 900123",
+  price: 4321.5,
+  member: "Test scrounger",
+};
 
 beforeAll(async () => {
   t = await createTestDb();
@@ -32,19 +37,50 @@ beforeAll(async () => {
   await curator.signIn(fx.crew.curator.email);
   const board = await makeBoard(t.db, fx.siteId, "Aft board");
   const a1 = await makeComponent(t.db, fx.siteId, board.id, "A-1", { ...BREAKER, disposition: "replace" });
-  const photo = await t.db.insertInto("photos").values({
-    siteId: fx.siteId, boardId: board.id, positionId: a1.positionId, componentId: a1.componentId, kind: "nameplate", format: "jpeg",
-    width: 10, height: 10, bytes: THUMB.length, originalKey: "o", displayKey: "d", thumbKey: `sites/${fx.siteId}/np/thumb.jpg`,
-  }).returning("id").executeTakeFirstOrThrow();
+  const photo = await t.db
+    .insertInto("photos")
+    .values({
+      siteId: fx.siteId,
+      boardId: board.id,
+      positionId: a1.positionId,
+      componentId: a1.componentId,
+      kind: "nameplate",
+      format: "jpeg",
+      width: 10,
+      height: 10,
+      bytes: THUMB.length,
+      originalKey: "o",
+      displayKey: "d",
+      thumbKey: `sites/${fx.siteId}/np/thumb.jpg`,
+    })
+    .returning("id")
+    .executeTakeFirstOrThrow();
   photoId = photo.id;
   await storage.put(`sites/${fx.siteId}/np/thumb.jpg`, THUMB, "image/jpeg");
-  await makeComponent(t.db, fx.siteId, board.id, "A-2", { ...BREAKER, frame: "+K, \"quoted\"\nframe", disposition: "source" });
+  await makeComponent(t.db, fx.siteId, board.id, "A-2", {
+    ...BREAKER,
+    frame: '+K, "quoted"\nframe',
+    disposition: "source",
+  });
   const lines = (await scrounger.get(`/api/sites/${fx.siteId}/parts`)).body.lines;
   const line = lines.find((l: any) => l.frame === "K-225");
   lineId = line.id;
-  await scrounger.patch(`/api/sites/${fx.siteId}/parts/${lineId}`, { version: line.version, notes: PRIVATE.notes, estimatedUnitCost: 1234 });
-  await scrounger.post(`/api/sites/${fx.siteId}/parts/${lineId}/leads`, { source: "Dealer in old switchgear", contact: PRIVATE.contact, askingPrice: PRIVATE.price });
-  await scrounger.post(`/api/sites/${fx.siteId}/parts`, { kind: "ground_lamp", voltageRating: 250, need: "clear lamp lens", qty: 3 });
+  await scrounger.patch(`/api/sites/${fx.siteId}/parts/${lineId}`, {
+    version: line.version,
+    notes: PRIVATE.notes,
+    estimatedUnitCost: 1234,
+  });
+  await scrounger.post(`/api/sites/${fx.siteId}/parts/${lineId}/leads`, {
+    source: "Dealer in old switchgear",
+    contact: PRIVATE.contact,
+    askingPrice: PRIVATE.price,
+  });
+  await scrounger.post(`/api/sites/${fx.siteId}/parts`, {
+    kind: "ground_lamp",
+    voltageRating: 250,
+    need: "clear lamp lens",
+    qty: 3,
+  });
 });
 afterAll(async () => {
   await server.close();
@@ -58,7 +94,11 @@ describe("CSV export", () => {
     expect(r.headers.get("content-type")).toMatch(/text\/csv; charset=utf-8/);
     expect(r.headers.get("content-disposition")).toMatch(/attachment; filename="wanted-parts-\d{4}-\d{2}-\d{2}\.csv"/);
     // fetch's text() drops a BOM, so read the bytes: EF BB BF is U+FEFF in UTF-8.
-    const raw = new Uint8Array(await (await fetch(server.base + `/api/sites/${fx.siteId}/parts.csv`, { headers: { cookie: scrounger.cookie } })).arrayBuffer());
+    const raw = new Uint8Array(
+      await (
+        await fetch(server.base + `/api/sites/${fx.siteId}/parts.csv`, { headers: { cookie: scrounger.cookie } })
+      ).arrayBuffer(),
+    );
     expect([...raw.slice(0, 3)]).toEqual([0xef, 0xbb, 0xbf]);
     const text = new TextDecoder("utf-8", { ignoreBOM: true }).decode(raw);
     expect(text.charCodeAt(0)).toBe(0xfeff);
@@ -70,7 +110,7 @@ describe("CSV export", () => {
     expect(parsed.data.slice(1)).toEqual(lines.map(csvRow));
     expect(parsed.data).toHaveLength(lines.length + 1);
     const frameCol = CSV_COLUMNS.indexOf("Frame");
-    expect(parsed.data.map((row) => row[frameCol])).toContain("'+K, \"quoted\"\nframe"); // quoted, newline kept, formula-guarded
+    expect(parsed.data.map((row) => row[frameCol])).toContain('\'+K, "quoted"\nframe'); // quoted, newline kept, formula-guarded
   });
 
   it("guards cells that a spreadsheet would run as a formula", async () => {
@@ -94,17 +134,49 @@ describe("public share link", () => {
     const made = await scrounger.post(`/api/sites/${fx.siteId}/parts/share-links`, { label: "For the harbour trust" });
     expect(made.status).toBe(201);
     expect(made.body.token).toMatch(/^[A-Za-z0-9_-]{43}$/);
-    const stored = await t.db.selectFrom("partShareLinks").select("tokenHash").where("id", "=", made.body.link.id).executeTakeFirstOrThrow();
+    const stored = await t.db
+      .selectFrom("partShareLinks")
+      .select("tokenHash")
+      .where("id", "=", made.body.link.id)
+      .executeTakeFirstOrThrow();
     expect(stored.tokenHash).not.toContain(made.body.token); // only the hash is kept
     const anon = server.client();
     const r = await anon.get(`/api/share/parts/${made.body.token}`);
     expect(r.status).toBe(200);
     expect(r.body.siteName).toBe("Test hulk");
     expect(r.body.lines.length).toBe(3);
-    const allowed = ["ref", "kind", "ratingAmps", "poles", "voltageRating", "frame", "mounting", "maker", "model", "need", "title", "qty", "heritageRule", "status", "photoUrls"];
+    const allowed = [
+      "ref",
+      "kind",
+      "ratingAmps",
+      "poles",
+      "voltageRating",
+      "frame",
+      "mounting",
+      "maker",
+      "model",
+      "need",
+      "title",
+      "qty",
+      "heritageRule",
+      "status",
+      "photoUrls",
+    ];
     for (const l of r.body.lines) expect(Object.keys(l).sort()).toEqual([...allowed].sort());
     const json = JSON.stringify(r.body);
-    for (const secret of ["1234", String(PRIVATE.price), PRIVATE.contact, "Bosun", PRIVATE.member, "Dealer in old switchgear", "estimated", "spent", "notes", "contact", "asking"])
+    for (const secret of [
+      "1234",
+      String(PRIVATE.price),
+      PRIVATE.contact,
+      "Bosun",
+      PRIVATE.member,
+      "Dealer in old switchgear",
+      "estimated",
+      "spent",
+      "notes",
+      "contact",
+      "asking",
+    ])
       expect(json, `share JSON leaks ${secret}`).not.toContain(secret);
     // Free text typed on a line or a defect never leaves the site; the line is still there by its spec.
     expect(json).not.toContain("clear lamp lens");
@@ -114,27 +186,39 @@ describe("public share link", () => {
     const img = await fetch(server.base + withPhoto.photoUrls[0]);
     expect(img.status).toBe(200);
     expect(Buffer.from(await img.arrayBuffer())).toEqual(THUMB);
-    expect((await fetch(server.base + `/api/share/parts/${made.body.token}/photos/00000000-0000-4000-8000-000000000000`)).status).toBe(404);
+    expect(
+      (await fetch(server.base + `/api/share/parts/${made.body.token}/photos/00000000-0000-4000-8000-000000000000`))
+        .status,
+    ).toBe(404);
   });
 
   it("a defect's free-text parts needed (a phone number, a price) is not in the shared list; its line is, by spec", async () => {
     const board = await makeBoard(t.db, fx.siteId, "Share-check board");
     const c = await makeComponent(t.db, fx.siteId, board.id, "S-9", { ...BREAKER, ratingAmps: 400, frame: "L-400" });
     const d = await curator.post(`/api/sites/${fx.siteId}/defects`, {
-      boardId: board.id, positionId: c.positionId, componentId: c.componentId, title: "Arc chute cracked", category: "mechanical", severity: "impaired",
-      partsNeeded: "arc chute - ring Jory on 07700 900456, quoted $85", partsState: "wanted",
+      boardId: board.id,
+      positionId: c.positionId,
+      componentId: c.componentId,
+      title: "Arc chute cracked",
+      category: "mechanical",
+      severity: "impaired",
+      partsNeeded: "arc chute - ring Jory on 07700 900456, quoted $85",
+      partsState: "wanted",
     });
     expect(d.status).toBe(201);
     const made = await curator.post(`/api/sites/${fx.siteId}/parts/share-links`, { label: "Free-text check" });
     const r = await server.client().get(`/api/share/parts/${made.body.token}`);
     expect(r.status).toBe(200);
     const json = JSON.stringify(r.body);
-    for (const secret of ["07700 900456", "$85", "Jory", "arc chute"]) expect(json, `share JSON leaks ${secret}`).not.toContain(secret);
+    for (const secret of ["07700 900456", "$85", "Jory", "arc chute"])
+      expect(json, `share JSON leaks ${secret}`).not.toContain(secret);
     expect(r.body.lines.some((l: any) => l.ratingAmps === 400 && l.frame === "L-400")).toBe(true);
   });
 
   it("members get the nameplate thumbnail through the parts route; outsiders get 404", async () => {
-    const r = await fetch(server.base + `/api/sites/${fx.siteId}/parts/photos/${photoId}/thumb`, { headers: { cookie: scrounger.cookie } });
+    const r = await fetch(server.base + `/api/sites/${fx.siteId}/parts/photos/${photoId}/thumb`, {
+      headers: { cookie: scrounger.cookie },
+    });
     expect(r.status).toBe(200);
     expect(Buffer.from(await r.arrayBuffer())).toEqual(THUMB);
     expect((await fetch(server.base + `/api/sites/${fx.siteId}/parts/photos/${photoId}/thumb`)).status).toBe(401);
@@ -162,6 +246,7 @@ describe("public share link", () => {
     expect((await viewer.post(`/api/sites/${fx.siteId}/parts/share-links`, {})).status).toBe(403);
     const list = await scrounger.get(`/api/sites/${fx.siteId}/parts/share-links`);
     expect(list.status).toBe(200);
-    for (const l of list.body.links) expect(Object.keys(l).sort()).toEqual(["createdAt", "createdByName", "id", "label", "revokedAt"]);
+    for (const l of list.body.links)
+      expect(Object.keys(l).sort()).toEqual(["createdAt", "createdByName", "id", "label", "revokedAt"]);
   });
 });

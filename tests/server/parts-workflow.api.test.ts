@@ -28,7 +28,11 @@ const url = (p = "") => `/api/sites/${fx.siteId}/parts${p}`;
 
 async function freshLine(designation: string, withDefect = false) {
   const board = await makeBoard(t.db, fx.siteId, `Board ${designation}`);
-  const comp = await makeComponent(t.db, fx.siteId, board.id, designation, { ...BREAKER, model: `M-${designation}`, disposition: "replace" });
+  const comp = await makeComponent(t.db, fx.siteId, board.id, designation, {
+    ...BREAKER,
+    model: `M-${designation}`,
+    disposition: "replace",
+  });
   const defect = withDefect ? await makeDefect(t.db, fx.siteId, board.id, comp, { partsNeeded: "" }) : null;
   const lines = (await c.scrounger.get(url("?status=all"))).body.lines as any[];
   const line = lines.find((l) => l.model === `M-${designation}`);
@@ -38,12 +42,21 @@ async function freshLine(designation: string, withDefect = false) {
 describe("status workflow", () => {
   it("recording a lead moves a wanted line to lead found", async () => {
     const { line } = await freshLine("10-1");
-    const r = await c.scrounger.post(url(`/${line.id}/leads`), { sourceKind: "donor", source: "Laid-up sister tender (fictional)", contact: "yard office", askingPrice: 120 });
+    const r = await c.scrounger.post(url(`/${line.id}/leads`), {
+      sourceKind: "donor",
+      source: "Laid-up sister tender (fictional)",
+      contact: "yard office",
+      askingPrice: 120,
+    });
     expect(r.status, JSON.stringify(r.body)).toBe(201);
     const d = await c.viewer.get(url(`/${line.id}`));
     expect(d.body.line.status).toBe("lead_found");
-    expect(d.body.leads).toEqual([expect.objectContaining({ source: "Laid-up sister tender (fictional)", askingPrice: 120, status: "open" })]);
-    expect(d.body.history.map((h: any) => h.action)).toEqual(expect.arrayContaining(["lead_added", "status", "created"]));
+    expect(d.body.leads).toEqual([
+      expect.objectContaining({ source: "Laid-up sister tender (fictional)", askingPrice: 120, status: "open" }),
+    ]);
+    expect(d.body.history.map((h: any) => h.action)).toEqual(
+      expect.arrayContaining(["lead_added", "status", "created"]),
+    );
   });
 
   it("moving to acquired without a cost and date answers 400; with them it records the purchase and secures the lead", async () => {
@@ -53,11 +66,17 @@ describe("status workflow", () => {
     const bad = await c.scrounger.post(url(`/${line.id}/status`), { to: "acquired", version: v });
     expect(bad.status).toBe(400);
     expect(bad.body.error.fields).toHaveProperty("acquisition.cost");
-    const ok = await c.scrounger.post(url(`/${line.id}/status`), { to: "acquired", version: v, acquisition: { cost: 95.5, acquiredOn: "2026-11-02", leadId: lead.id } });
+    const ok = await c.scrounger.post(url(`/${line.id}/status`), {
+      to: "acquired",
+      version: v,
+      acquisition: { cost: 95.5, acquiredOn: "2026-11-02", leadId: lead.id },
+    });
     expect(ok.status, JSON.stringify(ok.body)).toBe(200);
     expect(ok.body.line).toMatchObject({ status: "acquired", spent: 95.5 });
     const d = await c.scrounger.get(url(`/${line.id}`));
-    expect(d.body.acquisitions).toEqual([expect.objectContaining({ cost: 95.5, acquiredOn: "2026-11-02", leadId: lead.id })]);
+    expect(d.body.acquisitions).toEqual([
+      expect.objectContaining({ cost: 95.5, acquiredOn: "2026-11-02", leadId: lead.id }),
+    ]);
     expect(d.body.leads[0].status).toBe("secured");
   });
 
@@ -71,65 +90,130 @@ describe("status workflow", () => {
     };
     await step({ to: "acquired", acquisition: { cost: 60, acquiredOn: "2026-11-03" } });
     await step({ to: "received", note: "Contacts dressed, insulation fine" });
-    let comp1 = await t.db.selectFrom("components").selectAll().where("id", "=", comp.componentId).executeTakeFirstOrThrow();
+    let comp1 = await t.db
+      .selectFrom("components")
+      .selectAll()
+      .where("id", "=", comp.componentId)
+      .executeTakeFirstOrThrow();
     expect(comp1.custody).toBe("ready_to_refit");
     await step({ to: "fitted", heritageAfter: "period" });
-    comp1 = await t.db.selectFrom("components").selectAll().where("id", "=", comp.componentId).executeTakeFirstOrThrow();
+    comp1 = await t.db
+      .selectFrom("components")
+      .selectAll()
+      .where("id", "=", comp.componentId)
+      .executeTakeFirstOrThrow();
     expect(comp1).toMatchObject({ custody: "refitted", heritage: "period" });
-    const moves = await t.db.selectFrom("custodyMoves").select(["fromState", "toState"]).where("componentId", "=", comp.componentId).orderBy("movedAt").execute();
-    expect(moves).toEqual([{ fromState: "in_place", toState: "ready_to_refit" }, { fromState: "ready_to_refit", toState: "refitted" }]);
-    const d = await t.db.selectFrom("defects").select(["status", "partsState", "version"]).where("id", "=", defect!.id).executeTakeFirstOrThrow();
+    const moves = await t.db
+      .selectFrom("custodyMoves")
+      .select(["fromState", "toState"])
+      .where("componentId", "=", comp.componentId)
+      .orderBy("movedAt")
+      .execute();
+    expect(moves).toEqual([
+      { fromState: "in_place", toState: "ready_to_refit" },
+      { fromState: "ready_to_refit", toState: "refitted" },
+    ]);
+    const d = await t.db
+      .selectFrom("defects")
+      .select(["status", "partsState", "version"])
+      .where("id", "=", defect!.id)
+      .executeTakeFirstOrThrow();
     expect(d).toMatchObject({ status: "awaiting_retest", partsState: "in_hand", version: 2 });
-    const audit = await t.db.selectFrom("auditLog").select(["entityType", "action"]).where("entityId", "in", [defect!.id, comp.componentId]).execute();
-    expect(audit).toEqual(expect.arrayContaining([{ entityType: "defect", action: "status" }, { entityType: "component", action: "parts_update" }]));
+    const audit = await t.db
+      .selectFrom("auditLog")
+      .select(["entityType", "action"])
+      .where("entityId", "in", [defect!.id, comp.componentId])
+      .execute();
+    expect(audit).toEqual(
+      expect.arrayContaining([
+        { entityType: "defect", action: "status" },
+        { entityType: "component", action: "parts_update" },
+      ]),
+    );
   });
 
   it("fitting with heritage 'unchanged' keeps the component's heritage", async () => {
     const { line, comp } = await freshLine("10-4");
     let v = line.version;
-    for (const body of [{ to: "acquired", acquisition: { cost: 1, acquiredOn: "2026-11-04" } }, { to: "received" }, { to: "fitted", heritageAfter: "unchanged" }]) {
+    for (const body of [
+      { to: "acquired", acquisition: { cost: 1, acquiredOn: "2026-11-04" } },
+      { to: "received" },
+      { to: "fitted", heritageAfter: "unchanged" },
+    ]) {
       const r = await c.scrounger.post(url(`/${line.id}/status`), { ...body, version: v });
       expect(r.status).toBe(200);
       v = r.body.line.version;
     }
-    const row = await t.db.selectFrom("components").select(["heritage", "custody"]).where("id", "=", comp.componentId).executeTakeFirstOrThrow();
+    const row = await t.db
+      .selectFrom("components")
+      .select(["heritage", "custody"])
+      .where("id", "=", comp.componentId)
+      .executeTakeFirstOrThrow();
     expect(row).toEqual({ heritage: "original", custody: "refitted" });
   });
 
   it("a move the workflow does not allow answers 409 with the line as it is; so does a stale version", async () => {
     const { line } = await freshLine("10-5");
-    const skip = await c.scrounger.post(url(`/${line.id}/status`), { to: "fitted", heritageAfter: "modern", version: line.version });
+    const skip = await c.scrounger.post(url(`/${line.id}/status`), {
+      to: "fitted",
+      heritageAfter: "modern",
+      version: line.version,
+    });
     expect(skip.status).toBe(409);
     expect(skip.body.error.current).toMatchObject({ id: line.id, status: "wanted" });
-    const stale = await c.scrounger.post(url(`/${line.id}/status`), { to: "cancelled", reason: "x", version: line.version + 5 });
+    const stale = await c.scrounger.post(url(`/${line.id}/status`), {
+      to: "cancelled",
+      reason: "x",
+      version: line.version + 5,
+    });
     expect(stale.status).toBe(409);
     expect(stale.body.error.current.version).toBe(line.version);
   });
 
   it("cancelling needs a reason, and a cancelled line stays cancelled while its component still wants a part", async () => {
     const { line } = await freshLine("10-6");
-    const none = await c.scrounger.post(url(`/${line.id}/status`), { to: "cancelled", reason: "", version: line.version });
+    const none = await c.scrounger.post(url(`/${line.id}/status`), {
+      to: "cancelled",
+      reason: "",
+      version: line.version,
+    });
     expect(none.status).toBe(400);
-    const ok = await c.scrounger.post(url(`/${line.id}/status`), { to: "cancelled", reason: "Rebuilding the original instead", version: line.version });
+    const ok = await c.scrounger.post(url(`/${line.id}/status`), {
+      to: "cancelled",
+      reason: "Rebuilding the original instead",
+      version: line.version,
+    });
     expect(ok.status).toBe(200);
     const lines = (await c.scrounger.get(url("?status=all"))).body.lines as any[];
-    expect(lines.filter((l) => l.model === "M-10-6")).toEqual([expect.objectContaining({ status: "cancelled", cancelReason: "Rebuilding the original instead" })]);
+    expect(lines.filter((l) => l.model === "M-10-6")).toEqual([
+      expect.objectContaining({ status: "cancelled", cancelReason: "Rebuilding the original instead" }),
+    ]);
   });
 });
 
 describe("edits and budget", () => {
   it("the curator sets the heritage rule; the scrounger may not (403)", async () => {
     const { line } = await freshLine("11-1");
-    const no = await c.scrounger.put(url(`/${line.id}/heritage-rule`), { heritageRule: "modern_ok", version: line.version });
+    const no = await c.scrounger.put(url(`/${line.id}/heritage-rule`), {
+      heritageRule: "modern_ok",
+      version: line.version,
+    });
     expect(no.status).toBe(403);
-    const yes = await c.curator.put(url(`/${line.id}/heritage-rule`), { heritageRule: "modern_ok", version: line.version });
+    const yes = await c.curator.put(url(`/${line.id}/heritage-rule`), {
+      heritageRule: "modern_ok",
+      version: line.version,
+    });
     expect(yes.status).toBe(200);
     expect(yes.body.line.heritageRule).toBe("modern_ok");
   });
 
   it("an edit with a stale version gets 409 with the current line, never overwrites", async () => {
     const { line } = await freshLine("11-2");
-    const first = await c.scrounger.patch(url(`/${line.id}`), { version: line.version, notes: "ask the trust's archivist", estimatedUnitCost: 150 });
+    const first = await c.scrounger.patch(url(`/${line.id}`), {
+      version: line.version,
+      notes: "ask the trust's archivist",
+      estimatedUnitCost: 150,
+    });
     expect(first.status).toBe(200);
     const second = await c.curator.patch(url(`/${line.id}`), { version: line.version, notes: "overwrite?" });
     expect(second.status).toBe(409);
@@ -140,7 +224,11 @@ describe("edits and budget", () => {
     const { line, board } = await freshLine("11-3");
     const e = await c.scrounger.patch(url(`/${line.id}`), { version: line.version, estimatedUnitCost: 200 });
     expect(e.status, JSON.stringify(e.body)).toBe(200);
-    const a = await c.scrounger.post(url(`/${line.id}/status`), { to: "acquired", version: e.body.line.version, acquisition: { cost: 175, acquiredOn: "2026-11-05" } });
+    const a = await c.scrounger.post(url(`/${line.id}/status`), {
+      to: "acquired",
+      version: e.body.line.version,
+      acquisition: { cost: 175, acquiredOn: "2026-11-05" },
+    });
     expect(a.status, JSON.stringify(a.body)).toBe(200);
     const body = (await c.viewer.get(url())).body;
     const row = body.budget.rows.find((r: any) => r.boardId === board.id);
@@ -152,13 +240,18 @@ describe("edits and budget", () => {
 
 describe("role checks", () => {
   const line = { kind: "fuse", qty: 4, need: "spare cartridges", voltageRating: 500 };
-  it.each(["volunteer", "photographer", "viewer"] as const)("when a %s adds a line or a lead, it gets 403; reading is allowed", async (role) => {
-    expect((await c[role].post(url(), line)).status).toBe(403);
-    expect((await c[role].get(url())).status).toBe(200);
-    const { line: l } = await freshLine(`12-${role}`);
-    expect((await c[role].post(url(`/${l.id}/leads`), { source: "x" })).status).toBe(403);
-    expect((await c[role].post(url(`/${l.id}/status`), { to: "cancelled", reason: "x", version: l.version })).status).toBe(403);
-  });
+  it.each(["volunteer", "photographer", "viewer"] as const)(
+    "when a %s adds a line or a lead, it gets 403; reading is allowed",
+    async (role) => {
+      expect((await c[role].post(url(), line)).status).toBe(403);
+      expect((await c[role].get(url())).status).toBe(200);
+      const { line: l } = await freshLine(`12-${role}`);
+      expect((await c[role].post(url(`/${l.id}/leads`), { source: "x" })).status).toBe(403);
+      expect(
+        (await c[role].post(url(`/${l.id}/status`), { to: "cancelled", reason: "x", version: l.version })).status,
+      ).toBe(403);
+    },
+  );
   it.each(["scrounger", "curator", "admin"] as const)("a %s adds a line by hand", async (role) => {
     const r = await c[role].post(url(), line);
     expect(r.status).toBe(201);
@@ -184,11 +277,25 @@ describe("role checks", () => {
 describe("leads", () => {
   it("editing one field of a lead leaves the others as they were; a stale version gets 409", async () => {
     const { line } = await freshLine("13-1");
-    const lead = (await c.scrounger.post(url(`/${line.id}/leads`), { sourceKind: "collector", source: "A collector of marine switchgear", contact: "by letter", askingPrice: 300 })).body.lead;
+    const lead = (
+      await c.scrounger.post(url(`/${line.id}/leads`), {
+        sourceKind: "collector",
+        source: "A collector of marine switchgear",
+        contact: "by letter",
+        askingPrice: 300,
+      })
+    ).body.lead;
     const r = await c.scrounger.patch(url(`/leads/${lead.id}`), { version: lead.version, status: "chasing" });
     expect(r.status).toBe(200);
     const d = (await c.scrounger.get(url(`/${line.id}`))).body;
-    expect(d.leads[0]).toMatchObject({ status: "chasing", contact: "by letter", askingPrice: 300, sourceKind: "collector" });
-    expect((await c.curator.patch(url(`/leads/${lead.id}`), { version: lead.version, status: "dead" })).status).toBe(409);
+    expect(d.leads[0]).toMatchObject({
+      status: "chasing",
+      contact: "by letter",
+      askingPrice: 300,
+      sourceKind: "collector",
+    });
+    expect((await c.curator.patch(url(`/leads/${lead.id}`), { version: lead.version, status: "dead" })).status).toBe(
+      409,
+    );
   });
 });

@@ -58,7 +58,11 @@ describe("asking for a reset", () => {
     expect(msg.from).toBe('"Tideline" <no-reply@tideline.invalid>');
     expect(msg.text).toContain("Hello Orla Penhallow");
     expect(msg.html).toContain(`/reset-password/${token}`);
-    const row = await t.db.selectFrom("passwordResets").selectAll().where("userId", "=", u.id).executeTakeFirstOrThrow();
+    const row = await t.db
+      .selectFrom("passwordResets")
+      .selectAll()
+      .where("userId", "=", u.id)
+      .executeTakeFirstOrThrow();
     expect(row.tokenHash).toBe(hashToken(token));
     const minutes = (row.expiresAt.getTime() - Date.now()) / 60_000;
     expect(minutes).toBeGreaterThan(59);
@@ -71,7 +75,8 @@ describe("asking for a reset", () => {
 
   it("after three links in an hour, a fourth is not sent, with the same answer", async () => {
     const u = await makeUser(t.db, { email: fresh() });
-    for (let i = 0; i < 4; i++) expect((await server.client().post("/api/auth/password-reset", { email: u.email })).status).toBe(202);
+    for (let i = 0; i < 4; i++)
+      expect((await server.client().post("/api/auth/password-reset", { email: u.email })).status).toBe(202);
     await backgroundIdle();
     await server.jobsIdle();
     expect(smtp.mailbox.list().filter((m) => m.to.includes(u.email))).toHaveLength(3);
@@ -90,7 +95,9 @@ describe("using the link", () => {
     expect(r.status).toBe(200);
     expect((await browser.get("/api/session")).status).toBe(200);
     expect((await elsewhere.get("/api/session")).status).toBe(401);
-    expect((await server.client().post("/api/auth/sign-in", { email: u.email, password: TEST_PASSWORD })).status).toBe(401);
+    expect((await server.client().post("/api/auth/sign-in", { email: u.email, password: TEST_PASSWORD })).status).toBe(
+      401,
+    );
     await new Client(server.base).signIn(u.email, "a-brand-new-secret");
   });
 
@@ -99,17 +106,29 @@ describe("using the link", () => {
     const first = await requestLink(u.email);
     smtp.mailbox.clear();
     const second = await requestLink(u.email);
-    expect((await server.client().post(`/api/auth/password-reset/${second.token}`, { password: "a-brand-new-secret" })).status).toBe(200);
-    const again = await server.client().post(`/api/auth/password-reset/${second.token}`, { password: "yet-another-secret" });
+    expect(
+      (await server.client().post(`/api/auth/password-reset/${second.token}`, { password: "a-brand-new-secret" }))
+        .status,
+    ).toBe(200);
+    const again = await server
+      .client()
+      .post(`/api/auth/password-reset/${second.token}`, { password: "yet-another-secret" });
     expect(again.status).toBe(410);
     expect(again.body.error.code).toBe("reset_used");
-    expect((await server.client().post(`/api/auth/password-reset/${first.token}`, { password: "yet-another-secret" })).status).toBe(410);
+    expect(
+      (await server.client().post(`/api/auth/password-reset/${first.token}`, { password: "yet-another-secret" }))
+        .status,
+    ).toBe(410);
   });
 
   it("an expired link is refused (410 reset_expired) and the password stays", async () => {
     const u = await makeUser(t.db, { email: fresh() });
     const { token } = await requestLink(u.email);
-    await t.db.updateTable("passwordResets").set({ expiresAt: new Date(Date.now() - 1000) }).where("userId", "=", u.id).execute();
+    await t.db
+      .updateTable("passwordResets")
+      .set({ expiresAt: new Date(Date.now() - 1000) })
+      .where("userId", "=", u.id)
+      .execute();
     const r = await server.client().post(`/api/auth/password-reset/${token}`, { password: "a-brand-new-secret" });
     expect(r.status).toBe(410);
     expect(r.body.error.code).toBe("reset_expired");

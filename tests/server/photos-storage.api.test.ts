@@ -30,7 +30,14 @@ beforeAll(async () => {
   // s3rver 3.7.1 on loopback, ephemeral port, its own temp folder (STACK.md "Fake S3").
   fake = new S3rver({ address: "127.0.0.1", port: 0, directory: s3dir, silent: true });
   const addr = (await fake.run()) as AddressInfo;
-  s3 = new S3Storage({ bucket: "tideline-photos", endpoint: `http://127.0.0.1:${addr.port}`, region: "us-east-1", accessKeyId: "S3RVER", secretAccessKey: "S3RVER", forcePathStyle: true });
+  s3 = new S3Storage({
+    bucket: "tideline-photos",
+    endpoint: `http://127.0.0.1:${addr.port}`,
+    region: "us-east-1",
+    accessKeyId: "S3RVER",
+    secretAccessKey: "S3RVER",
+    forcePathStyle: true,
+  });
   await s3.client.send(new CreateBucketCommand({ Bucket: "tideline-photos" }));
   disk = new LocalDiskStorage(diskDir);
 });
@@ -74,10 +81,14 @@ describe.each([
     expect(r.status).toBe(201);
     await server.jobsIdle(); // the renditions are made by the job queue's worker
     const id = r.body.photos[0].id;
-    const got = await fetch(`${server.base}/api/sites/${fx.siteId}/photos/${id}/original`, { headers: { cookie: c.cookie } });
+    const got = await fetch(`${server.base}/api/sites/${fx.siteId}/photos/${id}/original`, {
+      headers: { cookie: c.cookie },
+    });
     expect(Buffer.from(await got.arrayBuffer()).equals(original)).toBe(true);
     expect((await s.listKeys(`sites/${fx.siteId}/${id}/`)).length).toBe(3);
-    const shown = await fetch(`${server.base}/api/sites/${fx.siteId}/photos/${id}/display`, { headers: { cookie: c.cookie } });
+    const shown = await fetch(`${server.base}/api/sites/${fx.siteId}/photos/${id}/display`, {
+      headers: { cookie: c.cookie },
+    });
     expect(shown.headers.get("content-type")).toBe("image/jpeg");
     await server.close();
   });
@@ -91,7 +102,15 @@ describe("cleanup", () => {
     const c = server.client();
     await c.signIn(fx.crew.photographer.email);
     const png = await noisyJpeg(64, 64);
-    const r = await c.call("POST", `/api/sites/${fx.siteId}/photos`, form([{ name: "a.jpg", data: png }, { name: "b.jpg", data: png }, { name: "c.jpg", data: png }]));
+    const r = await c.call(
+      "POST",
+      `/api/sites/${fx.siteId}/photos`,
+      form([
+        { name: "a.jpg", data: png },
+        { name: "b.jpg", data: png },
+        { name: "c.jpg", data: png },
+      ]),
+    );
     await server.jobsIdle();
     await server.close();
     const [a, b, cc] = r.body.photos.map((p: { id: string }) => p.id);
@@ -103,8 +122,16 @@ describe("cleanup", () => {
     expect(report.rowsWithoutFiles).toEqual([{ photoId: b, missing: [row.thumbKey] }]);
 
     const now = new Date("2027-03-01T12:00:00Z");
-    await t.db.updateTable("photos").set({ deletedAt: new Date("2027-01-20T12:00:00Z") }).where("id", "=", a).execute(); // 40 days before
-    await t.db.updateTable("photos").set({ deletedAt: new Date("2027-02-20T12:00:00Z") }).where("id", "=", cc).execute(); // 9 days before
+    await t.db
+      .updateTable("photos")
+      .set({ deletedAt: new Date("2027-01-20T12:00:00Z") })
+      .where("id", "=", a)
+      .execute(); // 40 days before
+    await t.db
+      .updateTable("photos")
+      .set({ deletedAt: new Date("2027-02-20T12:00:00Z") })
+      .where("id", "=", cc)
+      .execute(); // 9 days before
     expect(await purgeDeleted(t.db, disk, now)).toEqual([a]);
     expect(await t.db.selectFrom("photos").select("id").where("id", "in", [a, cc]).execute()).toEqual([{ id: cc }]);
     expect(await disk.listKeys(`sites/${fx.siteId}/${a}/`)).toEqual([]);

@@ -43,7 +43,15 @@ const upload = async (c: Client, files: Parameters<typeof form>[0], fields: Reco
   await server.jobsIdle();
   return r;
 };
-const rowCount = async () => Number((await t.db.selectFrom("photos").select((eb) => eb.fn.countAll().as("n")).executeTakeFirstOrThrow()).n);
+const rowCount = async () =>
+  Number(
+    (
+      await t.db
+        .selectFrom("photos")
+        .select((eb) => eb.fn.countAll().as("n"))
+        .executeTakeFirstOrThrow()
+    ).n,
+  );
 const bytesOf = async (c: Client, path: string) => {
   const res = await fetch(server.base + path, { headers: { cookie: c.cookie } });
   return { status: res.status, headers: res.headers, body: Buffer.from(await res.arrayBuffer()) };
@@ -54,14 +62,28 @@ describe("upload and renditions", () => {
     const original = await sidewaysJpegWithGps();
     // The fixture really carries what must be stripped, or this test could not fail.
     expect(await exifr.gps(original)).toMatchObject({ latitude: expect.closeTo(51.5034, 3) });
-    const r = await upload(as.photographer, [{ name: "IMG_0001.jpg", data: original }], { positionId: board.positions["1-1"].id, kind: "as_found" });
+    const r = await upload(as.photographer, [{ name: "IMG_0001.jpg", data: original }], {
+      positionId: board.positions["1-1"].id,
+      kind: "as_found",
+    });
     expect(r.status).toBe(201);
     const p = r.body.photos[0];
-    expect(p).toMatchObject({ width: 200, height: 400, format: "jpeg", cameraModel: "Testcam Deckhand 7", boardId: board.boardId, designation: "1-1", kind: "as_found" });
+    expect(p).toMatchObject({
+      width: 200,
+      height: 400,
+      format: "jpeg",
+      cameraModel: "Testcam Deckhand 7",
+      boardId: board.boardId,
+      designation: "1-1",
+      kind: "as_found",
+    });
     expect(p.capturedAt).toMatch(/^2026-11-0[23]T/);
     // The upload answers once the original is stored; the job then makes the renditions.
     expect(p.renditionState).toBe("processing");
-    expect((await as.viewer.get(url(`/${p.id}`))).body.photo).toMatchObject({ renditionState: "ready", renditionError: null });
+    expect((await as.viewer.get(url(`/${p.id}`))).body.photo).toMatchObject({
+      renditionState: "ready",
+      renditionError: null,
+    });
     for (const rendition of ["display", "thumb"]) {
       const img = await bytesOf(as.viewer, url(`/${p.id}/${rendition}`));
       expect(img.status).toBe(200);
@@ -84,10 +106,16 @@ describe("upload and renditions", () => {
 
   it("the display rendition is at most 1600 px and the thumbnail at most 320 px; small pictures are not blown up", async () => {
     const big = await noisyJpeg(2400, 1200);
-    const r = await upload(as.photographer, [{ name: "wide.jpg", data: big }, { name: "small.png", data: await plainPng() }]);
+    const r = await upload(as.photographer, [
+      { name: "wide.jpg", data: big },
+      { name: "small.png", data: await plainPng() },
+    ]);
     expect(r.status).toBe(201);
-    const [wide, small] = ["wide.jpg", "small.png"].map((n) => r.body.photos.find((p: { originalName: string }) => p.originalName === n));
-    const dims = async (id: string, rendition: string) => sharp((await bytesOf(as.viewer, url(`/${id}/${rendition}`))).body).metadata();
+    const [wide, small] = ["wide.jpg", "small.png"].map((n) =>
+      r.body.photos.find((p: { originalName: string }) => p.originalName === n),
+    );
+    const dims = async (id: string, rendition: string) =>
+      sharp((await bytesOf(as.viewer, url(`/${id}/${rendition}`))).body).metadata();
     expect(await dims(wide.id, "display")).toMatchObject({ width: 1600, height: 800 });
     expect(await dims(wide.id, "thumb")).toMatchObject({ width: 320, height: 160 });
     expect(await dims(small.id, "display")).toMatchObject({ width: 64, height: 48 });
@@ -102,7 +130,10 @@ describe("rendition failures", () => {
     const r = await upload(as.photographer, [{ name: "half.jpg", data: damaged }]);
     expect(r.status).toBe(201);
     const photo = (await as.viewer.get(url(`/${r.body.photos[0].id}`))).body.photo;
-    expect(photo).toMatchObject({ renditionState: "failed", renditionError: expect.stringMatching(/damaged or cut short/) });
+    expect(photo).toMatchObject({
+      renditionState: "failed",
+      renditionError: expect.stringMatching(/damaged or cut short/),
+    });
     const thumb = await as.viewer.get(url(`/${photo.id}/thumb`));
     expect(thumb.status).toBe(409);
     expect(thumb.body.error.code).toBe("rendition_failed");
@@ -113,7 +144,9 @@ describe("rendition failures", () => {
 
 describe("HEIF container", () => {
   it("an AV1-compressed HEIF (which sharp decodes itself) is accepted as heif; HEVC goes through heic-decode (not tested: no sample file)", async () => {
-    const heif = await sharp({ create: { width: 120, height: 80, channels: 3, background: "#345" } }).heif({ compression: "av1" }).toBuffer();
+    const heif = await sharp({ create: { width: 120, height: 80, channels: 3, background: "#345" } })
+      .heif({ compression: "av1" })
+      .toBuffer();
     const r = await upload(as.photographer, [{ name: "phone.heic", data: heif, type: "image/heic" }]);
     expect(r.status).toBe(201);
     expect(r.body.photos[0]).toMatchObject({ format: "heif", width: 120, height: 80 });
@@ -134,14 +167,18 @@ describe("refused uploads leave nothing behind", () => {
 
   it("a text file renamed .jpg gets 415 with a clear message", async () => {
     await snapshot();
-    const r = await upload(as.photographer, [{ name: "notes.jpg", data: Buffer.from("breaker 2-14 seized, see photo\n".repeat(50)) }]);
+    const r = await upload(as.photographer, [
+      { name: "notes.jpg", data: Buffer.from("breaker 2-14 seized, see photo\n".repeat(50)) },
+    ]);
     expect(r.status).toBe(415);
     expect(r.body.error.message).toMatch(/notes\.jpg.*JPEG, PNG, WebP, HEIC/);
   });
 
   it("an SVG drawing is refused with 415 even though sharp could render it", async () => {
     await snapshot();
-    const svg = Buffer.from('<svg xmlns="http://www.w3.org/2000/svg" width="10" height="10"><rect width="10" height="10"/></svg>');
+    const svg = Buffer.from(
+      '<svg xmlns="http://www.w3.org/2000/svg" width="10" height="10"><rect width="10" height="10"/></svg>',
+    );
     const r = await upload(as.photographer, [{ name: "board.jpg", data: svg, type: "image/jpeg" }]);
     expect(r.status).toBe(415);
   });
@@ -156,7 +193,10 @@ describe("refused uploads leave nothing behind", () => {
   it("more than 20 files in one request gets 413", async () => {
     await snapshot();
     const png = await plainPng();
-    const r = await upload(as.photographer, Array.from({ length: 21 }, (_, i) => ({ name: `p${i}.png`, data: png })));
+    const r = await upload(
+      as.photographer,
+      Array.from({ length: 21 }, (_, i) => ({ name: `p${i}.png`, data: png })),
+    );
     expect(r.status).toBe(413);
   });
 
@@ -170,14 +210,19 @@ describe("refused uploads leave nothing behind", () => {
   it("a JPEG cut in half gets 400 'damaged or cut short'", async () => {
     await snapshot();
     const whole = await noisyJpeg();
-    const r = await upload(as.photographer, [{ name: "half.jpg", data: whole.subarray(0, Math.floor(whole.length / 2)) }]);
+    const r = await upload(as.photographer, [
+      { name: "half.jpg", data: whole.subarray(0, Math.floor(whole.length / 2)) },
+    ]);
     expect(r.status).toBe(400);
     expect(r.body.error.message).toMatch(/cut short/);
   });
 
   it("one bad file in a batch refuses the whole batch", async () => {
     await snapshot();
-    const r = await upload(as.photographer, [{ name: "good.png", data: await plainPng() }, { name: "bad.jpg", data: Buffer.from("nope") }]);
+    const r = await upload(as.photographer, [
+      { name: "good.png", data: await plainPng() },
+      { name: "bad.jpg", data: Buffer.from("nope") },
+    ]);
     expect(r.status).toBe(415);
   });
 
@@ -193,7 +238,14 @@ describe("refused uploads leave nothing behind", () => {
     const c = other.client();
     await c.signIn(fx.crew.photographer.email);
     const png = await plainPng();
-    const r = await c.call("POST", url(), form([{ name: "a.png", data: png }, { name: "b.png", data: png }]));
+    const r = await c.call(
+      "POST",
+      url(),
+      form([
+        { name: "a.png", data: png },
+        { name: "b.png", data: png },
+      ]),
+    );
     await other.close();
     expect(r.status).toBe(503);
     expect(n).toBe(2);
@@ -209,7 +261,9 @@ describe("refused uploads leave nothing behind", () => {
 describe("who may do what", () => {
   let photoId = "";
   beforeAll(async () => {
-    const r = await upload(as.photographer, [{ name: "rules.png", data: await plainPng() }], { positionId: board.positions["1-2"].id });
+    const r = await upload(as.photographer, [{ name: "rules.png", data: await plainPng() }], {
+      positionId: board.positions["1-2"].id,
+    });
     photoId = r.body.photos[0].id;
   });
 
@@ -231,12 +285,30 @@ describe("who may do what", () => {
 
   it("a volunteer may attach a photo to their own inspection but not to someone else's or a bare position", async () => {
     const pos = board.positions["2-14"];
-    const mine = await t.db.insertInto("inspections").values({ siteId: fx.siteId, componentId: pos.componentId, positionId: pos.id, inspectorId: fx.crew.volunteer.id }).returning("id").executeTakeFirstOrThrow();
-    const theirs = await t.db.insertInto("inspections").values({ siteId: fx.siteId, componentId: pos.componentId, positionId: pos.id, inspectorId: fx.crew.curator.id }).returning("id").executeTakeFirstOrThrow();
+    const mine = await t.db
+      .insertInto("inspections")
+      .values({
+        siteId: fx.siteId,
+        componentId: pos.componentId,
+        positionId: pos.id,
+        inspectorId: fx.crew.volunteer.id,
+      })
+      .returning("id")
+      .executeTakeFirstOrThrow();
+    const theirs = await t.db
+      .insertInto("inspections")
+      .values({ siteId: fx.siteId, componentId: pos.componentId, positionId: pos.id, inspectorId: fx.crew.curator.id })
+      .returning("id")
+      .executeTakeFirstOrThrow();
     const png = await plainPng();
     const ok = await upload(as.volunteer, [{ name: "v.png", data: png }], { inspectionId: mine.id, kind: "damage" });
     expect(ok.status).toBe(201);
-    expect(ok.body.photos[0]).toMatchObject({ inspectionId: mine.id, positionId: pos.id, componentId: pos.componentId, boardId: board.boardId });
+    expect(ok.body.photos[0]).toMatchObject({
+      inspectionId: mine.id,
+      positionId: pos.id,
+      componentId: pos.componentId,
+      boardId: board.boardId,
+    });
     expect((await upload(as.volunteer, [{ name: "v.png", data: png }], { inspectionId: theirs.id })).status).toBe(403);
     expect((await upload(as.volunteer, [{ name: "v.png", data: png }], { positionId: pos.id })).status).toBe(403);
   });
@@ -252,7 +324,9 @@ describe("who may do what", () => {
 
   it("a position on another site is refused as a target (400)", async () => {
     const foreign = await makeBoard(t.db, fx.otherSiteId, ["9-9"], "Their board");
-    const r = await upload(as.photographer, [{ name: "x.png", data: await plainPng() }], { positionId: foreign.positions["9-9"].id });
+    const r = await upload(as.photographer, [{ name: "x.png", data: await plainPng() }], {
+      positionId: foreign.positions["9-9"].id,
+    });
     expect(r.status).toBe(400);
     expect(r.body.error.fields.positionId).toBeDefined();
   });
@@ -261,13 +335,20 @@ describe("who may do what", () => {
 describe("tagging, bulk assignment and the shoot list", () => {
   const newPhotos = async (n: number) => {
     const png = await plainPng();
-    const r = await upload(as.photographer, Array.from({ length: n }, (_, i) => ({ name: `shoot-${i}.png`, data: png })));
+    const r = await upload(
+      as.photographer,
+      Array.from({ length: n }, (_, i) => ({ name: `shoot-${i}.png`, data: png })),
+    );
     return r.body.photos as Array<{ id: string; version: number }>;
   };
 
   it("a stale version gets 409 with the photo as it is now", async () => {
     const [p] = await newPhotos(1);
-    const ok = await as.photographer.patch(url(`/${p.id}`), { version: p.version, kind: "nameplate", caption: "Maker's plate" });
+    const ok = await as.photographer.patch(url(`/${p.id}`), {
+      version: p.version,
+      kind: "nameplate",
+      caption: "Maker's plate",
+    });
     expect(ok.status).toBe(200);
     expect(ok.body.photo).toMatchObject({ kind: "nameplate", caption: "Maker's plate", version: p.version + 1 });
     const stale = await as.curator.patch(url(`/${p.id}`), { version: p.version, caption: "older edit" });
@@ -286,13 +367,19 @@ describe("tagging, bulk assignment and the shoot list", () => {
       ],
     });
     expect(r.status).toBe(200);
-    expect(r.body.photos.map((p: { designation: string; boardId: string }) => [p.designation, p.boardId])).toEqual([["2-14", board.boardId], ["2-14", board.boardId]]);
-    const again = await as.photographer.post(url("/assign"), { items: [{ photoId: batch[0].id, version: batch[0].version, positionId: board.positions["1-1"].id }] });
+    expect(r.body.photos.map((p: { designation: string; boardId: string }) => [p.designation, p.boardId])).toEqual([
+      ["2-14", board.boardId],
+      ["2-14", board.boardId],
+    ]);
+    const again = await as.photographer.post(url("/assign"), {
+      items: [{ photoId: batch[0].id, version: batch[0].version, positionId: board.positions["1-1"].id }],
+    });
     expect(again.status).toBe(409);
   });
 
   it("the shoot list shows per position the required shots still missing, and follows the curator's settings", async () => {
-    const list = async () => (await as.photographer.get(`/api/sites/${fx.siteId}/boards/${board.boardId}/shoot-list`)).body;
+    const list = async () =>
+      (await as.photographer.get(`/api/sites/${fx.siteId}/boards/${board.boardId}/shoot-list`)).body;
     const before = await list();
     expect(before.requiredKinds).toEqual(["as_found", "nameplate"]);
     const by = (d: string, l = before) => l.positions.find((p: { designation: string }) => p.designation === d);
@@ -302,10 +389,23 @@ describe("tagging, bulk assignment and the shoot list", () => {
     expect([before.complete, before.total, before.shotsTaken, before.shotsRequired]).toEqual([1, 3, 3, 6]);
 
     const settings = (await as.viewer.get(`/api/sites/${fx.siteId}/photo-settings`)).body.settings;
-    expect((await as.photographer.put(`/api/sites/${fx.siteId}/photo-settings`, { requiredKinds: ["after_work"], version: settings.version })).status).toBe(403);
-    const saved = await as.curator.put(`/api/sites/${fx.siteId}/photo-settings`, { requiredKinds: ["after_work", "as_found"], version: settings.version });
+    expect(
+      (
+        await as.photographer.put(`/api/sites/${fx.siteId}/photo-settings`, {
+          requiredKinds: ["after_work"],
+          version: settings.version,
+        })
+      ).status,
+    ).toBe(403);
+    const saved = await as.curator.put(`/api/sites/${fx.siteId}/photo-settings`, {
+      requiredKinds: ["after_work", "as_found"],
+      version: settings.version,
+    });
     expect(saved.body.settings).toEqual({ requiredKinds: ["as_found", "after_work"], version: settings.version + 1 });
-    const stale = await as.curator.put(`/api/sites/${fx.siteId}/photo-settings`, { requiredKinds: ["thermal"], version: settings.version });
+    const stale = await as.curator.put(`/api/sites/${fx.siteId}/photo-settings`, {
+      requiredKinds: ["thermal"],
+      version: settings.version,
+    });
     expect(stale.status).toBe(409);
     const after = await list();
     expect(by("2-14", after).missing).toEqual(["after_work"]);
@@ -313,6 +413,8 @@ describe("tagging, bulk assignment and the shoot list", () => {
 
   it("photo targets list every position with its tag number, for matching file names", async () => {
     const r = await as.photographer.get(`/api/sites/${fx.siteId}/photo-targets`);
-    expect(r.body.targets).toContainEqual(expect.objectContaining({ designation: "2-14", tagNumber: "T-2-14", boardName: "Main switchboard" }));
+    expect(r.body.targets).toContainEqual(
+      expect.objectContaining({ designation: "2-14", tagNumber: "T-2-14", boardName: "Main switchboard" }),
+    );
   });
 });

@@ -16,22 +16,47 @@ let curator: Client;
 const sites: Record<"small" | "large", { id: string; boardId: string; token: string }> = {} as never;
 
 async function makeSiteOf(size: number, name: string) {
-  const s = await t.db.insertInto("sites").values({ name, kind: "vessel", location: "", description: "" }).returning("id").executeTakeFirstOrThrow();
+  const s = await t.db
+    .insertInto("sites")
+    .values({ name, kind: "vessel", location: "", description: "" })
+    .returning("id")
+    .executeTakeFirstOrThrow();
   await t.db.insertInto("memberships").values({ siteId: s.id, userId: fx.crew.curator.id, role: "curator" }).execute();
   const board = await makeBoard(t.db, s.id);
   for (let i = 0; i < size; i++) {
     // Each spec twice (a line of two positions), a defect naming a sub-part, a nameplate photo and a lead.
     for (const k of [0, 1]) {
-      const c = await makeComponent(t.db, s.id, board.id, `${name}-${i}-${k}`, { ...BREAKER, ratingAmps: 100 + i, disposition: "replace" });
-      await t.db.insertInto("photos").values({
-        siteId: s.id, boardId: board.id, positionId: c.positionId, componentId: c.componentId, kind: "nameplate", format: "jpeg", width: 10, height: 10, bytes: 1,
-        originalKey: `o/${c.componentId}`, displayKey: `d/${c.componentId}`, thumbKey: `t/${c.componentId}`,
-      }).execute();
+      const c = await makeComponent(t.db, s.id, board.id, `${name}-${i}-${k}`, {
+        ...BREAKER,
+        ratingAmps: 100 + i,
+        disposition: "replace",
+      });
+      await t.db
+        .insertInto("photos")
+        .values({
+          siteId: s.id,
+          boardId: board.id,
+          positionId: c.positionId,
+          componentId: c.componentId,
+          kind: "nameplate",
+          format: "jpeg",
+          width: 10,
+          height: 10,
+          bytes: 1,
+          originalKey: `o/${c.componentId}`,
+          displayKey: `d/${c.componentId}`,
+          thumbKey: `t/${c.componentId}`,
+        })
+        .execute();
       if (k === 0) await makeDefect(t.db, s.id, board.id, c, { partsNeeded: `handle ${i}` });
     }
   }
   const lines = await t.db.selectFrom("partLines").select("id").where("siteId", "=", s.id).execute();
-  for (const l of lines) await t.db.insertInto("partLeads").values({ siteId: s.id, lineId: l.id, source: "Breakers' yard (fictional)" }).execute();
+  for (const l of lines)
+    await t.db
+      .insertInto("partLeads")
+      .values({ siteId: s.id, lineId: l.id, source: "Breakers' yard (fictional)" })
+      .execute();
   const share = await curator.post(`/api/sites/${s.id}/parts/share-links`, { label: "partners" });
   expect(share.status).toBe(201);
   return { id: s.id, boardId: board.id, token: share.body.token as string };
@@ -79,7 +104,8 @@ describe("list endpoints issue a fixed number of statements", () => {
     it(`${name}: the same statements for 2 and 25 specifications`, async () => {
       const small = await statementsOf(path(sites.small));
       const large = await statementsOf(path(sites.large));
-      if (SUMMARIES.has(name)) expect(JSON.stringify(large.body)).toMatch(/"(positions|positionCount)":50\b/); // 25 specs × 2 positions
+      if (SUMMARIES.has(name))
+        expect(JSON.stringify(large.body)).toMatch(/"(positions|positionCount)":50\b/); // 25 specs × 2 positions
       else expect(JSON.stringify(large.body).length).toBeGreaterThan(JSON.stringify(small.body).length * 3); // the large site really answers more rows
       expect(large.statements.length, large.statements.join("\n")).toBe(small.statements.length);
     });

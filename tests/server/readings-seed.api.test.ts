@@ -10,7 +10,13 @@ beforeAll(async () => {
   t = await createTestDb();
   await seedDemo(t.db);
   siteId = (await t.db.selectFrom("sites").select("id").executeTakeFirstOrThrow()).id;
-  boardId = (await t.db.selectFrom("boards").select("id").where("name", "=", "Main switchboard (engine room, aft)").executeTakeFirstOrThrow()).id;
+  boardId = (
+    await t.db
+      .selectFrom("boards")
+      .select("id")
+      .where("name", "=", "Main switchboard (engine room, aft)")
+      .executeTakeFirstOrThrow()
+  ).id;
 });
 afterAll(async () => t.drop());
 
@@ -40,6 +46,8 @@ it("the demo has one outlier pole, a level-2 thermal finding and a dim phase-B l
   expect(thermal.map((s) => s.judgement.measuredLevel)).toContain(2);
   expect(thermal.map((s) => s.judgement.level)).toContain(4);
   expect(groundChecks).toHaveLength(2);
-  expect(groundChecks[0].judgement.words).toBe("Phase B lamp dim, A and C bright: suspect a ground on phase B — on a vessel, a fault to the hull.");
+  expect(groundChecks[0].judgement.words).toBe(
+    "Phase B lamp dim, A and C bright: suspect a ground on phase B — on a vessel, a fault to the hull.",
+  );
   expect(groundChecks[1].judgement.verdict).toBe("meets");
 });

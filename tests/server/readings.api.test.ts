@@ -13,13 +13,39 @@ const as: Record<string, Client> = {};
 
 async function makeBoard(siteId: string) {
   const db = t.db;
-  const board = await db.insertInto("boards").values({ siteId, name: "Main switchboard", nominalVolts: 450 }).returning("id").executeTakeFirstOrThrow();
+  const board = await db
+    .insertInto("boards")
+    .values({ siteId, name: "Main switchboard", nominalVolts: 450 })
+    .returning("id")
+    .executeTakeFirstOrThrow();
   let col = 0;
   const mk = async (designation: string, circuit: string) => {
-    const p = await db.insertInto("positions").values({ siteId, boardId: board.id, designation, kind: "molded_case_breaker", gridRow: 1, gridCol: ++col, circuit }).returning("id").executeTakeFirstOrThrow();
-    return (await db.insertInto("components").values({ siteId, positionId: p.id, kind: "molded_case_breaker", poles: 3 }).returning("id").executeTakeFirstOrThrow()).id;
+    const p = await db
+      .insertInto("positions")
+      .values({
+        siteId,
+        boardId: board.id,
+        designation,
+        kind: "molded_case_breaker",
+        gridRow: 1,
+        gridCol: ++col,
+        circuit,
+      })
+      .returning("id")
+      .executeTakeFirstOrThrow();
+    return (
+      await db
+        .insertInto("components")
+        .values({ siteId, positionId: p.id, kind: "molded_case_breaker", poles: 3 })
+        .returning("id")
+        .executeTakeFirstOrThrow()
+    ).id;
   };
-  return { boardId: board.id, componentId: await mk("1-1", "Steering gear"), otherComponentId: await mk("1-2", "Galley") };
+  return {
+    boardId: board.id,
+    componentId: await mk("1-1", "Steering gear"),
+    otherComponentId: await mk("1-2", "Galley"),
+  };
 }
 
 beforeAll(async () => {
@@ -40,10 +66,20 @@ afterAll(async () => {
 const site = () => `/api/sites/${fx.siteId}`;
 const insulation = (over: Record<string, unknown> = {}) => ({
   // 24 °C at 30 % RH: dew point 5.4 °C (Magnus), so readings at 12 °C and up are valid for judging.
-  componentId, testVoltsDc: 1000, megohms: 80, conductors: "A-G", equipmentTempC: 30, ambientTempC: 24, humidityPercent: 30,
-  durationS: 60, instrument: "Megohmmeter 1", measuredAt: "2026-11-20T09:00:00Z", ...over,
+  componentId,
+  testVoltsDc: 1000,
+  megohms: 80,
+  conductors: "A-G",
+  equipmentTempC: 30,
+  ambientTempC: 24,
+  humidityPercent: 30,
+  durationS: 60,
+  instrument: "Megohmmeter 1",
+  measuredAt: "2026-11-20T09:00:00Z",
+  ...over,
 });
-const record = (who: string, over: Record<string, unknown> = {}) => as[who].post(`${site()}/boards/${boardId}/insulation-readings`, insulation(over));
+const record = (who: string, over: Record<string, unknown> = {}) =>
+  as[who].post(`${site()}/boards/${boardId}/insulation-readings`, insulation(over));
 
 async function setCriteria(patch: Record<string, unknown>) {
   const now = (await as.curator.get(`${site()}/readings/criteria`)).body.criteria;
@@ -51,7 +87,15 @@ async function setCriteria(patch: Record<string, unknown>) {
   expect(r.status).toBe(200);
   return r.body.criteria;
 }
-const resetCriteria = () => setCriteria({ correctionMethod: "neta_20c", insulationMedium: "solid", thermalClass: "B", minimumMegohms: null, minimumSource: "", contactOutlierPercent: 50 });
+const resetCriteria = () =>
+  setCriteria({
+    correctionMethod: "neta_20c",
+    insulationMedium: "solid",
+    thermalClass: "B",
+    minimumMegohms: null,
+    minimumSource: "",
+    contactOutlierPercent: 50,
+  });
 
 describe("who records readings", () => {
   it.each(["volunteer", "curator", "admin"])("a %s records an insulation reading (201)", async (who) => {
@@ -60,12 +104,31 @@ describe("who records readings", () => {
     expect(r.body.reading).toMatchObject({ megohms: 80, conductors: "A-G", designation: "1-1" });
   });
 
-  it.each(["photographer", "scrounger", "viewer"])("a %s gets 403 recording any reading, but reads them (200)", async (who) => {
-    expect((await record(who)).status).toBe(403);
-    expect((await as[who].post(`${site()}/components/${componentId}/contact-readings`, { poleMicroOhms: [50, 51, 52], testCurrentA: 100, measuredAt: "2026-11-20T09:00:00Z" })).status).toBe(403);
-    expect((await as[who].post(`${site()}/boards/${boardId}/ground-checks`, { lineVolts: 450, lamps: { A: "bright", B: "bright", C: "bright" }, measuredAt: "2026-11-20T09:00:00Z" })).status).toBe(403);
-    expect((await as[who].get(`${site()}/boards/${boardId}/readings`)).status).toBe(200);
-  });
+  it.each(["photographer", "scrounger", "viewer"])(
+    "a %s gets 403 recording any reading, but reads them (200)",
+    async (who) => {
+      expect((await record(who)).status).toBe(403);
+      expect(
+        (
+          await as[who].post(`${site()}/components/${componentId}/contact-readings`, {
+            poleMicroOhms: [50, 51, 52],
+            testCurrentA: 100,
+            measuredAt: "2026-11-20T09:00:00Z",
+          })
+        ).status,
+      ).toBe(403);
+      expect(
+        (
+          await as[who].post(`${site()}/boards/${boardId}/ground-checks`, {
+            lineVolts: 450,
+            lamps: { A: "bright", B: "bright", C: "bright" },
+            measuredAt: "2026-11-20T09:00:00Z",
+          })
+        ).status,
+      ).toBe(403);
+      expect((await as[who].get(`${site()}/boards/${boardId}/readings`)).status).toBe(200);
+    },
+  );
 
   it("a member of another site gets 404", async () => {
     expect((await record("outsider")).status).toBe(404);
@@ -104,8 +167,14 @@ describe("bad input is a 400 naming the field, never a 500", () => {
   });
 
   it("a reading from the future, a component of another board and a bad board id are refused", async () => {
-    expect((await record("volunteer", { measuredAt: "2099-01-01T00:00:00Z" })).body.error.fields).toHaveProperty("measuredAt");
-    const other = await t.db.insertInto("boards").values({ siteId: fx.siteId, name: "Emergency board" }).returning("id").executeTakeFirstOrThrow();
+    expect((await record("volunteer", { measuredAt: "2099-01-01T00:00:00Z" })).body.error.fields).toHaveProperty(
+      "measuredAt",
+    );
+    const other = await t.db
+      .insertInto("boards")
+      .values({ siteId: fx.siteId, name: "Emergency board" })
+      .returning("id")
+      .executeTakeFirstOrThrow();
     const r = await as.volunteer.post(`${site()}/boards/${other.id}/insulation-readings`, insulation());
     expect(r.status).toBe(400);
     expect(r.body.error.fields).toHaveProperty("componentId");
@@ -113,12 +182,22 @@ describe("bad input is a 400 naming the field, never a 500", () => {
   });
 
   it("contact, thermal and ground-lamp bodies are checked too", async () => {
-    const c = await as.volunteer.post(`${site()}/components/${componentId}/contact-readings`, { poleMicroOhms: [50, 0], testCurrentA: 100, measuredAt: "2026-11-20T09:00:00Z" });
+    const c = await as.volunteer.post(`${site()}/components/${componentId}/contact-readings`, {
+      poleMicroOhms: [50, 0],
+      testCurrentA: 100,
+      measuredAt: "2026-11-20T09:00:00Z",
+    });
     expect(c.status).toBe(400);
-    const th = await as.volunteer.post(`${site()}/components/${componentId}/thermal-scans`, { componentTempC: 40, measuredAt: "2026-11-20T09:00:00Z" });
+    const th = await as.volunteer.post(`${site()}/components/${componentId}/thermal-scans`, {
+      componentTempC: 40,
+      measuredAt: "2026-11-20T09:00:00Z",
+    });
     expect(th.status).toBe(400);
     expect(th.body.error.fields).toHaveProperty("similarTempC");
-    const g = await as.volunteer.post(`${site()}/boards/${boardId}/ground-checks`, { lineVolts: 450, measuredAt: "2026-11-20T09:00:00Z" });
+    const g = await as.volunteer.post(`${site()}/boards/${boardId}/ground-checks`, {
+      lineVolts: 450,
+      measuredAt: "2026-11-20T09:00:00Z",
+    });
     expect(g.status).toBe(400);
     expect(g.body.error.fields).toHaveProperty("lamps");
   });
@@ -139,7 +218,11 @@ describe("corrected values and verdicts (hand-computed from the published tables
     expect(j.correctedMegohms).toBeCloseTo(corrected, 9);
     expect(j.baseTemperatureC).toBe(20);
     expect(j.verdict).toBe(verdict);
-    expect(j.minimum).toMatchObject({ megohms: 100, from: "table", source: { table: "ANSI/NETA MTS-2019 Table 100.1" } });
+    expect(j.minimum).toMatchObject({
+      megohms: 100,
+      from: "table",
+      source: { table: "ANSI/NETA MTS-2019 Table 100.1" },
+    });
     expect(j.correction.table).toMatch(/100\.14/);
   });
 
@@ -160,13 +243,23 @@ describe("corrected values and verdicts (hand-computed from the published tables
   });
 
   it("contact resistance flags the pole more than 50 % above the lowest (Schneider 0600DB1901 example: 50, 60, 76)", async () => {
-    const r = await as.curator.post(`${site()}/components/${componentId}/contact-readings`, { poleMicroOhms: [50, 60, 76], testCurrentA: 100, measuredAt: "2026-11-20T10:00:00Z" });
+    const r = await as.curator.post(`${site()}/components/${componentId}/contact-readings`, {
+      poleMicroOhms: [50, 60, 76],
+      testCurrentA: 100,
+      measuredAt: "2026-11-20T10:00:00Z",
+    });
     expect(r.status).toBe(201);
     expect(r.body.reading.judgement).toMatchObject({ outliers: [2], verdict: "investigate", limitMicroOhms: 75 });
   });
 
   it("a thermal scan 5 °C over a similar component is NETA Table 100.18 level 2", async () => {
-    const r = await as.volunteer.post(`${site()}/components/${componentId}/thermal-scans`, { componentTempC: 45, similarTempC: 40, ambientTempC: 38, loadPercent: 60, measuredAt: "2026-11-20T11:00:00Z" });
+    const r = await as.volunteer.post(`${site()}/components/${componentId}/thermal-scans`, {
+      componentTempC: 45,
+      similarTempC: 40,
+      ambientTempC: 38,
+      loadPercent: 60,
+      measuredAt: "2026-11-20T11:00:00Z",
+    });
     expect(r.status).toBe(201);
     expect(r.body.scan.judgement).toMatchObject({ level: 2, overSimilarC: 5, verdict: "investigate" });
     expect(r.body.scan.judgement.action).toMatch(/repair as time permits/i);
@@ -174,8 +267,30 @@ describe("corrected values and verdicts (hand-computed from the published tables
 
   it("a thermal scan links only a thermal image of this site", async () => {
     const photo = (kind: "thermal" | "as_found") =>
-      t.db.insertInto("photos").values({ siteId: fx.siteId, boardId, componentId, kind, format: "jpeg", width: 640, height: 480, bytes: 1000, originalKey: `o-${kind}`, displayKey: `d-${kind}`, thumbKey: `t-${kind}` }).returning("id").executeTakeFirstOrThrow();
-    const scan = (photoId: string) => as.volunteer.post(`${site()}/components/${componentId}/thermal-scans`, { componentTempC: 30, ambientTempC: 25, photoId, measuredAt: "2026-11-20T11:00:00Z" });
+      t.db
+        .insertInto("photos")
+        .values({
+          siteId: fx.siteId,
+          boardId,
+          componentId,
+          kind,
+          format: "jpeg",
+          width: 640,
+          height: 480,
+          bytes: 1000,
+          originalKey: `o-${kind}`,
+          displayKey: `d-${kind}`,
+          thumbKey: `t-${kind}`,
+        })
+        .returning("id")
+        .executeTakeFirstOrThrow();
+    const scan = (photoId: string) =>
+      as.volunteer.post(`${site()}/components/${componentId}/thermal-scans`, {
+        componentTempC: 30,
+        ambientTempC: 25,
+        photoId,
+        measuredAt: "2026-11-20T11:00:00Z",
+      });
     const thermal = await photo("thermal");
     const ok = await scan(thermal.id);
     expect(ok.status).toBe(201);
@@ -187,10 +302,17 @@ describe("corrected values and verdicts (hand-computed from the published tables
   });
 
   it("a ground-lamp check with phase B dark names phase B and the hull; latest returns it", async () => {
-    const r = await as.volunteer.post(`${site()}/boards/${boardId}/ground-checks`, { energisation: "Section 1 first energisation", lineVolts: 450, lamps: { A: "bright", B: "dark", C: "bright" }, measuredAt: "2026-11-22T08:00:00Z" });
+    const r = await as.volunteer.post(`${site()}/boards/${boardId}/ground-checks`, {
+      energisation: "Section 1 first energisation",
+      lineVolts: 450,
+      lamps: { A: "bright", B: "dark", C: "bright" },
+      measuredAt: "2026-11-22T08:00:00Z",
+    });
     expect(r.status).toBe(201);
     expect(r.body.check.judgement.phase).toBe("B");
-    expect(r.body.check.judgement.words).toBe("Phase B lamp dark, A and C bright: suspect a ground on phase B — on a vessel, a fault to the hull.");
+    expect(r.body.check.judgement.words).toBe(
+      "Phase B lamp dark, A and C bright: suspect a ground on phase B — on a vessel, a fault to the hull.",
+    );
     const latest = await as.viewer.get(`${site()}/boards/${boardId}/ground-checks/latest`);
     expect(latest.body.check.id).toBe(r.body.check.id);
   });
@@ -207,20 +329,28 @@ describe("criteria", () => {
     expect(body.reading.judgement.verdict).toBe("meets");
     await setCriteria({ minimumMegohms: 150, minimumSource: "Crew rule: 1.5 × NETA for salt-water boards" });
     const list = (await as.viewer.get(`${site()}/components/${otherComponentId}/insulation-readings`)).body.readings;
-    expect(list[0].judgement).toMatchObject({ verdict: "below_minimum", minimum: { megohms: 150, from: "site", source: { text: "Crew rule: 1.5 × NETA for salt-water boards" } } });
+    expect(list[0].judgement).toMatchObject({
+      verdict: "below_minimum",
+      minimum: { megohms: 150, from: "site", source: { text: "Crew rule: 1.5 × NETA for salt-water boards" } },
+    });
     await resetCriteria();
   });
 
   it("a manufacturer's value for one component replaces the table for that component only", async () => {
     const { body } = await record("volunteer", { megohms: 60, equipmentTempC: 30 }); // 94.8 MΩ, below 100
     expect(body.reading.judgement.verdict).toBe("below_minimum");
-    const put = await as.curator.put(`${site()}/components/${componentId}/reading-override`, { minimumMegohms: 50, source: "Maker's instruction leaflet (fictional), p. 4" });
+    const put = await as.curator.put(`${site()}/components/${componentId}/reading-override`, {
+      minimumMegohms: 50,
+      source: "Maker's instruction leaflet (fictional), p. 4",
+    });
     expect(put.status).toBe(200);
     const mine = (await as.viewer.get(`${site()}/components/${componentId}/readings`)).body;
     const same = mine.insulation.find((x: { id: string }) => x.id === body.reading.id);
     expect(same.judgement).toMatchObject({ verdict: "meets", minimum: { megohms: 50, from: "manufacturer" } });
     const other = (await as.viewer.get(`${site()}/components/${otherComponentId}/readings`)).body;
-    expect(other.insulation.every((x: { judgement: { minimum: { from: string } } }) => x.judgement.minimum.from === "table")).toBe(true);
+    expect(
+      other.insulation.every((x: { judgement: { minimum: { from: string } } }) => x.judgement.minimum.from === "table"),
+    ).toBe(true);
     expect((await as.curator.del(`${site()}/components/${componentId}/reading-override`)).status).toBe(200);
   });
 
@@ -234,8 +364,19 @@ describe("criteria", () => {
   it("only the curator edits criteria (403 for a volunteer), and a stale version is a 409 with the current criteria", async () => {
     const now = (await as.volunteer.get(`${site()}/readings/criteria`)).body.criteria;
     expect((await as.volunteer.put(`${site()}/readings/criteria`, { ...now, thermalClass: "A" })).status).toBe(403);
-    expect((await as.volunteer.put(`${site()}/components/${componentId}/reading-override`, { minimumMegohms: 1, source: "x" })).status).toBe(403);
-    const stale = await as.curator.put(`${site()}/readings/criteria`, { ...now, version: now.version - 1, thermalClass: "A" });
+    expect(
+      (
+        await as.volunteer.put(`${site()}/components/${componentId}/reading-override`, {
+          minimumMegohms: 1,
+          source: "x",
+        })
+      ).status,
+    ).toBe(403);
+    const stale = await as.curator.put(`${site()}/readings/criteria`, {
+      ...now,
+      version: now.version - 1,
+      thermalClass: "A",
+    });
     expect(stale.status).toBe(409);
     expect(stale.body.error.current).toMatchObject({ version: now.version });
   });
@@ -250,6 +391,14 @@ describe("criteria", () => {
   it("records every reading and criteria change in the audit log", async () => {
     const rows = await t.db.selectFrom("auditLog").select(["entityType"]).where("siteId", "=", fx.siteId).execute();
     const types = new Set(rows.map((r) => r.entityType));
-    for (const e of ["insulation_reading", "contact_reading", "thermal_scan", "ground_lamp_check", "reading_criteria", "component_reading_override"]) expect(types).toContain(e);
+    for (const e of [
+      "insulation_reading",
+      "contact_reading",
+      "thermal_scan",
+      "ground_lamp_check",
+      "reading_criteria",
+      "component_reading_override",
+    ])
+      expect(types).toContain(e);
   });
 });

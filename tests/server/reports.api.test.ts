@@ -58,7 +58,8 @@ async function savePdf(bytes: Buffer, name: string) {
   await writeFile(file, bytes);
   return file;
 }
-const pdfText = async (file: string) => (await run("pdftotext", ["-layout", file, "-"], { maxBuffer: 64 << 20 })).stdout;
+const pdfText = async (file: string) =>
+  (await run("pdftotext", ["-layout", file, "-"], { maxBuffer: 64 << 20 })).stdout;
 const pdfPages = async (file: string) => Number(/Pages:\s+(\d+)/.exec((await run("pdfinfo", [file])).stdout)![1]);
 /** A page of the PDF as RGBA pixels, rendered by poppler's pdftoppm. */
 async function pagePixels(file: string, page: number, dpi: number) {
@@ -84,7 +85,9 @@ describe("condition survey report", () => {
     const r = await getBytes(viewer, `/api/sites/${siteId}/reports/survey.pdf?boardId=${mainId}`);
     expect(r.status).toBe(200);
     expect(r.headers.get("content-type")).toMatch(/application\/pdf/);
-    expect(r.headers.get("content-disposition")).toMatch(/attachment; filename="condition-survey-mv-kestrel-lantern-main-switchboard/);
+    expect(r.headers.get("content-disposition")).toMatch(
+      /attachment; filename="condition-survey-mv-kestrel-lantern-main-switchboard/,
+    );
     pages = Number(r.headers.get("x-report-pages"));
     size = r.bytes.length;
     file = await savePdf(r.bytes, "main.pdf");
@@ -92,8 +95,21 @@ describe("condition survey report", () => {
   }, 120_000);
 
   it("a viewer downloads the main board's report with every section, the caution and the statement that it certifies nothing", () => {
-    for (const s of ["Condition survey", "MV Kestrel Lantern", "Main switchboard", "Contents", "Summary", "Board front", "Insulation dry-out",
-      "Defect register", "Parts wanted", "Flood event", "Return-to-service record", "Safety caution and scope of this report"]) expect(text).toContain(s);
+    for (const s of [
+      "Condition survey",
+      "MV Kestrel Lantern",
+      "Main switchboard",
+      "Contents",
+      "Summary",
+      "Board front",
+      "Insulation dry-out",
+      "Defect register",
+      "Parts wanted",
+      "Flood event",
+      "Return-to-service record",
+      "Safety caution and scope of this report",
+    ])
+      expect(text).toContain(s);
     expect(text).toContain("Flooded switchgear can kill: electric shock and arc flash.");
     expect(text).toContain("NFPA 70E");
     expect(text.replace(/\s+/g, " ")).toContain("It certifies nothing: it does not declare any equipment safe");
@@ -102,15 +118,25 @@ describe("condition survey report", () => {
   });
 
   it("numbers in the report agree with the database: positions surveyed of all, each designation, each open defect", async () => {
-    const [n] = (await sql<{ positions: number; surveyed: number }>`select count(*)::int as positions,
+    const [n] = (
+      await sql<{ positions: number; surveyed: number }>`select count(*)::int as positions,
       count(*) filter (where exists (select 1 from inspections i where i.position_id = p.id))::int as surveyed
-      from positions p where p.board_id = ${mainId}`.execute(t.db)).rows;
+      from positions p where p.board_id = ${mainId}`.execute(t.db)
+    ).rows;
     expect(text).toMatch(new RegExp(`${n.surveyed} / ${n.positions}\\b`));
-    const designations = await t.db.selectFrom("positions").select("designation").where("boardId", "=", mainId).execute();
+    const designations = await t.db
+      .selectFrom("positions")
+      .select("designation")
+      .where("boardId", "=", mainId)
+      .execute();
     for (const d of designations) expect(text).toContain(d.designation);
     const refs = await t.db.selectFrom("defects").select("ref").where("boardId", "=", mainId).execute();
     for (const r of refs) expect(text).toContain(`D-${r.ref}`);
-    const flood = await t.db.selectFrom("floodEvents").select("occurredOn").where("siteId", "=", siteId).executeTakeFirstOrThrow();
+    const flood = await t.db
+      .selectFrom("floodEvents")
+      .select("occurredOn")
+      .where("siteId", "=", siteId)
+      .executeTakeFirstOrThrow();
     expect(text).toContain(flood.occurredOn);
   });
 
@@ -134,7 +160,10 @@ describe("condition survey report", () => {
   });
 
   it("options: only the summary, without photos, in a date range; a whole-site report covers both boards", async () => {
-    const small = await getBytes(viewer, `/api/sites/${siteId}/reports/survey.pdf?boardId=${mainId}&sections=summary&photos=no&paper=letter`);
+    const small = await getBytes(
+      viewer,
+      `/api/sites/${siteId}/reports/survey.pdf?boardId=${mainId}&sections=summary&photos=no&paper=letter`,
+    );
     expect(small.status).toBe(200);
     const f = await savePdf(small.bytes, "small.pdf");
     const s = await pdfText(f);
@@ -144,7 +173,10 @@ describe("condition survey report", () => {
     expect(await pdfPages(f)).toBeLessThan(pages);
     expect((await run("pdfinfo", [f])).stdout).toMatch(/Page size:\s+612 x 792 pts/);
 
-    const future = await getBytes(viewer, `/api/sites/${siteId}/reports/survey.pdf?boardId=${mainId}&sections=summary&from=2099-01-01`);
+    const future = await getBytes(
+      viewer,
+      `/api/sites/${siteId}/reports/survey.pdf?boardId=${mainId}&sections=summary&from=2099-01-01`,
+    );
     const fs = await pdfText(await savePdf(future.bytes, "future.pdf"));
     expect(fs).toContain("No inspections recorded");
 
@@ -163,7 +195,11 @@ describe("condition survey report", () => {
     expect(order.status).toBe(400);
     expect(order.body.error.fields).toHaveProperty("from");
     const other = await makeSite(t.db, "Other crew's hulk");
-    const otherBoard = await t.db.insertInto("boards").values({ siteId: other.id, name: "Theirs" }).returning("id").executeTakeFirstOrThrow();
+    const otherBoard = await t.db
+      .insertInto("boards")
+      .values({ siteId: other.id, name: "Theirs" })
+      .returning("id")
+      .executeTakeFirstOrThrow();
     expect((await viewer.get(`/api/sites/${siteId}/reports/survey.pdf?boardId=${otherBoard.id}`)).status).toBe(404);
     expect((await viewer.get(`/api/sites/${other.id}/reports/survey.pdf`)).status).toBe(404);
     expect((await server.client().get(`/api/sites/${siteId}/reports/survey.pdf`)).status).toBe(401);
@@ -172,11 +208,26 @@ describe("condition survey report", () => {
 
 describe("tag labels", () => {
   it("each QR code on the thermal labels decodes (jsqr) to the short URL of its tag, in order", async () => {
-    const tags = (await t.db.selectFrom("components as c").innerJoin("positions as p", "p.id", "c.positionId")
-      .select(["c.tagNumber"]).where("p.boardId", "=", mainId).where("c.tagNumber", "is not", null).where("c.retiredAt", "is", null)
-      .orderBy("p.sortOrder").orderBy("p.designation").limit(3).execute()).map((r) => r.tagNumber!);
-    const positionIds = (await t.db.selectFrom("components").select("positionId").where("tagNumber", "in", tags).execute()).map((r) => r.positionId);
-    const r = await getBytes(volunteer, `/api/sites/${siteId}/labels.pdf?sheet=thermal-50x25&positionIds=${positionIds.join(",")}`);
+    const tags = (
+      await t.db
+        .selectFrom("components as c")
+        .innerJoin("positions as p", "p.id", "c.positionId")
+        .select(["c.tagNumber"])
+        .where("p.boardId", "=", mainId)
+        .where("c.tagNumber", "is not", null)
+        .where("c.retiredAt", "is", null)
+        .orderBy("p.sortOrder")
+        .orderBy("p.designation")
+        .limit(3)
+        .execute()
+    ).map((r) => r.tagNumber!);
+    const positionIds = (
+      await t.db.selectFrom("components").select("positionId").where("tagNumber", "in", tags).execute()
+    ).map((r) => r.positionId);
+    const r = await getBytes(
+      volunteer,
+      `/api/sites/${siteId}/labels.pdf?sheet=thermal-50x25&positionIds=${positionIds.join(",")}`,
+    );
     expect(r.status).toBe(200);
     expect(r.headers.get("x-labels")).toBe("3");
     const f = await savePdf(r.bytes, "thermal.pdf");
@@ -202,7 +253,12 @@ describe("tag labels", () => {
     const png = await pagePixels(f, 1, dpi);
     const slot5 = labelSlots(sheet, 1, 5)[0];
     const slot1 = labelSlots(sheet, 1, 1)[0];
-    const crop = (s: typeof slot5) => ({ left: px(s.x), top: px(s.y), width: px(sheet.labelWidth), height: px(sheet.labelHeight) });
+    const crop = (s: typeof slot5) => ({
+      left: px(s.x),
+      top: px(s.y),
+      width: px(sheet.labelWidth),
+      height: px(sheet.labelHeight),
+    });
     expect(await decodeQr(png, crop(slot1))).toBeNull(); // label 1 of a part-used sheet is left alone
     expect(await decodeQr(png, crop(slot5))).toMatch(new RegExp(`^${server.base}/t/KL-\\d{4}$`));
   }, 60_000);
@@ -227,27 +283,53 @@ describe("tag labels", () => {
 
 describe("tags", () => {
   it("untagged positions get the next KL- numbers once; a second request gives nothing new", async () => {
-    const untagged = await t.db.selectFrom("components as c").select(["c.positionId"]).where("c.siteId", "=", siteId).where("c.tagNumber", "is", null)
-      .where("c.retiredAt", "is", null).limit(3).execute();
-    const [max] = (await sql<{ n: number }>`select max(substring(tag_number from 4)::int)::int as n from components where tag_number like 'KL-%'`.execute(t.db)).rows;
+    const untagged = await t.db
+      .selectFrom("components as c")
+      .select(["c.positionId"])
+      .where("c.siteId", "=", siteId)
+      .where("c.tagNumber", "is", null)
+      .where("c.retiredAt", "is", null)
+      .limit(3)
+      .execute();
+    const [max] = (
+      await sql<{
+        n: number;
+      }>`select max(substring(tag_number from 4)::int)::int as n from components where tag_number like 'KL-%'`.execute(
+        t.db,
+      )
+    ).rows;
     const ids = untagged.map((u) => u.positionId);
     const r = await volunteer.post(`/api/sites/${siteId}/tags/assign`, { positionIds: ids });
     expect(r.status).toBe(200);
-    expect(r.body.assigned.map((a: { tagNumber: string }) => a.tagNumber).sort()).toEqual([1, 2, 3].map((k) => `KL-${String(max.n + k).padStart(4, "0")}`));
+    expect(r.body.assigned.map((a: { tagNumber: string }) => a.tagNumber).sort()).toEqual(
+      [1, 2, 3].map((k) => `KL-${String(max.n + k).padStart(4, "0")}`),
+    );
     const again = await volunteer.post(`/api/sites/${siteId}/tags/assign`, { positionIds: ids });
     expect(again.body.assigned).toEqual([]);
     expect(again.body.alreadyTagged).toHaveLength(3);
-    const audit = await t.db.selectFrom("auditLog").select("after").where("positionId", "in", ids).where("entityType", "=", "component").execute();
+    const audit = await t.db
+      .selectFrom("auditLog")
+      .select("after")
+      .where("positionId", "in", ids)
+      .where("entityType", "=", "component")
+      .execute();
     expect(audit.length).toBeGreaterThanOrEqual(3);
     expect((await viewer.post(`/api/sites/${siteId}/tags/assign`, { positionIds: ids })).status).toBe(403);
   });
 
   it("a tag resolves to its position for a member; for anyone else it is not found, worded the same as a tag that does not exist", async () => {
-    const tagged = await t.db.selectFrom("components as c").innerJoin("positions as p", "p.id", "c.positionId").select(["c.tagNumber", "p.id", "p.designation"])
-      .where("c.siteId", "=", siteId).where("c.tagNumber", "is not", null).executeTakeFirstOrThrow();
+    const tagged = await t.db
+      .selectFrom("components as c")
+      .innerJoin("positions as p", "p.id", "c.positionId")
+      .select(["c.tagNumber", "p.id", "p.designation"])
+      .where("c.siteId", "=", siteId)
+      .where("c.tagNumber", "is not", null)
+      .executeTakeFirstOrThrow();
     const r = await viewer.get(`/api/tags/${encodeURIComponent(tagged.tagNumber!.toLowerCase())}`);
     expect(r.status).toBe(200);
-    expect(r.body.matches).toEqual([expect.objectContaining({ siteId, positionId: tagged.id, designation: tagged.designation })]);
+    expect(r.body.matches).toEqual([
+      expect.objectContaining({ siteId, positionId: tagged.id, designation: tagged.designation }),
+    ]);
 
     const other = await makeSite(t.db, "Another crew");
     const stranger = await makeUser(t.db, { siteId: other.id, role: "curator", email: "stranger@example.test" });
@@ -258,7 +340,9 @@ describe("tags", () => {
     expect(hidden.status).toBe(404);
     expect(missing.status).toBe(404);
     expect(hidden.body.error.code).toBe("tag_not_found");
-    expect(hidden.body.error.message.replace(tagged.tagNumber!, "X")).toBe(missing.body.error.message.replace("NO-SUCH-TAG", "X"));
+    expect(hidden.body.error.message.replace(tagged.tagNumber!, "X")).toBe(
+      missing.body.error.message.replace("NO-SUCH-TAG", "X"),
+    );
     expect(JSON.stringify(hidden.body)).not.toContain("Kestrel");
     expect((await server.client().get(`/api/tags/${tagged.tagNumber}`)).status).toBe(401);
   });
@@ -266,7 +350,9 @@ describe("tags", () => {
 
 it("the report's photos are downscaled: a 4000 px picture becomes at most 480 px", async () => {
   const { downscale, REPORT_PHOTO_PX } = await import("../../server/reports/service");
-  const big = await sharp({ create: { width: 4000, height: 3000, channels: 3, background: "#556677" } }).jpeg().toBuffer();
+  const big = await sharp({ create: { width: 4000, height: 3000, channels: 3, background: "#556677" } })
+    .jpeg()
+    .toBuffer();
   const meta = await sharp(await downscale(big)).metadata();
   expect(Math.max(meta.width!, meta.height!)).toBe(REPORT_PHOTO_PX);
 });

@@ -9,7 +9,13 @@ beforeAll(async () => {
   t = await createTestDb();
   await seedDemo(t.db);
   const siteId = (await t.db.selectFrom("sites").select("id").executeTakeFirstOrThrow()).id;
-  const boardId = (await t.db.selectFrom("boards").select("id").where("name", "=", "Main switchboard (engine room, aft)").executeTakeFirstOrThrow()).id;
+  const boardId = (
+    await t.db
+      .selectFrom("boards")
+      .select("id")
+      .where("name", "=", "Main switchboard (engine room, aft)")
+      .executeTakeFirstOrThrow()
+  ).id;
   v = await boardView(t.db, siteId, boardId, new Date());
 });
 afterAll(async () => t.drop());

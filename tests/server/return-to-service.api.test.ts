@@ -21,14 +21,45 @@ const ago = (h: number) => new Date(Date.now() - h * hour).toISOString();
 
 async function makeBoard(siteId: string) {
   const db = t.db;
-  const board = await db.insertInto("boards").values({ siteId, name: "Main switchboard", nominalVolts: 450 }).returning("id").executeTakeFirstOrThrow();
-  const section = await db.insertInto("sections").values({ siteId, boardId: board.id, name: "Power distribution" }).returning("id").executeTakeFirstOrThrow();
-  const other = await db.insertInto("sections").values({ siteId, boardId: board.id, name: "Lighting" }).returning("id").executeTakeFirstOrThrow();
+  const board = await db
+    .insertInto("boards")
+    .values({ siteId, name: "Main switchboard", nominalVolts: 450 })
+    .returning("id")
+    .executeTakeFirstOrThrow();
+  const section = await db
+    .insertInto("sections")
+    .values({ siteId, boardId: board.id, name: "Power distribution" })
+    .returning("id")
+    .executeTakeFirstOrThrow();
+  const other = await db
+    .insertInto("sections")
+    .values({ siteId, boardId: board.id, name: "Lighting" })
+    .returning("id")
+    .executeTakeFirstOrThrow();
   let col = 0; // one grid cell per position (exclusion constraint, migration 2026_12_02_0220)
   const mk = async (designation: string, circuit: string, sec: string, year: number) => {
-    const p = await db.insertInto("positions").values({ siteId, boardId: board.id, sectionId: sec, designation, kind: "molded_case_breaker", gridRow: 1, gridCol: ++col, circuit }).returning("id").executeTakeFirstOrThrow();
+    const p = await db
+      .insertInto("positions")
+      .values({
+        siteId,
+        boardId: board.id,
+        sectionId: sec,
+        designation,
+        kind: "molded_case_breaker",
+        gridRow: 1,
+        gridCol: ++col,
+        circuit,
+      })
+      .returning("id")
+      .executeTakeFirstOrThrow();
     pos[designation] = p.id;
-    comp[designation] = (await db.insertInto("components").values({ siteId, positionId: p.id, kind: "molded_case_breaker", poles: 3, voltageRating: 500, year }).returning("id").executeTakeFirstOrThrow()).id;
+    comp[designation] = (
+      await db
+        .insertInto("components")
+        .values({ siteId, positionId: p.id, kind: "molded_case_breaker", poles: 3, voltageRating: 500, year })
+        .returning("id")
+        .executeTakeFirstOrThrow()
+    ).id;
   };
   await mk("1-1", "Steering gear", section.id, 1946);
   await mk("1-2", "Fire pump", section.id, 1946);
@@ -56,22 +87,46 @@ afterAll(async () => {
 });
 
 const megger = (designation: string, megohms: number, measuredAt = ago(2)) =>
-  as.volunteer.post(`${site()}/boards/${boardId}/insulation-readings`, { componentId: comp[designation], testVoltsDc: 1000, megohms, conductors: "A-G", equipmentTempC: 20, measuredAt });
+  as.volunteer.post(`${site()}/boards/${boardId}/insulation-readings`, {
+    componentId: comp[designation],
+    testVoltsDc: 1000,
+    megohms,
+    conductors: "A-G",
+    equipmentTempC: 20,
+    measuredAt,
+  });
 const view = async () => (await as.viewer.get(`${site()}/boards/${boardId}/return-to-service`)).body;
 const stageOf = async (id: string) => (await view()).stages.find((s: any) => s.id === id);
 const stepId = (stage: any, kind: string) => stage.steps.find((s: any) => s.kind === kind).id;
 const sign = (who: string, stage: any, kind: string, extra: Record<string, unknown> = {}) =>
-  as[who].post(`${site()}/return-to-service/steps/${stepId(stage, kind)}/signoffs`, { attempt: stage.attempt, ...extra });
+  as[who].post(`${site()}/return-to-service/steps/${stepId(stage, kind)}/signoffs`, {
+    attempt: stage.attempt,
+    ...extra,
+  });
 
 async function qualify(userId: string, expiresOn: string | null = "2099-12-31") {
-  const r = await as.curator.put(`${site()}/return-to-service/qualified-persons/${userId}`, { qualification: "Marine electrician (fictional licence)", expiresOn, version: 0 });
+  const r = await as.curator.put(`${site()}/return-to-service/qualified-persons/${userId}`, {
+    qualification: "Marine electrician (fictional licence)",
+    expiresOn,
+    version: 0,
+  });
   expect(r.status).toBe(200);
 }
 
 async function newStage(body: Record<string, unknown> = {}) {
   const r = await as.curator.post(`${site()}/boards/${boardId}/return-to-service/stages`, {
-    name: "Power distribution from the temporary feed", sectionIds: [sectionId], supply: "temporary_fused", protectionDevice: "Fused disconnect",
-    protectionRatingA: 20, protectionLimitA: 30, voltageStep: "full", stepVolts: 450, qualifiedPersonId: fx.crew.curator.id, watchHours: 8, checkEveryHours: 2, ...body,
+    name: "Power distribution from the temporary feed",
+    sectionIds: [sectionId],
+    supply: "temporary_fused",
+    protectionDevice: "Fused disconnect",
+    protectionRatingA: 20,
+    protectionLimitA: 30,
+    voltageStep: "full",
+    stepVolts: 450,
+    qualifiedPersonId: fx.crew.curator.id,
+    watchHours: 8,
+    checkEveryHours: 2,
+    ...body,
   });
   expect(r.status, JSON.stringify(r.body)).toBe(201);
   return r.body.stage;
@@ -90,14 +145,22 @@ async function energise(stage: any) {
 
 describe("roles", () => {
   it("when a viewer, photographer or scrounger plans a stage, it gets 403; an outsider gets 404", async () => {
-    for (const who of ["viewer", "photographer", "scrounger"]) expect((await as[who].post(`${site()}/boards/${boardId}/return-to-service/stages`, { name: "x" })).status).toBe(403);
+    for (const who of ["viewer", "photographer", "scrounger"])
+      expect((await as[who].post(`${site()}/boards/${boardId}/return-to-service/stages`, { name: "x" })).status).toBe(
+        403,
+      );
     expect((await as.outsider.get(`${site()}/boards/${boardId}/return-to-service`)).status).toBe(404);
   });
   it("every member reads the board's return to service", async () => {
-    for (const who of ["viewer", "photographer", "scrounger", "volunteer"]) expect((await as[who].get(`${site()}/boards/${boardId}/return-to-service`)).status).toBe(200);
+    for (const who of ["viewer", "photographer", "scrounger", "volunteer"])
+      expect((await as[who].get(`${site()}/boards/${boardId}/return-to-service`)).status).toBe(200);
   });
   it("bad input gets a 400 with the field, never a 500", async () => {
-    const r = await as.curator.post(`${site()}/boards/${boardId}/return-to-service/stages`, { name: "S", supply: "mains", voltageStep: "full" });
+    const r = await as.curator.post(`${site()}/boards/${boardId}/return-to-service/stages`, {
+      name: "S",
+      supply: "mains",
+      voltageStep: "full",
+    });
     expect(r.status).toBe(400);
     expect(r.body.error.fields).toHaveProperty("supply");
   });
@@ -106,10 +169,23 @@ describe("roles", () => {
 describe("the plan and its gate", () => {
   it("a new stage takes the template's hold points and shows each blocker with a link", async () => {
     const s = await newStage({ qualifiedPersonId: null, protectionRatingA: 40 });
-    expect(s.steps.map((x: any) => x.kind)).toEqual(["isolate", "insulation", "defects", "protection", "clearance", "energise", "ground_lamps", "thermal", "watch", "release"]);
+    expect(s.steps.map((x: any) => x.kind)).toEqual([
+      "isolate",
+      "insulation",
+      "defects",
+      "protection",
+      "clearance",
+      "energise",
+      "ground_lamps",
+      "thermal",
+      "watch",
+      "release",
+    ]);
     expect(s.gate.state).toBe("blocked");
     const codes = s.gate.blockers.map((b: any) => b.code);
-    expect(codes).toEqual(expect.arrayContaining(["insulation_missing", "protection_above_limit", "no_qualified_person"]));
+    expect(codes).toEqual(
+      expect.arrayContaining(["insulation_missing", "protection_above_limit", "no_qualified_person"]),
+    );
     const ir = s.gate.blockers.find((b: any) => b.code === "insulation_missing");
     expect(ir.href).toBe(`/sites/${fx.siteId}/readings/components/${comp["1-1"]}`);
     await as.curator.del(`${site()}/return-to-service/stages/${s.id}`);
@@ -121,7 +197,8 @@ describe("the plan and its gate", () => {
     const r = await as.curator.post(`${site()}/return-to-service/stages/${b.id}/move`, { toIndex: 0 });
     expect(r.status).toBe(409);
     expect(r.body.error.message).toContain("depends on");
-    for (const s of [b, a]) expect((await as.curator.del(`${site()}/return-to-service/stages/${s.id}`)).status).toBe(204);
+    for (const s of [b, a])
+      expect((await as.curator.del(`${site()}/return-to-service/stages/${s.id}`)).status).toBe(204);
   });
 
   it("a blocked hold point cannot be signed (409 with the reasons); the curator releases it with a reason, shown for ever", async () => {
@@ -130,11 +207,23 @@ describe("the plan and its gate", () => {
     const blocked = await sign("volunteer", s, "insulation");
     expect(blocked.status).toBe(409);
     expect(blocked.body.error.message).toContain("4-1");
-    expect((await sign("volunteer", s, "insulation", { kind: "released", reason: "Spare feeder, cable disconnected at the terminals." })).status).toBe(403);
+    expect(
+      (
+        await sign("volunteer", s, "insulation", {
+          kind: "released",
+          reason: "Spare feeder, cable disconnected at the terminals.",
+        })
+      ).status,
+    ).toBe(403);
     expect((await sign("curator", s, "insulation", { kind: "released", reason: "short" })).status).toBe(400);
-    const ok = await sign("curator", s, "insulation", { kind: "released", reason: "Spare feeder, cable disconnected at the terminals." });
+    const ok = await sign("curator", s, "insulation", {
+      kind: "released",
+      reason: "Spare feeder, cable disconnected at the terminals.",
+    });
     expect(ok.status).toBe(201);
-    expect(ok.body.stage.gate.releasedWithReason).toEqual([expect.objectContaining({ reason: "Spare feeder, cable disconnected at the terminals." })]);
+    expect(ok.body.stage.gate.releasedWithReason).toEqual([
+      expect.objectContaining({ reason: "Spare feeder, cable disconnected at the terminals." }),
+    ]);
     const events = (await view()).events.filter((e: any) => e.kind === "signoff" && e.alert);
     expect(events[0].title).toContain("Released with reason");
   });
@@ -159,23 +248,35 @@ describe("sign-offs", () => {
   it("a signature cannot be edited or deleted (405); a superseding entry corrects it", async () => {
     const s = await stageOf(stage.id);
     const entry = s.steps.find((x: any) => x.kind === "isolate").entries[0];
-    expect((await as.curator.patch(`${site()}/return-to-service/signoffs/${entry.id}`, { note: "changed" })).status).toBe(405);
+    expect(
+      (await as.curator.patch(`${site()}/return-to-service/signoffs/${entry.id}`, { note: "changed" })).status,
+    ).toBe(405);
     expect((await as.curator.del(`${site()}/return-to-service/signoffs/${entry.id}`)).status).toBe(405);
     // The database refuses too.
-    await expect(t.db.updateTable("rtsSignoffs").set({ note: "x" }).where("id", "=", entry.id).execute()).rejects.toThrow(/cannot be changed/);
-    const r = await as.curator.post(`${site()}/return-to-service/signoffs/${entry.id}/supersede`, { kind: "signed", reason: "Wrong isolation point written first", note: "Isolated at the shore box" });
+    await expect(
+      t.db.updateTable("rtsSignoffs").set({ note: "x" }).where("id", "=", entry.id).execute(),
+    ).rejects.toThrow(/cannot be changed/);
+    const r = await as.curator.post(`${site()}/return-to-service/signoffs/${entry.id}/supersede`, {
+      kind: "signed",
+      reason: "Wrong isolation point written first",
+      note: "Isolated at the shore box",
+    });
     expect(r.status).toBe(201);
     const entries = r.body.stage.steps.find((x: any) => x.kind === "isolate").entries;
     expect(entries).toHaveLength(2);
     expect(entries[0].supersededBy).toBe(entries[1].id);
     expect(r.body.stage.gate.holdPoints[0].state).toBe("met");
-    const again = await as.curator.post(`${site()}/return-to-service/signoffs/${entry.id}/supersede`, { kind: "struck", reason: "Second correction of the same entry" });
+    const again = await as.curator.post(`${site()}/return-to-service/signoffs/${entry.id}/supersede`, {
+      kind: "struck",
+      reason: "Second correction of the same entry",
+    });
     expect(again.status).toBe(409);
   });
 
   it("only a qualified person signs the energise step", async () => {
     let s = await stageOf(stage.id);
-    for (const kind of ["insulation", "defects", "protection", "clearance"]) expect((await sign("volunteer", s, kind)).status).toBe(201);
+    for (const kind of ["insulation", "defects", "protection", "clearance"])
+      expect((await sign("volunteer", s, kind)).status).toBe(201);
     s = await stageOf(stage.id);
     const byVolunteer = await sign("volunteer", s, "energise");
     expect(byVolunteer.status).toBe(403);
@@ -187,10 +288,18 @@ describe("sign-offs", () => {
   });
 
   it("a qualification past its expiry no longer signs", async () => {
-    await as.curator.put(`${site()}/return-to-service/qualified-persons/${qp2.id}`, { qualification: "Expired", expiresOn: "2020-01-01", version: 1 });
+    await as.curator.put(`${site()}/return-to-service/qualified-persons/${qp2.id}`, {
+      qualification: "Expired",
+      expiresOn: "2020-01-01",
+      version: 1,
+    });
     const s = await stageOf(stage.id);
     expect((await sign("qp2", s, "release")).status).toBe(403);
-    expect((await as.curator.get(`${site()}/return-to-service/qualified-persons`)).body.people.find((p: any) => p.userId === qp2.id).current).toBe(false);
+    expect(
+      (await as.curator.get(`${site()}/return-to-service/qualified-persons`)).body.people.find(
+        (p: any) => p.userId === qp2.id,
+      ).current,
+    ).toBe(false);
   });
 
   it("a watch check is overdue after its interval; the qualified person gets one e-mail per overdue check", async () => {
@@ -207,15 +316,25 @@ describe("sign-offs", () => {
   });
 
   it("volunteers record watch checks; viewers cannot (403)", async () => {
-    expect((await as.viewer.post(`${site()}/return-to-service/stages/${stage.id}/watch-checks`, { lamps: "equal" })).status).toBe(403);
-    const r = await as.volunteer.post(`${site()}/return-to-service/stages/${stage.id}/watch-checks`, { lamps: "equal", warmToHand: true, note: "Quiet" });
+    expect(
+      (await as.viewer.post(`${site()}/return-to-service/stages/${stage.id}/watch-checks`, { lamps: "equal" })).status,
+    ).toBe(403);
+    const r = await as.volunteer.post(`${site()}/return-to-service/stages/${stage.id}/watch-checks`, {
+      lamps: "equal",
+      warmToHand: true,
+      note: "Quiet",
+    });
     expect(r.status).toBe(201);
     expect(r.body.incidents).toEqual([]);
     expect((await stageOf(stage.id)).watch.overdueSince).toBeNull();
   });
 
   it("a dark lamp in a watch check opens a safety-critical, blocking defect and stops the stage", async () => {
-    const r = await as.volunteer.post(`${site()}/return-to-service/stages/${stage.id}/watch-checks`, { lamps: "one_dark", lampPhase: "B", note: "B lamp out" });
+    const r = await as.volunteer.post(`${site()}/return-to-service/stages/${stage.id}/watch-checks`, {
+      lamps: "one_dark",
+      lampPhase: "B",
+      note: "B lamp out",
+    });
     expect(r.status).toBe(201);
     expect(r.body.incidents).toHaveLength(1);
     const defect = (await as.viewer.get(`${site()}/defects/${r.body.incidents[0].defectId}`)).body;
@@ -229,10 +348,26 @@ describe("sign-offs", () => {
 
   it("a stopped stage is started again only after it is de-energised; the new attempt needs every hold point again", async () => {
     let s = await stageOf(stage.id);
-    expect((await as.curator.post(`${site()}/return-to-service/stages/${stage.id}/restart`, { reason: "Ground traced and cleared", version: s.version })).status).toBe(409);
-    expect((await as.volunteer.post(`${site()}/return-to-service/stages/${stage.id}/de-energise`, { note: "Opened the temporary feed" })).status).toBe(201);
+    expect(
+      (
+        await as.curator.post(`${site()}/return-to-service/stages/${stage.id}/restart`, {
+          reason: "Ground traced and cleared",
+          version: s.version,
+        })
+      ).status,
+    ).toBe(409);
+    expect(
+      (
+        await as.volunteer.post(`${site()}/return-to-service/stages/${stage.id}/de-energise`, {
+          note: "Opened the temporary feed",
+        })
+      ).status,
+    ).toBe(201);
     s = await stageOf(stage.id);
-    const r = await as.curator.post(`${site()}/return-to-service/stages/${stage.id}/restart`, { reason: "Ground traced and cleared", version: s.version });
+    const r = await as.curator.post(`${site()}/return-to-service/stages/${stage.id}/restart`, {
+      reason: "Ground traced and cleared",
+      version: s.version,
+    });
     expect(r.status).toBe(200);
     expect(r.body.stage.attempt).toBe(2);
     expect(r.body.stage.gate.holdPoints.every((h: any) => h.signoff === null)).toBe(true);
@@ -246,21 +381,39 @@ describe("readings on a live stage (issue 14 item 5)", () => {
     await megger("4-1", 600);
     const s = await newStage({ name: "Lighting", sectionIds: [], positionIds: [pos["4-1"]] });
     // A clean lamp check after the dark one, so the gate lets this stage go.
-    await as.curator.post(`${site()}/boards/${boardId}/ground-checks`, { lineVolts: 450, lamps: { A: "bright", B: "bright", C: "bright" }, measuredAt: new Date().toISOString() });
+    await as.curator.post(`${site()}/boards/${boardId}/ground-checks`, {
+      lineVolts: 450,
+      lamps: { A: "bright", B: "bright", C: "bright" },
+      measuredAt: new Date().toISOString(),
+    });
     const live = await energise(await stageOf(s.id));
     expect(live.status).toBe("energised");
-    const r = await as.volunteer.post(`${site()}/components/${comp["4-1"]}/thermal-scans`, { componentTempC: 80, ambientTempC: 25, measuredAt: new Date().toISOString() });
+    const r = await as.volunteer.post(`${site()}/components/${comp["4-1"]}/thermal-scans`, {
+      componentTempC: 80,
+      ambientTempC: 25,
+      measuredAt: new Date().toISOString(),
+    });
     expect(r.status, JSON.stringify(r.body)).toBe(201);
     const after = await stageOf(s.id);
     expect(after.status).toBe("stopped");
-    const defects = await t.db.selectFrom("defects").select(["title", "safetyCritical", "blocksEnergisation", "positionId"]).where("positionId", "=", pos["4-1"]).execute();
+    const defects = await t.db
+      .selectFrom("defects")
+      .select(["title", "safetyCritical", "blocksEnergisation", "positionId"])
+      .where("positionId", "=", pos["4-1"])
+      .execute();
     expect(defects).toEqual([expect.objectContaining({ safetyCritical: true, blocksEnergisation: true })]);
     expect(defects[0].title).toContain("Thermal level 4");
   });
   it("a low reading on a board with nothing live opens no defect", async () => {
-    const before = await t.db.selectFrom("defects").select((eb) => eb.fn.countAll<number>().as("n")).executeTakeFirstOrThrow();
+    const before = await t.db
+      .selectFrom("defects")
+      .select((eb) => eb.fn.countAll<number>().as("n"))
+      .executeTakeFirstOrThrow();
     expect((await megger("1-2", 0.05)).status).toBe(201);
-    const after = await t.db.selectFrom("defects").select((eb) => eb.fn.countAll<number>().as("n")).executeTakeFirstOrThrow();
+    const after = await t.db
+      .selectFrom("defects")
+      .select((eb) => eb.fn.countAll<number>().as("n"))
+      .executeTakeFirstOrThrow();
     expect(Number(after.n)).toBe(Number(before.n));
   });
 });
@@ -269,7 +422,10 @@ describe("breaker operations", () => {
   it("counts each operation against the default budget for a pre-1950 breaker and warns past it, never blocks", async () => {
     let last: any;
     for (let i = 0; i < 11; i++) {
-      last = await as.volunteer.post(`${site()}/components/${comp["1-1"]}/breaker-operations`, { operation: i % 2 ? "open" : "close", why: "Exercise after rebuild" });
+      last = await as.volunteer.post(`${site()}/components/${comp["1-1"]}/breaker-operations`, {
+        operation: i % 2 ? "open" : "close",
+        why: "Exercise after rebuild",
+      });
       expect(last.status).toBe(201);
     }
     expect(last.body.status).toMatchObject({ used: 11, budget: 10, overBudget: true });
@@ -278,8 +434,21 @@ describe("breaker operations", () => {
     expect(b.status.remaining).toBe(-1);
   });
   it("the curator sets a budget (version-checked); a volunteer cannot", async () => {
-    expect((await as.volunteer.put(`${site()}/components/${comp["1-2"]}/operations-budget`, { budget: 4, version: 0 })).status).toBe(403);
-    expect((await as.curator.put(`${site()}/components/${comp["1-2"]}/operations-budget`, { budget: 4, reason: "Arc chutes cracked", version: 0 })).status).toBe(200);
-    expect((await as.curator.put(`${site()}/components/${comp["1-2"]}/operations-budget`, { budget: 5, version: 0 })).status).toBe(409);
+    expect(
+      (await as.volunteer.put(`${site()}/components/${comp["1-2"]}/operations-budget`, { budget: 4, version: 0 }))
+        .status,
+    ).toBe(403);
+    expect(
+      (
+        await as.curator.put(`${site()}/components/${comp["1-2"]}/operations-budget`, {
+          budget: 4,
+          reason: "Arc chutes cracked",
+          version: 0,
+        })
+      ).status,
+    ).toBe(200);
+    expect(
+      (await as.curator.put(`${site()}/components/${comp["1-2"]}/operations-budget`, { budget: 5, version: 0 })).status,
+    ).toBe(409);
   });
 });

@@ -46,11 +46,17 @@ describe("sign-in throttle (rate-limiter-flexible, counters in PostgreSQL)", () 
   });
 
   it("the counters live in the database (rate_limits), so another server instance sees them", async () => {
-    const rows = await t.db.selectFrom("rateLimits").select(["key", "points"]).where("key", "like", "signin_acct:%").execute();
+    const rows = await t.db
+      .selectFrom("rateLimits")
+      .select(["key", "points"])
+      .where("key", "like", "signin_acct:%")
+      .execute();
     expect(rows.find((r) => r.key === `signin_acct:${fx.crew.viewer.email}`)?.points).toBeGreaterThanOrEqual(10);
     const second = await startTestServer({ db: t.db, mailer: memoryMailer() });
     try {
-      const r = await second.client().post("/api/auth/sign-in", { email: fx.crew.viewer.email, password: TEST_PASSWORD });
+      const r = await second
+        .client()
+        .post("/api/auth/sign-in", { email: fx.crew.viewer.email, password: TEST_PASSWORD });
       expect(r.status).toBe(429);
     } finally {
       await second.close();
@@ -75,7 +81,12 @@ describe("sign-in throttle (rate-limiter-flexible, counters in PostgreSQL)", () 
 
   it("a successful sign-in is audited with who and when", async () => {
     await server.client().signIn(fx.crew.photographer.email);
-    const row = await t.db.selectFrom("auditLog").selectAll().where("entityId", "=", fx.crew.photographer.id).where("action", "=", "signed_in").executeTakeFirst();
+    const row = await t.db
+      .selectFrom("auditLog")
+      .selectAll()
+      .where("entityId", "=", fx.crew.photographer.id)
+      .where("action", "=", "signed_in")
+      .executeTakeFirst();
     expect(row).toMatchObject({ siteId: null, entityType: "user", actorId: fx.crew.photographer.id });
     expect(row!.at).toBeInstanceOf(Date);
   });
@@ -84,7 +95,8 @@ describe("sign-in throttle (rate-limiter-flexible, counters in PostgreSQL)", () 
 describe("password-reset and invitation throttles", () => {
   it("a sixth reset request for one address within the hour gets 429 with Retry-After", async () => {
     const email = "reset-me@example.test";
-    for (let i = 0; i < 5; i++) expect((await server.client().post("/api/auth/password-reset", { email })).status).toBe(202);
+    for (let i = 0; i < 5; i++)
+      expect((await server.client().post("/api/auth/password-reset", { email })).status).toBe(202);
     const r = await server.client().post("/api/auth/password-reset", { email });
     expect(r.status).toBe(429);
     expect(Number(r.headers.get("retry-after"))).toBeGreaterThan(0);
@@ -94,7 +106,8 @@ describe("password-reset and invitation throttles", () => {
     const c = server.client();
     const token = "x".repeat(43);
     let last = 0;
-    for (let i = 0; i < 21; i++) last = (await c.post(`/api/invitations/${token}/accept`, { password: "whatever-password" })).status;
+    for (let i = 0; i < 21; i++)
+      last = (await c.post(`/api/invitations/${token}/accept`, { password: "whatever-password" })).status;
     expect(last).toBe(429);
   });
 });

@@ -42,14 +42,20 @@ describe("buildWeeklySummary", () => {
   it("names why each blocker blocks, its status, and puts the count in the subject", () => {
     const m = buildWeeklySummary({
       ...base,
-      blockers: { count: 1, items: [{ ...line(1), status: "under_repair", safetyCritical: true, blocksEnergisation: true }] },
+      blockers: {
+        count: 1,
+        items: [{ ...line(1), status: "under_repair", safetyCritical: true, blocksEnergisation: true }],
+      },
     });
     expect(m.text).toContain("- Defect 1 — Main 1-1 (blocks re-energisation, safety-critical; under repair)");
     expect(m.subject).toMatch(/ — 1 blocker$/);
   });
 
   it("the HTML part says the same, with names escaped", () => {
-    const m = buildWeeklySummary({ ...base, opened: { count: 1, items: [{ title: "Lug <loose> & hot", board: "Main", designation: null }] } });
+    const m = buildWeeklySummary({
+      ...base,
+      opened: { count: 1, items: [{ title: "Lug <loose> & hot", board: "Main", designation: null }] },
+    });
     expect(m.html).toContain("Lug &lt;loose&gt; &amp; hot — Main");
     expect(m.html).not.toContain("<loose>");
     expect(m.html).toContain('href="http://t.example/sites/s1"');

@@ -1,4 +1,11 @@
-import { DeleteObjectCommand, GetObjectCommand, HeadBucketCommand, ListObjectsV2Command, PutObjectCommand, S3Client } from "@aws-sdk/client-s3";
+import {
+  DeleteObjectCommand,
+  GetObjectCommand,
+  HeadBucketCommand,
+  ListObjectsV2Command,
+  PutObjectCommand,
+  S3Client,
+} from "@aws-sdk/client-s3";
 import { createReadStream } from "node:fs";
 import { stat } from "node:fs/promises";
 import type { Readable } from "node:stream";
@@ -22,7 +29,10 @@ export class S3Storage implements PhotoStorage {
       endpoint: opts.endpoint,
       region: opts.region,
       forcePathStyle: opts.forcePathStyle,
-      credentials: opts.accessKeyId && opts.secretAccessKey ? { accessKeyId: opts.accessKeyId, secretAccessKey: opts.secretAccessKey } : undefined,
+      credentials:
+        opts.accessKeyId && opts.secretAccessKey
+          ? { accessKeyId: opts.accessKeyId, secretAccessKey: opts.secretAccessKey }
+          : undefined,
       // Checksums only when the API requires them: with the default ("when supported")
       // several S3-compatible servers store the aws-chunked framing inside the object
       // (seen with s3rver 3.7.1, STACK.md "Fake S3") — silently corrupt photos.
@@ -33,7 +43,13 @@ export class S3Storage implements PhotoStorage {
 
   async put(key: string, body: Buffer, contentType: string) {
     await this.client.send(
-      new PutObjectCommand({ Bucket: this.opts.bucket, Key: key, Body: body, ContentType: contentType, ContentLength: body.length }),
+      new PutObjectCommand({
+        Bucket: this.opts.bucket,
+        Key: key,
+        Body: body,
+        ContentType: contentType,
+        ContentLength: body.length,
+      }),
     );
   }
 
@@ -41,7 +57,13 @@ export class S3Storage implements PhotoStorage {
   async putFile(key: string, path: string, contentType: string) {
     const { size } = await stat(path);
     await this.client.send(
-      new PutObjectCommand({ Bucket: this.opts.bucket, Key: key, Body: createReadStream(path), ContentType: contentType, ContentLength: size }),
+      new PutObjectCommand({
+        Bucket: this.opts.bucket,
+        Key: key,
+        Body: createReadStream(path),
+        ContentType: contentType,
+        ContentLength: size,
+      }),
     );
   }
 

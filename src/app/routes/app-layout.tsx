@@ -11,12 +11,20 @@ export default function AppLayout() {
   const location = useLocation();
   const navigate = useNavigate();
   if (session.isPending) return <Loading what="Checking your session" />;
-  if (session.isError) return <main className="p-4"><ErrorPanel error={session.error} /></main>;
+  if (session.isError)
+    return (
+      <main className="p-4">
+        <ErrorPanel error={session.error} />
+      </main>
+    );
   if (!session.data) return <Navigate to={paths.signIn.href(location.pathname + location.search)} replace />;
   const { user, memberships } = session.data;
   return (
     <div className="min-h-dvh pb-20 md:pb-0">
-      <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-50 focus:bg-hull-800 focus:p-2">
+      <a
+        href="#main"
+        className="sr-only focus:not-sr-only focus:absolute focus:left-2 focus:top-2 focus:z-50 focus:bg-hull-800 focus:p-2"
+      >
         Skip to content
       </a>
       <header className="no-print flex items-center justify-between gap-3 border-b border-hull-700 bg-hull-900 px-4 py-2">
@@ -27,7 +35,9 @@ export default function AppLayout() {
           {(memberships.length > 1 || user.isAdmin) && <Link to={paths.sites.href()}>Sites</Link>}
           {user.isAdmin && <Link to={paths.admin.href()}>Admin</Link>}
           <Link to={paths.account.href()}>Account</Link>
-          <span className="hidden text-mist sm:inline" data-testid="user-name">{user.name}</span>
+          <span className="hidden text-mist sm:inline" data-testid="user-name">
+            {user.name}
+          </span>
           <button
             type="button"
             className="min-h-11 whitespace-nowrap rounded-md px-2 text-chalk ring-1 ring-hull-600 hover:bg-hull-700 sm:px-3"

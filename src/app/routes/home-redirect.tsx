@@ -6,6 +6,7 @@ import { useSession } from "../../features/auth/api";
 export default function HomeRedirect() {
   const { data } = useSession();
   if (!data) return null;
-  if (data.memberships.length === 1 && !data.user.isAdmin) return <Navigate to={paths.site.href(data.memberships[0].siteId)} replace />;
+  if (data.memberships.length === 1 && !data.user.isAdmin)
+    return <Navigate to={paths.site.href(data.memberships[0].siteId)} replace />;
   return <Navigate to={paths.sites.href()} replace />;
 }

@@ -25,7 +25,8 @@ export const useSession = () => useQuery(sessionQueryOptions());
 export function useSignIn() {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (body: SignInBody) => api.send("POST", "/api/auth/sign-in", body, z.object({ user: z.object({ id: z.string() }) })),
+    mutationFn: (body: SignInBody) =>
+      api.send("POST", "/api/auth/sign-in", body, z.object({ user: z.object({ id: z.string() }) })),
     onSuccess: () => qc.invalidateQueries({ queryKey: authKeys.all }),
   });
 }

@@ -2,8 +2,17 @@ import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient }
 import { z } from "zod";
 import { api, ApiError, qs } from "../../lib/api-client";
 import {
-  contextResponse, defectDetailSchema, evidenceResponse, defectRowSchema, listResponse, optionsResponse, planResponse, positionsResponse, viewSchema,
-  type BulkBody, type LinkReadingBody,
+  contextResponse,
+  defectDetailSchema,
+  evidenceResponse,
+  defectRowSchema,
+  listResponse,
+  optionsResponse,
+  planResponse,
+  positionsResponse,
+  viewSchema,
+  type BulkBody,
+  type LinkReadingBody,
 } from "../../schemas/defects";
 import type { DefectStatus } from "../../domain/vocab";
 
@@ -29,31 +38,50 @@ export const defectListOptions = (siteId: string, query: string) =>
 export const useDefectList = (siteId: string, query: string) => useQuery(defectListOptions(siteId, query));
 
 export const useDefectOptions = (siteId: string) =>
-  useQuery({ queryKey: defectKeys.options(siteId), queryFn: ({ signal }) => api.get(`${base(siteId)}/options`, optionsResponse, signal), staleTime: 60_000 });
+  useQuery({
+    queryKey: defectKeys.options(siteId),
+    queryFn: ({ signal }) => api.get(`${base(siteId)}/options`, optionsResponse, signal),
+    staleTime: 60_000,
+  });
 
 export const useBoardPositions = (siteId: string, boardId: string) =>
   useQuery({
     queryKey: defectKeys.positions(siteId, boardId),
-    queryFn: ({ signal }) => api.get(`/api/sites/${siteId}/defect-positions/${boardId}`, positionsResponse, signal).then((d) => d.positions),
+    queryFn: ({ signal }) =>
+      api.get(`/api/sites/${siteId}/defect-positions/${boardId}`, positionsResponse, signal).then((d) => d.positions),
     enabled: !!boardId,
     staleTime: 60_000,
   });
 
-export const useFindingContext = (siteId: string, q: { positionId?: string; componentId?: string; inspectionId?: string }) =>
+export const useFindingContext = (
+  siteId: string,
+  q: { positionId?: string; componentId?: string; inspectionId?: string },
+) =>
   useQuery({
     queryKey: [...defectKeys.all(siteId), "context", q] as const,
-    queryFn: ({ signal }) => api.get(`/api/sites/${siteId}/defect-context${qs(q)}`, contextResponse, signal).then((d) => d.context),
+    queryFn: ({ signal }) =>
+      api.get(`/api/sites/${siteId}/defect-context${qs(q)}`, contextResponse, signal).then((d) => d.context),
     enabled: !!(q.positionId || q.componentId || q.inspectionId),
   });
 
 export const useDefect = (siteId: string, id: string) =>
-  useQuery({ queryKey: defectKeys.detail(siteId, id), queryFn: ({ signal }) => api.get(`${base(siteId)}/${id}`, defectDetailSchema, signal) });
+  useQuery({
+    queryKey: defectKeys.detail(siteId, id),
+    queryFn: ({ signal }) => api.get(`${base(siteId)}/${id}`, defectDetailSchema, signal),
+  });
 
 export const useRepairPlan = (siteId: string) =>
-  useQuery({ queryKey: defectKeys.plan(siteId), queryFn: ({ signal }) => api.get(`/api/sites/${siteId}/repair-plan`, planResponse, signal) });
+  useQuery({
+    queryKey: defectKeys.plan(siteId),
+    queryFn: ({ signal }) => api.get(`/api/sites/${siteId}/repair-plan`, planResponse, signal),
+  });
 
 export const useSavedViews = (siteId: string) =>
-  useQuery({ queryKey: defectKeys.views(siteId), queryFn: ({ signal }) => api.get(`${base(siteId)}/views`, z.object({ views: z.array(viewSchema) }), signal).then((d) => d.views) });
+  useQuery({
+    queryKey: defectKeys.views(siteId),
+    queryFn: ({ signal }) =>
+      api.get(`${base(siteId)}/views`, z.object({ views: z.array(viewSchema) }), signal).then((d) => d.views),
+  });
 
 /** Every write refreshes the whole feature's cache for the site (lists, detail, plan). */
 function useWrite<TVars, TOut>(siteId: string, fn: (v: TVars) => Promise<TOut>) {
@@ -62,7 +90,8 @@ function useWrite<TVars, TOut>(siteId: string, fn: (v: TVars) => Promise<TOut>) 
     mutationFn: fn,
     // a 409 means our copy is stale: refetch so the page shows the current record
     onSettled: (_d, err) => {
-      if (!err || (err instanceof ApiError && err.status === 409)) void qc.invalidateQueries({ queryKey: defectKeys.all(siteId) });
+      if (!err || (err instanceof ApiError && err.status === 409))
+        void qc.invalidateQueries({ queryKey: defectKeys.all(siteId) });
     },
   });
 }
@@ -70,30 +99,45 @@ function useWrite<TVars, TOut>(siteId: string, fn: (v: TVars) => Promise<TOut>) 
 export const useCreateDefect = (siteId: string) =>
   useWrite(siteId, (b: Record<string, unknown>) => api.send("POST", base(siteId), b, one).then((d) => d.defect));
 export const usePatchDefect = (siteId: string, id: string) =>
-  useWrite(siteId, (b: Record<string, unknown>) => api.send("PATCH", `${base(siteId)}/${id}`, b, one).then((d) => d.defect));
+  useWrite(siteId, (b: Record<string, unknown>) =>
+    api.send("PATCH", `${base(siteId)}/${id}`, b, one).then((d) => d.defect),
+  );
 /** What proves the repair: linked readings (judged), after-work photos, and readings of the component to link. */
 export const useEvidence = (siteId: string, id: string) =>
-  useQuery({ queryKey: defectKeys.evidence(siteId, id), queryFn: ({ signal }) => api.get(`${base(siteId)}/${id}/evidence`, evidenceResponse, signal) });
+  useQuery({
+    queryKey: defectKeys.evidence(siteId, id),
+    queryFn: ({ signal }) => api.get(`${base(siteId)}/${id}/evidence`, evidenceResponse, signal),
+  });
 export const useLinkReading = (siteId: string, id: string) =>
   useWrite(siteId, (b: LinkReadingBody) => api.send("POST", `${base(siteId)}/${id}/readings`, b, evidenceResponse));
 
 export const useMoveDefect = (siteId: string, id: string) =>
-  useWrite(siteId, (b: { to: DefectStatus; reason: string; version: number }) => api.send("POST", `${base(siteId)}/${id}/status`, b, one).then((d) => d.defect));
+  useWrite(siteId, (b: { to: DefectStatus; reason: string; version: number }) =>
+    api.send("POST", `${base(siteId)}/${id}/status`, b, one).then((d) => d.defect),
+  );
 export const useAssignDefect = (siteId: string, id: string) =>
-  useWrite(siteId, (b: { assigneeId: string | null; version: number }) => api.send("POST", `${base(siteId)}/${id}/assignee`, b, one).then((d) => d.defect));
+  useWrite(siteId, (b: { assigneeId: string | null; version: number }) =>
+    api.send("POST", `${base(siteId)}/${id}/assignee`, b, one).then((d) => d.defect),
+  );
 export const usePinDefect = (siteId: string, id: string) =>
-  useWrite(siteId, (b: { direction: "above" | "below"; relativeTo: string; reason: string }) => api.send("PUT", `${base(siteId)}/${id}/pin`, b, defectDetailSchema));
+  useWrite(siteId, (b: { direction: "above" | "below"; relativeTo: string; reason: string }) =>
+    api.send("PUT", `${base(siteId)}/${id}/pin`, b, defectDetailSchema),
+  );
 export const useUnpinDefect = (siteId: string, id: string) =>
   useWrite(siteId, (b: { reason: string }) => api.send("DELETE", `${base(siteId)}/${id}/pin`, b, defectDetailSchema));
 export const useBulkDefects = (siteId: string) =>
   useWrite(siteId, (b: BulkBody) => api.send("POST", `${base(siteId)}/bulk`, b, z.object({ updated: z.number() })));
 export const useSaveView = (siteId: string) =>
-  useWrite(siteId, (b: { name: string; query: string }) => api.send("POST", `${base(siteId)}/views`, b, z.object({ view: viewSchema })).then((d) => d.view));
+  useWrite(siteId, (b: { name: string; query: string }) =>
+    api.send("POST", `${base(siteId)}/views`, b, z.object({ view: viewSchema })).then((d) => d.view),
+  );
 export const useDeleteView = (siteId: string) =>
   useWrite(siteId, (id: string) => api.raw("DELETE", `${base(siteId)}/views/${id}`));
 
 /** Finds a defect by its D-number for the pin form. */
 export const findByRef = (siteId: string, ref: string) =>
-  api.get(`${base(siteId)}?q=${encodeURIComponent(ref)}&sort=ref&size=5`, listResponse).then((d) => d.rows.find((r) => `D-${r.ref}` === ref.toUpperCase().replace(/^D?-?/, "D-")) ?? null);
+  api
+    .get(`${base(siteId)}?q=${encodeURIComponent(ref)}&sort=ref&size=5`, listResponse)
+    .then((d) => d.rows.find((r) => `D-${r.ref}` === ref.toUpperCase().replace(/^D?-?/, "D-")) ?? null);
 
 export const csvHref = (siteId: string, query: string) => `${base(siteId)}.csv?${query}`;

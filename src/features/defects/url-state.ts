@@ -1,5 +1,12 @@
 import { FLAGS, SORT_KEYS, type Flag, type SortKey } from "../../schemas/defects";
-import { DEFECT_CATEGORIES, DEFECT_SEVERITIES, DEFECT_STATUSES, type DefectCategory, type DefectSeverity, type DefectStatus } from "../../domain/vocab";
+import {
+  DEFECT_CATEGORIES,
+  DEFECT_SEVERITIES,
+  DEFECT_STATUSES,
+  type DefectCategory,
+  type DefectSeverity,
+  type DefectStatus,
+} from "../../domain/vocab";
 
 /** Everything that makes a register view; it lives in the URL so a link shows the same view. */
 export interface RegisterState {
@@ -22,7 +29,8 @@ export interface RegisterState {
 
 export const PAGE_SIZES = [25, 50, 100] as const;
 export const DEFAULT_HIDDEN = ["createdAt", "costEstimate", "updatedAt"];
-const pick = <T extends string>(all: readonly T[], v: string[]) => v.filter((x): x is T => (all as readonly string[]).includes(x));
+const pick = <T extends string>(all: readonly T[], v: string[]) =>
+  v.filter((x): x is T => (all as readonly string[]).includes(x));
 
 export function readState(p: URLSearchParams): RegisterState {
   const sort = p.get("sort") as SortKey | null;
@@ -49,7 +57,8 @@ export function readState(p: URLSearchParams): RegisterState {
 export function writeState(s: RegisterState): string {
   const p = new URLSearchParams();
   if (s.q) p.set("q", s.q);
-  for (const k of ["board", "category", "severity", "status", "assignee", "flag"] as const) for (const v of s[k]) p.append(k, v);
+  for (const k of ["board", "category", "severity", "status", "assignee", "flag"] as const)
+    for (const v of s[k]) p.append(k, v);
   if (s.sort !== "priority") p.set("sort", s.sort);
   if (s.dir !== "desc") p.set("dir", s.dir);
   if (s.page) p.set("page", String(s.page));

@@ -1,13 +1,38 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { api, qs } from "../../lib/api-client";
 import {
-  boardDetailResponse, boardListResponse, boardSchema, componentSchema, createdPositionResponse, custodyOptionsResponse, custodyResponse, nextTagResponse,
-  dispositionResponse, floodEventListResponse, floodEventSchema, generatedPositionsResponse, importResponse,
-  inspectionSchema, lookupResponse, overviewResponse, positionDetailResponse, positionSchema, reorderedPositionsResponse,
+  boardDetailResponse,
+  boardListResponse,
+  boardSchema,
+  componentSchema,
+  createdPositionResponse,
+  custodyOptionsResponse,
+  custodyResponse,
+  nextTagResponse,
+  dispositionResponse,
+  floodEventListResponse,
+  floodEventSchema,
+  generatedPositionsResponse,
+  importResponse,
+  inspectionSchema,
+  lookupResponse,
+  overviewResponse,
+  positionDetailResponse,
+  positionSchema,
+  reorderedPositionsResponse,
   sectionSchema,
-  type CreateBoardBody, type CreateFloodEventBody, type CreateInspectionBody, type CreatePositionBody, type CustodyBody,
-  type DispositionBody, type GeneratePositionsBody, type PatchBoardBody, type PatchComponentBody, type PatchFloodEventBody,
-  type PatchPositionBody, type PatchSectionBody,
+  type CreateBoardBody,
+  type CreateFloodEventBody,
+  type CreateInspectionBody,
+  type CreatePositionBody,
+  type CustodyBody,
+  type DispositionBody,
+  type GeneratePositionsBody,
+  type PatchBoardBody,
+  type PatchComponentBody,
+  type PatchFloodEventBody,
+  type PatchPositionBody,
+  type PatchSectionBody,
 } from "../../schemas/inventory";
 
 /** Query keys for everything inventory; every write invalidates `all(siteId)`. */
@@ -19,17 +44,27 @@ export const inventoryKeys = {
   board: (siteId: string, boardId: string) => [...inventoryKeys.all(siteId), "board", boardId] as const,
   position: (siteId: string, positionId: string) => [...inventoryKeys.all(siteId), "position", positionId] as const,
   lookup: (siteId: string, q: string) => [...inventoryKeys.all(siteId), "lookup", q] as const,
-  custodyOptions: (siteId: string, componentId: string) => [...inventoryKeys.all(siteId), "custody-options", componentId] as const,
+  custodyOptions: (siteId: string, componentId: string) =>
+    [...inventoryKeys.all(siteId), "custody-options", componentId] as const,
 };
 
 const base = (siteId: string) => `/api/sites/${siteId}`;
 
 export const overviewQueryOptions = (siteId: string) =>
-  queryOptions({ queryKey: inventoryKeys.overview(siteId), queryFn: ({ signal }) => api.get(`${base(siteId)}/overview`, overviewResponse, signal) });
+  queryOptions({
+    queryKey: inventoryKeys.overview(siteId),
+    queryFn: ({ signal }) => api.get(`${base(siteId)}/overview`, overviewResponse, signal),
+  });
 export const floodEventsQueryOptions = (siteId: string) =>
-  queryOptions({ queryKey: inventoryKeys.floodEvents(siteId), queryFn: ({ signal }) => api.get(`${base(siteId)}/flood-events`, floodEventListResponse, signal) });
+  queryOptions({
+    queryKey: inventoryKeys.floodEvents(siteId),
+    queryFn: ({ signal }) => api.get(`${base(siteId)}/flood-events`, floodEventListResponse, signal),
+  });
 export const boardsQueryOptions = (siteId: string) =>
-  queryOptions({ queryKey: inventoryKeys.boards(siteId), queryFn: ({ signal }) => api.get(`${base(siteId)}/boards`, boardListResponse, signal) });
+  queryOptions({
+    queryKey: inventoryKeys.boards(siteId),
+    queryFn: ({ signal }) => api.get(`${base(siteId)}/boards`, boardListResponse, signal),
+  });
 export const boardQueryOptions = (siteId: string, boardId: string) =>
   queryOptions({
     queryKey: inventoryKeys.board(siteId, boardId),
@@ -44,7 +79,8 @@ export const positionQueryOptions = (siteId: string, positionId: string) =>
 export const useOverview = (siteId: string) => useQuery(overviewQueryOptions(siteId));
 export const useFloodEvents = (siteId: string) => useQuery(floodEventsQueryOptions(siteId));
 export const useBoards = (siteId: string) => useQuery(boardsQueryOptions(siteId));
-export const useBoard = (siteId: string, boardId: string) => useQuery({ ...boardQueryOptions(siteId, boardId), enabled: !!boardId });
+export const useBoard = (siteId: string, boardId: string) =>
+  useQuery({ ...boardQueryOptions(siteId, boardId), enabled: !!boardId });
 export const usePosition = (siteId: string, positionId: string | null) =>
   useQuery({ ...positionQueryOptions(siteId, positionId ?? ""), enabled: !!positionId });
 export const useLookup = (siteId: string, q: string) =>
@@ -58,69 +94,92 @@ export const useLookup = (siteId: string, q: string) =>
 /** Every inventory write invalidates the site's inventory queries (tiles, overview, history). */
 function useInventoryMutation<V, R>(siteId: string, fn: (v: V) => Promise<R>) {
   const qc = useQueryClient();
-  return useMutation({ mutationFn: fn, onSuccess: () => qc.invalidateQueries({ queryKey: inventoryKeys.all(siteId) }) });
+  return useMutation({
+    mutationFn: fn,
+    onSuccess: () => qc.invalidateQueries({ queryKey: inventoryKeys.all(siteId) }),
+  });
 }
 
 export const useCreateBoard = (siteId: string) =>
   useInventoryMutation(siteId, (b: CreateBoardBody) => api.send("POST", `${base(siteId)}/boards`, b, boardSchema));
 export const useUpdateBoard = (siteId: string, boardId: string) =>
-  useInventoryMutation(siteId, (b: PatchBoardBody) => api.send("PATCH", `${base(siteId)}/boards/${boardId}`, b, boardSchema));
+  useInventoryMutation(siteId, (b: PatchBoardBody) =>
+    api.send("PATCH", `${base(siteId)}/boards/${boardId}`, b, boardSchema),
+  );
 
 export const useSectionMutations = (siteId: string, boardId: string) => ({
-  create: useInventoryMutation(siteId, (b: { name: string }) => api.send("POST", `${base(siteId)}/boards/${boardId}/sections`, b, sectionSchema)),
+  create: useInventoryMutation(siteId, (b: { name: string }) =>
+    api.send("POST", `${base(siteId)}/boards/${boardId}/sections`, b, sectionSchema),
+  ),
   update: useInventoryMutation(siteId, ({ id, ...b }: PatchSectionBody & { id: string }) =>
-    api.send("PATCH", `${base(siteId)}/sections/${id}`, b, sectionSchema)),
+    api.send("PATCH", `${base(siteId)}/sections/${id}`, b, sectionSchema),
+  ),
   remove: useInventoryMutation(siteId, ({ id, version }: { id: string; version: number }) =>
-    api.raw("DELETE", `${base(siteId)}/sections/${id}${qs({ version })}`)),
+    api.raw("DELETE", `${base(siteId)}/sections/${id}${qs({ version })}`),
+  ),
 });
 
 export const usePositionMutations = (siteId: string, boardId: string) => ({
   create: useInventoryMutation(siteId, (b: CreatePositionBody) =>
-    api.send("POST", `${base(siteId)}/boards/${boardId}/positions`, b, createdPositionResponse)),
+    api.send("POST", `${base(siteId)}/boards/${boardId}/positions`, b, createdPositionResponse),
+  ),
   generate: useInventoryMutation(siteId, (b: GeneratePositionsBody) =>
-    api.send("POST", `${base(siteId)}/boards/${boardId}/positions/generate`, b, generatedPositionsResponse)),
+    api.send("POST", `${base(siteId)}/boards/${boardId}/positions/generate`, b, generatedPositionsResponse),
+  ),
   reorder: useInventoryMutation(siteId, (ids: string[]) =>
-    api.send("POST", `${base(siteId)}/boards/${boardId}/positions/reorder`, { ids }, reorderedPositionsResponse)),
+    api.send("POST", `${base(siteId)}/boards/${boardId}/positions/reorder`, { ids }, reorderedPositionsResponse),
+  ),
   update: useInventoryMutation(siteId, ({ id, ...b }: PatchPositionBody & { id: string }) =>
-    api.send("PATCH", `${base(siteId)}/positions/${id}`, b, positionSchema)),
+    api.send("PATCH", `${base(siteId)}/positions/${id}`, b, positionSchema),
+  ),
   remove: useInventoryMutation(siteId, ({ id, version }: { id: string; version: number }) =>
-    api.raw("DELETE", `${base(siteId)}/positions/${id}${qs({ version })}`)),
+    api.raw("DELETE", `${base(siteId)}/positions/${id}${qs({ version })}`),
+  ),
 });
 
 export const useUpdateComponent = (siteId: string) =>
   useInventoryMutation(siteId, ({ id, ...b }: PatchComponentBody & { id: string }) =>
-    api.send("PATCH", `${base(siteId)}/components/${id}`, b, componentSchema));
+    api.send("PATCH", `${base(siteId)}/components/${id}`, b, componentSchema),
+  );
 
 export const useLogInspection = (siteId: string) =>
   useInventoryMutation(siteId, ({ componentId, ...b }: CreateInspectionBody & { componentId: string }) =>
-    api.send("POST", `${base(siteId)}/components/${componentId}/inspections`, b, inspectionSchema));
+    api.send("POST", `${base(siteId)}/components/${componentId}/inspections`, b, inspectionSchema),
+  );
 
 /** The chain's verdict on every move from where the component is now, and the proposed next one. */
 export const useCustodyOptions = (siteId: string, componentId: string) =>
   useQuery({
     queryKey: inventoryKeys.custodyOptions(siteId, componentId),
-    queryFn: ({ signal }) => api.get(`${base(siteId)}/components/${componentId}/custody-options`, custodyOptionsResponse, signal),
+    queryFn: ({ signal }) =>
+      api.get(`${base(siteId)}/components/${componentId}/custody-options`, custodyOptionsResponse, signal),
   });
 /** The next free generated tag (T-0001…), fetched when the person asks for one. */
 export const fetchNextTag = (siteId: string) => api.get(`${base(siteId)}/tags/next`, nextTagResponse);
 
 export const useMoveCustody = (siteId: string) =>
   useInventoryMutation(siteId, ({ componentId, ...b }: CustodyBody & { componentId: string }) =>
-    api.send("POST", `${base(siteId)}/components/${componentId}/custody`, b, custodyResponse));
+    api.send("POST", `${base(siteId)}/components/${componentId}/custody`, b, custodyResponse),
+  );
 
 export const useDecideDisposition = (siteId: string) =>
   useInventoryMutation(siteId, ({ componentId, ...b }: DispositionBody & { componentId: string }) =>
-    api.send("PUT", `${base(siteId)}/components/${componentId}/disposition`, b, dispositionResponse));
+    api.send("PUT", `${base(siteId)}/components/${componentId}/disposition`, b, dispositionResponse),
+  );
 
 export const useFloodEventMutations = (siteId: string) => ({
-  create: useInventoryMutation(siteId, (b: CreateFloodEventBody) => api.send("POST", `${base(siteId)}/flood-events`, b, floodEventSchema)),
+  create: useInventoryMutation(siteId, (b: CreateFloodEventBody) =>
+    api.send("POST", `${base(siteId)}/flood-events`, b, floodEventSchema),
+  ),
   update: useInventoryMutation(siteId, ({ id, ...b }: PatchFloodEventBody & { id: string }) =>
-    api.send("PATCH", `${base(siteId)}/flood-events/${id}`, b, floodEventSchema)),
+    api.send("PATCH", `${base(siteId)}/flood-events/${id}`, b, floodEventSchema),
+  ),
 });
 
 /** Preview writes nothing; commit is all-or-nothing (a bad row → 400 import_invalid, nothing written). */
 export const useImportInventory = (siteId: string) =>
   useInventoryMutation(siteId, ({ csv, mode }: { csv: string; mode: "preview" | "commit" }) =>
-    api.send("POST", `${base(siteId)}/inventory/import${qs({ mode })}`, { csv }, importResponse));
+    api.send("POST", `${base(siteId)}/inventory/import${qs({ mode })}`, { csv }, importResponse),
+  );
 
 export const inventoryCsvHref = (siteId: string) => `${base(siteId)}/inventory.csv`;

@@ -19,7 +19,8 @@ export const invitationKeys = {
 export const invitationsQueryOptions = (siteId: string) =>
   queryOptions({
     queryKey: invitationKeys.list(siteId),
-    queryFn: ({ signal }) => api.get(`/api/sites/${siteId}/invitations`, invitationsResponse, signal).then((d) => d.invitations),
+    queryFn: ({ signal }) =>
+      api.get(`/api/sites/${siteId}/invitations`, invitationsResponse, signal).then((d) => d.invitations),
     // While an e-mail waits in the outbox, look again every two seconds until it has gone.
     refetchInterval: (q) => (q.state.data?.some((i) => i.sendStatus === "pending" && !i.expired) ? 2000 : false),
   });
@@ -27,19 +28,27 @@ export const useInvitations = (siteId: string) => useQuery(invitationsQueryOptio
 
 export function useInvitationMutations(siteId: string) {
   const qc = useQueryClient();
-  const setList = (d: { invitations: z.infer<typeof invitationSchema>[] }) => qc.setQueryData(invitationKeys.list(siteId), d.invitations);
+  const setList = (d: { invitations: z.infer<typeof invitationSchema>[] }) =>
+    qc.setQueryData(invitationKeys.list(siteId), d.invitations);
   return {
     create: useMutation({
-      mutationFn: (b: { email: string; role: Role }) => api.send("POST", `/api/sites/${siteId}/invitations`, b, createInvitationResponse),
+      mutationFn: (b: { email: string; role: Role }) =>
+        api.send("POST", `/api/sites/${siteId}/invitations`, b, createInvitationResponse),
       onSuccess: setList,
     }),
     resend: useMutation({
       mutationFn: (id: string) =>
-        api.send("POST", `/api/sites/${siteId}/invitations/${id}/resend`, {}, invitationsResponse.extend({ invitation: invitationSchema })),
+        api.send(
+          "POST",
+          `/api/sites/${siteId}/invitations/${id}/resend`,
+          {},
+          invitationsResponse.extend({ invitation: invitationSchema }),
+        ),
       onSuccess: setList,
     }),
     revoke: useMutation({
-      mutationFn: (id: string) => api.send("DELETE", `/api/sites/${siteId}/invitations/${id}`, undefined, invitationsResponse),
+      mutationFn: (id: string) =>
+        api.send("DELETE", `/api/sites/${siteId}/invitations/${id}`, undefined, invitationsResponse),
       onSuccess: setList,
     }),
   };
@@ -48,7 +57,10 @@ export function useInvitationMutations(siteId: string) {
 export const useInvitationPreview = (token: string) =>
   useQuery({
     queryKey: invitationKeys.preview(token),
-    queryFn: ({ signal }) => api.get(`/api/invitations/${token}`, z.object({ invitation: invitationPreview }), signal).then((d) => d.invitation),
+    queryFn: ({ signal }) =>
+      api
+        .get(`/api/invitations/${token}`, z.object({ invitation: invitationPreview }), signal)
+        .then((d) => d.invitation),
     staleTime: Infinity,
   });
 
@@ -56,7 +68,8 @@ export const useInvitationPreview = (token: string) =>
 export function useAcceptInvitation(token: string) {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (b: { name?: string; password: string }) => api.send("POST", `/api/invitations/${token}/accept`, b, acceptInvitationResponse),
+    mutationFn: (b: { name?: string; password: string }) =>
+      api.send("POST", `/api/invitations/${token}/accept`, b, acceptInvitationResponse),
     onSuccess: () => qc.invalidateQueries(),
   });
 }

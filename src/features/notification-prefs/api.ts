@@ -2,12 +2,16 @@ import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/r
 import { api } from "../../lib/api-client";
 import { notificationPrefsResponse, type NotificationKey } from "../../schemas/account";
 
-export const notificationKeys = { all: ["notification-prefs"] as const, mine: () => [...notificationKeys.all, "mine"] as const };
+export const notificationKeys = {
+  all: ["notification-prefs"] as const,
+  mine: () => [...notificationKeys.all, "mine"] as const,
+};
 
 export const notificationPrefsQueryOptions = () =>
   queryOptions({
     queryKey: notificationKeys.mine(),
-    queryFn: ({ signal }) => api.get("/api/account/notifications", notificationPrefsResponse, signal).then((d) => d.prefs),
+    queryFn: ({ signal }) =>
+      api.get("/api/account/notifications", notificationPrefsResponse, signal).then((d) => d.prefs),
   });
 export const useNotificationPrefs = () => useQuery(notificationPrefsQueryOptions());
 

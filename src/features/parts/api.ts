@@ -2,8 +2,17 @@ import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient }
 import { z } from "zod";
 import { api, qs } from "../../lib/api-client";
 import {
-  leadSchema, lineDetailResponse, lineSchema, listResponse, shareLinkSchema, sharedListResponse,
-  type CreateLineBody, type LeadBody, type ListQuery, type StatusBody, type UpdateLineBody,
+  leadSchema,
+  lineDetailResponse,
+  lineSchema,
+  listResponse,
+  shareLinkSchema,
+  sharedListResponse,
+  type CreateLineBody,
+  type LeadBody,
+  type ListQuery,
+  type StatusBody,
+  type UpdateLineBody,
 } from "../../schemas/parts";
 import type { HeritageRule } from "../../domain/vocab";
 
@@ -16,9 +25,21 @@ export const partsKeys = {
 };
 
 const base = (siteId: string) => `/api/sites/${siteId}/parts`;
-const filterQs = (f: ListQuery) => qs({ status: f.status, boardId: f.boardId, kind: f.kind, heritageRule: f.heritageRule, q: f.q, sort: f.sort, dir: f.dir, page: f.page as number | undefined, size: f.size as number | undefined });
+const filterQs = (f: ListQuery) =>
+  qs({
+    status: f.status,
+    boardId: f.boardId,
+    kind: f.kind,
+    heritageRule: f.heritageRule,
+    q: f.q,
+    sort: f.sort,
+    dir: f.dir,
+    page: f.page as number | undefined,
+    size: f.size as number | undefined,
+  });
 /** The CSV holds every line of the filter, in the list's order (no page). */
-export const csvUrl = (siteId: string, f: ListQuery) => `${base(siteId)}.csv${filterQs({ ...f, page: undefined, size: undefined })}`;
+export const csvUrl = (siteId: string, f: ListQuery) =>
+  `${base(siteId)}.csv${filterQs({ ...f, page: undefined, size: undefined })}`;
 export const thumbUrl = (siteId: string, photoId: string) => `${base(siteId)}/photos/${photoId}/thumb`;
 
 export const partsListQueryOptions = (siteId: string, f: ListQuery) =>
@@ -30,7 +51,10 @@ export const partsListQueryOptions = (siteId: string, f: ListQuery) =>
 export const usePartsList = (siteId: string, f: ListQuery) => useQuery(partsListQueryOptions(siteId, f));
 
 export const useLineDetail = (siteId: string, lineId: string) =>
-  useQuery({ queryKey: partsKeys.detail(siteId, lineId), queryFn: ({ signal }) => api.get(`${base(siteId)}/${lineId}`, lineDetailResponse, signal) });
+  useQuery({
+    queryKey: partsKeys.detail(siteId, lineId),
+    queryFn: ({ signal }) => api.get(`${base(siteId)}/${lineId}`, lineDetailResponse, signal),
+  });
 
 const lineResponse = z.object({ line: lineSchema });
 
@@ -40,15 +64,20 @@ function useWrite<TVars, TData>(siteId: string, fn: (v: TVars) => Promise<TData>
   return useMutation({ mutationFn: fn, onSuccess: () => qc.invalidateQueries({ queryKey: partsKeys.all(siteId) }) });
 }
 
-export const useCreateLine = (siteId: string) => useWrite(siteId, (b: CreateLineBody) => api.send("POST", base(siteId), b, lineResponse).then((d) => d.line));
+export const useCreateLine = (siteId: string) =>
+  useWrite(siteId, (b: CreateLineBody) => api.send("POST", base(siteId), b, lineResponse).then((d) => d.line));
 export const useUpdateLine = (siteId: string, lineId: string) =>
   useWrite(siteId, (b: UpdateLineBody) => api.send("PATCH", `${base(siteId)}/${lineId}`, b, lineResponse));
 export const useSetHeritageRule = (siteId: string, lineId: string) =>
-  useWrite(siteId, (b: { version: number; heritageRule: HeritageRule }) => api.send("PUT", `${base(siteId)}/${lineId}/heritage-rule`, b, lineResponse));
+  useWrite(siteId, (b: { version: number; heritageRule: HeritageRule }) =>
+    api.send("PUT", `${base(siteId)}/${lineId}/heritage-rule`, b, lineResponse),
+  );
 export const useMoveStatus = (siteId: string, lineId: string) =>
   useWrite(siteId, (b: StatusBody) => api.send("POST", `${base(siteId)}/${lineId}/status`, b, lineResponse));
 export const useAddLead = (siteId: string, lineId: string) =>
-  useWrite(siteId, (b: LeadBody) => api.send("POST", `${base(siteId)}/${lineId}/leads`, b, z.object({ lead: leadSchema })));
+  useWrite(siteId, (b: LeadBody) =>
+    api.send("POST", `${base(siteId)}/${lineId}/leads`, b, z.object({ lead: leadSchema })),
+  );
 export const useUpdateLead = (siteId: string) =>
   useWrite(siteId, (b: { leadId: string; version: number } & Partial<LeadBody>) => {
     const { leadId, ...body } = b;
@@ -57,11 +86,26 @@ export const useUpdateLead = (siteId: string) =>
 
 const linksResponse = z.object({ links: z.array(shareLinkSchema) });
 export const useShareLinks = (siteId: string, enabled: boolean) =>
-  useQuery({ queryKey: partsKeys.shareLinks(siteId), queryFn: ({ signal }) => api.get(`${base(siteId)}/share-links`, linksResponse, signal), enabled });
+  useQuery({
+    queryKey: partsKeys.shareLinks(siteId),
+    queryFn: ({ signal }) => api.get(`${base(siteId)}/share-links`, linksResponse, signal),
+    enabled,
+  });
 export const useCreateShareLink = (siteId: string) =>
-  useWrite(siteId, (b: { label: string }) => api.send("POST", `${base(siteId)}/share-links`, b, z.object({ link: shareLinkSchema, token: z.string(), url: z.string() })));
+  useWrite(siteId, (b: { label: string }) =>
+    api.send(
+      "POST",
+      `${base(siteId)}/share-links`,
+      b,
+      z.object({ link: shareLinkSchema, token: z.string(), url: z.string() }),
+    ),
+  );
 export const useRevokeShareLink = (siteId: string) =>
   useWrite(siteId, (id: string) => api.send("DELETE", `${base(siteId)}/share-links/${id}`, undefined, linksResponse));
 
 export const useSharedList = (token: string) =>
-  useQuery({ queryKey: partsKeys.shared(token), queryFn: ({ signal }) => api.get(`/api/share/parts/${token}`, sharedListResponse, signal), retry: false });
+  useQuery({
+    queryKey: partsKeys.shared(token),
+    queryFn: ({ signal }) => api.get(`/api/share/parts/${token}`, sharedListResponse, signal),
+    retry: false,
+  });

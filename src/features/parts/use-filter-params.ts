@@ -7,6 +7,12 @@ export function useFilterParams(): [ListQuery, (f: ListQuery) => void, string] {
   const parsed = listQuery.safeParse(Object.fromEntries(params));
   const filter = parsed.success ? parsed.data : { status: "open" as const };
   const set = (f: ListQuery) =>
-    setParams(Object.fromEntries(Object.entries(f).filter(([k, v]) => v && !(k === "status" && v === "open"))) as Record<string, string>, { replace: true });
+    setParams(
+      Object.fromEntries(Object.entries(f).filter(([k, v]) => v && !(k === "status" && v === "open"))) as Record<
+        string,
+        string
+      >,
+      { replace: true },
+    );
   return [filter, set, params.toString() ? `?${params.toString()}` : ""];
 }

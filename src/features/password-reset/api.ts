@@ -3,10 +3,15 @@ import { z } from "zod";
 import { api } from "../../lib/api-client";
 import { resetPreview, resetRequestResponse } from "../../schemas/account";
 
-export const resetKeys = { all: ["password-reset"] as const, preview: (token: string) => [...resetKeys.all, token] as const };
+export const resetKeys = {
+  all: ["password-reset"] as const,
+  preview: (token: string) => [...resetKeys.all, token] as const,
+};
 
 export const useRequestReset = () =>
-  useMutation({ mutationFn: (email: string) => api.send("POST", "/api/auth/password-reset", { email }, resetRequestResponse) });
+  useMutation({
+    mutationFn: (email: string) => api.send("POST", "/api/auth/password-reset", { email }, resetRequestResponse),
+  });
 
 export const useResetPreview = (token: string) =>
   useQuery({
@@ -19,7 +24,8 @@ export const useResetPreview = (token: string) =>
 export function useCompleteReset(token: string) {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (password: string) => api.send("POST", `/api/auth/password-reset/${token}`, { password }, z.object({ ok: z.boolean() })),
+    mutationFn: (password: string) =>
+      api.send("POST", `/api/auth/password-reset/${token}`, { password }, z.object({ ok: z.boolean() })),
     onSuccess: () => qc.invalidateQueries(),
   });
 }

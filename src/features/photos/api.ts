@@ -1,7 +1,15 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { z } from "zod";
 import { api, qs } from "../../lib/api-client";
-import { photoSchema, photoSettingsSchema, photoTargetSchema, shootListSchema, type BulkAssign, type Photo, type PhotoPatch } from "../../schemas/photos";
+import {
+  photoSchema,
+  photoSettingsSchema,
+  photoTargetSchema,
+  shootListSchema,
+  type BulkAssign,
+  type Photo,
+  type PhotoPatch,
+} from "../../schemas/photos";
 import type { PhotoKind } from "../../domain/vocab";
 
 export interface PhotoFilter {
@@ -32,24 +40,35 @@ export const photosQueryOptions = (siteId: string, f: PhotoFilter) =>
     queryKey: photoKeys.list(siteId, f),
     queryFn: ({ signal }) =>
       api
-        .get(`/api/sites/${siteId}/photos${qs({ boardId: f.boardId, positionId: f.positionId, inspectionId: f.inspectionId, custodyMoveId: f.custodyMoveId, defectId: f.defectId, unassigned: f.unassigned ? "1" : undefined, ids: f.ids?.join(",") })}`, listResponse, signal)
+        .get(
+          `/api/sites/${siteId}/photos${qs({ boardId: f.boardId, positionId: f.positionId, inspectionId: f.inspectionId, custodyMoveId: f.custodyMoveId, defectId: f.defectId, unassigned: f.unassigned ? "1" : undefined, ids: f.ids?.join(",") })}`,
+          listResponse,
+          signal,
+        )
         .then((d) => d.photos),
     // While a photo's renditions are being made, look again every two seconds.
     refetchInterval: (q) => (q.state.data?.some((p) => p.renditionState === "processing") ? 2000 : false),
   });
-export const usePhotos = (siteId: string, f: PhotoFilter, enabled = true) => useQuery({ ...photosQueryOptions(siteId, f), enabled });
+export const usePhotos = (siteId: string, f: PhotoFilter, enabled = true) =>
+  useQuery({ ...photosQueryOptions(siteId, f), enabled });
 
 export const usePhotoTargets = (siteId: string) =>
   useQuery({
     queryKey: photoKeys.targets(siteId),
-    queryFn: ({ signal }) => api.get(`/api/sites/${siteId}/photo-targets`, z.object({ targets: z.array(photoTargetSchema) }), signal).then((d) => d.targets),
+    queryFn: ({ signal }) =>
+      api
+        .get(`/api/sites/${siteId}/photo-targets`, z.object({ targets: z.array(photoTargetSchema) }), signal)
+        .then((d) => d.targets),
     staleTime: 60_000,
   });
 
 export const usePhotoSettings = (siteId: string) =>
   useQuery({
     queryKey: photoKeys.settings(siteId),
-    queryFn: ({ signal }) => api.get(`/api/sites/${siteId}/photo-settings`, z.object({ settings: photoSettingsSchema }), signal).then((d) => d.settings),
+    queryFn: ({ signal }) =>
+      api
+        .get(`/api/sites/${siteId}/photo-settings`, z.object({ settings: photoSettingsSchema }), signal)
+        .then((d) => d.settings),
   });
 
 export const useShootList = (siteId: string, boardId: string | undefined) =>
@@ -62,7 +81,11 @@ export const useShootList = (siteId: string, boardId: string | undefined) =>
 function useInvalidate(siteId: string) {
   const qc = useQueryClient();
   // Board tiles count photos too (their photoCount comes from the inventory's queries).
-  return () => Promise.all([qc.invalidateQueries({ queryKey: photoKeys.all(siteId) }), qc.invalidateQueries({ queryKey: ["inventory"] })]);
+  return () =>
+    Promise.all([
+      qc.invalidateQueries({ queryKey: photoKeys.all(siteId) }),
+      qc.invalidateQueries({ queryKey: ["inventory"] }),
+    ]);
 }
 
 export function usePhotoMutations(siteId: string) {
@@ -70,20 +93,26 @@ export function usePhotoMutations(siteId: string) {
   return {
     patch: useMutation({
       mutationFn: ({ id, ...body }: PhotoPatch & { id: string }) =>
-        api.send("PATCH", `/api/sites/${siteId}/photos/${id}`, body, z.object({ photo: photoSchema })).then((d) => d.photo),
+        api
+          .send("PATCH", `/api/sites/${siteId}/photos/${id}`, body, z.object({ photo: photoSchema }))
+          .then((d) => d.photo),
       onSettled: invalidate,
     }),
     assign: useMutation({
-      mutationFn: (body: BulkAssign) => api.send("POST", `/api/sites/${siteId}/photos/assign`, body, listResponse).then((d) => d.photos),
+      mutationFn: (body: BulkAssign) =>
+        api.send("POST", `/api/sites/${siteId}/photos/assign`, body, listResponse).then((d) => d.photos),
       onSettled: invalidate,
     }),
     remove: useMutation({
-      mutationFn: (id: string) => api.send("DELETE", `/api/sites/${siteId}/photos/${id}`, undefined, z.object({ ok: z.boolean() })),
+      mutationFn: (id: string) =>
+        api.send("DELETE", `/api/sites/${siteId}/photos/${id}`, undefined, z.object({ ok: z.boolean() })),
       onSettled: invalidate,
     }),
     saveSettings: useMutation({
       mutationFn: (body: { requiredKinds: PhotoKind[]; version: number }) =>
-        api.send("PUT", `/api/sites/${siteId}/photo-settings`, body, z.object({ settings: photoSettingsSchema })).then((d) => d.settings),
+        api
+          .send("PUT", `/api/sites/${siteId}/photo-settings`, body, z.object({ settings: photoSettingsSchema }))
+          .then((d) => d.settings),
       onSettled: invalidate,
     }),
     invalidate,
@@ -105,13 +134,20 @@ export interface UploadTags {
  * does (xhr.upload "progress" events). Resolves with the stored photo; rejects with
  * the server's message.
  */
-export function uploadOne(siteId: string, file: File, tags: UploadTags, onProgress: (fraction: number) => void, signal?: AbortSignal): Promise<Photo> {
+export function uploadOne(
+  siteId: string,
+  file: File,
+  tags: UploadTags,
+  onProgress: (fraction: number) => void,
+  signal?: AbortSignal,
+): Promise<Photo> {
   return new Promise((resolve, reject) => {
     const xhr = new XMLHttpRequest();
     const fd = new FormData();
     fd.append("kind", tags.kind);
     if (tags.caption) fd.append("caption", tags.caption);
-    for (const k of ["boardId", "positionId", "inspectionId", "custodyMoveId", "defectId"] as const) if (tags[k]) fd.append(k, tags[k]!);
+    for (const k of ["boardId", "positionId", "inspectionId", "custodyMoveId", "defectId"] as const)
+      if (tags[k]) fd.append(k, tags[k]!);
     fd.append("files", file, file.name);
     xhr.open("POST", `/api/sites/${siteId}/photos`);
     xhr.responseType = "json";

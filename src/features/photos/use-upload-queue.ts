@@ -47,7 +47,11 @@ export function useUploadQueue(siteId: string, onDone?: (p: Photo) => void) {
     (item: UploadItem) => {
       dispatch({ type: "patch", key: item.key, patch: { state: "uploading", progress: 0 } });
       uploadOne(siteId, item.file, item.tags, (f) =>
-        dispatch({ type: "patch", key: item.key, patch: f >= 1 ? { state: "processing", progress: 1 } : { progress: f } }),
+        dispatch({
+          type: "patch",
+          key: item.key,
+          patch: f >= 1 ? { state: "processing", progress: 1 } : { progress: f },
+        }),
       )
         .then((photo) => {
           dispatch({ type: "patch", key: item.key, patch: { state: "done", progress: 1, photo } });
@@ -61,7 +65,9 @@ export function useUploadQueue(siteId: string, onDone?: (p: Photo) => void) {
 
   useEffect(() => {
     const active = items.filter((i) => i.state === "uploading" || i.state === "processing").length;
-    const next = items.filter((i) => i.state === "queued" && !started.current.has(i.key)).slice(0, Math.max(0, PARALLEL_UPLOADS - active));
+    const next = items
+      .filter((i) => i.state === "queued" && !started.current.has(i.key))
+      .slice(0, Math.max(0, PARALLEL_UPLOADS - active));
     for (const i of next) {
       started.current.add(i.key);
       start(i);
@@ -84,7 +90,10 @@ export function useUploadQueue(siteId: string, onDone?: (p: Photo) => void) {
     items,
     inFlight,
     add: (files: File[], tags: UploadTags) =>
-      dispatch({ type: "add", items: files.map((file) => ({ key: `u${++counter}`, file, tags, state: "queued" as const, progress: 0 })) }),
+      dispatch({
+        type: "add",
+        items: files.map((file) => ({ key: `u${++counter}`, file, tags, state: "queued" as const, progress: 0 })),
+      }),
     retry: (key: string) => dispatch({ type: "retry", key }),
     clearDone: () => dispatch({ type: "clearDone" }),
   };

@@ -33,12 +33,16 @@ const site = (siteId: string) => `/api/sites/${siteId}`;
 export const targetsQueryOptions = (siteId: string) =>
   queryOptions({
     queryKey: readingKeys.targets(siteId),
-    queryFn: ({ signal }) => api.get(`${site(siteId)}/readings/targets`, readingTargetsSchema, signal).then((d) => d.boards),
+    queryFn: ({ signal }) =>
+      api.get(`${site(siteId)}/readings/targets`, readingTargetsSchema, signal).then((d) => d.boards),
   });
 export const criteriaQueryOptions = (siteId: string) =>
   queryOptions({
     queryKey: readingKeys.criteria(siteId),
-    queryFn: ({ signal }) => api.get(`${site(siteId)}/readings/criteria`, z.object({ criteria: criteriaSchema }), signal).then((d) => d.criteria),
+    queryFn: ({ signal }) =>
+      api
+        .get(`${site(siteId)}/readings/criteria`, z.object({ criteria: criteriaSchema }), signal)
+        .then((d) => d.criteria),
   });
 export const boardReadingsQueryOptions = (siteId: string, boardId: string) =>
   queryOptions({
@@ -48,20 +52,30 @@ export const boardReadingsQueryOptions = (siteId: string, boardId: string) =>
 export const componentReadingsQueryOptions = (siteId: string, componentId: string) =>
   queryOptions({
     queryKey: readingKeys.component(siteId, componentId),
-    queryFn: ({ signal }) => api.get(`${site(siteId)}/components/${componentId}/readings`, componentReadingsSchema, signal),
+    queryFn: ({ signal }) =>
+      api.get(`${site(siteId)}/components/${componentId}/readings`, componentReadingsSchema, signal),
   });
 export const latestGroundQueryOptions = (siteId: string, boardId: string) =>
   queryOptions({
     queryKey: readingKeys.latestGround(siteId, boardId),
     queryFn: ({ signal }) =>
-      api.get(`${site(siteId)}/boards/${boardId}/ground-checks/latest`, z.object({ check: groundCheckSchema.nullable() }), signal).then((d) => d.check),
+      api
+        .get(
+          `${site(siteId)}/boards/${boardId}/ground-checks/latest`,
+          z.object({ check: groundCheckSchema.nullable() }),
+          signal,
+        )
+        .then((d) => d.check),
   });
 
 export const useReadingTargets = (siteId: string) => useQuery(targetsQueryOptions(siteId));
 export const useCriteria = (siteId: string) => useQuery(criteriaQueryOptions(siteId));
-export const useBoardReadings = (siteId: string, boardId: string) => useQuery(boardReadingsQueryOptions(siteId, boardId));
-export const useComponentReadings = (siteId: string, componentId: string) => useQuery(componentReadingsQueryOptions(siteId, componentId));
-export const useLatestGroundCheck = (siteId: string, boardId: string) => useQuery(latestGroundQueryOptions(siteId, boardId));
+export const useBoardReadings = (siteId: string, boardId: string) =>
+  useQuery(boardReadingsQueryOptions(siteId, boardId));
+export const useComponentReadings = (siteId: string, componentId: string) =>
+  useQuery(componentReadingsQueryOptions(siteId, componentId));
+export const useLatestGroundCheck = (siteId: string, boardId: string) =>
+  useQuery(latestGroundQueryOptions(siteId, boardId));
 
 /** Every write re-reads the site's readings: verdicts depend on criteria and on each other. */
 function useSiteMutation<B, R>(siteId: string, fn: (b: B) => Promise<R>) {
@@ -71,21 +85,61 @@ function useSiteMutation<B, R>(siteId: string, fn: (b: B) => Promise<R>) {
 
 export const useRecordInsulation = (siteId: string, boardId: string) =>
   useSiteMutation(siteId, (b: InsulationReadingBody) =>
-    api.send("POST", `${site(siteId)}/boards/${boardId}/insulation-readings`, b, z.object({ reading: insulationReadingSchema })).then((d) => d.reading));
+    api
+      .send(
+        "POST",
+        `${site(siteId)}/boards/${boardId}/insulation-readings`,
+        b,
+        z.object({ reading: insulationReadingSchema }),
+      )
+      .then((d) => d.reading),
+  );
 export const useRecordContact = (siteId: string) =>
   useSiteMutation(siteId, ({ componentId, ...b }: ContactReadingBody & { componentId: string }) =>
-    api.send("POST", `${site(siteId)}/components/${componentId}/contact-readings`, b, z.object({ reading: contactReadingSchema })).then((d) => d.reading));
+    api
+      .send(
+        "POST",
+        `${site(siteId)}/components/${componentId}/contact-readings`,
+        b,
+        z.object({ reading: contactReadingSchema }),
+      )
+      .then((d) => d.reading),
+  );
 export const useRecordThermal = (siteId: string) =>
   useSiteMutation(siteId, ({ componentId, ...b }: ThermalScanBody & { componentId: string }) =>
-    api.send("POST", `${site(siteId)}/components/${componentId}/thermal-scans`, b, z.object({ scan: thermalScanSchema })).then((d) => d.scan));
+    api
+      .send("POST", `${site(siteId)}/components/${componentId}/thermal-scans`, b, z.object({ scan: thermalScanSchema }))
+      .then((d) => d.scan),
+  );
 export const useRecordGroundCheck = (siteId: string, boardId: string) =>
   useSiteMutation(siteId, (b: GroundCheckBody) =>
-    api.send("POST", `${site(siteId)}/boards/${boardId}/ground-checks`, b, z.object({ check: groundCheckSchema })).then((d) => d.check));
+    api
+      .send("POST", `${site(siteId)}/boards/${boardId}/ground-checks`, b, z.object({ check: groundCheckSchema }))
+      .then((d) => d.check),
+  );
 export const useSaveCriteria = (siteId: string) =>
   useSiteMutation(siteId, (b: CriteriaBody) =>
-    api.send("PUT", `${site(siteId)}/readings/criteria`, b, z.object({ criteria: criteriaSchema })).then((d) => d.criteria));
+    api
+      .send("PUT", `${site(siteId)}/readings/criteria`, b, z.object({ criteria: criteriaSchema }))
+      .then((d) => d.criteria),
+  );
 export const useSaveOverride = (siteId: string, componentId: string) =>
   useSiteMutation(siteId, (b: OverrideBody) =>
-    api.send("PUT", `${site(siteId)}/components/${componentId}/reading-override`, b, z.object({ override: overrideSchema })).then((d) => d.override));
+    api
+      .send(
+        "PUT",
+        `${site(siteId)}/components/${componentId}/reading-override`,
+        b,
+        z.object({ override: overrideSchema }),
+      )
+      .then((d) => d.override),
+  );
 export const useRemoveOverride = (siteId: string, componentId: string) =>
-  useSiteMutation(siteId, () => api.send("DELETE", `${site(siteId)}/components/${componentId}/reading-override`, undefined, z.object({ override: z.null() })));
+  useSiteMutation(siteId, () =>
+    api.send(
+      "DELETE",
+      `${site(siteId)}/components/${componentId}/reading-override`,
+      undefined,
+      z.object({ override: z.null() }),
+    ),
+  );

@@ -17,9 +17,14 @@ export function dryOutSeries(readings: InsulationReading[]) {
   const usable = readings.filter((r) => r.judgement.correctedMegohms != null && r.judgement.correctedMegohms > 0);
   const toPoint = (r: InsulationReading): Point => ({ t: Date.parse(r.measuredAt), y: r.judgement.correctedMegohms! });
   const byTime = (a: Point, b: Point) => a.t - b.t;
-  const valid = usable.filter((r) => r.judgement.validForJudging !== false).sort((a, b) => Date.parse(a.measuredAt) - Date.parse(b.measuredAt));
+  const valid = usable
+    .filter((r) => r.judgement.validForJudging !== false)
+    .sort((a, b) => Date.parse(a.measuredAt) - Date.parse(b.measuredAt));
   const points = valid.map(toPoint);
-  const excluded = usable.filter((r) => r.judgement.validForJudging === false).map(toPoint).sort(byTime);
+  const excluded = usable
+    .filter((r) => r.judgement.validForJudging === false)
+    .map(toPoint)
+    .sort(byTime);
   const zeros = readings.filter((r) => r.judgement.correctedMegohms === 0).length;
   if (points.length === 0 && excluded.length === 0) return null;
   const newest = [...readings].sort((a, b) => Date.parse(b.measuredAt) - Date.parse(a.measuredAt))[0];
@@ -29,18 +34,40 @@ export function dryOutSeries(readings: InsulationReading[]) {
   const all = [...points, ...excluded];
   const t0 = Math.min(...all.map((p) => p.t));
   const assessment = assessDryOut(
-    valid.map((r) => ({ hours: (Date.parse(r.measuredAt) - t0) / HOUR, megohms: r.judgement.correctedMegohms!, temperatureC: r.equipmentTempC, pi: r.judgement.piBound === "exact" || r.judgement.piBound === "at_least" ? r.judgement.pi : null })),
+    valid.map((r) => ({
+      hours: (Date.parse(r.measuredAt) - t0) / HOUR,
+      megohms: r.judgement.correctedMegohms!,
+      temperatureC: r.equipmentTempC,
+      pi: r.judgement.piBound === "exact" || r.judgement.piBound === "at_least" ? r.judgement.pi : null,
+    })),
     minimum,
     { minimumPi },
   );
   const last = points[points.length - 1];
   const h = assessment.hoursToTarget?.central ?? null;
-  const extension = last && h != null && h > 0 && h <= MAX_FORECAST_HOURS ? [{ t: last.t, y: last.y }, { t: last.t + h * HOUR, y: minimum }] : null;
+  const extension =
+    last && h != null && h > 0 && h <= MAX_FORECAST_HOURS
+      ? [
+          { t: last.t, y: last.y },
+          { t: last.t + h * HOUR, y: minimum },
+        ]
+      : null;
   const ys = [...all.map((p) => p.y), minimum];
   const lo = Math.pow(10, Math.floor(Math.log10(Math.min(...ys) * 0.9)));
   const hi = Math.pow(10, Math.ceil(Math.log10(Math.max(...ys) * 1.1)));
   const tMax = Math.max(...all.map((p) => p.t), extension ? extension[1].t : -Infinity);
-  return { points, excluded, zeros, minimum, baseC, assessment, extension, yDomain: [lo, hi] as [number, number], xDomain: [t0, tMax] as [number, number], yTicks: logTicks(lo, hi) };
+  return {
+    points,
+    excluded,
+    zeros,
+    minimum,
+    baseC,
+    assessment,
+    extension,
+    yDomain: [lo, hi] as [number, number],
+    xDomain: [t0, tMax] as [number, number],
+    yTicks: logTicks(lo, hi),
+  };
 }
 
 /** Powers of ten, with 2× and 5× when the axis spans few decades. */
@@ -56,16 +83,25 @@ export function logTicks(lo: number, hi: number) {
 
 export function forecastWords(s: NonNullable<ReturnType<typeof dryOutSeries>>) {
   const a = s.assessment;
-  const skipped = s.excluded.length ? ` ${s.excluded.length} reading${s.excluded.length > 1 ? "s" : ""} not valid for judging (dew point or freezing) left out.` : "";
-  const rate = a.slopePerHour != null && a.slopePerHour > 0 ? ` (doubling about every ${span(Math.LN2 / a.slopePerHour)})` : "";
+  const skipped = s.excluded.length
+    ? ` ${s.excluded.length} reading${s.excluded.length > 1 ? "s" : ""} not valid for judging (dew point or freezing) left out.`
+    : "";
+  const rate =
+    a.slopePerHour != null && a.slopePerHour > 0 ? ` (doubling about every ${span(Math.LN2 / a.slopePerHour)})` : "";
   switch (a.state) {
     case "complete":
     case "reached":
       return `The latest corrected reading reaches the ${fmt(s.minimum)} MΩ minimum. ${a.message}${skipped}`; // "Dry-out not yet shown complete: …" or "Dry-out criterion met: …"
     case "rising": {
       const r = a.hoursToTarget!;
-      if (r.central > MAX_FORECAST_HOURS) return `Estimate, not a promise: at the recent rate${rate} the minimum is more than 60 days away; not drawn.${skipped}`;
-      const range = r.high == null ? ` (at the soonest ${span(r.low)}; no upper bound from these readings)` : span(r.low) === span(r.high) ? "" : ` (range ${span(r.low)} to ${span(r.high)})`;
+      if (r.central > MAX_FORECAST_HOURS)
+        return `Estimate, not a promise: at the recent rate${rate} the minimum is more than 60 days away; not drawn.${skipped}`;
+      const range =
+        r.high == null
+          ? ` (at the soonest ${span(r.low)}; no upper bound from these readings)`
+          : span(r.low) === span(r.high)
+            ? ""
+            : ` (range ${span(r.low)} to ${span(r.high)})`;
       return `Estimate, not a promise: at the recent rate${rate} the corrected value would reach the ${fmt(s.minimum)} MΩ minimum about ${span(r.central)} after the last reading${range}. Re-test; a qualified person decides.${skipped}`;
     }
     case "too_few":
@@ -79,4 +115,5 @@ export function forecastWords(s: NonNullable<ReturnType<typeof dryOutSeries>>) {
 
 const fmt = (n: number) => Number(n.toPrecision(3)).toString();
 // A fitted estimate supports whole hours at best, and whole days beyond two (no false precision).
-export const span = (hours: number) => (hours < 48 ? `${Math.max(1, Math.round(hours))} h` : `${Math.round(hours / 24)} days`);
+export const span = (hours: number) =>
+  hours < 48 ? `${Math.max(1, Math.round(hours))} h` : `${Math.round(hours / 24)} days`;

@@ -5,7 +5,13 @@ export const megohms = (n: number | null, qualifier?: "at_or_above" | "below" | 
 /** A form's qualifier select: "" → null. */
 export const qualifierOf = (v: FormDataEntryValue | null) => (v === "at_or_above" || v === "below" ? v : null);
 export const when = (iso: string) =>
-  new Date(iso).toLocaleString("en-GB", { day: "numeric", month: "short", year: "numeric", hour: "2-digit", minute: "2-digit" });
+  new Date(iso).toLocaleString("en-GB", {
+    day: "numeric",
+    month: "short",
+    year: "numeric",
+    hour: "2-digit",
+    minute: "2-digit",
+  });
 export const day = (ms: number) => new Date(ms).toLocaleDateString("en-GB", { day: "numeric", month: "short" });
 
 /** "2026-11-20T09:30" for a datetime-local input, in the browser's time zone. */
@@ -17,7 +23,9 @@ export const toIso = (local: string) => (local ? new Date(local).toISOString() :
 
 /** A number field's value: empty → null, otherwise a number (NaN stays NaN for zod to name). */
 export function numOrNull(v: FormDataEntryValue | null): number | null {
-  const s = String(v ?? "").trim().replace(",", ".");
+  const s = String(v ?? "")
+    .trim()
+    .replace(",", ".");
   return s === "" ? null : Number(s);
 }
 

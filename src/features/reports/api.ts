@@ -21,15 +21,33 @@ export interface ReportOptions {
 export const surveyReportUrl = (siteId: string, o: ReportOptions) =>
   `/api/sites/${siteId}/reports/survey.pdf${qs({ boardId: o.boardId, sections: o.sections.join(","), photos: o.photos ? "yes" : "no", from: o.from, to: o.to, paper: o.paper })}`;
 
-export interface LabelOptions { boardId?: string; sectionId?: string; positionIds?: string[]; sheet: LabelSheetId; start: number; copies: number }
+export interface LabelOptions {
+  boardId?: string;
+  sectionId?: string;
+  positionIds?: string[];
+  sheet: LabelSheetId;
+  start: number;
+  copies: number;
+}
 export const labelsUrl = (siteId: string, o: LabelOptions) =>
   `/api/sites/${siteId}/labels.pdf${qs({ boardId: o.boardId, sectionId: o.sectionId, positionIds: o.positionIds?.join(","), sheet: o.sheet, start: o.start, copies: o.copies })}`;
 
-export interface Progress { pages: number; totalPages: number | null; bytes: number }
+export interface Progress {
+  pages: number;
+  totalPages: number | null;
+  bytes: number;
+}
 
 async function errorOf(res: Response) {
-  const body = (await res.json().catch(() => null)) as { error?: { code?: string; message?: string; fields?: Record<string, string> } } | null;
-  return new ApiError(res.status, body?.error?.code ?? `http_${res.status}`, body?.error?.message ?? `The server answered ${res.status}.`, body?.error?.fields);
+  const body = (await res.json().catch(() => null)) as {
+    error?: { code?: string; message?: string; fields?: Record<string, string> };
+  } | null;
+  return new ApiError(
+    res.status,
+    body?.error?.code ?? `http_${res.status}`,
+    body?.error?.message ?? `The server answered ${res.status}.`,
+    body?.error?.fields,
+  );
 }
 
 /**
@@ -57,7 +75,8 @@ export async function fetchPdf(url: string, onProgress: (p: Progress) => void, s
     bytes += value.length;
     onProgress({ pages: counter.push(value), totalPages: total, bytes });
   }
-  if (total && counter.pages < total) throw new ApiError(0, "cut_off", "The report stopped before its last page. Try again.");
+  if (total && counter.pages < total)
+    throw new ApiError(0, "cut_off", "The report stopped before its last page. Try again.");
   return new Blob(parts as BlobPart[], { type: "application/pdf" });
 }
 
@@ -68,7 +87,15 @@ const assignResponse = z.object({
 });
 
 export const useAssignTags = (siteId: string) =>
-  useMutation({ mutationFn: (positionIds: string[]) => api.send("POST", `/api/sites/${siteId}/tags/assign`, { positionIds }, assignResponse) });
+  useMutation({
+    mutationFn: (positionIds: string[]) =>
+      api.send("POST", `/api/sites/${siteId}/tags/assign`, { positionIds }, assignResponse),
+  });
 
 export const useTagLookup = (tag: string) =>
-  useQuery({ queryKey: reportKeys.tag(tag), queryFn: ({ signal }) => api.get(`/api/tags/${encodeURIComponent(tag)}`, tagLookupResponse, signal), retry: false, enabled: !!tag });
+  useQuery({
+    queryKey: reportKeys.tag(tag),
+    queryFn: ({ signal }) => api.get(`/api/tags/${encodeURIComponent(tag)}`, tagLookupResponse, signal),
+    retry: false,
+    enabled: !!tag,
+  });

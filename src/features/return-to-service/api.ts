@@ -13,25 +13,37 @@ export const rtsKeys = {
 export const useRtsBoard = (siteId: string, boardId: string) =>
   useQuery({
     queryKey: rtsKeys.board(siteId, boardId),
-    queryFn: ({ signal }) => api.raw("GET", `${site(siteId)}/boards/${boardId}/return-to-service`, undefined, signal) as Promise<RtsBoardView>,
+    queryFn: ({ signal }) =>
+      api.raw("GET", `${site(siteId)}/boards/${boardId}/return-to-service`, undefined, signal) as Promise<RtsBoardView>,
     refetchInterval: 60_000,
   });
 export const useRtsOverview = (siteId: string) =>
   useQuery({
     queryKey: rtsKeys.overview(siteId),
-    queryFn: ({ signal }) => (api.raw("GET", `${site(siteId)}/return-to-service`, undefined, signal) as Promise<{ boards: RtsOverviewBoard[] }>).then((d) => d.boards),
+    queryFn: ({ signal }) =>
+      (
+        api.raw("GET", `${site(siteId)}/return-to-service`, undefined, signal) as Promise<{
+          boards: RtsOverviewBoard[];
+        }>
+      ).then((d) => d.boards),
   });
 export const useQualifiedPersons = (siteId: string) =>
   useQuery({
     queryKey: rtsKeys.qualified(siteId),
-    queryFn: ({ signal }) => (api.raw("GET", `${site(siteId)}/return-to-service/qualified-persons`, undefined, signal) as Promise<{ people: QualifiedPerson[] }>).then((d) => d.people),
+    queryFn: ({ signal }) =>
+      (
+        api.raw("GET", `${site(siteId)}/return-to-service/qualified-persons`, undefined, signal) as Promise<{
+          people: QualifiedPerson[];
+        }>
+      ).then((d) => d.people),
   });
 
 /** One mutation hook for every write of the feature: method, path under the site, body. Invalidates the feature. */
 export function useRtsAction(siteId: string) {
   const qc = useQueryClient();
   return useMutation({
-    mutationFn: (v: { method: "POST" | "PUT" | "PATCH" | "DELETE"; path: string; body?: unknown }) => api.raw(v.method, `${site(siteId)}${v.path}`, v.body ?? {}),
+    mutationFn: (v: { method: "POST" | "PUT" | "PATCH" | "DELETE"; path: string; body?: unknown }) =>
+      api.raw(v.method, `${site(siteId)}${v.path}`, v.body ?? {}),
     onSettled: () => qc.invalidateQueries({ queryKey: rtsKeys.all(siteId) }),
   });
 }

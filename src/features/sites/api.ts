@@ -14,13 +14,15 @@ export const siteKeys = {
 export const sitesQueryOptions = () =>
   queryOptions({
     queryKey: siteKeys.list(),
-    queryFn: ({ signal }) => api.get("/api/sites", z.object({ sites: z.array(siteSchema) }), signal).then((d) => d.sites),
+    queryFn: ({ signal }) =>
+      api.get("/api/sites", z.object({ sites: z.array(siteSchema) }), signal).then((d) => d.sites),
   });
 
 export const siteQueryOptions = (siteId: string) =>
   queryOptions({
     queryKey: siteKeys.detail(siteId),
-    queryFn: ({ signal }) => api.get(`/api/sites/${siteId}`, z.object({ site: siteSchema }), signal).then((d) => d.site),
+    queryFn: ({ signal }) =>
+      api.get(`/api/sites/${siteId}`, z.object({ site: siteSchema }), signal).then((d) => d.site),
   });
 
 export const useSites = () => useQuery(sitesQueryOptions());
@@ -44,7 +46,8 @@ export function useMemberMutations(siteId: string) {
       onSuccess,
     }),
     remove: useMutation({
-      mutationFn: (userId: string) => api.send("DELETE", `/api/sites/${siteId}/members/${userId}`, undefined, membersResponse),
+      mutationFn: (userId: string) =>
+        api.send("DELETE", `/api/sites/${siteId}/members/${userId}`, undefined, membersResponse),
       onSuccess,
     }),
   };

@@ -27,7 +27,12 @@ export default function AdminHome() {
     e.preventDefault();
     const f = new FormData(e.currentTarget);
     createUser.mutate(
-      { email: String(f.get("email")), name: String(f.get("name")), password: String(f.get("password")), isAdmin: f.get("isAdmin") === "on" },
+      {
+        email: String(f.get("email")),
+        name: String(f.get("name")),
+        password: String(f.get("password")),
+        isAdmin: f.get("isAdmin") === "on",
+      },
       { onSuccess: (d) => setMsg({ ok: true, text: `Account ${d.user.email} created.` }), onError: fail },
     );
   }
@@ -35,9 +40,14 @@ export default function AdminHome() {
     <main id="main" className="mx-auto max-w-3xl space-y-6 p-4">
       <h1 className="text-2xl font-bold">Instance administration</h1>
       <p>
-        <Link to={paths.mailbox.href()}>Local mailbox</Link> <span className="text-mist">— e-mail kept by the fake mail server when SMTP_URL is unset</span>
+        <Link to={paths.mailbox.href()}>Local mailbox</Link>{" "}
+        <span className="text-mist">— e-mail kept by the fake mail server when SMTP_URL is unset</span>
       </p>
-      {msg && <p role={msg.ok ? "status" : "alert"} className={msg.ok ? "text-kelp-300" : "text-flare-300"}>{msg.text}</p>}
+      {msg && (
+        <p role={msg.ok ? "status" : "alert"} className={msg.ok ? "text-kelp-300" : "text-flare-300"}>
+          {msg.text}
+        </p>
+      )}
       <form onSubmit={site} className="space-y-3 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
         <h2 className="text-lg font-semibold">New site</h2>
         <TextField label="Name" name="name" required />
@@ -47,17 +57,28 @@ export default function AdminHome() {
           <option value="plant">Plant</option>
         </SelectField>
         <TextField label="Location" name="location" />
-        <Button type="submit" disabled={createSite.isPending}>Create site</Button>
+        <Button type="submit" disabled={createSite.isPending}>
+          Create site
+        </Button>
       </form>
       <form onSubmit={user} className="space-y-3 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
         <h2 className="text-lg font-semibold">New account</h2>
         <TextField label="E-mail" name="email" type="email" required />
         <TextField label="Name" name="name" required />
-        <TextField label="Password" name="password" type="password" autoComplete="new-password" hint="At least 10 characters" required />
+        <TextField
+          label="Password"
+          name="password"
+          type="password"
+          autoComplete="new-password"
+          hint="At least 10 characters"
+          required
+        />
         <label className="flex min-h-11 items-center gap-2">
           <input type="checkbox" name="isAdmin" className="h-5 w-5" /> Instance admin
         </label>
-        <Button type="submit" disabled={createUser.isPending}>Create account</Button>
+        <Button type="submit" disabled={createUser.isPending}>
+          Create account
+        </Button>
       </form>
     </main>
   );

@@ -9,7 +9,9 @@ export default function MailboxPage() {
   return (
     <main id="main" className="mx-auto max-w-6xl space-y-4 p-4">
       <h1 className="text-2xl font-bold">Local mailbox</h1>
-      <p className="text-mist">E-mail Tideline sent while no real mail server is configured. Nothing here left this machine.</p>
+      <p className="text-mist">
+        E-mail Tideline sent while no real mail server is configured. Nothing here left this machine.
+      </p>
       <MailboxView />
     </main>
   );

@@ -18,8 +18,15 @@ export default function InvitePage() {
     );
   const inv = preview.data;
   return (
-    <PublicFrame title={`Join the ${inv.siteName} crew`} intro={`${inv.invitedByName ?? "The curator"} invited you to Tideline.`}>
-      <AcceptInvitationForm token={token} invitation={inv} onAccepted={(siteId) => navigate(paths.site.href(siteId), { replace: true })} />
+    <PublicFrame
+      title={`Join the ${inv.siteName} crew`}
+      intro={`${inv.invitedByName ?? "The curator"} invited you to Tideline.`}
+    >
+      <AcceptInvitationForm
+        token={token}
+        invitation={inv}
+        onAccepted={(siteId) => navigate(paths.site.href(siteId), { replace: true })}
+      />
     </PublicFrame>
   );
 }

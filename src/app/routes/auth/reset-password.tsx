@@ -14,13 +14,19 @@ export default function ResetPasswordPage() {
     return (
       <PublicFrame title="This link cannot be used">
         <ErrorPanel error={preview.error}>
-          <Link to={paths.resetRequest.href()} className="mt-2 inline-block">Ask for a new link</Link>
+          <Link to={paths.resetRequest.href()} className="mt-2 inline-block">
+            Ask for a new link
+          </Link>
         </ErrorPanel>
       </PublicFrame>
     );
   return (
     <PublicFrame title="Set a new password">
-      <NewPasswordForm token={token} email={preview.data.email} onDone={() => navigate(paths.home.href(), { replace: true })} />
+      <NewPasswordForm
+        token={token}
+        email={preview.data.email}
+        onDone={() => navigate(paths.home.href(), { replace: true })}
+      />
     </PublicFrame>
   );
 }

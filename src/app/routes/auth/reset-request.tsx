@@ -3,7 +3,10 @@ import { PublicFrame } from "./public-frame";
 
 export default function ResetRequestPage() {
   return (
-    <PublicFrame title="Forgot your password?" intro="Enter your e-mail. If it belongs to an account, we send a link to set a new password.">
+    <PublicFrame
+      title="Forgot your password?"
+      intro="Enter your e-mail. If it belongs to an account, we send a link to set a new password."
+    >
       <ResetRequestForm />
     </PublicFrame>
   );

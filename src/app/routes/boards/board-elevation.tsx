@@ -5,7 +5,12 @@ import { paths } from "../../../config/paths";
 import { EARTHING_LABELS } from "../../../domain/vocab";
 import { useBoard } from "../../../features/inventory/api";
 import { BoardElevation } from "../../../features/inventory/components/board-elevation";
-import { ElevationFilters, NO_FILTERS, tileMatches, type TileFilters } from "../../../features/inventory/components/elevation-filters";
+import {
+  ElevationFilters,
+  NO_FILTERS,
+  tileMatches,
+  type TileFilters,
+} from "../../../features/inventory/components/elevation-filters";
 import { PositionPanel } from "../../../features/inventory/components/position-panel";
 import { TileLegend } from "../../../features/inventory/components/tile-legend";
 import { defectHref } from "../../../features/inventory/defect-link";
@@ -21,51 +26,103 @@ export default function BoardElevationPage() {
   const [filters, setFilters] = useState<TileFilters>(NO_FILTERS);
   const q = useBoard(site.id, boardId);
   const selected = search.get("position");
-  const select = useCallback((id: string | null) => {
-    setSearch((s) => { if (id) s.set("position", id); else s.delete("position"); return s; }, { replace: true });
-  }, [setSearch]);
+  const select = useCallback(
+    (id: string | null) => {
+      setSearch(
+        (s) => {
+          if (id) s.set("position", id);
+          else s.delete("position");
+          return s;
+        },
+        { replace: true },
+      );
+    },
+    [setSearch],
+  );
   const close = useCallback(() => {
     const id = selected;
     select(null);
     // give focus back to the tile the panel was opened from
     setTimeout(() => (document.querySelector(`[data-position-id="${id}"]`) as HTMLElement | null)?.focus(), 0);
   }, [select, selected]);
-  const matching = useMemo(() => q.data?.positions.filter((t) => tileMatches(t, filters)).length ?? 0, [q.data, filters]);
+  const matching = useMemo(
+    () => q.data?.positions.filter((t) => tileMatches(t, filters)).length ?? 0,
+    [q.data, filters],
+  );
   if (q.isPending) return <Loading what="Drawing the board" />;
   if (q.isError) return <ErrorPanel error={q.error} />;
   const { board, positions } = q.data;
   const tile = positions.find((t) => t.id === selected);
   return (
     <div className="space-y-4">
-      <nav aria-label="Breadcrumb" className="text-sm [&_a]:underline"><Link to={paths.boards.href(site.id)}>Boards</Link> / {board.name}</nav>
+      <nav aria-label="Breadcrumb" className="text-sm [&_a]:underline">
+        <Link to={paths.boards.href(site.id)}>Boards</Link> / {board.name}
+      </nav>
       <header className="flex flex-wrap items-end justify-between gap-3">
         <div>
           <h1 className="text-2xl font-bold">{board.name}</h1>
-          <Link to={paths.rtsBoard.href(site.id, board.id)} className="text-sm underline">Return to service: stages, hold points and watch</Link>
+          <Link to={paths.rtsBoard.href(site.id, board.id)} className="text-sm underline">
+            Return to service: stages, hold points and watch
+          </Link>
           <p className="text-sm text-mist">
-            {[board.location, `${board.nominalVolts} V`, board.phases === 3 ? "3-phase" : "1-phase", `${board.frequencyHz} Hz`, EARTHING_LABELS[board.earthing],
-              board.yearBuilt ? `built ${board.yearBuilt}` : null, board.drawingRef ? `drawing ${board.drawingRef}` : null].filter(Boolean).join(" · ")}
+            {[
+              board.location,
+              `${board.nominalVolts} V`,
+              board.phases === 3 ? "3-phase" : "1-phase",
+              `${board.frequencyHz} Hz`,
+              EARTHING_LABELS[board.earthing],
+              board.yearBuilt ? `built ${board.yearBuilt}` : null,
+              board.drawingRef ? `drawing ${board.drawingRef}` : null,
+            ]
+              .filter(Boolean)
+              .join(" · ")}
           </p>
         </div>
         {canCurate(role) && (
-          <Link to={paths.boardSetup.href(site.id, board.id)} className="inline-flex min-h-11 items-center rounded-md px-4 font-semibold ring-1 ring-hull-600 no-underline">
+          <Link
+            to={paths.boardSetup.href(site.id, board.id)}
+            className="inline-flex min-h-11 items-center rounded-md px-4 font-semibold ring-1 ring-hull-600 no-underline"
+          >
             Set up this board
           </Link>
         )}
       </header>
       <ElevationFilters value={filters} onChange={setFilters} matching={matching} total={positions.length} />
       {positions.length === 0 ? (
-        <p className="rounded-lg border border-dashed border-hull-500 p-6 text-center text-mist">No positions on this board yet.</p>
+        <p className="rounded-lg border border-dashed border-hull-500 p-6 text-center text-mist">
+          No positions on this board yet.
+        </p>
       ) : (
-        <BoardElevation board={board} tiles={positions} filters={filters} selectedId={selected} onOpen={(t) => select(t.id)} />
+        <BoardElevation
+          board={board}
+          tiles={positions}
+          filters={filters}
+          selectedId={selected}
+          onOpen={(t) => select(t.id)}
+        />
       )}
       <TileLegend />
       <div className="grid gap-4 md:grid-cols-[1fr_auto] md:items-start">
         <LatestGroundCheck siteId={site.id} boardId={board.id} />
         <nav aria-label="More about this board" className="flex flex-col gap-2 text-sm">
-          <Link className="inline-flex min-h-11 items-center rounded-md px-4 ring-1 ring-hull-600" to={paths.readingsBoard.href(site.id, board.id)}>Test readings of this board</Link>
-          <Link className="inline-flex min-h-11 items-center rounded-md px-4 ring-1 ring-hull-600" to={paths.photoGallery.href(site.id, { boardId: board.id })}>Photos of this board</Link>
-          <Link className="inline-flex min-h-11 items-center rounded-md px-4 ring-1 ring-hull-600" to={paths.defects.href(site.id, `board=${board.id}`)}>Defects on this board</Link>
+          <Link
+            className="inline-flex min-h-11 items-center rounded-md px-4 ring-1 ring-hull-600"
+            to={paths.readingsBoard.href(site.id, board.id)}
+          >
+            Test readings of this board
+          </Link>
+          <Link
+            className="inline-flex min-h-11 items-center rounded-md px-4 ring-1 ring-hull-600"
+            to={paths.photoGallery.href(site.id, { boardId: board.id })}
+          >
+            Photos of this board
+          </Link>
+          <Link
+            className="inline-flex min-h-11 items-center rounded-md px-4 ring-1 ring-hull-600"
+            to={paths.defects.href(site.id, `board=${board.id}`)}
+          >
+            Defects on this board
+          </Link>
         </nav>
       </div>
       {selected && (
@@ -79,9 +136,11 @@ export default function BoardElevationPage() {
             readings: (componentId) => paths.readingsComponent.href(site.id, componentId),
             quickLog: canLog(role) ? paths.quickLog.href(site.id, selected) : undefined,
             setup: canCurate(role) ? paths.boardSetup.href(site.id, board.id, selected) : undefined,
-            defect: role !== "viewer"
-              ? (latest) => defectHref(site.id, { positionId: selected, componentId: tile?.component?.id, inspection: latest })
-              : undefined,
+            defect:
+              role !== "viewer"
+                ? (latest) =>
+                    defectHref(site.id, { positionId: selected, componentId: tile?.component?.id, inspection: latest })
+                : undefined,
           }}
         />
       )}

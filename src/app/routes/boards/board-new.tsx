@@ -11,9 +11,14 @@ export default function BoardNewPage() {
   if (!canCurate(role)) return <RoleNotice>Only the curator adds boards.</RoleNotice>;
   return (
     <div className="space-y-4">
-      <nav aria-label="Breadcrumb" className="text-sm [&_a]:underline"><Link to={paths.boards.href(site.id)}>Boards</Link> / new</nav>
+      <nav aria-label="Breadcrumb" className="text-sm [&_a]:underline">
+        <Link to={paths.boards.href(site.id)}>Boards</Link> / new
+      </nav>
       <h1 className="text-2xl font-bold">New board</h1>
-      <p className="text-mist">Typical flooded boards of this kind are 450/480 V, three-phase, 60 Hz and ungrounded; change what differs. Sections and positions come next.</p>
+      <p className="text-mist">
+        Typical flooded boards of this kind are 450/480 V, three-phase, 60 Hz and ungrounded; change what differs.
+        Sections and positions come next.
+      </p>
       <BoardForm siteId={site.id} onSaved={(b) => navigate(paths.boardSetup.href(site.id, b.id))} />
     </div>
   );

@@ -25,17 +25,30 @@ export default function FloodEventsPage() {
           {latest && (
             <details className="rounded-lg bg-hull-850 p-3 ring-1 ring-hull-700">
               <summary className="min-h-8 cursor-pointer font-semibold">Record another (later) flood event</summary>
-              <div className="mt-3"><FloodEventForm siteId={site.id} /></div>
+              <div className="mt-3">
+                <FloodEventForm siteId={site.id} />
+              </div>
             </details>
           )}
         </>
       ) : latest ? (
-        <p>{latest.occurredOn}: {WATER_TYPE_LABELS[latest.waterType]}{latest.maxDepthM != null && `, up to ${latest.maxDepthM} m`}{latest.hoursSubmerged != null && `, ${latest.hoursSubmerged} h`}.</p>
-      ) : <p className="text-fog">No flood event recorded yet.</p>}
+        <p>
+          {latest.occurredOn}: {WATER_TYPE_LABELS[latest.waterType]}
+          {latest.maxDepthM != null && `, up to ${latest.maxDepthM} m`}
+          {latest.hoursSubmerged != null && `, ${latest.hoursSubmerged} h`}.
+        </p>
+      ) : (
+        <p className="text-fog">No flood event recorded yet.</p>
+      )}
       <p className="text-xs text-fog">Where the recommendations come from: {FLOOD_GUIDANCE_PROVENANCE}</p>
       {older.length > 0 && (
         <ul className="space-y-1 text-sm text-mist">
-          {older.map((e) => <li key={e.id}>{e.occurredOn}: {WATER_TYPE_LABELS[e.waterType]}{e.notes && ` — ${e.notes}`}</li>)}
+          {older.map((e) => (
+            <li key={e.id}>
+              {e.occurredOn}: {WATER_TYPE_LABELS[e.waterType]}
+              {e.notes && ` — ${e.notes}`}
+            </li>
+          ))}
         </ul>
       )}
     </div>

@@ -9,13 +9,19 @@ export default function InventoryImportPage() {
   const { site, role } = useSiteContext();
   return (
     <div className="space-y-4">
-      <nav aria-label="Breadcrumb" className="text-sm [&_a]:underline"><Link to={paths.boards.href(site.id)}>Boards</Link> / import</nav>
+      <nav aria-label="Breadcrumb" className="text-sm [&_a]:underline">
+        <Link to={paths.boards.href(site.id)}>Boards</Link> / import
+      </nav>
       <h1 className="text-2xl font-bold">Import an inventory spreadsheet</h1>
       <p className="max-w-3xl text-mist">
-        Check the file first: every row is read and checked, and the problems are listed line by line, before anything is written.
-        The import then writes all the rows in one go, or none of them.
+        Check the file first: every row is read and checked, and the problems are listed line by line, before anything
+        is written. The import then writes all the rows in one go, or none of them.
       </p>
-      {canCurate(role) ? <CsvImport siteId={site.id} /> : <RoleNotice>Only the curator imports inventories.</RoleNotice>}
+      {canCurate(role) ? (
+        <CsvImport siteId={site.id} />
+      ) : (
+        <RoleNotice>Only the curator imports inventories.</RoleNotice>
+      )}
     </div>
   );
 }

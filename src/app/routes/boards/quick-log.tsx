@@ -23,7 +23,11 @@ function belowDefault(d: PositionDetail): boolean | null {
   const { board, position } = d;
   if (board.waterLineMm == null || !board.faceHeightMm) return null;
   try {
-    return tileBelowWaterLine(position, { gridRows: board.gridRows, faceHeightMm: board.faceHeightMm, waterLineMm: board.waterLineMm });
+    return tileBelowWaterLine(position, {
+      gridRows: board.gridRows,
+      faceHeightMm: board.faceHeightMm,
+      waterLineMm: board.waterLineMm,
+    });
   } catch {
     return null;
   }
@@ -31,24 +35,62 @@ function belowDefault(d: PositionDetail): boolean | null {
 
 type Done = { kind: "inspection"; inspection: Inspection } | { kind: "custody"; move: CustodyMove } | null;
 
-function Logged({ done, siteId, d, onNext }: { done: NonNullable<Done>; siteId: string; d: PositionDetail; onNext: () => void }) {
+function Logged({
+  done,
+  siteId,
+  d,
+  onNext,
+}: {
+  done: NonNullable<Done>;
+  siteId: string;
+  d: PositionDetail;
+  onNext: () => void;
+}) {
   const i = done.kind === "inspection" ? done.inspection : null;
   return (
     <div role="status" className="rounded-lg border-2 border-kelp-400 bg-kelp-700/30 p-3" data-testid="logged">
       <p className="font-semibold text-kelp-300">
-        {i ? <>Inspection saved{i.astmGrade != null && <> — grade {i.astmGrade} · {i.isoRi}</>}.</> : <>Move saved — now {CUSTODY_LABELS[(done as { move: CustodyMove }).move.toState as Custody]}.</>}
+        {i ? (
+          <>
+            Inspection saved
+            {i.astmGrade != null && (
+              <>
+                {" "}
+                — grade {i.astmGrade} · {i.isoRi}
+              </>
+            )}
+            .
+          </>
+        ) : (
+          <>Move saved — now {CUSTODY_LABELS[(done as { move: CustodyMove }).move.toState as Custody]}.</>
+        )}
       </p>
       <div className="mt-2">
-        {done.kind === "inspection"
-          ? <InspectionPhotos siteId={siteId} inspectionId={done.inspection.id} label="Photos of this inspection" />
-          : <InspectionPhotos siteId={siteId} custodyMoveId={done.move.id} defaultKind="during_work" label="Photos of this move" />}
+        {done.kind === "inspection" ? (
+          <InspectionPhotos siteId={siteId} inspectionId={done.inspection.id} label="Photos of this inspection" />
+        ) : (
+          <InspectionPhotos
+            siteId={siteId}
+            custodyMoveId={done.move.id}
+            defaultKind="during_work"
+            label="Photos of this move"
+          />
+        )}
       </div>
       <div className="mt-2 flex flex-wrap gap-2 text-sm">
-        <Link className="inline-flex min-h-11 items-center rounded-md px-3 ring-1 ring-hull-500"
-          to={defectHref(siteId, { positionId: d.position.id, componentId: d.component?.id, inspection: i })}>
+        <Link
+          className="inline-flex min-h-11 items-center rounded-md px-3 ring-1 ring-hull-500"
+          to={defectHref(siteId, { positionId: d.position.id, componentId: d.component?.id, inspection: i })}
+        >
           Raise a defect
         </Link>
-        <button type="button" onClick={onNext} className="min-h-11 rounded-md bg-brass-400 px-3 font-semibold text-hull-950">Next position</button>
+        <button
+          type="button"
+          onClick={onNext}
+          className="min-h-11 rounded-md bg-brass-400 px-3 font-semibold text-hull-950"
+        >
+          Next position
+        </button>
       </div>
     </div>
   );
@@ -64,7 +106,11 @@ export default function QuickLogPage() {
   const choose = (id: string | null) => {
     setDone(null);
     setMode("inspect");
-    setSearch((s) => { if (id) s.set("position", id); else s.delete("position"); return s; });
+    setSearch((s) => {
+      if (id) s.set("position", id);
+      else s.delete("position");
+      return s;
+    });
   };
   if (!canLog(role)) return <RoleNotice>Your role reads the survey; volunteers and the curator log it.</RoleNotice>;
   return (
@@ -75,38 +121,88 @@ export default function QuickLogPage() {
       {q.isError && <ErrorPanel error={q.error} />}
       {positionId && q.data && (
         <>
-          <section aria-label="Position" className="flex items-center gap-3 rounded-lg bg-hull-850 p-3 ring-1 ring-hull-700">
+          <section
+            aria-label="Position"
+            className="flex items-center gap-3 rounded-lg bg-hull-850 p-3 ring-1 ring-hull-700"
+          >
             <KindGlyph kind={q.data.position.kind} className="h-8 w-8 shrink-0 text-mist" />
             <div className="min-w-0 flex-1">
-              <p className="font-mono text-2xl font-bold" data-testid="log-designation">{q.data.position.designation}</p>
-              <p className="truncate text-sm text-mist">{COMPONENT_KIND_LABELS[q.data.position.kind]} · {q.data.board.name}{q.data.position.circuit ? ` · ${q.data.position.circuit}` : ""}</p>
+              <p className="font-mono text-2xl font-bold" data-testid="log-designation">
+                {q.data.position.designation}
+              </p>
+              <p className="truncate text-sm text-mist">
+                {COMPONENT_KIND_LABELS[q.data.position.kind]} · {q.data.board.name}
+                {q.data.position.circuit ? ` · ${q.data.position.circuit}` : ""}
+              </p>
             </div>
-            {q.data.inspections[0] && <span className={`rounded px-1.5 font-mono font-bold ${gradeTone(q.data.inspections[0].astmGrade)}`}>G{q.data.inspections[0].astmGrade ?? "–"}</span>}
-            <button type="button" onClick={() => choose(null)} className="min-h-11 rounded-md px-3 text-sm ring-1 ring-hull-600">Change</button>
+            {q.data.inspections[0] && (
+              <span className={`rounded px-1.5 font-mono font-bold ${gradeTone(q.data.inspections[0].astmGrade)}`}>
+                G{q.data.inspections[0].astmGrade ?? "–"}
+              </span>
+            )}
+            <button
+              type="button"
+              onClick={() => choose(null)}
+              className="min-h-11 rounded-md px-3 text-sm ring-1 ring-hull-600"
+            >
+              Change
+            </button>
           </section>
           {done && <Logged done={done} siteId={site.id} d={q.data} onNext={() => choose(null)} />}
-          {!q.data.component ? <p className="text-fog">This position holds no component to log.</p> : (
+          {!q.data.component ? (
+            <p className="text-fog">This position holds no component to log.</p>
+          ) : (
             <>
-              <div role="tablist" aria-label="What to log" className="grid grid-cols-2 gap-1 rounded-lg bg-hull-850 p-1 ring-1 ring-hull-700">
+              <div
+                role="tablist"
+                aria-label="What to log"
+                className="grid grid-cols-2 gap-1 rounded-lg bg-hull-850 p-1 ring-1 ring-hull-700"
+              >
                 {(["inspect", "move"] as const).map((m) => (
-                  <button key={m} type="button" role="tab" aria-selected={mode === m} aria-controls={`log-${m}`} id={`tab-${m}`}
-                    onClick={() => setMode(m)} className={`min-h-12 rounded-md font-semibold ${mode === m ? "bg-hull-700 text-brass-300" : "text-mist"}`}>
+                  <button
+                    key={m}
+                    type="button"
+                    role="tab"
+                    aria-selected={mode === m}
+                    aria-controls={`log-${m}`}
+                    id={`tab-${m}`}
+                    onClick={() => setMode(m)}
+                    className={`min-h-12 rounded-md font-semibold ${mode === m ? "bg-hull-700 text-brass-300" : "text-mist"}`}
+                  >
                     {m === "inspect" ? "Inspection" : "Move the part"}
                   </button>
                 ))}
               </div>
               <div role="tabpanel" id={`log-${mode}`} aria-labelledby={`tab-${mode}`}>
                 {mode === "inspect" ? (
-                  <InspectionForm key={`${positionId}-${q.data.inspections.length}`} siteId={site.id} componentId={q.data.component.id}
-                    belowDefault={belowDefault(q.data)} onSaved={(i) => { setDone({ kind: "inspection", inspection: i }); window.scrollTo({ top: 0 }); }} />
+                  <InspectionForm
+                    key={`${positionId}-${q.data.inspections.length}`}
+                    siteId={site.id}
+                    componentId={q.data.component.id}
+                    belowDefault={belowDefault(q.data)}
+                    onSaved={(i) => {
+                      setDone({ kind: "inspection", inspection: i });
+                      window.scrollTo({ top: 0 });
+                    }}
+                  />
                 ) : (
-                  <CustodyForm key={positionId} siteId={site.id} component={q.data.component} canRelease={canCurate(role)}
-                    onSaved={(move) => { setDone({ kind: "custody", move }); window.scrollTo({ top: 0 }); }} />
+                  <CustodyForm
+                    key={positionId}
+                    siteId={site.id}
+                    component={q.data.component}
+                    canRelease={canCurate(role)}
+                    onSaved={(move) => {
+                      setDone({ kind: "custody", move });
+                      window.scrollTo({ top: 0 });
+                    }}
+                  />
                 )}
               </div>
             </>
           )}
-          <p className="text-sm"><Link to={paths.board.href(site.id, q.data.board.id, q.data.position.id)}>See it on the board</Link></p>
+          <p className="text-sm">
+            <Link to={paths.board.href(site.id, q.data.board.id, q.data.position.id)}>See it on the board</Link>
+          </p>
         </>
       )}
       <SafetyNotice compact />

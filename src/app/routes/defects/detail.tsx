@@ -2,7 +2,12 @@ import { Link, useParams } from "react-router";
 import { SafetyNotice } from "../../../components/safety-notice";
 import { ErrorPanel, Loading } from "../../../components/status";
 import { paths } from "../../../config/paths";
-import { DEFECT_CATEGORY_LABELS, DEFECT_SEVERITY_DEFINITIONS, HERITAGE_LABELS, type Heritage } from "../../../domain/vocab";
+import {
+  DEFECT_CATEGORY_LABELS,
+  DEFECT_SEVERITY_DEFINITIONS,
+  HERITAGE_LABELS,
+  type Heritage,
+} from "../../../domain/vocab";
 import { PARTS_STATE_LABELS } from "../../../schemas/defects";
 import { useDefect, useDefectOptions } from "../../../features/defects/api";
 import { FlagMarks, SeverityBadge, StatusBadge } from "../../../features/defects/components/badges";
@@ -22,24 +27,44 @@ export default function DefectPage() {
   const options = useDefectOptions(site.id);
   const manage = role === "curator" || role === "admin";
   if (q.isPending) return <Loading what="Opening the defect" />;
-  if (q.isError) return <ErrorPanel error={q.error}><Link to={paths.defects.href(site.id)}>Back to the register</Link></ErrorPanel>;
+  if (q.isError)
+    return (
+      <ErrorPanel error={q.error}>
+        <Link to={paths.defects.href(site.id)}>Back to the register</Link>
+      </ErrorPanel>
+    );
   const detail = q.data;
   const d = detail.defect;
   const facts: Array<[string, React.ReactNode]> = [
-    ["Board", d.boardName], ["Section", d.sectionName ?? "—"], ["Position", <span className="font-mono">{d.designation ?? "—"}</span>],
-    ["Category", DEFECT_CATEGORY_LABELS[d.category]], ["Component", detail.heritage ? HERITAGE_LABELS[detail.heritage as Heritage] : "—"],
-    ["Effort", d.effortHours === null ? "Not estimated" : `${d.effortHours} h`], ["Cost", d.costEstimate === null ? "—" : String(d.costEstimate)],
+    ["Board", d.boardName],
+    ["Section", d.sectionName ?? "—"],
+    ["Position", <span className="font-mono">{d.designation ?? "—"}</span>],
+    ["Category", DEFECT_CATEGORY_LABELS[d.category]],
+    ["Component", detail.heritage ? HERITAGE_LABELS[detail.heritage as Heritage] : "—"],
+    ["Effort", d.effortHours === null ? "Not estimated" : `${d.effortHours} h`],
+    ["Cost", d.costEstimate === null ? "—" : String(d.costEstimate)],
     ["Parts", `${PARTS_STATE_LABELS[d.partsState]}${d.partsNeeded ? `: ${d.partsNeeded}` : ""}`],
-    ["Assignee", d.assigneeName ?? "Nobody"], ["Due", d.dueOn ?? "—"], ["Raised by", detail.defect.createdByName ?? "—"],
-    ["Repaired by", detail.defect.repairedByName ?? "—"], ["Verified by", detail.defect.verifiedByName ?? "—"],
+    ["Assignee", d.assigneeName ?? "Nobody"],
+    ["Due", d.dueOn ?? "—"],
+    ["Raised by", detail.defect.createdByName ?? "—"],
+    ["Repaired by", detail.defect.repairedByName ?? "—"],
+    ["Verified by", detail.defect.verifiedByName ?? "—"],
   ];
   return (
     <div className="space-y-4">
-      <p className="no-print text-sm"><Link className="underline" to={paths.defects.href(site.id)}>← Defect register</Link></p>
+      <p className="no-print text-sm">
+        <Link className="underline" to={paths.defects.href(site.id)}>
+          ← Defect register
+        </Link>
+      </p>
       <header>
         <p className="font-mono text-brass-300">D-{d.ref}</p>
         <h1 className="text-2xl font-bold">{d.title}</h1>
-        <div className="mt-2 flex flex-wrap items-center gap-2"><StatusBadge status={d.status} /><SeverityBadge severity={d.severity} /><FlagMarks safety={d.safetyCritical} blocking={d.blocksEnergisation} /></div>
+        <div className="mt-2 flex flex-wrap items-center gap-2">
+          <StatusBadge status={d.status} />
+          <SeverityBadge severity={d.severity} />
+          <FlagMarks safety={d.safetyCritical} blocking={d.blocksEnergisation} />
+        </div>
         <p className="mt-1 text-sm text-mist">{DEFECT_SEVERITY_DEFINITIONS[d.severity]}</p>
         {d.statusReason && <p className="mt-1">Reason: {d.statusReason}</p>}
         {d.description && <p className="mt-2 max-w-3xl whitespace-pre-line">{d.description}</p>}
@@ -48,11 +73,29 @@ export default function DefectPage() {
       <EditPanel siteId={site.id} detail={detail} canManage={manage} />
       <div className="grid gap-4 lg:grid-cols-2">
         <section aria-labelledby="facts-title" className="rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
-          <h2 id="facts-title" className="text-lg font-bold">Details</h2>
+          <h2 id="facts-title" className="text-lg font-bold">
+            Details
+          </h2>
           <dl className="mt-2 grid grid-cols-[8rem_1fr] gap-x-3 gap-y-1 text-sm">
-            {facts.map(([k, v]) => <div key={k} className="contents"><dt className="text-mist">{k}</dt><dd>{v}</dd></div>)}
+            {facts.map(([k, v]) => (
+              <div key={k} className="contents">
+                <dt className="text-mist">{k}</dt>
+                <dd>{v}</dd>
+              </div>
+            ))}
             <dt className="text-mist">Photos</dt>
-            <dd>{detail.photoCount} attached{d.positionId && <> · <Link className="underline" to={paths.board.href(site.id, d.boardId, d.positionId)}>position {d.designation} and its photos</Link></>}</dd>
+            <dd>
+              {detail.photoCount} attached
+              {d.positionId && (
+                <>
+                  {" "}
+                  ·{" "}
+                  <Link className="underline" to={paths.board.href(site.id, d.boardId, d.positionId)}>
+                    position {d.designation} and its photos
+                  </Link>
+                </>
+              )}
+            </dd>
           </dl>
         </section>
         <WhyItRanks siteId={site.id} detail={detail} />
@@ -60,9 +103,21 @@ export default function DefectPage() {
         <PinPanel siteId={site.id} detail={detail} canManage={manage} />
       </div>
       {(["under_repair", "awaiting_retest", "closed"] as string[]).includes(d.status) || manage ? (
-        <EvidencePanel siteId={site.id} detail={detail} canLink={manage || role === "volunteer"}
-          photos={manage || role === "volunteer" || role === "photographer"
-            ? <InspectionPhotos siteId={site.id} defectId={d.id} defaultKind="after_work" label="Photos of this defect" /> : undefined} />
+        <EvidencePanel
+          siteId={site.id}
+          detail={detail}
+          canLink={manage || role === "volunteer"}
+          photos={
+            manage || role === "volunteer" || role === "photographer" ? (
+              <InspectionPhotos
+                siteId={site.id}
+                defectId={d.id}
+                defaultKind="after_work"
+                label="Photos of this defect"
+              />
+            ) : undefined
+          }
+        />
       ) : null}
       <DefectHistory detail={detail} />
     </div>

@@ -13,10 +13,20 @@ export default function RegisterPage() {
         <div>
           <h1 className="text-2xl font-bold">Defect register</h1>
           <p className="text-mist">
-            Everything found wrong on {site.name}'s boards, highest priority first. <Link className="underline" to={paths.priorityHelp.href(site.id)}>How priority works</Link>
+            Everything found wrong on {site.name}'s boards, highest priority first.{" "}
+            <Link className="underline" to={paths.priorityHelp.href(site.id)}>
+              How priority works
+            </Link>
           </p>
         </div>
-        {raise && <Link to={paths.defectNew.href(site.id)} className="inline-flex min-h-11 items-center rounded-md bg-brass-400 px-4 font-semibold text-hull-950 no-underline">Raise a defect</Link>}
+        {raise && (
+          <Link
+            to={paths.defectNew.href(site.id)}
+            className="inline-flex min-h-11 items-center rounded-md bg-brass-400 px-4 font-semibold text-hull-950 no-underline"
+          >
+            Raise a defect
+          </Link>
+        )}
       </div>
       <Register siteId={site.id} canManage={manage} canRaise={raise} />
     </div>

@@ -11,15 +11,30 @@ export default function RepairPlanPage() {
   const { site, role } = useSiteContext();
   const plan = useRepairPlan(site.id);
   if (role !== "curator" && role !== "admin")
-    return <EmptyState title="The repair plan is the curator's page">Follow the work in the <Link className="underline" to={paths.defects.href(site.id)}>defect register</Link>.</EmptyState>;
+    return (
+      <EmptyState title="The repair plan is the curator's page">
+        Follow the work in the{" "}
+        <Link className="underline" to={paths.defects.href(site.id)}>
+          defect register
+        </Link>
+        .
+      </EmptyState>
+    );
   return (
     <div className="space-y-4">
       <div className="flex flex-wrap items-center justify-between gap-2">
         <div>
           <h1 className="text-2xl font-bold">Repair plan — {site.name}</h1>
-          <p className="text-mist">Open work by board and section, in priority order (pins applied). <Link className="no-print underline" to={paths.priorityHelp.href(site.id)}>How priority works</Link></p>
+          <p className="text-mist">
+            Open work by board and section, in priority order (pins applied).{" "}
+            <Link className="no-print underline" to={paths.priorityHelp.href(site.id)}>
+              How priority works
+            </Link>
+          </p>
         </div>
-        <Button className="no-print" onClick={() => window.print()}>Print the plan</Button>
+        <Button className="no-print" onClick={() => window.print()}>
+          Print the plan
+        </Button>
       </div>
       <SafetyNotice compact />
       {plan.isPending && <Loading what="Working out the plan" />}

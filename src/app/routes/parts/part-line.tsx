@@ -17,11 +17,18 @@ export default function PartLinePage() {
   const detail = useLineDetail(site.id, lineId);
   const canEdit = role === "scrounger" || role === "curator" || role === "admin";
   if (detail.isPending) return <Loading what="Opening the line" />;
-  if (detail.isError) return <ErrorPanel error={detail.error}><Link to={paths.parts.href(site.id)}>Back to the wanted list</Link></ErrorPanel>;
+  if (detail.isError)
+    return (
+      <ErrorPanel error={detail.error}>
+        <Link to={paths.parts.href(site.id)}>Back to the wanted list</Link>
+      </ErrorPanel>
+    );
   const { line, leads, acquisitions, history } = detail.data;
   return (
     <div className="space-y-5">
-      <Link to={paths.parts.href(site.id)} className="no-print inline-flex min-h-11 items-center">← Wanted parts</Link>
+      <Link to={paths.parts.href(site.id)} className="no-print inline-flex min-h-11 items-center">
+        ← Wanted parts
+      </Link>
       <LineSummary line={line} />
       {(role === "curator" || role === "admin") && <HeritageRuleForm siteId={site.id} line={line} />}
       <div className="grid gap-4 lg:grid-cols-2">
@@ -31,15 +38,24 @@ export default function PartLinePage() {
       <LeadsPanel siteId={site.id} lineId={line.id} leads={leads} canEdit={canEdit} />
       {acquisitions.length > 0 && (
         <section aria-labelledby="acq-title" className="rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
-          <h2 id="acq-title" className="text-lg font-bold">Acquired</h2>
+          <h2 id="acq-title" className="text-lg font-bold">
+            Acquired
+          </h2>
           <ul className="mt-2 space-y-1">
             {acquisitions.map((a) => (
-              <li key={a.id} className="text-sm"><span className="font-mono">{a.acquiredOn}</span> · {a.qty} for {money(a.cost)}{a.notes ? ` · ${a.notes}` : ""}</li>
+              <li key={a.id} className="text-sm">
+                <span className="font-mono">{a.acquiredOn}</span> · {a.qty} for {money(a.cost)}
+                {a.notes ? ` · ${a.notes}` : ""}
+              </li>
             ))}
           </ul>
         </section>
       )}
-      {canEdit ? <LineEditForm siteId={site.id} line={line} /> : line.notes && <p className="text-mist">Notes: {line.notes}</p>}
+      {canEdit ? (
+        <LineEditForm siteId={site.id} line={line} />
+      ) : (
+        line.notes && <p className="text-mist">Notes: {line.notes}</p>
+      )}
       <HistoryList history={history} />
     </div>
   );

@@ -23,33 +23,56 @@ export default function PartsListPage() {
       <header className="flex flex-wrap items-end justify-between gap-3">
         <div>
           <h1 className="text-2xl font-bold">Wanted parts</h1>
-          <p className="text-mist">Everything the register says to replace or source, one line per specification, plus what was added by hand.</p>
+          <p className="text-mist">
+            Everything the register says to replace or source, one line per specification, plus what was added by hand.
+          </p>
         </div>
         <div className="no-print flex flex-wrap gap-2">
-          <a href={csvUrl(site.id, filter)} download className="inline-flex min-h-11 items-center rounded-md bg-hull-800 px-4 font-semibold text-chalk no-underline ring-1 ring-hull-600">
+          <a
+            href={csvUrl(site.id, filter)}
+            download
+            className="inline-flex min-h-11 items-center rounded-md bg-hull-800 px-4 font-semibold text-chalk no-underline ring-1 ring-hull-600"
+          >
             Export CSV
           </a>
-          <Link to={paths.partsPrint.href(site.id, search)} className="inline-flex min-h-11 items-center rounded-md bg-hull-800 px-4 font-semibold text-chalk no-underline ring-1 ring-hull-600">
+          <Link
+            to={paths.partsPrint.href(site.id, search)}
+            className="inline-flex min-h-11 items-center rounded-md bg-hull-800 px-4 font-semibold text-chalk no-underline ring-1 ring-hull-600"
+          >
             Print wanted list
           </Link>
         </div>
       </header>
-      <PartsFilters value={filter} boards={list.data?.boards ?? []} onChange={(f) => setFilter({ ...f, page: undefined })} />
+      <PartsFilters
+        value={filter}
+        boards={list.data?.boards ?? []}
+        onChange={(f) => setFilter({ ...f, page: undefined })}
+      />
       {list.isPending && <Loading what="Gathering the wanted list" />}
       {list.isError && <ErrorPanel error={list.error} />}
-      {list.data && (list.data.lines.length ? (
-        <>
-          <PartsTable
-            siteId={site.id} lines={list.data.lines} busy={list.isPlaceholderData} sort={filter.sort} dir={filter.dir}
-            onSort={(sort, dir) => setFilter({ ...filter, sort, dir, page: undefined })}
-          />
-          <PartsPager total={list.data.total} page={list.data.page} size={list.data.size} onPage={(page, size) => setFilter({ ...filter, page, size })} />
-        </>
-      ) : (
-        <EmptyState title="Nothing on the list for this filter">
-          Set a component's disposition to replace or source, mark a defect's parts as wanted, or add a part by hand.
-        </EmptyState>
-      ))}
+      {list.data &&
+        (list.data.lines.length ? (
+          <>
+            <PartsTable
+              siteId={site.id}
+              lines={list.data.lines}
+              busy={list.isPlaceholderData}
+              sort={filter.sort}
+              dir={filter.dir}
+              onSort={(sort, dir) => setFilter({ ...filter, sort, dir, page: undefined })}
+            />
+            <PartsPager
+              total={list.data.total}
+              page={list.data.page}
+              size={list.data.size}
+              onPage={(page, size) => setFilter({ ...filter, page, size })}
+            />
+          </>
+        ) : (
+          <EmptyState title="Nothing on the list for this filter">
+            Set a component's disposition to replace or source, mark a defect's parts as wanted, or add a part by hand.
+          </EmptyState>
+        ))}
       {canEdit && <NewLineForm siteId={site.id} />}
       <div className="grid gap-4 lg:grid-cols-2">
         {list.data && <BudgetPanel budget={list.data.budget} />}

@@ -16,22 +16,34 @@ export default function PartsPrintPage() {
   return (
     <div className="space-y-4">
       <div className="no-print flex flex-wrap items-center gap-3">
-        <Link to={paths.parts.href(site.id, search)} className="inline-flex min-h-11 items-center">← Back to the list</Link>
+        <Link to={paths.parts.href(site.id, search)} className="inline-flex min-h-11 items-center">
+          ← Back to the list
+        </Link>
         <Button onClick={() => window.print()}>Print</Button>
       </div>
       <h1 className="text-2xl font-bold print:text-black">Parts wanted for {site.name}</h1>
-      <p className="text-mist print:text-black">Printed {new Date().toLocaleDateString()}. Shapes mark the heritage rule: ◆ original pattern only, ◈ period equivalent acceptable, ○ modern equivalent acceptable.</p>
+      <p className="text-mist print:text-black">
+        Printed {new Date().toLocaleDateString()}. Shapes mark the heritage rule: ◆ original pattern only, ◈ period
+        equivalent acceptable, ○ modern equivalent acceptable.
+      </p>
       {list.isPending && <Loading />}
       {list.isError && <ErrorPanel error={list.error} />}
       {list.data && !list.data.lines.length && <EmptyState title="Nothing to print for this filter" />}
       {list.data && list.data.total > list.data.lines.length && (
-        <p className="no-print text-flare-300">Showing the first {list.data.lines.length} of {list.data.total} lines: narrow the filter to print the rest.</p>
+        <p className="no-print text-flare-300">
+          Showing the first {list.data.lines.length} of {list.data.total} lines: narrow the filter to print the rest.
+        </p>
       )}
       {list.data && (
         <PrintSheet
           lines={list.data.lines.map((l) => ({
-            ...l, ref: l.id.slice(0, 8), photoUrl: l.photoIds[0] ? thumbUrl(site.id, l.photoIds[0]) : null,
-            positions: l.positions.filter((p) => p.state === "active" && p.designation).map((p) => `${p.boardName} ${p.designation}`).join(", "),
+            ...l,
+            ref: l.id.slice(0, 8),
+            photoUrl: l.photoIds[0] ? thumbUrl(site.id, l.photoIds[0]) : null,
+            positions: l.positions
+              .filter((p) => p.state === "active" && p.designation)
+              .map((p) => `${p.boardName} ${p.designation}`)
+              .join(", "),
           }))}
         />
       )}

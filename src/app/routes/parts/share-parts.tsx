@@ -12,7 +12,9 @@ export default function SharePartsPage() {
   const gone = shared.error instanceof ApiError && (shared.error.status === 410 || shared.error.status === 404);
   return (
     <div className="min-h-dvh">
-      <header className="border-b border-hull-700 bg-hull-900 px-4 py-2 print:hidden"><Wordmark /></header>
+      <header className="border-b border-hull-700 bg-hull-900 px-4 py-2 print:hidden">
+        <Wordmark />
+      </header>
       <main id="main" className="mx-auto max-w-4xl space-y-4 p-4">
         {shared.isPending && <Loading what="Opening the shared list" />}
         {gone && (
@@ -26,8 +28,9 @@ export default function SharePartsPage() {
           <>
             <h1 className="text-2xl font-bold">Parts wanted for {shared.data.siteName}</h1>
             <p className="text-mist">
-              A restoration crew is looking for these parts. If you have one or know where one is, please tell the person who sent you this link and quote the line number.
-              Shapes mark how strictly a part must follow the original: ◆ original pattern only, ◈ period equivalent acceptable, ○ modern equivalent acceptable.
+              A restoration crew is looking for these parts. If you have one or know where one is, please tell the
+              person who sent you this link and quote the line number. Shapes mark how strictly a part must follow the
+              original: ◆ original pattern only, ◈ period equivalent acceptable, ○ modern equivalent acceptable.
             </p>
             <PrintSheet lines={shared.data.lines.map((l) => ({ ...l, photoUrl: l.photoUrls[0] ?? null }))} />
           </>

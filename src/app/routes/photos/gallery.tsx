@@ -14,9 +14,12 @@ export default function GalleryPage() {
   const [params, setParams] = useSearchParams();
   const positionId = params.get("positionId") ?? undefined;
   const targets = usePhotoTargets(siteId);
-  const boards = useMemo(() => [...new Map((targets.data ?? []).map((t) => [t.boardId, t.boardName])).entries()], [targets.data]);
+  const boards = useMemo(
+    () => [...new Map((targets.data ?? []).map((t) => [t.boardId, t.boardName])).entries()],
+    [targets.data],
+  );
   const position = targets.data?.find((t) => t.positionId === positionId);
-  const boardId = positionId ? position?.boardId : params.get("boardId") ?? boards[0]?.[0];
+  const boardId = positionId ? position?.boardId : (params.get("boardId") ?? boards[0]?.[0]);
   const photos = usePhotos(siteId, positionId ? { positionId } : { boardId }, !!(positionId || boardId));
   // Which group is open (null: the position's own list) and where; the list itself is read
   // from the query each render, so edits made in the viewer show at once.
@@ -26,23 +29,44 @@ export default function GalleryPage() {
 
   const groups = useMemo(() => {
     const m = new Map<string, Photo[]>();
-    for (const p of photos.data ?? []) m.set(p.designation ?? "Board (no position)", [...(m.get(p.designation ?? "Board (no position)") ?? []), p]);
+    for (const p of photos.data ?? [])
+      m.set(p.designation ?? "Board (no position)", [...(m.get(p.designation ?? "Board (no position)") ?? []), p]);
     return [...m.entries()].sort(([a], [b]) => a.localeCompare(b, undefined, { numeric: true }));
   }, [photos.data]);
 
-  const openList: Photo[] = !open ? [] : open.group === null ? photos.data ?? [] : groups.find(([d]) => d === open.group)?.[1] ?? [];
+  const openList: Photo[] = !open
+    ? []
+    : open.group === null
+      ? (photos.data ?? [])
+      : (groups.find(([d]) => d === open.group)?.[1] ?? []);
 
   return (
     <div className="space-y-4">
-      <h1 className="text-2xl font-bold">{position ? `Photos of position ${position.designation}` : "Photos by board"}</h1>
+      <h1 className="text-2xl font-bold">
+        {position ? `Photos of position ${position.designation}` : "Photos by board"}
+      </h1>
       <label className="block max-w-md text-sm font-semibold text-mist">
         Board
-        <select className="mt-1 block min-h-11 w-full rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk" value={boardId ?? ""} onChange={(e) => setParams({ boardId: e.target.value })}>
-          {boards.map(([id, name]) => <option key={id} value={id}>{name}</option>)}
+        <select
+          className="mt-1 block min-h-11 w-full rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk"
+          value={boardId ?? ""}
+          onChange={(e) => setParams({ boardId: e.target.value })}
+        >
+          {boards.map(([id, name]) => (
+            <option key={id} value={id}>
+              {name}
+            </option>
+          ))}
         </select>
       </label>
-      {photos.isPending && (positionId || boardId) ? <Loading what="Loading photos" /> : photos.isError ? <ErrorPanel error={photos.error} /> : !photos.data?.length ? (
-        <EmptyState title="No photos here yet">The photographer's uploads appear here once filed to a position.</EmptyState>
+      {photos.isPending && (positionId || boardId) ? (
+        <Loading what="Loading photos" />
+      ) : photos.isError ? (
+        <ErrorPanel error={photos.error} />
+      ) : !photos.data?.length ? (
+        <EmptyState title="No photos here yet">
+          The photographer's uploads appear here once filed to a position.
+        </EmptyState>
       ) : positionId ? (
         <>
           <PhotoGrid siteId={siteId} photos={photos.data} onOpen={(i) => setOpen({ group: null, i })} />
@@ -52,8 +76,20 @@ export default function GalleryPage() {
         groups.map(([designation, list]) => (
           <section key={designation} aria-label={`Position ${designation}`} className="space-y-1">
             <h2 className="font-mono font-semibold">
-              {list[0].positionId ? <button type="button" className="min-h-11 underline" onClick={() => setParams({ positionId: list[0].positionId! })}>{designation}</button> : designation}
-              <span className="ml-2 font-sans text-sm text-mist">{list.length} photo{list.length === 1 ? "" : "s"}</span>
+              {list[0].positionId ? (
+                <button
+                  type="button"
+                  className="min-h-11 underline"
+                  onClick={() => setParams({ positionId: list[0].positionId! })}
+                >
+                  {designation}
+                </button>
+              ) : (
+                designation
+              )}
+              <span className="ml-2 font-sans text-sm text-mist">
+                {list.length} photo{list.length === 1 ? "" : "s"}
+              </span>
             </h2>
             <PhotoGrid siteId={siteId} photos={list} onOpen={(i) => setOpen({ group: designation, i })} compact />
           </section>
@@ -67,8 +103,15 @@ export default function GalleryPage() {
           onIndex={(i) => setOpen({ ...open, i })}
           onClose={() => setOpen(null)}
           canDownloadOriginal={isCurator || role === "photographer"}
-          tagTargets={isCurator || role === "photographer" ? targets.data ?? [] : undefined}
-          onDelete={isCurator ? (p) => { if (window.confirm("Delete this photo? It is kept for 30 days, then purged.")) remove.mutate(p.id, { onSuccess: () => setOpen(null) }); } : undefined}
+          tagTargets={isCurator || role === "photographer" ? (targets.data ?? []) : undefined}
+          onDelete={
+            isCurator
+              ? (p) => {
+                  if (window.confirm("Delete this photo? It is kept for 30 days, then purged."))
+                    remove.mutate(p.id, { onSuccess: () => setOpen(null) });
+                }
+              : undefined
+          }
         />
       )}
     </div>

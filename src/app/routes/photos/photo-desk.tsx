@@ -18,8 +18,13 @@ export default function PhotoDesk() {
     return (
       <div className="space-y-2">
         <h1 className="text-2xl font-bold">Photo desk</h1>
-        <p className="text-mist">The photographer and the curator upload and file photos. Volunteers add photos to their own inspections from the teardown log.</p>
-        <Link className="underline" to={paths.photoGallery.href(siteId)}>See the photos</Link>
+        <p className="text-mist">
+          The photographer and the curator upload and file photos. Volunteers add photos to their own inspections from
+          the teardown log.
+        </p>
+        <Link className="underline" to={paths.photoGallery.href(siteId)}>
+          See the photos
+        </Link>
       </div>
     );
   return (
@@ -27,13 +32,23 @@ export default function PhotoDesk() {
       <div>
         <h1 className="text-2xl font-bold">Photo desk</h1>
         <p className="text-mist">
-          Upload a shoot, then file every picture to its position. <Link className="underline" to={paths.photoShootList.href(siteId)}>Shoot list</Link> ·{" "}
-          <Link className="underline" to={paths.photoGallery.href(siteId)}>Galleries</Link>
+          Upload a shoot, then file every picture to its position.{" "}
+          <Link className="underline" to={paths.photoShootList.href(siteId)}>
+            Shoot list
+          </Link>{" "}
+          ·{" "}
+          <Link className="underline" to={paths.photoGallery.href(siteId)}>
+            Galleries
+          </Link>
         </p>
       </div>
       {targets.isError && <ErrorPanel error={targets.error} />}
       <UploadPanel siteId={siteId} targets={targets.data ?? []} onUploaded={() => void invalidate()} />
-      {unassigned.isPending || targets.isPending ? <Loading what="Finding unfiled photos" /> : unassigned.isError ? <ErrorPanel error={unassigned.error} /> : (
+      {unassigned.isPending || targets.isPending ? (
+        <Loading what="Finding unfiled photos" />
+      ) : unassigned.isError ? (
+        <ErrorPanel error={unassigned.error} />
+      ) : (
         <BatchAssign siteId={siteId} photos={unassigned.data} targets={targets.data ?? []} />
       )}
     </div>

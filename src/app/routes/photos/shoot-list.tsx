@@ -10,21 +10,40 @@ export default function ShootListPage() {
   const { role } = useSiteContext();
   const [params, setParams] = useSearchParams();
   const targets = usePhotoTargets(siteId);
-  const boards = useMemo(() => [...new Map((targets.data ?? []).map((t) => [t.boardId, t.boardName])).entries()], [targets.data]);
+  const boards = useMemo(
+    () => [...new Map((targets.data ?? []).map((t) => [t.boardId, t.boardName])).entries()],
+    [targets.data],
+  );
   const boardId = params.get("boardId") ?? boards[0]?.[0];
   return (
     <div className="space-y-4">
       <h1 className="text-2xl font-bold">Shoot list</h1>
       {(role === "curator" || role === "admin") && <RequiredShotsEditor siteId={siteId} />}
-      {targets.isPending ? <Loading what="Finding the boards" /> : targets.isError ? <ErrorPanel error={targets.error} /> : (
+      {targets.isPending ? (
+        <Loading what="Finding the boards" />
+      ) : targets.isError ? (
+        <ErrorPanel error={targets.error} />
+      ) : (
         <>
           <label className="block max-w-md text-sm font-semibold text-mist">
             Board
-            <select className="mt-1 block min-h-11 w-full rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk" value={boardId ?? ""} onChange={(e) => setParams({ boardId: e.target.value })}>
-              {boards.map(([id, name]) => <option key={id} value={id}>{name}</option>)}
+            <select
+              className="mt-1 block min-h-11 w-full rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk"
+              value={boardId ?? ""}
+              onChange={(e) => setParams({ boardId: e.target.value })}
+            >
+              {boards.map(([id, name]) => (
+                <option key={id} value={id}>
+                  {name}
+                </option>
+              ))}
             </select>
           </label>
-          {boardId ? <ShootListPanel siteId={siteId} boardId={boardId} /> : <p className="text-mist">This site has no boards yet.</p>}
+          {boardId ? (
+            <ShootListPanel siteId={siteId} boardId={boardId} />
+          ) : (
+            <p className="text-mist">This site has no boards yet.</p>
+          )}
         </>
       )}
     </div>

@@ -25,30 +25,70 @@ export default function BoardReadingsPage() {
   const options = (targets.data?.find((b) => b.id === boardId)?.positions ?? [])
     .filter((p) => p.componentId)
     .map((p) => ({ componentId: p.componentId!, designation: p.designation, circuit: p.circuit }));
-  const components = [...new Map([...insulation, ...contacts, ...thermal].filter((r) => r.componentId).map((r) => [r.componentId!, r.designation ?? ""])).entries()];
+  const components = [
+    ...new Map(
+      [...insulation, ...contacts, ...thermal]
+        .filter((r) => r.componentId)
+        .map((r) => [r.componentId!, r.designation ?? ""]),
+    ).entries(),
+  ];
   return (
     <div className="space-y-6">
-      <p><Link to={paths.readings.href(site.id)} className="inline-flex min-h-11 items-center">← All boards</Link></p>
+      <p>
+        <Link to={paths.readings.href(site.id)} className="inline-flex min-h-11 items-center">
+          ← All boards
+        </Link>
+      </p>
       <h1 className="text-2xl font-bold">Readings · {board.name}</h1>
       <SafetyNotice />
       <LatestGroundCheck siteId={site.id} boardId={boardId} />
-      {RECORDERS.includes(role) && <RecordPanel siteId={site.id} boardId={boardId} lineVolts={board.nominalVolts} options={options} />}
+      {RECORDERS.includes(role) && (
+        <RecordPanel siteId={site.id} boardId={boardId} lineVolts={board.nominalVolts} options={options} />
+      )}
       <section aria-labelledby="dry-out-title" className="space-y-2">
-        <h2 id="dry-out-title" className="text-xl font-bold">Dry-out</h2>
+        <h2 id="dry-out-title" className="text-xl font-bold">
+          Dry-out
+        </h2>
         <DryOutSection readings={insulation} />
       </section>
       {components.length > 0 && (
         <nav aria-label="Components with readings" className="flex flex-wrap gap-2 text-sm">
           <span className="self-center text-mist">Per component:</span>
           {components.map(([id, designation]) => (
-            <Link key={id} to={paths.readingsComponent.href(site.id, id)} className="inline-flex min-h-11 items-center rounded-md bg-hull-800 px-3 font-mono ring-1 ring-hull-600">{designation}</Link>
+            <Link
+              key={id}
+              to={paths.readingsComponent.href(site.id, id)}
+              className="inline-flex min-h-11 items-center rounded-md bg-hull-800 px-3 font-mono ring-1 ring-hull-600"
+            >
+              {designation}
+            </Link>
           ))}
         </nav>
       )}
-      <section aria-labelledby="ins-title" className="space-y-2"><h2 id="ins-title" className="text-xl font-bold">Insulation readings</h2><InsulationHistory readings={insulation} /></section>
-      <section aria-labelledby="con-title" className="space-y-2"><h2 id="con-title" className="text-xl font-bold">Contact resistance</h2><ContactHistory readings={contacts} /></section>
-      <section aria-labelledby="th-title" className="space-y-2"><h2 id="th-title" className="text-xl font-bold">Thermal findings</h2><ThermalHistory scans={thermal} /></section>
-      <section aria-labelledby="gl-title" className="space-y-2"><h2 id="gl-title" className="text-xl font-bold">Ground-lamp checks</h2><GroundCheckHistory checks={groundChecks} /></section>
+      <section aria-labelledby="ins-title" className="space-y-2">
+        <h2 id="ins-title" className="text-xl font-bold">
+          Insulation readings
+        </h2>
+        <InsulationHistory readings={insulation} />
+      </section>
+      <section aria-labelledby="con-title" className="space-y-2">
+        <h2 id="con-title" className="text-xl font-bold">
+          Contact resistance
+        </h2>
+        <ContactHistory readings={contacts} />
+      </section>
+      <section aria-labelledby="th-title" className="space-y-2">
+        <h2 id="th-title" className="text-xl font-bold">
+          Thermal findings
+        </h2>
+        <ThermalHistory scans={thermal} />
+      </section>
+      <section aria-labelledby="gl-title" className="space-y-2">
+        <h2 id="gl-title" className="text-xl font-bold">
+          Ground-lamp checks
+        </h2>
+        <GroundCheckHistory checks={groundChecks} />
+      </section>
     </div>
   );
 }

@@ -21,19 +21,53 @@ export default function ComponentReadingsPage() {
   const curator = role === "curator" || role === "admin";
   return (
     <div className="space-y-6">
-      <p><Link to={paths.readingsBoard.href(site.id, c.boardId)} className="inline-flex min-h-11 items-center">← {c.boardName}</Link></p>
-      <h1 className="text-2xl font-bold"><span className="font-mono">{c.designation}</span> · {c.circuit}</h1>
-      <p className="text-mist">Rated {c.ratedVolts} V{override && ` · manufacturer's values in force (${override.source})`}</p>
+      <p>
+        <Link to={paths.readingsBoard.href(site.id, c.boardId)} className="inline-flex min-h-11 items-center">
+          ← {c.boardName}
+        </Link>
+      </p>
+      <h1 className="text-2xl font-bold">
+        <span className="font-mono">{c.designation}</span> · {c.circuit}
+      </h1>
+      <p className="text-mist">
+        Rated {c.ratedVolts} V{override && ` · manufacturer's values in force (${override.source})`}
+      </p>
       <SafetyNotice />
       {(curator || role === "volunteer") && (
-        <RecordPanel siteId={site.id} boardId={c.boardId} lineVolts={c.ratedVolts} componentId={c.id}
-          options={[{ componentId: c.id, designation: c.designation, circuit: c.circuit }]} kinds={["insulation", "contact", "thermal"]} />
+        <RecordPanel
+          siteId={site.id}
+          boardId={c.boardId}
+          lineVolts={c.ratedVolts}
+          componentId={c.id}
+          options={[{ componentId: c.id, designation: c.designation, circuit: c.circuit }]}
+          kinds={["insulation", "contact", "thermal"]}
+        />
       )}
       {curator && <OverrideForm siteId={site.id} componentId={c.id} current={override} />}
-      <section aria-labelledby="dry-out-title" className="space-y-2"><h2 id="dry-out-title" className="text-xl font-bold">Dry-out</h2><DryOutSection readings={insulation} /></section>
-      <section aria-labelledby="ins-title" className="space-y-2"><h2 id="ins-title" className="text-xl font-bold">Insulation readings</h2><InsulationHistory readings={insulation} showTarget={false} /></section>
-      <section aria-labelledby="con-title" className="space-y-2"><h2 id="con-title" className="text-xl font-bold">Contact resistance</h2><ContactHistory readings={contacts} /></section>
-      <section aria-labelledby="th-title" className="space-y-2"><h2 id="th-title" className="text-xl font-bold">Thermal findings</h2><ThermalHistory scans={thermal} /></section>
+      <section aria-labelledby="dry-out-title" className="space-y-2">
+        <h2 id="dry-out-title" className="text-xl font-bold">
+          Dry-out
+        </h2>
+        <DryOutSection readings={insulation} />
+      </section>
+      <section aria-labelledby="ins-title" className="space-y-2">
+        <h2 id="ins-title" className="text-xl font-bold">
+          Insulation readings
+        </h2>
+        <InsulationHistory readings={insulation} showTarget={false} />
+      </section>
+      <section aria-labelledby="con-title" className="space-y-2">
+        <h2 id="con-title" className="text-xl font-bold">
+          Contact resistance
+        </h2>
+        <ContactHistory readings={contacts} />
+      </section>
+      <section aria-labelledby="th-title" className="space-y-2">
+        <h2 id="th-title" className="text-xl font-bold">
+          Thermal findings
+        </h2>
+        <ThermalHistory scans={thermal} />
+      </section>
     </div>
   );
 }

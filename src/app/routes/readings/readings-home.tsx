@@ -18,18 +18,29 @@ export default function ReadingsHome() {
       <SafetyNotice />
       {targets.isPending && <Loading />}
       {targets.isError && <ErrorPanel error={targets.error} />}
-      {targets.data?.length === 0 && <EmptyState title="No boards yet">The curator adds the boards in the inventory first.</EmptyState>}
+      {targets.data?.length === 0 && (
+        <EmptyState title="No boards yet">The curator adds the boards in the inventory first.</EmptyState>
+      )}
       <ul className="grid gap-3 sm:grid-cols-2">
         {targets.data?.map((b) => (
           <li key={b.id}>
-            <Link to={paths.readingsBoard.href(site.id, b.id)} className="block min-h-11 rounded-lg bg-hull-850 p-4 text-chalk no-underline ring-1 ring-hull-700 hover:ring-brass-400">
+            <Link
+              to={paths.readingsBoard.href(site.id, b.id)}
+              className="block min-h-11 rounded-lg bg-hull-850 p-4 text-chalk no-underline ring-1 ring-hull-700 hover:ring-brass-400"
+            >
               <span className="block text-lg font-semibold">{b.name}</span>
-              <span className="block text-sm text-mist">{b.nominalVolts} V · {b.positions.length} positions</span>
+              <span className="block text-sm text-mist">
+                {b.nominalVolts} V · {b.positions.length} positions
+              </span>
             </Link>
           </li>
         ))}
       </ul>
-      <p><Link to={paths.readingsCriteria.href(site.id)} className="inline-flex min-h-11 items-center">Criteria the readings are judged against</Link></p>
+      <p>
+        <Link to={paths.readingsCriteria.href(site.id)} className="inline-flex min-h-11 items-center">
+          Criteria the readings are judged against
+        </Link>
+      </p>
     </div>
   );
 }

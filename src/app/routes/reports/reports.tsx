@@ -22,11 +22,15 @@ export default function ReportsPage() {
     <div className="space-y-6">
       <header>
         <h1 className="text-2xl font-bold">Reports and labels</h1>
-        <p className="text-mist">Hand the survey to owners, insurers, sponsors and the heritage body; print tags for tag-and-bag.</p>
+        <p className="text-mist">
+          Hand the survey to owners, insurers, sponsors and the heritage body; print tags for tag-and-bag.
+        </p>
       </header>
       {boards.isPending && <Loading what="Loading the boards" />}
       {boards.isError && <ErrorPanel error={boards.error} />}
-      {boards.data && boards.data.length === 0 && <EmptyState title="No boards yet">A report needs at least one board.</EmptyState>}
+      {boards.data && boards.data.length === 0 && (
+        <EmptyState title="No boards yet">A report needs at least one board.</EmptyState>
+      )}
       {boards.data && boards.data.length > 0 && (
         <>
           <section className="rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
@@ -41,7 +45,13 @@ export default function ReportsPage() {
                 boardId={boardId}
                 onBoardChange={setLabelBoard}
                 sections={detail.data?.sections ?? []}
-                positions={(detail.data?.positions ?? []).map((p) => ({ id: p.id, designation: p.designation, sectionId: p.sectionId, tagNumber: p.component?.tagNumber ?? null, hasComponent: !!p.component }))}
+                positions={(detail.data?.positions ?? []).map((p) => ({
+                  id: p.id,
+                  designation: p.designation,
+                  sectionId: p.sectionId,
+                  tagNumber: p.component?.tagNumber ?? null,
+                  hasComponent: !!p.component,
+                }))}
                 canAssign={reportAllowed("assignTags", role)}
                 onTagsAssigned={() => void qc.invalidateQueries({ queryKey: inventoryKeys.all(site.id) })}
               />

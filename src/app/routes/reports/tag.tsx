@@ -13,9 +13,19 @@ export default function TagPage() {
     const notFound = q.error instanceof ApiError && q.error.status === 404;
     return (
       <div className="mx-auto max-w-xl space-y-4">
-        <h1 className="text-2xl font-bold">Tag <span className="font-mono">{tag}</span></h1>
-        {notFound ? <p role="alert" className="rounded-md bg-hull-800 p-3 ring-1 ring-rust-400">{q.error.message}</p> : <ErrorPanel error={q.error} />}
-        <Link to={paths.scan.href()} className="inline-flex min-h-11 items-center underline">Scan another tag</Link>
+        <h1 className="text-2xl font-bold">
+          Tag <span className="font-mono">{tag}</span>
+        </h1>
+        {notFound ? (
+          <p role="alert" className="rounded-md bg-hull-800 p-3 ring-1 ring-rust-400">
+            {q.error.message}
+          </p>
+        ) : (
+          <ErrorPanel error={q.error} />
+        )}
+        <Link to={paths.scan.href()} className="inline-flex min-h-11 items-center underline">
+          Scan another tag
+        </Link>
       </div>
     );
   }
@@ -26,11 +36,16 @@ export default function TagPage() {
   }
   return (
     <div className="mx-auto max-w-xl space-y-4">
-      <h1 className="text-2xl font-bold">Tag <span className="font-mono">{tag}</span> is on more than one of your sites</h1>
+      <h1 className="text-2xl font-bold">
+        Tag <span className="font-mono">{tag}</span> is on more than one of your sites
+      </h1>
       <ul className="space-y-2">
         {matches.map((m) => (
           <li key={m.positionId}>
-            <Link to={paths.board.href(m.siteId, m.boardId, m.positionId)} className="flex min-h-11 items-center rounded-md bg-hull-800 px-3 ring-1 ring-hull-600 no-underline">
+            <Link
+              to={paths.board.href(m.siteId, m.boardId, m.positionId)}
+              className="flex min-h-11 items-center rounded-md bg-hull-800 px-3 ring-1 ring-hull-600 no-underline"
+            >
               {m.siteName} · {m.boardName} · <span className="ml-1 font-mono">{m.designation}</span>
             </Link>
           </li>

@@ -25,48 +25,105 @@ export default function BoardReturnToServicePage() {
   const overdue = v.stages.filter((s) => s.watch?.overdueSince);
   return (
     <div className="space-y-6">
-      <p><Link to={paths.board.href(site.id, boardId)} className="inline-flex min-h-11 items-center">← {v.board.name}</Link></p>
+      <p>
+        <Link to={paths.board.href(site.id, boardId)} className="inline-flex min-h-11 items-center">
+          ← {v.board.name}
+        </Link>
+      </p>
       <h1 className="text-2xl font-bold">Return to service · {v.board.name}</h1>
       <SafetyNotice />
       <p className="rounded-md bg-hull-800 p-3 text-sm">
-        Tideline records the plan, the evidence and who signed what, and shows which recorded hold points are met. It never authorises
-        energisation: NFPA 70E, local codes and the qualified person decide every step.
+        Tideline records the plan, the evidence and who signed what, and shows which recorded hold points are met. It
+        never authorises energisation: NFPA 70E, local codes and the qualified person decide every step.
       </p>
       {overdue.map((s) => (
-        <p key={s.id} role="alert" className="rounded-md bg-rust-700 p-3 font-semibold">⚠ Watch check overdue on “{s.name}” since {when(s.watch!.overdueSince!)}. <Link className="underline" to={paths.rtsWatch.href(site.id, boardId, s.id)}>Record it</Link></p>
+        <p key={s.id} role="alert" className="rounded-md bg-rust-700 p-3 font-semibold">
+          ⚠ Watch check overdue on “{s.name}” since {when(s.watch!.overdueSince!)}.{" "}
+          <Link className="underline" to={paths.rtsWatch.href(site.id, boardId, s.id)}>
+            Record it
+          </Link>
+        </p>
       ))}
       <p className="flex flex-wrap gap-3 text-sm">
-        <Link className="inline-flex min-h-11 items-center underline" to={paths.rtsWatch.href(site.id, boardId)}>Watch checks (phone)</Link>
-        <Link className="inline-flex min-h-11 items-center underline" to={paths.readingsBoard.href(site.id, boardId)}>The board's readings</Link>
+        <Link className="inline-flex min-h-11 items-center underline" to={paths.rtsWatch.href(site.id, boardId)}>
+          Watch checks (phone)
+        </Link>
+        <Link className="inline-flex min-h-11 items-center underline" to={paths.readingsBoard.href(site.id, boardId)}>
+          The board's readings
+        </Link>
       </p>
       <section aria-labelledby="plan-title" className="space-y-4">
-        <h2 id="plan-title" className="text-xl font-bold">The plan, stage by stage</h2>
+        <h2 id="plan-title" className="text-xl font-bold">
+          The plan, stage by stage
+        </h2>
         {v.stages.length === 0 && <p className="text-mist">No stages planned yet.</p>}
-        {v.stages.map((s, i) => <StageCard key={s.id} siteId={site.id} boardId={boardId} stage={s} role={role} isQualified={isQualified} index={i} />)}
+        {v.stages.map((s, i) => (
+          <StageCard
+            key={s.id}
+            siteId={site.id}
+            boardId={boardId}
+            stage={s}
+            role={role}
+            isQualified={isQualified}
+            index={i}
+          />
+        ))}
         {canRts(role, "plan") && <NewStageForm siteId={site.id} view={v} />}
       </section>
       <section aria-labelledby="timeline-title" className="space-y-2">
-        <h2 id="timeline-title" className="text-xl font-bold">Timeline</h2>
+        <h2 id="timeline-title" className="text-xl font-bold">
+          Timeline
+        </h2>
         <RtsTimeline events={v.events} />
         <ol className="max-h-96 space-y-1 overflow-y-auto text-sm" aria-label="Log">
           {[...v.events].reverse().map((e) => (
             <li key={`${e.kind}-${e.id}`} className={e.alert ? "font-semibold text-flare-300" : ""}>
-              {when(e.at)} — {e.title}{e.by ? ` (${e.by})` : ""}{e.detail ? ` · ${e.detail}` : ""}
-              {e.defectId && <> · <Link className="underline" to={paths.defect.href(site.id, e.defectId)}>the defect</Link></>}
+              {when(e.at)} — {e.title}
+              {e.by ? ` (${e.by})` : ""}
+              {e.detail ? ` · ${e.detail}` : ""}
+              {e.defectId && (
+                <>
+                  {" "}
+                  ·{" "}
+                  <Link className="underline" to={paths.defect.href(site.id, e.defectId)}>
+                    the defect
+                  </Link>
+                </>
+              )}
             </li>
           ))}
         </ol>
       </section>
       <section aria-labelledby="ops-title" className="space-y-2">
-        <h2 id="ops-title" className="text-xl font-bold">Breaker operations</h2>
-        <p className="text-sm text-mist">Every open and close counted against the breaker's budget. The budget warns; it never blocks.</p>
+        <h2 id="ops-title" className="text-xl font-bold">
+          Breaker operations
+        </h2>
+        <p className="text-sm text-mist">
+          Every open and close counted against the breaker's budget. The budget warns; it never blocks.
+        </p>
         <div className="overflow-x-auto">
           <table className="w-full text-sm">
-            <thead><tr className="text-left"><th className="p-1">Position</th><th className="p-1">Used</th><th className="p-1">Budget</th><th className="p-1">Left</th><th className="p-1">Basis</th></tr></thead>
+            <thead>
+              <tr className="text-left">
+                <th className="p-1">Position</th>
+                <th className="p-1">Used</th>
+                <th className="p-1">Budget</th>
+                <th className="p-1">Left</th>
+                <th className="p-1">Basis</th>
+              </tr>
+            </thead>
             <tbody>
-              {v.breakers.filter((b) => b.status.used > 0).map((b) => (
-                <tr key={b.componentId} className={b.status.overBudget ? "text-rust-300" : ""}><td className="p-1 font-mono">{b.designation}</td><td className="p-1">{b.status.used}</td><td className="p-1">{b.budget}</td><td className="p-1">{b.status.remaining}</td><td className="p-1">{b.budgetBasis}</td></tr>
-              ))}
+              {v.breakers
+                .filter((b) => b.status.used > 0)
+                .map((b) => (
+                  <tr key={b.componentId} className={b.status.overBudget ? "text-rust-300" : ""}>
+                    <td className="p-1 font-mono">{b.designation}</td>
+                    <td className="p-1">{b.status.used}</td>
+                    <td className="p-1">{b.budget}</td>
+                    <td className="p-1">{b.status.remaining}</td>
+                    <td className="p-1">{b.budgetBasis}</td>
+                  </tr>
+                ))}
             </tbody>
           </table>
         </div>

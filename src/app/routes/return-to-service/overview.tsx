@@ -18,8 +18,15 @@ export default function ReturnToServiceOverviewPage() {
       <ul className="space-y-2">
         {q.data.map((b) => (
           <li key={b.boardId} className="rounded-md bg-hull-800 p-3 ring-1 ring-hull-600">
-            <Link className="text-lg font-semibold underline" to={paths.rtsBoard.href(site.id, b.boardId)}>{b.boardName}</Link>
-            <p className="text-sm">{b.stages ? `${b.released} of ${b.stages} stages released` : "No plan yet"}{b.current ? ` · now: ${b.current.name} — ${STAGE_STATE_LABELS[b.current.state]}${b.current.blockers ? ` (${b.current.blockers} open items)` : ""}` : ""}</p>
+            <Link className="text-lg font-semibold underline" to={paths.rtsBoard.href(site.id, b.boardId)}>
+              {b.boardName}
+            </Link>
+            <p className="text-sm">
+              {b.stages ? `${b.released} of ${b.stages} stages released` : "No plan yet"}
+              {b.current
+                ? ` · now: ${b.current.name} — ${STAGE_STATE_LABELS[b.current.state]}${b.current.blockers ? ` (${b.current.blockers} open items)` : ""}`
+                : ""}
+            </p>
             {b.overdue && <p className="text-sm font-semibold text-rust-300">⚠ A watch check is overdue</p>}
           </li>
         ))}

@@ -34,44 +34,149 @@ export default function WatchPage() {
   const needsPhase = lamps === "one_dim" || lamps === "one_dark";
   const save = () =>
     act.mutate(
-      { method: "POST", path: `/return-to-service/stages/${stage!.id}/watch-checks`, body: { lamps, lampPhase: needsPhase ? phase : null, smell, sound, warmToHand: warm, note } },
+      {
+        method: "POST",
+        path: `/return-to-service/stages/${stage!.id}/watch-checks`,
+        body: { lamps, lampPhase: needsPhase ? phase : null, smell, sound, warmToHand: warm, note },
+      },
       {
         onSuccess: (r) => {
           const inc = (r as { incidents: Array<{ defectRef: number }> }).incidents;
-          setDone(inc.length ? `Saved. Incident recorded: defect D-${inc[0].defectRef} opened and the stage is stopped. Tell the qualified person now.` : "Saved. Thank you.");
-          setLamps(null); setPhase(null); setSmell(false); setSound(false); setWarm(false); setNote("");
+          setDone(
+            inc.length
+              ? `Saved. Incident recorded: defect D-${inc[0].defectRef} opened and the stage is stopped. Tell the qualified person now.`
+              : "Saved. Thank you.",
+          );
+          setLamps(null);
+          setPhase(null);
+          setSmell(false);
+          setSound(false);
+          setWarm(false);
+          setNote("");
         },
       },
     );
   return (
     <div className="mx-auto max-w-md space-y-4">
-      <p><Link to={paths.rtsBoard.href(site.id, boardId)} className="inline-flex min-h-11 items-center">← Return to service</Link></p>
+      <p>
+        <Link to={paths.rtsBoard.href(site.id, boardId)} className="inline-flex min-h-11 items-center">
+          ← Return to service
+        </Link>
+      </p>
       <h1 className="text-2xl font-bold">Watch check</h1>
       <SafetyNotice compact />
-      {!stage ? <p>No stage of {q.data.board.name} is live under watch.</p> : (
-        <form className="space-y-4" onSubmit={(e) => { e.preventDefault(); save(); }} aria-label="Watch check">
-          <p className="text-sm"><strong>{stage.name}</strong><br />{stage.watch?.overdueSince ? <span className="font-semibold text-rust-300">Overdue since {new Date(stage.watch.overdueSince).toLocaleTimeString()}</span> : stage.watch?.nextDueAt ? `Next due ${new Date(stage.watch.nextDueAt).toLocaleTimeString()}` : ""}</p>
-          <fieldset className="space-y-2"><legend className="font-semibold">Ground-detection lamps</legend>
-            <div className="grid grid-cols-2 gap-2">{LAMP_LOOKS.map((l) => <button type="button" key={l} aria-pressed={lamps === l} className={`${big} ${pick(lamps === l)}`} onClick={() => setLamps(l)}>{LAMP_LOOK_LABELS[l]}</button>)}</div>
-          </fieldset>
-          {needsPhase && (
-            <fieldset className="space-y-2"><legend className="font-semibold">Which phase's lamp?</legend>
-              <div className="flex gap-2">{(["A", "B", "C"] as const).map((p) => <button type="button" key={p} aria-pressed={phase === p} className={`${big} ${pick(phase === p)}`} onClick={() => setPhase(p)}>{p}</button>)}</div>
-            </fieldset>
-          )}
-          <fieldset className="space-y-2"><legend className="font-semibold">Anything noticed?</legend>
-            <div className="flex gap-2">
-              <button type="button" aria-pressed={smell} className={`${big} ${pick(smell)}`} onClick={() => setSmell(!smell)}>Smell</button>
-              <button type="button" aria-pressed={sound} className={`${big} ${pick(sound)}`} onClick={() => setSound(!sound)}>Sound</button>
-              <button type="button" aria-pressed={warm} className={`${big} ${pick(warm)}`} onClick={() => setWarm(!warm)}>Warm</button>
+      {!stage ? (
+        <p>No stage of {q.data.board.name} is live under watch.</p>
+      ) : (
+        <form
+          className="space-y-4"
+          onSubmit={(e) => {
+            e.preventDefault();
+            save();
+          }}
+          aria-label="Watch check"
+        >
+          <p className="text-sm">
+            <strong>{stage.name}</strong>
+            <br />
+            {stage.watch?.overdueSince ? (
+              <span className="font-semibold text-rust-300">
+                Overdue since {new Date(stage.watch.overdueSince).toLocaleTimeString()}
+              </span>
+            ) : stage.watch?.nextDueAt ? (
+              `Next due ${new Date(stage.watch.nextDueAt).toLocaleTimeString()}`
+            ) : (
+              ""
+            )}
+          </p>
+          <fieldset className="space-y-2">
+            <legend className="font-semibold">Ground-detection lamps</legend>
+            <div className="grid grid-cols-2 gap-2">
+              {LAMP_LOOKS.map((l) => (
+                <button
+                  type="button"
+                  key={l}
+                  aria-pressed={lamps === l}
+                  className={`${big} ${pick(lamps === l)}`}
+                  onClick={() => setLamps(l)}
+                >
+                  {LAMP_LOOK_LABELS[l]}
+                </button>
+              ))}
             </div>
           </fieldset>
-          <label className="block">Note<textarea className="mt-1 w-full rounded-md bg-hull-900 p-2 ring-1 ring-hull-600" value={note} onChange={(e) => setNote(e.target.value)} /></label>
-          {canRts(role, "record_watch")
-            ? <Button type="submit" className="w-full" disabled={!lamps || (needsPhase && !phase) || act.isPending}>Save the check</Button>
-            : <p className="text-mist">Your role reads the watch; volunteers and the curator record checks.</p>}
-          {act.error && <p role="alert" className="text-rust-300">{act.error instanceof ApiError ? act.error.message : String(act.error)}</p>}
-          {done && <p role="status" className="rounded-md bg-hull-800 p-3 font-semibold">{done}</p>}
+          {needsPhase && (
+            <fieldset className="space-y-2">
+              <legend className="font-semibold">Which phase's lamp?</legend>
+              <div className="flex gap-2">
+                {(["A", "B", "C"] as const).map((p) => (
+                  <button
+                    type="button"
+                    key={p}
+                    aria-pressed={phase === p}
+                    className={`${big} ${pick(phase === p)}`}
+                    onClick={() => setPhase(p)}
+                  >
+                    {p}
+                  </button>
+                ))}
+              </div>
+            </fieldset>
+          )}
+          <fieldset className="space-y-2">
+            <legend className="font-semibold">Anything noticed?</legend>
+            <div className="flex gap-2">
+              <button
+                type="button"
+                aria-pressed={smell}
+                className={`${big} ${pick(smell)}`}
+                onClick={() => setSmell(!smell)}
+              >
+                Smell
+              </button>
+              <button
+                type="button"
+                aria-pressed={sound}
+                className={`${big} ${pick(sound)}`}
+                onClick={() => setSound(!sound)}
+              >
+                Sound
+              </button>
+              <button
+                type="button"
+                aria-pressed={warm}
+                className={`${big} ${pick(warm)}`}
+                onClick={() => setWarm(!warm)}
+              >
+                Warm
+              </button>
+            </div>
+          </fieldset>
+          <label className="block">
+            Note
+            <textarea
+              className="mt-1 w-full rounded-md bg-hull-900 p-2 ring-1 ring-hull-600"
+              value={note}
+              onChange={(e) => setNote(e.target.value)}
+            />
+          </label>
+          {canRts(role, "record_watch") ? (
+            <Button type="submit" className="w-full" disabled={!lamps || (needsPhase && !phase) || act.isPending}>
+              Save the check
+            </Button>
+          ) : (
+            <p className="text-mist">Your role reads the watch; volunteers and the curator record checks.</p>
+          )}
+          {act.error && (
+            <p role="alert" className="text-rust-300">
+              {act.error instanceof ApiError ? act.error.message : String(act.error)}
+            </p>
+          )}
+          {done && (
+            <p role="status" className="rounded-md bg-hull-800 p-3 font-semibold">
+              {done}
+            </p>
+          )}
         </form>
       )}
     </div>

@@ -21,7 +21,11 @@ export default function MembersPage() {
   return (
     <div className="space-y-6">
       <h1 className="text-2xl font-bold">Crew on {site.name}</h1>
-      {error && <p role="alert" className="text-flare-300">{error}</p>}
+      {error && (
+        <p role="alert" className="text-flare-300">
+          {error}
+        </p>
+      )}
       {members.isPending && <Loading />}
       {members.isError && <ErrorPanel error={members.error} />}
       <ul className="divide-y divide-hull-700 rounded-lg bg-hull-850 ring-1 ring-hull-700">
@@ -31,16 +35,27 @@ export default function MembersPage() {
               <span className="block font-semibold">{p.name}</span>
               <span className="block text-sm text-mist">{p.email}</span>
             </span>
-            <label className="sr-only" htmlFor={`role-${p.userId}`}>Role of {p.name}</label>
+            <label className="sr-only" htmlFor={`role-${p.userId}`}>
+              Role of {p.name}
+            </label>
             <select
               id={`role-${p.userId}`}
               value={p.role}
               className="min-h-11 rounded-md border border-hull-500 bg-hull-900 px-2"
               onChange={(e) => m.change.mutate({ userId: p.userId, role: e.target.value as Role }, { onError: fail })}
             >
-              {ROLES.map((r) => <option key={r} value={r}>{ROLE_LABELS[r]}</option>)}
+              {ROLES.map((r) => (
+                <option key={r} value={r}>
+                  {ROLE_LABELS[r]}
+                </option>
+              ))}
             </select>
-            <Button tone="quiet" onClick={() => confirm(`Remove ${p.name} from ${site.name}?`) && m.remove.mutate(p.userId, { onError: fail })}>
+            <Button
+              tone="quiet"
+              onClick={() =>
+                confirm(`Remove ${p.name} from ${site.name}?`) && m.remove.mutate(p.userId, { onError: fail })
+              }
+            >
               Remove
             </Button>
           </li>

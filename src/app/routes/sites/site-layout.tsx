@@ -21,14 +21,21 @@ export default function SiteLayout() {
   const { siteId = "" } = useParams();
   const site = useSite(siteId);
   if (site.isPending) return <Loading what="Opening the site" />;
-  if (site.isError) return <main className="p-4"><ErrorPanel error={site.error} /></main>;
+  if (site.isError)
+    return (
+      <main className="p-4">
+        <ErrorPanel error={site.error} />
+      </main>
+    );
   const nav = visibleNav(site.data.role);
   const phone = phoneNav(site.data.role);
   return (
     <>
       <div className="no-print border-b border-hull-700 bg-hull-900/60 px-4">
         <p className="pt-2 text-xs uppercase tracking-widest text-fog">{site.data.kind}</p>
-        <p className="text-lg font-bold" data-testid="site-name">{site.data.name}</p>
+        <p className="text-lg font-bold" data-testid="site-name">
+          {site.data.name}
+        </p>
         <nav aria-label="Site" className="-mx-1 hidden gap-1 overflow-x-auto py-2 md:flex">
           {nav.map((n) => (
             <NavLink key={n.label} to={n.href(siteId)} end className={tab}>
@@ -48,7 +55,9 @@ export default function SiteLayout() {
         ))}
         {phone.more.length > 0 && (
           <details className="relative min-w-0 flex-1">
-            <summary className="flex min-h-11 cursor-pointer list-none items-center justify-center rounded-md px-1 text-[0.8rem] font-semibold text-mist">More</summary>
+            <summary className="flex min-h-11 cursor-pointer list-none items-center justify-center rounded-md px-1 text-[0.8rem] font-semibold text-mist">
+              More
+            </summary>
             <div className="absolute bottom-12 right-0 flex w-48 flex-col rounded-md bg-hull-800 p-1 ring-1 ring-hull-600">
               {phone.more.map((n) => (
                 <NavLink key={n.label} to={n.href(siteId)} end className={tab}>

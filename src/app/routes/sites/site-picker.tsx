@@ -13,7 +13,9 @@ export default function SitePicker() {
       {sites.isPending && <Loading />}
       {sites.isError && <ErrorPanel error={sites.error} />}
       {sites.data?.length === 0 && (
-        <EmptyState title="No sites yet">Ask your curator to add you to a site, or an instance admin to create one.</EmptyState>
+        <EmptyState title="No sites yet">
+          Ask your curator to add you to a site, or an instance admin to create one.
+        </EmptyState>
       )}
       <ul className="mt-4 grid gap-3 sm:grid-cols-2">
         {sites.data?.map((s) => (

@@ -26,8 +26,23 @@ export function SignInForm({ next }: { next: string }) {
   const failure = signIn.error instanceof ApiError ? signIn.error.message : signIn.error ? "Signing in failed." : null;
   return (
     <form onSubmit={submit} noValidate className="space-y-4 rounded-lg bg-hull-850 p-5 ring-1 ring-hull-700">
-      <TextField label="E-mail" name="email" type="email" autoComplete="username" inputMode="email" required error={fields.email} />
-      <TextField label="Password" name="password" type="password" autoComplete="current-password" required error={fields.password} />
+      <TextField
+        label="E-mail"
+        name="email"
+        type="email"
+        autoComplete="username"
+        inputMode="email"
+        required
+        error={fields.email}
+      />
+      <TextField
+        label="Password"
+        name="password"
+        type="password"
+        autoComplete="current-password"
+        required
+        error={fields.password}
+      />
       {failure && (
         <p role="alert" className="text-sm text-flare-300">
           {failure}

@@ -1,4 +1,9 @@
-import { DEFECT_SEVERITY_LABELS, DEFECT_STATUS_LABELS, type DefectSeverity, type DefectStatus } from "../../../domain/vocab";
+import {
+  DEFECT_SEVERITY_LABELS,
+  DEFECT_STATUS_LABELS,
+  type DefectSeverity,
+  type DefectStatus,
+} from "../../../domain/vocab";
 
 // Condition is never colour alone: every badge carries its words (and severity its number).
 const SEVERITY_TONE: Record<DefectSeverity, string> = {
@@ -8,7 +13,13 @@ const SEVERITY_TONE: Record<DefectSeverity, string> = {
   disabling: "bg-flare-700 text-flare-300",
 };
 export function SeverityBadge({ severity }: { severity: DefectSeverity }) {
-  return <span className={`inline-block whitespace-nowrap rounded px-2 py-0.5 text-xs font-semibold ${SEVERITY_TONE[severity]}`}>{DEFECT_SEVERITY_LABELS[severity]}</span>;
+  return (
+    <span
+      className={`inline-block whitespace-nowrap rounded px-2 py-0.5 text-xs font-semibold ${SEVERITY_TONE[severity]}`}
+    >
+      {DEFECT_SEVERITY_LABELS[severity]}
+    </span>
+  );
 }
 
 /*
@@ -18,16 +29,32 @@ export function SeverityBadge({ severity }: { severity: DefectSeverity }) {
  * ⚒ under repair, Ω awaiting re-test (the meter's unit), ✓ closed, ⇥ deferred, ≈ accepted as is.
  */
 const STATUS_MARK: Record<DefectStatus, string> = {
-  raised: "▲", scheduled: "◷", under_repair: "⚒", awaiting_retest: "Ω", closed: "✓", deferred: "⇥", accepted_as_is: "≈",
+  raised: "▲",
+  scheduled: "◷",
+  under_repair: "⚒",
+  awaiting_retest: "Ω",
+  closed: "✓",
+  deferred: "⇥",
+  accepted_as_is: "≈",
 };
 const STATUS_EDGE: Record<DefectStatus, string> = {
-  raised: "border-l-rust-400", scheduled: "border-l-tide-400", under_repair: "border-l-brass-400", awaiting_retest: "border-l-brass-300",
-  closed: "border-l-kelp-400", deferred: "border-l-hull-500", accepted_as_is: "border-l-hull-500",
+  raised: "border-l-rust-400",
+  scheduled: "border-l-tide-400",
+  under_repair: "border-l-brass-400",
+  awaiting_retest: "border-l-brass-300",
+  closed: "border-l-kelp-400",
+  deferred: "border-l-hull-500",
+  accepted_as_is: "border-l-hull-500",
 };
 export function StatusBadge({ status }: { status: DefectStatus; title?: string }) {
   return (
-    <span data-status={status} className={`repair-tag inline-flex items-center gap-1.5 whitespace-nowrap border-l-4 bg-hull-800 py-0.5 pl-2.5 pr-2 text-xs font-semibold ${STATUS_EDGE[status]}`}>
-      <span aria-hidden="true" className="font-mono">{STATUS_MARK[status]}</span>
+    <span
+      data-status={status}
+      className={`repair-tag inline-flex items-center gap-1.5 whitespace-nowrap border-l-4 bg-hull-800 py-0.5 pl-2.5 pr-2 text-xs font-semibold ${STATUS_EDGE[status]}`}
+    >
+      <span aria-hidden="true" className="font-mono">
+        {STATUS_MARK[status]}
+      </span>
       {DEFECT_STATUS_LABELS[status]}
     </span>
   );

@@ -21,37 +21,120 @@ export function EditPanel({ siteId, detail, canManage }: { siteId: string; detai
     const f = new FormData(e.currentTarget);
     patch.mutate(
       {
-        version: d.version, title: f.get("title"), description: f.get("description"), severity: f.get("severity"),
-        safetyCritical: f.get("safetyCritical") === "on", blocksEnergisation: f.get("blocksEnergisation") === "on",
-        effortHours: num(f.get("effortHours")), costEstimate: num(f.get("costEstimate")),
-        partsNeeded: f.get("partsNeeded"), partsState: f.get("partsState"),
+        version: d.version,
+        title: f.get("title"),
+        description: f.get("description"),
+        severity: f.get("severity"),
+        safetyCritical: f.get("safetyCritical") === "on",
+        blocksEnergisation: f.get("blocksEnergisation") === "on",
+        effortHours: num(f.get("effortHours")),
+        costEstimate: num(f.get("costEstimate")),
+        partsNeeded: f.get("partsNeeded"),
+        partsState: f.get("partsState"),
         ...(canManage ? { dueOn: (f.get("dueOn") as string) || null } : {}),
       },
       { onSuccess: () => setOpen(false) },
     );
   }
   if (!detail.canEdit) return null;
-  if (!open) return <Button tone="quiet" onClick={() => setOpen(true)}>Edit the details</Button>;
+  if (!open)
+    return (
+      <Button tone="quiet" onClick={() => setOpen(true)}>
+        Edit the details
+      </Button>
+    );
   return (
-    <form key={d.version} onSubmit={submit} noValidate className="grid gap-3 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700 md:grid-cols-2" aria-label="Edit the defect">
-      {err && <p role="alert" className="text-flare-300 md:col-span-2">{err.status === 409 ? "Someone changed this defect meanwhile; the form now shows their values." : err.message}</p>}
-      <TextField className="md:col-span-2" label="What is wrong" name="title" defaultValue={d.title} error={fields.title} />
-      <TextArea className="md:col-span-2" label="Details" name="description" defaultValue={d.description} error={fields.description} />
-      <SelectField label="Severity" name="severity" defaultValue={d.severity} hint={DEFECT_SEVERITY_DEFINITIONS[d.severity]}>
-        {DEFECT_SEVERITIES.map((s) => <option key={s} value={s}>{DEFECT_SEVERITY_LABELS[s]}</option>)}
+    <form
+      key={d.version}
+      onSubmit={submit}
+      noValidate
+      className="grid gap-3 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700 md:grid-cols-2"
+      aria-label="Edit the defect"
+    >
+      {err && (
+        <p role="alert" className="text-flare-300 md:col-span-2">
+          {err.status === 409 ? "Someone changed this defect meanwhile; the form now shows their values." : err.message}
+        </p>
+      )}
+      <TextField
+        className="md:col-span-2"
+        label="What is wrong"
+        name="title"
+        defaultValue={d.title}
+        error={fields.title}
+      />
+      <TextArea
+        className="md:col-span-2"
+        label="Details"
+        name="description"
+        defaultValue={d.description}
+        error={fields.description}
+      />
+      <SelectField
+        label="Severity"
+        name="severity"
+        defaultValue={d.severity}
+        hint={DEFECT_SEVERITY_DEFINITIONS[d.severity]}
+      >
+        {DEFECT_SEVERITIES.map((s) => (
+          <option key={s} value={s}>
+            {DEFECT_SEVERITY_LABELS[s]}
+          </option>
+        ))}
       </SelectField>
       <SelectField label="Parts" name="partsState" defaultValue={d.partsState}>
-        {PARTS_STATES.map((p) => <option key={p} value={p}>{PARTS_STATE_LABELS[p]}</option>)}
+        {PARTS_STATES.map((p) => (
+          <option key={p} value={p}>
+            {PARTS_STATE_LABELS[p]}
+          </option>
+        ))}
       </SelectField>
-      <label className="flex min-h-11 items-center gap-2"><input type="checkbox" name="safetyCritical" defaultChecked={d.safetyCritical} className="h-5 w-5 accent-brass-400" />⚡ Safety-critical</label>
-      <label className="flex min-h-11 items-center gap-2"><input type="checkbox" name="blocksEnergisation" defaultChecked={d.blocksEnergisation} className="h-5 w-5 accent-brass-400" />■ Blocks energising its section</label>
-      <TextField label="Effort (hours)" name="effortHours" type="number" min={0} step={0.5} defaultValue={d.effortHours ?? ""} error={fields.effortHours} />
-      <TextField label="Cost" name="costEstimate" type="number" min={0} defaultValue={d.costEstimate ?? ""} error={fields.costEstimate} />
+      <label className="flex min-h-11 items-center gap-2">
+        <input
+          type="checkbox"
+          name="safetyCritical"
+          defaultChecked={d.safetyCritical}
+          className="h-5 w-5 accent-brass-400"
+        />
+        ⚡ Safety-critical
+      </label>
+      <label className="flex min-h-11 items-center gap-2">
+        <input
+          type="checkbox"
+          name="blocksEnergisation"
+          defaultChecked={d.blocksEnergisation}
+          className="h-5 w-5 accent-brass-400"
+        />
+        ■ Blocks energising its section
+      </label>
+      <TextField
+        label="Effort (hours)"
+        name="effortHours"
+        type="number"
+        min={0}
+        step={0.5}
+        defaultValue={d.effortHours ?? ""}
+        error={fields.effortHours}
+      />
+      <TextField
+        label="Cost"
+        name="costEstimate"
+        type="number"
+        min={0}
+        defaultValue={d.costEstimate ?? ""}
+        error={fields.costEstimate}
+      />
       <TextField label="Parts needed" name="partsNeeded" defaultValue={d.partsNeeded} />
-      {canManage && <TextField label="Due on" name="dueOn" type="date" defaultValue={d.dueOn ?? ""} error={fields.dueOn} />}
+      {canManage && (
+        <TextField label="Due on" name="dueOn" type="date" defaultValue={d.dueOn ?? ""} error={fields.dueOn} />
+      )}
       <div className="flex gap-2 md:col-span-2">
-        <Button type="submit" disabled={patch.isPending}>Save</Button>
-        <Button tone="quiet" onClick={() => setOpen(false)}>Cancel</Button>
+        <Button type="submit" disabled={patch.isPending}>
+          Save
+        </Button>
+        <Button tone="quiet" onClick={() => setOpen(false)}>
+          Cancel
+        </Button>
       </div>
     </form>
   );

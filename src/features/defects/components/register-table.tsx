@@ -21,7 +21,10 @@ function onGridKey(e: KeyboardEvent<HTMLTableSectionElement>) {
   const links = [...e.currentTarget.querySelectorAll<HTMLAnchorElement>("a[data-row-link]")];
   const at = links.indexOf(document.activeElement as HTMLAnchorElement);
   if (at < 0) return;
-  const go = (i: number) => { e.preventDefault(); links[Math.max(0, Math.min(links.length - 1, i))].focus(); };
+  const go = (i: number) => {
+    e.preventDefault();
+    links[Math.max(0, Math.min(links.length - 1, i))].focus();
+  };
   if (e.key === "ArrowDown" || e.key === "j") go(at + 1);
   else if (e.key === "ArrowUp" || e.key === "k") go(at - 1);
   else if (e.key === "Home") go(0);
@@ -70,12 +73,22 @@ export function RegisterTable({ siteId, rows, total, state, onState, selection, 
                 const sorted = h.column.getIsSorted();
                 const can = h.column.getCanSort();
                 return (
-                  <th key={h.id} scope="col" aria-sort={sorted ? (sorted === "asc" ? "ascending" : "descending") : undefined}
-                    className="sticky top-0 z-10 whitespace-nowrap border-b border-hull-600 bg-hull-800 px-2 py-2 text-left font-semibold text-mist">
+                  <th
+                    key={h.id}
+                    scope="col"
+                    aria-sort={sorted ? (sorted === "asc" ? "ascending" : "descending") : undefined}
+                    className="sticky top-0 z-10 whitespace-nowrap border-b border-hull-600 bg-hull-800 px-2 py-2 text-left font-semibold text-mist"
+                  >
                     {can ? (
-                      <button type="button" onClick={h.column.getToggleSortingHandler()} className="inline-flex min-h-11 items-center gap-1 hover:text-chalk">
+                      <button
+                        type="button"
+                        onClick={h.column.getToggleSortingHandler()}
+                        className="inline-flex min-h-11 items-center gap-1 hover:text-chalk"
+                      >
                         <table.FlexRender header={h} />
-                        <span aria-hidden="true" className="text-brass-300">{sorted === "asc" ? "▲" : sorted === "desc" ? "▼" : "↕"}</span>
+                        <span aria-hidden="true" className="text-brass-300">
+                          {sorted === "asc" ? "▲" : sorted === "desc" ? "▼" : "↕"}
+                        </span>
                       </button>
                     ) : (
                       <table.FlexRender header={h} />
@@ -88,7 +101,10 @@ export function RegisterTable({ siteId, rows, total, state, onState, selection, 
         </thead>
         <tbody onKeyDown={onGridKey}>
           {table.getRowModel().rows.map((row) => (
-            <tr key={row.id} className={`border-b border-hull-700 ${row.getIsSelected() ? "bg-brass-700/25" : "odd:bg-hull-900 even:bg-hull-850"} focus-within:outline focus-within:outline-2 focus-within:outline-brass-400`}>
+            <tr
+              key={row.id}
+              className={`border-b border-hull-700 ${row.getIsSelected() ? "bg-brass-700/25" : "odd:bg-hull-900 even:bg-hull-850"} focus-within:outline focus-within:outline-2 focus-within:outline-brass-400`}
+            >
               {row.getVisibleCells().map((cell) => (
                 <td key={cell.id} className="px-2 py-2 align-top">
                   <table.FlexRender cell={cell} />

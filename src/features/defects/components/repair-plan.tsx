@@ -10,44 +10,100 @@ const money = (n: number) => n.toLocaleString(undefined, { maximumFractionDigits
 
 /** Active defects per board and section in the site's priority order, with totals per section. */
 export function RepairPlanSheet({ siteId, plan }: { siteId: string; plan: RepairPlan }) {
-  if (!plan.boards.length) return <EmptyState title="Nothing to repair">No open defects: the plan fills as the crew raises defects from the survey.</EmptyState>;
+  if (!plan.boards.length)
+    return (
+      <EmptyState title="Nothing to repair">
+        No open defects: the plan fills as the crew raises defects from the survey.
+      </EmptyState>
+    );
   return (
     <div className="plan-sheet space-y-8">
       {plan.boards.map((b) => (
         <section key={b.boardId} className="plan-board space-y-4" aria-labelledby={`plan-${b.boardId}`}>
-          <h2 id={`plan-${b.boardId}`} className="text-xl font-bold">{b.boardName}</h2>
+          <h2 id={`plan-${b.boardId}`} className="text-xl font-bold">
+            {b.boardName}
+          </h2>
           {b.sections.map((s) => (
             <div key={s.sectionId ?? "none"} className="overflow-x-auto">
               <table className="w-full text-sm">
                 <caption className="pb-1 text-left">
                   <span className="font-semibold">{s.sectionName}</span>
-                  <span className="ml-2 text-mist">— {s.defects.length} defects · {hours(s.effortHours)}{s.unestimated ? ` + ${s.unestimated} not estimated` : ""} · cost {money(s.cost)}</span>
+                  <span className="ml-2 text-mist">
+                    — {s.defects.length} defects · {hours(s.effortHours)}
+                    {s.unestimated ? ` + ${s.unestimated} not estimated` : ""} · cost {money(s.cost)}
+                  </span>
                 </caption>
                 <thead>
                   <tr className="bg-hull-800 text-left text-mist">
-                    <th scope="col" className="px-2 py-1">Order</th><th scope="col" className="px-2 py-1">Ref</th><th scope="col" className="px-2 py-1">Position</th>
-                    <th scope="col" className="px-2 py-1">Defect</th><th scope="col" className="px-2 py-1">Severity</th><th scope="col" className="px-2 py-1">Status</th>
-                    <th scope="col" className="px-2 py-1">Assignee</th><th scope="col" className="px-2 py-1 text-right">Effort</th><th scope="col" className="px-2 py-1 text-right">Cost</th>
+                    <th scope="col" className="px-2 py-1">
+                      Order
+                    </th>
+                    <th scope="col" className="px-2 py-1">
+                      Ref
+                    </th>
+                    <th scope="col" className="px-2 py-1">
+                      Position
+                    </th>
+                    <th scope="col" className="px-2 py-1">
+                      Defect
+                    </th>
+                    <th scope="col" className="px-2 py-1">
+                      Severity
+                    </th>
+                    <th scope="col" className="px-2 py-1">
+                      Status
+                    </th>
+                    <th scope="col" className="px-2 py-1">
+                      Assignee
+                    </th>
+                    <th scope="col" className="px-2 py-1 text-right">
+                      Effort
+                    </th>
+                    <th scope="col" className="px-2 py-1 text-right">
+                      Cost
+                    </th>
                   </tr>
                 </thead>
                 <tbody>
                   {s.defects.map((d) => (
                     <tr key={d.id} className="border-b border-hull-700">
-                      <td className="px-2 py-1 font-mono">{d.rank}{d.pinned && <span title="Order set by the curator" className="ml-1 text-xs">{d.pinned === "above" ? "↑" : "↓"} order<span className="sr-only"> set by the curator</span></span>}</td>
-                      <td className="px-2 py-1 font-mono"><Link to={paths.defect.href(siteId, d.id)}>D-{d.ref}</Link></td>
+                      <td className="px-2 py-1 font-mono">
+                        {d.rank}
+                        {d.pinned && (
+                          <span title="Order set by the curator" className="ml-1 text-xs">
+                            {d.pinned === "above" ? "↑" : "↓"} order<span className="sr-only"> set by the curator</span>
+                          </span>
+                        )}
+                      </td>
+                      <td className="px-2 py-1 font-mono">
+                        <Link to={paths.defect.href(siteId, d.id)}>D-{d.ref}</Link>
+                      </td>
                       <td className="px-2 py-1 font-mono">{d.designation ?? "—"}</td>
-                      <td className="px-2 py-1">{d.title}<FlagMarks safety={d.safetyCritical} blocking={d.blocksEnergisation} /></td>
-                      <td className="px-2 py-1"><SeverityBadge severity={d.severity} /></td>
-                      <td className="px-2 py-1"><StatusBadge status={d.status} /></td>
+                      <td className="px-2 py-1">
+                        {d.title}
+                        <FlagMarks safety={d.safetyCritical} blocking={d.blocksEnergisation} />
+                      </td>
+                      <td className="px-2 py-1">
+                        <SeverityBadge severity={d.severity} />
+                      </td>
+                      <td className="px-2 py-1">
+                        <StatusBadge status={d.status} />
+                      </td>
                       <td className="px-2 py-1">{d.assigneeName ?? "—"}</td>
-                      <td className="px-2 py-1 text-right font-mono">{d.effortHours === null ? "?" : hours(d.effortHours)}</td>
-                      <td className="px-2 py-1 text-right font-mono">{d.costEstimate === null ? "—" : money(d.costEstimate)}</td>
+                      <td className="px-2 py-1 text-right font-mono">
+                        {d.effortHours === null ? "?" : hours(d.effortHours)}
+                      </td>
+                      <td className="px-2 py-1 text-right font-mono">
+                        {d.costEstimate === null ? "—" : money(d.costEstimate)}
+                      </td>
                     </tr>
                   ))}
                 </tbody>
                 <tfoot>
                   <tr className="font-semibold">
-                    <th scope="row" colSpan={7} className="px-2 py-1 text-left">Section total</th>
+                    <th scope="row" colSpan={7} className="px-2 py-1 text-left">
+                      Section total
+                    </th>
                     <td className="px-2 py-1 text-right font-mono">{hours(s.effortHours)}</td>
                     <td className="px-2 py-1 text-right font-mono">{money(s.cost)}</td>
                   </tr>

@@ -17,25 +17,63 @@ export function SavedViews({ siteId, query }: { siteId: string; query: string })
   function submit(e: FormEvent) {
     e.preventDefault();
     setError(null);
-    save.mutate({ name, query }, { onSuccess: () => setName(""), onError: (err) => setError(err instanceof ApiError ? err.message : "Not saved.") });
+    save.mutate(
+      { name, query },
+      {
+        onSuccess: () => setName(""),
+        onError: (err) => setError(err instanceof ApiError ? err.message : "Not saved."),
+      },
+    );
   }
   return (
     <div className="flex flex-wrap items-end gap-2">
-      <label className="text-sm font-semibold text-mist">My views
-        <select className="mt-1 block min-h-11 rounded-md border border-hull-500 bg-hull-900 px-2 text-chalk" value={current?.id ?? ""}
-          onChange={(e) => { const v = views.data?.find((x) => x.id === e.target.value); navigate(paths.defects.href(siteId, v?.query ?? "")); }}>
+      <label className="text-sm font-semibold text-mist">
+        My views
+        <select
+          className="mt-1 block min-h-11 rounded-md border border-hull-500 bg-hull-900 px-2 text-chalk"
+          value={current?.id ?? ""}
+          onChange={(e) => {
+            const v = views.data?.find((x) => x.id === e.target.value);
+            navigate(paths.defects.href(siteId, v?.query ?? ""));
+          }}
+        >
           <option value="">{current ? "—" : "Choose a saved view"}</option>
-          {views.data?.map((v) => <option key={v.id} value={v.id}>{v.name}</option>)}
+          {views.data?.map((v) => (
+            <option key={v.id} value={v.id}>
+              {v.name}
+            </option>
+          ))}
         </select>
       </label>
-      {current && <button type="button" className="min-h-11 px-2 text-sm underline" onClick={() => del.mutate(current.id)}>Delete “{current.name}”</button>}
+      {current && (
+        <button type="button" className="min-h-11 px-2 text-sm underline" onClick={() => del.mutate(current.id)}>
+          Delete “{current.name}”
+        </button>
+      )}
       <form onSubmit={submit} className="flex items-end gap-2">
-        <label className="text-sm font-semibold text-mist">Save this view as
-          <input value={name} onChange={(e) => setName(e.target.value)} required maxLength={80} className="mt-1 block min-h-11 w-44 rounded-md border border-hull-500 bg-hull-900 px-2 text-chalk" />
+        <label className="text-sm font-semibold text-mist">
+          Save this view as
+          <input
+            value={name}
+            onChange={(e) => setName(e.target.value)}
+            required
+            maxLength={80}
+            className="mt-1 block min-h-11 w-44 rounded-md border border-hull-500 bg-hull-900 px-2 text-chalk"
+          />
         </label>
-        <button type="submit" className="min-h-11 rounded-md bg-hull-800 px-3 font-semibold ring-1 ring-hull-600" disabled={save.isPending}>Save view</button>
+        <button
+          type="submit"
+          className="min-h-11 rounded-md bg-hull-800 px-3 font-semibold ring-1 ring-hull-600"
+          disabled={save.isPending}
+        >
+          Save view
+        </button>
       </form>
-      {error && <p role="alert" className="text-sm text-flare-300">{error}</p>}
+      {error && (
+        <p role="alert" className="text-sm text-flare-300">
+          {error}
+        </p>
+      )}
     </div>
   );
 }

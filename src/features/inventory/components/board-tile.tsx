@@ -19,7 +19,9 @@ export function tileDescription(t: TileRow): string {
   const parts = [`Position ${t.designation}`, COMPONENT_KIND_LABELS[t.kind]];
   if (t.circuit) parts.push(`feeds ${t.circuit}`);
   parts.push(t.latest?.astmGrade != null ? `rust grade ${t.latest.astmGrade}` : "not graded");
-  parts.push(c?.disposition ? DISPOSITION_LABELS[c.disposition] + (c.dispositionOverridden ? " (override)" : "") : "undecided");
+  parts.push(
+    c?.disposition ? DISPOSITION_LABELS[c.disposition] + (c.dispositionOverridden ? " (override)" : "") : "undecided",
+  );
   if (c && c.custody !== "in_place") parts.push(CUSTODY_LABELS[c.custody]);
   if (t.photoCount > 0) parts.push(`${t.photoCount} photo${t.photoCount === 1 ? "" : "s"}`);
   if (t.openDefectCount > 0) parts.push(`${t.openDefectCount} open defect${t.openDefectCount === 1 ? "" : "s"}`);
@@ -46,17 +48,28 @@ export const BoardTile = forwardRef<HTMLButtonElement, Props>(function BoardTile
       tabIndex={tabIndex}
       onClick={() => onOpen(t)}
       onKeyDown={(e) => onKeyDown(e, t)}
-      style={{ gridRow: `${t.gridRow} / span ${t.rowSpan}`, gridColumn: `${t.gridCol} / span ${t.colSpan}`, ...custodyPattern(c?.custody) }}
+      style={{
+        gridRow: `${t.gridRow} / span ${t.rowSpan}`,
+        gridColumn: `${t.gridCol} / span ${t.colSpan}`,
+        ...custodyPattern(c?.custody),
+      }}
       className={`group relative flex min-h-[4.5rem] flex-col overflow-hidden rounded-md bg-hull-800 p-1.5 text-left text-chalk ring-1 transition-opacity
         ${selected ? "ring-2 ring-brass-300" : c?.custody === "missing" ? "ring-0 outline-2 outline-dashed outline-fog" : "ring-hull-600 hover:ring-brass-400"}
         ${dimmed ? "opacity-25" : ""}`}
     >
       {c?.dispositionOverridden && (
-        <span aria-hidden="true" className="absolute right-0 top-0 h-0 w-0 border-l-[14px] border-t-[14px] border-l-transparent border-t-brass-300" />
+        <span
+          aria-hidden="true"
+          className="absolute right-0 top-0 h-0 w-0 border-l-[14px] border-t-[14px] border-l-transparent border-t-brass-300"
+        />
       )}
       <span className="flex items-start justify-between gap-1 pr-2">
-        <span className="min-w-0 truncate whitespace-nowrap font-mono text-[13px] font-bold leading-4 tracking-tight">{t.designation}</span>
-        <span className={`shrink-0 rounded px-1 font-mono text-[11px] font-bold leading-4 ${gradeTone(grade)}`}>{grade == null ? "G –" : `G${grade}`}</span>
+        <span className="min-w-0 truncate whitespace-nowrap font-mono text-[13px] font-bold leading-4 tracking-tight">
+          {t.designation}
+        </span>
+        <span className={`shrink-0 rounded px-1 font-mono text-[11px] font-bold leading-4 ${gradeTone(grade)}`}>
+          {grade == null ? "G –" : `G${grade}`}
+        </span>
       </span>
       <span className="mt-1 flex items-center gap-1 whitespace-nowrap text-[11px] leading-none text-mist">
         <KindGlyph kind={t.kind} className="h-3.5 w-3.5 shrink-0" />
@@ -64,23 +77,34 @@ export const BoardTile = forwardRef<HTMLButtonElement, Props>(function BoardTile
         {c?.ratingAmps != null && <span className="text-fog">{c.ratingAmps} A</span>}
       </span>
       <span className="mt-auto pt-1">
-        <span className={`inline-block whitespace-nowrap rounded border bg-hull-900/80 px-1 text-[10px] leading-[14px] ${DISPOSITION_STYLE[disp].chip}`}>
+        <span
+          className={`inline-block whitespace-nowrap rounded border bg-hull-900/80 px-1 text-[10px] leading-[14px] ${DISPOSITION_STYLE[disp].chip}`}
+        >
           <span aria-hidden="true">{DISPOSITION_STYLE[disp].mark} </span>
           {disp === "undecided" ? "undecided" : DISPOSITION_LABELS[disp].toLowerCase()}
         </span>
       </span>
-      {out && <span className={`mt-0.5 truncate text-[10px] ${t.photoCount > 0 || t.openDefectCount > 0 ? "pr-8" : ""} font-semibold uppercase leading-3 tracking-wide text-chalk`}>{CUSTODY_SHORT[c.custody]}</span>}
+      {out && (
+        <span
+          className={`mt-0.5 truncate text-[10px] ${t.photoCount > 0 || t.openDefectCount > 0 ? "pr-8" : ""} font-semibold uppercase leading-3 tracking-wide text-chalk`}
+        >
+          {CUSTODY_SHORT[c.custody]}
+        </span>
+      )}
       {(t.photoCount > 0 || t.openDefectCount > 0) && (
         <span className="absolute bottom-1 right-1 flex gap-0.5" aria-hidden="true">
           {t.photoCount > 0 && (
             <span className="flex items-center rounded bg-hull-950/80 px-0.5 text-tide-300" title="photos">
               <svg viewBox="0 0 16 16" className="h-3 w-3" fill="none" stroke="currentColor" strokeWidth="1.6">
-                <path d="M2 5h3l1.5-2h3L11 5h3v8H2Z" /><circle cx="8" cy="9" r="2.3" />
+                <path d="M2 5h3l1.5-2h3L11 5h3v8H2Z" />
+                <circle cx="8" cy="9" r="2.3" />
               </svg>
             </span>
           )}
           {t.openDefectCount > 0 && (
-            <span className="rounded bg-flare-700 px-1 text-[10px] font-bold leading-3 text-chalk ring-1 ring-flare-400">!{t.openDefectCount}</span>
+            <span className="rounded bg-flare-700 px-1 text-[10px] font-bold leading-3 text-chalk ring-1 ring-flare-400">
+              !{t.openDefectCount}
+            </span>
           )}
         </span>
       )}

@@ -17,7 +17,17 @@ const LABELS = { custody: "Where it is", custodyLocation: "Location", tagNumber:
  * tag (typed, scanned with a keyboard-wedge scanner, or generated), and the curator may
  * release a refused move with a written reason.
  */
-export function CustodyForm({ siteId, component, canRelease, onSaved }: { siteId: string; component: Held; canRelease: boolean; onSaved: (move: CustodyMove) => void }) {
+export function CustodyForm({
+  siteId,
+  component,
+  canRelease,
+  onSaved,
+}: {
+  siteId: string;
+  component: Held;
+  canRelease: boolean;
+  onSaved: (move: CustodyMove) => void;
+}) {
   const [base, setBase] = useState<Held>(component);
   const options = useCustodyOptions(siteId, base.id);
   // The person's own pick, else the server's proposal: derived on each render, so a refetch of
@@ -42,62 +52,174 @@ export function CustodyForm({ siteId, component, canRelease, onSaved }: { siteId
   function save(version: number) {
     if (!to) return;
     move.mutate(
-      { componentId: base.id, toState: to, location: location.trim(), note: note.trim(), version,
-        ...(needsTag && tag.trim() ? { tagNumber: tag.trim() } : {}), ...(refusals.length && release.trim() ? { releaseReason: release.trim() } : {}) },
-      { onSuccess: (r) => { setBase(r.component); setPicked(null); setLocation(""); setNote(""); setTag(""); setRelease(""); onSaved(r.move); } },
+      {
+        componentId: base.id,
+        toState: to,
+        location: location.trim(),
+        note: note.trim(),
+        version,
+        ...(needsTag && tag.trim() ? { tagNumber: tag.trim() } : {}),
+        ...(refusals.length && release.trim() ? { releaseReason: release.trim() } : {}),
+      },
+      {
+        onSuccess: (r) => {
+          setBase(r.component);
+          setPicked(null);
+          setLocation("");
+          setNote("");
+          setTag("");
+          setRelease("");
+          onSaved(r.move);
+        },
+      },
     );
   }
-  const submit = (e: FormEvent) => { e.preventDefault(); save(base.version); };
-  const generate = () => { setTagError(null); fetchNextTag(siteId).then((r) => setTag(r.tagNumber), () => setTagError("No tag could be generated: type one.")); };
-  const choose = (c: Custody) => { setPicked(c); move.reset(); };
+  const submit = (e: FormEvent) => {
+    e.preventDefault();
+    save(base.version);
+  };
+  const generate = () => {
+    setTagError(null);
+    fetchNextTag(siteId).then(
+      (r) => setTag(r.tagNumber),
+      () => setTagError("No tag could be generated: type one."),
+    );
+  };
+  const choose = (c: Custody) => {
+    setPicked(c);
+    move.reset();
+  };
   const moves = options.data?.moves ?? [];
-  const ordered = [...moves].sort((a, b) => (a.to === options.data?.proposed ? -1 : b.to === options.data?.proposed ? 1 : a.refusals.length - b.refusals.length));
+  const ordered = [...moves].sort((a, b) =>
+    a.to === options.data?.proposed ? -1 : b.to === options.data?.proposed ? 1 : a.refusals.length - b.refusals.length,
+  );
   return (
     <form onSubmit={submit} className="space-y-3" aria-label="Log a custody move">
-      <p className="text-sm">Now: <strong data-testid="custody-now">{CUSTODY_LABELS[base.custody]}</strong>{base.tagNumber && <span className="font-mono text-mist"> · tag {base.tagNumber}</span>}</p>
+      <p className="text-sm">
+        Now: <strong data-testid="custody-now">{CUSTODY_LABELS[base.custody]}</strong>
+        {base.tagNumber && <span className="font-mono text-mist"> · tag {base.tagNumber}</span>}
+      </p>
       {options.data && (
         <p className="text-sm text-mist" data-testid="custody-proposal">
-          {options.data.proposed ? <>Next on the chain: <strong className="text-chalk">{CUSTODY_LABELS[options.data.proposed]}</strong></> : "The chain is complete here: choose a move only if the part moves again."}
+          {options.data.proposed ? (
+            <>
+              Next on the chain: <strong className="text-chalk">{CUSTODY_LABELS[options.data.proposed]}</strong>
+            </>
+          ) : (
+            "The chain is complete here: choose a move only if the part moves again."
+          )}
         </p>
       )}
       <fieldset>
         <legend className="text-sm font-semibold text-mist">Move it to</legend>
         <div className="mt-1 grid grid-cols-2 gap-2">
           {ordered.map((m) => (
-            <button key={m.to} type="button" aria-pressed={to === m.to} onClick={() => choose(m.to)}
-              className={`min-h-12 rounded-md px-3 py-1 text-left font-semibold ring-1 ${to === m.to ? "bg-tide-300 text-hull-950 ring-tide-300" : m.refusals.length ? "bg-hull-850 text-mist ring-hull-700" : "bg-hull-800 ring-hull-600"}`}>
+            <button
+              key={m.to}
+              type="button"
+              aria-pressed={to === m.to}
+              onClick={() => choose(m.to)}
+              className={`min-h-12 rounded-md px-3 py-1 text-left font-semibold ring-1 ${to === m.to ? "bg-tide-300 text-hull-950 ring-tide-300" : m.refusals.length ? "bg-hull-850 text-mist ring-hull-700" : "bg-hull-800 ring-hull-600"}`}
+            >
               {CUSTODY_LABELS[m.to]}
-              {m.refusals.some((r) => r.rule !== "tag_required") && <span className="block text-xs font-normal">{m.refusals.some((r) => r.status === 409) ? "✕ not on the chain" : "△ needs a proof"}</span>}
+              {m.refusals.some((r) => r.rule !== "tag_required") && (
+                <span className="block text-xs font-normal">
+                  {m.refusals.some((r) => r.status === 409) ? "✕ not on the chain" : "△ needs a proof"}
+                </span>
+              )}
             </button>
           ))}
         </div>
       </fieldset>
       {refusals.length > 0 && (
-        <div role="note" aria-label="What this move still needs" className="rounded-md border-l-4 border-rust-400 bg-hull-850 p-2 text-sm" data-testid="custody-refusals">
-          <ul className="list-disc space-y-1 pl-5">{refusals.map((r) => <li key={r.rule}>{r.message}</li>)}</ul>
+        <div
+          role="note"
+          aria-label="What this move still needs"
+          className="rounded-md border-l-4 border-rust-400 bg-hull-850 p-2 text-sm"
+          data-testid="custody-refusals"
+        >
+          <ul className="list-disc space-y-1 pl-5">
+            {refusals.map((r) => (
+              <li key={r.rule}>{r.message}</li>
+            ))}
+          </ul>
           {canRelease && releasable ? (
-            <TextField label="Release it anyway — the reason is recorded and shown" value={release} onChange={(e) => setRelease(e.target.value)}
-              placeholder="e.g. refitted for a dry fit only, locked out" error={err?.fields.releaseReason} className="mt-2" />
-          ) : <p className="mt-1 text-mist">{releasable ? "The curator can release it with a written reason." : "Fix this first."}</p>}
+            <TextField
+              label="Release it anyway — the reason is recorded and shown"
+              value={release}
+              onChange={(e) => setRelease(e.target.value)}
+              placeholder="e.g. refitted for a dry fit only, locked out"
+              error={err?.fields.releaseReason}
+              className="mt-2"
+            />
+          ) : (
+            <p className="mt-1 text-mist">
+              {releasable ? "The curator can release it with a written reason." : "Fix this first."}
+            </p>
+          )}
         </div>
       )}
       {needsTag && (
         <div className="flex items-end gap-2">
-          <TextField label="Tag number on the bag" value={tag} onChange={(e) => setTag(e.target.value)} error={err?.fields.tagNumber ?? tagError ?? undefined}
-            className="flex-1 [&_input]:font-mono" required autoComplete="off" />
-          <Button type="button" tone="quiet" className="mb-0.5" onClick={generate}>Generate a tag</Button>
+          <TextField
+            label="Tag number on the bag"
+            value={tag}
+            onChange={(e) => setTag(e.target.value)}
+            error={err?.fields.tagNumber ?? tagError ?? undefined}
+            className="flex-1 [&_input]:font-mono"
+            required
+            autoComplete="off"
+          />
+          <Button type="button" tone="quiet" className="mb-0.5" onClick={generate}>
+            Generate a tag
+          </Button>
         </div>
       )}
-      <TextField label="Where is it now?" placeholder="e.g. workshop bench 2, crate B" value={location} onChange={(e) => setLocation(e.target.value)} error={err?.fields.location} />
-      <TextField label="Note (optional)" value={note} onChange={(e) => setNote(e.target.value)} error={err?.fields.note} />
+      <TextField
+        label="Where is it now?"
+        placeholder="e.g. workshop bench 2, crate B"
+        value={location}
+        onChange={(e) => setLocation(e.target.value)}
+        error={err?.fields.location}
+      />
+      <TextField
+        label="Note (optional)"
+        value={note}
+        onChange={(e) => setNote(e.target.value)}
+        error={err?.fields.note}
+      />
       {conflict && (
-        <ConflictNotice base={base} current={conflict} labels={LABELS} busy={move.isPending}
-          onUseTheirs={() => { setBase(conflict); setPicked(null); move.reset(); }}
-          onApplyMine={() => { setBase(conflict); save(conflict.version); }} />
+        <ConflictNotice
+          base={base}
+          current={conflict}
+          labels={LABELS}
+          busy={move.isPending}
+          onUseTheirs={() => {
+            setBase(conflict);
+            setPicked(null);
+            move.reset();
+          }}
+          onApplyMine={() => {
+            setBase(conflict);
+            save(conflict.version);
+          }}
+        />
       )}
-      {err && !conflict && <p role="alert" className="text-sm text-flare-300">{err.message}</p>}
-      <Button type="submit" className="w-full min-h-14 text-lg" disabled={move.isPending || options.isFetching || !to || blocked}>
-        {move.isPending ? "Saving…" : to ? `Save move: ${CUSTODY_LABELS[to]}${refusals.length && !blocked ? " (released)" : ""}` : "Choose where it went"}
+      {err && !conflict && (
+        <p role="alert" className="text-sm text-flare-300">
+          {err.message}
+        </p>
+      )}
+      <Button
+        type="submit"
+        className="w-full min-h-14 text-lg"
+        disabled={move.isPending || options.isFetching || !to || blocked}
+      >
+        {move.isPending
+          ? "Saving…"
+          : to
+            ? `Save move: ${CUSTODY_LABELS[to]}${refusals.length && !blocked ? " (released)" : ""}`
+            : "Choose where it went"}
       </Button>
     </form>
   );

@@ -8,17 +8,33 @@ import type { Component, RecommendationResponse } from "../contract";
 import { ConflictNotice, conflictRecord } from "./conflict-notice";
 import { DISPOSITION_STYLE } from "./tile-style";
 
-const LABELS = { disposition: "Disposition", dispositionReason: "Reason", dispositionOverridden: "Overrides the recommendation" };
+const LABELS = {
+  disposition: "Disposition",
+  dispositionReason: "Reason",
+  dispositionOverridden: "Overrides the recommendation",
+};
 
 function Recommendation({ rec }: { rec: RecommendationResponse | null }) {
   const r = rec?.recommendation;
-  if (!r) return <p className="text-sm text-fog">No recommendation yet: record the site's flood event first (water type drives the guidance).</p>;
+  if (!r)
+    return (
+      <p className="text-sm text-fog">
+        No recommendation yet: record the site's flood event first (water type drives the guidance).
+      </p>
+    );
   return (
     <div className="rounded-md bg-hull-800 p-3 text-sm" data-testid="recommendation">
       <p>
-        Recommended: <strong className={`rounded border px-1 ${DISPOSITION_STYLE[r.disposition].chip}`}>{DISPOSITION_LABELS[r.disposition]}</strong>
+        Recommended:{" "}
+        <strong className={`rounded border px-1 ${DISPOSITION_STYLE[r.disposition].chip}`}>
+          {DISPOSITION_LABELS[r.disposition]}
+        </strong>
       </p>
-      <ul className="mt-2 list-disc space-y-1 pl-5 text-mist">{r.reasons.map((x) => <li key={x}>{x}</li>)}</ul>
+      <ul className="mt-2 list-disc space-y-1 pl-5 text-mist">
+        {r.reasons.map((x) => (
+          <li key={x}>{x}</li>
+        ))}
+      </ul>
       {rec.assumptions.length > 0 && (
         <p className="mt-2 text-xs text-brass-300">Assumed: {rec.assumptions.join(" ")}</p>
       )}
@@ -28,7 +44,12 @@ function Recommendation({ rec }: { rec: RecommendationResponse | null }) {
 }
 
 /** The curator's decision: the recommendation with its reasons, and an override that needs a reason. */
-export function DispositionControl({ siteId, component, recommendation, canDecide }: {
+export function DispositionControl({
+  siteId,
+  component,
+  recommendation,
+  canDecide,
+}: {
   siteId: string;
   component: Component;
   recommendation: RecommendationResponse | null;
@@ -44,28 +65,47 @@ export function DispositionControl({ siteId, component, recommendation, canDecid
   // A newer version that changed no disposition field (e.g. a custody move) is adopted quietly;
   // one that changed the decision is left for the 409 to show.
   useEffect(() => {
-    const sameDecision = component.disposition === base.disposition && component.dispositionReason === base.dispositionReason;
+    const sameDecision =
+      component.disposition === base.disposition && component.dispositionReason === base.dispositionReason;
     if (component.version > base.version && sameDecision && !decide.isPending) setBase(component);
   }, [component, base, decide.isPending]);
   const overriding = !!choice && !!recommended && choice !== recommended;
 
   function save(version: number) {
     if (!choice) return;
-    if (overriding && !reason.trim()) { setFieldError("Say why you are overriding the recommendation"); return; }
+    if (overriding && !reason.trim()) {
+      setFieldError("Say why you are overriding the recommendation");
+      return;
+    }
     setFieldError(undefined);
-    decide.mutate({ componentId: component.id, disposition: choice, reason: reason.trim(), version }, {
-      onSuccess: (r) => { setBase(r.component); setReason(""); },
-      onError: (e) => { if (e instanceof ApiError && e.fields.reason) setFieldError(e.fields.reason); },
-    });
+    decide.mutate(
+      { componentId: component.id, disposition: choice, reason: reason.trim(), version },
+      {
+        onSuccess: (r) => {
+          setBase(r.component);
+          setReason("");
+        },
+        onError: (e) => {
+          if (e instanceof ApiError && e.fields.reason) setFieldError(e.fields.reason);
+        },
+      },
+    );
   }
-  const submit = (e: FormEvent) => { e.preventDefault(); save(base.version); };
+  const submit = (e: FormEvent) => {
+    e.preventDefault();
+    save(base.version);
+  };
 
   return (
     <section aria-labelledby="disp-title" className="space-y-3">
-      <h3 id="disp-title" className="text-base font-bold">Disposition</h3>
+      <h3 id="disp-title" className="text-base font-bold">
+        Disposition
+      </h3>
       <p className="text-sm">
         Decided: <strong>{component.disposition ? DISPOSITION_LABELS[component.disposition] : "not yet"}</strong>
-        {component.dispositionOverridden && <span className="ml-2 rounded bg-brass-300 px-1 text-xs font-semibold text-hull-950">override</span>}
+        {component.dispositionOverridden && (
+          <span className="ml-2 rounded bg-brass-300 px-1 text-xs font-semibold text-hull-950">override</span>
+        )}
         {component.dispositionReason && <span className="block text-mist">“{component.dispositionReason}”</span>}
       </p>
       <Recommendation rec={recommendation} />
@@ -75,25 +115,67 @@ export function DispositionControl({ siteId, component, recommendation, canDecid
             <legend className="text-sm font-semibold text-mist">Decide</legend>
             <div className="mt-1 grid grid-cols-2 gap-2">
               {DISPOSITIONS.map((d) => (
-                <label key={d} className={`flex min-h-11 cursor-pointer items-center gap-2 rounded-md border px-3 ${choice === d ? "border-brass-300 bg-hull-700" : "border-hull-600"}`}>
-                  <input type="radio" name="disposition" value={d} checked={choice === d} onChange={() => setChoice(d)} className="h-4 w-4 accent-brass-400" />
-                  {DISPOSITION_LABELS[d]}{d === recommended && <span className="text-xs text-fog">(recommended)</span>}
+                <label
+                  key={d}
+                  className={`flex min-h-11 cursor-pointer items-center gap-2 rounded-md border px-3 ${choice === d ? "border-brass-300 bg-hull-700" : "border-hull-600"}`}
+                >
+                  <input
+                    type="radio"
+                    name="disposition"
+                    value={d}
+                    checked={choice === d}
+                    onChange={() => setChoice(d)}
+                    className="h-4 w-4 accent-brass-400"
+                  />
+                  {DISPOSITION_LABELS[d]}
+                  {d === recommended && <span className="text-xs text-fog">(recommended)</span>}
                 </label>
               ))}
             </div>
           </fieldset>
           {overriding && (
-            <TextArea label="Why override the recommendation? (recorded)" value={reason} onChange={(e) => setReason(e.target.value)} error={fieldError}
-              hint="E.g. keep original fabric: rebuild under a qualified person instead of replacing." />
+            <TextArea
+              label="Why override the recommendation? (recorded)"
+              value={reason}
+              onChange={(e) => setReason(e.target.value)}
+              error={fieldError}
+              hint="E.g. keep original fabric: rebuild under a qualified person instead of replacing."
+            />
           )}
           {conflict && (
-            <ConflictNotice base={base} current={conflict} labels={LABELS} busy={decide.isPending}
-              onUseTheirs={() => { setBase(conflict); setChoice(conflict.disposition); setReason(""); decide.reset(); }}
-              onApplyMine={() => { setBase(conflict); save(conflict.version); }} />
+            <ConflictNotice
+              base={base}
+              current={conflict}
+              labels={LABELS}
+              busy={decide.isPending}
+              onUseTheirs={() => {
+                setBase(conflict);
+                setChoice(conflict.disposition);
+                setReason("");
+                decide.reset();
+              }}
+              onApplyMine={() => {
+                setBase(conflict);
+                save(conflict.version);
+              }}
+            />
           )}
-          {decide.isError && !conflict && !fieldError && <p role="alert" className="text-sm text-flare-300">{(decide.error as Error).message}</p>}
-          {decide.isSuccess && <p role="status" className="text-sm text-kelp-300">Saved.</p>}
-          <Button type="submit" disabled={!choice || decide.isPending || (choice === component.disposition && !reason.trim())}>{overriding ? "Save override" : "Save disposition"}</Button>
+          {decide.isError && !conflict && !fieldError && (
+            <p role="alert" className="text-sm text-flare-300">
+              {(decide.error as Error).message}
+            </p>
+          )}
+          {decide.isSuccess && (
+            <p role="status" className="text-sm text-kelp-300">
+              Saved.
+            </p>
+          )}
+          <Button
+            type="submit"
+            disabled={!choice || decide.isPending || (choice === component.disposition && !reason.trim())}
+          >
+            {overriding ? "Save override" : "Save disposition"}
+          </Button>
         </form>
       )}
     </section>

@@ -1,8 +1,18 @@
 import type { ComponentKind } from "../../../domain/vocab";
 
 export type NameplateKey =
-  | "maker" | "model" | "frame" | "mounting" | "ratingAmps" | "poles" | "voltageRating" | "interruptingKa"
-  | "serial" | "year" | "meterRange" | "lampWatts";
+  | "maker"
+  | "model"
+  | "frame"
+  | "mounting"
+  | "ratingAmps"
+  | "poles"
+  | "voltageRating"
+  | "interruptingKa"
+  | "serial"
+  | "year"
+  | "meterRange"
+  | "lampWatts";
 
 export const NAMEPLATE_LABELS: Record<NameplateKey, string> = {
   maker: "Maker",
@@ -18,7 +28,14 @@ export const NAMEPLATE_LABELS: Record<NameplateKey, string> = {
   meterRange: "Meter range",
   lampWatts: "Lamp wattage (W)",
 };
-export const NUMERIC_NAMEPLATE = new Set<NameplateKey>(["ratingAmps", "poles", "voltageRating", "interruptingKa", "year", "lampWatts"]);
+export const NUMERIC_NAMEPLATE = new Set<NameplateKey>([
+  "ratingAmps",
+  "poles",
+  "voltageRating",
+  "interruptingKa",
+  "year",
+  "lampWatts",
+]);
 
 const COMMON_HEAD: NameplateKey[] = ["maker", "model"];
 const COMMON_TAIL: NameplateKey[] = ["serial", "year"];
@@ -40,4 +57,8 @@ const BY_KIND: Record<ComponentKind, NameplateKey[]> = {
 };
 
 /** The nameplate fields that make sense for a kind: a meter has a range, a lamp a wattage, a breaker its frame and kA. */
-export const nameplateFieldsFor = (kind: ComponentKind): NameplateKey[] => [...COMMON_HEAD, ...BY_KIND[kind], ...COMMON_TAIL];
+export const nameplateFieldsFor = (kind: ComponentKind): NameplateKey[] => [
+  ...COMMON_HEAD,
+  ...BY_KIND[kind],
+  ...COMMON_TAIL,
+];

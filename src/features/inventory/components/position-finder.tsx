@@ -12,7 +12,8 @@ function useDebounced<T>(value: T, ms: number): T {
   return v;
 }
 
-const pick = "flex min-h-12 w-full items-center gap-3 rounded-md bg-hull-800 px-3 text-left ring-1 ring-hull-600 hover:ring-brass-400";
+const pick =
+  "flex min-h-12 w-full items-center gap-3 rounded-md bg-hull-800 px-3 text-left ring-1 ring-hull-600 hover:ring-brass-400";
 
 /** Find a position by typing what is painted on the board or written on the tag, or by board → position. */
 export function PositionFinder({ siteId, onPick }: { siteId: string; onPick: (positionId: string) => void }) {
@@ -25,14 +26,28 @@ export function PositionFinder({ siteId, onPick }: { siteId: string; onPick: (po
   return (
     <div className="space-y-5">
       <div>
-        <label htmlFor="find-position" className="block text-sm font-semibold text-mist">Designation or tag number</label>
-        <input id="find-position" type="search" autoComplete="off" autoCapitalize="characters" enterKeyHint="search" value={text}
-          onChange={(e) => setText(e.target.value)} placeholder="e.g. 2-14 or T-031"
-          className="mt-1 block min-h-14 w-full rounded-md border border-hull-500 bg-hull-900 px-3 font-mono text-xl text-chalk placeholder:text-fog" />
+        <label htmlFor="find-position" className="block text-sm font-semibold text-mist">
+          Designation or tag number
+        </label>
+        <input
+          id="find-position"
+          type="search"
+          autoComplete="off"
+          autoCapitalize="characters"
+          enterKeyHint="search"
+          value={text}
+          onChange={(e) => setText(e.target.value)}
+          placeholder="e.g. 2-14 or T-031"
+          className="mt-1 block min-h-14 w-full rounded-md border border-hull-500 bg-hull-900 px-3 font-mono text-xl text-chalk placeholder:text-fog"
+        />
         <div aria-live="polite" className="mt-2">
           {q && hits.isFetching && !hits.data && <p className="text-sm text-mist">Looking…</p>}
           {q && hits.data?.length === 0 && <p className="text-sm text-mist">Nothing painted or tagged “{q}”.</p>}
-          {hits.isError && <p role="alert" className="text-sm text-flare-300">{hits.error.message}</p>}
+          {hits.isError && (
+            <p role="alert" className="text-sm text-flare-300">
+              {hits.error.message}
+            </p>
+          )}
           {q && hits.data && hits.data.length > 0 && (
             <ul className="space-y-2" aria-label="Matching positions">
               {hits.data.map((h) => (
@@ -41,8 +56,15 @@ export function PositionFinder({ siteId, onPick }: { siteId: string; onPick: (po
                     <KindGlyph kind={h.kind} className="h-5 w-5 shrink-0 text-mist" />
                     <span className="font-mono text-lg font-bold">{h.designation}</span>
                     <span className="min-w-0 flex-1 truncate text-sm text-mist">
-                      {h.boardName}{h.sectionName ? ` · ${h.sectionName}` : ""}{h.circuit ? ` · ${h.circuit}` : ""}
-                      {h.tagNumber && <span className="block font-mono">tag {h.tagNumber}{h.custody ? ` · ${CUSTODY_LABELS[h.custody]}` : ""}</span>}
+                      {h.boardName}
+                      {h.sectionName ? ` · ${h.sectionName}` : ""}
+                      {h.circuit ? ` · ${h.circuit}` : ""}
+                      {h.tagNumber && (
+                        <span className="block font-mono">
+                          tag {h.tagNumber}
+                          {h.custody ? ` · ${CUSTODY_LABELS[h.custody]}` : ""}
+                        </span>
+                      )}
                     </span>
                   </button>
                 </li>
@@ -52,19 +74,36 @@ export function PositionFinder({ siteId, onPick }: { siteId: string; onPick: (po
         </div>
       </div>
       <div>
-        <label htmlFor="pick-board" className="block text-sm font-semibold text-mist">…or pick the board</label>
-        <select id="pick-board" value={boardId} onChange={(e) => setBoardId(e.target.value)}
-          className="mt-1 block min-h-12 w-full rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk">
+        <label htmlFor="pick-board" className="block text-sm font-semibold text-mist">
+          …or pick the board
+        </label>
+        <select
+          id="pick-board"
+          value={boardId}
+          onChange={(e) => setBoardId(e.target.value)}
+          className="mt-1 block min-h-12 w-full rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk"
+        >
           <option value="">Choose a board</option>
-          {boards.data?.map((b) => <option key={b.id} value={b.id}>{b.name}</option>)}
+          {boards.data?.map((b) => (
+            <option key={b.id} value={b.id}>
+              {b.name}
+            </option>
+          ))}
         </select>
         {board.data && (
           <ul className="mt-2 grid grid-cols-3 gap-2" aria-label={`Positions on ${board.data.board.name}`}>
             {board.data.positions.map((p) => (
               <li key={p.id}>
-                <button type="button" onClick={() => onPick(p.id)} className="flex min-h-12 w-full flex-col items-start justify-center rounded-md bg-hull-800 px-2 ring-1 ring-hull-600">
+                <button
+                  type="button"
+                  onClick={() => onPick(p.id)}
+                  className="flex min-h-12 w-full flex-col items-start justify-center rounded-md bg-hull-800 px-2 ring-1 ring-hull-600"
+                >
                   <span className="font-mono font-bold">{p.designation}</span>
-                  <span className="text-[11px] text-mist">{COMPONENT_KIND_SHORT[p.kind]}{p.latest?.astmGrade != null ? ` · G${p.latest.astmGrade}` : " · not graded"}</span>
+                  <span className="text-[11px] text-mist">
+                    {COMPONENT_KIND_SHORT[p.kind]}
+                    {p.latest?.astmGrade != null ? ` · G${p.latest.astmGrade}` : " · not graded"}
+                  </span>
                 </button>
               </li>
             ))}

@@ -1,11 +1,21 @@
 import {
-  CONTAMINANT_LABELS, CUSTODY_LABELS, DISPOSITION_LABELS, INSULATION_STATE_LABELS, MECHANISM_LABELS,
+  CONTAMINANT_LABELS,
+  CUSTODY_LABELS,
+  DISPOSITION_LABELS,
+  INSULATION_STATE_LABELS,
+  MECHANISM_LABELS,
 } from "../../../domain/vocab";
 import type { AuditRow, CustodyMove, Inspection } from "../contract";
 import { gradeTone } from "./tile-style";
 
 export const when = (iso: string) =>
-  new Date(iso).toLocaleString(undefined, { day: "numeric", month: "short", year: "numeric", hour: "2-digit", minute: "2-digit" });
+  new Date(iso).toLocaleString(undefined, {
+    day: "numeric",
+    month: "short",
+    year: "numeric",
+    hour: "2-digit",
+    minute: "2-digit",
+  });
 
 const val = (v: unknown): string => {
   if (v === null || v === undefined || v === "") return "—";
@@ -18,7 +28,9 @@ function changes(row: AuditRow): Array<[string, unknown, unknown]> {
   const b = (row.before ?? {}) as Record<string, unknown>;
   const a = (row.after ?? {}) as Record<string, unknown>;
   if (typeof a !== "object" || typeof b !== "object") return [];
-  const keys = [...new Set([...Object.keys(b), ...Object.keys(a)])].filter((k) => !["id", "version", "updatedAt", "createdAt", "siteId"].includes(k));
+  const keys = [...new Set([...Object.keys(b), ...Object.keys(a)])].filter(
+    (k) => !["id", "version", "updatedAt", "createdAt", "siteId"].includes(k),
+  );
   return keys.slice(0, 8).map((k) => [k, b[k], a[k]]);
 }
 
@@ -29,11 +41,22 @@ export function AuditHistory({ rows }: { rows: AuditRow[] }) {
     <ol className="space-y-2 text-sm" data-testid="position-history">
       {rows.map((r) => (
         <li key={r.id} className="rounded-md bg-hull-800 p-2">
-          <p><span className="font-semibold">{r.actorName ?? "Someone"}</span> · {r.entityType} {r.action.replace(/_/g, " ")}</p>
+          <p>
+            <span className="font-semibold">{r.actorName ?? "Someone"}</span> · {r.entityType}{" "}
+            {r.action.replace(/_/g, " ")}
+          </p>
           <p className="text-xs text-fog">{when(r.at)}</p>
           <ul className="mt-1 space-y-0.5 font-mono text-xs text-mist">
             {changes(r).map(([k, b, a]) => (
-              <li key={k} className="break-words">{k}: {b !== undefined && <><s className="text-fog">{val(b)}</s> → </>}<span className="text-chalk">{val(a)}</span></li>
+              <li key={k} className="break-words">
+                {k}:{" "}
+                {b !== undefined && (
+                  <>
+                    <s className="text-fog">{val(b)}</s> →{" "}
+                  </>
+                )}
+                <span className="text-chalk">{val(a)}</span>
+              </li>
             ))}
           </ul>
         </li>
@@ -46,18 +69,28 @@ export function InspectionSummary({ i }: { i: Inspection }) {
   return (
     <div className="text-sm">
       <p className="flex flex-wrap items-center gap-2">
-        <span className={`rounded px-1 font-mono font-bold ${gradeTone(i.astmGrade)}`}>{i.astmGrade == null ? "G –" : `ASTM D610 grade ${i.astmGrade}`}</span>
+        <span className={`rounded px-1 font-mono font-bold ${gradeTone(i.astmGrade)}`}>
+          {i.astmGrade == null ? "G –" : `ASTM D610 grade ${i.astmGrade}`}
+        </span>
         {i.isoRi && <span className="font-mono text-mist">ISO {i.isoRi}</span>}
         {i.percentRusted != null && <span className="text-mist">{i.percentRusted} % rusted</span>}
       </p>
       <p className="mt-1 text-mist">
-        {i.belowWaterLine == null ? "Water line: not recorded" : i.belowWaterLine ? "Was below the water line" : "Stayed above the water line"}
+        {i.belowWaterLine == null
+          ? "Water line: not recorded"
+          : i.belowWaterLine
+            ? "Was below the water line"
+            : "Stayed above the water line"}
         {i.mechanism && ` · mechanism: ${MECHANISM_LABELS[i.mechanism].toLowerCase()}`}
         {i.insulation && ` · insulation: ${INSULATION_STATE_LABELS[i.insulation].toLowerCase()}`}
       </p>
-      {i.contaminants.length > 0 && <p className="text-mist">Found: {i.contaminants.map((c) => CONTAMINANT_LABELS[c].toLowerCase()).join(", ")}</p>}
+      {i.contaminants.length > 0 && (
+        <p className="text-mist">Found: {i.contaminants.map((c) => CONTAMINANT_LABELS[c].toLowerCase()).join(", ")}</p>
+      )}
       {i.notes && <p className="mt-1">“{i.notes}”</p>}
-      <p className="text-xs text-fog">{i.inspectorName ?? "Someone"} · {when(i.inspectedAt)}</p>
+      <p className="text-xs text-fog">
+        {i.inspectorName ?? "Someone"} · {when(i.inspectedAt)}
+      </p>
     </div>
   );
 }
@@ -72,15 +105,22 @@ export function CustodyTrail({ moves }: { moves: CustodyMove[] }) {
           {m.location && <span className="text-mist"> · {m.location}</span>}
           {m.note && <span className="block text-mist">“{m.note}”</span>}
           {m.releaseReason && (
-            <span className="mt-0.5 block rounded bg-flare-700/30 px-1.5 py-0.5 text-flare-300" data-testid="custody-release">
-              Released by the curator past {m.releasedRules.length} check{m.releasedRules.length === 1 ? "" : "s"} of the chain: “{m.releaseReason}”
+            <span
+              className="mt-0.5 block rounded bg-flare-700/30 px-1.5 py-0.5 text-flare-300"
+              data-testid="custody-release"
+            >
+              Released by the curator past {m.releasedRules.length} check{m.releasedRules.length === 1 ? "" : "s"} of
+              the chain: “{m.releaseReason}”
             </span>
           )}
-          <span className="block text-xs text-fog">{m.movedByName ?? "Someone"} · {when(m.movedAt)}</span>
+          <span className="block text-xs text-fog">
+            {m.movedByName ?? "Someone"} · {when(m.movedAt)}
+          </span>
         </li>
       ))}
     </ol>
   );
 }
 
-export const dispositionWord = (d: keyof typeof DISPOSITION_LABELS | null) => (d ? DISPOSITION_LABELS[d] : "Not decided");
+export const dispositionWord = (d: keyof typeof DISPOSITION_LABELS | null) =>
+  d ? DISPOSITION_LABELS[d] : "Not decided";

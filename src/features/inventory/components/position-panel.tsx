@@ -24,13 +24,21 @@ function Nameplate({ c }: { c: Component }) {
     .map((k) => [NAMEPLATE_LABELS[k], c[k]] as const)
     .filter(([, v]) => v !== null && v !== "");
   return (
-    <dl className="grid grid-cols-[auto_1fr] gap-x-3 gap-y-1 rounded-md bg-hull-800 p-3 font-mono text-sm" aria-label="Nameplate">
+    <dl
+      className="grid grid-cols-[auto_1fr] gap-x-3 gap-y-1 rounded-md bg-hull-800 p-3 font-mono text-sm"
+      aria-label="Nameplate"
+    >
       {rows.length === 0 && <dd className="col-span-2 font-sans text-fog">Nameplate not recorded yet.</dd>}
       {rows.map(([label, v]) => (
-        <div key={label} className="contents"><dt className="font-sans text-mist">{label}</dt><dd>{String(v)}</dd></div>
+        <div key={label} className="contents">
+          <dt className="font-sans text-mist">{label}</dt>
+          <dd>{String(v)}</dd>
+        </div>
       ))}
-      <dt className="font-sans text-mist">Heritage</dt><dd className="font-sans">{HERITAGE_LABELS[c.heritage]}</dd>
-      <dt className="font-sans text-mist">Tag</dt><dd>{c.tagNumber ?? "not tagged"}</dd>
+      <dt className="font-sans text-mist">Heritage</dt>
+      <dd className="font-sans">{HERITAGE_LABELS[c.heritage]}</dd>
+      <dt className="font-sans text-mist">Tag</dt>
+      <dd>{c.tagNumber ?? "not tagged"}</dd>
     </dl>
   );
 }
@@ -38,7 +46,14 @@ function Nameplate({ c }: { c: Component }) {
 const H = ({ children }: { children: React.ReactNode }) => <h3 className="mt-5 text-base font-bold">{children}</h3>;
 
 /** Side panel (a full-height drawer on a phone) with everything about one position. */
-export function PositionPanel({ siteId, positionId, canDecide, links, onClose, photos }: {
+export function PositionPanel({
+  siteId,
+  positionId,
+  canDecide,
+  links,
+  onClose,
+  photos,
+}: {
   siteId: string;
   positionId: string;
   canDecide: boolean;
@@ -49,7 +64,9 @@ export function PositionPanel({ siteId, positionId, canDecide, links, onClose, p
 }) {
   const q = usePosition(siteId, positionId);
   const closeRef = useRef<HTMLButtonElement>(null);
-  useEffect(() => { closeRef.current?.focus(); }, [positionId]);
+  useEffect(() => {
+    closeRef.current?.focus();
+  }, [positionId]);
   useEffect(() => {
     const esc = (e: KeyboardEvent) => e.key === "Escape" && onClose();
     window.addEventListener("keydown", esc);
@@ -70,38 +87,103 @@ export function PositionPanel({ siteId, positionId, canDecide, links, onClose, p
             {d && <KindGlyph kind={d.position.kind} className="h-6 w-6 text-mist" />}
             <span className="font-mono">{d?.position.designation ?? "…"}</span>
           </h2>
-          {d && <p className="text-sm text-mist">{COMPONENT_KIND_LABELS[d.position.kind]} · {d.board.name}{d.section ? ` · ${d.section.name}` : ""}{d.position.circuit ? ` · feeds ${d.position.circuit}` : ""}</p>}
+          {d && (
+            <p className="text-sm text-mist">
+              {COMPONENT_KIND_LABELS[d.position.kind]} · {d.board.name}
+              {d.section ? ` · ${d.section.name}` : ""}
+              {d.position.circuit ? ` · feeds ${d.position.circuit}` : ""}
+            </p>
+          )}
         </div>
-        <button ref={closeRef} type="button" onClick={onClose} className="min-h-11 min-w-11 rounded-md text-2xl ring-1 ring-hull-600 hover:bg-hull-700" aria-label="Close the position panel">×</button>
+        <button
+          ref={closeRef}
+          type="button"
+          onClick={onClose}
+          className="min-h-11 min-w-11 rounded-md text-2xl ring-1 ring-hull-600 hover:bg-hull-700"
+          aria-label="Close the position panel"
+        >
+          ×
+        </button>
       </div>
       {q.isPending && <Loading what="Opening the position" />}
       {q.isError && <ErrorPanel error={q.error} />}
       {d && (
         <div className="mt-3">
           <nav aria-label="Position actions" className="flex flex-wrap gap-2 text-sm">
-            {links.quickLog && <Link className="inline-flex min-h-11 items-center rounded-md bg-brass-400 px-3 font-semibold text-hull-950 no-underline" to={links.quickLog}>Log inspection or move</Link>}
-            {links.defect && <Link className="inline-flex min-h-11 items-center rounded-md px-3 ring-1 ring-hull-600" to={links.defect(d.inspections[0])}>Raise a defect</Link>}
-            {links.readings && d.component && <Link className="inline-flex min-h-11 items-center rounded-md px-3 ring-1 ring-hull-600" to={links.readings(d.component.id)}>Test readings</Link>}
-            {links.setup && <Link className="inline-flex min-h-11 items-center rounded-md px-3 ring-1 ring-hull-600" to={links.setup}>Edit position</Link>}
+            {links.quickLog && (
+              <Link
+                className="inline-flex min-h-11 items-center rounded-md bg-brass-400 px-3 font-semibold text-hull-950 no-underline"
+                to={links.quickLog}
+              >
+                Log inspection or move
+              </Link>
+            )}
+            {links.defect && (
+              <Link
+                className="inline-flex min-h-11 items-center rounded-md px-3 ring-1 ring-hull-600"
+                to={links.defect(d.inspections[0])}
+              >
+                Raise a defect
+              </Link>
+            )}
+            {links.readings && d.component && (
+              <Link
+                className="inline-flex min-h-11 items-center rounded-md px-3 ring-1 ring-hull-600"
+                to={links.readings(d.component.id)}
+              >
+                Test readings
+              </Link>
+            )}
+            {links.setup && (
+              <Link className="inline-flex min-h-11 items-center rounded-md px-3 ring-1 ring-hull-600" to={links.setup}>
+                Edit position
+              </Link>
+            )}
           </nav>
-          {d.component ? <><H>Component</H><Nameplate c={d.component} /></> : <p className="mt-3 text-fog">No component in this position.</p>}
+          {d.component ? (
+            <>
+              <H>Component</H>
+              <Nameplate c={d.component} />
+            </>
+          ) : (
+            <p className="mt-3 text-fog">No component in this position.</p>
+          )}
           {photos && <div className="mt-4">{photos}</div>}
           <H>Latest inspection</H>
-          {d.inspections[0] ? <InspectionSummary i={d.inspections[0]} /> : <p className="text-sm text-fog">Not surveyed yet.</p>}
+          {d.inspections[0] ? (
+            <InspectionSummary i={d.inspections[0]} />
+          ) : (
+            <p className="text-sm text-fog">Not surveyed yet.</p>
+          )}
           <H>Custody</H>
           {d.component && (
-            <p className="mb-2 text-sm"><strong>{CUSTODY_LABELS[d.component.custody]}</strong>{d.component.custodyLocation && ` · ${d.component.custodyLocation}`}</p>
+            <p className="mb-2 text-sm">
+              <strong>{CUSTODY_LABELS[d.component.custody]}</strong>
+              {d.component.custodyLocation && ` · ${d.component.custodyLocation}`}
+            </p>
           )}
           <CustodyTrail moves={d.custodyMoves} />
           {d.component && (
             <div className="mt-5">
-              <DispositionControl key={d.component.id} siteId={siteId} component={d.component} recommendation={d.recommendation} canDecide={canDecide} />
+              <DispositionControl
+                key={d.component.id}
+                siteId={siteId}
+                component={d.component}
+                recommendation={d.recommendation}
+                canDecide={canDecide}
+              />
             </div>
           )}
           {d.inspections.length > 1 && (
             <>
               <H>Earlier inspections</H>
-              <ol className="space-y-2">{d.inspections.slice(1).map((i) => <li key={i.id} className="rounded-md bg-hull-800 p-2"><InspectionSummary i={i} /></li>)}</ol>
+              <ol className="space-y-2">
+                {d.inspections.slice(1).map((i) => (
+                  <li key={i.id} className="rounded-md bg-hull-800 p-2">
+                    <InspectionSummary i={i} />
+                  </li>
+                ))}
+              </ol>
             </>
           )}
           <H>History of this position</H>

@@ -48,7 +48,10 @@ export function custodyPattern(custody: Custody | undefined): CSSProperties {
     case "scrapped":
       return { backgroundImage: `${hatch(45, line)}, ${hatch(135, line)}` };
     case "missing":
-      return { backgroundImage: "radial-gradient(rgba(237,242,245,0.22) 1px, transparent 1.5px)", backgroundSize: "7px 7px" };
+      return {
+        backgroundImage: "radial-gradient(rgba(237,242,245,0.22) 1px, transparent 1.5px)",
+        backgroundSize: "7px 7px",
+      };
     default:
       return {};
   }

@@ -9,10 +9,16 @@ export function NotificationSwitches() {
   const set = useSetNotification();
   return (
     <section aria-labelledby="notif-title" className="space-y-3 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
-      <h2 id="notif-title" className="text-lg font-semibold">E-mail notifications</h2>
+      <h2 id="notif-title" className="text-lg font-semibold">
+        E-mail notifications
+      </h2>
       {prefs.isPending && <Loading what="Loading your settings" />}
       {prefs.isError && <ErrorPanel error={prefs.error} />}
-      {set.isError && <p role="alert" className="text-flare-300">{set.error instanceof ApiError ? set.error.message : "The change was not saved."}</p>}
+      {set.isError && (
+        <p role="alert" className="text-flare-300">
+          {set.error instanceof ApiError ? set.error.message : "The change was not saved."}
+        </p>
+      )}
       <ul className="space-y-2">
         {prefs.data?.map((p) => (
           <li key={p.key}>
@@ -28,9 +34,12 @@ export function NotificationSwitches() {
               />
               <span>
                 <span className="block font-semibold">
-                  {NOTIFICATION_LABELS[p.key].label} <span className="text-sm font-normal text-mist">({p.enabled ? "on" : "off"})</span>
+                  {NOTIFICATION_LABELS[p.key].label}{" "}
+                  <span className="text-sm font-normal text-mist">({p.enabled ? "on" : "off"})</span>
                 </span>
-                <span id={`hint-${p.key}`} className="block text-sm text-mist">{NOTIFICATION_LABELS[p.key].hint}</span>
+                <span id={`hint-${p.key}`} className="block text-sm text-mist">
+                  {NOTIFICATION_LABELS[p.key].hint}
+                </span>
               </span>
             </label>
           </li>

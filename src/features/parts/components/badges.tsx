@@ -10,7 +10,10 @@ const RULE_STYLE: Record<HeritageRule, { mark: string; cls: string }> = {
 export function HeritageRuleBadge({ rule, large = false }: { rule: HeritageRule; large?: boolean }) {
   const s = RULE_STYLE[rule];
   return (
-    <span data-testid="heritage-rule" className={`inline-flex items-center gap-1.5 rounded-md border-2 font-semibold ${s.cls} ${large ? "px-3 py-1.5 text-base" : "px-2 py-0.5 text-sm"}`}>
+    <span
+      data-testid="heritage-rule"
+      className={`inline-flex items-center gap-1.5 rounded-md border-2 font-semibold ${s.cls} ${large ? "px-3 py-1.5 text-base" : "px-2 py-0.5 text-sm"}`}
+    >
       <span aria-hidden="true">{s.mark}</span>
       {HERITAGE_RULE_LABELS[rule]}
     </span>
@@ -21,16 +24,31 @@ export function HeritageRuleBadge({ rule, large = false }: { rule: HeritageRule;
  * Where the part is on its way to the board, as a store-room word with a mark of its own
  * (⌕ hunted, ☍ a lead, ⛟ on its way, ☑ in the store and inspected, ⚙ fitted, — cancelled).
  */
-const PART_MARK: Record<PartStatus, string> = { wanted: "⌕", lead_found: "☍", acquired: "⛟", received: "☑", fitted: "⚙", cancelled: "—" };
+const PART_MARK: Record<PartStatus, string> = {
+  wanted: "⌕",
+  lead_found: "☍",
+  acquired: "⛟",
+  received: "☑",
+  fitted: "⚙",
+  cancelled: "—",
+};
 
 export function PartStatusBadge({ status }: { status: PartStatus }) {
-  const cls = status === "cancelled" ? "border-hull-600 text-mist line-through decoration-1" : status === "fitted" ? "border-kelp-400 text-kelp-300" : "border-hull-500 text-chalk";
+  const cls =
+    status === "cancelled"
+      ? "border-hull-600 text-mist line-through decoration-1"
+      : status === "fitted"
+        ? "border-kelp-400 text-kelp-300"
+        : "border-hull-500 text-chalk";
   return (
     <span className={`inline-flex items-center gap-1 whitespace-nowrap border-b-2 px-1 py-0.5 text-sm ${cls}`}>
-      <span className="font-mono text-xs" aria-hidden="true">{PART_MARK[status]}</span>
+      <span className="font-mono text-xs" aria-hidden="true">
+        {PART_MARK[status]}
+      </span>
       {PART_STATUS_LABELS[status]}
     </span>
   );
 }
 
-export const money = (v: number | null | undefined) => (v == null ? "—" : v.toLocaleString("en-GB", { minimumFractionDigits: 2, maximumFractionDigits: 2 }));
+export const money = (v: number | null | undefined) =>
+  v == null ? "—" : v.toLocaleString("en-GB", { minimumFractionDigits: 2, maximumFractionDigits: 2 });

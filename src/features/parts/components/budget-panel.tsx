@@ -5,13 +5,21 @@ import { money } from "./badges";
 export function BudgetPanel({ budget }: { budget: PartsBudget }) {
   return (
     <section aria-labelledby="budget-title" className="rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
-      <h2 id="budget-title" className="text-lg font-bold">Budget</h2>
+      <h2 id="budget-title" className="text-lg font-bold">
+        Budget
+      </h2>
       <table className="mt-2 w-full text-sm">
         <thead>
           <tr className="text-left text-mist">
-            <th scope="col" className="py-1">Board</th>
-            <th scope="col" className="py-1 text-right">Estimated</th>
-            <th scope="col" className="py-1 text-right">Spent</th>
+            <th scope="col" className="py-1">
+              Board
+            </th>
+            <th scope="col" className="py-1 text-right">
+              Estimated
+            </th>
+            <th scope="col" className="py-1 text-right">
+              Spent
+            </th>
           </tr>
         </thead>
         <tbody>
@@ -19,7 +27,9 @@ export function BudgetPanel({ budget }: { budget: PartsBudget }) {
             <tr key={r.boardId || "none"} className="border-t border-hull-700">
               <th scope="row" className="py-1 text-left font-normal">
                 {r.boardName}
-                {r.unestimatedLines > 0 && <span className="block text-xs text-fog">{r.unestimatedLines} line(s) not yet estimated</span>}
+                {r.unestimatedLines > 0 && (
+                  <span className="block text-xs text-fog">{r.unestimatedLines} line(s) not yet estimated</span>
+                )}
               </th>
               <td className="py-1 text-right font-mono">{money(r.estimated)}</td>
               <td className="py-1 text-right font-mono">{money(r.spent)}</td>
@@ -28,9 +38,15 @@ export function BudgetPanel({ budget }: { budget: PartsBudget }) {
         </tbody>
         <tfoot>
           <tr className="border-t-2 border-hull-500 font-semibold">
-            <th scope="row" className="py-1 text-left">Total</th>
-            <td className="py-1 text-right font-mono" data-testid="budget-estimated">{money(budget.total.estimated)}</td>
-            <td className="py-1 text-right font-mono" data-testid="budget-spent">{money(budget.total.spent)}</td>
+            <th scope="row" className="py-1 text-left">
+              Total
+            </th>
+            <td className="py-1 text-right font-mono" data-testid="budget-estimated">
+              {money(budget.total.estimated)}
+            </td>
+            <td className="py-1 text-right font-mono" data-testid="budget-spent">
+              {money(budget.total.spent)}
+            </td>
           </tr>
         </tfoot>
       </table>

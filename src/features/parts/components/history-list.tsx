@@ -4,12 +4,20 @@ import type { LineDetail } from "../../../schemas/parts";
 export function HistoryList({ history }: { history: LineDetail["history"] }) {
   return (
     <section aria-labelledby="history-title" className="rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
-      <h2 id="history-title" className="text-lg font-bold">History</h2>
+      <h2 id="history-title" className="text-lg font-bold">
+        History
+      </h2>
       <ol className="mt-2 space-y-2">
         {history.map((h) => (
           <li key={h.id} className="text-sm">
-            <time dateTime={h.at} className="font-mono text-fog">{new Date(h.at).toLocaleString()}</time>{" "}
-            {h.fromStatus && h.toStatus && <span className="font-semibold">{PART_STATUS_LABELS[h.fromStatus]} → {PART_STATUS_LABELS[h.toStatus]}: </span>}
+            <time dateTime={h.at} className="font-mono text-fog">
+              {new Date(h.at).toLocaleString()}
+            </time>{" "}
+            {h.fromStatus && h.toStatus && (
+              <span className="font-semibold">
+                {PART_STATUS_LABELS[h.fromStatus]} → {PART_STATUS_LABELS[h.toStatus]}:{" "}
+              </span>
+            )}
             {h.summary}
             {h.actorName && <span className="text-mist"> — {h.actorName}</span>}
           </li>

@@ -2,7 +2,15 @@ import { COMPONENT_KIND_LABELS } from "../../../domain/vocab";
 import type { PartLine } from "../../../schemas/parts";
 import { HeritageRuleBadge, money, PartStatusBadge } from "./badges";
 
-const FIELD_LABELS: Record<string, string> = { ratingAmps: "Rating", poles: "Poles", voltageRating: "Voltage", frame: "Frame / type", mounting: "Mounting", maker: "Maker", model: "Model" };
+const FIELD_LABELS: Record<string, string> = {
+  ratingAmps: "Rating",
+  poles: "Poles",
+  voltageRating: "Voltage",
+  frame: "Frame / type",
+  mounting: "Mounting",
+  maker: "Maker",
+  model: "Model",
+};
 
 export function LineSummary({ line }: { line: PartLine }) {
   const spec: Array<[string, string]> = [
@@ -17,8 +25,12 @@ export function LineSummary({ line }: { line: PartLine }) {
   ];
   return (
     <section aria-labelledby="line-title" className="space-y-3">
-      <p className="text-sm text-mist">Line {line.id.slice(0, 8)} · {line.origin === "manual" ? "added by hand" : "from the register"}</p>
-      <h1 id="line-title" className="text-2xl font-bold">{line.title}</h1>
+      <p className="text-sm text-mist">
+        Line {line.id.slice(0, 8)} · {line.origin === "manual" ? "added by hand" : "from the register"}
+      </p>
+      <h1 id="line-title" className="text-2xl font-bold">
+        {line.title}
+      </h1>
       <div className="flex flex-wrap items-center gap-3">
         <HeritageRuleBadge rule={line.heritageRule} large />
         <PartStatusBadge status={line.status} />
@@ -40,7 +52,9 @@ export function LineSummary({ line }: { line: PartLine }) {
         )}
         <div className="col-span-2 sm:col-span-4">
           <dt className="text-xs uppercase tracking-wide text-fog">Must match</dt>
-          <dd>{line.mustMatch ? ["Kind", ...line.mustMatch.map((f) => FIELD_LABELS[f])].join(", ") : "Every field above"}</dd>
+          <dd>
+            {line.mustMatch ? ["Kind", ...line.mustMatch.map((f) => FIELD_LABELS[f])].join(", ") : "Every field above"}
+          </dd>
         </div>
         <div>
           <dt className="text-xs uppercase tracking-wide text-fog">Estimated</dt>

@@ -20,35 +20,71 @@ export function NewLineForm({ siteId }: { siteId: string }) {
     setErrors({});
     create.mutate(
       {
-        kind: f.get("kind") as ComponentKind, need: String(f.get("need") ?? ""), qty: Number(f.get("qty")), maker: String(f.get("maker") ?? ""),
-        model: String(f.get("model") ?? ""), ratingAmps: numOrNull(f.get("ratingAmps")), voltageRating: numOrNull(f.get("voltageRating")),
-        estimatedUnitCost: numOrNull(f.get("estimatedUnitCost")), notes: String(f.get("notes") ?? ""),
+        kind: f.get("kind") as ComponentKind,
+        need: String(f.get("need") ?? ""),
+        qty: Number(f.get("qty")),
+        maker: String(f.get("maker") ?? ""),
+        model: String(f.get("model") ?? ""),
+        ratingAmps: numOrNull(f.get("ratingAmps")),
+        voltageRating: numOrNull(f.get("voltageRating")),
+        estimatedUnitCost: numOrNull(f.get("estimatedUnitCost")),
+        notes: String(f.get("notes") ?? ""),
       },
       {
-        onSuccess: () => { form.reset(); setMessage("Added to the list."); },
-        onError: (err) => { setMessage(err instanceof ApiError ? err.message : "That did not work."); if (err instanceof ApiError) setErrors(err.fields); },
+        onSuccess: () => {
+          form.reset();
+          setMessage("Added to the list.");
+        },
+        onError: (err) => {
+          setMessage(err instanceof ApiError ? err.message : "That did not work.");
+          if (err instanceof ApiError) setErrors(err.fields);
+        },
       },
     );
   }
 
   return (
     <details className="no-print rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
-      <summary className="min-h-11 cursor-pointer py-2 font-semibold">Add a part by hand (spares, consumables, tools)</summary>
+      <summary className="min-h-11 cursor-pointer py-2 font-semibold">
+        Add a part by hand (spares, consumables, tools)
+      </summary>
       <form onSubmit={submit} className="mt-3 grid gap-3 sm:grid-cols-3">
         <SelectField label="Kind" name="kind" defaultValue="other" error={errors.kind}>
-          {COMPONENT_KINDS.map((k) => <option key={k} value={k}>{COMPONENT_KIND_LABELS[k]}</option>)}
+          {COMPONENT_KINDS.map((k) => (
+            <option key={k} value={k}>
+              {COMPONENT_KIND_LABELS[k]}
+            </option>
+          ))}
         </SelectField>
-        <TextField label="What exactly" name="need" hint="e.g. spare lamps, arc chute, contact fingers" error={errors.need} />
+        <TextField
+          label="What exactly"
+          name="need"
+          hint="e.g. spare lamps, arc chute, contact fingers"
+          error={errors.need}
+        />
         <TextField label="Quantity" name="qty" type="number" min={1} defaultValue={1} required error={errors.qty} />
         <TextField label="Rating (A)" name="ratingAmps" type="number" step="any" min={0} error={errors.ratingAmps} />
         <TextField label="Voltage rating (V)" name="voltageRating" type="number" min={1} error={errors.voltageRating} />
-        <TextField label="Estimated unit cost" name="estimatedUnitCost" type="number" step="0.01" min={0} error={errors.estimatedUnitCost} />
+        <TextField
+          label="Estimated unit cost"
+          name="estimatedUnitCost"
+          type="number"
+          step="0.01"
+          min={0}
+          error={errors.estimatedUnitCost}
+        />
         <TextField label="Maker" name="maker" error={errors.maker} />
         <TextField label="Model" name="model" error={errors.model} />
         <TextField label="Internal notes" name="notes" error={errors.notes} />
         <div className="sm:col-span-3 flex items-center gap-3">
-          <Button type="submit" disabled={create.isPending}>Add to the list</Button>
-          {message && <p role="status" className="text-mist">{message}</p>}
+          <Button type="submit" disabled={create.isPending}>
+            Add to the list
+          </Button>
+          {message && (
+            <p role="status" className="text-mist">
+              {message}
+            </p>
+          )}
         </div>
       </form>
     </details>

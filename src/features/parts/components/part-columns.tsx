@@ -1,4 +1,11 @@
-import { createColumnHelper, createSortedRowModel, rowSortingFeature, sortFn_alphanumeric, sortFn_basic, tableFeatures } from "@tanstack/react-table";
+import {
+  createColumnHelper,
+  createSortedRowModel,
+  rowSortingFeature,
+  sortFn_alphanumeric,
+  sortFn_basic,
+  tableFeatures,
+} from "@tanstack/react-table";
 import { Link } from "react-router";
 import { paths } from "../../../config/paths";
 import { HERITAGE_RULES, PART_STATUSES } from "../../../domain/vocab";
@@ -32,35 +39,64 @@ export function partColumns(siteId: string) {
       sortFn: "basic",
       cell: (c) => <HeritageRuleBadge rule={c.row.original.heritageRule} />,
     }),
-    col.accessor("qty", { header: "Qty", sortFn: "basic", cell: (c) => <span className="font-mono">{c.getValue()}</span> }),
-    col.accessor((r) => r.positions.filter((p) => p.state === "active").map((p) => p.designation ?? "").join(", "), {
-      id: "positions",
-      header: "Positions",
-      sortFn: "alphanumeric",
-      cell: (c) => {
-        const ps = c.row.original.positions.filter((p) => p.state !== "withdrawn" && p.positionId && p.boardId);
-        if (!ps.length) return <span className="text-fog">{c.row.original.origin === "manual" ? "Spare / by hand" : "—"}</span>;
-        return (
-          <ul className="flex flex-wrap gap-1">
-            {ps.map((p) => (
-              <li key={p.linkId}>
-                <Link to={positionHref(siteId, p.boardId!, p.positionId!)} className="inline-flex min-h-8 items-center rounded bg-hull-800 px-1.5 font-mono text-sm" title={p.boardName ?? ""}>
-                  {p.designation}
-                  {p.defectId && <span className="sr-only"> (defect)</span>}
-                </Link>
-              </li>
-            ))}
-          </ul>
-        );
-      },
+    col.accessor("qty", {
+      header: "Qty",
+      sortFn: "basic",
+      cell: (c) => <span className="font-mono">{c.getValue()}</span>,
     }),
-    col.accessor((r) => PART_STATUSES.indexOf(r.status), { id: "status", header: "Status", sortFn: "basic", cell: (c) => <PartStatusBadge status={c.row.original.status} /> }),
-    col.accessor("leadCount", { header: "Leads", sortFn: "basic", cell: (c) => <span className="font-mono">{c.getValue()}</span> }),
+    col.accessor(
+      (r) =>
+        r.positions
+          .filter((p) => p.state === "active")
+          .map((p) => p.designation ?? "")
+          .join(", "),
+      {
+        id: "positions",
+        header: "Positions",
+        sortFn: "alphanumeric",
+        cell: (c) => {
+          const ps = c.row.original.positions.filter((p) => p.state !== "withdrawn" && p.positionId && p.boardId);
+          if (!ps.length)
+            return <span className="text-fog">{c.row.original.origin === "manual" ? "Spare / by hand" : "—"}</span>;
+          return (
+            <ul className="flex flex-wrap gap-1">
+              {ps.map((p) => (
+                <li key={p.linkId}>
+                  <Link
+                    to={positionHref(siteId, p.boardId!, p.positionId!)}
+                    className="inline-flex min-h-8 items-center rounded bg-hull-800 px-1.5 font-mono text-sm"
+                    title={p.boardName ?? ""}
+                  >
+                    {p.designation}
+                    {p.defectId && <span className="sr-only"> (defect)</span>}
+                  </Link>
+                </li>
+              ))}
+            </ul>
+          );
+        },
+      },
+    ),
+    col.accessor((r) => PART_STATUSES.indexOf(r.status), {
+      id: "status",
+      header: "Status",
+      sortFn: "basic",
+      cell: (c) => <PartStatusBadge status={c.row.original.status} />,
+    }),
+    col.accessor("leadCount", {
+      header: "Leads",
+      sortFn: "basic",
+      cell: (c) => <span className="font-mono">{c.getValue()}</span>,
+    }),
     col.accessor((r) => r.estimated ?? -1, {
       id: "estimated",
       header: "Estimated / spent",
       sortFn: "basic",
-      cell: (c) => <span className="whitespace-nowrap font-mono text-sm">{money(c.row.original.estimated)} / {money(c.row.original.spent)}</span>,
+      cell: (c) => (
+        <span className="whitespace-nowrap font-mono text-sm">
+          {money(c.row.original.estimated)} / {money(c.row.original.spent)}
+        </span>
+      ),
     }),
   ]);
 }

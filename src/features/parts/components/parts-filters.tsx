@@ -1,19 +1,43 @@
-import { COMPONENT_KIND_LABELS, COMPONENT_KINDS, HERITAGE_RULE_LABELS, HERITAGE_RULES, PART_STATUS_LABELS, PART_STATUSES } from "../../../domain/vocab";
+import {
+  COMPONENT_KIND_LABELS,
+  COMPONENT_KINDS,
+  HERITAGE_RULE_LABELS,
+  HERITAGE_RULES,
+  PART_STATUS_LABELS,
+  PART_STATUSES,
+} from "../../../domain/vocab";
 import type { ListQuery } from "../../../schemas/parts";
 
 const select = "mt-1 block min-h-11 w-full rounded-md border border-hull-500 bg-hull-900 px-2 text-chalk";
 
-export function PartsFilters({ value, boards, onChange }: { value: ListQuery; boards: Array<{ id: string; name: string }>; onChange: (f: ListQuery) => void }) {
-  const set = (k: keyof ListQuery) => (e: React.ChangeEvent<HTMLSelectElement>) => onChange({ ...value, [k]: e.target.value || undefined });
+export function PartsFilters({
+  value,
+  boards,
+  onChange,
+}: {
+  value: ListQuery;
+  boards: Array<{ id: string; name: string }>;
+  onChange: (f: ListQuery) => void;
+}) {
+  const set = (k: keyof ListQuery) => (e: React.ChangeEvent<HTMLSelectElement>) =>
+    onChange({ ...value, [k]: e.target.value || undefined });
   return (
     <fieldset className="no-print grid grid-cols-2 gap-3 md:grid-cols-5">
       <legend className="sr-only">Filter the wanted list</legend>
       <label className="col-span-2 text-sm font-semibold text-mist md:col-span-1">
         Find
         <input
-          type="search" className={select} defaultValue={value.q ?? ""} placeholder="maker, model, frame…"
-          onKeyDown={(e) => { if (e.key === "Enter") onChange({ ...value, q: e.currentTarget.value.trim() || undefined }); }}
-          onBlur={(e) => { if ((e.currentTarget.value.trim() || undefined) !== value.q) onChange({ ...value, q: e.currentTarget.value.trim() || undefined }); }}
+          type="search"
+          className={select}
+          defaultValue={value.q ?? ""}
+          placeholder="maker, model, frame…"
+          onKeyDown={(e) => {
+            if (e.key === "Enter") onChange({ ...value, q: e.currentTarget.value.trim() || undefined });
+          }}
+          onBlur={(e) => {
+            if ((e.currentTarget.value.trim() || undefined) !== value.q)
+              onChange({ ...value, q: e.currentTarget.value.trim() || undefined });
+          }}
         />
       </label>
       <label className="text-sm font-semibold text-mist">
@@ -21,28 +45,44 @@ export function PartsFilters({ value, boards, onChange }: { value: ListQuery; bo
         <select className={select} value={value.status ?? "open"} onChange={set("status")}>
           <option value="open">Still open (not fitted)</option>
           <option value="all">Every status</option>
-          {PART_STATUSES.map((s) => <option key={s} value={s}>{PART_STATUS_LABELS[s]}</option>)}
+          {PART_STATUSES.map((s) => (
+            <option key={s} value={s}>
+              {PART_STATUS_LABELS[s]}
+            </option>
+          ))}
         </select>
       </label>
       <label className="text-sm font-semibold text-mist">
         Board
         <select className={select} value={value.boardId ?? ""} onChange={set("boardId")}>
           <option value="">Every board</option>
-          {boards.map((b) => <option key={b.id} value={b.id}>{b.name}</option>)}
+          {boards.map((b) => (
+            <option key={b.id} value={b.id}>
+              {b.name}
+            </option>
+          ))}
         </select>
       </label>
       <label className="text-sm font-semibold text-mist">
         Kind
         <select className={select} value={value.kind ?? ""} onChange={set("kind")}>
           <option value="">Every kind</option>
-          {COMPONENT_KINDS.map((k) => <option key={k} value={k}>{COMPONENT_KIND_LABELS[k]}</option>)}
+          {COMPONENT_KINDS.map((k) => (
+            <option key={k} value={k}>
+              {COMPONENT_KIND_LABELS[k]}
+            </option>
+          ))}
         </select>
       </label>
       <label className="text-sm font-semibold text-mist">
         Heritage rule
         <select className={select} value={value.heritageRule ?? ""} onChange={set("heritageRule")}>
           <option value="">Any rule</option>
-          {HERITAGE_RULES.map((r) => <option key={r} value={r}>{HERITAGE_RULE_LABELS[r]}</option>)}
+          {HERITAGE_RULES.map((r) => (
+            <option key={r} value={r}>
+              {HERITAGE_RULE_LABELS[r]}
+            </option>
+          ))}
         </select>
       </label>
     </fieldset>

@@ -33,15 +33,28 @@ export function PartsTable({ siteId, lines, busy = false, sort, dir, onSort }: P
   });
   return (
     <div className="overflow-x-auto rounded-lg ring-1 ring-hull-700">
-      <table className={`w-full min-w-[52rem] border-collapse text-left ${busy ? "opacity-60" : ""}`} aria-label="Wanted parts" aria-busy={busy}>
+      <table
+        className={`w-full min-w-[52rem] border-collapse text-left ${busy ? "opacity-60" : ""}`}
+        aria-label="Wanted parts"
+        aria-busy={busy}
+      >
         <thead className="bg-hull-850">
           {table.getHeaderGroups().map((g) => (
             <tr key={g.id}>
               {g.headers.map((h) => {
                 const sorted = h.column.getIsSorted();
                 return (
-                  <th key={h.id} scope="col" className="p-2 text-sm text-mist" aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : "none"}>
-                    <button type="button" className="min-h-11 text-left font-semibold hover:text-chalk" onClick={h.column.getToggleSortingHandler()}>
+                  <th
+                    key={h.id}
+                    scope="col"
+                    className="p-2 text-sm text-mist"
+                    aria-sort={sorted === "asc" ? "ascending" : sorted === "desc" ? "descending" : "none"}
+                  >
+                    <button
+                      type="button"
+                      className="min-h-11 text-left font-semibold hover:text-chalk"
+                      onClick={h.column.getToggleSortingHandler()}
+                    >
                       <table.FlexRender header={h} />
                       <span aria-hidden="true">{sorted ? ARROW[sorted] : ""}</span>
                     </button>

@@ -1,4 +1,9 @@
-import { COMPONENT_KIND_LABELS, HERITAGE_RULE_LABELS, type ComponentKind, type HeritageRule } from "../../../domain/vocab";
+import {
+  COMPONENT_KIND_LABELS,
+  HERITAGE_RULE_LABELS,
+  type ComponentKind,
+  type HeritageRule,
+} from "../../../domain/vocab";
 
 export interface SheetLine {
   ref: string;
@@ -25,22 +30,41 @@ export function PrintSheet({ lines }: { lines: SheetLine[] }) {
   return (
     <ol className="grid gap-3 print:block">
       {lines.map((l) => (
-        <li key={l.ref} data-testid="sheet-line" className="grid grid-cols-[7rem_1fr] gap-3 rounded-lg bg-hull-850 p-3 ring-1 ring-hull-700 print:mb-3 print:break-inside-avoid print:bg-white print:text-black print:ring-black">
+        <li
+          key={l.ref}
+          data-testid="sheet-line"
+          className="grid grid-cols-[7rem_1fr] gap-3 rounded-lg bg-hull-850 p-3 ring-1 ring-hull-700 print:mb-3 print:break-inside-avoid print:bg-white print:text-black print:ring-black"
+        >
           {l.photoUrl ? (
-            <img src={l.photoUrl} alt={`Nameplate of ${l.title}`} className="h-28 w-28 rounded object-cover" loading="lazy" />
+            <img
+              src={l.photoUrl}
+              alt={`Nameplate of ${l.title}`}
+              className="h-28 w-28 rounded object-cover"
+              loading="lazy"
+            />
           ) : (
             <div className="flex h-28 w-28 items-center justify-center rounded border border-dashed border-hull-500 p-2 text-center text-xs text-mist print:border-black print:text-black">
               no nameplate photo
             </div>
           )}
           <div>
-            <p className="text-sm text-mist print:text-black">Line {l.ref} · {COMPONENT_KIND_LABELS[l.kind]}</p>
+            <p className="text-sm text-mist print:text-black">
+              Line {l.ref} · {COMPONENT_KIND_LABELS[l.kind]}
+            </p>
             <h2 className="font-bold">{l.title}</h2>
             <p className="mt-1 font-semibold">
-              Wanted: {l.qty} · <span aria-hidden="true">{RULE_MARK[l.heritageRule]}</span> {HERITAGE_RULE_LABELS[l.heritageRule]}
+              Wanted: {l.qty} · <span aria-hidden="true">{RULE_MARK[l.heritageRule]}</span>{" "}
+              {HERITAGE_RULE_LABELS[l.heritageRule]}
             </p>
             <p className="mt-1 font-mono text-sm">
-              {[l.ratingAmps != null && `${l.ratingAmps} A`, l.poles != null && `${l.poles} poles`, l.voltageRating != null && `${l.voltageRating} V`, l.frame && `frame ${l.frame}`, l.mounting, [l.maker, l.model].filter(Boolean).join(" ")]
+              {[
+                l.ratingAmps != null && `${l.ratingAmps} A`,
+                l.poles != null && `${l.poles} poles`,
+                l.voltageRating != null && `${l.voltageRating} V`,
+                l.frame && `frame ${l.frame}`,
+                l.mounting,
+                [l.maker, l.model].filter(Boolean).join(" "),
+              ]
                 .filter(Boolean)
                 .join(" · ")}
             </p>

@@ -11,9 +11,20 @@ const today = () => new Date().toISOString().slice(0, 10);
 function bodyFor(to: PartStatus, version: number, f: FormData): StatusBody {
   const note = String(f.get("note") ?? "");
   if (to === "cancelled") return { to, version, reason: String(f.get("reason") ?? "") };
-  if (to === "fitted") return { to, version, note, heritageAfter: f.get("heritageAfter") as "unchanged" | "period" | "modern" };
+  if (to === "fitted")
+    return { to, version, note, heritageAfter: f.get("heritageAfter") as "unchanged" | "period" | "modern" };
   if (to === "acquired" && f.get("cost") !== null)
-    return { to, version, note, acquisition: { cost: Number(f.get("cost")), acquiredOn: String(f.get("acquiredOn")), qty: Number(f.get("qty") || 1), leadId: (f.get("leadId") as string) || null } };
+    return {
+      to,
+      version,
+      note,
+      acquisition: {
+        cost: Number(f.get("cost")),
+        acquiredOn: String(f.get("acquiredOn")),
+        qty: Number(f.get("qty") || 1),
+        leadId: (f.get("leadId") as string) || null,
+      },
+    };
   return { to, version, note } as StatusBody;
 }
 
@@ -31,49 +42,99 @@ export function StatusForm({ siteId, detail }: { siteId: string; detail: LineDet
     if (!to) return;
     setErrors({});
     move.mutate(bodyFor(to, line.version, new FormData(e.currentTarget)), {
-      onSuccess: () => { setTo(""); setMessage(`Moved to ${PART_STATUS_LABELS[to].toLowerCase()}.`); },
-      onError: (err) => { setMessage(err instanceof ApiError ? err.message : "That did not work."); if (err instanceof ApiError) setErrors(err.fields); },
+      onSuccess: () => {
+        setTo("");
+        setMessage(`Moved to ${PART_STATUS_LABELS[to].toLowerCase()}.`);
+      },
+      onError: (err) => {
+        setMessage(err instanceof ApiError ? err.message : "That did not work.");
+        if (err instanceof ApiError) setErrors(err.fields);
+      },
     });
   }
   const needsPurchase = to === "acquired" && line.status !== "received";
   return (
-    <form onSubmit={submit} className="space-y-3 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700" aria-labelledby="move-title">
-      <h2 id="move-title" className="text-lg font-bold">Move this line on</h2>
+    <form
+      onSubmit={submit}
+      className="space-y-3 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700"
+      aria-labelledby="move-title"
+    >
+      <h2 id="move-title" className="text-lg font-bold">
+        Move this line on
+      </h2>
       <SelectField label="New status" value={to} onChange={(e) => setTo(e.target.value as PartStatus)}>
         <option value="">Choose…</option>
-        {nextStatuses.map((s) => <option key={s} value={s}>{PART_STATUS_LABELS[s]}</option>)}
+        {nextStatuses.map((s) => (
+          <option key={s} value={s}>
+            {PART_STATUS_LABELS[s]}
+          </option>
+        ))}
       </SelectField>
       {needsPurchase && (
         <div className="grid gap-3 sm:grid-cols-2">
-          <TextField label="Cost" name="cost" type="number" step="0.01" min={0} required={!acquisitions.length} error={errors["acquisition.cost"]} />
-          <TextField label="Acquired on" name="acquiredOn" type="date" defaultValue={today()} required error={errors["acquisition.acquiredOn"]} />
+          <TextField
+            label="Cost"
+            name="cost"
+            type="number"
+            step="0.01"
+            min={0}
+            required={!acquisitions.length}
+            error={errors["acquisition.cost"]}
+          />
+          <TextField
+            label="Acquired on"
+            name="acquiredOn"
+            type="date"
+            defaultValue={today()}
+            required
+            error={errors["acquisition.acquiredOn"]}
+          />
           <TextField label="Quantity" name="qty" type="number" min={1} defaultValue={line.qty || 1} />
           <SelectField label="From lead" name="leadId" defaultValue="">
             <option value="">No recorded lead</option>
-            {leads.map((l) => <option key={l.id} value={l.id}>{l.source}</option>)}
+            {leads.map((l) => (
+              <option key={l.id} value={l.id}>
+                {l.source}
+              </option>
+            ))}
           </SelectField>
         </div>
       )}
       {to === "fitted" && (
         <fieldset className="space-y-1">
           <legend className="text-sm font-semibold text-mist">What does the fitted part make of the component?</legend>
-          {[["unchanged", "Heritage unchanged (a sub-part fitted into the existing component)"], ["period", "Period replacement"], ["modern", "Modern replacement"]].map(([v, label], i) => (
+          {[
+            ["unchanged", "Heritage unchanged (a sub-part fitted into the existing component)"],
+            ["period", "Period replacement"],
+            ["modern", "Modern replacement"],
+          ].map(([v, label], i) => (
             <label key={v} className="flex min-h-11 items-center gap-2">
               <input type="radio" name="heritageAfter" value={v} defaultChecked={i === 0} className="h-5 w-5" /> {label}
             </label>
           ))}
-          <p className="text-xs text-fog">Each component this line is for is marked refitted; each linked defect moves to awaiting re-test. Re-test before energising — a qualified person decides.</p>
+          <p className="text-xs text-fog">
+            Each component this line is for is marked refitted; each linked defect moves to awaiting re-test. Re-test
+            before energising — a qualified person decides.
+          </p>
         </fieldset>
       )}
-      {to === "received" && <p className="text-sm text-mist">Each component this line is for will show custody “ready to refit”.</p>}
+      {to === "received" && (
+        <p className="text-sm text-mist">Each component this line is for will show custody “ready to refit”.</p>
+      )}
       {to === "cancelled" ? (
         <TextField label="Why is it cancelled?" name="reason" required error={errors.reason} />
       ) : to ? (
         <TextField label={to === "received" ? "Inspection on arrival" : "Note"} name="note" error={errors.note} />
       ) : null}
       <div className="flex items-center gap-3">
-        <Button type="submit" disabled={!to || move.isPending}>Save status</Button>
-        {message && <p role="status" className="text-mist">{message}</p>}
+        <Button type="submit" disabled={!to || move.isPending}>
+          Save status
+        </Button>
+        {message && (
+          <p role="status" className="text-mist">
+            {message}
+          </p>
+        )}
       </div>
     </form>
   );

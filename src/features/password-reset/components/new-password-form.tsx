@@ -14,16 +14,28 @@ export function NewPasswordForm({ token, email, onDone }: { token: string; email
     const parsed = resetPasswordBody.safeParse({ password: new FormData(e.currentTarget).get("password") });
     if (!parsed.success) return setError(parsed.error.issues[0]?.message);
     setError(undefined);
-    complete.mutate(parsed.data.password, { onSuccess: onDone, onError: (err) => setError(err instanceof ApiError ? err.message : "That did not work.") });
+    complete.mutate(parsed.data.password, {
+      onSuccess: onDone,
+      onError: (err) => setError(err instanceof ApiError ? err.message : "That did not work."),
+    });
   }
 
   return (
     <form onSubmit={submit} noValidate className="space-y-4 rounded-lg bg-hull-850 p-5 ring-1 ring-hull-700">
       <p className="text-sm text-mist">
-        For <span className="break-all font-semibold text-chalk">{email}</span>. Every other place where you are signed in will be signed out.
+        For <span className="break-all font-semibold text-chalk">{email}</span>. Every other place where you are signed
+        in will be signed out.
       </p>
       <input type="hidden" name="username" autoComplete="username" value={email} />
-      <TextField label="New password" name="password" type="password" autoComplete="new-password" hint="At least 10 characters." required error={error} />
+      <TextField
+        label="New password"
+        name="password"
+        type="password"
+        autoComplete="new-password"
+        hint="At least 10 characters."
+        required
+        error={error}
+      />
       <Button type="submit" className="w-full" disabled={complete.isPending}>
         {complete.isPending ? "Saving…" : "Set the new password"}
       </Button>

@@ -24,11 +24,24 @@ export function ResetRequestForm() {
         ✉ {request.data.message}
       </p>
     );
-  const failure = request.error instanceof ApiError ? request.error.message : request.error ? "That did not work. Try again." : null;
+  const failure =
+    request.error instanceof ApiError ? request.error.message : request.error ? "That did not work. Try again." : null;
   return (
     <form onSubmit={submit} noValidate className="space-y-4 rounded-lg bg-hull-850 p-5 ring-1 ring-hull-700">
-      <TextField label="E-mail" name="email" type="email" autoComplete="username" inputMode="email" required error={error} />
-      {failure && <p role="alert" className="text-sm text-flare-300">{failure}</p>}
+      <TextField
+        label="E-mail"
+        name="email"
+        type="email"
+        autoComplete="username"
+        inputMode="email"
+        required
+        error={error}
+      />
+      {failure && (
+        <p role="alert" className="text-sm text-flare-300">
+          {failure}
+        </p>
+      )}
       <Button type="submit" className="w-full" disabled={request.isPending}>
         {request.isPending ? "Sending…" : "Send me a link"}
       </Button>

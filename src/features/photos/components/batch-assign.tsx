@@ -36,7 +36,8 @@ export function BatchAssign({ siteId, photos, targets }: Props) {
   if (!photos.length)
     return (
       <p className="text-mist" role="status">
-        {note && <span className="mr-1 font-semibold text-kelp-300">✓ {note}</span>}Every uploaded photo is filed to a position.
+        {note && <span className="mr-1 font-semibold text-kelp-300">✓ {note}</span>}Every uploaded photo is filed to a
+        position.
       </p>
     );
   const go = (i: number) => {
@@ -44,7 +45,14 @@ export function BatchAssign({ siteId, photos, targets }: Props) {
     setTyped("");
   };
   const stage = (photo: Photo, t: PhotoTarget, source: Staged["source"], kind?: PhotoKind) =>
-    setStaged((s) => ({ ...s, [photo.id]: { positionId: t.positionId, kind: kind ?? kindFor[photo.id] ?? s[photo.id]?.kind ?? photo.kind, source } }));
+    setStaged((s) => ({
+      ...s,
+      [photo.id]: {
+        positionId: t.positionId,
+        kind: kind ?? kindFor[photo.id] ?? s[photo.id]?.kind ?? photo.kind,
+        source,
+      },
+    }));
   const setKind = (photo: Photo, k: PhotoKind) => {
     setKindFor((m) => ({ ...m, [photo.id]: k }));
     setStaged((s) => (s[photo.id] ? { ...s, [photo.id]: { ...s[photo.id], kind: k } } : s));
@@ -75,35 +83,74 @@ export function BatchAssign({ siteId, photos, targets }: Props) {
         found++;
       } else if (m.kind === "ambiguous") unsure++;
     }
-    setNote(`${found} matched by file name${unsure ? `; ${unsure} named a designation found on several boards — choose the board and match again` : ""}. Check them below, then save.`);
+    setNote(
+      `${found} matched by file name${unsure ? `; ${unsure} named a designation found on several boards — choose the board and match again` : ""}. Check them below, then save.`,
+    );
   };
 
   const save = () =>
     assign.mutate(
-      { items: photos.filter((p) => staged[p.id]).map((p) => ({ photoId: p.id, version: p.version, positionId: staged[p.id].positionId, kind: staged[p.id].kind })) },
-      { onSuccess: (saved) => { setStaged({}); setIndex(0); setNote(`${saved.length} photo(s) filed.`); } },
+      {
+        items: photos
+          .filter((p) => staged[p.id])
+          .map((p) => ({
+            photoId: p.id,
+            version: p.version,
+            positionId: staged[p.id].positionId,
+            kind: staged[p.id].kind,
+          })),
+      },
+      {
+        onSuccess: (saved) => {
+          setStaged({});
+          setIndex(0);
+          setNote(`${saved.length} photo(s) filed.`);
+        },
+      },
     );
   const count = Object.keys(staged).length;
   const here = staged[current.id];
 
   return (
     <section aria-labelledby="assign-title" className="space-y-3">
-      <h2 id="assign-title" className="text-xl font-bold">File the shoot to positions</h2>
+      <h2 id="assign-title" className="text-xl font-bold">
+        File the shoot to positions
+      </h2>
       <div className="flex flex-wrap items-end gap-3">
         <label className="block text-sm font-semibold text-mist">
           Board
-          <select className="mt-1 block min-h-11 rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk" value={boardId} onChange={(e) => setBoardId(e.target.value)}>
+          <select
+            className="mt-1 block min-h-11 rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk"
+            value={boardId}
+            onChange={(e) => setBoardId(e.target.value)}
+          >
             <option value="">All boards</option>
-            {boards.map(([id, name]) => <option key={id} value={id}>{name}</option>)}
+            {boards.map(([id, name]) => (
+              <option key={id} value={id}>
+                {name}
+              </option>
+            ))}
           </select>
         </label>
-        <Button tone="quiet" onClick={autoMatch}>Match file names</Button>
-        <p className="text-sm text-mist" aria-live="polite">{note}</p>
+        <Button tone="quiet" onClick={autoMatch}>
+          Match file names
+        </Button>
+        <p className="text-sm text-mist" aria-live="polite">
+          {note}
+        </p>
       </div>
       <div className="grid gap-4 md:grid-cols-[minmax(0,1fr)_minmax(0,1fr)]">
         <figure className="rounded-lg bg-hull-850 p-2 ring-1 ring-hull-700">
-          <RenditionImage siteId={siteId} photo={current} rendition="display" alt={`Photo ${index + 1} of ${photos.length}, ${current.originalName}`} className="max-h-80 w-full object-contain" />
-          <figcaption className="mt-1 font-mono text-sm text-mist">{index + 1} / {photos.length} · {current.originalName}</figcaption>
+          <RenditionImage
+            siteId={siteId}
+            photo={current}
+            rendition="display"
+            alt={`Photo ${index + 1} of ${photos.length}, ${current.originalName}`}
+            className="max-h-80 w-full object-contain"
+          />
+          <figcaption className="mt-1 font-mono text-sm text-mist">
+            {index + 1} / {photos.length} · {current.originalName}
+          </figcaption>
         </figure>
         <div className="space-y-3">
           <label className="block text-sm font-semibold text-mist">
@@ -117,33 +164,72 @@ export function BatchAssign({ siteId, photos, targets }: Props) {
               aria-describedby="assign-help"
             />
           </label>
-          <p id="assign-help" className="text-xs text-fog">Enter files this photo to the first match and moves on. Page Up / Page Down step without filing.</p>
+          <p id="assign-help" className="text-xs text-fog">
+            Enter files this photo to the first match and moves on. Page Up / Page Down step without filing.
+          </p>
           <ul aria-label="Matching positions" className="space-y-1">
             {suggestions.map((t, i) => (
               <li key={t.positionId}>
-                <button type="button" className={`min-h-11 w-full rounded-md px-3 text-left ring-1 ${i === 0 ? "bg-hull-700 ring-brass-400" : "bg-hull-800 ring-hull-600"}`} onClick={() => { stage(current, t, "typed"); go(index + 1); }}>
-                  <span className="font-mono">{t.designation}</span> <span className="text-sm text-mist">{t.boardName}{t.tagNumber ? ` · tag ${t.tagNumber}` : ""}</span>
+                <button
+                  type="button"
+                  className={`min-h-11 w-full rounded-md px-3 text-left ring-1 ${i === 0 ? "bg-hull-700 ring-brass-400" : "bg-hull-800 ring-hull-600"}`}
+                  onClick={() => {
+                    stage(current, t, "typed");
+                    go(index + 1);
+                  }}
+                >
+                  <span className="font-mono">{t.designation}</span>{" "}
+                  <span className="text-sm text-mist">
+                    {t.boardName}
+                    {t.tagNumber ? ` · tag ${t.tagNumber}` : ""}
+                  </span>
                 </button>
               </li>
             ))}
           </ul>
           <label className="block text-sm font-semibold text-mist">
             Kind of shot
-            <select className="mt-1 block min-h-11 w-full rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk" value={here?.kind ?? kindFor[current.id] ?? current.kind}
-              onChange={(e) => setKind(current, e.target.value as PhotoKind)}>
-              {PHOTO_KINDS.map((k) => <option key={k} value={k}>{PHOTO_KIND_LABELS[k]}</option>)}
+            <select
+              className="mt-1 block min-h-11 w-full rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk"
+              value={here?.kind ?? kindFor[current.id] ?? current.kind}
+              onChange={(e) => setKind(current, e.target.value as PhotoKind)}
+            >
+              {PHOTO_KINDS.map((k) => (
+                <option key={k} value={k}>
+                  {PHOTO_KIND_LABELS[k]}
+                </option>
+              ))}
             </select>
           </label>
-          <p className="text-sm" aria-live="polite">{here ? <>Filed to <span className="font-mono">{byId.get(here.positionId)?.designation}</span> (not saved yet)</> : "Not filed yet."}</p>
+          <p className="text-sm" aria-live="polite">
+            {here ? (
+              <>
+                Filed to <span className="font-mono">{byId.get(here.positionId)?.designation}</span> (not saved yet)
+              </>
+            ) : (
+              "Not filed yet."
+            )}
+          </p>
           <div className="flex gap-2">
-            <Button tone="quiet" onClick={() => go(index - 1)} disabled={index === 0}>Previous</Button>
-            <Button tone="quiet" onClick={() => go(index + 1)} disabled={index >= photos.length - 1}>Next</Button>
+            <Button tone="quiet" onClick={() => go(index - 1)} disabled={index === 0}>
+              Previous
+            </Button>
+            <Button tone="quiet" onClick={() => go(index + 1)} disabled={index >= photos.length - 1}>
+              Next
+            </Button>
           </div>
         </div>
       </div>
-      <AssignmentTable photos={photos} staged={staged} byId={byId} onRemove={(id) => setStaged(({ [id]: _, ...rest }) => rest)} />
+      <AssignmentTable
+        photos={photos}
+        staged={staged}
+        byId={byId}
+        onRemove={(id) => setStaged(({ [id]: _, ...rest }) => rest)}
+      />
       {assign.isError && <ErrorPanel error={assign.error} />}
-      <Button onClick={save} disabled={!count || assign.isPending}>{assign.isPending ? "Saving…" : `Save ${count} assignment${count === 1 ? "" : "s"}`}</Button>
+      <Button onClick={save} disabled={!count || assign.isPending}>
+        {assign.isPending ? "Saving…" : `Save ${count} assignment${count === 1 ? "" : "s"}`}
+      </Button>
     </section>
   );
 }

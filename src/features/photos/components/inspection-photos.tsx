@@ -12,8 +12,21 @@ import { UploadList } from "./upload-list";
  * and the photos so far. Self-contained (siteId and one of inspectionId / custodyMoveId /
  * defectId) so other screens can compose it.
  */
-export function InspectionPhotos({ siteId, inspectionId, custodyMoveId, defectId, defaultKind = "damage", label = "Photos of this inspection" }:
-  { siteId: string; inspectionId?: string; custodyMoveId?: string; defectId?: string; defaultKind?: PhotoKind; label?: string }) {
+export function InspectionPhotos({
+  siteId,
+  inspectionId,
+  custodyMoveId,
+  defectId,
+  defaultKind = "damage",
+  label = "Photos of this inspection",
+}: {
+  siteId: string;
+  inspectionId?: string;
+  custodyMoveId?: string;
+  defectId?: string;
+  defaultKind?: PhotoKind;
+  label?: string;
+}) {
   const [kind, setKind] = useState<PhotoKind>(defaultKind);
   const photos = usePhotos(siteId, { inspectionId, custodyMoveId, defectId });
   const { invalidate } = usePhotoMutations(siteId);
@@ -23,20 +36,40 @@ export function InspectionPhotos({ siteId, inspectionId, custodyMoveId, defectId
   return (
     <section aria-label={label} className="space-y-2">
       <div className="flex flex-wrap items-end gap-2">
-        <label className="text-sm font-semibold text-mist">Kind
-          <select className="mt-1 block min-h-11 rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk" value={kind} onChange={(e) => setKind(e.target.value as PhotoKind)}>
-            {PHOTO_KINDS.map((k) => <option key={k} value={k}>{PHOTO_KIND_LABELS[k]}</option>)}
+        <label className="text-sm font-semibold text-mist">
+          Kind
+          <select
+            className="mt-1 block min-h-11 rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk"
+            value={kind}
+            onChange={(e) => setKind(e.target.value as PhotoKind)}
+          >
+            {PHOTO_KINDS.map((k) => (
+              <option key={k} value={k}>
+                {PHOTO_KIND_LABELS[k]}
+              </option>
+            ))}
           </select>
         </label>
         <label className="inline-flex min-h-11 cursor-pointer items-center rounded-md bg-hull-800 px-4 font-semibold text-chalk ring-1 ring-hull-600 hover:bg-hull-700">
           Add photos
-          <input type="file" accept="image/*" capture="environment" multiple className="sr-only"
-            onChange={(e) => { queue.add([...(e.target.files ?? [])], { kind, caption: "", inspectionId, custodyMoveId, defectId }); e.target.value = ""; }} />
+          <input
+            type="file"
+            accept="image/*"
+            capture="environment"
+            multiple
+            className="sr-only"
+            onChange={(e) => {
+              queue.add([...(e.target.files ?? [])], { kind, caption: "", inspectionId, custodyMoveId, defectId });
+              e.target.value = "";
+            }}
+          />
         </label>
       </div>
       <UploadList items={queue.items} onRetry={queue.retry} />
       {list.length > 0 && <PhotoGrid siteId={siteId} photos={list} onOpen={setOpen} compact />}
-      {open !== null && <PhotoViewer siteId={siteId} photos={list} index={open} onIndex={setOpen} onClose={() => setOpen(null)} />}
+      {open !== null && (
+        <PhotoViewer siteId={siteId} photos={list} index={open} onIndex={setOpen} onClose={() => setOpen(null)} />
+      )}
     </section>
   );
 }

@@ -17,10 +17,20 @@ interface Props {
   tagTargets?: PhotoTarget[];
 }
 
-const btn = "min-h-11 min-w-11 rounded-md bg-hull-800 px-3 font-semibold text-chalk ring-1 ring-hull-600 hover:bg-hull-700";
+const btn =
+  "min-h-11 min-w-11 rounded-md bg-hull-800 px-3 font-semibold text-chalk ring-1 ring-hull-600 hover:bg-hull-700";
 
 /** Full screen, one photo at a time: ← and → step through, Esc closes. */
-export function PhotoViewer({ siteId, photos, index, onIndex, onClose, canDownloadOriginal, onDelete, tagTargets }: Props) {
+export function PhotoViewer({
+  siteId,
+  photos,
+  index,
+  onIndex,
+  onClose,
+  canDownloadOriginal,
+  onDelete,
+  tagTargets,
+}: Props) {
   const close = useRef<HTMLButtonElement>(null);
   const p = photos[index];
   useEffect(() => {
@@ -44,23 +54,65 @@ export function PhotoViewer({ siteId, photos, index, onIndex, onClose, canDownlo
   if (!p) return null;
   const title = [p.designation && `Position ${p.designation}`, PHOTO_KIND_LABELS[p.kind]].filter(Boolean).join(" · ");
   return (
-    <div role="dialog" aria-modal="true" aria-label={`Photo ${index + 1} of ${photos.length}: ${title}`} className="fixed inset-0 z-50 flex flex-col overflow-y-auto bg-hull-950">
+    <div
+      role="dialog"
+      aria-modal="true"
+      aria-label={`Photo ${index + 1} of ${photos.length}: ${title}`}
+      className="fixed inset-0 z-50 flex flex-col overflow-y-auto bg-hull-950"
+    >
       <div className="flex flex-wrap items-center gap-2 p-2">
         <p className="flex-1 text-sm text-chalk">
           <span className="font-semibold">{title}</span>
-          <span className="text-mist"> — {index + 1} of {photos.length}{p.boardName ? ` · ${p.boardName}` : ""}</span>
+          <span className="text-mist">
+            {" "}
+            — {index + 1} of {photos.length}
+            {p.boardName ? ` · ${p.boardName}` : ""}
+          </span>
         </p>
-        {canDownloadOriginal && <a className={`${btn} inline-flex items-center no-underline`} href={photoUrl(siteId, p.id, "original")}>Original</a>}
-        {onDelete && <button type="button" className={btn} onClick={() => onDelete(p)}>Delete</button>}
-        <button ref={close} type="button" className={btn} onClick={onClose}>Close</button>
+        {canDownloadOriginal && (
+          <a className={`${btn} inline-flex items-center no-underline`} href={photoUrl(siteId, p.id, "original")}>
+            Original
+          </a>
+        )}
+        {onDelete && (
+          <button type="button" className={btn} onClick={() => onDelete(p)}>
+            Delete
+          </button>
+        )}
+        <button ref={close} type="button" className={btn} onClick={onClose}>
+          Close
+        </button>
       </div>
       <div className="relative flex min-h-0 flex-1 items-center justify-center">
-        <RenditionImage siteId={siteId} photo={p} rendition="display" alt={p.caption || title} className="max-h-full max-w-full object-contain" />
-        <button type="button" className={`${btn} absolute left-2`} onClick={() => onIndex(Math.max(0, index - 1))} disabled={index === 0} aria-label="Previous photo">←</button>
-        <button type="button" className={`${btn} absolute right-2`} onClick={() => onIndex(Math.min(photos.length - 1, index + 1))} disabled={index === photos.length - 1} aria-label="Next photo">→</button>
+        <RenditionImage
+          siteId={siteId}
+          photo={p}
+          rendition="display"
+          alt={p.caption || title}
+          className="max-h-full max-w-full object-contain"
+        />
+        <button
+          type="button"
+          className={`${btn} absolute left-2`}
+          onClick={() => onIndex(Math.max(0, index - 1))}
+          disabled={index === 0}
+          aria-label="Previous photo"
+        >
+          ←
+        </button>
+        <button
+          type="button"
+          className={`${btn} absolute right-2`}
+          onClick={() => onIndex(Math.min(photos.length - 1, index + 1))}
+          disabled={index === photos.length - 1}
+          aria-label="Next photo"
+        >
+          →
+        </button>
       </div>
       <p className="p-3 text-sm text-mist">
-        {p.caption || "No caption."} {p.capturedAt && <>· taken {new Date(p.capturedAt).toLocaleString()}</>} {p.cameraModel && <>· {p.cameraModel}</>} · {p.width}×{p.height}
+        {p.caption || "No caption."} {p.capturedAt && <>· taken {new Date(p.capturedAt).toLocaleString()}</>}{" "}
+        {p.cameraModel && <>· {p.cameraModel}</>} · {p.width}×{p.height}
       </p>
       {tagTargets && <PhotoTagForm siteId={siteId} photo={p} targets={tagTargets} />}
     </div>

@@ -6,8 +6,21 @@ import { photoUrl } from "../api";
  * a plain panel says it is being processed (the list refetches while any photo is); a
  * photo whose processing failed says why, so the photographer can upload it again.
  */
-export function RenditionImage({ siteId, photo, rendition, alt, className }: { siteId: string; photo: Photo; rendition: "thumb" | "display"; alt: string; className?: string }) {
-  if (photo.renditionState === "ready") return <img src={photoUrl(siteId, photo.id, rendition)} alt={alt} loading="lazy" className={className} />;
+export function RenditionImage({
+  siteId,
+  photo,
+  rendition,
+  alt,
+  className,
+}: {
+  siteId: string;
+  photo: Photo;
+  rendition: "thumb" | "display";
+  alt: string;
+  className?: string;
+}) {
+  if (photo.renditionState === "ready")
+    return <img src={photoUrl(siteId, photo.id, rendition)} alt={alt} loading="lazy" className={className} />;
   const failed = photo.renditionState === "failed";
   return (
     <span

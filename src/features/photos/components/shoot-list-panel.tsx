@@ -17,13 +17,24 @@ export function ShootListPanel({ siteId, boardId }: { siteId: string; boardId: s
   const rows = onlyMissing ? d.positions.filter((p) => p.missing.length) : d.positions;
   return (
     <section aria-labelledby="shoot-title" className="space-y-3">
-      <h2 id="shoot-title" className="text-xl font-bold">{d.board.name}</h2>
+      <h2 id="shoot-title" className="text-xl font-bold">
+        {d.board.name}
+      </h2>
       <p>
-        <span className="font-semibold">{d.complete} of {d.total} positions</span> have every required shot ({d.shotsTaken} of {d.shotsRequired} shots, {pct} %).
+        <span className="font-semibold">
+          {d.complete} of {d.total} positions
+        </span>{" "}
+        have every required shot ({d.shotsTaken} of {d.shotsRequired} shots, {pct} %).
       </p>
-      <progress max={100} value={pct} className="h-3 w-full overflow-hidden rounded [&::-webkit-progress-bar]:bg-hull-700 [&::-webkit-progress-value]:bg-kelp-400" aria-label="Shoot list progress" />
+      <progress
+        max={100}
+        value={pct}
+        className="h-3 w-full overflow-hidden rounded [&::-webkit-progress-bar]:bg-hull-700 [&::-webkit-progress-value]:bg-kelp-400"
+        aria-label="Shoot list progress"
+      />
       <label className="inline-flex min-h-11 items-center gap-2 text-sm">
-        <input type="checkbox" checked={onlyMissing} onChange={(e) => setOnlyMissing(e.target.checked)} /> Only positions still missing a shot
+        <input type="checkbox" checked={onlyMissing} onChange={(e) => setOnlyMissing(e.target.checked)} /> Only
+        positions still missing a shot
       </label>
       {rows.length === 0 ? (
         <p className="text-kelp-300">✓ Nothing missing on this board.</p>
@@ -31,10 +42,18 @@ export function ShootListPanel({ siteId, boardId }: { siteId: string; boardId: s
         <ul className="grid gap-2 sm:grid-cols-2 lg:grid-cols-3" aria-label="Positions">
           {rows.map((p) => (
             <li key={p.id} className="rounded-md bg-hull-850 p-3 ring-1 ring-hull-700" data-testid="shoot-row">
-              <Link to={paths.photoGallery.href(siteId, { positionId: p.id })} className="font-mono font-semibold">{p.designation}</Link>
-              <span className="ml-2 text-sm text-mist">{p.photoCount} photo{p.photoCount === 1 ? "" : "s"}</span>
+              <Link to={paths.photoGallery.href(siteId, { positionId: p.id })} className="font-mono font-semibold">
+                {p.designation}
+              </Link>
+              <span className="ml-2 text-sm text-mist">
+                {p.photoCount} photo{p.photoCount === 1 ? "" : "s"}
+              </span>
               <p className="text-sm">
-                {p.missing.length ? <>Missing: {p.missing.map((k) => PHOTO_KIND_LABELS[k]).join(", ")}</> : <span className="text-kelp-300">✓ Complete</span>}
+                {p.missing.length ? (
+                  <>Missing: {p.missing.map((k) => PHOTO_KIND_LABELS[k]).join(", ")}</>
+                ) : (
+                  <span className="text-kelp-300">✓ Complete</span>
+                )}
               </p>
             </li>
           ))}
@@ -64,11 +83,19 @@ export function RequiredShotsEditor({ siteId }: { siteId: string }) {
           </label>
         ))}
       </div>
-      <Button className="mt-2" onClick={() => saveSettings.mutate({ requiredKinds: kinds, version: settings.data.version })} disabled={saveSettings.isPending}>
+      <Button
+        className="mt-2"
+        onClick={() => saveSettings.mutate({ requiredKinds: kinds, version: settings.data.version })}
+        disabled={saveSettings.isPending}
+      >
         Save required shots
       </Button>
       {saveSettings.isError && <ErrorPanel error={saveSettings.error} />}
-      {saveSettings.isSuccess && <p role="status" className="mt-1 text-sm text-kelp-300">✓ Saved.</p>}
+      {saveSettings.isSuccess && (
+        <p role="status" className="mt-1 text-sm text-kelp-300">
+          ✓ Saved.
+        </p>
+      )}
     </fieldset>
   );
 }

@@ -7,9 +7,24 @@ import { useUploadQueue } from "../use-upload-queue";
 import { UploadList } from "./upload-list";
 
 /** The browser's hint only; the server decides the type from the bytes. */
-const ACCEPT = { "image/jpeg": [".jpg", ".jpeg"], "image/png": [".png"], "image/webp": [".webp"], "image/heic": [".heic"], "image/heif": [".heif"], "image/tiff": [".tif", ".tiff"] };
+const ACCEPT = {
+  "image/jpeg": [".jpg", ".jpeg"],
+  "image/png": [".png"],
+  "image/webp": [".webp"],
+  "image/heic": [".heic"],
+  "image/heif": [".heif"],
+  "image/tiff": [".tif", ".tiff"],
+};
 
-export function UploadPanel({ siteId, targets, onUploaded }: { siteId: string; targets: PhotoTarget[]; onUploaded?: (p: Photo) => void }) {
+export function UploadPanel({
+  siteId,
+  targets,
+  onUploaded,
+}: {
+  siteId: string;
+  targets: PhotoTarget[];
+  onUploaded?: (p: Photo) => void;
+}) {
   const [kind, setKind] = useState<PhotoKind>("as_found");
   const [caption, setCaption] = useState("");
   const [positionId, setPositionId] = useState("");
@@ -24,16 +39,36 @@ export function UploadPanel({ siteId, targets, onUploaded }: { siteId: string; t
 
   return (
     <section aria-labelledby="upload-title" className="space-y-3">
-      <h2 id="upload-title" className="text-xl font-bold">Upload a shoot</h2>
+      <h2 id="upload-title" className="text-xl font-bold">
+        Upload a shoot
+      </h2>
       <div className="grid gap-3 sm:grid-cols-3">
         <SelectField label="Kind of shot" value={kind} onChange={(e) => setKind(e.target.value as PhotoKind)}>
-          {PHOTO_KINDS.map((k) => <option key={k} value={k}>{PHOTO_KIND_LABELS[k]}</option>)}
+          {PHOTO_KINDS.map((k) => (
+            <option key={k} value={k}>
+              {PHOTO_KIND_LABELS[k]}
+            </option>
+          ))}
         </SelectField>
-        <SelectField label="File to position (optional)" value={positionId} onChange={(e) => setPositionId(e.target.value)} hint="Or leave it and assign after the upload.">
+        <SelectField
+          label="File to position (optional)"
+          value={positionId}
+          onChange={(e) => setPositionId(e.target.value)}
+          hint="Or leave it and assign after the upload."
+        >
           <option value="">Assign later</option>
-          {targets.map((t) => <option key={t.positionId} value={t.positionId}>{t.designation} · {t.boardName}</option>)}
+          {targets.map((t) => (
+            <option key={t.positionId} value={t.positionId}>
+              {t.designation} · {t.boardName}
+            </option>
+          ))}
         </SelectField>
-        <TextField label="Caption (optional)" value={caption} maxLength={500} onChange={(e) => setCaption(e.target.value)} />
+        <TextField
+          label="Caption (optional)"
+          value={caption}
+          maxLength={500}
+          onChange={(e) => setCaption(e.target.value)}
+        />
       </div>
       <div
         {...getRootProps()}
@@ -43,7 +78,11 @@ export function UploadPanel({ siteId, targets, onUploaded }: { siteId: string; t
         <input {...getInputProps()} aria-label="Choose photos" data-testid="photo-input" />
         <p className="text-mist">{isDragActive ? "Drop the photos here" : "Drop photos here, or"}</p>
         <div className="mt-2 flex flex-wrap justify-center gap-2">
-          <button type="button" onClick={open} className="min-h-11 rounded-md bg-brass-400 px-4 font-semibold text-hull-950 hover:bg-brass-300">
+          <button
+            type="button"
+            onClick={open}
+            className="min-h-11 rounded-md bg-brass-400 px-4 font-semibold text-hull-950 hover:bg-brass-300"
+          >
             Choose photos
           </button>
           {/* A second input with capture: on a phone it opens the camera; the first still picks from the library. */}
@@ -61,7 +100,9 @@ export function UploadPanel({ siteId, targets, onUploaded }: { siteId: string; t
             />
           </label>
         </div>
-        <p className="mt-2 text-xs text-fog">JPEG, PNG, WebP, HEIC/HEIF or TIFF, up to 40 MB each. Three upload at a time.</p>
+        <p className="mt-2 text-xs text-fog">
+          JPEG, PNG, WebP, HEIC/HEIF or TIFF, up to 40 MB each. Three upload at a time.
+        </p>
       </div>
       {queue.items.length > 0 && (
         <p className="text-sm text-mist" aria-live="polite">

@@ -7,7 +7,15 @@ import { fieldErrors, numOrNull, toIso } from "../format";
 import { ComponentSelect, FormShell, NumberField, WhenField, saveErrors, type TargetOption } from "./form-bits";
 import { VerdictBadge } from "./verdict-badge";
 
-export function ContactForm({ siteId, options, defaultComponentId }: { siteId: string; options: TargetOption[]; defaultComponentId?: string }) {
+export function ContactForm({
+  siteId,
+  options,
+  defaultComponentId,
+}: {
+  siteId: string;
+  options: TargetOption[];
+  defaultComponentId?: string;
+}) {
   const save = useRecordContact(siteId);
   const [poles, setPoles] = useState(3);
   const [errors, setErrors] = useState<Record<string, string>>({});
@@ -28,29 +36,64 @@ export function ContactForm({ siteId, options, defaultComponentId }: { siteId: s
     const parsed = contactReadingBody.safeParse(body);
     setMessage(null);
     if (!parsed.success || !componentId) {
-      setErrors({ ...(parsed.success ? {} : fieldErrors(parsed.error.issues)), ...(componentId ? {} : { componentId: "Choose the breaker" }) });
+      setErrors({
+        ...(parsed.success ? {} : fieldErrors(parsed.error.issues)),
+        ...(componentId ? {} : { componentId: "Choose the breaker" }),
+      });
       setMessage("Check the fields marked below.");
       return;
     }
     setErrors({});
-    save.mutate({ componentId, ...parsed.data }, {
-      onSuccess: (r) => setSaved(r.judgement),
-      onError: (err) => { const s = saveErrors(err); setErrors(s.fields); setMessage(s.message); },
-    });
+    save.mutate(
+      { componentId, ...parsed.data },
+      {
+        onSuccess: (r) => setSaved(r.judgement),
+        onError: (err) => {
+          const s = saveErrors(err);
+          setErrors(s.fields);
+          setMessage(s.message);
+        },
+      },
+    );
   }
 
   return (
     <div className="space-y-3">
-      <FormShell title="Record pole contact resistance" onSubmit={submit} error={message} busy={save.isPending} submitLabel="Save contact readings">
-        <ComponentSelect options={options} label="Breaker or switch" defaultValue={defaultComponentId} error={errors.componentId} />
+      <FormShell
+        title="Record pole contact resistance"
+        onSubmit={submit}
+        error={message}
+        busy={save.isPending}
+        submitLabel="Save contact readings"
+      >
+        <ComponentSelect
+          options={options}
+          label="Breaker or switch"
+          defaultValue={defaultComponentId}
+          error={errors.componentId}
+        />
         <label className="block text-sm font-semibold text-mist">
           Poles
-          <select value={poles} onChange={(e) => setPoles(Number(e.target.value))} className="mt-1 block min-h-11 w-full rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk">
-            {[1, 2, 3, 4].map((n) => <option key={n} value={n}>{n}</option>)}
+          <select
+            value={poles}
+            onChange={(e) => setPoles(Number(e.target.value))}
+            className="mt-1 block min-h-11 w-full rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk"
+          >
+            {[1, 2, 3, 4].map((n) => (
+              <option key={n} value={n}>
+                {n}
+              </option>
+            ))}
           </select>
         </label>
         {Array.from({ length: poles }, (_, i) => (
-          <NumberField key={i} label={`Pole ${i + 1} (µΩ)`} name={`pole${i}`} required error={errors[`poleMicroOhms.${i}`]} />
+          <NumberField
+            key={i}
+            label={`Pole ${i + 1} (µΩ)`}
+            name={`pole${i}`}
+            required
+            error={errors[`poleMicroOhms.${i}`]}
+          />
         ))}
         <NumberField label="Test current (A)" name="testCurrentA" defaultValue={100} error={errors.testCurrentA} />
         <TextField label="Instrument" name="instrument" />
@@ -60,7 +103,11 @@ export function ContactForm({ siteId, options, defaultComponentId }: { siteId: s
       {saved && (
         <div role="status" className="rounded-md bg-hull-800 p-3">
           <VerdictBadge verdict={saved.verdict} />
-          <ul className="mt-1 list-disc pl-5 text-sm">{saved.reasons.map((r) => <li key={r}>{r}</li>)}</ul>
+          <ul className="mt-1 list-disc pl-5 text-sm">
+            {saved.reasons.map((r) => (
+              <li key={r}>{r}</li>
+            ))}
+          </ul>
         </div>
       )}
     </div>

@@ -29,14 +29,30 @@ export function DryOutSection({ readings }: { readings: InsulationReading[] }) {
       <div className="grid gap-2 sm:grid-cols-2">
         <label className="block text-sm font-semibold text-mist">
           Component or circuit
-          <select value={chosenKey} onChange={(e) => setKey(e.target.value)} className="mt-1 block min-h-11 w-full rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk">
-            {[...series].map(([k, s]) => <option key={k} value={k}>{s.label} ({s.readings.length})</option>)}
+          <select
+            value={chosenKey}
+            onChange={(e) => setKey(e.target.value)}
+            className="mt-1 block min-h-11 w-full rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk"
+          >
+            {[...series].map(([k, s]) => (
+              <option key={k} value={k}>
+                {s.label} ({s.readings.length})
+              </option>
+            ))}
           </select>
         </label>
         <label className="block text-sm font-semibold text-mist">
           Conductors
-          <select value={c} onChange={(e) => setConductors(e.target.value as Conductors)} className="mt-1 block min-h-11 w-full rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk">
-            {available.map((a) => <option key={a} value={a}>{CONDUCTOR_LABELS[a]}</option>)}
+          <select
+            value={c}
+            onChange={(e) => setConductors(e.target.value as Conductors)}
+            className="mt-1 block min-h-11 w-full rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk"
+          >
+            {available.map((a) => (
+              <option key={a} value={a}>
+                {CONDUCTOR_LABELS[a]}
+              </option>
+            ))}
           </select>
         </label>
       </div>

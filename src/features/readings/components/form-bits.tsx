@@ -15,15 +15,42 @@ export function saveErrors(e: unknown): { message: string; fields: Record<string
   return { message: "That did not save. Try again.", fields: {} };
 }
 
-export function FormShell({ title, onSubmit, error, children, busy, submitLabel, disabled = false }: {
-  title: string; onSubmit: (e: React.FormEvent<HTMLFormElement>) => void; error: string | null; children: ReactNode; busy: boolean; submitLabel: string; disabled?: boolean;
+export function FormShell({
+  title,
+  onSubmit,
+  error,
+  children,
+  busy,
+  submitLabel,
+  disabled = false,
+}: {
+  title: string;
+  onSubmit: (e: React.FormEvent<HTMLFormElement>) => void;
+  error: string | null;
+  children: ReactNode;
+  busy: boolean;
+  submitLabel: string;
+  disabled?: boolean;
 }) {
   return (
-    <form onSubmit={onSubmit} noValidate aria-label={title} className="space-y-3 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
+    <form
+      onSubmit={onSubmit}
+      noValidate
+      aria-label={title}
+      className="space-y-3 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700"
+    >
       <h3 className="text-lg font-bold">{title}</h3>
-      {error && <p role="alert" className="rounded-md bg-flare-700/30 p-2 text-flare-300">{error}</p>}
+      {error && (
+        <p role="alert" className="rounded-md bg-flare-700/30 p-2 text-flare-300">
+          {error}
+        </p>
+      )}
       <div className="grid gap-3 sm:grid-cols-2">{children}</div>
-      <button type="submit" disabled={busy || disabled} className="min-h-11 w-full rounded-md bg-brass-400 px-4 font-semibold text-hull-950 hover:bg-brass-300 disabled:bg-hull-600 sm:w-auto">
+      <button
+        type="submit"
+        disabled={busy || disabled}
+        className="min-h-11 w-full rounded-md bg-brass-400 px-4 font-semibold text-hull-950 hover:bg-brass-300 disabled:bg-hull-600 sm:w-auto"
+      >
         {busy ? "Saving…" : submitLabel}
       </button>
     </form>
@@ -31,22 +58,78 @@ export function FormShell({ title, onSubmit, error, children, busy, submitLabel,
 }
 
 export function WhenField({ error }: { error?: string }) {
-  return <TextField label="Measured at" name="measuredAt" type="datetime-local" defaultValue={localNow()} required error={error} />;
+  return (
+    <TextField
+      label="Measured at"
+      name="measuredAt"
+      type="datetime-local"
+      defaultValue={localNow()}
+      required
+      error={error}
+    />
+  );
 }
 
-export function NumberField({ label, name, error, hint, defaultValue, step = "any", required }: {
-  label: string; name: string; error?: string; hint?: string; defaultValue?: string | number; step?: string; required?: boolean;
-}) {
-  return <TextField label={label} name={name} type="number" inputMode="decimal" step={step} defaultValue={defaultValue} error={error} hint={hint} required={required} />;
-}
-
-export function ComponentSelect({ options, name = "componentId", label = "Component", error, defaultValue, allowNone }: {
-  options: TargetOption[]; name?: string; label?: string; error?: string; defaultValue?: string; allowNone?: string;
+export function NumberField({
+  label,
+  name,
+  error,
+  hint,
+  defaultValue,
+  step = "any",
+  required,
+}: {
+  label: string;
+  name: string;
+  error?: string;
+  hint?: string;
+  defaultValue?: string | number;
+  step?: string;
+  required?: boolean;
 }) {
   return (
-    <SelectField label={label} name={name} defaultValue={defaultValue ?? (allowNone ? "" : options[0]?.componentId)} error={error}>
+    <TextField
+      label={label}
+      name={name}
+      type="number"
+      inputMode="decimal"
+      step={step}
+      defaultValue={defaultValue}
+      error={error}
+      hint={hint}
+      required={required}
+    />
+  );
+}
+
+export function ComponentSelect({
+  options,
+  name = "componentId",
+  label = "Component",
+  error,
+  defaultValue,
+  allowNone,
+}: {
+  options: TargetOption[];
+  name?: string;
+  label?: string;
+  error?: string;
+  defaultValue?: string;
+  allowNone?: string;
+}) {
+  return (
+    <SelectField
+      label={label}
+      name={name}
+      defaultValue={defaultValue ?? (allowNone ? "" : options[0]?.componentId)}
+      error={error}
+    >
       {allowNone && <option value="">{allowNone}</option>}
-      {options.map((o) => <option key={o.componentId} value={o.componentId}>{o.designation} · {o.circuit}</option>)}
+      {options.map((o) => (
+        <option key={o.componentId} value={o.componentId}>
+          {o.designation} · {o.circuit}
+        </option>
+      ))}
     </SelectField>
   );
 }

@@ -10,8 +10,13 @@ import { GroundCheckCard } from "./ground-check-history";
 export function LatestGroundCheck({ siteId, boardId }: { siteId: string; boardId: string }) {
   const latest = useLatestGroundCheck(siteId, boardId);
   return (
-    <section aria-labelledby={`latest-ground-${boardId}`} className="space-y-2 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
-      <h2 id={`latest-ground-${boardId}`} className="text-lg font-bold">Latest ground-lamp check</h2>
+    <section
+      aria-labelledby={`latest-ground-${boardId}`}
+      className="space-y-2 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700"
+    >
+      <h2 id={`latest-ground-${boardId}`} className="text-lg font-bold">
+        Latest ground-lamp check
+      </h2>
       {latest.isPending && <Loading what="Reading the lamps" />}
       {latest.isError && <ErrorPanel error={latest.error} />}
       {latest.data === null && <p className="text-mist">No ground-lamp check recorded on this board yet.</p>}

@@ -1,7 +1,13 @@
 import type { CriterionSourceDto } from "../../../schemas/readings";
 
 /** The criterion's source, one click away: a short text and the table's name/number. */
-export function SourceDetails({ sources, label = "Source" }: { sources: Array<{ title: string; source: CriterionSourceDto }>; label?: string }) {
+export function SourceDetails({
+  sources,
+  label = "Source",
+}: {
+  sources: Array<{ title: string; source: CriterionSourceDto }>;
+  label?: string;
+}) {
   return (
     <details className="mt-1 text-sm">
       <summary className="inline-flex min-h-11 cursor-pointer items-center text-brass-300 underline">{label}</summary>

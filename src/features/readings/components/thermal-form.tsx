@@ -5,7 +5,15 @@ import { useRecordThermal } from "../api";
 import { fieldErrors, numOrNull, toIso } from "../format";
 import { ComponentSelect, FormShell, NumberField, WhenField, saveErrors, type TargetOption } from "./form-bits";
 
-export function ThermalForm({ siteId, options, defaultComponentId }: { siteId: string; options: TargetOption[]; defaultComponentId?: string }) {
+export function ThermalForm({
+  siteId,
+  options,
+  defaultComponentId,
+}: {
+  siteId: string;
+  options: TargetOption[];
+  defaultComponentId?: string;
+}) {
   const save = useRecordThermal(siteId);
   const [errors, setErrors] = useState<Record<string, string>>({});
   const [message, setMessage] = useState<string | null>(null);
@@ -29,32 +37,57 @@ export function ThermalForm({ siteId, options, defaultComponentId }: { siteId: s
     const parsed = thermalScanBody.safeParse(body);
     setMessage(null);
     if (!parsed.success || !componentId) {
-      setErrors({ ...(parsed.success ? {} : fieldErrors(parsed.error.issues)), ...(componentId ? {} : { componentId: "Choose the component" }) });
+      setErrors({
+        ...(parsed.success ? {} : fieldErrors(parsed.error.issues)),
+        ...(componentId ? {} : { componentId: "Choose the component" }),
+      });
       setMessage("Check the fields marked below.");
       return;
     }
     setErrors({});
-    save.mutate({ componentId, ...parsed.data }, {
-      onSuccess: (s) => setSaved(`Level ${s.judgement.level}: ${s.judgement.action}.`),
-      onError: (err) => { const s = saveErrors(err); setErrors(s.fields); setMessage(s.message); },
-    });
+    save.mutate(
+      { componentId, ...parsed.data },
+      {
+        onSuccess: (s) => setSaved(`Level ${s.judgement.level}: ${s.judgement.action}.`),
+        onError: (err) => {
+          const s = saveErrors(err);
+          setErrors(s.fields);
+          setMessage(s.message);
+        },
+      },
+    );
   }
 
   return (
     <div className="space-y-3">
-      <FormShell title="Record a thermal scan" onSubmit={submit} error={message} busy={save.isPending} submitLabel="Save scan">
+      <FormShell
+        title="Record a thermal scan"
+        onSubmit={submit}
+        error={message}
+        busy={save.isPending}
+        submitLabel="Save scan"
+      >
         <ComponentSelect options={options} defaultValue={defaultComponentId} error={errors.componentId} />
         <NumberField label="Component temperature (°C)" name="componentTempC" required error={errors.componentTempC} />
         <NumberField label="Similar component, similar load (°C)" name="similarTempC" error={errors.similarTempC} />
         <NumberField label="Ambient air (°C)" name="ambientTempC" error={errors.ambientTempC} />
         <NumberField label="Load (% of rating)" name="loadPercent" error={errors.loadPercent} />
         <NumberField label="Load (A)" name="loadAmps" error={errors.loadAmps} />
-        <TextField label="Thermal image photo id (optional)" name="photoId" hint="A photo filed as a thermal image, when one has been uploaded" error={errors.photoId} />
+        <TextField
+          label="Thermal image photo id (optional)"
+          name="photoId"
+          hint="A photo filed as a thermal image, when one has been uploaded"
+          error={errors.photoId}
+        />
         <TextField label="Camera" name="instrument" />
         <WhenField error={errors.measuredAt} />
         <TextField label="Notes" name="notes" className="sm:col-span-2" />
       </FormShell>
-      {saved && <p role="status" className="rounded-md bg-hull-800 p-3">Saved. {saved}</p>}
+      {saved && (
+        <p role="status" className="rounded-md bg-hull-800 p-3">
+          Saved. {saved}
+        </p>
+      )}
     </div>
   );
 }

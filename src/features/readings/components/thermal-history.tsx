@@ -16,21 +16,41 @@ export function ThermalHistory({ scans }: { scans: ThermalScan[] }) {
             <span className="text-sm text-mist">{when(s.measuredAt)}</span>
           </div>
           <p className="mt-1">
-            <span className="mr-2 inline-block rounded bg-hull-700 px-2 py-0.5 font-mono font-bold" data-testid="thermal-level">Level {s.judgement.level} of 4</span>
+            <span
+              className="mr-2 inline-block rounded bg-hull-700 px-2 py-0.5 font-mono font-bold"
+              data-testid="thermal-level"
+            >
+              Level {s.judgement.level} of 4
+            </span>
             <strong>{s.judgement.action}</strong>
           </p>
           <p className="text-sm text-mist">
-            Measured: {sig(s.componentTempC)} °C · {[rise(s.judgement.overSimilarC, "a similar component"), rise(s.judgement.overAmbientC, "ambient")].filter(Boolean).join(" · ")}
+            Measured: {sig(s.componentTempC)} °C ·{" "}
+            {[rise(s.judgement.overSimilarC, "a similar component"), rise(s.judgement.overAmbientC, "ambient")]
+              .filter(Boolean)
+              .join(" · ")}
             {s.loadPercent != null && ` · load ${sig(s.loadPercent)} %`}
             {s.loadAmps != null && ` · load ${sig(s.loadAmps)} A`}
             {` · level ${s.judgement.measuredLevel} as measured`}
           </p>
           {s.judgement.scaledLevel != null && (
             <p className="text-sm" data-testid="thermal-scaled">
-              Scaled to rated load: {[rise(s.judgement.scaledOverSimilarC, "a similar component"), rise(s.judgement.scaledOverAmbientC, "ambient")].filter(Boolean).join(" · ")} · level {s.judgement.scaledLevel}
+              Scaled to rated load:{" "}
+              {[
+                rise(s.judgement.scaledOverSimilarC, "a similar component"),
+                rise(s.judgement.scaledOverAmbientC, "ambient"),
+              ]
+                .filter(Boolean)
+                .join(" · ")}{" "}
+              · level {s.judgement.scaledLevel}
             </p>
           )}
-          {s.judgement.warnings.map((w) => <p key={w} className="text-sm text-rust-300"><span aria-hidden="true">⚠ </span>{w}</p>)}
+          {s.judgement.warnings.map((w) => (
+            <p key={w} className="text-sm text-rust-300">
+              <span aria-hidden="true">⚠ </span>
+              {w}
+            </p>
+          ))}
           {s.photoId && <p className="text-sm">Thermal image on file (photo {s.photoId.slice(0, 8)})</p>}
           <ReadingDefects kind="thermal" reading={s} />
           <SourceDetails sources={[{ title: "Temperature-rise bands", source: s.judgement.source }]} />

@@ -11,8 +11,13 @@ const LOOK: Record<Verdict, { mark: string; cls: string }> = {
 export function VerdictBadge({ verdict }: { verdict: Verdict }) {
   const look = LOOK[verdict];
   return (
-    <span data-verdict={verdict} className={`inline-flex items-center gap-1 rounded px-2 py-0.5 text-sm font-semibold ring-1 ${look.cls}`}>
-      <span aria-hidden="true" className="font-mono">{look.mark}</span>
+    <span
+      data-verdict={verdict}
+      className={`inline-flex items-center gap-1 rounded px-2 py-0.5 text-sm font-semibold ring-1 ${look.cls}`}
+    >
+      <span aria-hidden="true" className="font-mono">
+        {look.mark}
+      </span>
       {VERDICT_LABELS[verdict]}
     </span>
   );

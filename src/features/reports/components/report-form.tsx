@@ -27,9 +27,15 @@ export function ReportForm({ siteId, siteName, boards }: Props) {
   const abort = useRef<AbortController | null>(null);
   const busy = progress !== null && result === null && error === null;
 
-  const toggle = (s: ReportSection) => setSections((cur) => (cur.includes(s) ? cur.filter((x) => x !== s) : REPORT_SECTIONS.filter((x) => x === s || cur.includes(x))));
+  const toggle = (s: ReportSection) =>
+    setSections((cur) =>
+      cur.includes(s) ? cur.filter((x) => x !== s) : REPORT_SECTIONS.filter((x) => x === s || cur.includes(x)),
+    );
   const board = boards.find((b) => b.id === boardId);
-  const slug = `${siteName}${board ? `-${board.name}` : ""}`.toLowerCase().replace(/[^a-z0-9]+/g, "-").replace(/^-|-$/g, "");
+  const slug = `${siteName}${board ? `-${board.name}` : ""}`
+    .toLowerCase()
+    .replace(/[^a-z0-9]+/g, "-")
+    .replace(/^-|-$/g, "");
 
   async function make() {
     setResult(null);
@@ -37,7 +43,18 @@ export function ReportForm({ siteId, siteName, boards }: Props) {
     setProgress({ pages: 0, totalPages: null, bytes: 0 });
     abort.current = new AbortController();
     try {
-      const blob = await fetchPdf(surveyReportUrl(siteId, { boardId: boardId || undefined, sections, photos, from: from || undefined, to: to || undefined, paper }), setProgress, abort.current.signal);
+      const blob = await fetchPdf(
+        surveyReportUrl(siteId, {
+          boardId: boardId || undefined,
+          sections,
+          photos,
+          from: from || undefined,
+          to: to || undefined,
+          paper,
+        }),
+        setProgress,
+        abort.current.signal,
+      );
       setResult({ blob, filename: `condition-survey-${slug}-${new Date().toISOString().slice(0, 10)}.pdf` });
     } catch (e) {
       if ((e as Error).name === "AbortError") setProgress(null);
@@ -46,48 +63,102 @@ export function ReportForm({ siteId, siteName, boards }: Props) {
   }
 
   return (
-    <form className="space-y-4" onSubmit={(e) => { e.preventDefault(); if (!busy) void make(); }} aria-labelledby="report-form-title">
-      <h2 id="report-form-title" className="text-xl font-bold">Condition survey (PDF)</h2>
+    <form
+      className="space-y-4"
+      onSubmit={(e) => {
+        e.preventDefault();
+        if (!busy) void make();
+      }}
+      aria-labelledby="report-form-title"
+    >
+      <h2 id="report-form-title" className="text-xl font-bold">
+        Condition survey (PDF)
+      </h2>
       <p className="text-sm text-mist">
-        For owners, insurers, sponsors and the heritage body: cover, contents, summary, the board front, every position with its photos and
-        readings, dry-out charts, the defect register and the parts wanted, ending with the safety caution. It records observations and
-        readings; it certifies nothing.
+        For owners, insurers, sponsors and the heritage body: cover, contents, summary, the board front, every position
+        with its photos and readings, dry-out charts, the defect register and the parts wanted, ending with the safety
+        caution. It records observations and readings; it certifies nothing.
       </p>
       <div className="grid gap-3 sm:grid-cols-2">
         <SelectField label="Board" value={boardId} onChange={(e) => setBoardId(e.target.value)} disabled={busy}>
           {boards.map((b) => (
-            <option key={b.id} value={b.id}>{b.name} ({b.positionCount} positions)</option>
+            <option key={b.id} value={b.id}>
+              {b.name} ({b.positionCount} positions)
+            </option>
           ))}
           <option value="">Whole site: every board</option>
         </SelectField>
-        <SelectField label="Paper" value={paper} onChange={(e) => setPaper(e.target.value as "a4" | "letter")} disabled={busy}>
+        <SelectField
+          label="Paper"
+          value={paper}
+          onChange={(e) => setPaper(e.target.value as "a4" | "letter")}
+          disabled={busy}
+        >
           <option value="a4">A4</option>
           <option value="letter">US Letter</option>
         </SelectField>
-        <TextField label="Observations from (optional)" type="date" value={from} max={to || undefined} onChange={(e) => setFrom(e.target.value)} disabled={busy} />
-        <TextField label="Observations to (optional)" type="date" value={to} min={from || undefined} onChange={(e) => setTo(e.target.value)} disabled={busy}
-          hint="Inspections, readings and photos outside the dates are left out." />
+        <TextField
+          label="Observations from (optional)"
+          type="date"
+          value={from}
+          max={to || undefined}
+          onChange={(e) => setFrom(e.target.value)}
+          disabled={busy}
+        />
+        <TextField
+          label="Observations to (optional)"
+          type="date"
+          value={to}
+          min={from || undefined}
+          onChange={(e) => setTo(e.target.value)}
+          disabled={busy}
+          hint="Inspections, readings and photos outside the dates are left out."
+        />
       </div>
       <fieldset className="space-y-2">
-        <legend className="text-sm font-semibold text-mist">Sections (cover, contents and the safety caution are always in)</legend>
+        <legend className="text-sm font-semibold text-mist">
+          Sections (cover, contents and the safety caution are always in)
+        </legend>
         <div className="grid gap-1 sm:grid-cols-2">
           {REPORT_SECTIONS.map((s) => (
             <label key={s} className="flex min-h-11 items-center gap-3">
-              <input type="checkbox" className="size-5 accent-brass-400" checked={sections.includes(s)} onChange={() => toggle(s)} disabled={busy} />
+              <input
+                type="checkbox"
+                className="size-5 accent-brass-400"
+                checked={sections.includes(s)}
+                onChange={() => toggle(s)}
+                disabled={busy}
+              />
               {REPORT_SECTION_LABELS[s]}
             </label>
           ))}
         </div>
         <label className="flex min-h-11 items-center gap-3">
-          <input type="checkbox" className="size-5 accent-brass-400" checked={photos} onChange={(e) => setPhotos(e.target.checked)} disabled={busy} />
+          <input
+            type="checkbox"
+            className="size-5 accent-brass-400"
+            checked={photos}
+            onChange={(e) => setPhotos(e.target.checked)}
+            disabled={busy}
+          />
           Include photos (as found and after work, downscaled)
         </label>
       </fieldset>
       <div className="flex flex-wrap gap-3">
-        <Button type="submit" disabled={busy || sections.length === 0}>{busy ? "Making the report…" : "Make the report"}</Button>
-        {busy && <Button tone="quiet" onClick={() => abort.current?.abort()}>Stop</Button>}
+        <Button type="submit" disabled={busy || sections.length === 0}>
+          {busy ? "Making the report…" : "Make the report"}
+        </Button>
+        {busy && (
+          <Button tone="quiet" onClick={() => abort.current?.abort()}>
+            Stop
+          </Button>
+        )}
       </div>
-      {sections.length === 0 && <p className="text-sm text-flare-300" role="alert">Choose at least one section.</p>}
+      {sections.length === 0 && (
+        <p className="text-sm text-flare-300" role="alert">
+          Choose at least one section.
+        </p>
+      )}
       {progress && !result && !error && <DownloadProgress progress={progress} label="Report pages received" />}
       {error !== null && <ErrorPanel error={error} />}
       {result && <SaveLink blob={result.blob} filename={result.filename} />}

@@ -16,7 +16,8 @@ async function makeReader(): Promise<(video: HTMLVideoElement, canvas: HTMLCanva
   }
   const { default: jsQR } = await import("jsqr");
   return async (video, canvas) => {
-    const w = video.videoWidth, h = video.videoHeight;
+    const w = video.videoWidth,
+      h = video.videoHeight;
     if (!w || !h) return null;
     const scale = Math.min(1, 800 / Math.max(w, h));
     canvas.width = Math.round(w * scale);
@@ -52,7 +53,10 @@ export function TagScanner({ onTag }: { onTag: (tag: string) => void }) {
     }
     setState("starting");
     try {
-      stream.current = await navigator.mediaDevices.getUserMedia({ video: { facingMode: "environment" }, audio: false });
+      stream.current = await navigator.mediaDevices.getUserMedia({
+        video: { facingMode: "environment" },
+        audio: false,
+      });
     } catch {
       setState("idle");
       setMessage("The camera could not be opened (permission refused or no camera). Type the tag number instead.");
@@ -93,13 +97,27 @@ export function TagScanner({ onTag }: { onTag: (tag: string) => void }) {
       <canvas ref={canvas} hidden />
       <div className="flex flex-wrap gap-3">
         {state === "idle" ? (
-          <Button onClick={() => void start()} className="min-h-14 px-6 text-lg">Scan a tag</Button>
+          <Button onClick={() => void start()} className="min-h-14 px-6 text-lg">
+            Scan a tag
+          </Button>
         ) : (
-          <Button tone="quiet" onClick={stop}>Stop the camera</Button>
+          <Button tone="quiet" onClick={stop}>
+            Stop the camera
+          </Button>
         )}
       </div>
-      <p className="text-sm text-mist" aria-live="polite">{state === "scanning" ? "Hold the tag's code inside the frame." : state === "starting" ? "Opening the camera…" : ""}</p>
-      {message && <p className="text-sm text-rust-300" role="alert">{message}</p>}
+      <p className="text-sm text-mist" aria-live="polite">
+        {state === "scanning"
+          ? "Hold the tag's code inside the frame."
+          : state === "starting"
+            ? "Opening the camera…"
+            : ""}
+      </p>
+      {message && (
+        <p className="text-sm text-rust-300" role="alert">
+          {message}
+        </p>
+      )}
       <form
         className="flex flex-wrap items-end gap-3"
         onSubmit={(e) => {
@@ -109,8 +127,18 @@ export function TagScanner({ onTag }: { onTag: (tag: string) => void }) {
           else setMessage("Type the tag number as printed, e.g. KL-0401.");
         }}
       >
-        <TextField label="Or type the tag number" value={typed} onChange={(e) => setTyped(e.target.value)} autoCapitalize="characters" autoComplete="off" spellCheck={false} className="min-w-48 flex-1" />
-        <Button type="submit" tone="quiet">Open</Button>
+        <TextField
+          label="Or type the tag number"
+          value={typed}
+          onChange={(e) => setTyped(e.target.value)}
+          autoCapitalize="characters"
+          autoComplete="off"
+          spellCheck={false}
+          className="min-w-48 flex-1"
+        />
+        <Button type="submit" tone="quiet">
+          Open
+        </Button>
       </form>
     </div>
   );
