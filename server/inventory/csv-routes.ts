@@ -30,7 +30,7 @@ export function csvRoutes(db: Db) {
     await streamInventoryCsv(db, siteId, `${slug(site.name)}-inventory-${day}.csv`, res);
   });
 
-  r.post("/sites/:siteId/inventory/import", requireSiteRole(db, "curator"), csvText, async (req, res) => {
+  r.post("/sites/:siteId/inventory/import", requireSiteRole(db, "inventory.curate"), csvText, async (req, res) => {
     const { siteId } = siteParams.parse(req.params);
     const { mode } = importQuery.parse(req.query);
     const text = typeof req.body === "string" ? req.body : importJsonBody.parse(req.body ?? {}).csv;

@@ -14,6 +14,7 @@ import {
 import type { Role } from "../../src/domain/vocab";
 import type { Db } from "../db";
 import { AppError, forbidden, notFound } from "../errors";
+import { can } from "../../src/domain/permissions";
 import { requireSiteRole } from "../middleware/roles";
 import * as repo from "./repository";
 import * as service from "./service";
@@ -23,8 +24,6 @@ import type { Jobs } from "../jobs";
 
 const siteOnly = z.object({ siteId: z.uuid() });
 const renditionParams = photoParams.extend({ rendition: z.enum(RENDITIONS) });
-/** Originals keep the camera's EXIF, GPS included: only the people who shoot and curate get them. */
-const ORIGINAL_ROLES = new Set(["curator", "photographer", "admin"]);
 
 export function photoRoutes(db: Db, storage: PhotoStorage, jobs: Jobs) {
   const r = Router();
@@ -33,25 +32,20 @@ export function photoRoutes(db: Db, storage: PhotoStorage, jobs: Jobs) {
     role: res.locals.siteRole as Role | "admin",
   });
 
-  r.post(
-    "/sites/:siteId/photos",
-    requireSiteRole(db, "curator", "photographer", "volunteer"),
-    receiveFiles,
-    async (req, res) => {
-      const files = (req.files as Express.Multer.File[] | undefined) ?? [];
-      try {
-        const { siteId } = siteOnly.parse(req.params);
-        if (!files.length) throw new AppError(400, "no_files", 'Attach at least one picture in the "files" field.');
-        const fields = uploadFields.parse(req.body ?? {});
-        const ids = await service.uploadPhotos(db, storage, jobs, siteId, actor(res), files, fields);
-        const photos = await repo.listPhotos(db, siteId, { ids, limit: ids.length, offset: 0 });
-        // 201 with each photo 'processing': its display copy and thumbnail follow from the job queue.
-        res.status(201).json({ photos: photos.map(service.toPhoto) });
-      } finally {
-        await removeTemporary(files);
-      }
-    },
-  );
+  r.post("/sites/:siteId/photos", requireSiteRole(db, "photos.upload"), receiveFiles, async (req, res) => {
+    const files = (req.files as Express.Multer.File[] | undefined) ?? [];
+    try {
+      const { siteId } = siteOnly.parse(req.params);
+      if (!files.length) throw new AppError(400, "no_files", 'Attach at least one picture in the "files" field.');
+      const fields = uploadFields.parse(req.body ?? {});
+      const ids = await service.uploadPhotos(db, storage, jobs, siteId, actor(res), files, fields);
+      const photos = await repo.listPhotos(db, siteId, { ids, limit: ids.length, offset: 0 });
+      // 201 with each photo 'processing': its display copy and thumbnail follow from the job queue.
+      res.status(201).json({ photos: photos.map(service.toPhoto) });
+    } finally {
+      await removeTemporary(files);
+    }
+  });
 
   r.get("/sites/:siteId/photos", requireSiteRole(db), async (req, res) => {
     const { siteId } = siteOnly.parse(req.params);
@@ -69,7 +63,7 @@ export function photoRoutes(db: Db, storage: PhotoStorage, jobs: Jobs) {
     res.json({ settings: await service.getSettings(db, siteOnly.parse(req.params).siteId) });
   });
 
-  r.put("/sites/:siteId/photo-settings", requireSiteRole(db, "curator"), async (req, res) => {
+  r.put("/sites/:siteId/photo-settings", requireSiteRole(db, "photos.settings"), async (req, res) => {
     const { siteId } = siteOnly.parse(req.params);
     res.json({ settings: await service.saveSettings(db, siteId, actor(res), photoSettingsBody.parse(req.body)) });
   });
@@ -79,7 +73,7 @@ export function photoRoutes(db: Db, storage: PhotoStorage, jobs: Jobs) {
     res.json(await service.shootList(db, siteId, boardId));
   });
 
-  r.post("/sites/:siteId/photos/assign", requireSiteRole(db, "curator", "photographer"), async (req, res) => {
+  r.post("/sites/:siteId/photos/assign", requireSiteRole(db, "photos.file"), async (req, res) => {
     const { siteId } = siteOnly.parse(req.params);
     res.json({ photos: await service.bulkAssign(db, siteId, actor(res), bulkAssignBody.parse(req.body)) });
   });
@@ -91,16 +85,12 @@ export function photoRoutes(db: Db, storage: PhotoStorage, jobs: Jobs) {
     res.json({ photo: service.toPhoto(row) });
   });
 
-  r.patch(
-    "/sites/:siteId/photos/:photoId",
-    requireSiteRole(db, "curator", "photographer", "volunteer"),
-    async (req, res) => {
-      const { siteId, photoId } = photoParams.parse(req.params);
-      res.json({ photo: await service.updatePhoto(db, siteId, photoId, actor(res), photoPatch.parse(req.body)) });
-    },
-  );
+  r.patch("/sites/:siteId/photos/:photoId", requireSiteRole(db, "photos.edit"), async (req, res) => {
+    const { siteId, photoId } = photoParams.parse(req.params);
+    res.json({ photo: await service.updatePhoto(db, siteId, photoId, actor(res), photoPatch.parse(req.body)) });
+  });
 
-  r.delete("/sites/:siteId/photos/:photoId", requireSiteRole(db, "curator"), async (req, res) => {
+  r.delete("/sites/:siteId/photos/:photoId", requireSiteRole(db, "photos.delete"), async (req, res) => {
     const { siteId, photoId } = photoParams.parse(req.params);
     await service.softDelete(db, siteId, photoId, actor(res));
     res.json({ ok: true });
@@ -108,7 +98,8 @@ export function photoRoutes(db: Db, storage: PhotoStorage, jobs: Jobs) {
 
   r.get("/sites/:siteId/photos/:photoId/:rendition", requireSiteRole(db), async (req, res) => {
     const { siteId, photoId, rendition } = renditionParams.parse(req.params);
-    if (rendition === "original" && !ORIGINAL_ROLES.has(res.locals.siteRole ?? ""))
+    // Originals keep the camera's EXIF, GPS included: only the people who shoot and curate get them.
+    if (rendition === "original" && !can(res.locals.siteRole, "photos.original"))
       throw forbidden(
         "Originals keep the camera's location data; only the photographer and the curator download them.",
       );

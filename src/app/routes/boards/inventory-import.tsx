@@ -2,7 +2,7 @@ import { Link } from "react-router";
 import { paths } from "../../../config/paths";
 import { CsvImport } from "../../../features/inventory/components/csv-import";
 import { RoleNotice } from "../../../features/inventory/components/role-notice";
-import { canCurate } from "../../../features/inventory/roles";
+import { can } from "../../../domain/permissions";
 import { useSiteContext } from "../sites/site-layout";
 
 export default function InventoryImportPage() {
@@ -17,7 +17,7 @@ export default function InventoryImportPage() {
         Check the file first: every row is read and checked, and the problems are listed line by line, before anything
         is written. The import then writes all the rows in one go, or none of them.
       </p>
-      {canCurate(role) ? (
+      {can(role, "inventory.curate") ? (
         <CsvImport siteId={site.id} />
       ) : (
         <RoleNotice>Only the curator imports inventories.</RoleNotice>

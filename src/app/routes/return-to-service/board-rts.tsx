@@ -2,7 +2,7 @@ import { Link, useParams } from "react-router";
 import { SafetyNotice } from "../../../components/safety-notice";
 import { ErrorPanel, Loading } from "../../../components/status";
 import { paths } from "../../../config/paths";
-import { canRts } from "../../../domain/return-to-service";
+import { can } from "../../../domain/permissions";
 import { useSession } from "../../../features/auth/api";
 import { useRtsBoard } from "../../../features/return-to-service/api";
 import { NewStageForm } from "../../../features/return-to-service/components/new-stage-form";
@@ -68,7 +68,7 @@ export default function BoardReturnToServicePage() {
             index={i}
           />
         ))}
-        {canRts(role, "plan") && <NewStageForm siteId={site.id} view={v} />}
+        {can(role, "rts.plan") && <NewStageForm siteId={site.id} view={v} />}
       </section>
       <section aria-labelledby="timeline-title" className="space-y-2">
         <h2 id="timeline-title" className="text-xl font-bold">

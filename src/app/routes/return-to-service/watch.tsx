@@ -4,7 +4,7 @@ import { Button } from "../../../components/button";
 import { SafetyNotice } from "../../../components/safety-notice";
 import { ErrorPanel, Loading } from "../../../components/status";
 import { paths } from "../../../config/paths";
-import { canRts } from "../../../domain/return-to-service";
+import { can } from "../../../domain/permissions";
 import { LAMP_LOOKS, LAMP_LOOK_LABELS } from "../../../schemas/return-to-service";
 import { useRtsAction, useRtsBoard } from "../../../features/return-to-service/api";
 import { ApiError } from "../../../lib/api-client";
@@ -160,7 +160,7 @@ export default function WatchPage() {
               onChange={(e) => setNote(e.target.value)}
             />
           </label>
-          {canRts(role, "record_watch") ? (
+          {can(role, "rts.record_watch") ? (
             <Button type="submit" className="w-full" disabled={!lamps || (needsPhase && !phase) || act.isPending}>
               Save the check
             </Button>

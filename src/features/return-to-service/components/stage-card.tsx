@@ -2,7 +2,7 @@ import { useState } from "react";
 import { Link } from "react-router";
 import { Button } from "../../../components/button";
 import { paths } from "../../../config/paths";
-import { canRts } from "../../../domain/return-to-service";
+import { can } from "../../../domain/permissions";
 import { HOLD_STATE_LABELS, STAGE_STATE_LABELS, type HoldPoint } from "../../../domain/rts-gate";
 import { SUPPLY_LABELS, VOLTAGE_STEP_LABELS } from "../../../domain/return-to-service";
 import type { RtsStage } from "../../../schemas/return-to-service";
@@ -43,7 +43,7 @@ function HoldPointRow({
   const [reason, setReason] = useState("");
   const [releasing, setReleasing] = useState(false);
   const step = stage.steps.find((s) => s.id === hp.stepId)!;
-  const may = hp.qualifiedOnly ? isQualified && canRts(role, "sign") : canRts(role, "sign");
+  const may = hp.qualifiedOnly ? isQualified && can(role, "rts.sign") : can(role, "rts.sign");
   const error = act.error instanceof ApiError ? act.error.message : act.error ? String(act.error) : null;
   const sign = (body: Record<string, unknown>) =>
     act.mutate({
@@ -91,7 +91,7 @@ function HoldPointRow({
             {hp.kind === "energise" ? "Sign: energised now" : "Sign this hold point"}
           </Button>
         )}
-        {hp.state === "blocked" && !hp.qualifiedOnly && canRts(role, "release_blocked") && !releasing && (
+        {hp.state === "blocked" && !hp.qualifiedOnly && can(role, "rts.release_blocked") && !releasing && (
           <Button tone="danger" onClick={() => setReleasing(true)}>
             Release with a reason…
           </Button>
@@ -239,7 +239,7 @@ export function StageCard({
         >
           Printable stage sheet
         </Link>
-        {(stage.status === "energised" || stage.status === "stopped") && canRts(role, "de_energise") && (
+        {(stage.status === "energised" || stage.status === "stopped") && can(role, "rts.de_energise") && (
           <Button
             tone="quiet"
             onClick={() =>
@@ -253,7 +253,7 @@ export function StageCard({
             Record de-energised
           </Button>
         )}
-        {(stage.status === "stopped" || stage.status === "de_energised") && canRts(role, "restart") && (
+        {(stage.status === "stopped" || stage.status === "de_energised") && can(role, "rts.restart") && (
           <Button
             tone="quiet"
             onClick={() => {
