@@ -12,9 +12,10 @@ import {
   uploadFields,
 } from "../../src/schemas/photos";
 import type { Role } from "../../src/domain/vocab";
+import { can } from "../../src/domain/permissions";
 import type { Db } from "../db";
 import { AppError, forbidden, notFound } from "../errors";
-import { can } from "../../src/domain/permissions";
+import { idempotent } from "../idempotency/middleware";
 import { requireSiteRole } from "../middleware/roles";
 import * as repo from "./repository";
 import * as service from "./service";
@@ -32,20 +33,26 @@ export function photoRoutes(db: Db, storage: PhotoStorage, jobs: Jobs) {
     role: res.locals.siteRole as Role | "admin",
   });
 
-  r.post("/sites/:siteId/photos", requireSiteRole(db, "photos.upload"), receiveFiles, async (req, res) => {
-    const files = (req.files as Express.Multer.File[] | undefined) ?? [];
-    try {
-      const { siteId } = siteOnly.parse(req.params);
-      if (!files.length) throw new AppError(400, "no_files", 'Attach at least one picture in the "files" field.');
-      const fields = uploadFields.parse(req.body ?? {});
-      const ids = await service.uploadPhotos(db, storage, jobs, siteId, actor(res), files, fields);
-      const photos = await repo.listPhotos(db, siteId, { ids, limit: ids.length, offset: 0 });
-      // 201 with each photo 'processing': its display copy and thumbnail follow from the job queue.
-      res.status(201).json({ photos: photos.map(service.toPhoto) });
-    } finally {
-      await removeTemporary(files);
-    }
-  });
+  r.post(
+    "/sites/:siteId/photos",
+    requireSiteRole(db, "photos.upload"),
+    receiveFiles,
+    idempotent(db),
+    async (req, res) => {
+      const files = (req.files as Express.Multer.File[] | undefined) ?? [];
+      try {
+        const { siteId } = siteOnly.parse(req.params);
+        if (!files.length) throw new AppError(400, "no_files", 'Attach at least one picture in the "files" field.');
+        const fields = uploadFields.parse(req.body ?? {});
+        const ids = await service.uploadPhotos(db, storage, jobs, siteId, actor(res), files, fields);
+        const photos = await repo.listPhotos(db, siteId, { ids, limit: ids.length, offset: 0 });
+        // 201 with each photo 'processing': its display copy and thumbnail follow from the job queue.
+        res.status(201).json({ photos: photos.map(service.toPhoto) });
+      } finally {
+        await removeTemporary(files);
+      }
+    },
+  );
 
   r.get("/sites/:siteId/photos", requireSiteRole(db), async (req, res) => {
     const { siteId } = siteOnly.parse(req.params);

@@ -21,6 +21,7 @@ import {
 } from "../../src/schemas/return-to-service";
 import type { Db } from "../db";
 import { AppError } from "../errors";
+import { idempotent } from "../idempotency/middleware";
 import { requireSiteRole } from "../middleware/roles";
 import * as repo from "./repository";
 import * as service from "./service";
@@ -142,7 +143,7 @@ export function rtsRoutes(db: Db) {
     await service.addStep(db, ctxOf(req, res), stageP.parse(req.params).stageId, stepBody.parse(req.body));
     await stageAnswer(req, res, 201);
   });
-  r.post(`${stage}/watch-checks`, requireSiteRole(db, "rts.record_watch"), async (req, res) => {
+  r.post(`${stage}/watch-checks`, requireSiteRole(db, "rts.record_watch"), idempotent(db), async (req, res) => {
     res
       .status(201)
       .json(
@@ -154,7 +155,7 @@ export function rtsRoutes(db: Db) {
         ),
       );
   });
-  r.post(`${stage}/incidents`, requireSiteRole(db, "rts.record_incident"), async (req, res) => {
+  r.post(`${stage}/incidents`, requireSiteRole(db, "rts.record_incident"), idempotent(db), async (req, res) => {
     res.status(201).json({
       incident: await service.recordIncident(
         db,
@@ -228,6 +229,7 @@ export function rtsRoutes(db: Db) {
   r.post(
     "/sites/:siteId/components/:componentId/breaker-operations",
     requireSiteRole(db, "rts.record_operation"),
+    idempotent(db),
     async (req, res) => {
       res
         .status(201)
