@@ -19,6 +19,7 @@ import { priorityScore } from "../../src/domain/priority";
 export const BENCH_PASSWORD = "bench-password-123";
 const BOARDS = 100;
 const COLS = 60;
+const SITE_NAME = "Bench yard — hulls 1 to 9";
 
 export interface BenchSite {
   siteId: string;
@@ -59,7 +60,7 @@ export async function generateSite(db: Db, positions: number, log: (s: string) =
   };
   const site = await db
     .insertInto("sites")
-    .values({ name: "Bench yard — hulls 1 to 9", kind: "vessel", location: "Invented dry dock" })
+    .values({ name: SITE_NAME, kind: "vessel", location: "Invented dry dock" })
     .returning("id")
     .executeTakeFirstOrThrow();
   const s = site.id;
@@ -213,6 +214,17 @@ export async function generateSite(db: Db, positions: number, log: (s: string) =
   await sql`VACUUM ANALYZE`.execute(db);
   log(`  vacuum analyze ${((performance.now() - a) / 1000).toFixed(1)} s`);
 
+  return { ...(await describeSite(db)), seedMs: performance.now() - t0 };
+}
+
+/** The facts the bench needs about a generated site (also for one kept with BENCH_KEEP). */
+export async function describeSite(db: Db): Promise<BenchSite> {
+  const { id: s } = await db
+    .selectFrom("sites")
+    .select("id")
+    .where("name", "=", SITE_NAME)
+    .orderBy("createdAt", "desc")
+    .executeTakeFirstOrThrow();
   const counts: Record<string, number> = {};
   for (const t of [
     "boards",
@@ -238,6 +250,6 @@ export async function generateSite(db: Db, positions: number, log: (s: string) =
     viewerEmail: "bench1@example.test",
     largestBoard: { id: largest.rows[0].id, positions: largest.rows[0].n },
     counts,
-    seedMs: performance.now() - t0,
+    seedMs: 0,
   };
 }

@@ -21,7 +21,8 @@
  * - Then the condition survey report's case (server/cli/bench-report.ts; BENCH_REPORT=0 skips it).
  *
  * Options (environment): BENCH_RUNS, BENCH_N (timed requests per case per run, default 15),
- * BENCH_CLIENTS, BENCH_SECONDS (default 8), BENCH_PAINT=0, BENCH_REPORT=0, BENCH_KEEP=1, BENCH_PROFILE=1
+ * BENCH_CLIENTS, BENCH_SECONDS (default 8), BENCH_PAINT=0, BENCH_REPORT=0, BENCH_KEEP=1 (keep the scratch
+ * database), BENCH_DATABASE=<kept name> (measure it again without generating), BENCH_PROFILE=1
  * (the server writes a V8 CPU profile to .data/bench-profile/ when it stops; open it in chromium's DevTools).
  * A script, not a test: `npm test` never runs it.
  */
@@ -42,7 +43,7 @@ import { createDb, MAINTENANCE_DB_OPTIONS } from "../db";
 import { applySort, registerBase, ROW_COLUMNS } from "../defects/list-query";
 import { measurePaint, openBrowser, STATIC_PAGE, writeStaticPage, type PaintFigures } from "../bench/paint";
 import { capturingDb, planReplay, replay, type Replay } from "../bench/replay";
-import { BENCH_PASSWORD, generateSite, type BenchSite } from "../bench/site";
+import { BENCH_PASSWORD, describeSite, generateSite, type BenchSite } from "../bench/site";
 import { median, percentile, spread, table } from "../bench/stats";
 import { buildClient } from "./prepare";
 import { benchReport } from "./bench-report";
@@ -101,8 +102,14 @@ async function startServer(url: string) {
     },
   );
   let out = "";
-  child.stdout!.on("data", (d) => (out += d));
-  child.stderr!.on("data", (d) => (out += d));
+  const keep = (d: Buffer) => (out = (out + d.toString()).slice(-20_000));
+  child.stdout!.on("data", keep);
+  child.stderr!.on("data", keep);
+  let stopping = false;
+  child.once("exit", (code, signal) => {
+    if (!stopping)
+      console.error(`\n!! the server process exited (code ${code}, signal ${signal}); its last output:\n${out}`);
+  });
   const base = `http://127.0.0.1:${port}`;
   for (let i = 0; ; i++) {
     if (child.exitCode !== null) throw new Error(`the server exited: ${out}`);
@@ -113,7 +120,16 @@ async function startServer(url: string) {
     if (i > 300) throw new Error(`the server did not answer /api/health: ${out}`);
     await new Promise((r) => setTimeout(r, 200));
   }
-  return { child, base };
+  return {
+    child,
+    base,
+    stop: async () => {
+      stopping = true;
+      if (child.exitCode !== null || child.signalCode !== null) return;
+      child.kill("SIGTERM");
+      await new Promise((r) => child.once("exit", r));
+    },
+  };
 }
 
 function ask<T>(child: ChildProcess, message: string, type: string): Promise<T> {
@@ -129,8 +145,12 @@ function ask<T>(child: ChildProcess, message: string, type: string): Promise<T> 
 }
 
 function rssOf(pid: number): number {
-  const m = /VmRSS:\s+(\d+) kB/.exec(readFileSync(`/proc/${pid}/status`, "utf8"));
-  return m ? Number(m[1]) * 1024 : NaN;
+  try {
+    const m = /VmRSS:\s+(\d+) kB/.exec(readFileSync(`/proc/${pid}/status`, "utf8"));
+    return m ? Number(m[1]) * 1024 : NaN;
+  } catch {
+    return NaN; // the process is gone; its exit is reported by startServer's listener
+  }
 }
 
 async function signIn(base: string, email: string) {
@@ -209,8 +229,9 @@ async function main() {
   );
   say(`(the machine is shared: other processes ran beside this one; read the ratios, which are taken side by side)`);
   const local = await openLocalDatabase("test", "postgres");
-  const name = `tideline_bench_${randomBytes(4).toString("hex")}`;
-  await ensureDatabase(local.adminUrl, name, { fresh: true });
+  const reuse = process.env.BENCH_DATABASE;
+  const name = reuse ?? `tideline_bench_${randomBytes(4).toString("hex")}`;
+  if (!reuse) await ensureDatabase(local.adminUrl, name, { fresh: true });
   const url = local.adminUrl.replace(/\/postgres$/, `/${name}`);
   const setup = createDb(url, { ...MAINTENANCE_DB_OPTIONS, max: 4 });
   const raw = new pg.Pool({ connectionString: url, max: POOL });
@@ -218,8 +239,14 @@ async function main() {
   let removeStatic = () => {};
   try {
     await migrateToLatest(setup);
-    say(`\nGenerating a site of ${POSITIONS.toLocaleString("en")} positions on ${name}…`);
-    const site = await generateSite(setup, POSITIONS, say);
+    let site: BenchSite;
+    if (reuse) {
+      site = await describeSite(setup);
+      say(`\nReusing the generated site in ${name} (BENCH_DATABASE)`);
+    } else {
+      say(`\nGenerating a site of ${POSITIONS.toLocaleString("en")} positions on ${name}…`);
+      site = await generateSite(setup, POSITIONS, say);
+    }
     say(
       `seeded in ${(site.seedMs / 1000).toFixed(1)} s: ${Object.entries(site.counts)
         .map(([k, v]) => `${v.toLocaleString("en")} ${k.replace(/_/g, " ")}`)
@@ -498,13 +525,10 @@ async function main() {
     );
   } finally {
     removeStatic();
-    if (server) {
-      server.child.kill("SIGTERM");
-      await new Promise((r) => server!.child.once("exit", r));
-    }
+    await server?.stop();
     await raw.end();
     await setup.destroy();
-    if (process.env.BENCH_KEEP) say(`kept ${name} (BENCH_KEEP)`);
+    if (process.env.BENCH_KEEP || reuse) say(`kept ${name} (BENCH_KEEP / BENCH_DATABASE)`);
     else {
       const c = new pg.Client({ connectionString: local.adminUrl });
       await c.connect();
