@@ -17,6 +17,7 @@ import type { Db } from "../db";
 import type { MailDeps } from "../mail/mailer";
 import { notifyDefectAssigned, notifyAwaitingVerification } from "../notifications/service";
 import { limitExports } from "../export-stream";
+import { idempotent } from "../idempotency/middleware";
 import { requireSiteRole } from "../middleware/roles";
 import { streamCsv } from "./csv";
 import { listPage } from "./list-query";
@@ -26,6 +27,7 @@ import { defectsOfBoardReadings, evidenceOf } from "./evidence";
 import * as repo from "./repository";
 import * as service from "./service";
 import * as views from "./views";
+import { log } from "../log";
 
 const site = z.object({ siteId: z.uuid() });
 const one = site.extend({ defectId: z.uuid({ message: "defectId must be a UUID" }) });
@@ -52,7 +54,7 @@ function sendNotices(mail: MailDeps | undefined, ctx: service.Ctx) {
       const p = { defectId: n.defectId, actorId: ctx.actor.id };
       await (n.kind === "assigned" ? notifyDefectAssigned(mail, p) : notifyAwaitingVerification(mail, p));
     }
-  })().catch((e) => console.error("[defects] notification failed:", e));
+  })().catch((e) => log.error({ err: e }, "defect notification failed"));
 }
 
 export function defectRoutes(db: Db, mail?: MailDeps) {
@@ -123,7 +125,7 @@ export function defectRoutes(db: Db, mail?: MailDeps) {
     sendNotices(mail, ctx);
   });
 
-  r.post(base, raisers, async (req, res) => {
+  r.post(base, raisers, idempotent(db), async (req, res) => {
     const ctx = ctxOf(req, res);
     const row = await service.createDefect(db, ctx, createDefectBody.parse(req.body));
     res.status(201).json({ defect: toJson(row) });
