@@ -9,6 +9,8 @@ export class ApiError extends Error {
     public fields: Record<string, string> = {},
     /** On 409, the record as it is now on the server. */
     public current?: unknown,
+    /** The whole error object, for answers that carry more (an import's rows on 400/409). */
+    public detail?: unknown,
   ) {
     super(message);
   }
@@ -22,8 +24,15 @@ async function request(method: Method, url: string, body?: unknown, signal?: Abo
     res = await fetch(url, {
       method,
       credentials: "same-origin",
-      headers: body === undefined || body instanceof FormData ? {} : { "Content-Type": "application/json" },
-      body: body === undefined ? undefined : body instanceof FormData ? body : JSON.stringify(body),
+      // A Blob (a chosen file) goes as its bytes, so the server reads its encoding instead of the browser guessing.
+      headers:
+        body === undefined || body instanceof FormData
+          ? {}
+          : body instanceof Blob
+            ? { "Content-Type": "text/csv" }
+            : { "Content-Type": "application/json" },
+      body:
+        body === undefined ? undefined : body instanceof FormData || body instanceof Blob ? body : JSON.stringify(body),
       signal,
     });
   } catch (e) {
@@ -42,6 +51,7 @@ async function request(method: Method, url: string, body?: unknown, signal?: Abo
       err?.message ?? `The server answered ${res.status}.`,
       err?.fields,
       err?.current,
+      err,
     );
   }
   return data;
