@@ -18,7 +18,7 @@ const commands = {
   test: { script: "tests/run-all.ts", needs: ["deps", "postgres", "chromium", "poppler"] },
   migrate: { script: "db/cli/migrate.ts", needs: ["deps", "postgres"] },
   "user:create": { script: "server/cli/user-create.ts", needs: ["deps", "postgres"] },
-  bench: { script: "server/cli/bench.ts", needs: ["deps", "postgres", "poppler"] },
+  bench: { script: "server/cli/bench.ts", needs: ["deps", "postgres", "chromium", "poppler"] },
   worker: { script: "server/cli/worker.ts", needs: ["deps", "postgres"] },
   "mail:weekly": { script: "server/cli/weekly-summary.ts", needs: ["deps", "postgres"] },
   "photos:cleanup": { script: "server/cli/photos-cleanup.ts", needs: ["deps", "postgres"] },
