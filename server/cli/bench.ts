@@ -26,6 +26,7 @@
  * (the server writes a V8 CPU profile to .data/bench-profile/ when it stops; open it in chromium's DevTools).
  * A script, not a test: `npm test` never runs it.
  */
+import "../bench/quiet";
 import { spawn, spawnSync, type ChildProcess } from "node:child_process";
 import { randomBytes } from "node:crypto";
 import { readFileSync } from "node:fs";
@@ -430,6 +431,7 @@ async function main() {
       const sampler = setInterval(() => (peak = Math.max(peak, rssOf(pid))), 10);
       const a = performance.now();
       const res = await fetch(`${base}/api/sites/${site.siteId}/defects.csv?sort=priority`, { headers: { cookie } });
+      if (res.status !== 200) throw new Error(`the CSV export answered ${res.status}: ${await res.text()}`);
       let bytes = 0;
       for await (const chunk of res.body as unknown as AsyncIterable<Uint8Array>) bytes += chunk.length;
       const secs = (performance.now() - a) / 1000;
