@@ -47,6 +47,7 @@ import { capturingDb, planReplay, replay, type Replay } from "../bench/replay";
 import { BENCH_PASSWORD, describeSite, generateSite, type BenchSite } from "../bench/site";
 import { median, percentile, spread, table } from "../bench/stats";
 import { buildClient } from "./prepare";
+import { benchFleet } from "./bench-fleet";
 import { benchReport } from "./bench-report";
 
 const arg = (name: string) => process.argv.find((a) => a === `--${name}` || a.startsWith(`--${name}=`));
@@ -545,3 +546,5 @@ async function main() {
 await main();
 // The condition survey report's case (issue 17) runs on its own scratch database.
 if (process.env.BENCH_REPORT !== "0") await benchReport();
+// One web instance against two (issue 18): server/cli/bench-fleet.ts; BENCH_FLEET=0 skips it.
+if (process.env.BENCH_FLEET !== "0") await benchFleet();
