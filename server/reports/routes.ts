@@ -28,26 +28,31 @@ const attachment = (res: Response, filename: string) =>
 export function reportRoutes(db: Db, storage: PhotoStorage, publicUrl: string) {
   const r = Router();
 
-  r.get("/sites/:siteId/reports/survey.pdf", requireSiteRole(db, "reports.survey"), limitExports, async (req, res) => {
-    const q = surveyReportQuery.parse(req.query);
-    const user = res.locals.user!;
-    const prepared = await prepareSurveyReport(db, req.params.siteId as string, q, { id: user.id, name: user.name });
-    res.status(200);
-    res.type("application/pdf");
-    attachment(res, prepared.filename);
-    res.setHeader("X-Report-Pages", String(prepared.plan.totalPages));
-    res.setHeader("X-Report-Positions", String(prepared.data.boards.reduce((s, b) => s + b.positions.length, 0)));
-    res.setHeader("Access-Control-Expose-Headers", "X-Report-Pages, X-Report-Positions");
-    try {
-      await writeSurveyReport(prepared, storage, res);
-    } catch (e) {
-      // Headers are gone: the only honest signal left is a cut-off response.
-      if ((e as Error).message !== "report_aborted") log.error({ err: e }, "survey report failed mid-stream");
-      res.destroy();
-    }
-  });
+  r.get(
+    "/sites/:siteId/reports/survey.pdf",
+    requireSiteRole(db, "reports.survey"),
+    limitExports(db),
+    async (req, res) => {
+      const q = surveyReportQuery.parse(req.query);
+      const user = res.locals.user!;
+      const prepared = await prepareSurveyReport(db, req.params.siteId as string, q, { id: user.id, name: user.name });
+      res.status(200);
+      res.type("application/pdf");
+      attachment(res, prepared.filename);
+      res.setHeader("X-Report-Pages", String(prepared.plan.totalPages));
+      res.setHeader("X-Report-Positions", String(prepared.data.boards.reduce((s, b) => s + b.positions.length, 0)));
+      res.setHeader("Access-Control-Expose-Headers", "X-Report-Pages, X-Report-Positions");
+      try {
+        await writeSurveyReport(prepared, storage, res);
+      } catch (e) {
+        // Headers are gone: the only honest signal left is a cut-off response.
+        if ((e as Error).message !== "report_aborted") log.error({ err: e }, "survey report failed mid-stream");
+        res.destroy();
+      }
+    },
+  );
 
-  r.get("/sites/:siteId/labels.pdf", requireSiteRole(db, "reports.labels"), limitExports, async (req, res) => {
+  r.get("/sites/:siteId/labels.pdf", requireSiteRole(db, "reports.labels"), limitExports(db), async (req, res) => {
     const q = labelsQuery.parse(req.query);
     const { items, untagged } = await labelItems(db, req.params.siteId as string, q);
     const doc = renderLabels(items, {
