@@ -17,6 +17,8 @@ import type { PhotoStorage } from "../photos/storage";
 import { AppError } from "../errors";
 import { requireSiteRole } from "../middleware/roles";
 import { limitExports, runExport } from "../export-stream";
+import { siteTimeZone } from "../sites/service";
+import { localDateTime } from "../../src/domain/local-time";
 import { nameplateThumb } from "./photo-bytes";
 import * as service from "./service";
 import * as share from "./share";
@@ -27,7 +29,6 @@ const linkParams = z.object({ siteId: z.uuid(), linkId: z.uuid({ message: "linkI
 const photoParams = z.object({ siteId: z.uuid(), photoId: z.uuid() });
 const tokenParams = z.object({ token: z.string().regex(/^[A-Za-z0-9_-]{43}$/) });
 const actor = (res: Response) => res.locals.user!.id;
-const today = () => new Date().toISOString().slice(0, 10);
 
 async function sendPhoto(res: Response, photo: Readable | null) {
   if (!photo) throw new AppError(404, "not_found", "No nameplate photo is stored for that.");
@@ -51,9 +52,13 @@ export function partsRoutes(db: Db, storage: PhotoStorage) {
     // connection is back in the pool before the first byte goes out), then written with the
     // export's back-pressure and write timeout.
     const { page: _p, size: _s, ...filter } = listQuery.parse(req.query);
+    const zone = await siteTimeZone(db, req.params.siteId as string);
     res.setHeader("Content-Type", "text/csv; charset=utf-8");
-    res.setHeader("Content-Disposition", `attachment; filename="wanted-parts-${today()}.csv"`);
-    await runExport(res, (out) => service.writePartsCsv(db, req.params.siteId as string, filter, out));
+    res.setHeader(
+      "Content-Disposition",
+      `attachment; filename="wanted-parts-${localDateTime(new Date(), zone).slice(0, 10)}.csv"`,
+    );
+    await runExport(res, (out) => service.writePartsCsv(db, req.params.siteId as string, filter, zone, out));
   });
 
   r.post(base, requireSiteRole(db, "parts.edit"), async (req, res) => {

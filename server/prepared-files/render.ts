@@ -105,14 +105,14 @@ export async function renderTo(
         const f = defectsListQuery.parse(input.params);
         const today = f.today ?? day;
         const out = fileWriter(ws, progress);
-        await writeDefectsCsv(db, input.siteId, f, today, out);
+        await writeDefectsCsv(db, input.siteId, site.timeZone, f, today, out);
         out.end();
         return `defects-${today}.csv`;
       }
       case "parts_csv": {
         const { page: _p, size: _s, ...filter } = partsListQuery.parse(input.params);
         const out = fileWriter(ws, progress);
-        await writePartsCsv(db, input.siteId, filter, out);
+        await writePartsCsv(db, input.siteId, filter, site.timeZone, out);
         out.end();
         return `wanted-parts-${day}.csv`;
       }
