@@ -9,6 +9,11 @@ export const queryClient = new QueryClient({
       // A 4xx will not change by asking again; a dropped connection might.
       retry: (count, err) => !(err instanceof ApiError && err.status >= 400 && err.status < 500) && count < 2,
       refetchOnWindowFocus: false,
+      // Kept in memory as long as on the phone (src/app/persist.ts), or they would not be persisted.
+      gcTime: 3 * 24 * 3600_000,
     },
+    // A form's create runs even with no signal: the field forms then keep it in the outbox
+    // (src/lib/outbox) and the others say the server cannot be reached — never a silent pause.
+    mutations: { networkMode: "always" },
   },
 });
