@@ -61,8 +61,8 @@ export function defectRoutes(db: Db, mail?: MailDeps) {
   const r = Router();
   const base = "/sites/:siteId/defects";
   const member = requireSiteRole(db);
-  const raisers = requireSiteRole(db, "curator", "volunteer");
-  const curator = requireSiteRole(db, "curator");
+  const raisers = requireSiteRole(db, "defects.raise");
+  const curator = requireSiteRole(db, "defects.manage");
 
   r.get(base, member, async (req, res) => {
     const f = listQuery.parse(req.query);
@@ -70,7 +70,7 @@ export function defectRoutes(db: Db, mail?: MailDeps) {
     res.json({ rows: rows.map(toJson), total, page: f.page, size: f.size });
   });
 
-  r.get(`${base}.csv`, member, limitExports, async (req, res) => {
+  r.get(`${base}.csv`, member, limitExports(db), async (req, res) => {
     const f = listQuery.parse(req.query);
     await streamCsv(db, ctxOf(req, res).siteId, f, todayOf(f), res, `defects-${todayOf(f)}.csv`);
   });
