@@ -1,5 +1,10 @@
-import { QueryClient } from "@tanstack/react-query";
+import { QueryClient, onlineManager } from "@tanstack/react-query";
 import { ApiError } from "../lib/api-client";
+import { subscribeOnline } from "../lib/outbox";
+
+// Reads pause (keeping what the phone has) whenever the outbox's probe finds no server, not only
+// when the browser reports no network: a phone on a hull's dead Wi-Fi counts as offline too.
+onlineManager.setEventListener(subscribeOnline);
 
 /** The one query cache: the provider hands it to React, the router's loaders prefetch into it. */
 export const queryClient = new QueryClient({

@@ -341,6 +341,21 @@ export async function resend(id: string, body: unknown) {
   if (snapshot.online) await syncNow(true);
 }
 
+/**
+ * Follow this outbox's idea of "online" (the /api/health probe, not just an attached network):
+ * TanStack Query's onlineManager takes it, so reads pause with no signal and keep what the phone
+ * has instead of failing, and resume when the server answers again.
+ */
+export function subscribeOnline(setOnline: (online: boolean) => void): () => void {
+  let last = snapshot.online;
+  setOnline(last);
+  const l = () => {
+    if (snapshot.online !== last) setOnline((last = snapshot.online));
+  };
+  listeners.add(l);
+  return () => void listeners.delete(l);
+}
+
 /** Called after a round of syncing sent something (the app refreshes its queries). */
 export function onSynced(cb: (items: OutboxItem[]) => void) {
   syncedListeners.add(cb);

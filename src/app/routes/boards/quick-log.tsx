@@ -62,6 +62,7 @@ function Logged({
         </p>
         <div className="mt-2">
           <InspectionPhotos
+            key={done.queuedId}
             siteId={siteId}
             pendingParent={{
               itemId: done.queuedId,
