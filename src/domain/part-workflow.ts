@@ -7,7 +7,7 @@
  */
 import { partSpecKey, normaliseText, type PartSpec } from "./parts";
 import { requireNumber, requireOneOf } from "./guards";
-import { COMPONENT_KIND_LABELS, PART_STATUSES, type PartStatus } from "./vocab";
+import { COMPONENT_KIND_LABELS, PART_STATUSES, type HeritageRule, type PartStatus } from "./vocab";
 
 export const LEAD_SOURCE_KINDS = ["donor", "dealer", "collector", "salvage", "other"] as const;
 export type LeadSourceKind = (typeof LEAD_SOURCE_KINDS)[number];
@@ -139,4 +139,23 @@ export function partTitle(spec: PartSpec, need?: string | null): string {
   if (maker) bits.push(maker);
   const title = bits.join(" · ");
   return need?.trim() ? `${title} — ${need.trim()}` : title;
+}
+
+/** What a fitted part makes of the component it goes into: its heritage stays, or it becomes a period or modern replacement. */
+export type FittedHeritageChoice = "unchanged" | "period" | "modern";
+
+/**
+ * The default answer to "what does the fitted part make of the component?" (issue 14 item 7).
+ * A line naming a sub-part ("arc chute", its `need`) is fitted into the existing component, whose
+ * heritage stays. A line without one sources a whole component, and a whole component that comes
+ * from the wanted list is never the original fabric it replaces (common practice of heritage
+ * conservation: original fabric is the material that was there; a like-for-like salvage part is a
+ * period replacement). Lines that allow a modern equivalent default to a modern replacement;
+ * "original pattern only" and "period equivalent" lines to a period one. The person fitting it
+ * can still choose otherwise.
+ */
+export function defaultFittedHeritage(line: { need: string; heritageRule: HeritageRule }): FittedHeritageChoice {
+  requireOneOf<HeritageRule>("heritageRule", line.heritageRule, ["original_only", "period_ok", "modern_ok"]);
+  if (normaliseText(line.need)) return "unchanged";
+  return line.heritageRule === "modern_ok" ? "modern" : "period";
 }

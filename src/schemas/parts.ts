@@ -78,7 +78,8 @@ export const statusBody = z.discriminatedUnion("to", [
   z.object({ to: z.literal("lead_found"), version, note }),
   z.object({ to: z.literal("acquired"), version, note, acquisition: acquisitionBody.optional() }),
   z.object({ to: z.literal("received"), version, note }),
-  z.object({ to: z.literal("fitted"), version, note, heritageAfter: z.enum(FITTED_HERITAGE) }),
+  // Left out: the default for the line (defaultFittedHeritage: a whole component is a replacement).
+  z.object({ to: z.literal("fitted"), version, note, heritageAfter: z.enum(FITTED_HERITAGE).optional() }),
   z.object({
     to: z.literal("cancelled"),
     version,

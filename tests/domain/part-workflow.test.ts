@@ -1,5 +1,12 @@
 import { describe, expect, it } from "vitest";
-import { budgetByBoard, canMovePart, needKey, needMatchesLine, partTitle } from "../../src/domain/part-workflow";
+import {
+  budgetByBoard,
+  canMovePart,
+  defaultFittedHeritage,
+  needKey,
+  needMatchesLine,
+  partTitle,
+} from "../../src/domain/part-workflow";
 import type { PartSpec } from "../../src/domain/parts";
 import type { PartStatus } from "../../src/domain/vocab";
 
@@ -112,5 +119,23 @@ describe("partTitle", () => {
     [{ kind: "molded_case_breaker", frame: "50 A frame" } as PartSpec, null, "Molded-case breaker · 50 A frame"],
   ])("%j %j → %s", (spec, need, title) => {
     expect(partTitle(spec, need)).toBe(title);
+  });
+});
+
+describe("defaultFittedHeritage", () => {
+  // Source: common practice of heritage conservation — original fabric is the material that was there;
+  // a whole replacement component is period or modern, a sub-part fitted into it leaves it original.
+  it.each([
+    [{ need: "", heritageRule: "original_only" }, "period"],
+    [{ need: "", heritageRule: "period_ok" }, "period"],
+    [{ need: "", heritageRule: "modern_ok" }, "modern"],
+    [{ need: "  ", heritageRule: "modern_ok" }, "modern"],
+    [{ need: "arc chute", heritageRule: "modern_ok" }, "unchanged"],
+    [{ need: "Arc chute", heritageRule: "original_only" }, "unchanged"],
+  ] as const)("%o → %s", (line, expected) => {
+    expect(defaultFittedHeritage(line)).toBe(expected);
+  });
+  it("an unknown heritage rule is a RangeError", () => {
+    expect(() => defaultFittedHeritage({ need: "", heritageRule: "any" as never })).toThrow(RangeError);
   });
 });
