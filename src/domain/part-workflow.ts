@@ -159,3 +159,23 @@ export function defaultFittedHeritage(line: { need: string; heritageRule: Herita
   if (normaliseText(line.need)) return "unchanged";
   return line.heritageRule === "modern_ok" ? "modern" : "period";
 }
+
+/**
+ * A wanted-list line's short number, said on the phone or written on a parcel: "W-12" (issue 14 item 13;
+ * Tideline's own prefix, W for wanted). Numbers are per site, given by the database in order of creation.
+ */
+export function lineRef(number: number): string {
+  requireNumber("number", number);
+  if (!Number.isInteger(number) || number < 1)
+    throw new RangeError(`number must be a whole number from 1, got ${number}`);
+  return `W-${number}`;
+}
+
+/** The line number a person typed: "W-12", "w12", "W 12", "#12" or "12" → 12; anything else → null. */
+export function parseLineRef(typed: string): number | null {
+  if (typeof typed !== "string") throw new RangeError("typed must be a string");
+  const m = /^\s*(?:w\s*-?\s*|#\s*)?0*(\d{1,9})\s*$/i.exec(typed);
+  if (!m) return null;
+  const n = Number(m[1]);
+  return n >= 1 && n <= 2_147_483_647 ? n : null;
+}

@@ -3,6 +3,8 @@ import {
   budgetByBoard,
   canMovePart,
   defaultFittedHeritage,
+  lineRef,
+  parseLineRef,
   needKey,
   needMatchesLine,
   partTitle,
@@ -137,5 +139,36 @@ describe("defaultFittedHeritage", () => {
   });
   it("an unknown heritage rule is a RangeError", () => {
     expect(() => defaultFittedHeritage({ need: "", heritageRule: "any" as never })).toThrow(RangeError);
+  });
+});
+
+describe("lineRef and parseLineRef", () => {
+  // Tideline's own short numbers for wanted-list lines (W-12), per site.
+  it.each([
+    [1, "W-1"],
+    [12, "W-12"],
+    [1040, "W-1040"],
+  ])("%i → %s", (n, ref) => {
+    expect(lineRef(n)).toBe(ref);
+    expect(parseLineRef(ref)).toBe(n);
+  });
+  it.each([
+    ["w12", 12],
+    ["W 12", 12],
+    [" #12 ", 12],
+    ["12", 12],
+    ["W-012", 12],
+    ["W-", null],
+    ["W-0", null],
+    ["WX-12", null],
+    ["arc chute", null],
+    ["99999999999", null],
+  ])("typed %s → %s", (typed, n) => {
+    expect(parseLineRef(typed)).toBe(n);
+  });
+  it("a number that is not a whole number from 1 is a RangeError", () => {
+    expect(() => lineRef(0)).toThrow(RangeError);
+    expect(() => lineRef(1.5)).toThrow(RangeError);
+    expect(() => parseLineRef(undefined as unknown as string)).toThrow(RangeError);
   });
 });
