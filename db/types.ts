@@ -776,7 +776,22 @@ export interface RtsOverdueNoticesTable {
   createdAt: Timestamp;
 }
 
+/** One create's first result, answered again to every repeat of its Idempotency-Key (issue 16). */
+export interface IdempotencyKeysTable {
+  userId: string;
+  key: string;
+  method: string;
+  path: string;
+  fingerprint: string;
+  state: Generated<"running" | "done">;
+  responseStatus: number | null;
+  responseBody: ColumnType<unknown, string | null | undefined, string | null>;
+  createdAt: Timestamp;
+  completedAt: ColumnType<Date | null, Date | string | null | undefined, Date | string | null>;
+}
+
 export interface Database {
+  idempotencyKeys: IdempotencyKeysTable;
   defectReadings: DefectReadingsTable;
   users: UsersTable;
   sessions: SessionsTable;

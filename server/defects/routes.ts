@@ -17,6 +17,7 @@ import type { Db } from "../db";
 import type { MailDeps } from "../mail/mailer";
 import { notifyDefectAssigned, notifyAwaitingVerification } from "../notifications/service";
 import { limitExports } from "../export-stream";
+import { idempotent } from "../idempotency/middleware";
 import { requireSiteRole } from "../middleware/roles";
 import { streamCsv } from "./csv";
 import { listPage } from "./list-query";
@@ -123,7 +124,7 @@ export function defectRoutes(db: Db, mail?: MailDeps) {
     sendNotices(mail, ctx);
   });
 
-  r.post(base, raisers, async (req, res) => {
+  r.post(base, raisers, idempotent(db), async (req, res) => {
     const ctx = ctxOf(req, res);
     const row = await service.createDefect(db, ctx, createDefectBody.parse(req.body));
     res.status(201).json({ defect: toJson(row) });

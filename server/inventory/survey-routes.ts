@@ -12,6 +12,7 @@ import {
   siteParams,
 } from "../../src/schemas/inventory";
 import type { Db } from "../db";
+import { idempotent } from "../idempotency/middleware";
 import { requireSiteRole } from "../middleware/roles";
 import { actorOf } from "./common";
 import * as service from "./survey-service";
@@ -28,7 +29,7 @@ export function surveyRoutes(db: Db) {
     const { siteId, componentId } = componentParams.parse(req.params);
     res.json(await service.patchComponent(db, siteId, componentId, actorOf(res), patchComponentBody.parse(req.body)));
   });
-  r.post(`${C}/inspections`, fieldCrew, async (req, res) => {
+  r.post(`${C}/inspections`, fieldCrew, idempotent(db), async (req, res) => {
     const { siteId, componentId } = componentParams.parse(req.params);
     res
       .status(201)
@@ -36,7 +37,7 @@ export function surveyRoutes(db: Db) {
         await service.createInspection(db, siteId, componentId, actorOf(res), createInspectionBody.parse(req.body)),
       );
   });
-  r.post(`${C}/custody`, fieldCrew, async (req, res) => {
+  r.post(`${C}/custody`, fieldCrew, idempotent(db), async (req, res) => {
     const { siteId, componentId } = componentParams.parse(req.params);
     res
       .status(201)

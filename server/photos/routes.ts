@@ -14,6 +14,7 @@ import {
 import type { Role } from "../../src/domain/vocab";
 import type { Db } from "../db";
 import { AppError, forbidden, notFound } from "../errors";
+import { idempotent } from "../idempotency/middleware";
 import { requireSiteRole } from "../middleware/roles";
 import * as repo from "./repository";
 import * as service from "./service";
@@ -37,6 +38,7 @@ export function photoRoutes(db: Db, storage: PhotoStorage, jobs: Jobs) {
     "/sites/:siteId/photos",
     requireSiteRole(db, "curator", "photographer", "volunteer"),
     receiveFiles,
+    idempotent(db),
     async (req, res) => {
       const files = (req.files as Express.Multer.File[] | undefined) ?? [];
       try {

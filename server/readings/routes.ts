@@ -14,6 +14,7 @@ import {
   thermalScanBody,
 } from "../../src/schemas/readings";
 import type { Db } from "../db";
+import { idempotent } from "../idempotency/middleware";
 import { requireSiteRole } from "../middleware/roles";
 import * as repo from "./repository";
 import * as service from "./service";
@@ -30,6 +31,7 @@ export function readingRoutes(db: Db) {
   const read = requireSiteRole(db);
   const record = requireSiteRole(db, ...RECORDERS);
   const curate = requireSiteRole(db, "curator");
+  const once = idempotent(db); // the phone's offline queue repeats creates with an Idempotency-Key
   const user = (res: { locals: Record<string, any> }) => res.locals.user!.id as string;
   const S = "/sites/:siteId";
 
@@ -54,7 +56,7 @@ export function readingRoutes(db: Db) {
     const { siteId, boardId } = boardParams.parse(req.params);
     res.json({ readings: await service.listInsulation(db, siteId, { boardId, ...insulationQuery.parse(req.query) }) });
   });
-  r.post(`${S}/boards/:boardId/insulation-readings`, record, async (req, res) => {
+  r.post(`${S}/boards/:boardId/insulation-readings`, record, once, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);
     res.status(201).json({
       reading: await service.recordInsulation(db, siteId, boardId, user(res), insulationReadingBody.parse(req.body)),
@@ -76,7 +78,7 @@ export function readingRoutes(db: Db) {
     const { siteId, boardId } = boardParams.parse(req.params);
     res.json({ check: await service.latestGroundCheck(db, siteId, boardId) });
   });
-  r.post(`${S}/boards/:boardId/ground-checks`, record, async (req, res) => {
+  r.post(`${S}/boards/:boardId/ground-checks`, record, once, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);
     res.status(201).json({
       check: await service.recordGroundCheck(db, siteId, boardId, user(res), groundCheckBody.parse(req.body)),
@@ -87,7 +89,7 @@ export function readingRoutes(db: Db) {
     const { siteId, boardId } = boardParams.parse(req.params);
     res.json({ tests: await service.listStepTests(db, siteId, { boardId }) });
   });
-  r.post(`${S}/boards/:boardId/step-voltage-tests`, record, async (req, res) => {
+  r.post(`${S}/boards/:boardId/step-voltage-tests`, record, once, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);
     res
       .status(201)
@@ -97,7 +99,7 @@ export function readingRoutes(db: Db) {
     const { siteId, boardId } = boardParams.parse(req.params);
     res.json({ hunts: await service.listGroundHunts(db, siteId, boardId) });
   });
-  r.post(`${S}/boards/:boardId/ground-hunts`, record, async (req, res) => {
+  r.post(`${S}/boards/:boardId/ground-hunts`, record, once, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);
     res
       .status(201)
@@ -109,7 +111,7 @@ export function readingRoutes(db: Db) {
     const { siteId, componentId } = componentParams.parse(req.params);
     res.json({ tests: await service.listTripTests(db, siteId, { componentId }) });
   });
-  r.post(`${S}/components/:componentId/trip-tests`, record, async (req, res) => {
+  r.post(`${S}/components/:componentId/trip-tests`, record, once, async (req, res) => {
     const { siteId, componentId } = componentParams.parse(req.params);
     res
       .status(201)
@@ -127,7 +129,7 @@ export function readingRoutes(db: Db) {
     const { siteId, componentId } = componentParams.parse(req.params);
     res.json({ readings: await service.listContacts(db, siteId, { componentId }) });
   });
-  r.post(`${S}/components/:componentId/contact-readings`, record, async (req, res) => {
+  r.post(`${S}/components/:componentId/contact-readings`, record, once, async (req, res) => {
     const { siteId, componentId } = componentParams.parse(req.params);
     res.status(201).json({
       reading: await service.recordContact(db, siteId, componentId, user(res), contactReadingBody.parse(req.body)),
@@ -137,7 +139,7 @@ export function readingRoutes(db: Db) {
     const { siteId, componentId } = componentParams.parse(req.params);
     res.json({ scans: await service.listThermal(db, siteId, { componentId }) });
   });
-  r.post(`${S}/components/:componentId/thermal-scans`, record, async (req, res) => {
+  r.post(`${S}/components/:componentId/thermal-scans`, record, once, async (req, res) => {
     const { siteId, componentId } = componentParams.parse(req.params);
     res
       .status(201)

@@ -22,6 +22,7 @@ import {
 } from "../../src/schemas/return-to-service";
 import type { Db } from "../db";
 import { AppError } from "../errors";
+import { idempotent } from "../idempotency/middleware";
 import { requireSiteRole } from "../middleware/roles";
 import * as repo from "./repository";
 import * as service from "./service";
@@ -140,7 +141,7 @@ export function rtsRoutes(db: Db) {
     await service.addStep(db, ctxOf(req, res), stageP.parse(req.params).stageId, stepBody.parse(req.body));
     await stageAnswer(req, res, 201);
   });
-  r.post(`${stage}/watch-checks`, may("record_watch"), async (req, res) => {
+  r.post(`${stage}/watch-checks`, may("record_watch"), idempotent(db), async (req, res) => {
     res
       .status(201)
       .json(
@@ -152,7 +153,7 @@ export function rtsRoutes(db: Db) {
         ),
       );
   });
-  r.post(`${stage}/incidents`, may("record_incident"), async (req, res) => {
+  r.post(`${stage}/incidents`, may("record_incident"), idempotent(db), async (req, res) => {
     res.status(201).json({
       incident: await service.recordIncident(
         db,
@@ -223,18 +224,23 @@ export function rtsRoutes(db: Db) {
   });
 
   // Breaker operations and budgets.
-  r.post("/sites/:siteId/components/:componentId/breaker-operations", may("record_operation"), async (req, res) => {
-    res
-      .status(201)
-      .json(
-        await service.recordOperation(
-          db,
-          ctxOf(req, res),
-          componentP.parse(req.params).componentId,
-          operationBody.parse(req.body),
-        ),
-      );
-  });
+  r.post(
+    "/sites/:siteId/components/:componentId/breaker-operations",
+    may("record_operation"),
+    idempotent(db),
+    async (req, res) => {
+      res
+        .status(201)
+        .json(
+          await service.recordOperation(
+            db,
+            ctxOf(req, res),
+            componentP.parse(req.params).componentId,
+            operationBody.parse(req.body),
+          ),
+        );
+    },
+  );
   r.put("/sites/:siteId/components/:componentId/operations-budget", may("set_budget"), async (req, res) => {
     res.json({
       budget: await service.setBudget(
