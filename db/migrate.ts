@@ -31,3 +31,9 @@ export async function migrateToLatest(db: Kysely<any>): Promise<string[]> {
   }
   return (results ?? []).map((r) => r.migrationName);
 }
+
+/** Migrations in db/migrations that this database has not run (the readiness check: a new build before its migration). */
+export async function pendingMigrations(db: Kysely<any>): Promise<string[]> {
+  const all = await new Migrator({ db, provider, allowUnorderedMigrations: true }).getMigrations();
+  return all.filter((m) => !m.executedAt).map((m) => m.name);
+}

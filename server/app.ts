@@ -8,7 +8,10 @@ import { authRoutes } from "./auth/routes";
 import { createLimiters } from "./auth/throttle";
 import type { Db } from "./db";
 import { AppError } from "./errors";
-import { databaseState } from "./health";
+import { databaseState, readinessCheck } from "./health";
+import { log as rootLog, type Logger } from "./log";
+import { requestLogging } from "./observability/http";
+import { createMetrics, hasMetricsToken, type Metrics } from "./observability/metrics";
 import { errorHandler } from "./middleware/error-handler";
 import {
   allowedHostsFrom,
@@ -18,6 +21,7 @@ import {
   securityHeaders,
 } from "./middleware/hardening";
 import { originCheck } from "./middleware/origin";
+import { requireAdmin } from "./middleware/roles";
 import { sessionMiddleware } from "./middleware/session";
 import { readingRoutes } from "./readings/routes";
 import { siteRoutes } from "./sites/routes";
@@ -54,6 +58,12 @@ export interface AppDeps {
   jobs?: Jobs;
   /** Host names served besides loopback and PUBLIC_URL's host (default: ALLOWED_HOSTS). */
   allowedHosts?: string[];
+  /** Where request logs go (default: the process's JSON logger on stdout). */
+  logger?: Logger;
+  /** The process's metrics (serve() shares them with the job queue and METRICS_PORT); default: the app's own. */
+  metrics?: Metrics;
+  /** Bearer token that may read /api/metrics without an admin session (default: METRICS_TOKEN). */
+  metricsToken?: string;
 }
 
 /** The app without a job queue cannot make photo renditions; say so instead of failing obscurely. */
@@ -77,6 +87,37 @@ export function createApp(deps: AppDeps) {
     publicUrl: (deps.publicUrl ?? "http://127.0.0.1:3000").replace(/\/+$/, ""),
     jobs: deps.jobs,
   };
+  // First: every request gets its id (X-Request-Id), its log lines and its timing, refusals included.
+  app.use(requestLogging({ logger: deps.logger ?? rootLog, trustProxy: !!deps.trustProxy }));
+  const metrics = deps.metrics ?? createMetrics({ db, jobs: deps.jobs });
+  if (deps.jobs && !deps.jobs.onJobEnd) deps.jobs.onJobEnd = metrics.jobEnded;
+  app.use(metrics.http);
+
+  app.use(securityHeaders({ https: mail.publicUrl.startsWith("https:") }));
+
+  // Probes come from load balancers that address the instance by its own IP, so they are
+  // answered before the host allow-list. They say nothing a caller could use.
+  const ready = readinessCheck({
+    db,
+    storage: photoStorage,
+    jobs: deps.jobs,
+    draining: () => app.locals.draining === true,
+  });
+  app.get("/api/health", async (_req, res) => {
+    const { db: state } = await databaseState(db);
+    res.status(state === "up" ? 200 : 503).json({ ok: state === "up", db: state });
+  });
+  app.get("/api/health/live", (_req, res) => {
+    res.set("Cache-Control", "no-store").json({ ok: true });
+  });
+  app.get("/api/health/ready", async (_req, res) => {
+    const r = await ready();
+    res
+      .status(r.ok ? 200 : 503)
+      .set("Cache-Control", "no-store")
+      .json(r);
+  });
+
   app.use(
     hostAllowlist(
       allowedHostsFrom({
@@ -85,7 +126,6 @@ export function createApp(deps: AppDeps) {
       }),
     ),
   );
-  app.use(securityHeaders({ https: mail.publicUrl.startsWith("https:") }));
 
   // gzip for JSON, HTML, JS and CSS (issue 15: a 345 KiB entry and MBs of JSON went raw). Downloads
   // (Content-Disposition: attachment) stream uncompressed with their own back-pressure; images are
@@ -97,14 +137,20 @@ export function createApp(deps: AppDeps) {
   );
 
   const api = Router();
-  api.get("/health", async (_req, res) => {
-    const { db: state } = await databaseState(db);
-    res.status(state === "up" ? 200 : 503).json({ ok: state === "up", db: state });
-  });
   api.use("/sites/:siteId/inventory/import", express.json({ limit: "2mb" })); // a CSV file sent as JSON {csv}
   api.use(express.json({ limit: "1mb" }));
   api.use(originCheck());
   api.use(sessionMiddleware(lucia));
+  const metricsToken = deps.metricsToken ?? process.env.METRICS_TOKEN;
+  // For an instance admin, or a scraper with the bearer METRICS_TOKEN (or METRICS_PORT, server/index.ts).
+  api.get(
+    "/metrics",
+    (req, res, next) =>
+      hasMetricsToken(req.get("authorization"), metricsToken) ? next() : requireAdmin(req, res, next),
+    async (_req, res) => {
+      res.set("Content-Type", metrics.contentType).send(await metrics.text());
+    },
+  );
   const limiters = createLimiters(db);
   api.use(authRoutes(db, lucia, { mail, limiters }));
   api.use(siteRoutes(db));

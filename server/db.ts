@@ -1,6 +1,7 @@
 import { CamelCasePlugin, Kysely, PostgresDialect } from "kysely";
 import pg from "pg";
 import type { Database } from "../db/types";
+import { log } from "./log";
 
 // numeric and bigint come back as strings by default; counts and money fit in a JS number.
 pg.types.setTypeParser(pg.types.builtins.INT8, (v) => Number(v));
@@ -88,5 +89,5 @@ function logConnectionLoss(err: Error & { code?: string }) {
   lastLog = now;
   const more = suppressed ? ` (and ${suppressed} more)` : "";
   suppressed = 0;
-  console.error(`[db] a database connection was lost: ${err.code ? `${err.code} ` : ""}${err.message}${more}`);
+  log.error({ code: err.code, reason: err.message }, `a database connection was lost${more}`);
 }

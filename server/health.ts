@@ -1,5 +1,6 @@
 import { sql } from "kysely";
 import type { Db } from "./db";
+import { pendingMigrations } from "../db/migrate";
 import { dbFailureOf } from "./db-errors";
 
 export type DbState = "up" | "down";
@@ -28,4 +29,66 @@ export async function databaseState(db: Db, timeoutMs = 3000): Promise<{ db: DbS
   } finally {
     clearTimeout(timer);
   }
+}
+
+export interface Readiness {
+  ok: boolean;
+  db: DbState;
+  /** "current", or the names of migrations this database has not run. */
+  migrations: "current" | "unknown" | string[];
+  storage: "up" | "down";
+  queue: "running" | "stopped" | "none";
+  /** Shutting down: finishing in-flight work, taking no new requests. */
+  draining?: true;
+}
+
+/** Resolves with `probe`'s value, or rejects after `ms`. */
+async function within<T>(probe: Promise<T>, ms: number): Promise<T> {
+  let timer: NodeJS.Timeout | undefined;
+  probe.catch(() => {});
+  try {
+    return await Promise.race([
+      probe,
+      new Promise<never>((_, reject) => (timer = setTimeout(() => reject(new Error("no answer in time")), ms))),
+    ]);
+  } finally {
+    clearTimeout(timer);
+  }
+}
+
+/**
+ * The readiness check a load balancer asks before sending this instance traffic: the database
+ * answers, every migration of this build has run on it, the photo store answers, the job
+ * queue runs, and the instance is not shutting down. Each probe is bounded by `timeoutMs`.
+ */
+export function readinessCheck(deps: {
+  db: Db;
+  storage: { check(): Promise<void> };
+  jobs?: { running: boolean };
+  draining: () => boolean;
+  timeoutMs?: number;
+}): () => Promise<Readiness> {
+  const ms = deps.timeoutMs ?? 3000;
+  // A migration once seen applied stays applied; after that the check costs nothing.
+  let migrationsCurrent = false;
+  return async () => {
+    const [db, storage] = await Promise.all([
+      databaseState(deps.db, ms),
+      within(deps.storage.check(), ms).then(
+        () => "up" as const,
+        () => "down" as const,
+      ),
+    ]);
+    let migrations: Readiness["migrations"] = "unknown";
+    if (migrationsCurrent) migrations = "current";
+    else if (db.db === "up") {
+      const pending = await within(pendingMigrations(deps.db), ms).catch(() => null);
+      if (pending && !pending.length) migrationsCurrent = true;
+      migrations = pending === null ? "unknown" : pending.length ? pending : "current";
+    }
+    const queue = !deps.jobs ? "none" : deps.jobs.running ? "running" : "stopped";
+    const draining = deps.draining();
+    const ok = db.db === "up" && migrations === "current" && storage === "up" && queue !== "stopped" && !draining;
+    return { ok, db: db.db, migrations, storage, queue, ...(draining ? { draining: true as const } : {}) };
+  };
 }

@@ -11,6 +11,7 @@ import { createDb, type Db } from "./db";
 import { workerEnabled, type Jobs } from "./jobs";
 import { startJobs } from "./jobs/registry";
 import { log } from "./log";
+import { createMetrics, serveMetrics } from "./observability/metrics";
 import { mailFromEnv } from "./mail/setup";
 import { storageFromEnv } from "./photos/storage";
 import { shutdownHttp } from "./shutdown";
@@ -36,13 +37,17 @@ export async function serve(opts: {
   if (photoStorage instanceof LocalDiskStorage) {
     const removed = await photoStorage.removeLeftovers();
     if (removed.length)
-      console.log(`[tideline] removed ${removed.length} partial photo file(s) left by an interrupted upload`);
+      log.info({ files: removed.length }, "removed partial photo files left by an interrupted upload");
   }
   const jobs = await startJobs(
     { db: opts.db, mailer: mail.mailer, publicUrl: mail.publicUrl, photoStorage },
     { work: opts.work ?? workerEnabled() },
   );
+  const metrics = createMetrics({ db: opts.db, jobs });
+  jobs.onJobEnd = metrics.jobEnded;
+  const metricsServer = await startMetricsListener(metrics);
   const app = createApp({
+    metrics,
     photoStorage,
     db: opts.db,
     clientDir: opts.clientDir,
@@ -57,6 +62,7 @@ export async function serve(opts: {
       err ? reject(err) : resolve(s),
     );
   }).catch(async (e) => {
+    metricsServer?.close();
     await jobs.stop(1000);
     await mail.stop();
     throw e;
@@ -68,11 +74,25 @@ export async function serve(opts: {
     stop: () =>
       (stopping ??= (async () => {
         app.locals.draining = true; // /api/health/ready answers 503 from now on
+        // Behind a load balancer: keep serving while it notices the failed readiness check.
+        const delay = Number(process.env.SHUTDOWN_DRAIN_DELAY_MS ?? 0);
+        if (delay > 0) await new Promise((r) => setTimeout(r, delay));
         const limit = Number(process.env.SHUTDOWN_TIMEOUT_MS ?? 25_000);
         await Promise.all([shutdownHttp(server, limit), jobs.stop(limit)]);
+        metricsServer?.close();
         await mail.stop();
       })()),
   };
+}
+
+/** With METRICS_PORT: the Prometheus text on http://METRICS_HOST:METRICS_PORT/metrics, no sign-in (keep it off the public network). */
+export async function startMetricsListener(metrics: ReturnType<typeof createMetrics>) {
+  const port = Number(process.env.METRICS_PORT ?? 0);
+  if (!port) return undefined;
+  const host = process.env.METRICS_HOST ?? "127.0.0.1";
+  const server = await serveMetrics(metrics, port, host);
+  log.info({ port, host }, "metrics listening on their own port");
+  return server;
 }
 
 /** SIGTERM / SIGINT: graceful stop, then `after` (close the pool, stop an embedded cluster), then exit. */

@@ -4,7 +4,8 @@
 // Without SMTP_URL it hands e-mail to the local fake mail server of a running `npm start`
 // (127.0.0.1:SMTP_PORT), or starts its own when none answers.
 import { connect } from "node:net";
-import { stopOnSignals } from "../index";
+import { startMetricsListener, stopOnSignals } from "../index";
+import { createMetrics } from "../observability/metrics";
 import { startJobs } from "../jobs/registry";
 import { log as logger } from "../log";
 import { smtpMailer } from "../mail/mailer";
@@ -32,12 +33,19 @@ const jobs = await startJobs(
   { db, mailer: mail.mailer, publicUrl: mail.publicUrl, photoStorage: storageFromEnv() },
   { work: true },
 );
+const metrics = createMetrics({ db, jobs });
+jobs.onJobEnd = metrics.jobEnded;
+const metricsServer = await startMetricsListener(metrics);
 logger.info("worker running: background jobs and schedules, no web server (Ctrl-C stops it)");
 stopOnSignals(
   {
     server: undefined as never,
     jobs,
-    stop: () => jobs.stop(Number(process.env.SHUTDOWN_TIMEOUT_MS ?? 25_000)).then(() => mail.stop()),
+    stop: () =>
+      jobs
+        .stop(Number(process.env.SHUTDOWN_TIMEOUT_MS ?? 25_000))
+        .then(() => metricsServer?.close())
+        .then(() => mail.stop()),
   },
   async () => {
     await db.destroy();

@@ -27,6 +27,7 @@ import { defectsOfBoardReadings, evidenceOf } from "./evidence";
 import * as repo from "./repository";
 import * as service from "./service";
 import * as views from "./views";
+import { log } from "../log";
 
 const site = z.object({ siteId: z.uuid() });
 const one = site.extend({ defectId: z.uuid({ message: "defectId must be a UUID" }) });
@@ -53,7 +54,7 @@ function sendNotices(mail: MailDeps | undefined, ctx: service.Ctx) {
       const p = { defectId: n.defectId, actorId: ctx.actor.id };
       await (n.kind === "assigned" ? notifyDefectAssigned(mail, p) : notifyAwaitingVerification(mail, p));
     }
-  })().catch((e) => console.error("[defects] notification failed:", e));
+  })().catch((e) => log.error({ err: e }, "defect notification failed"));
 }
 
 export function defectRoutes(db: Db, mail?: MailDeps) {

@@ -3,12 +3,13 @@
  * address exists or not, keeps the timing the same). Failures are logged, never lost
  * silently; tests await backgroundIdle() before reading the mailbox.
  */
+import { log } from "../log";
 const pending = new Set<Promise<void>>();
 
 export function inBackground(what: string, task: () => Promise<unknown>) {
   const p: Promise<void> = task()
     .then(() => undefined)
-    .catch((e) => console.error(`[mail] ${what} failed: ${e instanceof Error ? e.message : String(e)}`))
+    .catch((e) => log.error({ err: e }, `${what} failed`))
     .finally(() => pending.delete(p));
   pending.add(p);
 }

@@ -7,6 +7,7 @@ import { randomUUID } from "node:crypto";
 import { EventEmitter } from "node:events";
 import { simpleParser, type AddressObject } from "mailparser";
 import { SMTPServer } from "smtp-server";
+import { log } from "../log";
 
 export interface StoredMessage {
   id: string;
@@ -100,7 +101,7 @@ function listen(server: SMTPServer, port: number, host: string): Promise<number>
     server.once("error", onError);
     server.listen(port, host, () => {
       server.off("error", onError);
-      server.on("error", (e: Error) => console.error(`[mail] fake server: ${e.message}`));
+      server.on("error", (e: Error) => log.error({ err: e }, "fake mail server error"));
       const addr = server.server.address();
       resolve(typeof addr === "object" && addr ? addr.port : port);
     });
@@ -119,7 +120,7 @@ export async function startFakeSmtp(
     port = await listen(server, opts.port ?? 0, host);
   } catch (e) {
     if ((e as NodeJS.ErrnoException).code !== "EADDRINUSE") throw e;
-    console.log(`[mail] port ${opts.port} is taken; the fake mail server uses a free port instead`);
+    log.info(`port ${opts.port} is taken; the fake mail server uses a free port instead`);
     server = createServer(mailbox);
     port = await listen(server, 0, host);
   }

@@ -8,6 +8,7 @@ import nodemailer from "nodemailer";
 import addressparser from "nodemailer/lib/addressparser";
 import type { Db } from "../db";
 import type { Jobs } from "../jobs";
+import { log } from "../log";
 
 export interface MailMessage {
   to: string;
@@ -84,6 +85,6 @@ export const unconfiguredMailer = (): Mailer => ({
 
 function fail(msg: MailMessage, error: string): SendResult {
   // The reason is logged for the operator; the recipient's address identifies the message.
-  console.error(`[mail] could not send "${msg.subject}" to ${msg.to}: ${error}`);
+  log.error({ to: msg.to, subject: msg.subject, reason: error }, "e-mail could not be sent");
   return { ok: false, error };
 }

@@ -6,6 +6,7 @@
  */
 import type { ErrorRequestHandler, RequestHandler } from "express";
 import helmet from "helmet";
+import { log } from "../log";
 
 const LOOPBACK = ["localhost", "127.0.0.1", "[::1]", "::1"];
 
@@ -94,14 +95,14 @@ const page = (status: number, title: string) =>
   `<p>Tideline could not serve that address (${status}). <a href="/" style="color:#e5b24f">Go to the start page</a>.</p></body></html>`;
 
 /** Errors outside /api (a malformed path such as /%E0%A4%A, a failed file read): a plain page, never a stack. */
-export const plainErrorPage: ErrorRequestHandler = (err, _req, res, _next) => {
+export const plainErrorPage: ErrorRequestHandler = (err, req, res, _next) => {
   const status =
     typeof err?.status === "number" && err.status >= 400 && err.status < 600
       ? err.status
       : typeof err?.statusCode === "number"
         ? err.statusCode
         : 500;
-  if (status >= 500) console.error("[web] error serving a page:", err);
+  if (status >= 500) (req.log ?? log).error({ err }, "error serving a page");
   if (res.headersSent) return void res.end();
   const title = status === 404 ? "Not found" : status < 500 ? "Bad request" : "Server error";
   res.status(status).type("html").send(page(status, title));

@@ -8,6 +8,7 @@ import type { MailDeps } from "../mail/mailer";
 import { queueMail } from "../mail/outbox";
 import { hashToken, newToken } from "../one-time-token";
 import * as repo from "./repository";
+import { log } from "../log";
 
 export const RESET_MINUTES = 60;
 /** More than this many links in an hour for one account are not sent (a mail-bombing guard). */
@@ -24,7 +25,7 @@ export async function sendResetLink(deps: MailDeps, email: string) {
   if (!user) return { sent: false as const, reason: "unknown_address" };
   const hourAgo = new Date(Date.now() - 3600_000);
   if ((await repo.countRecent(deps.db, user.id, hourAgo)) >= MAX_PER_HOUR) {
-    console.log(`[mail] reset for user ${user.id} not sent: ${MAX_PER_HOUR} links already in the last hour`);
+    log.info({ userId: user.id }, `password reset not sent: ${MAX_PER_HOUR} links already in the last hour`);
     return { sent: false as const, reason: "too_many" };
   }
   const { token, hash } = newToken();

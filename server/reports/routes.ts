@@ -16,6 +16,7 @@ import { requireSiteRole, requireUser } from "../middleware/roles";
 import type { PhotoStorage } from "../photos/storage";
 import { labelItems, renderLabels } from "./labels";
 import { prepareSurveyReport, writeSurveyReport } from "./service";
+import { log } from "../log";
 
 const tagParams = z.object({
   tag: z.string().trim().min(1).max(40, { message: "A tag number has at most 40 characters" }),
@@ -45,7 +46,7 @@ export function reportRoutes(db: Db, storage: PhotoStorage, publicUrl: string) {
         await writeSurveyReport(prepared, storage, res);
       } catch (e) {
         // Headers are gone: the only honest signal left is a cut-off response.
-        if ((e as Error).message !== "report_aborted") console.error("survey report failed mid-stream", e);
+        if ((e as Error).message !== "report_aborted") log.error({ err: e }, "survey report failed mid-stream");
         res.destroy();
       }
     },

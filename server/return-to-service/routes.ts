@@ -78,6 +78,12 @@ export function rtsRoutes(db: Db) {
           blockers: current.gate.blockers.length,
         },
         overdue: v.stages.some((s) => !!s.watch?.overdueSince),
+        sequence: v.stages.map((s) => ({
+          id: s.id,
+          name: s.name,
+          state: s.gate.state,
+          blockers: s.gate.blockers.length,
+        })),
       });
     }
     res.json({ boards });

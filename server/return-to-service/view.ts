@@ -450,6 +450,7 @@ export async function boardView(db: Db, siteId: string, boardId: string, now: Da
       by: o.byName,
       title: `${o.operation === "close" ? "Closed" : "Opened"} ${o.designation}`,
       detail: o.why,
+      componentId: o.componentId,
     })),
   ].sort((a, b) => a.at.localeCompare(b.at));
 

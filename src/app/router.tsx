@@ -101,6 +101,7 @@ export const router = createBrowserRouter([
           { path: "readings/boards/:boardId", ...page(() => import("./routes/readings/board-readings")) },
           { path: "readings/components/:componentId", ...page(() => import("./routes/readings/component-readings")) },
           { path: "return-to-service", ...page(() => import("./routes/return-to-service/overview")) },
+          { path: "return-to-service/settings", ...page(() => import("./routes/return-to-service/settings")) },
           { path: "boards/:boardId/return-to-service", ...page(() => import("./routes/return-to-service/board-rts")) },
           { path: "boards/:boardId/watch", ...page(() => import("./routes/return-to-service/watch")) },
           {

@@ -14,6 +14,11 @@ export function ErrorPanel({ error, children }: { error: unknown; children?: Rea
   return (
     <div role="alert" className="rounded-md border border-flare-400 bg-flare-700/30 p-4 text-chalk">
       <p className="font-semibold">{message}</p>
+      {error instanceof ApiError && error.requestId && !message.includes(error.requestId) && (
+        <p className="mt-1 text-sm text-mist">
+          Reference <span className="font-mono">{error.requestId}</span>
+        </p>
+      )}
       {children}
     </div>
   );

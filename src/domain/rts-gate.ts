@@ -165,6 +165,8 @@ const ms = (iso: string) => {
   return t;
 };
 const fmt = (n: number) => (n >= 100 ? String(Math.round(n)) : String(Number(n.toPrecision(2))));
+/** A moment as people read it on the board, in UTC (the server does not know the crew's zone). */
+const utc = (iso: string) => `${new Date(ms(iso)).toISOString().slice(0, 16).replace("T", " ")} UTC`;
 const daysOld = (fromMs: number, toMs: number) => Math.floor((toMs - fromMs) / DAY_MS);
 const label = (c: GateCircuit) => (c.circuit ? `${c.designation} (${c.circuit})` : c.designation);
 
@@ -356,16 +358,17 @@ function afterEnergiseBlockers(kind: StepKind, input: GateInput, nowMs: number):
     for (const g of w.gaps)
       out.push({
         code: "watch_gap",
-        message: `No check between ${g.from} and ${g.to} (every ${fmt(s.checkEveryHours)} h asked).`,
+        message: `No check between ${utc(g.from)} and ${utc(g.to)} (every ${fmt(s.checkEveryHours)} h asked).`,
         href,
       });
     if (w.overdueSince)
       out.push({
         code: "watch_overdue",
-        message: `A watch check was due at ${w.overdueSince} and has not been recorded.`,
+        message: `A watch check was due at ${utc(w.overdueSince)} and has not been recorded.`,
         href,
       });
-    if (!w.complete) out.push({ code: "watch_running", message: `The watch period runs until ${w.endsAt}.`, href });
+    if (!w.complete)
+      out.push({ code: "watch_running", message: `The watch period runs until ${utc(w.endsAt)}.`, href });
     return out;
   }
   return [];

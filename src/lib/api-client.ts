@@ -9,6 +9,8 @@ export class ApiError extends Error {
     public fields: Record<string, string> = {},
     /** On 409, the record as it is now on the server. */
     public current?: unknown,
+    /** The server's id for this request (X-Request-Id), for a person to quote when reporting a fault. */
+    public requestId?: string,
   ) {
     super(message);
   }
@@ -34,15 +36,21 @@ async function request(method: Method, url: string, body?: unknown, signal?: Abo
   const data = text ? safeJson(text) : null;
   if (!res.ok) {
     const err = (
-      data as { error?: { code?: string; message?: string; fields?: Record<string, string>; current?: unknown } } | null
+      data as {
+        error?: {
+          code?: string;
+          message?: string;
+          fields?: Record<string, string>;
+          current?: unknown;
+          requestId?: string;
+        };
+      } | null
     )?.error;
-    throw new ApiError(
-      res.status,
-      err?.code ?? "http_" + res.status,
-      err?.message ?? `The server answered ${res.status}.`,
-      err?.fields,
-      err?.current,
-    );
+    const requestId = err?.requestId ?? res.headers.get("X-Request-Id") ?? undefined;
+    let message = err?.message ?? `The server answered ${res.status}.`;
+    // A fault of the server's is worth reporting: give the person the reference to quote.
+    if (res.status >= 500 && requestId && !message.includes(requestId)) message += ` (Reference ${requestId}.)`;
+    throw new ApiError(res.status, err?.code ?? "http_" + res.status, message, err?.fields, err?.current, requestId);
   }
   return data;
 }

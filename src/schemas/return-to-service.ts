@@ -260,6 +260,8 @@ export interface RtsEvent {
   /** incidents: the defect it opened; signoffs: released-with-reason shows red. */
   defectId?: string | null;
   alert?: boolean;
+  /** operations: the breaker operated. */
+  componentId?: string;
 }
 export interface RtsBreaker {
   componentId: string;
@@ -296,6 +298,8 @@ export interface RtsOverviewBoard {
   released: number;
   current: { id: string; name: string; state: GateResult["state"]; blockers: number } | null;
   overdue: boolean;
+  /** Every stage in plan order with its state. */
+  sequence: Array<{ id: string; name: string; state: GateResult["state"]; blockers: number }>;
 }
 export interface QualifiedPerson {
   userId: string;

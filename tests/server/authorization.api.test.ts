@@ -36,6 +36,9 @@ const rts = (action: RtsAction) => rolesFor(action).filter((r) => r !== "admin")
 /** Who may call each route (an instance admin counts as every role on every site). */
 export const ACCESS: Record<string, Access> = {
   "GET /api/health": "public",
+  "GET /api/health/live": "public",
+  "GET /api/health/ready": "public",
+  "GET /api/metrics": "admin",
   "POST /api/auth/sign-in": "public",
   "POST /api/auth/sign-out": "public",
   "GET /api/session": "user",

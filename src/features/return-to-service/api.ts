@@ -1,6 +1,6 @@
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { api } from "../../lib/api-client";
-import type { QualifiedPerson, RtsBoardView, RtsOverviewBoard } from "../../schemas/return-to-service";
+import type { QualifiedPerson, RtsBoardView, RtsOverviewBoard, RtsSettings } from "../../schemas/return-to-service";
 
 const site = (siteId: string) => `/api/sites/${siteId}`;
 export const rtsKeys = {
@@ -47,3 +47,14 @@ export function useRtsAction(siteId: string) {
     onSettled: () => qc.invalidateQueries({ queryKey: rtsKeys.all(siteId) }),
   });
 }
+
+export const useRtsSettings = (siteId: string) =>
+  useQuery({
+    queryKey: [...rtsKeys.all(siteId), "settings"] as const,
+    queryFn: ({ signal }) =>
+      (
+        api.raw("GET", `${site(siteId)}/return-to-service/settings`, undefined, signal) as Promise<{
+          settings: RtsSettings;
+        }>
+      ).then((d) => d.settings),
+  });

@@ -15,6 +15,7 @@ import { PositionPanel } from "../../../features/inventory/components/position-p
 import { TileLegend } from "../../../features/inventory/components/tile-legend";
 import { defectHref } from "../../../features/inventory/defect-link";
 import { canCurate, canLog } from "../../../features/inventory/roles";
+import { PanelOperations } from "../../../features/return-to-service/components/breaker-operations";
 import { PositionPhotos } from "../../../features/photos/components/position-photos";
 import { LatestGroundCheck } from "../../../features/readings/components/latest-ground-check";
 import { useSiteContext } from "../sites/site-layout";
@@ -132,6 +133,7 @@ export default function BoardElevationPage() {
           canDecide={canCurate(role)}
           onClose={close}
           photos={<PositionPhotos siteId={site.id} positionId={selected} />}
+          extra={<PanelOperations siteId={site.id} boardId={board.id} positionId={selected} role={role} />}
           links={{
             readings: (componentId) => paths.readingsComponent.href(site.id, componentId),
             quickLog: canLog(role) ? paths.quickLog.href(site.id, selected) : undefined,

@@ -1,13 +1,14 @@
 import { Link, useParams } from "react-router";
-import { SafetyNotice } from "../../../components/safety-notice";
 import { ErrorPanel, Loading } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { canRts } from "../../../domain/return-to-service";
 import { useSession } from "../../../features/auth/api";
 import { useRtsBoard } from "../../../features/return-to-service/api";
-import { NewStageForm } from "../../../features/return-to-service/components/new-stage-form";
+import { NewStageForm } from "../../../features/return-to-service/components/stage-form";
 import { RtsTimeline } from "../../../features/return-to-service/components/rts-timeline";
 import { StageCard } from "../../../features/return-to-service/components/stage-card";
+import { BreakerOperations } from "../../../features/return-to-service/components/breaker-operations";
+import { RtsCaution } from "../../../features/return-to-service/components/rts-caution";
 import { useSiteContext } from "../sites/site-layout";
 
 const when = (iso: string) => new Date(iso).toLocaleString(undefined, { dateStyle: "medium", timeStyle: "short" });
@@ -31,11 +32,7 @@ export default function BoardReturnToServicePage() {
         </Link>
       </p>
       <h1 className="text-2xl font-bold">Return to service · {v.board.name}</h1>
-      <SafetyNotice />
-      <p className="rounded-md bg-hull-800 p-3 text-sm">
-        Tideline records the plan, the evidence and who signed what, and shows which recorded hold points are met. It
-        never authorises energisation: NFPA 70E, local codes and the qualified person decide every step.
-      </p>
+      <RtsCaution />
       {overdue.map((s) => (
         <p key={s.id} role="alert" className="rounded-md bg-rust-700 p-3 font-semibold">
           ⚠ Watch check overdue on “{s.name}” since {when(s.watch!.overdueSince!)}.{" "}
@@ -51,6 +48,11 @@ export default function BoardReturnToServicePage() {
         <Link className="inline-flex min-h-11 items-center underline" to={paths.readingsBoard.href(site.id, boardId)}>
           The board's readings
         </Link>
+        {canRts(role, "plan") && (
+          <Link className="inline-flex min-h-11 items-center underline" to={paths.rtsSettings.href(site.id)}>
+            The site's hold-point template
+          </Link>
+        )}
       </p>
       <section aria-labelledby="plan-title" className="space-y-4">
         <h2 id="plan-title" className="text-xl font-bold">
@@ -66,6 +68,7 @@ export default function BoardReturnToServicePage() {
             role={role}
             isQualified={isQualified}
             index={i}
+            view={v}
           />
         ))}
         {canRts(role, "plan") && <NewStageForm siteId={site.id} view={v} />}
@@ -98,35 +101,7 @@ export default function BoardReturnToServicePage() {
         <h2 id="ops-title" className="text-xl font-bold">
           Breaker operations
         </h2>
-        <p className="text-sm text-mist">
-          Every open and close counted against the breaker's budget. The budget warns; it never blocks.
-        </p>
-        <div className="overflow-x-auto">
-          <table className="w-full text-sm">
-            <thead>
-              <tr className="text-left">
-                <th className="p-1">Position</th>
-                <th className="p-1">Used</th>
-                <th className="p-1">Budget</th>
-                <th className="p-1">Left</th>
-                <th className="p-1">Basis</th>
-              </tr>
-            </thead>
-            <tbody>
-              {v.breakers
-                .filter((b) => b.status.used > 0)
-                .map((b) => (
-                  <tr key={b.componentId} className={b.status.overBudget ? "text-rust-300" : ""}>
-                    <td className="p-1 font-mono">{b.designation}</td>
-                    <td className="p-1">{b.status.used}</td>
-                    <td className="p-1">{b.budget}</td>
-                    <td className="p-1">{b.status.remaining}</td>
-                    <td className="p-1">{b.budgetBasis}</td>
-                  </tr>
-                ))}
-            </tbody>
-          </table>
-        </div>
+        <BreakerOperations siteId={site.id} view={v} role={role} />
       </section>
     </div>
   );

@@ -1,13 +1,13 @@
 import { useState } from "react";
 import { Link, useParams, useSearchParams } from "react-router";
 import { Button } from "../../../components/button";
-import { SafetyNotice } from "../../../components/safety-notice";
 import { ErrorPanel, Loading } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { canRts } from "../../../domain/return-to-service";
 import { LAMP_LOOKS, LAMP_LOOK_LABELS } from "../../../schemas/return-to-service";
 import { useRtsAction, useRtsBoard } from "../../../features/return-to-service/api";
 import { ApiError } from "../../../lib/api-client";
+import { RtsCaution } from "../../../features/return-to-service/components/rts-caution";
 import { useSiteContext } from "../sites/site-layout";
 
 const big = "min-h-14 flex-1 rounded-md px-3 text-lg font-semibold ring-1";
@@ -64,7 +64,7 @@ export default function WatchPage() {
         </Link>
       </p>
       <h1 className="text-2xl font-bold">Watch check</h1>
-      <SafetyNotice compact />
+      <RtsCaution compact />
       {!stage ? (
         <p>No stage of {q.data.board.name} is live under watch.</p>
       ) : (

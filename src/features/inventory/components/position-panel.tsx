@@ -53,6 +53,7 @@ export function PositionPanel({
   links,
   onClose,
   photos,
+  extra,
 }: {
   siteId: string;
   positionId: string;
@@ -61,6 +62,8 @@ export function PositionPanel({
   onClose: () => void;
   /** The position's photo strip, composed in by the route (features do not import each other). */
   photos?: ReactNode;
+  /** More about the position from other features (e.g. breaker operations), composed in by the route. */
+  extra?: ReactNode;
 }) {
   const q = usePosition(siteId, positionId);
   const closeRef = useRef<HTMLButtonElement>(null);
@@ -149,6 +152,7 @@ export function PositionPanel({
             <p className="mt-3 text-fog">No component in this position.</p>
           )}
           {photos && <div className="mt-4">{photos}</div>}
+          {extra && <div className="mt-4">{extra}</div>}
           <H>Latest inspection</H>
           {d.inspections[0] ? (
             <InspectionSummary i={d.inspections[0]} />

@@ -3,131 +3,17 @@ import { Link } from "react-router";
 import { Button } from "../../../components/button";
 import { paths } from "../../../config/paths";
 import { canRts } from "../../../domain/return-to-service";
-import { HOLD_STATE_LABELS, STAGE_STATE_LABELS, type HoldPoint } from "../../../domain/rts-gate";
+import { STAGE_STATE_LABELS } from "../../../domain/rts-gate";
 import { SUPPLY_LABELS, VOLTAGE_STEP_LABELS } from "../../../domain/return-to-service";
-import type { RtsStage } from "../../../schemas/return-to-service";
+import type { RtsBoardView, RtsStage } from "../../../schemas/return-to-service";
 import type { Role } from "../../../domain/vocab";
 import { ApiError } from "../../../lib/api-client";
 import { useRtsAction } from "../api";
+import { HoldPointRow } from "./hold-point-row";
+import { AddHoldPoint, StageActions } from "./plan-controls";
+import { StageForm } from "./stage-form";
 
 const when = (iso: string) => new Date(iso).toLocaleString(undefined, { dateStyle: "medium", timeStyle: "short" });
-const STATE_MARK: Record<HoldPoint["state"], string> = {
-  met: "✔",
-  released: "⚑",
-  ready: "○",
-  blocked: "✖",
-  waiting: "…",
-};
-const STATE_CLASS: Record<HoldPoint["state"], string> = {
-  met: "border-kelp-400",
-  released: "border-flare-400 bg-flare-700/30",
-  ready: "border-brass-400",
-  blocked: "border-rust-400",
-  waiting: "border-hull-600",
-};
-
-function HoldPointRow({
-  siteId,
-  stage,
-  hp,
-  role,
-  isQualified,
-}: {
-  siteId: string;
-  stage: RtsStage;
-  hp: HoldPoint;
-  role: Role | "admin";
-  isQualified: boolean;
-}) {
-  const act = useRtsAction(siteId);
-  const [reason, setReason] = useState("");
-  const [releasing, setReleasing] = useState(false);
-  const step = stage.steps.find((s) => s.id === hp.stepId)!;
-  const may = hp.qualifiedOnly ? isQualified && canRts(role, "sign") : canRts(role, "sign");
-  const error = act.error instanceof ApiError ? act.error.message : act.error ? String(act.error) : null;
-  const sign = (body: Record<string, unknown>) =>
-    act.mutate({
-      method: "POST",
-      path: `/return-to-service/steps/${hp.stepId}/signoffs`,
-      body: { attempt: stage.attempt, ...body },
-    });
-  return (
-    <li className={`rounded-md border-l-4 bg-hull-900 p-3 ${STATE_CLASS[hp.state]}`} data-testid={`hold-${hp.kind}`}>
-      <div className="flex flex-wrap items-baseline justify-between gap-2">
-        <p className="font-semibold">
-          <span aria-hidden>{STATE_MARK[hp.state]} </span>
-          {hp.title}
-          {hp.qualifiedOnly && <span className="ml-2 text-xs text-mist">(qualified person only)</span>}
-        </p>
-        <span className="text-sm">{HOLD_STATE_LABELS[hp.state]}</span>
-      </div>
-      {step.detail && <p className="text-sm text-mist">{step.detail}</p>}
-      {hp.blockers.length > 0 && (
-        <ul className="mt-2 space-y-1 text-sm" aria-label="What blocks it">
-          {hp.blockers.map((b) => (
-            <li key={b.message}>
-              ✖{" "}
-              <Link to={b.href} className="underline">
-                {b.message}
-              </Link>
-            </li>
-          ))}
-        </ul>
-      )}
-      {step.entries.map((e) => (
-        <p
-          key={e.id}
-          className={`mt-1 text-sm ${e.kind === "released" ? "font-semibold text-flare-300" : e.supersededBy ? "text-fog line-through" : ""}`}
-        >
-          {e.kind === "released" ? "Released with reason by" : e.kind === "struck" ? "Struck out by" : "Signed by"}{" "}
-          {e.signerName}, {when(e.signedAt)}
-          {e.reason && ` — ${e.reason}`}
-          {e.note && ` · ${e.note}`}
-        </p>
-      ))}
-      <div className="mt-2 flex flex-wrap gap-2">
-        {hp.state === "ready" && may && (
-          <Button onClick={() => sign({})} disabled={act.isPending}>
-            {hp.kind === "energise" ? "Sign: energised now" : "Sign this hold point"}
-          </Button>
-        )}
-        {hp.state === "blocked" && !hp.qualifiedOnly && canRts(role, "release_blocked") && !releasing && (
-          <Button tone="danger" onClick={() => setReleasing(true)}>
-            Release with a reason…
-          </Button>
-        )}
-      </div>
-      {releasing && (
-        <form
-          className="mt-2 space-y-2"
-          onSubmit={(e) => {
-            e.preventDefault();
-            sign({ kind: "released", reason });
-          }}
-        >
-          <label className="block text-sm">
-            Reason (recorded and shown in red for ever)
-            <textarea
-              className="mt-1 w-full rounded-md bg-hull-800 p-2"
-              value={reason}
-              onChange={(e) => setReason(e.target.value)}
-              required
-              minLength={10}
-            />
-          </label>
-          <Button tone="danger" type="submit" disabled={act.isPending}>
-            Release this hold point
-          </Button>
-        </form>
-      )}
-      {error && (
-        <p role="alert" className="mt-2 text-sm text-rust-300">
-          {error}
-        </p>
-      )}
-    </li>
-  );
-}
 
 export function StageCard({
   siteId,
@@ -136,6 +22,7 @@ export function StageCard({
   role,
   isQualified,
   index,
+  view,
 }: {
   siteId: string;
   boardId: string;
@@ -143,9 +30,32 @@ export function StageCard({
   role: Role | "admin";
   isQualified: boolean;
   index: number;
+  view: RtsBoardView;
 }) {
   const act = useRtsAction(siteId);
+  const [editing, setEditing] = useState(false);
+  const [editSteps, setEditSteps] = useState(false);
+  const [restarting, setRestarting] = useState(false);
+  const [restartReason, setRestartReason] = useState("");
   const g = stage.gate;
+  const planner = canRts(role, "plan");
+  // A released stage is part of the record: its hold points fold away (open them to read).
+  const holdPoints = (
+    <ol className="mt-3 space-y-2" aria-label="Hold points">
+      {g.holdPoints.map((hp, i) => (
+        <HoldPointRow
+          key={hp.stepId}
+          siteId={siteId}
+          stage={stage}
+          hp={hp}
+          index={i}
+          role={role}
+          isQualified={isQualified}
+          editing={editSteps}
+        />
+      ))}
+    </ol>
+  );
   return (
     <article
       id={`stage-${stage.id}`}
@@ -227,11 +137,24 @@ export function StageCard({
           ⚠ {w.designation}: {w.warning}
         </p>
       ))}
-      <ol className="mt-3 space-y-2" aria-label="Hold points">
-        {g.holdPoints.map((hp) => (
-          <HoldPointRow key={hp.stepId} siteId={siteId} stage={stage} hp={hp} role={role} isQualified={isQualified} />
-        ))}
-      </ol>
+      {stage.status === "released" ? (
+        <details className="mt-3">
+          <summary className="inline-flex min-h-11 cursor-pointer items-center underline">
+            Hold points and signatures ({g.holdPoints.length})
+          </summary>
+          {holdPoints}
+        </details>
+      ) : (
+        holdPoints
+      )}
+      {stage.status === "planned" && planner && (
+        <div className="mt-2 flex flex-wrap gap-2">
+          <Button tone="quiet" aria-pressed={editSteps} onClick={() => setEditSteps(!editSteps)}>
+            {editSteps ? "Done editing hold points" : "Edit hold points"}
+          </Button>
+          {editSteps && <AddHoldPoint siteId={siteId} stage={stage} />}
+        </div>
+      )}
       <div className="mt-3 flex flex-wrap gap-2 text-sm">
         <Link
           className="inline-flex min-h-11 items-center underline"
@@ -253,28 +176,67 @@ export function StageCard({
             Record de-energised
           </Button>
         )}
-        {(stage.status === "stopped" || stage.status === "de_energised") && canRts(role, "restart") && (
-          <Button
-            tone="quiet"
-            onClick={() => {
-              const reason = window.prompt("What was done about it? (recorded)");
-              if (reason)
-                act.mutate({
-                  method: "POST",
-                  path: `/return-to-service/stages/${stage.id}/restart`,
-                  body: { reason, version: stage.version },
-                });
-            }}
-          >
-            Start a new attempt
+        {(stage.status === "stopped" || stage.status === "de_energised") && canRts(role, "restart") && !restarting && (
+          <Button tone="quiet" onClick={() => setRestarting(true)}>
+            Start a new attempt…
           </Button>
         )}
       </div>
+      {restarting && (
+        <form
+          className="mt-2 space-y-2"
+          aria-label={`Start ${stage.name} again`}
+          onSubmit={(e) => {
+            e.preventDefault();
+            act.mutate(
+              {
+                method: "POST",
+                path: `/return-to-service/stages/${stage.id}/restart`,
+                body: { reason: restartReason, version: stage.version },
+              },
+              { onSuccess: () => setRestarting(false) },
+            );
+          }}
+        >
+          <label className="block text-sm">
+            What was done about the incident (recorded; every hold point is signed again)
+            <textarea
+              className="mt-1 w-full rounded-md bg-hull-900 p-2 ring-1 ring-hull-600"
+              value={restartReason}
+              onChange={(e) => setRestartReason(e.target.value)}
+              required
+              minLength={3}
+            />
+          </label>
+          <div className="flex gap-2">
+            <Button type="submit" disabled={act.isPending}>
+              Start attempt {stage.attempt + 1}
+            </Button>
+            <Button tone="quiet" onClick={() => setRestarting(false)}>
+              Cancel
+            </Button>
+          </div>
+        </form>
+      )}
       {act.error && (
         <p role="alert" className="mt-2 text-sm text-rust-300">
           {act.error instanceof ApiError ? act.error.message : String(act.error)}
         </p>
       )}
+      {planner &&
+        (editing ? (
+          <div className="mt-3">
+            <StageForm siteId={siteId} view={view} stage={stage} onDone={() => setEditing(false)} />
+          </div>
+        ) : (
+          <StageActions
+            siteId={siteId}
+            stage={stage}
+            index={index}
+            count={view.stages.length}
+            onEdit={() => setEditing(true)}
+          />
+        ))}
     </article>
   );
 }

@@ -1,0 +1,325 @@
+import { useId, useState } from "react";
+import { Button } from "../../../components/button";
+import { operationsStatus } from "../../../domain/breaker-operations";
+import { canRts } from "../../../domain/return-to-service";
+import { COMPONENT_KIND_LABELS, type Role } from "../../../domain/vocab";
+import { ApiError } from "../../../lib/api-client";
+import type { RtsBoardView, RtsBreaker } from "../../../schemas/return-to-service";
+import { useRtsAction, useRtsBoard } from "../api";
+
+const box = "mt-1 w-full min-h-11 rounded-md bg-hull-900 px-2 ring-1 ring-hull-600";
+const when = (iso: string) => new Date(iso).toLocaleString(undefined, { dateStyle: "medium", timeStyle: "short" });
+const errorOf = (e: unknown) => (e instanceof ApiError ? e.message : e ? String(e) : null);
+
+/** The stage a new operation most likely belongs to: the live one, else the next to come. */
+const likelyStage = (view: RtsBoardView) =>
+  view.stages.find((s) => s.status === "energised") ?? view.stages.find((s) => s.status !== "released") ?? null;
+
+/**
+ * Records one open or close of a breaker: who (the person signed in), why, and during which
+ * stage (or on its own). Before saving it says when this operation would pass the breaker's
+ * budget and suggests feeding from the temporary supply instead; it never blocks.
+ */
+export function RecordOperation({
+  siteId,
+  view,
+  breakers,
+  onDone,
+}: {
+  siteId: string;
+  view: RtsBoardView;
+  breakers: RtsBreaker[];
+  onDone?: () => void;
+}) {
+  const act = useRtsAction(siteId);
+  const [componentId, setComponent] = useState(breakers.length === 1 ? breakers[0].componentId : "");
+  const [operation, setOperation] = useState<"open" | "close">("close");
+  const [stageId, setStage] = useState(likelyStage(view)?.id ?? "");
+  const [why, setWhy] = useState("");
+  const [saved, setSaved] = useState<string | null>(null);
+  const radio = useId();
+  const b = breakers.find((x) => x.componentId === componentId);
+  const next = b ? operationsStatus(b.status.used, b.budget, 1) : null;
+  return (
+    <form
+      className="space-y-2 rounded-md bg-hull-900 p-3"
+      aria-label="Record a breaker operation"
+      onSubmit={(e) => {
+        e.preventDefault();
+        setSaved(null);
+        act.mutate(
+          {
+            method: "POST",
+            path: `/components/${componentId}/breaker-operations`,
+            body: { operation, stageId: stageId || null, why },
+          },
+          {
+            onSuccess: (r) => {
+              const st = (r as { status: { used: number; budget: number } }).status;
+              setSaved(
+                `Recorded: ${b?.designation} ${operation === "close" ? "closed" : "opened"} (${st.used} of ${st.budget} used).`,
+              );
+              setWhy("");
+              onDone?.();
+            },
+          },
+        );
+      }}
+    >
+      <div className="grid gap-2 sm:grid-cols-2">
+        {breakers.length > 1 && (
+          <label className="block text-sm">
+            Breaker
+            <select className={box} value={componentId} onChange={(e) => setComponent(e.target.value)} required>
+              <option value="">— choose —</option>
+              {breakers.map((x) => (
+                <option key={x.componentId} value={x.componentId}>
+                  {x.designation} ({x.status.used} of {x.budget} used)
+                </option>
+              ))}
+            </select>
+          </label>
+        )}
+        <fieldset className="text-sm">
+          <legend>Operation</legend>
+          <div className="mt-1 flex gap-2">
+            {(["close", "open"] as const).map((o) => (
+              <label key={o} className="inline-flex min-h-11 items-center gap-2 rounded-md px-3 ring-1 ring-hull-600">
+                <input type="radio" name={radio} checked={operation === o} onChange={() => setOperation(o)} />
+                {o === "close" ? "Closed" : "Opened"}
+              </label>
+            ))}
+          </div>
+        </fieldset>
+        <label className="block text-sm">
+          During stage
+          <select className={box} value={stageId} onChange={(e) => setStage(e.target.value)}>
+            <option value="">On its own (no stage)</option>
+            {view.stages.map((s) => (
+              <option key={s.id} value={s.id}>
+                {s.name}
+              </option>
+            ))}
+          </select>
+        </label>
+        <label className="block text-sm">
+          Why
+          <input className={box} value={why} onChange={(e) => setWhy(e.target.value)} required minLength={2} />
+        </label>
+      </div>
+      {next?.warning && (
+        <p role="alert" className="rounded-md border border-brass-400 p-2 text-sm text-brass-300">
+          ⚠ {b!.designation}: {next.warning} The budget warns; it does not stop you.
+        </p>
+      )}
+      {act.error && (
+        <p role="alert" className="text-sm text-rust-300">
+          {errorOf(act.error)}
+        </p>
+      )}
+      {saved && (
+        <p role="status" className="text-sm">
+          {saved}
+        </p>
+      )}
+      <Button type="submit" disabled={act.isPending || !componentId}>
+        Record the operation
+      </Button>
+    </form>
+  );
+}
+
+/** The curator changes a breaker's budget (version-checked), with the reason. */
+function BudgetEditor({ siteId, b, onDone }: { siteId: string; b: RtsBreaker; onDone: () => void }) {
+  const act = useRtsAction(siteId);
+  const [budget, setBudget] = useState(String(b.budget));
+  const [reason, setReason] = useState("");
+  return (
+    <form
+      className="flex flex-wrap items-end gap-2"
+      aria-label={`Operations budget of ${b.designation}`}
+      onSubmit={(e) => {
+        e.preventDefault();
+        act.mutate(
+          {
+            method: "PUT",
+            path: `/components/${b.componentId}/operations-budget`,
+            body: { budget: Number(budget), reason, version: b.budgetVersion },
+          },
+          { onSuccess: onDone },
+        );
+      }}
+    >
+      <label className="block text-sm">
+        Budget
+        <input
+          className={`${box} w-24`}
+          inputMode="numeric"
+          value={budget}
+          onChange={(e) => setBudget(e.target.value)}
+          required
+          pattern="\d+"
+        />
+      </label>
+      <label className="block flex-1 text-sm">
+        Reason
+        <input className={box} value={reason} onChange={(e) => setReason(e.target.value)} />
+      </label>
+      <Button type="submit" disabled={act.isPending}>
+        Save
+      </Button>
+      <Button tone="quiet" onClick={onDone}>
+        Cancel
+      </Button>
+      {act.error && (
+        <p role="alert" className="w-full text-sm text-rust-300">
+          {errorOf(act.error)}
+        </p>
+      )}
+    </form>
+  );
+}
+
+function BreakerRow({ siteId, b, role }: { siteId: string; b: RtsBreaker; role: Role | "admin" }) {
+  const [editing, setEditing] = useState(false);
+  const warn = b.status.overBudget || b.status.remaining <= 0;
+  return (
+    <>
+      <tr className={warn ? "text-rust-300" : ""} data-testid={`breaker-${b.designation}`}>
+        <td className="p-1 font-mono">{b.designation}</td>
+        <td className="p-1">
+          {COMPONENT_KIND_LABELS[b.kind]}
+          {b.year ? `, ${b.year}` : ", year unknown"}
+        </td>
+        <td className="p-1">{b.status.used}</td>
+        <td className="p-1">{b.budget}</td>
+        <td className="p-1">{warn ? `${b.status.remaining} ⚠` : b.status.remaining}</td>
+        <td className="p-1 text-mist">{b.budgetBasis}</td>
+        <td className="p-1">
+          {canRts(role, "set_budget") && !editing && (
+            <Button tone="quiet" onClick={() => setEditing(true)} aria-label={`Change the budget of ${b.designation}`}>
+              Change
+            </Button>
+          )}
+        </td>
+      </tr>
+      {editing && (
+        <tr>
+          <td colSpan={7} className="p-1">
+            <BudgetEditor siteId={siteId} b={b} onDone={() => setEditing(false)} />
+          </td>
+        </tr>
+      )}
+    </>
+  );
+}
+
+/** The board's breakers: operations used against each budget, the curator's budgets, and the record form. */
+export function BreakerOperations({
+  siteId,
+  view,
+  role,
+}: {
+  siteId: string;
+  view: RtsBoardView;
+  role: Role | "admin";
+}) {
+  const [all, setAll] = useState(false);
+  const shown = all ? view.breakers : view.breakers.filter((b) => b.status.used > 0 || b.budgetVersion > 0);
+  return (
+    <div className="space-y-3">
+      <p className="text-sm text-mist">
+        Every open and close is counted against the breaker's budget (Tideline's defaults by age; the curator sets
+        each). The budget warns; it never blocks. Where a breaker is near its budget, consider energising from the
+        temporary supply instead of working it.
+      </p>
+      <div className="overflow-x-auto">
+        <table className="w-full min-w-[40rem] text-sm">
+          <caption className="sr-only">Breaker operations against their budgets</caption>
+          <thead>
+            <tr className="text-left">
+              <th className="p-1">Position</th>
+              <th className="p-1">Kind</th>
+              <th className="p-1">Used</th>
+              <th className="p-1">Budget</th>
+              <th className="p-1">Left</th>
+              <th className="p-1">Basis</th>
+              <th className="p-1">
+                <span className="sr-only">Change</span>
+              </th>
+            </tr>
+          </thead>
+          <tbody>
+            {shown.map((b) => (
+              <BreakerRow key={b.componentId} siteId={siteId} b={b} role={role} />
+            ))}
+          </tbody>
+        </table>
+      </div>
+      <Button tone="quiet" onClick={() => setAll(!all)}>
+        {all ? "Only breakers already operated or budgeted" : `Show all ${view.breakers.length} breakers`}
+      </Button>
+      {canRts(role, "record_operation") && <RecordOperation siteId={siteId} view={view} breakers={view.breakers} />}
+    </div>
+  );
+}
+
+/**
+ * One position's breaker in the board's side panel: used against its budget, its operations
+ * (who, why, which stage), and the record form.
+ */
+export function PositionOperations({
+  siteId,
+  view,
+  positionId,
+  role,
+}: {
+  siteId: string;
+  view: RtsBoardView;
+  positionId: string;
+  role: Role | "admin";
+}) {
+  const b = view.breakers.find((x) => x.positionId === positionId);
+  if (!b) return null;
+  const ops = view.events.filter((e) => e.kind === "operation" && e.componentId === b.componentId);
+  const next = operationsStatus(b.status.used, b.budget, 1);
+  return (
+    <section aria-labelledby="ops-panel-title" className="space-y-2">
+      <h3 id="ops-panel-title" className="text-base font-bold">
+        Breaker operations
+      </h3>
+      <p className={`text-sm ${next.wouldExceed ? "font-semibold text-rust-300" : ""}`} data-testid="operations-used">
+        {b.status.used} of {b.budget} used · {b.status.remaining} left ({b.budgetBasis})
+      </p>
+      {ops.length > 0 && (
+        <ol className="space-y-1 text-sm">
+          {[...ops].reverse().map((o) => (
+            <li key={o.id}>
+              {when(o.at)} — {o.title}
+              {o.by ? ` by ${o.by}` : ""}
+              {o.stageName ? `, during “${o.stageName}”` : ", on its own"}: {o.detail}
+            </li>
+          ))}
+        </ol>
+      )}
+      {canRts(role, "record_operation") && <RecordOperation siteId={siteId} view={view} breakers={[b]} />}
+    </section>
+  );
+}
+
+/** The panel's breaker operations, loading the board's return-to-service view itself. */
+export function PanelOperations({
+  siteId,
+  boardId,
+  positionId,
+  role,
+}: {
+  siteId: string;
+  boardId: string;
+  positionId: string;
+  role: Role | "admin";
+}) {
+  const q = useRtsBoard(siteId, boardId);
+  if (!q.data) return null;
+  return <PositionOperations siteId={siteId} view={q.data} positionId={positionId} role={role} />;
+}
