@@ -15,10 +15,10 @@ const isRoot = typeof process.getuid === "function" && process.getuid() === 0;
 const commands = {
   start: { script: "server/cli/start.ts", needs: ["deps", "postgres"] },
   dev: { script: "server/cli/dev.ts", needs: ["deps", "postgres"] },
-  test: { script: "tests/run-all.ts", needs: ["deps", "postgres", "chromium", "poppler"] },
+  test: { script: "tests/run-all.ts", needs: ["deps", "postgres", "chromium", "poppler", "libreoffice"] },
   migrate: { script: "db/cli/migrate.ts", needs: ["deps", "postgres"] },
   "user:create": { script: "server/cli/user-create.ts", needs: ["deps", "postgres"] },
-  bench: { script: "server/cli/bench.ts", needs: ["deps", "postgres", "poppler"] },
+  bench: { script: "server/cli/bench.ts", needs: ["deps", "postgres", "chromium", "poppler"] },
   worker: { script: "server/cli/worker.ts", needs: ["deps", "postgres"] },
   "mail:weekly": { script: "server/cli/weekly-summary.ts", needs: ["deps", "postgres"] },
   "photos:cleanup": { script: "server/cli/photos-cleanup.ts", needs: ["deps", "postgres"] },
@@ -101,6 +101,15 @@ function ensurePoppler() {
   aptInstall(["poppler-utils"], "Debian's poppler-utils (pdftotext, pdftoppm) for the report tests");
 }
 
+/** The spreadsheet round-trip test opens exports in a real spreadsheet program (headless LibreOffice Calc). */
+function ensureLibreOffice() {
+  if (existsSync("/usr/bin/soffice")) return;
+  aptInstall(
+    ["--no-install-recommends", "libreoffice-calc-nogui"],
+    "Debian's libreoffice-calc-nogui (headless Calc) for the spreadsheet round-trip test",
+  );
+}
+
 const name = process.argv[2];
 const command = commands[name];
 if (!command) {
@@ -111,6 +120,7 @@ if (command.needs.includes("deps")) ensureDeps();
 if (command.needs.includes("postgres")) ensurePostgres();
 if (command.needs.includes("chromium")) ensureChromium();
 if (command.needs.includes("poppler")) ensurePoppler();
+if (command.needs.includes("libreoffice")) ensureLibreOffice();
 
 const tsx = join(root, "node_modules", "tsx", "dist", "cli.mjs");
 const child = spawn(process.execPath, [tsx, command.script, ...process.argv.slice(3)], {

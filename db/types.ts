@@ -51,6 +51,8 @@ export interface SitesTable {
   createdAt: Timestamp;
   /** ISO 4217 code for the site's costs (issue 14). */
   currency: Generated<string>;
+  /** IANA time zone of the site's local time, for exports (issue 13). */
+  timeZone: Generated<string>;
 }
 
 export interface MembershipsTable {

@@ -217,9 +217,11 @@ test("the CSV import shows row-by-row errors before anything is written; the flo
       "board,designation,kind,grid_row,grid_col\nImport check board,IC-1,meter,1,1\nImport check board,IC-2,toaster,1,2\n",
     );
   await page.getByRole("button", { name: "Check the file" }).click();
-  await expect(page.getByTestId("import-summary")).toContainText("2 rows: 1 ready, 1 with errors");
+  await expect(page.getByTestId("import-summary")).toContainText(
+    "2 rows: 1 new, 0 changed, 0 unchanged, 1 with problems",
+  );
   await expect(page.getByTestId("import-line-3")).toContainText("kind");
-  await expect(page.getByRole("button", { name: /Import all/ })).toBeDisabled();
+  await expect(page.getByRole("button", { name: /Apply/ })).toBeDisabled();
   await expectNoSeriousA11yViolations(page, "CSV import preview");
   const csv = await page.request.get(
     (await page.getByRole("link", { name: "Export the current inventory" }).getAttribute("href")) ?? "",

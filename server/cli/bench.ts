@@ -1,246 +1,542 @@
 /**
- * `npm run bench`: the defect register under load. Creates a scratch database on the
- * test cluster, seeds 50,000 positions and 20,000 defects, then for a few typical
- * register queries prints the endpoint's p50/p95 (in-process server over HTTP, signed
- * in) beside the same query timed straight through Kysely and its EXPLAIN ANALYZE
- * execution time (of the page-of-ids query), plus CSV export throughput. Drops the scratch database at the end.
- * A script, not a test. Options: BENCH_N (iterations, default 30), BENCH_KEEP=1 (keep the database).
+ * `npm run bench` (issue 15): Tideline measured from outside, each figure beside a baseline taken
+ * in the same run.
+ *
+ * - A realistic generated site on a scratch database of the test cluster (server/bench/site.ts):
+ *   100 boards, 20,000 positions by default (`-- --large`: 200,000; `-- --positions=N`), one photo
+ *   row per position, inspections, dispositions, nameplates, defects on ~30 % of positions, pins
+ *   and the wanted list.
+ * - The server runs as its own process (`server/index.ts`, production mode, the app's pool of
+ *   DATABASE_POOL_MAX), so its memory and event loop are its own.
+ * - Endpoints: each list and summary endpoint over HTTP (signed in, body read in full) against the
+ *   same statements replayed with the bare pg driver (server/bench/replay.ts); per run the p50 of
+ *   each, and their ratio; printed as median [min–max] over BENCH_RUNS runs (default 3).
+ * - Load: BENCH_CLIENTS (default 10) clients on the register for BENCH_SECONDS each, with
+ *   /api/health timed every 100 ms on its own connection and the server's event-loop delay
+ *   (perf_hooks, preloaded by server/bench/probe.ts); then as many workers replaying the same
+ *   statements on a pool of the server's size: requests/s ratio.
+ * - CSV export of every defect against `COPY (the same SELECT) TO STDOUT` through psql, with the
+ *   server process's peak RSS growth (VmRSS from /proc, sampled every 10 ms).
+ * - Page paint on a phone profile with a 4 × slower CPU (server/bench/paint.ts) against a static page.
+ * - Then the condition survey report's case (server/cli/bench-report.ts; BENCH_REPORT=0 skips it).
+ *
+ * Options (environment): BENCH_RUNS, BENCH_N (timed requests per case per run, default 15),
+ * BENCH_CLIENTS, BENCH_SECONDS (default 8), BENCH_PAINT=0, BENCH_REPORT=0, BENCH_KEEP=1 (keep the scratch
+ * database), BENCH_DATABASE=<kept name> (measure it again without generating), BENCH_PROFILE=1
+ * (the server writes a V8 CPU profile to .data/bench-profile/ when it stops; open it in chromium's DevTools).
+ * A script, not a test: `npm test` never runs it.
  */
+import { spawn, spawnSync, type ChildProcess } from "node:child_process";
 import { randomBytes } from "node:crypto";
+import { readFileSync } from "node:fs";
 import type { AddressInfo } from "node:net";
-import { sql } from "kysely";
+import { createServer } from "node:net";
+import { cpus, totalmem } from "node:os";
+import { join } from "node:path";
+import { Agent, request } from "node:http";
 import pg from "pg";
 import { openLocalDatabase } from "../../db/local";
 import { migrateToLatest } from "../../db/migrate";
-import { ensureDatabase } from "../../db/pg";
+import { ensureDatabase, pgBin, projectRoot } from "../../db/pg";
 import { createApp } from "../app";
-import { hashPassword } from "../auth/password";
-import { createDb, MAINTENANCE_DB_OPTIONS, type Db } from "../db";
-import { listPage, registerQuery } from "../defects/list-query";
-import { priorityScore, type PartsAvailability } from "../../src/domain/priority";
-import { DEFECT_CATEGORIES, DEFECT_SEVERITIES, DEFECT_STATUSES } from "../../src/domain/vocab";
-import { listQuery } from "../../src/schemas/defects";
+import { createDb, MAINTENANCE_DB_OPTIONS } from "../db";
+import { applySort, registerBase, ROW_COLUMNS } from "../defects/list-query";
+import { measurePaint, openBrowser, STATIC_PAGE, writeStaticPage, type PaintFigures } from "../bench/paint";
+import { capturingDb, planReplay, replay, type Replay } from "../bench/replay";
+import { BENCH_PASSWORD, describeSite, generateSite, type BenchSite } from "../bench/site";
+import { median, percentile, spread, table } from "../bench/stats";
+import { buildClient } from "./prepare";
 import { benchReport } from "./bench-report";
 
-const N = Number(process.env.BENCH_N ?? 30);
-const POSITIONS = 50_000;
-const DEFECTS = 20_000;
-const PASSWORD = "bench-password-123";
-const TODAY = "2027-01-15";
+const arg = (name: string) => process.argv.find((a) => a === `--${name}` || a.startsWith(`--${name}=`));
+const POSITIONS = arg("positions")
+  ? Number(arg("positions")!.split("=")[1])
+  : arg("large")
+    ? 200_000
+    : Number(process.env.BENCH_POSITIONS ?? 20_000);
+const RUNS = Number(process.env.BENCH_RUNS ?? 3);
+const N = Number(process.env.BENCH_N ?? 15);
+const CLIENTS = Number(process.env.BENCH_CLIENTS ?? 10);
+const SECONDS = Number(process.env.BENCH_SECONDS ?? 8);
+const POOL = Number(process.env.DATABASE_POOL_MAX ?? 10);
+const TODAY = "2027-02-01";
 
-async function seed(db: Db) {
-  const t0 = performance.now();
-  const site = await db
-    .insertInto("sites")
-    .values({ name: "Bench hulk", kind: "vessel" })
-    .returning("id")
-    .executeTakeFirstOrThrow();
-  const hash = await hashPassword(PASSWORD);
-  const crew: string[] = [];
-  for (let i = 0; i < 8; i++) {
-    const u = await db
-      .insertInto("users")
-      .values({ email: `bench${i}@example.test`, name: `Bench person ${i}`, passwordHash: hash })
-      .returning("id")
-      .executeTakeFirstOrThrow();
-    await db
-      .insertInto("memberships")
-      .values({ siteId: site.id, userId: u.id, role: i === 0 ? "curator" : "volunteer" })
-      .execute();
-    crew.push(u.id);
-  }
-  const s = site.id;
-  await sql`INSERT INTO boards (site_id, name) SELECT ${s}, 'Board ' || b FROM generate_series(1, 10) b`.execute(db);
-  await sql`INSERT INTO sections (site_id, board_id, name, sort_order) SELECT ${s}, b.id, b.name || ' / section ' || k, k FROM boards b, generate_series(1, 8) k WHERE b.site_id = ${s}`.execute(
-    db,
-  );
-  await sql`INSERT INTO positions (site_id, board_id, section_id, designation, kind, grid_row, grid_col)
-    SELECT ${s}, sec.board_id, sec.id, sec.sort_order || '-' || n, 'molded_case_breaker', 1 + (sec.sort_order * ${POSITIONS / 80} + n) / 60, 1 + (sec.sort_order * ${POSITIONS / 80} + n) % 60
-    FROM sections sec, generate_series(1, ${POSITIONS / 80}) n WHERE sec.site_id = ${s}`.execute(db);
-  await sql`INSERT INTO components (site_id, position_id, kind, heritage)
-    SELECT site_id, id, kind, (ARRAY['original','original','period','modern'])[1 + (abs(hashtext(id::text)) % 4)] FROM positions WHERE site_id = ${s}`.execute(
-    db,
-  );
-  const positions = (
-    await sql<{ id: string; boardId: string; sectionId: string; componentId: string; heritage: string }>`
-    SELECT p.id, p.board_id, p.section_id, c.id AS component_id, c.heritage FROM positions p JOIN components c ON c.position_id = p.id WHERE p.site_id = ${s} ORDER BY random() LIMIT ${DEFECTS}`.execute(
-      db,
-    )
-  ).rows;
-  const parts: PartsAvailability[] = ["none_needed", "in_hand", "wanted", "unobtainable"];
-  const words = [
-    "arc track",
-    "salt crust",
-    "seized handle",
-    "verdigris",
-    "loose lug",
-    "cracked glass",
-    "swollen insulation",
-    "missing screw",
-  ];
-  for (let i = 0; i < DEFECTS; i += 1000) {
-    const batch = positions.slice(i, i + 1000).map((p, k) => {
-      const n = i + k;
-      const severity = DEFECT_SEVERITIES[n % 4];
-      const effortHours = n % 9 === 0 ? null : (n % 13) / 2;
-      const partsState = parts[n % 4];
-      const safetyCritical = n % 7 === 0;
-      const blocksEnergisation = n % 5 === 0;
-      const { score } = priorityScore({
-        severity,
-        safetyCritical,
-        blocksEnergisation,
-        originalFabric: p.heritage === "original",
-        effortHours,
-        partsAvailable: partsState,
-      });
-      return {
-        siteId: s,
-        boardId: p.boardId,
-        sectionId: p.sectionId,
-        positionId: p.id,
-        componentId: p.componentId,
-        title: `${words[n % words.length]} on position ${n}`,
-        description: n % 3 ? "" : "Found during the wash-down survey.",
-        category: DEFECT_CATEGORIES[n % DEFECT_CATEGORIES.length],
-        severity,
-        status: DEFECT_STATUSES[n % 7],
-        safetyCritical,
-        blocksEnergisation,
-        effortHours,
-        costEstimate: n % 4 ? (n % 50) * 10 : null,
-        partsState,
-        assigneeId: n % 3 ? crew[n % 8] : null,
-        dueOn: n % 2 ? `2027-0${1 + (n % 6)}-${String(1 + (n % 28)).padStart(2, "0")}` : null,
-        priorityScore: score,
-        createdBy: crew[1],
-      };
-    });
-    await db.insertInto("defects").values(batch).execute();
-  }
-  // 20 curator pins (each against an unpinned defect), so the ranked order pays for them.
-  await sql`INSERT INTO defect_pins (site_id, defect_id, relative_to, direction, reason, pinned_by)
-    SELECT ${s}, a.id, b.id, CASE WHEN a.n % 2 = 0 THEN 'above' ELSE 'below' END, 'Bench pin', ${crew[0]}
-    FROM (SELECT id, row_number() over (order by ref) n FROM defects WHERE site_id = ${s} ORDER BY ref LIMIT 20) a
-    JOIN (SELECT id, row_number() over (order by ref) n FROM defects WHERE site_id = ${s} ORDER BY ref OFFSET 100 LIMIT 20) b ON a.n = b.n`.execute(
-    db,
-  );
-  await sql`ANALYZE`.execute(db);
-  return { siteId: s, curatorEmail: "bench0@example.test", assignee: crew[3], seedMs: performance.now() - t0 };
+const say = (s: string) => console.log(s);
+
+async function freePort(): Promise<number> {
+  const s = createServer();
+  await new Promise<void>((r) => s.listen(0, "127.0.0.1", () => r()));
+  const port = (s.address() as AddressInfo).port;
+  await new Promise((r) => s.close(r));
+  return port;
 }
 
-const pct = (xs: number[], p: number) =>
-  [...xs].sort((a, b) => a - b)[Math.min(xs.length - 1, Math.floor((p / 100) * xs.length))];
-const ms = (x: number) => x.toFixed(1).padStart(7);
+/** The server as its own process, as `npm start` runs it after set-up. */
+async function startServer(url: string) {
+  const port = await freePort();
+  const child = spawn(
+    process.execPath,
+    [
+      ...(process.env.BENCH_PROFILE
+        ? ["--cpu-prof", `--cpu-prof-dir=${join(projectRoot, ".data", "bench-profile")}`]
+        : []),
+      "--import",
+      "tsx",
+      "--import",
+      "./server/bench/probe.ts",
+      "server/index.ts",
+    ],
+    {
+      cwd: projectRoot,
+      env: {
+        ...process.env,
+        DATABASE_URL: url,
+        PORT: String(port),
+        NODE_ENV: "production",
+        TIDELINE_WORKER: "off",
+        SMTP_PORT: String(await freePort()),
+        PHOTO_DIR: join(projectRoot, ".data", "photos-bench"),
+        LOG_LEVEL: "warn",
+      },
+      stdio: ["ignore", "pipe", "pipe", "ipc"],
+    },
+  );
+  let out = "";
+  const keep = (d: Buffer) => (out = (out + d.toString()).slice(-20_000));
+  child.stdout!.on("data", keep);
+  child.stderr!.on("data", keep);
+  let stopping = false;
+  child.once("exit", (code, signal) => {
+    if (!stopping)
+      console.error(`\n!! the server process exited (code ${code}, signal ${signal}); its last output:\n${out}`);
+  });
+  const base = `http://127.0.0.1:${port}`;
+  for (let i = 0; ; i++) {
+    if (child.exitCode !== null) throw new Error(`the server exited: ${out}`);
+    const ok = await fetch(`${base}/api/health`)
+      .then((r) => r.ok)
+      .catch(() => false);
+    if (ok) break;
+    if (i > 300) throw new Error(`the server did not answer /api/health: ${out}`);
+    await new Promise((r) => setTimeout(r, 200));
+  }
+  return {
+    child,
+    base,
+    stop: async () => {
+      stopping = true;
+      if (child.exitCode !== null || child.signalCode !== null) return;
+      child.kill("SIGTERM");
+      await new Promise((r) => child.once("exit", r));
+    },
+  };
+}
 
-async function explainMs(db: Db, q: ReturnType<typeof registerQuery>) {
-  const c = q.compile();
-  const r = await db.executeQuery<{ "QUERY PLAN": string }>({
-    ...c,
-    sql: `EXPLAIN (ANALYZE, FORMAT TEXT) ${c.sql}`,
-  } as any);
-  const line = r.rows.map((x: any) => Object.values(x)[0] as string).find((l) => l.startsWith("Execution Time"));
-  return Number(/([\d.]+) ms/.exec(line ?? "")?.[1] ?? NaN);
+function ask<T>(child: ChildProcess, message: string, type: string): Promise<T> {
+  return new Promise((resolve) => {
+    const on = (m: any) => {
+      if (m?.type !== type) return;
+      child.off("message", on);
+      resolve(m as T);
+    };
+    child.on("message", on);
+    child.send(message);
+  });
+}
+
+function rssOf(pid: number): number {
+  try {
+    const m = /VmRSS:\s+(\d+) kB/.exec(readFileSync(`/proc/${pid}/status`, "utf8"));
+    return m ? Number(m[1]) * 1024 : NaN;
+  } catch {
+    return NaN; // the process is gone; its exit is reported by startServer's listener
+  }
+}
+
+async function signIn(base: string, email: string) {
+  const r = await fetch(`${base}/api/auth/sign-in`, {
+    method: "POST",
+    headers: { "content-type": "application/json", origin: base },
+    body: JSON.stringify({ email, password: BENCH_PASSWORD }),
+  });
+  if (!r.ok) throw new Error(`sign-in answered ${r.status}`);
+  return r.headers.getSetCookie()[0].split(";")[0];
+}
+
+interface Case {
+  label: string;
+  path: string;
+  group: "register" | "summary";
+  plan?: Replay;
+  bytes?: number;
+}
+
+function cases(site: BenchSite, deepPage: number): Case[] {
+  const s = `/api/sites/${site.siteId}`;
+  return [
+    { group: "register", label: "register: ranked (default)", path: `${s}/defects?today=${TODAY}` },
+    { group: "register", label: "register: by due date", path: `${s}/defects?sort=dueOn&dir=asc&today=${TODAY}` },
+    {
+      group: "register",
+      label: "register: raised+scheduled, disabling",
+      path: `${s}/defects?status=raised&status=scheduled&severity=disabling&today=${TODAY}`,
+    },
+    { group: "register", label: "register: search 'verdigris'", path: `${s}/defects?q=verdigris&today=${TODAY}` },
+    {
+      group: "register",
+      label: `register: page ${deepPage} by title`,
+      path: `${s}/defects?sort=title&page=${deepPage}&today=${TODAY}`,
+    },
+    { group: "summary", label: "overview", path: `${s}/overview` },
+    { group: "summary", label: "board list", path: `${s}/boards` },
+    {
+      group: "summary",
+      label: `one board (${site.largestBoard.positions} positions)`,
+      path: `${s}/boards/${site.largestBoard.id}`,
+    },
+    { group: "summary", label: "wanted list, first page", path: `${s}/parts` },
+  ];
+}
+
+const keepAlive = new Agent({ keepAlive: true, maxSockets: 1 });
+
+/** GET with node:http on a keep-alive agent (one connection per agent = one client); the body is read whole. */
+function timedGet(base: string, path: string, cookie: string | null, agent: Agent = keepAlive) {
+  const a = performance.now();
+  return new Promise<{ ms: number; bytes: number }>((resolve, reject) => {
+    const req = request(`${base}${path}`, { agent, headers: cookie ? { cookie } : {} }, (res) => {
+      let bytes = 0;
+      const head: Buffer[] = [];
+      res.on("data", (c: Buffer) => {
+        bytes += c.length;
+        if (head.length < 1) head.push(c);
+      });
+      res.on("end", () =>
+        res.statusCode === 200
+          ? resolve({ ms: performance.now() - a, bytes })
+          : reject(new Error(`${path} answered ${res.statusCode}: ${Buffer.concat(head).toString().slice(0, 200)}`)),
+      );
+      res.on("error", reject);
+    });
+    req.on("error", reject);
+    req.end();
+  });
 }
 
 async function main() {
+  say(
+    `Tideline bench — ${new Date().toISOString().slice(0, 16)}Z, ${cpus().length} × ${cpus()[0]?.model.trim()}, ${(totalmem() / 2 ** 30).toFixed(0)} GiB, Node ${process.version}`,
+  );
+  say(`(the machine is shared: other processes ran beside this one; read the ratios, which are taken side by side)`);
   const local = await openLocalDatabase("test", "postgres");
-  const name = `tideline_bench_${randomBytes(4).toString("hex")}`;
-  await ensureDatabase(local.adminUrl, name, { fresh: true });
-  const db = createDb(local.adminUrl.replace(/\/postgres$/, `/${name}`), { ...MAINTENANCE_DB_OPTIONS, max: 10 });
+  const reuse = process.env.BENCH_DATABASE;
+  const name = reuse ?? `tideline_bench_${randomBytes(4).toString("hex")}`;
+  if (!reuse) await ensureDatabase(local.adminUrl, name, { fresh: true });
+  const url = local.adminUrl.replace(/\/postgres$/, `/${name}`);
+  const setup = createDb(url, { ...MAINTENANCE_DB_OPTIONS, max: 4 });
+  const raw = new pg.Pool({ connectionString: url, max: POOL });
+  let server: Awaited<ReturnType<typeof startServer>> | undefined;
+  let removeStatic = () => {};
   try {
-    await migrateToLatest(db);
-    const fx = await seed(db);
-    console.log(
-      `seeded ${POSITIONS} positions and ${DEFECTS} defects in ${(fx.seedMs / 1000).toFixed(1)} s (database ${name}); ${N} runs per query`,
+    await migrateToLatest(setup);
+    let site: BenchSite;
+    if (reuse) {
+      site = await describeSite(setup);
+      say(`\nReusing the generated site in ${name} (BENCH_DATABASE)`);
+    } else {
+      say(`\nGenerating a site of ${POSITIONS.toLocaleString("en")} positions on ${name}…`);
+      site = await generateSite(setup, POSITIONS, say);
+    }
+    say(
+      `seeded in ${(site.seedMs / 1000).toFixed(1)} s: ${Object.entries(site.counts)
+        .map(([k, v]) => `${v.toLocaleString("en")} ${k.replace(/_/g, " ")}`)
+        .join(", ")}`,
     );
-    const server = createApp({ db }).listen(0, "127.0.0.1");
-    await new Promise((r) => server.once("listening", r));
-    const base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
-    const signIn = await fetch(`${base}/api/auth/sign-in`, {
-      method: "POST",
-      headers: { "content-type": "application/json", origin: base },
-      body: JSON.stringify({ email: fx.curatorEmail, password: PASSWORD }),
-    });
-    const cookie = signIn.headers.getSetCookie()[0].split(";")[0];
-    const cases: Array<[string, string]> = [
-      ["ranked (20 pins), first page", "sort=priority&dir=desc"],
-      [
-        "raised+scheduled disabling, by due date",
-        "status=raised&status=scheduled&severity=disabling&sort=dueOn&dir=asc",
-      ],
-      ["text search 'verdigris', ranked", "q=verdigris&sort=priority"],
-      ["safety-critical, by effort", "flag=safety&sort=effortHours&dir=desc"],
-      ["one assignee, by board, page 20", `assignee=${fx.assignee}&sort=board&page=20`],
-      ["deep page 400 by title", "sort=title&dir=asc&page=400"],
-    ];
-    console.log(`\n${"query".padEnd(42)}  http p50  http p95   sql p50   sql p95  explain   rows/total`);
-    for (const [label, qs] of cases) {
-      const params = new URLSearchParams(qs);
-      const f = listQuery.parse(
-        Object.fromEntries(
-          [...new Set(params.keys())].map((k) => [k, params.getAll(k).length > 1 ? params.getAll(k) : params.get(k)]),
+    const clientDir = buildClient();
+    removeStatic = writeStaticPage(clientDir);
+    server = await startServer(url);
+    const { child, base } = server;
+    const cookie = await signIn(base, site.curatorEmail);
+
+    // Capture each endpoint's statements on an in-process copy of the app (same database, same session).
+    const capture = capturingDb(url);
+    const capAgent = new Agent({ keepAlive: false });
+    const app = createApp({ db: capture.db }).listen(0, "127.0.0.1");
+    await new Promise((r) => app.once("listening", r));
+    const capBase = `http://127.0.0.1:${(app.address() as AddressInfo).port}`;
+    const defects = site.counts.defects;
+    const list = cases(site, Math.max(1, Math.floor(defects / 25) - 5));
+    for (const c of list) {
+      await timedGet(capBase, c.path, cookie, capAgent); // warm (plans, caches)
+      capture.take();
+      c.bytes = (await timedGet(capBase, c.path, cookie, capAgent)).bytes;
+      c.plan = planReplay(capture.take());
+    }
+    app.closeAllConnections();
+    app.close();
+    await capture.close();
+
+    // 1. Endpoints against their statements replayed raw.
+    const perCase = new Map<string, { http: number[]; raw: number[]; ratio: number[] }>();
+    for (const c of list) perCase.set(c.label, { http: [], raw: [], ratio: [] });
+    for (let run = 0; run < RUNS; run++) {
+      for (const c of list) {
+        const http: number[] = [];
+        const rawMs: number[] = [];
+        for (let i = 0; i < N + 2; i++) {
+          const h = await timedGet(base, c.path, cookie);
+          const a = performance.now();
+          await replay(raw, c.plan!);
+          const r = performance.now() - a;
+          if (i >= 2) {
+            http.push(h.ms);
+            rawMs.push(r);
+          }
+        }
+        const f = perCase.get(c.label)!;
+        f.http.push(median(http));
+        f.raw.push(median(rawMs));
+        f.ratio.push(median(http) / median(rawMs));
+      }
+    }
+    say(
+      `\n1. Endpoints vs the same statements replayed raw (pg) — p50 per run of ${N} requests; median [min–max] over ${RUNS} runs`,
+    );
+    say(
+      table(
+        ["endpoint", "stmts", "JSON kB", "endpoint p50 ms", "raw SQL p50 ms", "ratio"],
+        list.map((c) => {
+          const f = perCase.get(c.label)!;
+          return [
+            c.label,
+            String(c.plan!.count),
+            (c.bytes! / 1024).toFixed(0),
+            spread(f.http),
+            spread(f.raw),
+            spread(f.ratio, 2),
+          ];
+        }),
+      ),
+    );
+
+    // 2. Concurrency on the register, with /api/health and the event-loop delay.
+    const reg = list.filter((c) => c.group === "register");
+    const load = { rps: [] as number[], rawRps: [] as number[], errors: [] as number[], p95: [] as number[] };
+    const health = { p50: [] as number[], p95: [] as number[], max: [] as number[] };
+    const eld = { p99: [] as number[], max: [] as number[] };
+    for (let run = 0; run < RUNS; run++) {
+      const agents = Array.from({ length: CLIENTS }, () => new Agent({ keepAlive: true, maxSockets: 1 }));
+      await ask(child, "eld-reset", "eld-reset");
+      const until = performance.now() + SECONDS * 1000;
+      let done = 0;
+      let errors = 0;
+      const lat: number[] = [];
+      const hl: number[] = [];
+      const healthAgent = new Agent({ keepAlive: true, maxSockets: 1 });
+      const prober = (async () => {
+        while (performance.now() < until) {
+          const a = performance.now();
+          await timedGet(base, "/api/health", null, healthAgent).catch(() => undefined);
+          hl.push(performance.now() - a);
+          await new Promise((r) => setTimeout(r, 100));
+        }
+      })();
+      const t0 = performance.now();
+      await Promise.all(
+        Array.from({ length: CLIENTS }, async (_, k) => {
+          for (let i = k; performance.now() < until; i++) {
+            try {
+              lat.push((await timedGet(base, reg[i % reg.length].path, cookie, agents[k])).ms);
+              done++;
+            } catch {
+              errors++;
+            }
+          }
+        }),
+      );
+      const secs = (performance.now() - t0) / 1000;
+      await prober;
+      const e = await ask<{ p99: number; max: number }>(child, "eld-read", "eld");
+      for (const ag of agents) ag.destroy();
+      healthAgent.destroy();
+      let rawDone = 0;
+      const rawUntil = performance.now() + SECONDS * 1000;
+      const r0 = performance.now();
+      await Promise.all(
+        Array.from({ length: CLIENTS }, async (_, k) => {
+          for (let i = k; performance.now() < rawUntil; i++) {
+            await replay(raw, reg[i % reg.length].plan!);
+            rawDone++;
+          }
+        }),
+      );
+      const rawSecs = (performance.now() - r0) / 1000;
+      load.rps.push(done / secs);
+      load.rawRps.push(rawDone / rawSecs);
+      load.errors.push(errors);
+      load.p95.push(percentile(lat, 95));
+      health.p50.push(percentile(hl, 50));
+      health.p95.push(percentile(hl, 95));
+      health.max.push(Math.max(...hl));
+      eld.p99.push(e.p99);
+      eld.max.push(e.max);
+    }
+    say(
+      `\n2. ${CLIENTS} clients on the register (the five cases above in turn) for ${SECONDS} s; raw = as many workers replaying the same statements on a pool of ${POOL}`,
+    );
+    say(
+      table(
+        ["figure", "median [min–max]"],
+        [
+          ["requests/s over HTTP", spread(load.rps)],
+          ["requests/s raw SQL", spread(load.rawRps)],
+          [
+            "ratio HTTP / raw",
+            spread(
+              load.rps.map((x, i) => x / load.rawRps[i]),
+              2,
+            ),
+          ],
+          ["errors", spread(load.errors, 0)],
+          ["register p95 ms", spread(load.p95)],
+          ["/api/health p50 ms", spread(health.p50)],
+          ["/api/health p95 ms", spread(health.p95)],
+          ["/api/health max ms", spread(health.max)],
+          ["event-loop delay p99 ms", spread(eld.p99)],
+          ["event-loop delay max ms", spread(eld.max)],
+        ],
+      ),
+    );
+
+    // 3. CSV export of every defect vs COPY of the same SELECT.
+    const compiled = applySort(
+      registerBase(setup, site.siteId).select(ROW_COLUMNS as any),
+      "priority",
+      "desc",
+    ).compile();
+    const literal = (v: unknown) => `'${String(v).replace(/'/g, "''")}'`;
+    const copySql = `COPY (${compiled.sql.replace(/\$(\d+)/g, (_, n) => literal(compiled.parameters[Number(n) - 1]))}) TO STDOUT WITH (FORMAT csv, HEADER)`;
+    const csv = {
+      secs: [] as number[],
+      copy: [] as number[],
+      ratio: [] as number[],
+      mb: [] as number[],
+      rss: [] as number[],
+    };
+    for (let run = 0; run < RUNS; run++) {
+      const pid = child.pid!;
+      const rss0 = rssOf(pid);
+      let peak = rss0;
+      const sampler = setInterval(() => (peak = Math.max(peak, rssOf(pid))), 10);
+      const a = performance.now();
+      const res = await fetch(`${base}/api/sites/${site.siteId}/defects.csv?sort=priority`, { headers: { cookie } });
+      let bytes = 0;
+      for await (const chunk of res.body as unknown as AsyncIterable<Uint8Array>) bytes += chunk.length;
+      const secs = (performance.now() - a) / 1000;
+      clearInterval(sampler);
+      const b = performance.now();
+      const psql = spawnSync(join(pgBin(), "psql"), [url, "-X", "-q", "-c", copySql], {
+        maxBuffer: 1 << 30,
+        encoding: "buffer",
+      });
+      if (psql.status !== 0) throw new Error(`COPY failed: ${psql.stderr}`);
+      const copySecs = (performance.now() - b) / 1000;
+      csv.secs.push(secs);
+      csv.copy.push(copySecs);
+      csv.ratio.push(secs / copySecs);
+      csv.mb.push(bytes / 1e6);
+      csv.rss.push((peak - rss0) / 1e6);
+    }
+    say(`\n3. CSV export of all ${defects.toLocaleString("en")} defects vs COPY (same SELECT) TO STDOUT through psql`);
+    say(
+      table(
+        ["figure", "median [min–max]"],
+        [
+          ["export s", spread(csv.secs, 2)],
+          ["COPY s", spread(csv.copy, 2)],
+          ["ratio export / COPY", spread(csv.ratio, 2)],
+          ["export MB", spread(csv.mb, 2)],
+          ["server peak RSS growth MB", spread(csv.rss)],
+        ],
+      ),
+    );
+
+    // 4. Page paint on a phone with a 4 × slower CPU.
+    if (process.env.BENCH_PAINT !== "0") {
+      const browser = await openBrowser();
+      const pages: Array<[string, string, boolean]> = [
+        ["static page (baseline)", `/${STATIC_PAGE}`, false],
+        ["sign-in page", "/sign-in", false],
+        ["overview", `/sites/${site.siteId}`, true],
+        [
+          `board (${site.largestBoard.positions} positions)`,
+          `/sites/${site.siteId}/boards/${site.largestBoard.id}`,
+          true,
+        ],
+        ["defect register", `/sites/${site.siteId}/defects`, true],
+        ["wanted list", `/sites/${site.siteId}/parts`, true],
+      ];
+      const figures = new Map<string, PaintFigures[]>();
+      try {
+        for (let run = 0; run < RUNS; run++)
+          for (const [label, path, signed] of pages)
+            figures.set(label, [
+              ...(figures.get(label) ?? []),
+              await measurePaint(browser, base, path, signed ? cookie : null),
+            ]);
+      } finally {
+        await browser.close();
+      }
+      const staticLcp = median(figures.get(pages[0][0])!.map((f) => f.lcp));
+      say(
+        `\n4. Page paint, phone profile (360 × 740, 2 × density, touch), CPU 4 × slower, cold cache; ${RUNS} loads each`,
+      );
+      say(
+        table(
+          ["page", "LCP ms", "LCP / static", "CLS", "longest task ms", "blocking ms"],
+          pages.map(([label]) => {
+            const f = figures.get(label)!;
+            return [
+              label,
+              spread(
+                f.map((x) => x.lcp),
+                0,
+              ),
+              (median(f.map((x) => x.lcp)) / staticLcp).toFixed(2),
+              spread(
+                f.map((x) => x.cls),
+                3,
+              ),
+              spread(
+                f.map((x) => x.longestTask),
+                0,
+              ),
+              spread(
+                f.map((x) => x.blocking),
+                0,
+              ),
+            ];
+          }),
         ),
       );
-      const http: number[] = [];
-      const raw: number[] = [];
-      let shape = "";
-      for (let i = 0; i < N + 3; i++) {
-        const a = performance.now();
-        const r = await fetch(`${base}/api/sites/${fx.siteId}/defects?${qs}&today=${TODAY}`, { headers: { cookie } });
-        const body = (await r.json()) as { rows: unknown[]; total: number };
-        const b = performance.now();
-        await listPage(db, fx.siteId, f, TODAY);
-        const c = performance.now();
-        if (i >= 3) {
-          http.push(b - a);
-          raw.push(c - b);
-        }
-        shape = `${body.rows.length}/${body.total}`;
-      }
-      const ex = await explainMs(
-        db,
-        registerQuery(db, fx.siteId, f, TODAY)
-          .clearSelect()
-          .select("d.id")
-          .limit(f.size)
-          .offset(f.page * f.size) as any,
-      );
-      console.log(
-        `${label.padEnd(42)} ${ms(pct(http, 50))}   ${ms(pct(http, 95))}   ${ms(pct(raw, 50))}   ${ms(pct(raw, 95))}  ${ms(ex)}   ${shape}`,
-      );
     }
-    const rss0 = process.memoryUsage().rss;
-    const a = performance.now();
-    const res = await fetch(`${base}/api/sites/${fx.siteId}/defects.csv?sort=priority`, { headers: { cookie } });
-    let bytes = 0;
-    let lines = 0;
-    for await (const chunk of res.body as unknown as AsyncIterable<Uint8Array>) {
-      bytes += chunk.length;
-      for (const x of chunk) if (x === 10) lines++;
-    }
-    const secs = (performance.now() - a) / 1000;
-    const rows = lines - 1; // header line; descriptions hold no newlines in the bench data
-    console.log(
-      `\nCSV export of all ${rows} defects: ${(bytes / 1e6).toFixed(2)} MB in ${secs.toFixed(2)} s → ${Math.round(rows / secs)} rows/s, ${(bytes / 1e6 / secs).toFixed(2)} MB/s (process RSS grew ${((process.memoryUsage().rss - rss0) / 1e6).toFixed(1)} MB)`,
+    say(
+      "\n(endpoint = over HTTP from this process to the server process, signed in, whole body read; raw = the statements the endpoint issued, captured from an in-process copy of the app, replayed with pg; ratio = endpoint p50 / raw p50 of the same run)",
     );
-    console.log(
-      "(all times in ms; http = endpoint over HTTP incl. session check and JSON; sql = the same rows+count queries through Kysely; explain = EXPLAIN ANALYZE execution time of the page-of-ids query)",
-    );
-    server.closeAllConnections();
-    server.close();
   } finally {
-    await db.destroy();
-    if (process.env.BENCH_KEEP) {
-      console.log(`kept ${name} (BENCH_KEEP)`);
-      return local.stop();
+    removeStatic();
+    await server?.stop();
+    await raw.end();
+    await setup.destroy();
+    if (process.env.BENCH_KEEP || reuse) say(`kept ${name} (BENCH_KEEP / BENCH_DATABASE)`);
+    else {
+      const c = new pg.Client({ connectionString: local.adminUrl });
+      await c.connect();
+      await c.query(`DROP DATABASE IF EXISTS "${name}" WITH (FORCE)`);
+      await c.end();
+      say(`dropped ${name}`);
     }
-    const c = new pg.Client({ connectionString: local.adminUrl });
-    await c.connect();
-    await c.query(`DROP DATABASE IF EXISTS "${name}" WITH (FORCE)`);
-    await c.end();
     local.stop();
-    console.log(`dropped ${name}`);
   }
 }
 

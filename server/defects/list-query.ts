@@ -178,18 +178,83 @@ export function applySort<QB extends SelectQueryBuilder<any, any, any>>(
 }
 
 /**
+ * The ids of one page in the ranked order (issue 15), index-served. Defects no pin moves rank by
+ * their own keys — safety-critical, score, created, id — which the index
+ * `defects_site_safety_rank_idx` (migration 2026_12_02_1700) returns in order, so that branch
+ * stops after the page's last row instead of sorting the whole site; the few pinned defects take
+ * their target's keys (RANK_KEYS) in a second branch. Both branches compute the same eleven keys
+ * the single query ordered by, so the merged order — and every tie — is exactly the ranked order
+ * of `rankDefects()` (tests/server/defects*.api.test.ts check it on pinned data).
+ */
+function rankedPageIds(db: Db, siteId: string, f: ListQuery, today: string) {
+  const reverse = f.dir !== "desc";
+  const want = (f.page + 1) * f.size;
+  const dir = (d: "ASC" | "DESC") => sql.raw(reverse ? flip(d) : d);
+  const keyNames = RANK_KEYS.map((_, i) => `k${i + 1}`);
+  // Unpinned: every rank key reduces to the defect's own (t is NULL; see RANK_KEYS).
+  const ownKeys = [
+    sql`d.safety_critical`,
+    sql`d.priority_score`,
+    sql`d.created_at`,
+    sql`d.id`,
+    sql`0`,
+    sql`d.safety_critical`,
+    sql`d.priority_score`,
+    sql`d.created_at`,
+    sql`NULL::timestamptz`,
+    sql`d.id`,
+    sql`NULL::uuid`,
+  ];
+  const own = applyFilters(
+    db
+      .selectFrom("defects as d")
+      .leftJoin("defectPins as pin", (j) => j.onRef("pin.defectId", "=", "d.id").on("pin.removedAt", "is", null))
+      .where("d.siteId", "=", siteId)
+      .where("pin.id", "is", null),
+    f,
+    today,
+    siteId,
+  )
+    .select((eb) => [eb.ref("d.id").as("id"), ...ownKeys.map((k, i) => k.as(keyNames[i]))])
+    .orderBy(
+      sql`d.safety_critical ${dir("DESC")}, d.priority_score ${dir("DESC")}, d.created_at ${dir("ASC")}, d.id ${dir("ASC")}`,
+    )
+    .limit(want);
+  const pinned = applyFilters(registerBase(db, siteId).where("pin.id", "is not", null), f, today, siteId)
+    .select((eb) => [eb.ref("d.id").as("id"), ...RANK_KEYS.map(([k], i) => k.as(keyNames[i]))])
+    .orderBy(rankOrderSql(reverse))
+    .limit(want);
+  return db
+    .selectFrom(
+      db
+        .selectFrom(own.as("o"))
+        .selectAll()
+        .unionAll(db.selectFrom(pinned.as("p")).selectAll())
+        .as("u"),
+    )
+    .select("u.id")
+    .orderBy(sql.join(RANK_KEYS.map(([, d], i) => sql`${sql.ref(`u.${keyNames[i]}`)} ${dir(d)}`)))
+    .limit(f.size)
+    .offset(f.page * f.size);
+}
+
+/**
  * The register's page plus the total under the same filters. The page is found first as
  * ids only (narrow sort, often an index scan), then its rows are read with every column.
  */
 export async function listPage(db: Db, siteId: string, f: ListQuery, today: string) {
-  const idsQ = applySort(applyFilters(registerBase(db, siteId), f, today, siteId), f.sort, f.dir)
-    .select("d.id")
-    .limit(f.size)
-    .offset(f.page * f.size);
+  const idsQ =
+    f.sort === "priority"
+      ? rankedPageIds(db, siteId, f, today)
+      : applySort(applyFilters(registerBase(db, siteId), f, today, siteId), f.sort, f.dir)
+          .select("d.id")
+          .limit(f.size)
+          .offset(f.page * f.size);
   const countQ = applyFilters(countBase(db, siteId, f), f, today, siteId).select((eb) =>
     eb.fn.countAll<number>().as("n"),
   );
-  const [ids, count] = await Promise.all([idsQ.execute(), countQ.executeTakeFirstOrThrow()]);
+  const [idRows, count] = await Promise.all([idsQ.execute(), countQ.executeTakeFirstOrThrow()]);
+  const ids = idRows as Array<{ id: string }>;
   const rows = ids.length
     ? ((await registerBase(db, siteId)
         .select(ROW_COLUMNS as any)

@@ -1,11 +1,18 @@
-/** Writes a checked import in one transaction: any bad row (re-checked inside it) writes nothing. */
-import type { Insertable } from "kysely";
+/**
+ * Writes a checked import in one transaction: the plan is made again inside it, any bad row
+ * writes nothing, and a plan that differs from the preview the person saw (someone changed the
+ * inventory in between) is refused with 409 and the fresh preview. Updates go through the
+ * versioned UPDATE, so an edit made while the commit runs is never overwritten either.
+ */
+import { sql, type Insertable } from "kysely";
 import type { AuditLogTable } from "../../db/types";
 import type { ImportResponse } from "../../src/schemas/inventory";
 import type { Db } from "../db";
 import { AppError } from "../errors";
-import { UNIQUE, mapUnique } from "./common";
-import { validateImport } from "./csv-import";
+import { demandChanged } from "../parts/service";
+import type { DecodedText } from "../csv-read";
+import { UNIQUE, mapUnique, updateVersioned } from "./common";
+import { validateImport, type PlannedRow } from "./csv-import";
 import type { ImportRecord } from "./csv-row";
 
 /** 400 import_invalid with every row's errors, flattened to fields "<line>.<column>" too. */
@@ -18,6 +25,17 @@ export class ImportInvalid extends AppError {
       "import_invalid",
       `${result.summary.failed} of ${result.summary.rows} rows need fixing; nothing was imported.`,
       fields,
+    );
+  }
+}
+
+/** 409 import_changed: the inventory moved since the preview; the body carries the fresh preview. */
+export class ImportChanged extends AppError {
+  constructor(public result: ImportResponse) {
+    super(
+      409,
+      "import_changed",
+      "The inventory changed since you checked this file (someone edited a position it touches). Nothing was imported: check the new preview and import again.",
     );
   }
 }
@@ -65,14 +83,36 @@ async function ensureBoards(
   return new Map([...boards, ...created]);
 }
 
-export async function commitImport(db: Db, siteId: string, actorId: string, text: string): Promise<ImportResponse> {
+export async function commitImport(
+  db: Db,
+  siteId: string,
+  actorId: string,
+  decoded: DecodedText,
+  expect?: string,
+): Promise<ImportResponse> {
   return db.transaction().execute(async (trx) => {
-    const { response, records, state } = await validateImport(trx, siteId, text);
+    // One import at a time per site: two files planned against the same inventory would each pass alone.
+    await sql`SELECT pg_advisory_xact_lock(hashtext('inventory-import'), hashtext(${siteId}))`.execute(trx);
+    const { response, planned, state } = await validateImport(trx, siteId, decoded);
+    // The person confirmed a plan they saw: if it is not the plan now, show them the new one first.
+    if (expect && expect !== response.summary.planDigest) throw new ImportChanged(response);
     if (response.summary.failed > 0) throw new ImportInvalid(response);
-    if (records.length === 0)
+    if (planned.length === 0)
       throw new AppError(400, "invalid_input", "The file has a header but no rows.", { csv: "No rows to import" });
+    // Two rows may swap grid cells: the one-per-cell rule is checked at commit (the plan checked the end state).
+    await sql`SET CONSTRAINTS positions_one_per_cell DEFERRED`.execute(trx);
     const audit: Insertable<AuditLogTable>[] = [];
-    const boards = await ensureBoards(trx, siteId, records, state.boards, audit, actorId);
+    const creates = planned.filter((x) => x.row.action === "create");
+    const updates = planned.filter((x) => x.row.action === "update");
+    const records = planned.filter((x) => x.record && x.row.action !== "unchanged").map((x) => x.record!);
+    const boards = await ensureBoards(
+      trx,
+      siteId,
+      creates.map((x) => x.record!),
+      state.boards,
+      audit,
+      actorId,
+    );
     const sectionIds = new Map(state.sectionIds);
     for (const r of records) {
       const boardId = boards.get(key(r.board))!.id;
@@ -85,78 +125,181 @@ export async function commitImport(db: Db, siteId: string, actorId: string, text
         .executeTakeFirstOrThrow();
       sectionIds.set(sk, s.id);
     }
-    const positions = await mapUnique(
-      () =>
-        chunked(records, (part, offset) =>
-          trx
-            .insertInto("positions")
-            .values(
-              part.map((r, j) => {
-                const i = offset + j;
-                const boardId = boards.get(key(r.board))!.id;
-                return {
-                  siteId,
-                  boardId,
-                  sectionId: r.section ? (sectionIds.get(`${boardId}|${key(r.section)}`) ?? null) : null,
-                  designation: r.designation,
-                  kind: r.kind,
-                  gridRow: r.gridRow,
-                  gridCol: r.gridCol,
-                  rowSpan: r.rowSpan,
-                  colSpan: r.colSpan,
-                  circuit: r.circuit,
-                  sortOrder: 10_000 + i,
-                };
-              }),
-            )
-            .returning(["id", "boardId", "designation"])
-            .execute(),
-        ),
-      UNIQUE.designation,
-    );
-    await mapUnique(
-      () =>
-        chunked(records, (part, offset) =>
-          trx
-            .insertInto("components")
-            .values(
-              part.map((r, j) => {
-                const i = offset + j;
-                const {
-                  board: _b,
-                  section: _s,
-                  designation: _d,
-                  gridRow: _r,
-                  gridCol: _c,
-                  rowSpan: _rs,
-                  colSpan: _cs,
-                  circuit: _ci,
-                  ...nameplate
-                } = r;
-                return { siteId, positionId: positions[i].id, ...nameplate };
-              }),
-            )
-            .execute(),
-        ),
-      UNIQUE.tag,
-    );
-    positions.forEach((p, i) =>
-      audit.push({
-        siteId,
-        entityType: "position",
-        entityId: p.id,
-        boardId: p.boardId,
-        positionId: p.id,
-        action: "create",
-        actorId,
-        after: JSON.stringify({ ...records[i], source: "csv import" }),
-      }),
-    );
+    const sectionOf = (boardId: string, name: string | null) =>
+      name ? (sectionIds.get(`${boardId}|${key(name)}`) ?? null) : null;
+
+    await writeCreates(trx, siteId, actorId, creates, boards, sectionOf, audit);
+    const componentIds = await writeUpdates(trx, siteId, actorId, updates, sectionOf, audit);
     for (let i = 0; i < audit.length; i += 1000)
       await trx
         .insertInto("auditLog")
         .values(audit.slice(i, i + 1000))
         .execute();
+    if (componentIds.length) await demandChanged(trx, siteId, { componentIds }, actorId); // nameplates move wanted-list demand
     return { rows: response.rows, summary: { ...response.summary, committed: true } };
   });
 }
+
+async function writeCreates(
+  trx: Db,
+  siteId: string,
+  actorId: string,
+  creates: PlannedRow[],
+  boards: Map<string, { id: string }>,
+  sectionOf: (boardId: string, name: string | null) => string | null,
+  audit: Insertable<AuditLogTable>[],
+) {
+  const records = creates.map((x) => x.record!);
+  if (!records.length) return;
+  const positions = await mapUnique(
+    () =>
+      chunked(records, (part, offset) =>
+        trx
+          .insertInto("positions")
+          .values(
+            part.map((r, j) => {
+              const boardId = boards.get(key(r.board))!.id;
+              return {
+                siteId,
+                boardId,
+                sectionId: sectionOf(boardId, r.section),
+                designation: r.designation,
+                kind: r.kind,
+                gridRow: r.gridRow,
+                gridCol: r.gridCol,
+                rowSpan: r.rowSpan,
+                colSpan: r.colSpan,
+                circuit: r.circuit,
+                sortOrder: 10_000 + offset + j,
+              };
+            }),
+          )
+          .returning(["id", "boardId", "designation"])
+          .execute(),
+      ),
+    UNIQUE.designation,
+  );
+  await mapUnique(
+    () =>
+      chunked(records, (part, offset) =>
+        trx
+          .insertInto("components")
+          .values(
+            part.map((r, j) => {
+              const {
+                board: _b,
+                section: _s,
+                designation: _d,
+                gridRow: _r,
+                gridCol: _c,
+                rowSpan: _rs,
+                colSpan: _cs,
+                circuit: _ci,
+                ...nameplate
+              } = r;
+              return { siteId, positionId: positions[offset + j].id, ...nameplate };
+            }),
+          )
+          .execute(),
+      ),
+    UNIQUE.tag,
+  );
+  positions.forEach((p, i) =>
+    audit.push({
+      siteId,
+      entityType: "position",
+      entityId: p.id,
+      boardId: p.boardId,
+      positionId: p.id,
+      action: "create",
+      actorId,
+      after: JSON.stringify({ ...records[i], source: "csv import" }),
+    }),
+  );
+}
+
+/** Each changed position and component through the versioned UPDATE (a concurrent edit → 409, nothing written). */
+async function writeUpdates(
+  trx: Db,
+  siteId: string,
+  actorId: string,
+  updates: PlannedRow[],
+  sectionOf: (boardId: string, name: string | null) => string | null,
+  audit: Insertable<AuditLogTable>[],
+) {
+  const componentIds: string[] = [];
+  for (const x of updates) {
+    const cur = x.current!;
+    const { section, ...rest } = x.positionPatch;
+    const positionPatch: Record<string, unknown> = { ...rest };
+    if ("section" in x.positionPatch) positionPatch.sectionId = sectionOf(cur.boardId, (section as string) || null);
+    const componentPatch: Record<string, unknown> = { ...x.componentPatch };
+    if ("tagNumber" in componentPatch) componentPatch.tagNumber = componentPatch.tagNumber || null;
+    // A slot set up with the wrong kind: its component follows, unless it already had a kind of its own.
+    if (rest.kind && cur.componentId && cur.componentKind === cur.kind) componentPatch.kind = rest.kind;
+    const base = { siteId, boardId: cur.boardId, positionId: cur.id, action: "update" as const, actorId };
+    if (Object.keys(positionPatch).length) {
+      await mapUnique(
+        () => updateVersioned(trx, "positions", siteId, cur.id, cur.version, positionPatch, "position"),
+        UNIQUE.designation,
+      );
+      audit.push({
+        ...base,
+        entityType: "position",
+        entityId: cur.id,
+        before: JSON.stringify(Object.fromEntries(Object.keys(x.positionPatch).map((k) => [k, before(cur, k)]))),
+        after: JSON.stringify({ ...x.positionPatch, source: "csv import" }),
+      });
+    }
+    if (Object.keys(componentPatch).length) {
+      if (cur.componentId) {
+        await mapUnique(
+          () =>
+            updateVersioned(
+              trx,
+              "components",
+              siteId,
+              cur.componentId!,
+              cur.componentVersion!,
+              componentPatch,
+              "component",
+            ),
+          UNIQUE.tag,
+        );
+        componentIds.push(cur.componentId);
+        audit.push({
+          ...base,
+          entityType: "component",
+          entityId: cur.componentId,
+          before: JSON.stringify(
+            Object.fromEntries(
+              Object.keys(componentPatch).map((k) => [k, k === "kind" ? cur.componentKind : before(cur, k)]),
+            ),
+          ),
+          after: JSON.stringify({ ...componentPatch, source: "csv import" }),
+        });
+      } else {
+        const c = await mapUnique(
+          () =>
+            trx
+              .insertInto("components")
+              .values({ siteId, positionId: cur.id, kind: (rest.kind as never) ?? cur.kind, ...componentPatch })
+              .returning("id")
+              .executeTakeFirstOrThrow(),
+          UNIQUE.tag,
+        );
+        componentIds.push(c.id);
+        audit.push({
+          ...base,
+          entityType: "component",
+          entityId: c.id,
+          action: "create",
+          after: JSON.stringify({ ...componentPatch, source: "csv import" }),
+        });
+      }
+    }
+  }
+  return componentIds;
+}
+
+const before = (cur: PlannedRow["current"], k: string) => (cur as unknown as Record<string, unknown>)[k];

@@ -1,19 +1,26 @@
 /**
  * GET /inventory.csv: the site's inventory as RFC 4180 CSV (CRLF, quoted where needed),
- * UTF-8 with a BOM so spreadsheets pick the encoding, formula-like cells guarded.
+ * UTF-8 with a BOM so spreadsheets pick the encoding, formula-like cells guarded, text a
+ * spreadsheet would turn into a number or date kept as text (server/csv.ts textCell), and
+ * times in the site's local time with the zone in the header. The file is made to come back:
+ * position_id and row_version let the import update each position instead of adding it again.
  * Streamed in keyset-paged batches: the pg driver here has no cursor package, so
  * Kysely's .stream() is not available; pages of 500 keep memory flat all the same.
  */
 import type { Response } from "express";
 import { sql } from "kysely";
 import Papa from "papaparse";
+import { localDateTime, localHeader } from "../../src/domain/local-time";
 import { CSV_EXPORT_EXTRA_COLUMNS, CSV_IMPORT_COLUMNS } from "../../src/schemas/inventory";
 import type { Db } from "../db";
-import { RISKY } from "../csv";
+import { textCell } from "../csv";
 import { readPage, runExport } from "../export-stream";
 
 const PAGE = 500;
-export const EXPORT_COLUMNS = [...CSV_IMPORT_COLUMNS, ...CSV_EXPORT_EXTRA_COLUMNS];
+export const EXPORT_COLUMNS = ["position_id", ...CSV_IMPORT_COLUMNS, "row_version", ...CSV_EXPORT_EXTRA_COLUMNS];
+/** The header as written: the local-time column names its zone. */
+export const exportHeader = (timeZone: string) =>
+  EXPORT_COLUMNS.map((c) => (c === "latest_inspected_at" ? localHeader(c, timeZone) : c));
 
 type Key = { boardName: string; boardId: string; sortOrder: number; id: string };
 
@@ -40,6 +47,8 @@ const page = (db: Db, siteId: string, after: Key | null) =>
       "b.id as boardId",
       "p.sortOrder",
       "p.id",
+      "p.version",
+      "c.version as componentVersion",
       "s.name as section",
       "p.designation",
       "p.kind",
@@ -87,53 +96,57 @@ const page = (db: Db, siteId: string, after: Key | null) =>
 
 type ExportRow = Awaited<ReturnType<typeof page>>[number];
 
-const cells = (r: ExportRow) => [
-  r.boardName,
-  r.section ?? "",
-  r.designation,
+/** Text cells go through textCell (CSV-injection guard, or ="007" for text a spreadsheet would convert); numbers stay numbers. */
+const t = (v: string | null | undefined) => textCell(v ?? "");
+const cells = (r: ExportRow, timeZone: string) => [
+  r.id,
+  t(r.boardName),
+  t(r.section),
+  t(r.designation),
   r.kind,
   r.gridRow,
   r.gridCol,
   r.rowSpan,
   r.colSpan,
-  r.circuit,
-  r.maker,
-  r.model,
-  r.frame,
-  r.mounting,
+  t(r.circuit),
+  t(r.maker),
+  t(r.model),
+  t(r.frame),
+  t(r.mounting),
   r.ratingAmps,
   r.poles,
   r.voltageRating,
   r.interruptingKa,
-  r.serial,
+  t(r.serial),
   r.year,
-  r.meterRange,
+  t(r.meterRange),
   r.lampWatts,
   r.heritage,
-  r.tagNumber,
-  r.notes,
+  t(r.tagNumber),
+  t(r.notes),
+  `p${r.version}${r.componentVersion === null ? "" : `c${r.componentVersion}`}`,
   r.custody,
-  r.custodyLocation,
+  t(r.custodyLocation),
   r.disposition,
   r.dispositionOverridden === null ? "" : r.dispositionOverridden ? "yes" : "no",
   r.percentRusted,
   r.astmGrade,
   r.isoRi,
-  r.inspectedAt ? new Date(r.inspectedAt).toISOString() : "",
+  localDateTime(r.inspectedAt, timeZone),
 ];
 
-const unparse = (rows: unknown[][]) => Papa.unparse(rows, { newline: "\r\n", escapeFormulae: RISKY }) + "\r\n";
+const unparse = (rows: unknown[][]) => Papa.unparse(rows, { newline: "\r\n" }) + "\r\n";
 
-export async function streamInventoryCsv(db: Db, siteId: string, fileName: string, res: Response) {
+export async function streamInventoryCsv(db: Db, siteId: string, timeZone: string, fileName: string, res: Response) {
   res.setHeader("Content-Type", "text/csv; charset=utf-8");
   res.setHeader("Content-Disposition", `attachment; filename="${fileName}"`);
   await runExport(res, async (out) => {
-    await out.write("\uFEFF" + unparse([EXPORT_COLUMNS]));
+    await out.write("\uFEFF" + unparse([exportHeader(timeZone)]));
     let after: Key | null = null;
     for (;;) {
       // Each page is its own short query: no connection is held while the socket drains.
       const rows = await readPage(() => page(db, siteId, after));
-      if (rows.length) await out.write(unparse(rows.map(cells)));
+      if (rows.length) await out.write(unparse(rows.map((r) => cells(r, timeZone))));
       if (rows.length < PAGE) break;
       const last = rows[rows.length - 1];
       after = { boardName: last.boardName, boardId: last.boardId, sortOrder: last.sortOrder, id: last.id };

@@ -1,23 +1,29 @@
 /**
- * POST /inventory/import: papaparse reads the file, each row is checked with zod, then
- * against the rest of the file and the database (duplicate designations per board, two
- * positions on one grid cell, duplicate tag numbers per site, the grid of an existing
- * board). Unknown boards and
- * sections are created — the file is the crew's existing inventory, often of boards not
- * yet set up — and listed in the summary so the preview shows it. Preview writes nothing;
- * commit re-checks inside one transaction and writes all rows or none.
+ * POST /inventory/import: the crew's spreadsheet, read as it was saved (encoding and
+ * separator detected and reported, server/csv-read.ts), each row checked with zod, then
+ * matched to an existing position — by the export's position_id, else board + designation,
+ * else tag number — and planned as create / update (old → new per column) / unchanged /
+ * problem. Checks run on the inventory as it would be after the import (designations per
+ * board, tag numbers per site, one position per grid cell, the grid of an existing board),
+ * so two rows may swap cells. Unknown boards and sections are created and listed. Custody and
+ * disposition are never applied by a file: a row that changes them lists them as ignored.
+ * Preview writes nothing; commit re-plans inside one transaction and writes all or nothing.
  */
+import { createHash } from "node:crypto";
 import Papa from "papaparse";
-import { sql } from "kysely";
 import {
   CSV_EXPORT_EXTRA_COLUMNS,
   CSV_IMPORT_COLUMNS,
+  CSV_KEY_COLUMNS,
+  CSV_NOT_APPLIED_COLUMNS,
+  type ImportAction,
   type ImportResponse,
   type ImportRow,
 } from "../../src/schemas/inventory";
 import type { Db } from "../db";
 import { AppError } from "../errors";
-import { unguardCell } from "../csv";
+import { readTextCell } from "../csv";
+import { guessSeparator, type DecodedText } from "../csv-read";
 import { csvRowSchema, toRecord, type ImportRecord } from "./csv-row";
 
 interface Parsed {
@@ -26,28 +32,43 @@ interface Parsed {
 }
 const REQUIRED = ["board", "designation", "kind", "grid_row", "grid_col"];
 const key = (s: string) => s.trim().toLowerCase();
+/** "Latest inspected at (America/Halifax)" → latest_inspected_at: the zone note is the export's, not the name. */
+export const normaliseHeader = (h: string) =>
+  h
+    .replace(/^\uFEFF/, "")
+    .trim()
+    .toLowerCase()
+    .replace(/\s*\([^)]*\)\s*$/, "")
+    .replace(/\s+/g, "_");
+
+const KNOWN = new Set<string>([...CSV_KEY_COLUMNS, ...CSV_IMPORT_COLUMNS, ...CSV_EXPORT_EXTRA_COLUMNS]);
 
 /** Rows with the line each starts on (a quoted cell may span lines, so lines are counted, not rows). */
-export function parseCsv(text: string): { rows: Parsed[]; ignoredColumns: string[] } {
-  const src = text.replace(/^\uFEFF/, "");
+export function parseCsv(decoded: DecodedText) {
+  const src = decoded.text.replace(/^\uFEFF/, "");
+  const separator = guessSeparator(src);
   const raw: { data: string[]; start: number }[] = [];
   let start = 0;
   Papa.parse<string[]>(src, {
+    delimiter: separator,
     skipEmptyLines: false,
     step: (r) => {
       raw.push({ data: r.data, start });
       start = r.meta.cursor;
     },
   });
-  if (!raw.length) throw new AppError(400, "invalid_input", "The file is empty.", { csv: "No header row" });
-  const header = raw[0].data.map((h) => h.trim().toLowerCase().replace(/\s+/g, "_"));
+  if (!raw.length || raw[0].data.every((h) => !h.trim()))
+    throw new AppError(400, "invalid_input", "The file is empty.", { csv: "No header row" });
+  const header = raw[0].data.map(normaliseHeader);
   const missing = REQUIRED.filter((c) => !header.includes(c));
   if (missing.length)
-    throw new AppError(400, "invalid_input", `The header row lacks: ${missing.join(", ")}.`, {
-      csv: `Missing columns: ${missing.join(", ")}`,
-    });
-  const known = new Set<string>([...CSV_IMPORT_COLUMNS, ...CSV_EXPORT_EXTRA_COLUMNS]);
-  const ignoredColumns = header.filter((h) => h && !known.has(h));
+    throw new AppError(
+      400,
+      "invalid_input",
+      `The header row lacks: ${missing.join(", ")} (read as ${decoded.encoding}, cells separated by ${separatorName(separator)}).`,
+      { csv: `Missing columns: ${missing.join(", ")}` },
+    );
+  const ignoredColumns = header.filter((h) => h && !KNOWN.has(h));
   let line = 1;
   let prevStart = 0;
   const rows: Parsed[] = [];
@@ -57,12 +78,65 @@ export function parseCsv(text: string): { rows: Parsed[]; ignoredColumns: string
     if (r === raw[0] || r.data.every((c) => c.trim() === "")) continue;
     const cells: Record<string, string> = {};
     header.forEach((h, i) => {
-      if ((CSV_IMPORT_COLUMNS as readonly string[]).includes(h)) cells[h] = unguardCell(r.data[i] ?? "");
+      if (KNOWN.has(h)) cells[h] = readTextCell(r.data[i] ?? "");
     });
     rows.push({ line, cells });
   }
-  return { rows, ignoredColumns };
+  return { rows, ignoredColumns, separator, columns: header.filter(Boolean) };
 }
+
+export const separatorName = (s: string) =>
+  s === "," ? "commas" : s === ";" ? "semicolons" : s === "\t" ? "tabs" : s === "|" ? "vertical bars" : s;
+
+/** Every position of the site with its current component, as the import compares them. */
+async function loadPositions(db: Db, siteId: string) {
+  return db
+    .selectFrom("positions as p")
+    .innerJoin("boards as b", "b.id", "p.boardId")
+    .leftJoin("sections as s", "s.id", "p.sectionId")
+    .leftJoin("components as c", (j) => j.onRef("c.positionId", "=", "p.id").on("c.retiredAt", "is", null))
+    .select([
+      "p.id",
+      "p.version",
+      "p.boardId",
+      "b.name as boardName",
+      "p.sectionId",
+      "s.name as section",
+      "p.designation",
+      "p.kind",
+      "p.gridRow",
+      "p.gridCol",
+      "p.rowSpan",
+      "p.colSpan",
+      "p.circuit",
+      "c.id as componentId",
+      "c.version as componentVersion",
+      "c.kind as componentKind",
+      "c.maker",
+      "c.model",
+      "c.frame",
+      "c.mounting",
+      "c.ratingAmps",
+      "c.poles",
+      "c.voltageRating",
+      "c.interruptingKa",
+      "c.serial",
+      "c.year",
+      "c.meterRange",
+      "c.lampWatts",
+      "c.heritage",
+      "c.tagNumber",
+      "c.notes",
+      "c.custody",
+      "c.custodyLocation",
+      "c.disposition",
+      "c.dispositionOverridden",
+    ])
+    .where("p.siteId", "=", siteId)
+    .orderBy("p.id")
+    .execute();
+}
+export type CurrentPosition = Awaited<ReturnType<typeof loadPositions>>[number];
 
 async function siteState(db: Db, siteId: string) {
   const boards = await db
@@ -75,24 +149,10 @@ async function siteState(db: Db, siteId: string) {
     .select(["id", "boardId", "name"])
     .where("siteId", "=", siteId)
     .execute();
-  const designations = await db
-    .selectFrom("positions")
-    .select([
-      "boardId",
-      "designation",
-      sql<string>`lower(designation)`.as("d"),
-      "gridRow",
-      "gridCol",
-      "rowSpan",
-      "colSpan",
-    ])
-    .where("siteId", "=", siteId)
-    .execute();
-  const cells = new Map<string, string>();
-  for (const p of designations) for (const c of cellsOf(p.boardId, p)) cells.set(c, p.designation);
+  const positions = await loadPositions(db, siteId);
   const tags = await db
     .selectFrom("components")
-    .select(sql<string>`lower(tag_number)`.as("t"))
+    .select(["id", "positionId", "tagNumber"])
     .where("siteId", "=", siteId)
     .where("tagNumber", "is not", null)
     .execute();
@@ -100,12 +160,158 @@ async function siteState(db: Db, siteId: string) {
     boards: new Map(boards.map((b) => [key(b.name), b])),
     sections: new Set(sections.map((s) => `${s.boardId}|${key(s.name)}`)),
     sectionIds: new Map(sections.map((s) => [`${s.boardId}|${key(s.name)}`, s.id])),
-    designations: new Set(designations.map((d) => `${d.boardId}|${d.d}`)),
-    /** "boardId|row|col" → the designation covering that grid cell. */
-    cells,
-    tags: new Set(tags.map((t) => t.t)),
+    positions: new Map(positions.map((p) => [p.id, p])),
+    byDesignation: new Map(positions.map((p) => [`${p.boardId}|${key(p.designation)}`, p])),
+    /** Tag (lower case) → the component holding it, retired ones too: the unique index covers them. */
+    tags: new Map(tags.map((t) => [key(t.tagNumber!), t])),
   };
 }
+export type SiteState = Awaited<ReturnType<typeof siteState>>;
+
+/** Position columns and component columns of the file, in the order the preview lists changes. */
+const POSITION_FIELDS = [
+  ["section", "section"],
+  ["designation", "designation"],
+  ["kind", "kind"],
+  ["grid_row", "gridRow"],
+  ["grid_col", "gridCol"],
+  ["row_span", "rowSpan"],
+  ["col_span", "colSpan"],
+  ["circuit", "circuit"],
+] as const;
+const COMPONENT_FIELDS = [
+  ["maker", "maker"],
+  ["model", "model"],
+  ["frame", "frame"],
+  ["mounting", "mounting"],
+  ["rating_amps", "ratingAmps"],
+  ["poles", "poles"],
+  ["voltage_rating", "voltageRating"],
+  ["interrupting_ka", "interruptingKa"],
+  ["serial", "serial"],
+  ["year", "year"],
+  ["meter_range", "meterRange"],
+  ["lamp_watts", "lampWatts"],
+  ["heritage", "heritage"],
+  ["tag_number", "tagNumber"],
+  ["notes", "notes"],
+] as const;
+type PositionField = (typeof POSITION_FIELDS)[number][1];
+type ComponentField = (typeof COMPONENT_FIELDS)[number][1];
+
+const show = (v: unknown) => (v === null || v === undefined ? "" : String(v));
+/** Text as compared: line endings and surrounding blanks a spreadsheet adds or drops do not count. */
+const norm = (v: unknown) =>
+  typeof v === "string" ? v.replace(/\r\n?/g, "\n").trim() : v === undefined || v === null ? "" : v;
+const same = (a: unknown, b: unknown) => norm(a) === norm(b);
+
+export interface PlannedRow {
+  row: ImportRow;
+  record: ImportRecord | null;
+  current: CurrentPosition | null;
+  positionPatch: Partial<Record<PositionField, unknown>>;
+  componentPatch: Partial<Record<ComponentField, unknown>>;
+}
+
+const versionOf = (p: CurrentPosition) => `p${p.version}${p.componentId ? `c${p.componentVersion}` : ""}`;
+
+/** Which existing position a row is about: its id, else board + designation, else its tag on that board. */
+function match(
+  state: SiteState,
+  p: Parsed,
+  rec: ImportRecord | null,
+  errors: Record<string, string>,
+): { current: CurrentPosition | null; by: "id" | "designation" | "tag" | null; note?: string } {
+  const id = (p.cells.position_id ?? "").trim();
+  if (id) {
+    const hit = state.positions.get(id.toLowerCase());
+    if (hit) return { current: hit, by: "id" };
+    if (!/^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i.test(id)) {
+      errors.position_id = "Not an id from a Tideline export: leave it as exported, or empty for a new position";
+      return { current: null, by: null };
+    }
+    // An id from another site's export (a copy of a board set): matched by name below, or new.
+  }
+  if (!rec) return { current: null, by: null };
+  const board = state.boards.get(key(rec.board));
+  if (board) {
+    const hit = state.byDesignation.get(`${board.id}|${key(rec.designation)}`);
+    if (hit) return { current: hit, by: "designation" };
+  }
+  if (rec.tagNumber) {
+    const t = state.tags.get(key(rec.tagNumber));
+    const hit = t ? state.positions.get(t.positionId) : undefined;
+    if (hit && board && hit.boardId === board.id) return { current: hit, by: "tag" };
+  }
+  return { current: null, by: null };
+}
+
+/** The row's record applied over the current position: columns the file lacks, and blank spans and heritage, keep their value. */
+function diffRow(p: Parsed, rec: ImportRecord, cur: CurrentPosition) {
+  const has = (col: string) => col in p.cells;
+  const changes: ImportRow["changes"] = [];
+  const positionPatch: PlannedRow["positionPatch"] = {};
+  const componentPatch: PlannedRow["componentPatch"] = {};
+  for (const [col, field] of POSITION_FIELDS) {
+    if (!has(col)) continue;
+    if ((col === "row_span" || col === "col_span") && !p.cells[col].trim()) continue;
+    const from = field === "section" ? cur.section : cur[field];
+    const to = rec[field];
+    if (same(from, to)) continue;
+    changes.push({ column: col, from: show(from), to: show(to) });
+    positionPatch[field] = to;
+  }
+  for (const [col, field] of COMPONENT_FIELDS) {
+    if (!has(col)) continue;
+    if (col === "heritage" && !p.cells[col].trim()) continue;
+    const from = cur.componentId ? cur[field] : null;
+    const to = rec[field];
+    if (same(from, to) || (!cur.componentId && (to === "" || to === null))) continue;
+    changes.push({ column: col, from: show(from), to: show(to) });
+    componentPatch[field] = to;
+  }
+  return { changes, positionPatch, componentPatch };
+}
+
+const NOT_APPLIED_WHY: Record<(typeof CSV_NOT_APPLIED_COLUMNS)[number], string> = {
+  custody: "Custody moves are recorded on the position (who moved it, where, when): not applied by an import",
+  custody_location: "Custody moves are recorded on the position (who moved it, where, when): not applied by an import",
+  disposition:
+    "The curator decides dispositions on the board, with the recommendation and a reason: not applied by an import",
+  disposition_overridden: "Follows from the disposition decided on the board: not applied by an import",
+};
+const CUSTODY_DEFAULT: Record<string, string> = {
+  custody: "in_place",
+  custody_location: "",
+  disposition: "",
+  disposition_overridden: "no",
+};
+
+function ignoredOf(p: Parsed, cur: CurrentPosition | null): ImportRow["ignored"] {
+  const out: ImportRow["ignored"] = [];
+  for (const col of CSV_NOT_APPLIED_COLUMNS) {
+    if (!(col in p.cells)) continue;
+    const to = p.cells[col].trim();
+    const from = cur
+      ? show(
+          col === "custody"
+            ? cur.custody
+            : col === "custody_location"
+              ? cur.custodyLocation
+              : col === "disposition"
+                ? cur.disposition
+                : cur.dispositionOverridden === null
+                  ? ""
+                  : cur.dispositionOverridden
+                    ? "yes"
+                    : "no",
+        )
+      : CUSTODY_DEFAULT[col];
+    if (!same(from, to) && !(cur === null && to === "")) out.push({ column: col, from, to, why: NOT_APPLIED_WHY[col] });
+  }
+  return out;
+}
+
 /** Every grid cell a position covers, span included. */
 function cellsOf(boardKey: string, p: { gridRow: number; gridCol: number; rowSpan: number; colSpan: number }) {
   const out: string[] = [];
@@ -114,78 +320,178 @@ function cellsOf(boardKey: string, p: { gridRow: number; gridCol: number; rowSpa
   return out;
 }
 
-/** A row whose cells another position already covers (in the database or earlier in the file). */
-function overlapError(cells: Map<string, string>, boardKey: string, rec: ImportRecord, line: number) {
-  const mine = cellsOf(boardKey, rec);
-  const hit = mine.map((c) => cells.get(c)).find((x) => x !== undefined);
-  if (hit === undefined) for (const c of mine) cells.set(c, `${rec.designation} (line ${line})`);
-  return hit === undefined ? null : `That grid cell is taken by ${hit}`;
-}
-
-export type SiteState = Awaited<ReturnType<typeof siteState>>;
-
-/** The checks of a row against the database and the rows above it; remembers what it has seen. */
-class CrossCheck {
-  private seenDesignation = new Map<string, number>();
-  private seenTag = new Map<string, number>();
-  boardsToCreate = new Map<string, string>();
-  sectionsToCreate = new Set<string>();
-  constructor(private state: SiteState) {}
-
-  check(rec: ImportRecord, line: number, errors: Record<string, string>) {
-    const board = this.state.boards.get(key(rec.board));
-    const boardKey = board?.id ?? `new:${key(rec.board)}`;
-    const dKey = `${boardKey}|${key(rec.designation)}`;
-    if (this.seenDesignation.has(dKey))
-      errors.designation = `Also on line ${this.seenDesignation.get(dKey)} for this board`;
-    else if (this.state.designations.has(dKey)) errors.designation = "Already on this board";
-    if (!this.seenDesignation.has(dKey)) this.seenDesignation.set(dKey, line);
-    if (rec.tagNumber) {
-      const t = key(rec.tagNumber);
-      if (this.seenTag.has(t)) errors.tag_number = `Also on line ${this.seenTag.get(t)}`;
-      else if (this.state.tags.has(t)) errors.tag_number = "Already on a component of this site";
-      if (!this.seenTag.has(t)) this.seenTag.set(t, line);
-    }
-    if (board && rec.gridRow + rec.rowSpan - 1 > board.gridRows)
-      errors.grid_row = `The board has ${board.gridRows} rows`;
-    if (board && rec.gridCol + rec.colSpan - 1 > board.gridCols)
-      errors.grid_col = `The board has ${board.gridCols} columns`;
-    const overlap = Object.keys(errors).length ? null : overlapError(this.state.cells, boardKey, rec, line);
-    if (overlap) errors.grid_col = overlap;
-    // A board named in two spellings of case is one board: keep the first spelling.
-    if (!board && !this.boardsToCreate.has(key(rec.board))) this.boardsToCreate.set(key(rec.board), rec.board);
-    if (rec.section && !this.state.sections.has(`${boardKey}|${key(rec.section)}`))
-      this.sectionsToCreate.add(`${rec.board} / ${rec.section}`);
-  }
-}
-
-/** Checks every row; `records` holds the good ones in file order. */
-export async function validateImport(db: Db, siteId: string, text: string) {
-  const { rows: parsed, ignoredColumns } = parseCsv(text);
+/** Checks every row; plans each; the digest covers the plan and the versions it was made against. */
+export async function validateImport(db: Db, siteId: string, decoded: DecodedText) {
+  const { rows: parsed, ignoredColumns, separator, columns } = parseCsv(decoded);
   const state = await siteState(db, siteId);
-  const cross = new CrossCheck(state);
-  const rows: ImportRow[] = [];
-  const records: ImportRecord[] = [];
+  const planned: PlannedRow[] = [];
+  const claimed = new Map<string, number>(); // position id → line of the row that matched it
+  const boardsToCreate = new Map<string, string>();
+  const sectionsToCreate = new Set<string>();
+
   for (const p of parsed) {
     const res = csvRowSchema.safeParse(p.cells);
     const errors: Record<string, string> = {};
     if (!res.success) for (const i of res.error.issues) errors[String(i.path[0] ?? "_")] ??= i.message;
     const rec = res.success ? toRecord(res.data) : null;
-    if (rec) cross.check(rec, p.line, errors);
-    const ok = Object.keys(errors).length === 0;
-    rows.push({ line: p.line, ok, errors, data: rec });
-    if (ok && rec) records.push(rec);
+    const m = match(state, p, rec, errors);
+    let cur = m.current;
+    if (cur && claimed.has(cur.id)) {
+      errors[m.by === "id" ? "position_id" : "designation"] =
+        `Line ${claimed.get(cur.id)} is already about this position (${cur.designation})`;
+      cur = null;
+    } else if (cur) claimed.set(cur.id, p.line);
+    let changes: ImportRow["changes"] = [];
+    let positionPatch: PlannedRow["positionPatch"] = {};
+    let componentPatch: PlannedRow["componentPatch"] = {};
+    if (cur && rec) {
+      if (key(rec.board) !== key(cur.boardName))
+        errors.board = `This position is on ${cur.boardName}: an import does not move positions between boards`;
+      ({ changes, positionPatch, componentPatch } = diffRow(p, rec, cur));
+      const v = (p.cells.row_version ?? "").trim();
+      if (v && !/^p\d+(c\d+)?$/i.test(v)) errors.row_version = "Leave row_version as exported (e.g. p3c5), or empty";
+      else if (v && changes.length && v.toLowerCase() !== versionOf(cur))
+        errors.row_version =
+          "Changed in Tideline since this file was exported: export again and make this row's change there, so nobody's edit is lost";
+    }
+    if (rec && !cur) {
+      const board = state.boards.get(key(rec.board));
+      if (!board && !boardsToCreate.has(key(rec.board))) boardsToCreate.set(key(rec.board), rec.board);
+    }
+    if (rec && rec.section) {
+      const board = state.boards.get(key(rec.board));
+      if (!board || !state.sections.has(`${board.id}|${key(rec.section)}`))
+        sectionsToCreate.add(`${rec.board} / ${rec.section}`);
+    }
+    const row: ImportRow = {
+      line: p.line,
+      ok: true,
+      action: "create",
+      positionId: cur?.id ?? null,
+      matchedBy: cur ? m.by : null,
+      errors,
+      changes,
+      ignored: ignoredOf(p, cur),
+      data: rec,
+      cells: p.cells,
+    };
+    planned.push({ row, record: rec, current: cur, positionPatch, componentPatch });
   }
+
+  checkFinalState(state, planned);
+
+  for (const pr of planned) {
+    const r = pr.row;
+    r.ok = Object.keys(r.errors).length === 0;
+    r.action = (!r.ok ? "problem" : !pr.current ? "create" : r.changes.length ? "update" : "unchanged") as ImportAction;
+  }
+  const rows = planned.map((x) => x.row);
   const failed = rows.filter((r) => !r.ok).length;
-  const summary = {
-    rows: rows.length,
-    ok: rows.length - failed,
-    failed,
-    boardsToCreate: [...cross.boardsToCreate.values()],
-    sectionsToCreate: [...cross.sectionsToCreate],
-    ignoredColumns,
-    committed: false,
+  const count = (a: ImportAction) => rows.filter((r) => r.action === a).length;
+  const planDigest = createHash("sha256")
+    .update(
+      JSON.stringify(
+        planned.map((x) => [
+          x.row.line,
+          x.row.action,
+          x.row.positionId,
+          x.current ? versionOf(x.current) : null,
+          x.row.changes,
+          x.record,
+        ]),
+      ),
+    )
+    .digest("hex");
+  const response: ImportResponse = {
+    rows,
+    summary: {
+      rows: rows.length,
+      ok: rows.length - failed,
+      failed,
+      created: count("create"),
+      changed: count("update"),
+      unchanged: count("unchanged"),
+      boardsToCreate: [...boardsToCreate.values()],
+      sectionsToCreate: [...sectionsToCreate],
+      ignoredColumns,
+      encoding: { name: decoded.encoding, how: decoded.how, confidence: decoded.confidence },
+      separator,
+      columns,
+      planDigest,
+      committed: false,
+    },
   };
-  const response: ImportResponse = { rows, summary };
-  return { response, records, state };
+  return { response, planned, state };
+}
+
+/**
+ * Designations per board, tag numbers per site and grid cells, on the inventory as it would
+ * be: positions the file does not touch keep theirs; each row claims its new ones in file
+ * order, so the later of two clashing rows is the one refused. A refused row changes nothing,
+ * so its position keeps its own claims: the check is repeated until the refused rows settle
+ * (each round can only refuse more, so it ends).
+ */
+function checkFinalState(state: SiteState, planned: PlannedRow[]) {
+  const base = planned.map((x) => ({ ...x.row.errors }));
+  let failed = new Set(planned.filter((_, i) => Object.keys(base[i]).length).map((x) => x.row.line));
+  for (let round = 0; round < 50; round++) {
+    planned.forEach((x, i) => {
+      if (!failed.has(x.row.line)) x.row.errors = { ...base[i] }; // a refused row keeps why it was refused
+    });
+    claimAll(state, planned, failed);
+    const now = new Set(planned.filter((x) => Object.keys(x.row.errors).length).map((x) => x.row.line));
+    if (now.size === failed.size) return;
+    failed = now;
+  }
+}
+
+function claimAll(state: SiteState, planned: PlannedRow[], failed: Set<number>) {
+  const touched = new Set(planned.filter((x) => x.current && !failed.has(x.row.line)).map((x) => x.current!.id));
+  const designations = new Map<string, string>();
+  const tags = new Map<string, string>();
+  const cells = new Map<string, string>();
+  for (const p of state.positions.values()) {
+    if (touched.has(p.id)) continue;
+    designations.set(`${p.boardId}|${key(p.designation)}`, "db");
+    for (const c of cellsOf(p.boardId, p)) cells.set(c, p.designation);
+  }
+  for (const [t, c] of state.tags) {
+    const pos = state.positions.get(c.positionId);
+    if (!pos || !touched.has(pos.id) || pos.componentId !== c.id) tags.set(t, "db");
+  }
+  for (const x of planned) {
+    const { record: rec, current: cur, row } = x;
+    if (!rec || failed.has(row.line)) continue;
+    const errors = row.errors;
+    const board = cur ? state.boards.get(key(cur.boardName)) : state.boards.get(key(rec.board));
+    const boardKey = board?.id ?? `new:${key(rec.board)}`;
+    const designation = (x.positionPatch.designation as string | undefined) ?? cur?.designation ?? rec.designation;
+    const dKey = `${boardKey}|${key(designation)}`;
+    const dOwner = designations.get(dKey);
+    if (dOwner === "db") errors.designation ??= "Already on this board";
+    else if (dOwner) errors.designation ??= `Also on ${dOwner} for this board`;
+    else designations.set(dKey, `line ${row.line}`);
+    const tag = cur && !("tag_number" in row.cells) ? cur.tagNumber : rec.tagNumber;
+    if (tag) {
+      const owner = tags.get(key(tag));
+      if (owner === "db") errors.tag_number ??= "Already on a component of this site";
+      else if (owner) errors.tag_number ??= `Also on ${owner}`;
+      else tags.set(key(tag), `line ${row.line}`);
+    }
+    const shape = {
+      gridRow: (x.positionPatch.gridRow as number | undefined) ?? cur?.gridRow ?? rec.gridRow,
+      gridCol: (x.positionPatch.gridCol as number | undefined) ?? cur?.gridCol ?? rec.gridCol,
+      rowSpan: (x.positionPatch.rowSpan as number | undefined) ?? cur?.rowSpan ?? rec.rowSpan,
+      colSpan: (x.positionPatch.colSpan as number | undefined) ?? cur?.colSpan ?? rec.colSpan,
+    };
+    if (board && shape.gridRow + shape.rowSpan - 1 > board.gridRows)
+      errors.grid_row ??= `The board has ${board.gridRows} rows`;
+    if (board && shape.gridCol + shape.colSpan - 1 > board.gridCols)
+      errors.grid_col ??= `The board has ${board.gridCols} columns`;
+    if (Object.keys(errors).length) continue;
+    const mine = cellsOf(boardKey, shape);
+    const hit = mine.map((c) => cells.get(c)).find((v) => v !== undefined);
+    if (hit !== undefined) errors.grid_col = `That grid cell is taken by ${hit}`;
+    else for (const c of mine) cells.set(c, `${designation} (line ${row.line})`);
+  }
 }

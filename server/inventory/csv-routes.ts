@@ -6,12 +6,20 @@ import { AppError } from "../errors";
 import { limitExports } from "../export-stream";
 import { requireSiteRole } from "../middleware/roles";
 import { actorOf } from "./common";
-import { ImportInvalid, commitImport } from "./csv-commit";
+import { localDateTime } from "../../src/domain/local-time";
+import { decodeCsvBytes, fromText } from "../csv-read";
+import { ImportChanged, ImportInvalid, commitImport } from "./csv-commit";
 import { streamInventoryCsv } from "./csv-export";
 import { validateImport } from "./csv-import";
 
-/** 2 MB of CSV is some 10 000 rows, more than any board set; larger gets 413 (JSON {csv} too: its parser is set in app.ts). */
-const csvText = express.text({ type: ["text/csv", "text/plain", "application/csv"], limit: "2mb" });
+/**
+ * 2 MB of CSV is some 10 000 rows, more than any board set; larger gets 413 (JSON {csv} too: its
+ * parser is set in app.ts). The file comes as bytes: its encoding is detected here, not assumed.
+ */
+const csvBytes = express.raw({
+  type: ["text/csv", "text/plain", "application/csv", "text/tab-separated-values", "application/octet-stream"],
+  limit: "2mb",
+});
 
 const slug = (s: string) =>
   s
@@ -25,24 +33,45 @@ export function csvRoutes(db: Db) {
 
   r.get("/sites/:siteId/inventory.csv", requireSiteRole(db), limitExports, async (req, res) => {
     const { siteId } = siteParams.parse(req.params);
-    const site = await db.selectFrom("sites").select("name").where("id", "=", siteId).executeTakeFirstOrThrow();
-    const day = new Date().toISOString().slice(0, 10);
-    await streamInventoryCsv(db, siteId, `${slug(site.name)}-inventory-${day}.csv`, res);
+    const site = await db
+      .selectFrom("sites")
+      .select(["name", "timeZone"])
+      .where("id", "=", siteId)
+      .executeTakeFirstOrThrow();
+    const day = localDateTime(new Date(), site.timeZone).slice(0, 10);
+    await streamInventoryCsv(db, siteId, site.timeZone, `${slug(site.name)}-inventory-${day}.csv`, res);
   });
 
-  r.post("/sites/:siteId/inventory/import", requireSiteRole(db, "curator"), csvText, async (req, res) => {
+  r.post("/sites/:siteId/inventory/import", requireSiteRole(db, "curator"), csvBytes, async (req, res) => {
     const { siteId } = siteParams.parse(req.params);
-    const { mode } = importQuery.parse(req.query);
-    const text = typeof req.body === "string" ? req.body : importJsonBody.parse(req.body ?? {}).csv;
-    if (!text.trim()) throw new AppError(400, "invalid_input", "The file is empty.", { csv: "The file is empty" });
-    if (mode === "preview") return void res.json((await validateImport(db, siteId, text)).response);
+    const { mode, expect } = importQuery.parse(req.query);
+    const decoded = Buffer.isBuffer(req.body)
+      ? decodeCsvBytes(req.body)
+      : fromText(importJsonBody.parse(req.body ?? {}).csv);
+    if (!decoded.text.trim())
+      throw new AppError(400, "invalid_input", "The file is empty.", { csv: "The file is empty" });
+    if (decoded.text.includes("\u0000"))
+      throw new AppError(
+        400,
+        "invalid_input",
+        `The file has NUL characters when read as ${decoded.encoding}: is it a spreadsheet saved as CSV?`,
+        {
+          csv: "Not a text file",
+        },
+      );
+    if (mode === "preview") return void res.json((await validateImport(db, siteId, decoded)).response);
     try {
-      res.status(201).json(await commitImport(db, siteId, actorOf(res), text));
+      res.status(201).json(await commitImport(db, siteId, actorOf(res), decoded, expect));
     } catch (e) {
-      if (!(e instanceof ImportInvalid)) throw e;
-      res.status(400).json({
-        error: { code: e.code, message: e.message, fields: e.fields, rows: e.result.rows, summary: e.result.summary },
-      });
+      if (e instanceof ImportInvalid)
+        return void res.status(400).json({
+          error: { code: e.code, message: e.message, fields: e.fields, rows: e.result.rows, summary: e.result.summary },
+        });
+      if (e instanceof ImportChanged)
+        return void res
+          .status(409)
+          .json({ error: { code: e.code, message: e.message, rows: e.result.rows, summary: e.result.summary } });
+      throw e;
     }
   });
   return r;

@@ -14,7 +14,7 @@ import {
 const blank = (v: unknown) => v === undefined || v === null || (typeof v === "string" && v.trim() === "");
 const optText = (max: number) =>
   z.preprocess(
-    (v) => (blank(v) ? "" : String(v).trim()),
+    (v) => (blank(v) ? "" : String(v).replace(/\r\n?/g, "\n").trim()),
     z.string().max(max, { message: `At most ${max} characters` }),
   );
 const reqText = (max: number, message: string) =>

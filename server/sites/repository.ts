@@ -1,7 +1,14 @@
 import type { Db } from "../db";
 import type { Role } from "../../src/domain/vocab";
 
-const siteCols = ["sites.id", "sites.name", "sites.kind", "sites.location", "sites.description"] as const;
+const siteCols = [
+  "sites.id",
+  "sites.name",
+  "sites.kind",
+  "sites.location",
+  "sites.description",
+  "sites.timeZone",
+] as const;
 
 export const listSitesForUser = (db: Db, userId: string) =>
   db
@@ -19,7 +26,7 @@ export const findSite = (db: Db, siteId: string) =>
 
 export const insertSite = (
   db: Db,
-  s: { name: string; kind: "vessel" | "building" | "plant"; location: string; description: string },
+  s: { name: string; kind: "vessel" | "building" | "plant"; location: string; description: string; timeZone?: string },
 ) => db.insertInto("sites").values(s).returning(siteCols).executeTakeFirstOrThrow();
 
 export const listMembers = (db: Db, siteId: string) =>
@@ -65,3 +72,6 @@ export const countCurators = async (db: Db, siteId: string) =>
       .where("role", "=", "curator")
       .executeTakeFirstOrThrow()
   ).n;
+
+export const setTimeZone = (db: Db, siteId: string, timeZone: string) =>
+  db.updateTable("sites").set({ timeZone }).where("id", "=", siteId).returning(siteCols).executeTakeFirst();

@@ -1,6 +1,6 @@
 import { Router } from "express";
 import { z } from "zod";
-import { changeRoleBody, createSiteBody, createUserBody } from "../../src/schemas/sites";
+import { changeRoleBody, createSiteBody, createUserBody, siteTimeZoneBody } from "../../src/schemas/sites";
 import type { Db } from "../db";
 import { notFound } from "../errors";
 import { requireAdmin, requireSiteRole, requireUser } from "../middleware/roles";
@@ -30,6 +30,13 @@ export function siteRoutes(db: Db) {
   r.get("/sites/:siteId", requireSiteRole(db), async (req, res) => {
     const site = await repo.findSite(db, req.params.siteId as string);
     if (!site) throw notFound("That site");
+    res.json({ site: { ...site, role: res.locals.siteRole } });
+  });
+
+  r.put("/sites/:siteId/time-zone", requireSiteRole(db, "curator"), async (req, res) => {
+    const { siteId } = z.object({ siteId: z.uuid() }).parse(req.params);
+    const { timeZone } = siteTimeZoneBody.parse(req.body);
+    const site = await service.setTimeZone(db, siteId, timeZone, res.locals.user!.id);
     res.json({ site: { ...site, role: res.locals.siteRole } });
   });
 

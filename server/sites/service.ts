@@ -72,7 +72,7 @@ export async function removeMember(db: Db, siteId: string, userId: string, actor
 
 export async function createSite(
   db: Db,
-  s: { name: string; kind: "vessel" | "building" | "plant"; location: string; description: string },
+  s: { name: string; kind: "vessel" | "building" | "plant"; location: string; description: string; timeZone?: string },
   actorId: string,
 ) {
   return db.transaction().execute(async (trx) => {
@@ -108,5 +108,30 @@ export async function createUser(
       after: { email: u.email, name: u.name, isAdmin: u.isAdmin },
     });
     return user;
+  });
+}
+
+/** The curator sets the site's time zone (exports write local times in it); audited. */
+export async function setTimeZone(db: Db, siteId: string, timeZone: string, actorId: string) {
+  return db.transaction().execute(async (trx) => {
+    const before = await trx
+      .selectFrom("sites")
+      .select("timeZone")
+      .where("id", "=", siteId)
+      .forUpdate()
+      .executeTakeFirst();
+    if (!before) throw notFound("That site");
+    const site = (await repo.setTimeZone(trx, siteId, timeZone))!;
+    if (before.timeZone !== timeZone)
+      await recordAudit(trx, {
+        siteId,
+        entityType: "site",
+        entityId: siteId,
+        action: "update",
+        actorId,
+        before: { timeZone: before.timeZone },
+        after: { timeZone },
+      });
+    return site;
   });
 }

@@ -11,6 +11,8 @@ export class ApiError extends Error {
     public current?: unknown,
     /** The server's id for this request (X-Request-Id), for a person to quote when reporting a fault. */
     public requestId?: string,
+    /** The whole error object, for answers that carry more (an import's rows on 400/409). */
+    public detail?: unknown,
   ) {
     super(message);
   }
@@ -24,8 +26,15 @@ async function request(method: Method, url: string, body?: unknown, signal?: Abo
     res = await fetch(url, {
       method,
       credentials: "same-origin",
-      headers: body === undefined || body instanceof FormData ? {} : { "Content-Type": "application/json" },
-      body: body === undefined ? undefined : body instanceof FormData ? body : JSON.stringify(body),
+      // A Blob (a chosen file) goes as its bytes, so the server reads its encoding instead of the browser guessing.
+      headers:
+        body === undefined || body instanceof FormData
+          ? {}
+          : body instanceof Blob
+            ? { "Content-Type": "text/csv" }
+            : { "Content-Type": "application/json" },
+      body:
+        body === undefined ? undefined : body instanceof FormData || body instanceof Blob ? body : JSON.stringify(body),
       signal,
     });
   } catch (e) {
@@ -50,7 +59,15 @@ async function request(method: Method, url: string, body?: unknown, signal?: Abo
     let message = err?.message ?? `The server answered ${res.status}.`;
     // A fault of the server's is worth reporting: give the person the reference to quote.
     if (res.status >= 500 && requestId && !message.includes(requestId)) message += ` (Reference ${requestId}.)`;
-    throw new ApiError(res.status, err?.code ?? "http_" + res.status, message, err?.fields, err?.current, requestId);
+    throw new ApiError(
+      res.status,
+      err?.code ?? "http_" + res.status,
+      message,
+      err?.fields,
+      err?.current,
+      requestId,
+      err,
+    );
   }
   return data;
 }

@@ -537,7 +537,14 @@ export const CSV_IMPORT_COLUMNS = [
   "tag_number",
   "notes",
 ] as const;
-/** The export writes the import columns, then these read-only survey columns (ignored on import). */
+/**
+ * The export's first column and the one after the import columns: the position's id (a UUID,
+ * which no spreadsheet turns into a number) and its row version ("p3c5": position 3,
+ * component 5). The import matches a row to its position by id, else by board + designation,
+ * else by tag number, and refuses a changed row whose version is no longer current.
+ */
+export const CSV_KEY_COLUMNS = ["position_id", "row_version"] as const;
+/** The export writes these after the import columns; custody and disposition are never applied by an import (listed per row when they differ). */
 export const CSV_EXPORT_EXTRA_COLUMNS = [
   "custody",
   "custody_location",
@@ -548,26 +555,67 @@ export const CSV_EXPORT_EXTRA_COLUMNS = [
   "latest_iso_ri",
   "latest_inspected_at",
 ] as const;
-export const importQuery = z.object({ mode: z.enum(["preview", "commit"]).default("preview") });
-/** Body: text/csv (≤ 2 MB, else 413) or JSON { csv }. */
+/** Columns changed on screen, not by a file: custody moves and dispositions have their own rules and reasons. */
+export const CSV_NOT_APPLIED_COLUMNS = [
+  "custody",
+  "custody_location",
+  "disposition",
+  "disposition_overridden",
+] as const;
+export const importQuery = z.object({
+  mode: z.enum(["preview", "commit"]).default("preview"),
+  /** The preview's planDigest: a commit whose plan differs (someone changed the inventory since) gets 409. */
+  expect: z
+    .string()
+    .regex(/^[0-9a-f]{64}$/, { message: "Send the planDigest of the preview" })
+    .optional(),
+});
+/** Body: the file's bytes as text/csv or application/octet-stream (≤ 2 MB, else 413; encoding detected), or JSON { csv }. */
 export const importJsonBody = z.object({ csv: safeText().min(1, { message: "The file is empty" }).max(2_000_000) });
+export const IMPORT_ACTIONS = ["create", "update", "unchanged", "problem"] as const;
+export type ImportAction = (typeof IMPORT_ACTIONS)[number];
 export const importRowSchema = z.object({
   /** Line in the file (the header is line 1). */
   line: z.number(),
   ok: z.boolean(),
+  /** What the commit does with the row: a new position, a change of an existing one, nothing, or refuse it. */
+  action: z.enum(IMPORT_ACTIONS),
+  /** The existing position the row was matched to (by id, board + designation, or tag). */
+  positionId: safeText().nullable(),
+  matchedBy: z.enum(["id", "designation", "tag"]).nullable(),
   errors: z.record(safeText(), safeText()),
+  /** Old → new, per column, for a row that changes an existing position. */
+  changes: z.array(z.object({ column: safeText(), from: safeText(), to: safeText() })),
+  /** Columns the file changes that an import does not apply (custody, disposition), with why. */
+  ignored: z.array(z.object({ column: safeText(), from: safeText(), to: safeText(), why: safeText() })),
   /** The row as it will be written (camelCase fields), or null when it cannot be read. */
   data: z.record(safeText(), z.unknown()).nullable(),
+  /** The row's cells as read from the file (decoded, guards removed), by normalised column name. */
+  cells: z.record(safeText(), safeText()),
 });
 export type ImportRow = z.infer<typeof importRowSchema>;
 export const importSummarySchema = z.object({
   rows: z.number(),
   ok: z.number(),
   failed: z.number(),
+  created: z.number(),
+  changed: z.number(),
+  unchanged: z.number(),
   /** Boards named in the file that do not exist yet: they are created (450 V, 3-phase, 60 Hz, ungrounded defaults, grid sized to fit). */
   boardsToCreate: z.array(safeText()),
   sectionsToCreate: z.array(safeText()),
   ignoredColumns: z.array(safeText()),
+  /** How the file was read: the encoding used and how it was decided, and the separator. */
+  encoding: z.object({
+    name: safeText(),
+    how: z.enum(["byte_order_mark", "valid_utf8", "detected", "sent_as_text"]),
+    confidence: z.number().nullable(),
+  }),
+  separator: safeText(),
+  /** Columns of the file in the order read (normalised names). */
+  columns: z.array(safeText()),
+  /** SHA-256 of the plan; send it back as ?expect= with the commit. */
+  planDigest: safeText(),
   committed: z.boolean(),
 });
 export type ImportSummary = z.infer<typeof importSummarySchema>;

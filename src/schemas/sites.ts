@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { text } from "./common";
 import { ROLES } from "../domain/vocab";
+import { isTimeZone } from "../domain/local-time";
 
 export const SITE_KINDS = ["vessel", "building", "plant"] as const;
 
@@ -9,6 +10,15 @@ export const createSiteBody = z.object({
   kind: z.enum(SITE_KINDS),
   location: text().trim().max(200).default(""),
   description: text().trim().max(4000).default(""),
+  timeZone: text()
+    .trim()
+    .default("UTC")
+    .refine(isTimeZone, { message: "Give a time zone such as Europe/Lisbon or America/Halifax" }),
+});
+
+/** The site's IANA time zone: exports write local times in it and say so (issue 13). */
+export const siteTimeZoneBody = z.object({
+  timeZone: text().trim().refine(isTimeZone, { message: "Give a time zone such as Europe/Lisbon or America/Halifax" }),
 });
 
 export const siteSchema = z.object({
@@ -17,6 +27,8 @@ export const siteSchema = z.object({
   kind: z.enum(SITE_KINDS),
   location: text(),
   description: text(),
+  /** IANA zone of the site's local time (exports); "UTC" until a curator sets it. */
+  timeZone: text().default("UTC"),
   role: z.enum([...ROLES, "admin"]),
 });
 export type SiteSummary = z.infer<typeof siteSchema>;

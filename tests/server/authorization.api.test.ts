@@ -48,6 +48,7 @@ export const ACCESS: Record<string, Access> = {
   "GET /api/sites/:siteId/members": CURATOR,
   "PATCH /api/sites/:siteId/members/:userId": CURATOR,
   "DELETE /api/sites/:siteId/members/:userId": CURATOR,
+  "PUT /api/sites/:siteId/time-zone": CURATOR,
   "POST /api/admin/users": "admin",
   "POST /api/sites/:siteId/photos": PHOTO_UP,
   "GET /api/sites/:siteId/photos": "member",

@@ -101,7 +101,7 @@ describe("CSV import", () => {
     expect(errs[3].kind).toBeDefined();
     expect(errs[4].grid_row).toMatch(/whole number/i);
     expect(errs[5].designation).toMatch(/line 2/);
-    expect(errs[6].designation).toMatch(/Already on this board/); // 1-1 exists on Forward board from the first test
+    expect(errs[6].grid_col).toMatch(/8 columns/); // 1-1 exists on Forward board: the row would move it off its grid
     expect(errs[7].tag_number).toMatch(/Already/); // KL-1001 is taken; the row began on line 7 and spans two lines
     expect(Object.keys(errs[9]).sort()).toEqual(["heritage", "poles", "rating_amps", "year"]);
     expect(r.body.error.fields["4.grid_row"]).toBeDefined();
@@ -170,12 +170,18 @@ describe("CSV export", () => {
     expect(text).toContain("\r\n");
     const parsed = Papa.parse<Record<string, string>>(text, { header: true, skipEmptyLines: true });
     expect(parsed.errors).toEqual([]);
-    expect(parsed.meta.fields).toEqual([...CSV_IMPORT_COLUMNS, ...CSV_EXPORT_EXTRA_COLUMNS]);
+    expect(parsed.meta.fields).toEqual([
+      "position_id",
+      ...CSV_IMPORT_COLUMNS,
+      "row_version",
+      ...CSV_EXPORT_EXTRA_COLUMNS.map((c) => (c === "latest_inspected_at" ? `${c} (UTC)` : c)),
+    ]);
     expect(parsed.data).toHaveLength(await count("positions"));
     const meterRow = parsed.data.find((d) => d.kind === "meter")!;
     expect(meterRow.notes.startsWith("'=HYPERLINK")).toBe(true); // OWASP CSV injection: leading quote
     expect(meterRow.notes).toContain('second line, with "quotes"');
-    expect(parsed.data.find((d) => d.designation === "1-1")).toMatchObject({
+    // "1-1" would become 1 January in a spreadsheet: it is written as the text formula ="1-1".
+    expect(parsed.data.find((d) => d.designation === '="1-1"')).toMatchObject({
       tag_number: "KL-1001",
       custody: "in_place",
       heritage: "original",

@@ -177,9 +177,17 @@ export const useFloodEventMutations = (siteId: string) => ({
 });
 
 /** Preview writes nothing; commit is all-or-nothing (a bad row → 400 import_invalid, nothing written). */
+/** A chosen file goes as its bytes (the server detects its encoding); pasted text as JSON {csv}. */
 export const useImportInventory = (siteId: string) =>
-  useInventoryMutation(siteId, ({ csv, mode }: { csv: string; mode: "preview" | "commit" }) =>
-    api.send("POST", `${base(siteId)}/inventory/import${qs({ mode })}`, { csv }, importResponse),
+  useInventoryMutation(
+    siteId,
+    ({ csv, mode, expect }: { csv: string | Blob; mode: "preview" | "commit"; expect?: string }) =>
+      api.send(
+        "POST",
+        `${base(siteId)}/inventory/import${qs({ mode, expect })}`,
+        typeof csv === "string" ? { csv } : csv,
+        importResponse,
+      ),
   );
 
 export const inventoryCsvHref = (siteId: string) => `${base(siteId)}/inventory.csv`;

@@ -68,3 +68,15 @@ export function useCreateUser() {
       api.send("POST", "/api/admin/users", b, z.object({ user: z.object({ id: z.string(), email: z.string() }) })),
   });
 }
+
+/** The curator sets the site's time zone: exports write local times in it and name it. */
+export function useSetTimeZone(siteId: string) {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (timeZone: string) =>
+      api
+        .send("PUT", `/api/sites/${siteId}/time-zone`, { timeZone }, z.object({ site: siteSchema }))
+        .then((d) => d.site),
+    onSuccess: () => qc.invalidateQueries({ queryKey: siteKeys.all }),
+  });
+}

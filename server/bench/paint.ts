@@ -1,0 +1,113 @@
+/**
+ * Page paint on a phone profile (issue 15): Debian's chromium driven by Playwright, 360 × 740
+ * CSS px at 2 × density, touch, and the CPU slowed 4 × through the DevTools protocol
+ * (Emulation.setCPUThrottlingRate). Each load is a fresh browser context (cold cache, the session
+ * cookie set) and the figures come from the browser's own Performance APIs: the last
+ * largest-contentful-paint entry, the sum of layout-shift values without recent input (CLS), and
+ * the longest 'longtask' entry. The baseline is a static page served by the same server with the
+ * app's CSS and preloaded fonts, a heading and a paragraph (written into the build output for the
+ * run and removed after).
+ */
+import { existsSync, readFileSync, rmSync, writeFileSync } from "node:fs";
+import { join } from "node:path";
+import { chromium, type Browser } from "@playwright/test";
+
+export interface PaintFigures {
+  lcp: number;
+  cls: number;
+  longestTask: number;
+  /** Sum over long tasks of their time past 50 ms (total blocking time, after load). */
+  blocking: number;
+}
+
+const OBSERVE = `
+  window.__paint = { lcp: 0, cls: 0, longest: 0, blocking: 0 };
+  new PerformanceObserver((l) => { for (const e of l.getEntries()) window.__paint.lcp = e.startTime; })
+    .observe({ type: "largest-contentful-paint", buffered: true });
+  new PerformanceObserver((l) => { for (const e of l.getEntries()) if (!e.hadRecentInput) window.__paint.cls += e.value; })
+    .observe({ type: "layout-shift", buffered: true });
+  new PerformanceObserver((l) => { for (const e of l.getEntries()) {
+    window.__paint.longest = Math.max(window.__paint.longest, e.duration);
+    window.__paint.blocking += Math.max(0, e.duration - 50);
+  } }).observe({ type: "longtask", buffered: true });
+`;
+
+export const STATIC_PAGE = "bench-static.html";
+
+/** Writes the static baseline page next to the built index.html, with the same head. Returns a remover. */
+export function writeStaticPage(clientDir: string): () => void {
+  const html = readFileSync(join(clientDir, "index.html"), "utf8");
+  const head = /<head>([\s\S]*?)<\/head>/.exec(html)?.[1] ?? "";
+  const keep = head
+    .split("\n")
+    .filter((l) => !/<script/.test(l) && !/modulepreload/.test(l))
+    .join("\n");
+  const file = join(clientDir, STATIC_PAGE);
+  writeFileSync(
+    file,
+    `<!doctype html><html lang="en"><head>${keep}</head><body><main id="main" class="p-4">
+<h1 class="text-2xl font-bold">Board 001 — Hull 2, deck 2</h1>
+<p>Static reference page for the bench: the app's stylesheet and preloaded fonts, no script. The board's positions,
+their grades and dispositions would be listed here. Nothing on this page is real.</p></main></body></html>`,
+  );
+  return () => existsSync(file) && rmSync(file);
+}
+
+export async function openBrowser(): Promise<Browser> {
+  return chromium.launch({
+    executablePath: process.env.CHROMIUM_PATH ?? "/usr/bin/chromium",
+    args: [
+      "--no-sandbox",
+      "--disable-gpu",
+      "--disable-quic",
+      "--no-first-run",
+      "--disable-background-networking",
+      "--disable-component-update",
+      "--disable-sync",
+    ],
+  });
+}
+
+/** One cold load of `url` on the phone profile; waits for the network to go quiet, then reads the figures. */
+export async function measurePaint(
+  browser: Browser,
+  base: string,
+  url: string,
+  cookie: string | null,
+): Promise<PaintFigures> {
+  const context = await browser.newContext({
+    viewport: { width: 360, height: 740 },
+    deviceScaleFactor: 2,
+    isMobile: true,
+    hasTouch: true,
+  });
+  try {
+    if (cookie) {
+      const [name, value] = cookie.split("=");
+      await context.addCookies([{ name, value, url: base }]);
+    }
+    const page = await context.newPage();
+    const cdp = await context.newCDPSession(page);
+    await cdp.send("Emulation.setCPUThrottlingRate", { rate: 4 });
+    await page.addInitScript(OBSERVE);
+    await page.goto(`${base}${url}`, { waitUntil: "networkidle", timeout: 120_000 });
+    // The app paints after its data arrives: wait for the first contentful paint and the page's
+    // heading, then for a quiet second and a half so the last LCP candidate and late shifts count.
+    await page.waitForFunction(
+      () => performance.getEntriesByType("paint").some((e) => e.name === "first-contentful-paint"),
+      null,
+      { timeout: 120_000 },
+    );
+    await page.locator("h1").first().waitFor({ timeout: 120_000 });
+    await page.waitForTimeout(1500);
+    const m = (await page.evaluate("window.__paint")) as {
+      lcp: number;
+      cls: number;
+      longest: number;
+      blocking: number;
+    };
+    return { lcp: m.lcp, cls: m.cls, longestTask: m.longest, blocking: m.blocking };
+  } finally {
+    await context.close();
+  }
+}
