@@ -122,8 +122,9 @@ if (command.needs.includes("chromium")) ensureChromium();
 if (command.needs.includes("poppler")) ensurePoppler();
 if (command.needs.includes("libreoffice")) ensureLibreOffice();
 
-const tsx = join(root, "node_modules", "tsx", "dist", "cli.mjs");
-const child = spawn(process.execPath, [tsx, command.script, ...process.argv.slice(3)], {
+// `node --import tsx` rather than the tsx command: the command relays SIGTERM to its child and
+// SIGKILLs it unless the child confirms within 30 ms, which cut graceful shutdowns short (issue 18).
+const child = spawn(process.execPath, ["--import", "tsx", command.script, ...process.argv.slice(3)], {
   stdio: "inherit",
   cwd: root,
   env: process.env,
