@@ -26,10 +26,11 @@ export default function WatchPage() {
   const [sound, setSound] = useState(false);
   const [warm, setWarm] = useState(false);
   const [note, setNote] = useState("");
-  const [done, setDone] = useState<string | null>(null);
+  const [done, setDone] = useState<{ text: string; defectId: string | null } | null>(null);
   if (q.isPending) return <Loading what="Loading the stages under watch" />;
   if (q.isError) return <ErrorPanel error={q.error} />;
   const live = q.data.stages.filter((s) => s.status === "energised");
+  const stopped = q.data.stages.filter((s) => s.status === "stopped");
   const stage = live.find((s) => s.id === search.get("stage")) ?? live[0];
   const needsPhase = lamps === "one_dim" || lamps === "one_dark";
   const save = () =>
@@ -41,11 +42,14 @@ export default function WatchPage() {
       },
       {
         onSuccess: (r) => {
-          const inc = (r as { incidents: Array<{ defectRef: number }> }).incidents;
+          const inc = (r as { incidents: Array<{ defectRef: number; defectId: string }> }).incidents;
           setDone(
             inc.length
-              ? `Saved. Incident recorded: defect D-${inc[0].defectRef} opened and the stage is stopped. Tell the qualified person now.`
-              : "Saved. Thank you.",
+              ? {
+                  text: `Saved. Incident recorded: defect D-${inc[0].defectRef} opened and the stage is stopped. Tell the qualified person now.`,
+                  defectId: inc[0].defectId,
+                }
+              : { text: "Saved. Thank you.", defectId: null },
           );
           setLamps(null);
           setPhase(null);
@@ -65,6 +69,24 @@ export default function WatchPage() {
       </p>
       <h1 className="text-2xl font-bold">Watch check</h1>
       <RtsCaution compact />
+      {done && (
+        <p
+          role="status"
+          className={`rounded-md p-3 font-semibold ${done.defectId ? "bg-rust-700 text-chalk" : "bg-hull-800"}`}
+        >
+          {done.text}{" "}
+          {done.defectId && (
+            <Link className="underline" to={paths.defect.href(site.id, done.defectId)}>
+              Open the defect
+            </Link>
+          )}
+        </p>
+      )}
+      {stopped.map((s) => (
+        <p key={s.id} className="rounded-md border border-rust-400 p-3 text-sm">
+          <strong>{s.name}</strong> is stopped by an incident: no watch checks until the curator starts it again.
+        </p>
+      ))}
       {!stage ? (
         <p>No stage of {q.data.board.name} is live under watch.</p>
       ) : (
@@ -170,11 +192,6 @@ export default function WatchPage() {
           {act.error && (
             <p role="alert" className="text-rust-300">
               {act.error instanceof ApiError ? act.error.message : String(act.error)}
-            </p>
-          )}
-          {done && (
-            <p role="status" className="rounded-md bg-hull-800 p-3 font-semibold">
-              {done}
             </p>
           )}
         </form>

@@ -113,7 +113,7 @@ export function StageForm({
         </p>
       )}
       <label className="block">
-        Name
+        Stage name
         <input className={input} value={name} onChange={(e) => setName(e.target.value)} required minLength={2} />
       </label>
       <fieldset disabled={live}>

@@ -1,0 +1,194 @@
+import { expect, request, test, type APIRequestContext, type Page } from "@playwright/test";
+import { expectNoSeriousA11yViolations } from "./support/a11y";
+import { DEMO_PASSWORD, signIn } from "./support/auth";
+
+/**
+ * Issue 12 end to end, on a board of its own (so the test does not depend on other tests or on
+ * a retry): the curator builds a two-stage plan from the template, sees the gate blocked with
+ * its reasons, fixes them (names the qualified person, records the missing insulation reading),
+ * signs the hold points as a qualified person and energises; a volunteer on a phone records a
+ * watch check with a dark lamp; the incident's defect appears in the register and the stage is
+ * stopped. The demo curator, Ines Marrow (invented), is a qualified person in the demo.
+ */
+const stamp = Date.now().toString(36);
+const BOARD = `Test board ${stamp}`;
+const TIE = `BT-${stamp}`;
+const FEEDER = `F-${stamp}`;
+const STAGE_1 = "Bus tie at reduced voltage";
+const STAGE_2 = "Feeders at full voltage";
+
+async function curatorApi(baseURL: string): Promise<APIRequestContext> {
+  const api = await request.newContext({ baseURL, extraHTTPHeaders: { origin: baseURL } });
+  const r = await api.post("/api/auth/sign-in", { data: { email: "curator@tideline.test", password: DEMO_PASSWORD } });
+  expect(r.status()).toBe(200);
+  return api;
+}
+
+/** A small board with two sections, one bus tie and one feeder breaker (components come with the positions). */
+async function makeBoard(api: APIRequestContext, siteId: string) {
+  const ok = async (p: Promise<{ status(): number; json(): Promise<unknown> }>) => {
+    const r = await p;
+    expect(r.status(), JSON.stringify(await r.json())).toBe(201);
+    return (await r.json()) as Record<string, any>;
+  };
+  const board = await ok(
+    api.post(`/api/sites/${siteId}/boards`, { data: { name: BOARD, nominalVolts: 450, gridRows: 2, gridCols: 4 } }),
+  );
+  const boardId = (board.board ?? board).id as string;
+  const tie = await ok(api.post(`/api/sites/${siteId}/boards/${boardId}/sections`, { data: { name: "Bus tie" } }));
+  const feeders = await ok(api.post(`/api/sites/${siteId}/boards/${boardId}/sections`, { data: { name: "Feeders" } }));
+  const sectionId = (x: Record<string, any>) => (x.section ?? x).id as string;
+  await ok(
+    api.post(`/api/sites/${siteId}/boards/${boardId}/positions`, {
+      data: { designation: TIE, kind: "bus_tie", gridRow: 1, gridCol: 1, sectionId: sectionId(tie) },
+    }),
+  );
+  await ok(
+    api.post(`/api/sites/${siteId}/boards/${boardId}/positions`, {
+      data: {
+        designation: FEEDER,
+        kind: "molded_case_breaker",
+        gridRow: 2,
+        gridCol: 1,
+        circuit: "Steering gear",
+        sectionId: sectionId(feeders),
+      },
+    }),
+  );
+  return boardId;
+}
+
+const stageCard = (page: Page, name: string) =>
+  page.getByTestId("stage").filter({ has: page.getByRole("heading", { name: new RegExp(`^Stage \\d+: ${name}$`) }) });
+const hold = (page: Page, stage: string, kind: string) => stageCard(page, stage).getByTestId(`hold-${kind}`);
+
+test("the curator plans two stages, fixes the gate's blockers and energises; a volunteer's dark lamp on a phone stops the stage and opens a defect", async ({
+  page,
+  browser,
+  baseURL,
+}) => {
+  test.setTimeout(360_000); // many saves and four accessibility scans on a shared, loaded machine
+  await signIn(page, "curator");
+  const siteId = page.url().match(/sites\/([0-9a-f-]{36})/)![1];
+  const api = await curatorApi(baseURL!);
+  const boardId = await makeBoard(api, siteId);
+
+  // The overview names the new board with no plan yet.
+  await page.goto(`/sites/${siteId}/return-to-service`);
+  await expect(page.getByRole("heading", { level: 1, name: "Return to service" })).toBeVisible();
+  await expect(page.getByTestId("rts-caution")).toContainText("never authorises energisation");
+  await expect(page.getByTestId("rts-board").filter({ hasText: BOARD })).toContainText("No plan yet");
+  await page.getByRole("link", { name: BOARD }).click();
+  await expect(page.getByRole("heading", { level: 1, name: `Return to service · ${BOARD}` })).toBeVisible();
+  await expect(page.getByText("No stages planned yet.")).toBeVisible();
+
+  // Stage 1 from the template, without a qualified person.
+  await page.getByRole("button", { name: "Add a stage" }).click();
+  let form = page.getByRole("form", { name: "New stage" });
+  await form.getByLabel("Stage name").fill(STAGE_1);
+  await form.getByRole("checkbox", { name: "Bus tie" }).check();
+  await form.getByLabel("Voltage step").selectOption({ label: "Reduced voltage" });
+  await form.getByLabel("Volts at this step").fill("230");
+  await form.getByRole("button", { name: "Add the stage" }).click();
+  await expect(stageCard(page, STAGE_1)).toBeVisible();
+
+  // Stage 2 depends on stage 1, with the qualified person named.
+  await page.getByRole("button", { name: "Add a stage" }).click();
+  form = page.getByRole("form", { name: "New stage" });
+  await form.getByLabel("Stage name").fill(STAGE_2);
+  await form.getByRole("checkbox", { name: "Feeders" }).check();
+  await form.getByLabel("Qualified person").selectOption({ label: "Ines Marrow" });
+  await form.getByLabel("Depends on").selectOption({ label: STAGE_1 });
+  await form.getByRole("button", { name: "Add the stage" }).click();
+  await expect(stageCard(page, STAGE_2)).toBeVisible();
+
+  // Both took the template's ten hold points.
+  await expect(stageCard(page, STAGE_1).locator("[data-testid^='hold-']")).toHaveCount(10);
+  // A stage cannot go ahead of the one it depends on.
+  await stageCard(page, STAGE_2).getByRole("button", { name: "Earlier" }).click();
+  await expect(stageCard(page, STAGE_2).getByRole("alert")).toContainText("depends on");
+
+  // The gate is blocked, and says why, with links.
+  const one = stageCard(page, STAGE_1);
+  await expect(one.getByTestId("stage-state")).toHaveText("Blocked");
+  await expect(hold(page, STAGE_1, "insulation")).toContainText(`${TIE}: no insulation reading recorded.`);
+  await expect(hold(page, STAGE_1, "energise")).toContainText("No qualified person named for this stage.");
+  await expect(stageCard(page, STAGE_2).getByTestId("hold-energise")).toContainText(`Waits for “${STAGE_1}”`);
+  await expectNoSeriousA11yViolations(page, "return to service: a plan blocked");
+
+  // Fix 1: name the qualified person.
+  await one.getByRole("button", { name: "Edit the stage" }).click();
+  form = page.getByRole("form", { name: `Edit stage ${STAGE_1}` });
+  await form.getByLabel("Qualified person").selectOption({ label: "Ines Marrow" });
+  await form.getByRole("button", { name: "Save the stage" }).click();
+  await expect(hold(page, STAGE_1, "energise")).not.toContainText("No qualified person named");
+  await expect(one).toContainText("Qualified person: Ines Marrow");
+
+  // Fix 2: the blocker's link leads to the bus tie's readings; record the missing reading there.
+  await hold(page, STAGE_1, "insulation")
+    .getByRole("link", { name: /no insulation reading recorded/ })
+    .click();
+  const ir = page.getByRole("form", { name: "Record an insulation-resistance reading" });
+  await ir.getByLabel("Reading (MΩ)").fill("800");
+  await ir.getByLabel("Equipment temperature (°C)").fill("20");
+  await ir.getByRole("button", { name: "Save reading" }).click();
+  await expect(page.getByRole("status").filter({ hasText: "Saved:" })).toContainText("Meets the recorded criterion");
+  await page.goto(`/sites/${siteId}/boards/${boardId}/return-to-service`);
+  await expect(one.getByTestId("stage-state")).not.toHaveText("Blocked");
+  await expect(hold(page, STAGE_1, "insulation")).not.toContainText("no insulation reading");
+  await expect(hold(page, STAGE_1, "insulation")).toContainText("Waiting"); // for the hold point before it
+
+  // Sign the hold points as the qualified person, then energise.
+  for (const kind of ["isolate", "insulation", "defects", "protection", "clearance"]) {
+    await hold(page, STAGE_1, kind).getByRole("button", { name: "Sign this hold point" }).click();
+    await expect(hold(page, STAGE_1, kind)).toContainText("Signed by Ines Marrow");
+  }
+  await expect(one.getByTestId("stage-state")).toHaveText("Hold points met up to energising");
+  await hold(page, STAGE_1, "energise").getByRole("button", { name: "Sign: energised now" }).click();
+  await expect(one.getByTestId("stage-state")).toHaveText("Live, under watch");
+  await expect(one.getByTestId("watch-state")).toContainText("Next watch check due");
+  await expect(page.getByRole("list", { name: "Log" })).toContainText(`Energised: ${STAGE_1}`);
+  await expect(page.getByRole("figure", { name: "Timeline of the return to service" })).toBeVisible();
+  await expectNoSeriousA11yViolations(page, "return to service: a stage live");
+
+  // The printable stage sheet has a blank line per hold point for the clipboard.
+  await one.getByRole("link", { name: "Printable stage sheet" }).click();
+  await expect(page.getByRole("heading", { name: new RegExp(`Stage: ${STAGE_1}`) })).toBeVisible();
+  await expect(page.getByRole("row")).toHaveCount(11);
+  await expect(page.getByText("it does not authorise energisation")).toBeVisible();
+
+  // A volunteer on a phone records a watch check: one lamp dark on phase B.
+  const phone = await browser.newContext({ viewport: { width: 360, height: 740 }, baseURL });
+  const vol = await phone.newPage();
+  await signIn(vol, "volunteer");
+  await vol.goto(`/sites/${siteId}/boards/${boardId}/watch`);
+  await expect(vol.getByRole("heading", { level: 1, name: "Watch check" })).toBeVisible();
+  await expect(vol.getByTestId("rts-caution")).toBeVisible();
+  await expect(vol.getByText(STAGE_1)).toBeVisible();
+  await vol.getByRole("button", { name: "One dark" }).click();
+  await vol.getByRole("button", { name: "B", exact: true }).click();
+  await vol.getByLabel("Note").fill("Phase B lamp went out two minutes after the check began");
+  await expectNoSeriousA11yViolations(vol, "watch check on a phone");
+  await vol.getByRole("button", { name: "Save the check" }).click();
+  const said = vol.getByRole("status").filter({ hasText: "Incident recorded" });
+  await expect(said).toContainText("the stage is stopped");
+  const ref = (await said.textContent())!.match(/D-\d+/)![0];
+
+  // The incident's defect is in the register, safety-critical.
+  await vol.goto(`/sites/${siteId}/defects?q=${encodeURIComponent("Ground lamp dark on phase B")}`);
+  await expect(vol.getByText(/Return to service incident: Ground lamp dark on phase B/).first()).toBeVisible();
+  await expect(vol.getByText(ref).first()).toBeVisible();
+  await phone.close();
+
+  // The curator sees the stage stopped, the incident in the log, and the stage after it still waiting.
+  await page.goto(`/sites/${siteId}/boards/${boardId}/return-to-service`);
+  await expect(one.getByTestId("stage-state")).toHaveText("Stopped by an incident");
+  await expect(page.getByRole("list", { name: "Log" })).toContainText("Incident: Ground lamp dark");
+  await expect(stageCard(page, STAGE_2).getByTestId("stage-state")).toHaveText("Blocked");
+  await page.goto(`/sites/${siteId}/return-to-service`);
+  await expect(page.getByTestId("rts-board").filter({ hasText: BOARD })).toContainText(
+    `1. ${STAGE_1}: Stopped by an incident`,
+  );
+  await expectNoSeriousA11yViolations(page, "return to service overview");
+  await api.dispose();
+});
