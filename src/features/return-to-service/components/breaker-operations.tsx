@@ -233,7 +233,7 @@ export function BreakerOperations({
         each). The budget warns; it never blocks. Where a breaker is near its budget, consider energising from the
         temporary supply instead of working it.
       </p>
-      <div className="overflow-x-auto">
+      <div className="relative overflow-x-auto">
         <table className="w-full min-w-[40rem] text-sm">
           <caption className="sr-only">Breaker operations against their budgets</caption>
           <thead>
