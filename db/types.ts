@@ -792,7 +792,18 @@ export interface IdempotencyKeysTable {
   completedAt: ColumnType<Date | null, Date | string | null | undefined, Date | string | null>;
 }
 
+/** One running download per row (issue 11): the per-person cap across instances; server/export-stream.ts writes it. */
+export interface ExportSlotsTable {
+  id: Generated<string>;
+  /** The person's user id ("anonymous" for a download without a session). */
+  holder: string;
+  startedAt: Generated<Date>;
+  /** Renewed while the download runs; an expired row no longer counts (its instance died). */
+  leaseUntil: Date;
+}
+
 export interface Database {
+  exportSlots: ExportSlotsTable;
   idempotencyKeys: IdempotencyKeysTable;
   defectReadings: DefectReadingsTable;
   users: UsersTable;

@@ -6,10 +6,12 @@
  *   it and wait for the socket to drain before asking for the next page;
  * - a reader that takes nothing for `EXPORT_WRITE_TIMEOUT_MS` (default 30 s) is dropped,
  *   so a stalled download does not keep its memory and its slot for ever;
- * - one person runs at most `EXPORTS_PER_PERSON` (default 2) downloads at once in this
- *   process; more get 429 with Retry-After.
+ * - one person runs at most `EXPORTS_PER_PERSON` (default 2) downloads at once across every
+ *   instance on the database (slots in `export_slots`, with a lease); more get 429 with Retry-After.
  */
 import type { RequestHandler, Response } from "express";
+import { sql } from "kysely";
+import type { Db } from "./db";
 import { dbFailureOf } from "./db-errors";
 import { AppError } from "./errors";
 
@@ -30,39 +32,100 @@ export class ExportAborted extends Error {
   }
 }
 
+/** Downloads this process holds a slot for, per person (for tests and metrics). */
 const running = new Map<string, number>();
 
 /** How many downloads each person has running here (for tests and metrics). */
 export const runningExports = () => new Map(running);
 
+/** How long a slot counts without renewal: an instance that died stops holding its people's slots after this. */
+export const exportSlotLeaseMs = () => envInt("EXPORT_SLOT_LEASE_MS", 60_000);
+
 /**
- * Route middleware: counts the caller's running downloads and refuses one too many with
- * 429 and Retry-After. The slot is freed when the response closes, however it ends.
+ * Takes one of the person's download slots in PostgreSQL, so the cap holds across every
+ * instance on the database: under a per-person transaction-scoped advisory lock, count the
+ * person's slots whose lease has not run out and insert one if there is room. Returns the
+ * slot's id, or null when the person already has `cap` running.
  */
-export const limitExports: RequestHandler = (_req, res, next) => {
-  const who = res.locals.user?.id ?? "anonymous";
-  const now = running.get(who) ?? 0;
-  if (now >= exportsPerPerson()) {
-    res.setHeader("Retry-After", String(RETRY_AFTER_S));
-    return next(
-      new AppError(
-        429,
-        "too_many_exports",
-        `You already have ${now} downloads running. Let one finish, then try again.`,
-      ),
-    );
-  }
-  running.set(who, now + 1);
-  let freed = false;
-  res.once("close", () => {
-    if (freed) return;
-    freed = true;
-    const left = (running.get(who) ?? 1) - 1;
-    if (left > 0) running.set(who, left);
-    else running.delete(who);
+export async function acquireExportSlot(db: Db, holder: string, cap = exportsPerPerson()): Promise<string | null> {
+  return db.transaction().execute(async (trx) => {
+    await sql`SELECT pg_advisory_xact_lock(hashtext('tideline.export-slots'), hashtext(${holder}))`.execute(trx);
+    await trx
+      .deleteFrom("exportSlots")
+      .where("holder", "=", holder)
+      .where("leaseUntil", "<", sql<Date>`now()`)
+      .execute();
+    const { n } = await trx
+      .selectFrom("exportSlots")
+      .select((eb) => eb.fn.countAll<number>().as("n"))
+      .where("holder", "=", holder)
+      .executeTakeFirstOrThrow();
+    if (Number(n) >= cap) return null;
+    const slot = await trx
+      .insertInto("exportSlots")
+      .values({ holder, leaseUntil: sql<Date>`now() + ${exportSlotLeaseMs()} * interval '1 millisecond'` })
+      .returning("id")
+      .executeTakeFirstOrThrow();
+    return slot.id;
   });
-  next();
-};
+}
+
+export async function renewExportSlot(db: Db, id: string) {
+  await db
+    .updateTable("exportSlots")
+    .set({ leaseUntil: sql<Date>`now() + ${exportSlotLeaseMs()} * interval '1 millisecond'` })
+    .where("id", "=", id)
+    .execute();
+}
+
+export async function releaseExportSlot(db: Db, id: string) {
+  await db.deleteFrom("exportSlots").where("id", "=", id).execute();
+}
+
+/**
+ * Route middleware: takes one of the caller's download slots (in PostgreSQL, shared by every
+ * instance) and refuses one too many with 429 and Retry-After. The slot's lease is renewed
+ * while the response is open and the slot is freed when it closes, however it ends; a renewal
+ * or release that fails (database gone) is left to the lease to clean up.
+ */
+export function limitExports(db: Db): RequestHandler {
+  return async (_req, res, next) => {
+    const who = res.locals.user?.id ?? "anonymous";
+    let slot: string | null;
+    try {
+      slot = await acquireExportSlot(db, who);
+    } catch (e) {
+      return next(e);
+    }
+    if (!slot) {
+      res.setHeader("Retry-After", String(RETRY_AFTER_S));
+      return next(
+        new AppError(
+          429,
+          "too_many_exports",
+          `You already have ${exportsPerPerson()} downloads running. Let one finish, then try again.`,
+        ),
+      );
+    }
+    const id = slot;
+    running.set(who, (running.get(who) ?? 0) + 1);
+    const renew = setInterval(() => renewExportSlot(db, id).catch(() => {}), Math.max(1000, exportSlotLeaseMs() / 3));
+    renew.unref();
+    let freed = false;
+    const free = () => {
+      if (freed) return;
+      freed = true;
+      clearInterval(renew);
+      const left = (running.get(who) ?? 1) - 1;
+      if (left > 0) running.set(who, left);
+      else running.delete(who);
+      releaseExportSlot(db, id).catch(() => {});
+    };
+    res.once("close", free);
+    if (res.destroyed) free();
+    next();
+  };
+}
 
 export interface ExportWriter {
   /** Writes a chunk; resolves once the socket can take more. Throws ExportAborted when the reader is gone or stalled. */

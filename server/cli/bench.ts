@@ -26,6 +26,7 @@
  * (the server writes a V8 CPU profile to .data/bench-profile/ when it stops; open it in chromium's DevTools).
  * A script, not a test: `npm test` never runs it.
  */
+import "../bench/quiet";
 import { spawn, spawnSync, type ChildProcess } from "node:child_process";
 import { randomBytes } from "node:crypto";
 import { readFileSync } from "node:fs";
@@ -46,6 +47,7 @@ import { capturingDb, planReplay, replay, type Replay } from "../bench/replay";
 import { BENCH_PASSWORD, describeSite, generateSite, type BenchSite } from "../bench/site";
 import { median, percentile, spread, table } from "../bench/stats";
 import { buildClient } from "./prepare";
+import { benchFleet } from "./bench-fleet";
 import { benchReport } from "./bench-report";
 
 const arg = (name: string) => process.argv.find((a) => a === `--${name}` || a.startsWith(`--${name}=`));
@@ -430,6 +432,7 @@ async function main() {
       const sampler = setInterval(() => (peak = Math.max(peak, rssOf(pid))), 10);
       const a = performance.now();
       const res = await fetch(`${base}/api/sites/${site.siteId}/defects.csv?sort=priority`, { headers: { cookie } });
+      if (res.status !== 200) throw new Error(`the CSV export answered ${res.status}: ${await res.text()}`);
       let bytes = 0;
       for await (const chunk of res.body as unknown as AsyncIterable<Uint8Array>) bytes += chunk.length;
       const secs = (performance.now() - a) / 1000;
@@ -543,3 +546,5 @@ async function main() {
 await main();
 // The condition survey report's case (issue 17) runs on its own scratch database.
 if (process.env.BENCH_REPORT !== "0") await benchReport();
+// One web instance against two (issue 18): server/cli/bench-fleet.ts; BENCH_FLEET=0 skips it.
+if (process.env.BENCH_FLEET !== "0") await benchFleet();

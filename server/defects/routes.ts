@@ -70,7 +70,7 @@ export function defectRoutes(db: Db, mail?: MailDeps) {
     res.json({ rows: rows.map(toJson), total, page: f.page, size: f.size });
   });
 
-  r.get(`${base}.csv`, member, limitExports, async (req, res) => {
+  r.get(`${base}.csv`, member, limitExports(db), async (req, res) => {
     const f = listQuery.parse(req.query);
     await streamCsv(db, ctxOf(req, res).siteId, f, todayOf(f), res, `defects-${todayOf(f)}.csv`);
   });

@@ -31,7 +31,7 @@ const slug = (s: string) =>
 export function csvRoutes(db: Db) {
   const r = Router();
 
-  r.get("/sites/:siteId/inventory.csv", requireSiteRole(db), limitExports, async (req, res) => {
+  r.get("/sites/:siteId/inventory.csv", requireSiteRole(db), limitExports(db), async (req, res) => {
     const { siteId } = siteParams.parse(req.params);
     const site = await db
       .selectFrom("sites")

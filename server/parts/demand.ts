@@ -181,8 +181,11 @@ export async function syncDemand(
     allLines.set(l.id, l);
 
   const bySource = new Map<string, repo.LinkRecord[]>();
-  for (const l of links)
-    bySource.set(l.componentId ?? l.defectId!, [...(bySource.get(l.componentId ?? l.defectId!) ?? []), l]);
+  for (const l of links) {
+    const mine = bySource.get(l.componentId ?? l.defectId!);
+    if (mine) mine.push(l);
+    else bySource.set(l.componentId ?? l.defectId!, [l]);
+  }
   const wantedIds = new Set(needs.map((n) => sourceId(n.source)));
   const processed = new Set(needs.filter((n) => n.source.componentId).map((n) => n.source.componentId!));
   // A defect riding on a component outside this change follows that component's current line.
@@ -218,32 +221,43 @@ export async function syncDemand(
   }
 
   for (const group of groupByNeed(pending)) {
+    // Each need's key once (NFKC over every field is the costly part): the whole-site sync of a
+    // 20,000-position site spent minutes recomputing it per new line and need (issue 15 bench).
+    const byKey = new Map<string, Need[]>();
+    for (const n of group) {
+      const k = needKey(n.spec);
+      const same = byKey.get(k);
+      if (same) same.push(n);
+      else byKey.set(k, [n]);
+    }
     for (const d of aggregateDemand(
       group.map((n) => ({ spec: n.spec, qty: n.qty, positionId: n.positionId ?? undefined })),
     )) {
       const line = newRegisterLine(siteId, d.spec, group[0].need, actorId);
       newLines.push({ line, spec: d.spec });
       index.add(line);
-      for (const n of group.filter((x) => needKey(x.spec) === needKey(d.spec))) {
+      for (const n of byKey.get(needKey(d.spec)) ?? []) {
         attachments.push({ line, need: n, note: false });
         if (n.source.componentId) lineOfComponent.set(n.source.componentId, line.id);
       }
     }
   }
 
+  const newLineById = new Map(newLines.map((x) => [x.line.id, x.line]));
   for (const n of needs.filter((x) => x.ridesWith)) {
     const lineId = lineOfComponent.get(n.ridesWith!);
     const mine = bySource.get(sourceId(n.source)) ?? [];
     if (!lineId || mine.some((l) => l.fitted)) continue;
     if (mine.some((l) => l.active && l.lineId === lineId)) continue;
     for (const l of mine) if (l.active) withdrawals.push({ link: l, why: "it now goes with its component" });
-    const line = allLines.get(lineId) ?? newLines.find((x) => x.line.id === lineId)?.line;
+    const line = allLines.get(lineId) ?? newLineById.get(lineId);
     if (line) attachments.push({ line, need: n, note: true });
   }
 
+  const scopeComponents = new Set(scope === "site" ? [] : (scope.componentIds ?? []));
+  const scopeDefects = new Set(scope === "site" ? [] : (scope.defectIds ?? []));
   const inScope = (l: repo.LinkRecord) =>
-    scope === "site" ||
-    (l.componentId ? scope.componentIds?.includes(l.componentId) : scope.defectIds?.includes(l.defectId!));
+    scope === "site" || (l.componentId ? scopeComponents.has(l.componentId) : scopeDefects.has(l.defectId!));
   for (const l of links)
     if (l.active && !l.fitted && inScope(l) && !wantedIds.has(l.componentId ?? l.defectId!))
       withdrawals.push({ link: l, why: "its source no longer asks for a part" });
@@ -262,7 +276,12 @@ export const reconcileDemand = (trx: Db, siteId: string, actorId: string | null 
 
 function groupByNeed(needs: Need[]): Need[][] {
   const groups = new Map<string, Need[]>();
-  for (const n of needs) groups.set(normaliseText(n.need), [...(groups.get(normaliseText(n.need)) ?? []), n]);
+  for (const n of needs) {
+    const k = normaliseText(n.need);
+    const g = groups.get(k);
+    if (g) g.push(n);
+    else groups.set(k, [n]);
+  }
   return [...groups.values()];
 }
 

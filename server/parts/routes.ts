@@ -48,7 +48,7 @@ export function partsRoutes(db: Db, storage: PhotoStorage) {
     res.json(await service.listParts(db, req.params.siteId as string, listQuery.parse(req.query)));
   });
 
-  r.get("/sites/:siteId/parts.csv", requireSiteRole(db, ...ANY_MEMBER), limitExports, async (req, res) => {
+  r.get("/sites/:siteId/parts.csv", requireSiteRole(db, ...ANY_MEMBER), limitExports(db), async (req, res) => {
     // Read 500 lines at a time into memory (a site has hundreds to a few thousand lines; the
     // connection is back in the pool before the first byte goes out), then written with the
     // export's back-pressure and write timeout.

@@ -31,7 +31,7 @@ export function reportRoutes(db: Db, storage: PhotoStorage, publicUrl: string) {
   r.get(
     "/sites/:siteId/reports/survey.pdf",
     requireSiteRole(db, ...REPORT_ROLES.report),
-    limitExports,
+    limitExports(db),
     async (req, res) => {
       const q = surveyReportQuery.parse(req.query);
       const user = res.locals.user!;
@@ -52,23 +52,28 @@ export function reportRoutes(db: Db, storage: PhotoStorage, publicUrl: string) {
     },
   );
 
-  r.get("/sites/:siteId/labels.pdf", requireSiteRole(db, ...REPORT_ROLES.labels), limitExports, async (req, res) => {
-    const q = labelsQuery.parse(req.query);
-    const { items, untagged } = await labelItems(db, req.params.siteId as string, q);
-    const doc = renderLabels(items, {
-      sheet: q.sheet,
-      start: q.start,
-      copies: q.copies,
-      baseUrl: publicUrl,
-      title: "Tideline tag labels",
-    });
-    res.type("application/pdf");
-    attachment(res, `tag-labels-${q.sheet}.pdf`);
-    res.setHeader("X-Labels", String(items.length * q.copies));
-    res.setHeader("X-Labels-Untagged", String(untagged));
-    doc.pipe(res);
-    doc.end();
-  });
+  r.get(
+    "/sites/:siteId/labels.pdf",
+    requireSiteRole(db, ...REPORT_ROLES.labels),
+    limitExports(db),
+    async (req, res) => {
+      const q = labelsQuery.parse(req.query);
+      const { items, untagged } = await labelItems(db, req.params.siteId as string, q);
+      const doc = renderLabels(items, {
+        sheet: q.sheet,
+        start: q.start,
+        copies: q.copies,
+        baseUrl: publicUrl,
+        title: "Tideline tag labels",
+      });
+      res.type("application/pdf");
+      attachment(res, `tag-labels-${q.sheet}.pdf`);
+      res.setHeader("X-Labels", String(items.length * q.copies));
+      res.setHeader("X-Labels-Untagged", String(untagged));
+      doc.pipe(res);
+      doc.end();
+    },
+  );
 
   r.post("/sites/:siteId/tags/assign", requireSiteRole(db, ...REPORT_ROLES.assignTags), async (req, res) => {
     const b = assignTagsBody.parse(req.body);

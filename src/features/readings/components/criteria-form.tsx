@@ -24,6 +24,7 @@ export function CriteriaForm({ siteId, criteria, canEdit }: { siteId: string; cr
       minimumMegohms: numOrNull(f.get("minimumMegohms")),
       minimumSource: String(f.get("minimumSource") ?? ""),
       contactOutlierPercent: numOrNull(f.get("contactOutlierPercent")),
+      dewPointMarginK: numOrNull(f.get("dewPointMarginK")),
       version: criteria.version,
     });
     setSaved(false);
@@ -89,6 +90,13 @@ export function CriteriaForm({ siteId, criteria, canEdit }: { siteId: string; cr
             defaultValue={criteria.contactOutlierPercent}
             error={errors.contactOutlierPercent}
             hint="NETA: 50 %"
+          />
+          <NumberField
+            label="Dew-point margin (K)"
+            name="dewPointMarginK"
+            defaultValue={criteria.dewPointMarginK}
+            error={errors.dewPointMarginK}
+            hint="An insulation reading taken with the equipment less than this above the dew point (Magnus formula, Alduchov–Eskridge coefficients), or below freezing, is not valid for judging. 3 K is common practice."
           />
           <NumberField
             label="Site minimum insulation (MΩ, empty = NETA table)"

@@ -33,6 +33,7 @@ export function GroundCheckForm({
       lamps: mode === "looks" ? phases((p) => String(f.get(`lamp${p}`) ?? "")) : null,
       volts: mode === "volts" ? phases((p) => numOrNull(f.get(`volts${p}`))) : null,
       branchOhms: mode === "volts" ? numOrNull(f.get("branchOhms")) : null,
+      capacitanceMicroF: mode === "volts" ? numOrNull(f.get("capacitanceMicroF")) : null,
       notes: String(f.get("notes") ?? ""),
       measuredAt: toIso(String(f.get("measuredAt") ?? "")),
     };
@@ -111,6 +112,12 @@ export function GroundCheckForm({
               name="branchOhms"
               hint="Gives an estimate of the fault resistance"
               error={errors.branchOhms}
+            />
+            <NumberField
+              label="Capacitance to ground per phase (µF, optional)"
+              name="capacitanceMicroF"
+              hint="From the system's cable and equipment data, or measured. Without it the estimate is shown as a range, since the charging current of the phases' capacitance is left out."
+              error={errors.capacitanceMicroF}
             />
           </>
         )}

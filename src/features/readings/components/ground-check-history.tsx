@@ -15,10 +15,28 @@ export function GroundCheckCard({ check }: { check: GroundCheck }) {
       <p className="font-semibold" data-testid="ground-words">
         {check.judgement.words}
       </p>
+      {check.judgement.faultRange && <FaultRange check={check} />}
       <VerdictBadge verdict={check.judgement.verdict} />
       <SourceDetails sources={[{ title: "How the lamps are read", source: check.judgement.source }]} />
       {check.notes && <p className="text-sm text-mist">{check.notes}</p>}
     </div>
+  );
+}
+
+/** The fault-resistance estimate as a range: the lamp model with the phases' capacitance when the crew gave it. */
+function FaultRange({ check }: { check: GroundCheck }) {
+  const r = check.judgement.faultRange!;
+  const ohms = (v: number | null) => (v === null ? "—" : `${sig(v)} Ω`);
+  return (
+    <p className="text-sm" data-testid="fault-range">
+      Estimated fault resistance {ohms(r.lowOhms)} to {ohms(r.highOhms)}
+      {r.centralOhms !== null && ` (central ${ohms(r.centralOhms)})`}.{" "}
+      <span className="text-mist">
+        {r.capacitanceNeglected
+          ? "Capacitance to ground not given: neglecting it overstates the resistance (by about 45 % at 1 µF per phase), so the range is wide."
+          : `With ${sig(check.capacitanceMicroF ?? 0)} µF per phase to ground.`}
+      </span>
+    </p>
   );
 }
 
