@@ -17,7 +17,9 @@ export async function createTestDb(): Promise<TestDb> {
   const name = `t_${randomBytes(6).toString("hex")}`;
   await ensureDatabase(adminUrl, name, { template: inject("templateDb") });
   const url = adminUrl.replace(/\/postgres$/, `/${name}`);
-  const db = createDb(url, 5);
+  // As many connections as an app instance has by default (DATABASE_POOL_MAX): the job worker polls through
+  // this pool too, and five left a slow PDF waiting past the acquire timeout on a loaded machine.
+  const db = createDb(url, 10);
   return {
     db,
     url,
