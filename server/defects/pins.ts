@@ -2,7 +2,7 @@ import { sql } from "kysely";
 import { recordAudit } from "../audit";
 import type { Db } from "../db";
 import { AppError, forbidden, notFound } from "../errors";
-import { canManage } from "../../src/domain/defect-workflow";
+import { can } from "../../src/domain/permissions";
 import * as repo from "./repository";
 import type { Ctx } from "./service";
 
@@ -17,7 +17,7 @@ export async function pin(
   id: string,
   b: { direction: "above" | "below"; relativeTo: string; reason: string },
 ) {
-  if (!canManage(ctx.actor.role)) throw forbidden("Only the curator pins defects.");
+  if (!can(ctx.actor.role, "defects.manage")) throw forbidden("Only the curator pins defects.");
   return db.transaction().execute(async (trx) => {
     const d = await repo.lockDefect(trx, ctx.siteId, id);
     if (!d) throw notFound("That defect");
@@ -73,7 +73,7 @@ export async function pin(
 }
 
 export async function unpin(db: Db, ctx: Ctx, id: string, reason: string) {
-  if (!canManage(ctx.actor.role)) throw forbidden("Only the curator pins and unpins defects.");
+  if (!can(ctx.actor.role, "defects.manage")) throw forbidden("Only the curator pins and unpins defects.");
   return db.transaction().execute(async (trx) => {
     const d = await repo.lockDefect(trx, ctx.siteId, id);
     if (!d) throw notFound("That defect");

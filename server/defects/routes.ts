@@ -61,8 +61,8 @@ export function defectRoutes(db: Db, mail?: MailDeps) {
   const r = Router();
   const base = "/sites/:siteId/defects";
   const member = requireSiteRole(db);
-  const raisers = requireSiteRole(db, "curator", "volunteer");
-  const curator = requireSiteRole(db, "curator");
+  const raisers = requireSiteRole(db, "defects.raise");
+  const curator = requireSiteRole(db, "defects.manage");
 
   r.get(base, member, async (req, res) => {
     const f = listQuery.parse(req.query);

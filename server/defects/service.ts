@@ -6,7 +6,8 @@ import { sql } from "kysely";
 import { recordAudit, diff } from "../audit";
 import type { Db } from "../db";
 import { AppError, conflict, forbidden, notFound } from "../errors";
-import { canEdit, canManage, canRaise, checkTransition, type Actor } from "../../src/domain/defect-workflow";
+import { canEdit, checkTransition, type Actor } from "../../src/domain/defect-workflow";
+import { can } from "../../src/domain/permissions";
 import { priorityScore } from "../../src/domain/priority";
 import type { DefectStatus } from "../../src/domain/vocab";
 import type { BulkBody, CreateDefectBody, PatchDefectBody } from "../../src/schemas/defects";
@@ -138,8 +139,8 @@ async function insertRaised(
 }
 
 export async function createDefect(db: Db, ctx: Ctx, body: CreateDefectBody) {
-  if (!canRaise(ctx.actor.role)) throw forbidden("Your role on this site cannot raise defects.");
-  if ((body.assigneeId || body.dueOn) && !canManage(ctx.actor.role))
+  if (!can(ctx.actor.role, "defects.raise")) throw forbidden("Your role on this site cannot raise defects.");
+  if ((body.assigneeId || body.dueOn) && !can(ctx.actor.role, "defects.manage"))
     throw forbidden("Only the curator assigns defects and sets due dates.");
   return db.transaction().execute(async (trx) => {
     const { assigneeId, fromReading, ...rest } = body;
@@ -166,7 +167,7 @@ export async function addReadingLink(
   return db.transaction().execute(async (trx) => {
     const d = await lockAt(trx, ctx, id);
     const own = [d.createdBy, d.assigneeId, d.repairedBy].includes(ctx.actor.id);
-    if (!canManage(ctx.actor.role) && !(ctx.actor.role === "volunteer" && own))
+    if (!can(ctx.actor.role, "defects.manage") && !(ctx.actor.role === "volunteer" && own))
       throw forbidden("Only the curator, or the volunteer working on it, links readings to this defect.");
     await linkReading(trx, ctx.siteId, ctx.actor.id, d, b);
     return evidenceOf(trx, ctx.siteId, d);
@@ -224,7 +225,7 @@ export async function patchDefect(db: Db, ctx: Ctx, id: string, body: PatchDefec
     if (!canEdit(d, ctx.actor))
       throw forbidden("Only the curator, or the volunteer who raised it, can edit this defect.");
     const { version: _v, assigneeId, ...fields } = body;
-    if ((assigneeId !== undefined || fields.dueOn !== undefined) && !canManage(ctx.actor.role))
+    if ((assigneeId !== undefined || fields.dueOn !== undefined) && !can(ctx.actor.role, "defects.manage"))
       throw forbidden("Only the curator assigns defects and sets due dates.");
     const links = await resolveLinks(trx, ctx.siteId, {
       boardId: d.boardId,
@@ -261,7 +262,7 @@ export async function patchDefect(db: Db, ctx: Ctx, id: string, body: PatchDefec
 
 /** THE assignment use case (curator only; the assignee must be on the crew). */
 export async function assign(trx: Db, ctx: Ctx, d: Locked, assigneeId: string | null) {
-  if (!canManage(ctx.actor.role)) throw forbidden("Only the curator assigns defects.");
+  if (!can(ctx.actor.role, "defects.manage")) throw forbidden("Only the curator assigns defects.");
   if (assigneeId && !(await repo.memberRole(trx, ctx.siteId, assigneeId)))
     throw new AppError(400, "invalid_input", "That person is not on this site's crew.", {
       assigneeId: "Not on the crew",
@@ -367,7 +368,7 @@ export async function assignDefect(db: Db, ctx: Ctx, id: string, b: { assigneeId
 
 /** Curator's bulk edit: all or nothing, each defect through the same use case as one at a time. */
 export async function bulk(db: Db, ctx: Ctx, b: BulkBody) {
-  if (!canManage(ctx.actor.role)) throw forbidden("Only the curator can change several defects at once.");
+  if (!can(ctx.actor.role, "defects.manage")) throw forbidden("Only the curator can change several defects at once.");
   const ids = [...new Set(b.ids)];
   return db.transaction().execute(async (trx) => {
     const errors: Record<string, string> = {};

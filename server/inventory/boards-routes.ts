@@ -26,7 +26,7 @@ const S = "/sites/:siteId";
 export function boardRoutes(db: Db) {
   const r = Router();
   const anyMember = requireSiteRole(db);
-  const curator = requireSiteRole(db, "curator");
+  const curator = requireSiteRole(db, "inventory.curate");
 
   r.get(`${S}/overview`, anyMember, async (req, res) => {
     res.json(await overview(db, siteParams.parse(req.params).siteId));

@@ -42,7 +42,7 @@ export function csvRoutes(db: Db) {
     await streamInventoryCsv(db, siteId, site.timeZone, `${slug(site.name)}-inventory-${day}.csv`, res);
   });
 
-  r.post("/sites/:siteId/inventory/import", requireSiteRole(db, "curator"), csvBytes, async (req, res) => {
+  r.post("/sites/:siteId/inventory/import", requireSiteRole(db, "inventory.curate"), csvBytes, async (req, res) => {
     const { siteId } = siteParams.parse(req.params);
     const { mode, expect } = importQuery.parse(req.query);
     const decoded = Buffer.isBuffer(req.body)

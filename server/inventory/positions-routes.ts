@@ -22,7 +22,7 @@ const S = "/sites/:siteId";
 export function positionRoutes(db: Db) {
   const r = Router();
   const anyMember = requireSiteRole(db);
-  const curator = requireSiteRole(db, "curator");
+  const curator = requireSiteRole(db, "inventory.curate");
 
   r.post(`${S}/boards/:boardId/positions/generate`, curator, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);

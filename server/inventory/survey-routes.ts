@@ -22,8 +22,8 @@ const C = "/sites/:siteId/components/:componentId";
 export function surveyRoutes(db: Db) {
   const r = Router();
   const anyMember = requireSiteRole(db);
-  const fieldCrew = requireSiteRole(db, "volunteer", "curator");
-  const curator = requireSiteRole(db, "curator");
+  const fieldCrew = requireSiteRole(db, "inventory.log");
+  const curator = requireSiteRole(db, "inventory.curate");
 
   r.patch(C, curator, async (req, res) => {
     const { siteId, componentId } = componentParams.parse(req.params);

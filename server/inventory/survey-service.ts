@@ -1,5 +1,6 @@
 /** Use cases on a component: nameplate edits, inspections, custody moves and dispositions. */
 import { astmD610Grade, iso4628RiGrade } from "../../src/domain/corrosion";
+import { can } from "../../src/domain/permissions";
 import type { z } from "zod";
 import type {
   PatchComponentBody,
@@ -152,7 +153,7 @@ export async function moveCustody(
     if (before.version !== b.version) throw stale("component", before);
     const refusals = checkCustodyMove(await custodyFacts(trx, siteId, before, b.tagNumber), b.toState);
     const releasing = b.releaseReason !== undefined;
-    if (releasing && actor.role !== "curator" && actor.role !== "admin")
+    if (releasing && !can(actor.role, "custody.release"))
       throw new AppError(403, "forbidden", "Only the curator releases a move the custody chain refuses.", {
         releaseReason: "Curator only",
       });

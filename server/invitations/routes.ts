@@ -18,7 +18,7 @@ const tokenParams = z.object({
 export function invitationRoutes(deps: MailDeps, lucia: AppLucia, limiters: Limiters) {
   const r = Router();
   const { db } = deps;
-  const curator = requireSiteRole(db, "curator");
+  const curator = requireSiteRole(db, "invitations.manage");
 
   r.get("/sites/:siteId/invitations", curator, async (req, res) => {
     const { siteId } = siteParams.parse(req.params);

@@ -1,5 +1,6 @@
 import type { RequestHandler } from "express";
 import { z } from "zod";
+import { can, isAction, type Action } from "../../src/domain/permissions";
 import type { Role } from "../../src/domain/vocab";
 import type { Db } from "../db";
 import { AppError, forbidden } from "../errors";
@@ -20,11 +21,16 @@ export const requireAdmin: RequestHandler = (_req, res, next) => {
 const siteParam = z.object({ siteId: z.uuid({ message: "siteId must be a UUID" }) });
 
 /**
- * The caller must be a member of the site named by :siteId with one of the roles
- * (an instance admin counts as every role). Non-members get 404, so site ids of
- * other crews are not confirmed to exist.
+ * The caller must be a member of the site named by :siteId whose role may do `action` in the
+ * permission table (src/domain/permissions.ts); without an action, any member passes (an instance
+ * admin counts as every role). Non-members get 404, so site ids of other crews are not confirmed
+ * to exist. A list of roles is still accepted for branches written before the table; name an
+ * action instead.
  */
-export function requireSiteRole(db: Db, ...roles: Role[]): RequestHandler {
+export function requireSiteRole(db: Db, ...allowed: [] | [Action] | Role[]): RequestHandler {
+  const [first] = allowed;
+  const permits = (role: Role) =>
+    first === undefined ? true : isAction(first) ? can(role, first) : (allowed as Role[]).includes(role);
   return async (req, res, next) => {
     const user = res.locals.user;
     if (!user) return next(unauthenticated());
@@ -42,11 +48,8 @@ export function requireSiteRole(db: Db, ...roles: Role[]): RequestHandler {
       return next();
     }
     if (!m) return next(new AppError(404, "not_found", "That site was not found."));
-    if (roles.length && !roles.includes(m.role)) return next(forbidden());
+    if (!permits(m.role)) return next(forbidden());
     res.locals.siteRole = m.role;
     next();
   };
 }
-
-/** Any member of the site may read. */
-export const ANY_MEMBER: Role[] = [];

@@ -15,14 +15,13 @@ import {
 import type { Db } from "../db";
 import type { PhotoStorage } from "../photos/storage";
 import { AppError } from "../errors";
-import { ANY_MEMBER, requireSiteRole } from "../middleware/roles";
+import { requireSiteRole } from "../middleware/roles";
 import { limitExports, runExport } from "../export-stream";
 import { toCsv } from "./csv";
 import { nameplateThumb } from "./photo-bytes";
 import * as service from "./service";
 import * as share from "./share";
 
-const EDIT = ["scrounger", "curator"] as const;
 const lineParams = z.object({ siteId: z.uuid(), lineId: z.uuid({ message: "lineId must be a UUID" }) });
 const leadParams = z.object({ siteId: z.uuid(), leadId: z.uuid({ message: "leadId must be a UUID" }) });
 const linkParams = z.object({ siteId: z.uuid(), linkId: z.uuid({ message: "linkId must be a UUID" }) });
@@ -44,11 +43,11 @@ export function partsRoutes(db: Db, storage: PhotoStorage) {
   const r = Router();
   const base = "/sites/:siteId/parts";
 
-  r.get(base, requireSiteRole(db, ...ANY_MEMBER), async (req, res) => {
+  r.get(base, requireSiteRole(db), async (req, res) => {
     res.json(await service.listParts(db, req.params.siteId as string, listQuery.parse(req.query)));
   });
 
-  r.get("/sites/:siteId/parts.csv", requireSiteRole(db, ...ANY_MEMBER), limitExports(db), async (req, res) => {
+  r.get("/sites/:siteId/parts.csv", requireSiteRole(db), limitExports(db), async (req, res) => {
     // Read 500 lines at a time into memory (a site has hundreds to a few thousand lines; the
     // connection is back in the pool before the first byte goes out), then written with the
     // export's back-pressure and write timeout.
@@ -63,7 +62,7 @@ export function partsRoutes(db: Db, storage: PhotoStorage) {
     });
   });
 
-  r.post(base, requireSiteRole(db, ...EDIT), async (req, res) => {
+  r.post(base, requireSiteRole(db, "parts.edit"), async (req, res) => {
     const siteId = req.params.siteId as string;
     const id = await service.createManualLine(db, siteId, createLineBody.parse(req.body), {
       id: actor(res),
@@ -72,10 +71,10 @@ export function partsRoutes(db: Db, storage: PhotoStorage) {
     res.status(201).json({ line: await service.lineRow(db, siteId, id) });
   });
 
-  r.get(`${base}/share-links`, requireSiteRole(db, ...EDIT), async (req, res) => {
+  r.get(`${base}/share-links`, requireSiteRole(db, "parts.edit"), async (req, res) => {
     res.json({ links: await share.listShareLinks(db, req.params.siteId as string) });
   });
-  r.post(`${base}/share-links`, requireSiteRole(db, ...EDIT), async (req, res) => {
+  r.post(`${base}/share-links`, requireSiteRole(db, "parts.edit"), async (req, res) => {
     const { token, link } = await share.createShareLink(
       db,
       req.params.siteId as string,
@@ -84,40 +83,40 @@ export function partsRoutes(db: Db, storage: PhotoStorage) {
     );
     res.status(201).json({ link, token, url: `/share/parts/${token}` });
   });
-  r.delete(`${base}/share-links/:linkId`, requireSiteRole(db, "curator"), async (req, res) => {
+  r.delete(`${base}/share-links/:linkId`, requireSiteRole(db, "parts.revoke_share"), async (req, res) => {
     const { siteId, linkId } = linkParams.parse(req.params);
     await share.revokeShareLink(db, siteId, linkId, actor(res));
     res.json({ links: await share.listShareLinks(db, siteId) });
   });
 
-  r.get(`${base}/photos/:photoId/thumb`, requireSiteRole(db, ...ANY_MEMBER), async (req, res) => {
+  r.get(`${base}/photos/:photoId/thumb`, requireSiteRole(db), async (req, res) => {
     const { siteId, photoId } = photoParams.parse(req.params);
     await sendPhoto(res, await nameplateThumb(db, storage, siteId, photoId));
   });
 
-  r.patch(`${base}/leads/:leadId`, requireSiteRole(db, ...EDIT), async (req, res) => {
+  r.patch(`${base}/leads/:leadId`, requireSiteRole(db, "parts.edit"), async (req, res) => {
     const { siteId, leadId } = leadParams.parse(req.params);
     await service.updateLead(db, siteId, leadId, updateLeadBody.parse(req.body), actor(res));
     res.json({ ok: true });
   });
 
-  r.get(`${base}/:lineId`, requireSiteRole(db, ...ANY_MEMBER), async (req, res) => {
+  r.get(`${base}/:lineId`, requireSiteRole(db), async (req, res) => {
     const { siteId, lineId } = lineParams.parse(req.params);
     res.json(await service.lineDetail(db, siteId, lineId));
   });
-  r.patch(`${base}/:lineId`, requireSiteRole(db, ...EDIT), async (req, res) => {
+  r.patch(`${base}/:lineId`, requireSiteRole(db, "parts.edit"), async (req, res) => {
     const { siteId, lineId } = lineParams.parse(req.params);
     res.json({ line: await service.updateLine(db, siteId, lineId, updateLineBody.parse(req.body), actor(res)) });
   });
-  r.put(`${base}/:lineId/heritage-rule`, requireSiteRole(db, "curator"), async (req, res) => {
+  r.put(`${base}/:lineId/heritage-rule`, requireSiteRole(db, "parts.heritage_rule"), async (req, res) => {
     const { siteId, lineId } = lineParams.parse(req.params);
     res.json({ line: await service.setHeritageRule(db, siteId, lineId, heritageRuleBody.parse(req.body), actor(res)) });
   });
-  r.post(`${base}/:lineId/status`, requireSiteRole(db, ...EDIT), async (req, res) => {
+  r.post(`${base}/:lineId/status`, requireSiteRole(db, "parts.edit"), async (req, res) => {
     const { siteId, lineId } = lineParams.parse(req.params);
     res.json({ line: await service.moveLineStatus(db, siteId, lineId, statusBody.parse(req.body), actor(res)) });
   });
-  r.post(`${base}/:lineId/leads`, requireSiteRole(db, ...EDIT), async (req, res) => {
+  r.post(`${base}/:lineId/leads`, requireSiteRole(db, "parts.edit"), async (req, res) => {
     const { siteId, lineId } = lineParams.parse(req.params);
     const lead = await service.addLead(db, siteId, lineId, leadBody.parse(req.body), actor(res));
     res.status(201).json({ lead: { ...lead, createdAt: lead.createdAt.toISOString() } });

@@ -1,5 +1,6 @@
 import { sql } from "kysely";
 import { needKey, nextPartStatuses } from "../../src/domain/part-workflow";
+import { can } from "../../src/domain/permissions";
 import type { Role } from "../../src/domain/vocab";
 import type { createLineBody, leadBody, updateLeadBody, updateLineBody } from "../../src/schemas/parts";
 import type { z } from "zod";
@@ -96,7 +97,7 @@ export async function lineDetail(db: Db, siteId: string, lineId: string) {
 }
 
 export async function createManualLine(db: Db, siteId: string, b: z.infer<typeof createLineBody>, actor: Actor) {
-  if (b.heritageRule && actor.role !== "curator" && actor.role !== "admin")
+  if (b.heritageRule && !can(actor.role, "parts.heritage_rule"))
     throw forbidden("Only the curator sets a line's heritage rule.");
   return db.transaction().execute(async (trx) => {
     const spec = { ...b, mustMatch: b.mustMatch ?? undefined };

@@ -12,6 +12,7 @@ import {
   uploadFields,
 } from "../../src/schemas/photos";
 import type { Role } from "../../src/domain/vocab";
+import { can } from "../../src/domain/permissions";
 import type { Db } from "../db";
 import { AppError, forbidden, notFound } from "../errors";
 import { idempotent } from "../idempotency/middleware";
@@ -24,8 +25,6 @@ import type { Jobs } from "../jobs";
 
 const siteOnly = z.object({ siteId: z.uuid() });
 const renditionParams = photoParams.extend({ rendition: z.enum(RENDITIONS) });
-/** Originals keep the camera's EXIF, GPS included: only the people who shoot and curate get them. */
-const ORIGINAL_ROLES = new Set(["curator", "photographer", "admin"]);
 
 export function photoRoutes(db: Db, storage: PhotoStorage, jobs: Jobs) {
   const r = Router();
@@ -36,7 +35,7 @@ export function photoRoutes(db: Db, storage: PhotoStorage, jobs: Jobs) {
 
   r.post(
     "/sites/:siteId/photos",
-    requireSiteRole(db, "curator", "photographer", "volunteer"),
+    requireSiteRole(db, "photos.upload"),
     receiveFiles,
     idempotent(db),
     async (req, res) => {
@@ -71,7 +70,7 @@ export function photoRoutes(db: Db, storage: PhotoStorage, jobs: Jobs) {
     res.json({ settings: await service.getSettings(db, siteOnly.parse(req.params).siteId) });
   });
 
-  r.put("/sites/:siteId/photo-settings", requireSiteRole(db, "curator"), async (req, res) => {
+  r.put("/sites/:siteId/photo-settings", requireSiteRole(db, "photos.settings"), async (req, res) => {
     const { siteId } = siteOnly.parse(req.params);
     res.json({ settings: await service.saveSettings(db, siteId, actor(res), photoSettingsBody.parse(req.body)) });
   });
@@ -81,7 +80,7 @@ export function photoRoutes(db: Db, storage: PhotoStorage, jobs: Jobs) {
     res.json(await service.shootList(db, siteId, boardId));
   });
 
-  r.post("/sites/:siteId/photos/assign", requireSiteRole(db, "curator", "photographer"), async (req, res) => {
+  r.post("/sites/:siteId/photos/assign", requireSiteRole(db, "photos.file"), async (req, res) => {
     const { siteId } = siteOnly.parse(req.params);
     res.json({ photos: await service.bulkAssign(db, siteId, actor(res), bulkAssignBody.parse(req.body)) });
   });
@@ -93,16 +92,12 @@ export function photoRoutes(db: Db, storage: PhotoStorage, jobs: Jobs) {
     res.json({ photo: service.toPhoto(row) });
   });
 
-  r.patch(
-    "/sites/:siteId/photos/:photoId",
-    requireSiteRole(db, "curator", "photographer", "volunteer"),
-    async (req, res) => {
-      const { siteId, photoId } = photoParams.parse(req.params);
-      res.json({ photo: await service.updatePhoto(db, siteId, photoId, actor(res), photoPatch.parse(req.body)) });
-    },
-  );
+  r.patch("/sites/:siteId/photos/:photoId", requireSiteRole(db, "photos.edit"), async (req, res) => {
+    const { siteId, photoId } = photoParams.parse(req.params);
+    res.json({ photo: await service.updatePhoto(db, siteId, photoId, actor(res), photoPatch.parse(req.body)) });
+  });
 
-  r.delete("/sites/:siteId/photos/:photoId", requireSiteRole(db, "curator"), async (req, res) => {
+  r.delete("/sites/:siteId/photos/:photoId", requireSiteRole(db, "photos.delete"), async (req, res) => {
     const { siteId, photoId } = photoParams.parse(req.params);
     await service.softDelete(db, siteId, photoId, actor(res));
     res.json({ ok: true });
@@ -110,7 +105,8 @@ export function photoRoutes(db: Db, storage: PhotoStorage, jobs: Jobs) {
 
   r.get("/sites/:siteId/photos/:photoId/:rendition", requireSiteRole(db), async (req, res) => {
     const { siteId, photoId, rendition } = renditionParams.parse(req.params);
-    if (rendition === "original" && !ORIGINAL_ROLES.has(res.locals.siteRole ?? ""))
+    // Originals keep the camera's EXIF, GPS included: only the people who shoot and curate get them.
+    if (rendition === "original" && !can(res.locals.siteRole, "photos.original"))
       throw forbidden(
         "Originals keep the camera's location data; only the photographer and the curator download them.",
       );

@@ -5,6 +5,7 @@ import type { Db } from "../db";
 import { AppError, conflict, forbidden, notFound } from "../errors";
 import type { BulkAssign, PhotoPatch, UploadFields } from "../../src/schemas/photos";
 import { PHOTO_KINDS, type PhotoKind, type Role } from "../../src/domain/vocab";
+import { can } from "../../src/domain/permissions";
 import { buffer } from "node:stream/consumers";
 import type { Jobs } from "../jobs";
 import { log } from "../log";
@@ -169,8 +170,7 @@ async function currentOr404(db: Db, siteId: string, photoId: string) {
 }
 
 const mayEdit = (actor: Actor, row: NonNullable<repo.PhotoRow>) =>
-  ["admin", "curator", "photographer"].includes(actor.role) ||
-  (actor.role === "volunteer" && row.uploadedBy === actor.user.id);
+  can(actor.role, "photos.file") || (actor.role === "volunteer" && row.uploadedBy === actor.user.id);
 
 export async function updatePhoto(db: Db, siteId: string, photoId: string, actor: Actor, patch: PhotoPatch) {
   return db.transaction().execute(async (trx) => {

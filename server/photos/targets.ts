@@ -1,5 +1,6 @@
 import type { User } from "lucia";
 import type { Role } from "../../src/domain/vocab";
+import { can } from "../../src/domain/permissions";
 import type { Db } from "../db";
 import { AppError, forbidden } from "../errors";
 import * as repo from "./repository";
@@ -84,7 +85,7 @@ export async function resolveTarget(db: Db, siteId: string, ids: TargetIds): Pro
 
 /** Photographers and curators file photos anywhere; volunteers only to their own inspections and custody moves. */
 export async function assertMayAttach(db: Db, siteId: string, user: User, role: Role | "admin", ids: TargetIds) {
-  if (role === "admin" || role === "curator" || role === "photographer") return;
+  if (can(role, "photos.file")) return;
   if (role === "volunteer" && ids.defectId && !ids.inspectionId && !ids.custodyMoveId) {
     const d = await repo.findDefectTarget(db, siteId, ids.defectId);
     const own =

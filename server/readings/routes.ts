@@ -1,7 +1,6 @@
 import { Router } from "express";
 import { z } from "zod";
 import { text } from "../../src/schemas/common";
-import type { Role } from "../../src/domain/vocab";
 import {
   contactReadingBody,
   criteriaBody,
@@ -19,9 +18,6 @@ import { requireSiteRole } from "../middleware/roles";
 import * as repo from "./repository";
 import * as service from "./service";
 
-/** Volunteers (at the board) and the curator record readings; every member reads them. */
-const RECORDERS: Role[] = ["volunteer", "curator"];
-
 const boardParams = z.object({ siteId: z.uuid(), boardId: z.uuid({ message: "boardId must be a UUID" }) });
 const componentParams = z.object({ siteId: z.uuid(), componentId: z.uuid({ message: "componentId must be a UUID" }) });
 const insulationQuery = z.object({ componentId: z.uuid().optional(), circuit: text().max(120).optional() });
@@ -29,8 +25,8 @@ const insulationQuery = z.object({ componentId: z.uuid().optional(), circuit: te
 export function readingRoutes(db: Db) {
   const r = Router();
   const read = requireSiteRole(db);
-  const record = requireSiteRole(db, ...RECORDERS);
-  const curate = requireSiteRole(db, "curator");
+  const record = requireSiteRole(db, "readings.record");
+  const curate = requireSiteRole(db, "readings.criteria");
   const once = idempotent(db); // the phone's offline queue repeats creates with an Idempotency-Key
   const user = (res: { locals: Record<string, any> }) => res.locals.user!.id as string;
   const S = "/sites/:siteId";

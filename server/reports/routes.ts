@@ -8,7 +8,7 @@
  */
 import { Router, type Response } from "express";
 import { z } from "zod";
-import { REPORT_ROLES, assignTagsBody, labelsQuery, surveyReportQuery } from "../../src/schemas/reports";
+import { assignTagsBody, labelsQuery, surveyReportQuery } from "../../src/schemas/reports";
 import type { Db } from "../db";
 import { limitExports } from "../export-stream";
 import { assignTags, findTag } from "../inventory/tags-service";
@@ -30,7 +30,7 @@ export function reportRoutes(db: Db, storage: PhotoStorage, publicUrl: string) {
 
   r.get(
     "/sites/:siteId/reports/survey.pdf",
-    requireSiteRole(db, ...REPORT_ROLES.report),
+    requireSiteRole(db, "reports.survey"),
     limitExports(db),
     async (req, res) => {
       const q = surveyReportQuery.parse(req.query);
@@ -52,30 +52,25 @@ export function reportRoutes(db: Db, storage: PhotoStorage, publicUrl: string) {
     },
   );
 
-  r.get(
-    "/sites/:siteId/labels.pdf",
-    requireSiteRole(db, ...REPORT_ROLES.labels),
-    limitExports(db),
-    async (req, res) => {
-      const q = labelsQuery.parse(req.query);
-      const { items, untagged } = await labelItems(db, req.params.siteId as string, q);
-      const doc = renderLabels(items, {
-        sheet: q.sheet,
-        start: q.start,
-        copies: q.copies,
-        baseUrl: publicUrl,
-        title: "Tideline tag labels",
-      });
-      res.type("application/pdf");
-      attachment(res, `tag-labels-${q.sheet}.pdf`);
-      res.setHeader("X-Labels", String(items.length * q.copies));
-      res.setHeader("X-Labels-Untagged", String(untagged));
-      doc.pipe(res);
-      doc.end();
-    },
-  );
+  r.get("/sites/:siteId/labels.pdf", requireSiteRole(db, "reports.labels"), limitExports(db), async (req, res) => {
+    const q = labelsQuery.parse(req.query);
+    const { items, untagged } = await labelItems(db, req.params.siteId as string, q);
+    const doc = renderLabels(items, {
+      sheet: q.sheet,
+      start: q.start,
+      copies: q.copies,
+      baseUrl: publicUrl,
+      title: "Tideline tag labels",
+    });
+    res.type("application/pdf");
+    attachment(res, `tag-labels-${q.sheet}.pdf`);
+    res.setHeader("X-Labels", String(items.length * q.copies));
+    res.setHeader("X-Labels-Untagged", String(untagged));
+    doc.pipe(res);
+    doc.end();
+  });
 
-  r.post("/sites/:siteId/tags/assign", requireSiteRole(db, ...REPORT_ROLES.assignTags), async (req, res) => {
+  r.post("/sites/:siteId/tags/assign", requireSiteRole(db, "tags.assign"), async (req, res) => {
     const b = assignTagsBody.parse(req.body);
     res.json(await assignTags(db, req.params.siteId as string, b.positionIds, res.locals.user!.id, b.prefix));
   });

@@ -1,6 +1,5 @@
 import { Router, type Request, type Response } from "express";
 import { z } from "zod";
-import { rolesFor, type RtsAction } from "../../src/domain/return-to-service";
 import type { Role } from "../../src/domain/vocab";
 import {
   budgetBody,
@@ -43,13 +42,12 @@ const ctxOf = (req: Request, res: Response): service.Ctx => ({
 const today = () => new Date().toISOString().slice(0, 10);
 
 /**
- * Return to service under /api/sites/:siteId. Who may do what comes from the one table in
- * src/domain/return-to-service.ts (canRts); the services check it again (and the
+ * Return to service under /api/sites/:siteId. Who may do what comes from the permission table
+ * (src/domain/permissions.ts, the `rts.*` actions); the services check it again (and the
  * qualified-person rule for energise and release hold points).
  */
 export function rtsRoutes(db: Db) {
   const r = Router();
-  const may = (action: RtsAction) => requireSiteRole(db, ...(rolesFor(action).filter((x) => x !== "admin") as Role[]));
   const base = "/sites/:siteId/return-to-service";
 
   const stageAnswer = async (req: Request, res: Response, status = 200) => {
@@ -59,7 +57,7 @@ export function rtsRoutes(db: Db) {
     res.status(status).json({ stage: await service.stageView(db, siteId, s.boardId, stageId) });
   };
 
-  r.get(base, may("read"), async (req, res) => {
+  r.get(base, requireSiteRole(db, "rts.read"), async (req, res) => {
     const { siteId } = site.parse(req.params);
     const now = new Date();
     const boards: RtsOverviewBoard[] = [];
@@ -89,51 +87,55 @@ export function rtsRoutes(db: Db) {
     res.json({ boards });
   });
 
-  r.get(`${base}/settings`, may("read"), async (req, res) =>
+  r.get(`${base}/settings`, requireSiteRole(db, "rts.read"), async (req, res) =>
     res.json({ settings: await loadSettings(db, site.parse(req.params).siteId) }),
   );
-  r.put(`${base}/settings`, may("plan"), async (req, res) =>
+  r.put(`${base}/settings`, requireSiteRole(db, "rts.plan"), async (req, res) =>
     res.json({ settings: await service.saveSettings(db, ctxOf(req, res), settingsBody.parse(req.body)) }),
   );
 
   // Qualified persons (the crew page): every member reads, the curator edits.
-  r.get(`${base}/qualified-persons`, may("read"), async (req, res) =>
+  r.get(`${base}/qualified-persons`, requireSiteRole(db, "rts.read"), async (req, res) =>
     res.json({ people: await service.qualifiedCrew(db, site.parse(req.params).siteId, today()) }),
   );
-  r.put(`${base}/qualified-persons/:userId`, may("manage_qualified"), async (req, res) => {
+  r.put(`${base}/qualified-persons/:userId`, requireSiteRole(db, "rts.manage_qualified"), async (req, res) => {
     const { userId } = userP.parse(req.params);
     res.json({
       person: await service.saveQualified(db, ctxOf(req, res), userId, qualifiedBody.parse(req.body), today()),
     });
   });
-  r.delete(`${base}/qualified-persons/:userId`, may("manage_qualified"), async (req, res) => {
+  r.delete(`${base}/qualified-persons/:userId`, requireSiteRole(db, "rts.manage_qualified"), async (req, res) => {
     await service.removeQualified(db, ctxOf(req, res), userP.parse(req.params).userId);
     res.status(204).end();
   });
 
   // The board's plan, gate, log and breakers.
-  r.get("/sites/:siteId/boards/:boardId/return-to-service", may("read"), async (req, res) => {
+  r.get("/sites/:siteId/boards/:boardId/return-to-service", requireSiteRole(db, "rts.read"), async (req, res) => {
     const { siteId, boardId } = boardP.parse(req.params);
     res.json(await boardView(db, siteId, boardId, new Date()));
   });
-  r.post("/sites/:siteId/boards/:boardId/return-to-service/stages", may("plan"), async (req, res) => {
-    const { boardId } = boardP.parse(req.params);
-    const s = await service.createStage(db, ctxOf(req, res), boardId, createStageBody.parse(req.body));
-    req.params.stageId = s.id;
-    await stageAnswer(req, res, 201);
-  });
+  r.post(
+    "/sites/:siteId/boards/:boardId/return-to-service/stages",
+    requireSiteRole(db, "rts.plan"),
+    async (req, res) => {
+      const { boardId } = boardP.parse(req.params);
+      const s = await service.createStage(db, ctxOf(req, res), boardId, createStageBody.parse(req.body));
+      req.params.stageId = s.id;
+      await stageAnswer(req, res, 201);
+    },
+  );
 
   const stage = `${base}/stages/:stageId`;
-  r.get(stage, may("read"), async (req, res) => stageAnswer(req, res));
-  r.patch(stage, may("plan"), async (req, res) => {
+  r.get(stage, requireSiteRole(db, "rts.read"), async (req, res) => stageAnswer(req, res));
+  r.patch(stage, requireSiteRole(db, "rts.plan"), async (req, res) => {
     await service.patchStage(db, ctxOf(req, res), stageP.parse(req.params).stageId, patchStageBody.parse(req.body));
     await stageAnswer(req, res);
   });
-  r.delete(stage, may("plan"), async (req, res) => {
+  r.delete(stage, requireSiteRole(db, "rts.plan"), async (req, res) => {
     await service.deleteStage(db, ctxOf(req, res), stageP.parse(req.params).stageId);
     res.status(204).end();
   });
-  r.post(`${stage}/move`, may("plan"), async (req, res) => {
+  r.post(`${stage}/move`, requireSiteRole(db, "rts.plan"), async (req, res) => {
     res.json({
       order: await service.moveStage(
         db,
@@ -143,11 +145,11 @@ export function rtsRoutes(db: Db) {
       ),
     });
   });
-  r.post(`${stage}/steps`, may("plan"), async (req, res) => {
+  r.post(`${stage}/steps`, requireSiteRole(db, "rts.plan"), async (req, res) => {
     await service.addStep(db, ctxOf(req, res), stageP.parse(req.params).stageId, stepBody.parse(req.body));
     await stageAnswer(req, res, 201);
   });
-  r.post(`${stage}/watch-checks`, may("record_watch"), idempotent(db), async (req, res) => {
+  r.post(`${stage}/watch-checks`, requireSiteRole(db, "rts.record_watch"), idempotent(db), async (req, res) => {
     res
       .status(201)
       .json(
@@ -159,7 +161,7 @@ export function rtsRoutes(db: Db) {
         ),
       );
   });
-  r.post(`${stage}/incidents`, may("record_incident"), idempotent(db), async (req, res) => {
+  r.post(`${stage}/incidents`, requireSiteRole(db, "rts.record_incident"), idempotent(db), async (req, res) => {
     res.status(201).json({
       incident: await service.recordIncident(
         db,
@@ -169,26 +171,26 @@ export function rtsRoutes(db: Db) {
       ),
     });
   });
-  r.post(`${stage}/de-energise`, may("de_energise"), async (req, res) => {
+  r.post(`${stage}/de-energise`, requireSiteRole(db, "rts.de_energise"), async (req, res) => {
     await service.deEnergise(db, ctxOf(req, res), stageP.parse(req.params).stageId, deEnergiseBody.parse(req.body));
     await stageAnswer(req, res, 201);
   });
-  r.post(`${stage}/restart`, may("restart"), async (req, res) => {
+  r.post(`${stage}/restart`, requireSiteRole(db, "rts.restart"), async (req, res) => {
     await service.restart(db, ctxOf(req, res), stageP.parse(req.params).stageId, restartBody.parse(req.body));
     await stageAnswer(req, res);
   });
 
   const step = `${base}/steps/:stepId`;
-  r.patch(step, may("plan"), async (req, res) =>
+  r.patch(step, requireSiteRole(db, "rts.plan"), async (req, res) =>
     res.json({
       step: await service.patchStep(db, ctxOf(req, res), stepP.parse(req.params).stepId, patchStepBody.parse(req.body)),
     }),
   );
-  r.delete(step, may("plan"), async (req, res) => {
+  r.delete(step, requireSiteRole(db, "rts.plan"), async (req, res) => {
     await service.deleteStep(db, ctxOf(req, res), stepP.parse(req.params).stepId);
     res.status(204).end();
   });
-  r.post(`${step}/move`, may("plan"), async (req, res) =>
+  r.post(`${step}/move`, requireSiteRole(db, "rts.plan"), async (req, res) =>
     res.json({
       order: await service.moveStep(
         db,
@@ -198,7 +200,7 @@ export function rtsRoutes(db: Db) {
       ),
     }),
   );
-  r.post(`${step}/signoffs`, may("sign"), async (req, res) => {
+  r.post(`${step}/signoffs`, requireSiteRole(db, "rts.sign"), async (req, res) => {
     res.status(201).json({
       stage: await service.sign(db, ctxOf(req, res), stepP.parse(req.params).stepId, signBody.parse(req.body)),
     });
@@ -206,7 +208,7 @@ export function rtsRoutes(db: Db) {
 
   // Signatures are never edited nor deleted: a correction is a new entry that supersedes.
   const signoff = `${base}/signoffs/:signoffId`;
-  r.post(`${signoff}/supersede`, may("sign"), async (req, res) => {
+  r.post(`${signoff}/supersede`, requireSiteRole(db, "rts.sign"), async (req, res) => {
     res.status(201).json({
       stage: await service.supersede(
         db,
@@ -216,7 +218,7 @@ export function rtsRoutes(db: Db) {
       ),
     });
   });
-  r.all(signoff, may("read"), (req, res) => {
+  r.all(signoff, requireSiteRole(db, "rts.read"), (req, res) => {
     signoffP.parse(req.params);
     if (req.method === "GET" || req.method === "HEAD")
       throw new AppError(404, "not_found", "Signatures are read with their stage.");
@@ -232,7 +234,7 @@ export function rtsRoutes(db: Db) {
   // Breaker operations and budgets.
   r.post(
     "/sites/:siteId/components/:componentId/breaker-operations",
-    may("record_operation"),
+    requireSiteRole(db, "rts.record_operation"),
     idempotent(db),
     async (req, res) => {
       res
@@ -247,15 +249,19 @@ export function rtsRoutes(db: Db) {
         );
     },
   );
-  r.put("/sites/:siteId/components/:componentId/operations-budget", may("set_budget"), async (req, res) => {
-    res.json({
-      budget: await service.setBudget(
-        db,
-        ctxOf(req, res),
-        componentP.parse(req.params).componentId,
-        budgetBody.parse(req.body),
-      ),
-    });
-  });
+  r.put(
+    "/sites/:siteId/components/:componentId/operations-budget",
+    requireSiteRole(db, "rts.set_budget"),
+    async (req, res) => {
+      res.json({
+        budget: await service.setBudget(
+          db,
+          ctxOf(req, res),
+          componentP.parse(req.params).componentId,
+          budgetBody.parse(req.body),
+        ),
+      });
+    },
+  );
   return r;
 }

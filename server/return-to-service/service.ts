@@ -5,13 +5,7 @@
  * an energisation.
  */
 import type { z } from "zod";
-import {
-  canRts,
-  checkReorder,
-  isQualifiedOn,
-  QUALIFIED_ONLY_KINDS,
-  type RtsAction,
-} from "../../src/domain/return-to-service";
+import { checkReorder, isQualifiedOn, QUALIFIED_ONLY_KINDS } from "../../src/domain/return-to-service";
 import { classifyTemperatureRise } from "../../src/domain/thermal";
 import { operationsStatus, defaultOperationsBudget } from "../../src/domain/breaker-operations";
 import type { Role } from "../../src/domain/vocab";
@@ -34,6 +28,7 @@ import type {
   EvidenceItem,
   QualifiedPerson,
 } from "../../src/schemas/return-to-service";
+import { can, type Action } from "../../src/domain/permissions";
 import { recordAudit } from "../audit";
 import type { Db } from "../db";
 import { raiseIncidentDefect } from "../defects/service";
@@ -47,8 +42,8 @@ export interface Ctx {
 }
 type Trx = Db;
 const invalid = (field: string, message: string) => new AppError(400, "invalid_input", message, { [field]: message });
-const must = (ctx: Ctx, action: RtsAction, message: string) => {
-  if (!canRts(ctx.actor.role, action)) throw forbidden(message);
+const must = (ctx: Ctx, action: Action, message: string) => {
+  if (!can(ctx.actor.role, action)) throw forbidden(message);
 };
 const isPgUnique = (e: unknown) => (e as { code?: string })?.code === "23505";
 
@@ -65,7 +60,7 @@ export async function stageView(db: Db, siteId: string, boardId: string, stageId
 
 // ---------------- settings and qualified persons ----------------
 export async function saveSettings(db: Db, ctx: Ctx, body: z.infer<typeof settingsBody>) {
-  must(ctx, "plan", "Only the curator edits the hold-point template.");
+  must(ctx, "rts.plan", "Only the curator edits the hold-point template.");
   return db.transaction().execute(async (trx) => {
     const before = await loadSettings(trx, ctx.siteId);
     if (body.version !== before.version)
@@ -117,7 +112,7 @@ export async function saveQualified(
   body: z.infer<typeof qualifiedBody>,
   today: string,
 ) {
-  must(ctx, "manage_qualified", "Only the curator records qualified persons.");
+  must(ctx, "rts.manage_qualified", "Only the curator records qualified persons.");
   return db.transaction().execute(async (trx) => {
     if (!(await repo.memberRole(trx, ctx.siteId, userId))) throw notFound("That crew member");
     const existing = await repo.getQualified(trx, ctx.siteId, userId);
@@ -148,7 +143,7 @@ export async function saveQualified(
 }
 
 export async function removeQualified(db: Db, ctx: Ctx, userId: string) {
-  must(ctx, "manage_qualified", "Only the curator records qualified persons.");
+  must(ctx, "rts.manage_qualified", "Only the curator records qualified persons.");
   await db.transaction().execute(async (trx) => {
     const existing = await repo.getQualified(trx, ctx.siteId, userId);
     if (!existing) throw notFound("That qualification");
@@ -191,7 +186,7 @@ async function checkScope(
 }
 
 export async function createStage(db: Db, ctx: Ctx, boardId: string, body: CreateStageBody) {
-  must(ctx, "plan", "Only the curator plans the return to service.");
+  must(ctx, "rts.plan", "Only the curator plans the return to service.");
   return db.transaction().execute(async (trx) => {
     if (!(await repo.findBoard(trx, ctx.siteId, boardId))) throw notFound("That board");
     await checkScope(trx, ctx, boardId, body);
@@ -241,7 +236,7 @@ const SCOPE_FIELDS = [
 ] as const;
 
 export async function patchStage(db: Db, ctx: Ctx, stageId: string, body: PatchStageBody) {
-  must(ctx, "plan", "Only the curator plans the return to service.");
+  must(ctx, "rts.plan", "Only the curator plans the return to service.");
   return db.transaction().execute(async (trx) => {
     const s = await stageOrThrow(trx, ctx, stageId, true);
     if (s.version !== body.version)
@@ -295,7 +290,7 @@ export async function patchStage(db: Db, ctx: Ctx, stageId: string, body: PatchS
 }
 
 export async function deleteStage(db: Db, ctx: Ctx, stageId: string) {
-  must(ctx, "plan", "Only the curator plans the return to service.");
+  must(ctx, "rts.plan", "Only the curator plans the return to service.");
   await db.transaction().execute(async (trx) => {
     const s = await stageOrThrow(trx, ctx, stageId, true);
     if (s.status !== "planned" || s.attempt > 1 || (await repo.stageHasSignoffs(trx, stageId)))
@@ -318,7 +313,7 @@ export async function deleteStage(db: Db, ctx: Ctx, stageId: string) {
 }
 
 export async function moveStage(db: Db, ctx: Ctx, stageId: string, toIndex: number) {
-  must(ctx, "plan", "Only the curator plans the return to service.");
+  must(ctx, "rts.plan", "Only the curator plans the return to service.");
   return db.transaction().execute(async (trx) => {
     const s = await stageOrThrow(trx, ctx, stageId, true);
     const stages = await repo.listStages(trx, s.boardId);
@@ -347,7 +342,7 @@ async function editableStageOfStep(trx: Trx, ctx: Ctx, stageId: string) {
 }
 
 export async function addStep(db: Db, ctx: Ctx, stageId: string, body: z.infer<typeof stepBody>) {
-  must(ctx, "plan", "Only the curator edits hold points.");
+  must(ctx, "rts.plan", "Only the curator edits hold points.");
   return db.transaction().execute(async (trx) => {
     const s = await editableStageOfStep(trx, ctx, stageId);
     const steps = await repo.listSteps(trx, [stageId]);
@@ -383,7 +378,7 @@ export async function addStep(db: Db, ctx: Ctx, stageId: string, body: z.infer<t
 }
 
 export async function patchStep(db: Db, ctx: Ctx, stepId: string, body: z.infer<typeof patchStepBody>) {
-  must(ctx, "plan", "Only the curator edits hold points.");
+  must(ctx, "rts.plan", "Only the curator edits hold points.");
   return db.transaction().execute(async (trx) => {
     const step = await repo.findStep(trx, ctx.siteId, stepId);
     if (!step) throw notFound("That hold point");
@@ -410,7 +405,7 @@ export async function patchStep(db: Db, ctx: Ctx, stepId: string, body: z.infer<
 }
 
 export async function deleteStep(db: Db, ctx: Ctx, stepId: string) {
-  must(ctx, "plan", "Only the curator edits hold points.");
+  must(ctx, "rts.plan", "Only the curator edits hold points.");
   await db.transaction().execute(async (trx) => {
     const step = await repo.findStep(trx, ctx.siteId, stepId);
     if (!step) throw notFound("That hold point");
@@ -435,7 +430,7 @@ export async function deleteStep(db: Db, ctx: Ctx, stepId: string) {
 }
 
 export async function moveStep(db: Db, ctx: Ctx, stepId: string, toIndex: number) {
-  must(ctx, "plan", "Only the curator edits hold points.");
+  must(ctx, "rts.plan", "Only the curator edits hold points.");
   return db.transaction().execute(async (trx) => {
     const step = await repo.findStep(trx, ctx.siteId, stepId);
     if (!step) throw notFound("That hold point");
@@ -489,8 +484,8 @@ async function assertQualified(trx: Trx, ctx: Ctx, now: Date) {
 }
 
 export async function sign(db: Db, ctx: Ctx, stepId: string, body: z.infer<typeof signBody>, now = new Date()) {
-  if (body.kind === "released") must(ctx, "release_blocked", "Only the curator releases a blocked hold point.");
-  else must(ctx, "sign", "Your role on this site does not sign hold points.");
+  if (body.kind === "released") must(ctx, "rts.release_blocked", "Only the curator releases a blocked hold point.");
+  else must(ctx, "rts.sign", "Your role on this site does not sign hold points.");
   try {
     return await db.transaction().execute(async (trx) => {
       const step = await repo.findStep(trx, ctx.siteId, stepId);
@@ -602,8 +597,8 @@ export async function supersede(
   body: z.infer<typeof supersedeBody>,
   now = new Date(),
 ) {
-  if (body.kind === "released") must(ctx, "release_blocked", "Only the curator releases a blocked hold point.");
-  else must(ctx, "sign", "Your role on this site does not sign hold points.");
+  if (body.kind === "released") must(ctx, "rts.release_blocked", "Only the curator releases a blocked hold point.");
+  else must(ctx, "rts.sign", "Your role on this site does not sign hold points.");
   try {
     return await db.transaction().execute(async (trx) => {
       const old = await repo.findSignoff(trx, ctx.siteId, signoffId);
@@ -627,7 +622,7 @@ export async function supersede(
           "The energisation or release has happened; correct its entry with a new signature, or de-energise the stage.",
         );
       if (body.kind === "signed" && step.qualifiedOnly) await assertQualified(trx, ctx, now);
-      if (body.kind === "struck" && old.signedBy !== ctx.actor.id && !canRts(ctx.actor.role, "plan"))
+      if (body.kind === "struck" && old.signedBy !== ctx.actor.id && !can(ctx.actor.role, "rts.plan"))
         throw forbidden("Only the person who signed, or the curator, strikes out an entry.");
       if (body.kind === "released" && step.qualifiedOnly)
         throw new AppError(409, "not_releasable", "A qualified person's hold point cannot be released by the curator.");
@@ -766,7 +761,7 @@ export async function recordWatchCheck(
   body: z.infer<typeof watchCheckBody>,
   now = new Date(),
 ) {
-  must(ctx, "record_watch", "Your role on this site does not record watch checks.");
+  must(ctx, "rts.record_watch", "Your role on this site does not record watch checks.");
   return db.transaction().execute(async (trx) => {
     const s = await stageOrThrow(trx, ctx, stageId, true);
     if (s.status !== "energised")
@@ -835,7 +830,7 @@ export async function recordIncident(
   body: z.infer<typeof incidentBody>,
   now = new Date(),
 ) {
-  must(ctx, "record_incident", "Your role on this site does not record incidents.");
+  must(ctx, "rts.record_incident", "Your role on this site does not record incidents.");
   return db.transaction().execute(async (trx) => {
     const s = await stageOrThrow(trx, ctx, stageId, true);
     if (s.status !== "energised" && s.status !== "stopped")
@@ -869,7 +864,7 @@ export async function deEnergise(
   body: z.infer<typeof deEnergiseBody>,
   now = new Date(),
 ) {
-  must(ctx, "de_energise", "Your role on this site does not record de-energising.");
+  must(ctx, "rts.de_energise", "Your role on this site does not record de-energising.");
   return db.transaction().execute(async (trx) => {
     const s = await stageOrThrow(trx, ctx, stageId, true);
     if (!(await isLive(trx, s.boardId, s.id, s.attempt))) throw new AppError(409, "not_live", "The stage is not live.");
@@ -903,7 +898,7 @@ export async function deEnergise(
 
 /** A new attempt: every hold point is signed again (the old attempt stays on record). */
 export async function restart(db: Db, ctx: Ctx, stageId: string, body: z.infer<typeof restartBody>) {
-  must(ctx, "restart", "Only the curator starts a stage again.");
+  must(ctx, "rts.restart", "Only the curator starts a stage again.");
   return db.transaction().execute(async (trx) => {
     const s = await stageOrThrow(trx, ctx, stageId, true);
     if (s.version !== body.version)
@@ -943,7 +938,7 @@ export async function recordOperation(
   body: z.infer<typeof operationBody>,
   now = new Date(),
 ) {
-  must(ctx, "record_operation", "Your role on this site does not record breaker operations.");
+  must(ctx, "rts.record_operation", "Your role on this site does not record breaker operations.");
   return db.transaction().execute(async (trx) => {
     const c = await repo.findComponent(trx, ctx.siteId, componentId);
     if (!c) throw notFound("That component");
@@ -979,7 +974,7 @@ export async function recordOperation(
 }
 
 export async function setBudget(db: Db, ctx: Ctx, componentId: string, body: z.infer<typeof budgetBody>) {
-  must(ctx, "set_budget", "Only the curator sets operations budgets.");
+  must(ctx, "rts.set_budget", "Only the curator sets operations budgets.");
   return db.transaction().execute(async (trx) => {
     const c = await repo.findComponent(trx, ctx.siteId, componentId);
     if (!c) throw notFound("That component");

@@ -33,26 +33,26 @@ export function siteRoutes(db: Db) {
     res.json({ site: { ...site, role: res.locals.siteRole } });
   });
 
-  r.put("/sites/:siteId/time-zone", requireSiteRole(db, "curator"), async (req, res) => {
+  r.put("/sites/:siteId/time-zone", requireSiteRole(db, "members.manage"), async (req, res) => {
     const { siteId } = z.object({ siteId: z.uuid() }).parse(req.params);
     const { timeZone } = siteTimeZoneBody.parse(req.body);
     const site = await service.setTimeZone(db, siteId, timeZone, res.locals.user!.id);
     res.json({ site: { ...site, role: res.locals.siteRole } });
   });
 
-  r.get("/sites/:siteId/members", requireSiteRole(db, "curator"), async (req, res) => {
+  r.get("/sites/:siteId/members", requireSiteRole(db, "members.manage"), async (req, res) => {
     res.json({ members: await repo.listMembers(db, req.params.siteId as string) });
   });
 
   // No "add a member" here: people join a site only by accepting an invitation (/invitations).
 
-  r.patch("/sites/:siteId/members/:userId", requireSiteRole(db, "curator"), async (req, res) => {
+  r.patch("/sites/:siteId/members/:userId", requireSiteRole(db, "members.manage"), async (req, res) => {
     const { siteId, userId } = memberParams.parse(req.params);
     await service.changeRole(db, siteId, userId, changeRoleBody.parse(req.body).role, res.locals.user!.id);
     res.json({ members: await repo.listMembers(db, siteId) });
   });
 
-  r.delete("/sites/:siteId/members/:userId", requireSiteRole(db, "curator"), async (req, res) => {
+  r.delete("/sites/:siteId/members/:userId", requireSiteRole(db, "members.manage"), async (req, res) => {
     const { siteId, userId } = memberParams.parse(req.params);
     await service.removeMember(db, siteId, userId, res.locals.user!.id);
     res.json({ members: await repo.listMembers(db, siteId) });

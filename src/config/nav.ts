@@ -1,33 +1,33 @@
-import type { Role } from "../domain/vocab";
+import { can, type Action, type SiteRole } from "../domain/permissions";
 import { paths } from "./paths";
 
 export interface NavItem {
   label: string;
   href: (siteId: string) => string;
-  /** Roles that see the item; empty means every member. */
-  roles: Array<Role | "admin">;
+  /** Who sees the item: those who may do this (src/domain/permissions.ts); absent means every member. */
+  action?: Action;
 }
 
-type Who = Role | "admin";
+type Who = SiteRole;
 
 /** The site's navigation, in order. Each feature adds its pages here. */
 export const SITE_NAV: NavItem[] = [
-  { label: "Overview", href: (s) => paths.site.href(s), roles: [] },
-  { label: "Boards", href: (s) => paths.boards.href(s), roles: [] },
-  { label: "Quick log", href: (s) => paths.quickLog.href(s), roles: ["volunteer", "curator", "admin"] },
-  { label: "Defects", href: (s) => paths.defects.href(s), roles: [] },
-  { label: "Repair plan", href: (s) => paths.repairPlan.href(s), roles: ["curator", "admin"] },
-  { label: "Readings", href: (s) => paths.readings.href(s), roles: [] },
-  { label: "Return to service", href: (s) => paths.returnToService.href(s), roles: [] },
-  { label: "Photo desk", href: (s) => paths.photos.href(s), roles: ["photographer", "curator", "admin"] },
-  { label: "Shoot list", href: (s) => paths.photoShootList.href(s), roles: ["photographer", "curator", "admin"] },
-  { label: "Photos", href: (s) => paths.photoGallery.href(s), roles: [] },
-  { label: "Wanted parts", href: (s) => paths.parts.href(s), roles: [] },
-  { label: "Reports", href: (s) => paths.reports.href(s), roles: [] },
-  { label: "Scan tag", href: () => paths.scan.href(), roles: [] },
-  { label: "Flood record", href: (s) => paths.floodEvents.href(s), roles: ["curator", "admin"] },
-  { label: "Import CSV", href: (s) => paths.inventoryImport.href(s), roles: ["curator", "admin"] },
-  { label: "Crew", href: (s) => paths.members.href(s), roles: ["curator", "admin"] },
+  { label: "Overview", href: (s) => paths.site.href(s) },
+  { label: "Boards", href: (s) => paths.boards.href(s) },
+  { label: "Quick log", href: (s) => paths.quickLog.href(s), action: "inventory.log" },
+  { label: "Defects", href: (s) => paths.defects.href(s) },
+  { label: "Repair plan", href: (s) => paths.repairPlan.href(s), action: "defects.manage" },
+  { label: "Readings", href: (s) => paths.readings.href(s) },
+  { label: "Return to service", href: (s) => paths.returnToService.href(s) },
+  { label: "Photo desk", href: (s) => paths.photos.href(s), action: "photos.file" },
+  { label: "Shoot list", href: (s) => paths.photoShootList.href(s), action: "photos.file" },
+  { label: "Photos", href: (s) => paths.photoGallery.href(s) },
+  { label: "Wanted parts", href: (s) => paths.parts.href(s) },
+  { label: "Reports", href: (s) => paths.reports.href(s) },
+  { label: "Scan tag", href: () => paths.scan.href() },
+  { label: "Flood record", href: (s) => paths.floodEvents.href(s), action: "inventory.curate" },
+  { label: "Import CSV", href: (s) => paths.inventoryImport.href(s), action: "inventory.curate" },
+  { label: "Crew", href: (s) => paths.members.href(s), action: "members.manage" },
 ];
 
 /** The four pages each role reaches for most on a phone (the rest sit under "More"). */
@@ -40,7 +40,7 @@ const PHONE_BAR: Record<Who, string[]> = {
   viewer: ["Overview", "Boards", "Defects", "Readings"],
 };
 
-export const visibleNav = (role: Who) => SITE_NAV.filter((n) => !n.roles.length || n.roles.includes(role));
+export const visibleNav = (role: Who) => SITE_NAV.filter((n) => !n.action || can(role, n.action));
 
 /** The phone's bottom bar, in the role's order, and what goes under "More". */
 export function phoneNav(role: Who): { bar: NavItem[]; more: NavItem[] } {

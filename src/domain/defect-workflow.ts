@@ -6,6 +6,7 @@
  * practice of independent verification ("a second pair of eyes").
  */
 import { DEFECT_STATUSES, type DefectStatus, type Role } from "./vocab";
+import { can } from "./permissions";
 import { requireOneOf } from "./guards";
 
 export type Actor = { id: string; role: Role | "admin" };
@@ -60,9 +61,9 @@ export interface RepairEvidence {
 export function allowedTargets(defect: WorkflowDefect, actor: Actor): DefectStatus[] {
   requireOneOf("status", defect.status, DEFECT_STATUSES);
   // The repairer is never offered the close: someone else verifies (issue 14).
-  if (actor.role === "curator" || actor.role === "admin")
+  if (can(actor.role, "defects.manage"))
     return CURATOR_MOVES[defect.status].filter((to) => !(to === "closed" && defect.repairedBy === actor.id));
-  if (actor.role === "volunteer" && (defect.createdBy === actor.id || defect.assigneeId === actor.id))
+  if (can(actor.role, "defects.raise") && (defect.createdBy === actor.id || defect.assigneeId === actor.id))
     return VOLUNTEER_MOVES[defect.status] ?? [];
   return [];
 }
@@ -86,7 +87,7 @@ export function checkTransition(
     defect.status === "awaiting_retest" &&
     defect.repairedBy === actor.id &&
     CURATOR_MOVES[defect.status].includes(to) &&
-    (actor.role === "curator" || actor.role === "admin")
+    can(actor.role, "defects.manage")
   )
     return {
       ok: false,
@@ -139,10 +140,8 @@ export function checkTransition(
   return { ok: true, set: {} };
 }
 
-/** Only the curator (or an instance admin) triages, assigns, pins and bulk-edits. */
-export const canManage = (role: Role | "admin") => role === "curator" || role === "admin";
-/** Who raises defects: volunteers and the curator. */
-export const canRaise = (role: Role | "admin") => canManage(role) || role === "volunteer";
-/** Field edits: the curator on any defect, a volunteer on one they raised that is not closed. */
+/** Field edits: the curator on any defect, a volunteer on one they raised that is not closed (who triages, assigns,
+ * pins and bulk-edits, and who raises, is in the permission table: `defects.manage`, `defects.raise`). */
 export const canEdit = (d: WorkflowDefect, actor: Actor) =>
-  canManage(actor.role) || (actor.role === "volunteer" && d.createdBy === actor.id && d.status !== "closed");
+  can(actor.role, "defects.manage") ||
+  (can(actor.role, "defects.raise") && d.createdBy === actor.id && d.status !== "closed");

@@ -4,7 +4,6 @@
  * recorded evidence and signed by named people. Tideline records and computes; it never
  * authorises energisation — NFPA 70E, local codes and qualified persons decide.
  */
-import type { Role } from "./vocab";
 
 export const SUPPLIES = ["temporary_fused", "external", "normal"] as const;
 export type Supply = (typeof SUPPLIES)[number];
@@ -128,38 +127,7 @@ export const DEFAULT_TEMPLATE: TemplateStep[] = [
   },
 ];
 
-/** Actions of the return-to-service domain (one table, read by server routes and client controls). */
-export const RTS_ACTIONS = [
-  "read",
-  "plan",
-  "sign",
-  "release_blocked",
-  "record_watch",
-  "record_incident",
-  "record_operation",
-  "set_budget",
-  "manage_qualified",
-  "restart",
-  "de_energise",
-] as const;
-export type RtsAction = (typeof RTS_ACTIONS)[number];
-type Who = Role | "admin";
-const TABLE: Record<RtsAction, Who[]> = {
-  read: ["curator", "volunteer", "photographer", "scrounger", "viewer", "admin"],
-  plan: ["curator", "admin"],
-  sign: ["curator", "volunteer", "admin"],
-  release_blocked: ["curator", "admin"],
-  record_watch: ["curator", "volunteer", "admin"],
-  record_incident: ["curator", "volunteer", "admin"],
-  record_operation: ["curator", "volunteer", "admin"],
-  set_budget: ["curator", "admin"],
-  manage_qualified: ["curator", "admin"],
-  restart: ["curator", "admin"],
-  de_energise: ["curator", "volunteer", "admin"],
-};
-/** May this role do this? Signing energise/release also needs a current qualification (see isQualifiedOn). */
-export const canRts = (role: Who, action: RtsAction) => TABLE[action].includes(role);
-export const rolesFor = (action: RtsAction): Who[] => [...TABLE[action]];
+/* Who may do what in return to service: the `rts.*` actions of src/domain/permissions.ts. */
 
 /** A qualification counts on `today` (YYYY-MM-DD) when it has no expiry or expires on/after that day. */
 export function isQualifiedOn(q: { expiresOn: string | null } | null | undefined, today: string): boolean {

@@ -4,7 +4,6 @@
  */
 import { z } from "zod";
 import { LABEL_SHEET_IDS } from "../domain/label-sheets";
-import type { Role } from "../domain/vocab";
 
 /** Sections a person may leave out. Cover, contents and the safety caution are always in. */
 export const REPORT_SECTIONS = ["summary", "board", "positions", "dryout", "rts", "defects", "parts"] as const;
@@ -97,12 +96,3 @@ export const tagLookupResponse = z.object({
   ),
 });
 export type TagLookup = z.infer<typeof tagLookupResponse>;
-
-/** Who may do what here, used by the server's guards and the client's screens alike ([] = every member; admins always). */
-export const REPORT_ROLES = {
-  report: [] as Role[],
-  labels: ["curator", "volunteer", "photographer", "scrounger"] as Role[],
-  assignTags: ["curator", "volunteer"] as Role[],
-};
-export const reportAllowed = (action: keyof typeof REPORT_ROLES, role: Role | "admin") =>
-  role === "admin" || REPORT_ROLES[action].length === 0 || REPORT_ROLES[action].includes(role);

@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { DEFAULT_TEMPLATE, checkReorder, isQualifiedOn, canRts } from "../../src/domain/return-to-service";
+import { DEFAULT_TEMPLATE, checkReorder, isQualifiedOn } from "../../src/domain/return-to-service";
+import { can } from "../../src/domain/permissions";
 import { evaluateStage, insulationBlockers, type GateInput, type GateStep } from "../../src/domain/rts-gate";
 import { watchSchedule } from "../../src/domain/rts-watch";
 import { defaultOperationsBudget, operationsStatus } from "../../src/domain/breaker-operations";
@@ -387,7 +388,7 @@ describe("plan order and permissions", () => {
     ["curator", "release_blocked", true],
     ["photographer", "record_watch", false],
     ["viewer", "read", true],
-  ] as const)("%s may %s: %s", (role, action, ok) => expect(canRts(role, action)).toBe(ok));
+  ] as const)("%s may %s: %s", (role, action, ok) => expect(can(role, `rts.${action}`)).toBe(ok));
 });
 
 describe("breaker operations budget (Tideline's defaults; ANSI C37.50 endurance from memory does not apply to flooded old breakers)", () => {

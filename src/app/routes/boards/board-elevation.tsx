@@ -14,7 +14,7 @@ import {
 import { PositionPanel } from "../../../features/inventory/components/position-panel";
 import { TileLegend } from "../../../features/inventory/components/tile-legend";
 import { defectHref } from "../../../features/inventory/defect-link";
-import { canCurate, canLog } from "../../../features/inventory/roles";
+import { can } from "../../../domain/permissions";
 import { PanelOperations } from "../../../features/return-to-service/components/breaker-operations";
 import { PositionPhotos } from "../../../features/photos/components/position-photos";
 import { LatestGroundCheck } from "../../../features/readings/components/latest-ground-check";
@@ -79,7 +79,7 @@ export default function BoardElevationPage() {
               .join(" · ")}
           </p>
         </div>
-        {canCurate(role) && (
+        {can(role, "inventory.curate") && (
           <Link
             to={paths.boardSetup.href(site.id, board.id)}
             className="inline-flex min-h-11 items-center rounded-md px-4 font-semibold ring-1 ring-hull-600 no-underline"
@@ -130,19 +130,18 @@ export default function BoardElevationPage() {
         <PositionPanel
           siteId={site.id}
           positionId={selected}
-          canDecide={canCurate(role)}
+          canDecide={can(role, "inventory.curate")}
           onClose={close}
           photos={<PositionPhotos siteId={site.id} positionId={selected} />}
           extra={<PanelOperations siteId={site.id} boardId={board.id} positionId={selected} role={role} />}
           links={{
             readings: (componentId) => paths.readingsComponent.href(site.id, componentId),
-            quickLog: canLog(role) ? paths.quickLog.href(site.id, selected) : undefined,
-            setup: canCurate(role) ? paths.boardSetup.href(site.id, board.id, selected) : undefined,
-            defect:
-              role !== "viewer"
-                ? (latest) =>
-                    defectHref(site.id, { positionId: selected, componentId: tile?.component?.id, inspection: latest })
-                : undefined,
+            quickLog: can(role, "inventory.log") ? paths.quickLog.href(site.id, selected) : undefined,
+            setup: can(role, "inventory.curate") ? paths.boardSetup.href(site.id, board.id, selected) : undefined,
+            defect: can(role, "defects.raise")
+              ? (latest) =>
+                  defectHref(site.id, { positionId: selected, componentId: tile?.component?.id, inspection: latest })
+              : undefined,
           }}
         />
       )}

@@ -4,7 +4,7 @@ import { paths } from "../../../config/paths";
 import { EARTHING_LABELS } from "../../../domain/vocab";
 import { inventoryCsvHref, useBoards } from "../../../features/inventory/api";
 import { BoardThumbnail } from "../../../features/inventory/components/board-thumbnail";
-import { canCurate } from "../../../features/inventory/roles";
+import { can } from "../../../domain/permissions";
 import { useSiteContext } from "../sites/site-layout";
 
 const pct = (n: number, of: number) => (of ? Math.round((n / of) * 100) : 0);
@@ -27,7 +27,7 @@ export default function BoardListPage() {
           >
             Export inventory CSV
           </a>
-          {canCurate(role) && (
+          {can(role, "inventory.curate") && (
             <>
               <Link
                 to={paths.inventoryImport.href(site.id)}
@@ -49,7 +49,7 @@ export default function BoardListPage() {
       {q.isError && <ErrorPanel error={q.error} />}
       {q.data?.length === 0 && (
         <EmptyState title="No boards yet">
-          {canCurate(role)
+          {can(role, "inventory.curate")
             ? "Add the first board, or import an inventory spreadsheet."
             : "The curator has not set up any boards yet."}
         </EmptyState>
@@ -92,7 +92,7 @@ export default function BoardListPage() {
                 style={{ width: `${pct(b.surveyedCount, b.positionCount)}%` }}
               />
             </div>
-            {canCurate(role) && (
+            {can(role, "inventory.curate") && (
               <Link
                 to={paths.boardSetup.href(site.id, b.id)}
                 className="mt-3 inline-flex min-h-11 items-center text-sm"

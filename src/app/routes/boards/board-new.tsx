@@ -2,13 +2,13 @@ import { Link, useNavigate } from "react-router";
 import { RoleNotice } from "../../../features/inventory/components/role-notice";
 import { paths } from "../../../config/paths";
 import { BoardForm } from "../../../features/inventory/components/board-form";
-import { canCurate } from "../../../features/inventory/roles";
+import { can } from "../../../domain/permissions";
 import { useSiteContext } from "../sites/site-layout";
 
 export default function BoardNewPage() {
   const { site, role } = useSiteContext();
   const navigate = useNavigate();
-  if (!canCurate(role)) return <RoleNotice>Only the curator adds boards.</RoleNotice>;
+  if (!can(role, "inventory.curate")) return <RoleNotice>Only the curator adds boards.</RoleNotice>;
   return (
     <div className="space-y-4">
       <nav aria-label="Breadcrumb" className="text-sm [&_a]:underline">

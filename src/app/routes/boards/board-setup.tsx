@@ -9,7 +9,7 @@ import { NameplateForm } from "../../../features/inventory/components/nameplate-
 import { PositionForm } from "../../../features/inventory/components/position-form";
 import { PositionOrderList } from "../../../features/inventory/components/position-order-list";
 import { SectionsEditor } from "../../../features/inventory/components/sections-editor";
-import { canCurate } from "../../../features/inventory/roles";
+import { can } from "../../../domain/permissions";
 import type { BoardDetail } from "../../../features/inventory/contract";
 import { useSiteContext } from "../sites/site-layout";
 
@@ -69,7 +69,7 @@ export default function BoardSetupPage() {
       },
       { replace: true },
     );
-  if (!canCurate(role)) return <RoleNotice>Only the curator sets up boards.</RoleNotice>;
+  if (!can(role, "inventory.curate")) return <RoleNotice>Only the curator sets up boards.</RoleNotice>;
   if (q.isPending) return <Loading />;
   if (q.isError) return <ErrorPanel error={q.error} />;
   const { board, sections, positions } = q.data;

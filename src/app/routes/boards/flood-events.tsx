@@ -3,7 +3,7 @@ import { FLOOD_GUIDANCE_PROVENANCE } from "../../../domain/flood-guidance";
 import { WATER_TYPE_LABELS } from "../../../domain/vocab";
 import { useFloodEvents } from "../../../features/inventory/api";
 import { FloodEventForm } from "../../../features/inventory/components/flood-event-form";
-import { canCurate } from "../../../features/inventory/roles";
+import { can } from "../../../domain/permissions";
 import { useSiteContext } from "../sites/site-layout";
 
 export default function FloodEventsPage() {
@@ -18,7 +18,7 @@ export default function FloodEventsPage() {
       <p className="text-mist">
         What the water was and how long it stood drives every recommended disposition. The newest event is the one used.
       </p>
-      {canCurate(role) ? (
+      {can(role, "inventory.curate") ? (
         <>
           <h2 className="text-lg font-bold">{latest ? "Current flood event" : "Record the flood"}</h2>
           <FloodEventForm key={latest?.id ?? "new"} siteId={site.id} event={latest} />

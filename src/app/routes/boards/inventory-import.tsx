@@ -2,7 +2,7 @@ import { Link } from "react-router";
 import { paths } from "../../../config/paths";
 import { CsvImport } from "../../../features/inventory/components/csv-import";
 import { RoleNotice } from "../../../features/inventory/components/role-notice";
-import { canCurate } from "../../../features/inventory/roles";
+import { can } from "../../../domain/permissions";
 import { TimeZoneForm } from "../../../features/sites/components/time-zone-form";
 import { useSiteContext } from "../sites/site-layout";
 
@@ -18,8 +18,8 @@ export default function InventoryImportPage() {
         Check the file first: every row is matched to its position and shown as new, changed (old → new), unchanged or
         needing a fix, before anything is written. The import then writes all the rows in one go, or none of them.
       </p>
-      <TimeZoneForm siteId={site.id} timeZone={site.timeZone} canEdit={canCurate(role)} />
-      {canCurate(role) ? (
+      <TimeZoneForm siteId={site.id} timeZone={site.timeZone} canEdit={can(role, "inventory.curate")} />
+      {can(role, "inventory.curate") ? (
         <CsvImport siteId={site.id} />
       ) : (
         <RoleNotice>Only the curator imports inventories.</RoleNotice>

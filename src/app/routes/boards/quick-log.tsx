@@ -14,7 +14,7 @@ import { KindGlyph } from "../../../features/inventory/components/kind-glyph";
 import { PositionFinder } from "../../../features/inventory/components/position-finder";
 import { gradeTone } from "../../../features/inventory/components/tile-style";
 import { defectHref } from "../../../features/inventory/defect-link";
-import { canCurate, canLog } from "../../../features/inventory/roles";
+import { can } from "../../../domain/permissions";
 import { InspectionPhotos } from "../../../features/photos/components/inspection-photos";
 import type { CustodyMove } from "../../../schemas/inventory";
 import { useSiteContext } from "../sites/site-layout";
@@ -112,7 +112,8 @@ export default function QuickLogPage() {
       return s;
     });
   };
-  if (!canLog(role)) return <RoleNotice>Your role reads the survey; volunteers and the curator log it.</RoleNotice>;
+  if (!can(role, "inventory.log"))
+    return <RoleNotice>Your role reads the survey; volunteers and the curator log it.</RoleNotice>;
   return (
     <div className="mx-auto max-w-xl space-y-4">
       <h1 className="text-2xl font-bold">Quick log</h1>
@@ -190,7 +191,7 @@ export default function QuickLogPage() {
                     key={positionId}
                     siteId={site.id}
                     component={q.data.component}
-                    canRelease={canCurate(role)}
+                    canRelease={can(role, "custody.release")}
                     onSaved={(move) => {
                       setDone({ kind: "custody", move });
                       window.scrollTo({ top: 0 });

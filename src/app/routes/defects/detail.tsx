@@ -19,13 +19,14 @@ import { PinPanel } from "../../../features/defects/components/pin-panel";
 import { WhyItRanks } from "../../../features/defects/components/why-it-ranks";
 import { WorkflowPanel } from "../../../features/defects/components/workflow-panel";
 import { useSiteContext } from "../sites/site-layout";
+import { can } from "../../../domain/permissions";
 
 export default function DefectPage() {
   const { site, role } = useSiteContext();
   const { defectId = "" } = useParams();
   const q = useDefect(site.id, defectId);
   const options = useDefectOptions(site.id);
-  const manage = role === "curator" || role === "admin";
+  const manage = can(role, "defects.manage");
   if (q.isPending) return <Loading what="Opening the defect" />;
   if (q.isError)
     return (
@@ -106,9 +107,9 @@ export default function DefectPage() {
         <EvidencePanel
           siteId={site.id}
           detail={detail}
-          canLink={manage || role === "volunteer"}
+          canLink={can(role, "defects.raise")}
           photos={
-            manage || role === "volunteer" || role === "photographer" ? (
+            can(role, "defects.photos") ? (
               <InspectionPhotos
                 siteId={site.id}
                 defectId={d.id}

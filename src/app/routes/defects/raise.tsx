@@ -6,6 +6,7 @@ import { DEFECT_CATEGORIES, DEFECT_SEVERITIES, type DefectCategory, type DefectS
 import { useCreateDefect, useDefectOptions, useFindingContext } from "../../../features/defects/api";
 import { DefectForm } from "../../../features/defects/components/defect-form";
 import { useSiteContext } from "../sites/site-layout";
+import { can } from "../../../domain/permissions";
 
 const oneOf = <T extends string>(all: readonly T[], v: string | null) =>
   v && (all as readonly string[]).includes(v) ? (v as T) : undefined;
@@ -22,11 +23,11 @@ export default function RaiseDefectPage() {
   const options = useDefectOptions(site.id);
   const context = useFindingContext(site.id, q);
   const create = useCreateDefect(site.id);
-  const manage = role === "curator" || role === "admin";
+  const manage = can(role, "defects.manage");
   const readingKind = oneOf(["insulation", "contact", "thermal", "ground"] as const, params.get("readingKind"));
   const readingId = params.get("readingId");
   const fromReading = readingKind && readingId ? { kind: readingKind, id: readingId } : null;
-  if (!manage && role !== "volunteer")
+  if (!can(role, "defects.raise"))
     return <EmptyState title="Your role reads the register">Volunteers and the curator raise defects.</EmptyState>;
   const waiting = options.isPending || (context.fetchStatus === "fetching" && context.isPending);
   return (

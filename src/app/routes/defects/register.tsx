@@ -2,11 +2,12 @@ import { Link } from "react-router";
 import { paths } from "../../../config/paths";
 import { Register } from "../../../features/defects/components/register";
 import { useSiteContext } from "../sites/site-layout";
+import { can } from "../../../domain/permissions";
 
 export default function RegisterPage() {
   const { site, role } = useSiteContext();
-  const manage = role === "curator" || role === "admin";
-  const raise = manage || role === "volunteer";
+  const manage = can(role, "defects.manage");
+  const raise = can(role, "defects.raise");
   return (
     <div className="space-y-4">
       <div className="flex flex-wrap items-center justify-between gap-2">

@@ -6,11 +6,12 @@ import { paths } from "../../../config/paths";
 import { useRepairPlan } from "../../../features/defects/api";
 import { RepairPlanSheet } from "../../../features/defects/components/repair-plan";
 import { useSiteContext } from "../sites/site-layout";
+import { can } from "../../../domain/permissions";
 
 export default function RepairPlanPage() {
   const { site, role } = useSiteContext();
   const plan = useRepairPlan(site.id);
-  if (role !== "curator" && role !== "admin")
+  if (!can(role, "defects.manage"))
     return (
       <EmptyState title="The repair plan is the curator's page">
         Follow the work in the{" "}

@@ -10,12 +10,13 @@ import { LineSummary } from "../../../features/parts/components/line-summary";
 import { PositionsList } from "../../../features/parts/components/positions-list";
 import { StatusForm } from "../../../features/parts/components/status-form";
 import { useSiteContext } from "../sites/site-layout";
+import { can } from "../../../domain/permissions";
 
 export default function PartLinePage() {
   const { site, role } = useSiteContext();
   const { lineId = "" } = useParams();
   const detail = useLineDetail(site.id, lineId);
-  const canEdit = role === "scrounger" || role === "curator" || role === "admin";
+  const canEdit = can(role, "parts.edit");
   if (detail.isPending) return <Loading what="Opening the line" />;
   if (detail.isError)
     return (
@@ -30,7 +31,7 @@ export default function PartLinePage() {
         ← Wanted parts
       </Link>
       <LineSummary line={line} />
-      {(role === "curator" || role === "admin") && <HeritageRuleForm siteId={site.id} line={line} />}
+      {can(role, "parts.heritage_rule") && <HeritageRuleForm siteId={site.id} line={line} />}
       <div className="grid gap-4 lg:grid-cols-2">
         <PositionsList siteId={site.id} positions={line.positions} />
         {canEdit && <StatusForm siteId={site.id} detail={detail.data} />}

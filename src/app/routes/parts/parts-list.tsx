@@ -10,14 +10,13 @@ import { PartsTable } from "../../../features/parts/components/parts-table";
 import { ShareLinksPanel } from "../../../features/parts/components/share-links-panel";
 import { useFilterParams } from "../../../features/parts/use-filter-params";
 import { useSiteContext } from "../sites/site-layout";
-
-const EDITORS = new Set(["scrounger", "curator", "admin"]);
+import { can } from "../../../domain/permissions";
 
 export default function PartsListPage() {
   const { site, role } = useSiteContext();
   const [filter, setFilter, search] = useFilterParams();
   const list = usePartsList(site.id, filter);
-  const canEdit = EDITORS.has(role);
+  const canEdit = can(role, "parts.edit");
   return (
     <div className="space-y-5">
       <header className="flex flex-wrap items-end justify-between gap-3">
@@ -76,7 +75,7 @@ export default function PartsListPage() {
       {canEdit && <NewLineForm siteId={site.id} />}
       <div className="grid gap-4 lg:grid-cols-2">
         {list.data && <BudgetPanel budget={list.data.budget} />}
-        {canEdit && <ShareLinksPanel siteId={site.id} canRevoke={role === "curator" || role === "admin"} />}
+        {canEdit && <ShareLinksPanel siteId={site.id} canRevoke={can(role, "parts.revoke_share")} />}
       </div>
     </div>
   );

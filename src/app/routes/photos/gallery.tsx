@@ -7,6 +7,7 @@ import { PhotoGrid } from "../../../features/photos/components/photo-grid";
 import { PhotoViewer } from "../../../features/photos/components/photo-viewer";
 import type { Photo } from "../../../schemas/photos";
 import { useSiteContext } from "../sites/site-layout";
+import { can } from "../../../domain/permissions";
 
 export default function GalleryPage() {
   const { siteId = "" } = useParams();
@@ -25,7 +26,6 @@ export default function GalleryPage() {
   // from the query each render, so edits made in the viewer show at once.
   const [open, setOpen] = useState<{ group: string | null; i: number } | null>(null);
   const { remove } = usePhotoMutations(siteId);
-  const isCurator = role === "curator" || role === "admin";
 
   const groups = useMemo(() => {
     const m = new Map<string, Photo[]>();
@@ -102,10 +102,10 @@ export default function GalleryPage() {
           index={Math.min(open.i, openList.length - 1)}
           onIndex={(i) => setOpen({ ...open, i })}
           onClose={() => setOpen(null)}
-          canDownloadOriginal={isCurator || role === "photographer"}
-          tagTargets={isCurator || role === "photographer" ? (targets.data ?? []) : undefined}
+          canDownloadOriginal={can(role, "photos.original")}
+          tagTargets={can(role, "photos.file") ? (targets.data ?? []) : undefined}
           onDelete={
-            isCurator
+            can(role, "photos.delete")
               ? (p) => {
                   if (window.confirm("Delete this photo? It is kept for 30 days, then purged."))
                     remove.mutate(p.id, { onSuccess: () => setOpen(null) });

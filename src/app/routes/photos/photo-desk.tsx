@@ -5,22 +5,21 @@ import { usePhotoMutations, usePhotos, usePhotoTargets } from "../../../features
 import { BatchAssign } from "../../../features/photos/components/batch-assign";
 import { UploadPanel } from "../../../features/photos/components/upload-panel";
 import { useSiteContext } from "../sites/site-layout";
-
-const UPLOADERS = new Set(["photographer", "curator", "admin"]);
+import { can } from "../../../domain/permissions";
 
 export default function PhotoDesk() {
   const { siteId = "" } = useParams();
   const { role } = useSiteContext();
   const targets = usePhotoTargets(siteId);
-  const unassigned = usePhotos(siteId, { unassigned: true }, UPLOADERS.has(role));
+  const unassigned = usePhotos(siteId, { unassigned: true }, can(role, "photos.file"));
   const { invalidate } = usePhotoMutations(siteId);
-  if (!UPLOADERS.has(role))
+  if (!can(role, "photos.file"))
     return (
       <div className="space-y-2">
         <h1 className="text-2xl font-bold">Photo desk</h1>
         <p className="text-mist">
-          The photographer and the curator upload and file photos. Volunteers add photos to their own inspections from
-          the teardown log.
+          The photographer and the curator upload and file whole shoots here. Volunteers add photos to their own
+          inspections and custody moves from the quick log, and to the defects they work on.
         </p>
         <Link className="underline" to={paths.photoGallery.href(siteId)}>
           See the photos

@@ -4,6 +4,7 @@ import { ErrorPanel, Loading } from "../../../components/status";
 import { usePhotoTargets } from "../../../features/photos/api";
 import { RequiredShotsEditor, ShootListPanel } from "../../../features/photos/components/shoot-list-panel";
 import { useSiteContext } from "../sites/site-layout";
+import { can } from "../../../domain/permissions";
 
 export default function ShootListPage() {
   const { siteId = "" } = useParams();
@@ -18,7 +19,7 @@ export default function ShootListPage() {
   return (
     <div className="space-y-4">
       <h1 className="text-2xl font-bold">Shoot list</h1>
-      {(role === "curator" || role === "admin") && <RequiredShotsEditor siteId={siteId} />}
+      {can(role, "photos.settings") && <RequiredShotsEditor siteId={siteId} />}
       {targets.isPending ? (
         <Loading what="Finding the boards" />
       ) : targets.isError ? (

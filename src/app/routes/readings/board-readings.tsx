@@ -11,8 +11,7 @@ import { LatestGroundCheck } from "../../../features/readings/components/latest-
 import { RecordPanel } from "../../../features/readings/components/record-panel";
 import { ThermalHistory } from "../../../features/readings/components/thermal-history";
 import { useSiteContext } from "../sites/site-layout";
-
-const RECORDERS = ["volunteer", "curator", "admin"];
+import { can } from "../../../domain/permissions";
 
 export default function BoardReadingsPage() {
   const { site, role } = useSiteContext();
@@ -42,7 +41,7 @@ export default function BoardReadingsPage() {
       <h1 className="text-2xl font-bold">Readings · {board.name}</h1>
       <SafetyNotice />
       <LatestGroundCheck siteId={site.id} boardId={boardId} />
-      {RECORDERS.includes(role) && (
+      {can(role, "readings.record") && (
         <RecordPanel siteId={site.id} boardId={boardId} lineVolts={board.nominalVolts} options={options} />
       )}
       <section aria-labelledby="dry-out-title" className="space-y-2">

@@ -10,6 +10,7 @@ import { OverrideForm } from "../../../features/readings/components/override-for
 import { RecordPanel } from "../../../features/readings/components/record-panel";
 import { ThermalHistory } from "../../../features/readings/components/thermal-history";
 import { useSiteContext } from "../sites/site-layout";
+import { can } from "../../../domain/permissions";
 
 export default function ComponentReadingsPage() {
   const { site, role } = useSiteContext();
@@ -18,7 +19,6 @@ export default function ComponentReadingsPage() {
   if (q.isPending) return <Loading what="Loading the component's readings" />;
   if (q.isError) return <ErrorPanel error={q.error} />;
   const { component: c, override, insulation, contacts, thermal } = q.data;
-  const curator = role === "curator" || role === "admin";
   return (
     <div className="space-y-6">
       <p>
@@ -33,7 +33,7 @@ export default function ComponentReadingsPage() {
         Rated {c.ratedVolts} V{override && ` · manufacturer's values in force (${override.source})`}
       </p>
       <SafetyNotice />
-      {(curator || role === "volunteer") && (
+      {can(role, "readings.record") && (
         <RecordPanel
           siteId={site.id}
           boardId={c.boardId}
@@ -43,7 +43,7 @@ export default function ComponentReadingsPage() {
           kinds={["insulation", "contact", "thermal"]}
         />
       )}
-      {curator && <OverrideForm siteId={site.id} componentId={c.id} current={override} />}
+      {can(role, "readings.criteria") && <OverrideForm siteId={site.id} componentId={c.id} current={override} />}
       <section aria-labelledby="dry-out-title" className="space-y-2">
         <h2 id="dry-out-title" className="text-xl font-bold">
           Dry-out

@@ -5,6 +5,7 @@ import { paths } from "../../../config/paths";
 import { useCriteria } from "../../../features/readings/api";
 import { CriteriaForm } from "../../../features/readings/components/criteria-form";
 import { useSiteContext } from "../sites/site-layout";
+import { can } from "../../../domain/permissions";
 
 export default function CriteriaPage() {
   const { site, role } = useSiteContext();
@@ -25,7 +26,7 @@ export default function CriteriaPage() {
       {criteria.isPending && <Loading />}
       {criteria.isError && <ErrorPanel error={criteria.error} />}
       {criteria.data && (
-        <CriteriaForm siteId={site.id} criteria={criteria.data} canEdit={role === "curator" || role === "admin"} />
+        <CriteriaForm siteId={site.id} criteria={criteria.data} canEdit={can(role, "readings.criteria")} />
       )}
     </div>
   );

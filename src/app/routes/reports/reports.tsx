@@ -5,7 +5,7 @@ import { EmptyState, ErrorPanel, Loading } from "../../../components/status";
 import { inventoryKeys, useBoard, useBoards } from "../../../features/inventory/api";
 import { LabelsForm } from "../../../features/reports/components/labels-form";
 import { ReportForm } from "../../../features/reports/components/report-form";
-import { reportAllowed } from "../../../schemas/reports";
+import { can } from "../../../domain/permissions";
 import { useSiteContext } from "../sites/site-layout";
 
 /** Reports and labels: the condition survey PDF for everyone on the site, tag labels for the crew who handle parts. */
@@ -16,7 +16,7 @@ export default function ReportsPage() {
   const boardId = labelBoard || boards.data?.[0]?.id || "";
   const detail = useBoard(site.id, boardId);
   const qc = useQueryClient();
-  const canLabel = reportAllowed("labels", role);
+  const canLabel = can(role, "reports.labels");
 
   return (
     <div className="space-y-6">
@@ -52,7 +52,7 @@ export default function ReportsPage() {
                   tagNumber: p.component?.tagNumber ?? null,
                   hasComponent: !!p.component,
                 }))}
-                canAssign={reportAllowed("assignTags", role)}
+                canAssign={can(role, "tags.assign")}
                 onTagsAssigned={() => void qc.invalidateQueries({ queryKey: inventoryKeys.all(site.id) })}
               />
             </section>

@@ -1,7 +1,7 @@
 import { Link, useParams } from "react-router";
 import { ErrorPanel, Loading } from "../../../components/status";
 import { paths } from "../../../config/paths";
-import { canRts } from "../../../domain/return-to-service";
+import { can } from "../../../domain/permissions";
 import { useSession } from "../../../features/auth/api";
 import { useRtsBoard } from "../../../features/return-to-service/api";
 import { NewStageForm } from "../../../features/return-to-service/components/stage-form";
@@ -48,7 +48,7 @@ export default function BoardReturnToServicePage() {
         <Link className="inline-flex min-h-11 items-center underline" to={paths.readingsBoard.href(site.id, boardId)}>
           The board's readings
         </Link>
-        {canRts(role, "plan") && (
+        {can(role, "rts.plan") && (
           <Link className="inline-flex min-h-11 items-center underline" to={paths.rtsSettings.href(site.id)}>
             The site's hold-point template
           </Link>
@@ -71,7 +71,7 @@ export default function BoardReturnToServicePage() {
             view={v}
           />
         ))}
-        {canRts(role, "plan") && <NewStageForm siteId={site.id} view={v} />}
+        {can(role, "rts.plan") && <NewStageForm siteId={site.id} view={v} />}
       </section>
       <section aria-labelledby="timeline-title" className="space-y-2">
         <h2 id="timeline-title" className="text-xl font-bold">

@@ -1,7 +1,7 @@
 import { Link } from "react-router";
 import { ErrorPanel, Loading } from "../../../components/status";
 import { paths } from "../../../config/paths";
-import { canRts } from "../../../domain/return-to-service";
+import { can } from "../../../domain/permissions";
 import { STAGE_STATE_LABELS, type StageState } from "../../../domain/rts-gate";
 import { useRtsOverview } from "../../../features/return-to-service/api";
 import { RtsCaution } from "../../../features/return-to-service/components/rts-caution";
@@ -37,7 +37,7 @@ export default function ReturnToServiceOverviewPage() {
     <div className="space-y-4">
       <h1 className="text-2xl font-bold">Return to service</h1>
       <RtsCaution compact />
-      {canRts(role, "plan") && (
+      {can(role, "rts.plan") && (
         <p>
           <Link className="inline-flex min-h-11 items-center underline" to={paths.rtsSettings.href(site.id)}>
             The site's hold-point template

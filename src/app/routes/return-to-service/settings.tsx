@@ -1,7 +1,7 @@
 import { Link } from "react-router";
 import { ErrorPanel, Loading } from "../../../components/status";
 import { paths } from "../../../config/paths";
-import { canRts } from "../../../domain/return-to-service";
+import { can } from "../../../domain/permissions";
 import { useRtsSettings } from "../../../features/return-to-service/api";
 import { RtsCaution } from "../../../features/return-to-service/components/rts-caution";
 import { TemplateEditor } from "../../../features/return-to-service/components/template-editor";
@@ -31,7 +31,7 @@ export default function RtsSettingsPage() {
       ) : q.isError ? (
         <ErrorPanel error={q.error} />
       ) : (
-        <TemplateEditor siteId={site.id} settings={q.data} canEdit={canRts(role, "plan")} />
+        <TemplateEditor siteId={site.id} settings={q.data} canEdit={can(role, "rts.plan")} />
       )}
     </div>
   );

@@ -3,7 +3,7 @@ import { Link, useParams, useSearchParams } from "react-router";
 import { Button } from "../../../components/button";
 import { ErrorPanel, Loading } from "../../../components/status";
 import { paths } from "../../../config/paths";
-import { canRts } from "../../../domain/return-to-service";
+import { can } from "../../../domain/permissions";
 import { LAMP_LOOKS, LAMP_LOOK_LABELS } from "../../../schemas/return-to-service";
 import { useRtsAction, useRtsBoard } from "../../../features/return-to-service/api";
 import { ApiError } from "../../../lib/api-client";
@@ -182,7 +182,7 @@ export default function WatchPage() {
               onChange={(e) => setNote(e.target.value)}
             />
           </label>
-          {canRts(role, "record_watch") ? (
+          {can(role, "rts.record_watch") ? (
             <Button type="submit" className="w-full" disabled={!lamps || (needsPhase && !phase) || act.isPending}>
               Save the check
             </Button>

@@ -5,6 +5,7 @@ import { paths } from "../../../config/paths";
 import { ProgressSummary } from "../../../features/inventory/components/progress-summary";
 import type { Role } from "../../../domain/vocab";
 import { useSiteContext } from "./site-layout";
+import { can } from "../../../domain/permissions";
 
 const HOME: Record<Role | "admin", { title: string; intro: string }> = {
   curator: {
@@ -54,7 +55,7 @@ export default function SiteHome() {
       <ProgressSummary
         siteId={site.id}
         boardHref={(b) => paths.board.href(site.id, b)}
-        floodHref={role === "curator" || role === "admin" ? paths.floodEvents.href(site.id) : undefined}
+        floodHref={can(role, "inventory.curate") ? paths.floodEvents.href(site.id) : undefined}
       />
       <SafetyNotice />
     </div>

@@ -1,7 +1,7 @@
 import { useId, useState } from "react";
 import { Button } from "../../../components/button";
 import { operationsStatus } from "../../../domain/breaker-operations";
-import { canRts } from "../../../domain/return-to-service";
+import { can } from "../../../domain/permissions";
 import { COMPONENT_KIND_LABELS, type Role } from "../../../domain/vocab";
 import { ApiError } from "../../../lib/api-client";
 import type { RtsBoardView, RtsBreaker } from "../../../schemas/return-to-service";
@@ -196,7 +196,7 @@ function BreakerRow({ siteId, b, role }: { siteId: string; b: RtsBreaker; role: 
         <td className="p-1">{warn ? `${b.status.remaining} ⚠` : b.status.remaining}</td>
         <td className="p-1 text-mist">{b.budgetBasis}</td>
         <td className="p-1">
-          {canRts(role, "set_budget") && !editing && (
+          {can(role, "rts.set_budget") && !editing && (
             <Button tone="quiet" onClick={() => setEditing(true)} aria-label={`Change the budget of ${b.designation}`}>
               Change
             </Button>
@@ -259,7 +259,7 @@ export function BreakerOperations({
       <Button tone="quiet" onClick={() => setAll(!all)}>
         {all ? "Only breakers already operated or budgeted" : `Show all ${view.breakers.length} breakers`}
       </Button>
-      {canRts(role, "record_operation") && <RecordOperation siteId={siteId} view={view} breakers={view.breakers} />}
+      {can(role, "rts.record_operation") && <RecordOperation siteId={siteId} view={view} breakers={view.breakers} />}
     </div>
   );
 }
@@ -302,7 +302,7 @@ export function PositionOperations({
           ))}
         </ol>
       )}
-      {canRts(role, "record_operation") && <RecordOperation siteId={siteId} view={view} breakers={[b]} />}
+      {can(role, "rts.record_operation") && <RecordOperation siteId={siteId} view={view} breakers={[b]} />}
     </section>
   );
 }

@@ -1,7 +1,7 @@
 import { useState } from "react";
 import { Link } from "react-router";
 import { Button } from "../../../components/button";
-import { canRts } from "../../../domain/return-to-service";
+import { can } from "../../../domain/permissions";
 import { HOLD_STATE_LABELS, type HoldPoint } from "../../../domain/rts-gate";
 import type { Role } from "../../../domain/vocab";
 import { ApiError } from "../../../lib/api-client";
@@ -140,7 +140,7 @@ export function HoldPointRow({
   const [releasing, setReleasing] = useState(false);
   const [confirmBudget, setConfirmBudget] = useState(false);
   const step = stage.steps.find((s) => s.id === hp.stepId)!;
-  const may = hp.qualifiedOnly ? isQualified && canRts(role, "sign") : canRts(role, "sign");
+  const may = hp.qualifiedOnly ? isQualified && can(role, "rts.sign") : can(role, "rts.sign");
   const error = act.error instanceof ApiError ? act.error.message : act.error ? String(act.error) : null;
   const sign = (body: Record<string, unknown>) =>
     act.mutate({
@@ -209,7 +209,7 @@ export function HoldPointRow({
               : "Sign this hold point"}
           </Button>
         )}
-        {hp.state === "blocked" && !hp.qualifiedOnly && canRts(role, "release_blocked") && !releasing && (
+        {hp.state === "blocked" && !hp.qualifiedOnly && can(role, "rts.release_blocked") && !releasing && (
           <Button tone="danger" onClick={() => setReleasing(true)}>
             Release with a reason…
           </Button>
@@ -249,7 +249,7 @@ export function HoldPointRow({
           {error}
         </p>
       )}
-      {editing && stage.status === "planned" && canRts(role, "plan") && (
+      {editing && stage.status === "planned" && can(role, "rts.plan") && (
         <StepEditor siteId={siteId} stage={stage} index={index} hp={hp} />
       )}
     </li>

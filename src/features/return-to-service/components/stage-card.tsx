@@ -2,7 +2,7 @@ import { useState } from "react";
 import { Link } from "react-router";
 import { Button } from "../../../components/button";
 import { paths } from "../../../config/paths";
-import { canRts } from "../../../domain/return-to-service";
+import { can } from "../../../domain/permissions";
 import { STAGE_STATE_LABELS } from "../../../domain/rts-gate";
 import { SUPPLY_LABELS, VOLTAGE_STEP_LABELS } from "../../../domain/return-to-service";
 import type { RtsBoardView, RtsStage } from "../../../schemas/return-to-service";
@@ -38,7 +38,7 @@ export function StageCard({
   const [restarting, setRestarting] = useState(false);
   const [restartReason, setRestartReason] = useState("");
   const g = stage.gate;
-  const planner = canRts(role, "plan");
+  const planner = can(role, "rts.plan");
   // A released stage is part of the record: its hold points fold away (open them to read).
   const holdPoints = (
     <ol className="mt-3 space-y-2" aria-label="Hold points">
@@ -162,7 +162,7 @@ export function StageCard({
         >
           Printable stage sheet
         </Link>
-        {(stage.status === "energised" || stage.status === "stopped") && canRts(role, "de_energise") && (
+        {(stage.status === "energised" || stage.status === "stopped") && can(role, "rts.de_energise") && (
           <Button
             tone="quiet"
             onClick={() =>
@@ -176,7 +176,7 @@ export function StageCard({
             Record de-energised
           </Button>
         )}
-        {(stage.status === "stopped" || stage.status === "de_energised") && canRts(role, "restart") && !restarting && (
+        {(stage.status === "stopped" || stage.status === "de_energised") && can(role, "rts.restart") && !restarting && (
           <Button tone="quiet" onClick={() => setRestarting(true)}>
             Start a new attempt…
           </Button>
