@@ -105,7 +105,10 @@ export function createApp(deps: AppDeps) {
   });
   app.get("/api/health", async (_req, res) => {
     const { db: state } = await databaseState(db);
-    res.status(state === "up" ? 200 : 503).json({ ok: state === "up", db: state });
+    res
+      .status(state === "up" ? 200 : 503)
+      .set("Cache-Control", "no-store")
+      .json({ ok: state === "up", db: state });
   });
   app.get("/api/health/live", (_req, res) => {
     res.set("Cache-Control", "no-store").json({ ok: true });
