@@ -103,10 +103,11 @@ export default function WatchPage() {
             <br />
             {stage.watch?.overdueSince ? (
               <span className="font-semibold text-rust-300">
-                Overdue since {new Date(stage.watch.overdueSince).toLocaleTimeString()}
+                Overdue since{" "}
+                {new Date(stage.watch.overdueSince).toLocaleTimeString([], { hour: "2-digit", minute: "2-digit" })}
               </span>
             ) : stage.watch?.nextDueAt ? (
-              `Next due ${new Date(stage.watch.nextDueAt).toLocaleTimeString()}`
+              `Next due ${new Date(stage.watch.nextDueAt).toLocaleTimeString([], { hour: "2-digit", minute: "2-digit" })}`
             ) : (
               ""
             )}
