@@ -1,4 +1,5 @@
 import type { Db } from "../../server/db";
+import type { DefectStatus } from "../../src/domain/vocab";
 import { startFakeSmtp, type FakeSmtp, type StoredMessage } from "../../server/mail/fake-smtp";
 import { smtpMailer } from "../../server/mail/mailer";
 import { startTestServer, type TestServer } from "./http";
