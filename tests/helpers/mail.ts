@@ -3,7 +3,6 @@ import type { DefectStatus } from "../../src/domain/vocab";
 import { startFakeSmtp, type FakeSmtp, type StoredMessage } from "../../server/mail/fake-smtp";
 import { smtpMailer } from "../../server/mail/mailer";
 import { startTestServer, type TestServer } from "./http";
-import type { DefectStatus } from "../../src/domain/vocab";
 
 /** The app over HTTP with real SMTP to the local fake server, as in development. */
 export async function startMailTestServer(
