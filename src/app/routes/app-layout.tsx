@@ -7,6 +7,7 @@ import { Wordmark } from "../../components/wordmark";
 import { ErrorPanel, Loading } from "../../components/status";
 import { paths } from "../../config/paths";
 import { useSession, useSignOut } from "../../features/auth/api";
+import { NoticeStrip } from "../../features/prepared-files/components/notice-strip";
 
 /** Everything behind sign-in: the top bar and the session guard. */
 export default function AppLayout() {
@@ -89,6 +90,7 @@ export default function AppLayout() {
         </div>
       )}
       <SyncBar />
+      <NoticeStrip filesHref={paths.reports.href} />
       <Outlet />
     </div>
   );

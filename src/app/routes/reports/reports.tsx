@@ -7,6 +7,8 @@ import { LabelsForm } from "../../../features/reports/components/labels-form";
 import { ReportForm } from "../../../features/reports/components/report-form";
 import { can } from "../../../domain/permissions";
 import { useSiteContext } from "../sites/site-layout";
+import { usePrepareFile } from "../../../features/prepared-files/api";
+import { PreparedFilesPanel } from "../../../features/prepared-files/components/prepared-files-panel";
 
 /** Reports and labels: the condition survey PDF for everyone on the site, tag labels for the crew who handle parts. */
 export default function ReportsPage() {
@@ -17,6 +19,7 @@ export default function ReportsPage() {
   const detail = useBoard(site.id, boardId);
   const qc = useQueryClient();
   const canLabel = can(role, "reports.labels");
+  const prepare = usePrepareFile(site.id);
 
   return (
     <div className="space-y-6">
@@ -34,8 +37,21 @@ export default function ReportsPage() {
       {boards.data && boards.data.length > 0 && (
         <>
           <section className="rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
-            <ReportForm siteId={site.id} siteName={site.name} boards={boards.data} />
+            <ReportForm
+              siteId={site.id}
+              siteName={site.name}
+              boards={boards.data}
+              preparing={prepare.isPending}
+              onPrepare={(params) =>
+                prepare.mutate(
+                  { kind: "survey_report", params },
+                  { onSuccess: () => document.getElementById("prepared-files")?.scrollIntoView({ block: "start" }) },
+                )
+              }
+            />
+            {prepare.isError && <ErrorPanel error={prepare.error} />}
           </section>
+          <PreparedFilesPanel siteId={site.id} />
           {canLabel && (
             <section className="rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
               {detail.isError && <ErrorPanel error={detail.error} />}

@@ -11,10 +11,13 @@ interface Props {
   siteId: string;
   siteName: string;
   boards: Array<{ id: string; name: string; positionCount: number }>;
+  /** Asks for the same report as a background job (the page composes the prepared-files feature). */
+  onPrepare?: (params: Record<string, string>) => void;
+  preparing?: boolean;
 }
 
 /** Options of the condition survey PDF, then its progress while the server renders it, then the file. */
-export function ReportForm({ siteId, siteName, boards }: Props) {
+export function ReportForm({ siteId, siteName, boards, onPrepare, preparing = false }: Props) {
   const [boardId, setBoardId] = useState(boards[0]?.id ?? "");
   const [sections, setSections] = useState<ReportSection[]>([...REPORT_SECTIONS]);
   const [photos, setPhotos] = useState(true);
@@ -36,6 +39,15 @@ export function ReportForm({ siteId, siteName, boards }: Props) {
     .toLowerCase()
     .replace(/[^a-z0-9]+/g, "-")
     .replace(/^-|-$/g, "");
+
+  /** The same options as the direct download's query, for the background job. */
+  const params = (): Record<string, string> => {
+    const p: Record<string, string> = { sections: sections.join(","), photos: photos ? "yes" : "no", paper };
+    if (boardId) p.boardId = boardId;
+    if (from) p.from = from;
+    if (to) p.to = to;
+    return p;
+  };
 
   async function make() {
     setResult(null);
@@ -153,7 +165,22 @@ export function ReportForm({ siteId, siteName, boards }: Props) {
             Stop
           </Button>
         )}
+        {onPrepare && (
+          <Button
+            tone="quiet"
+            disabled={busy || preparing || sections.length === 0}
+            onClick={() => onPrepare(params())}
+          >
+            Prepare in the background
+          </Button>
+        )}
       </div>
+      {onPrepare && (
+        <p className="text-sm text-mist">
+          A whole site, or a board with many photos, can take minutes: prepare it in the background and carry on. You
+          get a notice here and an e-mail when the file is ready.
+        </p>
+      )}
       {sections.length === 0 && (
         <p className="text-sm text-flare-300" role="alert">
           Choose at least one section.
