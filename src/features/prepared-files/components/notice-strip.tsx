@@ -12,10 +12,10 @@ export function NoticeStrip({ filesHref }: { filesHref: (siteId: string) => stri
   const items = notices.data?.notices ?? [];
   if (items.length === 0) return null;
   return (
-    <section aria-label="Notices" className="no-print border-b border-hull-700 bg-hull-850">
+    <section aria-label="Notices" aria-live="polite" className="no-print border-b border-hull-700 bg-hull-850">
       <ul className="mx-auto max-w-6xl divide-y divide-hull-700">
         {items.map((n) => (
-          <li key={n.id} role="status" className="flex flex-wrap items-center gap-x-3 gap-y-1 px-4 py-2 text-sm">
+          <li key={n.id} className="flex flex-wrap items-center gap-x-3 gap-y-1 px-4 py-2 text-sm">
             <span aria-hidden className={n.state === "ready" ? "text-kelp-300" : "text-flare-300"}>
               {n.state === "ready" ? "⬇" : "!"}
             </span>
