@@ -8,7 +8,7 @@
  *   the links become fitted (history) so the register's demand counts as met.
  */
 import { sql } from "kysely";
-import { canMovePart } from "../../src/domain/part-workflow";
+import { canMovePart, defaultFittedHeritage } from "../../src/domain/part-workflow";
 import { PART_STATUS_LABELS, type Custody } from "../../src/domain/vocab";
 import { acquisitionBody, type statusBody } from "../../src/schemas/parts";
 import type { z } from "zod";
@@ -48,7 +48,7 @@ export async function moveLineStatus(db: Db, siteId: string, lineId: string, b: 
             `Replacement part received (wanted-list line)`,
             actorId,
           );
-    if (b.to === "fitted") await fit(trx, siteId, links, b.heritageAfter, actorId);
+    if (b.to === "fitted") await fit(trx, siteId, links, b.heritageAfter ?? defaultFittedHeritage(line), actorId);
     await repo.updateLine(trx, lineId, {
       status: b.to,
       cancelReason: b.to === "cancelled" ? b.reason : "",
