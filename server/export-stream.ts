@@ -136,6 +136,8 @@ export interface ExportWriter {
   /** Writes a chunk; resolves once the socket can take more. Throws ExportAborted when the reader is gone or stalled. */
   write(chunk: string | Uint8Array): Promise<void>;
   end(): void;
+  /** Rows (or positions) written of all, when the writer wants to know (a background job's progress). */
+  progress?(done: number, total?: number): void;
 }
 
 export function exportWriter(res: Response, timeoutMs = exportWriteTimeoutMs()): ExportWriter {
