@@ -165,7 +165,7 @@ export function createApp(deps: AppDeps) {
   api.use(notificationRoutes(db));
   api.use(mailboxRoutes(deps.mailbox));
   api.use(defectRoutes(db, mail));
-  api.use(partsRoutes(db, photoStorage));
+  api.use(partsRoutes(db, photoStorage, mail));
   api.use(reportRoutes(db, photoStorage, mail.publicUrl));
   api.use(rtsRoutes(db));
   api.use((_req, _res, next) => next(new AppError(404, "not_found", "No such API route.")));
