@@ -34,7 +34,8 @@ export default defineConfig({
     url: `http://127.0.0.1:${port}/api/health`,
     reuseExistingServer: !process.env.CI,
     timeout: 120_000,
-    env: { PORT: String(port) },
+    // Warnings and errors only: a line per request buried the test results at the end of CI's output.
+    env: { PORT: String(port), LOG_LEVEL: process.env.E2E_LOG_LEVEL ?? "warn" },
     stdout: "pipe",
   },
 });

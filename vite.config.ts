@@ -1,5 +1,6 @@
 import { configDefaults, defineConfig, type Plugin } from "vitest/config";
 import react from "@vitejs/plugin-react";
+import { VitePWA } from "vite-plugin-pwa";
 
 /**
  * Preloads the two fonts every page paints with (body text and the mono designations on tiles), so
@@ -30,6 +31,43 @@ export default defineConfig({
   plugins: [
     react(),
     preloadFonts([/atkinson-hyperlegible-next-latin-wght-normal/, /jetbrains-mono-latin-wght-normal/]),
+    // The installable field app (issue 16): Workbox precaches the whole built client (every page's
+    // chunk, the CSS, the fonts, the icons), so after one visit Tideline opens with no signal. /api is
+    // never cached by the service worker: reads go through the persisted query cache, writes through
+    // the outbox (src/lib/outbox), each with its own rules.
+    VitePWA({
+      registerType: "autoUpdate",
+      injectRegister: false, // src/main.tsx registers it (no inline script: the CSP forbids one)
+      includeAssets: ["icons/tideline.svg", "icons/tideline-apple-180.png"],
+      manifest: {
+        id: "/",
+        name: "Tideline — flooded switchboard restoration",
+        short_name: "Tideline",
+        description: "Condition survey, readings and return to service for flood-damaged switchboards, in the field.",
+        start_url: "/",
+        scope: "/",
+        display: "standalone",
+        orientation: "any",
+        background_color: "#0b1117",
+        theme_color: "#0d141b",
+        icons: [
+          { src: "/icons/tideline-192.png", sizes: "192x192", type: "image/png" },
+          { src: "/icons/tideline-512.png", sizes: "512x512", type: "image/png" },
+          { src: "/icons/tideline-maskable-512.png", sizes: "512x512", type: "image/png", purpose: "maskable" },
+          { src: "/icons/tideline.svg", sizes: "any", type: "image/svg+xml" },
+        ],
+      },
+      workbox: {
+        globPatterns: ["**/*.{js,css,html,woff2,png,svg,webmanifest}"],
+        navigateFallback: "/index.html",
+        navigateFallbackDenylist: [/^\/api\//],
+        cleanupOutdatedCaches: true,
+        // A new build takes over at once and controls the open page (its data lives in IndexedDB).
+        clientsClaim: true,
+        skipWaiting: true,
+        maximumFileSizeToCacheInBytes: 3 * 1024 * 1024,
+      },
+    }),
   ],
   build: { outDir: "dist/client", emptyOutDir: true, sourcemap: false, reportCompressedSize: true },
   server: {

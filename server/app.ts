@@ -95,6 +95,12 @@ export function createApp(deps: AppDeps) {
 
   app.use(securityHeaders({ https: mail.publicUrl.startsWith("https:") }));
 
+  // Nothing under /api may be kept by a browser or a proxy: probes, session answers and data alike.
+  app.use("/api", (_req, res, next) => {
+    res.setHeader("Cache-Control", "no-store");
+    next();
+  });
+
   // Probes come from load balancers that address the instance by its own IP, so they are
   // answered before the host allow-list. They say nothing a caller could use.
   const ready = readinessCheck({
@@ -105,20 +111,14 @@ export function createApp(deps: AppDeps) {
   });
   app.get("/api/health", async (_req, res) => {
     const { db: state } = await databaseState(db);
-    res
-      .status(state === "up" ? 200 : 503)
-      .set("Cache-Control", "no-store")
-      .json({ ok: state === "up", db: state });
+    res.status(state === "up" ? 200 : 503).json({ ok: state === "up", db: state });
   });
   app.get("/api/health/live", (_req, res) => {
-    res.set("Cache-Control", "no-store").json({ ok: true });
+    res.json({ ok: true });
   });
   app.get("/api/health/ready", async (_req, res) => {
     const r = await ready();
-    res
-      .status(r.ok ? 200 : 503)
-      .set("Cache-Control", "no-store")
-      .json(r);
+    res.status(r.ok ? 200 : 503).json(r);
   });
 
   app.use(
@@ -171,14 +171,7 @@ export function createApp(deps: AppDeps) {
   api.use((_req, _res, next) => next(new AppError(404, "not_found", "No such API route.")));
   api.use(errorHandler);
 
-  app.use(
-    "/api",
-    (_req, res, next) => {
-      res.setHeader("Cache-Control", "no-store");
-      next();
-    },
-    api,
-  );
+  app.use("/api", api);
 
   if (deps.clientDir && existsSync(deps.clientDir)) {
     const dir = deps.clientDir;

@@ -6,6 +6,11 @@ import { AppProvider } from "./app/provider";
 import { router } from "./app/router";
 import "./styles/index.css";
 
+// The service worker (vite-plugin-pwa / Workbox) exists only in a production build: it precaches the
+// app so it opens with no signal (issue 16). In development Vite serves every module fresh.
+if (import.meta.env.PROD && "serviceWorker" in navigator)
+  void import("virtual:pwa-register").then(({ registerSW }) => registerSW({ immediate: true }));
+
 createRoot(document.getElementById("root")!).render(
   <StrictMode>
     <AppProvider>

@@ -5,7 +5,7 @@
  */
 import { spawnSync } from "node:child_process";
 import { existsSync, mkdirSync, readFileSync, rmSync } from "node:fs";
-import { join } from "node:path";
+import { join, relative } from "node:path";
 import { projectRoot } from "../db/pg";
 import { openLocalDatabase } from "../db/local";
 
@@ -28,10 +28,23 @@ let typecheckOk = true;
 let passed = 0;
 let failed = 0;
 let skipped = 0;
+const failures: string[] = [];
+const flaky: string[] = [];
+interface VitestFile {
+  name: string;
+  status: string;
+  message?: string;
+  assertionResults: { status: string; title: string; ancestorTitles: string[] }[];
+}
+interface PwSuite {
+  title: string;
+  specs?: { title: string; file: string; tests?: { status: string }[] }[];
+  suites?: PwSuite[];
+}
 try {
   if (wants("types")) {
     typecheckOk = step("type check (tsc --noEmit)", bin("tsc"), ["--noEmit", "-p", "tsconfig.json"]);
-    // The formatter decides the layout of every file (.prettierrc.json); `npm run format` fixes it.
+    // The formatter decides the layout of every file (.prettierrc); `npm run format` fixes it.
     if (!step("format check (prettier --check)", bin("prettier"), ["--check", ".", "--log-level", "warn"]))
       typecheckOk = false;
   }
@@ -46,11 +59,19 @@ try {
       passed += v.numPassedTests;
       failed += v.numFailedTests;
       skipped += v.numPendingTests + v.numTodoTests;
-      // A file that fails to load has no tests to count; count it as a failure.
-      failed += v.testResults.filter(
-        (f: { status: string; assertionResults: unknown[] }) =>
-          f.status === "failed" && f.assertionResults.length === 0,
-      ).length;
+      for (const f of v.testResults as VitestFile[]) {
+        const file = relative(process.cwd(), f.name);
+        for (const a of f.assertionResults)
+          if (a.status === "failed") failures.push(`${file} › ${[...a.ancestorTitles, a.title].join(" › ")}`);
+        // A file that fails to load, or whose beforeAll/afterAll hook fails (its tests then show as
+        // skipped), has no failed test to count: count the file as one failure.
+        if (f.status === "failed" && !f.assertionResults.some((a) => a.status === "failed")) {
+          failed += 1;
+          failures.push(
+            `${file} (the file, or a beforeAll/afterAll hook in it, failed${f.message ? `: ${f.message.split("\n")[0].slice(0, 200)}` : ""})`,
+          );
+        }
+      }
     } else failed += 1;
   };
 
@@ -70,6 +91,14 @@ try {
       const p = JSON.parse(readFileSync(out, "utf8"));
       passed += p.stats.expected + p.stats.flaky;
       failed += p.stats.unexpected;
+      const walk = (suite: PwSuite, path: string[]) => {
+        for (const spec of suite.specs ?? [])
+          for (const t of spec.tests ?? [])
+            if (t.status === "unexpected") failures.push(`${spec.file} › ${[...path, spec.title].join(" › ")}`);
+            else if (t.status === "flaky") flaky.push(`${spec.file} › ${[...path, spec.title].join(" › ")}`);
+        for (const s of suite.suites ?? []) walk(s, s.title && !s.title.endsWith(".ts") ? [...path, s.title] : path);
+      };
+      for (const s of p.suites ?? []) walk(s, []);
       skipped += p.stats.skipped;
       if (p.errors?.length && p.stats.expected + p.stats.unexpected === 0) failed += p.errors.length;
     } else failed += 1;
@@ -80,5 +109,8 @@ try {
 
 if (!typecheckOk) console.log("[tideline] the type check or the format check failed (see above)");
 const ok = typecheckOk && failed === 0 && passed > 0;
+// CI shows the end of the output: name what failed (and what passed only on a retry) just above the count.
+if (flaky.length) console.log(`[tideline] passed on a retry (flaky):\n${flaky.map((f) => `  ~ ${f}`).join("\n")}`);
+if (failures.length) console.log(`[tideline] failed:\n${failures.map((f) => `  ✗ ${f}`).join("\n")}`);
 console.log(`Tests: ${passed} passed, ${failed} failed${skipped ? `, ${skipped} skipped` : ""}`);
 process.exit(ok ? 0 : 1);

@@ -46,7 +46,7 @@ function sourceHash(): string {
       else h.update(relative(projectRoot, p)).update(readFileSync(p));
     }
   };
-  for (const d of ["src", "fonts"]) walk(join(projectRoot, d));
+  for (const d of ["src", "fonts", "public"]) if (existsSync(join(projectRoot, d))) walk(join(projectRoot, d));
   for (const f of ["index.html", "vite.config.ts", "postcss.config.js", "package-lock.json"])
     if (existsSync(join(projectRoot, f))) h.update(readFileSync(join(projectRoot, f)));
   return h.digest("hex");

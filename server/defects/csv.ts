@@ -4,10 +4,11 @@ import type { Db } from "../db";
 import { DEFECT_CATEGORY_LABELS, DEFECT_SEVERITY_LABELS, DEFECT_STATUS_LABELS } from "../../src/domain/vocab";
 import { PARTS_STATE_LABELS, type ListQuery } from "../../src/schemas/defects";
 import { readPage, runExport } from "../export-stream";
+import { localDateTime, localHeader } from "../../src/domain/local-time";
 import { applyFilters, applySort, registerBase, ROW_COLUMNS, type RegisterRow } from "./list-query";
 
 const BATCH = 500;
-const HEADER = [
+const COLUMNS = [
   "Ref",
   "Title",
   "Board",
@@ -32,9 +33,13 @@ const HEADER = [
   "Description",
 ];
 
+/** The header row: "Raised" and "Updated" are wall-clock times in the site's zone, named in their headers. */
+export const csvHeader = (timeZone: string) =>
+  COLUMNS.map((c) => (c === "Raised" || c === "Updated" ? localHeader(c, timeZone) : c));
+
 const yn = (b: boolean) => (b ? "yes" : "no");
 
-export function csvRecord(r: RegisterRow): Array<string | number> {
+export function csvRecord(r: RegisterRow, timeZone: string): Array<string | number> {
   const t = (v: string | null) => guardCell(v ?? "");
   return [
     `D-${r.ref}`,
@@ -56,8 +61,8 @@ export function csvRecord(r: RegisterRow): Array<string | number> {
     r.dueOn ?? "",
     r.priorityScore,
     r.pinned ?? "",
-    r.createdAt.toISOString(),
-    r.updatedAt.toISOString(),
+    localDateTime(r.createdAt, timeZone),
+    localDateTime(r.updatedAt, timeZone),
     t(r.description),
   ];
 }
@@ -69,9 +74,18 @@ export function csvRecord(r: RegisterRow): Array<string | number> {
  * sorted as the register sorts them), then each page of BATCH rows is its own short query
  * and is written out, waiting for the socket to drain, with the connection back in the pool
  * (server/export-stream.ts: write timeout, per-person cap). A defect changed between pages
- * is written as it is now; one that stopped matching the filters is left out.
+ * is written as it is now; one that stopped matching the filters is left out. Times are the
+ * site's wall-clock time ("YYYY-MM-DD HH:mm:ss", src/domain/local-time.ts), the zone in the header.
  */
-export async function streamCsv(db: Db, siteId: string, f: ListQuery, today: string, res: Response, filename: string) {
+export async function streamCsv(
+  db: Db,
+  siteId: string,
+  timeZone: string,
+  f: ListQuery,
+  today: string,
+  res: Response,
+  filename: string,
+) {
   const ids = (
     await applySort(applyFilters(registerBase(db, siteId), f, today, siteId), f.sort, f.dir)
       .select("d.id")
@@ -80,7 +94,7 @@ export async function streamCsv(db: Db, siteId: string, f: ListQuery, today: str
   res.setHeader("Content-Type", "text/csv; charset=utf-8");
   res.setHeader("Content-Disposition", `attachment; filename="${filename}"`);
   await runExport(res, async (out) => {
-    await out.write(BOM + csvLines([HEADER]));
+    await out.write(BOM + csvLines([csvHeader(timeZone)]));
     for (let i = 0; i < ids.length; i += BATCH) {
       const page = ids.slice(i, i + BATCH);
       const rows = (await readPage(() =>
@@ -91,7 +105,7 @@ export async function streamCsv(db: Db, siteId: string, f: ListQuery, today: str
       )) as RegisterRow[];
       const byId = new Map(rows.map((r) => [r.id, r]));
       const ordered = page.map((id) => byId.get(id)).filter((r): r is RegisterRow => r !== undefined);
-      if (ordered.length) await out.write(csvLines(ordered.map(csvRecord)));
+      if (ordered.length) await out.write(csvLines(ordered.map((r) => csvRecord(r, timeZone))));
     }
   });
 }

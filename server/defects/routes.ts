@@ -27,6 +27,7 @@ import { defectsOfBoardReadings, evidenceOf } from "./evidence";
 import * as repo from "./repository";
 import * as service from "./service";
 import * as views from "./views";
+import { siteTimeZone } from "../sites/service";
 
 const site = z.object({ siteId: z.uuid() });
 const one = site.extend({ defectId: z.uuid({ message: "defectId must be a UUID" }) });
@@ -56,7 +57,8 @@ export function defectRoutes(db: Db, mail?: MailDeps) {
 
   r.get(`${base}.csv`, member, limitExports(db), async (req, res) => {
     const f = listQuery.parse(req.query);
-    await streamCsv(db, ctxOf(req, res).siteId, f, todayOf(f), res, `defects-${todayOf(f)}.csv`);
+    const { siteId } = ctxOf(req, res);
+    await streamCsv(db, siteId, await siteTimeZone(db, siteId), f, todayOf(f), res, `defects-${todayOf(f)}.csv`);
   });
 
   r.get(`${base}/options`, member, async (req, res) => {

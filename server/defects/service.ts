@@ -387,7 +387,7 @@ export async function moveDefect(
 ) {
   return db.transaction().execute(async (trx) => {
     await transition(trx, ctx, await lockAt(trx, ctx, id, b.version), b.to, b);
-    await demandChanged(trx, ctx.siteId, { defectIds: [id] }, ctx.actor.id); // closed / won't fix / reopened changes what is wanted
+    await demandChanged(trx, ctx.siteId, { defectIds: [id] }, ctx.actor.id); // closed / deferred / accepted as is / reopened changes what is wanted
     return (await current(trx, ctx.siteId, id))!;
   });
 }

@@ -73,9 +73,9 @@ export async function gatherWeek(
     .where("defects.closedAt", ">", from)
     .where("defects.closedAt", "<=", now)
     .execute();
-  // Anything not closed still counts: a deferred or won't-fix blocker still blocks.
+  // The same rule as the return-to-service gate: closed or accepted as is no longer blocks; deferred still does.
   const blockers = await defectLines(db, site.id)
-    .where("defects.status", "!=", "closed")
+    .where("defects.status", "not in", ["closed", "accepted_as_is"])
     .where((eb) => eb.or([eb("defects.blocksEnergisation", "=", true), eb("defects.safetyCritical", "=", true)]))
     .execute();
   return {

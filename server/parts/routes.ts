@@ -21,6 +21,8 @@ import { AppError } from "../errors";
 import { requireSiteRole } from "../middleware/roles";
 import { limitExports, runExport } from "../export-stream";
 import { toCsv } from "./csv";
+import { siteTimeZone } from "../sites/service";
+import { localDateTime } from "../../src/domain/local-time";
 import { nameplateThumb } from "./photo-bytes";
 import * as service from "./service";
 import * as share from "./share";
@@ -31,7 +33,6 @@ const linkParams = z.object({ siteId: z.uuid(), linkId: z.uuid({ message: "linkI
 const photoParams = z.object({ siteId: z.uuid(), photoId: z.uuid() });
 const tokenParams = z.object({ token: z.string().regex(/^[A-Za-z0-9_-]{43}$/) });
 const actor = (res: Response) => res.locals.user!.id;
-const today = () => new Date().toISOString().slice(0, 10);
 
 async function sendPhoto(res: Response, photo: Readable | null) {
   if (!photo) throw new AppError(404, "not_found", "No nameplate photo is stored for that.");
@@ -57,9 +58,13 @@ export function partsRoutes(db: Db, storage: PhotoStorage, mail?: MailDeps) {
     const { page: _p, size: _s, ...filter } = listQuery.parse(req.query);
     const lines = [];
     for await (const part of service.allLines(db, req.params.siteId as string, filter)) lines.push(...part);
+    const zone = await siteTimeZone(db, req.params.siteId as string);
     res.setHeader("Content-Type", "text/csv; charset=utf-8");
-    res.setHeader("Content-Disposition", `attachment; filename="wanted-parts-${today()}.csv"`);
-    const csv = Buffer.from(toCsv(lines), "utf8");
+    res.setHeader(
+      "Content-Disposition",
+      `attachment; filename="wanted-parts-${localDateTime(new Date(), zone).slice(0, 10)}.csv"`,
+    );
+    const csv = Buffer.from(toCsv(lines, zone), "utf8");
     await runExport(res, async (out) => {
       for (let i = 0; i < csv.length; i += 64 * 1024) await out.write(csv.subarray(i, i + 64 * 1024));
     });

@@ -1,7 +1,26 @@
-import { QueryClientProvider } from "@tanstack/react-query";
-import type { ReactNode } from "react";
+import { PersistQueryClientProvider } from "@tanstack/react-query-persist-client";
+import { useEffect, type ReactNode } from "react";
+import { onSynced } from "../lib/outbox";
+import { MAX_AGE_MS, persister, shouldKeepQuery } from "./persist";
 import { queryClient } from "./query-client";
 
 export function AppProvider({ children }: { children: ReactNode }) {
-  return <QueryClientProvider client={queryClient}>{children}</QueryClientProvider>;
+  // What the outbox sent changes boards, positions and readings: refetch what is on screen.
+  useEffect(() => {
+    const stop = onSynced(() => void queryClient.invalidateQueries());
+    return () => void stop();
+  }, []);
+  return (
+    <PersistQueryClientProvider
+      client={queryClient}
+      persistOptions={{
+        persister,
+        maxAge: MAX_AGE_MS,
+        buster: "tideline-1",
+        dehydrateOptions: { shouldDehydrateQuery: shouldKeepQuery },
+      }}
+    >
+      {children}
+    </PersistQueryClientProvider>
+  );
 }

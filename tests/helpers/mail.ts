@@ -1,4 +1,5 @@
 import type { Db } from "../../server/db";
+import type { DefectStatus } from "../../src/domain/vocab";
 import { startFakeSmtp, type FakeSmtp, type StoredMessage } from "../../server/mail/fake-smtp";
 import { smtpMailer } from "../../server/mail/mailer";
 import { startTestServer, type TestServer } from "./http";
@@ -55,7 +56,7 @@ export async function makeDefect(
     title?: string;
     assigneeId?: string | null;
     repairedBy?: string | null;
-    status?: "raised" | "awaiting_retest" | "closed" | "deferred";
+    status?: DefectStatus;
     blocksEnergisation?: boolean;
     safetyCritical?: boolean;
     createdAt?: Date;

@@ -287,3 +287,36 @@ describe("repair plan", () => {
       }
   });
 });
+
+describe("CSV times in the site's time zone", () => {
+  // Check values from the IANA tz database: America/Halifax is UTC−3 (daylight time) until the first
+  // Sunday of November (1 Nov 2026, 06:00 UTC) and UTC−4 after; Asia/Kolkata is UTC+5:30 all year.
+  it("writes Raised and Updated as the site's wall-clock time, the zone named in each header", async () => {
+    expect((await curator.put(`/api/sites/${fx.siteId}/time-zone`, { timeZone: "America/Halifax" })).status).toBe(200);
+    await t.db
+      .updateTable("defects")
+      .set({ updatedAt: new Date("2027-01-15T12:00:00Z") })
+      .where("siteId", "=", fx.siteId)
+      .where("ref", "=", 1)
+      .execute();
+    const read = async () =>
+      Papa.parse<string[]>((await viewer.get(`/api/sites/${fx.siteId}/defects.csv?sort=ref&dir=asc`)).body, {
+        skipEmptyLines: true,
+      }).data;
+    let [header, first] = await read();
+    const raised = header.indexOf("Raised (America/Halifax)");
+    const updated = header.indexOf("Updated (America/Halifax)");
+    expect(raised).toBeGreaterThan(0);
+    expect(updated).toBeGreaterThan(0);
+    expect(first[0]).toBe("D-1");
+    // created 2026-11-01 00:00:00 UTC: still daylight time in Halifax, the evening before
+    expect(first[raised]).toBe("2026-10-31 21:00:00");
+    expect(first[updated]).toBe("2027-01-15 08:00:00"); // standard time, UTC−4
+    expect((await curator.put(`/api/sites/${fx.siteId}/time-zone`, { timeZone: "Asia/Kolkata" })).status).toBe(200);
+    [header, first] = await read();
+    expect(header).toContain("Raised (Asia/Kolkata)");
+    expect(first[header.indexOf("Raised (Asia/Kolkata)")]).toBe("2026-11-01 05:30:00");
+    expect(first.some((c) => /\d{4}-\d{2}-\d{2}T\d{2}:\d{2}/.test(c))).toBe(false); // no "T…Z" text
+    await curator.put(`/api/sites/${fx.siteId}/time-zone`, { timeZone: "UTC" });
+  });
+});

@@ -200,6 +200,16 @@ describe("the weekly summary", () => {
       closedAt: daysAgo(2),
       blocksEnergisation: true,
     });
+    // Accepted as is with a reason: the return-to-service gate no longer counts it (server/return-to-service/
+    // repository.ts), so the summary does not either.
+    await makeDefect(t.db, {
+      siteId: site,
+      boardId: b.boardId,
+      title: "Chipped phenolic barrier",
+      createdAt: daysAgo(25),
+      status: "accepted_as_is",
+      blocksEnergisation: true,
+    });
     const silent = await makeUser(t.db, { siteId: site, role: "curator" });
     await switchOff(silent.email, "weekly_summary");
     smtp.mailbox.clear();
@@ -215,6 +225,7 @@ describe("the weekly summary", () => {
     expect(msg.text).toContain("Seized operating handle — Aft board 2-14 (blocks re-energisation; raised)");
     expect(msg.text).toContain("Missing arc chute — Aft board 2-14 (safety-critical; deferred)");
     expect(msg.text).not.toMatch(/Salt crust on bus — .*\(blocks/);
+    expect(msg.text).not.toContain("Chipped phenolic barrier");
     expect(msg.subject).toBe("Tideline weekly: Another crew's site, 2030-03-03 to 2030-03-10 — 2 blockers");
     expect(mailFor(silent.email)).toHaveLength(0);
     // Non-curators never get it.

@@ -4,7 +4,7 @@ import { join } from "node:path";
 import Papa from "papaparse";
 import { LocalDiskStorage } from "../../server/photos/storage/local-disk";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { CSV_COLUMNS, csvRow } from "../../server/parts/csv";
+import { CSV_COLUMNS, csvHeader, csvRow } from "../../server/parts/csv";
 import { createTestDb, type TestDb } from "../helpers/db";
 import { makeCrew } from "../helpers/fixtures";
 import { startTestServer, type Client, type TestServer } from "../helpers/http";
@@ -106,8 +106,8 @@ describe("CSV export", () => {
     const parsed = Papa.parse<string[]>(text.slice(1), { skipEmptyLines: true });
     expect(parsed.errors).toEqual([]);
     const { lines } = (await scrounger.get(`/api/sites/${fx.siteId}/parts`)).body;
-    expect(parsed.data[0]).toEqual([...CSV_COLUMNS]);
-    expect(parsed.data.slice(1)).toEqual(lines.map(csvRow));
+    expect(parsed.data[0]).toEqual(csvHeader("UTC")); // a new site's zone is UTC
+    expect(parsed.data.slice(1)).toEqual(lines.map((l: any) => csvRow(l, "UTC")));
     expect(parsed.data).toHaveLength(lines.length + 1);
     const frameCol = CSV_COLUMNS.indexOf("Frame");
     expect(parsed.data.map((row) => row[frameCol])).toContain('\'+K, "quoted"\nframe'); // quoted, newline kept, formula-guarded
@@ -126,6 +126,44 @@ describe("CSV export", () => {
     const rows = Papa.parse<string[]>(text, { skipEmptyLines: true }).data;
     expect(rows).toHaveLength(2);
     expect(rows[1][CSV_COLUMNS.indexOf("Part wanted")]).toBe("clear lamp lens");
+  });
+});
+
+describe("CSV times in the site's time zone", () => {
+  // Check values from the IANA tz database (America/Halifax: UTC−4 standard time, UTC−3 daylight time
+  // from the second Sunday of March to the first Sunday of November; Asia/Kolkata: UTC+5:30, no DST).
+  it("writes a line's last change as the site's wall-clock time, the zone named in the header", async () => {
+    expect((await curator.put(`/api/sites/${fx.siteId}/time-zone`, { timeZone: "America/Halifax" })).status).toBe(200);
+    await t.db
+      .updateTable("partLines")
+      .set({ updatedAt: new Date("2027-01-15T12:00:00Z") })
+      .where("id", "=", lineId)
+      .execute();
+    let rows = Papa.parse<string[]>((await scrounger.get(`/api/sites/${fx.siteId}/parts.csv`)).body, {
+      skipEmptyLines: true,
+    }).data;
+    const col = CSV_COLUMNS.indexOf("Updated");
+    expect(rows[0][col]).toBe("Updated (America/Halifax)");
+    const frame = CSV_COLUMNS.indexOf("Frame");
+    expect(rows.find((r) => r[frame] === "K-225")![col]).toBe("2027-01-15 08:00:00"); // AST, UTC−4
+    await t.db
+      .updateTable("partLines")
+      .set({ updatedAt: new Date("2026-07-01T23:30:00Z") })
+      .where("id", "=", lineId)
+      .execute();
+    rows = Papa.parse<string[]>((await scrounger.get(`/api/sites/${fx.siteId}/parts.csv`)).body, {
+      skipEmptyLines: true,
+    }).data;
+    expect(rows.find((r) => r[frame] === "K-225")![col]).toBe("2026-07-01 20:30:00"); // ADT, UTC−3
+    expect((await curator.put(`/api/sites/${fx.siteId}/time-zone`, { timeZone: "Asia/Kolkata" })).status).toBe(200);
+    rows = Papa.parse<string[]>((await scrounger.get(`/api/sites/${fx.siteId}/parts.csv`)).body, {
+      skipEmptyLines: true,
+    }).data;
+    expect(rows[0][col]).toBe("Updated (Asia/Kolkata)");
+    expect(rows.find((r) => r[frame] === "K-225")![col]).toBe("2026-07-02 05:00:00"); // UTC+5:30, next day
+    // no "T…Z" form anywhere: a spreadsheet keeps that as text
+    expect(rows.flat().some((c) => /\d{4}-\d{2}-\d{2}T\d{2}:\d{2}/.test(c))).toBe(false);
+    await curator.put(`/api/sites/${fx.siteId}/time-zone`, { timeZone: "UTC" });
   });
 });
 

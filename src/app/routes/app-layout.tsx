@@ -1,4 +1,8 @@
+import { useEffect, useState } from "react";
 import { Link, Navigate, Outlet, useLocation, useNavigate } from "react-router";
+import { SyncBar } from "../../components/sync-bar";
+import { setOutboxUser, useOutbox } from "../../lib/outbox";
+import { forgetPersistedReads } from "../persist";
 import { Wordmark } from "../../components/wordmark";
 import { ErrorPanel, Loading } from "../../components/status";
 import { paths } from "../../config/paths";
@@ -10,6 +14,19 @@ export default function AppLayout() {
   const signOut = useSignOut();
   const location = useLocation();
   const navigate = useNavigate();
+  const outbox = useOutbox();
+  const [confirming, setConfirming] = useState(false);
+  const userId = session.data?.user.id ?? null;
+  useEffect(() => setOutboxUser(userId), [userId]);
+  const unsent = outbox.items.length;
+  const doSignOut = () =>
+    signOut.mutate(undefined, {
+      onSuccess: () => {
+        setConfirming(false);
+        void forgetPersistedReads();
+        navigate(paths.signIn.href());
+      },
+    });
   if (session.isPending) return <Loading what="Checking your session" />;
   if (session.isError)
     return (
@@ -41,12 +58,37 @@ export default function AppLayout() {
           <button
             type="button"
             className="min-h-11 whitespace-nowrap rounded-md px-2 text-chalk ring-1 ring-hull-600 hover:bg-hull-700 sm:px-3"
-            onClick={() => signOut.mutate(undefined, { onSuccess: () => navigate(paths.signIn.href()) })}
+            onClick={() => (unsent > 0 ? setConfirming(true) : doSignOut())}
           >
             Sign out
           </button>
         </nav>
       </header>
+      {confirming && (
+        <div role="alertdialog" aria-labelledby="unsent-title" className="border-b-2 border-flare-400 bg-hull-850 p-3">
+          <p id="unsent-title" className="font-semibold text-flare-300">
+            {unsent} change{unsent === 1 ? "" : "s"} on this phone {unsent === 1 ? "has" : "have"} not reached the
+            server yet.
+          </p>
+          <p className="text-sm text-mist">
+            They stay on this phone for your account only and are sent when you sign in here again; nobody else who
+            signs in on this phone sees or sends them.
+          </p>
+          <div className="mt-2 flex flex-wrap gap-2">
+            <button
+              type="button"
+              className="min-h-11 rounded-md bg-brass-400 px-3 font-semibold text-hull-950"
+              onClick={() => setConfirming(false)}
+            >
+              Stay signed in
+            </button>
+            <button type="button" className="min-h-11 rounded-md px-3 ring-1 ring-flare-400" onClick={doSignOut}>
+              Sign out anyway
+            </button>
+          </div>
+        </div>
+      )}
+      <SyncBar />
       <Outlet />
     </div>
   );

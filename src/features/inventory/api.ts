@@ -1,5 +1,6 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { api, qs } from "../../lib/api-client";
+import { submitOrQueue } from "../../lib/outbox";
 import {
   boardDetailResponse,
   boardListResponse,
@@ -142,9 +143,19 @@ export const useUpdateComponent = (siteId: string) =>
     api.send("PATCH", `${base(siteId)}/components/${id}`, b, componentSchema),
   );
 
+/** Online: saved at once, as before. No signal: kept in the phone's outbox and sent later (issue 16). */
 export const useLogInspection = (siteId: string) =>
-  useInventoryMutation(siteId, ({ componentId, ...b }: CreateInspectionBody & { componentId: string }) =>
-    api.send("POST", `${base(siteId)}/components/${componentId}/inspections`, b, inspectionSchema),
+  useInventoryMutation(
+    siteId,
+    ({ componentId, label, ...b }: CreateInspectionBody & { componentId: string; label: string }) =>
+      submitOrQueue({
+        siteId,
+        kind: "inspection",
+        label: `Inspection of ${label}`,
+        url: `${base(siteId)}/components/${componentId}/inspections`,
+        body: b,
+        parse: (d) => inspectionSchema.parse(d),
+      }),
   );
 
 /** The chain's verdict on every move from where the component is now, and the proposed next one. */
@@ -158,8 +169,15 @@ export const useCustodyOptions = (siteId: string, componentId: string) =>
 export const fetchNextTag = (siteId: string) => api.get(`${base(siteId)}/tags/next`, nextTagResponse);
 
 export const useMoveCustody = (siteId: string) =>
-  useInventoryMutation(siteId, ({ componentId, ...b }: CustodyBody & { componentId: string }) =>
-    api.send("POST", `${base(siteId)}/components/${componentId}/custody`, b, custodyResponse),
+  useInventoryMutation(siteId, ({ componentId, label, ...b }: CustodyBody & { componentId: string; label: string }) =>
+    submitOrQueue({
+      siteId,
+      kind: "custody",
+      label: `Move of ${label}`,
+      url: `${base(siteId)}/components/${componentId}/custody`,
+      body: b,
+      parse: (d) => custodyResponse.parse(d),
+    }),
   );
 
 export const useDecideDisposition = (siteId: string) =>

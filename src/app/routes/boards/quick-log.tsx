@@ -33,7 +33,11 @@ function belowDefault(d: PositionDetail): boolean | null {
   }
 }
 
-type Done = { kind: "inspection"; inspection: Inspection } | { kind: "custody"; move: CustodyMove } | null;
+/** What was just logged: saved on the server, or waiting in the phone's outbox (`queuedId`, no signal). */
+type Done =
+  | { kind: "inspection"; inspection: Inspection | null; queuedId?: string }
+  | { kind: "custody"; move: CustodyMove | null; toState: Custody; queuedId?: string }
+  | null;
 
 function Logged({
   done,
@@ -47,6 +51,38 @@ function Logged({
   onNext: () => void;
 }) {
   const i = done.kind === "inspection" ? done.inspection : null;
+  if (done.queuedId)
+    return (
+      <div role="status" className="rounded-lg border-2 border-tide-300 bg-hull-850 p-3" data-testid="logged">
+        <p className="font-semibold text-tide-300" data-testid="logged-pending">
+          {done.kind === "inspection"
+            ? "Inspection kept on this phone"
+            : `Move kept on this phone — now ${CUSTODY_LABELS[done.toState]}`}
+          : no signal. It is sent by itself when the connection returns.
+        </p>
+        <div className="mt-2">
+          <InspectionPhotos
+            key={done.queuedId}
+            siteId={siteId}
+            pendingParent={{
+              itemId: done.queuedId,
+              field: done.kind === "inspection" ? "inspectionId" : "custodyMoveId",
+            }}
+            defaultKind={done.kind === "inspection" ? "damage" : "during_work"}
+            label={done.kind === "inspection" ? "Photos of this inspection" : "Photos of this move"}
+          />
+        </div>
+        <div className="mt-2 flex flex-wrap gap-2 text-sm">
+          <button
+            type="button"
+            onClick={onNext}
+            className="min-h-11 rounded-md bg-brass-400 px-3 font-semibold text-hull-950"
+          >
+            Next position
+          </button>
+        </div>
+      </div>
+    );
   return (
     <div role="status" className="rounded-lg border-2 border-kelp-400 bg-kelp-700/30 p-3" data-testid="logged">
       <p className="font-semibold text-kelp-300">
@@ -62,16 +98,16 @@ function Logged({
             .
           </>
         ) : (
-          <>Move saved — now {CUSTODY_LABELS[(done as { move: CustodyMove }).move.toState as Custody]}.</>
+          <>Move saved — now {CUSTODY_LABELS[done.kind === "custody" ? done.toState : "in_place"]}.</>
         )}
       </p>
       <div className="mt-2">
         {done.kind === "inspection" ? (
-          <InspectionPhotos siteId={siteId} inspectionId={done.inspection.id} label="Photos of this inspection" />
+          <InspectionPhotos siteId={siteId} inspectionId={done.inspection?.id} label="Photos of this inspection" />
         ) : (
           <InspectionPhotos
             siteId={siteId}
-            custodyMoveId={done.move.id}
+            custodyMoveId={done.move?.id}
             defaultKind="during_work"
             label="Photos of this move"
           />
@@ -102,6 +138,7 @@ export default function QuickLogPage() {
   const positionId = search.get("position");
   const [mode, setMode] = useState<"inspect" | "move">("inspect");
   const [done, setDone] = useState<Done>(null);
+  const [saves, setSaves] = useState(0);
   const q = usePosition(site.id, positionId);
   const choose = (id: string | null) => {
     setDone(null);
@@ -177,12 +214,18 @@ export default function QuickLogPage() {
               <div role="tabpanel" id={`log-${mode}`} aria-labelledby={`tab-${mode}`}>
                 {mode === "inspect" ? (
                   <InspectionForm
-                    key={`${positionId}-${q.data.inspections.length}`}
+                    key={`${positionId}-${q.data.inspections.length}-${saves}`}
                     siteId={site.id}
                     componentId={q.data.component.id}
+                    label={q.data.position.designation}
                     belowDefault={belowDefault(q.data)}
-                    onSaved={(i) => {
-                      setDone({ kind: "inspection", inspection: i });
+                    onSaved={(r) => {
+                      setSaves((n) => n + 1);
+                      setDone(
+                        r.queued
+                          ? { kind: "inspection", inspection: null, queuedId: r.item.id }
+                          : { kind: "inspection", inspection: r.data },
+                      );
                       window.scrollTo({ top: 0 });
                     }}
                   />
@@ -191,9 +234,14 @@ export default function QuickLogPage() {
                     key={positionId}
                     siteId={site.id}
                     component={q.data.component}
+                    label={q.data.position.designation}
                     canRelease={can(role, "custody.release")}
-                    onSaved={(move) => {
-                      setDone({ kind: "custody", move });
+                    onSaved={(r) => {
+                      setDone(
+                        "move" in r
+                          ? { kind: "custody", move: r.move, toState: r.move.toState as Custody }
+                          : { kind: "custody", move: null, toState: r.toState, queuedId: r.queuedId },
+                      );
                       window.scrollTo({ top: 0 });
                     }}
                   />

@@ -62,7 +62,11 @@ export default function ReturnToServiceOverviewPage() {
             {b.current && (
               <p className="text-sm">
                 Now: <strong>{b.current.name}</strong> — {STAGE_STATE_LABELS[b.current.state]}
-                {b.current.blockers ? ` (${b.current.blockers} open items)` : ""}
+                {b.current.blockers
+                  ? b.current.state === "live"
+                    ? ` (${b.current.blockers} still to do before release)`
+                    : ` (${b.current.blockers} ${b.current.blockers === 1 ? "item holds" : "items hold"} it)`
+                  : ""}
               </p>
             )}
             {b.overdue && (

@@ -20,13 +20,17 @@ const LABELS = { custody: "Where it is", custodyLocation: "Location", tagNumber:
 export function CustodyForm({
   siteId,
   component,
+  label,
   canRelease,
   onSaved,
 }: {
   siteId: string;
   component: Held;
+  /** The position's designation, for the outbox's list when saved with no signal. */
+  label: string;
   canRelease: boolean;
-  onSaved: (move: CustodyMove) => void;
+  /** The move as saved, or, with no signal, the outbox item it waits in and where it goes. */
+  onSaved: (saved: { move: CustodyMove } | { queuedId: string; toState: Custody }) => void;
 }) {
   const [base, setBase] = useState<Held>(component);
   const options = useCustodyOptions(siteId, base.id);
@@ -58,18 +62,22 @@ export function CustodyForm({
         location: location.trim(),
         note: note.trim(),
         version,
+        label,
         ...(needsTag && tag.trim() ? { tagNumber: tag.trim() } : {}),
         ...(refusals.length && release.trim() ? { releaseReason: release.trim() } : {}),
       },
       {
         onSuccess: (r) => {
-          setBase(r.component);
+          if (r.queued) {
+            // Waiting in the outbox: show the move as made, so the next one follows from it.
+            setBase({ ...base, custody: to, tagNumber: base.tagNumber ?? (tag.trim() || null) });
+          } else setBase(r.data.component);
           setPicked(null);
           setLocation("");
           setNote("");
           setTag("");
           setRelease("");
-          onSaved(r.move);
+          onSaved(r.queued ? { queuedId: r.item.id, toState: to } : { move: r.data.move });
         },
       },
     );

@@ -16,6 +16,7 @@ import {
 import { ApiError } from "../../../lib/api-client";
 import { useLogInspection } from "../api";
 import type { Inspection } from "../contract";
+import type { Submitted } from "../../../lib/outbox";
 import { RustGuide } from "./rust-guide";
 
 const toggle = (on: boolean) =>
@@ -67,13 +68,16 @@ function preview(percent: string): { grade: number; ri: string } | null {
 export function InspectionForm({
   siteId,
   componentId,
+  label,
   belowDefault,
   onSaved,
 }: {
   siteId: string;
   componentId: string;
+  /** The position's designation, for the outbox's list when saved with no signal. */
+  label: string;
   belowDefault: boolean | null;
-  onSaved: (i: Inspection) => void;
+  onSaved: (i: Submitted<Inspection>) => void;
 }) {
   const [percent, setPercent] = useState("");
   const [below, setBelow] = useState<boolean | null>(belowDefault);
@@ -96,6 +100,7 @@ export function InspectionForm({
         mechanism,
         insulation,
         notes,
+        label,
       },
       { onSuccess: onSaved },
     );

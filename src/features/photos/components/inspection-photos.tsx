@@ -1,5 +1,6 @@
 import { useState } from "react";
 import { PHOTO_KINDS, PHOTO_KIND_LABELS, type PhotoKind } from "../../../domain/vocab";
+import { queuePhoto, useOutbox } from "../../../lib/outbox";
 import { usePhotoMutations, usePhotos } from "../api";
 import { useUploadQueue } from "../use-upload-queue";
 import { PhotoGrid } from "./photo-grid";
@@ -17,10 +18,13 @@ export function InspectionPhotos({
   inspectionId,
   custodyMoveId,
   defectId,
+  pendingParent,
   defaultKind = "damage",
   label = "Photos of this inspection",
 }: {
   siteId: string;
+  /** The inspection or move is itself waiting in the outbox (no signal): its photos wait for it. */
+  pendingParent?: { itemId: string; field: "inspectionId" | "custodyMoveId" };
   inspectionId?: string;
   custodyMoveId?: string;
   defectId?: string;
@@ -32,7 +36,28 @@ export function InspectionPhotos({
   const { invalidate } = usePhotoMutations(siteId);
   const queue = useUploadQueue(siteId, () => void invalidate());
   const [open, setOpen] = useState<number | null>(null);
-  const list = photos.data ?? [];
+  const outbox = useOutbox();
+  const [kept, setKept] = useState<string[]>([]);
+  const list = pendingParent ? [] : (photos.data ?? []);
+  const keptHere = outbox.items.filter((i) => kept.includes(i.id));
+  function add(files: File[]) {
+    if (pendingParent || !outbox.online) {
+      // No signal, or the record is not on the server yet: the pictures wait in the outbox.
+      for (const f of files)
+        void queuePhoto({
+          siteId,
+          label: `Photo ${f.name}`,
+          file: f,
+          name: f.name,
+          fields: Object.fromEntries(
+            Object.entries({ kind, inspectionId, custodyMoveId, defectId }).filter(([, v]) => !!v),
+          ) as Record<string, string>,
+          dependsOn: pendingParent,
+        }).then((item) => setKept((k) => [...k, item.id]));
+      return;
+    }
+    queue.add(files, { kind, caption: "", inspectionId, custodyMoveId, defectId });
+  }
   return (
     <section aria-label={label} className="space-y-2">
       <div className="flex flex-wrap items-end gap-2">
@@ -59,13 +84,22 @@ export function InspectionPhotos({
             multiple
             className="sr-only"
             onChange={(e) => {
-              queue.add([...(e.target.files ?? [])], { kind, caption: "", inspectionId, custodyMoveId, defectId });
+              add([...(e.target.files ?? [])]);
               e.target.value = "";
             }}
           />
         </label>
       </div>
       <UploadList items={queue.items} onRetry={queue.retry} />
+      {keptHere.length > 0 && (
+        <ul className="space-y-1 text-sm" aria-label="Photos waiting on this phone">
+          {keptHere.map((i) => (
+            <li key={i.id} className="rounded bg-hull-850 px-2 py-1 text-tide-300" data-testid="photo-pending">
+              {i.photo?.name} — waiting to send
+            </li>
+          ))}
+        </ul>
+      )}
       {list.length > 0 && <PhotoGrid siteId={siteId} photos={list} onOpen={setOpen} compact />}
       {open !== null && (
         <PhotoViewer siteId={siteId} photos={list} index={open} onIndex={setOpen} onClose={() => setOpen(null)} />

@@ -1,0 +1,176 @@
+import { expect, request, test, type APIRequestContext, type BrowserContext, type Page } from "@playwright/test";
+import sharp from "sharp";
+import { expectNoSeriousA11yViolations } from "./support/a11y";
+import { DEMO_PASSWORD, signIn } from "./support/auth";
+
+/**
+ * Issue 16: the field app with no signal. The browser context is set offline (Playwright's
+ * network emulation, which the service worker sees too); the app is the production build that
+ * playwright.config.ts serves, so its service worker precaches the shell. Each test makes its own
+ * board through the API, so it does not depend on other tests.
+ */
+async function apiAs(baseURL: string, who: string): Promise<APIRequestContext> {
+  const api = await request.newContext({ baseURL, extraHTTPHeaders: { Origin: baseURL } });
+  const r = await api.post("/api/auth/sign-in", { data: { email: `${who}@tideline.test`, password: DEMO_PASSWORD } });
+  expect(r.ok()).toBeTruthy();
+  return api;
+}
+
+async function makeBreaker(baseURL: string) {
+  const api = await apiAs(baseURL, "curator");
+  const siteId = ((await (await api.get("/api/sites")).json()) as { sites: Array<{ id: string }> }).sites[0].id;
+  const prefix = `N${Date.now().toString(36).slice(-5).toUpperCase()}-`;
+  const board = await api.post(`/api/sites/${siteId}/boards`, {
+    data: { name: `Hull board ${prefix}`, gridRows: 2, gridCols: 4 },
+  });
+  const boardId = ((await board.json()) as { id: string }).id;
+  const gen = await api.post(`/api/sites/${siteId}/boards/${boardId}/positions/generate`, {
+    data: { prefix, from: 1, to: 1, gridRow: 1, startCol: 1, kind: "molded_case_breaker" },
+  });
+  expect(gen.status()).toBe(201);
+  const positionId = ((await gen.json()) as { positions: Array<{ position: { id: string } }> }).positions[0].position
+    .id;
+  await api.dispose();
+  return { siteId, boardId, positionId, designation: `${prefix}1` };
+}
+
+/** Opens the board and the position's quick log online, then waits until the service worker controls the page. */
+async function visitOnline(page: Page, m: Awaited<ReturnType<typeof makeBreaker>>) {
+  await page.goto(`/sites/${m.siteId}/boards/${m.boardId}`);
+  await expect(page.getByRole("heading", { name: `Hull board ${m.designation.slice(0, -1)}` })).toBeVisible();
+  await page.goto(`/sites/${m.siteId}/log?position=${m.positionId}`);
+  await expect(page.getByTestId("log-designation")).toHaveText(m.designation);
+  await page.getByRole("tab", { name: "Move the part" }).click();
+  await expect(page.getByTestId("custody-proposal")).toBeVisible();
+  await page.getByRole("tab", { name: "Inspection" }).click();
+  await page.evaluate(() => navigator.serviceWorker.ready.then(() => undefined));
+  // The first visit is served before the worker exists; once it is active it claims the page.
+  if (!(await page.evaluate(() => !!navigator.serviceWorker.controller))) await page.reload();
+  await expect.poll(() => page.evaluate(() => !!navigator.serviceWorker.controller), { timeout: 15_000 }).toBe(true);
+  // The persisted query cache is written a second after the last change (throttled).
+  await page.waitForTimeout(1_500);
+}
+
+const shot = () =>
+  sharp({ create: { width: 320, height: 240, channels: 3, background: "#4d6a5e" } })
+    .jpeg()
+    .toBuffer();
+
+async function goOffline(context: BrowserContext, page: Page) {
+  await context.setOffline(true);
+  await expect(page.getByTestId("connection")).toHaveText(/Offline/);
+}
+
+test.describe("with no signal, on a 360 px phone", () => {
+  test.setTimeout(180_000);
+  test.use({ viewport: { width: 360, height: 740 } });
+
+  test("logs inspections, a move and a photo offline, survives a reload and a closed page, then syncs each once", async ({
+    page,
+    context,
+    baseURL,
+  }) => {
+    const m = await makeBreaker(baseURL!);
+    await signIn(page, "volunteer");
+    await visitOnline(page, m);
+
+    await goOffline(context, page);
+    await page.reload(); // the app still opens: the service worker serves the shell, the cache the data
+    await expect(page.getByTestId("log-designation")).toHaveText(m.designation);
+    await expect(page.getByTestId("offline-marker")).toContainText("showing what was last synced at");
+
+    for (const [n, pct] of ["1", "3", "10"].entries()) {
+      await page.getByLabel("Surface rusted (%)").fill(pct);
+      await page.getByRole("button", { name: "Save inspection" }).click();
+      await expect(page.getByTestId("waiting-count")).toHaveText(`${n + 1} waiting to send`);
+      await expect(page.getByTestId("logged-pending")).toContainText("Inspection kept on this phone");
+      await expect(page.getByLabel("Surface rusted (%)")).toHaveValue(""); // a fresh form for the next one
+    }
+    await expect(page.getByTestId("waiting-count")).toHaveText("3 waiting to send");
+
+    await page.getByRole("tab", { name: "Move the part" }).click();
+    await page.getByLabel("Tag number on the bag").fill(`TG-${m.designation}`);
+    await page.getByLabel("Where is it now?").fill("Crate C, shaft tunnel");
+    await page.getByRole("button", { name: "Save move: Removed (tagged)" }).click();
+    await expect(page.getByTestId("logged-pending")).toContainText("Move kept on this phone");
+    await page
+      .getByRole("region", { name: "Photos of this move" })
+      .locator("input[type=file]")
+      .setInputFiles({ name: "bagged-offline.jpg", mimeType: "image/jpeg", buffer: await shot() });
+    await expect(page.getByTestId("photo-pending")).toContainText("bagged-offline.jpg");
+    await expect(page.getByTestId("waiting-count")).toHaveText("5 waiting to send");
+    await page.screenshot({ path: ".data/test-results/offline-pending.png" });
+    await expectNoSeriousA11yViolations(page, "quick log offline with changes waiting");
+
+    // Closing the page mid-queue loses nothing: a new page (still offline) shows the same five.
+    const again = await context.newPage();
+    await page.close();
+    await again.goto(`/sites/${m.siteId}/log?position=${m.positionId}`);
+    await expect(again.getByTestId("waiting-count")).toHaveText("5 waiting to send");
+
+    await context.setOffline(false);
+    await again.evaluate(() => window.dispatchEvent(new Event("online")));
+    await expect(again.getByTestId("waiting-count")).toHaveText("nothing waiting", { timeout: 30_000 });
+
+    // Through the API: each exists exactly once.
+    const api = await apiAs(baseURL!, "volunteer");
+    const d = (await (await api.get(`/api/sites/${m.siteId}/positions/${m.positionId}`)).json()) as {
+      inspections: Array<{ percentRusted: number }>;
+      custodyMoves: Array<{ id: string; toState: string; location: string }>;
+    };
+    expect(d.inspections.map((i) => i.percentRusted).sort((a, b) => a - b)).toEqual([1, 3, 10]);
+    expect(d.custodyMoves.filter((c) => c.toState === "removed")).toHaveLength(1);
+    const moveId = d.custodyMoves.find((c) => c.toState === "removed")!.id;
+    const photos = (await (await api.get(`/api/sites/${m.siteId}/photos?custodyMoveId=${moveId}`)).json()) as {
+      photos: Array<{ originalName?: string }>;
+    };
+    expect(photos.photos).toHaveLength(1);
+    await api.dispose();
+  });
+
+  test("a move made offline that meets a newer one comes back side by side; the person keeps the server's", async ({
+    page,
+    context,
+    baseURL,
+  }) => {
+    const m = await makeBreaker(baseURL!);
+    await signIn(page, "volunteer");
+    await visitOnline(page, m);
+    await goOffline(context, page);
+    await page.getByRole("tab", { name: "Move the part" }).click();
+    await page.getByLabel("Tag number on the bag").fill(`TV-${m.designation}`);
+    await page.getByLabel("Where is it now?").fill("Bench 1");
+    await page.getByRole("button", { name: "Save move: Removed (tagged)" }).click();
+    await expect(page.getByTestId("waiting-count")).toHaveText("1 waiting to send");
+
+    // Meanwhile the curator, with signal, moves the same part.
+    const curator = await apiAs(baseURL!, "curator");
+    const pos = (await (await curator.get(`/api/sites/${m.siteId}/positions/${m.positionId}`)).json()) as {
+      component: { id: string; version: number };
+    };
+    const moved = await curator.post(`/api/sites/${m.siteId}/components/${pos.component.id}/custody`, {
+      data: {
+        toState: "removed",
+        tagNumber: `TC-${m.designation}`,
+        location: "Curator's crate",
+        version: pos.component.version,
+      },
+    });
+    expect(moved.status()).toBe(201);
+
+    await context.setOffline(false);
+    await page.evaluate(() => window.dispatchEvent(new Event("online")));
+    await expect(page.getByTestId("outbox-attention")).toBeVisible({ timeout: 30_000 });
+    await page.getByTestId("outbox-attention").click();
+    const item = page.getByTestId("outbox-conflict").or(page.getByTestId("outbox-refused"));
+    await expect(item).toBeVisible();
+    await page.screenshot({ path: ".data/test-results/offline-conflict.png" });
+    await item.getByRole("button", { name: /Keep the server's|Discard/ }).click();
+    await expect(page.getByTestId("outbox-attention")).toHaveCount(0);
+    const after = (await (await curator.get(`/api/sites/${m.siteId}/positions/${m.positionId}`)).json()) as {
+      custodyMoves: Array<{ location: string }>;
+    };
+    expect(after.custodyMoves.map((c) => c.location)).toEqual(["Curator's crate"]);
+    await curator.dispose();
+  });
+});
