@@ -802,7 +802,36 @@ export interface ExportSlotsTable {
   leaseUntil: Date;
 }
 
+export type PreparedFileKind = "survey_report" | "inventory_csv" | "defects_csv" | "parts_csv";
+export type PreparedFileState = "queued" | "rendering" | "ready" | "failed" | "expired";
+
+/** A report or large export made by a background job into object storage; server/prepared-files writes it. */
+export interface PreparedFilesTable {
+  id: Generated<string>;
+  siteId: string;
+  requestedBy: string;
+  kind: PreparedFileKind;
+  /** The same query the direct download takes, as validated (re-parsed by the job). */
+  params: ColumnType<Record<string, unknown>, string | undefined, string>;
+  state: Generated<PreparedFileState>;
+  progressDone: Generated<number>;
+  progressTotal: number | null;
+  attempts: Generated<number>;
+  error: string | null;
+  fileName: string;
+  contentType: string;
+  storageKey: string | null;
+  sizeBytes: number | null;
+  createdAt: Generated<Date>;
+  startedAt: Date | null;
+  finishedAt: Date | null;
+  expiresAt: Date | null;
+  seenAt: Date | null;
+  version: Generated<number>;
+}
+
 export interface Database {
+  preparedFiles: PreparedFilesTable;
   exportSlots: ExportSlotsTable;
   idempotencyKeys: IdempotencyKeysTable;
   defectReadings: DefectReadingsTable;

@@ -38,6 +38,7 @@ import { defectRoutes } from "./defects/routes";
 import { partsRoutes } from "./parts/routes";
 import type { Jobs } from "./jobs";
 import { reportRoutes } from "./reports/routes";
+import { preparedFileRoutes } from "./prepared-files/routes";
 import { rtsRoutes } from "./return-to-service/routes";
 
 export interface AppDeps {
@@ -167,6 +168,7 @@ export function createApp(deps: AppDeps) {
   api.use(defectRoutes(db, mail));
   api.use(partsRoutes(db, photoStorage, mail));
   api.use(reportRoutes(db, photoStorage, mail.publicUrl));
+  api.use(preparedFileRoutes(db, photoStorage, deps.jobs ?? missingJobs()));
   api.use(rtsRoutes(db));
   api.use((_req, _res, next) => next(new AppError(404, "not_found", "No such API route.")));
   api.use(errorHandler);

@@ -77,6 +77,25 @@ export function createDb(connectionString: string, options: number | DbOptions =
   return db;
 }
 
+/**
+ * A second, small pool to the same database for the job queue and its handlers (JOB_POOL_MAX,
+ * default 4; waits up to 30 s for a connection), so background work — pg-boss's polling, a
+ * report reading a whole board — never takes the connections requests need. Returns undefined
+ * for a Db not made by createDb (a test's logging wrapper): the caller then shares that one.
+ */
+export function queueDbFor(db: Db, options: DbOptions = {}): Db | undefined {
+  const pool = pools.get(db);
+  const url = (pool?.options as { connectionString?: string } | undefined)?.connectionString;
+  if (!url) return undefined;
+  return createDb(url, {
+    max: envInt("JOB_POOL_MAX", 4),
+    connectionTimeoutMs: 30_000,
+    statementTimeoutMs: APP_DB_OPTIONS.statementTimeoutMs,
+    idleInTransactionMs: APP_DB_OPTIONS.idleInTransactionMs,
+    ...options,
+  });
+}
+
 let lastLog = 0;
 let suppressed = 0;
 /** One line per second at most: a database restart drops every connection at once. */

@@ -85,7 +85,8 @@ export async function releaseExportSlot(db: Db, id: string) {
 /**
  * Route middleware: takes one of the caller's download slots (in PostgreSQL, shared by every
  * instance) and refuses one too many with 429 and Retry-After. The slot's lease is renewed
- * while the response is open and the slot is freed when it closes, however it ends; a renewal
+ * while the response is open; the slot is freed once the export has written its body (before the
+ * response ends) or when the response closes, however it ends; a renewal
  * or release that fails (database gone) is left to the lease to clean up.
  */
 export function limitExports(db: Db): RequestHandler {
@@ -112,17 +113,21 @@ export function limitExports(db: Db): RequestHandler {
     const renew = setInterval(() => renewExportSlot(db, id).catch(() => {}), Math.max(1000, exportSlotLeaseMs() / 3));
     renew.unref();
     let freed = false;
-    const free = () => {
+    const free = async () => {
       if (freed) return;
       freed = true;
       clearInterval(renew);
       const left = (running.get(who) ?? 1) - 1;
       if (left > 0) running.set(who, left);
       else running.delete(who);
-      releaseExportSlot(db, id).catch(() => {});
+      await releaseExportSlot(db, id).catch(() => {});
     };
-    res.once("close", free);
-    if (res.destroyed) free();
+    // A finished export frees its slot before its last byte (runExport), so the person's next
+    // download never meets a slot still held by one they already have; a download that ends any
+    // other way frees it when the response closes.
+    res.locals.releaseExportSlot = free;
+    res.once("close", () => void free());
+    if (res.destroyed) void free();
     next();
   };
 }
@@ -131,6 +136,8 @@ export interface ExportWriter {
   /** Writes a chunk; resolves once the socket can take more. Throws ExportAborted when the reader is gone or stalled. */
   write(chunk: string | Uint8Array): Promise<void>;
   end(): void;
+  /** Rows (or positions) written of all, when the writer wants to know (a background job's progress). */
+  progress?(done: number, total?: number): void;
 }
 
 export function exportWriter(res: Response, timeoutMs = exportWriteTimeoutMs()): ExportWriter {
@@ -185,6 +192,7 @@ export async function runExport(res: Response, body: (out: ExportWriter) => Prom
   const out = exportWriter(res);
   try {
     await body(out);
+    await res.locals.releaseExportSlot?.();
     out.end();
   } catch (e) {
     if (e instanceof ExportAborted) return;

@@ -8,6 +8,8 @@ declare global {
       session: Session | null;
       /** Set by requireSiteRole: the caller's role on the site in the URL. */
       siteRole?: Role | "admin";
+      /** Set by limitExports: frees the caller's download slot (idempotent); runExport calls it before the last byte. */
+      releaseExportSlot?: () => Promise<void>;
     }
   }
 }

@@ -3,7 +3,7 @@ import { BOM, csvLines, guardCell } from "../csv";
 import type { Db } from "../db";
 import { DEFECT_CATEGORY_LABELS, DEFECT_SEVERITY_LABELS, DEFECT_STATUS_LABELS } from "../../src/domain/vocab";
 import { PARTS_STATE_LABELS, type ListQuery } from "../../src/schemas/defects";
-import { readPage, runExport } from "../export-stream";
+import { readPage, runExport, type ExportWriter } from "../export-stream";
 import { localDateTime, localHeader } from "../../src/domain/local-time";
 import { applyFilters, applySort, registerBase, ROW_COLUMNS, type RegisterRow } from "./list-query";
 
@@ -86,26 +86,46 @@ export async function streamCsv(
   res: Response,
   filename: string,
 ) {
-  const ids = (
+  const ids = await orderedIds(db, siteId, f, today);
+  res.setHeader("Content-Type", "text/csv; charset=utf-8");
+  res.setHeader("Content-Disposition", `attachment; filename="${filename}"`);
+  await runExport(res, (out) => writeDefectsCsv(db, siteId, timeZone, f, today, out, ids));
+}
+
+const orderedIds = async (db: Db, siteId: string, f: ListQuery, today: string) =>
+  (
     await applySort(applyFilters(registerBase(db, siteId), f, today, siteId), f.sort, f.dir)
       .select("d.id")
       .execute()
   ).map((r) => r.id as string);
-  res.setHeader("Content-Type", "text/csv; charset=utf-8");
-  res.setHeader("Content-Disposition", `attachment; filename="${filename}"`);
-  await runExport(res, async (out) => {
-    await out.write(BOM + csvLines([csvHeader(timeZone)]));
-    for (let i = 0; i < ids.length; i += BATCH) {
-      const page = ids.slice(i, i + BATCH);
-      const rows = (await readPage(() =>
-        applyFilters(registerBase(db, siteId), f, today, siteId)
-          .select(ROW_COLUMNS as any)
-          .where("d.id", "in", page)
-          .execute(),
-      )) as RegisterRow[];
-      const byId = new Map(rows.map((r) => [r.id, r]));
-      const ordered = page.map((id) => byId.get(id)).filter((r): r is RegisterRow => r !== undefined);
-      if (ordered.length) await out.write(csvLines(ordered.map((r) => csvRecord(r, timeZone))));
-    }
-  });
+
+/**
+ * The register's CSV into any export writer (a response, or a file made by a background job).
+ * `ids` are the ordered ids when the caller already read them; `out.progress` hears rows written of all.
+ */
+export async function writeDefectsCsv(
+  db: Db,
+  siteId: string,
+  timeZone: string,
+  f: ListQuery,
+  today: string,
+  out: ExportWriter,
+  ids?: string[],
+) {
+  const all = ids ?? (await orderedIds(db, siteId, f, today));
+  out.progress?.(0, all.length);
+  await out.write(BOM + csvLines([csvHeader(timeZone)]));
+  for (let i = 0; i < all.length; i += BATCH) {
+    const page = all.slice(i, i + BATCH);
+    const rows = (await readPage(() =>
+      applyFilters(registerBase(db, siteId), f, today, siteId)
+        .select(ROW_COLUMNS as any)
+        .where("d.id", "in", page)
+        .execute(),
+    )) as RegisterRow[];
+    const byId = new Map(rows.map((r) => [r.id, r]));
+    const ordered = page.map((id) => byId.get(id)).filter((r): r is RegisterRow => r !== undefined);
+    if (ordered.length) await out.write(csvLines(ordered.map((r) => csvRecord(r, timeZone))));
+    out.progress?.(Math.min(all.length, i + BATCH), all.length);
+  }
 }

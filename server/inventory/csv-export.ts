@@ -14,7 +14,7 @@ import { localDateTime, localHeader } from "../../src/domain/local-time";
 import { CSV_EXPORT_EXTRA_COLUMNS, CSV_IMPORT_COLUMNS } from "../../src/schemas/inventory";
 import type { Db } from "../db";
 import { textCell } from "../csv";
-import { readPage, runExport } from "../export-stream";
+import { readPage, runExport, type ExportWriter } from "../export-stream";
 import { notFound } from "../errors";
 import { findSite } from "../sites/repository";
 
@@ -142,18 +142,36 @@ const unparse = (rows: unknown[][]) => Papa.unparse(rows, { newline: "\r\n" }) +
 export async function streamInventoryCsv(db: Db, siteId: string, timeZone: string, fileName: string, res: Response) {
   res.setHeader("Content-Type", "text/csv; charset=utf-8");
   res.setHeader("Content-Disposition", `attachment; filename="${fileName}"`);
-  await runExport(res, async (out) => {
-    await out.write("\uFEFF" + unparse([exportHeader(timeZone)]));
-    let after: Key | null = null;
-    for (;;) {
-      // Each page is its own short query: no connection is held while the socket drains.
-      const rows = await readPage(() => page(db, siteId, after));
-      if (rows.length) await out.write(unparse(rows.map((r) => cells(r, timeZone))));
-      if (rows.length < PAGE) break;
-      const last = rows[rows.length - 1];
-      after = { boardName: last.boardName, boardId: last.boardId, sortOrder: last.sortOrder, id: last.id };
-    }
-  });
+  await runExport(res, (out) => writeInventoryCsv(db, siteId, timeZone, out));
+}
+
+/** The inventory CSV into any export writer (a response, or a file made by a background job). */
+export async function writeInventoryCsv(db: Db, siteId: string, timeZone: string, out: ExportWriter) {
+  const total = out.progress
+    ? Number(
+        (
+          await db
+            .selectFrom("positions")
+            .select((eb) => eb.fn.countAll<number>().as("n"))
+            .where("siteId", "=", siteId)
+            .executeTakeFirstOrThrow()
+        ).n,
+      )
+    : undefined;
+  out.progress?.(0, total);
+  await out.write("\uFEFF" + unparse([exportHeader(timeZone)]));
+  let after: Key | null = null;
+  let done = 0;
+  for (;;) {
+    // Each page is its own short query: no connection is held while the socket drains.
+    const rows = await readPage(() => page(db, siteId, after));
+    if (rows.length) await out.write(unparse(rows.map((r) => cells(r, timeZone))));
+    done += rows.length;
+    out.progress?.(done, total);
+    if (rows.length < PAGE) break;
+    const last = rows[rows.length - 1];
+    after = { boardName: last.boardName, boardId: last.boardId, sortOrder: last.sortOrder, id: last.id };
+  }
 }
 
 const slug = (s: string) =>

@@ -1,6 +1,8 @@
 import { sql, type Insertable } from "kysely";
 import type { ComponentsTable, PositionsTable } from "../../db/types";
 import type { Db } from "../db";
+import { LOOSE_KEY_SQL, looseKey } from "../../src/domain/search-keys";
+import { COMPONENT_KINDS, COMPONENT_KIND_LABELS, COMPONENT_KIND_SHORT } from "../../src/domain/vocab";
 
 /**
  * The whole board elevation in one query: each position with its current component, the
@@ -167,40 +169,107 @@ export const currentComponent = (db: Db, positionId: string) =>
 
 const likeEscape = (s: string) => s.replace(/[\\%_]/g, (m) => `\\${m}`);
 
-/** Designation or tag number contains q (case-insensitive); exact matches first, then prefixes. */
+const looseKeySql = (col: string) =>
+  sql<string>`regexp_replace(regexp_replace(lower(coalesce(${sql.ref(col)}, '')), ${LOOSE_KEY_SQL.strip}, '', 'g'), ${LOOSE_KEY_SQL.zeros}, ${LOOSE_KEY_SQL.replacement}, 'g')`;
+
+/** The words a kind answers to: its label, its tile abbreviation and its key ("molded case breaker mccb"). */
+const KIND_WORDS = COMPONENT_KINDS.map((k) => ({
+  kind: k,
+  words: `${COMPONENT_KIND_LABELS[k]} ${COMPONENT_KIND_SHORT[k]} ${k.replace(/_/g, " ")}`.toLowerCase(),
+}));
+
+/**
+ * The quick log's search (issue 14 item 8): designation, tag number, circuit name and kind, with
+ * prefixes, loosely typed tags ("kl 42" finds KL-0042, see looseKey) and typing slips through
+ * pg_trgm (similarity / word_similarity; the thresholds are pg_trgm's own defaults, 0.3 and 0.6,
+ * written out so a server setting cannot change them). Rank: exact designation or tag, then the
+ * same loosely, then prefixes, then contains or a circuit word, then slips and kinds by similarity.
+ */
 export const lookup = (db: Db, siteId: string, q: string) => {
-  const lower = q.toLowerCase();
+  const lower = q.trim().toLowerCase();
+  const loose = looseKey(q);
   const contains = `%${likeEscape(lower)}%`;
   const prefix = `${likeEscape(lower)}%`;
-  return db
-    .selectFrom("positions as p")
-    .innerJoin("boards as b", "b.id", "p.boardId")
-    .leftJoin("sections as s", "s.id", "p.sectionId")
-    .leftJoin("components as c", (j) => j.onRef("c.positionId", "=", "p.id").on("c.retiredAt", "is", null))
-    .select([
-      "p.id as positionId",
-      "p.designation",
-      "p.kind",
-      "p.circuit",
-      "b.id as boardId",
-      "b.name as boardName",
-      "s.name as sectionName",
-      "c.id as componentId",
-      "c.version as componentVersion",
-      "c.tagNumber",
-      "c.custody",
-    ])
-    .select(
-      sql<number>`case when lower(p.designation) = ${lower} or lower(c.tag_number) = ${lower} then 0
-      when lower(p.designation) like ${prefix} or lower(c.tag_number) like ${prefix} then 1 else 2 end`.as("rank"),
-    )
-    .where("p.siteId", "=", siteId)
-    .where((eb) =>
-      eb.or([eb(sql`lower(p.designation)`, "like", contains), eb(sql`lower(c.tag_number)`, "like", contains)]),
-    )
-    .orderBy("rank")
-    .orderBy("b.name")
-    .orderBy("p.sortOrder")
-    .limit(20)
-    .execute();
+  const loosePrefix = `${likeEscape(loose)}%`;
+  const desKey = looseKeySql("p.designation");
+  const tagKey = looseKeySql("c.tagNumber");
+  const kindRows = sql.join(KIND_WORDS.map((k) => sql`(${k.kind}, ${k.words})`));
+  // Several words ("bilge pump 2", "steerng gear"): each must be in the circuit name, whole or with a slip.
+  const words = lower.split(/\s+/).filter((w) => w.length >= 2);
+  const circuitWords =
+    words.length > 1
+      ? sql<boolean>`(${sql.join(
+          words.map(
+            (w) =>
+              sql`(lower(p.circuit) like ${`%${likeEscape(w)}%`} or word_similarity(${w}, lower(p.circuit)) >= 0.5)`,
+          ),
+          sql` and `,
+        )})`
+      : sql<boolean>`false`;
+  const kindHit = sql<boolean>`p.kind in (select v.kind from (values ${kindRows}) as v(kind, words)
+    where length(${lower}) >= 2 and (v.words like ${contains} or word_similarity(${lower}, v.words) >= 0.6))`;
+  const rank = sql<number>`case
+        when lower(p.designation) = ${lower} or lower(c.tag_number) = ${lower} then 0
+        when ${loose} <> '' and (${desKey} = ${loose} or ${tagKey} = ${loose}) then 1
+        when lower(p.designation) like ${prefix} or lower(c.tag_number) like ${prefix}
+          or (${loose} <> '' and (${desKey} like ${loosePrefix} or ${tagKey} like ${loosePrefix})) then 2
+        when lower(p.designation) like ${contains} or lower(c.tag_number) like ${contains}
+          or lower(p.circuit) like ${contains} then 3
+        else 4 end`;
+  const score = sql<number>`greatest(similarity(lower(p.designation), ${lower}), similarity(lower(coalesce(c.tag_number, '')), ${lower}),
+        word_similarity(${lower}, lower(p.circuit)), case when ${kindHit} then 0.5 else 0 end)::float8`;
+  return (
+    db
+      .selectFrom("positions as p")
+      .innerJoin("boards as b", "b.id", "p.boardId")
+      .leftJoin("sections as s", "s.id", "p.sectionId")
+      .leftJoin("components as c", (j) => j.onRef("c.positionId", "=", "p.id").on("c.retiredAt", "is", null))
+      .select([
+        "p.id as positionId",
+        "p.designation",
+        "p.kind",
+        "p.circuit",
+        "b.id as boardId",
+        "b.name as boardName",
+        "s.name as sectionName",
+        "c.id as componentId",
+        "c.version as componentVersion",
+        "c.tagNumber",
+        "c.custody",
+      ])
+      .select(rank.as("rank"))
+      .select(score.as("score"))
+      .select(
+        sql<"designation" | "tag" | "circuit" | "kind">`case
+        when lower(p.designation) = ${lower} or lower(p.designation) like ${prefix} or (${loose} <> '' and ${desKey} like ${loosePrefix}) then 'designation'
+        when lower(c.tag_number) like ${prefix} or (${loose} <> '' and ${tagKey} like ${loosePrefix}) then 'tag'
+        when lower(p.designation) like ${contains} then 'designation'
+        when lower(c.tag_number) like ${contains} then 'tag'
+        when lower(p.circuit) like ${contains} or word_similarity(${lower}, lower(p.circuit)) >= 0.6 or ${circuitWords} then 'circuit'
+        when ${kindHit} then 'kind'
+        when similarity(lower(coalesce(c.tag_number, '')), ${lower}) > similarity(lower(p.designation), ${lower}) then 'tag'
+        else 'designation' end`.as("matchedOn"),
+      )
+      .where("p.siteId", "=", siteId)
+      .where((eb) =>
+        eb.or([
+          eb(sql`lower(p.designation)`, "like", contains),
+          eb(sql`lower(c.tag_number)`, "like", contains),
+          eb(sql`lower(p.circuit)`, "like", contains),
+          sql<boolean>`(${loose} <> '' and (${desKey} like ${loosePrefix} or ${tagKey} like ${loosePrefix}))`,
+          sql<boolean>`(length(${lower}) >= 3 and (similarity(lower(p.designation), ${lower}) >= 0.3
+          or similarity(lower(coalesce(c.tag_number, '')), ${lower}) >= 0.3
+          or word_similarity(${lower}, lower(p.circuit)) >= 0.6))`,
+          circuitWords,
+          kindHit,
+        ]),
+      )
+      .orderBy("rank")
+      // Slips and kinds by how close they are; the sure matches in board order.
+      .orderBy(sql`case when ${rank} >= 3 then ${score} else 0 end`, "desc")
+      .orderBy("b.name")
+      .orderBy("p.sortOrder")
+      .limit(20)
+      .execute()
+  );
 };

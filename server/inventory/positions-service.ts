@@ -293,15 +293,6 @@ export async function deletePosition(db: Db, siteId: string, id: string, actorId
 }
 
 export async function lookup(db: Db, siteId: string, q: string) {
-  const lower = q.toLowerCase();
   const rows = await repo.lookup(db, siteId, q);
-  return rows.map(({ rank: _rank, ...r }) => {
-    const designationHit = r.designation.toLowerCase().includes(lower);
-    const exact = r.designation.toLowerCase() === lower || r.tagNumber?.toLowerCase() === lower;
-    const matchedOn: "designation" | "tag" =
-      r.designation.toLowerCase() === lower || (designationHit && r.tagNumber?.toLowerCase() !== lower)
-        ? "designation"
-        : "tag";
-    return { ...r, matchedOn, exact };
-  });
+  return rows.map(({ rank, score: _score, ...r }) => ({ ...r, exact: rank === 0 }));
 }

@@ -51,7 +51,10 @@ export interface EnqueueOptions {
 }
 
 export interface JobsConfig {
+  /** The queue's own connections (pg-boss's polling and bookkeeping); see queueDbFor in server/db.ts. */
   db: Db;
+  /** Close `db` on stop (it is the queue's own pool, not the app's). */
+  ownsDb?: boolean;
   /** Run handlers and schedules in this process (false in a web-only instance). */
   work: boolean;
   /** How often each queue is polled when idle; default TIDELINE_JOB_POLL_SECONDS or 2. */
@@ -219,6 +222,7 @@ export class Jobs {
     if (!this.started || this.stopping) return;
     this.stopping = true;
     await this.boss.stop({ graceful: true, timeout: timeoutMs, close: false, wait: true });
+    if (this.config.ownsDb) await this.config.db.destroy().catch(() => {});
     this.log.info("job queue stopped");
   }
 }

@@ -4,12 +4,13 @@
  * runs no handler. To add a job: define it here (or in a `defineXJobs(jobs, deps)` of
  * your domain called from here), then `jobs.enqueue(name, data, { trx })` from a service.
  */
-import type { Db } from "../db";
+import { queueDbFor, type Db } from "../db";
 import type { Mailer } from "../mail/mailer";
 import { defineMailJobs } from "../mail/outbox";
 import { sendWeeklySummaries } from "../notifications/weekly";
 import { sendOverdueWatchNotices } from "../return-to-service/overdue";
 import { definePhotoJobs } from "../photos/service";
+import { definePreparedFileJobs } from "../prepared-files/service";
 import type { PhotoStorage } from "../photos/storage";
 import { createJobs, type Jobs, type JobsConfig } from "./index";
 
@@ -32,6 +33,7 @@ export const overdueCron = (env = process.env) => env.RTS_OVERDUE_CRON ?? "*/5 *
 export function defineAppJobs(jobs: Jobs, deps: JobDeps, env = process.env) {
   defineMailJobs(jobs, deps);
   definePhotoJobs(jobs, deps);
+  definePreparedFileJobs(jobs, deps, env);
   jobs.define(
     WEEKLY_SUMMARY_JOB,
     async (_data, ctx) => {
@@ -55,10 +57,22 @@ export function defineAppJobs(jobs: Jobs, deps: JobDeps, env = process.env) {
   else jobs.every(WEEKLY_SUMMARY_JOB, cron, {}, env.TIDELINE_TZ ?? "UTC");
 }
 
-/** Creates, defines and starts the queue of this process. */
-export async function startJobs(deps: JobDeps, opts: Omit<JobsConfig, "db">): Promise<Jobs> {
-  const jobs = createJobs({ db: deps.db, ...opts });
-  defineAppJobs(jobs, deps);
-  await jobs.start();
+/**
+ * Creates, defines and starts the queue of this process. The queue and every job handler use
+ * a small pool of their own (JOB_POOL_MAX, default 4), not the request pool of `deps.db`, so
+ * background work cannot starve requests; a job enqueued inside a request's transaction still
+ * commits with that transaction. The pool is closed by jobs.stop().
+ */
+export async function startJobs(deps: JobDeps, opts: Omit<JobsConfig, "db" | "ownsDb">): Promise<Jobs> {
+  const own = queueDbFor(deps.db);
+  const db = own ?? deps.db;
+  const jobs = createJobs({ db, ownsDb: !!own, ...opts });
+  defineAppJobs(jobs, { ...deps, db });
+  try {
+    await jobs.start();
+  } catch (e) {
+    await own?.destroy().catch(() => {});
+    throw e;
+  }
   return jobs;
 }

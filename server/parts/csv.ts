@@ -40,7 +40,7 @@ export function csvRow(l: PartLine, timeZone: string): string[] {
     .map((p) => `${p.boardName ?? ""} ${p.designation ?? ""}`.trim())
     .filter(Boolean);
   return [
-    l.id.slice(0, 8),
+    l.ref,
     PART_STATUS_LABELS[l.status],
     HERITAGE_RULE_LABELS[l.heritageRule],
     COMPONENT_KIND_LABELS[l.kind],

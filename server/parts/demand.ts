@@ -290,6 +290,7 @@ function newRegisterLine(siteId: string, spec: PartSpec, need: string, actorId: 
   const now = new Date();
   return {
     id: randomUUID(),
+    number: 0, // given by the database's trigger on insert (left out of the INSERT below)
     siteId,
     version: 1,
     origin: "register",
@@ -374,6 +375,7 @@ async function write(
         .values(
           part.map(
             ({
+              number: _n,
               version: _v,
               status: _s,
               autoCancelled: _a,

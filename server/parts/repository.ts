@@ -4,9 +4,11 @@ import type { Database, PartLinesTable } from "../../db/types";
 import { OPEN_PART_STATUSES } from "../../src/domain/part-workflow";
 import type { PartStatus } from "../../src/domain/vocab";
 import type { Db } from "../db";
+import { parseLineRef } from "../../src/domain/part-workflow";
 
 const lineCols = [
   "id",
+  "number",
   "siteId",
   "version",
   "origin",
@@ -193,9 +195,10 @@ function filtered(db: Db, siteId: string, f: LineFilter) {
   if (f.heritageRule) q = q.where("pl.heritageRule", "=", f.heritageRule as never);
   if (f.q?.trim()) {
     const like = `%${f.q.trim().replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
-    q = q.where(
-      sql<boolean>`concat_ws(' ', pl.maker, pl.model, pl.frame, pl.mounting, pl.need, pl.notes) ilike ${like}`,
-    );
+    // "W-12" (or "w12", "12") also finds line number 12 (issue 14).
+    const number = parseLineRef(f.q);
+    const text = sql<boolean>`concat_ws(' ', pl.maker, pl.model, pl.frame, pl.mounting, pl.need, pl.notes) ilike ${like}`;
+    q = q.where(number === null ? text : sql<boolean>`(pl.number = ${number} or ${text})`);
   }
   if (f.boardId)
     q = q.where((eb) =>

@@ -20,7 +20,6 @@ import type { Role } from "../../src/domain/vocab";
 import { AppError } from "../errors";
 import { requireSiteRole } from "../middleware/roles";
 import { limitExports, runExport } from "../export-stream";
-import { toCsv } from "./csv";
 import { siteTimeZone } from "../sites/service";
 import { localDateTime } from "../../src/domain/local-time";
 import { nameplateThumb } from "./photo-bytes";
@@ -56,18 +55,13 @@ export function partsRoutes(db: Db, storage: PhotoStorage, mail?: MailDeps) {
     // connection is back in the pool before the first byte goes out), then written with the
     // export's back-pressure and write timeout.
     const { page: _p, size: _s, ...filter } = listQuery.parse(req.query);
-    const lines = [];
-    for await (const part of service.allLines(db, req.params.siteId as string, filter)) lines.push(...part);
     const zone = await siteTimeZone(db, req.params.siteId as string);
     res.setHeader("Content-Type", "text/csv; charset=utf-8");
     res.setHeader(
       "Content-Disposition",
       `attachment; filename="wanted-parts-${localDateTime(new Date(), zone).slice(0, 10)}.csv"`,
     );
-    const csv = Buffer.from(toCsv(lines, zone), "utf8");
-    await runExport(res, async (out) => {
-      for (let i = 0; i < csv.length; i += 64 * 1024) await out.write(csv.subarray(i, i + 64 * 1024));
-    });
+    await runExport(res, (out) => service.writePartsCsv(db, req.params.siteId as string, filter, zone, out));
   });
 
   r.post(base, requireSiteRole(db, "parts.edit"), async (req, res) => {

@@ -1,6 +1,6 @@
 /** Builds the wanted-list rows the API sends: a line with its positions, quantity, money and photos. */
 import { sql } from "kysely";
-import { partTitle } from "../../src/domain/part-workflow";
+import { lineRef, partTitle } from "../../src/domain/part-workflow";
 import type { PartLine, PartsBudget } from "../../src/schemas/parts";
 import type { Db } from "../db";
 import { conflict, notFound } from "../errors";
@@ -54,6 +54,8 @@ export async function buildRows(db: Db, lines: repo.LineRecord[], withWithdrawn 
       .map((p) => p.id);
     return {
       id: line.id,
+      number: line.number,
+      ref: lineRef(line.number),
       version: line.version,
       origin: line.origin,
       kind: line.kind,

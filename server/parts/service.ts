@@ -1,3 +1,5 @@
+import type { ExportWriter } from "../export-stream";
+import { toCsv } from "./csv";
 import { sql } from "kysely";
 import { needKey, nextPartStatuses } from "../../src/domain/part-workflow";
 import { can } from "../../src/domain/permissions";
@@ -66,6 +68,26 @@ export async function* allLines(db: Db, siteId: string, filter: repo.LineFilter)
     if (page.length) yield await buildRows(db, page);
     if (page.length < 500) return;
   }
+}
+
+/**
+ * The wanted list's CSV into any export writer (a response, or a file made by a background job):
+ * read 500 lines at a time into memory (a site has hundreds to a few thousand lines; no connection
+ * is held while the writer waits), then written in 64 kB pieces with the writer's back-pressure.
+ */
+export async function writePartsCsv(
+  db: Db,
+  siteId: string,
+  filter: repo.LineFilter,
+  timeZone: string,
+  out: ExportWriter,
+) {
+  const lines = [];
+  for await (const part of allLines(db, siteId, filter)) lines.push(...part);
+  out.progress?.(0, lines.length);
+  const csv = Buffer.from(toCsv(lines, timeZone), "utf8");
+  for (let i = 0; i < csv.length; i += 64 * 1024) await out.write(csv.subarray(i, i + 64 * 1024));
+  out.progress?.(lines.length, lines.length);
 }
 
 export async function lineDetail(db: Db, siteId: string, lineId: string) {

@@ -91,7 +91,7 @@ export async function sharedList(db: Db, token: string): Promise<SharedList> {
   return sharedListResponse.parse({
     siteName: site.name,
     lines: lines.map((l) => ({
-      ref: l.id.slice(0, 8),
+      ref: l.ref,
       kind: l.kind,
       ratingAmps: l.ratingAmps,
       poles: l.poles,

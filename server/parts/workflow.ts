@@ -11,7 +11,7 @@
  * The defect notices that causes are returned for the route to send after the commit.
  */
 import { sql } from "kysely";
-import { canMovePart } from "../../src/domain/part-workflow";
+import { canMovePart, defaultFittedHeritage } from "../../src/domain/part-workflow";
 import type { Actor } from "../../src/domain/defect-workflow";
 import { PART_STATUS_LABELS } from "../../src/domain/vocab";
 import { acquisitionBody, type statusBody } from "../../src/schemas/parts";
@@ -53,7 +53,7 @@ export async function moveLineStatus(db: Db, siteId: string, lineId: string, b: 
             note: "Replacement part received (wanted-list line)",
             because: "The replacement part from the wanted list was received.",
           });
-    if (b.to === "fitted") await fit(trx, ctx, links, b.heritageAfter);
+    if (b.to === "fitted") await fit(trx, ctx, links, b.heritageAfter ?? defaultFittedHeritage(line));
     await repo.updateLine(trx, lineId, {
       status: b.to,
       cancelReason: b.to === "cancelled" ? b.reason : "",

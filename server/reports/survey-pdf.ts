@@ -1055,13 +1055,15 @@ function drawParts(doc: PDFKit.PDFDocument, data: ReportData, x: number, w: numb
     w,
     ensure,
     [
-      { title: "Part", width: 3.4 },
+      { title: "Line", width: 0.6 },
+      { title: "Part", width: 2.8 },
       { title: "Qty", width: 0.5, align: "right" },
       { title: "Status", width: 1.1 },
       { title: "Heritage rule", width: 1.5 },
       { title: "For positions", width: 2 },
     ],
     data.parts.map((l) => [
+      { text: l.ref },
       { text: l.title },
       { text: String(l.qty) },
       { text: PART_STATUS_LABELS[l.status] },

@@ -7,7 +7,7 @@
  */
 import { partSpecKey, normaliseText, type PartSpec } from "./parts";
 import { requireNumber, requireOneOf } from "./guards";
-import { COMPONENT_KIND_LABELS, PART_STATUSES, type PartStatus } from "./vocab";
+import { COMPONENT_KIND_LABELS, PART_STATUSES, type HeritageRule, type PartStatus } from "./vocab";
 
 export const LEAD_SOURCE_KINDS = ["donor", "dealer", "collector", "salvage", "other"] as const;
 export type LeadSourceKind = (typeof LEAD_SOURCE_KINDS)[number];
@@ -139,4 +139,43 @@ export function partTitle(spec: PartSpec, need?: string | null): string {
   if (maker) bits.push(maker);
   const title = bits.join(" · ");
   return need?.trim() ? `${title} — ${need.trim()}` : title;
+}
+
+/** What a fitted part makes of the component it goes into: its heritage stays, or it becomes a period or modern replacement. */
+export type FittedHeritageChoice = "unchanged" | "period" | "modern";
+
+/**
+ * The default answer to "what does the fitted part make of the component?" (issue 14 item 7).
+ * A line naming a sub-part ("arc chute", its `need`) is fitted into the existing component, whose
+ * heritage stays. A line without one sources a whole component, and a whole component that comes
+ * from the wanted list is never the original fabric it replaces (common practice of heritage
+ * conservation: original fabric is the material that was there; a like-for-like salvage part is a
+ * period replacement). Lines that allow a modern equivalent default to a modern replacement;
+ * "original pattern only" and "period equivalent" lines to a period one. The person fitting it
+ * can still choose otherwise.
+ */
+export function defaultFittedHeritage(line: { need: string; heritageRule: HeritageRule }): FittedHeritageChoice {
+  requireOneOf<HeritageRule>("heritageRule", line.heritageRule, ["original_only", "period_ok", "modern_ok"]);
+  if (normaliseText(line.need)) return "unchanged";
+  return line.heritageRule === "modern_ok" ? "modern" : "period";
+}
+
+/**
+ * A wanted-list line's short number, said on the phone or written on a parcel: "W-12" (issue 14 item 13;
+ * Tideline's own prefix, W for wanted). Numbers are per site, given by the database in order of creation.
+ */
+export function lineRef(number: number): string {
+  requireNumber("number", number);
+  if (!Number.isInteger(number) || number < 1)
+    throw new RangeError(`number must be a whole number from 1, got ${number}`);
+  return `W-${number}`;
+}
+
+/** The line number a person typed: "W-12", "w12", "W 12", "#12" or "12" → 12; anything else → null. */
+export function parseLineRef(typed: string): number | null {
+  if (typeof typed !== "string") throw new RangeError("typed must be a string");
+  const m = /^\s*(?:w\s*-?\s*|#\s*)?0*(\d{1,9})\s*$/i.exec(typed);
+  if (!m) return null;
+  const n = Number(m[1]);
+  return n >= 1 && n <= 2_147_483_647 ? n : null;
 }

@@ -3,6 +3,7 @@
  * files after the designation painted on the board ("2-14_front.jpg") or the tag on the
  * bag ("KL-0042.jpg"). Pure; no I/O.
  */
+import type { PhotoKind } from "./vocab";
 
 export interface MatchTarget {
   positionId: string;
@@ -75,4 +76,36 @@ export function searchTargets<T extends MatchTarget>(typed: string, targets: T[]
       (normalizeToken(t.designation).startsWith(q) || (t.tagNumber && normalizeToken(t.tagNumber).startsWith(q))),
   );
   return [...exact, ...prefix].slice(0, limit);
+}
+
+/**
+ * Words in a file name that say which kind of shot it is (issue 14): "2-14_nameplate.jpg" is a
+ * nameplate shot. Tokens must stand alone ("plate" inside "template" does not count). The
+ * vocabulary is common practice among survey photographers (invented examples in the tests);
+ * when a name says two kinds, the one said last wins ("as-found_nameplate" → nameplate),
+ * because a suffix is where people put the kind.
+ */
+const KIND_WORDS: ReadonlyArray<[PhotoKind, string[]]> = [
+  ["as_found", ["as-found", "asfound", "found", "before"]],
+  ["nameplate", ["nameplate", "name-plate", "plate", "rating-plate", "data-plate", "dataplate"]],
+  ["damage", ["damage", "damaged", "dmg", "corrosion", "burn", "burnt"]],
+  ["during_work", ["during", "during-work", "wip", "in-work", "teardown", "strip"]],
+  ["after_work", ["after", "after-work", "afterwork", "done", "restored", "refit", "refitted"]],
+  ["thermal", ["thermal", "ir", "thermo", "thermogram", "infrared"]],
+];
+
+export function kindFromFileName(fileName: string): PhotoKind | null {
+  if (typeof fileName !== "string") throw new RangeError("fileName must be a string");
+  const name = normalizeToken(fileName.replace(/\.[a-z0-9]{2,5}$/i, ""));
+  let best: { kind: PhotoKind; at: number } | null = null;
+  for (const [kind, words] of KIND_WORDS)
+    for (const w of words) {
+      const escaped = w.replace(/[.*+?^${}()|[\]\\]/g, "\\$&");
+      const re = new RegExp(`(^|[^a-z0-9])${escaped}(?=$|[^a-z0-9])`, "g");
+      for (const m of name.matchAll(re)) {
+        const at = m.index + m[0].length;
+        if (!best || at > best.at) best = { kind, at };
+      }
+    }
+  return best?.kind ?? null;
 }

@@ -458,8 +458,13 @@ export const positionDetailResponse = z.object({
 });
 export type PositionDetail = z.infer<typeof positionDetailResponse>;
 
-export const lookupQuery = z.object({ q: text(60).min(1, { message: "Type a designation or tag number" }) });
-/** GET /positions/lookup?q= — exact matches (designation or tag, case-insensitive) first, then prefix, then contains; ≤ 20. */
+export const lookupQuery = z.object({
+  q: text(60).min(1, { message: "Type a designation, tag number, circuit or kind" }),
+});
+/**
+ * GET /positions/lookup?q= — designation, tag number, circuit name and kind: exact matches (case-insensitive)
+ * first, then loosely typed ones ("kl 42" for KL-0042), prefixes, contains, then typing slips (pg_trgm); ≤ 20.
+ */
 export const lookupMatchSchema = z.object({
   positionId: id,
   designation: safeText(),
@@ -472,7 +477,7 @@ export const lookupMatchSchema = z.object({
   componentVersion: z.number().nullable(),
   tagNumber: safeText().nullable(),
   custody: z.enum(CUSTODY).nullable(),
-  matchedOn: z.enum(["designation", "tag"]),
+  matchedOn: z.enum(["designation", "tag", "circuit", "kind"]),
   exact: z.boolean(),
 });
 export type LookupMatch = z.infer<typeof lookupMatchSchema>;

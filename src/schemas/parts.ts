@@ -78,7 +78,8 @@ export const statusBody = z.discriminatedUnion("to", [
   z.object({ to: z.literal("lead_found"), version, note }),
   z.object({ to: z.literal("acquired"), version, note, acquisition: acquisitionBody.optional() }),
   z.object({ to: z.literal("received"), version, note }),
-  z.object({ to: z.literal("fitted"), version, note, heritageAfter: z.enum(FITTED_HERITAGE) }),
+  // Left out: the default for the line (defaultFittedHeritage: a whole component is a replacement).
+  z.object({ to: z.literal("fitted"), version, note, heritageAfter: z.enum(FITTED_HERITAGE).optional() }),
   z.object({
     to: z.literal("cancelled"),
     version,
@@ -128,7 +129,7 @@ export const listQuery = z.object({
   boardId: z.uuid().optional(),
   kind: z.enum(COMPONENT_KINDS).optional(),
   heritageRule: z.enum(HERITAGE_RULES).optional(),
-  /** Words to find in the maker, model, frame, mounting or part wanted. */
+  /** Words to find in the maker, model, frame, mounting or part wanted, or a line number ("W-12"). */
   q: shortText(200).optional(),
   sort: z.enum(PART_SORTS).optional(),
   dir: z.enum(["asc", "desc"]).optional(),
@@ -168,6 +169,9 @@ export type LinePosition = z.infer<typeof linePositionSchema>;
 
 export const lineSchema = z.object({
   id: text(),
+  /** Short per-site number (issue 14): 12, shown as ref "W-12". */
+  number: z.number(),
+  ref: text(),
   version: z.number(),
   origin: z.enum(["register", "manual"]),
   ...specOut,

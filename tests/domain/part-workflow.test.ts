@@ -1,5 +1,14 @@
 import { describe, expect, it } from "vitest";
-import { budgetByBoard, canMovePart, needKey, needMatchesLine, partTitle } from "../../src/domain/part-workflow";
+import {
+  budgetByBoard,
+  canMovePart,
+  defaultFittedHeritage,
+  lineRef,
+  parseLineRef,
+  needKey,
+  needMatchesLine,
+  partTitle,
+} from "../../src/domain/part-workflow";
 import type { PartSpec } from "../../src/domain/parts";
 import type { PartStatus } from "../../src/domain/vocab";
 
@@ -112,5 +121,54 @@ describe("partTitle", () => {
     [{ kind: "molded_case_breaker", frame: "50 A frame" } as PartSpec, null, "Molded-case breaker · 50 A frame"],
   ])("%j %j → %s", (spec, need, title) => {
     expect(partTitle(spec, need)).toBe(title);
+  });
+});
+
+describe("defaultFittedHeritage", () => {
+  // Source: common practice of heritage conservation — original fabric is the material that was there;
+  // a whole replacement component is period or modern, a sub-part fitted into it leaves it original.
+  it.each([
+    [{ need: "", heritageRule: "original_only" }, "period"],
+    [{ need: "", heritageRule: "period_ok" }, "period"],
+    [{ need: "", heritageRule: "modern_ok" }, "modern"],
+    [{ need: "  ", heritageRule: "modern_ok" }, "modern"],
+    [{ need: "arc chute", heritageRule: "modern_ok" }, "unchanged"],
+    [{ need: "Arc chute", heritageRule: "original_only" }, "unchanged"],
+  ] as const)("%o → %s", (line, expected) => {
+    expect(defaultFittedHeritage(line)).toBe(expected);
+  });
+  it("an unknown heritage rule is a RangeError", () => {
+    expect(() => defaultFittedHeritage({ need: "", heritageRule: "any" as never })).toThrow(RangeError);
+  });
+});
+
+describe("lineRef and parseLineRef", () => {
+  // Tideline's own short numbers for wanted-list lines (W-12), per site.
+  it.each([
+    [1, "W-1"],
+    [12, "W-12"],
+    [1040, "W-1040"],
+  ])("%i → %s", (n, ref) => {
+    expect(lineRef(n)).toBe(ref);
+    expect(parseLineRef(ref)).toBe(n);
+  });
+  it.each([
+    ["w12", 12],
+    ["W 12", 12],
+    [" #12 ", 12],
+    ["12", 12],
+    ["W-012", 12],
+    ["W-", null],
+    ["W-0", null],
+    ["WX-12", null],
+    ["arc chute", null],
+    ["99999999999", null],
+  ])("typed %s → %s", (typed, n) => {
+    expect(parseLineRef(typed)).toBe(n);
+  });
+  it("a number that is not a whole number from 1 is a RangeError", () => {
+    expect(() => lineRef(0)).toThrow(RangeError);
+    expect(() => lineRef(1.5)).toThrow(RangeError);
+    expect(() => parseLineRef(undefined as unknown as string)).toThrow(RangeError);
   });
 });

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { matchFileName, searchTargets, type MatchTarget } from "../../src/domain/photo-matching";
+import { kindFromFileName, matchFileName, searchTargets, type MatchTarget } from "../../src/domain/photo-matching";
 
 // Naming habits are common practice among survey photographers (files named after the
 // painted designation or the bag's tag); the examples below are invented.
@@ -41,5 +41,31 @@ describe("searchTargets", () => {
     ["", []],
   ])("typing %s finds %o", (typed, ids) => {
     expect(searchTargets(typed, T).map((t) => t.positionId)).toEqual(ids);
+  });
+});
+
+describe("kindFromFileName", () => {
+  it.each([
+    // [file name, expected kind] — source: common practice of survey photographers (invented examples)
+    ["2-14_nameplate.jpg", "nameplate"],
+    ["KL-0042 name plate.JPG", "nameplate"],
+    ["IMG_0031_rating-plate.heic", "nameplate"],
+    ["2-14_as-found.jpg", "as_found"],
+    ["2-14 as found_nameplate.jpg", "nameplate"],
+    ["1-3_damage.jpg", "damage"],
+    ["1-3_after.jpg", "after_work"],
+    ["IR_0044.jpg", "thermal"],
+    ["2-14 thermal.tif", "thermal"],
+    ["1-3_wip.jpg", "during_work"],
+    ["template-2-14.jpg", null],
+    ["DSC01234.jpg", null],
+    ["2-14_front.jpg", null],
+    ["nameplate.jpg", "nameplate"],
+  ])("%s → %s", (name, kind) => {
+    expect(kindFromFileName(name)).toBe(kind);
+  });
+
+  it("a file name that is not a string is a RangeError", () => {
+    expect(() => kindFromFileName(null as unknown as string)).toThrow(RangeError);
   });
 });

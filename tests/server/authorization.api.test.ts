@@ -183,6 +183,15 @@ export const ACCESS: Record<string, Access> = {
   "GET /api/sites/:siteId/labels.pdf": LABELS,
   "POST /api/sites/:siteId/tags/assign": FIELD,
   "GET /api/tags/:tag": "user",
+  // Prepared files: any member asks for a kind their role may download directly (all four: every member);
+  // a file is the asker's own (others get 404 "That file was not found", which counts as allowed here).
+  "POST /api/sites/:siteId/prepared-files": "member",
+  "GET /api/sites/:siteId/prepared-files": "member",
+  "GET /api/sites/:siteId/prepared-files/:fileId": "member",
+  "GET /api/sites/:siteId/prepared-files/:fileId/download": "member",
+  "POST /api/sites/:siteId/prepared-files/:fileId/retry": "member",
+  "POST /api/sites/:siteId/prepared-files/:fileId/seen": "member",
+  "GET /api/prepared-files/notices": "user",
   "GET /api/sites/:siteId/components/:componentId/custody-options": FIELD,
   "GET /api/sites/:siteId/tags/next": FIELD,
   "GET /api/sites/:siteId/defects/:defectId/evidence": "member",

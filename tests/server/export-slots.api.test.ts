@@ -77,4 +77,15 @@ describe("the cap across two instances", () => {
     await expect.poll(async () => (await slots(fx.crew.viewer.id)).length).toBe(0);
     expect(runningExports().get(fx.crew.viewer.id)).toBeUndefined();
   });
+
+  it("a finished download has given its slot back by the time its last byte arrives: three in a row, none refused", async () => {
+    const c = a.client();
+    await c.signIn(fx.crew.curator.email);
+    for (const path of ["defects.csv", "parts.csv", "inventory.csv"]) {
+      const r = await c.get(`/api/sites/${fx.siteId}/${path}`);
+      expect(r.status, path).toBe(200);
+      // No waiting: the slot row is already gone when the response has been read.
+      expect(await slots(fx.crew.curator.id), path).toHaveLength(0);
+    }
+  });
 });

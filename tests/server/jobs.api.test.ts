@@ -1,5 +1,6 @@
 import { sql } from "kysely";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { createDb, poolOf } from "../../server/db";
 import { createJobs, workerEnabled, type Jobs } from "../../server/jobs";
 import { WEEKLY_SUMMARY_JOB, startJobs } from "../../server/jobs/registry";
 import { memoryMailer } from "../../server/mail/mailer";
@@ -96,4 +97,24 @@ describe("the app's jobs", () => {
     expect(workerEnabled({})).toBe(true);
     expect(workerEnabled({ TIDELINE_WORKER: "on" })).toBe(true);
   });
+});
+
+describe("the queue's own connections", () => {
+  it("polls and runs jobs through a small pool of its own, never the request pool, and stops cleanly", async () => {
+    const app = createDb(t.url, 10);
+    const appPool = poolOf(app)!;
+    const jobs = await startJobs(
+      { db: app, mailer: memoryMailer(), publicUrl: "http://127.0.0.1", photoStorage: storageFromEnv() },
+      { work: true, pollingIntervalSeconds: 0.5 },
+    );
+    try {
+      // A few polling rounds of every queue, and a stats read (the metrics' queue depth).
+      await new Promise((r) => setTimeout(r, 2500));
+      await jobs.stats();
+      expect(appPool.totalCount, "connections the request pool opened for the queue").toBe(0);
+    } finally {
+      await jobs.stop(2000);
+    }
+    await app.destroy();
+  }, 30_000);
 });

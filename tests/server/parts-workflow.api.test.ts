@@ -216,6 +216,31 @@ describe("status workflow", () => {
     expect(row).toEqual({ heritage: "original", custody: "refitted" });
   });
 
+  it("fitting without saying what the part makes of the component: a whole component becomes a period replacement, so it no longer counts as original fabric (issue 14)", async () => {
+    const { line, comp } = await freshLine("10-9");
+    const retained = async () =>
+      (await c.viewer.get(`/api/sites/${fx.siteId}/overview`)).body.originalRetainedPercent as number;
+    const before = await retained();
+    let v = line.version;
+    for (const body of [
+      { to: "acquired", acquisition: { cost: 1, acquiredOn: "2026-11-04" } },
+      { to: "received" },
+      { to: "fitted" },
+    ]) {
+      const r = await c.scrounger.post(url(`/${line.id}/status`), { ...body, version: v });
+      expect(r.status, JSON.stringify(r.body)).toBe(200);
+      v = r.body.line.version;
+    }
+    const row = await t.db
+      .selectFrom("components")
+      .select(["heritage", "custody"])
+      .where("id", "=", comp.componentId)
+      .executeTakeFirstOrThrow();
+    expect(row).toEqual({ heritage: "period", custody: "refitted" });
+    // The original-fabric figure follows: one fewer original component on the site.
+    expect(await retained()).toBeLessThan(before);
+  });
+
   it("a move the workflow does not allow answers 409 with the line as it is; so does a stale version", async () => {
     const { line } = await freshLine("10-5");
     const skip = await c.scrounger.post(url(`/${line.id}/status`), {

@@ -78,9 +78,9 @@ afterAll(async () => {
   await t.drop();
 });
 
-// A download's slot (server/export-stream.ts) is freed when the response closes, which may be just
-// after the client has the last byte: wait for that release so it never lands in the next request's
-// statements, and leave it out of the count (it is one statement whatever the size).
+// A download's slot (server/export-stream.ts) is freed before its last byte (runExport), or when the
+// response closes for a download that ends otherwise: wait for that release all the same so it never
+// lands in the next request's statements, and leave it out of the count (one statement whatever the size).
 const isSlotRelease = (s: string) => /^\s*delete from "export_slots" where "id" = \$1\s*$/i.test(s);
 
 async function statementsOf(path: string) {

@@ -1,4 +1,5 @@
 import { useCallback, useEffect, useReducer, useRef } from "react";
+import { kindFromFileName } from "../../domain/photo-matching";
 import type { Photo } from "../../schemas/photos";
 import { uploadOne, type UploadTags } from "./api";
 
@@ -92,7 +93,14 @@ export function useUploadQueue(siteId: string, onDone?: (p: Photo) => void) {
     add: (files: File[], tags: UploadTags) =>
       dispatch({
         type: "add",
-        items: files.map((file) => ({ key: `u${++counter}`, file, tags, state: "queued" as const, progress: 0 })),
+        // A file whose name says its kind ("…_nameplate.jpg") is uploaded as that kind (issue 14).
+        items: files.map((file) => ({
+          key: `u${++counter}`,
+          file,
+          tags: { ...tags, kind: kindFromFileName(file.name) ?? tags.kind },
+          state: "queued" as const,
+          progress: 0,
+        })),
       }),
     retry: (key: string) => dispatch({ type: "retry", key }),
     clearDone: () => dispatch({ type: "clearDone" }),

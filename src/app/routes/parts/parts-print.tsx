@@ -38,7 +38,7 @@ export default function PartsPrintPage() {
         <PrintSheet
           lines={list.data.lines.map((l) => ({
             ...l,
-            ref: l.id.slice(0, 8),
+            ref: l.ref,
             photoUrl: l.photoIds[0] ? thumbUrl(site.id, l.photoIds[0]) : null,
             positions: l.positions
               .filter((p) => p.state === "active" && p.designation)

@@ -1,5 +1,5 @@
 import { useEffect, useState } from "react";
-import { COMPONENT_KIND_SHORT, CUSTODY_LABELS } from "../../../domain/vocab";
+import { COMPONENT_KIND_LABELS, COMPONENT_KIND_SHORT, CUSTODY_LABELS } from "../../../domain/vocab";
 import { useBoard, useBoards, useLookup } from "../api";
 import { KindGlyph } from "./kind-glyph";
 
@@ -37,12 +37,18 @@ export function PositionFinder({ siteId, onPick }: { siteId: string; onPick: (po
           enterKeyHint="search"
           value={text}
           onChange={(e) => setText(e.target.value)}
-          placeholder="e.g. 2-14 or T-031"
+          placeholder="e.g. 2-14, KL 42, bilge pump"
+          aria-describedby="find-position-hint"
           className="mt-1 block min-h-14 w-full rounded-md border border-hull-500 bg-hull-900 px-3 font-mono text-xl text-chalk placeholder:text-fog"
         />
+        <p id="find-position-hint" className="mt-1 text-xs text-fog">
+          A circuit name or a kind (MCCB, fuse, meter) finds positions too; close spellings count.
+        </p>
         <div aria-live="polite" className="mt-2">
           {q && hits.isFetching && !hits.data && <p className="text-sm text-mist">Looking…</p>}
-          {q && hits.data?.length === 0 && <p className="text-sm text-mist">Nothing painted or tagged “{q}”.</p>}
+          {q && hits.data?.length === 0 && (
+            <p className="text-sm text-mist">No designation, tag, circuit or kind like “{q}”.</p>
+          )}
           {hits.isError && (
             <p role="alert" className="text-sm text-flare-300">
               {hits.error.message}
@@ -55,12 +61,23 @@ export function PositionFinder({ siteId, onPick }: { siteId: string; onPick: (po
                   <button type="button" className={pick} onClick={() => onPick(h.positionId)}>
                     <KindGlyph kind={h.kind} className="h-5 w-5 shrink-0 text-mist" />
                     <span className="font-mono text-lg font-bold">{h.designation}</span>
-                    <span className="min-w-0 flex-1 truncate text-sm text-mist">
-                      {h.boardName}
-                      {h.sectionName ? ` · ${h.sectionName}` : ""}
-                      {h.circuit ? ` · ${h.circuit}` : ""}
+                    <span className="min-w-0 flex-1 py-1 text-sm text-mist">
+                      {h.circuit && (
+                        <span
+                          className={`block truncate ${h.matchedOn === "circuit" ? "font-semibold text-chalk" : "text-chalk"}`}
+                        >
+                          {h.circuit}
+                        </span>
+                      )}
+                      {h.matchedOn === "kind" && (
+                        <span className="block truncate font-semibold text-chalk">{COMPONENT_KIND_LABELS[h.kind]}</span>
+                      )}
+                      <span className="block truncate">
+                        {h.boardName}
+                        {h.sectionName ? ` · ${h.sectionName}` : ""}
+                      </span>
                       {h.tagNumber && (
-                        <span className="block font-mono">
+                        <span className="block truncate font-mono">
                           tag {h.tagNumber}
                           {h.custody ? ` · ${CUSTODY_LABELS[h.custody]}` : ""}
                         </span>

@@ -26,7 +26,8 @@ export function LineSummary({ line }: { line: PartLine }) {
   return (
     <section aria-labelledby="line-title" className="space-y-3">
       <p className="text-sm text-mist">
-        Line {line.id.slice(0, 8)} · {line.origin === "manual" ? "added by hand" : "from the register"}
+        Line <span className="font-mono text-chalk">{line.ref}</span> ·{" "}
+        {line.origin === "manual" ? "added by hand" : "from the register"}
       </p>
       <h1 id="line-title" className="text-2xl font-bold">
         {line.title}

@@ -28,9 +28,14 @@ export function partColumns(siteId: string) {
       header: "Part wanted",
       sortFn: "alphanumeric",
       cell: (c) => (
-        <Link to={paths.partLine.href(siteId, c.row.original.id)} className="font-semibold">
-          {c.getValue()}
-        </Link>
+        <>
+          <span className="block font-mono text-xs text-mist" data-testid="line-ref">
+            {c.row.original.ref}
+          </span>
+          <Link to={paths.partLine.href(siteId, c.row.original.id)} className="font-semibold">
+            {c.getValue()}
+          </Link>
+        </>
       ),
     }),
     col.accessor((r) => HERITAGE_RULES.indexOf(r.heritageRule), {

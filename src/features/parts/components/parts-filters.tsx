@@ -30,7 +30,7 @@ export function PartsFilters({
           type="search"
           className={select}
           defaultValue={value.q ?? ""}
-          placeholder="maker, model, frame…"
+          placeholder="W-12, maker, model, frame…"
           onKeyDown={(e) => {
             if (e.key === "Enter") onChange({ ...value, q: e.currentTarget.value.trim() || undefined });
           }}

@@ -5,6 +5,7 @@ import { PART_STATUS_LABELS, type PartStatus } from "../../../domain/vocab";
 import { ApiError } from "../../../lib/api-client";
 import type { LineDetail, StatusBody } from "../../../schemas/parts";
 import { useMoveStatus } from "../api";
+import { defaultFittedHeritage } from "../../../domain/part-workflow";
 
 const today = () => new Date().toISOString().slice(0, 10);
 
@@ -52,6 +53,7 @@ export function StatusForm({ siteId, detail }: { siteId: string; detail: LineDet
       },
     });
   }
+  const fittedDefault = defaultFittedHeritage(line);
   const needsPurchase = to === "acquired" && line.status !== "received";
   return (
     <form
@@ -103,15 +105,29 @@ export function StatusForm({ siteId, detail }: { siteId: string; detail: LineDet
       {to === "fitted" && (
         <fieldset className="space-y-1">
           <legend className="text-sm font-semibold text-mist">What does the fitted part make of the component?</legend>
-          {[
-            ["unchanged", "Heritage unchanged (a sub-part fitted into the existing component)"],
-            ["period", "Period replacement"],
-            ["modern", "Modern replacement"],
-          ].map(([v, label], i) => (
+          {(
+            [
+              ["unchanged", "Heritage unchanged (a sub-part fitted into the existing component)"],
+              ["period", "Period replacement (a whole component of the period, not the original)"],
+              ["modern", "Modern replacement"],
+            ] as const
+          ).map(([v, label]) => (
             <label key={v} className="flex min-h-11 items-center gap-2">
-              <input type="radio" name="heritageAfter" value={v} defaultChecked={i === 0} className="h-5 w-5" /> {label}
+              <input
+                type="radio"
+                name="heritageAfter"
+                value={v}
+                defaultChecked={v === fittedDefault}
+                className="h-5 w-5 shrink-0"
+              />{" "}
+              {label}
             </label>
           ))}
+          <p className="text-xs text-fog" data-testid="fitted-default-reason">
+            {fittedDefault === "unchanged"
+              ? `This line is for a part of the component (${line.need}), so its heritage stays as it is.`
+              : "This line sources a whole component: once fitted it no longer counts as original fabric."}
+          </p>
           <p className="text-xs text-fog">
             Each component this line is for is marked refitted; each linked defect moves to awaiting re-test. Re-test
             before energising — a qualified person decides.

@@ -1,56 +1,83 @@
-import type { PhotoKind } from "../../../domain/vocab";
-import { PHOTO_KIND_LABELS } from "../../../domain/vocab";
+import { PHOTO_KINDS, PHOTO_KIND_LABELS, type PhotoKind } from "../../../domain/vocab";
 import type { Photo, PhotoTarget } from "../../../schemas/photos";
 
 export interface Staged {
   positionId: string;
   kind: PhotoKind;
+  /** Where the kind came from: the file name said it, the photographer chose it, or the upload's kind. */
+  kindFrom: "file name" | "chosen" | "upload";
   source: "typed" | "tag in file name" | "designation in file name";
 }
 
-/** What will be saved, before it is: file → position, and how the match was made. */
+const cols = "sm:grid-cols-[minmax(0,2fr)_minmax(0,1.2fr)_minmax(9rem,1fr)_minmax(0,1fr)_auto]";
+
+/**
+ * What will be saved, before it is: file → position, the kind of shot (changeable here) and how
+ * the match was made. A list laid out as columns from a tablet up and as cards on a phone, so a
+ * long file name wraps instead of widening the page.
+ */
 export function AssignmentTable({
   photos,
   staged,
   byId,
   onRemove,
+  onKind,
 }: {
   photos: Photo[];
   staged: Record<string, Staged>;
   byId: Map<string, PhotoTarget>;
   onRemove: (id: string) => void;
+  onKind: (photo: Photo, kind: PhotoKind) => void;
 }) {
   const rows = photos.filter((p) => staged[p.id]);
   if (!rows.length) return null;
   return (
-    <table className="w-full text-left text-sm">
-      <caption className="mb-1 text-left font-semibold text-mist">Ready to save</caption>
-      <thead className="text-fog">
-        <tr>
-          <th scope="col" className="py-1">
-            File
-          </th>
-          <th scope="col">Position</th>
-          <th scope="col">Kind</th>
-          <th scope="col">Matched by</th>
-          <th scope="col">
-            <span className="sr-only">Remove</span>
-          </th>
-        </tr>
-      </thead>
-      <tbody>
+    <section aria-labelledby="staged-title" className="space-y-1 text-sm">
+      <h3 id="staged-title" className="font-semibold text-mist">
+        Ready to save ({rows.length})
+      </h3>
+      <div aria-hidden="true" className={`hidden gap-x-3 text-fog sm:grid ${cols}`}>
+        <span>File</span>
+        <span>Position</span>
+        <span>Kind of shot</span>
+        <span>Matched by</span>
+        <span />
+      </div>
+      <ul className="divide-y divide-hull-700 border-t border-hull-700">
         {rows.map((p) => {
           const s = staged[p.id];
           const t = byId.get(s.positionId);
           return (
-            <tr key={p.id} className="border-t border-hull-700" data-testid="staged-row">
-              <td className="py-1 font-mono">{p.originalName}</td>
-              <td>
+            <li key={p.id} className={`grid items-center gap-x-3 gap-y-1 py-2 ${cols}`} data-testid="staged-row">
+              <span className="min-w-0 font-mono break-all">{p.originalName}</span>
+              <span className="min-w-0">
+                <span className="sr-only">Position </span>
                 <span className="font-mono">{t?.designation}</span> <span className="text-mist">{t?.boardName}</span>
-              </td>
-              <td>{PHOTO_KIND_LABELS[s.kind]}</td>
-              <td>{s.source}</td>
-              <td>
+              </span>
+              <span className="min-w-0">
+                <select
+                  aria-label={`Kind of shot for ${p.originalName}`}
+                  className="block min-h-11 w-full rounded-md border border-hull-500 bg-hull-900 px-2 text-chalk"
+                  value={s.kind}
+                  onChange={(e) => onKind(p, e.target.value as PhotoKind)}
+                >
+                  {PHOTO_KINDS.map((k) => (
+                    <option key={k} value={k}>
+                      {PHOTO_KIND_LABELS[k]}
+                    </option>
+                  ))}
+                </select>
+                {s.kindFrom === "file name" && (
+                  <span className="text-xs text-fog" data-testid="kind-from-name">
+                    kind read from the file name
+                  </span>
+                )}
+              </span>
+              <span className="min-w-0 text-mist">
+                <span className="sm:sr-only">Matched by </span>
+                {s.source}
+              </span>
+              <span>
                 <button
                   type="button"
                   className="min-h-11 px-2 underline"
@@ -59,11 +86,11 @@ export function AssignmentTable({
                 >
                   Unfile
                 </button>
-              </td>
-            </tr>
+              </span>
+            </li>
           );
         })}
-      </tbody>
-    </table>
+      </ul>
+    </section>
   );
 }

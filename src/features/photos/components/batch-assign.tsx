@@ -1,7 +1,8 @@
-import { useMemo, useState, type KeyboardEvent } from "react";
+import { useEffect, useMemo, useState, type KeyboardEvent } from "react";
+import { useBlocker } from "react-router";
 import { Button } from "../../../components/button";
 import { ErrorPanel } from "../../../components/status";
-import { matchFileName, searchTargets } from "../../../domain/photo-matching";
+import { kindFromFileName, matchFileName, searchTargets } from "../../../domain/photo-matching";
 import { PHOTO_KINDS, PHOTO_KIND_LABELS, type PhotoKind } from "../../../domain/vocab";
 import type { Photo, PhotoTarget } from "../../../schemas/photos";
 import { usePhotoMutations } from "../api";
@@ -32,6 +33,8 @@ export function BatchAssign({ siteId, photos, targets }: Props) {
   const suggestions = searchTargets(typed, pool);
   const current = photos[Math.min(index, photos.length - 1)];
   const byId = useMemo(() => new Map(targets.map((t) => [t.positionId, t])), [targets]);
+  const count = Object.keys(staged).length;
+  useLeaveGuard(count);
 
   if (!photos.length)
     return (
@@ -44,18 +47,24 @@ export function BatchAssign({ siteId, photos, targets }: Props) {
     setIndex(Math.max(0, Math.min(photos.length - 1, i)));
     setTyped("");
   };
-  const stage = (photo: Photo, t: PhotoTarget, source: Staged["source"], kind?: PhotoKind) =>
+  /** The kind a photo would be filed as: the photographer's choice, else what its file name says, else its upload's kind. */
+  const kindOf = (photo: Photo): { kind: PhotoKind; kindFrom: Staged["kindFrom"] } => {
+    if (kindFor[photo.id]) return { kind: kindFor[photo.id], kindFrom: "chosen" };
+    const named = kindFromFileName(photo.originalName);
+    return named ? { kind: named, kindFrom: "file name" } : { kind: photo.kind, kindFrom: "upload" };
+  };
+  const stage = (photo: Photo, t: PhotoTarget, source: Staged["source"]) =>
     setStaged((s) => ({
       ...s,
       [photo.id]: {
         positionId: t.positionId,
-        kind: kind ?? kindFor[photo.id] ?? s[photo.id]?.kind ?? photo.kind,
+        ...(s[photo.id] ? { kind: s[photo.id].kind, kindFrom: s[photo.id].kindFrom } : kindOf(photo)),
         source,
       },
     }));
   const setKind = (photo: Photo, k: PhotoKind) => {
     setKindFor((m) => ({ ...m, [photo.id]: k }));
-    setStaged((s) => (s[photo.id] ? { ...s, [photo.id]: { ...s[photo.id], kind: k } } : s));
+    setStaged((s) => (s[photo.id] ? { ...s, [photo.id]: { ...s[photo.id], kind: k, kindFrom: "chosen" } } : s));
   };
 
   const onKey = (e: KeyboardEvent<HTMLInputElement>) => {
@@ -108,7 +117,6 @@ export function BatchAssign({ siteId, photos, targets }: Props) {
         },
       },
     );
-  const count = Object.keys(staged).length;
   const here = staged[current.id];
 
   return (
@@ -164,7 +172,7 @@ export function BatchAssign({ siteId, photos, targets }: Props) {
               aria-describedby="assign-help"
             />
           </label>
-          <p id="assign-help" className="text-xs text-fog">
+          <p id="assign-help" className="hidden text-xs text-fog sm:block">
             Enter files this photo to the first match and moves on. Page Up / Page Down step without filing.
           </p>
           <ul aria-label="Matching positions" className="space-y-1">
@@ -191,7 +199,7 @@ export function BatchAssign({ siteId, photos, targets }: Props) {
             Kind of shot
             <select
               className="mt-1 block min-h-11 w-full rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk"
-              value={here?.kind ?? kindFor[current.id] ?? current.kind}
+              value={here?.kind ?? kindOf(current).kind}
               onChange={(e) => setKind(current, e.target.value as PhotoKind)}
             >
               {PHOTO_KINDS.map((k) => (
@@ -225,6 +233,7 @@ export function BatchAssign({ siteId, photos, targets }: Props) {
         staged={staged}
         byId={byId}
         onRemove={(id) => setStaged(({ [id]: _, ...rest }) => rest)}
+        onKind={setKind}
       />
       {assign.isError && <ErrorPanel error={assign.error} />}
       <Button onClick={save} disabled={!count || assign.isPending}>
@@ -232,4 +241,31 @@ export function BatchAssign({ siteId, photos, targets }: Props) {
       </Button>
     </section>
   );
+}
+
+/**
+ * Staged filings live only in this page: leaving it (a link, Back, closing the tab) with some
+ * unsaved asks first. React Router's blocker covers moves inside the app, `beforeunload` the rest.
+ */
+function useLeaveGuard(unsaved: number) {
+  const blocker = useBlocker(
+    ({ currentLocation, nextLocation }) => unsaved > 0 && currentLocation.pathname !== nextLocation.pathname,
+  );
+  useEffect(() => {
+    if (blocker.state !== "blocked") return;
+    const leave = window.confirm(
+      `${unsaved} photo${unsaved === 1 ? " is" : "s are"} matched to positions but not saved. Leave the photo desk and lose ${unsaved === 1 ? "it" : "them"}?`,
+    );
+    if (leave) blocker.proceed();
+    else blocker.reset();
+  }, [blocker, unsaved]);
+  useEffect(() => {
+    if (!unsaved) return;
+    const ask = (e: BeforeUnloadEvent) => {
+      e.preventDefault();
+      e.returnValue = "";
+    };
+    window.addEventListener("beforeunload", ask);
+    return () => window.removeEventListener("beforeunload", ask);
+  }, [unsaved]);
 }

@@ -43,7 +43,12 @@ export function UploadPanel({
         Upload a shoot
       </h2>
       <div className="grid gap-3 sm:grid-cols-3">
-        <SelectField label="Kind of shot" value={kind} onChange={(e) => setKind(e.target.value as PhotoKind)}>
+        <SelectField
+          label="Kind of shot"
+          value={kind}
+          onChange={(e) => setKind(e.target.value as PhotoKind)}
+          hint="A file named for its kind (…_nameplate.jpg, …_after.jpg) is filed as that kind."
+        >
           {PHOTO_KINDS.map((k) => (
             <option key={k} value={k}>
               {PHOTO_KIND_LABELS[k]}
