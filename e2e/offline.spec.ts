@@ -174,3 +174,91 @@ test.describe("with no signal, on a 360 px phone", () => {
     await curator.dispose();
   });
 });
+
+test.describe("readings, a watch check and a defect with no signal, on a 360 px phone", () => {
+  test.setTimeout(240_000);
+  test.use({ viewport: { width: 360, height: 740 } });
+
+  test("each waits on the phone, is sent in order when the signal returns, and exists exactly once", async ({
+    page,
+    context,
+    baseURL,
+  }) => {
+    const m = await makeBreaker(baseURL!);
+    const api = await apiAs(baseURL!, "volunteer");
+    // The demo's main switchboard has a stage live under watch (db/seed/return-to-service.ts).
+    const overview = (await (await api.get(`/api/sites/${m.siteId}/return-to-service`)).json()) as {
+      boards: Array<{ boardId: string; boardName: string }>;
+    };
+    const mainId = overview.boards.find((b) => b.boardName === "Main switchboard (engine room, aft)")!.boardId;
+    const tag = m.designation;
+    const circuit = `Offline feeder ${tag}`;
+    const note = `Offline watch ${tag}`;
+    const title = `Offline verdigris ${tag}`;
+    const raiseUrl = `/sites/${m.siteId}/defects/new?boardId=${m.boardId}&category=corrosion&severity=degraded`;
+
+    await signIn(page, "volunteer");
+    await visitOnline(page, m);
+    // Open each page once with signal so the phone keeps what it shows.
+    await page.goto(`/sites/${m.siteId}/readings/boards/${m.boardId}`);
+    await expect(page.getByRole("form", { name: "Record an insulation-resistance reading" })).toBeVisible();
+    await page.goto(`/sites/${m.siteId}/boards/${mainId}/watch`);
+    await expect(page.getByRole("button", { name: "Save the check" })).toBeVisible();
+    await page.goto(raiseUrl);
+    await expect(page.getByLabel("What is wrong")).toBeVisible();
+    await page.waitForTimeout(1_500); // the persisted cache is written a second after the last change
+
+    await goOffline(context, page);
+    await page.goto(`/sites/${m.siteId}/readings/boards/${m.boardId}`);
+    const form = page.getByRole("form", { name: "Record an insulation-resistance reading" });
+    await form.getByLabel("Component").selectOption({ label: "No component: name the circuit" });
+    await form.getByLabel("Circuit", { exact: true }).fill(circuit);
+    await form.getByLabel("Reading (MΩ)").fill("85");
+    await form.getByLabel("Equipment temperature (°C)").fill("18");
+    await form.getByRole("button", { name: "Save reading" }).click();
+    await expect(page.getByTestId("reading-pending")).toContainText("Reading kept on this phone");
+    await expect(page.getByTestId("waiting-count")).toHaveText("1 waiting to send");
+
+    await page.goto(`/sites/${m.siteId}/boards/${mainId}/watch`);
+    await page.getByRole("button", { name: "All three equal" }).click();
+    await page.getByLabel("Note").fill(note);
+    await page.getByRole("button", { name: "Save the check" }).click();
+    await expect(page.getByTestId("watch-pending")).toContainText("Kept on this phone");
+    await expect(page.getByTestId("waiting-count")).toHaveText("2 waiting to send");
+
+    await page.goto(raiseUrl);
+    await page.getByLabel("What is wrong").fill(title);
+    await page.getByRole("button", { name: "Raise the defect" }).click();
+    await expect(page.getByTestId("defect-pending")).toContainText(title);
+    await page
+      .getByRole("region", { name: "Photos of this defect" })
+      .locator("input[type=file]")
+      .setInputFiles({ name: "verdigris-offline.jpg", mimeType: "image/jpeg", buffer: await shot() });
+    await expect(page.getByTestId("photo-pending")).toContainText("verdigris-offline.jpg");
+    await expect(page.getByTestId("waiting-count")).toHaveText("4 waiting to send");
+    await page.screenshot({ path: ".data/test-results/offline-defect-pending.png" });
+
+    await context.setOffline(false);
+    await page.evaluate(() => window.dispatchEvent(new Event("online")));
+    await expect(page.getByTestId("waiting-count")).toHaveText("nothing waiting", { timeout: 60_000 });
+
+    const readings = (await (await api.get(`/api/sites/${m.siteId}/boards/${m.boardId}/readings`)).json()) as {
+      insulation: Array<{ circuit: string }>;
+    };
+    expect(readings.insulation.filter((r) => r.circuit === circuit)).toHaveLength(1);
+    const rts = (await (await api.get(`/api/sites/${m.siteId}/boards/${mainId}/return-to-service`)).json()) as {
+      events: Array<{ kind: string; detail: string }>;
+    };
+    expect(rts.events.filter((e) => e.kind === "watch_check" && e.detail.includes(note))).toHaveLength(1);
+    const defects = (await (await api.get(`/api/sites/${m.siteId}/defects?q=${encodeURIComponent(title)}`)).json()) as {
+      rows: Array<{ id: string; title: string }>;
+    };
+    const rows = defects.rows.filter((d) => d.title === title);
+    expect(rows).toHaveLength(1);
+    const photos = (await (await api.get(`/api/sites/${m.siteId}/photos?defectId=${rows[0].id}`)).json()) as {
+      photos: unknown[];
+    };
+    expect(photos.photos).toHaveLength(1);
+    await api.dispose();
+  });
+});

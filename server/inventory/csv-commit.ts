@@ -12,14 +12,15 @@ import { AppError } from "../errors";
 import { demandChanged } from "../parts/service";
 import type { DecodedText } from "../csv-read";
 import { UNIQUE, mapUnique, updateVersioned } from "./common";
-import { validateImport, type PlannedRow } from "./csv-import";
+import { answerOf, validateImport, type PlannedRow } from "./csv-import";
 import type { ImportRecord } from "./csv-row";
 
 /** 400 import_invalid with every row's errors, flattened to fields "<line>.<column>" too. */
 export class ImportInvalid extends AppError {
   constructor(public result: ImportResponse) {
     const fields: Record<string, string> = {};
-    for (const r of result.rows) for (const [col, msg] of Object.entries(r.errors)) fields[`${r.line}.${col}`] = msg;
+    for (const r of answerOf(result).rows)
+      for (const [col, msg] of Object.entries(r.errors)) fields[`${r.line}.${col}`] = msg;
     super(
       400,
       "import_invalid",

@@ -25,6 +25,7 @@ import { AppError } from "../errors";
 import { readTextCell } from "../csv";
 import { guessSeparator, type DecodedText } from "../csv-read";
 import { csvRowSchema, toRecord, type ImportRecord } from "./csv-row";
+import { planOffThread } from "./csv-plan-pool";
 
 interface Parsed {
   line: number;
@@ -43,20 +44,43 @@ export const normaliseHeader = (h: string) =>
 
 const KNOWN = new Set<string>([...CSV_KEY_COLUMNS, ...CSV_IMPORT_COLUMNS, ...CSV_EXPORT_EXTRA_COLUMNS]);
 
+/**
+ * Rows one import takes: a board holds at most 60 × 60 = 3,600 positions, so this is a few
+ * boards' worth; a bigger file is refused whole (413, nothing read into the plan, nothing written)
+ * with the advice to split it by board. `IMPORT_MAX_ROWS` in the environment changes it.
+ */
+export const importMaxRows = () => Number(process.env.IMPORT_MAX_ROWS ?? 10_000);
+/** Rows the answer lists (problems, then changes, then new, then unchanged); the summary counts them all. */
+export const ANSWER_ROWS = 1_000;
+
 /** Rows with the line each starts on (a quoted cell may span lines, so lines are counted, not rows). */
 export function parseCsv(decoded: DecodedText) {
   const src = decoded.text.replace(/^\uFEFF/, "");
   const separator = guessSeparator(src);
   const raw: { data: string[]; start: number }[] = [];
+  const max = importMaxRows();
   let start = 0;
+  let tooMany = false;
+  let filled = 0; // rows with any text, the header included
   Papa.parse<string[]>(src, {
     delimiter: separator,
     skipEmptyLines: false,
-    step: (r) => {
+    step: (r, parser) => {
       raw.push({ data: r.data, start });
       start = r.meta.cursor;
+      if (r.data.some((c) => c.trim() !== "") && ++filled > max + 1) {
+        tooMany = true;
+        parser.abort();
+      }
     },
   });
+  if (tooMany)
+    throw new AppError(
+      413,
+      "too_many_rows",
+      `The file has more than ${max.toLocaleString("en")} rows; one import takes at most ${max.toLocaleString("en")}. Nothing was read or changed: split the file by board and import each part.`,
+      { csv: `More than ${max} rows` },
+    );
   if (!raw.length || raw[0].data.every((h) => !h.trim()))
     throw new AppError(400, "invalid_input", "The file is empty.", { csv: "No header row" });
   const header = raw[0].data.map(normaliseHeader);
@@ -320,10 +344,34 @@ function cellsOf(boardKey: string, p: { gridRow: number; gridCol: number; rowSpa
   return out;
 }
 
-/** Checks every row; plans each; the digest covers the plan and the versions it was made against. */
+/**
+ * Reads the site's inventory (on the caller's connection or transaction), then parses, checks and
+ * plans the file on a worker thread (./csv-plan-pool.ts): a file of thousands of rows takes
+ * seconds of CPU, and on the event loop that stalled every other request (issue 11).
+ */
 export async function validateImport(db: Db, siteId: string, decoded: DecodedText) {
-  const { rows: parsed, ignoredColumns, separator, columns } = parseCsv(decoded);
   const state = await siteState(db, siteId);
+  const { response, planned } = await planOffThread(decoded, state);
+  return { response, planned, state };
+}
+
+/**
+ * The rows an answer lists: all of them up to ANSWER_ROWS, else problems first, then changes,
+ * new rows and unchanged ones, in file order; `summary.shown` says how many are listed.
+ */
+export function answerOf(r: ImportResponse): ImportResponse {
+  if (r.rows.length <= ANSWER_ROWS) return { rows: r.rows, summary: { ...r.summary, shown: r.rows.length } };
+  const order: ImportAction[] = ["problem", "update", "create", "unchanged"];
+  const picked = order
+    .flatMap((a) => r.rows.filter((x) => x.action === a))
+    .slice(0, ANSWER_ROWS)
+    .sort((a, b) => a.line - b.line);
+  return { rows: picked, summary: { ...r.summary, shown: picked.length } };
+}
+
+/** Checks every row; plans each; the digest covers the plan and the versions it was made against. Pure: no I/O. */
+export function planImport(decoded: DecodedText, state: SiteState) {
+  const { rows: parsed, ignoredColumns, separator, columns } = parseCsv(decoded);
   const planned: PlannedRow[] = [];
   const claimed = new Map<string, number>(); // position id → line of the row that matched it
   const boardsToCreate = new Map<string, string>();
@@ -421,7 +469,7 @@ export async function validateImport(db: Db, siteId: string, decoded: DecodedTex
       committed: false,
     },
   };
-  return { response, planned, state };
+  return { response, planned };
 }
 
 /**

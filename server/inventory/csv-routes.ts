@@ -9,7 +9,7 @@ import { actorOf } from "./common";
 import { decodeCsvBytes, fromText } from "../csv-read";
 import { ImportChanged, ImportInvalid, commitImport } from "./csv-commit";
 import { exportInventoryCsv } from "./csv-export";
-import { validateImport } from "./csv-import";
+import { answerOf, validateImport } from "./csv-import";
 
 /**
  * 2 MB of CSV is some 10 000 rows, more than any board set; larger gets 413 (JSON {csv} too: its
@@ -45,18 +45,20 @@ export function csvRoutes(db: Db) {
           csv: "Not a text file",
         },
       );
-    if (mode === "preview") return void res.json((await validateImport(db, siteId, decoded)).response);
+    if (mode === "preview") return void res.json(answerOf((await validateImport(db, siteId, decoded)).response));
     try {
-      res.status(201).json(await commitImport(db, siteId, actorOf(res), decoded, expect));
+      res.status(201).json(answerOf(await commitImport(db, siteId, actorOf(res), decoded, expect)));
     } catch (e) {
-      if (e instanceof ImportInvalid)
-        return void res.status(400).json({
-          error: { code: e.code, message: e.message, fields: e.fields, rows: e.result.rows, summary: e.result.summary },
-        });
-      if (e instanceof ImportChanged)
+      if (e instanceof ImportInvalid) {
+        const { rows, summary } = answerOf(e.result);
         return void res
-          .status(409)
-          .json({ error: { code: e.code, message: e.message, rows: e.result.rows, summary: e.result.summary } });
+          .status(400)
+          .json({ error: { code: e.code, message: e.message, fields: e.fields, rows, summary } });
+      }
+      if (e instanceof ImportChanged) {
+        const { rows, summary } = answerOf(e.result);
+        return void res.status(409).json({ error: { code: e.code, message: e.message, rows, summary } });
+      }
       throw e;
     }
   });

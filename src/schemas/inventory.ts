@@ -617,6 +617,8 @@ export const importSummarySchema = z.object({
   /** SHA-256 of the plan; send it back as ?expect= with the commit. */
   planDigest: safeText(),
   committed: z.boolean(),
+  /** How many rows the answer lists (at most 1,000: problems, changes, new, then unchanged); `rows` counts them all. */
+  shown: z.number().optional(),
 });
 export type ImportSummary = z.infer<typeof importSummarySchema>;
 /** preview → 200 this (writes nothing); commit → 201 this with committed:true. */

@@ -71,6 +71,10 @@ describe("createdIdOf", () => {
     expect(createdIdOf({ photos: [{ id: "p1" }] })).toBe("p1");
     expect(createdIdOf({ reading: { id: "r1" } })).toBe("r1");
     expect(createdIdOf({ nothing: true })).toBeNull();
+    // The other field creates (issue 16): a defect, a thermal scan, a watch check with the incidents it raised.
+    expect(createdIdOf({ defect: { id: "d1", ref: 7 } })).toBe("d1");
+    expect(createdIdOf({ scan: { id: "t1" } })).toBe("t1");
+    expect(createdIdOf({ check: { id: "w1" }, incidents: [{ id: "x1", defectId: "d9" }] })).toBe("w1");
   });
 });
 
@@ -224,5 +228,66 @@ describe("outbox drain", () => {
     const store = memoryStore([photo]);
     await drain(store, "u1", fakeServer(() => "store").send);
     expect(store.map.get(photo.id)).toMatchObject({ state: "refused", error: { code: "parent_discarded" } });
+  });
+
+  it("a reading, a watch check, a defect and its photo go in the order made; a lost answer is repeated with its key and makes one row", async () => {
+    const reading = item({
+      kind: "insulation",
+      url: "/api/sites/s1/boards/b1/insulation-readings",
+      body: { megohms: 85 },
+    });
+    const watch = item({
+      kind: "watch_check",
+      url: "/api/sites/s1/return-to-service/stages/st1/watch-checks",
+      body: { at: "2026-12-02T10:05:00Z", lamps: "equal" },
+    });
+    const defect = item({ kind: "defect", url: "/api/sites/s1/defects", body: { title: "Verdigris" } });
+    const photo = item({
+      kind: "photo",
+      body: undefined,
+      photo: { blob: new Blob(["x"]), name: "v.jpg", fields: { kind: "damage" } },
+      dependsOn: { itemId: defect.id, field: "defectId" },
+    });
+    const store = memoryStore([photo, defect, watch, reading]);
+    // The watch check reaches the server but its answer is lost: stored there, "no answer" here.
+    let lostOnce = false;
+    const srv = fakeServer(() => "store");
+    const flaky: Transport = async (i, p) => {
+      const r = await srv.send(i, p);
+      if (i.id === watch.id && !lostOnce) {
+        lostOnce = true;
+        return offline;
+      }
+      return r;
+    };
+    const first = await drain(store, "u1", flaky, { now: () => 0, random: () => 0.5 });
+    expect(first.sent.map((i) => i.id)).toEqual([reading.id]);
+    expect(first.stoppedAt?.id).toBe(watch.id); // nothing overtakes it
+    const second = await drain(store, "u1", flaky, { now: () => 1_000_000 });
+    expect(second.sent.map((i) => i.id)).toEqual([watch.id, defect.id, photo.id]);
+    expect(srv.rows.size).toBe(4); // the repeated watch check answered from its key: no second row
+    expect(srv.calls.map((c) => c.key)).toEqual([reading.id, watch.id, watch.id, defect.id, photo.id]);
+    expect(srv.rows.get(defect.id)).toEqual({ id: "row-3" });
+    expect(srv.calls.at(-1)!.body).toEqual({ kind: "damage", defectId: "row-3" }); // the photo is filed to the new defect
+    expect(store.map.size).toBe(0);
+  });
+
+  it("a watch check the server refuses (the stage is no longer live) stays with its reason; the rest still go", async () => {
+    const watch = item({ kind: "watch_check", body: { lamps: "equal" } });
+    const reading = item({ kind: "thermal", body: { componentTempC: 40 } });
+    const store = memoryStore([watch, reading]);
+    const srv = fakeServer((i) =>
+      i.id === watch.id
+        ? {
+            ok: false,
+            status: 409,
+            error: { status: 409, code: "not_live", message: "Watch checks are recorded while the stage is live." },
+          }
+        : "store",
+    );
+    const r = await drain(store, "u1", srv.send);
+    expect(r.refused.map((i) => i.id)).toEqual([watch.id]);
+    expect(r.sent.map((i) => i.id)).toEqual([reading.id]);
+    expect(store.map.get(watch.id)).toMatchObject({ state: "refused", error: { code: "not_live" } });
   });
 });

@@ -1,6 +1,7 @@
 import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { z } from "zod";
 import { api, ApiError, qs } from "../../lib/api-client";
+import { submitOrQueue } from "../../lib/outbox";
 import {
   contextResponse,
   defectDetailSchema,
@@ -96,8 +97,18 @@ function useWrite<TVars, TOut>(siteId: string, fn: (v: TVars) => Promise<TOut>) 
   });
 }
 
+/** Raising a defect from the phone: saved at once online; with no signal kept in the outbox (issue 16). */
 export const useCreateDefect = (siteId: string) =>
-  useWrite(siteId, (b: Record<string, unknown>) => api.send("POST", base(siteId), b, one).then((d) => d.defect));
+  useWrite(siteId, (b: Record<string, unknown>) =>
+    submitOrQueue({
+      siteId,
+      kind: "defect",
+      label: `Defect: ${typeof b.title === "string" && b.title ? b.title : "untitled"}`,
+      url: base(siteId),
+      body: b,
+      parse: (d) => one.parse(d).defect,
+    }),
+  );
 export const usePatchDefect = (siteId: string, id: string) =>
   useWrite(siteId, (b: Record<string, unknown>) =>
     api.send("PATCH", `${base(siteId)}/${id}`, b, one).then((d) => d.defect),

@@ -1,6 +1,7 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { z } from "zod";
 import { api } from "../../lib/api-client";
+import { submitOrQueue } from "../../lib/outbox";
 import {
   boardReadingsSchema,
   componentReadingsSchema,
@@ -83,39 +84,54 @@ function useSiteMutation<B, R>(siteId: string, fn: (b: B) => Promise<R>) {
   return useMutation({ mutationFn: fn, onSuccess: () => qc.invalidateQueries({ queryKey: readingKeys.all(siteId) }) });
 }
 
+/**
+ * Readings from the phone (issue 16): online they are saved at once as before; with no signal they
+ * wait in the phone's outbox (src/lib/outbox) and `{queued: true}` comes back — the verdict is the
+ * server's, so it shows once the reading is there. `label` names the reading in the outbox's list.
+ */
 export const useRecordInsulation = (siteId: string, boardId: string) =>
-  useSiteMutation(siteId, (b: InsulationReadingBody) =>
-    api
-      .send(
-        "POST",
-        `${site(siteId)}/boards/${boardId}/insulation-readings`,
-        b,
-        z.object({ reading: insulationReadingSchema }),
-      )
-      .then((d) => d.reading),
+  useSiteMutation(siteId, ({ label, ...b }: InsulationReadingBody & { label: string }) =>
+    submitOrQueue({
+      siteId,
+      kind: "insulation",
+      label: `Insulation reading, ${label}`,
+      url: `${site(siteId)}/boards/${boardId}/insulation-readings`,
+      body: b,
+      parse: (d) => z.object({ reading: insulationReadingSchema }).parse(d).reading,
+    }),
   );
 export const useRecordContact = (siteId: string) =>
-  useSiteMutation(siteId, ({ componentId, ...b }: ContactReadingBody & { componentId: string }) =>
-    api
-      .send(
-        "POST",
-        `${site(siteId)}/components/${componentId}/contact-readings`,
-        b,
-        z.object({ reading: contactReadingSchema }),
-      )
-      .then((d) => d.reading),
+  useSiteMutation(siteId, ({ componentId, label, ...b }: ContactReadingBody & { componentId: string; label: string }) =>
+    submitOrQueue({
+      siteId,
+      kind: "contact",
+      label: `Contact resistance, ${label}`,
+      url: `${site(siteId)}/components/${componentId}/contact-readings`,
+      body: b,
+      parse: (d) => z.object({ reading: contactReadingSchema }).parse(d).reading,
+    }),
   );
 export const useRecordThermal = (siteId: string) =>
-  useSiteMutation(siteId, ({ componentId, ...b }: ThermalScanBody & { componentId: string }) =>
-    api
-      .send("POST", `${site(siteId)}/components/${componentId}/thermal-scans`, b, z.object({ scan: thermalScanSchema }))
-      .then((d) => d.scan),
+  useSiteMutation(siteId, ({ componentId, label, ...b }: ThermalScanBody & { componentId: string; label: string }) =>
+    submitOrQueue({
+      siteId,
+      kind: "thermal",
+      label: `Thermal scan, ${label}`,
+      url: `${site(siteId)}/components/${componentId}/thermal-scans`,
+      body: b,
+      parse: (d) => z.object({ scan: thermalScanSchema }).parse(d).scan,
+    }),
   );
 export const useRecordGroundCheck = (siteId: string, boardId: string) =>
-  useSiteMutation(siteId, (b: GroundCheckBody) =>
-    api
-      .send("POST", `${site(siteId)}/boards/${boardId}/ground-checks`, b, z.object({ check: groundCheckSchema }))
-      .then((d) => d.check),
+  useSiteMutation(siteId, ({ label, ...b }: GroundCheckBody & { label: string }) =>
+    submitOrQueue({
+      siteId,
+      kind: "ground",
+      label: `Ground-lamp check, ${label}`,
+      url: `${site(siteId)}/boards/${boardId}/ground-checks`,
+      body: b,
+      parse: (d) => z.object({ check: groundCheckSchema }).parse(d).check,
+    }),
   );
 export const useSaveCriteria = (siteId: string) =>
   useSiteMutation(siteId, (b: CriteriaBody) =>

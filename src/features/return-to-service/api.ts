@@ -1,5 +1,6 @@
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { api } from "../../lib/api-client";
+import { submitOrQueue } from "../../lib/outbox";
 import type { QualifiedPerson, RtsBoardView, RtsOverviewBoard, RtsSettings } from "../../schemas/return-to-service";
 
 const site = (siteId: string) => `/api/sites/${siteId}`;
@@ -44,6 +45,27 @@ export function useRtsAction(siteId: string) {
   return useMutation({
     mutationFn: (v: { method: "POST" | "PUT" | "PATCH" | "DELETE"; path: string; body?: unknown }) =>
       api.raw(v.method, `${site(siteId)}${v.path}`, v.body ?? {}),
+    onSettled: () => qc.invalidateQueries({ queryKey: rtsKeys.all(siteId) }),
+  });
+}
+
+/**
+ * A watch check from the phone (issue 16). It carries the time it was made (`at`), so a check kept
+ * on the phone with no signal is logged at the minute it was made, not when it arrives. Online it
+ * is saved at once; with no signal it waits in the outbox and `{queued: true}` comes back.
+ */
+export function useRecordWatchCheck(siteId: string) {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (v: { stageId: string; stageName: string; body: Record<string, unknown> }) =>
+      submitOrQueue({
+        siteId,
+        kind: "watch_check",
+        label: `Watch check, ${v.stageName}`,
+        url: `${site(siteId)}/return-to-service/stages/${v.stageId}/watch-checks`,
+        body: { at: new Date().toISOString(), ...v.body },
+        parse: (d) => d as { incidents: Array<{ defectRef: number; defectId: string }> },
+      }),
     onSettled: () => qc.invalidateQueries({ queryKey: rtsKeys.all(siteId) }),
   });
 }

@@ -1,4 +1,5 @@
-import { useNavigate, useSearchParams } from "react-router";
+import { useState } from "react";
+import { Link, useNavigate, useSearchParams } from "react-router";
 import { SafetyNotice } from "../../../components/safety-notice";
 import { EmptyState, ErrorPanel, Loading } from "../../../components/status";
 import { paths } from "../../../config/paths";
@@ -7,9 +8,61 @@ import { useCreateDefect, useDefectOptions, useFindingContext } from "../../../f
 import { DefectForm } from "../../../features/defects/components/defect-form";
 import { useSiteContext } from "../sites/site-layout";
 import { can } from "../../../domain/permissions";
+import { InspectionPhotos } from "../../../features/photos/components/inspection-photos";
 
 const oneOf = <T extends string>(all: readonly T[], v: string | null) =>
   v && (all as readonly string[]).includes(v) ? (v as T) : undefined;
+
+/** A defect raised with no signal: it waits on the phone; photos of it wait for it. */
+function KeptDefect({
+  siteId,
+  itemId,
+  title,
+  onAnother,
+}: {
+  siteId: string;
+  itemId: string;
+  title: string;
+  onAnother: () => void;
+}) {
+  return (
+    <div
+      role="status"
+      className="space-y-2 rounded-lg border-2 border-tide-300 bg-hull-850 p-3"
+      data-testid="defect-pending"
+    >
+      <p className="font-semibold text-tide-300">
+        Defect “{title}” kept on this phone: no signal. It gets its number and joins the register when the connection
+        returns.
+      </p>
+      <p className="text-sm text-mist">
+        If it is a danger, mark the equipment and tell the curator or the qualified person in person now: nobody else
+        sees it until it is sent.
+      </p>
+      <InspectionPhotos
+        siteId={siteId}
+        pendingParent={{ itemId, field: "defectId" }}
+        defaultKind="damage"
+        label="Photos of this defect"
+      />
+      <div className="flex flex-wrap gap-2 text-sm">
+        <button
+          type="button"
+          onClick={onAnother}
+          className="min-h-11 rounded-md bg-brass-400 px-3 font-semibold text-hull-950"
+        >
+          Raise another
+        </button>
+        <Link
+          className="inline-flex min-h-11 items-center rounded-md px-3 ring-1 ring-hull-500"
+          to={paths.defects.href(siteId)}
+        >
+          Back to the register
+        </Link>
+      </div>
+    </div>
+  );
+}
 
 export default function RaiseDefectPage() {
   const { site, role } = useSiteContext();
@@ -23,6 +76,7 @@ export default function RaiseDefectPage() {
   const options = useDefectOptions(site.id);
   const context = useFindingContext(site.id, q);
   const create = useCreateDefect(site.id);
+  const [kept, setKept] = useState<{ itemId: string; title: string } | null>(null);
   const manage = can(role, "defects.manage");
   const readingKind = oneOf(["insulation", "contact", "thermal", "ground"] as const, params.get("readingKind"));
   const readingId = params.get("readingId");
@@ -45,10 +99,22 @@ export default function RaiseDefectPage() {
         </p>
       )}
       <SafetyNotice compact />
-      {waiting && <Loading />}
+      {kept && (
+        <KeptDefect
+          siteId={site.id}
+          itemId={kept.itemId}
+          title={kept.title}
+          onAnother={() => {
+            setKept(null);
+            create.reset();
+          }}
+        />
+      )}
+      {!kept && waiting && <Loading />}
       {options.isError && <ErrorPanel error={options.error} />}
       {options.data &&
         !waiting &&
+        !kept &&
         (options.data.boards.length === 0 ? (
           <EmptyState title="No boards yet">
             Add the site's boards in the inventory first; defects belong to a board.
@@ -67,7 +133,12 @@ export default function RaiseDefectPage() {
             onSubmit={(b) =>
               create.mutate(
                 { ...b, ...(fromReading ? { fromReading } : {}) },
-                { onSuccess: (d) => navigate(paths.defect.href(site.id, d.id)) },
+                {
+                  onSuccess: (r) =>
+                    r.queued
+                      ? setKept({ itemId: r.item.id, title: String(b.title ?? "") })
+                      : navigate(paths.defect.href(site.id, r.data.id)),
+                },
               )
             }
             pending={create.isPending}

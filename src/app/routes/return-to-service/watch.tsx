@@ -5,7 +5,7 @@ import { ErrorPanel, Loading } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { can } from "../../../domain/permissions";
 import { LAMP_LOOKS, LAMP_LOOK_LABELS } from "../../../schemas/return-to-service";
-import { useRtsAction, useRtsBoard } from "../../../features/return-to-service/api";
+import { useRecordWatchCheck, useRtsBoard } from "../../../features/return-to-service/api";
 import { ApiError } from "../../../lib/api-client";
 import { RtsCaution } from "../../../features/return-to-service/components/rts-caution";
 import { useSiteContext } from "../sites/site-layout";
@@ -19,14 +19,14 @@ export default function WatchPage() {
   const { boardId = "" } = useParams();
   const [search] = useSearchParams();
   const q = useRtsBoard(site.id, boardId);
-  const act = useRtsAction(site.id);
+  const act = useRecordWatchCheck(site.id);
   const [lamps, setLamps] = useState<(typeof LAMP_LOOKS)[number] | null>(null);
   const [phase, setPhase] = useState<"A" | "B" | "C" | null>(null);
   const [smell, setSmell] = useState(false);
   const [sound, setSound] = useState(false);
   const [warm, setWarm] = useState(false);
   const [note, setNote] = useState("");
-  const [done, setDone] = useState<{ text: string; defectId: string | null } | null>(null);
+  const [done, setDone] = useState<{ text: string; defectId: string | null; queued?: boolean } | null>(null);
   if (q.isPending) return <Loading what="Loading the stages under watch" />;
   if (q.isError) return <ErrorPanel error={q.error} />;
   const live = q.data.stages.filter((s) => s.status === "energised");
@@ -36,20 +36,29 @@ export default function WatchPage() {
   const save = () =>
     act.mutate(
       {
-        method: "POST",
-        path: `/return-to-service/stages/${stage!.id}/watch-checks`,
+        stageId: stage!.id,
+        stageName: stage!.name,
         body: { lamps, lampPhase: needsPhase ? phase : null, smell, sound, warmToHand: warm, note },
       },
       {
         onSuccess: (r) => {
-          const inc = (r as { incidents: Array<{ defectRef: number; defectId: string }> }).incidents;
+          const abnormal = lamps !== "equal" || smell || sound || warm;
+          const inc = r.queued ? [] : r.data.incidents;
           setDone(
-            inc.length
+            r.queued
               ? {
-                  text: `Saved. Incident recorded: defect D-${inc[0].defectRef} opened and the stage is stopped. Tell the qualified person now.`,
-                  defectId: inc[0].defectId,
+                  text: abnormal
+                    ? "Kept on this phone: no signal, so no incident is recorded and nobody is told yet. What you saw is not normal: tell the qualified person in person now and follow the stop procedure."
+                    : "Kept on this phone: no signal. It is logged at this minute and sent by itself when the connection returns.",
+                  defectId: null,
+                  queued: true,
                 }
-              : { text: "Saved. Thank you.", defectId: null },
+              : inc.length
+                ? {
+                    text: `Saved. Incident recorded: defect D-${inc[0].defectRef} opened and the stage is stopped. Tell the qualified person now.`,
+                    defectId: inc[0].defectId,
+                  }
+                : { text: "Saved. Thank you.", defectId: null },
           );
           setLamps(null);
           setPhase(null);
@@ -72,7 +81,8 @@ export default function WatchPage() {
       {done && (
         <p
           role="status"
-          className={`rounded-md p-3 font-semibold ${done.defectId ? "bg-rust-700 text-chalk" : "bg-hull-800"}`}
+          className={`rounded-md p-3 font-semibold ${done.defectId ? "bg-rust-700 text-chalk" : done.queued ? "border-2 border-tide-300 bg-hull-850 text-tide-300" : "bg-hull-800"}`}
+          data-testid={done.queued ? "watch-pending" : undefined}
         >
           {done.text}{" "}
           {done.defectId && (

@@ -1,10 +1,21 @@
-import { useRef, type KeyboardEvent } from "react";
+import { useCallback, useLayoutEffect, useMemo, useRef, useState, type KeyboardEvent, type RefObject } from "react";
+import { flushSync } from "react-dom";
+import { useVirtualizer, useWindowVirtualizer } from "@tanstack/react-virtual";
+import { usePrinting } from "../../../lib/use-printing";
 import { waterLineFromTop } from "../../../domain/board-geometry";
 import type { Board, TileRow } from "../contract";
 import { BoardTile } from "./board-tile";
 import { tileMatches, type TileFilters } from "./elevation-filters";
 
 const ROW_REM = 5.5;
+/**
+ * Boards with more positions than this draw only the grid rows and columns on screen (plus a
+ * margin), through @tanstack/react-virtual: a board of 3,600 positions drew every tile in one
+ * long task (6.5 s on the bench's phone profile for 341). Smaller boards draw whole, so every
+ * tile stays findable with the browser's find-in-page. Printing always draws every tile.
+ */
+export const WINDOW_FROM = 200;
+const OVERSCAN = 2;
 
 /** The tile nearest in the arrow's direction, scored on centre distance (off-axis counts double). */
 export function neighbour(tiles: TileRow[], from: TileRow, key: string): TileRow | undefined {
@@ -51,6 +62,112 @@ function WaterLine({ board }: { board: Board }) {
   );
 }
 
+interface Geometry {
+  /** Row track + row gap, px. */
+  rowStep: number;
+  /** Column track + column gap, px. */
+  colStep: number;
+  /** Where row 1 starts, from the top of the document. */
+  top: number;
+  /** Where column 1 starts, from the left of the scroll box's content. */
+  left: number;
+}
+
+/** Reads the grid's resolved track sizes and where its first cell sits (CSS grid has already laid it out). */
+function measure(grid: HTMLElement, box: HTMLElement): Geometry {
+  const cs = getComputedStyle(grid);
+  const first = (v: string) => parseFloat(v.split(" ")[0]) || 0;
+  const g = grid.getBoundingClientRect();
+  const b = box.getBoundingClientRect();
+  return {
+    rowStep: first(cs.gridTemplateRows) + (parseFloat(cs.rowGap) || 0),
+    colStep: first(cs.gridTemplateColumns) + (parseFloat(cs.columnGap) || 0),
+    top: g.top + window.scrollY + grid.clientTop + (parseFloat(cs.paddingTop) || 0),
+    left: g.left - b.left + box.scrollLeft + grid.clientLeft + (parseFloat(cs.paddingLeft) || 0),
+  };
+}
+
+const sameGeometry = (a: Geometry | null, b: Geometry) =>
+  !!a &&
+  Math.abs(a.rowStep - b.rowStep) < 0.5 &&
+  Math.abs(a.colStep - b.colStep) < 0.5 &&
+  Math.abs(a.top - b.top) < 0.5 &&
+  Math.abs(a.left - b.left) < 0.5;
+
+/**
+ * Which tiles to draw: with windowing, those whose cells meet the visible rows and columns
+ * (the page scrolls the rows, the board's own box scrolls the columns), plus the tile that holds
+ * the keyboard focus and the open one, so Tab and the arrow keys always have a tile to land on.
+ */
+function useTileWindow(
+  tiles: TileRow[],
+  board: Board,
+  keep: (string | null | undefined)[],
+  big: boolean,
+  printing: boolean,
+  gridRef: RefObject<HTMLDivElement | null>,
+  boxRef: RefObject<HTMLDivElement | null>,
+) {
+  const [geo, setGeo] = useState<Geometry | null>(null);
+  useLayoutEffect(() => {
+    const grid = gridRef.current;
+    const box = boxRef.current;
+    if (!big || !grid || !box) return;
+    const update = () => {
+      const next = measure(grid, box);
+      setGeo((prev) => (sameGeometry(prev, next) ? prev : next));
+    };
+    update();
+    const ro = new ResizeObserver(update);
+    ro.observe(grid);
+    ro.observe(document.body);
+    window.addEventListener("resize", update);
+    return () => {
+      ro.disconnect();
+      window.removeEventListener("resize", update);
+    };
+  }, [big, gridRef, boxRef]);
+  const rowStep = geo?.rowStep || 96;
+  const colStep = geo?.colStep || 96;
+  const rows = useWindowVirtualizer({
+    count: board.gridRows,
+    estimateSize: () => rowStep,
+    overscan: OVERSCAN,
+    scrollMargin: geo?.top ?? 0,
+    enabled: big && !!geo,
+  });
+  const cols = useVirtualizer({
+    count: board.gridCols,
+    horizontal: true,
+    getScrollElement: () => boxRef.current,
+    estimateSize: () => colStep,
+    overscan: OVERSCAN,
+    scrollMargin: geo?.left ?? 0,
+    enabled: big && !!geo,
+  });
+  useLayoutEffect(() => {
+    rows.measure();
+    cols.measure();
+  }, [rowStep, colStep, rows, cols]);
+  const rowItems = rows.getVirtualItems();
+  const colItems = cols.getVirtualItems();
+  const r0 = rowItems.length ? rowItems[0].index + 1 : 1;
+  const r1 = rowItems.length ? rowItems[rowItems.length - 1].index + 1 : 0;
+  const c0 = colItems.length ? colItems[0].index + 1 : 1;
+  const c1 = colItems.length ? colItems[colItems.length - 1].index + 1 : 0;
+  const keepKey = keep.join("|");
+  const windowed = big && !printing;
+  return useMemo(() => {
+    if (!windowed) return tiles;
+    const kept = new Set(keepKey.split("|").filter(Boolean));
+    return tiles.filter(
+      (t) =>
+        kept.has(t.id) ||
+        (t.gridRow <= r1 && t.gridRow + t.rowSpan - 1 >= r0 && t.gridCol <= c1 && t.gridCol + t.colSpan - 1 >= c0),
+    );
+  }, [tiles, windowed, r0, r1, c0, c1, keepKey]);
+}
+
 export function BoardElevation({
   board,
   tiles,
@@ -64,16 +181,33 @@ export function BoardElevation({
   selectedId: string | null;
   onOpen: (t: TileRow) => void;
 }) {
-  const refs = useRef(new Map<string, HTMLButtonElement>());
-  const focusId = selectedId ?? tiles[0]?.id;
-  function onKeyDown(e: KeyboardEvent<HTMLButtonElement>, t: TileRow) {
-    const next = neighbour(tiles, t, e.key);
-    if (!next) return;
-    e.preventDefault();
-    refs.current.get(next.id)?.focus();
-  }
+  const gridRef = useRef<HTMLDivElement>(null);
+  const boxRef = useRef<HTMLDivElement>(null);
+  const printing = usePrinting();
+  const [activeId, setActiveId] = useState<string | null>(null);
+  const focusId = (activeId && tiles.some((t) => t.id === activeId) ? activeId : null) ?? selectedId ?? tiles[0]?.id;
+  const big = tiles.length > WINDOW_FROM;
+  const windowed = big && !printing;
+  const drawn = useTileWindow(tiles, board, [focusId, selectedId], big, printing, gridRef, boxRef);
+  const onKeyDown = useCallback(
+    (e: KeyboardEvent<HTMLButtonElement>, t: TileRow) => {
+      const next = neighbour(tiles, t, e.key);
+      if (!next) return;
+      e.preventDefault();
+      // Draw the tile first (it may lie outside the window), then focus it: focus scrolls it into view.
+      flushSync(() => setActiveId(next.id));
+      gridRef.current?.querySelector<HTMLElement>(`[data-position-id="${next.id}"]`)?.focus();
+    },
+    [tiles],
+  );
   return (
-    <div className="overflow-x-auto rounded-lg bg-hull-950 p-2 ring-1 ring-hull-700" data-testid="board-elevation">
+    <div
+      ref={boxRef}
+      className="overflow-x-auto rounded-lg bg-hull-950 p-2 ring-1 ring-hull-700"
+      data-testid="board-elevation"
+      data-windowed={windowed || undefined}
+      data-drawn={drawn.length}
+    >
       {board.waterLineMm != null && board.faceHeightMm ? (
         <p className="mb-2 text-sm text-tide-300">
           The flood reached {board.waterLineMm} mm up this {board.faceHeightMm} mm face; the tinted band is below that
@@ -83,6 +217,7 @@ export function BoardElevation({
         <p className="mb-2 text-sm text-fog">No water line recorded for this board yet.</p>
       )}
       <div
+        ref={gridRef}
         role="group"
         aria-label={`Front of ${board.name}: ${tiles.length} positions. Use the arrow keys to move between them, Enter to open one.`}
         className="relative grid gap-1.5 rounded-md border-4 border-hull-700 bg-hull-900 p-1.5"
@@ -92,19 +227,16 @@ export function BoardElevation({
           minWidth: `${board.gridCols * 5.6}rem`,
         }}
       >
-        {tiles.map((t) => (
+        {drawn.map((t) => (
           <BoardTile
             key={t.id}
-            ref={(el) => {
-              if (el) refs.current.set(t.id, el);
-              else refs.current.delete(t.id);
-            }}
             tile={t}
             dimmed={!tileMatches(t, filters)}
             selected={t.id === selectedId}
             tabIndex={t.id === focusId ? 0 : -1}
             onOpen={onOpen}
             onKeyDown={onKeyDown}
+            onFocus={setActiveId}
           />
         ))}
         <WaterLine board={board} />

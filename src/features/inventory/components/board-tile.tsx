@@ -11,6 +11,8 @@ interface Props {
   tabIndex: number;
   onOpen: (tile: TileRow) => void;
   onKeyDown: (e: KeyboardEvent<HTMLButtonElement>, tile: TileRow) => void;
+  /** Told which tile took the focus (the board keeps that one drawn and in the tab order). */
+  onFocus?: (id: string) => void;
 }
 
 /** The words a screen reader hears for one tile: everything the drawing shows. */
@@ -29,7 +31,7 @@ export function tileDescription(t: TileRow): string {
 }
 
 export const BoardTile = forwardRef<HTMLButtonElement, Props>(function BoardTile(
-  { tile: t, dimmed, selected, tabIndex, onOpen, onKeyDown },
+  { tile: t, dimmed, selected, tabIndex, onOpen, onKeyDown, onFocus },
   ref,
 ) {
   const c = t.component;
@@ -48,6 +50,7 @@ export const BoardTile = forwardRef<HTMLButtonElement, Props>(function BoardTile
       tabIndex={tabIndex}
       onClick={() => onOpen(t)}
       onKeyDown={(e) => onKeyDown(e, t)}
+      onFocus={onFocus ? () => onFocus(t.id) : undefined}
       style={{
         gridRow: `${t.gridRow} / span ${t.rowSpan}`,
         gridColumn: `${t.gridCol} / span ${t.colSpan}`,

@@ -34,6 +34,12 @@ export function ImportSummary({ preview }: { preview: ImportResponse }) {
       <p className={s.failed ? "text-flare-300" : "text-kelp-300"}>
         {s.rows} rows: {s.created} new, {s.changed} changed, {s.unchanged} unchanged, {s.failed} with problems.
       </p>
+      {s.shown !== undefined && s.shown < s.rows && (
+        <p>
+          Listed below: {s.shown} of the {s.rows} rows (problems first, then changes, new and unchanged rows). The
+          counts above and applying cover every row.
+        </p>
+      )}
       {s.boardsToCreate.length > 0 && <p>New boards: {s.boardsToCreate.join(", ")}.</p>}
       {s.sectionsToCreate.length > 0 && <p>New sections: {s.sectionsToCreate.join(", ")}.</p>}
       {s.ignoredColumns.length > 0 && <p>Columns Tideline does not know, ignored: {s.ignoredColumns.join(", ")}.</p>}

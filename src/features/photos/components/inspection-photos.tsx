@@ -24,7 +24,7 @@ export function InspectionPhotos({
 }: {
   siteId: string;
   /** The inspection or move is itself waiting in the outbox (no signal): its photos wait for it. */
-  pendingParent?: { itemId: string; field: "inspectionId" | "custodyMoveId" };
+  pendingParent?: { itemId: string; field: "inspectionId" | "custodyMoveId" | "defectId" };
   inspectionId?: string;
   custodyMoveId?: string;
   defectId?: string;

@@ -4,7 +4,15 @@ import { TextField } from "../../../components/field";
 import { contactReadingBody } from "../../../schemas/readings";
 import { useRecordContact } from "../api";
 import { fieldErrors, numOrNull, toIso } from "../format";
-import { ComponentSelect, FormShell, NumberField, WhenField, saveErrors, type TargetOption } from "./form-bits";
+import {
+  ComponentSelect,
+  FormShell,
+  KeptOnPhone,
+  NumberField,
+  WhenField,
+  saveErrors,
+  type TargetOption,
+} from "./form-bits";
 import { VerdictBadge } from "./verdict-badge";
 
 export function ContactForm({
@@ -21,6 +29,7 @@ export function ContactForm({
   const [errors, setErrors] = useState<Record<string, string>>({});
   const [message, setMessage] = useState<string | null>(null);
   const [saved, setSaved] = useState<null | { verdict: Verdict; reasons: string[] }>(null);
+  const [queued, setQueued] = useState(false);
 
   function submit(e: FormEvent<HTMLFormElement>) {
     e.preventDefault();
@@ -45,9 +54,16 @@ export function ContactForm({
     }
     setErrors({});
     save.mutate(
-      { componentId, ...parsed.data },
       {
-        onSuccess: (r) => setSaved(r.judgement),
+        componentId,
+        label: options.find((o) => o.componentId === componentId)?.designation ?? "breaker",
+        ...parsed.data,
+      },
+      {
+        onSuccess: (r) => {
+          setQueued(r.queued);
+          setSaved(r.queued ? null : r.data.judgement);
+        },
         onError: (err) => {
           const s = saveErrors(err);
           setErrors(s.fields);
@@ -100,6 +116,7 @@ export function ContactForm({
         <WhenField error={errors.measuredAt} />
         <TextField label="Notes" name="notes" className="sm:col-span-2" />
       </FormShell>
+      {queued && <KeptOnPhone what="Contact readings" />}
       {saved && (
         <div role="status" className="rounded-md bg-hull-800 p-3">
           <VerdictBadge verdict={saved.verdict} />

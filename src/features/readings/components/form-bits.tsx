@@ -57,6 +57,25 @@ export function FormShell({
   );
 }
 
+/**
+ * A reading saved with no signal: it waits on this phone (src/lib/outbox) and is sent by itself.
+ * Its verdict, and any incident a live stage would raise from it, come from the server on arrival,
+ * so a reading that looks dangerous must be acted on now, in person.
+ */
+export function KeptOnPhone({ what }: { what: string }) {
+  return (
+    <div role="status" className="rounded-md border-2 border-tide-300 bg-hull-850 p-3" data-testid="reading-pending">
+      <p className="font-semibold text-tide-300">
+        {what} kept on this phone: no signal. It is sent by itself when the connection returns.
+      </p>
+      <p className="mt-1 text-sm text-mist">
+        Its verdict shows once the server has it. If what you measured looks wrong or dangerous, act on it now and tell
+        the qualified person in person: nothing is raised from it until it arrives.
+      </p>
+    </div>
+  );
+}
+
 export function WhenField({ error }: { error?: string }) {
   return (
     <TextField

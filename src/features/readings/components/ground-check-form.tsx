@@ -3,7 +3,7 @@ import { TextField } from "../../../components/field";
 import { LAMP_LOOKS, PHASE_KEYS, groundCheckBody } from "../../../schemas/readings";
 import { useRecordGroundCheck } from "../api";
 import { fieldErrors, numOrNull, toIso } from "../format";
-import { FormShell, NumberField, WhenField, saveErrors } from "./form-bits";
+import { FormShell, KeptOnPhone, NumberField, WhenField, saveErrors } from "./form-bits";
 
 const LOOK_LABEL = { bright: "Bright", dim: "Dim", dark: "Dark" } as const;
 
@@ -22,6 +22,7 @@ export function GroundCheckForm({
   const [errors, setErrors] = useState<Record<string, string>>({});
   const [message, setMessage] = useState<string | null>(null);
   const [saved, setSaved] = useState<string | null>(null);
+  const [queued, setQueued] = useState(false);
 
   function submit(e: FormEvent<HTMLFormElement>) {
     e.preventDefault();
@@ -45,14 +46,20 @@ export function GroundCheckForm({
       return;
     }
     setErrors({});
-    save.mutate(parsed.data, {
-      onSuccess: (c) => setSaved(c.judgement.words),
-      onError: (err) => {
-        const s = saveErrors(err);
-        setErrors(s.fields);
-        setMessage(s.message);
+    save.mutate(
+      { ...parsed.data, label: parsed.data.energisation || "this board" },
+      {
+        onSuccess: (r) => {
+          setQueued(r.queued);
+          setSaved(r.queued ? null : r.data.judgement.words);
+        },
+        onError: (err) => {
+          const s = saveErrors(err);
+          setErrors(s.fields);
+          setMessage(s.message);
+        },
       },
-    });
+    );
   }
 
   return (
@@ -129,6 +136,7 @@ export function GroundCheckForm({
         <WhenField error={errors.measuredAt} />
         <TextField label="Notes" name="notes" />
       </FormShell>
+      {queued && <KeptOnPhone what="Lamp check" />}
       {saved && (
         <p role="status" className="rounded-md bg-hull-800 p-3 font-semibold">
           {saved}

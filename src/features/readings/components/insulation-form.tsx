@@ -9,6 +9,7 @@ import {
   NumberField,
   QualifierField,
   WhenField,
+  KeptOnPhone,
   saveErrors,
   type TargetOption,
 } from "./form-bits";
@@ -30,6 +31,7 @@ export function InsulationForm({
   const [errors, setErrors] = useState<Record<string, string>>({});
   const [message, setMessage] = useState<string | null>(null);
   const [last, setLast] = useState<InsulationReading | null>(null);
+  const [queued, setQueued] = useState(false);
 
   function submit(e: FormEvent<HTMLFormElement>) {
     e.preventDefault();
@@ -66,17 +68,22 @@ export function InsulationForm({
       return;
     }
     setErrors({});
-    save.mutate(parsed.data, {
-      onSuccess: (r) => {
-        setLast(r);
-        (form.elements.namedItem("megohms") as HTMLInputElement).value = "";
+    const label = options.find((o) => o.componentId === parsed.data.componentId)?.designation ?? parsed.data.circuit;
+    save.mutate(
+      { ...parsed.data, label: `${label} ${parsed.data.conductors}` },
+      {
+        onSuccess: (r) => {
+          setQueued(r.queued);
+          setLast(r.queued ? null : r.data);
+          (form.elements.namedItem("megohms") as HTMLInputElement).value = "";
+        },
+        onError: (err) => {
+          const s = saveErrors(err);
+          setErrors(s.fields);
+          setMessage(s.message);
+        },
       },
-      onError: (err) => {
-        const s = saveErrors(err);
-        setErrors(s.fields);
-        setMessage(s.message);
-      },
-    });
+    );
   }
 
   return (
@@ -155,6 +162,7 @@ export function InsulationForm({
         </details>
         <TextField label="Notes" name="notes" className="sm:col-span-2" error={errors.notes} />
       </FormShell>
+      {queued && <KeptOnPhone what="Reading" />}
       {last && (
         <p role="status" className="rounded-md bg-hull-800 p-3">
           Saved: {megohms(last.megohms, last.megohmsQualifier)} at {last.equipmentTempC} °C is{" "}

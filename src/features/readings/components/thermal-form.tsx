@@ -3,7 +3,15 @@ import { TextField } from "../../../components/field";
 import { thermalScanBody } from "../../../schemas/readings";
 import { useRecordThermal } from "../api";
 import { fieldErrors, numOrNull, toIso } from "../format";
-import { ComponentSelect, FormShell, NumberField, WhenField, saveErrors, type TargetOption } from "./form-bits";
+import {
+  ComponentSelect,
+  FormShell,
+  KeptOnPhone,
+  NumberField,
+  WhenField,
+  saveErrors,
+  type TargetOption,
+} from "./form-bits";
 
 export function ThermalForm({
   siteId,
@@ -18,6 +26,7 @@ export function ThermalForm({
   const [errors, setErrors] = useState<Record<string, string>>({});
   const [message, setMessage] = useState<string | null>(null);
   const [saved, setSaved] = useState<string | null>(null);
+  const [queued, setQueued] = useState(false);
 
   function submit(e: FormEvent<HTMLFormElement>) {
     e.preventDefault();
@@ -46,9 +55,16 @@ export function ThermalForm({
     }
     setErrors({});
     save.mutate(
-      { componentId, ...parsed.data },
       {
-        onSuccess: (s) => setSaved(`Level ${s.judgement.level}: ${s.judgement.action}.`),
+        componentId,
+        label: options.find((o) => o.componentId === componentId)?.designation ?? "component",
+        ...parsed.data,
+      },
+      {
+        onSuccess: (r) => {
+          setQueued(r.queued);
+          setSaved(r.queued ? null : `Level ${r.data.judgement.level}: ${r.data.judgement.action}.`);
+        },
         onError: (err) => {
           const s = saveErrors(err);
           setErrors(s.fields);
@@ -83,6 +99,7 @@ export function ThermalForm({
         <WhenField error={errors.measuredAt} />
         <TextField label="Notes" name="notes" className="sm:col-span-2" />
       </FormShell>
+      {queued && <KeptOnPhone what="Thermal scan" />}
       {saved && (
         <p role="status" className="rounded-md bg-hull-800 p-3">
           Saved. {saved}

@@ -1,0 +1,75 @@
+/**
+ * A board of thousands of positions draws only the tiles on screen (issue 15): the test makes
+ * its own 40 × 50 board (2,000 positions) through the inventory import, then checks on a phone
+ * viewport that only a window of tiles is in the page, that scrolling reaches the last row and
+ * column, that the arrow keys walk past the drawn window, and that print draws every tile.
+ */
+import { expect, test } from "@playwright/test";
+import { expectNoSeriousA11yViolations } from "./support/a11y";
+import { signIn } from "./support/auth";
+
+const ROWS = 40;
+const COLS = 50;
+const at = (r: number, c: number) => `W${String(r).padStart(2, "0")}-${String(c).padStart(2, "0")}`;
+
+test("a board of 2,000 positions draws a window of tiles, scrolls to the last one and prints whole", async ({
+  page,
+}) => {
+  test.setTimeout(300_000);
+  await signIn(page, "curator");
+  const siteId = page.url().split("/sites/")[1].split("/")[0];
+  const name = `Windowed board ${Date.now().toString(36)}`;
+  const lines = ["board,designation,kind,grid_row,grid_col"];
+  for (let r = 1; r <= ROWS; r++) for (let c = 1; c <= COLS; c++) lines.push(`${name},${at(r, c)},fuse,${r},${c}`);
+  const made = await page.request.post(`/api/sites/${siteId}/inventory/import?mode=commit`, {
+    headers: { "content-type": "text/csv", origin: new URL(page.url()).origin },
+    data: lines.join("\r\n") + "\r\n",
+    timeout: 120_000,
+  });
+  expect(made.status(), await made.text()).toBe(201);
+  const boards = (await (await page.request.get(`/api/sites/${siteId}/boards`)).json()) as {
+    id: string;
+    name: string;
+  }[];
+  const board = boards.find((b) => b.name === name)!;
+
+  await page.setViewportSize({ width: 360, height: 740 });
+  await page.goto(`/sites/${siteId}/boards/${board.id}`);
+  const elevation = page.getByTestId("board-elevation");
+  const tiles = elevation.locator("[data-position-id]");
+  await expect(page.getByTestId(`tile-${at(1, 1)}`)).toBeAttached();
+  await expect(elevation).toHaveAttribute("data-windowed", "true");
+  await expect(page.getByRole("group", { name: /2000 positions/ })).toBeVisible();
+  const first = await tiles.count();
+  expect(first).toBeGreaterThan(0);
+  expect(first).toBeLessThan(300); // a window, not 2,000
+  await page.screenshot({ path: ".data/test-results/board-window-phone.png" });
+
+  // Scroll the page to the board's bottom edge and the board's own box to its right edge: the last tile is drawn.
+  await elevation.evaluate((el) => {
+    window.scrollTo(0, el.getBoundingClientRect().bottom + window.scrollY - window.innerHeight);
+    el.scrollLeft = el.scrollWidth;
+  });
+  const last = page.getByTestId(`tile-${at(ROWS, COLS)}`);
+  await expect(last).toBeInViewport();
+  await page.screenshot({ path: ".data/test-results/board-window-phone-end.png" });
+  await expect(page.getByTestId(`tile-${at(2, 2)}`)).toHaveCount(0); // W01-01 stays: it holds the tab stop
+  expect(await tiles.count()).toBeLessThan(300);
+
+  // The arrow keys walk beyond the drawn window: from the last tile up 20 rows and left 10 columns.
+  await last.focus();
+  for (let i = 0; i < 20; i++) await page.keyboard.press("ArrowUp");
+  for (let i = 0; i < 10; i++) await page.keyboard.press("ArrowLeft");
+  const focused = page.locator(":focus");
+  await expect(focused).toHaveAttribute("data-testid", `tile-${at(ROWS - 20, COLS - 10)}`);
+  await expect(focused).toBeInViewport();
+  await page.keyboard.press("Enter");
+  await expect(page).toHaveURL(/position=/);
+  await expectNoSeriousA11yViolations(page, "windowed board");
+
+  // Print draws every tile (slow on a loaded machine: every tile is drawn); the screen goes back to a window.
+  await page.emulateMedia({ media: "print" });
+  await expect(tiles).toHaveCount(ROWS * COLS, { timeout: 90_000 });
+  await page.emulateMedia({ media: "screen" });
+  await expect.poll(() => tiles.count(), { timeout: 90_000 }).toBeLessThan(300);
+});
