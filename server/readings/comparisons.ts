@@ -4,10 +4,15 @@
  * latest reading against the one before it (compareWithPrevious). Only readings valid for
  * judging and corrected to the site's base temperature take part.
  */
-import { comparePhases, compareWithPrevious, type PhaseKey } from "../../src/domain/insulation-comparison";
-import type { InsulationReading, PhaseComparison } from "../../src/schemas/readings";
+import {
+  PHASE_COMPARISON_SOURCE,
+  comparePhases,
+  compareWithPrevious,
+  type PhaseKey,
+} from "../../src/domain/insulation-comparison";
+import { phaseComparisonKey, type InsulationReading, type PhaseComparison } from "../../src/schemas/readings";
 
-const keyOf = (r: InsulationReading) => (r.componentId ? `c:${r.componentId}` : `circuit:${r.circuit}`);
+const keyOf = (r: InsulationReading) => phaseComparisonKey(r);
 const labelOf = (r: InsulationReading) =>
   r.designation ? `${r.designation}${r.circuit ? ` · ${r.circuit}` : ""}` : r.circuit;
 
@@ -54,6 +59,7 @@ export function phaseComparisons(readings: InsulationReading[]): PhaseComparison
       flagged: phases.flagged,
       trend,
       reasons,
+      source: { ...PHASE_COMPARISON_SOURCE },
     });
   }
   return out;

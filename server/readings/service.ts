@@ -32,7 +32,7 @@ import {
   tripDto,
   type Overrides,
 } from "./judge";
-import { groundHuntFinding } from "../../src/domain/ground-detection";
+import { GROUND_HUNT_SOURCE, groundHuntFinding } from "../../src/domain/ground-detection";
 import type { GroundHunt, groundHuntBody, stepVoltageBody, tripTestBody } from "../../src/schemas/readings";
 import * as repo from "./repository";
 
@@ -648,6 +648,6 @@ export async function listGroundHunts(db: Db, siteId: string, boardId: string): 
     byHunt.get(s.hunt)!.push(s);
   }
   return [...byHunt]
-    .map(([hunt, st]) => ({ hunt, steps: st, finding: groundHuntFinding(st) }))
+    .map(([hunt, st]) => ({ hunt, steps: st, finding: groundHuntFinding(st), source: { ...GROUND_HUNT_SOURCE } }))
     .sort((a, b) => Date.parse(b.steps.at(-1)!.measuredAt) - Date.parse(a.steps.at(-1)!.measuredAt));
 }

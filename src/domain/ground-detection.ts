@@ -224,6 +224,11 @@ export interface GroundHuntStep {
  * alike (balanced, not dark) points at the feeder just opened. Returns that feeder, or
  * null while no opening has cleared the ground.
  */
+export const GROUND_HUNT_SOURCE = {
+  table: "Ground hunt by opening feeders one at a time (common practice)",
+  text: "With the ground showing on the lamps, open one feeder at a time and watch them: the opening after which all three lamps look alike again points at that feeder or what it feeds. Confirm with an insulation test before closing it again.",
+} as const;
+
 export function groundHuntFinding(steps: readonly GroundHuntStep[]): { feeder: string | null; words: string } {
   let showing = true;
   for (const s of steps) {

@@ -15,6 +15,12 @@ export const STEP_VOLTAGE_FALL_FLAG = 0.25;
 
 export type PhaseKey = "A" | "B" | "C";
 
+/** Where the two comparison rules come from, for the screens that show a comparison. */
+export const PHASE_COMPARISON_SOURCE = {
+  table: "Phase balance and trend (Tideline's rules, common practice)",
+  text: `A phase-to-ground reading under ${PHASE_RATIO_FLAG * 100} % of the highest phase of the same circuit, or a drop of more than ${TREND_DROP_FLAG * 100} % since the previous test of the same conductors (both corrected to the same base temperature), is flagged for investigation. Only readings valid for judging take part.`,
+} as const;
+
 /**
  * Phase-to-ground readings of one circuit compared with each other (same temperature
  * base). Rule: flag a phase whose value is under PHASE_RATIO_FLAG × the highest.

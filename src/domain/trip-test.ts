@@ -19,6 +19,9 @@ export const TRIP_UNIT_LABELS: Record<TripUnit, string> = {
   electronic: "Electronic trip unit",
 };
 
+/** Component kinds a crew trip-tests by primary injection (a bus tie is a breaker too). Common practice. */
+export const TRIP_TESTABLE_KINDS = ["molded_case_breaker", "power_breaker", "bus_tie", "electronic_trip_unit"] as const;
+
 export interface InverseTimeRow {
   /** Highest continuous-current rating this row covers, A. */
   maxAmps: number;

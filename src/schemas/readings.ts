@@ -470,6 +470,7 @@ export const groundHuntSchema = z.object({
   hunt: safeText(),
   steps: z.array(groundHuntStepSchema),
   finding: z.object({ feeder: safeText().nullable(), words: safeText() }),
+  source: sourceSchema,
 });
 export type GroundHunt = z.infer<typeof groundHuntSchema>;
 
@@ -489,8 +490,12 @@ export const phaseComparisonSchema = z.object({
     }),
   ),
   reasons: z.array(safeText()),
+  source: sourceSchema,
 });
 export type PhaseComparison = z.infer<typeof phaseComparisonSchema>;
+/** Which readings one phase comparison groups: a component's, else a named circuit's. */
+export const phaseComparisonKey = (r: { componentId: string | null; circuit: string }) =>
+  r.componentId ? `c:${r.componentId}` : `circuit:${r.circuit}`;
 
 export const boardReadingsSchema = z.object({
   board: z.object({ id: safeText(), name: safeText(), nominalVolts: z.number() }),

@@ -150,6 +150,9 @@ describe("insulation readings as a flooded board gives them", () => {
     const b = (await as.viewer.get(`${site()}/boards/${boardId}/readings`)).body;
     const cmp = b.phaseComparisons.find((c: { key: string }) => c.key === `c:${componentId}`);
     expect(cmp.flagged).toEqual(["C"]);
+    // the screens show the rule's source beside the comparison
+    expect(cmp.source.table).toMatch(/common practice/);
+    expect(cmp.source.text).toContain("50 %");
   });
 });
 
@@ -228,5 +231,6 @@ describe("trip tests, step voltage, ground hunt", () => {
     const hunts = (await as.viewer.get(`${site()}/boards/${boardId}/ground-hunts`)).body.hunts;
     expect(hunts[0]).toMatchObject({ hunt: "Energisation 1", finding: { feeder: "2-1" } });
     expect(hunts[0].steps).toHaveLength(3);
+    expect(hunts[0].source.table).toBe("Ground hunt by opening feeders one at a time (common practice)");
   });
 });

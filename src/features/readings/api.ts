@@ -8,14 +8,20 @@ import {
   contactReadingSchema,
   criteriaSchema,
   groundCheckSchema,
+  groundHuntStepSchema,
   insulationReadingSchema,
+  stepVoltageSchema,
+  tripTestSchema,
   overrideSchema,
   readingTargetsSchema,
   thermalScanSchema,
   type ContactReadingBody,
   type CriteriaBody,
   type GroundCheckBody,
+  type GroundHuntBody,
   type InsulationReadingBody,
+  type StepVoltageBody,
+  type TripTestBody,
   type OverrideBody,
   type ThermalScanBody,
 } from "../../schemas/readings";
@@ -158,4 +164,22 @@ export const useRemoveOverride = (siteId: string, componentId: string) =>
       undefined,
       z.object({ override: z.null() }),
     ),
+  );
+export const useRecordTripTest = (siteId: string) =>
+  useSiteMutation(siteId, ({ componentId, ...b }: TripTestBody & { componentId: string }) =>
+    api
+      .send("POST", `${site(siteId)}/components/${componentId}/trip-tests`, b, z.object({ test: tripTestSchema }))
+      .then((d) => d.test),
+  );
+export const useRecordStepTest = (siteId: string, boardId: string) =>
+  useSiteMutation(siteId, (b: StepVoltageBody) =>
+    api
+      .send("POST", `${site(siteId)}/boards/${boardId}/step-voltage-tests`, b, z.object({ test: stepVoltageSchema }))
+      .then((d) => d.test),
+  );
+export const useRecordHuntStep = (siteId: string, boardId: string) =>
+  useSiteMutation(siteId, (b: GroundHuntBody) =>
+    api
+      .send("POST", `${site(siteId)}/boards/${boardId}/ground-hunts`, b, z.object({ step: groundHuntStepSchema }))
+      .then((d) => d.step),
   );

@@ -10,6 +10,11 @@ import { InsulationHistory } from "../../../features/readings/components/insulat
 import { LatestGroundCheck } from "../../../features/readings/components/latest-ground-check";
 import { RecordPanel } from "../../../features/readings/components/record-panel";
 import { ThermalHistory } from "../../../features/readings/components/thermal-history";
+import { GroundHuntLog } from "../../../features/readings/components/ground-hunt-log";
+import { PhaseComparisonList } from "../../../features/readings/components/phase-comparison-list";
+import { StepTestHistory } from "../../../features/readings/components/step-test-history";
+import { TripTestHistory } from "../../../features/readings/components/trip-test-history";
+import { TRIP_TESTABLE_KINDS } from "../../../domain/trip-test";
 import { useSiteContext } from "../sites/site-layout";
 import { can } from "../../../domain/permissions";
 
@@ -20,13 +25,30 @@ export default function BoardReadingsPage() {
   const targets = useReadingTargets(site.id);
   if (readings.isPending) return <Loading what="Loading the board's readings" />;
   if (readings.isError) return <ErrorPanel error={readings.error} />;
-  const { board, insulation, contacts, thermal, groundChecks } = readings.data;
-  const options = (targets.data?.find((b) => b.id === boardId)?.positions ?? [])
-    .filter((p) => p.componentId)
-    .map((p) => ({ componentId: p.componentId!, designation: p.designation, circuit: p.circuit }));
+  const { board, insulation, contacts, thermal, groundChecks, tripTests, stepTests, groundHunts, phaseComparisons } =
+    readings.data;
+  const positions = targets.data?.find((b) => b.id === boardId)?.positions ?? [];
+  const withComponent = positions.filter((p) => p.componentId);
+  const option = (p: (typeof positions)[number]) => ({
+    componentId: p.componentId!,
+    designation: p.designation,
+    circuit: p.circuit,
+  });
+  const options = withComponent.map(option);
+  const breakerOptions = withComponent
+    .filter((p) => (TRIP_TESTABLE_KINDS as readonly string[]).includes(p.kind))
+    .map(option);
+  // A ground hunt opens what feeds out of the board: breakers, switches, fuses (else any position).
+  const feederKinds: readonly string[] = [...TRIP_TESTABLE_KINDS, "switch", "enclosed_switch", "fuse"];
+  const feederPositions = positions.filter((p) => feederKinds.includes(p.kind));
+  const feeders = (feederPositions.length ? feederPositions : positions).map((p) => ({
+    positionId: p.positionId,
+    designation: p.designation,
+    circuit: p.circuit,
+  }));
   const components = [
     ...new Map(
-      [...insulation, ...contacts, ...thermal]
+      [...insulation, ...contacts, ...thermal, ...tripTests, ...stepTests]
         .filter((r) => r.componentId)
         .map((r) => [r.componentId!, r.designation ?? ""]),
     ).entries(),
@@ -42,7 +64,16 @@ export default function BoardReadingsPage() {
       <SafetyNotice />
       <LatestGroundCheck siteId={site.id} boardId={boardId} />
       {can(role, "readings.record") && (
-        <RecordPanel siteId={site.id} boardId={boardId} lineVolts={board.nominalVolts} options={options} />
+        <RecordPanel
+          siteId={site.id}
+          boardId={boardId}
+          lineVolts={board.nominalVolts}
+          options={options}
+          breakerOptions={breakerOptions}
+          feeders={feeders}
+          hunts={groundHunts}
+          comparisons={phaseComparisons}
+        />
       )}
       <section aria-labelledby="dry-out-title" className="space-y-2">
         <h2 id="dry-out-title" className="text-xl font-bold">
@@ -70,11 +101,29 @@ export default function BoardReadingsPage() {
         </h2>
         <InsulationHistory readings={insulation} />
       </section>
+      <section aria-labelledby="phase-title" className="space-y-2">
+        <h2 id="phase-title" className="text-xl font-bold">
+          Phase comparison
+        </h2>
+        <PhaseComparisonList comparisons={phaseComparisons} />
+      </section>
+      <section aria-labelledby="step-title" className="space-y-2">
+        <h2 id="step-title" className="text-xl font-bold">
+          Step-voltage tests
+        </h2>
+        <StepTestHistory tests={stepTests} />
+      </section>
       <section aria-labelledby="con-title" className="space-y-2">
         <h2 id="con-title" className="text-xl font-bold">
           Contact resistance
         </h2>
         <ContactHistory readings={contacts} />
+      </section>
+      <section aria-labelledby="trip-title" className="space-y-2">
+        <h2 id="trip-title" className="text-xl font-bold">
+          Trip tests
+        </h2>
+        <TripTestHistory tests={tripTests} />
       </section>
       <section aria-labelledby="th-title" className="space-y-2">
         <h2 id="th-title" className="text-xl font-bold">
@@ -87,6 +136,16 @@ export default function BoardReadingsPage() {
           Ground-lamp checks
         </h2>
         <GroundCheckHistory checks={groundChecks} />
+      </section>
+      <section aria-labelledby="hunt-title" className="space-y-2">
+        <h2 id="hunt-title" className="text-xl font-bold">
+          Ground hunts
+        </h2>
+        {groundHunts.length === 0 ? (
+          <p className="text-mist">No ground hunts logged yet.</p>
+        ) : (
+          groundHunts.map((h) => <GroundHuntLog key={h.hunt} hunt={h} />)
+        )}
       </section>
     </div>
   );

@@ -9,6 +9,9 @@ import { InsulationHistory } from "../../../features/readings/components/insulat
 import { OverrideForm } from "../../../features/readings/components/override-form";
 import { RecordPanel } from "../../../features/readings/components/record-panel";
 import { ThermalHistory } from "../../../features/readings/components/thermal-history";
+import { StepTestHistory } from "../../../features/readings/components/step-test-history";
+import { TripTestHistory } from "../../../features/readings/components/trip-test-history";
+import { TRIP_TESTABLE_KINDS } from "../../../domain/trip-test";
 import { useSiteContext } from "../sites/site-layout";
 import { can } from "../../../domain/permissions";
 
@@ -18,7 +21,8 @@ export default function ComponentReadingsPage() {
   const q = useComponentReadings(site.id, componentId);
   if (q.isPending) return <Loading what="Loading the component's readings" />;
   if (q.isError) return <ErrorPanel error={q.error} />;
-  const { component: c, override, insulation, contacts, thermal } = q.data;
+  const { component: c, override, insulation, contacts, thermal, tripTests, stepTests } = q.data;
+  const trippable = (TRIP_TESTABLE_KINDS as readonly string[]).includes(c.kind);
   return (
     <div className="space-y-6">
       <p>
@@ -40,7 +44,7 @@ export default function ComponentReadingsPage() {
           lineVolts={c.ratedVolts}
           componentId={c.id}
           options={[{ componentId: c.id, designation: c.designation, circuit: c.circuit }]}
-          kinds={["insulation", "contact", "thermal"]}
+          kinds={["insulation", "step", "contact", ...(trippable ? (["trip"] as const) : []), "thermal"]}
         />
       )}
       {can(role, "readings.criteria") && <OverrideForm siteId={site.id} componentId={c.id} current={override} />}
@@ -56,12 +60,26 @@ export default function ComponentReadingsPage() {
         </h2>
         <InsulationHistory readings={insulation} showTarget={false} />
       </section>
+      <section aria-labelledby="step-title" className="space-y-2">
+        <h2 id="step-title" className="text-xl font-bold">
+          Step-voltage tests
+        </h2>
+        <StepTestHistory tests={stepTests} />
+      </section>
       <section aria-labelledby="con-title" className="space-y-2">
         <h2 id="con-title" className="text-xl font-bold">
           Contact resistance
         </h2>
         <ContactHistory readings={contacts} />
       </section>
+      {(trippable || tripTests.length > 0) && (
+        <section aria-labelledby="trip-title" className="space-y-2">
+          <h2 id="trip-title" className="text-xl font-bold">
+            Trip tests
+          </h2>
+          <TripTestHistory tests={tripTests} showTarget={false} />
+        </section>
+      )}
       <section aria-labelledby="th-title" className="space-y-2">
         <h2 id="th-title" className="text-xl font-bold">
           Thermal findings
