@@ -63,6 +63,7 @@ function PhaseSet({
   const [saved, setSaved] = useState<Partial<Record<Phase, InsulationReading>>>({});
   const [key, setKey] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
+  const [waiting, setWaiting] = useState<Phase[]>([]);
 
   async function submit(e: FormEvent<HTMLFormElement>) {
     e.preventDefault();
@@ -103,12 +104,23 @@ function PhaseSet({
     setErrors({});
     setBusy(true);
     const done = { ...saved };
+    const queued: Phase[] = [...waiting];
     try {
+      const name = options.find((o) => o.componentId === componentId)?.designation ?? common.circuit;
       for (const b of bodies) {
-        if (done[b.phase] || !b.parsed.success) continue;
-        done[b.phase] = await save.mutateAsync(b.parsed.data);
+        if (done[b.phase] || queued.includes(b.phase) || !b.parsed.success) continue;
+        const r = await save.mutateAsync({ ...b.parsed.data, label: `${name} ${b.phase}-G` });
+        // With no signal the reading waits in the phone's outbox: it is not sent twice, and the
+        // comparison shows on the board once all three have reached the server.
+        if (r.queued) queued.push(b.phase);
+        else done[b.phase] = r.data;
         setSaved({ ...done });
+        setWaiting([...queued]);
       }
+      if (queued.length)
+        setMessage(
+          `No signal: ${queued.join(", ")} to ground wait in this phone's outbox and will be sent when the signal is back; the comparison shows on the board once they arrive.`,
+        );
       setKey(phaseComparisonKey({ componentId, circuit: common.circuit }));
     } catch (err) {
       const s = saveErrors(err);
@@ -122,7 +134,7 @@ function PhaseSet({
     }
   }
 
-  const all = PHASE_KEYS.every((p) => saved[p]);
+  const all = PHASE_KEYS.every((p) => saved[p] || waiting.includes(p));
   const comparison = key ? comparisons.find((c) => c.key === key) : undefined;
   return (
     <div className="space-y-3">
@@ -178,7 +190,7 @@ function PhaseSet({
         <WhenField error={errors.measuredAt} />
         <TextField label="Notes" name="notes" className="sm:col-span-2" />
       </FormShell>
-      {Object.keys(saved).length > 0 && (
+      {(Object.keys(saved).length > 0 || waiting.length > 0) && (
         <div role="status" className="space-y-2 rounded-lg bg-hull-850 p-3 ring-1 ring-hull-600">
           <ul className="space-y-1">
             {PHASE_KEYS.filter((p) => saved[p]).map((p) => {
@@ -197,6 +209,7 @@ function PhaseSet({
             })}
           </ul>
           {all &&
+            waiting.length === 0 &&
             (comparison ? (
               <PhaseComparisonCard comparison={comparison} />
             ) : (
