@@ -166,7 +166,7 @@ export function createApp(deps: AppDeps) {
   api.use(notificationRoutes(db));
   api.use(mailboxRoutes(deps.mailbox));
   api.use(defectRoutes(db, mail));
-  api.use(partsRoutes(db, photoStorage));
+  api.use(partsRoutes(db, photoStorage, mail));
   api.use(reportRoutes(db, photoStorage, mail.publicUrl));
   api.use(preparedFileRoutes(db, photoStorage, deps.jobs ?? missingJobs()));
   api.use(rtsRoutes(db));

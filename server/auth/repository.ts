@@ -23,3 +23,7 @@ export async function insertUser(
 ) {
   return db.insertInto("users").values(u).returning(["id", "email", "name", "isAdmin"]).executeTakeFirstOrThrow();
 }
+
+/** The one writer of a password: sign-up paths insert, a reset (server/password-reset) sets it here, in its transaction. */
+export const setPasswordHash = (db: Db, userId: string, passwordHash: string) =>
+  db.updateTable("users").set({ passwordHash, updatedAt: new Date() }).where("id", "=", userId).execute();

@@ -15,7 +15,7 @@ import {
 } from "../../src/schemas/defects";
 import type { Db } from "../db";
 import type { MailDeps } from "../mail/mailer";
-import { notifyDefectAssigned, notifyAwaitingVerification } from "../notifications/service";
+import { sendDefectNotices as sendNotices } from "./notices";
 import { limitExports } from "../export-stream";
 import { idempotent } from "../idempotency/middleware";
 import { requireSiteRole } from "../middleware/roles";
@@ -27,7 +27,6 @@ import { defectsOfBoardReadings, evidenceOf } from "./evidence";
 import * as repo from "./repository";
 import * as service from "./service";
 import * as views from "./views";
-import { log } from "../log";
 import { siteTimeZone } from "../sites/service";
 
 const site = z.object({ siteId: z.uuid() });
@@ -42,21 +41,6 @@ const ctxOf = (req: Request, res: Response): service.Ctx => ({
 });
 /** The client's calendar day (for "overdue"), else the server's in UTC. */
 const todayOf = (q: { today?: string }) => q.today ?? new Date().toISOString().slice(0, 10);
-
-/**
- * E-mails what a committed change asked for, after the answer has gone out: a slow or
- * failing mail server never delays or undoes the change (the notifier logs failures).
- */
-function sendNotices(mail: MailDeps | undefined, ctx: service.Ctx) {
-  if (!mail || !ctx.notices?.length) return;
-  const notices = ctx.notices;
-  void (async () => {
-    for (const n of notices) {
-      const p = { defectId: n.defectId, actorId: ctx.actor.id };
-      await (n.kind === "assigned" ? notifyDefectAssigned(mail, p) : notifyAwaitingVerification(mail, p));
-    }
-  })().catch((e) => log.error({ err: e }, "defect notification failed"));
-}
 
 export function defectRoutes(db: Db, mail?: MailDeps) {
   const r = Router();

@@ -6,7 +6,7 @@ import { sql } from "kysely";
 import { recordAudit, diff } from "../audit";
 import type { Db } from "../db";
 import { AppError, conflict, forbidden, notFound } from "../errors";
-import { canEdit, checkTransition, type Actor } from "../../src/domain/defect-workflow";
+import { allowedTargets, canEdit, checkTransition, type Actor } from "../../src/domain/defect-workflow";
 import { can } from "../../src/domain/permissions";
 import { priorityScore } from "../../src/domain/priority";
 import type { DefectStatus } from "../../src/domain/vocab";
@@ -344,6 +344,39 @@ export async function transition(
   });
   if (to === "awaiting_retest") ctx.notices?.push({ kind: "awaiting_verification", defectId: d.id });
   return d.version + 1;
+}
+
+/**
+ * The part the wanted list sourced for this defect was fitted (the parts workflow, inside ITS
+ * transaction): its parts are in hand (priority re-scored, audited), and it moves on to
+ * "awaiting re-test" through transition() — history row, audit, the notice — only where the
+ * defect workflow lets this person make that move (a defect under repair, moved by the curator
+ * or the volunteer doing it). Otherwise its status stays where it is and whoever repairs it
+ * moves it on; a part arriving never skips the workflow.
+ */
+export async function partFitted(trx: Db, ctx: Ctx, defectId: string, note: string) {
+  let d = await repo.lockDefect(trx, ctx.siteId, defectId);
+  if (!d) return null;
+  if (d.partsState !== "in_hand") {
+    const { score } = await scoreFor(trx, ctx.siteId, { ...d, partsState: "in_hand" });
+    const ok = await repo.updateDefect(trx, d.id, d.version, { partsState: "in_hand", priorityScore: score });
+    if (!ok) throw conflict("Someone changed this defect at the same moment.", await current(trx, ctx.siteId, d.id));
+    await recordAudit(trx, {
+      siteId: ctx.siteId,
+      entityType: "defect",
+      entityId: d.id,
+      action: "update",
+      actorId: ctx.actor.id,
+      boardId: d.boardId,
+      positionId: d.positionId,
+      before: { partsState: d.partsState, priorityScore: d.priorityScore },
+      after: { partsState: "in_hand", priorityScore: score, note },
+    });
+    d = { ...d, partsState: "in_hand", priorityScore: score, version: d.version + 1 };
+  }
+  if (allowedTargets(d, ctx.actor).includes("awaiting_retest"))
+    await transition(trx, ctx, d, "awaiting_retest", { reason: note });
+  return d.id;
 }
 
 export async function moveDefect(

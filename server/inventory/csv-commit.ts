@@ -4,8 +4,8 @@
  * inventory in between) is refused with 409 and the fresh preview. Updates go through the
  * versioned UPDATE, so an edit made while the commit runs is never overwritten either.
  */
-import { sql, type Insertable } from "kysely";
-import type { AuditLogTable } from "../../db/types";
+import { sql } from "kysely";
+import { recordAuditMany, type AuditEntry } from "../audit";
 import type { ImportResponse } from "../../src/schemas/inventory";
 import type { Db } from "../db";
 import { AppError } from "../errors";
@@ -55,7 +55,7 @@ async function ensureBoards(
   siteId: string,
   records: ImportRecord[],
   boards: Map<string, { id: string }>,
-  audit: Insertable<AuditLogTable>[],
+  audit: AuditEntry[],
   actorId: string,
 ) {
   const created = new Map<string, { id: string }>();
@@ -77,7 +77,7 @@ async function ensureBoards(
       boardId: b.id,
       action: "create",
       actorId,
-      after: JSON.stringify({ name: b.name, source: "csv import" }),
+      after: { name: b.name, source: "csv import" },
     });
     created.set(k, b);
   }
@@ -102,7 +102,7 @@ export async function commitImport(
       throw new AppError(400, "invalid_input", "The file has a header but no rows.", { csv: "No rows to import" });
     // Two rows may swap grid cells: the one-per-cell rule is checked at commit (the plan checked the end state).
     await sql`SET CONSTRAINTS positions_one_per_cell DEFERRED`.execute(trx);
-    const audit: Insertable<AuditLogTable>[] = [];
+    const audit: AuditEntry[] = [];
     const creates = planned.filter((x) => x.row.action === "create");
     const updates = planned.filter((x) => x.row.action === "update");
     const records = planned.filter((x) => x.record && x.row.action !== "unchanged").map((x) => x.record!);
@@ -131,11 +131,7 @@ export async function commitImport(
 
     await writeCreates(trx, siteId, actorId, creates, boards, sectionOf, audit);
     const componentIds = await writeUpdates(trx, siteId, actorId, updates, sectionOf, audit);
-    for (let i = 0; i < audit.length; i += 1000)
-      await trx
-        .insertInto("auditLog")
-        .values(audit.slice(i, i + 1000))
-        .execute();
+    await recordAuditMany(trx, audit);
     if (componentIds.length) await demandChanged(trx, siteId, { componentIds }, actorId); // nameplates move wanted-list demand
     return { rows: response.rows, summary: { ...response.summary, committed: true } };
   });
@@ -148,7 +144,7 @@ async function writeCreates(
   creates: PlannedRow[],
   boards: Map<string, { id: string }>,
   sectionOf: (boardId: string, name: string | null) => string | null,
-  audit: Insertable<AuditLogTable>[],
+  audit: AuditEntry[],
 ) {
   const records = creates.map((x) => x.record!);
   if (!records.length) return;
@@ -214,7 +210,7 @@ async function writeCreates(
       positionId: p.id,
       action: "create",
       actorId,
-      after: JSON.stringify({ ...records[i], source: "csv import" }),
+      after: { ...records[i], source: "csv import" },
     }),
   );
 }
@@ -226,7 +222,7 @@ async function writeUpdates(
   actorId: string,
   updates: PlannedRow[],
   sectionOf: (boardId: string, name: string | null) => string | null,
-  audit: Insertable<AuditLogTable>[],
+  audit: AuditEntry[],
 ) {
   const componentIds: string[] = [];
   for (const x of updates) {
@@ -248,8 +244,8 @@ async function writeUpdates(
         ...base,
         entityType: "position",
         entityId: cur.id,
-        before: JSON.stringify(Object.fromEntries(Object.keys(x.positionPatch).map((k) => [k, before(cur, k)]))),
-        after: JSON.stringify({ ...x.positionPatch, source: "csv import" }),
+        before: Object.fromEntries(Object.keys(x.positionPatch).map((k) => [k, before(cur, k)])),
+        after: { ...x.positionPatch, source: "csv import" },
       });
     }
     if (Object.keys(componentPatch).length) {
@@ -272,12 +268,10 @@ async function writeUpdates(
           ...base,
           entityType: "component",
           entityId: cur.componentId,
-          before: JSON.stringify(
-            Object.fromEntries(
-              Object.keys(componentPatch).map((k) => [k, k === "kind" ? cur.componentKind : before(cur, k)]),
-            ),
+          before: Object.fromEntries(
+            Object.keys(componentPatch).map((k) => [k, k === "kind" ? cur.componentKind : before(cur, k)]),
           ),
-          after: JSON.stringify({ ...componentPatch, source: "csv import" }),
+          after: { ...componentPatch, source: "csv import" },
         });
       } else {
         const c = await mapUnique(
@@ -295,7 +289,7 @@ async function writeUpdates(
           entityType: "component",
           entityId: c.id,
           action: "create",
-          after: JSON.stringify({ ...componentPatch, source: "csv import" }),
+          after: { ...componentPatch, source: "csv import" },
         });
       }
     }

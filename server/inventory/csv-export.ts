@@ -15,6 +15,8 @@ import { CSV_EXPORT_EXTRA_COLUMNS, CSV_IMPORT_COLUMNS } from "../../src/schemas/
 import type { Db } from "../db";
 import { textCell } from "../csv";
 import { readPage, runExport, type ExportWriter } from "../export-stream";
+import { notFound } from "../errors";
+import { findSite } from "../sites/repository";
 
 const PAGE = 500;
 export const EXPORT_COLUMNS = ["position_id", ...CSV_IMPORT_COLUMNS, "row_version", ...CSV_EXPORT_EXTRA_COLUMNS];
@@ -170,4 +172,19 @@ export async function writeInventoryCsv(db: Db, siteId: string, timeZone: string
     const last = rows[rows.length - 1];
     after = { boardName: last.boardName, boardId: last.boardId, sortOrder: last.sortOrder, id: last.id };
   }
+}
+
+const slug = (s: string) =>
+  s
+    .toLowerCase()
+    .normalize("NFKD")
+    .replace(/[^a-z0-9]+/g, "-")
+    .replace(/^-|-$/g, "") || "site";
+
+/** The download: named after the site and its local day, times in the site's zone. */
+export async function exportInventoryCsv(db: Db, siteId: string, res: Response) {
+  const site = await findSite(db, siteId);
+  if (!site) throw notFound("That site");
+  const day = localDateTime(new Date(), site.timeZone).slice(0, 10);
+  await streamInventoryCsv(db, siteId, site.timeZone, `${slug(site.name)}-inventory-${day}.csv`, res);
 }

@@ -6,10 +6,9 @@ import { AppError } from "../errors";
 import { limitExports } from "../export-stream";
 import { requireSiteRole } from "../middleware/roles";
 import { actorOf } from "./common";
-import { localDateTime } from "../../src/domain/local-time";
 import { decodeCsvBytes, fromText } from "../csv-read";
 import { ImportChanged, ImportInvalid, commitImport } from "./csv-commit";
-import { streamInventoryCsv } from "./csv-export";
+import { exportInventoryCsv } from "./csv-export";
 import { answerOf, validateImport } from "./csv-import";
 
 /**
@@ -21,25 +20,12 @@ const csvBytes = express.raw({
   limit: "2mb",
 });
 
-const slug = (s: string) =>
-  s
-    .toLowerCase()
-    .normalize("NFKD")
-    .replace(/[^a-z0-9]+/g, "-")
-    .replace(/^-|-$/g, "") || "site";
-
 export function csvRoutes(db: Db) {
   const r = Router();
 
   r.get("/sites/:siteId/inventory.csv", requireSiteRole(db), limitExports(db), async (req, res) => {
     const { siteId } = siteParams.parse(req.params);
-    const site = await db
-      .selectFrom("sites")
-      .select(["name", "timeZone"])
-      .where("id", "=", siteId)
-      .executeTakeFirstOrThrow();
-    const day = localDateTime(new Date(), site.timeZone).slice(0, 10);
-    await streamInventoryCsv(db, siteId, site.timeZone, `${slug(site.name)}-inventory-${day}.csv`, res);
+    await exportInventoryCsv(db, siteId, res);
   });
 
   r.post("/sites/:siteId/inventory/import", requireSiteRole(db, "inventory.curate"), csvBytes, async (req, res) => {

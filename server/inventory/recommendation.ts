@@ -5,6 +5,7 @@
  */
 import type { Selectable } from "kysely";
 import type { ComponentsTable } from "../../db/types";
+import { tileBelowWaterLine } from "../../src/domain/board-geometry";
 import { recommendDisposition, type FloodInput } from "../../src/domain/flood-guidance";
 import type { RecommendationResponse } from "../../src/schemas/inventory";
 import type { Db } from "../db";
@@ -26,8 +27,13 @@ async function belowFromBoard(db: Db, positionId: string): Promise<boolean | nul
     .where("p.id", "=", positionId)
     .executeTakeFirst();
   if (!r || r.faceHeightMm === null || r.waterLineMm === null) return null;
-  const bottomMm = r.faceHeightMm - ((r.gridRow - 1 + r.rowSpan) * r.faceHeightMm) / r.gridRows;
-  return bottomMm < r.waterLineMm;
+  try {
+    // The same geometry the board elevation draws (src/domain/board-geometry.ts).
+    return tileBelowWaterLine(r, { gridRows: r.gridRows, faceHeightMm: r.faceHeightMm, waterLineMm: r.waterLineMm });
+  } catch (e) {
+    if (e instanceof RangeError) return null; // a tile off its grid or a face of no height: no geometry to go by
+    throw e;
+  }
 }
 
 export async function recommendFor(db: Db, siteId: string, c: Component): Promise<RecommendationResponse> {

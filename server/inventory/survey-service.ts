@@ -11,7 +11,7 @@ import type {
 import { diff, recordAudit } from "../audit";
 import type { Db } from "../db";
 import { AppError } from "../errors";
-import { UNIQUE, defined, mapUnique, requireOwned, stale, updateVersioned } from "./common";
+import { UNIQUE, defined, findOwned, mapUnique, requireOwned, stale, updateVersioned } from "./common";
 import { recommendFor } from "./recommendation";
 import * as repo from "./survey-repository";
 import * as positions from "./positions-repository";
@@ -207,6 +207,65 @@ export async function moveCustody(
     });
     return { component, move };
   });
+}
+
+/**
+ * A custody move another domain's use case causes, inside ITS transaction: the parts workflow
+ * moves a component to "ready to refit" when its replacement part is received and to "refitted"
+ * when it is fitted (optionally with the fitted part's heritage). The same write as a person's
+ * move (the component, a custody_moves row, the audit entry), judged by the same chain: any
+ * releasable rule the move breaks is recorded as released with `because` as the reason; a rule
+ * that cannot be released refuses the move like any other. Same state and same heritage: nothing.
+ */
+export async function moveCustodyFor(
+  trx: Db,
+  siteId: string,
+  componentId: string,
+  actorId: string,
+  m: { toState: CustodyState; note: string; because: string; heritage?: "period" | "modern" },
+) {
+  const before = await findOwned(trx, "components", siteId, componentId, true);
+  if (!before) return null;
+  const heritageChanges = m.heritage !== undefined && m.heritage !== before.heritage;
+  const moving = before.custody !== m.toState;
+  if (!moving && !heritageChanges) return null;
+  const refusals = moving ? checkCustodyMove(await custodyFacts(trx, siteId, before), m.toState) : [];
+  const fixed = refusals.filter((r) => !r.releasable);
+  if (fixed.length) throw new AppError(fixed[0].status, fixed[0].rule, fixed.map((r) => r.message).join(" "));
+  const released = refusals.map((r) => r.rule);
+  const releaseReason = released.length ? m.because : "";
+  const patch: Record<string, unknown> = {
+    ...(moving ? { custody: m.toState, custodyLocation: DEFAULT_LOCATION[m.toState] ?? before.custodyLocation } : {}),
+    ...(heritageChanges ? { heritage: m.heritage } : {}),
+  };
+  const component = await updateVersioned(trx, "components", siteId, componentId, before.version, patch, "component");
+  if (moving)
+    await repo.insertMove(trx, {
+      siteId,
+      componentId,
+      fromState: before.custody,
+      toState: m.toState,
+      location: component.custodyLocation,
+      note: m.note,
+      movedBy: actorId,
+      releasedRules: released,
+      releaseReason,
+    });
+  await recordAudit(trx, {
+    siteId,
+    entityType: "component",
+    entityId: componentId,
+    boardId: await boardOf(trx, before.positionId),
+    positionId: before.positionId,
+    action: moving ? "custody" : "update",
+    actorId,
+    before: {
+      ...(moving ? { custody: before.custody, custodyLocation: before.custodyLocation } : {}),
+      ...(heritageChanges ? { heritage: before.heritage } : {}),
+    },
+    after: { ...patch, note: m.note, ...(released.length ? { releasedRules: released, releaseReason } : {}) },
+  });
+  return component;
 }
 
 /** What the custody form shows before a move: the rules each state would break and the proposed next move. */

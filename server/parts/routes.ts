@@ -14,6 +14,9 @@ import {
 } from "../../src/schemas/parts";
 import type { Db } from "../db";
 import type { PhotoStorage } from "../photos/storage";
+import type { MailDeps } from "../mail/mailer";
+import { sendDefectNotices } from "../defects/notices";
+import type { Role } from "../../src/domain/vocab";
 import { AppError } from "../errors";
 import { requireSiteRole } from "../middleware/roles";
 import { limitExports, runExport } from "../export-stream";
@@ -39,7 +42,7 @@ async function sendPhoto(res: Response, photo: Readable | null) {
 }
 
 /** The wanted list (issue 6): members read; scrounger and curator edit; curator sets heritage rules and revokes shares. */
-export function partsRoutes(db: Db, storage: PhotoStorage) {
+export function partsRoutes(db: Db, storage: PhotoStorage, mail?: MailDeps) {
   const r = Router();
   const base = "/sites/:siteId/parts";
 
@@ -113,7 +116,10 @@ export function partsRoutes(db: Db, storage: PhotoStorage) {
   });
   r.post(`${base}/:lineId/status`, requireSiteRole(db, "parts.edit"), async (req, res) => {
     const { siteId, lineId } = lineParams.parse(req.params);
-    res.json({ line: await service.moveLineStatus(db, siteId, lineId, statusBody.parse(req.body), actor(res)) });
+    const who = { id: actor(res), role: res.locals.siteRole as Role | "admin" };
+    const { line, ctx } = await service.moveLineStatus(db, siteId, lineId, statusBody.parse(req.body), who);
+    res.json({ line });
+    sendDefectNotices(mail, ctx); // a fitted part may have moved a defect on: its notice goes after the commit
   });
   r.post(`${base}/:lineId/leads`, requireSiteRole(db, "parts.edit"), async (req, res) => {
     const { siteId, lineId } = lineParams.parse(req.params);

@@ -1,15 +1,19 @@
 /**
- * A line's status moves and what they do to the register:
+ * A line's status moves and what they do to the register. The parts domain writes only its own
+ * tables; components and defects change through their owners' services, in this transaction:
  * - received: each component the line is for goes to custody "ready to refit" (the part for
- *   that position is in hand and inspected) — one custody move each, audited;
+ *   that position is in hand and inspected) — inventory's `moveCustodyFor`, one custody move each;
  * - fitted: each such component goes to "refitted", its heritage becomes what the form says the
  *   fitted part is (period / modern) unless "unchanged" (a sub-part fitted into the original);
- *   each linked defect still being worked moves to "awaiting re-test" with its parts in hand;
+ *   each linked defect gets its parts in hand and, where the defect workflow lets this person
+ *   move it, goes on to "awaiting re-test" — the defect service's `partFitted` → `transition`;
  *   the links become fitted (history) so the register's demand counts as met.
+ * The defect notices that causes are returned for the route to send after the commit.
  */
 import { sql } from "kysely";
 import { canMovePart, defaultFittedHeritage } from "../../src/domain/part-workflow";
-import { PART_STATUS_LABELS, type Custody } from "../../src/domain/vocab";
+import type { Actor } from "../../src/domain/defect-workflow";
+import { PART_STATUS_LABELS } from "../../src/domain/vocab";
 import { acquisitionBody, type statusBody } from "../../src/schemas/parts";
 import type { z } from "zod";
 import { recordAudit } from "../audit";
@@ -17,11 +21,15 @@ import type { Db } from "../db";
 import { AppError, conflict } from "../errors";
 import * as repo from "./repository";
 import { lineRow, lockedLine } from "./rows";
+import * as defects from "../defects/service";
+import { syncDemand } from "./demand";
+import { moveCustodyFor } from "../inventory/survey-service";
 
 type Body = z.infer<typeof statusBody>;
-const WORKING_DEFECT = ["raised", "scheduled", "under_repair", "deferred"] as const;
 
-export async function moveLineStatus(db: Db, siteId: string, lineId: string, b: Body, actorId: string) {
+export async function moveLineStatus(db: Db, siteId: string, lineId: string, b: Body, actor: Actor) {
+  const actorId = actor.id;
+  const ctx: defects.Ctx = { siteId, actor, notices: [] };
   await db.transaction().execute(async (trx) => {
     const line = await lockedLine(trx, siteId, lineId, b.version);
     if (!canMovePart(line.status, b.to))
@@ -40,21 +48,20 @@ export async function moveLineStatus(db: Db, siteId: string, lineId: string, b: 
     if (b.to === "received")
       for (const l of links)
         if (l.componentId)
-          await moveCustody(
-            trx,
-            siteId,
-            l.componentId,
-            "ready_to_refit",
-            `Replacement part received (wanted-list line)`,
-            actorId,
-          );
-    if (b.to === "fitted") await fit(trx, siteId, links, b.heritageAfter ?? defaultFittedHeritage(line), actorId);
+          await moveCustodyFor(trx, siteId, l.componentId, actorId, {
+            toState: "ready_to_refit",
+            note: "Replacement part received (wanted-list line)",
+            because: "The replacement part from the wanted list was received.",
+          });
+    if (b.to === "fitted") await fit(trx, ctx, links, b.heritageAfter ?? defaultFittedHeritage(line));
     await repo.updateLine(trx, lineId, {
       status: b.to,
       cancelReason: b.to === "cancelled" ? b.reason : "",
       autoCancelled: false,
       ...(b.to === "fitted" ? { fittedAt: new Date() } : {}),
     });
+    const defectIds = b.to === "fitted" ? links.flatMap((l) => (l.defectId ? [l.defectId] : [])) : [];
+    if (defectIds.length) await syncDemand(trx, siteId, { defectIds }, actorId); // the defects' parts state moved
     const summary =
       b.to === "cancelled" ? `Cancelled: ${b.reason}` : b.note || `Moved to ${PART_STATUS_LABELS[b.to].toLowerCase()}`;
     await repo.addHistory(trx, {
@@ -76,7 +83,7 @@ export async function moveLineStatus(db: Db, siteId: string, lineId: string, b: 
       after: { status: b.to },
     });
   });
-  return lineRow(db, siteId, lineId, true);
+  return { line: await lineRow(db, siteId, lineId, true), ctx };
 }
 
 async function needAcquisition(trx: Db, siteId: string, lineId: string, a: unknown, actorId: string) {
@@ -89,78 +96,19 @@ async function needAcquisition(trx: Db, siteId: string, lineId: string, a: unkno
     });
 }
 
-async function moveCustody(
-  trx: Db,
-  siteId: string,
-  componentId: string,
-  to: Custody,
-  note: string,
-  actorId: string,
-  extra: { heritage?: "period" | "modern" } = {},
-) {
-  const c = await trx
-    .selectFrom("components")
-    .select(["id", "custody", "heritage", "positionId", "custodyLocation"])
-    .where("id", "=", componentId)
-    .where("siteId", "=", siteId)
-    .forUpdate()
-    .executeTakeFirst();
-  if (!c) return;
-  const heritageChanges = extra.heritage && extra.heritage !== c.heritage;
-  if (c.custody === to && !heritageChanges) return;
-  await trx
-    .updateTable("components")
-    .set({
-      custody: to,
-      ...(heritageChanges ? { heritage: extra.heritage } : {}),
-      version: sql`version + 1`,
-      updatedAt: sql`now()`,
-    })
-    .where("id", "=", componentId)
-    .execute();
-  if (c.custody !== to)
-    await trx
-      .insertInto("custodyMoves")
-      .values({
-        siteId,
-        componentId,
-        fromState: c.custody,
-        toState: to,
-        location: c.custodyLocation,
-        note,
-        movedBy: actorId,
-      })
-      .execute();
-  const board = await trx.selectFrom("positions").select("boardId").where("id", "=", c.positionId).executeTakeFirst();
-  await recordAudit(trx, {
-    siteId,
-    entityType: "component",
-    entityId: componentId,
-    action: "parts_update",
-    actorId,
-    positionId: c.positionId,
-    boardId: board?.boardId ?? null,
-    before: { custody: c.custody, ...(heritageChanges ? { heritage: c.heritage } : {}) },
-    after: { custody: to, ...(heritageChanges ? { heritage: extra.heritage } : {}) },
-  });
-}
-
 type Link = { id: string; componentId: string | null; defectId: string | null };
 
-async function fit(
-  trx: Db,
-  siteId: string,
-  links: Link[],
-  heritageAfter: "unchanged" | "period" | "modern",
-  actorId: string,
-) {
+async function fit(trx: Db, ctx: defects.Ctx, links: Link[], heritageAfter: "unchanged" | "period" | "modern") {
   const heritage = heritageAfter === "unchanged" ? undefined : heritageAfter;
   for (const l of links) {
     if (l.componentId)
-      await moveCustody(trx, siteId, l.componentId, "refitted", "Part from the wanted list fitted", actorId, {
+      await moveCustodyFor(trx, ctx.siteId, l.componentId, ctx.actor.id, {
+        toState: "refitted",
+        note: "Part from the wanted list fitted",
+        because: "The part from the wanted list was fitted.",
         heritage,
       });
-    if (l.defectId) await defectAwaitsVerification(trx, siteId, l.defectId, actorId);
+    if (l.defectId) await defects.partFitted(trx, ctx, l.defectId, "Part from the wanted list fitted");
   }
   if (links.length)
     await trx
@@ -172,40 +120,6 @@ async function fit(
         links.map((l) => l.id),
       )
       .execute();
-}
-
-async function defectAwaitsVerification(trx: Db, siteId: string, defectId: string, actorId: string) {
-  const d = await trx
-    .selectFrom("defects")
-    .select(["id", "status", "partsState", "positionId", "boardId"])
-    .where("id", "=", defectId)
-    .where("siteId", "=", siteId)
-    .forUpdate()
-    .executeTakeFirst();
-  if (!d || !(WORKING_DEFECT as readonly string[]).includes(d.status)) return;
-  await trx
-    .updateTable("defects")
-    .set({
-      status: "awaiting_retest",
-      partsState: "in_hand",
-      repairedBy: actorId,
-      statusReason: "Part from the wanted list fitted",
-      version: sql`version + 1`,
-      updatedAt: sql`now()`,
-    })
-    .where("id", "=", defectId)
-    .execute();
-  await recordAudit(trx, {
-    siteId,
-    entityType: "defect",
-    entityId: defectId,
-    action: "status",
-    actorId,
-    positionId: d.positionId,
-    boardId: d.boardId,
-    before: { status: d.status, partsState: d.partsState },
-    after: { status: "awaiting_retest", partsState: "in_hand" },
-  });
 }
 
 /** Records a purchase on the line (cost, date, optionally the lead it came from, which is then secured). */

@@ -38,6 +38,3 @@ export const useAllFor = (db: Db, userId: string) =>
     .where("userId", "=", userId)
     .where("usedAt", "is", null)
     .execute();
-
-export const setPasswordHash = (db: Db, userId: string, passwordHash: string) =>
-  db.updateTable("users").set({ passwordHash, updatedAt: new Date() }).where("id", "=", userId).execute();

@@ -1,6 +1,6 @@
 import { sql } from "kysely";
 import { hashPassword } from "../auth/password";
-import { findUserByEmail } from "../auth/repository";
+import * as users from "../auth/repository";
 import type { Db } from "../db";
 import { AppError } from "../errors";
 import { compose } from "../mail/compose";
@@ -21,7 +21,7 @@ export const resetUrl = (publicUrl: string, token: string) => `${publicUrl}/rese
  * one look the same from outside; nothing here reaches the caller.
  */
 export async function sendResetLink(deps: MailDeps, email: string) {
-  const user = await findUserByEmail(deps.db, email);
+  const user = await users.findUserByEmail(deps.db, email);
   if (!user) return { sent: false as const, reason: "unknown_address" };
   const hourAgo = new Date(Date.now() - 3600_000);
   if ((await repo.countRecent(deps.db, user.id, hourAgo)) >= MAX_PER_HOUR) {
@@ -77,7 +77,7 @@ export async function completeReset(db: Db, token: string, password: string) {
   const passwordHash = await hashPassword(password);
   return db.transaction().execute(async (trx) => {
     const row = usable(await repo.findByTokenHash(trx, hashToken(token), true));
-    await repo.setPasswordHash(trx, row.userId, passwordHash);
+    await users.setPasswordHash(trx, row.userId, passwordHash); // users belong to server/auth
     await repo.useAllFor(trx, row.userId);
     return { userId: row.userId };
   });

@@ -4,7 +4,7 @@
  * of contents, then the real run streams page by page with those numbers. Both runs lay
  * out identical boxes, so the numbers hold.
  */
-import { dryOutSeries } from "../../src/features/readings/dry-out";
+import { dryOutSeries } from "../../src/domain/dry-out-series";
 import { VERDICT_LABELS, type Verdict } from "../../src/domain/reading-judgement";
 import {
   COMPONENT_KIND_LABELS,
@@ -30,6 +30,7 @@ import {
   type Mechanism,
 } from "../../src/domain/vocab";
 import { REPORT_SECTIONS, type ReportSection } from "../../src/schemas/reports";
+import { waterLineFromTop } from "../../src/domain/board-geometry";
 import { INK, SAFETY_CAUTION, SCOPE_STATEMENT, heightOf, line, text, widthOf } from "./pdf-base";
 import { STAGE_STATUS_LABELS, STEP_KIND_LABELS, SUPPLY_LABELS } from "../../src/domain/return-to-service";
 import { isOpenDefect, type ReportBoard, type ReportData, type ReportPhoto, type ReportPosition } from "./survey-data";
@@ -649,8 +650,8 @@ function drawBoardFront(
       });
     }
   }
-  if (b.waterLineMm != null && b.faceHeightMm) {
-    const frac = Math.min(1, Math.max(0, 1 - b.waterLineMm / b.faceHeightMm)); // src/domain/board-geometry.ts waterLineFromTop
+  if (b.waterLineMm != null && b.waterLineMm >= 0 && b.faceHeightMm && b.faceHeightMm > 0) {
+    const frac = waterLineFromTop(b.waterLineMm, b.faceHeightMm);
     const wy = oy + frac * gh;
     doc
       .save()

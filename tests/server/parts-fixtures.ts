@@ -76,7 +76,11 @@ export async function makeDefect(
   siteId: string,
   boardId: string,
   c: { positionId: string; componentId: string } | null,
-  o: { partsNeeded?: string; partsState?: "wanted" | "none_needed"; status?: "raised" | "closed" } = {},
+  o: {
+    partsNeeded?: string;
+    partsState?: "wanted" | "none_needed";
+    status?: "raised" | "under_repair" | "closed";
+  } = {},
 ) {
   const d = await db
     .insertInto("defects")

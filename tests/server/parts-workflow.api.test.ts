@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createTestDb, type TestDb } from "../helpers/db";
 import { makeCrew } from "../helpers/fixtures";
 import { startTestServer, type Client, type TestServer } from "../helpers/http";
+import { memoryMailer } from "../../server/mail/mailer";
 import { BREAKER, makeBoard, makeComponent, makeDefect } from "./parts-fixtures";
 
 // Status workflow and its effects: Tideline's own rules (issue 6, server/parts/workflow.ts).
@@ -9,10 +10,11 @@ let t: TestDb;
 let server: TestServer;
 let fx: Awaited<ReturnType<typeof makeCrew>>;
 const c: Record<string, Client> = {};
+const mailer = memoryMailer();
 
 beforeAll(async () => {
   t = await createTestDb();
-  server = await startTestServer({ db: t.db });
+  server = await startTestServer({ db: t.db, mailer });
   fx = await makeCrew(t.db);
   for (const role of ["curator", "volunteer", "photographer", "scrounger", "viewer", "admin", "outsider"] as const) {
     c[role] = server.client();
@@ -26,14 +28,16 @@ afterAll(async () => {
 
 const url = (p = "") => `/api/sites/${fx.siteId}/parts${p}`;
 
-async function freshLine(designation: string, withDefect = false) {
+async function freshLine(designation: string, withDefect: false | "raised" | "under_repair" = false) {
   const board = await makeBoard(t.db, fx.siteId, `Board ${designation}`);
   const comp = await makeComponent(t.db, fx.siteId, board.id, designation, {
     ...BREAKER,
     model: `M-${designation}`,
     disposition: "replace",
   });
-  const defect = withDefect ? await makeDefect(t.db, fx.siteId, board.id, comp, { partsNeeded: "" }) : null;
+  const defect = withDefect
+    ? await makeDefect(t.db, fx.siteId, board.id, comp, { partsNeeded: "", status: withDefect })
+    : null;
   const lines = (await c.scrounger.get(url("?status=all"))).body.lines as any[];
   const line = lines.find((l) => l.model === `M-${designation}`);
   return { board, comp, defect, line };
@@ -80,56 +84,116 @@ describe("status workflow", () => {
     expect(d.body.leads[0].status).toBe("secured");
   });
 
-  it("received puts the component at 'ready to refit'; fitted refits it, sets its heritage and moves the defect to awaiting verification", async () => {
-    const { line, comp, defect } = await freshLine("10-3", true);
+  async function walk(client: Client, line: { id: string; version: number }, heritageAfter = "period") {
     let v = line.version;
-    const step = async (body: object) => {
-      const r = await c.curator.post(url(`/${line.id}/status`), { ...body, version: v });
+    for (const body of [
+      { to: "acquired", acquisition: { cost: 60, acquiredOn: "2026-11-03" } },
+      { to: "received", note: "Contacts dressed, insulation fine" },
+      { to: "fitted", heritageAfter },
+    ]) {
+      const r = await client.post(url(`/${line.id}/status`), { ...body, version: v });
       expect(r.status, JSON.stringify(r.body)).toBe(200);
       v = r.body.line.version;
-    };
-    await step({ to: "acquired", acquisition: { cost: 60, acquiredOn: "2026-11-03" } });
-    await step({ to: "received", note: "Contacts dressed, insulation fine" });
-    let comp1 = await t.db
-      .selectFrom("components")
-      .selectAll()
-      .where("id", "=", comp.componentId)
+    }
+  }
+  const defectRow = (id: string) =>
+    t.db
+      .selectFrom("defects")
+      .select(["status", "partsState", "statusReason"])
+      .where("id", "=", id)
       .executeTakeFirstOrThrow();
-    expect(comp1.custody).toBe("ready_to_refit");
-    await step({ to: "fitted", heritageAfter: "period" });
-    comp1 = await t.db
+  const statusChanges = (id: string) =>
+    t.db
+      .selectFrom("defectStatusChanges")
+      .select(["fromStatus", "toStatus", "reason", "actorId"])
+      .where("defectId", "=", id)
+      .orderBy("id")
+      .execute();
+
+  it("received puts the component at 'ready to refit'; fitted refits it and sets its heritage, through the inventory's custody move", async () => {
+    const { line, comp } = await freshLine("10-3");
+    await walk(c.curator, line);
+    const comp1 = await t.db
       .selectFrom("components")
       .selectAll()
       .where("id", "=", comp.componentId)
       .executeTakeFirstOrThrow();
     expect(comp1).toMatchObject({ custody: "refitted", heritage: "period" });
+    // The custody chain judged both moves: what they skipped is on record, released by the parts workflow.
     const moves = await t.db
       .selectFrom("custodyMoves")
-      .select(["fromState", "toState"])
+      .select(["fromState", "toState", "releasedRules", "releaseReason"])
       .where("componentId", "=", comp.componentId)
       .orderBy("movedAt")
       .execute();
     expect(moves).toEqual([
-      { fromState: "in_place", toState: "ready_to_refit" },
-      { fromState: "ready_to_refit", toState: "refitted" },
+      {
+        fromState: "in_place",
+        toState: "ready_to_refit",
+        releasedRules: ["off_chain"],
+        releaseReason: "The replacement part from the wanted list was received.",
+      },
+      {
+        fromState: "ready_to_refit",
+        toState: "refitted",
+        releasedRules: ["reading_required"],
+        releaseReason: "The part from the wanted list was fitted.",
+      },
     ]);
-    const d = await t.db
-      .selectFrom("defects")
-      .select(["status", "partsState", "version"])
-      .where("id", "=", defect!.id)
-      .executeTakeFirstOrThrow();
-    expect(d).toMatchObject({ status: "awaiting_retest", partsState: "in_hand", version: 2 });
     const audit = await t.db
       .selectFrom("auditLog")
       .select(["entityType", "action"])
-      .where("entityId", "in", [defect!.id, comp.componentId])
+      .where("entityId", "=", comp.componentId)
       .execute();
-    expect(audit).toEqual(
-      expect.arrayContaining([
-        { entityType: "defect", action: "status" },
-        { entityType: "component", action: "parts_update" },
-      ]),
-    );
+    expect(audit.filter((a) => a.action === "custody")).toHaveLength(2);
+  });
+
+  it("fitting the part for a defect under repair moves it to awaiting re-test through the defect workflow: history row, audit, the curator's notice", async () => {
+    const { line, defect } = await freshLine("10-3b", "under_repair");
+    // The volunteer is doing the repair; the instance admin records the part (so the curator is not the actor).
+    await t.db.updateTable("defects").set({ assigneeId: fx.crew.volunteer.id }).where("id", "=", defect!.id).execute();
+    const before = mailer.sent.length;
+    await walk(c.admin, line);
+    expect(await defectRow(defect!.id)).toMatchObject({
+      status: "awaiting_retest",
+      partsState: "in_hand",
+      statusReason: "Part from the wanted list fitted",
+    });
+    expect(await statusChanges(defect!.id)).toEqual([
+      {
+        fromStatus: "under_repair",
+        toStatus: "awaiting_retest",
+        reason: "Part from the wanted list fitted",
+        actorId: fx.crew.admin.id,
+      },
+    ]);
+    const audit = await t.db.selectFrom("auditLog").select(["action"]).where("entityId", "=", defect!.id).execute();
+    expect(audit.map((a) => a.action)).toEqual(expect.arrayContaining(["update", "status"]));
+    // transition() asked for the "awaiting verification" notice; the route sends it after the commit.
+    await server.jobsIdle();
+    await expect
+      .poll(
+        () =>
+          mailer.sent
+            .slice(before)
+            .some((m) => m.to === fx.crew.curator.email && m.subject.includes("Waiting for your check")),
+        { timeout: 15_000 },
+      )
+      .toBe(true);
+  });
+
+  it("fitting the part for a defect only raised (the workflow refuses raised → awaiting re-test) leaves its status and records the parts in hand", async () => {
+    const { line, defect } = await freshLine("10-3c", "raised");
+    await walk(c.curator, line);
+    expect(await defectRow(defect!.id)).toMatchObject({ status: "raised", partsState: "in_hand" });
+    expect(await statusChanges(defect!.id)).toEqual([]);
+  });
+
+  it("a scrounger fitting the part cannot move the defect (not theirs to move): it stays under repair, parts in hand", async () => {
+    const { line, defect } = await freshLine("10-3d", "under_repair");
+    await walk(c.scrounger, line, "unchanged");
+    expect(await defectRow(defect!.id)).toMatchObject({ status: "under_repair", partsState: "in_hand" });
+    expect(await statusChanges(defect!.id)).toEqual([]);
   });
 
   it("fitting with heritage 'unchanged' keeps the component's heritage", async () => {

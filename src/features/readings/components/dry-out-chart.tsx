@@ -1,6 +1,6 @@
 import { CartesianGrid, Line, LineChart, ReferenceLine, ResponsiveContainer, Tooltip, XAxis, YAxis } from "recharts";
 import type { InsulationReading } from "../../../schemas/readings";
-import { dryOutSeries, forecastWords } from "../dry-out";
+import { dryOutSeries, forecastWords } from "../../../domain/dry-out-series";
 import { day, sig } from "../format";
 
 /**

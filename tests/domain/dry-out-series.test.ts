@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { dryOutSeries, forecastWords, logTicks } from "../../src/features/readings/dry-out";
+import { dryOutSeries, forecastWords, logTicks } from "../../src/domain/dry-out-series";
 import type { InsulationReading } from "../../src/schemas/readings";
 
 const HOUR = 3_600_000;

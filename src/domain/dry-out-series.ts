@@ -4,8 +4,8 @@
  * apart and left out of the trend; the trend is assessDryOut's (recent window, levelling,
  * a range for the estimate, complete only when stable at temperature with the PI met).
  */
-import { assessDryOut } from "../../domain/insulation";
-import type { InsulationReading } from "../../schemas/readings";
+import { assessDryOut } from "./insulation";
+import type { InsulationReading } from "../schemas/readings";
 
 const HOUR = 3_600_000;
 /** Beyond this an extension says more about the fit than the board: it is not drawn. */
