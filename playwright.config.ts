@@ -33,7 +33,8 @@ export default defineConfig({
     command: "node node_modules/tsx/dist/cli.mjs server/cli/e2e-server.ts",
     url: `http://127.0.0.1:${port}/api/health`,
     reuseExistingServer: !process.env.CI,
-    timeout: 120_000,
+    // Migrate, seed the demo and build the client: over two minutes on a loaded 2-core machine.
+    timeout: 300_000,
     // Warnings and errors only: a line per request buried the test results at the end of CI's output.
     env: { PORT: String(port), LOG_LEVEL: process.env.E2E_LOG_LEVEL ?? "warn" },
     stdout: "pipe",
