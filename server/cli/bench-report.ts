@@ -25,7 +25,7 @@ import { createApp } from "../app";
 import { hashPassword } from "../auth/password";
 import { createDb, MAINTENANCE_DB_OPTIONS, type Db } from "../db";
 import { StorageNotFound, type PhotoStorage } from "../photos/storage";
-import { downscale } from "../reports/service";
+import { downscale, REPORT_PHOTO_PX } from "../reports/service";
 
 const RUNS = Number(process.env.BENCH_REPORT_RUNS ?? 3);
 const ROWS = 25,
@@ -243,7 +243,7 @@ export async function benchReport() {
     const withPhotos = median(rows[0][1].map((r) => r.secs));
     const without = median(rows[1][1].map((r) => r.secs));
     console.log(
-      `bare sharp, ${fx.photos} downscales to 480 px: ${sharpSecs.toFixed(1)} s → report with photos / sharp alone = ${(withPhotos / sharpSecs).toFixed(2)}`,
+      `bare sharp, ${fx.photos} downscales to ${REPORT_PHOTO_PX} px: ${sharpSecs.toFixed(1)} s → report with photos / sharp alone = ${(withPhotos / sharpSecs).toFixed(2)}`,
     );
     console.log(
       `bare pdfkit, ${pages} pages of plain text: ${pdfkitSecs.toFixed(1)} s → report without photos / pdfkit alone = ${(without / pdfkitSecs).toFixed(2)}`,

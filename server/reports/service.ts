@@ -15,8 +15,13 @@ import { newDocument } from "./pdf-base";
 import { loadSurveyData, type ReportData, type ReportPhoto } from "./survey-data";
 import { renderSurvey, type RenderPlan } from "./survey-pdf";
 
-/** Photos in the report: at most this many pixels on the long side, JPEG at this quality (≈ 15–30 kB each). */
-export const REPORT_PHOTO_PX = 480;
+/**
+ * Photos in the report: at most this many pixels on the long side, JPEG at this quality. A photo
+ * prints 118 pt (1.64 in) wide (survey-pdf.ts PHOTO_W), so 320 px is about 195 dpi — inside the
+ * 150–300 dpi usually asked of printed photos (common practice, from memory). 480 px (290 dpi) made a
+ * 500-position board with 2,000 photos 125 MB in `npm run bench`; the issue asks well under 50 MB.
+ */
+export const REPORT_PHOTO_PX = 320;
 export const REPORT_PHOTO_QUALITY = 60;
 /** Photos read ahead of the one being drawn. */
 const LOOKAHEAD = 4;

@@ -348,11 +348,12 @@ describe("tags", () => {
   });
 });
 
-it("the report's photos are downscaled: a 4000 px picture becomes at most 480 px", async () => {
+it("the report's photos are downscaled: a 4000 px picture becomes at most 320 px (about 195 dpi as printed)", async () => {
   const { downscale, REPORT_PHOTO_PX } = await import("../../server/reports/service");
   const big = await sharp({ create: { width: 4000, height: 3000, channels: 3, background: "#556677" } })
     .jpeg()
     .toBuffer();
   const meta = await sharp(await downscale(big)).metadata();
+  expect(REPORT_PHOTO_PX).toBe(320);
   expect(Math.max(meta.width!, meta.height!)).toBe(REPORT_PHOTO_PX);
 });
