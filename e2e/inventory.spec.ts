@@ -183,13 +183,20 @@ test("the curator sets up a board: new board, a generated row, reorder from the 
   const list = page.getByRole("region", { name: "Positions, in list order" });
   await expect(list.getByTestId(`order-${prefix}3`)).toBeVisible();
 
+  // The list moves at once and saves behind it: wait for the save before reloading (a reload would cancel it).
+  const saved = () => page.waitForResponse((r) => r.url().endsWith("/positions/reorder") && r.ok());
+  let save = saved();
   await list.getByRole("button", { name: `Move ${prefix}3 up` }).click();
   await expect(list.locator("li").nth(1)).toHaveAttribute("data-testid", `order-${prefix}3`);
+  await save;
+  await expect(list.getByRole("status")).toHaveText("Order saved.");
   await page.reload();
   await expect(list.locator("li").nth(1)).toHaveAttribute("data-testid", `order-${prefix}3`);
   // and by dragging: 2 dropped onto the first place → 2, 1, 3
+  save = saved();
   await list.getByTestId(`order-${prefix}2`).dragTo(list.getByTestId(`order-${prefix}1`));
   await expect(list.locator("li").nth(0)).toHaveAttribute("data-testid", `order-${prefix}2`);
+  await save;
   await page.reload();
   await expect(list.locator("li").nth(0)).toHaveAttribute("data-testid", `order-${prefix}2`);
 

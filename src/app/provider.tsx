@@ -19,6 +19,12 @@ export function AppProvider({ children }: { children: ReactNode }) {
         buster: "tideline-1",
         dehydrateOptions: { shouldDehydrateQuery: shouldKeepQuery },
       }}
+      // What the phone kept is shown at once but is only as new as the last write to IndexedDB (throttled):
+      // a reload right after a save restored the old order and, being "fresh", never asked again. With a
+      // network, mark it all stale so what is on screen is fetched again; with none, keep it as it is.
+      onSuccess={() => {
+        if (navigator.onLine) void queryClient.invalidateQueries();
+      }}
     >
       {children}
     </PersistQueryClientProvider>

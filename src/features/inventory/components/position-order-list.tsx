@@ -78,6 +78,9 @@ export function PositionOrderList({
       <p className="sr-only" aria-live="polite">
         {said}
       </p>
+      <p role="status" className="min-h-5 text-sm text-mist">
+        {m.reorder.isPending ? "Saving the order…" : m.reorder.isSuccess ? "Order saved." : ""}
+      </p>
       {m.reorder.isError && (
         <p role="alert" className="text-sm text-flare-300">
           {m.reorder.error.message}
