@@ -69,6 +69,8 @@ export default defineConfig({
       },
     }),
   ],
+  // Static files copied as they are (the app icons): inside src/, the agreed top level has no public/.
+  publicDir: "src/public",
   build: { outDir: "dist/client", emptyOutDir: true, sourcemap: false, reportCompressedSize: true },
   server: {
     host: "127.0.0.1",

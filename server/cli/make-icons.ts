@@ -1,7 +1,7 @@
 // Draws Tideline's app icons (issue 16) from the product's own mark — two breaker bars with the
 // flood's water line across them, in the "night watch" palette — and writes the PNGs the web app
 // manifest names. Run `node --import tsx server/cli/make-icons.ts` after changing the drawing;
-// the PNGs are committed, so a build needs nothing but the files in public/icons.
+// the PNGs are committed, so a build needs nothing but the files in src/public/icons.
 import { writeFileSync } from "node:fs";
 import { join } from "node:path";
 import sharp from "sharp";
@@ -28,7 +28,7 @@ function svg(safe: number, rounded: boolean): string {
 </svg>`;
 }
 
-const dir = join(projectRoot, "public", "icons");
+const dir = join(projectRoot, "src", "public", "icons");
 writeFileSync(join(dir, "tideline.svg"), svg(0.86, true));
 const plain = Buffer.from(svg(0.86, true));
 const maskable = Buffer.from(svg(0.62, false));
