@@ -201,7 +201,7 @@ export class Jobs {
    * attempt only (`retry_count`, state active): once the job has been failed and fetched again
    * elsewhere, a late renewal from here changes nothing.
    */
-  private async holdLease(job: PgBoss.JobWithMetadata<any>, seconds: number, log: Logger) {
+  private async holdLease(job: PgBoss.JobWithMetadata<unknown>, seconds: number, log: Logger) {
     const db = executor(this.config.db);
     const renew = () =>
       db.executeSql(
