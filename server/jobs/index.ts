@@ -11,7 +11,7 @@
  * (TIDELINE_WORKER=off) creates the queues and enqueues; only processes with the
  * worker on run handlers and fire schedules.
  */
-import { CompiledQuery, type Kysely } from "kysely";
+import { CompiledQuery } from "kysely";
 import PgBoss from "pg-boss";
 import type { Db } from "../db";
 import { log as rootLog, type Logger } from "../log";
@@ -35,15 +35,23 @@ export interface JobOptions {
   retryDelay?: number;
   /** Double the delay on each retry (with jitter). */
   retryBackoff?: boolean;
-  /** A run longer than this is failed (and retried). Default 15 minutes. */
+  /** A run longer than this is failed (and retried): the hard cap of one attempt. Default 15 minutes. */
   expireInSeconds?: number;
+  /**
+   * A lease for long jobs (pg-boss 10 has no heartbeat of its own): while the handler runs, this
+   * process keeps its job's expiry `leaseSeconds` ahead, renewing it every third of that. A process
+   * that dies (kill -9, power, OOM) stops renewing, so pg-boss's maintenance fails the job within
+   * `leaseSeconds` + the maintenance interval and it is retried by another worker, instead of after
+   * the whole `expireInSeconds`. `expireInSeconds` stays the cap of a live attempt.
+   */
+  leaseSeconds?: number;
   /** Jobs fetched at once by one worker of this process; they run one after another. */
   batchSize?: number;
 }
 
 export interface EnqueueOptions {
   /** Enqueue inside this transaction: the job exists only if the transaction commits. */
-  trx?: Kysely<any>;
+  trx?: Db;
   /** Run no earlier than this. */
   startAfter?: Date;
   /** At most one queued job per key (see pg-boss singletonKey). */
@@ -61,18 +69,26 @@ export interface JobsConfig {
   pollingIntervalSeconds?: number;
   /** Seconds between schedule checks (pg-boss default 30; tests use less). */
   cronMonitorIntervalSeconds?: number;
+  /**
+   * Seconds between pg-boss's maintenance runs, fleet-wide (it fails expired jobs, so it bounds how
+   * soon a dead worker's job is retried); default TIDELINE_JOB_MAINTENANCE_SECONDS or 30
+   * (pg-boss's own default is 120).
+   */
+  maintenanceIntervalSeconds?: number;
   log?: Logger;
 }
 
 interface Definition {
+  // eslint-disable-next-line @typescript-eslint/no-explicit-any -- one map holds handlers of every payload type
   handler: JobHandler<any>;
   options: JobOptions;
 }
 
 /** pg-boss talks to PostgreSQL through Kysely's pool (one pool per process), or a transaction. */
-const executor = (db: Kysely<any>): PgBoss.Db => ({
+const executor = (db: Db): PgBoss.Db => ({
   async executeSql(text, values) {
     const r = await db.withoutPlugins().executeQuery(CompiledQuery.raw(text, values ?? []));
+    // eslint-disable-next-line @typescript-eslint/no-explicit-any -- pg-boss's Db interface types rows as any[]
     return { rows: r.rows as any[] };
   },
 });
@@ -91,6 +107,7 @@ export class Jobs {
   constructor(private config: JobsConfig) {
     this.log = (config.log ?? rootLog).child({ component: "jobs" });
     const poll = config.pollingIntervalSeconds ?? Number(process.env.TIDELINE_JOB_POLL_SECONDS ?? 2);
+    const maintenance = config.maintenanceIntervalSeconds ?? Number(process.env.TIDELINE_JOB_MAINTENANCE_SECONDS ?? 30);
     this.boss = new PgBoss({
       db: executor(config.db),
       schema: "pgboss",
@@ -98,6 +115,7 @@ export class Jobs {
       schedule: config.work,
       migrate: true,
       pollingIntervalSeconds: poll,
+      maintenanceIntervalSeconds: Math.max(1, Math.round(maintenance)),
       ...(config.cronMonitorIntervalSeconds ? { cronMonitorIntervalSeconds: config.cronMonitorIntervalSeconds } : {}),
     });
     // Unheard 'error' events would end the process; a lost connection is logged and polling goes on.
@@ -130,8 +148,9 @@ export class Jobs {
     for (const [name, { options }] of this.defs) {
       const { batchSize: _b, ...queueOpts } = options;
       const q = Object.fromEntries(Object.entries(queueOpts).filter(([, v]) => v !== undefined));
-      await this.boss.createQueue(name, { name, ...q });
-      await this.boss.updateQueue(name, { name, ...q });
+      const { leaseSeconds: _l, ...policy } = q;
+      await this.boss.createQueue(name, { name, ...policy });
+      await this.boss.updateQueue(name, { name, ...policy });
     }
     if (this.config.work) {
       for (const [name, def] of this.defs)
@@ -147,6 +166,7 @@ export class Jobs {
     this.log.info({ queues: [...this.defs.keys()], worker: this.config.work }, "job queue started");
   }
 
+  // eslint-disable-next-line @typescript-eslint/no-explicit-any -- the payload type is the handler's (Definition)
   private async run(name: string, def: Definition, batch: PgBoss.JobWithMetadata<any>[]) {
     // pg-boss completes or fails the whole batch; batches are 1 unless a job asks for more.
     for (const job of batch) {
@@ -159,6 +179,7 @@ export class Jobs {
         log: this.log.child({ job: name, jobId: job.id, attempt: job.retryCount + 1 }),
       };
       const t0 = performance.now();
+      const lease = def.options.leaseSeconds ? await this.holdLease(job, def.options.leaseSeconds, ctx.log) : null;
       try {
         await def.handler(job.data, ctx);
         this.onJobEnd?.(name, true, (performance.now() - t0) / 1000);
@@ -167,8 +188,34 @@ export class Jobs {
         this.onJobEnd?.(name, false, (performance.now() - t0) / 1000);
         ctx.log.warn({ err: e, willRetry: !ctx.lastAttempt }, "job failed");
         throw e;
+      } finally {
+        lease?.release();
       }
     }
+  }
+
+  /**
+   * Keeps one running job's expiry `seconds` ahead until released. pg-boss 10 fails an active job
+   * when `started_on + expire_in < now()`; the lease moves `started_on` (never `expire_in`, which a
+   * retried job keeps and which bounds its next attempt in the worker). The update matches this
+   * attempt only (`retry_count`, state active): once the job has been failed and fetched again
+   * elsewhere, a late renewal from here changes nothing.
+   */
+  private async holdLease(job: PgBoss.JobWithMetadata<unknown>, seconds: number, log: Logger) {
+    const db = executor(this.config.db);
+    const renew = () =>
+      db.executeSql(
+        `update pgboss.job set started_on = now() + make_interval(secs => $3) - expire_in
+         where name = $1 and id = $2 and state = 'active' and retry_count = $4`,
+        [job.name, job.id, seconds, job.retryCount],
+      );
+    await renew().catch((e) => log.warn({ err: e }, "job lease not renewed"));
+    const timer = setInterval(
+      () => void renew().catch((e) => log.warn({ err: e }, "job lease not renewed")),
+      Math.max(250, (seconds * 1000) / 3),
+    );
+    timer.unref();
+    return { release: () => clearInterval(timer) };
   }
 
   /** Queue a job; with `trx` it is part of that transaction. Throws for an undefined job. */

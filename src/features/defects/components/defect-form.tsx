@@ -1,6 +1,7 @@
-import { useEffect, useState, type FormEvent } from "react";
+import { useState, type FormEvent } from "react";
 import { Button } from "../../../components/button";
 import { SelectField, TextArea, TextField } from "../../../components/field";
+import { MoneyField } from "../../../components/money-field";
 import {
   DEFECT_CATEGORIES,
   DEFECT_CATEGORY_LABELS,
@@ -48,10 +49,14 @@ export function DefectForm({
   const [positionId, setPositionId] = useState(prefill.positionId ?? "");
   const [sectionId, setSectionId] = useState(prefill.sectionId ?? "");
   const positions = useBoardPositions(siteId, boardId);
-  useEffect(() => {
-    const p = positions.data?.find((x) => x.id === positionId);
-    if (p) setSectionId(p.sectionId ?? "");
-  }, [positionId, positions.data]);
+  // Choosing a position (or its list arriving) sets the section to the position's own; adjusted while
+  // rendering (React's "storing information from previous renders"), not in an effect.
+  const chosen = positions.data?.find((x) => x.id === positionId);
+  const [sectionFrom, setSectionFrom] = useState<string | null>(null);
+  if ((chosen?.id ?? null) !== sectionFrom) {
+    setSectionFrom(chosen?.id ?? null);
+    if (chosen) setSectionId(chosen.sectionId ?? "");
+  }
   const fields = error instanceof ApiError ? error.fields : {};
 
   function submit(e: FormEvent<HTMLFormElement>) {
@@ -225,15 +230,7 @@ export function DefectForm({
         error={fields.effortHours}
         hint="Leave blank if unknown: it counts as a working day."
       />
-      <TextField
-        label="Estimated cost"
-        name="costEstimate"
-        type="number"
-        min={0}
-        step={1}
-        inputMode="decimal"
-        error={fields.costEstimate}
-      />
+      <MoneyField label="Estimated cost" name="costEstimate" error={fields.costEstimate} />
       <TextField label="Parts needed (optional)" name="partsNeeded" maxLength={2000} error={fields.partsNeeded} />
       <SelectField label="Parts" name="partsState" defaultValue="none_needed" error={fields.partsState}>
         {PARTS_STATES.map((p) => (
