@@ -7,6 +7,7 @@ const query = (key: unknown[], state: Partial<Q["state"]>): Q =>
   ({
     queryKey: key,
     queryHash: JSON.stringify(key),
+    dehydratedAt: 1,
     state: {
       data: undefined,
       dataUpdateCount: 1,
