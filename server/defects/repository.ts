@@ -30,6 +30,29 @@ export const updateDefect = (db: Db, id: string, version: number, patch: Updatea
 export const insertStatusChange = (db: Db, v: Insertable<Database["defectStatusChanges"]>) =>
   db.insertInto("defectStatusChanges").values(v).execute();
 
+/** The defects linked to these components, with what their priority score is made of. */
+export const defectsOfComponents = (db: Db, siteId: string, componentIds: string[]) =>
+  db
+    .selectFrom("defects as d")
+    .innerJoin("components as c", "c.id", "d.componentId")
+    .where("d.siteId", "=", siteId)
+    .where("d.componentId", "in", componentIds)
+    .select([
+      "d.id",
+      "d.severity",
+      "d.safetyCritical",
+      "d.blocksEnergisation",
+      "d.effortHours",
+      "d.partsState",
+      "d.priorityScore",
+      "c.heritage",
+    ])
+    .execute();
+
+/** The derived score only: not an edit by anyone, so the version stays (a save recomputes it anyway). */
+export const setPriorityScore = (db: Db, id: string, score: number) =>
+  db.updateTable("defects").set({ priorityScore: score }).where("id", "=", id).execute();
+
 /** Heritage of the linked component (priority's "original fabric" term). */
 export const componentHeritage = async (db: Db, siteId: string, componentId: string | null) =>
   componentId

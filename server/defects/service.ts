@@ -44,6 +44,25 @@ export async function scoreFor(
   });
 }
 
+/**
+ * A component's heritage changed (inventory calls this in its transaction): the defects linked to
+ * it are ranked again, since original fabric weighs in their priority.
+ */
+export async function componentHeritageChanged(trx: Db, siteId: string, componentIds: string[]) {
+  if (!componentIds.length) return;
+  for (const d of await repo.defectsOfComponents(trx, siteId, componentIds)) {
+    const { score } = priorityScore({
+      severity: d.severity,
+      safetyCritical: d.safetyCritical,
+      blocksEnergisation: d.blocksEnergisation,
+      originalFabric: d.heritage === "original",
+      effortHours: d.effortHours === null ? null : Number(d.effortHours),
+      partsAvailable: d.partsState,
+    });
+    if (score !== d.priorityScore) await repo.setPriorityScore(trx, d.id, score);
+  }
+}
+
 async function current(db: Db, siteId: string, id: string) {
   return repo.findRow(db, siteId, id);
 }

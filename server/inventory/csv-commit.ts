@@ -10,6 +10,7 @@ import type { ImportResponse } from "../../src/schemas/inventory";
 import type { Db } from "../db";
 import { AppError } from "../errors";
 import { demandChanged } from "../parts/service";
+import { componentHeritageChanged } from "../defects/service";
 import type { DecodedText } from "../csv-read";
 import { UNIQUE, mapUnique, updateVersioned } from "./common";
 import { answerOf, validateImport, type PlannedRow } from "./csv-import";
@@ -133,6 +134,7 @@ export async function commitImport(
     const componentIds = await writeUpdates(trx, siteId, actorId, updates, sectionOf, audit);
     await recordAuditMany(trx, audit);
     if (componentIds.length) await demandChanged(trx, siteId, { componentIds }, actorId); // nameplates move wanted-list demand
+    if (componentIds.length) await componentHeritageChanged(trx, siteId, componentIds); // so does original fabric, for defects
     return { rows: response.rows, summary: { ...response.summary, committed: true } };
   });
 }

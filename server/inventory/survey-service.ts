@@ -30,6 +30,7 @@ import {
   type CustodyFacts,
 } from "../../src/domain/custody-chain";
 import { demandChanged } from "../parts/service";
+import { componentHeritageChanged } from "../defects/service";
 
 type Inspect = z.output<typeof createInspectionBody>;
 type Custody = z.output<typeof custodyBody>;
@@ -65,6 +66,8 @@ export async function patchComponent(db: Db, siteId: string, id: string, actorId
         after: d.after,
       });
     if (d.changed) await demandChanged(trx, siteId, { componentIds: [id] }, actorId); // a nameplate change moves its wanted-list demand
+    if (patch.heritage !== undefined && patch.heritage !== before.heritage)
+      await componentHeritageChanged(trx, siteId, [id]); // original fabric weighs in its defects' priority
     return after;
   });
 }
@@ -239,6 +242,7 @@ export async function moveCustodyFor(
     ...(heritageChanges ? { heritage: m.heritage } : {}),
   };
   const component = await updateVersioned(trx, "components", siteId, componentId, before.version, patch, "component");
+  if (heritageChanges) await componentHeritageChanged(trx, siteId, [componentId]);
   if (moving)
     await repo.insertMove(trx, {
       siteId,

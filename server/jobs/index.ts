@@ -35,8 +35,16 @@ export interface JobOptions {
   retryDelay?: number;
   /** Double the delay on each retry (with jitter). */
   retryBackoff?: boolean;
-  /** A run longer than this is failed (and retried). Default 15 minutes. */
+  /** A run longer than this is failed (and retried): the hard cap of one attempt. Default 15 minutes. */
   expireInSeconds?: number;
+  /**
+   * A lease for long jobs (pg-boss 10 has no heartbeat of its own): while the handler runs, this
+   * process keeps its job's expiry `leaseSeconds` ahead, renewing it every third of that. A process
+   * that dies (kill -9, power, OOM) stops renewing, so pg-boss's maintenance fails the job within
+   * `leaseSeconds` + the maintenance interval and it is retried by another worker, instead of after
+   * the whole `expireInSeconds`. `expireInSeconds` stays the cap of a live attempt.
+   */
+  leaseSeconds?: number;
   /** Jobs fetched at once by one worker of this process; they run one after another. */
   batchSize?: number;
 }
@@ -61,6 +69,12 @@ export interface JobsConfig {
   pollingIntervalSeconds?: number;
   /** Seconds between schedule checks (pg-boss default 30; tests use less). */
   cronMonitorIntervalSeconds?: number;
+  /**
+   * Seconds between pg-boss's maintenance runs, fleet-wide (it fails expired jobs, so it bounds how
+   * soon a dead worker's job is retried); default TIDELINE_JOB_MAINTENANCE_SECONDS or 30
+   * (pg-boss's own default is 120).
+   */
+  maintenanceIntervalSeconds?: number;
   log?: Logger;
 }
 
@@ -91,6 +105,7 @@ export class Jobs {
   constructor(private config: JobsConfig) {
     this.log = (config.log ?? rootLog).child({ component: "jobs" });
     const poll = config.pollingIntervalSeconds ?? Number(process.env.TIDELINE_JOB_POLL_SECONDS ?? 2);
+    const maintenance = config.maintenanceIntervalSeconds ?? Number(process.env.TIDELINE_JOB_MAINTENANCE_SECONDS ?? 30);
     this.boss = new PgBoss({
       db: executor(config.db),
       schema: "pgboss",
@@ -98,6 +113,7 @@ export class Jobs {
       schedule: config.work,
       migrate: true,
       pollingIntervalSeconds: poll,
+      maintenanceIntervalSeconds: Math.max(1, Math.round(maintenance)),
       ...(config.cronMonitorIntervalSeconds ? { cronMonitorIntervalSeconds: config.cronMonitorIntervalSeconds } : {}),
     });
     // Unheard 'error' events would end the process; a lost connection is logged and polling goes on.
@@ -130,8 +146,9 @@ export class Jobs {
     for (const [name, { options }] of this.defs) {
       const { batchSize: _b, ...queueOpts } = options;
       const q = Object.fromEntries(Object.entries(queueOpts).filter(([, v]) => v !== undefined));
-      await this.boss.createQueue(name, { name, ...q });
-      await this.boss.updateQueue(name, { name, ...q });
+      const { leaseSeconds: _l, ...policy } = q;
+      await this.boss.createQueue(name, { name, ...policy });
+      await this.boss.updateQueue(name, { name, ...policy });
     }
     if (this.config.work) {
       for (const [name, def] of this.defs)
@@ -159,6 +176,7 @@ export class Jobs {
         log: this.log.child({ job: name, jobId: job.id, attempt: job.retryCount + 1 }),
       };
       const t0 = performance.now();
+      const lease = def.options.leaseSeconds ? await this.holdLease(job, def.options.leaseSeconds, ctx.log) : null;
       try {
         await def.handler(job.data, ctx);
         this.onJobEnd?.(name, true, (performance.now() - t0) / 1000);
@@ -167,8 +185,34 @@ export class Jobs {
         this.onJobEnd?.(name, false, (performance.now() - t0) / 1000);
         ctx.log.warn({ err: e, willRetry: !ctx.lastAttempt }, "job failed");
         throw e;
+      } finally {
+        lease?.release();
       }
     }
+  }
+
+  /**
+   * Keeps one running job's expiry `seconds` ahead until released. pg-boss 10 fails an active job
+   * when `started_on + expire_in < now()`; the lease moves `started_on` (never `expire_in`, which a
+   * retried job keeps and which bounds its next attempt in the worker). The update matches this
+   * attempt only (`retry_count`, state active): once the job has been failed and fetched again
+   * elsewhere, a late renewal from here changes nothing.
+   */
+  private async holdLease(job: PgBoss.JobWithMetadata<any>, seconds: number, log: Logger) {
+    const db = executor(this.config.db);
+    const renew = () =>
+      db.executeSql(
+        `update pgboss.job set started_on = now() + make_interval(secs => $3) - expire_in
+         where name = $1 and id = $2 and state = 'active' and retry_count = $4`,
+        [job.name, job.id, seconds, job.retryCount],
+      );
+    await renew().catch((e) => log.warn({ err: e }, "job lease not renewed"));
+    const timer = setInterval(
+      () => void renew().catch((e) => log.warn({ err: e }, "job lease not renewed")),
+      Math.max(250, (seconds * 1000) / 3),
+    );
+    timer.unref();
+    return { release: () => clearInterval(timer) };
   }
 
   /** Queue a job; with `trx` it is part of that transaction. Throws for an undefined job. */

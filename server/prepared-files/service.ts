@@ -295,6 +295,7 @@ export async function renderFile(deps: PreparedDeps, data: { fileId: string }, c
     .executeTakeFirst()) as Row | undefined;
   if (!claimed) return; // removed, already made, or asked for again under a newer job
   const attempt = claimed.attempts;
+  ctx.log.info({ fileId: claimed.id, kind: claimed.kind, attempt }, "preparing file");
   const mine = (q: any) =>
     q.where("id", "=", claimed.id).where("attempts", "=", attempt).where("state", "=", "rendering");
 
@@ -450,7 +451,12 @@ export function definePreparedFileJobs(jobs: Jobs, deps: Omit<PreparedDeps, "job
     retryLimit: envNumber("PREPARED_FILE_RETRY_LIMIT", 2, env),
     retryDelay: envNumber("PREPARED_FILE_RETRY_DELAY_SECONDS", 15, env),
     retryBackoff: true,
-    expireInSeconds: envNumber("PREPARED_FILE_JOB_EXPIRE_SECONDS", 15 * 60, env),
+    // A live render renews a lease; a render whose worker died is failed by the queue's maintenance
+    // once the lease lapses and retried elsewhere (about lease + TIDELINE_JOB_MAINTENANCE_SECONDS +
+    // retry delay: under two minutes by default, where the bare 15-minute expiry took a quarter hour).
+    leaseSeconds: envNumber("PREPARED_FILE_LEASE_SECONDS", 60, env),
+    // The cap of one live attempt (a hung render), no longer what a crash waits for.
+    expireInSeconds: envNumber("PREPARED_FILE_JOB_EXPIRE_SECONDS", 60 * 60, env),
   });
   jobs.define(
     PURGE_JOB,

@@ -33,6 +33,7 @@ import {
   type Overrides,
 } from "./judge";
 import { GROUND_HUNT_SOURCE, groundHuntFinding } from "../../src/domain/ground-detection";
+import { TRIP_TESTABLE_KINDS } from "../../src/domain/trip-test";
 import type { GroundHunt, groundHuntBody, stepVoltageBody, tripTestBody } from "../../src/schemas/readings";
 import * as repo from "./repository";
 
@@ -523,6 +524,9 @@ export async function recordTripTest(
   }
   const id = await db.transaction().execute(async (trx) => {
     const c = await componentOrThrow(trx, siteId, componentId);
+    // The pages offer a trip test only on these kinds; the server refuses the rest the same way.
+    if (!(TRIP_TESTABLE_KINDS as readonly string[]).includes(c.kind))
+      throw invalid("componentId", "A trip test is recorded on a breaker, a bus tie or a trip unit, not on this part.");
     const { measuredAt, ...rest } = b;
     const row = { siteId, boardId: c.boardId, componentId, ...rest, measuredAt, recordedBy: userId };
     const { id } = await repo.insertTripTest(trx, row);

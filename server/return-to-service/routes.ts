@@ -17,7 +17,6 @@ import {
   stepBody,
   supersedeBody,
   watchCheckBody,
-  type RtsOverviewBoard,
 } from "../../src/schemas/return-to-service";
 import type { Db } from "../db";
 import { AppError } from "../errors";
@@ -59,31 +58,7 @@ export function rtsRoutes(db: Db) {
 
   r.get(base, requireSiteRole(db, "rts.read"), async (req, res) => {
     const { siteId } = site.parse(req.params);
-    const now = new Date();
-    const boards: RtsOverviewBoard[] = [];
-    for (const b of await repo.listBoards(db, siteId)) {
-      const v = await boardView(db, siteId, b.id, now);
-      const current = v.stages.find((s) => s.status !== "released") ?? null;
-      boards.push({
-        boardId: b.id,
-        boardName: b.name,
-        stages: v.stages.length,
-        released: v.stages.filter((s) => s.status === "released").length,
-        current: current && {
-          id: current.id,
-          name: current.name,
-          state: current.gate.state,
-          blockers: current.gate.blockers.length,
-        },
-        overdue: v.stages.some((s) => !!s.watch?.overdueSince),
-        sequence: v.stages.map((s) => ({
-          id: s.id,
-          name: s.name,
-          state: s.gate.state,
-          blockers: s.gate.blockers.length,
-        })),
-      });
-    }
+    const boards = await service.siteOverview(db, siteId);
     res.json({ boards });
   });
 

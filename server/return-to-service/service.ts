@@ -27,6 +27,7 @@ import type {
   watchCheckBody,
   EvidenceItem,
   QualifiedPerson,
+  RtsOverviewBoard,
 } from "../../src/schemas/return-to-service";
 import { can, type Action } from "../../src/domain/permissions";
 import { recordAudit } from "../audit";
@@ -53,6 +54,38 @@ async function stageOrThrow(db: Db, ctx: Ctx, stageId: string, lock = false) {
   return s;
 }
 /** The stage as the board view shows it now (for 409 answers and responses). */
+/**
+ * Each board of the site with its stages and where it stands. A board without a plan costs nothing
+ * here; a planned board's states come from its full view (the gate needs its evidence), two boards
+ * at a time so that one overview does not take the whole pool.
+ */
+export async function siteOverview(db: Db, siteId: string, now = new Date()): Promise<RtsOverviewBoard[]> {
+  const [boards, stages] = await Promise.all([repo.listBoards(db, siteId), repo.listStagesOfSite(db, siteId)]);
+  const planned = [...new Set(stages.map((s) => s.boardId))];
+  const views = new Map<string, Awaited<ReturnType<typeof boardView>>>();
+  for (let i = 0; i < planned.length; i += 2)
+    await Promise.all(planned.slice(i, i + 2).map(async (id) => views.set(id, await boardView(db, siteId, id, now))));
+  return boards.map((b) => {
+    const v = views.get(b.id);
+    const list = v?.stages ?? [];
+    const current = list.find((s) => s.status !== "released") ?? null;
+    return {
+      boardId: b.id,
+      boardName: b.name,
+      stages: list.length,
+      released: list.filter((s) => s.status === "released").length,
+      current: current && {
+        id: current.id,
+        name: current.name,
+        state: current.gate.state,
+        blockers: current.gate.blockers.length,
+      },
+      overdue: list.some((s) => !!s.watch?.overdueSince),
+      sequence: list.map((s) => ({ id: s.id, name: s.name, state: s.gate.state, blockers: s.gate.blockers.length })),
+    };
+  });
+}
+
 export async function stageView(db: Db, siteId: string, boardId: string, stageId: string, now = new Date()) {
   const v = await boardView(db, siteId, boardId, now);
   return v.stages.find((s) => s.id === stageId) ?? null;

@@ -120,20 +120,49 @@ beforeAll(async () => {
     RTS_OVERDUE_CRON: "* * * * *",
     DATABASE_POOL_MAX: "5",
   };
+  // One at a time: on a cold clone each process compiles the server through tsx, and three
+  // compiling at once on two cores once took more than two minutes (CI). A's start fills tsx's
+  // transform cache, so B and W then start in seconds.
   A = start("A", "server/index.ts", { ...common, PORT: String(portA), SHUTDOWN_DRAIN_DELAY_MS: "3000" });
-  B = start("B", "server/index.ts", { ...common, PORT: String(portB), TIDELINE_WORKER: "off" });
-  W = start("W", "server/cli/worker.ts", { ...common });
   A.base = `http://127.0.0.1:${portA}`;
+  await untilReady(A);
+  B = start("B", "server/index.ts", { ...common, PORT: String(portB), TIDELINE_WORKER: "off" });
   B.base = `http://127.0.0.1:${portB}`;
-  for (const p of [A, B])
-    await waitFor(
-      `instance ${p.name} to be ready`,
-      async () => (await fetch(`${p.base}/api/health/ready`)).status === 200,
-      120_000,
-      250,
-    );
-  await waitFor("the worker to start", async () => W.output.includes("worker running"), 120_000, 250);
-}, 240_000);
+  W = start("W", "server/cli/worker.ts", { ...common });
+  await untilReady(B);
+  await untilUp(W, "the worker to start", () => W.output.includes("worker running"));
+}, 600_000);
+
+/**
+ * Waits for a started process, but says why when it does not come: it failed at once if the
+ * process exited, and on a timeout it gives the last readiness answer and the process's log.
+ */
+async function untilUp(p: Proc, what: string, probe: () => boolean | Promise<boolean>, timeoutMs = 240_000) {
+  const until = Date.now() + timeoutMs;
+  let exited: { code: number | null; signal: string | null } | null = null;
+  void p.exit.then((e) => (exited = e));
+  for (;;) {
+    if (await Promise.resolve(probe()).catch(() => false)) return;
+    if (exited)
+      throw new Error(
+        `${p.name} exited (${JSON.stringify(exited)}) before ${what}; its log:\n${p.output.slice(-4000)}`,
+      );
+    if (Date.now() > until)
+      throw new Error(`timed out after ${timeoutMs / 1000} s waiting for ${what}; its log:\n${p.output.slice(-4000)}`);
+    await sleep(250);
+  }
+}
+
+async function untilReady(p: Proc) {
+  let last = "no answer yet";
+  await untilUp(p, `instance ${p.name} to be ready (last readiness answer: ${last})`, async () => {
+    const r = await fetch(`${p.base}/api/health/ready`);
+    last = `${r.status} ${await r.text()}`;
+    return r.status === 200;
+  }).catch((e: Error) => {
+    throw new Error(e.message.replace("no answer yet", last));
+  });
+}
 
 afterAll(async () => {
   for (const p of [A, B, W]) if (p && p.child.exitCode === null) p.child.kill("SIGTERM");

@@ -101,6 +101,39 @@ describe("editing", () => {
     expect(stale.body.error.current).toMatchObject({ id: d.id, title: "First edit", version: d.version + 1 });
   });
 
+  it("when the linked component's heritage changes, its defects are ranked again (original fabric weighs in)", async () => {
+    const r = await raise(as.volunteer, { inspectionId: board.inspectionId, effortHours: 3, partsState: "in_hand" });
+    const before = r.body.defect.priorityScore;
+    const c = await t.db
+      .selectFrom("components")
+      .select(["id", "version", "heritage"])
+      .where("id", "=", r.body.defect.componentId)
+      .executeTakeFirstOrThrow();
+    expect(c.heritage).toBe("original");
+    const patched = await as.curator.patch(`/api/sites/${fx.siteId}/components/${c.id}`, {
+      heritage: "modern",
+      version: c.version,
+    });
+    expect(patched.status).toBe(200);
+    const after = (await as.curator.get(url(`/${r.body.defect.id}`))).body.defect;
+    const expected = priorityScore({
+      severity: "impaired",
+      safetyCritical: false,
+      blocksEnergisation: false,
+      originalFabric: false,
+      effortHours: 3,
+      partsAvailable: "in_hand",
+    }).score;
+    expect(after.priorityScore).toBe(expected);
+    expect(before - after.priorityScore).toBe(10); // the heritage term of src/domain/priority.ts
+    // Only the derived score moved: someone holding the defect open can still save it.
+    expect(after.version).toBe(r.body.defect.version);
+    await as.curator.patch(`/api/sites/${fx.siteId}/components/${c.id}`, {
+      heritage: "original",
+      version: c.version + 1,
+    });
+  });
+
   it("changing severity re-stores the priority score", async () => {
     const d = (await raise(as.curator, { severity: "cosmetic", effortHours: 0 })).body.defect;
     const r = await as.curator.patch(url(`/${d.id}`), {

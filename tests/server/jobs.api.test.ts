@@ -1,6 +1,6 @@
-import { sql } from "kysely";
+import { sql, type CompiledQuery } from "kysely";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { createDb, poolOf } from "../../server/db";
+import { createDb, poolOf, type Db } from "../../server/db";
 import { createJobs, workerEnabled, type Jobs } from "../../server/jobs";
 import { WEEKLY_SUMMARY_JOB, startJobs } from "../../server/jobs/registry";
 import { memoryMailer } from "../../server/mail/mailer";
@@ -118,3 +118,132 @@ describe("the queue's own connections", () => {
     await app.destroy();
   }, 30_000);
 });
+
+describe("a long job's lease (pg-boss 10 has no heartbeat; server/jobs/index.ts keeps one)", () => {
+  const LEASE = 3;
+  const expiryIn = async (name: string) => {
+    const { rows } = await sql<{ s: number; state: string; retryCount: number }>`
+      select extract(epoch from started_on + expire_in - now())::float as s, state::text, retry_count as "retryCount"
+      from pgboss.job where name = ${name} order by created_on desc limit 1`.execute(t.db);
+    return rows[0];
+  };
+
+  it("a running job's expiry is kept a lease ahead (not its whole hard cap) and a live job is never cut off by it", async () => {
+    let finish!: () => void;
+    const done = new Promise<void>((r) => (finish = r));
+    let runs = 0;
+    const jobs = createJobs({ db: t.db, work: true, pollingIntervalSeconds: 0.5, maintenanceIntervalSeconds: 1 });
+    jobs.define(
+      "test.leased-live",
+      async () => {
+        runs++;
+        await done;
+      },
+      { leaseSeconds: LEASE, expireInSeconds: 600, retryDelay: 1 },
+    );
+    await jobs.start();
+    try {
+      await jobs.enqueue("test.leased-live", {});
+      await waitUntil(async () => (await expiryIn("test.leased-live"))?.state === "active");
+      // Longer than the lease, with maintenance every second: the renewals keep it active.
+      await new Promise((r) => setTimeout(r, (LEASE + 2) * 1000));
+      const mid = await expiryIn("test.leased-live");
+      expect(mid.state).toBe("active");
+      expect(mid.retryCount).toBe(0);
+      expect(mid.s, "seconds until the job would be failed").toBeGreaterThan(0);
+      expect(mid.s, "seconds until the job would be failed").toBeLessThanOrEqual(LEASE + 0.5);
+      finish();
+      await waitUntil(async () => (await expiryIn("test.leased-live")).state === "completed");
+      expect(runs).toBe(1);
+    } finally {
+      finish();
+      await jobs.stop(2000);
+    }
+  }, 60_000);
+
+  it("a worker that dies mid-job stops renewing; the job is failed when its lease lapses and another worker runs it", async () => {
+    // The dying worker talks to the database through a gate; closing it is the process going away
+    // (kill -9): no renewal, no completion, no graceful hand-back. (The real kill is in
+    // tests/faults/fleet.test.ts.) Opened again at the end, its held statements then find the job
+    // done by the other worker and change nothing.
+    const gate = frozenGate(t.db);
+    const dying = createJobs({ db: gate.db, work: true, pollingIntervalSeconds: 0.5, maintenanceIntervalSeconds: 1 });
+    const seen: string[] = [];
+    let unblock!: () => void;
+    const never = new Promise<void>((r) => (unblock = r));
+    const opts = { leaseSeconds: LEASE, expireInSeconds: 600, retryDelay: 1, retryLimit: 2 };
+    dying.define(
+      "test.leased-crash",
+      async (_d, ctx) => {
+        seen.push(`dying, attempt ${ctx.retryCount + 1}`);
+        await never;
+      },
+      opts,
+    );
+    await dying.start();
+    const survivor = createJobs({ db: t.db, work: true, pollingIntervalSeconds: 0.5, maintenanceIntervalSeconds: 1 });
+    survivor.define(
+      "test.leased-crash",
+      async (_d, ctx) => void seen.push(`survivor, attempt ${ctx.retryCount + 1}`),
+      opts,
+    );
+    try {
+      await dying.enqueue("test.leased-crash", {});
+      await waitUntil(async () => seen.length === 1);
+      gate.close(); // "kill -9"
+      await survivor.start();
+      // Without the lease this waits for the 600 s cap; with it: lease + maintenance + retry delay.
+      await waitUntil(async () => (await expiryIn("test.leased-crash")).state === "completed", 45_000);
+      expect(seen).toEqual(["dying, attempt 1", "survivor, attempt 2"]);
+      const after = await expiryIn("test.leased-crash");
+      expect(after.retryCount).toBe(1);
+    } finally {
+      gate.open();
+      unblock();
+      await survivor.stop(2000);
+      await dying.stop(2000);
+      await gate.settled();
+    }
+    expect(seen, "the dying worker's late completion changes nothing").toHaveLength(2);
+  }, 90_000);
+});
+
+/** A Db whose statements wait while the gate is closed (a frozen or dead process, seen from the database). */
+function frozenGate(db: Db) {
+  let closed: Promise<void> | null = null;
+  let release = () => {};
+  let inFlight = 0;
+  const inner = db.withoutPlugins();
+  const gated = {
+    withoutPlugins: () => gated,
+    executeQuery: async (q: CompiledQuery) => {
+      inFlight++;
+      try {
+        while (closed) await closed;
+        return await inner.executeQuery(q);
+      } finally {
+        inFlight--;
+      }
+    },
+  };
+  return {
+    db: gated as unknown as Db,
+    close: () => {
+      closed = new Promise<void>((r) => (release = r));
+    },
+    open: () => {
+      closed = null;
+      release();
+    },
+    /** Resolves when no statement of the gated process is still running. */
+    settled: () => waitUntil(async () => inFlight === 0),
+  };
+}
+
+async function waitUntil(check: () => Promise<boolean>, timeoutMs = 20_000) {
+  const until = Date.now() + timeoutMs;
+  while (!(await check().catch(() => false))) {
+    if (Date.now() > until) throw new Error(`not within ${timeoutMs} ms`);
+    await new Promise((r) => setTimeout(r, 200));
+  }
+}

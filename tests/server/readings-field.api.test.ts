@@ -193,6 +193,32 @@ describe("trip tests, step voltage, ground hunt", () => {
     expect(ok.body.test.judgement).toMatchObject({ verdict: "meets", window: "700–1300 A" });
   });
 
+  it("a trip test on a part that has no trip (a meter) is a 400 and stores nothing", async () => {
+    const pos = await t.db
+      .insertInto("positions")
+      .values({ siteId: fx.siteId, boardId, designation: "M-1", kind: "meter", gridRow: 9, gridCol: 9 })
+      .returning("id")
+      .executeTakeFirstOrThrow();
+    const meter = await t.db
+      .insertInto("components")
+      .values({ siteId: fx.siteId, positionId: pos.id, kind: "meter" })
+      .returning("id")
+      .executeTakeFirstOrThrow();
+    const r = await as.volunteer.post(`${site()}/components/${meter.id}/trip-tests`, {
+      test: "inverse_time",
+      tripUnit: "thermal_magnetic",
+      ratingAmps: 20,
+      systemVolts: 240,
+      testAmps: 60,
+      tripSeconds: 30,
+      measuredAt: "2026-11-22T09:00:00Z",
+    });
+    expect(r.status).toBe(400);
+    expect(r.body.error.fields).toHaveProperty("componentId");
+    const kept = await t.db.selectFrom("tripTests").where("componentId", "=", meter.id).select("id").execute();
+    expect(kept).toHaveLength(0);
+  });
+
   it("a step-voltage test falling 30 % is investigated (common practice: 25 %)", async () => {
     const r = await as.volunteer.post(`${site()}/boards/${boardId}/step-voltage-tests`, {
       componentId,

@@ -216,6 +216,24 @@ describe("the overview and the operations log", () => {
     expect(b.sequence.map((s: any) => s.id)).toEqual(stages.map((s: any) => s.id));
     expect(b.sequence.map((s: any) => s.state)).toEqual(stages.map((s: any) => s.gate.state));
   });
+  it("a board without a plan is listed, in name order among the others, with no stages", async () => {
+    const other = await t.db
+      .insertInto("boards")
+      .values({ siteId: fx.siteId, name: "Aaa shore panel", nominalVolts: 230 })
+      .returning("id")
+      .executeTakeFirstOrThrow();
+    const r = await as.viewer.get(`${site()}/return-to-service`);
+    expect(r.body.boards[0]).toEqual({
+      boardId: other.id,
+      boardName: "Aaa shore panel",
+      stages: 0,
+      released: 0,
+      current: null,
+      overdue: false,
+      sequence: [],
+    });
+    expect(r.body.boards.some((b: any) => b.boardId === boardId && b.stages > 0)).toBe(true);
+  });
   it("an operation in the log names its breaker, who operated it, why and during which stage", async () => {
     const s = await newStage("Breaker exercise");
     const r = await as.volunteer.post(`${site()}/components/${breakerId}/breaker-operations`, {
