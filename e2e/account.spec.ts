@@ -1,9 +1,10 @@
 import { expect, test } from "@playwright/test";
 import { expectNoSeriousA11yViolations } from "./support/a11y";
 import { signIn } from "./support/auth";
+import { adminApi, uniqueEmail, waitForMail } from "./support/mailbox";
 
-test("a member switches an e-mail notification off on the account page, and it stays off", async ({ page }) => {
-  await signIn(page, "photographer");
+test("a curator switches an e-mail notification off on the account page, and it stays off", async ({ page }) => {
+  await signIn(page, "curator");
   await page.getByRole("link", { name: "Account" }).click();
   await expect(page.getByRole("heading", { name: "Your account" })).toBeVisible();
   await expectNoSeriousA11yViolations(page, "account page");
@@ -15,4 +16,67 @@ test("a member switches an e-mail notification off on the account page, and it s
   await expect(page.getByRole("switch", { name: /Weekly summary/ })).not.toBeChecked();
   await page.getByRole("switch", { name: /Weekly summary/ }).click(); // leave the demo as it was
   await expect(page.getByRole("switch", { name: /Weekly summary/ })).toBeChecked();
+});
+
+test("each role is offered only the e-mails it receives", async ({ page }) => {
+  await signIn(page, "photographer");
+  await page.goto("/account");
+  await expect(page.getByRole("switch", { name: /A defect is assigned to me/ })).toBeVisible();
+  await expect(page.getByRole("switch")).toHaveCount(1);
+  await page.getByRole("button", { name: "Sign out" }).click();
+  await signIn(page, "viewer");
+  await page.goto("/account");
+  await expect(page.getByText("None of your roles receives e-mail from Tideline")).toBeVisible();
+  await expect(page.getByRole("switch")).toHaveCount(0);
+});
+
+test.describe("on a phone", () => {
+  test.use({ viewport: { width: 360, height: 740 } });
+
+  test("a person changes their password while signed in: the current one first, other sessions end, an e-mail tells them", async ({
+    page,
+    browser,
+    baseURL,
+  }) => {
+    // A person of their own, so the demo's shared password never changes under other tests.
+    const admin = await adminApi(baseURL!);
+    const email = uniqueEmail("pw-change");
+    const made = await admin.post("/api/admin/users", {
+      data: { email, name: "Wren Halloway", password: "first harbour phrase", isAdmin: false },
+    });
+    expect(made.status()).toBe(201);
+
+    const other = await browser.newPage();
+    for (const p of [page, other]) {
+      await p.goto("/sign-in");
+      await p.getByLabel("E-mail").fill(email);
+      await p.getByLabel("Password").fill("first harbour phrase");
+      await p.getByRole("button", { name: "Sign in" }).click();
+      await expect(p.getByRole("button", { name: "Sign out" })).toBeVisible();
+    }
+
+    await page.goto("/account");
+    const form = page.getByRole("region", { name: "Change your password" });
+    await form.getByLabel("Current password").fill("not my password");
+    await form.getByLabel("New password").fill("second harbour phrase");
+    await form.getByRole("button", { name: "Change password" }).click();
+    await expect(form.getByText("That is not your current password")).toBeVisible();
+
+    await form.getByLabel("Current password").fill("first harbour phrase");
+    await form.getByRole("button", { name: "Change password" }).click();
+    await expect(form.getByRole("status")).toContainText("Password changed");
+    await expect(form.getByLabel("Current password")).toHaveValue("");
+    await page.screenshot({ path: ".data/test-results/account-password-phone.png", fullPage: true });
+
+    // This phone stays signed in; the other browser is signed out at its next request.
+    await page.reload();
+    await expect(page.getByRole("heading", { name: "Your account" })).toBeVisible();
+    expect((await other.request.get("/api/session")).status()).toBe(401);
+    await other.close();
+
+    const notice = await waitForMail(admin, email, /password was changed/);
+    expect(notice.text).toContain("Hello Wren Halloway");
+    expect(notice.text).toContain("/reset-password");
+    await admin.dispose();
+  });
 });

@@ -13,6 +13,8 @@ export const DEMO_SITE = {
   location: "Fitting-out berth 3, Saltmarrow Basin (fictional)",
   /** Exports write local times in this zone (issue 13); the basin is invented, the zone is a real IANA one. */
   timeZone: "America/Halifax",
+  /** Every cost on the site is in Canadian dollars (an ISO 4217 code; the amounts are invented). */
+  currency: "CAD",
   description:
     "Fictional 1946 coastal tender. Her engine-room switchboards were flooded with harbour water to above the breaker line while laid up; the crew is bringing them back section by section.",
 };

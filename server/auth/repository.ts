@@ -27,3 +27,22 @@ export async function insertUser(
 /** The one writer of a password: sign-up paths insert, a reset (server/password-reset) sets it here, in its transaction. */
 export const setPasswordHash = (db: Db, userId: string, passwordHash: string) =>
   db.updateTable("users").set({ passwordHash, updatedAt: new Date() }).where("id", "=", userId).execute();
+
+/**
+ * A signed-in change: replaces the hash only if it is still the one the current password was
+ * checked against (0 rows when another change got there first: never a silent overwrite).
+ */
+export const replacePasswordHash = async (db: Db, userId: string, fromHash: string, passwordHash: string) =>
+  Number(
+    (
+      await db
+        .updateTable("users")
+        .set({ passwordHash, updatedAt: new Date() })
+        .where("id", "=", userId)
+        .where("passwordHash", "=", fromHash)
+        .executeTakeFirst()
+    ).numUpdatedRows,
+  );
+
+export const findUserById = (db: Db, userId: string) =>
+  db.selectFrom("users").selectAll().where("id", "=", userId).executeTakeFirst();

@@ -1,5 +1,7 @@
 import { Router } from "express";
 import { signInBody } from "../../src/schemas/auth";
+import { changePasswordBody } from "../../src/schemas/account";
+import { changePassword } from "./password-change";
 import { recordAudit } from "../audit";
 import type { Db } from "../db";
 import { AppError } from "../errors";
@@ -57,6 +59,24 @@ export function authRoutes(db: Db, lucia: AppLucia, opts: { mail: MailDeps; limi
   r.post("/auth/sign-out", async (_req, res) => {
     if (res.locals.session) await lucia.invalidateSession(res.locals.session.id);
     setCookie(res, lucia.createBlankSessionCookie());
+    res.json({ ok: true });
+  });
+
+  /**
+   * Change one's own password while signed in: the current password is required and counts against
+   * the account's sign-in allowance when wrong; every session ends and this browser gets a new one.
+   */
+  r.post("/account/password", requireUser, async (req, res) => {
+    const body = changePasswordBody.parse(req.body);
+    const user = res.locals.user!;
+    const acct = accountKey(user.email);
+    await refuseIfSpent(limiters.signInAccount, acct, "Too many wrong passwords for this account.");
+    await changePassword(opts.mail, user.id, body, async (ok) => {
+      if (!ok) await countFailure(limiters.signInAccount, acct);
+    });
+    await lucia.invalidateUserSessions(user.id);
+    const session = await lucia.createSession(user.id, {});
+    setCookie(res, lucia.createSessionCookie(session.id));
     res.json({ ok: true });
   });
 

@@ -1,5 +1,12 @@
 import { Router } from "express";
-import { NOTIFICATION_KEYS, notificationKeyParam, setNotificationBody } from "../../src/schemas/account";
+import {
+  NOTIFICATION_LABELS,
+  notificationKeyParam,
+  notificationsFor,
+  setNotificationBody,
+} from "../../src/schemas/account";
+import { listMemberships } from "../auth/repository";
+import { AppError } from "../errors";
 import { recordAudit } from "../audit";
 import type { Db } from "../db";
 import { requireUser } from "../middleware/roles";
@@ -7,9 +14,11 @@ import { getPrefs, setPref } from "./prefs";
 
 export function notificationRoutes(db: Db) {
   const r = Router();
+  /** Only the e-mails one of the person's roles (on any site) receives: a viewer is offered none. */
+  const received = async (userId: string) => notificationsFor((await listMemberships(db, userId)).map((m) => m.role));
   const send = async (userId: string) => {
-    const prefs = await getPrefs(db, userId);
-    return { prefs: NOTIFICATION_KEYS.map((key) => ({ key, enabled: prefs[key] })) };
+    const [prefs, keys] = await Promise.all([getPrefs(db, userId), received(userId)]);
+    return { prefs: keys.map((key) => ({ key, enabled: prefs[key] })) };
   };
 
   r.get("/account/notifications", requireUser, async (_req, res) => {
@@ -21,6 +30,12 @@ export function notificationRoutes(db: Db) {
     const { key } = notificationKeyParam.parse(req.params);
     const { enabled } = setNotificationBody.parse(req.body);
     const userId = res.locals.user!.id;
+    if (!(await received(userId)).includes(key))
+      throw new AppError(
+        422,
+        "not_received",
+        `None of your roles receives "${NOTIFICATION_LABELS[key].label}", so there is nothing to switch.`,
+      );
     await db.transaction().execute(async (trx) => {
       await setPref(trx, userId, key, enabled);
       await recordAudit(trx, {

@@ -8,6 +8,7 @@ const siteCols = [
   "sites.location",
   "sites.description",
   "sites.timeZone",
+  "sites.currency",
 ] as const;
 
 export const listSitesForUser = (db: Db, userId: string) =>
@@ -75,3 +76,6 @@ export const countCurators = async (db: Db, siteId: string) =>
 
 export const setTimeZone = (db: Db, siteId: string, timeZone: string) =>
   db.updateTable("sites").set({ timeZone }).where("id", "=", siteId).returning(siteCols).executeTakeFirst();
+
+export const setCurrency = (db: Db, siteId: string, currency: string) =>
+  db.updateTable("sites").set({ currency }).where("id", "=", siteId).returning(siteCols).executeTakeFirst();

@@ -1,6 +1,12 @@
 import { Router } from "express";
 import { z } from "zod";
-import { changeRoleBody, createSiteBody, createUserBody, siteTimeZoneBody } from "../../src/schemas/sites";
+import {
+  changeRoleBody,
+  createSiteBody,
+  createUserBody,
+  siteCurrencyBody,
+  siteTimeZoneBody,
+} from "../../src/schemas/sites";
 import type { Db } from "../db";
 import { notFound } from "../errors";
 import { requireAdmin, requireSiteRole, requireUser } from "../middleware/roles";
@@ -33,10 +39,17 @@ export function siteRoutes(db: Db) {
     res.json({ site: { ...site, role: res.locals.siteRole } });
   });
 
-  r.put("/sites/:siteId/time-zone", requireSiteRole(db, "members.manage"), async (req, res) => {
+  r.put("/sites/:siteId/time-zone", requireSiteRole(db, "site.settings"), async (req, res) => {
     const { siteId } = z.object({ siteId: z.uuid() }).parse(req.params);
     const { timeZone } = siteTimeZoneBody.parse(req.body);
     const site = await service.setTimeZone(db, siteId, timeZone, res.locals.user!.id);
+    res.json({ site: { ...site, role: res.locals.siteRole } });
+  });
+
+  r.put("/sites/:siteId/currency", requireSiteRole(db, "site.settings"), async (req, res) => {
+    const { siteId } = z.object({ siteId: z.uuid() }).parse(req.params);
+    const { currency, from } = siteCurrencyBody.parse(req.body);
+    const site = await service.setCurrency(db, siteId, currency, from, res.locals.user!.id);
     res.json({ site: { ...site, role: res.locals.siteRole } });
   });
 

@@ -140,3 +140,40 @@ export async function setTimeZone(db: Db, siteId: string, timeZone: string, acto
     return site;
   });
 }
+
+/**
+ * The curator sets the site's currency (every cost is shown and entered in it); audited. Amounts are
+ * not converted: they were entered as numbers and now read in the new code. `from` guards a
+ * concurrent change: 409 with the current site when it no longer matches.
+ */
+export async function setCurrency(db: Db, siteId: string, currency: string, from: string | undefined, actorId: string) {
+  return db.transaction().execute(async (trx) => {
+    const before = await trx
+      .selectFrom("sites")
+      .select("currency")
+      .where("id", "=", siteId)
+      .forUpdate()
+      .executeTakeFirst();
+    if (!before) throw notFound("That site");
+    if (from !== undefined && from !== before.currency)
+      throw new AppError(
+        409,
+        "currency_changed",
+        `Someone set the currency to ${before.currency} meanwhile.`,
+        undefined,
+        (await repo.findSite(trx, siteId))!,
+      );
+    if (before.currency === currency) return (await repo.findSite(trx, siteId))!;
+    const site = (await repo.setCurrency(trx, siteId, currency))!;
+    await recordAudit(trx, {
+      siteId,
+      entityType: "site",
+      entityId: siteId,
+      action: "update",
+      actorId,
+      before: { currency: before.currency },
+      after: { currency },
+    });
+    return site;
+  });
+}

@@ -22,6 +22,8 @@ export const PERMISSIONS = {
   "site.read": EVERY_MEMBER,
   "members.manage": CURATOR,
   "invitations.manage": CURATOR,
+  /** The site's own settings: its time zone (exports) and currency (every money figure). */
+  "site.settings": CURATOR,
 
   /** Boards, sections, positions, nameplates, dispositions, flood record, CSV import. */
   "inventory.curate": CURATOR,

@@ -1,6 +1,8 @@
 import { z } from "zod";
 import { text } from "./common";
 import { passwordRule } from "./auth";
+import { rolesFor } from "../domain/permissions";
+import type { Role } from "../domain/vocab";
 
 export const resetRequestBody = z.object({
   email: text().trim().toLowerCase().email({ message: "Enter an e-mail address" }).max(254),
@@ -11,6 +13,18 @@ export const RESET_REQUEST_MESSAGE =
 export const resetRequestResponse = z.object({ ok: z.literal(true), message: text() });
 
 export const resetPasswordBody = z.object({ password: passwordRule });
+
+/** A signed-in person changes their password: the current one is required (a left-open session is not enough). */
+export const changePasswordBody = z
+  .object({
+    currentPassword: text().min(1, { message: "Enter your current password" }).max(1024),
+    newPassword: passwordRule,
+  })
+  .refine((b) => b.currentPassword !== b.newPassword, {
+    path: ["newPassword"],
+    message: "Choose a password different from the current one",
+  });
+export type ChangePasswordBody = z.infer<typeof changePasswordBody>;
 export const resetPreview = z.object({ email: text() });
 
 export const NOTIFICATION_KEYS = [
@@ -38,6 +52,25 @@ export const NOTIFICATION_LABELS: Record<NotificationKey, { label: string; hint:
     hint: "Qualified persons: an e-mail when a stage you are named for misses a watch check.",
   },
 };
+
+/**
+ * Who receives each e-mail: the one table the server (GET/PUT /api/account/notifications) and the
+ * account page read, written from the senders' own rules. A defect is assigned by the curator to
+ * someone who works on it (any role but a viewer, who only reads); a repair waits for the site's
+ * curators, who also get the weekly summary; an overdue watch check goes to the person named on the
+ * stage, who must be able to sign it (`rts.sign`). The account page offers a person only the e-mails
+ * one of their roles receives (Tideline's own rule, from the roles in the brief).
+ */
+export const NOTIFICATION_AUDIENCE: Record<NotificationKey, readonly Role[]> = {
+  defect_assigned: ["curator", "volunteer", "photographer", "scrounger"],
+  awaiting_verification: rolesFor("defects.manage"),
+  weekly_summary: ["curator"],
+  watch_overdue: rolesFor("rts.sign"),
+};
+
+/** The e-mails someone holding these roles (on any of their sites) may receive, in the table's order. */
+export const notificationsFor = (roles: readonly Role[]): NotificationKey[] =>
+  NOTIFICATION_KEYS.filter((k) => NOTIFICATION_AUDIENCE[k].some((r) => roles.includes(r)));
 
 export const notificationPrefsResponse = z.object({
   prefs: z.array(z.object({ key: z.enum(NOTIFICATION_KEYS), enabled: z.boolean() })),

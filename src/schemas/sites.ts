@@ -2,6 +2,7 @@ import { z } from "zod";
 import { text } from "./common";
 import { ROLES } from "../domain/vocab";
 import { isTimeZone } from "../domain/local-time";
+import { isCurrency } from "../domain/money";
 
 export const SITE_KINDS = ["vessel", "building", "plant"] as const;
 
@@ -21,6 +22,18 @@ export const siteTimeZoneBody = z.object({
   timeZone: text().trim().refine(isTimeZone, { message: "Give a time zone such as Europe/Lisbon or America/Halifax" }),
 });
 
+/**
+ * The site's currency (ISO 4217 code): every cost is shown and entered in it. `from` is the code the
+ * form was showing; when someone else changed it meanwhile the answer is 409, never a silent overwrite.
+ */
+export const siteCurrencyBody = z.object({
+  currency: text()
+    .trim()
+    .toUpperCase()
+    .refine(isCurrency, { message: "Give an ISO 4217 currency code such as EUR, USD or NOK" }),
+  from: text().trim().toUpperCase().max(3).optional(),
+});
+
 export const siteSchema = z.object({
   id: text(),
   name: text(),
@@ -29,6 +42,8 @@ export const siteSchema = z.object({
   description: text(),
   /** IANA zone of the site's local time (exports); "UTC" until a curator sets it. */
   timeZone: text().default("UTC"),
+  /** ISO 4217 code every money figure on the site is in; "USD" until a curator sets it. */
+  currency: text().default("USD"),
   role: z.enum([...ROLES, "admin"]),
 });
 export type SiteSummary = z.infer<typeof siteSchema>;

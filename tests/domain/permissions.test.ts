@@ -14,6 +14,7 @@ const EXPECTED: Record<Action, [boolean, boolean, boolean, boolean, boolean]> = 
   "site.read": [Y, Y, Y, Y, Y],
   "members.manage": [Y, N, N, N, N],
   "invitations.manage": [Y, N, N, N, N],
+  "site.settings": [Y, N, N, N, N],
   "inventory.curate": [Y, N, N, N, N],
   "inventory.log": [Y, Y, N, N, N],
   "custody.release": [Y, N, N, N, N],

@@ -47,7 +47,7 @@ const mailFor = (email: string) => smtp.mailbox.list().filter((m) => m.to.includ
 
 describe("notification switches", () => {
   it("are all on at first, and a switch turned off stays off", async () => {
-    const c = await signedIn(fx.crew.photographer.email);
+    const c = await signedIn(fx.crew.curator.email);
     expect((await c.get("/api/account/notifications")).body.prefs).toEqual([
       { key: "defect_assigned", enabled: true },
       { key: "awaiting_verification", enabled: true },
@@ -58,6 +58,48 @@ describe("notification switches", () => {
     const after = (await c.get("/api/account/notifications")).body.prefs;
     expect(after.find((p: { key: string }) => p.key === "weekly_summary").enabled).toBe(false);
     expect(after.find((p: { key: string }) => p.key === "defect_assigned").enabled).toBe(true);
+    await c.put("/api/account/notifications/weekly_summary", { enabled: true });
+  });
+
+  // Issue 14 item 11: a person is offered only the e-mails one of their roles receives (NOTIFICATION_AUDIENCE).
+  it.each([
+    ["viewer", []],
+    ["photographer", ["defect_assigned"]],
+    ["scrounger", ["defect_assigned"]],
+    ["volunteer", ["defect_assigned", "watch_overdue"]],
+  ] as const)("a %s is offered %j", async (role, keys) => {
+    const c = await signedIn(fx.crew[role].email);
+    const r = await c.get("/api/account/notifications");
+    expect(r.status).toBe(200);
+    expect(r.body.prefs.map((p: { key: string }) => p.key)).toEqual(keys);
+  });
+
+  it("a switch the person's roles never receive is a 422 that changes nothing", async () => {
+    const c = await signedIn(fx.crew.viewer.email);
+    const r = await c.put("/api/account/notifications/weekly_summary", { enabled: false });
+    expect(r.status).toBe(422);
+    expect(r.body.error.code).toBe("not_received");
+    const rows = await t.db
+      .selectFrom("notificationPrefs")
+      .selectAll()
+      .where("userId", "=", fx.crew.viewer.id)
+      .execute();
+    expect(rows).toEqual([]);
+  });
+
+  it("someone with two roles on two sites is offered what either receives", async () => {
+    const other = await t.db
+      .insertInto("sites")
+      .values({ name: "Second hulk", kind: "vessel", location: "", description: "" })
+      .returning("id")
+      .executeTakeFirstOrThrow();
+    await t.db
+      .insertInto("memberships")
+      .values({ siteId: other.id, userId: fx.crew.viewer.id, role: "curator" })
+      .execute();
+    const c = await signedIn(fx.crew.viewer.email);
+    expect((await c.get("/api/account/notifications")).body.prefs).toHaveLength(4);
+    await t.db.deleteFrom("memberships").where("siteId", "=", other.id).execute();
   });
 
   it("need a session (401); an unknown switch or a non-boolean is a 400", async () => {

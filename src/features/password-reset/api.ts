@@ -1,7 +1,7 @@
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { z } from "zod";
 import { api } from "../../lib/api-client";
-import { resetPreview, resetRequestResponse } from "../../schemas/account";
+import { resetPreview, resetRequestResponse, type ChangePasswordBody } from "../../schemas/account";
 
 export const resetKeys = {
   all: ["password-reset"] as const,
@@ -26,6 +26,15 @@ export function useCompleteReset(token: string) {
   return useMutation({
     mutationFn: (password: string) =>
       api.send("POST", `/api/auth/password-reset/${token}`, { password }, z.object({ ok: z.boolean() })),
+    onSuccess: () => qc.invalidateQueries(),
+  });
+}
+
+/** A signed-in change: the current password is required; every other session ends, this one is renewed. */
+export function useChangePassword() {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (b: ChangePasswordBody) => api.send("POST", "/api/account/password", b, z.object({ ok: z.boolean() })),
     onSuccess: () => qc.invalidateQueries(),
   });
 }

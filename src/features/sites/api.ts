@@ -80,3 +80,13 @@ export function useSetTimeZone(siteId: string) {
     onSuccess: () => qc.invalidateQueries({ queryKey: siteKeys.all }),
   });
 }
+
+/** The curator sets the site's currency; `from` is the one the form showed (409 if it changed meanwhile). */
+export function useSetCurrency(siteId: string) {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (b: { currency: string; from: string }) =>
+      api.send("PUT", `/api/sites/${siteId}/currency`, b, z.object({ site: siteSchema })).then((d) => d.site),
+    onSettled: () => qc.invalidateQueries({ queryKey: siteKeys.all }),
+  });
+}

@@ -2,6 +2,7 @@ import { Link } from "react-router";
 import { paths } from "../../../config/paths";
 import { useSession } from "../../../features/auth/api";
 import { NotificationSwitches } from "../../../features/notification-prefs/components/notification-switches";
+import { ChangePasswordForm } from "../../../features/password-reset/components/change-password-form";
 
 export default function AccountPage() {
   const session = useSession();
@@ -17,6 +18,7 @@ export default function AccountPage() {
           <dd className="break-all">{user.email}</dd>
         </dl>
       )}
+      {user && <ChangePasswordForm email={user.email} />}
       <NotificationSwitches />
       <p>
         <Link to={paths.home.href()}>Back to your site</Link>

@@ -83,7 +83,7 @@ export default function BoardSetupPage() {
       <BoardForm key={board.id} siteId={site.id} board={board} />
       <SectionsEditor siteId={site.id} boardId={board.id} sections={sections} />
       <GeneratePositions siteId={site.id} boardId={board.id} sections={sections} gridRows={board.gridRows} />
-      <div className="grid items-start gap-5 xl:grid-cols-[minmax(0,1fr)_30rem]">
+      <div className="grid grid-cols-[minmax(0,1fr)] items-start gap-5 xl:grid-cols-[minmax(0,1fr)_30rem]">
         <PositionOrderList
           siteId={site.id}
           boardId={board.id}

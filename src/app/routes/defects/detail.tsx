@@ -2,6 +2,7 @@ import { Link, useParams } from "react-router";
 import { SafetyNotice } from "../../../components/safety-notice";
 import { ErrorPanel, Loading } from "../../../components/status";
 import { paths } from "../../../config/paths";
+import { Money } from "../../../lib/money";
 import {
   DEFECT_CATEGORY_LABELS,
   DEFECT_SEVERITY_DEFINITIONS,
@@ -43,7 +44,7 @@ export default function DefectPage() {
     ["Category", DEFECT_CATEGORY_LABELS[d.category]],
     ["Component", detail.heritage ? HERITAGE_LABELS[detail.heritage as Heritage] : "—"],
     ["Effort", d.effortHours === null ? "Not estimated" : `${d.effortHours} h`],
-    ["Cost", d.costEstimate === null ? "—" : String(d.costEstimate)],
+    ["Cost", <Money value={d.costEstimate} />],
     ["Parts", `${PARTS_STATE_LABELS[d.partsState]}${d.partsNeeded ? `: ${d.partsNeeded}` : ""}`],
     ["Assignee", d.assigneeName ?? "Nobody"],
     ["Due", d.dueOn ?? "—"],

@@ -2,7 +2,7 @@ import { Link, useParams } from "react-router";
 import { ErrorPanel, Loading } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { useLineDetail } from "../../../features/parts/api";
-import { money } from "../../../features/parts/components/badges";
+import { Money } from "../../../lib/money";
 import { HistoryList } from "../../../features/parts/components/history-list";
 import { LeadsPanel } from "../../../features/parts/components/leads-panel";
 import { HeritageRuleForm, LineEditForm } from "../../../features/parts/components/line-edit-form";
@@ -45,7 +45,7 @@ export default function PartLinePage() {
           <ul className="mt-2 space-y-1">
             {acquisitions.map((a) => (
               <li key={a.id} className="text-sm">
-                <span className="font-mono">{a.acquiredOn}</span> · {a.qty} for {money(a.cost)}
+                <span className="font-mono">{a.acquiredOn}</span> · {a.qty} for <Money value={a.cost} />
                 {a.notes ? ` · ${a.notes}` : ""}
               </li>
             ))}

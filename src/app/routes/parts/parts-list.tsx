@@ -9,6 +9,7 @@ import { PartsPager } from "../../../features/parts/components/parts-pager";
 import { PartsTable } from "../../../features/parts/components/parts-table";
 import { ShareLinksPanel } from "../../../features/parts/components/share-links-panel";
 import { useFilterParams } from "../../../features/parts/use-filter-params";
+import { CurrencyForm } from "../../../features/sites/components/currency-form";
 import { useSiteContext } from "../sites/site-layout";
 import { can } from "../../../domain/permissions";
 
@@ -74,7 +75,12 @@ export default function PartsListPage() {
         ))}
       {canEdit && <NewLineForm siteId={site.id} />}
       <div className="grid gap-4 lg:grid-cols-2">
-        {list.data && <BudgetPanel budget={list.data.budget} />}
+        {list.data && (
+          <BudgetPanel
+            budget={list.data.budget}
+            settings={<CurrencyForm siteId={site.id} currency={site.currency} canEdit={can(role, "site.settings")} />}
+          />
+        )}
         {canEdit && <ShareLinksPanel siteId={site.id} canRevoke={can(role, "parts.revoke_share")} />}
       </div>
     </div>

@@ -3,6 +3,7 @@ import { ErrorPanel, Loading } from "../../../components/status";
 import { phoneNav, visibleNav } from "../../../config/nav";
 import type { SiteSummary } from "../../../schemas/sites";
 import { useSite } from "../../../features/sites/api";
+import { CurrencyProvider } from "../../../lib/money";
 
 export interface SiteContext {
   site: SiteSummary;
@@ -69,7 +70,9 @@ export default function SiteLayout() {
         )}
       </nav>
       <main id="main" className="mx-auto max-w-6xl p-4">
-        <Outlet context={{ site: site.data, role: site.data.role } satisfies SiteContext} />
+        <CurrencyProvider currency={site.data.currency}>
+          <Outlet context={{ site: site.data, role: site.data.role } satisfies SiteContext} />
+        </CurrencyProvider>
       </main>
     </>
   );

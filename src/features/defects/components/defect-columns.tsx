@@ -9,6 +9,7 @@ import {
   tableFeatures,
 } from "@tanstack/react-table";
 import { paths } from "../../../config/paths";
+import { Money } from "../../../lib/money";
 import { DEFECT_CATEGORY_LABELS, DEFECT_STATUS_LABELS } from "../../../domain/vocab";
 import type { DefectRow } from "../../../schemas/defects";
 import { SeverityBadge, StatusBadge, FlagMarks } from "./badges";
@@ -22,8 +23,6 @@ export const registerFeatures = tableFeatures({
 });
 const col = createColumnHelper<typeof registerFeatures, DefectRow>();
 
-const money = (n: number | null) =>
-  n === null ? "—" : n.toLocaleString(undefined, { style: "currency", currency: "USD", maximumFractionDigits: 0 });
 const date = (s: string) => s.slice(0, 10);
 
 /** Column labels for the column menu and the CSV (ids match the server's sort keys). */
@@ -159,7 +158,11 @@ export function makeColumns(siteId: string) {
     col.accessor("costEstimate", {
       id: "costEstimate",
       header: "Cost",
-      cell: (c) => <span className="font-mono">{money(c.getValue())}</span>,
+      cell: (c) => (
+        <span className="whitespace-nowrap font-mono">
+          <Money value={c.getValue()} whole />
+        </span>
+      ),
     }),
     col.accessor("createdAt", {
       id: "createdAt",

@@ -1,6 +1,7 @@
 import { useEffect, useState, type FormEvent } from "react";
 import { Button } from "../../../components/button";
 import { SelectField, TextArea, TextField } from "../../../components/field";
+import { MoneyField } from "../../../components/money-field";
 import {
   DEFECT_CATEGORIES,
   DEFECT_CATEGORY_LABELS,
@@ -225,15 +226,7 @@ export function DefectForm({
         error={fields.effortHours}
         hint="Leave blank if unknown: it counts as a working day."
       />
-      <TextField
-        label="Estimated cost"
-        name="costEstimate"
-        type="number"
-        min={0}
-        step={1}
-        inputMode="decimal"
-        error={fields.costEstimate}
-      />
+      <MoneyField label="Estimated cost" name="costEstimate" error={fields.costEstimate} />
       <TextField label="Parts needed (optional)" name="partsNeeded" maxLength={2000} error={fields.partsNeeded} />
       <SelectField label="Parts" name="partsState" defaultValue="none_needed" error={fields.partsState}>
         {PARTS_STATES.map((p) => (

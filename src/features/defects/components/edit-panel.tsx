@@ -1,6 +1,7 @@
 import { useState, type FormEvent } from "react";
 import { Button } from "../../../components/button";
 import { SelectField, TextArea, TextField } from "../../../components/field";
+import { MoneyField } from "../../../components/money-field";
 import { DEFECT_SEVERITIES, DEFECT_SEVERITY_DEFINITIONS, DEFECT_SEVERITY_LABELS } from "../../../domain/vocab";
 import { ApiError } from "../../../lib/api-client";
 import { PARTS_STATES, PARTS_STATE_LABELS, type DefectDetail } from "../../../schemas/defects";
@@ -116,14 +117,7 @@ export function EditPanel({ siteId, detail, canManage }: { siteId: string; detai
         defaultValue={d.effortHours ?? ""}
         error={fields.effortHours}
       />
-      <TextField
-        label="Cost"
-        name="costEstimate"
-        type="number"
-        min={0}
-        defaultValue={d.costEstimate ?? ""}
-        error={fields.costEstimate}
-      />
+      <MoneyField label="Cost" name="costEstimate" defaultValue={d.costEstimate ?? ""} error={fields.costEstimate} />
       <TextField label="Parts needed" name="partsNeeded" defaultValue={d.partsNeeded} />
       {canManage && (
         <TextField label="Due on" name="dueOn" type="date" defaultValue={d.dueOn ?? ""} error={fields.dueOn} />

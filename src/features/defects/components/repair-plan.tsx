@@ -1,12 +1,12 @@
 import { Link } from "react-router";
 import { EmptyState } from "../../../components/status";
 import { paths } from "../../../config/paths";
+import { Money } from "../../../lib/money";
 import type { RepairPlan } from "../../../schemas/defects";
 import { FlagMarks, SeverityBadge, StatusBadge } from "./badges";
 import "../styles/repair-plan-print.css";
 
 const hours = (h: number) => `${Math.round(h * 10) / 10} h`;
-const money = (n: number) => n.toLocaleString(undefined, { maximumFractionDigits: 0 });
 
 /** Active defects per board and section in the site's priority order, with totals per section. */
 export function RepairPlanSheet({ siteId, plan }: { siteId: string; plan: RepairPlan }) {
@@ -30,7 +30,7 @@ export function RepairPlanSheet({ siteId, plan }: { siteId: string; plan: Repair
                   <span className="font-semibold">{s.sectionName}</span>
                   <span className="ml-2 text-mist">
                     — {s.defects.length} defects · {hours(s.effortHours)}
-                    {s.unestimated ? ` + ${s.unestimated} not estimated` : ""} · cost {money(s.cost)}
+                    {s.unestimated ? ` + ${s.unestimated} not estimated` : ""} · cost <Money value={s.cost} whole />
                   </span>
                 </caption>
                 <thead>
@@ -94,7 +94,7 @@ export function RepairPlanSheet({ siteId, plan }: { siteId: string; plan: Repair
                         {d.effortHours === null ? "?" : hours(d.effortHours)}
                       </td>
                       <td className="px-2 py-1 text-right font-mono">
-                        {d.costEstimate === null ? "—" : money(d.costEstimate)}
+                        <Money value={d.costEstimate} whole />
                       </td>
                     </tr>
                   ))}
@@ -105,7 +105,9 @@ export function RepairPlanSheet({ siteId, plan }: { siteId: string; plan: Repair
                       Section total
                     </th>
                     <td className="px-2 py-1 text-right font-mono">{hours(s.effortHours)}</td>
-                    <td className="px-2 py-1 text-right font-mono">{money(s.cost)}</td>
+                    <td className="px-2 py-1 text-right font-mono">
+                      <Money value={s.cost} whole />
+                    </td>
                   </tr>
                 </tfoot>
               </table>

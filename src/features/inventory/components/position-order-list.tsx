@@ -68,7 +68,7 @@ export function PositionOrderList({
     setDrag(null);
   };
   return (
-    <section aria-labelledby="order-title" className="rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
+    <section aria-labelledby="order-title" className="min-w-0 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
       <h2 id="order-title" className="text-lg font-bold">
         Positions, in list order
       </h2>
@@ -103,7 +103,7 @@ export function PositionOrderList({
                   onDragOver={(e) => e.preventDefault()}
                   onDrop={onDrop(g, i)}
                   data-testid={`order-${p.designation}`}
-                  className={`flex items-center gap-2 rounded-md bg-hull-800 px-2 py-1 ring-1 ${selectedId === id ? "ring-brass-300" : "ring-hull-700"} ${drag?.g === g && drag.i === i ? "opacity-50" : ""}`}
+                  className={`flex flex-wrap items-center gap-x-2 gap-y-1 rounded-md bg-hull-800 px-2 py-1 ring-1 ${selectedId === id ? "ring-brass-300" : "ring-hull-700"} ${drag?.g === g && drag.i === i ? "opacity-50" : ""}`}
                 >
                   <span aria-hidden="true" className="cursor-grab select-none px-1 text-fog">
                     ⠿
@@ -115,33 +115,36 @@ export function PositionOrderList({
                     row {p.gridRow} · col {p.gridCol}
                     {p.colSpan > 1 || p.rowSpan > 1 ? ` · ${p.colSpan}×${p.rowSpan}` : ""}
                   </span>
-                  <span className="min-w-0 flex-1 truncate text-xs text-mist">{p.circuit}</span>
-                  <button
-                    type="button"
-                    className="min-h-11 min-w-11 rounded ring-1 ring-hull-600 disabled:opacity-30"
-                    disabled={i === 0}
-                    aria-label={`Move ${p.designation} up`}
-                    onClick={() => commit(g, i, i - 1)}
-                  >
-                    ↑
-                  </button>
-                  <button
-                    type="button"
-                    className="min-h-11 min-w-11 rounded ring-1 ring-hull-600 disabled:opacity-30"
-                    disabled={i === grp.ids.length - 1}
-                    aria-label={`Move ${p.designation} down`}
-                    onClick={() => commit(g, i, i + 1)}
-                  >
-                    ↓
-                  </button>
-                  <button
-                    type="button"
-                    className="min-h-11 rounded px-3 text-sm text-brass-300 ring-1 ring-hull-600"
-                    onClick={() => onEdit(id)}
-                    aria-label={`Edit ${p.designation}`}
-                  >
-                    Edit
-                  </button>
+                  <span className="min-w-0 flex-1 basis-24 truncate text-xs text-mist">{p.circuit}</span>
+                  {/* On a phone the buttons wrap to their own line under the position, never past the edge. */}
+                  <span className="ml-auto flex shrink-0 gap-2">
+                    <button
+                      type="button"
+                      className="min-h-11 min-w-11 rounded ring-1 ring-hull-600 disabled:opacity-30"
+                      disabled={i === 0}
+                      aria-label={`Move ${p.designation} up`}
+                      onClick={() => commit(g, i, i - 1)}
+                    >
+                      ↑
+                    </button>
+                    <button
+                      type="button"
+                      className="min-h-11 min-w-11 rounded ring-1 ring-hull-600 disabled:opacity-30"
+                      disabled={i === grp.ids.length - 1}
+                      aria-label={`Move ${p.designation} down`}
+                      onClick={() => commit(g, i, i + 1)}
+                    >
+                      ↓
+                    </button>
+                    <button
+                      type="button"
+                      className="min-h-11 rounded px-3 text-sm text-brass-300 ring-1 ring-hull-600"
+                      onClick={() => onEdit(id)}
+                      aria-label={`Edit ${p.designation}`}
+                    >
+                      Edit
+                    </button>
+                  </span>
                 </li>
               );
             })}

@@ -19,6 +19,12 @@ export function NotificationSwitches() {
           {set.error instanceof ApiError ? set.error.message : "The change was not saved."}
         </p>
       )}
+      {prefs.data?.length === 0 && (
+        <p className="text-sm text-mist">
+          None of your roles receives e-mail from Tideline, so there is nothing to switch here. A curator who gives you
+          another role on a site also gives you its e-mails.
+        </p>
+      )}
       <ul className="space-y-2">
         {prefs.data?.map((p) => (
           <li key={p.key}>

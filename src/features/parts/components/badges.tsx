@@ -49,6 +49,3 @@ export function PartStatusBadge({ status }: { status: PartStatus }) {
     </span>
   );
 }
-
-export const money = (v: number | null | undefined) =>
-  v == null ? "—" : v.toLocaleString("en-GB", { minimumFractionDigits: 2, maximumFractionDigits: 2 });

@@ -1,56 +1,72 @@
+import type { ReactNode } from "react";
+import { Money, useMoney } from "../../../lib/money";
 import type { PartsBudget } from "../../../schemas/parts";
-import { money } from "./badges";
 
-/** Estimated (unit cost × quantity) against spent (acquisitions), per board and in total. */
-export function BudgetPanel({ budget }: { budget: PartsBudget }) {
+/**
+ * Estimated (unit cost × quantity) against spent (acquisitions), per board and in total, in the
+ * site's currency. Each figure sits in its own labelled cell with room between them, so two amounts
+ * never read as one; on a phone each board is a short card of two labelled figures.
+ */
+export function BudgetPanel({ budget, settings }: { budget: PartsBudget; settings?: ReactNode }) {
+  const { currency } = useMoney();
   return (
-    <section aria-labelledby="budget-title" className="rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
+    <section aria-labelledby="budget-title" className="min-w-0 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
       <h2 id="budget-title" className="text-lg font-bold">
-        Budget
+        Budget <span className="text-sm font-normal text-mist">in {currency}</span>
       </h2>
-      <table className="mt-2 w-full text-sm">
+      <table className="mt-2 w-full table-fixed text-sm">
+        <colgroup>
+          <col />
+          <col className="w-[32%]" />
+          <col className="w-[32%]" />
+        </colgroup>
         <thead>
           <tr className="text-left text-mist">
             <th scope="col" className="py-1">
               Board
             </th>
-            <th scope="col" className="py-1 text-right">
+            <th scope="col" className="py-1 pl-3 text-right">
               Estimated
             </th>
-            <th scope="col" className="py-1 text-right">
+            <th scope="col" className="py-1 pl-3 text-right">
               Spent
             </th>
           </tr>
         </thead>
         <tbody>
           {budget.rows.map((r) => (
-            <tr key={r.boardId || "none"} className="border-t border-hull-700">
-              <th scope="row" className="py-1 text-left font-normal">
+            <tr key={r.boardId || "none"} className="border-t border-hull-700 align-top">
+              <th scope="row" className="break-words py-1 text-left font-normal">
                 {r.boardName}
                 {r.unestimatedLines > 0 && (
                   <span className="block text-xs text-fog">{r.unestimatedLines} line(s) not yet estimated</span>
                 )}
               </th>
-              <td className="py-1 text-right font-mono">{money(r.estimated)}</td>
-              <td className="py-1 text-right font-mono">{money(r.spent)}</td>
+              <td className="break-words py-1 pl-3 text-right font-mono">
+                <Money value={r.estimated} />
+              </td>
+              <td className="break-words py-1 pl-3 text-right font-mono">
+                <Money value={r.spent} />
+              </td>
             </tr>
           ))}
         </tbody>
         <tfoot>
-          <tr className="border-t-2 border-hull-500 font-semibold">
+          <tr className="border-t-2 border-hull-500 align-top font-semibold">
             <th scope="row" className="py-1 text-left">
               Total
             </th>
-            <td className="py-1 text-right font-mono" data-testid="budget-estimated">
-              {money(budget.total.estimated)}
+            <td className="break-words py-1 pl-3 text-right font-mono" data-testid="budget-estimated">
+              <Money value={budget.total.estimated} />
             </td>
-            <td className="py-1 text-right font-mono" data-testid="budget-spent">
-              {money(budget.total.spent)}
+            <td className="break-words py-1 pl-3 text-right font-mono" data-testid="budget-spent">
+              <Money value={budget.total.spent} />
             </td>
           </tr>
         </tfoot>
       </table>
       <p className="mt-2 text-xs text-fog">Spent on a line is shared across boards by how many each needs.</p>
+      {settings && <div className="mt-3 border-t border-hull-700 pt-3">{settings}</div>}
     </section>
   );
 }

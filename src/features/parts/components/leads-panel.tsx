@@ -1,6 +1,7 @@
 import { useState, type FormEvent } from "react";
 import { Button } from "../../../components/button";
 import { SelectField, TextArea, TextField } from "../../../components/field";
+import { MoneyField } from "../../../components/money-field";
 import {
   LEAD_SOURCE_KIND_LABELS,
   LEAD_SOURCE_KINDS,
@@ -12,7 +13,7 @@ import {
 import { ApiError } from "../../../lib/api-client";
 import type { PartLead } from "../../../schemas/parts";
 import { useAddLead, useUpdateLead } from "../api";
-import { money } from "./badges";
+import { Money } from "../../../lib/money";
 
 const numOrNull = (v: FormDataEntryValue | null) => (v === null || String(v).trim() === "" ? null : Number(v));
 
@@ -71,7 +72,7 @@ export function LeadsPanel({
             <div>
               <p className="font-semibold">{l.source}</p>
               <p className="text-sm text-mist">
-                {LEAD_SOURCE_KIND_LABELS[l.sourceKind]} · asking {money(l.askingPrice)}
+                {LEAD_SOURCE_KIND_LABELS[l.sourceKind]} · asking <Money value={l.askingPrice} />
                 {l.contact ? ` · ${l.contact}` : ""}
               </p>
               {l.notes && <p className="text-sm">{l.notes}</p>}
@@ -120,14 +121,7 @@ export function LeadsPanel({
             hint="A donor vessel or site, a dealer, a collector, a salvage yard"
           />
           <TextField label="Contact" name="contact" error={errors.contact} />
-          <TextField
-            label="Asking price"
-            name="askingPrice"
-            type="number"
-            step="0.01"
-            min={0}
-            error={errors.askingPrice}
-          />
+          <MoneyField label="Asking price" name="askingPrice" error={errors.askingPrice} />
           <TextArea label="Notes" name="notes" className="sm:col-span-2" error={errors.notes} />
           <div className="flex items-center gap-3 sm:col-span-2">
             <Button type="submit" disabled={add.isPending}>

@@ -1,6 +1,7 @@
 import { useState, type FormEvent } from "react";
 import { Button } from "../../../components/button";
 import { SelectField, TextArea, TextField } from "../../../components/field";
+import { MoneyField } from "../../../components/money-field";
 import { HERITAGE_RULE_LABELS, HERITAGE_RULES, type HeritageRule } from "../../../domain/vocab";
 import { ApiError } from "../../../lib/api-client";
 import type { PartLine } from "../../../schemas/parts";
@@ -99,12 +100,9 @@ export function LineEditForm({ siteId, line }: { siteId: string; line: PartLine 
       <h2 id="edit-title" className="text-lg font-bold sm:col-span-2">
         Working notes
       </h2>
-      <TextField
+      <MoneyField
         label="Estimated unit cost"
         name="estimatedUnitCost"
-        type="number"
-        step="0.01"
-        min={0}
         defaultValue={line.estimatedUnitCost ?? ""}
         error={o.errors.estimatedUnitCost}
       />

@@ -1,6 +1,7 @@
 import { COMPONENT_KIND_LABELS } from "../../../domain/vocab";
 import type { PartLine } from "../../../schemas/parts";
-import { HeritageRuleBadge, money, PartStatusBadge } from "./badges";
+import { Money } from "../../../lib/money";
+import { HeritageRuleBadge, PartStatusBadge } from "./badges";
 
 const FIELD_LABELS: Record<string, string> = {
   ratingAmps: "Rating",
@@ -59,11 +60,15 @@ export function LineSummary({ line }: { line: PartLine }) {
         </div>
         <div>
           <dt className="text-xs uppercase tracking-wide text-fog">Estimated</dt>
-          <dd className="font-mono">{money(line.estimated)}</dd>
+          <dd className="font-mono">
+            <Money value={line.estimated} />
+          </dd>
         </div>
         <div>
           <dt className="text-xs uppercase tracking-wide text-fog">Spent</dt>
-          <dd className="font-mono">{money(line.spent)}</dd>
+          <dd className="font-mono">
+            <Money value={line.spent} />
+          </dd>
         </div>
       </dl>
     </section>

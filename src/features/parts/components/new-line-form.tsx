@@ -1,6 +1,7 @@
 import { useState, type FormEvent } from "react";
 import { Button } from "../../../components/button";
 import { SelectField, TextField } from "../../../components/field";
+import { MoneyField } from "../../../components/money-field";
 import { COMPONENT_KIND_LABELS, COMPONENT_KINDS, type ComponentKind } from "../../../domain/vocab";
 import { ApiError } from "../../../lib/api-client";
 import { useCreateLine } from "../api";
@@ -65,14 +66,7 @@ export function NewLineForm({ siteId }: { siteId: string }) {
         <TextField label="Quantity" name="qty" type="number" min={1} defaultValue={1} required error={errors.qty} />
         <TextField label="Rating (A)" name="ratingAmps" type="number" step="any" min={0} error={errors.ratingAmps} />
         <TextField label="Voltage rating (V)" name="voltageRating" type="number" min={1} error={errors.voltageRating} />
-        <TextField
-          label="Estimated unit cost"
-          name="estimatedUnitCost"
-          type="number"
-          step="0.01"
-          min={0}
-          error={errors.estimatedUnitCost}
-        />
+        <MoneyField label="Estimated unit cost" name="estimatedUnitCost" error={errors.estimatedUnitCost} />
         <TextField label="Maker" name="maker" error={errors.maker} />
         <TextField label="Model" name="model" error={errors.model} />
         <TextField label="Internal notes" name="notes" error={errors.notes} />

@@ -10,7 +10,8 @@ import { Link } from "react-router";
 import { paths } from "../../../config/paths";
 import { HERITAGE_RULES, PART_STATUSES } from "../../../domain/vocab";
 import type { PartLine } from "../../../schemas/parts";
-import { HeritageRuleBadge, money, PartStatusBadge } from "./badges";
+import { Money } from "../../../lib/money";
+import { HeritageRuleBadge, PartStatusBadge } from "./badges";
 import { positionHref } from "./links";
 
 export const partsFeatures = tableFeatures({
@@ -99,7 +100,7 @@ export function partColumns(siteId: string) {
       sortFn: "basic",
       cell: (c) => (
         <span className="whitespace-nowrap font-mono text-sm">
-          {money(c.row.original.estimated)} / {money(c.row.original.spent)}
+          <Money value={c.row.original.estimated} /> / <Money value={c.row.original.spent} />
         </span>
       ),
     }),

@@ -32,7 +32,7 @@ export function PartsTable({ siteId, lines, busy = false, sort, dir, onSort }: P
     },
   });
   return (
-    <div className="overflow-x-auto rounded-lg ring-1 ring-hull-700">
+    <div className="relative overflow-x-auto rounded-lg ring-1 ring-hull-700">
       <table
         className={`w-full min-w-[52rem] border-collapse text-left ${busy ? "opacity-60" : ""}`}
         aria-label="Wanted parts"

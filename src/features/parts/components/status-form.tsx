@@ -1,6 +1,7 @@
 import { useState, type FormEvent } from "react";
 import { Button } from "../../../components/button";
 import { SelectField, TextField } from "../../../components/field";
+import { MoneyField } from "../../../components/money-field";
 import { PART_STATUS_LABELS, type PartStatus } from "../../../domain/vocab";
 import { ApiError } from "../../../lib/api-client";
 import type { LineDetail, StatusBody } from "../../../schemas/parts";
@@ -74,15 +75,7 @@ export function StatusForm({ siteId, detail }: { siteId: string; detail: LineDet
       </SelectField>
       {needsPurchase && (
         <div className="grid gap-3 sm:grid-cols-2">
-          <TextField
-            label="Cost"
-            name="cost"
-            type="number"
-            step="0.01"
-            min={0}
-            required={!acquisitions.length}
-            error={errors["acquisition.cost"]}
-          />
+          <MoneyField label="Cost" name="cost" required={!acquisitions.length} error={errors["acquisition.cost"]} />
           <TextField
             label="Acquired on"
             name="acquiredOn"
