@@ -156,6 +156,7 @@ async function waitReady(port: number, password: string) {
       if ((e as { code?: string }).code === "28P01")
         throw new Error(
           `the embedded database on 127.0.0.1:${port} refuses the password kept in .data (was its .passwords.json file replaced or lost?): ${(e as Error).message}`,
+          { cause: e },
         );
       await new Promise((r) => setTimeout(r, 150));
     }
