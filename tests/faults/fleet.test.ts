@@ -27,7 +27,7 @@ import { createTestDb, type TestDb } from "../helpers/db";
 import { makeCrew, makeUser } from "../helpers/fixtures";
 import { Client, TEST_PASSWORD } from "../helpers/http";
 import { form, makeBoard, noisyJpeg } from "../helpers/photo-fixtures";
-import { freePort, sleep, waitFor } from "./helpers";
+import { freePort, sleep, stallableRelay, waitFor } from "./helpers";
 
 interface Proc {
   name: string;
@@ -48,9 +48,14 @@ const mailbox = new FakeMailbox();
 let A: Proc;
 let B: Proc;
 let W: Proc;
+/** How each process was started, to start it again after the kill -9 test. */
+const launch = new Map<string, { script: string; env: Record<string, string>; base?: string }>();
+/** The object store as the instances reach it: through a relay that can stall it. */
+let relay: Awaited<ReturnType<typeof stallableRelay>>;
 const BUCKET = "tideline-fleet";
 
 function start(name: string, script: string, env: Record<string, string>): Proc {
+  launch.set(name, { script, env });
   // `node --import tsx`, as the container runs it: signals reach the server itself. (The tsx
   // command-line wrapper relays SIGTERM and SIGKILLs a child that does not confirm within 30 ms.)
   const child = spawn(process.execPath, ["--import", "tsx", script], {
@@ -87,10 +92,11 @@ beforeAll(async () => {
   s3dir = await mkdtemp(join(tmpdir(), "tideline-fleet-s3-"));
   s3 = new S3rver({ address: "127.0.0.1", port: 0, directory: s3dir, silent: true });
   const s3port = ((await s3.run()) as AddressInfo).port;
+  relay = await stallableRelay(s3port);
   const s3env = {
     PHOTO_STORAGE: "s3",
     S3_BUCKET: BUCKET,
-    S3_ENDPOINT: `http://127.0.0.1:${s3port}`,
+    S3_ENDPOINT: `http://127.0.0.1:${relay.port}`,
     S3_REGION: "us-east-1",
     S3_ACCESS_KEY_ID: "S3RVER",
     S3_SECRET_ACCESS_KEY: "S3RVER",
@@ -98,7 +104,7 @@ beforeAll(async () => {
   };
   store = new S3Storage({
     bucket: BUCKET,
-    endpoint: s3env.S3_ENDPOINT,
+    endpoint: `http://127.0.0.1:${s3port}`, // the test's own view of the store, never stalled
     region: "us-east-1",
     accessKeyId: "S3RVER",
     secretAccessKey: "S3RVER",
@@ -119,6 +125,11 @@ beforeAll(async () => {
     // The overdue watch check on a one-minute schedule, so a test sees it fire within a minute.
     RTS_OVERDUE_CRON: "* * * * *",
     DATABASE_POOL_MAX: "5",
+    // A render's lease (server/jobs leaseSeconds) short, and the queue's maintenance frequent, so
+    // the kill -9 case sees the render retried within seconds rather than a minute and a half.
+    PREPARED_FILE_LEASE_SECONDS: "8",
+    TIDELINE_JOB_MAINTENANCE_SECONDS: "2",
+    PREPARED_FILE_RETRY_DELAY_SECONDS: "1",
   };
   // One at a time: on a cold clone each process compiles the server through tsx, and three
   // compiling at once on two cores once took more than two minutes (CI). A's start fills tsx's
@@ -169,10 +180,21 @@ afterAll(async () => {
   await Promise.all([A, B, W].filter(Boolean).map((p) => Promise.race([p.exit, sleep(15_000)])));
   store?.client.destroy();
   await smtp?.stop();
+  await relay?.close();
   await s3?.close();
   await t?.drop();
   if (s3dir) await rm(s3dir, { recursive: true, force: true });
 });
+
+/** Starts a process again as it was first started (same port for a web instance). */
+async function restart(p: Proc): Promise<Proc> {
+  const l = launch.get(p.name)!;
+  const q = start(p.name, l.script, l.env);
+  q.base = p.base;
+  if (q.base) await untilReady(q);
+  else await untilUp(q, "the worker to start", () => q.output.includes("worker running"));
+  return q;
+}
 
 /** A client of one instance that carries a cookie got from another (what a load balancer does to a browser). */
 const clientOn = (p: Proc, cookie = "") => Object.assign(new Client(p.base!), { cookie });
@@ -303,6 +325,84 @@ describe("two web instances and a worker on one database, one object store and o
     for (const tick of ticks) expect(tick.n, `jobs made for the tick at ${tick.minute}`).toBe(1);
   });
 
+  it("kill -9 of the process making a prepared file mid-render: another worker makes it; one file, one notice, one e-mail", async () => {
+    const { boardId } = await makeBoard(t.db, fx.siteId, ["7-1", "7-2", "7-3"], "Aft emergency board");
+    const curator = clientOn(B); // asked through the web-only instance; A or W renders
+    await curator.signIn(fx.crew.curator.email);
+    const readyMails = () =>
+      mailbox.list().filter((m) => m.to.includes(fx.crew.curator.email) && m.subject.includes("is ready"));
+    const mailsBefore = readyMails().length;
+    // The object store stops answering: the render gets as far as storing the finished PDF and
+    // hangs there, mid-job, on whichever worker took it.
+    relay.stall();
+    let fileId = "";
+    let runner: Proc;
+    try {
+      const asked = await curator.post(`/api/sites/${fx.siteId}/prepared-files`, {
+        kind: "survey_report",
+        params: { boardId },
+      });
+      expect(asked.status).toBe(202);
+      fileId = asked.body.file.id;
+      const rendering = (p: Proc, attempt: number) =>
+        logLines(p).some((l) => l.msg === "preparing file" && l.fileId === fileId && l.attempt === attempt);
+      runner = await waitFor(
+        "a worker to take the render and reach the store",
+        async () => {
+          const p = [A, W].find((x) => rendering(x, 1));
+          return p && relay.held > 0 ? p : null;
+        },
+        90_000,
+        100,
+      );
+      const row = await t.db
+        .selectFrom("preparedFiles")
+        .select(["state", "attempts"])
+        .where("id", "=", fileId)
+        .executeTakeFirstOrThrow();
+      expect(row).toEqual({ state: "rendering", attempts: 1 });
+      runner.child.kill("SIGKILL");
+      expect(await runner.exit).toEqual({ code: null, signal: "SIGKILL" });
+    } finally {
+      relay.release();
+    }
+    const other = runner === A ? W : A;
+    // Its lease lapses (8 s here), the queue's maintenance fails the job, the other worker retries it.
+    const file = await waitFor(
+      "the other worker to make the file",
+      async () => {
+        const r = await curator.get(`/api/sites/${fx.siteId}/prepared-files/${fileId}`);
+        return r.body?.file?.state === "ready" ? r.body.file : null;
+      },
+      120_000,
+      250,
+    );
+    expect(file.attempts).toBe(2);
+    expect(
+      logLines(other).some((l) => l.msg === "preparing file" && l.fileId === fileId && l.attempt === 2),
+      `${other.name} made the second attempt`,
+    ).toBe(true);
+    // One file: only the second attempt's object is stored, and it is the report.
+    expect(await store.listKeys(`prepared/${fx.siteId}/${fileId}/`)).toEqual([`prepared/${fx.siteId}/${fileId}/2.pdf`]);
+    const pdf = await fetch(`${B.base}${file.downloadUrl}`, { headers: { cookie: curator.cookie } });
+    expect(pdf.status).toBe(200);
+    expect(
+      Buffer.from(await pdf.arrayBuffer())
+        .subarray(0, 5)
+        .toString(),
+    ).toBe("%PDF-");
+    // One notice on the page, one e-mail.
+    const notices = await curator.get("/api/prepared-files/notices");
+    expect(notices.body.notices.filter((n: { id: string }) => n.id === fileId)).toHaveLength(1);
+    await waitFor("the ready e-mail", async () => readyMails().length > mailsBefore, 60_000, 250);
+    await sleep(3000); // time for a second one to show up, if the kill had made two
+    expect(readyMails().length - mailsBefore).toBe(1);
+
+    // The killed process comes back, so the fleet is whole again for what follows.
+    if (runner! === A) A = await restart(A);
+    else W = await restart(W);
+  }, 400_000);
+
   it("SIGTERM on A during a burst: A stops being ready, finishes what it took, exits; no request and no queued job is lost", async () => {
     const curator = clientOn(A);
     await curator.signIn(fx.crew.curator.email);
@@ -330,7 +430,6 @@ describe("two web instances and a worker on one database, one object store and o
       }
     })();
     let next = 0;
-    let retried = 0;
     const send = (base: string, body: string) =>
       new Promise<number>((resolve, reject) => {
         const req = request(
@@ -359,7 +458,6 @@ describe("two web instances and a worker on one database, one object store and o
         } catch (e) {
           // Only a connection that was never made is safe to try elsewhere.
           if ((e as NodeJS.ErrnoException).code !== "ECONNREFUSED" || attempt > 4) throw e;
-          retried++;
         }
       }
     };

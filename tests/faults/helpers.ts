@@ -109,3 +109,65 @@ export async function bulkDefects(db: Db, siteId: string, n: number, description
     FROM generate_series(1, ${n}) AS g`.execute(db);
   return board.id;
 }
+
+/**
+ * A TCP relay in front of a service (the fleet test puts it before the object store) that can
+ * hold what clients send: while stalled, bytes from clients are kept, not forwarded, so a client
+ * hangs mid-request as against a store that stopped answering. `held` counts the bytes kept;
+ * `release()` forwards them and relays again. A client that goes away (killed) drops its bytes.
+ */
+export async function stallableRelay(targetPort: number) {
+  const { connect } = await import("node:net");
+  let stalled = false;
+  let held = 0;
+  const open = new Set<{ flush(): void; end(): void }>();
+  const server = createServer((client) => {
+    const upstream = connect(targetPort, "127.0.0.1");
+    let queue: Buffer[] = [];
+    const conn = {
+      flush() {
+        for (const b of queue) upstream.write(b);
+        queue = [];
+      },
+      end: () => end(),
+    };
+    open.add(conn);
+    client.on("data", (b: Buffer) => {
+      if (stalled || queue.length) {
+        queue.push(b);
+        held += b.length;
+      } else upstream.write(b);
+    });
+    upstream.on("data", (b: Buffer) => client.write(b));
+    const end = () => {
+      open.delete(conn);
+      queue = [];
+      client.destroy();
+      upstream.destroy();
+    };
+    client.on("close", end);
+    upstream.on("close", end);
+    client.on("error", end);
+    upstream.on("error", end);
+  });
+  await new Promise<void>((r) => server.listen(0, "127.0.0.1", () => r()));
+  return {
+    port: (server.address() as { port: number }).port,
+    get held() {
+      return held;
+    },
+    stall() {
+      stalled = true;
+      held = 0;
+    },
+    release() {
+      stalled = false;
+      for (const c of open) c.flush();
+    },
+    close: () =>
+      new Promise<void>((r) => {
+        server.close(() => r());
+        for (const c of [...open]) c.end(); // keep-alive connections would hold close() open
+      }),
+  };
+}
