@@ -115,8 +115,8 @@ it("the defect-state rename maps every old value to the new one and back, in def
 
 it("every migration's down undoes it: all the way down leaves no table, type or function of ours, and up applies all again", async () => {
   const downName = `${name}_down`;
-  await ensureDatabase(adminUrl, downName, { fresh: true });
-  const d = createDb(adminUrl.replace(/\/postgres$/, `/${downName}`), 2);
+  await ensureDatabase(adminUrl, downName, { fresh: true, owner: inject("appRole") });
+  const d = createDb(inject("appUrl").replace(/\/postgres$/, `/${downName}`), 2);
   const ours = async () => {
     const r = await sql<{ kind: string; name: string }>`
       select 'table' as kind, table_name as name from information_schema.tables
