@@ -39,6 +39,8 @@ async function makeBreaker(baseURL: string) {
 async function visitOnline(page: Page, m: Awaited<ReturnType<typeof makeBreaker>>) {
   await page.goto(`/sites/${m.siteId}/boards/${m.boardId}`);
   await expect(page.getByRole("heading", { name: `Hull board ${m.designation.slice(0, -1)}` })).toBeVisible();
+  // A whole new page load within a second of a read can lose it (the write is throttled): wait until it is kept.
+  await expectKept(page, ["inventory", m.siteId, "board", m.boardId]);
   await page.goto(`/sites/${m.siteId}/log?position=${m.positionId}`);
   await expect(page.getByTestId("log-designation")).toHaveText(m.designation);
   await page.getByRole("tab", { name: "Move the part" }).click();
@@ -189,7 +191,7 @@ test.describe("readings, a watch check and a defect with no signal, on a 360 px 
   // load) within that second of its last read, so the board's readings were never written; the restore-time
   // refetch of 44c0b00 made that second busier. The app now also writes them when the page is hidden or left,
   // and this test waits until each page's reads are kept before moving on (support/offline.ts).
-  test("each waits on the phone, is sent in order when the signal returns, and exists exactly once", async ({
+  test("readings, a step test, a hunt step, a watch check and a defect wait on the phone, go in order when the signal returns, each exactly once", async ({
     page,
     context,
     baseURL,
@@ -231,12 +233,29 @@ test.describe("readings, a watch check and a defect with no signal, on a 360 px 
     await expect(page.getByTestId("reading-pending")).toContainText("Reading kept on this phone");
     await expect(page.getByTestId("waiting-count")).toHaveText("1 waiting to send");
 
+    // A step-voltage test and a ground-hunt step wait on the phone the same way.
+    await page.getByRole("button", { name: "Step voltage", exact: true }).click();
+    const step = page.getByRole("form", { name: "Record a step-voltage test" });
+    await step.getByLabel("Component").selectOption({ label: "No component: name the circuit" });
+    await step.getByLabel("Circuit", { exact: true }).fill(`${circuit} steps`);
+    for (const [i, mo] of ["900", "880", "860"].entries()) await step.getByLabel(`Step ${i + 1} reading (MΩ)`).fill(mo);
+    await step.getByRole("button", { name: "Save step test" }).click();
+    await expect(page.getByTestId("reading-pending")).toContainText("Step-voltage test kept on this phone");
+    await expect(page.getByTestId("waiting-count")).toHaveText("2 waiting to send");
+    await page.getByRole("button", { name: "Ground hunt", exact: true }).click();
+    const hunt = page.getByRole("form", { name: "Log a ground-hunt step" });
+    await hunt.getByLabel("Hunt", { exact: true }).fill(`Offline hunt ${tag}`);
+    await hunt.getByRole("button", { name: "Save this step" }).click();
+    await expect(page.getByTestId("reading-pending")).toContainText("1 step of this hunt kept on this phone");
+    await expect(page.getByTestId("waiting-count")).toHaveText("3 waiting to send");
+    await page.screenshot({ path: ".data/test-results/offline-hunt-pending.png" });
+
     await page.goto(`/sites/${m.siteId}/boards/${mainId}/watch`);
     await page.getByRole("button", { name: "All three equal" }).click();
     await page.getByLabel("Note").fill(note);
     await page.getByRole("button", { name: "Save the check" }).click();
     await expect(page.getByTestId("watch-pending")).toContainText("Kept on this phone");
-    await expect(page.getByTestId("waiting-count")).toHaveText("2 waiting to send");
+    await expect(page.getByTestId("waiting-count")).toHaveText("4 waiting to send");
 
     await page.goto(raiseUrl);
     await page.getByLabel("What is wrong").fill(title);
@@ -247,7 +266,7 @@ test.describe("readings, a watch check and a defect with no signal, on a 360 px 
       .locator("input[type=file]")
       .setInputFiles({ name: "verdigris-offline.jpg", mimeType: "image/jpeg", buffer: await shot() });
     await expect(page.getByTestId("photo-pending")).toContainText("verdigris-offline.jpg");
-    await expect(page.getByTestId("waiting-count")).toHaveText("4 waiting to send");
+    await expect(page.getByTestId("waiting-count")).toHaveText("6 waiting to send");
     await page.screenshot({ path: ".data/test-results/offline-defect-pending.png" });
 
     await context.setOffline(false);
@@ -256,8 +275,12 @@ test.describe("readings, a watch check and a defect with no signal, on a 360 px 
 
     const readings = (await (await api.get(`/api/sites/${m.siteId}/boards/${m.boardId}/readings`)).json()) as {
       insulation: Array<{ circuit: string }>;
+      stepTests: Array<{ circuit: string }>;
+      groundHunts: Array<{ hunt: string; steps: unknown[] }>;
     };
     expect(readings.insulation.filter((r) => r.circuit === circuit)).toHaveLength(1);
+    expect(readings.stepTests.filter((r) => r.circuit === `${circuit} steps`)).toHaveLength(1);
+    expect(readings.groundHunts.find((h) => h.hunt === `Offline hunt ${tag}`)?.steps).toHaveLength(1);
     const rts = (await (await api.get(`/api/sites/${m.siteId}/boards/${mainId}/return-to-service`)).json()) as {
       events: Array<{ kind: string; detail: string }>;
     };
