@@ -51,7 +51,12 @@ export function boardSizes(positions: number, boards = BOARDS): number[] {
 /** h(expr, salt): a stable 0…99 die from a row's id. */
 const die = (expr: string, salt: string) => sql.raw(`(abs(hashtext(${expr}::text || '${salt}')) % 100)`);
 
-export async function generateSite(db: Db, positions: number, log: (s: string) => void = () => {}): Promise<BenchSite> {
+export async function generateSite(
+  db: Db,
+  positions: number,
+  log: (s: string) => void = () => {},
+  opts: { boards?: number } = {},
+): Promise<BenchSite> {
   const t0 = performance.now();
   const step = async (label: string, q: ReturnType<typeof sql>) => {
     const a = performance.now();
@@ -98,7 +103,7 @@ export async function generateSite(db: Db, positions: number, log: (s: string) =
     .values({ siteId: s, occurredOn: "2026-10-01", waterType: "salt", maxDepthM: 1.1, hoursSubmerged: 30 })
     .execute();
 
-  const sizes = boardSizes(positions);
+  const sizes = boardSizes(positions, opts.boards ?? BOARDS);
   const values = sizes.map((n, b) => {
     const rows = Math.ceil(n / COLS);
     return sql`(${b + 1}::int, ${n}::int, ${rows}::int, ${Math.max(1, Math.min(10, Math.ceil(rows / 2)))}::int)`;

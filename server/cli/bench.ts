@@ -47,6 +47,7 @@ import { capturingDb, planReplay, replay, type Replay } from "../bench/replay";
 import { BENCH_PASSWORD, describeSite, generateSite, type BenchSite } from "../bench/site";
 import { median, percentile, spread, table } from "../bench/stats";
 import { buildClient } from "./prepare";
+import { benchBoard } from "./bench-board";
 import { benchFleet } from "./bench-fleet";
 import { benchReport } from "./bench-report";
 
@@ -573,5 +574,7 @@ async function main() {
 await main();
 // The condition survey report's case (issue 17) runs on its own scratch database.
 if (process.env.BENCH_REPORT !== "0") await benchReport();
+// The board page's long tasks, windowed against drawn whole (issue 15): server/cli/bench-board.ts.
+if (process.env.BENCH_BOARD !== "0") await benchBoard();
 // One web instance against two (issue 18): server/cli/bench-fleet.ts; BENCH_FLEET=0 skips it.
 if (process.env.BENCH_FLEET !== "0") await benchFleet();
