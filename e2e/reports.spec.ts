@@ -89,9 +89,8 @@ async function qrVideo(text: string, file: string) {
   );
 }
 
-test("a volunteer's phone scans a tag with the camera and lands on its position", async ({}, testInfo) => {
+test("a volunteer's phone scans a tag with the camera and lands on its position", async ({ baseURL }) => {
   test.setTimeout(120_000);
-  const baseURL = testInfo.project.use.baseURL!;
   const video = join(OUT, "tag.y4m");
   await qrVideo(`${baseURL}/t/${TAG}`, video);
   expect((await readFile(video)).subarray(0, 9).toString()).toBe("YUV4MPEG2");

@@ -47,6 +47,8 @@ try {
     // The formatter decides the layout of every file (.prettierrc); `npm run format` fixes it.
     if (!step("format check (prettier --check)", bin("prettier"), ["--check", ".", "--log-level", "warn"]))
       typecheckOk = false;
+    // Import boundaries between layers, React's hook rules, typescript-eslint (eslint.config.js).
+    if (!step("lint (eslint)", bin("eslint"), ["."])) typecheckOk = false;
   }
 
   const vitest = (title: string, report: string, args: string[]) => {
@@ -107,7 +109,7 @@ try {
   cluster.stop();
 }
 
-if (!typecheckOk) console.log("[tideline] the type check or the format check failed (see above)");
+if (!typecheckOk) console.log("[tideline] the type check, the format check or the lint failed (see above)");
 const ok = typecheckOk && failed === 0 && passed > 0;
 // CI shows the end of the output: name what failed (and what passed only on a retry) just above the count.
 if (flaky.length) console.log(`[tideline] passed on a retry (flaky):\n${flaky.map((f) => `  ~ ${f}`).join("\n")}`);

@@ -41,7 +41,7 @@ import { migrateToLatest } from "../../db/migrate";
 import { ensureDatabase, pgBin, projectRoot } from "../../db/pg";
 import { createApp } from "../app";
 import { createDb, MAINTENANCE_DB_OPTIONS } from "../db";
-import { applySort, registerBase, ROW_COLUMNS } from "../defects/list-query";
+import { applySort, registerBase, ROW_SELECTION } from "../defects/list-query";
 import { measurePaint, openBrowser, STATIC_PAGE, writeStaticPage, type PaintFigures } from "../bench/paint";
 import { capturingDb, planReplay, replay, type Replay } from "../bench/replay";
 import { BENCH_PASSWORD, describeSite, generateSite, type BenchSite } from "../bench/site";
@@ -137,8 +137,8 @@ async function startServer(url: string) {
 
 function ask<T>(child: ChildProcess, message: string, type: string): Promise<T> {
   return new Promise((resolve) => {
-    const on = (m: any) => {
-      if (m?.type !== type) return;
+    const on = (m: unknown) => {
+      if ((m as { type?: string } | null)?.type !== type) return;
       child.off("message", on);
       resolve(m as T);
     };
@@ -436,11 +436,7 @@ async function main() {
     );
 
     // 3. CSV export of every defect vs COPY of the same SELECT.
-    const compiled = applySort(
-      registerBase(setup, site.siteId).select(ROW_COLUMNS as any),
-      "priority",
-      "desc",
-    ).compile();
+    const compiled = applySort(registerBase(setup, site.siteId).select(ROW_SELECTION), "priority", "desc").compile();
     const literal = (v: unknown) => `'${String(v).replace(/'/g, "''")}'`;
     const copySql = `COPY (${compiled.sql.replace(/\$(\d+)/g, (_, n) => literal(compiled.parameters[Number(n) - 1]))}) TO STDOUT WITH (FORMAT csv, HEADER)`;
     const csv = {

@@ -5,7 +5,7 @@ import { DEFECT_CATEGORY_LABELS, DEFECT_SEVERITY_LABELS, DEFECT_STATUS_LABELS } 
 import { PARTS_STATE_LABELS, type ListQuery } from "../../src/schemas/defects";
 import { readPage, runExport, type ExportWriter } from "../export-stream";
 import { localDateTime, localHeader } from "../../src/domain/local-time";
-import { applyFilters, applySort, registerBase, ROW_COLUMNS, type RegisterRow } from "./list-query";
+import { applyFilters, applySort, registerBase, ROW_SELECTION, type RegisterRow } from "./list-query";
 
 const BATCH = 500;
 const COLUMNS = [
@@ -119,7 +119,7 @@ export async function writeDefectsCsv(
     const page = all.slice(i, i + BATCH);
     const rows = (await readPage(() =>
       applyFilters(registerBase(db, siteId), f, today, siteId)
-        .select(ROW_COLUMNS as any)
+        .select(ROW_SELECTION)
         .where("d.id", "in", page)
         .execute(),
     )) as RegisterRow[];

@@ -75,7 +75,15 @@ export async function repairPlan(db: Db, siteId: string) {
       pin: pinOf.get(r.id) ?? null,
     })),
   );
-  const boards = new Map<string, { boardId: string; boardName: string; sections: Map<string, any> }>();
+  type PlanSection = {
+    sectionId: string | null;
+    sectionName: string;
+    effortHours: number;
+    unestimated: number;
+    cost: number;
+    defects: (ReturnType<typeof toJson> & { rank: number })[];
+  };
+  const boards = new Map<string, { boardId: string; boardName: string; sections: Map<string, PlanSection> }>();
   ranked.forEach((r, i) => {
     const b = boards.get(r.boardId) ?? { boardId: r.boardId, boardName: r.boardName, sections: new Map() };
     boards.set(r.boardId, b);

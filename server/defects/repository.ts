@@ -1,14 +1,12 @@
 import { sql } from "kysely";
-import type { Insertable, Updateable } from "kysely";
+import type { Insertable, UpdateObject } from "kysely";
 import type { Database } from "../../db/types";
 import type { Db } from "../db";
-import { rankOrderSql, registerBase, ROW_COLUMNS, type RegisterRow } from "./list-query";
+import { rankOrderSql, registerBase, ROW_SELECTION, type RegisterRow } from "./list-query";
 
 export const findRow = async (db: Db, siteId: string, id: string) =>
-  (await registerBase(db, siteId)
-    .select(ROW_COLUMNS as any)
-    .where("d.id", "=", id)
-    .executeTakeFirst()) as RegisterRow | undefined;
+  (await registerBase(db, siteId).select(ROW_SELECTION).where("d.id", "=", id).executeTakeFirst()) as
+    RegisterRow | undefined;
 
 /** Locks the defect row for the rest of the transaction (serialises concurrent moves). */
 export const lockDefect = (db: Db, siteId: string, id: string) =>
@@ -18,7 +16,7 @@ export const insertDefect = (db: Db, v: Insertable<Database["defects"]>) =>
   db.insertInto("defects").values(v).returning("id").executeTakeFirstOrThrow();
 
 /** Writes a patch and bumps the version; nothing is written unless `version` is current. */
-export const updateDefect = (db: Db, id: string, version: number, patch: Updateable<Database["defects"]>) =>
+export const updateDefect = (db: Db, id: string, version: number, patch: UpdateObject<Database, "defects">) =>
   db
     .updateTable("defects")
     .set({ ...patch, version: sql`version + 1`, updatedAt: sql`now()` })

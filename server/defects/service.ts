@@ -340,7 +340,7 @@ export async function transition(
     ...(r.set.verifiedBy !== undefined ? { verifiedBy: r.set.verifiedBy } : {}),
     closedAt: r.set.closed ? sql<Date>`now()` : to === "closed" ? d.closedAt : null,
   };
-  const ok = await repo.updateDefect(trx, d.id, d.version, patch as any);
+  const ok = await repo.updateDefect(trx, d.id, d.version, patch);
   if (!ok) throw conflict("Someone changed this defect at the same moment.", await current(trx, ctx.siteId, d.id));
   await repo.insertStatusChange(trx, {
     siteId: ctx.siteId,

@@ -11,7 +11,7 @@
  * (TIDELINE_WORKER=off) creates the queues and enqueues; only processes with the
  * worker on run handlers and fire schedules.
  */
-import { CompiledQuery, type Kysely } from "kysely";
+import { CompiledQuery } from "kysely";
 import PgBoss from "pg-boss";
 import type { Db } from "../db";
 import { log as rootLog, type Logger } from "../log";
@@ -51,7 +51,7 @@ export interface JobOptions {
 
 export interface EnqueueOptions {
   /** Enqueue inside this transaction: the job exists only if the transaction commits. */
-  trx?: Kysely<any>;
+  trx?: Db;
   /** Run no earlier than this. */
   startAfter?: Date;
   /** At most one queued job per key (see pg-boss singletonKey). */
@@ -79,14 +79,16 @@ export interface JobsConfig {
 }
 
 interface Definition {
+  // eslint-disable-next-line @typescript-eslint/no-explicit-any -- one map holds handlers of every payload type
   handler: JobHandler<any>;
   options: JobOptions;
 }
 
 /** pg-boss talks to PostgreSQL through Kysely's pool (one pool per process), or a transaction. */
-const executor = (db: Kysely<any>): PgBoss.Db => ({
+const executor = (db: Db): PgBoss.Db => ({
   async executeSql(text, values) {
     const r = await db.withoutPlugins().executeQuery(CompiledQuery.raw(text, values ?? []));
+    // eslint-disable-next-line @typescript-eslint/no-explicit-any -- pg-boss's Db interface types rows as any[]
     return { rows: r.rows as any[] };
   },
 });
@@ -164,6 +166,7 @@ export class Jobs {
     this.log.info({ queues: [...this.defs.keys()], worker: this.config.work }, "job queue started");
   }
 
+  // eslint-disable-next-line @typescript-eslint/no-explicit-any -- the payload type is the handler's (Definition)
   private async run(name: string, def: Definition, batch: PgBoss.JobWithMetadata<any>[]) {
     // pg-boss completes or fails the whole batch; batches are 1 unless a job asks for more.
     for (const job of batch) {
@@ -198,7 +201,7 @@ export class Jobs {
    * attempt only (`retry_count`, state active): once the job has been failed and fetched again
    * elsewhere, a late renewal from here changes nothing.
    */
-  private async holdLease(job: PgBoss.JobWithMetadata<any>, seconds: number, log: Logger) {
+  private async holdLease(job: PgBoss.JobWithMetadata<unknown>, seconds: number, log: Logger) {
     const db = executor(this.config.db);
     const renew = () =>
       db.executeSql(

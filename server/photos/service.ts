@@ -161,6 +161,7 @@ export function definePhotoJobs(
 }
 
 /** File names are shown, never used as paths; keep them printable and short. */
+// eslint-disable-next-line no-control-regex -- stripping control characters is the point
 const safeName = (n: string) => (n || "photo").replace(/[\u0000-\u001f\u007f]/g, "").slice(0, 200);
 
 async function currentOr404(db: Db, siteId: string, photoId: string) {

@@ -18,7 +18,7 @@ import { randomUUID } from "node:crypto";
 import { rm, stat } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
-import { sql, type Kysely } from "kysely";
+import { sql, type Kysely, type UpdateQueryBuilder, type UpdateResult } from "kysely";
 import type { Database, PreparedFilesTable } from "../../db/types";
 import { can } from "../../src/domain/permissions";
 import type { Role } from "../../src/domain/vocab";
@@ -296,7 +296,7 @@ export async function renderFile(deps: PreparedDeps, data: { fileId: string }, c
   if (!claimed) return; // removed, already made, or asked for again under a newer job
   const attempt = claimed.attempts;
   ctx.log.info({ fileId: claimed.id, kind: claimed.kind, attempt }, "preparing file");
-  const mine = (q: any) =>
+  const mine = (q: UpdateQueryBuilder<Database, "preparedFiles", "preparedFiles", UpdateResult>) =>
     q.where("id", "=", claimed.id).where("attempts", "=", attempt).where("state", "=", "rendering");
 
   // The person must still be allowed to have it (removed from the crew, role changed).

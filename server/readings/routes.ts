@@ -1,4 +1,4 @@
-import { Router } from "express";
+import { Router, type Response } from "express";
 import { z } from "zod";
 import { text } from "../../src/schemas/common";
 import {
@@ -28,7 +28,7 @@ export function readingRoutes(db: Db) {
   const record = requireSiteRole(db, "readings.record");
   const curate = requireSiteRole(db, "readings.criteria");
   const once = idempotent(db); // the phone's offline queue repeats creates with an Idempotency-Key
-  const user = (res: { locals: Record<string, any> }) => res.locals.user!.id as string;
+  const user = (res: Response) => res.locals.user!.id;
   const S = "/sites/:siteId";
 
   r.get(`${S}/readings/targets`, read, async (req, res) => {

@@ -4,7 +4,8 @@
  * Reads only: the report writes nothing except through the parts service's own
  * reconciliation, which every read of the wanted list runs.
  */
-import { sql } from "kysely";
+import { sql, type Selectable } from "kysely";
+import type { BoardsTable } from "../../db/types";
 import type {
   ComponentKind,
   Custody,
@@ -250,8 +251,7 @@ async function openParts(db: Db, siteId: string, boardId?: string) {
   return out;
 }
 
-type BoardRow = Awaited<ReturnType<typeof boardQuery>>[number];
-const boardQuery = (db: Db) => db.selectFrom("boards").selectAll().execute();
+type BoardRow = Selectable<BoardsTable>;
 
 async function loadBoard(db: Db, siteId: string, b: BoardRow, q: SurveyReportQuery): Promise<ReportBoard> {
   const [sections, positions, components, latest, photos, insulation, contacts, thermal, groundChecks, defects] =

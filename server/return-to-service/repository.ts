@@ -410,7 +410,7 @@ export const setNoticeOutcome = (
 ) =>
   db
     .updateTable("rtsOverdueNotices")
-    .set({ outcome: outcome as any, error })
+    .set({ outcome, error })
     .where("stageId", "=", stageId)
     .where("attempt", "=", attempt)
     .where("dueAt", "=", dueAt)

@@ -131,7 +131,7 @@ function writeBurst(tag: string): Burst {
   const writers = Array.from({ length: 8 }, async (_, w) => {
     for (let i = 0; running; i++) {
       const notes = `${tag}-${w}-${i}`;
-      let status = 0;
+      let status: number;
       try {
         status = await postFresh(`/api/sites/${siteId}/flood-events`, {
           occurredOn: "2026-11-20",

@@ -430,7 +430,6 @@ describe("two web instances and a worker on one database, one object store and o
       }
     })();
     let next = 0;
-    let retried = 0;
     const send = (base: string, body: string) =>
       new Promise<number>((resolve, reject) => {
         const req = request(
@@ -459,7 +458,6 @@ describe("two web instances and a worker on one database, one object store and o
         } catch (e) {
           // Only a connection that was never made is safe to try elsewhere.
           if ((e as NodeJS.ErrnoException).code !== "ECONNREFUSED" || attempt > 4) throw e;
-          retried++;
         }
       }
     };

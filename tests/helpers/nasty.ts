@@ -62,7 +62,19 @@ export const NASTY_STRINGS = [
   "null",
 ];
 export const NASTY_NUMBERS = [
-  0, -1, 1, 0.5, -0, 2147483647, 2147483648, -2147483649, 9007199254740993, 1e21, 1e308, -1e308, 5e-324,
+  0,
+  -1,
+  1,
+  0.5,
+  -0,
+  2147483647,
+  2147483648,
+  -2147483649,
+  Number.MAX_SAFE_INTEGER + 1,
+  1e21,
+  1e308,
+  -1e308,
+  5e-324,
 ];
 
 export const nastyString = fc.oneof(

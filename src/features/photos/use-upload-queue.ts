@@ -1,4 +1,4 @@
-import { useCallback, useEffect, useReducer, useRef } from "react";
+import { useCallback, useEffect, useLayoutEffect, useReducer, useRef } from "react";
 import { kindFromFileName } from "../../domain/photo-matching";
 import type { Photo } from "../../schemas/photos";
 import { uploadOne, type UploadTags } from "./api";
@@ -42,7 +42,9 @@ export function useUploadQueue(siteId: string, onDone?: (p: Photo) => void) {
   const [items, dispatch] = useReducer(reducer, []);
   const started = useRef(new Set<string>());
   const onDoneRef = useRef(onDone);
-  onDoneRef.current = onDone;
+  useLayoutEffect(() => {
+    onDoneRef.current = onDone; // the latest callback, without restarting uploads when it changes
+  });
 
   const start = useCallback(
     (item: UploadItem) => {

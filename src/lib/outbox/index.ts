@@ -101,7 +101,7 @@ async function sendJson(item: OutboxItem): Promise<SendResult> {
     return NO_ANSWER;
   }
   const text = await res.text().catch(() => "");
-  let body: unknown = null;
+  let body: unknown;
   try {
     body = text ? JSON.parse(text) : null;
   } catch {

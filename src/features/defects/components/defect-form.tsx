@@ -1,4 +1,4 @@
-import { useEffect, useState, type FormEvent } from "react";
+import { useState, type FormEvent } from "react";
 import { Button } from "../../../components/button";
 import { SelectField, TextArea, TextField } from "../../../components/field";
 import { MoneyField } from "../../../components/money-field";
@@ -49,10 +49,14 @@ export function DefectForm({
   const [positionId, setPositionId] = useState(prefill.positionId ?? "");
   const [sectionId, setSectionId] = useState(prefill.sectionId ?? "");
   const positions = useBoardPositions(siteId, boardId);
-  useEffect(() => {
-    const p = positions.data?.find((x) => x.id === positionId);
-    if (p) setSectionId(p.sectionId ?? "");
-  }, [positionId, positions.data]);
+  // Choosing a position (or its list arriving) sets the section to the position's own; adjusted while
+  // rendering (React's "storing information from previous renders"), not in an effect.
+  const chosen = positions.data?.find((x) => x.id === positionId);
+  const [sectionFrom, setSectionFrom] = useState<string | null>(null);
+  if ((chosen?.id ?? null) !== sectionFrom) {
+    setSectionFrom(chosen?.id ?? null);
+    if (chosen) setSectionId(chosen.sectionId ?? "");
+  }
   const fields = error instanceof ApiError ? error.fields : {};
 
   function submit(e: FormEvent<HTMLFormElement>) {

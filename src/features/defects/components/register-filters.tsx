@@ -75,7 +75,12 @@ export function RegisterFilters({
   options?: DefectOptions;
 }) {
   const [q, setQ] = useState(state.q);
-  useEffect(() => setQ(state.q), [state.q]);
+  // The box follows the URL when the URL changes (back, a saved view): adjusted while rendering (React's "storing information from previous renders"), not in an effect.
+  const [urlQ, setUrlQ] = useState(state.q);
+  if (urlQ !== state.q) {
+    setUrlQ(state.q);
+    setQ(state.q);
+  }
   useEffect(() => {
     if (q === state.q) return;
     const t = setTimeout(() => onState({ q, page: 0 }), 300);

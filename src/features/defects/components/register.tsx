@@ -14,7 +14,7 @@ import { SavedViews } from "./saved-views";
 export function Register({ siteId, canManage, canRaise }: { siteId: string; canManage: boolean; canRaise: boolean }) {
   const [params, setParams] = useSearchParams();
   const state = useMemo(() => readState(params), [params]);
-  const today = useMemo(localToday, []);
+  const [today] = useState(localToday);
   const query = apiQuery(state, today);
   const list = useDefectList(siteId, query);
   const options = useDefectOptions(siteId);

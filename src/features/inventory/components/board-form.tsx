@@ -8,17 +8,10 @@ import { useCreateBoard, useUpdateBoard } from "../api";
 import type { Board } from "../contract";
 import { ConflictNotice, conflictRecord } from "./conflict-notice";
 
-const TEXT = ["name", "location", "drawingRef", "notes"] as const;
-const NUMS = [
-  "nominalVolts",
-  "frequencyHz",
-  "yearBuilt",
-  "faceHeightMm",
-  "waterLineMm",
-  "gridRows",
-  "gridCols",
-] as const;
-type Draft = Record<(typeof TEXT)[number] | (typeof NUMS)[number], string> & { phases: "1" | "3"; earthing: Earthing };
+type TextKey = "name" | "location" | "drawingRef" | "notes";
+type NumberKey =
+  "nominalVolts" | "frequencyHz" | "yearBuilt" | "faceHeightMm" | "waterLineMm" | "gridRows" | "gridCols";
+type Draft = Record<TextKey | NumberKey, string> & { phases: "1" | "3"; earthing: Earthing };
 const LABELS: Record<string, string> = {
   name: "Name",
   location: "Location",

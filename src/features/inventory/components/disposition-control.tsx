@@ -1,4 +1,4 @@
-import { useEffect, useState, type FormEvent } from "react";
+import { useState, type FormEvent } from "react";
 import { Button } from "../../../components/button";
 import { TextArea } from "../../../components/field";
 import { DISPOSITION_LABELS, DISPOSITIONS, type Disposition } from "../../../domain/vocab";
@@ -63,12 +63,11 @@ export function DispositionControl({
   const decide = useDecideDisposition(siteId);
   const conflict = conflictRecord<Component>(decide.error);
   // A newer version that changed no disposition field (e.g. a custody move) is adopted quietly;
-  // one that changed the decision is left for the 409 to show.
-  useEffect(() => {
-    const sameDecision =
-      component.disposition === base.disposition && component.dispositionReason === base.dispositionReason;
-    if (component.version > base.version && sameDecision && !decide.isPending) setBase(component);
-  }, [component, base, decide.isPending]);
+  // one that changed the decision is left for the 409 to show. Adjusted while rendering, as React's
+  // "storing information from previous renders" advises, not in an effect (one render, not two).
+  const sameDecision =
+    component.disposition === base.disposition && component.dispositionReason === base.dispositionReason;
+  if (component.version > base.version && sameDecision && !decide.isPending) setBase(component);
   const overriding = !!choice && !!recommended && choice !== recommended;
 
   function save(version: number) {

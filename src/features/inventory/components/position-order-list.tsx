@@ -1,4 +1,4 @@
-import { useEffect, useMemo, useState, type DragEvent } from "react";
+import { useMemo, useState, type DragEvent } from "react";
 import { COMPONENT_KIND_SHORT } from "../../../domain/vocab";
 import { usePositionMutations } from "../api";
 import type { Section, TileRow } from "../contract";
@@ -50,7 +50,12 @@ export function PositionOrderList({
   const [groups, setGroups] = useState(initial);
   const [drag, setDrag] = useState<{ g: number; i: number } | null>(null);
   const [said, setSaid] = useState("");
-  useEffect(() => setGroups(initial), [initial]);
+  // A new order from the server replaces the local one: adjusted while rendering (React's "storing information from previous renders"), not in an effect.
+  const [groupsOf_, setGroupsOf] = useState(initial);
+  if (groupsOf_ !== initial) {
+    setGroupsOf(initial);
+    setGroups(initial);
+  }
   const byId = useMemo(() => new Map(positions.map((p) => [p.id, p])), [positions]);
 
   function commit(g: number, from: number, to: number) {

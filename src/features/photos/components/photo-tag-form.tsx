@@ -1,4 +1,4 @@
-import { useEffect, useState, type FormEvent } from "react";
+import { useState, type FormEvent } from "react";
 import { Button } from "../../../components/button";
 import { ApiError } from "../../../lib/api-client";
 import { PHOTO_KINDS, PHOTO_KIND_LABELS, type PhotoKind } from "../../../domain/vocab";
@@ -31,10 +31,13 @@ export function PhotoTagForm({
     setCaption(p.caption);
     setPositionId(p.positionId ?? "");
   };
-  useEffect(() => {
+  // Another photo opened in the same form starts from that photo: adjusted while rendering (React's "storing information from previous renders"), not in an effect.
+  const [formFor, setFormFor] = useState(photo.id);
+  if (formFor !== photo.id) {
+    setFormFor(photo.id);
     reset(photo);
     setMessage("");
-  }, [photo.id]); // eslint-disable-line react-hooks/exhaustive-deps
+  }
 
   const submit = (e: FormEvent) => {
     e.preventDefault();

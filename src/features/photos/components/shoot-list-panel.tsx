@@ -1,4 +1,4 @@
-import { useEffect, useState } from "react";
+import { useState } from "react";
 import { Link } from "react-router";
 import { Button } from "../../../components/button";
 import { ErrorPanel, Loading } from "../../../components/status";
@@ -68,9 +68,12 @@ export function RequiredShotsEditor({ siteId }: { siteId: string }) {
   const settings = usePhotoSettings(siteId);
   const { saveSettings } = usePhotoMutations(siteId);
   const [kinds, setKinds] = useState<PhotoKind[]>([]);
-  useEffect(() => {
-    if (settings.data) setKinds(settings.data.requiredKinds);
-  }, [settings.data]);
+  // The saved settings (first load, or after a save) replace the choice: adjusted while rendering (React's "storing information from previous renders"), not in an effect.
+  const [kindsFrom, setKindsFrom] = useState<typeof settings.data>(undefined);
+  if (settings.data && settings.data !== kindsFrom) {
+    setKindsFrom(settings.data);
+    setKinds(settings.data.requiredKinds);
+  }
   if (!settings.data) return null;
   const toggle = (k: PhotoKind) => setKinds((cur) => (cur.includes(k) ? cur.filter((x) => x !== k) : [...cur, k]));
   return (

@@ -1,0 +1,64 @@
+/**
+ * The import boundaries of eslint.config.js, checked against made-up files so a change to the
+ * config that stops enforcing one fails here (the layering is DEVELOPERS.md "Where code lives").
+ * Each case lints a snippet as if it were a file at `at`; the imports name real modules.
+ */
+import { ESLint } from "eslint";
+import { beforeAll, describe, expect, it } from "vitest";
+import { projectRoot } from "../../db/pg";
+
+const eslint = new ESLint({ cwd: projectRoot });
+
+async function ruleIds(at: string, code: string) {
+  const [result] = await eslint.lintText(code, { filePath: `${projectRoot}/${at}` });
+  return result.messages.map((m) => m.ruleId);
+}
+
+const BOUNDARY = "import-x/no-restricted-paths";
+
+// Loading the config and its plugins takes seconds on a busy machine: once, under the hook timeout.
+beforeAll(() => ruleIds("src/domain/warm-up.ts", "export {};\n"));
+
+describe("import boundaries", () => {
+  it.each([
+    [
+      "a feature imports another feature",
+      "src/features/parts/probe.ts",
+      'import { defectKeys } from "../defects/api";',
+    ],
+    ["src/domain imports client I/O", "src/domain/probe.ts", 'import { api } from "../lib/api-client";'],
+    ["src/domain imports a feature", "src/domain/probe.ts", 'import { defectKeys } from "../features/defects/api";'],
+    ["src/schemas imports the server", "src/schemas/probe.ts", 'import { createDb } from "../../server/db";'],
+    ["the server imports a feature", "server/probe.ts", 'import { defectKeys } from "../src/features/defects/api";'],
+    ["the server imports client I/O", "server/defects/probe.ts", 'import { api } from "../../src/lib/api-client";'],
+    ["db imports a client component", "db/probe.ts", 'import { Button } from "../src/components/button";'],
+    ["a page imports the server", "src/app/routes/probe.tsx", 'import { createDb } from "../../../server/db";'],
+    ["client lib imports the database", "src/lib/probe.ts", 'import { migrateToLatest } from "../../db/migrate";'],
+  ])("refuses: %s", async (_name, at, code) => {
+    expect(await ruleIds(at, `${code}\nexport {};\n`)).toContain(BOUNDARY);
+  });
+
+  it("refuses Node's own modules in pure code", async () => {
+    expect(await ruleIds("src/domain/probe.ts", 'import { readFileSync } from "node:fs";\nexport {};\n')).toContain(
+      "no-restricted-imports",
+    );
+  });
+
+  it.each([
+    ["a feature imports its own api", "src/features/parts/probe.ts", 'import { partsKeys } from "./api";'],
+    [
+      "a page composes two features",
+      "src/app/routes/probe.tsx",
+      'import { defectKeys } from "../../features/defects/api";\nimport { partsKeys } from "../../features/parts/api";',
+    ],
+    ["src/domain imports src/schemas", "src/domain/probe.ts", 'import { text } from "../schemas/common";'],
+    ["the server imports src/domain", "server/probe.ts", 'import { can } from "../src/domain/permissions";'],
+    [
+      "a feature imports shared UI and domain",
+      "src/features/parts/probe.ts",
+      'import { Button } from "../../components/button";\nimport { can } from "../../domain/permissions";',
+    ],
+  ])("allows: %s", async (_name, at, code) => {
+    expect(await ruleIds(at, `${code}\nexport {};\n`)).not.toContain(BOUNDARY);
+  });
+});
