@@ -1,7 +1,7 @@
 import { readdir } from "node:fs/promises";
 import path from "node:path";
 import { pathToFileURL } from "node:url";
-import { Migrator, type Kysely, type Migration, type MigrationProvider } from "kysely";
+import { Migrator, NO_MIGRATIONS, type Kysely, type Migration, type MigrationProvider } from "kysely";
 
 const folder = path.join(import.meta.dirname, "migrations");
 
@@ -28,6 +28,18 @@ export async function migrateToLatest(db: Kysely<any>): Promise<string[]> {
   if (error) {
     const failed = results?.find((r) => r.status === "Error")?.migrationName ?? "unknown";
     throw new Error(`migration ${failed} failed: ${error instanceof Error ? error.message : String(error)}`);
+  }
+  return (results ?? []).map((r) => r.migrationName);
+}
+
+/** Runs every applied migration's `down`, newest first (tests prove each migration can be undone). */
+export async function migrateAllDown(db: Kysely<any>): Promise<string[]> {
+  const { error, results } = await new Migrator({ db, provider, allowUnorderedMigrations: true }).migrateTo(
+    NO_MIGRATIONS,
+  );
+  if (error) {
+    const failed = results?.find((r) => r.status === "Error")?.migrationName ?? "unknown";
+    throw new Error(`down of ${failed} failed: ${error instanceof Error ? error.message : String(error)}`);
   }
   return (results ?? []).map((r) => r.migrationName);
 }

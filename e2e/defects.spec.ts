@@ -7,6 +7,18 @@ async function openRegister(page: Page) {
   await expect(page.getByRole("heading", { level: 1, name: "Defect register" })).toBeVisible();
   await expect(page.getByRole("status").filter({ hasText: /Showing/ })).toBeVisible();
 }
+/** "" when the register's rows are in the Due column's shown order with blanks last; else what is wrong. */
+async function dueOrderProblem(page: Page): Promise<string> {
+  const dueAt = (await page.locator("thead th").allInnerTexts()).findIndex((h) => h.trim().startsWith("Due"));
+  const dues = (await page.locator(`tbody tr td:nth-child(${dueAt + 1})`).allInnerTexts()).map((d) => d.trim());
+  const dated = dues.filter((d) => d !== "—");
+  const ascending = [...dated].sort();
+  const dir = await page.getByRole("columnheader", { name: /Due/ }).getAttribute("aria-sort");
+  const expected = dir === "descending" ? ascending.reverse() : ascending;
+  const ok = dueAt >= 0 && dues.length > 0 && dues.slice(0, dated.length).join() === expected.join();
+  return ok ? "" : `${dir}: ${dues.join(" ")}`;
+}
+
 const refs = (page: Page) => page.locator("tbody a[data-row-link]").allInnerTexts();
 
 test("the curator filters and sorts the register, and a shared link opens the same view", async ({ page, context }) => {
@@ -21,6 +33,8 @@ test("the curator filters and sorts the register, and a shared link opens the sa
   await page.getByRole("button", { name: /^Due/ }).click();
   await expect(page).toHaveURL(/sort=dueOn/);
   await expect(page.getByRole("columnheader", { name: /Due/ })).toHaveAttribute("aria-sort", /ascending|descending/);
+  // The rows themselves are in due-date order (blanks last), not only the URL and the header.
+  await expect.poll(() => dueOrderProblem(page)).toBe("");
   const badges = await page
     .locator("tbody")
     .getByText(/4 · Disabling/)
@@ -117,7 +131,7 @@ test("the curator bulk-assigns with one confirmation; the repair plan prints by 
 }) => {
   await signIn(page, "curator");
   await openRegister(page);
-  await page.goto(page.url() + "?status=open&sort=ref&dir=desc");
+  await page.goto(page.url() + "?status=raised&sort=ref&dir=desc");
   await expect(page.getByRole("status").filter({ hasText: /Showing/ })).toBeVisible();
   const boxes = page.locator("tbody input[type=checkbox]");
   await boxes.nth(0).check();

@@ -1,10 +1,4 @@
-import {
-  useId,
-  type InputHTMLAttributes,
-  type ReactNode,
-  type SelectHTMLAttributes,
-  type TextareaHTMLAttributes,
-} from "react";
+import { useId, type ComponentProps, type ReactNode, type TextareaHTMLAttributes } from "react";
 
 const control =
   "mt-1 block w-full min-h-11 rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk placeholder:text-fog focus:border-brass-400 focus:outline-none aria-[invalid=true]:border-flare-400";
@@ -40,7 +34,7 @@ function Frame({ id, label, error, hint, className = "", children }: Wrap & { id
 const describedBy = (id: string, error?: string, hint?: ReactNode) =>
   error ? `${id}-error` : hint ? `${id}-hint` : undefined;
 
-export function TextField({ label, error, hint, className, ...rest }: Wrap & InputHTMLAttributes<HTMLInputElement>) {
+export function TextField({ label, error, hint, className, ...rest }: Wrap & ComponentProps<"input">) {
   const id = useId();
   return (
     <Frame id={id} label={label} error={error} hint={hint} className={className}>
@@ -55,14 +49,7 @@ export function TextField({ label, error, hint, className, ...rest }: Wrap & Inp
   );
 }
 
-export function SelectField({
-  label,
-  error,
-  hint,
-  className,
-  children,
-  ...rest
-}: Wrap & SelectHTMLAttributes<HTMLSelectElement>) {
+export function SelectField({ label, error, hint, className, children, ...rest }: Wrap & ComponentProps<"select">) {
   const id = useId();
   return (
     <Frame id={id} label={label} error={error} hint={hint} className={className}>

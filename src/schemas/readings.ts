@@ -46,6 +46,17 @@ export const QUALIFIER_LABELS = { at_or_above: "≥ meter's limit", below: "≤ 
 const measuredAt = isoDateTime("Give the date and time of the reading");
 const text = (max: number) => safeText().trim().max(max).default("");
 
+/** A reading on a circuit names a component or the circuit (or both). */
+function namesItsTarget(): [
+  (b: { componentId: string | null; circuit: string }) => boolean,
+  { message: string; path: string[] },
+] {
+  return [
+    (b) => b.componentId !== null || b.circuit !== "",
+    { message: "Name the circuit or choose a component", path: ["circuit"] },
+  ];
+}
+
 export const insulationReadingBody = z
   .object({
     componentId: opt(z.uuid({ message: "componentId must be a UUID" })),
@@ -74,11 +85,47 @@ export const insulationReadingBody = z
     notes: text(2000),
     measuredAt,
   })
-  .refine((b) => b.componentId !== null || b.circuit !== "", {
-    message: "Name the circuit or choose a component",
-    path: ["circuit"],
-  });
+  .refine(...namesItsTarget());
 export type InsulationReadingBody = z.input<typeof insulationReadingBody>;
+
+/** Three insulation readings, A, B and C to ground, taken together (the phone's phase comparison form). */
+const ir = insulationReadingBody.shape;
+export const phaseSetBody = z
+  .object({
+    componentId: ir.componentId,
+    circuit: ir.circuit,
+    testVoltsDc: ir.testVoltsDc,
+    equipmentTempC: ir.equipmentTempC,
+    ambientTempC: ir.ambientTempC,
+    humidityPercent: ir.humidityPercent,
+    instrument: ir.instrument,
+    notes: ir.notes,
+    measuredAt: ir.measuredAt,
+    megohmsA: megohms("A to ground"),
+    megohmsB: megohms("B to ground"),
+    megohmsC: megohms("C to ground"),
+    qualifierA: ir.megohmsQualifier,
+    qualifierB: ir.megohmsQualifier,
+    qualifierC: ir.megohmsQualifier,
+  })
+  .refine(...namesItsTarget());
+export type PhaseSetBody = z.output<typeof phaseSetBody>;
+
+/** The insulation reading of one phase of a phase set (each is saved and judged on its own). */
+export const phaseReading = (b: PhaseSetBody, p: (typeof PHASE_KEYS)[number]) => ({
+  componentId: b.componentId,
+  circuit: b.circuit,
+  testVoltsDc: b.testVoltsDc,
+  equipmentTempC: b.equipmentTempC,
+  ambientTempC: b.ambientTempC,
+  humidityPercent: b.humidityPercent,
+  instrument: b.instrument,
+  notes: b.notes,
+  measuredAt: b.measuredAt,
+  conductors: `${p}-G` as const,
+  megohms: b[`megohms${p}`],
+  megohmsQualifier: b[`qualifier${p}`],
+});
 
 export const contactReadingBody = z.object({
   poleMicroOhms: z

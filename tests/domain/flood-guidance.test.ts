@@ -15,28 +15,35 @@ import { COMPONENT_KINDS, type ComponentKind, type Disposition } from "../../src
 const base: FloodInput = { kind: "busbar", waterType: "fresh", belowWaterLine: true, contaminants: [] };
 const at = (over: Partial<FloodInput>): FloodInput => ({ ...base, ...over });
 
+/** Every kind's submerged result, each beside its source. */
+const SUBMERGED: Array<[ComponentKind, Disposition]> = [
+  ["molded_case_breaker", "replace"], // [ESFI] [SqD]: molded-case breakers replaced
+  ["fuse", "replace"], // [ESFI] [SqD]: fuses replaced
+  ["meter", "replace"], // [SqD]: multi-metering equipment replaced
+  ["relay", "replace"], // [SqD]: electromechanical relays replaced
+  ["ground_lamp", "replace"], // [ESFI]: lighting replaced
+  ["transformer", "replace"], // [ESFI] [SqD]: dry-type transformers replaced
+  ["terminal_strip", "replace"], // Tideline reading: wiring devices [ESFI] replaced
+  ["power_breaker", "rebuild"], // [ESFI] [SqD]: low-voltage power breakers reconditioned
+  ["busbar", "rebuild"], // [SqD]: switchboard enclosures and certain bus structures reconditioned
+  ["bus_tie", "rebuild"], // [SqD]: bus structure / power breakers reconditioned
+  ["switch", "rebuild"], // [SqD]: bolted-pressure switches reconditioned (safety switches are replaced)
+  ["other", "replace"], // NEMA GD 1 (memory): "in many cases, replacement will be necessary"
+  ["enclosed_switch", "replace"], // [SqD]: safety switches are replaced; NEMA GD 1 (memory)
+  ["electronic_trip_unit", "replace"], // NEMA GD 1 (memory): trip units, sensors and accessories replaced
+];
+
 describe("recommendDisposition — submerged, fresh water, no other damage", () => {
-  it.each([
-    ["molded_case_breaker", "replace"], // [ESFI] [SqD]: molded-case breakers replaced
-    ["fuse", "replace"], // [ESFI] [SqD]: fuses replaced
-    ["meter", "replace"], // [SqD]: multi-metering equipment replaced
-    ["relay", "replace"], // [SqD]: electromechanical relays replaced
-    ["ground_lamp", "replace"], // [ESFI]: lighting replaced
-    ["transformer", "replace"], // [ESFI] [SqD]: dry-type transformers replaced
-    ["terminal_strip", "replace"], // Tideline reading: wiring devices [ESFI] replaced
-    ["power_breaker", "rebuild"], // [ESFI] [SqD]: low-voltage power breakers reconditioned
-    ["busbar", "rebuild"], // [SqD]: switchboard enclosures and certain bus structures reconditioned
-    ["bus_tie", "rebuild"], // [SqD]: bus structure / power breakers reconditioned
-    ["switch", "rebuild"], // [SqD]: bolted-pressure switches reconditioned (safety switches are replaced)
-    ["other", "replace"], // NEMA GD 1 (memory): "in many cases, replacement will be necessary"
-  ] as Array<[ComponentKind, Disposition]>)("%s → %s", (kind, disposition) => {
+  it.each(SUBMERGED)("%s → %s", (kind, disposition) => {
     const r = recommendDisposition(at({ kind }));
     expect(r.disposition).toBe(disposition);
     expect(r.reasons[0]).toBe(SUBMERGED_RULES[kind].reason);
   });
 
-  it("has a rule for every component kind", () => {
-    for (const kind of COMPONENT_KINDS) expect(SUBMERGED_RULES[kind]).toBeDefined();
+  // The compiler already makes SUBMERGED_RULES name every kind; this fails when a kind is added
+  // without a sourced expectation in the table above.
+  it("checks every component kind against a source", () => {
+    expect(SUBMERGED.map(([k]) => k).sort()).toEqual([...COMPONENT_KINDS].sort());
   });
 });
 

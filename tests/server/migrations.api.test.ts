@@ -2,7 +2,7 @@ import { afterAll, expect, it } from "vitest";
 import { inject } from "vitest";
 import { sql } from "kysely";
 import { ensureDatabase } from "../../db/pg";
-import { migrateToLatest } from "../../db/migrate";
+import { migrateAllDown, migrateToLatest } from "../../db/migrate";
 import { createDb } from "../../server/db";
 import { seedDemo } from "../../db/seed/demo";
 
@@ -110,4 +110,34 @@ it("the defect-state rename maps every old value to the new one and back, in def
   );
   expect(Number(stale.rows[0].n)).toBe(0);
   await expect(sql`update defects set status = 'triaged'`.execute(db)).rejects.toThrow(/defects_status_check/);
+});
+
+it("every migration's down undoes it: all the way down leaves no table, type or function of ours, and up applies all again", async () => {
+  const downName = `${name}_down`;
+  await ensureDatabase(adminUrl, downName, { fresh: true });
+  const d = createDb(adminUrl.replace(/\/postgres$/, `/${downName}`), 2);
+  const ours = async () => {
+    const r = await sql<{ kind: string; name: string }>`
+      select 'table' as kind, table_name as name from information_schema.tables
+       where table_schema = 'public' and table_name not like 'kysely_migration%'
+      union all
+      select 'type', t.typname from pg_type t join pg_namespace n on n.oid = t.typnamespace
+       where n.nspname = 'public' and t.typtype in ('e', 'd')
+      union all
+      select 'function', p.proname from pg_proc p join pg_namespace n on n.oid = p.pronamespace
+       where n.nspname = 'public' and not exists (select 1 from pg_depend dep where dep.objid = p.oid and dep.deptype = 'e')
+      order by 1, 2`.execute(d);
+    return r.rows.map((x) => `${x.kind} ${x.name}`);
+  };
+  try {
+    const up = await migrateToLatest(d);
+    expect(up.length).toBeGreaterThan(0);
+    expect(await ours()).not.toEqual([]);
+    const down = await migrateAllDown(d);
+    expect(down).toEqual([...up].reverse());
+    expect(await ours()).toEqual([]);
+    expect(await migrateToLatest(d)).toEqual(up);
+  } finally {
+    await d.destroy();
+  }
 });

@@ -1,12 +1,6 @@
-import { FLAGS, SORT_KEYS, type Flag, type SortKey } from "../../schemas/defects";
-import {
-  DEFECT_CATEGORIES,
-  DEFECT_SEVERITIES,
-  DEFECT_STATUSES,
-  type DefectCategory,
-  type DefectSeverity,
-  type DefectStatus,
-} from "../../domain/vocab";
+import type { z } from "zod";
+import { listQuery, type Flag, type SortKey } from "../../schemas/defects";
+import type { DefectCategory, DefectSeverity, DefectStatus } from "../../domain/vocab";
 
 /** Everything that makes a register view; it lives in the URL so a link shows the same view. */
 export interface RegisterState {
@@ -29,24 +23,38 @@ export interface RegisterState {
 
 export const PAGE_SIZES = [25, 50, 100] as const;
 export const DEFAULT_HIDDEN = ["createdAt", "costEstimate", "updatedAt"];
-const pick = <T extends string>(all: readonly T[], v: string[]) =>
-  v.filter((x): x is T => (all as readonly string[]).includes(x));
+type ListKey = "board" | "category" | "severity" | "status" | "assignee" | "flag";
+const shape = listQuery.shape;
 
+/**
+ * The URL's view, read with the server's own schema (`listQuery` in src/schemas/defects.ts) key by key:
+ * a value the server would refuse (a hand-edited link, an old bookmark) falls back to that key's default
+ * instead of emptying the register; in a list, each value is checked on its own.
+ */
 export function readState(p: URLSearchParams): RegisterState {
-  const sort = p.get("sort") as SortKey | null;
-  const page = Number(p.get("page") ?? 0);
-  const size = Number(p.get("size") ?? 25);
+  const one = <K extends Exclude<keyof typeof shape, ListKey>>(k: K) => {
+    const r = shape[k].safeParse(p.get(k) ?? undefined);
+    return (r.success ? r.data : shape[k].parse(undefined)) as z.output<(typeof shape)[K]>;
+  };
+  const list = <K extends ListKey>(k: K) =>
+    p
+      .getAll(k)
+      .flatMap((v) => v.split(","))
+      .filter((v) => shape[k].safeParse(v).success) as z.output<(typeof shape)[K]>;
+  const size = one("size");
+  const q = p.get("q") ?? "";
   return {
-    q: p.get("q") ?? "",
-    board: p.getAll("board"),
-    category: pick(DEFECT_CATEGORIES, p.getAll("category")),
-    severity: pick(DEFECT_SEVERITIES, p.getAll("severity")),
-    status: pick(DEFECT_STATUSES, p.getAll("status")),
-    assignee: p.getAll("assignee"),
-    flag: pick(FLAGS, p.getAll("flag")),
-    sort: sort && SORT_KEYS.includes(sort) ? sort : "priority",
-    dir: p.get("dir") === "asc" ? "asc" : "desc",
-    page: Number.isInteger(page) && page >= 0 ? page : 0,
+    // Checked, but kept as typed (the server trims): the search box follows the URL while someone types.
+    q: shape.q.safeParse(q).success ? q : "",
+    board: list("board"),
+    category: list("category"),
+    severity: list("severity"),
+    status: list("status"),
+    assignee: list("assignee"),
+    flag: list("flag"),
+    sort: one("sort"),
+    dir: one("dir"),
+    page: one("page"),
     size: (PAGE_SIZES as readonly number[]).includes(size) ? size : 25,
     hide: p.has("hide") ? p.get("hide")!.split(",").filter(Boolean) : DEFAULT_HIDDEN,
     cols: (p.get("cols") ?? "").split(",").filter(Boolean),

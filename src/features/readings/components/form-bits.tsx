@@ -1,4 +1,4 @@
-import type { ReactNode } from "react";
+import type { ComponentProps, ReactNode } from "react";
 import { SelectField, TextField } from "../../../components/field";
 import { ApiError } from "../../../lib/api-client";
 import { localNow } from "../format";
@@ -76,49 +76,35 @@ export function KeptOnPhone({ what }: { what: string }) {
   );
 }
 
-export function WhenField({ error }: { error?: string }) {
+/** When the reading was taken; registered with a form (`{...register("measuredAt")}`) or named "measuredAt". */
+export function WhenField({ error, ...rest }: { error?: string } & ComponentProps<"input">) {
   return (
     <TextField
       label="Measured at"
       name="measuredAt"
       type="datetime-local"
-      defaultValue={localNow()}
+      defaultValue={rest.onChange ? undefined : localNow()}
       required
       error={error}
+      {...rest}
     />
   );
 }
 
 export function NumberField({
   label,
-  name,
   error,
   hint,
-  defaultValue,
   step = "any",
-  required,
+  ...rest
 }: {
   label: string;
   name: string;
   error?: string;
   hint?: string;
-  defaultValue?: string | number;
   step?: string;
-  required?: boolean;
-}) {
-  return (
-    <TextField
-      label={label}
-      name={name}
-      type="number"
-      inputMode="decimal"
-      step={step}
-      defaultValue={defaultValue}
-      error={error}
-      hint={hint}
-      required={required}
-    />
-  );
+} & Omit<ComponentProps<"input">, "type" | "step">) {
+  return <TextField label={label} type="number" inputMode="decimal" step={step} error={error} hint={hint} {...rest} />;
 }
 
 export function ComponentSelect({
@@ -154,9 +140,13 @@ export function ComponentSelect({
 }
 
 /** How the meter showed a value: exactly, at or above its top of range (">2000"), or below its resolution. */
-export function QualifierField({ name, label, error }: { name: string; label: string; error?: string }) {
+export function QualifierField({
+  label,
+  error,
+  ...rest
+}: { name: string; label: string; error?: string } & ComponentProps<"select">) {
   return (
-    <SelectField label={label} name={name} defaultValue="" error={error}>
+    <SelectField label={label} defaultValue={rest.onChange ? undefined : ""} error={error} {...rest}>
       <option value="">As shown (exact)</option>
       <option value="at_or_above">At or above the meter's limit (≥)</option>
       <option value="below">Below the meter's resolution (≤)</option>

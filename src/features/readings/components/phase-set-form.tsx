@@ -1,28 +1,53 @@
-import { useState, type FormEvent } from "react";
+import { useMemo, useState } from "react";
+import { FormProvider } from "react-hook-form";
+import { z } from "zod";
 import { TextField } from "../../../components/field";
+import { blankAsNull, fieldError, formMessage, localDateTime, numberText, useSchemaForm } from "../../../lib/form";
 import {
   PHASE_KEYS,
-  insulationReadingBody,
   phaseComparisonKey,
+  phaseReading,
+  phaseSetBody,
   type InsulationReading,
   type PhaseComparison,
 } from "../../../schemas/readings";
 import { useRecordInsulation } from "../api";
-import { fieldErrors, megohms, numOrNull, qualifierOf, toIso } from "../format";
-import {
-  ComponentSelect,
-  FormShell,
-  NumberField,
-  QualifierField,
-  WhenField,
-  saveErrors,
-  type TargetOption,
-} from "./form-bits";
+import { localNow, megohms } from "../format";
+import { CircuitTargetFields, circuitOf, targetLabel } from "./circuit-target-fields";
+import { FormShell, NumberField, QualifierField, WhenField, saveErrors, type TargetOption } from "./form-bits";
 import { LiveWorkCaution } from "./live-work-caution";
 import { PhaseComparisonCard } from "./phase-comparison-list";
 import { VerdictBadge } from "./verdict-badge";
 
 type Phase = (typeof PHASE_KEYS)[number];
+
+/** The form's text → the three readings' common part and each phase's value; phaseSetBody validates. */
+const phaseSetForm = (options: TargetOption[]) =>
+  z
+    .object({
+      componentId: z.string(),
+      circuit: z.string(),
+      testVoltsDc: numberText,
+      equipmentTempC: numberText,
+      ambientTempC: numberText,
+      humidityPercent: numberText,
+      instrument: z.string(),
+      notes: z.string(),
+      measuredAt: localDateTime,
+      megohmsA: numberText,
+      megohmsB: numberText,
+      megohmsC: numberText,
+      qualifierA: blankAsNull,
+      qualifierB: blankAsNull,
+      qualifierC: blankAsNull,
+    })
+    // Text as the body's input type; the shared schema piped after it checks every value.
+    .transform(
+      (v) =>
+        ({ ...v, componentId: v.componentId || null, circuit: circuitOf(v, options) }) as z.input<typeof phaseSetBody>,
+    )
+    .pipe(phaseSetBody);
+type PhaseSetValues = z.input<ReturnType<typeof phaseSetForm>>;
 
 /**
  * Phase comparison: A, B and C to ground on one circuit, taken together under the same
@@ -58,138 +83,127 @@ function PhaseSet({
   onAgain: () => void;
 }) {
   const save = useRecordInsulation(siteId, boardId);
-  const [errors, setErrors] = useState<Record<string, string>>({});
-  const [message, setMessage] = useState<string | null>(null);
+  const schema = useMemo(() => phaseSetForm(options), [options]);
+  const form = useSchemaForm<PhaseSetValues, z.output<typeof schema>>(schema, {
+    componentId: defaultComponentId ?? "",
+    circuit: "",
+    testVoltsDc: "1000",
+    equipmentTempC: "",
+    ambientTempC: "",
+    humidityPercent: "",
+    instrument: "",
+    notes: "",
+    measuredAt: localNow(),
+    megohmsA: "",
+    megohmsB: "",
+    megohmsC: "",
+    qualifierA: "",
+    qualifierB: "",
+    qualifierC: "",
+  });
+  const errors = form.formState.errors;
+  const e = (name: keyof PhaseSetValues) => fieldError(errors, name);
+  const [notice, setNotice] = useState<string | null>(null);
   const [saved, setSaved] = useState<Partial<Record<Phase, InsulationReading>>>({});
   const [key, setKey] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
   const [waiting, setWaiting] = useState<Phase[]>([]);
 
-  async function submit(e: FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    const f = new FormData(e.currentTarget);
-    const componentId = String(f.get("componentId") || "") || null;
-    const typed = String(f.get("circuit") ?? "").trim();
-    const common = {
-      componentId,
-      circuit: typed || (options.find((o) => o.componentId === componentId)?.circuit ?? ""),
-      testVoltsDc: numOrNull(f.get("testVoltsDc")),
-      equipmentTempC: numOrNull(f.get("equipmentTempC")),
-      ambientTempC: numOrNull(f.get("ambientTempC")),
-      humidityPercent: numOrNull(f.get("humidityPercent")),
-      instrument: String(f.get("instrument") ?? ""),
-      notes: String(f.get("notes") ?? ""),
-      measuredAt: toIso(String(f.get("measuredAt") ?? "")),
-    };
-    const bodies = PHASE_KEYS.map((p) => ({
-      phase: p,
-      parsed: insulationReadingBody.safeParse({
-        ...common,
-        conductors: `${p}-G`,
-        megohms: numOrNull(f.get(`megohms${p}`)),
-        megohmsQualifier: qualifierOf(f.get(`qualifier${p}`)),
-      }),
-    }));
-    const fe: Record<string, string> = {};
-    for (const b of bodies)
-      if (!b.parsed.success)
-        for (const [k, v] of Object.entries(fieldErrors(b.parsed.error.issues)))
-          fe[k === "megohms" || k === "megohmsQualifier" ? `${k}${b.phase}` : k] ??= v;
-    setMessage(null);
-    if (Object.keys(fe).length) {
-      setErrors(fe);
-      setMessage("Check the fields marked below.");
-      return;
-    }
-    setErrors({});
+  const submit = form.handleSubmit(async (b) => {
+    setNotice(null);
     setBusy(true);
     const done = { ...saved };
     const queued: Phase[] = [...waiting];
     try {
-      const name = options.find((o) => o.componentId === componentId)?.designation ?? common.circuit;
-      for (const b of bodies) {
-        if (done[b.phase] || queued.includes(b.phase) || !b.parsed.success) continue;
-        const r = await save.mutateAsync({ ...b.parsed.data, label: `${name} ${b.phase}-G` });
+      const name = targetLabel(b.componentId, b.circuit, options);
+      for (const p of PHASE_KEYS) {
+        if (done[p] || queued.includes(p)) continue;
+        const r = await save.mutateAsync({ ...phaseReading(b, p), label: `${name} ${p}-G` });
         // With no signal the reading waits in the phone's outbox: it is not sent twice, and the
         // comparison shows on the board once all three have reached the server.
-        if (r.queued) queued.push(b.phase);
-        else done[b.phase] = r.data;
+        if (r.queued) queued.push(p);
+        else done[p] = r.data;
         setSaved({ ...done });
         setWaiting([...queued]);
       }
       if (queued.length)
-        setMessage(
+        setNotice(
           `No signal: ${queued.join(", ")} to ground wait in this phone's outbox and will be sent when the signal is back; the comparison shows on the board once they arrive.`,
         );
-      setKey(phaseComparisonKey({ componentId, circuit: common.circuit }));
+      setKey(phaseComparisonKey({ componentId: b.componentId, circuit: b.circuit }));
     } catch (err) {
       const s = saveErrors(err);
-      setErrors(s.fields);
+      for (const [k, v] of Object.entries(s.fields))
+        if (k in b) form.setError(k as keyof PhaseSetValues, { message: v });
       const missing = PHASE_KEYS.filter((p) => !done[p]).join(", ");
-      setMessage(
-        `${s.message} Saved so far: ${PHASE_KEYS.filter((p) => done[p]).join(", ") || "none"}; not saved: ${missing}.`,
-      );
+      form.setError("root.server", {
+        message: `${s.message} Saved so far: ${PHASE_KEYS.filter((p) => done[p]).join(", ") || "none"}; not saved: ${missing}.`,
+      });
     } finally {
       setBusy(false);
     }
-  }
+  });
 
   const all = PHASE_KEYS.every((p) => saved[p] || waiting.includes(p));
   const comparison = key ? comparisons.find((c) => c.key === key) : undefined;
   return (
     <div className="space-y-3">
-      <FormShell
-        title="Record a phase comparison"
-        onSubmit={(e) => void submit(e)}
-        error={message}
-        busy={busy}
-        submitLabel={Object.keys(saved).length && !all ? "Save the phases not saved yet" : "Save three readings"}
-        disabled={all}
-      >
-        <LiveWorkCaution kind="phases" />
-        <ComponentSelect
-          options={options}
-          allowNone="No component: name the circuit"
-          defaultValue={defaultComponentId ?? ""}
-          error={errors.componentId}
-        />
-        <TextField
-          label="Circuit"
-          name="circuit"
-          hint="Filled from the component when left empty"
-          error={errors.circuit}
-        />
-        {PHASE_KEYS.map((p) => (
-          <div key={p} className="grid gap-2 rounded-md p-2 ring-1 ring-hull-700 sm:col-span-2 sm:grid-cols-2">
-            <NumberField
-              label={`${p} to ground (MΩ)`}
-              name={`megohms${p}`}
-              required
-              error={errors[`megohms${p}`]}
-              hint={saved[p] ? "Saved" : undefined}
-            />
-            <QualifierField label={`${p}: the meter showed it`} name={`qualifier${p}`} />
-          </div>
-        ))}
-        <NumberField label="Equipment temperature (°C)" name="equipmentTempC" required error={errors.equipmentTempC} />
-        <NumberField
-          label="Test voltage (V DC)"
-          name="testVoltsDc"
-          defaultValue={1000}
-          step="1"
-          error={errors.testVoltsDc}
-        />
-        <NumberField
-          label="Ambient temperature (°C)"
-          name="ambientTempC"
-          hint="With humidity: checks the dew point"
-          error={errors.ambientTempC}
-        />
-        <NumberField label="Relative humidity (%)" name="humidityPercent" error={errors.humidityPercent} />
-        <TextField label="Instrument" name="instrument" />
-        <WhenField error={errors.measuredAt} />
-        <TextField label="Notes" name="notes" className="sm:col-span-2" />
-      </FormShell>
+      <FormProvider {...form}>
+        <FormShell
+          title="Record a phase comparison"
+          onSubmit={(ev) => void submit(ev)}
+          error={formMessage(errors) ?? notice}
+          busy={busy}
+          submitLabel={Object.keys(saved).length && !all ? "Save the phases not saved yet" : "Save three readings"}
+          disabled={all}
+        >
+          <LiveWorkCaution kind="phases" />
+          <CircuitTargetFields options={options} noneLabel="No component: name the circuit" />
+          {PHASE_KEYS.map((p) => (
+            <div key={p} className="grid gap-2 rounded-md p-2 ring-1 ring-hull-700 sm:col-span-2 sm:grid-cols-2">
+              <NumberField
+                label={`${p} to ground (MΩ)`}
+                {...form.register(`megohms${p}`)}
+                required
+                error={e(`megohms${p}`)}
+                hint={saved[p] ? "Saved" : undefined}
+              />
+              <QualifierField
+                label={`${p}: the meter showed it`}
+                {...form.register(`qualifier${p}`)}
+                error={e(`qualifier${p}`)}
+              />
+            </div>
+          ))}
+          <NumberField
+            label="Equipment temperature (°C)"
+            {...form.register("equipmentTempC")}
+            required
+            error={e("equipmentTempC")}
+          />
+          <NumberField
+            label="Test voltage (V DC)"
+            {...form.register("testVoltsDc")}
+
+            step="1"
+            error={e("testVoltsDc")}
+          />
+          <NumberField
+            label="Ambient temperature (°C)"
+            {...form.register("ambientTempC")}
+            hint="With humidity: checks the dew point"
+            error={e("ambientTempC")}
+          />
+          <NumberField
+            label="Relative humidity (%)"
+            {...form.register("humidityPercent")}
+            error={e("humidityPercent")}
+          />
+          <TextField label="Instrument" {...form.register("instrument")} error={e("instrument")} />
+          <WhenField {...form.register("measuredAt")} error={e("measuredAt")} />
+          <TextField label="Notes" {...form.register("notes")} className="sm:col-span-2" error={e("notes")} />
+        </FormShell>
+      </FormProvider>
       {(Object.keys(saved).length > 0 || waiting.length > 0) && (
         <div role="status" className="space-y-2 rounded-lg bg-hull-850 p-3 ring-1 ring-hull-600">
           <ul className="space-y-1">

@@ -1,0 +1,64 @@
+/**
+ * The one form pattern (DEVELOPERS.md, "Forms"): react-hook-form holds the inputs' text, a zod
+ * schema from src/schemas — the one the server parses the request with — validates it through
+ * @hookform/resolvers, and a refused save puts the server's field messages beside the same fields.
+ *
+ * A form's schema is `z.object({ field: <text → value converter> }).pipe(sharedBodySchema)`: the
+ * converters below only change text into the body's types (blank → null, "1,5" → 1.5); every limit
+ * and message comes from the shared schema, so the form and the server can never disagree.
+ */
+import { zodResolver } from "@hookform/resolvers/zod";
+import {
+  useForm,
+  type DefaultValues,
+  type FieldErrors,
+  type FieldValues,
+  type Path,
+  type UseFormReturn,
+} from "react-hook-form";
+import { z } from "zod";
+import { ApiError } from "./api-client";
+
+/** A number input's text: blank → null, a decimal comma accepted, anything else NaN for zod to name. */
+export const numberText = z.string().transform((s) => {
+  const t = s.trim().replace(",", ".");
+  return t === "" ? null : Number(t);
+});
+
+/** A select or text whose blank means "none": "" → null. */
+export const blankAsNull = z.string().transform((s) => (s.trim() === "" ? null : s));
+
+/** A datetime-local input ("2026-11-20T09:30", the browser's zone) → ISO 8601; blank or junk stays for zod. */
+export const localDateTime = z.string().transform((s) => {
+  const d = new Date(s);
+  return s && !Number.isNaN(d.getTime()) ? d.toISOString() : s;
+});
+
+/** useForm validated by `schema`: In is what the inputs hold (text), Out the request body it parses to. */
+export function useSchemaForm<In extends FieldValues, Out>(
+  schema: z.ZodType<Out, In>,
+  defaultValues: DefaultValues<In>,
+) {
+  return useForm<In, unknown, Out>({ resolver: zodResolver(schema), defaultValues });
+}
+
+/** The server refused a save: its field messages beside the fields of the same name, the rest on top. */
+export function showSaveError<In extends FieldValues, Out>(form: UseFormReturn<In, unknown, Out>, err: unknown) {
+  if (err instanceof ApiError) {
+    for (const [k, v] of Object.entries(err.fields ?? {})) form.setError(k as Path<In>, { message: v });
+    form.setError("root.server", { message: err.message });
+  } else form.setError("root.server", { message: "That did not save. Try again." });
+}
+
+/** The message above a form: the server's, or a pointer to the fields marked below. */
+export function formMessage<In extends FieldValues>(errors: FieldErrors<In>): string | null {
+  if (errors.root?.server?.message) return errors.root.server.message;
+  return Object.keys(errors).some((k) => k !== "root") ? "Check the fields marked below." : null;
+}
+
+/** A field's message, for `error={fieldError(errors, "circuit")}`. */
+export function fieldError<In extends FieldValues>(errors: FieldErrors<In>, name: Path<In>): string | undefined {
+  const e = name.split(".").reduce<unknown>((o, k) => (o as Record<string, unknown> | undefined)?.[k], errors);
+  const m = (e as { message?: unknown } | undefined)?.message;
+  return typeof m === "string" ? m : undefined;
+}
