@@ -112,8 +112,8 @@ export async function benchFleet() {
   console.log(`\n── fleet: one web instance against two (${CLIENTS} clients, ${SECONDS} s per case, ${RUNS} runs)`);
   const local = await openLocalDatabase("test", "postgres");
   const name = `tideline_bench_fleet_${randomBytes(4).toString("hex")}`;
-  await ensureDatabase(local.adminUrl, name, { fresh: true });
-  const url = local.adminUrl.replace(/\/postgres$/, `/${name}`);
+  await ensureDatabase(local.adminUrl, name, { fresh: true, owner: local.appRole });
+  const url = local.url.replace(/\/postgres$/, `/${name}`);
   const photoDir = await mkdtemp(join(tmpdir(), "tideline-bench-fleet-"));
   const setup = createDb(url, MAINTENANCE_DB_OPTIONS);
   const instances: ChildProcess[] = [];

@@ -159,8 +159,8 @@ const spread = (xs: number[]) => `${Math.min(...xs).toFixed(1)}–${Math.max(...
 export async function benchReport() {
   const local = await openLocalDatabase("test", "postgres");
   const name = `tideline_bench_report_${randomBytes(4).toString("hex")}`;
-  await ensureDatabase(local.adminUrl, name, { fresh: true });
-  const db = createDb(local.adminUrl.replace(/\/postgres$/, `/${name}`), { ...MAINTENANCE_DB_OPTIONS, max: 5 });
+  await ensureDatabase(local.adminUrl, name, { fresh: true, owner: local.appRole });
+  const db = createDb(local.url.replace(/\/postgres$/, `/${name}`), { ...MAINTENANCE_DB_OPTIONS, max: 5 });
   try {
     await migrateToLatest(db);
     const t0 = performance.now();

@@ -234,8 +234,9 @@ async function main() {
   const local = await openLocalDatabase("test", "postgres");
   const reuse = process.env.BENCH_DATABASE;
   const name = reuse ?? `tideline_bench_${randomBytes(4).toString("hex")}`;
-  if (!reuse) await ensureDatabase(local.adminUrl, name, { fresh: true });
-  const url = local.adminUrl.replace(/\/postgres$/, `/${name}`);
+  // Measured as the app runs: through its own role, which owns the database (a kept one is handed over).
+  await ensureDatabase(local.adminUrl, name, { fresh: !reuse, owner: local.appRole });
+  const url = local.url.replace(/\/postgres$/, `/${name}`);
   const setup = createDb(url, { ...MAINTENANCE_DB_OPTIONS, max: 4 });
   const raw = new pg.Pool({ connectionString: url, max: POOL });
   let server: Awaited<ReturnType<typeof startServer>> | undefined;

@@ -15,7 +15,7 @@ const name = process.env.E2E_DATABASE ?? "tideline_e2e";
 process.env.PHOTO_DIR ??= join(projectRoot, ".data", "photos-e2e");
 rmSync(process.env.PHOTO_DIR, { recursive: true, force: true });
 const cluster = await openLocalDatabase("test", "postgres");
-await ensureDatabase(cluster.adminUrl, name, { fresh: true });
+await ensureDatabase(cluster.adminUrl, name, { fresh: true, owner: cluster.appRole });
 const { local, db } = await prepareDatabase("test", name);
 const clientDir = buildClient();
 const port = Number(process.env.PORT ?? 3100);

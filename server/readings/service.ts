@@ -489,6 +489,7 @@ export async function componentReadings(db: Db, siteId: string, componentId: str
       id: c.id,
       boardId: c.boardId,
       boardName: c.boardName,
+      positionId: c.positionId,
       designation: c.designation,
       circuit: c.circuit,
       kind: c.kind,

@@ -2,51 +2,117 @@
  * Reads kept on the phone (issue 16): TanStack Query's own persistence (react-query-persist-client
  * with the async-storage persister) writes the query cache to IndexedDB through idb-keyval, so the
  * boards, positions, grades, dispositions, open defects, readings and watch checks a person has
- * opened show with no signal. Bounded: only those kinds of query, only successful ones, at most
+ * opened show with no signal. Bounded: only those kinds of query, only ones holding data, at most
  * MAX_BYTES (newest first), for at most MAX_AGE; removed at sign-out.
+ *
+ * The persister writes at most once a second. A page closed, reloaded or sent to the background
+ * inside that second (the phone locked on the way down the ladder, the camera opened) used to lose
+ * what it had just read: the newest copy is now also written at once when the page is hidden or
+ * left (`pagehide`, `visibilitychange`), and `keptOnPhone()` says whether a read is written yet.
  */
 import { createAsyncStoragePersister } from "@tanstack/query-async-storage-persister";
-import type { PersistedClient } from "@tanstack/react-query-persist-client";
+import type { PersistedClient, Persister } from "@tanstack/react-query-persist-client";
 import type { Query } from "@tanstack/react-query";
 import { createStore, del, get, set } from "idb-keyval";
 
 export const MAX_AGE_MS = 3 * 24 * 3600_000;
 export const MAX_BYTES = 8 * 1024 * 1024;
 /** Query key roots worth having in a hull with no signal. */
-const KEPT_ROOTS = new Set(["auth", "sites", "inventory", "readings", "rts", "defects", "photos"]);
+export const KEPT_ROOTS = new Set(["auth", "sites", "inventory", "readings", "rts", "defects", "photos"]);
+/** IndexedDB database, store and key of the kept reads (the size measure in DEVELOPERS.md reads this entry). */
+export const CACHE_DB = "tideline-cache";
+export const CACHE_STORE = "queries";
+export const CACHE_KEY = "tideline-query-cache";
 
-const idb = typeof indexedDB === "undefined" ? null : createStore("tideline-cache", "queries");
+const idb = typeof indexedDB === "undefined" ? null : createStore(CACHE_DB, CACHE_STORE);
 
-export const shouldKeepQuery = (q: Query) => q.state.status === "success" && KEPT_ROOTS.has(String(q.queryKey[0]));
+/**
+ * Kept: a read of a kept kind that holds data. A read whose last refetch failed (a dead Wi-Fi that
+ * still says "connected") keeps its older data and is kept too: leaving it out would drop from the
+ * phone exactly what the person will need in the hull.
+ */
+export const shouldKeepQuery = (q: Pick<Query, "queryKey" | "state">) =>
+  q.state.data !== undefined && KEPT_ROOTS.has(String(q.queryKey[0]));
+
+type Dehydrated = PersistedClient["clientState"]["queries"][number];
+
+/** A kept read comes back as the data it had: a failed refetch's error is not kept with it. */
+function asKept(q: Dehydrated): Dehydrated {
+  if (q.state.status !== "error") return q;
+  return {
+    ...q,
+    state: { ...q.state, status: "success", error: null, fetchFailureCount: 0, fetchFailureReason: null },
+  };
+}
 
 /** Newest queries first until MAX_BYTES: a 500-position board fits many times over (DEVELOPERS.md). */
 export function boundedSerialize(client: PersistedClient): string {
   const queries = [...client.clientState.queries].sort((a, b) => b.state.dataUpdatedAt - a.state.dataUpdatedAt);
-  const kept: typeof queries = [];
+  const kept: Dehydrated[] = [];
   let bytes = 200;
   for (const q of queries) {
-    const size = JSON.stringify(q).length;
+    const k = asKept(q);
+    const size = JSON.stringify(k).length;
     if (bytes + size > MAX_BYTES) continue;
     bytes += size;
-    kept.push(q);
+    kept.push(k);
   }
   return JSON.stringify({ ...client, clientState: { ...client.clientState, queries: kept, mutations: [] } });
 }
 
-export const persister = createAsyncStoragePersister({
-  storage: idb
-    ? {
-        getItem: (k: string) => get<string>(k, idb).then((v) => v ?? null),
-        setItem: (k: string, v: string) => set(k, v, idb),
-        removeItem: (k: string) => del(k, idb),
-      }
-    : null,
-  key: "tideline-query-cache",
+const storage = idb
+  ? {
+      getItem: (k: string) => get<string>(k, idb).then((v) => v ?? null),
+      setItem: (k: string, v: string) => set(k, v, idb),
+      removeItem: (k: string) => del(k, idb),
+    }
+  : null;
+
+/** Which copy each save handed over, and the newest one given to storage: a flush writes only what is newer. */
+const seqOf = new WeakMap<PersistedClient, number>();
+let lastSeq = 0;
+let writtenSeq = 0;
+let latest: PersistedClient | null = null;
+
+const throttled = createAsyncStoragePersister({
+  storage,
+  key: CACHE_KEY,
   throttleTime: 1000,
-  serialize: boundedSerialize,
+  serialize: (client) => {
+    writtenSeq = Math.max(writtenSeq, seqOf.get(client) ?? 0);
+    return boundedSerialize(client);
+  },
 });
+
+export const persister: Persister = {
+  persistClient: (client) => {
+    seqOf.set(client, ++lastSeq);
+    latest = client;
+    return throttled.persistClient(client);
+  },
+  restoreClient: () => throttled.restoreClient(),
+  removeClient: async () => {
+    latest = null;
+    await throttled.removeClient();
+  },
+};
+
+/** Writes the newest copy now, without waiting for the throttle (the page is being hidden or left). */
+export async function flushPersistedReads(): Promise<void> {
+  const client = latest;
+  if (!client || !storage || (seqOf.get(client) ?? 0) <= writtenSeq) return;
+  writtenSeq = seqOf.get(client)!;
+  await storage.setItem(CACHE_KEY, boundedSerialize(client));
+}
 
 /** Sign-out: nothing of this person's reads stays on the phone. */
 export async function forgetPersistedReads() {
   await persister.removeClient();
+}
+
+if (typeof window !== "undefined") {
+  window.addEventListener("pagehide", () => void flushPersistedReads());
+  document.addEventListener("visibilitychange", () => {
+    if (document.visibilityState === "hidden") void flushPersistedReads();
+  });
 }

@@ -562,6 +562,8 @@ export const componentReadingsSchema = z.object({
     id: safeText(),
     boardId: safeText(),
     boardName: safeText(),
+    /** Where the component sits now (its photos, a thermal image among them, are filed to the position). */
+    positionId: safeText().optional(),
     designation: safeText(),
     circuit: safeText(),
     kind: safeText(),

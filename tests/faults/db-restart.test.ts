@@ -12,7 +12,7 @@ import { readFileSync } from "node:fs";
 import { request } from "node:http";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { ensureDatabase, pgCtl, projectRoot, startCluster, type Cluster } from "../../db/pg";
+import { APP_ROLE, ensureDatabase, pgCtl, projectRoot, startCluster, type Cluster } from "../../db/pg";
 import { migrateToLatest } from "../../db/migrate";
 import { createDb, MAINTENANCE_DB_OPTIONS } from "../../server/db";
 import { makeCrew } from "../helpers/fixtures";
@@ -46,7 +46,7 @@ async function startDatabase() {
 beforeAll(async () => {
   pgPort = await freePort();
   await startDatabase();
-  await ensureDatabase(cluster.urlFor("postgres"), DATABASE, { fresh: true });
+  await ensureDatabase(cluster.adminUrlFor("postgres"), DATABASE, { fresh: true, owner: APP_ROLE });
   url = cluster.urlFor(DATABASE);
   const setup = createDb(url, MAINTENANCE_DB_OPTIONS);
   await migrateToLatest(setup);

@@ -15,8 +15,9 @@ export interface TestDb {
 export async function createTestDb(): Promise<TestDb> {
   const adminUrl = inject("adminUrl");
   const name = `t_${randomBytes(6).toString("hex")}`;
-  await ensureDatabase(adminUrl, name, { template: inject("templateDb") });
-  const url = adminUrl.replace(/\/postgres$/, `/${name}`);
+  // Owned by the app's role, and used through it, as `npm start` does (no superuser).
+  await ensureDatabase(adminUrl, name, { template: inject("templateDb"), owner: inject("appRole") });
+  const url = inject("appUrl").replace(/\/postgres$/, `/${name}`);
   // As many connections as an app instance has by default (DATABASE_POOL_MAX): the job worker polls through
   // this pool too, and five left a slow PDF waiting past the acquire timeout on a loaded machine.
   const db = createDb(url, 10);

@@ -8,14 +8,15 @@ import { seedDemo } from "../../db/seed/demo";
 
 const name = `m_${Date.now().toString(36)}`;
 const adminUrl = inject("adminUrl");
-const db = createDb(adminUrl.replace(/\/postgres$/, `/${name}`), 2);
+// As the app's own role (no superuser), the way `npm start` migrates the embedded database.
+const db = createDb(inject("appUrl").replace(/\/postgres$/, `/${name}`), 2);
 afterAll(async () => {
   await db.destroy();
   await ensureDatabase(adminUrl, "postgres"); // no-op; keeps the helper honest
 });
 
 it("when migrations run on an empty database, every table exists and a second run applies nothing", async () => {
-  await ensureDatabase(adminUrl, name, { fresh: true });
+  await ensureDatabase(adminUrl, name, { fresh: true, owner: inject("appRole") });
   const applied = await migrateToLatest(db);
   expect(applied.length).toBeGreaterThan(0);
   const tables = await sql<{
@@ -114,8 +115,8 @@ it("the defect-state rename maps every old value to the new one and back, in def
 
 it("every migration's down undoes it: all the way down leaves no table, type or function of ours, and up applies all again", async () => {
   const downName = `${name}_down`;
-  await ensureDatabase(adminUrl, downName, { fresh: true });
-  const d = createDb(adminUrl.replace(/\/postgres$/, `/${downName}`), 2);
+  await ensureDatabase(adminUrl, downName, { fresh: true, owner: inject("appRole") });
+  const d = createDb(inject("appUrl").replace(/\/postgres$/, `/${downName}`), 2);
   const ours = async () => {
     const r = await sql<{ kind: string; name: string }>`
       select 'table' as kind, table_name as name from information_schema.tables

@@ -13,8 +13,9 @@ export const TEMPLATE_DB = "tideline_template";
  */
 export default async function setup(project: TestProject) {
   const local = await openLocalDatabase("test", "postgres");
-  await ensureDatabase(local.adminUrl, TEMPLATE_DB, { fresh: true });
-  const db = createDb(local.adminUrl.replace(/\/postgres$/, `/${TEMPLATE_DB}`), { ...MAINTENANCE_DB_OPTIONS, max: 1 });
+  // Migrated as the app's role, which owns it: a migration that needs a superuser fails here.
+  await ensureDatabase(local.adminUrl, TEMPLATE_DB, { fresh: true, owner: local.appRole });
+  const db = createDb(local.url.replace(/\/postgres$/, `/${TEMPLATE_DB}`), { ...MAINTENANCE_DB_OPTIONS, max: 1 });
   await migrateToLatest(db);
   // pg-boss creates its own schema (pgboss) on first start; do it once here so every clone has it.
   const jobs = createJobs({ db, work: false });
@@ -22,13 +23,19 @@ export default async function setup(project: TestProject) {
   await jobs.stop(1000);
   await db.destroy();
   project.provide("adminUrl", local.adminUrl);
+  project.provide("appUrl", local.url);
+  project.provide("appRole", local.appRole);
   project.provide("templateDb", TEMPLATE_DB);
   return () => local.stop();
 }
 
 declare module "vitest" {
   export interface ProvidedContext {
+    /** The superuser on the test cluster's postgres database: create/drop databases, watch other sessions. */
     adminUrl: string;
+    /** The app's role on the test cluster's postgres database (swap the path for a test database). */
+    appUrl: string;
+    appRole: string;
     templateDb: string;
   }
 }

@@ -15,6 +15,8 @@ import type { PhotoKind } from "../../domain/vocab";
 export interface PhotoFilter {
   boardId?: string;
   positionId?: string;
+  componentId?: string;
+  kind?: PhotoKind;
   inspectionId?: string;
   custodyMoveId?: string;
   defectId?: string;
@@ -41,7 +43,7 @@ export const photosQueryOptions = (siteId: string, f: PhotoFilter) =>
     queryFn: ({ signal }) =>
       api
         .get(
-          `/api/sites/${siteId}/photos${qs({ boardId: f.boardId, positionId: f.positionId, inspectionId: f.inspectionId, custodyMoveId: f.custodyMoveId, defectId: f.defectId, unassigned: f.unassigned ? "1" : undefined, ids: f.ids?.join(",") })}`,
+          `/api/sites/${siteId}/photos${qs({ boardId: f.boardId, positionId: f.positionId, componentId: f.componentId, kind: f.kind, inspectionId: f.inspectionId, custodyMoveId: f.custodyMoveId, defectId: f.defectId, unassigned: f.unassigned ? "1" : undefined, ids: f.ids?.join(",") })}`,
           listResponse,
           signal,
         )

@@ -9,6 +9,7 @@ import { GroundCheckHistory } from "../../../features/readings/components/ground
 import { InsulationHistory } from "../../../features/readings/components/insulation-history";
 import { LatestGroundCheck } from "../../../features/readings/components/latest-ground-check";
 import { RecordPanel } from "../../../features/readings/components/record-panel";
+import { PhotoPicker, PhotoThumb, usePhotoMap } from "../../../features/photos/components/photo-picker";
 import { ThermalHistory } from "../../../features/readings/components/thermal-history";
 import { GroundHuntLog } from "../../../features/readings/components/ground-hunt-log";
 import { PhaseComparisonList } from "../../../features/readings/components/phase-comparison-list";
@@ -23,6 +24,10 @@ export default function BoardReadingsPage() {
   const { boardId = "" } = useParams();
   const readings = useBoardReadings(site.id, boardId);
   const targets = useReadingTargets(site.id);
+  const thermalPhotos = usePhotoMap(
+    site.id,
+    (readings.data?.thermal ?? []).flatMap((s) => (s.photoId ? [s.photoId] : [])),
+  );
   if (readings.isPending) return <Loading what="Loading the board's readings" />;
   if (readings.isError) return <ErrorPanel error={readings.error} />;
   const { board, insulation, contacts, thermal, groundChecks, tripTests, stepTests, groundHunts, phaseComparisons } =
@@ -31,6 +36,7 @@ export default function BoardReadingsPage() {
   const withComponent = positions.filter((p) => p.componentId);
   const option = (p: (typeof positions)[number]) => ({
     componentId: p.componentId!,
+    positionId: p.positionId,
     designation: p.designation,
     circuit: p.circuit,
   });
@@ -73,6 +79,17 @@ export default function BoardReadingsPage() {
           feeders={feeders}
           hunts={groundHunts}
           comparisons={phaseComparisons}
+          thermalPhotoPicker={(target, error) => (
+            <PhotoPicker
+              siteId={site.id}
+              componentId={target.componentId}
+              positionId={target.positionId}
+              kind="thermal"
+              name="photoId"
+              legend="Thermal image (optional)"
+              error={error}
+            />
+          )}
         />
       )}
       <section aria-labelledby="dry-out-title" className="space-y-2">
@@ -129,7 +146,13 @@ export default function BoardReadingsPage() {
         <h2 id="th-title" className="text-xl font-bold">
           Thermal findings
         </h2>
-        <ThermalHistory scans={thermal} />
+        <ThermalHistory
+          scans={thermal}
+          image={(photoId, scan) => {
+            const p = thermalPhotos.get(photoId);
+            return p ? <PhotoThumb siteId={site.id} photo={p} alt={`Thermal image of ${scan.designation}`} /> : null;
+          }}
+        />
       </section>
       <section aria-labelledby="gl-title" className="space-y-2">
         <h2 id="gl-title" className="text-xl font-bold">

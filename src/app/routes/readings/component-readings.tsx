@@ -8,6 +8,7 @@ import { DryOutSection } from "../../../features/readings/components/dry-out-sec
 import { InsulationHistory } from "../../../features/readings/components/insulation-history";
 import { OverrideForm } from "../../../features/readings/components/override-form";
 import { RecordPanel } from "../../../features/readings/components/record-panel";
+import { PhotoPicker, PhotoThumb, usePhotoMap } from "../../../features/photos/components/photo-picker";
 import { ThermalHistory } from "../../../features/readings/components/thermal-history";
 import { StepTestHistory } from "../../../features/readings/components/step-test-history";
 import { TripTestHistory } from "../../../features/readings/components/trip-test-history";
@@ -19,6 +20,10 @@ export default function ComponentReadingsPage() {
   const { site, role } = useSiteContext();
   const { componentId = "" } = useParams();
   const q = useComponentReadings(site.id, componentId);
+  const thermalPhotos = usePhotoMap(
+    site.id,
+    (q.data?.thermal ?? []).flatMap((s) => (s.photoId ? [s.photoId] : [])),
+  );
   if (q.isPending) return <Loading what="Loading the component's readings" />;
   if (q.isError) return <ErrorPanel error={q.error} />;
   const { component: c, override, insulation, contacts, thermal, tripTests, stepTests } = q.data;
@@ -43,8 +48,19 @@ export default function ComponentReadingsPage() {
           boardId={c.boardId}
           lineVolts={c.ratedVolts}
           componentId={c.id}
-          options={[{ componentId: c.id, designation: c.designation, circuit: c.circuit }]}
+          options={[{ componentId: c.id, positionId: c.positionId, designation: c.designation, circuit: c.circuit }]}
           kinds={["insulation", "step", "contact", ...(trippable ? (["trip"] as const) : []), "thermal"]}
+          thermalPhotoPicker={(target, error) => (
+            <PhotoPicker
+              siteId={site.id}
+              componentId={target.componentId}
+              positionId={target.positionId}
+              kind="thermal"
+              name="photoId"
+              legend="Thermal image (optional)"
+              error={error}
+            />
+          )}
         />
       )}
       {can(role, "readings.criteria") && <OverrideForm siteId={site.id} componentId={c.id} current={override} />}
@@ -84,7 +100,13 @@ export default function ComponentReadingsPage() {
         <h2 id="th-title" className="text-xl font-bold">
           Thermal findings
         </h2>
-        <ThermalHistory scans={thermal} />
+        <ThermalHistory
+          scans={thermal}
+          image={(photoId, scan) => {
+            const p = thermalPhotos.get(photoId);
+            return p ? <PhotoThumb siteId={site.id} photo={p} alt={`Thermal image of ${scan.designation}`} /> : null;
+          }}
+        />
       </section>
     </div>
   );

@@ -7,7 +7,7 @@ import type { Board, TileRow } from "../contract";
 import { BoardTile } from "./board-tile";
 import { tileMatches, type TileFilters } from "./elevation-filters";
 
-const ROW_REM = 5.5;
+const ROW_REM = 6;
 /**
  * Boards with more positions than this draw only the grid rows and columns on screen (plus a
  * margin), through @tanstack/react-virtual: a board of 3,600 positions drew every tile in one
@@ -42,27 +42,37 @@ export function neighbour(tiles: TileRow[], from: TileRow, key: string): TileRow
   return best;
 }
 
+/** The tinted band below the flood line, drawn over the face (decoration: it never carries words). */
 function WaterLine({ board }: { board: Board }) {
   if (board.waterLineMm == null || !board.faceHeightMm) return null;
   const top = waterLineFromTop(board.waterLineMm, board.faceHeightMm) * 100;
   return (
     <div aria-hidden="true" className="pointer-events-none absolute inset-x-0 bottom-0 z-10" style={{ top: `${top}%` }}>
       <div className="absolute inset-0 bg-tide-400/15 [background-image:repeating-linear-gradient(0deg,rgba(106,168,242,0.10)_0_1px,transparent_1px_10px)]" />
-      <svg className="absolute -top-2 left-0 h-4 w-full" preserveAspectRatio="none" viewBox="0 0 100 8">
-        <path
-          d="M0 4 Q 2.5 0 5 4 T 10 4 T 15 4 T 20 4 T 25 4 T 30 4 T 35 4 T 40 4 T 45 4 T 50 4 T 55 4 T 60 4 T 65 4 T 70 4 T 75 4 T 80 4 T 85 4 T 90 4 T 95 4 T 100 4"
-          fill="none"
-          className="stroke-tide-300"
-          strokeWidth="1.4"
-          vectorEffect="non-scaling-stroke"
-        />
-      </svg>
-      <span className="absolute -top-6 right-1 rounded bg-hull-950/90 px-1.5 py-0.5 text-[11px] font-semibold text-tide-300 ring-1 ring-tide-400">
-        ≈ flood water line · {board.waterLineMm} mm
-      </span>
+      <WaveStroke />
     </div>
   );
 }
+
+const WaveStroke = () => (
+  <svg className="absolute -top-2 left-0 h-4 w-full" preserveAspectRatio="none" viewBox="0 0 100 8">
+    <path
+      d="M0 4 Q 2.5 0 5 4 T 10 4 T 15 4 T 20 4 T 25 4 T 30 4 T 35 4 T 40 4 T 45 4 T 50 4 T 55 4 T 60 4 T 65 4 T 70 4 T 75 4 T 80 4 T 85 4 T 90 4 T 95 4 T 100 4"
+      fill="none"
+      className="stroke-tide-300"
+      strokeWidth="1.4"
+      vectorEffect="non-scaling-stroke"
+    />
+  </svg>
+);
+
+/** The legend's swatch: the same wave and tint as on the face, so the words above name what is drawn. */
+const WaveSwatch = () => (
+  <svg aria-hidden="true" viewBox="0 0 24 12" className="inline-block h-3 w-6 shrink-0 align-[-1px]">
+    <rect x="0" y="6" width="24" height="6" className="fill-tide-400/30" />
+    <path d="M0 6 Q 3 2 6 6 T 12 6 T 18 6 T 24 6" fill="none" className="stroke-tide-300" strokeWidth="1.4" />
+  </svg>
+);
 
 interface Geometry {
   /** Row track + row gap, px. */
@@ -210,10 +220,13 @@ export function BoardElevation({
       data-windowed={windowed || undefined}
       data-drawn={drawn.length}
     >
+      {/* The water line's words live in this key above the face, never on it (issue 14 item 10: no label covers a tile). */}
       {board.waterLineMm != null && board.faceHeightMm ? (
-        <p className="mb-2 text-sm text-tide-300">
-          The flood reached {board.waterLineMm} mm up this {board.faceHeightMm} mm face; the tinted band is below that
-          line.
+        <p className="mb-2 flex items-center gap-2 text-sm text-tide-300" data-testid="water-line-key">
+          <WaveSwatch />
+          <span>
+            Flood water line: {board.waterLineMm} mm up this {board.faceHeightMm} mm face; the tinted band is below it.
+          </span>
         </p>
       ) : (
         <p className="mb-2 text-sm text-fog">No water line recorded for this board yet.</p>

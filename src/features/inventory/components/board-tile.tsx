@@ -79,36 +79,39 @@ export const BoardTile = forwardRef<HTMLButtonElement, Props>(function BoardTile
         {COMPONENT_KIND_SHORT[t.kind]}
         {c?.ratingAmps != null && <span className="text-fog">{c.ratingAmps} A</span>}
       </span>
-      <span className="mt-auto pt-1">
+      {/* Disposition, then the photo and defect marks beside it, wrapping under it when the tile is narrow. */}
+      <span className="mt-auto flex flex-wrap items-center justify-between gap-x-1 gap-y-0.5 pt-1">
         <span
           className={`inline-block whitespace-nowrap rounded border bg-hull-900/80 px-1 text-[10px] leading-[14px] ${DISPOSITION_STYLE[disp].chip}`}
         >
           <span aria-hidden="true">{DISPOSITION_STYLE[disp].mark} </span>
           {disp === "undecided" ? "undecided" : DISPOSITION_LABELS[disp].toLowerCase()}
         </span>
+        {(t.photoCount > 0 || t.openDefectCount > 0) && (
+          <span className="ml-auto flex shrink-0 gap-0.5" aria-hidden="true">
+            {t.photoCount > 0 && (
+              <span className="flex items-center rounded bg-hull-950/80 px-0.5 text-tide-300" title="photos">
+                <svg viewBox="0 0 16 16" className="h-3 w-3" fill="none" stroke="currentColor" strokeWidth="1.6">
+                  <path d="M2 5h3l1.5-2h3L11 5h3v8H2Z" />
+                  <circle cx="8" cy="9" r="2.3" />
+                </svg>
+              </span>
+            )}
+            {t.openDefectCount > 0 && (
+              <span className="rounded bg-flare-700 px-1 text-[10px] font-bold leading-3 text-chalk ring-1 ring-flare-400">
+                !{t.openDefectCount}
+              </span>
+            )}
+          </span>
+        )}
       </span>
+      {/* Custody in full words across the whole tile: they wrap between words, never cut (issue 14 item 10). */}
       {out && (
         <span
-          className={`mt-0.5 truncate text-[10px] ${t.photoCount > 0 || t.openDefectCount > 0 ? "pr-8" : ""} font-semibold uppercase leading-3 tracking-wide text-chalk`}
+          className="mt-0.5 text-[10px] font-semibold uppercase leading-3 tracking-wide text-chalk"
+          data-testid="tile-custody"
         >
           {CUSTODY_SHORT[c.custody]}
-        </span>
-      )}
-      {(t.photoCount > 0 || t.openDefectCount > 0) && (
-        <span className="absolute bottom-1 right-1 flex gap-0.5" aria-hidden="true">
-          {t.photoCount > 0 && (
-            <span className="flex items-center rounded bg-hull-950/80 px-0.5 text-tide-300" title="photos">
-              <svg viewBox="0 0 16 16" className="h-3 w-3" fill="none" stroke="currentColor" strokeWidth="1.6">
-                <path d="M2 5h3l1.5-2h3L11 5h3v8H2Z" />
-                <circle cx="8" cy="9" r="2.3" />
-              </svg>
-            </span>
-          )}
-          {t.openDefectCount > 0 && (
-            <span className="rounded bg-flare-700 px-1 text-[10px] font-bold leading-3 text-chalk ring-1 ring-flare-400">
-              !{t.openDefectCount}
-            </span>
-          )}
         </span>
       )}
     </button>

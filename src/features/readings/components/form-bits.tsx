@@ -5,6 +5,8 @@ import { localNow } from "../format";
 
 export interface TargetOption {
   componentId: string;
+  /** The position it sits in, where its photos are filed (when the page knows it). */
+  positionId?: string;
   designation: string;
   circuit: string;
 }

@@ -1,4 +1,4 @@
-import { useState } from "react";
+import { useState, type ReactNode } from "react";
 import type { GroundHunt, PhaseComparison } from "../../../schemas/readings";
 import { ContactForm } from "./contact-form";
 import type { TargetOption } from "./form-bits";
@@ -35,6 +35,7 @@ export function RecordPanel({
   comparisons = [],
   componentId,
   kinds = BOARD_KINDS,
+  thermalPhotoPicker,
 }: {
   siteId: string;
   boardId: string;
@@ -48,6 +49,8 @@ export function RecordPanel({
   comparisons?: PhaseComparison[];
   componentId?: string;
   kinds?: ReadingKind[];
+  /** The page's thermal-image picker for the thermal form (from the photos feature). */
+  thermalPhotoPicker?: (target: TargetOption, error?: string) => ReactNode;
 }) {
   const [kind, setKind] = useState<ReadingKind>(kinds[0]);
   return (
@@ -93,7 +96,14 @@ export function RecordPanel({
           defaultComponentId={componentId}
         />
       )}
-      {kind === "thermal" && <ThermalForm siteId={siteId} options={options} defaultComponentId={componentId} />}
+      {kind === "thermal" && (
+        <ThermalForm
+          siteId={siteId}
+          options={options}
+          defaultComponentId={componentId}
+          photoPicker={thermalPhotoPicker}
+        />
+      )}
       {kind === "ground" && <GroundCheckForm siteId={siteId} boardId={boardId} lineVolts={lineVolts} />}
       {kind === "hunt" && <GroundHuntForm siteId={siteId} boardId={boardId} feeders={feeders} hunts={hunts} />}
     </section>

@@ -1,4 +1,4 @@
-import { useState, type FormEvent } from "react";
+import { useState, type FormEvent, type ReactNode } from "react";
 import { TextField } from "../../../components/field";
 import { thermalScanBody } from "../../../schemas/readings";
 import { useRecordThermal } from "../api";
@@ -17,16 +17,24 @@ export function ThermalForm({
   siteId,
   options,
   defaultComponentId,
+  photoPicker,
 }: {
   siteId: string;
   options: TargetOption[];
   defaultComponentId?: string;
+  /**
+   * The page's picker of the chosen component's thermal images (radio inputs named "photoId"); the
+   * photos feature draws it, this form only reads the value.
+   */
+  photoPicker?: (target: TargetOption, error?: string) => ReactNode;
 }) {
   const save = useRecordThermal(siteId);
   const [errors, setErrors] = useState<Record<string, string>>({});
   const [message, setMessage] = useState<string | null>(null);
   const [saved, setSaved] = useState<string | null>(null);
   const [queued, setQueued] = useState(false);
+  const [componentId, setComponentId] = useState(defaultComponentId ?? options[0]?.componentId ?? "");
+  const target = options.find((o) => o.componentId === componentId);
 
   function submit(e: FormEvent<HTMLFormElement>) {
     e.preventDefault();
@@ -83,18 +91,21 @@ export function ThermalForm({
         busy={save.isPending}
         submitLabel="Save scan"
       >
-        <ComponentSelect options={options} defaultValue={defaultComponentId} error={errors.componentId} />
+        <div
+          className="contents"
+          onChange={(e) => {
+            const t: EventTarget = e.target;
+            if (t instanceof HTMLSelectElement && t.name === "componentId") setComponentId(t.value);
+          }}
+        >
+          <ComponentSelect options={options} defaultValue={defaultComponentId} error={errors.componentId} />
+        </div>
         <NumberField label="Component temperature (°C)" name="componentTempC" required error={errors.componentTempC} />
         <NumberField label="Similar component, similar load (°C)" name="similarTempC" error={errors.similarTempC} />
         <NumberField label="Ambient air (°C)" name="ambientTempC" error={errors.ambientTempC} />
         <NumberField label="Load (% of rating)" name="loadPercent" error={errors.loadPercent} />
         <NumberField label="Load (A)" name="loadAmps" error={errors.loadAmps} />
-        <TextField
-          label="Thermal image photo id (optional)"
-          name="photoId"
-          hint="A photo filed as a thermal image, when one has been uploaded"
-          error={errors.photoId}
-        />
+        {photoPicker && target && photoPicker(target, errors.photoId)}
         <TextField label="Camera" name="instrument" />
         <WhenField error={errors.measuredAt} />
         <TextField label="Notes" name="notes" className="sm:col-span-2" />

@@ -1,3 +1,4 @@
+import type { ReactNode } from "react";
 import type { ThermalScan } from "../../../schemas/readings";
 import { sig, when } from "../format";
 import { ReadingDefects } from "./reading-defects";
@@ -5,7 +6,14 @@ import { SourceDetails } from "./source-details";
 
 const rise = (v: number | null, what: string) => (v == null ? null : `${v >= 0 ? "+" : ""}${sig(v)} °C over ${what}`);
 
-export function ThermalHistory({ scans }: { scans: ThermalScan[] }) {
+/** `image` draws a scan's thermal image (the page composes it from the photos feature). */
+export function ThermalHistory({
+  scans,
+  image,
+}: {
+  scans: ThermalScan[];
+  image?: (photoId: string, scan: ThermalScan) => ReactNode;
+}) {
   if (scans.length === 0) return <p className="text-mist">No thermal scans yet.</p>;
   return (
     <ul className="space-y-2" aria-label="Thermal findings">
@@ -51,7 +59,12 @@ export function ThermalHistory({ scans }: { scans: ThermalScan[] }) {
               {w}
             </p>
           ))}
-          {s.photoId && <p className="text-sm">Thermal image on file (photo {s.photoId.slice(0, 8)})</p>}
+          {s.photoId && (
+            <figure className="mt-2">
+              {image?.(s.photoId, s)}
+              <figcaption className="text-xs text-mist">Thermal image of this scan</figcaption>
+            </figure>
+          )}
           <ReadingDefects kind="thermal" reading={s} />
           <SourceDetails sources={[{ title: "Temperature-rise bands", source: s.judgement.source }]} />
           {s.notes && <p className="text-sm text-mist">{s.notes}</p>}

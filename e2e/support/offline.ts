@@ -1,0 +1,45 @@
+import { expect, type Page } from "@playwright/test";
+
+/**
+ * The query keys the phone has written to its kept reads (src/app/persist.ts: IndexedDB
+ * "tideline-cache", store "queries", entry "tideline-query-cache"), as JSON strings.
+ */
+export function keptQueryKeys(page: Page): Promise<string[]> {
+  return page.evaluate(
+    () =>
+      new Promise<string[]>((resolve) => {
+        const open = indexedDB.open("tideline-cache");
+        open.onerror = () => resolve([]);
+        open.onsuccess = () => {
+          const db = open.result;
+          if (!db.objectStoreNames.contains("queries")) return resolve([]);
+          const get = db.transaction("queries", "readonly").objectStore("queries").get("tideline-query-cache");
+          get.onerror = () => resolve([]);
+          get.onsuccess = () => {
+            const raw = get.result as string | undefined;
+            if (!raw) return resolve([]);
+            const c = JSON.parse(raw) as { clientState: { queries: Array<{ queryKey: unknown[] }> } };
+            resolve(c.clientState.queries.map((q) => JSON.stringify(q.queryKey)));
+          };
+        };
+      }),
+  );
+}
+
+/**
+ * Waits until the phone has written each read (a query key starting with each given prefix) to its
+ * kept reads. The write is throttled to once a second, so a test that leaves a page (or goes
+ * offline) at once would otherwise race it; a person on a phone keeps the page open longer than that.
+ */
+export async function expectKept(page: Page, ...prefixes: unknown[][]) {
+  const wanted = prefixes.map((p) => JSON.stringify(p).slice(0, -1));
+  await expect
+    .poll(
+      async () => {
+        const keys = await keptQueryKeys(page);
+        return wanted.filter((w) => !keys.some((k) => k === `${w}]` || k.startsWith(`${w},`)));
+      },
+      { message: "reads kept on the phone", timeout: 15_000 },
+    )
+    .toEqual([]);
+}
