@@ -169,6 +169,47 @@ const CREATES: Array<{
     }),
   },
   {
+    name: "trip test",
+    table: "tripTests",
+    path: () => `${site()}/components/${componentId}/trip-tests`,
+    body: () => ({
+      test: "inverse_time",
+      tripUnit: "thermal_magnetic",
+      ratingAmps: 20,
+      systemVolts: 240,
+      testAmps: 60,
+      tripSeconds: 30,
+      measuredAt: "2026-11-22T09:00:00Z",
+    }),
+  },
+  {
+    name: "step-voltage test",
+    table: "stepVoltageTests",
+    path: () => `${site()}/boards/${boardId}/step-voltage-tests`,
+    body: () => ({
+      componentId,
+      conductors: "A-G",
+      steps: [
+        { testVoltsDc: 500, megohms: 1000 },
+        { testVoltsDc: 1000, megohms: 950 },
+      ],
+      measuredAt: "2026-11-22T10:00:00Z",
+    }),
+  },
+  {
+    name: "ground-hunt step",
+    table: "groundHuntSteps",
+    path: () => `${site()}/boards/${boardId}/ground-hunts`,
+    body: () => ({
+      hunt: "Energisation 1",
+      feeder: "1-1",
+      positionId,
+      action: "opened",
+      lamps: { A: "dark", B: "bright", C: "bright" },
+      measuredAt: "2026-11-22T11:00:00Z",
+    }),
+  },
+  {
     name: "watch check",
     table: "rtsWatchChecks",
     path: () => `${site()}/return-to-service/stages/${stageId}/watch-checks`,

@@ -165,21 +165,39 @@ export const useRemoveOverride = (siteId: string, componentId: string) =>
       z.object({ override: z.null() }),
     ),
   );
+/** Trip tests, step-voltage tests and ground-hunt steps from the phone: through the outbox like the other readings. */
 export const useRecordTripTest = (siteId: string) =>
-  useSiteMutation(siteId, ({ componentId, ...b }: TripTestBody & { componentId: string }) =>
-    api
-      .send("POST", `${site(siteId)}/components/${componentId}/trip-tests`, b, z.object({ test: tripTestSchema }))
-      .then((d) => d.test),
+  useSiteMutation(siteId, ({ componentId, label, ...b }: TripTestBody & { componentId: string; label: string }) =>
+    submitOrQueue({
+      siteId,
+      kind: "trip",
+      label: `Trip test, ${label}`,
+      url: `${site(siteId)}/components/${componentId}/trip-tests`,
+      body: b,
+      parse: (d) => z.object({ test: tripTestSchema }).parse(d).test,
+    }),
   );
 export const useRecordStepTest = (siteId: string, boardId: string) =>
-  useSiteMutation(siteId, (b: StepVoltageBody) =>
-    api
-      .send("POST", `${site(siteId)}/boards/${boardId}/step-voltage-tests`, b, z.object({ test: stepVoltageSchema }))
-      .then((d) => d.test),
+  useSiteMutation(siteId, ({ label, ...b }: StepVoltageBody & { label: string }) =>
+    submitOrQueue({
+      siteId,
+      kind: "step",
+      label: `Step-voltage test, ${label}`,
+      url: `${site(siteId)}/boards/${boardId}/step-voltage-tests`,
+      body: b,
+      parse: (d) => z.object({ test: stepVoltageSchema }).parse(d).test,
+    }),
   );
+/** The outbox URL of a board's ground-hunt steps (the form lists the steps still waiting on the phone). */
+export const huntStepsUrl = (siteId: string, boardId: string) => `${site(siteId)}/boards/${boardId}/ground-hunts`;
 export const useRecordHuntStep = (siteId: string, boardId: string) =>
   useSiteMutation(siteId, (b: GroundHuntBody) =>
-    api
-      .send("POST", `${site(siteId)}/boards/${boardId}/ground-hunts`, b, z.object({ step: groundHuntStepSchema }))
-      .then((d) => d.step),
+    submitOrQueue({
+      siteId,
+      kind: "hunt",
+      label: `Ground-hunt step, ${b.hunt}: ${b.action} ${b.feeder}`,
+      url: huntStepsUrl(siteId, boardId),
+      body: b,
+      parse: (d) => z.object({ step: groundHuntStepSchema }).parse(d).step,
+    }),
   );

@@ -1,7 +1,8 @@
 import { useState, type FormEvent } from "react";
 import { SelectField, TextField } from "../../../components/field";
 import { LAMP_LOOKS, PHASE_KEYS, groundHuntBody, type GroundHunt } from "../../../schemas/readings";
-import { useRecordHuntStep } from "../api";
+import { pendingFor, useOutbox } from "../../../lib/outbox";
+import { huntStepsUrl, useRecordHuntStep } from "../api";
 import { fieldErrors, localNow, toIso } from "../format";
 import { ChoiceChips } from "./choice-chips";
 import { FormShell, WhenField, saveErrors } from "./form-bits";
@@ -19,8 +20,9 @@ const OTHER = "__other";
 
 /**
  * Hunting a ground on a live board: open one feeder at a time and log how the three lamps look
- * after each. Each step saves at once (a dropped signal loses at most one step); the hunt's log
- * and what it points at (src/domain/ground-detection.ts, groundHuntFinding) show under the form.
+ * after each. Each step saves at once; with no signal it waits on the phone (src/lib/outbox) and is
+ * listed here until sent. The hunt's log and what it points at (src/domain/ground-detection.ts,
+ * groundHuntFinding) show under the form once the server has the steps.
  */
 export function GroundHuntForm({
   siteId,
@@ -41,6 +43,7 @@ export function GroundHuntForm({
   const [errors, setErrors] = useState<Record<string, string>>({});
   const [message, setMessage] = useState<string | null>(null);
   const [justSaved, setJustSaved] = useState(false);
+  const outbox = useOutbox();
 
   function submit(e: FormEvent<HTMLFormElement>) {
     e.preventDefault();
@@ -69,8 +72,8 @@ export function GroundHuntForm({
     }
     setErrors({});
     save.mutate(parsed.data, {
-      onSuccess: () => {
-        setJustSaved(true);
+      onSuccess: (r) => {
+        setJustSaved(!r.queued);
         // the next feeder in the list is the usual next step
         const i = feeders.findIndex((p) => p.positionId === feeder);
         if (i >= 0 && i + 1 < feeders.length) setFeeder(feeders[i + 1].positionId);
@@ -84,6 +87,9 @@ export function GroundHuntForm({
   }
 
   const current = hunts.find((h) => h.hunt === hunt.trim());
+  const waiting = pendingFor(outbox.items, huntStepsUrl(siteId, boardId)).filter(
+    (i) => i.state === "waiting" && (i.body as { hunt?: string } | undefined)?.hunt === hunt.trim(),
+  );
   return (
     <div className="space-y-3">
       <FormShell
@@ -148,6 +154,27 @@ export function GroundHuntForm({
         <WhenField error={errors.measuredAt} />
         <TextField label="Notes" name="notes" />
       </FormShell>
+      {waiting.length > 0 && (
+        <div
+          role="status"
+          className="rounded-md border-2 border-tide-300 bg-hull-850 p-3"
+          data-testid="reading-pending"
+        >
+          <p className="font-semibold text-tide-300">
+            {waiting.length === 1 ? "1 step" : `${waiting.length} steps`} of this hunt kept on this phone: no signal.
+            They are sent by themselves, in order, when the connection returns.
+          </p>
+          <ol className="mt-1 list-decimal pl-5 text-sm text-mist">
+            {waiting.map((i) => (
+              <li key={i.id}>{i.label.replace(/^Ground-hunt step, [^:]*: /, "")}</li>
+            ))}
+          </ol>
+          <p className="mt-1 text-sm text-mist">
+            What the hunt points at shows once the server has these steps. Keep the board&apos;s qualified person told
+            in person meanwhile.
+          </p>
+        </div>
+      )}
       {current ? (
         <GroundHuntLog hunt={current} live={justSaved} />
       ) : (

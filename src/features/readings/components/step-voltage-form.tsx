@@ -3,7 +3,15 @@ import { SelectField, TextField } from "../../../components/field";
 import { CONDUCTORS, CONDUCTOR_LABELS, stepVoltageBody, type StepVoltageTest } from "../../../schemas/readings";
 import { useRecordStepTest } from "../api";
 import { fieldErrors, numOrNull, sig, toIso } from "../format";
-import { ComponentSelect, FormShell, NumberField, WhenField, saveErrors, type TargetOption } from "./form-bits";
+import {
+  ComponentSelect,
+  FormShell,
+  KeptOnPhone,
+  NumberField,
+  WhenField,
+  saveErrors,
+  type TargetOption,
+} from "./form-bits";
 import { JudgedResult } from "./judged-result";
 import { LiveWorkCaution } from "./live-work-caution";
 
@@ -31,6 +39,7 @@ export function StepVoltageForm({
   const [errors, setErrors] = useState<Record<string, string>>({});
   const [message, setMessage] = useState<string | null>(null);
   const [saved, setSaved] = useState<StepVoltageTest | null>(null);
+  const [queued, setQueued] = useState(false);
 
   function submit(e: FormEvent<HTMLFormElement>) {
     e.preventDefault();
@@ -58,14 +67,21 @@ export function StepVoltageForm({
       return;
     }
     setErrors({});
-    save.mutate(parsed.data, {
-      onSuccess: (t) => setSaved(t),
-      onError: (err) => {
-        const s = saveErrors(err);
-        setErrors(s.fields);
-        setMessage(s.message);
+    const named = options.find((o) => o.componentId === parsed.data.componentId)?.designation ?? parsed.data.circuit;
+    save.mutate(
+      { ...parsed.data, label: `${named || "a circuit"} ${parsed.data.conductors}` },
+      {
+        onSuccess: (r) => {
+          setQueued(r.queued);
+          setSaved(r.queued ? null : r.data);
+        },
+        onError: (err) => {
+          const s = saveErrors(err);
+          setErrors(s.fields);
+          setMessage(s.message);
+        },
       },
-    });
+    );
   }
 
   return (
@@ -147,6 +163,7 @@ export function StepVoltageForm({
         <WhenField error={errors.measuredAt} />
         <TextField label="Notes" name="notes" className="sm:col-span-2" />
       </FormShell>
+      {queued && <KeptOnPhone what="Step-voltage test" />}
       {saved && (
         <JudgedResult
           live

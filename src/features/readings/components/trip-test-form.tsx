@@ -5,7 +5,15 @@ import { TRIP_TEST_LABELS, TRIP_TESTS, tripTestBody, type TripTest } from "../..
 import { useRecordTripTest } from "../api";
 import { fieldErrors, numOrNull, toIso } from "../format";
 import { ChoiceChips } from "./choice-chips";
-import { ComponentSelect, FormShell, NumberField, WhenField, saveErrors, type TargetOption } from "./form-bits";
+import {
+  ComponentSelect,
+  FormShell,
+  KeptOnPhone,
+  NumberField,
+  WhenField,
+  saveErrors,
+  type TargetOption,
+} from "./form-bits";
 import { JudgedResult } from "./judged-result";
 import { LiveWorkCaution } from "./live-work-caution";
 
@@ -36,6 +44,7 @@ export function TripTestForm({
   const [errors, setErrors] = useState<Record<string, string>>({});
   const [message, setMessage] = useState<string | null>(null);
   const [saved, setSaved] = useState<TripTest | null>(null);
+  const [queued, setQueued] = useState(false);
 
   function submit(e: FormEvent<HTMLFormElement>) {
     e.preventDefault();
@@ -74,10 +83,14 @@ export function TripTestForm({
       return;
     }
     setErrors({});
+    const breaker = options.find((o) => o.componentId === componentId);
     save.mutate(
-      { componentId, ...parsed.data },
+      { componentId, label: breaker?.designation ?? "a breaker", ...parsed.data },
       {
-        onSuccess: (t) => setSaved(t),
+        onSuccess: (r) => {
+          setQueued(r.queued);
+          setSaved(r.queued ? null : r.data);
+        },
         onError: (err) => {
           const s = saveErrors(err);
           setErrors(s.fields);
@@ -206,6 +219,7 @@ export function TripTestForm({
         <WhenField error={errors.measuredAt} />
         <TextField label="Notes" name="notes" className="sm:col-span-2" />
       </FormShell>
+      {queued && <KeptOnPhone what="Trip test" />}
       {saved && (
         <JudgedResult
           live
