@@ -123,7 +123,11 @@ if (import.meta.url === `file://${process.argv[1]}`) {
   }
   const db = createDb(process.env.DATABASE_URL, Number(process.env.DATABASE_POOL_MAX ?? 10));
   const port = Number(process.env.PORT ?? 3000);
-  const running = await serve({ db, port, clientDir: join(import.meta.dirname, "..", "dist", "client") });
+  const running = await serve({
+    db,
+    port,
+    clientDir: process.env.CLIENT_DIR ?? join(import.meta.dirname, "..", "dist", "client"),
+  });
   log.info({ port, worker: running.jobs.working }, `Tideline listening on http://127.0.0.1:${port}`);
   stopOnSignals(running, () => db.destroy());
 }

@@ -1,6 +1,7 @@
 /**
  * `npm run bench`, the fleet case (issue 18): requests per second and p95 of the defect register
- * (first ranked page) and of a photo upload (one 640 × 480 JPEG), with ONE web instance against
+ * (first ranked page), of a realistic read mix (register, overview, board list, one board, wanted list,
+ * session, in turn) and of a photo upload (one 640 × 480 JPEG), with ONE web instance against
  * TWO, on this machine. Both instances are real processes (`node --import tsx server/index.ts`) on
  * one scratch database of the test cluster and one photo folder; A runs the worker (renditions),
  * B is web-only. "One instance" sends every request to A; "two" alternates A and B, as a load
@@ -147,7 +148,23 @@ export async function benchFleet() {
       .jpeg({ quality: 85 })
       .toBuffer();
     const upload = multipart(jpeg, position.id);
+    // What a crew's browsers ask for in a working day, in turn: the register (default, filtered,
+    // searched), the overview, the board list, one board, the wanted list, the session check.
+    const s = `/api/sites/${site.siteId}`;
+    const mix = [
+      `${s}/defects?sort=priority&size=25`,
+      `${s}/overview`,
+      `${s}/boards`,
+      `${s}/boards/${site.largestBoard.id}`,
+      `${s}/parts`,
+      `${s}/defects?status=raised&status=scheduled&severity=disabling`,
+      `/api/session`,
+      `${s}/defects?q=verdigris`,
+    ];
+    let turn = 0;
     const cases = {
+      "read mix (8 list/summary GETs in turn)": (base: string) =>
+        send(`${base}${mix[turn++ % mix.length]}`, cookie, "GET"),
       "register, first ranked page": (base: string) =>
         send(`${base}/api/sites/${site.siteId}/defects?sort=priority&size=25`, cookie, "GET"),
       "photo upload (640 × 480 JPEG)": (base: string) =>

@@ -47,6 +47,7 @@ import { capturingDb, planReplay, replay, type Replay } from "../bench/replay";
 import { BENCH_PASSWORD, describeSite, generateSite, type BenchSite } from "../bench/site";
 import { median, percentile, spread, table } from "../bench/stats";
 import { buildClient } from "./prepare";
+import { benchBoard } from "./bench-board";
 import { benchFleet } from "./bench-fleet";
 import { benchReport } from "./bench-report";
 
@@ -240,6 +241,8 @@ async function main() {
   const raw = new pg.Pool({ connectionString: url, max: POOL });
   let server: Awaited<ReturnType<typeof startServer>> | undefined;
   let removeStatic = () => {};
+  let generated = false;
+  let failed = true;
   try {
     await migrateToLatest(setup);
     let site: BenchSite;
@@ -249,6 +252,7 @@ async function main() {
     } else {
       say(`\nGenerating a site of ${POSITIONS.toLocaleString("en")} positions on ${name}…`);
       site = await generateSite(setup, POSITIONS, say);
+      generated = true;
     }
     say(
       `seeded in ${(site.seedMs / 1000).toFixed(1)} s: ${Object.entries(site.counts)
@@ -267,14 +271,30 @@ async function main() {
     const app = createApp({ db: capture.db }).listen(0, "127.0.0.1");
     await new Promise((r) => app.once("listening", r));
     const capBase = `http://127.0.0.1:${(app.address() as AddressInfo).port}`;
+    app.requestTimeout = 0; // a slow endpoint on a very large site is measured, never cut off
+    app.headersTimeout = 0;
     const defects = site.counts.defects;
-    const list = cases(site, Math.max(1, Math.floor(defects / 25) - 5));
-    for (const c of list) {
-      await timedGet(capBase, c.path, cookie, capAgent); // warm (plans, caches)
-      capture.take();
-      c.bytes = (await timedGet(capBase, c.path, cookie, capAgent)).bytes;
-      c.plan = planReplay(capture.take());
+    const all = cases(site, Math.max(1, Math.floor(defects / 25) - 5));
+    const skipped: string[] = [];
+    for (const c of all) {
+      // A case that fails here (twice) is reported and left out; the others are still measured.
+      for (let attempt = 1; !c.plan; attempt++) {
+        try {
+          await timedGet(capBase, c.path, cookie, capAgent); // warm (plans, caches)
+          capture.take();
+          c.bytes = (await timedGet(capBase, c.path, cookie, capAgent)).bytes;
+          c.plan = planReplay(capture.take());
+        } catch (e) {
+          say(`  capture of "${c.label}" failed (attempt ${attempt}): ${(e as Error).message}`);
+          if (attempt >= 2) {
+            skipped.push(c.label);
+            break;
+          }
+        }
+      }
     }
+    const list = all.filter((c) => c.plan);
+    if (skipped.length) say(`  left out (capture failed): ${skipped.join(", ")}`);
     app.closeAllConnections();
     app.close();
     await capture.close();
@@ -286,15 +306,20 @@ async function main() {
       for (const c of list) {
         const http: number[] = [];
         const rawMs: number[] = [];
-        for (let i = 0; i < N + 2; i++) {
-          const h = await timedGet(base, c.path, cookie);
-          const a = performance.now();
-          await replay(raw, c.plan!);
-          const r = performance.now() - a;
-          if (i >= 2) {
-            http.push(h.ms);
-            rawMs.push(r);
+        try {
+          for (let i = 0; i < N + 2; i++) {
+            const h = await timedGet(base, c.path, cookie);
+            const a = performance.now();
+            await replay(raw, c.plan!);
+            const r = performance.now() - a;
+            if (i >= 2) {
+              http.push(h.ms);
+              rawMs.push(r);
+            }
           }
+        } catch (e) {
+          say(`  "${c.label}" failed in run ${run + 1}: ${(e as Error).message} (this run left out)`);
+          continue;
         }
         const f = perCase.get(c.label)!;
         f.http.push(median(http));
@@ -520,6 +545,7 @@ async function main() {
         ),
       );
     }
+    failed = false;
     say(
       "\n(endpoint = over HTTP from this process to the server process, signed in, whole body read; raw = the statements the endpoint issued, captured from an in-process copy of the app, replayed with pg; ratio = endpoint p50 / raw p50 of the same run)",
     );
@@ -529,6 +555,8 @@ async function main() {
     await raw.end();
     await setup.destroy();
     if (process.env.BENCH_KEEP || reuse) say(`kept ${name} (BENCH_KEEP / BENCH_DATABASE)`);
+    else if (failed && generated)
+      say(`kept ${name}: the run failed after generating; measure it again with BENCH_DATABASE=${name}`);
     else {
       const c = new pg.Client({ connectionString: local.adminUrl });
       await c.connect();
@@ -543,5 +571,7 @@ async function main() {
 await main();
 // The condition survey report's case (issue 17) runs on its own scratch database.
 if (process.env.BENCH_REPORT !== "0") await benchReport();
+// The board page's long tasks, windowed against drawn whole (issue 15): server/cli/bench-board.ts.
+if (process.env.BENCH_BOARD !== "0") await benchBoard();
 // One web instance against two (issue 18): server/cli/bench-fleet.ts; BENCH_FLEET=0 skips it.
 if (process.env.BENCH_FLEET !== "0") await benchFleet();

@@ -13,8 +13,10 @@ const ROW_REM = 6;
  * margin), through @tanstack/react-virtual: a board of 3,600 positions drew every tile in one
  * long task (6.5 s on the bench's phone profile for 341). Smaller boards draw whole, so every
  * tile stays findable with the browser's find-in-page. Printing always draws every tile.
+ * `npm run bench` builds a second copy with VITE_BOARD_WINDOW_FROM set past any board, to measure
+ * the board page drawn whole against windowed (server/cli/bench-board.ts); builds never set it.
  */
-export const WINDOW_FROM = 200;
+export const WINDOW_FROM = Number(import.meta.env.VITE_BOARD_WINDOW_FROM) || 200;
 const OVERSCAN = 2;
 
 /** The tile nearest in the arrow's direction, scored on centre distance (off-axis counts double). */

@@ -1,0 +1,198 @@
+/**
+ * `npm run bench`, the board page's long tasks (issue 15): one board of 500 positions drawn
+ * WINDOWED (the build as shipped: boards past WINDOW_FROM = 200 draw only the tiles on screen,
+ * @tanstack/react-virtual) against WHOLE (the same sources built a second time with
+ * VITE_BOARD_WINDOW_FROM past any board, i.e. before windowing). Each load is a cold context on the
+ * phone profile of server/bench/paint.ts (360 × 740, 2 × density, touch) with the CPU slowed 4 ×
+ * through the DevTools protocol (Emulation.setCPUThrottlingRate); a PerformanceObserver registered
+ * before any script records every 'longtask' entry from navigation until the tiles are on the page
+ * and a quiet 1.5 s has passed. Figures: the sum of long-task time, the longest task, the blocking
+ * time (sum of each task's time past 50 ms), and the tiles in the DOM; median [min–max] over
+ * BENCH_BOARD_LOADS loads of each (default 5), the two builds loaded in turn.
+ * BENCH_BOARD=0 skips it; `npx tsx server/cli/bench-board.ts` runs it alone.
+ */
+import { spawn, spawnSync, type ChildProcess } from "node:child_process";
+import { randomBytes } from "node:crypto";
+import { createServer } from "node:net";
+import { join } from "node:path";
+import { openLocalDatabase } from "../../db/local";
+import { migrateToLatest } from "../../db/migrate";
+import { ensureDatabase, projectRoot } from "../../db/pg";
+import { openBrowser } from "../bench/paint";
+import { BENCH_PASSWORD, generateSite } from "../bench/site";
+import { median, spread, table } from "../bench/stats";
+import { createDb, MAINTENANCE_DB_OPTIONS } from "../db";
+import { buildClient } from "./prepare";
+
+const LOADS = Number(process.env.BENCH_BOARD_LOADS ?? 5);
+const POSITIONS = 500;
+
+const freePort = () =>
+  new Promise<number>((resolve) => {
+    const s = createServer().listen(0, "127.0.0.1", () => {
+      const p = (s.address() as { port: number }).port;
+      s.close(() => resolve(p));
+    });
+  });
+
+async function startServer(env: Record<string, string>) {
+  const port = await freePort();
+  const child: ChildProcess = spawn(process.execPath, ["--import", "tsx", "server/index.ts"], {
+    cwd: projectRoot,
+    env: {
+      ...process.env,
+      ...env,
+      PORT: String(port),
+      NODE_ENV: "production",
+      LOG_LEVEL: "warn",
+      TIDELINE_WORKER: "off",
+      SMTP_PORT: String(await freePort()),
+    },
+    stdio: ["ignore", "ignore", "pipe"],
+  });
+  let err = "";
+  child.stderr!.on("data", (d) => (err = (err + d).slice(-5000)));
+  const base = `http://127.0.0.1:${port}`;
+  for (let i = 0; ; i++) {
+    if (child.exitCode !== null) throw new Error(`the server exited: ${err}`);
+    if (
+      await fetch(`${base}/api/health`).then(
+        (r) => r.ok,
+        () => false,
+      )
+    )
+      break;
+    if (i > 600) throw new Error(`the server never answered: ${err}`);
+    await new Promise((r) => setTimeout(r, 200));
+  }
+  return { base, child };
+}
+
+const OBSERVE = `
+  window.__long = { total: 0, longest: 0, blocking: 0, count: 0 };
+  new PerformanceObserver((l) => { for (const e of l.getEntries()) {
+    window.__long.total += e.duration; window.__long.count++;
+    window.__long.longest = Math.max(window.__long.longest, e.duration);
+    window.__long.blocking += Math.max(0, e.duration - 50);
+  } }).observe({ type: "longtask", buffered: true });
+`;
+
+interface Load {
+  total: number;
+  longest: number;
+  blocking: number;
+  count: number;
+  tiles: number;
+}
+
+async function loadBoard(browser: Awaited<ReturnType<typeof openBrowser>>, base: string, path: string, cookie: string) {
+  const context = await browser.newContext({
+    viewport: { width: 360, height: 740 },
+    deviceScaleFactor: 2,
+    isMobile: true,
+    hasTouch: true,
+  });
+  try {
+    const [name, value] = cookie.split("=");
+    await context.addCookies([{ name, value, url: base }]);
+    const page = await context.newPage();
+    const cdp = await context.newCDPSession(page);
+    await cdp.send("Emulation.setCPUThrottlingRate", { rate: 4 });
+    await page.addInitScript(OBSERVE);
+    await page.goto(`${base}${path}`, { waitUntil: "load", timeout: 180_000 });
+    await page.locator("[data-position-id]").first().waitFor({ timeout: 180_000 });
+    await page.waitForTimeout(1500);
+    const m = (await page.evaluate("window.__long")) as Omit<Load, "tiles">;
+    const tiles = await page.locator("[data-position-id]").count();
+    return { ...m, tiles };
+  } finally {
+    await context.close();
+  }
+}
+
+export async function benchBoard() {
+  console.log(
+    `\n── board page long tasks: ${POSITIONS} positions, windowed (as built) vs drawn whole (before windowing); ${LOADS} loads each`,
+  );
+  const local = await openLocalDatabase("test", "postgres");
+  const name = `tideline_bench_board_${randomBytes(4).toString("hex")}`;
+  await ensureDatabase(local.adminUrl, name, { fresh: true });
+  const url = local.adminUrl.replace(/\/postgres$/, `/${name}`);
+  const setup = createDb(url, MAINTENANCE_DB_OPTIONS);
+  const servers: ChildProcess[] = [];
+  try {
+    await migrateToLatest(setup);
+    const site = await generateSite(setup, POSITIONS, () => {}, { boards: 1 });
+    const windowedDir = buildClient();
+    const wholeDir = join(projectRoot, "dist", "client-board-whole");
+    const built = spawnSync(
+      join(projectRoot, "node_modules", ".bin", "vite"),
+      ["build", "--logLevel", "warn", "--outDir", wholeDir, "--emptyOutDir"],
+      { cwd: projectRoot, stdio: "inherit", env: { ...process.env, VITE_BOARD_WINDOW_FROM: "1000000" } },
+    );
+    if (built.status !== 0) throw new Error("the second vite build failed");
+    const windowed = await startServer({ DATABASE_URL: url, CLIENT_DIR: windowedDir });
+    const whole = await startServer({ DATABASE_URL: url, CLIENT_DIR: wholeDir });
+    servers.push(windowed.child, whole.child);
+    const signIn = await fetch(`${windowed.base}/api/auth/sign-in`, {
+      method: "POST",
+      headers: { "content-type": "application/json", origin: windowed.base },
+      body: JSON.stringify({ email: site.curatorEmail, password: BENCH_PASSWORD }),
+    });
+    const cookie = (signIn.headers.getSetCookie()[0] ?? "").split(";")[0];
+    const path = `/sites/${site.siteId}/boards/${site.largestBoard.id}`;
+    const browser = await openBrowser();
+    const got = { windowed: [] as Load[], whole: [] as Load[] };
+    try {
+      await loadBoard(browser, windowed.base, path, cookie); // warm the server and the database
+      for (let i = 0; i < LOADS; i++) {
+        got.windowed.push(await loadBoard(browser, windowed.base, path, cookie));
+        got.whole.push(await loadBoard(browser, whole.base, path, cookie));
+      }
+    } finally {
+      await browser.close();
+    }
+    const row = (label: string, xs: Load[]) => [
+      label,
+      spread(
+        xs.map((x) => x.total),
+        0,
+      ),
+      spread(
+        xs.map((x) => x.longest),
+        0,
+      ),
+      spread(
+        xs.map((x) => x.blocking),
+        0,
+      ),
+      spread(
+        xs.map((x) => x.count),
+        0,
+      ),
+      spread(
+        xs.map((x) => x.tiles),
+        0,
+      ),
+    ];
+    console.log(
+      table(
+        ["board page (phone, CPU 4 × slower)", "long tasks ms", "longest ms", "blocking ms", "tasks", "tiles in DOM"],
+        [row("drawn whole (before)", got.whole), row("windowed (as built)", got.windowed)],
+      ),
+    );
+    const ratio = median(got.whole.map((x) => x.total)) / Math.max(1, median(got.windowed.map((x) => x.total)));
+    console.log(`(long-task time, whole ÷ windowed: ${ratio.toFixed(2)}; median [min–max] over ${LOADS} loads)`);
+  } finally {
+    for (const c of servers) c.kill("SIGTERM");
+    await Promise.all(servers.map((c) => new Promise((r) => (c.exitCode !== null ? r(null) : c.once("exit", r)))));
+    await setup.destroy();
+    const admin = createDb(local.adminUrl, MAINTENANCE_DB_OPTIONS);
+    const { sql } = await import("kysely");
+    await sql`DROP DATABASE IF EXISTS ${sql.id(name)} WITH (FORCE)`.execute(admin);
+    await admin.destroy();
+    local.stop();
+  }
+}
+
+if (import.meta.url === `file://${process.argv[1]}`) await benchBoard();
