@@ -239,6 +239,20 @@ export class Jobs {
     await this.boss.unschedule(name);
   }
 
+  /**
+   * Which of `values` still have a job of `name` waiting or running whose payload's `key` holds it:
+   * a record whose job is gone (its last attempt failed by expiry after a crash) is not among them.
+   */
+  async liveFor(name: string, key: string, values: string[]): Promise<Set<string>> {
+    if (!values.length) return new Set();
+    const { rows } = await executor(this.config.db).executeSql(
+      `select distinct data->>$2 as v from pgboss.job
+        where name = $1 and state in ('created', 'retry', 'active') and data->>$2 = any($3)`,
+      [name, key, values],
+    );
+    return new Set(rows.map((r) => r.v as string));
+  }
+
   /** Jobs waiting or running, per queue, and the failures seen by this process. */
   async stats() {
     const queues: Record<string, { waiting: number; active: number; failed: number }> = {};

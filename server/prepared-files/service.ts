@@ -445,6 +445,47 @@ export async function purgeExpired(deps: Pick<PreparedDeps, "db" | "photoStorage
   return { removed };
 }
 
+/** A file is left waiting or in the making this long after its last start before its job is looked for. */
+const ORPHAN_GRACE_MS = 5 * 60_000;
+
+/**
+ * Files whose job is gone while they still say "queued" or "being made": the worker of their last
+ * attempt died and the queue failed that attempt by expiry, so no handler wrote "failed". They are
+ * failed here (part of the scheduled clean-up), with a notice, so nobody waits on them for ever.
+ */
+export async function failOrphaned(deps: Pick<PreparedDeps, "db" | "jobs">, now = new Date()) {
+  const waiting = await deps.db
+    .selectFrom("preparedFiles")
+    .select(["id", "attempts"])
+    .where("state", "in", ["queued", "rendering"])
+    .where(sql<Date>`coalesce(started_at, created_at)`, "<", new Date(now.getTime() - ORPHAN_GRACE_MS))
+    .limit(500)
+    .execute();
+  if (!waiting.length) return { failed: 0 };
+  const live = await deps.jobs.liveFor(
+    RENDER_JOB,
+    "fileId",
+    waiting.map((f) => f.id),
+  );
+  let failed = 0;
+  for (const f of waiting.filter((w) => !live.has(w.id))) {
+    const r = await deps.db
+      .updateTable("preparedFiles")
+      .set({
+        state: "failed",
+        error: "Its last attempt was cut off (the server making it stopped). Ask for it again.",
+        finishedAt: now,
+        seenAt: null,
+      })
+      .where("id", "=", f.id)
+      .where("attempts", "=", f.attempts)
+      .where("state", "in", ["queued", "rendering"])
+      .executeTakeFirst();
+    failed += Number(r.numUpdatedRows);
+  }
+  return { failed };
+}
+
 export function definePreparedFileJobs(jobs: Jobs, deps: Omit<PreparedDeps, "jobs">, env = process.env) {
   const full = { ...deps, jobs };
   jobs.define(RENDER_JOB, (data: { fileId: string }, ctx) => renderFile(full, data, ctx), {
@@ -463,6 +504,8 @@ export function definePreparedFileJobs(jobs: Jobs, deps: Omit<PreparedDeps, "job
     async (_data, ctx) => {
       const r = await purgeExpired(full);
       if (r.removed) ctx.log.info(r, "expired prepared files removed");
+      const o = await failOrphaned(full);
+      if (o.failed) ctx.log.warn(o, "prepared files whose job was gone marked failed");
     },
     { retryLimit: 1, retryDelay: 60 },
   );

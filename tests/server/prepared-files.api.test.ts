@@ -16,7 +16,7 @@ import { DEMO_PASSWORD } from "../../db/seed/people";
 import { startJobs } from "../../server/jobs/registry";
 import { memoryMailer } from "../../server/mail/mailer";
 import { storageFromEnv, StorageNotFound } from "../../server/photos/storage";
-import { purgeExpired } from "../../server/prepared-files/service";
+import { failOrphaned, purgeExpired, RENDER_JOB } from "../../server/prepared-files/service";
 import { createTestDb, type TestDb } from "../helpers/db";
 import { makeCrew } from "../helpers/fixtures";
 import { Client, startTestServer, type TestServer } from "../helpers/http";
@@ -307,5 +307,54 @@ describe("without a worker running (a web-only instance)", () => {
     const v = web.client();
     await v.signIn(crew.viewer.email);
     expect((await v.post(`/api/sites/${s}/prepared-files`, { kind: "survey_report" })).status).toBe(202);
+  });
+});
+
+describe("a file whose job is gone", () => {
+  it("is failed by the clean-up with a notice; one still queued, or started only just now, is left alone", async () => {
+    const me = await t.db
+      .selectFrom("users")
+      .select("id")
+      .where("email", "=", "viewer@tideline.test")
+      .executeTakeFirstOrThrow();
+    const ago = (min: number) => new Date(Date.now() - min * 60_000);
+    const row = (state: "queued" | "rendering", startedAt: Date | null, createdAt: Date) =>
+      t.db
+        .insertInto("preparedFiles")
+        .values({
+          siteId,
+          requestedBy: me.id,
+          kind: "defects_csv",
+          params: JSON.stringify({}),
+          fileName: "defects-csv.csv",
+          contentType: "text/csv",
+          state,
+          startedAt,
+          createdAt,
+          attempts: state === "rendering" ? 2 : 0,
+        })
+        .returning("id")
+        .executeTakeFirstOrThrow();
+    const cutOff = await row("rendering", ago(20), ago(30)); // its worker died on the last attempt
+    const fresh = await row("rendering", ago(1), ago(2)); // within the grace: its job may not be visible yet
+    const waiting = await row("queued", null, ago(30)); // behind a long queue: its job is still there
+    await server.jobs.enqueue(RENDER_JOB, { fileId: waiting.id }, { startAfter: new Date(Date.now() + 3600_000) });
+
+    expect(await failOrphaned({ db: t.db, jobs: server.jobs })).toEqual({ failed: 1 });
+    const states = await t.db
+      .selectFrom("preparedFiles")
+      .select(["id", "state", "error", "seenAt"])
+      .where("id", "in", [cutOff.id, fresh.id, waiting.id])
+      .execute();
+    const by = Object.fromEntries(states.map((r) => [r.id, r]));
+    expect(by[cutOff.id]).toMatchObject({ state: "failed", seenAt: null });
+    expect(by[cutOff.id].error).toMatch(/cut off/);
+    expect(by[fresh.id].state).toBe("rendering");
+    expect(by[waiting.id].state).toBe("queued");
+    // The person sees it among their notices, as any failed file.
+    const notices = await viewer.get("/api/prepared-files/notices");
+    expect(JSON.stringify(notices.body)).toContain(cutOff.id);
+    // Run again: nothing more to do.
+    expect(await failOrphaned({ db: t.db, jobs: server.jobs })).toEqual({ failed: 0 });
   });
 });
