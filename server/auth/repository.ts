@@ -8,15 +8,6 @@ export const findUserByEmail = (db: Db, email: string) =>
     .where(sql`lower(email)`, "=", email.toLowerCase())
     .executeTakeFirst();
 
-export const listMemberships = (db: Db, userId: string) =>
-  db
-    .selectFrom("memberships")
-    .innerJoin("sites", "sites.id", "memberships.siteId")
-    .select(["memberships.siteId", "sites.name as siteName", "memberships.role"])
-    .where("memberships.userId", "=", userId)
-    .orderBy("sites.name")
-    .execute();
-
 export async function insertUser(
   db: Db,
   u: { email: string; name: string; passwordHash: string | null; isAdmin: boolean },

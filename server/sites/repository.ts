@@ -20,6 +20,15 @@ export const listSitesForUser = (db: Db, userId: string) =>
     .orderBy("sites.name")
     .execute();
 
+export const listMembershipsOfUser = (db: Db, userId: string) =>
+  db
+    .selectFrom("memberships")
+    .innerJoin("sites", "sites.id", "memberships.siteId")
+    .select(["memberships.siteId", "sites.name as siteName", "memberships.role"])
+    .where("memberships.userId", "=", userId)
+    .orderBy("sites.name")
+    .execute();
+
 export const listAllSites = (db: Db) => db.selectFrom("sites").select(siteCols).orderBy("sites.name").execute();
 
 export const findSite = (db: Db, siteId: string) =>

@@ -10,7 +10,7 @@ import {
 import type { Db } from "../db";
 import { notFound } from "../errors";
 import { requireAdmin, requireSiteRole, requireUser } from "../middleware/roles";
-import * as repo from "./repository";
+import * as reads from "./reads";
 import * as service from "./service";
 
 const memberParams = z.object({ siteId: z.uuid(), userId: z.uuid() });
@@ -19,13 +19,7 @@ export function siteRoutes(db: Db) {
   const r = Router();
 
   r.get("/sites", requireUser, async (_req, res) => {
-    const user = res.locals.user!;
-    if (user.isAdmin) {
-      const mine = new Map((await repo.listSitesForUser(db, user.id)).map((s) => [s.id, s.role]));
-      const all = await repo.listAllSites(db);
-      return res.json({ sites: all.map((s) => ({ ...s, role: mine.get(s.id) ?? "admin" })) });
-    }
-    res.json({ sites: await repo.listSitesForUser(db, user.id) });
+    res.json({ sites: await reads.sitesFor(db, res.locals.user!) });
   });
 
   r.post("/sites", requireAdmin, async (req, res) => {
@@ -34,7 +28,7 @@ export function siteRoutes(db: Db) {
   });
 
   r.get("/sites/:siteId", requireSiteRole(db), async (req, res) => {
-    const site = await repo.findSite(db, req.params.siteId as string);
+    const site = await reads.findSite(db, req.params.siteId as string);
     if (!site) throw notFound("That site");
     res.json({ site: { ...site, role: res.locals.siteRole } });
   });
@@ -54,7 +48,7 @@ export function siteRoutes(db: Db) {
   });
 
   r.get("/sites/:siteId/members", requireSiteRole(db, "members.manage"), async (req, res) => {
-    res.json({ members: await repo.listMembers(db, req.params.siteId as string) });
+    res.json({ members: await reads.listMembers(db, req.params.siteId as string) });
   });
 
   // No "add a member" here: people join a site only by accepting an invitation (/invitations).
@@ -62,13 +56,13 @@ export function siteRoutes(db: Db) {
   r.patch("/sites/:siteId/members/:userId", requireSiteRole(db, "members.manage"), async (req, res) => {
     const { siteId, userId } = memberParams.parse(req.params);
     await service.changeRole(db, siteId, userId, changeRoleBody.parse(req.body).role, res.locals.user!.id);
-    res.json({ members: await repo.listMembers(db, siteId) });
+    res.json({ members: await reads.listMembers(db, siteId) });
   });
 
   r.delete("/sites/:siteId/members/:userId", requireSiteRole(db, "members.manage"), async (req, res) => {
     const { siteId, userId } = memberParams.parse(req.params);
     await service.removeMember(db, siteId, userId, res.locals.user!.id);
-    res.json({ members: await repo.listMembers(db, siteId) });
+    res.json({ members: await reads.listMembers(db, siteId) });
   });
 
   r.post("/admin/users", requireAdmin, async (req, res) => {

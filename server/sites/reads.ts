@@ -1,0 +1,34 @@
+import type { SiteRole } from "../../src/domain/permissions";
+import type { Db } from "../db";
+import * as repo from "./repository";
+
+/** The reads of the sites domain: what the routes and the role guard ask of sites and memberships. */
+
+/** The sites a person sees with their role on each; an instance admin sees every site ("admin" where not a member). */
+export async function sitesFor(db: Db, user: { id: string; isAdmin: boolean }) {
+  const mine = await repo.listSitesForUser(db, user.id);
+  if (!user.isAdmin) return mine;
+  const roles = new Map(mine.map((s) => [s.id, s.role]));
+  const all = await repo.listAllSites(db);
+  return all.map((s) => ({ ...s, role: roles.get(s.id) ?? ("admin" as const) }));
+}
+
+export const findSite = (db: Db, siteId: string) => repo.findSite(db, siteId);
+
+/** A person's memberships (site id and name, role), by site name: the session's answer and whose e-mails they get. */
+export const membershipsOf = (db: Db, userId: string) => repo.listMembershipsOfUser(db, userId);
+
+export const listMembers = (db: Db, siteId: string) => repo.listMembers(db, siteId);
+
+/**
+ * A person's standing on a site, as the route guard needs it: their member role, "admin" for an
+ * instance admin (on any site that exists), or null when the site is unknown to them.
+ */
+export async function standingOn(
+  db: Db,
+  siteId: string,
+  user: { id: string; isAdmin: boolean },
+): Promise<SiteRole | null> {
+  if (user.isAdmin) return (await repo.findSite(db, siteId)) ? "admin" : null;
+  return (await repo.findMembership(db, siteId, user.id))?.role ?? null;
+}
