@@ -113,3 +113,20 @@ export async function repairPlan(db: Db, siteId: string) {
       })),
   };
 }
+
+/** What the defect form offers on this site: its boards, sections and crew. */
+export async function formOptions(db: Db, siteId: string) {
+  const [boards, sections, crew] = await Promise.all([
+    repo.listBoards(db, siteId),
+    repo.listSections(db, siteId),
+    repo.listCrew(db, siteId),
+  ]);
+  return { boards, sections, crew };
+}
+
+/** The positions of one board a defect may be raised against. */
+export const positionsOf = (db: Db, siteId: string, boardId: string) => repo.listPositions(db, siteId, boardId);
+
+/** Where a finding sits (board, position, component, inspection), to prefill a new defect. */
+export const findingContext = (db: Db, siteId: string, q: Parameters<typeof repo.findingContext>[2]) =>
+  repo.findingContext(db, siteId, q);

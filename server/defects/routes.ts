@@ -22,9 +22,8 @@ import { requireSiteRole } from "../middleware/roles";
 import { streamCsv } from "./csv";
 import { listPage } from "./list-query";
 import { pin, unpin } from "./pins";
-import { detail, repairPlan, toJson } from "./reads";
+import { detail, findingContext, formOptions, positionsOf, repairPlan, toJson } from "./reads";
 import { defectsOfBoardReadings, evidenceOf } from "./evidence";
-import * as repo from "./repository";
 import * as service from "./service";
 import * as views from "./views";
 import { siteTimeZone } from "../sites/service";
@@ -63,24 +62,19 @@ export function defectRoutes(db: Db, mail?: MailDeps) {
 
   r.get(`${base}/options`, member, async (req, res) => {
     const { siteId } = ctxOf(req, res);
-    const [boards, sections, crew] = await Promise.all([
-      repo.listBoards(db, siteId),
-      repo.listSections(db, siteId),
-      repo.listCrew(db, siteId),
-    ]);
-    res.json({ boards, sections, crew });
+    res.json(await formOptions(db, siteId));
   });
 
   r.get("/sites/:siteId/defect-positions/:boardId", member, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);
-    res.json({ positions: await repo.listPositions(db, siteId, boardId) });
+    res.json({ positions: await positionsOf(db, siteId, boardId) });
   });
 
   r.get("/sites/:siteId/defect-context", member, async (req, res) => {
     const q = z
       .object({ positionId: z.uuid().optional(), componentId: z.uuid().optional(), inspectionId: z.uuid().optional() })
       .parse(req.query);
-    res.json({ context: await repo.findingContext(db, ctxOf(req, res).siteId, q) });
+    res.json({ context: await findingContext(db, ctxOf(req, res).siteId, q) });
   });
 
   r.get("/sites/:siteId/repair-plan", member, async (req, res) => {

@@ -14,12 +14,12 @@ import {
 import type { Role } from "../../src/domain/vocab";
 import { can } from "../../src/domain/permissions";
 import type { Db } from "../db";
-import { AppError, forbidden, notFound } from "../errors";
+import { AppError, forbidden } from "../errors";
 import { idempotent } from "../idempotency/middleware";
 import { requireSiteRole } from "../middleware/roles";
-import * as repo from "./repository";
+import * as reads from "./reads";
 import * as service from "./service";
-import { StorageNotFound, type PhotoStorage } from "./storage";
+import type { PhotoStorage } from "./storage";
 import { receiveFiles, removeTemporary } from "./upload";
 import type { Jobs } from "../jobs";
 
@@ -45,9 +45,9 @@ export function photoRoutes(db: Db, storage: PhotoStorage, jobs: Jobs) {
         if (!files.length) throw new AppError(400, "no_files", 'Attach at least one picture in the "files" field.');
         const fields = uploadFields.parse(req.body ?? {});
         const ids = await service.uploadPhotos(db, storage, jobs, siteId, actor(res), files, fields);
-        const photos = await repo.listPhotos(db, siteId, { ids, limit: ids.length, offset: 0 });
+        const photos = await reads.listPhotos(db, siteId, { ids, limit: ids.length, offset: 0 });
         // 201 with each photo 'processing': its display copy and thumbnail follow from the job queue.
-        res.status(201).json({ photos: photos.map(service.toPhoto) });
+        res.status(201).json({ photos });
       } finally {
         await removeTemporary(files);
       }
@@ -58,12 +58,11 @@ export function photoRoutes(db: Db, storage: PhotoStorage, jobs: Jobs) {
     const { siteId } = siteOnly.parse(req.params);
     const q = photoListQuery.parse(req.query);
     const ids = q.ids ? z.array(z.uuid()).max(500).parse(q.ids.split(",").filter(Boolean)) : undefined;
-    const rows = await repo.listPhotos(db, siteId, { ...q, ids, unassigned: !!q.unassigned });
-    res.json({ photos: rows.map(service.toPhoto) });
+    res.json({ photos: await reads.listPhotos(db, siteId, { ...q, ids, unassigned: !!q.unassigned }) });
   });
 
   r.get("/sites/:siteId/photo-targets", requireSiteRole(db), async (req, res) => {
-    res.json({ targets: await repo.listTargets(db, siteOnly.parse(req.params).siteId) });
+    res.json({ targets: await reads.targetsOf(db, siteOnly.parse(req.params).siteId) });
   });
 
   r.get("/sites/:siteId/photo-settings", requireSiteRole(db), async (req, res) => {
@@ -87,9 +86,7 @@ export function photoRoutes(db: Db, storage: PhotoStorage, jobs: Jobs) {
 
   r.get("/sites/:siteId/photos/:photoId", requireSiteRole(db), async (req, res) => {
     const { siteId, photoId } = photoParams.parse(req.params);
-    const row = await repo.findPhoto(db, siteId, photoId);
-    if (!row || row.deletedAt) throw notFound("That photo");
-    res.json({ photo: service.toPhoto(row) });
+    res.json({ photo: await reads.photoOf(db, siteId, photoId) });
   });
 
   r.patch("/sites/:siteId/photos/:photoId", requireSiteRole(db, "photos.edit"), async (req, res) => {
@@ -110,34 +107,12 @@ export function photoRoutes(db: Db, storage: PhotoStorage, jobs: Jobs) {
       throw forbidden(
         "Originals keep the camera's location data; only the photographer and the curator download them.",
       );
-    const row = await repo.findPhoto(db, siteId, photoId);
-    if (!row || row.deletedAt) throw notFound("That photo");
-    if (rendition !== "original" && row.renditionState !== "ready")
-      throw new AppError(
-        409,
-        row.renditionState === "failed" ? "rendition_failed" : "processing",
-        row.renditionState === "failed"
-          ? `This photo could not be processed: ${row.renditionError ?? "unknown reason"}`
-          : "This photo is still being processed; its copies appear in a moment.",
-      );
-    const key = rendition === "original" ? row.originalKey : rendition === "display" ? row.displayKey : row.thumbKey;
-    let body;
-    try {
-      body = await storage.get(key);
-    } catch (e) {
-      if (e instanceof StorageNotFound)
-        throw new AppError(
-          404,
-          "file_missing",
-          "The picture's file is missing from storage; run the photo cleanup report.",
-        );
-      throw e;
-    }
+    const file = await reads.renditionOf(db, storage, siteId, photoId, rendition);
     res.setHeader("Cache-Control", "private, max-age=86400");
     res.setHeader("X-Content-Type-Options", "nosniff");
-    res.type(rendition === "original" ? mimeOf(row.format) : "image/jpeg");
-    if (rendition === "original") res.attachment(row.originalName || `photo.${row.format}`);
-    await pipeline(body, res);
+    res.type(rendition === "original" ? mimeOf(file.format) : "image/jpeg");
+    if (rendition === "original") res.attachment(file.originalName || `photo.${file.format}`);
+    await pipeline(file.body, res);
   });
 
   return r;
