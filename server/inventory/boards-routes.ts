@@ -15,11 +15,10 @@ import {
 } from "../../src/schemas/inventory";
 import type { Db } from "../db";
 import { requireSiteRole } from "../middleware/roles";
-import * as repo from "./boards-repository";
+import * as reads from "./boards-reads";
 import * as service from "./boards-service";
-import { actorOf, requireOwned } from "./common";
+import { actorOf } from "./common";
 import { overview } from "./overview";
-import { boardTiles, toTile } from "./positions-repository";
 
 const S = "/sites/:siteId";
 
@@ -33,7 +32,7 @@ export function boardRoutes(db: Db) {
   });
 
   r.get(`${S}/flood-events`, anyMember, async (req, res) => {
-    res.json(await repo.listFloodEvents(db, siteParams.parse(req.params).siteId));
+    res.json(await reads.floodEventsOf(db, siteParams.parse(req.params).siteId));
   });
   r.post(`${S}/flood-events`, curator, async (req, res) => {
     const { siteId } = siteParams.parse(req.params);
@@ -49,14 +48,7 @@ export function boardRoutes(db: Db) {
   });
 
   r.get(`${S}/boards`, anyMember, async (req, res) => {
-    const rows = await repo.listBoards(db, siteParams.parse(req.params).siteId);
-    res.json(
-      rows.map((b) => ({
-        ...b,
-        positionCount: Number(b.positionCount ?? 0),
-        surveyedCount: Number(b.surveyedCount ?? 0),
-      })),
-    );
+    res.json(await reads.boardsOf(db, siteParams.parse(req.params).siteId));
   });
   r.post(`${S}/boards`, curator, async (req, res) => {
     const { siteId } = siteParams.parse(req.params);
@@ -64,9 +56,7 @@ export function boardRoutes(db: Db) {
   });
   r.get(`${S}/boards/:boardId`, anyMember, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);
-    const board = await requireOwned(db, "boards", siteId, boardId, "That board");
-    const [sections, tiles] = await Promise.all([repo.listSections(db, boardId), boardTiles(db, boardId)]);
-    res.json({ board, sections, positions: tiles.map(toTile) });
+    res.json(await reads.boardOf(db, siteId, boardId));
   });
   r.patch(`${S}/boards/:boardId`, curator, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);

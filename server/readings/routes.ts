@@ -15,7 +15,6 @@ import {
 import type { Db } from "../db";
 import { idempotent } from "../idempotency/middleware";
 import { requireSiteRole } from "../middleware/roles";
-import * as repo from "./repository";
 import * as service from "./service";
 
 const boardParams = z.object({ siteId: z.uuid(), boardId: z.uuid({ message: "boardId must be a UUID" }) });
@@ -32,7 +31,7 @@ export function readingRoutes(db: Db) {
   const S = "/sites/:siteId";
 
   r.get(`${S}/readings/targets`, read, async (req, res) => {
-    res.json({ boards: await repo.listTargets(db, req.params.siteId as string) });
+    res.json({ boards: await service.readingTargets(db, req.params.siteId as string) });
   });
   r.get(`${S}/readings/criteria`, read, async (req, res) => {
     res.json({ criteria: await service.loadCriteria(db, req.params.siteId as string) });

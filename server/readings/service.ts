@@ -40,6 +40,9 @@ import * as repo from "./repository";
 const invalid = (field: string, message: string) => new AppError(400, "invalid_input", message, { [field]: message });
 
 /** The site's criteria, or the defaults (version 0) when the curator has set none. */
+/** The boards of the site with the positions and components a reading may be taken on. */
+export const readingTargets = (db: Db, siteId: string) => repo.listTargets(db, siteId);
+
 export async function loadCriteria(db: Db, siteId: string): Promise<Criteria & ReadingCriteria> {
   const row = await repo.getCriteria(db, siteId);
   if (!row) return { ...DEFAULT_CRITERIA, version: 0, updatedAt: null };

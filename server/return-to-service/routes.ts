@@ -22,7 +22,6 @@ import type { Db } from "../db";
 import { AppError } from "../errors";
 import { idempotent } from "../idempotency/middleware";
 import { requireSiteRole } from "../middleware/roles";
-import * as repo from "./repository";
 import * as service from "./service";
 import { boardView, loadSettings } from "./view";
 
@@ -51,9 +50,7 @@ export function rtsRoutes(db: Db) {
 
   const stageAnswer = async (req: Request, res: Response, status = 200) => {
     const { siteId, stageId } = stageP.parse(req.params);
-    const s = await repo.findStage(db, siteId, stageId);
-    if (!s) throw new AppError(404, "not_found", "That stage was not found.");
-    res.status(status).json({ stage: await service.stageView(db, siteId, s.boardId, stageId) });
+    res.status(status).json({ stage: await service.stageOf(db, siteId, stageId) });
   };
 
   r.get(base, requireSiteRole(db, "rts.read"), async (req, res) => {

@@ -91,6 +91,13 @@ export async function stageView(db: Db, siteId: string, boardId: string, stageId
   return v.stages.find((s) => s.id === stageId) ?? null;
 }
 
+/** A stage of the site as the board view shows it now; 404 when the site has no such stage. */
+export async function stageOf(db: Db, siteId: string, stageId: string, now = new Date()) {
+  const s = await repo.findStage(db, siteId, stageId);
+  if (!s) throw new AppError(404, "not_found", "That stage was not found.");
+  return stageView(db, siteId, s.boardId, stageId, now);
+}
+
 // ---------------- settings and qualified persons ----------------
 export async function saveSettings(db: Db, ctx: Ctx, body: z.infer<typeof settingsBody>) {
   must(ctx, "rts.plan", "Only the curator edits the hold-point template.");
