@@ -46,6 +46,13 @@ const boundaries = [
     from: CLIENT_IO,
     message: "Server code imports src/domain and src/schemas only, never client code.",
   },
+  // A server route only parses, checks the role, calls a service and answers: queries sit behind
+  // the domain's service or reads (DEVELOPERS.md "Where code lives"), never imported by a route.
+  {
+    target: ["./server/*/routes.ts", "./server/*/*-routes.ts"],
+    from: ["./server/**/repository.ts", "./server/**/*-repository.ts"],
+    message: "A route calls its domain's service (or reads.ts), never a repository.",
+  },
   // The client never reaches into the server or the database.
   {
     target: "./src",

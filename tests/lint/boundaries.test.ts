@@ -34,6 +34,17 @@ describe("import boundaries", () => {
     ["db imports a client component", "db/probe.ts", 'import { Button } from "../src/components/button";'],
     ["a page imports the server", "src/app/routes/probe.tsx", 'import { createDb } from "../../../server/db";'],
     ["client lib imports the database", "src/lib/probe.ts", 'import { migrateToLatest } from "../../db/migrate";'],
+    ["a route imports its repository", "server/defects/routes.ts", 'import { findRow } from "./repository";'],
+    [
+      "a route imports another domain's repository",
+      "server/sites/routes.ts",
+      'import { findUserById } from "../auth/repository";',
+    ],
+    [
+      "a route file imports a named repository",
+      "server/inventory/boards-routes.ts",
+      'import { listBoards } from "./boards-repository";',
+    ],
   ])("refuses: %s", async (_name, at, code) => {
     expect(await ruleIds(at, `${code}\nexport {};\n`)).toContain(BOUNDARY);
   });
@@ -53,6 +64,12 @@ describe("import boundaries", () => {
     ],
     ["src/domain imports src/schemas", "src/domain/probe.ts", 'import { text } from "../schemas/common";'],
     ["the server imports src/domain", "server/probe.ts", 'import { can } from "../src/domain/permissions";'],
+    [
+      "a route imports its service and reads",
+      "server/photos/routes.ts",
+      'import { toPhoto } from "./service";\nimport { photoOf } from "./reads";',
+    ],
+    ["a service imports its repository", "server/photos/service.ts", 'import { findPhoto } from "./repository";'],
     [
       "a feature imports shared UI and domain",
       "src/features/parts/probe.ts",
