@@ -44,7 +44,7 @@ const todayOf = (q: { today?: string }) => q.today ?? new Date().toISOString().s
 export function defectRoutes(db: Db, mail?: MailDeps) {
   const r = Router();
   const base = "/sites/:siteId/defects";
-  const member = requireSiteRole(db);
+  const member = requireSiteRole(db, "site.read");
   const raisers = requireSiteRole(db, "defects.raise");
   const curator = requireSiteRole(db, "defects.manage");
 

@@ -24,7 +24,7 @@ const S = "/sites/:siteId";
 
 export function boardRoutes(db: Db) {
   const r = Router();
-  const anyMember = requireSiteRole(db);
+  const anyMember = requireSiteRole(db, "site.read");
   const curator = requireSiteRole(db, "inventory.curate");
 
   r.get(`${S}/overview`, anyMember, async (req, res) => {

@@ -23,7 +23,7 @@ const csvBytes = express.raw({
 export function csvRoutes(db: Db) {
   const r = Router();
 
-  r.get("/sites/:siteId/inventory.csv", requireSiteRole(db), limitExports(db), async (req, res) => {
+  r.get("/sites/:siteId/inventory.csv", requireSiteRole(db, "site.read"), limitExports(db), async (req, res) => {
     const { siteId } = siteParams.parse(req.params);
     await exportInventoryCsv(db, siteId, res);
   });

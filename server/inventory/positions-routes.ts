@@ -21,7 +21,7 @@ const S = "/sites/:siteId";
 
 export function positionRoutes(db: Db) {
   const r = Router();
-  const anyMember = requireSiteRole(db);
+  const anyMember = requireSiteRole(db, "site.read");
   const curator = requireSiteRole(db, "inventory.curate");
 
   r.post(`${S}/boards/:boardId/positions/generate`, curator, async (req, res) => {

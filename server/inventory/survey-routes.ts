@@ -21,7 +21,7 @@ const C = "/sites/:siteId/components/:componentId";
 
 export function surveyRoutes(db: Db) {
   const r = Router();
-  const anyMember = requireSiteRole(db);
+  const anyMember = requireSiteRole(db, "site.read");
   const fieldCrew = requireSiteRole(db, "inventory.log");
   const curator = requireSiteRole(db, "inventory.curate");
 

@@ -46,11 +46,11 @@ export function partsRoutes(db: Db, storage: PhotoStorage, mail?: MailDeps) {
   const r = Router();
   const base = "/sites/:siteId/parts";
 
-  r.get(base, requireSiteRole(db), async (req, res) => {
+  r.get(base, requireSiteRole(db, "site.read"), async (req, res) => {
     res.json(await service.listParts(db, req.params.siteId as string, listQuery.parse(req.query)));
   });
 
-  r.get("/sites/:siteId/parts.csv", requireSiteRole(db), limitExports(db), async (req, res) => {
+  r.get("/sites/:siteId/parts.csv", requireSiteRole(db, "site.read"), limitExports(db), async (req, res) => {
     // Read 500 lines at a time into memory (a site has hundreds to a few thousand lines; the
     // connection is back in the pool before the first byte goes out), then written with the
     // export's back-pressure and write timeout.
@@ -91,7 +91,7 @@ export function partsRoutes(db: Db, storage: PhotoStorage, mail?: MailDeps) {
     res.json({ links: await share.listShareLinks(db, siteId) });
   });
 
-  r.get(`${base}/photos/:photoId/thumb`, requireSiteRole(db), async (req, res) => {
+  r.get(`${base}/photos/:photoId/thumb`, requireSiteRole(db, "site.read"), async (req, res) => {
     const { siteId, photoId } = photoParams.parse(req.params);
     await sendPhoto(res, await nameplateThumb(db, storage, siteId, photoId));
   });
@@ -102,7 +102,7 @@ export function partsRoutes(db: Db, storage: PhotoStorage, mail?: MailDeps) {
     res.json({ ok: true });
   });
 
-  r.get(`${base}/:lineId`, requireSiteRole(db), async (req, res) => {
+  r.get(`${base}/:lineId`, requireSiteRole(db, "site.read"), async (req, res) => {
     const { siteId, lineId } = lineParams.parse(req.params);
     res.json(await service.lineDetail(db, siteId, lineId));
   });

@@ -54,18 +54,18 @@ export function photoRoutes(db: Db, storage: PhotoStorage, jobs: Jobs) {
     },
   );
 
-  r.get("/sites/:siteId/photos", requireSiteRole(db), async (req, res) => {
+  r.get("/sites/:siteId/photos", requireSiteRole(db, "site.read"), async (req, res) => {
     const { siteId } = siteOnly.parse(req.params);
     const q = photoListQuery.parse(req.query);
     const ids = q.ids ? z.array(z.uuid()).max(500).parse(q.ids.split(",").filter(Boolean)) : undefined;
     res.json({ photos: await reads.listPhotos(db, siteId, { ...q, ids, unassigned: !!q.unassigned }) });
   });
 
-  r.get("/sites/:siteId/photo-targets", requireSiteRole(db), async (req, res) => {
+  r.get("/sites/:siteId/photo-targets", requireSiteRole(db, "site.read"), async (req, res) => {
     res.json({ targets: await reads.targetsOf(db, siteOnly.parse(req.params).siteId) });
   });
 
-  r.get("/sites/:siteId/photo-settings", requireSiteRole(db), async (req, res) => {
+  r.get("/sites/:siteId/photo-settings", requireSiteRole(db, "site.read"), async (req, res) => {
     res.json({ settings: await service.getSettings(db, siteOnly.parse(req.params).siteId) });
   });
 
@@ -74,7 +74,7 @@ export function photoRoutes(db: Db, storage: PhotoStorage, jobs: Jobs) {
     res.json({ settings: await service.saveSettings(db, siteId, actor(res), photoSettingsBody.parse(req.body)) });
   });
 
-  r.get("/sites/:siteId/boards/:boardId/shoot-list", requireSiteRole(db), async (req, res) => {
+  r.get("/sites/:siteId/boards/:boardId/shoot-list", requireSiteRole(db, "site.read"), async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);
     res.json(await service.shootList(db, siteId, boardId));
   });
@@ -84,7 +84,7 @@ export function photoRoutes(db: Db, storage: PhotoStorage, jobs: Jobs) {
     res.json({ photos: await service.bulkAssign(db, siteId, actor(res), bulkAssignBody.parse(req.body)) });
   });
 
-  r.get("/sites/:siteId/photos/:photoId", requireSiteRole(db), async (req, res) => {
+  r.get("/sites/:siteId/photos/:photoId", requireSiteRole(db, "site.read"), async (req, res) => {
     const { siteId, photoId } = photoParams.parse(req.params);
     res.json({ photo: await reads.photoOf(db, siteId, photoId) });
   });
@@ -100,7 +100,7 @@ export function photoRoutes(db: Db, storage: PhotoStorage, jobs: Jobs) {
     res.json({ ok: true });
   });
 
-  r.get("/sites/:siteId/photos/:photoId/:rendition", requireSiteRole(db), async (req, res) => {
+  r.get("/sites/:siteId/photos/:photoId/:rendition", requireSiteRole(db, "site.read"), async (req, res) => {
     const { siteId, photoId, rendition } = renditionParams.parse(req.params);
     // Originals keep the camera's EXIF, GPS included: only the people who shoot and curate get them.
     if (rendition === "original" && !can(res.locals.siteRole, "photos.original"))

@@ -27,7 +27,7 @@ const actorOf = (res: Response): service.Actor => ({ id: res.locals.user!.id, ro
 export function preparedFileRoutes(db: Db, storage: PhotoStorage, jobs: Jobs) {
   const r = Router();
   const base = "/sites/:siteId/prepared-files";
-  const member = requireSiteRole(db);
+  const member = requireSiteRole(db, "site.read");
 
   r.post(base, member, async (req, res) => {
     const { siteId } = preparedFileParams.pick({ siteId: true }).parse(req.params);

@@ -23,7 +23,7 @@ const insulationQuery = z.object({ componentId: z.uuid().optional(), circuit: te
 
 export function readingRoutes(db: Db) {
   const r = Router();
-  const read = requireSiteRole(db);
+  const read = requireSiteRole(db, "site.read");
   const record = requireSiteRole(db, "readings.record");
   const curate = requireSiteRole(db, "readings.criteria");
   const once = idempotent(db); // the phone's offline queue repeats creates with an Idempotency-Key

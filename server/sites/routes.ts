@@ -27,7 +27,7 @@ export function siteRoutes(db: Db) {
     res.status(201).json({ site: { ...site, role: "admin" } });
   });
 
-  r.get("/sites/:siteId", requireSiteRole(db), async (req, res) => {
+  r.get("/sites/:siteId", requireSiteRole(db, "site.read"), async (req, res) => {
     const site = await reads.findSite(db, req.params.siteId as string);
     if (!site) throw notFound("That site");
     res.json({ site: { ...site, role: res.locals.siteRole } });

@@ -90,5 +90,3 @@ export function can(role: SiteRole | null | undefined, action: Action): boolean 
 
 /** The members' roles that may do this (an instance admin always may). */
 export const rolesFor = (action: Action): Role[] => [...PERMISSIONS[action]];
-
-export const isAction = (x: string): x is Action => Object.hasOwn(PERMISSIONS, x);
