@@ -8,7 +8,7 @@ import type { Db } from "../db";
 import { AppError, conflict, forbidden, notFound } from "../errors";
 import { allowedTargets, canEdit, checkTransition, type Actor } from "../../src/domain/defect-workflow";
 import { can } from "../../src/domain/permissions";
-import { priorityScore } from "../../src/domain/priority";
+import { priorityScore, type PriorityInput } from "../../src/domain/priority";
 import type { DefectStatus } from "../../src/domain/vocab";
 import type { BulkBody, CreateDefectBody, PatchDefectBody } from "../../src/schemas/defects";
 import { evidenceOf, linkReading, repairEvidence, type ReadingKind } from "./evidence";
@@ -27,21 +27,24 @@ export interface DefectNotice {
 }
 type Locked = NonNullable<Awaited<ReturnType<typeof repo.lockDefect>>>;
 
+type Scored = Pick<Locked, "severity" | "safetyCritical" | "blocksEnergisation" | "effortHours" | "partsState">;
+
+/**
+ * The priority inputs of a stored defect: its own fields, with original fabric from its linked component's
+ * heritage (null when it has no component). effort_hours is numeric, so it arrives as a string.
+ */
+export const priorityInputOf = (d: Scored, heritage: string | null): PriorityInput => ({
+  severity: d.severity,
+  safetyCritical: d.safetyCritical,
+  blocksEnergisation: d.blocksEnergisation,
+  originalFabric: heritage === "original",
+  effortHours: d.effortHours === null ? null : Number(d.effortHours),
+  partsAvailable: d.partsState,
+});
+
 /** priority_score for the stored fields; original fabric comes from the linked component. */
-export async function scoreFor(
-  db: Db,
-  siteId: string,
-  d: Pick<Locked, "severity" | "safetyCritical" | "blocksEnergisation" | "effortHours" | "partsState" | "componentId">,
-) {
-  const heritage = await repo.componentHeritage(db, siteId, d.componentId);
-  return priorityScore({
-    severity: d.severity,
-    safetyCritical: d.safetyCritical,
-    blocksEnergisation: d.blocksEnergisation,
-    originalFabric: heritage === "original",
-    effortHours: d.effortHours === null ? null : Number(d.effortHours),
-    partsAvailable: d.partsState,
-  });
+export async function scoreFor(db: Db, siteId: string, d: Scored & Pick<Locked, "componentId">) {
+  return priorityScore(priorityInputOf(d, await repo.componentHeritage(db, siteId, d.componentId)));
 }
 
 /**
@@ -51,14 +54,7 @@ export async function scoreFor(
 export async function componentHeritageChanged(trx: Db, siteId: string, componentIds: string[]) {
   if (!componentIds.length) return;
   for (const d of await repo.defectsOfComponents(trx, siteId, componentIds)) {
-    const { score } = priorityScore({
-      severity: d.severity,
-      safetyCritical: d.safetyCritical,
-      blocksEnergisation: d.blocksEnergisation,
-      originalFabric: d.heritage === "original",
-      effortHours: d.effortHours === null ? null : Number(d.effortHours),
-      partsAvailable: d.partsState,
-    });
+    const { score } = priorityScore(priorityInputOf(d, d.heritage));
     if (score !== d.priorityScore) await repo.setPriorityScore(trx, d.id, score);
   }
 }
