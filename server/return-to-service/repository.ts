@@ -165,8 +165,17 @@ export const listStages = (db: Db, boardId: string) =>
     .orderBy("sortOrder")
     .orderBy("createdAt")
     .execute();
-export const listStagesOfSite = (db: Db, siteId: string) =>
-  db.selectFrom("rtsStages").selectAll().where("siteId", "=", siteId).orderBy("boardId").orderBy("sortOrder").execute();
+/** The boards of the site that have a return-to-service plan (at least one stage). */
+export const listPlannedBoardIds = async (db: Db, siteId: string) =>
+  (
+    await db
+      .selectFrom("rtsStages")
+      .select("boardId")
+      .distinct()
+      .where("siteId", "=", siteId)
+      .orderBy("boardId")
+      .execute()
+  ).map((r) => r.boardId);
 export const findStage = (db: Db, siteId: string, stageId: string) =>
   db.selectFrom("rtsStages").selectAll().where("siteId", "=", siteId).where("id", "=", stageId).executeTakeFirst();
 export const lockStage = (db: Db, siteId: string, stageId: string) =>

@@ -60,8 +60,7 @@ async function stageOrThrow(db: Db, ctx: Ctx, stageId: string, lock = false) {
  * at a time so that one overview does not take the whole pool.
  */
 export async function siteOverview(db: Db, siteId: string, now = new Date()): Promise<RtsOverviewBoard[]> {
-  const [boards, stages] = await Promise.all([repo.listBoards(db, siteId), repo.listStagesOfSite(db, siteId)]);
-  const planned = [...new Set(stages.map((s) => s.boardId))];
+  const [boards, planned] = await Promise.all([repo.listBoards(db, siteId), repo.listPlannedBoardIds(db, siteId)]);
   const views = new Map<string, Awaited<ReturnType<typeof boardView>>>();
   for (let i = 0; i < planned.length; i += 2)
     await Promise.all(planned.slice(i, i + 2).map(async (id) => views.set(id, await boardView(db, siteId, id, now))));
