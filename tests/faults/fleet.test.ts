@@ -146,33 +146,47 @@ beforeAll(async () => {
 
 /**
  * Waits for a started process, but says why when it does not come: it failed at once if the
- * process exited, and on a timeout it gives the last readiness answer and the process's log.
+ * process exited, and on a timeout it gives `what` (read then, so it can name the last answer) and
+ * the process's log.
  */
-async function untilUp(p: Proc, what: string, probe: () => boolean | Promise<boolean>, timeoutMs = 240_000) {
+async function untilUp(
+  p: Proc,
+  what: string | (() => string),
+  probe: () => boolean | Promise<boolean>,
+  timeoutMs = 240_000,
+) {
   const until = Date.now() + timeoutMs;
+  const waitingFor = () => (typeof what === "string" ? what : what());
   let exited: { code: number | null; signal: string | null } | null = null;
   void p.exit.then((e) => (exited = e));
   for (;;) {
     if (await Promise.resolve(probe()).catch(() => false)) return;
     if (exited)
       throw new Error(
-        `${p.name} exited (${JSON.stringify(exited)}) before ${what}; its log:\n${p.output.slice(-4000)}`,
+        `${p.name} exited (${JSON.stringify(exited)}) before ${waitingFor()}; its log:\n${p.output.slice(-4000)}`,
       );
     if (Date.now() > until)
-      throw new Error(`timed out after ${timeoutMs / 1000} s waiting for ${what}; its log:\n${p.output.slice(-4000)}`);
+      throw new Error(
+        `timed out after ${timeoutMs / 1000} s waiting for ${waitingFor()}; its log:\n${p.output.slice(-4000)}`,
+      );
     await sleep(250);
   }
 }
 
 async function untilReady(p: Proc) {
   let last = "no answer yet";
-  await untilUp(p, `instance ${p.name} to be ready (last readiness answer: ${last})`, async () => {
-    const r = await fetch(`${p.base}/api/health/ready`);
-    last = `${r.status} ${await r.text()}`;
-    return r.status === 200;
-  }).catch((e: Error) => {
-    throw new Error(e.message.replace("no answer yet", last));
-  });
+  await untilUp(
+    p,
+    () => `instance ${p.name} to be ready (last readiness answer: ${last})`,
+    async () => {
+      const r = await fetch(`${p.base}/api/health/ready`).catch((e: Error) => {
+        last = `no answer (${e.message})`;
+        throw e;
+      });
+      last = `${r.status} ${await r.text()}`;
+      return r.status === 200;
+    },
+  );
 }
 
 afterAll(async () => {
