@@ -151,6 +151,26 @@ describe("closing on evidence", () => {
     ).toBe(403);
   });
 
+  it("the curator who did the repair is neither offered nor allowed the close, even with a passing re-test (409 same_person)", async () => {
+    let d = await toRetest();
+    d = (await move(as.curator, d, "under_repair")).body.defect;
+    d = (
+      await as.curator.post(`${site()}/defects/${d.id}/status`, {
+        to: "awaiting_retest",
+        repairedBy: fx.crew.curator.id,
+        version: d.version,
+      })
+    ).body.defect;
+    const good = await insulation(700);
+    await as.curator.post(`${site()}/defects/${d.id}/readings`, { readingKind: "insulation", readingId: good.id });
+    const detail = (await as.curator.get(`${site()}/defects/${d.id}`)).body;
+    expect(detail.defect.repairedBy).toBe(fx.crew.curator.id);
+    expect(detail.allowedTargets).not.toContain("closed");
+    const r = await move(as.curator, detail.defect, "closed");
+    expect(r.status).toBe(409);
+    expect(r.body.error).toMatchObject({ code: "same_person", message: expect.stringMatching(/someone other/i) });
+  });
+
   it("a reading of another component cannot be linked (400)", async () => {
     const d = await toRetest();
     const other = board.positions.find((p) => p.componentId && p.componentId !== d.componentId);

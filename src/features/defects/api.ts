@@ -119,6 +119,11 @@ export const useEvidence = (siteId: string, id: string) =>
     queryKey: defectKeys.evidence(siteId, id),
     queryFn: ({ signal }) => api.get(`${base(siteId)}/${id}/evidence`, evidenceResponse, signal),
   });
+/** For the photo upload beside the evidence: an after-work photo filed here counts towards the close. */
+export function useRefreshEvidence(siteId: string, id: string) {
+  const qc = useQueryClient();
+  return () => void qc.invalidateQueries({ queryKey: defectKeys.evidence(siteId, id) });
+}
 export const useLinkReading = (siteId: string, id: string) =>
   useWrite(siteId, (b: LinkReadingBody) => api.send("POST", `${base(siteId)}/${id}/readings`, b, evidenceResponse));
 

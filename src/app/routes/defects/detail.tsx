@@ -10,7 +10,8 @@ import {
   type Heritage,
 } from "../../../domain/vocab";
 import { PARTS_STATE_LABELS } from "../../../schemas/defects";
-import { useDefect, useDefectOptions } from "../../../features/defects/api";
+import { useDefect, useDefectOptions, useRefreshEvidence } from "../../../features/defects/api";
+import { useSession } from "../../../features/auth/api";
 import { FlagMarks, SeverityBadge, StatusBadge } from "../../../features/defects/components/badges";
 import { DefectHistory } from "../../../features/defects/components/defect-history";
 import { EditPanel } from "../../../features/defects/components/edit-panel";
@@ -28,6 +29,8 @@ export default function DefectPage() {
   const q = useDefect(site.id, defectId);
   const options = useDefectOptions(site.id);
   const manage = can(role, "defects.manage");
+  const me = useSession().data?.user.id;
+  const refreshEvidence = useRefreshEvidence(site.id, defectId);
   if (q.isPending) return <Loading what="Opening the defect" />;
   if (q.isError)
     return (
@@ -101,26 +104,26 @@ export default function DefectPage() {
           </dl>
         </section>
         <WhyItRanks siteId={site.id} detail={detail} />
-        <WorkflowPanel siteId={site.id} detail={detail} options={options.data} canManage={manage} />
+        <WorkflowPanel siteId={site.id} detail={detail} options={options.data} canManage={manage} meId={me} />
         <PinPanel siteId={site.id} detail={detail} canManage={manage} />
       </div>
-      {(["under_repair", "awaiting_retest", "closed"] as string[]).includes(d.status) || manage ? (
-        <EvidencePanel
-          siteId={site.id}
-          detail={detail}
-          canLink={can(role, "defects.raise")}
-          photos={
-            can(role, "defects.photos") ? (
-              <InspectionPhotos
-                siteId={site.id}
-                defectId={d.id}
-                defaultKind="after_work"
-                label="Photos of this defect"
-              />
-            ) : undefined
-          }
-        />
-      ) : null}
+      {/* Shown in every state: it names the reading the defect was raised from (the two-way link). */}
+      <EvidencePanel
+        siteId={site.id}
+        detail={detail}
+        canLink={can(role, "defects.raise")}
+        photos={
+          can(role, "defects.photos") ? (
+            <InspectionPhotos
+              siteId={site.id}
+              defectId={d.id}
+              defaultKind="after_work"
+              label="Photos of this defect"
+              onUploaded={refreshEvidence}
+            />
+          ) : undefined
+        }
+      />
       <DefectHistory detail={detail} />
     </div>
   );

@@ -3,7 +3,7 @@ import { Button } from "../../../components/button";
 import { DEFECT_STATUS_LABELS, type DefectStatus } from "../../../domain/vocab";
 import { ApiError } from "../../../lib/api-client";
 import type { DefectDetail, DefectOptions } from "../../../schemas/defects";
-import { useAssignDefect, useMoveDefect } from "../api";
+import { useAssignDefect, useEvidence, useMoveDefect } from "../api";
 
 const VERB: Partial<Record<DefectStatus, string>> = {
   scheduled: "Schedule the work",
@@ -15,29 +15,45 @@ const VERB: Partial<Record<DefectStatus, string>> = {
   accepted_as_is: "Accept as is",
 };
 
-/** Status moves this person may make (from the server's allowedTargets), and the curator's assignment. */
+/**
+ * Status moves this person may make (from the server's allowedTargets), and the curator's assignment.
+ * The close is offered only to someone other than the repairer (the server leaves it out of their
+ * targets) and stays disabled, saying what is missing, until evidence is linked (issue 14).
+ */
 export function WorkflowPanel({
   siteId,
   detail,
   options,
   canManage,
+  meId,
 }: {
   siteId: string;
   detail: DefectDetail;
   options?: DefectOptions;
   canManage: boolean;
+  /** The signed-in person, to tell the repairer why they are not offered the close. */
+  meId?: string;
 }) {
   const d = detail.defect;
   const move = useMoveDefect(siteId, d.id);
   const assign = useAssignDefect(siteId, d.id);
   const [reason, setReason] = useState("");
   const err = move.error ?? assign.error;
+  const closable = detail.allowedTargets.includes("closed");
+  const evidence = useEvidence(siteId, d.id).data;
+  const proven = !!evidence && (evidence.retestsMeeting > 0 || evidence.afterPhotos > 0);
+  const iRepaired = d.status === "awaiting_retest" && !!meId && d.repairedBy === meId;
   return (
     <section aria-labelledby="wf-title" className="rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
       <h2 id="wf-title" className="text-lg font-bold">
         Work on it
       </h2>
-      {detail.allowedTargets.length === 0 && (
+      {iRepaired && (
+        <p className="mt-1" data-testid="repairer-note">
+          You did this repair, so you cannot close it: someone else checks the re-test and closes it.
+        </p>
+      )}
+      {detail.allowedTargets.length === 0 && !iRepaired && (
         <p className="text-mist">Your role cannot move this defect from “{DEFECT_STATUS_LABELS[d.status]}”.</p>
       )}
       {detail.allowedTargets.length > 0 && (
@@ -56,15 +72,22 @@ export function WorkflowPanel({
               <Button
                 key={to}
                 tone={to === "accepted_as_is" || to === "deferred" ? "quiet" : "primary"}
-                disabled={move.isPending}
+                disabled={move.isPending || (to === "closed" && !proven)}
+                aria-describedby={to === "closed" ? "close-needs" : undefined}
                 onClick={() => move.mutate({ to, reason, version: d.version }, { onSuccess: () => setReason("") })}
               >
                 {VERB[to] ?? DEFECT_STATUS_LABELS[to]}
               </Button>
             ))}
           </div>
-          {d.status === "awaiting_retest" && (
-            <p className="mt-2 text-sm text-mist">Closing needs someone other than the person who did the repair.</p>
+          {closable && (
+            <p id="close-needs" data-testid="close-needs" className={`mt-2 text-sm ${proven ? "text-kelp-300" : ""}`}>
+              {!evidence
+                ? "Checking what proves the repair…"
+                : proven
+                  ? `Evidence is linked (${evidenceWords(evidence)}). Closing records you as the one who verified it.`
+                  : "Cannot close yet: nothing proves the repair. Link a re-test reading that meets its criterion, or file an after-work photo, under “Evidence of the repair”."}
+            </p>
           )}
         </>
       )}
@@ -92,4 +115,12 @@ export function WorkflowPanel({
       )}
     </section>
   );
+}
+
+function evidenceWords(e: { retestsMeeting: number; afterPhotos: number }) {
+  const parts = [];
+  if (e.retestsMeeting)
+    parts.push(`${e.retestsMeeting} re-test${e.retestsMeeting === 1 ? "" : "s"} meeting the criterion`);
+  if (e.afterPhotos) parts.push(`${e.afterPhotos} after-work photo${e.afterPhotos === 1 ? "" : "s"}`);
+  return parts.join(", ");
 }

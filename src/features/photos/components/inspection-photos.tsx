@@ -21,6 +21,7 @@ export function InspectionPhotos({
   pendingParent,
   defaultKind = "damage",
   label = "Photos of this inspection",
+  onUploaded,
 }: {
   siteId: string;
   /** The inspection or move is itself waiting in the outbox (no signal): its photos wait for it. */
@@ -30,11 +31,16 @@ export function InspectionPhotos({
   defectId?: string;
   defaultKind?: PhotoKind;
   label?: string;
+  /** Called when an upload has been saved (a defect's evidence counts after-work photos). */
+  onUploaded?: () => void;
 }) {
   const [kind, setKind] = useState<PhotoKind>(defaultKind);
   const photos = usePhotos(siteId, { inspectionId, custodyMoveId, defectId });
   const { invalidate } = usePhotoMutations(siteId);
-  const queue = useUploadQueue(siteId, () => void invalidate());
+  const queue = useUploadQueue(siteId, () => {
+    void invalidate();
+    onUploaded?.();
+  });
   const [open, setOpen] = useState<number | null>(null);
   const outbox = useOutbox();
   const [kept, setKept] = useState<string[]>([]);
