@@ -830,7 +830,21 @@ export interface PreparedFilesTable {
   version: Generated<number>;
 }
 
+/**
+ * Per-board counts the site overview and the board list read (issue 15), kept current by every
+ * inventory write that changes them; server/inventory/board-summaries.ts is the only writer.
+ */
+export interface BoardSummariesTable {
+  boardId: string;
+  siteId: string;
+  facet: "positions" | "disposition" | "custody" | "grade" | "retained";
+  key: string;
+  surveyed: boolean;
+  n: number;
+}
+
 export interface Database {
+  boardSummaries: BoardSummariesTable;
   preparedFiles: PreparedFilesTable;
   exportSlots: ExportSlotsTable;
   idempotencyKeys: IdempotencyKeysTable;

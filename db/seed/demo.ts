@@ -9,6 +9,7 @@ import { seedInvitations } from "./invitations";
 import { seedPhotos } from "./photos";
 import { seedReadings } from "./readings";
 import { seedReturnToService } from "./return-to-service";
+import { refreshSiteSummaries } from "../../server/inventory/board-summaries";
 
 type Db = Kysely<Database>;
 
@@ -54,4 +55,5 @@ export const SEED_STEPS: Array<(trx: Db, ctx: SeedContext) => Promise<void>> = [
   seedReadings, // test readings on the main board: after the inventory
   seedParts, // the wanted list: demand from the register, leads and acquisitions
   (trx, ctx) => seedReturnToService(trx, ctx), // the main board's staged return to service, relative to today: after defects and readings
+  (trx, ctx) => refreshSiteSummaries(trx, ctx.siteId), // the overview's per-board counts, as the services keep them: last
 ];

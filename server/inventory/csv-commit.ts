@@ -15,6 +15,7 @@ import type { DecodedText } from "../csv-read";
 import { UNIQUE, mapUnique, updateVersioned } from "./common";
 import { answerOf, validateImport, type PlannedRow } from "./csv-import";
 import type { ImportRecord } from "./csv-row";
+import { refreshBoardSummaries } from "./board-summaries";
 
 /** 400 import_invalid with every row's errors, flattened to fields "<line>.<column>" too. */
 export class ImportInvalid extends AppError {
@@ -135,6 +136,10 @@ export async function commitImport(
     await recordAuditMany(trx, audit);
     if (componentIds.length) await demandChanged(trx, siteId, { componentIds }, actorId); // nameplates move wanted-list demand
     if (componentIds.length) await componentHeritageChanged(trx, siteId, componentIds); // so does original fabric, for defects
+    await refreshBoardSummaries(trx, [
+      ...creates.map((x) => boards.get(key(x.record!.board))!.id),
+      ...updates.map((x) => x.current!.boardId),
+    ]);
     return { rows: response.rows, summary: { ...response.summary, committed: true } };
   });
 }

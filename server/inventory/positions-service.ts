@@ -8,6 +8,7 @@ import { AppError } from "../errors";
 import { UNIQUE, defined, mapUnique, requireOwned, stale, updateVersioned } from "./common";
 import * as repo from "./positions-repository";
 import { demandChanged, demandOfPosition } from "../parts/service";
+import { refreshBoardSummaries } from "./board-summaries";
 
 type Board = Selectable<BoardsTable>;
 interface Cell {
@@ -115,6 +116,7 @@ async function insertWithComponents(
       actorId,
       after: p,
     });
+  await refreshBoardSummaries(trx, [board.id]);
   return positions.map((position) => ({ position, component: components.find((c) => c.positionId === position.id)! }));
 }
 
@@ -289,6 +291,7 @@ export async function deletePosition(db: Db, siteId: string, id: string, actorId
     });
     // Its demand links went with the component; lines left empty close, defects that rode on it stand alone.
     await demandChanged(trx, siteId, demand, actorId);
+    await refreshBoardSummaries(trx, [before.boardId]);
   });
 }
 

@@ -31,10 +31,16 @@ import {
 } from "../../src/domain/custody-chain";
 import { demandChanged } from "../parts/service";
 import { componentHeritageChanged } from "../defects/service";
+import { refreshBoardSummaries } from "./board-summaries";
 
 type Inspect = z.output<typeof createInspectionBody>;
 type Custody = z.output<typeof custodyBody>;
 type Decide = z.output<typeof dispositionBody>;
+
+/** The component fields the site overview counts (server/inventory/board-summaries.ts). */
+const COUNTED = ["heritage", "custody", "disposition"] as const;
+const countedChange = (before: Record<string, unknown>, patch: Record<string, unknown>) =>
+  COUNTED.some((k) => k in patch && patch[k] !== before[k]);
 
 const boardOf = async (db: Db, positionId: string) =>
   (await db.selectFrom("positions").select("boardId").where("id", "=", positionId).executeTakeFirstOrThrow()).boardId;
@@ -68,6 +74,8 @@ export async function patchComponent(db: Db, siteId: string, id: string, actorId
     if (d.changed) await demandChanged(trx, siteId, { componentIds: [id] }, actorId); // a nameplate change moves its wanted-list demand
     if (patch.heritage !== undefined && patch.heritage !== before.heritage)
       await componentHeritageChanged(trx, siteId, [id]); // original fabric weighs in its defects' priority
+    if (countedChange(before as never, patch))
+      await refreshBoardSummaries(trx, [await boardOf(trx, before.positionId)]);
     return after;
   });
 }
@@ -91,16 +99,18 @@ export async function createInspection(db: Db, siteId: string, componentId: stri
       insulation: b.insulation ?? null,
       notes: b.notes,
     });
+    const boardId = await boardOf(trx, c.positionId);
     await recordAudit(trx, {
       siteId,
       entityType: "inspection",
       entityId: row.id,
-      boardId: await boardOf(trx, c.positionId),
+      boardId,
       positionId: c.positionId,
       action: "inspect",
       actorId,
       after: row,
     });
+    await refreshBoardSummaries(trx, [boardId]);
     return row;
   });
 }
@@ -208,6 +218,7 @@ export async function moveCustody(
       },
       after: { ...patch, note: b.note, ...(released.length ? { releasedRules: released, releaseReason } : {}) },
     });
+    await refreshBoardSummaries(trx, [await boardOf(trx, before.positionId)]);
     return { component, move };
   });
 }
@@ -269,6 +280,7 @@ export async function moveCustodyFor(
     },
     after: { ...patch, note: m.note, ...(released.length ? { releasedRules: released, releaseReason } : {}) },
   });
+  await refreshBoardSummaries(trx, [await boardOf(trx, before.positionId)]);
   return component;
 }
 
@@ -343,8 +355,10 @@ export async function decideDisposition(db: Db, siteId: string, componentId: str
         dispositionOverridden: overridden,
       },
     });
-    if (b.disposition !== before.disposition)
+    if (b.disposition !== before.disposition) {
       await demandChanged(trx, siteId, { componentIds: [componentId] }, actorId);
+      await refreshBoardSummaries(trx, [await boardOf(trx, before.positionId)]);
+    }
     return { component, decision, recommendation };
   });
 }

@@ -5,6 +5,7 @@
  */
 import type { Db } from "../../server/db";
 import { syncDemand } from "../../server/parts/service";
+import { refreshBoardSummaries, refreshSummariesOfPositions } from "../../server/inventory/board-summaries";
 import type { ComponentKind, Disposition } from "../../src/domain/vocab";
 
 export async function makeBoard(db: Db, siteId: string, name = "Main switchboard") {
@@ -54,6 +55,7 @@ export async function makeComponent(
     .returning(["id", "version"])
     .executeTakeFirstOrThrow();
   await registerChanged(db, siteId, { componentIds: [component.id] });
+  await db.transaction().execute((trx) => refreshBoardSummaries(trx, [boardId])); // as the inventory services do
   return { positionId: position.id, componentId: component.id, designation };
 }
 
@@ -66,9 +68,10 @@ export async function setDisposition(db: Db, componentId: string, disposition: D
     .updateTable("components")
     .set({ disposition })
     .where("id", "=", componentId)
-    .returning("siteId")
+    .returning(["siteId", "positionId"])
     .executeTakeFirstOrThrow();
   await registerChanged(db, c.siteId, { componentIds: [componentId] });
+  await db.transaction().execute((trx) => refreshSummariesOfPositions(trx, [c.positionId]));
 }
 
 export async function makeDefect(
