@@ -1,19 +1,37 @@
-import { useState, type FormEvent } from "react";
+import { useMemo, useState } from "react";
+import { z } from "zod";
 import type { Verdict } from "../../../domain/reading-judgement";
-import { TextField } from "../../../components/field";
+import { SelectField, TextField } from "../../../components/field";
+import { fieldError, formMessage, localDateTime, numberText, showSaveError, useSchemaForm } from "../../../lib/form";
 import { contactReadingBody } from "../../../schemas/readings";
 import { useRecordContact } from "../api";
-import { fieldErrors, numOrNull, toIso } from "../format";
-import {
-  ComponentSelect,
-  FormShell,
-  KeptOnPhone,
-  NumberField,
-  WhenField,
-  saveErrors,
-  type TargetOption,
-} from "./form-bits";
+import { localNow } from "../format";
+import { ComponentSelect, FormShell, KeptOnPhone, NumberField, WhenField, type TargetOption } from "./form-bits";
 import { VerdictBadge } from "./verdict-badge";
+
+const POLE_COUNTS = [1, 2, 3, 4];
+
+/** The body and the breaker it is taken on (a path parameter, so the form alone asks for it). */
+const contactBody = contactReadingBody.extend({ componentId: z.string().min(1, { message: "Choose the breaker" }) });
+
+/** The form's text → the request body; contactReadingBody (shared with the server) validates it. */
+const contactForm = z
+  .object({
+    componentId: z.string(),
+    poles: z.string(),
+    poleMicroOhms: z.array(numberText),
+    testCurrentA: numberText,
+    instrument: z.string(),
+    notes: z.string(),
+    measuredAt: localDateTime,
+  })
+  // Only the poles shown count: a pole field hidden by a smaller count keeps its text but is not sent.
+  .transform(
+    ({ poles, poleMicroOhms, ...v }) =>
+      ({ ...v, poleMicroOhms: poleMicroOhms.slice(0, Number(poles)) }) as z.input<typeof contactBody>,
+  )
+  .pipe(contactBody);
+type ContactFormValues = z.input<typeof contactForm>;
 
 export function ContactForm({
   siteId,
@@ -25,96 +43,76 @@ export function ContactForm({
   defaultComponentId?: string;
 }) {
   const save = useRecordContact(siteId);
-  const [poles, setPoles] = useState(3);
-  const [errors, setErrors] = useState<Record<string, string>>({});
-  const [message, setMessage] = useState<string | null>(null);
+  const defaults = useMemo<ContactFormValues>(
+    () => ({
+      componentId: defaultComponentId ?? options[0]?.componentId ?? "",
+      poles: "3",
+      poleMicroOhms: POLE_COUNTS.map(() => ""),
+      testCurrentA: "100",
+      instrument: "",
+      notes: "",
+      measuredAt: localNow(),
+    }),
+    [defaultComponentId, options],
+  );
+  const form = useSchemaForm(contactForm, defaults);
+  const errors = form.formState.errors;
+  const poles = Number(form.watch("poles"));
   const [saved, setSaved] = useState<null | { verdict: Verdict; reasons: string[] }>(null);
   const [queued, setQueued] = useState(false);
+  const e = (name: Parameters<typeof fieldError<ContactFormValues>>[1]) => fieldError(errors, name);
 
-  function submit(e: FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    const f = new FormData(e.currentTarget);
-    const componentId = String(f.get("componentId") ?? "");
-    const body = {
-      poleMicroOhms: Array.from({ length: poles }, (_, i) => numOrNull(f.get(`pole${i}`))),
-      testCurrentA: numOrNull(f.get("testCurrentA")),
-      instrument: String(f.get("instrument") ?? ""),
-      notes: String(f.get("notes") ?? ""),
-      measuredAt: toIso(String(f.get("measuredAt") ?? "")),
-    };
-    const parsed = contactReadingBody.safeParse(body);
-    setMessage(null);
-    if (!parsed.success || !componentId) {
-      setErrors({
-        ...(parsed.success ? {} : fieldErrors(parsed.error.issues)),
-        ...(componentId ? {} : { componentId: "Choose the breaker" }),
-      });
-      setMessage("Check the fields marked below.");
-      return;
-    }
-    setErrors({});
-    save.mutate(
-      {
+  const submit = form.handleSubmit(({ componentId, ...body }) =>
+    save
+      .mutateAsync({
         componentId,
         label: options.find((o) => o.componentId === componentId)?.designation ?? "breaker",
-        ...parsed.data,
-      },
-      {
-        onSuccess: (r) => {
+        ...body,
+      })
+      .then(
+        (r) => {
           setQueued(r.queued);
           setSaved(r.queued ? null : r.data.judgement);
         },
-        onError: (err) => {
-          const s = saveErrors(err);
-          setErrors(s.fields);
-          setMessage(s.message);
-        },
-      },
-    );
-  }
+        (err) => showSaveError(form, err),
+      ),
+  );
 
   return (
     <div className="space-y-3">
       <FormShell
         title="Record pole contact resistance"
-        onSubmit={submit}
-        error={message}
+        onSubmit={(ev) => void submit(ev)}
+        error={formMessage(errors)}
         busy={save.isPending}
         submitLabel="Save contact readings"
       >
         <ComponentSelect
           options={options}
           label="Breaker or switch"
-          defaultValue={defaultComponentId}
-          error={errors.componentId}
+          {...form.register("componentId")}
+          error={e("componentId")}
         />
-        <label className="block text-sm font-semibold text-mist">
-          Poles
-          <select
-            value={poles}
-            onChange={(e) => setPoles(Number(e.target.value))}
-            className="mt-1 block min-h-11 w-full rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk"
-          >
-            {[1, 2, 3, 4].map((n) => (
-              <option key={n} value={n}>
-                {n}
-              </option>
-            ))}
-          </select>
-        </label>
-        {Array.from({ length: poles }, (_, i) => (
+        <SelectField label="Poles" {...form.register("poles")}>
+          {POLE_COUNTS.map((n) => (
+            <option key={n} value={n}>
+              {n}
+            </option>
+          ))}
+        </SelectField>
+        {POLE_COUNTS.slice(0, poles).map((n, i) => (
           <NumberField
-            key={i}
-            label={`Pole ${i + 1} (µΩ)`}
-            name={`pole${i}`}
+            key={n}
+            label={`Pole ${n} (µΩ)`}
+            {...form.register(`poleMicroOhms.${i}`)}
             required
-            error={errors[`poleMicroOhms.${i}`]}
+            error={e(`poleMicroOhms.${i}`)}
           />
         ))}
-        <NumberField label="Test current (A)" name="testCurrentA" defaultValue={100} error={errors.testCurrentA} />
-        <TextField label="Instrument" name="instrument" />
-        <WhenField error={errors.measuredAt} />
-        <TextField label="Notes" name="notes" className="sm:col-span-2" />
+        <NumberField label="Test current (A)" {...form.register("testCurrentA")} error={e("testCurrentA")} />
+        <TextField label="Instrument" {...form.register("instrument")} error={e("instrument")} />
+        <WhenField {...form.register("measuredAt")} error={e("measuredAt")} />
+        <TextField label="Notes" {...form.register("notes")} className="sm:col-span-2" error={e("notes")} />
       </FormShell>
       {queued && <KeptOnPhone what="Contact readings" />}
       {saved && (

@@ -109,6 +109,7 @@ export function NumberField({
   return <TextField label={label} type="number" inputMode="decimal" step={step} error={error} hint={hint} {...rest} />;
 }
 
+/** The component a reading is taken on; registered with a form (`{...register("componentId")}`) or named. */
 export function ComponentSelect({
   options,
   name = "componentId",
@@ -116,6 +117,7 @@ export function ComponentSelect({
   error,
   defaultValue,
   allowNone,
+  ...rest
 }: {
   options: TargetOption[];
   name?: string;
@@ -123,13 +125,14 @@ export function ComponentSelect({
   error?: string;
   defaultValue?: string;
   allowNone?: string;
-}) {
+} & Omit<ComponentProps<"select">, "defaultValue">) {
   return (
     <SelectField
       label={label}
       name={name}
-      defaultValue={defaultValue ?? (allowNone ? "" : options[0]?.componentId)}
+      defaultValue={rest.onChange ? undefined : (defaultValue ?? (allowNone ? "" : options[0]?.componentId))}
       error={error}
+      {...rest}
     >
       {allowNone && <option value="">{allowNone}</option>}
       {options.map((o) => (
