@@ -1,11 +1,40 @@
-import { useState, type FormEvent } from "react";
+import { useMemo, useState } from "react";
+import { z } from "zod";
 import { TextField } from "../../../components/field";
+import { fieldError, formMessage, localDateTime, numberText, showSaveError, useSchemaForm } from "../../../lib/form";
 import { LAMP_LOOKS, PHASE_KEYS, groundCheckBody } from "../../../schemas/readings";
 import { useRecordGroundCheck } from "../api";
-import { fieldErrors, numOrNull, toIso } from "../format";
-import { FormShell, KeptOnPhone, NumberField, WhenField, saveErrors } from "./form-bits";
+import { localNow } from "../format";
+import { FormShell, KeptOnPhone, NumberField, WhenField } from "./form-bits";
 
 const LOOK_LABEL = { bright: "Bright", dim: "Dim", dark: "Dark" } as const;
+
+/** The form's text → the request body; groundCheckBody (shared with the server) validates it. */
+const groundCheckForm = z
+  .object({
+    mode: z.enum(["looks", "volts"]),
+    energisation: z.string(),
+    lineVolts: numberText,
+    lamps: z.object({ A: z.string(), B: z.string(), C: z.string() }),
+    volts: z.object({ A: numberText, B: numberText, C: numberText }),
+    branchOhms: numberText,
+    capacitanceMicroF: numberText,
+    notes: z.string(),
+    measuredAt: localDateTime,
+  })
+  // Only what the chosen way of recording shows is sent: the lamps' looks, or the meter's volts.
+  .transform(
+    ({ mode, ...v }) =>
+      ({
+        ...v,
+        lamps: mode === "looks" ? v.lamps : null,
+        volts: mode === "volts" ? v.volts : null,
+        branchOhms: mode === "volts" ? v.branchOhms : null,
+        capacitanceMicroF: mode === "volts" ? v.capacitanceMicroF : null,
+      }) as z.input<typeof groundCheckBody>,
+  )
+  .pipe(groundCheckBody);
+type GroundCheckFormValues = z.input<typeof groundCheckForm>;
 
 /** At an energisation: how each lamp looks (or its volts to ground, with a meter). */
 export function GroundCheckForm({
@@ -18,66 +47,54 @@ export function GroundCheckForm({
   lineVolts: number;
 }) {
   const save = useRecordGroundCheck(siteId, boardId);
-  const [mode, setMode] = useState<"looks" | "volts">("looks");
-  const [errors, setErrors] = useState<Record<string, string>>({});
-  const [message, setMessage] = useState<string | null>(null);
+  const defaults = useMemo<GroundCheckFormValues>(
+    () => ({
+      mode: "looks",
+      energisation: "",
+      lineVolts: String(lineVolts),
+      lamps: { A: "bright", B: "bright", C: "bright" },
+      volts: { A: "", B: "", C: "" },
+      branchOhms: "",
+      capacitanceMicroF: "",
+      notes: "",
+      measuredAt: localNow(),
+    }),
+    [lineVolts],
+  );
+  const form = useSchemaForm(groundCheckForm, defaults);
+  const errors = form.formState.errors;
+  const mode = form.watch("mode");
   const [saved, setSaved] = useState<string | null>(null);
   const [queued, setQueued] = useState(false);
+  const e = (name: Parameters<typeof fieldError<GroundCheckFormValues>>[1]) => fieldError(errors, name);
 
-  function submit(e: FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    const f = new FormData(e.currentTarget);
-    const phases = <T,>(get: (p: string) => T) => ({ A: get("A"), B: get("B"), C: get("C") });
-    const body = {
-      energisation: String(f.get("energisation") ?? ""),
-      lineVolts: numOrNull(f.get("lineVolts")),
-      lamps: mode === "looks" ? phases((p) => String(f.get(`lamp${p}`) ?? "")) : null,
-      volts: mode === "volts" ? phases((p) => numOrNull(f.get(`volts${p}`))) : null,
-      branchOhms: mode === "volts" ? numOrNull(f.get("branchOhms")) : null,
-      capacitanceMicroF: mode === "volts" ? numOrNull(f.get("capacitanceMicroF")) : null,
-      notes: String(f.get("notes") ?? ""),
-      measuredAt: toIso(String(f.get("measuredAt") ?? "")),
-    };
-    const parsed = groundCheckBody.safeParse(body);
-    setMessage(null);
-    if (!parsed.success) {
-      setErrors(fieldErrors(parsed.error.issues));
-      setMessage("Check the fields marked below.");
-      return;
-    }
-    setErrors({});
-    save.mutate(
-      { ...parsed.data, label: parsed.data.energisation || "this board" },
-      {
-        onSuccess: (r) => {
-          setQueued(r.queued);
-          setSaved(r.queued ? null : r.data.judgement.words);
-        },
-        onError: (err) => {
-          const s = saveErrors(err);
-          setErrors(s.fields);
-          setMessage(s.message);
-        },
+  const submit = form.handleSubmit((body) =>
+    save.mutateAsync({ ...body, label: body.energisation || "this board" }).then(
+      (r) => {
+        setQueued(r.queued);
+        setSaved(r.queued ? null : r.data.judgement.words);
       },
-    );
-  }
+      (err) => showSaveError(form, err),
+    ),
+  );
 
   return (
     <div className="space-y-3">
       <FormShell
         title="Record a ground-lamp check"
-        onSubmit={submit}
-        error={message}
+        onSubmit={(ev) => void submit(ev)}
+        error={formMessage(errors)}
         busy={save.isPending}
         submitLabel="Save lamp check"
       >
         <TextField
           label="Energisation"
-          name="energisation"
+          {...form.register("energisation")}
           hint="Which step, e.g. bus section A from the temporary feed"
           className="sm:col-span-2"
+          error={e("energisation")}
         />
-        <NumberField label="Line voltage (V)" name="lineVolts" defaultValue={lineVolts} error={errors.lineVolts} />
+        <NumberField label="Line voltage (V)" {...form.register("lineVolts")} error={e("lineVolts")} />
         <fieldset className="sm:col-span-2">
           <legend className="text-sm font-semibold text-mist">What was recorded</legend>
           <div className="mt-1 flex gap-2">
@@ -86,7 +103,7 @@ export function GroundCheckForm({
                 key={m}
                 className="flex min-h-11 items-center gap-2 rounded-md bg-hull-900 px-3 ring-1 ring-hull-600"
               >
-                <input type="radio" name="mode" value={m} checked={mode === m} onChange={() => setMode(m)} />
+                <input type="radio" value={m} {...form.register("mode")} />
                 {m === "looks" ? "How each lamp looks" : "Volts to ground (meter)"}
               </label>
             ))}
@@ -102,7 +119,7 @@ export function GroundCheckForm({
                     key={l}
                     className="flex min-h-11 items-center gap-2 rounded-md bg-hull-900 px-3 ring-1 ring-hull-600"
                   >
-                    <input type="radio" name={`lamp${p}`} value={l} defaultChecked={l === "bright"} />
+                    <input type="radio" value={l} {...form.register(`lamps.${p}`)} />
                     {LOOK_LABEL[l]}
                   </label>
                 ))}
@@ -112,29 +129,34 @@ export function GroundCheckForm({
         ) : (
           <>
             {PHASE_KEYS.map((p) => (
-              <NumberField key={p} label={`Phase ${p} to ground (V)`} name={`volts${p}`} error={errors[`volts.${p}`]} />
+              <NumberField
+                key={p}
+                label={`Phase ${p} to ground (V)`}
+                {...form.register(`volts.${p}`)}
+                error={e(`volts.${p}`)}
+              />
             ))}
             <NumberField
               label="Lamp branch resistance (Ω, optional)"
-              name="branchOhms"
+              {...form.register("branchOhms")}
               hint="Gives an estimate of the fault resistance"
-              error={errors.branchOhms}
+              error={e("branchOhms")}
             />
             <NumberField
               label="Capacitance to ground per phase (µF, optional)"
-              name="capacitanceMicroF"
+              {...form.register("capacitanceMicroF")}
               hint="From the system's cable and equipment data, or measured. Without it the estimate is shown as a range, since the charging current of the phases' capacitance is left out."
-              error={errors.capacitanceMicroF}
+              error={e("capacitanceMicroF")}
             />
           </>
         )}
-        {errors.lamps && (
+        {e("lamps") && (
           <p role="alert" className="text-sm text-flare-300 sm:col-span-2">
-            {errors.lamps}
+            {e("lamps")}
           </p>
         )}
-        <WhenField error={errors.measuredAt} />
-        <TextField label="Notes" name="notes" />
+        <WhenField {...form.register("measuredAt")} error={e("measuredAt")} />
+        <TextField label="Notes" {...form.register("notes")} error={e("notes")} />
       </FormShell>
       {queued && <KeptOnPhone what="Lamp check" />}
       {saved && (
