@@ -18,7 +18,9 @@
  * - CSV export of every defect against `COPY (the same SELECT) TO STDOUT` through psql, with the
  *   server process's peak RSS growth (VmRSS from /proc, sampled every 10 ms).
  * - Page paint on a phone profile with a 4 × slower CPU (server/bench/paint.ts) against a static page.
- * - Then the condition survey report's case (server/cli/bench-report.ts; BENCH_REPORT=0 skips it).
+ * - Then the condition survey report's case (server/cli/bench-report.ts; BENCH_REPORT=0 skips it),
+ *   the board, fleet and photo-ingest cases (bench-board.ts, bench-fleet.ts, bench-ingest.ts; BENCH_BOARD=0,
+ *   BENCH_FLEET=0, BENCH_INGEST=0 skip them).
  *
  * Options (environment): BENCH_RUNS, BENCH_N (timed requests per case per run, default 15),
  * BENCH_CLIENTS, BENCH_SECONDS (default 8), BENCH_PAINT=0, BENCH_REPORT=0, BENCH_KEEP=1 (keep the scratch
@@ -49,6 +51,7 @@ import { median, percentile, spread, table } from "../bench/stats";
 import { buildClient } from "./prepare";
 import { benchBoard } from "./bench-board";
 import { benchFleet } from "./bench-fleet";
+import { benchIngest } from "./bench-ingest";
 import { benchReport } from "./bench-report";
 
 const arg = (name: string) => process.argv.find((a) => a === `--${name}` || a.startsWith(`--${name}=`));
@@ -575,3 +578,5 @@ if (process.env.BENCH_REPORT !== "0") await benchReport();
 if (process.env.BENCH_BOARD !== "0") await benchBoard();
 // One web instance against two (issue 18): server/cli/bench-fleet.ts; BENCH_FLEET=0 skips it.
 if (process.env.BENCH_FLEET !== "0") await benchFleet();
+// Photo ingest against bare sharp: server/cli/bench-ingest.ts; BENCH_INGEST=0 skips it.
+if (process.env.BENCH_INGEST !== "0") await benchIngest();

@@ -100,6 +100,8 @@ export class Jobs {
   private started = false;
   private stopping = false;
   private failures = 0;
+  /** pg-boss worker ids of this process, per queue (for `wake`). */
+  private workerIds = new Map<string, string>();
   readonly log: Logger;
   /** Hooks for metrics: called after each job with its outcome and duration. */
   onJobEnd?: (name: string, ok: boolean, seconds: number) => void;
@@ -153,10 +155,22 @@ export class Jobs {
       await this.boss.updateQueue(name, { name, ...policy });
     }
     if (this.config.work) {
-      for (const [name, def] of this.defs)
-        await this.boss.work(name, { includeMetadata: true, batchSize: def.options.batchSize ?? 1 }, (jobs) =>
-          this.run(name, def, jobs),
+      for (const [name, def] of this.defs) {
+        const id = await this.boss.work(
+          name,
+          { includeMetadata: true, batchSize: def.options.batchSize ?? 1 },
+          async (jobs) => {
+            try {
+              await this.run(name, def, jobs);
+            } finally {
+              // A worker that found work asks again at once instead of sleeping out its polling
+              // interval: a queue of twenty photos drains back to back, not one per poll.
+              this.wake(name);
+            }
+          },
         );
+        this.workerIds.set(name, id);
+      }
       for (const [name, s] of this.schedules) {
         if (s) await this.boss.schedule(name, s.cron, s.data, { tz: s.tz });
         else await this.boss.unschedule(name);
@@ -229,6 +243,17 @@ export class Jobs {
     if (!id && !opts.singletonKey)
       throw new Error(`The job queue refused "${name}" (is its queue created? call jobs.start() first)`);
     return id;
+  }
+
+  /**
+   * Ask this process's worker for `name` to look for work now rather than at its next poll
+   * (pg-boss's notifyWorker). Call it after the transaction that queued a job has committed;
+   * a web-only process has no worker and nothing happens. Other instances' workers still find
+   * the job at their next poll.
+   */
+  wake(name: string) {
+    const id = this.workerIds.get(name);
+    if (id && !this.stopping) this.boss.notifyWorker(id);
   }
 
   async schedule(name: string, cron: string, data: object = {}, tz = "UTC") {

@@ -73,7 +73,7 @@ export async function uploadPhotos(
         );
       });
     }
-    return await db.transaction().execute(async (trx) => {
+    const ids = await db.transaction().execute(async (trx) => {
       const ids: string[] = [];
       for (const { file, facts, id, name } of inspected) {
         const keys = {
@@ -113,6 +113,9 @@ export async function uploadPhotos(
       }
       return ids;
     });
+    // Committed: this process's worker (if it runs one) starts the renditions now, not at its next poll.
+    jobs.wake(RENDITION_JOB);
+    return ids;
   } catch (e) {
     await Promise.allSettled(written.map((k) => storage.delete(k)));
     throw e;

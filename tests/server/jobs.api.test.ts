@@ -66,6 +66,29 @@ describe("the job queue (pg-boss)", () => {
     expect(flaky).toBe(3);
   });
 
+  it("wake: a worker that polls rarely starts a committed job at once, and drains a backlog without waiting a poll per job", async () => {
+    // A third instance polling every 30 s: without wake() each job would wait for the next poll.
+    const slow = createJobs({ db: t.db, work: true, pollingIntervalSeconds: 30 });
+    const at: number[] = [];
+    slow.define<{ n: number }>("test.slow-poll", async () => void at.push(performance.now()));
+    await slow.start();
+    try {
+      await new Promise((r) => setTimeout(r, 300)); // its first (empty) poll is over: it sleeps now
+      const t0 = performance.now();
+      await t.db.transaction().execute(async (trx) => {
+        for (let n = 0; n < 5; n++) await slow.enqueue("test.slow-poll", { n }, { trx });
+      });
+      slow.wake("test.slow-poll");
+      const until = Date.now() + 10_000;
+      while (at.length < 5 && Date.now() < until) await new Promise((r) => setTimeout(r, 20));
+      expect(at).toHaveLength(5);
+      // All five within a few seconds on a loaded machine, far below one 30 s poll.
+      expect(at[4] - t0).toBeLessThan(8_000);
+    } finally {
+      await slow.stop(1000);
+    }
+  });
+
   it("refuses a job nobody defined", async () => {
     await expect(web.enqueue("test.unknown", {})).rejects.toThrow(/No job named/);
   });
