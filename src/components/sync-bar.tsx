@@ -1,6 +1,8 @@
 import { useQueryClient } from "@tanstack/react-query";
 import { useState, useSyncExternalStore } from "react";
 import { discard, resend, syncNow, useOutbox, type OutboxItem } from "../lib/outbox";
+import { fieldLabel } from "../schemas/field-labels";
+import { serverRefused } from "./status";
 
 const time = (iso: string | number | null) =>
   iso == null ? "never" : new Date(iso).toLocaleTimeString([], { hour: "2-digit", minute: "2-digit" });
@@ -18,6 +20,33 @@ function useLastRead(): number | null {
   );
 }
 
+/**
+ * Reads on this page whose refresh failed for want of an answer (no signal, a dead Wi-Fi, a 5xx)
+ * while they still hold what was read before: the page keeps showing that copy (pages show their
+ * ErrorPanel only when there is nothing to show, or the server refused — `serverRefused`), and the
+ * bar says how old it is. Returns the oldest such copy's time and how many there are.
+ */
+function useFailedRefresh(): { count: number; since: number | null } {
+  const qc = useQueryClient();
+  const key = useSyncExternalStore(
+    (l) => qc.getQueryCache().subscribe(l),
+    () => {
+      let count = 0;
+      let since = Infinity;
+      for (const q of qc.getQueryCache().getAll()) {
+        const s = q.state;
+        if (s.status !== "error" || s.data === undefined || !q.getObserversCount() || serverRefused(s.error)) continue;
+        count += 1;
+        since = Math.min(since, s.dataUpdatedAt);
+      }
+      return count ? `${count}:${since}` : "";
+    },
+  );
+  if (!key) return { count: 0, since: null };
+  const [count, since] = key.split(":").map(Number);
+  return { count, since: since || null };
+}
+
 type Primitive = string | number | boolean | null;
 const primitives = (o: unknown): Record<string, Primitive> =>
   Object.fromEntries(
@@ -25,7 +54,8 @@ const primitives = (o: unknown): Record<string, Primitive> =>
       ([, v]) => v === null || ["string", "number", "boolean"].includes(typeof v),
     ),
   ) as Record<string, Primitive>;
-const shown = (v: Primitive | undefined) => (v === undefined ? "—" : v === null ? "(empty)" : String(v));
+const shown = (v: Primitive | undefined) =>
+  v === undefined ? "—" : v === null || v === "" ? "(empty)" : typeof v === "boolean" ? (v ? "yes" : "no") : String(v);
 
 /** A refused item: the reason, its fields to correct, send again or discard. */
 function Refused({ item }: { item: OutboxItem }) {
@@ -59,7 +89,7 @@ function Refused({ item }: { item: OutboxItem }) {
         <ul className="list-disc pl-5 text-sm text-flare-300">
           {Object.entries(item.error.fields).map(([k, m]) => (
             <li key={k}>
-              {k}: {m}
+              {fieldLabel(item.kind, k)}: {m}
             </li>
           ))}
         </ul>
@@ -68,7 +98,7 @@ function Refused({ item }: { item: OutboxItem }) {
         <div className="mt-2 grid gap-2 sm:grid-cols-2">
           {Object.keys(fields).map((k) => (
             <label key={k} className="text-sm text-mist">
-              {k}
+              {fieldLabel(item.kind, k)}
               <input
                 className="mt-1 block min-h-11 w-full rounded-md border border-hull-500 bg-hull-900 px-2 text-chalk"
                 value={draft[k]}
@@ -143,8 +173,8 @@ function Conflict({ item }: { item: OutboxItem }) {
                 mine[k] !== undefined && theirs[k] !== undefined && mine[k] !== theirs[k] ? "text-brass-300" : ""
               }
             >
-              <th scope="row" className="pr-2 font-mono font-normal text-mist">
-                {k}
+              <th scope="row" className="pr-2 font-normal text-mist">
+                {fieldLabel(item.kind, k)}
               </th>
               <td className="pr-2 font-mono">{shown(mine[k])}</td>
               <td className="font-mono">{shown(theirs[k])}</td>
@@ -185,6 +215,8 @@ function Conflict({ item }: { item: OutboxItem }) {
 export function SyncBar() {
   const o = useOutbox();
   const lastRead = useLastRead();
+  const failed = useFailedRefresh();
+  const qc = useQueryClient();
   const [open, setOpen] = useState(false);
   const waiting = o.items.filter((i) => i.state === "waiting");
   const attention = o.items.filter((i) => i.state !== "waiting");
@@ -207,6 +239,23 @@ export function SyncBar() {
         {!o.online && (
           <span className="text-mist" data-testid="offline-marker">
             showing what was last synced at {time(lastRead)}
+          </span>
+        )}
+        {o.online && failed.count > 0 && (
+          <span className="text-flare-300" data-testid="stale-marker" role="status">
+            Could not refresh: showing what was last synced at {time(failed.since)}{" "}
+            <button
+              type="button"
+              className="min-h-9 rounded-md px-2 text-chalk underline"
+              onClick={() =>
+                void qc.refetchQueries({
+                  predicate: (q) => q.state.status === "error" && q.state.data !== undefined,
+                  type: "active",
+                })
+              }
+            >
+              Try again
+            </button>
           </span>
         )}
         <span data-testid="waiting-count" className={waiting.length ? "text-tide-300" : "text-fog"}>
