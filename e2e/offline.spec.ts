@@ -381,3 +381,45 @@ test.describe("every field page opened with signal opens with none, on a 360 px 
     await page.screenshot({ path: ".data/test-results/offline-readings-kept.png", fullPage: false });
   });
 });
+
+test.describe("a refresh that gets no answer, on a 360 px phone", () => {
+  test.setTimeout(120_000);
+  // The worker is kept out so that the routes below see every /api request (the page's own fetches).
+  test.use({ viewport: { width: 360, height: 740 }, serviceWorkers: "block" });
+
+  test("a board and the register keep showing what the phone has, marked with its time, not an error panel", async ({
+    page,
+    context,
+    baseURL,
+  }) => {
+    const m = await makeBreaker(baseURL!);
+    await signIn(page, "volunteer");
+    const boardHeading = page.getByRole("heading", { name: `Hull board ${m.designation.slice(0, -1)}` });
+    await page.goto(`/sites/${m.siteId}/defects`);
+    await expect(page.getByRole("heading", { name: "Defect register" })).toBeVisible();
+    await expectKept(page, ["defects", m.siteId, "list"]);
+    await page.goto(`/sites/${m.siteId}/boards/${m.boardId}`);
+    await expect(boardHeading).toBeVisible();
+    await expectKept(page, ["inventory", m.siteId, "board", m.boardId]);
+
+    // A dead Wi-Fi: the server's health answers, the site's reads get no answer at all.
+    await context.route(/\/api\/sites\//, (r) => r.abort("internetdisconnected"));
+    await page.reload();
+    await expect(page.getByTestId("stale-marker")).toContainText("Could not refresh: showing what was last synced at", {
+      timeout: 30_000,
+    });
+    await expect(boardHeading).toBeVisible();
+    await expect(page.getByRole("main").getByRole("alert")).toHaveCount(0);
+    await page.screenshot({ path: ".data/test-results/refresh-failed-board.png" });
+
+    await page.goto(`/sites/${m.siteId}/defects`);
+    await expect(page.getByTestId("stale-marker")).toBeVisible({ timeout: 30_000 });
+    await expect(page.getByRole("heading", { name: "Defect register" })).toBeVisible();
+    await expect(page.getByRole("main").getByRole("alert")).toHaveCount(0);
+
+    // The signal is back: "Try again" refreshes and the marker goes.
+    await context.unrouteAll();
+    await page.getByTestId("stale-marker").getByRole("button", { name: "Try again" }).click();
+    await expect(page.getByTestId("stale-marker")).toHaveCount(0, { timeout: 30_000 });
+  });
+});

@@ -4,7 +4,7 @@ import { SyncBar } from "../../components/sync-bar";
 import { setOutboxUser, useOutbox } from "../../lib/outbox";
 import { forgetPersistedReads } from "../persist";
 import { Wordmark } from "../../components/wordmark";
-import { ErrorPanel, Loading } from "../../components/status";
+import { ErrorPanel, Loading, serverRefused } from "../../components/status";
 import { paths } from "../../config/paths";
 import { useSession, useSignOut } from "../../features/auth/api";
 import { NoticeStrip } from "../../features/prepared-files/components/notice-strip";
@@ -29,7 +29,7 @@ export default function AppLayout() {
       },
     });
   if (session.isPending) return <Loading what="Checking your session" />;
-  if (session.isError)
+  if (session.isLoadingError || serverRefused(session.error))
     return (
       <main className="p-4">
         <ErrorPanel error={session.error} />

@@ -1,6 +1,6 @@
 import { useCallback, useMemo, useState } from "react";
 import { Link, useParams, useSearchParams } from "react-router";
-import { ErrorPanel, Loading } from "../../../components/status";
+import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { EARTHING_LABELS } from "../../../domain/vocab";
 import { useBoard } from "../../../features/inventory/api";
@@ -51,7 +51,7 @@ export default function BoardElevationPage() {
     [q.data, filters],
   );
   if (q.isPending) return <Loading what="Drawing the board" />;
-  if (q.isError) return <ErrorPanel error={q.error} />;
+  if (q.isLoadingError || serverRefused(q.error)) return <ErrorPanel error={q.error} />;
   const { board, positions } = q.data;
   const tile = positions.find((t) => t.id === selected);
   return (

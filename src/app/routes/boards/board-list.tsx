@@ -1,5 +1,5 @@
 import { Link } from "react-router";
-import { EmptyState, ErrorPanel, Loading } from "../../../components/status";
+import { EmptyState, ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { EARTHING_LABELS } from "../../../domain/vocab";
 import { inventoryCsvHref, useBoards } from "../../../features/inventory/api";
@@ -46,7 +46,7 @@ export default function BoardListPage() {
         </div>
       </header>
       {q.isPending && <Loading />}
-      {q.isError && <ErrorPanel error={q.error} />}
+      {(q.isLoadingError || serverRefused(q.error)) && <ErrorPanel error={q.error} />}
       {q.data?.length === 0 && (
         <EmptyState title="No boards yet">
           {can(role, "inventory.curate")

@@ -1,5 +1,5 @@
 import { Link, useParams, useSearchParams } from "react-router";
-import { ErrorPanel, Loading } from "../../../components/status";
+import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { RoleNotice } from "../../../features/inventory/components/role-notice";
 import { paths } from "../../../config/paths";
 import { useBoard, usePosition } from "../../../features/inventory/api";
@@ -71,7 +71,7 @@ export default function BoardSetupPage() {
     );
   if (!can(role, "inventory.curate")) return <RoleNotice>Only the curator sets up boards.</RoleNotice>;
   if (q.isPending) return <Loading />;
-  if (q.isError) return <ErrorPanel error={q.error} />;
+  if (q.isLoadingError || serverRefused(q.error)) return <ErrorPanel error={q.error} />;
   const { board, sections, positions } = q.data;
   return (
     <div className="space-y-5">

@@ -1,4 +1,4 @@
-import { ErrorPanel, Loading } from "../../../components/status";
+import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { FLOOD_GUIDANCE_PROVENANCE } from "../../../domain/flood-guidance";
 import { WATER_TYPE_LABELS } from "../../../domain/vocab";
 import { useFloodEvents } from "../../../features/inventory/api";
@@ -10,7 +10,7 @@ export default function FloodEventsPage() {
   const { site, role } = useSiteContext();
   const q = useFloodEvents(site.id);
   if (q.isPending) return <Loading />;
-  if (q.isError) return <ErrorPanel error={q.error} />;
+  if (q.isLoadingError || serverRefused(q.error)) return <ErrorPanel error={q.error} />;
   const [latest, ...older] = q.data;
   return (
     <div className="max-w-3xl space-y-4">

@@ -1,7 +1,7 @@
 import { useState } from "react";
 import { Link, useSearchParams } from "react-router";
 import { SafetyNotice } from "../../../components/safety-notice";
-import { ErrorPanel, Loading } from "../../../components/status";
+import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { RoleNotice } from "../../../features/inventory/components/role-notice";
 import { paths } from "../../../config/paths";
 import { tileBelowWaterLine } from "../../../domain/board-geometry";
@@ -156,7 +156,7 @@ export default function QuickLogPage() {
       <h1 className="text-2xl font-bold">Quick log</h1>
       {!positionId && <PositionFinder siteId={site.id} onPick={choose} />}
       {positionId && q.isPending && <Loading what="Opening the position" />}
-      {q.isError && <ErrorPanel error={q.error} />}
+      {(q.isLoadingError || serverRefused(q.error)) && <ErrorPanel error={q.error} />}
       {positionId && q.data && (
         <>
           <section

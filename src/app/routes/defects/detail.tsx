@@ -1,6 +1,6 @@
 import { Link, useParams } from "react-router";
 import { SafetyNotice } from "../../../components/safety-notice";
-import { ErrorPanel, Loading } from "../../../components/status";
+import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { Money } from "../../../lib/money";
 import {
@@ -32,7 +32,7 @@ export default function DefectPage() {
   const me = useSession().data?.user.id;
   const refreshEvidence = useRefreshEvidence(site.id, defectId);
   if (q.isPending) return <Loading what="Opening the defect" />;
-  if (q.isError)
+  if (q.isLoadingError || serverRefused(q.error))
     return (
       <ErrorPanel error={q.error}>
         <Link to={paths.defects.href(site.id)}>Back to the register</Link>

@@ -1,7 +1,7 @@
 import { useState } from "react";
 import { Link, useNavigate, useSearchParams } from "react-router";
 import { SafetyNotice } from "../../../components/safety-notice";
-import { EmptyState, ErrorPanel, Loading } from "../../../components/status";
+import { EmptyState, ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { DEFECT_CATEGORIES, DEFECT_SEVERITIES, type DefectCategory, type DefectSeverity } from "../../../domain/vocab";
 import { useCreateDefect, useDefectOptions, useFindingContext } from "../../../features/defects/api";
@@ -111,7 +111,7 @@ export default function RaiseDefectPage() {
         />
       )}
       {!kept && waiting && <Loading />}
-      {options.isError && <ErrorPanel error={options.error} />}
+      {(options.isLoadingError || serverRefused(options.error)) && <ErrorPanel error={options.error} />}
       {options.data &&
         !waiting &&
         !kept &&

@@ -1,7 +1,7 @@
 import { Link } from "react-router";
 import { Button } from "../../../components/button";
 import { SafetyNotice } from "../../../components/safety-notice";
-import { EmptyState, ErrorPanel, Loading } from "../../../components/status";
+import { EmptyState, ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { useRepairPlan } from "../../../features/defects/api";
 import { RepairPlanSheet } from "../../../features/defects/components/repair-plan";
@@ -39,7 +39,7 @@ export default function RepairPlanPage() {
       </div>
       <SafetyNotice compact />
       {plan.isPending && <Loading what="Working out the plan" />}
-      {plan.isError && <ErrorPanel error={plan.error} />}
+      {(plan.isLoadingError || serverRefused(plan.error)) && <ErrorPanel error={plan.error} />}
       {plan.data && <RepairPlanSheet siteId={site.id} plan={plan.data} />}
     </div>
   );

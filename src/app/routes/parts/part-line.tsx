@@ -1,5 +1,5 @@
 import { Link, useParams } from "react-router";
-import { ErrorPanel, Loading } from "../../../components/status";
+import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { useLineDetail } from "../../../features/parts/api";
 import { Money } from "../../../lib/money";
@@ -18,7 +18,7 @@ export default function PartLinePage() {
   const detail = useLineDetail(site.id, lineId);
   const canEdit = can(role, "parts.edit");
   if (detail.isPending) return <Loading what="Opening the line" />;
-  if (detail.isError)
+  if (detail.isLoadingError || serverRefused(detail.error))
     return (
       <ErrorPanel error={detail.error}>
         <Link to={paths.parts.href(site.id)}>Back to the wanted list</Link>

@@ -1,5 +1,5 @@
 import { Link } from "react-router";
-import { EmptyState, ErrorPanel, Loading } from "../../../components/status";
+import { EmptyState, ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { csvUrl, usePartsList } from "../../../features/parts/api";
 import { BudgetPanel } from "../../../features/parts/components/budget-panel";
@@ -49,7 +49,7 @@ export default function PartsListPage() {
         onChange={(f) => setFilter({ ...f, page: undefined })}
       />
       {list.isPending && <Loading what="Gathering the wanted list" />}
-      {list.isError && <ErrorPanel error={list.error} />}
+      {(list.isLoadingError || serverRefused(list.error)) && <ErrorPanel error={list.error} />}
       {list.data &&
         (list.data.lines.length ? (
           <>

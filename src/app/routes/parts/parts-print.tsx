@@ -1,6 +1,6 @@
 import { Link } from "react-router";
 import { Button } from "../../../components/button";
-import { EmptyState, ErrorPanel, Loading } from "../../../components/status";
+import { EmptyState, ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { thumbUrl, usePartsList } from "../../../features/parts/api";
 import { PrintSheet } from "../../../features/parts/components/print-sheet";
@@ -27,7 +27,7 @@ export default function PartsPrintPage() {
         equivalent acceptable, ○ modern equivalent acceptable.
       </p>
       {list.isPending && <Loading />}
-      {list.isError && <ErrorPanel error={list.error} />}
+      {(list.isLoadingError || serverRefused(list.error)) && <ErrorPanel error={list.error} />}
       {list.data && !list.data.lines.length && <EmptyState title="Nothing to print for this filter" />}
       {list.data && list.data.total > list.data.lines.length && (
         <p className="no-print text-flare-300">

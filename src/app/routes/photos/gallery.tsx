@@ -1,6 +1,6 @@
 import { useMemo, useState } from "react";
 import { useParams, useSearchParams } from "react-router";
-import { EmptyState, ErrorPanel, Loading } from "../../../components/status";
+import { EmptyState, ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { usePhotoMutations, usePhotos, usePhotoTargets } from "../../../features/photos/api";
 import { ComparePhotos } from "../../../features/photos/components/compare-photos";
 import { PhotoGrid } from "../../../features/photos/components/photo-grid";
@@ -61,7 +61,7 @@ export default function GalleryPage() {
       </label>
       {photos.isPending && (positionId || boardId) ? (
         <Loading what="Loading photos" />
-      ) : photos.isError ? (
+      ) : photos.isLoadingError || serverRefused(photos.error) ? (
         <ErrorPanel error={photos.error} />
       ) : !photos.data?.length ? (
         <EmptyState title="No photos here yet">

@@ -1,5 +1,5 @@
 import { Link, useParams } from "react-router";
-import { ErrorPanel, Loading } from "../../../components/status";
+import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { usePhotoMutations, usePhotos, usePhotoTargets } from "../../../features/photos/api";
 import { BatchAssign } from "../../../features/photos/components/batch-assign";
@@ -41,11 +41,11 @@ export default function PhotoDesk() {
           </Link>
         </p>
       </div>
-      {targets.isError && <ErrorPanel error={targets.error} />}
+      {(targets.isLoadingError || serverRefused(targets.error)) && <ErrorPanel error={targets.error} />}
       <UploadPanel siteId={siteId} targets={targets.data ?? []} onUploaded={() => void invalidate()} />
       {unassigned.isPending || targets.isPending ? (
         <Loading what="Finding unfiled photos" />
-      ) : unassigned.isError ? (
+      ) : unassigned.isLoadingError || serverRefused(unassigned.error) ? (
         <ErrorPanel error={unassigned.error} />
       ) : (
         <BatchAssign siteId={siteId} photos={unassigned.data} targets={targets.data ?? []} />

@@ -1,6 +1,6 @@
 import { useMemo } from "react";
 import { useParams, useSearchParams } from "react-router";
-import { ErrorPanel, Loading } from "../../../components/status";
+import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { usePhotoTargets } from "../../../features/photos/api";
 import { RequiredShotsEditor, ShootListPanel } from "../../../features/photos/components/shoot-list-panel";
 import { useSiteContext } from "../sites/site-layout";
@@ -22,7 +22,7 @@ export default function ShootListPage() {
       {can(role, "photos.settings") && <RequiredShotsEditor siteId={siteId} />}
       {targets.isPending ? (
         <Loading what="Finding the boards" />
-      ) : targets.isError ? (
+      ) : targets.isLoadingError || serverRefused(targets.error) ? (
         <ErrorPanel error={targets.error} />
       ) : (
         <>

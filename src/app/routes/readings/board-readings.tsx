@@ -1,6 +1,6 @@
 import { Link, useParams } from "react-router";
 import { SafetyNotice } from "../../../components/safety-notice";
-import { ErrorPanel, Loading } from "../../../components/status";
+import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { useBoardReadings, useReadingTargets } from "../../../features/readings/api";
 import { ContactHistory } from "../../../features/readings/components/contact-history";
@@ -29,7 +29,7 @@ export default function BoardReadingsPage() {
     (readings.data?.thermal ?? []).flatMap((s) => (s.photoId ? [s.photoId] : [])),
   );
   if (readings.isPending) return <Loading what="Loading the board's readings" />;
-  if (readings.isError) return <ErrorPanel error={readings.error} />;
+  if (readings.isLoadingError || serverRefused(readings.error)) return <ErrorPanel error={readings.error} />;
   const { board, insulation, contacts, thermal, groundChecks, tripTests, stepTests, groundHunts, phaseComparisons } =
     readings.data;
   const positions = targets.data?.find((b) => b.id === boardId)?.positions ?? [];

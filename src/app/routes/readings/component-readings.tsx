@@ -1,6 +1,6 @@
 import { Link, useParams } from "react-router";
 import { SafetyNotice } from "../../../components/safety-notice";
-import { ErrorPanel, Loading } from "../../../components/status";
+import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { useComponentReadings } from "../../../features/readings/api";
 import { ContactHistory } from "../../../features/readings/components/contact-history";
@@ -25,7 +25,7 @@ export default function ComponentReadingsPage() {
     (q.data?.thermal ?? []).flatMap((s) => (s.photoId ? [s.photoId] : [])),
   );
   if (q.isPending) return <Loading what="Loading the component's readings" />;
-  if (q.isError) return <ErrorPanel error={q.error} />;
+  if (q.isLoadingError || serverRefused(q.error)) return <ErrorPanel error={q.error} />;
   const { component: c, override, insulation, contacts, thermal, tripTests, stepTests } = q.data;
   const trippable = (TRIP_TESTABLE_KINDS as readonly string[]).includes(c.kind);
   return (

@@ -1,6 +1,6 @@
 import { Link } from "react-router";
 import { SafetyNotice } from "../../../components/safety-notice";
-import { ErrorPanel, Loading } from "../../../components/status";
+import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { useCriteria } from "../../../features/readings/api";
 import { CriteriaForm } from "../../../features/readings/components/criteria-form";
@@ -24,7 +24,7 @@ export default function CriteriaPage() {
       </p>
       <SafetyNotice />
       {criteria.isPending && <Loading />}
-      {criteria.isError && <ErrorPanel error={criteria.error} />}
+      {(criteria.isLoadingError || serverRefused(criteria.error)) && <ErrorPanel error={criteria.error} />}
       {criteria.data && (
         <CriteriaForm siteId={site.id} criteria={criteria.data} canEdit={can(role, "readings.criteria")} />
       )}

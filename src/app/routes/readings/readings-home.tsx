@@ -1,6 +1,6 @@
 import { Link } from "react-router";
 import { SafetyNotice } from "../../../components/safety-notice";
-import { EmptyState, ErrorPanel, Loading } from "../../../components/status";
+import { EmptyState, ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { useReadingTargets } from "../../../features/readings/api";
 import { useSiteContext } from "../sites/site-layout";
@@ -17,7 +17,7 @@ export default function ReadingsHome() {
       </p>
       <SafetyNotice />
       {targets.isPending && <Loading />}
-      {targets.isError && <ErrorPanel error={targets.error} />}
+      {(targets.isLoadingError || serverRefused(targets.error)) && <ErrorPanel error={targets.error} />}
       {targets.data?.length === 0 && (
         <EmptyState title="No boards yet">The curator adds the boards in the inventory first.</EmptyState>
       )}

@@ -1,7 +1,7 @@
 import { useQueryClient } from "@tanstack/react-query";
 import { useState } from "react";
 import { SafetyNotice } from "../../../components/safety-notice";
-import { EmptyState, ErrorPanel, Loading } from "../../../components/status";
+import { EmptyState, ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { inventoryKeys, useBoard, useBoards } from "../../../features/inventory/api";
 import { LabelsForm } from "../../../features/reports/components/labels-form";
 import { ReportForm } from "../../../features/reports/components/report-form";
@@ -30,7 +30,7 @@ export default function ReportsPage() {
         </p>
       </header>
       {boards.isPending && <Loading what="Loading the boards" />}
-      {boards.isError && <ErrorPanel error={boards.error} />}
+      {(boards.isLoadingError || serverRefused(boards.error)) && <ErrorPanel error={boards.error} />}
       {boards.data && boards.data.length === 0 && (
         <EmptyState title="No boards yet">A report needs at least one board.</EmptyState>
       )}
@@ -54,7 +54,7 @@ export default function ReportsPage() {
           <PreparedFilesPanel siteId={site.id} />
           {canLabel && (
             <section className="rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
-              {detail.isError && <ErrorPanel error={detail.error} />}
+              {(detail.isLoadingError || serverRefused(detail.error)) && <ErrorPanel error={detail.error} />}
               <LabelsForm
                 siteId={site.id}
                 boards={boards.data}

@@ -1,5 +1,5 @@
 import { Link, useParams } from "react-router";
-import { ErrorPanel, Loading } from "../../../components/status";
+import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { can } from "../../../domain/permissions";
 import { useSession } from "../../../features/auth/api";
@@ -19,7 +19,7 @@ export default function BoardReturnToServicePage() {
   const q = useRtsBoard(site.id, boardId);
   const session = useSession();
   if (q.isPending) return <Loading what="Loading the return to service" />;
-  if (q.isError) return <ErrorPanel error={q.error} />;
+  if (q.isLoadingError || serverRefused(q.error)) return <ErrorPanel error={q.error} />;
   const v = q.data;
   const me = session.data?.user.id;
   const isQualified = !!v.qualifiedPersons.find((p) => p.userId === me && p.current);

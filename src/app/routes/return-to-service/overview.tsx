@@ -1,5 +1,5 @@
 import { Link } from "react-router";
-import { ErrorPanel, Loading } from "../../../components/status";
+import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { can } from "../../../domain/permissions";
 import { STAGE_STATE_LABELS, type StageState } from "../../../domain/rts-gate";
@@ -32,7 +32,7 @@ export default function ReturnToServiceOverviewPage() {
   const { site, role } = useSiteContext();
   const q = useRtsOverview(site.id);
   if (q.isPending) return <Loading what="Loading the return to service" />;
-  if (q.isError) return <ErrorPanel error={q.error} />;
+  if (q.isLoadingError || serverRefused(q.error)) return <ErrorPanel error={q.error} />;
   return (
     <div className="space-y-4">
       <h1 className="text-2xl font-bold">Return to service</h1>

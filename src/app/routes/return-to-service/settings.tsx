@@ -1,5 +1,5 @@
 import { Link } from "react-router";
-import { ErrorPanel, Loading } from "../../../components/status";
+import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { can } from "../../../domain/permissions";
 import { useRtsSettings } from "../../../features/return-to-service/api";
@@ -28,7 +28,7 @@ export default function RtsSettingsPage() {
       </p>
       {q.isPending ? (
         <Loading what="Loading the template" />
-      ) : q.isError ? (
+      ) : q.isLoadingError || serverRefused(q.error) ? (
         <ErrorPanel error={q.error} />
       ) : (
         <TemplateEditor siteId={site.id} settings={q.data} canEdit={can(role, "rts.plan")} />

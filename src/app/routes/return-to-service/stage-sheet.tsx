@@ -1,5 +1,5 @@
 import { Link, useParams } from "react-router";
-import { ErrorPanel, Loading } from "../../../components/status";
+import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { SUPPLY_LABELS, VOLTAGE_STEP_LABELS } from "../../../domain/return-to-service";
 import { useRtsBoard } from "../../../features/return-to-service/api";
@@ -11,7 +11,7 @@ export default function StageSheetPage() {
   const { boardId = "", stageId = "" } = useParams();
   const q = useRtsBoard(site.id, boardId);
   if (q.isPending) return <Loading what="Loading the stage sheet" />;
-  if (q.isError) return <ErrorPanel error={q.error} />;
+  if (q.isLoadingError || serverRefused(q.error)) return <ErrorPanel error={q.error} />;
   const s = q.data.stages.find((x) => x.id === stageId);
   if (!s) return <p>That stage was not found.</p>;
   return (

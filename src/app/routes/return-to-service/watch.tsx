@@ -1,7 +1,7 @@
 import { useState } from "react";
 import { Link, useParams, useSearchParams } from "react-router";
 import { Button } from "../../../components/button";
-import { ErrorPanel, Loading } from "../../../components/status";
+import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { can } from "../../../domain/permissions";
 import { LAMP_LOOKS, LAMP_LOOK_LABELS } from "../../../schemas/return-to-service";
@@ -28,7 +28,7 @@ export default function WatchPage() {
   const [note, setNote] = useState("");
   const [done, setDone] = useState<{ text: string; defectId: string | null; queued?: boolean } | null>(null);
   if (q.isPending) return <Loading what="Loading the stages under watch" />;
-  if (q.isError) return <ErrorPanel error={q.error} />;
+  if (q.isLoadingError || serverRefused(q.error)) return <ErrorPanel error={q.error} />;
   const live = q.data.stages.filter((s) => s.status === "energised");
   const stopped = q.data.stages.filter((s) => s.status === "stopped");
   const stage = live.find((s) => s.id === search.get("stage")) ?? live[0];

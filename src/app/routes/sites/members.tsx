@@ -1,6 +1,6 @@
 import { useState } from "react";
 import { Button } from "../../../components/button";
-import { ErrorPanel, Loading } from "../../../components/status";
+import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { ROLE_LABELS, ROLES, type Role } from "../../../domain/vocab";
 import { ApiError } from "../../../lib/api-client";
 import { useQueryClient } from "@tanstack/react-query";
@@ -27,7 +27,7 @@ export default function MembersPage() {
         </p>
       )}
       {members.isPending && <Loading />}
-      {members.isError && <ErrorPanel error={members.error} />}
+      {(members.isLoadingError || serverRefused(members.error)) && <ErrorPanel error={members.error} />}
       <ul className="divide-y divide-hull-700 rounded-lg bg-hull-850 ring-1 ring-hull-700">
         {members.data?.map((p) => (
           <li key={p.userId} className="flex flex-wrap items-center gap-3 p-3">

@@ -1,5 +1,5 @@
 import { NavLink, Outlet, useOutletContext, useParams } from "react-router";
-import { ErrorPanel, Loading } from "../../../components/status";
+import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { phoneNav, visibleNav } from "../../../config/nav";
 import type { SiteSummary } from "../../../schemas/sites";
 import { useSite } from "../../../features/sites/api";
@@ -22,7 +22,7 @@ export default function SiteLayout() {
   const { siteId = "" } = useParams();
   const site = useSite(siteId);
   if (site.isPending) return <Loading what="Opening the site" />;
-  if (site.isError)
+  if (site.isLoadingError || serverRefused(site.error))
     return (
       <main className="p-4">
         <ErrorPanel error={site.error} />

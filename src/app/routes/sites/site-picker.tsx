@@ -1,5 +1,5 @@
 import { Link } from "react-router";
-import { EmptyState, ErrorPanel, Loading } from "../../../components/status";
+import { EmptyState, ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { ROLE_LABELS } from "../../../domain/vocab";
 import { useSites } from "../../../features/sites/api";
@@ -11,7 +11,7 @@ export default function SitePicker() {
       <h1 className="text-2xl font-bold">Your sites</h1>
       <p className="mt-1 text-mist">Each site is one vessel, building or plant under restoration.</p>
       {sites.isPending && <Loading />}
-      {sites.isError && <ErrorPanel error={sites.error} />}
+      {(sites.isLoadingError || serverRefused(sites.error)) && <ErrorPanel error={sites.error} />}
       {sites.data?.length === 0 && (
         <EmptyState title="No sites yet">
           Ask your curator to add you to a site, or an instance admin to create one.

@@ -1,7 +1,7 @@
 import { useCallback, useMemo, useState } from "react";
 import { Link, useSearchParams } from "react-router";
 import type { RowSelectionState } from "@tanstack/react-table";
-import { EmptyState, ErrorPanel, Loading } from "../../../components/status";
+import { EmptyState, ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { csvHref, useDefectList, useDefectOptions } from "../api";
 import { apiQuery, localToday, PAGE_SIZES, readState, writeState, type RegisterState } from "../url-state";
@@ -55,7 +55,7 @@ export function Register({ siteId, canManage, canRaise }: { siteId: string; canM
         Keys: ↑ ↓ move between defects, Enter opens one, x selects it. Click a column heading to sort by it.
       </p>
       {list.isPending && <Loading what="Loading the register" />}
-      {list.isError && <ErrorPanel error={list.error} />}
+      {(list.isLoadingError || serverRefused(list.error)) && <ErrorPanel error={list.error} />}
       {list.data && total === 0 && (
         <EmptyState title={filtered ? "No defect matches these filters" : "No defects raised yet"}>
           {filtered ? (

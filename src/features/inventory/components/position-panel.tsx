@@ -1,7 +1,7 @@
 import type { ReactNode } from "react";
 import { useEffect, useRef } from "react";
 import { Link } from "react-router";
-import { ErrorPanel, Loading } from "../../../components/status";
+import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { COMPONENT_KIND_LABELS, CUSTODY_LABELS, HERITAGE_LABELS } from "../../../domain/vocab";
 import { usePosition } from "../api";
 import type { Component, PositionDetail } from "../contract";
@@ -109,7 +109,7 @@ export function PositionPanel({
         </button>
       </div>
       {q.isPending && <Loading what="Opening the position" />}
-      {q.isError && <ErrorPanel error={q.error} />}
+      {(q.isLoadingError || serverRefused(q.error)) && <ErrorPanel error={q.error} />}
       {d && (
         <div className="mt-3">
           <nav aria-label="Position actions" className="flex flex-wrap gap-2 text-sm">

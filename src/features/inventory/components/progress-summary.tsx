@@ -1,5 +1,5 @@
 import { Link } from "react-router";
-import { ErrorPanel, Loading } from "../../../components/status";
+import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { CUSTODY, CUSTODY_LABELS, DISPOSITION_LABELS, DISPOSITIONS, WATER_TYPE_LABELS } from "../../../domain/vocab";
 import { GRADE_KEYS } from "../../../schemas/inventory";
 import { useFloodEvents, useOverview } from "../api";
@@ -91,7 +91,7 @@ export function ProgressSummary({
 }) {
   const q = useOverview(siteId);
   if (q.isPending) return <Loading what="Counting the positions" />;
-  if (q.isError) return <ErrorPanel error={q.error} />;
+  if (q.isLoadingError || serverRefused(q.error)) return <ErrorPanel error={q.error} />;
   const o = q.data;
   const total = o.totals.positions;
   return (

@@ -1,6 +1,6 @@
 import { useState } from "react";
 import { Button } from "../../../components/button";
-import { ErrorPanel, Loading } from "../../../components/status";
+import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { ROLE_LABELS } from "../../../domain/vocab";
 import { ApiError } from "../../../lib/api-client";
 import type { Invitation } from "../../../schemas/invitations";
@@ -44,7 +44,7 @@ export function PendingInvitations({ siteId }: { siteId: string }) {
         </p>
       )}
       {list.isPending && <Loading what="Loading invitations" />}
-      {list.isError && <ErrorPanel error={list.error} />}
+      {(list.isLoadingError || serverRefused(list.error)) && <ErrorPanel error={list.error} />}
       {list.data?.length === 0 && <p className="text-mist">No one is waiting to join.</p>}
       <ul className="divide-y divide-hull-700 rounded-lg bg-hull-850 ring-1 ring-hull-700">
         {list.data?.map((inv) => (

@@ -1,6 +1,6 @@
 import { useState } from "react";
 import { Button } from "../../../components/button";
-import { EmptyState, ErrorPanel, Loading } from "../../../components/status";
+import { EmptyState, ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { ApiError } from "../../../lib/api-client";
 import type { MailboxMessage } from "../../../schemas/mailbox";
 import { useEmptyMailbox, useMailbox } from "../api";
@@ -87,7 +87,7 @@ export function MailboxView() {
         E-mail goes to the real mail server named by SMTP_URL, so nothing is kept here.
       </EmptyState>
     );
-  if (box.isError) return <ErrorPanel error={box.error} />;
+  if (box.isLoadingError || serverRefused(box.error)) return <ErrorPanel error={box.error} />;
   const open = box.data.find((m) => m.id === openId) ?? box.data[0];
   if (!open)
     return (

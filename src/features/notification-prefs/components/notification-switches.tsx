@@ -1,4 +1,4 @@
-import { ErrorPanel, Loading } from "../../../components/status";
+import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { ApiError } from "../../../lib/api-client";
 import { NOTIFICATION_LABELS } from "../../../schemas/account";
 import { useNotificationPrefs, useSetNotification } from "../api";
@@ -13,7 +13,7 @@ export function NotificationSwitches() {
         E-mail notifications
       </h2>
       {prefs.isPending && <Loading what="Loading your settings" />}
-      {prefs.isError && <ErrorPanel error={prefs.error} />}
+      {(prefs.isLoadingError || serverRefused(prefs.error)) && <ErrorPanel error={prefs.error} />}
       {set.isError && (
         <p role="alert" className="text-flare-300">
           {set.error instanceof ApiError ? set.error.message : "The change was not saved."}

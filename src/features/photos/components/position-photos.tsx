@@ -1,5 +1,6 @@
 import { useState } from "react";
 import { Link } from "react-router";
+import { serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { usePhotos } from "../api";
 import { PhotoGrid } from "./photo-grid";
@@ -18,7 +19,7 @@ export function PositionPhotos({ siteId, positionId }: { siteId: string; positio
         Loading photos…
       </p>
     );
-  if (photos.isError)
+  if (photos.isLoadingError || serverRefused(photos.error))
     return (
       <p className="text-sm text-flare-300" role="alert">
         Photos could not be loaded.

@@ -1,7 +1,7 @@
 import { useState } from "react";
 import { Link } from "react-router";
 import { Button } from "../../../components/button";
-import { ErrorPanel, Loading } from "../../../components/status";
+import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { PHOTO_KINDS, PHOTO_KIND_LABELS, type PhotoKind } from "../../../domain/vocab";
 import { usePhotoMutations, usePhotoSettings, useShootList } from "../api";
@@ -11,7 +11,7 @@ export function ShootListPanel({ siteId, boardId }: { siteId: string; boardId: s
   const list = useShootList(siteId, boardId);
   const [onlyMissing, setOnlyMissing] = useState(true);
   if (list.isPending) return <Loading what="Reading the shoot list" />;
-  if (list.isError) return <ErrorPanel error={list.error} />;
+  if (list.isLoadingError || serverRefused(list.error)) return <ErrorPanel error={list.error} />;
   const d = list.data;
   const pct = d.shotsRequired ? Math.round((d.shotsTaken / d.shotsRequired) * 100) : 100;
   const rows = onlyMissing ? d.positions.filter((p) => p.missing.length) : d.positions;

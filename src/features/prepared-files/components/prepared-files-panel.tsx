@@ -1,5 +1,5 @@
 import { Button } from "../../../components/button";
-import { ErrorPanel, Loading } from "../../../components/status";
+import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { PREPARED_KIND_LABELS, type PreparedKind } from "../../../schemas/prepared-files";
 import { usePrepareFile, usePreparedFiles } from "../api";
 import { PreparedFileRow } from "./prepared-file-row";
@@ -44,7 +44,7 @@ export function PreparedFilesPanel({ siteId }: { siteId: string }) {
       </div>
       {prepare.isError && <ErrorPanel error={prepare.error} />}
       {list.isPending && <Loading what="Loading your prepared files" />}
-      {list.isError && <ErrorPanel error={list.error} />}
+      {(list.isLoadingError || serverRefused(list.error)) && <ErrorPanel error={list.error} />}
       {list.data && list.data.files.length === 0 && <p className="text-mist">You have no prepared files here yet.</p>}
       {list.data && list.data.files.length > 0 && (
         <ul className="space-y-2" aria-label="Your prepared files">

@@ -1,4 +1,4 @@
-import { ErrorPanel, Loading } from "../../../components/status";
+import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { SafetyNotice } from "../../../components/safety-notice";
 import { useLatestGroundCheck } from "../api";
 import { GroundCheckCard } from "./ground-check-history";
@@ -18,7 +18,7 @@ export function LatestGroundCheck({ siteId, boardId }: { siteId: string; boardId
         Latest ground-lamp check
       </h2>
       {latest.isPending && <Loading what="Reading the lamps" />}
-      {latest.isError && <ErrorPanel error={latest.error} />}
+      {(latest.isLoadingError || serverRefused(latest.error)) && <ErrorPanel error={latest.error} />}
       {latest.data === null && <p className="text-mist">No ground-lamp check recorded on this board yet.</p>}
       {latest.data && <GroundCheckCard check={latest.data} />}
       <SafetyNotice compact />
