@@ -132,14 +132,14 @@ export function defectRoutes(db: Db, mail?: MailDeps) {
     res.json(await detail(db, ctxOf(req, res), one.parse(req.params).defectId));
   });
 
-  r.patch(`${base}/:defectId`, raisers, async (req, res) => {
+  r.patch(`${base}/:defectId`, raisers, idempotent(db), async (req, res) => {
     const ctx = ctxOf(req, res);
     const row = await service.patchDefect(db, ctx, one.parse(req.params).defectId, patchDefectBody.parse(req.body));
     res.json({ defect: toJson(row) });
     sendNotices(mail, ctx);
   });
 
-  r.post(`${base}/:defectId/status`, raisers, async (req, res) => {
+  r.post(`${base}/:defectId/status`, raisers, idempotent(db), async (req, res) => {
     const ctx = ctxOf(req, res);
     const row = await service.moveDefect(db, ctx, one.parse(req.params).defectId, transitionBody.parse(req.body));
     res.json({ defect: toJson(row) });

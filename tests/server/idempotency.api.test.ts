@@ -361,3 +361,95 @@ describe("Idempotency-Key edge cases", () => {
     expect(r.body.error.code).toBe("invalid_idempotency_key");
   });
 });
+
+/**
+ * Edits of existing records the phone sends from its outbox (issue 16): a defect's fields (PATCH)
+ * and a status move, each with the version it was based on. A repeat with the same key answers the
+ * first result and changes nothing again; a stale version is 409 with the current record and gives
+ * the key back, so the person's choice can go with the same key and the version now current.
+ */
+describe("edits with a version and an Idempotency-Key", () => {
+  const defectAt = async () => {
+    const r = await volunteer.post(`${site()}/defects`, {
+      boardId,
+      positionId,
+      title: "Bus bar bolt loose",
+      category: "mechanical",
+      severity: "impaired",
+    });
+    expect(r.status, JSON.stringify(r.body)).toBe(201);
+    return r.body.defect as { id: string; version: number };
+  };
+  const row = (id: string) =>
+    t.db.selectFrom("defects").select(["version", "title", "status"]).where("id", "=", id).executeTakeFirstOrThrow();
+  const moves = async (id: string) =>
+    Number(
+      (
+        await t.db
+          .selectFrom("defectStatusChanges")
+          .select((eb) => eb.fn.countAll().as("n"))
+          .where("defectId", "=", id)
+          .executeTakeFirstOrThrow()
+      ).n,
+    );
+
+  it("a repeated defect edit answers the first result and changes the defect once", async () => {
+    const d = await defectAt();
+    const key = randomUUID();
+    const body = { title: "Bus bar bolt loose, phase B", version: d.version };
+    const first = await volunteer.call("PATCH", `${site()}/defects/${d.id}`, body, { "Idempotency-Key": key });
+    expect(first.status, JSON.stringify(first.body)).toBe(200);
+    expect(first.body.defect.version).toBe(d.version + 1);
+    const again = await volunteer.call("PATCH", `${site()}/defects/${d.id}`, body, { "Idempotency-Key": key });
+    expect(again.status).toBe(200);
+    expect(again.headers.get("idempotent-replayed")).toBe("true");
+    expect(again.body).toEqual(first.body);
+    expect(await row(d.id)).toMatchObject({ version: d.version + 1, title: "Bus bar bolt loose, phase B" });
+  });
+
+  it("a repeated status move answers the first result and moves the defect once", async () => {
+    const d = await defectAt();
+    const key = randomUUID();
+    const body = { to: "under_repair", reason: "", version: d.version };
+    const first = await volunteer.call("POST", `${site()}/defects/${d.id}/status`, body, { "Idempotency-Key": key });
+    expect(first.status, JSON.stringify(first.body)).toBe(200);
+    const before = await moves(d.id);
+    const again = await volunteer.call("POST", `${site()}/defects/${d.id}/status`, body, { "Idempotency-Key": key });
+    expect(again.status).toBe(200);
+    expect(again.headers.get("idempotent-replayed")).toBe("true");
+    expect(again.body).toEqual(first.body);
+    expect(await moves(d.id)).toBe(before);
+    expect(await row(d.id)).toMatchObject({ status: "under_repair", version: first.body.defect.version });
+  });
+
+  it("an edit based on an old version is 409 with the current defect; the same key then goes with the current version", async () => {
+    const d = await defectAt();
+    const theirs = await curator.patch(`${site()}/defects/${d.id}`, { severity: "disabling", version: d.version });
+    expect(theirs.status, JSON.stringify(theirs.body)).toBe(200);
+    const key = randomUUID();
+    const mine = { title: "Bus bar bolt sheared", version: d.version };
+    const stale = await volunteer.call("PATCH", `${site()}/defects/${d.id}`, mine, { "Idempotency-Key": key });
+    expect(stale.status).toBe(409);
+    expect(stale.body.error.current).toMatchObject({ id: d.id, version: d.version + 1, severity: "disabling" });
+    expect((await row(d.id)).title).toBe("Bus bar bolt loose");
+    const chosen = { ...mine, version: stale.body.error.current.version };
+    const sent = await volunteer.call("PATCH", `${site()}/defects/${d.id}`, chosen, { "Idempotency-Key": key });
+    expect(sent.status, JSON.stringify(sent.body)).toBe(200);
+    expect(await row(d.id)).toMatchObject({ title: "Bus bar bolt sheared", version: d.version + 2 });
+  });
+
+  // A 409 without the current record is a refusal to the outbox (src/lib/outbox/queue.ts classify), not a conflict.
+  it("a status move the role may not make is refused without a record to choose from, and changes nothing", async () => {
+    const d = await defectAt();
+    const r = await volunteer.call(
+      "POST",
+      `${site()}/defects/${d.id}/status`,
+      { to: "closed", reason: "", version: d.version },
+      { "Idempotency-Key": randomUUID() },
+    );
+    expect([403, 409, 422]).toContain(r.status);
+    expect(r.body.error.message).toBeTruthy();
+    expect(r.body.error.current).toBeUndefined();
+    expect(await row(d.id)).toMatchObject({ status: "raised", version: d.version });
+  });
+});
