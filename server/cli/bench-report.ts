@@ -23,6 +23,7 @@ import { migrateToLatest } from "../../db/migrate";
 import { ensureDatabase } from "../../db/pg";
 import { createApp } from "../app";
 import { hashPassword } from "../auth/password";
+import { refreshBoardSummaries } from "../inventory/board-summaries";
 import { createDb, MAINTENANCE_DB_OPTIONS, type Db } from "../db";
 import { StorageNotFound, type PhotoStorage } from "../photos/storage";
 import { downscale, REPORT_PHOTO_PX } from "../reports/service";
@@ -106,6 +107,7 @@ async function seed(db: Db) {
     SELECT c.site_id, c.id, c.position_id, ${u.id}, now() - (p.grid_row || ' days')::interval, (p.grid_col % 11) * 3, 10 - (p.grid_col % 11), p.grid_row > 12,
       ARRAY['silt','salt_crust']::text[], 'Silt line at the lower third; terminals green with salt.'
     FROM components c JOIN positions p ON p.id = c.position_id WHERE p.board_id = ${board.id}`.execute(db);
+  await db.transaction().execute((trx) => refreshBoardSummaries(trx, [board.id])); // as the inventory services do
   await sql`INSERT INTO insulation_readings (site_id, board_id, component_id, circuit, test_volts_dc, megohms, conductors, equipment_temp_c, measured_at, recorded_by)
     SELECT c.site_id, ${board.id}, c.id, p.circuit, 1000, 0.5 * k * k, 'A-B', 24, now() - ((6 - k) || ' days')::interval, ${u.id}
     FROM components c JOIN positions p ON p.id = c.position_id, generate_series(1, 5) k WHERE p.board_id = ${board.id} AND p.grid_col <= 4`.execute(

@@ -26,27 +26,23 @@ export const insertFloodEvent = (db: Db, v: Insertable<FloodEventsTable>) =>
   db.insertInto("floodEvents").values(v).returningAll().executeTakeFirstOrThrow();
 
 /**
- * Boards with their position count and how many positions have at least one inspection: one
- * grouped pass over the site's positions (hash-joined to the inspected positions), not a
- * correlated count per board.
+ * Boards with their position count and how many positions have at least one inspection, from the
+ * per-board summaries the writes keep current (server/inventory/board-summaries.ts): two rows per
+ * board at most, never the site's positions (issue 15).
  */
 export const listBoards = (db: Db, siteId: string) =>
   db
     .with("counts", (w) =>
       w
-        .selectFrom("positions as p")
-        .leftJoin(
-          (eb) =>
-            eb.selectFrom("inspections as i").select("i.positionId").distinct().where("i.siteId", "=", siteId).as("s"),
-          (j) => j.onRef("s.positionId", "=", "p.id"),
-        )
+        .selectFrom("boardSummaries as s")
         .select([
-          "p.boardId",
-          (eb) => eb.fn.countAll<number>().as("n"),
-          (eb) => eb.fn.count<number>("s.positionId").as("surveyed"),
+          "s.boardId",
+          sql<number>`sum(s.n)`.as("n"),
+          sql<number>`coalesce(sum(s.n) filter (where s.surveyed), 0)`.as("surveyed"),
         ])
-        .where("p.siteId", "=", siteId)
-        .groupBy("p.boardId"),
+        .where("s.siteId", "=", siteId)
+        .where("s.facet", "=", "positions")
+        .groupBy("s.boardId"),
     )
     .selectFrom("boards as b")
     .leftJoin("counts", "counts.boardId", "b.id")
