@@ -94,7 +94,8 @@ export async function measurePaint(
     // The app paints after its data arrives: wait for the first contentful paint and the page's
     // heading, then for a quiet second and a half so the last LCP candidate and late shifts count.
     await page.waitForFunction(
-      () => performance.getEntriesByType("paint").some((e) => e.name === "first-contentful-paint"),
+      // A string, as OBSERVE: it runs in the page, which the server's types (no DOM) do not describe.
+      'performance.getEntriesByType("paint").some((e) => e.name === "first-contentful-paint")',
       null,
       { timeout: 120_000 },
     );

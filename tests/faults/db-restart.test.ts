@@ -160,7 +160,7 @@ function writeBurst(tag: string): Burst {
 
 const health = async () => {
   const r = await fetch(`${base}/api/health`);
-  return { status: r.status, body: await r.json() };
+  return { status: r.status, body: (await r.json()) as { db?: string } };
 };
 
 async function storedNotes(): Promise<Set<string>> {

@@ -510,7 +510,7 @@ describe("two web instances and a worker on one database, one object store and o
       "A's readiness to fail",
       async () => {
         const r = await fetch(`${A.base}/api/health/ready`);
-        if (r.status === 503) sawDraining = (await r.json()).draining === true;
+        if (r.status === 503) sawDraining = ((await r.json()) as { draining?: boolean }).draining === true;
         return r.status === 503;
       },
       20_000,

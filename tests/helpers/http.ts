@@ -30,8 +30,9 @@ export class Client {
     const h: Record<string, string> = { ...headers };
     if (this.cookie) h.cookie = this.cookie;
     if (method !== "GET" && this.origin) h.origin = this.origin;
-    let payload: BodyInit | undefined;
-    if (body instanceof FormData || typeof body === "string" || body instanceof Uint8Array) payload = body as BodyInit;
+    let payload: RequestInit["body"];
+    if (body instanceof FormData || typeof body === "string" || body instanceof Uint8Array)
+      payload = body as RequestInit["body"];
     else if (body !== undefined) {
       h["content-type"] = "application/json";
       payload = JSON.stringify(body);
