@@ -1,3 +1,5 @@
+import type { UseFormRegisterReturn } from "react-hook-form";
+
 /**
  * A row of large radio "chips" for gloved fingers in a dim space: each at least 48 px high,
  * the chosen one in solid brass with a tick, so the choice reads without colour.
@@ -9,6 +11,7 @@ export function ChoiceChips<T extends string>({
   value,
   onChange,
   defaultValue,
+  registered,
   className = "",
 }: {
   legend: string;
@@ -18,6 +21,8 @@ export function ChoiceChips<T extends string>({
   value?: T;
   onChange?: (v: T) => void;
   defaultValue?: T;
+  /** A react-hook-form field (`registered={register("action")}`): the form holds the choice. */
+  registered?: UseFormRegisterReturn;
   className?: string;
 }) {
   return (
@@ -31,12 +36,14 @@ export function ChoiceChips<T extends string>({
           >
             <input
               type="radio"
-              name={name}
+              name={registered?.name ?? name}
               value={v}
               className="h-5 w-5 accent-hull-950"
-              {...(value !== undefined
-                ? { checked: value === v, onChange: () => onChange?.(v) }
-                : { defaultChecked: defaultValue === v })}
+              {...(registered
+                ? { onChange: registered.onChange, onBlur: registered.onBlur, ref: registered.ref }
+                : value !== undefined
+                  ? { checked: value === v, onChange: () => onChange?.(v) }
+                  : { defaultChecked: defaultValue === v })}
             />
             {label}
           </label>

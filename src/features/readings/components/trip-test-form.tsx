@@ -1,23 +1,69 @@
-import { useState, type FormEvent } from "react";
+import { useMemo, useState } from "react";
+import { z } from "zod";
 import { TextField } from "../../../components/field";
-import { TRIP_UNIT_LABELS, TRIP_UNITS, type TripUnit } from "../../../domain/trip-test";
+import { fieldError, formMessage, localDateTime, numberText, showSaveError, useSchemaForm } from "../../../lib/form";
+import { TRIP_UNIT_LABELS, TRIP_UNITS } from "../../../domain/trip-test";
 import { TRIP_TEST_LABELS, TRIP_TESTS, tripTestBody, type TripTest } from "../../../schemas/readings";
 import { useRecordTripTest } from "../api";
-import { fieldErrors, numOrNull, toIso } from "../format";
+import { localNow } from "../format";
 import { ChoiceChips } from "./choice-chips";
-import {
-  ComponentSelect,
-  FormShell,
-  KeptOnPhone,
-  NumberField,
-  WhenField,
-  saveErrors,
-  type TargetOption,
-} from "./form-bits";
+import { ComponentSelect, FormShell, KeptOnPhone, NumberField, WhenField, type TargetOption } from "./form-bits";
 import { JudgedResult } from "./judged-result";
 import { LiveWorkCaution } from "./live-work-caution";
 
-type Test = (typeof TRIP_TESTS)[number];
+/**
+ * What the form asks beyond the body: the breaker (a path parameter), and a trip time unless the
+ * breaker did not trip. Each is its own part of the intersection so its message shows with the rest.
+ */
+const breakerChosen = z.object({ componentId: z.string().min(1, { message: "Choose the breaker" }) });
+const tripTimeGiven = z
+  .object({ test: z.enum(TRIP_TESTS), noTrip: z.boolean(), tripSeconds: z.number().nullable() })
+  .refine((b) => b.test !== "inverse_time" || b.noTrip || b.tripSeconds !== null, {
+    message: "Give the trip time, or tick “Did not trip”",
+    path: ["tripSeconds"],
+  });
+
+/** The form's text → the request body; tripTestBody (shared with the server) validates it. */
+const tripTestForm = z
+  .object({
+    componentId: z.string(),
+    test: z.enum(TRIP_TESTS),
+    tripUnit: z.enum(TRIP_UNITS),
+    adjustable: z.boolean(),
+    noTrip: z.boolean(),
+    pole: z.string(),
+    ratingAmps: numberText,
+    systemVolts: numberText,
+    testAmps: numberText,
+    tripSeconds: numberText,
+    bandMinSeconds: numberText,
+    bandMaxSeconds: numberText,
+    settingAmps: numberText,
+    publishedLowAmps: numberText,
+    publishedHighAmps: numberText,
+    pickupAmps: numberText,
+    instrument: z.string(),
+    notes: z.string(),
+    measuredAt: localDateTime,
+  })
+  // Only the fields the chosen test shows are sent; the others keep their text for a change of mind.
+  .transform((v) => {
+    const inverse = v.test === "inverse_time";
+    return {
+      ...v,
+      adjustable: v.tripUnit === "thermal_magnetic" && v.adjustable,
+      testAmps: inverse ? v.testAmps : null,
+      tripSeconds: inverse && !v.noTrip ? v.tripSeconds : null,
+      bandMinSeconds: inverse ? v.bandMinSeconds : null,
+      bandMaxSeconds: inverse ? v.bandMaxSeconds : null,
+      settingAmps: !inverse ? v.settingAmps : null,
+      publishedLowAmps: !inverse ? v.publishedLowAmps : null,
+      publishedHighAmps: !inverse ? v.publishedHighAmps : null,
+      pickupAmps: !inverse ? v.pickupAmps : null,
+    } as z.input<typeof tripTestBody> & z.input<typeof breakerChosen> & z.input<typeof tripTimeGiven>;
+  })
+  .pipe(tripTestBody.and(breakerChosen).and(tripTimeGiven));
+type TripTestFormValues = z.input<typeof tripTestForm>;
 
 /**
  * A breaker's trip test by primary injection: the overload (inverse-time) trip at 300 % of the
@@ -37,76 +83,55 @@ export function TripTestForm({
   defaultComponentId?: string;
 }) {
   const save = useRecordTripTest(siteId);
-  const [test, setTest] = useState<Test>("inverse_time");
-  const [unit, setUnit] = useState<TripUnit>("thermal_magnetic");
-  const [adjustable, setAdjustable] = useState(false);
-  const [noTrip, setNoTrip] = useState(false);
-  const [errors, setErrors] = useState<Record<string, string>>({});
-  const [message, setMessage] = useState<string | null>(null);
+  const defaults = useMemo<TripTestFormValues>(
+    () => ({
+      componentId: defaultComponentId ?? options[0]?.componentId ?? "",
+      test: "inverse_time",
+      tripUnit: "thermal_magnetic",
+      adjustable: false,
+      noTrip: false,
+      pole: "",
+      ratingAmps: "",
+      systemVolts: String(systemVolts),
+      testAmps: "",
+      tripSeconds: "",
+      bandMinSeconds: "",
+      bandMaxSeconds: "",
+      settingAmps: "",
+      publishedLowAmps: "",
+      publishedHighAmps: "",
+      pickupAmps: "",
+      instrument: "",
+      notes: "",
+      measuredAt: localNow(),
+    }),
+    [defaultComponentId, options, systemVolts],
+  );
+  const form = useSchemaForm(tripTestForm, defaults);
+  const errors = form.formState.errors;
+  const [test, unit, adjustable, noTrip] = form.watch(["test", "tripUnit", "adjustable", "noTrip"]);
   const [saved, setSaved] = useState<TripTest | null>(null);
   const [queued, setQueued] = useState(false);
+  const e = (name: keyof TripTestFormValues) => fieldError(errors, name);
 
-  function submit(e: FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    const f = new FormData(e.currentTarget);
-    const componentId = String(f.get("componentId") ?? "");
-    const n = (k: string) => numOrNull(f.get(k));
-    const inverse = test === "inverse_time";
-    const body = {
-      test,
-      tripUnit: unit,
-      adjustable: unit === "thermal_magnetic" && adjustable,
-      pole: String(f.get("pole") ?? ""),
-      ratingAmps: n("ratingAmps"),
-      systemVolts: n("systemVolts"),
-      testAmps: inverse ? n("testAmps") : null,
-      tripSeconds: inverse && !noTrip ? n("tripSeconds") : null,
-      bandMinSeconds: inverse ? n("bandMinSeconds") : null,
-      bandMaxSeconds: inverse ? n("bandMaxSeconds") : null,
-      settingAmps: !inverse ? n("settingAmps") : null,
-      publishedLowAmps: !inverse ? n("publishedLowAmps") : null,
-      publishedHighAmps: !inverse ? n("publishedHighAmps") : null,
-      pickupAmps: !inverse ? n("pickupAmps") : null,
-      instrument: String(f.get("instrument") ?? ""),
-      notes: String(f.get("notes") ?? ""),
-      measuredAt: toIso(String(f.get("measuredAt") ?? "")),
-    };
-    const parsed = tripTestBody.safeParse(body);
-    const more: Record<string, string> = {};
-    if (!componentId) more.componentId = "Choose the breaker";
-    if (inverse && !noTrip && body.tripSeconds === null)
-      more.tripSeconds = "Give the trip time, or tick “Did not trip”";
-    setMessage(null);
-    if (!parsed.success || Object.keys(more).length) {
-      setErrors({ ...(parsed.success ? {} : fieldErrors(parsed.error.issues)), ...more });
-      setMessage("Check the fields marked below.");
-      return;
-    }
-    setErrors({});
+  const submit = form.handleSubmit(({ componentId, noTrip: _, ...body }) => {
     const breaker = options.find((o) => o.componentId === componentId);
-    save.mutate(
-      { componentId, label: breaker?.designation ?? "a breaker", ...parsed.data },
-      {
-        onSuccess: (r) => {
-          setQueued(r.queued);
-          setSaved(r.queued ? null : r.data);
-        },
-        onError: (err) => {
-          const s = saveErrors(err);
-          setErrors(s.fields);
-          setMessage(s.message);
-        },
+    return save.mutateAsync({ componentId, label: breaker?.designation ?? "a breaker", ...body }).then(
+      (r) => {
+        setQueued(r.queued);
+        setSaved(r.queued ? null : r.data);
       },
+      (err) => showSaveError(form, err),
     );
-  }
+  });
 
   const needsSetting = unit === "electronic" || adjustable;
   return (
     <div className="space-y-3">
       <FormShell
         title="Record a trip test"
-        onSubmit={submit}
-        error={message}
+        onSubmit={(ev) => void submit(ev)}
+        error={formMessage(errors)}
         busy={save.isPending}
         submitLabel="Save trip test"
         disabled={options.length === 0}
@@ -115,109 +140,91 @@ export function TripTestForm({
         {options.length === 0 && (
           <p className="text-mist sm:col-span-2">No breakers with a component recorded on this board yet.</p>
         )}
-        <ComponentSelect
-          options={options}
-          label="Breaker"
-          defaultValue={defaultComponentId}
-          error={errors.componentId}
-        />
-        <TextField label="Pole (optional)" name="pole" hint="e.g. A, or 1" error={errors.pole} />
+        <ComponentSelect options={options} label="Breaker" {...form.register("componentId")} error={e("componentId")} />
+        <TextField label="Pole (optional)" {...form.register("pole")} hint="e.g. A, or 1" error={e("pole")} />
         <ChoiceChips
           legend="Test"
           name="test"
           options={TRIP_TESTS.map((t) => [t, TRIP_TEST_LABELS[t]] as const)}
-          value={test}
-          onChange={setTest}
+          registered={form.register("test")}
         />
         <ChoiceChips
           legend="Trip unit"
           name="tripUnit"
           options={TRIP_UNITS.map((u) => [u, TRIP_UNIT_LABELS[u]] as const)}
-          value={unit}
-          onChange={setUnit}
+          registered={form.register("tripUnit")}
         />
         {unit === "thermal_magnetic" && test === "instantaneous" && (
           <label className="flex min-h-12 items-center gap-3 rounded-md bg-hull-900 px-3 ring-1 ring-hull-600 sm:col-span-2">
-            <input
-              type="checkbox"
-              checked={adjustable}
-              onChange={(e) => setAdjustable(e.target.checked)}
-              className="h-5 w-5"
-            />
+            <input type="checkbox" {...form.register("adjustable")} className="h-5 w-5" />
             Instantaneous trip is adjustable (has a dial)
           </label>
         )}
-        <NumberField label="Breaker rating (A)" name="ratingAmps" required error={errors.ratingAmps} />
-        <NumberField
-          label="System voltage (V)"
-          name="systemVolts"
-          defaultValue={systemVolts}
-          required
-          error={errors.systemVolts}
-        />
+        <NumberField label="Breaker rating (A)" {...form.register("ratingAmps")} required error={e("ratingAmps")} />
+        <NumberField label="System voltage (V)" {...form.register("systemVolts")} required error={e("systemVolts")} />
         {test === "inverse_time" ? (
           <>
             <NumberField
               label="Test current (A)"
-              name="testAmps"
+              {...form.register("testAmps")}
               hint="Three times the rating: the 300 % band applies only near it"
               required
-              error={errors.testAmps}
+              error={e("testAmps")}
             />
             <NumberField
               label="Trip time (s)"
-              name="tripSeconds"
-              error={errors.tripSeconds}
+              {...form.register("tripSeconds")}
+              error={e("tripSeconds")}
               hint={noTrip ? "Not used: the breaker did not trip" : undefined}
             />
             <label className="flex min-h-12 items-center gap-3 rounded-md bg-hull-900 px-3 ring-1 ring-hull-600 sm:col-span-2">
-              <input
-                type="checkbox"
-                checked={noTrip}
-                onChange={(e) => setNoTrip(e.target.checked)}
-                className="h-5 w-5"
-              />
+              <input type="checkbox" {...form.register("noTrip")} className="h-5 w-5" />
               Did not trip (test stopped)
             </label>
             <NumberField
               label="Manufacturer's band, fastest (s, optional)"
-              name="bandMinSeconds"
+              {...form.register("bandMinSeconds")}
               hint="From the breaker's time-current curve at 300 %"
-              error={errors.bandMinSeconds}
+              error={e("bandMinSeconds")}
             />
             <NumberField
               label="Manufacturer's band, slowest (s, optional)"
-              name="bandMaxSeconds"
+              {...form.register("bandMaxSeconds")}
               hint="Without a band, a thermal-magnetic breaker up to 600 A is judged on the NETA table"
-              error={errors.bandMaxSeconds}
+              error={e("bandMaxSeconds")}
             />
           </>
         ) : (
           <>
             {needsSetting ? (
-              <NumberField label="Instantaneous setting (A)" name="settingAmps" required error={errors.settingAmps} />
+              <NumberField
+                label="Instantaneous setting (A)"
+                {...form.register("settingAmps")}
+                required
+                error={e("settingAmps")}
+              />
             ) : (
               <>
                 <NumberField
                   label="Published pickup, low (A)"
-                  name="publishedLowAmps"
+                  {...form.register("publishedLowAmps")}
                   required
-                  error={errors.publishedLowAmps}
+                  error={e("publishedLowAmps")}
                 />
                 <NumberField
                   label="Published pickup, high (A)"
-                  name="publishedHighAmps"
+                  {...form.register("publishedHighAmps")}
                   required
-                  error={errors.publishedHighAmps}
+                  error={e("publishedHighAmps")}
                 />
               </>
             )}
-            <NumberField label="Pickup current (A)" name="pickupAmps" required error={errors.pickupAmps} />
+            <NumberField label="Pickup current (A)" {...form.register("pickupAmps")} required error={e("pickupAmps")} />
           </>
         )}
-        <TextField label="Test set" name="instrument" />
-        <WhenField error={errors.measuredAt} />
-        <TextField label="Notes" name="notes" className="sm:col-span-2" />
+        <TextField label="Test set" {...form.register("instrument")} error={e("instrument")} />
+        <WhenField {...form.register("measuredAt")} error={e("measuredAt")} />
+        <TextField label="Notes" {...form.register("notes")} className="sm:col-span-2" error={e("notes")} />
       </FormShell>
       {queued && <KeptOnPhone what="Trip test" />}
       {saved && (
