@@ -1,21 +1,48 @@
-import { useState, type FormEvent } from "react";
+import { useMemo, useState } from "react";
+import { useFieldArray } from "react-hook-form";
+import { z } from "zod";
 import { SelectField, TextField } from "../../../components/field";
+import {
+  blankAsNull,
+  fieldError,
+  formMessage,
+  localDateTime,
+  numberText,
+  showSaveError,
+  useSchemaForm,
+} from "../../../lib/form";
 import { CONDUCTORS, CONDUCTOR_LABELS, stepVoltageBody, type StepVoltageTest } from "../../../schemas/readings";
 import { useRecordStepTest } from "../api";
-import { fieldErrors, numOrNull, sig, toIso } from "../format";
-import {
-  ComponentSelect,
-  FormShell,
-  KeptOnPhone,
-  NumberField,
-  WhenField,
-  saveErrors,
-  type TargetOption,
-} from "./form-bits";
+import { localNow, sig } from "../format";
+import { circuitOf } from "./circuit-target-fields";
+import { ComponentSelect, FormShell, KeptOnPhone, NumberField, WhenField, type TargetOption } from "./form-bits";
 import { JudgedResult } from "./judged-result";
 import { LiveWorkCaution } from "./live-work-caution";
 
 const START_VOLTS = [250, 500, 1000];
+
+/** The form's text → the request body; stepVoltageBody (shared with the server) validates it. */
+const stepVoltageForm = (options: TargetOption[]) =>
+  z
+    .object({
+      componentId: blankAsNull,
+      circuit: z.string(),
+      conductors: z.string(),
+      equipmentTempC: numberText,
+      steps: z.array(z.object({ testVoltsDc: numberText, megohms: numberText })),
+      instrument: z.string(),
+      notes: z.string(),
+      measuredAt: localDateTime,
+    })
+    .transform(
+      (v) =>
+        ({
+          ...v,
+          circuit: circuitOf({ componentId: v.componentId ?? "", circuit: v.circuit }, options),
+        }) as z.input<typeof stepVoltageBody>,
+    )
+    .pipe(stepVoltageBody);
+type StepVoltageFormValues = z.input<ReturnType<typeof stepVoltageForm>>;
 
 /**
  * A step-voltage test: the same insulation read at rising DC test voltages. The server judges
@@ -33,63 +60,46 @@ export function StepVoltageForm({
   defaultComponentId?: string;
 }) {
   const save = useRecordStepTest(siteId, boardId);
-  const [rows, setRows] = useState<Array<{ key: number; volts?: number }>>(() =>
-    START_VOLTS.map((v, i) => ({ key: i, volts: v })),
+  const schema = useMemo(() => stepVoltageForm(options), [options]);
+  const defaults = useMemo<StepVoltageFormValues>(
+    () => ({
+      componentId: defaultComponentId ?? "",
+      circuit: "",
+      conductors: "A-G",
+      equipmentTempC: "",
+      steps: START_VOLTS.map((v) => ({ testVoltsDc: String(v), megohms: "" })),
+      instrument: "",
+      notes: "",
+      measuredAt: localNow(),
+    }),
+    [defaultComponentId],
   );
-  const [errors, setErrors] = useState<Record<string, string>>({});
-  const [message, setMessage] = useState<string | null>(null);
+  const form = useSchemaForm(schema, defaults);
+  const errors = form.formState.errors;
+  const steps = useFieldArray({ control: form.control, name: "steps" });
   const [saved, setSaved] = useState<StepVoltageTest | null>(null);
   const [queued, setQueued] = useState(false);
+  const e = (name: Parameters<typeof fieldError<StepVoltageFormValues>>[1]) => fieldError(errors, name);
+  // A rule on the steps as a whole (two steps at one voltage) sits on the list, not on one step.
+  const stepsError = e("steps") ?? fieldError(errors.steps ?? {}, "root");
 
-  function submit(e: FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    const f = new FormData(e.currentTarget);
-    const componentId = String(f.get("componentId") || "") || null;
-    const typed = String(f.get("circuit") ?? "").trim();
-    const body = {
-      componentId,
-      circuit: typed || (options.find((o) => o.componentId === componentId)?.circuit ?? ""),
-      conductors: String(f.get("conductors")),
-      equipmentTempC: numOrNull(f.get("equipmentTempC")),
-      steps: rows.map((r) => ({
-        testVoltsDc: numOrNull(f.get(`volts${r.key}`)),
-        megohms: numOrNull(f.get(`megohms${r.key}`)),
-      })),
-      instrument: String(f.get("instrument") ?? ""),
-      notes: String(f.get("notes") ?? ""),
-      measuredAt: toIso(String(f.get("measuredAt") ?? "")),
-    };
-    const parsed = stepVoltageBody.safeParse(body);
-    setMessage(null);
-    if (!parsed.success) {
-      setErrors(fieldErrors(parsed.error.issues));
-      setMessage("Check the fields marked below.");
-      return;
-    }
-    setErrors({});
-    const named = options.find((o) => o.componentId === parsed.data.componentId)?.designation ?? parsed.data.circuit;
-    save.mutate(
-      { ...parsed.data, label: `${named || "a circuit"} ${parsed.data.conductors}` },
-      {
-        onSuccess: (r) => {
-          setQueued(r.queued);
-          setSaved(r.queued ? null : r.data);
-        },
-        onError: (err) => {
-          const s = saveErrors(err);
-          setErrors(s.fields);
-          setMessage(s.message);
-        },
+  const submit = form.handleSubmit((body) => {
+    const named = options.find((o) => o.componentId === body.componentId)?.designation ?? body.circuit;
+    return save.mutateAsync({ ...body, label: `${named || "a circuit"} ${body.conductors}` }).then(
+      (r) => {
+        setQueued(r.queued);
+        setSaved(r.queued ? null : r.data);
       },
+      (err) => showSaveError(form, err),
     );
-  }
+  });
 
   return (
     <div className="space-y-3">
       <FormShell
         title="Record a step-voltage test"
-        onSubmit={submit}
-        error={message}
+        onSubmit={(ev) => void submit(ev)}
+        error={formMessage(errors)}
         busy={save.isPending}
         submitLabel="Save step test"
       >
@@ -97,50 +107,53 @@ export function StepVoltageForm({
         <ComponentSelect
           options={options}
           allowNone="No component: name the circuit"
-          defaultValue={defaultComponentId ?? ""}
-          error={errors.componentId}
+          {...form.register("componentId")}
+          error={e("componentId")}
         />
         <TextField
           label="Circuit"
-          name="circuit"
+          {...form.register("circuit")}
           hint="Filled from the component when left empty"
-          error={errors.circuit}
+          error={e("circuit")}
         />
-        <SelectField label="Conductors tested" name="conductors" defaultValue="A-G" error={errors.conductors}>
+        <SelectField label="Conductors tested" {...form.register("conductors")} error={e("conductors")}>
           {CONDUCTORS.map((c) => (
             <option key={c} value={c}>
               {CONDUCTOR_LABELS[c]}
             </option>
           ))}
         </SelectField>
-        <NumberField label="Equipment temperature (°C, optional)" name="equipmentTempC" error={errors.equipmentTempC} />
+        <NumberField
+          label="Equipment temperature (°C, optional)"
+          {...form.register("equipmentTempC")}
+          error={e("equipmentTempC")}
+        />
         <fieldset className="space-y-2 sm:col-span-2">
           <legend className="text-sm font-semibold text-mist">Steps, lowest voltage first</legend>
-          {errors.steps && (
+          {stepsError && (
             <p role="alert" className="text-sm text-flare-300">
-              {errors.steps}
+              {stepsError}
             </p>
           )}
-          {rows.map((r, i) => (
-            <div key={r.key} className="grid grid-cols-[1fr_1fr_auto] items-end gap-2">
+          {steps.fields.map((r, i) => (
+            <div key={r.id} className="grid grid-cols-[1fr_1fr_auto] items-end gap-2">
               <NumberField
                 label={`Step ${i + 1} (V DC)`}
-                name={`volts${r.key}`}
-                defaultValue={r.volts}
+                {...form.register(`steps.${i}.testVoltsDc`)}
                 step="1"
-                error={errors[`steps.${i}`] ?? errors[`steps.${i}.testVoltsDc`]}
+                error={e(`steps.${i}`) ?? e(`steps.${i}.testVoltsDc`)}
               />
               <NumberField
                 label={`Step ${i + 1} reading (MΩ)`}
-                name={`megohms${r.key}`}
+                {...form.register(`steps.${i}.megohms`)}
                 required
-                error={errors[`steps.${i}.megohms`]}
+                error={e(`steps.${i}.megohms`)}
               />
               <button
                 type="button"
                 aria-label={`Remove step ${i + 1}`}
-                disabled={rows.length <= 2}
-                onClick={() => setRows(rows.filter((x) => x.key !== r.key))}
+                disabled={steps.fields.length <= 2}
+                onClick={() => steps.remove(i)}
                 className="min-h-12 min-w-12 rounded-md text-xl ring-1 ring-hull-500 disabled:opacity-40"
               >
                 ×
@@ -149,19 +162,16 @@ export function StepVoltageForm({
           ))}
           <button
             type="button"
-            disabled={rows.length >= 8}
-            onClick={() => {
-              const key = Math.max(...rows.map((x) => x.key)) + 1;
-              setRows([...rows, { key }]);
-            }}
+            disabled={steps.fields.length >= 8}
+            onClick={() => steps.append({ testVoltsDc: "", megohms: "" })}
             className="min-h-12 w-full rounded-md px-4 font-semibold ring-1 ring-hull-500 disabled:opacity-40 sm:w-auto"
           >
             Add a step
           </button>
         </fieldset>
-        <TextField label="Test set" name="instrument" />
-        <WhenField error={errors.measuredAt} />
-        <TextField label="Notes" name="notes" className="sm:col-span-2" />
+        <TextField label="Test set" {...form.register("instrument")} error={e("instrument")} />
+        <WhenField {...form.register("measuredAt")} error={e("measuredAt")} />
+        <TextField label="Notes" {...form.register("notes")} className="sm:col-span-2" error={e("notes")} />
       </FormShell>
       {queued && <KeptOnPhone what="Step-voltage test" />}
       {saved && (
