@@ -1,11 +1,13 @@
-import { useState, type FormEvent } from "react";
+import { useMemo, useState } from "react";
+import { z } from "zod";
 import { SelectField, TextField } from "../../../components/field";
+import { fieldError, formMessage, localDateTime, showSaveError, useSchemaForm } from "../../../lib/form";
 import { LAMP_LOOKS, PHASE_KEYS, groundHuntBody, type GroundHunt } from "../../../schemas/readings";
 import { pendingFor, useOutbox } from "../../../lib/outbox";
 import { huntStepsUrl, useRecordHuntStep } from "../api";
-import { fieldErrors, localNow, toIso } from "../format";
+import { localNow } from "../format";
 import { ChoiceChips } from "./choice-chips";
-import { FormShell, WhenField, saveErrors } from "./form-bits";
+import { FormShell, WhenField } from "./form-bits";
 import { GroundHuntLog } from "./ground-hunt-log";
 import { LiveWorkCaution } from "./live-work-caution";
 
@@ -17,6 +19,30 @@ export interface FeederOption {
 
 const LOOK_LABEL = { bright: "Bright", dim: "Dim", dark: "Dark" } as const;
 const OTHER = "__other";
+
+/** The form's text → the request body; groundHuntBody (shared with the server) validates it. */
+const groundHuntForm = (feeders: FeederOption[]) =>
+  z
+    .object({
+      hunt: z.string(),
+      feederPick: z.string(),
+      feederName: z.string(),
+      action: z.string(),
+      lamps: z.object({ A: z.string(), B: z.string(), C: z.string() }),
+      notes: z.string(),
+      measuredAt: localDateTime,
+    })
+    // A feeder from the board's list is sent by its position and name; "another feeder" by the name typed.
+    .transform(({ feederPick, feederName, ...v }) => {
+      const picked = feeders.find((p) => p.positionId === feederPick);
+      return {
+        ...v,
+        positionId: picked?.positionId ?? null,
+        feeder: picked ? `${picked.designation}${picked.circuit ? ` · ${picked.circuit}` : ""}` : feederName,
+      } as z.input<typeof groundHuntBody>;
+    })
+    .pipe(groundHuntBody);
+type GroundHuntFormValues = z.input<ReturnType<typeof groundHuntForm>>;
 
 /**
  * Hunting a ground on a live board: open one feeder at a time and log how the three lamps look
@@ -37,54 +63,37 @@ export function GroundHuntForm({
 }) {
   const save = useRecordHuntStep(siteId, boardId);
   const open = hunts.find((h) => h.finding.feeder === null);
-  const [hunt, setHunt] = useState(() => open?.hunt ?? `Ground hunt ${localNow().replace("T", " ")}`);
-  const [feeder, setFeeder] = useState(feeders[0]?.positionId ?? OTHER);
-  const [action, setAction] = useState<"opened" | "closed">("opened");
-  const [errors, setErrors] = useState<Record<string, string>>({});
-  const [message, setMessage] = useState<string | null>(null);
+  const schema = useMemo(() => groundHuntForm(feeders), [feeders]);
+  const [defaults] = useState<GroundHuntFormValues>(() => ({
+    hunt: open?.hunt ?? `Ground hunt ${localNow().replace("T", " ")}`,
+    feederPick: feeders[0]?.positionId ?? OTHER,
+    feederName: "",
+    action: "opened",
+    lamps: { A: "bright", B: "bright", C: "bright" },
+    notes: "",
+    measuredAt: localNow(),
+  }));
+  const form = useSchemaForm(schema, defaults);
+  const errors = form.formState.errors;
+  const [hunt, feeder] = form.watch(["hunt", "feederPick"]);
   const [justSaved, setJustSaved] = useState(false);
   const outbox = useOutbox();
+  const e = (name: Parameters<typeof fieldError<GroundHuntFormValues>>[1]) => fieldError(errors, name);
+  // The body's feeder (and position) is made from the list or the typed name: its message goes to whichever shows.
+  const feederError = e("feeder" as keyof GroundHuntFormValues) ?? e("positionId" as keyof GroundHuntFormValues);
 
-  function submit(e: FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    const f = new FormData(e.currentTarget);
-    const picked = feeders.find((p) => p.positionId === feeder);
-    const body = {
-      hunt,
-      positionId: picked?.positionId ?? null,
-      feeder: picked
-        ? `${picked.designation}${picked.circuit ? ` · ${picked.circuit}` : ""}`
-        : String(f.get("feederName") ?? ""),
-      action,
-      lamps: { A: f.get("lampA"), B: f.get("lampB"), C: f.get("lampC") },
-      notes: String(f.get("notes") ?? ""),
-      measuredAt: toIso(String(f.get("measuredAt") ?? "")),
-    };
-    const parsed = groundHuntBody.safeParse(body);
-    setMessage(null);
+  const submit = form.handleSubmit((body) => {
     setJustSaved(false);
-    if (!parsed.success) {
-      const fe = fieldErrors(parsed.error.issues);
-      if (fe.feeder) fe.feederName = fe.feeder;
-      setErrors(fe);
-      setMessage("Check the fields marked below.");
-      return;
-    }
-    setErrors({});
-    save.mutate(parsed.data, {
-      onSuccess: (r) => {
+    return save.mutateAsync(body).then(
+      (r) => {
         setJustSaved(!r.queued);
         // the next feeder in the list is the usual next step
         const i = feeders.findIndex((p) => p.positionId === feeder);
-        if (i >= 0 && i + 1 < feeders.length) setFeeder(feeders[i + 1].positionId);
+        if (i >= 0 && i + 1 < feeders.length) form.setValue("feederPick", feeders[i + 1].positionId);
       },
-      onError: (err) => {
-        const s = saveErrors(err);
-        setErrors(s.fields);
-        setMessage(s.message);
-      },
-    });
-  }
+      (err) => showSaveError(form, err),
+    );
+  });
 
   const current = hunts.find((h) => h.hunt === hunt.trim());
   const waiting = pendingFor(outbox.items, huntStepsUrl(siteId, boardId)).filter(
@@ -94,20 +103,18 @@ export function GroundHuntForm({
     <div className="space-y-3">
       <FormShell
         title="Log a ground-hunt step"
-        onSubmit={submit}
-        error={message}
+        onSubmit={(ev) => void submit(ev)}
+        error={formMessage(errors)}
         busy={save.isPending}
         submitLabel="Save this step"
       >
         <LiveWorkCaution kind="hunt" />
         <TextField
           label="Hunt"
-          name="hunt"
-          value={hunt}
-          onChange={(e) => setHunt(e.target.value)}
+          {...form.register("hunt")}
           list="ground-hunt-names"
           hint="Steps with the same name make one hunt"
-          error={errors.hunt}
+          error={e("hunt")}
           className="sm:col-span-2"
         />
         <datalist id="ground-hunt-names">
@@ -115,13 +122,7 @@ export function GroundHuntForm({
             <option key={h.hunt} value={h.hunt} />
           ))}
         </datalist>
-        <SelectField
-          label="Feeder"
-          name="feederPick"
-          value={feeder}
-          onChange={(e) => setFeeder(e.target.value)}
-          error={feeder === OTHER ? undefined : errors.feeder || errors.positionId}
-        >
+        <SelectField label="Feeder" {...form.register("feederPick")} error={feeder === OTHER ? undefined : feederError}>
           {feeders.map((p) => (
             <option key={p.positionId} value={p.positionId}>
               {p.designation}
@@ -130,7 +131,7 @@ export function GroundHuntForm({
           ))}
           <option value={OTHER}>Another feeder (type its name)</option>
         </SelectField>
-        {feeder === OTHER && <TextField label="Feeder name" name="feederName" error={errors.feederName} />}
+        {feeder === OTHER && <TextField label="Feeder name" {...form.register("feederName")} error={feederError} />}
         <ChoiceChips
           legend="What was done"
           name="action"
@@ -138,21 +139,20 @@ export function GroundHuntForm({
             ["opened", "Opened"],
             ["closed", "Closed again"],
           ]}
-          value={action}
-          onChange={setAction}
+          registered={form.register("action")}
         />
         {PHASE_KEYS.map((p) => (
           <ChoiceChips
             key={p}
             legend={`Then phase ${p} lamp`}
-            name={`lamp${p}`}
+            name={`lamps.${p}`}
             options={LAMP_LOOKS.map((l) => [l, LOOK_LABEL[l]] as const)}
-            defaultValue="bright"
+            registered={form.register(`lamps.${p}`)}
             className="[&_div]:grid-cols-3"
           />
         ))}
-        <WhenField error={errors.measuredAt} />
-        <TextField label="Notes" name="notes" />
+        <WhenField {...form.register("measuredAt")} error={e("measuredAt")} />
+        <TextField label="Notes" {...form.register("notes")} error={e("notes")} />
       </FormShell>
       {waiting.length > 0 && (
         <div
