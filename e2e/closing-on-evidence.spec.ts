@@ -106,6 +106,10 @@ test.describe("on a 360 px phone", () => {
     await page.getByRole("button", { name: "Sign out" }).click();
     await signIn(page, "curator");
     await page.goto(defectUrl);
+    // The assignment picker offers only people whose role does repair work (item: no viewer as assignee).
+    const assignees = page.getByLabel("Assigned to").locator("option");
+    await expect(assignees).toContainText(["Nobody", "Ines Marrow · curator", "Tobias Quell · volunteer"]);
+    await expect(assignees.filter({ hasText: /Pell Arbuthnot|Ada Fenwright|Rufus Lade/ })).toHaveCount(0);
     const close = page.getByRole("button", { name: "Re-tested: close" });
     await expect(close).toBeVisible();
     await expect(close).toBeDisabled();

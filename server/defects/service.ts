@@ -7,7 +7,7 @@ import { recordAudit, diff } from "../audit";
 import type { Db } from "../db";
 import { AppError, conflict, forbidden, notFound } from "../errors";
 import { allowedTargets, canEdit, checkTransition, type Actor } from "../../src/domain/defect-workflow";
-import { can } from "../../src/domain/permissions";
+import { can, rolesFor } from "../../src/domain/permissions";
 import { priorityScore, type PriorityInput } from "../../src/domain/priority";
 import type { DefectStatus } from "../../src/domain/vocab";
 import type { BulkBody, CreateDefectBody, PatchDefectBody } from "../../src/schemas/defects";
@@ -275,13 +275,21 @@ export async function patchDefect(db: Db, ctx: Ctx, id: string, body: PatchDefec
   });
 }
 
-/** THE assignment use case (curator only; the assignee must be on the crew). */
+/** THE assignment use case (curator only; the assignee must be on the crew, in a role that does repair work). */
 export async function assign(trx: Db, ctx: Ctx, d: Locked, assigneeId: string | null) {
   if (!can(ctx.actor.role, "defects.manage")) throw forbidden("Only the curator assigns defects.");
-  if (assigneeId && !(await repo.memberRole(trx, ctx.siteId, assigneeId)))
+  const role = assigneeId ? await repo.memberRole(trx, ctx.siteId, assigneeId) : null;
+  if (assigneeId && !role)
     throw new AppError(400, "invalid_input", "That person is not on this site's crew.", {
       assigneeId: "Not on the crew",
     });
+  if (assigneeId && !can(role, "defects.repair"))
+    throw new AppError(
+      422,
+      "not_a_repairer",
+      `That person is a ${role} on this site: a defect is assigned to someone whose role does repair work (${rolesFor("defects.repair").join(" or ")}).`,
+      { assigneeId: "Their role does not do repair work" },
+    );
   if (assigneeId === d.assigneeId) return d.version;
   const ok = await repo.updateDefect(trx, d.id, d.version, { assigneeId });
   if (!ok) throw conflict("Someone changed this defect at the same moment.", await current(trx, ctx.siteId, d.id));

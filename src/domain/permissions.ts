@@ -49,6 +49,8 @@ export const PERMISSIONS = {
 
   /** Raise defects; edit and move the ones they raised or work on (defect-workflow.ts decides which). */
   "defects.raise": FIELD,
+  /** Do repair work on a defect: the roles a defect may be assigned to (server/defects/service.ts `assign`). */
+  "defects.repair": FIELD,
   /** Schedule, assign, set due dates, the curator's order, defer, close, reopen, bulk changes, the repair plan. */
   "defects.manage": CURATOR,
   /** Attach photos to a defect as evidence. */

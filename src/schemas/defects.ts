@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { text, int, queryInt, isoDate } from "./common";
-import { DEFECT_CATEGORIES, DEFECT_SEVERITIES, DEFECT_STATUSES } from "../domain/vocab";
+import { DEFECT_CATEGORIES, DEFECT_SEVERITIES, DEFECT_STATUSES, ROLES } from "../domain/vocab";
 
 export const PARTS_STATES = ["none_needed", "in_hand", "wanted", "unobtainable"] as const;
 export const PARTS_STATE_LABELS: Record<(typeof PARTS_STATES)[number], string> = {
@@ -271,7 +271,7 @@ export type DefectDetail = z.infer<typeof defectDetailSchema>;
 export const optionsResponse = z.object({
   boards: z.array(z.object({ id: text(), name: text() })),
   sections: z.array(z.object({ id: text(), boardId: text(), name: text() })),
-  crew: z.array(z.object({ id: text(), name: text(), role: text() })),
+  crew: z.array(z.object({ id: text(), name: text(), role: z.enum(ROLES) })),
 });
 export type DefectOptions = z.infer<typeof optionsResponse>;
 

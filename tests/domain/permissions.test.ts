@@ -28,6 +28,7 @@ const EXPECTED: Record<Action, [boolean, boolean, boolean, boolean, boolean]> = 
   "readings.criteria": [Y, N, N, N, N],
   "defects.raise": [Y, Y, N, N, N],
   "defects.manage": [Y, N, N, N, N],
+  "defects.repair": [Y, Y, N, N, N],
   "defects.photos": [Y, Y, Y, N, N],
   "parts.edit": [Y, N, N, Y, N],
   "parts.heritage_rule": [Y, N, N, N, N],

@@ -234,6 +234,39 @@ describe("workflow", () => {
     });
     expect(outsider.status).toBe(400);
   });
+
+  it.each(["viewer", "photographer", "scrounger"] as const)(
+    "a defect cannot be assigned to a %s (422 with the reason), alone, when raised or in bulk; nothing changes",
+    async (role) => {
+      const d = (await raise(as.curator)).body.defect;
+      const r = await as.curator.post(url(`/${d.id}/assignee`), { assigneeId: fx.crew[role].id, version: d.version });
+      expect(r.status).toBe(422);
+      expect(r.body.error).toMatchObject({
+        code: "not_a_repairer",
+        message: expect.stringContaining(`is a ${role} on this site`),
+        fields: { assigneeId: expect.any(String) },
+      });
+      expect((await as.curator.get(url(`/${d.id}`))).body.defect).toMatchObject({
+        assigneeId: null,
+        version: d.version,
+      });
+      const raised = await raise(as.curator, { title: `Assigned to a ${role}`, assigneeId: fx.crew[role].id });
+      expect(raised.status).toBe(422);
+      expect((await as.curator.get(url(`?q=${encodeURIComponent(`Assigned to a ${role}`)}`))).body.total).toBe(0);
+      const bulk = await as.curator.post(url("/bulk"), {
+        ids: [d.id],
+        action: { type: "assign", assigneeId: fx.crew[role].id },
+      });
+      expect(bulk.status).toBe(409);
+      expect(bulk.body.error.fields[d.id]).toMatch(/does repair work/);
+    },
+  );
+
+  it("the options list every member with their role, so the picker can offer only those who do repairs", async () => {
+    const crew = (await as.curator.get(url("/options"))).body.crew as Array<{ id: string; role: string }>;
+    expect(crew.find((c) => c.id === fx.crew.viewer.id)?.role).toBe("viewer");
+    expect(crew.find((c) => c.id === fx.crew.volunteer.id)?.role).toBe("volunteer");
+  });
 });
 
 describe("pins", () => {

@@ -4,6 +4,7 @@ import { DEFECT_STATUSES, DEFECT_STATUS_LABELS, type DefectStatus } from "../../
 import { ApiError } from "../../../lib/api-client";
 import type { BulkBody, DefectOptions } from "../../../schemas/defects";
 import { useBulkDefects } from "../api";
+import { memberLabel, repairCrew } from "../assignees";
 
 type Kind = "assign" | "status" | "due";
 const control = "mt-1 block min-h-11 rounded-md border border-hull-500 bg-hull-900 px-2 text-chalk";
@@ -28,7 +29,7 @@ export function BulkBar({
   const [confirming, setConfirming] = useState(false);
   const [error, setError] = useState<{ message: string; items: string[] } | null>(null);
   const bulk = useBulkDefects(siteId);
-  const crew = options?.crew ?? [];
+  const crew = repairCrew(options);
 
   const action: BulkBody["action"] =
     kind === "assign"
@@ -93,7 +94,7 @@ export function BulkBar({
               <option value="">Nobody</option>
               {crew.map((c) => (
                 <option key={c.id} value={c.id}>
-                  {c.name}
+                  {memberLabel(c)}
                 </option>
               ))}
             </select>

@@ -14,6 +14,7 @@ import {
 import { ApiError } from "../../../lib/api-client";
 import { PARTS_STATES, PARTS_STATE_LABELS, type DefectOptions } from "../../../schemas/defects";
 import { useBoardPositions } from "../api";
+import { memberLabel, repairCrew } from "../assignees";
 
 export interface FormPrefill {
   boardId?: string;
@@ -243,9 +244,9 @@ export function DefectForm({
         <>
           <SelectField label="Assign to (optional)" name="assigneeId" defaultValue="" error={fields.assigneeId}>
             <option value="">Nobody yet</option>
-            {options.crew.map((c) => (
+            {repairCrew(options).map((c) => (
               <option key={c.id} value={c.id}>
-                {c.name}
+                {memberLabel(c)}
               </option>
             ))}
           </SelectField>

@@ -4,6 +4,7 @@ import { DEFECT_STATUS_LABELS, type DefectStatus } from "../../../domain/vocab";
 import { ApiError } from "../../../lib/api-client";
 import type { DefectDetail, DefectOptions } from "../../../schemas/defects";
 import { useAssignDefect, useEvidence, useMoveDefect } from "../api";
+import { memberLabel, repairCrew } from "../assignees";
 
 const VERB: Partial<Record<DefectStatus, string>> = {
   scheduled: "Schedule the work",
@@ -100,9 +101,9 @@ export function WorkflowPanel({
             onChange={(e) => assign.mutate({ assigneeId: e.target.value || null, version: d.version })}
           >
             <option value="">Nobody</option>
-            {options?.crew.map((c) => (
+            {repairCrew(options, d.assigneeId).map((c) => (
               <option key={c.id} value={c.id}>
-                {c.name}
+                {memberLabel(c)}
               </option>
             ))}
           </select>
