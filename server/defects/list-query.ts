@@ -75,7 +75,18 @@ type DefectsQuery = SelectQueryBuilder<any, any, any>;
 /** LIKE pattern for a free-text search, with the user's % and _ taken literally. */
 const likePattern = (q: string) => `%${q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
 
-export function applyFilters<QB extends DefectsQuery>(qb: QB, f: ListQuery, today: string, siteId: string): QB {
+/**
+ * The register's filters. `rowwise` tests the search on each row's own position (`p`, which the query must
+ * join) instead of collecting the site's matching positions first: the same rows, for a query that already
+ * has its few rows (a CSV page re-checking its ids), where the site-wide lookup would cost every page.
+ */
+export function applyFilters<QB extends DefectsQuery>(
+  qb: QB,
+  f: ListQuery,
+  today: string,
+  siteId: string,
+  rowwise = false,
+): QB {
   let q = qb as DefectsQuery;
   if (f.q) {
     const pat = likePattern(f.q);
@@ -87,7 +98,9 @@ export function applyFilters<QB extends DefectsQuery>(qb: QB, f: ListQuery, toda
     q = q.where((eb) => {
       const ors: Expression<SqlBool>[] = [
         sql<SqlBool>`(d.title || ' ' || d.description) ILIKE ${pat}`,
-        sql<SqlBool>`d.position_id = ANY(ARRAY(SELECT sp.id FROM positions sp WHERE sp.site_id = ${siteId} AND sp.designation ILIKE ${pat}))`,
+        rowwise
+          ? sql<SqlBool>`p.designation ILIKE ${pat}`
+          : sql<SqlBool>`d.position_id = ANY(ARRAY(SELECT sp.id FROM positions sp WHERE sp.site_id = ${siteId} AND sp.designation ILIKE ${pat}))`,
       ];
       if (refMatch) ors.push(eb("d.ref", "=", Number(refMatch[1])));
       return eb.or(ors);
@@ -269,6 +282,27 @@ export async function listPage(db: Db, siteId: string, f: ListQuery, today: stri
   const byId = new Map(rows.map((r) => [r.id, r]));
   return { rows: ids.map((r) => byId.get(r.id)!), total: Number(count.n) };
 }
+
+/**
+ * The rows of `ids` that still match `f`, in the order of `ids` (issue 15: the CSV's pages; the caller
+ * selects the columns). The ids
+ * drive the query as an array with its positions (`unnest … WITH ORDINALITY`), so each row is one
+ * primary-key lookup and a page costs its own rows; `d.id IN (…)` let PostgreSQL scan every defect of
+ * the site for each page, which made the export's time grow with the square of its rows.
+ */
+export const rowsInOrder = (db: Db, siteId: string, f: ListQuery, today: string, ids: string[]) =>
+  applyFilters(
+    registerBase(db, siteId).innerJoin(
+      sql<{ id: string; n: number }>`(SELECT x.id, x.n FROM unnest(${ids}::uuid[]) WITH ORDINALITY AS x(id, n))`.as(
+        "o",
+      ),
+      (j) => j.onRef("o.id", "=", "d.id"),
+    ),
+    f,
+    today,
+    siteId,
+    true,
+  ).orderBy(sql`o.n`);
 
 /** The filtered, sorted register without paging (CSV export runs it through a cursor). */
 export const registerQuery = (db: Db, siteId: string, f: ListQuery, today: string) =>

@@ -36,16 +36,60 @@ function formatter(zone: string) {
   return f;
 }
 
+/** Wall-clock parts of `ms` in `zone` through Intl (ICU's copy of the IANA tz database). */
+function partsOf(ms: number, zone: string) {
+  const p = Object.fromEntries(
+    formatter(zone)
+      .formatToParts(ms)
+      .map((x) => [x.type, x.value]),
+  );
+  return p as Record<"year" | "month" | "day" | "hour" | "minute" | "second", string>;
+}
+
+const HOUR_MS = 3_600_000;
+/** Per zone: UTC hour → the zone's offset in ms for that whole hour, or null when an offset change falls inside it. */
+const hourOffsets = new Map<string, Map<number, number | null>>();
+
+/** The zone's offset (wall clock − UTC) at whole second `ms`, read through Intl. */
+function offsetAt(ms: number, zone: string) {
+  const p = partsOf(ms, zone);
+  return Date.UTC(+p.year, +p.month - 1, +p.day, +p.hour, +p.minute, +p.second) - ms;
+}
+
+/**
+ * The offset that holds for the whole UTC hour containing `ms`, or null. An hour whose first and last second
+ * have the same offset has it throughout (zones change offset at most once within hours of each other), so one
+ * pair of Intl calls serves every time in that hour (issue 15: an export formats two times per row).
+ */
+function hourOffset(ms: number, zone: string): number | null {
+  let byHour = hourOffsets.get(zone);
+  if (!byHour) hourOffsets.set(zone, (byHour = new Map()));
+  const hour = Math.floor(ms / HOUR_MS);
+  let off = byHour.get(hour);
+  if (off === undefined) {
+    const start = hour * HOUR_MS;
+    const a = offsetAt(start, zone);
+    off = a === offsetAt(start + HOUR_MS - 1000, zone) ? a : null;
+    if (byHour.size > 50_000) byHour.clear(); // a long-running server meets new hours for ever
+    byHour.set(hour, off);
+  }
+  return off;
+}
+
+const two = (n: number) => (n < 10 ? `0${n}` : String(n));
+
 /** "YYYY-MM-DD HH:mm:ss" in `zone`; "" for no time. */
 export function localDateTime(at: Date | string | null | undefined, zone: string): string {
   if (at === null || at === undefined || at === "") return "";
   const d = typeof at === "string" ? new Date(at) : at;
-  if (Number.isNaN(d.getTime())) return "";
-  const p = Object.fromEntries(
-    formatter(zone)
-      .formatToParts(d)
-      .map((x) => [x.type, x.value]),
-  );
+  const ms = d.getTime();
+  if (Number.isNaN(ms)) return "";
+  const whole = Math.floor(ms / 1000) * 1000;
+  const off = hourOffset(whole, zone);
+  const w = off === null ? null : new Date(whole + off);
+  if (w && w.getUTCFullYear() >= 1000 && w.getUTCFullYear() <= 9999)
+    return `${w.getUTCFullYear()}-${two(w.getUTCMonth() + 1)}-${two(w.getUTCDate())} ${two(w.getUTCHours())}:${two(w.getUTCMinutes())}:${two(w.getUTCSeconds())}`;
+  const p = partsOf(ms, zone);
   return `${p.year}-${p.month}-${p.day} ${p.hour}:${p.minute}:${p.second}`;
 }
 

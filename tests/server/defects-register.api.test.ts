@@ -7,6 +7,8 @@ import { createTestDb, type TestDb } from "../helpers/db";
 import { makeCrew } from "../helpers/fixtures";
 import { startTestServer, type Client, type TestServer } from "../helpers/http";
 import { makeBoard } from "./defects-fixtures";
+import { writeDefectsCsv } from "../../server/defects/csv";
+import { listQuery } from "../../src/schemas/defects";
 
 let t: TestDb;
 let server: TestServer;
@@ -267,6 +269,93 @@ describe("CSV export", () => {
     const rows = Papa.parse<string[]>((await res.text()).trimEnd()).data; // Response.text() drops the BOM;
     expect(rows).toHaveLength(2);
     expect(rows[1][1]).toBe('\'=HYPERLINK("http://x")');
+  });
+});
+
+describe("CSV export over many pages", () => {
+  /** The CSV written in pages of `batch` rows straight into memory (the route writes pages of 1,000). */
+  const csvInPages = async (qs: string, batch: number, between?: (page: number) => Promise<void>) => {
+    let text = "";
+    let pages = 0;
+    const params = new URLSearchParams(qs); // repeated keys as lists, as the route's query parser gives them
+    const f = listQuery.parse(
+      Object.fromEntries(
+        [...params.keys()].map((k) => [k, params.getAll(k).length > 1 ? params.getAll(k) : params.get(k)]),
+      ),
+    );
+    await writeDefectsCsv(
+      t.db,
+      fx.siteId,
+      "UTC",
+      f,
+      "2027-01-10",
+      {
+        write: async (chunk) => {
+          text += chunk;
+          await between?.(pages++);
+        },
+        end() {},
+      },
+      undefined,
+      batch,
+    );
+    const [header, ...rows] = Papa.parse<string[]>(text.slice(1).trimEnd()).data;
+    expect(header[0]).toBe("Ref");
+    return rows;
+  };
+  const refsOf = async (ids: string[]) => {
+    const refs = new Map(
+      (await t.db.selectFrom("defects").select(["id", "ref"]).where("siteId", "=", fx.siteId).execute()).map((d) => [
+        d.id,
+        `D-${d.ref}`,
+      ]),
+    );
+    return ids.map((id) => refs.get(id));
+  };
+
+  it("pages of 7 laid end to end are the register's ranked order, pins included, and its filtered and searched views", async () => {
+    expect(
+      (await t.db.selectFrom("defectPins").select("id").where("removedAt", "is", null).execute()).length,
+    ).toBeGreaterThan(0); // the pins of the ranked-order test above
+    for (const qs of [
+      "sort=priority&dir=desc",
+      "sort=priority&dir=asc",
+      "sort=title&dir=asc",
+      "sort=priority&dir=desc&severity=impaired&severity=disabling",
+      "sort=priority&dir=desc&q=verdigris",
+      "sort=ref&dir=asc&q=1-2", // matches a position's designation, not defect text
+    ]) {
+      const expected = await refsOf(await ids(`${qs}&size=200&today=2027-01-10`));
+      expect(expected.length).toBeGreaterThan(0);
+      expect((await csvInPages(qs, 7)).map((r) => r[0])).toEqual(expected);
+    }
+  });
+
+  it("a defect that stops matching before its page is read is left out; one that changes is written as it is then", async () => {
+    const order = await ids("sort=ref&dir=asc&severity=disabling&size=200");
+    expect(order.length).toBeGreaterThan(9);
+    // In pages of 3, with the next page read while one is written: once the first page is written the second
+    // is read, and rows 8 and 9 (the third and fourth pages) are not.
+    const [gone, changed] = order.slice(8);
+    const title = (await t.db.selectFrom("defects").select("title").where("id", "=", changed).executeTakeFirstOrThrow())
+      .title;
+    try {
+      const rows = await csvInPages("sort=ref&dir=asc&severity=disabling", 3, async (page) => {
+        if (page !== 1) return; // once the header and the first page are written
+        await t.db.updateTable("defects").set({ severity: "cosmetic" }).where("id", "=", gone).execute();
+        await t.db
+          .updateTable("defects")
+          .set({ title: "Renamed during the export" })
+          .where("id", "=", changed)
+          .execute();
+      });
+      const [goneRef, changedRef] = await refsOf([gone, changed]);
+      expect(rows.map((r) => r[0])).toEqual((await refsOf(order)).filter((ref) => ref !== goneRef));
+      expect(rows.find((r) => r[0] === changedRef)![1]).toBe("Renamed during the export");
+    } finally {
+      await t.db.updateTable("defects").set({ severity: "disabling" }).where("id", "=", gone).execute();
+      await t.db.updateTable("defects").set({ title }).where("id", "=", changed).execute();
+    }
   });
 });
 
