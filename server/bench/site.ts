@@ -244,13 +244,15 @@ export async function generateSite(
       JOIN (VALUES ${sql.raw(scores.join(","))}) sc(severity, parts, safety, original, score)
         ON sc.severity = x.severity AND sc.parts = x.parts_state AND sc.safety = x.safety AND sc.original = x.original`,
   );
-  // 40 curator's-order pins, each against an unpinned defect (pins do not chain).
+  // 40 curator's-order pins, each against an unpinned defect (pins do not chain). The second list is numbered
+  // after its OFFSET: numbered before it, its numbers started at 1001 and no pin was made (found in h4).
   await step(
     "pins",
     sql`INSERT INTO defect_pins (site_id, defect_id, relative_to, direction, reason, pinned_by)
       SELECT ${s}, a.id, b.id, CASE WHEN a.n % 2 = 0 THEN 'above' ELSE 'below' END, 'Do these together: same scaffold', ${curator}
       FROM (SELECT id, row_number() over (ORDER BY ref) n FROM defects WHERE site_id = ${s} ORDER BY ref LIMIT 40) a
-      JOIN (SELECT id, row_number() over (ORDER BY ref) n FROM defects WHERE site_id = ${s} ORDER BY ref OFFSET 1000 LIMIT 40) b ON a.n = b.n`,
+      JOIN (SELECT id, row_number() over (ORDER BY ref) n
+            FROM (SELECT id, ref FROM defects WHERE site_id = ${s} ORDER BY ref OFFSET 1000 LIMIT 40) q) b ON a.n = b.n`,
   );
   let a = performance.now();
   await db.transaction().execute((trx) => reconcileDemand(trx, s, curator));

@@ -172,11 +172,7 @@ export async function writeDefectsCsv(
   const all = ids ?? (await orderedIds(db, siteId, f, today));
   const read = (from: number) => {
     const page = all.slice(from, from + batch);
-    // eslint-disable-next-line @typescript-eslint/no-explicit-any -- rowsInOrder is untyped (see DefectsQuery)
-    const q = () =>
-      rowsInOrder(db, siteId, f, today, page)
-        .select(CSV_COLUMNS as any)
-        .execute();
+    const q = () => rowsInOrder(db, siteId, f, today, page).select(CSV_COLUMNS).execute();
     const p = readPage(q) as Promise<CsvRow[]>;
     p.catch(() => {}); // awaited below, unless the reader left first: then nobody waits for it
     return p;
