@@ -269,177 +269,179 @@ async function main() {
     const { child, base } = server;
     const cookie = await signIn(base, site.curatorEmail);
 
-    // Capture each endpoint's statements on an in-process copy of the app (same database, same session).
-    const capture = capturingDb(url);
-    const capAgent = new Agent({ keepAlive: false });
-    const app = createApp({ db: capture.db }).listen(0, "127.0.0.1");
-    await new Promise((r) => app.once("listening", r));
-    const capBase = `http://127.0.0.1:${(app.address() as AddressInfo).port}`;
-    app.requestTimeout = 0; // a slow endpoint on a very large site is measured, never cut off
-    app.headersTimeout = 0;
     const defects = site.counts.defects;
-    const all = cases(site, Math.max(1, Math.floor(defects / 25) - 5));
-    const skipped: string[] = [];
-    for (const c of all) {
-      // A case that fails here (twice) is reported and left out; the others are still measured.
-      for (let attempt = 1; !c.plan; attempt++) {
-        try {
-          await timedGet(capBase, c.path, cookie, capAgent); // warm (plans, caches)
-          capture.take();
-          c.bytes = (await timedGet(capBase, c.path, cookie, capAgent)).bytes;
-          c.plan = planReplay(capture.take());
-        } catch (e) {
-          say(`  capture of "${c.label}" failed (attempt ${attempt}): ${(e as Error).message}`);
-          if (attempt >= 2) {
-            skipped.push(c.label);
-            break;
-          }
-        }
-      }
-    }
-    const list = all.filter((c) => c.plan);
-    if (skipped.length) say(`  left out (capture failed): ${skipped.join(", ")}`);
-    app.closeAllConnections();
-    app.close();
-    await capture.close();
-
-    // 1. Endpoints against their statements replayed raw.
-    const perCase = new Map<string, { http: number[]; raw: number[]; ratio: number[] }>();
-    for (const c of list) perCase.set(c.label, { http: [], raw: [], ratio: [] });
-    for (let run = 0; run < RUNS; run++) {
-      for (const c of list) {
-        const http: number[] = [];
-        const rawMs: number[] = [];
-        try {
-          for (let i = 0; i < N + 2; i++) {
-            const h = await timedGet(base, c.path, cookie);
-            const a = performance.now();
-            await replay(raw, c.plan!);
-            const r = performance.now() - a;
-            if (i >= 2) {
-              http.push(h.ms);
-              rawMs.push(r);
+    // BENCH_ENDPOINTS=0 skips the endpoint and load cases (to re-measure the CSV alone on a kept database).
+    if (process.env.BENCH_ENDPOINTS !== "0") {
+      // Capture each endpoint's statements on an in-process copy of the app (same database, same session).
+      const capture = capturingDb(url);
+      const capAgent = new Agent({ keepAlive: false });
+      const app = createApp({ db: capture.db }).listen(0, "127.0.0.1");
+      await new Promise((r) => app.once("listening", r));
+      const capBase = `http://127.0.0.1:${(app.address() as AddressInfo).port}`;
+      app.requestTimeout = 0; // a slow endpoint on a very large site is measured, never cut off
+      app.headersTimeout = 0;
+      const all = cases(site, Math.max(1, Math.floor(defects / 25) - 5));
+      const skipped: string[] = [];
+      for (const c of all) {
+        // A case that fails here (twice) is reported and left out; the others are still measured.
+        for (let attempt = 1; !c.plan; attempt++) {
+          try {
+            await timedGet(capBase, c.path, cookie, capAgent); // warm (plans, caches)
+            capture.take();
+            c.bytes = (await timedGet(capBase, c.path, cookie, capAgent)).bytes;
+            c.plan = planReplay(capture.take());
+          } catch (e) {
+            say(`  capture of "${c.label}" failed (attempt ${attempt}): ${(e as Error).message}`);
+            if (attempt >= 2) {
+              skipped.push(c.label);
+              break;
             }
           }
-        } catch (e) {
-          say(`  "${c.label}" failed in run ${run + 1}: ${(e as Error).message} (this run left out)`);
-          continue;
         }
-        const f = perCase.get(c.label)!;
-        f.http.push(median(http));
-        f.raw.push(median(rawMs));
-        f.ratio.push(median(http) / median(rawMs));
       }
-    }
-    say(
-      `\n1. Endpoints vs the same statements replayed raw (pg) — p50 per run of ${N} requests; median [min–max] over ${RUNS} runs`,
-    );
-    say(
-      table(
-        ["endpoint", "stmts", "JSON kB", "endpoint p50 ms", "raw SQL p50 ms", "ratio"],
-        list.map((c) => {
+      const list = all.filter((c) => c.plan);
+      if (skipped.length) say(`  left out (capture failed): ${skipped.join(", ")}`);
+      app.closeAllConnections();
+      app.close();
+      await capture.close();
+
+      // 1. Endpoints against their statements replayed raw.
+      const perCase = new Map<string, { http: number[]; raw: number[]; ratio: number[] }>();
+      for (const c of list) perCase.set(c.label, { http: [], raw: [], ratio: [] });
+      for (let run = 0; run < RUNS; run++) {
+        for (const c of list) {
+          const http: number[] = [];
+          const rawMs: number[] = [];
+          try {
+            for (let i = 0; i < N + 2; i++) {
+              const h = await timedGet(base, c.path, cookie);
+              const a = performance.now();
+              await replay(raw, c.plan!);
+              const r = performance.now() - a;
+              if (i >= 2) {
+                http.push(h.ms);
+                rawMs.push(r);
+              }
+            }
+          } catch (e) {
+            say(`  "${c.label}" failed in run ${run + 1}: ${(e as Error).message} (this run left out)`);
+            continue;
+          }
           const f = perCase.get(c.label)!;
-          return [
-            c.label,
-            String(c.plan!.count),
-            (c.bytes! / 1024).toFixed(0),
-            spread(f.http),
-            spread(f.raw),
-            spread(f.ratio, 2),
-          ];
-        }),
-      ),
-    );
-
-    // 2. Concurrency on the register, with /api/health and the event-loop delay.
-    const reg = list.filter((c) => c.group === "register");
-    const load = { rps: [] as number[], rawRps: [] as number[], errors: [] as number[], p95: [] as number[] };
-    const health = { p50: [] as number[], p95: [] as number[], max: [] as number[] };
-    const eld = { p99: [] as number[], max: [] as number[] };
-    for (let run = 0; run < RUNS; run++) {
-      const agents = Array.from({ length: CLIENTS }, () => new Agent({ keepAlive: true, maxSockets: 1 }));
-      await ask(child, "eld-reset", "eld-reset");
-      const until = performance.now() + SECONDS * 1000;
-      let done = 0;
-      let errors = 0;
-      const lat: number[] = [];
-      const hl: number[] = [];
-      const healthAgent = new Agent({ keepAlive: true, maxSockets: 1 });
-      const prober = (async () => {
-        while (performance.now() < until) {
-          const a = performance.now();
-          await timedGet(base, "/api/health", null, healthAgent).catch(() => undefined);
-          hl.push(performance.now() - a);
-          await new Promise((r) => setTimeout(r, 100));
+          f.http.push(median(http));
+          f.raw.push(median(rawMs));
+          f.ratio.push(median(http) / median(rawMs));
         }
-      })();
-      const t0 = performance.now();
-      await Promise.all(
-        Array.from({ length: CLIENTS }, async (_, k) => {
-          for (let i = k; performance.now() < until; i++) {
-            try {
-              lat.push((await timedGet(base, reg[i % reg.length].path, cookie, agents[k])).ms);
-              done++;
-            } catch {
-              errors++;
-            }
-          }
-        }),
+      }
+      say(
+        `\n1. Endpoints vs the same statements replayed raw (pg) — p50 per run of ${N} requests; median [min–max] over ${RUNS} runs`,
       );
-      const secs = (performance.now() - t0) / 1000;
-      await prober;
-      const e = await ask<{ p99: number; max: number }>(child, "eld-read", "eld");
-      for (const ag of agents) ag.destroy();
-      healthAgent.destroy();
-      let rawDone = 0;
-      const rawUntil = performance.now() + SECONDS * 1000;
-      const r0 = performance.now();
-      await Promise.all(
-        Array.from({ length: CLIENTS }, async (_, k) => {
-          for (let i = k; performance.now() < rawUntil; i++) {
-            await replay(raw, reg[i % reg.length].plan!);
-            rawDone++;
-          }
-        }),
+      say(
+        table(
+          ["endpoint", "stmts", "JSON kB", "endpoint p50 ms", "raw SQL p50 ms", "ratio"],
+          list.map((c) => {
+            const f = perCase.get(c.label)!;
+            return [
+              c.label,
+              String(c.plan!.count),
+              (c.bytes! / 1024).toFixed(0),
+              spread(f.http),
+              spread(f.raw),
+              spread(f.ratio, 2),
+            ];
+          }),
+        ),
       );
-      const rawSecs = (performance.now() - r0) / 1000;
-      load.rps.push(done / secs);
-      load.rawRps.push(rawDone / rawSecs);
-      load.errors.push(errors);
-      load.p95.push(percentile(lat, 95));
-      health.p50.push(percentile(hl, 50));
-      health.p95.push(percentile(hl, 95));
-      health.max.push(Math.max(...hl));
-      eld.p99.push(e.p99);
-      eld.max.push(e.max);
-    }
-    say(
-      `\n2. ${CLIENTS} clients on the register (the five cases above in turn) for ${SECONDS} s; raw = as many workers replaying the same statements on a pool of ${POOL}`,
-    );
-    say(
-      table(
-        ["figure", "median [min–max]"],
-        [
-          ["requests/s over HTTP", spread(load.rps)],
-          ["requests/s raw SQL", spread(load.rawRps)],
-          [
-            "ratio HTTP / raw",
-            spread(
-              load.rps.map((x, i) => x / load.rawRps[i]),
-              2,
-            ),
-          ],
-          ["errors", spread(load.errors, 0)],
-          ["register p95 ms", spread(load.p95)],
-          ["/api/health p50 ms", spread(health.p50)],
-          ["/api/health p95 ms", spread(health.p95)],
-          ["/api/health max ms", spread(health.max)],
-          ["event-loop delay p99 ms", spread(eld.p99)],
-          ["event-loop delay max ms", spread(eld.max)],
-        ],
-      ),
-    );
 
+      // 2. Concurrency on the register, with /api/health and the event-loop delay.
+      const reg = list.filter((c) => c.group === "register");
+      const load = { rps: [] as number[], rawRps: [] as number[], errors: [] as number[], p95: [] as number[] };
+      const health = { p50: [] as number[], p95: [] as number[], max: [] as number[] };
+      const eld = { p99: [] as number[], max: [] as number[] };
+      for (let run = 0; run < RUNS; run++) {
+        const agents = Array.from({ length: CLIENTS }, () => new Agent({ keepAlive: true, maxSockets: 1 }));
+        await ask(child, "eld-reset", "eld-reset");
+        const until = performance.now() + SECONDS * 1000;
+        let done = 0;
+        let errors = 0;
+        const lat: number[] = [];
+        const hl: number[] = [];
+        const healthAgent = new Agent({ keepAlive: true, maxSockets: 1 });
+        const prober = (async () => {
+          while (performance.now() < until) {
+            const a = performance.now();
+            await timedGet(base, "/api/health", null, healthAgent).catch(() => undefined);
+            hl.push(performance.now() - a);
+            await new Promise((r) => setTimeout(r, 100));
+          }
+        })();
+        const t0 = performance.now();
+        await Promise.all(
+          Array.from({ length: CLIENTS }, async (_, k) => {
+            for (let i = k; performance.now() < until; i++) {
+              try {
+                lat.push((await timedGet(base, reg[i % reg.length].path, cookie, agents[k])).ms);
+                done++;
+              } catch {
+                errors++;
+              }
+            }
+          }),
+        );
+        const secs = (performance.now() - t0) / 1000;
+        await prober;
+        const e = await ask<{ p99: number; max: number }>(child, "eld-read", "eld");
+        for (const ag of agents) ag.destroy();
+        healthAgent.destroy();
+        let rawDone = 0;
+        const rawUntil = performance.now() + SECONDS * 1000;
+        const r0 = performance.now();
+        await Promise.all(
+          Array.from({ length: CLIENTS }, async (_, k) => {
+            for (let i = k; performance.now() < rawUntil; i++) {
+              await replay(raw, reg[i % reg.length].plan!);
+              rawDone++;
+            }
+          }),
+        );
+        const rawSecs = (performance.now() - r0) / 1000;
+        load.rps.push(done / secs);
+        load.rawRps.push(rawDone / rawSecs);
+        load.errors.push(errors);
+        load.p95.push(percentile(lat, 95));
+        health.p50.push(percentile(hl, 50));
+        health.p95.push(percentile(hl, 95));
+        health.max.push(Math.max(...hl));
+        eld.p99.push(e.p99);
+        eld.max.push(e.max);
+      }
+      say(
+        `\n2. ${CLIENTS} clients on the register (the five cases above in turn) for ${SECONDS} s; raw = as many workers replaying the same statements on a pool of ${POOL}`,
+      );
+      say(
+        table(
+          ["figure", "median [min–max]"],
+          [
+            ["requests/s over HTTP", spread(load.rps)],
+            ["requests/s raw SQL", spread(load.rawRps)],
+            [
+              "ratio HTTP / raw",
+              spread(
+                load.rps.map((x, i) => x / load.rawRps[i]),
+                2,
+              ),
+            ],
+            ["errors", spread(load.errors, 0)],
+            ["register p95 ms", spread(load.p95)],
+            ["/api/health p50 ms", spread(health.p50)],
+            ["/api/health p95 ms", spread(health.p95)],
+            ["/api/health max ms", spread(health.max)],
+            ["event-loop delay p99 ms", spread(eld.p99)],
+            ["event-loop delay max ms", spread(eld.max)],
+          ],
+        ),
+      );
+    }
     // 3. CSV export of every defect vs COPY of the same SELECT.
     // The export's own columns and order: COPY writes the same rows the CSV holds (before h4 it selected every
     // register column, ids included: 30 MB against the export's 13).
