@@ -423,3 +423,71 @@ test.describe("a refresh that gets no answer, on a 360 px phone", () => {
     await expect(page.getByTestId("stale-marker")).toHaveCount(0, { timeout: 30_000 });
   });
 });
+
+test.describe("editing a defect with no signal, on a 360 px phone", () => {
+  test.setTimeout(180_000);
+  test.use({ viewport: { width: 360, height: 740 } });
+
+  test("an edit waits on the phone; meeting the curator's change it is compared field by field and the person's choice is saved", async ({
+    page,
+    context,
+    baseURL,
+  }) => {
+    const m = await makeBreaker(baseURL!);
+    const vol = await apiAs(baseURL!, "volunteer");
+    const raised = await vol.post(`/api/sites/${m.siteId}/defects`, {
+      data: {
+        boardId: m.boardId,
+        title: `Lug scorched ${m.designation}`,
+        category: "mechanical",
+        severity: "impaired",
+      },
+    });
+    expect(raised.status()).toBe(201);
+    const { id } = ((await raised.json()) as { defect: { id: string } }).defect;
+
+    await signIn(page, "volunteer");
+    await page.goto(`/sites/${m.siteId}/defects/${id}`);
+    await expect(page.getByRole("heading", { name: `Lug scorched ${m.designation}` })).toBeVisible();
+    await expectKept(page, ["defects", m.siteId, "detail", id]);
+
+    await goOffline(context, page);
+    await page.getByRole("button", { name: "Edit the details" }).click();
+    await page.getByLabel("What is wrong").fill(`Lug scorched and cracked ${m.designation}`);
+    await page.getByRole("button", { name: "Save" }).click();
+    await expect(page.getByTestId("edit-pending")).toContainText("Edit kept on this phone");
+    await expect(page.getByTestId("waiting-count")).toHaveText("1 waiting to send");
+
+    // Meanwhile the curator, with signal, raises its severity.
+    const curator = await apiAs(baseURL!, "curator");
+    const now = (await (await curator.get(`/api/sites/${m.siteId}/defects/${id}`)).json()) as {
+      defect: { version: number };
+    };
+    const theirs = await curator.patch(`/api/sites/${m.siteId}/defects/${id}`, {
+      data: { severity: "disabling", version: now.defect.version },
+    });
+    expect(theirs.status()).toBe(200);
+
+    await context.setOffline(false);
+    await page.evaluate(() => window.dispatchEvent(new Event("online")));
+    await expect(page.getByTestId("outbox-attention")).toBeVisible({ timeout: 30_000 });
+    await page.getByTestId("outbox-attention").click();
+    const item = page.getByTestId("outbox-conflict");
+    await expect(item.getByTestId("conflict-title")).toContainText("What is wrong");
+    await expect(item.getByTestId("conflict-title")).toContainText(`Lug scorched and cracked ${m.designation}`);
+    await expect(item.getByTestId("conflict-severity")).toContainText("disabling");
+    await expect(item).not.toContainText("blocksEnergisation");
+    await page.screenshot({ path: ".data/test-results/offline-edit-conflict.png" });
+    await item.getByLabel("Severity: keep the server's").check();
+    await item.getByRole("button", { name: "Send my choices" }).click();
+    await expect(page.getByTestId("outbox-attention")).toHaveCount(0, { timeout: 30_000 });
+    await expect(page.getByTestId("waiting-count")).toHaveText("nothing waiting", { timeout: 30_000 });
+
+    const after = (await (await curator.get(`/api/sites/${m.siteId}/defects/${id}`)).json()) as {
+      defect: { title: string; severity: string };
+    };
+    expect(after.defect).toMatchObject({ title: `Lug scorched and cracked ${m.designation}`, severity: "disabling" });
+    await vol.dispose();
+    await curator.dispose();
+  });
+});

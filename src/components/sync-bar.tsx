@@ -2,6 +2,7 @@ import { useQueryClient } from "@tanstack/react-query";
 import { useState, useSyncExternalStore } from "react";
 import { discard, resend, syncNow, useOutbox, type OutboxItem } from "../lib/outbox";
 import { fieldLabel } from "../schemas/field-labels";
+import { Conflict, primitives } from "./outbox-conflict";
 import { serverRefused } from "./status";
 
 const time = (iso: string | number | null) =>
@@ -46,16 +47,6 @@ function useFailedRefresh(): { count: number; since: number | null } {
   const [count, since] = key.split(":").map(Number);
   return { count, since: since || null };
 }
-
-type Primitive = string | number | boolean | null;
-const primitives = (o: unknown): Record<string, Primitive> =>
-  Object.fromEntries(
-    Object.entries((o && typeof o === "object" ? o : {}) as Record<string, unknown>).filter(
-      ([, v]) => v === null || ["string", "number", "boolean"].includes(typeof v),
-    ),
-  ) as Record<string, Primitive>;
-const shown = (v: Primitive | undefined) =>
-  v === undefined ? "—" : v === null || v === "" ? "(empty)" : typeof v === "boolean" ? (v ? "yes" : "no") : String(v);
 
 /** A refused item: the reason, its fields to correct, send again or discard. */
 function Refused({ item }: { item: OutboxItem }) {
@@ -133,74 +124,6 @@ function Refused({ item }: { item: OutboxItem }) {
           onClick={() => void discard(item.id)}
         >
           Discard
-        </button>
-      </div>
-    </li>
-  );
-}
-
-/** A conflict: what this phone wanted beside what the server has now; the person chooses. */
-function Conflict({ item }: { item: OutboxItem }) {
-  const mine = primitives(item.body);
-  const theirs = primitives(item.error?.current);
-  const keys = [...new Set([...Object.keys(mine), ...Object.keys(theirs)])].filter(
-    (k) => !["id", "siteId", "positionId", "createdAt", "updatedAt"].includes(k),
-  );
-  const currentVersion = typeof theirs.version === "number" ? theirs.version : undefined;
-  return (
-    <li className="rounded-md border-l-4 border-brass-400 bg-hull-850 p-2" data-testid="outbox-conflict">
-      <p className="font-semibold">{item.label}</p>
-      <p className="text-sm text-brass-300">{item.error?.message}</p>
-      <table className="mt-2 w-full text-left text-sm">
-        <thead>
-          <tr className="text-mist">
-            <th scope="col" className="pr-2 font-semibold">
-              Field
-            </th>
-            <th scope="col" className="pr-2 font-semibold">
-              Yours (on this phone)
-            </th>
-            <th scope="col" className="font-semibold">
-              On the server now
-            </th>
-          </tr>
-        </thead>
-        <tbody>
-          {keys.map((k) => (
-            <tr
-              key={k}
-              className={
-                mine[k] !== undefined && theirs[k] !== undefined && mine[k] !== theirs[k] ? "text-brass-300" : ""
-              }
-            >
-              <th scope="row" className="pr-2 font-normal text-mist">
-                {fieldLabel(item.kind, k)}
-              </th>
-              <td className="pr-2 font-mono">{shown(mine[k])}</td>
-              <td className="font-mono">{shown(theirs[k])}</td>
-            </tr>
-          ))}
-        </tbody>
-      </table>
-      <div className="mt-2 flex flex-wrap gap-2 text-sm">
-        <button
-          type="button"
-          className="min-h-11 rounded-md px-3 ring-1 ring-hull-500"
-          onClick={() => void discard(item.id)}
-        >
-          Keep the server's (discard mine)
-        </button>
-        <button
-          type="button"
-          className="min-h-11 rounded-md bg-brass-400 px-3 font-semibold text-hull-950"
-          onClick={() =>
-            void resend(item.id, {
-              ...(item.body as Record<string, unknown>),
-              ...(currentVersion !== undefined ? { version: currentVersion } : {}),
-            })
-          }
-        >
-          Send mine over it
         </button>
       </div>
     </li>

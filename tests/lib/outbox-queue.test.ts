@@ -202,6 +202,35 @@ describe("outbox drain", () => {
     expect(store.map.size).toBe(0);
   });
 
+  it("an offline edit (PATCH with its version) that meets a newer record is kept as a conflict; the person's choice goes with the same key and the current version", async () => {
+    const edit = item({
+      kind: "defect_edit",
+      method: "PATCH",
+      url: "/api/sites/s1/defects/d1",
+      edit: {},
+      body: { title: "Bolt sheared", severity: "degraded", version: 2 },
+    });
+    const after = item();
+    const store = memoryStore([edit, after]);
+    const current = { id: "d1", title: "Bolt loose", severity: "disabling", version: 3 };
+    const srv = fakeServer((i) =>
+      i.method === "PATCH"
+        ? { ok: false, status: 409, error: { status: 409, code: "conflict", message: "Changed meanwhile", current } }
+        : "store",
+    );
+    const r = await drain(store, "u1", srv.send);
+    expect(r.conflicts.map((c) => c.id)).toEqual([edit.id]);
+    expect(store.map.get(edit.id)).toMatchObject({ state: "conflict", method: "PATCH", error: { current } });
+    // The inspection made after it is not held back by a conflict the person has to decide.
+    expect(r.sent.map((c) => c.id)).toEqual([after.id]);
+    // Chosen: my title, the server's severity (left out, so it stays), at the version now current.
+    await store.put(resubmitted(store.map.get(edit.id)!, { title: "Bolt sheared", version: 3 }, 5));
+    const ok = fakeServer(() => ({ ok: true, status: 200, body: { defect: { id: "d1", version: 4 } } }));
+    await drain(store, "u1", ok.send, { now: () => 5 });
+    expect(ok.calls).toEqual([{ key: edit.id, body: { title: "Bolt sheared", version: 3 } }]);
+    expect(store.map.size).toBe(0);
+  });
+
   it("a photo of an inspection logged offline waits for it, then goes with the new inspection's id", async () => {
     const insp = item();
     const photo = item({

@@ -15,7 +15,7 @@ import {
   type BulkBody,
   type LinkReadingBody,
 } from "../../schemas/defects";
-import type { DefectStatus } from "../../domain/vocab";
+import { DEFECT_STATUS_LABELS, type DefectStatus } from "../../domain/vocab";
 
 export const defectKeys = {
   all: (siteId: string) => ["defects", siteId] as const,
@@ -109,9 +109,23 @@ export const useCreateDefect = (siteId: string) =>
       parse: (d) => one.parse(d).defect,
     }),
   );
-export const usePatchDefect = (siteId: string, id: string) =>
+/**
+ * A defect's fields, edited on the phone: saved at once online; with no signal kept in the outbox
+ * with the version it was based on (issue 16). A defect changed meanwhile comes back 409 with the
+ * current one, compared field by field in the sync bar.
+ */
+export const usePatchDefect = (siteId: string, id: string, ref: number) =>
   useWrite(siteId, (b: Record<string, unknown>) =>
-    api.send("PATCH", `${base(siteId)}/${id}`, b, one).then((d) => d.defect),
+    submitOrQueue({
+      siteId,
+      kind: "defect_edit",
+      label: `Edit of D-${ref}`,
+      url: `${base(siteId)}/${id}`,
+      method: "PATCH",
+      edit: {},
+      body: b,
+      parse: (d) => one.parse(d).defect,
+    }),
   );
 /** What proves the repair: linked readings (judged), after-work photos, and readings of the component to link. */
 export const useEvidence = (siteId: string, id: string) =>
@@ -127,9 +141,18 @@ export function useRefreshEvidence(siteId: string, id: string) {
 export const useLinkReading = (siteId: string, id: string) =>
   useWrite(siteId, (b: LinkReadingBody) => api.send("POST", `${base(siteId)}/${id}/readings`, b, evidenceResponse));
 
-export const useMoveDefect = (siteId: string, id: string) =>
+/** A status move (the ones the person's role may make), kept on the phone like an edit with no signal. */
+export const useMoveDefect = (siteId: string, id: string, ref: number) =>
   useWrite(siteId, (b: { to: DefectStatus; reason: string; version: number }) =>
-    api.send("POST", `${base(siteId)}/${id}/status`, b, one).then((d) => d.defect),
+    submitOrQueue({
+      siteId,
+      kind: "defect_status",
+      label: `D-${ref} to ${DEFECT_STATUS_LABELS[b.to]}`,
+      url: `${base(siteId)}/${id}/status`,
+      edit: { compareAs: { to: "status" } },
+      body: b,
+      parse: (d) => one.parse(d).defect,
+    }),
   );
 export const useAssignDefect = (siteId: string, id: string) =>
   useWrite(siteId, (b: { assigneeId: string | null; version: number }) =>

@@ -231,6 +231,8 @@ function newItem(p: {
   kind: string;
   label: string;
   url: string;
+  method?: OutboxItem["method"];
+  edit?: OutboxItem["edit"];
   body?: unknown;
   photo?: OutboxPhoto;
   dependsOn?: OutboxItem["dependsOn"];
@@ -245,8 +247,9 @@ function newItem(p: {
     createdAt: new Date(now).toISOString(),
     label: p.label,
     kind: p.kind,
-    method: "POST",
+    method: p.method ?? "POST",
     url: p.url,
+    edit: p.edit,
     body: p.body,
     photo: p.photo,
     dependsOn: p.dependsOn,
@@ -266,16 +269,20 @@ async function enqueue(item: OutboxItem) {
 export type Submitted<T> = { queued: false; data: T } | { queued: true; item: OutboxItem };
 
 /**
- * A create from a field form. Online it is sent at once exactly as before (with an Idempotency-Key,
- * so a lost answer can be repeated safely) and its answer returned; the server's refusals throw as
- * ApiError for the form to show. With no signal, or when the request gets no answer, it is kept in
- * the outbox and `{queued: true}` comes back.
+ * A create from a field form, or an edit of an existing record (`method` PATCH/PUT or a move, with
+ * `edit`, its body carrying the `version` it was based on). Online it is sent at once exactly as
+ * before (with an Idempotency-Key, so a lost answer can be repeated safely) and its answer returned;
+ * the server's refusals (a stale version's 409 too) throw as ApiError for the form to show. With no
+ * signal, or when the request gets no answer, it is kept in the outbox and `{queued: true}` comes
+ * back; a conflict met later is shown side by side in the sync bar.
  */
 export async function submitOrQueue<T>(p: {
   siteId: string;
   kind: string;
   label: string;
   url: string;
+  method?: OutboxItem["method"];
+  edit?: OutboxItem["edit"];
   body: unknown;
   parse: (data: unknown) => T;
 }): Promise<Submitted<T>> {

@@ -51,6 +51,12 @@ export interface OutboxItem {
   url: string;
   body?: unknown;
   photo?: OutboxPhoto;
+  /**
+   * An edit of an existing record (PATCH/PUT, or a move with `version`): on a conflict the person
+   * compares field by field what they sent with the record now on the server. `compareAs` names the
+   * server's field for a sent one where they differ (a status move's `to` is the record's `status`).
+   */
+  edit?: { compareAs?: Record<string, string> };
   /** Waits for another item: its created record's id goes into `field` (of body or photo fields). */
   dependsOn?: { itemId: string; field: string };
   state: OutboxState;

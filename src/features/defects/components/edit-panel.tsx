@@ -5,6 +5,7 @@ import { MoneyField } from "../../../components/money-field";
 import { DEFECT_SEVERITIES, DEFECT_SEVERITY_DEFINITIONS, DEFECT_SEVERITY_LABELS } from "../../../domain/vocab";
 import { ApiError } from "../../../lib/api-client";
 import { PARTS_STATES, PARTS_STATE_LABELS, type DefectDetail } from "../../../schemas/defects";
+import { DEFECT_FIELD_LABELS as L } from "../../../schemas/field-labels";
 import { usePatchDefect } from "../api";
 
 const num = (v: FormDataEntryValue | null) => (v === null || String(v).trim() === "" ? null : Number(v));
@@ -12,7 +13,8 @@ const num = (v: FormDataEntryValue | null) => (v === null || String(v).trim() ==
 /** Edits the defect's description and estimates; a stale version shows the server's values to start again from. */
 export function EditPanel({ siteId, detail, canManage }: { siteId: string; detail: DefectDetail; canManage: boolean }) {
   const d = detail.defect;
-  const patch = usePatchDefect(siteId, d.id);
+  const patch = usePatchDefect(siteId, d.id, d.ref);
+  const [kept, setKept] = useState(false);
   const [open, setOpen] = useState(false);
   const err = patch.error instanceof ApiError ? patch.error : null;
   const fields = err?.fields ?? {};
@@ -34,15 +36,28 @@ export function EditPanel({ siteId, detail, canManage }: { siteId: string; detai
         partsState: f.get("partsState"),
         ...(canManage ? { dueOn: (f.get("dueOn") as string) || null } : {}),
       },
-      { onSuccess: () => setOpen(false) },
+      {
+        onSuccess: (r) => {
+          setOpen(false);
+          setKept(r.queued);
+        },
+      },
     );
   }
   if (!detail.canEdit) return null;
   if (!open)
     return (
-      <Button tone="quiet" onClick={() => setOpen(true)}>
-        Edit the details
-      </Button>
+      <div className="space-y-2">
+        {kept && (
+          <p role="status" className="text-tide-300" data-testid="edit-pending">
+            Edit kept on this phone: it is sent when the signal returns (the list of changes waiting is in the bar at
+            the top).
+          </p>
+        )}
+        <Button tone="quiet" onClick={() => setOpen(true)}>
+          Edit the details
+        </Button>
+      </div>
     );
   return (
     <form
@@ -57,22 +72,16 @@ export function EditPanel({ siteId, detail, canManage }: { siteId: string; detai
           {err.status === 409 ? "Someone changed this defect meanwhile; the form now shows their values." : err.message}
         </p>
       )}
-      <TextField
-        className="md:col-span-2"
-        label="What is wrong"
-        name="title"
-        defaultValue={d.title}
-        error={fields.title}
-      />
+      <TextField className="md:col-span-2" label={L.title} name="title" defaultValue={d.title} error={fields.title} />
       <TextArea
         className="md:col-span-2"
-        label="Details"
+        label={L.description}
         name="description"
         defaultValue={d.description}
         error={fields.description}
       />
       <SelectField
-        label="Severity"
+        label={L.severity}
         name="severity"
         defaultValue={d.severity}
         hint={DEFECT_SEVERITY_DEFINITIONS[d.severity]}
@@ -83,7 +92,7 @@ export function EditPanel({ siteId, detail, canManage }: { siteId: string; detai
           </option>
         ))}
       </SelectField>
-      <SelectField label="Parts" name="partsState" defaultValue={d.partsState}>
+      <SelectField label={L.partsState} name="partsState" defaultValue={d.partsState}>
         {PARTS_STATES.map((p) => (
           <option key={p} value={p}>
             {PARTS_STATE_LABELS[p]}
@@ -97,7 +106,7 @@ export function EditPanel({ siteId, detail, canManage }: { siteId: string; detai
           defaultChecked={d.safetyCritical}
           className="h-5 w-5 accent-brass-400"
         />
-        ⚡ Safety-critical
+        ⚡ {L.safetyCritical}
       </label>
       <label className="flex min-h-11 items-center gap-2">
         <input
@@ -106,10 +115,10 @@ export function EditPanel({ siteId, detail, canManage }: { siteId: string; detai
           defaultChecked={d.blocksEnergisation}
           className="h-5 w-5 accent-brass-400"
         />
-        ■ Blocks energising its section
+        ■ {L.blocksEnergisation}
       </label>
       <TextField
-        label="Effort (hours)"
+        label={L.effortHours}
         name="effortHours"
         type="number"
         min={0}
@@ -117,10 +126,15 @@ export function EditPanel({ siteId, detail, canManage }: { siteId: string; detai
         defaultValue={d.effortHours ?? ""}
         error={fields.effortHours}
       />
-      <MoneyField label="Cost" name="costEstimate" defaultValue={d.costEstimate ?? ""} error={fields.costEstimate} />
-      <TextField label="Parts needed" name="partsNeeded" defaultValue={d.partsNeeded} />
+      <MoneyField
+        label={L.costEstimate}
+        name="costEstimate"
+        defaultValue={d.costEstimate ?? ""}
+        error={fields.costEstimate}
+      />
+      <TextField label={L.partsNeeded} name="partsNeeded" defaultValue={d.partsNeeded} />
       {canManage && (
-        <TextField label="Due on" name="dueOn" type="date" defaultValue={d.dueOn ?? ""} error={fields.dueOn} />
+        <TextField label={L.dueOn} name="dueOn" type="date" defaultValue={d.dueOn ?? ""} error={fields.dueOn} />
       )}
       <div className="flex gap-2 md:col-span-2">
         <Button type="submit" disabled={patch.isPending}>

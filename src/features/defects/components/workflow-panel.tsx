@@ -36,7 +36,8 @@ export function WorkflowPanel({
   meId?: string;
 }) {
   const d = detail.defect;
-  const move = useMoveDefect(siteId, d.id);
+  const move = useMoveDefect(siteId, d.id, d.ref);
+  const [kept, setKept] = useState<DefectStatus | null>(null);
   const assign = useAssignDefect(siteId, d.id);
   const [reason, setReason] = useState("");
   const err = move.error ?? assign.error;
@@ -57,6 +58,11 @@ export function WorkflowPanel({
       {detail.allowedTargets.length === 0 && !iRepaired && (
         <p className="text-mist">Your role cannot move this defect from “{DEFECT_STATUS_LABELS[d.status]}”.</p>
       )}
+      {kept && (
+        <p role="status" className="mt-2 text-tide-300" data-testid="move-pending">
+          Move to “{DEFECT_STATUS_LABELS[kept]}” kept on this phone: it is sent when the signal returns.
+        </p>
+      )}
       {detail.allowedTargets.length > 0 && (
         <>
           <label className="mt-2 block text-sm font-semibold text-mist">
@@ -75,7 +81,17 @@ export function WorkflowPanel({
                 tone={to === "accepted_as_is" || to === "deferred" ? "quiet" : "primary"}
                 disabled={move.isPending || (to === "closed" && !proven)}
                 aria-describedby={to === "closed" ? "close-needs" : undefined}
-                onClick={() => move.mutate({ to, reason, version: d.version }, { onSuccess: () => setReason("") })}
+                onClick={() =>
+                  move.mutate(
+                    { to, reason, version: d.version },
+                    {
+                      onSuccess: (r) => {
+                        setReason("");
+                        setKept(r.queued ? to : null);
+                      },
+                    },
+                  )
+                }
               >
                 {VERB[to] ?? DEFECT_STATUS_LABELS[to]}
               </Button>
