@@ -136,7 +136,7 @@ test("the curator bulk-assigns with one confirmation; the repair plan prints by 
   const boxes = page.locator("tbody input[type=checkbox]");
   await boxes.nth(0).check();
   await boxes.nth(1).check();
-  await page.getByLabel("Assign to").selectOption({ label: "Tobias Quell" });
+  await page.getByLabel("Assign to").selectOption({ label: "Tobias Quell · volunteer" });
   await page.getByRole("button", { name: "Apply…" }).click();
   await page.getByRole("button", { name: "Yes, change 2" }).click();
   await expect(page.getByText("2 selected")).toHaveCount(0);
