@@ -6,7 +6,7 @@ import { sql } from "kysely";
 import { recordAudit, diff } from "../audit";
 import type { Db } from "../db";
 import { AppError, conflict, forbidden, notFound } from "../errors";
-import { allowedTargets, canEdit, checkTransition, type Actor } from "../../src/domain/defect-workflow";
+import { canEdit, checkTransition, type Actor } from "../../src/domain/defect-workflow";
 import { can, rolesFor } from "../../src/domain/permissions";
 import { priorityScore, type PriorityInput } from "../../src/domain/priority";
 import type { DefectStatus } from "../../src/domain/vocab";
@@ -275,21 +275,40 @@ export async function patchDefect(db: Db, ctx: Ctx, id: string, body: PatchDefec
   });
 }
 
+/**
+ * Why `userId` may not be the one who repairs a defect — assigned to it, or recorded as having done
+ * it on the way to "awaiting re-test" — or null when they may: a member of this site's crew whose
+ * role does repair work (`defects.repair` in src/domain/permissions.ts). Both paths ask here.
+ */
+async function repairerProblem(
+  trx: Db,
+  ctx: Ctx,
+  userId: string,
+  field: "assigneeId" | "repairedBy",
+  what: string,
+): Promise<AppError | null> {
+  const role = await repo.memberRole(trx, ctx.siteId, userId);
+  if (!role)
+    return new AppError(400, "invalid_input", "That person is not on this site's crew.", {
+      [field]: "Not on the crew",
+    });
+  if (!can(role, "defects.repair"))
+    return new AppError(
+      422,
+      "not_a_repairer",
+      `That person is a ${role} on this site: ${what} someone whose role does repair work (${rolesFor("defects.repair").join(" or ")}).`,
+      { [field]: "Their role does not do repair work" },
+    );
+  return null;
+}
+
 /** THE assignment use case (curator only; the assignee must be on the crew, in a role that does repair work). */
 export async function assign(trx: Db, ctx: Ctx, d: Locked, assigneeId: string | null) {
   if (!can(ctx.actor.role, "defects.manage")) throw forbidden("Only the curator assigns defects.");
-  const role = assigneeId ? await repo.memberRole(trx, ctx.siteId, assigneeId) : null;
-  if (assigneeId && !role)
-    throw new AppError(400, "invalid_input", "That person is not on this site's crew.", {
-      assigneeId: "Not on the crew",
-    });
-  if (assigneeId && !can(role, "defects.repair"))
-    throw new AppError(
-      422,
-      "not_a_repairer",
-      `That person is a ${role} on this site: a defect is assigned to someone whose role does repair work (${rolesFor("defects.repair").join(" or ")}).`,
-      { assigneeId: "Their role does not do repair work" },
-    );
+  if (assigneeId) {
+    const problem = await repairerProblem(trx, ctx, assigneeId, "assigneeId", "a defect is assigned to");
+    if (problem) throw problem;
+  }
   if (assigneeId === d.assigneeId) return d.version;
   const ok = await repo.updateDefect(trx, d.id, d.version, { assigneeId });
   if (!ok) throw conflict("Someone changed this defect at the same moment.", await current(trx, ctx.siteId, d.id));
@@ -336,6 +355,17 @@ export async function transition(
       r.message,
       r.code === "reason_required" ? { reason: r.message } : undefined,
     );
+  // The person recorded as having done the repair passes the same test as an assignee (issue 14).
+  if (to === "awaiting_retest" && r.set.repairedBy) {
+    const problem = await repairerProblem(
+      trx,
+      ctx,
+      r.set.repairedBy,
+      "repairedBy",
+      "the repair is recorded as done by",
+    );
+    if (problem) throw problem;
+  }
   const reason = opts.reason?.trim() ?? "";
   const patch = {
     status: to,
@@ -397,7 +427,9 @@ export async function partFitted(trx: Db, ctx: Ctx, defectId: string, note: stri
     });
     d = { ...d, partsState: "in_hand", priorityScore: score, version: d.version + 1 };
   }
-  if (allowedTargets(d, ctx.actor).includes("awaiting_retest"))
+  // Moved on only when the person it would record as the repairer may repair (else whoever does it moves it on).
+  const doer = checkTransition(d, "awaiting_retest", ctx.actor);
+  if (doer.ok && (!doer.set.repairedBy || !(await repairerProblem(trx, ctx, doer.set.repairedBy, "repairedBy", ""))))
     await transition(trx, ctx, d, "awaiting_retest", { reason: note });
   return d.id;
 }

@@ -262,6 +262,30 @@ describe("workflow", () => {
     },
   );
 
+  it("the repair is recorded as done only by someone whose role does repair work (422 with the reason; 400 off the crew)", async () => {
+    let d = (await raise(as.curator)).body.defect;
+    d = (await move(as.curator, d, "under_repair")).body.defect;
+    for (const role of ["viewer", "photographer", "scrounger"] as const) {
+      const r = await move(as.curator, d, "awaiting_retest", { repairedBy: fx.crew[role].id });
+      expect(r.status).toBe(422);
+      expect(r.body.error).toMatchObject({
+        code: "not_a_repairer",
+        message: expect.stringContaining(`is a ${role} on this site`),
+        fields: { repairedBy: expect.any(String) },
+      });
+    }
+    const outsider = await move(as.curator, d, "awaiting_retest", { repairedBy: fx.crew.outsider.id });
+    expect(outsider.status).toBe(400);
+    expect(outsider.body.error.fields.repairedBy).toBeTruthy();
+    // Nothing moved, no history written.
+    const still = (await as.curator.get(url(`/${d.id}`))).body;
+    expect(still.defect).toMatchObject({ status: "under_repair", repairedBy: null, version: d.version });
+    expect(still.history.map((h: { toStatus: string }) => h.toStatus)).toEqual(["under_repair", "raised"]);
+    const ok = await move(as.curator, d, "awaiting_retest", { repairedBy: fx.crew.volunteer.id });
+    expect(ok.status).toBe(200);
+    expect(ok.body.defect).toMatchObject({ status: "awaiting_retest", repairedBy: fx.crew.volunteer.id });
+  });
+
   it("the options list every member with their role, so the picker can offer only those who do repairs", async () => {
     const crew = (await as.curator.get(url("/options"))).body.crew as Array<{ id: string; role: string }>;
     expect(crew.find((c) => c.id === fx.crew.viewer.id)?.role).toBe("viewer");
