@@ -42,15 +42,44 @@ export function neighbour(tiles: TileRow[], from: TileRow, key: string): TileRow
   return best;
 }
 
-/** The tinted band below the flood line, drawn over the face (decoration: it never carries words). */
+/**
+ * The tinted band below the flood line, drawn over the face (decoration: it never carries words).
+ * It is laid on the grid itself — the row the line crosses, at its fraction of that row, then every
+ * row below — so it stays true to the rows when a row grows to fit a tile's words.
+ */
 function WaterLine({ board }: { board: Board }) {
   if (board.waterLineMm == null || !board.faceHeightMm) return null;
-  const top = waterLineFromTop(board.waterLineMm, board.faceHeightMm) * 100;
+  const at = waterLineFromTop(board.waterLineMm, board.faceHeightMm) * board.gridRows;
+  const row = Math.floor(at); // 0-based row the line crosses
+  if (row >= board.gridRows) return null;
+  const tint =
+    "absolute inset-x-0 bg-tide-400/15 [background-image:repeating-linear-gradient(0deg,rgba(106,168,242,0.10)_0_1px,transparent_1px_10px)]";
   return (
-    <div aria-hidden="true" className="pointer-events-none absolute inset-x-0 bottom-0 z-10" style={{ top: `${top}%` }}>
-      <div className="absolute inset-0 bg-tide-400/15 [background-image:repeating-linear-gradient(0deg,rgba(106,168,242,0.10)_0_1px,transparent_1px_10px)]" />
-      <WaveStroke />
-    </div>
+    <>
+      <div
+        aria-hidden="true"
+        data-testid="water-line-band"
+        className="pointer-events-none relative z-10"
+        style={{ gridRow: `${row + 1} / span 1`, gridColumn: "1 / -1" }}
+      >
+        {/* -bottom-1.5: the tint also covers the gap to the next row. */}
+        <div
+          className={`${tint} ${row + 1 < board.gridRows ? "-bottom-1.5" : "bottom-0"}`}
+          style={{ top: `${(at - row) * 100}%` }}
+        >
+          <WaveStroke />
+        </div>
+      </div>
+      {row + 1 < board.gridRows && (
+        <div
+          aria-hidden="true"
+          className="pointer-events-none relative z-10"
+          style={{ gridRow: `${row + 2} / ${board.gridRows + 1}`, gridColumn: "1 / -1" }}
+        >
+          <div className={`${tint} inset-y-0`} />
+        </div>
+      )}
+    </>
   );
 }
 
@@ -238,7 +267,9 @@ export function BoardElevation({
         className="relative grid gap-1.5 rounded-md border-4 border-hull-700 bg-hull-900 p-1.5"
         style={{
           gridTemplateColumns: `repeat(${board.gridCols}, minmax(5.25rem, 1fr))`,
-          gridTemplateRows: `repeat(${board.gridRows}, ${ROW_REM}rem)`,
+          // Rows grow to fit a tile's words (issue 14 item 10); a windowed board keeps them even, since it
+          // places the drawn tiles from one measured row.
+          gridTemplateRows: `repeat(${board.gridRows}, ${windowed ? `${ROW_REM}rem` : `minmax(${ROW_REM}rem, auto)`})`,
           minWidth: `${board.gridCols * 5.6}rem`,
         }}
       >

@@ -4,6 +4,9 @@ import type { TileRow } from "../contract";
 import { KindGlyph } from "./kind-glyph";
 import { CUSTODY_SHORT, DISPOSITION_STYLE, custodyPattern, gradeTone } from "./tile-style";
 
+/** Designations longer than this take a smaller face on a one-column tile (9 characters of 13 px mono fill one). */
+const LONG_DESIGNATION = 9;
+
 interface Props {
   tile: TileRow;
   dimmed: boolean;
@@ -66,18 +69,32 @@ export const BoardTile = forwardRef<HTMLButtonElement, Props>(function BoardTile
           className="absolute right-0 top-0 h-0 w-0 border-l-[14px] border-t-[14px] border-l-transparent border-t-brass-300"
         />
       )}
-      <span className="flex items-start justify-between gap-1 pr-2">
-        <span className="min-w-0 truncate whitespace-nowrap font-mono text-[13px] font-bold leading-4 tracking-tight">
+      {/* Designation and grade share the first line while they fit; a long designation takes a smaller face on a
+          one-column tile and wraps (anywhere, being one word), the grade going under it — never cut (issue 14 item 10). */}
+      <span
+        className={`flex flex-wrap items-start justify-between gap-x-1 gap-y-0.5 ${c?.dispositionOverridden ? "pr-2.5" : ""}`}
+      >
+        <span
+          data-testid="tile-designation"
+          className={`min-w-0 font-mono font-bold tracking-tight [overflow-wrap:anywhere] ${
+            t.designation.length > LONG_DESIGNATION && t.colSpan === 1
+              ? "text-[11px] leading-[13px]"
+              : "text-[13px] leading-4"
+          }`}
+        >
           {t.designation}
         </span>
-        <span className={`shrink-0 rounded px-1 font-mono text-[11px] font-bold leading-4 ${gradeTone(grade)}`}>
+        <span className={`ml-auto shrink-0 rounded px-1 font-mono text-[11px] font-bold leading-4 ${gradeTone(grade)}`}>
           {grade == null ? "G –" : `G${grade}`}
         </span>
       </span>
-      <span className="mt-1 flex items-center gap-1 whitespace-nowrap text-[11px] leading-none text-mist">
-        <KindGlyph kind={t.kind} className="h-3.5 w-3.5 shrink-0" />
-        {COMPONENT_KIND_SHORT[t.kind]}
-        {c?.ratingAmps != null && <span className="text-fog">{c.ratingAmps} A</span>}
+      {/* Kind and rating wrap as two pieces when the tile is narrow ("MCCB" / "100 A"). */}
+      <span className="mt-1 flex flex-wrap items-center gap-x-1 text-[11px] leading-[14px] text-mist">
+        <span className="flex items-center gap-1 whitespace-nowrap">
+          <KindGlyph kind={t.kind} className="h-3.5 w-3.5 shrink-0" />
+          {COMPONENT_KIND_SHORT[t.kind]}
+        </span>
+        {c?.ratingAmps != null && <span className="whitespace-nowrap text-fog">{c.ratingAmps} A</span>}
       </span>
       {/* Disposition, then the photo and defect marks beside it, wrapping under it when the tile is narrow. */}
       <span className="mt-auto flex flex-wrap items-center justify-between gap-x-1 gap-y-0.5 pt-1">
