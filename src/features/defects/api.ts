@@ -13,7 +13,9 @@ import {
   positionsResponse,
   viewSchema,
   type BulkBody,
+  type CreateDefectBody,
   type LinkReadingBody,
+  type PatchDefectBody,
 } from "../../schemas/defects";
 import { DEFECT_STATUS_LABELS, type DefectStatus } from "../../domain/vocab";
 
@@ -99,11 +101,11 @@ function useWrite<TVars, TOut>(siteId: string, fn: (v: TVars) => Promise<TOut>) 
 
 /** Raising a defect from the phone: saved at once online; with no signal kept in the outbox (issue 16). */
 export const useCreateDefect = (siteId: string) =>
-  useWrite(siteId, (b: Record<string, unknown>) =>
+  useWrite(siteId, (b: CreateDefectBody) =>
     submitOrQueue({
       siteId,
       kind: "defect",
-      label: `Defect: ${typeof b.title === "string" && b.title ? b.title : "untitled"}`,
+      label: `Defect: ${b.title || "untitled"}`,
       url: base(siteId),
       body: b,
       parse: (d) => one.parse(d).defect,
@@ -115,7 +117,7 @@ export const useCreateDefect = (siteId: string) =>
  * current one, compared field by field in the sync bar.
  */
 export const usePatchDefect = (siteId: string, id: string, ref: number) =>
-  useWrite(siteId, (b: Record<string, unknown>) =>
+  useWrite(siteId, (b: PatchDefectBody) =>
     submitOrQueue({
       siteId,
       kind: "defect_edit",

@@ -131,18 +131,14 @@ export default function RaiseDefectPage() {
               severity: oneOf<DefectSeverity>(DEFECT_SEVERITIES, params.get("severity")),
             }}
             onSubmit={(b) =>
-              create.mutate(
-                { ...b, ...(fromReading ? { fromReading } : {}) },
-                {
-                  onSuccess: (r) =>
-                    r.queued
-                      ? setKept({ itemId: r.item.id, title: String(b.title ?? "") })
-                      : navigate(paths.defect.href(site.id, r.data.id)),
-                },
-              )
+              create
+                .mutateAsync({ ...b, fromReading })
+                .then((r) =>
+                  r.queued
+                    ? setKept({ itemId: r.item.id, title: b.title })
+                    : navigate(paths.defect.href(site.id, r.data.id)),
+                )
             }
-            pending={create.isPending}
-            error={create.error}
           />
         ))}
     </div>

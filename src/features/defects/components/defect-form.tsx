@@ -1,4 +1,6 @@
-import { useState, type FormEvent } from "react";
+import { useMemo } from "react";
+import { useController } from "react-hook-form";
+import { z } from "zod";
 import { Button } from "../../../components/button";
 import { SelectField, TextArea, TextField } from "../../../components/field";
 import { MoneyField } from "../../../components/money-field";
@@ -11,8 +13,14 @@ import {
   type DefectCategory,
   type DefectSeverity,
 } from "../../../domain/vocab";
-import { ApiError } from "../../../lib/api-client";
-import { PARTS_STATES, PARTS_STATE_LABELS, type DefectOptions } from "../../../schemas/defects";
+import { blankAsNull, fieldError, formMessage, numberText, showSaveError, useSchemaForm } from "../../../lib/form";
+import {
+  PARTS_STATES,
+  PARTS_STATE_LABELS,
+  createDefectBody,
+  type CreateDefectBody,
+  type DefectOptions,
+} from "../../../schemas/defects";
 import { useBoardPositions } from "../api";
 import { memberLabel, repairCrew } from "../assignees";
 
@@ -26,7 +34,48 @@ export interface FormPrefill {
   severity?: DefectSeverity;
 }
 
-const num = (v: FormDataEntryValue | null) => (v === null || String(v).trim() === "" ? null : Number(v));
+/** The form's text → the request body; createDefectBody (the server's own schema) validates it. */
+const defectForm = (prefill: FormPrefill, canManage: boolean) =>
+  z
+    .object({
+      boardId: z.string(),
+      sectionId: blankAsNull,
+      positionId: blankAsNull,
+      title: z.string(),
+      description: z.string(),
+      category: z.string(),
+      severity: z.string().nullable(),
+      safetyCritical: z.boolean(),
+      blocksEnergisation: z.boolean(),
+      effortHours: numberText,
+      costEstimate: numberText,
+      partsNeeded: z.string(),
+      partsState: z.string(),
+      assigneeId: blankAsNull,
+      dueOn: blankAsNull,
+    })
+    // The finding's component and inspection go with it only while the prefilled position is kept.
+    .transform((v) => {
+      const samePosition = !!v.positionId && v.positionId === prefill.positionId;
+      return {
+        ...v,
+        componentId: samePosition ? (prefill.componentId ?? null) : null,
+        inspectionId: samePosition ? (prefill.inspectionId ?? null) : null,
+        assigneeId: canManage ? v.assigneeId : null,
+        dueOn: canManage ? v.dueOn : null,
+      } as z.input<typeof createDefectBody>;
+    })
+    .pipe(createDefectBody);
+type DefectFormValues = z.input<ReturnType<typeof defectForm>>;
+
+/** The schema's own limit for a text field, so the input stops where the server would refuse. */
+const maxOf = (s: z.ZodString | z.ZodDefault<z.ZodString>) =>
+  (s instanceof z.ZodDefault ? s.unwrap() : s).maxLength ?? undefined;
+const MAX = {
+  title: maxOf(createDefectBody.shape.title),
+  description: maxOf(createDefectBody.shape.description),
+  partsNeeded: maxOf(createDefectBody.shape.partsNeeded),
+};
 
 /** The "raise a defect" form; the survey's quick log links here with the finding prefilled. */
 export function DefectForm({
@@ -35,77 +84,66 @@ export function DefectForm({
   prefill,
   canManage,
   onSubmit,
-  pending,
-  error,
 }: {
   siteId: string;
   options: DefectOptions;
   prefill: FormPrefill;
   canManage: boolean;
-  onSubmit: (body: Record<string, unknown>) => void;
-  pending: boolean;
-  error: unknown;
+  /** Saves the body; a refusal's messages go beside the fields. */
+  onSubmit: (body: CreateDefectBody) => Promise<unknown>;
 }) {
-  const [boardId, setBoardId] = useState(prefill.boardId ?? options.boards[0]?.id ?? "");
-  const [positionId, setPositionId] = useState(prefill.positionId ?? "");
-  const [sectionId, setSectionId] = useState(prefill.sectionId ?? "");
+  const schema = useMemo(() => defectForm(prefill, canManage), [prefill, canManage]);
+  const form = useSchemaForm(schema, {
+    boardId: prefill.boardId ?? options.boards[0]?.id ?? "",
+    sectionId: prefill.sectionId ?? "",
+    positionId: prefill.positionId ?? "",
+    title: "",
+    description: "",
+    category: prefill.category ?? "",
+    severity: prefill.severity ?? null,
+    safetyCritical: false,
+    blocksEnergisation: false,
+    effortHours: "",
+    costEstimate: "",
+    partsNeeded: "",
+    partsState: "none_needed",
+    assigneeId: "",
+    dueOn: "",
+  });
+  const { register, control, setValue, formState } = form;
+  const errors = formState.errors;
+  const e = (name: keyof DefectFormValues) => fieldError(errors, name);
+  // Board, position and section depend on each other (the position list follows the board, the section
+  // follows the position), so they are controlled: a list that arrives later still shows the chosen one.
+  const board = useController({ control, name: "boardId" });
+  const position = useController({ control, name: "positionId" });
+  const section = useController({ control, name: "sectionId" });
+  const boardId = board.field.value;
   const positions = useBoardPositions(siteId, boardId);
-  // Choosing a position (or its list arriving) sets the section to the position's own; adjusted while
-  // rendering (React's "storing information from previous renders"), not in an effect.
-  const chosen = positions.data?.find((x) => x.id === positionId);
-  const [sectionFrom, setSectionFrom] = useState<string | null>(null);
-  if ((chosen?.id ?? null) !== sectionFrom) {
-    setSectionFrom(chosen?.id ?? null);
-    if (chosen) setSectionId(chosen.sectionId ?? "");
-  }
-  const fields = error instanceof ApiError ? error.fields : {};
+  const message = formMessage(errors);
 
-  function submit(e: FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    const f = new FormData(e.currentTarget);
-    const linkedSamePosition = positionId && positionId === prefill.positionId;
-    onSubmit({
-      boardId,
-      sectionId: sectionId || null,
-      positionId: positionId || null,
-      componentId: linkedSamePosition ? (prefill.componentId ?? null) : null,
-      inspectionId: linkedSamePosition ? (prefill.inspectionId ?? null) : null,
-      title: f.get("title"),
-      description: f.get("description"),
-      category: f.get("category"),
-      severity: f.get("severity"),
-      safetyCritical: f.get("safetyCritical") === "on",
-      blocksEnergisation: f.get("blocksEnergisation") === "on",
-      effortHours: num(f.get("effortHours")),
-      costEstimate: num(f.get("costEstimate")),
-      partsNeeded: f.get("partsNeeded"),
-      partsState: f.get("partsState"),
-      ...(canManage
-        ? { assigneeId: (f.get("assigneeId") as string) || null, dueOn: (f.get("dueOn") as string) || null }
-        : {}),
-    });
-  }
+  const submit = form.handleSubmit((body) => onSubmit(body).catch((err: unknown) => showSaveError(form, err)));
 
   return (
     <form
-      onSubmit={submit}
+      onSubmit={(ev) => void submit(ev)}
       noValidate
       className="grid gap-4 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700 md:grid-cols-2"
     >
-      {error instanceof ApiError && (
+      {message && (
         <p role="alert" className="text-flare-300 md:col-span-2">
-          {error.message}
+          {message}
         </p>
       )}
       <SelectField
         label="Board"
-        value={boardId}
-        onChange={(e) => {
-          setBoardId(e.target.value);
-          setPositionId("");
-          setSectionId("");
+        {...board.field}
+        onChange={(ev) => {
+          board.field.onChange(ev);
+          setValue("positionId", "");
+          setValue("sectionId", "");
         }}
-        error={fields.boardId}
+        error={e("boardId")}
       >
         {options.boards.map((b) => (
           <option key={b.id} value={b.id}>
@@ -115,9 +153,13 @@ export function DefectForm({
       </SelectField>
       <SelectField
         label="Position (optional)"
-        value={positionId}
-        onChange={(e) => setPositionId(e.target.value)}
-        error={fields.positionId}
+        {...position.field}
+        onChange={(ev) => {
+          position.field.onChange(ev);
+          const chosen = positions.data?.find((x) => x.id === ev.target.value);
+          if (chosen) setValue("sectionId", chosen.sectionId ?? "");
+        }}
+        error={e("positionId")}
       >
         <option value="">Whole board or section</option>
         {positions.data?.map((p) => (
@@ -126,12 +168,7 @@ export function DefectForm({
           </option>
         ))}
       </SelectField>
-      <SelectField
-        label="Section (optional)"
-        value={sectionId}
-        onChange={(e) => setSectionId(e.target.value)}
-        error={fields.sectionId}
-      >
+      <SelectField label="Section (optional)" {...section.field} error={e("sectionId")}>
         <option value="">No section</option>
         {options.sections
           .filter((s) => s.boardId === boardId)
@@ -141,13 +178,7 @@ export function DefectForm({
             </option>
           ))}
       </SelectField>
-      <SelectField
-        label="Category"
-        name="category"
-        defaultValue={prefill.category ?? ""}
-        error={fields.category}
-        required
-      >
+      <SelectField label="Category" {...register("category")} error={e("category")} required>
         <option value="" disabled>
           Choose…
         </option>
@@ -160,25 +191,25 @@ export function DefectForm({
       <TextField
         className="md:col-span-2"
         label="What is wrong"
-        name="title"
+        {...register("title")}
         required
-        maxLength={200}
-        error={fields.title}
+        maxLength={MAX.title}
+        error={e("title")}
         placeholder="e.g. Arc track on the base between poles B and C"
       />
       <TextArea
         className="md:col-span-2"
         label="Details (optional)"
-        name="description"
-        maxLength={8000}
-        error={fields.description}
+        {...register("description")}
+        maxLength={MAX.description}
+        error={e("description")}
       />
       <fieldset className="md:col-span-2">
         <legend className="text-sm font-semibold text-mist">
           Severity{" "}
-          {fields.severity && (
+          {e("severity") && (
             <span role="alert" className="text-flare-300">
-              — {fields.severity}
+              — {e("severity")}
             </span>
           )}
         </legend>
@@ -188,13 +219,7 @@ export function DefectForm({
               key={s}
               className="flex min-h-11 cursor-pointer gap-3 rounded-md bg-hull-900 p-3 ring-1 ring-hull-600 has-[:checked]:ring-2 has-[:checked]:ring-brass-400"
             >
-              <input
-                type="radio"
-                name="severity"
-                value={s}
-                defaultChecked={prefill.severity === s}
-                className="mt-1 h-5 w-5 accent-brass-400"
-              />
+              <input type="radio" {...register("severity")} value={s} className="mt-1 h-5 w-5 accent-brass-400" />
               <span>
                 <span className="block font-semibold">{DEFECT_SEVERITY_LABELS[s]}</span>
                 <span className="block text-sm text-mist">{DEFECT_SEVERITY_DEFINITIONS[s]}</span>
@@ -204,7 +229,7 @@ export function DefectForm({
         </div>
       </fieldset>
       <label className="flex min-h-11 items-start gap-3 rounded-md bg-hull-900 p-3 ring-1 ring-flare-400/60">
-        <input type="checkbox" name="safetyCritical" className="mt-1 h-5 w-5 accent-brass-400" />
+        <input type="checkbox" {...register("safetyCritical")} className="mt-1 h-5 w-5 accent-brass-400" />
         <span>
           <span className="block font-semibold">⚡ Safety-critical</span>
           <span className="block text-sm text-mist">
@@ -213,7 +238,7 @@ export function DefectForm({
         </span>
       </label>
       <label className="flex min-h-11 items-start gap-3 rounded-md bg-hull-900 p-3 ring-1 ring-brass-400/60">
-        <input type="checkbox" name="blocksEnergisation" className="mt-1 h-5 w-5 accent-brass-400" />
+        <input type="checkbox" {...register("blocksEnergisation")} className="mt-1 h-5 w-5 accent-brass-400" />
         <span>
           <span className="block font-semibold">■ Blocks energising its section</span>
           <span className="block text-sm text-mist">
@@ -223,17 +248,22 @@ export function DefectForm({
       </label>
       <TextField
         label="Estimated effort (hours)"
-        name="effortHours"
+        {...register("effortHours")}
         type="number"
         min={0}
         step={0.5}
         inputMode="decimal"
-        error={fields.effortHours}
+        error={e("effortHours")}
         hint="Leave blank if unknown: it counts as a working day."
       />
-      <MoneyField label="Estimated cost" name="costEstimate" error={fields.costEstimate} />
-      <TextField label="Parts needed (optional)" name="partsNeeded" maxLength={2000} error={fields.partsNeeded} />
-      <SelectField label="Parts" name="partsState" defaultValue="none_needed" error={fields.partsState}>
+      <MoneyField label="Estimated cost" {...register("costEstimate")} error={e("costEstimate")} />
+      <TextField
+        label="Parts needed (optional)"
+        {...register("partsNeeded")}
+        maxLength={MAX.partsNeeded}
+        error={e("partsNeeded")}
+      />
+      <SelectField label="Parts" {...register("partsState")} error={e("partsState")}>
         {PARTS_STATES.map((p) => (
           <option key={p} value={p}>
             {PARTS_STATE_LABELS[p]}
@@ -242,7 +272,7 @@ export function DefectForm({
       </SelectField>
       {canManage && (
         <>
-          <SelectField label="Assign to (optional)" name="assigneeId" defaultValue="" error={fields.assigneeId}>
+          <SelectField label="Assign to (optional)" {...register("assigneeId")} error={e("assigneeId")}>
             <option value="">Nobody yet</option>
             {repairCrew(options).map((c) => (
               <option key={c.id} value={c.id}>
@@ -250,12 +280,12 @@ export function DefectForm({
               </option>
             ))}
           </SelectField>
-          <TextField label="Due on (optional)" name="dueOn" type="date" error={fields.dueOn} />
+          <TextField label="Due on (optional)" {...register("dueOn")} type="date" error={e("dueOn")} />
         </>
       )}
       <div className="md:col-span-2">
-        <Button type="submit" disabled={pending || !boardId}>
-          {pending ? "Raising…" : "Raise the defect"}
+        <Button type="submit" disabled={formState.isSubmitting || !boardId}>
+          {formState.isSubmitting ? "Raising…" : "Raise the defect"}
         </Button>
       </div>
     </form>
