@@ -42,12 +42,19 @@ export function useSchemaForm<In extends FieldValues, Out>(
   return useForm<In, unknown, Out>({ resolver: zodResolver(schema), defaultValues });
 }
 
-/** The server refused a save: its field messages beside the fields of the same name, the rest on top. */
-export function showSaveError<In extends FieldValues, Out>(form: UseFormReturn<In, unknown, Out>, err: unknown) {
+/**
+ * The server refused a save: its field messages beside the fields of the same name, the rest on top
+ * (`explain` may add to it, e.g. what a multi-step save kept).
+ */
+export function showSaveError<In extends FieldValues, Out>(
+  form: UseFormReturn<In, unknown, Out>,
+  err: unknown,
+  explain: (message: string) => string = (m) => m,
+) {
   if (err instanceof ApiError) {
     for (const [k, v] of Object.entries(err.fields ?? {})) form.setError(k as Path<In>, { message: v });
-    form.setError("root.server", { message: err.message });
-  } else form.setError("root.server", { message: "That did not save. Try again." });
+    form.setError("root.server", { message: explain(err.message) });
+  } else form.setError("root.server", { message: explain("That did not save. Try again.") });
 }
 
 /** The message above a form: the server's, or a pointer to the fields marked below. */

@@ -1,116 +1,43 @@
-import { useState, type FormEvent } from "react";
+import { useMemo, useState } from "react";
+import { z } from "zod";
 import { SelectField, TextField } from "../../../components/field";
 import { NETA_MINIMUM_INSULATION, THERMAL_CLASSES } from "../../../domain/insulation";
 import { CORRECTION_METHODS, CORRECTION_METHOD_LABELS } from "../../../domain/reading-judgement";
-import { criteriaBody, type Criteria } from "../../../schemas/readings";
+import { fieldError, formMessage, numberText, showSaveError, useSchemaForm } from "../../../lib/form";
+import { criteriaBody, type Criteria, type CriteriaBody } from "../../../schemas/readings";
 import { useSaveCriteria } from "../api";
-import { fieldErrors, numOrNull } from "../format";
-import { FormShell, NumberField, saveErrors } from "./form-bits";
+import { FormShell, NumberField } from "./form-bits";
+
+/** The form's text → the request body; criteriaBody (the server's own schema) validates it. */
+const criteriaForm = (version: number) =>
+  z
+    .object({
+      correctionMethod: z.string(),
+      insulationMedium: z.string(),
+      thermalClass: z.string(),
+      minimumMegohms: numberText,
+      minimumSource: z.string(),
+      contactOutlierPercent: numberText,
+      dewPointMarginK: numberText,
+    })
+    .transform((v) => ({ ...v, version }) as CriteriaBody)
+    .pipe(criteriaBody);
 
 /** The curator's criteria; everyone else sees the same values read-only. */
 export function CriteriaForm({ siteId, criteria, canEdit }: { siteId: string; criteria: Criteria; canEdit: boolean }) {
-  const save = useSaveCriteria(siteId);
-  const [errors, setErrors] = useState<Record<string, string>>({});
-  const [message, setMessage] = useState<string | null>(null);
   const [saved, setSaved] = useState(false);
-
-  function submit(e: FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    const f = new FormData(e.currentTarget);
-    const parsed = criteriaBody.safeParse({
-      correctionMethod: f.get("correctionMethod"),
-      insulationMedium: f.get("insulationMedium"),
-      thermalClass: f.get("thermalClass"),
-      minimumMegohms: numOrNull(f.get("minimumMegohms")),
-      minimumSource: String(f.get("minimumSource") ?? ""),
-      contactOutlierPercent: numOrNull(f.get("contactOutlierPercent")),
-      dewPointMarginK: numOrNull(f.get("dewPointMarginK")),
-      version: criteria.version,
-    });
-    setSaved(false);
-    if (!parsed.success) {
-      setErrors(fieldErrors(parsed.error.issues));
-      setMessage("Check the fields marked below.");
-      return;
-    }
-    setErrors({});
-    setMessage(null);
-    save.mutate(parsed.data, {
-      onSuccess: () => setSaved(true),
-      onError: (err) => {
-        const s = saveErrors(err);
-        setErrors(s.fields);
-        setMessage(s.message);
-      },
-    });
-  }
-
   return (
     <div className="space-y-3">
       <fieldset disabled={!canEdit}>
-        <FormShell
+        {/* A saved version starts the form again from the stored values. */}
+        <CriteriaFields
           key={criteria.version}
-          title={canEdit ? "Criteria for this site" : "Criteria for this site (set by the curator)"}
-          onSubmit={submit}
-          error={message}
-          busy={save.isPending}
-          disabled={!canEdit}
-          submitLabel="Save criteria"
-        >
-          <SelectField label="Temperature correction" name="correctionMethod" defaultValue={criteria.correctionMethod}>
-            {CORRECTION_METHODS.map((m) => (
-              <option key={m} value={m}>
-                {CORRECTION_METHOD_LABELS[m]}
-              </option>
-            ))}
-          </SelectField>
-          <SelectField
-            label="Insulation type (NETA multipliers)"
-            name="insulationMedium"
-            defaultValue={criteria.insulationMedium}
-          >
-            <option value="solid">Solid (switchboards, breakers, cables)</option>
-            <option value="oil">Oil-immersed</option>
-          </SelectField>
-          <SelectField
-            label="Thermal class (minimum PI)"
-            name="thermalClass"
-            defaultValue={criteria.thermalClass}
-            hint="IEEE 43: class A 1.5; B, F, H 2.0"
-          >
-            {THERMAL_CLASSES.map((c) => (
-              <option key={c} value={c}>
-                Class {c}
-              </option>
-            ))}
-          </SelectField>
-          <NumberField
-            label="Contact outlier threshold (% above the lowest pole)"
-            name="contactOutlierPercent"
-            defaultValue={criteria.contactOutlierPercent}
-            error={errors.contactOutlierPercent}
-            hint="NETA: 50 %"
-          />
-          <NumberField
-            label="Dew-point margin (K)"
-            name="dewPointMarginK"
-            defaultValue={criteria.dewPointMarginK}
-            error={errors.dewPointMarginK}
-            hint="An insulation reading taken with the equipment less than this above the dew point (Magnus formula, Alduchov–Eskridge coefficients), or below freezing, is not valid for judging. 3 K is common practice."
-          />
-          <NumberField
-            label="Site minimum insulation (MΩ, empty = NETA table)"
-            name="minimumMegohms"
-            defaultValue={criteria.minimumMegohms ?? ""}
-            error={errors.minimumMegohms}
-          />
-          <TextField
-            label="Source of the site minimum"
-            name="minimumSource"
-            defaultValue={criteria.minimumSource}
-            error={errors.minimumSource}
-          />
-        </FormShell>
+          siteId={siteId}
+          criteria={criteria}
+          canEdit={canEdit}
+          onSaving={() => setSaved(false)}
+          onSaved={() => setSaved(true)}
+        />
       </fieldset>
       {saved && (
         <p role="status" className="rounded-md bg-hull-800 p-3">
@@ -146,5 +73,95 @@ export function CriteriaForm({ siteId, criteria, canEdit }: { siteId: string; cr
         </p>
       </details>
     </div>
+  );
+}
+
+function CriteriaFields({
+  siteId,
+  criteria,
+  canEdit,
+  onSaving,
+  onSaved,
+}: {
+  siteId: string;
+  criteria: Criteria;
+  canEdit: boolean;
+  onSaving: () => void;
+  onSaved: () => void;
+}) {
+  const save = useSaveCriteria(siteId);
+  const schema = useMemo(() => criteriaForm(criteria.version), [criteria.version]);
+  const form = useSchemaForm(schema, {
+    correctionMethod: criteria.correctionMethod,
+    insulationMedium: criteria.insulationMedium,
+    thermalClass: criteria.thermalClass,
+    minimumMegohms: criteria.minimumMegohms === null ? "" : String(criteria.minimumMegohms),
+    minimumSource: criteria.minimumSource,
+    contactOutlierPercent: String(criteria.contactOutlierPercent),
+    dewPointMarginK: String(criteria.dewPointMarginK),
+  });
+  const { register, formState } = form;
+  const e = (name: Parameters<typeof register>[0]) => fieldError(formState.errors, name);
+  const submit = form.handleSubmit((body) =>
+    save.mutateAsync(body).then(onSaved, (err: unknown) => showSaveError(form, err)),
+  );
+  return (
+    <FormShell
+      title={canEdit ? "Criteria for this site" : "Criteria for this site (set by the curator)"}
+      onSubmit={(ev) => {
+        onSaving();
+        void submit(ev);
+      }}
+      error={formMessage(formState.errors)}
+      busy={save.isPending}
+      disabled={!canEdit}
+      submitLabel="Save criteria"
+    >
+      <SelectField label="Temperature correction" {...register("correctionMethod")} error={e("correctionMethod")}>
+        {CORRECTION_METHODS.map((m) => (
+          <option key={m} value={m}>
+            {CORRECTION_METHOD_LABELS[m]}
+          </option>
+        ))}
+      </SelectField>
+      <SelectField
+        label="Insulation type (NETA multipliers)"
+        {...register("insulationMedium")}
+        error={e("insulationMedium")}
+      >
+        <option value="solid">Solid (switchboards, breakers, cables)</option>
+        <option value="oil">Oil-immersed</option>
+      </SelectField>
+      <SelectField
+        label="Thermal class (minimum PI)"
+        {...register("thermalClass")}
+        error={e("thermalClass")}
+        hint="IEEE 43: class A 1.5; B, F, H 2.0"
+      >
+        {THERMAL_CLASSES.map((c) => (
+          <option key={c} value={c}>
+            Class {c}
+          </option>
+        ))}
+      </SelectField>
+      <NumberField
+        label="Contact outlier threshold (% above the lowest pole)"
+        {...register("contactOutlierPercent")}
+        error={e("contactOutlierPercent")}
+        hint="NETA: 50 %"
+      />
+      <NumberField
+        label="Dew-point margin (K)"
+        {...register("dewPointMarginK")}
+        error={e("dewPointMarginK")}
+        hint="An insulation reading taken with the equipment less than this above the dew point (Magnus formula, Alduchov–Eskridge coefficients), or below freezing, is not valid for judging. 3 K is common practice."
+      />
+      <NumberField
+        label="Site minimum insulation (MΩ, empty = NETA table)"
+        {...register("minimumMegohms")}
+        error={e("minimumMegohms")}
+      />
+      <TextField label="Source of the site minimum" {...register("minimumSource")} error={e("minimumSource")} />
+    </FormShell>
   );
 }

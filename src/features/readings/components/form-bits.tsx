@@ -1,6 +1,5 @@
 import type { ComponentProps, ReactNode } from "react";
 import { SelectField, TextField } from "../../../components/field";
-import { ApiError } from "../../../lib/api-client";
 import { localNow } from "../format";
 
 export interface TargetOption {
@@ -9,12 +8,6 @@ export interface TargetOption {
   positionId?: string;
   designation: string;
   circuit: string;
-}
-
-/** The error of a failed save: field messages go beside fields, the rest on top. */
-export function saveErrors(e: unknown): { message: string; fields: Record<string, string> } {
-  if (e instanceof ApiError) return { message: e.message, fields: e.fields ?? {} };
-  return { message: "That did not save. Try again.", fields: {} };
 }
 
 export function FormShell({

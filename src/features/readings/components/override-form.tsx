@@ -1,9 +1,17 @@
-import { useState, type FormEvent } from "react";
+import { useMemo } from "react";
+import { z } from "zod";
 import { TextField } from "../../../components/field";
-import { overrideBody, type ComponentOverride } from "../../../schemas/readings";
+import { fieldError, formMessage, numberText, showSaveError, useSchemaForm } from "../../../lib/form";
+import { overrideBody, type ComponentOverride, type OverrideBody } from "../../../schemas/readings";
 import { useRemoveOverride, useSaveOverride } from "../api";
-import { fieldErrors, numOrNull } from "../format";
-import { FormShell, NumberField, saveErrors } from "./form-bits";
+import { FormShell, NumberField } from "./form-bits";
+
+/** The form's text → the request body; overrideBody (the server's own schema) validates it. */
+const overrideForm = (version: number | undefined) =>
+  z
+    .object({ minimumMegohms: numberText, maximumMicroOhms: numberText, source: z.string() })
+    .transform((v) => ({ ...v, version }) as OverrideBody)
+    .pipe(overrideBody);
 
 /** A manufacturer's value replaces the table for this one component (curator only). */
 export function OverrideForm({
@@ -15,66 +23,11 @@ export function OverrideForm({
   componentId: string;
   current: ComponentOverride | null;
 }) {
-  const save = useSaveOverride(siteId, componentId);
   const remove = useRemoveOverride(siteId, componentId);
-  const [errors, setErrors] = useState<Record<string, string>>({});
-  const [message, setMessage] = useState<string | null>(null);
-
-  function submit(e: FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    const f = new FormData(e.currentTarget);
-    const parsed = overrideBody.safeParse({
-      minimumMegohms: numOrNull(f.get("minimumMegohms")),
-      maximumMicroOhms: numOrNull(f.get("maximumMicroOhms")),
-      source: String(f.get("source") ?? ""),
-      version: current?.version,
-    });
-    if (!parsed.success) {
-      setErrors(fieldErrors(parsed.error.issues));
-      setMessage("Check the fields marked below.");
-      return;
-    }
-    setErrors({});
-    setMessage(null);
-    save.mutate(parsed.data, {
-      onError: (err) => {
-        const s = saveErrors(err);
-        setErrors(s.fields);
-        setMessage(s.message);
-      },
-    });
-  }
-
   return (
     <div className="space-y-2">
-      <FormShell
-        key={current?.version ?? 0}
-        title="Manufacturer's values for this component"
-        onSubmit={submit}
-        error={message}
-        busy={save.isPending}
-        submitLabel="Save manufacturer's values"
-      >
-        <NumberField
-          label="Minimum insulation (MΩ)"
-          name="minimumMegohms"
-          defaultValue={current?.minimumMegohms ?? ""}
-          error={errors.minimumMegohms}
-        />
-        <NumberField
-          label="Maximum contact resistance per pole (µΩ)"
-          name="maximumMicroOhms"
-          defaultValue={current?.maximumMicroOhms ?? ""}
-          error={errors.maximumMicroOhms}
-        />
-        <TextField
-          label="Source (document, page)"
-          name="source"
-          defaultValue={current?.source ?? ""}
-          error={errors.source}
-          className="sm:col-span-2"
-        />
-      </FormShell>
+      {/* A saved or removed override starts the form again from the stored values. */}
+      <OverrideFields key={current?.version ?? 0} siteId={siteId} componentId={componentId} current={current} />
       {current && (
         <button
           type="button"
@@ -85,5 +38,50 @@ export function OverrideForm({
         </button>
       )}
     </div>
+  );
+}
+
+function OverrideFields({
+  siteId,
+  componentId,
+  current,
+}: {
+  siteId: string;
+  componentId: string;
+  current: ComponentOverride | null;
+}) {
+  const save = useSaveOverride(siteId, componentId);
+  const schema = useMemo(() => overrideForm(current?.version), [current?.version]);
+  const form = useSchemaForm(schema, {
+    minimumMegohms: current?.minimumMegohms == null ? "" : String(current.minimumMegohms),
+    maximumMicroOhms: current?.maximumMicroOhms == null ? "" : String(current.maximumMicroOhms),
+    source: current?.source ?? "",
+  });
+  const { register, formState } = form;
+  const e = (name: Parameters<typeof register>[0]) => fieldError(formState.errors, name);
+  const submit = form.handleSubmit((body) =>
+    save.mutateAsync(body).then(undefined, (err: unknown) => showSaveError(form, err)),
+  );
+  return (
+    <FormShell
+      title="Manufacturer's values for this component"
+      onSubmit={(ev) => void submit(ev)}
+      error={formMessage(formState.errors)}
+      busy={save.isPending}
+      submitLabel="Save manufacturer's values"
+    >
+      <NumberField label="Minimum insulation (MΩ)" {...register("minimumMegohms")} error={e("minimumMegohms")} />
+      <NumberField
+        label="Maximum contact resistance per pole (µΩ)"
+        {...register("maximumMicroOhms")}
+        error={e("maximumMicroOhms")}
+      />
+      <TextField
+        label="Source (document, page)"
+        {...register("source")}
+        error={e("source")}
+        className="sm:col-span-2"
+      />
+    </FormShell>
   );
 }

@@ -2,7 +2,15 @@ import { useMemo, useState } from "react";
 import { FormProvider } from "react-hook-form";
 import { z } from "zod";
 import { TextField } from "../../../components/field";
-import { blankAsNull, fieldError, formMessage, localDateTime, numberText, useSchemaForm } from "../../../lib/form";
+import {
+  blankAsNull,
+  fieldError,
+  formMessage,
+  localDateTime,
+  numberText,
+  showSaveError,
+  useSchemaForm,
+} from "../../../lib/form";
 import {
   PHASE_KEYS,
   phaseComparisonKey,
@@ -14,7 +22,7 @@ import {
 import { useRecordInsulation } from "../api";
 import { localNow, megohms } from "../format";
 import { CircuitTargetFields, circuitOf, targetLabel } from "./circuit-target-fields";
-import { FormShell, NumberField, QualifierField, WhenField, saveErrors, type TargetOption } from "./form-bits";
+import { FormShell, NumberField, QualifierField, WhenField, type TargetOption } from "./form-bits";
 import { LiveWorkCaution } from "./live-work-caution";
 import { PhaseComparisonCard } from "./phase-comparison-list";
 import { VerdictBadge } from "./verdict-badge";
@@ -132,13 +140,9 @@ function PhaseSet({
         );
       setKey(phaseComparisonKey({ componentId: b.componentId, circuit: b.circuit }));
     } catch (err) {
-      const s = saveErrors(err);
-      for (const [k, v] of Object.entries(s.fields))
-        if (k in b) form.setError(k as keyof PhaseSetValues, { message: v });
       const missing = PHASE_KEYS.filter((p) => !done[p]).join(", ");
-      form.setError("root.server", {
-        message: `${s.message} Saved so far: ${PHASE_KEYS.filter((p) => done[p]).join(", ") || "none"}; not saved: ${missing}.`,
-      });
+      const kept = PHASE_KEYS.filter((p) => done[p]).join(", ") || "none";
+      showSaveError(form, err, (m) => `${m} Saved so far: ${kept}; not saved: ${missing}.`);
     } finally {
       setBusy(false);
     }
