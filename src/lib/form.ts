@@ -43,24 +43,38 @@ export function useSchemaForm<In extends FieldValues, Out>(
 }
 
 /**
- * The server refused a save: its field messages beside the fields of the same name, the rest on top
- * (`explain` may add to it, e.g. what a multi-step save kept).
+ * The server refused a save: its field messages beside the fields of the same name, the rest on top.
+ * `fallback` is the message when no answer came (the network failed); `explain` may add to either
+ * (e.g. what a multi-step save kept).
  */
 export function showSaveError<In extends FieldValues, Out>(
   form: UseFormReturn<In, unknown, Out>,
   err: unknown,
-  explain: (message: string) => string = (m) => m,
+  {
+    fallback = "That did not save. Try again.",
+    explain = (m: string) => m,
+  }: { fallback?: string; explain?: (message: string) => string } = {},
 ) {
   if (err instanceof ApiError) {
     for (const [k, v] of Object.entries(err.fields ?? {})) form.setError(k as Path<In>, { message: v });
     form.setError("root.server", { message: explain(err.message) });
-  } else form.setError("root.server", { message: explain("That did not save. Try again.") });
+  } else form.setError("root.server", { message: explain(fallback) });
+}
+
+/** The server's message alone (for forms whose field messages speak for themselves). */
+export function serverMessage<In extends FieldValues>(errors: FieldErrors<In>): string | null {
+  return errors.root?.server?.message ?? null;
+}
+
+/** True when some field has a message. */
+export function hasFieldErrors<In extends FieldValues>(errors: FieldErrors<In>): boolean {
+  return Object.keys(errors).some((k) => k !== "root");
 }
 
 /** The message above a form: the server's, or a pointer to the fields marked below. */
 export function formMessage<In extends FieldValues>(errors: FieldErrors<In>): string | null {
   if (errors.root?.server?.message) return errors.root.server.message;
-  return Object.keys(errors).some((k) => k !== "root") ? "Check the fields marked below." : null;
+  return hasFieldErrors(errors) ? "Check the fields marked below." : null;
 }
 
 /** A field's message, for `error={fieldError(errors, "circuit")}`. */

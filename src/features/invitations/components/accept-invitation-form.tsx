@@ -1,10 +1,19 @@
-import { useState, type FormEvent } from "react";
+import { z } from "zod";
 import { Button } from "../../../components/button";
 import { TextField } from "../../../components/field";
 import { ROLE_LABELS } from "../../../domain/vocab";
-import { ApiError } from "../../../lib/api-client";
+import { fieldError, hasFieldErrors, serverMessage, showSaveError, useSchemaForm } from "../../../lib/form";
 import { acceptExistingAccountBody, acceptNewAccountBody, type InvitationPreview } from "../../../schemas/invitations";
 import { useAcceptInvitation } from "../api";
+
+/** A newcomer gives a name and a new password; an existing account only its password. */
+const acceptForm = (existing: boolean) =>
+  existing
+    ? z
+        .object({ name: z.string(), password: z.string() })
+        .transform(({ password }) => ({ password }))
+        .pipe(acceptExistingAccountBody)
+    : z.object({ name: z.string(), password: z.string() }).pipe(acceptNewAccountBody);
 
 /**
  * A new address chooses a name and password; an address that already has an account
@@ -20,27 +29,27 @@ export function AcceptInvitationForm({
   onAccepted: (siteId: string) => void;
 }) {
   const accept = useAcceptInvitation(token);
-  const [fields, setFields] = useState<Record<string, string>>({});
   const existing = invitation.accountExists;
+  const form = useSchemaForm<{ name: string; password: string }, { name?: string; password: string }>(
+    acceptForm(existing),
+    { name: "", password: "" },
+  );
+  const { register, formState } = form;
+  const errors = formState.errors;
+  const submit = form.handleSubmit((body) =>
+    accept.mutateAsync(body).then(
+      (d) => onAccepted(d.siteId),
+      (err: unknown) => showSaveError(form, err, { fallback: "Joining failed. Try again." }),
+    ),
+  );
 
-  function submit(e: FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    const f = new FormData(e.currentTarget);
-    const raw = { name: f.get("name") ?? undefined, password: f.get("password") };
-    const parsed = existing ? acceptExistingAccountBody.safeParse(raw) : acceptNewAccountBody.safeParse(raw);
-    if (!parsed.success)
-      return setFields(Object.fromEntries(parsed.error.issues.map((i) => [String(i.path[0]), i.message])));
-    setFields({});
-    accept.mutate(parsed.data, {
-      onSuccess: (d) => onAccepted(d.siteId),
-      onError: (err) => err instanceof ApiError && setFields(err.fields),
-    });
-  }
-
-  const failure =
-    accept.error instanceof ApiError ? accept.error.message : accept.error ? "Joining failed. Try again." : null;
+  const failure = hasFieldErrors(errors) ? null : serverMessage(errors);
   return (
-    <form onSubmit={submit} noValidate className="space-y-4 rounded-lg bg-hull-850 p-5 ring-1 ring-hull-700">
+    <form
+      onSubmit={(ev) => void submit(ev)}
+      noValidate
+      className="space-y-4 rounded-lg bg-hull-850 p-5 ring-1 ring-hull-700"
+    >
       <dl className="grid grid-cols-[auto_1fr] gap-x-3 gap-y-1 text-sm">
         <dt className="text-mist">Site</dt>
         <dd className="font-semibold">{invitation.siteName}</dd>
@@ -56,23 +65,23 @@ export function AcceptInvitationForm({
       ) : (
         <TextField
           label="Your name, as the crew knows you"
-          name="name"
+          {...register("name")}
           autoComplete="name"
           required
-          error={fields.name}
+          error={fieldError(errors, "name")}
         />
       )}
       <input type="hidden" name="username" autoComplete="username" value={invitation.email} />
       <TextField
         label={existing ? "Password" : "Choose a password"}
-        name="password"
+        {...register("password")}
         type="password"
         autoComplete={existing ? "current-password" : "new-password"}
         hint={existing ? undefined : "At least 10 characters. A short sentence is easy to remember."}
         required
-        error={fields.password}
+        error={fieldError(errors, "password")}
       />
-      {failure && !Object.keys(fields).length && (
+      {failure && (
         <p role="alert" className="text-sm text-flare-300">
           {failure}
         </p>

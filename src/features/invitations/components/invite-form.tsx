@@ -1,8 +1,8 @@
-import { useState, type FormEvent } from "react";
+import { useState } from "react";
 import { Button } from "../../../components/button";
 import { SelectField, TextField } from "../../../components/field";
 import { ROLE_LABELS, ROLES, type Role } from "../../../domain/vocab";
-import { ApiError } from "../../../lib/api-client";
+import { fieldError, serverMessage, showSaveError, useSchemaForm } from "../../../lib/form";
 import { createInvitationBody } from "../../../schemas/invitations";
 import { useInvitationMutations } from "../api";
 
@@ -11,45 +11,37 @@ type Note = { ok: boolean; text: string };
 /** Invite by e-mail; everyone joins by accepting the link (someone with an account confirms with their password). */
 export function InviteForm({ siteId, onSent }: { siteId: string; onSent: () => void }) {
   const { create } = useInvitationMutations(siteId);
-  const [fields, setFields] = useState<Record<string, string>>({});
+  const form = useSchemaForm(createInvitationBody, { email: "", role: "volunteer" });
+  const { register, formState } = form;
+  const errors = formState.errors;
   const [note, setNote] = useState<Note | null>(null);
 
-  function submit(e: FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    const form = e.currentTarget;
-    const f = new FormData(form);
-    const parsed = createInvitationBody.safeParse({ email: f.get("email"), role: f.get("role") });
-    if (!parsed.success)
-      return setFields(Object.fromEntries(parsed.error.issues.map((i) => [String(i.path[0]), i.message])));
-    setFields({});
+  const submit = form.handleSubmit((body) => {
     setNote(null);
-    create.mutate(parsed.data, {
-      onSuccess: (d) => {
+    return create.mutateAsync(body).then(
+      (d) => {
         form.reset();
         onSent();
-        if (d.invitation?.sendStatus === "sent")
-          setNote({ ok: true, text: `Invitation sent to ${parsed.data.email}.` });
+        if (d.invitation?.sendStatus === "sent") setNote({ ok: true, text: `Invitation sent to ${body.email}.` });
         else if (d.invitation?.sendStatus === "pending")
           setNote({
             ok: true,
-            text: `Invitation to ${parsed.data.email} saved; its e-mail is on its way (the list below says when it has gone).`,
+            text: `Invitation to ${body.email} saved; its e-mail is on its way (the list below says when it has gone).`,
           });
         else
           setNote({
             ok: false,
-            text: `The invitation for ${parsed.data.email} is saved, but the e-mail was not sent. Try Resend below.`,
+            text: `The invitation for ${body.email} is saved, but the e-mail was not sent. Try Resend below.`,
           });
       },
-      onError: (err) => {
-        if (err instanceof ApiError && Object.keys(err.fields).length) setFields(err.fields);
-        setNote({ ok: false, text: err instanceof ApiError ? err.message : "The invitation could not be saved." });
-      },
-    });
-  }
+      (err: unknown) => showSaveError(form, err, { fallback: "The invitation could not be saved." }),
+    );
+  });
+  const failure = serverMessage(errors);
 
   return (
     <form
-      onSubmit={submit}
+      onSubmit={(ev) => void submit(ev)}
       noValidate
       aria-labelledby="invite-title"
       className="space-y-3 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700"
@@ -64,14 +56,14 @@ export function InviteForm({ siteId, onSent }: { siteId: string; onSent: () => v
       <div className="grid gap-3 sm:grid-cols-[1fr_14rem_auto] sm:items-end">
         <TextField
           label="E-mail"
-          name="email"
+          {...register("email")}
           type="email"
           inputMode="email"
           autoComplete="off"
           required
-          error={fields.email}
+          error={fieldError(errors, "email")}
         />
-        <SelectField label="Role on this site" name="role" defaultValue="volunteer" error={fields.role}>
+        <SelectField label="Role on this site" {...register("role")} error={fieldError(errors, "role")}>
           {ROLES.map((r: Role) => (
             <option key={r} value={r}>
               {ROLE_LABELS[r]}
@@ -82,6 +74,11 @@ export function InviteForm({ siteId, onSent }: { siteId: string; onSent: () => v
           {create.isPending ? "Sending…" : "Send invitation"}
         </Button>
       </div>
+      {failure && (
+        <p role="alert" className="text-flare-300">
+          ⚠ {failure}
+        </p>
+      )}
       {note && (
         <p role={note.ok ? "status" : "alert"} className={note.ok ? "text-kelp-300" : "text-flare-300"}>
           {note.ok ? "✓ " : "⚠ "}

@@ -1,45 +1,28 @@
-import { useRef, useState, type FormEvent } from "react";
+import { useState } from "react";
 import { Button } from "../../../components/button";
 import { TextField } from "../../../components/field";
-import { ApiError } from "../../../lib/api-client";
+import { fieldError, hasFieldErrors, serverMessage, showSaveError, useSchemaForm } from "../../../lib/form";
 import { changePasswordBody } from "../../../schemas/account";
 import { useChangePassword } from "../api";
 
 /** Change one's password while signed in; the current one is asked for first. */
 export function ChangePasswordForm({ email }: { email: string }) {
   const change = useChangePassword();
-  const form = useRef<HTMLFormElement>(null);
-  const [fields, setFields] = useState<Record<string, string>>({});
-  const [message, setMessage] = useState<string | null>(null);
+  const form = useSchemaForm(changePasswordBody, { currentPassword: "", newPassword: "" });
+  const { register, formState } = form;
+  const errors = formState.errors;
   const [done, setDone] = useState(false);
-
-  function submit(e: FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    const f = new FormData(e.currentTarget);
-    const parsed = changePasswordBody.safeParse({
-      currentPassword: f.get("currentPassword") ?? "",
-      newPassword: f.get("newPassword") ?? "",
-    });
-    setDone(false);
-    setMessage(null);
-    if (!parsed.success) {
-      setFields(Object.fromEntries(parsed.error.issues.map((i) => [String(i.path[0]), i.message])));
-      return;
-    }
-    setFields({});
-    change.mutate(parsed.data, {
-      onSuccess: () => {
-        form.current?.reset();
+  const submit = form.handleSubmit((body) =>
+    change.mutateAsync(body).then(
+      () => {
+        form.reset();
         setDone(true);
       },
-      onError: (err) => {
-        if (err instanceof ApiError) {
-          setFields(err.fields);
-          setMessage(Object.keys(err.fields).length ? null : err.message);
-        } else setMessage("The password was not changed. Try again.");
-      },
-    });
-  }
+      (err: unknown) => showSaveError(form, err, { fallback: "The password was not changed. Try again." }),
+    ),
+  );
+  // The field messages speak for themselves; the server's own message shows only when no field has one.
+  const message = hasFieldErrors(errors) ? null : serverMessage(errors);
 
   return (
     <section aria-labelledby="password-title" className="rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
@@ -49,24 +32,31 @@ export function ChangePasswordForm({ email }: { email: string }) {
       <p className="mt-1 text-sm text-mist">
         Every other phone or computer where you are signed in will be signed out, and an e-mail tells you of the change.
       </p>
-      <form ref={form} onSubmit={submit} noValidate className="mt-3 grid gap-3 sm:grid-cols-2">
+      <form
+        onSubmit={(ev) => {
+          setDone(false);
+          void submit(ev);
+        }}
+        noValidate
+        className="mt-3 grid gap-3 sm:grid-cols-2"
+      >
         <input type="hidden" name="username" autoComplete="username" value={email} />
         <TextField
           label="Current password"
-          name="currentPassword"
+          {...register("currentPassword")}
           type="password"
           autoComplete="current-password"
           required
-          error={fields.currentPassword}
+          error={fieldError(errors, "currentPassword")}
         />
         <TextField
           label="New password"
-          name="newPassword"
+          {...register("newPassword")}
           type="password"
           autoComplete="new-password"
           hint="At least 10 characters."
           required
-          error={fields.newPassword}
+          error={fieldError(errors, "newPassword")}
         />
         <div className="flex flex-wrap items-center gap-3 sm:col-span-2">
           <Button type="submit" disabled={change.isPending}>

@@ -1,22 +1,19 @@
-import { useState, type FormEvent } from "react";
 import { Button } from "../../../components/button";
 import { TextField } from "../../../components/field";
-import { ApiError } from "../../../lib/api-client";
+import { fieldError, serverMessage, showSaveError, useSchemaForm } from "../../../lib/form";
 import { resetRequestBody } from "../../../schemas/account";
 import { useRequestReset } from "../api";
 
 /** Always the same answer after sending, so the page never tells whether an account exists. */
 export function ResetRequestForm() {
   const request = useRequestReset();
-  const [error, setError] = useState<string | undefined>();
-
-  function submit(e: FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    const parsed = resetRequestBody.safeParse({ email: new FormData(e.currentTarget).get("email") });
-    if (!parsed.success) return setError(parsed.error.issues[0]?.message);
-    setError(undefined);
-    request.mutate(parsed.data.email);
-  }
+  const form = useSchemaForm(resetRequestBody, { email: "" });
+  const errors = form.formState.errors;
+  const submit = form.handleSubmit((body) =>
+    request
+      .mutateAsync(body.email)
+      .then(undefined, (err: unknown) => showSaveError(form, err, { fallback: "That did not work. Try again." })),
+  );
 
   if (request.data)
     return (
@@ -24,18 +21,21 @@ export function ResetRequestForm() {
         ✉ {request.data.message}
       </p>
     );
-  const failure =
-    request.error instanceof ApiError ? request.error.message : request.error ? "That did not work. Try again." : null;
+  const failure = serverMessage(errors);
   return (
-    <form onSubmit={submit} noValidate className="space-y-4 rounded-lg bg-hull-850 p-5 ring-1 ring-hull-700">
+    <form
+      onSubmit={(ev) => void submit(ev)}
+      noValidate
+      className="space-y-4 rounded-lg bg-hull-850 p-5 ring-1 ring-hull-700"
+    >
       <TextField
         label="E-mail"
-        name="email"
+        {...form.register("email")}
         type="email"
         autoComplete="username"
         inputMode="email"
         required
-        error={error}
+        error={fieldError(errors, "email")}
       />
       {failure && (
         <p role="alert" className="text-sm text-flare-300">

@@ -142,7 +142,7 @@ function PhaseSet({
     } catch (err) {
       const missing = PHASE_KEYS.filter((p) => !done[p]).join(", ");
       const kept = PHASE_KEYS.filter((p) => done[p]).join(", ") || "none";
-      showSaveError(form, err, (m) => `${m} Saved so far: ${kept}; not saved: ${missing}.`);
+      showSaveError(form, err, { explain: (m) => `${m} Saved so far: ${kept}; not saved: ${missing}.` });
     } finally {
       setBusy(false);
     }
