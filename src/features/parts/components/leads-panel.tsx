@@ -1,4 +1,5 @@
-import { useState, type FormEvent } from "react";
+import { useState } from "react";
+import { z } from "zod";
 import { Button } from "../../../components/button";
 import { SelectField, TextArea, TextField } from "../../../components/field";
 import { MoneyField } from "../../../components/money-field";
@@ -7,15 +8,26 @@ import {
   LEAD_SOURCE_KINDS,
   LEAD_STATUS_LABELS,
   LEAD_STATUSES,
-  type LeadSourceKind,
   type LeadStatus,
 } from "../../../domain/part-workflow";
 import { ApiError } from "../../../lib/api-client";
-import type { PartLead } from "../../../schemas/parts";
+import { fieldError, formMessage, numberText, showSaveError, useSchemaForm } from "../../../lib/form";
+import { leadBody, type LeadBody, type PartLead } from "../../../schemas/parts";
 import { useAddLead, useUpdateLead } from "../api";
 import { Money } from "../../../lib/money";
 
-const numOrNull = (v: FormDataEntryValue | null) => (v === null || String(v).trim() === "" ? null : Number(v));
+/** The form's text → the request body; leadBody (the server's own schema) validates it. */
+const leadForm = z
+  .object({
+    sourceKind: z.string(),
+    source: z.string(),
+    contact: z.string(),
+    askingPrice: numberText,
+    notes: z.string(),
+  })
+  .transform((v) => v as LeadBody)
+  .pipe(leadBody);
+const blank = { sourceKind: "other", source: "", contact: "", askingPrice: "", notes: "" };
 
 export function LeadsPanel({
   siteId,
@@ -30,35 +42,22 @@ export function LeadsPanel({
 }) {
   const add = useAddLead(siteId, lineId);
   const update = useUpdateLead(siteId);
-  const [errors, setErrors] = useState<Record<string, string>>({});
-  const [message, setMessage] = useState<string | null>(null);
-  const fail = (e: unknown) => {
-    setMessage(e instanceof ApiError ? e.message : "That did not work.");
-    if (e instanceof ApiError) setErrors(e.fields);
-  };
-
-  function submit(e: FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    const form = e.currentTarget;
-    const f = new FormData(form);
-    setErrors({});
-    add.mutate(
-      {
-        sourceKind: f.get("sourceKind") as LeadSourceKind,
-        source: String(f.get("source")),
-        contact: String(f.get("contact")),
-        askingPrice: numOrNull(f.get("askingPrice")),
-        notes: String(f.get("notes")),
+  const form = useSchemaForm(leadForm, blank);
+  const { register, formState } = form;
+  const e = (name: keyof typeof blank) => fieldError(formState.errors, name);
+  const [note, setNote] = useState<string | null>(null);
+  // A refused change of a lead's state has no field of its own: its message shows where the form's would.
+  const fail = (err: unknown) => setNote(err instanceof ApiError ? err.message : "That did not work.");
+  const submit = form.handleSubmit((body) =>
+    add.mutateAsync(body).then(
+      () => {
+        form.reset();
+        setNote("Lead recorded.");
       },
-      {
-        onSuccess: () => {
-          form.reset();
-          setMessage("Lead recorded.");
-        },
-        onError: fail,
-      },
-    );
-  }
+      (err: unknown) => showSaveError(form, err, { fallback: "That did not work." }),
+    ),
+  );
+  const message = formMessage(formState.errors) ?? note;
 
   return (
     <section aria-labelledby="leads-title" className="rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
@@ -102,11 +101,15 @@ export function LeadsPanel({
       </ul>
       {canEdit && (
         <form
-          onSubmit={submit}
+          onSubmit={(ev) => {
+            setNote(null);
+            void submit(ev);
+          }}
+          noValidate
           className="mt-3 grid gap-3 border-t border-hull-700 pt-3 sm:grid-cols-2"
           aria-label="Record a lead"
         >
-          <SelectField label="Kind of source" name="sourceKind" defaultValue="other" error={errors.sourceKind}>
+          <SelectField label="Kind of source" {...register("sourceKind")} error={e("sourceKind")}>
             {LEAD_SOURCE_KINDS.map((k) => (
               <option key={k} value={k}>
                 {LEAD_SOURCE_KIND_LABELS[k]}
@@ -115,14 +118,14 @@ export function LeadsPanel({
           </SelectField>
           <TextField
             label="Where it might come from"
-            name="source"
+            {...register("source")}
             required
-            error={errors.source}
+            error={e("source")}
             hint="A donor vessel or site, a dealer, a collector, a salvage yard"
           />
-          <TextField label="Contact" name="contact" error={errors.contact} />
-          <MoneyField label="Asking price" name="askingPrice" error={errors.askingPrice} />
-          <TextArea label="Notes" name="notes" className="sm:col-span-2" error={errors.notes} />
+          <TextField label="Contact" {...register("contact")} error={e("contact")} />
+          <MoneyField label="Asking price" {...register("askingPrice")} error={e("askingPrice")} />
+          <TextArea label="Notes" {...register("notes")} className="sm:col-span-2" error={e("notes")} />
           <div className="flex items-center gap-3 sm:col-span-2">
             <Button type="submit" disabled={add.isPending}>
               Record lead
