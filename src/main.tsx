@@ -7,7 +7,7 @@ import { router } from "./app/router";
 import "./styles/index.css";
 
 // The service worker (vite-plugin-pwa / Workbox) exists only in a production build: it precaches the
-// app so it opens with no signal (issue 16). In development Vite serves every module fresh.
+// app so it opens with no signal. In development Vite serves every module fresh.
 if (import.meta.env.PROD && "serviceWorker" in navigator)
   void import("virtual:pwa-register").then(({ registerSW }) => registerSW({ immediate: true }));
 

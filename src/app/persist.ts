@@ -1,5 +1,5 @@
 /**
- * Reads kept on the phone (issue 16): TanStack Query's own persistence (react-query-persist-client
+ * Reads kept on the phone, for a crew with no signal: TanStack Query's own persistence (react-query-persist-client
  * with the async-storage persister) writes the query cache to IndexedDB through idb-keyval, so the
  * boards, positions, grades, dispositions, open defects, readings and watch checks a person has
  * opened show with no signal. Bounded: only those kinds of query, only ones holding data, at most

@@ -5,7 +5,7 @@ import { RouteError } from "./routes/route-error";
 
 /**
  * Loaders start a page's data fetches while its code chunk downloads, instead of after the
- * session → site → page components have rendered one after another (issue 15). They never wait:
+ * session → site → page components have rendered one after another. They never wait:
  * the pages read the same queries from the cache. Feature APIs are imported lazily, so the entry
  * chunk stays small (and zod out of it).
  */

@@ -20,8 +20,8 @@ export function Loading({ what = "Loading" }: { what?: string }) {
  * Did the server refuse this read for a reason asking again will not fix (a 4xx other than 408/429:
  * the record is gone, or no longer this person's to see)? Then the page shows the ErrorPanel even
  * when it holds an earlier copy. A read that failed for want of an answer (no signal, a dead Wi-Fi,
- * a 5xx) keeps showing what the page already holds, and the sync bar marks it as the copy last synced
- * (issue 16). Pages check `q.isLoadingError || serverRefused(q.error)` — a failed read with nothing
+ * a 5xx) keeps showing what the page already holds, and the sync bar marks it as the copy last synced.
+ * Pages check `q.isLoadingError || serverRefused(q.error)` — a failed read with nothing
  * to show, or a refusal — never bare `isError`.
  */
 export function serverRefused(error: unknown): boolean {

@@ -131,7 +131,7 @@ function Refused({ item }: { item: OutboxItem }) {
 }
 
 /**
- * The field state, on every page behind sign-in (issue 16): online or offline, how many changes
+ * The field state, on every page behind sign-in: online or offline, how many changes
  * wait on this phone, the last sync, "Sync now", a progress bar while photos upload, and the
  * changes the server refused or that meet a newer record, until the person deals with each.
  */

@@ -48,7 +48,7 @@ export type TransitionResult =
     };
 
 /**
- * What proves a repair (issue 14): re-test readings linked to the defect that meet their
+ * What proves a repair: re-test readings linked to the defect that meet their
  * criterion, and "after work" photos filed to it. Closing needs at least one (common practice:
  * a repair is closed on evidence, not on someone's word).
  */
@@ -60,7 +60,7 @@ export interface RepairEvidence {
 /** Targets `actor` may choose from `defect`'s current status (for the buttons on screen). */
 export function allowedTargets(defect: WorkflowDefect, actor: Actor): DefectStatus[] {
   requireOneOf("status", defect.status, DEFECT_STATUSES);
-  // The repairer is never offered the close: someone else verifies (issue 14).
+  // The repairer is never offered the close: someone else verifies.
   if (can(actor.role, "defects.manage"))
     return CURATOR_MOVES[defect.status].filter((to) => !(to === "closed" && defect.repairedBy === actor.id));
   if (can(actor.role, "defects.raise") && (defect.createdBy === actor.id || defect.assigneeId === actor.id))

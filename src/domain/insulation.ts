@@ -149,7 +149,7 @@ export const IEEE43_PI_NOT_REQUIRED_ABOVE_MEGOHMS = 5000;
  * Alduchov–Eskridge coefficients a = 17.625, b = 243.04 °C (O. A. Alduchov and R. E.
  * Eskridge, "Improved Magnus form approximation of saturation vapor pressure",
  * J. Appl. Meteor. 35 (1996) 601–609; coefficients from memory, checked against
- * psychrometric tables in tests/domain/insulation-field.test.ts).
+ * psychrometric tables in tests/domain/readings-field.test.ts).
  * @param temperatureC air temperature, °C, −40 … 60
  * @param relativeHumidityPct relative humidity, %, > 0 … 100
  * @returns dew point, °C

@@ -59,7 +59,7 @@ function offsetAt(ms: number, zone: string) {
 /**
  * The offset that holds for the whole UTC hour containing `ms`, or null. An hour whose first and last second
  * have the same offset has it throughout (zones change offset at most once within hours of each other), so one
- * pair of Intl calls serves every time in that hour (issue 15: an export formats two times per row).
+ * pair of Intl calls serves every time in that hour (an export formats two times per row).
  */
 function hourOffset(ms: number, zone: string): number | null {
   let byHour = hourOffsets.get(zone);

@@ -1,5 +1,5 @@
 /**
- * Money in a site's currency (issue 14 item 11). A site stores an ISO 4217 alphabetic code
+ * Money in a site's currency. A site stores an ISO 4217 alphabetic code
  * (`sites.currency`, "USD" until a curator sets it); every figure is formatted by the runtime's
  * ICU through Intl.NumberFormat, which carries ISO 4217's minor units (2 decimals for EUR and
  * USD, none for JPY, 3 for KWD) and each locale's symbol and grouping. Amounts are stored as

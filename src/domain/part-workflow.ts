@@ -145,7 +145,7 @@ export function partTitle(spec: PartSpec, need?: string | null): string {
 export type FittedHeritageChoice = "unchanged" | "period" | "modern";
 
 /**
- * The default answer to "what does the fitted part make of the component?" (issue 14 item 7).
+ * The default answer to "what does the fitted part make of the component?".
  * A line naming a sub-part ("arc chute", its `need`) is fitted into the existing component, whose
  * heritage stays. A line without one sources a whole component, and a whole component that comes
  * from the wanted list is never the original fabric it replaces (common practice of heritage
@@ -161,8 +161,8 @@ export function defaultFittedHeritage(line: { need: string; heritageRule: Herita
 }
 
 /**
- * A wanted-list line's short number, said on the phone or written on a parcel: "W-12" (issue 14 item 13;
- * Tideline's own prefix, W for wanted). Numbers are per site, given by the database in order of creation.
+ * A wanted-list line's short number, said on the phone or written on a parcel: "W-12" (Tideline's
+ * own prefix, W for wanted). Numbers are per site, given by the database in order of creation.
  */
 export function lineRef(number: number): string {
   requireNumber("number", number);

@@ -79,7 +79,7 @@ export function searchTargets<T extends MatchTarget>(typed: string, targets: T[]
 }
 
 /**
- * Words in a file name that say which kind of shot it is (issue 14): "2-14_nameplate.jpg" is a
+ * Words in a file name that say which kind of shot it is: "2-14_nameplate.jpg" is a
  * nameplate shot. Tokens must stand alone ("plate" inside "template" does not count). The
  * vocabulary is common practice among survey photographers (invented examples in the tests);
  * when a name says two kinds, the one said last wins ("as-found_nameplate" → nameplate),

@@ -89,7 +89,7 @@ export interface Rankable {
   /** ISO 8601 timestamp. */
   createdAt: string;
   score: number;
-  /** A safety-critical defect ranks above every defect that is not (issue 13 item 7). */
+  /** A safety-critical defect ranks above every defect that is not: a shock or arc-flash hazard comes first. */
   safetyCritical?: boolean;
   pin?: { direction: "above" | "below"; relativeTo: string } | null;
 }

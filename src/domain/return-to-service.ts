@@ -55,7 +55,7 @@ export const STEP_KIND_LABELS: Record<StepKind, string> = {
   release: "Release of the stage",
   custom: "Crew's own hold point",
 };
-/** Steps that only a qualified person for energisation may sign (issue 12). */
+/** Steps that only a qualified person for energisation may sign. */
 export const QUALIFIED_ONLY_KINDS: ReadonlySet<StepKind> = new Set(["energise", "release"]);
 /** Steps that come after the energisation: judged on what happened since. */
 export const AFTER_ENERGISE_KINDS: ReadonlySet<StepKind> = new Set(["ground_lamps", "thermal", "watch", "release"]);
@@ -139,7 +139,7 @@ export function isQualifiedOn(q: { expiresOn: string | null } | null | undefined
 /**
  * Can `stageId` move to `toIndex` in `order` (stage ids, top first)? A stage never goes
  * ahead of the stage it depends on, and a stage another one depends on never goes behind it.
- * Tideline's rule (issue 12).
+ * Tideline's rule.
  */
 export function checkReorder(
   stages: ReadonlyArray<{ id: string; dependsOnId: string | null; name: string }>,

@@ -13,7 +13,7 @@
  *   practice — a falling insulation resistance during dry-out means moisture or
  *   contamination is coming back; the 10 % allowance for instrument repeatability is Tideline's.
  * - protection at or below the curator's limit, a named qualified person, no ground shown
- *   by the lamps, watch checks at the set interval: common practice (issue 12's rules).
+ *   by the lamps, watch checks at the set interval: common practice.
  * - thermal level 3–4: NETA ATS/MTS Table 100.18 via src/domain/thermal.ts.
  */
 import { AFTER_ENERGISE_KINDS, isQualifiedOn, type StageStatus, type StepKind, type Supply } from "./return-to-service";

@@ -1,7 +1,7 @@
 /**
  * The watch period after a stage is energised: left live for N hours, checked every M
  * hours. Which check is due next, whether one is overdue, and where the record has gaps.
- * Pure: `now` comes in. Common practice for staged re-energisation (issue 12); the
+ * Pure: `now` comes in. Common practice for staged re-energisation; the
  * 15-minute allowance before a check counts as late is Tideline's.
  */
 export const WATCH_GRACE_MINUTES = 15;

@@ -1,6 +1,6 @@
 /**
- * Keys for finding a position by what a person types on a phone in a dim machinery space
- * (issue 14 item 8). Pure; the SQL in server/inventory/positions-repository.ts computes the
+ * Keys for finding a position by what a person types on a phone in a dim machinery space.
+ * Pure; the SQL in server/inventory/positions-repository.ts computes the
  * same key with regexp_replace, and tests/server/inventory-lookup.api.test.ts holds the two equal.
  */
 

@@ -70,7 +70,7 @@ export const LOW_LOAD_PERCENT = 40;
  * A temperature rise measured at part load, scaled to rated load.
  * Formula: ΔT_rated = ΔT_measured · (100 / load%)^n, n = LOAD_SCALING_EXPONENT (2: the
  * heat of a resistive joint goes with I²R; common practice, and practitioners use n
- * between about 1.6 and 2 — Tideline takes 2, the I²R value). Example (issue 13): 8 °C
+ * between about 1.6 and 2 — Tideline takes 2, the I²R value). Example: 8 °C
  * at 30 % load → 8 · (1/0.3)² = 88.9 °C at rated load.
  * @param riseC measured rise, °C (kelvin difference); a rise ≤ 0 is returned unscaled
  * @param loadPercent load at the time of the scan, % of rated, > 0 … 200

@@ -96,7 +96,7 @@ export const createDefectBody = z.object({
   partsState: fields.partsState.default("none_needed"),
   assigneeId: fields.assigneeId.default(null),
   dueOn: fields.dueOn.default(null),
-  /** The failing reading this defect is raised from (issue 14); linked both ways. */
+  /** The failing reading this defect is raised from; linked both ways. */
   fromReading: z
     .object({ kind: z.enum(["insulation", "contact", "thermal", "ground"]), id: z.uuid() })
     .nullable()

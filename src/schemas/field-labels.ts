@@ -1,5 +1,5 @@
 /**
- * The words a person reads for each field of the records the phone's outbox sends (issue 16), one
+ * The words a person reads for each field of the records the phone's outbox sends, one
  * map per record kind (the outbox item's `kind`). The sync bar's refused and conflicting items name
  * fields with these instead of the request's keys (`blocksEnergisation` → "Blocks energising its
  * section"); the forms that write these records use the same words for their labels where they

@@ -1,5 +1,5 @@
 /**
- * Inventory and condition survey (issue 3): request and response shapes shared by the
+ * Inventory and condition survey: request and response shapes shared by the
  * server (server/inventory/*) and the client. Every path is under /api/sites/:siteId.
  * Timestamps travel as ISO strings, calendar dates as "YYYY-MM-DD". Editable records
  * carry `version`; a stale one gets 409 {error:{code:"conflict", message, current}}.
@@ -340,7 +340,7 @@ export const custodyMoveSchema = z.object({
   movedBy: id.nullable(),
   movedByName: safeText().nullable(),
   movedAt: stamp,
-  /** Rules of src/domain/custody-chain.ts the curator released for this move, and why (issue 14). */
+  /** Rules of src/domain/custody-chain.ts the curator released for this move, and why. */
   releasedRules: z.array(z.string()).default([]),
   releaseReason: safeText().default(""),
 });

@@ -169,7 +169,7 @@ export type LinePosition = z.infer<typeof linePositionSchema>;
 
 export const lineSchema = z.object({
   id: text(),
-  /** Short per-site number (issue 14): 12, shown as ref "W-12". */
+  /** Short per-site number, said on the phone: 12, shown as ref "W-12". */
   number: z.number(),
   ref: text(),
   version: z.number(),

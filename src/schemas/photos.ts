@@ -14,7 +14,7 @@ export const uploadFields = z.object({
   componentId: id.optional(),
   defectId: id.optional(),
   inspectionId: id.optional(),
-  /** A custody move the photo goes with (issue 14: the quick log's "Move the part"). */
+  /** A custody move the photo goes with (the quick log's "Move the part"). */
   custodyMoveId: id.optional(),
 });
 export type UploadFields = z.infer<typeof uploadFields>;

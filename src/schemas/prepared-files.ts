@@ -1,5 +1,5 @@
 /**
- * Prepared files (issues 17/18): the condition survey report and large CSV exports made by a
+ * Prepared files: the condition survey report and large CSV exports made by a
  * background job into object storage, then downloaded from a link. Shared by the client's
  * page and notice and the server's routes.
  */

@@ -371,7 +371,7 @@ export const readingTargetsSchema = z.object({
 });
 export type ReadingTargets = z.infer<typeof readingTargetsSchema>;
 
-// ---- Issue 13: trip tests, step-voltage tests, ground hunt, phase comparison ----------------
+// ---- Trip tests, step-voltage tests, ground hunt, phase comparison ----------------
 export const TRIP_TESTS = ["inverse_time", "instantaneous"] as const;
 export const TRIP_TEST_LABELS = {
   inverse_time: "Overload (inverse-time) at 300 %",

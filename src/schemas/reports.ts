@@ -1,5 +1,5 @@
 /**
- * Condition survey report and tag labels (issue 17): the query shapes shared by the
+ * Condition survey report and tag labels: the query shapes shared by the
  * client's forms and the server's routes.
  */
 import { z } from "zod";

@@ -17,7 +17,7 @@ export const createSiteBody = z.object({
     .refine(isTimeZone, { message: "Give a time zone such as Europe/Lisbon or America/Halifax" }),
 });
 
-/** The site's IANA time zone: exports write local times in it and say so (issue 13). */
+/** The site's IANA time zone: exports write local times in it and say so. */
 export const siteTimeZoneBody = z.object({
   timeZone: text().trim().refine(isTimeZone, { message: "Give a time zone such as Europe/Lisbon or America/Halifax" }),
 });

@@ -99,7 +99,7 @@ function useWrite<TVars, TOut>(siteId: string, fn: (v: TVars) => Promise<TOut>) 
   });
 }
 
-/** Raising a defect from the phone: saved at once online; with no signal kept in the outbox (issue 16). */
+/** Raising a defect from the phone: saved at once online; with no signal kept in the outbox. */
 export const useCreateDefect = (siteId: string) =>
   useWrite(siteId, (b: CreateDefectBody) =>
     submitOrQueue({
@@ -113,7 +113,7 @@ export const useCreateDefect = (siteId: string) =>
   );
 /**
  * A defect's fields, edited on the phone: saved at once online; with no signal kept in the outbox
- * with the version it was based on (issue 16). A defect changed meanwhile comes back 409 with the
+ * with the version it was based on. A defect changed meanwhile comes back 409 with the
  * current one, compared field by field in the sync bar.
  */
 export const usePatchDefect = (siteId: string, id: string, ref: number) =>

@@ -143,7 +143,7 @@ export const useUpdateComponent = (siteId: string) =>
     api.send("PATCH", `${base(siteId)}/components/${id}`, b, componentSchema),
   );
 
-/** Online: saved at once, as before. No signal: kept in the phone's outbox and sent later (issue 16). */
+/** Online: saved at once, as before. No signal: kept in the phone's outbox and sent later. */
 export const useLogInspection = (siteId: string) =>
   useInventoryMutation(
     siteId,

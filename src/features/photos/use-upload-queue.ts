@@ -95,7 +95,7 @@ export function useUploadQueue(siteId: string, onDone?: (p: Photo) => void) {
     add: (files: File[], tags: UploadTags) =>
       dispatch({
         type: "add",
-        // A file whose name says its kind ("…_nameplate.jpg") is uploaded as that kind (issue 14).
+        // A file whose name says its kind ("…_nameplate.jpg") is uploaded as that kind.
         items: files.map((file) => ({
           key: `u${++counter}`,
           file,

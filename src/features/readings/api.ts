@@ -91,7 +91,7 @@ function useSiteMutation<B, R>(siteId: string, fn: (b: B) => Promise<R>) {
 }
 
 /**
- * Readings from the phone (issue 16): online they are saved at once as before; with no signal they
+ * Readings from the phone: online they are saved at once as before; with no signal they
  * wait in the phone's outbox (src/lib/outbox) and `{queued: true}` comes back — the verdict is the
  * server's, so it shows once the reading is there. `label` names the reading in the outbox's list.
  */

@@ -50,7 +50,7 @@ export function useRtsAction(siteId: string) {
 }
 
 /**
- * A watch check from the phone (issue 16). It carries the time it was made (`at`), so a check kept
+ * A watch check from the phone. It carries the time it was made (`at`), so a check kept
  * on the phone with no signal is logged at the minute it was made, not when it arrives. Online it
  * is saved at once; with no signal it waits in the outbox and `{queued: true}` comes back.
  */

@@ -1,5 +1,5 @@
 /**
- * The phone's outbox (issue 16), wired to the browser: items live in IndexedDB through idb-keyval
+ * The phone's outbox, wired to the browser: items live in IndexedDB through idb-keyval
  * (a database of their own, "tideline-outbox"), so a closed page or phone loses nothing; they are
  * sent by the engine in ./queue.ts when the connection returns, on start, every 30 s while any
  * wait, and on "Sync now". One tab sends at a time (Web Locks API). Items belong to the person who

@@ -1,5 +1,5 @@
 /**
- * The outbox (issue 16): creates made with no signal wait on the phone and are sent in the order
+ * The outbox: creates made with no signal wait on the phone and are sent in the order
  * they were made once the connection returns. This file is the engine — no browser APIs, so it is
  * unit-tested in node with a memory store and a fake transport (tests/lib/outbox-queue.test.ts);
  * `src/lib/outbox/index.ts` wires it to IndexedDB (idb-keyval) and fetch.

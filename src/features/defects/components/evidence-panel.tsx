@@ -11,7 +11,7 @@ const VERDICT_WORDS: Record<string, string> = {
 };
 
 /**
- * What proves the repair (issue 14): the reading it was raised from, the re-test readings
+ * What proves the repair: the reading it was raised from, the re-test readings
  * linked to it (judged now), and the after-work photos; closing needs a re-test meeting its
  * criterion or an after-work photo. `photos` is the route's slot for the photo upload.
  */

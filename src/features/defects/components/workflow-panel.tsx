@@ -19,7 +19,7 @@ const VERB: Partial<Record<DefectStatus, string>> = {
 /**
  * Status moves this person may make (from the server's allowedTargets), and the curator's assignment.
  * The close is offered only to someone other than the repairer (the server leaves it out of their
- * targets) and stays disabled, saying what is missing, until evidence is linked (issue 14).
+ * targets) and stays disabled, saying what is missing, until evidence is linked.
  */
 export function WorkflowPanel({
   siteId,

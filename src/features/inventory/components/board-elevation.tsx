@@ -249,7 +249,7 @@ export function BoardElevation({
       data-windowed={windowed || undefined}
       data-drawn={drawn.length}
     >
-      {/* The water line's words live in this key above the face, never on it (issue 14 item 10: no label covers a tile). */}
+      {/* The water line's words live in this key above the face, never on it: no label covers a tile. */}
       {board.waterLineMm != null && board.faceHeightMm ? (
         <p className="mb-2 flex items-center gap-2 text-sm text-tide-300" data-testid="water-line-key">
           <WaveSwatch />

@@ -122,7 +122,7 @@ export const BoardTile = forwardRef<HTMLButtonElement, Props>(function BoardTile
           </span>
         )}
       </span>
-      {/* Custody in full words across the whole tile: they wrap between words, never cut (issue 14 item 10). */}
+      {/* Custody in full words across the whole tile: they wrap between words, never cut. */}
       {out && (
         <span
           className="mt-0.5 text-[10px] font-semibold uppercase leading-3 tracking-wide text-chalk"

@@ -7,7 +7,7 @@ import { RenditionImage } from "./rendition-image";
 /**
  * Pick one of a component's photos of a kind (the thermal image of a scan) by its thumbnail:
  * radio buttons named `name` inside the caller's form, "None" first. Newest first; a person never
- * types or sees an internal photo id (issue 14 item 11).
+ * types or sees an internal photo id.
  */
 export function PhotoPicker({
   siteId,

@@ -25,7 +25,7 @@ function prefill(kind: Kind, r: Reading) {
 }
 
 /**
- * Under a reading: the defects it raised or proves (two-way link, issue 14), or — when it
+ * Under a reading: the defects it raised or proves (a two-way link), or — when it
  * does not meet its criterion and none is linked yet — "Raise a defect", prefilled.
  */
 export function ReadingDefects({ kind, reading }: { kind: Kind; reading: Reading }) {
