@@ -205,6 +205,8 @@ export async function raiseIncidentDefect(
     description: string;
     category: CreateDefectBody["category"];
     severity?: CreateDefectBody["severity"];
+    /** The reading that opened it: linked both ways as "raised from" (issue 14 item 5). */
+    raisedFrom?: { readingKind: ReadingKind; readingId: string };
   },
 ) {
   const id = await insertRaised(
@@ -231,6 +233,14 @@ export async function raiseIncidentDefect(
     "incident",
   );
   const row = await repo.lockDefect(trx, ctx.siteId, id);
+  if (b.raisedFrom)
+    await linkReading(
+      trx,
+      ctx.siteId,
+      ctx.actor.id,
+      { id, componentId: null, boardId: b.boardId, positionId: b.positionId },
+      { ...b.raisedFrom, role: "raised_from" },
+    );
   return { id, ref: Number(row!.ref) };
 }
 

@@ -738,6 +738,14 @@ export async function openIncident(
     category: INCIDENT_CATEGORY[i.kind],
     title: `Return to service incident: ${i.summary}`,
     description: `Recorded during “${s.name}” (attempt ${s.attempt}) at ${i.at.toISOString()}.${i.note ? `\n\n${i.note}` : ""}\n\nOpened automatically by the return-to-service log; the stage is stopped until it is dealt with.`,
+    ...(i.readingKind && i.readingId
+      ? {
+          raisedFrom: {
+            readingKind: i.readingKind === "thermal_scan" ? ("thermal" as const) : ("insulation" as const),
+            readingId: i.readingId,
+          },
+        }
+      : {}),
   });
   const incident = await repo.insertIncident(trx, {
     siteId: ctx.siteId,

@@ -64,6 +64,12 @@ async function makeBoard(siteId: string) {
   await mk("1-1", "Steering gear", section.id, 1946);
   await mk("1-2", "Fire pump", section.id, 1946);
   await mk("4-1", "Engine-room lighting", other.id, 1955);
+  const galley = await db
+    .insertInto("sections")
+    .values({ siteId, boardId: board.id, name: "Galley" })
+    .returning("id")
+    .executeTakeFirstOrThrow();
+  await mk("5-1", "Galley range", galley.id, 1955);
   return { boardId: board.id, sectionId: section.id };
 }
 
@@ -398,11 +404,48 @@ describe("readings on a live stage (issue 14 item 5)", () => {
     expect(after.status).toBe("stopped");
     const defects = await t.db
       .selectFrom("defects")
-      .select(["title", "safetyCritical", "blocksEnergisation", "positionId"])
+      .select(["id", "title", "safetyCritical", "blocksEnergisation", "positionId"])
       .where("positionId", "=", pos["4-1"])
       .execute();
     expect(defects).toEqual([expect.objectContaining({ safetyCritical: true, blocksEnergisation: true })]);
     expect(defects[0].title).toContain("Thermal level 4");
+    const ev = (await as.viewer.get(`${site()}/defects/${defects[0].id}/evidence`)).body;
+    expect(ev.linked).toEqual([expect.objectContaining({ readingKind: "thermal", role: "raised_from" })]);
+  });
+  it("an insulation reading below the minimum on a live stage's position opens a defect by itself, linked to the reading both ways, and stops the stage", async () => {
+    await megger("5-1", 600);
+    const s = await newStage({ name: "Galley", sectionIds: [], positionIds: [pos["5-1"]] });
+    await as.curator.post(`${site()}/boards/${boardId}/ground-checks`, {
+      lineVolts: 450,
+      lamps: { A: "bright", B: "bright", C: "bright" },
+      measuredAt: new Date().toISOString(),
+    });
+    const live = await energise(await stageOf(s.id));
+    expect(live.status).toBe("energised");
+    // 0.05 MΩ: far below ANSI/NETA MTS-2019 Table 100.1's 100 MΩ for the 600 V class (from memory, see tests/domain).
+    const r = await megger("5-1", 0.05, new Date().toISOString());
+    expect(r.status, JSON.stringify(r.body)).toBe(201);
+    expect((await stageOf(s.id)).status).toBe("stopped");
+    const defects = await t.db
+      .selectFrom("defects")
+      .select(["id", "title", "safetyCritical", "blocksEnergisation"])
+      .where("positionId", "=", pos["5-1"])
+      .execute();
+    expect(defects).toEqual([expect.objectContaining({ safetyCritical: true, blocksEnergisation: true })]);
+    expect(defects[0].title).toContain("Insulation below the minimum on 5-1");
+    const ev = (await as.viewer.get(`${site()}/defects/${defects[0].id}/evidence`)).body;
+    expect(ev.linked).toEqual([
+      expect.objectContaining({
+        readingKind: "insulation",
+        readingId: r.body.reading.id,
+        role: "raised_from",
+        verdict: "below_minimum",
+      }),
+    ]);
+    const links = (await as.viewer.get(`${site()}/boards/${boardId}/reading-defects`)).body.links;
+    expect(links).toEqual(
+      expect.arrayContaining([expect.objectContaining({ readingId: r.body.reading.id, defectId: defects[0].id })]),
+    );
   });
   it("a low reading on a board with nothing live opens no defect", async () => {
     const before = await t.db
