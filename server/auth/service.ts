@@ -6,7 +6,7 @@ import type { MailDeps } from "../mail/mailer";
 import { sendSignInLockedAlert } from "./alerts";
 import type { AppLucia } from "./lucia";
 import { verifyPassword } from "./password";
-import { findUserByEmail } from "./repository";
+import { findUserByEmail, findUserById, insertUser, setPasswordHash } from "./repository";
 import { accountKey, countFailure, LIMITS, refuseIfSpent, type Limiters } from "./throttle";
 
 /**
@@ -49,3 +49,24 @@ export async function signIn(
   });
   return { session, user: { id: user.id, email: user.email, name: user.name, isAdmin: user.isAdmin } };
 }
+
+/*
+ * The auth domain owns `users`: other domains (sites, invitations, password reset) find, add and re-key accounts
+ * through these, inside their own transaction (pass `trx`).
+ */
+
+/** The account with this e-mail (case-insensitive), or undefined. */
+export const accountByEmail = (db: Db, email: string) => findUserByEmail(db, email);
+
+/** The account with this id, or undefined. */
+export const accountById = (db: Db, userId: string) => findUserById(db, userId);
+
+/** Adds an account (sign-up paths: an admin's form, an accepted invitation); the caller audits. */
+export const addAccount = (
+  trx: Db,
+  u: { email: string; name: string; passwordHash: string | null; isAdmin: boolean },
+) => insertUser(trx, u);
+
+/** Sets an account's password hash (a completed reset); the caller ends its sessions. */
+export const setPassword = (trx: Db, userId: string, passwordHash: string) =>
+  setPasswordHash(trx, userId, passwordHash);

@@ -16,7 +16,7 @@ import type { Db } from "../db";
 import { textCell } from "../csv";
 import { readPage, runExport, type ExportWriter } from "../export-stream";
 import { notFound } from "../errors";
-import { findSite } from "../sites/repository";
+import { findSite } from "../sites/reads";
 
 const PAGE = 500;
 export const EXPORT_COLUMNS = ["position_id", ...CSV_IMPORT_COLUMNS, "row_version", ...CSV_EXPORT_EXTRA_COLUMNS];

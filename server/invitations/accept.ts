@@ -2,7 +2,7 @@
 import { acceptExistingAccountBody, acceptNewAccountBody } from "../../src/schemas/invitations";
 import { recordAudit } from "../audit";
 import { hashPassword, verifyPassword } from "../auth/password";
-import { findUserByEmail, insertUser } from "../auth/repository";
+import { accountByEmail, addAccount } from "../auth/service";
 import type { Db } from "../db";
 import { AppError } from "../errors";
 import { hashToken } from "../one-time-token";
@@ -38,7 +38,7 @@ export async function previewInvitation(db: Db, token: string) {
     email: row.email,
     invitedByName: row.invitedByName,
     expiresAt: row.expiresAt.toISOString(),
-    accountExists: !!(await findUserByEmail(db, row.email)),
+    accountExists: !!(await accountByEmail(db, row.email)),
   };
 }
 
@@ -50,7 +50,7 @@ export async function previewInvitation(db: Db, token: string) {
 export async function acceptInvitation(db: Db, token: string, body: { name?: string; password: string }) {
   return db.transaction().execute(async (trx) => {
     const inv = usable(await repo.findByTokenHash(trx, hashToken(token), true));
-    const existing = await findUserByEmail(trx, inv.email);
+    const existing = await accountByEmail(trx, inv.email);
     let userId: string;
     if (existing) {
       const { password } = acceptExistingAccountBody.parse(body);
@@ -62,7 +62,7 @@ export async function acceptInvitation(db: Db, token: string, body: { name?: str
     } else {
       const { name, password } = acceptNewAccountBody.parse(body);
       userId = (
-        await insertUser(trx, { email: inv.email, name, passwordHash: await hashPassword(password), isAdmin: false })
+        await addAccount(trx, { email: inv.email, name, passwordHash: await hashPassword(password), isAdmin: false })
       ).id;
     }
     await joinByInvitation(trx, inv.siteId, userId, inv.role, inv.id);

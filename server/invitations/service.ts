@@ -1,7 +1,8 @@
 import { INVITATION_DAYS } from "../../src/schemas/invitations";
 import type { Role } from "../../src/domain/vocab";
 import { recordAudit } from "../audit";
-import { findUserByEmail } from "../auth/repository";
+import { accountByEmail } from "../auth/service";
+import { siteName } from "../sites/reads";
 import type { Db } from "../db";
 import { AppError, conflict, notFound } from "../errors";
 import type { MailDeps } from "../mail/mailer";
@@ -63,10 +64,6 @@ async function viewOf(db: Db, siteId: string, id: string, viewer: { isAdmin: boo
   return toView(row, viewer, new Date(), (await latestDelivery(db, INVITATION_REF, [id])).get(id));
 }
 
-async function siteName(db: Db, siteId: string) {
-  return (await db.selectFrom("sites").select("name").where("id", "=", siteId).executeTakeFirstOrThrow()).name;
-}
-
 type Delivering = { siteId: string; email: string; role: Role; token: string; inviterName: string; expiresAt: Date };
 
 async function message(deps: MailDeps, db: Db, p: Delivering) {
@@ -99,7 +96,7 @@ export async function createInvitation(deps: MailDeps, siteId: string, email: st
   const { db } = deps;
   // Everyone joins by accepting: an address with an account gets the same invitation and
   // the same answer as one without (the link then asks for that account's password).
-  const existing = await findUserByEmail(db, email);
+  const existing = await accountByEmail(db, email);
   if (existing && (await repo.isMember(db, siteId, existing.id)))
     throw new AppError(409, "already_member", "That person is already on this site's crew.", {
       email: "Already on the crew",

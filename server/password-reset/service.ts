@@ -1,6 +1,5 @@
-import { sql } from "kysely";
 import { hashPassword } from "../auth/password";
-import * as users from "../auth/repository";
+import { accountByEmail, setPassword } from "../auth/service";
 import type { Db } from "../db";
 import { AppError } from "../errors";
 import { compose } from "../mail/compose";
@@ -21,7 +20,7 @@ export const resetUrl = (publicUrl: string, token: string) => `${publicUrl}/rese
  * one look the same from outside; nothing here reaches the caller.
  */
 export async function sendResetLink(deps: MailDeps, email: string) {
-  const user = await users.findUserByEmail(deps.db, email);
+  const user = await accountByEmail(deps.db, email);
   if (!user) return { sent: false as const, reason: "unknown_address" };
   const hourAgo = new Date(Date.now() - 3600_000);
   if ((await repo.countRecent(deps.db, user.id, hourAgo)) >= MAX_PER_HOUR) {
@@ -46,7 +45,7 @@ export async function sendResetLink(deps: MailDeps, email: string) {
     // request per account at a time (a transaction-scoped advisory lock), so requests
     // arriving together cannot all pass the hourly count.
     const queued = await deps.db.transaction().execute(async (trx) => {
-      await sql`select pg_advisory_xact_lock(hashtext(${"password-reset:" + user.id}))`.execute(trx);
+      await repo.lockResetsOf(trx, user.id);
       if ((await repo.countRecent(trx, user.id, hourAgo)) >= MAX_PER_HOUR) return false;
       await repo.insertReset(trx, reset);
       await queueMail(trx, jobs, { to: user.email, ...msg });
@@ -77,7 +76,7 @@ export async function completeReset(db: Db, token: string, password: string) {
   const passwordHash = await hashPassword(password);
   return db.transaction().execute(async (trx) => {
     const row = usable(await repo.findByTokenHash(trx, hashToken(token), true));
-    await users.setPasswordHash(trx, row.userId, passwordHash); // users belong to server/auth
+    await setPassword(trx, row.userId, passwordHash); // users belong to server/auth
     await repo.useAllFor(trx, row.userId);
     return { userId: row.userId };
   });

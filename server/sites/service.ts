@@ -1,6 +1,6 @@
 import type { Role } from "../../src/domain/vocab";
 import { recordAudit } from "../audit";
-import { findUserByEmail, insertUser } from "../auth/repository";
+import { accountByEmail, addAccount } from "../auth/service";
 import { hashPassword } from "../auth/password";
 import type { Db } from "../db";
 import { AppError, conflict, notFound } from "../errors";
@@ -94,11 +94,11 @@ export async function createUser(
   u: { email: string; name: string; password: string; isAdmin: boolean },
   actorId: string | null,
 ) {
-  if (await findUserByEmail(db, u.email))
+  if (await accountByEmail(db, u.email))
     throw new AppError(409, "email_taken", "An account with that e-mail already exists.", { email: "Already in use" });
   const passwordHash = await hashPassword(u.password);
   return db.transaction().execute(async (trx) => {
-    const user = await insertUser(trx, { email: u.email, name: u.name, passwordHash, isAdmin: u.isAdmin });
+    const user = await addAccount(trx, { email: u.email, name: u.name, passwordHash, isAdmin: u.isAdmin });
     await recordAudit(trx, {
       siteId: null,
       entityType: "user",
@@ -119,12 +119,7 @@ export async function siteTimeZone(db: Db, siteId: string): Promise<string> {
 /** The curator sets the site's time zone (exports write local times in it); audited. */
 export async function setTimeZone(db: Db, siteId: string, timeZone: string, actorId: string) {
   return db.transaction().execute(async (trx) => {
-    const before = await trx
-      .selectFrom("sites")
-      .select("timeZone")
-      .where("id", "=", siteId)
-      .forUpdate()
-      .executeTakeFirst();
+    const before = await repo.findSiteForUpdate(trx, siteId);
     if (!before) throw notFound("That site");
     const site = (await repo.setTimeZone(trx, siteId, timeZone))!;
     if (before.timeZone !== timeZone)
@@ -148,12 +143,7 @@ export async function setTimeZone(db: Db, siteId: string, timeZone: string, acto
  */
 export async function setCurrency(db: Db, siteId: string, currency: string, from: string | undefined, actorId: string) {
   return db.transaction().execute(async (trx) => {
-    const before = await trx
-      .selectFrom("sites")
-      .select("currency")
-      .where("id", "=", siteId)
-      .forUpdate()
-      .executeTakeFirst();
+    const before = await repo.findSiteForUpdate(trx, siteId);
     if (!before) throw notFound("That site");
     if (from !== undefined && from !== before.currency)
       throw new AppError(
