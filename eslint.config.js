@@ -61,6 +61,51 @@ const boundaries = [
   },
 ];
 
+/**
+ * Only repository files run queries (DEVELOPERS.md "Where code lives"): a Kysely statement (`selectFrom`,
+ * `insertInto`, `updateTable`, `deleteFrom`, `mergeInto`) or an executed raw `sql` template. Query fragments
+ * (`sql\`now()\`` in a patch) may be built elsewhere and handed to a repository.
+ */
+const QUERY_STATEMENTS = [
+  {
+    selector:
+      "CallExpression[callee.property.name=/^(selectFrom|insertInto|updateTable|deleteFrom|mergeInto|replaceInto)$/]",
+    message: "Queries live in the domain's repository (repository.ts or *-repository.ts); call it from here.",
+  },
+  {
+    selector: "CallExpression[callee.property.name=/^execute/][callee.object.type='TaggedTemplateExpression']",
+    message: "Raw SQL lives in the domain's repository (repository.ts or *-repository.ts); call it from here.",
+  },
+];
+
+/**
+ * Server files that still run queries outside a repository, to be moved (each move deletes its line; the list
+ * only shrinks). A new file that queries goes into a repository instead.
+ */
+const QUERIES_NOT_YET_MOVED = [
+  "server/audit.ts",
+  "server/auth/lucia.ts",
+  "server/defects/evidence.ts",
+  "server/defects/pins.ts",
+  "server/defects/views.ts",
+  "server/export-stream.ts",
+  "server/idempotency/service.ts",
+  "server/inventory/csv-commit.ts",
+  "server/inventory/csv-export.ts",
+  "server/inventory/csv-import.ts",
+  "server/inventory/tags-service.ts",
+  "server/mail/outbox.ts",
+  "server/notifications/service.ts",
+  "server/notifications/weekly.ts",
+  "server/parts/demand.ts",
+  "server/parts/service.ts",
+  "server/parts/share.ts",
+  "server/parts/workflow.ts",
+  "server/prepared-files/service.ts",
+  "server/reports/labels.ts",
+  "server/reports/survey-data.ts",
+];
+
 export default tseslint.config(
   {
     ignores: ["node_modules/", "dist/", ".data/", "test-results/", "playwright-report/", "fonts/", "src/public/"],
@@ -120,5 +165,21 @@ export default tseslint.config(
   {
     files: ["server/**/*.ts", "db/**/*.{ts,mjs}", "tests/**/*.ts", "e2e/**/*.ts", "*.config.{ts,js}"],
     languageOptions: { globals: globals.node },
+  },
+  {
+    // Not covered: server/cli and server/bench (scripts that write the bench's generated sites directly and
+    // replay raw SQL as the baseline a figure is measured against), server/health.ts (the readiness probe's
+    // `select 1` is a connection check, not data), db/ (migrations are frozen DDL, the seed writes the demo
+    // scenario directly), tests.
+    files: ["server/**/*.ts"],
+    ignores: [
+      "server/**/repository.ts",
+      "server/**/*-repository.ts",
+      "server/cli/**",
+      "server/bench/**",
+      "server/health.ts",
+      ...QUERIES_NOT_YET_MOVED,
+    ],
+    rules: { "no-restricted-syntax": ["error", ...QUERY_STATEMENTS] },
   },
 );

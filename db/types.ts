@@ -832,7 +832,7 @@ export interface PreparedFilesTable {
 
 /**
  * Per-board counts the site overview and the board list read (issue 15), kept current by every
- * inventory write that changes them; server/inventory/board-summaries.ts is the only writer.
+ * inventory write that changes them; server/inventory/board-summaries-repository.ts is the only writer.
  */
 export interface BoardSummariesTable {
   boardId: string;

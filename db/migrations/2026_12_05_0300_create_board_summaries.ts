@@ -6,7 +6,7 @@ import { Kysely, sql } from "kysely";
 // 'undecided'), 'custody' (a custody state, or 'none' for a position without a current component),
 // 'grade' (the current component's newest ASTM D610 grade, or 'ungraded'), 'retained' ('yes'/'no':
 // original fabric neither scrapped nor missing). Owned by the inventory domain
-// (server/inventory/board-summaries.ts is its only writer). Frozen in time: never import app code
+// (server/inventory/board-summaries-repository.ts is its only writer). Frozen in time: never import app code
 // here — the statement that fills it for existing data is a copy of that module's, as of today.
 
 export async function up(db: Kysely<any>): Promise<void> {

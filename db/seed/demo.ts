@@ -9,7 +9,7 @@ import { seedInvitations } from "./invitations";
 import { seedPhotos } from "./photos";
 import { seedReadings } from "./readings";
 import { seedReturnToService } from "./return-to-service";
-import { refreshSiteSummaries } from "../../server/inventory/board-summaries";
+import { refreshSiteSummaries } from "../../server/inventory/board-summaries-repository";
 
 type Db = Kysely<Database>;
 

@@ -14,7 +14,7 @@ import { sql } from "kysely";
 import { hashPassword } from "../auth/password";
 import type { Db } from "../db";
 import { reconcileDemand } from "../parts/demand";
-import { refreshSiteSummaries } from "../inventory/board-summaries";
+import { refreshSiteSummaries } from "../inventory/board-summaries-repository";
 import { priorityScore } from "../../src/domain/priority";
 
 export const BENCH_PASSWORD = "bench-password-123";

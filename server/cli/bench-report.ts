@@ -23,7 +23,7 @@ import { migrateToLatest } from "../../db/migrate";
 import { ensureDatabase } from "../../db/pg";
 import { createApp } from "../app";
 import { hashPassword } from "../auth/password";
-import { refreshBoardSummaries } from "../inventory/board-summaries";
+import { refreshBoardSummaries } from "../inventory/board-summaries-repository";
 import { createDb, MAINTENANCE_DB_OPTIONS, type Db } from "../db";
 import { StorageNotFound, type PhotoStorage } from "../photos/storage";
 import { downscale, REPORT_PHOTO_PX } from "../reports/service";

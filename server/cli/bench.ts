@@ -44,7 +44,7 @@ import { ensureDatabase, pgBin, projectRoot } from "../../db/pg";
 import { createApp } from "../app";
 import { createDb, MAINTENANCE_DB_OPTIONS } from "../db";
 import { CSV_COLUMNS } from "../defects/csv";
-import { applySort, registerBase } from "../defects/list-query";
+import { applySort, registerBase } from "../defects/list-repository";
 import { measurePaint, openBrowser, STATIC_PAGE, writeStaticPage, type PaintFigures } from "../bench/paint";
 import { capturingDb, planReplay, replay, type Replay } from "../bench/replay";
 import { BENCH_PASSWORD, describeSite, generateSite, type BenchSite } from "../bench/site";

@@ -5,7 +5,7 @@ import { DEFECT_CATEGORY_LABELS, DEFECT_SEVERITY_LABELS, DEFECT_STATUS_LABELS } 
 import { PARTS_STATE_LABELS, type ListQuery } from "../../src/schemas/defects";
 import { readPage, runExport, type ExportWriter } from "../export-stream";
 import { localDateTime, localHeader } from "../../src/domain/local-time";
-import { applyFilters, applySort, registerBase, rowsInOrder, type RegisterRow } from "./list-query";
+import { applyFilters, applySort, registerBase, rowsInOrder, type RegisterRow } from "./list-repository";
 
 /** Rows per page: each page is one short query (about 0.5 MB of CSV), so the export holds no connection long. */
 const BATCH = 1000;

@@ -3,7 +3,7 @@ import { notFound } from "../errors";
 import { ACTIVE_STATUSES, allowedTargets, canEdit } from "../../src/domain/defect-workflow";
 import { rankDefects } from "../../src/domain/priority";
 import { listQuery } from "../../src/schemas/defects";
-import { registerQuery, type RegisterRow } from "./list-query";
+import { listPage, registerQuery, type RegisterRow } from "./list-repository";
 import * as repo from "./repository";
 import { scoreFor, type Ctx } from "./service";
 
@@ -60,12 +60,7 @@ export async function detail(db: Db, ctx: Ctx, id: string) {
 export async function repairPlan(db: Db, siteId: string) {
   const f = listQuery.parse({ status: ACTIVE_STATUSES, sort: "priority", dir: "desc" });
   const rows = (await registerQuery(db, siteId, f, "9999-12-31").execute()) as RegisterRow[];
-  const pins = await db
-    .selectFrom("defectPins")
-    .select(["defectId", "direction", "relativeTo"])
-    .where("siteId", "=", siteId)
-    .where("removedAt", "is", null)
-    .execute();
+  const pins = await repo.activePins(db, siteId);
   const pinOf = new Map(pins.map((p) => [p.defectId, { direction: p.direction, relativeTo: p.relativeTo }]));
   const ranked = rankDefects(
     rows.map((r) => ({
@@ -130,3 +125,6 @@ export const positionsOf = (db: Db, siteId: string, boardId: string) => repo.lis
 /** Where a finding sits (board, position, component, inspection), to prefill a new defect. */
 export const findingContext = (db: Db, siteId: string, q: Parameters<typeof repo.findingContext>[2]) =>
   repo.findingContext(db, siteId, q);
+
+/** One page of the register in the list's order, with the total that matches its filters. */
+export const registerPage = listPage;

@@ -2,7 +2,7 @@ import { sql } from "kysely";
 import type { Insertable, UpdateObject } from "kysely";
 import type { Database } from "../../db/types";
 import type { Db } from "../db";
-import { rankOrderSql, registerBase, ROW_SELECTION, type RegisterRow } from "./list-query";
+import { rankOrderSql, registerBase, ROW_SELECTION, type RegisterRow } from "./list-repository";
 
 export const findRow = async (db: Db, siteId: string, id: string) =>
   (await registerBase(db, siteId).select(ROW_SELECTION).where("d.id", "=", id).executeTakeFirst()) as
@@ -274,3 +274,12 @@ export async function findingContext(
     inspectionId: q.inspectionId ?? null,
   };
 }
+
+/** The site's pins in force (the curator's order). */
+export const activePins = (db: Db, siteId: string) =>
+  db
+    .selectFrom("defectPins")
+    .select(["defectId", "direction", "relativeTo"])
+    .where("siteId", "=", siteId)
+    .where("removedAt", "is", null)
+    .execute();

@@ -20,7 +20,7 @@ import { limitExports } from "../export-stream";
 import { idempotent } from "../idempotency/middleware";
 import { requireSiteRole } from "../middleware/roles";
 import { streamCsv } from "./csv";
-import { listPage } from "./list-query";
+import { registerPage } from "./reads";
 import { pin, unpin } from "./pins";
 import { detail, findingContext, formOptions, positionsOf, repairPlan, toJson } from "./reads";
 import { defectsOfBoardReadings, evidenceOf } from "./evidence";
@@ -50,7 +50,7 @@ export function defectRoutes(db: Db, mail?: MailDeps) {
 
   r.get(base, member, async (req, res) => {
     const f = listQuery.parse(req.query);
-    const { rows, total } = await listPage(db, ctxOf(req, res).siteId, f, todayOf(f));
+    const { rows, total } = await registerPage(db, ctxOf(req, res).siteId, f, todayOf(f));
     res.json({ rows: rows.map(toJson), total, page: f.page, size: f.size });
   });
 

@@ -63,3 +63,18 @@ export async function refreshSiteSummaries(trx: Db, siteId: string) {
     rows.map((r) => r.id),
   );
 }
+
+export interface Tally {
+  boardId: string | null;
+  facet: "positions" | "disposition" | "custody" | "grade" | "retained";
+  key: string;
+  surveyed: boolean;
+  n: number;
+}
+
+/** The site's summary rows summed over boards, except the per-board position counts (the overview). */
+export const summaryTallies = (db: Db, siteId: string) =>
+  sql<Tally>`select case when facet = 'positions' then board_id end as "boardId", facet, key, surveyed,
+      sum(n)::int as n
+    from board_summaries where site_id = ${siteId}
+    group by 1, facet, key, surveyed`.execute(db);

@@ -27,7 +27,7 @@ export const insertFloodEvent = (db: Db, v: Insertable<FloodEventsTable>) =>
 
 /**
  * Boards with their position count and how many positions have at least one inspection, from the
- * per-board summaries the writes keep current (server/inventory/board-summaries.ts): two rows per
+ * per-board summaries the writes keep current (server/inventory/board-summaries-repository.ts): two rows per
  * board at most, never the site's positions (issue 15).
  */
 export const listBoards = (db: Db, siteId: string) =>
@@ -95,3 +95,11 @@ export const insertSection = (db: Db, v: Insertable<SectionsTable>) =>
   db.insertInto("sections").values(v).returningAll().executeTakeFirstOrThrow();
 
 export const deleteSection = (db: Db, id: string) => db.deleteFrom("sections").where("id", "=", id).execute();
+
+/** The site's boards, id and name, by name. */
+export const boardNames = (db: Db, siteId: string) =>
+  db.selectFrom("boards").select(["id", "name"]).where("siteId", "=", siteId).orderBy("name").execute();
+
+/** A section's id and name (the position panel's heading). */
+export const sectionBrief = (db: Db, sectionId: string) =>
+  db.selectFrom("sections").select(["id", "name"]).where("id", "=", sectionId).executeTakeFirst();

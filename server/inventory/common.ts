@@ -1,35 +1,19 @@
 /**
  * Pieces every inventory service shares: who is acting, the optimistic-version update
- * (UPDATE … WHERE id AND version … RETURNING; no row → 409 with the fresh record), and
+ * (server/inventory/owned-repository.ts; no row → 409 with the fresh record), and
  * turning PostgreSQL's unique violations into clear 409s.
  */
 import type { Response } from "express";
-import { sql, type Selectable } from "kysely";
+import type { Selectable } from "kysely";
 import type { Database } from "../../db/types";
 import type { Db } from "../db";
 import { AppError, conflict, notFound } from "../errors";
+import { findOwned, updateIfVersion } from "./owned-repository";
 
 export type Editable = "floodEvents" | "boards" | "sections" | "positions" | "components";
 export type Row<T extends Editable> = Selectable<Database[T]>;
 
 export const actorOf = (res: Response) => res.locals.user!.id;
-
-export async function findOwned<T extends Editable>(
-  db: Db,
-  table: T,
-  siteId: string,
-  id: string,
-  lock = false,
-): Promise<Row<T> | undefined> {
-  // The table name is a closed union, so the dynamic select stays type-safe at the call site.
-  let q = (db as Db)
-    .selectFrom(table as "boards")
-    .selectAll()
-    .where("id", "=", id)
-    .where("siteId", "=", siteId);
-  if (lock) q = q.forUpdate();
-  return (await q.executeTakeFirst()) as Row<T> | undefined;
-}
 
 export async function requireOwned<T extends Editable>(
   db: Db,
@@ -64,14 +48,7 @@ export async function updateVersioned<T extends Editable>(
   patch: Record<string, unknown>,
   what: string,
 ): Promise<Row<T>> {
-  const updated = await db
-    .updateTable(table as "boards")
-    .set({ ...(patch as object), version: sql`version + 1`, updatedAt: new Date() })
-    .where("id", "=", id)
-    .where("siteId", "=", siteId)
-    .where("version", "=", version)
-    .returningAll()
-    .executeTakeFirst();
+  const updated = await updateIfVersion(db, table, siteId, id, version, patch);
   if (updated) return updated as Row<T>;
   const fresh = await findOwned(db, table, siteId, id);
   if (!fresh) throw notFound(what);

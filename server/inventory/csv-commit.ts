@@ -15,7 +15,7 @@ import type { DecodedText } from "../csv-read";
 import { UNIQUE, mapUnique, updateVersioned } from "./common";
 import { answerOf, validateImport, type PlannedRow } from "./csv-import";
 import type { ImportRecord } from "./csv-row";
-import { refreshBoardSummaries } from "./board-summaries";
+import { refreshBoardSummaries } from "./board-summaries-repository";
 
 /** 400 import_invalid with every row's errors, flattened to fields "<line>.<column>" too. */
 export class ImportInvalid extends AppError {

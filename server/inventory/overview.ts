@@ -1,38 +1,22 @@
 /**
  * Site overview counts (see overviewResponse in src/schemas/inventory.ts for each definition),
- * read from the per-board summaries the writes keep current (server/inventory/board-summaries.ts):
+ * read from the per-board summaries the writes keep current (server/inventory/board-summaries-repository.ts):
  * one grouped statement over a few dozen rows per board, so its cost grows with boards, not
  * positions (issue 15). Board facet rows stay per board; the others are summed over the site.
  */
-import { sql } from "kysely";
 import { CUSTODY, DISPOSITIONS } from "../../src/domain/vocab";
 import { GRADE_KEYS, type Overview } from "../../src/schemas/inventory";
 import type { Db } from "../db";
+import { summaryTallies } from "./board-summaries-repository";
+import { boardNames } from "./boards-repository";
 
 const zeros = <K extends string>(keys: readonly K[]) =>
   Object.fromEntries(keys.map((k) => [k, 0])) as Record<K, number>;
 
-interface Tally {
-  boardId: string | null;
-  facet: "positions" | "disposition" | "custody" | "grade" | "retained";
-  key: string;
-  surveyed: boolean;
-  n: number;
-}
-
-const tallies = (db: Db, siteId: string) =>
-  sql<Tally>`select case when facet = 'positions' then board_id end as "boardId", facet, key, surveyed,
-      sum(n)::int as n
-    from board_summaries where site_id = ${siteId}
-    group by 1, facet, key, surveyed`.execute(db);
-
 const has = <K extends string>(rec: Record<K, number>, k: string): k is K => Object.hasOwn(rec, k);
 
 export async function overview(db: Db, siteId: string): Promise<Overview> {
-  const [{ rows }, boards] = await Promise.all([
-    tallies(db, siteId),
-    db.selectFrom("boards").select(["id", "name"]).where("siteId", "=", siteId).orderBy("name").execute(),
-  ]);
+  const [{ rows }, boards] = await Promise.all([summaryTallies(db, siteId), boardNames(db, siteId)]);
   const bySurveyState = zeros(["not_surveyed", "inspected", "decided"] as const);
   const byDisposition = zeros([...DISPOSITIONS, "undecided"] as const);
   const byCustody = zeros(CUSTODY);

@@ -273,3 +273,16 @@ export const lookup = (db: Db, siteId: string, q: string) => {
       .execute()
   );
 };
+
+/** The board a position is on; throws when the position is gone. */
+export const boardIdOf = async (db: Db, positionId: string) =>
+  (await db.selectFrom("positions").select("boardId").where("id", "=", positionId).executeTakeFirstOrThrow()).boardId;
+
+/** A position's place on its board's grid with the board's face and water line (the recommendation's geometry). */
+export const positionGeometry = (db: Db, positionId: string) =>
+  db
+    .selectFrom("positions as p")
+    .innerJoin("boards as b", "b.id", "p.boardId")
+    .select(["p.gridRow", "p.rowSpan", "b.gridRows", "b.faceHeightMm", "b.waterLineMm"])
+    .where("p.id", "=", positionId)
+    .executeTakeFirst();

@@ -8,7 +8,7 @@ import { AppError } from "../errors";
 import { UNIQUE, defined, mapUnique, requireOwned, stale, updateVersioned } from "./common";
 import * as repo from "./positions-repository";
 import { demandChanged, demandOfPosition } from "../parts/service";
-import { refreshBoardSummaries } from "./board-summaries";
+import { refreshBoardSummaries } from "./board-summaries-repository";
 
 type Board = Selectable<BoardsTable>;
 interface Cell {

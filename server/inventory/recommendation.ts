@@ -10,6 +10,7 @@ import { recommendDisposition, type FloodInput } from "../../src/domain/flood-gu
 import type { RecommendationResponse } from "../../src/schemas/inventory";
 import type { Db } from "../db";
 import { latestFloodEvent } from "./boards-repository";
+import { positionGeometry } from "./positions-repository";
 import { latestInspection } from "./survey-repository";
 
 type Component = Selectable<ComponentsTable>;
@@ -20,12 +21,7 @@ type Component = Selectable<ComponentsTable>;
  * grid rows); with neither, it is treated as below — the cautious reading.
  */
 async function belowFromBoard(db: Db, positionId: string): Promise<boolean | null> {
-  const r = await db
-    .selectFrom("positions as p")
-    .innerJoin("boards as b", "b.id", "p.boardId")
-    .select(["p.gridRow", "p.rowSpan", "b.gridRows", "b.faceHeightMm", "b.waterLineMm"])
-    .where("p.id", "=", positionId)
-    .executeTakeFirst();
+  const r = await positionGeometry(db, positionId);
   if (!r || r.faceHeightMm === null || r.waterLineMm === null) return null;
   try {
     // The same geometry the board elevation draws (src/domain/board-geometry.ts).

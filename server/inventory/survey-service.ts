@@ -11,10 +11,12 @@ import type {
 import { diff, recordAudit } from "../audit";
 import type { Db } from "../db";
 import { AppError } from "../errors";
-import { UNIQUE, defined, findOwned, mapUnique, requireOwned, stale, updateVersioned } from "./common";
+import { UNIQUE, defined, mapUnique, requireOwned, stale, updateVersioned } from "./common";
+import { findOwned } from "./owned-repository";
 import { recommendFor } from "./recommendation";
 import * as repo from "./survey-repository";
 import * as positions from "./positions-repository";
+import * as boards from "./boards-repository";
 import * as readings from "../readings/service";
 import {
   CUSTODY,
@@ -31,19 +33,18 @@ import {
 } from "../../src/domain/custody-chain";
 import { demandChanged } from "../parts/service";
 import { componentHeritageChanged } from "../defects/service";
-import { refreshBoardSummaries } from "./board-summaries";
+import { refreshBoardSummaries } from "./board-summaries-repository";
 
 type Inspect = z.output<typeof createInspectionBody>;
 type Custody = z.output<typeof custodyBody>;
 type Decide = z.output<typeof dispositionBody>;
 
-/** The component fields the site overview counts (server/inventory/board-summaries.ts). */
+/** The component fields the site overview counts (server/inventory/board-summaries-repository.ts). */
 const COUNTED = ["heritage", "custody", "disposition"] as const;
 const countedChange = (before: Record<string, unknown>, patch: Record<string, unknown>) =>
   COUNTED.some((k) => k in patch && patch[k] !== before[k]);
 
-const boardOf = async (db: Db, positionId: string) =>
-  (await db.selectFrom("positions").select("boardId").where("id", "=", positionId).executeTakeFirstOrThrow()).boardId;
+const boardOf = (db: Db, positionId: string) => positions.boardIdOf(db, positionId);
 
 export async function patchComponent(db: Db, siteId: string, id: string, actorId: string, body: PatchComponentBody) {
   const { version, tagNumber, ...rest } = body;
@@ -371,9 +372,7 @@ export async function recommendation(db: Db, siteId: string, componentId: string
 export async function positionDetail(db: Db, siteId: string, positionId: string) {
   const position = await requireOwned(db, "positions", siteId, positionId, "That position");
   const board = await requireOwned(db, "boards", siteId, position.boardId, "That board");
-  const section = position.sectionId
-    ? await db.selectFrom("sections").select(["id", "name"]).where("id", "=", position.sectionId).executeTakeFirst()
-    : undefined;
+  const section = position.sectionId ? await boards.sectionBrief(db, position.sectionId) : undefined;
   const component = (await positions.currentComponent(db, positionId)) ?? null;
   const [inspections, history, counts] = await Promise.all([
     repo.inspectionsOfPosition(db, positionId),

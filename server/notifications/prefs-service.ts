@@ -3,7 +3,7 @@ import { recordAudit } from "../audit";
 import type { Db } from "../db";
 import { AppError } from "../errors";
 import { membershipsOf } from "../sites/reads";
-import { getPrefs, setPref } from "./prefs";
+import { getPrefs, optedOut, setPref } from "./prefs-repository";
 
 /** Only the e-mails one of the person's roles (on any site) receives: a viewer is offered none. */
 const received = async (db: Db, userId: string) =>
@@ -35,3 +35,6 @@ export async function switchPreference(db: Db, userId: string, key: Notification
     });
   });
 }
+
+/** The users among `userIds` who have switched `key` off (for senders outside this domain). */
+export const optedOutOf = (db: Db, userIds: string[], key: NotificationKey) => optedOut(db, userIds, key);

@@ -8,7 +8,7 @@ import type { NotificationKey } from "../../src/schemas/account";
 import { compose, type Composed } from "../mail/compose";
 import type { MailDeps } from "../mail/mailer";
 import { sendOrQueue } from "../mail/outbox";
-import { optedOut } from "./prefs";
+import { optedOut } from "./prefs-repository";
 
 export interface NotifyResult {
   sent: string[];

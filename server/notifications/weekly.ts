@@ -7,7 +7,7 @@ import { sql } from "kysely";
 import type { Db } from "../db";
 import type { MailDeps } from "../mail/mailer";
 import { sendOrQueue } from "../mail/outbox";
-import { optedOut } from "./prefs";
+import { optedOut } from "./prefs-repository";
 import { buildWeeklySummary, LIST_LIMIT, type WeeklyInput } from "./weekly-text";
 
 const WEEK_MS = 7 * 24 * 3600 * 1000;

@@ -22,7 +22,7 @@ import { requireSiteRole } from "../middleware/roles";
 import { limitExports, runExport } from "../export-stream";
 import { siteTimeZone } from "../sites/service";
 import { localDateTime } from "../../src/domain/local-time";
-import { nameplateThumb } from "./photo-bytes";
+import { nameplateThumb } from "../photos/reads";
 import * as service from "./service";
 import * as share from "./share";
 

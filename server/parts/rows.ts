@@ -1,5 +1,4 @@
 /** Builds the wanted-list rows the API sends: a line with its positions, quantity, money and photos. */
-import { sql } from "kysely";
 import { lineRef, partTitle } from "../../src/domain/part-workflow";
 import type { PartLine, PartsBudget } from "../../src/schemas/parts";
 import type { Db } from "../db";
@@ -121,29 +120,7 @@ export async function siteBudget(
   siteId: string,
   boards: Array<{ id: string; name: string }>,
 ): Promise<PartsBudget> {
-  const r = await sql<{ boardId: string; estimated: number; spent: number; unestimatedLines: number }>`
-    with lines as (
-      select id, manual_qty, estimated_unit_cost, status from part_lines where site_id = ${siteId} and status <> 'cancelled'
-    ), q as (
-      select l.id as line_id, coalesce(dl.board_id::text, '') as board, dl.qty
-      from lines l join part_demand_links dl on dl.line_id = l.id and (case when l.status = 'fitted' then dl.fitted else dl.active end)
-      union all
-      select id, '', manual_qty from lines where manual_qty > 0
-    ), qb as (
-      select line_id, board, sum(qty) as qty from q group by line_id, board having sum(qty) > 0
-    ), tot as (
-      select line_id, sum(qty) as total from qb group by line_id
-    ), spent as (
-      select a.line_id, sum(a.cost) as spent from part_acquisitions a join lines l on l.id = a.line_id group by a.line_id
-    ), per as (
-      select qb.board, coalesce(l.estimated_unit_cost * qb.qty, 0) as estimated, coalesce(s.spent, 0) * qb.qty / tot.total as spent,
-        (l.estimated_unit_cost is null)::int as unestimated
-      from qb join lines l on l.id = qb.line_id join tot on tot.line_id = qb.line_id left join spent s on s.line_id = qb.line_id
-      union all
-      select '', 0, s.spent, 0 from spent s where s.spent > 0 and not exists (select 1 from tot where tot.line_id = s.line_id)
-    )
-    select board as "boardId", round(sum(estimated), 2)::float8 as estimated, round(sum(spent), 2)::float8 as spent, sum(unestimated)::int as "unestimatedLines"
-    from per group by board order by board = '', board`.execute(db);
+  const r = await repo.budgetByBoard(db, siteId);
   const names = new Map(boards.map((b) => [b.id, b.name]));
   const rows = r.rows.map((b) => ({
     ...b,

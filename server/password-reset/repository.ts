@@ -1,3 +1,4 @@
+import { sql } from "kysely";
 import type { Db } from "../db";
 
 export const insertReset = (db: Db, v: { userId: string; tokenHash: string; expiresAt: Date }) =>
@@ -38,3 +39,7 @@ export const useAllFor = (db: Db, userId: string) =>
     .where("userId", "=", userId)
     .where("usedAt", "is", null)
     .execute();
+
+/** Holds the person's reset requests until the transaction ends: requests arriving together are counted one by one. */
+export const lockResetsOf = (trx: Db, userId: string) =>
+  sql`select pg_advisory_xact_lock(hashtext(${"password-reset:" + userId}))`.execute(trx);

@@ -1,4 +1,5 @@
 import type { RENDITIONS } from "../../src/schemas/photos";
+import type { Readable } from "node:stream";
 import type { Db } from "../db";
 import { AppError, notFound } from "../errors";
 import * as repo from "./repository";
@@ -51,6 +52,23 @@ export async function renditionOf(
         "file_missing",
         "The picture's file is missing from storage; run the photo cleanup report.",
       );
+    throw e;
+  }
+}
+
+/** The thumbnail of a live nameplate photo of the site, or null (no such photo, or its file is missing). */
+export async function nameplateThumb(
+  db: Db,
+  storage: PhotoStorage,
+  siteId: string,
+  photoId: string,
+): Promise<Readable | null> {
+  const photo = await repo.findNameplate(db, siteId, photoId);
+  if (!photo) return null;
+  try {
+    return await storage.get(photo.thumbKey);
+  } catch (e) {
+    if (e instanceof StorageNotFound) return null;
     throw e;
   }
 }

@@ -233,3 +233,27 @@ export const deletePhotoRow = (db: Db, photoId: string) => db.deleteFrom("photos
 /** Written by the rendition job only. */
 export const setRenditionState = (db: Db, id: string, state: RenditionState, error: string | null) =>
   db.updateTable("photos").set({ renditionState: state, renditionError: error }).where("id", "=", id).execute();
+
+/** A live nameplate photo of the site (its thumbnail's key), or undefined. */
+export const findNameplate = (db: Db, siteId: string, photoId: string) =>
+  db
+    .selectFrom("photos")
+    .select(["id", "thumbKey"])
+    .where("id", "=", photoId)
+    .where("siteId", "=", siteId)
+    .where("kind", "=", "nameplate")
+    .where("deletedAt", "is", null)
+    .executeTakeFirst();
+
+/** Whether the defect was raised, is held or was repaired by this person (a volunteer's photo target). */
+export const defectTouchedBy = async (db: Db, defectId: string, userId: string) =>
+  !!(await db
+    .selectFrom("defects")
+    .select("id")
+    .where("id", "=", defectId)
+    .where((eb) => eb.or([eb("createdBy", "=", userId), eb("assigneeId", "=", userId), eb("repairedBy", "=", userId)]))
+    .executeTakeFirst());
+
+/** Marks a photo deleted (kept for the retention period, then purged). */
+export const softDeletePhoto = (db: Db, photoId: string) =>
+  db.updateTable("photos").set({ deletedAt: new Date() }).where("id", "=", photoId).execute();

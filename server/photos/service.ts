@@ -269,7 +269,7 @@ export async function bulkAssign(db: Db, siteId: string, actor: Actor, body: Bul
 export async function softDelete(db: Db, siteId: string, photoId: string, actor: Actor) {
   await db.transaction().execute(async (trx) => {
     const row = await currentOr404(trx, siteId, photoId);
-    await trx.updateTable("photos").set({ deletedAt: new Date() }).where("id", "=", photoId).execute();
+    await repo.softDeletePhoto(trx, photoId);
     await recordAudit(trx, {
       siteId,
       entityType: "photo",

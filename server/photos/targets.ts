@@ -88,16 +88,7 @@ export async function assertMayAttach(db: Db, siteId: string, user: User, role: 
   if (can(role, "photos.file")) return;
   if (role === "volunteer" && ids.defectId && !ids.inspectionId && !ids.custodyMoveId) {
     const d = await repo.findDefectTarget(db, siteId, ids.defectId);
-    const own =
-      d &&
-      (await db
-        .selectFrom("defects")
-        .select("id")
-        .where("id", "=", ids.defectId)
-        .where((eb) =>
-          eb.or([eb("createdBy", "=", user.id), eb("assigneeId", "=", user.id), eb("repairedBy", "=", user.id)]),
-        )
-        .executeTakeFirst());
+    const own = d && (await repo.defectTouchedBy(db, ids.defectId, user.id));
     if (own) return;
     throw forbidden("Volunteers may attach photos to defects they raised, hold or repaired.");
   }

@@ -17,6 +17,7 @@ import { writeInventoryCsv } from "../inventory/csv-export";
 import { writePartsCsv } from "../parts/service";
 import type { PhotoStorage } from "../photos/storage";
 import { prepareSurveyReport, writeSurveyReport } from "../reports/service";
+import { findSite } from "../sites/reads";
 
 export type Progress = (done: number, total?: number) => void;
 
@@ -78,11 +79,8 @@ export async function renderTo(
   const ws = createWriteStream(path);
   const failed = new Promise<never>((_, reject) => ws.once("error", reject));
   failed.catch(() => {});
-  const site = await db
-    .selectFrom("sites")
-    .select(["name", "timeZone"])
-    .where("id", "=", input.siteId)
-    .executeTakeFirstOrThrow();
+  const site = await findSite(db, input.siteId);
+  if (!site) throw new Error(`site ${input.siteId} is gone`);
   const day = localDateTime(new Date(), site.timeZone).slice(0, 10);
   const work = async (): Promise<string> => {
     switch (input.kind) {

@@ -9,7 +9,8 @@ import { watchSchedule } from "../../src/domain/rts-watch";
 import { paths } from "../../src/config/paths";
 import { compose } from "../mail/compose";
 import type { MailDeps } from "../mail/mailer";
-import { optedOut } from "../notifications/prefs";
+import { accountById } from "../auth/service";
+import { optedOutOf } from "../notifications/prefs-service";
 import * as repo from "./repository";
 
 export interface OverdueResult {
@@ -44,13 +45,13 @@ export async function sendOverdueWatchNotices(deps: MailDeps, now: Date): Promis
       if (await repo.claimNotice(deps.db, { ...base, sentTo: null, outcome: "no_qualified_person" })) out.skipped++;
       continue;
     }
-    const off = (await optedOut(deps.db, [qp], "watch_overdue")).has(qp);
+    const off = (await optedOutOf(deps.db, [qp], "watch_overdue")).has(qp);
     if (!(await repo.claimNotice(deps.db, { ...base, sentTo: qp, outcome: off ? "switched_off" : "sent" }))) continue; // already noticed
     if (off) {
       out.skipped++;
       continue;
     }
-    const user = await deps.db.selectFrom("users").select(["email", "name"]).where("id", "=", qp).executeTakeFirst();
+    const user = await accountById(deps.db, qp);
     if (!user) continue;
     const url = `${deps.publicUrl}${paths.rtsWatch.href(s.siteId, s.boardId, s.id)}`;
     const late = Math.max(1, Math.round((now.getTime() - dueAt.getTime()) / 60_000));

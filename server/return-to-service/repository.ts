@@ -5,6 +5,7 @@
  */
 import { sql, type Insertable, type Updateable } from "kysely";
 import type { Database } from "../../db/types";
+import type { EvidenceItem } from "../../src/schemas/return-to-service";
 import type { Db } from "../db";
 
 type T = Database;
@@ -424,3 +425,22 @@ export const setNoticeOutcome = (
     .where("attempt", "=", attempt)
     .where("dueAt", "=", dueAt)
     .execute();
+
+/** Whether a sign-off's evidence (a reading, photo, defect or watch check) exists on this site. */
+export async function evidenceOnSite(db: Db, siteId: string, type: EvidenceItem["type"], id: string) {
+  const table = {
+    insulation_reading: "insulationReadings",
+    thermal_scan: "thermalScans",
+    ground_check: "groundLampChecks",
+    photo: "photos",
+    defect: "defects",
+    watch_check: "rtsWatchChecks",
+  } as const;
+  const row = await db
+    .selectFrom(table[type])
+    .select("id")
+    .where("siteId", "=", siteId)
+    .where("id", "=", id)
+    .executeTakeFirst();
+  return !!row;
+}

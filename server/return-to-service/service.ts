@@ -495,23 +495,9 @@ export async function moveStep(db: Db, ctx: Ctx, stepId: string, toIndex: number
 
 // ---------------- sign-offs ----------------
 async function checkEvidence(trx: Trx, siteId: string, items: EvidenceItem[]) {
-  const table = {
-    insulation_reading: "insulationReadings",
-    thermal_scan: "thermalScans",
-    ground_check: "groundLampChecks",
-    photo: "photos",
-    defect: "defects",
-    watch_check: "rtsWatchChecks",
-  } as const;
-  for (const e of items) {
-    const row = await trx
-      .selectFrom(table[e.type])
-      .select("id")
-      .where("siteId", "=", siteId)
-      .where("id", "=", e.id)
-      .executeTakeFirst();
-    if (!row) throw invalid("evidence", `The linked ${e.type.replace("_", " ")} is not on this site.`);
-  }
+  for (const e of items)
+    if (!(await repo.evidenceOnSite(trx, siteId, e.type, e.id)))
+      throw invalid("evidence", `The linked ${e.type.replace("_", " ")} is not on this site.`);
 }
 
 async function assertQualified(trx: Trx, ctx: Ctx, now: Date) {

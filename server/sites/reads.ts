@@ -15,6 +15,9 @@ export async function sitesFor(db: Db, user: { id: string; isAdmin: boolean }) {
 
 export const findSite = (db: Db, siteId: string) => repo.findSite(db, siteId);
 
+/** The site's name; throws when the site is gone. */
+export const siteName = (db: Db, siteId: string) => repo.siteName(db, siteId);
+
 /** A person's memberships (site id and name, role), by site name: the session's answer and whose e-mails they get. */
 export const membershipsOf = (db: Db, userId: string) => repo.listMembershipsOfUser(db, userId);
 

@@ -88,3 +88,11 @@ export const setTimeZone = (db: Db, siteId: string, timeZone: string) =>
 
 export const setCurrency = (db: Db, siteId: string, currency: string) =>
   db.updateTable("sites").set({ currency }).where("id", "=", siteId).returning(siteCols).executeTakeFirst();
+
+/** The site's row, locked until the transaction ends (a setting's before-image, read then changed). */
+export const findSiteForUpdate = (trx: Db, siteId: string) =>
+  trx.selectFrom("sites").selectAll().where("id", "=", siteId).forUpdate().executeTakeFirst();
+
+/** The site's name (invitation e-mails, report titles); throws when the site is gone. */
+export const siteName = async (db: Db, siteId: string) =>
+  (await db.selectFrom("sites").select("name").where("id", "=", siteId).executeTakeFirstOrThrow()).name;

@@ -3,14 +3,14 @@ import { sql } from "kysely";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { CUSTODY, DISPOSITIONS } from "../../src/domain/vocab";
 import { GRADE_KEYS, overviewResponse, type Overview } from "../../src/schemas/inventory";
-import { refreshSiteSummaries } from "../../server/inventory/board-summaries";
+import { refreshSiteSummaries } from "../../server/inventory/board-summaries-repository";
 import { moveCustodyFor } from "../../server/inventory/survey-service";
 import { createTestDb, type TestDb } from "../helpers/db";
 import { makeCrew } from "../helpers/fixtures";
 import { startTestServer, type Client, type TestServer } from "../helpers/http";
 
 // Issue 15: the overview and the board list read per-board counts kept current by the writes
-// (server/inventory/board-summaries.ts). After every kind of write, and after a random sequence of
+// (server/inventory/board-summaries-repository.ts). After every kind of write, and after a random sequence of
 // them, what they answer must equal the counts taken from scratch over every position — the
 // definitions of overviewResponse in src/schemas/inventory.ts, computed here one position at a time.
 

@@ -5,7 +5,7 @@
  */
 import type { Db } from "../../server/db";
 import { syncDemand } from "../../server/parts/service";
-import { refreshBoardSummaries, refreshSummariesOfPositions } from "../../server/inventory/board-summaries";
+import { refreshBoardSummaries, refreshSummariesOfPositions } from "../../server/inventory/board-summaries-repository";
 import type { ComponentKind, Disposition } from "../../src/domain/vocab";
 
 export async function makeBoard(db: Db, siteId: string, name = "Main switchboard") {
