@@ -79,3 +79,34 @@ describe("import boundaries", () => {
     expect(await ruleIds(at, `${code}\nexport {};\n`)).not.toContain(BOUNDARY);
   });
 });
+
+describe("queries only in repository files", () => {
+  const QUERY = "no-restricted-syntax";
+  const statement =
+    'import type { Db } from "../db";\nexport const f = (db: Db) => db.selectFrom("sites").selectAll().execute();\n';
+  const raw =
+    'import { sql } from "kysely";\nimport type { Db } from "../db";\nexport const f = (db: Db) => sql`select 1`.execute(db);\n';
+  const write = 'import type { Db } from "../db";\nexport const f = (db: Db) => db.deleteFrom("sites").execute();\n';
+
+  it.each([
+    ["a service runs a Kysely select", "server/sites/service.ts", statement],
+    ["a reads module runs raw SQL", "server/sites/reads.ts", raw],
+    ["a route deletes", "server/sites/routes.ts", write],
+    ["a new module beside a repository", "server/sites/helpers.ts", statement],
+  ])("refuses: %s", async (_name, at, code) => {
+    expect(await ruleIds(at, code)).toContain(QUERY);
+  });
+
+  it.each([
+    ["a repository", "server/sites/repository.ts", statement],
+    ["a named repository runs raw SQL", "server/inventory/boards-repository.ts", raw],
+    ["a bench script", "server/cli/bench.ts", statement],
+    [
+      "a query fragment handed to a repository",
+      "server/sites/service.ts",
+      'import { sql } from "kysely";\nexport const now = sql`now()`;\n',
+    ],
+  ])("allows: %s", async (_name, at, code) => {
+    expect(await ruleIds(at, code)).not.toContain(QUERY);
+  });
+});
