@@ -14,7 +14,7 @@ import { log } from "./log";
 import { createMetrics, serveMetrics } from "./observability/metrics";
 import { mailFromEnv } from "./mail/setup";
 import { storageFromEnv } from "./photos/storage";
-import { shutdownHttp } from "./shutdown";
+import { keepConnectionsAlive, shutdownHttp } from "./shutdown";
 import { LocalDiskStorage } from "./photos/storage/local-disk";
 
 export interface Running {
@@ -59,7 +59,7 @@ export async function serve(opts: {
   });
   const server = await new Promise<Server>((resolve, reject) => {
     const s = app.listen(opts.port, opts.host ?? process.env.HOST ?? "127.0.0.1", (err?: Error) =>
-      err ? reject(err) : resolve(s),
+      err ? reject(err) : resolve(keepConnectionsAlive(s)),
     );
   }).catch(async (e) => {
     metricsServer?.close();

@@ -1,6 +1,7 @@
 import type { AddressInfo } from "node:net";
 import { createServer, type Server } from "node:http";
 import { createApp, type AppDeps } from "../../server/app";
+import { keepConnectionsAlive } from "../../server/shutdown";
 import { createJobs, type Jobs } from "../../server/jobs";
 import { startJobs } from "../../server/jobs/registry";
 import { memoryMailer } from "../../server/mail/mailer";
@@ -82,7 +83,7 @@ export interface TestServer {
  * Without a mailer, e-mail is kept in memory and goes nowhere; links point at this server.
  */
 export async function startTestServer(deps: AppDeps): Promise<TestServer> {
-  const server: Server = createServer();
+  const server: Server = keepConnectionsAlive(createServer());
   await new Promise<void>((resolve) => server.listen(0, "127.0.0.1", () => resolve()));
   const base = `http://127.0.0.1:${(server.address() as AddressInfo).port}`;
   const full = {
