@@ -205,7 +205,7 @@ export async function raiseIncidentDefect(
     description: string;
     category: CreateDefectBody["category"];
     severity?: CreateDefectBody["severity"];
-    /** The reading that opened it: linked both ways as "raised from" (issue 14 item 5). */
+    /** The reading that opened it: linked both ways as "raised from", so the crew sees why it was opened. */
     raisedFrom?: { readingKind: ReadingKind; readingId: string };
   },
 ) {
@@ -365,7 +365,7 @@ export async function transition(
       r.message,
       r.code === "reason_required" ? { reason: r.message } : undefined,
     );
-  // The person recorded as having done the repair passes the same test as an assignee (issue 14).
+  // The person recorded as having done the repair passes the same test as an assignee: a viewer cannot be named as having repaired it.
   if (to === "awaiting_retest" && r.set.repairedBy) {
     const problem = await repairerProblem(
       trx,

@@ -267,7 +267,7 @@ export function BoardElevation({
         className="relative grid gap-1.5 rounded-md border-4 border-hull-700 bg-hull-900 p-1.5"
         style={{
           gridTemplateColumns: `repeat(${board.gridCols}, minmax(5.25rem, 1fr))`,
-          // Rows grow to fit a tile's words (issue 14 item 10); a windowed board keeps them even, since it
+          // Rows grow to fit a tile's words (a cut word misleads); a windowed board keeps them even, since it
           // places the drawn tiles from one measured row.
           gridTemplateRows: `repeat(${board.gridRows}, ${windowed ? `${ROW_REM}rem` : `minmax(${ROW_REM}rem, auto)`})`,
           minWidth: `${board.gridCols * 5.6}rem`,

@@ -70,7 +70,7 @@ export const BoardTile = forwardRef<HTMLButtonElement, Props>(function BoardTile
         />
       )}
       {/* Designation and grade share the first line while they fit; a long designation takes a smaller face on a
-          one-column tile and wraps (anywhere, being one word), the grade going under it — never cut (issue 14 item 10). */}
+          one-column tile and wraps (anywhere, being one word), the grade going under it — a cut word ("OUT · …") misleads whoever reads the board. */}
       <span
         className={`flex flex-wrap items-start justify-between gap-x-1 gap-y-0.5 ${c?.dispositionOverridden ? "pr-2.5" : ""}`}
       >
