@@ -51,18 +51,10 @@ export function astmD610Grade(percentRusted: number): number {
   return (band ?? ASTM_D610_BANDS[ASTM_D610_BANDS.length - 1]).grade;
 }
 
-/** ISO 4628-3 Table 1 reference points: rusted area, percent. Ri 5 is a range, 40–50 %. */
-export const ISO_4628_RI_POINTS = [
-  { ri: 0, percent: 0 },
-  { ri: 1, percent: 0.05 },
-  { ri: 2, percent: 0.5 },
-  { ri: 3, percent: 1 },
-  { ri: 4, percent: 8 },
-  { ri: 5, percent: 40, percentHigh: 50 },
-] as const;
-
 /**
- * Upper bounds (inclusive) used to pick the nearest Ri degree.
+ * Upper bounds (inclusive) used to pick the nearest Ri degree. ISO 4628-3 Table 1's reference points
+ * (rusted area): Ri 0 = 0 %, Ri 1 = 0.05 %, Ri 2 = 0.5 %, Ri 3 = 1 %, Ri 4 = 8 %, Ri 5 = 40–50 %
+ * (tests/domain/corrosion.test.ts checks each).
  *
  * How "nearest" is decided: rusted-area scales are logarithmic (D610 calls its own
  * scale exponential, and the ISO points step by ×10, ×2, ×8, ×5), so distance is

@@ -8,16 +8,8 @@ import { requireNumber, requireOneOf, requirePositive } from "./guards";
 import { NETA_MINIMUM_INSULATION, NETA_TEMPERATURE_CORRECTION } from "./insulation-tables";
 
 export { NETA_MINIMUM_INSULATION, NETA_TEMPERATURE_CORRECTION } from "./insulation-tables";
-export type { NetaCorrectionRow, NetaMinimumRow } from "./insulation-tables";
-export { assessDryOut, fitLogResistance, forecastDryOut, slopeStandardError } from "./insulation-dry-out";
-export type {
-  DryOutAssessment,
-  DryOutForecast,
-  DryOutPoint,
-  DryOutReading,
-  DryOutState,
-  LogResistanceFit,
-} from "./insulation-dry-out";
+export { assessDryOut, fitLogResistance, forecastDryOut } from "./insulation-dry-out";
+export type { DryOutPoint } from "./insulation-dry-out";
 
 export type InsulationMedium = "solid" | "oil";
 export const THERMAL_CLASSES = ["A", "B", "F", "H"] as const;

@@ -86,4 +86,3 @@ export const preparedListResponse = z.object({
 export const preparedNoticesResponse = z.object({
   notices: z.array(preparedFile.extend({ siteName: z.string() })),
 });
-export type PreparedNotice = z.infer<typeof preparedNoticesResponse>["notices"][number];

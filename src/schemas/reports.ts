@@ -95,4 +95,3 @@ export const tagLookupResponse = z.object({
     }),
   ),
 });
-export type TagLookup = z.infer<typeof tagLookupResponse>;

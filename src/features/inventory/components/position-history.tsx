@@ -1,10 +1,4 @@
-import {
-  CONTAMINANT_LABELS,
-  CUSTODY_LABELS,
-  DISPOSITION_LABELS,
-  INSULATION_STATE_LABELS,
-  MECHANISM_LABELS,
-} from "../../../domain/vocab";
+import { CONTAMINANT_LABELS, CUSTODY_LABELS, INSULATION_STATE_LABELS, MECHANISM_LABELS } from "../../../domain/vocab";
 import type { AuditRow, CustodyMove, Inspection } from "../contract";
 import { gradeTone } from "./tile-style";
 
@@ -121,6 +115,3 @@ export function CustodyTrail({ moves }: { moves: CustodyMove[] }) {
     </ol>
   );
 }
-
-export const dispositionWord = (d: keyof typeof DISPOSITION_LABELS | null) =>
-  d ? DISPOSITION_LABELS[d] : "Not decided";
