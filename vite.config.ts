@@ -4,7 +4,7 @@ import { VitePWA } from "vite-plugin-pwa";
 
 /**
  * Preloads the two fonts every page paints with (body text and the mono designations on tiles), so
- * the browser fetches them with the HTML instead of discovering them late in the CSS (issue 15).
+ * the browser fetches them with the HTML instead of discovering them late in the CSS.
  * The hashed file names are known only after bundling, hence a transformIndexHtml hook.
  */
 function preloadFonts(patterns: RegExp[]): Plugin {
@@ -31,7 +31,7 @@ export default defineConfig({
   plugins: [
     react(),
     preloadFonts([/atkinson-hyperlegible-next-latin-wght-normal/, /jetbrains-mono-latin-wght-normal/]),
-    // The installable field app (issue 16): Workbox precaches the whole built client (every page's
+    // The installable field app: Workbox precaches the whole built client (every page's
     // chunk, the CSS, the fonts, the icons), so after one visit Tideline opens with no signal. /api is
     // never cached by the service worker: reads go through the persisted query cache, writes through
     // the outbox (src/lib/outbox), each with its own rules.

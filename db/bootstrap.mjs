@@ -123,7 +123,7 @@ if (command.needs.includes("poppler")) ensurePoppler();
 if (command.needs.includes("libreoffice")) ensureLibreOffice();
 
 // `node --import tsx` rather than the tsx command: the command relays SIGTERM to its child and
-// SIGKILLs it unless the child confirms within 30 ms, which cut graceful shutdowns short (issue 18).
+// SIGKILLs it unless the child confirms within 30 ms, which cut graceful shutdowns short.
 const child = spawn(process.execPath, ["--import", "tsx", command.script, ...process.argv.slice(3)], {
   stdio: "inherit",
   cwd: root,

@@ -49,9 +49,9 @@ export interface SitesTable {
   location: Generated<string>;
   description: Generated<string>;
   createdAt: Timestamp;
-  /** ISO 4217 code for the site's costs (issue 14). */
+  /** ISO 4217 code for the site's costs. */
   currency: Generated<string>;
-  /** IANA time zone of the site's local time, for exports (issue 13). */
+  /** IANA time zone of the site's local time, for exports. */
   timeZone: Generated<string>;
 }
 
@@ -178,7 +178,7 @@ export interface CustodyMovesTable {
   note: Text;
   movedBy: string | null;
   movedAt: Timestamp;
-  /** Rules of src/domain/custody-chain.ts the curator released for this move (issue 14). */
+  /** Rules of src/domain/custody-chain.ts the curator released for this move. */
   releasedRules: ColumnType<string[], string[] | undefined, string[]>;
   releaseReason: Generated<string>;
 }
@@ -291,7 +291,7 @@ export interface PhotosTable extends Versioned {
   componentId: string | null;
   defectId: string | null;
   inspectionId: string | null;
-  /** A custody move the photo was taken with (issue 14). */
+  /** A custody move the photo was taken with. */
   custodyMoveId: Generated<string | null>;
   kind: Generated<PhotoKind>;
   caption: Text;
@@ -369,9 +369,9 @@ export interface NotificationPrefsTable {
   updatedAt: Timestamp;
 }
 
-/** A line of the parts wanted list (issue 6): one specification, its status and heritage rule. */
+/** A line of the parts wanted list: one specification, its status and heritage rule. */
 export interface PartLinesTable extends Versioned {
-  /** Short per-site number a person can say (W-12); issue 14. */
+  /** Short per-site number a person can say (W-12). */
   number: Generated<number>;
   origin: "register" | "manual";
   kind: ComponentKind;
@@ -472,7 +472,7 @@ export interface PhotoSettingsTable {
   updatedAt: Timestamp;
 }
 
-// ---- Readings (issue 7): stored raw, judged on every read against reading_criteria ----
+// ---- Readings: stored raw, judged on every read against reading_criteria ----
 export type Conductors = "A-B" | "B-C" | "C-A" | "A-G" | "B-G" | "C-G" | "line-load";
 export type LampLook = "bright" | "dim" | "dark";
 
@@ -500,7 +500,7 @@ export interface InsulationReadingsTable extends ReadingRow {
   r30sMegohms: Num;
   r1minMegohms: Num;
   r10minMegohms: Num;
-  /** Issue 13: how the meter showed each value (null = exactly). */
+  /** How the meter showed each value (null = exactly). */
   megohmsQualifier: ReadingQualifierCol;
   r30sQualifier: ReadingQualifierCol;
   r1minQualifier: ReadingQualifierCol;
@@ -600,7 +600,7 @@ export interface ComponentReadingOverridesTable {
   updatedAt: Timestamp;
 }
 
-/** A reading that raised a defect or proves its repair (issue 14); owned by server/defects. */
+/** A reading that raised a defect or proves its repair; owned by server/defects. */
 export interface DefectReadingsTable {
   id: Generated<string>;
   siteId: string;
@@ -612,7 +612,7 @@ export interface DefectReadingsTable {
   linkedAt: Timestamp;
 }
 
-// ---- Return to service (issue 12, migration 2026_12_02_0300): owned by server/return-to-service ----
+// ---- Return to service (migration 2026_12_02_0300): owned by server/return-to-service ----
 type RtsSupply = Supply;
 type RtsVoltageStep = VoltageStep;
 type RtsStageStatus = StageStatus;
@@ -778,7 +778,7 @@ export interface RtsOverdueNoticesTable {
   createdAt: Timestamp;
 }
 
-/** One create's first result, answered again to every repeat of its Idempotency-Key (issue 16). */
+/** One create's first result, answered again to every repeat of its Idempotency-Key. */
 export interface IdempotencyKeysTable {
   userId: string;
   key: string;
@@ -792,7 +792,7 @@ export interface IdempotencyKeysTable {
   completedAt: ColumnType<Date | null, Date | string | null | undefined, Date | string | null>;
 }
 
-/** One running download per row (issue 11): the per-person cap across instances; server/export-stream.ts writes it. */
+/** One running download per row: the per-person cap across instances; server/export-stream.ts writes it. */
 export interface ExportSlotsTable {
   id: Generated<string>;
   /** The person's user id ("anonymous" for a download without a session). */
@@ -831,7 +831,7 @@ export interface PreparedFilesTable {
 }
 
 /**
- * Per-board counts the site overview and the board list read (issue 15), kept current by every
+ * Per-board counts the site overview and the board list read, kept current by every
  * inventory write that changes them; server/inventory/board-summaries-repository.ts is the only writer.
  */
 export interface BoardSummariesTable {

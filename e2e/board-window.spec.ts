@@ -1,5 +1,5 @@
 /**
- * A board of thousands of positions draws only the tiles on screen (issue 15): the test makes
+ * A board of thousands of positions draws only the tiles on screen: the test makes
  * its own 40 × 50 board (2,000 positions) through the inventory import, then checks on a phone
  * viewport that only a window of tiles is in the page, that scrolling reaches the last row and
  * column, that the arrow keys walk past the drawn window, and that print draws every tile.

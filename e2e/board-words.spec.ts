@@ -2,7 +2,7 @@ import { expect, test, type Page } from "@playwright/test";
 import { signIn } from "./support/auth";
 
 /**
- * Issue 14 item 10: on the board drawing the water line's words never cover a tile, and no word on a tile is
+ * On the board drawing the water line's words never cover a tile, and no word on a tile is
  * cut — custody ("OUT · TAGGED", "WORKSHOP", never "OUT · …"), kind and rating ("MCCB 100 A"), and a long
  * designation, which takes a smaller face on a one-column tile and wraps — at 1280 px and on a phone.
  */

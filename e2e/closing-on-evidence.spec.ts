@@ -2,7 +2,7 @@ import { expect, request, test, type Locator, type Page } from "@playwright/test
 import { DEMO_PASSWORD, signIn } from "./support/auth";
 
 /**
- * Issue 14 items 5 and 6: a failing reading becomes a defect linked both ways, and the repair is
+ * A failing reading becomes a defect linked both ways, and the repair is
  * closed on evidence by someone other than the repairer. The board is made through the API as the
  * curator (a 450 V board: ANSI/NETA MTS-2019 Table 100.1's 600 V row, minimum 100 MΩ — from memory,
  * see tests/domain); the volunteer works on a 360 × 740 phone.

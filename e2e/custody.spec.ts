@@ -4,7 +4,7 @@ import { expectNoSeriousA11yViolations } from "./support/a11y";
 import { DEMO_PASSWORD, signIn } from "./support/auth";
 
 /**
- * Issue 14: custody follows the tag-and-return chain. Each test makes its own small board
+ * Custody follows the tag-and-return chain. Each test makes its own small board
  * through the API as the curator; the volunteer works on a 360 × 740 phone.
  */
 async function makeBreaker(baseURL: string) {

@@ -4,7 +4,7 @@ import { expectNoSeriousA11yViolations } from "./support/a11y";
 import { signIn } from "./support/auth";
 
 /**
- * Issue 14, the crew's daily flows as each role does them: the photographer and the volunteer on a
+ * The crew's daily flows as each role does them: the photographer and the volunteer on a
  * 360 × 740 phone. Demo records are picked by name; what a test changes it makes itself.
  */
 const jpeg = (color: string) =>
@@ -57,7 +57,7 @@ test.describe("on a 360 px phone", () => {
     // Long file names wrap; the keyboard hint is not shown on a phone.
     await noSidewaysScroll(page, "photo desk with staged filings");
     await expect(page.getByText("Page Up / Page Down step without filing")).toBeHidden();
-    await page.screenshot({ path: "/tmp/h14b-photo-desk-360.png", fullPage: true });
+    await page.screenshot({ path: "/tmp/daily-flows-photo-desk-360.png", fullPage: true });
     await expectNoSeriousA11yViolations(page, "photo desk with staged filings");
 
     // Leaving with unsaved filings asks; saying no keeps them.
@@ -102,6 +102,6 @@ test.describe("on a 360 px phone", () => {
     await box.fill("mccb");
     await expect(list.getByRole("button").first()).toContainText("Molded-case breaker");
     await noSidewaysScroll(page, "quick log search");
-    await page.screenshot({ path: "/tmp/h14b-quick-log-360.png", fullPage: true });
+    await page.screenshot({ path: "/tmp/daily-flows-quick-log-360.png", fullPage: true });
   });
 });

@@ -5,7 +5,7 @@ import { DEMO_PASSWORD, signIn } from "./support/auth";
 import { expectKept } from "./support/offline";
 
 /**
- * Issue 16: the field app with no signal. The browser context is set offline (Playwright's
+ * The field app with no signal. The browser context is set offline (Playwright's
  * network emulation, which the service worker sees too); the app is the production build that
  * playwright.config.ts serves, so its service worker precaches the shell. Each test makes its own
  * board through the API, so it does not depend on other tests.

@@ -2,7 +2,7 @@ import { expect, request, test } from "@playwright/test";
 import { DEMO_PASSWORD, signIn } from "./support/auth";
 
 /**
- * Issue 14 items 7 and 13, as the scrounger who fits parts from the wanted list: a line is known by a short
+ * As the scrounger who fits parts from the wanted list: a line is known by a short
  * number a person can say (W-12), found by it however it is typed, and never by a hex id; fitting a whole
  * component proposes "period replacement" (not "heritage unchanged"), and the fitted part no longer counts
  * as original fabric. The board, its breaker and its "replace" decision are made through the API as the curator.

@@ -2,7 +2,7 @@ import { expect, test, type Page } from "@playwright/test";
 import { signIn } from "./support/auth";
 
 /**
- * Issue 14 item 9: every page fits a 360 × 740 phone without sideways scrolling. Each page is
+ * Every page fits a 360 × 740 phone without sideways scrolling. Each page is
  * visited as a role that may open it; the check is the document's scrollWidth against the
  * viewport's width (a wide table may scroll inside its own box, never the page). When a page is
  * too wide, the message names the widest elements that stick out, to find the culprit.
@@ -136,7 +136,7 @@ test("the admin's pages and the public pages fit a 360 px phone", async ({ page,
   await anon.close();
 });
 
-// Once too wide on a 360 px phone (issue 14 item 9): the board set-up's position-order list (631 px; its rows
+// Once too wide on a 360 px phone: the board set-up's position-order list (631 px; its rows
 // now wrap their buttons under the position) and the wanted-parts page (475 px: an off-screen label inside the
 // table escaped its scroll box, which now holds its own positioned content).
 test("board set-up and the wanted-parts page fit a 360 px phone", async ({ page }) => {

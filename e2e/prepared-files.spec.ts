@@ -1,5 +1,5 @@
 /**
- * Prepared files (issues 17/18) in Debian's chromium: a viewer asks for the condition survey
+ * Prepared files in Debian's chromium: a viewer asks for the condition survey
  * in the background, sees it in their list with its state, gets the in-app notice when the
  * worker has made it, and downloads it from the notice (a real PDF, checked by its header and
  * read back with poppler's pdftotext). Demo: MV Kestrel Lantern (invented).

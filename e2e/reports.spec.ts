@@ -1,5 +1,5 @@
 /**
- * Reports, labels and tag scanning (issue 17) in Debian's chromium. The PDF is rendered
+ * Reports, labels and tag scanning in Debian's chromium. The PDF is rendered
  * to an image by poppler's pdftoppm and looked at; the scan flow runs with chromium's
  * fake camera playing a video of a tag's QR code that this test draws itself.
  */

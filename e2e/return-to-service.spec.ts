@@ -3,7 +3,7 @@ import { expectNoSeriousA11yViolations } from "./support/a11y";
 import { DEMO_PASSWORD, signIn } from "./support/auth";
 
 /**
- * Issue 12 end to end, on a board of its own (so the test does not depend on other tests or on
+ * Return to service end to end, on a board of its own (so the test does not depend on other tests or on
  * a retry): the curator builds a two-stage plan from the template, sees the gate blocked with
  * its reasons, fixes them (names the qualified person, records the missing insulation reading),
  * signs the hold points as a qualified person and energises; a volunteer on a phone records a

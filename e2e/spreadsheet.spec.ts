@@ -1,5 +1,5 @@
 /**
- * The curator's spreadsheet round trip (issue 13): export the inventory, edit it as a
+ * The curator's spreadsheet round trip: export the inventory, edit it as a
  * spreadsheet saves it (Windows-1252, semicolons, CRLF, ="…" text shown as its value), choose
  * the file, see what will be created / changed / left alone, apply, and find the change on
  * the position. The board is made by this test, so it does not depend on other flows.

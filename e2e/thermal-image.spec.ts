@@ -3,7 +3,7 @@ import sharp from "sharp";
 import { signIn } from "./support/auth";
 
 /**
- * Issue 14 item 11: the thermal form lets the person pick the thermal image among the position's
+ * The thermal form lets the person pick the thermal image among the position's
  * photos filed as thermal, by thumbnail (no internal photo id to type), and the scan's history shows
  * that image. The volunteer records it on a 360 × 740 phone.
  */

@@ -2,7 +2,7 @@ import { expect, test, type Page } from "@playwright/test";
 import { signIn } from "./support/auth";
 
 /**
- * Issue 14 item 12: the words a crew member reads are the trade's — MCCB (a molded-case breaker; MCB is a
+ * The words a crew member reads are the trade's — MCCB (a molded-case breaker; MCB is a
  * miniature one), ACB for the open-frame power breaker, defect states raised … accepted as is, the priority
  * score and the curator's order, store-room words on parts without a step counter, "Flood record" in the
  * menu, recommendations naming the guidance they follow, and estimates rounded to what the data supports.

@@ -131,7 +131,7 @@ export function createApp(deps: AppDeps) {
     ),
   );
 
-  // gzip for JSON, HTML, JS and CSS (issue 15: a 345 KiB entry and MBs of JSON went raw). Downloads
+  // gzip for JSON, HTML, JS and CSS (a 345 KiB entry and MBs of JSON went raw). Downloads
   // (Content-Disposition: attachment) stream uncompressed with their own back-pressure; images are
   // already compressed and the `compression` package's default filter leaves them alone.
   app.use(

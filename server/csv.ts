@@ -1,7 +1,7 @@
 /**
  * CSV as every export writes it: RFC 4180 through papaparse (CRLF, quoted where needed),
  * UTF-8 with a byte-order mark so spreadsheets pick the encoding, and the CSV-injection
- * guard of /shared/STACK.md 'Spreadsheets' (OWASP "CSV Injection"): a text cell starting
+ * guard OWASP describes ("CSV Injection"): a text cell starting
  * with = + - @, tab or carriage return gets a leading single quote.
  */
 import Papa from "papaparse";

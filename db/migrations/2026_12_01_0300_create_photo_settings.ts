@@ -1,6 +1,6 @@
 import { Kysely, sql } from "kysely";
 
-// Photos (issue 4): what a site requires of every position (the shoot list), and an
+// Photos: what a site requires of every position (the shoot list), and an
 // index for the galleries and the shoot list (live photos of a position by kind).
 // Frozen in time: never import app code here.
 

@@ -1,6 +1,6 @@
 import { Kysely, sql } from "kysely";
 
-// The parts wanted list (issue 6): lines aggregated by specification, the demand links
+// The parts wanted list: lines aggregated by specification, the demand links
 // that tie them to components and defects, leads, acquisitions, a line history and the
 // public share links. Frozen in time: never import app code here.
 

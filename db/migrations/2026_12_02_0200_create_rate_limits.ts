@@ -1,6 +1,6 @@
 import { Kysely, sql } from "kysely";
 
-// Issue 11 (abuse): the counters of rate-limiter-flexible's PostgreSQL store, in the
+// The counters of rate-limiter-flexible's PostgreSQL store, in the
 // shape its RateLimiterPostgres expects (key, points, expire in ms since the epoch), so
 // several server instances share them; and audit rows that belong to no site (sign-ins,
 // account creation) — audit_log.site_id becomes nullable.

@@ -1,6 +1,6 @@
 import { Kysely, sql } from "kysely";
 
-// Issue 11: defect numbers count per site (site B's first defect is D-1, not D-61).
+// Defect numbers count per site (site B's first defect is D-1, not D-61).
 // A counter row per site, bumped by a BEFORE INSERT trigger (INSERT … ON CONFLICT DO UPDATE
 // takes the counter row's lock, so two defects raised at once on one site get 1 and 2).
 // Existing defects are renumbered within their site in their old order, so the oldest site

@@ -1,6 +1,6 @@
 import { Kysely, sql } from "kysely";
 
-// Issue 11: two positions can no longer cover one grid cell of a board. An exclusion
+// Two positions can no longer cover one grid cell of a board. An exclusion
 // constraint over the rectangle each position covers (rows × columns, spans included):
 // same board AND rows overlap AND columns overlap is refused (SQLSTATE 23P01). btree_gist
 // supplies the "=" on uuid inside a GiST index; it is a trusted extension (PostgreSQL 13+),

@@ -1,6 +1,6 @@
 import { Kysely, sql } from "kysely";
 
-// Issue 11: sessions.id now holds the SHA-256 (hex) of the session id in the cookie
+// sessions.id now holds the SHA-256 (hex) of the session id in the cookie
 // (server/auth/lucia.ts). Rows stored before hold the raw id and can never match a hash,
 // so they are ended: everyone signs in once more.
 // Frozen in time: never import app code here.

@@ -1,6 +1,6 @@
 import { Kysely, sql } from "kysely";
 
-// Return to service (issue 12): a board's staged re-energisation plan, its hold points and
+// Return to service: a board's staged re-energisation plan, its hold points and
 // their sign-offs (append-only), the energisation log, watch checks, incidents, breaker
 // operations and their budgets, the site's qualified persons and settings, and the record of
 // overdue-watch notices sent. Frozen in time: no app imports.

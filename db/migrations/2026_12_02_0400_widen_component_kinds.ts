@@ -1,6 +1,6 @@
 import { Kysely, sql } from "kysely";
 
-// Issue 13 item 6: two kinds the flood guidance treats apart — electronic trip units (their
+// Two kinds the flood guidance treats apart — electronic trip units (their
 // own kind) and enclosed safety switches (replaced after submersion, not rebuilt). Widens the
 // CHECK on every `kind` column that lists component kinds (positions, components, part lines).
 // Frozen in time: no app imports.

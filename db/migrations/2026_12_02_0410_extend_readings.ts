@@ -1,6 +1,6 @@
 import { Kysely, sql } from "kysely";
 
-// Issue 13: readings as a flooded board gives them. A 0 MΩ reading (dead short) is kept;
+// Readings as a flooded board gives them. A 0 MΩ reading (dead short) is kept;
 // a reading may be "at or above" the meter's range or "below" its resolution; the site's
 // dew-point margin; the system capacitance for the ground-lamp model; breaker trip tests,
 // step-voltage tests and the ground-hunt log. Frozen in time: no app imports.

@@ -1,6 +1,6 @@
 import { Kysely, sql } from "kysely";
 
-// Issue 14, item 12: the defect workflow speaks the trade's words. Stored status values
+// The defect workflow speaks the trade's words. Stored status values
 // are renamed old → new in the defects, their status history, the audit trail and the
 // saved register views (query strings); the check constraint, default and the status
 // sort index follow. Frozen in time: never import app code here.

@@ -1,6 +1,6 @@
 import { Kysely, sql } from "kysely";
 
-// Issue 14: the curator's release of a refused custody move (which rules, and why), photos
+// The curator's release of a refused custody move (which rules, and why), photos
 // attached to a custody move, the two-way link between a defect and the readings that raised
 // it or prove its repair, a currency per site, and short per-site numbers for parts lines
 // (W-12). Frozen in time: never import app code here.

@@ -1,6 +1,6 @@
 import { Kysely, sql } from "kysely";
 
-// Idempotency keys (issue 16): a phone that lost its signal sends its queued creates again with
+// Idempotency keys: a phone that lost its signal sends its queued creates again with
 // the same `Idempotency-Key`; the first result is kept here and answered to every repeat, so a
 // replay never makes a second row. One row per (user, key); `fingerprint` is the SHA-256 of
 // method, path and body, so the same key with a different request is refused.

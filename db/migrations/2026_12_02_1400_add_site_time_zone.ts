@@ -1,6 +1,6 @@
 import { Kysely, sql } from "kysely";
 
-// Issue 13: exports write timestamps in the site's local time and say which zone that is.
+// Exports write timestamps in the site's local time and say which zone that is.
 // An IANA zone name (e.g. "Europe/Lisbon"); existing sites keep UTC until a curator sets it.
 // Frozen in time: no app imports.
 export async function up(db: Kysely<any>): Promise<void> {

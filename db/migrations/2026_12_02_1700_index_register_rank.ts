@@ -1,7 +1,7 @@
 import { Kysely, sql } from "kysely";
 
-// Issue 15: the register's default (ranked) order puts safety-critical defects first, then the
-// priority score (issue 13 changed the rank keys). The ranked page now reads the defects that no
+// The register's default (ranked) order puts safety-critical defects first, then the
+// priority score (the rank keys put safety first). The ranked page now reads the defects that no
 // curator's-order pin moves in exactly this order with a LIMIT (server/defects/list-repository.ts
 // rankedPageIds), so this index serves it as an ordered index scan instead of a sort of every
 // defect on the site. The older (site_id, priority_score DESC, …) index no longer matches any

@@ -1,6 +1,6 @@
 import { Kysely, sql } from "kysely";
 
-// Issue 11: the cap on one person's concurrent downloads holds across server instances, so it
+// The cap on one person's concurrent downloads holds across server instances, so it
 // lives in PostgreSQL: one row per running download, taken under a per-person advisory lock and
 // deleted when the download ends. A row carries a lease the running instance renews; an
 // instance that dies leaves rows that stop counting once their lease runs out.

@@ -1,6 +1,6 @@
 import { Kysely, sql } from "kysely";
 
-// Issues 17/18: the condition survey report and large CSV exports are made by a background
+// The condition survey report and large CSV exports are made by a background
 // job into object storage. One row per file asked for: what was asked (kind + the same query
 // the direct download takes), by whom, where it is in its making (queued → rendering → ready |
 // failed; ready and failed files become expired when their retention runs out and the stored

@@ -1,6 +1,6 @@
 import { Kysely, sql } from "kysely";
 
-// Issue 15: the site overview and the board list read per-board counts kept current by the writes,
+// The site overview and the board list read per-board counts kept current by the writes,
 // so they grow with boards, not positions. One row per board × facet × key (× surveyed for the two
 // facets the overview splits by it): 'positions' (key ''), 'disposition' (a disposition or
 // 'undecided'), 'custody' (a custody state, or 'none' for a position without a current component),

@@ -11,7 +11,7 @@ export const DEMO_SITE = {
   name: "MV Kestrel Lantern",
   kind: "vessel" as const,
   location: "Fitting-out berth 3, Saltmarrow Basin (fictional)",
-  /** Exports write local times in this zone (issue 13); the basin is invented, the zone is a real IANA one. */
+  /** Exports write local times in this zone; the basin is invented, the zone is a real IANA one. */
   timeZone: "America/Halifax",
   /** Every cost on the site is in Canadian dollars (an ISO 4217 code; the amounts are invented). */
   currency: "CAD",

@@ -1,5 +1,5 @@
 /**
- * A signed-in person changes their own password (issue 14 item 11). The current password is
+ * A signed-in person changes their own password. The current password is
  * required, so a session left open on a shared phone cannot take over the account; wrong ones
  * count against the same per-account allowance as sign-in. The change is audited, every session
  * of the person ends (the route then signs this browser in again), and the owner is told by

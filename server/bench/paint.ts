@@ -1,5 +1,5 @@
 /**
- * Page paint on a phone profile (issue 15): Debian's chromium driven by Playwright, 360 × 740
+ * Page paint on a phone profile: Debian's chromium driven by Playwright, 360 × 740
  * CSS px at 2 × density, touch, and the CPU slowed 4 × through the DevTools protocol
  * (Emulation.setCPUThrottlingRate). Each load is a fresh browser context (cold cache, the session
  * cookie set) and the figures come from the browser's own Performance APIs: the last

@@ -1,5 +1,5 @@
 /**
- * A realistic generated site for `npm run bench` (issue 15): an invented fleet-yard job of
+ * A realistic generated site for `npm run bench`: an invented fleet-yard job of
  * 100 boards of uneven size (the largest several times the smallest, up to the 60 × 60 grid),
  * sections in row bands, one component per position with a nameplate (invented makers), tags
  * on most, dispositions decided on most with reasons, custody spread along the chain, one to
@@ -245,7 +245,7 @@ export async function generateSite(
         ON sc.severity = x.severity AND sc.parts = x.parts_state AND sc.safety = x.safety AND sc.original = x.original`,
   );
   // 40 curator's-order pins, each against an unpinned defect (pins do not chain). The second list is numbered
-  // after its OFFSET: numbered before it, its numbers started at 1001 and no pin was made (found in h4).
+  // after its OFFSET: numbered before it, its numbers started at 1001 and no pin was made.
   await step(
     "pins",
     sql`INSERT INTO defect_pins (site_id, defect_id, relative_to, direction, reason, pinned_by)

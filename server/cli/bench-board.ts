@@ -1,5 +1,5 @@
 /**
- * `npm run bench`, the board page's long tasks (issue 15): one board of 500 positions drawn
+ * `npm run bench`, the board page's long tasks: one board of 500 positions drawn
  * WINDOWED (the build as shipped: boards past WINDOW_FROM = 200 draw only the tiles on screen,
  * @tanstack/react-virtual) against WHOLE (the same sources built a second time with
  * VITE_BOARD_WINDOW_FROM past any board, i.e. before windowing). Each load is a cold context on the

@@ -1,5 +1,5 @@
 /**
- * `npm run bench`, the fleet case (issue 18): requests per second and p95 of the defect register
+ * `npm run bench`, the fleet case: requests per second and p95 of the defect register
  * (first ranked page), of a realistic read mix (register, overview, board list, one board, wanted list,
  * session, in turn) and of a photo upload (one 640 × 480 JPEG), with ONE web instance against
  * TWO, on this machine. Both instances are real processes (`node --import tsx server/index.ts`) on

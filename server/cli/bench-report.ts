@@ -1,5 +1,5 @@
 /**
- * The condition survey report of a 500-position board with 2,000 photos (issue 17):
+ * The condition survey report of a 500-position board with 2,000 photos:
  * time, size, pages and memory, over HTTP from the in-process server, as `npm run bench`'s
  * report case (server/cli/bench.ts calls benchReport()). Runs alone with
  * `node --import tsx server/cli/bench-report.ts`. BENCH_REPORT_RUNS (default 3).

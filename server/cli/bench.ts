@@ -1,5 +1,5 @@
 /**
- * `npm run bench` (issue 15): Tideline measured from outside, each figure beside a baseline taken
+ * `npm run bench`: Tideline measured from outside, each figure beside a baseline taken
  * in the same run.
  *
  * - A realistic generated site on a scratch database of the test cluster (server/bench/site.ts):
@@ -443,7 +443,7 @@ async function main() {
       );
     }
     // 3. CSV export of every defect vs COPY of the same SELECT.
-    // The export's own columns and order: COPY writes the same rows the CSV holds (before h4 it selected every
+    // The export's own columns and order: COPY writes the same rows the CSV holds (it once selected every
     // register column, ids included: 30 MB against the export's 13).
     const compiled = applySort(registerBase(setup, site.siteId).select(CSV_COLUMNS), "priority", "desc").compile();
     const literal = (v: unknown) => `'${String(v).replace(/'/g, "''")}'`;
@@ -577,11 +577,11 @@ async function main() {
 }
 
 await main();
-// The condition survey report's case (issue 17) runs on its own scratch database.
+// The condition survey report's case runs on its own scratch database.
 if (process.env.BENCH_REPORT !== "0") await benchReport();
-// The board page's long tasks, windowed against drawn whole (issue 15): server/cli/bench-board.ts.
+// The board page's long tasks, windowed against drawn whole: server/cli/bench-board.ts.
 if (process.env.BENCH_BOARD !== "0") await benchBoard();
-// One web instance against two (issue 18): server/cli/bench-fleet.ts; BENCH_FLEET=0 skips it.
+// One web instance against two: server/cli/bench-fleet.ts; BENCH_FLEET=0 skips it.
 if (process.env.BENCH_FLEET !== "0") await benchFleet();
 // Photo ingest against bare sharp: server/cli/bench-ingest.ts; BENCH_INGEST=0 skips it.
 if (process.env.BENCH_INGEST !== "0") await benchIngest();

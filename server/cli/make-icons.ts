@@ -1,4 +1,4 @@
-// Draws Tideline's app icons (issue 16) from the product's own mark — two breaker bars with the
+// Draws Tideline's app icons from the product's own mark — two breaker bars with the
 // flood's water line across them, in the "night watch" palette — and writes the PNGs the web app
 // manifest names. Run `node --import tsx server/cli/make-icons.ts` after changing the drawing;
 // the PNGs are committed, so a build needs nothing but the files in src/public/icons.

@@ -157,7 +157,7 @@ const orderedIds = async (db: Db, siteId: string, f: ListQuery, today: string) =
  * `batch` is the rows per page (tests use small pages to cross page boundaries with few defects).
  * The order is fixed once (one sorted pass over the site's matching defects); each page is then read by
  * its ids alone (`rowsInOrder`: primary-key lookups in that order, the filters checked on those rows), so
- * the export's time grows with its rows (issue 15: with `d.id IN (…)` each page scanned the whole site).
+ * the export's time grows with its rows (with `d.id IN (…)` each page scanned the whole site).
  */
 export async function writeDefectsCsv(
   db: Db,

@@ -1,5 +1,5 @@
 /**
- * The two-way link between defects and readings (issue 14): the reading a defect was raised
+ * The two-way link between defects and readings: the reading a defect was raised
  * from, and the re-test readings that prove its repair; plus what closing needs (a re-test
  * meeting its criterion or an "after work" photo). Readings are judged by the readings
  * service at the moment they are read, so a change of criteria re-judges the evidence too.

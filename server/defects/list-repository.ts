@@ -94,7 +94,7 @@ export function applyFilters<QB extends DefectsQuery>(
     // Every branch is index-served, so PostgreSQL ORs bitmap index scans instead of testing each
     // defect joined to its position: the defect text by its trigram index, the designation as the
     // matching positions' ids (trigram index on positions, computed once as an array) against
-    // defects_position_id_idx, the reference by its own index (issue 15).
+    // defects_position_id_idx, the reference by its own index.
     q = q.where((eb) => {
       const ors: Expression<SqlBool>[] = [
         sql<SqlBool>`(d.title || ' ' || d.description) ILIKE ${pat}`,
@@ -142,7 +142,7 @@ const STATUS_ORDER = sql`array_position(ARRAY['raised','scheduled','under_repair
  */
 const BELOW = sql`(t.id IS NOT NULL AND pin.direction = 'below')`;
 export const RANK_KEYS: Array<[ReturnType<typeof sql>, "ASC" | "DESC"]> = [
-  // Safety-critical first (issue 13 item 7): the same key as compareByPriority's first term.
+  // Safety-critical first: the same key as compareByPriority's first term.
   [sql`coalesce(t.safety_critical, d.safety_critical)`, "DESC"],
   [sql`coalesce(t.priority_score, d.priority_score)`, "DESC"],
   [sql`coalesce(t.created_at, d.created_at)`, "ASC"],
@@ -192,7 +192,7 @@ export function applySort<QB extends DefectsQuery>(qb: QB, sort: SortKey, dir: "
 }
 
 /**
- * The ids of one page in the ranked order (issue 15), index-served. Defects no pin moves rank by
+ * The ids of one page in the ranked order, index-served. Defects no pin moves rank by
  * their own keys — safety-critical, score, created, id — which the index
  * `defects_site_safety_rank_idx` (migration 2026_12_02_1700) returns in order, so that branch
  * stops after the page's last row instead of sorting the whole site; the few pinned defects take
@@ -284,7 +284,7 @@ export async function listPage(db: Db, siteId: string, f: ListQuery, today: stri
 }
 
 /**
- * The rows of `ids` that still match `f`, in the order of `ids` (issue 15: the CSV's pages; the caller
+ * The rows of `ids` that still match `f`, in the order of `ids` (the CSV's pages; the caller
  * selects the columns). The ids
  * drive the query as an array with its positions (`unnest … WITH ORDINALITY`), so each row is one
  * primary-key lookup and a page costs its own rows; `d.id IN (…)` let PostgreSQL scan every defect of

@@ -1,5 +1,5 @@
 /**
- * `Idempotency-Key` on the creates that the phone's offline queue sends (issue 16). Mount it after
+ * `Idempotency-Key` on the creates that the phone's offline queue sends. Mount it after
  * the role check (and after multer on an upload), right before the handler:
  *
  *     r.post(path, requireSiteRole(db, …), idempotent(db), handler)

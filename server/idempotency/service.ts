@@ -1,5 +1,5 @@
 /**
- * Idempotency keys (issue 16): the only writer of `idempotency_keys`. A create that carries an
+ * Idempotency keys: the only writer of `idempotency_keys`. A create that carries an
  * `Idempotency-Key` first claims the key (one INSERT … ON CONFLICT DO NOTHING, so two racing
  * repeats cannot both run), then records its 2xx answer; a refused or failed attempt gives the key
  * back so the client may try again. Keys are kept for RETENTION_DAYS, then a repeat counts as new.

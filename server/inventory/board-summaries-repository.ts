@@ -1,5 +1,5 @@
 /**
- * Per-board counts for the site overview and the board list (issue 15), in `board_summaries`:
+ * Per-board counts for the site overview and the board list, in `board_summaries`:
  * one row per board × facet × key (see migration 2026_12_05_0300 for the facets). This module is
  * the table's only writer. Every inventory write that changes what the overview counts — a
  * position created or deleted, an inspection, a disposition, a custody move, a heritage change, a

@@ -28,7 +28,7 @@ export const insertFloodEvent = (db: Db, v: Insertable<FloodEventsTable>) =>
 /**
  * Boards with their position count and how many positions have at least one inspection, from the
  * per-board summaries the writes keep current (server/inventory/board-summaries-repository.ts): two rows per
- * board at most, never the site's positions (issue 15).
+ * board at most, never the site's positions.
  */
 export const listBoards = (db: Db, siteId: string) =>
   db

@@ -347,7 +347,7 @@ function cellsOf(boardKey: string, p: { gridRow: number; gridCol: number; rowSpa
 /**
  * Reads the site's inventory (on the caller's connection or transaction), then parses, checks and
  * plans the file on a worker thread (./csv-plan-pool.ts): a file of thousands of rows takes
- * seconds of CPU, and on the event loop that stalled every other request (issue 11).
+ * seconds of CPU, and on the event loop that stalled every other request.
  */
 export async function validateImport(db: Db, siteId: string, decoded: DecodedText) {
   const state = await siteState(db, siteId);

@@ -1,5 +1,5 @@
 /**
- * Import plans run on a worker thread (issue 11): piscina 5.3.2, the well-known worker pool for
+ * Import plans run on a worker thread: piscina 5.3.2, the well-known worker pool for
  * Node.js. The main thread reads the site's inventory (one query each, on the caller's connection
  * or transaction, so a commit still plans under its lock) and hands it over with the decoded
  * file; parsing, zod checks per row, matching and the end-state checks run on the worker, so

@@ -2,7 +2,7 @@
  * Site overview counts (see overviewResponse in src/schemas/inventory.ts for each definition),
  * read from the per-board summaries the writes keep current (server/inventory/board-summaries-repository.ts):
  * one grouped statement over a few dozen rows per board, so its cost grows with boards, not
- * positions (issue 15). Board facet rows stay per board; the others are summed over the site.
+ * positions. Board facet rows stay per board; the others are summed over the site.
  */
 import { CUSTODY, DISPOSITIONS } from "../../src/domain/vocab";
 import { GRADE_KEYS, type Overview } from "../../src/schemas/inventory";

@@ -179,7 +179,7 @@ const KIND_WORDS = COMPONENT_KINDS.map((k) => ({
 }));
 
 /**
- * The quick log's search (issue 14 item 8): designation, tag number, circuit name and kind, with
+ * The quick log's search: designation, tag number, circuit name and kind, with
  * prefixes, loosely typed tags ("kl 42" finds KL-0042, see looseKey) and typing slips through
  * pg_trgm (similarity / word_similarity; the thresholds are pg_trgm's own defaults, 0.3 and 0.6,
  * written out so a server setting cannot change them). Rank: exact designation or tag, then the

@@ -1,4 +1,4 @@
-/** The inventory and condition survey API (issue 3), contract in src/schemas/inventory.ts. */
+/** The inventory and condition survey API, contract in src/schemas/inventory.ts. */
 import { Router } from "express";
 import type { Db } from "../db";
 import { boardRoutes } from "./boards-routes";

@@ -1,5 +1,5 @@
 /**
- * Tag numbers (issue 17): giving untagged components the next free tags before their
+ * Tag numbers: giving untagged components the next free tags before their
  * labels are printed, and finding the position a scanned tag belongs to among the
  * sites a person can see. The inventory domain owns components, so tags are written here.
  */

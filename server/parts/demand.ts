@@ -222,7 +222,7 @@ export async function syncDemand(
 
   for (const group of groupByNeed(pending)) {
     // Each need's key once (NFKC over every field is the costly part): the whole-site sync of a
-    // 20,000-position site spent minutes recomputing it per new line and need (issue 15 bench).
+    // 20,000-position site spent minutes recomputing it per new line and need.
     const byKey = new Map<string, Need[]>();
     for (const n of group) {
       const k = needKey(n.spec);

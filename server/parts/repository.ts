@@ -195,7 +195,7 @@ function filtered(db: Db, siteId: string, f: LineFilter) {
   if (f.heritageRule) q = q.where("pl.heritageRule", "=", f.heritageRule as never);
   if (f.q?.trim()) {
     const like = `%${f.q.trim().replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
-    // "W-12" (or "w12", "12") also finds line number 12 (issue 14).
+    // "W-12" (or "w12", "12") also finds line number 12.
     const number = parseLineRef(f.q);
     const text = sql<boolean>`concat_ws(' ', pl.maker, pl.model, pl.frame, pl.mounting, pl.need, pl.notes) ilike ${like}`;
     q = q.where(number === null ? text : sql<boolean>`(pl.number = ${number} or ${text})`);

@@ -41,7 +41,7 @@ async function sendPhoto(res: Response, photo: Readable | null) {
   await pipeline(photo, res);
 }
 
-/** The wanted list (issue 6): members read; scrounger and curator edit; curator sets heritage rules and revokes shares. */
+/** The wanted list: members read; scrounger and curator edit; curator sets heritage rules and revokes shares. */
 export function partsRoutes(db: Db, storage: PhotoStorage, mail?: MailDeps) {
   const r = Router();
   const base = "/sites/:siteId/parts";

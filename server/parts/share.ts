@@ -77,7 +77,7 @@ export async function siteOfToken(db: Db, token: string) {
   return link.siteId;
 }
 
-/** The public list. A read only: it never writes (demand is kept current by the writes, issue 15). */
+/** The public list. A read only: it never writes (demand is kept current by the writes). */
 export async function sharedList(db: Db, token: string): Promise<SharedList> {
   const siteId = await siteOfToken(db, token);
   const site = await db.selectFrom("sites").select("name").where("id", "=", siteId).executeTakeFirstOrThrow();

@@ -2,7 +2,7 @@ import type { Db } from "../db";
 import * as repo from "./repository";
 import type { PhotoStorage } from "./storage";
 
-/** Soft-deleted photos are kept this long, then purged (issue 4). */
+/** Soft-deleted photos are kept this long, then purged. */
 export const KEEP_DELETED_DAYS = 30;
 
 export interface OrphanReport {

@@ -2,7 +2,7 @@
  * From uploaded bytes to what Tideline stores: the type decided from the bytes (sharp's
  * metadata, never the name or the declared type), capture facts read before anything is
  * stripped, and two upright JPEG renditions without any metadata (no EXIF, no GPS, no ICC).
- * Facts about sharp 0.35.5 used here are in STACK.md "Photos".
+ * Facts about sharp are those of its documentation for 0.35.5, the pinned version.
  */
 import { open, stat } from "node:fs/promises";
 import exifr from "exifr";
@@ -169,10 +169,9 @@ const box = (px: number) => ({ width: px, height: px, fit: "inside" as const, wi
 
 /**
  * The two renditions, decoding the original once: the display copy from the original
- * (rotate() applies the EXIF orientation; sharp writes no EXIF/XMP/ICC unless asked,
- * STACK.md "Photos"), the thumbnail from the display copy (already upright, 1600 px is
+ * (rotate() applies the EXIF orientation; sharp writes no EXIF/XMP/ICC unless asked), the thumbnail from the display copy (already upright, 1600 px is
  * plenty for 320). Plain libjpeg for the display copy: mozjpeg about doubles its encode
- * time (issue 15's measurement) for a smaller file nobody waits on; the thumbnail, sent to
+ * time for a smaller file nobody waits on; the thumbnail, sent to
  * every phone in a gallery, keeps mozjpeg's smaller output at a tiny cost.
  * JPEG rather than WebP so any EXIF reader can check the result.
  */

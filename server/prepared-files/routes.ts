@@ -1,5 +1,5 @@
 /**
- * Prepared files (issues 17/18): the survey report and large CSV exports as background jobs.
+ * Prepared files: the survey report and large CSV exports as background jobs.
  * - POST /sites/:siteId/prepared-files {kind, params}   any member whose role may have that kind:
  *        202 {file} with Location = its status URL; the job makes it into object storage.
  * - GET  /sites/:siteId/prepared-files                  the caller's files on the site + the keeping time.

@@ -1,6 +1,6 @@
 /**
  * Prepared files: the condition survey report and large CSV exports, made by a background
- * job into object storage and downloaded from a link (issues 17/18). This module is the only
+ * job into object storage and downloaded from a link. This module is the only
  * writer of `prepared_files`.
  *
  *   request → row "queued" + job "prepared-files.render" in one transaction (202 at once)

@@ -1,5 +1,5 @@
 /**
- * Condition survey report, tag labels and tag look-up (issue 17).
+ * Condition survey report, tag labels and tag look-up.
  * - GET  /sites/:siteId/reports/survey.pdf  every member (viewers too): the report, streamed.
  *        Headers before the first byte: X-Report-Pages (page count), X-Report-Positions.
  * - GET  /sites/:siteId/labels.pdf           crew who handle parts (not viewers): tag labels.

@@ -1,6 +1,6 @@
 /**
  * Called by the readings domain inside its own transaction when a reading is recorded
- * (issue 14 item 5): a thermal level 3–4 or an insulation reading below the minimum on a
+ *: a thermal level 3–4 or an insulation reading below the minimum on a
  * position of a stage that is live under return to service opens an incident — a
  * safety-critical, energisation-blocking defect — and stops the stage. Readings on boards
  * or stages not yet energised are left to the gate, which already blocks on them (a

@@ -34,7 +34,7 @@ describe("checkCustodyMove", () => {
       ["off_chain"],
     ],
     [
-      "workshop → refitted skips ready-to-refit (issue 14's case)",
+      "workshop → refitted skips ready-to-refit (a refit straight from the workshop)",
       f({ from: "in_workshop" }),
       "refitted",
       ["not_ready"],
@@ -49,7 +49,7 @@ describe("checkCustodyMove", () => {
     ["a cleaned part may be made ready on site", f({ from: "removed", disposition: "clean" }), "ready_to_refit", []],
     ["refit with every proof", ready, "refitted", []],
     [
-      "refit when the last inspection shows tracking (issue 14's case)",
+      "refit when the last inspection shows tracking",
       f({ latestInsulation: "tracking" }),
       "refitted",
       ["condition_unproven"],
@@ -73,7 +73,7 @@ describe("checkCustodyMove", () => {
       ["reading_failing"],
     ],
     [
-      "a breaker whose latest reading was taken near the dew point (not valid for judging, issue 13)",
+      "a breaker whose latest reading was taken near the dew point (not valid for judging)",
       f({ latestReading: "not_valid" }),
       "refitted",
       ["reading_not_valid"],
@@ -92,7 +92,7 @@ describe("checkCustodyMove", () => {
     ],
     ["a ground lamp needs no reading", f({ kind: "ground_lamp", latestReading: "below_minimum" }), "refitted", []],
     [
-      "issue 14's whole case lists every missing proof",
+      "a refit with no proof at all lists every missing proof",
       f({ from: "in_workshop", disposition: null, latestInsulation: "tracking", latestReading: "below_minimum" }),
       "refitted",
       ["not_ready", "disposition_undecided", "condition_unproven", "reading_failing"],
@@ -134,7 +134,7 @@ describe("proposeNext", () => {
       "ready_to_refit",
     ],
     ["ready → refitted", ready, "refitted"],
-    ["after the refit nothing is proposed (issue 14: not the previous move)", f({ from: "refitted" }), null],
+    ["after the refit nothing is proposed (not the previous move)", f({ from: "refitted" }), null],
     ["scrapped proposes nothing", f({ from: "scrapped" }), null],
     ["missing → removed (found, tagged)", f({ from: "missing" }), "removed"],
   ])("%s", (_n, facts, expected) => {

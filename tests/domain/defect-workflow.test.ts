@@ -8,7 +8,7 @@ import {
 } from "../../src/domain/defect-workflow";
 import type { DefectStatus } from "../../src/domain/vocab";
 
-// Tideline's own workflow rules (issue 5); independent verification of a repair by a
+// Tideline's own workflow rules; independent verification of a repair by a
 // second person is common practice, no published source.
 const VOL = "vol-1";
 const OTHER = "vol-2";
@@ -118,7 +118,7 @@ describe("checkTransition", () => {
     ).toEqual({ ok: true, set: { verifiedBy: CUR, closed: true } });
   });
 
-  // Issue 14: a repair is closed on evidence (common practice: re-test or photograph the work).
+  // A repair is closed on evidence (common practice: re-test or photograph the work).
   it.each([
     ["no evidence at all", undefined, "evidence_required"],
     [
@@ -149,7 +149,7 @@ describe("allowedTargets and canEdit", () => {
     ["own volunteer on open", d("raised"), volunteer, ["under_repair"]],
     ["own volunteer awaiting verification", d("awaiting_retest"), volunteer, []],
     [
-      "the curator who did the repair is not offered the close (issue 14)",
+      "the curator who did the repair is not offered the close",
       d("awaiting_retest", { repairedBy: CUR }),
       curator,
       ["under_repair", "deferred", "accepted_as_is"],

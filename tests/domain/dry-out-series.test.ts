@@ -39,7 +39,7 @@ describe("dryOutSeries", () => {
     expect(forecastWords(slow)).toContain("more than 60 days");
   });
 
-  it("a series flattening below the minimum says so instead of promising it (issue 13 item 4)", () => {
+  it("a series flattening below the minimum says so instead of promising it", () => {
     const flat = dryOutSeries([reading(0, 1), reading(240, 1.01), reading(480, 1.02)])!;
     expect(flat.extension).toBeNull();
     expect(forecastWords(flat)).toMatch(/^Levelling off below the minimum: drying alone may not get there/);

@@ -51,7 +51,7 @@ describe("recommendDisposition — scenarios", () => {
   it.each([
     // [label, input, disposition, a reason must contain]
     ["dry above the line, clean", { belowWaterLine: false }, "clean", "no sign of water contact"], // NEMA GD 1 (memory)
-    // Issue 13 item 6: silt is evidence of water contact, which overrides the recorded line (common practice).
+    // Silt is evidence of water contact, which overrides the recorded line (common practice).
     [
       "above the line with silt only",
       { belowWaterLine: false, contaminants: ["silt"] },

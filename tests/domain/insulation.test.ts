@@ -167,7 +167,7 @@ describe("time-resistance ratios", () => {
     [0, 10],
     [10, 0],
     [0, 0],
-  ])("a zero reading makes the ratio not computable (%f, %f), not an error (issue 13 item 1)", (a, b) => {
+  ])("a zero reading makes the ratio not computable (%f, %f), not an error", (a, b) => {
     expect(polarizationIndex(a, b)).toBeNull();
     expect(dielectricAbsorptionRatio(a, b)).toBeNull();
   });

@@ -12,7 +12,7 @@ import {
 import type { PartSpec } from "../../src/domain/parts";
 import type { PartStatus } from "../../src/domain/vocab";
 
-// Workflow and matching are Tideline's own rules (issue 6), no external standard.
+// Workflow and matching are Tideline's own rules, no external standard.
 // Money split: proportional allocation, common practice; arithmetic checked by hand.
 
 describe("canMovePart", () => {
@@ -117,7 +117,7 @@ describe("partTitle", () => {
     [mcb, "", "Molded-case breaker · 100 A · 3-pole · 600 V · frame F · Bolt-on · Acme Q3"],
     [{ kind: "ground_lamp", voltageRating: 250 } as PartSpec, "lens", "Ground-detection lamp · 250 V — lens"],
     [{ kind: "other" } as PartSpec, null, "Other"],
-    // Issue 14: a frame typed as "50 A frame" is not doubled ("frame 50 A frame").
+    // A frame typed as "50 A frame" is not doubled ("frame 50 A frame").
     [{ kind: "molded_case_breaker", frame: "50 A frame" } as PartSpec, null, "Molded-case breaker · 50 A frame"],
   ])("%j %j → %s", (spec, need, title) => {
     expect(partTitle(spec, need)).toBe(title);

@@ -1,5 +1,5 @@
 /**
- * Issue 13: readings as a flooded board really gives them. Each check value sits beside
+ * Readings as a flooded board really gives them. Each check value sits beside
  * its source; "from memory" marks values not checked against the printed page here.
  */
 import { describe, expect, it } from "vitest";
@@ -35,7 +35,7 @@ import {
 const NETA20 = { ...DEFAULT_CRITERIA };
 const reading = { testVoltsDc: 1000, ratedVolts: 450, ambientTempC: 20, humidityPercent: 50 };
 
-describe("item 1: a dead short is a reading", () => {
+describe("a dead short is a reading", () => {
   it("0 MΩ corrects to 0 and is below any minimum (NETA MTS Table 100.1 minimum 100 MΩ for a 450 V board)", () => {
     expect(netaCorrectionTo20C(0, 20, "solid")).toBe(0);
     const j = judgeInsulationReading({ ...reading, megohms: 0, equipmentTempC: 20 }, NETA20);
@@ -49,7 +49,7 @@ describe("item 1: a dead short is a reading", () => {
   });
 });
 
-describe("item 2: over-range and under-resolution readings", () => {
+describe("over-range and under-resolution readings", () => {
   it.each([
     // Interval arithmetic: numerator ≥ shown, denominator exact → ratio ≥ shown ratio.
     [{ megohms: 1000 }, { megohms: 2000, qualifier: "at_or_above" as const }, "at_least", 2],
@@ -124,9 +124,9 @@ function dewPointByBuck(t: number, rh: number) {
   return (lo + hi) / 2;
 }
 
-describe("item 3: dew point gate", () => {
+describe("dew point gate", () => {
   it.each([
-    [18, 85, 15.4], // issue 13 worked example (Magnus, Alduchov–Eskridge coefficients)
+    [18, 85, 15.4], // worked example (Magnus, Alduchov–Eskridge coefficients)
     [20, 50, 9.3], // psychrometric tables (e.g. ASHRAE Fundamentals chart; from memory)
     [30, 70, 23.9], // psychrometric tables (from memory)
     [25, 100, 25.0], // saturated air: dew point = air temperature (definition)
@@ -160,8 +160,8 @@ describe("item 3: dew point gate", () => {
   });
 });
 
-describe("item 4: dry-out levelling off", () => {
-  // Readings 10 → 95 MΩ flattening near 97 MΩ, every 2 h (issue 13's case).
+describe("dry-out levelling off", () => {
+  // Readings 10 → 95 MΩ flattening near 97 MΩ, every 2 h.
   const flattening = [10, 35, 70, 88, 94, 96, 97].map((megohms, i) => ({ hours: 2 * i, megohms }));
   it("the whole-series fit promised the minimum soon; the recent window says levelling off below it", () => {
     expect(forecastDryOut(flattening, 100).hoursToTarget!).toBeLessThan(2);
@@ -206,7 +206,7 @@ describe("item 4: dry-out levelling off", () => {
   });
 });
 
-describe("item 5: thermal rise scaled to rated load (ΔT ∝ (I/I_rated)², common practice)", () => {
+describe("thermal rise scaled to rated load (ΔT ∝ (I/I_rated)², common practice)", () => {
   it("8 °C over a similar part at 30 % load scales to 88.9 °C: NETA Table 100.18 level 2 → level 4", () => {
     expect(scaleRiseToRatedLoad(8, 30).scaledRiseC).toBeCloseTo(88.89, 2);
     const j = judgeThermalScan({ componentTempC: 38, similarTempC: 30, loadPercent: 30 });
@@ -222,7 +222,7 @@ describe("item 5: thermal rise scaled to rated load (ΔT ∝ (I/I_rated)², comm
   });
 });
 
-describe("item 6: evidence of water contact overrides the water line (NEMA GD 1, from memory)", () => {
+describe("evidence of water contact overrides the water line (NEMA GD 1, from memory)", () => {
   const base = { waterType: "fresh" as const, belowWaterLine: false, contaminants: [] as never[] };
   it("a molded-case breaker above the line with silt on it is replaced, not cleaned", () => {
     const r = recommendDisposition({ ...base, kind: "molded_case_breaker", contaminants: ["silt"] });
@@ -244,7 +244,7 @@ describe("item 6: evidence of water contact overrides the water line (NEMA GD 1,
   });
 });
 
-describe("item 7: safety-critical ranks above every non-safety defect", () => {
+describe("safety-critical ranks above every non-safety defect", () => {
   it("a 10-point safety defect outranks a 115-point one that is not (Tideline's rule)", () => {
     const safety = priorityScore({
       severity: "cosmetic",
@@ -272,7 +272,7 @@ describe("item 7: safety-critical ranks above every non-safety defect", () => {
   });
 });
 
-describe("item 8: test voltage (NETA MTS-2019 Table 100.1)", () => {
+describe("test voltage (NETA MTS-2019 Table 100.1)", () => {
   it.each([
     [240, 5000, 500, true], // 250 V row: 500 V DC
     [450, 1000, 1000, false], // 600 V row: 1 000 V DC
@@ -284,7 +284,7 @@ describe("item 8: test voltage (NETA MTS-2019 Table 100.1)", () => {
   });
 });
 
-describe("item 9: trip tests (NETA ATS Tables 100.7 / 100.8, values from memory)", () => {
+describe("trip tests (NETA ATS Tables 100.7 / 100.8, values from memory)", () => {
   it("20 A thermal-magnetic at 240 V: at most 50 s at 300 % (Table 100.7, from memory)", () => {
     expect(inverseTimeBand({ ratingAmps: 20, systemVolts: 240, tripUnit: "thermal_magnetic" })!.maxSeconds).toBe(50);
     expect(inverseTimeBand({ ratingAmps: 100, systemVolts: 480, tripUnit: "thermal_magnetic" })!.maxSeconds).toBe(160);
@@ -387,7 +387,7 @@ function faultedLampVolts(lineVolts: number, branchOhms: number, faultOhms: numb
   return Math.hypot(vPh - vg[0], -vg[1]);
 }
 
-describe("item 9: ground lamps with the system's capacitance", () => {
+describe("ground lamps with the system's capacitance", () => {
   it.each([
     [2000, 2000, 1],
     [5000, 500, 0.5],

@@ -1,5 +1,5 @@
 /**
- * Item 1 of issue 11: a database connection in use drops (pg_terminate_backend), and the
+ * A database connection in use drops (pg_terminate_backend), and the
  * process keeps serving. Runs in the vitest worker: an unhandled 'error' from a pg client
  * would end the worker and fail this file.
  */

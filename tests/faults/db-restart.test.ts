@@ -1,5 +1,5 @@
 /**
- * Item 1 and the fault suite of issue 11: the database stops (`pg_ctl stop -m fast`) or
+ * The database stops (`pg_ctl stop -m fast`) or
  * its postmaster is killed (-9) in the middle of a burst of writes. The real server runs
  * as its own process (`server/index.ts` with DATABASE_URL) against a throw-away cluster
  * of this file's own (.data/pg-faults on a free port), never the shared test cluster.

@@ -1,6 +1,6 @@
 /**
- * Issue 18, the proof: Tideline as a fleet runs it. Three processes against ONE test
- * database, ONE S3-compatible store (s3rver, STACK.md "Fake S3") and ONE SMTP server:
+ * The proof: Tideline as a fleet runs it. Three processes against ONE test
+ * database, ONE S3-compatible store (s3rver) and ONE SMTP server:
  *   A — `server/index.ts`, web + worker (the default of `npm start`),
  *   B — `server/index.ts` with TIDELINE_WORKER=off (a web-only instance),
  *   W — `server/cli/worker.ts` (what `npm run worker` runs): jobs and schedules, no web.

@@ -1,5 +1,5 @@
 /**
- * Item 3 of issue 11: a big inventory CSV preview must not freeze the server. Before the fix
+ * A big inventory CSV preview must not freeze the server. Before the fix
  * a 1.7 MB, 55,000-row preview held the event loop for 12.5 s (health waited up to 9.7 s) and
  * answered 25 MB. Now the file is parsed, checked and planned on a worker thread, a file over
  * the row cap is refused whole (413, nothing written), and the answer lists at most 1,000 rows

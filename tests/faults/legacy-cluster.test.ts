@@ -1,5 +1,5 @@
 /**
- * Issue 11, item 11: an embedded cluster made by an earlier version (`initdb -A trust`:
+ * An embedded cluster made by an earlier version (`initdb -A trust`:
  * anyone on the machine signs in as the superuser, and the app's tables belong to it)
  * keeps working after the change to password sign-in and an app role of its own. On its
  * next start, db/pg.ts gives the superuser a password, creates the app's role, rewrites

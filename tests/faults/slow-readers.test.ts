@@ -1,5 +1,5 @@
 /**
- * Item 2 of issue 11: ten CSV exports that are never read must not stall anyone else.
+ * Ten CSV exports that are never read must not stall anyone else.
  * The server's pool here has 5 connections (createTestDb), so exports that held one each
  * while waiting on their readers would leave boards, sign-in and health waiting for the
  * pool's 5 s acquire timeout and answering errors. Timings are asserted generously: the

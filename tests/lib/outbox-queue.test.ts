@@ -1,5 +1,5 @@
 /**
- * The outbox engine (issue 16): order, retry with backoff, idempotency keys, conflicts and refusals.
+ * The outbox engine: order, retry with backoff, idempotency keys, conflicts and refusals.
  * Outcome classes follow RFC 9110 (§15.5 client errors are not retried as they are; §15.6 server
  * errors and 408/429 may be) and the IETF HTTPAPI Idempotency-Key draft (409 = request in progress).
  */
@@ -71,7 +71,7 @@ describe("createdIdOf", () => {
     expect(createdIdOf({ photos: [{ id: "p1" }] })).toBe("p1");
     expect(createdIdOf({ reading: { id: "r1" } })).toBe("r1");
     expect(createdIdOf({ nothing: true })).toBeNull();
-    // The other field creates (issue 16): a defect, a thermal scan, a watch check with the incidents it raised.
+    // The other field creates: a defect, a thermal scan, a watch check with the incidents it raised.
     expect(createdIdOf({ defect: { id: "d1", ref: 7 } })).toBe("d1");
     expect(createdIdOf({ scan: { id: "t1" } })).toBe("t1");
     expect(createdIdOf({ check: { id: "w1" }, incidents: [{ id: "x1", defectId: "d9" }] })).toBe("w1");

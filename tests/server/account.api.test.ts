@@ -6,7 +6,7 @@ import { makeCrew, makeUser } from "../helpers/fixtures";
 import { TEST_PASSWORD, type TestServer } from "../helpers/http";
 import { startMailTestServer } from "../helpers/mail";
 
-// Issue 14 item 11: changing one's password while signed in, and the site's currency.
+// Changing one's password while signed in, and the site's currency.
 let t: TestDb;
 let env: Awaited<ReturnType<typeof startMailTestServer>>;
 let server: TestServer;

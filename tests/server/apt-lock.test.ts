@@ -48,7 +48,7 @@ function runApt(script: string, waitS: number) {
   });
 }
 
-describe("apt-get while another install holds the package lock (db/apt.mjs, issue 11)", () => {
+describe("apt-get while another install holds the package lock (db/apt.mjs)", () => {
   it("waits, says so once, and goes on when the lock is released", () => {
     const apt = fakeAptGet(3);
     const r = runApt(apt.script, 30);

@@ -1,5 +1,5 @@
 /**
- * `npm run backup` / `npm run restore` (issue 11): a round trip through the archive puts
+ * `npm run backup` / `npm run restore`: a round trip through the archive puts
  * the database and the photo store back byte for byte, on local disk and on S3 (s3rver
  * through the real @aws-sdk/client-s3).
  */

@@ -9,7 +9,7 @@ import { createTestDb, type TestDb } from "../helpers/db";
 import { makeCrew } from "../helpers/fixtures";
 import { startTestServer, type Client, type TestServer } from "../helpers/http";
 
-// Issue 15: the overview and the board list read per-board counts kept current by the writes
+// The overview and the board list read per-board counts kept current by the writes
 // (server/inventory/board-summaries-repository.ts). After every kind of write, and after a random sequence of
 // them, what they answer must equal the counts taken from scratch over every position — the
 // definitions of overviewResponse in src/schemas/inventory.ts, computed here one position at a time.

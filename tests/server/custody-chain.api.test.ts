@@ -3,7 +3,7 @@ import { createTestDb, type TestDb } from "../helpers/db";
 import { makeCrew } from "../helpers/fixtures";
 import { Client, startTestServer, type TestServer } from "../helpers/http";
 
-// Issue 14: custody follows the tag-and-return chain (src/domain/custody-chain.ts, common
+// Custody follows the tag-and-return chain (src/domain/custody-chain.ts, common
 // practice); each forbidden move is 409/422 with its reason; the curator's release is recorded and audited.
 let t: TestDb;
 let server: TestServer;
@@ -92,7 +92,7 @@ describe("the custody chain", () => {
     expect(Number(next.slice(2))).toBe(Number(first.slice(2)) + 1);
   });
 
-  it("issue 14's case: workshop → refitted is refused with every reason (409 not_ready first)", async () => {
+  it("a refit straight from the workshop: workshop → refitted is refused with every reason (409 not_ready first)", async () => {
     let c = await component();
     c = await step(c, "removed", { tagNumber: "KL-7200" });
     c = await step(c, "in_workshop");

@@ -1,5 +1,5 @@
 /**
- * Issue 11, item 11: the embedded database signs in by password only (scram-sha-256, on
+ * The embedded database signs in by password only (scram-sha-256, on
  * 127.0.0.1 and on its socket), and the app runs as its own role, which owns its database
  * but is no superuser: it can create neither roles nor databases and cannot read the
  * password hashes in pg_authid. The test databases are made the way `npm start` makes the

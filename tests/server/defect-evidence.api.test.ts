@@ -4,7 +4,7 @@ import { makeCrew } from "../helpers/fixtures";
 import { startTestServer, type Client, type TestServer } from "../helpers/http";
 import { makeBoard } from "./defects-fixtures";
 
-// Issue 14: a failing reading raises a defect linked both ways; a repair closes on evidence
+// A failing reading raises a defect linked both ways; a repair closes on evidence
 // (a re-test meeting its criterion or an after-work photo), verified by someone else.
 let t: TestDb;
 let server: TestServer;

@@ -152,7 +152,7 @@ describe("server-side sorting, each checked against direct SQL", () => {
     ).map((d) => d.id);
     expect(await ids("sort=priority&dir=desc&size=200")).toEqual(expected);
     expect(await ids("sort=priority&dir=asc&size=200")).toEqual([...expected].reverse());
-    // Page by page (issue 15: the ranked page is read from an index branch and a pinned branch,
+    // Page by page (the ranked page is read from an index branch and a pinned branch,
     // each cut at the page's end): small pages laid end to end give the same order, both ways.
     const paged = async (dir: string) => {
       const out: string[] = [];

@@ -161,7 +161,7 @@ describe("workflow", () => {
     expect(d).toMatchObject({ status: "awaiting_retest", repairedBy: fx.crew.volunteer.id });
     const self = await move(as.volunteer, d, "closed");
     expect(self.status).toBe(403);
-    // issue 14: closing asks for the evidence first
+    // Closing asks for the evidence first
     const bare = await move(as.curator, d, "closed");
     expect(bare.status).toBe(422);
     expect(bare.body.error.code).toBe("evidence_required");

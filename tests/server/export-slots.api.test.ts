@@ -4,7 +4,7 @@ import { createTestDb, type TestDb } from "../helpers/db";
 import { makeCrew } from "../helpers/fixtures";
 import { startTestServer, type TestServer } from "../helpers/http";
 
-// Issue 11: a person's cap on concurrent downloads (EXPORTS_PER_PERSON, 2) is kept in PostgreSQL
+// A person's cap on concurrent downloads (EXPORTS_PER_PERSON, 2) is kept in PostgreSQL
 // (export_slots), so it holds across server instances on one database, not per process.
 let t: TestDb;
 let a: TestServer;

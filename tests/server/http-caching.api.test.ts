@@ -7,7 +7,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createTestDb, type TestDb } from "../helpers/db";
 import { startTestServer, type TestServer } from "../helpers/http";
 
-// Issue 15: responses are compressed (gzip via the `compression` middleware, HTTP/1.1 RFC 9110
+// Responses are compressed (gzip via the `compression` middleware, HTTP/1.1 RFC 9110
 // content coding), content-hashed assets are cached as immutable (RFC 8246) and index.html is
 // revalidated, so a new build shows at once.
 let t: TestDb;

@@ -1,5 +1,5 @@
 /**
- * Idempotency-Key on every create the phone's offline queue sends (issue 16): a repeat with the
+ * Idempotency-Key on every create the phone's offline queue sends: a repeat with the
  * same key answers the first result and writes no second row; the same key with another body is
  * 422; a refused first attempt frees the key; two racing repeats never make two rows.
  * The header's meaning follows the IETF HTTPAPI draft "The Idempotency-Key HTTP Header Field"
@@ -363,7 +363,7 @@ describe("Idempotency-Key edge cases", () => {
 });
 
 /**
- * Edits of existing records the phone sends from its outbox (issue 16): a defect's fields (PATCH)
+ * Edits of existing records the phone sends from its outbox: a defect's fields (PATCH)
  * and a status move, each with the version it was based on. A repeat with the same key answers the
  * first result and changes nothing again; a stale version is 409 with the current record and gives
  * the key back, so the person's choice can go with the same key and the version now current.

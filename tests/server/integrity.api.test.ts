@@ -1,4 +1,4 @@
-/** Issue 11's smaller items: defect numbers per site, one position per grid cell, file names, hashed session ids. */
+/** Integrity: defect numbers per site, one position per grid cell, file names, hashed session ids. */
 import { mkdtemp, rm } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import { join } from "node:path";

@@ -6,7 +6,7 @@ import { createTestDb, type TestDb } from "../helpers/db";
 import { makeCrew } from "../helpers/fixtures";
 import { Client, startTestServer, type TestServer } from "../helpers/http";
 
-// Issue 14 item 8: the quick log finds a position by designation, tag, circuit name or kind, with
+// The quick log finds a position by designation, tag, circuit name or kind, with
 // prefixes, loosely typed tags and typing slips (pg_trgm, PostgreSQL's contrib module; its documented
 // default thresholds: similarity 0.3, word_similarity 0.6). Board and circuits are invented.
 let t: TestDb;

@@ -1,5 +1,5 @@
 /**
- * The spreadsheet round trip (issue 13): an exported inventory opened and saved in a
+ * The spreadsheet round trip: an exported inventory opened and saved in a
  * spreadsheet, then imported again, changes exactly the rows the person edited and adds
  * nothing twice. Spreadsheet habits are reproduced byte for byte (CRLF, no BOM or a BOM,
  * semicolons, Windows-1252, UTF-16 "Unicode text", quoted cells, ="007" saved back as 007),

@@ -41,7 +41,7 @@ it("the demo seed loads into the migrated database with the six demo accounts", 
   ]);
 });
 
-// Issue 14 item 12: the defect states were renamed to the trade's words by a migration.
+// The defect states were renamed to the trade's words by a migration.
 it("the defect-state rename maps every old value to the new one and back, in defects, history, audit and saved views", async () => {
   const m = await import("../../db/migrations/2026_12_02_0500_rename_defect_statuses");
   const site = await db.selectFrom("sites").select("id").executeTakeFirstOrThrow();

@@ -61,7 +61,7 @@ describe("notification switches", () => {
     await c.put("/api/account/notifications/weekly_summary", { enabled: true });
   });
 
-  // Issue 14 item 11: a person is offered only the e-mails one of their roles receives (NOTIFICATION_AUDIENCE).
+  // A person is offered only the e-mails one of their roles receives (NOTIFICATION_AUDIENCE).
   it.each([
     ["viewer", []],
     ["photographer", ["defect_assigned"]],

@@ -1,5 +1,5 @@
 /**
- * Issue 18, observability: request ids on every response, error body and log line;
+ * Observability: request ids on every response, error body and log line;
  * liveness and readiness probes; Prometheus metrics for admins or a bearer token.
  * The text format is parsed by prom-client's own registry output format (Prometheus
  * exposition format 0.0.4), so the assertions read it as a scraper would.

@@ -5,7 +5,7 @@ import { makeCrew } from "../helpers/fixtures";
 import { startTestServer, type Client, type TestServer } from "../helpers/http";
 import { BREAKER, makeBoard, makeComponent, makeDefect, registerChanged, setDisposition } from "./parts-fixtures";
 
-// Merging rules: Tideline's own (src/domain/parts.ts, issue 6). These tests check the
+// Merging rules: Tideline's own (src/domain/parts.ts). These tests check the
 // register → wanted list wiring over HTTP against real PostgreSQL.
 let t: TestDb;
 let server: TestServer;

@@ -5,7 +5,7 @@ import { makeCrew } from "../helpers/fixtures";
 import { startTestServer, type Client, type TestServer } from "../helpers/http";
 import { BREAKER, makeBoard, makeComponent } from "./parts-fixtures";
 
-// Issue 14 item 13: each wanted-list line has a short number per site (W-12) that a person can say on
+// Each wanted-list line has a short number per site (W-12) that a person can say on
 // the phone; it is shown, searched, exported and shared. Tideline's own numbering (migration 0510).
 let t: TestDb;
 let server: TestServer;

@@ -5,7 +5,7 @@ import { startTestServer, type Client, type TestServer } from "../helpers/http";
 import { memoryMailer } from "../../server/mail/mailer";
 import { BREAKER, makeBoard, makeComponent, makeDefect } from "./parts-fixtures";
 
-// Status workflow and its effects: Tideline's own rules (issue 6, server/parts/workflow.ts).
+// Status workflow and its effects: Tideline's own rules (server/parts/workflow.ts).
 let t: TestDb;
 let server: TestServer;
 let fx: Awaited<ReturnType<typeof makeCrew>>;
@@ -216,7 +216,7 @@ describe("status workflow", () => {
     expect(row).toEqual({ heritage: "original", custody: "refitted" });
   });
 
-  it("fitting without saying what the part makes of the component: a whole component becomes a period replacement, so it no longer counts as original fabric (issue 14)", async () => {
+  it("fitting without saying what the part makes of the component: a whole component becomes a period replacement, so it no longer counts as original fabric", async () => {
     const { line, comp } = await freshLine("10-9");
     const retained = async () =>
       (await c.viewer.get(`/api/sites/${fx.siteId}/overview`)).body.originalRetainedPercent as number;

@@ -10,7 +10,7 @@ afterAll(async () => {
   for (const d of dirs) await rm(d, { recursive: true, force: true });
 });
 
-describe("partial photo files at start (issue 11)", () => {
+describe("partial photo files at start", () => {
   it("removes a zero-byte .partial left by a process that is gone, and keeps photos and another live writer's file", async () => {
     const root = await mkdtemp(join(tmpdir(), "tideline-leftovers-"));
     dirs.push(root);

@@ -27,7 +27,7 @@ beforeAll(async () => {
   fx = await makeCrew(t.db);
   s3dir = await mkdtemp(join(tmpdir(), "tideline-s3rver-"));
   diskDir = await mkdtemp(join(tmpdir(), "tideline-disk-"));
-  // s3rver 3.7.1 on loopback, ephemeral port, its own temp folder (STACK.md "Fake S3").
+  // s3rver 3.7.1 on loopback, ephemeral port, its own temp folder.
   fake = new S3rver({ address: "127.0.0.1", port: 0, directory: s3dir, silent: true });
   const addr = (await fake.run()) as AddressInfo;
   s3 = new S3Storage({

@@ -1,5 +1,5 @@
 /**
- * Prepared files (issues 17/18): the survey report and large CSV exports asked for with a
+ * Prepared files: the survey report and large CSV exports asked for with a
  * 202, made by the job worker into storage, announced by a notice, downloaded with the
  * same checks as any route, kept for a while and then removed by the scheduled clean-up.
  * The PDF is read back with poppler-utils' pdftotext (Debian); each CSV must be byte for

@@ -5,7 +5,7 @@ import { startTestServer, type Client, type TestServer } from "../helpers/http";
 import { loggingDb, writes, type QueryLog } from "../helpers/query-log";
 import { BREAKER, makeBoard, makeComponent, makeDefect } from "./parts-fixtures";
 
-// Issue 15: a list endpoint must issue a fixed number of statements, whatever the number of rows
+// A list endpoint must issue a fixed number of statements, whatever the number of rows
 // it returns (no query per row: "N+1"). Two sites differ only in size; every endpoint must issue
 // the same statements for both.
 let t: TestDb;

@@ -1,5 +1,5 @@
 /**
- * Issue 13 over HTTP: a dead short and over-range readings are recorded, the dew point gate,
+ * Field readings over HTTP: a dead short and over-range readings are recorded, the dew point gate,
  * trip tests, step-voltage tests, the ground-hunt log and the phase comparison on the board.
  */
 import { afterAll, beforeAll, describe, expect, it } from "vitest";

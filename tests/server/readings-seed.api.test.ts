@@ -42,7 +42,7 @@ it("the demo has one outlier pole, a level-2 thermal finding and a dim phase-B l
   const { contacts, thermal, groundChecks } = await service.boardReadings(t.db, siteId, boardId);
   expect(contacts.filter((c) => c.judgement.outliers.length > 0).map((c) => c.designation)).toEqual(["G1"]);
   // 6.5 °C over a similar lug at 65 % load is level 2 as measured; scaled to rated load
-  // (× (100/65)² = 15.4 °C, issue 13 item 5) it is level 4 (NETA Table 100.18).
+  // (× (100/65)² = 15.4 °C) it is level 4 (NETA Table 100.18).
   expect(thermal.map((s) => s.judgement.measuredLevel)).toContain(2);
   expect(thermal.map((s) => s.judgement.level)).toContain(4);
   expect(groundChecks).toHaveLength(2);

@@ -1,5 +1,5 @@
 /**
- * Condition survey report and tag labels (issue 17), read back with tools from outside
+ * Condition survey report and tag labels, read back with tools from outside
  * the project: poppler-utils' pdftotext / pdfinfo / pdffonts / pdftoppm (Debian) and the
  * jsqr decoder (npm). The demo scenario is MV Kestrel Lantern (invented).
  */

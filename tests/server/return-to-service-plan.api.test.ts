@@ -4,7 +4,7 @@ import { makeCrew } from "../helpers/fixtures";
 import { startTestServer, type Client, type TestServer } from "../helpers/http";
 import { DEFAULT_TEMPLATE } from "../../src/domain/return-to-service";
 
-// The curator's plan editing (issue 12): the site's hold-point template, a stage's hold points,
+// The curator's plan editing: the site's hold-point template, a stage's hold points,
 // the stage's supply / protection / qualified person, the overview's sequence and the operations log.
 let t: TestDb;
 let server: TestServer;

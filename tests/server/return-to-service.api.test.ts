@@ -382,7 +382,7 @@ describe("sign-offs", () => {
   });
 });
 
-describe("readings on a live stage (issue 14 item 5)", () => {
+describe("readings on a live stage", () => {
   it("a thermal level 4 recorded on a live stage's position opens a defect by itself and stops the stage", async () => {
     await megger("4-1", 600);
     const s = await newStage({ name: "Lighting", sectionIds: [], positionIds: [pos["4-1"]] });

@@ -1,6 +1,6 @@
 /**
  * Where photo files live, behind one small interface so the embedded default (local
- * disk) and S3-compatible object storage are interchangeable (PRODUCT.md "Scale").
+ * disk) and S3-compatible object storage are interchangeable (one machine or a fleet of instances).
  * Chosen by PHOTO_STORAGE=disk|s3; see README "Photos" for the variables.
  */
 import { tmpdir } from "node:os";

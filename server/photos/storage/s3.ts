@@ -35,7 +35,7 @@ export class S3Storage implements PhotoStorage {
           : undefined,
       // Checksums only when the API requires them: with the default ("when supported")
       // several S3-compatible servers store the aws-chunked framing inside the object
-      // (seen with s3rver 3.7.1, STACK.md "Fake S3") — silently corrupt photos.
+      // (seen with s3rver 3.7.1) — silently corrupt photos.
       requestChecksumCalculation: "WHEN_REQUIRED",
       responseChecksumValidation: "WHEN_REQUIRED",
     });
