@@ -1,4 +1,5 @@
 import { expect, request, test, type APIRequestContext } from "@playwright/test";
+import sharp from "sharp";
 import { expectNoSeriousA11yViolations } from "./support/a11y";
 import { DEMO_PASSWORD, signIn } from "./support/auth";
 
@@ -39,9 +40,9 @@ async function makeBoard(baseURL: string): Promise<Made> {
 }
 
 test.describe("on a phone", () => {
-  test.use({ viewport: { width: 375, height: 812 } });
+  test.use({ viewport: { width: 360, height: 740 } });
 
-  test("a volunteer logs an inspection and a removal through the quick log, and the board tile shows both", async ({
+  test("a volunteer logs an inspection with a photo and a removal through the quick log, and the board tile shows both", async ({
     page,
     baseURL,
   }) => {
@@ -70,6 +71,15 @@ test.describe("on a phone", () => {
     await page.getByRole("button", { name: "Save inspection" }).click();
     await expect(page.getByTestId("logged")).toContainText("Inspection saved — grade 3 · Ri 4");
     await expect(page.getByRole("link", { name: "Raise a defect" })).toHaveAttribute("href", /category=corrosion/);
+    // The inspection's photo, from the phone's camera input (issue 14 item 3).
+    const photos = page.getByRole("region", { name: "Photos of this inspection" });
+    const shot = await sharp({ create: { width: 320, height: 240, channels: 3, background: "#7a5a3a" } })
+      .jpeg()
+      .toBuffer();
+    await photos
+      .locator("input[type=file]")
+      .setInputFiles({ name: "salt-crust.jpg", mimeType: "image/jpeg", buffer: shot });
+    await expect(photos.getByRole("button", { name: /^Open photo/ })).toHaveCount(1);
 
     await page.getByRole("tab", { name: "Move the part" }).click();
     await expect(page.getByRole("button", { name: "Removed (tagged)", exact: true })).toHaveAttribute(
