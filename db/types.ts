@@ -724,6 +724,11 @@ export interface RtsWatchChecksTable {
   ambientC: Num;
   note: Text;
   recordedBy: string | null;
+  /** The observed time as the phone gave it (its own clock); `at` is that time on the server's clock. */
+  deviceAt: ColumnType<Date | null, Date | string | null | undefined, Date | string | null>;
+  /** The phone's clock minus the server's when it was sent (s); null when the phone did not say. */
+  clockSkewS: number | null;
+  /** When the server received it. */
   createdAt: Timestamp;
 }
 

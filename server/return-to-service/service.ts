@@ -7,6 +7,7 @@
 import type { z } from "zod";
 import { checkReorder, isQualifiedOn, QUALIFIED_ONLY_KINDS } from "../../src/domain/return-to-service";
 import { classifyTemperatureRise } from "../../src/domain/thermal";
+import { judgeDeviceTime } from "../../src/domain/device-clock";
 import { operationsStatus, defaultOperationsBudget } from "../../src/domain/breaker-operations";
 import type { Role } from "../../src/domain/vocab";
 import type {
@@ -793,13 +794,19 @@ export async function recordWatchCheck(
   stageId: string,
   body: z.infer<typeof watchCheckBody>,
   now = new Date(),
+  /** What the phone's clock read as it sent (`Tideline-Device-Time`); null when it did not say. */
+  deviceNow: Date | null = null,
 ) {
   must(ctx, "rts.record_watch", "Your role on this site does not record watch checks.");
   return db.transaction().execute(async (trx) => {
     const s = await stageOrThrow(trx, ctx, stageId, true);
     if (s.status !== "energised")
       throw new AppError(409, "not_live", "Watch checks are recorded while the stage is live under watch.");
-    const at = checkAt(body.at, now);
+    // The phone's clock is not trusted: the time it gave is kept, and put on the server's clock.
+    const deviceAt = body.at ? new Date(body.at) : null;
+    const clock = judgeDeviceTime({ deviceAt, deviceNow, serverNow: now, notBefore: s.energisedAt });
+    if (!clock.ok) throw invalid("at", clock.message);
+    const at = clock.at;
     if (body.thermalPositionId) {
       const p = (await repo.listPositions(trx, s.boardId)).find((x) => x.id === body.thermalPositionId);
       if (!p) throw invalid("thermalPositionId", "That position is not on this board.");
@@ -810,6 +817,8 @@ export async function recordWatchCheck(
       stageId,
       attempt: s.attempt,
       at,
+      deviceAt,
+      clockSkewS: clock.skewS,
       recordedBy: ctx.actor.id,
     });
     await recordAudit(trx, {
@@ -819,7 +828,7 @@ export async function recordWatchCheck(
       action: "create",
       actorId: ctx.actor.id,
       boardId: s.boardId,
-      after: body,
+      after: { ...body, at: at.toISOString(), deviceAt: body.at ?? null, clockSkewS: clock.skewS },
     });
     const incidents = [];
     if (body.lamps === "one_dark")

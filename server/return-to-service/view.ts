@@ -405,6 +405,7 @@ export async function boardView(db: Db, siteId: string, boardId: string, now: Da
         .filter(Boolean)
         .join(" · "),
       alert: w.lamps === "one_dark" || w.lamps === "one_dim",
+      clock: { deviceAt: iso(w.deviceAt), receivedAt: iso(w.createdAt)!, skewS: w.clockSkewS },
     })),
     ...incidents.map((i) => ({
       id: i.id,

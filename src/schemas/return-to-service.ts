@@ -262,6 +262,11 @@ export interface RtsEvent {
   alert?: boolean;
   /** operations: the breaker operated. */
   componentId?: string;
+  /**
+   * watch checks: the time the phone gave (by its clock), when the server received it, and how far the
+   * phone's clock was off the server's as it sent (s; null when it did not say). `at` is on the server's clock.
+   */
+  clock?: { deviceAt: string | null; receivedAt: string; skewS: number | null };
 }
 export interface RtsBreaker {
   componentId: string;

@@ -4,6 +4,7 @@ import { makeCrew, makeUser } from "../helpers/fixtures";
 import { startTestServer, type Client, type TestServer } from "../helpers/http";
 import { memoryMailer } from "../../server/mail/mailer";
 import { sendOverdueWatchNotices } from "../../server/return-to-service/overdue";
+import { clockNote } from "../../src/domain/device-clock";
 
 let t: TestDb;
 let server: TestServer;
@@ -333,6 +334,91 @@ describe("sign-offs", () => {
     expect(r.status).toBe(201);
     expect(r.body.incidents).toEqual([]);
     expect((await stageOf(stage.id)).watch.overdueSince).toBeNull();
+  });
+
+  it("a watch check kept on a phone: the server keeps the phone's time and its own, corrects a clock that is off, refuses the impossible", async () => {
+    // Issue 16: the outbox sends Tideline-Device-Time (what the phone's clock reads as it sends) with every item.
+    const url = `${site()}/return-to-service/stages/${stage.id}/watch-checks`;
+    const min = 60_000;
+    const send = (body: Record<string, unknown>, deviceNow?: Date | string) =>
+      as.volunteer.call(
+        "POST",
+        url,
+        body,
+        deviceNow
+          ? { "Tideline-Device-Time": String(deviceNow instanceof Date ? deviceNow.toISOString() : deviceNow) }
+          : {},
+      );
+    const row = (id: string) =>
+      t.db.selectFrom("rtsWatchChecks").selectAll().where("id", "=", id).executeTakeFirstOrThrow();
+
+    // Kept on the phone for 40 minutes; the phone's clock is right: its time stands, the server's receipt is its own.
+    const observed = new Date(Date.now() - 40 * min);
+    const late = await send({ lamps: "equal", note: "Late but right", at: observed.toISOString() }, new Date());
+    expect(late.status, JSON.stringify(late.body)).toBe(201);
+    const r1 = await row(late.body.check.id);
+    expect(r1.at.getTime()).toBe(observed.getTime());
+    expect(r1.deviceAt!.getTime()).toBe(observed.getTime());
+    expect(Math.abs(r1.clockSkewS!)).toBeLessThan(5);
+    expect(r1.createdAt.getTime()).toBeGreaterThan(Date.now() - min);
+
+    // The phone's clock is 25 minutes fast: what it said is kept, the check counts at the time on the server's clock.
+    const fast = 25 * min;
+    const seenOnPhone = new Date(Date.now() - 30 * min + fast);
+    const skewed = await send(
+      { lamps: "equal", note: "Fast clock", at: seenOnPhone.toISOString() },
+      new Date(Date.now() + fast),
+    );
+    expect(skewed.status, JSON.stringify(skewed.body)).toBe(201);
+    const r2 = await row(skewed.body.check.id);
+    expect(r2.deviceAt!.getTime()).toBe(seenOnPhone.getTime());
+    expect(Math.round(r2.clockSkewS! / 60)).toBe(25);
+    expect(Math.abs(r2.at.getTime() - (seenOnPhone.getTime() - fast))).toBeLessThan(5_000);
+
+    // The log shows it: the phone's clock, what it said, and that it waited on the phone.
+    const events = (await view()).events.filter((e: any) => e.kind === "watch_check");
+    const shown = events.find((e: any) => e.id === r2.id);
+    expect(shown.clock).toMatchObject({ deviceAt: seenOnPhone.toISOString(), skewS: r2.clockSkewS });
+    expect(clockNote(shown, (iso) => iso.slice(11, 16))).toMatch(
+      /^phone's clock 25 min ahead: it said \d\d:\d\d, shown on the server's clock; kept on the phone, received \d\d:\d\d$/,
+    );
+    expect(
+      clockNote(
+        events.find((e: any) => e.id === r1.id),
+        (iso) => iso,
+      ),
+    ).toMatch(/^kept on the phone, received /);
+
+    const before = await t.db
+      .selectFrom("rtsWatchChecks")
+      .select((eb) => eb.fn.countAll<number>().as("n"))
+      .executeTakeFirstOrThrow();
+    // A time in the future (by the server's clock; the phone's agrees) is refused, with the reason on the field.
+    const future = await send({ lamps: "equal", at: new Date(Date.now() + 30 * min).toISOString() }, new Date());
+    expect(future.status).toBe(400);
+    expect(future.body.error.fields.at).toBe("That time is in the future.");
+    // Without the header (an API client) the time is taken as given, and a future one is still refused.
+    expect((await send({ lamps: "equal", at: new Date(Date.now() + 10 * min).toISOString() })).status).toBe(400);
+    // A phone whose clock is two days out is set wrongly, not drifting: refused, the person sets it.
+    const wrongDate = await send(
+      { lamps: "equal", at: new Date(Date.now() - 2 * 24 * 60 * min).toISOString() },
+      new Date(Date.now() - 2 * 24 * 60 * min),
+    );
+    expect(wrongDate.status).toBe(400);
+    expect(wrongDate.body.error.fields.at).toMatch(/phone's clock is 2 days behind/);
+    // Before the stage was energised (3 h ago): not a check of this energisation.
+    const early = await send({ lamps: "equal", at: new Date(Date.now() - 5 * 60 * min).toISOString() }, new Date());
+    expect(early.status).toBe(400);
+    expect(early.body.error.fields.at).toMatch(/before the stage was energised/);
+    // An unreadable header is bad input, not ignored.
+    const garbled = await send({ lamps: "equal" }, "yesterday-ish");
+    expect(garbled.status).toBe(400);
+    expect(garbled.body.error.message).toContain("Tideline-Device-Time");
+    const after = await t.db
+      .selectFrom("rtsWatchChecks")
+      .select((eb) => eb.fn.countAll<number>().as("n"))
+      .executeTakeFirstOrThrow();
+    expect(Number(after.n)).toBe(Number(before.n));
   });
 
   it("a dark lamp in a watch check opens a safety-critical, blocking defect and stops the stage", async () => {

@@ -7,6 +7,7 @@
  */
 import { useSyncExternalStore } from "react";
 import { createStore, del, entries, set } from "idb-keyval";
+import { DEVICE_TIME_HEADER } from "../../domain/device-clock";
 import { ApiError } from "../api-client";
 import {
   byOrder,
@@ -82,6 +83,8 @@ function errorOf(status: number, body: unknown, fallback: string) {
   };
 }
 
+const deviceNow = () => new Date().toISOString();
+
 const NO_ANSWER = {
   ok: false as const,
   status: 0 as const,
@@ -94,7 +97,8 @@ async function sendJson(item: OutboxItem): Promise<SendResult> {
     res = await fetch(item.url, {
       method: item.method,
       credentials: "same-origin",
-      headers: { "Content-Type": "application/json", "Idempotency-Key": item.id },
+      // What this phone's clock reads now: the server judges the times the phone gave by it.
+      headers: { "Content-Type": "application/json", "Idempotency-Key": item.id, [DEVICE_TIME_HEADER]: deviceNow() },
       body: JSON.stringify(item.body ?? {}),
     });
   } catch {
@@ -121,6 +125,7 @@ function sendPhoto(item: OutboxItem, onProgress?: (f: number) => void): Promise<
     fd.append("files", p.blob, p.name);
     xhr.open(item.method, item.url);
     xhr.setRequestHeader("Idempotency-Key", item.id);
+    xhr.setRequestHeader(DEVICE_TIME_HEADER, deviceNow());
     xhr.responseType = "json";
     xhr.upload.addEventListener("progress", (e) => e.lengthComputable && onProgress?.(e.loaded / e.total));
     xhr.addEventListener("load", () => {

@@ -1,6 +1,7 @@
 import { Link, useParams } from "react-router";
 import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
+import { clockNote } from "../../../domain/device-clock";
 import { can } from "../../../domain/permissions";
 import { useSession } from "../../../features/auth/api";
 import { useRtsBoard } from "../../../features/return-to-service/api";
@@ -84,6 +85,12 @@ export default function BoardReturnToServicePage() {
               {when(e.at)} — {e.title}
               {e.by ? ` (${e.by})` : ""}
               {e.detail ? ` · ${e.detail}` : ""}
+              {clockNote(e, when) && (
+                <span className="text-brass-300" data-testid="clock-note">
+                  {" "}
+                  · ⏱ {clockNote(e, when)}
+                </span>
+              )}
               {e.defectId && (
                 <>
                   {" "}
