@@ -27,11 +27,23 @@ export function keptQueryKeys(page: Page): Promise<string[]> {
 }
 
 /**
- * Waits until the phone has written each read (a query key starting with each given prefix) to its
+ * Waits until every read the open page uses is written on the phone: the sync bar says "kept for no
+ * signal" (src/app/persist.ts `keptState`: nothing being read, nothing read but not yet written).
+ */
+export async function expectPageKept(page: Page) {
+  await expect(page.getByTestId("kept-state"), "every read of this page kept on the phone").toHaveAttribute(
+    "data-keeping",
+    "0",
+  );
+}
+
+/**
+ * Waits until the open page's reads are all written (expectPageKept) and the phone has written each read (a query key starting with each given prefix) to its
  * kept reads. The write is throttled to once a second, so a test that leaves a page (or goes
  * offline) at once would otherwise race it; a person on a phone keeps the page open longer than that.
  */
 export async function expectKept(page: Page, ...prefixes: unknown[][]) {
+  await expectPageKept(page);
   const wanted = prefixes.map((p) => JSON.stringify(p).slice(0, -1));
   await expect
     .poll(

@@ -12,7 +12,8 @@
  */
 import { createAsyncStoragePersister } from "@tanstack/query-async-storage-persister";
 import type { PersistedClient, Persister } from "@tanstack/react-query-persist-client";
-import type { Query } from "@tanstack/react-query";
+import type { Query, QueryClient } from "@tanstack/react-query";
+import { useSyncExternalStore } from "react";
 import { createStore, del, get, set } from "idb-keyval";
 
 export const MAX_AGE_MS = 3 * 24 * 3600_000;
@@ -45,25 +46,58 @@ function asKept(q: Dehydrated): Dehydrated {
   };
 }
 
-/** Newest queries first until MAX_BYTES: a 500-position board fits many times over (DEVELOPERS.md). */
-export function boundedSerialize(client: PersistedClient): string {
+/**
+ * What one write put on the phone: each read's hash with the time of the data written
+ * (`dataUpdatedAt`), and the reads left out because the bound was reached.
+ */
+export interface KeptIndex {
+  kept: Map<string, number>;
+  tooLarge: Map<string, number>;
+}
+const emptyIndex = (): KeptIndex => ({ kept: new Map(), tooLarge: new Map() });
+
+/** Newest queries first until MAX_BYTES; what does not fit is left out (and counted as too large). */
+export function serializeBounded(client: PersistedClient): { text: string; index: KeptIndex } {
   const queries = [...client.clientState.queries].sort((a, b) => b.state.dataUpdatedAt - a.state.dataUpdatedAt);
   const kept: Dehydrated[] = [];
+  const index = emptyIndex();
   let bytes = 200;
   for (const q of queries) {
     const k = asKept(q);
     const size = JSON.stringify(k).length;
-    if (bytes + size > MAX_BYTES) continue;
+    if (bytes + size > MAX_BYTES) {
+      index.tooLarge.set(q.queryHash, q.state.dataUpdatedAt);
+      continue;
+    }
     bytes += size;
     kept.push(k);
+    index.kept.set(q.queryHash, q.state.dataUpdatedAt);
   }
-  return JSON.stringify({ ...client, clientState: { ...client.clientState, queries: kept, mutations: [] } });
+  const text = JSON.stringify({ ...client, clientState: { ...client.clientState, queries: kept, mutations: [] } });
+  return { text, index };
+}
+
+/** The stored text of the kept reads: a 500-position board fits many times over (DEVELOPERS.md). */
+export const boundedSerialize = (client: PersistedClient): string => serializeBounded(client).text;
+
+// ---- what is on the phone now (written, not just handed to the writer) ----
+let committed: KeptIndex = emptyIndex();
+/** The text handed to storage last and its index: committed once IndexedDB has it. */
+let handedOver: { text: string; index: KeptIndex } | null = null;
+const keptListeners = new Set<() => void>();
+function commit(index: KeptIndex) {
+  committed = index;
+  for (const l of keptListeners) l();
 }
 
 const storage = idb
   ? {
       getItem: (k: string) => get<string>(k, idb).then((v) => v ?? null),
-      setItem: (k: string, v: string) => set(k, v, idb),
+      setItem: async (k: string, v: string) => {
+        const index = handedOver?.text === v ? handedOver.index : null;
+        await set(k, v, idb);
+        if (index) commit(index);
+      },
       removeItem: (k: string) => del(k, idb),
     }
   : null;
@@ -80,7 +114,8 @@ const throttled = createAsyncStoragePersister({
   throttleTime: 1000,
   serialize: (client) => {
     writtenSeq = Math.max(writtenSeq, seqOf.get(client) ?? 0);
-    return boundedSerialize(client);
+    handedOver = serializeBounded(client);
+    return handedOver.text;
   },
 });
 
@@ -90,10 +125,20 @@ export const persister: Persister = {
     latest = client;
     return throttled.persistClient(client);
   },
-  restoreClient: () => throttled.restoreClient(),
+  restoreClient: async () => {
+    const c = await throttled.restoreClient();
+    if (c) {
+      const index = emptyIndex();
+      for (const q of c.clientState.queries) index.kept.set(q.queryHash, q.state.dataUpdatedAt);
+      commit(index);
+    }
+    return c;
+  },
   removeClient: async () => {
     latest = null;
+    handedOver = null;
     await throttled.removeClient();
+    commit(emptyIndex());
   },
 };
 
@@ -102,7 +147,62 @@ export async function flushPersistedReads(): Promise<void> {
   const client = latest;
   if (!client || !storage || (seqOf.get(client) ?? 0) <= writtenSeq) return;
   writtenSeq = seqOf.get(client)!;
-  await storage.setItem(CACHE_KEY, boundedSerialize(client));
+  handedOver = serializeBounded(client);
+  await storage.setItem(CACHE_KEY, handedOver.text);
+}
+
+/**
+ * The reads the open page uses that are not on the phone yet (`keeping`: being read, or read but
+ * not written — the write is throttled to once a second), and those left out because the bound was
+ * reached (`tooLarge`). A person about to go below decks waits for `keeping` to reach 0; the sync
+ * bar says it, and e2e tests wait on it (`expectPageKept`).
+ */
+export function keptState(qc: QueryClient): KeptState {
+  let keeping = 0;
+  let tooLarge = 0;
+  let kept = 0;
+  for (const q of qc.getQueryCache().getAll()) {
+    if (!KEPT_ROOTS.has(String(q.queryKey[0])) || !q.getObserversCount()) continue;
+    if (q.state.data === undefined) {
+      if (q.state.fetchStatus === "fetching") keeping += 1;
+      continue;
+    }
+    if (committed.kept.get(q.queryHash) === q.state.dataUpdatedAt) kept += 1;
+    else if (committed.tooLarge.get(q.queryHash) === q.state.dataUpdatedAt) tooLarge += 1;
+    else keeping += 1;
+  }
+  return { keeping, tooLarge, kept };
+}
+
+/** Told when a write reaches IndexedDB (with the query cache's own events, `keptState` is current). */
+export function subscribeKept(l: () => void): () => void {
+  keptListeners.add(l);
+  return () => void keptListeners.delete(l);
+}
+
+export interface KeptState {
+  keeping: number;
+  tooLarge: number;
+  kept: number;
+}
+/** `keptState` for React: follows the query cache and each write to IndexedDB. */
+export function useKeptState(qc: QueryClient): KeptState {
+  const key = useSyncExternalStore(
+    (l) => {
+      const stopCache = qc.getQueryCache().subscribe(l);
+      const stopKept = subscribeKept(l);
+      return () => {
+        stopCache();
+        stopKept();
+      };
+    },
+    () => {
+      const k = keptState(qc);
+      return `${k.keeping}:${k.tooLarge}:${k.kept}`;
+    },
+  );
+  const [keeping, tooLarge, kept] = key.split(":").map(Number);
+  return { keeping, tooLarge, kept };
 }
 
 /** Sign-out: nothing of this person's reads stays on the phone. */

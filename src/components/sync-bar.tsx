@@ -135,7 +135,7 @@ function Refused({ item }: { item: OutboxItem }) {
  * wait on this phone, the last sync, "Sync now", a progress bar while photos upload, and the
  * changes the server refused or that meet a newer record, until the person deals with each.
  */
-export function SyncBar() {
+export function SyncBar({ kept }: { kept?: { keeping: number; tooLarge: number; kept: number } }) {
   const o = useOutbox();
   const lastRead = useLastRead();
   const failed = useFailedRefresh();
@@ -179,6 +179,15 @@ export function SyncBar() {
             >
               Try again
             </button>
+          </span>
+        )}
+        {o.online && kept && kept.keeping + kept.kept + kept.tooLarge > 0 && (
+          <span data-testid="kept-state" data-keeping={kept.keeping} className="text-fog">
+            {kept.keeping > 0
+              ? "keeping this page for no signal…"
+              : kept.tooLarge > 0
+                ? `${kept.tooLarge} read${kept.tooLarge === 1 ? "" : "s"} too large to keep for no signal`
+                : "✓ kept for no signal"}
           </span>
         )}
         <span data-testid="waiting-count" className={waiting.length ? "text-tide-300" : "text-fog"}>

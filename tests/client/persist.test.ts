@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import type { PersistedClient } from "@tanstack/react-query-persist-client";
-import { MAX_BYTES, boundedSerialize, shouldKeepQuery } from "../../src/app/persist";
+import { MAX_BYTES, boundedSerialize, serializeBounded, shouldKeepQuery } from "../../src/app/persist";
 
 type Q = PersistedClient["clientState"]["queries"][number];
 const query = (key: unknown[], state: Partial<Q["state"]>): Q =>
@@ -64,5 +64,15 @@ describe("the reads kept on the phone (src/app/persist.ts)", () => {
     expect(text.length).toBeLessThanOrEqual(MAX_BYTES);
     const keys = (JSON.parse(text) as PersistedClient).clientState.queries.map((q) => q.queryKey[3] ?? q.queryKey[1]);
     expect(keys).toEqual(["new", "session"]);
+  });
+
+  it('says which reads one write kept and which the bound left out (the sync bar\'s "kept for no signal")', () => {
+    const big = "x".repeat(Math.floor(MAX_BYTES * 0.6));
+    const older = query(["inventory", "s", "board", "old"], { data: big, dataUpdatedAt: 1 });
+    const newer = query(["inventory", "s", "board", "new"], { data: big, dataUpdatedAt: 2 });
+    const { text, index } = serializeBounded(client([older, newer]));
+    expect(text).toBe(boundedSerialize(client([older, newer])));
+    expect([...index.kept]).toEqual([[newer.queryHash, 2]]);
+    expect([...index.tooLarge]).toEqual([[older.queryHash, 1]]);
   });
 });

@@ -2,7 +2,8 @@ import { useEffect, useState } from "react";
 import { Link, Navigate, Outlet, useLocation, useNavigate } from "react-router";
 import { SyncBar } from "../../components/sync-bar";
 import { setOutboxUser, useOutbox } from "../../lib/outbox";
-import { forgetPersistedReads } from "../persist";
+import { useQueryClient } from "@tanstack/react-query";
+import { forgetPersistedReads, useKeptState } from "../persist";
 import { Wordmark } from "../../components/wordmark";
 import { ErrorPanel, Loading, serverRefused } from "../../components/status";
 import { paths } from "../../config/paths";
@@ -16,6 +17,7 @@ export default function AppLayout() {
   const location = useLocation();
   const navigate = useNavigate();
   const outbox = useOutbox();
+  const kept = useKeptState(useQueryClient());
   const [confirming, setConfirming] = useState(false);
   const userId = session.data?.user.id ?? null;
   useEffect(() => setOutboxUser(userId), [userId]);
@@ -89,7 +91,7 @@ export default function AppLayout() {
           </div>
         </div>
       )}
-      <SyncBar />
+      <SyncBar kept={kept} />
       <NoticeStrip filesHref={paths.reports.href} />
       <Outlet />
     </div>
