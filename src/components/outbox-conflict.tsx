@@ -1,6 +1,6 @@
 import { useState } from "react";
 import { discard, resend, type OutboxItem } from "../lib/outbox";
-import { fieldLabel } from "../schemas/field-labels";
+import { fieldLabel, valueWords } from "../schemas/field-labels";
 
 type Primitive = string | number | boolean | null;
 /** The plain fields of a body or record (lists and nested objects are not compared here). */
@@ -10,8 +10,19 @@ export const primitives = (o: unknown): Record<string, Primitive> =>
       ([, v]) => v === null || ["string", "number", "boolean"].includes(typeof v),
     ),
   ) as Record<string, Primitive>;
-const shown = (v: Primitive | undefined) =>
-  v === undefined ? "—" : v === null || v === "" ? "(empty)" : typeof v === "boolean" ? (v ? "yes" : "no") : String(v);
+/** A value as the person's form said it: the enum's words (valueWords), yes/no, "(empty)". */
+const shown = (kind: string, key: string, v: Primitive | undefined) =>
+  v === undefined
+    ? "—"
+    : v === null || v === ""
+      ? "(empty)"
+      : typeof v === "boolean"
+        ? v
+          ? "yes"
+          : "no"
+        : typeof v === "string"
+          ? valueWords(kind, key, v)
+          : String(v);
 
 const NOT_COMPARED = ["id", "siteId", "positionId", "createdAt", "updatedAt", "version"];
 
@@ -71,7 +82,7 @@ export function Conflict({ item }: { item: OutboxItem }) {
                 <th scope="row" className="pr-2 font-normal text-mist">
                   {label}
                 </th>
-                <td className="pr-2 font-mono">
+                <td className="pr-2">
                   {perField ? (
                     <label className="inline-flex min-h-11 items-center gap-1">
                       <input
@@ -81,13 +92,13 @@ export function Conflict({ item }: { item: OutboxItem }) {
                         onChange={() => setPick({ ...pick, [k]: "mine" })}
                         aria-label={`${label}: keep yours`}
                       />
-                      {shown(mine[k])}
+                      {shown(item.kind, k, mine[k])}
                     </label>
                   ) : (
-                    shown(mine[k])
+                    shown(item.kind, k, mine[k])
                   )}
                 </td>
-                <td className="font-mono">
+                <td>
                   {perField ? (
                     <label className="inline-flex min-h-11 items-center gap-1">
                       <input
@@ -97,10 +108,10 @@ export function Conflict({ item }: { item: OutboxItem }) {
                         onChange={() => setPick({ ...pick, [k]: "theirs" })}
                         aria-label={`${label}: keep the server's`}
                       />
-                      {shown(theirOf(k))}
+                      {shown(item.kind, compareAs[k] ?? k, theirOf(k))}
                     </label>
                   ) : (
-                    shown(theirOf(k))
+                    shown(item.kind, compareAs[k] ?? k, theirOf(k))
                   )}
                 </td>
               </tr>

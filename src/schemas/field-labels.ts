@@ -6,6 +6,20 @@
  * import them (the defect's edit panel does).
  */
 
+import {
+  CONTAMINANT_LABELS,
+  CUSTODY_LABELS as CUSTODY_STATE_WORDS,
+  DEFECT_CATEGORY_LABELS,
+  DEFECT_SEVERITY_LABELS,
+  DEFECT_STATUS_LABELS,
+  INSULATION_STATE_LABELS,
+  MECHANISM_LABELS,
+} from "../domain/vocab";
+import { TRIP_UNIT_LABELS } from "../domain/trip-test";
+import { PARTS_STATE_LABELS } from "./defects";
+import { CONDUCTOR_LABELS, QUALIFIER_LABELS, TRIP_TEST_LABELS } from "./readings";
+import { LAMP_LOOK_LABELS } from "./return-to-service";
+
 export type FieldLabels = Readonly<Record<string, string>>;
 
 export const DEFECT_FIELD_LABELS = {
@@ -162,3 +176,40 @@ export function fieldLabel(kind: string, key: string): string {
     .toLowerCase();
   return words.charAt(0).toUpperCase() + words.slice(1);
 }
+
+/**
+ * The words for a stored value, per field of the records the phone sends: the same labels the
+ * forms show (`none_needed` → "No parts needed"), so a conflict or a refused item reads as the form
+ * did. Keyed by the field; `kind`-specific maps first (a watch check's `lamps` differs from a
+ * ground check's).
+ */
+const VALUE_WORDS: Readonly<Record<string, Readonly<Record<string, string>>>> = {
+  severity: DEFECT_SEVERITY_LABELS,
+  status: DEFECT_STATUS_LABELS,
+  to: DEFECT_STATUS_LABELS,
+  category: DEFECT_CATEGORY_LABELS,
+  partsState: PARTS_STATE_LABELS,
+  toState: CUSTODY_STATE_WORDS,
+  custody: CUSTODY_STATE_WORDS,
+  mechanism: MECHANISM_LABELS,
+  insulation: INSULATION_STATE_LABELS,
+  contaminants: CONTAMINANT_LABELS,
+  conductors: CONDUCTOR_LABELS,
+  megohmsQualifier: QUALIFIER_LABELS,
+  r30sQualifier: QUALIFIER_LABELS,
+  r1minQualifier: QUALIFIER_LABELS,
+  r10minQualifier: QUALIFIER_LABELS,
+  test: TRIP_TEST_LABELS,
+  tripUnit: TRIP_UNIT_LABELS,
+  action: { opened: "Opened", closed: "Closed" },
+};
+const VALUE_WORDS_BY_KIND: Readonly<Record<string, Readonly<Record<string, Readonly<Record<string, string>>>>>> = {
+  watch_check: { lamps: LAMP_LOOK_LABELS },
+};
+
+/** The words for a field's value kind by kind; a value no map knows is shown as it is. */
+export function valueWords(kind: string, key: string, value: string): string {
+  return VALUE_WORDS_BY_KIND[kind]?.[key]?.[value] ?? VALUE_WORDS[key]?.[value] ?? value;
+}
+/** The maps `valueWords` reads, for the test that every enum value of a queued body has words. */
+export const VALUE_WORD_MAPS = { VALUE_WORDS, VALUE_WORDS_BY_KIND };
