@@ -107,6 +107,13 @@ test.describe("with no signal, on a 360 px phone", () => {
     await expect(page.getByTestId("photo-pending")).toContainText("bagged-offline.jpg");
     await expect(page.getByTestId("waiting-count")).toHaveText("5 waiting to send");
     await page.screenshot({ path: ".data/test-results/offline-pending.png" });
+    // Signing out with changes waiting asks first; the person stays.
+    await page.getByRole("button", { name: "Sign out" }).click();
+    await expect(page.getByRole("alertdialog")).toContainText(
+      "5 changes on this phone have not reached the server yet",
+    );
+    await page.getByRole("button", { name: "Stay signed in" }).click();
+    await expect(page.getByRole("alertdialog")).toHaveCount(0);
     await expectNoSeriousA11yViolations(page, "quick log offline with changes waiting");
 
     // Closing the page mid-queue loses nothing: a new page (still offline) shows the same five.
@@ -457,6 +464,11 @@ test.describe("editing a defect with no signal, on a 360 px phone", () => {
     await page.getByRole("button", { name: "Save" }).click();
     await expect(page.getByTestId("edit-pending")).toContainText("Edit kept on this phone");
     await expect(page.getByTestId("waiting-count")).toHaveText("1 waiting to send");
+    // The page shows the person's value, marked as waiting, not the server's older one.
+    await expect(page.getByRole("heading", { name: `Lug scorched and cracked ${m.designation}` })).toBeVisible();
+    await expect(page.getByRole("heading", { level: 1 }).getByTestId("pending-mark")).toHaveText("◷ waiting to send");
+    await expect(page.getByTestId("defect-pending-banner")).toContainText("not on the server yet");
+    await page.screenshot({ path: ".data/test-results/offline-edit-pending.png" });
 
     // Meanwhile the curator, with signal, raises its severity.
     const curator = await apiAs(baseURL!, "curator");
@@ -475,7 +487,11 @@ test.describe("editing a defect with no signal, on a 360 px phone", () => {
     const item = page.getByTestId("outbox-conflict");
     await expect(item.getByTestId("conflict-title")).toContainText("What is wrong");
     await expect(item.getByTestId("conflict-title")).toContainText(`Lug scorched and cracked ${m.designation}`);
-    await expect(item.getByTestId("conflict-severity")).toContainText("disabling");
+    // Values read as the form says them, not as stored.
+    await expect(item.getByTestId("conflict-severity")).toContainText("3 · Impaired");
+    await expect(item.getByTestId("conflict-severity")).toContainText("4 · Disabling");
+    await expect(item.getByTestId("conflict-partsState")).toContainText("No parts needed");
+    await expect(item).not.toContainText("none_needed");
     await expect(item).not.toContainText("blocksEnergisation");
     await page.screenshot({ path: ".data/test-results/offline-edit-conflict.png" });
     await item.getByLabel("Severity: keep the server's").check();
@@ -487,6 +503,9 @@ test.describe("editing a defect with no signal, on a 360 px phone", () => {
       defect: { title: string; severity: string };
     };
     expect(after.defect).toMatchObject({ title: `Lug scorched and cracked ${m.designation}`, severity: "disabling" });
+    // Sent: the page shows the server's record again, nothing marked as waiting.
+    await expect(page.getByTestId("defect-pending-banner")).toHaveCount(0);
+    await expect(page.getByTestId("pending-mark")).toHaveCount(0);
     await vol.dispose();
     await curator.dispose();
   });

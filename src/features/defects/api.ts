@@ -1,7 +1,7 @@
 import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { z } from "zod";
 import { api, ApiError, qs } from "../../lib/api-client";
-import { submitOrQueue } from "../../lib/outbox";
+import { submitOrQueue, useOutbox } from "../../lib/outbox";
 import {
   contextResponse,
   defectDetailSchema,
@@ -182,3 +182,26 @@ export const findByRef = (siteId: string, ref: string) =>
     .then((d) => d.rows.find((r) => `D-${r.ref}` === ref.toUpperCase().replace(/^D?-?/, "D-")) ?? null);
 
 export const csvHref = (siteId: string, query: string) => `${base(siteId)}.csv?${query}`;
+
+/**
+ * This defect's edits and status moves still waiting on the phone (issue 16), merged in the order
+ * they were made: the page shows these values, marked as waiting, instead of the server's older ones
+ * until they are sent. `fields` holds the record's fields they change (a move's `to` is `status`, its
+ * reason `statusReason`); the version they were based on is not among them.
+ */
+export function usePendingDefect(siteId: string, id: string): { fields: Record<string, unknown>; count: number } {
+  const { items } = useOutbox();
+  const url = `${base(siteId)}/${id}`;
+  const mine = items.filter((i) => i.state === "waiting" && (i.url === url || i.url === `${url}/status`));
+  const fields: Record<string, unknown> = {};
+  for (const i of mine) {
+    const b = (i.body ?? {}) as Record<string, unknown>;
+    if (i.url === url) {
+      for (const [k, v] of Object.entries(b)) if (k !== "version") fields[k] = v;
+    } else {
+      fields.status = b.to;
+      fields.statusReason = b.reason ?? "";
+    }
+  }
+  return { fields, count: mine.length };
+}

@@ -9,8 +9,8 @@ import {
   HERITAGE_LABELS,
   type Heritage,
 } from "../../../domain/vocab";
-import { PARTS_STATE_LABELS } from "../../../schemas/defects";
-import { useDefect, useDefectOptions, useRefreshEvidence } from "../../../features/defects/api";
+import { PARTS_STATE_LABELS, type DefectDetail } from "../../../schemas/defects";
+import { useDefect, useDefectOptions, usePendingDefect, useRefreshEvidence } from "../../../features/defects/api";
 import { useSession } from "../../../features/auth/api";
 import { FlagMarks, SeverityBadge, StatusBadge } from "../../../features/defects/components/badges";
 import { DefectHistory } from "../../../features/defects/components/defect-history";
@@ -31,6 +31,7 @@ export default function DefectPage() {
   const manage = can(role, "defects.manage");
   const me = useSession().data?.user.id;
   const refreshEvidence = useRefreshEvidence(site.id, defectId);
+  const pending = usePendingDefect(site.id, defectId);
   if (q.isPending) return <Loading what="Opening the defect" />;
   if (q.isLoadingError || serverRefused(q.error))
     return (
@@ -39,18 +40,46 @@ export default function DefectPage() {
       </ErrorPanel>
     );
   const detail = q.data;
-  const d = detail.defect;
+  // Edits and moves still on this phone are shown in place of the server's values, each marked (issue 16).
+  const d = { ...detail.defect, ...pending.fields } as DefectDetail["defect"];
+  const differs = (...keys: Array<keyof DefectDetail["defect"]>) =>
+    keys.some((k) => k in pending.fields && pending.fields[k] !== detail.defect[k]);
+  const mark = (...keys: Array<keyof DefectDetail["defect"]>) => (differs(...keys) ? <Waiting /> : null);
   const facts: Array<[string, React.ReactNode]> = [
     ["Board", d.boardName],
     ["Section", d.sectionName ?? "—"],
     ["Position", <span className="font-mono">{d.designation ?? "—"}</span>],
     ["Category", DEFECT_CATEGORY_LABELS[d.category]],
     ["Component", detail.heritage ? HERITAGE_LABELS[detail.heritage as Heritage] : "—"],
-    ["Effort", d.effortHours === null ? "Not estimated" : `${d.effortHours} h`],
-    ["Cost", <Money value={d.costEstimate} />],
-    ["Parts", `${PARTS_STATE_LABELS[d.partsState]}${d.partsNeeded ? `: ${d.partsNeeded}` : ""}`],
+    [
+      "Effort",
+      <>
+        {d.effortHours === null ? "Not estimated" : `${d.effortHours} h`}
+        {mark("effortHours")}
+      </>,
+    ],
+    [
+      "Cost",
+      <>
+        <Money value={d.costEstimate} />
+        {mark("costEstimate")}
+      </>,
+    ],
+    [
+      "Parts",
+      <>
+        {`${PARTS_STATE_LABELS[d.partsState]}${d.partsNeeded ? `: ${d.partsNeeded}` : ""}`}
+        {mark("partsState", "partsNeeded")}
+      </>,
+    ],
     ["Assignee", d.assigneeName ?? "Nobody"],
-    ["Due", d.dueOn ?? "—"],
+    [
+      "Due",
+      <>
+        {d.dueOn ?? "—"}
+        {mark("dueOn")}
+      </>,
+    ],
     ["Raised by", detail.defect.createdByName ?? "—"],
     ["Repaired by", detail.defect.repairedByName ?? "—"],
     ["Verified by", detail.defect.verifiedByName ?? "—"],
@@ -64,18 +93,41 @@ export default function DefectPage() {
       </p>
       <header>
         <p className="font-mono text-brass-300">D-{d.ref}</p>
-        <h1 className="text-2xl font-bold">{d.title}</h1>
+        {pending.count > 0 && (
+          <p
+            role="status"
+            className="my-2 rounded-md border-2 border-tide-300 bg-hull-850 p-2 text-sm text-tide-300"
+            data-testid="defect-pending-banner"
+          >
+            {pending.count === 1 ? "A change" : `${pending.count} changes`} of yours{" "}
+            {pending.count === 1 ? "is" : "are"} on this phone, not on the server yet: what it changes is shown marked ◷
+            and is sent when the signal returns.
+          </p>
+        )}
+        <h1 className="text-2xl font-bold">
+          {d.title}
+          {mark("title")}
+        </h1>
         <div className="mt-2 flex flex-wrap items-center gap-2">
           <StatusBadge status={d.status} />
+          {mark("status")}
           <SeverityBadge severity={d.severity} />
+          {mark("severity")}
           <FlagMarks safety={d.safetyCritical} blocking={d.blocksEnergisation} />
+          {mark("safetyCritical", "blocksEnergisation")}
         </div>
         <p className="mt-1 text-sm text-mist">{DEFECT_SEVERITY_DEFINITIONS[d.severity]}</p>
         {d.statusReason && <p className="mt-1">Reason: {d.statusReason}</p>}
-        {d.description && <p className="mt-2 max-w-3xl whitespace-pre-line">{d.description}</p>}
+        {d.description && (
+          <p className="mt-2 max-w-3xl whitespace-pre-line">
+            {d.description}
+            {mark("description")}
+          </p>
+        )}
       </header>
       {d.safetyCritical && <SafetyNotice compact />}
-      <EditPanel siteId={site.id} detail={detail} canManage={manage} />
+      {/* The form opens with the values waiting on the phone, so a second edit builds on the first. */}
+      <EditPanel siteId={site.id} detail={{ ...detail, defect: d }} canManage={manage} />
       <div className="grid gap-4 lg:grid-cols-2">
         <section aria-labelledby="facts-title" className="rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
           <h2 id="facts-title" className="text-lg font-bold">
@@ -126,5 +178,14 @@ export default function DefectPage() {
       />
       <DefectHistory detail={detail} />
     </div>
+  );
+}
+
+/** Beside a value that is this phone's, not yet the server's. */
+function Waiting() {
+  return (
+    <span className="ml-2 whitespace-nowrap text-sm font-semibold text-tide-300" data-testid="pending-mark">
+      ◷ waiting to send
+    </span>
   );
 }
