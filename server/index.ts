@@ -67,13 +67,6 @@ export async function serve(opts: {
     await mail.stop();
     throw e;
   });
-  // An idle keep-alive connection is closed by the server after KEEP_ALIVE_TIMEOUT_MS (Node's default is 5 s). A
-  // client that keeps its idle connections longer (Node's keep-alive agents ignore the server's hint unless given
-  // a timeout; a proxy in front keeps them about 60 s) can send its next request on the connection just as the
-  // server closes it, and gets ECONNRESET (seen in e2e: Playwright's API client, on a loaded machine). So the
-  // server keeps them longer than such a client waits between requests; the headers' limit stays above it.
-  server.keepAliveTimeout = Number(process.env.KEEP_ALIVE_TIMEOUT_MS ?? 65_000);
-  server.headersTimeout = server.keepAliveTimeout + 1_000;
   let stopping: Promise<void> | undefined;
   return {
     server,
