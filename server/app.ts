@@ -6,7 +6,7 @@ import express, { Router } from "express";
 import { createLucia } from "./auth/lucia";
 import { authRoutes } from "./auth/routes";
 import { createLimiters } from "./auth/throttle";
-import type { Db } from "./db";
+import { probeDbFor, type Db } from "./db";
 import { AppError } from "./errors";
 import { databaseState, readinessCheck } from "./health";
 import { log as rootLog, type Logger } from "./log";
@@ -104,14 +104,17 @@ export function createApp(deps: AppDeps) {
 
   // Probes come from load balancers that address the instance by its own IP, so they are
   // answered before the host allow-list. They say nothing a caller could use.
+  // The probes ask the database on a connection of their own (probeDbFor): under load every
+  // connection of the app's pool is busy, and a probe queued behind the work measured the queue.
+  const probeDb = probeDbFor(db);
   const ready = readinessCheck({
-    db,
+    db: probeDb,
     storage: photoStorage,
     jobs: deps.jobs,
     draining: () => app.locals.draining === true,
   });
   app.get("/api/health", async (_req, res) => {
-    const { db: state } = await databaseState(db);
+    const { db: state } = await databaseState(probeDb);
     res.status(state === "up" ? 200 : 503).json({ ok: state === "up", db: state });
   });
   app.get("/api/health/live", (_req, res) => {

@@ -74,7 +74,53 @@ export function createDb(connectionString: string, options: number | DbOptions =
   pool.on("error", () => {});
   const db = new Kysely<Database>({ dialect: new PostgresDialect({ pool }), plugins: [new CamelCasePlugin()] });
   pools.set(db, pool);
+  // The health probe's own connection (probeDbFor) is closed with this pool.
+  const end = pool.end.bind(pool);
+  pool.end = (async () => {
+    const probe = probes.get(db);
+    probes.delete(db);
+    await probe?.destroy().catch(() => {});
+    return end();
+  }) as typeof pool.end;
   return db;
+}
+
+const probes = new WeakMap<Db, Db>();
+
+/**
+ * The health and readiness probes' own connection to the same database (a pool of one,
+ * `HEALTH_POOL_MAX`), so `/api/health` measures "does the database answer" and not "how long
+ * is the queue for the app's pool": under load every app connection is busy and a probe
+ * through that pool waited behind up to 40 statements (issue 15). Made on first use, closed
+ * when `db` is destroyed; the connection it holds is let go after 10 s idle. For a Db not made
+ * by createDb (a test's logging wrapper) the probe shares `db`.
+ */
+export function probeDbFor(db: Db): Db {
+  const pool = pools.get(db);
+  const url = (pool?.options as { connectionString?: string } | undefined)?.connectionString;
+  if (!pool || !url) return db;
+  let probe = probes.get(db);
+  if (!probe) {
+    const probePool = new pg.Pool({
+      connectionString: url,
+      max: envInt("HEALTH_POOL_MAX", 1),
+      connectionTimeoutMillis: 3000,
+      idleTimeoutMillis: 10_000,
+      allowExitOnIdle: true,
+      keepAlive: true,
+      application_name: "tideline-health",
+      statement_timeout: 3000,
+    });
+    // As the app's pool: a dropped backend fails the probe (→ "down"), never the process.
+    probePool.on("connect", (client) => client.on("error", () => {}));
+    probePool.on("error", () => {});
+    probe = new Kysely<Database>({
+      dialect: new PostgresDialect({ pool: probePool }),
+      plugins: [new CamelCasePlugin()],
+    });
+    probes.set(db, probe);
+  }
+  return probe;
 }
 
 /**

@@ -11,10 +11,12 @@
  * - Endpoints: each list and summary endpoint over HTTP (signed in, body read in full) against the
  *   same statements replayed with the bare pg driver (server/bench/replay.ts); per run the p50 of
  *   each, and their ratio; printed as median [min–max] over BENCH_RUNS runs (default 3).
- * - Load: BENCH_CLIENTS (default 10) clients on the register for BENCH_SECONDS each, with
- *   /api/health timed every 100 ms on its own connection and the server's event-loop delay
- *   (perf_hooks, preloaded by server/bench/probe.ts); then as many workers replaying the same
- *   statements on a pool of the server's size: requests/s ratio.
+ * - Load: `--clients=N` (BENCH_CLIENTS, default 50) clients on the register (default view, search,
+ *   deep page) for BENCH_SECONDS each, with /api/health timed every 50 ms on its own connection,
+ *   the server's event-loop delay read from its /api/metrics (prom-client's perf_hooks histogram),
+ *   an idle canary process's own delay (the machine's share), and the CPU the server and PostgreSQL
+ *   spent per request (/proc); then as many workers replaying the same statements on a pool of the
+ *   server's size: requests/s ratio (server/bench/load.ts).
  * - CSV export of every defect against `COPY (the same SELECT) TO STDOUT` through psql, with the
  *   server process's peak RSS growth (VmRSS from /proc, sampled every 10 ms).
  * - Page paint on a phone profile with a 4 × slower CPU (server/bench/paint.ts) against a static page.
@@ -29,7 +31,7 @@
  * A script, not a test: `npm test` never runs it.
  */
 import "../bench/quiet";
-import { spawn, spawnSync, type ChildProcess } from "node:child_process";
+import { spawn, spawnSync } from "node:child_process";
 import { randomBytes } from "node:crypto";
 import { readFileSync } from "node:fs";
 import type { AddressInfo } from "node:net";
@@ -46,6 +48,7 @@ import { createDb, MAINTENANCE_DB_OPTIONS } from "../db";
 import { CSV_COLUMNS } from "../defects/csv";
 import { applySort, registerBase } from "../defects/list-repository";
 import { measurePaint, openBrowser, STATIC_PAGE, writeStaticPage, type PaintFigures } from "../bench/paint";
+import { clusterCpu, cpuBetween, cpuSecondsOf, eventLoopDelay, parentOf, startCanary } from "../bench/load";
 import { capturingDb, planReplay, replay, type Replay } from "../bench/replay";
 import { BENCH_PASSWORD, describeSite, generateSite, type BenchSite } from "../bench/site";
 import { median, percentile, spread, table } from "../bench/stats";
@@ -63,7 +66,10 @@ const POSITIONS = arg("positions")
     : Number(process.env.BENCH_POSITIONS ?? 20_000);
 const RUNS = Number(process.env.BENCH_RUNS ?? 3);
 const N = Number(process.env.BENCH_N ?? 15);
-const CLIENTS = Number(process.env.BENCH_CLIENTS ?? 10);
+/** Concurrent clients of the load phase: `-- --clients=N`, else BENCH_CLIENTS, else 50 (the issue's figure). */
+const CLIENTS = arg("clients") ? Number(arg("clients")!.split("=")[1]) : Number(process.env.BENCH_CLIENTS ?? 50);
+/** The server process's metrics token: the load phase reads its event-loop delay from /api/metrics. */
+const METRICS_TOKEN = randomBytes(16).toString("hex");
 const SECONDS = Number(process.env.BENCH_SECONDS ?? 8);
 const POOL = Number(process.env.DATABASE_POOL_MAX ?? 10);
 const TODAY = "2027-02-01";
@@ -89,8 +95,6 @@ async function startServer(url: string) {
         : []),
       "--import",
       "tsx",
-      "--import",
-      "./server/bench/probe.ts",
       "server/index.ts",
     ],
     {
@@ -104,8 +108,9 @@ async function startServer(url: string) {
         SMTP_PORT: String(await freePort()),
         PHOTO_DIR: join(projectRoot, ".data", "photos-bench"),
         LOG_LEVEL: "warn",
+        METRICS_TOKEN,
       },
-      stdio: ["ignore", "pipe", "pipe", "ipc"],
+      stdio: ["ignore", "pipe", "pipe"],
     },
   );
   let out = "";
@@ -137,18 +142,6 @@ async function startServer(url: string) {
       await new Promise((r) => child.once("exit", r));
     },
   };
-}
-
-function ask<T>(child: ChildProcess, message: string, type: string): Promise<T> {
-  return new Promise((resolve) => {
-    const on = (m: unknown) => {
-      if ((m as { type?: string } | null)?.type !== type) return;
-      child.off("message", on);
-      resolve(m as T);
-    };
-    child.on("message", on);
-    child.send(message);
-  });
 }
 
 function rssOf(pid: number): number {
@@ -353,14 +346,39 @@ async function main() {
         ),
       );
 
-      // 2. Concurrency on the register, with /api/health and the event-loop delay.
-      const reg = list.filter((c) => c.group === "register");
-      const load = { rps: [] as number[], rawRps: [] as number[], errors: [] as number[], p95: [] as number[] };
-      const health = { p50: [] as number[], p95: [] as number[], max: [] as number[] };
-      const eld = { p99: [] as number[], max: [] as number[] };
-      for (let run = 0; run < RUNS; run++) {
+      // 2. Concurrency on the register (default view, search, deep page in turn), with /api/health timed
+      // throughout on a connection of its own, the server's event-loop delay from its own metrics, a canary's, and
+      // the CPU the server and PostgreSQL spent; then as many workers replaying the same statements raw on a pool
+      // of the server's size. The order of the two halves alternates run by run, so a change in the machine's
+      // load meets both.
+      const reg = list.filter((c) => /ranked \(default\)|search|by title/.test(c.label));
+      const pgPid = (await raw.query<{ pid: number }>("select pg_backend_pid() as pid")).rows[0].pid;
+      const postmaster = parentOf(pgPid);
+      const f2 = {
+        rps: [] as number[],
+        rawRps: [] as number[],
+        ratio: [] as number[],
+        errors: [] as number[],
+        p95: [] as number[],
+        rawP95: [] as number[],
+        hp50: [] as number[],
+        hp95: [] as number[],
+        hmax: [] as number[],
+        eldP99: [] as number[],
+        eldMax: [] as number[],
+        canaryP99: [] as number[],
+        canaryMax: [] as number[],
+        serverCpu: [] as number[],
+        pgCpuHttp: [] as number[],
+        pgCpuRaw: [] as number[],
+      };
+      const errorKinds = new Map<string, number>();
+      const httpHalf = async () => {
         const agents = Array.from({ length: CLIENTS }, () => new Agent({ keepAlive: true, maxSockets: 1 }));
-        await ask(child, "eld-reset", "eld-reset");
+        await eventLoopDelay(base, METRICS_TOKEN); // resets the server's histogram
+        const canary = startCanary();
+        const cpu0 = cpuSecondsOf(child.pid!);
+        const pg0 = clusterCpu(postmaster);
         const until = performance.now() + SECONDS * 1000;
         let done = 0;
         let errors = 0;
@@ -372,7 +390,7 @@ async function main() {
             const a = performance.now();
             await timedGet(base, "/api/health", null, healthAgent).catch(() => undefined);
             hl.push(performance.now() - a);
-            await new Promise((r) => setTimeout(r, 100));
+            await new Promise((r) => setTimeout(r, 50));
           }
         })();
         const t0 = performance.now();
@@ -382,118 +400,149 @@ async function main() {
               try {
                 lat.push((await timedGet(base, reg[i % reg.length].path, cookie, agents[k])).ms);
                 done++;
-              } catch {
+              } catch (e) {
                 errors++;
+                const kind = (e as Error).message.replace(/^\S+ /, "").slice(0, 60);
+                errorKinds.set(kind, (errorKinds.get(kind) ?? 0) + 1);
               }
             }
           }),
         );
         const secs = (performance.now() - t0) / 1000;
         await prober;
-        const e = await ask<{ p99: number; max: number }>(child, "eld-read", "eld");
+        const cpu = cpuSecondsOf(child.pid!) - cpu0;
+        const pgCpu = cpuBetween(pg0, clusterCpu(postmaster));
+        const e = await eventLoopDelay(base, METRICS_TOKEN);
+        const c = await canary.stop();
         for (const ag of agents) ag.destroy();
         healthAgent.destroy();
+        f2.rps.push(done / secs);
+        f2.errors.push(errors);
+        f2.p95.push(percentile(lat, 95));
+        f2.hp50.push(percentile(hl, 50));
+        f2.hp95.push(percentile(hl, 95));
+        f2.hmax.push(Math.max(...hl));
+        f2.eldP99.push(e.p99);
+        f2.eldMax.push(e.max);
+        f2.canaryP99.push(c.p99);
+        f2.canaryMax.push(c.max);
+        f2.serverCpu.push((cpu * 1000) / Math.max(1, done));
+        f2.pgCpuHttp.push((pgCpu * 1000) / Math.max(1, done));
+      };
+      const rawHalf = async () => {
         let rawDone = 0;
+        const rawLat: number[] = [];
+        const pg0 = clusterCpu(postmaster);
         const rawUntil = performance.now() + SECONDS * 1000;
         const r0 = performance.now();
         await Promise.all(
           Array.from({ length: CLIENTS }, async (_, k) => {
             for (let i = k; performance.now() < rawUntil; i++) {
+              const a = performance.now();
               await replay(raw, reg[i % reg.length].plan!);
+              rawLat.push(performance.now() - a);
               rawDone++;
             }
           }),
         );
-        const rawSecs = (performance.now() - r0) / 1000;
-        load.rps.push(done / secs);
-        load.rawRps.push(rawDone / rawSecs);
-        load.errors.push(errors);
-        load.p95.push(percentile(lat, 95));
-        health.p50.push(percentile(hl, 50));
-        health.p95.push(percentile(hl, 95));
-        health.max.push(Math.max(...hl));
-        eld.p99.push(e.p99);
-        eld.max.push(e.max);
+        f2.rawRps.push(rawDone / ((performance.now() - r0) / 1000));
+        f2.rawP95.push(percentile(rawLat, 95));
+        f2.pgCpuRaw.push((cpuBetween(pg0, clusterCpu(postmaster)) * 1000) / Math.max(1, rawDone));
+      };
+      for (let run = 0; run < RUNS; run++) {
+        if (run % 2 === 0) {
+          await httpHalf();
+          await rawHalf();
+        } else {
+          await rawHalf();
+          await httpHalf();
+        }
+        f2.ratio.push(f2.rps[run] / f2.rawRps[run]);
       }
       say(
-        `\n2. ${CLIENTS} clients on the register (the five cases above in turn) for ${SECONDS} s; raw = as many workers replaying the same statements on a pool of ${POOL}`,
+        `\n2. ${CLIENTS} clients on the register (${reg.map((c) => c.label.replace("register: ", "")).join(", ")} in turn) for ${SECONDS} s; raw = ${CLIENTS} workers replaying the same statements on a pool of ${POOL} (the server's DATABASE_POOL_MAX); median [min–max] over ${RUNS} runs`,
       );
       say(
         table(
           ["figure", "median [min–max]"],
           [
-            ["requests/s over HTTP", spread(load.rps)],
-            ["requests/s raw SQL", spread(load.rawRps)],
-            [
-              "ratio HTTP / raw",
-              spread(
-                load.rps.map((x, i) => x / load.rawRps[i]),
-                2,
-              ),
-            ],
-            ["errors", spread(load.errors, 0)],
-            ["register p95 ms", spread(load.p95)],
-            ["/api/health p50 ms", spread(health.p50)],
-            ["/api/health p95 ms", spread(health.p95)],
-            ["/api/health max ms", spread(health.max)],
-            ["event-loop delay p99 ms", spread(eld.p99)],
-            ["event-loop delay max ms", spread(eld.max)],
+            ["requests/s over HTTP", spread(f2.rps)],
+            ["requests/s raw SQL", spread(f2.rawRps)],
+            ["ratio HTTP / raw (target ≥ 0.8)", spread(f2.ratio, 2)],
+            ["errors (target 0)", spread(f2.errors, 0)],
+            ["register p95 ms (HTTP)", spread(f2.p95)],
+            ["register p95 ms (raw)", spread(f2.rawP95)],
+            ["/api/health p50 ms", spread(f2.hp50)],
+            ["/api/health p95 ms (target < 100)", spread(f2.hp95)],
+            ["/api/health max ms", spread(f2.hmax)],
+            ["server event-loop delay p99 ms", spread(f2.eldP99)],
+            ["server event-loop delay max ms (target ≤ 50)", spread(f2.eldMax)],
+            ["idle canary process's delay p99 ms", spread(f2.canaryP99)],
+            ["idle canary process's delay max ms", spread(f2.canaryMax)],
+            ["server CPU ms per request", spread(f2.serverCpu, 2)],
+            ["PostgreSQL CPU ms per request (HTTP)", spread(f2.pgCpuHttp, 2)],
+            ["PostgreSQL CPU ms per request (raw)", spread(f2.pgCpuRaw, 2)],
+          ],
+        ),
+      );
+      if (errorKinds.size) say(`  errors: ${[...errorKinds].map(([k, n]) => `${n} × ${k}`).join("; ")}`);
+    }
+    // BENCH_CSV=0 skips it.
+    if (process.env.BENCH_CSV !== "0") {
+      // 3. CSV export of every defect vs COPY of the same SELECT.
+      // The export's own columns and order: COPY writes the same rows the CSV holds (it once selected every
+      // register column, ids included: 30 MB against the export's 13).
+      const compiled = applySort(registerBase(setup, site.siteId).select(CSV_COLUMNS), "priority", "desc").compile();
+      const literal = (v: unknown) => `'${String(v).replace(/'/g, "''")}'`;
+      const copySql = `COPY (${compiled.sql.replace(/\$(\d+)/g, (_, n) => literal(compiled.parameters[Number(n) - 1]))}) TO STDOUT WITH (FORMAT csv, HEADER)`;
+      const csv = {
+        secs: [] as number[],
+        copy: [] as number[],
+        ratio: [] as number[],
+        mb: [] as number[],
+        rss: [] as number[],
+      };
+      for (let run = 0; run < RUNS; run++) {
+        const pid = child.pid!;
+        const rss0 = rssOf(pid);
+        let peak = rss0;
+        const sampler = setInterval(() => (peak = Math.max(peak, rssOf(pid))), 10);
+        const a = performance.now();
+        const res = await fetch(`${base}/api/sites/${site.siteId}/defects.csv?sort=priority`, { headers: { cookie } });
+        if (res.status !== 200) throw new Error(`the CSV export answered ${res.status}: ${await res.text()}`);
+        let bytes = 0;
+        for await (const chunk of res.body as unknown as AsyncIterable<Uint8Array>) bytes += chunk.length;
+        const secs = (performance.now() - a) / 1000;
+        clearInterval(sampler);
+        const b = performance.now();
+        const psql = spawnSync(join(pgBin(), "psql"), [url, "-X", "-q", "-c", copySql], {
+          maxBuffer: 1 << 30,
+          encoding: "buffer",
+        });
+        if (psql.status !== 0) throw new Error(`COPY failed: ${psql.stderr}`);
+        const copySecs = (performance.now() - b) / 1000;
+        csv.secs.push(secs);
+        csv.copy.push(copySecs);
+        csv.ratio.push(secs / copySecs);
+        csv.mb.push(bytes / 1e6);
+        csv.rss.push((peak - rss0) / 1e6);
+      }
+      say(
+        `\n3. CSV export of all ${defects.toLocaleString("en")} defects vs COPY (same SELECT) TO STDOUT through psql`,
+      );
+      say(
+        table(
+          ["figure", "median [min–max]"],
+          [
+            ["export s", spread(csv.secs, 2)],
+            ["COPY s", spread(csv.copy, 2)],
+            ["ratio export / COPY", spread(csv.ratio, 2)],
+            ["export MB", spread(csv.mb, 2)],
+            ["server peak RSS growth MB", spread(csv.rss)],
           ],
         ),
       );
     }
-    // 3. CSV export of every defect vs COPY of the same SELECT.
-    // The export's own columns and order: COPY writes the same rows the CSV holds (it once selected every
-    // register column, ids included: 30 MB against the export's 13).
-    const compiled = applySort(registerBase(setup, site.siteId).select(CSV_COLUMNS), "priority", "desc").compile();
-    const literal = (v: unknown) => `'${String(v).replace(/'/g, "''")}'`;
-    const copySql = `COPY (${compiled.sql.replace(/\$(\d+)/g, (_, n) => literal(compiled.parameters[Number(n) - 1]))}) TO STDOUT WITH (FORMAT csv, HEADER)`;
-    const csv = {
-      secs: [] as number[],
-      copy: [] as number[],
-      ratio: [] as number[],
-      mb: [] as number[],
-      rss: [] as number[],
-    };
-    for (let run = 0; run < RUNS; run++) {
-      const pid = child.pid!;
-      const rss0 = rssOf(pid);
-      let peak = rss0;
-      const sampler = setInterval(() => (peak = Math.max(peak, rssOf(pid))), 10);
-      const a = performance.now();
-      const res = await fetch(`${base}/api/sites/${site.siteId}/defects.csv?sort=priority`, { headers: { cookie } });
-      if (res.status !== 200) throw new Error(`the CSV export answered ${res.status}: ${await res.text()}`);
-      let bytes = 0;
-      for await (const chunk of res.body as unknown as AsyncIterable<Uint8Array>) bytes += chunk.length;
-      const secs = (performance.now() - a) / 1000;
-      clearInterval(sampler);
-      const b = performance.now();
-      const psql = spawnSync(join(pgBin(), "psql"), [url, "-X", "-q", "-c", copySql], {
-        maxBuffer: 1 << 30,
-        encoding: "buffer",
-      });
-      if (psql.status !== 0) throw new Error(`COPY failed: ${psql.stderr}`);
-      const copySecs = (performance.now() - b) / 1000;
-      csv.secs.push(secs);
-      csv.copy.push(copySecs);
-      csv.ratio.push(secs / copySecs);
-      csv.mb.push(bytes / 1e6);
-      csv.rss.push((peak - rss0) / 1e6);
-    }
-    say(`\n3. CSV export of all ${defects.toLocaleString("en")} defects vs COPY (same SELECT) TO STDOUT through psql`);
-    say(
-      table(
-        ["figure", "median [min–max]"],
-        [
-          ["export s", spread(csv.secs, 2)],
-          ["COPY s", spread(csv.copy, 2)],
-          ["ratio export / COPY", spread(csv.ratio, 2)],
-          ["export MB", spread(csv.mb, 2)],
-          ["server peak RSS growth MB", spread(csv.rss)],
-        ],
-      ),
-    );
-
     // 4. Page paint on a phone with a 4 × slower CPU.
     if (process.env.BENCH_PAINT !== "0") {
       const browser = await openBrowser();

@@ -9,6 +9,7 @@ import { request, type IncomingMessage } from "node:http";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { Writable } from "node:stream";
+import { sql } from "kysely";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createLogger, log, requestContext } from "../../server/log";
 import { LocalDiskStorage } from "../../server/photos/storage/local-disk";
@@ -134,6 +135,21 @@ describe("health probes", () => {
     );
     r.resume();
     expect(r.statusCode).toBe(200);
+  });
+
+  it("health and readiness answer on a connection of their own while every connection of the app's pool is busy (issue 15)", async () => {
+    // Twelve statements of 2 s on the app's pool of ten: all ten busy, two waiting.
+    const busy = Array.from({ length: 12 }, () => sql`select pg_sleep(2)`.execute(t.db));
+    await new Promise((r) => setTimeout(r, 300));
+    const a = performance.now();
+    const health = await fetch(`${server.base}/api/health`);
+    const ready = await fetch(`${server.base}/api/health/ready`);
+    const ms = performance.now() - a;
+    expect(await health.json()).toEqual({ ok: true, db: "up" });
+    expect(ready.status).toBe(200);
+    // Through the app's pool both would have waited behind the sleeps (2 s or more).
+    expect(ms).toBeLessThan(1500);
+    await Promise.all(busy);
   });
 
   it("when the photo store cannot be reached, ready says which part is down and answers 503; live stays 200", async () => {

@@ -1,0 +1,89 @@
+/**
+ * Measures for the bench's load phase (issue 15): the server's event-loop delay as the product
+ * itself exposes it (prom-client's `nodejs_eventloop_lag_*` on /api/metrics, a perf_hooks
+ * monitorEventLoopDelay histogram that prom-client resets at every scrape), a do-nothing "canary"
+ * process's own event-loop delay over the same seconds (what the machine's other load alone costs
+ * a Node process: on a shared 2-core machine a runnable process waits for a core, and that wait
+ * counts as event-loop delay too), and CPU time from /proc for the server and PostgreSQL.
+ */
+import { spawn } from "node:child_process";
+import { readdirSync, readFileSync } from "node:fs";
+
+/** CPU seconds (user + system) of one process, from /proc/<pid>/stat; NaN when it is gone. */
+export function cpuSecondsOf(pid: number): number {
+  try {
+    const stat = readFileSync(`/proc/${pid}/stat`, "utf8");
+    const f = stat.slice(stat.lastIndexOf(")") + 2).split(" ");
+    // fields 14 and 15 (utime, stime) of proc(5), counted from field 3 (state) here
+    return (Number(f[11]) + Number(f[12])) / 100; // USER_HZ is 100 on Linux
+  } catch {
+    return NaN;
+  }
+}
+
+/** The parent pid of a process (/proc/<pid>/stat field 4). */
+export function parentOf(pid: number): number {
+  const stat = readFileSync(`/proc/${pid}/stat`, "utf8");
+  return Number(stat.slice(stat.lastIndexOf(")") + 2).split(" ")[1]);
+}
+
+/** CPU seconds of each child of `postmaster` (the cluster's backends and helpers) running now, by pid. */
+export function clusterCpu(postmaster: number): Map<number, number> {
+  const out = new Map<number, number>();
+  for (const name of readdirSync("/proc")) {
+    if (!/^\d+$/.test(name)) continue;
+    const pid = Number(name);
+    try {
+      if (parentOf(pid) === postmaster) out.set(pid, cpuSecondsOf(pid) || 0);
+    } catch {
+      // gone between readdir and read
+    }
+  }
+  return out;
+}
+
+/**
+ * CPU seconds the cluster spent between two snapshots: the growth of every process alive at the
+ * end (a backend that started in between counts whole). A backend that ended in between is left
+ * out (its time is gone with it), so this is a lower bound when pools close idle connections.
+ */
+export function cpuBetween(before: Map<number, number>, after: Map<number, number>): number {
+  let sum = 0;
+  for (const [pid, s] of after) sum += s - (before.get(pid) ?? 0);
+  return sum;
+}
+
+/** Reads (and so resets) the server's event-loop delay figures from its /api/metrics. */
+export async function eventLoopDelay(base: string, token: string): Promise<{ p99: number; max: number }> {
+  const r = await fetch(`${base}/api/metrics`, { headers: { authorization: `Bearer ${token}` } });
+  if (!r.ok) throw new Error(`/api/metrics answered ${r.status}`);
+  const text = await r.text();
+  const read = (name: string) => {
+    const m = new RegExp(`^tideline_nodejs_eventloop_lag_${name}_seconds(?:\\{[^}]*\\})? ([0-9.eE+-]+)$`, "m").exec(
+      text,
+    );
+    return m ? Number(m[1]) * 1000 : NaN;
+  };
+  return { p99: read("p99"), max: read("max") };
+}
+
+/** A Node process that does nothing but measure its own event-loop delay until stopped. */
+export function startCanary() {
+  const child = spawn(
+    process.execPath,
+    [
+      "-e",
+      `const h = require("node:perf_hooks").monitorEventLoopDelay({ resolution: 10 }); h.enable();
+       setInterval(() => {}, 1000);
+       process.on("message", () => { process.send({ p99: h.percentile(99) / 1e6, max: h.max / 1e6 }, () => process.exit(0)); });`,
+    ],
+    { stdio: ["ignore", "ignore", "inherit", "ipc"] },
+  );
+  return {
+    stop: () =>
+      new Promise<{ p99: number; max: number }>((resolve) => {
+        child.once("message", (m) => resolve(m as { p99: number; max: number }));
+        child.send("read");
+      }),
+  };
+}
