@@ -49,6 +49,32 @@ async function makeSiteOf(size: number, name: string) {
         })
         .execute();
       if (k === 0) await makeDefect(t.db, s.id, board.id, c, { partsNeeded: `handle ${i}` });
+      if (k === 0) {
+        // A reading of each kind per spec, through the API as a crew records them.
+        const at = `2026-11-${String(1 + (i % 28)).padStart(2, "0")}T09:00:00Z`;
+        for (const [path, body] of [
+          [
+            `boards/${board.id}/insulation-readings`,
+            {
+              componentId: c.componentId,
+              circuit: `Feeder ${i}`,
+              testVoltsDc: 1000,
+              megohms: 500,
+              conductors: "A-G",
+              equipmentTempC: 20,
+              measuredAt: at,
+            },
+          ],
+          [
+            `components/${c.componentId}/contact-readings`,
+            { poleMicroOhms: [50, 52, 51], testCurrentA: 100, measuredAt: at },
+          ],
+          [`components/${c.componentId}/thermal-scans`, { componentTempC: 31, ambientTempC: 25, measuredAt: at }],
+        ] as const) {
+          const r = await curator.post(`/api/sites/${s.id}/${path}`, body);
+          expect(r.status, JSON.stringify(r.body)).toBe(201);
+        }
+      }
     }
   }
   const lines = await t.db.selectFrom("partLines").select("id").where("siteId", "=", s.id).execute();
@@ -104,6 +130,10 @@ const ENDPOINTS: Array<[string, (s: (typeof sites)["small"]) => string]> = [
   ["site overview", (s) => `/api/sites/${s.id}/overview`],
   ["board list", (s) => `/api/sites/${s.id}/boards`],
   ["one board", (s) => `/api/sites/${s.id}/boards/${s.boardId}`],
+  ["a board's readings", (s) => `/api/sites/${s.id}/boards/${s.boardId}/readings`],
+  ["a board's insulation readings", (s) => `/api/sites/${s.id}/boards/${s.boardId}/insulation-readings`],
+  ["a board's contact readings", (s) => `/api/sites/${s.id}/boards/${s.boardId}/contact-readings`],
+  ["a board's thermal scans", (s) => `/api/sites/${s.id}/boards/${s.boardId}/thermal-scans`],
 ];
 
 describe("list endpoints issue a fixed number of statements", () => {
