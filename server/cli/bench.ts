@@ -369,6 +369,7 @@ async function main() {
         canaryP99: [] as number[],
         canaryMax: [] as number[],
         serverCpu: [] as number[],
+        serverCores: [] as number[],
         pgCpuHttp: [] as number[],
         pgCpuRaw: [] as number[],
       };
@@ -427,6 +428,7 @@ async function main() {
         f2.canaryP99.push(c.p99);
         f2.canaryMax.push(c.max);
         f2.serverCpu.push((cpu * 1000) / Math.max(1, done));
+        f2.serverCores.push(cpu / secs);
         f2.pgCpuHttp.push((pgCpu * 1000) / Math.max(1, done));
       };
       const rawHalf = async () => {
@@ -480,6 +482,7 @@ async function main() {
             ["idle canary process's delay p99 ms", spread(f2.canaryP99)],
             ["idle canary process's delay max ms", spread(f2.canaryMax)],
             ["server CPU ms per request", spread(f2.serverCpu, 2)],
+            ["server CPU used, cores (1 = its one thread busy)", spread(f2.serverCores, 2)],
             ["PostgreSQL CPU ms per request (HTTP)", spread(f2.pgCpuHttp, 2)],
             ["PostgreSQL CPU ms per request (raw)", spread(f2.pgCpuRaw, 2)],
           ],
