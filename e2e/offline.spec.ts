@@ -122,9 +122,20 @@ test.describe("with no signal, on a 360 px phone", () => {
     await again.goto(`/sites/${m.siteId}/log?position=${m.positionId}`);
     await expect(again.getByTestId("waiting-count")).toHaveText("5 waiting to send");
 
+    // Back in range: while the photo goes up, the bar says how far it is (the upload is held here until seen).
+    let letThrough!: () => void;
+    const held = new Promise<void>((resolve) => (letThrough = resolve));
+    await again.route("**/api/sites/*/photos", async (route) => {
+      if (route.request().method() === "POST") await held;
+      await route.continue();
+    });
     await context.setOffline(false);
     await again.evaluate(() => window.dispatchEvent(new Event("online")));
+    await expect(again.getByTestId("photo-progress")).toContainText("Sending photos: 0 of 1", { timeout: 30_000 });
+    await expect(again.getByRole("progressbar", { name: "Photo upload progress" })).toBeVisible();
+    letThrough();
     await expect(again.getByTestId("waiting-count")).toHaveText("nothing waiting", { timeout: 30_000 });
+    await expect(again.getByTestId("photo-progress")).toHaveCount(0);
 
     // Through the API: each exists exactly once.
     const api = await apiAs(baseURL!, "volunteer");
