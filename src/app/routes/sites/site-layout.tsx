@@ -37,7 +37,7 @@ export default function SiteLayout() {
         <p className="text-lg font-bold" data-testid="site-name">
           {site.data.name}
         </p>
-        <nav aria-label="Site" className="-mx-1 hidden gap-1 overflow-x-auto py-2 md:flex">
+        <nav aria-label="Site" className="-mx-1 hidden flex-wrap gap-1 py-2 md:flex">
           {nav.map((n) => (
             <NavLink key={n.label} to={n.href(siteId)} end className={tab}>
               {n.label}
