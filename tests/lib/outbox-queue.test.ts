@@ -231,6 +231,45 @@ describe("outbox drain", () => {
     expect(store.map.size).toBe(0);
   });
 
+  it("two edits of one defect made with no signal go one after the other: the second builds on the first's new version, not a conflict with it", async () => {
+    const defectEdit = (body: Record<string, unknown>, url = "/api/sites/s1/defects/d1") =>
+      item({ kind: "defect_edit", method: "PATCH", url, edit: {}, body });
+    const first = defectEdit({ title: "Bolt sheared", version: 2 });
+    const move = item({
+      kind: "defect_status",
+      method: "POST",
+      url: "/api/sites/s1/defects/d1/status",
+      edit: { compareAs: { to: "status" } },
+      body: { to: "scheduled", reason: "", version: 2 },
+    });
+    const otherDefect = defectEdit({ title: "Lamp cracked", version: 2 }, "/api/sites/s1/defects/d2");
+    const store = memoryStore([first, move, otherDefect]);
+    // A server that keeps one version per defect and refuses a stale one, as server/defects does.
+    const versions = new Map([
+      ["d1", 2],
+      ["d2", 7],
+    ]);
+    const srv = fakeServer((i) => {
+      const id = i.url.split("/")[5];
+      const sent = (i.body as { version: number }).version;
+      if (sent !== versions.get(id)) {
+        const current = { id, version: versions.get(id) };
+        return {
+          ok: false,
+          status: 409,
+          error: { status: 409, code: "conflict", message: "Changed meanwhile", current },
+        };
+      }
+      versions.set(id, sent + 1);
+      return { ok: true, status: 200, body: { defect: { id, version: sent + 1 } } };
+    });
+    const r = await drain(store, "u1", srv.send);
+    expect(r.sent.map((i) => i.id)).toEqual([first.id, move.id]);
+    expect(srv.calls.map((c) => (c.body as { version: number }).version)).toEqual([2, 3, 2]);
+    // The other defect was changed by someone else meanwhile (version 7): that one is still a conflict.
+    expect(r.conflicts.map((i) => i.id)).toEqual([otherDefect.id]);
+  });
+
   it("a photo of an inspection logged offline waits for it, then goes with the new inspection's id", async () => {
     const insp = item();
     const photo = item({

@@ -118,6 +118,40 @@ export function createdIdOf(body: unknown): string | null {
   return null;
 }
 
+/** The edited record in an edit's answer (`{ defect: { id, version } }` or the record itself), if it has a version. */
+export function editedRecordOf(body: unknown): { id: string; version: number } | null {
+  if (!body || typeof body !== "object") return null;
+  const asRecord = (v: unknown) =>
+    v && typeof v === "object" && typeof (v as { id?: unknown }).id === "string"
+      ? typeof (v as { version?: unknown }).version === "number"
+        ? (v as { id: string; version: number })
+        : null
+      : null;
+  const top = asRecord(body);
+  if (top) return { id: top.id, version: top.version };
+  for (const v of Object.values(body as Record<string, unknown>)) {
+    const r = asRecord(v);
+    if (r) return { id: r.id, version: r.version };
+  }
+  return null;
+}
+
+/**
+ * A later edit of the same record, made on the phone from the same version as the one just sent,
+ * builds on it rather than competing with it: it goes with the version the server now has. (Two
+ * edits of one defect made with no signal are the same person's, one after the other; without this
+ * the second came back as a conflict with the first.) An edit based on another version is left as
+ * it is, so a real conflict with someone else's change still shows.
+ */
+function followsOn(later: OutboxItem, sent: OutboxItem, record: { id: string }): boolean {
+  if (later.state !== "waiting" || !later.edit || later.seq <= sent.seq) return false;
+  const sentVersion = (sent.body as { version?: unknown } | undefined)?.version;
+  const laterVersion = (later.body as { version?: unknown } | undefined)?.version;
+  if (typeof sentVersion !== "number" || laterVersion !== sentVersion) return false;
+  const names = (url: string) => url.split("?")[0].split("/").includes(record.id);
+  return names(later.url) && names(sent.url);
+}
+
 function withParent(item: OutboxItem, field: string, id: string): OutboxItem {
   const next: OutboxItem = { ...item, dependsOn: undefined };
   if (item.photo) next.photo = { ...item.photo, fields: { ...item.photo.fields, [field]: id } };
@@ -194,6 +228,14 @@ export async function drain(
         const updated = withParent(child, child.dependsOn!.field, newId);
         await store.put(updated);
         pending.set(updated.id, updated);
+      }
+      const edited = item.edit ? editedRecordOf(r.body) : null;
+      if (edited) {
+        for (const later of [...pending.values()].filter((l) => followsOn(l, item, edited))) {
+          const updated = { ...later, body: { ...(later.body as Record<string, unknown>), version: edited.version } };
+          await store.put(updated);
+          pending.set(updated.id, updated);
+        }
       }
       opts.onSent?.(item, r.body);
       continue;
