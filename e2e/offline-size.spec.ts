@@ -122,7 +122,7 @@ test.describe("what the phone keeps, on a 360 px phone", () => {
           [
             name,
             `Section ${Math.ceil(r / 5)}`,
-            `${r}-${c}`,
+            `R${r}C${c}`, // not the demo boards' "4-7": a photo named for 4-7 must still find one position
             meter ? "meter" : "molded_case_breaker",
             r,
             c,
@@ -219,7 +219,8 @@ test.describe("what the phone keeps, on a 360 px phone", () => {
     // The worker installed exactly what the manifest lists (Cache Storage may also hold the worker's own runtime).
     expect(stored.entries).toBeGreaterThanOrEqual(manifest.entries);
     expect(kept.utf8).toBeLessThan(MAX_BYTES);
-    expect(kept.biggest[0].key).toContain(boardId);
+    // The board is among the biggest reads (site-wide reads grow with what other tests add to the demo site).
+    expect(kept.biggest.map((b) => b.key).join(" ")).toContain(boardId);
 
     // Sign-out: none of this person's reads stays on the phone (waiting past the write throttle).
     await page.getByRole("button", { name: "Sign out" }).click();

@@ -51,9 +51,10 @@ test("the scrounger finds a line by its W-number, fits a whole breaker as a peri
   const { siteId, boardId, designation, line } = await replacedBreaker(baseURL!);
   expect(line.ref).toBe(`W-${line.number}`);
   expect(line.need).toBe(""); // a whole component, not a part of one
+  // Counted in positions: on a site of thousands the rounded percentage may not move for one breaker.
   const originalFabric = async () =>
-    ((await (await page.request.get(`/api/sites/${siteId}/overview`)).json()) as { originalRetainedPercent: number })
-      .originalRetainedPercent;
+    ((await (await page.request.get(`/api/sites/${siteId}/overview`)).json()) as { originalRetained: number })
+      .originalRetained;
 
   await signIn(page, "scrounger");
   const before = await originalFabric();
@@ -104,5 +105,5 @@ test("the scrounger finds a line by its W-number, fits a whole breaker as a peri
   await page.goto(`/sites/${siteId}/boards/${boardId}`);
   await page.getByTestId(`tile-${designation}`).click();
   await expect(page.getByText("Period replacement").first()).toBeVisible();
-  expect(await originalFabric()).toBeLessThan(before);
+  expect(await originalFabric()).toBe(before - 1);
 });

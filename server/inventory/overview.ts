@@ -48,6 +48,7 @@ export async function overview(db: Db, siteId: string): Promise<Overview> {
     byDisposition,
     byCustody,
     byGrade,
+    originalRetained: retained,
     originalRetainedPercent: positions ? Math.round((retained / positions) * 1000) / 10 : null,
     boards: [...perBoard.values()],
   };

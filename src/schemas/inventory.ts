@@ -504,6 +504,8 @@ export const overviewResponse = z.object({
   byDisposition: countsOf([...DISPOSITIONS, "undecided"] as const),
   byCustody: countsOf(CUSTODY),
   byGrade: countsOf(GRADE_KEYS),
+  /** How many positions that is (the percentage rounds away one position on a large site). */
+  originalRetained: z.number(),
   originalRetainedPercent: z.number().nullable(),
   boards: z.array(z.object({ id, name: safeText(), positions: z.number(), surveyed: z.number() })),
 });

@@ -68,7 +68,7 @@ async function expectedOverview(): Promise<Overview> {
     byDisposition: zeros([...DISPOSITIONS, "undecided"]),
     byCustody: zeros(CUSTODY),
     byGrade: zeros(GRADE_KEYS),
-  } as unknown as Omit<Overview, "originalRetainedPercent" | "boards">;
+  } as unknown as Omit<Overview, "originalRetained" | "originalRetainedPercent" | "boards">;
   let retained = 0;
   const names = await t.db
     .selectFrom("boards")
@@ -94,6 +94,7 @@ async function expectedOverview(): Promise<Overview> {
   }
   return {
     ...o,
+    originalRetained: retained,
     originalRetainedPercent: all.length ? Math.round((retained / all.length) * 1000) / 10 : null,
     boards: perBoard,
   };
