@@ -71,7 +71,7 @@ test.describe("on a phone", () => {
     await page.getByRole("button", { name: "Save inspection" }).click();
     await expect(page.getByTestId("logged")).toContainText("Inspection saved — grade 3 · Ri 4");
     await expect(page.getByRole("link", { name: "Raise a defect" })).toHaveAttribute("href", /category=corrosion/);
-    // The inspection's photo, from the phone's camera input (issue 14 item 3).
+    // The inspection's photo, from the phone's camera input.
     const photos = page.getByRole("region", { name: "Photos of this inspection" });
     const shot = await sharp({ create: { width: 320, height: 240, channels: 3, background: "#7a5a3a" } })
       .jpeg()

@@ -6,7 +6,7 @@ import { DEMO_PASSWORD, signIn } from "./support/auth";
 import { expectPageKept, keptQueryKeys } from "./support/offline";
 
 /**
- * Issue 16's last line: what the field app stores on a phone, measured, not estimated.
+ * What the field app stores on a phone, measured, not estimated.
  * - The precache: the Workbox manifest that vite-plugin-pwa wrote into the build's sw.js (what the
  *   worker fetches at install), summed from the built files, and what the browser's Cache Storage
  *   holds once the worker is active.

@@ -91,7 +91,7 @@ const probes = new WeakMap<Db, Db>();
  * The health and readiness probes' own connection to the same database (a pool of one,
  * `HEALTH_POOL_MAX`), so `/api/health` measures "does the database answer" and not "how long
  * is the queue for the app's pool": under load every app connection is busy and a probe
- * through that pool waited behind up to 40 statements (issue 15). Made on first use, closed
+ * through that pool waited behind up to 40 statements. Made on first use, closed
  * when `db` is destroyed; the connection it holds is let go after 10 s idle. For a Db not made
  * by createDb (a test's logging wrapper) the probe shares `db`.
  */

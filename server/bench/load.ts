@@ -1,5 +1,5 @@
 /**
- * Measures for the bench's load phase (issue 15): the server's event-loop delay as the product
+ * Measures for the bench's load phase: the server's event-loop delay as the product
  * itself exposes it (prom-client's `nodejs_eventloop_lag_*` on /api/metrics, a perf_hooks
  * monitorEventLoopDelay histogram that prom-client resets at every scrape), a do-nothing "canary"
  * process's own event-loop delay over the same seconds (what the machine's other load alone costs

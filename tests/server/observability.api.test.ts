@@ -137,7 +137,7 @@ describe("health probes", () => {
     expect(r.statusCode).toBe(200);
   });
 
-  it("health and readiness answer on a connection of their own while every connection of the app's pool is busy (issue 15)", async () => {
+  it("health and readiness answer on a connection of their own while every connection of the app's pool is busy", async () => {
     // Twelve statements of 2 s on the app's pool of ten: all ten busy, two waiting.
     const busy = Array.from({ length: 12 }, () => sql`select pg_sleep(2)`.execute(t.db));
     await new Promise((r) => setTimeout(r, 300));

@@ -337,7 +337,7 @@ describe("sign-offs", () => {
   });
 
   it("a watch check kept on a phone: the server keeps the phone's time and its own, corrects a clock that is off, refuses the impossible", async () => {
-    // Issue 16: the outbox sends Tideline-Device-Time (what the phone's clock reads as it sends) with every item.
+    // The outbox sends Tideline-Device-Time (what the phone's clock reads as it sends) with every item.
     const url = `${site()}/return-to-service/stages/${stage.id}/watch-checks`;
     const min = 60_000;
     const send = (body: Record<string, unknown>, deviceNow?: Date | string) =>

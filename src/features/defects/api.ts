@@ -184,7 +184,7 @@ export const findByRef = (siteId: string, ref: string) =>
 export const csvHref = (siteId: string, query: string) => `${base(siteId)}.csv?${query}`;
 
 /**
- * This defect's edits and status moves still waiting on the phone (issue 16), merged in the order
+ * This defect's edits and status moves still waiting on the phone, merged in the order
  * they were made: the page shows these values, marked as waiting, instead of the server's older ones
  * until they are sent. `fields` holds the record's fields they change (a move's `to` is `status`, its
  * reason `statusReason`); the version they were based on is not among them.

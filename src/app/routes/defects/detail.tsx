@@ -40,7 +40,7 @@ export default function DefectPage() {
       </ErrorPanel>
     );
   const detail = q.data;
-  // Edits and moves still on this phone are shown in place of the server's values, each marked (issue 16).
+  // Edits and moves still on this phone are shown in place of the server's values, each marked.
   const d = { ...detail.defect, ...pending.fields } as DefectDetail["defect"];
   const differs = (...keys: Array<keyof DefectDetail["defect"]>) =>
     keys.some((k) => k in pending.fields && pending.fields[k] !== detail.defect[k]);
