@@ -2,7 +2,7 @@
  * The Database interface Kysely checks every query against. Hand-kept beside the
  * migrations; property names are camelCase (CamelCasePlugin maps them to snake_case).
  */
-import type { ColumnType, Generated, Selectable } from "kysely";
+import type { ColumnType, Generated } from "kysely";
 import type { StageStatus, StepKind, Supply, VoltageStep } from "../src/domain/return-to-service";
 import type { LeadSourceKind, LeadStatus } from "../src/domain/part-workflow";
 import type {
@@ -906,6 +906,3 @@ export interface Database {
   rtsOperationBudgets: RtsOperationBudgetsTable;
   rtsOverdueNotices: RtsOverdueNoticesTable;
 }
-
-export type User = Selectable<UsersTable>;
-export type Site = Selectable<SitesTable>;

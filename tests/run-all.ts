@@ -52,6 +52,8 @@ try {
       typecheckOk = false;
     // Import boundaries between layers, React's hook rules, typescript-eslint (eslint.config.js).
     if (!step("lint (eslint)", bin("eslint"), ["."])) typecheckOk = false;
+    // Unused files, exports and dependencies (package.json's "knip" key).
+    if (!step("unused code and dependencies (knip)", bin("knip"), ["--no-config-hints"])) typecheckOk = false;
   }
 
   const vitest = (title: string, report: string, args: string[]) => {
@@ -112,7 +114,8 @@ try {
   cluster.stop();
 }
 
-if (!typecheckOk) console.log("[tideline] the type check, the format check or the lint failed (see above)");
+if (!typecheckOk)
+  console.log("[tideline] the type check, the format check, the lint or the unused-code check failed (see above)");
 const ok = typecheckOk && failed === 0 && passed > 0;
 // CI shows the end of the output: name what failed (and what passed only on a retry) just above the count.
 if (flaky.length) console.log(`[tideline] passed on a retry (flaky):\n${flaky.map((f) => `  ~ ${f}`).join("\n")}`);

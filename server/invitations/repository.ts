@@ -24,8 +24,6 @@ const withInviter = (db: Db) =>
     .leftJoin("users", "users.id", "invitations.invitedBy")
     .select([...cols, "users.name as invitedByName"]);
 
-export type InvitationRow = Awaited<ReturnType<typeof findInvitation>> & {};
-
 /** Live = neither accepted nor revoked (expired ones still show, so they can be resent). */
 export const listLive = (db: Db, siteId: string) =>
   withInviter(db)

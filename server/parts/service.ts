@@ -13,8 +13,8 @@ import { lineSpec, reconcileDemand, syncDemand } from "./demand";
 import * as repo from "./repository";
 import { buildRows, lineRow, lockedLine, siteBudget } from "./rows";
 
-export { reconcileDemand, syncDemand, type DemandScope } from "./demand";
-export { moveLineStatus, insertAcquisition } from "./workflow";
+export { reconcileDemand, syncDemand } from "./demand";
+export { moveLineStatus } from "./workflow";
 export { lineRow } from "./rows";
 
 type Actor = { id: string; role: Role | "admin" };

@@ -67,7 +67,6 @@ export function linksFor(siteId: string, boardId: string): GateLinks {
   };
 }
 
-type Stages = Awaited<ReturnType<typeof repo.listStages>>;
 type Positions = Awaited<ReturnType<typeof repo.listPositions>>;
 
 /** Position ids a stage covers: its sections' positions plus its named circuits. */
@@ -478,5 +477,3 @@ export async function boardView(db: Db, siteId: string, boardId: string, now: Da
     now: now.toISOString(),
   };
 }
-
-export type { Stages };

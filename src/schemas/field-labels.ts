@@ -211,5 +211,3 @@ const VALUE_WORDS_BY_KIND: Readonly<Record<string, Readonly<Record<string, Reado
 export function valueWords(kind: string, key: string, value: string): string {
   return VALUE_WORDS_BY_KIND[kind]?.[key]?.[value] ?? VALUE_WORDS[key]?.[value] ?? value;
 }
-/** The maps `valueWords` reads, for the test that every enum value of a queued body has words. */
-export const VALUE_WORD_MAPS = { VALUE_WORDS, VALUE_WORDS_BY_KIND };
