@@ -1,3 +1,4 @@
+import { insertAuditRows } from "./audit-repository";
 import type { Db } from "./db";
 
 export interface AuditEntry {
@@ -17,41 +18,28 @@ export interface AuditEntry {
 const json = (v: unknown) => (v === undefined || v === null ? null : JSON.stringify(v));
 
 /** Records who changed what (before/after) in the same transaction as the change. */
+/** One entry as its audit_log row. */
+const row = (e: AuditEntry) => ({
+  siteId: e.siteId,
+  entityType: e.entityType,
+  entityId: e.entityId,
+  action: e.action,
+  actorId: e.actorId,
+  boardId: e.boardId ?? null,
+  positionId: e.positionId ?? null,
+  before: json(e.before),
+  after: json(e.after),
+});
+
+/** Records who changed what (before/after) in the same transaction as the change. */
 export async function recordAudit(db: Db, e: AuditEntry) {
-  await db
-    .insertInto("auditLog")
-    .values({
-      siteId: e.siteId,
-      entityType: e.entityType,
-      entityId: e.entityId,
-      action: e.action,
-      actorId: e.actorId,
-      boardId: e.boardId ?? null,
-      positionId: e.positionId ?? null,
-      before: json(e.before),
-      after: json(e.after),
-    })
-    .execute();
+  await insertAuditRows(db, [row(e)]);
 }
 
 /** Many audit rows in one statement per 1,000 (set-based writers such as the wanted list's demand sync). */
 export async function recordAuditMany(db: Db, entries: readonly AuditEntry[]) {
-  const rows = entries.map((e) => ({
-    siteId: e.siteId,
-    entityType: e.entityType,
-    entityId: e.entityId,
-    action: e.action,
-    actorId: e.actorId,
-    boardId: e.boardId ?? null,
-    positionId: e.positionId ?? null,
-    before: json(e.before),
-    after: json(e.after),
-  }));
-  for (let i = 0; i < rows.length; i += 1000)
-    await db
-      .insertInto("auditLog")
-      .values(rows.slice(i, i + 1000))
-      .execute();
+  const rows = entries.map(row);
+  for (let i = 0; i < rows.length; i += 1000) await insertAuditRows(db, rows.slice(i, i + 1000));
 }
 
 /** The changed fields of an update, as { before, after } holding only those keys. */

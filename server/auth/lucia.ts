@@ -1,65 +1,6 @@
-import { createHash } from "node:crypto";
-import { Lucia, TimeSpan, type Adapter, type DatabaseSession, type DatabaseUser } from "lucia";
+import { Lucia, TimeSpan } from "lucia";
 import type { Db } from "../db";
-
-/**
- * The database keeps the SHA-256 of each session id, never the id itself (the cookie's
- * value): a copy of the sessions table does not let anyone sign in as the crew.
- * Migration 2026_12_02_0230 ended the sessions stored before this.
- */
-export const sessionKey = (sessionId: string) => createHash("sha256").update(sessionId).digest("hex");
-
-/** lucia v3's storage contract over Kysely: sessions and users live in PostgreSQL. */
-export function kyselyAdapter(db: Db): Adapter {
-  const toUser = (u: { id: string; email: string; name: string; isAdmin: boolean }): DatabaseUser => ({
-    id: u.id,
-    attributes: { email: u.email, name: u.name, isAdmin: u.isAdmin },
-  });
-  const toSession = (s: { id: string; userId: string; expiresAt: Date }): DatabaseSession => ({
-    id: s.id,
-    userId: s.userId,
-    expiresAt: s.expiresAt,
-    attributes: {},
-  });
-  return {
-    async getSessionAndUser(sessionId) {
-      const row = await db
-        .selectFrom("sessions")
-        .innerJoin("users", "users.id", "sessions.userId")
-        .select(["sessions.id", "sessions.userId", "sessions.expiresAt", "users.email", "users.name", "users.isAdmin"])
-        .where("sessions.id", "=", sessionKey(sessionId))
-        .executeTakeFirst();
-      if (!row) return [null, null];
-      return [
-        toSession({ ...row, id: sessionId }),
-        toUser({ id: row.userId, email: row.email, name: row.name, isAdmin: row.isAdmin }),
-      ];
-    },
-    /** The ids here are the stored hashes: enough to count and expire sessions, useless as cookies. */
-    async getUserSessions(userId) {
-      const rows = await db.selectFrom("sessions").selectAll().where("userId", "=", userId).execute();
-      return rows.map(toSession);
-    },
-    async setSession(s) {
-      await db
-        .insertInto("sessions")
-        .values({ id: sessionKey(s.id), userId: s.userId, expiresAt: s.expiresAt })
-        .execute();
-    },
-    async updateSessionExpiration(sessionId, expiresAt) {
-      await db.updateTable("sessions").set({ expiresAt }).where("id", "=", sessionKey(sessionId)).execute();
-    },
-    async deleteSession(sessionId) {
-      await db.deleteFrom("sessions").where("id", "=", sessionKey(sessionId)).execute();
-    },
-    async deleteUserSessions(userId) {
-      await db.deleteFrom("sessions").where("userId", "=", userId).execute();
-    },
-    async deleteExpiredSessions() {
-      await db.deleteFrom("sessions").where("expiresAt", "<=", new Date()).execute();
-    },
-  };
-}
+import { kyselyAdapter } from "./session-repository";
 
 export function createLucia(db: Db) {
   return new Lucia(kyselyAdapter(db), {

@@ -4,8 +4,15 @@
  * repeats cannot both run), then records its 2xx answer; a refused or failed attempt gives the key
  * back so the client may try again. Keys are kept for RETENTION_DAYS, then a repeat counts as new.
  */
-import { sql } from "kysely";
 import type { Db } from "../db";
+import {
+  completeRunningKey,
+  deleteExpiredKeys,
+  deleteKeyCreatedAt,
+  deleteRunningKey,
+  findKey,
+  insertKey,
+} from "./repository";
 
 export const RETENTION_DAYS = 30;
 /** A claim still running after this long was cut off (the process stopped mid-request). */
@@ -27,36 +34,23 @@ export type Claim =
   | { kind: "unknown" };
 
 export async function claim(db: Db, a: Attempt, now = new Date()): Promise<Claim> {
-  const inserted = await db
-    .insertInto("idempotencyKeys")
-    .values({ userId: a.userId, key: a.key, method: a.method, path: a.path, fingerprint: a.fingerprint })
-    .onConflict((oc) => oc.columns(["userId", "key"]).doNothing())
-    .returning("key")
-    .executeTakeFirst();
+  const inserted = await insertKey(db, {
+    userId: a.userId,
+    key: a.key,
+    method: a.method,
+    path: a.path,
+    fingerprint: a.fingerprint,
+  });
   if (inserted) {
-    // This person's expired keys go as new ones arrive (the (user_id, created_at) index serves it).
-    await db
-      .deleteFrom("idempotencyKeys")
-      .where("userId", "=", a.userId)
-      .where("createdAt", "<", sql<Date>`now() - make_interval(days => ${RETENTION_DAYS})`)
-      .execute();
+    // This person's expired keys go as new ones arrive.
+    await deleteExpiredKeys(db, a.userId, RETENTION_DAYS);
     return { kind: "claimed" };
   }
-  const row = await db
-    .selectFrom("idempotencyKeys")
-    .selectAll()
-    .where("userId", "=", a.userId)
-    .where("key", "=", a.key)
-    .executeTakeFirst();
+  const row = await findKey(db, a.userId, a.key);
   if (!row) return claim(db, a, now); // released between our insert and read: try once more
   const expired = now.getTime() - row.createdAt.getTime() > RETENTION_DAYS * 86_400_000;
   if (expired) {
-    await db
-      .deleteFrom("idempotencyKeys")
-      .where("userId", "=", a.userId)
-      .where("key", "=", a.key)
-      .where("createdAt", "=", row.createdAt)
-      .execute();
+    await deleteKeyCreatedAt(db, a.userId, a.key, row.createdAt);
     return claim(db, a, now);
   }
   if (row.fingerprint !== a.fingerprint) return { kind: "mismatch" };
@@ -66,21 +60,10 @@ export async function claim(db: Db, a: Attempt, now = new Date()): Promise<Claim
 
 /** Keeps the first successful answer for every later repeat. */
 export async function complete(db: Db, userId: string, key: string, status: number, body: unknown): Promise<void> {
-  await db
-    .updateTable("idempotencyKeys")
-    .set({ state: "done", responseStatus: status, responseBody: JSON.stringify(body ?? null), completedAt: new Date() })
-    .where("userId", "=", userId)
-    .where("key", "=", key)
-    .where("state", "=", "running")
-    .execute();
+  await completeRunningKey(db, userId, key, status, body);
 }
 
 /** The attempt was refused or failed and wrote nothing: the key is free for a retry. */
 export async function release(db: Db, userId: string, key: string): Promise<void> {
-  await db
-    .deleteFrom("idempotencyKeys")
-    .where("userId", "=", userId)
-    .where("key", "=", key)
-    .where("state", "=", "running")
-    .execute();
+  await deleteRunningKey(db, userId, key);
 }

@@ -11,6 +11,7 @@ import type { Database, OutboxStatus } from "../../db/types";
 import type { Db } from "../db";
 import type { Jobs } from "../jobs";
 import type { MailMessage, Mailer, SendResult } from "./mailer";
+import { findMessage, insertMessage, latestByRef, updateMessage, withdrawWaiting } from "./repository";
 
 export const MAIL_JOB = "mail.send";
 
@@ -35,27 +36,16 @@ export const SUPERSEDED = "Replaced by a newer message before it was delivered."
  * message for the same record still waiting is withdrawn: its link no longer works.
  */
 export async function queueMail(trx: Kysely<Database>, jobs: Jobs, msg: MailMessage, ref?: MailRef): Promise<string> {
-  if (ref)
-    await trx
-      .updateTable("mailOutbox")
-      .set({ status: "failed", lastError: SUPERSEDED })
-      .where("refType", "=", ref.type)
-      .where("refId", "=", ref.id)
-      .where("status", "in", ["queued", "retrying"])
-      .execute();
-  const row = await trx
-    .insertInto("mailOutbox")
-    .values({
-      toAddress: msg.to,
-      fromName: msg.fromName ?? null,
-      subject: msg.subject,
-      textBody: msg.text,
-      htmlBody: msg.html,
-      refType: ref?.type ?? null,
-      refId: ref?.id ?? null,
-    })
-    .returning("id")
-    .executeTakeFirstOrThrow();
+  if (ref) await withdrawWaiting(trx, ref.type, ref.id, SUPERSEDED);
+  const row = await insertMessage(trx, {
+    toAddress: msg.to,
+    fromName: msg.fromName ?? null,
+    subject: msg.subject,
+    textBody: msg.text,
+    htmlBody: msg.html,
+    refType: ref?.type ?? null,
+    refId: ref?.id ?? null,
+  });
   await jobs.enqueue(MAIL_JOB, { outboxId: row.id }, { trx });
   return row.id;
 }
@@ -82,7 +72,7 @@ export function defineMailJobs(jobs: Jobs, deps: { db: Db; mailer: Mailer }) {
   jobs.define<{ outboxId: string }>(
     MAIL_JOB,
     async ({ outboxId }, ctx) => {
-      const row = await deps.db.selectFrom("mailOutbox").selectAll().where("id", "=", outboxId).executeTakeFirst();
+      const row = await findMessage(deps.db, outboxId);
       // Sent by an earlier run of this job, or withdrawn: nothing to do.
       if (!row || row.status === "sent" || row.status === "failed") return;
       const r = await deps.mailer.send({
@@ -93,20 +83,17 @@ export function defineMailJobs(jobs: Jobs, deps: { db: Db; mailer: Mailer }) {
         fromName: row.fromName ?? undefined,
       });
       if (r.ok) {
-        await deps.db
-          .updateTable("mailOutbox")
-          .set({ status: "sent", sentAt: new Date(), attempts: row.attempts + 1, lastError: null })
-          .where("id", "=", outboxId)
-          .execute();
+        await updateMessage(deps.db, outboxId, {
+          status: "sent",
+          sentAt: new Date(),
+          attempts: row.attempts + 1,
+          lastError: null,
+        });
         ctx.log.info({ outboxId }, "e-mail sent");
         return;
       }
       const status: OutboxStatus = ctx.lastAttempt ? "failed" : "retrying";
-      await deps.db
-        .updateTable("mailOutbox")
-        .set({ status, attempts: row.attempts + 1, lastError: r.error.slice(0, 1000) })
-        .where("id", "=", outboxId)
-        .execute();
+      await updateMessage(deps.db, outboxId, { status, attempts: row.attempts + 1, lastError: r.error.slice(0, 1000) });
       throw new Error(r.error);
     },
     mailRetry(),
@@ -124,15 +111,7 @@ export interface Delivery {
 export async function latestDelivery(db: Db, refType: string, ids: string[]): Promise<Map<string, Delivery>> {
   const out = new Map<string, Delivery>();
   if (!ids.length) return out;
-  const rows = await db
-    .selectFrom("mailOutbox")
-    .distinctOn("refId")
-    .select(["refId", "status", "lastError", "sentAt", "attempts"])
-    .where("refType", "=", refType)
-    .where("refId", "in", ids)
-    .orderBy("refId")
-    .orderBy("createdAt", "desc")
-    .execute();
+  const rows = await latestByRef(db, refType, ids);
   for (const r of rows)
     out.set(r.refId!, { status: r.status, lastError: r.lastError, sentAt: r.sentAt, attempts: r.attempts });
   return out;

@@ -152,12 +152,18 @@ describe("one writer per table", () => {
   });
 
   it("imports a domain's repository only from that domain", () => {
+    // A domain is a folder of server/, or a top-level file's name up to its first "-" or "."
+    // (server/audit.ts and server/audit-repository.ts are the audit domain; OWNERS says the same).
+    const domainOf = (file: string) => {
+      const [first, ...rest] = relative("server", file).split("/");
+      return rest.length ? first : first.split(/[-.]/)[0];
+    };
     const strays: string[] = [];
     for (const f of serverFiles) {
-      const domain = relative("server", f).split("/")[0];
+      const domain = domainOf(f);
       for (const m of read(f).matchAll(/from "(\.{1,2}\/[^"]*repository)"/g)) {
         const target = relative(projectRoot, join(projectRoot, f, "..", m[1]));
-        const owner = relative("server", target).split("/")[0];
+        const owner = domainOf(target);
         if (owner !== domain) strays.push(`${f} imports ${target}`);
       }
     }

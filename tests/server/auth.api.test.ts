@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { sessionKey } from "../../server/auth/lucia";
+import { sessionKey } from "../../server/auth/session-repository";
 import { createDb } from "../../server/db";
 import { createTestDb, type TestDb } from "../helpers/db";
 import { makeCrew } from "../helpers/fixtures";

@@ -3,7 +3,7 @@ import { mkdtemp, rm } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { sessionKey } from "../../server/auth/lucia";
+import { sessionKey } from "../../server/auth/session-repository";
 import { LocalDiskStorage } from "../../server/photos/storage/local-disk";
 import { createTestDb, type TestDb } from "../helpers/db";
 import { makeCrew, makeUser } from "../helpers/fixtures";
