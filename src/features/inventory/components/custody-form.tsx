@@ -1,15 +1,58 @@
-import { useState, type FormEvent } from "react";
+import { useMemo, useState } from "react";
+import { z } from "zod";
 import { Button } from "../../../components/button";
 import { TextField } from "../../../components/field";
 import { CUSTODY_LABELS, type Custody } from "../../../domain/vocab";
 import { ApiError } from "../../../lib/api-client";
-import type { CustodyMove } from "../../../schemas/inventory";
+import { fieldError, formMessage, showSaveError, useSchemaForm } from "../../../lib/form";
+import { custodyBody, type CustodyMove, type CustodyOptions, type CustodyRefusalDto } from "../../../schemas/inventory";
 import { fetchNextTag, useCustodyOptions, useMoveCustody } from "../api";
 import type { Component } from "../contract";
 import { ConflictNotice } from "./conflict-notice";
 
 type Held = Pick<Component, "id" | "custody" | "version" | "tagNumber"> & { custodyLocation?: string };
 const LABELS = { custody: "Where it is", custodyLocation: "Location", tagNumber: "Tag" };
+
+/** A stale version's 409 carries the record as it is now (a chain refusal's 409 carries its rules instead). */
+const conflictOf = (e: unknown) =>
+  e instanceof ApiError && e.status === 409 && e.code === "conflict" && e.current ? (e.current as Held) : null;
+/** The move chosen: the person's own pick, else the server's proposal. */
+const moveTo = (picked: string, options: CustodyOptions | undefined): Custody | null =>
+  (picked as Custody) || options?.proposed || null;
+/** The chain's refusals of a move that still stand: a typed tag answers "tag required". */
+const standing = (options: CustodyOptions | undefined, to: Custody | null, tag: string): CustodyRefusalDto[] =>
+  (options?.moves.find((m) => m.to === to)?.refusals ?? []).filter((r) => !(r.rule === "tag_required" && tag.trim()));
+
+/**
+ * The form's text → the request body (without the version: the record's, added on sending);
+ * custodyBody (the server's own schema) validates it. The tag goes only when an untagged part is
+ * removed, the release reason only when the chain refuses the move.
+ */
+const custodyForm = (tagged: boolean, options: CustodyOptions | undefined) =>
+  z
+    .object({
+      toState: z.string(),
+      location: z.string(),
+      note: z.string(),
+      tagNumber: z.string(),
+      releaseReason: z.string(),
+    })
+    .transform((v) => {
+      const to = moveTo(v.toState, options);
+      const needsTag = !tagged && to === "removed";
+      return {
+        toState: to ?? "",
+        location: v.location,
+        note: v.note,
+        ...(needsTag && v.tagNumber.trim() ? { tagNumber: v.tagNumber } : {}),
+        ...(standing(options, to, v.tagNumber).length && v.releaseReason.trim()
+          ? { releaseReason: v.releaseReason }
+          : {}),
+      } as Omit<z.input<typeof custodyBody>, "version">;
+    })
+    .pipe(custodyBody.omit({ version: true }));
+type CustodyFormValues = z.input<ReturnType<typeof custodyForm>>;
+const EMPTY: CustodyFormValues = { toState: "", location: "", note: "", tagNumber: "", releaseReason: "" };
 
 /**
  * Log a move of the part along the tag-and-return chain (src/domain/custody-chain.ts): the
@@ -32,69 +75,54 @@ export function CustodyForm({
   /** The move as saved, or, with no signal, the outbox item it waits in and where it goes. */
   onSaved: (saved: { move: CustodyMove } | { queuedId: string; toState: Custody }) => void;
 }) {
+  // The record the form started from (its version goes with the move): not an input.
   const [base, setBase] = useState<Held>(component);
   const options = useCustodyOptions(siteId, base.id);
-  // The person's own pick, else the server's proposal: derived on each render, so a refetch of
-  // the options after a save can never leave the form with no move chosen.
-  const [picked, setPicked] = useState<Custody | null>(null);
-  const to: Custody | null = picked ?? options.data?.proposed ?? null;
-  const [location, setLocation] = useState("");
-  const [tag, setTag] = useState("");
-  const [note, setNote] = useState("");
-  const [release, setRelease] = useState("");
-  const [tagError, setTagError] = useState<string | null>(null);
   const move = useMoveCustody(siteId);
+  const schema = useMemo(() => custodyForm(!!base.tagNumber, options.data), [base.tagNumber, options.data]);
+  const form = useSchemaForm(schema, EMPTY);
+  const { register, formState } = form;
+  const errors = formState.errors;
+  const e = (name: keyof CustodyFormValues) => fieldError(errors, name);
+  // An empty pick is the server's proposal: derived on each render, so a refetch of the options
+  // after a save can never leave the form with no move chosen.
+  const [picked, tag, release] = form.watch(["toState", "tagNumber", "releaseReason"]);
+  const to = moveTo(picked, options.data);
 
-  const err = move.error instanceof ApiError ? move.error : null;
-  const conflict = err?.status === 409 && err.code === "conflict" && err.current ? (err.current as Held) : null;
+  const conflict = conflictOf(move.error);
   const needsTag = !base.tagNumber && to === "removed";
-  const chosen = options.data?.moves.find((m) => m.to === to);
-  const refusals = (chosen?.refusals ?? []).filter((r) => !(r.rule === "tag_required" && tag.trim()));
+  const refusals = standing(options.data, to, tag);
   const releasable = refusals.length > 0 && refusals.every((r) => r.releasable);
   const blocked = refusals.length > 0 && !(canRelease && releasable && release.trim().length >= 5);
+  // A stale version shows as the conflict notice below, not as a message.
+  const message = conflict ? null : formMessage(errors);
 
-  function save(version: number) {
-    if (!to) return;
-    move.mutate(
-      {
-        componentId: base.id,
-        toState: to,
-        location: location.trim(),
-        note: note.trim(),
-        version,
-        label,
-        ...(needsTag && tag.trim() ? { tagNumber: tag.trim() } : {}),
-        ...(refusals.length && release.trim() ? { releaseReason: release.trim() } : {}),
-      },
-      {
-        onSuccess: (r) => {
+  const save = (version: number) =>
+    form.handleSubmit((body) =>
+      move.mutateAsync({ ...body, componentId: base.id, version, label }).then(
+        (r) => {
           if (r.queued) {
             // Waiting in the outbox: show the move as made, so the next one follows from it.
-            setBase({ ...base, custody: to, tagNumber: base.tagNumber ?? (tag.trim() || null) });
+            setBase({ ...base, custody: body.toState, tagNumber: base.tagNumber ?? body.tagNumber ?? null });
           } else setBase(r.data.component);
-          setPicked(null);
-          setLocation("");
-          setNote("");
-          setTag("");
-          setRelease("");
-          onSaved(r.queued ? { queuedId: r.item.id, toState: to } : { move: r.data.move });
+          form.reset(EMPTY);
+          onSaved(r.queued ? { queuedId: r.item.id, toState: body.toState } : { move: r.data.move });
         },
-      },
-    );
-  }
-  const submit = (e: FormEvent) => {
-    e.preventDefault();
-    save(base.version);
-  };
+        (err: unknown) => {
+          if (!conflictOf(err)) showSaveError(form, err);
+        },
+      ),
+    )();
   const generate = () => {
-    setTagError(null);
+    form.clearErrors("tagNumber");
     fetchNextTag(siteId).then(
-      (r) => setTag(r.tagNumber),
-      () => setTagError("No tag could be generated: type one."),
+      (r) => form.setValue("tagNumber", r.tagNumber),
+      () => form.setError("tagNumber", { message: "No tag could be generated: type one." }),
     );
   };
   const choose = (c: Custody) => {
-    setPicked(c);
+    form.setValue("toState", c);
+    form.clearErrors();
     move.reset();
   };
   const moves = options.data?.moves ?? [];
@@ -102,7 +130,15 @@ export function CustodyForm({
     a.to === options.data?.proposed ? -1 : b.to === options.data?.proposed ? 1 : a.refusals.length - b.refusals.length,
   );
   return (
-    <form onSubmit={submit} className="space-y-3" aria-label="Log a custody move">
+    <form
+      onSubmit={(ev) => {
+        ev.preventDefault();
+        void save(base.version);
+      }}
+      noValidate
+      className="space-y-3"
+      aria-label="Log a custody move"
+    >
       <p className="text-sm">
         Now: <strong data-testid="custody-now">{CUSTODY_LABELS[base.custody]}</strong>
         {base.tagNumber && <span className="font-mono text-mist"> · tag {base.tagNumber}</span>}
@@ -154,10 +190,9 @@ export function CustodyForm({
           {canRelease && releasable ? (
             <TextField
               label="Release it anyway — the reason is recorded and shown"
-              value={release}
-              onChange={(e) => setRelease(e.target.value)}
+              {...register("releaseReason")}
               placeholder="e.g. refitted for a dry fit only, locked out"
-              error={err?.fields.releaseReason}
+              error={e("releaseReason")}
               className="mt-2"
             />
           ) : (
@@ -171,9 +206,8 @@ export function CustodyForm({
         <div className="flex items-end gap-2">
           <TextField
             label="Tag number on the bag"
-            value={tag}
-            onChange={(e) => setTag(e.target.value)}
-            error={err?.fields.tagNumber ?? tagError ?? undefined}
+            {...register("tagNumber")}
+            error={e("tagNumber")}
             className="flex-1 [&_input]:font-mono"
             required
             autoComplete="off"
@@ -186,16 +220,10 @@ export function CustodyForm({
       <TextField
         label="Where is it now?"
         placeholder="e.g. workshop bench 2, crate B"
-        value={location}
-        onChange={(e) => setLocation(e.target.value)}
-        error={err?.fields.location}
+        {...register("location")}
+        error={e("location")}
       />
-      <TextField
-        label="Note (optional)"
-        value={note}
-        onChange={(e) => setNote(e.target.value)}
-        error={err?.fields.note}
-      />
+      <TextField label="Note (optional)" {...register("note")} error={e("note")} />
       {conflict && (
         <ConflictNotice
           base={base}
@@ -204,18 +232,18 @@ export function CustodyForm({
           busy={move.isPending}
           onUseTheirs={() => {
             setBase(conflict);
-            setPicked(null);
+            form.setValue("toState", "");
             move.reset();
           }}
           onApplyMine={() => {
             setBase(conflict);
-            save(conflict.version);
+            void save(conflict.version);
           }}
         />
       )}
-      {err && !conflict && (
+      {message && (
         <p role="alert" className="text-sm text-flare-300">
-          {err.message}
+          {message}
         </p>
       )}
       <Button
