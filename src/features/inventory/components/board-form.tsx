@@ -1,17 +1,14 @@
-import { useState, type FormEvent } from "react";
+import { useState } from "react";
+import { z } from "zod";
 import { Button } from "../../../components/button";
 import { SelectField, TextArea, TextField } from "../../../components/field";
-import { EARTHING, EARTHING_LABELS, type Earthing } from "../../../domain/vocab";
-import { ApiError } from "../../../lib/api-client";
-import type { CreateBoardBody } from "../../../schemas/inventory";
+import { EARTHING, EARTHING_LABELS } from "../../../domain/vocab";
+import { fieldError, formMessage, numberText, showSaveError, useSchemaForm } from "../../../lib/form";
+import { createBoardBody } from "../../../schemas/inventory";
 import { useCreateBoard, useUpdateBoard } from "../api";
 import type { Board } from "../contract";
 import { ConflictNotice, conflictRecord } from "./conflict-notice";
 
-type TextKey = "name" | "location" | "drawingRef" | "notes";
-type NumberKey =
-  "nominalVolts" | "frequencyHz" | "yearBuilt" | "faceHeightMm" | "waterLineMm" | "gridRows" | "gridCols";
-type Draft = Record<TextKey | NumberKey, string> & { phases: "1" | "3"; earthing: Earthing };
 const LABELS: Record<string, string> = {
   name: "Name",
   location: "Location",
@@ -27,6 +24,30 @@ const LABELS: Record<string, string> = {
   gridCols: "Grid columns",
   notes: "Notes",
 };
+
+/**
+ * The form's text → the request body; createBoardBody (the server's own schema) validates it.
+ * An edit sends every field, so the same schema holds for it; the version is the record's, added on sending.
+ */
+const boardForm = z
+  .object({
+    name: z.string(),
+    location: z.string(),
+    drawingRef: z.string(),
+    notes: z.string(),
+    nominalVolts: numberText,
+    frequencyHz: numberText,
+    yearBuilt: numberText,
+    faceHeightMm: numberText,
+    waterLineMm: numberText,
+    gridRows: numberText,
+    gridCols: numberText,
+    phases: numberText,
+    earthing: z.string(),
+  })
+  .transform((v) => v as z.input<typeof createBoardBody>)
+  .pipe(createBoardBody);
+type Draft = z.input<typeof boardForm>;
 const s = (v: number | null | undefined) => (v == null ? "" : String(v));
 const toDraft = (b?: Board | null): Draft => ({
   name: b?.name ?? "",
@@ -40,89 +61,87 @@ const toDraft = (b?: Board | null): Draft => ({
   waterLineMm: s(b?.waterLineMm),
   gridRows: s(b?.gridRows ?? 6),
   gridCols: s(b?.gridCols ?? 12),
-  phases: String(b?.phases ?? 3) as "1" | "3",
+  phases: String(b?.phases ?? 3),
   earthing: b?.earthing ?? "ungrounded",
 });
-function toBody(d: Draft): CreateBoardBody {
-  const n = (v: string) => (v.trim() === "" ? null : Number(v));
-  return {
-    name: d.name,
-    location: d.location,
-    drawingRef: d.drawingRef,
-    notes: d.notes,
-    nominalVolts: Number(d.nominalVolts),
-    frequencyHz: Number(d.frequencyHz),
-    phases: Number(d.phases) as 1 | 3,
-    earthing: d.earthing,
-    yearBuilt: n(d.yearBuilt),
-    faceHeightMm: n(d.faceHeightMm),
-    waterLineMm: n(d.waterLineMm),
-    gridRows: Number(d.gridRows),
-    gridCols: Number(d.gridCols),
-  };
-}
 
 /** The board's own facts and its elevation grid; a new board when `board` is absent. */
 export function BoardForm({ siteId, board, onSaved }: { siteId: string; board?: Board; onSaved?: (b: Board) => void }) {
+  // The record the form started from (its version goes with the save): not an input.
   const [base, setBase] = useState<Board | undefined>(board);
-  const [d, setD] = useState<Draft>(toDraft(board));
+  const form = useSchemaForm(boardForm, toDraft(board));
+  const { register, formState } = form;
+  const errors = formState.errors;
+  const e = (name: keyof Draft) => fieldError(errors, name);
   const create = useCreateBoard(siteId);
   const update = useUpdateBoard(siteId, board?.id ?? "");
   const m = base ? update : create;
   const conflict = conflictRecord<Board>(update.error);
-  const fields = m.error instanceof ApiError ? m.error.fields : {};
-  const bind = (k: keyof Draft) => ({
-    value: d[k],
-    onChange: (e: { target: { value: string } }) => setD({ ...d, [k]: e.target.value }),
-    error: fields[k],
-  });
+  // A stale version shows as the conflict notice below, not as a message.
+  const message = conflict ? null : formMessage(errors);
   const done = (b: Board) => {
     setBase(b);
-    setD(toDraft(b));
+    form.reset(toDraft(b));
     onSaved?.(b);
   };
 
-  function save(version?: number) {
-    if (base) update.mutate({ ...toBody(d), version: version ?? base.version }, { onSuccess: done });
-    else create.mutate(toBody(d), { onSuccess: done });
-  }
-  const submit = (e: FormEvent) => {
-    e.preventDefault();
-    save();
-  };
+  const save = (version?: number) =>
+    form.handleSubmit((body) =>
+      (base ? update.mutateAsync({ ...body, version: version ?? base.version }) : create.mutateAsync(body)).then(
+        done,
+        (err: unknown) => {
+          if (!conflictRecord(err)) showSaveError(form, err);
+        },
+      ),
+    )();
   return (
     <form
-      onSubmit={submit}
+      onSubmit={(ev) => {
+        ev.preventDefault();
+        void save();
+      }}
+      noValidate
       aria-label="Board"
       className="grid gap-3 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700 sm:grid-cols-2 lg:grid-cols-4"
     >
-      <TextField className="sm:col-span-2" label={LABELS.name} required {...bind("name")} />
-      <TextField className="sm:col-span-2" label={LABELS.location} {...bind("location")} />
-      <TextField label={LABELS.nominalVolts} inputMode="numeric" {...bind("nominalVolts")} />
-      <SelectField label={LABELS.phases} {...bind("phases")}>
+      <TextField className="sm:col-span-2" label={LABELS.name} required {...register("name")} error={e("name")} />
+      <TextField className="sm:col-span-2" label={LABELS.location} {...register("location")} error={e("location")} />
+      <TextField
+        label={LABELS.nominalVolts}
+        inputMode="numeric"
+        {...register("nominalVolts")}
+        error={e("nominalVolts")}
+      />
+      <SelectField label={LABELS.phases} {...register("phases")} error={e("phases")}>
         <option value="3">3-phase</option>
         <option value="1">1-phase</option>
       </SelectField>
-      <TextField label={LABELS.frequencyHz} inputMode="numeric" {...bind("frequencyHz")} />
-      <SelectField label={LABELS.earthing} {...bind("earthing")}>
+      <TextField label={LABELS.frequencyHz} inputMode="numeric" {...register("frequencyHz")} error={e("frequencyHz")} />
+      <SelectField label={LABELS.earthing} {...register("earthing")} error={e("earthing")}>
         {EARTHING.map((x) => (
           <option key={x} value={x}>
             {EARTHING_LABELS[x]}
           </option>
         ))}
       </SelectField>
-      <TextField label={LABELS.yearBuilt} inputMode="numeric" {...bind("yearBuilt")} />
-      <TextField label={LABELS.drawingRef} {...bind("drawingRef")} />
-      <TextField label={LABELS.faceHeightMm} inputMode="numeric" {...bind("faceHeightMm")} />
+      <TextField label={LABELS.yearBuilt} inputMode="numeric" {...register("yearBuilt")} error={e("yearBuilt")} />
+      <TextField label={LABELS.drawingRef} {...register("drawingRef")} error={e("drawingRef")} />
+      <TextField
+        label={LABELS.faceHeightMm}
+        inputMode="numeric"
+        {...register("faceHeightMm")}
+        error={e("faceHeightMm")}
+      />
       <TextField
         label={LABELS.waterLineMm}
         inputMode="numeric"
-        {...bind("waterLineMm")}
+        {...register("waterLineMm")}
+        error={e("waterLineMm")}
         hint="The flood mark, measured up from the bottom of the face."
       />
-      <TextField label={LABELS.gridRows} inputMode="numeric" {...bind("gridRows")} />
-      <TextField label={LABELS.gridCols} inputMode="numeric" {...bind("gridCols")} />
-      <TextArea className="sm:col-span-2" label={LABELS.notes} {...bind("notes")} />
+      <TextField label={LABELS.gridRows} inputMode="numeric" {...register("gridRows")} error={e("gridRows")} />
+      <TextField label={LABELS.gridCols} inputMode="numeric" {...register("gridCols")} error={e("gridCols")} />
+      <TextArea className="sm:col-span-2" label={LABELS.notes} {...register("notes")} error={e("notes")} />
       {conflict && base && (
         <div className="sm:col-span-2 lg:col-span-4">
           <ConflictNotice
@@ -132,19 +151,19 @@ export function BoardForm({ siteId, board, onSaved }: { siteId: string; board?: 
             busy={update.isPending}
             onUseTheirs={() => {
               setBase(conflict);
-              setD(toDraft(conflict));
+              form.reset(toDraft(conflict));
               update.reset();
             }}
             onApplyMine={() => {
               setBase(conflict);
-              save(conflict.version);
+              void save(conflict.version);
             }}
           />
         </div>
       )}
-      {m.isError && !conflict && (
+      {message && (
         <p role="alert" className="text-sm text-flare-300 sm:col-span-2 lg:col-span-4">
-          {m.error.message}
+          {message}
         </p>
       )}
       {m.isSuccess && (

@@ -1,8 +1,10 @@
-import { useState, type FormEvent } from "react";
+import { useMemo, useState } from "react";
+import { z } from "zod";
 import { Button } from "../../../components/button";
 import { TextArea } from "../../../components/field";
 import { DISPOSITION_LABELS, DISPOSITIONS, type Disposition } from "../../../domain/vocab";
-import { ApiError } from "../../../lib/api-client";
+import { fieldError, hasFieldErrors, serverMessage, showSaveError, useSchemaForm } from "../../../lib/form";
+import { dispositionBody } from "../../../schemas/inventory";
 import { useDecideDisposition } from "../api";
 import type { Component, RecommendationResponse } from "../contract";
 import { ConflictNotice, conflictRecord } from "./conflict-notice";
@@ -13,6 +15,29 @@ const LABELS = {
   dispositionReason: "Reason",
   dispositionOverridden: "Overrides the recommendation",
 };
+
+/**
+ * The form's values → the request body (without the version: the record's, added on sending);
+ * dispositionBody (the server's own schema) validates it, and what the form asks beyond it, a reason
+ * for going against the recommendation, is a further part of the same schema (the server asks it too).
+ */
+const dispositionForm = (recommended: Disposition | null) =>
+  z
+    .object({ disposition: z.string().nullable(), reason: z.string() })
+    .transform(
+      (v) =>
+        ({ disposition: v.disposition ?? "", reason: v.reason }) as Omit<z.input<typeof dispositionBody>, "version">,
+    )
+    .pipe(
+      dispositionBody.omit({ version: true }).and(
+        z
+          .object({ disposition: z.string(), reason: z.string() })
+          .refine((b) => !recommended || b.disposition === recommended || b.reason.trim() !== "", {
+            message: "Say why you are overriding the recommendation",
+            path: ["reason"],
+          }),
+      ),
+    );
 
 function Recommendation({ rec }: { rec: RecommendationResponse | null }) {
   const r = rec?.recommendation;
@@ -56,10 +81,13 @@ export function DispositionControl({
   canDecide: boolean;
 }) {
   const recommended = recommendation?.recommendation?.disposition ?? null;
+  // The record the form started from (its version goes with the save): not an input.
   const [base, setBase] = useState<Component>(component);
-  const [choice, setChoice] = useState<Disposition | null>(component.disposition ?? recommended);
-  const [reason, setReason] = useState("");
-  const [fieldError, setFieldError] = useState<string | undefined>();
+  const schema = useMemo(() => dispositionForm(recommended), [recommended]);
+  const form = useSchemaForm(schema, { disposition: component.disposition ?? recommended, reason: "" });
+  const { register, formState } = form;
+  const errors = formState.errors;
+  const [choice, reason] = form.watch(["disposition", "reason"]);
   const decide = useDecideDisposition(siteId);
   const conflict = conflictRecord<Component>(decide.error);
   // A newer version that changed no disposition field (e.g. a custody move) is adopted quietly;
@@ -69,31 +97,21 @@ export function DispositionControl({
     component.disposition === base.disposition && component.dispositionReason === base.dispositionReason;
   if (component.version > base.version && sameDecision && !decide.isPending) setBase(component);
   const overriding = !!choice && !!recommended && choice !== recommended;
+  // The reason's message speaks for itself; a stale version shows as the conflict notice below.
+  const message = conflict || hasFieldErrors(errors) ? null : serverMessage(errors);
 
-  function save(version: number) {
-    if (!choice) return;
-    if (overriding && !reason.trim()) {
-      setFieldError("Say why you are overriding the recommendation");
-      return;
-    }
-    setFieldError(undefined);
-    decide.mutate(
-      { componentId: component.id, disposition: choice, reason: reason.trim(), version },
-      {
-        onSuccess: (r) => {
+  const save = (version: number) =>
+    form.handleSubmit((body) =>
+      decide.mutateAsync({ componentId: component.id, ...body, version }).then(
+        (r) => {
           setBase(r.component);
-          setReason("");
+          form.setValue("reason", "");
         },
-        onError: (e) => {
-          if (e instanceof ApiError && e.fields.reason) setFieldError(e.fields.reason);
+        (err: unknown) => {
+          if (!conflictRecord(err)) showSaveError(form, err);
         },
-      },
-    );
-  }
-  const submit = (e: FormEvent) => {
-    e.preventDefault();
-    save(base.version);
-  };
+      ),
+    )();
 
   return (
     <section aria-labelledby="disp-title" className="space-y-3">
@@ -109,7 +127,15 @@ export function DispositionControl({
       </p>
       <Recommendation rec={recommendation} />
       {canDecide && (
-        <form onSubmit={submit} className="space-y-3" aria-label="Decide the disposition">
+        <form
+          onSubmit={(ev) => {
+            ev.preventDefault();
+            void save(base.version);
+          }}
+          noValidate
+          className="space-y-3"
+          aria-label="Decide the disposition"
+        >
           <fieldset>
             <legend className="text-sm font-semibold text-mist">Decide</legend>
             <div className="mt-1 grid grid-cols-2 gap-2">
@@ -118,14 +144,7 @@ export function DispositionControl({
                   key={d}
                   className={`flex min-h-11 cursor-pointer items-center gap-2 rounded-md border px-3 ${choice === d ? "border-brass-300 bg-hull-700" : "border-hull-600"}`}
                 >
-                  <input
-                    type="radio"
-                    name="disposition"
-                    value={d}
-                    checked={choice === d}
-                    onChange={() => setChoice(d)}
-                    className="h-4 w-4 accent-brass-400"
-                  />
+                  <input type="radio" {...register("disposition")} value={d} className="h-4 w-4 accent-brass-400" />
                   {DISPOSITION_LABELS[d]}
                   {d === recommended && <span className="text-xs text-fog">(recommended)</span>}
                 </label>
@@ -135,9 +154,8 @@ export function DispositionControl({
           {overriding && (
             <TextArea
               label="Why override the recommendation? (recorded)"
-              value={reason}
-              onChange={(e) => setReason(e.target.value)}
-              error={fieldError}
+              {...register("reason")}
+              error={fieldError(errors, "reason")}
               hint="E.g. keep original fabric: rebuild under a qualified person instead of replacing."
             />
           )}
@@ -149,19 +167,18 @@ export function DispositionControl({
               busy={decide.isPending}
               onUseTheirs={() => {
                 setBase(conflict);
-                setChoice(conflict.disposition);
-                setReason("");
+                form.reset({ disposition: conflict.disposition, reason: "" });
                 decide.reset();
               }}
               onApplyMine={() => {
                 setBase(conflict);
-                save(conflict.version);
+                void save(conflict.version);
               }}
             />
           )}
-          {decide.isError && !conflict && !fieldError && (
+          {message && (
             <p role="alert" className="text-sm text-flare-300">
-              {(decide.error as Error).message}
+              {message}
             </p>
           )}
           {decide.isSuccess && (

@@ -1,19 +1,14 @@
-import { useState, type FormEvent } from "react";
+import { useState } from "react";
+import { z } from "zod";
 import { Button } from "../../../components/button";
 import { SelectField, TextArea, TextField } from "../../../components/field";
-import { WATER_TYPE_LABELS, WATER_TYPES, type WaterType } from "../../../domain/vocab";
-import { ApiError } from "../../../lib/api-client";
+import { WATER_TYPE_LABELS, WATER_TYPES } from "../../../domain/vocab";
+import { fieldError, formMessage, numberText, showSaveError, useSchemaForm } from "../../../lib/form";
+import { createFloodEventBody } from "../../../schemas/inventory";
 import { useFloodEventMutations } from "../api";
 import type { FloodEvent } from "../contract";
 import { ConflictNotice, conflictRecord } from "./conflict-notice";
 
-interface Draft {
-  occurredOn: string;
-  waterType: WaterType;
-  maxDepthM: string;
-  hoursSubmerged: string;
-  notes: string;
-}
 const LABELS = {
   occurredOn: "Date",
   waterType: "Water",
@@ -21,6 +16,22 @@ const LABELS = {
   hoursSubmerged: "Hours submerged",
   notes: "Notes",
 };
+
+/**
+ * The form's text → the request body; createFloodEventBody (the server's own schema) validates it.
+ * A correction sends every field, so the same schema holds for it; the version is the record's, added on sending.
+ */
+const floodEventForm = z
+  .object({
+    occurredOn: z.string(),
+    waterType: z.string(),
+    maxDepthM: numberText,
+    hoursSubmerged: numberText,
+    notes: z.string(),
+  })
+  .transform((v) => v as z.input<typeof createFloodEventBody>)
+  .pipe(createFloodEventBody);
+type Draft = z.input<typeof floodEventForm>;
 const toDraft = (e?: FloodEvent | null): Draft => ({
   occurredOn: e?.occurredOn ?? "",
   waterType: e?.waterType ?? "salt",
@@ -28,7 +39,6 @@ const toDraft = (e?: FloodEvent | null): Draft => ({
   hoursSubmerged: e?.hoursSubmerged?.toString() ?? "",
   notes: e?.notes ?? "",
 });
-const numOrNull = (s: string) => (s.trim() === "" ? null : Number(s));
 
 /** Records (or corrects) the site's flood: the water type drives every recommendation. */
 export function FloodEventForm({
@@ -40,64 +50,49 @@ export function FloodEventForm({
   event?: FloodEvent | null;
   onDone?: () => void;
 }) {
+  // The record the form started from (its version goes with the save): not an input.
   const [base, setBase] = useState<FloodEvent | null>(event ?? null);
-  const [d, setD] = useState<Draft>(toDraft(event));
+  const form = useSchemaForm(floodEventForm, toDraft(event));
+  const { register, formState } = form;
+  const errors = formState.errors;
+  const e = (name: keyof Draft) => fieldError(errors, name);
   const m = useFloodEventMutations(siteId);
   const active = base ? m.update : m.create;
   const conflict = conflictRecord<FloodEvent>(m.update.error);
-  const fields = active.error instanceof ApiError ? active.error.fields : {};
-  const set = (k: keyof Draft) => (e: { target: { value: string } }) => setD({ ...d, [k]: e.target.value });
+  // A stale version shows as the conflict notice below, not as a message.
+  const message = conflict ? null : formMessage(errors);
 
-  function save(version?: number) {
-    const body = {
-      occurredOn: d.occurredOn,
-      waterType: d.waterType,
-      maxDepthM: numOrNull(d.maxDepthM),
-      hoursSubmerged: numOrNull(d.hoursSubmerged),
-      notes: d.notes,
-    };
-    if (base)
-      m.update.mutate(
-        { id: base.id, version: version ?? base.version, ...body },
-        {
-          onSuccess: (r) => {
-            setBase(r);
-            onDone?.();
-          },
-        },
-      );
-    else
-      m.create.mutate(body, {
-        onSuccess: (r) => {
+  const save = (version?: number) =>
+    form.handleSubmit((body) =>
+      (base
+        ? m.update.mutateAsync({ id: base.id, version: version ?? base.version, ...body })
+        : m.create.mutateAsync(body)
+      ).then(
+        (r) => {
           setBase(r);
           onDone?.();
         },
-      });
-  }
-  const submit = (e: FormEvent) => {
-    e.preventDefault();
-    save();
-  };
+        (err: unknown) => {
+          if (!conflictRecord(err)) showSaveError(form, err);
+        },
+      ),
+    )();
 
   return (
     <form
-      onSubmit={submit}
+      onSubmit={(ev) => {
+        ev.preventDefault();
+        void save();
+      }}
+      noValidate
       className="grid gap-3 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700 sm:grid-cols-2"
       aria-label="Flood event"
     >
-      <TextField
-        label="Date of the flood"
-        type="date"
-        required
-        value={d.occurredOn}
-        onChange={set("occurredOn")}
-        error={fields.occurredOn}
-      />
+      <TextField label="Date of the flood" type="date" required {...register("occurredOn")} error={e("occurredOn")} />
       <SelectField
         label="Water"
-        value={d.waterType}
-        onChange={set("waterType")}
-        error={fields.waterType}
+        {...register("waterType")}
+        error={e("waterType")}
         hint="Salt, brackish and sewage water leave corrosive, conductive residue."
       >
         {WATER_TYPES.map((w) => (
@@ -106,21 +101,14 @@ export function FloodEventForm({
           </option>
         ))}
       </SelectField>
-      <TextField
-        label="Deepest water (m)"
-        inputMode="decimal"
-        value={d.maxDepthM}
-        onChange={set("maxDepthM")}
-        error={fields.maxDepthM}
-      />
+      <TextField label="Deepest water (m)" inputMode="decimal" {...register("maxDepthM")} error={e("maxDepthM")} />
       <TextField
         label="Hours submerged"
         inputMode="decimal"
-        value={d.hoursSubmerged}
-        onChange={set("hoursSubmerged")}
-        error={fields.hoursSubmerged}
+        {...register("hoursSubmerged")}
+        error={e("hoursSubmerged")}
       />
-      <TextArea className="sm:col-span-2" label="Notes" value={d.notes} onChange={set("notes")} error={fields.notes} />
+      <TextArea className="sm:col-span-2" label="Notes" {...register("notes")} error={e("notes")} />
       {conflict && base && (
         <div className="sm:col-span-2">
           <ConflictNotice
@@ -130,19 +118,19 @@ export function FloodEventForm({
             busy={m.update.isPending}
             onUseTheirs={() => {
               setBase(conflict);
-              setD(toDraft(conflict));
+              form.reset(toDraft(conflict));
               m.update.reset();
             }}
             onApplyMine={() => {
               setBase(conflict);
-              save(conflict.version);
+              void save(conflict.version);
             }}
           />
         </div>
       )}
-      {active.isError && !conflict && (
+      {message && (
         <p role="alert" className="text-sm text-flare-300 sm:col-span-2">
-          {active.error.message}
+          {message}
         </p>
       )}
       {active.isSuccess && (

@@ -1,10 +1,26 @@
-import { useState, type FormEvent } from "react";
+import { z } from "zod";
 import { Button } from "../../../components/button";
 import { SelectField, TextField } from "../../../components/field";
-import { COMPONENT_KIND_LABELS, COMPONENT_KINDS, type ComponentKind } from "../../../domain/vocab";
-import { ApiError } from "../../../lib/api-client";
+import { COMPONENT_KIND_LABELS, COMPONENT_KINDS } from "../../../domain/vocab";
+import { blankAsNull, fieldError, formMessage, numberText, showSaveError, useSchemaForm } from "../../../lib/form";
+import { generatePositionsBody } from "../../../schemas/inventory";
 import { usePositionMutations } from "../api";
 import type { Section } from "../contract";
+
+/** The form's text → the request body; generatePositionsBody (the server's own schema) validates it. */
+const generateForm = z
+  .object({
+    prefix: z.string(),
+    from: numberText,
+    to: numberText,
+    gridRow: numberText,
+    startCol: numberText,
+    kind: z.string(),
+    sectionId: blankAsNull,
+  })
+  .transform((v) => v as z.input<typeof generatePositionsBody>)
+  .pipe(generatePositionsBody);
+type GenerateFormValues = z.input<typeof generateForm>;
 
 /** Creates a whole row at once: "1-1" … "1-12" left to right on one grid row. */
 export function GeneratePositions({
@@ -19,60 +35,56 @@ export function GeneratePositions({
   gridRows: number;
 }) {
   const m = usePositionMutations(siteId, boardId);
-  const [d, setD] = useState({
+  const form = useSchemaForm(generateForm, {
     prefix: "1-",
     from: "1",
     to: "12",
     gridRow: "1",
     startCol: "1",
-    kind: "molded_case_breaker" as ComponentKind,
+    kind: "molded_case_breaker",
     sectionId: "",
   });
-  const fields = m.generate.error instanceof ApiError ? m.generate.error.fields : {};
-  const bind = (k: keyof typeof d) => ({
-    value: d[k],
-    onChange: (e: { target: { value: string } }) => setD({ ...d, [k]: e.target.value }),
-    error: fields[k],
-  });
-  const from = Number(d.from),
-    to = Number(d.to);
+  const { register, formState } = form;
+  const errors = formState.errors;
+  const e = (name: keyof GenerateFormValues) => fieldError(errors, name);
+  const message = formMessage(errors);
+  const [prefix, fromText, toText] = form.watch(["prefix", "from", "to"]);
+  const from = Number(fromText),
+    to = Number(toText);
   const sample =
-    Number.isInteger(from) && Number.isInteger(to) && to >= from
-      ? `${d.prefix}${from} … ${d.prefix}${to} (${to - from + 1})`
+    fromText.trim() && toText.trim() && Number.isInteger(from) && Number.isInteger(to) && to >= from
+      ? `${prefix}${from} … ${prefix}${to} (${to - from + 1})`
       : "";
-  function submit(e: FormEvent) {
-    e.preventDefault();
-    m.generate.mutate({
-      prefix: d.prefix,
-      from,
-      to,
-      gridRow: Number(d.gridRow),
-      startCol: Number(d.startCol),
-      kind: d.kind,
-      sectionId: d.sectionId || null,
-    });
-  }
+  const submit = form.handleSubmit((body) =>
+    m.generate.mutateAsync(body).catch((err: unknown) => showSaveError(form, err)),
+  );
   return (
     <form
-      onSubmit={submit}
+      onSubmit={(ev) => void submit(ev)}
+      noValidate
       aria-label="Generate a row of positions"
       className="rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700"
     >
       <h2 className="text-lg font-bold">Generate a row</h2>
       <div className="mt-2 grid grid-cols-2 gap-3 sm:grid-cols-4 lg:grid-cols-7">
-        <TextField label="Prefix" className="[&_input]:font-mono" {...bind("prefix")} />
-        <TextField label="From" inputMode="numeric" {...bind("from")} />
-        <TextField label="To" inputMode="numeric" {...bind("to")} />
-        <TextField label={`Grid row (1–${gridRows})`} inputMode="numeric" {...bind("gridRow")} />
-        <TextField label="Starting column" inputMode="numeric" {...bind("startCol")} />
-        <SelectField label="Kind" {...bind("kind")}>
+        <TextField label="Prefix" className="[&_input]:font-mono" {...register("prefix")} error={e("prefix")} />
+        <TextField label="From" inputMode="numeric" {...register("from")} error={e("from")} />
+        <TextField label="To" inputMode="numeric" {...register("to")} error={e("to")} />
+        <TextField
+          label={`Grid row (1–${gridRows})`}
+          inputMode="numeric"
+          {...register("gridRow")}
+          error={e("gridRow")}
+        />
+        <TextField label="Starting column" inputMode="numeric" {...register("startCol")} error={e("startCol")} />
+        <SelectField label="Kind" {...register("kind")} error={e("kind")}>
           {COMPONENT_KINDS.map((k) => (
             <option key={k} value={k}>
               {COMPONENT_KIND_LABELS[k]}
             </option>
           ))}
         </SelectField>
-        <SelectField label="Section" {...bind("sectionId")}>
+        <SelectField label="Section" {...register("sectionId")} error={e("sectionId")}>
           <option value="">No section</option>
           {sections.map((s) => (
             <option key={s.id} value={s.id}>
@@ -90,9 +102,9 @@ export function GeneratePositions({
             Created {m.generate.data.positions.length} positions.
           </p>
         )}
-        {m.generate.isError && (
+        {message && (
           <p role="alert" className="text-sm text-flare-300">
-            {m.generate.error.message}
+            {message}
           </p>
         )}
       </div>

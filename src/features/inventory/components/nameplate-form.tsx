@@ -1,77 +1,97 @@
-import { useState, type FormEvent } from "react";
+import { useMemo, useState } from "react";
+import { z } from "zod";
 import { Button } from "../../../components/button";
 import { SelectField, TextArea, TextField } from "../../../components/field";
-import { HERITAGE, HERITAGE_LABELS, type Heritage } from "../../../domain/vocab";
-import { ApiError } from "../../../lib/api-client";
-import type { PatchComponentBody } from "../../../schemas/inventory";
+import { HERITAGE, HERITAGE_LABELS, type ComponentKind } from "../../../domain/vocab";
+import { fieldError, formMessage, numberText, showSaveError, useSchemaForm } from "../../../lib/form";
+import { patchComponentBody } from "../../../schemas/inventory";
 import { useUpdateComponent } from "../api";
 import type { Component } from "../contract";
 import { ConflictNotice, conflictRecord } from "./conflict-notice";
 import { NAMEPLATE_LABELS, NUMERIC_NAMEPLATE, nameplateFieldsFor, type NameplateKey } from "./nameplate-fields";
 
-type Draft = Record<NameplateKey | "tagNumber" | "notes", string> & { heritage: Heritage };
 const ALL_LABELS: Record<string, string> = {
   ...NAMEPLATE_LABELS,
   heritage: "Heritage",
   tagNumber: "Tag number",
   notes: "Notes",
 };
+const KEYS = Object.keys(NAMEPLATE_LABELS) as NameplateKey[];
+
+/**
+ * The form's text → the PATCH body (without the version: the record's, added on sending);
+ * patchComponentBody (the server's own schema) validates it. Only the nameplate fields of the
+ * component's kind go, with heritage, tag and notes.
+ */
+const nameplateForm = (kind: ComponentKind) =>
+  z
+    .object({
+      ...(Object.fromEntries(KEYS.map((k) => [k, NUMERIC_NAMEPLATE.has(k) ? numberText : z.string()])) as Record<
+        NameplateKey,
+        typeof numberText | z.ZodString
+      >),
+      heritage: z.string(),
+      tagNumber: z.string(),
+      notes: z.string(),
+    })
+    .transform((v) => {
+      const body: Record<string, unknown> = { heritage: v.heritage, tagNumber: v.tagNumber, notes: v.notes };
+      for (const k of nameplateFieldsFor(kind)) body[k] = v[k];
+      return body as Omit<z.input<typeof patchComponentBody>, "version">;
+    })
+    .pipe(patchComponentBody.omit({ version: true }));
+type Draft = Record<NameplateKey | "heritage" | "tagNumber" | "notes", string>;
 const toDraft = (c: Component): Draft => {
   const d = { heritage: c.heritage, tagNumber: c.tagNumber ?? "", notes: c.notes } as Draft;
-  for (const k of Object.keys(NAMEPLATE_LABELS) as NameplateKey[]) d[k] = c[k] == null ? "" : String(c[k]);
+  for (const k of KEYS) d[k] = c[k] == null ? "" : String(c[k]);
   return d;
 };
 
-/** Nameplate fields for this kind only, plus heritage and the tag. */
-function toBody(d: Draft, c: Component, version: number): PatchComponentBody {
-  const body: Record<string, unknown> = {
-    version,
-    heritage: d.heritage,
-    tagNumber: d.tagNumber.trim(),
-    notes: d.notes,
-  };
-  for (const k of nameplateFieldsFor(c.kind))
-    body[k] = NUMERIC_NAMEPLATE.has(k) ? (d[k].trim() === "" ? null : Number(d[k])) : d[k];
-  return body as PatchComponentBody;
-}
-
 export function NameplateForm({ siteId, component }: { siteId: string; component: Component }) {
+  // The record the form started from (its version goes with the save): not an input.
   const [base, setBase] = useState(component);
-  const [d, setD] = useState<Draft>(toDraft(component));
+  const schema = useMemo(() => nameplateForm(base.kind), [base.kind]);
+  const form = useSchemaForm(schema, toDraft(component));
+  const { register, formState } = form;
+  const errors = formState.errors;
+  const e = (name: keyof Draft) => fieldError(errors, name);
   const m = useUpdateComponent(siteId);
   const conflict = conflictRecord<Component>(m.error);
-  const fields = m.error instanceof ApiError ? m.error.fields : {};
-  const bind = (k: keyof Draft) => ({
-    value: d[k],
-    onChange: (e: { target: { value: string } }) => setD({ ...d, [k]: e.target.value }),
-    error: fields[k],
-  });
+  // A stale version shows as the conflict notice below, not as a message.
+  const message = conflict ? null : formMessage(errors);
   const save = (version: number) =>
-    m.mutate(
-      { id: base.id, ...toBody(d, base, version) },
-      {
-        onSuccess: (c) => {
+    form.handleSubmit((body) =>
+      m.mutateAsync({ id: base.id, ...body, version }).then(
+        (c) => {
           setBase(c);
-          setD(toDraft(c));
+          form.reset(toDraft(c));
         },
-      },
-    );
-  const submit = (e: FormEvent) => {
-    e.preventDefault();
-    save(base.version);
-  };
+        (err: unknown) => {
+          if (!conflictRecord(err)) showSaveError(form, err);
+        },
+      ),
+    )();
   return (
-    <form onSubmit={submit} aria-label="Nameplate" className="grid grid-cols-2 gap-3">
+    <form
+      onSubmit={(ev) => {
+        ev.preventDefault();
+        void save(base.version);
+      }}
+      noValidate
+      aria-label="Nameplate"
+      className="grid grid-cols-2 gap-3"
+    >
       {nameplateFieldsFor(base.kind).map((k) => (
         <TextField
           key={k}
           label={NAMEPLATE_LABELS[k]}
           inputMode={NUMERIC_NAMEPLATE.has(k) ? "decimal" : undefined}
           className={k === "maker" || k === "model" ? "col-span-2" : ""}
-          {...bind(k)}
+          {...register(k)}
+          error={e(k)}
         />
       ))}
-      <SelectField label="Heritage" className="col-span-2" {...bind("heritage")}>
+      <SelectField label="Heritage" className="col-span-2" {...register("heritage")} error={e("heritage")}>
         {HERITAGE.map((h) => (
           <option key={h} value={h}>
             {HERITAGE_LABELS[h]}
@@ -81,10 +101,11 @@ export function NameplateForm({ siteId, component }: { siteId: string; component
       <TextField
         label="Tag number"
         className="[&_input]:font-mono"
-        {...bind("tagNumber")}
+        {...register("tagNumber")}
+        error={e("tagNumber")}
         hint="Empty clears the tag."
       />
-      <TextArea label="Notes" className="col-span-2" {...bind("notes")} />
+      <TextArea label="Notes" className="col-span-2" {...register("notes")} error={e("notes")} />
       {conflict && (
         <div className="col-span-2">
           <ConflictNotice
@@ -94,19 +115,19 @@ export function NameplateForm({ siteId, component }: { siteId: string; component
             busy={m.isPending}
             onUseTheirs={() => {
               setBase(conflict);
-              setD(toDraft(conflict));
+              form.reset(toDraft(conflict));
               m.reset();
             }}
             onApplyMine={() => {
               setBase(conflict);
-              save(conflict.version);
+              void save(conflict.version);
             }}
           />
         </div>
       )}
-      {m.isError && !conflict && (
+      {message && (
         <p role="alert" className="col-span-2 text-sm text-flare-300">
-          {m.error.message}
+          {message}
         </p>
       )}
       {m.isSuccess && (

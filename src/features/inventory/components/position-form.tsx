@@ -1,9 +1,10 @@
-import { useState, type FormEvent } from "react";
+import { useState } from "react";
+import { z } from "zod";
 import { Button } from "../../../components/button";
 import { SelectField, TextField } from "../../../components/field";
-import { COMPONENT_KIND_LABELS, COMPONENT_KINDS, type ComponentKind } from "../../../domain/vocab";
-import { ApiError } from "../../../lib/api-client";
-import type { CreatePositionBody } from "../../../schemas/inventory";
+import { COMPONENT_KIND_LABELS, COMPONENT_KINDS } from "../../../domain/vocab";
+import { blankAsNull, fieldError, formMessage, numberText, showSaveError, useSchemaForm } from "../../../lib/form";
+import { createPositionBody } from "../../../schemas/inventory";
 import { usePositionMutations } from "../api";
 import type { Section, TileRow } from "../contract";
 import { ConflictNotice, conflictRecord } from "./conflict-notice";
@@ -12,16 +13,6 @@ type P = Pick<
   TileRow,
   "id" | "designation" | "kind" | "gridRow" | "gridCol" | "rowSpan" | "colSpan" | "circuit" | "sectionId" | "version"
 >;
-interface Draft {
-  designation: string;
-  kind: ComponentKind;
-  gridRow: string;
-  gridCol: string;
-  rowSpan: string;
-  colSpan: string;
-  circuit: string;
-  sectionId: string;
-}
 const LABELS = {
   designation: "Designation",
   kind: "Kind",
@@ -32,6 +23,25 @@ const LABELS = {
   circuit: "Circuit fed",
   sectionId: "Section",
 };
+
+/**
+ * The form's text → the request body; createPositionBody (the server's own schema) validates it.
+ * An edit sends every field, so the same schema holds for it; the version is the record's, added on sending.
+ */
+const positionForm = z
+  .object({
+    designation: z.string(),
+    kind: z.string(),
+    gridRow: numberText,
+    gridCol: numberText,
+    rowSpan: numberText,
+    colSpan: numberText,
+    circuit: z.string(),
+    sectionId: blankAsNull,
+  })
+  .transform((v) => v as z.input<typeof createPositionBody>)
+  .pipe(createPositionBody);
+type Draft = z.input<typeof positionForm>;
 const toDraft = (p?: P | null): Draft => ({
   designation: p?.designation ?? "",
   kind: p?.kind ?? "molded_case_breaker",
@@ -41,16 +51,6 @@ const toDraft = (p?: P | null): Draft => ({
   colSpan: String(p?.colSpan ?? 1),
   circuit: p?.circuit ?? "",
   sectionId: p?.sectionId ?? "",
-});
-const toBody = (d: Draft): CreatePositionBody => ({
-  designation: d.designation,
-  kind: d.kind,
-  gridRow: Number(d.gridRow),
-  gridCol: Number(d.gridCol),
-  rowSpan: Number(d.rowSpan),
-  colSpan: Number(d.colSpan),
-  circuit: d.circuit,
-  sectionId: d.sectionId || null,
 });
 
 /** Edit one position (or add one when `position` is null): where it sits on the grid and what it feeds. */
@@ -67,61 +67,63 @@ export function PositionForm({
   sections: Section[];
   onDone?: (deleted?: boolean) => void;
 }) {
+  // The record the form started from (its version goes with the save): not an input.
   const [base, setBase] = useState<P | null>(position);
-  const [d, setD] = useState<Draft>(toDraft(position));
+  const form = useSchemaForm(positionForm, toDraft(position));
+  const { register, formState } = form;
+  const errors = formState.errors;
+  const e = (name: keyof Draft) => fieldError(errors, name);
   const m = usePositionMutations(siteId, boardId);
   const active = base ? m.update : m.create;
   const conflict = conflictRecord<P>(m.update.error);
-  const fields = active.error instanceof ApiError ? active.error.fields : {};
-  const bind = (k: keyof Draft) => ({
-    value: d[k],
-    onChange: (e: { target: { value: string } }) => setD({ ...d, [k]: e.target.value }),
-    error: fields[k],
-  });
+  // A stale version shows as the conflict notice below, not as a message.
+  const message = conflict ? null : formMessage(errors);
 
-  function save(version?: number) {
-    if (base)
-      m.update.mutate(
-        { id: base.id, version: version ?? base.version, ...toBody(d) },
-        {
-          onSuccess: (r) => {
+  const save = (version?: number) =>
+    form.handleSubmit((body) => {
+      const sent = base
+        ? m.update.mutateAsync({ id: base.id, version: version ?? base.version, ...body }).then((r) => {
             setBase(r);
             onDone?.();
-          },
-        },
-      );
-    else
-      m.create.mutate(toBody(d), {
-        onSuccess: () => {
-          setD({ ...d, designation: "" });
-          onDone?.();
-        },
+          })
+        : m.create.mutateAsync(body).then(() => {
+            form.setValue("designation", "");
+            onDone?.();
+          });
+      return sent.catch((err: unknown) => {
+        if (!conflictRecord(err)) showSaveError(form, err);
       });
-  }
-  const submit = (e: FormEvent) => {
-    e.preventDefault();
-    save();
-  };
+    })();
   return (
     <form
-      onSubmit={submit}
+      onSubmit={(ev) => {
+        ev.preventDefault();
+        void save();
+      }}
+      noValidate
       aria-label={base ? `Position ${base.designation}` : "Add one position"}
       className="grid grid-cols-2 gap-3"
     >
-      <TextField label={LABELS.designation} className="[&_input]:font-mono" required {...bind("designation")} />
-      <SelectField label={LABELS.kind} {...bind("kind")}>
+      <TextField
+        label={LABELS.designation}
+        className="[&_input]:font-mono"
+        required
+        {...register("designation")}
+        error={e("designation")}
+      />
+      <SelectField label={LABELS.kind} {...register("kind")} error={e("kind")}>
         {COMPONENT_KINDS.map((k) => (
           <option key={k} value={k}>
             {COMPONENT_KIND_LABELS[k]}
           </option>
         ))}
       </SelectField>
-      <TextField label={LABELS.gridRow} inputMode="numeric" {...bind("gridRow")} />
-      <TextField label={LABELS.gridCol} inputMode="numeric" {...bind("gridCol")} />
-      <TextField label={LABELS.rowSpan} inputMode="numeric" {...bind("rowSpan")} />
-      <TextField label={LABELS.colSpan} inputMode="numeric" {...bind("colSpan")} />
-      <TextField label={LABELS.circuit} className="col-span-2" {...bind("circuit")} />
-      <SelectField label={LABELS.sectionId} className="col-span-2" {...bind("sectionId")}>
+      <TextField label={LABELS.gridRow} inputMode="numeric" {...register("gridRow")} error={e("gridRow")} />
+      <TextField label={LABELS.gridCol} inputMode="numeric" {...register("gridCol")} error={e("gridCol")} />
+      <TextField label={LABELS.rowSpan} inputMode="numeric" {...register("rowSpan")} error={e("rowSpan")} />
+      <TextField label={LABELS.colSpan} inputMode="numeric" {...register("colSpan")} error={e("colSpan")} />
+      <TextField label={LABELS.circuit} className="col-span-2" {...register("circuit")} error={e("circuit")} />
+      <SelectField label={LABELS.sectionId} className="col-span-2" {...register("sectionId")} error={e("sectionId")}>
         <option value="">No section</option>
         {sections.map((s) => (
           <option key={s.id} value={s.id}>
@@ -138,19 +140,19 @@ export function PositionForm({
             busy={m.update.isPending}
             onUseTheirs={() => {
               setBase(conflict);
-              setD(toDraft(conflict));
+              form.reset(toDraft(conflict));
               m.update.reset();
             }}
             onApplyMine={() => {
               setBase(conflict);
-              save(conflict.version);
+              void save(conflict.version);
             }}
           />
         </div>
       )}
-      {active.isError && !conflict && (
+      {message && (
         <p role="alert" className="col-span-2 text-sm text-flare-300">
-          {active.error.message}
+          {message}
         </p>
       )}
       {active.isSuccess && (
