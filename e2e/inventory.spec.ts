@@ -290,3 +290,66 @@ test("when someone else decides first, the curator sees their value and can appl
   await expect(panel.getByRole("status").filter({ hasText: "Saved." })).toBeVisible();
   await expect(page.getByTestId(`tile-${designation}`)).toContainText(choice.toLowerCase());
 });
+
+test("the set-up forms say what is wrong beside the field and keep the input; sections and positions add, rename and meet a stale edit", async ({
+  page,
+  baseURL,
+}) => {
+  const m = await makeBoard(baseURL!);
+  await signIn(page, "curator");
+  await page.goto(`/sites/${m.siteId}/boards/${m.boardId}/setup`);
+  const board = page.getByRole("form", { name: "Board" });
+
+  // The schema the server parses with answers in the browser; the server's own refusal sits beside its field.
+  await board.getByLabel("Grid rows").fill("0");
+  await board.getByRole("button", { name: "Save board" }).click();
+  await expect(board.getByText("At least 1")).toBeVisible();
+  await expect(board.getByLabel("Grid rows")).toHaveAttribute("aria-invalid", "true");
+  await board.getByLabel("Grid rows").fill("2"); // the generated row is row 4
+  await board.getByRole("button", { name: "Save board" }).click();
+  await expect(board.getByText("A position reaches row 4; move it first")).toBeVisible();
+  await expect(board.getByText("The grid would cut off positions.")).toBeVisible();
+  await expect(board.getByLabel("Grid rows")).toHaveValue("2");
+
+  const sections = page.getByRole("region", { name: "Sections" });
+  await sections.getByLabel("New section").fill("Section A");
+  await sections.getByRole("button", { name: "Add section" }).click();
+  await expect(sections.getByLabel("Name of section “Section A”")).toHaveValue("Section A");
+  await expect(sections.getByLabel("New section")).toHaveValue("");
+  await sections.getByLabel("Name of section “Section A”").fill("Section A — lighting");
+  await sections.getByLabel("Name of section “Section A”").press("Enter");
+  await expect(sections.getByLabel("Name of section “Section A — lighting”")).toBeVisible();
+
+  const add = page.getByRole("form", { name: "Add one position" });
+  await add.getByRole("button", { name: "Add position" }).click();
+  await expect(add.getByText("Give the designation painted on the board")).toBeVisible();
+  await add.getByLabel("Designation").fill(`${m.prefix}9`);
+  await add.getByLabel("Column", { exact: true }).fill("6");
+  await add.getByRole("button", { name: "Add position" }).click();
+  await expect(add.getByRole("status")).toHaveText("Saved.");
+  await expect(add.getByLabel("Designation")).toHaveValue("");
+
+  // Someone else changes position 1 while it is open here: both versions show, and mine can be applied again.
+  const list = page.getByRole("region", { name: "Positions, in list order" });
+  await list.getByRole("button", { name: `Edit ${m.prefix}1` }).click();
+  const edit = page.getByRole("form", { name: `Position ${m.prefix}1` });
+  await expect(edit.getByLabel("Circuit fed")).toBeVisible();
+  const api = await curatorApi(baseURL!);
+  const detail = (await (await api.get(`/api/sites/${m.siteId}/boards/${m.boardId}`)).json()) as {
+    positions: Array<{ id: string; designation: string; version: number }>;
+  };
+  const p1 = detail.positions.find((p) => p.designation === `${m.prefix}1`)!;
+  const theirs = await api.patch(`/api/sites/${m.siteId}/positions/${p1.id}`, {
+    data: { circuit: "Galley lighting", version: p1.version },
+  });
+  expect(theirs.ok()).toBeTruthy();
+  await api.dispose();
+  await edit.getByLabel("Circuit fed").fill("Steering gear");
+  await edit.getByRole("button", { name: "Save position" }).click();
+  const notice = edit.getByTestId("conflict-notice");
+  await expect(notice).toContainText("Galley lighting");
+  await expect(edit.getByLabel("Circuit fed")).toHaveValue("Steering gear");
+  await notice.getByRole("button", { name: "Apply mine again" }).click();
+  await expect(edit.getByRole("status")).toHaveText("Saved.");
+  await expect(notice).toHaveCount(0);
+});
