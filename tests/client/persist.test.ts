@@ -75,4 +75,18 @@ describe("the reads kept on the phone (src/app/persist.ts)", () => {
     expect([...index.kept]).toEqual([[newer.queryHash, 2]]);
     expect([...index.tooLarge]).toEqual([[older.queryHash, 1]]);
   });
+
+  it("writes the same JSON as stringifying the kept client whole (each query is stringified once)", () => {
+    const a = query(["defects", "s", { q: '\u0000 "queries":[] ,]' }], {
+      data: { rows: [1, "a,b"] },
+      dataUpdatedAt: 5,
+    });
+    const b = query(["readings", "s"], { data: [{ v: 1.5 }], dataUpdatedAt: 9 });
+    const c = client([a, b]);
+    const whole = JSON.stringify({ ...c, clientState: { ...c.clientState, queries: [b, a], mutations: [] } });
+    expect(boundedSerialize(c)).toBe(whole);
+    expect(boundedSerialize(client([]))).toBe(
+      JSON.stringify({ ...client([]), clientState: { queries: [], mutations: [] } }),
+    );
+  });
 });
