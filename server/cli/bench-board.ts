@@ -25,6 +25,16 @@ import { createDb, MAINTENANCE_DB_OPTIONS } from "../db";
 import { buildClient } from "./prepare";
 
 const LOADS = Number(process.env.BENCH_BOARD_LOADS ?? 5);
+/**
+ * The kept reads' IndexedDB entry and User Timing measure, as named in src/app/persist.ts (server code may not
+ * import client code; a name that drifts shows as 0 writes here).
+ */
+const CACHE_DB = "tideline-cache";
+const CACHE_STORE = "queries";
+const CACHE_KEY = "tideline-query-cache";
+const KEEP_MEASURE = "tideline:keep-reads";
+/** BENCH_BOARD_WHOLE=0: the build as shipped only (no second build drawing every tile). */
+const WHOLE = process.env.BENCH_BOARD_WHOLE !== "0";
 const POSITIONS = 500;
 
 const freePort = () =>
@@ -69,13 +79,59 @@ async function startServer(env: Record<string, string>) {
 }
 
 const OBSERVE = `
-  window.__long = { total: 0, longest: 0, blocking: 0, count: 0 };
+  window.__long = { total: 0, longest: 0, blocking: 0, count: 0, tasks: [] };
   new PerformanceObserver((l) => { for (const e of l.getEntries()) {
     window.__long.total += e.duration; window.__long.count++;
     window.__long.longest = Math.max(window.__long.longest, e.duration);
     window.__long.blocking += Math.max(0, e.duration - 50);
+    window.__long.tasks.push([e.startTime, e.duration]);
   } }).observe({ type: "longtask", buffered: true });
+  window.__keep = [];
+  new PerformanceObserver((l) => { for (const e of l.getEntries()) if (e.name === ${JSON.stringify(KEEP_MEASURE)})
+    window.__keep.push([e.startTime, e.duration, (e.detail && e.detail.bytes) || 0]);
+  }).observe({ type: "measure", buffered: true });
 `;
+
+/**
+ * The kept reads' text written by the page (IndexedDB), serialized again in the page the way each write did before
+ * (every kept query stringified for its size, then the whole client a second time) and as it does now (each query
+ * once, the pieces joined): median ms of BEFORE_AFTER_TIMES each, in turn, on the page's throttled CPU.
+ */
+const BEFORE_AFTER_TIMES = 5;
+const BEFORE_AFTER = `(async () => {
+  const text = await new Promise((resolve, reject) => {
+    const open = indexedDB.open(${JSON.stringify(CACHE_DB)});
+    open.onerror = () => reject(open.error);
+    open.onsuccess = () => {
+      const get = open.result.transaction(${JSON.stringify(CACHE_STORE)}).objectStore(${JSON.stringify(CACHE_STORE)}).get(${JSON.stringify(CACHE_KEY)});
+      get.onsuccess = () => resolve(get.result ?? null);
+      get.onerror = () => reject(get.error);
+    };
+  });
+  if (!text) return null;
+  const client = JSON.parse(text);
+  const queries = client.clientState.queries;
+  const before = () => {
+    const kept = [];
+    for (const q of queries) { const size = JSON.stringify(q).length; if (size >= 0) kept.push(q); }
+    return JSON.stringify({ ...client, clientState: { ...client.clientState, queries: kept, mutations: [] } }).length;
+  };
+  const after = () => {
+    const kept = [];
+    for (const q of queries) kept.push(JSON.stringify(q));
+    const marker = JSON.stringify("tideline-marker-" + Math.random());
+    const shell = JSON.stringify({ ...client, clientState: { ...client.clientState, queries: [JSON.parse(marker)], mutations: [] } });
+    const at = shell.indexOf(marker);
+    return (shell.slice(0, at) + kept.join(",") + shell.slice(at + marker.length)).length;
+  };
+  const b = [], a = [];
+  for (let i = 0; i < ${BEFORE_AFTER_TIMES}; i++) {
+    let t = performance.now(); before(); b.push(performance.now() - t);
+    t = performance.now(); after(); a.push(performance.now() - t);
+  }
+  const med = (xs) => xs.sort((x, y) => x - y)[xs.length >> 1];
+  return { bytes: text.length, queries: queries.length, before: med(b), after: med(a) };
+})()`;
 
 interface Load {
   total: number;
@@ -83,6 +139,16 @@ interface Load {
   blocking: number;
   count: number;
   tiles: number;
+  /** The kept reads' writes during the load: how many, their serialization ms (sum, longest), the text's bytes. */
+  keepWrites: number;
+  keepMs: number;
+  keepLongest: number;
+  keepBytes: number;
+  /** The longest long task that held a write's serialization (0 when none did). */
+  keepTask: number;
+  /** The same text serialized as before and as now, in the page (ms). */
+  keepBefore: number;
+  keepAfter: number;
 }
 
 async function loadBoard(browser: Awaited<ReturnType<typeof openBrowser>>, base: string, path: string, cookie: string) {
@@ -101,10 +167,29 @@ async function loadBoard(browser: Awaited<ReturnType<typeof openBrowser>>, base:
     await page.addInitScript(OBSERVE);
     await page.goto(`${base}${path}`, { waitUntil: "load", timeout: 180_000 });
     await page.locator("[data-position-id]").first().waitFor({ timeout: 180_000 });
+    // The kept reads are written at most once a second after the reads arrive: wait for the first write.
+    await page.waitForFunction("window.__keep.length > 0", null, { timeout: 30_000 }).catch(() => undefined);
     await page.waitForTimeout(1500);
-    const m = (await page.evaluate("window.__long")) as Omit<Load, "tiles">;
+    const { tasks, ...m } = (await page.evaluate("window.__long")) as Pick<
+      Load,
+      "total" | "longest" | "blocking" | "count"
+    > & { tasks: Array<[number, number]> };
     const tiles = await page.locator("[data-position-id]").count();
-    return { ...m, tiles };
+    const writes = (await page.evaluate("window.__keep")) as Array<[number, number, number]>;
+    const holding = (start: number) =>
+      Math.max(0, ...tasks.filter(([s, d]) => s <= start && start <= s + d).map(([, d]) => d));
+    const ba = (await page.evaluate(BEFORE_AFTER)) as { before: number; after: number } | null;
+    return {
+      ...m,
+      tiles,
+      keepWrites: writes.length,
+      keepMs: writes.reduce((n, [, d]) => n + d, 0),
+      keepLongest: Math.max(0, ...writes.map(([, d]) => d)),
+      keepBytes: Math.max(0, ...writes.map(([, , b]) => b)),
+      keepTask: Math.max(0, ...writes.map(([s]) => holding(s))),
+      keepBefore: ba?.before ?? NaN,
+      keepAfter: ba?.after ?? NaN,
+    };
   } finally {
     await context.close();
   }
@@ -125,15 +210,18 @@ export async function benchBoard() {
     const site = await generateSite(setup, POSITIONS, () => {}, { boards: 1 });
     const windowedDir = buildClient();
     const wholeDir = join(projectRoot, "dist", "client-board-whole");
-    const built = spawnSync(
-      join(projectRoot, "node_modules", ".bin", "vite"),
-      ["build", "--logLevel", "warn", "--outDir", wholeDir, "--emptyOutDir"],
-      { cwd: projectRoot, stdio: "inherit", env: { ...process.env, VITE_BOARD_WINDOW_FROM: "1000000" } },
-    );
-    if (built.status !== 0) throw new Error("the second vite build failed");
+    if (WHOLE) {
+      const built = spawnSync(
+        join(projectRoot, "node_modules", ".bin", "vite"),
+        ["build", "--logLevel", "warn", "--outDir", wholeDir, "--emptyOutDir"],
+        { cwd: projectRoot, stdio: "inherit", env: { ...process.env, VITE_BOARD_WINDOW_FROM: "1000000" } },
+      );
+      if (built.status !== 0) throw new Error("the second vite build failed");
+    }
     const windowed = await startServer({ DATABASE_URL: url, CLIENT_DIR: windowedDir });
-    const whole = await startServer({ DATABASE_URL: url, CLIENT_DIR: wholeDir });
-    servers.push(windowed.child, whole.child);
+    servers.push(windowed.child);
+    const whole = WHOLE ? await startServer({ DATABASE_URL: url, CLIENT_DIR: wholeDir }) : null;
+    if (whole) servers.push(whole.child);
     const signIn = await fetch(`${windowed.base}/api/auth/sign-in`, {
       method: "POST",
       headers: { "content-type": "application/json", origin: windowed.base },
@@ -147,42 +235,49 @@ export async function benchBoard() {
       await loadBoard(browser, windowed.base, path, cookie); // warm the server and the database
       for (let i = 0; i < LOADS; i++) {
         got.windowed.push(await loadBoard(browser, windowed.base, path, cookie));
-        got.whole.push(await loadBoard(browser, whole.base, path, cookie));
+        if (whole) got.whole.push(await loadBoard(browser, whole.base, path, cookie));
       }
     } finally {
       await browser.close();
     }
+    const sp = (xs: Load[], f: (x: Load) => number, digits = 0) => spread(xs.map(f), digits);
     const row = (label: string, xs: Load[]) => [
       label,
-      spread(
-        xs.map((x) => x.total),
-        0,
-      ),
-      spread(
-        xs.map((x) => x.longest),
-        0,
-      ),
-      spread(
-        xs.map((x) => x.blocking),
-        0,
-      ),
-      spread(
-        xs.map((x) => x.count),
-        0,
-      ),
-      spread(
-        xs.map((x) => x.tiles),
-        0,
-      ),
+      sp(xs, (x) => x.total),
+      sp(xs, (x) => x.longest),
+      sp(xs, (x) => x.blocking),
+      sp(xs, (x) => x.count),
+      sp(xs, (x) => x.tiles),
     ];
     console.log(
       table(
         ["board page (phone, CPU 4 × slower)", "long tasks ms", "longest ms", "blocking ms", "tasks", "tiles in DOM"],
-        [row("drawn whole (before)", got.whole), row("windowed (as built)", got.windowed)],
+        [...(whole ? [row("drawn whole (before)", got.whole)] : []), row("windowed (as built)", got.windowed)],
       ),
     );
-    const ratio = median(got.whole.map((x) => x.total)) / Math.max(1, median(got.windowed.map((x) => x.total)));
-    console.log(`(long-task time, whole ÷ windowed: ${ratio.toFixed(2)}; median [min–max] over ${LOADS} loads)`);
+    if (whole) {
+      const ratio = median(got.whole.map((x) => x.total)) / Math.max(1, median(got.windowed.map((x) => x.total)));
+      console.log(`(long-task time, whole ÷ windowed: ${ratio.toFixed(2)}; median [min–max] over ${LOADS} loads)`);
+    }
+    // The kept reads (src/app/persist.ts): what each write of the query cache to IndexedDB costs the main thread.
+    const w = got.windowed;
+    console.log(
+      `\nkept reads on the same loads (windowed build; User Timing "${KEEP_MEASURE}" around each write's serialization)`,
+    );
+    console.log(
+      table(
+        ["figure", "median [min–max]"],
+        [
+          ["writes during the load", sp(w, (x) => x.keepWrites)],
+          ["text written, kB", sp(w, (x) => x.keepBytes / 1024)],
+          ["serialization ms, all writes", sp(w, (x) => x.keepMs, 1)],
+          ["serialization ms, longest write", sp(w, (x) => x.keepLongest, 1)],
+          ["long task holding a write, ms (0 = none)", sp(w, (x) => x.keepTask)],
+          [`same text as before (stringified twice), ms`, sp(w, (x) => x.keepBefore, 1)],
+          [`same text as now (once, joined), ms`, sp(w, (x) => x.keepAfter, 1)],
+        ],
+      ),
+    );
   } finally {
     for (const c of servers) c.kill("SIGTERM");
     await Promise.all(servers.map((c) => new Promise((r) => (c.exitCode !== null ? r(null) : c.once("exit", r)))));

@@ -90,6 +90,26 @@ export function serializeBounded(client: PersistedClient): { text: string; index
 }
 const QUERIES_HERE = "\u0000tideline-kept-queries\u0000";
 
+/**
+ * serializeBounded with a User Timing measure around it (`KEEP_MEASURE`, its detail the bytes and reads kept):
+ * the main thread's cost of each write, which `npm run bench`'s board case reads from the page.
+ */
+function timedSerialize(client: PersistedClient) {
+  const start = performance.now();
+  const out = serializeBounded(client);
+  try {
+    // Only the newest stays in the page's timeline (a PerformanceObserver sees every one): a day of writes
+    // once a second would otherwise pile up there.
+    performance.clearMeasures(KEEP_MEASURE);
+    performance.measure(KEEP_MEASURE, { start, detail: { bytes: out.text.length, kept: out.index.kept.size } });
+  } catch {
+    // a browser without User Timing Level 3 writes the same text, unmeasured
+  }
+  return out;
+}
+/** The User Timing measure of one write's serialization. */
+export const KEEP_MEASURE = "tideline:keep-reads";
+
 /** The stored text of the kept reads: a 500-position board fits many times over (DEVELOPERS.md). */
 export const boundedSerialize = (client: PersistedClient): string => serializeBounded(client).text;
 
@@ -127,7 +147,7 @@ const throttled = createAsyncStoragePersister({
   throttleTime: 1000,
   serialize: (client) => {
     writtenSeq = Math.max(writtenSeq, seqOf.get(client) ?? 0);
-    handedOver = serializeBounded(client);
+    handedOver = timedSerialize(client);
     return handedOver.text;
   },
 });
@@ -160,7 +180,7 @@ export async function flushPersistedReads(): Promise<void> {
   const client = latest;
   if (!client || !storage || (seqOf.get(client) ?? 0) <= writtenSeq) return;
   writtenSeq = seqOf.get(client)!;
-  handedOver = serializeBounded(client);
+  handedOver = timedSerialize(client);
   await storage.setItem(CACHE_KEY, handedOver.text);
 }
 
