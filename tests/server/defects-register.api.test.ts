@@ -230,6 +230,19 @@ describe("pagination", () => {
     expect(pages).toEqual(whole);
     expect((await viewer.get(url("size=201"))).status).toBe(400);
   });
+
+  it("a page past the end still says how many match; a filter matching nothing says 0 (page and total are one statement)", async () => {
+    for (const q of ["size=10&page=9", "sort=title&size=10&page=9"]) {
+      const r = await viewer.get(url(q));
+      expect(r.status).toBe(200);
+      expect(r.body).toMatchObject({ rows: [], total: N, page: 9, size: 10 });
+    }
+    const none = await viewer.get(url("q=no-such-words-anywhere"));
+    expect(none.body).toMatchObject({ rows: [], total: 0 });
+    const last = await viewer.get(url("sort=ref&size=10&page=4"));
+    expect(last.body.rows).toHaveLength(N - 40);
+    expect(last.body.total).toBe(N);
+  });
 });
 
 describe("CSV export", () => {
