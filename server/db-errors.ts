@@ -25,6 +25,18 @@ const MESSAGES = [
   /the database system is (starting up|shutting down|in recovery mode)/i,
 ];
 
+/**
+ * A checkout refused because the pool's waiting queue is full (server/db.ts `boundQueue`): "unavailable"
+ * for now, answered at once instead of after the acquire timeout.
+ */
+export class PoolQueueFull extends Error {
+  readonly code = "TIDELINE_POOL_QUEUE_FULL";
+  constructor(readonly maxWaiting: number) {
+    super(`database pool queue full (${maxWaiting} waiting)`);
+    this.name = "PoolQueueFull";
+  }
+}
+
 export type DbFailure = "unavailable" | "timeout";
 
 /** "unavailable" (connection lost, refused, pool exhausted), "timeout" (statement cancelled), or null (not a database outage). */
@@ -33,6 +45,7 @@ export function dbFailureOf(err: unknown): DbFailure | null {
   const e = err as { code?: unknown; message?: unknown; errors?: unknown; cause?: unknown };
   const code = typeof e.code === "string" ? e.code : "";
   if (code === "57014") return "timeout";
+  if (err instanceof PoolQueueFull) return "unavailable";
   if (LOST_SQLSTATES.has(code) || /^08[0-9A-Z]{3}$/.test(code) || SOCKET_ERRNOS.has(code)) return "unavailable";
   const msg = typeof e.message === "string" ? e.message : "";
   if (MESSAGES.some((re) => re.test(msg))) return "unavailable";

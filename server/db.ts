@@ -1,6 +1,7 @@
 import { CamelCasePlugin, Kysely, PostgresDialect } from "kysely";
 import pg from "pg";
 import type { Database } from "../db/types";
+import { PoolQueueFull } from "./db-errors";
 import { log } from "./log";
 
 // numeric and bigint come back as strings by default; counts and money fit in a JS number.
@@ -24,6 +25,12 @@ export interface DbOptions {
   idleInTransactionMs?: number;
   /** Waiting for a free connection, or for a new one to open, fails after this (→ 503 database busy/down). */
   connectionTimeoutMs?: number;
+  /**
+   * Statements that may wait for a connection at once (DATABASE_POOL_MAX_WAITING); one more is refused at
+   * once (PoolQueueFull → 503 `db_unavailable` with Retry-After) instead of queueing toward the timeout.
+   * 0 = no bound. Default 10 × `max`: see `defaultMaxWaiting`.
+   */
+  maxWaiting?: number;
 }
 
 const envInt = (name: string, fallback: number) => {
@@ -31,20 +38,32 @@ const envInt = (name: string, fallback: number) => {
   return Number.isFinite(v) && v >= 0 && process.env[name] !== "" && process.env[name] !== undefined ? v : fallback;
 };
 
+/**
+ * The waiting queue's default bound: ten statements per connection. Chosen (DEVELOPERS.md "Pool and queue
+ * sizes") so that (1) the issue's load — 50 clients on the register, each with at most two statements in
+ * flight — never meets it (at most 100 − 10 running = 90 waiting with the default pool of 10), and (2) the
+ * last statement admitted waits about ten statement times (0.1–0.5 s at the 10–50 ms measured under load),
+ * a tenth of the 5 s acquire timeout: past that, one more waiter only makes every answer later, and a
+ * 503 the client retries is kinder than a 5 s wait ending in one.
+ */
+export const defaultMaxWaiting = (max: number) => 10 * max;
+
 /** The settings the app serves with; tools that run long statements pass their own. */
 export const APP_DB_OPTIONS: Required<DbOptions> = {
   max: envInt("DATABASE_POOL_MAX", 10),
   statementTimeoutMs: envInt("DATABASE_STATEMENT_TIMEOUT_MS", 30_000),
   idleInTransactionMs: envInt("DATABASE_IDLE_IN_TRANSACTION_MS", 60_000),
   connectionTimeoutMs: envInt("DATABASE_CONNECT_TIMEOUT_MS", 5_000),
+  maxWaiting: envInt("DATABASE_POOL_MAX_WAITING", defaultMaxWaiting(envInt("DATABASE_POOL_MAX", 10))),
 };
 
-/** For migrations, seeds, the benchmark and backups: no statement or idle-in-transaction limit. */
+/** For migrations, seeds, the benchmark and backups: no statement or idle-in-transaction limit, no queue bound. */
 export const MAINTENANCE_DB_OPTIONS: DbOptions = {
   max: 2,
   statementTimeoutMs: 0,
   idleInTransactionMs: 0,
   connectionTimeoutMs: 30_000,
+  maxWaiting: 0,
 };
 
 /**
@@ -56,7 +75,11 @@ export const MAINTENANCE_DB_OPTIONS: DbOptions = {
  * release; new clients are opened when the database is back.
  */
 export function createDb(connectionString: string, options: number | DbOptions = {}): Db {
-  const o = { ...APP_DB_OPTIONS, ...(typeof options === "number" ? { max: options } : options) };
+  const given = typeof options === "number" ? { max: options } : options;
+  const o = { ...APP_DB_OPTIONS, ...given };
+  // A pool sized here without its own bound gets the bound for its size (unless the operator set one).
+  if (given.maxWaiting === undefined && given.max !== undefined && process.env.DATABASE_POOL_MAX_WAITING === undefined)
+    o.maxWaiting = defaultMaxWaiting(o.max);
   const pool = new pg.Pool({
     connectionString,
     max: o.max,
@@ -70,6 +93,7 @@ export function createDb(connectionString: string, options: number | DbOptions =
   pool.on("connect", (client) => {
     client.on("error", (err) => logConnectionLoss(err));
   });
+  if (o.maxWaiting > 0) boundQueue(pool, o.maxWaiting);
   // The pool re-emits an idle client's error; the client's own listener above has logged it.
   pool.on("error", () => {});
   const db = new Kysely<Database>({ dialect: new PostgresDialect({ pool }), plugins: [new CamelCasePlugin()] });
@@ -83,6 +107,37 @@ export function createDb(connectionString: string, options: number | DbOptions =
     return end();
   }) as typeof pool.end;
   return db;
+}
+
+/**
+ * Refuses a checkout at once when every connection is taken and `maxWaiting` statements already wait
+ * (pg-pool's own queue has no bound: only the acquire timeout ends a wait). The refusal is
+ * PoolQueueFull, which the error handler answers 503 `db_unavailable` with Retry-After; it is counted
+ * (`refusedCheckouts`) and logged once a second at most.
+ */
+function boundQueue(pool: pg.Pool, maxWaiting: number) {
+  const connect = pool.connect.bind(pool) as (cb?: (err: Error | undefined, ...rest: unknown[]) => void) => unknown;
+  pool.connect = ((cb?: (err: Error | undefined, ...rest: unknown[]) => void) => {
+    if (pool.idleCount === 0 && pool.totalCount >= (pool.options.max ?? 10) && pool.waitingCount >= maxWaiting) {
+      const err = new PoolQueueFull(maxWaiting);
+      refused++;
+      logRefusal(maxWaiting);
+      if (cb) return void process.nextTick(() => cb(err));
+      return Promise.reject(err);
+    }
+    return connect(cb);
+  }) as typeof pool.connect;
+}
+
+let refused = 0;
+/** Checkouts refused by a full waiting queue since the process started (metrics, tests). */
+export const refusedCheckouts = () => refused;
+let lastRefusalLog = 0;
+function logRefusal(maxWaiting: number) {
+  const now = Date.now();
+  if (now - lastRefusalLog < 1000) return;
+  lastRefusalLog = now;
+  log.warn({ maxWaiting, refused }, "database pool queue full: refusing at once (503)");
 }
 
 const probes = new WeakMap<Db, Db>();
@@ -136,6 +191,7 @@ export function queueDbFor(db: Db, options: DbOptions = {}): Db | undefined {
   return createDb(url, {
     max: envInt("JOB_POOL_MAX", 4),
     connectionTimeoutMs: 30_000,
+    maxWaiting: 0, // background work waits its turn; only requests are refused at once
     statementTimeoutMs: APP_DB_OPTIONS.statementTimeoutMs,
     idleInTransactionMs: APP_DB_OPTIONS.idleInTransactionMs,
     ...options,

@@ -1,6 +1,6 @@
 import type { ErrorRequestHandler } from "express";
 import { ZodError } from "zod";
-import { dbFailureOf } from "../db-errors";
+import { dbFailureOf, PoolQueueFull } from "../db-errors";
 import { AppError } from "../errors";
 import { log } from "../log";
 import { mapPgError } from "./pg-errors";
@@ -70,6 +70,16 @@ export const errorHandler: ErrorRequestHandler = (err, req, res, _next) => {
   const dbFailure = dbFailureOf(err);
   if (dbFailure) {
     // The database went away or is overloaded: this request fails, the process and the pool carry on.
+    if (err instanceof PoolQueueFull) {
+      // Too many statements already wait for this process's connections: refused at once (server/db.ts
+      // `boundQueue`), logged there once a second; the queue drains in well under a second.
+      res.setHeader("Retry-After", "1");
+      fail(503, {
+        code: "db_unavailable",
+        message: "The server has more work waiting for the database than it takes at once. Try again in a moment.",
+      });
+      return;
+    }
     logger.error({ dbFailure, sqlState: err?.code, reason: err?.message ?? String(err) }, `database ${dbFailure}`);
     res.setHeader("Retry-After", "5");
     fail(
