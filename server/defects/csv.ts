@@ -9,6 +9,13 @@ import { applyFilters, applySort, registerBase, rowsInOrder, type RegisterRow } 
 
 /** Rows per page: each page is one short query (about 0.5 MB of CSV), so the export holds no connection long. */
 const BATCH = 1000;
+/**
+ * Pages asked for ahead of the one being written (EXPORT_READ_AHEAD, default 1): each is its own short query on
+ * its own connection, so a download holds at most this many of the pool's connections at once (and a person runs
+ * two downloads). 2 or 3 let PostgreSQL read pages on more cores; not the default until measured on a quiet
+ * machine (DEVELOPERS.md "Defect CSV against COPY").
+ */
+const READ_AHEAD = Math.max(1, Math.floor(Number(process.env.EXPORT_READ_AHEAD)) || 1);
 const COLUMNS = [
   "Ref",
   "Title",
@@ -168,6 +175,7 @@ export async function writeDefectsCsv(
   out: ExportWriter,
   ids?: string[],
   batch = BATCH,
+  ahead = READ_AHEAD,
 ) {
   const all = ids ?? (await orderedIds(db, siteId, f, today));
   const read = (from: number) => {
@@ -179,12 +187,18 @@ export async function writeDefectsCsv(
   };
   out.progress?.(0, all.length);
   await out.write(BOM + csvLines([csvHeader(timeZone)]));
-  // The next page is asked for while this one is formatted and written, so PostgreSQL and Node work side by
-  // side; at most one query is ahead, and it ends on its own, so a reader that stalls holds no connection.
-  let next = all.length ? read(0) : undefined;
-  for (let i = 0; next; i += batch) {
-    const rows = await next;
-    next = i + batch < all.length ? read(i + batch) : undefined;
+  // The next pages are asked for while this one is formatted and written, so PostgreSQL (on as many
+  // connections) and Node work side by side; at most `ahead` queries are out, each ends on its own, so a
+  // reader that stalls holds no connection.
+  const pending: Array<Promise<CsvRow[]>> = [];
+  let asked = 0;
+  const askMore = () => {
+    for (; pending.length < ahead && asked < all.length; asked += batch) pending.push(read(asked));
+  };
+  askMore();
+  for (let i = 0; pending.length; i += batch) {
+    const rows = await pending.shift()!;
+    askMore();
     if (rows.length) await out.write(csvLines(rows.map((r) => csvRecord(r, timeZone))));
     out.progress?.(Math.min(all.length, i + batch), all.length);
   }
