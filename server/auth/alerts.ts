@@ -7,6 +7,7 @@ import { compose } from "../mail/compose";
 import type { MailDeps } from "../mail/mailer";
 import { sendOrQueue } from "../mail/outbox";
 import { findUserByEmail } from "./repository";
+import { paths } from "../../src/config/paths";
 
 export async function sendSignInLockedAlert(
   deps: MailDeps,
@@ -22,7 +23,7 @@ export async function sendSignInLockedAlert(
       `There were ${p.failures} sign-in attempts with a wrong password for this address. Signing in to this account is paused for ${p.lockMinutes} minutes.`,
       "If that was you, wait and try again, or set a new password. If it was not, set a new password now: that also signs out every other session.",
     ],
-    action: { label: "Set a new password", url: `${deps.publicUrl}/reset-password` },
+    action: { label: "Set a new password", url: `${deps.publicUrl}${paths.resetRequest.href()}` },
     footer: ["You get this message at most once per lock, however many attempts are made."],
   });
   const r = await sendOrQueue(deps, { to: user.email, ...msg });

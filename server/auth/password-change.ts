@@ -14,6 +14,7 @@ import { sendOrQueue } from "../mail/outbox";
 import { log } from "../log";
 import { hashPassword, verifyPassword } from "./password";
 import { findUserById, replacePasswordHash } from "./repository";
+import { paths } from "../../src/config/paths";
 
 export const passwordChangedMail = (publicUrl: string, name: string, at: Date) =>
   compose({
@@ -24,7 +25,7 @@ export const passwordChangedMail = (publicUrl: string, name: string, at: Date) =
       "Every other place where the account was signed in has been signed out.",
       "If you did not change it, set a new password now with the link below, and tell your site's curator.",
     ],
-    action: { label: "Set a new password", url: `${publicUrl}/reset-password` },
+    action: { label: "Set a new password", url: `${publicUrl}${paths.resetRequest.href()}` },
     footer: ["You get this message every time the password of this account changes."],
   });
 

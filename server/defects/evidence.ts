@@ -5,11 +5,11 @@
  * service at the moment they are read, so a change of criteria re-judges the evidence too.
  * This domain is the only writer of defect_readings.
  */
-import { sql } from "kysely";
 import type { Db } from "../db";
 import { AppError, notFound } from "../errors";
 import * as readings from "../readings/service";
 import { recordAudit } from "../audit";
+import * as repo from "./repository";
 
 export type ReadingKind = "insulation" | "contact" | "thermal" | "ground";
 export type LinkRole = "raised_from" | "retest";
@@ -64,32 +64,17 @@ export async function judgedReading(db: Db, siteId: string, kind: ReadingKind, i
   );
 }
 
-const linksOf = (db: Db, defectId: string) =>
-  db
-    .selectFrom("defectReadings")
-    .select(["id", "readingKind", "readingId", "role", "linkedAt"])
-    .where("defectId", "=", defectId)
-    .orderBy("linkedAt")
-    .execute();
-
 /** What the close needs, counted now. */
 export async function repairEvidence(db: Db, siteId: string, defectId: string) {
-  const links = (await linksOf(db, defectId)).filter((l) => l.role === "retest");
+  const links = (await repo.readingLinksOf(db, defectId)).filter((l) => l.role === "retest");
   const judged = await Promise.all(links.map((l) => judgedReading(db, siteId, l.readingKind, l.readingId)));
-  const photos = await db
-    .selectFrom("photos")
-    .select(sql<number>`count(*)::int`.as("n"))
-    .where("siteId", "=", siteId)
-    .where("defectId", "=", defectId)
-    .where("kind", "=", "after_work")
-    .where("deletedAt", "is", null)
-    .executeTakeFirstOrThrow();
-  return { retestsMeeting: judged.filter((j) => j?.verdict === "meets").length, afterPhotos: Number(photos.n) };
+  const afterPhotos = await repo.afterWorkPhotoCount(db, siteId, defectId);
+  return { retestsMeeting: judged.filter((j) => j?.verdict === "meets").length, afterPhotos };
 }
 
 /** The defect page's evidence panel: linked readings (judged), after photos, and the component's recent readings to link. */
 export async function evidenceOf(db: Db, siteId: string, d: { id: string; componentId: string | null }) {
-  const links = await linksOf(db, d.id);
+  const links = await repo.readingLinksOf(db, d.id);
   const linked = (
     await Promise.all(
       links.map(async (l) => ({
@@ -175,19 +160,14 @@ export async function linkReading(
     });
   if (!r.componentId && r.boardId !== d.boardId)
     throw new AppError(400, "invalid_input", "That reading is of another board.", { readingId: "Another board" });
-  const row = await db
-    .insertInto("defectReadings")
-    .values({
-      siteId,
-      defectId: d.id,
-      readingKind: b.readingKind,
-      readingId: b.readingId,
-      role: b.role,
-      linkedBy: actorId,
-    })
-    .onConflict((oc) => oc.columns(["defectId", "readingKind", "readingId"]).doUpdateSet({ role: b.role }))
-    .returning("id")
-    .executeTakeFirstOrThrow();
+  const row = await repo.upsertReadingLink(db, {
+    siteId,
+    defectId: d.id,
+    readingKind: b.readingKind,
+    readingId: b.readingId,
+    role: b.role,
+    linkedBy: actorId,
+  });
   await recordAudit(db, {
     siteId,
     entityType: "defect",
@@ -202,11 +182,4 @@ export async function linkReading(
 }
 
 /** For the readings screens: the defects each reading of a board raised or proves. */
-export const defectsOfBoardReadings = (db: Db, siteId: string, boardId: string) =>
-  db
-    .selectFrom("defectReadings as l")
-    .innerJoin("defects as d", "d.id", "l.defectId")
-    .select(["l.readingKind", "l.readingId", "l.role", "d.id as defectId", "d.ref", "d.status", "d.title"])
-    .where("l.siteId", "=", siteId)
-    .where("d.boardId", "=", boardId)
-    .execute();
+export const defectsOfBoardReadings = repo.defectsOfBoardReadings;

@@ -1,4 +1,3 @@
-import { sql } from "kysely";
 import { recordAudit } from "../audit";
 import type { Db } from "../db";
 import { AppError, forbidden, notFound } from "../errors";
@@ -29,29 +28,16 @@ export async function pin(
       throw bad(`D-${target.ref} is itself pinned; pin against a defect in its own place`);
     if (await repo.isPinTarget(trx, id)) throw bad(`Other defects are pinned against D-${d.ref}; unpin them first`);
     const old = await repo.activePin(trx, id);
-    if (old)
-      await trx
-        .updateTable("defectPins")
-        .set({ removedAt: sql`now()`, removedBy: ctx.actor.id, removedReason: "Replaced by a new pin" })
-        .where("id", "=", old.id)
-        .execute();
-    const row = await trx
-      .insertInto("defectPins")
-      .values({
-        siteId: ctx.siteId,
-        defectId: id,
-        direction: b.direction,
-        relativeTo: b.relativeTo,
-        reason: b.reason,
-        pinnedBy: ctx.actor.id,
-      })
-      .returning("id")
-      .executeTakeFirstOrThrow();
-    await trx
-      .updateTable("defects")
-      .set({ updatedAt: sql`now()`, version: sql`version + 1` })
-      .where("id", "=", id)
-      .execute();
+    if (old) await repo.removePin(trx, old.id, ctx.actor.id, "Replaced by a new pin");
+    const row = await repo.insertPin(trx, {
+      siteId: ctx.siteId,
+      defectId: id,
+      direction: b.direction,
+      relativeTo: b.relativeTo,
+      reason: b.reason,
+      pinnedBy: ctx.actor.id,
+    });
+    await repo.bumpDefectVersion(trx, id);
     await recordAudit(trx, {
       siteId: ctx.siteId,
       entityType: "defect",
@@ -79,16 +65,8 @@ export async function unpin(db: Db, ctx: Ctx, id: string, reason: string) {
     if (!d) throw notFound("That defect");
     const old = await repo.activePin(trx, id);
     if (!old) throw notFound("A pin on that defect");
-    await trx
-      .updateTable("defectPins")
-      .set({ removedAt: sql`now()`, removedBy: ctx.actor.id, removedReason: reason })
-      .where("id", "=", old.id)
-      .execute();
-    await trx
-      .updateTable("defects")
-      .set({ updatedAt: sql`now()`, version: sql`version + 1` })
-      .where("id", "=", id)
-      .execute();
+    await repo.removePin(trx, old.id, ctx.actor.id, reason);
+    await repo.bumpDefectVersion(trx, id);
     await recordAudit(trx, {
       siteId: ctx.siteId,
       entityType: "defect",

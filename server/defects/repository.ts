@@ -283,3 +283,95 @@ export const activePins = (db: Db, siteId: string) =>
     .where("siteId", "=", siteId)
     .where("removedAt", "is", null)
     .execute();
+
+/** Ends a pin (replaced, or unpinned with a reason). */
+export const removePin = (trx: Db, pinId: string, removedBy: string, removedReason: string) =>
+  trx
+    .updateTable("defectPins")
+    .set({ removedAt: sql`now()`, removedBy, removedReason })
+    .where("id", "=", pinId)
+    .execute();
+
+export const insertPin = (trx: Db, v: Insertable<Database["defectPins"]>) =>
+  trx.insertInto("defectPins").values(v).returning("id").executeTakeFirstOrThrow();
+
+/** A change beside the defect's own row (its pin): a new version, so open edits see it. */
+export const bumpDefectVersion = (trx: Db, id: string) =>
+  trx
+    .updateTable("defects")
+    .set({ updatedAt: sql`now()`, version: sql`version + 1` })
+    .where("id", "=", id)
+    .execute();
+
+const VIEW_COLUMNS = ["id", "name", "query", "version", "updatedAt"] as const;
+
+export const insertView = (trx: Db, v: { siteId: string; userId: string; name: string; query: string }) =>
+  trx.insertInto("defectViews").values(v).returning(VIEW_COLUMNS).executeTakeFirstOrThrow();
+
+/** One person's own view on the site; undefined when there is none. */
+export const updateViewRow = (
+  trx: Db,
+  siteId: string,
+  userId: string,
+  id: string,
+  b: { name: string; query: string },
+) =>
+  trx
+    .updateTable("defectViews")
+    .set({ name: b.name, query: b.query, version: sql`version + 1`, updatedAt: sql`now()` })
+    .where("id", "=", id)
+    .where("siteId", "=", siteId)
+    .where("userId", "=", userId)
+    .returning(VIEW_COLUMNS)
+    .executeTakeFirst();
+
+export const deleteViewRow = (trx: Db, siteId: string, userId: string, id: string) =>
+  trx
+    .deleteFrom("defectViews")
+    .where("id", "=", id)
+    .where("siteId", "=", siteId)
+    .where("userId", "=", userId)
+    .executeTakeFirst();
+
+/** The readings linked to a defect, oldest link first. */
+export const readingLinksOf = (db: Db, defectId: string) =>
+  db
+    .selectFrom("defectReadings")
+    .select(["id", "readingKind", "readingId", "role", "linkedAt"])
+    .where("defectId", "=", defectId)
+    .orderBy("linkedAt")
+    .execute();
+
+/** The defect's "after work" photos still kept. */
+export const afterWorkPhotoCount = async (db: Db, siteId: string, defectId: string) =>
+  Number(
+    (
+      await db
+        .selectFrom("photos")
+        .select(sql<number>`count(*)::int`.as("n"))
+        .where("siteId", "=", siteId)
+        .where("defectId", "=", defectId)
+        .where("kind", "=", "after_work")
+        .where("deletedAt", "is", null)
+        .executeTakeFirstOrThrow()
+    ).n,
+  );
+
+/** Links a reading (a repeated link changes only its role). */
+export const upsertReadingLink = (trx: Db, v: Insertable<Database["defectReadings"]>) =>
+  trx
+    .insertInto("defectReadings")
+    .values(v)
+    .onConflict((oc) => oc.columns(["defectId", "readingKind", "readingId"]).doUpdateSet({ role: v.role }))
+    .returning("id")
+    .executeTakeFirstOrThrow();
+
+/** For the readings screens: the defects each reading of a board raised or proves. */
+export const defectsOfBoardReadings = (db: Db, siteId: string, boardId: string) =>
+  db
+    .selectFrom("defectReadings as l")
+    .innerJoin("defects as d", "d.id", "l.defectId")
+    .select(["l.readingKind", "l.readingId", "l.role", "d.id as defectId", "d.ref", "d.status", "d.title"])
+    .where("l.siteId", "=", siteId)
+    .where("d.boardId", "=", boardId)
+    .execute();

@@ -1,4 +1,3 @@
-import { sql } from "kysely";
 import { recordAudit } from "../audit";
 import type { Db } from "../db";
 import { AppError, notFound } from "../errors";
@@ -24,11 +23,7 @@ export async function saveView(db: Db, siteId: string, userId: string, b: { name
   checkQuery(b.query);
   try {
     return await db.transaction().execute(async (trx) => {
-      const row = await trx
-        .insertInto("defectViews")
-        .values({ siteId, userId, name: b.name, query: b.query })
-        .returning(["id", "name", "query", "version", "updatedAt"])
-        .executeTakeFirstOrThrow();
+      const row = await repo.insertView(trx, { siteId, userId, name: b.name, query: b.query });
       await recordAudit(trx, {
         siteId,
         entityType: "defect_view",
@@ -55,14 +50,7 @@ export async function updateView(
   checkQuery(b.query);
   try {
     return await db.transaction().execute(async (trx) => {
-      const row = await trx
-        .updateTable("defectViews")
-        .set({ name: b.name, query: b.query, version: sql`version + 1`, updatedAt: sql`now()` })
-        .where("id", "=", id)
-        .where("siteId", "=", siteId)
-        .where("userId", "=", userId)
-        .returning(["id", "name", "query", "version", "updatedAt"])
-        .executeTakeFirst();
+      const row = await repo.updateViewRow(trx, siteId, userId, id, b);
       if (!row) throw notFound("That saved view");
       await recordAudit(trx, {
         siteId,
@@ -82,12 +70,7 @@ export async function updateView(
 
 export async function deleteView(db: Db, siteId: string, userId: string, id: string) {
   await db.transaction().execute(async (trx) => {
-    const r = await trx
-      .deleteFrom("defectViews")
-      .where("id", "=", id)
-      .where("siteId", "=", siteId)
-      .where("userId", "=", userId)
-      .executeTakeFirst();
+    const r = await repo.deleteViewRow(trx, siteId, userId, id);
     if (!r.numDeletedRows) throw notFound("That saved view");
     await recordAudit(trx, { siteId, entityType: "defect_view", entityId: id, action: "delete", actorId: userId });
   });

@@ -3,10 +3,10 @@
  * labels are printed, and finding the position a scanned tag belongs to among the
  * sites a person can see. The inventory domain owns components, so tags are written here.
  */
-import { sql } from "kysely";
 import type { Db } from "../db";
 import { recordAudit } from "../audit";
 import { AppError } from "../errors";
+import { componentsToTag, lockSiteTags, positionsWithTag, setTagNumber, siteTagNumbers } from "./tags-repository";
 
 const TAIL = /^(.*?)(\d+)$/;
 
@@ -35,29 +35,11 @@ export function commonPrefix(tags: string[]): string {
  */
 export async function assignTags(db: Db, siteId: string, positionIds: string[], actorId: string, prefix?: string) {
   return db.transaction().execute(async (trx) => {
-    await sql`select pg_advisory_xact_lock(hashtext(${`tideline:tags:${siteId}`}))`.execute(trx);
-    const targets = await trx
-      .selectFrom("components as c")
-      .innerJoin("positions as p", "p.id", "c.positionId")
-      .select(["c.id", "c.positionId", "c.tagNumber", "p.boardId", "p.designation", "p.sortOrder"])
-      .where("c.siteId", "=", siteId)
-      .where("c.positionId", "in", positionIds)
-      .where("c.retiredAt", "is", null)
-      .orderBy("p.boardId")
-      .orderBy("p.sortOrder")
-      .orderBy("p.designation")
-      .forUpdate("c")
-      .execute();
+    await lockSiteTags(trx, siteId);
+    const targets = await componentsToTag(trx, siteId, positionIds);
     const found = new Set(targets.map((t) => t.positionId));
     const missing = positionIds.filter((id) => !found.has(id));
-    const existing = (
-      await trx
-        .selectFrom("components")
-        .select("tagNumber")
-        .where("siteId", "=", siteId)
-        .where("tagNumber", "is not", null)
-        .execute()
-    ).map((r) => r.tagNumber!);
+    const existing = await siteTagNumbers(trx, siteId);
     const pre = prefix ?? commonPrefix(existing);
     let next = 0;
     let digits = 4;
@@ -73,11 +55,7 @@ export async function assignTags(db: Db, siteId: string, positionIds: string[], 
       if (t.tagNumber) continue;
       next++;
       const tagNumber = `${pre}${String(next).padStart(digits, "0")}`;
-      await trx
-        .updateTable("components")
-        .set({ tagNumber, version: sql`version + 1`, updatedAt: new Date() })
-        .where("id", "=", t.id)
-        .execute();
+      await setTagNumber(trx, t.id, tagNumber);
       await recordAudit(trx, {
         siteId,
         entityType: "component",
@@ -107,26 +85,7 @@ export async function assignTags(db: Db, siteId: string, positionIds: string[], 
  * that site is revealed, not even that the tag exists.
  */
 export async function findTag(db: Db, user: { id: string; isAdmin: boolean }, tag: string) {
-  const rows = await db
-    .selectFrom("components as c")
-    .innerJoin("positions as p", "p.id", "c.positionId")
-    .innerJoin("boards as b", "b.id", "p.boardId")
-    .innerJoin("sites as s", "s.id", "c.siteId")
-    .select([
-      "s.id as siteId",
-      "s.name as siteName",
-      "b.id as boardId",
-      "b.name as boardName",
-      "p.id as positionId",
-      "p.designation",
-    ])
-    .where(sql<string>`lower(c.tag_number)`, "=", tag.toLowerCase())
-    .where("c.retiredAt", "is", null)
-    .$if(!user.isAdmin, (w) =>
-      w.where("c.siteId", "in", (eb) => eb.selectFrom("memberships").select("siteId").where("userId", "=", user.id)),
-    )
-    .orderBy("s.name")
-    .execute();
+  const rows = await positionsWithTag(db, user, tag);
   if (rows.length === 0)
     throw new AppError(
       404,

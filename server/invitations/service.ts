@@ -10,12 +10,13 @@ import { latestDelivery, queueMail, type Delivery } from "../mail/outbox";
 import { newToken } from "../one-time-token";
 import { invitationMessage } from "./messages";
 import * as repo from "./repository";
+import { paths } from "../../src/config/paths";
 
 type Actor = { id: string; name: string; isAdmin: boolean };
 type Row = Awaited<ReturnType<typeof repo.listLive>>[number];
 
 const expiry = () => new Date(Date.now() + INVITATION_DAYS * 24 * 3600 * 1000);
-export const inviteUrl = (publicUrl: string, token: string) => `${publicUrl}/invite/${token}`;
+export const inviteUrl = (publicUrl: string, token: string) => `${publicUrl}${paths.invite.href(token)}`;
 
 /**
  * A queued message is "pending"; one whose first try failed is "not sent" at once (the

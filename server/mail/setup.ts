@@ -6,6 +6,7 @@
 import { startFakeSmtp, type FakeMailbox } from "./fake-smtp";
 import { smtpMailer, type Mailer } from "./mailer";
 import { log } from "../log";
+import { paths } from "../../src/config/paths";
 
 export const DEFAULT_SMTP_PORT = 2525;
 
@@ -30,7 +31,7 @@ export async function mailFromEnv(opts: { port: number; env?: NodeJS.ProcessEnv 
   const fake = await startFakeSmtp({ port: Number(env.SMTP_PORT ?? DEFAULT_SMTP_PORT) });
   const mailer = smtpMailer({ url: fake.url, from: env.MAIL_FROM });
   log.info(
-    `SMTP_URL is unset: e-mail goes to the local fake server on ${fake.url} (read it at ${publicUrl}/admin/mailbox as an admin); nothing leaves this machine`,
+    `SMTP_URL is unset: e-mail goes to the local fake server on ${fake.url} (read it at ${publicUrl}${paths.mailbox.href()} as an admin); nothing leaves this machine`,
   );
   return {
     mailer,

@@ -3,12 +3,14 @@
  * defect workflow calls these). Each recipient's switch is respected; a failure is
  * logged and reported in the result, never thrown, so the workflow's action stands.
  */
+import { paths } from "../../src/config/paths";
 import { DEFECT_SEVERITY_LABELS, DEFECT_STATUS_LABELS } from "../../src/domain/vocab";
 import type { NotificationKey } from "../../src/schemas/account";
 import { compose, type Composed } from "../mail/compose";
 import type { MailDeps } from "../mail/mailer";
 import { sendOrQueue } from "../mail/outbox";
 import { optedOut } from "./prefs-repository";
+import { addressesOf, curatorIds, defectForNotice, isMember } from "./repository";
 
 export interface NotifyResult {
   sent: string[];
@@ -18,32 +20,9 @@ export interface NotifyResult {
 
 /** Where a defect opens in the client (the defect register's detail page). */
 export const defectUrl = (publicUrl: string, siteId: string, defectId: string) =>
-  `${publicUrl}/sites/${siteId}/defects/${defectId}`;
+  `${publicUrl}${paths.defect.href(siteId, defectId)}`;
 
-async function loadDefect(deps: MailDeps, defectId: string) {
-  return deps.db
-    .selectFrom("defects")
-    .innerJoin("sites", "sites.id", "defects.siteId")
-    .innerJoin("boards", "boards.id", "defects.boardId")
-    .leftJoin("positions", "positions.id", "defects.positionId")
-    .select([
-      "defects.id",
-      "defects.siteId",
-      "defects.title",
-      "defects.severity",
-      "defects.status",
-      "defects.safetyCritical",
-      "defects.blocksEnergisation",
-      "defects.dueOn",
-      "defects.assigneeId",
-      "defects.repairedBy",
-      "sites.name as siteName",
-      "boards.name as boardName",
-      "positions.designation",
-    ])
-    .where("defects.id", "=", defectId)
-    .executeTakeFirst();
-}
+const loadDefect = (deps: MailDeps, defectId: string) => defectForNotice(deps.db, defectId);
 type Defect = NonNullable<Awaited<ReturnType<typeof loadDefect>>>;
 
 function facts(d: Defect): string[] {
@@ -59,7 +38,7 @@ function facts(d: Defect): string[] {
 }
 
 const footer = (publicUrl: string, what: string) => [
-  `You get this because ${what}. Switch these e-mails off on your account page: ${publicUrl}/account`,
+  `You get this because ${what}. Switch these e-mails off on your account page: ${publicUrl}${paths.account.href()}`,
   "Tideline records and computes; it never declares equipment safe. A qualified person decides.",
 ];
 
@@ -72,9 +51,7 @@ async function sendTo(
 ): Promise<NotifyResult> {
   const out: NotifyResult = { sent: [], skipped: [], failed: [] };
   const off = await optedOut(deps.db, userIds, key);
-  const users = userIds.length
-    ? await deps.db.selectFrom("users").select(["id", "email", "name"]).where("id", "in", userIds).execute()
-    : [];
+  const users = userIds.length ? await addressesOf(deps.db, userIds) : [];
   for (const id of userIds) {
     const u = users.find((x) => x.id === id);
     if (id === actorId) out.skipped.push({ userId: id, reason: "is_actor" });
@@ -98,13 +75,8 @@ export async function notifyDefectAssigned(
   const d = await loadDefect(deps, p.defectId);
   if (!d?.assigneeId) return { sent: [], skipped: [], failed: [] };
   // Someone since taken off the crew hears nothing more about the site.
-  const member = await deps.db
-    .selectFrom("memberships")
-    .select("userId")
-    .where("siteId", "=", d.siteId)
-    .where("userId", "=", d.assigneeId)
-    .executeTakeFirst();
-  if (!member) return { sent: [], skipped: [{ userId: d.assigneeId, reason: "not_on_crew" }], failed: [] };
+  if (!(await isMember(deps.db, d.siteId, d.assigneeId)))
+    return { sent: [], skipped: [{ userId: d.assigneeId, reason: "not_on_crew" }], failed: [] };
   return sendTo(deps, [d.assigneeId], "defect_assigned", p.actorId, (name) =>
     compose({
       subject: `Assigned to you: ${d.title} (${d.boardName})`,
@@ -123,13 +95,7 @@ export async function notifyAwaitingVerification(
 ): Promise<NotifyResult> {
   const d = await loadDefect(deps, p.defectId);
   if (!d) return { sent: [], skipped: [], failed: [] };
-  const curators = await deps.db
-    .selectFrom("memberships")
-    .select("userId")
-    .where("siteId", "=", d.siteId)
-    .where("role", "=", "curator")
-    .execute();
-  const ids = curators.map((c) => c.userId).filter((id) => id !== d.repairedBy);
+  const ids = (await curatorIds(deps.db, d.siteId)).filter((id) => id !== d.repairedBy);
   return sendTo(deps, ids, "awaiting_verification", p.actorId, (name) =>
     compose({
       subject: `Waiting for your check: ${d.title} (${d.boardName})`,

@@ -4,7 +4,6 @@
  * payload is built field by field from an allowlist: no prices, contacts, notes or names.
  */
 import { createHash, randomBytes } from "node:crypto";
-import { sql } from "kysely";
 import { partTitle } from "../../src/domain/part-workflow";
 import { sharedListResponse, type SharedList } from "../../src/schemas/parts";
 import { recordAudit } from "../audit";
@@ -12,17 +11,14 @@ import type { Db } from "../db";
 import { AppError, notFound } from "../errors";
 import * as repo from "./repository";
 import { buildRows } from "./rows";
+import * as shares from "./share-repository";
 
 export const hashToken = (token: string) => createHash("sha256").update(token).digest("hex");
 
 export async function createShareLink(db: Db, siteId: string, label: string, actorId: string) {
   const token = randomBytes(32).toString("base64url");
   const row = await db.transaction().execute(async (trx) => {
-    const r = await trx
-      .insertInto("partShareLinks")
-      .values({ siteId, tokenHash: hashToken(token), label, createdBy: actorId })
-      .returning(["id", "label", "createdAt", "revokedAt"])
-      .executeTakeFirstOrThrow();
+    const r = await shares.insertShareLink(trx, { siteId, tokenHash: hashToken(token), label, createdBy: actorId });
     await recordAudit(trx, {
       siteId,
       entityType: "part_share_link",
@@ -37,13 +33,7 @@ export async function createShareLink(db: Db, siteId: string, label: string, act
 }
 
 export async function listShareLinks(db: Db, siteId: string) {
-  const rows = await db
-    .selectFrom("partShareLinks as s")
-    .leftJoin("users as u", "u.id", "s.createdBy")
-    .select(["s.id", "s.label", "s.createdAt", "s.revokedAt", "u.name as createdByName"])
-    .where("s.siteId", "=", siteId)
-    .orderBy("s.createdAt", "desc")
-    .execute();
+  const rows = await shares.shareLinksOf(db, siteId);
   return rows.map((r) => ({
     ...r,
     createdAt: r.createdAt.toISOString(),
@@ -53,13 +43,7 @@ export async function listShareLinks(db: Db, siteId: string) {
 
 export async function revokeShareLink(db: Db, siteId: string, id: string, actorId: string) {
   await db.transaction().execute(async (trx) => {
-    const r = await trx
-      .updateTable("partShareLinks")
-      .set({ revokedAt: sql`coalesce(revoked_at, now())`, revokedBy: actorId })
-      .where("siteId", "=", siteId)
-      .where("id", "=", id)
-      .returning("id")
-      .executeTakeFirst();
+    const r = await shares.revokeLink(trx, siteId, id, actorId);
     if (!r) throw notFound("That share link");
     await recordAudit(trx, { siteId, entityType: "part_share_link", entityId: id, action: "revoke", actorId });
   });
@@ -67,11 +51,7 @@ export async function revokeShareLink(db: Db, siteId: string, id: string, actorI
 
 /** The site behind a token: unknown → 404, revoked → 410 Gone. */
 export async function siteOfToken(db: Db, token: string) {
-  const link = await db
-    .selectFrom("partShareLinks")
-    .select(["siteId", "revokedAt"])
-    .where("tokenHash", "=", hashToken(token))
-    .executeTakeFirst();
+  const link = await shares.linkByTokenHash(db, hashToken(token));
   if (!link) throw new AppError(404, "not_found", "This share link does not exist.");
   if (link.revokedAt) throw new AppError(410, "revoked", "This share link has been withdrawn by the crew.");
   return link.siteId;
@@ -80,7 +60,7 @@ export async function siteOfToken(db: Db, token: string) {
 /** The public list. A read only: it never writes (demand is kept current by the writes). */
 export async function sharedList(db: Db, token: string): Promise<SharedList> {
   const siteId = await siteOfToken(db, token);
-  const site = await db.selectFrom("sites").select("name").where("id", "=", siteId).executeTakeFirstOrThrow();
+  const name = await shares.siteName(db, siteId);
   const lines = await buildRows(
     db,
     [
@@ -89,7 +69,7 @@ export async function sharedList(db: Db, token: string): Promise<SharedList> {
     ].sort((a, b) => a.createdAt.getTime() - b.createdAt.getTime() || (a.id < b.id ? -1 : 1)),
   );
   return sharedListResponse.parse({
-    siteName: site.name,
+    siteName: name,
     lines: lines.map((l) => ({
       ref: l.ref,
       kind: l.kind,
@@ -115,19 +95,5 @@ export async function sharedList(db: Db, token: string): Promise<SharedList> {
 /** True when the photo is a nameplate photo of a component on a line the token shares (one query). */
 export async function photoIsShared(db: Db, token: string, photoId: string) {
   const siteId = await siteOfToken(db, token);
-  const row = await db
-    .selectFrom("photos as ph")
-    .innerJoin("partDemandLinks as l", "l.componentId", "ph.componentId")
-    .innerJoin("partLines as pl", "pl.id", "l.lineId")
-    .select("ph.id")
-    .where("ph.id", "=", photoId)
-    .where("ph.siteId", "=", siteId)
-    .where("ph.kind", "=", "nameplate")
-    .where("ph.deletedAt", "is", null)
-    .where("pl.siteId", "=", siteId)
-    .where("pl.status", "in", ["wanted", "lead_found"])
-    .where((e) => e.or([e("l.active", "=", true), e("l.fitted", "=", true)]))
-    .limit(1)
-    .executeTakeFirst();
-  return !!row;
+  return shares.isSharedNameplate(db, siteId, photoId);
 }

@@ -8,12 +8,13 @@ import { queueMail } from "../mail/outbox";
 import { hashToken, newToken } from "../one-time-token";
 import * as repo from "./repository";
 import { log } from "../log";
+import { paths } from "../../src/config/paths";
 
 export const RESET_MINUTES = 60;
 /** More than this many links in an hour for one account are not sent (a mail-bombing guard). */
 const MAX_PER_HOUR = 3;
 
-export const resetUrl = (publicUrl: string, token: string) => `${publicUrl}/reset-password/${token}`;
+export const resetUrl = (publicUrl: string, token: string) => `${publicUrl}${paths.resetPassword.href(token)}`;
 
 /**
  * Runs after the answer has gone out (see routes.ts), so an unknown address and a known

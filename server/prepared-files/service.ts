@@ -18,8 +18,8 @@ import { randomUUID } from "node:crypto";
 import { rm, stat } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
-import { sql, type Kysely, type UpdateQueryBuilder, type UpdateResult } from "kysely";
-import type { Database, PreparedFilesTable } from "../../db/types";
+import type { PreparedFilesTable } from "../../db/types";
+import { paths } from "../../src/config/paths";
 import { can } from "../../src/domain/permissions";
 import type { Role } from "../../src/domain/vocab";
 import {
@@ -35,6 +35,7 @@ import { compose } from "../mail/compose";
 import { queueMail } from "../mail/outbox";
 import type { PhotoStorage } from "../photos/storage";
 import { contentTypeOf, extensionOf, parseParams, renderTo } from "./render";
+import * as repo from "./repository";
 
 export const RENDER_JOB = "prepared-files.render";
 export const PURGE_JOB = "prepared-files.purge";
@@ -116,17 +117,9 @@ export async function requestFile(
   return db.transaction().execute(async (trx) => {
     // One person's waiting files on a site are capped, under a lock per person and site, so
     // a double click or a script cannot fill the queue.
-    await sql`SELECT pg_advisory_xact_lock(hashtext('tideline.prepared-files'), hashtext(${actor.id + siteId}))`.execute(
-      trx,
-    );
-    const { n } = await trx
-      .selectFrom("preparedFiles")
-      .select((eb) => eb.fn.countAll<number>().as("n"))
-      .where("siteId", "=", siteId)
-      .where("requestedBy", "=", actor.id)
-      .where("state", "in", ["queued", "rendering"])
-      .executeTakeFirstOrThrow();
-    if (Number(n) >= pendingPerPerson())
+    await repo.lockRequester(trx, actor.id, siteId);
+    const n = await repo.pendingCount(trx, siteId, actor.id);
+    if (n >= pendingPerPerson())
       throw new AppError(
         429,
         "too_many_prepared_files",
@@ -135,30 +128,21 @@ export async function requestFile(
         undefined,
         { "Retry-After": "30" },
       );
-    const row = await trx
-      .insertInto("preparedFiles")
-      .values({
-        siteId,
-        requestedBy: actor.id,
-        kind,
-        params: JSON.stringify(params),
-        fileName: `${kind.replace("_", "-")}.${extensionOf(kind)}`,
-        contentType: contentTypeOf(kind),
-      })
-      .returningAll()
-      .executeTakeFirstOrThrow();
+    const row = await repo.insertFile(trx, {
+      siteId,
+      requestedBy: actor.id,
+      kind,
+      params: JSON.stringify(params),
+      fileName: `${kind.replace("_", "-")}.${extensionOf(kind)}`,
+      contentType: contentTypeOf(kind),
+    });
     await jobs.enqueue(RENDER_JOB, { fileId: row.id }, { trx });
     return toJson(row as Row);
   });
 }
 
-async function ownRow(db: Kysely<Database>, siteId: string, fileId: string, actor: Actor) {
-  const row = (await db
-    .selectFrom("preparedFiles")
-    .selectAll()
-    .where("id", "=", fileId)
-    .where("siteId", "=", siteId)
-    .executeTakeFirst()) as Row | undefined;
+async function ownRow(db: Db, siteId: string, fileId: string, actor: Actor) {
+  const row = (await repo.findFile(db, siteId, fileId)) as Row | undefined;
   // Another person's file is not confirmed to exist; an instance admin may see any.
   if (!row || (row.requestedBy !== actor.id && actor.role !== "admin")) throw notFound("That file");
   return row;
@@ -170,14 +154,7 @@ export async function getFile(db: Db, siteId: string, fileId: string, actor: Act
 
 /** The person's files on the site, newest first (the last 50). */
 export async function listFiles(db: Db, siteId: string, actor: Actor) {
-  const rows = (await db
-    .selectFrom("preparedFiles")
-    .selectAll()
-    .where("siteId", "=", siteId)
-    .where("requestedBy", "=", actor.id)
-    .orderBy("createdAt", "desc")
-    .limit(50)
-    .execute()) as Row[];
+  const rows = (await repo.filesOf(db, siteId, actor.id, 50)) as Row[];
   return { files: rows.map(toJson), retentionHours: retentionHours() };
 }
 
@@ -186,37 +163,14 @@ export async function listFiles(db: Db, siteId: string, actor: Actor) {
  * they are still a member (or any site, for an instance admin).
  */
 export async function noticesOf(db: Db, user: { id: string; isAdmin: boolean }) {
-  let q = db
-    .selectFrom("preparedFiles as f")
-    .innerJoin("sites as s", "s.id", "f.siteId")
-    .selectAll("f")
-    .select("s.name as siteName")
-    .where("f.requestedBy", "=", user.id)
-    .where("f.state", "in", ["ready", "failed"])
-    .where("f.seenAt", "is", null);
-  if (!user.isAdmin)
-    q = q.where((eb) =>
-      eb.exists(
-        eb
-          .selectFrom("memberships as m")
-          .select("m.userId")
-          .whereRef("m.siteId", "=", "f.siteId")
-          .where("m.userId", "=", user.id),
-      ),
-    );
-  const rows = await q.orderBy("f.finishedAt", "desc").limit(20).execute();
+  const rows = await repo.unseenFinished(db, user, 20);
   return { notices: rows.map((r) => ({ ...toJson(r as unknown as Row), siteName: r.siteName })) };
 }
 
 /** Dismisses the notice (idempotent). */
 export async function markSeen(db: Db, siteId: string, fileId: string, actor: Actor) {
   await ownRow(db, siteId, fileId, actor);
-  const row = (await db
-    .updateTable("preparedFiles")
-    .set({ seenAt: sql<Date>`coalesce(seen_at, now())` })
-    .where("id", "=", fileId)
-    .returningAll()
-    .executeTakeFirstOrThrow()) as Row;
+  const row = (await repo.setSeen(db, fileId)) as Row;
   return toJson(row);
 }
 
@@ -225,22 +179,7 @@ export async function retryFile(db: Db, jobs: Jobs, siteId: string, fileId: stri
   const current = await ownRow(db, siteId, fileId, actor);
   if (!mayAsk(actor.role, current.kind)) throw forbidden();
   return db.transaction().execute(async (trx) => {
-    const row = (await trx
-      .updateTable("preparedFiles")
-      .set({
-        state: "queued",
-        error: null,
-        progressDone: 0,
-        progressTotal: null,
-        seenAt: null,
-        finishedAt: null,
-        expiresAt: null,
-        version: sql<number>`version + 1`,
-      })
-      .where("id", "=", fileId)
-      .where("state", "in", ["failed", "expired"])
-      .returningAll()
-      .executeTakeFirst()) as Row | undefined;
+    const row = (await repo.requeueFailed(trx, fileId)) as Row | undefined;
     if (!row)
       throw new AppError(
         409,
@@ -286,35 +225,22 @@ const PROGRESS_EVERY_MS = 750;
 export async function renderFile(deps: PreparedDeps, data: { fileId: string }, ctx: JobContext) {
   const { db } = deps;
   // Claim: queued (or left "rendering" by an attempt cut off by a restart) → rendering, attempt n.
-  const claimed = (await db
-    .updateTable("preparedFiles")
-    .set({ state: "rendering", startedAt: new Date(), attempts: sql<number>`attempts + 1`, progressDone: 0 })
-    .where("id", "=", data.fileId)
-    .where("state", "in", ["queued", "rendering"])
-    .returningAll()
-    .executeTakeFirst()) as Row | undefined;
+  const claimed = (await repo.claimForRender(db, data.fileId)) as Row | undefined;
   if (!claimed) return; // removed, already made, or asked for again under a newer job
   const attempt = claimed.attempts;
   ctx.log.info({ fileId: claimed.id, kind: claimed.kind, attempt }, "preparing file");
-  const mine = (q: UpdateQueryBuilder<Database, "preparedFiles", "preparedFiles", UpdateResult>) =>
-    q.where("id", "=", claimed.id).where("attempts", "=", attempt).where("state", "=", "rendering");
+  const mine = (trx: Db, patch: Parameters<typeof repo.updateAttempt>[3]) =>
+    repo.updateAttempt(trx, claimed.id, attempt, patch);
 
   // The person must still be allowed to have it (removed from the crew, role changed).
-  const who = await db
-    .selectFrom("users as u")
-    .leftJoin("memberships as m", (j) => j.onRef("m.userId", "=", "u.id").on("m.siteId", "=", claimed.siteId))
-    .select(["u.id", "u.name", "u.email", "u.isAdmin", "m.role"])
-    .where("u.id", "=", claimed.requestedBy)
-    .executeTakeFirst();
+  const who = await repo.requesterOf(db, claimed.requestedBy, claimed.siteId);
   const role = who?.isAdmin ? "admin" : who?.role;
   if (!who || !role || !mayAsk(role, claimed.kind)) {
-    await mine(db.updateTable("preparedFiles"))
-      .set({
-        state: "failed",
-        error: "You are no longer allowed to have this file on this site.",
-        finishedAt: new Date(),
-      })
-      .execute();
+    await mine(db, {
+      state: "failed",
+      error: "You are no longer allowed to have this file on this site.",
+      finishedAt: new Date(),
+    });
     return;
   }
 
@@ -325,11 +251,7 @@ export async function renderFile(deps: PreparedDeps, data: { fileId: string }, c
     if (now - last < PROGRESS_EVERY_MS && done !== total) return;
     last = now;
     pending = pending
-      .then(() =>
-        mine(db.updateTable("preparedFiles"))
-          .set({ progressDone: done, ...(total !== undefined ? { progressTotal: total } : {}) })
-          .execute(),
-      )
+      .then(() => mine(db, { progressDone: done, ...(total !== undefined ? { progressTotal: total } : {}) }))
       .catch(() => {}); // progress is a courtesy: a failed write never fails the file
   };
 
@@ -348,19 +270,21 @@ export async function renderFile(deps: PreparedDeps, data: { fileId: string }, c
     const { size } = await stat(tmp);
     const hours = retentionHours();
     const done = await db.transaction().execute(async (trx) => {
-      const row = (await mine(trx.updateTable("preparedFiles"))
-        .set({
+      const row = (await repo.finishAttempt(
+        trx,
+        claimed.id,
+        attempt,
+        {
           state: "ready",
           storageKey: key,
           sizeBytes: size,
           fileName,
           error: null,
           finishedAt: new Date(),
-          expiresAt: sql<Date>`now() + ${hours} * interval '1 hour'`,
           seenAt: null,
-        })
-        .returningAll()
-        .executeTakeFirst()) as Row | undefined;
+        },
+        hours,
+      )) as Row | undefined;
       if (row && row.kind === "survey_report" && who.email)
         await queueMail(trx, deps.jobs, readyMail(deps.publicUrl, row, who.name, who.email), {
           type: "prepared_file",
@@ -377,16 +301,12 @@ export async function renderFile(deps: PreparedDeps, data: { fileId: string }, c
     await deps.photoStorage.delete(key).catch(() => {});
     const reason = reasonOf(e);
     if (ctx.lastAttempt) {
-      await mine(db.updateTable("preparedFiles"))
-        .set({ state: "failed", error: reason, finishedAt: new Date(), seenAt: null })
-        .execute()
-        .catch(() => {});
+      await mine(db, { state: "failed", error: reason, finishedAt: new Date(), seenAt: null }).catch(() => {});
     } else {
       // Back to waiting: the queue runs it again after its retry delay.
-      await mine(db.updateTable("preparedFiles"))
-        .set({ state: "queued", error: `Attempt ${attempt} failed (${reason}); trying again.` })
-        .execute()
-        .catch(() => {});
+      await mine(db, { state: "queued", error: `Attempt ${attempt} failed (${reason}); trying again.` }).catch(
+        () => {},
+      );
     }
     throw e;
   } finally {
@@ -406,7 +326,7 @@ function reasonOf(e: unknown): string {
 }
 
 function readyMail(publicUrl: string, row: Row, name: string, email: string) {
-  const url = `${publicUrl}/sites/${row.siteId}/reports#prepared-files`;
+  const url = `${publicUrl}${paths.reports.href(row.siteId)}#prepared-files`;
   const body = compose({
     subject: `Tideline: your ${PREPARED_KIND_LABELS[row.kind].toLowerCase()} is ready`,
     greeting: `Hello ${name},`,
@@ -423,24 +343,12 @@ function readyMail(publicUrl: string, row: Row, name: string, email: string) {
 
 /** The handler of "prepared-files.purge": removes stored objects whose keeping time ran out. */
 export async function purgeExpired(deps: Pick<PreparedDeps, "db" | "photoStorage">, now = new Date()) {
-  const due = await deps.db
-    .selectFrom("preparedFiles")
-    .select(["id", "storageKey"])
-    .where("state", "in", ["ready", "failed"])
-    .where("expiresAt", "<=", now)
-    .limit(500)
-    .execute();
+  const due = await repo.expiredFiles(deps.db, now, 500);
   let removed = 0;
   for (const f of due) {
     if (f.storageKey) await deps.photoStorage.delete(f.storageKey);
     // Deleted first, then marked: a crash in between leaves a row that is purged again (delete is idempotent).
-    const r = await deps.db
-      .updateTable("preparedFiles")
-      .set({ state: "expired", storageKey: null })
-      .where("id", "=", f.id)
-      .where("state", "in", ["ready", "failed"])
-      .executeTakeFirst();
-    removed += Number(r.numUpdatedRows);
+    removed += await repo.markExpired(deps.db, f.id);
   }
   return { removed };
 }
@@ -454,13 +362,7 @@ const ORPHAN_GRACE_MS = 5 * 60_000;
  * failed here (part of the scheduled clean-up), with a notice, so nobody waits on them for ever.
  */
 export async function failOrphaned(deps: Pick<PreparedDeps, "db" | "jobs">, now = new Date()) {
-  const waiting = await deps.db
-    .selectFrom("preparedFiles")
-    .select(["id", "attempts"])
-    .where("state", "in", ["queued", "rendering"])
-    .where(sql<Date>`coalesce(started_at, created_at)`, "<", new Date(now.getTime() - ORPHAN_GRACE_MS))
-    .limit(500)
-    .execute();
+  const waiting = await repo.staleWaiting(deps.db, new Date(now.getTime() - ORPHAN_GRACE_MS), 500);
   if (!waiting.length) return { failed: 0 };
   const live = await deps.jobs.liveFor(
     RENDER_JOB,
@@ -469,19 +371,13 @@ export async function failOrphaned(deps: Pick<PreparedDeps, "db" | "jobs">, now 
   );
   let failed = 0;
   for (const f of waiting.filter((w) => !live.has(w.id))) {
-    const r = await deps.db
-      .updateTable("preparedFiles")
-      .set({
-        state: "failed",
-        error: "Its last attempt was cut off (the server making it stopped). Ask for it again.",
-        finishedAt: now,
-        seenAt: null,
-      })
-      .where("id", "=", f.id)
-      .where("attempts", "=", f.attempts)
-      .where("state", "in", ["queued", "rendering"])
-      .executeTakeFirst();
-    failed += Number(r.numUpdatedRows);
+    failed += await repo.failStale(
+      deps.db,
+      f.id,
+      f.attempts,
+      "Its last attempt was cut off (the server making it stopped). Ask for it again.",
+      now,
+    );
   }
   return { failed };
 }

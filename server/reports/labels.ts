@@ -5,13 +5,13 @@
  * vector squares so they stay sharp at any printer resolution.
  */
 import QRCode from "qrcode";
-import { sql } from "kysely";
 import { labelSheet, labelSlots, tagUrl, type LabelSheetId } from "../../src/domain/label-sheets";
 import { COMPONENT_KIND_LABELS, type ComponentKind } from "../../src/domain/vocab";
 import type { LabelsQuery } from "../../src/schemas/reports";
 import type { Db } from "../db";
 import { notFound } from "../errors";
 import { INK, line, mm, newDocument, text } from "./pdf-base";
+import { boardOnSite, labelRows, sectionOnSite } from "./repository";
 
 export interface LabelItem {
   tagNumber: string;
@@ -27,40 +27,9 @@ export async function labelItems(
   siteId: string,
   q: LabelsQuery,
 ): Promise<{ items: LabelItem[]; untagged: number }> {
-  if (q.boardId) {
-    const b = await db
-      .selectFrom("boards")
-      .select("id")
-      .where("siteId", "=", siteId)
-      .where("id", "=", q.boardId)
-      .executeTakeFirst();
-    if (!b) throw notFound("That board");
-  }
-  if (q.sectionId) {
-    const s = await db
-      .selectFrom("sections")
-      .select("id")
-      .where("siteId", "=", siteId)
-      .where("id", "=", q.sectionId)
-      .executeTakeFirst();
-    if (!s) throw notFound("That section");
-  }
-  const rows = await db
-    .selectFrom("positions as p")
-    .innerJoin("boards as b", "b.id", "p.boardId")
-    .innerJoin("sites as st", "st.id", "p.siteId")
-    .leftJoin("sections as s", "s.id", "p.sectionId")
-    .innerJoin("components as c", (j) => j.onRef("c.positionId", "=", "p.id").on("c.retiredAt", "is", null))
-    .select(["c.tagNumber", "b.name as boardName", "p.designation", "c.kind", "st.name as siteName"])
-    .where("p.siteId", "=", siteId)
-    .$if(!!q.boardId, (w) => w.where("p.boardId", "=", q.boardId!))
-    .$if(!!q.sectionId, (w) => w.where("p.sectionId", "=", q.sectionId!))
-    .$if(!!q.positionIds?.length, (w) => w.where("p.id", "in", q.positionIds!))
-    .orderBy("b.name")
-    .orderBy(sql`coalesce(s.sort_order, 1000000)`)
-    .orderBy("p.sortOrder")
-    .orderBy("p.designation")
-    .execute();
+  if (q.boardId && !(await boardOnSite(db, siteId, q.boardId))) throw notFound("That board");
+  if (q.sectionId && !(await sectionOnSite(db, siteId, q.sectionId))) throw notFound("That section");
+  const rows = await labelRows(db, siteId, q);
   const items = rows
     .filter((r) => r.tagNumber)
     .map((r) => ({

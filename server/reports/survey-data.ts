@@ -4,7 +4,7 @@
  * Reads only: the report writes nothing except through the parts service's own
  * reconciliation, which every read of the wanted list runs.
  */
-import { sql, type Selectable } from "kysely";
+import type { Selectable } from "kysely";
 import type { BoardsTable } from "../../db/types";
 import type {
   ComponentKind,
@@ -20,6 +20,7 @@ import type { PartLine } from "../../src/schemas/parts";
 import type { SurveyReportQuery } from "../../src/schemas/reports";
 import type { Db } from "../db";
 import { notFound } from "../errors";
+import * as repo from "./repository";
 import { allLines } from "../parts/service";
 import * as readings from "../readings/service";
 import { boardView } from "../return-to-service/view";
@@ -167,25 +168,12 @@ export async function loadSurveyData(
   q: SurveyReportQuery,
   viewer: { id: string; name: string },
 ): Promise<ReportData> {
-  const site = await db
-    .selectFrom("sites")
-    .select(["id", "name", "kind", "location", "description"])
-    .where("id", "=", siteId)
-    .executeTakeFirstOrThrow();
-  let bq = db.selectFrom("boards").selectAll().where("siteId", "=", siteId).orderBy("name");
-  if (q.boardId) bq = bq.where("id", "=", q.boardId);
-  const boardRows = await bq.execute();
+  const site = await repo.siteForReport(db, siteId);
+  const boardRows = await repo.boardsForReport(db, siteId, q.boardId);
   if (q.boardId && boardRows.length === 0) throw notFound("That board");
 
   const [flood, criteria, parts] = await Promise.all([
-    db
-      .selectFrom("floodEvents")
-      .selectAll()
-      .where("siteId", "=", siteId)
-      .orderBy("occurredOn", "desc")
-      .orderBy("createdAt", "desc")
-      .limit(1)
-      .executeTakeFirst(),
+    repo.latestFlood(db, siteId),
     readings.loadCriteria(db, siteId),
     q.sections && !q.sections.includes("parts") && !q.sections.includes("summary")
       ? Promise.resolve([] as PartLine[])
@@ -200,24 +188,7 @@ export async function loadSurveyData(
   }
 
   const boardIds = boardRows.map((b) => b.id);
-  const surveyRows = boardIds.length
-    ? await db
-        .selectFrom("inspections as i")
-        .innerJoin("positions as p", "p.id", "i.positionId")
-        .leftJoin("users as u", "u.id", "i.inspectorId")
-        .select([
-          sql<string>`coalesce(u.name, 'Unknown')`.as("name"),
-          sql<number>`count(*)::int`.as("n"),
-          sql<Date>`min(i.inspected_at)`.as("first"),
-          sql<Date>`max(i.inspected_at)`.as("last"),
-        ])
-        .where("p.boardId", "in", boardIds)
-        .$if(!!q.from, (w) => w.where(sql`i.inspected_at::date`, ">=", q.from!))
-        .$if(!!q.to, (w) => w.where(sql`i.inspected_at::date`, "<=", q.to!))
-        .groupBy("u.name")
-        .orderBy(sql`count(*)`, "desc")
-        .execute()
-    : [];
+  const surveyRows = boardIds.length ? await repo.surveyorsOf(db, boardIds, q) : [];
   const firsts = surveyRows.map((r) => new Date(r.first).getTime());
   const lasts = surveyRows.map((r) => new Date(r.last).getTime());
 
@@ -256,113 +227,17 @@ type BoardRow = Selectable<BoardsTable>;
 async function loadBoard(db: Db, siteId: string, b: BoardRow, q: SurveyReportQuery): Promise<ReportBoard> {
   const [sections, positions, components, latest, photos, insulation, contacts, thermal, groundChecks, defects] =
     await Promise.all([
-      db
-        .selectFrom("sections")
-        .select(["id", "name", "sortOrder"])
-        .where("boardId", "=", b.id)
-        .orderBy("sortOrder")
-        .orderBy("name")
-        .execute(),
-      db
-        .selectFrom("positions")
-        .select([
-          "id",
-          "designation",
-          "kind",
-          "circuit",
-          "sectionId",
-          "gridRow",
-          "gridCol",
-          "rowSpan",
-          "colSpan",
-          "sortOrder",
-        ])
-        .where("boardId", "=", b.id)
-        .orderBy("sortOrder")
-        .orderBy("gridRow")
-        .orderBy("gridCol")
-        .execute(),
-      db
-        .selectFrom("components as c")
-        .innerJoin("positions as p", "p.id", "c.positionId")
-        .leftJoin("users as u", "u.id", "c.dispositionBy")
-        .selectAll("c")
-        .select("u.name as decidedByName")
-        .where("p.boardId", "=", b.id)
-        .where("c.retiredAt", "is", null)
-        .execute(),
+      repo.sectionsOfBoard(db, b.id),
+      repo.positionsOfBoard(db, b.id),
+      repo.componentsOfBoard(db, b.id),
       // The newest inspection of each position's component inside the date range (DISTINCT ON).
-      db
-        .selectFrom("inspections as i")
-        .innerJoin("positions as p", "p.id", "i.positionId")
-        .leftJoin("users as u", "u.id", "i.inspectorId")
-        .innerJoin("components as c", (j) => j.onRef("c.id", "=", "i.componentId").on("c.retiredAt", "is", null))
-        .select([
-          "i.positionId",
-          "i.inspectedAt",
-          "u.name as inspectorName",
-          "i.percentRusted",
-          "i.astmGrade",
-          "i.isoRi",
-          "i.belowWaterLine",
-          "i.contaminants",
-          "i.mechanism",
-          "i.insulation",
-          "i.notes",
-        ])
-        .distinctOn("i.positionId")
-        .where("p.boardId", "=", b.id)
-        .$if(!!q.from, (w) => w.where(sql`i.inspected_at::date`, ">=", q.from!))
-        .$if(!!q.to, (w) => w.where(sql`i.inspected_at::date`, "<=", q.to!))
-        .orderBy("i.positionId")
-        .orderBy("i.inspectedAt", "desc")
-        .orderBy("i.createdAt", "desc")
-        .execute(),
-      q.photos === "yes"
-        ? db
-            .selectFrom("photos as ph")
-            .innerJoin("positions as p", "p.id", "ph.positionId")
-            .select([
-              "ph.id",
-              "ph.positionId",
-              "ph.kind",
-              "ph.displayKey",
-              "ph.caption",
-              sql<Date>`coalesce(ph.captured_at, ph.created_at)`.as("takenAt"),
-            ])
-            .where("p.boardId", "=", b.id)
-            .where("ph.deletedAt", "is", null)
-            .where("ph.kind", "in", REPORT_PHOTO_KINDS)
-            .orderBy(sql`coalesce(ph.captured_at, ph.created_at)`, "desc")
-            .execute()
-        : Promise.resolve([]),
+      repo.latestInspectionsOfBoard(db, b.id, q),
+      q.photos === "yes" ? repo.reportPhotosOfBoard(db, b.id, REPORT_PHOTO_KINDS) : Promise.resolve([]),
       readings.listInsulation(db, siteId, { boardId: b.id, limit: ALL }),
       readings.listContacts(db, siteId, { boardId: b.id, limit: ALL }),
       readings.listThermal(db, siteId, { boardId: b.id, limit: ALL }),
       readings.listGroundChecks(db, siteId, { boardId: b.id, limit: ALL }),
-      db
-        .selectFrom("defects as d")
-        .leftJoin("positions as p", "p.id", "d.positionId")
-        .leftJoin("users as u", "u.id", "d.assigneeId")
-        .select([
-          "d.ref",
-          "d.title",
-          "p.designation",
-          "d.category",
-          "d.severity",
-          "d.status",
-          "d.safetyCritical",
-          "d.blocksEnergisation",
-          "u.name as assigneeName",
-          "d.dueOn",
-          "d.priorityScore",
-        ])
-        .where("d.siteId", "=", siteId)
-        .where("d.boardId", "=", b.id)
-        .orderBy(sql`case when d.status in (${sql.join(FINISHED.map((x) => sql.lit(x)))}) then 1 else 0 end`)
-        .orderBy("d.priorityScore", "desc")
-        .orderBy("d.ref")
-        .execute(),
+      repo.defectsOfBoard(db, siteId, b.id, FINISHED),
     ]);
 
   const compByPos = new Map(components.map((c) => [c.positionId, c]));

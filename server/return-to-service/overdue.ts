@@ -66,7 +66,7 @@ export async function sendOverdueWatchNotices(deps: MailDeps, now: Date): Promis
         ],
         action: { label: "Open the watch checks", url },
         footer: [
-          `You get this because you are the qualified person for this stage. Switch these e-mails off on your account page: ${deps.publicUrl}/account`,
+          `You get this because you are the qualified person for this stage. Switch these e-mails off on your account page: ${deps.publicUrl}${paths.account.href()}`,
           "Tideline records and computes; it never authorises energisation. NFPA 70E, local codes and qualified persons decide.",
         ],
       }),
