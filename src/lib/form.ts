@@ -71,10 +71,16 @@ export function hasFieldErrors<In extends FieldValues>(errors: FieldErrors<In>):
   return Object.keys(errors).some((k) => k !== "root");
 }
 
-/** The message above a form: the server's, or a pointer to the fields marked below. */
-export function formMessage<In extends FieldValues>(errors: FieldErrors<In>): string | null {
+/**
+ * The form's own message: the server's, or a pointer to the fields marked. `where` the fields are
+ * from the message: "below" when it sits at the top of the form, "above" when beside the button.
+ */
+export function formMessage<In extends FieldValues>(
+  errors: FieldErrors<In>,
+  where: "above" | "below" = "below",
+): string | null {
   if (errors.root?.server?.message) return errors.root.server.message;
-  return hasFieldErrors(errors) ? "Check the fields marked below." : null;
+  return hasFieldErrors(errors) ? `Check the fields marked ${where}.` : null;
 }
 
 /** A field's message, for `error={fieldError(errors, "circuit")}`. */

@@ -28,7 +28,7 @@ const int = (min: number, max: number) =>
     .max(max, { message: `At most ${max}` });
 const num = (min: number, max: number) =>
   z
-    .number()
+    .number({ message: "A number" })
     .min(min, { message: `At least ${min}` })
     .max(max, { message: `At most ${max}` });
 const version = int(1, 2_147_483_647);

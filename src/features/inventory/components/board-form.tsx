@@ -78,7 +78,7 @@ export function BoardForm({ siteId, board, onSaved }: { siteId: string; board?: 
   const m = base ? update : create;
   const conflict = conflictRecord<Board>(update.error);
   // A stale version shows as the conflict notice below, not as a message.
-  const message = conflict ? null : formMessage(errors);
+  const message = conflict ? null : formMessage(errors, "above");
   const done = (b: Board) => {
     setBase(b);
     form.reset(toDraft(b));

@@ -95,7 +95,7 @@ export function CustodyForm({
   const releasable = refusals.length > 0 && refusals.every((r) => r.releasable);
   const blocked = refusals.length > 0 && !(canRelease && releasable && release.trim().length >= 5);
   // A stale version shows as the conflict notice below, not as a message.
-  const message = conflict ? null : formMessage(errors);
+  const message = conflict ? null : formMessage(errors, "above");
 
   const save = (version: number) =>
     form.handleSubmit((body) =>

@@ -60,7 +60,7 @@ export function FloodEventForm({
   const active = base ? m.update : m.create;
   const conflict = conflictRecord<FloodEvent>(m.update.error);
   // A stale version shows as the conflict notice below, not as a message.
-  const message = conflict ? null : formMessage(errors);
+  const message = conflict ? null : formMessage(errors, "above");
 
   const save = (version?: number) =>
     form.handleSubmit((body) =>

@@ -47,7 +47,7 @@ export function GeneratePositions({
   const { register, formState } = form;
   const errors = formState.errors;
   const e = (name: keyof GenerateFormValues) => fieldError(errors, name);
-  const message = formMessage(errors);
+  const message = formMessage(errors, "above");
   const [prefix, fromText, toText] = form.watch(["prefix", "from", "to"]);
   const from = Number(fromText),
     to = Number(toText);

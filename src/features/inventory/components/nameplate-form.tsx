@@ -58,7 +58,7 @@ export function NameplateForm({ siteId, component }: { siteId: string; component
   const m = useUpdateComponent(siteId);
   const conflict = conflictRecord<Component>(m.error);
   // A stale version shows as the conflict notice below, not as a message.
-  const message = conflict ? null : formMessage(errors);
+  const message = conflict ? null : formMessage(errors, "above");
   const save = (version: number) =>
     form.handleSubmit((body) =>
       m.mutateAsync({ id: base.id, ...body, version }).then(

@@ -26,7 +26,7 @@ function SectionRow({ s, siteId, boardId }: { s: Section; siteId: string; boardI
   // A stale version shows as the notice below; a refused delete as its own message.
   const message = stale
     ? null
-    : (formMessage(errors) ?? (m.remove.error instanceof Error ? m.remove.error.message : null));
+    : (formMessage(errors, "above") ?? (m.remove.error instanceof Error ? m.remove.error.message : null));
   const rename = (version: number) =>
     form.handleSubmit((body) =>
       m.update.mutateAsync({ id: s.id, ...body, version }).catch((e: unknown) => {
