@@ -1,17 +1,45 @@
 import { useState } from "react";
 import { Link, useParams, useSearchParams } from "react-router";
+import { z } from "zod";
 import { Button } from "../../../components/button";
 import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { can } from "../../../domain/permissions";
-import { LAMP_LOOKS, LAMP_LOOK_LABELS } from "../../../schemas/return-to-service";
+import { LAMP_LOOKS, LAMP_LOOK_LABELS, watchCheckBody } from "../../../schemas/return-to-service";
 import { useRecordWatchCheck, useRtsBoard } from "../../../features/return-to-service/api";
-import { ApiError } from "../../../lib/api-client";
+import { fieldError, formMessage, showSaveError, useSchemaForm } from "../../../lib/form";
 import { RtsCaution } from "../../../features/return-to-service/components/rts-caution";
 import { useSiteContext } from "../sites/site-layout";
 
 const big = "min-h-14 flex-1 rounded-md px-3 text-lg font-semibold ring-1";
 const pick = (on: boolean) => (on ? "bg-brass-400 text-hull-950 ring-brass-300" : "bg-hull-800 ring-hull-600");
+const PHASES = ["A", "B", "C"] as const;
+const needsPhaseOf = (lamps: string | null) => lamps === "one_dim" || lamps === "one_dark";
+
+/**
+ * The taps → the request body; watchCheckBody (the server's own schema) validates it. The phase
+ * goes only with a dim or dark lamp; the time is added as it is sent (useRecordWatchCheck).
+ */
+const watchForm = z
+  .object({
+    lamps: z.string().nullable(),
+    lampPhase: z.string().nullable(),
+    smell: z.boolean(),
+    sound: z.boolean(),
+    warmToHand: z.boolean(),
+    note: z.string(),
+  })
+  .transform((v) => ({ ...v, lampPhase: needsPhaseOf(v.lamps) ? v.lampPhase : null }) as z.input<typeof watchCheckBody>)
+  .pipe(watchCheckBody);
+type WatchFormValues = z.input<typeof watchForm>;
+const blank: WatchFormValues = {
+  lamps: null,
+  lampPhase: null,
+  smell: false,
+  sound: false,
+  warmToHand: false,
+  note: "",
+};
 
 /** A watch check in a few taps, on a phone, in the dark. */
 export default function WatchPage() {
@@ -20,55 +48,46 @@ export default function WatchPage() {
   const [search] = useSearchParams();
   const q = useRtsBoard(site.id, boardId);
   const act = useRecordWatchCheck(site.id);
-  const [lamps, setLamps] = useState<(typeof LAMP_LOOKS)[number] | null>(null);
-  const [phase, setPhase] = useState<"A" | "B" | "C" | null>(null);
-  const [smell, setSmell] = useState(false);
-  const [sound, setSound] = useState(false);
-  const [warm, setWarm] = useState(false);
-  const [note, setNote] = useState("");
+  const form = useSchemaForm(watchForm, blank);
+  const { register, setValue, formState } = form;
+  const errors = formState.errors;
+  const [lamps, phase, smell, sound, warm] = form.watch(["lamps", "lampPhase", "smell", "sound", "warmToHand"]);
+  const tap = <K extends keyof WatchFormValues>(name: K, value: WatchFormValues[K]) =>
+    setValue(name, value as never, { shouldDirty: true, shouldValidate: formState.isSubmitted });
   const [done, setDone] = useState<{ text: string; defectId: string | null; queued?: boolean } | null>(null);
   if (q.isPending) return <Loading what="Loading the stages under watch" />;
   if (q.isLoadingError || serverRefused(q.error)) return <ErrorPanel error={q.error} />;
   const live = q.data.stages.filter((s) => s.status === "energised");
   const stopped = q.data.stages.filter((s) => s.status === "stopped");
   const stage = live.find((s) => s.id === search.get("stage")) ?? live[0];
-  const needsPhase = lamps === "one_dim" || lamps === "one_dark";
-  const save = () =>
-    act.mutate(
-      {
-        stageId: stage!.id,
-        stageName: stage!.name,
-        body: { lamps, lampPhase: needsPhase ? phase : null, smell, sound, warmToHand: warm, note },
-      },
-      {
-        onSuccess: (r) => {
-          const abnormal = lamps !== "equal" || smell || sound || warm;
-          const inc = r.queued ? [] : r.data.incidents;
-          setDone(
-            r.queued
+  const needsPhase = needsPhaseOf(lamps);
+  const submit = form.handleSubmit((body) =>
+    act.mutateAsync({ stageId: stage!.id, stageName: stage!.name, body }).then(
+      (r) => {
+        const abnormal = body.lamps !== "equal" || body.smell || body.sound || body.warmToHand;
+        const inc = r.queued ? [] : r.data.incidents;
+        setDone(
+          r.queued
+            ? {
+                text: abnormal
+                  ? "Kept on this phone: no signal, so no incident is recorded and nobody is told yet. What you saw is not normal: tell the qualified person in person now and follow the stop procedure."
+                  : "Kept on this phone: no signal. It is logged at this minute and sent by itself when the connection returns.",
+                defectId: null,
+                queued: true,
+              }
+            : inc.length
               ? {
-                  text: abnormal
-                    ? "Kept on this phone: no signal, so no incident is recorded and nobody is told yet. What you saw is not normal: tell the qualified person in person now and follow the stop procedure."
-                    : "Kept on this phone: no signal. It is logged at this minute and sent by itself when the connection returns.",
-                  defectId: null,
-                  queued: true,
+                  text: `Saved. Incident recorded: defect D-${inc[0].defectRef} opened and the stage is stopped. Tell the qualified person now.`,
+                  defectId: inc[0].defectId,
                 }
-              : inc.length
-                ? {
-                    text: `Saved. Incident recorded: defect D-${inc[0].defectRef} opened and the stage is stopped. Tell the qualified person now.`,
-                    defectId: inc[0].defectId,
-                  }
-                : { text: "Saved. Thank you.", defectId: null },
-          );
-          setLamps(null);
-          setPhase(null);
-          setSmell(false);
-          setSound(false);
-          setWarm(false);
-          setNote("");
-        },
+              : { text: "Saved. Thank you.", defectId: null },
+        );
+        form.reset(blank);
       },
-    );
+      (err: unknown) => showSaveError(form, err),
+    ),
+  );
+  const message = formMessage(errors);
   return (
     <div className="mx-auto max-w-md space-y-4">
       <p>
@@ -100,14 +119,7 @@ export default function WatchPage() {
       {!stage ? (
         <p>No stage of {q.data.board.name} is live under watch.</p>
       ) : (
-        <form
-          className="space-y-4"
-          onSubmit={(e) => {
-            e.preventDefault();
-            save();
-          }}
-          aria-label="Watch check"
-        >
+        <form className="space-y-4" onSubmit={(e) => void submit(e)} noValidate aria-label="Watch check">
           <p className="text-sm">
             <strong>{stage.name}</strong>
             <br />
@@ -123,7 +135,14 @@ export default function WatchPage() {
             )}
           </p>
           <fieldset className="space-y-2">
-            <legend className="font-semibold">Ground-detection lamps</legend>
+            <legend className="font-semibold">
+              Ground-detection lamps{" "}
+              {fieldError(errors, "lamps") && (
+                <span role="alert" className="text-rust-300">
+                  — {fieldError(errors, "lamps")}
+                </span>
+              )}
+            </legend>
             <div className="grid grid-cols-2 gap-2">
               {LAMP_LOOKS.map((l) => (
                 <button
@@ -131,7 +150,7 @@ export default function WatchPage() {
                   key={l}
                   aria-pressed={lamps === l}
                   className={`${big} ${pick(lamps === l)}`}
-                  onClick={() => setLamps(l)}
+                  onClick={() => tap("lamps", l)}
                 >
                   {LAMP_LOOK_LABELS[l]}
                 </button>
@@ -140,15 +159,22 @@ export default function WatchPage() {
           </fieldset>
           {needsPhase && (
             <fieldset className="space-y-2">
-              <legend className="font-semibold">Which phase's lamp?</legend>
+              <legend className="font-semibold">
+                Which phase's lamp?{" "}
+                {fieldError(errors, "lampPhase") && (
+                  <span role="alert" className="text-rust-300">
+                    — {fieldError(errors, "lampPhase")}
+                  </span>
+                )}
+              </legend>
               <div className="flex gap-2">
-                {(["A", "B", "C"] as const).map((p) => (
+                {PHASES.map((p) => (
                   <button
                     type="button"
                     key={p}
                     aria-pressed={phase === p}
                     className={`${big} ${pick(phase === p)}`}
-                    onClick={() => setPhase(p)}
+                    onClick={() => tap("lampPhase", p)}
                   >
                     {p}
                   </button>
@@ -163,7 +189,7 @@ export default function WatchPage() {
                 type="button"
                 aria-pressed={smell}
                 className={`${big} ${pick(smell)}`}
-                onClick={() => setSmell(!smell)}
+                onClick={() => tap("smell", !smell)}
               >
                 Smell
               </button>
@@ -171,7 +197,7 @@ export default function WatchPage() {
                 type="button"
                 aria-pressed={sound}
                 className={`${big} ${pick(sound)}`}
-                onClick={() => setSound(!sound)}
+                onClick={() => tap("sound", !sound)}
               >
                 Sound
               </button>
@@ -179,7 +205,7 @@ export default function WatchPage() {
                 type="button"
                 aria-pressed={warm}
                 className={`${big} ${pick(warm)}`}
-                onClick={() => setWarm(!warm)}
+                onClick={() => tap("warmToHand", !warm)}
               >
                 Warm
               </button>
@@ -189,20 +215,29 @@ export default function WatchPage() {
             Note
             <textarea
               className="mt-1 w-full rounded-md bg-hull-900 p-2 ring-1 ring-hull-600"
-              value={note}
-              onChange={(e) => setNote(e.target.value)}
+              aria-invalid={!!fieldError(errors, "note")}
+              {...register("note")}
             />
           </label>
+          {fieldError(errors, "note") && (
+            <p role="alert" className="text-sm text-rust-300">
+              {fieldError(errors, "note")}
+            </p>
+          )}
           {can(role, "rts.record_watch") ? (
-            <Button type="submit" className="w-full" disabled={!lamps || (needsPhase && !phase) || act.isPending}>
+            <Button
+              type="submit"
+              className="w-full"
+              disabled={!lamps || (needsPhase && !phase) || formState.isSubmitting}
+            >
               Save the check
             </Button>
           ) : (
             <p className="text-mist">Your role reads the watch; volunteers and the curator record checks.</p>
           )}
-          {act.error && (
+          {message && (
             <p role="alert" className="text-rust-300">
-              {act.error instanceof ApiError ? act.error.message : String(act.error)}
+              {message}
             </p>
           )}
         </form>
