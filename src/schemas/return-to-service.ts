@@ -14,7 +14,11 @@ import type { ComponentKind } from "../domain/vocab";
 
 const dateStr = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, { message: "Use YYYY-MM-DD" });
 const when = z.iso.datetime({ offset: true, message: "Give a date and time" });
-const amps = z.number().positive({ message: "Amperes above 0" }).max(100_000).nullable();
+const amps = z
+  .number({ message: "Amperes as a number" })
+  .positive({ message: "Amperes above 0" })
+  .max(100_000)
+  .nullable();
 const text = (max: number) => z.string().trim().max(max);
 const version = z.number().int().min(1);
 
@@ -27,15 +31,15 @@ const stageFields = {
   protectionRatingA: amps,
   protectionLimitA: amps,
   voltageStep: z.enum(VOLTAGE_STEPS, { message: "Reduced or full voltage" }),
-  stepVolts: z.number().positive().max(100_000).nullable(),
+  stepVolts: z.number({ message: "Volts as a number" }).positive({ message: "Volts above 0" }).max(100_000).nullable(),
   dependsOnId: z.uuid().nullable(),
   qualifiedPersonId: z.uuid().nullable(),
   watchHours: z
-    .number()
-    .min(0)
+    .number({ message: "Hours as a number" })
+    .min(0, { message: "Hours from 0" })
     .max(24 * 60),
   checkEveryHours: z
-    .number()
+    .number({ message: "Hours as a number" })
     .min(0.25, { message: "At least every 15 minutes" })
     .max(24 * 14),
   notes: text(4000),

@@ -1,19 +1,76 @@
-import { useState } from "react";
+import { useMemo, useState } from "react";
+import { useController, type FieldErrors } from "react-hook-form";
+import { z } from "zod";
 import { Button } from "../../../components/button";
-import {
-  SUPPLIES,
-  SUPPLY_LABELS,
-  VOLTAGE_STEPS,
-  VOLTAGE_STEP_LABELS,
-  type Supply,
-  type VoltageStep,
-} from "../../../domain/return-to-service";
-import type { RtsBoardView, RtsStage } from "../../../schemas/return-to-service";
+import { SelectField, TextArea, TextField } from "../../../components/field";
+import { SUPPLIES, SUPPLY_LABELS, VOLTAGE_STEPS, VOLTAGE_STEP_LABELS } from "../../../domain/return-to-service";
 import { ApiError } from "../../../lib/api-client";
+import { blankAsNull, fieldError, formMessage, numberText, showSaveError, useSchemaForm } from "../../../lib/form";
+import {
+  createStageBody,
+  patchStageBody,
+  type CreateStageBody,
+  type PatchStageBody,
+  type RtsBoardView,
+  type RtsStage,
+} from "../../../schemas/return-to-service";
 import { useRtsAction } from "../api";
 
-const input = "mt-1 w-full min-h-11 rounded-md bg-hull-900 px-2 ring-1 ring-hull-600";
-const num = (s: string) => (s.trim() === "" ? null : Number(s));
+/** The designations typed (space, comma or semicolon between them). */
+const designationsOf = (text: string) => text.split(/[\s,;]+/).filter(Boolean);
+const sameDesignation = (a: string, b: string) => a.toLowerCase() === b.toLowerCase();
+
+/**
+ * The form's text → the request body; createStageBody or, for an edit, patchStageBody (the
+ * server's own schemas) validates it. While a stage is live its scope, supply, protection and
+ * voltage are not sent: they stay as energised.
+ */
+const stageForm = (view: RtsBoardView, stage: RtsStage | undefined) => {
+  const live = stage?.status === "energised";
+  const target: z.ZodType<CreateStageBody | PatchStageBody, unknown> = stage ? patchStageBody : createStageBody;
+  return z
+    .object({
+      name: z.string(),
+      sectionIds: z.array(z.string()),
+      positions: z.string(),
+      supply: z.string(),
+      protectionDevice: z.string(),
+      protectionRatingA: numberText,
+      protectionLimitA: numberText,
+      voltageStep: z.string(),
+      stepVolts: numberText,
+      qualifiedPersonId: blankAsNull,
+      dependsOnId: blankAsNull,
+      watchHours: numberText,
+      checkEveryHours: numberText,
+      notes: z.string(),
+    })
+    .transform(({ positions, ...v }): unknown => {
+      const positionIds = designationsOf(positions).flatMap((d) =>
+        view.positions.filter((p) => sameDesignation(p.designation, d)).map((p) => p.id),
+      );
+      const plan = {
+        name: v.name,
+        qualifiedPersonId: v.qualifiedPersonId,
+        dependsOnId: v.dependsOnId,
+        watchHours: v.watchHours,
+        checkEveryHours: v.checkEveryHours,
+        notes: v.notes,
+      };
+      const scope = {
+        sectionIds: v.sectionIds,
+        positionIds,
+        supply: v.supply,
+        protectionDevice: v.protectionDevice,
+        protectionRatingA: v.protectionRatingA,
+        protectionLimitA: v.protectionLimitA,
+        voltageStep: v.voltageStep,
+        stepVolts: v.stepVolts,
+      };
+      return stage ? { ...plan, ...(live ? {} : scope), version: stage.version } : { ...plan, ...scope };
+    })
+    .pipe(target);
+};
 
 /**
  * The curator's form for a stage: what it brings back, the supply, the protection in front of
@@ -34,72 +91,56 @@ export function StageForm({
   onDone: () => void;
 }) {
   const act = useRtsAction(siteId);
-  const [name, setName] = useState(stage?.name ?? "");
-  const [sectionIds, setSections] = useState<string[]>(stage?.sections.map((s) => s.id) ?? []);
-  const [positions, setPositions] = useState(stage?.positions.map((p) => p.designation).join(" ") ?? "");
-  const [supply, setSupply] = useState<Supply>(stage?.supply ?? "temporary_fused");
-  const [device, setDevice] = useState(stage?.protectionDevice ?? "Fused disconnect");
-  const [rating, setRating] = useState(stage ? String(stage.protectionRatingA ?? "") : "20");
-  const [limit, setLimit] = useState(stage ? String(stage.protectionLimitA ?? "") : "30");
-  const [voltageStep, setVoltageStep] = useState<VoltageStep>(stage?.voltageStep ?? "full");
-  const [volts, setVolts] = useState(stage ? String(stage.stepVolts ?? "") : String(view.board.nominalVolts));
-  const [qp, setQp] = useState(stage ? (stage.qualifiedPerson?.userId ?? "") : "");
-  const [dependsOnId, setDependsOn] = useState(stage?.dependsOnId ?? "");
-  const [watchHours, setWatch] = useState(String(stage?.watchHours ?? 24));
-  const [every, setEvery] = useState(String(stage?.checkEveryHours ?? 4));
-  const [notes, setNotes] = useState(stage?.notes ?? "");
+  const schema = useMemo(() => stageForm(view, stage), [view, stage]);
+  const form = useSchemaForm(schema, {
+    name: stage?.name ?? "",
+    sectionIds: stage?.sections.map((s) => s.id) ?? [],
+    positions: stage?.positions.map((p) => p.designation).join(" ") ?? "",
+    supply: stage?.supply ?? "temporary_fused",
+    protectionDevice: stage?.protectionDevice ?? "Fused disconnect",
+    protectionRatingA: stage ? String(stage.protectionRatingA ?? "") : "20",
+    protectionLimitA: stage ? String(stage.protectionLimitA ?? "") : "30",
+    voltageStep: stage?.voltageStep ?? "full",
+    stepVolts: stage ? String(stage.stepVolts ?? "") : String(view.board.nominalVolts),
+    qualifiedPersonId: stage ? (stage.qualifiedPerson?.userId ?? "") : "",
+    dependsOnId: stage?.dependsOnId ?? "",
+    watchHours: String(stage?.watchHours ?? 24),
+    checkEveryHours: String(stage?.checkEveryHours ?? 4),
+    notes: stage?.notes ?? "",
+  });
+  const { register, control, formState } = form;
+  const errors = formState.errors;
+  const e = (name: Parameters<typeof register>[0]) => fieldError(errors, name);
+  const sections = useController({ control, name: "sectionIds" });
   const live = stage?.status === "energised";
-  const designations = positions.split(/[\s,;]+/).filter(Boolean);
-  const unknown = designations.filter(
-    (d) => !view.positions.some((p) => p.designation.toLowerCase() === d.toLowerCase()),
+  const unknown = designationsOf(form.watch("positions")).filter(
+    (d) => !view.positions.some((p) => sameDesignation(p.designation, d)),
   );
   // A stage may depend only on one that comes before it in the plan.
   const before = stage ? view.stages.filter((s) => s.sortOrder < stage.sortOrder) : view.stages;
-  const submit = () => {
-    const positionIds = designations.flatMap((d) =>
-      view.positions.filter((p) => p.designation.toLowerCase() === d.toLowerCase()).map((p) => p.id),
-    );
-    const planFields = {
-      name,
-      qualifiedPersonId: qp || null,
-      dependsOnId: dependsOnId || null,
-      watchHours: Number(watchHours),
-      checkEveryHours: Number(every),
-      notes,
-    };
-    const scope = {
-      sectionIds,
-      positionIds,
-      supply,
-      protectionDevice: device,
-      protectionRatingA: num(rating),
-      protectionLimitA: num(limit),
-      voltageStep,
-      stepVolts: num(volts),
-    };
-    const req = stage
-      ? {
-          method: "PATCH" as const,
-          path: `/return-to-service/stages/${stage.id}`,
-          body: { ...planFields, ...(live ? {} : scope), version: stage.version },
-        }
-      : {
-          method: "POST" as const,
-          path: `/boards/${view.board.id}/return-to-service/stages`,
-          body: { ...planFields, ...scope },
-        };
-    act.mutate(req, { onSuccess: onDone });
-  };
-  const err = act.error instanceof ApiError ? act.error : null;
-  const fieldError = (f: string) => err?.fields?.[f];
+  const submit = form.handleSubmit((body) =>
+    act
+      .mutateAsync(
+        stage
+          ? { method: "PATCH", path: `/return-to-service/stages/${stage.id}`, body }
+          : { method: "POST", path: `/boards/${view.board.id}/return-to-service/stages`, body },
+      )
+      .then(onDone, (err: unknown) =>
+        showSaveError(form, err, {
+          explain: (m) =>
+            err instanceof ApiError && err.status === 409 ? `${m} Reload the stage to see it as it is now.` : m,
+        }),
+      ),
+  );
+  const message = formMessage(errors);
+  // What the stage brings back: the server names the sections when neither is given.
+  const scopeError = e("sectionIds") ?? fieldError(errors as FieldErrors, "positionIds");
   const label = stage ? `Edit stage ${stage.name}` : "New stage";
   return (
     <form
       className="space-y-3 rounded-lg bg-hull-800 p-4 ring-1 ring-hull-600"
-      onSubmit={(e) => {
-        e.preventDefault();
-        submit();
-      }}
+      onSubmit={(ev) => void submit(ev)}
+      noValidate
       aria-label={label}
     >
       <h3 className="text-lg font-bold">{stage ? `Edit “${stage.name}”` : "New stage"}</h3>
@@ -112,10 +153,7 @@ export function StageForm({
           start a new attempt to change them.
         </p>
       )}
-      <label className="block">
-        Stage name
-        <input className={input} value={name} onChange={(e) => setName(e.target.value)} required minLength={2} />
-      </label>
+      <TextField label="Stage name" {...register("name")} required error={e("name")} />
       <fieldset disabled={live}>
         <legend>Sections it brings back</legend>
         <div className="flex flex-wrap gap-x-4">
@@ -123,9 +161,15 @@ export function StageForm({
             <label key={s.id} className="inline-flex min-h-11 items-center gap-2">
               <input
                 type="checkbox"
-                checked={sectionIds.includes(s.id)}
-                onChange={(e) =>
-                  setSections(e.target.checked ? [...sectionIds, s.id] : sectionIds.filter((x) => x !== s.id))
+                name={sections.field.name}
+                checked={sections.field.value.includes(s.id)}
+                onBlur={sections.field.onBlur}
+                onChange={(ev) =>
+                  sections.field.onChange(
+                    ev.target.checked
+                      ? [...sections.field.value, s.id]
+                      : sections.field.value.filter((x) => x !== s.id),
+                  )
                 }
               />
               {s.name}
@@ -133,138 +177,100 @@ export function StageForm({
           ))}
         </div>
       </fieldset>
-      <label className="block">
-        And named circuits (designations, e.g. a bus tie or a feeder)
-        <input
-          className={input}
-          value={positions}
-          disabled={live}
-          onChange={(e) => setPositions(e.target.value)}
-          list="rts-designations"
-        />
-        <datalist id="rts-designations">
-          {view.positions.map((p) => (
-            <option key={p.id} value={p.designation}>
-              {p.circuit}
+      <TextField
+        label="And named circuits (designations, e.g. a bus tie or a feeder)"
+        {...register("positions")}
+        disabled={live}
+        list="rts-designations"
+        error={unknown.length > 0 ? `Not on this board: ${unknown.join(", ")}` : undefined}
+      />
+      <datalist id="rts-designations">
+        {view.positions.map((p) => (
+          <option key={p.id} value={p.designation}>
+            {p.circuit}
+          </option>
+        ))}
+      </datalist>
+      {scopeError && (
+        <p role="alert" className="text-sm text-rust-300">
+          {scopeError}
+        </p>
+      )}
+      <div className="grid grid-cols-1 gap-3 sm:grid-cols-2">
+        <SelectField label="Supply" {...register("supply")} disabled={live} error={e("supply")}>
+          {SUPPLIES.map((s) => (
+            <option key={s} value={s}>
+              {SUPPLY_LABELS[s]}
             </option>
           ))}
-        </datalist>
-      </label>
-      {unknown.length > 0 && <p className="text-sm text-rust-300">Not on this board: {unknown.join(", ")}</p>}
-      {fieldError("sectionIds") && <p className="text-sm text-rust-300">{fieldError("sectionIds")}</p>}
-      <div className="grid grid-cols-1 gap-3 sm:grid-cols-2">
-        <label className="block">
-          Supply
-          <select
-            className={input}
-            value={supply}
-            disabled={live}
-            onChange={(e) => setSupply(e.target.value as Supply)}
-          >
-            {SUPPLIES.map((s) => (
-              <option key={s} value={s}>
-                {SUPPLY_LABELS[s]}
-              </option>
-            ))}
-          </select>
-        </label>
-        <label className="block">
-          Protection in front (device)
-          <input className={input} value={device} disabled={live} onChange={(e) => setDevice(e.target.value)} />
-        </label>
-        <label className="block">
-          Protection rating (A)
-          <input
-            className={input}
-            inputMode="decimal"
-            value={rating}
-            disabled={live}
-            onChange={(e) => setRating(e.target.value)}
-          />
-        </label>
-        <label className="block">
-          Protection limit for this stage (A)
-          <input
-            className={input}
-            inputMode="decimal"
-            value={limit}
-            disabled={live}
-            onChange={(e) => setLimit(e.target.value)}
-          />
-        </label>
-        <label className="block">
-          Voltage step
-          <select
-            className={input}
-            value={voltageStep}
-            disabled={live}
-            onChange={(e) => setVoltageStep(e.target.value as VoltageStep)}
-          >
-            {VOLTAGE_STEPS.map((s) => (
-              <option key={s} value={s}>
-                {VOLTAGE_STEP_LABELS[s]}
-              </option>
-            ))}
-          </select>
-        </label>
-        <label className="block">
-          Volts at this step
-          <input
-            className={input}
-            inputMode="decimal"
-            value={volts}
-            disabled={live}
-            onChange={(e) => setVolts(e.target.value)}
-          />
-        </label>
-        <label className="block">
-          Qualified person
-          <select className={input} value={qp} onChange={(e) => setQp(e.target.value)}>
-            <option value="">— none yet —</option>
-            {view.qualifiedPersons.map((q) => (
-              <option key={q.userId} value={q.userId}>
-                {q.name}
-                {q.current ? "" : " (qualification expired)"}
-              </option>
-            ))}
-          </select>
-        </label>
-        <label className="block">
-          Depends on
-          <select className={input} value={dependsOnId} onChange={(e) => setDependsOn(e.target.value)}>
-            <option value="">— nothing —</option>
-            {before.map((s) => (
-              <option key={s.id} value={s.id}>
-                {s.name}
-              </option>
-            ))}
-          </select>
-        </label>
-        <label className="block">
-          Watch period (h)
-          <input className={input} inputMode="decimal" value={watchHours} onChange={(e) => setWatch(e.target.value)} />
-        </label>
-        <label className="block">
-          A watch check every (h)
-          <input className={input} inputMode="decimal" value={every} onChange={(e) => setEvery(e.target.value)} />
-        </label>
-      </div>
-      <label className="block">
-        Notes
-        <textarea
-          className="mt-1 w-full rounded-md bg-hull-900 p-2 ring-1 ring-hull-600"
-          value={notes}
-          onChange={(e) => setNotes(e.target.value)}
+        </SelectField>
+        <TextField
+          label="Protection in front (device)"
+          {...register("protectionDevice")}
+          disabled={live}
+          error={e("protectionDevice")}
         />
-      </label>
-      {err && (
+        <TextField
+          label="Protection rating (A)"
+          {...register("protectionRatingA")}
+          inputMode="decimal"
+          disabled={live}
+          error={e("protectionRatingA")}
+        />
+        <TextField
+          label="Protection limit for this stage (A)"
+          {...register("protectionLimitA")}
+          inputMode="decimal"
+          disabled={live}
+          error={e("protectionLimitA")}
+        />
+        <SelectField label="Voltage step" {...register("voltageStep")} disabled={live} error={e("voltageStep")}>
+          {VOLTAGE_STEPS.map((s) => (
+            <option key={s} value={s}>
+              {VOLTAGE_STEP_LABELS[s]}
+            </option>
+          ))}
+        </SelectField>
+        <TextField
+          label="Volts at this step"
+          {...register("stepVolts")}
+          inputMode="decimal"
+          disabled={live}
+          error={e("stepVolts")}
+        />
+        <SelectField label="Qualified person" {...register("qualifiedPersonId")} error={e("qualifiedPersonId")}>
+          <option value="">— none yet —</option>
+          {view.qualifiedPersons.map((q) => (
+            <option key={q.userId} value={q.userId}>
+              {q.name}
+              {q.current ? "" : " (qualification expired)"}
+            </option>
+          ))}
+        </SelectField>
+        <SelectField label="Depends on" {...register("dependsOnId")} error={e("dependsOnId")}>
+          <option value="">— nothing —</option>
+          {before.map((s) => (
+            <option key={s.id} value={s.id}>
+              {s.name}
+            </option>
+          ))}
+        </SelectField>
+        <TextField label="Watch period (h)" {...register("watchHours")} inputMode="decimal" error={e("watchHours")} />
+        <TextField
+          label="A watch check every (h)"
+          {...register("checkEveryHours")}
+          inputMode="decimal"
+          error={e("checkEveryHours")}
+        />
+      </div>
+      <TextArea label="Notes" {...register("notes")} error={e("notes")} />
+      {message && (
         <p role="alert" className="text-sm text-rust-300">
-          {err.message}
-          {err.status === 409 && " Reload the stage to see it as it is now."}
+          {message}
         </p>
       )}
       <div className="flex flex-wrap gap-2">
-        <Button type="submit" disabled={act.isPending || unknown.length > 0}>
+        <Button type="submit" disabled={formState.isSubmitting || unknown.length > 0}>
           {stage ? "Save the stage" : "Add the stage"}
         </Button>
         <Button tone="quiet" onClick={onDone}>
