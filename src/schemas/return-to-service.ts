@@ -92,17 +92,24 @@ export const EVIDENCE_TYPES = [
 export const evidenceItem = z.object({ type: z.enum(EVIDENCE_TYPES), id: z.uuid() });
 export type EvidenceItem = z.infer<typeof evidenceItem>;
 
-export const signBody = z.object({
-  /** signed: the hold point is met; released: the curator lets a blocked hold point pass, with a reason. */
-  kind: z.enum(["signed", "released"]).default("signed"),
-  reason: text(2000).default(""),
-  note: text(2000).default(""),
-  evidence: z.array(evidenceItem).max(50).default([]),
-  /** The energisation's time (energise step only); default now. */
-  at: when.optional(),
-  /** The attempt the signer saw; a stale one gets 409 with the current state. */
-  attempt: z.number().int().min(1),
-});
+/** A blocked hold point is released with at least a sentence of reason. */
+export const RELEASE_REASON_MIN = 10;
+export const signBody = z
+  .object({
+    /** signed: the hold point is met; released: the curator lets a blocked hold point pass, with a reason. */
+    kind: z.enum(["signed", "released"]).default("signed"),
+    reason: text(2000).default(""),
+    note: text(2000).default(""),
+    evidence: z.array(evidenceItem).max(50).default([]),
+    /** The energisation's time (energise step only); default now. */
+    at: when.optional(),
+    /** The attempt the signer saw; a stale one gets 409 with the current state. */
+    attempt: z.number().int().min(1),
+  })
+  .refine((b) => b.kind !== "released" || b.reason.length >= RELEASE_REASON_MIN, {
+    message: "Write the reason for releasing a blocked hold point (at least a sentence).",
+    path: ["reason"],
+  });
 export const supersedeBody = z.object({
   kind: z.enum(["signed", "released", "struck"]),
   reason: z.string().trim().min(3, { message: "Say why the entry is corrected" }).max(2000),

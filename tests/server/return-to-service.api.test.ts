@@ -222,7 +222,10 @@ describe("the plan and its gate", () => {
         })
       ).status,
     ).toBe(403);
-    expect((await sign("curator", s, "insulation", { kind: "released", reason: "short" })).status).toBe(400);
+    const short = await sign("curator", s, "insulation", { kind: "released", reason: "short" });
+    expect(short.status).toBe(400);
+    // signBody itself asks for the sentence, so the form says it beside the reason before sending.
+    expect(short.body.error.fields.reason).toContain("at least a sentence");
     const ok = await sign("curator", s, "insulation", {
       kind: "released",
       reason: "Spare feeder, cable disconnected at the terminals.",

@@ -1,11 +1,20 @@
-import { useState } from "react";
+import { useMemo, useState } from "react";
+import { z } from "zod";
 import { Link } from "react-router";
 import { Button } from "../../../components/button";
+import { TextArea, TextField } from "../../../components/field";
 import { can } from "../../../domain/permissions";
 import { HOLD_STATE_LABELS, type HoldPoint } from "../../../domain/rts-gate";
 import type { Role } from "../../../domain/vocab";
 import { ApiError } from "../../../lib/api-client";
-import type { RtsStage } from "../../../schemas/return-to-service";
+import { fieldError, formMessage, serverMessage, showSaveError, useSchemaForm } from "../../../lib/form";
+import {
+  RELEASE_REASON_MIN,
+  patchStepBody,
+  signBody,
+  type RtsStage,
+  type RtsStep,
+} from "../../../schemas/return-to-service";
 import { useRtsAction } from "../api";
 
 const when = (iso: string) => new Date(iso).toLocaleString(undefined, { dateStyle: "medium", timeStyle: "short" });
@@ -23,15 +32,58 @@ const STATE_CLASS: Record<HoldPoint["state"], string> = {
   blocked: "border-rust-400",
   waiting: "border-hull-600",
 };
-const box = "mt-1 w-full rounded-md bg-hull-800 p-2 ring-1 ring-hull-600";
+
+/** The hold point's words → the request body; patchStepBody (the server's own schema) validates it. */
+const stepForm = (version: number) =>
+  z
+    .object({ title: z.string(), detail: z.string() })
+    .transform((v) => ({ ...v, version }) as z.input<typeof patchStepBody>)
+    .pipe(patchStepBody);
+
+/** Edits a hold point's words; opened afresh from the step as it is now. */
+function StepWordsForm({ siteId, step, onDone }: { siteId: string; step: RtsStep; onDone: () => void }) {
+  const act = useRtsAction(siteId);
+  const schema = useMemo(() => stepForm(step.version), [step.version]);
+  const form = useSchemaForm(schema, { title: step.title, detail: step.detail });
+  const { register, formState } = form;
+  const e = (name: Parameters<typeof register>[0]) => fieldError(formState.errors, name);
+  const submit = form.handleSubmit((body) =>
+    act
+      .mutateAsync({ method: "PATCH", path: `/return-to-service/steps/${step.id}`, body })
+      .then(onDone, (err: unknown) => showSaveError(form, err)),
+  );
+  const message = formMessage(formState.errors);
+  return (
+    <form
+      className="space-y-2"
+      aria-label={`Edit hold point ${step.title}`}
+      onSubmit={(ev) => void submit(ev)}
+      noValidate
+    >
+      <TextField label="Hold point" {...register("title")} required error={e("title")} />
+      <TextArea label="What it asks for" {...register("detail")} error={e("detail")} />
+      {message && (
+        <p role="alert" className="text-sm text-rust-300">
+          {message}
+        </p>
+      )}
+      <div className="flex gap-2">
+        <Button type="submit" disabled={formState.isSubmitting}>
+          Save the hold point
+        </Button>
+        <Button tone="quiet" onClick={onDone}>
+          Cancel
+        </Button>
+      </div>
+    </form>
+  );
+}
 
 /** The curator's edits of one hold point while its stage is being prepared: words, order, removal. */
 function StepEditor({ siteId, stage, index, hp }: { siteId: string; stage: RtsStage; index: number; hp: HoldPoint }) {
   const act = useRtsAction(siteId);
   const step = stage.steps.find((s) => s.id === hp.stepId)!;
   const [mode, setMode] = useState<"idle" | "edit" | "remove">("idle");
-  const [title, setTitle] = useState(step.title);
-  const [detail, setDetail] = useState(step.detail);
   const move = (toIndex: number) =>
     act.mutate({ method: "POST", path: `/return-to-service/steps/${step.id}/move`, body: { toIndex } });
   const last = stage.steps.length - 1;
@@ -68,46 +120,73 @@ function StepEditor({ siteId, stage, index, hp }: { siteId: string; stage: RtsSt
           </Button>
         </p>
       )}
-      {mode === "edit" && (
-        <form
-          className="space-y-2"
-          aria-label={`Edit hold point ${step.title}`}
-          onSubmit={(e) => {
-            e.preventDefault();
-            act.mutate(
-              {
-                method: "PATCH",
-                path: `/return-to-service/steps/${step.id}`,
-                body: { title, detail, version: step.version },
-              },
-              { onSuccess: () => setMode("idle") },
-            );
-          }}
-        >
-          <label className="block text-sm">
-            Hold point
-            <input className={box} value={title} onChange={(e) => setTitle(e.target.value)} required minLength={2} />
-          </label>
-          <label className="block text-sm">
-            What it asks for
-            <textarea className={box} value={detail} onChange={(e) => setDetail(e.target.value)} />
-          </label>
-          <div className="flex gap-2">
-            <Button type="submit" disabled={act.isPending}>
-              Save the hold point
-            </Button>
-            <Button tone="quiet" onClick={() => setMode("idle")}>
-              Cancel
-            </Button>
-          </div>
-        </form>
-      )}
+      {mode === "edit" && <StepWordsForm siteId={siteId} step={step} onDone={() => setMode("idle")} />}
       {act.error && (
         <p role="alert" className="mt-1 text-sm text-rust-300">
           {act.error instanceof ApiError ? act.error.message : String(act.error)}
         </p>
       )}
     </div>
+  );
+}
+
+/** The reason → the request body; signBody (the server's own schema) validates it. */
+const releaseForm = (attempt: number) =>
+  z
+    .object({ reason: z.string() })
+    .transform((v) => ({ kind: "released", reason: v.reason, attempt }) as z.input<typeof signBody>)
+    .pipe(signBody);
+
+/** The curator lets a blocked hold point pass, with a reason recorded and shown in red for ever. */
+function ReleaseForm({
+  siteId,
+  stage,
+  hp,
+  onDone,
+}: {
+  siteId: string;
+  stage: RtsStage;
+  hp: HoldPoint;
+  onDone: () => void;
+}) {
+  const act = useRtsAction(siteId);
+  const schema = useMemo(() => releaseForm(stage.attempt), [stage.attempt]);
+  const form = useSchemaForm(schema, { reason: "" });
+  const { register, formState } = form;
+  const submit = form.handleSubmit((body) =>
+    act
+      .mutateAsync({ method: "POST", path: `/return-to-service/steps/${hp.stepId}/signoffs`, body })
+      .then(onDone, (err: unknown) => showSaveError(form, err)),
+  );
+  const message = serverMessage(formState.errors);
+  return (
+    <form
+      className="mt-2 space-y-2"
+      aria-label={`Release ${hp.title} with a reason`}
+      onSubmit={(ev) => void submit(ev)}
+      noValidate
+    >
+      <TextArea
+        label="Reason (recorded and shown in red for ever)"
+        {...register("reason")}
+        required
+        minLength={RELEASE_REASON_MIN}
+        error={fieldError(formState.errors, "reason")}
+      />
+      {message && (
+        <p role="alert" className="text-sm text-rust-300">
+          {message}
+        </p>
+      )}
+      <div className="flex gap-2">
+        <Button tone="danger" type="submit" disabled={formState.isSubmitting}>
+          Release this hold point
+        </Button>
+        <Button tone="quiet" onClick={onDone}>
+          Cancel
+        </Button>
+      </div>
+    </form>
   );
 }
 
@@ -136,17 +215,16 @@ export function HoldPointRow({
   editing: boolean;
 }) {
   const act = useRtsAction(siteId);
-  const [reason, setReason] = useState("");
   const [releasing, setReleasing] = useState(false);
   const [confirmBudget, setConfirmBudget] = useState(false);
   const step = stage.steps.find((s) => s.id === hp.stepId)!;
   const may = hp.qualifiedOnly ? isQualified && can(role, "rts.sign") : can(role, "rts.sign");
   const error = act.error instanceof ApiError ? act.error.message : act.error ? String(act.error) : null;
-  const sign = (body: Record<string, unknown>) =>
+  const sign = () =>
     act.mutate({
       method: "POST",
       path: `/return-to-service/steps/${hp.stepId}/signoffs`,
-      body: { attempt: stage.attempt, ...body },
+      body: { attempt: stage.attempt } satisfies z.input<typeof signBody>,
     });
   const overBudget = hp.kind === "energise" ? stage.operationWarnings : [];
   return (
@@ -199,7 +277,7 @@ export function HoldPointRow({
       <div className="mt-2 flex flex-wrap gap-2">
         {hp.state === "ready" && may && (
           <Button
-            onClick={() => (overBudget.length && !confirmBudget ? setConfirmBudget(true) : sign({}))}
+            onClick={() => (overBudget.length && !confirmBudget ? setConfirmBudget(true) : sign())}
             disabled={act.isPending}
           >
             {hp.kind === "energise"
@@ -215,35 +293,7 @@ export function HoldPointRow({
           </Button>
         )}
       </div>
-      {releasing && (
-        <form
-          className="mt-2 space-y-2"
-          aria-label={`Release ${hp.title} with a reason`}
-          onSubmit={(e) => {
-            e.preventDefault();
-            sign({ kind: "released", reason });
-          }}
-        >
-          <label className="block text-sm">
-            Reason (recorded and shown in red for ever)
-            <textarea
-              className={box}
-              value={reason}
-              onChange={(e) => setReason(e.target.value)}
-              required
-              minLength={10}
-            />
-          </label>
-          <div className="flex gap-2">
-            <Button tone="danger" type="submit" disabled={act.isPending}>
-              Release this hold point
-            </Button>
-            <Button tone="quiet" onClick={() => setReleasing(false)}>
-              Cancel
-            </Button>
-          </div>
-        </form>
-      )}
+      {releasing && <ReleaseForm siteId={siteId} stage={stage} hp={hp} onDone={() => setReleasing(false)} />}
       {error && (
         <p role="alert" className="mt-2 text-sm text-rust-300">
           {error}
