@@ -1,11 +1,13 @@
 import { useState } from "react";
+import { z } from "zod";
 import { Button } from "../../../components/button";
+import { SelectField, TextArea, TextField } from "../../../components/field";
 import { STEP_KINDS, STEP_KIND_LABELS, type StepKind } from "../../../domain/return-to-service";
 import { ApiError } from "../../../lib/api-client";
-import type { RtsStage } from "../../../schemas/return-to-service";
+import { fieldError, formMessage, showSaveError, useSchemaForm } from "../../../lib/form";
+import { stepBody, type RtsStage } from "../../../schemas/return-to-service";
 import { useRtsAction } from "../api";
 
-const box = "mt-1 w-full min-h-11 rounded-md bg-hull-900 px-2 ring-1 ring-hull-600";
 const errorOf = (e: unknown) => (e instanceof ApiError ? e.message : e ? String(e) : null);
 
 /**
@@ -74,95 +76,87 @@ export function StageActions({
   );
 }
 
+/** The form's text → the request body; stepBody (the server's own schema) validates it. */
+const addStepForm = z
+  .object({ kind: z.string(), title: z.string(), detail: z.string(), atIndex: z.string() })
+  .transform((v) => ({ ...v, atIndex: Number(v.atIndex) }) as z.input<typeof stepBody>)
+  .pipe(stepBody);
+
 /** Adds a hold point to a stage being prepared: one of the trade's kinds or the crew's own, at a chosen place. */
 export function AddHoldPoint({ siteId, stage }: { siteId: string; stage: RtsStage }) {
-  const act = useRtsAction(siteId);
   const [open, setOpen] = useState(false);
-  const [kind, setKind] = useState<StepKind>("custom");
-  const [title, setTitle] = useState("");
-  const [detail, setDetail] = useState("");
-  const [at, setAt] = useState(String(stage.steps.length));
   if (!open)
     return (
       <Button tone="quiet" onClick={() => setOpen(true)}>
         Add a hold point
       </Button>
     );
+  return <AddHoldPointForm siteId={siteId} stage={stage} onDone={() => setOpen(false)} />;
+}
+
+function AddHoldPointForm({ siteId, stage, onDone }: { siteId: string; stage: RtsStage; onDone: () => void }) {
+  const act = useRtsAction(siteId);
+  const form = useSchemaForm(addStepForm, {
+    kind: "custom",
+    title: "",
+    detail: "",
+    atIndex: String(stage.steps.length),
+  });
+  const { register, formState, getValues, setValue } = form;
+  const e = (name: Parameters<typeof register>[0]) => fieldError(formState.errors, name);
+  const kind = register("kind");
+  const submit = form.handleSubmit((body) =>
+    act
+      .mutateAsync({ method: "POST", path: `/return-to-service/stages/${stage.id}/steps`, body })
+      .then(onDone, (err: unknown) => showSaveError(form, err)),
+  );
+  const message = formMessage(formState.errors);
   return (
     <form
       className="w-full space-y-2 rounded-md bg-hull-900 p-3"
       aria-label={`Add a hold point to ${stage.name}`}
-      onSubmit={(e) => {
-        e.preventDefault();
-        act.mutate(
-          {
-            method: "POST",
-            path: `/return-to-service/stages/${stage.id}/steps`,
-            body: { kind, title, detail, atIndex: Number(at) },
-          },
-          {
-            onSuccess: () => {
-              setOpen(false);
-              setTitle("");
-              setDetail("");
-            },
-          },
-        );
-      }}
+      onSubmit={(ev) => void submit(ev)}
+      noValidate
     >
       <div className="grid gap-2 sm:grid-cols-2">
-        <label className="block text-sm">
-          Kind
-          <select
-            className={box}
-            value={kind}
-            onChange={(e) => {
-              const k = e.target.value as StepKind;
-              setKind(k);
-              if (!title && k !== "custom") setTitle(STEP_KIND_LABELS[k]);
-            }}
-          >
-            {STEP_KINDS.map((k) => (
-              <option key={k} value={k}>
-                {STEP_KIND_LABELS[k]}
-              </option>
-            ))}
-          </select>
-        </label>
-        <label className="block text-sm">
-          Place
-          <select className={box} value={at} onChange={(e) => setAt(e.target.value)}>
-            {stage.steps.map((s, i) => (
-              <option key={s.id} value={i}>
-                Before “{s.title}”
-              </option>
-            ))}
-            <option value={stage.steps.length}>At the end</option>
-          </select>
-        </label>
+        <SelectField
+          label="Kind"
+          {...kind}
+          onChange={(ev) => {
+            void kind.onChange(ev);
+            // A kind of the trade names the hold point, unless a name is typed already.
+            const k = ev.target.value as StepKind;
+            if (!getValues("title") && k !== "custom") setValue("title", STEP_KIND_LABELS[k]);
+          }}
+          error={e("kind")}
+        >
+          {STEP_KINDS.map((k) => (
+            <option key={k} value={k}>
+              {STEP_KIND_LABELS[k]}
+            </option>
+          ))}
+        </SelectField>
+        <SelectField label="Place" {...register("atIndex")} error={e("atIndex")}>
+          {stage.steps.map((s, i) => (
+            <option key={s.id} value={i}>
+              Before “{s.title}”
+            </option>
+          ))}
+          <option value={stage.steps.length}>At the end</option>
+        </SelectField>
       </div>
-      <label className="block text-sm">
-        Hold point
-        <input className={box} value={title} onChange={(e) => setTitle(e.target.value)} required minLength={2} />
-      </label>
-      <label className="block text-sm">
-        What it asks for
-        <textarea
-          className="mt-1 w-full rounded-md bg-hull-900 p-2 ring-1 ring-hull-600"
-          value={detail}
-          onChange={(e) => setDetail(e.target.value)}
-        />
-      </label>
-      {act.error && (
+      <TextField label="Hold point" {...register("title")} required error={e("title")} />
+      <TextArea label="What it asks for" {...register("detail")} error={e("detail")} />
+      {message && (
         <p role="alert" className="text-sm text-rust-300">
-          {errorOf(act.error)}
+          {message}
         </p>
       )}
       <div className="flex gap-2">
-        <Button type="submit" disabled={act.isPending}>
+        <Button type="submit" disabled={formState.isSubmitting}>
           Add the hold point
         </Button>
-        <Button tone="quiet" onClick={() => setOpen(false)}>
+        <Button tone="quiet" onClick={onDone}>
           Cancel
         </Button>
       </div>

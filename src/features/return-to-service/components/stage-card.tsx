@@ -1,17 +1,69 @@
-import { useState } from "react";
+import { useMemo, useState } from "react";
+import { z } from "zod";
 import { Link } from "react-router";
 import { Button } from "../../../components/button";
+import { TextArea } from "../../../components/field";
 import { paths } from "../../../config/paths";
 import { can } from "../../../domain/permissions";
 import { STAGE_STATE_LABELS } from "../../../domain/rts-gate";
 import { SUPPLY_LABELS, VOLTAGE_STEP_LABELS } from "../../../domain/return-to-service";
-import type { RtsBoardView, RtsStage } from "../../../schemas/return-to-service";
+import { restartBody, type RtsBoardView, type RtsStage } from "../../../schemas/return-to-service";
+import { fieldError, serverMessage, showSaveError, useSchemaForm } from "../../../lib/form";
 import type { Role } from "../../../domain/vocab";
 import { ApiError } from "../../../lib/api-client";
 import { useRtsAction } from "../api";
 import { HoldPointRow } from "./hold-point-row";
 import { AddHoldPoint, StageActions } from "./plan-controls";
 import { StageForm } from "./stage-form";
+
+/** What was done about the incident → the request body; restartBody (the server's own schema) validates it. */
+const restartForm = (version: number) =>
+  z
+    .object({ reason: z.string() })
+    .transform((v) => ({ ...v, version }) as z.input<typeof restartBody>)
+    .pipe(restartBody);
+
+/** The curator starts a stopped or de-energised stage again: every hold point is signed again. */
+function RestartForm({ siteId, stage, onDone }: { siteId: string; stage: RtsStage; onDone: () => void }) {
+  const act = useRtsAction(siteId);
+  const schema = useMemo(() => restartForm(stage.version), [stage.version]);
+  const form = useSchemaForm(schema, { reason: "" });
+  const { register, formState } = form;
+  const submit = form.handleSubmit((body) =>
+    act
+      .mutateAsync({ method: "POST", path: `/return-to-service/stages/${stage.id}/restart`, body })
+      .then(onDone, (err: unknown) => showSaveError(form, err)),
+  );
+  const message = serverMessage(formState.errors);
+  return (
+    <form
+      className="mt-2 space-y-2"
+      aria-label={`Start ${stage.name} again`}
+      onSubmit={(ev) => void submit(ev)}
+      noValidate
+    >
+      <TextArea
+        label="What was done about the incident (recorded; every hold point is signed again)"
+        {...register("reason")}
+        required
+        error={fieldError(formState.errors, "reason")}
+      />
+      {message && (
+        <p role="alert" className="text-sm text-rust-300">
+          {message}
+        </p>
+      )}
+      <div className="flex gap-2">
+        <Button type="submit" disabled={formState.isSubmitting}>
+          Start attempt {stage.attempt + 1}
+        </Button>
+        <Button tone="quiet" onClick={onDone}>
+          Cancel
+        </Button>
+      </div>
+    </form>
+  );
+}
 
 const when = (iso: string) => new Date(iso).toLocaleString(undefined, { dateStyle: "medium", timeStyle: "short" });
 
@@ -36,7 +88,6 @@ export function StageCard({
   const [editing, setEditing] = useState(false);
   const [editSteps, setEditSteps] = useState(false);
   const [restarting, setRestarting] = useState(false);
-  const [restartReason, setRestartReason] = useState("");
   const g = stage.gate;
   const planner = can(role, "rts.plan");
   // A released stage is part of the record: its hold points fold away (open them to read).
@@ -182,42 +233,7 @@ export function StageCard({
           </Button>
         )}
       </div>
-      {restarting && (
-        <form
-          className="mt-2 space-y-2"
-          aria-label={`Start ${stage.name} again`}
-          onSubmit={(e) => {
-            e.preventDefault();
-            act.mutate(
-              {
-                method: "POST",
-                path: `/return-to-service/stages/${stage.id}/restart`,
-                body: { reason: restartReason, version: stage.version },
-              },
-              { onSuccess: () => setRestarting(false) },
-            );
-          }}
-        >
-          <label className="block text-sm">
-            What was done about the incident (recorded; every hold point is signed again)
-            <textarea
-              className="mt-1 w-full rounded-md bg-hull-900 p-2 ring-1 ring-hull-600"
-              value={restartReason}
-              onChange={(e) => setRestartReason(e.target.value)}
-              required
-              minLength={3}
-            />
-          </label>
-          <div className="flex gap-2">
-            <Button type="submit" disabled={act.isPending}>
-              Start attempt {stage.attempt + 1}
-            </Button>
-            <Button tone="quiet" onClick={() => setRestarting(false)}>
-              Cancel
-            </Button>
-          </div>
-        </form>
-      )}
+      {restarting && <RestartForm siteId={siteId} stage={stage} onDone={() => setRestarting(false)} />}
       {act.error && (
         <p role="alert" className="mt-2 text-sm text-rust-300">
           {act.error instanceof ApiError ? act.error.message : String(act.error)}
