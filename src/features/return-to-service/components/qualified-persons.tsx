@@ -1,14 +1,79 @@
-import { useState } from "react";
+import { useMemo, useState } from "react";
+import { z } from "zod";
 import { Button } from "../../../components/button";
+import { TextField } from "../../../components/field";
 import { ApiError } from "../../../lib/api-client";
-import type { QualifiedPerson } from "../../../schemas/return-to-service";
+import { blankAsNull, fieldError, serverMessage, showSaveError, useSchemaForm } from "../../../lib/form";
+import { qualifiedBody, type QualifiedPerson } from "../../../schemas/return-to-service";
 import { useQualifiedPersons, useRtsAction } from "../api";
 
-function Row({ siteId, p }: { siteId: string; p: QualifiedPerson }) {
+/** The form's text → the request body; qualifiedBody (the server's own schema) validates it. */
+const qualificationForm = (version: number) =>
+  z
+    .object({ qualification: z.string(), expiresOn: blankAsNull })
+    .transform((v) => ({ ...v, version }) as z.input<typeof qualifiedBody>)
+    .pipe(qualifiedBody);
+
+function QualificationForm({ siteId, p, onDone }: { siteId: string; p: QualifiedPerson; onDone: () => void }) {
   const act = useRtsAction(siteId);
+  const remove = useRtsAction(siteId);
+  const schema = useMemo(() => qualificationForm(p.version), [p.version]);
+  const form = useSchemaForm(schema, { qualification: p.qualification ?? "", expiresOn: p.expiresOn ?? "" });
+  const { register, formState } = form;
+  const e = (name: Parameters<typeof register>[0]) => fieldError(formState.errors, name);
+  const submit = form.handleSubmit((body) =>
+    act
+      .mutateAsync({ method: "PUT", path: `/return-to-service/qualified-persons/${p.userId}`, body })
+      .then(onDone, (err: unknown) => showSaveError(form, err)),
+  );
+  const message = serverMessage(formState.errors);
+  return (
+    <>
+      <form
+        className="mt-2 flex flex-wrap items-start gap-2"
+        aria-label={`Qualification of ${p.name}`}
+        onSubmit={(ev) => void submit(ev)}
+        noValidate
+      >
+        <TextField
+          className="flex-1"
+          label="Qualification"
+          {...register("qualification")}
+          required
+          error={e("qualification")}
+        />
+        <TextField label="Expires on" type="date" {...register("expiresOn")} error={e("expiresOn")} />
+        <div className="flex gap-2 self-end">
+          <Button type="submit" disabled={formState.isSubmitting}>
+            Save
+          </Button>
+          {p.qualification && (
+            <Button
+              tone="danger"
+              disabled={remove.isPending}
+              onClick={() =>
+                remove.mutate(
+                  { method: "DELETE", path: `/return-to-service/qualified-persons/${p.userId}` },
+                  { onSuccess: onDone },
+                )
+              }
+            >
+              Remove
+            </Button>
+          )}
+        </div>
+      </form>
+      {(message ?? remove.error) && (
+        <p role="alert" className="text-sm text-rust-300">
+          {message ?? (remove.error instanceof ApiError ? remove.error.message : String(remove.error))}
+        </p>
+      )}
+    </>
+  );
+}
+
+function Row({ siteId, p }: { siteId: string; p: QualifiedPerson }) {
   const [editing, setEditing] = useState(false);
-  const [qualification, setQ] = useState(p.qualification ?? "");
-  const [expiresOn, setE] = useState(p.expiresOn ?? "");
   return (
     <li className="p-3" data-testid={`qp-${p.userId}`}>
       <p>
@@ -27,62 +92,7 @@ function Row({ siteId, p }: { siteId: string; p: QualifiedPerson }) {
           {p.qualification ? "Edit qualification" : "Mark as qualified person"}
         </Button>
       ) : (
-        <form
-          className="mt-2 flex flex-wrap items-end gap-2"
-          aria-label={`Qualification of ${p.name}`}
-          onSubmit={(e) => {
-            e.preventDefault();
-            act.mutate(
-              {
-                method: "PUT",
-                path: `/return-to-service/qualified-persons/${p.userId}`,
-                body: { qualification, expiresOn: expiresOn || null, version: p.version },
-              },
-              { onSuccess: () => setEditing(false) },
-            );
-          }}
-        >
-          <label className="block flex-1">
-            Qualification
-            <input
-              className="mt-1 min-h-11 w-full rounded-md bg-hull-900 px-2"
-              value={qualification}
-              onChange={(e) => setQ(e.target.value)}
-              required
-              minLength={2}
-            />
-          </label>
-          <label className="block">
-            Expires on
-            <input
-              type="date"
-              className="mt-1 min-h-11 rounded-md bg-hull-900 px-2"
-              value={expiresOn}
-              onChange={(e) => setE(e.target.value)}
-            />
-          </label>
-          <Button type="submit" disabled={act.isPending}>
-            Save
-          </Button>
-          {p.qualification && (
-            <Button
-              tone="danger"
-              onClick={() =>
-                act.mutate(
-                  { method: "DELETE", path: `/return-to-service/qualified-persons/${p.userId}` },
-                  { onSuccess: () => setEditing(false) },
-                )
-              }
-            >
-              Remove
-            </Button>
-          )}
-        </form>
-      )}
-      {act.error && (
-        <p role="alert" className="text-sm text-rust-300">
-          {act.error instanceof ApiError ? act.error.message : String(act.error)}
-        </p>
+        <QualificationForm siteId={siteId} p={p} onDone={() => setEditing(false)} />
       )}
     </li>
   );
