@@ -174,7 +174,11 @@ export const operationBody = z.object({
   at: when.optional(),
 });
 export const budgetBody = z.object({
-  budget: z.number().int().min(0).max(100_000),
+  budget: z
+    .number({ message: "A whole number of operations" })
+    .int({ message: "A whole number of operations" })
+    .min(0, { message: "0 or more operations" })
+    .max(100_000),
   reason: text(500).default(""),
   version: z.number().int().min(0),
 });

@@ -1,19 +1,36 @@
-import { useId, useState } from "react";
+import { useMemo, useState } from "react";
+import { z } from "zod";
 import { Button } from "../../../components/button";
+import { SelectField, TextField } from "../../../components/field";
 import { operationsStatus } from "../../../domain/breaker-operations";
 import { can } from "../../../domain/permissions";
 import { COMPONENT_KIND_LABELS, type Role } from "../../../domain/vocab";
-import { ApiError } from "../../../lib/api-client";
-import type { RtsBoardView, RtsBreaker } from "../../../schemas/return-to-service";
+import {
+  blankAsNull,
+  fieldError,
+  formMessage,
+  numberText,
+  serverMessage,
+  showSaveError,
+  useSchemaForm,
+} from "../../../lib/form";
+import { budgetBody, operationBody, type RtsBoardView, type RtsBreaker } from "../../../schemas/return-to-service";
 import { useRtsAction, useRtsBoard } from "../api";
 
-const box = "mt-1 w-full min-h-11 rounded-md bg-hull-900 px-2 ring-1 ring-hull-600";
 const when = (iso: string) => new Date(iso).toLocaleString(undefined, { dateStyle: "medium", timeStyle: "short" });
-const errorOf = (e: unknown) => (e instanceof ApiError ? e.message : e ? String(e) : null);
 
 /** The stage a new operation most likely belongs to: the live one, else the next to come. */
 const likelyStage = (view: RtsBoardView) =>
   view.stages.find((s) => s.status === "energised") ?? view.stages.find((s) => s.status !== "released") ?? null;
+
+/**
+ * The form's text → the request body; operationBody (the server's own schema) validates it, with
+ * the breaker chosen (the request's path) beside it.
+ */
+const operationForm = z
+  .object({ componentId: z.string(), operation: z.string(), stageId: blankAsNull, why: z.string() })
+  .transform((v) => v as z.input<typeof operationBody> & { componentId: string })
+  .pipe(operationBody.extend({ componentId: z.uuid({ message: "Choose the breaker" }) }));
 
 /**
  * Records one open or close of a breaker: who (the person signed in), why, and during which
@@ -32,89 +49,88 @@ export function RecordOperation({
   onDone?: () => void;
 }) {
   const act = useRtsAction(siteId);
-  const [componentId, setComponent] = useState(breakers.length === 1 ? breakers[0].componentId : "");
-  const [operation, setOperation] = useState<"open" | "close">("close");
-  const [stageId, setStage] = useState(likelyStage(view)?.id ?? "");
-  const [why, setWhy] = useState("");
+  const form = useSchemaForm(operationForm, {
+    componentId: breakers.length === 1 ? breakers[0].componentId : "",
+    operation: "close",
+    stageId: likelyStage(view)?.id ?? "",
+    why: "",
+  });
+  const { register, formState } = form;
+  const e = (name: Parameters<typeof register>[0]) => fieldError(formState.errors, name);
   const [saved, setSaved] = useState<string | null>(null);
-  const radio = useId();
+  const componentId = form.watch("componentId");
   const b = breakers.find((x) => x.componentId === componentId);
   const next = b ? operationsStatus(b.status.used, b.budget, 1) : null;
+  const submit = form.handleSubmit(({ componentId: id, ...body }) => {
+    setSaved(null);
+    const designation = breakers.find((x) => x.componentId === id)?.designation;
+    return act.mutateAsync({ method: "POST", path: `/components/${id}/breaker-operations`, body }).then(
+      (r) => {
+        const st = (r as { status: { used: number; budget: number } }).status;
+        setSaved(
+          `Recorded: ${designation} ${body.operation === "close" ? "closed" : "opened"} (${st.used} of ${st.budget} used).`,
+        );
+        form.setValue("why", "");
+        onDone?.();
+      },
+      (err: unknown) => showSaveError(form, err),
+    );
+  });
+  const message = formMessage(formState.errors);
   return (
     <form
       className="space-y-2 rounded-md bg-hull-900 p-3"
       aria-label="Record a breaker operation"
-      onSubmit={(e) => {
-        e.preventDefault();
-        setSaved(null);
-        act.mutate(
-          {
-            method: "POST",
-            path: `/components/${componentId}/breaker-operations`,
-            body: { operation, stageId: stageId || null, why },
-          },
-          {
-            onSuccess: (r) => {
-              const st = (r as { status: { used: number; budget: number } }).status;
-              setSaved(
-                `Recorded: ${b?.designation} ${operation === "close" ? "closed" : "opened"} (${st.used} of ${st.budget} used).`,
-              );
-              setWhy("");
-              onDone?.();
-            },
-          },
-        );
-      }}
+      onSubmit={(ev) => void submit(ev)}
+      noValidate
     >
       <div className="grid gap-2 sm:grid-cols-2">
         {breakers.length > 1 && (
-          <label className="block text-sm">
-            Breaker
-            <select className={box} value={componentId} onChange={(e) => setComponent(e.target.value)} required>
-              <option value="">— choose —</option>
-              {breakers.map((x) => (
-                <option key={x.componentId} value={x.componentId}>
-                  {x.designation} ({x.status.used} of {x.budget} used)
-                </option>
-              ))}
-            </select>
-          </label>
+          <SelectField label="Breaker" {...register("componentId")} required error={e("componentId")}>
+            <option value="">— choose —</option>
+            {breakers.map((x) => (
+              <option key={x.componentId} value={x.componentId}>
+                {x.designation} ({x.status.used} of {x.budget} used)
+              </option>
+            ))}
+          </SelectField>
         )}
         <fieldset className="text-sm">
-          <legend>Operation</legend>
+          <legend>
+            Operation{" "}
+            {e("operation") && (
+              <span role="alert" className="text-rust-300">
+                — {e("operation")}
+              </span>
+            )}
+          </legend>
           <div className="mt-1 flex gap-2">
             {(["close", "open"] as const).map((o) => (
               <label key={o} className="inline-flex min-h-11 items-center gap-2 rounded-md px-3 ring-1 ring-hull-600">
-                <input type="radio" name={radio} checked={operation === o} onChange={() => setOperation(o)} />
+                <input type="radio" {...register("operation")} value={o} />
                 {o === "close" ? "Closed" : "Opened"}
               </label>
             ))}
           </div>
         </fieldset>
-        <label className="block text-sm">
-          During stage
-          <select className={box} value={stageId} onChange={(e) => setStage(e.target.value)}>
-            <option value="">On its own (no stage)</option>
-            {view.stages.map((s) => (
-              <option key={s.id} value={s.id}>
-                {s.name}
-              </option>
-            ))}
-          </select>
-        </label>
-        <label className="block text-sm">
-          Why
-          <input className={box} value={why} onChange={(e) => setWhy(e.target.value)} required minLength={2} />
-        </label>
+        <SelectField label="During stage" {...register("stageId")} error={e("stageId")}>
+          <option value="">On its own (no stage)</option>
+          {view.stages.map((s) => (
+            <option key={s.id} value={s.id}>
+              {s.name}
+            </option>
+          ))}
+        </SelectField>
+        <TextField label="Why" {...register("why")} required error={e("why")} />
       </div>
       {next?.warning && (
         <p role="alert" className="rounded-md border border-brass-400 p-2 text-sm text-brass-300">
           ⚠ {b!.designation}: {next.warning} The budget warns; it does not stop you.
         </p>
       )}
-      {act.error && (
+      {message && (
         <p role="alert" className="text-sm text-rust-300">
-          {errorOf(act.error)}
+          {message}
         </p>
       )}
       {saved && (
@@ -122,58 +138,60 @@ export function RecordOperation({
           {saved}
         </p>
       )}
-      <Button type="submit" disabled={act.isPending || !componentId}>
+      <Button type="submit" disabled={formState.isSubmitting || !componentId}>
         Record the operation
       </Button>
     </form>
   );
 }
 
+/** The form's text → the request body; budgetBody (the server's own schema) validates it. */
+const budgetForm = (version: number) =>
+  z
+    .object({ budget: numberText, reason: z.string() })
+    .transform((v) => ({ ...v, version }) as z.input<typeof budgetBody>)
+    .pipe(budgetBody);
+
 /** The curator changes a breaker's budget (version-checked), with the reason. */
 function BudgetEditor({ siteId, b, onDone }: { siteId: string; b: RtsBreaker; onDone: () => void }) {
   const act = useRtsAction(siteId);
-  const [budget, setBudget] = useState(String(b.budget));
-  const [reason, setReason] = useState("");
+  const schema = useMemo(() => budgetForm(b.budgetVersion), [b.budgetVersion]);
+  const form = useSchemaForm(schema, { budget: String(b.budget), reason: "" });
+  const { register, formState } = form;
+  const e = (name: Parameters<typeof register>[0]) => fieldError(formState.errors, name);
+  const submit = form.handleSubmit((body) =>
+    act
+      .mutateAsync({ method: "PUT", path: `/components/${b.componentId}/operations-budget`, body })
+      .then(onDone, (err: unknown) => showSaveError(form, err)),
+  );
+  const message = serverMessage(formState.errors);
   return (
     <form
-      className="flex flex-wrap items-end gap-2"
+      className="flex flex-wrap items-start gap-2"
       aria-label={`Operations budget of ${b.designation}`}
-      onSubmit={(e) => {
-        e.preventDefault();
-        act.mutate(
-          {
-            method: "PUT",
-            path: `/components/${b.componentId}/operations-budget`,
-            body: { budget: Number(budget), reason, version: b.budgetVersion },
-          },
-          { onSuccess: onDone },
-        );
-      }}
+      onSubmit={(ev) => void submit(ev)}
+      noValidate
     >
-      <label className="block text-sm">
-        Budget
-        <input
-          className={`${box} w-24`}
-          inputMode="numeric"
-          value={budget}
-          onChange={(e) => setBudget(e.target.value)}
-          required
-          pattern="\d+"
-        />
-      </label>
-      <label className="block flex-1 text-sm">
-        Reason
-        <input className={box} value={reason} onChange={(e) => setReason(e.target.value)} />
-      </label>
-      <Button type="submit" disabled={act.isPending}>
-        Save
-      </Button>
-      <Button tone="quiet" onClick={onDone}>
-        Cancel
-      </Button>
-      {act.error && (
+      <TextField
+        className="w-24"
+        label="Budget"
+        {...register("budget")}
+        inputMode="numeric"
+        required
+        error={e("budget")}
+      />
+      <TextField className="flex-1" label="Reason" {...register("reason")} error={e("reason")} />
+      <div className="flex gap-2 self-end">
+        <Button type="submit" disabled={formState.isSubmitting}>
+          Save
+        </Button>
+        <Button tone="quiet" onClick={onDone}>
+          Cancel
+        </Button>
+      </div>
+      {message && (
         <p role="alert" className="w-full text-sm text-rust-300">
-          {errorOf(act.error)}
+          {message}
         </p>
       )}
     </form>
