@@ -192,11 +192,15 @@ export const qualifiedBody = z.object({
 
 export const templateStep = z.object({
   kind: z.enum(STEP_KINDS),
-  title: z.string().trim().min(2).max(300),
+  title: stepBody.shape.title,
   detail: text(2000).default(""),
 });
 export const settingsBody = z.object({
-  insulationMaxAgeDays: z.number().int().min(1).max(365),
+  insulationMaxAgeDays: z
+    .number({ message: "Days as a whole number" })
+    .int({ message: "Days as a whole number" })
+    .min(1, { message: "From 1 to 365 days" })
+    .max(365, { message: "From 1 to 365 days" }),
   template: z.array(templateStep).min(1).max(40),
   version: z.number().int().min(0),
 });

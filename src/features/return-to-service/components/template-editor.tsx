@@ -1,14 +1,30 @@
 import { useState } from "react";
+import { useFieldArray } from "react-hook-form";
+import { z } from "zod";
 import { Button } from "../../../components/button";
-import { DEFAULT_TEMPLATE, STEP_KINDS, STEP_KIND_LABELS, type StepKind } from "../../../domain/return-to-service";
+import { SelectField, TextArea, TextField } from "../../../components/field";
+import { DEFAULT_TEMPLATE, STEP_KINDS, STEP_KIND_LABELS } from "../../../domain/return-to-service";
 import { ApiError } from "../../../lib/api-client";
-import type { RtsSettings } from "../../../schemas/return-to-service";
+import { fieldError, formMessage, numberText, showSaveError, useSchemaForm } from "../../../lib/form";
+import { settingsBody, type RtsSettings } from "../../../schemas/return-to-service";
 import { useRtsAction } from "../api";
 
-const box = "mt-1 w-full min-h-11 rounded-md bg-hull-900 px-2 ring-1 ring-hull-600";
-type Row = { key: number; kind: StepKind; title: string; detail: string };
-let nextKey = 1;
-const rowsOf = (t: RtsSettings["template"]): Row[] => t.map((x) => ({ ...x, key: nextKey++ }));
+/** The form's text → the request body; settingsBody (the server's own schema) validates it. */
+const templateForm = z
+  .object({
+    insulationMaxAgeDays: numberText,
+    template: z.array(z.object({ kind: z.string(), title: z.string(), detail: z.string() })),
+    version: z.number(),
+  })
+  .transform((v) => v as z.input<typeof settingsBody>)
+  .pipe(settingsBody);
+type TemplateFormValues = z.input<typeof templateForm>;
+
+const valuesOf = (s: RtsSettings): TemplateFormValues => ({
+  insulationMaxAgeDays: String(s.insulationMaxAgeDays),
+  template: s.template.map(({ kind, title, detail }) => ({ kind, title, detail })),
+  version: s.version,
+});
 
 /**
  * The site's hold-point template, edited by the curator: new stages copy it; stages already
@@ -24,119 +40,78 @@ export function TemplateEditor({
   canEdit: boolean;
 }) {
   const act = useRtsAction(siteId);
-  const [rows, setRows] = useState<Row[]>(() => rowsOf(settings.template));
-  const [days, setDays] = useState(String(settings.insulationMaxAgeDays));
-  const [version, setVersion] = useState(settings.version);
+  const form = useSchemaForm(templateForm, valuesOf(settings));
+  const { register, control, formState } = form;
+  const errors = formState.errors;
+  const e = (name: Parameters<typeof register>[0]) => fieldError(errors, name);
+  const rows = useFieldArray({ control, name: "template" });
+  // "Saved" stays until the next change.
   const [saved, setSaved] = useState(false);
-  const change = (key: number, patch: Partial<Row>) => {
+  const submit = form.handleSubmit((body) => {
     setSaved(false);
-    setRows((rs) => rs.map((r) => (r.key === key ? { ...r, ...patch } : r)));
-  };
-  const move = (i: number, to: number) => {
-    setSaved(false);
-    setRows((rs) => {
-      const out = [...rs];
-      const [r] = out.splice(i, 1);
-      out.splice(to, 0, r);
-      return out;
-    });
-  };
-  const err = act.error instanceof ApiError ? act.error : null;
-  const save = () =>
-    act.mutate(
-      {
-        method: "PUT",
-        path: "/return-to-service/settings",
-        body: {
-          insulationMaxAgeDays: Number(days),
-          template: rows.map(({ kind, title, detail }) => ({ kind, title, detail })),
-          version,
-        },
+    return act.mutateAsync({ method: "PUT", path: "/return-to-service/settings", body }).then(
+      (r) => {
+        form.reset(valuesOf((r as { settings: RtsSettings }).settings));
+        setSaved(true);
       },
-      {
-        onSuccess: (r) => {
-          const s = (r as { settings: RtsSettings }).settings;
-          setVersion(s.version);
-          setSaved(true);
-        },
-        onError: (e) => {
-          // Someone saved first: show theirs, so nothing is overwritten unseen.
-          const cur = e instanceof ApiError && e.status === 409 ? (e.current as RtsSettings | undefined) : undefined;
-          if (cur) {
-            setRows(rowsOf(cur.template));
-            setDays(String(cur.insulationMaxAgeDays));
-            setVersion(cur.version);
-          }
-        },
+      (err: unknown) => {
+        // Someone saved first: show theirs, so nothing is overwritten unseen.
+        const cur =
+          err instanceof ApiError && err.status === 409 ? (err.current as RtsSettings | undefined) : undefined;
+        if (cur) form.reset(valuesOf(cur));
+        showSaveError(form, err);
       },
     );
+  });
+  const message = formMessage(errors);
+  const listError = e("template") ?? errors.template?.root?.message;
   return (
-    <form
-      aria-label="Hold-point template"
-      className="space-y-4"
-      onSubmit={(e) => {
-        e.preventDefault();
-        save();
-      }}
-    >
+    <form aria-label="Hold-point template" className="space-y-4" onSubmit={(ev) => void submit(ev)} noValidate>
       <fieldset disabled={!canEdit} className="space-y-4">
-        <label className="block max-w-xs">
-          An insulation reading counts for (days)
-          <input className={box} inputMode="numeric" value={days} onChange={(e) => setDays(e.target.value)} required />
-        </label>
+        <TextField
+          className="max-w-xs"
+          label="An insulation reading counts for (days)"
+          {...register("insulationMaxAgeDays")}
+          inputMode="numeric"
+          required
+          error={e("insulationMaxAgeDays")}
+        />
         <ol className="space-y-3" aria-label="Hold points of a new stage">
-          {rows.map((r, i) => (
-            <li key={r.key} className="space-y-2 rounded-md bg-hull-800 p-3 ring-1 ring-hull-600">
+          {rows.fields.map((r, i) => (
+            <li key={r.id} className="space-y-2 rounded-md bg-hull-800 p-3 ring-1 ring-hull-600">
               <div className="grid gap-2 sm:grid-cols-[14rem_1fr]">
-                <label className="block text-sm">
-                  Kind ({i + 1})
-                  <select
-                    className={box}
-                    value={r.kind}
-                    onChange={(e) => change(r.key, { kind: e.target.value as StepKind })}
-                  >
-                    {STEP_KINDS.map((k) => (
-                      <option key={k} value={k}>
-                        {STEP_KIND_LABELS[k]}
-                      </option>
-                    ))}
-                  </select>
-                </label>
-                <label className="block text-sm">
-                  Hold point ({i + 1})
-                  <input
-                    className={box}
-                    value={r.title}
-                    onChange={(e) => change(r.key, { title: e.target.value })}
-                    required
-                    minLength={2}
-                  />
-                </label>
-              </div>
-              <label className="block text-sm">
-                What it asks for ({i + 1})
-                <textarea
-                  className="mt-1 w-full rounded-md bg-hull-900 p-2 ring-1 ring-hull-600"
-                  value={r.detail}
-                  onChange={(e) => change(r.key, { detail: e.target.value })}
+                <SelectField
+                  label={`Kind (${i + 1})`}
+                  {...register(`template.${i}.kind`)}
+                  error={e(`template.${i}.kind`)}
+                >
+                  {STEP_KINDS.map((k) => (
+                    <option key={k} value={k}>
+                      {STEP_KIND_LABELS[k]}
+                    </option>
+                  ))}
+                </SelectField>
+                <TextField
+                  label={`Hold point (${i + 1})`}
+                  {...register(`template.${i}.title`)}
+                  required
+                  error={e(`template.${i}.title`)}
                 />
-              </label>
+              </div>
+              <TextArea
+                label={`What it asks for (${i + 1})`}
+                {...register(`template.${i}.detail`)}
+                error={e(`template.${i}.detail`)}
+              />
               {canEdit && (
                 <div className="flex flex-wrap gap-2 text-sm">
-                  <Button tone="quiet" disabled={i === 0} onClick={() => move(i, i - 1)}>
+                  <Button tone="quiet" disabled={i === 0} onClick={() => rows.move(i, i - 1)}>
                     <span aria-hidden>↑</span> Move up
                   </Button>
-                  <Button tone="quiet" disabled={i === rows.length - 1} onClick={() => move(i, i + 1)}>
+                  <Button tone="quiet" disabled={i === rows.fields.length - 1} onClick={() => rows.move(i, i + 1)}>
                     <span aria-hidden>↓</span> Move down
                   </Button>
-                  <Button
-                    tone="quiet"
-                    disabled={rows.length === 1}
-                    onClick={() => {
-                      setSaved(false);
-                      setRows((rs) => rs.filter((x) => x.key !== r.key));
-                    }}
-                  >
+                  <Button tone="quiet" disabled={rows.fields.length === 1} onClick={() => rows.remove(i)}>
                     Remove
                   </Button>
                 </div>
@@ -145,37 +120,33 @@ export function TemplateEditor({
           ))}
         </ol>
       </fieldset>
-      {err && (
+      {listError && (
         <p role="alert" className="text-sm text-rust-300">
-          {err.message}
+          {listError}
         </p>
       )}
-      {saved && (
+      {message && (
+        <p role="alert" className="text-sm text-rust-300">
+          {message}
+        </p>
+      )}
+      {saved && !formState.isDirty && (
         <p role="status" className="text-sm">
           Saved. New stages take these hold points; stages already planned keep theirs.
         </p>
       )}
       {canEdit && (
         <div className="flex flex-wrap gap-2">
-          <Button
-            tone="quiet"
-            onClick={() => {
-              setSaved(false);
-              setRows((rs) => [...rs, { key: nextKey++, kind: "custom", title: "", detail: "" }]);
-            }}
-          >
+          <Button tone="quiet" onClick={() => rows.append({ kind: "custom", title: "", detail: "" })}>
             Add a hold point
           </Button>
           <Button
             tone="quiet"
-            onClick={() => {
-              setSaved(false);
-              setRows(rowsOf(DEFAULT_TEMPLATE));
-            }}
+            onClick={() => rows.replace(DEFAULT_TEMPLATE.map(({ kind, title, detail }) => ({ kind, title, detail })))}
           >
             Start again from Tideline's default
           </Button>
-          <Button type="submit" disabled={act.isPending}>
+          <Button type="submit" disabled={formState.isSubmitting}>
             Save the template
           </Button>
         </div>
