@@ -88,8 +88,6 @@ const QUERIES_NOT_YET_MOVED = [
   "server/inventory/csv-export.ts",
   "server/inventory/csv-import.ts",
   "server/parts/demand.ts",
-  "server/parts/service.ts",
-  "server/parts/workflow.ts",
 ];
 
 export default tseslint.config(

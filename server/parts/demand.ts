@@ -8,7 +8,6 @@
  * a fixed number of set-based statements, however many rows the change touched.
  */
 import { randomUUID } from "node:crypto";
-import { sql } from "kysely";
 import { aggregateDemand, normaliseText, type PartSpec } from "../../src/domain/parts";
 import { needKey, needMatchesLine } from "../../src/domain/part-workflow";
 import { COMPONENT_KINDS, type ComponentKind, type PartStatus } from "../../src/domain/vocab";
@@ -340,13 +339,7 @@ async function write(
   const audit: AuditEntry[] = [];
   if (plan.withdrawals.length) {
     const ids = [...new Set(plan.withdrawals.map((w) => w.link.id))];
-    await chunked(ids, (part) =>
-      trx
-        .updateTable("partDemandLinks")
-        .set({ active: false, withdrawnAt: sql`now()` })
-        .where("id", "in", part)
-        .execute(),
-    );
+    await chunked(ids, (part) => repo.withdrawLinks(trx, part));
     for (const { link: l, why } of plan.withdrawals) {
       history.push({
         siteId,
@@ -370,24 +363,22 @@ async function write(
   }
   if (plan.newLines.length) {
     await chunked(plan.newLines, (part) =>
-      trx
-        .insertInto("partLines")
-        .values(
-          part.map(
-            ({
-              number: _n,
-              version: _v,
-              status: _s,
-              autoCancelled: _a,
-              manualQty: _m,
-              heritageRule: _h,
-              createdAt: _c,
-              updatedAt: _u,
-              ...l
-            }) => l,
-          ),
-        )
-        .execute(),
+      repo.insertLines(
+        trx,
+        part.map(
+          ({
+            number: _n,
+            version: _v,
+            status: _s,
+            autoCancelled: _a,
+            manualQty: _m,
+            heritageRule: _h,
+            createdAt: _c,
+            updatedAt: _u,
+            ...l
+          }) => l,
+        ),
+      ),
     );
     for (const line of plan.newLines) {
       history.push({
@@ -412,29 +403,14 @@ async function write(
       boardId: a.need.boardId,
       qty: a.need.qty,
     }));
-    await chunked(rows, (part) => trx.insertInto("partDemandLinks").values(part).execute());
+    await chunked(rows, (part) => repo.insertLinks(trx, part));
     // Lines this function closed come back when demand returns: to "lead found" when a live lead exists.
     const reopen = [
       ...new Set(
         plan.attachments.filter((a) => a.line.status === "cancelled" && a.line.autoCancelled).map((a) => a.line.id),
       ),
     ];
-    const reopened = reopen.length
-      ? await trx
-          .updateTable("partLines as pl")
-          .set({
-            status: sql`case when exists (select 1 from part_leads pd where pd.line_id = pl.id and pd.status <> 'dead') then 'lead_found' else 'wanted' end`,
-            autoCancelled: false,
-            cancelReason: "",
-            version: sql`pl.version + 1`,
-            updatedAt: sql`now()`,
-          })
-          .where("pl.id", "in", reopen)
-          .where("pl.status", "=", "cancelled")
-          .where("pl.autoCancelled", "=", true)
-          .returning(["pl.id", "pl.status"])
-          .execute()
-      : [];
+    const reopened = reopen.length ? await repo.reopenAutoCancelled(trx, reopen) : [];
     for (const r of reopened) {
       history.push({
         siteId,
@@ -470,18 +446,8 @@ async function write(
     });
   }
   // Register lines still at wanted / lead found with no demand left close themselves; bought parts stay (as spares).
-  const closed = await sql<{ id: string; fromStatus: PartStatus }>`
-    with empty as (
-      select pl.id, pl.status from part_lines pl
-      where pl.site_id = ${siteId} and pl.origin = 'register' and pl.manual_qty = 0 and pl.status in ('wanted', 'lead_found')
-        and not exists (select 1 from part_demand_links l where l.line_id = pl.id and l.active)
-      for update
-    )
-    update part_lines pl set status = 'cancelled', auto_cancelled = true, cancel_reason = 'No longer wanted: nothing on the register asks for it.',
-      version = pl.version + 1, updated_at = now()
-    from empty where pl.id = empty.id
-    returning pl.id, empty.status as "fromStatus"`.execute(trx);
-  for (const l of closed.rows) {
+  const closed = await repo.cancelEmptyRegisterLines(trx, siteId);
+  for (const l of closed) {
     history.push({
       siteId,
       lineId: l.id,
@@ -501,6 +467,6 @@ async function write(
       after: { status: "cancelled" },
     });
   }
-  await chunked(history, (part) => trx.insertInto("partLineHistory").values(part).execute());
+  await chunked(history, (part) => repo.insertHistoryRows(trx, part));
   await recordAuditMany(trx, audit);
 }

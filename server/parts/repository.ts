@@ -337,3 +337,140 @@ export const budgetByBoard = (db: Db, siteId: string) =>
     )
     select board as "boardId", round(sum(estimated), 2)::float8 as estimated, round(sum(spent), 2)::float8 as spent, sum(unestimated)::int as "unestimatedLines"
     from per group by board order by board = '', board`.execute(db);
+
+/** The components and defects whose demand is active on a position. */
+export const activeDemandOfPosition = (trx: Db, siteId: string, positionId: string) =>
+  trx
+    .selectFrom("partDemandLinks")
+    .select(["componentId", "defectId"])
+    .where("siteId", "=", siteId)
+    .where("positionId", "=", positionId)
+    .where("active", "=", true)
+    .execute();
+
+export const activeLinksOfLine = (trx: Db, lineId: string) =>
+  trx.selectFrom("partDemandLinks").selectAll().where("lineId", "=", lineId).where("active", "=", true).execute();
+
+/** The links' parts are fitted: they no longer ask for anything. */
+export const markLinksFitted = (trx: Db, linkIds: string[]) =>
+  trx
+    .updateTable("partDemandLinks")
+    .set({ fitted: true, active: false, fittedAt: sql`now()` })
+    .where("id", "in", linkIds)
+    .execute();
+
+export const leadsOfLine = (db: Db, lineId: string) =>
+  db.selectFrom("partLeads").selectAll().where("lineId", "=", lineId).orderBy("createdAt").execute();
+
+export const acquisitionsOfLine = (db: Db, lineId: string) =>
+  db
+    .selectFrom("partAcquisitions")
+    .select(["id", "leadId", "qty", "cost", "acquiredOn", "notes"])
+    .where("lineId", "=", lineId)
+    .orderBy("acquiredOn")
+    .execute();
+
+/** The line's history, newest first, with who did each. */
+export const historyOfLine = (db: Db, lineId: string) =>
+  db
+    .selectFrom("partLineHistory as h")
+    .leftJoin("users as u", "u.id", "h.actorId")
+    .select(["h.id", "h.at", "h.action", "h.summary", "h.fromStatus", "h.toStatus", "u.name as actorName"])
+    .where("h.lineId", "=", lineId)
+    .orderBy("h.at", "desc")
+    .orderBy("h.id", "desc")
+    .execute();
+
+export const insertLead = (trx: Db, v: Insertable<Database["partLeads"]>) =>
+  trx.insertInto("partLeads").values(v).returningAll().executeTakeFirstOrThrow();
+
+/** Locks the lead for the rest of the transaction. */
+export const lockLead = (trx: Db, siteId: string, leadId: string) =>
+  trx
+    .selectFrom("partLeads")
+    .selectAll()
+    .where("siteId", "=", siteId)
+    .where("id", "=", leadId)
+    .forUpdate()
+    .executeTakeFirst();
+
+/** Writes a patch and bumps the version (the caller checked it under lockLead). */
+export const updateLeadRow = (trx: Db, leadId: string, patch: Updateable<Database["partLeads"]>) =>
+  trx
+    .updateTable("partLeads")
+    .set({ ...patch, version: sql`version + 1`, updatedAt: sql`now()` })
+    .where("id", "=", leadId)
+    .returningAll()
+    .executeTakeFirstOrThrow();
+
+export const leadOfLine = (trx: Db, leadId: string, lineId: string) =>
+  trx
+    .selectFrom("partLeads")
+    .select(["id", "status"])
+    .where("id", "=", leadId)
+    .where("lineId", "=", lineId)
+    .executeTakeFirst();
+
+export const secureLead = (trx: Db, leadId: string) =>
+  trx
+    .updateTable("partLeads")
+    .set({ status: "secured", version: sql`version + 1`, updatedAt: sql`now()` })
+    .where("id", "=", leadId)
+    .execute();
+
+export const hasAcquisition = async (trx: Db, lineId: string) =>
+  !!(await trx.selectFrom("partAcquisitions").select("id").where("lineId", "=", lineId).executeTakeFirst());
+
+export const insertAcquisitionRow = (trx: Db, v: Insertable<Database["partAcquisitions"]>) =>
+  trx.insertInto("partAcquisitions").values(v).returningAll().executeTakeFirstOrThrow();
+
+// ── the demand sync's set-based writes (server/parts/demand.ts chunks them at 1,000 rows) ──
+
+export const withdrawLinks = (trx: Db, linkIds: string[]) =>
+  trx
+    .updateTable("partDemandLinks")
+    .set({ active: false, withdrawnAt: sql`now()` })
+    .where("id", "in", linkIds)
+    .execute();
+
+export const insertLines = (trx: Db, rows: Insertable<PartLinesTable>[]) =>
+  trx.insertInto("partLines").values(rows).execute();
+
+export const insertLinks = (trx: Db, rows: Insertable<Database["partDemandLinks"]>[]) =>
+  trx.insertInto("partDemandLinks").values(rows).execute();
+
+/** Lines the sync closed come back when demand returns: to "lead found" when a live lead exists. */
+export const reopenAutoCancelled = (trx: Db, lineIds: string[]) =>
+  trx
+    .updateTable("partLines as pl")
+    .set({
+      status: sql`case when exists (select 1 from part_leads pd where pd.line_id = pl.id and pd.status <> 'dead') then 'lead_found' else 'wanted' end`,
+      autoCancelled: false,
+      cancelReason: "",
+      version: sql`pl.version + 1`,
+      updatedAt: sql`now()`,
+    })
+    .where("pl.id", "in", lineIds)
+    .where("pl.status", "=", "cancelled")
+    .where("pl.autoCancelled", "=", true)
+    .returning(["pl.id", "pl.status"])
+    .execute();
+
+/** Register lines still at wanted / lead found with no demand left close themselves; bought parts stay (as spares). */
+export const cancelEmptyRegisterLines = async (trx: Db, siteId: string) =>
+  (
+    await sql<{ id: string; fromStatus: PartStatus }>`
+    with empty as (
+      select pl.id, pl.status from part_lines pl
+      where pl.site_id = ${siteId} and pl.origin = 'register' and pl.manual_qty = 0 and pl.status in ('wanted', 'lead_found')
+        and not exists (select 1 from part_demand_links l where l.line_id = pl.id and l.active)
+      for update
+    )
+    update part_lines pl set status = 'cancelled', auto_cancelled = true, cancel_reason = 'No longer wanted: nothing on the register asks for it.',
+      version = pl.version + 1, updated_at = now()
+    from empty where pl.id = empty.id
+    returning pl.id, empty.status as "fromStatus"`.execute(trx)
+  ).rows;
+
+export const insertHistoryRows = (trx: Db, rows: Insertable<Database["partLineHistory"]>[]) =>
+  trx.insertInto("partLineHistory").values(rows).execute();

@@ -1,6 +1,5 @@
 import type { ExportWriter } from "../export-stream";
 import { toCsv } from "./csv";
-import { sql } from "kysely";
 import { needKey, nextPartStatuses } from "../../src/domain/part-workflow";
 import { can } from "../../src/domain/permissions";
 import type { Role } from "../../src/domain/vocab";
@@ -33,13 +32,7 @@ export const demandChanged = (
 
 /** The components and defects whose demand sits on a position, read before the position is deleted. */
 export async function demandOfPosition(trx: Db, siteId: string, positionId: string) {
-  const rows = await trx
-    .selectFrom("partDemandLinks")
-    .select(["componentId", "defectId"])
-    .where("siteId", "=", siteId)
-    .where("positionId", "=", positionId)
-    .where("active", "=", true)
-    .execute();
+  const rows = await repo.activeDemandOfPosition(trx, siteId, positionId);
   return {
     componentIds: rows.flatMap((r) => (r.componentId ? [r.componentId] : [])),
     defectIds: rows.flatMap((r) => (r.defectId ? [r.defectId] : [])),
@@ -93,21 +86,9 @@ export async function writePartsCsv(
 export async function lineDetail(db: Db, siteId: string, lineId: string) {
   const line = await lineRow(db, siteId, lineId, true);
   const [leads, acquisitions, history] = await Promise.all([
-    db.selectFrom("partLeads").selectAll().where("lineId", "=", lineId).orderBy("createdAt").execute(),
-    db
-      .selectFrom("partAcquisitions")
-      .select(["id", "leadId", "qty", "cost", "acquiredOn", "notes"])
-      .where("lineId", "=", lineId)
-      .orderBy("acquiredOn")
-      .execute(),
-    db
-      .selectFrom("partLineHistory as h")
-      .leftJoin("users as u", "u.id", "h.actorId")
-      .select(["h.id", "h.at", "h.action", "h.summary", "h.fromStatus", "h.toStatus", "u.name as actorName"])
-      .where("h.lineId", "=", lineId)
-      .orderBy("h.at", "desc")
-      .orderBy("h.id", "desc")
-      .execute(),
+    repo.leadsOfLine(db, lineId),
+    repo.acquisitionsOfLine(db, lineId),
+    repo.historyOfLine(db, lineId),
   ]);
   return {
     line,
@@ -240,11 +221,7 @@ export async function addLead(db: Db, siteId: string, lineId: string, b: z.infer
   return db.transaction().execute(async (trx) => {
     const line = await repo.findLine(trx, siteId, lineId, true);
     if (!line) throw notFound("That wanted-list line");
-    const lead = await trx
-      .insertInto("partLeads")
-      .values({ ...b, siteId, lineId, createdBy: actorId })
-      .returningAll()
-      .executeTakeFirstOrThrow();
+    const lead = await repo.insertLead(trx, { ...b, siteId, lineId, createdBy: actorId });
     await repo.addHistory(trx, {
       siteId,
       lineId,
@@ -284,13 +261,7 @@ export async function updateLead(
   actorId: string,
 ) {
   return db.transaction().execute(async (trx) => {
-    const lead = await trx
-      .selectFrom("partLeads")
-      .selectAll()
-      .where("siteId", "=", siteId)
-      .where("id", "=", leadId)
-      .forUpdate()
-      .executeTakeFirst();
+    const lead = await repo.lockLead(trx, siteId, leadId);
     if (!lead) throw notFound("That lead");
     if (lead.version !== b.version)
       throw conflict("Someone changed this lead since you opened it.", {
@@ -300,12 +271,7 @@ export async function updateLead(
     const { version: _v, ...patch } = b;
     const d = diff(lead as unknown as Record<string, unknown>, patch);
     if (!d.changed) return lead;
-    const next = await trx
-      .updateTable("partLeads")
-      .set({ ...patch, version: sql`version + 1`, updatedAt: sql`now()` })
-      .where("id", "=", leadId)
-      .returningAll()
-      .executeTakeFirstOrThrow();
+    const next = await repo.updateLeadRow(trx, leadId, patch);
     await repo.addHistory(trx, {
       siteId,
       lineId: lead.lineId,

@@ -10,7 +10,6 @@
  *   the links become fitted (history) so the register's demand counts as met.
  * The defect notices that causes are returned for the route to send after the commit.
  */
-import { sql } from "kysely";
 import { canMovePart, defaultFittedHeritage } from "../../src/domain/part-workflow";
 import type { Actor } from "../../src/domain/defect-workflow";
 import { PART_STATUS_LABELS } from "../../src/domain/vocab";
@@ -39,12 +38,7 @@ export async function moveLineStatus(db: Db, siteId: string, lineId: string, b: 
       );
     if (b.to === "acquired" && line.status !== "received")
       await needAcquisition(trx, siteId, lineId, b.acquisition, actorId);
-    const links = await trx
-      .selectFrom("partDemandLinks")
-      .selectAll()
-      .where("lineId", "=", lineId)
-      .where("active", "=", true)
-      .execute();
+    const links = await repo.activeLinksOfLine(trx, lineId);
     if (b.to === "received")
       for (const l of links)
         if (l.componentId)
@@ -88,8 +82,7 @@ export async function moveLineStatus(db: Db, siteId: string, lineId: string, b: 
 
 async function needAcquisition(trx: Db, siteId: string, lineId: string, a: unknown, actorId: string) {
   if (a) return insertAcquisition(trx, siteId, lineId, acquisitionBody.parse(a), actorId);
-  const has = await trx.selectFrom("partAcquisitions").select("id").where("lineId", "=", lineId).executeTakeFirst();
-  if (!has)
+  if (!(await repo.hasAcquisition(trx, lineId)))
     throw new AppError(400, "invalid_input", "Record what the part cost and when it was acquired.", {
       "acquisition.cost": "Required",
       "acquisition.acquiredOn": "Required",
@@ -111,15 +104,10 @@ async function fit(trx: Db, ctx: defects.Ctx, links: Link[], heritageAfter: "unc
     if (l.defectId) await defects.partFitted(trx, ctx, l.defectId, "Part from the wanted list fitted");
   }
   if (links.length)
-    await trx
-      .updateTable("partDemandLinks")
-      .set({ fitted: true, active: false, fittedAt: sql`now()` })
-      .where(
-        "id",
-        "in",
-        links.map((l) => l.id),
-      )
-      .execute();
+    await repo.markLinksFitted(
+      trx,
+      links.map((l) => l.id),
+    );
 }
 
 /** Records a purchase on the line (cost, date, optionally the lead it came from, which is then secured). */
@@ -131,36 +119,23 @@ export async function insertAcquisition(
   actorId: string,
 ) {
   if (a.leadId) {
-    const lead = await trx
-      .selectFrom("partLeads")
-      .select(["id", "status"])
-      .where("id", "=", a.leadId)
-      .where("lineId", "=", lineId)
-      .executeTakeFirst();
+    const lead = await repo.leadOfLine(trx, a.leadId, lineId);
     if (!lead)
       throw new AppError(400, "invalid_input", "That lead is not one of this line's leads.", {
         leadId: "Not a lead of this line",
       });
-    await trx
-      .updateTable("partLeads")
-      .set({ status: "secured", version: sql`version + 1`, updatedAt: sql`now()` })
-      .where("id", "=", a.leadId)
-      .execute();
+    await repo.secureLead(trx, a.leadId);
   }
-  const row = await trx
-    .insertInto("partAcquisitions")
-    .values({
-      siteId,
-      lineId,
-      leadId: a.leadId,
-      qty: a.qty,
-      cost: a.cost,
-      acquiredOn: a.acquiredOn,
-      notes: a.notes,
-      recordedBy: actorId,
-    })
-    .returningAll()
-    .executeTakeFirstOrThrow();
+  const row = await repo.insertAcquisitionRow(trx, {
+    siteId,
+    lineId,
+    leadId: a.leadId,
+    qty: a.qty,
+    cost: a.cost,
+    acquiredOn: a.acquiredOn,
+    notes: a.notes,
+    recordedBy: actorId,
+  });
   await repo.addHistory(trx, {
     siteId,
     lineId,
