@@ -87,3 +87,29 @@ export function TextArea({
     </Frame>
   );
 }
+
+/**
+ * A field whose label wraps its input (a label that reads as part of a sentence, a compact row), with
+ * its message below: `children` gets the message's id for the input's aria-describedby.
+ */
+export function WithMessage({
+  error,
+  className,
+  children,
+}: {
+  error?: string;
+  className?: string;
+  children: (describedBy: string | undefined) => ReactNode;
+}) {
+  const id = useId();
+  return (
+    <div className={className}>
+      {children(error ? id : undefined)}
+      {error && (
+        <p id={id} role="alert" className="mt-1 text-sm text-flare-300">
+          {error}
+        </p>
+      )}
+    </div>
+  );
+}

@@ -1,32 +1,48 @@
-import { useState, type FormEvent } from "react";
+import { z } from "zod";
 import { Button } from "../../../components/button";
+import { WithMessage } from "../../../components/field";
 import { ApiError } from "../../../lib/api-client";
-import type { DefectDetail } from "../../../schemas/defects";
+import { fieldError, formMessage, showSaveError, useSchemaForm } from "../../../lib/form";
+import { text } from "../../../schemas/common";
+import { pinBody, type DefectDetail } from "../../../schemas/defects";
 import { findByRef, usePinDefect, useUnpinDefect } from "../api";
 
 const when = (iso: string) => iso.slice(0, 16).replace("T", " ");
+
+/**
+ * The form's text → pinBody's direction and reason (the server's own rules) and the reference typed;
+ * the reference becomes the other defect's id (relativeTo) once it is looked up, on saving.
+ */
+const pinForm = z
+  .object({ direction: z.string(), ref: z.string(), reason: z.string() })
+  .pipe(
+    pinBody
+      .pick({ direction: true, reason: true })
+      .extend({ ref: text().trim().min(1, { message: "Give the other defect's reference, e.g. D-12" }) }),
+  );
+
+const box = "mt-1 block min-h-11 rounded-md border border-hull-500 bg-hull-900 px-2 text-chalk";
 
 /** The curator's order: a defect placed just before or after another, with the reason, who and when; the curator sets or lifts it. */
 export function PinPanel({ siteId, detail, canManage }: { siteId: string; detail: DefectDetail; canManage: boolean }) {
   const d = detail.defect;
   const pin = usePinDefect(siteId, d.id);
   const unpin = useUnpinDefect(siteId, d.id);
-  const [error, setError] = useState<string | null>(null);
   const active = detail.pins.find((p) => !p.removedAt);
-  const fail = (e: unknown) =>
-    setError(e instanceof ApiError ? (Object.values(e.fields)[0] ?? e.message) : "That did not work.");
-
-  async function submit(e: FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    setError(null);
-    const f = new FormData(e.currentTarget);
-    const target = await findByRef(siteId, String(f.get("ref")).trim()).catch(() => null);
-    if (!target) return setError("No defect has that reference on this site.");
-    pin.mutate(
-      { direction: f.get("direction") as "above" | "below", relativeTo: target.id, reason: String(f.get("reason")) },
-      { onError: fail },
+  const form = useSchemaForm(pinForm, { direction: "above", ref: "", reason: "" });
+  const { register, formState } = form;
+  const e = (name: "direction" | "ref" | "reason") => fieldError(formState.errors, name);
+  const submit = form.handleSubmit(async ({ ref, ...rest }) => {
+    const target = await findByRef(siteId, ref).catch(() => null);
+    if (!target) return form.setError("ref", { message: "No defect has that reference on this site." });
+    await pin.mutateAsync({ ...rest, relativeTo: target.id }).then(
+      () => form.reset(),
+      (err: unknown) => showSaveError(form, err, { fallback: "That did not work." }),
     );
-  }
+  });
+  // Lifting is a button, not a form: its refusal is the mutation's own error.
+  const liftError = unpin.error && (unpin.error instanceof ApiError ? unpin.error.message : "That did not work.");
+  const message = formMessage(formState.errors) ?? liftError;
   return (
     <section aria-labelledby="pin-title" className="rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
       <h2 id="pin-title" className="text-lg font-bold">
@@ -59,49 +75,72 @@ export function PinPanel({ siteId, detail, canManage }: { siteId: string; detail
         <Button
           tone="quiet"
           className="mt-2"
-          onClick={() => unpin.mutate({ reason: "Lifted by the curator" }, { onError: fail })}
+          onClick={() => {
+            form.clearErrors();
+            unpin.mutate({ reason: "Lifted by the curator" });
+          }}
         >
           Back to its score's place
         </Button>
       )}
       {canManage && (
-        <form onSubmit={submit} className="mt-3 grid gap-2 sm:grid-cols-[auto_8rem_1fr_auto] sm:items-end">
-          <label className="text-sm font-semibold text-mist">
-            Do it
-            <select
-              name="direction"
-              className="mt-1 block min-h-11 rounded-md border border-hull-500 bg-hull-900 px-2 text-chalk"
-            >
-              <option value="above">before</option>
-              <option value="below">after</option>
-            </select>
-          </label>
-          <label className="text-sm font-semibold text-mist">
-            defect
-            <input
-              name="ref"
-              required
-              placeholder="D-12"
-              className="mt-1 block min-h-11 w-full rounded-md border border-hull-500 bg-hull-900 px-2 font-mono text-chalk"
-            />
-          </label>
-          <label className="text-sm font-semibold text-mist">
-            because
-            <input
-              name="reason"
-              required
-              minLength={3}
-              className="mt-1 block min-h-11 w-full rounded-md border border-hull-500 bg-hull-900 px-2 text-chalk"
-            />
-          </label>
+        <form
+          onSubmit={(ev) => {
+            unpin.reset();
+            void submit(ev);
+          }}
+          noValidate
+          className="mt-3 grid gap-2 sm:grid-cols-[auto_8rem_1fr_auto] sm:items-end"
+        >
+          <WithMessage error={e("direction")}>
+            {(describedBy) => (
+              <label className="text-sm font-semibold text-mist">
+                Do it
+                <select {...register("direction")} aria-describedby={describedBy} className={box}>
+                  <option value="above">before</option>
+                  <option value="below">after</option>
+                </select>
+              </label>
+            )}
+          </WithMessage>
+          <WithMessage error={e("ref")}>
+            {(describedBy) => (
+              <label className="text-sm font-semibold text-mist">
+                defect
+                <input
+                  {...register("ref")}
+                  required
+                  placeholder="D-12"
+                  aria-invalid={!!e("ref")}
+                  aria-describedby={describedBy}
+                  className={`${box} w-full font-mono`}
+                />
+              </label>
+            )}
+          </WithMessage>
+          <WithMessage error={e("reason")}>
+            {(describedBy) => (
+              <label className="text-sm font-semibold text-mist">
+                because
+                <input
+                  {...register("reason")}
+                  required
+                  minLength={3}
+                  aria-invalid={!!e("reason")}
+                  aria-describedby={describedBy}
+                  className={`${box} w-full`}
+                />
+              </label>
+            )}
+          </WithMessage>
           <Button type="submit" disabled={pin.isPending}>
             Set the order
           </Button>
         </form>
       )}
-      {error && (
+      {message && (
         <p role="alert" className="mt-2 text-flare-300">
-          {error}
+          {message}
         </p>
       )}
     </section>
