@@ -1,11 +1,34 @@
-import { useState, type FormEvent } from "react";
+import { useMemo, useState } from "react";
+import { z } from "zod";
 import { Button } from "../../../components/button";
+import { WithMessage } from "../../../components/field";
 import { ApiError } from "../../../lib/api-client";
-import { PHOTO_KINDS, PHOTO_KIND_LABELS, type PhotoKind } from "../../../domain/vocab";
-import type { Photo, PhotoTarget } from "../../../schemas/photos";
+import { fieldError, formMessage, showSaveError, useSchemaForm } from "../../../lib/form";
+import { PHOTO_KINDS, PHOTO_KIND_LABELS } from "../../../domain/vocab";
+import { photoPatch, type Photo, type PhotoTarget } from "../../../schemas/photos";
 import { usePhotoMutations } from "../api";
 
 const control = "mt-1 block min-h-11 w-full rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk";
+const STALE = "Someone changed this photo meanwhile; the form now shows their version. Edit again if needed.";
+
+/**
+ * The form's text → the PATCH body; photoPatch (the server's own schema) validates it. The position
+ * goes only when it changed: none means the photo stays filed to its board.
+ */
+const tagForm = (base: Photo) =>
+  z
+    .object({ kind: z.string(), caption: z.string(), positionId: z.string() })
+    .transform(
+      ({ positionId, ...v }) =>
+        ({
+          ...v,
+          version: base.version,
+          ...(positionId !== (base.positionId ?? "")
+            ? { positionId: positionId || null, boardId: positionId ? undefined : base.boardId }
+            : {}),
+        }) as z.input<typeof photoPatch>,
+    )
+    .pipe(photoPatch);
 
 /** Kind, caption and position of one photo; a stale edit shows the photo as it is now (409). */
 export function PhotoTagForm({
@@ -19,84 +42,114 @@ export function PhotoTagForm({
   targets: PhotoTarget[];
   onSaved?: (p: Photo) => void;
 }) {
+  // The photo as last stored: after a save, or as someone else left it (409).
   const [base, setBase] = useState(photo);
-  const [kind, setKind] = useState<PhotoKind>(photo.kind);
-  const [caption, setCaption] = useState(photo.caption);
-  const [positionId, setPositionId] = useState(photo.positionId ?? "");
-  const [message, setMessage] = useState("");
-  const { patch } = usePhotoMutations(siteId);
-  const reset = (p: Photo) => {
-    setBase(p);
-    setKind(p.kind);
-    setCaption(p.caption);
-    setPositionId(p.positionId ?? "");
-  };
+  const [note, setNote] = useState<string | null>(null);
   // Another photo opened in the same form starts from that photo: adjusted while rendering (React's "storing information from previous renders"), not in an effect.
-  const [formFor, setFormFor] = useState(photo.id);
-  if (formFor !== photo.id) {
-    setFormFor(photo.id);
-    reset(photo);
-    setMessage("");
+  if (base.id !== photo.id) {
+    setBase(photo);
+    setNote(null);
   }
+  return (
+    <TagFields
+      key={`${base.id}:${base.version}`}
+      siteId={siteId}
+      base={base}
+      targets={targets}
+      note={note}
+      onStored={(p, text) => {
+        setBase(p);
+        setNote(text);
+        if (text !== STALE) onSaved?.(p);
+      }}
+      clearNote={() => setNote(null)}
+    />
+  );
+}
 
-  const submit = (e: FormEvent) => {
-    e.preventDefault();
-    patch.mutate(
-      {
-        id: base.id,
-        version: base.version,
-        kind,
-        caption,
-        ...(positionId !== (base.positionId ?? "")
-          ? { positionId: positionId || null, boardId: positionId ? undefined : base.boardId }
-          : {}),
+function TagFields({
+  siteId,
+  base,
+  targets,
+  note,
+  onStored,
+  clearNote,
+}: {
+  siteId: string;
+  base: Photo;
+  targets: PhotoTarget[];
+  note: string | null;
+  onStored: (p: Photo, note: string) => void;
+  clearNote: () => void;
+}) {
+  const { patch } = usePhotoMutations(siteId);
+  const schema = useMemo(() => tagForm(base), [base]);
+  const form = useSchemaForm(schema, { kind: base.kind, caption: base.caption, positionId: base.positionId ?? "" });
+  const { register, formState } = form;
+  const e = (name: "kind" | "caption" | "positionId") => fieldError(formState.errors, name);
+  const submit = form.handleSubmit((body) =>
+    patch.mutateAsync({ id: base.id, ...body }).then(
+      (p) => onStored(p, "✓ Saved."),
+      (err: unknown) => {
+        if (err instanceof ApiError && err.status === 409 && err.current) onStored(err.current as Photo, STALE);
+        else showSaveError(form, err);
       },
-      {
-        onSuccess: (p) => {
-          reset(p);
-          setMessage("✓ Saved.");
-          onSaved?.(p);
-        },
-        onError: (err) => {
-          if (err instanceof ApiError && err.status === 409 && err.current) {
-            reset(err.current as Photo);
-            setMessage("Someone changed this photo meanwhile; the form now shows their version. Edit again if needed.");
-          } else setMessage(err.message);
-        },
-      },
-    );
-  };
+    ),
+  );
+  const message = formMessage(formState.errors) ?? note;
   return (
     <form
-      onSubmit={submit}
+      onSubmit={(ev) => {
+        clearNote();
+        void submit(ev);
+      }}
+      noValidate
       className="grid gap-2 p-3 sm:grid-cols-[10rem_minmax(0,1fr)_14rem_auto] sm:items-end"
       aria-label="Tag this photo"
     >
-      <label className="text-sm font-semibold text-mist">
-        Kind
-        <select className={control} value={kind} onChange={(e) => setKind(e.target.value as PhotoKind)}>
-          {PHOTO_KINDS.map((k) => (
-            <option key={k} value={k}>
-              {PHOTO_KIND_LABELS[k]}
-            </option>
-          ))}
-        </select>
-      </label>
-      <label className="text-sm font-semibold text-mist">
-        Caption
-        <input className={control} value={caption} maxLength={500} onChange={(e) => setCaption(e.target.value)} />
-      </label>
-      <label className="text-sm font-semibold text-mist">
-        Position
-        <select className={control} value={positionId} onChange={(e) => setPositionId(e.target.value)}>
-          <option value="">Not filed to a position</option>
-          {targets.map((t) => (
-            <option key={t.positionId} value={t.positionId}>
-              {t.designation} · {t.boardName}
-            </option>
-          ))}
-        </select>
-      </label>
+      <WithMessage error={e("kind")}>
+        {(describedBy) => (
+          <label className="text-sm font-semibold text-mist">
+            Kind
+            <select className={control} {...register("kind")} aria-describedby={describedBy}>
+              {PHOTO_KINDS.map((k) => (
+                <option key={k} value={k}>
+                  {PHOTO_KIND_LABELS[k]}
+                </option>
+              ))}
+            </select>
+          </label>
+        )}
+      </WithMessage>
+      <WithMessage error={e("caption")}>
+        {(describedBy) => (
+          <label className="text-sm font-semibold text-mist">
+            Caption
+            <input
+              className={control}
+              {...register("caption")}
+              maxLength={500}
+              aria-invalid={!!e("caption")}
+              aria-describedby={describedBy}
+            />
+          </label>
+        )}
+      </WithMessage>
+      <WithMessage error={e("positionId")}>
+        {(describedBy) => (
+          <label className="text-sm font-semibold text-mist">
+            Position
+            <select className={control} {...register("positionId")} aria-describedby={describedBy}>
+              <option value="">Not filed to a position</option>
+              {targets.map((t) => (
+                <option key={t.positionId} value={t.positionId}>
+                  {t.designation} · {t.boardName}
+                </option>
+              ))}
+            </select>
+          </label>
+        )}
+      </WithMessage>
       <Button type="submit" disabled={patch.isPending}>
         Save tags
       </Button>
