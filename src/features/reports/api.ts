@@ -1,7 +1,7 @@
 import { useMutation, useQuery } from "@tanstack/react-query";
 import { z } from "zod";
 import { api, ApiError, qs } from "../../lib/api-client";
-import { tagLookupResponse, type ReportSection } from "../../schemas/reports";
+import { tagLookupResponse, type SurveyReportQuery } from "../../schemas/reports";
 import type { LabelSheetId } from "../../domain/label-sheets";
 import { pageCounter } from "./pdf-progress";
 
@@ -9,17 +9,18 @@ export const reportKeys = {
   tag: (tag: string) => ["tags", tag.toLowerCase()] as const,
 };
 
-export interface ReportOptions {
-  boardId?: string;
-  sections: ReportSection[];
-  photos: boolean;
-  from?: string;
-  to?: string;
-  paper: "a4" | "letter";
+/** The survey's options as query text: the direct download's URL and the background job's params alike. */
+export function surveyReportParams(q: SurveyReportQuery): Record<string, string> {
+  const p: Record<string, string> = { photos: q.photos, paper: q.paper };
+  if (q.sections) p.sections = q.sections.join(",");
+  if (q.boardId) p.boardId = q.boardId;
+  if (q.from) p.from = q.from;
+  if (q.to) p.to = q.to;
+  return p;
 }
 
-export const surveyReportUrl = (siteId: string, o: ReportOptions) =>
-  `/api/sites/${siteId}/reports/survey.pdf${qs({ boardId: o.boardId, sections: o.sections.join(","), photos: o.photos ? "yes" : "no", from: o.from, to: o.to, paper: o.paper })}`;
+export const surveyReportUrl = (siteId: string, q: SurveyReportQuery) =>
+  `/api/sites/${siteId}/reports/survey.pdf${qs(surveyReportParams(q))}`;
 
 export interface LabelOptions {
   boardId?: string;

@@ -1,9 +1,16 @@
 import { useRef, useState } from "react";
+import { z } from "zod";
 import { Button } from "../../../components/button";
 import { SelectField, TextField } from "../../../components/field";
 import { ErrorPanel } from "../../../components/status";
-import { REPORT_SECTIONS, REPORT_SECTION_LABELS, type ReportSection } from "../../../schemas/reports";
-import { fetchPdf, surveyReportUrl, type Progress } from "../api";
+import { fieldError, formMessage, useSchemaForm } from "../../../lib/form";
+import {
+  REPORT_SECTIONS,
+  REPORT_SECTION_LABELS,
+  surveyReportQuery,
+  type SurveyReportQuery,
+} from "../../../schemas/reports";
+import { fetchPdf, surveyReportParams, surveyReportUrl, type Progress } from "../api";
 import { DownloadProgress } from "./download-progress";
 import { SaveLink } from "./save-link";
 
@@ -16,71 +23,78 @@ interface Props {
   preparing?: boolean;
 }
 
+/** The form's inputs → the report's query; surveyReportQuery (the server's own schema) validates it. */
+const reportForm = z
+  .object({
+    boardId: z.string(),
+    sections: z.array(z.string()),
+    photos: z.boolean(),
+    from: z.string(),
+    to: z.string(),
+    paper: z.string(),
+  })
+  .transform(
+    (v) =>
+      ({
+        boardId: v.boardId || undefined,
+        // In the report's order, whatever order they were ticked in.
+        sections: REPORT_SECTIONS.filter((s) => v.sections.includes(s)),
+        photos: v.photos ? "yes" : "no",
+        from: v.from || undefined,
+        to: v.to || undefined,
+        paper: v.paper,
+      }) as z.input<typeof surveyReportQuery>,
+  )
+  .pipe(surveyReportQuery);
+
 /** Options of the condition survey PDF, then its progress while the server renders it, then the file. */
 export function ReportForm({ siteId, siteName, boards, onPrepare, preparing = false }: Props) {
-  const [boardId, setBoardId] = useState(boards[0]?.id ?? "");
-  const [sections, setSections] = useState<ReportSection[]>([...REPORT_SECTIONS]);
-  const [photos, setPhotos] = useState(true);
-  const [from, setFrom] = useState("");
-  const [to, setTo] = useState("");
-  const [paper, setPaper] = useState<"a4" | "letter">("a4");
+  const form = useSchemaForm(reportForm, {
+    boardId: boards[0]?.id ?? "",
+    sections: [...REPORT_SECTIONS],
+    photos: true,
+    from: "",
+    to: "",
+    paper: "a4",
+  });
+  const { register, formState } = form;
+  const errors = formState.errors;
+  const e = (name: "boardId" | "sections" | "from" | "to" | "paper") => fieldError(errors, name);
+  const [boardId, sections, from, to] = form.watch(["boardId", "sections", "from", "to"]);
   const [progress, setProgress] = useState<Progress | null>(null);
   const [result, setResult] = useState<{ blob: Blob; filename: string } | null>(null);
   const [error, setError] = useState<unknown>(null);
   const abort = useRef<AbortController | null>(null);
   const busy = progress !== null && result === null && error === null;
 
-  const toggle = (s: ReportSection) =>
-    setSections((cur) =>
-      cur.includes(s) ? cur.filter((x) => x !== s) : REPORT_SECTIONS.filter((x) => x === s || cur.includes(x)),
-    );
   const board = boards.find((b) => b.id === boardId);
   const slug = `${siteName}${board ? `-${board.name}` : ""}`
     .toLowerCase()
     .replace(/[^a-z0-9]+/g, "-")
     .replace(/^-|-$/g, "");
 
-  /** The same options as the direct download's query, for the background job. */
-  const params = (): Record<string, string> => {
-    const p: Record<string, string> = { sections: sections.join(","), photos: photos ? "yes" : "no", paper };
-    if (boardId) p.boardId = boardId;
-    if (from) p.from = from;
-    if (to) p.to = to;
-    return p;
-  };
-
-  async function make() {
+  async function make(query: SurveyReportQuery) {
     setResult(null);
     setError(null);
     setProgress({ pages: 0, totalPages: null, bytes: 0 });
     abort.current = new AbortController();
     try {
-      const blob = await fetchPdf(
-        surveyReportUrl(siteId, {
-          boardId: boardId || undefined,
-          sections,
-          photos,
-          from: from || undefined,
-          to: to || undefined,
-          paper,
-        }),
-        setProgress,
-        abort.current.signal,
-      );
+      const blob = await fetchPdf(surveyReportUrl(siteId, query), setProgress, abort.current.signal);
       setResult({ blob, filename: `condition-survey-${slug}-${new Date().toISOString().slice(0, 10)}.pdf` });
     } catch (e) {
       if ((e as Error).name === "AbortError") setProgress(null);
       else setError(e);
     }
   }
+  /** The same options as the direct download's query, for the background job. */
+  const prepare = form.handleSubmit((query) => onPrepare?.(surveyReportParams(query)));
+  const message = formMessage(errors);
 
   return (
     <form
       className="space-y-4"
-      onSubmit={(e) => {
-        e.preventDefault();
-        if (!busy) void make();
-      }}
+      onSubmit={(ev) => void form.handleSubmit((query) => !busy && make(query))(ev)}
+      noValidate
       aria-labelledby="report-form-title"
     >
       <h2 id="report-form-title" className="text-xl font-bold">
@@ -91,8 +105,13 @@ export function ReportForm({ siteId, siteName, boards, onPrepare, preparing = fa
         with its photos and readings, dry-out charts, the defect register and the parts wanted, ending with the safety
         caution. It records observations and readings; it certifies nothing.
       </p>
+      {message && (
+        <p role="alert" className="text-flare-300">
+          {message}
+        </p>
+      )}
       <div className="grid gap-3 sm:grid-cols-2">
-        <SelectField label="Board" value={boardId} onChange={(e) => setBoardId(e.target.value)} disabled={busy}>
+        <SelectField label="Board" {...register("boardId")} disabled={busy} error={e("boardId")}>
           {boards.map((b) => (
             <option key={b.id} value={b.id}>
               {b.name} ({b.positionCount} positions)
@@ -100,30 +119,25 @@ export function ReportForm({ siteId, siteName, boards, onPrepare, preparing = fa
           ))}
           <option value="">Whole site: every board</option>
         </SelectField>
-        <SelectField
-          label="Paper"
-          value={paper}
-          onChange={(e) => setPaper(e.target.value as "a4" | "letter")}
-          disabled={busy}
-        >
+        <SelectField label="Paper" {...register("paper")} disabled={busy} error={e("paper")}>
           <option value="a4">A4</option>
           <option value="letter">US Letter</option>
         </SelectField>
         <TextField
           label="Observations from (optional)"
           type="date"
-          value={from}
+          {...register("from")}
           max={to || undefined}
-          onChange={(e) => setFrom(e.target.value)}
           disabled={busy}
+          error={e("from")}
         />
         <TextField
           label="Observations to (optional)"
           type="date"
-          value={to}
+          {...register("to")}
           min={from || undefined}
-          onChange={(e) => setTo(e.target.value)}
           disabled={busy}
+          error={e("to")}
           hint="Inspections, readings and photos outside the dates are left out."
         />
       </div>
@@ -137,8 +151,8 @@ export function ReportForm({ siteId, siteName, boards, onPrepare, preparing = fa
               <input
                 type="checkbox"
                 className="size-5 accent-brass-400"
-                checked={sections.includes(s)}
-                onChange={() => toggle(s)}
+                {...register("sections")}
+                value={s}
                 disabled={busy}
               />
               {REPORT_SECTION_LABELS[s]}
@@ -146,13 +160,7 @@ export function ReportForm({ siteId, siteName, boards, onPrepare, preparing = fa
           ))}
         </div>
         <label className="flex min-h-11 items-center gap-3">
-          <input
-            type="checkbox"
-            className="size-5 accent-brass-400"
-            checked={photos}
-            onChange={(e) => setPhotos(e.target.checked)}
-            disabled={busy}
-          />
+          <input type="checkbox" className="size-5 accent-brass-400" {...register("photos")} disabled={busy} />
           Include photos (as found and after work, downscaled)
         </label>
       </fieldset>
@@ -166,11 +174,7 @@ export function ReportForm({ siteId, siteName, boards, onPrepare, preparing = fa
           </Button>
         )}
         {onPrepare && (
-          <Button
-            tone="quiet"
-            disabled={busy || preparing || sections.length === 0}
-            onClick={() => onPrepare(params())}
-          >
+          <Button tone="quiet" disabled={busy || preparing || sections.length === 0} onClick={(ev) => void prepare(ev)}>
             Prepare in the background
           </Button>
         )}
