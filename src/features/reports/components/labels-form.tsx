@@ -1,8 +1,11 @@
 import { useState } from "react";
+import { z } from "zod";
 import { Button } from "../../../components/button";
 import { SelectField } from "../../../components/field";
 import { ErrorPanel } from "../../../components/status";
 import { LABEL_SHEETS, labelSheet, type LabelSheetId } from "../../../domain/label-sheets";
+import { fieldError, formMessage, useSchemaForm } from "../../../lib/form";
+import { labelsQuery, type LabelsQuery } from "../../../schemas/reports";
 import { fetchPdf, labelsUrl, useAssignTags } from "../api";
 import { SaveLink } from "./save-link";
 
@@ -26,6 +29,38 @@ interface Props {
 }
 
 type Which = "board" | "section" | "untagged" | "one";
+interface Scope {
+  boardId: string;
+  firstSection: string;
+  untagged: string[];
+}
+
+/**
+ * The form's choices → the labels query; labelsQuery (the server's own schema) validates it. The
+ * untagged positions are asked for by id: saving tags them first, then prints the labels they got.
+ */
+const labelsForm = ({ boardId, firstSection, untagged }: Scope) =>
+  z
+    .object({
+      which: z.string(),
+      sectionId: z.string(),
+      positionId: z.string(),
+      sheet: z.string(),
+      start: z.number(),
+      copies: z.string(),
+    })
+    .transform(({ which, sectionId, positionId, ...v }) => {
+      const scope =
+        which === "untagged"
+          ? { positionIds: untagged }
+          : which === "section"
+            ? { sectionId: sectionId || firstSection }
+            : which === "one"
+              ? { positionIds: [positionId] }
+              : { boardId };
+      return { ...scope, ...v } as z.input<typeof labelsQuery>;
+    })
+    .pipe(labelsQuery);
 
 /** Tag labels: what to print, on which stock, from which label of a part-used sheet. */
 export function LabelsForm({
@@ -38,24 +73,39 @@ export function LabelsForm({
   canAssign,
   onTagsAssigned,
 }: Props) {
-  const [which, setWhich] = useState<Which>("board");
-  const [sectionId, setSectionId] = useState("");
-  const [positionId, setPositionId] = useState("");
-  const [sheetId, setSheetId] = useState<LabelSheetId>("a4-21");
-  const [start, setStart] = useState(1);
-  const [copies, setCopies] = useState(1);
   const [busy, setBusy] = useState(false);
   const [result, setResult] = useState<{ blob: Blob; filename: string; count: number } | null>(null);
   const [error, setError] = useState<unknown>(null);
   const assign = useAssignTags(siteId);
 
-  const sheet = labelSheet(sheetId);
-  const perSheet = sheet.cols * sheet.rows;
-  const thermal = perSheet === 1;
   const tagged = positions.filter((p) => p.tagNumber);
   const untagged = positions.filter((p) => p.hasComponent && !p.tagNumber);
   // Default to the first section that has anything to print, not simply the first section.
-  const secId = sectionId || (sections.find((s) => tagged.some((p) => p.sectionId === s.id)) ?? sections[0])?.id || "";
+  const firstSection = (sections.find((s) => tagged.some((p) => p.sectionId === s.id)) ?? sections[0])?.id ?? "";
+  const form = useSchemaForm(labelsForm({ boardId, firstSection, untagged: untagged.map((p) => p.id) }), {
+    which: "board",
+    sectionId: "",
+    positionId: "",
+    sheet: "a4-21",
+    start: 1,
+    copies: "1",
+  });
+  const { register, formState, setValue } = form;
+  const e = (name: "which" | "sectionId" | "positionId" | "sheet" | "start" | "copies") =>
+    fieldError(formState.errors, name);
+  const [which, sectionId, positionId, sheetId, start, copyText] = form.watch([
+    "which",
+    "sectionId",
+    "positionId",
+    "sheet",
+    "start",
+    "copies",
+  ]) as [Which, string, string, LabelSheetId, number, string];
+  const copies = Number(copyText);
+  const secId = sectionId || firstSection;
+  const sheet = labelSheet(sheetId);
+  const perSheet = sheet.cols * sheet.rows;
+  const thermal = perSheet === 1;
   const count =
     which === "board"
       ? tagged.length
@@ -67,39 +117,32 @@ export function LabelsForm({
             ? 1
             : 0;
 
-  async function print() {
+  async function print(query: LabelsQuery) {
     setBusy(true);
     setError(null);
     setResult(null);
     try {
-      let scope: { boardId?: string; sectionId?: string; positionIds?: string[] };
       if (which === "untagged") {
-        const r = await assign.mutateAsync(untagged.map((p) => p.id));
+        const r = await assign.mutateAsync(query.positionIds ?? []);
         onTagsAssigned();
-        scope = { positionIds: r.assigned.map((a) => a.positionId) };
+        query = { ...query, positionIds: r.assigned.map((a) => a.positionId) };
         if (!r.assigned.length) throw new Error("Every chosen position is already tagged.");
-      } else if (which === "section") scope = { sectionId: secId };
-      else if (which === "one") scope = { positionIds: [positionId] };
-      else scope = { boardId };
-      const blob = await fetchPdf(
-        labelsUrl(siteId, { ...scope, sheet: sheetId, start: thermal ? 1 : start, copies }),
-        () => {},
-      );
-      setResult({ blob, filename: `tag-labels-${sheetId}.pdf`, count: count * copies });
+      }
+      const blob = await fetchPdf(labelsUrl(siteId, { ...query, start: thermal ? 1 : query.start }), () => {});
+      setResult({ blob, filename: `tag-labels-${query.sheet}.pdf`, count: count * query.copies });
     } catch (e) {
       setError(e);
     } finally {
       setBusy(false);
     }
   }
+  const message = formMessage(formState.errors);
 
   return (
     <form
       className="space-y-4"
-      onSubmit={(e) => {
-        e.preventDefault();
-        if (!busy) void print();
-      }}
+      onSubmit={(ev) => void form.handleSubmit((query) => !busy && print(query))(ev)}
+      noValidate
       aria-labelledby="labels-form-title"
     >
       <h2 id="labels-form-title" className="text-xl font-bold">
@@ -109,6 +152,11 @@ export function LabelsForm({
         One label for each removed part and one for its bag: tag number, board, position, kind and a code that opens the
         position when scanned.
       </p>
+      {message && (
+        <p role="alert" className="text-flare-300">
+          {message}
+        </p>
+      )}
       <div className="grid gap-3 sm:grid-cols-2">
         <SelectField
           label="Board"
@@ -126,11 +174,8 @@ export function LabelsForm({
         </SelectField>
         <SelectField
           label="Print labels for"
-          value={which}
-          onChange={(e) => {
-            setWhich(e.target.value as Which);
-            setResult(null);
-          }}
+          {...register("which", { onChange: () => setResult(null) })}
+          error={e("which")}
         >
           <option value="board">Every tagged position of the board ({tagged.length})</option>
           <option value="section">One section</option>
@@ -138,7 +183,7 @@ export function LabelsForm({
           <option value="one">One position</option>
         </SelectField>
         {which === "section" && (
-          <SelectField label="Section" value={secId} onChange={(e) => setSectionId(e.target.value)}>
+          <SelectField label="Section" {...register("sectionId")} value={secId} error={e("sectionId")}>
             {sections.map((s) => (
               <option key={s.id} value={s.id}>
                 {s.name} ({tagged.filter((p) => p.sectionId === s.id).length} tagged)
@@ -147,7 +192,7 @@ export function LabelsForm({
           </SelectField>
         )}
         {which === "one" && (
-          <SelectField label="Position" value={positionId} onChange={(e) => setPositionId(e.target.value)}>
+          <SelectField label="Position" {...register("positionId")} error={e("positionId")}>
             <option value="">Choose a tagged position</option>
             {tagged.map((p) => (
               <option key={p.id} value={p.id}>
@@ -158,11 +203,8 @@ export function LabelsForm({
         )}
         <SelectField
           label="Label stock"
-          value={sheetId}
-          onChange={(e) => {
-            setSheetId(e.target.value as LabelSheetId);
-            setStart(1);
-          }}
+          {...register("sheet", { onChange: () => setValue("start", 1) })}
+          error={e("sheet")}
           hint={sheet.source}
         >
           {LABEL_SHEETS.map((s) => (
@@ -171,7 +213,7 @@ export function LabelsForm({
             </option>
           ))}
         </SelectField>
-        <SelectField label="Copies of each" value={String(copies)} onChange={(e) => setCopies(Number(e.target.value))}>
+        <SelectField label="Copies of each" {...register("copies")} error={e("copies")}>
           <option value="1">One</option>
           <option value="2">Two: part and bag</option>
         </SelectField>
@@ -181,6 +223,11 @@ export function LabelsForm({
           <legend className="text-sm font-semibold text-mist">
             Start at label {start} (labels already used on this sheet are skipped)
           </legend>
+          {e("start") && (
+            <p role="alert" className="text-sm text-flare-300">
+              {e("start")}
+            </p>
+          )}
           <div
             className="mt-2 inline-grid gap-1 rounded-md bg-chalk p-2"
             style={{ gridTemplateColumns: `repeat(${sheet.cols}, minmax(2.75rem, 1fr))` }}
@@ -189,7 +236,7 @@ export function LabelsForm({
               <button
                 key={n}
                 type="button"
-                onClick={() => setStart(n)}
+                onClick={() => setValue("start", n)}
                 aria-pressed={n === start}
                 aria-label={`Start at label ${n}`}
                 className={`min-h-11 rounded-sm text-sm font-semibold ${n < start ? "bg-hull-500 text-chalk line-through" : n === start ? "bg-brass-400 text-hull-950 ring-2 ring-hull-950" : "bg-white text-hull-900 ring-1 ring-hull-500"}`}
