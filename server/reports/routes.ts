@@ -7,8 +7,7 @@
  * - GET  /tags/:tag                          signed in: where a tag is, among the person's sites.
  */
 import { Router, type Response } from "express";
-import { z } from "zod";
-import { assignTagsBody, labelsQuery, surveyReportQuery } from "../../src/schemas/reports";
+import { assignTagsBody, labelsQuery, surveyReportQuery, tagParams } from "../../src/schemas/reports";
 import type { Db } from "../db";
 import { limitExports } from "../export-stream";
 import { assignTags, findTag } from "../inventory/tags-service";
@@ -17,10 +16,6 @@ import type { PhotoStorage } from "../photos/storage";
 import { labelItems, renderLabels } from "./labels";
 import { prepareSurveyReport, writeSurveyReport } from "./service";
 import { log } from "../log";
-
-const tagParams = z.object({
-  tag: z.string().trim().min(1).max(40, { message: "A tag number has at most 40 characters" }),
-});
 
 const attachment = (res: Response, filename: string) =>
   res.setHeader("Content-Disposition", `attachment; filename="${filename.replace(/[^A-Za-z0-9._-]/g, "_")}"`);

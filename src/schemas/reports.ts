@@ -82,6 +82,11 @@ export const assignTagsBody = z.object({
     .optional(),
 });
 
+/** A tag number as looked up (the path of GET /api/tags/:tag): typed, or read from a label's code. */
+export const tagParams = z.object({
+  tag: z.string().trim().min(1).max(40, { message: "A tag number has at most 40 characters" }),
+});
+
 export const tagLookupResponse = z.object({
   tag: z.string(),
   matches: z.array(

@@ -1,7 +1,21 @@
 import { useEffect, useRef, useState } from "react";
+import { z } from "zod";
 import { Button } from "../../../components/button";
 import { TextField } from "../../../components/field";
 import { tagFromScan } from "../../../domain/label-sheets";
+import { fieldError, useSchemaForm } from "../../../lib/form";
+import { tagParams } from "../../../schemas/reports";
+
+/** What was typed → the tag number (a label's link is read like a scan); tagParams (the server's own schema) checks it. */
+const typedTag = z
+  .object({ tag: z.string() })
+  .transform(({ tag }, ctx) => {
+    const read = tagFromScan(tag);
+    if (read) return { tag: read };
+    ctx.addIssue({ code: "custom", path: ["tag"], message: "Type the tag number as printed, e.g. KL-0401." });
+    return z.NEVER;
+  })
+  .pipe(tagParams);
 
 type DetectorLike = { detect(source: CanvasImageSource): Promise<Array<{ rawValue: string }>> };
 type DetectorCtor = { new (o: { formats: string[] }): DetectorLike; getSupportedFormats?: () => Promise<string[]> };
@@ -36,7 +50,7 @@ export function TagScanner({ onTag }: { onTag: (tag: string) => void }) {
   const stream = useRef<MediaStream | null>(null);
   const [state, setState] = useState<"idle" | "starting" | "scanning">("idle");
   const [message, setMessage] = useState("");
-  const [typed, setTyped] = useState("");
+  const form = useSchemaForm(typedTag, { tag: "" });
 
   const stop = () => {
     stream.current?.getTracks().forEach((t) => t.stop());
@@ -120,17 +134,13 @@ export function TagScanner({ onTag }: { onTag: (tag: string) => void }) {
       )}
       <form
         className="flex flex-wrap items-end gap-3"
-        onSubmit={(e) => {
-          e.preventDefault();
-          const tag = tagFromScan(typed);
-          if (tag) onTag(tag);
-          else setMessage("Type the tag number as printed, e.g. KL-0401.");
-        }}
+        noValidate
+        onSubmit={(ev) => void form.handleSubmit(({ tag }) => onTag(tag))(ev)}
       >
         <TextField
           label="Or type the tag number"
-          value={typed}
-          onChange={(e) => setTyped(e.target.value)}
+          {...form.register("tag")}
+          error={fieldError(form.formState.errors, "tag")}
           autoCapitalize="characters"
           autoComplete="off"
           spellCheck={false}
