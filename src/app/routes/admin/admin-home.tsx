@@ -1,41 +1,107 @@
-import { useState, type FormEvent } from "react";
+import { useState } from "react";
 import { Link, Navigate } from "react-router";
 import { paths } from "../../../config/paths";
 import { Button } from "../../../components/button";
 import { SelectField, TextField } from "../../../components/field";
-import { ApiError } from "../../../lib/api-client";
+import { fieldError, formMessage, showSaveError, useSchemaForm } from "../../../lib/form";
 import { useSession } from "../../../features/auth/api";
 import { useCreateSite, useCreateUser } from "../../../features/sites/api";
+import { createSiteBody, createUserBody } from "../../../schemas/sites";
+
+function Refusal({ message }: { message: string | null }) {
+  return message ? (
+    <p role="alert" className="text-flare-300">
+      {message}
+    </p>
+  ) : null;
+}
+
+/** A new site; createSiteBody (the server's own schema) validates it. */
+function NewSiteForm({ onDone }: { onDone: (text: string) => void }) {
+  const createSite = useCreateSite();
+  const form = useSchemaForm(createSiteBody, { name: "", kind: "vessel", location: "" });
+  const { register, formState } = form;
+  const errors = formState.errors;
+  const submit = form.handleSubmit((body) =>
+    createSite.mutateAsync(body).then(
+      (s) => {
+        form.reset();
+        onDone(`Site “${s.name}” created.`);
+      },
+      (err: unknown) => showSaveError(form, err, { fallback: "That did not work." }),
+    ),
+  );
+  return (
+    <form
+      onSubmit={(ev) => void submit(ev)}
+      noValidate
+      className="space-y-3 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700"
+    >
+      <h2 className="text-lg font-semibold">New site</h2>
+      <Refusal message={formMessage(errors)} />
+      <TextField label="Name" {...register("name")} required error={fieldError(errors, "name")} />
+      <SelectField label="Kind" {...register("kind")} error={fieldError(errors, "kind")}>
+        <option value="vessel">Vessel</option>
+        <option value="building">Building</option>
+        <option value="plant">Plant</option>
+      </SelectField>
+      <TextField label="Location" {...register("location")} error={fieldError(errors, "location")} />
+      <Button type="submit" disabled={createSite.isPending}>
+        Create site
+      </Button>
+    </form>
+  );
+}
+
+/** A new account; createUserBody (the server's own schema) validates it. */
+function NewAccountForm({ onDone }: { onDone: (text: string) => void }) {
+  const createUser = useCreateUser();
+  const form = useSchemaForm(createUserBody, { email: "", name: "", password: "", isAdmin: false });
+  const { register, formState } = form;
+  const errors = formState.errors;
+  const submit = form.handleSubmit((body) =>
+    createUser.mutateAsync(body).then(
+      (d) => {
+        form.reset();
+        onDone(`Account ${d.user.email} created.`);
+      },
+      (err: unknown) => showSaveError(form, err, { fallback: "That did not work." }),
+    ),
+  );
+  return (
+    <form
+      onSubmit={(ev) => void submit(ev)}
+      noValidate
+      className="space-y-3 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700"
+    >
+      <h2 className="text-lg font-semibold">New account</h2>
+      <Refusal message={formMessage(errors)} />
+      <TextField label="E-mail" {...register("email")} type="email" required error={fieldError(errors, "email")} />
+      <TextField label="Name" {...register("name")} required error={fieldError(errors, "name")} />
+      <TextField
+        label="Password"
+        {...register("password")}
+        type="password"
+        autoComplete="new-password"
+        hint="At least 10 characters"
+        required
+        error={fieldError(errors, "password")}
+      />
+      <label className="flex min-h-11 items-center gap-2">
+        <input type="checkbox" {...register("isAdmin")} className="h-5 w-5" /> Instance admin
+      </label>
+      <Button type="submit" disabled={createUser.isPending}>
+        Create account
+      </Button>
+    </form>
+  );
+}
 
 export default function AdminHome() {
   const session = useSession();
-  const createSite = useCreateSite();
-  const createUser = useCreateUser();
-  const [msg, setMsg] = useState<{ ok: boolean; text: string } | null>(null);
+  // What the last save made (each form says its own refusals beside its fields).
+  const [done, setDone] = useState<string | null>(null);
   if (session.data && !session.data.user.isAdmin) return <Navigate to="/" replace />;
-  const fail = (e: unknown) => setMsg({ ok: false, text: e instanceof ApiError ? e.message : "That did not work." });
-
-  function site(e: FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    const f = new FormData(e.currentTarget);
-    createSite.mutate(
-      { name: String(f.get("name")), kind: f.get("kind") as "vessel", location: String(f.get("location") ?? "") },
-      { onSuccess: (s) => setMsg({ ok: true, text: `Site “${s.name}” created.` }), onError: fail },
-    );
-  }
-  function user(e: FormEvent<HTMLFormElement>) {
-    e.preventDefault();
-    const f = new FormData(e.currentTarget);
-    createUser.mutate(
-      {
-        email: String(f.get("email")),
-        name: String(f.get("name")),
-        password: String(f.get("password")),
-        isAdmin: f.get("isAdmin") === "on",
-      },
-      { onSuccess: (d) => setMsg({ ok: true, text: `Account ${d.user.email} created.` }), onError: fail },
-    );
-  }
   return (
     <main id="main" className="mx-auto max-w-3xl space-y-6 p-4">
       <h1 className="text-2xl font-bold">Instance administration</h1>
@@ -43,43 +109,13 @@ export default function AdminHome() {
         <Link to={paths.mailbox.href()}>Local mailbox</Link>{" "}
         <span className="text-mist">— e-mail kept by the fake mail server when SMTP_URL is unset</span>
       </p>
-      {msg && (
-        <p role={msg.ok ? "status" : "alert"} className={msg.ok ? "text-kelp-300" : "text-flare-300"}>
-          {msg.text}
+      {done && (
+        <p role="status" className="text-kelp-300">
+          {done}
         </p>
       )}
-      <form onSubmit={site} className="space-y-3 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
-        <h2 className="text-lg font-semibold">New site</h2>
-        <TextField label="Name" name="name" required />
-        <SelectField label="Kind" name="kind" defaultValue="vessel">
-          <option value="vessel">Vessel</option>
-          <option value="building">Building</option>
-          <option value="plant">Plant</option>
-        </SelectField>
-        <TextField label="Location" name="location" />
-        <Button type="submit" disabled={createSite.isPending}>
-          Create site
-        </Button>
-      </form>
-      <form onSubmit={user} className="space-y-3 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
-        <h2 className="text-lg font-semibold">New account</h2>
-        <TextField label="E-mail" name="email" type="email" required />
-        <TextField label="Name" name="name" required />
-        <TextField
-          label="Password"
-          name="password"
-          type="password"
-          autoComplete="new-password"
-          hint="At least 10 characters"
-          required
-        />
-        <label className="flex min-h-11 items-center gap-2">
-          <input type="checkbox" name="isAdmin" className="h-5 w-5" /> Instance admin
-        </label>
-        <Button type="submit" disabled={createUser.isPending}>
-          Create account
-        </Button>
-      </form>
+      <NewSiteForm onDone={setDone} />
+      <NewAccountForm onDone={setDone} />
     </main>
   );
 }
