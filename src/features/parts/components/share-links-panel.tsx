@@ -3,6 +3,8 @@ import { Button } from "../../../components/button";
 import { TextField } from "../../../components/field";
 import { paths } from "../../../config/paths";
 import { ApiError } from "../../../lib/api-client";
+import { fieldError, formMessage, showSaveError, useSchemaForm } from "../../../lib/form";
+import { shareLinkBody } from "../../../schemas/parts";
 import { useCreateShareLink, useRevokeShareLink, useShareLinks } from "../api";
 
 /** Links for partner organisations: specifications, quantities and photos only. Curators withdraw them. */
@@ -10,10 +12,23 @@ export function ShareLinksPanel({ siteId, canRevoke }: { siteId: string; canRevo
   const links = useShareLinks(siteId, true);
   const create = useCreateShareLink(siteId);
   const revoke = useRevokeShareLink(siteId);
-  const [label, setLabel] = useState("");
+  const form = useSchemaForm(shareLinkBody, { label: "" });
+  const errors = form.formState.errors;
+  // The link just made: shown once, since only its fingerprint is kept.
   const [fresh, setFresh] = useState<string | null>(null);
-  const [error, setError] = useState<string | null>(null);
-  const fail = (e: unknown) => setError(e instanceof ApiError ? e.message : "That did not work.");
+  const submit = form.handleSubmit((body) =>
+    create.mutateAsync(body).then(
+      (d) => {
+        setFresh(new URL(paths.shareParts.href(d.token), window.location.origin).href);
+        form.reset();
+      },
+      (err: unknown) => showSaveError(form, err, { fallback: "That did not work." }),
+    ),
+  );
+  // Withdrawing is a button, not a form: its refusal is the mutation's own error.
+  const withdrawError =
+    revoke.error && (revoke.error instanceof ApiError ? revoke.error.message : "That did not work.");
+  const error = formMessage(errors) ?? withdrawError;
 
   return (
     <section aria-labelledby="share-title" className="no-print rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
@@ -26,25 +41,16 @@ export function ShareLinksPanel({ siteId, canRevoke }: { siteId: string; canRevo
       </p>
       <form
         className="mt-3 flex flex-wrap items-end gap-3"
-        onSubmit={(e) => {
-          e.preventDefault();
-          setError(null);
-          create.mutate(
-            { label },
-            {
-              onSuccess: (d) => {
-                setFresh(new URL(paths.shareParts.href(d.token), window.location.origin).href);
-                setLabel("");
-              },
-              onError: fail,
-            },
-          );
+        noValidate
+        onSubmit={(ev) => {
+          revoke.reset();
+          void submit(ev);
         }}
       >
         <TextField
           label="Who is it for"
-          value={label}
-          onChange={(e) => setLabel(e.target.value)}
+          {...form.register("label")}
+          error={fieldError(errors, "label")}
           className="min-w-56 flex-1"
         />
         <Button type="submit" disabled={create.isPending}>
@@ -88,7 +94,7 @@ export function ShareLinksPanel({ siteId, canRevoke }: { siteId: string; canRevo
                   tone="danger"
                   onClick={() =>
                     confirm("Withdraw this link? Anyone using it will see that it has been withdrawn.") &&
-                    revoke.mutate(l.id, { onError: fail })
+                    (form.clearErrors(), revoke.mutate(l.id))
                   }
                 >
                   Withdraw
