@@ -1,7 +1,10 @@
-import { useState, type FormEvent } from "react";
+import { useMemo } from "react";
 import { useNavigate } from "react-router";
+import { z } from "zod";
+import { WithMessage } from "../../../components/field";
 import { paths } from "../../../config/paths";
-import { ApiError } from "../../../lib/api-client";
+import { fieldError, serverMessage, showSaveError, useSchemaForm } from "../../../lib/form";
+import { viewBody } from "../../../schemas/defects";
 import { useDeleteView, useSaveView, useSavedViews } from "../api";
 
 /** The person's own named register views: each is the register's URL query. */
@@ -10,21 +13,25 @@ export function SavedViews({ siteId, query }: { siteId: string; query: string })
   const save = useSaveView(siteId);
   const del = useDeleteView(siteId);
   const navigate = useNavigate();
-  const [name, setName] = useState("");
-  const [error, setError] = useState<string | null>(null);
   const current = views.data?.find((v) => v.query === query);
-
-  function submit(e: FormEvent) {
-    e.preventDefault();
-    setError(null);
-    save.mutate(
-      { name, query },
-      {
-        onSuccess: () => setName(""),
-        onError: (err) => setError(err instanceof ApiError ? err.message : "Not saved."),
-      },
-    );
-  }
+  // The name typed → the view's body with the register's query; viewBody (the server's own schema) checks it.
+  const schema = useMemo(
+    () =>
+      z
+        .object({ name: z.string() })
+        .transform((v) => ({ ...v, query }) as z.input<typeof viewBody>)
+        .pipe(viewBody),
+    [query],
+  );
+  const form = useSchemaForm(schema, { name: "" });
+  const errors = form.formState.errors;
+  const submit = form.handleSubmit((body) =>
+    save.mutateAsync(body).then(
+      () => form.reset(),
+      (err: unknown) => showSaveError(form, err, { fallback: "Not saved." }),
+    ),
+  );
+  const error = serverMessage(errors);
   return (
     <div className="flex flex-wrap items-end gap-2">
       <label className="text-sm font-semibold text-mist">
@@ -50,17 +57,22 @@ export function SavedViews({ siteId, query }: { siteId: string; query: string })
           Delete “{current.name}”
         </button>
       )}
-      <form onSubmit={submit} className="flex items-end gap-2">
-        <label className="text-sm font-semibold text-mist">
-          Save this view as
-          <input
-            value={name}
-            onChange={(e) => setName(e.target.value)}
-            required
-            maxLength={80}
-            className="mt-1 block min-h-11 w-44 rounded-md border border-hull-500 bg-hull-900 px-2 text-chalk"
-          />
-        </label>
+      <form onSubmit={(ev) => void submit(ev)} noValidate className="flex items-end gap-2">
+        <WithMessage error={fieldError(errors, "name")}>
+          {(describedBy) => (
+            <label className="text-sm font-semibold text-mist">
+              Save this view as
+              <input
+                {...form.register("name")}
+                required
+                maxLength={80}
+                aria-invalid={!!fieldError(errors, "name")}
+                aria-describedby={describedBy}
+                className="mt-1 block min-h-11 w-44 rounded-md border border-hull-500 bg-hull-900 px-2 text-chalk"
+              />
+            </label>
+          )}
+        </WithMessage>
         <button
           type="submit"
           className="min-h-11 rounded-md bg-hull-800 px-3 font-semibold ring-1 ring-hull-600"
