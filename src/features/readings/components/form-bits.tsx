@@ -1,6 +1,5 @@
 import type { ComponentProps, ReactNode } from "react";
 import { SelectField, TextField } from "../../../components/field";
-import { localNow } from "../format";
 
 export interface TargetOption {
   componentId: string;
@@ -71,19 +70,9 @@ export function KeptOnPhone({ what }: { what: string }) {
   );
 }
 
-/** When the reading was taken; registered with a form (`{...register("measuredAt")}`) or named "measuredAt". */
+/** When the reading was taken: `{...register("measuredAt")}`, its default `localNow()` in the form's defaults. */
 export function WhenField({ error, ...rest }: { error?: string } & ComponentProps<"input">) {
-  return (
-    <TextField
-      label="Measured at"
-      name="measuredAt"
-      type="datetime-local"
-      defaultValue={rest.onChange ? undefined : localNow()}
-      required
-      error={error}
-      {...rest}
-    />
-  );
+  return <TextField label="Measured at" type="datetime-local" required error={error} {...rest} />;
 }
 
 export function NumberField({
@@ -102,31 +91,21 @@ export function NumberField({
   return <TextField label={label} type="number" inputMode="decimal" step={step} error={error} hint={hint} {...rest} />;
 }
 
-/** The component a reading is taken on; registered with a form (`{...register("componentId")}`) or named. */
+/** The component a reading is taken on: `{...register("componentId")}`, its default in the form's defaults. */
 export function ComponentSelect({
   options,
-  name = "componentId",
   label = "Component",
   error,
-  defaultValue,
   allowNone,
   ...rest
 }: {
   options: TargetOption[];
-  name?: string;
   label?: string;
   error?: string;
-  defaultValue?: string;
   allowNone?: string;
-} & Omit<ComponentProps<"select">, "defaultValue">) {
+} & ComponentProps<"select">) {
   return (
-    <SelectField
-      label={label}
-      name={name}
-      defaultValue={rest.onChange ? undefined : (defaultValue ?? (allowNone ? "" : options[0]?.componentId))}
-      error={error}
-      {...rest}
-    >
+    <SelectField label={label} error={error} {...rest}>
       {allowNone && <option value="">{allowNone}</option>}
       {options.map((o) => (
         <option key={o.componentId} value={o.componentId}>
@@ -144,7 +123,7 @@ export function QualifierField({
   ...rest
 }: { name: string; label: string; error?: string } & ComponentProps<"select">) {
   return (
-    <SelectField label={label} defaultValue={rest.onChange ? undefined : ""} error={error} {...rest}>
+    <SelectField label={label} error={error} {...rest}>
       <option value="">As shown (exact)</option>
       <option value="at_or_above">At or above the meter's limit (≥)</option>
       <option value="below">Below the meter's resolution (≤)</option>
