@@ -1,4 +1,4 @@
-import { useMemo, useState } from "react";
+import { Fragment, useMemo, useState, type FormEvent, type ReactNode } from "react";
 import type { FieldValues, UseFormReturn } from "react-hook-form";
 import { z } from "zod";
 import { Button } from "../../../components/button";
@@ -12,37 +12,54 @@ import { useSetHeritageRule, useUpdateLine } from "../api";
 
 const STALE = "Someone changed this line meanwhile; the page now shows their version. Try again.";
 
+interface Note {
+  note: string | null;
+  setNote: (m: string | null) => void;
+}
+
 /**
- * A refused save. A stale version is said above the form, which starts again from the current line
- * (the page refetches it); anything else as the server said, beside the fields.
+ * A form over one stored version of the line: a new version (a save, or someone else's) starts it
+ * again from the stored values, while the note above it (saved, or stale) outlives it.
  */
-function refused<In extends FieldValues, Out>(
+function PerVersion({ line, children }: { line: PartLine; children: (n: Note) => ReactNode }) {
+  const [note, setNote] = useState<string | null>(null);
+  return <Fragment key={line.version}>{children({ note, setNote })}</Fragment>;
+}
+
+/**
+ * Saves through `save`; `done` is said on success. A stale version is said above the form (the page
+ * refetches the line); any other refusal as the server said, beside the fields.
+ */
+function useLineSave<In extends FieldValues, Out>(
   form: UseFormReturn<In, unknown, Out>,
-  err: unknown,
-  setNote: (m: string | null) => void,
+  save: (body: Out) => Promise<unknown>,
+  done: string,
+  { note, setNote }: Note,
 ) {
-  if (err instanceof ApiError && err.status === 409) setNote(STALE);
-  else showSaveError(form, err, { fallback: "That did not work." });
+  const submit = form.handleSubmit((body) =>
+    save(body).then(
+      () => setNote(done),
+      (err: unknown) => {
+        if (err instanceof ApiError && err.status === 409) setNote(STALE);
+        else showSaveError(form, err, { fallback: "That did not work." });
+      },
+    ),
+  );
+  return {
+    message: formMessage(form.formState.errors) ?? note,
+    onSubmit: (ev: FormEvent<HTMLFormElement>) => {
+      setNote(null);
+      void submit(ev);
+    },
+  };
 }
 
 /** The curator's call: how strictly the replacement must follow the original. */
 export function HeritageRuleForm({ siteId, line }: { siteId: string; line: PartLine }) {
-  const [note, setNote] = useState<string | null>(null);
-  // A new version (a save, or someone else's) starts the form again from the stored rule.
-  return <HeritageRuleFields key={line.version} siteId={siteId} line={line} note={note} setNote={setNote} />;
+  return <PerVersion line={line}>{(n) => <HeritageRuleFields siteId={siteId} line={line} {...n} />}</PerVersion>;
 }
 
-function HeritageRuleFields({
-  siteId,
-  line,
-  note,
-  setNote,
-}: {
-  siteId: string;
-  line: PartLine;
-  note: string | null;
-  setNote: (m: string | null) => void;
-}) {
+function HeritageRuleFields({ siteId, line, ...n }: { siteId: string; line: PartLine } & Note) {
   const set = useSetHeritageRule(siteId, line.id);
   const schema = useMemo(
     () =>
@@ -53,21 +70,9 @@ function HeritageRuleFields({
     [line.version],
   );
   const form = useSchemaForm(schema, { heritageRule: line.heritageRule });
-  const submit = form.handleSubmit((body) =>
-    set.mutateAsync(body).then(
-      () => setNote("Heritage rule saved."),
-      (err: unknown) => refused(form, err, setNote),
-    ),
-  );
-  const message = formMessage(form.formState.errors) ?? note;
+  const { message, onSubmit } = useLineSave(form, (b) => set.mutateAsync(b), "Heritage rule saved.", n);
   return (
-    <form
-      className="flex flex-wrap items-end gap-3"
-      onSubmit={(ev) => {
-        setNote(null);
-        void submit(ev);
-      }}
-    >
+    <form className="flex flex-wrap items-end gap-3" onSubmit={onSubmit}>
       <SelectField
         label="Heritage rule (curator)"
         {...form.register("heritageRule")}
@@ -100,22 +105,10 @@ const lineEditForm = (version: number) =>
     .pipe(updateLineBody);
 
 export function LineEditForm({ siteId, line }: { siteId: string; line: PartLine }) {
-  const [note, setNote] = useState<string | null>(null);
-  // A new version (a save, or someone else's) starts the form again from the stored values.
-  return <LineEditFields key={line.version} siteId={siteId} line={line} note={note} setNote={setNote} />;
+  return <PerVersion line={line}>{(n) => <LineEditFields siteId={siteId} line={line} {...n} />}</PerVersion>;
 }
 
-function LineEditFields({
-  siteId,
-  line,
-  note,
-  setNote,
-}: {
-  siteId: string;
-  line: PartLine;
-  note: string | null;
-  setNote: (m: string | null) => void;
-}) {
+function LineEditFields({ siteId, line, ...n }: { siteId: string; line: PartLine } & Note) {
   const update = useUpdateLine(siteId, line.id);
   const schema = useMemo(() => lineEditForm(line.version), [line.version]);
   const form = useSchemaForm(schema, {
@@ -125,19 +118,10 @@ function LineEditFields({
   });
   const { register, formState } = form;
   const e = (name: Parameters<typeof register>[0]) => fieldError(formState.errors, name);
-  const submit = form.handleSubmit((body) =>
-    update.mutateAsync(body).then(
-      () => setNote("Saved."),
-      (err: unknown) => refused(form, err, setNote),
-    ),
-  );
-  const message = formMessage(formState.errors) ?? note;
+  const { message, onSubmit } = useLineSave(form, (b) => update.mutateAsync(b), "Saved.", n);
   return (
     <form
-      onSubmit={(ev) => {
-        setNote(null);
-        void submit(ev);
-      }}
+      onSubmit={onSubmit}
       className="grid gap-3 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700 sm:grid-cols-2"
       aria-labelledby="edit-title"
     >
