@@ -46,8 +46,8 @@ export function LeadsPanel({
   const { register, formState } = form;
   const e = (name: keyof typeof blank) => fieldError(formState.errors, name);
   const [note, setNote] = useState<string | null>(null);
-  // A refused change of a lead's state has no field of its own: its message shows where the form's would.
-  const fail = (err: unknown) => setNote(err instanceof ApiError ? err.message : "That did not work.");
+  // A refused change of a lead's state (a select, not this form) shows its mutation's error where the form's would.
+  const stateError = update.error && (update.error instanceof ApiError ? update.error.message : "That did not work.");
   const submit = form.handleSubmit((body) =>
     add.mutateAsync(body).then(
       () => {
@@ -57,7 +57,7 @@ export function LeadsPanel({
       (err: unknown) => showSaveError(form, err, { fallback: "That did not work." }),
     ),
   );
-  const message = formMessage(formState.errors) ?? note;
+  const message = formMessage(formState.errors) ?? stateError ?? note;
 
   return (
     <section aria-labelledby="leads-title" className="rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700">
@@ -82,12 +82,10 @@ export function LeadsPanel({
                 className="min-h-11 rounded-md border border-hull-500 bg-hull-900 px-2 text-chalk"
                 value={l.status}
                 disabled={!canEdit}
-                onChange={(e) =>
-                  update.mutate(
-                    { leadId: l.id, version: l.version, status: e.target.value as LeadStatus },
-                    { onError: fail },
-                  )
-                }
+                onChange={(e) => {
+                  setNote(null);
+                  update.mutate({ leadId: l.id, version: l.version, status: e.target.value as LeadStatus });
+                }}
               >
                 {LEAD_STATUSES.map((s) => (
                   <option key={s} value={s}>
@@ -103,6 +101,7 @@ export function LeadsPanel({
         <form
           onSubmit={(ev) => {
             setNote(null);
+            update.reset();
             void submit(ev);
           }}
           noValidate
