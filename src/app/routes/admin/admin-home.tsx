@@ -1,4 +1,5 @@
-import { useState } from "react";
+import { useState, type ReactNode } from "react";
+import type { FieldValues, UseFormReturn } from "react-hook-form";
 import { Link, Navigate } from "react-router";
 import { paths } from "../../../config/paths";
 import { Button } from "../../../components/button";
@@ -8,12 +9,47 @@ import { useSession } from "../../../features/auth/api";
 import { useCreateSite, useCreateUser } from "../../../features/sites/api";
 import { createSiteBody, createUserBody } from "../../../schemas/sites";
 
-function Refusal({ message }: { message: string | null }) {
-  return message ? (
-    <p role="alert" className="text-flare-300">
-      {message}
-    </p>
-  ) : null;
+/** One of the admin's forms: it saves, empties itself and says what it made; a refusal goes beside the fields. */
+function AdminForm<In extends FieldValues, Out, Made>({
+  form,
+  title,
+  save,
+  said,
+  onDone,
+  children,
+}: {
+  form: UseFormReturn<In, unknown, Out>;
+  title: string;
+  save: (body: Out) => Promise<Made>;
+  said: (made: Made) => string;
+  onDone: (text: string) => void;
+  children: ReactNode;
+}) {
+  const submit = form.handleSubmit((body) =>
+    save(body).then(
+      (made) => {
+        form.reset();
+        onDone(said(made));
+      },
+      (err: unknown) => showSaveError(form, err, { fallback: "That did not work." }),
+    ),
+  );
+  const message = formMessage(form.formState.errors);
+  return (
+    <form
+      onSubmit={(ev) => void submit(ev)}
+      noValidate
+      className="space-y-3 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700"
+    >
+      <h2 className="text-lg font-semibold">{title}</h2>
+      {message && (
+        <p role="alert" className="text-flare-300">
+          {message}
+        </p>
+      )}
+      {children}
+    </form>
+  );
 }
 
 /** A new site; createSiteBody (the server's own schema) validates it. */
@@ -22,23 +58,14 @@ function NewSiteForm({ onDone }: { onDone: (text: string) => void }) {
   const form = useSchemaForm(createSiteBody, { name: "", kind: "vessel", location: "" });
   const { register, formState } = form;
   const errors = formState.errors;
-  const submit = form.handleSubmit((body) =>
-    createSite.mutateAsync(body).then(
-      (s) => {
-        form.reset();
-        onDone(`Site “${s.name}” created.`);
-      },
-      (err: unknown) => showSaveError(form, err, { fallback: "That did not work." }),
-    ),
-  );
   return (
-    <form
-      onSubmit={(ev) => void submit(ev)}
-      noValidate
-      className="space-y-3 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700"
+    <AdminForm
+      form={form}
+      title="New site"
+      save={(b) => createSite.mutateAsync(b)}
+      said={(s) => `Site “${s.name}” created.`}
+      onDone={onDone}
     >
-      <h2 className="text-lg font-semibold">New site</h2>
-      <Refusal message={formMessage(errors)} />
       <TextField label="Name" {...register("name")} required error={fieldError(errors, "name")} />
       <SelectField label="Kind" {...register("kind")} error={fieldError(errors, "kind")}>
         <option value="vessel">Vessel</option>
@@ -49,7 +76,7 @@ function NewSiteForm({ onDone }: { onDone: (text: string) => void }) {
       <Button type="submit" disabled={createSite.isPending}>
         Create site
       </Button>
-    </form>
+    </AdminForm>
   );
 }
 
@@ -59,23 +86,14 @@ function NewAccountForm({ onDone }: { onDone: (text: string) => void }) {
   const form = useSchemaForm(createUserBody, { email: "", name: "", password: "", isAdmin: false });
   const { register, formState } = form;
   const errors = formState.errors;
-  const submit = form.handleSubmit((body) =>
-    createUser.mutateAsync(body).then(
-      (d) => {
-        form.reset();
-        onDone(`Account ${d.user.email} created.`);
-      },
-      (err: unknown) => showSaveError(form, err, { fallback: "That did not work." }),
-    ),
-  );
   return (
-    <form
-      onSubmit={(ev) => void submit(ev)}
-      noValidate
-      className="space-y-3 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700"
+    <AdminForm
+      form={form}
+      title="New account"
+      save={(b) => createUser.mutateAsync(b)}
+      said={(d) => `Account ${d.user.email} created.`}
+      onDone={onDone}
     >
-      <h2 className="text-lg font-semibold">New account</h2>
-      <Refusal message={formMessage(errors)} />
       <TextField label="E-mail" {...register("email")} type="email" required error={fieldError(errors, "email")} />
       <TextField label="Name" {...register("name")} required error={fieldError(errors, "name")} />
       <TextField
@@ -93,7 +111,7 @@ function NewAccountForm({ onDone }: { onDone: (text: string) => void }) {
       <Button type="submit" disabled={createUser.isPending}>
         Create account
       </Button>
-    </form>
+    </AdminForm>
   );
 }
 
