@@ -103,3 +103,25 @@ test("a viewer reads the list but gets no editing or sharing controls", async ({
   await expect(page.getByText("Add a part by hand")).toHaveCount(0);
   await expect(page.getByRole("button", { name: "Create share link" })).toHaveCount(0);
 });
+
+test("the curator sets a line's heritage rule and its working notes, each saved from the version shown", async ({
+  page,
+}) => {
+  await signIn(page, "curator");
+  await page.goto(page.url().replace(/\/sites\/([^/]+).*/, "/sites/$1/parts"));
+  await page.getByTestId("part-row").getByRole("link").first().click();
+  const rule = page.getByLabel("Heritage rule (curator)");
+  const other = (await rule.inputValue()) === "modern_ok" ? "period_ok" : "modern_ok";
+  await rule.selectOption(other);
+  await page.getByRole("button", { name: "Set rule" }).click();
+  await expect(page.getByText("Heritage rule saved.")).toBeVisible();
+  await expect(rule).toHaveValue(other);
+
+  const notes = page.getByRole("form", { name: "Working notes" });
+  const text = `Ask the harbour trust's store first (${Date.now()})`;
+  await notes.getByLabel("Internal notes (never shared)").fill(text);
+  await notes.getByLabel("Extra quantity (spares)").fill("1");
+  await notes.getByRole("button", { name: "Save" }).click();
+  await expect(notes.getByText("Saved.")).toBeVisible();
+  await expect(notes.getByLabel("Internal notes (never shared)")).toHaveValue(text);
+});
