@@ -10,10 +10,10 @@
  *   instance on the database (slots in `export_slots`, with a lease); more get 429 with Retry-After.
  */
 import type { RequestHandler, Response } from "express";
-import { sql } from "kysely";
 import type { Db } from "./db";
 import { dbFailureOf } from "./db-errors";
 import { AppError } from "./errors";
+import * as slots from "./export-repository";
 
 const envInt = (name: string, fallback: number) => {
   const v = Number(process.env[name]);
@@ -49,37 +49,19 @@ export const exportSlotLeaseMs = () => envInt("EXPORT_SLOT_LEASE_MS", 60_000);
  */
 export async function acquireExportSlot(db: Db, holder: string, cap = exportsPerPerson()): Promise<string | null> {
   return db.transaction().execute(async (trx) => {
-    await sql`SELECT pg_advisory_xact_lock(hashtext('tideline.export-slots'), hashtext(${holder}))`.execute(trx);
-    await trx
-      .deleteFrom("exportSlots")
-      .where("holder", "=", holder)
-      .where("leaseUntil", "<", sql<Date>`now()`)
-      .execute();
-    const { n } = await trx
-      .selectFrom("exportSlots")
-      .select((eb) => eb.fn.countAll<number>().as("n"))
-      .where("holder", "=", holder)
-      .executeTakeFirstOrThrow();
-    if (Number(n) >= cap) return null;
-    const slot = await trx
-      .insertInto("exportSlots")
-      .values({ holder, leaseUntil: sql<Date>`now() + ${exportSlotLeaseMs()} * interval '1 millisecond'` })
-      .returning("id")
-      .executeTakeFirstOrThrow();
-    return slot.id;
+    await slots.lockHolder(trx, holder);
+    await slots.deleteLapsedSlots(trx, holder);
+    if ((await slots.slotCount(trx, holder)) >= cap) return null;
+    return slots.insertSlot(trx, holder, exportSlotLeaseMs());
   });
 }
 
 export async function renewExportSlot(db: Db, id: string) {
-  await db
-    .updateTable("exportSlots")
-    .set({ leaseUntil: sql<Date>`now() + ${exportSlotLeaseMs()} * interval '1 millisecond'` })
-    .where("id", "=", id)
-    .execute();
+  await slots.extendSlot(db, id, exportSlotLeaseMs());
 }
 
 export async function releaseExportSlot(db: Db, id: string) {
-  await db.deleteFrom("exportSlots").where("id", "=", id).execute();
+  await slots.deleteSlot(db, id);
 }
 
 /**

@@ -8,10 +8,10 @@
  * Kysely's .stream() is not available; pages of 500 keep memory flat all the same.
  */
 import type { Response } from "express";
-import { sql } from "kysely";
 import Papa from "papaparse";
 import { localDateTime, localHeader } from "../../src/domain/local-time";
 import { CSV_EXPORT_EXTRA_COLUMNS, CSV_IMPORT_COLUMNS } from "../../src/schemas/inventory";
+import * as repo from "./csv-repository";
 import type { Db } from "../db";
 import { textCell } from "../csv";
 import { readPage, runExport, type ExportWriter } from "../export-stream";
@@ -24,77 +24,8 @@ export const EXPORT_COLUMNS = ["position_id", ...CSV_IMPORT_COLUMNS, "row_versio
 export const exportHeader = (timeZone: string) =>
   EXPORT_COLUMNS.map((c) => (c === "latest_inspected_at" ? localHeader(c, timeZone) : c));
 
-type Key = { boardName: string; boardId: string; sortOrder: number; id: string };
-
-const page = (db: Db, siteId: string, after: Key | null) =>
-  db
-    .selectFrom("positions as p")
-    .innerJoin("boards as b", "b.id", "p.boardId")
-    .leftJoin("sections as s", "s.id", "p.sectionId")
-    .leftJoin("components as c", (j) => j.onRef("c.positionId", "=", "p.id").on("c.retiredAt", "is", null))
-    .leftJoinLateral(
-      (eb) =>
-        eb
-          .selectFrom("inspections as i")
-          .select(["i.percentRusted", "i.astmGrade", "i.isoRi", "i.inspectedAt"])
-          .whereRef("i.componentId", "=", "c.id")
-          .orderBy("i.inspectedAt", "desc")
-          .orderBy("i.createdAt", "desc")
-          .limit(1)
-          .as("li"),
-      (j) => j.onTrue(),
-    )
-    .select([
-      "b.name as boardName",
-      "b.id as boardId",
-      "p.sortOrder",
-      "p.id",
-      "p.version",
-      "c.version as componentVersion",
-      "s.name as section",
-      "p.designation",
-      "p.kind",
-      "p.gridRow",
-      "p.gridCol",
-      "p.rowSpan",
-      "p.colSpan",
-      "p.circuit",
-      "c.maker",
-      "c.model",
-      "c.frame",
-      "c.mounting",
-      "c.ratingAmps",
-      "c.poles",
-      "c.voltageRating",
-      "c.interruptingKa",
-      "c.serial",
-      "c.year",
-      "c.meterRange",
-      "c.lampWatts",
-      "c.heritage",
-      "c.tagNumber",
-      "c.notes",
-      "c.custody",
-      "c.custodyLocation",
-      "c.disposition",
-      "c.dispositionOverridden",
-      "li.percentRusted",
-      "li.astmGrade",
-      "li.isoRi",
-      "li.inspectedAt",
-    ])
-    .where("p.siteId", "=", siteId)
-    .$if(after !== null, (q) =>
-      q.where(
-        sql<boolean>`(b.name, b.id, p.sort_order, p.id) > (${after!.boardName}, ${after!.boardId}, ${after!.sortOrder}, ${after!.id})`,
-      ),
-    )
-    .orderBy("b.name")
-    .orderBy("b.id")
-    .orderBy("p.sortOrder")
-    .orderBy("p.id")
-    .limit(PAGE)
-    .execute();
+const page = (db: Db, siteId: string, after: repo.ExportKey | null) => repo.exportPage(db, siteId, after, PAGE);
+type Key = repo.ExportKey;
 
 type ExportRow = Awaited<ReturnType<typeof page>>[number];
 
@@ -147,17 +78,7 @@ export async function streamInventoryCsv(db: Db, siteId: string, timeZone: strin
 
 /** The inventory CSV into any export writer (a response, or a file made by a background job). */
 export async function writeInventoryCsv(db: Db, siteId: string, timeZone: string, out: ExportWriter) {
-  const total = out.progress
-    ? Number(
-        (
-          await db
-            .selectFrom("positions")
-            .select((eb) => eb.fn.countAll<number>().as("n"))
-            .where("siteId", "=", siteId)
-            .executeTakeFirstOrThrow()
-        ).n,
-      )
-    : undefined;
+  const total = out.progress ? await repo.positionCount(db, siteId) : undefined;
   out.progress?.(0, total);
   await out.write("\uFEFF" + unparse([exportHeader(timeZone)]));
   let after: Key | null = null;

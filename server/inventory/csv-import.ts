@@ -20,6 +20,7 @@ import {
   type ImportResponse,
   type ImportRow,
 } from "../../src/schemas/inventory";
+import * as repo from "./csv-repository";
 import type { Db } from "../db";
 import { AppError } from "../errors";
 import { readTextCell } from "../csv";
@@ -112,74 +113,14 @@ export function parseCsv(decoded: DecodedText) {
 export const separatorName = (s: string) =>
   s === "," ? "commas" : s === ";" ? "semicolons" : s === "\t" ? "tabs" : s === "|" ? "vertical bars" : s;
 
-/** Every position of the site with its current component, as the import compares them. */
-async function loadPositions(db: Db, siteId: string) {
-  return db
-    .selectFrom("positions as p")
-    .innerJoin("boards as b", "b.id", "p.boardId")
-    .leftJoin("sections as s", "s.id", "p.sectionId")
-    .leftJoin("components as c", (j) => j.onRef("c.positionId", "=", "p.id").on("c.retiredAt", "is", null))
-    .select([
-      "p.id",
-      "p.version",
-      "p.boardId",
-      "b.name as boardName",
-      "p.sectionId",
-      "s.name as section",
-      "p.designation",
-      "p.kind",
-      "p.gridRow",
-      "p.gridCol",
-      "p.rowSpan",
-      "p.colSpan",
-      "p.circuit",
-      "c.id as componentId",
-      "c.version as componentVersion",
-      "c.kind as componentKind",
-      "c.maker",
-      "c.model",
-      "c.frame",
-      "c.mounting",
-      "c.ratingAmps",
-      "c.poles",
-      "c.voltageRating",
-      "c.interruptingKa",
-      "c.serial",
-      "c.year",
-      "c.meterRange",
-      "c.lampWatts",
-      "c.heritage",
-      "c.tagNumber",
-      "c.notes",
-      "c.custody",
-      "c.custodyLocation",
-      "c.disposition",
-      "c.dispositionOverridden",
-    ])
-    .where("p.siteId", "=", siteId)
-    .orderBy("p.id")
-    .execute();
-}
+const loadPositions = repo.importPositions;
 export type CurrentPosition = Awaited<ReturnType<typeof loadPositions>>[number];
 
 async function siteState(db: Db, siteId: string) {
-  const boards = await db
-    .selectFrom("boards")
-    .select(["id", "name", "gridRows", "gridCols"])
-    .where("siteId", "=", siteId)
-    .execute();
-  const sections = await db
-    .selectFrom("sections")
-    .select(["id", "boardId", "name"])
-    .where("siteId", "=", siteId)
-    .execute();
+  const boards = await repo.importBoards(db, siteId);
+  const sections = await repo.importSections(db, siteId);
   const positions = await loadPositions(db, siteId);
-  const tags = await db
-    .selectFrom("components")
-    .select(["id", "positionId", "tagNumber"])
-    .where("siteId", "=", siteId)
-    .where("tagNumber", "is not", null)
-    .execute();
+  const tags = await repo.importTags(db, siteId);
   return {
     boards: new Map(boards.map((b) => [key(b.name), b])),
     sections: new Set(sections.map((s) => `${s.boardId}|${key(s.name)}`)),
