@@ -4,9 +4,9 @@
  * inventory in between) is refused with 409 and the fresh preview. Updates go through the
  * versioned UPDATE, so an edit made while the commit runs is never overwritten either.
  */
-import { sql } from "kysely";
 import { recordAuditMany, type AuditEntry } from "../audit";
 import type { ImportResponse } from "../../src/schemas/inventory";
+import * as csvRepo from "./csv-repository";
 import type { Db } from "../db";
 import { AppError } from "../errors";
 import { demandChanged } from "../parts/service";
@@ -67,11 +67,7 @@ async function ensureBoards(
     const mine = records.filter((x) => key(x.board) === k);
     const gridRows = Math.min(60, Math.max(6, ...mine.map((x) => x.gridRow + x.rowSpan - 1)));
     const gridCols = Math.min(60, Math.max(8, ...mine.map((x) => x.gridCol + x.colSpan - 1)));
-    const b = await trx
-      .insertInto("boards")
-      .values({ siteId, name: r.board, gridRows, gridCols })
-      .returning(["id", "name"])
-      .executeTakeFirstOrThrow();
+    const b = await csvRepo.insertBoard(trx, { siteId, name: r.board, gridRows, gridCols });
     audit.push({
       siteId,
       entityType: "board",
@@ -95,7 +91,7 @@ export async function commitImport(
 ): Promise<ImportResponse> {
   return db.transaction().execute(async (trx) => {
     // One import at a time per site: two files planned against the same inventory would each pass alone.
-    await sql`SELECT pg_advisory_xact_lock(hashtext('inventory-import'), hashtext(${siteId}))`.execute(trx);
+    await csvRepo.lockSiteImport(trx, siteId);
     const { response, planned, state } = await validateImport(trx, siteId, decoded);
     // The person confirmed a plan they saw: if it is not the plan now, show them the new one first.
     if (expect && expect !== response.summary.planDigest) throw new ImportChanged(response);
@@ -103,7 +99,7 @@ export async function commitImport(
     if (planned.length === 0)
       throw new AppError(400, "invalid_input", "The file has a header but no rows.", { csv: "No rows to import" });
     // Two rows may swap grid cells: the one-per-cell rule is checked at commit (the plan checked the end state).
-    await sql`SET CONSTRAINTS positions_one_per_cell DEFERRED`.execute(trx);
+    await csvRepo.deferOnePerCell(trx);
     const audit: AuditEntry[] = [];
     const creates = planned.filter((x) => x.row.action === "create");
     const updates = planned.filter((x) => x.row.action === "update");
@@ -121,11 +117,7 @@ export async function commitImport(
       const boardId = boards.get(key(r.board))!.id;
       const sk = `${boardId}|${key(r.section ?? "")}`;
       if (!r.section || sectionIds.has(sk)) continue;
-      const s = await trx
-        .insertInto("sections")
-        .values({ siteId, boardId, name: r.section, sortOrder: sectionIds.size })
-        .returning("id")
-        .executeTakeFirstOrThrow();
+      const s = await csvRepo.insertSection(trx, { siteId, boardId, name: r.section, sortOrder: sectionIds.size });
       sectionIds.set(sk, s.id);
     }
     const sectionOf = (boardId: string, name: string | null) =>
@@ -158,53 +150,48 @@ async function writeCreates(
   const positions = await mapUnique(
     () =>
       chunked(records, (part, offset) =>
-        trx
-          .insertInto("positions")
-          .values(
-            part.map((r, j) => {
-              const boardId = boards.get(key(r.board))!.id;
-              return {
-                siteId,
-                boardId,
-                sectionId: sectionOf(boardId, r.section),
-                designation: r.designation,
-                kind: r.kind,
-                gridRow: r.gridRow,
-                gridCol: r.gridCol,
-                rowSpan: r.rowSpan,
-                colSpan: r.colSpan,
-                circuit: r.circuit,
-                sortOrder: 10_000 + offset + j,
-              };
-            }),
-          )
-          .returning(["id", "boardId", "designation"])
-          .execute(),
+        csvRepo.insertPositions(
+          trx,
+          part.map((r, j) => {
+            const boardId = boards.get(key(r.board))!.id;
+            return {
+              siteId,
+              boardId,
+              sectionId: sectionOf(boardId, r.section),
+              designation: r.designation,
+              kind: r.kind,
+              gridRow: r.gridRow,
+              gridCol: r.gridCol,
+              rowSpan: r.rowSpan,
+              colSpan: r.colSpan,
+              circuit: r.circuit,
+              sortOrder: 10_000 + offset + j,
+            };
+          }),
+        ),
       ),
     UNIQUE.designation,
   );
   await mapUnique(
     () =>
       chunked(records, (part, offset) =>
-        trx
-          .insertInto("components")
-          .values(
-            part.map((r, j) => {
-              const {
-                board: _b,
-                section: _s,
-                designation: _d,
-                gridRow: _r,
-                gridCol: _c,
-                rowSpan: _rs,
-                colSpan: _cs,
-                circuit: _ci,
-                ...nameplate
-              } = r;
-              return { siteId, positionId: positions[offset + j].id, ...nameplate };
-            }),
-          )
-          .execute(),
+        csvRepo.insertComponents(
+          trx,
+          part.map((r, j) => {
+            const {
+              board: _b,
+              section: _s,
+              designation: _d,
+              gridRow: _r,
+              gridCol: _c,
+              rowSpan: _rs,
+              colSpan: _cs,
+              circuit: _ci,
+              ...nameplate
+            } = r;
+            return { siteId, positionId: positions[offset + j].id, ...nameplate };
+          }),
+        ),
       ),
     UNIQUE.tag,
   );
@@ -283,11 +270,12 @@ async function writeUpdates(
       } else {
         const c = await mapUnique(
           () =>
-            trx
-              .insertInto("components")
-              .values({ siteId, positionId: cur.id, kind: (rest.kind as never) ?? cur.kind, ...componentPatch })
-              .returning("id")
-              .executeTakeFirstOrThrow(),
+            csvRepo.insertComponent(trx, {
+              siteId,
+              positionId: cur.id,
+              kind: (rest.kind as never) ?? cur.kind,
+              ...componentPatch,
+            }),
           UNIQUE.tag,
         );
         componentIds.push(c.id);

@@ -1,5 +1,6 @@
 /** The inventory CSV's reads: the site as the import compares rows with it, and the export's pages. */
-import { sql } from "kysely";
+import { sql, type Insertable } from "kysely";
+import type { Database } from "../../db/types";
 import type { Db } from "../db";
 
 /** Every position of the site with its current component, as the import compares them. */
@@ -149,3 +150,28 @@ export const exportPage = (db: Db, siteId: string, after: ExportKey | null, limi
     .orderBy("p.id")
     .limit(limit)
     .execute();
+
+// ── the import's commit (server/inventory/csv-commit.ts), in its one transaction ──
+
+/** One import at a time per site, until the transaction ends. */
+export const lockSiteImport = (trx: Db, siteId: string) =>
+  sql`SELECT pg_advisory_xact_lock(hashtext('inventory-import'), hashtext(${siteId}))`.execute(trx);
+
+/** Two rows may swap grid cells: the one-per-cell rule is checked at commit. */
+export const deferOnePerCell = (trx: Db) => sql`SET CONSTRAINTS positions_one_per_cell DEFERRED`.execute(trx);
+
+export const insertBoard = (trx: Db, v: Insertable<Database["boards"]>) =>
+  trx.insertInto("boards").values(v).returning(["id", "name"]).executeTakeFirstOrThrow();
+
+export const insertSection = (trx: Db, v: Insertable<Database["sections"]>) =>
+  trx.insertInto("sections").values(v).returning("id").executeTakeFirstOrThrow();
+
+/** Many positions in one statement, returned in the order given. */
+export const insertPositions = (trx: Db, rows: Insertable<Database["positions"]>[]) =>
+  trx.insertInto("positions").values(rows).returning(["id", "boardId", "designation"]).execute();
+
+export const insertComponents = (trx: Db, rows: Insertable<Database["components"]>[]) =>
+  trx.insertInto("components").values(rows).execute();
+
+export const insertComponent = (trx: Db, v: Insertable<Database["components"]>) =>
+  trx.insertInto("components").values(v).returning("id").executeTakeFirstOrThrow();
