@@ -1,5 +1,6 @@
-import { expect, request, test, type APIRequestContext } from "@playwright/test";
-import { DEMO_PASSWORD, signIn } from "./support/auth";
+import { expect, test } from "@playwright/test";
+import { signIn } from "./support/auth";
+import { curatorApi, makeRtsBoard } from "./support/rts-board";
 
 /**
  * The return-to-service forms on the one form pattern, on a phone, as the curator and on a board of its own:
@@ -12,47 +13,6 @@ const BOARD = `Test board ${stamp}`;
 const TIE = `BT-${stamp}`;
 const FEEDER = `F-${stamp}`;
 
-async function curatorApi(baseURL: string): Promise<APIRequestContext> {
-  const api = await request.newContext({ baseURL, extraHTTPHeaders: { origin: baseURL } });
-  const r = await api.post("/api/auth/sign-in", { data: { email: "curator@tideline.test", password: DEMO_PASSWORD } });
-  expect(r.status()).toBe(200);
-  return api;
-}
-
-/** A small board with two sections, one bus tie and one feeder breaker (components come with the positions). */
-async function makeBoard(api: APIRequestContext, siteId: string) {
-  const ok = async (p: Promise<{ status(): number; json(): Promise<unknown> }>) => {
-    const r = await p;
-    expect(r.status(), JSON.stringify(await r.json())).toBe(201);
-    return (await r.json()) as Record<string, any>;
-  };
-  const board = await ok(
-    api.post(`/api/sites/${siteId}/boards`, { data: { name: BOARD, nominalVolts: 450, gridRows: 2, gridCols: 4 } }),
-  );
-  const boardId = (board.board ?? board).id as string;
-  const tie = await ok(api.post(`/api/sites/${siteId}/boards/${boardId}/sections`, { data: { name: "Bus tie" } }));
-  const feeders = await ok(api.post(`/api/sites/${siteId}/boards/${boardId}/sections`, { data: { name: "Feeders" } }));
-  const sectionId = (x: Record<string, any>) => (x.section ?? x).id as string;
-  await ok(
-    api.post(`/api/sites/${siteId}/boards/${boardId}/positions`, {
-      data: { designation: TIE, kind: "bus_tie", gridRow: 1, gridCol: 1, sectionId: sectionId(tie) },
-    }),
-  );
-  await ok(
-    api.post(`/api/sites/${siteId}/boards/${boardId}/positions`, {
-      data: {
-        designation: FEEDER,
-        kind: "molded_case_breaker",
-        gridRow: 2,
-        gridCol: 1,
-        circuit: "Steering gear",
-        sectionId: sectionId(feeders),
-      },
-    }),
-  );
-  return boardId;
-}
-
 test.use({ viewport: { width: 360, height: 740 } });
 
 test("the return-to-service forms show the schema's messages beside the fields and save", async ({ page, baseURL }) => {
@@ -60,7 +20,7 @@ test("the return-to-service forms show the schema's messages beside the fields a
   await signIn(page, "curator");
   const siteId = page.url().match(/sites\/([0-9a-f-]{36})/)![1];
   const api = await curatorApi(baseURL!);
-  const boardId = await makeBoard(api, siteId);
+  const boardId = await makeRtsBoard(api, siteId, { board: BOARD, tie: TIE, feeder: FEEDER });
   await page.goto(`/sites/${siteId}/boards/${boardId}/return-to-service`);
 
   // Stage form: nothing brought back, hours not a number.

@@ -1,6 +1,7 @@
-import { expect, request, test, type APIRequestContext, type Page } from "@playwright/test";
+import { expect, test, type Page } from "@playwright/test";
 import { expectNoSeriousA11yViolations } from "./support/a11y";
-import { DEMO_PASSWORD, signIn } from "./support/auth";
+import { signIn } from "./support/auth";
+import { curatorApi, makeRtsBoard } from "./support/rts-board";
 
 /**
  * Return to service end to end, on a board of its own (so the test does not depend on other tests or on
@@ -17,47 +18,6 @@ const FEEDER = `F-${stamp}`;
 const STAGE_1 = "Bus tie at reduced voltage";
 const STAGE_2 = "Feeders at full voltage";
 
-async function curatorApi(baseURL: string): Promise<APIRequestContext> {
-  const api = await request.newContext({ baseURL, extraHTTPHeaders: { origin: baseURL } });
-  const r = await api.post("/api/auth/sign-in", { data: { email: "curator@tideline.test", password: DEMO_PASSWORD } });
-  expect(r.status()).toBe(200);
-  return api;
-}
-
-/** A small board with two sections, one bus tie and one feeder breaker (components come with the positions). */
-async function makeBoard(api: APIRequestContext, siteId: string) {
-  const ok = async (p: Promise<{ status(): number; json(): Promise<unknown> }>) => {
-    const r = await p;
-    expect(r.status(), JSON.stringify(await r.json())).toBe(201);
-    return (await r.json()) as Record<string, any>;
-  };
-  const board = await ok(
-    api.post(`/api/sites/${siteId}/boards`, { data: { name: BOARD, nominalVolts: 450, gridRows: 2, gridCols: 4 } }),
-  );
-  const boardId = (board.board ?? board).id as string;
-  const tie = await ok(api.post(`/api/sites/${siteId}/boards/${boardId}/sections`, { data: { name: "Bus tie" } }));
-  const feeders = await ok(api.post(`/api/sites/${siteId}/boards/${boardId}/sections`, { data: { name: "Feeders" } }));
-  const sectionId = (x: Record<string, any>) => (x.section ?? x).id as string;
-  await ok(
-    api.post(`/api/sites/${siteId}/boards/${boardId}/positions`, {
-      data: { designation: TIE, kind: "bus_tie", gridRow: 1, gridCol: 1, sectionId: sectionId(tie) },
-    }),
-  );
-  await ok(
-    api.post(`/api/sites/${siteId}/boards/${boardId}/positions`, {
-      data: {
-        designation: FEEDER,
-        kind: "molded_case_breaker",
-        gridRow: 2,
-        gridCol: 1,
-        circuit: "Steering gear",
-        sectionId: sectionId(feeders),
-      },
-    }),
-  );
-  return boardId;
-}
-
 const stageCard = (page: Page, name: string) =>
   page.getByTestId("stage").filter({ has: page.getByRole("heading", { name: new RegExp(`^Stage \\d+: ${name}$`) }) });
 const hold = (page: Page, stage: string, kind: string) => stageCard(page, stage).getByTestId(`hold-${kind}`);
@@ -71,7 +31,7 @@ test("the curator plans two stages, fixes the gate's blockers and energises; a v
   await signIn(page, "curator");
   const siteId = page.url().match(/sites\/([0-9a-f-]{36})/)![1];
   const api = await curatorApi(baseURL!);
-  const boardId = await makeBoard(api, siteId);
+  const boardId = await makeRtsBoard(api, siteId, { board: BOARD, tie: TIE, feeder: FEEDER });
 
   // The overview names the new board with no plan yet.
   await page.goto(`/sites/${siteId}/return-to-service`);
