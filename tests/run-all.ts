@@ -43,10 +43,13 @@ interface PwSuite {
 }
 try {
   if (wants("types")) {
-    // Each part with its own libraries: the server has no DOM, the client no Node (tsconfig.*.json).
-    for (const part of ["server", "client", "e2e"])
-      if (!step(`type check, ${part} (tsc --noEmit)`, bin("tsc"), ["--noEmit", "-p", `tsconfig.${part}.json`]))
-        typecheckOk = false;
+    // Each part with its own libraries: the server has no DOM, the client no Node (tsconfig.{server,app,node}.json).
+    for (const [part, config] of [
+      ["server", "tsconfig.server.json"],
+      ["client", "tsconfig.app.json"],
+      ["e2e", "tsconfig.node.json"],
+    ])
+      if (!step(`type check, ${part} (tsc --noEmit)`, bin("tsc"), ["--noEmit", "-p", config])) typecheckOk = false;
     // The formatter decides the layout of every file (.prettierrc); `npm run format` fixes it.
     if (!step("format check (prettier --check)", bin("prettier"), ["--check", ".", "--log-level", "warn"]))
       typecheckOk = false;

@@ -1,6 +1,6 @@
 /**
- * The client and the server are type-checked with different libraries (tsconfig.client.json: DOM, no Node;
- * tsconfig.server.json: Node, no DOM; tsconfig.e2e.json: both, for tests that drive a browser). Each case
+ * The client and the server are type-checked with different libraries (tsconfig.app.json: DOM, no Node;
+ * tsconfig.server.json: Node, no DOM; tsconfig.node.json: both, for tests that drive a browser). Each case
  * compiles one made-up file, held in memory at a path inside the part it probes, with that part's own
  * options, so a config change that lets `document` into the server or `Buffer` into the client fails here.
  */
@@ -10,11 +10,12 @@ import ts from "typescript";
 import { describe, expect, it } from "vitest";
 import { projectRoot } from "../../db/pg";
 
-const PARTS = ["client", "server", "e2e"] as const;
-type Part = (typeof PARTS)[number];
+const CONFIGS = { client: "tsconfig.app.json", server: "tsconfig.server.json", e2e: "tsconfig.node.json" } as const;
+type Part = keyof typeof CONFIGS;
+const PARTS = Object.keys(CONFIGS) as Part[];
 
 function parsed(part: Part) {
-  const file = join(projectRoot, `tsconfig.${part}.json`);
+  const file = join(projectRoot, CONFIGS[part]);
   const config = ts.getParsedCommandLineOfConfigFile(
     file,
     {},
