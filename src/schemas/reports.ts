@@ -4,6 +4,7 @@
  */
 import { z } from "zod";
 import { LABEL_SHEET_IDS } from "../domain/label-sheets";
+import { text } from "./common";
 
 /** Sections a person may leave out. Cover, contents and the safety caution are always in. */
 export const REPORT_SECTIONS = ["summary", "board", "positions", "dryout", "rts", "defects", "parts"] as const;
@@ -84,7 +85,7 @@ export const assignTagsBody = z.object({
 
 /** A tag number as looked up (the path of GET /api/tags/:tag): typed, or read from a label's code. */
 export const tagParams = z.object({
-  tag: z.string().trim().min(1).max(40, { message: "A tag number has at most 40 characters" }),
+  tag: text().trim().min(1).max(40, { message: "A tag number has at most 40 characters" }),
 });
 
 export const tagLookupResponse = z.object({

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { text as storable } from "./common";
 import {
   STEP_KINDS,
   SUPPLIES,
@@ -19,11 +20,11 @@ const amps = z
   .positive({ message: "Amperes above 0" })
   .max(100_000)
   .nullable();
-const text = (max: number) => z.string().trim().max(max);
+const text = (max: number) => storable().trim().max(max);
 const version = z.number().int().min(1);
 
 const stageFields = {
-  name: z.string().trim().min(2, { message: "Name the stage" }).max(200),
+  name: storable().trim().min(2, { message: "Name the stage" }).max(200),
   sectionIds: z.array(z.uuid()).max(50),
   positionIds: z.array(z.uuid()).max(500),
   supply: z.enum(SUPPLIES, { message: "Choose the supply" }),
@@ -70,7 +71,7 @@ export const moveBody = z.object({ toIndex: z.number().int().min(0).max(10_000) 
 
 export const stepBody = z.object({
   kind: z.enum(STEP_KINDS).default("custom"),
-  title: z.string().trim().min(2, { message: "Say what the hold point is" }).max(300),
+  title: storable().trim().min(2, { message: "Say what the hold point is" }).max(300),
   detail: text(2000).default(""),
   /** Insert at this position (0 = top); default at the end. */
   atIndex: z.number().int().min(0).max(1000).optional(),
@@ -112,7 +113,7 @@ export const signBody = z
   });
 export const supersedeBody = z.object({
   kind: z.enum(["signed", "released", "struck"]),
-  reason: z.string().trim().min(3, { message: "Say why the entry is corrected" }).max(2000),
+  reason: storable().trim().min(3, { message: "Say why the entry is corrected" }).max(2000),
   note: text(2000).default(""),
   evidence: z.array(evidenceItem).max(50).default([]),
 });
@@ -158,19 +159,19 @@ export const INCIDENT_KIND_LABELS: Record<IncidentKind, string> = {
 export const incidentBody = z.object({
   kind: z.enum(INCIDENT_KINDS),
   positionId: z.uuid().nullable().default(null),
-  note: z.string().trim().min(3, { message: "Say what happened" }).max(2000),
+  note: storable().trim().min(3, { message: "Say what happened" }).max(2000),
   at: when.optional(),
 });
 export const deEnergiseBody = z.object({ note: text(2000).default(""), at: when.optional() });
 export const restartBody = z.object({
-  reason: z.string().trim().min(3, { message: "Say what was done about the incident" }).max(2000),
+  reason: storable().trim().min(3, { message: "Say what was done about the incident" }).max(2000),
   version,
 });
 
 export const operationBody = z.object({
   operation: z.enum(["open", "close"]),
   stageId: z.uuid().nullable().default(null),
-  why: z.string().trim().min(2, { message: "Say why it was operated" }).max(500),
+  why: storable().trim().min(2, { message: "Say why it was operated" }).max(500),
   at: when.optional(),
 });
 export const budgetBody = z.object({
@@ -184,7 +185,7 @@ export const budgetBody = z.object({
 });
 
 export const qualifiedBody = z.object({
-  qualification: z.string().trim().min(2, { message: "Say what the qualification is" }).max(500),
+  qualification: storable().trim().min(2, { message: "Say what the qualification is" }).max(500),
   expiresOn: dateStr.nullable(),
   /** 0 when adding. */
   version: z.number().int().min(0),

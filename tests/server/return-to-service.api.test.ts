@@ -171,6 +171,32 @@ describe("roles", () => {
     expect(r.status).toBe(400);
     expect(r.body.error.fields).toHaveProperty("supply");
   });
+  it("text PostgreSQL cannot store (a NUL byte, a lone surrogate) gets a 400 naming the field, and nothing is written", async () => {
+    const url = `${site()}/boards/${boardId}/return-to-service/stages`;
+    const before = (await as.viewer.get(`${site()}/boards/${boardId}/return-to-service`)).body.stages.length;
+    for (const [field, value] of [
+      ["name", "Steering\u0000 gear"],
+      ["protectionDevice", "Fused \ud800disconnect"],
+      ["notes", "dry\u0000"],
+    ] as const) {
+      const r = await as.curator.post(url, {
+        name: "Steering gear",
+        sectionIds: [sectionId],
+        supply: "temporary_fused",
+        protectionDevice: "Fused disconnect",
+        protectionRatingA: 20,
+        protectionLimitA: 30,
+        voltageStep: "full",
+        stepVolts: 450,
+        [field]: value,
+      });
+      expect(r.status, `${field}: ${JSON.stringify(r.body)}`).toBe(400);
+      expect(r.body.error.fields, `${field}: ${JSON.stringify(r.body)}`).toHaveProperty(field);
+    }
+    const tag = await as.viewer.get(`/api/tags/${encodeURIComponent("T-\u0000")}`);
+    expect(tag.status).toBe(400);
+    expect((await as.viewer.get(`${site()}/boards/${boardId}/return-to-service`)).body.stages.length).toBe(before);
+  });
 });
 
 describe("the plan and its gate", () => {
