@@ -72,7 +72,7 @@ function HeritageRuleFields({ siteId, line, ...n }: { siteId: string; line: Part
   const form = useSchemaForm(schema, { heritageRule: line.heritageRule });
   const { message, onSubmit } = useLineSave(form, (b) => set.mutateAsync(b), "Heritage rule saved.", n);
   return (
-    <form className="flex flex-wrap items-end gap-3" onSubmit={onSubmit}>
+    <form className="flex flex-wrap items-end gap-3" onSubmit={onSubmit} noValidate>
       <SelectField
         label="Heritage rule (curator)"
         {...form.register("heritageRule")}
@@ -122,6 +122,7 @@ function LineEditFields({ siteId, line, ...n }: { siteId: string; line: PartLine
   return (
     <form
       onSubmit={onSubmit}
+      noValidate
       className="grid gap-3 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700 sm:grid-cols-2"
       aria-labelledby="edit-title"
     >
