@@ -10,7 +10,7 @@
  */
 import { existsSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
-import { chromium, type Browser } from "@playwright/test";
+import { chromium, type Browser, type Page } from "@playwright/test";
 
 export interface PaintFigures {
   lcp: number;
@@ -68,6 +68,20 @@ export async function openBrowser(): Promise<Browser> {
   });
 }
 
+/**
+ * Polls `expression` in the page until it is truthy. Playwright's waitForFunction evaluates its predicate with
+ * `eval` inside the page, which the app's Content-Security-Policy (no 'unsafe-eval') refuses; an evaluation
+ * through the DevTools protocol (page.evaluate) is not subject to it. A string: it runs in the page, which the
+ * server's types (no DOM) do not describe.
+ */
+export async function waitInPage(page: Page, expression: string, timeoutMs: number): Promise<void> {
+  const until = Date.now() + timeoutMs;
+  while (!(await page.evaluate(expression))) {
+    if (Date.now() > until) throw new Error(`timed out after ${timeoutMs} ms waiting for ${expression}`);
+    await new Promise((r) => setTimeout(r, 50));
+  }
+}
+
 /** One cold load of `url` on the phone profile; waits for the network to go quiet, then reads the figures. */
 export async function measurePaint(
   browser: Browser,
@@ -93,11 +107,10 @@ export async function measurePaint(
     await page.goto(`${base}${url}`, { waitUntil: "networkidle", timeout: 120_000 });
     // The app paints after its data arrives: wait for the first contentful paint and the page's
     // heading, then for a quiet second and a half so the last LCP candidate and late shifts count.
-    await page.waitForFunction(
-      // A string, as OBSERVE: it runs in the page, which the server's types (no DOM) do not describe.
+    await waitInPage(
+      page,
       'performance.getEntriesByType("paint").some((e) => e.name === "first-contentful-paint")',
-      null,
-      { timeout: 120_000 },
+      120_000,
     );
     await page.locator("h1").first().waitFor({ timeout: 120_000 });
     await page.waitForTimeout(1500);

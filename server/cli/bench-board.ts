@@ -18,7 +18,7 @@ import { join } from "node:path";
 import { openLocalDatabase } from "../../db/local";
 import { migrateToLatest } from "../../db/migrate";
 import { ensureDatabase, projectRoot } from "../../db/pg";
-import { openBrowser } from "../bench/paint";
+import { openBrowser, waitInPage } from "../bench/paint";
 import { BENCH_PASSWORD, generateSite } from "../bench/site";
 import { median, spread, table } from "../bench/stats";
 import { createDb, MAINTENANCE_DB_OPTIONS } from "../db";
@@ -168,7 +168,7 @@ async function loadBoard(browser: Awaited<ReturnType<typeof openBrowser>>, base:
     await page.goto(`${base}${path}`, { waitUntil: "load", timeout: 180_000 });
     await page.locator("[data-position-id]").first().waitFor({ timeout: 180_000 });
     // The kept reads are written at most once a second after the reads arrive: wait for the first write.
-    await page.waitForFunction("window.__keep.length > 0", null, { timeout: 30_000 }).catch(() => undefined);
+    await waitInPage(page, "window.__keep.length > 0", 30_000).catch(() => undefined);
     await page.waitForTimeout(1500);
     const { tasks, ...m } = (await page.evaluate("window.__long")) as Pick<
       Load,

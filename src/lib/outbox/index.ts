@@ -208,7 +208,11 @@ export async function probe(): Promise<boolean> {
   let ok = false;
   if (typeof navigator === "undefined" || navigator.onLine) {
     try {
-      ok = (await fetch("/api/health", { cache: "no-store", credentials: "same-origin" })).status < 500;
+      const res = await fetch("/api/health", { cache: "no-store", credentials: "same-origin" });
+      ok = res.status < 500;
+      // The answer's body is not needed: read to its end, the request is finished (an unread body leaves it open in
+      // the browser's eyes, so a page never counts as settled).
+      await res.text().catch(() => "");
     } catch {
       ok = false;
     }
