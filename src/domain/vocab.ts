@@ -258,3 +258,43 @@ export const PHOTO_KIND_LABELS: Record<PhotoKind, string> = {
   thermal: "Thermal image",
   other: "Other",
 };
+
+// ---- Words of the readings, the register and the watch, which their schemas re-export. They live here, free of
+// zod, because the sync bar names an outbox item's fields with them (src/schemas/field-labels.ts) on every page:
+// importing them from the schemas built every readings, defect and return-to-service schema before the first page.
+
+export const PARTS_STATES = ["none_needed", "in_hand", "wanted", "unobtainable"] as const;
+export const PARTS_STATE_LABELS: Record<(typeof PARTS_STATES)[number], string> = {
+  none_needed: "No parts needed",
+  in_hand: "Parts in hand",
+  wanted: "Parts wanted",
+  unobtainable: "Parts unobtainable",
+};
+
+export const CONDUCTORS = ["A-B", "B-C", "C-A", "A-G", "B-G", "C-G", "line-load"] as const;
+export type Conductors = (typeof CONDUCTORS)[number];
+export const CONDUCTOR_LABELS: Record<Conductors, string> = {
+  "A-B": "A to B",
+  "B-C": "B to C",
+  "C-A": "C to A",
+  "A-G": "A to ground",
+  "B-G": "B to ground",
+  "C-G": "C to ground",
+  "line-load": "Open pole, line to load",
+};
+export const QUALIFIER_LABELS = { at_or_above: "≥ meter's limit", below: "≤ resolution" } as const;
+
+export const TRIP_TESTS = ["inverse_time", "instantaneous"] as const;
+export const TRIP_TEST_LABELS = {
+  inverse_time: "Overload (inverse-time) at 300 %",
+  instantaneous: "Instantaneous pickup",
+} as const;
+
+/** How the earth-fault lamps looked at a watch check after re-energising. */
+export const WATCH_LAMP_LOOKS = ["equal", "one_dim", "one_dark", "not_seen"] as const;
+export const WATCH_LAMP_LOOK_LABELS: Record<(typeof WATCH_LAMP_LOOKS)[number], string> = {
+  equal: "All three equal",
+  one_dim: "One dim",
+  one_dark: "One dark",
+  not_seen: "Not seen",
+};

@@ -2,13 +2,9 @@ import { z } from "zod";
 import { text, int, queryInt, isoDate } from "./common";
 import { DEFECT_CATEGORIES, DEFECT_SEVERITIES, DEFECT_STATUSES, ROLES } from "../domain/vocab";
 
-export const PARTS_STATES = ["none_needed", "in_hand", "wanted", "unobtainable"] as const;
-export const PARTS_STATE_LABELS: Record<(typeof PARTS_STATES)[number], string> = {
-  none_needed: "No parts needed",
-  in_hand: "Parts in hand",
-  wanted: "Parts wanted",
-  unobtainable: "Parts unobtainable",
-};
+import { PARTS_STATES } from "../domain/vocab";
+// The words live with the trade's other words (no zod there: the sync bar names fields without building schemas).
+export { PARTS_STATES, PARTS_STATE_LABELS } from "../domain/vocab";
 
 /** Register columns the server can sort by (one index each, migration 0400). */
 export const SORT_KEYS = [

@@ -14,11 +14,13 @@ import {
   DEFECT_STATUS_LABELS,
   INSULATION_STATE_LABELS,
   MECHANISM_LABELS,
+  PARTS_STATE_LABELS,
+  CONDUCTOR_LABELS,
+  QUALIFIER_LABELS,
+  TRIP_TEST_LABELS,
+  WATCH_LAMP_LOOK_LABELS as LAMP_LOOK_LABELS,
 } from "../domain/vocab";
 import { TRIP_UNIT_LABELS } from "../domain/trip-test";
-import { PARTS_STATE_LABELS } from "./defects";
-import { CONDUCTOR_LABELS, QUALIFIER_LABELS, TRIP_TEST_LABELS } from "./readings";
-import { LAMP_LOOK_LABELS } from "./return-to-service";
 
 export type FieldLabels = Readonly<Record<string, string>>;
 

@@ -9,18 +9,17 @@ import { text as safeText, int, isoDateTime } from "./common";
 import { CORRECTION_METHODS, VERDICTS } from "../domain/reading-judgement";
 import { READING_QUALIFIERS, THERMAL_CLASSES } from "../domain/insulation";
 import { TRIP_UNITS } from "../domain/trip-test";
+import { CONDUCTORS, TRIP_TESTS } from "../domain/vocab";
 
-export const CONDUCTORS = ["A-B", "B-C", "C-A", "A-G", "B-G", "C-G", "line-load"] as const;
-export type Conductors = (typeof CONDUCTORS)[number];
-export const CONDUCTOR_LABELS: Record<Conductors, string> = {
-  "A-B": "A to B",
-  "B-C": "B to C",
-  "C-A": "C to A",
-  "A-G": "A to ground",
-  "B-G": "B to ground",
-  "C-G": "C to ground",
-  "line-load": "Open pole, line to load",
-};
+// The words live with the trade's other words (no zod there: the sync bar names fields without building schemas).
+export {
+  CONDUCTORS,
+  CONDUCTOR_LABELS,
+  QUALIFIER_LABELS,
+  TRIP_TESTS,
+  TRIP_TEST_LABELS,
+  type Conductors,
+} from "../domain/vocab";
 export const LAMP_LOOKS = ["bright", "dim", "dark"] as const;
 export const PHASE_KEYS = ["A", "B", "C"] as const;
 export const INSULATION_MEDIA = ["solid", "oil"] as const;
@@ -41,7 +40,6 @@ const megohms = (label: string) => num(label, 0, 1e7, "MΩ");
 const qualifier = opt(
   z.enum(READING_QUALIFIERS, { message: "Choose at or above the meter's range, or below its resolution" }),
 );
-export const QUALIFIER_LABELS = { at_or_above: "≥ meter's limit", below: "≤ resolution" } as const;
 
 const measuredAt = isoDateTime("Give the date and time of the reading");
 const text = (max: number) => safeText().trim().max(max).default("");
@@ -372,11 +370,6 @@ export const readingTargetsSchema = z.object({
 export type ReadingTargets = z.infer<typeof readingTargetsSchema>;
 
 // ---- Trip tests, step-voltage tests, ground hunt, phase comparison ----------------
-export const TRIP_TESTS = ["inverse_time", "instantaneous"] as const;
-export const TRIP_TEST_LABELS = {
-  inverse_time: "Overload (inverse-time) at 300 %",
-  instantaneous: "Instantaneous pickup",
-} as const;
 
 export const tripTestBody = z
   .object({

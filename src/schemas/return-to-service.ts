@@ -11,7 +11,7 @@ import {
 } from "../domain/return-to-service";
 import type { GateResult } from "../domain/rts-gate";
 import type { OperationsStatus } from "../domain/breaker-operations";
-import type { ComponentKind } from "../domain/vocab";
+import { WATCH_LAMP_LOOKS, type ComponentKind } from "../domain/vocab";
 
 const dateStr = z.string().regex(/^\d{4}-\d{2}-\d{2}$/, { message: "Use YYYY-MM-DD" });
 const when = z.iso.datetime({ offset: true, message: "Give a date and time" });
@@ -118,17 +118,12 @@ export const supersedeBody = z.object({
   evidence: z.array(evidenceItem).max(50).default([]),
 });
 
-export const LAMP_LOOKS = ["equal", "one_dim", "one_dark", "not_seen"] as const;
-export const LAMP_LOOK_LABELS: Record<(typeof LAMP_LOOKS)[number], string> = {
-  equal: "All three equal",
-  one_dim: "One dim",
-  one_dark: "One dark",
-  not_seen: "Not seen",
-};
+// The words live with the trade's other words (no zod there: the sync bar names fields without building schemas).
+export { WATCH_LAMP_LOOKS as LAMP_LOOKS, WATCH_LAMP_LOOK_LABELS as LAMP_LOOK_LABELS } from "../domain/vocab";
 export const watchCheckBody = z
   .object({
     at: when.optional(),
-    lamps: z.enum(LAMP_LOOKS, { message: "How did the lamps look?" }),
+    lamps: z.enum(WATCH_LAMP_LOOKS, { message: "How did the lamps look?" }),
     lampPhase: z.enum(["A", "B", "C"]).nullable().default(null),
     smell: z.boolean().default(false),
     sound: z.boolean().default(false),
