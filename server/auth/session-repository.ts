@@ -1,6 +1,8 @@
 import { createHash } from "node:crypto";
 import type { Adapter, DatabaseSession, DatabaseUser } from "lucia";
+import type { Role } from "../../src/domain/vocab";
 import type { Db } from "../db";
+import { memberRolesOf } from "../sites/reads";
 
 /*
  * lucia's adapter is this domain's repository for sessions: lucia v3 stores sessions only through an
@@ -17,9 +19,15 @@ export const sessionKey = (sessionId: string) => createHash("sha256").update(ses
 
 /** lucia v3's storage contract over Kysely: sessions and users live in PostgreSQL. */
 export function kyselyAdapter(db: Db): Adapter {
-  const toUser = (u: { id: string; email: string; name: string; isAdmin: boolean }): DatabaseUser => ({
+  const toUser = (u: {
+    id: string;
+    email: string;
+    name: string;
+    isAdmin: boolean;
+    siteRoles: Record<string, Role> | null;
+  }): DatabaseUser => ({
     id: u.id,
-    attributes: { email: u.email, name: u.name, isAdmin: u.isAdmin },
+    attributes: { email: u.email, name: u.name, isAdmin: u.isAdmin, siteRoles: u.siteRoles ?? {} },
   });
   const toSession = (s: { id: string; userId: string; expiresAt: Date }): DatabaseSession => ({
     id: s.id,
@@ -28,17 +36,29 @@ export function kyselyAdapter(db: Db): Adapter {
     attributes: {},
   });
   return {
+    /**
+     * The session, its person and their role on each site, in one statement: every request reads it, and
+     * the route guard takes the caller's standing from it (`standingOn`) instead of asking again.
+     */
     async getSessionAndUser(sessionId) {
       const row = await db
         .selectFrom("sessions")
         .innerJoin("users", "users.id", "sessions.userId")
-        .select(["sessions.id", "sessions.userId", "sessions.expiresAt", "users.email", "users.name", "users.isAdmin"])
+        .select((eb) => [
+          "sessions.id",
+          "sessions.userId",
+          "sessions.expiresAt",
+          "users.email",
+          "users.name",
+          "users.isAdmin",
+          memberRolesOf(eb).as("siteRoles"),
+        ])
         .where("sessions.id", "=", sessionKey(sessionId))
         .executeTakeFirst();
       if (!row) return [null, null];
       return [
         toSession({ ...row, id: sessionId }),
-        toUser({ id: row.userId, email: row.email, name: row.name, isAdmin: row.isAdmin }),
+        toUser({ id: row.userId, email: row.email, name: row.name, isAdmin: row.isAdmin, siteRoles: row.siteRoles }),
       ];
     },
     /** The ids here are the stored hashes: enough to count and expire sessions, useless as cookies. */

@@ -1,4 +1,5 @@
 import type { SiteRole } from "../../src/domain/permissions";
+import type { Role } from "../../src/domain/vocab";
 import type { Db } from "../db";
 import * as repo from "./repository";
 
@@ -24,14 +25,23 @@ export const membershipsOf = (db: Db, userId: string) => repo.listMembershipsOfU
 export const listMembers = (db: Db, siteId: string) => repo.listMembers(db, siteId);
 
 /**
+ * Each site's role of the person whose `users` row the outer statement reads, as one subquery: the
+ * sessions' read carries it (server/auth/session-repository.ts), so it is read in the same statement,
+ * at the same moment, as the session itself.
+ */
+export const memberRolesOf = repo.memberRolesOf;
+
+/**
  * A person's standing on a site, as the route guard needs it: their member role, "admin" for an
- * instance admin (on any site that exists), or null when the site is unknown to them.
+ * instance admin (on any site that exists), or null when the site is unknown to them. A member's role
+ * comes from `siteRoles`, read with this request's session (`memberRolesOf`), so it costs no statement; an
+ * instance admin's asks whether the site exists.
  */
 export async function standingOn(
   db: Db,
   siteId: string,
-  user: { id: string; isAdmin: boolean },
+  user: { isAdmin: boolean; siteRoles: Readonly<Record<string, Role>> },
 ): Promise<SiteRole | null> {
   if (user.isAdmin) return (await repo.findSite(db, siteId)) ? "admin" : null;
-  return (await repo.findMembership(db, siteId, user.id))?.role ?? null;
+  return Object.hasOwn(user.siteRoles, siteId) ? user.siteRoles[siteId] : null;
 }

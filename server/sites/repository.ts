@@ -1,3 +1,5 @@
+import type { ExpressionBuilder } from "kysely";
+import type { Database } from "../../db/types";
 import type { Db } from "../db";
 import type { Role } from "../../src/domain/vocab";
 
@@ -53,6 +55,19 @@ export const insertMembership = (db: Db, siteId: string, userId: string, role: R
 
 export const updateMembershipRole = (db: Db, siteId: string, userId: string, role: Role) =>
   db.updateTable("memberships").set({ role }).where("siteId", "=", siteId).where("userId", "=", userId).execute();
+
+/**
+ * A subquery for a statement over `users`: that person's role on each site they are a member of, as a JSON
+ * object `{ siteId: role }` (null for no site). The sessions' read selects it beside the session, so the route
+ * guard knows the caller's standing without a statement of its own (see `standingOn` in reads.ts).
+ */
+export const memberRolesOf = (eb: ExpressionBuilder<Database, "users">) =>
+  eb
+    .selectFrom("memberships")
+    .select((m) =>
+      m.fn<Record<string, Role> | null>("json_object_agg", ["memberships.siteId", "memberships.role"]).as("roles"),
+    )
+    .whereRef("memberships.userId", "=", "users.id");
 
 export const findMembership = (db: Db, siteId: string, userId: string) =>
   db

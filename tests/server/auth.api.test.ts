@@ -158,6 +158,25 @@ describe("roles", () => {
     expect((await c.get("/api/sites/not-a-uuid")).status).toBe(400);
   });
 
+  it("a change of a member's role, and their removal, hold from their next request on the same session", async () => {
+    const site = await t.db
+      .insertInto("sites")
+      .values({ name: "Standing", kind: "plant", location: "", description: "" })
+      .returning("id")
+      .executeTakeFirstOrThrow();
+    const who = fx.crew.viewer;
+    await t.db.insertInto("memberships").values({ siteId: site.id, userId: who.id, role: "curator" }).execute();
+    const c = server.client();
+    await c.signIn(who.email);
+    expect((await c.get(`/api/sites/${site.id}/members`)).status).toBe(200);
+    await t.db.updateTable("memberships").set({ role: "viewer" }).where("siteId", "=", site.id).execute();
+    expect((await c.get(`/api/sites/${site.id}/members`)).status).toBe(403);
+    expect((await c.get(`/api/sites/${site.id}`)).status).toBe(200);
+    await t.db.deleteFrom("memberships").where("siteId", "=", site.id).execute();
+    expect((await c.get(`/api/sites/${site.id}`)).status).toBe(404);
+    expect((await c.get(`/api/sites/${fx.siteId}`)).status).toBe(200); // their other site is untouched
+  });
+
   it("the last curator cannot be demoted (409)", async () => {
     const c = server.client();
     await c.signIn(fx.crew.curator.email);

@@ -158,6 +158,16 @@ describe("list endpoints issue a fixed number of statements", () => {
   });
 });
 
+describe("the fixed cost of a site request", () => {
+  it("a member's session and their standing on the site are one statement: the overview is that and its two reads", async () => {
+    const { statements } = await statementsOf(`/api/sites/${sites.large.id}/overview`);
+    expect(statements, statements.join("\n")).toHaveLength(3);
+    expect(statements[0]).toMatch(/from "sessions"/);
+    expect(statements[0]).toMatch(/from "memberships"/);
+    expect(statements.slice(1).filter((s) => /"memberships"/.test(s))).toEqual([]);
+  });
+});
+
 describe("reads never write", () => {
   it("a public share-link view runs no insert, update, delete or lock, and no transaction", async () => {
     const { statements } = await statementsOf(`/api/share/parts/${sites.large.token}`);
