@@ -10,15 +10,43 @@ import { spawn } from "node:child_process";
 import { readdirSync, readFileSync } from "node:fs";
 
 /** CPU seconds (user + system) of one process, from /proc/<pid>/stat; NaN when it is gone. */
-export function cpuSecondsOf(pid: number): number {
+export function cpuSecondsOf(pid: number, statPath = `/proc/${pid}/stat`): number {
   try {
-    const stat = readFileSync(`/proc/${pid}/stat`, "utf8");
+    const stat = readFileSync(statPath, "utf8");
     const f = stat.slice(stat.lastIndexOf(")") + 2).split(" ");
     // fields 14 and 15 (utime, stime) of proc(5), counted from field 3 (state) here
     return (Number(f[11]) + Number(f[12])) / 100; // USER_HZ is 100 on Linux
   } catch {
     return NaN;
   }
+}
+
+/**
+ * CPU seconds of one process split by thread (from /proc/<pid>/task/<tid>/stat and comm): the
+ * main thread (JavaScript: HTTP, middleware, queries, streams, GC's main-thread part), libvips'
+ * worker threads (sharp's image work), and the rest (libuv's pool for file I/O and hashing, V8's
+ * helpers). Threads that ended in between are left out.
+ */
+export function threadCpuOf(pid: number): { main: number; vips: number; other: number } {
+  const out = { main: 0, vips: 0, other: 0 };
+  let tids: string[];
+  try {
+    tids = readdirSync(`/proc/${pid}/task`);
+  } catch {
+    return { main: NaN, vips: NaN, other: NaN };
+  }
+  for (const tid of tids) {
+    try {
+      const comm = readFileSync(`/proc/${pid}/task/${tid}/comm`, "utf8").trim();
+      const s = cpuSecondsOf(Number(tid), `/proc/${pid}/task/${tid}/stat`);
+      if (Number(tid) === pid) out.main += s;
+      else if (/vips/i.test(comm)) out.vips += s;
+      else out.other += s;
+    } catch {
+      // the thread ended between readdir and read
+    }
+  }
+  return out;
 }
 
 /** The parent pid of a process (/proc/<pid>/stat field 4). */

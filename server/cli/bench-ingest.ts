@@ -21,13 +21,14 @@ import { spawn, type ChildProcess } from "node:child_process";
 import { randomBytes } from "node:crypto";
 import { mkdtemp, readFile, rm, writeFile } from "node:fs/promises";
 import { createServer } from "node:net";
-import { tmpdir } from "node:os";
+import { loadavg, tmpdir } from "node:os";
 import { join } from "node:path";
 import { sql } from "kysely";
 import sharp from "sharp";
 import { openLocalDatabase } from "../../db/local";
 import { migrateToLatest } from "../../db/migrate";
 import { ensureDatabase, projectRoot } from "../../db/pg";
+import { clusterCpu, cpuBetween, parentOf, threadCpuOf } from "../bench/load";
 import { BENCH_PASSWORD, generateSite } from "../bench/site";
 import { spread, table } from "../bench/stats";
 import { createDb, MAINTENANCE_DB_OPTIONS } from "../db";
@@ -96,13 +97,13 @@ async function bareRenditions(path: string) {
     .resize({ width: THUMB_PX, height: THUMB_PX, fit: "inside", withoutEnlargement: true })
     .jpeg({ quality: 82, mozjpeg: true })
     .toBuffer();
-  return display.length + thumb.length;
+  return { display, thumb };
 }
 
-async function startInstance(env: Record<string, string>) {
+async function startInstance(root: string, env: Record<string, string>) {
   const port = await freePort();
   const child: ChildProcess = spawn(process.execPath, ["--import", "tsx", "server/index.ts"], {
-    cwd: projectRoot,
+    cwd: root,
     env: { ...process.env, ...env, PORT: String(port), NODE_ENV: "production", LOG_LEVEL: "warn" },
     stdio: ["ignore", "ignore", "pipe"],
   });
@@ -122,175 +123,261 @@ async function startInstance(env: Record<string, string>) {
   return { base, child };
 }
 
-export async function benchIngest() {
-  console.log(`\n── photo ingest: ${PHOTOS} uploads of a 12 MP JPEG against bare sharp (${RUNS} runs)`);
-  const local = await openLocalDatabase("test", "postgres");
+type Cpu = { main: number; vips: number; other: number };
+const zero = (): Cpu => ({ main: 0, vips: 0, other: 0 });
+const addTo = (to: Cpu, a: Cpu, b: Cpu) => {
+  to.main += b.main - a.main;
+  to.vips += b.vips - a.vips;
+  to.other += b.other - a.other;
+};
+const sum = (a: Cpu, b: Cpu): Cpu => ({ main: a.main + b.main, vips: a.vips + b.vips, other: a.other + b.other });
+const total = (c: Cpu) => c.main + c.vips + c.other;
+
+/** One Tideline instance under test: its own scratch database, photo folder and worker. */
+async function openSide(
+  local: Awaited<ReturnType<typeof openLocalDatabase>>,
+  work: string,
+  label: string,
+  root: string,
+  photo: Buffer,
+) {
   const name = `tideline_bench_ingest_${randomBytes(4).toString("hex")}`;
   await ensureDatabase(local.adminUrl, name, { fresh: true, owner: local.appRole });
   const url = local.url.replace(/\/postgres$/, `/${name}`);
-  const work = await mkdtemp(join(tmpdir(), "tideline-bench-ingest-"));
-  const setup = createDb(url, MAINTENANCE_DB_OPTIONS);
-  let instance: ChildProcess | undefined;
+  const db = createDb(url, MAINTENANCE_DB_OPTIONS);
+  const store = join(work, `store-${name}`);
+  const side = { label, name, db, store, child: undefined as ChildProcess | undefined };
   try {
-    await migrateToLatest(setup);
-    const site = await generateSite(setup, 200);
-    const position = await setup
+    await migrateToLatest(db);
+    const site = await generateSite(db, 200);
+    const position = await db
       .selectFrom("positions")
       .select("id")
       .where("siteId", "=", site.siteId)
       .limit(1)
       .executeTakeFirstOrThrow();
-    const photo = await phonePhoto();
-    const file = join(work, "IMG_0001.jpg");
-    await writeFile(file, photo);
-    const A = await startInstance({
-      DATABASE_URL: url,
-      PHOTO_DIR: join(work, "store"),
-      SMTP_PORT: String(await freePort()),
-    });
-    instance = A.child;
+    const A = await startInstance(root, { DATABASE_URL: url, PHOTO_DIR: store, SMTP_PORT: String(await freePort()) });
+    side.child = A.child;
     const signIn = await fetch(`${A.base}/api/auth/sign-in`, {
       method: "POST",
       headers: { "content-type": "application/json", origin: A.base },
       body: JSON.stringify({ email: site.curatorEmail, password: BENCH_PASSWORD }),
     });
     const cookie = (signIn.headers.getSetCookie()[0] ?? "").split(";")[0];
-    const uploadOne = async () => {
+    /** One upload; resolves with the photo's id, the request's seconds and the client's start (epoch ms). */
+    const upload = async () => {
       const form = new FormData();
       form.set("positionId", position.id);
       form.append("files", new Blob([new Uint8Array(photo)], { type: "image/jpeg" }), "IMG_0001.jpg");
+      const startedAt = Date.now();
+      const t = performance.now();
       const r = await fetch(`${A.base}/api/sites/${site.siteId}/photos`, {
         method: "POST",
         headers: { cookie, origin: A.base },
         body: form,
       });
       if (r.status !== 201 && r.status !== 200) throw new Error(`upload answered ${r.status}: ${await r.text()}`);
-      const body = (await r.json()) as { ids?: string[]; photos?: Array<{ id: string }> };
-      return body.ids ?? (body.photos ?? []).map((p) => p.id);
+      const body = (await r.json()) as { photos: Array<{ id: string }> };
+      return { id: body.photos[0].id, requestSeconds: (performance.now() - t) / 1000, startedAt };
     };
-    const allReady = async (ids: string[]) => {
+    /**
+     * Waits until the photo is ready, then returns when its job finished (epoch ms, PostgreSQL's
+     * clock, the same host clock as Date.now()): after its renditions are stored and the row is marked
+     * ready. The end comes from the queue's row, not from when this poll saw it, so the poll's
+     * interval adds nothing to the figure (and 25 ms between polls keeps its own load small).
+     */
+    const ready = async (id: string) => {
       for (;;) {
-        const row = await sql<{ waiting: number; failed: number }>`
-          select count(*) filter (where rendition_state = 'processing')::int as waiting,
-                 count(*) filter (where rendition_state = 'failed')::int as failed
-          from photos where id = any(${ids}::uuid[])`.execute(setup);
-        const { waiting, failed } = row.rows[0];
-        if (failed) throw new Error(`${failed} renditions failed`);
-        if (!waiting) return;
-        await new Promise((r) => setTimeout(r, 10));
+        const row = await sql<{ state: string; done: number | null; started: number; created: number }>`
+          select p.rendition_state as state,
+                 extract(epoch from j.completed_on) * 1000 as done,
+                 extract(epoch from j.started_on) * 1000 as started,
+                 extract(epoch from j.created_on) * 1000 as created
+          from photos p join pgboss.job j on j.name = 'photo.renditions' and j.data->>'photoId' = p.id::text
+          where p.id = ${id}::uuid`.execute(db);
+        const r = row.rows[0];
+        if (r?.state === "failed") throw new Error(`the renditions of ${id} failed`);
+        if (r?.state === "ready" && r.done !== null)
+          return { done: Number(r.done), started: Number(r.started), created: Number(r.created) };
+        await new Promise((res) => setTimeout(res, 25));
       }
     };
-    // One upload first: the server's first request compiles and warms what later ones reuse.
-    await allReady(await uploadOne());
-    await bareRenditions(file);
+    return { ...side, siteId: site.siteId, pid: A.child.pid!, upload, ready };
+  } catch (e) {
+    await closeSide(local, side);
+    throw e;
+  }
+}
 
-    const app: number[] = [];
-    const request: number[] = [];
-    const queueWait: number[] = [];
-    const jobRun: number[] = [];
+async function closeSide(
+  local: Awaited<ReturnType<typeof openLocalDatabase>>,
+  side: { name: string; db: ReturnType<typeof createDb>; child?: ChildProcess },
+) {
+  const child = side.child;
+  if (child && child.exitCode === null) {
+    child.kill("SIGTERM");
+    await new Promise((r) => (child.exitCode !== null ? r(null) : child.once("exit", r)));
+  }
+  await side.db.destroy();
+  const admin = createDb(local.adminUrl, MAINTENANCE_DB_OPTIONS);
+  await sql`DROP DATABASE IF EXISTS ${sql.id(side.name)} WITH (FORCE)`.execute(admin);
+  await admin.destroy();
+}
+
+export async function benchIngest() {
+  const baseline = process.env.BENCH_INGEST_BASELINE;
+  console.log(
+    `\n── photo ingest: ${PHOTOS} uploads of a 12 MP JPEG against bare sharp (${RUNS} runs)` +
+      (baseline ? `, with a second checkout (${baseline}) in turn` : ""),
+  );
+  const local = await openLocalDatabase("test", "postgres");
+  const work = await mkdtemp(join(tmpdir(), "tideline-bench-ingest-"));
+  const sides: Array<Awaited<ReturnType<typeof openSide>>> = [];
+  try {
+    const photo = await phonePhoto();
+    const file = join(work, "IMG_0001.jpg");
+    await writeFile(file, photo);
+    sides.push(await openSide(local, work, "Tideline (this checkout)", projectRoot, photo));
+    if (baseline) sides.push(await openSide(local, work, `Tideline at ${baseline}`, baseline, photo));
+
+    // One upload first on each: the server's first request compiles and warms what later ones reuse.
+    // Its renditions must be the bare script's byte for byte, or the comparison is not of the same work.
+    const reference = await bareRenditions(file);
+    for (const side of sides) {
+      const { id } = await side.upload();
+      await side.ready(id);
+      for (const r of ["display", "thumb"] as const) {
+        const stored = await readFile(join(side.store, "sites", side.siteId, id, `${r}.jpg`));
+        if (!stored.equals(reference[r]))
+          throw new Error(`${side.label}: its ${r} copy differs from the bare script's; the bench compares other work`);
+      }
+    }
+    const pgPid = (await sql<{ pid: number }>`select pg_backend_pid() as pid`.execute(sides[0].db)).rows[0].pid;
+    const postmaster = parentOf(pgPid);
+    const load0 = loadavg();
+
+    type Figures = {
+      total: number[];
+      request: number[];
+      wait: number[];
+      job: number[];
+      ratio: number[];
+      cpuRequest: Cpu[];
+      cpuAfter: Cpu[];
+      pg: number[];
+      cpuRatio: number[];
+    };
+    const figures: Figures[] = sides.map(() => ({
+      total: [],
+      request: [],
+      wait: [],
+      job: [],
+      ratio: [],
+      cpuRequest: [],
+      cpuAfter: [],
+      pg: [],
+      cpuRatio: [],
+    }));
     const bare: number[] = [];
-    const ratio: number[] = [];
+    const bareCpu: Cpu[] = [];
     for (let run = 0; run < RUNS; run++) {
-      // One photo at a time, Tideline and bare sharp in turn (the order swapped every photo), so
-      // a change in the machine's load meets both sides alike.
-      const runIds: string[] = [];
-      let a = 0;
-      let u = 0;
+      const acc = sides.map(() => ({ total: 0, request: 0, wait: 0, job: 0, req: zero(), after: zero(), pg: 0 }));
       let b = 0;
-      for (let i = 0; i < PHOTOS; i++) {
-        const tideline = async () => {
-          const t = performance.now();
-          const ids = await uploadOne();
-          runIds.push(...ids);
-          u += (performance.now() - t) / 1000;
-          await allReady(ids);
-          a += (performance.now() - t) / 1000;
-        };
-        const alone = async () => {
+      const bc = zero();
+      const steps: Array<() => Promise<void>> = [
+        ...sides.map((side, k) => async () => {
+          const c0 = threadCpuOf(side.pid);
+          const p0 = clusterCpu(postmaster);
+          const { id, requestSeconds, startedAt } = await side.upload();
+          const c1 = threadCpuOf(side.pid);
+          const q = await side.ready(id);
+          addTo(acc[k].req, c0, c1);
+          addTo(acc[k].after, c1, threadCpuOf(side.pid));
+          acc[k].pg += cpuBetween(p0, clusterCpu(postmaster));
+          acc[k].total += (q.done - startedAt) / 1000;
+          acc[k].request += requestSeconds;
+          acc[k].wait += (q.started - q.created) / 1000;
+          acc[k].job += (q.done - q.started) / 1000;
+        }),
+        async () => {
+          const c0 = threadCpuOf(process.pid);
           const t = performance.now();
           await bareRenditions(file);
           b += (performance.now() - t) / 1000;
-        };
-        if (i % 2) {
-          await alone();
-          await tideline();
-        } else {
-          await tideline();
-          await alone();
-        }
-      }
-      app.push(a);
-      request.push(u);
-      // Where the rest went, from the queue's own rows: waiting for a worker, and the job itself.
-      const q = await sql<{ wait: number; run: number }>`
-        select coalesce(sum(extract(epoch from started_on - created_on)), 0)::float8 as wait,
-               coalesce(sum(extract(epoch from completed_on - started_on)), 0)::float8 as run
-        from pgboss.job where name = 'photo.renditions' and data->>'photoId' = any(${runIds})`.execute(setup);
-      queueWait.push(q.rows[0].wait);
-      jobRun.push(q.rows[0].run);
+          addTo(bc, c0, threadCpuOf(process.pid));
+        },
+      ];
+      // One photo at a time, each side in turn (the order rotated every photo), so a change in the
+      // machine's load meets every side alike.
+      for (let i = 0; i < PHOTOS; i++) for (let k = 0; k < steps.length; k++) await steps[(i + k) % steps.length]();
       bare.push(b);
-      ratio.push(a / b);
+      bareCpu.push(bc);
+      acc.forEach((x, k) => {
+        const f = figures[k];
+        f.total.push(x.total);
+        f.request.push(x.request);
+        f.wait.push(x.wait);
+        f.job.push(x.job);
+        f.ratio.push(x.total / b);
+        f.cpuRequest.push(x.req);
+        f.cpuAfter.push(x.after);
+        f.pg.push(x.pg);
+        f.cpuRatio.push((total(x.req) + total(x.after)) / total(bc));
+      });
     }
+    const perPhoto = (xs: number[], scale = 1) =>
+      spread(
+        xs.map((x) => (x * scale) / PHOTOS),
+        scale === 1 ? 2 : 0,
+      );
+    const wall: string[][] = [];
+    for (const [k, side] of sides.entries()) {
+      const f = figures[k];
+      wall.push(
+        [`${side.label}: upload → renditions ready`, spread(f.total, 2), perPhoto(f.total)],
+        ["  of which the upload request (to its 201)", spread(f.request, 2), perPhoto(f.request)],
+        ["  of which waiting for the worker", spread(f.wait, 2), perPhoto(f.wait)],
+        ["  of which the rendition job", spread(f.job, 2), perPhoto(f.job)],
+        ["  ratio to bare sharp (within each run)", spread(f.ratio, 2), ""],
+      );
+    }
+    wall.push(["bare sharp: same renditions, same file", spread(bare, 2), perPhoto(bare)]);
+    console.log(table([`wall clock, ${PHOTOS} photos a run`, "seconds", "per photo s"], wall));
+    // CPU time is what the work costs whatever else the machine runs: on a busy machine the
+    // wall-clock ratio above swings with the neighbours, these much less. By thread: the main
+    // thread is JavaScript (HTTP, multipart, queries, streams); libvips' threads are the image work,
+    // which should match the bare script's; "other" is libuv's pool (file I/O, sharp's calls) and V8's helpers.
+    const ms = (xs: Cpu[], pick: (c: Cpu) => number) => perPhoto(xs.map(pick), 1000);
+    const row = (label: string, xs: Cpu[]) => [
+      label,
+      ms(xs, total),
+      ms(xs, (c) => c.main),
+      ms(xs, (c) => c.vips),
+      ms(xs, (c) => c.other),
+    ];
+    const cpuRows: string[][] = [];
+    for (const [k, side] of sides.entries()) {
+      const f = figures[k];
+      cpuRows.push(
+        row(
+          `${side.label}: server, upload → ready`,
+          f.cpuRequest.map((r, i) => sum(r, f.cpuAfter[i])),
+        ),
+        row("  during the upload request", f.cpuRequest),
+        row("  after it (queue, job, renditions)", f.cpuAfter),
+        ["  PostgreSQL (rows, queue, the bench's polls)", perPhoto(f.pg, 1000), "", "", ""],
+        ["  ratio server ÷ bare (within each run)", spread(f.cpuRatio, 2), "", "", ""],
+      );
+    }
+    cpuRows.push(row("bare sharp: same renditions, same file", bareCpu));
+    console.log(table(["CPU ms per photo", "total", "main thread", "libvips", "other"], cpuRows));
+    const load1 = loadavg();
     console.log(
-      table(
-        ["case", "seconds", "per photo s"],
-        [
-          [
-            `Tideline: upload → renditions ready (${PHOTOS} photos)`,
-            spread(app, 2),
-            spread(
-              app.map((x) => x / PHOTOS),
-              2,
-            ),
-          ],
-          [
-            "  of which the upload request (to its 201)",
-            spread(request, 2),
-            spread(
-              request.map((x) => x / PHOTOS),
-              2,
-            ),
-          ],
-          [
-            "  of which waiting for the worker",
-            spread(queueWait, 2),
-            spread(
-              queueWait.map((x) => x / PHOTOS),
-              2,
-            ),
-          ],
-          [
-            "  of which the rendition job",
-            spread(jobRun, 2),
-            spread(
-              jobRun.map((x) => x / PHOTOS),
-              2,
-            ),
-          ],
-          [
-            `bare sharp: same renditions, same file`,
-            spread(bare, 2),
-            spread(
-              bare.map((x) => x / PHOTOS),
-              2,
-            ),
-          ],
-          ["ratio Tideline ÷ bare (within each run)", spread(ratio, 2), ""],
-        ],
-      ),
-    );
-    console.log(
-      `(photo ${(photo.length / 1024 / 1024).toFixed(1)} MB, 4032 × 3024, EXIF orientation 6; median [min–max])`,
+      `(photo ${(photo.length / 1024 / 1024).toFixed(1)} MB, 4032 × 3024, EXIF orientation 6; renditions byte-identical ` +
+        `to the bare script's; median [min–max]; load average ${load0[0].toFixed(2)} at the start, ${load1[0].toFixed(2)} at the end)`,
     );
   } finally {
-    if (instance) {
-      instance.kill("SIGTERM");
-      await new Promise((r) => (instance!.exitCode !== null ? r(null) : instance!.once("exit", r)));
-    }
-    await setup.destroy();
-    const admin = createDb(local.adminUrl, MAINTENANCE_DB_OPTIONS);
-    await sql`DROP DATABASE IF EXISTS ${sql.id(name)} WITH (FORCE)`.execute(admin);
-    await admin.destroy();
+    for (const side of sides) await closeSide(local, side);
     await rm(work, { recursive: true, force: true });
     local.stop();
   }

@@ -47,6 +47,11 @@ async function memoryPhotos() {
         .toBuffer(),
     );
   }
+  const bytesOf = (key: string) => {
+    const m = /\/(\d+)\//.exec(key);
+    if (!m) throw new StorageNotFound(key);
+    return pool[Number(m[1]) % pool.length];
+  };
   const storage: PhotoStorage = {
     kind: "disk",
     put: async () => {},
@@ -54,11 +59,8 @@ async function memoryPhotos() {
     check: async () => {},
     delete: async () => {},
     listKeys: async () => [],
-    get: async (key) => {
-      const m = /\/(\d+)\//.exec(key);
-      if (!m) throw new StorageNotFound(key);
-      return Readable.from([pool[Number(m[1]) % pool.length]]);
-    },
+    get: async (key) => Readable.from([bytesOf(key)]),
+    getBytes: async (key) => bytesOf(key),
   };
   return { storage, pool };
 }

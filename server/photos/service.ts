@@ -6,7 +6,6 @@ import { AppError, conflict, forbidden, notFound } from "../errors";
 import type { BulkAssign, PhotoPatch, UploadFields } from "../../src/schemas/photos";
 import { PHOTO_KINDS, type PhotoKind, type Role } from "../../src/domain/vocab";
 import { can } from "../../src/domain/permissions";
-import { buffer } from "node:stream/consumers";
 import type { Jobs } from "../jobs";
 import { log } from "../log";
 import { inspectImage, renderRenditions, type ImageFacts } from "./images";
@@ -141,7 +140,7 @@ export function definePhotoJobs(
       const t0 = performance.now();
       let out: { display: Buffer; thumb: Buffer };
       try {
-        const original = await buffer(await deps.photoStorage.get(row.originalKey));
+        const original = await deps.photoStorage.getBytes(row.originalKey);
         out = await renderRenditions(original, { hevc }, row.originalName || "photo");
       } catch (e) {
         const permanent = e instanceof AppError;

@@ -1,4 +1,4 @@
-import { mkdtemp, rm } from "node:fs/promises";
+import { mkdtemp, rm, writeFile } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import type { AddressInfo } from "node:net";
@@ -64,11 +64,26 @@ describe.each([
     const bytes = await noisyJpeg(320, 240);
     await s.put("sites/a/b/original.jpg", bytes, "image/jpeg");
     expect((await readAll(await s.get("sites/a/b/original.jpg"))).equals(bytes)).toBe(true);
+    expect((await s.getBytes("sites/a/b/original.jpg")).equals(bytes)).toBe(true);
     expect(await s.listKeys("sites/a/")).toEqual(["sites/a/b/original.jpg"]);
     await s.delete("sites/a/b/original.jpg");
     expect(await s.listKeys("sites/a/")).toEqual([]);
     await expect(s.get("sites/a/b/original.jpg")).rejects.toBeInstanceOf(StorageNotFound);
+    await expect(s.getBytes("sites/a/b/original.jpg")).rejects.toBeInstanceOf(StorageNotFound);
     await s.delete("sites/a/b/original.jpg"); // deleting twice is fine
+  });
+
+  it("putFile stores a file's bytes and leaves the file itself to its owner", async () => {
+    const s = get();
+    const bytes = await noisyJpeg(320, 240);
+    const dir = await mkdtemp(join(tmpdir(), "tideline-putfile-"));
+    const path = join(dir, "upload.tmp");
+    await writeFile(path, bytes);
+    await s.putFile("sites/a/c/original.jpg", path, "image/jpeg");
+    await rm(dir, { recursive: true }); // the upload's temporary file goes; the stored copy stays
+    expect((await s.getBytes("sites/a/c/original.jpg")).equals(bytes)).toBe(true);
+    expect(await s.listKeys("sites/a/c/")).toEqual(["sites/a/c/original.jpg"]);
+    await s.delete("sites/a/c/original.jpg");
   });
 
   it("an upload through the app stores the original byte for byte and serves the renditions from it", async () => {

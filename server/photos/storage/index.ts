@@ -19,6 +19,11 @@ export interface PhotoStorage {
   check(): Promise<void>;
   /** The stored bytes as a stream; rejects with StorageNotFound when the key is absent. */
   get(key: string): Promise<Readable>;
+  /**
+   * The stored bytes in one buffer (the rendition job, which decodes them whole): one read of the
+   * file, or the SDK's own collection of the body, rather than a stream gathered chunk by chunk.
+   */
+  getBytes(key: string): Promise<Buffer>;
   /** Deleting an absent key is not an error. */
   delete(key: string): Promise<void>;
   /** Every key under the prefix (the cleanup command compares them with the table). */

@@ -1,5 +1,18 @@
 import { createReadStream } from "node:fs";
-import { access, constants, copyFile, mkdir, readdir, rename, rm, rmdir, stat, writeFile } from "node:fs/promises";
+import {
+  access,
+  constants,
+  copyFile,
+  link,
+  mkdir,
+  readdir,
+  readFile,
+  rename,
+  rm,
+  rmdir,
+  stat,
+  writeFile,
+} from "node:fs/promises";
 import { dirname, join, relative, resolve, sep } from "node:path";
 import type { Readable } from "node:stream";
 import { StorageNotFound, type PhotoStorage } from "./index";
@@ -41,7 +54,13 @@ export class LocalDiskStorage implements PhotoStorage {
     const p = this.path(key);
     await mkdir(dirname(p), { recursive: true });
     const tmp = `${p}.${process.pid}.partial`;
-    await copyFile(path, tmp);
+    // A second name for the same bytes when both folders share a file system (no copy: the source
+    // is a finished temporary file its owner only deletes); a copy across file systems.
+    await rm(tmp, { force: true });
+    await link(path, tmp).catch(async (e: NodeJS.ErrnoException) => {
+      if (e.code !== "EXDEV" && e.code !== "EPERM" && e.code !== "ENOTSUP") throw e;
+      await copyFile(path, tmp);
+    });
     await rename(tmp, p);
   }
 
@@ -58,6 +77,16 @@ export class LocalDiskStorage implements PhotoStorage {
       throw new StorageNotFound(key);
     }
     return createReadStream(p);
+  }
+
+  async getBytes(key: string): Promise<Buffer> {
+    try {
+      return await readFile(this.path(key));
+    } catch (e) {
+      if ((e as NodeJS.ErrnoException).code === "ENOENT" || (e as NodeJS.ErrnoException).code === "EISDIR")
+        throw new StorageNotFound(key);
+      throw e;
+    }
   }
 
   async delete(key: string) {

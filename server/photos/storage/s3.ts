@@ -82,6 +82,18 @@ export class S3Storage implements PhotoStorage {
     }
   }
 
+  async getBytes(key: string): Promise<Buffer> {
+    try {
+      const r = await this.client.send(new GetObjectCommand({ Bucket: this.opts.bucket, Key: key }));
+      const bytes = await r.Body!.transformToByteArray();
+      return Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+    } catch (e) {
+      const name = (e as { name?: string }).name;
+      if (name === "NoSuchKey" || name === "NotFound") throw new StorageNotFound(key);
+      throw e;
+    }
+  }
+
   async delete(key: string) {
     await this.client.send(new DeleteObjectCommand({ Bucket: this.opts.bucket, Key: key }));
   }
