@@ -5,16 +5,20 @@
  * - Tideline: one web instance (`node --import tsx server/index.ts`, production mode, its own job
  *   worker) on a scratch database; BENCH_INGEST_PHOTOS (default 8) uploads of one 12 MP JPEG
  *   (4032 × 3024, EXIF orientation 6 and a capture time, as a phone writes it), one per request;
- *   each is timed from the request until its renditions are stored and it is marked ready (the
- *   database is read every 10 ms). It covers the HTTP upload streamed to disk, the type and EXIF checks, the
- *   original written to the photo store, the row, the audit entry, the queued job, the worker's
- *   decode, both renditions and their writes.
+ *   each is timed from the request until its rendition job has finished (its renditions stored and
+ *   the photo marked ready): the end is the queue's own `completed_on`, so the bench's 25 ms polls add
+ *   nothing. It covers the HTTP upload streamed to disk, the type and EXIF checks, the original put in
+ *   the photo store, the row, the audit entry, the queued job, the worker's decode, both renditions
+ *   and their writes.
  * - Bare: read the same file from disk and make the same renditions with sharp alone (display:
  *   rotate, fit inside 1600 px, JPEG quality 82; thumbnail from the display copy: 320 px,
- *   quality 82, mozjpeg). Tideline and bare take turns photo by photo.
- * - Per run the ratio is Tideline's total over bare's; printed as median [min–max] over
- *   BENCH_RUNS runs. The upload wakes the instance's own worker (Jobs.wake), so no poll is waited
- *   for; the polling interval is left as deployed.
+ *   quality 82, mozjpeg), in the bench's own process with sharp's defaults, as the server has them.
+ *   The warm-up photo's stored renditions must equal the bare script's byte for byte, or the bench stops.
+ * - Every side takes its turn photo by photo (the order rotated each photo). Per run the ratio is
+ *   Tideline's total over bare's; printed as median [min–max] over BENCH_RUNS runs, with CPU time per
+ *   photo by thread (/proc) beside it, which a busy machine disturbs much less than wall time.
+ * - BENCH_INGEST_BASELINE=<another checkout, with node_modules> runs that checkout's server as a
+ *   further side on its own scratch database, so an old and a new version meet the same load.
  * BENCH_INGEST=0 skips it.
  */
 import { spawn, type ChildProcess } from "node:child_process";
