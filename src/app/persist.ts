@@ -57,10 +57,126 @@ export interface KeptIndex {
 const emptyIndex = (): KeptIndex => ({ kept: new Map(), tooLarge: new Map() });
 
 /**
+ * Where the main thread's time goes while a write is cut into pieces: `spent()` says the current piece has had its
+ * share, `pause()` lets the page run (input, rendering) before the next piece. A plain call (`flushPersistedReads`,
+ * the tests) never pauses.
+ */
+interface Slicer {
+  spent(): boolean;
+  pause(): Promise<void>;
+  /** Ends the current piece; returns the longest piece (its start and ms) and the main thread's ms in all pieces. */
+  end(): { start: number; longest: number; busy: number; pieces: number };
+}
+/** How long one piece of a write may hold the main thread, ms (a frame's share; the 4 × slower phone counts). */
+const SLICE_MS = 8;
+const idle = (): Promise<void> =>
+  new Promise((resolve) => {
+    if (typeof requestIdleCallback === "function") requestIdleCallback(() => resolve(), { timeout: 1000 });
+    else setTimeout(resolve, 0);
+  });
+function slicer(sliceMs = SLICE_MS): Slicer {
+  let since = performance.now();
+  const longest = { start: since, ms: 0 };
+  let busy = 0;
+  let pieces = 0;
+  const close = () => {
+    const ms = performance.now() - since;
+    busy += ms;
+    pieces += 1;
+    if (ms > longest.ms) Object.assign(longest, { start: since, ms });
+  };
+  return {
+    spent: () => performance.now() - since > sliceMs,
+    pause: async () => {
+      close();
+      await idle();
+      since = performance.now();
+    },
+    end: () => {
+      close();
+      return { start: longest.start, longest: longest.ms, busy, pieces };
+    },
+  };
+}
+
+const isPlainObject = (v: object) => {
+  const proto = Object.getPrototypeOf(v) as unknown;
+  return (proto === Object.prototype || proto === null) && typeof (v as { toJSON?: unknown }).toJSON !== "function";
+};
+/** Array items and object values JSON leaves out (object) or writes as null (array). */
+const unwritable = (v: unknown) => v === undefined || typeof v === "function" || typeof v === "symbol";
+
+/**
+ * JSON.stringify(value), the same text, pausing between the items of large arrays and objects (a board's 500
+ * tiles) whenever the piece's time is spent. Anything but a plain array or object is stringified whole.
+ */
+async function stringifySliced(value: unknown, s: Slicer): Promise<string> {
+  if (value === null || typeof value !== "object") return JSON.stringify(value);
+  const parts: string[] = [];
+  if (Array.isArray(value)) {
+    if (typeof (value as { toJSON?: unknown }).toJSON === "function" || value.length < 32) return JSON.stringify(value);
+    for (const item of value as unknown[]) {
+      if (s.spent()) await s.pause();
+      parts.push(unwritable(item) ? "null" : await stringifySliced(item, s));
+    }
+    return `[${parts.join(",")}]`;
+  }
+  if (!isPlainObject(value)) return JSON.stringify(value);
+  for (const key of Object.keys(value)) {
+    const item = (value as Record<string, unknown>)[key];
+    if (unwritable(item)) continue;
+    if (s.spent()) await s.pause();
+    parts.push(`${JSON.stringify(key)}:${await stringifySliced(item, s)}`);
+  }
+  return `{${parts.join(",")}}`;
+}
+
+/**
+ * The JSON of each read's data, kept as long as that data object lives: the query cache gives a read new data as a
+ * new object, so an unchanged read (the session, the site, a board read a minute ago) is not stringified again on
+ * the next write — only its few state fields are.
+ */
+const dataJson = new WeakMap<object, string>();
+/** Stands for the data (or the queries) in a shell stringified without them; random, so no read's text holds it. */
+const marker = (what: string) => `\u0000tideline-${what}-${Math.random().toString(36).slice(2)}\u0000`;
+const DATA_HERE = marker("data");
+const QUERIES_HERE = marker("queries");
+/** `shell` (JSON holding the marker `here` once, as a string) with `text` in the marker's place. */
+function splice(shell: string, here: string, text: string) {
+  const m = JSON.stringify(here);
+  const at = shell.indexOf(m);
+  return shell.slice(0, at) + text + shell.slice(at + m.length);
+}
+
+/** One kept read as JSON: the same text as JSON.stringify(asKept(q)), its data's text reused when unchanged. */
+function queryJson(q: Dehydrated): string {
+  const kept = asKept(q);
+  const data: unknown = kept.state.data;
+  if (data === null || typeof data !== "object") return JSON.stringify(kept);
+  let json = dataJson.get(data);
+  if (json === undefined) {
+    json = JSON.stringify(data);
+    dataJson.set(data, json);
+  }
+  return splice(JSON.stringify({ ...kept, state: { ...kept.state, data: DATA_HERE } }), DATA_HERE, json);
+}
+
+/** Stringifies, piece by piece, the data of every read not yet stringified, so serializeBounded finds it ready. */
+async function prepareSliced(client: PersistedClient, s: Slicer): Promise<void> {
+  for (const q of client.clientState.queries) {
+    const data: unknown = q.state.data;
+    if (data === null || typeof data !== "object" || dataJson.has(data)) continue;
+    if (s.spent()) await s.pause();
+    dataJson.set(data, await stringifySliced(data, s));
+  }
+}
+
+/**
  * Newest queries first until MAX_BYTES; what does not fit is left out (and counted as too large).
  * Each query is turned into JSON once (its size is that text's length) and the pieces are joined into
  * the client's own JSON: stringifying the kept queries a second time doubled the main thread's work
- * on every save (up to 8 MB of text).
+ * on every save (up to 8 MB of text). A read's data already stringified (prepareSliced, or an earlier
+ * write of the same data) is not stringified again.
  */
 export function serializeBounded(client: PersistedClient): { text: string; index: KeptIndex } {
   const queries = [...client.clientState.queries].sort((a, b) => b.state.dataUpdatedAt - a.state.dataUpdatedAt);
@@ -68,7 +184,7 @@ export function serializeBounded(client: PersistedClient): { text: string; index
   const index = emptyIndex();
   let bytes = 200;
   for (const q of queries) {
-    const json = JSON.stringify(asKept(q));
+    const json = queryJson(q);
     if (bytes + json.length > MAX_BYTES) {
       index.tooLarge.set(q.queryHash, q.state.dataUpdatedAt);
       continue;
@@ -77,35 +193,45 @@ export function serializeBounded(client: PersistedClient): { text: string; index
     kept.push(json);
     index.kept.set(q.queryHash, q.state.dataUpdatedAt);
   }
-  // The client without its queries, with a marker where they go: the marker is the only string in that
-  // shell that could be it (the shell holds the buster, the time stamp and no data).
+  // The client without its queries, with a marker where they go.
   const shell = JSON.stringify({
     ...client,
     clientState: { ...client.clientState, queries: [QUERIES_HERE], mutations: [] },
   });
-  const marker = JSON.stringify(QUERIES_HERE);
-  const at = shell.indexOf(marker);
-  const text = shell.slice(0, at) + kept.join(",") + shell.slice(at + marker.length);
-  return { text, index };
+  return { text: splice(shell, QUERIES_HERE, kept.join(",")), index };
 }
-const QUERIES_HERE = "\u0000tideline-kept-queries\u0000";
 
 /**
- * serializeBounded with a User Timing measure around it (`KEEP_MEASURE`, its detail the bytes and reads kept):
- * the main thread's cost of each write, which `npm run bench`'s board case reads from the page.
+ * serializeBounded with a User Timing measure (`KEEP_MEASURE`) of the longest piece of the write — the longest
+ * the write held the main thread at once —, its detail the bytes and reads kept, the main thread's ms over all the
+ * write's pieces and their number: what each write costs the page, which `npm run bench`'s board case reads.
  */
-function timedSerialize(client: PersistedClient) {
-  const start = performance.now();
+function timedSerialize(client: PersistedClient, s: Slicer) {
   const out = serializeBounded(client);
+  const { start, longest, busy, pieces } = s.end();
   try {
     // Only the newest stays in the page's timeline (a PerformanceObserver sees every one): a day of writes
     // once a second would otherwise pile up there.
     performance.clearMeasures(KEEP_MEASURE);
-    performance.measure(KEEP_MEASURE, { start, detail: { bytes: out.text.length, kept: out.index.kept.size } });
+    performance.measure(KEEP_MEASURE, {
+      start,
+      duration: longest,
+      detail: { bytes: out.text.length, kept: out.index.kept.size, busy, pieces },
+    });
   } catch {
     // a browser without User Timing Level 3 writes the same text, unmeasured
   }
   return out;
+}
+/**
+ * serializeBounded's text and index, the work cut into pieces of at most about `sliceMs` between which the page
+ * runs: each read's data not yet stringified is stringified piece by piece, then the join is a piece of its own.
+ */
+export async function serializeInPieces(client: PersistedClient, sliceMs = SLICE_MS) {
+  const s = slicer(sliceMs);
+  await prepareSliced(client, s);
+  await s.pause();
+  return timedSerialize(client, s);
 }
 /** The User Timing measure of one write's serialization. */
 export const KEEP_MEASURE = "tideline:keep-reads";
@@ -115,39 +241,60 @@ export const boundedSerialize = (client: PersistedClient): string => serializeBo
 
 // ---- what is on the phone now (written, not just handed to the writer) ----
 let committed: KeptIndex = emptyIndex();
-/** The text handed to storage last and its index: committed once IndexedDB has it. */
-let handedOver: { text: string; index: KeptIndex } | null = null;
 const keptListeners = new Set<() => void>();
 function commit(index: KeptIndex) {
   committed = index;
   for (const l of keptListeners) l();
 }
 
+/** Which copy each save handed over (newer copies, higher numbers). */
+const seqOf = new WeakMap<PersistedClient, number>();
+let lastSeq = 0;
+/** The newest copy given to IndexedDB: an older one finishing its pieces later is not written over it. */
+let storedSeq = 0;
+let latest: PersistedClient | null = null;
+/** Counts sign-outs: a write begun before one never lands after it (the next person would find those reads). */
+let generation = 0;
+
+interface Handed {
+  text: string;
+  index: KeptIndex;
+  seq: number;
+  generation: number;
+}
+/** The text the throttled writer serialized last, with what it stands for, until storage takes it. */
+let handedOver: Handed | null = null;
+
+async function store(h: Handed) {
+  if (!idb || h.generation !== generation || h.seq <= storedSeq) return;
+  storedSeq = h.seq;
+  await set(CACHE_KEY, h.text, idb);
+  if (h.generation === generation) commit(h.index);
+}
+
 const storage = idb
   ? {
       getItem: (k: string) => get<string>(k, idb).then((v) => v ?? null),
       setItem: async (k: string, v: string) => {
-        const index = handedOver?.text === v ? handedOver.index : null;
-        await set(k, v, idb);
-        if (index) commit(index);
+        const h = handedOver?.text === v ? handedOver : null;
+        if (!h) return set(k, v, idb);
+        // IndexedDB's copy of a large text is work of its own on the main thread: a task of its own.
+        await idle();
+        await store(h);
       },
       removeItem: (k: string) => del(k, idb),
     }
   : null;
 
-/** Which copy each save handed over, and the newest one given to storage: a flush writes only what is newer. */
-const seqOf = new WeakMap<PersistedClient, number>();
-let lastSeq = 0;
-let writtenSeq = 0;
-let latest: PersistedClient | null = null;
-
 const throttled = createAsyncStoragePersister({
   storage,
   key: CACHE_KEY,
   throttleTime: 1000,
-  serialize: (client) => {
-    writtenSeq = Math.max(writtenSeq, seqOf.get(client) ?? 0);
-    handedOver = timedSerialize(client);
+  // At most once a second, in pieces of SLICE_MS between which the page runs: each read's data is stringified in
+  // idle time (and only when it is new), then the pieces are joined in a piece of their own.
+  serialize: async (client) => {
+    const h = { seq: seqOf.get(client) ?? 0, generation };
+    handedOver = { ...h, ...(await serializeInPieces(client)) };
     return handedOver.text;
   },
 });
@@ -168,6 +315,7 @@ export const persister: Persister = {
     return c;
   },
   removeClient: async () => {
+    generation += 1;
     latest = null;
     handedOver = null;
     await throttled.removeClient();
@@ -175,13 +323,12 @@ export const persister: Persister = {
   },
 };
 
-/** Writes the newest copy now, without waiting for the throttle (the page is being hidden or left). */
+/** Writes the newest copy now, whole, without waiting for the throttle (the page is being hidden or left). */
 export async function flushPersistedReads(): Promise<void> {
   const client = latest;
-  if (!client || !storage || (seqOf.get(client) ?? 0) <= writtenSeq) return;
-  writtenSeq = seqOf.get(client)!;
-  handedOver = timedSerialize(client);
-  await storage.setItem(CACHE_KEY, handedOver.text);
+  const seq = client ? (seqOf.get(client) ?? 0) : 0;
+  if (!client || !storage || seq <= storedSeq) return;
+  await store({ ...timedSerialize(client, slicer()), seq, generation });
 }
 
 /**

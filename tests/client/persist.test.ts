@@ -1,6 +1,13 @@
 import { describe, expect, it } from "vitest";
+import fc from "fast-check";
 import type { PersistedClient } from "@tanstack/react-query-persist-client";
-import { MAX_BYTES, boundedSerialize, serializeBounded, shouldKeepQuery } from "../../src/app/persist";
+import {
+  MAX_BYTES,
+  boundedSerialize,
+  serializeBounded,
+  serializeInPieces,
+  shouldKeepQuery,
+} from "../../src/app/persist";
 
 type Q = PersistedClient["clientState"]["queries"][number];
 const query = (key: unknown[], state: Partial<Q["state"]>): Q =>
@@ -88,5 +95,54 @@ describe("the reads kept on the phone (src/app/persist.ts)", () => {
     expect(boundedSerialize(client([]))).toBe(
       JSON.stringify({ ...client([]), clientState: { queries: [], mutations: [] } }),
     );
+  });
+
+  it("writes the same text in pieces as at once, whatever the data (fast-check against JSON.stringify)", async () => {
+    // Values JSON writes, leaves out (undefined, functions in objects) or writes as null (in arrays), nested deep and
+    // in arrays long enough to be cut into pieces; a piece of 0 ms pauses before every item.
+    const leaf = fc.oneof(
+      fc.jsonValue({ maxDepth: 1 }),
+      fc.constant(undefined),
+      fc.constant(() => 1),
+    );
+    const value = fc.letrec((tie) => ({
+      node: fc.oneof({ depthSize: "small" }, leaf, tie("arr"), tie("obj")),
+      arr: fc.array(tie("node"), { maxLength: 40 }),
+      obj: fc.dictionary(fc.string(), tie("node"), { maxKeys: 6 }),
+    })).node;
+    await fc.assert(
+      fc.asyncProperty(fc.array(value, { minLength: 1, maxLength: 4 }), async (datas) => {
+        const queries = datas.map((data, i) =>
+          query(["inventory", "s", "board", String(i)], { data: data ?? null, dataUpdatedAt: i }),
+        );
+        const c = client(queries);
+        const whole = JSON.stringify({
+          ...c,
+          clientState: { ...c.clientState, queries: [...queries].reverse(), mutations: [] },
+        });
+        expect((await serializeInPieces(c, 0)).text).toBe(whole);
+        expect(boundedSerialize(c)).toBe(whole);
+      }),
+      { numRuns: 60 },
+    );
+  });
+
+  it("reuses an unchanged read's text but writes its new state (the read refetched, then invalidated)", async () => {
+    const data = { positions: Array.from({ length: 100 }, (_, i) => ({ id: `p${i}`, grade: i % 5 })) };
+    const first = query(["inventory", "s", "board", "b"], { data, dataUpdatedAt: 5 });
+    const once = await serializeInPieces(client([first]), 0);
+    const later = query(["inventory", "s", "board", "b"], { data, dataUpdatedAt: 5, isInvalidated: true });
+    const c = client([later]);
+    const text = (await serializeInPieces(c, 0)).text;
+    expect(text).not.toBe(once.text);
+    expect(text).toBe(JSON.stringify({ ...c, clientState: { ...c.clientState, queries: [later], mutations: [] } }));
+    // a new data object (a refetch) is written as it is now, never as the text of the old one
+    const changed = query(["inventory", "s", "board", "b"], {
+      data: { positions: [{ id: "p0", grade: 9 }] },
+      dataUpdatedAt: 6,
+    });
+    expect(JSON.parse(boundedSerialize(client([changed]))).clientState.queries[0].state.data).toEqual({
+      positions: [{ id: "p0", grade: 9 }],
+    });
   });
 });
