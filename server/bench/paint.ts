@@ -10,7 +10,7 @@
  */
 import { existsSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
-import { chromium, type Browser, type Page } from "@playwright/test";
+import { chromium, type Browser, type CDPSession } from "@playwright/test";
 
 export interface PaintFigures {
   lcp: number;
@@ -69,14 +69,22 @@ export async function openBrowser(): Promise<Browser> {
 }
 
 /**
- * Polls `expression` in the page until it is truthy. Playwright's waitForFunction evaluates its predicate with
- * `eval` inside the page, which the app's Content-Security-Policy (no 'unsafe-eval') refuses; an evaluation
- * through the DevTools protocol (page.evaluate) is not subject to it. A string: it runs in the page, which the
- * server's types (no DOM) do not describe.
+ * The value of `expression` in the page, through the DevTools protocol (Runtime.evaluate). Not Playwright's
+ * page.evaluate, locators or waitForFunction: those first inject Playwright's own script into the page, a long task
+ * of its own at 4 × throttle that the page's long-task figures would then count; and waitForFunction evaluates its
+ * predicate with `eval`, which the app's Content-Security-Policy (no 'unsafe-eval') refuses. A string: it runs in the
+ * page, which the server's types (no DOM) do not describe.
  */
-export async function waitInPage(page: Page, expression: string, timeoutMs: number): Promise<void> {
+export async function inPage<T>(cdp: CDPSession, expression: string): Promise<T> {
+  const r = await cdp.send("Runtime.evaluate", { expression, returnByValue: true, awaitPromise: true });
+  if (r.exceptionDetails) throw new Error(`${expression}: ${r.exceptionDetails.exception?.description ?? "failed"}`);
+  return r.result.value as T;
+}
+
+/** Polls `expression` in the page (inPage) until it is truthy. */
+export async function waitInPage(cdp: CDPSession, expression: string, timeoutMs: number): Promise<void> {
   const until = Date.now() + timeoutMs;
-  while (!(await page.evaluate(expression))) {
+  while (!(await inPage(cdp, expression))) {
     if (Date.now() > until) throw new Error(`timed out after ${timeoutMs} ms waiting for ${expression}`);
     await new Promise((r) => setTimeout(r, 50));
   }
@@ -108,18 +116,13 @@ export async function measurePaint(
     // The app paints after its data arrives: wait for the first contentful paint and the page's
     // heading, then for a quiet second and a half so the last LCP candidate and late shifts count.
     await waitInPage(
-      page,
+      cdp,
       'performance.getEntriesByType("paint").some((e) => e.name === "first-contentful-paint")',
       120_000,
     );
-    await page.locator("h1").first().waitFor({ timeout: 120_000 });
+    await waitInPage(cdp, 'document.querySelector("h1") !== null', 120_000);
     await page.waitForTimeout(1500);
-    const m = (await page.evaluate("window.__paint")) as {
-      lcp: number;
-      cls: number;
-      longest: number;
-      blocking: number;
-    };
+    const m = await inPage<{ lcp: number; cls: number; longest: number; blocking: number }>(cdp, "window.__paint");
     return { lcp: m.lcp, cls: m.cls, longestTask: m.longest, blocking: m.blocking };
   } finally {
     await context.close();
