@@ -43,6 +43,8 @@ async function request(method: Method, url: string, body?: unknown, signal?: Abo
   }
   const text = await res.text();
   const data = text ? safeJson(text) : null;
+  // A large answer's JSON.parse is a piece of work of its own on a slow phone: let the page run before checking it.
+  if (text.length > LARGE_ANSWER) await yieldToPage();
   if (!res.ok) {
     const err = (
       data as {
@@ -80,10 +82,72 @@ function safeJson(text: string): unknown {
   }
 }
 
+/** Answers past this many characters are parsed, then checked, in pieces between which the page runs. */
+const LARGE_ANSWER = 64 * 1024;
+/** How long one piece of checking a large list may hold the main thread, ms. */
+const SLICE_MS = 12;
+/** Lets the page run (input, rendering) before the rest of a large answer's work. */
+const yieldToPage = (): Promise<void> => {
+  const s = (globalThis as { scheduler?: { yield?: () => Promise<void> } }).scheduler;
+  return s?.yield ? s.yield() : new Promise((resolve) => setTimeout(resolve, 0));
+};
+
+/** What parseInPieces reads of a zod 4 schema (its definition), without importing zod into the entry chunk. */
+interface SchemaLike {
+  parse(d: unknown): unknown;
+  safeParse(d: unknown): { success: boolean; data?: unknown };
+  omit?(mask: Record<string, true>): SchemaLike;
+  _zod: { def: { type: string; shape?: Record<string, SchemaLike>; element?: SchemaLike; checks?: unknown[] } };
+}
+const plain = (s: SchemaLike) => !s._zod.def.checks?.length;
+
+/**
+ * schema.parse(data), the same result, but for an object answer holding a long list (a board's 500 tiles) the list's
+ * items are checked in pieces of about SLICE_MS with the page running between them, instead of in one long task.
+ * Any item that fails, or a schema this does not read (refinements on the object or the list), goes through
+ * schema.parse whole, so the error thrown is the one it always was.
+ */
+async function parseInPieces<T extends z.ZodType>(schema: T, data: unknown): Promise<z.infer<T>> {
+  const s = schema as unknown as SchemaLike;
+  const { type, shape } = s._zod.def;
+  const record = data as Record<string, unknown> | null;
+  const key =
+    type === "object" && shape && plain(s) && s.omit && record && typeof record === "object"
+      ? Object.keys(shape).find((k) => {
+          const list = shape[k]._zod.def;
+          return list.type === "array" && plain(shape[k]) && Array.isArray(record[k]) && record[k].length > 64;
+        })
+      : undefined;
+  if (!key) return schema.parse(data) as z.infer<T>;
+  const rest = s.omit!({ [key]: true }).safeParse(data);
+  const element = shape![key]._zod.def.element!;
+  if (!rest.success) return schema.parse(data) as z.infer<T>;
+  const items: unknown[] = [];
+  let since = performance.now();
+  for (const item of record![key] as unknown[]) {
+    if (performance.now() - since > SLICE_MS) {
+      await yieldToPage();
+      since = performance.now();
+    }
+    const r = element.safeParse(item);
+    if (!r.success) return schema.parse(data) as z.infer<T>;
+    items.push(r.data);
+  }
+  // The keys in the schema's order, as schema.parse gives them.
+  const parsed = rest.data as Record<string, unknown>;
+  const out: Record<string, unknown> = {};
+  for (const k of Object.keys(shape!)) {
+    if (k === key) out[k] = items;
+    else if (k in parsed) out[k] = parsed[k];
+  }
+  for (const k of Object.keys(parsed)) if (!(k in out)) out[k] = parsed[k];
+  return out as z.infer<T>;
+}
+
 /** Fetches and checks the response's shape with the shared zod schema. */
 export const api = {
   get: <T extends z.ZodType>(url: string, schema: T, signal?: AbortSignal) =>
-    request("GET", url, undefined, signal).then((d) => schema.parse(d) as z.infer<T>),
+    request("GET", url, undefined, signal).then((d) => parseInPieces(schema, d)),
   send: <T extends z.ZodType>(method: Exclude<Method, "GET">, url: string, body: unknown, schema: T) =>
     request(method, url, body).then((d) => schema.parse(d) as z.infer<T>),
   raw: request,
