@@ -41,10 +41,7 @@ function photoLoader(storage: PhotoStorage, data: ReportData) {
   const pending = new Map<string, Promise<Buffer | null>>();
   const load = async (p: ReportPhoto) => {
     try {
-      const stream = await storage.get(p.displayKey);
-      const chunks: Buffer[] = [];
-      for await (const c of stream) chunks.push(c as Buffer);
-      return await downscale(Buffer.concat(chunks));
+      return await downscale(await storage.getBytes(p.displayKey));
     } catch {
       return null; // a missing or unreadable file shows as an empty frame, never fails the report
     }
