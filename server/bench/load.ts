@@ -5,9 +5,17 @@
  * process's own event-loop delay over the same seconds (what the machine's other load alone costs
  * a Node process: on a shared 2-core machine a runnable process waits for a core, and that wait
  * counts as event-loop delay too), and CPU time from /proc for the server and PostgreSQL.
+ *
+ * Both delays are reported beyond the histogram's resolution: monitorEventLoopDelay records the whole
+ * interval between two of its timer ticks (an idle process at a resolution of 10 ms reads min ≈ 9,
+ * mean ≈ 10.4 ms), so the resolution is subtracted to leave the time the loop was late.
  */
 import { spawn } from "node:child_process";
 import { readdirSync, readFileSync } from "node:fs";
+import { EVENT_LOOP_RESOLUTION_MS } from "../observability/metrics";
+
+/** A delay read from a monitorEventLoopDelay histogram, less its resolution (never below 0). */
+const beyond = (ms: number) => Math.max(0, ms - EVENT_LOOP_RESOLUTION_MS);
 
 /** CPU seconds (user + system) of one process, from /proc/<pid>/stat; NaN when it is gone. */
 export function cpuSecondsOf(pid: number, statPath = `/proc/${pid}/stat`): number {
@@ -81,7 +89,7 @@ export function cpuBetween(before: Map<number, number>, after: Map<number, numbe
   return sum;
 }
 
-/** Reads (and so resets) the server's event-loop delay figures from its /api/metrics. */
+/** Reads (and so resets) the server's event-loop delay figures from its /api/metrics, beyond the resolution. */
 export async function eventLoopDelay(base: string, token: string): Promise<{ p99: number; max: number }> {
   const r = await fetch(`${base}/api/metrics`, { headers: { authorization: `Bearer ${token}` } });
   if (!r.ok) throw new Error(`/api/metrics answered ${r.status}`);
@@ -90,18 +98,18 @@ export async function eventLoopDelay(base: string, token: string): Promise<{ p99
     const m = new RegExp(`^tideline_nodejs_eventloop_lag_${name}_seconds(?:\\{[^}]*\\})? ([0-9.eE+-]+)$`, "m").exec(
       text,
     );
-    return m ? Number(m[1]) * 1000 : NaN;
+    return m ? beyond(Number(m[1]) * 1000) : NaN;
   };
   return { p99: read("p99"), max: read("max") };
 }
 
-/** A Node process that does nothing but measure its own event-loop delay until stopped. */
+/** A Node process that does nothing but measure its own event-loop delay (beyond the resolution) until stopped. */
 export function startCanary() {
   const child = spawn(
     process.execPath,
     [
       "-e",
-      `const h = require("node:perf_hooks").monitorEventLoopDelay({ resolution: 10 }); h.enable();
+      `const h = require("node:perf_hooks").monitorEventLoopDelay({ resolution: ${EVENT_LOOP_RESOLUTION_MS} }); h.enable();
        setInterval(() => {}, 1000);
        process.on("message", () => { process.send({ p99: h.percentile(99) / 1e6, max: h.max / 1e6 }, () => process.exit(0)); });`,
     ],
@@ -110,7 +118,10 @@ export function startCanary() {
   return {
     stop: () =>
       new Promise<{ p99: number; max: number }>((resolve) => {
-        child.once("message", (m) => resolve(m as { p99: number; max: number }));
+        child.once("message", (m) => {
+          const d = m as { p99: number; max: number };
+          resolve({ p99: beyond(d.p99), max: beyond(d.max) });
+        });
         child.send("read");
       }),
   };
