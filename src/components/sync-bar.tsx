@@ -5,8 +5,15 @@ import { fieldLabel } from "../schemas/field-labels";
 import { Conflict, primitives } from "./outbox-conflict";
 import { serverRefused } from "./status";
 
-const time = (iso: string | number | null) =>
-  iso == null ? "never" : new Date(iso).toLocaleTimeString([], { hour: "2-digit", minute: "2-digit" });
+/**
+ * The time of day as the phone's locale writes it. The first such format loads the locale's date data, ~200 ms on a
+ * phone at 4 × CPU throttle (later ones take 0.1 ms): the formatter is made once, in idle time after the page starts,
+ * so that cost is a task of its own instead of joining the render that first shows a time.
+ */
+let clock: Intl.DateTimeFormat | null = null;
+const clockFormat = () => (clock ??= new Intl.DateTimeFormat([], { hour: "2-digit", minute: "2-digit" }));
+if (typeof requestIdleCallback === "function") requestIdleCallback(() => clockFormat().format(0), { timeout: 3000 });
+const time = (iso: string | number | null) => (iso == null ? "never" : clockFormat().format(new Date(iso)));
 
 /** When the newest read on this phone came from the server (the persisted cache keeps its time). */
 function useLastRead(): number | null {
