@@ -3,12 +3,20 @@
  *
  * - the export never holds a database connection while it waits for the socket: callers
  *   read a page (one short query, the connection goes back to the pool), then `write()`
- *   it and wait for the socket to drain before asking for the next page;
+ *   it and wait for the socket to drain before asking for the next page; or (`runSpooledExport`)
+ *   read everything in one pass at the database's speed into a temporary file, let the
+ *   connection go, then send the file;
  * - a reader that takes nothing for `EXPORT_WRITE_TIMEOUT_MS` (default 30 s) is dropped,
  *   so a stalled download does not keep its memory and its slot for ever;
  * - one person runs at most `EXPORTS_PER_PERSON` (default 2) downloads at once across every
  *   instance on the database (slots in `export_slots`, with a lease); more get 429 with Retry-After.
  */
+import { randomUUID } from "node:crypto";
+import { once } from "node:events";
+import { createReadStream, createWriteStream } from "node:fs";
+import { rm, stat } from "node:fs/promises";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
 import type { RequestHandler, Response } from "express";
 import type { Db } from "./db";
 import { dbFailureOf } from "./db-errors";
@@ -179,5 +187,70 @@ export async function runExport(res: Response, body: (out: ExportWriter) => Prom
   } catch (e) {
     if (e instanceof ExportAborted) return;
     throw e;
+  }
+}
+
+/** Where spooled downloads wait to be sent (EXPORT_SPOOL_DIR, default the system's temporary directory). */
+const spoolDir = () => process.env.EXPORT_SPOOL_DIR || tmpdir();
+
+/** Spool files this process holds now (for tests: each is gone once its download ends, however it ends). */
+const spoolFiles = new Set<string>();
+export const exportSpoolFiles = () => [...spoolFiles];
+
+/**
+ * Runs an export whose body reads the database in one pass (a cursor: one connection for the whole
+ * read): the body writes into a temporary file at the database's speed, so the connection is held for
+ * the read alone, never for the reader's download; then the file is sent with the socket's
+ * back-pressure and write timeout (`exportWriter`), with its Content-Length, so a cut download can
+ * never pass for a whole one. The headers go out only once the file is complete: a body that fails
+ * (the database lost, a timeout) answers a clear error, not a short file. The file is deleted when
+ * the download ends, however it ends (finished, the client gone or stalled, an error); a client gone
+ * while the file is still being written stops the body at its next chunk (its connection goes back).
+ * Disk use: one file per running download, the size of its CSV.
+ */
+export async function runSpooledExport(
+  res: Response,
+  headers: Record<string, string>,
+  body: (out: ExportWriter) => Promise<void>,
+) {
+  const path = join(spoolDir(), `tideline-export-${randomUUID()}.part`);
+  spoolFiles.add(path);
+  let gone = res.destroyed;
+  const onClose = () => (gone = true);
+  res.once("close", onClose);
+  const ws = createWriteStream(path, { flags: "wx" });
+  let failed: Error | null = null;
+  ws.on("error", (e) => (failed = e));
+  try {
+    await body({
+      async write(chunk) {
+        if (gone) throw new ExportAborted("closed");
+        if (failed) throw failed;
+        if (!ws.write(chunk)) await once(ws, "drain"); // rejects if the file fails (disk full)
+      },
+      end() {},
+    });
+    ws.end();
+    if (!ws.writableFinished) await once(ws, "finish");
+    if (gone) return;
+    for (const [name, value] of Object.entries(headers)) res.setHeader(name, value);
+    res.setHeader("Content-Length", String((await stat(path)).size));
+    const out = exportWriter(res);
+    const rs = createReadStream(path, { highWaterMark: 256 * 1024 });
+    try {
+      for await (const chunk of rs) await out.write(chunk as Buffer);
+    } finally {
+      rs.destroy();
+    }
+    await res.locals.releaseExportSlot?.();
+    out.end();
+  } catch (e) {
+    if (e instanceof ExportAborted) return;
+    throw e;
+  } finally {
+    res.off("close", onClose);
+    ws.destroy();
+    await rm(path, { force: true }).catch(() => {});
+    spoolFiles.delete(path);
   }
 }

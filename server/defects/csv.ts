@@ -1,21 +1,15 @@
 import type { Response } from "express";
 import { BOM, csvLines, guardCell } from "../csv";
-import type { Db } from "../db";
 import { DEFECT_CATEGORY_LABELS, DEFECT_SEVERITY_LABELS, DEFECT_STATUS_LABELS } from "../../src/domain/vocab";
 import { PARTS_STATE_LABELS, type ListQuery } from "../../src/schemas/defects";
-import { readPage, runExport, type ExportWriter } from "../export-stream";
+import Cursor from "pg-cursor";
+import { poolOf, type Db } from "../db";
+import { runSpooledExport, type ExportWriter } from "../export-stream";
 import { localDateTime, localHeader } from "../../src/domain/local-time";
-import { applyFilters, applySort, registerBase, rowsInOrder, type RegisterRow } from "./list-repository";
+import { applyFilters, applySort, registerBase, registerCount, type RegisterRow } from "./list-repository";
 
-/** Rows per page: each page is one short query (about 0.5 MB of CSV), so the export holds no connection long. */
+/** Rows per cursor read: about 0.2 MB of CSV, so a batch in memory stays small whatever the site's size. */
 const BATCH = 1000;
-/**
- * Pages asked for ahead of the one being written (EXPORT_READ_AHEAD, default 1): each is its own short query on
- * its own connection, so a download holds at most this many of the pool's connections at once (and a person runs
- * two downloads). 2 or 3 let PostgreSQL read pages on more cores; not the default until measured on a quiet
- * machine (DEVELOPERS.md "Defect CSV against COPY").
- */
-const READ_AHEAD = Math.max(1, Math.floor(Number(process.env.EXPORT_READ_AHEAD)) || 1);
 const COLUMNS = [
   "Ref",
   "Title",
@@ -72,68 +66,93 @@ export const CSV_COLUMNS = [
   "d.updatedAt",
   "d.description",
 ] as const;
-type CsvRow = Pick<
-  RegisterRow,
-  | "ref"
-  | "title"
-  | "boardName"
-  | "sectionName"
-  | "designation"
-  | "category"
-  | "severity"
-  | "status"
-  | "statusReason"
-  | "safetyCritical"
-  | "blocksEnergisation"
-  | "effortHours"
-  | "costEstimate"
-  | "partsNeeded"
-  | "partsState"
-  | "assigneeName"
-  | "dueOn"
-  | "priorityScore"
-  | "pinned"
-  | "createdAt"
-  | "updatedAt"
-  | "description"
->;
+type R = RegisterRow;
+/** One row as the cursor reads it: an array in CSV_COLUMNS' order (no object per row, no key mapping). */
+type CsvRow = [
+  ref: R["ref"],
+  title: R["title"],
+  boardName: R["boardName"],
+  sectionName: R["sectionName"],
+  designation: R["designation"],
+  category: R["category"],
+  severity: R["severity"],
+  status: R["status"],
+  statusReason: R["statusReason"],
+  safetyCritical: R["safetyCritical"],
+  blocksEnergisation: R["blocksEnergisation"],
+  effortHours: R["effortHours"],
+  costEstimate: R["costEstimate"],
+  partsNeeded: R["partsNeeded"],
+  partsState: R["partsState"],
+  assigneeName: R["assigneeName"],
+  dueOn: R["dueOn"],
+  priorityScore: R["priorityScore"],
+  pinned: R["pinned"],
+  createdAt: R["createdAt"],
+  updatedAt: R["updatedAt"],
+  description: R["description"],
+];
 
-export function csvRecord(r: CsvRow, timeZone: string): Array<string | number> {
-  const t = (v: string | null) => guardCell(v ?? "");
+const t = (v: string | null) => guardCell(v ?? "");
+
+function csvRecord(r: CsvRow, timeZone: string): Array<string | number> {
+  const [
+    ref,
+    title,
+    boardName,
+    sectionName,
+    designation,
+    category,
+    severity,
+    status,
+    statusReason,
+    safetyCritical,
+    blocksEnergisation,
+    effortHours,
+    costEstimate,
+    partsNeeded,
+    partsState,
+    assigneeName,
+    dueOn,
+    priorityScore,
+    pinned,
+    createdAt,
+    updatedAt,
+    description,
+  ] = r;
   return [
-    `D-${r.ref}`,
-    t(r.title),
-    t(r.boardName),
-    t(r.sectionName),
-    t(r.designation),
-    DEFECT_CATEGORY_LABELS[r.category],
-    DEFECT_SEVERITY_LABELS[r.severity],
-    DEFECT_STATUS_LABELS[r.status],
-    t(r.statusReason),
-    yn(r.safetyCritical),
-    yn(r.blocksEnergisation),
-    r.effortHours ?? "",
-    r.costEstimate ?? "",
-    t(r.partsNeeded),
-    PARTS_STATE_LABELS[r.partsState],
-    t(r.assigneeName),
-    r.dueOn ?? "",
-    r.priorityScore,
-    r.pinned ?? "",
-    localDateTime(r.createdAt, timeZone),
-    localDateTime(r.updatedAt, timeZone),
-    t(r.description),
+    `D-${ref}`,
+    t(title),
+    t(boardName),
+    t(sectionName),
+    t(designation),
+    DEFECT_CATEGORY_LABELS[category],
+    DEFECT_SEVERITY_LABELS[severity],
+    DEFECT_STATUS_LABELS[status],
+    t(statusReason),
+    yn(safetyCritical),
+    yn(blocksEnergisation),
+    effortHours ?? "",
+    costEstimate ?? "",
+    t(partsNeeded),
+    PARTS_STATE_LABELS[partsState],
+    t(assigneeName),
+    dueOn ?? "",
+    priorityScore,
+    pinned ?? "",
+    localDateTime(createdAt, timeZone),
+    localDateTime(updatedAt, timeZone),
+    t(description),
   ];
 }
 
 /**
  * Streams the filtered register as RFC 4180 CSV (CRLF, quotes doubled; papaparse), UTF-8
- * with a BOM so spreadsheets pick the encoding. The export never holds a connection while
- * the reader is slow: one short query fixes the order (the ids of every matching defect,
- * sorted as the register sorts them), then each page of BATCH rows is its own short query
- * and is written out, waiting for the socket to drain, with the connection back in the pool
- * (server/export-stream.ts: write timeout, per-person cap). A defect changed between pages
- * is written as it is now; one that stopped matching the filters is left out. Times are the
+ * with a BOM so spreadsheets pick the encoding. One sorted pass through a cursor writes the whole
+ * file to a temporary file at the database's speed, the connection goes back to the pool, and only
+ * then is the file sent, at the reader's pace (server/export-stream.ts `runSpooledExport`: write
+ * timeout, per-person cap, the file deleted however the download ends), so a slow reader never holds
+ * a connection. The rows are one snapshot: as the register read them at one moment. Times are the
  * site's wall-clock time ("YYYY-MM-DD HH:mm:ss", src/domain/local-time.ts), the zone in the header.
  */
 export async function streamCsv(
@@ -145,26 +164,23 @@ export async function streamCsv(
   res: Response,
   filename: string,
 ) {
-  const ids = await orderedIds(db, siteId, f, today);
-  res.setHeader("Content-Type", "text/csv; charset=utf-8");
-  res.setHeader("Content-Disposition", `attachment; filename="${filename}"`);
-  await runExport(res, (out) => writeDefectsCsv(db, siteId, timeZone, f, today, out, ids));
+  await runSpooledExport(
+    res,
+    { "Content-Type": "text/csv; charset=utf-8", "Content-Disposition": `attachment; filename="${filename}"` },
+    (out) => writeDefectsCsv(db, siteId, timeZone, f, today, out),
+  );
 }
 
-const orderedIds = async (db: Db, siteId: string, f: ListQuery, today: string) =>
-  (
-    await applySort(applyFilters(registerBase(db, siteId), f, today, siteId), f.sort, f.dir)
-      .select("d.id")
-      .execute()
-  ).map((r) => r.id as string);
-
 /**
- * The register's CSV into any export writer (a response, or a file made by a background job).
- * `ids` are the ordered ids when the caller already read them; `out.progress` hears rows written of all;
- * `batch` is the rows per page (tests use small pages to cross page boundaries with few defects).
- * The order is fixed once (one sorted pass over the site's matching defects); each page is then read by
- * its ids alone (`rowsInOrder`: primary-key lookups in that order, the filters checked on those rows), so
- * the export's time grows with its rows (with `d.id IN (…)` each page scanned the whole site).
+ * The register's CSV into any export writer (a spool file, or a file made by a background job): one
+ * statement, the register's filters and order over only the CSV's columns, read through a cursor
+ * (pg-cursor) in batches of `batch` rows as arrays (tests use small batches to cross their boundaries
+ * with few defects). The next batch is asked for before this one is formatted, so PostgreSQL and
+ * Node work side by side. The statement holds one connection of `db`'s pool until its last row
+ * (its deadline: the pool's statement timeout), so `out` must take rows as fast as they come (a
+ * file, never a socket). A failure of the database fails the export and throws the connection
+ * away; a writer that throws (the reader left) closes the cursor and gives the connection back.
+ * `out.progress` hears rows written of all (counted first, only when someone listens).
  */
 export async function writeDefectsCsv(
   db: Db,
@@ -173,33 +189,43 @@ export async function writeDefectsCsv(
   f: ListQuery,
   today: string,
   out: ExportWriter,
-  ids?: string[],
   batch = BATCH,
-  ahead = READ_AHEAD,
 ) {
-  const all = ids ?? (await orderedIds(db, siteId, f, today));
-  const read = (from: number) => {
-    const page = all.slice(from, from + batch);
-    const q = () => rowsInOrder(db, siteId, f, today, page).select(CSV_COLUMNS).execute();
-    const p = readPage(q) as Promise<CsvRow[]>;
-    p.catch(() => {}); // awaited below, unless the reader left first: then nobody waits for it
+  const pool = poolOf(db);
+  if (!pool) throw new Error("the defect CSV reads through a cursor: it needs a Db made by createDb");
+  const total = out.progress ? await registerCount(db, siteId, f, today) : undefined;
+  out.progress?.(0, total);
+  const q = applySort(applyFilters(registerBase(db, siteId), f, today, siteId), f.sort, f.dir)
+    .select(CSV_COLUMNS)
+    .compile();
+  const client = await pool.connect();
+  const cursor = client.query(new Cursor<CsvRow>(q.sql, q.parameters.slice(), { rowMode: "array" }));
+  let broken: Error | undefined; // the statement failed (database lost, timeout): the connection goes
+  const read = () => {
+    const p = cursor.read(batch);
+    p.catch((e: Error) => (broken ??= e)); // awaited on the next turn; a failure meanwhile is not "unhandled"
     return p;
   };
-  out.progress?.(0, all.length);
-  await out.write(BOM + csvLines([csvHeader(timeZone)]));
-  // The next pages are asked for while this one is formatted and written, so PostgreSQL (on as many
-  // connections) and Node work side by side; at most `ahead` queries are out, each ends on its own, so a
-  // reader that stalls holds no connection.
-  const pending: Array<Promise<CsvRow[]>> = [];
-  let asked = 0;
-  const askMore = () => {
-    for (; pending.length < ahead && asked < all.length; asked += batch) pending.push(read(asked));
-  };
-  askMore();
-  for (let i = 0; pending.length; i += batch) {
-    const rows = await pending.shift()!;
-    askMore();
-    if (rows.length) await out.write(csvLines(rows.map((r) => csvRecord(r, timeZone))));
-    out.progress?.(Math.min(all.length, i + batch), all.length);
+  let next = read();
+  try {
+    await out.write(BOM + csvLines([csvHeader(timeZone)]));
+    let done = 0;
+    for (;;) {
+      const rows = await next;
+      if (!rows.length) break;
+      next = read(); // on the wire before this batch is formatted
+      await out.write(csvLines(rows.map((r) => csvRecord(r, timeZone))));
+      done += rows.length;
+      out.progress?.(done, Math.max(total ?? 0, done));
+    }
+  } finally {
+    // Done, or the writer threw (the reader left): end the statement and give the connection back.
+    await next.catch(() => {});
+    if (broken) client.release(broken);
+    else
+      await cursor.close().then(
+        () => client.release(),
+        (e: Error) => client.release(e),
+      );
   }
 }

@@ -75,18 +75,8 @@ type DefectsQuery = SelectQueryBuilder<any, any, any>;
 /** LIKE pattern for a free-text search, with the user's % and _ taken literally. */
 const likePattern = (q: string) => `%${q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
 
-/**
- * The register's filters. `rowwise` tests the search on each row's own position (`p`, which the query must
- * join) instead of collecting the site's matching positions first: the same rows, for a query that already
- * has its few rows (a CSV page re-checking its ids), where the site-wide lookup would cost every page.
- */
-export function applyFilters<QB extends DefectsQuery>(
-  qb: QB,
-  f: ListQuery,
-  today: string,
-  siteId: string,
-  rowwise = false,
-): QB {
+/** The register's filters. */
+export function applyFilters<QB extends DefectsQuery>(qb: QB, f: ListQuery, today: string, siteId: string): QB {
   let q = qb as DefectsQuery;
   if (f.q) {
     const pat = likePattern(f.q);
@@ -98,9 +88,7 @@ export function applyFilters<QB extends DefectsQuery>(
     q = q.where((eb) => {
       const ors: Expression<SqlBool>[] = [
         sql<SqlBool>`(d.title || ' ' || d.description) ILIKE ${pat}`,
-        rowwise
-          ? sql<SqlBool>`p.designation ILIKE ${pat}`
-          : sql<SqlBool>`d.position_id = ANY(ARRAY(SELECT sp.id FROM positions sp WHERE sp.site_id = ${siteId} AND sp.designation ILIKE ${pat}))`,
+        sql<SqlBool>`d.position_id = ANY(ARRAY(SELECT sp.id FROM positions sp WHERE sp.site_id = ${siteId} AND sp.designation ILIKE ${pat}))`,
       ];
       if (refMatch) ors.push(eb("d.ref", "=", Number(refMatch[1])));
       return eb.or(ors);
@@ -191,6 +179,13 @@ export function applySort<QB extends DefectsQuery>(qb: QB, sort: SortKey, dir: "
   return q.orderBy(sql`${SORT_EXPR[sort]} ${d}`).orderBy(sql`d.ref ${dir === "asc" ? sql`ASC` : sql`DESC`}`) as QB;
 }
 
+const countQuery = (db: Db, siteId: string, f: ListQuery, today: string) =>
+  applyFilters(countBase(db, siteId, f), f, today, siteId).select((eb) => eb.fn.countAll<number>().as("n"));
+
+/** How many defects match `f` (a CSV's progress). */
+export const registerCount = async (db: Db, siteId: string, f: ListQuery, today: string) =>
+  Number((await countQuery(db, siteId, f, today).executeTakeFirstOrThrow()).n);
+
 /**
  * The ids of one page in the ranked order, index-served. Defects no pin moves rank by
  * their own keys — safety-critical, score, created, id — which the index
@@ -270,9 +265,7 @@ export async function listPage(db: Db, siteId: string, f: ListQuery, today: stri
           .select("d.id")
           .limit(f.size)
           .offset(f.page * f.size);
-  const countQ = applyFilters(countBase(db, siteId, f), f, today, siteId).select((eb) =>
-    eb.fn.countAll<number>().as("n"),
-  );
+  const countQ = countQuery(db, siteId, f, today);
   const rows = (await registerBase(db, siteId)
     .innerJoin(
       sql<{ id: string; n: number }>`(SELECT x.id, x.n FROM unnest(ARRAY${idsQ}) WITH ORDINALITY AS x(id, n))`.as("o"),
@@ -289,27 +282,6 @@ export async function listPage(db: Db, siteId: string, f: ListQuery, today: stri
   }
   return { rows: rows.map(({ total: _, ...r }) => r as RegisterRow), total: Number(rows[0].total) };
 }
-
-/**
- * The rows of `ids` that still match `f`, in the order of `ids` (the CSV's pages; the caller
- * selects the columns). The ids
- * drive the query as an array with its positions (`unnest … WITH ORDINALITY`), so each row is one
- * primary-key lookup and a page costs its own rows; `d.id IN (…)` let PostgreSQL scan every defect of
- * the site for each page, which made the export's time grow with the square of its rows.
- */
-export const rowsInOrder = (db: Db, siteId: string, f: ListQuery, today: string, ids: string[]) =>
-  applyFilters(
-    registerBase(db, siteId).innerJoin(
-      sql<{ id: string; n: number }>`(SELECT x.id, x.n FROM unnest(${ids}::uuid[]) WITH ORDINALITY AS x(id, n))`.as(
-        "o",
-      ),
-      (j) => j.onRef("o.id", "=", "d.id"),
-    ),
-    f,
-    today,
-    siteId,
-    true,
-  ).orderBy(sql`o.n`);
 
 /** The filtered, sorted register without paging (CSV export runs it through a cursor). */
 export const registerQuery = (db: Db, siteId: string, f: ListQuery, today: string) =>

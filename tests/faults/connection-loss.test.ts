@@ -7,6 +7,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { sql } from "kysely";
 import pg from "pg";
 import { inject } from "vitest";
+import { exportSpoolFiles, runningExports } from "../../server/export-stream";
 import { createTestDb, type TestDb } from "../helpers/db";
 import { makeCrew } from "../helpers/fixtures";
 import { Client, startTestServer, type TestServer } from "../helpers/http";
@@ -121,29 +122,34 @@ describe("when the database connection drops during a streaming CSV export", () 
     expect(body.equals(reference)).toBe(true);
   });
 
-  it("a page query killed mid-export cuts the download (never a short file that looks whole), and the server serves on", async () => {
+  it("the export's query killed before its file is complete answers 503, never a short file, leaves no file, and the server serves on", async () => {
     const url = `${server.base}/api/sites/${fx.siteId}/defects.csv?board=${boardId}`;
-    const dl = await openDownload(url, curator.cookie, { paused: true });
-    await sleep(800);
     const locker = new pg.Client({ connectionString: tdb.url });
     locker.on("error", () => {});
     await locker.connect();
     await locker.query("BEGIN");
     await locker.query("LOCK TABLE defects IN ACCESS EXCLUSIVE MODE");
-    const reading = dl.readAll();
-    reading.catch(() => {});
-    // A page is asked for once more after a dropped connection; the second drop ends the download.
-    for (let attempt = 0; attempt < 2; attempt++) {
-      const pids = await waitFor("the export's page query to wait on the lock", async () => {
-        const p = await backendsOf(admin, tdb.name, "wait_event_type = 'Lock'");
-        return p.length ? p : null;
-      });
-      await terminate(admin, pids);
-    }
-    await expect(reading).rejects.toThrow();
+    // The file is sent only once the database read is over: the answer's headers wait for it.
+    const answer = fetch(url, { headers: { cookie: curator.cookie } });
+    const pids = await waitFor("the export's query to wait on the lock", async () => {
+      const p = await backendsOf(admin, tdb.name, "wait_event_type = 'Lock'");
+      return p.length ? p : null;
+    });
+    await terminate(admin, pids);
+    const r = await answer;
+    expect(r.status).toBe(503);
+    expect(r.headers.get("content-type")).toMatch(/^application\/json/);
+    expect(r.headers.get("content-disposition")).toBeNull();
+    expect(((await r.json()) as { error: { code: string } }).error.code).toBe("db_unavailable");
     await locker.query("ROLLBACK");
     await locker.end();
+    expect(exportSpoolFiles()).toEqual([]);
+    await waitFor("the download's slot to be given back", async () => runningExports().size === 0);
     expect((await curator.get("/api/health")).status).toBe(200);
     expect((await curator.get(`/api/sites/${fx.siteId}/defects?board=${boardId}&size=5`)).body.total).toBe(5000);
+    // The next download is whole.
+    const again = await fetch(url, { headers: { cookie: curator.cookie } });
+    expect(again.status).toBe(200);
+    expect((await again.arrayBuffer()).byteLength).toBe(Number(again.headers.get("content-length")));
   });
 });

@@ -8,11 +8,13 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import pg from "pg";
 import { inject } from "vitest";
-import { runningExports } from "../../server/export-stream";
+import { request } from "node:http";
+import { poolOf } from "../../server/db";
+import { exportSpoolFiles, runningExports } from "../../server/export-stream";
 import { createTestDb, type TestDb } from "../helpers/db";
 import { makeCrew, makeUser } from "../helpers/fixtures";
 import { Client, startTestServer, type TestServer } from "../helpers/http";
-import { adminClient, backendsOf, bulkDefects, openDownload, waitFor, type Download } from "./helpers";
+import { adminClient, backendsOf, bulkDefects, openDownload, sleep, waitFor, type Download } from "./helpers";
 
 let tdb: TestDb;
 let server: TestServer;
@@ -110,5 +112,53 @@ describe("ten CSV exports that are never read", () => {
     for (const d of stalled) d.destroy();
     const again = await viewers[0].get(`/api/sites/${fx.siteId}/defects.csv?size=1&q=no-such-defect`);
     expect(again.status).toBe(200);
+  });
+});
+
+describe("a download whose reader leaves", () => {
+  const busyBackends = async () => (await backendsOf(admin, tdb.name, "state <> 'idle'")).length;
+  const nothingLeft = async () => {
+    await waitFor("the download to end on the server", async () => runningExports().size === 0, 30_000, 100);
+    await waitFor("its statement to end", async () => (await busyBackends()) === 0, 30_000, 100);
+    const pool = poolOf(tdb.db)!;
+    await waitFor("its connection to be back in the pool", async () => pool.totalCount === pool.idleCount);
+    expect(exportSpoolFiles()).toEqual([]);
+  };
+
+  it("while its file is still being read from the database: the read stops, the connection and the file are let go", async () => {
+    const viewer = server.client();
+    await viewer.signIn(fx.crew.viewer.email);
+    const locker = new pg.Client({ connectionString: tdb.url });
+    locker.on("error", () => {});
+    await locker.connect();
+    await locker.query("BEGIN");
+    await locker.query("LOCK TABLE defects IN ACCESS EXCLUSIVE MODE");
+    const req = request(`${server.base}/api/sites/${fx.siteId}/defects.csv`, {
+      headers: { cookie: viewer.cookie },
+      agent: false,
+    });
+    req.on("error", () => {});
+    req.end();
+    await waitFor("the export's query to wait on the lock", async () =>
+      (await backendsOf(admin, tdb.name, "wait_event_type = 'Lock'")).length ? true : null,
+    );
+    expect(exportSpoolFiles()).toHaveLength(1);
+    req.destroy(); // the reader leaves before a byte was sent
+    await sleep(300);
+    await locker.query("ROLLBACK");
+    await locker.end();
+    await nothingLeft();
+  });
+
+  it("while its file is being sent: the file is deleted and the slot freed", async () => {
+    const viewer = server.client();
+    await viewer.signIn(fx.crew.viewer.email);
+    const dl = await openDownload(`${server.base}/api/sites/${fx.siteId}/defects.csv`, viewer.cookie, { paused: true });
+    expect(dl.res.statusCode).toBe(200);
+    expect(Number(dl.res.headers["content-length"])).toBeGreaterThan(20_000_000);
+    expect(exportSpoolFiles()).toHaveLength(1);
+    dl.destroy();
+    await dl.closed;
+    await nothingLeft();
   });
 });

@@ -8,6 +8,9 @@ import { makeCrew } from "../helpers/fixtures";
 import { startTestServer, type Client, type TestServer } from "../helpers/http";
 import { makeBoard } from "./defects-fixtures";
 import { writeDefectsCsv } from "../../server/defects/csv";
+import { poolOf } from "../../server/db";
+import { exportSpoolFiles } from "../../server/export-stream";
+import { twoPassDefectsCsv } from "../helpers/defects-csv-two-pass";
 import { listQuery } from "../../src/schemas/defects";
 
 let t: TestDb;
@@ -285,34 +288,38 @@ describe("CSV export", () => {
   });
 });
 
-describe("CSV export over many pages", () => {
-  /** The CSV written in pages of `batch` rows straight into memory (the route writes pages of 1,000). */
-  const csvInPages = async (qs: string, batch: number, between?: (page: number) => Promise<void>, ahead = 1) => {
-    let text = "";
-    let pages = 0;
+describe("CSV export in batches", () => {
+  const filterOf = (qs: string) => {
     const params = new URLSearchParams(qs); // repeated keys as lists, as the route's query parser gives them
-    const f = listQuery.parse(
+    return listQuery.parse(
       Object.fromEntries(
         [...params.keys()].map((k) => [k, params.getAll(k).length > 1 ? params.getAll(k) : params.get(k)]),
       ),
     );
+  };
+  /** The CSV read in batches of `batch` rows straight into memory (the route reads batches of 1,000). */
+  const csvText = async (qs: string, batch: number, between?: (chunk: number) => Promise<void>, zone = "UTC") => {
+    let text = "";
+    let chunks = 0;
     await writeDefectsCsv(
       t.db,
       fx.siteId,
-      "UTC",
-      f,
+      zone,
+      filterOf(qs),
       "2027-01-10",
       {
         write: async (chunk) => {
           text += chunk;
-          await between?.(pages++);
+          await between?.(chunks++);
         },
         end() {},
       },
-      undefined,
       batch,
-      ahead,
     );
+    return text;
+  };
+  const csvInBatches = async (qs: string, batch: number, between?: (chunk: number) => Promise<void>) => {
+    const text = await csvText(qs, batch, between);
     const [header, ...rows] = Papa.parse<string[]>(text.slice(1).trimEnd()).data;
     expect(header[0]).toBe("Ref");
     return rows;
@@ -326,43 +333,50 @@ describe("CSV export over many pages", () => {
     );
     return ids.map((id) => refs.get(id));
   };
+  const VIEWS = [
+    "sort=priority&dir=desc",
+    "sort=priority&dir=asc",
+    "sort=title&dir=asc",
+    "sort=dueOn&dir=desc",
+    "sort=assignee&dir=asc",
+    "sort=priority&dir=desc&severity=impaired&severity=disabling",
+    "sort=priority&dir=desc&q=verdigris",
+    "sort=ref&dir=asc&q=1-2", // matches a position's designation, not defect text
+    "sort=ref&dir=asc&flag=pinned",
+    "sort=priority&dir=desc&flag=overdue",
+  ];
 
-  it("pages of 7 laid end to end are the register's ranked order, pins included, and its filtered and searched views", async () => {
+  it("batches of 7 laid end to end are the register's ranked order, pins included, and its filtered and searched views", async () => {
     expect(
       (await t.db.selectFrom("defectPins").select("id").where("removedAt", "is", null).execute()).length,
     ).toBeGreaterThan(0); // the pins of the ranked-order test above
-    for (const qs of [
-      "sort=priority&dir=desc",
-      "sort=priority&dir=asc",
-      "sort=title&dir=asc",
-      "sort=priority&dir=desc&severity=impaired&severity=disabling",
-      "sort=priority&dir=desc&q=verdigris",
-      "sort=ref&dir=asc&q=1-2", // matches a position's designation, not defect text
-    ]) {
+    for (const qs of VIEWS.filter((v) => !v.includes("flag="))) {
       const expected = await refsOf(await ids(`${qs}&size=200&today=2027-01-10`));
       expect(expected.length).toBeGreaterThan(0);
-      expect((await csvInPages(qs, 7)).map((r) => r[0])).toEqual(expected);
+      expect((await csvInBatches(qs, 7)).map((r) => r[0])).toEqual(expected);
     }
   });
 
-  it("reading more pages ahead (EXPORT_READ_AHEAD) writes the same rows in the same order", async () => {
-    for (const qs of ["sort=priority&dir=desc", "sort=ref&dir=asc&severity=disabling"]) {
-      const one = await csvInPages(qs, 4);
-      expect(await csvInPages(qs, 4, undefined, 3)).toEqual(one);
-    }
+  it("writes the very bytes the two-pass design wrote (ordered ids, then pages by primary key), in every view and zone", async () => {
+    for (const zone of ["UTC", "America/Halifax", "Asia/Kolkata"])
+      for (const qs of VIEWS) {
+        const before = await twoPassDefectsCsv(t.db, fx.siteId, zone, filterOf(qs), "2027-01-10");
+        expect(before.split("\r\n").length, qs).toBeGreaterThan(2);
+        expect(await csvText(qs, 7, undefined, zone), `${qs} in ${zone}`).toBe(before);
+        expect(await csvText(qs, 1000, undefined, zone), `${qs} in ${zone}`).toBe(before);
+      }
   });
 
-  it("a defect that stops matching before its page is read is left out; one that changes is written as it is then", async () => {
+  it("is one snapshot: a defect changed or filtered out once the export has begun is written as it was", async () => {
     const order = await ids("sort=ref&dir=asc&severity=disabling&size=200");
     expect(order.length).toBeGreaterThan(9);
-    // In pages of 3, with the next page read while one is written: once the first page is written the second
-    // is read, and rows 8 and 9 (the third and fourth pages) are not.
     const [gone, changed] = order.slice(8);
     const title = (await t.db.selectFrom("defects").select("title").where("id", "=", changed).executeTakeFirstOrThrow())
       .title;
+    const before = await csvInBatches("sort=ref&dir=asc&severity=disabling", 3);
     try {
-      const rows = await csvInPages("sort=ref&dir=asc&severity=disabling", 3, async (page) => {
-        if (page !== 1) return; // once the header and the first page are written
+      const rows = await csvInBatches("sort=ref&dir=asc&severity=disabling", 3, async (chunk) => {
+        if (chunk !== 1) return; // once the header and the first batch are written
         await t.db.updateTable("defects").set({ severity: "cosmetic" }).where("id", "=", gone).execute();
         await t.db
           .updateTable("defects")
@@ -370,13 +384,50 @@ describe("CSV export over many pages", () => {
           .where("id", "=", changed)
           .execute();
       });
+      expect(rows).toEqual(before);
+      const after = await csvInBatches("sort=ref&dir=asc&severity=disabling", 3);
       const [goneRef, changedRef] = await refsOf([gone, changed]);
-      expect(rows.map((r) => r[0])).toEqual((await refsOf(order)).filter((ref) => ref !== goneRef));
-      expect(rows.find((r) => r[0] === changedRef)![1]).toBe("Renamed during the export");
+      expect(after.map((r) => r[0])).toEqual(before.map((r) => r[0]).filter((ref) => ref !== goneRef));
+      expect(after.find((r) => r[0] === changedRef)![1]).toBe("Renamed during the export");
     } finally {
       await t.db.updateTable("defects").set({ severity: "disabling" }).where("id", "=", gone).execute();
       await t.db.updateTable("defects").set({ title }).where("id", "=", changed).execute();
     }
+  });
+
+  it("a writer that throws (the reader left) ends the statement and gives its connection back", async () => {
+    const pool = poolOf(t.db)!;
+    await expect(
+      csvText("sort=priority&dir=desc", 3, async (chunk) => {
+        if (chunk === 2) throw new Error("the reader left");
+      }),
+    ).rejects.toThrow("the reader left");
+    expect(pool.totalCount - pool.idleCount).toBe(0);
+    const { rows } = await sql<{ n: number }>`SELECT count(*)::int AS n FROM pg_stat_activity
+      WHERE datname = current_database() AND pid <> pg_backend_pid() AND state <> 'idle'`.execute(t.db);
+    expect(rows[0].n).toBe(0);
+    // The connection it used serves the next statement.
+    expect((await csvInBatches("sort=ref&dir=asc", 1000)).length).toBe(N);
+  });
+});
+
+describe("CSV download over HTTP", () => {
+  it("sends the file the writer makes, with its length, after the database read is over", async () => {
+    const res = await fetch(`${server.base}/api/sites/${fx.siteId}/defects.csv?sort=priority&dir=desc`, {
+      headers: { cookie: viewer.cookie },
+    });
+    expect(res.status).toBe(200);
+    expect(res.headers.get("content-disposition")).toMatch(/^attachment; filename="defects-\d{4}-\d{2}-\d{2}\.csv"$/);
+    expect(res.headers.get("content-encoding")).toBeNull();
+    const body = Buffer.from(await res.arrayBuffer());
+    expect(Number(res.headers.get("content-length"))).toBe(body.length);
+    const zone = (
+      await t.db.selectFrom("sites").select("timeZone").where("id", "=", fx.siteId).executeTakeFirstOrThrow()
+    ).timeZone;
+    const f = listQuery.parse({ sort: "priority", dir: "desc" });
+    const today = res.headers.get("content-disposition")!.match(/defects-(.+)\.csv/)![1];
+    expect(body.toString("utf8")).toBe(await twoPassDefectsCsv(t.db, fx.siteId, zone, f, today));
+    await expect.poll(() => exportSpoolFiles()).toEqual([]); // deleted once the response has ended
   });
 });
 
