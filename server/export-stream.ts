@@ -14,7 +14,7 @@
 import { randomUUID } from "node:crypto";
 import { once } from "node:events";
 import { createReadStream, createWriteStream } from "node:fs";
-import { rm, stat } from "node:fs/promises";
+import { readdir, rm, stat } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import type { RequestHandler, Response } from "express";
@@ -22,6 +22,7 @@ import type { Db } from "./db";
 import { dbFailureOf } from "./db-errors";
 import { AppError } from "./errors";
 import * as slots from "./export-repository";
+import { processAlive } from "./process-alive";
 
 const envInt = (name: string, fallback: number) => {
   const v = Number(process.env[name]);
@@ -193,6 +194,21 @@ export async function runExport(res: Response, body: (out: ExportWriter) => Prom
 /** Where spooled downloads wait to be sent (EXPORT_SPOOL_DIR, default the system's temporary directory). */
 const spoolDir = () => process.env.EXPORT_SPOOL_DIR || tmpdir();
 
+/**
+ * Removes spool files whose process is gone (killed mid-download: its `finally` never ran). Called once at
+ * start, before any download of this process; files of other running instances sharing the folder are kept.
+ */
+export async function removeSpoolLeftovers(dir = spoolDir()): Promise<string[]> {
+  const removed: string[] = [];
+  for (const name of await readdir(dir).catch(() => [] as string[])) {
+    const m = /^tideline-export-(\d+)-[\w-]+\.part$/.exec(name);
+    if (!m || (Number(m[1]) !== process.pid && processAlive(Number(m[1])))) continue;
+    await rm(join(dir, name), { force: true });
+    removed.push(name);
+  }
+  return removed;
+}
+
 /** Spool files this process holds now (for tests: each is gone once its download ends, however it ends). */
 const spoolFiles = new Set<string>();
 export const exportSpoolFiles = () => [...spoolFiles];
@@ -213,7 +229,7 @@ export async function runSpooledExport(
   headers: Record<string, string>,
   body: (out: ExportWriter) => Promise<void>,
 ) {
-  const path = join(spoolDir(), `tideline-export-${randomUUID()}.part`);
+  const path = join(spoolDir(), `tideline-export-${process.pid}-${randomUUID()}.part`);
   spoolFiles.add(path);
   let gone = res.destroyed;
   const onClose = () => (gone = true);
@@ -236,13 +252,20 @@ export async function runSpooledExport(
     for (const [name, value] of Object.entries(headers)) res.setHeader(name, value);
     res.setHeader("Content-Length", String((await stat(path)).size));
     const out = exportWriter(res);
+    // The slot is freed before the last piece goes out: with a Content-Length the reader has the whole file
+    // (and may ask for the next one) as soon as that piece arrives, before the response ends.
     const rs = createReadStream(path, { highWaterMark: 256 * 1024 });
+    let last: Buffer | undefined;
     try {
-      for await (const chunk of rs) await out.write(chunk as Buffer);
+      for await (const chunk of rs) {
+        if (last) await out.write(last);
+        last = chunk as Buffer;
+      }
     } finally {
       rs.destroy();
     }
     await res.locals.releaseExportSlot?.();
+    if (last) await out.write(last);
     out.end();
   } catch (e) {
     if (e instanceof ExportAborted) return;

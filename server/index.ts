@@ -8,6 +8,7 @@ import type { Server } from "node:http";
 import { join } from "node:path";
 import { createApp } from "./app";
 import { createDb, type Db } from "./db";
+import { removeSpoolLeftovers } from "./export-stream";
 import { workerEnabled, type Jobs } from "./jobs";
 import { startJobs } from "./jobs/registry";
 import { log } from "./log";
@@ -39,6 +40,8 @@ export async function serve(opts: {
     if (removed.length)
       log.info({ files: removed.length }, "removed partial photo files left by an interrupted upload");
   }
+  const spooled = await removeSpoolLeftovers();
+  if (spooled.length) log.info({ files: spooled.length }, "removed download files left by a stopped process");
   const jobs = await startJobs(
     { db: opts.db, mailer: mail.mailer, publicUrl: mail.publicUrl, photoStorage },
     { work: opts.work ?? workerEnabled() },

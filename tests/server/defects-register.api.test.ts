@@ -8,7 +8,8 @@ import { makeCrew } from "../helpers/fixtures";
 import { startTestServer, type Client, type TestServer } from "../helpers/http";
 import { makeBoard } from "./defects-fixtures";
 import { writeDefectsCsv } from "../../server/defects/csv";
-import { poolOf } from "../../server/db";
+import { createDb, poolOf } from "../../server/db";
+import { dbFailureOf } from "../../server/db-errors";
 import { exportSpoolFiles } from "../../server/export-stream";
 import { twoPassDefectsCsv } from "../helpers/defects-csv-two-pass";
 import { listQuery } from "../../src/schemas/defects";
@@ -408,6 +409,26 @@ describe("CSV export in batches", () => {
     expect(rows[0].n).toBe(0);
     // The connection it used serves the next statement.
     expect((await csvInBatches("sort=ref&dir=asc", 1000)).length).toBe(N);
+  });
+  it("holds its connection no longer than the statement timeout: a writer slower than that fails the read, 503 db_timeout", async () => {
+    const slow = createDb(t.url, { max: 2, statementTimeoutMs: 400 });
+    try {
+      let err: unknown;
+      await writeDefectsCsv(
+        slow,
+        fx.siteId,
+        "UTC",
+        filterOf("sort=ref&dir=asc"),
+        "2027-01-10",
+        { write: () => new Promise((r) => setTimeout(r, 150)), end() {} },
+        3,
+      ).catch((e) => (err = e));
+      expect(dbFailureOf(err)).toBe("timeout");
+      const pool = poolOf(slow)!;
+      expect(pool.totalCount - pool.idleCount).toBe(0);
+    } finally {
+      await slow.destroy();
+    }
   });
 });
 

@@ -15,16 +15,8 @@ import {
 } from "node:fs/promises";
 import { dirname, join, relative, resolve, sep } from "node:path";
 import type { Readable } from "node:stream";
+import { processAlive } from "../../process-alive";
 import { StorageNotFound, type PhotoStorage } from "./index";
-
-function processAlive(pid: number) {
-  try {
-    process.kill(pid, 0);
-    return true;
-  } catch (e) {
-    return (e as NodeJS.ErrnoException).code === "EPERM"; // alive, but not ours to signal
-  }
-}
 
 /** Photos as files under one folder (the embedded default: .data/photos). */
 export class LocalDiskStorage implements PhotoStorage {
