@@ -14,7 +14,7 @@
 import { randomUUID } from "node:crypto";
 import { once } from "node:events";
 import { createReadStream, createWriteStream } from "node:fs";
-import { readdir, rm, stat } from "node:fs/promises";
+import { mkdir, readdir, rm, stat } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import type { RequestHandler, Response } from "express";
@@ -229,7 +229,9 @@ export async function runSpooledExport(
   headers: Record<string, string>,
   body: (out: ExportWriter) => Promise<void>,
 ) {
-  const path = join(spoolDir(), `tideline-export-${process.pid}-${randomUUID()}.part`);
+  const dir = spoolDir();
+  await mkdir(dir, { recursive: true }); // a folder named in EXPORT_SPOOL_DIR, or a temporary one cleaned away
+  const path = join(dir, `tideline-export-${process.pid}-${randomUUID()}.part`);
   spoolFiles.add(path);
   let gone = res.destroyed;
   const onClose = () => (gone = true);

@@ -1,3 +1,6 @@
+import { mkdtemp, readdir, rm } from "node:fs/promises";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
 import Papa from "papaparse";
 import { sql } from "kysely";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
@@ -286,6 +289,25 @@ describe("CSV export", () => {
     const rows = Papa.parse<string[]>((await res.text()).trimEnd()).data; // Response.text() drops the BOM;
     expect(rows).toHaveLength(2);
     expect(rows[1][1]).toBe('\'=HYPERLINK("http://x")');
+  });
+
+  it("makes its spool folder when EXPORT_SPOOL_DIR names one that does not exist yet", async () => {
+    const root = await mkdtemp(join(tmpdir(), "tideline-spool-test-"));
+    const before = process.env.EXPORT_SPOOL_DIR;
+    process.env.EXPORT_SPOOL_DIR = join(root, "not", "made", "yet");
+    try {
+      const res = await fetch(`${server.base}/api/sites/${fx.siteId}/defects.csv?sort=ref&dir=asc`, {
+        headers: { cookie: viewer.cookie },
+      });
+      expect(res.status).toBe(200);
+      expect(Papa.parse<string[]>((await res.text()).trimEnd()).data).toHaveLength(N + 1);
+      const dir = process.env.EXPORT_SPOOL_DIR;
+      await expect.poll(() => readdir(dir)).toEqual([]); // made, used, and emptied once the download ended
+    } finally {
+      if (before === undefined) delete process.env.EXPORT_SPOOL_DIR;
+      else process.env.EXPORT_SPOOL_DIR = before;
+      await rm(root, { recursive: true, force: true });
+    }
   });
 });
 
