@@ -53,8 +53,10 @@ function asKept(q: Dehydrated): Dehydrated {
 export interface KeptIndex {
   kept: Map<string, number>;
   tooLarge: Map<string, number>;
+  /** When the written copy was taken (the persisted client's timestamp): a read newer than it is not on the phone. */
+  at: number;
 }
-const emptyIndex = (): KeptIndex => ({ kept: new Map(), tooLarge: new Map() });
+const emptyIndex = (at = 0): KeptIndex => ({ kept: new Map(), tooLarge: new Map(), at });
 
 /**
  * Where the main thread's time goes while a write is cut into pieces: `spent()` says the current piece has had its
@@ -181,7 +183,7 @@ async function prepareSliced(client: PersistedClient, s: Slicer): Promise<void> 
 export function serializeBounded(client: PersistedClient): { text: string; index: KeptIndex } {
   const queries = [...client.clientState.queries].sort((a, b) => b.state.dataUpdatedAt - a.state.dataUpdatedAt);
   const kept: string[] = [];
-  const index = emptyIndex();
+  const index = emptyIndex(client.timestamp);
   let bytes = 200;
   for (const q of queries) {
     const json = queryJson(q);
@@ -308,7 +310,7 @@ export const persister: Persister = {
   restoreClient: async () => {
     const c = await throttled.restoreClient();
     if (c) {
-      const index = emptyIndex();
+      const index = emptyIndex(c.timestamp);
       for (const q of c.clientState.queries) index.kept.set(q.queryHash, q.state.dataUpdatedAt);
       commit(index);
     }
@@ -342,7 +344,10 @@ export function keptState(qc: QueryClient): KeptState {
   let tooLarge = 0;
   let kept = 0;
   for (const q of qc.getQueryCache().getAll()) {
-    if (!KEPT_ROOTS.has(String(q.queryKey[0])) || !q.getObserversCount()) continue;
+    if (!KEPT_ROOTS.has(String(q.queryKey[0]))) continue;
+    // A read no part of the page shows now (a tab left, a list closed) still counts while it is newer than the
+    // copy on the phone: it was read on this page and will be written with the next copy (or left out of it).
+    if (!q.getObserversCount() && !(q.state.data !== undefined && q.state.dataUpdatedAt > committed.at)) continue;
     if (q.state.data === undefined) {
       if (q.state.fetchStatus === "fetching") keeping += 1;
       continue;

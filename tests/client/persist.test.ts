@@ -1,10 +1,12 @@
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
+import { QueryClient, QueryObserver } from "@tanstack/react-query";
 import type { PersistedClient } from "@tanstack/react-query-persist-client";
 import {
   MAX_BYTES,
   boundedSerialize,
   serializeBounded,
+  keptState,
   serializeInPieces,
   shouldKeepQuery,
 } from "../../src/app/persist";
@@ -144,5 +146,18 @@ describe("the reads kept on the phone (src/app/persist.ts)", () => {
     expect(JSON.parse(boundedSerialize(client([changed]))).clientState.queries[0].state.data).toEqual({
       positions: [{ id: "p0", grade: 9 }],
     });
+  });
+
+  it("a read the page no longer shows (a tab left) still counts as not kept until a copy newer than it is written", () => {
+    // No copy has been written in this test process (nothing stored): every kept read with data is still to keep.
+    const qc = new QueryClient();
+    qc.setQueryData(["inventory", "s", "custody-options", "c"], { choices: ["bench"] }); // no observer: a tab left
+    const shown = new QueryObserver(qc, { queryKey: ["inventory", "s", "board", "b"], enabled: false });
+    const stop = shown.subscribe(() => {});
+    qc.setQueryData(["inventory", "s", "board", "b"], { positions: [] });
+    qc.setQueryData(["parts", "s", "list"], { rows: [] }); // not a kept root: never counted
+    expect(keptState(qc)).toEqual({ keeping: 2, tooLarge: 0, kept: 0 });
+    stop();
+    qc.clear();
   });
 });
