@@ -73,16 +73,20 @@ export default function PartsListPage() {
             Set a component's disposition to replace or source, mark a defect's parts as wanted, or add a part by hand.
           </EmptyState>
         ))}
-      {canEdit && <NewLineForm siteId={site.id} />}
-      <div className="grid gap-4 lg:grid-cols-2">
-        {list.data && (
-          <BudgetPanel
-            budget={list.data.budget}
-            settings={<CurrencyForm siteId={site.id} currency={site.currency} canEdit={can(role, "site.settings")} />}
-          />
-        )}
-        {canEdit && <ShareLinksPanel siteId={site.id} canRevoke={can(role, "parts.revoke_share")} />}
-      </div>
+      {/* What sits below the list waits for it: drawn above a list still loading, it would be pushed down the
+          screen when the rows arrive (a layout shift on the phone). */}
+      {list.data && (
+        <>
+          {canEdit && <NewLineForm siteId={site.id} />}
+          <div className="grid gap-4 lg:grid-cols-2">
+            <BudgetPanel
+              budget={list.data.budget}
+              settings={<CurrencyForm siteId={site.id} currency={site.currency} canEdit={can(role, "site.settings")} />}
+            />
+            {canEdit && <ShareLinksPanel siteId={site.id} canRevoke={can(role, "parts.revoke_share")} />}
+          </div>
+        </>
+      )}
     </div>
   );
 }
