@@ -296,6 +296,10 @@ export async function renderFile(deps: PreparedDeps, data: { fileId: string }, c
       // This attempt was overtaken (a newer attempt, or the file was asked for again): drop its object.
       await deps.photoStorage.delete(key).catch(() => {});
       ctx.log.info({ fileId: claimed.id, attempt }, "prepared file attempt overtaken; its object removed");
+    } else {
+      // An earlier attempt's process can die after its upload left it (kill -9, a lost host): the object can still
+      // land in the store, referenced by no row, so the purge would never find it. The attempt that won removes them.
+      for (let k = 1; k < attempt; k++) await deps.photoStorage.delete(keyOf(claimed, k, claimed.kind)).catch(() => {});
     }
   } catch (e) {
     await deps.photoStorage.delete(key).catch(() => {});
