@@ -120,19 +120,24 @@ async function qualify(userId: string, expiresOn: string | null = "2099-12-31") 
   expect(r.status).toBe(200);
 }
 
+/** A stage a curator may plan, as the form sends it. */
+const stageBody = () => ({
+  name: "Power distribution from the temporary feed",
+  sectionIds: [sectionId],
+  supply: "temporary_fused",
+  protectionDevice: "Fused disconnect",
+  protectionRatingA: 20,
+  protectionLimitA: 30,
+  voltageStep: "full",
+  stepVolts: 450,
+  qualifiedPersonId: fx.crew.curator.id,
+  watchHours: 8,
+  checkEveryHours: 2,
+});
+
 async function newStage(body: Record<string, unknown> = {}) {
   const r = await as.curator.post(`${site()}/boards/${boardId}/return-to-service/stages`, {
-    name: "Power distribution from the temporary feed",
-    sectionIds: [sectionId],
-    supply: "temporary_fused",
-    protectionDevice: "Fused disconnect",
-    protectionRatingA: 20,
-    protectionLimitA: 30,
-    voltageStep: "full",
-    stepVolts: 450,
-    qualifiedPersonId: fx.crew.curator.id,
-    watchHours: 8,
-    checkEveryHours: 2,
+    ...stageBody(),
     ...body,
   });
   expect(r.status, JSON.stringify(r.body)).toBe(201);
@@ -179,17 +184,7 @@ describe("roles", () => {
       ["protectionDevice", "Fused \ud800disconnect"],
       ["notes", "dry\u0000"],
     ] as const) {
-      const r = await as.curator.post(url, {
-        name: "Steering gear",
-        sectionIds: [sectionId],
-        supply: "temporary_fused",
-        protectionDevice: "Fused disconnect",
-        protectionRatingA: 20,
-        protectionLimitA: 30,
-        voltageStep: "full",
-        stepVolts: 450,
-        [field]: value,
-      });
+      const r = await as.curator.post(url, { ...stageBody(), [field]: value });
       expect(r.status, `${field}: ${JSON.stringify(r.body)}`).toBe(400);
       expect(r.body.error.fields, `${field}: ${JSON.stringify(r.body)}`).toHaveProperty(field);
     }
