@@ -848,8 +848,22 @@ export interface BoardSummariesTable {
   n: number;
 }
 
+/**
+ * How many defects each (site, board, status, severity) holds, kept by triggers on `defects` in the same
+ * statement as each write (migration 2026_12_09_0100); the register's total reads it. Owned by the
+ * defects domain; nothing but those triggers writes it.
+ */
+export interface DefectTalliesTable {
+  siteId: string;
+  boardId: string;
+  status: string;
+  severity: string;
+  n: number;
+}
+
 export interface Database {
   boardSummaries: BoardSummariesTable;
+  defectTallies: DefectTalliesTable;
   preparedFiles: PreparedFilesTable;
   exportSlots: ExportSlotsTable;
   idempotencyKeys: IdempotencyKeysTable;

@@ -24,6 +24,23 @@ function countBase(db: Db, siteId: string, f: ListQuery) {
     : q;
 }
 
+/**
+ * A sorted page's ids need only the joins its sort and filters name: the board for "board", the position
+ * for "position", the assignee for "assignee", the pin for the "pinned" flag. Without the others the
+ * planner can walk a (site_id, key) index in order and stop at the page (the board's inner join drops
+ * no row: `defects.board_id` is NOT NULL and references boards), instead of joining every defect first
+ * and sorting the lot.
+ */
+function sortedIdsBase(db: Db, siteId: string, f: ListQuery) {
+  // The sort expressions name these aliases; each join is left out when its alias is not used.
+  // eslint-disable-next-line @typescript-eslint/no-explicit-any -- see DefectsQuery below
+  let q: any = countBase(db, siteId, f);
+  if (f.sort === "board") q = q.innerJoin("boards as b", "b.id", "d.boardId");
+  if (f.sort === "position") q = q.leftJoin("positions as p", "p.id", "d.positionId");
+  if (f.sort === "assignee") q = q.leftJoin("users as a", "a.id", "d.assigneeId");
+  return q as DefectsQuery;
+}
+
 export const ROW_COLUMNS = [
   "d.id",
   "d.ref",
@@ -164,6 +181,18 @@ const SORT_EXPR: Record<Exclude<SortKey, "priority">, ReturnType<typeof sql>> = 
   updatedAt: sql`d.updated_at`,
 };
 
+/** Sort keys whose expression is never NULL (NOT NULL columns; severity and status are checked against the lists). */
+const NEVER_NULL = new Set<SortKey>([
+  "ref",
+  "title",
+  "board",
+  "category",
+  "severity",
+  "status",
+  "createdAt",
+  "updatedAt",
+]);
+
 /**
  * ORDER BY for a register sort. "priority desc" is the ranked order (highest first);
  * every other key sorts its column with blanks last, then by reference for a stable page.
@@ -175,12 +204,35 @@ export function applySort<QB extends DefectsQuery>(qb: QB, sort: SortKey, dir: "
     for (const [e, d] of RANK_KEYS) out = out.orderBy(sql`${e} ${sql.raw(dir === "desc" ? d : flip(d))}`);
     return out as QB;
   }
-  const d = dir === "asc" ? sql`ASC NULLS LAST` : sql`DESC NULLS LAST`;
+  // A key that is never NULL sorts the same with or without NULLS LAST; left out, a plain (site_id, key, ref)
+  // index serves both directions (forward for ASC, backward for DESC), a page then being an index walk.
+  const nulls = NEVER_NULL.has(sort) ? sql`` : sql` NULLS LAST`;
+  const d = dir === "asc" ? sql`ASC${nulls}` : sql`DESC${nulls}`;
   return q.orderBy(sql`${SORT_EXPR[sort]} ${d}`).orderBy(sql`d.ref ${dir === "asc" ? sql`ASC` : sql`DESC`}`) as QB;
 }
 
-const countQuery = (db: Db, siteId: string, f: ListQuery, today: string) =>
-  applyFilters(countBase(db, siteId, f), f, today, siteId).select((eb) => eb.fn.countAll<number>().as("n"));
+/** True when `f` filters by nothing but board, status and severity: the keys `defect_tallies` keeps. */
+const tallied = (f: ListQuery) => !f.q && !f.category.length && !f.assignee.length && !f.flag.length;
+
+/**
+ * How many defects match `f`. Filtered by nothing but board, status and severity (the default view,
+ * a board's or a status's view), it is the sum of `defect_tallies`' rows — kept by triggers on every
+ * write of `defects`, so exact — at most boards × 7 × 4 rows a site however many defects it holds.
+ * Any other filter counts the matching defects.
+ */
+function countQuery(db: Db, siteId: string, f: ListQuery, today: string) {
+  if (tallied(f)) {
+    let q = db
+      .selectFrom("defectTallies as dt")
+      .where("dt.siteId", "=", siteId)
+      .select(sql<number>`coalesce(sum(dt.n), 0)::int`.as("n"));
+    if (f.board.length) q = q.where("dt.boardId", "in", f.board);
+    if (f.status.length) q = q.where("dt.status", "in", f.status);
+    if (f.severity.length) q = q.where("dt.severity", "in", f.severity);
+    return q;
+  }
+  return applyFilters(countBase(db, siteId, f), f, today, siteId).select((eb) => eb.fn.countAll<number>().as("n"));
+}
 
 /** How many defects match `f` (a CSV's progress). */
 export const registerCount = async (db: Db, siteId: string, f: ListQuery, today: string) =>
@@ -214,12 +266,29 @@ function rankedPageIds(db: Db, siteId: string, f: ListQuery, today: string) {
     sql`d.id`,
     sql`NULL::uuid`,
   ];
+  // "No active pin" as NOT EXISTS: an anti join by nested loop keeps the index's order, so the LIMIT stops
+  // the walk after the page. (As a left join filtered on pin.id IS NULL the planner hashed it, which loses
+  // the order, and sorted every defect of the site.) The "pinned" flag needs pin in scope: no row here.
   const own = applyFilters(
-    db
-      .selectFrom("defects as d")
-      .leftJoin("defectPins as pin", (j) => j.onRef("pin.defectId", "=", "d.id").on("pin.removedAt", "is", null))
-      .where("d.siteId", "=", siteId)
-      .where("pin.id", "is", null),
+    f.flag.includes("pinned")
+      ? db
+          .selectFrom("defects as d")
+          .leftJoin("defectPins as pin", (j) => j.onRef("pin.defectId", "=", "d.id").on("pin.removedAt", "is", null))
+          .where("d.siteId", "=", siteId)
+          .where("pin.id", "is", null)
+      : db
+          .selectFrom("defects as d")
+          .where("d.siteId", "=", siteId)
+          .where(({ not, exists, selectFrom }) =>
+            not(
+              exists(
+                selectFrom("defectPins as np")
+                  .select("np.id")
+                  .whereRef("np.defectId", "=", "d.id")
+                  .where("np.removedAt", "is", null),
+              ),
+            ),
+          ),
     f,
     today,
     siteId,
@@ -261,7 +330,7 @@ export async function listPage(db: Db, siteId: string, f: ListQuery, today: stri
   const idsQ =
     f.sort === "priority"
       ? rankedPageIds(db, siteId, f, today)
-      : applySort(applyFilters(registerBase(db, siteId), f, today, siteId), f.sort, f.dir)
+      : applySort(applyFilters(sortedIdsBase(db, siteId, f), f, today, siteId), f.sort, f.dir)
           .select("d.id")
           .limit(f.size)
           .offset(f.page * f.size);

@@ -34,6 +34,7 @@ const OWNERS: Record<string, string> = {
   defectStatusChanges: "server/defects/",
   defectViews: "server/defects/",
   defectReadings: "server/defects/",
+  defectTallies: "server/defects/", // written only by its triggers on defects (migration 2026_12_09_0100)
   photos: "server/photos/",
   photoSettings: "server/photos/",
   invitations: "server/invitations/",
