@@ -79,6 +79,10 @@ export function createApp(deps: AppDeps) {
   const { db } = deps;
   const app = express();
   app.disable("x-powered-by");
+  // No ETag on what res.send/res.json answer: every API answer is no-store (below), so no browser or proxy keeps a
+  // copy to revalidate, and Express would hash every body for nothing (SHA-1 of 226 kB: 0.13 ms a request).
+  // Static files keep theirs (serve-static sets its own).
+  app.set("etag", false);
   if (deps.trustProxy) app.set("trust proxy", 1);
   const lucia = createLucia(db);
   const photoStorage = deps.photoStorage ?? storageFromEnv();

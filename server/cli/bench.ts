@@ -8,7 +8,8 @@
  *   and the wanted list.
  * - The server runs as its own process (`server/index.ts`, production mode, the app's pool of
  *   DATABASE_POOL_MAX), so its memory and event loop are its own.
- * - Endpoints: each list and summary endpoint over HTTP (signed in, body read in full) against the
+ * - Endpoints: each list and summary endpoint over HTTP (signed in, asking for compression as a browser does, body
+ *   read and decompressed in full; bytes on the wire reported) against the
  *   same statements replayed with the bare pg driver (server/bench/replay.ts); per run the p50 of
  *   each, and their ratio; printed as median [min–max] over BENCH_RUNS runs (default 3).
  * - Load: `--clients=N` (BENCH_CLIENTS, default 50) clients on the register (default view, search,
@@ -39,6 +40,7 @@ import { createServer } from "node:net";
 import { cpus, totalmem } from "node:os";
 import { join } from "node:path";
 import { Agent, request } from "node:http";
+import { createBrotliDecompress, createGunzip, createInflate } from "node:zlib";
 import pg from "pg";
 import { openLocalDatabase } from "../../db/local";
 import { migrateToLatest } from "../../db/migrate";
@@ -170,6 +172,9 @@ interface Case {
   group: "register" | "summary";
   plan?: Replay;
   bytes?: number;
+  /** Bytes on the wire and the encoding the server chose, from the measured server's last answer. */
+  wire?: number;
+  encoding?: string;
 }
 
 function cases(site: BenchSite, deepPage: number): Case[] {
@@ -201,23 +206,59 @@ function cases(site: BenchSite, deepPage: number): Case[] {
 
 const keepAlive = new Agent({ keepAlive: true, maxSockets: 1 });
 
-/** GET with node:http on a keep-alive agent (one connection per agent = one client); the body is read whole. */
+/**
+ * Every request of the bench asks for compression as a browser does (a browser always sends Accept-Encoding), so
+ * the endpoint and load cases carry the server's compression and the client's decompression, and count the bytes
+ * that crossed the wire beside the JSON's own.
+ */
+const ACCEPT_ENCODING = "gzip, deflate, br";
+
+/** The decoder for a Content-Encoding the bench asked for (none for an answer sent as it is). */
+function decoderFor(encoding: string) {
+  if (encoding === "br") return createBrotliDecompress();
+  if (encoding === "gzip") return createGunzip();
+  if (encoding === "deflate") return createInflate();
+  return null;
+}
+
+interface Got {
+  ms: number;
+  /** The body's own bytes (after decompression). */
+  bytes: number;
+  /** The bytes that crossed the wire (the body as sent, compressed or not; headers not counted). */
+  wire: number;
+  /** The Content-Encoding the server chose ("identity" when none). */
+  encoding: string;
+}
+
+/**
+ * GET with node:http on a keep-alive agent (one connection per agent = one client); the body is read whole and
+ * decompressed, and the time runs until the last decoded byte, as a browser's fetch resolves its JSON.
+ */
 function timedGet(base: string, path: string, cookie: string | null, agent: Agent = keepAlive) {
   const a = performance.now();
-  return new Promise<{ ms: number; bytes: number }>((resolve, reject) => {
-    const req = request(`${base}${path}`, { agent, headers: cookie ? { cookie } : {} }, (res) => {
+  return new Promise<Got>((resolve, reject) => {
+    const headers: Record<string, string> = { "accept-encoding": ACCEPT_ENCODING };
+    if (cookie) headers.cookie = cookie;
+    const req = request(`${base}${path}`, { agent, headers }, (res) => {
+      const encoding = String(res.headers["content-encoding"] ?? "identity");
+      const decoder = decoderFor(encoding);
+      let wire = 0;
       let bytes = 0;
       const head: Buffer[] = [];
-      res.on("data", (c: Buffer) => {
+      res.on("data", (c: Buffer) => (wire += c.length));
+      res.on("error", reject);
+      const body = decoder ? res.pipe(decoder) : res;
+      body.on("data", (c: Buffer) => {
         bytes += c.length;
         if (head.length < 1) head.push(c);
       });
-      res.on("end", () =>
+      body.on("end", () =>
         res.statusCode === 200
-          ? resolve({ ms: performance.now() - a, bytes })
+          ? resolve({ ms: performance.now() - a, bytes, wire, encoding })
           : reject(new Error(`${path} answered ${res.statusCode}: ${Buffer.concat(head).toString().slice(0, 200)}`)),
       );
-      res.on("error", reject);
+      if (decoder) decoder.on("error", reject);
     });
     req.on("error", reject);
     req.end();
@@ -309,6 +350,8 @@ async function main() {
           try {
             for (let i = 0; i < N + 2; i++) {
               const h = await timedGet(base, c.path, cookie);
+              c.wire = h.wire;
+              c.encoding = h.encoding;
               const a = performance.now();
               await replay(raw, c.plan!);
               const r = performance.now() - a;
@@ -328,17 +371,18 @@ async function main() {
         }
       }
       say(
-        `\n1. Endpoints vs the same statements replayed raw (pg) — p50 per run of ${N} requests; median [min–max] over ${RUNS} runs`,
+        `\n1. Endpoints vs the same statements replayed raw (pg) — p50 per run of ${N} requests; median [min–max] over ${RUNS} runs; every request sends Accept-Encoding: ${ACCEPT_ENCODING} as a browser does, times the body read and decompressed whole; "wire kB" is the body as sent and the encoding the server chose`,
       );
       say(
         table(
-          ["endpoint", "stmts", "JSON kB", "endpoint p50 ms", "raw SQL p50 ms", "ratio"],
+          ["endpoint", "stmts", "JSON kB", "wire kB", "endpoint p50 ms", "raw SQL p50 ms", "ratio"],
           list.map((c) => {
             const f = perCase.get(c.label)!;
             return [
               c.label,
               String(c.plan!.count),
               (c.bytes! / 1024).toFixed(0),
+              c.wire === undefined ? "–" : `${(c.wire / 1024).toFixed(1)} ${c.encoding}`,
               spread(f.http),
               spread(f.raw),
               spread(f.ratio, 2),

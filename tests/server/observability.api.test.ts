@@ -12,6 +12,7 @@ import { Writable } from "node:stream";
 import { sql } from "kysely";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createLogger, log, requestContext } from "../../server/log";
+import { newRequestId } from "../../server/observability/http";
 import { LocalDiskStorage } from "../../server/photos/storage/local-disk";
 import { createTestDb, type TestDb } from "../helpers/db";
 import { makeCrew } from "../helpers/fixtures";
@@ -102,6 +103,26 @@ describe("request ids", () => {
     expect(done).toMatchObject({ method: "POST", path: `/api/sites/${fx.siteId}/boards`, level: 40 });
     expect(typeof done!.responseTime).toBe("number");
     expect(JSON.stringify(lines)).not.toContain("tideline_session="); // cookies never reach the log
+    // The request and response objects are neither logged nor serialized (no req/res key on any line).
+    expect(mine.every((l) => !("req" in l) && !("res" in l))).toBe(true);
+  });
+
+  it("request ids use only the 31 readable characters, each of them, and do not repeat", () => {
+    const ids = Array.from({ length: 3000 }, () => newRequestId());
+    expect(ids.every((id) => /^[23456789abcdefghjkmnpqrstuvwxyz]{12}$/.test(id))).toBe(true);
+    expect(new Set(ids).size).toBe(ids.length);
+    // 36,000 characters drawn: each of the 31 should appear about 1,161 times; none may be missing or dominate.
+    const counts = new Map<string, number>();
+    for (const c of ids.join("")) counts.set(c, (counts.get(c) ?? 0) + 1);
+    expect(counts.size).toBe(31);
+    for (const n of counts.values()) expect(n).toBeGreaterThan(900);
+    for (const n of counts.values()) expect(n).toBeLessThan(1450);
+  });
+
+  it("API answers carry no ETag (they are no-store; nothing would revalidate it)", async () => {
+    const r = await as.curator.get(`/api/sites/${fx.siteId}/boards`);
+    expect(r.headers.get("cache-control")).toBe("no-store");
+    expect(r.headers.get("etag")).toBeNull();
   });
 
   it("a line logged by the plain logger inside a request (a service, a job enqueue) gets the request's id too", () => {
