@@ -452,6 +452,26 @@ export interface PartLineHistoryTable {
   at: Timestamp;
 }
 
+/** What one line adds to one board's budget ('' = not tied to a board): kept by server/parts/budget-repository.ts. */
+export interface PartBudgetSharesTable {
+  lineId: string;
+  siteId: string;
+  board: string;
+  estimated: number;
+  spent: number;
+  unestimated: number;
+}
+
+/** The sums of the shares per site and board, and how many shares there are: kept by server/parts/budget-repository.ts. */
+export interface PartBudgetBoardsTable {
+  siteId: string;
+  board: string;
+  estimated: number;
+  spent: number;
+  unestimatedLines: number;
+  shares: number;
+}
+
 /** A public read-only link to the wanted list; only the SHA-256 of its token is stored. */
 export interface PartShareLinksTable {
   id: Generated<string>;
@@ -893,6 +913,8 @@ export interface Database {
   partAcquisitions: PartAcquisitionsTable;
   partLineHistory: PartLineHistoryTable;
   partShareLinks: PartShareLinksTable;
+  partBudgetShares: PartBudgetSharesTable;
+  partBudgetBoards: PartBudgetBoardsTable;
   photoSettings: PhotoSettingsTable;
   defectPins: DefectPinsTable;
   defectStatusChanges: DefectStatusChangesTable;

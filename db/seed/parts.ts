@@ -5,7 +5,7 @@
  */
 import type { Kysely } from "kysely";
 import type { Database } from "../types";
-import { reconcileDemand } from "../../server/parts/service";
+import { rebuildBudget, reconcileDemand } from "../../server/parts/service";
 import { needKey } from "../../src/domain/part-workflow";
 import type { SeedContext } from "./demo";
 
@@ -152,4 +152,6 @@ export async function seedParts(trx: Db, ctx: SeedContext) {
         .execute();
     }
   }
+  // The lines, leads and purchases above were written directly: count the kept budget from them.
+  await rebuildBudget(trx, ctx.siteId);
 }

@@ -13,6 +13,7 @@ import { needKey, needMatchesLine } from "../../src/domain/part-workflow";
 import { COMPONENT_KINDS, type ComponentKind, type PartStatus } from "../../src/domain/vocab";
 import { recordAuditMany, type AuditEntry } from "../audit";
 import type { Db } from "../db";
+import { refreshBudget } from "./budget-repository";
 import * as repo from "./repository";
 
 interface Need {
@@ -64,8 +65,12 @@ export const lineSpec = (
   mustMatch: l.mustMatch ?? undefined,
 });
 
-/** What changed: the whole site, or some components and/or defects. */
-export type DemandScope = "site" | { componentIds?: readonly string[]; defectIds?: readonly string[] };
+/**
+ * What changed: the whole site, or some components and/or defects; `lineIds` names lines whose links
+ * went away with their source (a deleted position), so their budget is counted again.
+ */
+export type DemandScope =
+  "site" | { componentIds?: readonly string[]; defectIds?: readonly string[]; lineIds?: readonly string[] };
 
 const sourceId = (s: Need["source"]) => s.componentId ?? s.defectId!;
 
@@ -148,8 +153,10 @@ export async function syncDemand(
   scope: DemandScope,
   actorId: string | null = null,
 ): Promise<{ created: number; linked: number; withdrawn: number }> {
-  if (scope !== "site" && !scope.componentIds?.length && !scope.defectIds?.length)
+  if (scope !== "site" && !scope.componentIds?.length && !scope.defectIds?.length) {
+    await refreshBudget(trx, siteId, scope.lineIds ?? []);
     return { created: 0, linked: 0, withdrawn: 0 };
+  }
   await repo.lockSiteParts(trx, siteId);
   const needs = await collectNeeds(trx, siteId, scope);
   const rideTargets = [...new Set(needs.flatMap((n) => (n.ridesWith ? [n.ridesWith] : [])))];
@@ -261,7 +268,18 @@ export async function syncDemand(
     if (l.active && !l.fitted && inScope(l) && !wantedIds.has(l.componentId ?? l.defectId!))
       withdrawals.push({ link: l, why: "its source no longer asks for a part" });
 
-  await write(trx, siteId, actorId, { withdrawals, attachments, newLines: newLines.map((x) => x.line) });
+  const closed = await write(trx, siteId, actorId, {
+    withdrawals,
+    attachments,
+    newLines: newLines.map((x) => x.line),
+  });
+  // Every line whose links, status or quantity moved (new lines too) has its budget counted again, last.
+  await refreshBudget(trx, siteId, [
+    ...withdrawals.map((w) => w.link.lineId),
+    ...attachments.map((a) => a.line.id),
+    ...closed,
+    ...(scope === "site" ? [] : (scope.lineIds ?? [])),
+  ]);
   return {
     created: newLines.length,
     linked: attachments.filter((a) => a.note).length - attachments.filter((a) => a.note && a.need.ridesWith).length,
@@ -328,7 +346,10 @@ type History = {
   actorId: string | null;
 };
 
-/** Writes what syncDemand decided: a fixed number of statements (chunked only past 1,000 rows). */
+/**
+ * Writes what syncDemand decided: a fixed number of statements (chunked only past 1,000 rows).
+ * Returns the lines it closed for want of demand.
+ */
 async function write(
   trx: Db,
   siteId: string,
@@ -469,4 +490,5 @@ async function write(
   }
   await chunked(history, (part) => repo.insertHistoryRows(trx, part));
   await recordAuditMany(trx, audit);
+  return closed.map((l) => l.id);
 }

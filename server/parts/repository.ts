@@ -248,14 +248,17 @@ export const countLines = async (db: Db, siteId: string, f: LineFilter) =>
     ).n,
   );
 
-/** Every link of the lines (withdrawn ones only when asked), with the position, board and defect they point at. */
+/**
+ * Every link of the lines (withdrawn ones only when asked), with the position, board and defect they
+ * point at. The position and defect are looked up per link (by primary key) rather than joined: a
+ * page's few hundred links cost a few hundred index probes, where a join let the planner hash the
+ * whole site's positions and defects.
+ */
 export function linksOfLines(db: Db, lineIds: string[], withWithdrawn = false) {
   if (!lineIds.length) return Promise.resolve([]);
   let q = db
     .selectFrom("partDemandLinks as l")
-    .leftJoin("positions as p", "p.id", "l.positionId")
     .leftJoin("boards as b", "b.id", "l.boardId")
-    .leftJoin("defects as d", "d.id", "l.defectId")
     .select([
       "l.id",
       "l.lineId",
@@ -267,13 +270,14 @@ export function linksOfLines(db: Db, lineIds: string[], withWithdrawn = false) {
       "l.active",
       "l.fitted",
       "l.createdAt",
-      "p.designation",
+      (eb) =>
+        eb.selectFrom("positions as p").select("p.designation").whereRef("p.id", "=", "l.positionId").as("designation"),
       "b.name as boardName",
-      "d.title as defectTitle",
+      (eb) => eb.selectFrom("defects as d").select("d.title").whereRef("d.id", "=", "l.defectId").as("defectTitle"),
     ])
     .where("l.lineId", "in", lineIds);
   if (!withWithdrawn) q = q.where((e) => e.or([e("l.active", "=", true), e("l.fitted", "=", true)]));
-  return q.orderBy("b.name").orderBy("p.designation").execute();
+  return q.orderBy("b.name").orderBy("designation").orderBy("l.createdAt").orderBy("l.id").execute();
 }
 
 export const leadCounts = (db: Db, lineIds: string[]) =>
@@ -312,40 +316,13 @@ export const nameplatePhotos = (db: Db, componentIds: string[]) =>
 export const boardsOfSite = (db: Db, siteId: string) =>
   db.selectFrom("boards").select(["id", "name"]).where("siteId", "=", siteId).orderBy("name").execute();
 
-/** Estimated and spent per board ('' = not tied to a board) over the lines not cancelled: see siteBudget (rows.ts). */
-export const budgetByBoard = (db: Db, siteId: string) =>
-  sql<{ boardId: string; estimated: number; spent: number; unestimatedLines: number }>`
-    with lines as (
-      select id, manual_qty, estimated_unit_cost, status from part_lines where site_id = ${siteId} and status <> 'cancelled'
-    ), q as (
-      select l.id as line_id, coalesce(dl.board_id::text, '') as board, dl.qty
-      from lines l join part_demand_links dl on dl.line_id = l.id and (case when l.status = 'fitted' then dl.fitted else dl.active end)
-      union all
-      select id, '', manual_qty from lines where manual_qty > 0
-    ), qb as (
-      select line_id, board, sum(qty) as qty from q group by line_id, board having sum(qty) > 0
-    ), tot as (
-      select line_id, sum(qty) as total from qb group by line_id
-    ), spent as (
-      select a.line_id, sum(a.cost) as spent from part_acquisitions a join lines l on l.id = a.line_id group by a.line_id
-    ), per as (
-      select qb.board, coalesce(l.estimated_unit_cost * qb.qty, 0) as estimated, coalesce(s.spent, 0) * qb.qty / tot.total as spent,
-        (l.estimated_unit_cost is null)::int as unestimated
-      from qb join lines l on l.id = qb.line_id join tot on tot.line_id = qb.line_id left join spent s on s.line_id = qb.line_id
-      union all
-      select '', 0, s.spent, 0 from spent s where s.spent > 0 and not exists (select 1 from tot where tot.line_id = s.line_id)
-    )
-    select board as "boardId", round(sum(estimated), 2)::float8 as estimated, round(sum(spent), 2)::float8 as spent, sum(unestimated)::int as "unestimatedLines"
-    from per group by board order by board = '', board`.execute(db);
-
-/** The components and defects whose demand is active on a position. */
-export const activeDemandOfPosition = (trx: Db, siteId: string, positionId: string) =>
+/** Every demand link on a position (active, withdrawn or fitted), with its line. */
+export const demandLinksOfPosition = (trx: Db, siteId: string, positionId: string) =>
   trx
     .selectFrom("partDemandLinks")
-    .select(["componentId", "defectId"])
+    .select(["componentId", "defectId", "lineId", "active"])
     .where("siteId", "=", siteId)
     .where("positionId", "=", positionId)
-    .where("active", "=", true)
     .execute();
 
 export const activeLinksOfLine = (trx: Db, lineId: string) =>

@@ -4,6 +4,7 @@ import type { PartLine, PartsBudget } from "../../src/schemas/parts";
 import type { Db } from "../db";
 import { conflict, notFound } from "../errors";
 import { lineSpec } from "./demand";
+import { keptBudget } from "./budget-repository";
 import * as repo from "./repository";
 
 type LinkRow = Awaited<ReturnType<typeof repo.linksOfLines>>[number];
@@ -108,19 +109,20 @@ function groupBy<T>(rows: readonly T[], key: (r: T) => string): Map<string, Arra
 }
 
 /**
- * Estimated vs spent per board and in total, over every line that is not cancelled, in one SQL
- * statement: estimated = unit cost × quantity on the board; spent = the line's acquisitions shared
- * in proportion to each board's quantity (proportional allocation, common practice; the same rule
- * as budgetByBoard in src/domain/part-workflow.ts, which the tests hold it to). A fitted line counts
- * its fitted links, any other its active ones; hand-added quantity and links with no board are
- * "not tied to a board"; a line with spend but no quantity left puts its spend there too.
+ * Estimated vs spent per board and in total, over every line that is not cancelled, read from the
+ * sums the writes keep (server/parts/budget-repository.ts; one row a board): estimated = unit cost × quantity
+ * on the board; spent = the line's acquisitions shared in proportion to each board's quantity
+ * (proportional allocation, common practice; the same rule as budgetByBoard in
+ * src/domain/part-workflow.ts, which the tests hold it to). A fitted line counts its fitted links,
+ * any other its active ones; hand-added quantity and links with no board are "not tied to a
+ * board"; a line with spend but no quantity left puts its spend there too.
  */
 export async function siteBudget(
   db: Db,
   siteId: string,
   boards: Array<{ id: string; name: string }>,
 ): Promise<PartsBudget> {
-  const r = await repo.budgetByBoard(db, siteId);
+  const r = await keptBudget(db, siteId);
   const names = new Map(boards.map((b) => [b.id, b.name]));
   const rows = r.rows.map((b) => ({
     ...b,

@@ -8,11 +8,13 @@ import type { z } from "zod";
 import { diff, recordAudit } from "../audit";
 import type { Db } from "../db";
 import { AppError, conflict, forbidden, notFound } from "../errors";
+import { refreshBudget } from "./budget-repository";
 import { lineSpec, reconcileDemand, syncDemand } from "./demand";
 import * as repo from "./repository";
 import { buildRows, lineRow, lockedLine, siteBudget } from "./rows";
 
 export { reconcileDemand, syncDemand } from "./demand";
+export { rebuildBudget } from "./budget-repository";
 export { moveLineStatus } from "./workflow";
 export { lineRow } from "./rows";
 
@@ -26,16 +28,22 @@ type Actor = { id: string; role: Role | "admin" };
 export const demandChanged = (
   trx: Db,
   siteId: string,
-  scope: { componentIds?: readonly string[]; defectIds?: readonly string[] },
+  scope: { componentIds?: readonly string[]; defectIds?: readonly string[]; lineIds?: readonly string[] },
   actorId: string | null,
 ) => syncDemand(trx, siteId, scope, actorId);
 
-/** The components and defects whose demand sits on a position, read before the position is deleted. */
+/**
+ * The components and defects whose demand is active on a position, and the lines of every link on it
+ * (a fitted one too), read before the position is deleted: its component's links go with it, so
+ * those lines' budget is counted again afterwards.
+ */
 export async function demandOfPosition(trx: Db, siteId: string, positionId: string) {
-  const rows = await repo.activeDemandOfPosition(trx, siteId, positionId);
+  const rows = await repo.demandLinksOfPosition(trx, siteId, positionId);
+  const active = rows.filter((r) => r.active);
   return {
-    componentIds: rows.flatMap((r) => (r.componentId ? [r.componentId] : [])),
-    defectIds: rows.flatMap((r) => (r.defectId ? [r.defectId] : [])),
+    componentIds: active.flatMap((r) => (r.componentId ? [r.componentId] : [])),
+    defectIds: active.flatMap((r) => (r.defectId ? [r.defectId] : [])),
+    lineIds: [...new Set(rows.map((r) => r.lineId))],
   };
 }
 
@@ -140,6 +148,7 @@ export async function createManualLine(db: Db, siteId: string, b: z.infer<typeof
       actorId: actor.id,
       after: line,
     });
+    await refreshBudget(trx, siteId, [line.id]);
     return line.id;
   });
 }
@@ -182,6 +191,7 @@ export async function updateLine(
       after: d.after,
     });
     if (specKey !== line.specKey) await reconcileDemand(trx, siteId, actorId); // a changed spec may gain or shed positions
+    await refreshBudget(trx, siteId, [lineId]); // quantity or unit cost
   });
   return lineRow(db, siteId, lineId);
 }

@@ -21,6 +21,7 @@ import { AppError, conflict } from "../errors";
 import * as repo from "./repository";
 import { lineRow, lockedLine } from "./rows";
 import * as defects from "../defects/service";
+import { holdBudget, refreshBudget } from "./budget-repository";
 import { syncDemand } from "./demand";
 import { moveCustodyFor } from "../inventory/survey-service";
 
@@ -31,6 +32,7 @@ export async function moveLineStatus(db: Db, siteId: string, lineId: string, b: 
   const ctx: defects.Ctx = { siteId, actor, notices: [] };
   await db.transaction().execute(async (trx) => {
     const line = await lockedLine(trx, siteId, lineId, b.version);
+    await holdBudget(trx, siteId); // before the custody moves and their board summaries (see holdBudget)
     if (!canMovePart(line.status, b.to))
       throw conflict(
         `A line that is ${PART_STATUS_LABELS[line.status].toLowerCase()} cannot move to ${PART_STATUS_LABELS[b.to].toLowerCase()}.`,
@@ -76,6 +78,7 @@ export async function moveLineStatus(db: Db, siteId: string, lineId: string, b: 
       before: { status: line.status },
       after: { status: b.to },
     });
+    await refreshBudget(trx, siteId, [lineId]); // its status, fitted links or acquisitions
   });
   return { line: await lineRow(db, siteId, lineId, true), ctx };
 }

@@ -46,6 +46,8 @@ const OWNERS: Record<string, string> = {
   partAcquisitions: "server/parts/",
   partLineHistory: "server/parts/",
   partShareLinks: "server/parts/",
+  partBudgetShares: "server/parts/",
+  partBudgetBoards: "server/parts/",
   insulationReadings: "server/readings/",
   contactReadings: "server/readings/",
   thermalScans: "server/readings/",
