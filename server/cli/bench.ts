@@ -47,7 +47,7 @@ import { migrateToLatest } from "../../db/migrate";
 import { ensureDatabase, pgBin, projectRoot } from "../../db/pg";
 import { createApp } from "../app";
 import { createDb, MAINTENANCE_DB_OPTIONS } from "../db";
-import { CSV_COLUMNS } from "../defects/csv";
+import { CSV_COLUMNS, inlineParameters } from "../defects/csv";
 import { applySort, registerBase } from "../defects/list-repository";
 import { measurePaint, openBrowser, STATIC_PAGE, writeStaticPage, type PaintFigures } from "../bench/paint";
 import { EVENT_LOOP_RESOLUTION_MS } from "../observability/metrics";
@@ -541,8 +541,7 @@ async function main() {
       // The export's own columns and order: COPY writes the same rows the CSV holds (it once selected every
       // register column, ids included: 30 MB against the export's 13).
       const compiled = applySort(registerBase(setup, site.siteId).select(CSV_COLUMNS), "priority", "desc").compile();
-      const literal = (v: unknown) => `'${String(v).replace(/'/g, "''")}'`;
-      const copySql = `COPY (${compiled.sql.replace(/\$(\d+)/g, (_, n) => literal(compiled.parameters[Number(n) - 1]))}) TO STDOUT WITH (FORMAT csv, HEADER)`;
+      const copySql = `COPY (${inlineParameters(compiled.sql, compiled.parameters)}) TO STDOUT WITH (FORMAT csv, HEADER)`;
       const csv = {
         secs: [] as number[],
         copy: [] as number[],
