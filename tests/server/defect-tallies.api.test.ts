@@ -128,6 +128,39 @@ describe("the register's total from the kept tallies", () => {
     expect(await total("")).toBe(await countWhere(""));
   });
 
+  it("a writer holding one tally row and a writer moving a defect across it take the rows in one order: no deadlock", async () => {
+    // One key (board, severity) in two statuses: the rows (raised) and (scheduled). The second writer's move
+    // takes both; in key order it waits at "raised", holding nothing, while the first goes on to "scheduled".
+    // Taken the other way round ("scheduled" first) the two would wait on each other.
+    const b = (
+      await sql<{ id: string; boardId: string; severity: string }>`SELECT id, board_id AS "boardId", severity
+        FROM defects WHERE site_id = ${fx.siteId} AND status = 'scheduled' ORDER BY ref LIMIT 1`.execute(t.db)
+    ).rows[0];
+    const insert = (status: string) =>
+      sql`INSERT INTO defects (site_id, board_id, title, category, severity, status)
+        VALUES (${fx.siteId}, ${b.boardId}, ${`Order check ${status}`}, 'corrosion', ${b.severity}, ${status})`;
+    let firstWrote!: () => void;
+    const firstHasWritten = new Promise<void>((r) => (firstWrote = r));
+    let secondStarted!: () => void;
+    const secondIsWaiting = new Promise<void>((r) => (secondStarted = r));
+    const first = t.db.transaction().execute(async (trx) => {
+      await insert("raised").execute(trx);
+      firstWrote();
+      await secondIsWaiting;
+      await new Promise((r) => setTimeout(r, 300)); // the second writer's statement is now waiting
+      await insert("scheduled").execute(trx);
+    });
+    await firstHasWritten;
+    const second = t.db.transaction().execute(async (trx) => {
+      const move = sql`UPDATE defects SET status = 'raised' WHERE id = ${b.id}`.execute(trx);
+      secondStarted();
+      await move;
+    });
+    await expect(Promise.all([first, second])).resolves.toBeDefined();
+    const now = await tallies();
+    expect(now.kept).toEqual(now.counted);
+  });
+
   it("a write rolled back leaves the tallies as they were", async () => {
     const before = await tallies();
     await t.db
