@@ -1,7 +1,9 @@
 import type { Db } from "../db";
 import * as repo from "./boards-repository";
 import { requireOwned } from "./common";
-import { boardTiles, toTile } from "./positions-repository";
+import { tilePageKeyOf, type TilePageKey } from "../../src/schemas/inventory";
+import { boardPositionTotal } from "./board-summaries-repository";
+import { boardTilePage, toTile, type TileQueryRow } from "./positions-repository";
 
 /** The reads of boards and flood events, as the board routes answer them. */
 
@@ -17,9 +19,28 @@ export async function boardsOf(db: Db, siteId: string) {
   }));
 }
 
-/** One board with its sections and a tile per position; 404 when the site has no such board. */
-export async function boardOf(db: Db, siteId: string, boardId: string) {
+/** A page of tiles: `size` of the rows read (one more was read to learn whether a page follows). */
+function paged(rows: TileQueryRow[], size: number) {
+  const positions = rows.slice(0, size).map(toTile);
+  return { positions, next: rows.length > size ? tilePageKeyOf(positions[positions.length - 1]) : null };
+}
+
+/**
+ * One board: its row, its sections, how many positions it has (its kept summary) and the first `size` of them in
+ * board order, with the key of the next page (null when that was all); 404 when the site has no such board.
+ */
+export async function boardOf(db: Db, siteId: string, boardId: string, size: number) {
   const board = await requireOwned(db, "boards", siteId, boardId, "That board");
-  const [sections, tiles] = await Promise.all([repo.listSections(db, boardId), boardTiles(db, boardId)]);
-  return { board, sections, positions: tiles.map(toTile) };
+  const [sections, rows, total] = await Promise.all([
+    repo.listSections(db, boardId),
+    boardTilePage(db, boardId, null, size + 1),
+    boardPositionTotal(db, boardId),
+  ]);
+  return { board, sections, total, ...paged(rows, size) };
+}
+
+/** The page of a board's tiles after `after`, with the key of the one after it; 404 when the site has no such board. */
+export async function tilesOf(db: Db, siteId: string, boardId: string, after: TilePageKey, size: number) {
+  await requireOwned(db, "boards", siteId, boardId, "That board");
+  return paged(await boardTilePage(db, boardId, after, size + 1), size);
 }

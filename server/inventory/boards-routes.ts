@@ -2,6 +2,7 @@
 import { Router } from "express";
 import {
   boardParams,
+  boardQuery,
   createBoardBody,
   createFloodEventBody,
   createSectionBody,
@@ -12,6 +13,7 @@ import {
   patchSectionBody,
   sectionParams,
   siteParams,
+  tilePageQuery,
 } from "../../src/schemas/inventory";
 import type { Db } from "../db";
 import { requireSiteRole } from "../middleware/roles";
@@ -56,7 +58,12 @@ export function boardRoutes(db: Db) {
   });
   r.get(`${S}/boards/:boardId`, anyMember, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);
-    res.json(await reads.boardOf(db, siteId, boardId));
+    res.json(await reads.boardOf(db, siteId, boardId, boardQuery.parse(req.query).size));
+  });
+  r.get(`${S}/boards/:boardId/tiles`, anyMember, async (req, res) => {
+    const { siteId, boardId } = boardParams.parse(req.params);
+    const { after, size } = tilePageQuery.parse(req.query);
+    res.json(await reads.tilesOf(db, siteId, boardId, after, size));
   });
   r.patch(`${S}/boards/:boardId`, curator, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);

@@ -3,12 +3,15 @@ import type { ComponentsTable, PositionsTable } from "../../db/types";
 import type { Db } from "../db";
 import { LOOSE_KEY_SQL, looseKey } from "../../src/domain/search-keys";
 import { COMPONENT_KINDS, COMPONENT_KIND_LABELS, COMPONENT_KIND_SHORT } from "../../src/domain/vocab";
+import type { TilePageKey } from "../../src/schemas/inventory";
 
 /**
- * The whole board elevation in one query: each position with its current component, the
- * component's newest inspection (lateral join) and photo / open-defect counts (subqueries).
+ * One page of the board elevation in board order: each position with its current component, the component's
+ * newest inspection (lateral join) and photo / open-defect counts (subqueries), the `limit` positions after `after`
+ * (keyset, never OFFSET: positions_board_order_idx serves it as an ordered index scan, so a page costs its own
+ * rows whatever the board's size or the page's depth).
  */
-export const boardTiles = (db: Db, boardId: string) =>
+export const boardTilePage = (db: Db, boardId: string, after: TilePageKey | null, limit: number) =>
   db
     .selectFrom("positions as p")
     .leftJoin("components as c", (j) => j.onRef("c.positionId", "=", "p.id").on("c.retiredAt", "is", null))
@@ -69,12 +72,23 @@ export const boardTiles = (db: Db, boardId: string) =>
         .as("openDefectCount"),
     ])
     .where("p.boardId", "=", boardId)
+    .$if(!!after, (q) =>
+      q.where((eb) =>
+        eb(
+          eb.refTuple("p.gridRow", "p.gridCol", "p.sortOrder", "p.id"),
+          ">",
+          eb.tuple(after!.gridRow, after!.gridCol, after!.sortOrder, after!.id),
+        ),
+      ),
+    )
     .orderBy("p.gridRow")
     .orderBy("p.gridCol")
     .orderBy("p.sortOrder")
+    .orderBy("p.id")
+    .limit(limit)
     .execute();
 
-export type TileQueryRow = Awaited<ReturnType<typeof boardTiles>>[number];
+export type TileQueryRow = Awaited<ReturnType<typeof boardTilePage>>[number];
 
 export function toTile(r: TileQueryRow) {
   return {

@@ -116,7 +116,12 @@ async function stringifySliced(value: unknown, s: Slicer): Promise<string> {
   if (value === null || typeof value !== "object") return JSON.stringify(value);
   const parts: string[] = [];
   if (Array.isArray(value)) {
-    if (typeof (value as { toJSON?: unknown }).toJSON === "function" || value.length < 32) return JSON.stringify(value);
+    // A short array of plain values is cheap whole; a short one of objects (a board read in pages) is not.
+    if (
+      typeof (value as { toJSON?: unknown }).toJSON === "function" ||
+      (value.length < 32 && (value as unknown[]).every((v) => v === null || typeof v !== "object"))
+    )
+      return JSON.stringify(value);
     for (const item of value as unknown[]) {
       if (s.spent()) await s.pause();
       parts.push(unwritable(item) ? "null" : await stringifySliced(item, s));
@@ -333,6 +338,14 @@ export async function flushPersistedReads(): Promise<void> {
   await store({ ...timedSerialize(client, slicer()), seq, generation });
 }
 
+/** An infinite query's data whose last page names a page after it (`next`, as the board's pages do). */
+function morePagesToRead(data: unknown) {
+  const pages = (data as { pages?: unknown } | undefined)?.pages;
+  if (!Array.isArray(pages) || !pages.length) return false;
+  const next = (pages[pages.length - 1] as { next?: unknown } | null)?.next;
+  return typeof next === "string";
+}
+
 /**
  * The reads the open page uses that are not on the phone yet (`keeping`: being read, or read but
  * not written — the write is throttled to once a second), and those left out because the bound was
@@ -352,7 +365,9 @@ export function keptState(qc: QueryClient): KeptState {
       if (q.state.fetchStatus === "fetching") keeping += 1;
       continue;
     }
-    if (committed.kept.get(q.queryHash) === q.state.dataUpdatedAt) kept += 1;
+    // A read in pages (a large board) is on the phone once its last page is: until then it is still being kept.
+    if (morePagesToRead(q.state.data)) keeping += 1;
+    else if (committed.kept.get(q.queryHash) === q.state.dataUpdatedAt) kept += 1;
     else if (committed.tooLarge.get(q.queryHash) === q.state.dataUpdatedAt) tooLarge += 1;
     else keeping += 1;
   }

@@ -85,7 +85,12 @@ export const router = createBrowserRouter([
           {
             path: "boards/:boardId",
             ...page(() => import("./routes/boards/board-elevation")),
-            loader: inventory((m, a) => m.boardQueryOptions(site(a), a.params.boardId as string) as never),
+            // The board's head and first page (the rest follow in the page, at idle time).
+            loader: prefetch((a) =>
+              import("../features/inventory/api").then((m) =>
+                queryClient.prefetchInfiniteQuery(m.boardQueryOptions(site(a), a.params.boardId as string)),
+              ),
+            ),
           },
           { path: "boards/:boardId/setup", ...page(() => import("./routes/boards/board-setup")) },
           { path: "log", ...page(() => import("./routes/boards/quick-log")) },

@@ -5,7 +5,7 @@
  * carry `version`; a stale one gets 409 {error:{code:"conflict", message, current}}.
  */
 import { z } from "zod";
-import { text as safeText, int as safeInt, queryInt, isoDate } from "./common";
+import { text as safeText, int as safeInt, queryInt, isoDate, INT4_MIN, INT4_MAX } from "./common";
 import {
   COMPONENT_KINDS,
   CONTAMINANTS,
@@ -286,12 +286,45 @@ export const tileRowSchema = z.object({
   openDefectCount: z.number(),
 });
 export type TileRow = z.infer<typeof tileRowSchema>;
-/** positions ordered by gridRow, gridCol. */
+/**
+ * A board's positions come in pages, in board order (row, column, order in the cell, id). A board of up to
+ * BOARD_PAGE positions is one answer; a larger one answers its first page with the board, and each page's `next` is
+ * the key to ask GET /boards/:boardId/tiles?after=… for the one after it (null on the last page).
+ */
+export const BOARD_PAGE = 500;
+export const BOARD_PAGE_MAX = 2000;
+const PAGE_KEY =
+  /^(\d{1,10})\.(\d{1,10})\.(-?\d{1,10})\.([0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12})$/i;
+/** The key after which a page starts: the last position of the page before (row.col.order.id), as its `next` gave it. */
+export const tilePageKey = z
+  .string()
+  .regex(PAGE_KEY, { message: "after must be a page key exactly as the previous page's next gave it" })
+  .transform((v, ctx) => {
+    const [, r, c, o, id] = PAGE_KEY.exec(v)!;
+    const [gridRow, gridCol, sortOrder] = [r, c, o].map(Number);
+    if (![gridRow, gridCol, sortOrder].every((n) => n >= INT4_MIN && n <= INT4_MAX)) {
+      ctx.addIssue({ code: "custom", message: "after holds a number out of range" });
+      return z.NEVER;
+    }
+    return { gridRow, gridCol, sortOrder, id: id.toLowerCase() };
+  });
+export type TilePageKey = z.output<typeof tilePageKey>;
+export const tilePageKeyOf = (t: { gridRow: number; gridCol: number; sortOrder: number; id: string }) =>
+  `${t.gridRow}.${t.gridCol}.${t.sortOrder}.${t.id}`;
+/** GET /boards/:boardId?size= (the first page's size). */
+export const boardQuery = z.object({ size: queryInt().min(1).max(BOARD_PAGE_MAX).default(BOARD_PAGE) });
+/** GET /boards/:boardId/tiles?after=&size=. */
+export const tilePageQuery = boardQuery.extend({ after: tilePageKey });
+/** The board, its sections, its number of positions and the first page of them. */
 export const boardDetailResponse = z.object({
   board: boardSchema,
   sections: z.array(sectionSchema),
+  total: z.number(),
   positions: z.array(tileRowSchema),
+  next: z.string().nullable(),
 });
+export const tilePageResponse = z.object({ positions: z.array(tileRowSchema), next: z.string().nullable() });
+export type TilePage = z.infer<typeof tilePageResponse>;
 export type BoardDetail = z.infer<typeof boardDetailResponse>;
 /** POST /boards/:boardId/positions → 201 this; generate → 201 { positions: [this…] }. */
 export const createdPositionResponse = z.object({ position: positionSchema, component: componentSchema });

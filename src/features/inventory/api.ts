@@ -1,4 +1,14 @@
-import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
+import { useEffect } from "react";
+import {
+  infiniteQueryOptions,
+  queryOptions,
+  useInfiniteQuery,
+  useMutation,
+  useQuery,
+  useQueryClient,
+  type InfiniteData,
+} from "@tanstack/react-query";
+import type { z } from "zod";
 import { api, qs } from "../../lib/api-client";
 import { submitOrQueue } from "../../lib/outbox";
 import {
@@ -22,6 +32,7 @@ import {
   positionSchema,
   reorderedPositionsResponse,
   sectionSchema,
+  tilePageResponse,
   type CreateBoardBody,
   type CreateFloodEventBody,
   type CreateInspectionBody,
@@ -42,7 +53,8 @@ export const inventoryKeys = {
   overview: (siteId: string) => [...inventoryKeys.all(siteId), "overview"] as const,
   floodEvents: (siteId: string) => [...inventoryKeys.all(siteId), "flood-events"] as const,
   boards: (siteId: string) => [...inventoryKeys.all(siteId), "boards"] as const,
-  board: (siteId: string, boardId: string) => [...inventoryKeys.all(siteId), "board", boardId] as const,
+  /** A board read in pages (an infinite query: the head and first page, then the rest). */
+  board: (siteId: string, boardId: string) => [...inventoryKeys.all(siteId), "board", boardId, "pages"] as const,
   position: (siteId: string, positionId: string) => [...inventoryKeys.all(siteId), "position", positionId] as const,
   lookup: (siteId: string, q: string) => [...inventoryKeys.all(siteId), "lookup", q] as const,
   custodyOptions: (siteId: string, componentId: string) =>
@@ -66,11 +78,58 @@ export const boardsQueryOptions = (siteId: string) =>
     queryKey: inventoryKeys.boards(siteId),
     queryFn: ({ signal }) => api.get(`${base(siteId)}/boards`, boardListResponse, signal),
   });
+/** Positions a page after the first: larger, since the first page has been drawn by then. */
+const LATER_PAGE = 1000;
+type BoardPage = z.infer<typeof boardDetailResponse> | z.infer<typeof tilePageResponse>;
+/**
+ * One board: its head (board, sections, total) with the first page of its positions, then the rest page by page
+ * after the key the page before gave (`next`). A board of up to a page is one request, as before.
+ */
 export const boardQueryOptions = (siteId: string, boardId: string) =>
-  queryOptions({
+  infiniteQueryOptions({
     queryKey: inventoryKeys.board(siteId, boardId),
-    queryFn: ({ signal }) => api.get(`${base(siteId)}/boards/${boardId}`, boardDetailResponse, signal),
+    queryFn: ({ signal, pageParam }): Promise<BoardPage> =>
+      pageParam === null
+        ? api.get(`${base(siteId)}/boards/${boardId}`, boardDetailResponse, signal)
+        : api.get(
+            `${base(siteId)}/boards/${boardId}/tiles${qs({ after: pageParam, size: LATER_PAGE })}`,
+            tilePageResponse,
+            signal,
+          ),
+    initialPageParam: null as string | null,
+    getNextPageParam: (last) => last.next,
   });
+
+/** The board as its pages read so far: `complete` once the last page is in. */
+export interface BoardRead extends z.infer<typeof boardDetailResponse> {
+  complete: boolean;
+}
+/** One array of tiles over the pages read so far (kept per data object, so a render does not rebuild it). */
+const flat = new WeakMap<object, BoardRead>();
+export function boardOfPages(d: InfiniteData<BoardPage, string | null>): BoardRead {
+  const known = flat.get(d);
+  if (known) return known;
+  const head = d.pages[0] as z.infer<typeof boardDetailResponse>;
+  const last = d.pages[d.pages.length - 1];
+  const read: BoardRead = {
+    ...head,
+    positions: d.pages.length === 1 ? head.positions : d.pages.flatMap((p) => p.positions),
+    next: last.next,
+    complete: last.next === null,
+  };
+  flat.set(d, read);
+  return read;
+}
+
+/** When the page is idle (after the first page has been drawn), or at once where the browser cannot say. */
+const whenIdle = (fn: () => void) => {
+  if (typeof requestIdleCallback === "function") {
+    const id = requestIdleCallback(fn, { timeout: 500 });
+    return () => cancelIdleCallback(id);
+  }
+  const id = setTimeout(fn, 0);
+  return () => clearTimeout(id);
+};
 export const positionQueryOptions = (siteId: string, positionId: string) =>
   queryOptions({
     queryKey: inventoryKeys.position(siteId, positionId),
@@ -80,8 +139,19 @@ export const positionQueryOptions = (siteId: string, positionId: string) =>
 export const useOverview = (siteId: string) => useQuery(overviewQueryOptions(siteId));
 export const useFloodEvents = (siteId: string) => useQuery(floodEventsQueryOptions(siteId));
 export const useBoards = (siteId: string) => useQuery(boardsQueryOptions(siteId));
-export const useBoard = (siteId: string, boardId: string) =>
-  useQuery({ ...boardQueryOptions(siteId, boardId), enabled: !!boardId });
+/**
+ * A whole board: the first page comes at once (what is on a phone's screen first), the rest page by page at idle
+ * time, so the copy kept on the phone holds every position of a board opened once (logging with no signal).
+ */
+export function useBoard(siteId: string, boardId: string) {
+  const q = useInfiniteQuery({ ...boardQueryOptions(siteId, boardId), enabled: !!boardId, select: boardOfPages });
+  const { hasNextPage, isFetching, isFetchNextPageError, fetchNextPage } = q;
+  useEffect(() => {
+    if (!hasNextPage || isFetching || isFetchNextPageError) return;
+    return whenIdle(() => void fetchNextPage({ cancelRefetch: false }));
+  }, [hasNextPage, isFetching, isFetchNextPageError, fetchNextPage]);
+  return q;
+}
 export const usePosition = (siteId: string, positionId: string | null) =>
   useQuery({ ...positionQueryOptions(siteId, positionId ?? ""), enabled: !!positionId });
 export const useLookup = (siteId: string, q: string) =>

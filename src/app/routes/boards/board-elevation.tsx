@@ -7,6 +7,7 @@ import { useBoard } from "../../../features/inventory/api";
 import { BoardElevation } from "../../../features/inventory/components/board-elevation";
 import {
   ElevationFilters,
+  filtersActive,
   NO_FILTERS,
   tileMatches,
   type TileFilters,
@@ -52,7 +53,7 @@ export default function BoardElevationPage() {
   );
   if (q.isPending) return <Loading what="Drawing the board" />;
   if (q.isLoadingError || serverRefused(q.error)) return <ErrorPanel error={q.error} />;
-  const { board, positions } = q.data;
+  const { board, positions, total, complete } = q.data;
   const tile = positions.find((t) => t.id === selected);
   return (
     <div className="space-y-4">
@@ -88,8 +89,14 @@ export default function BoardElevationPage() {
           </Link>
         )}
       </header>
-      <ElevationFilters value={filters} onChange={setFilters} matching={matching} total={positions.length} />
-      {positions.length === 0 ? (
+      <ElevationFilters value={filters} onChange={setFilters} matching={matching} total={total} />
+      {!complete && (
+        <p role="status" className="text-sm text-mist" data-testid="board-reading">
+          Read {positions.length.toLocaleString("en")} of {total.toLocaleString("en")} positions; the rest are on their
+          way{filtersActive(filters) ? " (the count of matches grows with them)" : ""}.
+        </p>
+      )}
+      {positions.length === 0 && complete ? (
         <p className="rounded-lg border border-dashed border-hull-500 p-6 text-center text-mist">
           No positions on this board yet.
         </p>
@@ -97,6 +104,8 @@ export default function BoardElevationPage() {
         <BoardElevation
           board={board}
           tiles={positions}
+          total={total}
+          complete={complete}
           filters={filters}
           selectedId={selected}
           onOpen={(t) => select(t.id)}

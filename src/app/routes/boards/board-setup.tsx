@@ -72,6 +72,9 @@ export default function BoardSetupPage() {
   if (!can(role, "inventory.curate")) return <RoleNotice>Only the curator sets up boards.</RoleNotice>;
   if (q.isPending) return <Loading />;
   if (q.isLoadingError || serverRefused(q.error)) return <ErrorPanel error={q.error} />;
+  // Reordering sends every position of the board: set-up waits for the last page of a large one.
+  if (!q.data.complete)
+    return <Loading what={`Reading the board's positions (${q.data.positions.length} of ${q.data.total})`} />;
   const { board, sections, positions } = q.data;
   return (
     <div className="space-y-5">

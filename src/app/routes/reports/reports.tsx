@@ -61,7 +61,7 @@ export default function ReportsPage() {
                 boardId={boardId}
                 onBoardChange={setLabelBoard}
                 sections={detail.data?.sections ?? []}
-                positions={(detail.data?.positions ?? []).map((p) => ({
+                positions={(detail.data?.complete ? detail.data.positions : []).map((p) => ({
                   id: p.id,
                   designation: p.designation,
                   sectionId: p.sectionId,

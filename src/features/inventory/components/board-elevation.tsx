@@ -212,12 +212,19 @@ function useTileWindow(
 export function BoardElevation({
   board,
   tiles,
+  total = tiles.length,
+  complete = true,
   filters,
   selectedId,
   onOpen,
 }: {
   board: Board;
+  /** The tiles read so far, in board order (a large board comes in pages). */
   tiles: TileRow[];
+  /** How many positions the board has, read or not. */
+  total?: number;
+  /** Whether every page is in; until then the rows after the last tile read show that they are coming. */
+  complete?: boolean;
   filters: TileFilters;
   selectedId: string | null;
   onOpen: (t: TileRow) => void;
@@ -227,7 +234,9 @@ export function BoardElevation({
   const printing = usePrinting();
   const [activeId, setActiveId] = useState<string | null>(null);
   const focusId = (activeId && tiles.some((t) => t.id === activeId) ? activeId : null) ?? selectedId ?? tiles[0]?.id;
-  const big = tiles.length > WINDOW_FROM;
+  const big = Math.max(tiles.length, total) > WINDOW_FROM;
+  // Tiles come in board order: below the last one read, no row has been read yet.
+  const readToRow = complete ? null : (tiles[tiles.length - 1]?.gridRow ?? 0);
   const windowed = big && !printing;
   const drawn = useTileWindow(tiles, board, [focusId, selectedId], big, printing, gridRef, boxRef);
   const onKeyDown = useCallback(
@@ -263,7 +272,7 @@ export function BoardElevation({
       <div
         ref={gridRef}
         role="group"
-        aria-label={`Front of ${board.name}: ${tiles.length} positions. Use the arrow keys to move between them, Enter to open one.`}
+        aria-label={`Front of ${board.name}: ${total} positions. Use the arrow keys to move between them, Enter to open one.`}
         className="relative grid gap-1.5 rounded-md border-4 border-hull-700 bg-hull-900 p-1.5"
         style={{
           gridTemplateColumns: `repeat(${board.gridCols}, minmax(5.25rem, 1fr))`,
@@ -286,6 +295,14 @@ export function BoardElevation({
           />
         ))}
         <WaterLine board={board} />
+        {readToRow !== null && readToRow < board.gridRows && (
+          <div
+            aria-hidden="true"
+            data-testid="board-rows-coming"
+            className="pointer-events-none rounded-sm bg-hull-800/60 motion-safe:animate-pulse"
+            style={{ gridRow: `${readToRow + 1} / ${board.gridRows + 1}`, gridColumn: "1 / -1" }}
+          />
+        )}
       </div>
     </div>
   );

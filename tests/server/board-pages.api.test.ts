@@ -1,0 +1,142 @@
+/**
+ * A board's positions answered in pages: the first page with the board, then each page after the key the one
+ * before gave, in board order (row, column, order in the cell, id), until `next` is null. Read page by page, a
+ * board is the same tiles in the same order as read in one page; a bad key or size is a 400 that says why.
+ */
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { boardDetailResponse, tilePageResponse } from "../../src/schemas/inventory";
+import { createTestDb, type TestDb } from "../helpers/db";
+import { makeCrew } from "../helpers/fixtures";
+import { Client, startTestServer, type TestServer } from "../helpers/http";
+
+let t: TestDb;
+let server: TestServer;
+let fx: Awaited<ReturnType<typeof makeCrew>>;
+const as: Record<string, Client> = {};
+let base: string;
+let boardId: string;
+
+beforeAll(async () => {
+  t = await createTestDb();
+  server = await startTestServer({ db: t.db });
+  fx = await makeCrew(t.db);
+  for (const role of ["curator", "viewer", "outsider"] as const) {
+    as[role] = server.client();
+    await as[role].signIn(fx.crew[role].email);
+  }
+  base = `/api/sites/${fx.siteId}`;
+  const b = await as.curator.post(`${base}/boards`, { name: "Paged board", gridRows: 6, gridCols: 10 });
+  expect(b.status).toBe(201);
+  boardId = b.body.id;
+  // Rows filled out of order (row 3 before row 1, row 5 before row 4), so the order is the board's, not the writes'.
+  for (const [prefix, gridRow] of [
+    ["C", 3],
+    ["A", 1],
+    ["B", 2],
+  ] as const) {
+    const g = await as.curator.post(`${base}/boards/${boardId}/positions/generate`, {
+      prefix: `${prefix}-`,
+      from: 1,
+      to: 10,
+      gridRow,
+      startCol: 1,
+      kind: "fuse",
+    });
+    expect(g.status).toBe(201);
+  }
+  for (const [designation, gridRow] of [
+    ["E-1", 5],
+    ["D-1", 4],
+  ] as const) {
+    const p = await as.curator.post(`${base}/boards/${boardId}/positions`, {
+      designation,
+      kind: "fuse",
+      gridRow,
+      gridCol: 1,
+    });
+    expect(p.status).toBe(201);
+  }
+});
+afterAll(async () => {
+  await server.close();
+  await t.drop();
+});
+
+type Tile = { id: string; gridRow: number; gridCol: number; sortOrder: number };
+const order = (a: Tile, b: Tile) =>
+  a.gridRow - b.gridRow || a.gridCol - b.gridCol || a.sortOrder - b.sortOrder || (a.id < b.id ? -1 : 1);
+
+async function walk(size: number) {
+  const first = boardDetailResponse.parse((await as.viewer.get(`${base}/boards/${boardId}?size=${size}`)).body);
+  const pages = [first.positions];
+  let next = first.next;
+  while (next) {
+    const r = await as.viewer.get(`${base}/boards/${boardId}/tiles?after=${encodeURIComponent(next)}&size=${size}`);
+    expect(r.status).toBe(200);
+    const page = tilePageResponse.parse(r.body);
+    pages.push(page.positions);
+    next = page.next;
+  }
+  return { first, pages };
+}
+
+describe("a board in pages", () => {
+  it("a board no larger than a page comes in one answer, in board order, with its total and no next page", async () => {
+    const r = await as.viewer.get(`${base}/boards/${boardId}`);
+    expect(r.status).toBe(200);
+    const d = boardDetailResponse.parse(r.body);
+    expect(d.total).toBe(32);
+    expect(d.positions).toHaveLength(32);
+    expect(d.next).toBeNull();
+    expect([...d.positions].sort(order).map((p) => p.id)).toEqual(d.positions.map((p) => p.id));
+    expect(d.positions[0].designation).toBe("A-1");
+  });
+
+  it("read page by page the board is the same tiles in the same order, each page at most the size asked", async () => {
+    const whole = boardDetailResponse.parse((await as.viewer.get(`${base}/boards/${boardId}`)).body).positions;
+    for (const size of [1, 5, 7, 31, 32]) {
+      const { first, pages } = await walk(size);
+      expect(first.total).toBe(32);
+      expect(pages.every((p) => p.length <= size && p.length > 0)).toBe(true);
+      expect(pages.flat().map((p) => p.id)).toEqual(whole.map((p) => p.id));
+    }
+  });
+
+  it("a page after a position deleted since continues where that position was", async () => {
+    const { first } = await walk(10);
+    const last = first.positions[9];
+    const del = await as.curator.del(`${base}/positions/${last.id}?version=${last.version}`);
+    expect(del.status).toBe(204);
+    const r = await as.viewer.get(`${base}/boards/${boardId}/tiles?after=${encodeURIComponent(first.next!)}&size=5`);
+    expect(r.status).toBe(200);
+    const whole = boardDetailResponse.parse((await as.viewer.get(`${base}/boards/${boardId}`)).body);
+    expect(whole.total).toBe(31);
+    expect(r.body.positions.map((p: Tile) => p.id)).toEqual(whole.positions.slice(9, 14).map((p) => p.id));
+  });
+
+  it.each([
+    ["a key not made by the server", "tiles?after=page-2", /after must be a page key/],
+    [
+      "a key with a number past int4",
+      `tiles?after=9999999999.1.0.${"0".repeat(8)}-0000-0000-0000-${"0".repeat(12)}`,
+      /out of range/,
+    ],
+    ["no key at all", "tiles", /after/],
+    ["a size of 0", "?size=0", /size/],
+    ["a size past the largest page", "?size=100000", /size/],
+    ["a size that is not a number", "tiles?after=1.1.0.00000000-0000-0000-0000-000000000000&size=many", /size/],
+  ])("%s is a 400 that says why, never a 500", async (_, path, message) => {
+    const r = await as.viewer.get(`${base}/boards/${boardId}${path.startsWith("?") ? path : `/${path}`}`);
+    expect(r.status).toBe(400);
+    expect(JSON.stringify(r.body)).toMatch(message);
+    expect(JSON.stringify(r.body)).not.toMatch(/at .*\.ts/);
+  });
+
+  it("pages of another site's board, or of no board, are a 404; signed out is a 401", async () => {
+    const key = encodeURIComponent(`1.1.0.00000000-0000-0000-0000-000000000000`);
+    expect((await as.outsider.get(`${base}/boards/${boardId}/tiles?after=${key}`)).status).toBe(404);
+    const none = "00000000-0000-4000-8000-000000000000";
+    expect((await as.viewer.get(`${base}/boards/${none}/tiles?after=${key}`)).status).toBe(404);
+    expect((await server.client().get(`${base}/boards/${boardId}/tiles?after=${key}`)).status).toBe(401);
+  });
+});
