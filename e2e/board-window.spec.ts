@@ -7,6 +7,7 @@
 import { expect, test } from "@playwright/test";
 import { expectNoSeriousA11yViolations } from "./support/a11y";
 import { signIn } from "./support/auth";
+import { expectKept, keptData } from "./support/offline";
 
 const ROWS = 40;
 const COLS = 50;
@@ -72,4 +73,17 @@ test("a board of 2,000 positions draws a window of tiles, scrolls to the last on
   await expect(tiles).toHaveCount(ROWS * COLS, { timeout: 90_000 });
   await page.emulateMedia({ media: "screen" });
   await expect.poll(() => tiles.count(), { timeout: 90_000 }).toBeLessThan(300);
+
+  // The board came in pages (the first with the board, the rest at idle time): the copy kept on the phone holds
+  // every one of its 2,000 positions, for logging against any of them with no signal.
+  await expect(page.getByTestId("board-reading")).toHaveCount(0);
+  await expectKept(page, ["inventory", siteId, "board", board.id]);
+  const kept = (await keptData(page, ["inventory", siteId, "board", board.id])) as {
+    pages: { positions: { designation: string }[]; next: string | null }[];
+  };
+  expect(kept.pages.length).toBeGreaterThan(1);
+  expect(kept.pages[kept.pages.length - 1].next).toBeNull();
+  const designations = kept.pages.flatMap((p) => p.positions.map((t) => t.designation));
+  expect(designations).toHaveLength(ROWS * COLS);
+  expect(designations[designations.length - 1]).toBe(at(ROWS, COLS));
 });

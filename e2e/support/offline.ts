@@ -26,6 +26,37 @@ export function keptQueryKeys(page: Page): Promise<string[]> {
   );
 }
 
+/** The data of the first kept read whose query key starts with `prefix`, as the phone wrote it (undefined if none). */
+export function keptData(page: Page, prefix: unknown[]): Promise<unknown> {
+  const wanted = JSON.stringify(prefix).slice(0, -1);
+  return page.evaluate(
+    (w) =>
+      new Promise<unknown>((resolve) => {
+        const open = indexedDB.open("tideline-cache");
+        open.onerror = () => resolve(undefined);
+        open.onsuccess = () => {
+          const db = open.result;
+          if (!db.objectStoreNames.contains("queries")) return resolve(undefined);
+          const get = db.transaction("queries", "readonly").objectStore("queries").get("tideline-query-cache");
+          get.onerror = () => resolve(undefined);
+          get.onsuccess = () => {
+            const raw = get.result as string | undefined;
+            if (!raw) return resolve(undefined);
+            const c = JSON.parse(raw) as {
+              clientState: { queries: Array<{ queryKey: unknown[]; state: { data: unknown } }> };
+            };
+            const q = c.clientState.queries.find((x) => {
+              const k = JSON.stringify(x.queryKey);
+              return k === `${w}]` || k.startsWith(`${w},`);
+            });
+            resolve(q?.state.data);
+          };
+        };
+      }),
+    wanted,
+  );
+}
+
 /**
  * Waits until every read the open page uses is written on the phone: the sync bar says "kept for no
  * signal" (src/app/persist.ts `keptState`: nothing being read, nothing read but not yet written).

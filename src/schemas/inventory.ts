@@ -292,6 +292,8 @@ export type TileRow = z.infer<typeof tileRowSchema>;
  * the key to ask GET /boards/:boardId/tiles?after=… for the one after it (null on the last page).
  */
 export const BOARD_PAGE = 500;
+/** The size the client asks for the pages after the first (drawn by then): fewer requests for the rest. */
+export const BOARD_LATER_PAGE = 1000;
 export const BOARD_PAGE_MAX = 2000;
 const PAGE_KEY =
   /^(\d{1,10})\.(\d{1,10})\.(-?\d{1,10})\.([0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12})$/i;

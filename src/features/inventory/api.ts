@@ -12,6 +12,7 @@ import type { z } from "zod";
 import { api, qs } from "../../lib/api-client";
 import { submitOrQueue } from "../../lib/outbox";
 import {
+  BOARD_LATER_PAGE,
   boardDetailResponse,
   boardListResponse,
   boardSchema,
@@ -78,8 +79,6 @@ export const boardsQueryOptions = (siteId: string) =>
     queryKey: inventoryKeys.boards(siteId),
     queryFn: ({ signal }) => api.get(`${base(siteId)}/boards`, boardListResponse, signal),
   });
-/** Positions a page after the first: larger, since the first page has been drawn by then. */
-const LATER_PAGE = 1000;
 type BoardPage = z.infer<typeof boardDetailResponse> | z.infer<typeof tilePageResponse>;
 /**
  * One board: its head (board, sections, total) with the first page of its positions, then the rest page by page
@@ -92,7 +91,7 @@ export const boardQueryOptions = (siteId: string, boardId: string) =>
       pageParam === null
         ? api.get(`${base(siteId)}/boards/${boardId}`, boardDetailResponse, signal)
         : api.get(
-            `${base(siteId)}/boards/${boardId}/tiles${qs({ after: pageParam, size: LATER_PAGE })}`,
+            `${base(siteId)}/boards/${boardId}/tiles${qs({ after: pageParam, size: BOARD_LATER_PAGE })}`,
             tilePageResponse,
             signal,
           ),
