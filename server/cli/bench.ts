@@ -692,7 +692,7 @@ async function main() {
     }
     failed = false;
     say(
-      "\n(endpoint = over HTTP from this process to the server process, signed in, whole body read; raw = the statements the endpoint issued, captured from an in-process copy of the app, replayed with pg; ratio = endpoint p50 / raw p50 of the same run)",
+      "\n(endpoint = over HTTP from this process to the server process, signed in, asking for gzip, deflate or br as a browser does, whole body read and decompressed; raw = the statements the endpoint issued, captured from an in-process copy of the app, replayed with pg; ratio = endpoint p50 / raw p50 of the same run)",
     );
   } finally {
     removeStatic();
