@@ -1,4 +1,4 @@
-import { createBrowserRouter, type LoaderFunctionArgs, type RouteObject } from "react-router";
+import { createBrowserRouter, matchRoutes, type LoaderFunctionArgs, type Params, type RouteObject } from "react-router";
 import { paths } from "../config/paths";
 import { queryClient } from "./query-client";
 import { RouteError } from "./routes/route-error";
@@ -35,11 +35,26 @@ const prefetchParts = prefetch((a) =>
   }),
 );
 
+/**
+ * What a route's page reads whatever it shows, as the feature's query asks for it (the same URL): started by the
+ * entry before anything else (`earlyReads`, src/lib/early-reads.ts), so the answers travel while the entry and the
+ * route's code are evaluated. tests/client/early-reads.test.ts holds each URL equal to its feature query's.
+ */
+const reads = (urls: (p: Params) => string[]): Pick<RouteObject, "handle"> => ({ handle: { reads: urls } });
+
+const prefetchRegister = prefetch((a) =>
+  Promise.all([import("../features/defects/api"), import("../features/defects/url-state")]).then(([m, u]) =>
+    queryClient.prefetchQuery(
+      m.defectListOptions(site(a), u.apiQuery(u.readState(new URL(a.request.url).searchParams), u.localToday())),
+    ),
+  ),
+);
+
 const page = (load: () => Promise<{ default: React.ComponentType }>): Pick<RouteObject, "lazy"> => ({
   lazy: () => load().then((m) => ({ Component: m.default })),
 });
 
-export const router = createBrowserRouter([
+export const routes: RouteObject[] = [
   { path: paths.signIn.path, ...page(() => import("./routes/auth/sign-in")), errorElement: <RouteError /> },
   { path: paths.safety.path, ...page(() => import("./routes/safety")), errorElement: <RouteError /> },
   { path: paths.invite.path, ...page(() => import("./routes/auth/invite")), errorElement: <RouteError /> },
@@ -53,6 +68,7 @@ export const router = createBrowserRouter([
   {
     ...page(() => import("./routes/app-layout")),
     loader: prefetchSession,
+    ...reads(() => ["/api/session"]),
     errorElement: <RouteError />,
     children: [
       { path: paths.home.path, ...page(() => import("./routes/home-redirect")) },
@@ -66,11 +82,13 @@ export const router = createBrowserRouter([
         path: paths.site.path,
         ...page(() => import("./routes/sites/site-layout")),
         loader: prefetchSite,
+        ...reads((p) => [`/api/sites/${p.siteId}`]),
         children: [
           {
             index: true,
             ...page(() => import("./routes/sites/site-home")),
             loader: inventory((m, a) => m.overviewQueryOptions(site(a)) as never),
+            ...reads((p) => [`/api/sites/${p.siteId}/overview`]),
           },
           { path: "members", ...page(() => import("./routes/sites/members")) },
           { path: "photos", ...page(() => import("./routes/photos/photo-desk")) },
@@ -80,6 +98,7 @@ export const router = createBrowserRouter([
             path: "boards",
             ...page(() => import("./routes/boards/board-list")),
             loader: inventory((m, a) => m.boardsQueryOptions(site(a)) as never),
+            ...reads((p) => [`/api/sites/${p.siteId}/boards`]),
           },
           { path: "boards/new", ...page(() => import("./routes/boards/board-new")) },
           {
@@ -91,12 +110,13 @@ export const router = createBrowserRouter([
                 queryClient.prefetchInfiniteQuery(m.boardQueryOptions(site(a), a.params.boardId as string)),
               ),
             ),
+            ...reads((p) => [`/api/sites/${p.siteId}/boards/${p.boardId}`]),
           },
           { path: "boards/:boardId/setup", ...page(() => import("./routes/boards/board-setup")) },
           { path: "log", ...page(() => import("./routes/boards/quick-log")) },
           { path: "inventory/import", ...page(() => import("./routes/boards/inventory-import")) },
           { path: "flood", ...page(() => import("./routes/boards/flood-events")) },
-          { path: "defects", ...page(() => import("./routes/defects/register")) },
+          { path: "defects", ...page(() => import("./routes/defects/register")), loader: prefetchRegister },
           { path: "defects/new", ...page(() => import("./routes/defects/raise")) },
           { path: "defects/how-priority-works", ...page(() => import("./routes/defects/priority-help")) },
           { path: "defects/:defectId", ...page(() => import("./routes/defects/detail")) },
@@ -123,4 +143,12 @@ export const router = createBrowserRouter([
       { path: "*", ...page(() => import("./routes/not-found")) },
     ],
   },
-]);
+];
+
+/** The URLs the routes matching `pathname` read whatever they show (their `reads`), outermost first. */
+export const earlyReads = (pathname: string): string[] =>
+  (matchRoutes(routes, pathname) ?? []).flatMap(
+    (m) => (m.route.handle as { reads?: (p: Params) => string[] } | undefined)?.reads?.(m.params) ?? [],
+  );
+
+export const createRouter = () => createBrowserRouter(routes);

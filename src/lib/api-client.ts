@@ -1,4 +1,5 @@
 import type { z } from "zod";
+import { forgetReads, takeRead } from "./early-reads";
 
 /** Every failed API call becomes one of these, with the server's code, message and fields. */
 export class ApiError extends Error {
@@ -22,21 +23,29 @@ type Method = "GET" | "POST" | "PATCH" | "PUT" | "DELETE";
 
 async function request(method: Method, url: string, body?: unknown, signal?: AbortSignal): Promise<unknown> {
   let res: Response;
+  // A GET the entry already started (src/lib/early-reads.ts) is taken up; a write drops those not yet taken.
+  if (method !== "GET") forgetReads();
+  const early = method === "GET" ? takeRead(url) : undefined;
   try {
-    res = await fetch(url, {
-      method,
-      credentials: "same-origin",
-      // A Blob (a chosen file) goes as its bytes, so the server reads its encoding instead of the browser guessing.
-      headers:
-        body === undefined || body instanceof FormData
-          ? {}
-          : body instanceof Blob
-            ? { "Content-Type": "text/csv" }
-            : { "Content-Type": "application/json" },
-      body:
-        body === undefined ? undefined : body instanceof FormData || body instanceof Blob ? body : JSON.stringify(body),
-      signal,
-    });
+    res = await (early ??
+      fetch(url, {
+        method,
+        credentials: "same-origin",
+        // A Blob (a chosen file) goes as its bytes, so the server reads its encoding instead of the browser guessing.
+        headers:
+          body === undefined || body instanceof FormData
+            ? {}
+            : body instanceof Blob
+              ? { "Content-Type": "text/csv" }
+              : { "Content-Type": "application/json" },
+        body:
+          body === undefined
+            ? undefined
+            : body instanceof FormData || body instanceof Blob
+              ? body
+              : JSON.stringify(body),
+        signal,
+      }));
   } catch (e) {
     if ((e as Error).name === "AbortError") throw e;
     throw new ApiError(0, "offline", "Tideline's server cannot be reached. Check the connection and try again.");

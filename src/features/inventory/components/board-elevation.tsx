@@ -158,7 +158,9 @@ function useTileWindow(
       const next = measure(grid, box);
       setGeo((prev) => (sameGeometry(prev, next) ? prev : next));
     };
-    update();
+    // No measure here: reading the grid right after React wrote the page forced a layout of the whole page inside
+    // the render's task. The observer's first call comes after the browser's own layout of this frame (a clean
+    // read), and the tiles are drawn by the render that follows, a task of its own.
     const ro = new ResizeObserver(update);
     ro.observe(grid);
     ro.observe(document.body);
