@@ -2,6 +2,7 @@ import { useMemo, type KeyboardEvent } from "react";
 import { functionalUpdate, useTable, type RowSelectionState, type Updater } from "@tanstack/react-table";
 import type { DefectRow } from "../../../schemas/defects";
 import type { SortKey } from "../../../schemas/defects";
+import { useFirstScreenful } from "../../../lib/use-first-screenful";
 import type { RegisterState } from "../url-state";
 import { DEFAULT_ORDER, makeColumns, registerFeatures } from "./defect-columns";
 
@@ -37,6 +38,7 @@ function onGridKey(e: KeyboardEvent<HTMLTableSectionElement>) {
 
 export function RegisterTable({ siteId, rows, total, state, onState, selection, onSelection, busy }: Props) {
   const columns = useMemo(() => makeColumns(siteId), [siteId]);
+  const shown = useFirstScreenful(rows);
   const order = state.cols.length ? [...new Set(["select", ...state.cols, ...DEFAULT_ORDER])] : DEFAULT_ORDER;
   const visibility = useMemo(() => Object.fromEntries(state.hide.map((id) => [id, false])), [state.hide]);
   const sorting = useMemo(() => [{ id: state.sort, desc: state.dir === "desc" }], [state.sort, state.dir]);
@@ -44,7 +46,7 @@ export function RegisterTable({ siteId, rows, total, state, onState, selection, 
   const table = useTable({
     features: registerFeatures,
     columns,
-    data: rows,
+    data: shown,
     getRowId: (r) => r.id,
     rowCount: total,
     manualSorting: true,

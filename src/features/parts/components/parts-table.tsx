@@ -1,5 +1,6 @@
 import { functionalUpdate, useTable } from "@tanstack/react-table";
 import { useMemo } from "react";
+import { useFirstScreenful } from "../../../lib/use-first-screenful";
 import type { PartLine, PartSort } from "../../../schemas/parts";
 import { partColumns, partsFeatures } from "./part-columns";
 
@@ -17,11 +18,12 @@ interface Props {
 /** The scrounger's list: TanStack Table v9; sorting, filters and pages are in the URL and done by the server. */
 export function PartsTable({ siteId, lines, busy = false, sort, dir, onSort }: Props) {
   const columns = useMemo(() => partColumns(siteId), [siteId]);
+  const shown = useFirstScreenful(lines);
   const sorting = useMemo(() => (sort && sort !== "created" ? [{ id: sort, desc: dir === "desc" }] : []), [sort, dir]);
   const table = useTable({
     features: partsFeatures,
     columns,
-    data: lines,
+    data: shown,
     getRowId: (r) => r.id,
     manualSorting: true,
     enableMultiSort: false,
