@@ -224,7 +224,7 @@ function cases(site: BenchSite, deepPage: number, boardPages: string[]): Case[] 
     // …and, so that figure misleads nobody, the whole board read page by page to the end, one request after another.
     {
       group: "summary",
-      label: `one board: all ${site.largestBoard.positions} positions, ${boardPages.length} pages in turn`,
+      label: `one board: all ${site.largestBoard.positions} positions, ${boardPages.length === 1 ? "1 page" : `${boardPages.length} pages in turn`}`,
       path: boardPages[0],
       paths: boardPages,
     },
