@@ -76,7 +76,7 @@ test("a board of 2,000 positions draws a window of tiles, scrolls to the last on
 
   // The board came in pages (the first with the board, the rest at idle time): the copy kept on the phone holds
   // every one of its 2,000 positions, for logging against any of them with no signal.
-  await expect(page.getByTestId("board-reading")).toHaveCount(0);
+  await expect(page.getByTestId("board-reading")).toHaveAttribute("data-complete", "true");
   await expectKept(page, ["inventory", siteId, "board", board.id]);
   const kept = (await keptData(page, ["inventory", siteId, "board", board.id])) as {
     pages: { positions: { designation: string }[]; next: string | null }[];
@@ -86,4 +86,13 @@ test("a board of 2,000 positions draws a window of tiles, scrolls to the last on
   const designations = kept.pages.flatMap((p) => p.positions.map((t) => t.designation));
   expect(designations).toHaveLength(ROWS * COLS);
   expect(designations[designations.length - 1]).toBe(at(ROWS, COLS));
+
+  // The same board on a desktop screen, from its top.
+  await page.setViewportSize({ width: 1280, height: 900 });
+  await elevation.evaluate((el) => {
+    el.scrollLeft = 0;
+    window.scrollTo(0, 0);
+  });
+  await expect(page.getByTestId(`tile-${at(1, 1)}`)).toBeInViewport();
+  await page.screenshot({ path: ".data/test-results/board-window-desktop.png" });
 });

@@ -3,11 +3,11 @@ import { Link, useParams, useSearchParams } from "react-router";
 import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { EARTHING_LABELS } from "../../../domain/vocab";
+import { BOARD_PAGE } from "../../../schemas/inventory";
 import { useBoard } from "../../../features/inventory/api";
 import { BoardElevation } from "../../../features/inventory/components/board-elevation";
 import {
   ElevationFilters,
-  filtersActive,
   NO_FILTERS,
   tileMatches,
   type TileFilters,
@@ -90,10 +90,12 @@ export default function BoardElevationPage() {
         )}
       </header>
       <ElevationFilters value={filters} onChange={setFilters} matching={matching} total={total} />
-      {!complete && (
-        <p role="status" className="text-sm text-mist" data-testid="board-reading">
-          Read {positions.length.toLocaleString("en")} of {total.toLocaleString("en")} positions; the rest are on their
-          way{filtersActive(filters) ? " (the count of matches grows with them)" : ""}.
+      {/* A board read in pages keeps this line, read or not, so nothing below it moves when the last page comes. */}
+      {total > BOARD_PAGE && (
+        <p role="status" className="min-h-10 text-sm text-mist" data-testid="board-reading" data-complete={complete}>
+          {complete
+            ? `All ${total.toLocaleString("en")} positions read.`
+            : `Read ${positions.length.toLocaleString("en")} of ${total.toLocaleString("en")} positions; the rest are coming.`}
         </p>
       )}
       {positions.length === 0 && complete ? (
