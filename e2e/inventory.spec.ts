@@ -156,6 +156,30 @@ test("filters dim the tiles that do not match, without hiding them", async ({ pa
   await expectNoSeriousA11yViolations(page, "board elevation");
 });
 
+test("the board list draws each board's thumbnail from its compact read, never from the board's pages", async ({
+  page,
+  baseURL,
+}) => {
+  const m = await makeBoard(baseURL!);
+  const asked: string[] = [];
+  page.on("request", (r) => {
+    const path = new URL(r.url()).pathname;
+    if (path.startsWith("/api/sites/")) asked.push(path);
+  });
+  await signIn(page, "viewer");
+  await page.goto(`/sites/${m.siteId}/boards`);
+  const card = page
+    .locator("li, article, section")
+    .filter({ has: page.getByRole("link", { name: `Test board ${m.prefix}` }) })
+    .last();
+  await card.scrollIntoViewIfNeeded();
+  const thumb = card.getByTestId("board-thumbnail");
+  await expect(thumb).toHaveAttribute("data-cells", "3"); // the three generated positions
+  expect(asked).toContain(`/api/sites/${m.siteId}/boards/${m.boardId}/thumbnail`);
+  expect(asked.filter((p) => /\/boards\/[^/]+(\/tiles)?$/.test(p))).toEqual([]); // no board read whole or in pages
+  await page.screenshot({ path: ".data/test-results/board-list-thumbnails.png" });
+});
+
 test("every role sees the survey progress on the site overview, and it passes the accessibility scan", async ({
   page,
 }) => {

@@ -3,7 +3,7 @@ import * as repo from "./boards-repository";
 import { requireOwned } from "./common";
 import { tilePageKeyOf, type TilePageKey } from "../../src/schemas/inventory";
 import { boardPositionTotal } from "./board-summaries-repository";
-import { boardTilePage, toTile, type TileQueryRow } from "./positions-repository";
+import { boardThumbnailCells, boardTilePage, toTile, type TileQueryRow } from "./positions-repository";
 
 /** The reads of boards and flood events, as the board routes answer them. */
 
@@ -43,4 +43,19 @@ export async function boardOf(db: Db, siteId: string, boardId: string, size: num
 export async function tilesOf(db: Db, siteId: string, boardId: string, after: TilePageKey, size: number) {
   await requireOwned(db, "boards", siteId, boardId, "That board");
   return paged(await boardTilePage(db, boardId, after, size + 1), size);
+}
+
+/** A board's thumbnail (its grid, one compact cell per position); 404 when the site has no such board. */
+export async function thumbnailOf(db: Db, siteId: string, boardId: string) {
+  const [board, cells] = await Promise.all([
+    requireOwned(db, "boards", siteId, boardId, "That board"),
+    boardThumbnailCells(db, boardId),
+  ]);
+  return {
+    gridRows: board.gridRows,
+    gridCols: board.gridCols,
+    faceHeightMm: board.faceHeightMm,
+    waterLineMm: board.waterLineMm,
+    cells: cells.map((c) => [c.gridRow, c.gridCol, c.rowSpan, c.colSpan, c.astmGrade ?? null, c.custody ?? null]),
+  };
 }

@@ -60,6 +60,10 @@ export function boardRoutes(db: Db) {
     const { siteId, boardId } = boardParams.parse(req.params);
     res.json(await reads.boardOf(db, siteId, boardId, boardQuery.parse(req.query).size));
   });
+  r.get(`${S}/boards/:boardId/thumbnail`, anyMember, async (req, res) => {
+    const { siteId, boardId } = boardParams.parse(req.params);
+    res.json(await reads.thumbnailOf(db, siteId, boardId));
+  });
   r.get(`${S}/boards/:boardId/tiles`, anyMember, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);
     const { after, size } = tilePageQuery.parse(req.query);

@@ -88,6 +88,34 @@ export const boardTilePage = (db: Db, boardId: string, after: TilePageKey | null
     .limit(limit)
     .execute();
 
+/**
+ * What a board's thumbnail draws, every position in board order: its place on the grid, its current
+ * component's custody and that component's newest ASTM grade (the same lateral read as the tiles'), no counts.
+ */
+export const boardThumbnailCells = (db: Db, boardId: string) =>
+  db
+    .selectFrom("positions as p")
+    .leftJoin("components as c", (j) => j.onRef("c.positionId", "=", "p.id").on("c.retiredAt", "is", null))
+    .leftJoinLateral(
+      (eb) =>
+        eb
+          .selectFrom("inspections as i")
+          .select(["i.astmGrade"])
+          .whereRef("i.componentId", "=", "c.id")
+          .orderBy("i.inspectedAt", "desc")
+          .orderBy("i.createdAt", "desc")
+          .limit(1)
+          .as("li"),
+      (j) => j.onTrue(),
+    )
+    .select(["p.gridRow", "p.gridCol", "p.rowSpan", "p.colSpan", "li.astmGrade", "c.custody"])
+    .where("p.boardId", "=", boardId)
+    .orderBy("p.gridRow")
+    .orderBy("p.gridCol")
+    .orderBy("p.sortOrder")
+    .orderBy("p.id")
+    .execute();
+
 export type TileQueryRow = Awaited<ReturnType<typeof boardTilePage>>[number];
 
 export function toTile(r: TileQueryRow) {

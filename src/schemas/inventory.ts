@@ -327,6 +327,20 @@ export const boardDetailResponse = z.object({
 });
 export const tilePageResponse = z.object({ positions: z.array(tileRowSchema), next: z.string().nullable() });
 export type TilePage = z.infer<typeof tilePageResponse>;
+/**
+ * A board's small picture for the board list: its grid and one cell per position, as
+ * [row, column, row span, column span, newest ASTM grade or null, custody or null]: a few bytes a
+ * position, where the board's pages carry every field of every tile.
+ */
+export const boardThumbnailResponse = z.object({
+  gridRows: z.number(),
+  gridCols: z.number(),
+  faceHeightMm: z.number().nullable(),
+  waterLineMm: z.number().nullable(),
+  cells: z.array(
+    z.tuple([z.number(), z.number(), z.number(), z.number(), z.number().nullable(), z.enum(CUSTODY).nullable()]),
+  ),
+});
 export type BoardDetail = z.infer<typeof boardDetailResponse>;
 /** POST /boards/:boardId/positions → 201 this; generate → 201 { positions: [this…] }. */
 export const createdPositionResponse = z.object({ position: positionSchema, component: componentSchema });

@@ -86,6 +86,8 @@ export const ACCESS: Record<string, Access> = {
   "GET /api/sites/:siteId/boards": "member",
   "POST /api/sites/:siteId/boards": CURATOR,
   "GET /api/sites/:siteId/boards/:boardId": "member",
+  "GET /api/sites/:siteId/boards/:boardId/tiles": "member",
+  "GET /api/sites/:siteId/boards/:boardId/thumbnail": "member",
   "PATCH /api/sites/:siteId/boards/:boardId": CURATOR,
   "POST /api/sites/:siteId/boards/:boardId/sections": CURATOR,
   "PATCH /api/sites/:siteId/sections/:sectionId": CURATOR,

@@ -4,7 +4,7 @@
  * board is the same tiles in the same order as read in one page; a bad key or size is a 400 that says why.
  */
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { boardDetailResponse, tilePageResponse } from "../../src/schemas/inventory";
+import { boardDetailResponse, boardThumbnailResponse, tilePageResponse } from "../../src/schemas/inventory";
 import { createTestDb, type TestDb } from "../helpers/db";
 import { makeCrew } from "../helpers/fixtures";
 import { Client, startTestServer, type TestServer } from "../helpers/http";
@@ -138,5 +138,45 @@ describe("a board in pages", () => {
     const none = "00000000-0000-4000-8000-000000000000";
     expect((await as.viewer.get(`${base}/boards/${none}/tiles?after=${key}`)).status).toBe(404);
     expect((await server.client().get(`${base}/boards/${boardId}/tiles?after=${key}`)).status).toBe(401);
+  });
+});
+
+describe("a board's thumbnail", () => {
+  it("holds one compact cell per position, in board order, with the grade and custody the tiles show", async () => {
+    const { pages } = await walk(7);
+    const tiles = pages.flat();
+    const graded = tiles.find((p) => p.component)!;
+    const inspected = await as.curator.post(`${base}/components/${graded.component!.id}/inspections`, {
+      percentRusted: 30,
+    });
+    expect(inspected.status).toBe(201);
+    const after = (await walk(500)).pages.flat();
+    expect(after.find((p) => p.id === graded.id)!.latest?.astmGrade).not.toBeNull();
+    const r = await as.viewer.get(`${base}/boards/${boardId}/thumbnail`);
+    expect(r.status).toBe(200);
+    expect(boardThumbnailResponse.parse(r.body)).toEqual({
+      gridRows: 6,
+      gridCols: 10,
+      faceHeightMm: null,
+      waterLineMm: null,
+      cells: after.map((p) => [
+        p.gridRow,
+        p.gridCol,
+        p.rowSpan,
+        p.colSpan,
+        p.latest?.astmGrade ?? null,
+        p.component?.custody ?? null,
+      ]),
+    });
+  });
+
+  it("answers 404 for a board the site does not have, and nothing to someone who is not a member", async () => {
+    const missing = await as.viewer.get(`${base}/boards/00000000-0000-4000-8000-000000000000/thumbnail`);
+    expect(missing.status).toBe(404);
+    expect((await as.viewer.get(`${base}/boards/not-an-id/thumbnail`)).status).toBe(400);
+    const outsider = await as.outsider.get(`${base}/boards/${boardId}/thumbnail`);
+    expect(outsider.status).toBe((await as.outsider.get(`${base}/boards/${boardId}`)).status);
+    expect(outsider.status).toBeGreaterThanOrEqual(403);
+    expect(JSON.stringify(outsider.body)).not.toContain("cells");
   });
 });

@@ -130,6 +130,7 @@ const ENDPOINTS: Array<[string, (s: (typeof sites)["small"]) => string]> = [
   ["site overview", (s) => `/api/sites/${s.id}/overview`],
   ["board list", (s) => `/api/sites/${s.id}/boards`],
   ["one board", (s) => `/api/sites/${s.id}/boards/${s.boardId}`],
+  ["a board's thumbnail", (s) => `/api/sites/${s.id}/boards/${s.boardId}/thumbnail`],
   ["a board's readings", (s) => `/api/sites/${s.id}/boards/${s.boardId}/readings`],
   ["a board's insulation readings", (s) => `/api/sites/${s.id}/boards/${s.boardId}/insulation-readings`],
   ["a board's contact readings", (s) => `/api/sites/${s.id}/boards/${s.boardId}/contact-readings`],

@@ -16,6 +16,7 @@ import {
   boardDetailResponse,
   boardListResponse,
   boardSchema,
+  boardThumbnailResponse,
   componentSchema,
   createdPositionResponse,
   custodyOptionsResponse,
@@ -56,6 +57,9 @@ export const inventoryKeys = {
   boards: (siteId: string) => [...inventoryKeys.all(siteId), "boards"] as const,
   /** A board read in pages (an infinite query: the head and first page, then the rest). */
   board: (siteId: string, boardId: string) => [...inventoryKeys.all(siteId), "board", boardId, "pages"] as const,
+  /** A board's small picture on the board list (one compact cell per position). */
+  thumbnail: (siteId: string, boardId: string) =>
+    [...inventoryKeys.all(siteId), "board", boardId, "thumbnail"] as const,
   position: (siteId: string, positionId: string) => [...inventoryKeys.all(siteId), "position", positionId] as const,
   lookup: (siteId: string, q: string) => [...inventoryKeys.all(siteId), "lookup", q] as const,
   custodyOptions: (siteId: string, componentId: string) =>
@@ -151,6 +155,13 @@ export function useBoard(siteId: string, boardId: string) {
   }, [hasNextPage, isFetching, isFetchNextPageError, fetchNextPage]);
   return q;
 }
+/** A board's thumbnail, read only once `enabled` (the card is near the screen): never the board's own pages. */
+export const useBoardThumbnail = (siteId: string, boardId: string, enabled: boolean) =>
+  useQuery({
+    queryKey: inventoryKeys.thumbnail(siteId, boardId),
+    queryFn: ({ signal }) => api.get(`${base(siteId)}/boards/${boardId}/thumbnail`, boardThumbnailResponse, signal),
+    enabled,
+  });
 export const usePosition = (siteId: string, positionId: string | null) =>
   useQuery({ ...positionQueryOptions(siteId, positionId ?? ""), enabled: !!positionId });
 export const useLookup = (siteId: string, q: string) =>
