@@ -46,6 +46,9 @@ test("a board of 2,000 positions draws a window of tiles, scrolls to the last on
   expect(first).toBeLessThan(300); // a window, not 2,000
   await page.screenshot({ path: ".data/test-results/board-window-phone.png" });
 
+  // Every page read first: rows grow to fit their tiles' words, so the board's height can still change while the
+  // later pages arrive, and a scroll to its bottom edge made before then can end short of it.
+  await expect(page.getByTestId("board-reading")).toHaveAttribute("data-complete", "true");
   // Scroll the page to the board's bottom edge and the board's own box to its right edge: the last tile is drawn.
   await elevation.evaluate((el) => {
     window.scrollTo(0, el.getBoundingClientRect().bottom + window.scrollY - window.innerHeight);
