@@ -12,6 +12,19 @@ export const findRow = async (db: Db, siteId: string, id: string) =>
 export const lockDefect = (db: Db, siteId: string, id: string) =>
   db.selectFrom("defects").selectAll().where("siteId", "=", siteId).where("id", "=", id).forUpdate().executeTakeFirst();
 
+/** Locks these defects of the site in id order (one order for every writer that takes several). */
+export const lockDefects = (db: Db, siteId: string, ids: readonly string[]) =>
+  ids.length
+    ? db
+        .selectFrom("defects")
+        .select("id")
+        .where("siteId", "=", siteId)
+        .where("id", "in", [...ids])
+        .orderBy("id")
+        .forUpdate()
+        .execute()
+    : Promise.resolve([]);
+
 export const insertDefect = (db: Db, v: Insertable<Database["defects"]>) =>
   db.insertInto("defects").values(v).returning("id").executeTakeFirstOrThrow();
 

@@ -417,6 +417,14 @@ export async function transition(
  * or the volunteer doing it). Otherwise its status stays where it is and whoever repairs it
  * moves it on; a part arriving never skips the workflow.
  */
+/**
+ * Locks defects another domain's use case will write through `partFitted` later in its transaction, in
+ * id order and before that use case takes its own locks (the wanted list's lock order, see
+ * server/parts/workflow.ts).
+ */
+export const lockDefectsFor = (trx: Db, siteId: string, ids: readonly string[]) =>
+  repo.lockDefects(trx, siteId, [...new Set(ids)]);
+
 export async function partFitted(trx: Db, ctx: Ctx, defectId: string, note: string) {
   let d = await repo.lockDefect(trx, ctx.siteId, defectId);
   if (!d) return null;

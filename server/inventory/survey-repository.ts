@@ -2,6 +2,19 @@ import { sql, type Insertable } from "kysely";
 import type { CustodyMovesTable, DispositionDecisionsTable, InspectionsTable } from "../../db/types";
 import type { Db } from "../db";
 
+/** Locks these components of the site in id order (one order for every writer that takes several). */
+export const lockComponents = (db: Db, siteId: string, ids: readonly string[]) =>
+  ids.length
+    ? db
+        .selectFrom("components")
+        .select("id")
+        .where("siteId", "=", siteId)
+        .where("id", "in", [...ids])
+        .orderBy("id")
+        .forUpdate()
+        .execute()
+    : Promise.resolve([]);
+
 export const latestInspection = (db: Db, componentId: string) =>
   db
     .selectFrom("inspections")

@@ -285,6 +285,14 @@ export async function moveCustodyFor(
   return component;
 }
 
+/**
+ * Locks components another domain's use case will move through `moveCustodyFor` later in its
+ * transaction, in id order and before that use case takes its own locks (the wanted list's lock order,
+ * see server/parts/workflow.ts).
+ */
+export const lockComponentsFor = (trx: Db, siteId: string, ids: readonly string[]) =>
+  repo.lockComponents(trx, siteId, [...new Set(ids)]);
+
 /** What the custody form shows before a move: the rules each state would break and the proposed next move. */
 export async function custodyOptions(db: Db, siteId: string, componentId: string) {
   const c = await requireOwned(db, "components", siteId, componentId, "That component");

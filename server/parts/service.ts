@@ -161,6 +161,7 @@ export async function updateLine(
   actorId: string,
 ) {
   await db.transaction().execute(async (trx) => {
+    await repo.lockSiteParts(trx, siteId); // before the line: a changed spec syncs the site's demand (lock order in workflow.ts)
     const line = await lockedLine(trx, siteId, lineId, b.version);
     const { version: _v, ...patch } = b;
     if (patch.manualQty !== undefined && line.origin === "manual" && patch.manualQty < 1)

@@ -23,7 +23,7 @@ import { lineRow, lockedLine } from "./rows";
 import * as defects from "../defects/service";
 import { holdBudget, refreshBudget } from "./budget-repository";
 import { syncDemand } from "./demand";
-import { moveCustodyFor } from "../inventory/survey-service";
+import { lockComponentsFor, moveCustodyFor } from "../inventory/survey-service";
 
 type Body = z.infer<typeof statusBody>;
 
@@ -31,6 +31,7 @@ export async function moveLineStatus(db: Db, siteId: string, lineId: string, b: 
   const actorId = actor.id;
   const ctx: defects.Ctx = { siteId, actor, notices: [] };
   await db.transaction().execute(async (trx) => {
+    await lockInOrder(trx, siteId, lineId, b.to);
     const line = await lockedLine(trx, siteId, lineId, b.version);
     await holdBudget(trx, siteId); // before the custody moves and their board summaries (see holdBudget)
     if (!canMovePart(line.status, b.to))
@@ -81,6 +82,35 @@ export async function moveLineStatus(db: Db, siteId: string, lineId: string, b: 
     await refreshBudget(trx, siteId, [lineId]); // its status, fitted links or acquisitions
   });
   return { line: await lineRow(db, siteId, lineId, true), ctx };
+}
+
+/**
+ * The wanted list's lock order, shared by every writer of it: the register's rows a write changes
+ * (components, then defects, each in id order), then the site's demand lock (`lockSiteParts`), then
+ * line rows, then the budget lock (`holdBudget`), then the boards' summary locks. A disposition
+ * change holds its component and then syncs the demand (demand lock → lines → budget); a status move
+ * used to take its line and the budget lock first and its components last, so the two could wait on
+ * each other in a circle. Now the move takes the components (and, to fit, the defects) its line's
+ * links name before anything else, and the two wait in line instead. The links are read unlocked to
+ * know what to lock; they change only under the demand lock, so a link added between that read and
+ * the demand lock (rare) has its component taken later, out of order, as before.
+ */
+async function lockInOrder(trx: Db, siteId: string, lineId: string, to: Body["to"]) {
+  if (to === "received" || to === "fitted") {
+    const links = await repo.activeLinksOfLine(trx, lineId);
+    await lockComponentsFor(
+      trx,
+      siteId,
+      links.flatMap((l) => (l.componentId ? [l.componentId] : [])),
+    );
+    if (to === "fitted")
+      await defects.lockDefectsFor(
+        trx,
+        siteId,
+        links.flatMap((l) => (l.defectId ? [l.defectId] : [])),
+      );
+  }
+  await repo.lockSiteParts(trx, siteId);
 }
 
 async function needAcquisition(trx: Db, siteId: string, lineId: string, a: unknown, actorId: string) {
