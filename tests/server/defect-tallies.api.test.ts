@@ -161,6 +161,49 @@ describe("the register's total from the kept tallies", () => {
     expect(now.kept).toEqual(now.counted);
   });
 
+  it("a delete of many defects (as a board's cascade makes) applies its tallies in key order too: no deadlock", async () => {
+    // A fresh board with one defect in each of its 28 keys (status × severity), written high key first so the
+    // table holds their rows in that order. A first writer holds the lowest key's row; a delete of all 28 defects
+    // then waits for it holding no tally row when it goes in key order, and the first writer goes on to add a
+    // defect to every other key (one statement, in key order). Applied in any other order, the delete holds some
+    // of those rows while it waits for the lowest one, and the two wait on each other: "deadlock detected".
+    const board = await makeBoard(t.db, fx.siteId, "Bilge pump board", 1);
+    const keys = DEFECT_STATUSES.flatMap((status) => DEFECT_SEVERITIES.map((severity) => ({ status, severity }))).sort(
+      (a, b) => (a.status + "/" + a.severity < b.status + "/" + b.severity ? -1 : 1),
+    );
+    const add = (ks: typeof keys, title: string) =>
+      sql`INSERT INTO defects (site_id, board_id, title, category, severity, status)
+        SELECT ${fx.siteId}, ${board.boardId}, ${title}, 'corrosion', k.severity, k.status
+        FROM jsonb_to_recordset(${JSON.stringify(ks)}::jsonb) AS k(status text, severity text)`;
+    for (const k of [...keys].reverse()) await add([k], "Delete order").execute(t.db);
+    const waiting = async () =>
+      (
+        await sql<{ n: number }>`SELECT count(*)::int AS n FROM pg_stat_activity
+          WHERE datname = current_database() AND wait_event_type = 'Lock'`.execute(t.db)
+      ).rows[0].n;
+    let firstWrote!: () => void;
+    const firstHasWritten = new Promise<void>((r) => (firstWrote = r));
+    let deleteStarted!: () => void;
+    const deleteIsWaiting = new Promise<void>((r) => (deleteStarted = r));
+    const first = t.db.transaction().execute(async (trx) => {
+      await add(keys.slice(0, 1), "Delete order, held").execute(trx);
+      firstWrote();
+      await deleteIsWaiting;
+      for (let i = 0; i < 250 && (await waiting()) < 1; i++) await new Promise((r) => setTimeout(r, 20));
+      await add(keys.slice(1), "Delete order, held").execute(trx);
+    });
+    await firstHasWritten;
+    const remove = t.db.transaction().execute(async (trx) => {
+      const del = sql`DELETE FROM defects WHERE board_id = ${board.boardId} AND title = 'Delete order'`.execute(trx);
+      deleteStarted();
+      await del;
+    });
+    const results = await Promise.allSettled([first, remove]);
+    expect(results.map((r) => (r.status === "rejected" ? String(r.reason) : "ok"))).toEqual(["ok", "ok"]);
+    const now = await tallies();
+    expect(now.kept).toEqual(now.counted);
+  });
+
   it("a write rolled back leaves the tallies as they were", async () => {
     const before = await tallies();
     await t.db
