@@ -272,6 +272,9 @@ export async function syncDemand(
     withdrawals,
     attachments,
     newLines: newLines.map((x) => x.line),
+    // A line can be left empty only by this sync's withdrawals, or by links that went with their source
+    // (scope.lineIds); the whole site's sync looks at every line.
+    mayEmpty: scope === "site" ? null : [...withdrawals.map((w) => w.link.lineId), ...(scope.lineIds ?? [])],
   });
   // Every line whose links, status or quantity moved (new lines too) has its budget counted again, last.
   await refreshBudget(trx, siteId, [
@@ -354,7 +357,12 @@ async function write(
   trx: Db,
   siteId: string,
   actorId: string | null,
-  plan: { withdrawals: Withdrawal[]; attachments: Attachment[]; newLines: repo.LineRecord[] },
+  plan: {
+    withdrawals: Withdrawal[];
+    attachments: Attachment[];
+    newLines: repo.LineRecord[];
+    mayEmpty: string[] | null;
+  },
 ) {
   const history: History[] = [];
   const audit: AuditEntry[] = [];
@@ -467,7 +475,7 @@ async function write(
     });
   }
   // Register lines still at wanted / lead found with no demand left close themselves; bought parts stay (as spares).
-  const closed = await repo.cancelEmptyRegisterLines(trx, siteId);
+  const closed = await repo.cancelEmptyRegisterLines(trx, siteId, plan.mayEmpty);
   for (const l of closed) {
     history.push({
       siteId,

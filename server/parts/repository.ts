@@ -433,13 +433,19 @@ export const reopenAutoCancelled = (trx: Db, lineIds: string[]) =>
     .returning(["pl.id", "pl.status"])
     .execute();
 
-/** Register lines still at wanted / lead found with no demand left close themselves; bought parts stay (as spares). */
-export const cancelEmptyRegisterLines = async (trx: Db, siteId: string) =>
-  (
-    await sql<{ id: string; fromStatus: PartStatus }>`
+/**
+ * Register lines still at wanted / lead found with no demand left close themselves; bought parts stay (as
+ * spares). Only `lineIds` are looked at (the lines a sync took links from), or every line of the site when null.
+ */
+export const cancelEmptyRegisterLines = async (trx: Db, siteId: string, lineIds: readonly string[] | null) =>
+  lineIds && !lineIds.length
+    ? []
+    : (
+        await sql<{ id: string; fromStatus: PartStatus }>`
     with empty as (
       select pl.id, pl.status from part_lines pl
-      where pl.site_id = ${siteId} and pl.origin = 'register' and pl.manual_qty = 0 and pl.status in ('wanted', 'lead_found')
+      where pl.site_id = ${siteId} ${lineIds ? sql`and pl.id = any(${[...new Set(lineIds)].sort()}::uuid[])` : sql``}
+        and pl.origin = 'register' and pl.manual_qty = 0 and pl.status in ('wanted', 'lead_found')
         and not exists (select 1 from part_demand_links l where l.line_id = pl.id and l.active)
       for update
     )
@@ -447,7 +453,7 @@ export const cancelEmptyRegisterLines = async (trx: Db, siteId: string) =>
       version = pl.version + 1, updated_at = now()
     from empty where pl.id = empty.id
     returning pl.id, empty.status as "fromStatus"`.execute(trx)
-  ).rows;
+      ).rows;
 
 export const insertHistoryRows = (trx: Db, rows: Insertable<Database["partLineHistory"]>[]) =>
   trx.insertInto("partLineHistory").values(rows).execute();

@@ -3,6 +3,7 @@ import { reconcileDemand } from "../../server/parts/service";
 import { createTestDb, type TestDb } from "../helpers/db";
 import { makeCrew } from "../helpers/fixtures";
 import { startTestServer, type Client, type TestServer } from "../helpers/http";
+import { loggingDb } from "../helpers/query-log";
 import { BREAKER, makeBoard, makeComponent, makeDefect, registerChanged, setDisposition } from "./parts-fixtures";
 
 // Merging rules: Tideline's own (src/domain/parts.ts). These tests check the
@@ -251,6 +252,43 @@ describe("through the defects and inventory services (kept current by the writes
     expect(r.status, JSON.stringify(r.body)).toBe(200);
     const lines = await list();
     expect(lines.map((l) => l.ratingAmps)).toEqual([600]);
+  });
+
+  it("a sync closes only the lines it took demand from: a line left empty by hand waits for its own change or the whole site's", async () => {
+    const kept = await makeComponent(t.db, siteId, boardId, "11-1", {
+      ...BREAKER,
+      model: "NB 11",
+      disposition: "replace",
+    });
+    await setDisposition(t.db, kept.componentId, "clean");
+    const line = (await list("?status=all")).find((l) => l.model === "NB 11")!;
+    expect(line.status).toBe("cancelled");
+    // Reopened by hand with nothing asking for it: another component's change leaves it alone.
+    const r = await scrounger.post(`/api/sites/${siteId}/parts/${line.id}/status`, {
+      to: "wanted",
+      version: line.version,
+    });
+    expect(r.status, JSON.stringify(r.body)).toBe(200);
+    const log = loggingDb(t.url);
+    try {
+      const other = await makeComponent(log.db, siteId, boardId, "11-2", { ...BREAKER, model: "NB 12" });
+      log.reset();
+      await setDisposition(log.db, other.componentId, "replace"); // adds demand, withdraws none
+      expect(log.statements.filter((q) => /set status = 'cancelled'/.test(q))).toEqual([]);
+      log.reset();
+      await setDisposition(log.db, other.componentId, "clean"); // withdraws from its own line only
+      const cancels = log.statements.filter((q) => /set status = 'cancelled'/.test(q));
+      expect(cancels).toHaveLength(1);
+      expect(cancels[0]).toMatch(/pl\.id = any\(/);
+    } finally {
+      await log.close();
+    }
+    const now = await list("?status=all");
+    expect(now.find((l) => l.model === "NB 11")).toMatchObject({ status: "wanted" });
+    expect(now.find((l) => l.model === "NB 12")).toMatchObject({ status: "cancelled" });
+    // The whole site's reconcile looks at every line, as before.
+    await t.db.transaction().execute((trx) => reconcileDemand(trx, siteId));
+    expect((await list("?status=all")).find((l) => l.model === "NB 11")).toMatchObject({ status: "cancelled" });
   });
 
   it("pages and filters on the server: size, page, total and a text search", async () => {
