@@ -20,6 +20,7 @@ import {
   plainErrorPage,
   securityHeaders,
 } from "./middleware/hardening";
+import { answerCompression } from "./middleware/compress";
 import { originCheck } from "./middleware/origin";
 import { requireAdmin } from "./middleware/roles";
 import { sessionMiddleware } from "./middleware/session";
@@ -138,14 +139,11 @@ export function createApp(deps: AppDeps) {
     ),
   );
 
-  // gzip for JSON, HTML, JS and CSS (a 345 KiB entry and MBs of JSON went raw). Downloads
+  // brotli or gzip for JSON, HTML, JS and CSS (a 345 KiB entry and MBs of JSON went raw). Downloads
   // (Content-Disposition: attachment) stream uncompressed with their own back-pressure; images are
-  // already compressed and the `compression` package's default filter leaves them alone.
-  app.use(
-    compression({
-      filter: (req, res) => !res.getHeader("Content-Disposition") && compression.filter(req, res),
-    }),
-  );
+  // already compressed and the `compression` package's default filter leaves them alone. A whole answer up to
+  // 128 kB is compressed in one call on the loop, the rest as a stream off it (server/middleware/compress.ts).
+  app.use(answerCompression((req, res) => !res.getHeader("Content-Disposition") && compression.filter(req, res)));
 
   const api = Router();
   api.use("/sites/:siteId/inventory/import", express.json({ limit: "2mb" })); // a CSV file sent as JSON {csv}
