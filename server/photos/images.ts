@@ -174,22 +174,25 @@ const box = (px: number) => ({ width: px, height: px, fit: "inside" as const, wi
  * time for a smaller file nobody waits on; the thumbnail, sent to
  * every phone in a gallery, keeps mozjpeg's smaller output at a tiny cost.
  * JPEG rather than WebP so any EXIF reader can check the result.
+ * Two steps, so the rendition job can store the display copy while the thumbnail is encoded.
  */
-export async function renderRenditions(
-  original: Buffer,
-  facts: Pick<ImageFacts, "hevc">,
-  name: string,
-): Promise<{ display: Buffer; thumb: Buffer }> {
+export async function renderDisplay(original: Buffer, facts: Pick<ImageFacts, "hevc">, name: string): Promise<Buffer> {
+  return renditionErrors(name, async () =>
+    (await pixelSource(original, facts.hevc)).rotate().resize(box(DISPLAY_PX)).jpeg({ quality: 82 }).toBuffer(),
+  );
+}
+
+/** The thumbnail, from the display copy renderDisplay made. */
+export async function renderThumb(display: Buffer, name: string): Promise<Buffer> {
+  return renditionErrors(name, () =>
+    sharp(display).resize(box(THUMB_PX)).jpeg({ quality: 82, mozjpeg: true }).toBuffer(),
+  );
+}
+
+/** A picture that cannot be decoded is a refusal (AppError: trying again will not help). */
+async function renditionErrors<T>(name: string, work: () => Promise<T>): Promise<T> {
   try {
-    const display = await (
-      await pixelSource(original, facts.hevc)
-    )
-      .rotate()
-      .resize(box(DISPLAY_PX))
-      .jpeg({ quality: 82 })
-      .toBuffer();
-    const thumb = await sharp(display).resize(box(THUMB_PX)).jpeg({ quality: 82, mozjpeg: true }).toBuffer();
-    return { display, thumb };
+    return await work();
   } catch (e) {
     if (e instanceof AppError) throw e;
     const msg = (e as Error).message;
@@ -201,6 +204,16 @@ export async function renderRenditions(
       "the picture is damaged or cut short (the upload may have been interrupted); try it again.",
     );
   }
+}
+
+/** Both renditions, one after the other (the demo seed and tests). */
+export async function renderRenditions(
+  original: Buffer,
+  facts: Pick<ImageFacts, "hevc">,
+  name: string,
+): Promise<{ display: Buffer; thumb: Buffer }> {
+  const display = await renderDisplay(original, facts, name);
+  return { display, thumb: await renderThumb(display, name) };
 }
 
 /** Facts and renditions at once, from bytes (the demo seed). */

@@ -8,7 +8,7 @@ import { PHOTO_KINDS, type PhotoKind, type Role } from "../../src/domain/vocab";
 import { can } from "../../src/domain/permissions";
 import type { Jobs } from "../jobs";
 import { log } from "../log";
-import { inspectImage, renderRenditions, type ImageFacts } from "./images";
+import { inspectImage, renderDisplay, renderThumb, type ImageFacts } from "./images";
 import * as repo from "./repository";
 import { photoKey, type PhotoStorage } from "./storage";
 import { assertMayAttach, resolveTarget } from "./targets";
@@ -107,7 +107,11 @@ export async function uploadPhotos(
           positionId: target.positionId,
           after: { kind: fields.kind, originalName: name, ...target },
         });
-        await jobs.enqueue(RENDITION_JOB, { siteId, photoId: id, hevc: facts.hevc }, { trx });
+        await jobs.enqueue(
+          RENDITION_JOB,
+          { siteId, photoId: id, hevc: facts.hevc, originalKey: keys.originalKey } satisfies RenditionJob,
+          { trx },
+        );
         ids.push(id);
       }
       return ids;
@@ -121,40 +125,76 @@ export async function uploadPhotos(
   }
 }
 
+/** A rendition job's payload; `originalKey` is absent from jobs queued before 2026-12-03 evening. */
+export interface RenditionJob {
+  siteId: string;
+  photoId: string;
+  hevc: boolean;
+  originalKey?: string;
+}
+
 /**
  * The rendition job: read the original back from the store, decode it once, write the
  * display copy and the thumbnail, mark the photo ready. A picture that cannot be decoded
  * is marked failed at once (trying again would not help); a store or database hiccup is
  * retried, and marked failed with its reason after the last attempt.
+ * Nothing waits that need not: the original is read while the row is looked up (the job names
+ * its key), and the display copy is stored while the thumbnail is encoded.
  */
 export function definePhotoJobs(
   jobs: Jobs,
   deps: { db: Db; photoStorage: PhotoStorage },
   onRendered?: (seconds: number) => void,
 ) {
-  jobs.define<{ siteId: string; photoId: string; hevc: boolean }>(
+  jobs.define<RenditionJob>(
     RENDITION_JOB,
-    async ({ siteId, photoId, hevc }, ctx) => {
+    async ({ siteId, photoId, hevc, originalKey }, ctx) => {
+      // Settled at once, so a failed read is never an unhandled rejection when the row says "skip".
+      const early = originalKey
+        ? deps.photoStorage.getBytes(originalKey).then(
+            (bytes) => ({ bytes }),
+            (error: unknown) => ({ error }),
+          )
+        : undefined;
       const row = await repo.findPhoto(deps.db, siteId, photoId);
       if (!row || row.renditionState === "ready") return;
       const t0 = performance.now();
-      let out: { display: Buffer; thumb: Buffer };
-      try {
-        const original = await deps.photoStorage.getBytes(row.originalKey);
-        out = await renderRenditions(original, { hevc }, row.originalName || "photo");
-      } catch (e) {
+      const name = row.originalName || "photo";
+      /** A refused picture is failed now; anything else is retried, and failed on its last attempt. */
+      const failed = async (e: unknown, why: string) => {
         const permanent = e instanceof AppError;
-        if (permanent || ctx.lastAttempt) {
-          const why = permanent
-            ? ((e as AppError).fields?.file ?? e.message)
-            : "the display copy could not be made; try uploading it again.";
-          await repo.setRenditionState(deps.db, photoId, "failed", String(why));
-          if (permanent) return;
-        }
-        throw e;
+        if (permanent || ctx.lastAttempt)
+          await repo.setRenditionState(
+            deps.db,
+            photoId,
+            "failed",
+            String(permanent ? ((e as AppError).fields?.file ?? e.message) : why),
+          );
+        if (!permanent) throw e;
+      };
+      let display: Buffer;
+      try {
+        const read = early && row.originalKey === originalKey ? await early : undefined;
+        if (read && "error" in read) throw read.error;
+        const original = read ? read.bytes : await deps.photoStorage.getBytes(row.originalKey);
+        display = await renderDisplay(original, { hevc }, name);
+      } catch (e) {
+        return failed(e, "the display copy could not be made; try uploading it again.");
       }
-      await deps.photoStorage.put(row.displayKey, out.display, "image/jpeg");
-      await deps.photoStorage.put(row.thumbKey, out.thumb, "image/jpeg");
+      const storingDisplay = deps.photoStorage.put(row.displayKey, display, "image/jpeg");
+      storingDisplay.catch(() => undefined); // awaited below; never an unhandled rejection meanwhile
+      let thumb: Buffer;
+      try {
+        thumb = await renderThumb(display, name);
+      } catch (e) {
+        await storingDisplay.catch(() => undefined);
+        return failed(e, "the thumbnail could not be made; try uploading it again.");
+      }
+      try {
+        await Promise.all([storingDisplay, deps.photoStorage.put(row.thumbKey, thumb, "image/jpeg")]);
+      } catch (e) {
+        return failed(e, "the display copy could not be stored; try uploading it again.");
+      }
       await repo.setRenditionState(deps.db, photoId, "ready", null);
       onRendered?.((performance.now() - t0) / 1000);
     },

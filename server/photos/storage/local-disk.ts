@@ -35,10 +35,14 @@ export class LocalDiskStorage implements PhotoStorage {
 
   async put(key: string, body: Buffer, _contentType?: string) {
     const p = this.path(key);
-    await mkdir(dirname(p), { recursive: true });
-    // Write beside, then rename: a reader never sees half a file.
+    // Write beside, then rename: a reader never sees half a file. The folder is made only when
+    // missing (a rendition's folder already holds its original: one file-system call fewer).
     const tmp = `${p}.${process.pid}.partial`;
-    await writeFile(tmp, body);
+    await writeFile(tmp, body).catch(async (e: NodeJS.ErrnoException) => {
+      if (e.code !== "ENOENT") throw e;
+      await mkdir(dirname(p), { recursive: true });
+      await writeFile(tmp, body);
+    });
     await rename(tmp, p);
   }
 
