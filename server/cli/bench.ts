@@ -40,6 +40,7 @@ import { createServer } from "node:net";
 import { cpus, totalmem } from "node:os";
 import { join } from "node:path";
 import { Agent, request } from "node:http";
+import { monitorEventLoopDelay } from "node:perf_hooks";
 import { brotliDecompressSync, gunzipSync, inflateSync } from "node:zlib";
 import pg from "pg";
 import { openLocalDatabase } from "../../db/local";
@@ -51,7 +52,15 @@ import { CSV_COLUMNS, inlineParameters } from "../defects/csv";
 import { applySort, registerBase } from "../defects/list-repository";
 import { measurePaint, openBrowser, STATIC_PAGE, writeStaticPage, type PaintFigures } from "../bench/paint";
 import { EVENT_LOOP_RESOLUTION_MS } from "../observability/metrics";
-import { clusterCpu, cpuBetween, cpuSecondsOf, eventLoopDelay, parentOf, startCanary } from "../bench/load";
+import {
+  clusterCpu,
+  cpuBetween,
+  cpuSecondsOf,
+  eventLoopDelay,
+  parentOf,
+  startCanary,
+  startHealthProber,
+} from "../bench/load";
 import { capturingDb, planReplay, replay, type Replay } from "../bench/replay";
 import { BENCH_PASSWORD, describeSite, generateSite, type BenchSite } from "../bench/site";
 import { median, percentile, spread, table } from "../bench/stats";
@@ -462,6 +471,10 @@ async function main() {
         serverCores: [] as number[],
         pgCpuHttp: [] as number[],
         pgCpuRaw: [] as number[],
+        hp95InProc: [] as number[],
+        benchCpuHttp: [] as number[],
+        benchCpuRaw: [] as number[],
+        benchEldMax: [] as number[],
       };
       const errorKinds = new Map<string, number>();
       const httpHalf = async () => {
@@ -475,15 +488,24 @@ async function main() {
         let errors = 0;
         const lat: number[] = [];
         const hl: number[] = [];
+        // /api/health is timed from a process of its own: timed in this one, its answer also waited for this
+        // process's event loop to read it among the 50 clients' answers. BENCH_HEALTH_INPROC=1 also times it here,
+        // as the bench did before 2026-12-03 17:50 UTC, to show the difference.
+        const prober = startHealthProber(base);
+        const hlIn: number[] = [];
         const healthAgent = new Agent({ keepAlive: true, maxSockets: 1 });
-        const prober = (async () => {
-          while (performance.now() < until) {
+        const inProc = (async () => {
+          while (process.env.BENCH_HEALTH_INPROC === "1" && performance.now() < until) {
             const a = performance.now();
             await timedGet(base, "/api/health", null, healthAgent).catch(() => undefined);
-            hl.push(performance.now() - a);
+            hlIn.push(performance.now() - a);
             await new Promise((r) => setTimeout(r, 50));
           }
         })();
+        // What the load generator itself costs: its CPU and its own event loop's delay.
+        const benchLoop = monitorEventLoopDelay({ resolution: EVENT_LOOP_RESOLUTION_MS });
+        benchLoop.enable();
+        const benchCpu0 = process.cpuUsage();
         const t0 = performance.now();
         await Promise.all(
           Array.from({ length: CLIENTS }, async (_, k) => {
@@ -500,7 +522,10 @@ async function main() {
           }),
         );
         const secs = (performance.now() - t0) / 1000;
-        await prober;
+        const benchCpu = process.cpuUsage(benchCpu0);
+        benchLoop.disable();
+        hl.push(...(await prober.stop()));
+        await inProc;
         const cpu = cpuSecondsOf(child.pid!) - cpu0;
         const pgCpu = cpuBetween(pg0, clusterCpu(postmaster));
         const e = await eventLoopDelay(base, METRICS_TOKEN);
@@ -520,12 +545,16 @@ async function main() {
         f2.serverCpu.push((cpu * 1000) / Math.max(1, done));
         f2.serverCores.push(cpu / secs);
         f2.pgCpuHttp.push((pgCpu * 1000) / Math.max(1, done));
+        f2.benchCpuHttp.push((benchCpu.user + benchCpu.system) / 1000 / Math.max(1, done));
+        f2.benchEldMax.push(Math.max(0, benchLoop.max / 1e6 - EVENT_LOOP_RESOLUTION_MS));
+        if (hlIn.length) f2.hp95InProc.push(percentile(hlIn, 95));
       };
       const rawHalf = async () => {
         let rawDone = 0;
         const rawLat: number[] = [];
         const pg0 = clusterCpu(postmaster);
         const rawUntil = performance.now() + SECONDS * 1000;
+        const benchCpu0 = process.cpuUsage();
         const r0 = performance.now();
         await Promise.all(
           Array.from({ length: CLIENTS }, async (_, k) => {
@@ -540,6 +569,8 @@ async function main() {
         f2.rawRps.push(rawDone / ((performance.now() - r0) / 1000));
         f2.rawP95.push(percentile(rawLat, 95));
         f2.pgCpuRaw.push((cpuBetween(pg0, clusterCpu(postmaster)) * 1000) / Math.max(1, rawDone));
+        const benchCpu = process.cpuUsage(benchCpu0);
+        f2.benchCpuRaw.push((benchCpu.user + benchCpu.system) / 1000 / Math.max(1, rawDone));
       };
       for (let run = 0; run < RUNS; run++) {
         if (run % 2 === 0) {
@@ -575,6 +606,12 @@ async function main() {
             ["server CPU used, cores (1 = its one thread busy)", spread(f2.serverCores, 2)],
             ["PostgreSQL CPU ms per request (HTTP)", spread(f2.pgCpuHttp, 2)],
             ["PostgreSQL CPU ms per request (raw)", spread(f2.pgCpuRaw, 2)],
+            ["load generator's (this process's) CPU ms per request (HTTP)", spread(f2.benchCpuHttp, 2)],
+            ["load generator's (this process's) CPU ms per request (raw)", spread(f2.benchCpuRaw, 2)],
+            ["load generator's own event-loop delay beyond resolution, max ms (HTTP)", spread(f2.benchEldMax)],
+            ...(f2.hp95InProc.length
+              ? [["/api/health p95 ms timed in the load generator's process", spread(f2.hp95InProc)]]
+              : []),
           ],
         ),
       );
