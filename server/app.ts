@@ -6,7 +6,7 @@ import express, { Router } from "express";
 import { createLucia } from "./auth/lucia";
 import { authRoutes } from "./auth/routes";
 import { createLimiters } from "./auth/throttle";
-import { probeDbFor, type Db } from "./db";
+import { poolState, probeDbFor, type Db } from "./db";
 import { AppError } from "./errors";
 import { databaseState, readinessCheck } from "./health";
 import { log as rootLog, type Logger } from "./log";
@@ -117,6 +117,9 @@ export function createApp(deps: AppDeps) {
     storage: photoStorage,
     jobs: deps.jobs,
     draining: () => app.locals.draining === true,
+    // What a caller would see: the probe's own connection says the database answers; the app pool's counters say
+    // whether a request needing it now would be served or refused.
+    pool: () => poolState(db),
   });
   app.get("/api/health", async (_req, res) => {
     const { db: state } = await databaseState(probeDb);

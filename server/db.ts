@@ -116,6 +116,7 @@ export function createDb(connectionString: string, options: number | DbOptions =
  * (`refusedCheckouts`) and logged once a second at most.
  */
 function boundQueue(pool: pg.Pool, maxWaiting: number) {
+  bounds.set(pool, maxWaiting);
   const connect = pool.connect.bind(pool) as (cb?: (err: Error | undefined, ...rest: unknown[]) => void) => unknown;
   pool.connect = ((cb?: (err: Error | undefined, ...rest: unknown[]) => void) => {
     if (pool.idleCount === 0 && pool.totalCount >= (pool.options.max ?? 10) && pool.waitingCount >= maxWaiting) {
@@ -127,6 +128,22 @@ function boundQueue(pool: pg.Pool, maxWaiting: number) {
     }
     return connect(cb);
   }) as typeof pool.connect;
+}
+
+const bounds = new WeakMap<pg.Pool, number>();
+
+/**
+ * Whether the app's pool takes one more statement now, read from its counters (no statement, no wait): "full" when
+ * every connection is taken and the waiting queue is at its bound, so the next request that needs the database is
+ * refused 503 at once. `/api/health/ready` reports it; "accepting" for a pool without a bound or a Db not made by
+ * createDb (it then queues, and the acquire timeout answers).
+ */
+export function poolState(db: Db): "accepting" | "full" {
+  const pool = pools.get(db);
+  const maxWaiting = pool && bounds.get(pool);
+  if (!pool || !maxWaiting) return "accepting";
+  const full = pool.idleCount === 0 && pool.totalCount >= (pool.options.max ?? 10) && pool.waitingCount >= maxWaiting;
+  return full ? "full" : "accepting";
 }
 
 let refused = 0;

@@ -6,9 +6,9 @@ import { dbFailureOf } from "./db-errors";
 export type DbState = "up" | "down";
 
 /**
- * Is the database answering? `select 1` through the app's own pool, bounded by
- * `timeoutMs` so a health check never hangs behind a stuck pool: a pool that cannot hand
- * out a connection in time counts as down, which is what a caller of the app would see.
+ * Is the database answering? `select 1` through `db` — the app passes the probes' own connection (`probeDbFor`), so
+ * the answer does not wait behind user work queued for the app's pool — bounded by `timeoutMs` so a health check
+ * never hangs: no answer in time counts as down.
  */
 export async function databaseState(db: Db, timeoutMs = 3000): Promise<{ db: DbState; reason?: string }> {
   let timer: NodeJS.Timeout | undefined;
@@ -38,6 +38,11 @@ export interface Readiness {
   migrations: "current" | "unknown" | string[];
   storage: "up" | "down";
   queue: "running" | "stopped" | "none";
+  /**
+   * The app's own pool, read from its counters: "full" when every connection is taken and its waiting queue is at
+   * its bound, so a request needing the database now is refused 503 (what a caller would see); not ready then.
+   */
+  pool: "accepting" | "full";
   /** Shutting down: finishing in-flight work, taking no new requests. */
   draining?: true;
 }
@@ -66,6 +71,8 @@ export function readinessCheck(deps: {
   storage: { check(): Promise<void> };
   jobs?: { running: boolean };
   draining: () => boolean;
+  /** The app pool's state (`poolState` of the app's Db); "accepting" when not given. */
+  pool?: () => "accepting" | "full";
   timeoutMs?: number;
 }): () => Promise<Readiness> {
   const ms = deps.timeoutMs ?? 3000;
@@ -88,7 +95,14 @@ export function readinessCheck(deps: {
     }
     const queue = !deps.jobs ? "none" : deps.jobs.running ? "running" : "stopped";
     const draining = deps.draining();
-    const ok = db.db === "up" && migrations === "current" && storage === "up" && queue !== "stopped" && !draining;
-    return { ok, db: db.db, migrations, storage, queue, ...(draining ? { draining: true as const } : {}) };
+    const pool = deps.pool?.() ?? "accepting";
+    const ok =
+      db.db === "up" &&
+      migrations === "current" &&
+      storage === "up" &&
+      queue !== "stopped" &&
+      pool === "accepting" &&
+      !draining;
+    return { ok, db: db.db, migrations, storage, queue, pool, ...(draining ? { draining: true as const } : {}) };
   };
 }

@@ -145,7 +145,14 @@ describe("health probes", () => {
     expect(live).toMatchObject({ status: 200, body: { ok: true } });
     const ready = await fetch(`${server.base}/api/health/ready`);
     expect(ready.status).toBe(200);
-    expect(await ready.json()).toEqual({ ok: true, db: "up", migrations: "current", storage: "up", queue: "running" });
+    expect(await ready.json()).toEqual({
+      ok: true,
+      db: "up",
+      migrations: "current",
+      storage: "up",
+      queue: "running",
+      pool: "accepting",
+    });
   });
 
   it("a load balancer addressing the instance by IP is answered (no 421 on probes)", async () => {

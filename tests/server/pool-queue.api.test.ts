@@ -68,6 +68,14 @@ describe("a full waiting queue for the database pool", () => {
     expect(pool.waitingCount).toBe(WAITING); // the admitted ones still wait; none was dropped
     // The process is up and answering what needs no database.
     expect((await curator.get("/api/health/live")).status).toBe(200);
+    // Health asks on the probes' own connection: the database answers. Readiness says what a caller sees now: the
+    // app's pool refuses, so this instance is not ready for more.
+    const health = await curator.get("/api/health");
+    expect(health.status).toBe(200);
+    expect(health.body).toEqual({ ok: true, db: "up" });
+    const full = await curator.get("/api/health/ready");
+    expect(full.status).toBe(503);
+    expect(full.body).toMatchObject({ ok: false, db: "up", pool: "full" });
 
     // What was admitted is served; then the same request is served again.
     await Promise.all(busy);
@@ -75,6 +83,7 @@ describe("a full waiting queue for the database pool", () => {
     const after = await curator.get(register);
     expect(after.status).toBe(200);
     expect(after.body.rows).toBeInstanceOf(Array);
+    expect((await curator.get("/api/health/ready")).body).toMatchObject({ pool: "accepting" });
   });
 
   it("has a default of ten waiting statements per connection (100 for the default pool of 10)", () => {
