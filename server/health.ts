@@ -40,7 +40,9 @@ export interface Readiness {
   queue: "running" | "stopped" | "none";
   /**
    * The app's own pool, read from its counters: "full" when every connection is taken and its waiting queue is at
-   * its bound, so a request needing the database now is refused 503 (what a caller would see); not ready then.
+   * its bound, so a request needing the database now is refused 503 (what a caller would see). Reported, and it does
+   * not make `ok` false: failing readiness under load takes instances out exactly when load rises (decision record
+   * "Health answers on its own connection"; kept on 2026-12-03 "Readiness says when the pool is full").
    */
   pool: "accepting" | "full";
   /** Shutting down: finishing in-flight work, taking no new requests. */
@@ -96,13 +98,7 @@ export function readinessCheck(deps: {
     const queue = !deps.jobs ? "none" : deps.jobs.running ? "running" : "stopped";
     const draining = deps.draining();
     const pool = deps.pool?.() ?? "accepting";
-    const ok =
-      db.db === "up" &&
-      migrations === "current" &&
-      storage === "up" &&
-      queue !== "stopped" &&
-      pool === "accepting" &&
-      !draining;
+    const ok = db.db === "up" && migrations === "current" && storage === "up" && queue !== "stopped" && !draining;
     return { ok, db: db.db, migrations, storage, queue, pool, ...(draining ? { draining: true as const } : {}) };
   };
 }

@@ -68,14 +68,14 @@ describe("a full waiting queue for the database pool", () => {
     expect(pool.waitingCount).toBe(WAITING); // the admitted ones still wait; none was dropped
     // The process is up and answering what needs no database.
     expect((await curator.get("/api/health/live")).status).toBe(200);
-    // Health asks on the probes' own connection: the database answers. Readiness says what a caller sees now: the
-    // app's pool refuses, so this instance is not ready for more.
+    // Health asks on the probes' own connection: the database answers. Readiness says what a caller sees now (the
+    // app's pool refuses) without failing: under load an instance stays in rotation (see server/health.ts).
     const health = await curator.get("/api/health");
     expect(health.status).toBe(200);
     expect(health.body).toEqual({ ok: true, db: "up" });
     const full = await curator.get("/api/health/ready");
-    expect(full.status).toBe(503);
-    expect(full.body).toMatchObject({ ok: false, db: "up", pool: "full" });
+    expect(full.status).toBe(200);
+    expect(full.body).toMatchObject({ ok: true, db: "up", pool: "full" });
 
     // What was admitted is served; then the same request is served again.
     await Promise.all(busy);
