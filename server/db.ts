@@ -39,14 +39,15 @@ const envInt = (name: string, fallback: number) => {
 };
 
 /**
- * The waiting queue's default bound: ten statements per connection. Chosen (DEVELOPERS.md "Pool and queue
- * sizes") so that (1) the issue's load — 50 clients on the register, each with at most two statements in
- * flight — never meets it (at most 100 − 10 running = 90 waiting with the default pool of 10), and (2) the
- * last statement admitted waits about ten statement times (0.1–0.5 s at the 10–50 ms measured under load),
- * a tenth of the 5 s acquire timeout: past that, one more waiter only makes every answer later, and a
- * 503 the client retries is kinder than a 5 s wait ending in one.
+ * The waiting queue's default bound: ten statements per connection, and never fewer than 100. Chosen (DEVELOPERS.md
+ * "Pool and queue sizes") so that (1) the issue's load — 50 clients on the register, each with at most two
+ * statements in flight — never meets it (at most 100 waiting), whatever the pool's size: with a bound of 10 × 4 a
+ * pool of 4 refused 196–249 requests a run under those 50 clients (bench, 2026-12-03 17:38 UTC); and (2) the last
+ * statement admitted waits about ten statement times (0.1–0.5 s at the 10–50 ms measured under load) on the default
+ * pool, a tenth of the 5 s acquire timeout: past that, one more waiter only makes every answer later, and a 503 the
+ * client retries is kinder than a 5 s wait ending in one.
  */
-export const defaultMaxWaiting = (max: number) => 10 * max;
+export const defaultMaxWaiting = (max: number) => Math.max(100, 10 * max);
 
 /** The settings the app serves with; tools that run long statements pass their own. */
 export const APP_DB_OPTIONS: Required<DbOptions> = {

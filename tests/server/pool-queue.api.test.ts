@@ -86,8 +86,10 @@ describe("a full waiting queue for the database pool", () => {
     expect((await curator.get("/api/health/ready")).body).toMatchObject({ pool: "accepting" });
   });
 
-  it("has a default of ten waiting statements per connection (100 for the default pool of 10)", () => {
+  it("has a default of ten waiting statements per connection, never fewer than the issue's 50 clients need (100)", () => {
     expect(defaultMaxWaiting(10)).toBe(100);
+    expect(defaultMaxWaiting(4)).toBe(100);
+    expect(defaultMaxWaiting(20)).toBe(200);
     const pool = poolOf(createDb(tdb.url, 7))!;
     expect(pool.options.max).toBe(7);
     void pool.end();
