@@ -1,3 +1,4 @@
+import { useDeferredValue } from "react";
 import { Link } from "react-router";
 import { SafetyNotice } from "../../../components/safety-notice";
 import { visibleNav } from "../../../config/nav";
@@ -29,6 +30,9 @@ export default function SiteHome() {
   const { site, role } = useSiteContext();
   const home = HOME[role];
   const links = visibleNav(role).filter((n) => n.label !== "Overview");
+  // Drawn one render after the rest, with the summary's breakdowns (ProgressSummary), so it never moves down the
+  // screen when they come.
+  const below = useDeferredValue(true, false);
   return (
     <div className="space-y-4">
       <section aria-labelledby="home-title" data-testid={`home-${role}`}>
@@ -57,7 +61,7 @@ export default function SiteHome() {
         boardHref={(b) => paths.board.href(site.id, b)}
         floodHref={can(role, "inventory.curate") ? paths.floodEvents.href(site.id) : undefined}
       />
-      <SafetyNotice />
+      {below && <SafetyNotice />}
     </div>
   );
 }

@@ -1,7 +1,8 @@
+import { useDeferredValue } from "react";
 import { Link } from "react-router";
 import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { CUSTODY, CUSTODY_LABELS, DISPOSITION_LABELS, DISPOSITIONS, WATER_TYPE_LABELS } from "../../../domain/vocab";
-import { GRADE_KEYS } from "../../../schemas/inventory";
+import { GRADE_KEYS, type Overview } from "../../../schemas/inventory";
 import { useFloodEvents, useOverview } from "../api";
 import { custodyPattern, DISPOSITION_STYLE, gradeBar } from "./tile-style";
 
@@ -79,6 +80,87 @@ function FloodLine({ siteId, floodHref }: { siteId: string; floodHref?: string }
   );
 }
 
+/**
+ * The four breakdowns (one row a disposition, custody, grade and board: a hundred rows and links on a site of many
+ * boards), drawn on a render React does in the background right after the one that first shows the summary
+ * (useDeferredValue with an initial value), so the page's heading and the totals paint first instead of waiting for
+ * them. Whatever the page puts below the summary is deferred the same way (SiteHome), so nothing visible moves down
+ * when they come.
+ */
+function Breakdowns({ o, boardHref }: { o: Overview; boardHref: (boardId: string) => string }) {
+  const drawn = useDeferredValue(true, false);
+  if (!drawn) return null;
+  const total = o.totals.positions;
+  return (
+    <div className="grid gap-3 lg:grid-cols-2">
+      <Card title="By disposition">
+        <ul className="space-y-1.5">
+          {[...DISPOSITIONS, "undecided" as const].map((d) => (
+            <Bar
+              key={d}
+              of={total}
+              n={o.byDisposition[d]}
+              fill={DISPOSITION_STYLE[d].bar}
+              label={
+                <>
+                  <span aria-hidden="true">{DISPOSITION_STYLE[d].mark} </span>
+                  {d === "undecided" ? "Not decided" : DISPOSITION_LABELS[d]}
+                </>
+              }
+            />
+          ))}
+        </ul>
+      </Card>
+      <Card title="Where the parts are">
+        <ul className="space-y-1.5">
+          {CUSTODY.map((c) => (
+            <Bar
+              key={c}
+              of={total}
+              n={o.byCustody[c]}
+              fill="bg-tide-400"
+              style={custodyPattern(c)}
+              label={CUSTODY_LABELS[c]}
+            />
+          ))}
+        </ul>
+      </Card>
+      <Card title="By rust grade (ASTM D610, latest inspection)">
+        <ul className="space-y-1.5">
+          {GRADE_KEYS.map((g) => (
+            <Bar
+              key={g}
+              of={total}
+              n={o.byGrade[g]}
+              fill={gradeBar(g === "ungraded" ? null : Number(g))}
+              label={g === "ungraded" ? "Not graded" : `Grade ${g}`}
+            />
+          ))}
+        </ul>
+      </Card>
+      <Card title="By board">
+        <ul className="space-y-1.5">
+          {o.boards.map((b) => (
+            <Bar
+              key={b.id}
+              of={b.positions}
+              n={b.surveyed}
+              fill="bg-brass-400"
+              stacked
+              label={
+                <Link to={boardHref(b.id)} className="inline-flex min-h-6 items-center">
+                  {b.name}
+                </Link>
+              }
+            />
+          ))}
+        </ul>
+        <p className="mt-2 text-xs text-fog">Surveyed positions of each board.</p>
+      </Card>
+    </div>
+  );
+}
+
 /** Survey progress of the whole site at a glance, for every role. */
 export function ProgressSummary({
   siteId,
@@ -131,72 +213,7 @@ export function ProgressSummary({
           <p className="mt-1 text-xs text-fog">Original components neither scrapped nor missing, of all positions</p>
         </div>
       </div>
-      <div className="grid gap-3 lg:grid-cols-2">
-        <Card title="By disposition">
-          <ul className="space-y-1.5">
-            {[...DISPOSITIONS, "undecided" as const].map((d) => (
-              <Bar
-                key={d}
-                of={total}
-                n={o.byDisposition[d]}
-                fill={DISPOSITION_STYLE[d].bar}
-                label={
-                  <>
-                    <span aria-hidden="true">{DISPOSITION_STYLE[d].mark} </span>
-                    {d === "undecided" ? "Not decided" : DISPOSITION_LABELS[d]}
-                  </>
-                }
-              />
-            ))}
-          </ul>
-        </Card>
-        <Card title="Where the parts are">
-          <ul className="space-y-1.5">
-            {CUSTODY.map((c) => (
-              <Bar
-                key={c}
-                of={total}
-                n={o.byCustody[c]}
-                fill="bg-tide-400"
-                style={custodyPattern(c)}
-                label={CUSTODY_LABELS[c]}
-              />
-            ))}
-          </ul>
-        </Card>
-        <Card title="By rust grade (ASTM D610, latest inspection)">
-          <ul className="space-y-1.5">
-            {GRADE_KEYS.map((g) => (
-              <Bar
-                key={g}
-                of={total}
-                n={o.byGrade[g]}
-                fill={gradeBar(g === "ungraded" ? null : Number(g))}
-                label={g === "ungraded" ? "Not graded" : `Grade ${g}`}
-              />
-            ))}
-          </ul>
-        </Card>
-        <Card title="By board">
-          <ul className="space-y-1.5">
-            {o.boards.map((b) => (
-              <Bar
-                key={b.id}
-                of={b.positions}
-                n={b.surveyed}
-                fill="bg-brass-400"
-                stacked
-                label={
-                  <Link to={boardHref(b.id)} className="inline-flex min-h-6 items-center">
-                    {b.name}
-                  </Link>
-                }
-              />
-            ))}
-          </ul>
-          <p className="mt-2 text-xs text-fog">Surveyed positions of each board.</p>
-        </Card>
-      </div>
+      <Breakdowns o={o} boardHref={boardHref} />
     </section>
   );
 }
