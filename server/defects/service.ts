@@ -13,7 +13,7 @@ import type { DefectStatus } from "../../src/domain/vocab";
 import type { BulkBody, CreateDefectBody, PatchDefectBody } from "../../src/schemas/defects";
 import { evidenceOf, linkReading, repairEvidence, type ReadingKind } from "./evidence";
 import * as repo from "./repository";
-import { demandChanged } from "../parts/service";
+import { demandChanged, holdDemand } from "../parts/service";
 
 export interface Ctx {
   siteId: string;
@@ -159,6 +159,7 @@ export async function createDefect(db: Db, ctx: Ctx, body: CreateDefectBody) {
     throw forbidden("Only the curator assigns defects and sets due dates.");
   return db.transaction().execute(async (trx) => {
     const { assigneeId, fromReading, ...rest } = body;
+    await holdDemand(trx, ctx.siteId); // before its tally row: the wanted list's lock order (parts/service.ts)
     const id = await insertRaised(trx, ctx, rest);
     if (assigneeId) await assign(trx, ctx, await lockAt(trx, ctx, id), assigneeId);
     if (fromReading)
@@ -264,6 +265,7 @@ export async function patchDefect(db: Db, ctx: Ctx, id: string, body: PatchDefec
     const change = diff(d as Record<string, unknown>, { ...fields, ...links, priorityScore: score });
     let version = d.version;
     if (change.changed) {
+      await holdDemand(trx, ctx.siteId); // after the defect, before its tally row (the wanted list's lock order)
       const ok = await repo.updateDefect(trx, id, version, { ...fields, ...links, priorityScore: score });
       if (!ok) throw conflict("Someone changed this defect at the same moment.", await current(trx, ctx.siteId, id));
       version += 1;
@@ -459,7 +461,9 @@ export async function moveDefect(
   b: { to: DefectStatus; reason: string; repairedBy?: string | null; version: number },
 ) {
   return db.transaction().execute(async (trx) => {
-    await transition(trx, ctx, await lockAt(trx, ctx, id, b.version), b.to, b);
+    const d = await lockAt(trx, ctx, id, b.version);
+    await holdDemand(trx, ctx.siteId); // after the defect, before its tally row (the wanted list's lock order)
+    await transition(trx, ctx, d, b.to, b);
     await demandChanged(trx, ctx.siteId, { defectIds: [id] }, ctx.actor.id); // closed / deferred / accepted as is / reopened changes what is wanted
     return (await current(trx, ctx.siteId, id))!;
   });
@@ -478,6 +482,10 @@ export async function bulk(db: Db, ctx: Ctx, b: BulkBody) {
   const ids = [...new Set(b.ids)];
   return db.transaction().execute(async (trx) => {
     const errors: Record<string, string> = {};
+    // The defects in id order, then (a status move writes their tally rows and the wanted list) the demand
+    // lock: the one order every writer takes them in (the wanted list's lock order, parts/service.ts).
+    await repo.lockDefects(trx, ctx.siteId, ids);
+    if (b.action.type === "status") await holdDemand(trx, ctx.siteId);
     for (const id of ids) {
       const d = await repo.lockDefect(trx, ctx.siteId, id);
       if (!d) {

@@ -33,6 +33,16 @@ export const demandChanged = (
 ) => syncDemand(trx, siteId, scope, actorId);
 
 /**
+ * The site's demand lock, taken early by a writer of the register that will call `demandChanged` later in
+ * its transaction: after the register rows it locks (components, then defects) and before it writes them.
+ * A defect's write moves its board × status × severity tally row (`defect_tallies`, a trigger), and a
+ * fitting move (which holds the demand lock) writes its defects' tally rows; a writer that held a tally row
+ * while it waited for the demand lock could deadlock with it (DEVELOPERS.md, "Lock order of the wanted
+ * list's writers"). Re-entrant: `demandChanged` takes it again at no cost.
+ */
+export const holdDemand = (trx: Db, siteId: string) => repo.lockSiteParts(trx, siteId);
+
+/**
  * The components and defects whose demand is active on a position, and the lines of every link on it
  * (a fitted one too), read before the position is deleted: its component's links go with it, so
  * those lines' budget is counted again afterwards.
