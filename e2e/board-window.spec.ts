@@ -99,3 +99,60 @@ test("a board of 2,000 positions draws a window of tiles, scrolls to the last on
   await expect(page.getByTestId(`tile-${at(1, 1)}`)).toBeInViewport();
   await page.screenshot({ path: ".data/test-results/board-window-desktop.png" });
 });
+
+test("a decision on one tile of a board of three pages reads that page again, not the whole board", async ({
+  page,
+}) => {
+  test.setTimeout(300_000);
+  await signIn(page, "curator");
+  const siteId = page.url().split("/sites/")[1].split("/")[0];
+  const name = `Paged board ${Date.now().toString(36)}`;
+  // 40 × 40 = 1,600 positions: the head's 500, then 1,000, then 100 (BOARD_PAGE, BOARD_LATER_PAGE).
+  const lines = ["board,designation,kind,grid_row,grid_col"];
+  for (let r = 1; r <= 40; r++)
+    for (let c = 1; c <= 40; c++) lines.push(`${name},${at(r, c)},molded_case_breaker,${r},${c}`);
+  const made = await page.request.post(`/api/sites/${siteId}/inventory/import?mode=commit`, {
+    headers: { "content-type": "text/csv", origin: new URL(page.url()).origin },
+    data: lines.join("\r\n") + "\r\n",
+    timeout: 120_000,
+  });
+  expect(made.status(), await made.text()).toBe(201);
+  const boards = (await (await page.request.get(`/api/sites/${siteId}/boards`)).json()) as {
+    id: string;
+    name: string;
+  }[];
+  const board = boards.find((b) => b.name === name)!;
+  // Row 20, column 1: position 761 of 1,600, on the second page.
+  const pageTwo = (await (
+    await page.request.get(
+      `/api/sites/${siteId}/boards/${board.id}/tiles?after=${encodeURIComponent("0.0.0.00000000-0000-0000-0000-000000000000")}&size=2000`,
+    )
+  ).json()) as { positions: { id: string; designation: string }[] };
+  const target = pageTwo.positions.find((t) => t.designation === at(20, 1))!;
+
+  await page.goto(`/sites/${siteId}/boards/${board.id}?position=${target.id}`);
+  await expect(page.getByTestId("board-reading")).toHaveAttribute("data-complete", "true");
+  const panel = page.getByTestId("position-panel");
+  await expect(panel.getByRole("heading", { name: at(20, 1) })).toBeVisible();
+
+  const asked: string[] = [];
+  page.on("request", (r) => {
+    const u = new URL(r.url());
+    if (r.method() === "GET" && u.pathname.startsWith(`/api/sites/${siteId}/boards/${board.id}`))
+      asked.push(u.pathname.slice(`/api/sites/${siteId}/boards/${board.id}`.length) + u.search);
+  });
+  const recommended = (await panel.getByTestId("recommendation").locator("strong").innerText()).trim();
+  const choice = recommended === "Rebuild" ? "Replace" : "Rebuild";
+  await panel.getByRole("radio", { name: new RegExp(`^${choice}`) }).check();
+  await panel.getByLabel(/Why override/).fill("Test: one tile's decision reads its page again.");
+  await panel.getByRole("button", { name: "Save override" }).click();
+  await expect(panel.getByRole("status").filter({ hasText: "Saved." })).toBeVisible();
+
+  // The kept board holds the decision, read with the one page that holds the tile: the head and the third page
+  // were not asked for again; the board's thumbnail (on the board list, not on screen) is only marked stale.
+  const tile = page.getByTestId(`tile-${at(20, 1)}`);
+  await tile.scrollIntoViewIfNeeded();
+  await expect(tile).toContainText(choice.toLowerCase());
+  expect(asked).toEqual([expect.stringMatching(/^\/tiles\?after=[^&]+&size=1000$/)]);
+  await page.screenshot({ path: ".data/test-results/board-one-page-after-write.png" });
+});

@@ -1,13 +1,15 @@
 import { PersistQueryClientProvider } from "@tanstack/react-query-persist-client";
 import { useEffect, type ReactNode } from "react";
+import { afterSync } from "../features/inventory/query-cache";
 import { onSynced } from "../lib/outbox";
 import { MAX_AGE_MS, persister, shouldKeepQuery } from "./persist";
 import { queryClient } from "./query-client";
 
 export function AppProvider({ children }: { children: ReactNode }) {
-  // What the outbox sent changes boards, positions and readings: refetch what is on screen.
+  // What the outbox sent changes boards, positions and readings: refetch what is on screen (an inspection or a
+  // custody move: just its board's page, src/features/inventory/query-cache.ts).
   useEffect(() => {
-    const stop = onSynced(() => void queryClient.invalidateQueries());
+    const stop = onSynced((items) => void afterSync(queryClient, items));
     return () => void stop();
   }, []);
   return (

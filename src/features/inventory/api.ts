@@ -10,9 +10,15 @@ import {
 } from "@tanstack/react-query";
 import type { z } from "zod";
 import { api, qs } from "../../lib/api-client";
-import { submitOrQueue } from "../../lib/outbox";
+import { submitOrQueue, type Submitted } from "../../lib/outbox";
 import {
-  BOARD_LATER_PAGE,
+  applyInventoryChange,
+  fetchBoardPage,
+  inventoryKeys,
+  type BoardPage,
+  type InventoryChange,
+} from "./query-cache";
+import {
   boardDetailResponse,
   boardListResponse,
   boardSchema,
@@ -34,7 +40,6 @@ import {
   positionSchema,
   reorderedPositionsResponse,
   sectionSchema,
-  tilePageResponse,
   type CreateBoardBody,
   type CreateFloodEventBody,
   type CreateInspectionBody,
@@ -49,22 +54,7 @@ import {
   type PatchSectionBody,
 } from "../../schemas/inventory";
 
-/** Query keys for everything inventory; every write invalidates `all(siteId)`. */
-export const inventoryKeys = {
-  all: (siteId: string) => ["inventory", siteId] as const,
-  overview: (siteId: string) => [...inventoryKeys.all(siteId), "overview"] as const,
-  floodEvents: (siteId: string) => [...inventoryKeys.all(siteId), "flood-events"] as const,
-  boards: (siteId: string) => [...inventoryKeys.all(siteId), "boards"] as const,
-  /** A board read in pages (an infinite query: the head and first page, then the rest). */
-  board: (siteId: string, boardId: string) => [...inventoryKeys.all(siteId), "board", boardId, "pages"] as const,
-  /** A board's small picture on the board list (one compact cell per position). */
-  thumbnail: (siteId: string, boardId: string) =>
-    [...inventoryKeys.all(siteId), "board", boardId, "thumbnail"] as const,
-  position: (siteId: string, positionId: string) => [...inventoryKeys.all(siteId), "position", positionId] as const,
-  lookup: (siteId: string, q: string) => [...inventoryKeys.all(siteId), "lookup", q] as const,
-  custodyOptions: (siteId: string, componentId: string) =>
-    [...inventoryKeys.all(siteId), "custody-options", componentId] as const,
-};
+export { inventoryKeys } from "./query-cache";
 
 const base = (siteId: string) => `/api/sites/${siteId}`;
 
@@ -83,7 +73,6 @@ export const boardsQueryOptions = (siteId: string) =>
     queryKey: inventoryKeys.boards(siteId),
     queryFn: ({ signal }) => api.get(`${base(siteId)}/boards`, boardListResponse, signal),
   });
-type BoardPage = z.infer<typeof boardDetailResponse> | z.infer<typeof tilePageResponse>;
 /**
  * One board: its head (board, sections, total) with the first page of its positions, then the rest page by page
  * after the key the page before gave (`next`). A board of up to a page is one request, as before.
@@ -91,14 +80,7 @@ type BoardPage = z.infer<typeof boardDetailResponse> | z.infer<typeof tilePageRe
 export const boardQueryOptions = (siteId: string, boardId: string) =>
   infiniteQueryOptions({
     queryKey: inventoryKeys.board(siteId, boardId),
-    queryFn: ({ signal, pageParam }): Promise<BoardPage> =>
-      pageParam === null
-        ? api.get(`${base(siteId)}/boards/${boardId}`, boardDetailResponse, signal)
-        : api.get(
-            `${base(siteId)}/boards/${boardId}/tiles${qs({ after: pageParam, size: BOARD_LATER_PAGE })}`,
-            tilePageResponse,
-            signal,
-          ),
+    queryFn: ({ signal, pageParam }): Promise<BoardPage> => fetchBoardPage(siteId, boardId, pageParam, signal),
     initialPageParam: null as string | null,
     getNextPageParam: (last) => last.next,
   });
@@ -172,55 +154,101 @@ export const useLookup = (siteId: string, q: string) =>
     staleTime: 10_000,
   });
 
-/** Every inventory write invalidates the site's inventory queries (tiles, overview, history). */
-function useInventoryMutation<V, R>(siteId: string, fn: (v: V) => Promise<R>) {
+/**
+ * Every inventory write says what it changed, and only what shows that is read again (./query-cache.ts): a survey
+ * write reads its board's one page again, not the whole board.
+ */
+function useInventoryMutation<V, R>(
+  siteId: string,
+  fn: (v: V) => Promise<R>,
+  changed: (r: R, v: V) => InventoryChange,
+) {
   const qc = useQueryClient();
   return useMutation({
     mutationFn: fn,
-    onSuccess: () => qc.invalidateQueries({ queryKey: inventoryKeys.all(siteId) }),
+    onSuccess: (r, v) => applyInventoryChange(qc, siteId, changed(r, v)),
   });
 }
+const ofBoard = (boardId: string) => (): InventoryChange => ({ kind: "board", boardId });
+/** A write the outbox may have kept for later: nothing changed on the server yet (the sync reads it again). */
+const unlessQueued =
+  <T, V>(change: (data: T, v: V) => InventoryChange) =>
+  (r: Submitted<T>, v: V): InventoryChange =>
+    r.queued ? { kind: "nothing" } : change(r.data, v);
 
 export const useCreateBoard = (siteId: string) =>
-  useInventoryMutation(siteId, (b: CreateBoardBody) => api.send("POST", `${base(siteId)}/boards`, b, boardSchema));
+  useInventoryMutation(
+    siteId,
+    (b: CreateBoardBody) => api.send("POST", `${base(siteId)}/boards`, b, boardSchema),
+    () => ({ kind: "boards" }),
+  );
 export const useUpdateBoard = (siteId: string, boardId: string) =>
-  useInventoryMutation(siteId, (b: PatchBoardBody) =>
-    api.send("PATCH", `${base(siteId)}/boards/${boardId}`, b, boardSchema),
+  useInventoryMutation(
+    siteId,
+    (b: PatchBoardBody) => api.send("PATCH", `${base(siteId)}/boards/${boardId}`, b, boardSchema),
+    ofBoard(boardId),
   );
 
 export const useSectionMutations = (siteId: string, boardId: string) => ({
-  create: useInventoryMutation(siteId, (b: { name: string }) =>
-    api.send("POST", `${base(siteId)}/boards/${boardId}/sections`, b, sectionSchema),
+  create: useInventoryMutation(
+    siteId,
+    (b: { name: string }) => api.send("POST", `${base(siteId)}/boards/${boardId}/sections`, b, sectionSchema),
+    ofBoard(boardId),
   ),
-  update: useInventoryMutation(siteId, ({ id, ...b }: PatchSectionBody & { id: string }) =>
-    api.send("PATCH", `${base(siteId)}/sections/${id}`, b, sectionSchema),
+  update: useInventoryMutation(
+    siteId,
+    ({ id, ...b }: PatchSectionBody & { id: string }) =>
+      api.send("PATCH", `${base(siteId)}/sections/${id}`, b, sectionSchema),
+    ofBoard(boardId),
   ),
-  remove: useInventoryMutation(siteId, ({ id, version }: { id: string; version: number }) =>
-    api.raw("DELETE", `${base(siteId)}/sections/${id}${qs({ version })}`),
+  remove: useInventoryMutation(
+    siteId,
+    ({ id, version }: { id: string; version: number }) =>
+      api.raw("DELETE", `${base(siteId)}/sections/${id}${qs({ version })}`),
+    ofBoard(boardId),
   ),
 });
 
+/** A position's writes change the board's shape (order, spans, how many): the whole board is read again. */
 export const usePositionMutations = (siteId: string, boardId: string) => ({
-  create: useInventoryMutation(siteId, (b: CreatePositionBody) =>
-    api.send("POST", `${base(siteId)}/boards/${boardId}/positions`, b, createdPositionResponse),
+  create: useInventoryMutation(
+    siteId,
+    (b: CreatePositionBody) =>
+      api.send("POST", `${base(siteId)}/boards/${boardId}/positions`, b, createdPositionResponse),
+    ofBoard(boardId),
   ),
-  generate: useInventoryMutation(siteId, (b: GeneratePositionsBody) =>
-    api.send("POST", `${base(siteId)}/boards/${boardId}/positions/generate`, b, generatedPositionsResponse),
+  generate: useInventoryMutation(
+    siteId,
+    (b: GeneratePositionsBody) =>
+      api.send("POST", `${base(siteId)}/boards/${boardId}/positions/generate`, b, generatedPositionsResponse),
+    ofBoard(boardId),
   ),
-  reorder: useInventoryMutation(siteId, (ids: string[]) =>
-    api.send("POST", `${base(siteId)}/boards/${boardId}/positions/reorder`, { ids }, reorderedPositionsResponse),
+  reorder: useInventoryMutation(
+    siteId,
+    (ids: string[]) =>
+      api.send("POST", `${base(siteId)}/boards/${boardId}/positions/reorder`, { ids }, reorderedPositionsResponse),
+    ofBoard(boardId),
   ),
-  update: useInventoryMutation(siteId, ({ id, ...b }: PatchPositionBody & { id: string }) =>
-    api.send("PATCH", `${base(siteId)}/positions/${id}`, b, positionSchema),
+  update: useInventoryMutation(
+    siteId,
+    ({ id, ...b }: PatchPositionBody & { id: string }) =>
+      api.send("PATCH", `${base(siteId)}/positions/${id}`, b, positionSchema),
+    ofBoard(boardId),
   ),
-  remove: useInventoryMutation(siteId, ({ id, version }: { id: string; version: number }) =>
-    api.raw("DELETE", `${base(siteId)}/positions/${id}${qs({ version })}`),
+  remove: useInventoryMutation(
+    siteId,
+    ({ id, version }: { id: string; version: number }) =>
+      api.raw("DELETE", `${base(siteId)}/positions/${id}${qs({ version })}`),
+    ofBoard(boardId),
   ),
 });
 
 export const useUpdateComponent = (siteId: string) =>
-  useInventoryMutation(siteId, ({ id, ...b }: PatchComponentBody & { id: string }) =>
-    api.send("PATCH", `${base(siteId)}/components/${id}`, b, componentSchema),
+  useInventoryMutation(
+    siteId,
+    ({ id, ...b }: PatchComponentBody & { id: string }) =>
+      api.send("PATCH", `${base(siteId)}/components/${id}`, b, componentSchema),
+    (c) => ({ kind: "component", componentId: c.id, positionId: c.positionId }),
   );
 
 /** Online: saved at once, as before. No signal: kept in the phone's outbox and sent later. */
@@ -236,6 +264,7 @@ export const useLogInspection = (siteId: string) =>
         body: b,
         parse: (d) => inspectionSchema.parse(d),
       }),
+    unlessQueued((i) => ({ kind: "component", componentId: i.componentId, positionId: i.positionId })),
   );
 
 /** The chain's verdict on every move from where the component is now, and the proposed next one. */
@@ -249,28 +278,40 @@ export const useCustodyOptions = (siteId: string, componentId: string) =>
 export const fetchNextTag = (siteId: string) => api.get(`${base(siteId)}/tags/next`, nextTagResponse);
 
 export const useMoveCustody = (siteId: string) =>
-  useInventoryMutation(siteId, ({ componentId, label, ...b }: CustodyBody & { componentId: string; label: string }) =>
-    submitOrQueue({
-      siteId,
-      kind: "custody",
-      label: `Move of ${label}`,
-      url: `${base(siteId)}/components/${componentId}/custody`,
-      body: b,
-      parse: (d) => custodyResponse.parse(d),
-    }),
+  useInventoryMutation(
+    siteId,
+    ({ componentId, label, ...b }: CustodyBody & { componentId: string; label: string }) =>
+      submitOrQueue({
+        siteId,
+        kind: "custody",
+        label: `Move of ${label}`,
+        url: `${base(siteId)}/components/${componentId}/custody`,
+        body: b,
+        parse: (d) => custodyResponse.parse(d),
+      }),
+    unlessQueued((r) => ({ kind: "component", componentId: r.component.id, positionId: r.component.positionId })),
   );
 
 export const useDecideDisposition = (siteId: string) =>
-  useInventoryMutation(siteId, ({ componentId, ...b }: DispositionBody & { componentId: string }) =>
-    api.send("PUT", `${base(siteId)}/components/${componentId}/disposition`, b, dispositionResponse),
+  useInventoryMutation(
+    siteId,
+    ({ componentId, ...b }: DispositionBody & { componentId: string }) =>
+      api.send("PUT", `${base(siteId)}/components/${componentId}/disposition`, b, dispositionResponse),
+    (r) => ({ kind: "component", componentId: r.component.id, positionId: r.component.positionId }),
   );
 
+/** A flood event moves every board's water line (each tile's "below the water line"): the site is read again. */
 export const useFloodEventMutations = (siteId: string) => ({
-  create: useInventoryMutation(siteId, (b: CreateFloodEventBody) =>
-    api.send("POST", `${base(siteId)}/flood-events`, b, floodEventSchema),
+  create: useInventoryMutation(
+    siteId,
+    (b: CreateFloodEventBody) => api.send("POST", `${base(siteId)}/flood-events`, b, floodEventSchema),
+    () => ({ kind: "site" }),
   ),
-  update: useInventoryMutation(siteId, ({ id, ...b }: PatchFloodEventBody & { id: string }) =>
-    api.send("PATCH", `${base(siteId)}/flood-events/${id}`, b, floodEventSchema),
+  update: useInventoryMutation(
+    siteId,
+    ({ id, ...b }: PatchFloodEventBody & { id: string }) =>
+      api.send("PATCH", `${base(siteId)}/flood-events/${id}`, b, floodEventSchema),
+    () => ({ kind: "site" }),
   ),
 });
 
@@ -286,6 +327,7 @@ export const useImportInventory = (siteId: string) =>
         typeof csv === "string" ? { csv } : csv,
         importResponse,
       ),
+    (_r, v) => ({ kind: v.mode === "preview" ? "nothing" : "site" }),
   );
 
 export const inventoryCsvHref = (siteId: string) => `${base(siteId)}/inventory.csv`;
