@@ -2,6 +2,7 @@
 import { sql, type Insertable } from "kysely";
 import type { Database } from "../../db/types";
 import type { Db } from "../db";
+import { newestInspection } from "./survey-repository";
 
 /** Every position of the site with its current component, as the import compares them. */
 export async function importPositions(db: Db, siteId: string) {
@@ -88,15 +89,7 @@ export const exportPage = (db: Db, siteId: string, after: ExportKey | null, limi
     .leftJoin("sections as s", "s.id", "p.sectionId")
     .leftJoin("components as c", (j) => j.onRef("c.positionId", "=", "p.id").on("c.retiredAt", "is", null))
     .leftJoinLateral(
-      (eb) =>
-        eb
-          .selectFrom("inspections as i")
-          .select(["i.percentRusted", "i.astmGrade", "i.isoRi", "i.inspectedAt"])
-          .whereRef("i.componentId", "=", "c.id")
-          .orderBy("i.inspectedAt", "desc")
-          .orderBy("i.createdAt", "desc")
-          .limit(1)
-          .as("li"),
+      () => newestInspection(db, ["i.percentRusted", "i.astmGrade", "i.isoRi", "i.inspectedAt"]),
       (j) => j.onTrue(),
     )
     .select([

@@ -1,6 +1,7 @@
 import { sql, type Insertable } from "kysely";
 import type { ComponentsTable, PositionsTable } from "../../db/types";
 import type { Db } from "../db";
+import { newestInspection } from "./survey-repository";
 import { LOOSE_KEY_SQL, looseKey } from "../../src/domain/search-keys";
 import { COMPONENT_KINDS, COMPONENT_KIND_LABELS, COMPONENT_KIND_SHORT } from "../../src/domain/vocab";
 import type { TilePageKey } from "../../src/schemas/inventory";
@@ -16,15 +17,7 @@ export const boardTilePage = (db: Db, boardId: string, after: TilePageKey | null
     .selectFrom("positions as p")
     .leftJoin("components as c", (j) => j.onRef("c.positionId", "=", "p.id").on("c.retiredAt", "is", null))
     .leftJoinLateral(
-      (eb) =>
-        eb
-          .selectFrom("inspections as i")
-          .select(["i.astmGrade", "i.isoRi", "i.percentRusted", "i.inspectedAt", "i.belowWaterLine"])
-          .whereRef("i.componentId", "=", "c.id")
-          .orderBy("i.inspectedAt", "desc")
-          .orderBy("i.createdAt", "desc")
-          .limit(1)
-          .as("li"),
+      () => newestInspection(db, ["i.astmGrade", "i.isoRi", "i.percentRusted", "i.inspectedAt", "i.belowWaterLine"]),
       (j) => j.onTrue(),
     )
     .select([
@@ -97,15 +90,7 @@ export const boardThumbnailCells = (db: Db, boardId: string) =>
     .selectFrom("positions as p")
     .leftJoin("components as c", (j) => j.onRef("c.positionId", "=", "p.id").on("c.retiredAt", "is", null))
     .leftJoinLateral(
-      (eb) =>
-        eb
-          .selectFrom("inspections as i")
-          .select(["i.astmGrade"])
-          .whereRef("i.componentId", "=", "c.id")
-          .orderBy("i.inspectedAt", "desc")
-          .orderBy("i.createdAt", "desc")
-          .limit(1)
-          .as("li"),
+      () => newestInspection(db, ["i.astmGrade"]),
       (j) => j.onTrue(),
     )
     .select(["p.gridRow", "p.gridCol", "p.rowSpan", "p.colSpan", "li.astmGrade", "c.custody"])

@@ -2,6 +2,22 @@ import { sql, type Insertable } from "kysely";
 import type { CustodyMovesTable, DispositionDecisionsTable, InspectionsTable } from "../../db/types";
 import type { Db } from "../db";
 
+/**
+ * The newest inspection of the current component aliased `c` in the query that joins it (as `li`): newest by when it
+ * was made, then by when it was recorded. For `.leftJoinLateral(() => newestInspection(db, [...]), (j) => j.onTrue())`
+ * — the one definition the board's tiles, its thumbnail and the CSV export read (`board_summaries`' refresh writes
+ * the same in SQL, with the id as a last tie-break).
+ */
+export const newestInspection = <C extends `i.${keyof InspectionsTable & string}`>(db: Db, cols: readonly C[]) =>
+  db
+    .selectFrom("inspections as i")
+    .select(cols)
+    .where("i.componentId", "=", sql.ref<string>("c.id"))
+    .orderBy("i.inspectedAt", "desc")
+    .orderBy("i.createdAt", "desc")
+    .limit(1)
+    .as("li");
+
 /** Locks these components of the site in id order (one order for every writer that takes several). */
 export const lockComponents = (db: Db, siteId: string, ids: readonly string[]) =>
   ids.length
