@@ -128,39 +128,44 @@ export function startCanary() {
 }
 
 /**
- * Times `/api/health` every `everyMs` on one keep-alive connection, from a process of its own, until stopped; resolves
- * with each answer's time in ms (a failed or non-200 answer counts with the time it took). The bench's 50 clients
- * share one event loop in the bench's process: a probe timed there waits, besides the server, for that loop to read
- * its answer among the clients' (measured 2026-12-03: see DEVELOPERS "50 clients: where the delay is").
+ * Times each of `paths` (default `/api/health`) every `everyMs`, each on its own keep-alive connection, from a process
+ * of its own, until stopped; resolves with each path's answer times in ms (a failed or non-200 answer counts with the
+ * time it took). The bench's 50 clients share one event loop in the bench's process: a probe timed there waits,
+ * besides the server, for that loop to read its answer among the clients' (measured 2026-12-03: see DEVELOPERS "50
+ * clients: where the delay is"). The bench times `/api/health` (a `select 1` on the probes' own connection) beside
+ * `/api/health/live` (answered by the process alone): the difference is the database probe's own wait.
  */
-export function startHealthProber(base: string, everyMs = 50) {
+export function startHealthProber(base: string, everyMs = 50, paths: string[] = ["/api/health"]) {
   const child = spawn(
     process.execPath,
     [
       "-e",
       `const http = require("node:http");
-       const agent = new http.Agent({ keepAlive: true, maxSockets: 1 });
-       const times = []; let stop = false;
+       const paths = ${JSON.stringify(paths)};
+       let stop = false;
        process.on("message", () => { stop = true; });
-       const once = () => new Promise((resolve) => {
-         const a = performance.now();
-         const req = http.get(${JSON.stringify(`${base}/api/health`)}, { agent }, (res) => {
-           res.resume(); res.on("end", () => resolve(performance.now() - a)); res.on("error", () => resolve(performance.now() - a));
+       const loop = async (path) => {
+         const agent = new http.Agent({ keepAlive: true, maxSockets: 1 });
+         const times = [];
+         const once = () => new Promise((resolve) => {
+           const a = performance.now();
+           const req = http.get(${JSON.stringify(base)} + path, { agent }, (res) => {
+             res.resume(); res.on("end", () => resolve(performance.now() - a)); res.on("error", () => resolve(performance.now() - a));
+           });
+           req.on("error", () => resolve(performance.now() - a));
          });
-         req.on("error", () => resolve(performance.now() - a));
-       });
-       (async () => {
          while (!stop) { times.push(await once()); await new Promise((r) => setTimeout(r, ${everyMs})); }
          agent.destroy();
-         process.send(times, () => process.exit(0));
-       })();`,
+         return times;
+       };
+       Promise.all(paths.map(loop)).then((all) => process.send(all, () => process.exit(0)));`,
     ],
     { stdio: ["ignore", "ignore", "inherit", "ipc"] },
   );
   return {
     stop: () =>
-      new Promise<number[]>((resolve) => {
-        child.once("message", (m) => resolve(m as number[]));
+      new Promise<number[][]>((resolve) => {
+        child.once("message", (m) => resolve(m as number[][]));
         child.send("stop");
       }),
   };

@@ -26,7 +26,8 @@
  *   BENCH_FLEET=0, BENCH_INGEST=0 skip them).
  *
  * Options (environment): BENCH_RUNS, BENCH_N (timed requests per case per run, default 15),
- * BENCH_CLIENTS, BENCH_SECONDS (default 8), BENCH_PAINT=0, BENCH_REPORT=0, BENCH_KEEP=1 (keep the scratch
+ * BENCH_CLIENTS, BENCH_SECONDS (default 8), BENCH_ENDPOINTS=0 (no endpoint or load case) or =load (the load case
+ * alone), BENCH_CSV=0, BENCH_PAINT=0, BENCH_REPORT=0, BENCH_KEEP=1 (keep the scratch
  * database), BENCH_DATABASE=<kept name> (measure it again without generating), BENCH_PROFILE=1
  * (the server writes a V8 CPU profile to .data/bench-profile/ when it stops; open it in chromium's DevTools).
  * A script, not a test: `npm test` never runs it.
@@ -359,7 +360,8 @@ async function main() {
     const cookie = await signIn(base, site.curatorEmail);
 
     const defects = site.counts.defects;
-    // BENCH_ENDPOINTS=0 skips the endpoint and load cases (to re-measure the CSV alone on a kept database).
+    // BENCH_ENDPOINTS=0 skips the endpoint and load cases (to re-measure the CSV alone on a kept database);
+    // BENCH_ENDPOINTS=load skips the endpoints' timing and keeps the load case (its statements are still captured).
     if (process.env.BENCH_ENDPOINTS !== "0") {
       // Capture each endpoint's statements on an in-process copy of the app (same database, same session).
       const capture = capturingDb(url);
@@ -397,7 +399,8 @@ async function main() {
       // 1. Endpoints against their statements replayed raw.
       const perCase = new Map<string, { http: number[]; raw: number[]; ratio: number[] }>();
       for (const c of list) perCase.set(c.label, { http: [], raw: [], ratio: [] });
-      for (let run = 0; run < RUNS; run++) {
+      const timeEndpoints = process.env.BENCH_ENDPOINTS !== "load";
+      for (let run = 0; timeEndpoints && run < RUNS; run++) {
         for (const c of list) {
           const http: number[] = [];
           const rawMs: number[] = [];
@@ -424,26 +427,28 @@ async function main() {
           f.ratio.push(median(http) / median(rawMs));
         }
       }
-      say(
-        `\n1. Endpoints vs the same statements replayed raw (pg) — p50 per run of ${N} requests; median [min–max] over ${RUNS} runs; every request sends Accept-Encoding: ${ACCEPT_ENCODING} as a browser does, times the body read and decompressed whole; "wire kB" is the body as sent and the encoding the server chose`,
-      );
-      say(
-        table(
-          ["endpoint", "stmts", "JSON kB", "wire kB", "endpoint p50 ms", "raw SQL p50 ms", "ratio"],
-          list.map((c) => {
-            const f = perCase.get(c.label)!;
-            return [
-              c.label,
-              String(c.plan!.count),
-              (c.bytes! / 1024).toFixed(0),
-              c.wire === undefined ? "–" : `${(c.wire / 1024).toFixed(1)} ${c.encoding}`,
-              spread(f.http),
-              spread(f.raw),
-              spread(f.ratio, 2),
-            ];
-          }),
-        ),
-      );
+      if (timeEndpoints) {
+        say(
+          `\n1. Endpoints vs the same statements replayed raw (pg) — p50 per run of ${N} requests; median [min–max] over ${RUNS} runs; every request sends Accept-Encoding: ${ACCEPT_ENCODING} as a browser does, times the body read and decompressed whole; "wire kB" is the body as sent and the encoding the server chose`,
+        );
+        say(
+          table(
+            ["endpoint", "stmts", "JSON kB", "wire kB", "endpoint p50 ms", "raw SQL p50 ms", "ratio"],
+            list.map((c) => {
+              const f = perCase.get(c.label)!;
+              return [
+                c.label,
+                String(c.plan!.count),
+                (c.bytes! / 1024).toFixed(0),
+                c.wire === undefined ? "–" : `${(c.wire / 1024).toFixed(1)} ${c.encoding}`,
+                spread(f.http),
+                spread(f.raw),
+                spread(f.ratio, 2),
+              ];
+            }),
+          ),
+        );
+      }
 
       // 2. Concurrency on the register (default view, search, deep page in turn), with /api/health timed
       // throughout on a connection of its own, the server's event-loop delay from its own metrics, a canary's, and
@@ -463,6 +468,8 @@ async function main() {
         hp50: [] as number[],
         hp95: [] as number[],
         hmax: [] as number[],
+        lp50: [] as number[],
+        lp95: [] as number[],
         eldP99: [] as number[],
         eldMax: [] as number[],
         canaryP99: [] as number[],
@@ -491,7 +498,7 @@ async function main() {
         // /api/health is timed from a process of its own: timed in this one, its answer also waited for this
         // process's event loop to read it among the 50 clients' answers. BENCH_HEALTH_INPROC=1 also times it here,
         // as the bench did before 2026-12-03 17:50 UTC, to show the difference.
-        const prober = startHealthProber(base);
+        const prober = startHealthProber(base, 50, ["/api/health", "/api/health/live"]);
         const hlIn: number[] = [];
         const healthAgent = new Agent({ keepAlive: true, maxSockets: 1 });
         const inProc = (async () => {
@@ -524,7 +531,8 @@ async function main() {
         const secs = (performance.now() - t0) / 1000;
         const benchCpu = process.cpuUsage(benchCpu0);
         benchLoop.disable();
-        hl.push(...(await prober.stop()));
+        const [probed, live] = await prober.stop();
+        hl.push(...probed);
         await inProc;
         const cpu = cpuSecondsOf(child.pid!) - cpu0;
         const pgCpu = cpuBetween(pg0, clusterCpu(postmaster));
@@ -538,6 +546,8 @@ async function main() {
         f2.hp50.push(percentile(hl, 50));
         f2.hp95.push(percentile(hl, 95));
         f2.hmax.push(Math.max(...hl));
+        f2.lp50.push(percentile(live, 50));
+        f2.lp95.push(percentile(live, 95));
         f2.eldP99.push(e.p99);
         f2.eldMax.push(e.max);
         f2.canaryP99.push(c.p99);
@@ -598,6 +608,8 @@ async function main() {
             ["/api/health p50 ms", spread(f2.hp50)],
             ["/api/health p95 ms (target < 100)", spread(f2.hp95)],
             ["/api/health max ms", spread(f2.hmax)],
+            ["/api/health/live p50 ms (the process alone, no database)", spread(f2.lp50)],
+            ["/api/health/live p95 ms", spread(f2.lp95)],
             [`server event-loop delay beyond its ${EVENT_LOOP_RESOLUTION_MS} ms resolution, p99 ms`, spread(f2.eldP99)],
             ["server event-loop delay beyond resolution, max ms (target ≤ 50)", spread(f2.eldMax)],
             ["idle canary's delay beyond resolution, p99 ms", spread(f2.canaryP99)],
