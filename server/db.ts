@@ -1,4 +1,5 @@
 import { CamelCasePlugin, Kysely, PostgresDialect } from "kysely";
+import { availableParallelism } from "node:os";
 import pg from "pg";
 import type { Database } from "../db/types";
 import { PoolQueueFull } from "./db-errors";
@@ -17,7 +18,7 @@ const pools = new WeakMap<Db, pg.Pool>();
 export const poolOf = (db: Db): pg.Pool | undefined => pools.get(db);
 
 export interface DbOptions {
-  /** Connections in the pool (DATABASE_POOL_MAX, default 10: PostgreSQL allows 100, and several processes share it). */
+  /** Connections in the pool (DATABASE_POOL_MAX; default `defaultPoolMax`: twice the cores for a database on this machine, 2–10; else 10). */
   max?: number;
   /** A statement running longer is cancelled by the server (57014 → 503). 0 = none (migrations, seeds, bench). */
   statementTimeoutMs?: number;
@@ -28,7 +29,7 @@ export interface DbOptions {
   /**
    * Statements that may wait for a connection at once (DATABASE_POOL_MAX_WAITING); one more is refused at
    * once (PoolQueueFull → 503 `db_unavailable` with Retry-After) instead of queueing toward the timeout.
-   * 0 = no bound. Default 10 × `max`: see `defaultMaxWaiting`.
+   * 0 = no bound. Default 10 × `max` and at least 100: see `defaultMaxWaiting`.
    */
   maxWaiting?: number;
 }
@@ -37,6 +38,41 @@ const envInt = (name: string, fallback: number) => {
   const v = Number(process.env[name]);
   return Number.isFinite(v) && v >= 0 && process.env[name] !== "" && process.env[name] !== undefined ? v : fallback;
 };
+
+/**
+ * Is the database on this machine: a loopback address, a Unix socket, or no host (pg then uses PGHOST or localhost)?
+ * Then PostgreSQL and this process share the same cores (how `npm start` runs it: a cluster on 127.0.0.1).
+ */
+export function databaseIsLocal(connectionString: string): boolean {
+  let url: URL;
+  try {
+    url = new URL(connectionString);
+  } catch {
+    return false;
+  }
+  const host = (url.searchParams.get("host") || decodeURIComponent(url.hostname) || process.env.PGHOST || "localhost")
+    .replace(/^\[(.*)\]$/, "$1")
+    .toLowerCase();
+  return host.startsWith("/") || host === "localhost" || host === "::1" || /^127\.\d+\.\d+\.\d+$/.test(host);
+}
+
+/**
+ * The app pool's default size when DATABASE_POOL_MAX is not set. A database on this machine (`databaseIsLocal`):
+ * twice the cores this process may run on (`os.availableParallelism()`), at least 2 and at most 10 — 4 on a 2-core
+ * machine. A database elsewhere: 10, as before, since its cores cannot be seen from here (set DATABASE_POOL_MAX to
+ * twice them). Decided from the bench's 50 clients on the register (DEVELOPERS.md "Pool size from the cores",
+ * decision record of 2026-12-03): the register's statements are CPU-bound on a cached site, so more of them running
+ * at once than the cores can run add no throughput and take time slices from the server's one event-loop thread,
+ * and from the health probe's backend, on the same cores. Twice the cores because a statement also waits for its
+ * round trips and for the server to read its answer: the rule of thumb for a cached database is about 2 × cores
+ * (PostgreSQL wiki, "Number Of Database Connections"; from memory). The cap keeps (instances + workers) × the pool
+ * under PostgreSQL's 100 connections.
+ */
+export const defaultPoolMax = (connectionString: string, cores = availableParallelism()) =>
+  databaseIsLocal(connectionString) ? Math.min(10, Math.max(2, 2 * cores)) : 10;
+
+/** The app pool's size for this database: DATABASE_POOL_MAX, else `defaultPoolMax`. */
+export const appPoolMax = (connectionString: string) => envInt("DATABASE_POOL_MAX", defaultPoolMax(connectionString));
 
 /**
  * The waiting queue's default bound: ten statements per connection, and never fewer than 100. Chosen (DEVELOPERS.md
@@ -49,13 +85,15 @@ const envInt = (name: string, fallback: number) => {
  */
 export const defaultMaxWaiting = (max: number) => Math.max(100, 10 * max);
 
-/** The settings the app serves with; tools that run long statements pass their own. */
-export const APP_DB_OPTIONS: Required<DbOptions> = {
-  max: envInt("DATABASE_POOL_MAX", 10),
+/**
+ * The settings the app serves with; tools that run long statements pass their own. The pool's size and its waiting
+ * bound depend on where the database is, so `createDb` sets them: `appPoolMax(url)` and DATABASE_POOL_MAX_WAITING,
+ * else `defaultMaxWaiting` of that size.
+ */
+export const APP_DB_OPTIONS: Required<Omit<DbOptions, "max" | "maxWaiting">> = {
   statementTimeoutMs: envInt("DATABASE_STATEMENT_TIMEOUT_MS", 30_000),
   idleInTransactionMs: envInt("DATABASE_IDLE_IN_TRANSACTION_MS", 60_000),
   connectionTimeoutMs: envInt("DATABASE_CONNECT_TIMEOUT_MS", 5_000),
-  maxWaiting: envInt("DATABASE_POOL_MAX_WAITING", defaultMaxWaiting(envInt("DATABASE_POOL_MAX", 10))),
 };
 
 /** For migrations, seeds, the benchmark and backups: no statement or idle-in-transaction limit, no queue bound. */
@@ -77,10 +115,10 @@ export const MAINTENANCE_DB_OPTIONS: DbOptions = {
  */
 export function createDb(connectionString: string, options: number | DbOptions = {}): Db {
   const given = typeof options === "number" ? { max: options } : options;
-  const o = { ...APP_DB_OPTIONS, ...given };
-  // A pool sized here without its own bound gets the bound for its size (unless the operator set one).
-  if (given.maxWaiting === undefined && given.max !== undefined && process.env.DATABASE_POOL_MAX_WAITING === undefined)
-    o.maxWaiting = defaultMaxWaiting(o.max);
+  const max = given.max ?? appPoolMax(connectionString);
+  // A pool without its own bound gets DATABASE_POOL_MAX_WAITING, else the bound for its size.
+  const maxWaiting = given.maxWaiting ?? envInt("DATABASE_POOL_MAX_WAITING", defaultMaxWaiting(max));
+  const o = { ...APP_DB_OPTIONS, ...given, max, maxWaiting };
   const pool = new pg.Pool({
     connectionString,
     max: o.max,

@@ -124,7 +124,8 @@ if (import.meta.url === `file://${process.argv[1]}`) {
     console.error("Set DATABASE_URL, or use `npm start` for the embedded database.");
     process.exit(1);
   }
-  const db = createDb(process.env.DATABASE_URL, Number(process.env.DATABASE_POOL_MAX ?? 10));
+  // DATABASE_POOL_MAX, else twice the cores for a database on this machine (2–10) or 10, with its waiting bound.
+  const db = createDb(process.env.DATABASE_URL);
   const port = Number(process.env.PORT ?? 3000);
   const running = await serve({
     db,

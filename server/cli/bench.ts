@@ -48,7 +48,7 @@ import { openLocalDatabase } from "../../db/local";
 import { migrateToLatest } from "../../db/migrate";
 import { ensureDatabase, pgBin, projectRoot } from "../../db/pg";
 import { createApp } from "../app";
-import { createDb, MAINTENANCE_DB_OPTIONS } from "../db";
+import { appPoolMax, createDb, MAINTENANCE_DB_OPTIONS } from "../db";
 import { CSV_COLUMNS, inlineParameters } from "../defects/csv";
 import { applySort, registerBase } from "../defects/list-repository";
 import { measurePaint, openBrowser, STATIC_PAGE, writeStaticPage, type PaintFigures } from "../bench/paint";
@@ -85,7 +85,6 @@ const CLIENTS = arg("clients") ? Number(arg("clients")!.split("=")[1]) : Number(
 /** The server process's metrics token: the load phase reads its event-loop delay from /api/metrics. */
 const METRICS_TOKEN = randomBytes(16).toString("hex");
 const SECONDS = Number(process.env.BENCH_SECONDS ?? 8);
-const POOL = Number(process.env.DATABASE_POOL_MAX ?? 10);
 const TODAY = "2027-02-01";
 
 const say = (s: string) => console.log(s);
@@ -332,6 +331,8 @@ async function main() {
   await ensureDatabase(local.adminUrl, name, { fresh: !reuse, owner: local.appRole });
   const url = local.url.replace(/\/postgres$/, `/${name}`);
   const setup = createDb(url, { ...MAINTENANCE_DB_OPTIONS, max: 4 });
+  // The server's pool (DATABASE_POOL_MAX, else its default for this database): the raw side runs on as many.
+  const POOL = appPoolMax(url);
   const raw = new pg.Pool({ connectionString: url, max: POOL });
   let server: Awaited<ReturnType<typeof startServer>> | undefined;
   let removeStatic = () => {};
@@ -593,7 +594,7 @@ async function main() {
         f2.ratio.push(f2.rps[run] / f2.rawRps[run]);
       }
       say(
-        `\n2. ${CLIENTS} clients on the register (${reg.map((c) => c.label.replace("register: ", "")).join(", ")} in turn) for ${SECONDS} s; raw = ${CLIENTS} workers replaying the same statements on a pool of ${POOL} (the server's DATABASE_POOL_MAX); median [min–max] over ${RUNS} runs`,
+        `\n2. ${CLIENTS} clients on the register (${reg.map((c) => c.label.replace("register: ", "")).join(", ")} in turn) for ${SECONDS} s; raw = ${CLIENTS} workers replaying the same statements on a pool of ${POOL} (the server's pool: DATABASE_POOL_MAX, else its default); median [min–max] over ${RUNS} runs`,
       );
       say(
         table(

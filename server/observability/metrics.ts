@@ -83,7 +83,7 @@ export function createMetrics(opts: { db: Db; jobs?: Jobs; defaultMetrics?: bool
   });
   new Gauge({
     name: "tideline_db_pool_max",
-    help: "Most connections this process's pool opens (DATABASE_POOL_MAX).",
+    help: "Most connections this process's pool opens (DATABASE_POOL_MAX, else its default: see server/db.ts defaultPoolMax).",
     registers: [registry],
     collect() {
       if (pool) this.set(pool.options.max ?? 10);

@@ -18,7 +18,7 @@ export async function createTestDb(): Promise<TestDb> {
   // Owned by the app's role, and used through it, as `npm start` does (no superuser).
   await ensureDatabase(adminUrl, name, { template: inject("templateDb"), owner: inject("appRole") });
   const url = inject("appUrl").replace(/\/postgres$/, `/${name}`);
-  // As many connections as an app instance has by default (DATABASE_POOL_MAX): the job worker polls through
+  // Ten connections (the most an app instance has by default, DATABASE_POOL_MAX): the job worker polls through
   // this pool too, and five left a slow PDF waiting past the acquire timeout on a loaded machine.
   const db = createDb(url, 10);
   return {
