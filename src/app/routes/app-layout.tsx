@@ -1,4 +1,4 @@
-import { useEffect, useState } from "react";
+import { lazy, Suspense, useEffect, useState } from "react";
 import { Link, Navigate, Outlet, useLocation, useNavigate } from "react-router";
 import { SyncBar } from "../../components/sync-bar";
 import { setOutboxUser, useOutbox } from "../../lib/outbox";
@@ -8,7 +8,15 @@ import { Wordmark } from "../../components/wordmark";
 import { ErrorPanel, Loading, serverRefused } from "../../components/status";
 import { paths } from "../../config/paths";
 import { useSession, useSignOut } from "../../features/auth/api";
-import { NoticeStrip } from "../../features/prepared-files/components/notice-strip";
+
+/**
+ * The prepared-files notice comes in a chunk of its own, after the page around it: its zod schemas (built when the
+ * module is evaluated) were part of the app layout's chunk, a long task on the phone before any page behind sign-in
+ * could render. It shows nothing until its own read answers, as before.
+ */
+const NoticeStrip = lazy(() =>
+  import("../../features/prepared-files/components/notice-strip").then((m) => ({ default: m.NoticeStrip })),
+);
 
 /** Everything behind sign-in: the top bar and the session guard. */
 export default function AppLayout() {
@@ -92,7 +100,9 @@ export default function AppLayout() {
         </div>
       )}
       <SyncBar kept={kept} />
-      <NoticeStrip filesHref={paths.reports.href} />
+      <Suspense fallback={null}>
+        <NoticeStrip filesHref={paths.reports.href} />
+      </Suspense>
       <Outlet />
     </div>
   );
