@@ -29,32 +29,67 @@ export function cpuSecondsOf(pid: number, statPath = `/proc/${pid}/stat`): numbe
   }
 }
 
+export type ThreadGroup = "main" | "vips" | "other";
+/** One reading of a process's threads: each live thread's group and CPU seconds, by thread id. */
+export type ThreadSample = Map<number, { group: ThreadGroup; comm: string; seconds: number }> & {
+  /** The whole process's CPU seconds (/proc/<pid>/stat), which keeps the time of threads that have ended. */
+  process?: number;
+};
+
 /**
- * CPU seconds of one process split by thread (from /proc/<pid>/task/<tid>/stat and comm): the
- * main thread (JavaScript: HTTP, middleware, queries, streams, GC's main-thread part), libvips'
- * worker threads (sharp's image work), and the rest (libuv's pool for file I/O and hashing, V8's
- * helpers). Threads that ended in between are left out.
+ * CPU seconds of one process's threads, by thread id (from /proc/<pid>/task/<tid>/stat and comm), each in its group:
+ * the main thread (JavaScript: HTTP, middleware, queries, streams, GC's main-thread part), libvips' worker threads
+ * (sharp's image work), and the rest (libuv's pool for file I/O and hashing, V8's helpers). Null when the process
+ * is gone.
  */
-export function threadCpuOf(pid: number): { main: number; vips: number; other: number } {
-  const out = { main: 0, vips: 0, other: 0 };
+export function threadSampleOf(pid: number): ThreadSample | null {
+  const out: ThreadSample = new Map();
+  out.process = cpuSecondsOf(pid);
   let tids: string[];
   try {
     tids = readdirSync(`/proc/${pid}/task`);
   } catch {
-    return { main: NaN, vips: NaN, other: NaN };
+    return null;
   }
   for (const tid of tids) {
     try {
       const comm = readFileSync(`/proc/${pid}/task/${tid}/comm`, "utf8").trim();
-      const s = cpuSecondsOf(Number(tid), `/proc/${pid}/task/${tid}/stat`);
-      if (Number(tid) === pid) out.main += s;
-      else if (/vips/i.test(comm)) out.vips += s;
-      else out.other += s;
+      const seconds = cpuSecondsOf(Number(tid), `/proc/${pid}/task/${tid}/stat`);
+      if (Number.isNaN(seconds)) continue; // the thread ended between readdir and read
+      const group: ThreadGroup = Number(tid) === pid ? "main" : /vips/i.test(comm) ? "vips" : "other";
+      out.set(Number(tid), { group, comm, seconds });
     } catch {
       // the thread ended between readdir and read
     }
   }
   return out;
+}
+
+/**
+ * The CPU seconds each group of threads used between two samples, thread by thread, so no figure can go below zero.
+ * A thread summed by group before and after made one: a thread that ended in between took its seconds out of the
+ * second sum ("other" read as much as −40 ms a photo). Now:
+ * - a thread in both samples counts what it used in between;
+ * - a thread only in the second started in between: all its seconds count (so does a thread id the kernel gave
+ *   again to a new thread: a different name, or fewer seconds than the old one had);
+ * - a thread only in the first ended in between: /proc keeps nothing of it, so it counts in no group and `ended`
+ *   says how many; what it used after the first sample is `endedSeconds`: the process's own total (which keeps
+ *   ended threads' time) less what the live threads used, never below zero (both are in 10 ms ticks).
+ */
+export function threadCpuBetween(before: ThreadSample | null, after: ThreadSample | null) {
+  const cpu: Record<ThreadGroup, number> = { main: 0, vips: 0, other: 0 };
+  if (!before || !after) return { cpu: { main: NaN, vips: NaN, other: NaN }, ended: 0, endedSeconds: NaN };
+  for (const [tid, a] of after) {
+    const b = before.get(tid);
+    const same = b && b.comm === a.comm && b.seconds <= a.seconds;
+    cpu[a.group] += same ? a.seconds - b.seconds : a.seconds;
+  }
+  let ended = 0;
+  for (const tid of before.keys()) if (!after.has(tid)) ended++;
+  const live = cpu.main + cpu.vips + cpu.other;
+  const whole = (after.process ?? NaN) - (before.process ?? NaN);
+  const endedSeconds = ended && Number.isFinite(whole) ? Math.max(0, whole - live) : 0;
+  return { cpu, ended, endedSeconds };
 }
 
 /** The parent pid of a process (/proc/<pid>/stat field 4). */

@@ -32,7 +32,7 @@ import sharp from "sharp";
 import { openLocalDatabase } from "../../db/local";
 import { migrateToLatest } from "../../db/migrate";
 import { ensureDatabase, projectRoot } from "../../db/pg";
-import { clusterCpu, cpuBetween, parentOf, threadCpuOf } from "../bench/load";
+import { clusterCpu, cpuBetween, parentOf, threadCpuBetween, threadSampleOf, type ThreadSample } from "../bench/load";
 import { BENCH_PASSWORD, generateSite } from "../bench/site";
 import { spread, table } from "../bench/stats";
 import { createDb, MAINTENANCE_DB_OPTIONS } from "../db";
@@ -130,15 +130,27 @@ async function startInstance(root: string, env: Record<string, string>) {
   return { base, child };
 }
 
-type Cpu = { main: number; vips: number; other: number };
-const zero = (): Cpu => ({ main: 0, vips: 0, other: 0 });
-const addTo = (to: Cpu, a: Cpu, b: Cpu) => {
-  to.main += b.main - a.main;
-  to.vips += b.vips - a.vips;
-  to.other += b.other - a.other;
+/** CPU seconds by thread group; `ended`: threads that ended between two samples (from the process's own total). */
+type Cpu = { main: number; vips: number; other: number; ended: number };
+const zero = (): Cpu => ({ main: 0, vips: 0, other: 0, ended: 0 });
+/** Threads that ended between two CPU samples, over the whole bench. */
+let threadsEnded = 0;
+/** Adds what each group of threads used between the two samples (thread by thread: see threadCpuBetween). */
+const addTo = (to: Cpu, a: ThreadSample | null, b: ThreadSample | null) => {
+  const { cpu, ended, endedSeconds } = threadCpuBetween(a, b);
+  to.main += cpu.main;
+  to.vips += cpu.vips;
+  to.other += cpu.other;
+  to.ended += endedSeconds;
+  threadsEnded += ended;
 };
-const sum = (a: Cpu, b: Cpu): Cpu => ({ main: a.main + b.main, vips: a.vips + b.vips, other: a.other + b.other });
-const total = (c: Cpu) => c.main + c.vips + c.other;
+const sum = (a: Cpu, b: Cpu): Cpu => ({
+  main: a.main + b.main,
+  vips: a.vips + b.vips,
+  other: a.other + b.other,
+  ended: a.ended + b.ended,
+});
+const total = (c: Cpu) => c.main + c.vips + c.other + c.ended;
 
 /** One Tideline instance under test: its own scratch database, photo folder and worker. */
 async function openSide(
@@ -299,13 +311,13 @@ export async function benchIngest() {
       const bc = zero();
       const steps: Array<() => Promise<void>> = [
         ...sides.map((side, k) => async () => {
-          const c0 = threadCpuOf(side.pid);
+          const c0 = threadSampleOf(side.pid);
           const p0 = clusterCpu(postmaster);
           const { id, requestSeconds, startedAt } = await side.upload();
-          const c1 = threadCpuOf(side.pid);
+          const c1 = threadSampleOf(side.pid);
           const q = await side.ready(id);
           addTo(acc[k].req, c0, c1);
-          addTo(acc[k].after, c1, threadCpuOf(side.pid));
+          addTo(acc[k].after, c1, threadSampleOf(side.pid));
           acc[k].pg += cpuBetween(p0, clusterCpu(postmaster));
           acc[k].total += (q.done - startedAt) / 1000;
           acc[k].request += requestSeconds;
@@ -313,12 +325,12 @@ export async function benchIngest() {
           acc[k].job += (q.done - q.started) / 1000;
         }),
         async () => {
-          const c0 = threadCpuOf(process.pid);
+          const c0 = threadSampleOf(process.pid);
           const t = performance.now();
           const out = await bareRenditions(file);
           const t1 = performance.now();
           b += (t1 - t) / 1000;
-          addTo(bc, c0, threadCpuOf(process.pid));
+          addTo(bc, c0, threadSampleOf(process.pid));
           // Then its two files, as a script producing renditions would write them (timed apart).
           await writeFile(join(work, "bare-display.jpg"), out.display);
           await writeFile(join(work, "bare-thumb.jpg"), out.thumb);
@@ -376,6 +388,7 @@ export async function benchIngest() {
       ms(xs, (c) => c.main),
       ms(xs, (c) => c.vips),
       ms(xs, (c) => c.other),
+      ms(xs, (c) => c.ended),
     ];
     const cpuRows: string[][] = [];
     for (const [k, side] of sides.entries()) {
@@ -387,12 +400,18 @@ export async function benchIngest() {
         ),
         row("  during the upload request", f.cpuRequest),
         row("  after it (queue, job, renditions)", f.cpuAfter),
-        ["  PostgreSQL (rows, queue, the bench's polls)", perPhoto(f.pg, 1000), "", "", ""],
-        ["  ratio server ÷ bare (within each run)", spread(f.cpuRatio, 2), "", "", ""],
+        ["  PostgreSQL (rows, queue, the bench's polls)", perPhoto(f.pg, 1000), "", "", "", ""],
+        ["  ratio server ÷ bare (within each run)", spread(f.cpuRatio, 2), "", "", "", ""],
       );
     }
     cpuRows.push(row("bare sharp: same renditions, same file", bareCpu));
-    console.log(table(["CPU ms per photo", "total", "main thread", "libvips", "other"], cpuRows));
+    console.log(table(["CPU ms per photo", "total", "main thread", "libvips", "other", "ended threads"], cpuRows));
+    // Per thread between two samples (threadCpuBetween): no row goes below zero. A thread that ended in between is in
+    // no group; its time after the first sample is "ended threads" (the process's own total less the live threads').
+    console.log(
+      `(CPU thread by thread between samples; ${threadsEnded} thread(s) ended between two samples, their time in ` +
+        `"ended threads")`,
+    );
     const load1 = loadavg();
     console.log(
       `(photo ${(photo.length / 1024 / 1024).toFixed(1)} MB, 4032 × 3024, EXIF orientation 6; renditions byte-identical ` +
