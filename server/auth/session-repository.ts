@@ -3,6 +3,7 @@ import type { Adapter, DatabaseSession, DatabaseUser } from "lucia";
 import type { Role } from "../../src/domain/vocab";
 import type { Db } from "../db";
 import { memberRolesOf } from "../sites/reads";
+import { statementCache } from "../statement-cache";
 
 /*
  * lucia's adapter is this domain's repository for sessions: lucia v3 stores sessions only through an
@@ -16,6 +17,27 @@ import { memberRolesOf } from "../sites/reads";
  * Migration 2026_12_02_0230 ended the sessions stored before this.
  */
 export const sessionKey = (sessionId: string) => createHash("sha256").update(sessionId).digest("hex");
+
+/**
+ * The session, its person and their role on each site, in one statement: every request reads it, and the route
+ * guard takes the caller's standing from it (`standingOn`) instead of asking again. Compiled once (its shape never
+ * changes; server/statement-cache.ts): it still runs against the database on every request.
+ */
+const sessionStatement = statementCache((db: Db, _shape: null, v: { key: string }) =>
+  db
+    .selectFrom("sessions")
+    .innerJoin("users", "users.id", "sessions.userId")
+    .select((eb) => [
+      "sessions.id",
+      "sessions.userId",
+      "sessions.expiresAt",
+      "users.email",
+      "users.name",
+      "users.isAdmin",
+      memberRolesOf(eb).as("siteRoles"),
+    ])
+    .where("sessions.id", "=", v.key),
+);
 
 /** lucia v3's storage contract over Kysely: sessions and users live in PostgreSQL. */
 export function kyselyAdapter(db: Db): Adapter {
@@ -36,25 +58,9 @@ export function kyselyAdapter(db: Db): Adapter {
     attributes: {},
   });
   return {
-    /**
-     * The session, its person and their role on each site, in one statement: every request reads it, and
-     * the route guard takes the caller's standing from it (`standingOn`) instead of asking again.
-     */
+    /** The session, its person and their role on each site (`sessionStatement`). */
     async getSessionAndUser(sessionId) {
-      const row = await db
-        .selectFrom("sessions")
-        .innerJoin("users", "users.id", "sessions.userId")
-        .select((eb) => [
-          "sessions.id",
-          "sessions.userId",
-          "sessions.expiresAt",
-          "users.email",
-          "users.name",
-          "users.isAdmin",
-          memberRolesOf(eb).as("siteRoles"),
-        ])
-        .where("sessions.id", "=", sessionKey(sessionId))
-        .executeTakeFirst();
+      const [row] = (await db.executeQuery(sessionStatement.compile(db, null, { key: sessionKey(sessionId) }))).rows;
       if (!row) return [null, null];
       return [
         toSession({ ...row, id: sessionId }),

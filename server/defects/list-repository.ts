@@ -1,7 +1,8 @@
-import { sql, type Expression, type SelectQueryBuilder, type SqlBool } from "kysely";
+import { sql, type Compilable, type Expression, type SelectQueryBuilder, type SqlBool } from "kysely";
 import type { Database } from "../../db/types";
-import type { ListQuery, SortKey } from "../../src/schemas/defects";
+import type { Flag, ListQuery, SortKey } from "../../src/schemas/defects";
 import type { Db } from "../db";
+import { statementCache } from "../statement-cache";
 
 /** The joins every register read uses: board, section, position, assignee, active pin and its target. */
 export function registerBase(db: Db, siteId: string) {
@@ -17,9 +18,9 @@ export function registerBase(db: Db, siteId: string) {
 }
 
 /** The count needs no join but the pin, and that only when filtering on pinned defects. */
-function countBase(db: Db, siteId: string, f: ListQuery) {
-  const q = db.selectFrom("defects as d").where("d.siteId", "=", siteId);
-  return f.flag.includes("pinned")
+function countBase(db: Db, s: RegisterShape, v: RegisterValues) {
+  const q = db.selectFrom("defects as d").where("d.siteId", "=", v.siteId);
+  return s.flags.includes("pinned")
     ? q.leftJoin("defectPins as pin", (j) => j.onRef("pin.defectId", "=", "d.id").on("pin.removedAt", "is", null))
     : q;
 }
@@ -31,13 +32,13 @@ function countBase(db: Db, siteId: string, f: ListQuery) {
  * no row: `defects.board_id` is NOT NULL and references boards), instead of joining every defect first
  * and sorting the lot.
  */
-function sortedIdsBase(db: Db, siteId: string, f: ListQuery) {
+function sortedIdsBase(db: Db, s: RegisterShape, v: RegisterValues) {
   // The sort expressions name these aliases; each join is left out when its alias is not used.
   // eslint-disable-next-line @typescript-eslint/no-explicit-any -- see DefectsQuery below
-  let q: any = countBase(db, siteId, f);
-  if (f.sort === "board") q = q.innerJoin("boards as b", "b.id", "d.boardId");
-  if (f.sort === "position") q = q.leftJoin("positions as p", "p.id", "d.positionId");
-  if (f.sort === "assignee") q = q.leftJoin("users as a", "a.id", "d.assigneeId");
+  let q: any = countBase(db, s, v);
+  if (s.sort === "board") q = q.innerJoin("boards as b", "b.id", "d.boardId");
+  if (s.sort === "position") q = q.leftJoin("positions as p", "p.id", "d.positionId");
+  if (s.sort === "assignee") q = q.leftJoin("users as a", "a.id", "d.assigneeId");
   return q as DefectsQuery;
 }
 
@@ -92,12 +93,81 @@ type DefectsQuery = SelectQueryBuilder<any, any, any>;
 /** LIKE pattern for a free-text search, with the user's % and _ taken literally. */
 const likePattern = (q: string) => `%${q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
 
-/** The register's filters. */
+/**
+ * What chooses a register statement's SQL (its shape): sort, direction, flags, and (in `RegisterValues`) which
+ * values are given and how many. Statements of one shape differ only in their parameters, so each shape is compiled
+ * once (server/statement-cache.ts).
+ */
+export interface RegisterShape {
+  sort: SortKey;
+  dir: "asc" | "desc";
+  flags: readonly Flag[];
+}
+
+/**
+ * The values of a register statement, each only ever a parameter: the builders below never let one choose SQL
+ * (whether one is null, and an array's length, do: both are part of the shape's key).
+ */
+export interface RegisterValues {
+  [name: string]: string | number | null | readonly string[];
+  siteId: string;
+  today: string;
+  /** The search as a LIKE pattern; null without a search. */
+  pattern: string | null;
+  /** The defect reference the search names ("D-12", "12"); null when it names none. */
+  ref: number | null;
+  board: readonly string[];
+  category: readonly string[];
+  severity: readonly string[];
+  status: readonly string[];
+  /** Assignees by id; "none" (unassigned) is `unassigned` below. */
+  assigneeIds: readonly string[];
+  /** The assignee filter asks for unassigned defects: non-null (its value unused) exactly when it does. */
+  unassigned: string | null;
+  /** Rows each branch of the ranked page reads: (page + 1) × size. */
+  want: number;
+  size: number;
+  offset: number;
+}
+
+/** A register query's shape and values. */
+export function registerArgs(
+  siteId: string,
+  f: ListQuery,
+  today: string,
+): { shape: RegisterShape; values: RegisterValues } {
+  const refMatch = f.q ? /^d?-?(\d{1,12})$/i.exec(f.q) : null;
+  return {
+    shape: { sort: f.sort, dir: f.dir, flags: f.flag },
+    values: {
+      siteId,
+      today,
+      pattern: f.q ? likePattern(f.q) : null,
+      ref: refMatch ? Number(refMatch[1]) : null,
+      board: f.board,
+      category: f.category,
+      severity: f.severity,
+      status: f.status,
+      assigneeIds: f.assignee.filter((a) => a !== "none"),
+      unassigned: f.assignee.includes("none") ? "none" : null,
+      want: (f.page + 1) * f.size,
+      size: f.size,
+      offset: f.page * f.size,
+    },
+  };
+}
+
+/** The register's filters (`filterBy` for a query already split into shape and values). */
 export function applyFilters<QB extends DefectsQuery>(qb: QB, f: ListQuery, today: string, siteId: string): QB {
+  const { shape, values } = registerArgs(siteId, f, today);
+  return filterBy(qb, shape, values);
+}
+
+function filterBy<QB extends DefectsQuery>(qb: QB, s: RegisterShape, v: RegisterValues): QB {
   let q = qb as DefectsQuery;
-  if (f.q) {
-    const pat = likePattern(f.q);
-    const refMatch = /^d?-?(\d{1,12})$/i.exec(f.q);
+  if (v.pattern !== null) {
+    const pat = v.pattern;
+    const ref = v.ref;
     // Every branch is index-served, so PostgreSQL ORs bitmap index scans instead of testing each
     // defect joined to its position: the defect text by its trigram index, the designation as the
     // matching positions' ids (trigram index on positions, computed once as an array) against
@@ -105,19 +175,19 @@ export function applyFilters<QB extends DefectsQuery>(qb: QB, f: ListQuery, toda
     q = q.where((eb) => {
       const ors: Expression<SqlBool>[] = [
         sql<SqlBool>`(d.title || ' ' || d.description) ILIKE ${pat}`,
-        sql<SqlBool>`d.position_id = ANY(ARRAY(SELECT sp.id FROM positions sp WHERE sp.site_id = ${siteId} AND sp.designation ILIKE ${pat}))`,
+        sql<SqlBool>`d.position_id = ANY(ARRAY(SELECT sp.id FROM positions sp WHERE sp.site_id = ${v.siteId} AND sp.designation ILIKE ${pat}))`,
       ];
-      if (refMatch) ors.push(eb("d.ref", "=", Number(refMatch[1])));
+      if (ref !== null) ors.push(eb("d.ref", "=", ref));
       return eb.or(ors);
     });
   }
-  if (f.board.length) q = q.where("d.boardId", "in", f.board);
-  if (f.category.length) q = q.where("d.category", "in", f.category);
-  if (f.severity.length) q = q.where("d.severity", "in", f.severity);
-  if (f.status.length) q = q.where("d.status", "in", f.status);
-  if (f.assignee.length) {
-    const ids = f.assignee.filter((a) => a !== "none");
-    const none = f.assignee.includes("none");
+  if (v.board.length) q = q.where("d.boardId", "in", v.board);
+  if (v.category.length) q = q.where("d.category", "in", v.category);
+  if (v.severity.length) q = q.where("d.severity", "in", v.severity);
+  if (v.status.length) q = q.where("d.status", "in", v.status);
+  if (v.assigneeIds.length || v.unassigned !== null) {
+    const ids = v.assigneeIds;
+    const none = v.unassigned !== null;
     q = q.where((eb) =>
       eb.or([
         ...(ids.length ? [eb("d.assigneeId", "in", ids)] : []),
@@ -125,13 +195,13 @@ export function applyFilters<QB extends DefectsQuery>(qb: QB, f: ListQuery, toda
       ]),
     );
   }
-  for (const flag of f.flag) {
+  for (const flag of s.flags) {
     if (flag === "safety") q = q.where("d.safetyCritical", "=", true);
     if (flag === "blocking") q = q.where("d.blocksEnergisation", "=", true);
     if (flag === "pinned") q = q.where("pin.id", "is not", null);
     if (flag === "unassigned") q = q.where("d.assigneeId", "is", null);
     if (flag === "overdue")
-      q = q.where("d.dueOn", "<", today).where("d.status", "not in", ["closed", "deferred", "accepted_as_is"]);
+      q = q.where("d.dueOn", "<", v.today).where("d.status", "not in", ["closed", "deferred", "accepted_as_is"]);
   }
   return q as QB;
 }
@@ -211,8 +281,9 @@ export function applySort<QB extends DefectsQuery>(qb: QB, sort: SortKey, dir: "
   return q.orderBy(sql`${SORT_EXPR[sort]} ${d}`).orderBy(sql`d.ref ${dir === "asc" ? sql`ASC` : sql`DESC`}`) as QB;
 }
 
-/** True when `f` filters by nothing but board, status and severity: the keys `defect_tallies` keeps. */
-const tallied = (f: ListQuery) => !f.q && !f.category.length && !f.assignee.length && !f.flag.length;
+/** True when the query filters by nothing but board, status and severity: the keys `defect_tallies` keeps. */
+const tallied = (s: RegisterShape, v: RegisterValues) =>
+  v.pattern === null && !v.category.length && !v.assigneeIds.length && v.unassigned === null && !s.flags.length;
 
 /**
  * How many defects match `f`. Filtered by nothing but board, status and severity (the default view,
@@ -220,23 +291,25 @@ const tallied = (f: ListQuery) => !f.q && !f.category.length && !f.assignee.leng
  * write of `defects`, so exact — at most boards × 7 × 4 rows a site however many defects it holds.
  * Any other filter counts the matching defects.
  */
-function countQuery(db: Db, siteId: string, f: ListQuery, today: string) {
-  if (tallied(f)) {
+function countQuery(db: Db, s: RegisterShape, v: RegisterValues) {
+  if (tallied(s, v)) {
     let q = db
       .selectFrom("defectTallies as dt")
-      .where("dt.siteId", "=", siteId)
+      .where("dt.siteId", "=", v.siteId)
       .select(sql<number>`coalesce(sum(dt.n), 0)::int`.as("n"));
-    if (f.board.length) q = q.where("dt.boardId", "in", f.board);
-    if (f.status.length) q = q.where("dt.status", "in", f.status);
-    if (f.severity.length) q = q.where("dt.severity", "in", f.severity);
+    if (v.board.length) q = q.where("dt.boardId", "in", v.board);
+    if (v.status.length) q = q.where("dt.status", "in", v.status);
+    if (v.severity.length) q = q.where("dt.severity", "in", v.severity);
     return q;
   }
-  return applyFilters(countBase(db, siteId, f), f, today, siteId).select((eb) => eb.fn.countAll<number>().as("n"));
+  return filterBy(countBase(db, s, v), s, v).select((eb) => eb.fn.countAll<number>().as("n"));
 }
 
 /** How many defects match `f` (a CSV's progress). */
-export const registerCount = async (db: Db, siteId: string, f: ListQuery, today: string) =>
-  Number((await countQuery(db, siteId, f, today).executeTakeFirstOrThrow()).n);
+export const registerCount = async (db: Db, siteId: string, f: ListQuery, today: string) => {
+  const { shape, values } = registerArgs(siteId, f, today);
+  return Number((await countQuery(db, shape, values).executeTakeFirstOrThrow()).n);
+};
 
 /**
  * The ids of one page in the ranked order, index-served. Defects no pin moves rank by
@@ -247,9 +320,9 @@ export const registerCount = async (db: Db, siteId: string, f: ListQuery, today:
  * the single query ordered by, so the merged order — and every tie — is exactly the ranked order
  * of `rankDefects()` (tests/server/defects*.api.test.ts check it on pinned data).
  */
-function rankedPageIds(db: Db, siteId: string, f: ListQuery, today: string) {
-  const reverse = f.dir !== "desc";
-  const want = (f.page + 1) * f.size;
+function rankedPageIds(db: Db, s: RegisterShape, v: RegisterValues) {
+  const reverse = s.dir !== "desc";
+  const want = v.want;
   const dir = (d: "ASC" | "DESC") => sql.raw(reverse ? flip(d) : d);
   const keyNames = RANK_KEYS.map((_, i) => `k${i + 1}`);
   // Unpinned: every rank key reduces to the defect's own (t is NULL; see RANK_KEYS).
@@ -269,16 +342,16 @@ function rankedPageIds(db: Db, siteId: string, f: ListQuery, today: string) {
   // "No active pin" as NOT EXISTS: an anti join by nested loop keeps the index's order, so the LIMIT stops
   // the walk after the page. (As a left join filtered on pin.id IS NULL the planner hashed it, which loses
   // the order, and sorted every defect of the site.) The "pinned" flag needs pin in scope: no row here.
-  const own = applyFilters(
-    f.flag.includes("pinned")
+  const own = filterBy(
+    s.flags.includes("pinned")
       ? db
           .selectFrom("defects as d")
           .leftJoin("defectPins as pin", (j) => j.onRef("pin.defectId", "=", "d.id").on("pin.removedAt", "is", null))
-          .where("d.siteId", "=", siteId)
+          .where("d.siteId", "=", v.siteId)
           .where("pin.id", "is", null)
       : db
           .selectFrom("defects as d")
-          .where("d.siteId", "=", siteId)
+          .where("d.siteId", "=", v.siteId)
           .where(({ not, exists, selectFrom }) =>
             not(
               exists(
@@ -289,16 +362,15 @@ function rankedPageIds(db: Db, siteId: string, f: ListQuery, today: string) {
               ),
             ),
           ),
-    f,
-    today,
-    siteId,
+    s,
+    v,
   )
     .select((eb) => [eb.ref("d.id").as("id"), ...ownKeys.map((k, i) => k.as(keyNames[i]))])
     .orderBy(
       sql`d.safety_critical ${dir("DESC")}, d.priority_score ${dir("DESC")}, d.created_at ${dir("ASC")}, d.id ${dir("ASC")}`,
     )
     .limit(want);
-  const pinned = applyFilters(registerBase(db, siteId).where("pin.id", "is not", null), f, today, siteId)
+  const pinned = filterBy(registerBase(db, v.siteId).where("pin.id", "is not", null), s, v)
     .select((eb) => [eb.ref("d.id").as("id"), ...RANK_KEYS.map(([k], i) => k.as(keyNames[i]))])
     .orderBy(rankOrderSql(reverse))
     .limit(want);
@@ -312,8 +384,8 @@ function rankedPageIds(db: Db, siteId: string, f: ListQuery, today: string) {
     )
     .select("u.id")
     .orderBy(sql.join(RANK_KEYS.map(([, d], i) => sql`${sql.ref(`u.${keyNames[i]}`)} ${dir(d)}`)))
-    .limit(f.size)
-    .offset(f.page * f.size);
+    .limit(v.size)
+    .offset(v.offset);
 }
 
 /**
@@ -327,30 +399,34 @@ function rankedPageIds(db: Db, siteId: string, f: ListQuery, today: string) {
  * count asked on its own.
  */
 export async function listPage(db: Db, siteId: string, f: ListQuery, today: string) {
+  const { shape, values } = registerArgs(siteId, f, today);
+  const { rows } = await db.executeQuery(registerPageStatement.compile(db, shape, values));
+  if (!rows.length) {
+    // Page 0 empty: nothing matches. A page past the end: the count alone.
+    const total = f.page === 0 ? 0 : Number((await countQuery(db, shape, values).executeTakeFirstOrThrow()).n);
+    return { rows: [] as RegisterRow[], total };
+  }
+  return { rows: rows.map(({ total: _, ...r }) => r as RegisterRow), total: Number(rows[0].total) };
+}
+
+/** The page's statement (`listPage`), compiled once per shape (exported for its test). */
+export const registerPageStatement = statementCache((db: Db, s: RegisterShape, v: RegisterValues) => {
   const idsQ =
-    f.sort === "priority"
-      ? rankedPageIds(db, siteId, f, today)
-      : applySort(applyFilters(sortedIdsBase(db, siteId, f), f, today, siteId), f.sort, f.dir)
+    s.sort === "priority"
+      ? rankedPageIds(db, s, v)
+      : applySort(filterBy(sortedIdsBase(db, s, v), s, v), s.sort, s.dir)
           .select("d.id")
-          .limit(f.size)
-          .offset(f.page * f.size);
-  const countQ = countQuery(db, siteId, f, today);
-  const rows = (await registerBase(db, siteId)
+          .limit(v.size)
+          .offset(v.offset);
+  return registerBase(db, v.siteId)
     .innerJoin(
       sql<{ id: string; n: number }>`(SELECT x.id, x.n FROM unnest(ARRAY${idsQ}) WITH ORDINALITY AS x(id, n))`.as("o"),
       (j) => j.onRef("o.id", "=", "d.id"),
     )
     .select(ROW_SELECTION)
-    .select(countQ.as("total"))
-    .orderBy(sql`o.n`)
-    .execute()) as Array<RegisterRow & { total: number }>;
-  if (!rows.length) {
-    // Page 0 empty: nothing matches. A page past the end: the count alone.
-    const total = f.page === 0 ? 0 : Number((await countQ.executeTakeFirstOrThrow()).n);
-    return { rows: [] as RegisterRow[], total };
-  }
-  return { rows: rows.map(({ total: _, ...r }) => r as RegisterRow), total: Number(rows[0].total) };
-}
+    .select(countQuery(db, s, v).as("total"))
+    .orderBy(sql`o.n`) as unknown as Compilable<RegisterRow & { total: number }>;
+});
 
 /** The filtered, sorted register without paging (CSV export runs it through a cursor). */
 export const registerQuery = (db: Db, siteId: string, f: ListQuery, today: string) =>

@@ -1,6 +1,7 @@
 import { sql, type Insertable } from "kysely";
 import type { BoardsTable, FloodEventsTable, SectionsTable } from "../../db/types";
 import type { Db } from "../db";
+import { statementCache } from "../statement-cache";
 
 export const listFloodEvents = (db: Db, siteId: string) =>
   db
@@ -30,7 +31,11 @@ export const insertFloodEvent = (db: Db, v: Insertable<FloodEventsTable>) =>
  * per-board summaries the writes keep current (server/inventory/board-summaries-repository.ts): two rows per
  * board at most, never the site's positions.
  */
-export const listBoards = (db: Db, siteId: string) =>
+export const listBoards = async (db: Db, siteId: string) =>
+  (await db.executeQuery(boardListStatement.compile(db, null, { siteId }))).rows;
+
+/** `listBoards`' statement, compiled once (server/statement-cache.ts): the board list reads it on every request. */
+const boardListStatement = statementCache((db: Db, _shape: null, v: { siteId: string }) =>
   db
     .with("counts", (w) =>
       w
@@ -40,7 +45,7 @@ export const listBoards = (db: Db, siteId: string) =>
           sql<number>`sum(s.n)`.as("n"),
           sql<number>`coalesce(sum(s.n) filter (where s.surveyed), 0)`.as("surveyed"),
         ])
-        .where("s.siteId", "=", siteId)
+        .where("s.siteId", "=", v.siteId)
         .where("s.facet", "=", "positions")
         .groupBy("s.boardId"),
     )
@@ -51,9 +56,9 @@ export const listBoards = (db: Db, siteId: string) =>
       sql<number>`coalesce(counts.n, 0)::int`.as("positionCount"),
       sql<number>`coalesce(counts.surveyed, 0)::int`.as("surveyedCount"),
     ])
-    .where("b.siteId", "=", siteId)
-    .orderBy("b.name")
-    .execute();
+    .where("b.siteId", "=", v.siteId)
+    .orderBy("b.name"),
+);
 
 export const boardByName = (db: Db, siteId: string, name: string) =>
   db
@@ -96,9 +101,13 @@ export const insertSection = (db: Db, v: Insertable<SectionsTable>) =>
 
 export const deleteSection = (db: Db, id: string) => db.deleteFrom("sections").where("id", "=", id).execute();
 
-/** The site's boards, id and name, by name. */
-export const boardNames = (db: Db, siteId: string) =>
-  db.selectFrom("boards").select(["id", "name"]).where("siteId", "=", siteId).orderBy("name").execute();
+/** The site's boards, id and name, by name (the overview reads it on every request: compiled once). */
+export const boardNames = async (db: Db, siteId: string) =>
+  (await db.executeQuery(boardNamesStatement.compile(db, null, { siteId }))).rows;
+
+const boardNamesStatement = statementCache((db: Db, _shape: null, v: { siteId: string }) =>
+  db.selectFrom("boards").select(["id", "name"]).where("siteId", "=", v.siteId).orderBy("name"),
+);
 
 /** A section's id and name (the position panel's heading). */
 export const sectionBrief = (db: Db, sectionId: string) =>
