@@ -5,7 +5,7 @@
  * CPU per request, profiled"). Here a statement is built and compiled once for each *shape* — everything that
  * chooses its SQL text — with a placeholder (`Slot`) standing for each *value*; later calls of the same shape take
  * the SQL as compiled and only put their values in the parameter list. PostgreSQL receives the same text and the
- * same parameters as if the statement had been built anew (checked on every call under tests: `VERIFY`).
+ * same parameters as if the statement had been built anew (checked on every call under tests: `shouldVerify`).
  *
  * The contract of `build(db, shape, values)`: a member of `values` may reach the statement only as a parameter
  * (Kysely's values: `where(col, op, v)`, `sql\`…${v}…\``, `limit(v)`), never choose SQL. Whether a value is absent
@@ -40,8 +40,12 @@ interface Compiled {
   parameters: readonly unknown[];
 }
 
-/** Verify every cached statement against one built anew (tests and development; not in production). */
-const VERIFY = process.env.NODE_ENV === "test" || process.env.NODE_ENV === "development" || !!process.env.VITEST;
+/**
+ * Under tests, every cached statement is checked against one built anew. Read at the first call, not at import:
+ * a script may set NODE_ENV after its imports are evaluated.
+ */
+let verify: boolean | undefined;
+const shouldVerify = () => (verify ??= process.env.NODE_ENV === "test" || !!process.env.VITEST);
 
 /** Shapes kept per database handle; past this the oldest is dropped (a query string can make many shapes). */
 const MAX_SHAPES = 256;
@@ -101,7 +105,7 @@ export function statementCache<S, V extends StatementValues, R>(
         shapes.set(key, c);
       }
       const parameters = fill(c.parameters, values);
-      if (VERIFY) {
+      if (shouldVerify()) {
         const fresh = build(db, shape, values).compile();
         if (fresh.sql !== c.sql || !sameParameters(fresh.parameters, parameters))
           throw new Error(`statementCache: the cached statement differs from one built anew:\n${fresh.sql}\n${c.sql}`);

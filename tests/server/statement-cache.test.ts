@@ -1,4 +1,4 @@
-import { sql } from "kysely";
+import { sql, type SqlBool } from "kysely";
 import { afterAll, describe, expect, it } from "vitest";
 import { createDb } from "../../server/db";
 import { registerArgs, registerPageStatement } from "../../server/defects/list-repository";
@@ -34,7 +34,7 @@ describe("statements compiled once per shape", () => {
     ];
     for (const view of views) {
       // The same shape twice: the second call's values go into the first call's SQL. Under tests every call is also
-      // built anew and compared (statementCache's VERIFY), so a difference throws here.
+      // built anew and compared (statementCache's shouldVerify), so a difference throws here.
       const a = registerArgs(SITE, listQuery.parse(view), "2027-02-01");
       const again = listQuery.parse({ ...view, page: 7, size: 30 });
       const b = registerArgs(OTHER_SITE, again, "2027-03-15");
@@ -61,7 +61,7 @@ describe("statements compiled once per shape", () => {
       d
         .selectFrom("boards")
         .select("id")
-        .where(sql.raw(`name = '${v.name}'`)),
+        .where(sql.raw<SqlBool>(`name = '${v.name}'`)),
     );
     expect(() => raw.compile(db, null, { name: "Main switchboard" })).toThrow(/written into the SQL text/);
   });
