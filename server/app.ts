@@ -74,6 +74,7 @@ const missingJobs = () =>
     enqueue: async () => {
       throw new AppError(503, "no_job_queue", "Background jobs are not running on this server.");
     },
+    reserve: () => null,
   }) as unknown as Jobs;
 
 export function createApp(deps: AppDeps) {

@@ -89,6 +89,81 @@ describe("the job queue (pg-boss)", () => {
     }
   });
 
+  it("reserve: a job just committed runs here at once with what was handed over in memory, once, and is completed", async () => {
+    // A polls every 30 s (only a run in place is quick there); B polls every 0.5 s and races it for each job.
+    const runs: Array<{ who: string; n: number; local: unknown }> = [];
+    const make = (who: string, poll: number) => {
+      const j = createJobs({ db: t.db, work: true, pollingIntervalSeconds: poll });
+      j.define<{ n: number }>("test.in-place", async ({ n }, ctx) => {
+        runs.push({ who, n, local: ctx.local });
+        await new Promise((r) => setTimeout(r, 50));
+      });
+      return j;
+    };
+    const a = make("A", 30);
+    const b = make("B", 0.5);
+    await a.start();
+    await b.start();
+    try {
+      for (let n = 0; n < 6; n++) {
+        let place = a.reserve("test.in-place");
+        for (let i = 0; !place && i < 100; i++) {
+          await new Promise((r) => setTimeout(r, 20));
+          place = a.reserve("test.in-place");
+        }
+        expect(place).not.toBeNull();
+        // One place per queue and process: a second caller is turned away while it is held.
+        expect(a.reserve("test.in-place")).toBeNull();
+        const id = await t.db.transaction().execute((trx) => a.enqueue("test.in-place", { n }, { trx }));
+        place!.run(id!, { bytes: n });
+      }
+      await jobsIdle(t.db);
+      // Each job ran exactly once, wherever it was claimed first; those run here had what was handed over.
+      expect(runs.map((r) => r.n).sort()).toEqual([0, 1, 2, 3, 4, 5]);
+      // (A's own worker, woken after each run here, may also take one first: then nothing was handed over.)
+      expect(runs.filter((r) => r.local !== undefined).length).toBeGreaterThan(0);
+      for (const r of runs) if (r.local !== undefined) expect([r.who, r.local]).toEqual(["A", { bytes: r.n }]);
+      const { rows } = await sql<{ state: string }>`
+        select state from pgboss.job where name = 'test.in-place'`.execute(t.db);
+      expect(rows.map((r) => r.state)).toEqual(Array(6).fill("completed"));
+      // A place released unused is free again; a web-only instance has none.
+      a.reserve("test.in-place")!.release();
+      expect(a.reserve("test.in-place")).not.toBeNull();
+      expect(web.reserve("test.record")).toBeNull();
+    } finally {
+      await a.stop(1000);
+      await b.stop(1000);
+    }
+  });
+
+  it("reserve: a run in place that fails is failed for the queue, which retries it from its payload", async () => {
+    const runs: Array<{ local: unknown }> = [];
+    const j = createJobs({ db: t.db, work: true, pollingIntervalSeconds: 0.5 });
+    j.define<{ n: number }>(
+      "test.in-place-fails",
+      async (_data, ctx) => {
+        runs.push({ local: ctx.local });
+        if (ctx.local) throw new Error("the bytes handed over were no good");
+      },
+      { retryLimit: 1, retryDelay: 1 },
+    );
+    await j.start();
+    try {
+      const place = j.reserve("test.in-place-fails")!;
+      const id = await t.db.transaction().execute((trx) => j.enqueue("test.in-place-fails", { n: 1 }, { trx }));
+      place.run(id!, { bad: true });
+      const until = Date.now() + 15_000;
+      while (runs.length < 2 && Date.now() < until) await new Promise((r) => setTimeout(r, 100));
+      await jobsIdle(t.db);
+      expect(runs).toEqual([{ local: { bad: true } }, { local: undefined }]);
+      const { rows } = await sql<{ state: string; retryCount: number }>`
+        select state, retry_count from pgboss.job where name = 'test.in-place-fails'`.execute(t.db);
+      expect(rows).toEqual([{ state: "completed", retryCount: 1 }]);
+    } finally {
+      await j.stop(1000);
+    }
+  });
+
   it("refuses a job nobody defined", async () => {
     await expect(web.enqueue("test.unknown", {})).rejects.toThrow(/No job named/);
   });
