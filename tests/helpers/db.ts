@@ -1,4 +1,5 @@
 import { randomBytes } from "node:crypto";
+import { sql } from "kysely";
 import { inject } from "vitest";
 import pg from "pg";
 import { createDb, type Db } from "../../server/db";
@@ -33,4 +34,18 @@ export async function createTestDb(): Promise<TestDb> {
       await c.end();
     },
   };
+}
+
+/**
+ * Waits until at least `n` other backends of `db`'s database wait for a lock (a test that crosses two writers
+ * on purpose parks one behind the other before letting go); throws after about ten seconds.
+ */
+export async function untilLockWaiters(db: Db, n: number): Promise<void> {
+  for (let i = 0; i < 500; i++) {
+    const r = await sql<{ n: number }>`select count(*)::int as n from pg_stat_activity
+      where datname = current_database() and wait_event_type = 'Lock' and pid <> pg_backend_pid()`.execute(db);
+    if (r.rows[0].n >= n) return;
+    await new Promise((r) => setTimeout(r, 20));
+  }
+  throw new Error(`never saw ${n} backends waiting for a lock`);
 }

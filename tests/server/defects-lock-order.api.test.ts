@@ -1,6 +1,5 @@
-import { sql } from "kysely";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { createTestDb, type TestDb } from "../helpers/db";
+import { createTestDb, untilLockWaiters, type TestDb } from "../helpers/db";
 import { makeCrew } from "../helpers/fixtures";
 import { moveLineStatus } from "../../server/parts/service";
 import { lockSiteParts } from "../../server/parts/repository";
@@ -98,20 +97,6 @@ async function tallies(boardId: string) {
   return rows.map((r) => `${r.status}/${r.severity}: ${r.n}`);
 }
 
-/** How many other backends of this test's database wait for a lock now. */
-async function waiting() {
-  const r = await sql<{ n: number }>`select count(*)::int as n from pg_stat_activity
-    where datname = current_database() and wait_event_type = 'Lock' and pid <> pg_backend_pid()`.execute(t.db);
-  return r.rows[0].n;
-}
-async function untilWaiting(n: number) {
-  for (let i = 0; i < 500; i++) {
-    if ((await waiting()) >= n) return;
-    await new Promise((r) => setTimeout(r, 20));
-  }
-  throw new Error(`never saw ${n} backends waiting for a lock`);
-}
-
 describe("a defect's edit and a part's fitting on one board take shared locks in one order", () => {
   it("crossing on purpose (the fitting first at the demand lock, the edit behind it): both complete", async () => {
     const { board, fitted, other, line } = await setUp(0);
@@ -130,9 +115,9 @@ describe("a defect's edit and a part's fitting on one board take shared locks in
     });
     await isHeld;
     const fitting = fit(line);
-    await untilWaiting(1);
+    await untilLockWaiters(t.db, 1);
     const edit = editSeverity(other.id);
-    await untilWaiting(2);
+    await untilLockWaiters(t.db, 2);
     release();
     await holder;
     expect(outcome(await Promise.allSettled([fitting, edit]))).toEqual(["ok", "ok"]);

@@ -1,6 +1,5 @@
-import { sql } from "kysely";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { createTestDb, type TestDb } from "../helpers/db";
+import { createTestDb, untilLockWaiters, type TestDb } from "../helpers/db";
 import { makeCrew } from "../helpers/fixtures";
 import { decideDisposition } from "../../server/inventory/survey-service";
 import { moveLineStatus } from "../../server/parts/service";
@@ -21,20 +20,6 @@ beforeAll(async () => {
 afterAll(async () => {
   await t.drop();
 });
-
-/** How many other backends of this test's database wait for a lock now. */
-async function waiting() {
-  const r = await sql<{ n: number }>`select count(*)::int as n from pg_stat_activity
-    where datname = current_database() and wait_event_type = 'Lock' and pid <> pg_backend_pid()`.execute(t.db);
-  return r.rows[0].n;
-}
-async function untilWaiting(n: number) {
-  for (let i = 0; i < 500; i++) {
-    if ((await waiting()) >= n) return;
-    await new Promise((r) => setTimeout(r, 20));
-  }
-  throw new Error(`never saw ${n} backends waiting for a lock`);
-}
 
 describe("the wanted list's writers take shared rows in one order", () => {
   it("a disposition change and the 'received' of the same component's line, crossing: both complete", async () => {
@@ -88,7 +73,7 @@ describe("the wanted list's writers take shared rows in one order", () => {
       reason: "Test: the curator's call",
       version: component.version,
     });
-    await untilWaiting(1);
+    await untilLockWaiters(t.db, 1);
     const receive = moveLineStatus(
       t.db,
       fx.siteId,
@@ -96,7 +81,7 @@ describe("the wanted list's writers take shared rows in one order", () => {
       { to: "received", version: acquired.line.version, note: "" },
       scrounger,
     );
-    await untilWaiting(2);
+    await untilLockWaiters(t.db, 2);
     release();
     await holder;
     const results = await Promise.allSettled([decide, receive]);
