@@ -32,7 +32,7 @@ export const overdueCron = (env = process.env) => env.RTS_OVERDUE_CRON ?? "*/5 *
 
 export function defineAppJobs(jobs: Jobs, deps: JobDeps, env = process.env) {
   defineMailJobs(jobs, deps);
-  definePhotoJobs(jobs, deps);
+  definePhotoJobs(jobs, deps, undefined, env);
   definePreparedFileJobs(jobs, deps, env);
   jobs.define(
     WEEKLY_SUMMARY_JOB,

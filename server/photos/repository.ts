@@ -230,6 +230,30 @@ export const expiredDeleted = (db: Db, before: Date) =>
 
 export const deletePhotoRow = (db: Db, photoId: string) => db.deleteFrom("photos").where("id", "=", photoId).execute();
 
+/** Photos still processing that were uploaded before `before`, oldest first (the stranded-rendition sweep's candidates). */
+export const processingSince = (db: Db, before: Date, limit: number) =>
+  db
+    .selectFrom("photos")
+    .select(["id"])
+    .where("renditionState", "=", "processing")
+    .where("createdAt", "<", before)
+    .orderBy("createdAt")
+    .limit(limit)
+    .execute();
+
+/** Marks a photo failed only while it still says processing; rows changed (0 when its job finished meanwhile). */
+export const failProcessing = async (db: Db, id: string, error: string) =>
+  Number(
+    (
+      await db
+        .updateTable("photos")
+        .set({ renditionState: "failed", renditionError: error })
+        .where("id", "=", id)
+        .where("renditionState", "=", "processing")
+        .executeTakeFirst()
+    ).numUpdatedRows,
+  );
+
 /** Written by the rendition job only. */
 export const setRenditionState = (db: Db, id: string, state: RenditionState, error: string | null) =>
   db.updateTable("photos").set({ renditionState: state, renditionError: error }).where("id", "=", id).execute();

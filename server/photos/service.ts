@@ -196,11 +196,14 @@ export interface RenditionJob {
  * retried, and marked failed with its reason after the last attempt.
  * Nothing waits that need not: the original is read while the row is looked up (the job names
  * its key), and the display copy is stored while the thumbnail is encoded.
+ * Also the sweep "photo.stranded-sweep" (`failStranded`, PHOTO_STRANDED_CRON): a photo whose job's last
+ * attempt died with its worker is marked failed instead of processing for ever.
  */
 export function definePhotoJobs(
   jobs: Jobs,
   deps: { db: Db; photoStorage: PhotoStorage },
   onRendered?: (seconds: number) => void,
+  env = process.env,
 ) {
   jobs.define<RenditionJob>(
     RENDITION_JOB,
@@ -262,6 +265,49 @@ export function definePhotoJobs(
     },
     { retryLimit: 3, retryDelay: 5, retryBackoff: true, expireInSeconds: 300 },
   );
+  jobs.define(
+    STRANDED_SWEEP_JOB,
+    async (_data, ctx) => {
+      const r = await failStranded({ db: deps.db, jobs });
+      if (r.failed) ctx.log.warn(r, "photos whose rendition job was gone marked failed");
+    },
+    { retryLimit: 1, retryDelay: 60 },
+  );
+  const cron = strandedCron(env);
+  if (cron === "off") jobs.never(STRANDED_SWEEP_JOB);
+  else jobs.every(STRANDED_SWEEP_JOB, cron, {}, "UTC");
+}
+
+export const STRANDED_SWEEP_JOB = "photo.stranded-sweep";
+/** Every five minutes by default; PHOTO_STRANDED_CRON=off switches the sweep off. */
+export const strandedCron = (env = process.env) => env.PHOTO_STRANDED_CRON ?? "*/5 * * * *";
+
+/** A photo is left processing this long after its upload before its rendition job is looked for. */
+const STRANDED_GRACE_MS = 5 * 60_000;
+
+/** What a photo failed by the sweep says under "Not processed" (the photographer uploads it again). */
+export const STRANDED_REASON = "its processing was cut off (the server stopped); try uploading it again.";
+
+/**
+ * Photos still "processing" whose rendition job is no longer waiting, retrying or running: the worker
+ * of the last attempt died and the queue failed that attempt by expiry (or the job was cancelled or
+ * is gone), so no handler wrote "failed" and the photo would say "Processing…" for ever. They are
+ * marked failed here with a reason, as prepared files are (`failOrphaned`), through the same
+ * `jobs.liveFor`. A photo whose job is queued, active or set to retry is never touched, nor one
+ * younger than the grace; the update holds only while the row still says processing.
+ */
+export async function failStranded(deps: { db: Db; jobs: Pick<Jobs, "liveFor"> }, now = new Date()) {
+  const waiting = await repo.processingSince(deps.db, new Date(now.getTime() - STRANDED_GRACE_MS), 500);
+  if (!waiting.length) return { failed: 0 };
+  const live = await deps.jobs.liveFor(
+    RENDITION_JOB,
+    "photoId",
+    waiting.map((p) => p.id),
+  );
+  let failed = 0;
+  for (const p of waiting.filter((w) => !live.has(w.id)))
+    failed += await repo.failProcessing(deps.db, p.id, STRANDED_REASON);
+  return { failed };
 }
 
 /** File names are shown, never used as paths; keep them printable and short. */

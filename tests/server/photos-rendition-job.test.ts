@@ -54,6 +54,8 @@ const jobs = {
   },
   enqueue: async (_name: string, data: RenditionJob) => (queued.push(data), "job"),
   wake: () => {},
+  every: () => {},
+  never: () => {},
   reserve: () => inPlace,
 } as unknown as Jobs;
 /** What `jobs.reserve` gives the upload (null: no free place, the job waits for a worker). */
