@@ -1,6 +1,5 @@
 import { PersistQueryClientProvider } from "@tanstack/react-query-persist-client";
 import { useEffect, type ReactNode } from "react";
-import { afterSync } from "../features/inventory/query-cache";
 import { onSynced } from "../lib/outbox";
 import { MAX_AGE_MS, persister, shouldKeepQuery } from "./persist";
 import { queryClient } from "./query-client";
@@ -9,7 +8,12 @@ export function AppProvider({ children }: { children: ReactNode }) {
   // What the outbox sent changes boards, positions and readings: refetch what is on screen (an inspection or a
   // custody move: just its board's page, src/features/inventory/query-cache.ts).
   useEffect(() => {
-    const stop = onSynced((items) => void afterSync(queryClient, items));
+    // Imported when a sync ends, not with the entry: the module brings the inventory's zod schemas (~29 KiB gzip),
+    // which would otherwise sit in the initial bundle of every page.
+    const stop = onSynced(
+      (items) =>
+        void import("../features/inventory/query-cache").then(({ afterSync }) => afterSync(queryClient, items)),
+    );
     return () => void stop();
   }, []);
   return (
