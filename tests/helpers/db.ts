@@ -49,3 +49,31 @@ export async function untilLockWaiters(db: Db, n: number): Promise<void> {
   }
   throw new Error(`never saw ${n} backends waiting for a lock`);
 }
+
+/**
+ * Opens a transaction on `db`, takes what `take` locks in it and keeps it open until `release()` is called (a test
+ * that crosses two writers on purpose parks them behind a third holder). Resolves once the locks are held;
+ * `release()` lets go and waits for the holder's commit.
+ */
+export async function holdInTransaction(
+  db: Db,
+  take: (trx: Db) => Promise<unknown>,
+): Promise<{ release(): Promise<void> }> {
+  let letGo!: () => void;
+  const released = new Promise<void>((r) => (letGo = r));
+  let held!: () => void;
+  const isHeld = new Promise<void>((r) => (held = r));
+  const holder = db.transaction().execute(async (trx) => {
+    await take(trx);
+    held();
+    await released;
+  });
+  // A failure to take the locks ends the holder before `held()`: surface it instead of waiting for ever.
+  await Promise.race([isHeld, holder]);
+  return {
+    async release() {
+      letGo();
+      await holder;
+    },
+  };
+}

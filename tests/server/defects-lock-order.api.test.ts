@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { createTestDb, untilLockWaiters, type TestDb } from "../helpers/db";
+import { createTestDb, holdInTransaction, untilLockWaiters, type TestDb } from "../helpers/db";
 import { makeCrew } from "../helpers/fixtures";
 import { moveLineStatus } from "../../server/parts/service";
 import { lockSiteParts } from "../../server/parts/repository";
@@ -104,22 +104,12 @@ describe("a defect's edit and a part's fitting on one board take shared locks in
     // then the edit starts and stops there too. The holder lets go: the fitting (first in the queue) goes
     // on to move its defect out of "under repair / impaired". Before the fix the edit had already written
     // its defect and held that tally row while it waited.
-    let release!: () => void;
-    const released = new Promise<void>((r) => (release = r));
-    let held!: () => void;
-    const isHeld = new Promise<void>((r) => (held = r));
-    const holder = t.db.transaction().execute(async (trx) => {
-      await lockSiteParts(trx, fx.siteId);
-      held();
-      await released;
-    });
-    await isHeld;
+    const holder = await holdInTransaction(t.db, (trx) => lockSiteParts(trx, fx.siteId));
     const fitting = fit(line);
     await untilLockWaiters(t.db, 1);
     const edit = editSeverity(other.id);
     await untilLockWaiters(t.db, 2);
-    release();
-    await holder;
+    await holder.release();
     expect(outcome(await Promise.allSettled([fitting, edit]))).toEqual(["ok", "ok"]);
     const rows = await t.db
       .selectFrom("defects")

@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { createTestDb, untilLockWaiters, type TestDb } from "../helpers/db";
+import { createTestDb, holdInTransaction, untilLockWaiters, type TestDb } from "../helpers/db";
 import { makeCrew } from "../helpers/fixtures";
 import { decideDisposition } from "../../server/inventory/survey-service";
 import { moveLineStatus } from "../../server/parts/service";
@@ -58,16 +58,7 @@ describe("the wanted list's writers take shared rows in one order", () => {
     // component; the receipt then starts, and the holder lets go. Before the writers shared one order the
     // receipt took the line and the budget lock, then waited for the component, while the disposition
     // change went on to wait for the budget lock: PostgreSQL's "deadlock detected".
-    let release!: () => void;
-    const released = new Promise<void>((r) => (release = r));
-    let held!: () => void;
-    const isHeld = new Promise<void>((r) => (held = r));
-    const holder = t.db.transaction().execute(async (trx) => {
-      await lockSiteParts(trx, fx.siteId);
-      held();
-      await released;
-    });
-    await isHeld;
+    const holder = await holdInTransaction(t.db, (trx) => lockSiteParts(trx, fx.siteId));
     const decide = decideDisposition(t.db, fx.siteId, comp.componentId, fx.crew.curator.id, {
       disposition: "clean",
       reason: "Test: the curator's call",
@@ -82,8 +73,7 @@ describe("the wanted list's writers take shared rows in one order", () => {
       scrounger,
     );
     await untilLockWaiters(t.db, 2);
-    release();
-    await holder;
+    await holder.release();
     const results = await Promise.allSettled([decide, receive]);
     expect(results.map((r) => (r.status === "rejected" ? String(r.reason) : "ok"))).toEqual(["ok", "ok"]);
 
