@@ -164,3 +164,39 @@ test("a volunteer prints thermal labels for one section and gets a PDF", async (
   await expect(labels.getByRole("link", { name: "Save the PDF" })).toBeVisible({ timeout: 30_000 });
   await expectNoSeriousA11yViolations(page, "reports page with labels");
 });
+
+test("a curator tags a board's untagged positions while printing their labels, and the form counts them at once", async ({
+  page,
+}) => {
+  test.setTimeout(120_000);
+  await signIn(page, "curator");
+  const siteId = page.url().split("/sites/")[1].split("/")[0];
+  // A board of its own (other tests share the demo site): three fuses, none tagged yet.
+  const name = `Label board ${Date.now().toString(36)}`;
+  const csv = ["board,designation,kind,grid_row,grid_col", ...[1, 2, 3].map((c) => `${name},LB-${c},fuse,1,${c}`)];
+  const made = await page.request.post(`/api/sites/${siteId}/inventory/import?mode=commit`, {
+    headers: { "content-type": "text/csv", origin: new URL(page.url()).origin },
+    data: csv.join("\r\n") + "\r\n",
+  });
+  expect(made.status(), await made.text()).toBe(201);
+  await openReports(page);
+  const labels = page.getByRole("form", { name: "Tag labels" });
+  const board = labels.getByLabel("Board", { exact: true });
+  await board.selectOption((await board.locator("option", { hasText: name }).getAttribute("value"))!);
+  const which = labels.getByLabel("Print labels for");
+  await expect(which.locator("option", { hasText: "tag them now (3)" })).toHaveCount(1);
+  await which.selectOption("untagged");
+  await labels.getByLabel("Label stock").selectOption("thermal-50x25");
+  // The board (its tiles' tags) is read again after the tags are given; nothing of another board is.
+  const reads: string[] = [];
+  page.on("request", (r) => {
+    if (r.method() === "GET" && /\/api\/sites\/[^/]+\/boards\/[^/?]+/.test(r.url())) reads.push(r.url());
+  });
+  await labels.getByRole("button", { name: /Make \d+ labels?/ }).click();
+  await expect(labels.getByRole("link", { name: "Save the PDF" })).toBeVisible({ timeout: 30_000 });
+  await expect(which.locator("option", { hasText: "Every tagged position of the board (3)" })).toHaveCount(1);
+  await expect(which.locator("option", { hasText: "tag them now (0)" })).toHaveCount(1);
+  const boardId = await board.inputValue();
+  expect(reads.length).toBeGreaterThan(0);
+  expect(reads.every((u) => u.includes(`/boards/${boardId}`))).toBe(true);
+});

@@ -54,7 +54,7 @@ import {
   type PatchSectionBody,
 } from "../../schemas/inventory";
 
-export { inventoryKeys } from "./query-cache";
+export { applyInventoryChange, inventoryKeys } from "./query-cache";
 
 const base = (siteId: string) => `/api/sites/${siteId}`;
 

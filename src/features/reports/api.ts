@@ -1,4 +1,4 @@
-import { useMutation, useQuery } from "@tanstack/react-query";
+import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { z } from "zod";
 import { api, ApiError, qs } from "../../lib/api-client";
 import { tagLookupResponse, type SurveyReportQuery } from "../../schemas/reports";
@@ -87,11 +87,15 @@ const assignResponse = z.object({
   withoutComponent: z.array(z.string()),
 });
 
-export const useAssignTags = (siteId: string) =>
-  useMutation({
+export const useAssignTags = (siteId: string) => {
+  const qc = useQueryClient();
+  return useMutation({
     mutationFn: (positionIds: string[]) =>
       api.send("POST", `/api/sites/${siteId}/tags/assign`, { positionIds }, assignResponse),
+    // A tag looked up before it was given ("no such tag") is answered again.
+    onSuccess: () => qc.invalidateQueries({ queryKey: ["tags"] }),
   });
+};
 
 export const useTagLookup = (tag: string) =>
   useQuery({

@@ -2,7 +2,7 @@ import { useQueryClient } from "@tanstack/react-query";
 import { useState } from "react";
 import { SafetyNotice } from "../../../components/safety-notice";
 import { EmptyState, ErrorPanel, Loading, serverRefused } from "../../../components/status";
-import { inventoryKeys, useBoard, useBoards } from "../../../features/inventory/api";
+import { applyInventoryChange, useBoard, useBoards } from "../../../features/inventory/api";
 import { LabelsForm } from "../../../features/reports/components/labels-form";
 import { ReportForm } from "../../../features/reports/components/report-form";
 import { can } from "../../../domain/permissions";
@@ -69,7 +69,10 @@ export default function ReportsPage() {
                   hasComponent: !!p.component,
                 }))}
                 canAssign={can(role, "tags.assign")}
-                onTagsAssigned={() => void qc.invalidateQueries({ queryKey: inventoryKeys.all(site.id) })}
+                // New tags show on this board's tiles and position details only: read that board again, not the site.
+                onTagsAssigned={(assignedOn) =>
+                  void applyInventoryChange(qc, site.id, { kind: "board", boardId: assignedOn })
+                }
               />
             </section>
           )}

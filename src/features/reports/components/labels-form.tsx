@@ -25,7 +25,8 @@ interface Props {
   sections: Array<{ id: string; name: string }>;
   positions: LabelPosition[];
   canAssign: boolean;
-  onTagsAssigned: () => void;
+  /** After tags were given to positions of `boardId`. */
+  onTagsAssigned: (boardId: string) => void;
 }
 
 type Which = "board" | "section" | "untagged" | "one";
@@ -124,7 +125,7 @@ export function LabelsForm({
     try {
       if (which === "untagged") {
         const r = await assign.mutateAsync(query.positionIds ?? []);
-        onTagsAssigned();
+        onTagsAssigned(boardId);
         query = { ...query, positionIds: r.assigned.map((a) => a.positionId) };
         if (!r.assigned.length) throw new Error("Every chosen position is already tagged.");
       }
