@@ -1,6 +1,7 @@
 import { PersistQueryClientProvider } from "@tanstack/react-query-persist-client";
 import { useEffect, type ReactNode } from "react";
 import { onSynced } from "../lib/outbox";
+import { onPhotosFiled } from "../lib/photos-filed";
 import { MAX_AGE_MS, persister, shouldKeepQuery } from "./persist";
 import { queryClient } from "./query-client";
 
@@ -14,7 +15,16 @@ export function AppProvider({ children }: { children: ReactNode }) {
       (items) =>
         void import("../features/inventory/query-cache").then(({ afterSync }) => afterSync(queryClient, items)),
     );
-    return () => void stop();
+    // A photo filed, moved or deleted: its positions' tiles and details (src/lib/photos-filed.ts), loaded the same way.
+    const stopPhotos = onPhotosFiled(({ siteId, positions }) =>
+      import("../features/inventory/query-cache").then(({ afterPhotosFiled }) =>
+        afterPhotosFiled(queryClient, siteId, positions),
+      ),
+    );
+    return () => {
+      void stop();
+      stopPhotos();
+    };
   }, []);
   return (
     <PersistQueryClientProvider

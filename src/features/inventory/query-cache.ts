@@ -9,6 +9,9 @@
  *   position's detail, the component's custody options and look-ups are marked stale. Other boards are untouched.
  * - a board's shape (the board, its sections, its positions: created, generated, reordered, edited, deleted): that
  *   board's pages and thumbnail, the overview and board list, position details and look-ups.
+ * - a position's photos (a photo filed at it, moved off it or deleted): the tile's photo count and the position's
+ *   history. The board page holding the tile is read again on its own, the position's detail marked stale; nothing
+ *   else (the overview, the board list, thumbnails and look-ups count no photos).
  * - the site (a flood event moves every board's water line; a CSV import can touch any board): all of it, as before.
  *
  * Re-reading one page keeps the board whole only while the page still ends where it did: if someone else's write
@@ -61,6 +64,7 @@ export type InventoryChange =
   | { kind: "nothing" }
   | { kind: "component"; componentId: string; positionId?: string | null }
   | { kind: "board"; boardId: string }
+  | { kind: "positions"; positionIds: readonly string[] }
   | { kind: "boards" }
   | { kind: "site" };
 
@@ -86,6 +90,21 @@ export async function applyInventoryChange(qc: QueryClient, siteId: string, chan
         stale(k.allCustodyOptions(siteId)),
       ]);
       return;
+    case "positions": {
+      // One refresh per page; pages of one board one after another (a refresh checks the board did not move meanwhile).
+      const byBoard = new Map<string, Set<number>>();
+      for (const positionId of new Set(change.positionIds)) {
+        const found = findTile(qc, siteId, { componentId: "", positionId });
+        if (found) byBoard.set(found.boardId, (byBoard.get(found.boardId) ?? new Set()).add(found.page));
+      }
+      await Promise.all([
+        ...[...byBoard].map(async ([boardId, pages]) => {
+          for (const page of pages) await refreshBoardPage(qc, siteId, boardId, page);
+        }),
+        ...[...new Set(change.positionIds)].map((id) => stale(k.position(siteId, id))),
+      ]);
+      return;
+    }
     case "component": {
       const found = findTile(qc, siteId, change);
       const positionId = change.positionId ?? found?.positionId;
@@ -106,6 +125,20 @@ export async function applyInventoryChange(qc: QueryClient, siteId: string, chan
       return;
     }
   }
+}
+
+/**
+ * After a photo write (`photosFiled`, src/lib/photos-filed.ts): the positions it touched are read again
+ * (`positions`); one not known reads the site's whole inventory; a photo of the board itself or unfiled, nothing.
+ */
+export async function afterPhotosFiled(
+  qc: QueryClient,
+  siteId: string,
+  positions: ReadonlyArray<string | null | undefined>,
+) {
+  if (positions.some((p) => p === undefined)) return applyInventoryChange(qc, siteId, { kind: "site" });
+  const positionIds = positions.filter((p): p is string => typeof p === "string");
+  if (positionIds.length) await applyInventoryChange(qc, siteId, { kind: "positions", positionIds });
 }
 
 const isBoardKey = (key: QueryKey, siteId: string) =>

@@ -1,6 +1,7 @@
-import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
+import { queryOptions, useMutation, useQuery, useQueryClient, type QueryClient } from "@tanstack/react-query";
 import { z } from "zod";
 import { api, qs } from "../../lib/api-client";
+import { photosFiled } from "../../lib/photos-filed";
 import {
   photoSchema,
   photoSettingsSchema,
@@ -80,42 +81,79 @@ export const useShootList = (siteId: string, boardId: string | undefined) =>
     enabled: !!boardId,
   });
 
-function useInvalidate(siteId: string) {
-  const qc = useQueryClient();
-  // Board tiles count photos too (their photoCount comes from the inventory's queries).
-  return () =>
-    Promise.all([
-      qc.invalidateQueries({ queryKey: photoKeys.all(siteId) }),
-      qc.invalidateQueries({ queryKey: ["inventory"] }),
-    ]);
+/** Where a photo was filed, from the photo lists this client has read (null when none of them holds it). */
+export function cachedPositionOf(qc: QueryClient, siteId: string, photoId: string): string | null | undefined {
+  for (const [key, data] of qc.getQueriesData<Photo[]>({ queryKey: photoKeys.all(siteId) })) {
+    if (key[2] !== "list" || !Array.isArray(data)) continue;
+    const found = data.find((p) => p.id === photoId);
+    if (found) return found.positionId;
+  }
+  return undefined;
+}
+
+/**
+ * What a photo write makes the client read again: the site's photo queries (also after a refused write, which
+ * changed nothing else), and whatever other features show of the positions the photos were filed at before and
+ * after the write, announced through `photosFiled` (the app joins it to the inventory: the tiles' photo counts and
+ * the positions' details, one board page each; never the overview, board list or another site). Before, every
+ * photo write invalidated every inventory query of every site.
+ */
+export async function afterPhotoWrite(
+  qc: QueryClient,
+  siteId: string,
+  positions: ReadonlyArray<string | null | undefined>,
+) {
+  await Promise.all([
+    qc.invalidateQueries({ queryKey: photoKeys.all(siteId) }),
+    positions.length ? photosFiled({ siteId, positions }) : undefined,
+  ]);
 }
 
 export function usePhotoMutations(siteId: string) {
-  const invalidate = useInvalidate(siteId);
+  const qc = useQueryClient();
+  /** After uploads (or anything else that filed these photos): their positions' tiles and details, the photo lists. */
+  const invalidate = (photos: ReadonlyArray<Pick<Photo, "positionId">> = []) =>
+    afterPhotoWrite(
+      qc,
+      siteId,
+      photos.map((p) => p.positionId),
+    );
+  /** Where each photo was before the write, read before it is sent (the lists are read again after it). */
+  const before = (ids: string[]) => ids.map((id) => cachedPositionOf(qc, siteId, id));
   return {
     patch: useMutation({
       mutationFn: ({ id, ...body }: PhotoPatch & { id: string }) =>
         api
           .send("PATCH", `/api/sites/${siteId}/photos/${id}`, body, z.object({ photo: photoSchema }))
           .then((d) => d.photo),
-      onSettled: invalidate,
+      onMutate: ({ id }) => ({ was: before([id]) }),
+      onSettled: (photo, error, _v, ctx) =>
+        afterPhotoWrite(qc, siteId, error || !photo ? [] : [...(ctx?.was ?? [undefined]), photo.positionId]),
     }),
     assign: useMutation({
       mutationFn: (body: BulkAssign) =>
         api.send("POST", `/api/sites/${siteId}/photos/assign`, body, listResponse).then((d) => d.photos),
-      onSettled: invalidate,
+      onMutate: (body) => ({ was: before(body.items.map((i) => i.photoId)) }),
+      onSettled: (_photos, error, body, ctx) =>
+        afterPhotoWrite(
+          qc,
+          siteId,
+          error ? [] : [...(ctx?.was ?? [undefined]), ...body.items.map((i) => i.positionId)],
+        ),
     }),
     remove: useMutation({
       mutationFn: (id: string) =>
         api.send("DELETE", `/api/sites/${siteId}/photos/${id}`, undefined, z.object({ ok: z.boolean() })),
-      onSettled: invalidate,
+      onMutate: (id) => ({ was: before([id]) }),
+      onSettled: (_r, error, _id, ctx) => afterPhotoWrite(qc, siteId, error ? [] : (ctx?.was ?? [undefined])),
     }),
     saveSettings: useMutation({
       mutationFn: (body: { requiredKinds: PhotoKind[]; version: number }) =>
         api
           .send("PUT", `/api/sites/${siteId}/photo-settings`, body, z.object({ settings: photoSettingsSchema }))
           .then((d) => d.settings),
-      onSettled: invalidate,
+      // The required shots show on the shoot list only.
+      onSettled: () => afterPhotoWrite(qc, siteId, []),
     }),
     invalidate,
   };

@@ -42,7 +42,7 @@ export default function PhotoDesk() {
         </p>
       </div>
       {(targets.isLoadingError || serverRefused(targets.error)) && <ErrorPanel error={targets.error} />}
-      <UploadPanel siteId={siteId} targets={targets.data ?? []} onUploaded={() => void invalidate()} />
+      <UploadPanel siteId={siteId} targets={targets.data ?? []} onUploaded={(p) => void invalidate([p])} />
       {unassigned.isPending || targets.isPending ? (
         <Loading what="Finding unfiled photos" />
       ) : unassigned.isLoadingError || serverRefused(unassigned.error) ? (

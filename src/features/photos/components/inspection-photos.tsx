@@ -37,8 +37,8 @@ export function InspectionPhotos({
   const [kind, setKind] = useState<PhotoKind>(defaultKind);
   const photos = usePhotos(siteId, { inspectionId, custodyMoveId, defectId });
   const { invalidate } = usePhotoMutations(siteId);
-  const queue = useUploadQueue(siteId, () => {
-    void invalidate();
+  const queue = useUploadQueue(siteId, (p) => {
+    void invalidate([p]);
     onUploaded?.();
   });
   const [open, setOpen] = useState<number | null>(null);
