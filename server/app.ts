@@ -74,7 +74,6 @@ const missingJobs = () =>
     enqueue: async () => {
       throw new AppError(503, "no_job_queue", "Background jobs are not running on this server.");
     },
-    reserve: () => null,
   }) as unknown as Jobs;
 
 export function createApp(deps: AppDeps) {

@@ -8,8 +8,8 @@
  *   each is timed from the request until its rendition job has finished (its renditions stored and
  *   the photo marked ready): the end is the queue's own `completed_on`, so the bench's polls (every
  *   100 ms) add nothing to the figure. It covers the HTTP upload streamed to disk, the type and EXIF checks, the original put in
- *   the photo store, the row, the audit entry, the queued job, the decode (in place from the upload's
- *   bytes when the instance has a free rendition slot, else by its worker), both renditions and their writes.
+ *   the photo store, the row, the audit entry, the queued job, its worker's read of the original and the
+ *   decode, both renditions and their writes, the photo marked ready and the job completed.
  * - Bare: read the same file from disk and make the same renditions with sharp alone (display:
  *   rotate, fit inside 1600 px, JPEG quality 82; thumbnail from the display copy: 320 px,
  *   quality 82, mozjpeg), in the bench's own process with sharp's defaults, as the server has them.
@@ -368,7 +368,7 @@ export async function benchIngest() {
       wall.push(
         [`${side.label}: upload → renditions ready`, spread(f.total, 2), perPhoto(f.total)],
         ["  of which the upload request (to its 201)", spread(f.request, 2), perPhoto(f.request)],
-        ["  of which until its job was claimed (in place or by a worker)", spread(f.wait, 2), perPhoto(f.wait)],
+        ["  of which until its job was claimed by a worker", spread(f.wait, 2), perPhoto(f.wait)],
         ["  of which the rendition job", spread(f.job, 2), perPhoto(f.job)],
         ["  ratio to bare sharp (within each run)", spread(f.ratio, 2), ""],
         ["  ratio to bare sharp with its two files written", spread(f.ratioWritten, 2), ""],

@@ -25,11 +25,6 @@ export interface JobContext {
   /** True when a failure now will not be retried. */
   lastAttempt: boolean;
   log: Logger;
-  /**
-   * What the process that queued the job handed over in memory when it runs the job in place
-   * (`Jobs.reserve`); undefined when a worker fetched the job from the queue.
-   */
-  local?: unknown;
 }
 export type JobHandler<T> = (data: T, ctx: JobContext) => Promise<unknown>;
 
@@ -52,16 +47,6 @@ export interface JobOptions {
   leaseSeconds?: number;
   /** Jobs fetched at once by one worker of this process; they run one after another. */
   batchSize?: number;
-}
-
-/**
- * A place held to run one job of a queue in this process right away (`Jobs.reserve`): `run` it
- * with the id of the job just committed, or `release` it if there is none. Either, once.
- */
-export interface InPlace {
-  /** Claims the queued job (only if no worker has it yet) and runs its handler here, in the background. */
-  run(jobId: string, local?: unknown): void;
-  release(): void;
 }
 
 export interface EnqueueOptions {
@@ -117,10 +102,6 @@ export class Jobs {
   private failures = 0;
   /** pg-boss worker ids of this process, per queue (for `wake`). */
   private workerIds = new Map<string, string>();
-  /** Jobs of each queue running (or held to run, `reserve`) in this process now. */
-  private busy = new Map<string, number>();
-  /** Jobs running in place (`reserve`), for `stop` to wait for. */
-  private inPlace = new Set<Promise<void>>();
   readonly log: Logger;
   /** Hooks for metrics: called after each job with its outcome and duration. */
   onJobEnd?: (name: string, ok: boolean, seconds: number) => void;
@@ -179,11 +160,9 @@ export class Jobs {
           name,
           { includeMetadata: true, batchSize: def.options.batchSize ?? 1 },
           async (jobs) => {
-            this.busy.set(name, (this.busy.get(name) ?? 0) + 1);
             try {
               await this.run(name, def, jobs);
             } finally {
-              this.busy.set(name, (this.busy.get(name) ?? 1) - 1);
               // A worker that found work asks again at once instead of sleeping out its polling
               // interval: a queue of twenty photos drains back to back, not one per poll.
               this.wake(name);
@@ -201,13 +180,8 @@ export class Jobs {
     this.log.info({ queues: [...this.defs.keys()], worker: this.config.work }, "job queue started");
   }
 
-  private async run(
-    name: string,
-    def: Definition,
-    // The payload type is the handler's (Definition): unknown here.
-    batch: Array<Pick<PgBoss.JobWithMetadata<unknown>, "id" | "data" | "retryCount" | "retryLimit">>,
-    local?: unknown,
-  ) {
+  // eslint-disable-next-line @typescript-eslint/no-explicit-any -- the payload type is the handler's (Definition)
+  private async run(name: string, def: Definition, batch: PgBoss.JobWithMetadata<any>[]) {
     // pg-boss completes or fails the whole batch; batches are 1 unless a job asks for more.
     for (const job of batch) {
       const ctx: JobContext = {
@@ -217,12 +191,9 @@ export class Jobs {
         retryLimit: job.retryLimit,
         lastAttempt: job.retryCount >= job.retryLimit,
         log: this.log.child({ job: name, jobId: job.id, attempt: job.retryCount + 1 }),
-        local,
       };
       const t0 = performance.now();
-      const lease = def.options.leaseSeconds
-        ? await this.holdLease(name, job, def.options.leaseSeconds, ctx.log)
-        : null;
+      const lease = def.options.leaseSeconds ? await this.holdLease(job, def.options.leaseSeconds, ctx.log) : null;
       try {
         await def.handler(job.data, ctx);
         this.onJobEnd?.(name, true, (performance.now() - t0) / 1000);
@@ -244,13 +215,13 @@ export class Jobs {
    * attempt only (`retry_count`, state active): once the job has been failed and fetched again
    * elsewhere, a late renewal from here changes nothing.
    */
-  private async holdLease(name: string, job: { id: string; retryCount: number }, seconds: number, log: Logger) {
+  private async holdLease(job: PgBoss.JobWithMetadata<unknown>, seconds: number, log: Logger) {
     const db = executor(this.config.db);
     const renew = () =>
       db.executeSql(
         `update pgboss.job set started_on = now() + make_interval(secs => $3) - expire_in
          where name = $1 and id = $2 and state = 'active' and retry_count = $4`,
-        [name, job.id, seconds, job.retryCount],
+        [job.name, job.id, seconds, job.retryCount],
       );
     await renew().catch((e) => log.warn({ err: e }, "job lease not renewed"));
     const timer = setInterval(
@@ -283,71 +254,6 @@ export class Jobs {
   wake(name: string) {
     const id = this.workerIds.get(name);
     if (id && !this.stopping) this.boss.notifyWorker(id);
-  }
-
-  /**
-   * A place to run one job of `name` in this process now, for a caller about to queue it that holds
-   * what the job needs in memory: after its transaction commits it calls `run(jobId, local)`; the
-   * job is claimed as a worker's fetch would claim it (state active, only if still waiting), so no
-   * worker anywhere runs it too, and it is completed or failed (and retried by the queue) as any job.
-   * If this process dies meanwhile, the claimed job expires and a worker retries it: the queued job
-   * stays the durable record. Null when this process runs no worker, is stopping, or already runs a
-   * job of that queue (the caller then leaves the job to the queue and `wake`s the worker).
-   */
-  reserve(name: string): InPlace | null {
-    const def = this.defs.get(name);
-    if (!def || !this.config.work || !this.started || this.stopping || (this.busy.get(name) ?? 0) > 0) return null;
-    this.busy.set(name, (this.busy.get(name) ?? 0) + 1);
-    let held = true;
-    const free = () => {
-      if (!held) return;
-      held = false;
-      this.busy.set(name, (this.busy.get(name) ?? 1) - 1);
-    };
-    return {
-      release: free,
-      run: (jobId, local) => {
-        if (!held) throw new Error(`the place for "${name}" was already used`);
-        const running = this.runInPlace(name, def, jobId, local).finally(() => {
-          free();
-          this.inPlace.delete(running);
-          // Anything queued meanwhile (while this place was busy) is the worker's now.
-          this.wake(name);
-        });
-        this.inPlace.add(running);
-      },
-    };
-  }
-
-  private async runInPlace(name: string, def: Definition, jobId: string, local: unknown) {
-    const db = executor(this.config.db);
-    let claimed;
-    try {
-      // pg-boss's own fetch, for one job by id (its fetchNextJob in src/plans.js, 10.4.2).
-      ({ rows: claimed } = await db.executeSql(
-        `update pgboss.job set state = 'active', started_on = now(),
-           retry_count = case when started_on is not null then retry_count + 1 else retry_count end
-         where name = $1 and id = $2 and state < 'active'
-         returning id, data, retry_count as "retryCount", retry_limit as "retryLimit"`,
-        [name, jobId],
-      ));
-    } catch (e) {
-      this.log.warn({ err: e, job: name, jobId }, "job not claimed in place; left to the queue");
-      return;
-    }
-    if (!claimed.length) return; // a worker took it first
-    try {
-      await this.run(name, def, claimed, local);
-    } catch (e) {
-      // As pg-boss's worker does: the queue retries it after its delay, or fails it on the last attempt.
-      await this.boss
-        .fail(name, jobId, { message: e instanceof Error ? e.message : String(e) })
-        .catch((err) => this.log.warn({ err, job: name, jobId }, "job not failed; it expires and is retried"));
-      return;
-    }
-    await this.boss
-      .complete(name, jobId)
-      .catch((err) => this.log.warn({ err, job: name, jobId }, "job not completed; it expires and is run again"));
   }
 
   async schedule(name: string, cron: string, data: object = {}, tz = "UTC") {
@@ -401,15 +307,7 @@ export class Jobs {
   async stop(timeoutMs = 20_000) {
     if (!this.started || this.stopping) return;
     this.stopping = true;
-    const t0 = Date.now();
     await this.boss.stop({ graceful: true, timeout: timeoutMs, close: false, wait: true });
-    // Jobs run in place finish as a worker's do (their queue rows were claimed like a fetch); one
-    // still running at the deadline is left active and expires, and a worker retries it.
-    if (this.inPlace.size)
-      await Promise.race([
-        Promise.allSettled([...this.inPlace]),
-        new Promise((r) => setTimeout(r, Math.max(0, timeoutMs - (Date.now() - t0))).unref()),
-      ]);
     if (this.config.ownsDb) await this.config.db.destroy().catch(() => {});
     this.log.info("job queue stopped");
   }

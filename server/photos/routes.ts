@@ -44,19 +44,8 @@ export function photoRoutes(db: Db, storage: PhotoStorage, jobs: Jobs) {
         const { siteId } = siteOnly.parse(req.params);
         if (!files.length) throw new AppError(400, "no_files", 'Attach at least one picture in the "files" field.');
         const fields = uploadFields.parse(req.body ?? {});
-        const { ids, startRenditions } = await service.uploadPhotos(
-          db,
-          storage,
-          jobs,
-          siteId,
-          actor(res),
-          files,
-          fields,
-        );
-        // The answer is read before a rendition run here may mark a photo ready: it says 'processing'.
-        const photos = await reads
-          .listPhotos(db, siteId, { ids, limit: ids.length, offset: 0 })
-          .finally(startRenditions);
+        const ids = await service.uploadPhotos(db, storage, jobs, siteId, actor(res), files, fields);
+        const photos = await reads.listPhotos(db, siteId, { ids, limit: ids.length, offset: 0 });
         // 201 with each photo 'processing': its display copy and thumbnail follow from the job queue.
         res.status(201).json({ photos });
       } finally {

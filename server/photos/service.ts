@@ -1,6 +1,5 @@
 import type { User } from "lucia";
 import { randomUUID } from "node:crypto";
-import { readFile } from "node:fs/promises";
 import { recordAudit } from "../audit";
 import type { Db } from "../db";
 import { AppError, conflict, forbidden, notFound } from "../errors";
@@ -42,15 +41,6 @@ export function toPhoto(r: NonNullable<repo.PhotoRow>) {
  * 3. One transaction inserts the rows ('processing') and enqueues their rendition jobs;
  *    no file I/O happens inside it. If it fails, the stored originals are deleted again.
  * A crash between 2 and 3 can leave files without rows: `npm run photos:cleanup` reports them.
- *
- * When this process runs a worker with no rendition in progress (`jobs.reserve`), the upload's
- * first picture is read into memory once, inspected from those bytes, and its renditions are
- * made in memory from step 1 on, beside the store write and the transaction; once the answer
- * has been read, `startRenditions` hands them to its job, which is claimed and run here
- * (writes, then 'ready'). Until that claim the job is an ordinary queued job: if the process
- * dies, or a worker claims it first, the renditions made here are dropped and the job is run
- * from the stored original as before. The other pictures, or all of them without a free
- * place, wait for a worker.
  */
 export async function uploadPhotos(
   db: Db,
@@ -60,125 +50,79 @@ export async function uploadPhotos(
   actor: Actor,
   files: UploadedFile[],
   fields: UploadFields,
-): Promise<{ ids: string[]; startRenditions: () => void }> {
+) {
   await assertMayAttach(db, siteId, actor.user, actor.role, fields);
   const target = await resolveTarget(db, siteId, fields);
-  const here = files.length ? jobs.reserve(RENDITION_JOB) : null;
-  let handedOver = false;
-  try {
-    const inspected: Array<{
-      file: UploadedFile;
-      facts: ImageFacts;
-      id: string;
-      name: string;
-      renditions?: Renditions;
-    }> = [];
-    for (const [i, file] of files.entries()) {
-      const name = safeName(file.originalname);
-      const bytes = here && i === 0 ? await readFile(file.path) : undefined;
-      const facts = await inspectImage(bytes ?? file.path, name);
-      inspected.push({ file, name, facts, id: randomUUID(), renditions: bytes && renderInMemory(bytes, facts, name) });
-    }
-    const written: string[] = [];
-    let queued: Array<{ id: string; jobId: string; renditions?: Renditions }>;
-    try {
-      for (const { file, facts, id } of inspected) {
-        const key = photoKey(siteId, id, "original", facts.ext);
-        written.push(key);
-        await storage.putFile(key, file.path, facts.mime).catch((e) => {
-          log.error({ err: e }, "photo store write failed");
-          throw new AppError(
-            503,
-            "storage_failed",
-            "The photo store did not accept the file; nothing was saved. Try again in a moment.",
-          );
-        });
-      }
-      queued = await db.transaction().execute(async (trx) => {
-        const out: typeof queued = [];
-        for (const { file, facts, id, name, renditions } of inspected) {
-          const keys = {
-            originalKey: photoKey(siteId, id, "original", facts.ext),
-            displayKey: photoKey(siteId, id, "display", "jpg"),
-            thumbKey: photoKey(siteId, id, "thumb", "jpg"),
-          };
-          await repo.insertPhoto(trx, {
-            id,
-            siteId,
-            ...target,
-            ...keys,
-            kind: fields.kind,
-            caption: fields.caption,
-            originalName: name,
-            format: facts.format,
-            width: facts.width,
-            height: facts.height,
-            bytes: file.size,
-            capturedAt: facts.capturedAt,
-            cameraModel: facts.cameraModel,
-            uploadedBy: actor.user.id,
-            renditionState: "processing",
-          });
-          await recordAudit(trx, {
-            siteId,
-            entityType: "photo",
-            entityId: id,
-            action: "upload",
-            actorId: actor.user.id,
-            boardId: target.boardId,
-            positionId: target.positionId,
-            after: { kind: fields.kind, originalName: name, ...target },
-          });
-          const jobId = await jobs.enqueue(
-            RENDITION_JOB,
-            { siteId, photoId: id, hevc: facts.hevc, originalKey: keys.originalKey } satisfies RenditionJob,
-            { trx },
-          );
-          out.push({ id, jobId: jobId!, renditions });
-        }
-        return out;
-      });
-    } catch (e) {
-      await Promise.allSettled(written.map((k) => storage.delete(k)));
-      throw e;
-    }
-    // Committed: the jobs exist. This process's worker (if it runs one) starts the ones not run
-    // here now, not at its next poll.
-    const inPlace = here ? queued.find((q) => q.renditions) : undefined;
-    if (queued.some((q) => q !== inPlace)) jobs.wake(RENDITION_JOB);
-    handedOver = true;
-    let started = false;
-    return {
-      ids: queued.map((q) => q.id),
-      startRenditions: () => {
-        if (started) return;
-        started = true;
-        if (inPlace?.renditions) here!.run(inPlace.jobId, { renditions: inPlace.renditions } satisfies RenditionLocal);
-        else here?.release();
-      },
-    };
-  } finally {
-    if (!handedOver) here?.release();
+  const inspected: Array<{ file: UploadedFile; facts: ImageFacts; id: string; name: string }> = [];
+  for (const file of files) {
+    const name = safeName(file.originalname);
+    inspected.push({ file, name, facts: await inspectImage(file.path, name), id: randomUUID() });
   }
-}
-
-/** The two renditions of a picture, being made in memory (display copy, then the thumbnail from it). */
-interface Renditions {
-  display: Promise<Buffer>;
-  thumb: Promise<Buffer>;
-}
-/** What an upload hands to the rendition job it runs in place. */
-interface RenditionLocal {
-  renditions: Renditions;
-}
-
-/** Starts both renditions; a failure is the job's to report, never an unhandled rejection meanwhile. */
-function renderInMemory(bytes: Buffer, facts: ImageFacts, name: string): Renditions {
-  const display = renderDisplay(bytes, facts, name);
-  const thumb = display.then((d) => renderThumb(d, name));
-  display.catch(() => undefined);
-  thumb.catch(() => undefined);
-  return { display, thumb };
+  const written: string[] = [];
+  try {
+    for (const { file, facts, id } of inspected) {
+      const key = photoKey(siteId, id, "original", facts.ext);
+      written.push(key);
+      await storage.putFile(key, file.path, facts.mime).catch((e) => {
+        log.error({ err: e }, "photo store write failed");
+        throw new AppError(
+          503,
+          "storage_failed",
+          "The photo store did not accept the file; nothing was saved. Try again in a moment.",
+        );
+      });
+    }
+    const ids = await db.transaction().execute(async (trx) => {
+      const ids: string[] = [];
+      for (const { file, facts, id, name } of inspected) {
+        const keys = {
+          originalKey: photoKey(siteId, id, "original", facts.ext),
+          displayKey: photoKey(siteId, id, "display", "jpg"),
+          thumbKey: photoKey(siteId, id, "thumb", "jpg"),
+        };
+        await repo.insertPhoto(trx, {
+          id,
+          siteId,
+          ...target,
+          ...keys,
+          kind: fields.kind,
+          caption: fields.caption,
+          originalName: name,
+          format: facts.format,
+          width: facts.width,
+          height: facts.height,
+          bytes: file.size,
+          capturedAt: facts.capturedAt,
+          cameraModel: facts.cameraModel,
+          uploadedBy: actor.user.id,
+          renditionState: "processing",
+        });
+        await recordAudit(trx, {
+          siteId,
+          entityType: "photo",
+          entityId: id,
+          action: "upload",
+          actorId: actor.user.id,
+          boardId: target.boardId,
+          positionId: target.positionId,
+          after: { kind: fields.kind, originalName: name, ...target },
+        });
+        await jobs.enqueue(
+          RENDITION_JOB,
+          { siteId, photoId: id, hevc: facts.hevc, originalKey: keys.originalKey } satisfies RenditionJob,
+          { trx },
+        );
+        ids.push(id);
+      }
+      return ids;
+    });
+    // Committed: this process's worker (if it runs one) starts the renditions now, not at its next poll.
+    jobs.wake(RENDITION_JOB);
+    return ids;
+  } catch (e) {
+    await Promise.allSettled(written.map((k) => storage.delete(k)));
+    throw e;
+  }
 }
 
 /** A rendition job's payload; `originalKey` is absent from jobs queued before 2026-12-03 evening. */
@@ -208,16 +152,13 @@ export function definePhotoJobs(
   jobs.define<RenditionJob>(
     RENDITION_JOB,
     async ({ siteId, photoId, hevc, originalKey }, ctx) => {
-      // Run in place by the upload: its renditions are being made in memory already.
-      const handed = (ctx.local as RenditionLocal | undefined)?.renditions;
       // Settled at once, so a failed read is never an unhandled rejection when the row says "skip".
-      const early =
-        !handed && originalKey
-          ? deps.photoStorage.getBytes(originalKey).then(
-              (bytes) => ({ bytes }),
-              (error: unknown) => ({ error }),
-            )
-          : undefined;
+      const early = originalKey
+        ? deps.photoStorage.getBytes(originalKey).then(
+            (bytes) => ({ bytes }),
+            (error: unknown) => ({ error }),
+          )
+        : undefined;
       const row = await repo.findPhoto(deps.db, siteId, photoId);
       if (!row || row.renditionState === "ready") return;
       const t0 = performance.now();
@@ -236,13 +177,10 @@ export function definePhotoJobs(
       };
       let display: Buffer;
       try {
-        if (handed) display = await handed.display;
-        else {
-          const read = early && row.originalKey === originalKey ? await early : undefined;
-          if (read && "error" in read) throw read.error;
-          const original = read ? read.bytes : await deps.photoStorage.getBytes(row.originalKey);
-          display = await renderDisplay(original, { hevc }, name);
-        }
+        const read = early && row.originalKey === originalKey ? await early : undefined;
+        if (read && "error" in read) throw read.error;
+        const original = read ? read.bytes : await deps.photoStorage.getBytes(row.originalKey);
+        display = await renderDisplay(original, { hevc }, name);
       } catch (e) {
         return failed(e, "the display copy could not be made; try uploading it again.");
       }
@@ -250,7 +188,7 @@ export function definePhotoJobs(
       storingDisplay.catch(() => undefined); // awaited below; never an unhandled rejection meanwhile
       let thumb: Buffer;
       try {
-        thumb = await (handed ? handed.thumb : renderThumb(display, name));
+        thumb = await renderThumb(display, name);
       } catch (e) {
         await storingDisplay.catch(() => undefined);
         return failed(e, "the thumbnail could not be made; try uploading it again.");

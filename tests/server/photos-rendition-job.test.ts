@@ -10,7 +10,7 @@ import { join } from "node:path";
 import type { User } from "lucia";
 import sharp from "sharp";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import type { InPlace, JobContext, JobHandler, Jobs } from "../../server/jobs";
+import type { JobContext, JobHandler, Jobs } from "../../server/jobs";
 import { renderRenditions } from "../../server/photos/images";
 import { definePhotoJobs, RENDITION_JOB, uploadPhotos, type RenditionJob } from "../../server/photos/service";
 import { LocalDiskStorage } from "../../server/photos/storage/local-disk";
@@ -25,11 +25,6 @@ class FlakyStore extends LocalDiskStorage {
   failures = 0;
   match = /thumb/;
   writes: string[] = [];
-  reads: string[] = [];
-  async getBytes(key: string) {
-    this.reads.push(key);
-    return super.getBytes(key);
-  }
   async put(key: string, body: Buffer, contentType?: string) {
     if (this.match.test(key) && this.failures > 0) {
       this.failures--;
@@ -56,10 +51,7 @@ const jobs = {
   wake: () => {},
   every: () => {},
   never: () => {},
-  reserve: () => inPlace,
 } as unknown as Jobs;
-/** What `jobs.reserve` gives the upload (null: no free place, the job waits for a worker). */
-let inPlace: InPlace | null = null;
 const ctx = (retryCount: number, retryLimit = 3): JobContext => ({
   id: "job",
   name: RENDITION_JOB,
@@ -86,7 +78,7 @@ afterAll(async () => {
 async function uploadOne(bytes: Buffer) {
   const path = join(dir, `upload-${queued.length}.jpg`);
   await writeFile(path, bytes);
-  const { ids, startRenditions } = await uploadPhotos(
+  const [id] = await uploadPhotos(
     t.db,
     store,
     jobs,
@@ -95,8 +87,7 @@ async function uploadOne(bytes: Buffer) {
     [{ originalname: "board.jpg", path, size: bytes.length }],
     uploadFields.parse({ positionId }),
   );
-  startRenditions();
-  return { id: ids[0], job: queued[queued.length - 1] };
+  return { id, job: queued[queued.length - 1] };
 }
 const stateOf = (id: string) =>
   t.db
@@ -140,45 +131,6 @@ describe("the rendition job", () => {
       renditionState: "failed",
       renditionError: expect.stringMatching(/could not be stored/),
     });
-  });
-
-  it("run in place by the upload: the renditions made in memory from its bytes are stored (the same bytes), the original is not read back", async () => {
-    const handedOver: Array<{ jobId: string; local: unknown }> = [];
-    let released = 0;
-    inPlace = { run: (jobId, local) => void handedOver.push({ jobId, local }), release: () => void released++ };
-    try {
-      const bytes = await sidewaysJpegWithGps();
-      const { id, job } = await uploadOne(bytes);
-      expect(handedOver).toEqual([{ jobId: "job", local: { renditions: expect.anything() } }]);
-      expect(released).toBe(0);
-      // The answer is read before the run: still processing.
-      expect(await stateOf(id)).toMatchObject({ renditionState: "processing" });
-      const reads = store.reads.length;
-      await handler(job, { ...ctx(0), local: handedOver[0].local });
-      expect(store.reads.length).toBe(reads);
-      const row = await stateOf(id);
-      expect(row).toMatchObject({ renditionState: "ready", renditionError: null });
-      const expected = await renderRenditions(bytes, { hevc: false }, "board.jpg");
-      expect((await readFile(join(store.root, row.displayKey))).equals(expected.display)).toBe(true);
-      expect((await readFile(join(store.root, row.thumbKey))).equals(expected.thumb)).toBe(true);
-      // A refused file never takes the place: it is given back, and nothing was handed over.
-      const bad = join(dir, "not-a-picture.jpg");
-      await writeFile(bad, "plain text");
-      await expect(
-        uploadPhotos(
-          t.db,
-          store,
-          jobs,
-          fx.siteId,
-          { user: { id: fx.crew.curator.id } as User, role: "curator" },
-          [{ originalname: "not-a-picture.jpg", path: bad, size: 10 }],
-          uploadFields.parse({ positionId }),
-        ),
-      ).rejects.toMatchObject({ status: 415 });
-      expect([handedOver.length, released]).toEqual([1, 1]);
-    } finally {
-      inPlace = null;
-    }
   });
 
   it("a job queued without the original's key (before it was named) reads the key from the row", async () => {
