@@ -4,25 +4,10 @@ import { neighbour } from "../../src/features/inventory/components/board-elevati
 import { NO_FILTERS, tileMatches } from "../../src/features/inventory/components/elevation-filters";
 import { gradeBand } from "../../src/features/inventory/components/tile-style";
 import { suggestDefect } from "../../src/features/inventory/defect-link";
+import { tileRow } from "../helpers/board-fixtures";
 
-const tile = (id: string, gridRow: number, gridCol: number, extra: Partial<TileRow> = {}): TileRow => ({
-  id,
-  designation: id,
-  kind: "molded_case_breaker",
-  gridRow,
-  gridCol,
-  rowSpan: 1,
-  colSpan: 1,
-  circuit: "",
-  sectionId: null,
-  sortOrder: 0,
-  version: 1,
-  component: null,
-  latest: null,
-  photoCount: 0,
-  openDefectCount: 0,
-  ...extra,
-});
+const tile = (id: string, gridRow: number, gridCol: number, extra: Partial<TileRow> = {}): TileRow =>
+  tileRow(id, { gridRow, gridCol, ...extra });
 
 describe("arrow-key neighbour on the elevation grid", () => {
   //  a b c

@@ -8,62 +8,34 @@ import {
   type BoardPage,
   type BoardPages,
 } from "../../src/features/inventory/query-cache";
+import { boardRow, tileRow } from "../helpers/board-fixtures";
 
 // What an inventory write makes the client read again (src/features/inventory/query-cache.ts): a survey write reads
 // its board's one page again; before, every write invalidated the whole site's inventory and the board on screen
 // read all its pages again.
 const S = "site-1";
-const tile = (id: string, n: number, componentId: string | null = `c-${id}`): TileRow => ({
-  id,
-  designation: id,
-  kind: "molded_case_breaker",
-  gridRow: 1 + Math.floor(n / 10),
-  gridCol: 1 + (n % 10),
-  rowSpan: 1,
-  colSpan: 1,
-  circuit: "",
-  sectionId: null,
-  sortOrder: 0,
-  version: 1,
-  component: componentId
-    ? {
-        id: componentId,
-        kind: "molded_case_breaker",
-        tagNumber: null,
-        heritage: "original",
-        custody: "in_place",
-        disposition: null,
-        dispositionOverridden: false,
-        maker: "Northbay Electric",
-        model: "NB 1",
-        ratingAmps: 20,
-        poles: 1,
-        version: 1,
-      }
-    : null,
-  latest: null,
-  photoCount: 0,
-  openDefectCount: 0,
-});
-const board = {
-  id: "b1",
-  name: "Main switchboard",
-  location: "",
-  nominalVolts: 440,
-  phases: 3 as const,
-  frequencyHz: 60,
-  earthing: "ungrounded" as const,
-  yearBuilt: null,
-  drawingRef: "",
-  faceHeightMm: null,
-  waterLineMm: null,
-  gridRows: 10,
-  gridCols: 10,
-  notes: "",
-  version: 1,
-  createdAt: "2026-12-01T00:00:00Z",
-  updatedAt: "2026-12-01T00:00:00Z",
-};
+const tile = (id: string, n: number, componentId: string | null = `c-${id}`): TileRow =>
+  tileRow(id, {
+    gridRow: 1 + Math.floor(n / 10),
+    gridCol: 1 + (n % 10),
+    component: componentId
+      ? {
+          id: componentId,
+          kind: "molded_case_breaker",
+          tagNumber: null,
+          heritage: "original",
+          custody: "in_place",
+          disposition: null,
+          dispositionOverridden: false,
+          maker: "Northbay Electric",
+          model: "NB 1",
+          ratingAmps: 20,
+          poles: 1,
+          version: 1,
+        }
+      : null,
+  });
+const board = boardRow;
 /** A board of three pages: the head with p0–p2, then p3–p5 after "k2", then p6–p7 after "k5". */
 function pages(boardId = "b1"): BoardPages {
   const t = (i: number) => tile(`${boardId}-p${i}`, i);

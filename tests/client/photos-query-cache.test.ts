@@ -1,10 +1,10 @@
 import { afterEach, beforeEach, describe, expect, it, vi } from "vitest";
 import { QueryClient } from "@tanstack/react-query";
-import type { TileRow } from "../../src/schemas/inventory";
 import type { Photo } from "../../src/schemas/photos";
 import { afterPhotosFiled, inventoryKeys as k, type BoardPages } from "../../src/features/inventory/query-cache";
 import { afterPhotoWrite, cachedPositionOf, photoKeys } from "../../src/features/photos/api";
 import { onPhotosFiled, type PhotosFiled } from "../../src/lib/photos-filed";
+import { boardRow, tileRow } from "../helpers/board-fixtures";
 
 // What a photo write makes the client read again (src/features/photos/api.ts): before, every upload invalidated every
 // inventory query of every site (`["inventory"]`), so the board on screen read all its pages again after each photo.
@@ -13,42 +13,8 @@ import { onPhotosFiled, type PhotosFiled } from "../../src/lib/photos-filed";
 // (src/app/provider.tsx).
 const S = "site-1";
 const T = "site-2";
-const tile = (id: string): TileRow => ({
-  id,
-  designation: id,
-  kind: "molded_case_breaker",
-  gridRow: 1,
-  gridCol: 1,
-  rowSpan: 1,
-  colSpan: 1,
-  circuit: "",
-  sectionId: null,
-  sortOrder: 0,
-  version: 1,
-  component: null,
-  latest: null,
-  photoCount: 0,
-  openDefectCount: 0,
-});
-const board = {
-  id: "b1",
-  name: "Engine room board",
-  location: "",
-  nominalVolts: 440,
-  phases: 3 as const,
-  frequencyHz: 60,
-  earthing: "ungrounded" as const,
-  yearBuilt: null,
-  drawingRef: "",
-  faceHeightMm: null,
-  waterLineMm: null,
-  gridRows: 10,
-  gridCols: 10,
-  notes: "",
-  version: 1,
-  createdAt: "2026-12-01T00:00:00Z",
-  updatedAt: "2026-12-01T00:00:00Z",
-};
+const tile = (id: string) => tileRow(id);
+const board = { ...boardRow, name: "Engine room board" };
 /** A board of two pages: the head with p0–p1, then p2–p3 after "k1". */
 const pages = (boardId: string): BoardPages => ({
   pages: [
