@@ -3,7 +3,7 @@ import { StrictMode } from "react";
 import { createRoot } from "react-dom/client";
 import { RouterProvider } from "react-router";
 import { AppProvider } from "./app/provider";
-import { createRouter, earlyReads } from "./app/router";
+import { createRouter, readsOf } from "./app/router";
 import { startRead } from "./lib/early-reads";
 import "./styles/index.css";
 
@@ -12,17 +12,15 @@ import "./styles/index.css";
 if (import.meta.env.PROD && "serviceWorker" in navigator)
   void import("virtual:pwa-register").then(({ registerSW }) => registerSW({ immediate: true }));
 
-// The reads this address's pages make whatever they show travel while the rest of the page's code arrives. Matching
-// the address against every route and starting the fetches is a task of its own, after the entry's evaluation (a
-// long task on the phone without it) and before the router's.
-setTimeout(() => {
-  for (const url of earlyReads(location.pathname)) startRead(url);
-}, 0);
-
-// The router's first navigation (the route chunks' imports, each inserting its modulepreload links, and the
-// loaders) runs as a task of its own after the entry's evaluation, instead of lengthening that one task.
+// The router's creation and first navigation (the routes flattened and ranked, the first matches, the route chunks'
+// imports, each inserting its modulepreload links, and the loaders) run as a task of their own after the entry's
+// evaluation, instead of lengthening that one task. The reads this address's pages make whatever they show are then
+// started from the router's own first matches (React Router keeps them as its state until that first navigation
+// ends), so they travel while the rest of the page's code arrives and is evaluated; matching the address apart from
+// the router (`earlyReads`) flattened and ranked every route a second time, a long task of its own on a phone.
 setTimeout(() => {
   const router = createRouter();
+  for (const url of readsOf(router.state.matches)) startRead(url);
   createRoot(document.getElementById("root")!).render(
     <StrictMode>
       <AppProvider>

@@ -145,10 +145,17 @@ export const routes: RouteObject[] = [
   },
 ];
 
-/** The URLs the routes matching `pathname` read whatever they show (their `reads`), outermost first. */
-export const earlyReads = (pathname: string): string[] =>
-  (matchRoutes(routes, pathname) ?? []).flatMap(
+/** The URLs the matched routes read whatever they show (their `reads`), outermost first. */
+export const readsOf = (matches: ReadonlyArray<{ route: RouteObject; params: Params }> | null): string[] =>
+  (matches ?? []).flatMap(
     (m) => (m.route.handle as { reads?: (p: Params) => string[] } | undefined)?.reads?.(m.params) ?? [],
   );
+
+/**
+ * The reads for `pathname`, matched by React Router's `matchRoutes` (which flattens and ranks every route on each
+ * call). The app itself takes them from the router's own first matches instead (src/main.tsx), so the routes are
+ * flattened once per page start; this one is for tests and anything without a router.
+ */
+export const earlyReads = (pathname: string): string[] => readsOf(matchRoutes(routes, pathname));
 
 export const createRouter = () => createBrowserRouter(routes);
