@@ -100,6 +100,28 @@ const direct = async (where: string, order: string) =>
       .execute(t.db)
   ).rows.map((r) => r.id);
 
+describe("the page's rows as sent", () => {
+  it("carry every time as the ISO text of the stored instant and no `total` of their own", async () => {
+    const r = await viewer.get(url("sort=createdAt&dir=asc&size=200"));
+    expect(r.status).toBe(200);
+    const stored = await t.db
+      .selectFrom("defects")
+      .select(["id", "createdAt", "updatedAt", "closedAt"])
+      .where("siteId", "=", fx.siteId)
+      .execute();
+    const byId = new Map(stored.map((d) => [d.id, d]));
+    expect(r.body.rows).toHaveLength(N);
+    for (const row of r.body.rows as Record<string, unknown>[]) {
+      const d = byId.get(row.id as string)!;
+      expect(row.createdAt).toBe(d.createdAt.toISOString());
+      expect(row.updatedAt).toBe(d.updatedAt.toISOString());
+      expect(row.closedAt).toBe(d.closedAt ? d.closedAt.toISOString() : null);
+      expect(row).not.toHaveProperty("total");
+    }
+    expect(r.body.total).toBe(N);
+  });
+});
+
 describe("server-side sorting, each checked against direct SQL", () => {
   it.each([
     [
