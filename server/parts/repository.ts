@@ -239,6 +239,135 @@ export function listLines(db: Db, siteId: string, f: LineFilter, page?: { limit:
   return q.execute();
 }
 
+/** A row of `pageOfLines`: the line, its counts and money, and its first links as JSON. */
+export interface LinePreviewLink {
+  linkId: string;
+  positionId: string | null;
+  boardId: string | null;
+  componentId: string | null;
+  defectId: string | null;
+  qty: number;
+  active: boolean;
+  fitted: boolean;
+  designation: string | null;
+  boardName: string | null;
+  defectTitle: string | null;
+  photoId: string | null;
+}
+export type PagedLine = LineRecord & {
+  qty: number;
+  linkCount: number;
+  leadCount: number;
+  spent: number;
+  preview: LinePreviewLink[];
+};
+
+/**
+ * Lines by id, or one page of the filtered lines in the list's order, each with everything its row shows,
+ * in one statement: quantity and link count (an index-only read of the line's live links,
+ * part_demand_links_line_live_idx), lead count, spend, and the first `linksPerLine` live links in the order
+ * they were made, each with its position's designation, board, defect title and its component's first
+ * nameplate photo (looked up by key). The page is taken first (the index walk stops at it), then the 50
+ * lines are put back in the page's order by the sort keys it was chosen by, so an offset page never pays for
+ * the rows it skips.
+ */
+export async function pageOfLines(
+  db: Db,
+  siteId: string,
+  pick: { filter: LineFilter; limit: number; offset: number } | { ids: readonly string[] },
+  linksPerLine: number,
+): Promise<PagedLine[]> {
+  const f: LineFilter = "filter" in pick ? pick.filter : { status: "all" };
+  if ("ids" in pick && !pick.ids.length) return [];
+  const dir = f.dir === "desc" ? sql`desc nulls last` : sql`asc nulls last`;
+  const keys = "filter" in pick ? SORT_SQL[f.sort ?? "created"] : [];
+  let inner = filtered(db, siteId, f)
+    .select(lineCols.map((c) => `pl.${c}` as const))
+    .select(keys.map((k, i) => sql`${k}`.as(`sk${i}`)));
+  if ("ids" in pick) inner = inner.where("pl.id", "in", [...pick.ids]);
+  else {
+    for (const expr of keys) inner = inner.orderBy(sql`${expr} ${dir}`);
+    inner = inner.orderBy("pl.createdAt").orderBy("pl.id").limit(pick.limit).offset(pick.offset);
+  }
+  const live = sql`(l.active or l.fitted)`;
+  let q = db
+    .selectFrom(inner.as("p"))
+    .select(lineCols.map((c) => `p.${c}` as const))
+    .select([
+      sql<number>`p.manual_qty + coalesce((select sum(l.qty) from part_demand_links l where l.line_id = p.id and ${live}
+        and (case when p.status = 'fitted' then l.fitted else l.active end)), 0)::int`.as("qty"),
+      sql<number>`(select count(*) from part_demand_links l where l.line_id = p.id and ${live})::int`.as("linkCount"),
+      sql<number>`(select count(*) from part_leads pd where pd.line_id = p.id)::int`.as("leadCount"),
+      sql<number>`(select coalesce(sum(a.cost), 0) from part_acquisitions a where a.line_id = p.id)::float8`.as(
+        "spent",
+      ),
+      sql<LinePreviewLink[]>`coalesce((select json_agg(json_build_object(
+          'linkId', l.id, 'positionId', l.position_id, 'boardId', l.board_id, 'componentId', l.component_id,
+          'defectId', l.defect_id, 'qty', l.qty, 'active', l.active, 'fitted', l.fitted,
+          'designation', (select ps.designation from positions ps where ps.id = l.position_id),
+          'boardName', (select b.name from boards b where b.id = l.board_id),
+          'defectTitle', (select d.title from defects d where d.id = l.defect_id),
+          'photoId', (select ph.id from photos ph where ph.component_id = l.component_id and ph.kind = 'nameplate'
+            and ph.deleted_at is null order by ph.created_at limit 1)
+        ) order by l.created_at, l.id)
+        from (select * from part_demand_links l where l.line_id = p.id and ${live}
+          order by l.created_at, l.id limit ${linksPerLine}) l), '[]'::json)`.as("preview"),
+    ]);
+  for (const [i] of keys.entries()) q = q.orderBy(sql`${sql.ref(`p.sk${i}`)} ${dir}`);
+  q = q.orderBy("p.createdAt").orderBy("p.id");
+  return (await q.execute()) as PagedLine[];
+}
+
+/**
+ * A page of one line's links (withdrawn ones too), in board and designation order (the line's own page: it
+ * reads every link of that one line to sort them; a line has tens to a few hundred).
+ */
+export function linksOfLinePage(db: Db, siteId: string, lineId: string, page: { limit: number; offset: number }) {
+  return db
+    .selectFrom("partDemandLinks as l")
+    .leftJoin("boards as b", "b.id", "l.boardId")
+    .select([
+      "l.id",
+      "l.positionId",
+      "l.boardId",
+      "l.componentId",
+      "l.defectId",
+      "l.qty",
+      "l.active",
+      "l.fitted",
+      (eb) =>
+        eb.selectFrom("positions as p").select("p.designation").whereRef("p.id", "=", "l.positionId").as("designation"),
+      "b.name as boardName",
+      (eb) => eb.selectFrom("defects as d").select("d.title").whereRef("d.id", "=", "l.defectId").as("defectTitle"),
+    ])
+    .where("l.lineId", "=", lineId)
+    .where("l.siteId", "=", siteId)
+    .orderBy("b.name")
+    .orderBy("designation")
+    .orderBy("l.createdAt")
+    .orderBy("l.id")
+    .limit(page.limit)
+    .offset(page.offset)
+    .execute();
+}
+
+/** How many links the line has, or null when it is not a line of the site. */
+export const countLinksOfLine = async (db: Db, siteId: string, lineId: string) => {
+  const row = await db
+    .selectFrom("partLines as pl")
+    .select((eb) =>
+      eb
+        .selectFrom("partDemandLinks as l")
+        .select((e) => e.fn.countAll<number>().as("n"))
+        .whereRef("l.lineId", "=", "pl.id")
+        .as("n"),
+    )
+    .where("pl.siteId", "=", siteId)
+    .where("pl.id", "=", lineId)
+    .executeTakeFirst();
+  return row ? Number(row.n) : null;
+};
+
 export const countLines = async (db: Db, siteId: string, f: LineFilter) =>
   Number(
     (
@@ -249,14 +378,14 @@ export const countLines = async (db: Db, siteId: string, f: LineFilter) =>
   );
 
 /**
- * Every link of the lines (withdrawn ones only when asked), with the position, board and defect they
+ * Every active and fitted link of the lines, with the position, board and defect they
  * point at. The position and defect are looked up per link (by primary key) rather than joined: a
  * page's few hundred links cost a few hundred index probes, where a join let the planner hash the
  * whole site's positions and defects.
  */
-export function linksOfLines(db: Db, lineIds: string[], withWithdrawn = false) {
+export function linksOfLines(db: Db, lineIds: string[]) {
   if (!lineIds.length) return Promise.resolve([]);
-  let q = db
+  return db
     .selectFrom("partDemandLinks as l")
     .leftJoin("boards as b", "b.id", "l.boardId")
     .select([
@@ -275,9 +404,13 @@ export function linksOfLines(db: Db, lineIds: string[], withWithdrawn = false) {
       "b.name as boardName",
       (eb) => eb.selectFrom("defects as d").select("d.title").whereRef("d.id", "=", "l.defectId").as("defectTitle"),
     ])
-    .where("l.lineId", "in", lineIds);
-  if (!withWithdrawn) q = q.where((e) => e.or([e("l.active", "=", true), e("l.fitted", "=", true)]));
-  return q.orderBy("b.name").orderBy("designation").orderBy("l.createdAt").orderBy("l.id").execute();
+    .where("l.lineId", "in", lineIds)
+    .where((e) => e.or([e("l.active", "=", true), e("l.fitted", "=", true)]))
+    .orderBy("b.name")
+    .orderBy("designation")
+    .orderBy("l.createdAt")
+    .orderBy("l.id")
+    .execute();
 }
 
 export const leadCounts = (db: Db, lineIds: string[]) =>

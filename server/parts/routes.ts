@@ -6,6 +6,7 @@ import {
   createLineBody,
   heritageRuleBody,
   leadBody,
+  lineLinksQuery,
   listQuery,
   shareLinkBody,
   statusBody,
@@ -105,6 +106,10 @@ export function partsRoutes(db: Db, storage: PhotoStorage, mail?: MailDeps) {
   r.get(`${base}/:lineId`, requireSiteRole(db, "site.read"), async (req, res) => {
     const { siteId, lineId } = lineParams.parse(req.params);
     res.json(await service.lineDetail(db, siteId, lineId));
+  });
+  r.get(`${base}/:lineId/links`, requireSiteRole(db, "site.read"), async (req, res) => {
+    const { siteId, lineId } = lineParams.parse(req.params);
+    res.json(await service.lineLinks(db, siteId, lineId, lineLinksQuery.parse(req.query)));
   });
   r.patch(`${base}/:lineId`, requireSiteRole(db, "parts.edit"), async (req, res) => {
     const { siteId, lineId } = lineParams.parse(req.params);

@@ -1,6 +1,6 @@
 /** Builds the wanted-list rows the API sends: a line with its positions, quantity, money and photos. */
 import { lineRef, partTitle } from "../../src/domain/part-workflow";
-import type { PartLine, PartsBudget } from "../../src/schemas/parts";
+import { LINKS_IN_ROW, type PartLine, type PartsBudget } from "../../src/schemas/parts";
 import type { Db } from "../db";
 import { conflict, notFound } from "../errors";
 import { lineSpec } from "./demand";
@@ -20,12 +20,16 @@ export function lineQty(
   return line.manualQty + counted.reduce((s, l) => s + l.qty, 0);
 }
 
-/** Builds the rows of these lines with four queries in all (links, lead counts, spend, photos), grouped by line once. */
-export async function buildRows(db: Db, lines: repo.LineRecord[], withWithdrawn = false): Promise<PartLine[]> {
+/**
+ * Builds the rows of these lines with every link and every nameplate photo (the CSV and the public share
+ * link, which show them all): four queries in all (links, lead counts, spend, photos), grouped by line once.
+ * The list and the line's page use `pageRows`, which carries the first few links and a count.
+ */
+export async function buildRows(db: Db, lines: repo.LineRecord[]): Promise<PartLine[]> {
   if (!lines.length) return [];
   const ids = lines.map((l) => l.id);
   const [links, leads, spent] = await Promise.all([
-    repo.linksOfLines(db, ids, withWithdrawn),
+    repo.linksOfLines(db, ids),
     repo.leadCounts(db, ids),
     repo.spentByLine(db, ids),
   ]);
@@ -53,29 +57,8 @@ export async function buildRows(db: Db, lines: repo.LineRecord[], withWithdrawn 
       .sort((a, b) => a.order - b.order)
       .map((p) => p.id);
     return {
-      id: line.id,
-      number: line.number,
-      ref: lineRef(line.number),
-      version: line.version,
-      origin: line.origin,
-      kind: line.kind,
-      ratingAmps: line.ratingAmps,
-      poles: line.poles,
-      voltageRating: line.voltageRating,
-      frame: line.frame,
-      mounting: line.mounting,
-      maker: line.maker,
-      model: line.model,
-      need: line.need,
-      title: partTitle(lineSpec(line), line.need),
-      mustMatch: (line.mustMatch ?? null) as PartLine["mustMatch"],
-      status: line.status,
-      heritageRule: line.heritageRule,
-      cancelReason: line.cancelReason,
-      notes: line.notes,
-      manualQty: line.manualQty,
+      ...lineFields(line),
       qty,
-      estimatedUnitCost: line.estimatedUnitCost,
       estimated: line.estimatedUnitCost == null ? null : Math.round(line.estimatedUnitCost * qty * 100) / 100,
       spent: spentN.get(line.id) ?? 0,
       leadCount: leadN.get(line.id) ?? 0,
@@ -90,11 +73,71 @@ export async function buildRows(db: Db, lines: repo.LineRecord[], withWithdrawn 
         defectId: l.defectId,
         defectTitle: l.defectTitle,
         qty: l.qty,
-        state: l.fitted ? ("fitted" as const) : l.active ? ("active" as const) : ("withdrawn" as const),
+        state: linkState(l),
       })),
-      updatedAt: iso(line.updatedAt),
+      linkCount: mine.filter((l) => l.active || l.fitted).length,
     };
   });
+}
+
+const linkState = (l: { active: boolean; fitted: boolean }) =>
+  l.fitted ? ("fitted" as const) : l.active ? ("active" as const) : ("withdrawn" as const);
+
+/** What a row says about its line itself (spec, status, rule, notes), the same in every kind of row. */
+function lineFields(line: repo.LineRecord) {
+  return {
+    id: line.id,
+    number: line.number,
+    ref: lineRef(line.number),
+    version: line.version,
+    origin: line.origin,
+    kind: line.kind,
+    ratingAmps: line.ratingAmps,
+    poles: line.poles,
+    voltageRating: line.voltageRating,
+    frame: line.frame,
+    mounting: line.mounting,
+    maker: line.maker,
+    model: line.model,
+    need: line.need,
+    title: partTitle(lineSpec(line), line.need),
+    mustMatch: (line.mustMatch ?? null) as PartLine["mustMatch"],
+    status: line.status,
+    heritageRule: line.heritageRule,
+    cancelReason: line.cancelReason,
+    notes: line.notes,
+    manualQty: line.manualQty,
+    estimatedUnitCost: line.estimatedUnitCost,
+    updatedAt: iso(line.updatedAt),
+  };
+}
+
+/**
+ * Rows of the lines `pageOfLines` read (quantity, counts, spend and first links already in them): the list's
+ * page and the line's heading. No further query.
+ */
+export function pageRows(lines: repo.PagedLine[]): PartLine[] {
+  return lines.map((line) => ({
+    ...lineFields(line),
+    qty: line.qty,
+    estimated: line.estimatedUnitCost == null ? null : Math.round(line.estimatedUnitCost * line.qty * 100) / 100,
+    spent: line.spent,
+    leadCount: line.leadCount,
+    photoIds: [...new Set(line.preview.flatMap((l) => (l.photoId ? [l.photoId] : [])))],
+    positions: line.preview.map((l) => ({
+      linkId: l.linkId,
+      positionId: l.positionId,
+      designation: l.designation,
+      boardId: l.boardId,
+      boardName: l.boardName,
+      componentId: l.componentId,
+      defectId: l.defectId,
+      defectTitle: l.defectTitle,
+      qty: l.qty,
+      state: linkState(l),
+    })),
+    linkCount: line.linkCount,
+  }));
 }
 
 function groupBy<T>(rows: readonly T[], key: (r: T) => string): Map<string, Array<T & { order: number }>> {
@@ -120,9 +163,9 @@ function groupBy<T>(rows: readonly T[], key: (r: T) => string): Map<string, Arra
 export async function siteBudget(
   db: Db,
   siteId: string,
-  boards: Array<{ id: string; name: string }>,
+  boardsRead: Promise<Array<{ id: string; name: string }>>,
 ): Promise<PartsBudget> {
-  const r = await keptBudget(db, siteId);
+  const [r, boards] = await Promise.all([keptBudget(db, siteId), boardsRead]);
   const names = new Map(boards.map((b) => [b.id, b.name]));
   const rows = r.rows.map((b) => ({
     ...b,
@@ -136,10 +179,11 @@ export async function siteBudget(
   return { rows, total };
 }
 
-export async function lineRow(db: Db, siteId: string, lineId: string, withWithdrawn = false) {
-  const line = await repo.findLine(db, siteId, lineId);
+/** One line's row, as the list shows it (its first positions and their count): one statement. */
+export async function lineRow(db: Db, siteId: string, lineId: string) {
+  const [line] = await repo.pageOfLines(db, siteId, { ids: [lineId] }, LINKS_IN_ROW);
   if (!line) throw notFound("That wanted-list line");
-  return (await buildRows(db, [line], withWithdrawn))[0];
+  return pageRows([line])[0];
 }
 
 /** Loads the line for update and checks the version; stale → 409 with the line as it is now. */

@@ -11,7 +11,8 @@ import { AppError, conflict, forbidden, notFound } from "../errors";
 import { refreshBudget } from "./budget-repository";
 import { lineSpec, reconcileDemand, syncDemand } from "./demand";
 import * as repo from "./repository";
-import { buildRows, lineRow, lockedLine, siteBudget } from "./rows";
+import { buildRows, lineRow, lockedLine, pageRows, siteBudget } from "./rows";
+import { LINKS_IN_ROW } from "../../src/schemas/parts";
 
 export { reconcileDemand, syncDemand } from "./demand";
 export { rebuildBudget } from "./budget-repository";
@@ -59,15 +60,20 @@ export async function demandOfPosition(trx: Db, siteId: string, positionId: stri
 
 export const DEFAULT_PAGE_SIZE = 50;
 
-/** One page of the list with the filter's total, the site's budget and boards: a fixed number of queries. */
+/**
+ * One page of the list with the filter's total, the site's budget and boards: four statements whatever the
+ * page's size or its lines' links (the page with each row's counts and first LINKS_IN_ROW positions, the count,
+ * the boards and the kept budget).
+ */
 export async function listParts(db: Db, siteId: string, filter: repo.LineFilter & { page?: number; size?: number }) {
   const size = filter.size ?? DEFAULT_PAGE_SIZE;
   const page = filter.page ?? 1;
-  const boards = await repo.boardsOfSite(db, siteId);
-  const [lines, total, budget] = await Promise.all([
-    repo.listLines(db, siteId, filter, { limit: size, offset: (page - 1) * size }).then((l) => buildRows(db, l)),
+  const boardsRead = repo.boardsOfSite(db, siteId);
+  const [lines, total, budget, boards] = await Promise.all([
+    repo.pageOfLines(db, siteId, { filter, limit: size, offset: (page - 1) * size }, LINKS_IN_ROW).then(pageRows),
     repo.countLines(db, siteId, filter),
-    siteBudget(db, siteId, boards),
+    siteBudget(db, siteId, boardsRead),
+    boardsRead,
   ]);
   return { lines, total, page, size, budget, boards };
 }
@@ -101,8 +107,34 @@ export async function writePartsCsv(
   out.progress?.(lines.length, lines.length);
 }
 
+/** A page of one line's links, withdrawn ones too (404 when the line is not the site's). */
+export async function lineLinks(db: Db, siteId: string, lineId: string, q: { page: number; size: number }) {
+  const [links, total] = await Promise.all([
+    repo.linksOfLinePage(db, siteId, lineId, { limit: q.size, offset: (q.page - 1) * q.size }),
+    repo.countLinksOfLine(db, siteId, lineId),
+  ]);
+  if (total === null) throw notFound("That wanted-list line");
+  return {
+    links: links.map((l) => ({
+      linkId: l.id,
+      positionId: l.positionId,
+      designation: l.designation,
+      boardId: l.boardId,
+      boardName: l.boardName,
+      componentId: l.componentId,
+      defectId: l.defectId,
+      defectTitle: l.defectTitle,
+      qty: l.qty,
+      state: l.fitted ? ("fitted" as const) : l.active ? ("active" as const) : ("withdrawn" as const),
+    })),
+    total,
+    page: q.page,
+    size: q.size,
+  };
+}
+
 export async function lineDetail(db: Db, siteId: string, lineId: string) {
-  const line = await lineRow(db, siteId, lineId, true);
+  const line = await lineRow(db, siteId, lineId);
   const [leads, acquisitions, history] = await Promise.all([
     repo.leadsOfLine(db, lineId),
     repo.acquisitionsOfLine(db, lineId),

@@ -81,7 +81,7 @@ export async function moveLineStatus(db: Db, siteId: string, lineId: string, b: 
     });
     await refreshBudget(trx, siteId, [lineId]); // its status, fitted links or acquisitions
   });
-  return { line: await lineRow(db, siteId, lineId, true), ctx };
+  return { line: await lineRow(db, siteId, lineId), ctx };
 }
 
 /**

@@ -140,6 +140,19 @@ export type ListQuery = z.input<typeof listQuery>;
 
 export const shareLinkBody = z.object({ label: shortText(200).default("") });
 
+/**
+ * How many of a line's positions its row carries (the list, the line's heading, a write's answer): the
+ * first ones to ask for the part; `linkCount` says how many there are, and the line's own page reads them
+ * all, a page at a time, from `GET …/parts/:lineId/links`.
+ */
+export const LINKS_IN_ROW = 4;
+export const LINE_LINKS_PAGE = 100;
+export const lineLinksQuery = z.object({
+  page: z.coerce.number().int().min(1).max(100_000).default(1),
+  size: z.coerce.number().int().min(1).max(500).default(LINE_LINKS_PAGE),
+});
+export type LineLinksQuery = z.input<typeof lineLinksQuery>;
+
 // ── responses ─────────────────────────────────────────────────────────────────
 const specOut = {
   kind: z.enum(COMPONENT_KINDS),
@@ -187,8 +200,15 @@ export const lineSchema = z.object({
   estimated: z.number().nullable(),
   spent: z.number(),
   leadCount: z.number(),
+  /** Nameplate photos of the components of the positions carried below (the first of each). */
   photoIds: z.array(text()),
+  /**
+   * The positions the part is for or was fitted to (active and fitted links). A row carries the first
+   * LINKS_IN_ROW in the order they asked for it; `linkCount` counts them all (withdrawn ones are history,
+   * read on the line's page).
+   */
   positions: z.array(linePositionSchema),
+  linkCount: z.number(),
   updatedAt: text(),
 });
 export type PartLine = z.infer<typeof lineSchema>;
@@ -217,6 +237,15 @@ export const listResponse = z.object({
   boards: z.array(z.object({ id: text(), name: text() })),
 });
 export type PartsListResponse = z.infer<typeof listResponse>;
+
+/** A page of one line's links, withdrawn ones too, in board and designation order. */
+export const lineLinksResponse = z.object({
+  links: z.array(linePositionSchema),
+  total: z.number(),
+  page: z.number(),
+  size: z.number(),
+});
+export type LineLinksResponse = z.infer<typeof lineLinksResponse>;
 
 export const leadSchema = z.object({
   id: text(),

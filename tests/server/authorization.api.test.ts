@@ -147,6 +147,7 @@ export const ACCESS: Record<string, Access> = {
   "GET /api/sites/:siteId/parts/photos/:photoId/thumb": "member",
   "PATCH /api/sites/:siteId/parts/leads/:leadId": PARTS,
   "GET /api/sites/:siteId/parts/:lineId": "member",
+  "GET /api/sites/:siteId/parts/:lineId/links": "member",
   "PATCH /api/sites/:siteId/parts/:lineId": PARTS,
   "PUT /api/sites/:siteId/parts/:lineId/heritage-rule": CURATOR,
   "POST /api/sites/:siteId/parts/:lineId/status": PARTS,

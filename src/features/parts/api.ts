@@ -1,9 +1,18 @@
-import { keepPreviousData, queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
+import {
+  keepPreviousData,
+  queryOptions,
+  useInfiniteQuery,
+  useMutation,
+  useQuery,
+  useQueryClient,
+} from "@tanstack/react-query";
 import { z } from "zod";
 import { api, qs } from "../../lib/api-client";
 import {
+  LINE_LINKS_PAGE,
   leadSchema,
   lineDetailResponse,
+  lineLinksResponse,
   lineSchema,
   listResponse,
   shareLinkSchema,
@@ -20,6 +29,7 @@ export const partsKeys = {
   all: (siteId: string) => ["parts", siteId] as const,
   list: (siteId: string, f: ListQuery) => [...partsKeys.all(siteId), "list", f] as const,
   detail: (siteId: string, lineId: string) => [...partsKeys.all(siteId), "detail", lineId] as const,
+  links: (siteId: string, lineId: string) => [...partsKeys.all(siteId), "links", lineId] as const,
   shareLinks: (siteId: string) => [...partsKeys.all(siteId), "share-links"] as const,
   shared: (token: string) => ["shared-parts", token] as const,
 };
@@ -54,6 +64,24 @@ export const useLineDetail = (siteId: string, lineId: string) =>
   useQuery({
     queryKey: partsKeys.detail(siteId, lineId),
     queryFn: ({ signal }) => api.get(`${base(siteId)}/${lineId}`, lineDetailResponse, signal),
+  });
+
+/**
+ * Every link of a line (withdrawn ones too), a page of LINE_LINKS_PAGE at a time: the line's page reads the
+ * first page when it opens and the next when the person asks for more. A row of the list carries only its
+ * first few (LINKS_IN_ROW) and their count.
+ */
+export const useLineLinks = (siteId: string, lineId: string) =>
+  useInfiniteQuery({
+    queryKey: partsKeys.links(siteId, lineId),
+    queryFn: ({ pageParam, signal }) =>
+      api.get(
+        `${base(siteId)}/${lineId}/links${qs({ page: pageParam, size: LINE_LINKS_PAGE })}`,
+        lineLinksResponse,
+        signal,
+      ),
+    initialPageParam: 1,
+    getNextPageParam: (last) => (last.page * last.size < last.total ? last.page + 1 : undefined),
   });
 
 const lineResponse = z.object({ line: lineSchema });

@@ -33,7 +33,7 @@ export default function PartLinePage() {
       <LineSummary line={line} />
       {can(role, "parts.heritage_rule") && <HeritageRuleForm siteId={site.id} line={line} />}
       <div className="grid gap-4 lg:grid-cols-2">
-        <PositionsList siteId={site.id} positions={line.positions} />
+        <PositionsList siteId={site.id} lineId={line.id} />
         {canEdit && <StatusForm siteId={site.id} detail={detail.data} />}
       </div>
       <LeadsPanel siteId={site.id} lineId={line.id} leads={leads} canEdit={canEdit} />

@@ -5,7 +5,20 @@ import { paths } from "../../../config/paths";
 import { thumbUrl, usePartsList } from "../../../features/parts/api";
 import { PrintSheet } from "../../../features/parts/components/print-sheet";
 import { useFilterParams } from "../../../features/parts/use-filter-params";
+import type { PartLine } from "../../../schemas/parts";
 import { useSiteContext } from "../sites/site-layout";
+
+/**
+ * The positions a card names: the row's first few (a row carries LINKS_IN_ROW) and how many more the line has,
+ * so the paper never claims to be the whole list; the line's page has them all.
+ */
+function positionsText(l: PartLine) {
+  const named = l.positions
+    .filter((p) => p.state === "active" && p.designation)
+    .map((p) => `${p.boardName} ${p.designation}`);
+  const more = l.linkCount - l.positions.length;
+  return more > 0 ? `${named.join(", ")} and ${more} more (see line ${l.ref})` : named.join(", ");
+}
 
 /** The wanted list to print and hand round: the current filter, one card per line with its nameplate photo. */
 export default function PartsPrintPage() {
@@ -40,10 +53,7 @@ export default function PartsPrintPage() {
             ...l,
             ref: l.ref,
             photoUrl: l.photoIds[0] ? thumbUrl(site.id, l.photoIds[0]) : null,
-            positions: l.positions
-              .filter((p) => p.state === "active" && p.designation)
-              .map((p) => `${p.boardName} ${p.designation}`)
-              .join(", "),
+            positions: positionsText(l),
           }))}
         />
       )}

@@ -61,9 +61,12 @@ export function partColumns(siteId: string) {
         header: "Positions",
         sortFn: "alphanumeric",
         cell: (c) => {
-          const ps = c.row.original.positions.filter((p) => p.state !== "withdrawn" && p.positionId && p.boardId);
-          if (!ps.length)
-            return <span className="text-fog">{c.row.original.origin === "manual" ? "Spare / by hand" : "—"}</span>;
+          const line = c.row.original;
+          const ps = line.positions.filter((p) => p.state !== "withdrawn" && p.positionId && p.boardId);
+          // The row carries the line's first LINKS_IN_ROW positions; the rest are on the line's own page.
+          const more = line.linkCount - line.positions.length;
+          if (!ps.length && more <= 0)
+            return <span className="text-fog">{line.origin === "manual" ? "Spare / by hand" : "—"}</span>;
           return (
             <ul className="flex flex-wrap gap-1">
               {ps.map((p) => (
@@ -78,6 +81,18 @@ export function partColumns(siteId: string) {
                   </Link>
                 </li>
               ))}
+              {more > 0 && (
+                <li>
+                  <Link
+                    to={paths.partLine.href(siteId, line.id)}
+                    className="inline-flex min-h-8 items-center px-1.5 text-sm"
+                    data-testid="more-positions"
+                    aria-label={`${more} more position${more === 1 ? "" : "s"} on line ${line.ref}`}
+                  >
+                    +{more} more
+                  </Link>
+                </li>
+              )}
             </ul>
           );
         },
