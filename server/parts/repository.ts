@@ -5,6 +5,7 @@ import { OPEN_PART_STATUSES } from "../../src/domain/part-workflow";
 import type { PartStatus } from "../../src/domain/vocab";
 import type { Db } from "../db";
 import { parseLineRef } from "../../src/domain/part-workflow";
+import { statementCache } from "../statement-cache";
 
 const lineCols = [
   "id",
@@ -187,30 +188,58 @@ export interface LineFilter {
 const qtySql = sql<number>`(pl.manual_qty + coalesce((select sum(l.qty) from part_demand_links l where l.line_id = pl.id
   and (case when pl.status = 'fitted' then l.fitted else l.active end)), 0))`;
 
+/**
+ * A filter's values, each reaching the SQL only as a parameter (statementCache's contract): the search text
+ * as an ILIKE pattern and a line number when it reads as one ("W-12", "w12", "12").
+ */
+type FilterValues = {
+  siteId: string;
+  boardId?: string;
+  kind?: string;
+  heritageRule?: string;
+  like?: string;
+  number?: number | null;
+};
+
+function filterValues(siteId: string, f: LineFilter): FilterValues {
+  const q = f.q?.trim();
+  return {
+    siteId,
+    boardId: f.boardId,
+    kind: f.kind,
+    heritageRule: f.heritageRule,
+    like: q ? `%${q.replace(/[\\%_]/g, (c) => `\\${c}`)}%` : undefined,
+    number: q ? parseLineRef(q) : undefined,
+  };
+}
+
 function filtered(db: Db, siteId: string, f: LineFilter) {
-  let q = db.selectFrom("partLines as pl").where("pl.siteId", "=", siteId);
-  if (f.status === "open") q = q.where("pl.status", "in", OPEN_PART_STATUSES);
-  else if (f.status !== "all") q = q.where("pl.status", "=", f.status);
-  if (f.kind) q = q.where("pl.kind", "=", f.kind as never);
-  if (f.heritageRule) q = q.where("pl.heritageRule", "=", f.heritageRule as never);
-  if (f.q?.trim()) {
-    const like = `%${f.q.trim().replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
-    // "W-12" (or "w12", "12") also finds line number 12.
-    const number = parseLineRef(f.q);
-    const text = sql<boolean>`concat_ws(' ', pl.maker, pl.model, pl.frame, pl.mounting, pl.need, pl.notes) ilike ${like}`;
-    q = q.where(number === null ? text : sql<boolean>`(pl.number = ${number} or ${text})`);
+  return filteredBy(db, f.status, filterValues(siteId, f));
+}
+
+function filteredBy(db: Db, status: LineFilter["status"], v: FilterValues) {
+  let q = db.selectFrom("partLines as pl").where("pl.siteId", "=", v.siteId);
+  if (status === "open") q = q.where("pl.status", "in", OPEN_PART_STATUSES);
+  else if (status !== "all") q = q.where("pl.status", "=", status);
+  if (v.kind != null) q = q.where("pl.kind", "=", v.kind as never);
+  if (v.heritageRule != null) q = q.where("pl.heritageRule", "=", v.heritageRule as never);
+  if (v.like != null) {
+    const text = sql<boolean>`concat_ws(' ', pl.maker, pl.model, pl.frame, pl.mounting, pl.need, pl.notes) ilike ${v.like}`;
+    q = q.where(v.number == null ? text : sql<boolean>`(pl.number = ${v.number} or ${text})`);
   }
-  if (f.boardId)
+  if (v.boardId != null) {
+    const boardId = v.boardId;
     q = q.where((eb) =>
       eb.exists(
         eb
           .selectFrom("partDemandLinks as l")
           .select("l.id")
           .whereRef("l.lineId", "=", "pl.id")
-          .where("l.boardId", "=", f.boardId!)
+          .where("l.boardId", "=", boardId)
           .where((e) => e.or([e("l.active", "=", true), e("l.fitted", "=", true)])),
       ),
     );
+  }
   return q;
 }
 
@@ -277,17 +306,43 @@ export async function pageOfLines(
   pick: { filter: LineFilter; limit: number; offset: number } | { ids: readonly string[] },
   linksPerLine: number,
 ): Promise<PagedLine[]> {
-  const f: LineFilter = "filter" in pick ? pick.filter : { status: "all" };
   if ("ids" in pick && !pick.ids.length) return [];
-  const dir = f.dir === "desc" ? sql`desc nulls last` : sql`asc nulls last`;
-  const keys = "filter" in pick ? SORT_SQL[f.sort ?? "created"] : [];
-  let inner = filtered(db, siteId, f)
+  const f: LineFilter = "filter" in pick ? pick.filter : { status: "all" };
+  const shape: PageShape = { status: f.status, sort: f.sort ?? "created", dir: f.dir ?? "asc", byIds: "ids" in pick };
+  const values: PageValues = {
+    ...filterValues(siteId, f),
+    ids: "ids" in pick ? pick.ids : undefined,
+    limit: "filter" in pick ? pick.limit : undefined,
+    offset: "filter" in pick ? pick.offset : undefined,
+    linksPerLine,
+  };
+  return (await db.executeQuery(pageStatement.compile(db, shape, values))).rows as PagedLine[];
+}
+
+interface PageShape {
+  status: LineFilter["status"];
+  sort: NonNullable<LineFilter["sort"]>;
+  dir: "asc" | "desc";
+  byIds: boolean;
+}
+type PageValues = FilterValues & {
+  ids?: readonly string[];
+  limit?: number;
+  offset?: number;
+  linksPerLine: number;
+};
+
+/** `pageOfLines`' statement, compiled once per shape (server/statement-cache.ts): the list reads it on every request. */
+const pageStatement = statementCache((db: Db, s: PageShape, v: PageValues) => {
+  const dir = s.dir === "desc" ? sql`desc nulls last` : sql`asc nulls last`;
+  const keys = s.byIds ? [] : SORT_SQL[s.sort];
+  let inner = filteredBy(db, s.status, v)
     .select(lineCols.map((c) => `pl.${c}` as const))
     .select(keys.map((k, i) => sql`${k}`.as(`sk${i}`)));
-  if ("ids" in pick) inner = inner.where("pl.id", "in", [...pick.ids]);
+  if (s.byIds) inner = inner.where("pl.id", "in", [...v.ids!]);
   else {
     for (const expr of keys) inner = inner.orderBy(sql`${expr} ${dir}`);
-    inner = inner.orderBy("pl.createdAt").orderBy("pl.id").limit(pick.limit).offset(pick.offset);
+    inner = inner.orderBy("pl.createdAt").orderBy("pl.id").limit(v.limit!).offset(v.offset!);
   }
   const live = sql`(l.active or l.fitted)`;
   let q = db
@@ -311,12 +366,11 @@ export async function pageOfLines(
             and ph.deleted_at is null order by ph.created_at limit 1)
         ) order by l.created_at, l.id)
         from (select * from part_demand_links l where l.line_id = p.id and ${live}
-          order by l.created_at, l.id limit ${linksPerLine}) l), '[]'::json)`.as("preview"),
+          order by l.created_at, l.id limit ${v.linksPerLine}) l), '[]'::json)`.as("preview"),
     ]);
   for (const [i] of keys.entries()) q = q.orderBy(sql`${sql.ref(`p.sk${i}`)} ${dir}`);
-  q = q.orderBy("p.createdAt").orderBy("p.id");
-  return (await q.execute()) as PagedLine[];
-}
+  return q.orderBy("p.createdAt").orderBy("p.id");
+});
 
 /**
  * A page of one line's links (withdrawn ones too), in board and designation order (the line's own page: it
@@ -369,13 +423,12 @@ export const countLinksOfLine = async (db: Db, siteId: string, lineId: string) =
 };
 
 export const countLines = async (db: Db, siteId: string, f: LineFilter) =>
-  Number(
-    (
-      await filtered(db, siteId, f)
-        .select((eb) => eb.fn.countAll<number>().as("n"))
-        .executeTakeFirstOrThrow()
-    ).n,
-  );
+  Number((await db.executeQuery(countStatement.compile(db, f.status, filterValues(siteId, f)))).rows[0]?.n ?? 0);
+
+/** `countLines`' statement, compiled once per shape. */
+const countStatement = statementCache((db: Db, status: LineFilter["status"], v: FilterValues) =>
+  filteredBy(db, status, v).select((eb) => eb.fn.countAll<number>().as("n")),
+);
 
 /**
  * Every active and fitted link of the lines, with the position, board and defect they
