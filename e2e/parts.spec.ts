@@ -1,8 +1,8 @@
 import { readFileSync } from "node:fs";
 import Papa from "papaparse";
-import { expect, test } from "@playwright/test";
+import { expect, request, test } from "@playwright/test";
 import { expectNoSeriousA11yViolations } from "./support/a11y";
-import { signIn } from "./support/auth";
+import { DEMO_PASSWORD, signIn } from "./support/auth";
 
 const shot = (name: string) => `/tmp/parts-${name}.png`;
 
@@ -124,4 +124,91 @@ test("the curator sets a line's heritage rule and its working notes, each saved 
   await notes.getByRole("button", { name: "Save" }).click();
   await expect(notes.getByText("Saved.")).toBeVisible();
   await expect(notes.getByLabel("Internal notes (never shared)")).toHaveValue(text);
+});
+
+/**
+ * A line wanted by more positions than its row carries (LINKS_IN_ROW = 4) and than the line's page reads at once
+ * (LINE_LINKS_PAGE = 50): a board of 53 breakers of one
+ * invented model, each set to "replace" through the API as the curator would.
+ */
+async function lineOfManyPositions(baseURL: string, count: number) {
+  const api = await request.newContext({ baseURL, extraHTTPHeaders: { Origin: baseURL } });
+  expect(
+    (await api.post("/api/auth/sign-in", { data: { email: "curator@tideline.test", password: DEMO_PASSWORD } })).ok(),
+  ).toBeTruthy();
+  const siteId = ((await (await api.get("/api/sites")).json()) as { sites: Array<{ id: string }> }).sites[0].id;
+  const prefix = `M${Date.now().toString(36).slice(-5).toUpperCase()}-`;
+  const model = `QX-${prefix}250`; // invented model (fictional yard)
+  const board = await api.post(`/api/sites/${siteId}/boards`, {
+    data: { name: `Shore panel ${prefix}`, nominalVolts: 450, phases: 3, gridRows: 2, gridCols: 60 },
+  });
+  expect(board.status()).toBe(201);
+  const boardId = ((await board.json()) as { id: string }).id;
+  const comps: Array<{ id: string; version: number }> = [];
+  for (const [row, from, to] of [
+    [1, 1, Math.min(count, 60)],
+    [2, 61, count],
+  ]) {
+    if (to < from) continue;
+    const gen = await api.post(`/api/sites/${siteId}/boards/${boardId}/positions/generate`, {
+      data: { prefix, from, to, gridRow: row, startCol: 1, kind: "molded_case_breaker" },
+    });
+    expect(gen.status(), await gen.text()).toBe(201);
+    comps.push(
+      ...((await gen.json()) as { positions: Array<{ component: { id: string; version: number } }> }).positions.map(
+        (p) => p.component,
+      ),
+    );
+  }
+  for (let i = 0; i < comps.length; i += 8)
+    await Promise.all(
+      comps.slice(i, i + 8).map(async (comp) => {
+        const plate = await api.patch(`/api/sites/${siteId}/components/${comp.id}`, {
+          data: { version: comp.version, maker: "Saltmarrow Switchgear (fictional)", model, ratingAmps: 250, poles: 3 },
+        });
+        expect(plate.status(), await plate.text()).toBe(200);
+        const { version } = (await plate.json()) as { version: number };
+        const decided = await api.put(`/api/sites/${siteId}/components/${comp.id}/disposition`, {
+          data: { disposition: "replace", reason: "Flooded to the busbars; a whole breaker is wanted", version },
+        });
+        expect(decided.status(), await decided.text()).toBe(200);
+      }),
+    );
+  await api.dispose();
+  return { siteId, model, designations: comps.map((_, i) => `${prefix}${i + 1}`) };
+}
+
+test("a line wanted by 53 positions: its row shows the first four and how many more, and its page reaches every one", async ({
+  page,
+  baseURL,
+}) => {
+  test.setTimeout(180_000);
+  const { siteId, model, designations } = await lineOfManyPositions(baseURL!, 53);
+  await signIn(page, "scrounger");
+  await page.goto(`/sites/${siteId}/parts?q=${encodeURIComponent(model)}`);
+  const row = page.getByTestId("part-row");
+  await expect(row).toHaveCount(1);
+  await expect(row).toContainText("53"); // the quantity counts every position
+  await expect(row.getByRole("listitem")).toHaveCount(5); // four positions and "+49 more"
+  const more = row.getByTestId("more-positions");
+  await expect(more).toHaveText("+49 more");
+  await expectNoSeriousA11yViolations(page, "wanted list, a line of many positions");
+  await page.screenshot({ path: shot("many-desktop"), fullPage: true });
+  await page.setViewportSize({ width: 360, height: 780 });
+  await expect(more).toBeVisible();
+  await page.screenshot({ path: shot("many-phone"), fullPage: true });
+
+  await more.click();
+  const items = page.getByTestId("line-positions").getByRole("listitem");
+  await expect(items).toHaveCount(50);
+  await expect(page.getByText("Showing 50 of 53")).toBeVisible();
+  await page.getByRole("button", { name: "Show 3 more" }).click();
+  await expect(items).toHaveCount(53);
+  await expect(page.getByText("Showing 50 of 53")).toHaveCount(0);
+  const texts = (await items.allInnerTexts()).join("\n");
+  for (const d of designations) expect(texts).toMatch(new RegExp(`· ${d}\\b`));
+  await expectNoSeriousA11yViolations(page, "a line's positions, all pages");
+  await page.screenshot({ path: shot("many-line-phone"), fullPage: true });
+  await page.setViewportSize({ width: 1280, height: 900 });
+  await page.screenshot({ path: shot("many-line-desktop"), fullPage: true });
 });

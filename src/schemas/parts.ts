@@ -146,7 +146,7 @@ export const shareLinkBody = z.object({ label: shortText(200).default("") });
  * all, a page at a time, from `GET …/parts/:lineId/links`.
  */
 export const LINKS_IN_ROW = 4;
-export const LINE_LINKS_PAGE = 100;
+export const LINE_LINKS_PAGE = 50;
 export const lineLinksQuery = z.object({
   page: z.coerce.number().int().min(1).max(100_000).default(1),
   size: z.coerce.number().int().min(1).max(500).default(LINE_LINKS_PAGE),

@@ -115,9 +115,9 @@ describe("a row carries its line's first positions and how many there are", () =
     expect(made).toHaveLength(9);
   });
 
-  it("the default page is 100 links", async () => {
+  it("the default page is 50 links", async () => {
     const r = await crew.get(`/api/sites/${siteId}/parts/${bigLine}/links`);
-    expect(r.body).toMatchObject({ total: 9, page: 1, size: 100 });
+    expect(r.body).toMatchObject({ total: 9, page: 1, size: 50 });
     expect(r.body.links).toHaveLength(9);
   });
 });

@@ -1,6 +1,7 @@
 import { Link } from "react-router";
 import { Button } from "../../../components/button";
 import { ErrorPanel, Loading } from "../../../components/status";
+import { LINE_LINKS_PAGE } from "../../../schemas/parts";
 import { useLineLinks } from "../api";
 import { positionHref } from "./links";
 
@@ -8,7 +9,7 @@ const STATE = { active: "Needs it", fitted: "✓ Fitted", withdrawn: "No longer 
 
 /**
  * Every position the line is or was for (withdrawn ones too, as its history), read from the line's links
- * route a page at a time: a line wanted by hundreds of positions opens with its first hundred and a button
+ * route a page at a time: a line wanted by hundreds of positions opens with its first LINE_LINKS_PAGE (50) and a button
  * for the next.
  */
 export function PositionsList({ siteId, lineId }: { siteId: string; lineId: string }) {
@@ -57,7 +58,7 @@ export function PositionsList({ siteId, lineId }: { siteId: string; lineId: stri
             Showing {rows.length} of {total}
           </span>
           <Button tone="quiet" onClick={() => void links.fetchNextPage()} disabled={links.isFetchingNextPage}>
-            {links.isFetchingNextPage ? "Reading…" : `Show ${Math.min(total - rows.length, 100)} more`}
+            {links.isFetchingNextPage ? "Reading…" : `Show ${Math.min(total - rows.length, LINE_LINKS_PAGE)} more`}
           </Button>
         </div>
       )}
