@@ -78,14 +78,3 @@ export const summaryTallies = (db: Db, siteId: string) =>
       sum(n)::int as n
     from board_summaries where site_id = ${siteId}
     group by 1, facet, key, surveyed`.execute(db);
-
-/** How many positions a board has, from its kept summary (one index read, whatever the board's size). */
-export async function boardPositionTotal(db: Db, boardId: string) {
-  const row = await db
-    .selectFrom("boardSummaries")
-    .select((eb) => eb.fn.coalesce(eb.fn.sum<string>("n"), eb.lit(0)).as("n"))
-    .where("boardId", "=", boardId)
-    .where("facet", "=", "positions")
-    .executeTakeFirst();
-  return Number(row?.n ?? 0);
-}

@@ -2,7 +2,7 @@ import type { Db } from "../db";
 import * as repo from "./boards-repository";
 import { requireOwned } from "./common";
 import { tilePageKeyOf, type TilePageKey } from "../../src/schemas/inventory";
-import { boardPositionTotal } from "./board-summaries-repository";
+import { notFound } from "../errors";
 import { boardThumbnailCells, boardTilePage, toTile, type TileQueryRow } from "./positions-repository";
 
 /** The reads of boards and flood events, as the board routes answer them. */
@@ -27,22 +27,31 @@ function paged(rows: TileQueryRow[], size: number) {
 
 /**
  * One board: its row, its sections, how many positions it has (its kept summary) and the first `size` of them in
- * board order, with the key of the next page (null when that was all); 404 when the site has no such board.
+ * board order, with the key of the next page (null when that was all); 404 when the site has no such board. The
+ * three statements run at once (the board's own with its total, the sections, the page); the sections and the page
+ * are thrown away when the site has no such board.
  */
 export async function boardOf(db: Db, siteId: string, boardId: string, size: number) {
-  const board = await requireOwned(db, "boards", siteId, boardId, "That board");
-  const [sections, rows, total] = await Promise.all([
+  const [head, sections, rows] = await Promise.all([
+    repo.boardHead(db, siteId, boardId),
     repo.listSections(db, boardId),
     boardTilePage(db, boardId, null, size + 1),
-    boardPositionTotal(db, boardId),
   ]);
-  return { board, sections, total, ...paged(rows, size) };
+  if (!head) throw notFound("That board");
+  const { positionTotal, ...board } = head;
+  return { board, sections, total: Number(positionTotal ?? 0), ...paged(rows, size) };
 }
 
-/** The page of a board's tiles after `after`, with the key of the one after it; 404 when the site has no such board. */
+/**
+ * The page of a board's tiles after `after`, with the key of the one after it; 404 when the site has no such board
+ * (asked at the same time as the page, which is then thrown away).
+ */
 export async function tilesOf(db: Db, siteId: string, boardId: string, after: TilePageKey, size: number) {
-  await requireOwned(db, "boards", siteId, boardId, "That board");
-  return paged(await boardTilePage(db, boardId, after, size + 1), size);
+  const [, rows] = await Promise.all([
+    requireOwned(db, "boards", siteId, boardId, "That board"),
+    boardTilePage(db, boardId, after, size + 1),
+  ]);
+  return paged(rows, size);
 }
 
 /** A board's thumbnail (its grid, one compact cell per position); 404 when the site has no such board. */

@@ -82,6 +82,27 @@ export const boardExtent = (db: Db, boardId: string) =>
     .where("boardId", "=", boardId)
     .executeTakeFirstOrThrow();
 
+/**
+ * A board of the site with how many positions it has (the sum of its kept per-board summary's "positions" rows:
+ * one index read, whatever the board's size), in one statement: the board page's head. Undefined when the site has
+ * no such board.
+ */
+export const boardHead = (db: Db, siteId: string, boardId: string) =>
+  db
+    .selectFrom("boards as b")
+    .selectAll("b")
+    .select((eb) =>
+      eb
+        .selectFrom("boardSummaries as s")
+        .select(sql<number>`coalesce(sum(s.n), 0)::int`.as("n"))
+        .whereRef("s.boardId", "=", "b.id")
+        .where("s.facet", "=", "positions")
+        .as("positionTotal"),
+    )
+    .where("b.id", "=", boardId)
+    .where("b.siteId", "=", siteId)
+    .executeTakeFirst();
+
 export const listSections = (db: Db, boardId: string) =>
   db.selectFrom("sections").selectAll().where("boardId", "=", boardId).orderBy("sortOrder").orderBy("name").execute();
 

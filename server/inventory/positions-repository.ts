@@ -2,84 +2,137 @@ import { sql, type Insertable } from "kysely";
 import type { ComponentsTable, PositionsTable } from "../../db/types";
 import type { Db } from "../db";
 import { newestInspection } from "./survey-repository";
+import { statementCache } from "../statement-cache";
 import { LOOSE_KEY_SQL, looseKey } from "../../src/domain/search-keys";
 import { COMPONENT_KINDS, COMPONENT_KIND_LABELS, COMPONENT_KIND_SHORT } from "../../src/domain/vocab";
 import type { TilePageKey } from "../../src/schemas/inventory";
 
 /**
  * One page of the board elevation in board order: each position with its current component, the component's
- * newest inspection (lateral join) and photo / open-defect counts (subqueries), the `limit` positions after `after`
- * (keyset, never OFFSET: positions_board_order_idx serves it as an ordered index scan, so a page costs its own
- * rows whatever the board's size or the page's depth).
+ * newest inspection and photo / open-defect counts (subqueries), the `limit` positions after `after` (keyset, never
+ * OFFSET: positions_board_order_idx serves it as an ordered index scan, so a page costs its own rows whatever the
+ * board's size or the page's depth). The current component is a lateral read by key (components_current_uq), not a
+ * join: joined, the planner hashed every component of the site for a board's page (a sequential scan of 20,000
+ * rows, 5 of the statement's 12 ms at 20,000 positions; DEVELOPERS.md "One board's page, the rest measured").
+ * Compiled once per shape (first page or after a key; server/statement-cache.ts).
  */
-export const boardTilePage = (db: Db, boardId: string, after: TilePageKey | null, limit: number) =>
-  db
-    .selectFrom("positions as p")
-    .leftJoin("components as c", (j) => j.onRef("c.positionId", "=", "p.id").on("c.retiredAt", "is", null))
-    .leftJoinLateral(
-      () => newestInspection(db, ["i.astmGrade", "i.isoRi", "i.percentRusted", "i.inspectedAt", "i.belowWaterLine"]),
-      (j) => j.onTrue(),
+export const boardTilePage = async (db: Db, boardId: string, after: TilePageKey | null, limit: number) =>
+  (
+    await db.executeQuery(
+      tilePageStatement.compile(db, null, {
+        boardId,
+        limit,
+        afterRow: after?.gridRow,
+        afterCol: after?.gridCol,
+        afterOrder: after?.sortOrder,
+        afterId: after?.id,
+      }),
     )
-    .select([
-      "p.id",
-      "p.designation",
-      "p.kind",
-      "p.gridRow",
-      "p.gridCol",
-      "p.rowSpan",
-      "p.colSpan",
-      "p.circuit",
-      "p.sectionId",
-      "p.sortOrder",
-      "p.version",
-      "c.id as cId",
-      "c.kind as cKind",
-      "c.tagNumber",
-      "c.heritage",
-      "c.custody",
-      "c.disposition",
-      "c.dispositionOverridden",
-      "c.maker",
-      "c.model",
-      "c.ratingAmps",
-      "c.poles",
-      "c.version as cVersion",
-      "li.astmGrade",
-      "li.isoRi",
-      "li.percentRusted",
-      "li.inspectedAt",
-      "li.belowWaterLine",
-    ])
-    .select((eb) => [
-      eb
-        .selectFrom("photos as ph")
-        .whereRef("ph.positionId", "=", "p.id")
-        .where("ph.deletedAt", "is", null)
-        .select(eb.fn.countAll<number>().as("n"))
-        .as("photoCount"),
-      eb
-        .selectFrom("defects as d")
-        .whereRef("d.positionId", "=", "p.id")
-        .where("d.status", "not in", ["closed", "accepted_as_is"])
-        .select(eb.fn.countAll<number>().as("n"))
-        .as("openDefectCount"),
-    ])
-    .where("p.boardId", "=", boardId)
-    .$if(!!after, (q) =>
-      q.where((eb) =>
-        eb(
-          eb.refTuple("p.gridRow", "p.gridCol", "p.sortOrder", "p.id"),
-          ">",
-          eb.tuple(after!.gridRow, after!.gridCol, after!.sortOrder, after!.id),
+  ).rows;
+
+const tilePageStatement = statementCache(
+  (
+    db: Db,
+    _shape: null,
+    v: {
+      boardId: string;
+      limit: number;
+      afterRow?: number;
+      afterCol?: number;
+      afterOrder?: number;
+      afterId?: string;
+    },
+  ) =>
+    db
+      .selectFrom("positions as p")
+      .leftJoinLateral(
+        (eb) =>
+          eb
+            .selectFrom("components as c")
+            .select([
+              "c.id",
+              "c.kind",
+              "c.tagNumber",
+              "c.heritage",
+              "c.custody",
+              "c.disposition",
+              "c.dispositionOverridden",
+              "c.maker",
+              "c.model",
+              "c.ratingAmps",
+              "c.poles",
+              "c.version",
+            ])
+            .whereRef("c.positionId", "=", "p.id")
+            .where("c.retiredAt", "is", null)
+            .limit(1)
+            .as("c"),
+        (j) => j.onTrue(),
+      )
+      .leftJoinLateral(
+        () => newestInspection(db, ["i.astmGrade", "i.isoRi", "i.percentRusted", "i.inspectedAt", "i.belowWaterLine"]),
+        (j) => j.onTrue(),
+      )
+      .select([
+        "p.id",
+        "p.designation",
+        "p.kind",
+        "p.gridRow",
+        "p.gridCol",
+        "p.rowSpan",
+        "p.colSpan",
+        "p.circuit",
+        "p.sectionId",
+        "p.sortOrder",
+        "p.version",
+        "c.id as cId",
+        "c.kind as cKind",
+        "c.tagNumber",
+        "c.heritage",
+        "c.custody",
+        "c.disposition",
+        "c.dispositionOverridden",
+        "c.maker",
+        "c.model",
+        "c.ratingAmps",
+        "c.poles",
+        "c.version as cVersion",
+        "li.astmGrade",
+        "li.isoRi",
+        "li.percentRusted",
+        "li.inspectedAt",
+        "li.belowWaterLine",
+      ])
+      .select((eb) => [
+        eb
+          .selectFrom("photos as ph")
+          .whereRef("ph.positionId", "=", "p.id")
+          .where("ph.deletedAt", "is", null)
+          .select(eb.fn.countAll<number>().as("n"))
+          .as("photoCount"),
+        eb
+          .selectFrom("defects as d")
+          .whereRef("d.positionId", "=", "p.id")
+          .where("d.status", "not in", ["closed", "accepted_as_is"])
+          .select(eb.fn.countAll<number>().as("n"))
+          .as("openDefectCount"),
+      ])
+      .where("p.boardId", "=", v.boardId)
+      .$if(v.afterId != null, (q) =>
+        q.where((eb) =>
+          eb(
+            eb.refTuple("p.gridRow", "p.gridCol", "p.sortOrder", "p.id"),
+            ">",
+            eb.tuple(v.afterRow!, v.afterCol!, v.afterOrder!, v.afterId!),
+          ),
         ),
-      ),
-    )
-    .orderBy("p.gridRow")
-    .orderBy("p.gridCol")
-    .orderBy("p.sortOrder")
-    .orderBy("p.id")
-    .limit(limit)
-    .execute();
+      )
+      .orderBy("p.gridRow")
+      .orderBy("p.gridCol")
+      .orderBy("p.sortOrder")
+      .orderBy("p.id")
+      .limit(v.limit),
+);
 
 /**
  * What a board's thumbnail draws, every position in board order: its place on the grid, its current

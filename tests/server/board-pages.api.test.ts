@@ -137,6 +137,9 @@ describe("a board in pages", () => {
     expect((await as.outsider.get(`${base}/boards/${boardId}/tiles?after=${key}`)).status).toBe(404);
     const none = "00000000-0000-4000-8000-000000000000";
     expect((await as.viewer.get(`${base}/boards/${none}/tiles?after=${key}`)).status).toBe(404);
+    const head = await as.viewer.get(`${base}/boards/${none}`);
+    expect(head.status).toBe(404);
+    expect(JSON.stringify(head.body)).not.toContain("positions");
     expect((await server.client().get(`${base}/boards/${boardId}/tiles?after=${key}`)).status).toBe(401);
   });
 });
