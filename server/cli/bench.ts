@@ -372,7 +372,14 @@ async function main() {
       const capBase = `http://127.0.0.1:${(app.address() as AddressInfo).port}`;
       app.requestTimeout = 0; // a slow endpoint on a very large site is measured, never cut off
       app.headersTimeout = 0;
-      const all = cases(site, Math.max(1, Math.floor(defects / 25) - 5), await boardPagePaths(base, cookie, site));
+      // BENCH_CASES=<regular expression> keeps the endpoint cases whose label it matches (e.g. "one board");
+      // the load case then runs only if its register cases are among them.
+      const only = process.env.BENCH_CASES ? new RegExp(process.env.BENCH_CASES, "i") : null;
+      const all = cases(
+        site,
+        Math.max(1, Math.floor(defects / 25) - 5),
+        await boardPagePaths(base, cookie, site),
+      ).filter((c) => !only || only.test(c.label));
       const skipped: string[] = [];
       for (const c of all) {
         // A case that fails here (twice) is reported and left out; the others are still measured.
@@ -457,6 +464,9 @@ async function main() {
       // of the server's size. The order of the two halves alternates run by run, so a change in the machine's
       // load meets both.
       const reg = list.filter((c) => /ranked \(default\)|search|by title/.test(c.label));
+      if (reg.length) await loadCase(reg);
+    }
+    async function loadCase(reg: Case[]) {
       const pgPid = (await raw.query<{ pid: number }>("select pg_backend_pid() as pid")).rows[0].pid;
       const postmaster = parentOf(pgPid);
       const f2 = {
