@@ -156,3 +156,70 @@ test("a decision on one tile of a board of three pages reads that page again, no
   expect(asked).toEqual([expect.stringMatching(/^\/tiles\?after=[^&]+&size=1000$/)]);
   await page.screenshot({ path: ".data/test-results/board-one-page-after-write.png" });
 });
+
+test("rows scrolled to before the pages in order reach them are read first, from the window's first row", async ({
+  page,
+}) => {
+  test.setTimeout(300_000);
+  await signIn(page, "curator");
+  const siteId = page.url().split("/sites/")[1].split("/")[0];
+  const name = `Window first ${Date.now().toString(36)}`;
+  const lines = ["board,designation,kind,grid_row,grid_col"];
+  for (let r = 1; r <= ROWS; r++) for (let c = 1; c <= COLS; c++) lines.push(`${name},${at(r, c)},fuse,${r},${c}`);
+  const made = await page.request.post(`/api/sites/${siteId}/inventory/import?mode=commit`, {
+    headers: { "content-type": "text/csv", origin: new URL(page.url()).origin },
+    data: lines.join("\r\n") + "\r\n",
+    timeout: 120_000,
+  });
+  expect(made.status(), await made.text()).toBe(201);
+  const boards = (await (await page.request.get(`/api/sites/${siteId}/boards`)).json()) as {
+    id: string;
+    name: string;
+  }[];
+  const board = boards.find((b) => b.name === name)!;
+
+  // The pages in order (after a key a page gave) wait until released; a page from a row's start goes at once.
+  let release = () => {};
+  const held = new Promise<void>((r) => (release = r));
+  const fromRow: string[] = [];
+  await page.route(`**/api/sites/${siteId}/boards/${board.id}/tiles?**`, async (route) => {
+    const after = new URL(route.request().url()).searchParams.get("after") ?? "";
+    if (after.endsWith(".ffffffff-ffff-ffff-ffff-ffffffffffff")) fromRow.push(after);
+    else await held;
+    await route.continue();
+  });
+
+  await page.setViewportSize({ width: 360, height: 740 });
+  await page.goto(`/sites/${siteId}/boards/${board.id}`);
+  const elevation = page.getByTestId("board-elevation");
+  await expect(page.getByTestId(`tile-${at(1, 1)}`)).toBeAttached();
+  await expect(page.getByTestId("board-reading")).toHaveAttribute("data-complete", "false");
+  // To the board's bottom edge at once, the first page (rows 1–10) all that is read.
+  await elevation.evaluate((el) =>
+    window.scrollTo(0, el.getBoundingClientRect().bottom + window.scrollY - innerHeight),
+  );
+  const lastRow = page.getByTestId(`tile-${at(ROWS, 1)}`);
+  await expect(lastRow).toBeInViewport();
+  await expect(page.getByTestId("board-reading")).toHaveAttribute("data-complete", "false");
+  expect(fromRow.length).toBeGreaterThan(0);
+  // The rows between the first page and the window show that they are coming; the last rows are drawn.
+  await expect(page.getByTestId("board-rows-coming").first()).toBeAttached();
+  await page.screenshot({ path: ".data/test-results/board-window-first-phone.png" });
+  await page.setViewportSize({ width: 1280, height: 900 });
+  await elevation.evaluate((el) =>
+    window.scrollTo(0, el.getBoundingClientRect().bottom + window.scrollY - innerHeight),
+  );
+  await expect(lastRow).toBeInViewport();
+  await page.screenshot({ path: ".data/test-results/board-window-first-desktop.png" });
+
+  // Released, the pages in order still come to the end: the whole board is read (and kept), and drawn in one piece.
+  release();
+  await expect(page.getByTestId("board-reading")).toHaveAttribute("data-complete", "true", { timeout: 60_000 });
+  await expect(page.getByTestId("board-rows-coming")).toHaveCount(0);
+  await expect(lastRow).toBeInViewport();
+  await expectKept(page, ["inventory", siteId, "board", board.id]);
+  const kept = (await keptData(page, ["inventory", siteId, "board", board.id])) as {
+    pages: { positions: { designation: string }[] }[];
+  };
+  expect(kept.pages.flatMap((p) => p.positions)).toHaveLength(ROWS * COLS);
+});

@@ -1,4 +1,4 @@
-import { useEffect } from "react";
+import { useCallback, useEffect, useMemo, useState } from "react";
 import {
   infiniteQueryOptions,
   queryOptions,
@@ -14,6 +14,7 @@ import { submitOrQueue, type Submitted } from "../../lib/outbox";
 import {
   applyInventoryChange,
   fetchBoardPage,
+  fetchBoardRows,
   inventoryKeys,
   type BoardPage,
   type InventoryChange,
@@ -137,6 +138,68 @@ export function useBoard(siteId: string, boardId: string) {
   }, [hasNextPage, isFetching, isFetchNextPageError, fetchNextPage]);
   return q;
 }
+/** A tile's place in board order: row, column, order in the cell, id (the pages' key). */
+const beforeInOrder = (
+  a: { gridRow: number; gridCol: number; sortOrder: number; id: string },
+  b: { gridRow: number; gridCol: number; sortOrder: number; id: string },
+) =>
+  a.gridRow !== b.gridRow
+    ? a.gridRow < b.gridRow
+    : a.gridCol !== b.gridCol
+      ? a.gridCol < b.gridCol
+      : a.sortOrder !== b.sortOrder
+        ? a.sortOrder < b.sortOrder
+        : a.id < b.id;
+
+/** How long the window must rest on rows not read before they are asked for (a fast scroll asks for none). */
+const WINDOW_SETTLE_MS = 150;
+
+/**
+ * What a large board shows while its pages are still coming in order (`useBoard`): when the window rests on rows
+ * past the last one read, the page that starts at the window's first row is asked for at once
+ * (`…/tiles?after=<the key before that row>`), and its tiles are drawn beside those read in order, until the
+ * in-order reading reaches them (it goes on at idle time, so the phone still keeps the whole board; those rows are
+ * read twice). `onRows` is for the elevation's window; `comingRows` are the row ranges neither has read.
+ */
+export function useBoardOnScreen(siteId: string, boardId: string, read: BoardRead | undefined) {
+  const last = read?.positions[read.positions.length - 1];
+  const readTo = read && !read.complete ? (last?.gridRow ?? 0) : null;
+  const [seen, setSeen] = useState<number | null>(null);
+  const onRows = useCallback((first: number) => setSeen(first), []);
+  // The window's first row if it is past the row after the last one read; asked for once it has rested there.
+  const want = readTo !== null && seen !== null && seen > readTo + 1 ? seen : null;
+  const [settled, setSettled] = useState<number | null>(null);
+  useEffect(() => {
+    if (want === null) return;
+    const id = setTimeout(() => setSettled(want), WINDOW_SETTLE_MS);
+    return () => clearTimeout(id);
+  }, [want]);
+  const startRow = want !== null && settled === want ? want : null;
+  const rowsPage = useQuery({
+    queryKey: [...inventoryKeys.boardAll(siteId, boardId), "rows-from", startRow ?? 0] as const,
+    queryFn: ({ signal }) => fetchBoardRows(siteId, boardId, startRow!, signal),
+    enabled: startRow !== null,
+    placeholderData: (previous) => previous,
+  });
+  return useMemo(() => {
+    if (!read || read.complete || !rowsPage.data || !last)
+      return { positions: read?.positions ?? [], comingRows: undefined, onRows };
+    const extra = rowsPage.data.positions.filter((t) => beforeInOrder(last, t));
+    if (!extra.length) return { positions: read.positions, comingRows: undefined, onRows };
+    const gridRows = read.board.gridRows;
+    const from = extra[0].gridRow;
+    const to = rowsPage.data.next === null ? gridRows : extra[extra.length - 1].gridRow;
+    return {
+      positions: [...read.positions, ...extra],
+      comingRows: [
+        [last.gridRow + 1, from - 1],
+        [to + 1, gridRows],
+      ] as const,
+      onRows,
+    };
+  }, [read, last, rowsPage.data, onRows]);
+}
+
 /** A board's thumbnail, read only once `enabled` (the card is near the screen): never the board's own pages. */
 export const useBoardThumbnail = (siteId: string, boardId: string, enabled: boolean) =>
   useQuery({

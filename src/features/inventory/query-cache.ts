@@ -21,6 +21,7 @@
 import type { InfiniteData, QueryClient, QueryKey } from "@tanstack/react-query";
 import type { z } from "zod";
 import { api, qs } from "../../lib/api-client";
+import { INT4_MAX } from "../../schemas/common";
 import { BOARD_LATER_PAGE, boardDetailResponse, tilePageResponse } from "../../schemas/inventory";
 
 /** Query keys for everything inventory (all under `all(siteId)`). */
@@ -58,6 +59,21 @@ export const fetchBoardPage = (siteId: string, boardId: string, after: string | 
         tilePageResponse,
         signal,
       );
+
+/**
+ * The key just before the first position of `row` (row − 1, then the largest column, order and id there can be):
+ * the page asked after it starts at that row. A key of the same form as a page's `next`, so the server reads it the
+ * same way (by index, from that place).
+ */
+export const rowStartKey = (row: number) => `${row - 1}.${INT4_MAX}.${INT4_MAX}.ffffffff-ffff-ffff-ffff-ffffffffffff`;
+
+/** A page of a board's positions from the first position of `row` on (the rows a window shows first). */
+export const fetchBoardRows = (siteId: string, boardId: string, row: number, signal?: AbortSignal) =>
+  api.get(
+    `${base(siteId)}/boards/${boardId}/tiles${qs({ after: rowStartKey(row), size: BOARD_LATER_PAGE })}`,
+    tilePageResponse,
+    signal,
+  );
 
 /** What an inventory write changed (see the module's comment). */
 export type InventoryChange =

@@ -4,7 +4,7 @@ import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { EARTHING_LABELS } from "../../../domain/vocab";
 import { BOARD_PAGE } from "../../../schemas/inventory";
-import { useBoard } from "../../../features/inventory/api";
+import { useBoard, useBoardOnScreen } from "../../../features/inventory/api";
 import { BoardElevation } from "../../../features/inventory/components/board-elevation";
 import {
   ElevationFilters,
@@ -27,6 +27,7 @@ export default function BoardElevationPage() {
   const [search, setSearch] = useSearchParams();
   const [filters, setFilters] = useState<TileFilters>(NO_FILTERS);
   const q = useBoard(site.id, boardId);
+  const onScreen = useBoardOnScreen(site.id, boardId, q.data);
   const selected = search.get("position");
   const select = useCallback(
     (id: string | null) => {
@@ -48,12 +49,13 @@ export default function BoardElevationPage() {
     setTimeout(() => (document.querySelector(`[data-position-id="${id}"]`) as HTMLElement | null)?.focus(), 0);
   }, [select, selected]);
   const matching = useMemo(
-    () => q.data?.positions.filter((t) => tileMatches(t, filters)).length ?? 0,
-    [q.data, filters],
+    () => onScreen.positions.filter((t) => tileMatches(t, filters)).length,
+    [onScreen.positions, filters],
   );
   if (q.isPending) return <Loading what="Drawing the board" />;
   if (q.isLoadingError || serverRefused(q.error)) return <ErrorPanel error={q.error} />;
-  const { board, positions, total, complete } = q.data;
+  const { board, total, complete } = q.data;
+  const { positions, comingRows, onRows } = onScreen;
   const tile = positions.find((t) => t.id === selected);
   return (
     <div className="space-y-4">
@@ -108,6 +110,8 @@ export default function BoardElevationPage() {
           tiles={positions}
           total={total}
           complete={complete}
+          comingRows={comingRows}
+          onRows={onRows}
           filters={filters}
           selectedId={selected}
           onOpen={(t) => select(t.id)}

@@ -1,4 +1,13 @@
-import { useCallback, useLayoutEffect, useMemo, useRef, useState, type KeyboardEvent, type RefObject } from "react";
+import {
+  useCallback,
+  useEffect,
+  useLayoutEffect,
+  useMemo,
+  useRef,
+  useState,
+  type KeyboardEvent,
+  type RefObject,
+} from "react";
 import { flushSync } from "react-dom";
 import { useVirtualizer, useWindowVirtualizer } from "@tanstack/react-virtual";
 import { usePrinting } from "../../../lib/use-printing";
@@ -200,7 +209,7 @@ function useTileWindow(
   const c1 = colItems.length ? colItems[colItems.length - 1].index + 1 : 0;
   const keepKey = keep.join("|");
   const windowed = big && !printing;
-  return useMemo(() => {
+  const drawn = useMemo(() => {
     if (!windowed) return tiles;
     const kept = new Set(keepKey.split("|").filter(Boolean));
     return tiles.filter(
@@ -209,6 +218,7 @@ function useTileWindow(
         (t.gridRow <= r1 && t.gridRow + t.rowSpan - 1 >= r0 && t.gridCol <= c1 && t.gridCol + t.colSpan - 1 >= c0),
     );
   }, [tiles, windowed, r0, r1, c0, c1, keepKey]);
+  return { drawn, rows: windowed && r1 >= r0 ? ([r0, r1] as const) : null };
 }
 
 export function BoardElevation({
@@ -216,6 +226,8 @@ export function BoardElevation({
   tiles,
   total = tiles.length,
   complete = true,
+  comingRows,
+  onRows,
   filters,
   selectedId,
   onOpen,
@@ -227,6 +239,13 @@ export function BoardElevation({
   total?: number;
   /** Whether every page is in; until then the rows after the last tile read show that they are coming. */
   complete?: boolean;
+  /**
+   * The row ranges (first, last) not read yet, when the caller knows them (a board read in order and a page read
+   * where the window is); by default every row after the last tile read, until `complete`.
+   */
+  comingRows?: readonly (readonly [number, number])[];
+  /** Told the rows the window shows (first, last), each time they change; windowed boards only. */
+  onRows?: (first: number, last: number) => void;
   filters: TileFilters;
   selectedId: string | null;
   onOpen: (t: TileRow) => void;
@@ -239,8 +258,15 @@ export function BoardElevation({
   const big = Math.max(tiles.length, total) > WINDOW_FROM;
   // Tiles come in board order: below the last one read, no row has been read yet.
   const readToRow = complete ? null : (tiles[tiles.length - 1]?.gridRow ?? 0);
+  const coming = complete
+    ? []
+    : (comingRows ?? (readToRow !== null && readToRow < board.gridRows ? [[readToRow + 1, board.gridRows]] : []));
   const windowed = big && !printing;
-  const drawn = useTileWindow(tiles, board, [focusId, selectedId], big, printing, gridRef, boxRef);
+  const { drawn, rows } = useTileWindow(tiles, board, [focusId, selectedId], big, printing, gridRef, boxRef);
+  const [first, last] = rows ?? [0, 0];
+  useEffect(() => {
+    if (first > 0) onRows?.(first, last);
+  }, [first, last, onRows]);
   const onKeyDown = useCallback(
     (e: KeyboardEvent<HTMLButtonElement>, t: TileRow) => {
       const next = neighbour(tiles, t, e.key);
@@ -297,14 +323,17 @@ export function BoardElevation({
           />
         ))}
         <WaterLine board={board} />
-        {readToRow !== null && readToRow < board.gridRows && (
-          <div
-            aria-hidden="true"
-            data-testid="board-rows-coming"
-            className="pointer-events-none rounded-sm bg-hull-800/60 motion-safe:animate-pulse"
-            style={{ gridRow: `${readToRow + 1} / ${board.gridRows + 1}`, gridColumn: "1 / -1" }}
-          />
-        )}
+        {coming
+          .filter(([from, to]) => from <= to)
+          .map(([from, to]) => (
+            <div
+              key={from}
+              aria-hidden="true"
+              data-testid="board-rows-coming"
+              className="pointer-events-none rounded-sm bg-hull-800/60 motion-safe:animate-pulse"
+              style={{ gridRow: `${from} / ${to + 1}`, gridColumn: "1 / -1" }}
+            />
+          ))}
       </div>
     </div>
   );
