@@ -27,9 +27,10 @@
  *
  * Options (environment): BENCH_RUNS, BENCH_N (timed requests per case per run, default 15),
  * BENCH_CLIENTS, BENCH_SECONDS (default 8), BENCH_ENDPOINTS=0 (no endpoint or load case) or =load (the load case
- * alone), BENCH_CSV=0, BENCH_PAINT=0, BENCH_REPORT=0, BENCH_KEEP=1 (keep the scratch
- * database), BENCH_DATABASE=<kept name> (measure it again without generating), BENCH_PROFILE=1
- * (the server writes a V8 CPU profile to .data/bench-profile/ when it stops; open it in chromium's DevTools).
+ * alone), BENCH_CASES=<regular expression> (only the endpoint cases whose label it matches, e.g. "one board"),
+ * BENCH_CSV=0, BENCH_PAINT=0, BENCH_REPORT=0, BENCH_KEEP=1 (keep the scratch database), BENCH_DATABASE=<kept
+ * name> (measure it again without generating), BENCH_PROFILE=1 (the server writes a V8 CPU profile to
+ * .data/bench-profile/ when it stops; open it in chromium's DevTools).
  * A script, not a test: `npm test` never runs it.
  */
 import "../bench/quiet";
