@@ -4,7 +4,7 @@
  * viewport that only a window of tiles is in the page, that scrolling reaches the last row and
  * column, that the arrow keys walk past the drawn window, and that print draws every tile.
  */
-import { expect, test } from "@playwright/test";
+import { expect, test, type Page } from "@playwright/test";
 import { expectNoSeriousA11yViolations } from "./support/a11y";
 import { signIn } from "./support/auth";
 import { expectKept, keptData } from "./support/offline";
@@ -13,13 +13,11 @@ const ROWS = 40;
 const COLS = 50;
 const at = (r: number, c: number) => `W${String(r).padStart(2, "0")}-${String(c).padStart(2, "0")}`;
 
-test("a board of 2,000 positions draws a window of tiles, scrolls to the last one and prints whole", async ({
-  page,
-}) => {
-  test.setTimeout(300_000);
+/** Signs in as the curator and makes a ROWS × COLS board of fuses through the inventory import. */
+async function makeBoard(page: Page, prefix: string) {
   await signIn(page, "curator");
   const siteId = page.url().split("/sites/")[1].split("/")[0];
-  const name = `Windowed board ${Date.now().toString(36)}`;
+  const name = `${prefix} ${Date.now().toString(36)}`;
   const lines = ["board,designation,kind,grid_row,grid_col"];
   for (let r = 1; r <= ROWS; r++) for (let c = 1; c <= COLS; c++) lines.push(`${name},${at(r, c)},fuse,${r},${c}`);
   const made = await page.request.post(`/api/sites/${siteId}/inventory/import?mode=commit`, {
@@ -32,7 +30,14 @@ test("a board of 2,000 positions draws a window of tiles, scrolls to the last on
     id: string;
     name: string;
   }[];
-  const board = boards.find((b) => b.name === name)!;
+  return { siteId, board: boards.find((b) => b.name === name)! };
+}
+
+test("a board of 2,000 positions draws a window of tiles, scrolls to the last one and prints whole", async ({
+  page,
+}) => {
+  test.setTimeout(300_000);
+  const { siteId, board } = await makeBoard(page, "Windowed board");
 
   await page.setViewportSize({ width: 360, height: 740 });
   await page.goto(`/sites/${siteId}/boards/${board.id}`);
@@ -161,22 +166,7 @@ test("rows scrolled to before the pages in order reach them are read first, from
   page,
 }) => {
   test.setTimeout(300_000);
-  await signIn(page, "curator");
-  const siteId = page.url().split("/sites/")[1].split("/")[0];
-  const name = `Window first ${Date.now().toString(36)}`;
-  const lines = ["board,designation,kind,grid_row,grid_col"];
-  for (let r = 1; r <= ROWS; r++) for (let c = 1; c <= COLS; c++) lines.push(`${name},${at(r, c)},fuse,${r},${c}`);
-  const made = await page.request.post(`/api/sites/${siteId}/inventory/import?mode=commit`, {
-    headers: { "content-type": "text/csv", origin: new URL(page.url()).origin },
-    data: lines.join("\r\n") + "\r\n",
-    timeout: 120_000,
-  });
-  expect(made.status(), await made.text()).toBe(201);
-  const boards = (await (await page.request.get(`/api/sites/${siteId}/boards`)).json()) as {
-    id: string;
-    name: string;
-  }[];
-  const board = boards.find((b) => b.name === name)!;
+  const { siteId, board } = await makeBoard(page, "Window first");
 
   // The pages in order (after a key a page gave) wait until released; a page from a row's start goes at once.
   let release = () => {};
