@@ -55,7 +55,7 @@ import {
   type PatchSectionBody,
 } from "../../schemas/inventory";
 
-export { applyInventoryChange, inventoryKeys } from "./query-cache";
+export { applyInventoryChange } from "./query-cache";
 
 const base = (siteId: string) => `/api/sites/${siteId}`;
 
