@@ -534,7 +534,7 @@ async function main() {
                 done++;
               } catch (e) {
                 errors++;
-                const kind = (e as Error).message.replace(/^\S+ /, "").slice(0, 60);
+                const kind = (e as Error).message.replace(/^\S+ /, "").slice(0, 220); // status and the body's first 200 characters
                 errorKinds.set(kind, (errorKinds.get(kind) ?? 0) + 1);
               }
             }
