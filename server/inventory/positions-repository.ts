@@ -8,6 +8,20 @@ import { COMPONENT_KINDS, COMPONENT_KIND_LABELS, COMPONENT_KIND_SHORT } from "..
 import type { TilePageKey } from "../../src/schemas/inventory";
 
 /**
+ * A position's current component (at most one: components_current_uq), read by key inside a lateral join on
+ * `positions as p`. Joined as a table instead, the planner hashes every component of the site to answer one
+ * board (DEVELOPERS.md "One board's page, the rest measured").
+ */
+const currentComponentOfP = <C extends `c.${keyof ComponentsTable & string}`>(db: Db, columns: readonly C[]) =>
+  db
+    .selectFrom("components as c")
+    .select(columns)
+    .where("c.positionId", "=", sql.ref<string>("p.id"))
+    .where("c.retiredAt", "is", null)
+    .limit(1)
+    .as("c");
+
+/**
  * One page of the board elevation in board order: each position with its current component, the component's
  * newest inspection and photo / open-defect counts (subqueries), the `limit` positions after `after` (keyset, never
  * OFFSET: positions_board_order_idx serves it as an ordered index scan, so a page costs its own rows whatever the
@@ -46,27 +60,21 @@ const tilePageStatement = statementCache(
     db
       .selectFrom("positions as p")
       .leftJoinLateral(
-        (eb) =>
-          eb
-            .selectFrom("components as c")
-            .select([
-              "c.id",
-              "c.kind",
-              "c.tagNumber",
-              "c.heritage",
-              "c.custody",
-              "c.disposition",
-              "c.dispositionOverridden",
-              "c.maker",
-              "c.model",
-              "c.ratingAmps",
-              "c.poles",
-              "c.version",
-            ])
-            .whereRef("c.positionId", "=", "p.id")
-            .where("c.retiredAt", "is", null)
-            .limit(1)
-            .as("c"),
+        () =>
+          currentComponentOfP(db, [
+            "c.id",
+            "c.kind",
+            "c.tagNumber",
+            "c.heritage",
+            "c.custody",
+            "c.disposition",
+            "c.dispositionOverridden",
+            "c.maker",
+            "c.model",
+            "c.ratingAmps",
+            "c.poles",
+            "c.version",
+          ]),
         (j) => j.onTrue(),
       )
       .leftJoinLateral(
@@ -136,12 +144,17 @@ const tilePageStatement = statementCache(
 
 /**
  * What a board's thumbnail draws, every position in board order: its place on the grid, its current
- * component's custody and that component's newest ASTM grade (the same lateral read as the tiles'), no counts.
+ * component's custody and that component's newest ASTM grade (the same lateral reads as the tiles'), no counts.
+ * Joined instead of read by key, the planner hashed every current component of the site for each thumbnail
+ * (a sequential scan that grew with the site, not the board).
  */
-export const boardThumbnailCells = (db: Db, boardId: string) =>
+export const thumbnailCellsQuery = (db: Db, boardId: string) =>
   db
     .selectFrom("positions as p")
-    .leftJoin("components as c", (j) => j.onRef("c.positionId", "=", "p.id").on("c.retiredAt", "is", null))
+    .leftJoinLateral(
+      () => currentComponentOfP(db, ["c.id", "c.custody"]),
+      (j) => j.onTrue(),
+    )
     .leftJoinLateral(
       () => newestInspection(db, ["i.astmGrade"]),
       (j) => j.onTrue(),
@@ -151,8 +164,8 @@ export const boardThumbnailCells = (db: Db, boardId: string) =>
     .orderBy("p.gridRow")
     .orderBy("p.gridCol")
     .orderBy("p.sortOrder")
-    .orderBy("p.id")
-    .execute();
+    .orderBy("p.id");
+export const boardThumbnailCells = (db: Db, boardId: string) => thumbnailCellsQuery(db, boardId).execute();
 
 export type TileQueryRow = Awaited<ReturnType<typeof boardTilePage>>[number];
 

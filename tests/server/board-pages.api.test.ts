@@ -3,7 +3,9 @@
  * before gave, in board order (row, column, order in the cell, id), until `next` is null. Read page by page, a
  * board is the same tiles in the same order as read in one page; a bad key or size is a 400 that says why.
  */
+import { CompiledQuery, sql } from "kysely";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { thumbnailCellsQuery } from "../../server/inventory/positions-repository";
 import { boardDetailResponse, boardThumbnailResponse, tilePageResponse } from "../../src/schemas/inventory";
 import { createTestDb, type TestDb } from "../helpers/db";
 import { makeCrew } from "../helpers/fixtures";
@@ -181,5 +183,33 @@ describe("a board's thumbnail", () => {
     expect(outsider.status).toBe((await as.outsider.get(`${base}/boards/${boardId}`)).status);
     expect(outsider.status).toBeGreaterThanOrEqual(403);
     expect(JSON.stringify(outsider.body)).not.toContain("cells");
+  });
+});
+
+/** Every node of a JSON plan, depth first. */
+type PlanNode = { "Node Type": string; "Relation Name"?: string; Plans?: PlanNode[]; [k: string]: unknown };
+const nodesOf = (n: PlanNode): PlanNode[] => [n, ...(n.Plans ?? []).flatMap(nodesOf)];
+
+describe("a board's reads touch only that board's components", () => {
+  // With nested loops priced out (enable_nestloop off), a plain join of components can only be a hash or merge
+  // join over a scan of every component of the site; a component read by key in a lateral subquery (LIMIT 1)
+  // still runs once per position with the position's id in its condition. So the plan below tells the two apart
+  // whatever the size of this test's tables (PostgreSQL docs, "Planner Method Configuration").
+  async function componentScans(compiled: CompiledQuery) {
+    return t.db.transaction().execute(async (trx) => {
+      await sql`SET LOCAL enable_nestloop = off`.execute(trx);
+      const r = await trx.executeQuery<{ "QUERY PLAN": [{ Plan: PlanNode }] }>(
+        CompiledQuery.raw(`EXPLAIN (FORMAT JSON) ${compiled.sql}`, [...compiled.parameters]),
+      );
+      return nodesOf(r.rows[0]["QUERY PLAN"][0].Plan).filter((n) => n["Relation Name"] === "components");
+    });
+  }
+  const keyedOnThePosition = (n: PlanNode) =>
+    /position_id = p\.id|p\.id = c\.position_id/.test(`${n["Index Cond"] ?? ""} ${n.Filter ?? ""}`);
+
+  it("the thumbnail reads each position's current component by the position's id", async () => {
+    const scans = await componentScans(thumbnailCellsQuery(t.db, boardId).compile());
+    expect(scans.length).toBeGreaterThan(0);
+    expect(scans.every(keyedOnThePosition)).toBe(true);
   });
 });
