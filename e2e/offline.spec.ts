@@ -232,7 +232,7 @@ test.describe("readings, a watch check and a defect with no signal, on a 360 px 
     // Open each page once with signal so the phone keeps what it shows.
     await page.goto(`/sites/${m.siteId}/readings/boards/${m.boardId}`);
     await expect(page.getByRole("form", { name: "Record an insulation-resistance reading" })).toBeVisible();
-    await expectKept(page, ["readings", m.siteId, "board", m.boardId], ["readings", m.siteId, "targets"]);
+    await expectKept(page, ["readings", m.siteId, "board", m.boardId]);
     await page.goto(`/sites/${m.siteId}/boards/${mainId}/watch`);
     await expect(page.getByRole("button", { name: "Save the check" })).toBeVisible();
     await expectKept(page, ["rts", m.siteId, "board", mainId]);
@@ -358,10 +358,7 @@ test.describe("every field page opened with signal opens with none, on a 360 px 
       {
         url: `/sites/${s}/readings/boards/${m.boardId}`,
         shows: (p) => p.getByRole("form", { name: "Record an insulation-resistance reading" }),
-        keeps: [
-          ["readings", s, "board", m.boardId],
-          ["readings", s, "targets"],
-        ],
+        keeps: [["readings", s, "board", m.boardId]],
       },
       {
         url: `/sites/${s}/boards/${mainId}/watch`,

@@ -15,13 +15,14 @@ test("a volunteer picks the thermal image of a scan by its thumbnail, and the sc
   await signIn(page, "photographer");
   const origin = new URL(page.url()).origin;
   const siteId = page.url().match(/\/sites\/([0-9a-f-]{36})/)![1];
-  const { boards: targets } = (await (await page.request.get(`/api/sites/${siteId}/readings/targets`)).json()) as {
-    boards: Array<{
-      name: string;
-      positions: Array<{ positionId: string; designation: string; componentId: string | null }>;
-    }>;
+  const { boards } = (await (await page.request.get(`/api/sites/${siteId}/readings/targets`)).json()) as {
+    boards: Array<{ id: string; name: string; positionCount: number }>;
   };
-  const g2 = targets.find((b) => b.name.startsWith("Main switchboard"))!.positions.find((p) => p.designation === "G2")!;
+  const main = boards.find((b) => b.name.startsWith("Main switchboard"))!;
+  const { positions } = (await (await page.request.get(`/api/sites/${siteId}/boards/${main.id}/readings`)).json()) as {
+    positions: Array<{ positionId: string; designation: string; componentId: string | null }>;
+  };
+  const g2 = positions.find((p) => p.designation === "G2")!;
   const caption = `G2 after warm-up ${Date.now().toString(36)}`;
   const image = await sharp({ create: { width: 320, height: 240, channels: 3, background: "#c0402a" } })
     .jpeg()

@@ -40,26 +40,46 @@ export const findComponent = (db: Db, siteId: string, componentId: string) =>
     .where("c.id", "=", componentId)
     .executeTakeFirst();
 
-export const listTargets = async (db: Db, siteId: string) => {
-  const boards = await db
-    .selectFrom("boards")
-    .select(["id", "name", "nominalVolts"])
-    .where("siteId", "=", siteId)
-    .orderBy("name")
+/**
+ * The site's boards with how many positions each has: what the readings' first page lists. The positions
+ * themselves come with one board's readings (`boardTargets`): a site of 200,000 positions sent whole was
+ * megabytes to a phone to count them.
+ */
+export const listTargets = (db: Db, siteId: string) =>
+  db
+    .selectFrom("boards as b")
+    .select(["b.id", "b.name", "b.nominalVolts"])
+    .select((eb) =>
+      eb
+        .selectFrom("positions as p")
+        .whereRef("p.boardId", "=", "b.id")
+        .select(eb.fn.countAll<string>().as("n"))
+        .as("positionCount"),
+    )
+    .where("b.siteId", "=", siteId)
+    .orderBy("b.name")
     .execute();
-  const positions = await db
+
+/** One board's positions, each with its current component (read by key, never a join of the site's components). */
+export const boardTargets = (db: Db, boardId: string) =>
+  db
     .selectFrom("positions as p")
-    .leftJoin("components as c", (j) => j.onRef("c.positionId", "=", "p.id").on("c.retiredAt", "is", null))
-    .select(["p.id as positionId", "p.boardId", "p.designation", "p.circuit", "p.kind", "c.id as componentId"])
-    .where("p.siteId", "=", siteId)
+    .leftJoinLateral(
+      (eb) =>
+        eb
+          .selectFrom("components as c")
+          .select("c.id")
+          .whereRef("c.positionId", "=", "p.id")
+          .where("c.retiredAt", "is", null)
+          .limit(1)
+          .as("c"),
+      (j) => j.onTrue(),
+    )
+    .select(["p.id as positionId", "p.designation", "p.circuit", "p.kind", "c.id as componentId"])
+    .where("p.boardId", "=", boardId)
     .orderBy("p.sortOrder")
     .orderBy("p.designation")
     .execute();
-  return boards.map((b) => ({
-    ...b,
-    positions: positions.filter((p) => p.boardId === b.id).map(({ boardId: _b, ...p }) => p),
-  }));
-};
 
 export const site = (db: Db, siteId: string) =>
   db.selectFrom("sites").select(["id", "kind"]).where("id", "=", siteId).executeTakeFirstOrThrow();

@@ -41,7 +41,13 @@ const invalid = (field: string, message: string) => new AppError(400, "invalid_i
 
 /** The site's criteria, or the defaults (version 0) when the curator has set none. */
 /** The boards of the site with the positions and components a reading may be taken on. */
-export const readingTargets = (db: Db, siteId: string) => repo.listTargets(db, siteId);
+export const readingTargets = async (db: Db, siteId: string) =>
+  (await repo.listTargets(db, siteId)).map((b) => ({
+    id: b.id,
+    name: b.name,
+    nominalVolts: Number(b.nominalVolts),
+    positionCount: Number(b.positionCount ?? 0),
+  }));
 
 export async function loadCriteria(db: Db, siteId: string): Promise<Criteria & ReadingCriteria> {
   const row = await repo.getCriteria(db, siteId);
@@ -455,17 +461,21 @@ export async function listGroundChecks(db: Db, siteId: string, f: Filter) {
 
 export async function boardReadings(db: Db, siteId: string, boardId: string) {
   const board = await boardOrThrow(db, siteId, boardId);
-  const [insulation, contacts, thermal, groundChecks, tripTests, stepTests, groundHunts] = await Promise.all([
-    listInsulation(db, siteId, { boardId }),
-    listContacts(db, siteId, { boardId }),
-    listThermal(db, siteId, { boardId }),
-    listGroundChecks(db, siteId, { boardId }),
-    listTripTests(db, siteId, { boardId }),
-    listStepTests(db, siteId, { boardId }),
-    listGroundHunts(db, siteId, boardId),
-  ]);
+  const [insulation, contacts, thermal, groundChecks, tripTests, stepTests, groundHunts, positions] = await Promise.all(
+    [
+      listInsulation(db, siteId, { boardId }),
+      listContacts(db, siteId, { boardId }),
+      listThermal(db, siteId, { boardId }),
+      listGroundChecks(db, siteId, { boardId }),
+      listTripTests(db, siteId, { boardId }),
+      listStepTests(db, siteId, { boardId }),
+      listGroundHunts(db, siteId, boardId),
+      repo.boardTargets(db, boardId),
+    ],
+  );
   return {
     board: { ...board, nominalVolts: Number(board.nominalVolts) },
+    positions,
     insulation,
     contacts,
     thermal,

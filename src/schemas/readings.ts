@@ -349,23 +349,19 @@ export const overrideSchema = z.object({
 });
 export type ComponentOverride = z.infer<typeof overrideSchema>;
 
+/** The site's boards for the readings' first page, each with its count of positions. */
 export const readingTargetsSchema = z.object({
   boards: z.array(
-    z.object({
-      id: safeText(),
-      name: safeText(),
-      nominalVolts: z.number(),
-      positions: z.array(
-        z.object({
-          positionId: safeText(),
-          designation: safeText(),
-          circuit: safeText(),
-          componentId: safeText().nullable(),
-          kind: safeText(),
-        }),
-      ),
-    }),
+    z.object({ id: safeText(), name: safeText(), nominalVolts: z.number(), positionCount: z.number().int() }),
   ),
+});
+/** A position of the board a reading can be recorded against (its current component, if any). */
+export const readingTargetSchema = z.object({
+  positionId: safeText(),
+  designation: safeText(),
+  circuit: safeText(),
+  componentId: safeText().nullable(),
+  kind: safeText(),
 });
 export type ReadingTargets = z.infer<typeof readingTargetsSchema>;
 
@@ -539,6 +535,8 @@ export const phaseComparisonKey = (r: { componentId: string | null; circuit: str
 
 export const boardReadingsSchema = z.object({
   board: z.object({ id: safeText(), name: safeText(), nominalVolts: z.number() }),
+  /** The board's positions in board order: what a reading on this board can be recorded against. */
+  positions: z.array(readingTargetSchema),
   insulation: z.array(insulationReadingSchema),
   contacts: z.array(contactReadingSchema),
   thermal: z.array(thermalScanSchema),

@@ -402,3 +402,54 @@ describe("criteria", () => {
       expect(types).toContain(e);
   });
 });
+
+describe("what a reading can be recorded against", () => {
+  it("the first page counts each board's positions; the board's readings carry its positions in board order", async () => {
+    const targets = await as.viewer.get(`${site()}/readings/targets`);
+    expect(targets.status).toBe(200);
+    const main = targets.body.boards.find((b: { id: string }) => b.id === boardId);
+    expect(main).toEqual({ id: boardId, name: "Main switchboard", nominalVolts: 450, positionCount: 2 });
+    expect(JSON.stringify(targets.body)).not.toContain("designation");
+
+    const r = await as.viewer.get(`${site()}/boards/${boardId}/readings`);
+    expect(r.status).toBe(200);
+    expect(r.body.positions).toEqual([
+      expect.objectContaining({
+        designation: "1-1",
+        circuit: "Steering gear",
+        componentId,
+        kind: "molded_case_breaker",
+      }),
+      expect.objectContaining({ designation: "1-2", circuit: "Galley", componentId: otherComponentId }),
+    ]);
+  });
+
+  it("a position whose component was retired is listed without one", async () => {
+    const p = await t.db
+      .insertInto("positions")
+      .values({
+        siteId: fx.siteId,
+        boardId,
+        designation: "1-9",
+        kind: "fuse",
+        gridRow: 2,
+        gridCol: 1,
+        circuit: "Spare",
+      })
+      .returning("id")
+      .executeTakeFirstOrThrow();
+    await t.db
+      .insertInto("components")
+      .values({ siteId: fx.siteId, positionId: p.id, kind: "fuse", retiredAt: new Date() })
+      .execute();
+    const r = await as.viewer.get(`${site()}/boards/${boardId}/readings`);
+    expect(r.body.positions.find((x: { positionId: string }) => x.positionId === p.id)).toMatchObject({
+      designation: "1-9",
+      componentId: null,
+    });
+    const targets = await as.viewer.get(`${site()}/readings/targets`);
+    expect(targets.body.boards.find((b: { id: string }) => b.id === boardId).positionCount).toBe(3);
+    await t.db.deleteFrom("components").where("positionId", "=", p.id).execute();
+    await t.db.deleteFrom("positions").where("id", "=", p.id).execute();
+  });
+});

@@ -2,7 +2,7 @@ import { Link, useParams } from "react-router";
 import { SafetyNotice } from "../../../components/safety-notice";
 import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
-import { useBoardReadings, useReadingTargets } from "../../../features/readings/api";
+import { useBoardReadings } from "../../../features/readings/api";
 import { ContactHistory } from "../../../features/readings/components/contact-history";
 import { DryOutSection } from "../../../features/readings/components/dry-out-section";
 import { GroundCheckHistory } from "../../../features/readings/components/ground-check-history";
@@ -23,16 +23,24 @@ export default function BoardReadingsPage() {
   const { site, role } = useSiteContext();
   const { boardId = "" } = useParams();
   const readings = useBoardReadings(site.id, boardId);
-  const targets = useReadingTargets(site.id);
   const thermalPhotos = usePhotoMap(
     site.id,
     (readings.data?.thermal ?? []).flatMap((s) => (s.photoId ? [s.photoId] : [])),
   );
   if (readings.isPending) return <Loading what="Loading the board's readings" />;
   if (readings.isLoadingError || serverRefused(readings.error)) return <ErrorPanel error={readings.error} />;
-  const { board, insulation, contacts, thermal, groundChecks, tripTests, stepTests, groundHunts, phaseComparisons } =
-    readings.data;
-  const positions = targets.data?.find((b) => b.id === boardId)?.positions ?? [];
+  const {
+    board,
+    positions,
+    insulation,
+    contacts,
+    thermal,
+    groundChecks,
+    tripTests,
+    stepTests,
+    groundHunts,
+    phaseComparisons,
+  } = readings.data;
   const withComponent = positions.filter((p) => p.componentId);
   const option = (p: (typeof positions)[number]) => ({
     componentId: p.componentId!,

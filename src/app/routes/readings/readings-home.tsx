@@ -30,7 +30,7 @@ export default function ReadingsHome() {
             >
               <span className="block text-lg font-semibold">{b.name}</span>
               <span className="block text-sm text-mist">
-                {b.nominalVolts} V · {b.positions.length} positions
+                {b.nominalVolts} V · {b.positionCount} positions
               </span>
             </Link>
           </li>
