@@ -2,6 +2,7 @@ import { sql } from "kysely";
 import type { Insertable, UpdateObject } from "kysely";
 import type { Database } from "../../db/types";
 import type { Db } from "../db";
+import { currentComponentOfP } from "../current-component-repository";
 import { rankOrderSql, registerBase, ROW_SELECTION, type RegisterRow } from "./list-repository";
 
 export const findRow = async (db: Db, siteId: string, id: string) =>
@@ -142,7 +143,10 @@ export const listSections = (db: Db, siteId: string) =>
 export const listPositions = (db: Db, siteId: string, boardId: string) =>
   db
     .selectFrom("positions as p")
-    .leftJoin("components as c", (j) => j.onRef("c.positionId", "=", "p.id").on("c.retiredAt", "is", null))
+    .leftJoinLateral(
+      () => currentComponentOfP(db, ["c.id"]),
+      (j) => j.onTrue(),
+    )
     .select(["p.id", "p.designation", "p.sectionId", "c.id as componentId"])
     .where("p.siteId", "=", siteId)
     .where("p.boardId", "=", boardId)

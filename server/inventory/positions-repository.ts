@@ -3,23 +3,10 @@ import type { ComponentsTable, PositionsTable } from "../../db/types";
 import type { Db } from "../db";
 import { newestInspection } from "./survey-repository";
 import { statementCache } from "../statement-cache";
+import { currentComponentOfP } from "../current-component-repository";
 import { LOOSE_KEY_SQL, looseKey } from "../../src/domain/search-keys";
 import { COMPONENT_KINDS, COMPONENT_KIND_LABELS, COMPONENT_KIND_SHORT } from "../../src/domain/vocab";
 import type { TilePageKey } from "../../src/schemas/inventory";
-
-/**
- * A position's current component (at most one: components_current_uq), read by key inside a lateral join on
- * `positions as p`. Joined as a table instead, the planner hashes every component of the site to answer one
- * board (DEVELOPERS.md "One board's page, the rest measured").
- */
-const currentComponentOfP = <C extends `c.${keyof ComponentsTable & string}`>(db: Db, columns: readonly C[]) =>
-  db
-    .selectFrom("components as c")
-    .select(columns)
-    .where("c.positionId", "=", sql.ref<string>("p.id"))
-    .where("c.retiredAt", "is", null)
-    .limit(1)
-    .as("c");
 
 /**
  * One page of the board elevation in board order: each position with its current component, the component's

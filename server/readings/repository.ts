@@ -10,6 +10,7 @@ import type {
   TripTestsTable,
 } from "../../db/types";
 import type { Db } from "../db";
+import { currentComponentOfP } from "../current-component-repository";
 
 export const findBoard = (db: Db, siteId: string, boardId: string) =>
   db
@@ -65,14 +66,7 @@ export const boardTargets = (db: Db, boardId: string) =>
   db
     .selectFrom("positions as p")
     .leftJoinLateral(
-      (eb) =>
-        eb
-          .selectFrom("components as c")
-          .select("c.id")
-          .whereRef("c.positionId", "=", "p.id")
-          .where("c.retiredAt", "is", null)
-          .limit(1)
-          .as("c"),
+      () => currentComponentOfP(db, ["c.id"]),
       (j) => j.onTrue(),
     )
     .select(["p.id as positionId", "p.designation", "p.circuit", "p.kind", "c.id as componentId"])

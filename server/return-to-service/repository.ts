@@ -7,6 +7,7 @@ import { sql, type Insertable, type Updateable } from "kysely";
 import type { Database } from "../../db/types";
 import type { EvidenceItem } from "../../src/schemas/return-to-service";
 import type { Db } from "../db";
+import { currentComponentOfP } from "../current-component-repository";
 
 type T = Database;
 
@@ -31,11 +32,14 @@ export const listSections = (db: Db, boardId: string) =>
     .orderBy("name")
     .execute();
 
-/** Every position of the board with its current (not retired) component. */
+/** Every position of the board with its current (not retired) component (read by key, never the site's). */
 export const listPositions = (db: Db, boardId: string) =>
   db
     .selectFrom("positions as p")
-    .leftJoin("components as c", (j) => j.onRef("c.positionId", "=", "p.id").on("c.retiredAt", "is", null))
+    .leftJoinLateral(
+      () => currentComponentOfP(db, ["c.id", "c.kind", "c.year"]),
+      (j) => j.onTrue(),
+    )
     .select([
       "p.id",
       "p.designation",
