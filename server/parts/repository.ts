@@ -1,5 +1,5 @@
 import { sql } from "kysely";
-import type { Insertable, Updateable } from "kysely";
+import type { Expression, Insertable, Updateable } from "kysely";
 import type { Database, PartLinesTable } from "../../db/types";
 import { OPEN_PART_STATUSES } from "../../src/domain/part-workflow";
 import type { PartStatus } from "../../src/domain/vocab";
@@ -243,6 +243,16 @@ function filteredBy(db: Db, status: LineFilter["status"], v: FilterValues) {
   return q;
 }
 
+/**
+ * Text whose numbers compare by value ("Q9" before "Q10", "F2.9" before "F2.10", "Aft 2" before "Aft 10"): the ICU
+ * collation numbers_by_value (root order with numeric ordering, migration 2026_12_13_0200). Every list of positions
+ * in the wanted list orders board names and designations by it, so the row, the line's page, its pages, the CSV and
+ * the partners' sheet agree.
+ */
+const byValue = (e: Expression<unknown>) => sql<string | null>`${e} collate numbers_by_value`;
+/** A line's links in board and designation order, ties in the order they were made: a total order. */
+const LINK_ORDER = sql`${byValue(sql.ref("l.board_name"))}, ${byValue(sql.ref("l.designation"))}, l.created_at, l.id`;
+
 const STATUS_ORDER = sql`array_position(array['wanted','lead_found','acquired','received','fitted','cancelled']::text[], pl.status)`;
 const RULE_ORDER = sql`array_position(array['original_only','period_ok','modern_ok']::text[], pl.heritage_rule)`;
 const SORT_SQL = {
@@ -251,7 +261,7 @@ const SORT_SQL = {
   heritageRule: [RULE_ORDER],
   qty: [qtySql],
   positions: [
-    sql`(select min(p.designation) from part_demand_links l join positions p on p.id = l.position_id where l.line_id = pl.id and l.active)`,
+    sql`(select min(${byValue(sql.ref("p.designation"))}) from part_demand_links l join positions p on p.id = l.position_id where l.line_id = pl.id and l.active)`,
   ],
   status: [STATUS_ORDER],
   leadCount: [sql`(select count(*) from part_leads pd where pd.line_id = pl.id)`],
@@ -294,8 +304,8 @@ export type PagedLine = LineRecord & {
 /**
  * Lines by id, or one page of the filtered lines in the list's order, each with everything its row shows,
  * in one statement: quantity and link count (an index-only read of the line's live links,
- * part_demand_links_line_live_idx), lead count, spend, and the first `linksPerLine` live links in the order
- * they were made, each with its position's designation, board, defect title and its component's first
+ * part_demand_links_line_live_idx), lead count, spend, and the first `linksPerLine` live links to be made (listed
+ * in `LINK_ORDER`, as the line's page lists them), each with its position's designation, board, defect title and its component's first
  * nameplate photo (looked up by key). The page is taken first (the index walk stops at it), then the 50
  * lines are put back in the page's order by the sort keys it was chosen by, so an offset page never pays for
  * the rows it skips.
@@ -359,14 +369,15 @@ const pageStatement = statementCache((db: Db, s: PageShape, v: PageValues) => {
       sql<LinePreviewLink[]>`coalesce((select json_agg(json_build_object(
           'linkId', l.id, 'positionId', l.position_id, 'boardId', l.board_id, 'componentId', l.component_id,
           'defectId', l.defect_id, 'qty', l.qty, 'active', l.active, 'fitted', l.fitted,
-          'designation', (select ps.designation from positions ps where ps.id = l.position_id),
-          'boardName', (select b.name from boards b where b.id = l.board_id),
+          'designation', l.designation, 'boardName', l.board_name,
           'defectTitle', (select d.title from defects d where d.id = l.defect_id),
           'photoId', (select ph.id from photos ph where ph.component_id = l.component_id and ph.kind = 'nameplate'
             and ph.deleted_at is null order by ph.created_at limit 1)
-        ) order by l.created_at, l.id)
-        from (select * from part_demand_links l where l.line_id = p.id and ${live}
-          order by l.created_at, l.id limit ${v.linksPerLine}) l), '[]'::json)`.as("preview"),
+        ) order by ${LINK_ORDER})
+        from (select l.*, (select ps.designation from positions ps where ps.id = l.position_id) designation,
+            (select b.name from boards b where b.id = l.board_id) board_name
+          from (select * from part_demand_links l where l.line_id = p.id and ${live}
+            order by l.created_at, l.id limit ${v.linksPerLine}) l) l), '[]'::json)`.as("preview"),
     ]);
   for (const [i] of keys.entries()) q = q.orderBy(sql`${sql.ref(`p.sk${i}`)} ${dir}`);
   return q.orderBy("p.createdAt").orderBy("p.id");
@@ -374,7 +385,9 @@ const pageStatement = statementCache((db: Db, s: PageShape, v: PageValues) => {
 
 /**
  * A page of one line's links (withdrawn ones too), in board and designation order (the line's own page: it
- * reads every link of that one line to sort them; a line has tens to a few hundred).
+ * reads every link of that one line to sort them; a line has tens to a few hundred). Names and designations compare
+ * `byValue`, ties by when the link was made and its id: a total order, so the pages neither repeat nor skip a link,
+ * and the same as `LINK_ORDER` puts a row's first links in.
  */
 export function linksOfLinePage(db: Db, siteId: string, lineId: string, page: { limit: number; offset: number }) {
   return db
@@ -390,13 +403,15 @@ export function linksOfLinePage(db: Db, siteId: string, lineId: string, page: { 
       "l.active",
       "l.fitted",
       (eb) =>
-        eb.selectFrom("positions as p").select("p.designation").whereRef("p.id", "=", "l.positionId").as("designation"),
+        byValue(eb.selectFrom("positions as p").select("p.designation").whereRef("p.id", "=", "l.positionId")).as(
+          "designation",
+        ),
       "b.name as boardName",
       (eb) => eb.selectFrom("defects as d").select("d.title").whereRef("d.id", "=", "l.defectId").as("defectTitle"),
     ])
     .where("l.lineId", "=", lineId)
     .where("l.siteId", "=", siteId)
-    .orderBy("b.name")
+    .orderBy(byValue(sql.ref("b.name")))
     .orderBy("designation")
     .orderBy("l.createdAt")
     .orderBy("l.id")
@@ -453,13 +468,15 @@ export function linksOfLines(db: Db, lineIds: string[]) {
       "l.fitted",
       "l.createdAt",
       (eb) =>
-        eb.selectFrom("positions as p").select("p.designation").whereRef("p.id", "=", "l.positionId").as("designation"),
+        byValue(eb.selectFrom("positions as p").select("p.designation").whereRef("p.id", "=", "l.positionId")).as(
+          "designation",
+        ),
       "b.name as boardName",
       (eb) => eb.selectFrom("defects as d").select("d.title").whereRef("d.id", "=", "l.defectId").as("defectTitle"),
     ])
     .where("l.lineId", "in", lineIds)
     .where((e) => e.or([e("l.active", "=", true), e("l.fitted", "=", true)]))
-    .orderBy("b.name")
+    .orderBy(byValue(sql.ref("b.name")))
     .orderBy("designation")
     .orderBy("l.createdAt")
     .orderBy("l.id")
