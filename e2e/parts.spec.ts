@@ -5,6 +5,27 @@ import { expectNoSeriousA11yViolations } from "./support/a11y";
 import { DEMO_PASSWORD, signIn } from "./support/auth";
 
 const shot = (name: string) => `/tmp/parts-${name}.png`;
+/** The reference order for names with numbers: ICU's numeric collation as the browser's engine has it (ECMA-402). */
+const byValue = new Intl.Collator("und", { numeric: true }).compare;
+
+/**
+ * What scrolls sideways on the page: the page itself (document.scrollingElement), or any box on it that scrolls its
+ * content sideways (overflow-x auto or scroll with more content than width), named by tag and test id.
+ */
+async function sidewaysScrollers(page: import("@playwright/test").Page) {
+  return page.evaluate(() => {
+    const doc = document.scrollingElement!;
+    const out = doc.scrollWidth > doc.clientWidth ? [`page ${doc.scrollWidth} > ${doc.clientWidth}`] : [];
+    for (const el of document.querySelectorAll<HTMLElement>("body *")) {
+      const o = getComputedStyle(el).overflowX;
+      if ((o === "auto" || o === "scroll") && el.scrollWidth > el.clientWidth + 1)
+        out.push(
+          `${el.tagName.toLowerCase()}${el.dataset.testid ? `[${el.dataset.testid}]` : ""} ${el.scrollWidth} > ${el.clientWidth}`,
+        );
+    }
+    return out;
+  });
+}
 
 async function openList(page: import("@playwright/test").Page) {
   await signIn(page, "scrounger");
@@ -89,11 +110,30 @@ test("the print-ready list and the phone layout pass the accessibility scan", as
   await page.emulateMedia({ media: "print" });
   await page.screenshot({ path: shot("print"), fullPage: true });
   await page.emulateMedia({ media: "screen" });
-  await page.setViewportSize({ width: 375, height: 812 });
+  // A phone: nothing scrolls sideways, neither the page nor the list; each line is a card.
+  await page.setViewportSize({ width: 360, height: 780 });
+  await expect(page.getByTestId("sheet-line").first()).toBeVisible();
+  expect(await sidewaysScrollers(page), "print sheet at 360 px").toEqual([]);
+  await page.screenshot({ path: shot("print-phone"), fullPage: true });
   await page.getByRole("link", { name: "← Back to the list" }).click();
   await expect(page.getByTestId("part-row").first()).toBeVisible();
+  await expect(page.getByRole("list", { name: "Wanted parts" })).toBeVisible();
+  expect(await sidewaysScrollers(page), "wanted list at 360 px").toEqual([]);
   await expectNoSeriousA11yViolations(page, "wanted list on a phone");
   await page.screenshot({ path: shot("list-phone"), fullPage: true });
+  // The columns' sort, as two selects.
+  await page.getByLabel("Sort by").selectOption("qty");
+  await page.getByLabel("Direction").selectOption("desc");
+  await expect(page).toHaveURL(/sort=qty/);
+  await expect(page).toHaveURL(/dir=desc/);
+  await expect(page.getByRole("list", { name: "Wanted parts" })).toHaveAttribute("aria-busy", "false");
+  const qtys = (await page.getByTestId("part-row").allInnerTexts()).map((t) => Number(/Qty\s+(\d+)/.exec(t)?.[1]));
+  expect(qtys.length).toBeGreaterThan(1);
+  expect(qtys).toEqual([...qtys].sort((a, b) => b - a));
+  // Back at a desktop's width the lines are a table again.
+  await page.setViewportSize({ width: 1280, height: 900 });
+  await expect(page.getByRole("table", { name: "Wanted parts" })).toBeVisible();
+  await expect(page.getByRole("columnheader", { name: /Qty/ })).toHaveAttribute("aria-sort", "descending");
 });
 
 test("a viewer reads the list but gets no editing or sharing controls", async ({ page }) => {
@@ -160,22 +200,25 @@ async function lineOfManyPositions(baseURL: string, count: number) {
       ),
     );
   }
-  for (let i = 0; i < comps.length; i += 8)
-    await Promise.all(
-      comps.slice(i, i + 8).map(async (comp) => {
-        const plate = await api.patch(`/api/sites/${siteId}/components/${comp.id}`, {
-          data: { version: comp.version, maker: "Saltmarrow Switchgear (fictional)", model, ratingAmps: 250, poles: 3 },
-        });
-        expect(plate.status(), await plate.text()).toBe(200);
-        const { version } = (await plate.json()) as { version: number };
-        const decided = await api.put(`/api/sites/${siteId}/components/${comp.id}/disposition`, {
-          data: { disposition: "replace", reason: "Flooded to the busbars; a whole breaker is wanted", version },
-        });
-        expect(decided.status(), await decided.text()).toBe(200);
-      }),
-    );
+  const decide = async (comp: { id: string; version: number }) => {
+    const plate = await api.patch(`/api/sites/${siteId}/components/${comp.id}`, {
+      data: { version: comp.version, maker: "Saltmarrow Switchgear (fictional)", model, ratingAmps: 250, poles: 3 },
+    });
+    expect(plate.status(), await plate.text()).toBe(200);
+    const { version } = (await plate.json()) as { version: number };
+    const decided = await api.put(`/api/sites/${siteId}/components/${comp.id}/disposition`, {
+      data: { disposition: "replace", reason: "Flooded to the busbars; a whole breaker is wanted", version },
+    });
+    expect(decided.status(), await decided.text()).toBe(200);
+  };
+  // The first four to ask are positions 10, 9, 11 and 2, one after another; the rest follow eight at a time.
+  const first = [10, 9, 11, 2].filter((n) => n <= comps.length);
+  for (const n of first) await decide(comps[n - 1]);
+  const rest = comps.filter((_, i) => !first.includes(i + 1));
+  for (let i = 0; i < rest.length; i += 8) await Promise.all(rest.slice(i, i + 8).map(decide));
   await api.dispose();
-  return { siteId, model, designations: comps.map((_, i) => `${prefix}${i + 1}`) };
+  const designations = comps.map((_, i) => `${prefix}${i + 1}`);
+  return { siteId, model, designations, firstFour: first.map((n) => designations[n - 1]) };
 }
 
 test("a line wanted by 53 positions: its row shows the first four and how many more, and its page reaches every one", async ({
@@ -183,7 +226,7 @@ test("a line wanted by 53 positions: its row shows the first four and how many m
   baseURL,
 }) => {
   test.setTimeout(180_000);
-  const { siteId, model, designations } = await lineOfManyPositions(baseURL!, 53);
+  const { siteId, model, designations, firstFour } = await lineOfManyPositions(baseURL!, 53);
   await signIn(page, "scrounger");
   await page.goto(`/sites/${siteId}/parts?q=${encodeURIComponent(model)}`);
   const row = page.getByTestId("part-row");
@@ -192,10 +235,17 @@ test("a line wanted by 53 positions: its row shows the first four and how many m
   await expect(row.getByRole("listitem")).toHaveCount(5); // four positions and "+49 more"
   const more = row.getByTestId("more-positions");
   await expect(more).toHaveText("+49 more");
+  // The first four to ask (10, 9, 11, 2), listed as the line's page lists them: numbers by value, 2, 9, 10, 11
+  // (as text: 10, 11, 2, 9).
+  const chips = (await row.getByRole("listitem").allInnerTexts()).slice(0, 4).map((t) => t.trim());
+  expect(chips).toEqual([...firstFour].sort(byValue));
+  expect(chips).toEqual([2, 9, 10, 11].map((n) => designations[n - 1]));
   await expectNoSeriousA11yViolations(page, "wanted list, a line of many positions");
   await page.screenshot({ path: shot("many-desktop"), fullPage: true });
   await page.setViewportSize({ width: 360, height: 780 });
   await expect(more).toBeVisible();
+  expect(await row.getByRole("listitem").allInnerTexts()).toEqual([...chips, "+49 more"]);
+  expect(await sidewaysScrollers(page), "a line of many positions at 360 px").toEqual([]);
   await page.screenshot({ path: shot("many-phone"), fullPage: true });
 
   await more.click();
@@ -205,9 +255,11 @@ test("a line wanted by 53 positions: its row shows the first four and how many m
   await page.getByRole("button", { name: "Show 3 more" }).click();
   await expect(items).toHaveCount(53);
   await expect(page.getByText("Showing 50 of 53")).toHaveCount(0);
-  const texts = (await items.allInnerTexts()).join("\n");
-  for (const d of designations) expect(texts).toMatch(new RegExp(`· ${d}\\b`));
+  // Every position once, in the order of their numbers (as text, M…-10 came before M…-2).
+  const shown = (await items.allInnerTexts()).map((t) => /· (\S+)/.exec(t)?.[1]);
+  expect(shown).toEqual(designations);
   await expectNoSeriousA11yViolations(page, "a line's positions, all pages");
+  expect(await sidewaysScrollers(page), "the line's page at 360 px").toEqual([]);
   await page.screenshot({ path: shot("many-line-phone"), fullPage: true });
   await page.setViewportSize({ width: 1280, height: 900 });
   await page.screenshot({ path: shot("many-line-desktop"), fullPage: true });

@@ -39,7 +39,7 @@ export function LineSummary({ line }: { line: PartLine }) {
         <span className="font-semibold">Qty {line.qty}</span>
       </div>
       {line.status === "cancelled" && <p className="text-mist">Cancelled: {line.cancelReason}</p>}
-      <dl className="grid grid-cols-2 gap-x-4 gap-y-1 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700 sm:grid-cols-4">
+      <dl className="grid grid-cols-2 gap-x-4 gap-y-1 rounded-lg bg-hull-850 p-4 ring-1 ring-hull-700 wrap-anywhere sm:grid-cols-4">
         {spec.map(([k, v]) => (
           <div key={k}>
             <dt className="text-xs uppercase tracking-wide text-fog">{k}</dt>

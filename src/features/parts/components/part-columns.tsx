@@ -73,7 +73,7 @@ export function partColumns(siteId: string) {
                 <li key={p.linkId}>
                   <Link
                     to={positionHref(siteId, p.boardId!, p.positionId!)}
-                    className="inline-flex min-h-8 items-center rounded bg-hull-800 px-1.5 font-mono text-sm"
+                    className="inline-flex min-h-8 items-center rounded bg-hull-800 px-1.5 font-mono text-sm wrap-anywhere"
                     title={p.boardName ?? ""}
                   >
                     {p.designation}
@@ -114,8 +114,13 @@ export function partColumns(siteId: string) {
       header: "Estimated / spent",
       sortFn: "basic",
       cell: (c) => (
-        <span className="whitespace-nowrap font-mono text-sm">
-          <Money value={c.row.original.estimated} /> / <Money value={c.row.original.spent} />
+        <span className="font-mono text-sm">
+          <span className="whitespace-nowrap">
+            <Money value={c.row.original.estimated} /> /
+          </span>{" "}
+          <span className="whitespace-nowrap">
+            <Money value={c.row.original.spent} />
+          </span>
         </span>
       ),
     }),

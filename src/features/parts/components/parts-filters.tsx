@@ -8,7 +8,8 @@ import {
 } from "../../../domain/vocab";
 import type { ListQuery } from "../../../schemas/parts";
 
-const select = "mt-1 block min-h-11 w-full rounded-md border border-hull-500 bg-hull-900 px-2 text-chalk";
+/** A labelled select of the list's controls (the filters here, the phone's sort in parts-table.tsx). */
+export const selectClass = "mt-1 block min-h-11 w-full rounded-md border border-hull-500 bg-hull-900 px-2 text-chalk";
 
 export function PartsFilters({
   value,
@@ -28,7 +29,7 @@ export function PartsFilters({
         Find
         <input
           type="search"
-          className={select}
+          className={selectClass}
           defaultValue={value.q ?? ""}
           placeholder="W-12, maker, model, frame…"
           onKeyDown={(e) => {
@@ -42,7 +43,7 @@ export function PartsFilters({
       </label>
       <label className="text-sm font-semibold text-mist">
         Status
-        <select className={select} value={value.status ?? "open"} onChange={set("status")}>
+        <select className={selectClass} value={value.status ?? "open"} onChange={set("status")}>
           <option value="open">Still open (not fitted)</option>
           <option value="all">Every status</option>
           {PART_STATUSES.map((s) => (
@@ -54,7 +55,7 @@ export function PartsFilters({
       </label>
       <label className="text-sm font-semibold text-mist">
         Board
-        <select className={select} value={value.boardId ?? ""} onChange={set("boardId")}>
+        <select className={selectClass} value={value.boardId ?? ""} onChange={set("boardId")}>
           <option value="">Every board</option>
           {boards.map((b) => (
             <option key={b.id} value={b.id}>
@@ -65,7 +66,7 @@ export function PartsFilters({
       </label>
       <label className="text-sm font-semibold text-mist">
         Kind
-        <select className={select} value={value.kind ?? ""} onChange={set("kind")}>
+        <select className={selectClass} value={value.kind ?? ""} onChange={set("kind")}>
           <option value="">Every kind</option>
           {COMPONENT_KINDS.map((k) => (
             <option key={k} value={k}>
@@ -76,7 +77,7 @@ export function PartsFilters({
       </label>
       <label className="text-sm font-semibold text-mist">
         Heritage rule
-        <select className={select} value={value.heritageRule ?? ""} onChange={set("heritageRule")}>
+        <select className={selectClass} value={value.heritageRule ?? ""} onChange={set("heritageRule")}>
           <option value="">Any rule</option>
           {HERITAGE_RULES.map((r) => (
             <option key={r} value={r}>

@@ -35,7 +35,7 @@ export function PositionsList({ siteId, lineId }: { siteId: string; lineId: stri
             {p.boardId && p.positionId ? (
               <Link
                 to={positionHref(siteId, p.boardId, p.positionId)}
-                className="inline-flex min-h-11 items-center font-mono font-semibold"
+                className="inline-flex min-h-11 items-center font-mono font-semibold wrap-anywhere"
               >
                 {p.boardName} · {p.designation}
               </Link>

@@ -47,7 +47,7 @@ export function PrintSheet({ lines }: { lines: SheetLine[] }) {
               no nameplate photo
             </div>
           )}
-          <div>
+          <div className="min-w-0 wrap-anywhere">
             <p className="text-sm text-mist print:text-black">
               Line {l.ref} · {COMPONENT_KIND_LABELS[l.kind]}
             </p>
