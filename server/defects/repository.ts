@@ -130,6 +130,9 @@ export const listCrew = (db: Db, siteId: string) =>
     .orderBy("u.name")
     .execute();
 
+export const boardName = (db: Db, siteId: string, boardId: string) =>
+  db.selectFrom("boards").select("name").where("siteId", "=", siteId).where("id", "=", boardId).executeTakeFirst();
+
 export const listBoards = (db: Db, siteId: string) =>
   db.selectFrom("boards").select(["id", "name"]).where("siteId", "=", siteId).orderBy("name").execute();
 export const listSections = (db: Db, siteId: string) =>
@@ -292,15 +295,6 @@ export async function findingContext(
   };
 }
 
-/** The site's pins in force (the curator's order). */
-export const activePins = (db: Db, siteId: string) =>
-  db
-    .selectFrom("defectPins")
-    .select(["defectId", "direction", "relativeTo"])
-    .where("siteId", "=", siteId)
-    .where("removedAt", "is", null)
-    .execute();
-
 /** Ends a pin (replaced, or unpinned with a reason). */
 export const removePin = (trx: Db, pinId: string, removedBy: string, removedReason: string) =>
   trx
@@ -392,3 +386,47 @@ export const defectsOfBoardReadings = (db: Db, siteId: string, boardId: string) 
     .where("l.siteId", "=", siteId)
     .where("d.boardId", "=", boardId)
     .execute();
+
+/**
+ * The site's active defects, each with its place in the ranked order among them (row_number over the register's
+ * rank keys; a pin counts only when its target is active too, as rankDefects ignores a pin to a defect outside
+ * the list). Narrow rows: the window sorts ids and keys, never the register's whole rows.
+ */
+const rankedActive = (siteId: string, active: readonly string[]) => sql`
+  SELECT d.id, d.board_id, d.section_id, d.effort_hours, d.cost_estimate,
+         row_number() over (order by ${rankOrderSql(false)}) AS place
+  FROM defects d
+  LEFT JOIN defect_pins pin ON pin.defect_id = d.id AND pin.removed_at IS NULL
+  LEFT JOIN defects t ON t.id = pin.relative_to AND t.status IN (${sql.join(active)})
+  WHERE d.site_id = ${siteId} AND d.status IN (${sql.join(active)})`;
+
+/** Per board and section: how many active defects, their effort and cost, and the best place among them. */
+export async function planTotals(db: Db, siteId: string, active: readonly string[]) {
+  const r = await sql<{
+    boardId: string;
+    boardName: string;
+    sectionId: string | null;
+    sectionName: string | null;
+    n: string;
+    effort: string | null;
+    unestimated: string;
+    cost: string | null;
+    firstPlace: string;
+  }>`
+    SELECT r.board_id AS "boardId", b.name AS "boardName", r.section_id AS "sectionId", s.name AS "sectionName",
+           count(*) AS n, sum(r.effort_hours) AS effort, count(*) FILTER (WHERE r.effort_hours IS NULL) AS unestimated,
+           sum(r.cost_estimate) AS cost, min(r.place) AS "firstPlace"
+    FROM (${rankedActive(siteId, active)}) r
+    JOIN boards b ON b.id = r.board_id
+    LEFT JOIN sections s ON s.id = r.section_id
+    GROUP BY r.board_id, b.name, r.section_id, s.name
+    ORDER BY min(r.place)`.execute(db);
+  return r.rows;
+}
+
+/** The places of one board's active defects in the site's ranked order. */
+export async function planPlacesOnBoard(db: Db, siteId: string, boardId: string, active: readonly string[]) {
+  const r = await sql<{ id: string; place: string }>`
+    SELECT r.id, r.place FROM (${rankedActive(siteId, active)}) r WHERE r.board_id = ${boardId}`.execute(db);
+  return new Map(r.rows.map((x) => [x.id, Number(x.place)]));
+}

@@ -22,7 +22,7 @@ import { requireSiteRole } from "../middleware/roles";
 import { streamCsv } from "./csv";
 import { registerPage } from "./reads";
 import { pin, unpin } from "./pins";
-import { detail, findingContext, formOptions, positionsOf, repairPlan, toJson } from "./reads";
+import { boardRepairPlan, detail, findingContext, formOptions, positionsOf, repairPlan, toJson } from "./reads";
 import { defectsOfBoardReadings, evidenceOf } from "./evidence";
 import * as service from "./service";
 import * as views from "./views";
@@ -79,6 +79,11 @@ export function defectRoutes(db: Db, mail?: MailDeps) {
 
   r.get("/sites/:siteId/repair-plan", member, async (req, res) => {
     res.json(await repairPlan(db, ctxOf(req, res).siteId));
+  });
+
+  r.get("/sites/:siteId/repair-plan/boards/:boardId", member, async (req, res) => {
+    const { siteId, boardId } = boardParams.parse(req.params);
+    res.json(await boardRepairPlan(db, siteId, boardId));
   });
 
   r.get(`${base}/views`, member, async (req, res) => {

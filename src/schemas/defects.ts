@@ -280,25 +280,43 @@ export const positionsResponse = z.object({
 export const viewSchema = z.object({ id: text(), name: text(), query: text(), version: z.number(), updatedAt: text() });
 export type SavedView = z.infer<typeof viewSchema>;
 
+const planTotals = {
+  count: z.number().int(),
+  effortHours: z.number(),
+  unestimated: z.number().int(),
+  cost: z.number(),
+  /** The best place among these defects in the site's ranked order. */
+  firstRank: z.number().int(),
+};
+/** The repair plan's first page: totals per board and section, no defects. */
 export const planResponse = z.object({
   boards: z.array(
     z.object({
       boardId: text(),
       boardName: text(),
-      sections: z.array(
-        z.object({
-          sectionId: text().nullable(),
-          sectionName: text(),
-          effortHours: z.number(),
-          unestimated: z.number(),
-          cost: z.number(),
-          defects: z.array(defectRowSchema.extend({ rank: z.number() })),
-        }),
-      ),
+      ...planTotals,
+      sections: z.array(z.object({ sectionId: text().nullable(), sectionName: text(), ...planTotals })),
     }),
   ),
 });
 export type RepairPlan = z.infer<typeof planResponse>;
+
+/** One board's part of the plan: its active defects by section, each with its place in the site's order. */
+export const boardPlanResponse = z.object({
+  boardId: text(),
+  boardName: text(),
+  sections: z.array(
+    z.object({
+      sectionId: text().nullable(),
+      sectionName: text(),
+      effortHours: z.number(),
+      unestimated: z.number(),
+      cost: z.number(),
+      defects: z.array(defectRowSchema.extend({ rank: z.number() })),
+    }),
+  ),
+});
+export type BoardRepairPlan = z.infer<typeof boardPlanResponse>;
 
 export const contextResponse = z.object({
   context: z

@@ -126,6 +126,7 @@ export const ACCESS: Record<string, Access> = {
   "GET /api/sites/:siteId/defect-positions/:boardId": "member",
   "GET /api/sites/:siteId/defect-context": "member",
   "GET /api/sites/:siteId/repair-plan": "member",
+  "GET /api/sites/:siteId/repair-plan/boards/:boardId": "member",
   "GET /api/sites/:siteId/defects/views": "member",
   "POST /api/sites/:siteId/defects/views": "member",
   "PUT /api/sites/:siteId/defects/views/:viewId": "member",

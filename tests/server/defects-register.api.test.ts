@@ -493,20 +493,99 @@ describe("CSV download over HTTP", () => {
 });
 
 describe("repair plan", () => {
-  it("lists only active defects per board and section in rank order, with effort and cost totals", async () => {
+  const ACTIVE = ["raised", "scheduled", "under_repair", "awaiting_retest"];
+  // The expected order: rankDefects() of src/domain/priority.ts over the active defects, with the pins
+  // still in place (a pin to a defect that is not active is ignored, as rankDefects ignores a target not listed).
+  async function expectedOrder() {
+    const rows = await t.db
+      .selectFrom("defects as d")
+      .leftJoin("defectPins as pin", (j) => j.onRef("pin.defectId", "=", "d.id").on("pin.removedAt", "is", null))
+      .select([
+        "d.id",
+        "d.boardId",
+        "d.sectionId",
+        "d.priorityScore",
+        "d.safetyCritical",
+        "d.createdAt",
+        "d.effortHours",
+        "d.costEstimate",
+        "pin.direction",
+        "pin.relativeTo",
+      ])
+      .where("d.siteId", "=", fx.siteId)
+      .where("d.status", "in", ACTIVE as never)
+      .execute();
+    const ranked = rankDefects(
+      rows.map((d) => ({
+        id: d.id,
+        score: d.priorityScore,
+        safetyCritical: d.safetyCritical,
+        createdAt: d.createdAt.toISOString(),
+        pin: d.direction && d.relativeTo ? { direction: d.direction, relativeTo: d.relativeTo } : null,
+      })),
+    );
+    const byId = new Map(rows.map((r) => [r.id, r]));
+    return ranked.map((r, i) => ({ ...byId.get(r.id)!, rank: i + 1 }));
+  }
+
+  it("the first page is totals per board and section (no defects), its places those of rankDefects()", async () => {
     const r = await viewer.get(`/api/sites/${fx.siteId}/repair-plan`);
     expect(r.status).toBe(200);
-    const active = await direct("AND d.status IN ('raised','scheduled','under_repair','awaiting_retest')", "d.ref");
-    const listed = r.body.boards.flatMap((b: any) => b.sections.flatMap((s: any) => s.defects));
-    expect(listed.length).toBe(active.length);
-    for (const b of r.body.boards)
+    expect(JSON.stringify(r.body)).not.toContain('"defects"');
+    const expected = await expectedOrder();
+    expect(expected.some((d) => d.direction)).toBe(true); // the pins of the ranked test above are in play
+    const sum = (xs: typeof expected, f: (d: (typeof expected)[number]) => number) => xs.reduce((a, d) => a + f(d), 0);
+    let count = 0;
+    for (const b of r.body.boards) {
+      const mine = expected.filter((d) => d.boardId === b.boardId);
+      expect(b.count).toBe(mine.length);
+      expect(b.firstRank).toBe(Math.min(...mine.map((d) => d.rank)));
+      expect(b.effortHours).toBeCloseTo(sum(mine, (d) => d.effortHours ?? 0));
+      expect(b.unestimated).toBe(mine.filter((d) => d.effortHours === null).length);
+      expect(b.cost).toBeCloseTo(sum(mine, (d) => d.costEstimate ?? 0));
+      expect(sum(b.sections, (s: { count: number }) => s.count)).toBe(b.count);
       for (const s of b.sections) {
+        const inSection = mine.filter((d) => (d.sectionId ?? null) === s.sectionId);
+        expect(s.count).toBe(inSection.length);
+        expect(s.firstRank).toBe(Math.min(...inSection.map((d) => d.rank)));
+      }
+      count += b.count;
+    }
+    expect(count).toBe(expected.length);
+  });
+
+  it("a board's part lists its active defects per section in the site's order, numbered as rankDefects() does", async () => {
+    const expected = await expectedOrder();
+    const plan = (await viewer.get(`/api/sites/${fx.siteId}/repair-plan`)).body;
+    const listed: { id: string; rank: number }[] = [];
+    for (const b of plan.boards) {
+      const r = await viewer.get(`/api/sites/${fx.siteId}/repair-plan/boards/${b.boardId}`);
+      expect(r.status).toBe(200);
+      expect(r.body.boardName).toBe(b.boardName);
+      const firsts = r.body.sections.map((s: any) => s.defects[0].rank);
+      expect(firsts).toEqual([...firsts].sort((x: number, y: number) => x - y));
+      for (const s of r.body.sections) {
         const ranks = s.defects.map((d: any) => d.rank);
-        expect(ranks).toEqual([...ranks].sort((x, y) => x - y));
+        expect(ranks).toEqual([...ranks].sort((x: number, y: number) => x - y));
         expect(s.effortHours).toBeCloseTo(s.defects.reduce((a: number, d: any) => a + (d.effortHours ?? 0), 0));
         expect(s.cost).toBe(s.defects.reduce((a: number, d: any) => a + (d.costEstimate ?? 0), 0));
         expect(s.unestimated).toBe(s.defects.filter((d: any) => d.effortHours === null).length);
+        expect(s.defects.every((d: any) => d.boardId === b.boardId && ACTIVE.includes(d.status))).toBe(true);
+        listed.push(...s.defects.map((d: any) => ({ id: d.id, rank: d.rank })));
       }
+    }
+    expect(listed.sort((a, b) => a.rank - b.rank)).toEqual(expected.map((d) => ({ id: d.id, rank: d.rank })));
+  });
+
+  it("another site's board or no board is a 404, a bad id a 400, signed out a 401", async () => {
+    const none = "00000000-0000-4000-8000-000000000000";
+    expect((await viewer.get(`/api/sites/${fx.siteId}/repair-plan/boards/${none}`)).status).toBe(404);
+    const bad = await viewer.get(`/api/sites/${fx.siteId}/repair-plan/boards/not-a-board`);
+    expect(bad.status).toBe(400);
+    expect(JSON.stringify(bad.body)).toMatch(/boardId/);
+    const plan = (await viewer.get(`/api/sites/${fx.siteId}/repair-plan`)).body;
+    const anon = server.client();
+    expect((await anon.get(`/api/sites/${fx.siteId}/repair-plan/boards/${plan.boards[0].boardId}`)).status).toBe(401);
   });
 });
 

@@ -9,6 +9,7 @@ import {
   defectRowSchema,
   listResponse,
   optionsResponse,
+  boardPlanResponse,
   planResponse,
   positionsResponse,
   viewSchema,
@@ -27,6 +28,7 @@ export const defectKeys = {
   positions: (siteId: string, boardId: string) => [...defectKeys.all(siteId), "positions", boardId] as const,
   views: (siteId: string) => [...defectKeys.all(siteId), "views"] as const,
   plan: (siteId: string) => [...defectKeys.all(siteId), "plan"] as const,
+  boardPlan: (siteId: string, boardId: string) => [...defectKeys.all(siteId), "plan", boardId] as const,
   evidence: (siteId: string, id: string) => [...defectKeys.all(siteId), "evidence", id] as const,
 };
 const base = (siteId: string) => `/api/sites/${siteId}/defects`;
@@ -77,6 +79,14 @@ export const useRepairPlan = (siteId: string) =>
   useQuery({
     queryKey: defectKeys.plan(siteId),
     queryFn: ({ signal }) => api.get(`/api/sites/${siteId}/repair-plan`, planResponse, signal),
+  });
+
+/** One board's part of the plan, read only once a board is chosen. */
+export const useBoardRepairPlan = (siteId: string, boardId: string | null) =>
+  useQuery({
+    queryKey: defectKeys.boardPlan(siteId, boardId ?? ""),
+    queryFn: ({ signal }) => api.get(`/api/sites/${siteId}/repair-plan/boards/${boardId}`, boardPlanResponse, signal),
+    enabled: !!boardId,
   });
 
 export const useSavedViews = (siteId: string) =>
