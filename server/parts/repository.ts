@@ -516,8 +516,14 @@ export const nameplatePhotos = (db: Db, componentIds: string[]) =>
         .execute()
     : Promise.resolve([]);
 
+/** The site's boards for the list's board filter, names compared `byValue` ("Deck 9" before "Deck 10"). */
 export const boardsOfSite = (db: Db, siteId: string) =>
-  db.selectFrom("boards").select(["id", "name"]).where("siteId", "=", siteId).orderBy("name").execute();
+  db
+    .selectFrom("boards")
+    .select(["id", "name"])
+    .where("siteId", "=", siteId)
+    .orderBy(byValue(sql.ref("name")))
+    .execute();
 
 /** Every demand link on a position (active, withdrawn or fitted), with its line. */
 export const demandLinksOfPosition = (trx: Db, siteId: string, positionId: string) =>

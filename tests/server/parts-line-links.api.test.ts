@@ -231,6 +231,13 @@ describe("numbers in names and designations compare by value, the same everywher
     expect(cell.startsWith(expected.flatMap((e) => (e === "Deck 9 Q9" ? [e, e] : [e])).join("; "))).toBe(true);
   });
 
+  it("the board filter lists the boards the same way", async () => {
+    const r = await crew.get(`/api/sites/${siteId}/parts`);
+    const names = (r.body.boards as Array<{ name: string }>).map((b) => b.name);
+    expect(names).toEqual(["Aft distribution", "Deck 9", "Deck 10", "Main switchboard"]);
+    expect(names).toEqual([...names].sort(collator.compare));
+  });
+
   it("sorting the list by positions compares each line's first designation by value too", async () => {
     type Row = { id: string; positions: Array<{ designation: string }> };
     const order = async (dir: string) => {
