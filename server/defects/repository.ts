@@ -9,22 +9,50 @@ export const findRow = async (db: Db, siteId: string, id: string) =>
   (await registerBase(db, siteId).select(ROW_SELECTION).where("d.id", "=", id).executeTakeFirst()) as
     RegisterRow | undefined;
 
-/** Locks the defect row for the rest of the transaction (serialises concurrent moves). */
+/**
+ * Locks the defect row for the rest of the transaction (serialises concurrent moves). FOR NO KEY UPDATE, the
+ * lock an UPDATE of it takes anyway: another writer's row that names this defect (a wanted-list link, a status
+ * change, a reading link) checks its foreign key without waiting for this lock, so a writer that holds the
+ * site's demand lock never waits for one that holds a defect and waits for the demand lock (DEVELOPERS.md,
+ * "Lock order of the wanted list's writers").
+ */
 export const lockDefect = (db: Db, siteId: string, id: string) =>
-  db.selectFrom("defects").selectAll().where("siteId", "=", siteId).where("id", "=", id).forUpdate().executeTakeFirst();
+  db
+    .selectFrom("defects")
+    .selectAll()
+    .where("siteId", "=", siteId)
+    .where("id", "=", id)
+    .forNoKeyUpdate()
+    .executeTakeFirst();
 
-/** Locks these defects of the site in id order (one order for every writer that takes several). */
-export const lockDefects = (db: Db, siteId: string, ids: readonly string[]) =>
-  ids.length
-    ? db
-        .selectFrom("defects")
-        .select("id")
-        .where("siteId", "=", siteId)
-        .where("id", "in", [...ids])
-        .orderBy("id")
-        .forUpdate()
-        .execute()
-    : Promise.resolve([]);
+/**
+ * Locks, in id order (one order for every writer that takes several), these defects of the site and those
+ * on these positions or of these components (FOR NO KEY UPDATE, as `lockDefect`).
+ */
+export const lockDefects = (
+  db: Db,
+  siteId: string,
+  of: { ids?: readonly string[]; componentIds?: readonly string[]; positionIds?: readonly string[] },
+) => {
+  const ids = [...(of.ids ?? [])];
+  const componentIds = [...(of.componentIds ?? [])];
+  const positionIds = [...(of.positionIds ?? [])];
+  if (!ids.length && !componentIds.length && !positionIds.length) return Promise.resolve([]);
+  return db
+    .selectFrom("defects")
+    .select("id")
+    .where("siteId", "=", siteId)
+    .where((eb) =>
+      eb.or([
+        ...(ids.length ? [eb("id", "in", ids)] : []),
+        ...(componentIds.length ? [eb("componentId", "in", componentIds)] : []),
+        ...(positionIds.length ? [eb("positionId", "in", positionIds)] : []),
+      ]),
+    )
+    .orderBy("id")
+    .forNoKeyUpdate()
+    .execute();
+};
 
 export const insertDefect = (db: Db, v: Insertable<Database["defects"]>) =>
   db.insertInto("defects").values(v).returning("id").executeTakeFirstOrThrow();

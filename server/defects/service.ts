@@ -49,7 +49,9 @@ export async function scoreFor(db: Db, siteId: string, d: Scored & Pick<Locked, 
 
 /**
  * A component's heritage changed (inventory calls this in its transaction): the defects linked to
- * it are ranked again, since original fabric weighs in their priority.
+ * it are ranked again, since original fabric weighs in their priority. The caller has locked those
+ * defects with `lockDefectsFor(…, { componentIds })` before the site's demand lock: this writes them
+ * after it (the wanted list's lock order, DEVELOPERS.md).
  */
 export async function componentHeritageChanged(trx: Db, siteId: string, componentIds: string[]) {
   if (!componentIds.length) return;
@@ -122,13 +124,21 @@ async function resolveLinks(
   return out;
 }
 
-/** Inserts a defect with its first status and audit entry, inside the caller's transaction. */
+/**
+ * Inserts a defect with its first status and audit entry, inside the caller's transaction. The site's demand
+ * lock comes first: the insert writes its board × status × severity tally row, which comes after that lock
+ * in the wanted list's lock order (parts/service.ts `holdDemand`), and the caller syncs the wanted list later.
+ * The rows it names (board, position, component…) are checked after the lock too: a writer that changes them
+ * locks them FOR NO KEY UPDATE, which a foreign-key check does not wait for, and one that deletes them holds
+ * the demand lock before it deletes.
+ */
 async function insertRaised(
   trx: Db,
   ctx: Pick<Ctx, "siteId" | "actor">,
   body: Omit<CreateDefectBody, "assigneeId" | "fromReading">,
   auditAction = "create",
 ) {
+  await holdDemand(trx, ctx.siteId);
   const links = await resolveLinks(trx, ctx.siteId, body);
   const values = { ...body, ...links, siteId: ctx.siteId, createdBy: ctx.actor.id };
   const { score } = await scoreFor(trx, ctx.siteId, { ...values, effortHours: values.effortHours });
@@ -159,8 +169,7 @@ export async function createDefect(db: Db, ctx: Ctx, body: CreateDefectBody) {
     throw forbidden("Only the curator assigns defects and sets due dates.");
   return db.transaction().execute(async (trx) => {
     const { assigneeId, fromReading, ...rest } = body;
-    await holdDemand(trx, ctx.siteId); // before its tally row: the wanted list's lock order (parts/service.ts)
-    const id = await insertRaised(trx, ctx, rest);
+    const id = await insertRaised(trx, ctx, rest); // the demand lock, then its tally row (the wanted list's lock order)
     if (assigneeId) await assign(trx, ctx, await lockAt(trx, ctx, id), assigneeId);
     if (fromReading)
       await linkReading(trx, ctx.siteId, ctx.actor.id, (await lockAt(trx, ctx, id))!, {
@@ -194,7 +203,9 @@ export async function addReadingLink(
  * An incident defect opened by another domain (return to service) inside ITS transaction:
  * always safety-critical and blocking energisation, open, unassigned, raised in the name of
  * whoever recorded the incident (whatever their role: the incident itself is the finding).
- * Audited as `incident`. Returns the defect's id and reference.
+ * Audited as `incident`. Returns the defect's id and reference. Like any raise it takes the site's
+ * demand lock before its tally row and brings the wanted list in line in the caller's transaction; a
+ * caller that writes rows of its own first (a watch check) calls `holdForRaise` before them.
  */
 export async function raiseIncidentDefect(
   trx: Db,
@@ -242,8 +253,18 @@ export async function raiseIncidentDefect(
       { id, componentId: null, boardId: b.boardId, positionId: b.positionId },
       { ...b.raisedFrom, role: "raised_from" },
     );
+  // It asks for no part today; the wanted list follows it by the same rule as every raise.
+  await demandChanged(trx, ctx.siteId, { defectIds: [id] }, ctx.actor.id);
   return { id, ref: Number(row!.ref) };
 }
+
+/**
+ * What a raise takes before it writes (the site's demand lock), for a use case of another domain that writes
+ * rows of its own and may then raise a defect in the same transaction (return to service: the watch check, then
+ * its incidents). Its rows may name register rows (a position) that a deletion, holding the demand lock, is
+ * waiting to delete; taken first, the two wait in line instead of on each other. Re-entrant.
+ */
+export const holdForRaise = (trx: Db, siteId: string) => holdDemand(trx, siteId);
 
 export async function patchDefect(db: Db, ctx: Ctx, id: string, body: PatchDefectBody) {
   return db.transaction().execute(async (trx) => {
@@ -412,6 +433,18 @@ export async function transition(
 }
 
 /**
+ * Locks defects another domain's use case will write later in its transaction — through `partFitted`, by
+ * re-ranking them (`componentHeritageChanged`), or by deleting what they are on (a position) — in id order and
+ * before that use case takes the site's demand lock (the wanted list's lock order, see server/parts/workflow.ts):
+ * these defects, and those of these components or on these positions.
+ */
+export const lockDefectsFor = (
+  trx: Db,
+  siteId: string,
+  of: { ids?: readonly string[]; componentIds?: readonly string[]; positionIds?: readonly string[] },
+) => repo.lockDefects(trx, siteId, of);
+
+/**
  * The part the wanted list sourced for this defect was fitted (the parts workflow, inside ITS
  * transaction): its parts are in hand (priority re-scored, audited), and it moves on to
  * "awaiting re-test" through transition() — history row, audit, the notice — only where the
@@ -419,14 +452,6 @@ export async function transition(
  * or the volunteer doing it). Otherwise its status stays where it is and whoever repairs it
  * moves it on; a part arriving never skips the workflow.
  */
-/**
- * Locks defects another domain's use case will write through `partFitted` later in its transaction, in
- * id order and before that use case takes its own locks (the wanted list's lock order, see
- * server/parts/workflow.ts).
- */
-export const lockDefectsFor = (trx: Db, siteId: string, ids: readonly string[]) =>
-  repo.lockDefects(trx, siteId, [...new Set(ids)]);
-
 export async function partFitted(trx: Db, ctx: Ctx, defectId: string, note: string) {
   let d = await repo.lockDefect(trx, ctx.siteId, defectId);
   if (!d) return null;
@@ -484,7 +509,7 @@ export async function bulk(db: Db, ctx: Ctx, b: BulkBody) {
     const errors: Record<string, string> = {};
     // The defects in id order, then (a status move writes their tally rows and the wanted list) the demand
     // lock: the one order every writer takes them in (the wanted list's lock order, parts/service.ts).
-    await repo.lockDefects(trx, ctx.siteId, ids);
+    await repo.lockDefects(trx, ctx.siteId, { ids });
     if (b.action.type === "status") await holdDemand(trx, ctx.siteId);
     for (const id of ids) {
       const d = await repo.lockDefect(trx, ctx.siteId, id);

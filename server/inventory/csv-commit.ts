@@ -10,7 +10,7 @@ import * as csvRepo from "./csv-repository";
 import type { Db } from "../db";
 import { AppError } from "../errors";
 import { demandChanged } from "../parts/service";
-import { componentHeritageChanged } from "../defects/service";
+import { componentHeritageChanged, lockDefectsFor } from "../defects/service";
 import type { DecodedText } from "../csv-read";
 import { UNIQUE, mapUnique, updateVersioned } from "./common";
 import { answerOf, validateImport, type PlannedRow } from "./csv-import";
@@ -126,6 +126,8 @@ export async function commitImport(
     await writeCreates(trx, siteId, actorId, creates, boards, sectionOf, audit);
     const componentIds = await writeUpdates(trx, siteId, actorId, updates, sectionOf, audit);
     await recordAuditMany(trx, audit);
+    // Their defects are re-ranked after the wanted list's sync: taken first, before the demand lock (the lock order).
+    if (componentIds.length) await lockDefectsFor(trx, siteId, { componentIds });
     if (componentIds.length) await demandChanged(trx, siteId, { componentIds }, actorId); // nameplates move wanted-list demand
     if (componentIds.length) await componentHeritageChanged(trx, siteId, componentIds); // so does original fabric, for defects
     await refreshBoardSummaries(trx, [

@@ -1,6 +1,12 @@
 /**
  * The inventory tables every inventory service edits the same way: one row of a site by id (optionally
  * locked), and the optimistic-version update (UPDATE … WHERE id AND version … RETURNING).
+ *
+ * The lock is FOR NO KEY UPDATE, the one the UPDATE takes anyway (a DELETE takes the stronger one itself):
+ * it serialises writers of the row, and a row of another table that only names it (a defect on a component, a
+ * wanted-list link to a position) checks its foreign key without waiting for it. With FOR UPDATE such a check
+ * waited for the lock holder, and a writer holding the site's demand lock waited for one waiting for that lock
+ * (DEVELOPERS.md, "Lock order of the wanted list's writers").
  */
 import { sql } from "kysely";
 import type { Db } from "../db";
@@ -19,7 +25,7 @@ export async function findOwned<T extends Editable>(
     .selectAll()
     .where("id", "=", id)
     .where("siteId", "=", siteId);
-  if (lock) q = q.forUpdate();
+  if (lock) q = q.forNoKeyUpdate();
   return (await q.executeTakeFirst()) as Row<T> | undefined;
 }
 

@@ -239,6 +239,18 @@ export const setSortOrder = (db: Db, id: string, sortOrder: number) =>
 
 export const deletePosition = (db: Db, id: string) => db.deleteFrom("positions").where("id", "=", id).execute();
 
+/** Locks every component of the position (retired ones too: they go with it), in id order; their ids. */
+export const lockComponentsOfPosition = async (db: Db, positionId: string) =>
+  (
+    await db
+      .selectFrom("components")
+      .select("id")
+      .where("positionId", "=", positionId)
+      .orderBy("id")
+      .forNoKeyUpdate()
+      .execute()
+  ).map((r) => r.id);
+
 export const currentComponent = (db: Db, positionId: string) =>
   db
     .selectFrom("components")

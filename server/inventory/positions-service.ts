@@ -7,7 +7,8 @@ import type { Db } from "../db";
 import { AppError } from "../errors";
 import { UNIQUE, defined, mapUnique, requireOwned, stale, updateVersioned } from "./common";
 import * as repo from "./positions-repository";
-import { demandChanged, demandOfPosition } from "../parts/service";
+import { demandChanged, demandOfPosition, holdDemand } from "../parts/service";
+import { lockDefectsFor } from "../defects/service";
 import { refreshBoardSummaries } from "./board-summaries-repository";
 
 type Board = Selectable<BoardsTable>;
@@ -276,6 +277,13 @@ export async function deletePosition(db: Db, siteId: string, id: string, actorId
   await db.transaction().execute(async (trx) => {
     const before = await requireOwned(trx, "positions", siteId, id, "That position", true);
     if (version !== undefined && before.version !== version) throw stale("position", before);
+    // The delete goes on to its components (deleted) and the defects on it or them (left standing, unplaced):
+    // the wanted list's lock order takes them all, then the site's demand lock, then deletes. Held first, the
+    // demand lock also keeps a writer past it that names this position (a defect, a link) from waiting on a
+    // delete that waits on it.
+    const componentIds = await repo.lockComponentsOfPosition(trx, id);
+    await lockDefectsFor(trx, siteId, { componentIds, positionIds: [id] });
+    await holdDemand(trx, siteId);
     const component = await repo.currentComponent(trx, id);
     const demand = await demandOfPosition(trx, siteId, id);
     await repo.deletePosition(trx, id);

@@ -18,7 +18,10 @@ export const newestInspection = <C extends `i.${keyof InspectionsTable & string}
     .limit(1)
     .as("li");
 
-/** Locks these components of the site in id order (one order for every writer that takes several). */
+/**
+ * Locks these components of the site in id order (one order for every writer that takes several), FOR NO KEY
+ * UPDATE as `findOwned` does (owned-repository.ts).
+ */
 export const lockComponents = (db: Db, siteId: string, ids: readonly string[]) =>
   ids.length
     ? db
@@ -27,7 +30,7 @@ export const lockComponents = (db: Db, siteId: string, ids: readonly string[]) =
         .where("siteId", "=", siteId)
         .where("id", "in", [...ids])
         .orderBy("id")
-        .forUpdate()
+        .forNoKeyUpdate()
         .execute()
     : Promise.resolve([]);
 

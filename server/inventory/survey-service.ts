@@ -32,7 +32,7 @@ import {
   type CustodyFacts,
 } from "../../src/domain/custody-chain";
 import { demandChanged } from "../parts/service";
-import { componentHeritageChanged } from "../defects/service";
+import { componentHeritageChanged, lockDefectsFor } from "../defects/service";
 import { refreshBoardSummaries } from "./board-summaries-repository";
 
 type Inspect = z.output<typeof createInspectionBody>;
@@ -55,6 +55,9 @@ export async function patchComponent(db: Db, siteId: string, id: string, actorId
   return db.transaction().execute(async (trx) => {
     const before = await requireOwned(trx, "components", siteId, id, "That component", true);
     if (before.version !== version) throw stale("component", before);
+    const heritageChanges = patch.heritage !== undefined && patch.heritage !== before.heritage;
+    // Its defects are re-ranked after the wanted list's sync: taken now, before the demand lock (the lock order).
+    if (heritageChanges) await lockDefectsFor(trx, siteId, { componentIds: [id] });
     const after = await mapUnique(
       () => updateVersioned(trx, "components", siteId, id, version, patch, "component"),
       UNIQUE.tag,
@@ -73,8 +76,7 @@ export async function patchComponent(db: Db, siteId: string, id: string, actorId
         after: d.after,
       });
     if (d.changed) await demandChanged(trx, siteId, { componentIds: [id] }, actorId); // a nameplate change moves its wanted-list demand
-    if (patch.heritage !== undefined && patch.heritage !== before.heritage)
-      await componentHeritageChanged(trx, siteId, [id]); // original fabric weighs in its defects' priority
+    if (heritageChanges) await componentHeritageChanged(trx, siteId, [id]); // original fabric weighs in its defects' priority
     if (countedChange(before as never, patch))
       await refreshBoardSummaries(trx, [await boardOf(trx, before.positionId)]);
     return after;

@@ -18,7 +18,7 @@ export const componentsToTag = (trx: Db, siteId: string, positionIds: string[]) 
     .orderBy("p.boardId")
     .orderBy("p.sortOrder")
     .orderBy("p.designation")
-    .forUpdate("c")
+    .forNoKeyUpdate("c")
     .execute();
 
 /** Every tag number in use on the site (retired components' too). */

@@ -90,10 +90,12 @@ export async function moveLineStatus(db: Db, siteId: string, lineId: string, b: 
  * line rows, then the budget lock (`holdBudget`), then the boards' summary locks. A disposition
  * change holds its component and then syncs the demand (demand lock → lines → budget); a status move
  * used to take its line and the budget lock first and its components last, so the two could wait on
- * each other in a circle. Now the move takes the components (and, to fit, the defects) its line's
- * links name before anything else, and the two wait in line instead. The links are read unlocked to
- * know what to lock; they change only under the demand lock, so a link added between that read and
- * the demand lock (rare) has its component taken later, out of order, as before.
+ * each other in a circle. Now the move takes the components (and, to fit, the defects — the links' and
+ * the components' own) its line's links name before anything else, and the two wait in line instead.
+ * The links are read unlocked to know what to lock; they change only under the demand lock, so a link
+ * added between that read and the demand lock (rare) has its component taken later, out of order, as
+ * before. Rows are locked FOR NO KEY UPDATE (the lock their UPDATE takes anyway), so a writer past the
+ * demand lock that only names one of them (a foreign key) never waits for it.
  */
 async function lockInOrder(trx: Db, siteId: string, lineId: string, to: Body["to"]) {
   if (to === "received" || to === "fitted") {
@@ -103,12 +105,13 @@ async function lockInOrder(trx: Db, siteId: string, lineId: string, to: Body["to
       siteId,
       links.flatMap((l) => (l.componentId ? [l.componentId] : [])),
     );
+    // To fit: the linked defects, and every defect of the linked components (a fitted part can change its
+    // component's heritage, which re-ranks them), all in one id order.
     if (to === "fitted")
-      await defects.lockDefectsFor(
-        trx,
-        siteId,
-        links.flatMap((l) => (l.defectId ? [l.defectId] : [])),
-      );
+      await defects.lockDefectsFor(trx, siteId, {
+        ids: links.flatMap((l) => (l.defectId ? [l.defectId] : [])),
+        componentIds: links.flatMap((l) => (l.componentId ? [l.componentId] : [])),
+      });
   }
   await repo.lockSiteParts(trx, siteId);
 }

@@ -33,7 +33,7 @@ import type {
 import { can, type Action } from "../../src/domain/permissions";
 import { recordAudit } from "../audit";
 import type { Db } from "../db";
-import { raiseIncidentDefect } from "../defects/service";
+import { holdForRaise, raiseIncidentDefect } from "../defects/service";
 import { AppError, conflict, forbidden, notFound } from "../errors";
 import * as repo from "./repository";
 import { boardView, loadSettings } from "./view";
@@ -807,6 +807,14 @@ export async function recordWatchCheck(
     const clock = judgeDeviceTime({ deviceAt, deviceNow, serverNow: now, notBefore: s.energisedAt });
     if (!clock.ok) throw invalid("at", clock.message);
     const at = clock.at;
+    const { level } =
+      body.thermalC != null && body.ambientC != null
+        ? classifyTemperatureRise({ overAmbientC: body.thermalC - body.ambientC })
+        : { level: 0 };
+    // A check that opens an incident raises a defect: what a raise takes first (the site's demand lock) comes
+    // before the check's own row, which names the thermal position (DEVELOPERS.md, "Lock order of the wanted
+    // list's writers"), and before that position is looked up (a deletion holding the lock has then finished).
+    if (body.lamps === "one_dark" || level >= 3) await holdForRaise(trx, ctx.siteId);
     if (body.thermalPositionId) {
       const p = (await repo.listPositions(trx, s.boardId)).find((x) => x.id === body.thermalPositionId);
       if (!p) throw invalid("thermalPositionId", "That position is not on this board.");
@@ -842,21 +850,18 @@ export async function recordWatchCheck(
           summary: `Ground lamp dark on phase ${body.lampPhase} during the watch of “${s.name}”`,
         }),
       );
-    if (body.thermalC != null && body.ambientC != null) {
-      const { level } = classifyTemperatureRise({ overAmbientC: body.thermalC - body.ambientC });
-      if (level >= 3) {
-        const fresh = (await repo.findStage(trx, ctx.siteId, stageId))!;
-        incidents.push(
-          await openIncident(trx, ctx, fresh, {
-            kind: "hot_spot",
-            positionId: body.thermalPositionId,
-            at,
-            watchCheckId: check.id,
-            note: body.note,
-            summary: `Thermal level ${level}: ${body.thermalC} °C with air at ${body.ambientC} °C during the watch of “${s.name}”`,
-          }),
-        );
-      }
+    if (level >= 3) {
+      const fresh = (await repo.findStage(trx, ctx.siteId, stageId))!;
+      incidents.push(
+        await openIncident(trx, ctx, fresh, {
+          kind: "hot_spot",
+          positionId: body.thermalPositionId,
+          at,
+          watchCheckId: check.id,
+          note: body.note,
+          summary: `Thermal level ${level}: ${body.thermalC} °C with air at ${body.ambientC} °C during the watch of “${s.name}”`,
+        }),
+      );
     }
     return {
       check,
