@@ -113,8 +113,9 @@ export function partColumns(siteId: string) {
       id: "estimated",
       header: "Estimated / spent",
       sortFn: "basic",
+      // One line in the table; on a phone's card the two amounts may take two.
       cell: (c) => (
-        <span className="font-mono text-sm">
+        <span className="font-mono text-sm md:whitespace-nowrap">
           <span className="whitespace-nowrap">
             <Money value={c.row.original.estimated} /> /
           </span>{" "}
