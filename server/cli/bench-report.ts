@@ -61,6 +61,7 @@ async function memoryPhotos() {
     listKeys: async () => [],
     get: async (key) => Readable.from([bytesOf(key)]),
     getBytes: async (key) => bytesOf(key),
+    decodeSource: async (key) => bytesOf(key),
   };
   return { storage, pool };
 }

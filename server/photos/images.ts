@@ -4,7 +4,7 @@
  * stripped, and two upright JPEG renditions without any metadata (no EXIF, no GPS, no ICC).
  * Facts about sharp are those of its documentation for 0.35.5, the pinned version.
  */
-import { open, stat } from "node:fs/promises";
+import { open, readFile, stat } from "node:fs/promises";
 import exifr from "exifr";
 import sharp, { type Sharp } from "sharp";
 import { AppError } from "../errors";
@@ -95,34 +95,46 @@ async function captureFacts(src: Source): Promise<{ capturedAt: Date | null; cam
   }
 }
 
+/** The file's last bytes (at most 64), for `looksComplete`; null when they cannot be read. */
+async function lastBytes(src: Source): Promise<Buffer | null> {
+  if (typeof src !== "string") return src.subarray(Math.max(0, src.length - 64));
+  try {
+    const fh = await open(src, "r");
+    try {
+      const size = (await fh.stat()).size;
+      const n = Math.min(size, 64);
+      const tail = Buffer.alloc(n);
+      await fh.read(tail, 0, n, size - n);
+      return tail;
+    } finally {
+      await fh.close();
+    }
+  } catch {
+    return null;
+  }
+}
+
 /**
  * The last bytes of the file: a JPEG ends with the EOI marker FF D9 (ITU-T T.81 §B.2.1), a
  * PNG with its IEND chunk (PNG 2nd ed. §11.2.5). Missing, the upload was cut short; this
  * is checked at upload without decoding, so an interrupted transfer is refused at once.
  */
-async function looksComplete(src: Source, format: string): Promise<boolean> {
+function looksComplete(tail: Buffer | null, format: string): boolean {
   if (format !== "jpeg" && format !== "png") return true;
-  let tail: Buffer;
-  if (typeof src === "string") {
-    const fh = await open(src, "r");
-    try {
-      const size = (await fh.stat()).size;
-      const n = Math.min(size, 64);
-      tail = Buffer.alloc(n);
-      await fh.read(tail, 0, n, size - n);
-    } finally {
-      await fh.close();
-    }
-  } else tail = src.subarray(Math.max(0, src.length - 64));
+  if (!tail) return false;
   if (format === "png") return tail.includes(Buffer.from("IEND", "ascii"));
   // Some cameras pad after EOI; look for it among the last bytes.
   for (let i = tail.length - 2; i >= 0; i--) if (tail[i] === 0xff && tail[i + 1] === 0xd9) return true;
   return false;
 }
 
-/** Refusals come here, before anything is stored: type from the bytes, pixel limit, a cut-off file. */
+/**
+ * Refusals come here, before anything is stored: type from the bytes, pixel limit, a cut-off file.
+ * The header, the last bytes and EXIF are read at once (three trips to libuv's pool side by side
+ * rather than one after another); the refusals keep their order.
+ */
 export async function inspectImage(src: Source, name: string): Promise<ImageFacts> {
-  const meta = await readMetadata(src, name);
+  const [meta, tail, capture] = await Promise.all([readMetadata(src, name), lastBytes(src), captureFacts(src)]);
   const format = meta.format ?? "";
   if (!ALLOWED.has(format))
     throw refuse(
@@ -132,7 +144,7 @@ export async function inspectImage(src: Source, name: string): Promise<ImageFact
       `${format.toUpperCase() || "this"} is not accepted; upload JPEG, PNG, WebP, HEIC/HEIF or TIFF.`,
     );
   if ((meta.width ?? 0) * (meta.height ?? 0) > MAX_INPUT_PIXELS) throw bomb(name);
-  if (!(await looksComplete(src, format)))
+  if (!looksComplete(tail, format))
     throw refuse(
       400,
       "truncated_image",
@@ -147,13 +159,17 @@ export async function inspectImage(src: Source, name: string): Promise<ImageFact
     width: sideways ? meta.height! : meta.width!,
     height: sideways ? meta.width! : meta.height!,
     hevc: format === "heif" && meta.compression === "hevc",
-    ...(await captureFacts(src)),
+    ...capture,
   };
 }
 
-/** A sharp input for the pixels: phone HEIC (HEVC) goes through heic-decode first. */
-async function pixelSource(buf: Buffer, hevc: boolean): Promise<Sharp> {
+/**
+ * A sharp input for the pixels: phone HEIC (HEVC) goes through heic-decode first. A path is read by
+ * libvips itself, in its own thread (the rendition job on the disk store).
+ */
+async function pixelSource(src: Source, hevc: boolean): Promise<Sharp> {
   if (hevc) {
+    const buf = typeof src === "string" ? await readFile(src) : src;
     const d = await decodeHeicOneAtATime(buf).catch(() => {
       throw refuse(400, "unreadable_image", "HEIC", "this HEIC picture could not be decoded; it may be damaged.");
     });
@@ -162,7 +178,7 @@ async function pixelSource(buf: Buffer, hevc: boolean): Promise<Sharp> {
       limitInputPixels: MAX_INPUT_PIXELS,
     });
   }
-  return sharp(buf, { limitInputPixels: MAX_INPUT_PIXELS });
+  return sharp(src, { limitInputPixels: MAX_INPUT_PIXELS });
 }
 
 const box = (px: number) => ({ width: px, height: px, fit: "inside" as const, withoutEnlargement: true });
@@ -176,7 +192,7 @@ const box = (px: number) => ({ width: px, height: px, fit: "inside" as const, wi
  * JPEG rather than WebP so any EXIF reader can check the result.
  * Two steps, so the rendition job can store the display copy while the thumbnail is encoded.
  */
-export async function renderDisplay(original: Buffer, facts: Pick<ImageFacts, "hevc">, name: string): Promise<Buffer> {
+export async function renderDisplay(original: Source, facts: Pick<ImageFacts, "hevc">, name: string): Promise<Buffer> {
   return renditionErrors(name, async () =>
     (await pixelSource(original, facts.hevc)).rotate().resize(box(DISPLAY_PX)).jpeg({ quality: 82 }).toBuffer(),
   );
@@ -197,6 +213,9 @@ async function renditionErrors<T>(name: string, work: () => Promise<T>): Promise
     if (e instanceof AppError) throw e;
     const msg = (e as Error).message;
     if (/pixel limit/i.test(msg)) throw bomb(name);
+    // A stored original that is not there (yet, or any more) is the store's matter, not the picture's.
+    if (typeof e === "object" && e && "code" in e) throw e;
+    if (/input file is missing/i.test(msg)) throw e;
     throw refuse(
       400,
       "truncated_image",

@@ -138,8 +138,9 @@ export interface RenditionJob {
  * display copy and the thumbnail, mark the photo ready. A picture that cannot be decoded
  * is marked failed at once (trying again would not help); a store or database hiccup is
  * retried, and marked failed with its reason after the last attempt.
- * Nothing waits that need not: the original is read while the row is looked up (the job names
- * its key), and the display copy is stored while the thumbnail is encoded.
+ * Nothing waits that need not: the display copy's decode starts from the original the job names
+ * while the row is looked up (on disk libvips reads the file itself, nothing passes through the
+ * event loop), and the display copy is stored while the thumbnail is encoded.
  * Also the sweep "photo.stranded-sweep" (`failStranded`, PHOTO_STRANDED_CRON): a photo whose job's last
  * attempt died with its worker is marked failed instead of processing for ever.
  */
@@ -152,16 +153,21 @@ export function definePhotoJobs(
   jobs.define<RenditionJob>(
     RENDITION_JOB,
     async ({ siteId, photoId, hevc, originalKey }, ctx) => {
-      // Settled at once, so a failed read is never an unhandled rejection when the row says "skip".
+      const t0 = performance.now();
+      /** The display copy from a stored original; on disk libvips reads the file itself (`decodeSource`). */
+      const displayFrom = async (key: string, name: string) =>
+        renderDisplay(await deps.photoStorage.decodeSource(key), { hevc }, name);
+      // The decode starts at once from the original the job names, beside the row's lookup; settled
+      // at once, so a failure is never an unhandled rejection when the row then says "skip" (a
+      // repeated delivery of a finished job decodes once for nothing; it writes nothing).
       const early = originalKey
-        ? deps.photoStorage.getBytes(originalKey).then(
-            (bytes) => ({ bytes }),
+        ? displayFrom(originalKey, "photo").then(
+            (display) => ({ display }),
             (error: unknown) => ({ error }),
           )
         : undefined;
       const row = await repo.findPhoto(deps.db, siteId, photoId);
       if (!row || row.renditionState === "ready") return;
-      const t0 = performance.now();
       const name = row.originalName || "photo";
       /** A refused picture is failed now; anything else is retried, and failed on its last attempt. */
       const failed = async (e: unknown, why: string) => {
@@ -177,10 +183,9 @@ export function definePhotoJobs(
       };
       let display: Buffer;
       try {
-        const read = early && row.originalKey === originalKey ? await early : undefined;
-        if (read && "error" in read) throw read.error;
-        const original = read ? read.bytes : await deps.photoStorage.getBytes(row.originalKey);
-        display = await renderDisplay(original, { hevc }, name);
+        const made = early && row.originalKey === originalKey ? await early : undefined;
+        if (made && "error" in made) throw made.error;
+        display = made ? made.display : await displayFrom(row.originalKey, name);
       } catch (e) {
         return failed(e, "the display copy could not be made; try uploading it again.");
       }

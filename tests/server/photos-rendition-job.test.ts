@@ -147,4 +147,16 @@ describe("the rendition job", () => {
       height: 107,
     });
   });
+
+  it("an original missing from the store is retried, not refused as a damaged picture (libvips reads the file itself)", async () => {
+    const { id, job } = await uploadOne(await sidewaysJpegWithGps());
+    await rm(join(store.root, job.originalKey!));
+    await expect(handler(job, ctx(0))).rejects.toThrow(/missing/i);
+    expect(await stateOf(id)).toMatchObject({ renditionState: "processing" });
+    await expect(handler(job, ctx(3))).rejects.toThrow(/missing/i);
+    expect(await stateOf(id)).toMatchObject({
+      renditionState: "failed",
+      renditionError: expect.stringMatching(/display copy could not be made/),
+    });
+  });
 });

@@ -24,6 +24,12 @@ export interface PhotoStorage {
    * file, or the SDK's own collection of the body, rather than a stream gathered chunk by chunk.
    */
   getBytes(key: string): Promise<Buffer>;
+  /**
+   * What sharp decodes the stored bytes from (the rendition job): on disk the file's own path, so
+   * libvips reads it in its worker thread and nothing passes through the event loop (a missing file
+   * fails the decode with sharp's "Input file is missing", not a StorageNotFound); elsewhere `getBytes`.
+   */
+  decodeSource(key: string): Promise<string | Buffer>;
   /** Deleting an absent key is not an error. */
   delete(key: string): Promise<void>;
   /** Every key under the prefix (the cleanup command compares them with the table). */

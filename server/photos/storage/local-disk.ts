@@ -75,6 +75,10 @@ export class LocalDiskStorage implements PhotoStorage {
     return createReadStream(p);
   }
 
+  async decodeSource(key: string): Promise<string> {
+    return this.path(key);
+  }
+
   async getBytes(key: string): Promise<Buffer> {
     try {
       return await readFile(this.path(key));

@@ -82,6 +82,10 @@ export class S3Storage implements PhotoStorage {
     }
   }
 
+  decodeSource(key: string): Promise<Buffer> {
+    return this.getBytes(key);
+  }
+
   async getBytes(key: string): Promise<Buffer> {
     try {
       const r = await this.client.send(new GetObjectCommand({ Bucket: this.opts.bucket, Key: key }));
