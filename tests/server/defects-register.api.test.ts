@@ -543,7 +543,7 @@ describe("repair plan", () => {
       expect(b.effortHours).toBeCloseTo(sum(mine, (d) => d.effortHours ?? 0));
       expect(b.unestimated).toBe(mine.filter((d) => d.effortHours === null).length);
       expect(b.cost).toBeCloseTo(sum(mine, (d) => d.costEstimate ?? 0));
-      expect(sum(b.sections, (s: { count: number }) => s.count)).toBe(b.count);
+      expect(b.sections.reduce((a: number, s: { count: number }) => a + s.count, 0)).toBe(b.count);
       for (const s of b.sections) {
         const inSection = mine.filter((d) => (d.sectionId ?? null) === s.sectionId);
         expect(s.count).toBe(inSection.length);
