@@ -32,10 +32,10 @@ function observeBoxAfterLayout(
  * A row's height from its ResizeObserver entry (delivered after layout), else the height already known or the
  * estimate: never a synchronous read of a row that was just drawn (virtual-core's fallback reads `offsetHeight`).
  */
-function measuredAfterLayout(
+function measuredAfterLayout<S extends HTMLElement | Window>(
   row: HTMLTableRowElement,
   entry: ResizeObserverEntry | undefined,
-  instance: Virtualizer<HTMLElement, HTMLTableRowElement>,
+  instance: Virtualizer<S, HTMLTableRowElement>,
 ) {
   const box = entry?.borderBoxSize?.[0];
   if (box) return Math.round(box.blockSize);
@@ -46,22 +46,27 @@ function measuredAfterLayout(
 const written = new WeakSet<object>();
 
 /**
- * Scrolls the box as virtual-core asks, but for its first request: when it mounts, virtual-core writes the box's
- * scroll position it started from (0) back to the box, and writing `scrollTop` makes the browser lay the page out
- * there and then — the page's first style and layout pulled into the render's task (traced: a 935 ms task at load 12
- * where the render alone was ~500). A box just drawn is already at 0: that write is left out.
+ * Scrolls as virtual-core asks, but for its first request: when it mounts, virtual-core writes the scroll position it
+ * started from back to the box (0), and writing a scroll position
+ * makes the browser lay the page out there and then — the page's first style and layout pulled into the render's
+ * task (traced on the register: a 935 ms task at load 12 where the render alone was ~500). That write changes nothing
+ * and is left out.
  */
-function scrollAfterMount(
+type ScrollFn<S extends HTMLElement | Window> = (
   offset: number,
   options: { adjustments?: number; behavior?: ScrollBehavior },
-  instance: Virtualizer<HTMLElement, HTMLTableRowElement>,
-) {
-  if (!written.has(instance)) {
-    written.add(instance);
-    if (offset + (options.adjustments ?? 0) === 0) return;
-  }
-  elementScroll(offset, options, instance);
-}
+  instance: Virtualizer<S, HTMLTableRowElement>,
+) => void;
+const scrollAfterMount =
+  <S extends HTMLElement | Window>(scroll: ScrollFn<S>): ScrollFn<S> =>
+  (offset, options, instance) => {
+    if (!written.has(instance)) {
+      written.add(instance);
+      return;
+    }
+    scroll(offset, options, instance);
+  };
+const scrollBox = scrollAfterMount<HTMLElement>(elementScroll);
 
 /** One stretch of the table to draw: an empty row `gap` px tall (rows not drawn), then `item`'s row. */
 export interface RowSlot {
@@ -112,17 +117,28 @@ export function useRowWindow({
     overscan: whole ? count : OVERSCAN,
     initialRect: { width: typeof window === "undefined" ? 0 : window.innerWidth, height: boxHeight() },
     observeElementRect: observeBoxAfterLayout,
-    scrollToFn: scrollAfterMount,
+    scrollToFn: scrollBox,
     measureElement: measuredAfterLayout,
-    rangeExtractor: (range: Range) => {
-      const drawn = whole ? Array.from({ length: range.count }, (_, i) => i) : defaultRangeExtractor(range);
-      return kept != null && kept < range.count && !drawn.includes(kept)
-        ? [...drawn, kept].sort((a, b) => a - b)
-        : drawn;
-    },
+    rangeExtractor: extractor(kept, whole),
   });
+  return windowOf(v, headHeight, keep);
+}
+
+/** The keyboard's row kept drawn wherever the list is scrolled; `whole` draws every row. */
+const extractor =
+  (kept: number | null, whole: boolean) =>
+  (range: Range): number[] => {
+    const drawn = whole ? Array.from({ length: range.count }, (_, i) => i) : defaultRangeExtractor(range);
+    return kept != null && kept < range.count && !drawn.includes(kept) ? [...drawn, kept].sort((a, b) => a - b) : drawn;
+  };
+
+function windowOf<S extends HTMLElement | Window>(
+  v: Virtualizer<S, HTMLTableRowElement>,
+  start: number,
+  keep: (index: number | null) => void,
+): RowWindow {
   const items = v.getVirtualItems();
-  let end = headHeight;
+  let end = start;
   const slots = items.map((item) => {
     const gap = Math.max(0, item.start - end);
     end = item.end;
@@ -130,7 +146,7 @@ export function useRowWindow({
   });
   return {
     slots,
-    after: Math.max(0, v.getTotalSize() - end),
+    after: Math.max(0, v.getTotalSize() + (v.options.scrollMargin ?? 0) - end),
     measure: v.measureElement,
     scrollTo: (index) => v.scrollToIndex(index, { align: "auto" }),
     keep,

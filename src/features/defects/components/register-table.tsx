@@ -2,6 +2,7 @@ import { Fragment, useEffect, useMemo, useRef, useState, type KeyboardEvent } fr
 import { functionalUpdate, useTable, type RowSelectionState, type Updater } from "@tanstack/react-table";
 import type { DefectRow } from "../../../schemas/defects";
 import type { SortKey } from "../../../schemas/defects";
+import { RowGap } from "../../../components/row-gap";
 import { rowsAwaited, useFirstScreenful } from "../../../lib/use-first-screenful";
 import { usePrinting } from "../../../lib/use-printing";
 import { useRowWindow } from "../../../lib/use-row-window";
@@ -168,7 +169,7 @@ export function RegisterTable({ siteId, rows, total, state, onState, selection, 
             const row = rowModel[item.index];
             return (
               <Fragment key={row.id}>
-                {gap > 0 && <Gap height={gap} cols={cols} />}
+                {gap > 0 && <RowGap height={gap} cols={cols} />}
                 <tr
                   ref={win.measure}
                   data-index={item.index}
@@ -184,18 +185,9 @@ export function RegisterTable({ siteId, rows, total, state, onState, selection, 
               </Fragment>
             );
           })}
-          {win.after > 0 && <Gap height={win.after} cols={cols} />}
+          {win.after > 0 && <RowGap height={win.after} cols={cols} />}
         </tbody>
       </table>
     </div>
-  );
-}
-
-/** Rows not drawn: an empty row as tall as they are, hidden from assistive technology (aria-rowindex counts them). */
-function Gap({ height, cols }: { height: number; cols: number }) {
-  return (
-    <tr aria-hidden="true" data-gap>
-      <td colSpan={cols} style={{ height, padding: 0, border: 0 }} />
-    </tr>
   );
 }
