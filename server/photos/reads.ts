@@ -1,5 +1,6 @@
 import type { RENDITIONS } from "../../src/schemas/photos";
 import type { Readable } from "node:stream";
+import { matchFileName, nameTokens } from "../../src/domain/photo-matching";
 import type { Db } from "../db";
 import { AppError, notFound } from "../errors";
 import * as repo from "./repository";
@@ -11,8 +12,47 @@ import { StorageNotFound, type PhotoStorage } from "./storage";
 export const listPhotos = async (db: Db, siteId: string, filter: repo.ListFilter) =>
   (await repo.listPhotos(db, siteId, filter)).map(toPhoto);
 
-/** Where a photo may be filed on this site (boards, positions, components). */
-export const targetsOf = (db: Db, siteId: string) => repo.listTargets(db, siteId);
+/** The boards a photo may be filed to, each with its count of positions (never the positions: see boardTargetsOf). */
+export const targetBoardsOf = (db: Db, siteId: string) => repo.listTargetBoards(db, siteId);
+
+/** One board's positions a photo may be filed to; 404 when the board is not this site's. */
+export async function boardTargetsOf(db: Db, siteId: string, boardId: string) {
+  const board = await repo.findBoard(db, siteId, boardId);
+  if (!board) throw notFound("That board");
+  return { board, targets: await repo.boardTargets(db, boardId) };
+}
+
+const byBoardThenDesignation = (
+  a: { boardName: string; designation: string },
+  b: { boardName: string; designation: string },
+) =>
+  a.boardName.localeCompare(b.boardName, "en") || a.designation.localeCompare(b.designation, "en", { numeric: true });
+
+/** Unique tokens a request may look up at once (500 names of ordinary length give a few thousand). */
+const MAX_TOKENS = 20_000;
+
+/**
+ * Which position each file name names (`matchFileName`, the same rules the client once ran over every position of
+ * the site), over only the positions whose designation or tag is a token of some name: one index-served statement.
+ */
+export async function matchNames(db: Db, siteId: string, names: string[], boardId?: string) {
+  if (boardId && !(await repo.findBoard(db, siteId, boardId))) throw notFound("That board");
+  const tokens = [...new Set(names.flatMap((n) => nameTokens(n)))];
+  if (tokens.length > MAX_TOKENS)
+    throw new AppError(400, "too_many_tokens", "Those file names are too long to match at once; send fewer.", {
+      names: "Too long to match at once",
+    });
+  // In the order the photo pages list positions (board, then designation), so an ambiguous name quotes the same
+  // token whatever order the statement returned its rows in.
+  const targets = (tokens.length ? await repo.targetsNamed(db, siteId, tokens, boardId) : []).sort(
+    byBoardThenDesignation,
+  );
+  const matches = names.map((n) => matchFileName(n, targets, boardId));
+  const named = new Set(
+    matches.flatMap((m) => (m.kind === "none" ? [] : m.kind === "ambiguous" ? m.candidates : [m.positionId])),
+  );
+  return { matches, targets: targets.filter((t) => named.has(t.positionId)) };
+}
 
 async function liveRow(db: Db, siteId: string, photoId: string) {
   const row = await repo.findPhoto(db, siteId, photoId);

@@ -156,27 +156,92 @@ export const findCustodyMoveTarget = (db: Db, siteId: string, custodyMoveId: str
     .where("m.id", "=", custodyMoveId)
     .executeTakeFirst();
 
-/** Every position of the site with its current component's tag number. */
-export const listTargets = (db: Db, siteId: string) =>
+/**
+ * The site's boards with how many positions each has (the sum of the board's kept summary "positions" rows, kept
+ * current by the inventory's writes): what the photo pages offer first. Grows with boards, never positions.
+ */
+export const listTargetBoards = (db: Db, siteId: string) =>
   db
-    .selectFrom("positions")
-    .innerJoin("boards", "boards.id", "positions.boardId")
-    .leftJoin("components", (j) =>
-      j.onRef("components.positionId", "=", "positions.id").on("components.retiredAt", "is", null),
+    .selectFrom("boards as b")
+    .select(["b.id", "b.name"])
+    .select((eb) =>
+      eb
+        .selectFrom("boardSummaries as s")
+        .select(sql<number>`coalesce(sum(s.n), 0)::int`.as("n"))
+        .whereRef("s.boardId", "=", "b.id")
+        .where("s.facet", "=", "positions")
+        .as("positionCount"),
     )
-    .select([
-      "positions.id as positionId",
-      "positions.boardId",
-      "boards.name as boardName",
-      "positions.designation",
-      "components.tagNumber",
-      "components.id as componentId",
-    ])
-    .where("positions.siteId", "=", siteId)
-    .orderBy("boards.name")
-    .orderBy("positions.sortOrder")
-    .orderBy("positions.designation")
+    .where("b.siteId", "=", siteId)
+    .orderBy("b.name")
     .execute();
+
+/** A position's current component, read by key (components_current_uq), never a hash of the site's components. */
+const currentComponent = (db: Db) =>
+  db
+    .selectFrom("components as c")
+    .select(["c.id", "c.tagNumber"])
+    .where("c.positionId", "=", sql.ref<string>("p.id"))
+    .where("c.retiredAt", "is", null)
+    .limit(1)
+    .as("c");
+
+const targetColumns = [
+  "p.id as positionId",
+  "p.boardId",
+  "b.name as boardName",
+  "p.designation",
+  "c.tagNumber",
+  "c.id as componentId",
+] as const;
+
+/** One board's positions in board order (as the shoot list), each with its current component's tag number. */
+export const boardTargetsQuery = (db: Db, boardId: string) =>
+  db
+    .selectFrom("positions as p")
+    .innerJoin("boards as b", "b.id", "p.boardId")
+    .leftJoinLateral(
+      () => currentComponent(db),
+      (j) => j.onTrue(),
+    )
+    .select(targetColumns)
+    .where("p.boardId", "=", boardId)
+    .orderBy("p.sortOrder")
+    .orderBy("p.gridRow")
+    .orderBy("p.gridCol")
+    .orderBy("p.designation");
+export const boardTargets = (db: Db, boardId: string) => boardTargetsQuery(db, boardId).execute();
+
+/**
+ * The positions a shoot's file names could name: those whose designation (on `boardId` only, when given) or whose
+ * current component's tag number is one of `tokens` once normalised (name_token(), migration 2026_12_12_0600; both
+ * lookups served by its indexes, so the cost follows the tokens and their matches, not the site's size).
+ */
+export const targetsNamedQuery = (db: Db, siteId: string, tokens: string[], boardId?: string) => {
+  const byDesignation = db
+    .selectFrom("positions as p")
+    .innerJoin("boards as b", "b.id", "p.boardId")
+    .leftJoinLateral(
+      () => currentComponent(db),
+      (j) => j.onTrue(),
+    )
+    .select(targetColumns)
+    .where("p.siteId", "=", siteId)
+    .where(sql<boolean>`name_token(p.designation) = any(${tokens}::text[])`)
+    .$if(!!boardId, (q) => q.where("p.boardId", "=", boardId!));
+  const byTag = db
+    .selectFrom("components as c")
+    .innerJoin("positions as p", "p.id", "c.positionId")
+    .innerJoin("boards as b", "b.id", "p.boardId")
+    .select(targetColumns)
+    .where("c.siteId", "=", siteId)
+    .where("c.retiredAt", "is", null)
+    .where("c.tagNumber", "is not", null)
+    .where(sql<boolean>`name_token(c.tag_number) = any(${tokens}::text[])`);
+  return byDesignation.union(byTag);
+};
+export const targetsNamed = (db: Db, siteId: string, tokens: string[], boardId?: string) =>
+  targetsNamedQuery(db, siteId, tokens, boardId).execute();
 
 export const getSettings = (db: Db, siteId: string) =>
   db.selectFrom("photoSettings").select(["requiredKinds", "version"]).where("siteId", "=", siteId).executeTakeFirst();

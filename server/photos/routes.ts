@@ -4,6 +4,7 @@ import { z } from "zod";
 import {
   bulkAssignBody,
   boardParams,
+  matchNamesBody,
   photoListQuery,
   photoParams,
   photoPatch,
@@ -61,8 +62,21 @@ export function photoRoutes(db: Db, storage: PhotoStorage, jobs: Jobs) {
     res.json({ photos: await reads.listPhotos(db, siteId, { ...q, ids, unassigned: !!q.unassigned }) });
   });
 
+  // Where a photo can be filed: the boards first, one board's positions when it is chosen, and a shoot's file
+  // names matched on the server (never every position of the site; DEVELOPERS.md "Photo targets by board").
   r.get("/sites/:siteId/photo-targets", requireSiteRole(db, "site.read"), async (req, res) => {
-    res.json({ targets: await reads.targetsOf(db, siteOnly.parse(req.params).siteId) });
+    res.json({ boards: await reads.targetBoardsOf(db, siteOnly.parse(req.params).siteId) });
+  });
+
+  r.get("/sites/:siteId/boards/:boardId/photo-targets", requireSiteRole(db, "site.read"), async (req, res) => {
+    const { siteId, boardId } = boardParams.parse(req.params);
+    res.json(await reads.boardTargetsOf(db, siteId, boardId));
+  });
+
+  r.post("/sites/:siteId/photo-targets/match", requireSiteRole(db, "photos.file"), async (req, res) => {
+    const { siteId } = siteOnly.parse(req.params);
+    const { names, boardId } = matchNamesBody.parse(req.body);
+    res.json(await reads.matchNames(db, siteId, names, boardId));
   });
 
   r.get("/sites/:siteId/photo-settings", requireSiteRole(db, "site.read"), async (req, res) => {

@@ -32,6 +32,32 @@ function containsToken(name: string, token: string): boolean {
   return new RegExp(`(^|[^a-z0-9])${escaped}($|[^a-z0-9])`).test(name);
 }
 
+/** A file name as the matching reads it: without its extension, normalised. */
+const baseName = (fileName: string) => normalizeToken(fileName.replace(/\.[a-z0-9]{2,5}$/i, ""));
+
+const ALNUM = /[a-z0-9]/;
+
+/**
+ * Every stretch of a file name that a designation or tag number could be: `containsToken` turned round (a
+ * token stands alone, so it starts where the name starts or after a character that is not a letter or
+ * digit, and ends likewise). The server looks these up by index (`name_token` in SQL), so a shoot is
+ * matched against the whole site without sending the site's positions to the phone. Tokens longer than
+ * `maxLength` are left out (designations and tag numbers are at most 40 characters).
+ */
+export function nameTokens(fileName: string, maxLength = 60): string[] {
+  if (typeof fileName !== "string") throw new RangeError("fileName must be a string");
+  const name = baseName(fileName);
+  const starts: number[] = [];
+  const ends: number[] = [];
+  for (let i = 0; i < name.length; i++) {
+    if (i === 0 || !ALNUM.test(name[i - 1])) starts.push(i);
+    if (i === name.length - 1 || !ALNUM.test(name[i + 1])) ends.push(i + 1);
+  }
+  const out = new Set<string>();
+  for (const s of starts) for (const e of ends) if (e > s && e - s <= maxLength) out.add(name.slice(s, e));
+  return [...out];
+}
+
 /**
  * Tag numbers first (unique per site), then designations (unique per board only: the
  * same "1-1" on two boards is ambiguous unless a board is chosen). The longest match
@@ -41,7 +67,7 @@ function containsToken(name: string, token: string): boolean {
  */
 export function matchFileName(fileName: string, targets: MatchTarget[], boardId?: string): MatchResult {
   if (typeof fileName !== "string") throw new RangeError("fileName must be a string");
-  const name = normalizeToken(fileName.replace(/\.[a-z0-9]{2,5}$/i, ""));
+  const name = baseName(fileName);
   const tags = targets.filter((t) => t.tagNumber && containsToken(name, normalizeToken(t.tagNumber)));
   if (tags.length) {
     const best = longest(tags, (t) => normalizeToken(t.tagNumber!));

@@ -112,7 +112,7 @@ export const shootListSchema = z.object({
 });
 export type ShootList = z.infer<typeof shootListSchema>;
 
-/** What a photo can be filed to, for bulk assignment by designation or tag number. */
+/** A position a photo can be filed to, with its current component's tag number (for filing by designation or tag). */
 export const photoTargetSchema = z.object({
   positionId: text(),
   boardId: text(),
@@ -122,6 +122,42 @@ export const photoTargetSchema = z.object({
   componentId: text().nullable(),
 });
 export type PhotoTarget = z.infer<typeof photoTargetSchema>;
+
+/**
+ * GET /sites/:siteId/photo-targets — the site's boards a photo can be filed to, each with how many positions it has;
+ * never the positions themselves (a site of 200,000 positions sent whole was tens of MB to a phone).
+ */
+export const photoTargetBoardsResponse = z.object({
+  boards: z.array(z.object({ id: text(), name: text(), positionCount: z.number().int() })),
+});
+export type PhotoTargetBoard = z.infer<typeof photoTargetBoardsResponse>["boards"][number];
+
+/** GET /sites/:siteId/boards/:boardId/photo-targets — one board's positions in board order; 404 for another site's board. */
+export const boardPhotoTargetsResponse = z.object({
+  board: z.object({ id: text(), name: text() }),
+  targets: z.array(photoTargetSchema),
+});
+
+/**
+ * POST /sites/:siteId/photo-targets/match — the positions the file names of a shoot name, matched on the server
+ * (src/domain/photo-matching.ts `matchFileName` over the positions whose designation or tag is a token of the name,
+ * found by index): tag numbers across the site, designations on `boardId` only when it is given.
+ */
+export const matchNamesBody = z.object({
+  names: z.array(text().min(1).max(255)).min(1).max(500),
+  boardId: id.optional(),
+});
+const matchResultSchema = z.discriminatedUnion("kind", [
+  z.object({ kind: z.enum(["tag", "designation"]), positionId: text(), matched: text() }),
+  z.object({ kind: z.literal("ambiguous"), candidates: z.array(text()), matched: text() }),
+  z.object({ kind: z.literal("none") }),
+]);
+export const matchNamesResponse = z.object({
+  /** One per name sent, in the same order. */
+  matches: z.array(matchResultSchema),
+  /** Every position a match or a candidate names. */
+  targets: z.array(photoTargetSchema),
+});
 
 export const photoParams = z.object({ siteId: id, photoId: id });
 export const boardParams = z.object({ siteId: id, boardId: id });

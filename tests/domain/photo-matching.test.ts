@@ -1,5 +1,12 @@
 import { describe, expect, it } from "vitest";
-import { kindFromFileName, matchFileName, searchTargets, type MatchTarget } from "../../src/domain/photo-matching";
+import {
+  kindFromFileName,
+  matchFileName,
+  nameTokens,
+  normalizeToken,
+  searchTargets,
+  type MatchTarget,
+} from "../../src/domain/photo-matching";
 
 // Naming habits are common practice among survey photographers (files named after the
 // painted designation or the bag's tag); the examples below are invented.
@@ -30,6 +37,28 @@ describe("matchFileName", () => {
 
   it("a file name that is not a string is a RangeError", () => {
     expect(() => matchFileName(undefined as unknown as string, T)).toThrow(RangeError);
+  });
+});
+
+describe("nameTokens", () => {
+  it("gives every stretch of the name that stands alone, normalised, and nothing glued to a letter or digit", () => {
+    expect(nameTokens("IMG 2_14.JPG").sort()).toEqual(["14", "2", "2-14", "img", "img-2", "img-2-14"].sort());
+    expect(nameTokens("x(1-2).jpg")).toContain("1-2");
+    expect(nameTokens("x(1-2).jpg")).not.toContain("-2");
+    expect(nameTokens("12-14.jpg")).not.toContain("2-14");
+  });
+
+  it("holds every designation or tag matchFileName finds in the name (the server looks these up)", () => {
+    const names = ["2-14_front.jpg", "IMG 2_14 nameplate.JPG", "KL-0042.heic", "eg_kl-0100 (2).png", "1-1 a.jpg"];
+    for (const name of names) {
+      const tokens = new Set(nameTokens(name));
+      const m = matchFileName(name, T);
+      if (m.kind !== "none") expect(tokens.has(normalizeToken(m.matched)), name).toBe(true);
+    }
+  });
+
+  it("leaves out stretches longer than the limit", () => {
+    expect(nameTokens(`${"a".repeat(30)}-${"b".repeat(30)}.jpg`, 40)).toEqual(["a".repeat(30), "b".repeat(30)]);
   });
 });
 

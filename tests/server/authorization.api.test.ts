@@ -52,6 +52,8 @@ export const ACCESS: Record<string, Access> = {
   "POST /api/sites/:siteId/photos": PHOTO_UP,
   "GET /api/sites/:siteId/photos": "member",
   "GET /api/sites/:siteId/photo-targets": "member",
+  "GET /api/sites/:siteId/boards/:boardId/photo-targets": "member",
+  "POST /api/sites/:siteId/photo-targets/match": FILING,
   "GET /api/sites/:siteId/photo-settings": "member",
   "PUT /api/sites/:siteId/photo-settings": CURATOR,
   "GET /api/sites/:siteId/boards/:boardId/shoot-list": "member",

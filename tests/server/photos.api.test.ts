@@ -410,11 +410,4 @@ describe("tagging, bulk assignment and the shoot list", () => {
     const after = await list();
     expect(by("2-14", after).missing).toEqual(["after_work"]);
   });
-
-  it("photo targets list every position with its tag number, for matching file names", async () => {
-    const r = await as.photographer.get(`/api/sites/${fx.siteId}/photo-targets`);
-    expect(r.body.targets).toContainEqual(
-      expect.objectContaining({ designation: "2-14", tagNumber: "T-2-14", boardName: "Main switchboard" }),
-    );
-  });
 });
