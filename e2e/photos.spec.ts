@@ -16,6 +16,16 @@ async function siteId(page: Page) {
   )!.id;
 }
 
+/** The main board's positions, as the photo pages read them: the boards first, then one board's positions. */
+async function mainBoardTargets(page: Page, id: string) {
+  const { boards } = (await (await page.request.get(`/api/sites/${id}/photo-targets`)).json()) as {
+    boards: Array<{ id: string; name: string; positionCount: number }>;
+  };
+  const main = boards.find((b) => b.name.startsWith("Main"))!;
+  const r = await page.request.get(`/api/sites/${id}/boards/${main.id}/photo-targets`);
+  return ((await r.json()) as { targets: Array<{ positionId: string; boardId: string; designation: string }> }).targets;
+}
+
 test("the photographer drops three photos, watches them finish, files them to positions, and the board tiles show the camera badge", async ({
   page,
 }) => {
@@ -64,14 +74,9 @@ test("the photographer drops three photos, watches them finish, files them to po
 
   // Each position now counts its photo (the board tiles' camera badge reads the same rows).
   const id = await siteId(page);
-  const targets = (await (await page.request.get(`/api/sites/${id}/photo-targets`)).json()).targets as Array<{
-    positionId: string;
-    boardId: string;
-    designation: string;
-    boardName: string;
-  }>;
+  const targets = await mainBoardTargets(page, id);
   for (const d of ["4-7", "4-8", "4-9"]) {
-    const t = targets.find((x) => x.designation === d && x.boardName.startsWith("Main"))!;
+    const t = targets.find((x) => x.designation === d)!;
     const list = (await (await page.request.get(`/api/sites/${id}/photos?positionId=${t.positionId}`)).json())
       .photos as Array<{ originalName: string }>;
     expect(
@@ -80,8 +85,7 @@ test("the photographer drops three photos, watches them finish, files them to po
     ).toBe(true);
   }
   // The board elevation: the three tiles now carry the camera badge (and say so in words).
-  const main = targets.find((x) => x.boardName.startsWith("Main"))!;
-  await page.goto(`/sites/${id}/boards/${main.boardId}`);
+  await page.goto(`/sites/${id}/boards/${targets[0].boardId}`);
   for (const d of ["4-7", "4-8", "4-9"]) {
     const tile = page.getByTestId(`tile-${d}`);
     await expect(tile).toHaveAccessibleName(/\d+ photos?/);
@@ -100,12 +104,7 @@ test("the shoot list shows what is missing, and the gallery's viewer steps with 
   await expectNoSeriousA11yViolations(page, "shoot list");
 
   // Two photos of one position, uploaded through the API, then the position's gallery.
-  const targets = (await (await page.request.get(`/api/sites/${id}/photo-targets`)).json()).targets as Array<{
-    positionId: string;
-    designation: string;
-    boardName: string;
-  }>;
-  const pos = targets.find((x) => x.designation === "5-3" && x.boardName.startsWith("Main"))!;
+  const pos = (await mainBoardTargets(page, id)).find((x) => x.designation === "5-3")!;
   for (const [kind, color] of [
     ["as_found", "#444"],
     ["after_work", "#999"],

@@ -81,8 +81,9 @@ export const paths = {
   },
   photoGallery: {
     path: "/sites/:siteId/photos/gallery",
+    /** A position's photos (with its board when known, so the page names it without reading the site), or a board's. */
     href: (siteId: string, f: { boardId?: string; positionId?: string } = {}) =>
-      `/sites/${siteId}/photos/gallery${f.positionId ? `?positionId=${f.positionId}` : f.boardId ? `?boardId=${f.boardId}` : ""}`,
+      `/sites/${siteId}/photos/gallery${f.positionId ? `?positionId=${f.positionId}${f.boardId ? `&boardId=${f.boardId}` : ""}` : f.boardId ? `?boardId=${f.boardId}` : ""}`,
   },
   safety: { path: "/safety", href: () => "/safety" },
   invite: { path: "/invite/:token", href: (token: string) => `/invite/${token}` },

@@ -61,7 +61,8 @@ beforeEach(() => {
       k.position(site, "b1-p3"),
       k.position(site, "b2-p0"),
       k.lookup(site, "p3"),
-      photoKeys.targets(site),
+      photoKeys.targetBoards(site),
+      photoKeys.boardTargets(site, "b1"),
     ])
       qc.setQueryData(key, { kept: true });
     qc.setQueryData(photoKeys.list(site, { positionId: "b2-p0" }), [photo("ph-1", "b2-p0")]);
@@ -82,7 +83,9 @@ describe("after a photo write, what counts photos is read again, nothing else", 
     expect(invalidated(k.board(S, "b1"))).toBe(false);
     expect(invalidated(k.position(S, "b1-p3"))).toBe(true);
     expect(invalidated(photoKeys.list(S, { positionId: "b2-p0" }))).toBe(true);
-    expect(invalidated(photoKeys.targets(S))).toBe(true);
+    // Where photos can be filed (the boards, a board's positions) does not change with a photo: not read again.
+    expect(invalidated(photoKeys.targetBoards(S))).toBe(false);
+    expect(invalidated(photoKeys.boardTargets(S, "b1"))).toBe(false);
     // The overview, board list, thumbnails and look-ups count no photos; other boards and positions are untouched.
     for (const key of [
       k.board(S, "b2"),
@@ -95,7 +98,7 @@ describe("after a photo write, what counts photos is read again, nothing else", 
     ])
       expect(invalidated(key)).toBe(false);
     // Another site: nothing at all (before, its whole inventory was invalidated too).
-    for (const key of [k.board(T, "b1"), k.overview(T), k.position(T, "b1-p3"), photoKeys.targets(T)])
+    for (const key of [k.board(T, "b1"), k.overview(T), k.position(T, "b1-p3"), photoKeys.targetBoards(T)])
       expect(invalidated(key)).toBe(false);
   });
 
@@ -112,8 +115,9 @@ describe("after a photo write, what counts photos is read again, nothing else", 
     await afterPhotoWrite(qc, S, []);
     expect(announced).toEqual([{ siteId: S, positions: [null] }]); // settings announce nothing
     expect(asked).toEqual([]);
-    for (const key of [k.board(S, "b1"), k.overview(S), k.position(S, "b1-p3")]) expect(invalidated(key)).toBe(false);
-    expect(invalidated(photoKeys.targets(S))).toBe(true);
+    for (const key of [k.board(S, "b1"), k.overview(S), k.position(S, "b1-p3"), photoKeys.targetBoards(S)])
+      expect(invalidated(key)).toBe(false);
+    expect(invalidated(photoKeys.list(S, { positionId: "b2-p0" }))).toBe(true);
   });
 
   it("a position not known (a photo this client never read was moved or deleted): this site's inventory, not others'", async () => {

@@ -4,8 +4,10 @@ import { api, qs } from "../../lib/api-client";
 import { photosFiled } from "../../lib/photos-filed";
 import {
   photoSchema,
+  boardPhotoTargetsResponse,
+  matchNamesResponse,
   photoSettingsSchema,
-  photoTargetSchema,
+  photoTargetBoardsResponse,
   shootListSchema,
   type BulkAssign,
   type Photo,
@@ -28,7 +30,10 @@ export interface PhotoFilter {
 export const photoKeys = {
   all: (siteId: string) => ["photos", siteId] as const,
   list: (siteId: string, f: PhotoFilter) => [...photoKeys.all(siteId), "list", f] as const,
+  /** Where photos can be filed: the boards (`targetBoards`) and one board's positions each (`boardTargets`). */
   targets: (siteId: string) => [...photoKeys.all(siteId), "targets"] as const,
+  targetBoards: (siteId: string) => [...photoKeys.targets(siteId), "boards"] as const,
+  boardTargets: (siteId: string, boardId: string) => [...photoKeys.targets(siteId), "board", boardId] as const,
   settings: (siteId: string) => [...photoKeys.all(siteId), "settings"] as const,
   shootList: (siteId: string, boardId: string) => [...photoKeys.all(siteId), "shoot-list", boardId] as const,
 };
@@ -55,14 +60,32 @@ export const photosQueryOptions = (siteId: string, f: PhotoFilter) =>
 export const usePhotos = (siteId: string, f: PhotoFilter, enabled = true) =>
   useQuery({ ...photosQueryOptions(siteId, f), enabled });
 
-export const usePhotoTargets = (siteId: string) =>
+/** The site's boards a photo can be filed to, with their counts of positions (never the positions). */
+export const usePhotoBoards = (siteId: string) =>
   useQuery({
-    queryKey: photoKeys.targets(siteId),
+    queryKey: photoKeys.targetBoards(siteId),
+    queryFn: ({ signal }) =>
+      api.get(`/api/sites/${siteId}/photo-targets`, photoTargetBoardsResponse, signal).then((d) => d.boards),
+    staleTime: 60_000,
+  });
+
+/** One board's positions a photo can be filed to, read once the board is chosen. */
+export const useBoardPhotoTargets = (siteId: string, boardId: string | undefined) =>
+  useQuery({
+    queryKey: photoKeys.boardTargets(siteId, boardId ?? ""),
     queryFn: ({ signal }) =>
       api
-        .get(`/api/sites/${siteId}/photo-targets`, z.object({ targets: z.array(photoTargetSchema) }), signal)
+        .get(`/api/sites/${siteId}/boards/${boardId}/photo-targets`, boardPhotoTargetsResponse, signal)
         .then((d) => d.targets),
+    enabled: !!boardId,
     staleTime: 60_000,
+  });
+
+/** A shoot's file names matched to positions on the server (tags across the site, designations on `boardId`). */
+export const useMatchNames = (siteId: string) =>
+  useMutation({
+    mutationFn: (body: { names: string[]; boardId?: string }) =>
+      api.send("POST", `/api/sites/${siteId}/photo-targets/match`, body, matchNamesResponse),
   });
 
 export const usePhotoSettings = (siteId: string) =>
@@ -92,8 +115,8 @@ export function cachedPositionOf(qc: QueryClient, siteId: string, photoId: strin
 }
 
 /**
- * What a photo write makes the client read again: the site's photo queries (also after a refused write, which
- * changed nothing else), and whatever other features show of the positions the photos were filed at before and
+ * What a photo write makes the client read again: the site's photo queries but where photos can be filed (also after a
+ * refused write, which changed nothing else), and whatever other features show of the positions the photos were filed at before and
  * after the write, announced through `photosFiled` (the app joins it to the inventory: the tiles' photo counts and
  * the positions' details, one board page each; never the overview, board list or another site). Before, every
  * photo write invalidated every inventory query of every site.
@@ -104,7 +127,8 @@ export async function afterPhotoWrite(
   positions: ReadonlyArray<string | null | undefined>,
 ) {
   await Promise.all([
-    qc.invalidateQueries({ queryKey: photoKeys.all(siteId) }),
+    // Where photos can be filed (boards, positions) does not change with a photo: not read again.
+    qc.invalidateQueries({ queryKey: photoKeys.all(siteId), predicate: (q) => q.queryKey[2] !== "targets" }),
     positions.length ? photosFiled({ siteId, positions }) : undefined,
   ]);
 }

@@ -1,27 +1,33 @@
 import { useMemo, useState } from "react";
 import { useParams, useSearchParams } from "react-router";
 import { EmptyState, ErrorPanel, Loading, serverRefused } from "../../../components/status";
-import { usePhotoMutations, usePhotos, usePhotoTargets } from "../../../features/photos/api";
+import { useBoardPhotoTargets, usePhotoBoards, usePhotoMutations, usePhotos } from "../../../features/photos/api";
 import { ComparePhotos } from "../../../features/photos/components/compare-photos";
 import { PhotoGrid } from "../../../features/photos/components/photo-grid";
 import { PhotoViewer } from "../../../features/photos/components/photo-viewer";
 import type { Photo } from "../../../schemas/photos";
 import { useSiteContext } from "../sites/site-layout";
 import { can } from "../../../domain/permissions";
+import { useSitePositionSearch } from "./position-search";
 
 export default function GalleryPage() {
   const { siteId = "" } = useParams();
   const { role } = useSiteContext();
   const [params, setParams] = useSearchParams();
   const positionId = params.get("positionId") ?? undefined;
-  const targets = usePhotoTargets(siteId);
-  const boards = useMemo(
-    () => [...new Map((targets.data ?? []).map((t) => [t.boardId, t.boardName])).entries()],
-    [targets.data],
+  const boards = usePhotoBoards(siteId);
+  const photos = usePhotos(
+    siteId,
+    positionId ? { positionId } : { boardId: params.get("boardId") ?? boards.data?.[0]?.id },
+    !!(positionId || params.get("boardId") || boards.data?.length),
   );
-  const position = targets.data?.find((t) => t.positionId === positionId);
-  const boardId = positionId ? position?.boardId : (params.get("boardId") ?? boards[0]?.[0]);
-  const photos = usePhotos(siteId, positionId ? { positionId } : { boardId }, !!(positionId || boardId));
+  // A position's board: from the link when it says, else from its photos; its designation from that board's
+  // positions (one board, read when a position is shown), else from its photos.
+  const boardId = params.get("boardId") ?? (positionId ? photos.data?.[0]?.boardId : boards.data?.[0]?.id) ?? undefined;
+  const boardTargets = useBoardPhotoTargets(siteId, positionId ? boardId : undefined);
+  const designation =
+    boardTargets.data?.find((t) => t.positionId === positionId)?.designation ??
+    photos.data?.find((p) => p.positionId === positionId)?.designation;
   // Which group is open (null: the position's own list) and where; the list itself is read
   // from the query each render, so edits made in the viewer show at once.
   const [open, setOpen] = useState<{ group: string | null; i: number } | null>(null);
@@ -43,7 +49,11 @@ export default function GalleryPage() {
   return (
     <div className="space-y-4">
       <h1 className="text-2xl font-bold">
-        {position ? `Photos of position ${position.designation}` : "Photos by board"}
+        {positionId
+          ? designation
+            ? `Photos of position ${designation}`
+            : "Photos of this position"
+          : "Photos by board"}
       </h1>
       <label className="block max-w-md text-sm font-semibold text-mist">
         Board
@@ -52,9 +62,9 @@ export default function GalleryPage() {
           value={boardId ?? ""}
           onChange={(e) => setParams({ boardId: e.target.value })}
         >
-          {boards.map(([id, name]) => (
-            <option key={id} value={id}>
-              {name}
+          {(boards.data ?? []).map((b) => (
+            <option key={b.id} value={b.id}>
+              {b.name}
             </option>
           ))}
         </select>
@@ -103,7 +113,9 @@ export default function GalleryPage() {
           onIndex={(i) => setOpen({ ...open, i })}
           onClose={() => setOpen(null)}
           canDownloadOriginal={can(role, "photos.original")}
-          tagTargets={can(role, "photos.file") ? (targets.data ?? []) : undefined}
+          tagging={
+            can(role, "photos.file") ? { boards: boards.data ?? [], useSiteSearch: useSitePositionSearch } : undefined
+          }
           onDelete={
             can(role, "photos.delete")
               ? (p) => {

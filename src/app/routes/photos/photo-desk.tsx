@@ -1,16 +1,17 @@
 import { Link, useParams } from "react-router";
 import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
-import { usePhotoMutations, usePhotos, usePhotoTargets } from "../../../features/photos/api";
+import { usePhotoBoards, usePhotoMutations, usePhotos } from "../../../features/photos/api";
 import { BatchAssign } from "../../../features/photos/components/batch-assign";
 import { UploadPanel } from "../../../features/photos/components/upload-panel";
 import { useSiteContext } from "../sites/site-layout";
+import { useSitePositionSearch } from "./position-search";
 import { can } from "../../../domain/permissions";
 
 export default function PhotoDesk() {
   const { siteId = "" } = useParams();
   const { role } = useSiteContext();
-  const targets = usePhotoTargets(siteId);
+  const boards = usePhotoBoards(siteId);
   const unassigned = usePhotos(siteId, { unassigned: true }, can(role, "photos.file"));
   const { invalidate } = usePhotoMutations(siteId);
   if (!can(role, "photos.file"))
@@ -41,14 +42,24 @@ export default function PhotoDesk() {
           </Link>
         </p>
       </div>
-      {(targets.isLoadingError || serverRefused(targets.error)) && <ErrorPanel error={targets.error} />}
-      <UploadPanel siteId={siteId} targets={targets.data ?? []} onUploaded={(p) => void invalidate([p])} />
-      {unassigned.isPending || targets.isPending ? (
+      {(boards.isLoadingError || serverRefused(boards.error)) && <ErrorPanel error={boards.error} />}
+      <UploadPanel
+        siteId={siteId}
+        boards={boards.data ?? []}
+        useSiteSearch={useSitePositionSearch}
+        onUploaded={(p) => void invalidate([p])}
+      />
+      {unassigned.isPending || boards.isPending ? (
         <Loading what="Finding unfiled photos" />
       ) : unassigned.isLoadingError || serverRefused(unassigned.error) ? (
         <ErrorPanel error={unassigned.error} />
       ) : (
-        <BatchAssign siteId={siteId} photos={unassigned.data} targets={targets.data ?? []} />
+        <BatchAssign
+          siteId={siteId}
+          photos={unassigned.data}
+          boards={boards.data ?? []}
+          useSiteSearch={useSitePositionSearch}
+        />
       )}
     </div>
   );

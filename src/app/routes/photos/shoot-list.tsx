@@ -1,7 +1,6 @@
-import { useMemo } from "react";
 import { useParams, useSearchParams } from "react-router";
 import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
-import { usePhotoTargets } from "../../../features/photos/api";
+import { usePhotoBoards } from "../../../features/photos/api";
 import { RequiredShotsEditor, ShootListPanel } from "../../../features/photos/components/shoot-list-panel";
 import { useSiteContext } from "../sites/site-layout";
 import { can } from "../../../domain/permissions";
@@ -10,20 +9,16 @@ export default function ShootListPage() {
   const { siteId = "" } = useParams();
   const { role } = useSiteContext();
   const [params, setParams] = useSearchParams();
-  const targets = usePhotoTargets(siteId);
-  const boards = useMemo(
-    () => [...new Map((targets.data ?? []).map((t) => [t.boardId, t.boardName])).entries()],
-    [targets.data],
-  );
-  const boardId = params.get("boardId") ?? boards[0]?.[0];
+  const boards = usePhotoBoards(siteId);
+  const boardId = params.get("boardId") ?? boards.data?.[0]?.id;
   return (
     <div className="space-y-4">
       <h1 className="text-2xl font-bold">Shoot list</h1>
       {can(role, "photos.settings") && <RequiredShotsEditor siteId={siteId} />}
-      {targets.isPending ? (
+      {boards.isPending ? (
         <Loading what="Finding the boards" />
-      ) : targets.isLoadingError || serverRefused(targets.error) ? (
-        <ErrorPanel error={targets.error} />
+      ) : boards.isLoadingError || serverRefused(boards.error) ? (
+        <ErrorPanel error={boards.error} />
       ) : (
         <>
           <label className="block max-w-md text-sm font-semibold text-mist">
@@ -33,9 +28,9 @@ export default function ShootListPage() {
               value={boardId ?? ""}
               onChange={(e) => setParams({ boardId: e.target.value })}
             >
-              {boards.map(([id, name]) => (
-                <option key={id} value={id}>
-                  {name}
+              {(boards.data ?? []).map((b) => (
+                <option key={b.id} value={b.id}>
+                  {b.name}
                 </option>
               ))}
             </select>

@@ -1,8 +1,11 @@
 import { PHOTO_KINDS, PHOTO_KIND_LABELS, type PhotoKind } from "../../../domain/vocab";
-import type { Photo, PhotoTarget } from "../../../schemas/photos";
+import type { Photo } from "../../../schemas/photos";
 
 export interface Staged {
   positionId: string;
+  /** What the row shows of the position (the site's positions are not all on the phone to look it up). */
+  designation: string;
+  boardName: string;
   kind: PhotoKind;
   /** Where the kind came from: the file name said it, the photographer chose it, or the upload's kind. */
   kindFrom: "file name" | "chosen" | "upload";
@@ -19,13 +22,11 @@ const cols = "sm:grid-cols-[minmax(0,2fr)_minmax(0,1.2fr)_minmax(9rem,1fr)_minma
 export function AssignmentTable({
   photos,
   staged,
-  byId,
   onRemove,
   onKind,
 }: {
   photos: Photo[];
   staged: Record<string, Staged>;
-  byId: Map<string, PhotoTarget>;
   onRemove: (id: string) => void;
   onKind: (photo: Photo, kind: PhotoKind) => void;
 }) {
@@ -46,13 +47,12 @@ export function AssignmentTable({
       <ul className="divide-y divide-hull-700 border-t border-hull-700">
         {rows.map((p) => {
           const s = staged[p.id];
-          const t = byId.get(s.positionId);
           return (
             <li key={p.id} className={`grid items-center gap-x-3 gap-y-1 py-2 ${cols}`} data-testid="staged-row">
               <span className="min-w-0 font-mono break-all">{p.originalName}</span>
               <span className="min-w-0">
                 <span className="sr-only">Position </span>
-                <span className="font-mono">{t?.designation}</span> <span className="text-mist">{t?.boardName}</span>
+                <span className="font-mono">{s.designation}</span> <span className="text-mist">{s.boardName}</span>
               </span>
               <span className="min-w-0">
                 <select

@@ -1,38 +1,52 @@
-import { useEffect, useMemo, useState, type KeyboardEvent } from "react";
+import { useEffect, useState, type KeyboardEvent } from "react";
 import { useBlocker } from "react-router";
 import { Button } from "../../../components/button";
 import { ErrorPanel } from "../../../components/status";
-import { kindFromFileName, matchFileName, searchTargets } from "../../../domain/photo-matching";
+import { kindFromFileName, normalizeToken, searchTargets } from "../../../domain/photo-matching";
 import { PHOTO_KINDS, PHOTO_KIND_LABELS, type PhotoKind } from "../../../domain/vocab";
-import type { Photo, PhotoTarget } from "../../../schemas/photos";
-import { usePhotoMutations } from "../api";
+import type { Photo, PhotoTarget, PhotoTargetBoard } from "../../../schemas/photos";
+import { useBoardPhotoTargets, useMatchNames, usePhotoMutations } from "../api";
 import { AssignmentTable, type Staged } from "./assignment-table";
+import type { UseSiteSearch } from "./position-picker";
 import { RenditionImage } from "./rendition-image";
 
 interface Props {
   siteId: string;
   photos: Photo[];
-  targets: PhotoTarget[];
+  boards: PhotoTargetBoard[];
+  /** The site-wide search typing uses while no board is chosen (the page lends the inventory's look-up). */
+  useSiteSearch: UseSiteSearch;
 }
+
+const exact = (t: PhotoTarget, typed: string) =>
+  [t.designation, t.tagNumber ?? ""].some((v) => normalizeToken(v) === normalizeToken(typed));
+
+/** Names sent per request to the server's file-name matching (its limit). */
+const MATCH_BATCH = 500;
 
 /**
  * After a shoot: step through the unfiled photos and give each a position by typing
  * its designation or tag number (Enter files it and moves on; Page Up / Page Down step),
  * or match file names automatically — every match is shown before anything is saved.
+ * With a board chosen, typing searches that board's positions on the phone; without one, the whole site on the
+ * server. File names are matched on the server (tags across the site, designations on the chosen board).
  */
-export function BatchAssign({ siteId, photos, targets }: Props) {
+export function BatchAssign({ siteId, photos, boards, useSiteSearch }: Props) {
   const [index, setIndex] = useState(0);
   const [typed, setTyped] = useState("");
   const [boardId, setBoardId] = useState("");
   const [staged, setStaged] = useState<Record<string, Staged>>({});
   const [note, setNote] = useState("");
   const [kindFor, setKindFor] = useState<Record<string, PhotoKind>>({});
+  // Enter pressed before the answer for what was typed came: file to its first match once it does.
+  const [enterFor, setEnterFor] = useState<string | null>(null);
   const { assign } = usePhotoMutations(siteId);
-  const boards = useMemo(() => [...new Map(targets.map((t) => [t.boardId, t.boardName])).entries()], [targets]);
-  const pool = boardId ? targets.filter((t) => t.boardId === boardId) : targets;
-  const suggestions = searchTargets(typed, pool);
+  const match = useMatchNames(siteId);
+  const pool = useBoardPhotoTargets(siteId, boardId || undefined);
+  const site = useSiteSearch(siteId, boardId ? "" : typed);
+  const suggestions = boardId ? searchTargets(typed, pool.data ?? []) : site.targets.slice(0, 8);
+  const searching = !!typed.trim() && (boardId ? pool.isPending : site.pending);
   const current = photos[Math.min(index, photos.length - 1)];
-  const byId = useMemo(() => new Map(targets.map((t) => [t.positionId, t])), [targets]);
   const count = Object.keys(staged).length;
   useLeaveGuard(count);
 
@@ -58,6 +72,8 @@ export function BatchAssign({ siteId, photos, targets }: Props) {
       ...s,
       [photo.id]: {
         positionId: t.positionId,
+        designation: t.designation,
+        boardName: t.boardName,
         ...(s[photo.id] ? { kind: s[photo.id].kind, kindFrom: s[photo.id].kindFrom } : kindOf(photo)),
         source,
       },
@@ -67,11 +83,29 @@ export function BatchAssign({ siteId, photos, targets }: Props) {
     setStaged((s) => (s[photo.id] ? { ...s, [photo.id]: { ...s[photo.id], kind: k, kindFrom: "chosen" } } : s));
   };
 
+  const fileTo = (t: PhotoTarget | undefined) => {
+    if (!t) return setNote(`No position matches "${typed.trim()}".`);
+    stage(current, t, "typed");
+    go(index + 1);
+  };
+  // The answer Enter was waiting for is in (adjusted while rendering, as React's "storing information from
+  // previous renders"; not in an effect).
+  // Only an exact designation or tag is filed unseen; anything looser waits for the photographer's choice.
+  if (enterFor !== null && (enterFor !== typed || !searching)) {
+    setEnterFor(null);
+    const first = suggestions[0];
+    // (Typed on meanwhile: Enter meant the earlier text, and is dropped.)
+    if (enterFor === typed) {
+      if (!first || exact(first, typed)) fileTo(first);
+      else setNote(`No position is exactly "${typed.trim()}": choose one of those found.`);
+    }
+  }
+
   const onKey = (e: KeyboardEvent<HTMLInputElement>) => {
-    if (e.key === "Enter" && suggestions[0]) {
+    if (e.key === "Enter" && typed.trim()) {
       e.preventDefault();
-      stage(current, suggestions[0], "typed");
-      go(index + 1);
+      if (searching) setEnterFor(typed);
+      else fileTo(suggestions[0]);
     } else if (e.key === "PageDown") {
       e.preventDefault();
       go(index + 1);
@@ -81,16 +115,30 @@ export function BatchAssign({ siteId, photos, targets }: Props) {
     }
   };
 
-  const autoMatch = () => {
+  const autoMatch = async () => {
+    const open = photos.filter((p) => !staged[p.id]);
     let found = 0;
     let unsure = 0;
-    for (const p of photos) {
-      if (staged[p.id]) continue;
-      const m = matchFileName(p.originalName, targets, boardId || undefined);
-      if (m.kind === "tag" || m.kind === "designation") {
-        stage(p, byId.get(m.positionId)!, m.kind === "tag" ? "tag in file name" : "designation in file name");
-        found++;
-      } else if (m.kind === "ambiguous") unsure++;
+    try {
+      for (let i = 0; i < open.length; i += MATCH_BATCH) {
+        const batch = open.slice(i, i + MATCH_BATCH);
+        const r = await match.mutateAsync({
+          names: batch.map((p) => p.originalName),
+          boardId: boardId || undefined,
+        });
+        const byId = new Map(r.targets.map((t) => [t.positionId, t]));
+        batch.forEach((p, j) => {
+          const m = r.matches[j];
+          const t = m.kind === "tag" || m.kind === "designation" ? byId.get(m.positionId) : undefined;
+          if (t && m.kind !== "ambiguous" && m.kind !== "none") {
+            stage(p, t, m.kind === "tag" ? "tag in file name" : "designation in file name");
+            found++;
+          } else if (m.kind === "ambiguous") unsure++;
+        });
+      }
+    } catch {
+      setNote(`${found} matched by file name before the connection failed; match again to finish.`);
+      return;
     }
     setNote(
       `${found} matched by file name${unsure ? `; ${unsure} named a designation found on several boards — choose the board and match again` : ""}. Check them below, then save.`,
@@ -133,15 +181,15 @@ export function BatchAssign({ siteId, photos, targets }: Props) {
             onChange={(e) => setBoardId(e.target.value)}
           >
             <option value="">All boards</option>
-            {boards.map(([id, name]) => (
-              <option key={id} value={id}>
-                {name}
+            {boards.map((b) => (
+              <option key={b.id} value={b.id}>
+                {b.name}
               </option>
             ))}
           </select>
         </label>
-        <Button tone="quiet" onClick={autoMatch}>
-          Match file names
+        <Button tone="quiet" onClick={() => void autoMatch()} disabled={match.isPending}>
+          {match.isPending ? "Matching…" : "Match file names"}
         </Button>
         <p className="text-sm text-mist" aria-live="polite">
           {note}
@@ -175,7 +223,7 @@ export function BatchAssign({ siteId, photos, targets }: Props) {
           <p id="assign-help" className="hidden text-xs text-fog sm:block">
             Enter files this photo to the first match and moves on. Page Up / Page Down step without filing.
           </p>
-          <ul aria-label="Matching positions" className="space-y-1">
+          <ul aria-label="Matching positions" className="space-y-1" aria-busy={searching}>
             {suggestions.map((t, i) => (
               <li key={t.positionId}>
                 <button
@@ -212,7 +260,7 @@ export function BatchAssign({ siteId, photos, targets }: Props) {
           <p className="text-sm" aria-live="polite">
             {here ? (
               <>
-                Filed to <span className="font-mono">{byId.get(here.positionId)?.designation}</span> (not saved yet)
+                Filed to <span className="font-mono">{here.designation}</span> on {here.boardName} (not saved yet)
               </>
             ) : (
               "Not filed yet."
@@ -231,7 +279,6 @@ export function BatchAssign({ siteId, photos, targets }: Props) {
       <AssignmentTable
         photos={photos}
         staged={staged}
-        byId={byId}
         onRemove={(id) => setStaged(({ [id]: _, ...rest }) => rest)}
         onKind={setKind}
       />

@@ -5,41 +5,44 @@ import { WithMessage } from "../../../components/field";
 import { ApiError } from "../../../lib/api-client";
 import { fieldError, formMessage, showSaveError, useSchemaForm } from "../../../lib/form";
 import { PHOTO_KINDS, PHOTO_KIND_LABELS } from "../../../domain/vocab";
-import { photoPatch, type Photo, type PhotoTarget } from "../../../schemas/photos";
+import { photoPatch, type Photo, type PhotoTargetBoard } from "../../../schemas/photos";
 import { usePhotoMutations } from "../api";
+import { PositionPicker, type UseSiteSearch } from "./position-picker";
 
 const control = "mt-1 block min-h-11 w-full rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk";
 const STALE = "Someone changed this photo meanwhile; the form now shows their version. Edit again if needed.";
 
 /**
- * The form's text → the PATCH body; photoPatch (the server's own schema) validates it. The position
- * goes only when it changed: none means the photo stays filed to its board.
+ * The form's text → the PATCH body; photoPatch (the server's own schema) validates it. The place goes only
+ * when it changed: no position means the photo is filed to the chosen board itself.
  */
 const tagForm = (base: Photo) =>
   z
-    .object({ kind: z.string(), caption: z.string(), positionId: z.string() })
-    .transform(
-      ({ positionId, ...v }) =>
-        ({
-          ...v,
-          version: base.version,
-          ...(positionId !== (base.positionId ?? "")
-            ? { positionId: positionId || null, boardId: positionId ? undefined : base.boardId }
-            : {}),
-        }) as z.input<typeof photoPatch>,
-    )
+    .object({ kind: z.string(), caption: z.string(), boardId: z.string(), positionId: z.string() })
+    .transform(({ positionId, boardId, ...v }) => {
+      const moved = positionId
+        ? positionId !== (base.positionId ?? "")
+        : !!base.positionId || (!!boardId && boardId !== (base.boardId ?? ""));
+      return {
+        ...v,
+        version: base.version,
+        ...(moved ? { positionId: positionId || null, boardId: positionId ? undefined : boardId || base.boardId } : {}),
+      } as z.input<typeof photoPatch>;
+    })
     .pipe(photoPatch);
 
 /** Kind, caption and position of one photo; a stale edit shows the photo as it is now (409). */
 export function PhotoTagForm({
   siteId,
   photo,
-  targets,
+  boards,
+  useSiteSearch,
   onSaved,
 }: {
   siteId: string;
   photo: Photo;
-  targets: PhotoTarget[];
+  boards: PhotoTargetBoard[];
+  useSiteSearch?: UseSiteSearch;
   onSaved?: (p: Photo) => void;
 }) {
   // The photo as last stored: after a save, or as someone else left it (409).
@@ -55,7 +58,8 @@ export function PhotoTagForm({
       key={`${base.id}:${base.version}`}
       siteId={siteId}
       base={base}
-      targets={targets}
+      boards={boards}
+      useSiteSearch={useSiteSearch}
       note={note}
       onStored={(p, text) => {
         setBase(p);
@@ -70,22 +74,30 @@ export function PhotoTagForm({
 function TagFields({
   siteId,
   base,
-  targets,
+  boards,
+  useSiteSearch,
   note,
   onStored,
   clearNote,
 }: {
   siteId: string;
   base: Photo;
-  targets: PhotoTarget[];
+  boards: PhotoTargetBoard[];
+  useSiteSearch?: UseSiteSearch;
   note: string | null;
   onStored: (p: Photo, note: string) => void;
   clearNote: () => void;
 }) {
   const { patch } = usePhotoMutations(siteId);
   const schema = useMemo(() => tagForm(base), [base]);
-  const form = useSchemaForm(schema, { kind: base.kind, caption: base.caption, positionId: base.positionId ?? "" });
+  const form = useSchemaForm(schema, {
+    kind: base.kind,
+    caption: base.caption,
+    boardId: base.boardId ?? "",
+    positionId: base.positionId ?? "",
+  });
   const { register, formState } = form;
+  const place = { boardId: form.watch("boardId"), positionId: form.watch("positionId") };
   const e = (name: "kind" | "caption" | "positionId") => fieldError(formState.errors, name);
   const submit = form.handleSubmit((body) =>
     patch.mutateAsync({ id: base.id, ...body }).then(
@@ -104,7 +116,7 @@ function TagFields({
         void submit(ev);
       }}
       noValidate
-      className="grid gap-2 p-3 sm:grid-cols-[10rem_minmax(0,1fr)_14rem_auto] sm:items-end"
+      className="grid gap-2 p-3 sm:grid-cols-[10rem_minmax(0,1fr)_auto] sm:items-end"
       aria-label="Tag this photo"
     >
       <WithMessage error={e("kind")}>
@@ -137,24 +149,28 @@ function TagFields({
       </WithMessage>
       <WithMessage error={e("positionId")}>
         {(describedBy) => (
-          <label className="text-sm font-semibold text-mist">
-            Position
-            <select className={control} {...register("positionId")} aria-describedby={describedBy}>
-              <option value="">Not filed to a position</option>
-              {targets.map((t) => (
-                <option key={t.positionId} value={t.positionId}>
-                  {t.designation} · {t.boardName}
-                </option>
-              ))}
-            </select>
-          </label>
+          <fieldset className="sm:col-span-3">
+            <legend className="text-sm font-semibold text-mist">Filed to</legend>
+            <PositionPicker
+              siteId={siteId}
+              boards={boards}
+              value={place}
+              onChange={(p) => {
+                form.setValue("boardId", p.boardId, { shouldDirty: true });
+                form.setValue("positionId", p.positionId, { shouldDirty: true });
+              }}
+              useSiteSearch={useSiteSearch}
+              noPosition="Not filed to a position"
+              describedBy={describedBy}
+            />
+          </fieldset>
         )}
       </WithMessage>
       <Button type="submit" disabled={patch.isPending}>
         Save tags
       </Button>
       {message && (
-        <p role="status" className="text-sm text-mist sm:col-span-4">
+        <p role="status" className="text-sm text-mist sm:col-span-3">
           {message}
         </p>
       )}

@@ -1,8 +1,9 @@
 import { useEffect, useRef } from "react";
 import { PHOTO_KIND_LABELS } from "../../../domain/vocab";
-import type { Photo, PhotoTarget } from "../../../schemas/photos";
+import type { Photo, PhotoTargetBoard } from "../../../schemas/photos";
 import { photoUrl } from "../api";
 import { PhotoTagForm } from "./photo-tag-form";
+import type { UseSiteSearch } from "./position-picker";
 import { RenditionImage } from "./rendition-image";
 
 interface Props {
@@ -13,8 +14,8 @@ interface Props {
   onClose: () => void;
   canDownloadOriginal?: boolean;
   onDelete?: (p: Photo) => void;
-  /** Given to those who may tag (photographer, curator): the form under the picture. */
-  tagTargets?: PhotoTarget[];
+  /** Given to those who may tag (photographer, curator): the form under the picture, with where photos can go. */
+  tagging?: { boards: PhotoTargetBoard[]; useSiteSearch?: UseSiteSearch };
 }
 
 const btn =
@@ -29,7 +30,7 @@ export function PhotoViewer({
   onClose,
   canDownloadOriginal,
   onDelete,
-  tagTargets,
+  tagging,
 }: Props) {
   const close = useRef<HTMLButtonElement>(null);
   const p = photos[index];
@@ -114,7 +115,9 @@ export function PhotoViewer({
         {p.caption || "No caption."} {p.capturedAt && <>· taken {new Date(p.capturedAt).toLocaleString()}</>}{" "}
         {p.cameraModel && <>· {p.cameraModel}</>} · {p.width}×{p.height}
       </p>
-      {tagTargets && <PhotoTagForm siteId={siteId} photo={p} targets={tagTargets} />}
+      {tagging && (
+        <PhotoTagForm siteId={siteId} photo={p} boards={tagging.boards} useSiteSearch={tagging.useSiteSearch} />
+      )}
     </div>
   );
 }

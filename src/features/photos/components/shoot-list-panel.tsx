@@ -42,7 +42,10 @@ export function ShootListPanel({ siteId, boardId }: { siteId: string; boardId: s
         <ul className="grid gap-2 sm:grid-cols-2 lg:grid-cols-3" aria-label="Positions">
           {rows.map((p) => (
             <li key={p.id} className="rounded-md bg-hull-850 p-3 ring-1 ring-hull-700" data-testid="shoot-row">
-              <Link to={paths.photoGallery.href(siteId, { positionId: p.id })} className="font-mono font-semibold">
+              <Link
+                to={paths.photoGallery.href(siteId, { positionId: p.id, boardId })}
+                className="font-mono font-semibold"
+              >
                 {p.designation}
               </Link>
               <span className="ml-2 text-sm text-mist">

@@ -2,8 +2,9 @@ import { useState } from "react";
 import { useDropzone } from "react-dropzone";
 import { SelectField, TextField } from "../../../components/field";
 import { PHOTO_KINDS, PHOTO_KIND_LABELS, type PhotoKind } from "../../../domain/vocab";
-import type { Photo, PhotoTarget } from "../../../schemas/photos";
+import type { Photo, PhotoTargetBoard } from "../../../schemas/photos";
 import { useUploadQueue } from "../use-upload-queue";
+import { PositionPicker, type Place, type UseSiteSearch } from "./position-picker";
 import { UploadList } from "./upload-list";
 
 /** The browser's hint only; the server decides the type from the bytes. */
@@ -18,22 +19,25 @@ const ACCEPT = {
 
 export function UploadPanel({
   siteId,
-  targets,
+  boards,
+  useSiteSearch,
   onUploaded,
 }: {
   siteId: string;
-  targets: PhotoTarget[];
+  boards: PhotoTargetBoard[];
+  useSiteSearch?: UseSiteSearch;
   onUploaded?: (p: Photo) => void;
 }) {
   const [kind, setKind] = useState<PhotoKind>("as_found");
   const [caption, setCaption] = useState("");
-  const [positionId, setPositionId] = useState("");
+  const [place, setPlace] = useState<Place>({ boardId: "", positionId: "" });
+  const where = { boardId: place.boardId || undefined, positionId: place.positionId || undefined };
   const queue = useUploadQueue(siteId, onUploaded);
   const { getRootProps, getInputProps, isDragActive, open } = useDropzone({
     accept: ACCEPT,
     multiple: true,
     noClick: true,
-    onDrop: (files) => queue.add(files, { kind, caption, positionId: positionId || undefined }),
+    onDrop: (files) => queue.add(files, { kind, caption, ...where }),
   });
   const done = queue.items.filter((i) => i.state === "done").length;
 
@@ -42,7 +46,7 @@ export function UploadPanel({
       <h2 id="upload-title" className="text-xl font-bold">
         Upload a shoot
       </h2>
-      <div className="grid gap-3 sm:grid-cols-3">
+      <div className="grid gap-3 sm:grid-cols-2">
         <SelectField
           label="Kind of shot"
           value={kind}
@@ -55,25 +59,28 @@ export function UploadPanel({
             </option>
           ))}
         </SelectField>
-        <SelectField
-          label="File to position (optional)"
-          value={positionId}
-          onChange={(e) => setPositionId(e.target.value)}
-          hint="Or leave it and assign after the upload."
-        >
-          <option value="">Assign later</option>
-          {targets.map((t) => (
-            <option key={t.positionId} value={t.positionId}>
-              {t.designation} · {t.boardName}
-            </option>
-          ))}
-        </SelectField>
         <TextField
           label="Caption (optional)"
           value={caption}
           maxLength={500}
           onChange={(e) => setCaption(e.target.value)}
         />
+        <fieldset className="sm:col-span-2">
+          <legend className="text-sm font-semibold text-mist">File to (optional)</legend>
+          <p id="upload-place-hint" className="text-xs text-fog">
+            Choose the board, then the position, or type to find one. Or leave it and assign after the upload.
+          </p>
+          <PositionPicker
+            siteId={siteId}
+            boards={boards}
+            value={place}
+            onChange={setPlace}
+            useSiteSearch={useSiteSearch}
+            noBoard="Assign later"
+            noPosition="The board itself"
+            describedBy="upload-place-hint"
+          />
+        </fieldset>
       </div>
       <div
         {...getRootProps()}
@@ -99,7 +106,7 @@ export function UploadPanel({
               capture="environment"
               className="sr-only"
               onChange={(e) => {
-                queue.add([...(e.target.files ?? [])], { kind, caption, positionId: positionId || undefined });
+                queue.add([...(e.target.files ?? [])], { kind, caption, ...where });
                 e.target.value = "";
               }}
             />
