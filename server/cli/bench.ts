@@ -239,6 +239,13 @@ function cases(site: BenchSite, deepPage: number, boardPages: string[]): Case[] 
       paths: boardPages,
     },
     { group: "summary", label: "wanted list, first page", path: `${s}/parts` },
+    // Where a photo can be filed: the boards (what the photo pages read first), and one board's positions.
+    { group: "summary", label: "photo targets: the boards", path: `${s}/photo-targets` },
+    {
+      group: "summary",
+      label: `photo targets: one board (${site.largestBoard.positions} positions)`,
+      path: `${s}/boards/${site.largestBoard.id}/photo-targets`,
+    },
   ];
 }
 
