@@ -2,6 +2,7 @@ import { sql } from "kysely";
 import type { Insertable } from "kysely";
 import type { PhotosTable, RenditionState } from "../../db/types";
 import type { PhotoKind } from "../../src/domain/vocab";
+import { currentComponentOfP } from "../current-component-repository";
 import type { Db } from "../db";
 
 const cols = [
@@ -176,16 +177,6 @@ export const listTargetBoards = (db: Db, siteId: string) =>
     .orderBy("b.name")
     .execute();
 
-/** A position's current component, read by key (components_current_uq), never a hash of the site's components. */
-const currentComponent = (db: Db) =>
-  db
-    .selectFrom("components as c")
-    .select(["c.id", "c.tagNumber"])
-    .where("c.positionId", "=", sql.ref<string>("p.id"))
-    .where("c.retiredAt", "is", null)
-    .limit(1)
-    .as("c");
-
 const targetColumns = [
   "p.id as positionId",
   "p.boardId",
@@ -195,13 +186,16 @@ const targetColumns = [
   "c.id as componentId",
 ] as const;
 
-/** One board's positions in board order (as the shoot list), each with its current component's tag number. */
+/**
+ * One board's positions in board order (as the shoot list), each with its current component's tag number, read by
+ * key (`currentComponentOfP`), never a hash of the site's components.
+ */
 export const boardTargetsQuery = (db: Db, boardId: string) =>
   db
     .selectFrom("positions as p")
     .innerJoin("boards as b", "b.id", "p.boardId")
     .leftJoinLateral(
-      () => currentComponent(db),
+      () => currentComponentOfP(db, ["c.id", "c.tagNumber"]),
       (j) => j.onTrue(),
     )
     .select(targetColumns)
@@ -214,7 +208,7 @@ export const boardTargets = (db: Db, boardId: string) => boardTargetsQuery(db, b
 
 /**
  * The positions a shoot's file names could name: those whose designation (on `boardId` only, when given) or whose
- * current component's tag number is one of `tokens` once normalised (name_token(), migration 2026_12_12_0600; both
+ * current component's tag number is one of `tokens` once normalised (name_token(), migration 2026_12_13_0600; both
  * lookups served by its indexes, so the cost follows the tokens and their matches, not the site's size).
  */
 export const targetsNamedQuery = (db: Db, siteId: string, tokens: string[], boardId?: string) => {
@@ -222,7 +216,7 @@ export const targetsNamedQuery = (db: Db, siteId: string, tokens: string[], boar
     .selectFrom("positions as p")
     .innerJoin("boards as b", "b.id", "p.boardId")
     .leftJoinLateral(
-      () => currentComponent(db),
+      () => currentComponentOfP(db, ["c.id", "c.tagNumber"]),
       (j) => j.onTrue(),
     )
     .select(targetColumns)
