@@ -116,7 +116,7 @@ function TagFields({
         void submit(ev);
       }}
       noValidate
-      className="grid gap-2 p-3 sm:grid-cols-[10rem_minmax(0,1fr)_auto] sm:items-end"
+      className="grid gap-2 p-3 sm:grid-cols-[10rem_minmax(0,1fr)] sm:items-end"
       aria-label="Tag this photo"
     >
       <WithMessage error={e("kind")}>
@@ -147,9 +147,9 @@ function TagFields({
           </label>
         )}
       </WithMessage>
-      <WithMessage error={e("positionId")}>
+      <WithMessage error={e("positionId")} className="sm:col-span-2">
         {(describedBy) => (
-          <fieldset className="sm:col-span-3">
+          <fieldset>
             <legend className="text-sm font-semibold text-mist">Filed to</legend>
             <PositionPicker
               siteId={siteId}
@@ -166,11 +166,11 @@ function TagFields({
           </fieldset>
         )}
       </WithMessage>
-      <Button type="submit" disabled={patch.isPending}>
+      <Button type="submit" disabled={patch.isPending} className="sm:col-span-2 sm:justify-self-start">
         Save tags
       </Button>
       {message && (
-        <p role="status" className="text-sm text-mist sm:col-span-3">
+        <p role="status" className="text-sm text-mist sm:col-span-2">
           {message}
         </p>
       )}
