@@ -2,7 +2,7 @@ import { sql } from "kysely";
 import type { Insertable, UpdateObject } from "kysely";
 import type { Database } from "../../db/types";
 import type { Db } from "../db";
-import { currentComponentOfP } from "../current-component-repository";
+import { currentComponentOfP } from "../inventory/current-component-reads";
 import { rankOrderSql, registerBase, ROW_SELECTION, type RegisterRow } from "./list-repository";
 
 export const findRow = async (db: Db, siteId: string, id: string) =>
@@ -175,7 +175,7 @@ export const listPositions = (db: Db, siteId: string, boardId: string) =>
   db
     .selectFrom("positions as p")
     .leftJoinLateral(
-      () => currentComponentOfP(db, ["c.id"]),
+      () => currentComponentOfP(["c.id"]),
       (j) => j.onTrue(),
     )
     .select(["p.id", "p.designation", "p.sectionId", "c.id as componentId"])

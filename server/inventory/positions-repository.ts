@@ -3,7 +3,7 @@ import type { ComponentsTable, PositionsTable } from "../../db/types";
 import type { Db } from "../db";
 import { newestInspection } from "./survey-repository";
 import { statementCache } from "../statement-cache";
-import { currentComponentOfP } from "../current-component-repository";
+import { currentComponentOfP } from "./current-component-reads";
 import { LOOSE_KEY_SQL, looseKey } from "../../src/domain/search-keys";
 import { COMPONENT_KINDS, COMPONENT_KIND_LABELS, COMPONENT_KIND_SHORT } from "../../src/domain/vocab";
 import type { TilePageKey } from "../../src/schemas/inventory";
@@ -48,7 +48,7 @@ const tilePageStatement = statementCache(
       .selectFrom("positions as p")
       .leftJoinLateral(
         () =>
-          currentComponentOfP(db, [
+          currentComponentOfP([
             "c.id",
             "c.kind",
             "c.tagNumber",
@@ -139,7 +139,7 @@ export const thumbnailCellsQuery = (db: Db, boardId: string) =>
   db
     .selectFrom("positions as p")
     .leftJoinLateral(
-      () => currentComponentOfP(db, ["c.id", "c.custody"]),
+      () => currentComponentOfP(["c.id", "c.custody"]),
       (j) => j.onTrue(),
     )
     .leftJoinLateral(

@@ -2,7 +2,7 @@ import { sql } from "kysely";
 import type { Insertable } from "kysely";
 import type { PhotosTable, RenditionState } from "../../db/types";
 import type { PhotoKind } from "../../src/domain/vocab";
-import { currentComponentOfP } from "../current-component-repository";
+import { currentComponentOfP } from "../inventory/current-component-reads";
 import type { Db } from "../db";
 
 const cols = [
@@ -195,7 +195,7 @@ export const boardTargetsQuery = (db: Db, boardId: string) =>
     .selectFrom("positions as p")
     .innerJoin("boards as b", "b.id", "p.boardId")
     .leftJoinLateral(
-      () => currentComponentOfP(db, ["c.id", "c.tagNumber"]),
+      () => currentComponentOfP(["c.id", "c.tagNumber"]),
       (j) => j.onTrue(),
     )
     .select(targetColumns)
@@ -216,7 +216,7 @@ export const targetsNamedQuery = (db: Db, siteId: string, tokens: string[], boar
     .selectFrom("positions as p")
     .innerJoin("boards as b", "b.id", "p.boardId")
     .leftJoinLateral(
-      () => currentComponentOfP(db, ["c.id", "c.tagNumber"]),
+      () => currentComponentOfP(["c.id", "c.tagNumber"]),
       (j) => j.onTrue(),
     )
     .select(targetColumns)

@@ -10,7 +10,7 @@ import type {
   TripTestsTable,
 } from "../../db/types";
 import type { Db } from "../db";
-import { currentComponentOfP } from "../current-component-repository";
+import { currentComponentOfP } from "../inventory/current-component-reads";
 
 export const findBoard = (db: Db, siteId: string, boardId: string) =>
   db
@@ -66,7 +66,7 @@ export const boardTargets = (db: Db, boardId: string) =>
   db
     .selectFrom("positions as p")
     .leftJoinLateral(
-      () => currentComponentOfP(db, ["c.id"]),
+      () => currentComponentOfP(["c.id"]),
       (j) => j.onTrue(),
     )
     .select(["p.id as positionId", "p.designation", "p.circuit", "p.kind", "c.id as componentId"])

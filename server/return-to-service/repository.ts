@@ -7,7 +7,7 @@ import { sql, type Insertable, type Updateable } from "kysely";
 import type { Database } from "../../db/types";
 import type { EvidenceItem } from "../../src/schemas/return-to-service";
 import type { Db } from "../db";
-import { currentComponentOfP } from "../current-component-repository";
+import { currentComponentOfP } from "../inventory/current-component-reads";
 
 type T = Database;
 
@@ -37,7 +37,7 @@ export const listPositions = (db: Db, boardId: string) =>
   db
     .selectFrom("positions as p")
     .leftJoinLateral(
-      () => currentComponentOfP(db, ["c.id", "c.kind", "c.year"]),
+      () => currentComponentOfP(["c.id", "c.kind", "c.year"]),
       (j) => j.onTrue(),
     )
     .select([
