@@ -22,12 +22,15 @@ export function HeritageRuleBadge({ rule, large = false }: { rule: HeritageRule;
 
 /*
  * Where the part is on its way to the board, as a store-room word with a mark of its own
- * (⌕ hunted, ☍ a lead, ⛟ on its way, ☑ in the store and inspected, ⚙ fitted, — cancelled).
+ * (⌕ hunted, ☍ a lead, ➜ on its way, ☑ in the store and inspected, ⚙ fitted, — cancelled). The marks
+ * are decoration beside the word (aria-hidden) and none is in the shipped fonts, so they come from the system's
+ * fallback fonts: on Debian (`fc-list ':charset=26df'`) no font carried ⛟, which drew as an empty box; DejaVu Sans
+ * carries the ones above.
  */
 const PART_MARK: Record<PartStatus, string> = {
   wanted: "⌕",
   lead_found: "☍",
-  acquired: "⛟",
+  acquired: "➜",
   received: "☑",
   fitted: "⚙",
   cancelled: "—",
