@@ -131,6 +131,14 @@ test("the shoot list shows what is missing, and the gallery's viewer steps with 
     .click();
   const viewer = page.getByRole("dialog");
   await expect(viewer).toHaveAccessibleName(/^Photo 1 of 2/);
+  // A modal dialog (HTML's showModal): in the top layer, the page beneath inert and not scrolling behind it.
+  expect(
+    await page.evaluate(() => ({
+      modal: document.querySelector("dialog")?.matches(":modal"),
+      overflow: getComputedStyle(document.documentElement).overflow,
+    })),
+  ).toEqual({ modal: true, overflow: "hidden" });
+  await expect(viewer.getByRole("button", { name: "Close" })).toBeFocused();
   await page.keyboard.press("ArrowRight");
   await expect(viewer).toHaveAccessibleName(/^Photo 2 of 2/);
   await page.keyboard.press("ArrowLeft");
@@ -142,4 +150,7 @@ test("the shoot list shows what is missing, and the gallery's viewer steps with 
   await page.screenshot({ path: "/tmp/photos-viewer-desktop.png" });
   await page.keyboard.press("Escape");
   await expect(viewer).toBeHidden();
+  // Closed, focus is back on the photo it was opened from, and the page scrolls again.
+  await expect(page.getByRole("button", { name: /^Open photo/ }).first()).toBeFocused();
+  expect(await page.evaluate(() => getComputedStyle(document.documentElement).overflow)).toBe("visible");
 });

@@ -1,4 +1,4 @@
-import { useEffect, useRef } from "react";
+import { useEffect, useLayoutEffect, useRef } from "react";
 import { PHOTO_KIND_LABELS } from "../../../domain/vocab";
 import type { Photo, PhotoTargetBoard } from "../../../schemas/photos";
 import { photoUrl } from "../api";
@@ -21,7 +21,12 @@ interface Props {
 const btn =
   "min-h-11 min-w-11 rounded-md bg-hull-800 px-3 font-semibold text-chalk ring-1 ring-hull-600 hover:bg-hull-700";
 
-/** Full screen, one photo at a time: ← and → step through, Esc closes. */
+/**
+ * Full screen, one photo at a time: ← and → step through, Esc closes. A native modal `<dialog>` (HTML's
+ * `showModal()`): it is drawn in the top layer over everything, whatever stacking the page beneath has made, and
+ * the page beneath is inert, so Tab and a screen reader stay on the photo; the page does not scroll behind it
+ * (index.css, `html:has(dialog:modal)`).
+ */
 export function PhotoViewer({
   siteId,
   photos,
@@ -33,12 +38,21 @@ export function PhotoViewer({
   tagging,
 }: Props) {
   const close = useRef<HTMLButtonElement>(null);
+  const dialog = useRef<HTMLDialogElement>(null);
   const p = photos[index];
-  useEffect(() => {
+  const shown = !!p;
+  // Before the first paint, so the dialog is never drawn in the page's flow first.
+  useLayoutEffect(() => {
+    const d = dialog.current;
+    if (!d) return;
     const opener = document.activeElement as HTMLElement | null;
+    if (!d.open) d.showModal();
     close.current?.focus();
-    return () => opener?.focus?.();
-  }, []);
+    return () => {
+      if (d.open) d.close();
+      opener?.focus?.();
+    };
+  }, [shown]);
   useEffect(() => {
     const key = (e: KeyboardEvent) => {
       // Arrows inside the tag form move the caret, not the photo.
@@ -55,11 +69,15 @@ export function PhotoViewer({
   if (!p) return null;
   const title = [p.designation && `Position ${p.designation}`, PHOTO_KIND_LABELS[p.kind]].filter(Boolean).join(" · ");
   return (
-    <div
-      role="dialog"
-      aria-modal="true"
+    <dialog
+      ref={dialog}
       aria-label={`Photo ${index + 1} of ${photos.length}: ${title}`}
-      className="fixed inset-0 z-50 flex flex-col overflow-y-auto bg-hull-950"
+      // Esc is handled with the arrows above; the dialog's own cancel (Esc, a phone's back gesture) closes the same way.
+      onCancel={(e) => {
+        e.preventDefault();
+        onClose();
+      }}
+      className="fixed inset-0 m-0 flex h-full max-h-none w-full max-w-none flex-col overflow-y-auto bg-hull-950 p-0 text-chalk backdrop:bg-hull-950"
     >
       <div className="flex flex-wrap items-center gap-2 p-2">
         <p className="flex-1 text-sm text-chalk">
@@ -118,6 +136,6 @@ export function PhotoViewer({
       {tagging && (
         <PhotoTagForm siteId={siteId} photo={p} boards={tagging.boards} useSiteSearch={tagging.useSiteSearch} />
       )}
-    </div>
+    </dialog>
   );
 }
