@@ -5,7 +5,8 @@ import type { PartsBudget } from "../../../schemas/parts";
 /**
  * Estimated (unit cost × quantity) against spent (acquisitions), per board and in total, in the
  * site's currency. Each figure sits in its own labelled cell with room between them, so two amounts
- * never read as one; on a phone each board is a short card of two labelled figures.
+ * never read as one, and an amount never breaks across lines (a broken "12,4|50.00" reads as two figures): the
+ * columns take the amounts' width and the board's name wraps instead; a table wider than a phone scrolls sideways.
  */
 export function BudgetPanel({ budget, settings }: { budget: PartsBudget; settings?: ReactNode }) {
   const { currency } = useMoney();
@@ -14,57 +15,54 @@ export function BudgetPanel({ budget, settings }: { budget: PartsBudget; setting
       <h2 id="budget-title" className="text-lg font-bold">
         Budget <span className="text-sm font-normal text-mist">in {currency}</span>
       </h2>
-      <table className="mt-2 w-full table-fixed text-sm">
-        <colgroup>
-          <col />
-          <col className="w-[32%]" />
-          <col className="w-[32%]" />
-        </colgroup>
-        <thead>
-          <tr className="text-left text-mist">
-            <th scope="col" className="py-1">
-              Board
-            </th>
-            <th scope="col" className="py-1 pl-3 text-right">
-              Estimated
-            </th>
-            <th scope="col" className="py-1 pl-3 text-right">
-              Spent
-            </th>
-          </tr>
-        </thead>
-        <tbody>
-          {budget.rows.map((r) => (
-            <tr key={r.boardId || "none"} className="border-t border-hull-700 align-top">
-              <th scope="row" className="break-words py-1 text-left font-normal">
-                {r.boardName}
-                {r.unestimatedLines > 0 && (
-                  <span className="block text-xs text-fog">{r.unestimatedLines} line(s) not yet estimated</span>
-                )}
+      <div className="mt-2 overflow-x-auto">
+        <table className="w-full text-sm">
+          <thead>
+            <tr className="text-left text-mist">
+              <th scope="col" className="py-1">
+                Board
               </th>
-              <td className="break-words py-1 pl-3 text-right font-mono">
-                <Money value={r.estimated} />
+              <th scope="col" className="py-1 pl-3 text-right">
+                Estimated
+              </th>
+              <th scope="col" className="py-1 pl-3 text-right">
+                Spent
+              </th>
+            </tr>
+          </thead>
+          <tbody>
+            {budget.rows.map((r) => (
+              <tr key={r.boardId || "none"} className="border-t border-hull-700 align-top">
+                <th scope="row" className="break-words py-1 text-left font-normal">
+                  {r.boardName}
+                  {r.unestimatedLines > 0 && (
+                    <span className="block text-xs text-fog">{r.unestimatedLines} line(s) not yet estimated</span>
+                  )}
+                </th>
+                <td className="whitespace-nowrap py-1 pl-3 text-right font-mono">
+                  <Money value={r.estimated} />
+                </td>
+                <td className="whitespace-nowrap py-1 pl-3 text-right font-mono">
+                  <Money value={r.spent} />
+                </td>
+              </tr>
+            ))}
+          </tbody>
+          <tfoot>
+            <tr className="border-t-2 border-hull-500 align-top font-semibold">
+              <th scope="row" className="py-1 text-left">
+                Total
+              </th>
+              <td className="whitespace-nowrap py-1 pl-3 text-right font-mono" data-testid="budget-estimated">
+                <Money value={budget.total.estimated} />
               </td>
-              <td className="break-words py-1 pl-3 text-right font-mono">
-                <Money value={r.spent} />
+              <td className="whitespace-nowrap py-1 pl-3 text-right font-mono" data-testid="budget-spent">
+                <Money value={budget.total.spent} />
               </td>
             </tr>
-          ))}
-        </tbody>
-        <tfoot>
-          <tr className="border-t-2 border-hull-500 align-top font-semibold">
-            <th scope="row" className="py-1 text-left">
-              Total
-            </th>
-            <td className="break-words py-1 pl-3 text-right font-mono" data-testid="budget-estimated">
-              <Money value={budget.total.estimated} />
-            </td>
-            <td className="break-words py-1 pl-3 text-right font-mono" data-testid="budget-spent">
-              <Money value={budget.total.spent} />
-            </td>
-          </tr>
-        </tfoot>
-      </table>
+          </tfoot>
+        </table>
+      </div>
       <p className="mt-2 text-xs text-fog">Spent on a line is shared across boards by how many each needs.</p>
       {settings && <div className="mt-3 border-t border-hull-700 pt-3">{settings}</div>}
     </section>
