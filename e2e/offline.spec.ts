@@ -43,18 +43,22 @@ async function visitOnline(page: Page, m: Awaited<ReturnType<typeof makeBreaker>
   await expectKept(page, ["inventory", m.siteId, "board", m.boardId]);
   await page.goto(`/sites/${m.siteId}/log?position=${m.positionId}`);
   await expect(page.getByTestId("log-designation")).toHaveText(m.designation);
-  await page.getByRole("tab", { name: "Move the part" }).click();
-  await expect(page.getByTestId("custody-proposal")).toBeVisible();
-  await page.getByRole("tab", { name: "Inspection" }).click();
   await page.evaluate(() => navigator.serviceWorker.ready.then(() => undefined));
   // The first visit is served before the worker exists; once it is active it claims the page.
   if (!(await page.evaluate(() => !!navigator.serviceWorker.controller))) await page.reload();
   await expect.poll(() => page.evaluate(() => !!navigator.serviceWorker.controller), { timeout: 15_000 }).toBe(true);
-  // The kept reads are written at most once a second: wait until this board and position are on the phone.
+  // The move tab's choices are read after that reload: read before it, they could be lost with it (the kept reads
+  // are written at most once a second), and offline the tab then had no moves to offer.
+  await expect(page.getByTestId("log-designation")).toHaveText(m.designation);
+  await page.getByRole("tab", { name: "Move the part" }).click();
+  await expect(page.getByTestId("custody-proposal")).toBeVisible();
+  await page.getByRole("tab", { name: "Inspection" }).click();
+  // Wait until this board, the position and its moves are on the phone.
   await expectKept(
     page,
     ["inventory", m.siteId, "board", m.boardId],
     ["inventory", m.siteId, "position", m.positionId],
+    ["inventory", m.siteId, "custody-options"],
   );
 }
 
