@@ -8,6 +8,9 @@ import type { PartsBudget } from "../../../schemas/parts";
  * never read as one, and an amount never breaks across lines (a broken "12,4|50.00" reads as two figures): the
  * columns take the amounts' width and the board's name wraps instead; a table wider than a phone scrolls sideways.
  */
+/** An amount's cell: never broken across lines. */
+const AMOUNT = "whitespace-nowrap py-1 pl-3 text-right font-mono";
+
 export function BudgetPanel({ budget, settings }: { budget: PartsBudget; settings?: ReactNode }) {
   const { currency } = useMoney();
   return (
@@ -39,10 +42,10 @@ export function BudgetPanel({ budget, settings }: { budget: PartsBudget; setting
                     <span className="block text-xs text-fog">{r.unestimatedLines} line(s) not yet estimated</span>
                   )}
                 </th>
-                <td className="whitespace-nowrap py-1 pl-3 text-right font-mono">
+                <td className={AMOUNT}>
                   <Money value={r.estimated} />
                 </td>
-                <td className="whitespace-nowrap py-1 pl-3 text-right font-mono">
+                <td className={AMOUNT}>
                   <Money value={r.spent} />
                 </td>
               </tr>
@@ -53,10 +56,10 @@ export function BudgetPanel({ budget, settings }: { budget: PartsBudget; setting
               <th scope="row" className="py-1 text-left">
                 Total
               </th>
-              <td className="whitespace-nowrap py-1 pl-3 text-right font-mono" data-testid="budget-estimated">
+              <td className={AMOUNT} data-testid="budget-estimated">
                 <Money value={budget.total.estimated} />
               </td>
-              <td className="whitespace-nowrap py-1 pl-3 text-right font-mono" data-testid="budget-spent">
+              <td className={AMOUNT} data-testid="budget-spent">
                 <Money value={budget.total.spent} />
               </td>
             </tr>

@@ -77,7 +77,9 @@ export function PhotoViewer({
         e.preventDefault();
         onClose();
       }}
-      className="fixed inset-0 m-0 flex h-full max-h-none w-full max-w-none flex-col overflow-y-auto bg-hull-950 p-0 text-chalk backdrop:bg-hull-950"
+      // A close by the browser itself (a back gesture with no cancel before it) leaves the viewer in step.
+      onClose={onClose}
+      className="fixed inset-0 m-0 open:flex h-full max-h-none w-full max-w-none flex-col overflow-y-auto bg-hull-950 p-0 text-chalk backdrop:bg-hull-950"
     >
       <div className="flex flex-wrap items-center gap-2 p-2">
         <p className="flex-1 text-sm text-chalk">
