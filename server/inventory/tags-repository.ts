@@ -6,9 +6,23 @@ import type { Db } from "../db";
 export const lockSiteTags = (trx: Db, siteId: string) =>
   sql`select pg_advisory_xact_lock(hashtext(${`tideline:tags:${siteId}`}))`.execute(trx);
 
-/** The current components at these positions, locked, in board and label order. */
-export const componentsToTag = (trx: Db, siteId: string, positionIds: string[]) =>
-  trx
+/**
+ * The current components at these positions, in board and label order (the order tags are given out in),
+ * locked first in id order: the one order every writer that takes several components uses
+ * (survey-repository's `lockComponents`), so a tag run crossing a part's fitting waits instead of
+ * deadlocking. With ORDER BY, FOR NO KEY UPDATE takes the rows in the sorted order, hence two statements.
+ */
+export const componentsToTag = async (trx: Db, siteId: string, positionIds: string[]) => {
+  await trx
+    .selectFrom("components")
+    .select("id")
+    .where("siteId", "=", siteId)
+    .where("positionId", "in", positionIds)
+    .where("retiredAt", "is", null)
+    .orderBy("id")
+    .forNoKeyUpdate()
+    .execute();
+  return trx
     .selectFrom("components as c")
     .innerJoin("positions as p", "p.id", "c.positionId")
     .select(["c.id", "c.positionId", "c.tagNumber", "p.boardId", "p.designation", "p.sortOrder"])
@@ -18,8 +32,8 @@ export const componentsToTag = (trx: Db, siteId: string, positionIds: string[]) 
     .orderBy("p.boardId")
     .orderBy("p.sortOrder")
     .orderBy("p.designation")
-    .forNoKeyUpdate("c")
     .execute();
+};
 
 /** Every tag number in use on the site (retired components' too). */
 export const siteTagNumbers = async (trx: Db, siteId: string) =>
