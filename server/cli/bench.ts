@@ -36,10 +36,10 @@
 import "../bench/quiet";
 import { spawn, spawnSync } from "node:child_process";
 import { randomBytes } from "node:crypto";
-import { readFileSync } from "node:fs";
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import type { AddressInfo } from "node:net";
 import { createServer } from "node:net";
-import { cpus, totalmem } from "node:os";
+import { cpus, tmpdir, totalmem } from "node:os";
 import { join } from "node:path";
 import { Agent, request } from "node:http";
 import { monitorEventLoopDelay } from "node:perf_hooks";
@@ -63,6 +63,7 @@ import {
   startCanary,
   startHealthProber,
 } from "../bench/load";
+import type { FloorPath } from "../bench/floor-server";
 import { capturingDb, planReplay, replay, type Replay } from "../bench/replay";
 import { BENCH_PASSWORD, describeSite, generateSite, type BenchSite } from "../bench/site";
 import { median, percentile, spread, table } from "../bench/stats";
@@ -154,6 +155,40 @@ async function startServer(url: string) {
       if (child.exitCode !== null || child.signalCode !== null) return;
       child.kill("SIGTERM");
       await new Promise((r) => child.once("exit", r));
+    },
+  };
+}
+
+/**
+ * The bare-HTTP side (server/bench/floor-server.ts) as its own process, serving these paths: each one's statements
+ * replayed with bare pg and the endpoint's answer sent by node:http alone. BENCH_FLOOR=0 leaves it out.
+ */
+async function startFloor(url: string, paths: Record<string, FloorPath>, poolMax: number) {
+  const dir = mkdtempSync(join(tmpdir(), "tideline-floor-"));
+  const file = join(dir, "plans.json");
+  writeFileSync(file, JSON.stringify(paths));
+  const child = spawn(process.execPath, ["--import", "tsx", "server/bench/floor-server.ts", file], {
+    cwd: projectRoot,
+    env: { ...process.env, DATABASE_URL: url, FLOOR_POOL_MAX: String(poolMax) },
+    stdio: ["ignore", "pipe", "inherit"],
+  });
+  const port = await new Promise<number>((resolve, reject) => {
+    let out = "";
+    child.stdout!.on("data", (d: Buffer) => {
+      out += d.toString();
+      const m = /listening (\d+)/.exec(out);
+      if (m) resolve(Number(m[1]));
+    });
+    child.once("exit", (code) => reject(new Error(`the bare-HTTP side exited (code ${code})`)));
+  });
+  return {
+    base: `http://127.0.0.1:${port}`,
+    stop: async () => {
+      if (child.exitCode === null && child.signalCode === null) {
+        child.kill("SIGTERM");
+        await new Promise((r) => child.once("exit", r));
+      }
+      rmSync(dir, { recursive: true, force: true });
     },
   };
 }
@@ -250,6 +285,8 @@ function cases(site: BenchSite, deepPage: number, boardPages: string[]): Case[] 
 }
 
 const keepAlive = new Agent({ keepAlive: true, maxSockets: 1 });
+/** The bare-HTTP side's client: a kept-alive connection of its own, as the endpoint's. */
+const floorAgent = new Agent({ keepAlive: true, maxSockets: 1 });
 
 /**
  * Every request of the bench asks for compression as a browser does (a browser always sends Accept-Encoding), so
@@ -280,6 +317,8 @@ interface Got {
   wire: number;
   /** The Content-Encoding the server chose ("identity" when none). */
   encoding: string;
+  /** The body, decoded. */
+  body?: Buffer;
 }
 
 /**
@@ -305,7 +344,7 @@ function timedGet(base: string, path: string, cookie: string | null, agent: Agen
           return reject(e);
         }
         if (res.statusCode === 200)
-          resolve({ ms: performance.now() - a, bytes: body.length, wire: sent.length, encoding });
+          resolve({ ms: performance.now() - a, bytes: body.length, wire: sent.length, encoding, body });
         else reject(new Error(`${path} answered ${res.statusCode}: ${body.toString().slice(0, 200)}`));
       });
     });
@@ -343,6 +382,7 @@ async function main() {
   const POOL = appPoolMax(url);
   const raw = new pg.Pool({ connectionString: url, max: POOL });
   let server: Awaited<ReturnType<typeof startServer>> | undefined;
+  let stopFloor: (() => Promise<void>) | undefined;
   let removeStatic = () => {};
   let generated = false;
   let failed = true;
@@ -408,29 +448,46 @@ async function main() {
       }
       const list = all.filter((c) => c.plan);
       if (skipped.length) say(`  left out (capture failed): ${skipped.join(", ")}`);
+      // The bare-HTTP side needs each path's own statements and answer (a case read page by page has several).
+      const floorPaths: Record<string, FloorPath> = {};
+      if (process.env.BENCH_FLOOR !== "0")
+        for (const c of list)
+          for (const path of c.paths ?? [c.path]) {
+            capture.take();
+            const got = await timedGet(capBase, path, cookie, capAgent);
+            floorPaths[path] = { plan: planReplay(capture.take()), body: got.body!.toString("utf8") };
+          }
       app.closeAllConnections();
       app.close();
       await capture.close();
+      const floor = Object.keys(floorPaths).length ? await startFloor(url, floorPaths, POOL) : null;
+      stopFloor = floor?.stop;
 
       // 1. Endpoints against their statements replayed raw.
-      const perCase = new Map<string, { http: number[]; raw: number[]; ratio: number[] }>();
-      for (const c of list) perCase.set(c.label, { http: [], raw: [], ratio: [] });
+      const perCase = new Map<
+        string,
+        { http: number[]; raw: number[]; ratio: number[]; bare: number[]; bareRatio: number[]; over: number[] }
+      >();
+      for (const c of list) perCase.set(c.label, { http: [], raw: [], ratio: [], bare: [], bareRatio: [], over: [] });
       const timeEndpoints = process.env.BENCH_ENDPOINTS !== "load";
       for (let run = 0; timeEndpoints && run < RUNS; run++) {
         for (const c of list) {
           const http: number[] = [];
           const rawMs: number[] = [];
+          const bareMs: number[] = [];
           try {
             for (let i = 0; i < N + 2; i++) {
               const h = await timedCase(base, c, cookie);
               c.wire = h.wire;
               c.encoding = h.encoding;
+              const b = floor ? (await timedCase(floor.base, c, null, floorAgent)).ms : NaN;
               const a = performance.now();
               await replay(raw, c.plan!);
               const r = performance.now() - a;
               if (i >= 2) {
                 http.push(h.ms);
                 rawMs.push(r);
+                bareMs.push(b);
               }
             }
           } catch (e) {
@@ -441,6 +498,9 @@ async function main() {
           f.http.push(median(http));
           f.raw.push(median(rawMs));
           f.ratio.push(median(http) / median(rawMs));
+          f.bare.push(median(bareMs));
+          f.bareRatio.push(median(bareMs) / median(rawMs));
+          f.over.push(median(http) / median(bareMs));
         }
       }
       if (timeEndpoints) {
@@ -464,6 +524,20 @@ async function main() {
             }),
           ),
         );
+        if (floor) {
+          say(
+            `\n1b. The same statements and answers over bare HTTP (server/bench/floor-server.ts: node:http alone, the statements replayed with bare pg, the endpoint's answer stringified and compressed as the server does; no Express, session logic, logging or validation), timed in the same loop: what HTTP on Node costs at the least, and what Tideline adds on top`,
+          );
+          say(
+            table(
+              ["endpoint", "bare HTTP p50 ms", "bare HTTP ÷ raw", "endpoint ÷ bare HTTP"],
+              list.map((c) => {
+                const f = perCase.get(c.label)!;
+                return [c.label, spread(f.bare), spread(f.bareRatio, 2), spread(f.over, 2)];
+              }),
+            ),
+          );
+        }
       }
 
       // 2. Concurrency on the register (default view, search, deep page in turn), with /api/health timed
@@ -776,6 +850,7 @@ async function main() {
     );
   } finally {
     removeStatic();
+    await stopFloor?.();
     await server?.stop();
     await raw.end();
     await setup.destroy();
