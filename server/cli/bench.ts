@@ -183,6 +183,7 @@ async function startFloor(url: string, paths: Record<string, FloorPath>, poolMax
   });
   return {
     base: `http://127.0.0.1:${port}`,
+    pid: child.pid!,
     stop: async () => {
       if (child.exitCode === null && child.signalCode === null) {
         child.kill("SIGTERM");
@@ -546,9 +547,9 @@ async function main() {
       // of the server's size. The order of the two halves alternates run by run, so a change in the machine's
       // load meets both.
       const reg = list.filter((c) => /ranked \(default\)|search|by title/.test(c.label));
-      if (reg.length) await loadCase(reg);
+      if (reg.length) await loadCase(reg, floor ?? undefined);
     }
-    async function loadCase(reg: Case[]) {
+    async function loadCase(reg: Case[], bare?: { base: string; pid: number }) {
       const pgPid = (await raw.query<{ pid: number }>("select pg_backend_pid() as pid")).rows[0].pid;
       const postmaster = parentOf(pgPid);
       const f2 = {
@@ -575,6 +576,9 @@ async function main() {
         benchCpuHttp: [] as number[],
         benchCpuRaw: [] as number[],
         benchEldMax: [] as number[],
+        bareRps: [] as number[],
+        bareRatio: [] as number[],
+        bareCpu: [] as number[],
       };
       const errorKinds = new Map<string, number>();
       const httpHalf = async () => {
@@ -675,15 +679,38 @@ async function main() {
         const benchCpu = process.cpuUsage(benchCpu0);
         f2.benchCpuRaw.push((benchCpu.user + benchCpu.system) / 1000 / Math.max(1, rawDone));
       };
+      // The same clients against the bare-HTTP side (the statements on bare pg, the answers by node:http alone).
+      const bareHalf = async () => {
+        if (!bare) return;
+        const agents = Array.from({ length: CLIENTS }, () => new Agent({ keepAlive: true, maxSockets: 1 }));
+        const cpu0 = cpuSecondsOf(bare.pid);
+        let bareDone = 0;
+        const until = performance.now() + SECONDS * 1000;
+        const b0 = performance.now();
+        await Promise.all(
+          Array.from({ length: CLIENTS }, async (_, k) => {
+            for (let i = k; performance.now() < until; i++) {
+              await timedGet(bare.base, reg[i % reg.length].path, null, agents[k]);
+              bareDone++;
+            }
+          }),
+        );
+        for (const ag of agents) ag.destroy();
+        f2.bareRps.push(bareDone / ((performance.now() - b0) / 1000));
+        f2.bareCpu.push(((cpuSecondsOf(bare.pid) - cpu0) * 1000) / Math.max(1, bareDone));
+      };
       for (let run = 0; run < RUNS; run++) {
         if (run % 2 === 0) {
           await httpHalf();
           await rawHalf();
+          await bareHalf();
         } else {
+          await bareHalf();
           await rawHalf();
           await httpHalf();
         }
         f2.ratio.push(f2.rps[run] / f2.rawRps[run]);
+        if (bare) f2.bareRatio.push(f2.bareRps[run] / f2.rawRps[run]);
       }
       say(
         `\n2. ${CLIENTS} clients on the register (${reg.map((c) => c.label.replace("register: ", "")).join(", ")} in turn) for ${SECONDS} s; raw = ${CLIENTS} workers replaying the same statements on a pool of ${POOL} (the server's pool: DATABASE_POOL_MAX, else its default); median [min–max] over ${RUNS} runs`,
@@ -695,6 +722,12 @@ async function main() {
             ["requests/s over HTTP", spread(f2.rps)],
             ["requests/s raw SQL", spread(f2.rawRps)],
             ["ratio HTTP / raw (target ≥ 0.8)", spread(f2.ratio, 2)],
+            ...(bare
+              ? [
+                  ["requests/s over bare HTTP (1b's side)", spread(f2.bareRps)],
+                  ["ratio bare HTTP / raw", spread(f2.bareRatio, 2)],
+                ]
+              : []),
             ["errors (target 0)", spread(f2.errors, 0)],
             ["register p95 ms (HTTP)", spread(f2.p95)],
             ["register p95 ms (raw)", spread(f2.rawP95)],
@@ -708,6 +741,7 @@ async function main() {
             ["idle canary's delay beyond resolution, p99 ms", spread(f2.canaryP99)],
             ["idle canary's delay beyond resolution, max ms", spread(f2.canaryMax)],
             ["server CPU ms per request", spread(f2.serverCpu, 2)],
+            ...(bare ? [["bare HTTP side's CPU ms per request", spread(f2.bareCpu, 2)]] : []),
             ["server CPU used, cores (1 = its one thread busy)", spread(f2.serverCores, 2)],
             ["PostgreSQL CPU ms per request (HTTP)", spread(f2.pgCpuHttp, 2)],
             ["PostgreSQL CPU ms per request (raw)", spread(f2.pgCpuRaw, 2)],
