@@ -82,9 +82,10 @@ test.describe("on a 360 px phone", () => {
 
     // The register lists it, and the reading names the defect it raised.
     await page.goto(`/sites/${b.siteId}/defects?q=${encodeURIComponent(b.designation)}`);
-    const row = page.getByRole("row", { name: new RegExp(title) });
-    await expect(row.getByRole("link", { name: ref, exact: true })).toBeVisible();
-    await expect(row.getByRole("cell", { name: "Raised", exact: true })).toBeVisible();
+    // On a phone the register is cards (src/features/defects/components/register-table.tsx).
+    const card = page.getByTestId("defect-card").filter({ hasText: title });
+    await expect(card.getByRole("link", { name: ref, exact: true })).toBeVisible();
+    await expect(card.locator('[data-status="raised"]')).toHaveText(/Raised/);
     await page.goto(`/sites/${b.siteId}/readings/boards/${b.boardId}`);
     await expect(
       page.getByTestId("insulation-reading").filter({ hasText: "4 MΩ" }).first().getByTestId("reading-defects"),

@@ -166,3 +166,60 @@ test("the curator bulk-assigns with one confirmation; the repair plan prints by 
   await page.emulateMedia({ media: "print" });
   await expect(page.getByRole("button", { name: "Print the plan" })).toBeHidden();
 });
+
+test.describe("on a phone", () => {
+  test.use({ viewport: { width: 360, height: 740 } });
+
+  test("the register is cards read top to bottom, sorted by two selects, selectable for a bulk change", async ({
+    page,
+  }) => {
+    await signIn(page, "curator");
+    await openRegister(page);
+    const cards = page.getByRole("list", { name: "Defects" }).getByTestId("defect-card");
+    await expect(cards.first()).toBeVisible();
+    // One layout: no table, no column menu or keyboard hint (they belong to the table), nothing wider than the screen.
+    await expect(page.getByRole("table")).toHaveCount(0);
+    await expect(page.getByRole("button", { name: /Columns/ })).toHaveCount(0);
+    await expect(page.getByText(/Keys: ↑ ↓/)).toHaveCount(0);
+    expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(360);
+    // Each card names its defect, its place and its standing.
+    const first = cards.first();
+    await expect(first.getByRole("link", { name: /^D-\d+$/ })).toBeVisible();
+    for (const label of ["Board", "Position", "Due", "Assignee"])
+      await expect(first.getByText(label, { exact: true })).toBeVisible();
+
+    await page.getByLabel("Sort by").selectOption({ label: "Due" });
+    await expect(page).toHaveURL(/sort=dueOn/);
+    await page.getByLabel("Direction").selectOption("asc");
+    await expect(page).toHaveURL(/dir=asc/);
+    // The cards come in due-date order, earliest first, the undated after them.
+    await expect
+      .poll(async () => {
+        const dues = (
+          await cards.evaluateAll((els) =>
+            els.map((el) => {
+              const dt = [...el.querySelectorAll("dt")].find((d) => d.textContent === "Due");
+              return dt?.nextElementSibling?.textContent?.trim() ?? "?";
+            }),
+          )
+        ).filter((d) => d !== "?");
+        const dated = dues.filter((d) => d !== "—");
+        const inOrder =
+          dated.join() === [...dated].sort().join() && dues.slice(0, dated.length).join() === dated.join();
+        return dues.length > 0 && dated.length > 0 && inOrder;
+      })
+      .toBe(true);
+
+    await page
+      .getByRole("checkbox", { name: /^Select D-\d+$/ })
+      .nth(0)
+      .check();
+    await page
+      .getByRole("checkbox", { name: /^Select D-\d+$/ })
+      .nth(1)
+      .check();
+    await expect(page.getByText("2 selected")).toBeVisible();
+    await expectNoSeriousA11yViolations(page, "defect register on a phone");
+    await page.screenshot({ path: ".data/test-results/register-cards-360.png" });
+  });
+});

@@ -825,7 +825,7 @@ async function main() {
           true,
           "[data-position-id]",
         ],
-        ["defect register", `/sites/${site.siteId}/defects`, true, "tbody tr"],
+        ["defect register", `/sites/${site.siteId}/defects`, true, "[data-testid=defect-card]"],
         ["wanted list", `/sites/${site.siteId}/parts`, true, "[data-testid=part-row]"],
       ];
       const figures = new Map<string, PaintFigures[]>();

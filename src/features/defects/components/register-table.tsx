@@ -1,15 +1,14 @@
 import { Fragment, useEffect, useMemo, useRef, useState, type KeyboardEvent } from "react";
 import { functionalUpdate, useTable, type RowSelectionState, type Updater } from "@tanstack/react-table";
-import type { DefectRow } from "../../../schemas/defects";
-import type { SortKey } from "../../../schemas/defects";
+import { SORT_KEYS, type DefectRow, type SortKey } from "../../../schemas/defects";
 import { RowGap } from "../../../components/row-gap";
 import { rowsAwaited, useFirstScreenful } from "../../../lib/use-first-screenful";
 import { usePrinting } from "../../../lib/use-printing";
 import { useRowWindow } from "../../../lib/use-row-window";
 import type { RegisterState } from "../url-state";
-import { DEFAULT_ORDER, makeColumns, registerFeatures } from "./defect-columns";
+import { COLUMN_LABELS, DEFAULT_ORDER, makeColumns, registerFeatures } from "./defect-columns";
 
-interface Props {
+export interface RegisterRowsProps {
   siteId: string;
   rows: DefectRow[];
   total: number;
@@ -44,7 +43,8 @@ const ROW = 59;
 const HEAD = 60;
 const reserved = (rows: number) => ({ minHeight: `min(70vh, ${HEAD + rows * ROW}px)` });
 
-export function RegisterTable({ siteId, rows, total, state, onState, selection, onSelection, busy }: Props) {
+/** The register's TanStack table over the rows drawn so far (the first screenful, then the rest): shared by both layouts. */
+function useRegisterRows({ siteId, rows, total, state, onState, selection, onSelection }: RegisterRowsProps) {
   const columns = useMemo(() => makeColumns(siteId), [siteId]);
   const shown = useFirstScreenful(rows);
   const order = state.cols.length ? [...new Set(["select", ...state.cols, ...DEFAULT_ORDER])] : DEFAULT_ORDER;
@@ -72,6 +72,12 @@ export function RegisterTable({ siteId, rows, total, state, onState, selection, 
     },
     onRowSelectionChange: (u: Updater<RowSelectionState>) => onSelection(functionalUpdate(u, selection)),
   });
+  return { table, shown };
+}
+
+export function RegisterTable(props: RegisterRowsProps) {
+  const { rows, total, state, busy } = props;
+  const { table, shown } = useRegisterRows(props);
   const rowModel = table.getRowModel().rows;
   const boxRef = useRef<HTMLDivElement>(null);
   // Only the rows in the box's view are drawn (their layout and paint were the page's longest tasks on a phone);
@@ -188,6 +194,109 @@ export function RegisterTable({ siteId, rows, total, state, onState, selection, 
           {win.after > 0 && <RowGap height={win.after} cols={cols} />}
         </tbody>
       </table>
+    </div>
+  );
+}
+
+/**
+ * A card's least height from 360 to 767 px wide (the demo site's defects drew 252–278 px at 360 and 212–234 at 767,
+ * 2026-12-04), and the gap between cards: the height kept for the cards before the first screenful is drawn, so
+ * nothing below them moves.
+ */
+const CARD = 212;
+const CARD_GAP = 12;
+const reservedCards = (rows: number) => ({ minHeight: `${rows * (CARD + CARD_GAP) - CARD_GAP}px` });
+
+const selectClass = "mt-1 block min-h-11 w-full rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk";
+
+/**
+ * Below Tailwind's `md` (48rem), on a phone, each defect is a card read top to bottom: its selection box, reference
+ * and priority score, the title with its flags, severity and status, then board, position, due date and assignee
+ * under small labels — the table's own cells. The sort is two selects above the cards (the table sorts by its
+ * headings). Fifteen columns do not fit 360 px: the table scrolled sideways inside its box, the title cut off.
+ */
+export function RegisterCards(props: RegisterRowsProps) {
+  const { rows, state, onState, busy } = props;
+  const { table, shown } = useRegisterRows(props);
+  const label = (id: string) => COLUMN_LABELS[id] ?? id;
+  return (
+    <div className="space-y-3">
+      <div className="no-print grid grid-cols-2 gap-3">
+        <label className="text-sm font-semibold text-mist">
+          Sort by
+          <select
+            className={selectClass}
+            value={state.sort}
+            onChange={(e) => onState({ sort: e.target.value as SortKey, page: 0 })}
+          >
+            {SORT_KEYS.map((id) => (
+              <option key={id} value={id}>
+                {label(id)}
+              </option>
+            ))}
+          </select>
+        </label>
+        <label className="text-sm font-semibold text-mist">
+          Direction
+          <select
+            className={selectClass}
+            value={state.dir}
+            onChange={(e) => onState({ dir: e.target.value === "asc" ? "asc" : "desc", page: 0 })}
+          >
+            <option value="desc">Descending ▼</option>
+            <option value="asc">Ascending ▲</option>
+          </select>
+        </label>
+      </div>
+      <ul
+        className={`space-y-3 ${busy ? "opacity-60" : ""}`}
+        aria-label="Defects"
+        aria-busy={busy}
+        style={rowsAwaited(rows, shown) ? reservedCards(rows.length) : undefined}
+      >
+        {table.getRowModel().rows.map((row) => {
+          const cell = (id: string) => {
+            const c = row.getAllCells().find((x) => x.column.id === id);
+            return c ? <table.FlexRender cell={c} /> : null;
+          };
+          const item = (id: string) => (
+            <div className="min-w-0">
+              <dt className="text-xs text-mist">{label(id)}</dt>
+              <dd className="mt-0.5 break-words">{cell(id)}</dd>
+            </div>
+          );
+          return (
+            <li
+              key={row.id}
+              data-testid="defect-card"
+              className={`rounded-lg p-3 ring-1 ${row.getIsSelected() ? "bg-brass-700/25 ring-brass-400" : "bg-hull-850 ring-hull-700"} focus-within:outline focus-within:outline-2 focus-within:outline-brass-400`}
+            >
+              <div className="flex items-start gap-3">
+                <span className="-m-3 flex min-h-11 min-w-11 items-center justify-center">{cell("select")}</span>
+                <div className="min-w-0 flex-1 space-y-2">
+                  <div className="flex flex-wrap items-baseline justify-between gap-x-3">
+                    {cell("ref")}
+                    <span className="text-sm text-mist">
+                      Priority <span className="text-chalk">{cell("priority")}</span>
+                    </span>
+                  </div>
+                  <div className="text-sm [&_.min-w-56]:min-w-0">{cell("title")}</div>
+                  <div className="flex flex-wrap items-center gap-2">
+                    {cell("severity")}
+                    {cell("status")}
+                  </div>
+                  <dl className="grid grid-cols-2 gap-x-4 gap-y-2 text-sm [&_.min-w-32]:min-w-0">
+                    {item("board")}
+                    {item("position")}
+                    {item("dueOn")}
+                    {item("assignee")}
+                  </dl>
+                </div>
+              </div>
+            </li>
+          );
+        })}
+      </ul>
     </div>
   );
 }

@@ -3,13 +3,17 @@ import { Link, useSearchParams } from "react-router";
 import type { RowSelectionState } from "@tanstack/react-table";
 import { EmptyState, ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
+import { useMediaQuery } from "../../../lib/use-media-query";
 import { csvHref, useDefectList, useDefectOptions } from "../api";
 import { apiQuery, localToday, PAGE_SIZES, readState, writeState, type RegisterState } from "../url-state";
 import { BulkBar } from "./bulk-bar";
 import { ColumnMenu } from "./column-menu";
 import { RegisterFilters } from "./register-filters";
-import { RegisterTable } from "./register-table";
+import { RegisterCards, RegisterTable } from "./register-table";
 import { SavedViews } from "./saved-views";
+
+/** From Tailwind's `md` (48rem) up the register is a table; below it, on a phone, cards (register-table.tsx). */
+const WIDE = "(min-width: 48rem)";
 
 export function Register({ siteId, canManage, canRaise }: { siteId: string; canManage: boolean; canRaise: boolean }) {
   const [params, setParams] = useSearchParams();
@@ -19,6 +23,8 @@ export function Register({ siteId, canManage, canRaise }: { siteId: string; canM
   const list = useDefectList(siteId, query);
   const options = useDefectOptions(siteId);
   const [selection, setSelection] = useState<RowSelectionState>({});
+  const wide = useMediaQuery(WIDE);
+  const Rows = wide ? RegisterTable : RegisterCards;
   const onState = useCallback(
     (patch: Partial<RegisterState>) =>
       setParams((old) => new URLSearchParams(writeState({ ...readState(old), ...patch })), { replace: false }),
@@ -37,7 +43,7 @@ export function Register({ siteId, canManage, canRaise }: { siteId: string; canM
       <div className="flex flex-wrap items-end justify-between gap-2">
         <SavedViews siteId={siteId} query={viewQuery} />
         <div className="flex flex-wrap gap-2">
-          <ColumnMenu state={state} onState={onState} />
+          {wide && <ColumnMenu state={state} onState={onState} />}
           <a
             href={csvHref(siteId, query)}
             className="inline-flex min-h-11 items-center rounded-md bg-hull-800 px-3 text-sm font-semibold text-chalk no-underline ring-1 ring-hull-600"
@@ -51,9 +57,11 @@ export function Register({ siteId, canManage, canRaise }: { siteId: string; canM
       {canManage && ids.length > 0 && (
         <BulkBar siteId={siteId} ids={ids} options={options.data} onDone={() => setSelection({})} />
       )}
-      <p id="register-keys" className="text-xs text-fog">
-        Keys: ↑ ↓ move between defects, Enter opens one, x selects it. Click a column heading to sort by it.
-      </p>
+      {wide && (
+        <p id="register-keys" className="text-xs text-fog">
+          Keys: ↑ ↓ move between defects, Enter opens one, x selects it. Click a column heading to sort by it.
+        </p>
+      )}
       {list.isPending && <Loading what="Loading the register" />}
       {(list.isLoadingError || serverRefused(list.error)) && <ErrorPanel error={list.error} />}
       {list.data && total === 0 && (
@@ -83,7 +91,7 @@ export function Register({ siteId, canManage, canRaise }: { siteId: string; canM
       )}
       {list.data && total > 0 && (
         <>
-          <RegisterTable
+          <Rows
             siteId={siteId}
             rows={list.data.rows}
             total={total}
