@@ -113,6 +113,9 @@ test("the return-to-service forms show the schema's messages beside the fields a
   await budget.getByRole("button", { name: "Save" }).click();
   await expect(budget).toHaveCount(0);
   await expect(page.getByTestId(/breaker-BT-/)).toContainText("40");
+  // On the phone the breakers are a list read top to bottom, not a seven-column table scrolled sideways.
+  await expect(page.getByRole("list", { name: "Breaker operations against their budgets" })).toBeVisible();
+  await expect(page.getByRole("table", { name: "Breaker operations against their budgets" })).toHaveCount(0);
 
   // Qualified persons (crew page): the qualification is asked for beside its field.
   await page.goto(`/sites/${siteId}/members`);

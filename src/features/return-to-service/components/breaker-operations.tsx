@@ -15,6 +15,7 @@ import {
   useSchemaForm,
 } from "../../../lib/form";
 import { budgetBody, operationBody, type RtsBoardView, type RtsBreaker } from "../../../schemas/return-to-service";
+import { useMediaQuery } from "../../../lib/use-media-query";
 import { useRtsAction, useRtsBoard } from "../api";
 
 const when = (iso: string) => new Date(iso).toLocaleString(undefined, { dateStyle: "medium", timeStyle: "short" });
@@ -232,6 +233,43 @@ function BreakerRow({ siteId, b, role }: { siteId: string; b: RtsBreaker; role: 
   );
 }
 
+/**
+ * One breaker on a phone (below 48rem, where the seven columns would scroll sideways): position and kind, then used,
+ * budget and left in one line, the basis, and the curator's change of budget in place.
+ */
+function BreakerItem({ siteId, b, role }: { siteId: string; b: RtsBreaker; role: Role | "admin" }) {
+  const [editing, setEditing] = useState(false);
+  const warn = b.status.overBudget || b.status.remaining <= 0;
+  return (
+    <li className="rounded-md bg-hull-900 p-3 ring-1 ring-hull-700" data-testid={`breaker-${b.designation}`}>
+      <div className="flex items-start justify-between gap-2">
+        <p>
+          <span className="font-mono font-semibold">{b.designation}</span>{" "}
+          <span className="text-sm text-mist">
+            {COMPONENT_KIND_LABELS[b.kind]}
+            {b.year ? `, ${b.year}` : ", year unknown"}
+          </span>
+        </p>
+        {can(role, "rts.set_budget") && !editing && (
+          <Button tone="quiet" onClick={() => setEditing(true)} aria-label={`Change the budget of ${b.designation}`}>
+            Change
+          </Button>
+        )}
+      </div>
+      <p className={`mt-1 text-sm ${warn ? "font-semibold text-rust-300" : ""}`}>
+        Used {b.status.used} · budget {b.budget} · left {b.status.remaining}
+        {warn ? " ⚠" : ""}
+      </p>
+      <p className="text-xs text-mist">{b.budgetBasis}</p>
+      {editing && (
+        <div className="mt-2">
+          <BudgetEditor siteId={siteId} b={b} onDone={() => setEditing(false)} />
+        </div>
+      )}
+    </li>
+  );
+}
+
 /** The board's breakers: operations used against each budget, the curator's budgets, and the record form. */
 export function BreakerOperations({
   siteId,
@@ -243,6 +281,7 @@ export function BreakerOperations({
   role: Role | "admin";
 }) {
   const [all, setAll] = useState(false);
+  const wide = useMediaQuery("(min-width: 48rem)");
   const shown = all ? view.breakers : view.breakers.filter((b) => b.status.used > 0 || b.budgetVersion > 0);
   return (
     <div className="space-y-3">
@@ -251,29 +290,37 @@ export function BreakerOperations({
         each). The budget warns; it never blocks. Where a breaker is near its budget, consider energising from the
         temporary supply instead of working it.
       </p>
-      <div className="relative overflow-x-auto">
-        <table className="w-full min-w-[40rem] text-sm">
-          <caption className="sr-only">Breaker operations against their budgets</caption>
-          <thead>
-            <tr className="text-left">
-              <th className="p-1">Position</th>
-              <th className="p-1">Kind</th>
-              <th className="p-1">Used</th>
-              <th className="p-1">Budget</th>
-              <th className="p-1">Left</th>
-              <th className="p-1">Basis</th>
-              <th className="p-1">
-                <span className="sr-only">Change</span>
-              </th>
-            </tr>
-          </thead>
-          <tbody>
-            {shown.map((b) => (
-              <BreakerRow key={b.componentId} siteId={siteId} b={b} role={role} />
-            ))}
-          </tbody>
-        </table>
-      </div>
+      {!wide ? (
+        <ul className="space-y-2" aria-label="Breaker operations against their budgets">
+          {shown.map((b) => (
+            <BreakerItem key={b.componentId} siteId={siteId} b={b} role={role} />
+          ))}
+        </ul>
+      ) : (
+        <div className="relative overflow-x-auto">
+          <table className="w-full min-w-[40rem] text-sm">
+            <caption className="sr-only">Breaker operations against their budgets</caption>
+            <thead>
+              <tr className="text-left">
+                <th className="p-1">Position</th>
+                <th className="p-1">Kind</th>
+                <th className="p-1">Used</th>
+                <th className="p-1">Budget</th>
+                <th className="p-1">Left</th>
+                <th className="p-1">Basis</th>
+                <th className="p-1">
+                  <span className="sr-only">Change</span>
+                </th>
+              </tr>
+            </thead>
+            <tbody>
+              {shown.map((b) => (
+                <BreakerRow key={b.componentId} siteId={siteId} b={b} role={role} />
+              ))}
+            </tbody>
+          </table>
+        </div>
+      )}
       <Button tone="quiet" onClick={() => setAll(!all)}>
         {all ? "Only breakers already operated or budgeted" : `Show all ${view.breakers.length} breakers`}
       </Button>
