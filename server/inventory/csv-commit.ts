@@ -16,6 +16,7 @@ import { UNIQUE, mapUnique, updateVersioned } from "./common";
 import { answerOf, validateImport, type PlannedRow } from "./csv-import";
 import type { ImportRecord } from "./csv-row";
 import { refreshBoardSummaries } from "./board-summaries-repository";
+import { lockComponentsFor } from "./survey-service";
 
 /** 400 import_invalid with every row's errors, flattened to fields "<line>.<column>" too. */
 export class ImportInvalid extends AppError {
@@ -124,6 +125,15 @@ export async function commitImport(
       name ? (sectionIds.get(`${boardId}|${key(name)}`) ?? null) : null;
 
     await writeCreates(trx, siteId, actorId, creates, boards, sectionOf, audit);
+    // The components the file changes, locked in id order before any is written (rows come in the file's order):
+    // every writer that takes several components takes them so, and a fitting crossing the import waits.
+    await lockComponentsFor(
+      trx,
+      siteId,
+      updates.flatMap((x) =>
+        x.current?.componentId && Object.keys(x.componentPatch).length ? [x.current.componentId] : [],
+      ),
+    );
     const componentIds = await writeUpdates(trx, siteId, actorId, updates, sectionOf, audit);
     await recordAuditMany(trx, audit);
     // Their defects are re-ranked after the wanted list's sync: taken first, before the demand lock (the lock order).

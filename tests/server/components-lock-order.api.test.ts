@@ -3,13 +3,15 @@ import { createTestDb, untilLockWaiters, type TestDb } from "../helpers/db";
 import { makeCrew } from "../helpers/fixtures";
 import { assignTags } from "../../server/inventory/tags-service";
 import { lockComponentsFor } from "../../server/inventory/survey-service";
+import { commitImport } from "../../server/inventory/csv-commit";
+import { fromText } from "../../server/csv-read";
 import { makeBoard, makeComponent } from "./parts-fixtures";
 
 // Every writer that takes several components takes them in id order (survey-repository's
 // `lockComponents`; a part's receipt or fitting takes its links' components that way). Tag assignment
-// used to lock them in board and label order, the order the tags are given out in: a fitting and a tag
-// run crossing on two components could wait on each other in a circle, and PostgreSQL would end one of
-// them ("deadlock detected", answered 409 "try again"). Now it locks in id order and numbers in label order.
+// used to lock them in board and label order, the order the tags are given out in, and a CSV import in the
+// file's row order: either, crossing a fitting on two components, could wait on it in a circle, and PostgreSQL
+// would end one of them ("deadlock detected", answered 409 "try again"). Now both lock in id order first.
 let t: TestDb;
 let fx: Awaited<ReturnType<typeof makeCrew>>;
 
@@ -52,5 +54,54 @@ describe("tag assignment takes components in the one id order", () => {
       { positionId: high.positionId, tagNumber: "TX-0001" },
       { positionId: low.positionId, tagNumber: "TX-0002" },
     ]);
+  });
+});
+
+/**
+ * Another writer (as a fitting does) holds the component with the smaller id, waits until `run` waits for a lock,
+ * then takes the larger id; resolves with what each came to.
+ */
+async function crossing(low: string, high: string, run: () => Promise<unknown>) {
+  let started!: () => void;
+  const isStarted = new Promise<void>((r) => (started = r));
+  const other = t.db.transaction().execute(async (trx) => {
+    await lockComponentsFor(trx, fx.siteId, [low]);
+    started();
+    await untilLockWaiters(t.db, 1);
+    await lockComponentsFor(trx, fx.siteId, [high]);
+  });
+  await isStarted;
+  const results = await Promise.allSettled([other, run()]);
+  return results.map((r) => (r.status === "rejected" ? String(r.reason) : "ok"));
+}
+
+describe("a CSV import takes the components it changes in the one id order", () => {
+  it("rows in the reverse of id order, crossing a writer that takes the same two in id order: both complete", async () => {
+    const board = await makeBoard(t.db, fx.siteId, "CSV order board");
+    const a = await makeComponent(t.db, fx.siteId, board.id, "CX-1");
+    const b = await makeComponent(t.db, fx.siteId, board.id, "CX-2");
+    const [low, high] = [a, b].sort((x, y) => (x.componentId < y.componentId ? -1 : 1));
+    const cell = async (positionId: string) =>
+      t.db
+        .selectFrom("positions")
+        .select(["gridRow", "gridCol"])
+        .where("id", "=", positionId)
+        .executeTakeFirstOrThrow();
+    const [ph, pl] = [await cell(high.positionId), await cell(low.positionId)];
+    // The larger id's row first: the import used to update (and so lock) it first.
+    const file =
+      "board,designation,kind,grid_row,grid_col,heritage\r\n" +
+      `CSV order board,${high.designation},power_breaker,${ph.gridRow},${ph.gridCol},period\r\n` +
+      `CSV order board,${low.designation},power_breaker,${pl.gridRow},${pl.gridCol},period\r\n`;
+    const r = await crossing(low.componentId, high.componentId, () =>
+      commitImport(t.db, fx.siteId, fx.crew.curator.id, fromText(file)),
+    );
+    expect(r).toEqual(["ok", "ok"]);
+    const rows = await t.db
+      .selectFrom("components")
+      .select("heritage")
+      .where("id", "in", [low.componentId, high.componentId])
+      .execute();
+    expect(rows.map((x) => x.heritage)).toEqual(["period", "period"]);
   });
 });
