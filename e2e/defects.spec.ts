@@ -222,4 +222,25 @@ test.describe("on a phone", () => {
     await expectNoSeriousA11yViolations(page, "defect register on a phone");
     await page.screenshot({ path: ".data/test-results/register-cards-360.png" });
   });
+
+  test("the repair plan's sheet is items in the site's order; printed, it is the table", async ({ page }) => {
+    await signIn(page, "curator");
+    await openRegister(page);
+    await page.goto(page.url().replace(/\/defects.*$/, "/repair-plan"));
+    const items = page.getByTestId("plan-item");
+    await expect(items.first()).toBeVisible();
+    // Within a section the places in the site's order rise from item to item.
+    const first = page.getByRole("main").locator("section[aria-label] ol").first();
+    const ranks = await first
+      .getByTestId("plan-item")
+      .evaluateAll((els) => els.map((el) => Number(/#(\d+)/.exec(el.querySelector("p")?.textContent ?? "")?.[1])));
+    expect(ranks.length).toBeGreaterThan(1);
+    expect(ranks.every((r) => r > 0)).toBe(true);
+    expect(ranks).toEqual([...ranks].sort((a, b) => a - b));
+    await expect(page.locator(".plan-sheet table")).toHaveCount(0);
+    await expectNoSeriousA11yViolations(page, "repair plan on a phone");
+    await page.emulateMedia({ media: "print" });
+    await expect(page.locator(".plan-sheet table").first()).toBeVisible();
+    await expect(items).toHaveCount(0);
+  });
 });

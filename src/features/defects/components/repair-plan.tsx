@@ -2,6 +2,8 @@ import { Link } from "react-router";
 import { EmptyState } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { Money } from "../../../lib/money";
+import { useMediaQuery } from "../../../lib/use-media-query";
+import { usePrinting } from "../../../lib/use-printing";
 import type { BoardRepairPlan, RepairPlan } from "../../../schemas/defects";
 import { FlagMarks, SeverityBadge, StatusBadge } from "./badges";
 import "../styles/repair-plan-print.css";
@@ -102,11 +104,81 @@ export function PlanTotals({
   );
 }
 
+type PlanSection = BoardRepairPlan["sections"][number];
+
+/**
+ * A section's defects on a phone (below 48rem, not printing): an ordered list, one item per defect read top to
+ * bottom — its place in the site's order, reference, position, title and flags, severity and status, then assignee,
+ * effort and cost — and the section's totals under it. Nine columns scrolled sideways in 328 px (683–700 px of
+ * table on the demo site). Printed, the sheet is always the table.
+ */
+function SectionItems({ siteId, s }: { siteId: string; s: PlanSection }) {
+  return (
+    <section aria-label={s.sectionName} className="space-y-2">
+      <h3 className="text-sm">
+        <span className="font-semibold">{s.sectionName}</span>
+        <span className="ml-2 text-mist">
+          — {s.defects.length} defects · {hours(s.effortHours)}
+          {s.unestimated ? ` + ${s.unestimated} not estimated` : ""} · cost <Money value={s.cost} whole />
+        </span>
+      </h3>
+      <ol className="space-y-2">
+        {s.defects.map((d) => (
+          <li key={d.id} className="rounded-md bg-hull-850 p-3 text-sm ring-1 ring-hull-700" data-testid="plan-item">
+            <p className="flex flex-wrap items-baseline gap-x-3">
+              <span className="font-mono text-mist">
+                #{d.rank}
+                {d.pinned && (
+                  <span title="Order set by the curator" className="ml-1 text-xs">
+                    {d.pinned === "above" ? "↑" : "↓"} order<span className="sr-only"> set by the curator</span>
+                  </span>
+                )}
+              </span>
+              <Link className="font-mono font-semibold" to={paths.defect.href(siteId, d.id)}>
+                D-{d.ref}
+              </Link>
+              <span className="font-mono">{d.designation ?? "—"}</span>
+            </p>
+            <p className="mt-1">{d.title}</p>
+            <FlagMarks safety={d.safetyCritical} blocking={d.blocksEnergisation} />
+            <div className="mt-2 flex flex-wrap items-center gap-2">
+              <SeverityBadge severity={d.severity} />
+              <StatusBadge status={d.status} />
+            </div>
+            <p className="mt-2 text-mist">
+              {d.assigneeName ?? "Nobody assigned"} · effort{" "}
+              <span className="font-mono text-chalk">{d.effortHours === null ? "?" : hours(d.effortHours)}</span> · cost{" "}
+              <span className="font-mono text-chalk">
+                <Money value={d.costEstimate} whole />
+              </span>
+            </p>
+          </li>
+        ))}
+      </ol>
+    </section>
+  );
+}
+
 /** One board's active defects per section in the site's priority order, with totals per section. */
 export function RepairPlanSheet({ siteId, plan }: { siteId: string; plan: BoardRepairPlan }) {
+  const wide = useMediaQuery("(min-width: 48rem)");
+  const printing = usePrinting();
   if (!plan.sections.length)
     return <EmptyState title="Nothing open on this board">Its defects are closed, deferred or accepted.</EmptyState>;
   const b = plan;
+  if (!wide && !printing)
+    return (
+      <div className="plan-sheet space-y-6">
+        <section className="plan-board space-y-4" aria-labelledby={`plan-${b.boardId}`}>
+          <h2 id={`plan-${b.boardId}`} className="text-xl font-bold">
+            {b.boardName}
+          </h2>
+          {b.sections.map((s) => (
+            <SectionItems key={s.sectionId ?? "none"} siteId={siteId} s={s} />
+          ))}
+        </section>
+      </div>
+    );
   return (
     <div className="plan-sheet space-y-8">
       <section key={b.boardId} className="plan-board space-y-4" aria-labelledby={`plan-${b.boardId}`}>
