@@ -238,6 +238,11 @@ test.describe("on a phone", () => {
     expect(ranks.every((r) => r > 0)).toBe(true);
     expect(ranks).toEqual([...ranks].sort((a, b) => a - b));
     await expect(page.locator(".plan-sheet table")).toHaveCount(0);
+    // The totals per board and section fit the screen: nothing to scroll sideways.
+    const totals = page.getByRole("table", { name: "Open work per board and section" });
+    expect(
+      await totals.evaluate((t) => t.parentElement!.scrollWidth - t.parentElement!.clientWidth),
+    ).toBeLessThanOrEqual(1);
     await expectNoSeriousA11yViolations(page, "repair plan on a phone");
     await page.emulateMedia({ media: "print" });
     await expect(page.locator(".plan-sheet table").first()).toBeVisible();

@@ -37,19 +37,19 @@ export function PlanTotals({
           <caption className="sr-only">Open work per board and section</caption>
           <thead>
             <tr className="bg-hull-800 text-left text-mist">
-              <th scope="col" className="px-2 py-1">
+              <th scope="col" className="px-1 py-1 sm:px-2">
                 Board / section
               </th>
-              <th scope="col" className="px-2 py-1 text-right">
+              <th scope="col" className="px-1 py-1 sm:px-2 text-right">
                 Defects
               </th>
-              <th scope="col" className="px-2 py-1 text-right">
+              <th scope="col" className="px-1 py-1 sm:px-2 text-right">
                 Most urgent
               </th>
-              <th scope="col" className="px-2 py-1 text-right">
+              <th scope="col" className="px-1 py-1 sm:px-2 text-right">
                 Effort
               </th>
-              <th scope="col" className="px-2 py-1 text-right">
+              <th scope="col" className="px-1 py-1 sm:px-2 text-right">
                 Cost
               </th>
             </tr>
@@ -57,7 +57,7 @@ export function PlanTotals({
           {plan.boards.map((b) => (
             <tbody key={b.boardId} className="border-b border-hull-700">
               <tr className={b.boardId === chosen ? "bg-hull-850 font-semibold" : "font-semibold"}>
-                <th scope="row" className="px-2 py-1 text-left">
+                <th scope="row" className="px-1 py-1 sm:px-2 text-left">
                   <Link
                     to={boardHref(b.boardId)}
                     aria-current={b.boardId === chosen ? "true" : undefined}
@@ -66,28 +66,42 @@ export function PlanTotals({
                     {b.boardName}
                   </Link>
                 </th>
-                <td className="px-2 py-1 text-right font-mono">{b.count}</td>
-                <td className="px-2 py-1 text-right font-mono">{b.firstRank}</td>
-                <td className="px-2 py-1 text-right font-mono">
+                <td className="px-1 py-1 sm:px-2 text-right font-mono">{b.count}</td>
+                <td className="px-1 py-1 sm:px-2 text-right font-mono">{b.firstRank}</td>
+                <td className="px-1 py-1 sm:px-2 text-right font-mono">
                   <span className="whitespace-nowrap">{hours(b.effortHours)}</span>
-                  {b.unestimated ? <span className="whitespace-nowrap"> + {b.unestimated} ?</span> : ""}
+                  {b.unestimated ? (
+                    <>
+                      {" "}
+                      <span className="whitespace-nowrap">+ {b.unestimated} ?</span>
+                    </>
+                  ) : (
+                    ""
+                  )}
                 </td>
-                <td className="px-2 py-1 text-right font-mono">
+                <td className="px-1 py-1 sm:px-2 text-right font-mono">
                   <Money value={b.cost} whole />
                 </td>
               </tr>
               {b.sections.map((s) => (
                 <tr key={s.sectionId ?? "none"} className="text-mist">
-                  <th scope="row" className="py-1 pr-2 pl-6 text-left font-normal">
+                  <th scope="row" className="py-1 pr-1 pl-4 text-left font-normal sm:pr-2 sm:pl-6">
                     {s.sectionName}
                   </th>
-                  <td className="px-2 py-1 text-right font-mono">{s.count}</td>
-                  <td className="px-2 py-1 text-right font-mono">{s.firstRank}</td>
-                  <td className="px-2 py-1 text-right font-mono">
+                  <td className="px-1 py-1 sm:px-2 text-right font-mono">{s.count}</td>
+                  <td className="px-1 py-1 sm:px-2 text-right font-mono">{s.firstRank}</td>
+                  <td className="px-1 py-1 sm:px-2 text-right font-mono">
                     <span className="whitespace-nowrap">{hours(s.effortHours)}</span>
-                    {s.unestimated ? <span className="whitespace-nowrap"> + {s.unestimated} ?</span> : ""}
+                    {s.unestimated ? (
+                      <>
+                        {" "}
+                        <span className="whitespace-nowrap">+ {s.unestimated} ?</span>
+                      </>
+                    ) : (
+                      ""
+                    )}
                   </td>
-                  <td className="px-2 py-1 text-right font-mono">
+                  <td className="px-1 py-1 sm:px-2 text-right font-mono">
                     <Money value={s.cost} whole />
                   </td>
                 </tr>
