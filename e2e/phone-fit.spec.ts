@@ -4,8 +4,10 @@ import { signIn } from "./support/auth";
 /**
  * Every page fits a 360 × 740 phone without sideways scrolling. Each page is
  * visited as a role that may open it; the check is the document's scrollWidth against the
- * viewport's width (a wide table may scroll inside its own box, never the page). When a page is
- * too wide, the message names the widest elements that stick out, to find the culprit.
+ * viewport's width. When a page is too wide, the message names the widest elements that stick out, to find the
+ * culprit. Since 2026-12-04 no box inside the page scrolls sideways either (a table read in a 328 px window, its
+ * title cut off, fits the page and is still unread): only the board's front drawing does, on purpose (a drawing of
+ * the board to scale, `data-testid="board-elevation"`).
  */
 test.use({ viewport: { width: 360, height: 740 } });
 test.setTimeout(300_000);
@@ -49,6 +51,21 @@ const overflowing = (page: Page) =>
     return out.slice(0, 8);
   });
 
+/** Boxes inside the page that scroll sideways (the board's front drawing excepted), for the failure message. */
+const sidewaysBoxes = (page: Page) =>
+  page.evaluate(() =>
+    Array.from(document.querySelectorAll<HTMLElement>("main *"))
+      .filter((el) => {
+        const ox = getComputedStyle(el).overflowX;
+        return (ox === "auto" || ox === "scroll") && el.scrollWidth > el.clientWidth + 1;
+      })
+      .filter((el) => !el.closest('[data-testid="board-elevation"]'))
+      .map(
+        (el) =>
+          `${el.tagName.toLowerCase()}.${String(el.className).slice(0, 50)} ${el.scrollWidth} px in ${el.clientWidth} «${(el.querySelector("caption, [aria-label]")?.textContent ?? el.textContent ?? "").trim().slice(0, 40)}»`,
+      ),
+  );
+
 async function fits(page: Page, url: string, ready: (p: Page) => Promise<void>) {
   await page.goto(url);
   await ready(page);
@@ -60,6 +77,7 @@ async function fits(page: Page, url: string, ready: (p: Page) => Promise<void>) 
     expect
       .soft(scroll, `${url} is ${scroll} px wide:\n${(await overflowing(page)).join("\n")}`)
       .toBeLessThanOrEqual(inner);
+  expect.soft(await sidewaysBoxes(page), `${url}: boxes that scroll sideways`).toEqual([]);
 }
 
 const h1 = (name?: RegExp | string) => async (p: Page) => {

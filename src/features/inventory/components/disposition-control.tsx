@@ -142,7 +142,7 @@ export function DispositionControl({
               {DISPOSITIONS.map((d) => (
                 <label
                   key={d}
-                  className={`flex min-h-11 cursor-pointer items-center gap-2 rounded-md border px-3 ${choice === d ? "border-brass-300 bg-hull-700" : "border-hull-600"}`}
+                  className={`flex min-h-11 min-w-0 cursor-pointer flex-wrap items-center gap-x-2 rounded-md border px-3 py-1 ${choice === d ? "border-brass-300 bg-hull-700" : "border-hull-600"}`}
                 >
                   <input type="radio" {...register("disposition")} value={d} className="h-4 w-4 accent-brass-400" />
                   {DISPOSITION_LABELS[d]}
