@@ -1,21 +1,13 @@
 import { useQueryClient } from "@tanstack/react-query";
 import { useState, useSyncExternalStore } from "react";
 import { discard, resend, syncNow, useOutbox, type OutboxItem } from "../lib/outbox";
+import { clockTime } from "../lib/clock";
 import { fieldLabel } from "../schemas/field-labels";
 import { Conflict, primitives } from "./outbox-conflict";
 import { serverRefused } from "./status";
 
-/**
- * The time of day as the phone's locale writes it. The page's first `Intl` formatter of any kind loads the locale's
- * data (200–370 ms on a phone at 4 × CPU throttle; later formatters ~50 ms, later formats 0.1 ms), so it is made only
- * when the bar first shows a time (a last sync, or what an offline or failed page is showing). Online, the outbox's
- * sync at page start sets the last sync, so every page behind sign-in shows one and pays this once, in the render
- * after that sync (a task of its own, after the page's first paint); a page that formats money or numbers pays it
- * there instead, whichever comes first. Made in idle time after every page start, it was the same long task.
- */
-let clock: Intl.DateTimeFormat | null = null;
-const clockFormat = () => (clock ??= new Intl.DateTimeFormat([], { hour: "2-digit", minute: "2-digit" }));
-const time = (iso: string | number | null) => (iso == null ? "never" : clockFormat().format(new Date(iso)));
+/** The sync bar says times as `clockTime` writes them: 24-hour, with the date when it was not today. */
+const time = (at: string | number | null) => clockTime(at);
 
 /** When the newest read on this phone came from the server (the persisted cache keeps its time). */
 function useLastRead(): number | null {

@@ -1,0 +1,56 @@
+/**
+ * The sync bar's clock (src/lib/clock.ts) against ICU: Intl.DateTimeFormat with a 24-hour cycle ("h23") in the
+ * same time zone, read part by part, is the reference for every instant checked. The zones are set on the process
+ * (Node applies a new `process.env.TZ` at once) and include daylight-saving changes and a half-hour offset.
+ */
+import { afterAll, describe, expect, it } from "vitest";
+import { clockTime, localDay } from "../../src/lib/clock";
+
+const ZONES = ["UTC", "Europe/Lisbon", "America/New_York", "Asia/Kolkata", "Australia/Adelaide"];
+const before = process.env.TZ;
+afterAll(() => {
+  if (before === undefined) delete process.env.TZ;
+  else process.env.TZ = before;
+});
+
+const reference = () => {
+  const f = new Intl.DateTimeFormat("en-GB", {
+    year: "numeric",
+    month: "2-digit",
+    day: "2-digit",
+    hour: "2-digit",
+    minute: "2-digit",
+    hourCycle: "h23",
+  });
+  return (ms: number) => Object.fromEntries(f.formatToParts(new Date(ms)).map((p) => [p.type, p.value]));
+};
+
+describe.each(ZONES)("clockTime in %s", (zone) => {
+  it("writes HH:MM on the same local day and YYYY-MM-DD HH:MM on another, as ICU reads the local fields", () => {
+    process.env.TZ = zone;
+    const parts = reference();
+    // Every 97 minutes over a year: every hour of the day is met, and any daylight-saving change of the zone.
+    const start = Date.UTC(2026, 0, 1);
+    for (let ms = start; ms < start + 366 * 86_400_000; ms += 97 * 60_000) {
+      const p = parts(ms);
+      const hm = `${p.hour}:${p.minute}`;
+      expect(clockTime(ms, ms)).toBe(hm);
+      expect(localDay(new Date(ms))).toBe(`${p.year}-${p.month}-${p.day}`);
+      expect(clockTime(ms, ms + 2 * 86_400_000)).toBe(`${p.year}-${p.month}-${p.day} ${hm}`);
+    }
+  });
+
+  it("takes ISO strings as the outbox and the query cache keep them; midnight is 00; says never for none", () => {
+    process.env.TZ = zone;
+    const parts = reference();
+    const iso = "2026-12-04T17:21:09.000Z";
+    const p = parts(Date.parse(iso));
+    expect(clockTime(iso, Date.parse(iso))).toBe(`${p.hour}:${p.minute}`);
+    const midnight = new Date(2026, 11, 4, 0, 5).getTime();
+    expect(clockTime(midnight, midnight)).toBe("00:05");
+    expect(clockTime(new Date(2026, 11, 4, 23, 59).getTime(), midnight)).toBe("23:59");
+    expect(clockTime(midnight, new Date(2026, 11, 5, 9, 0).getTime())).toBe("2026-12-04 00:05");
+    expect(clockTime(null)).toBe("never");
+    expect(clockTime("not a time")).toBe("never");
+  });
+});
