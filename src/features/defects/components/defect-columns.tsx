@@ -26,6 +26,12 @@ const col = createColumnHelper<typeof registerFeatures, DefectRow>();
 const date = (s: string) => s.slice(0, 10);
 
 /** Column labels for the column menu and the CSV (ids match the server's sort keys). */
+/**
+ * The least width of a column in the wide table, so a long title or board name wraps into a readable block rather than
+ * a column a word wide. The table wraps those cells in it; the phone's cards show the same cells without it.
+ */
+export const COLUMN_MIN_WIDTH: Partial<Record<string, string>> = { title: "min-w-56", board: "min-w-32" };
+
 export const COLUMN_LABELS: Record<string, string> = {
   ref: "Ref",
   priority: "Priority score",
@@ -108,7 +114,7 @@ export function makeColumns(siteId: string) {
       id: "title",
       header: "Defect",
       cell: (c) => (
-        <span className="block min-w-56">
+        <span className="block">
           <span className="block">{c.getValue()}</span>
           <FlagMarks safety={c.row.original.safetyCritical} blocking={c.row.original.blocksEnergisation} />
         </span>
@@ -118,7 +124,7 @@ export function makeColumns(siteId: string) {
       id: "board",
       header: "Board",
       cell: (c) => (
-        <span className="block min-w-32">
+        <span className="block">
           {c.getValue()}
           {c.row.original.sectionName && <span className="block text-xs text-fog">{c.row.original.sectionName}</span>}
         </span>

@@ -2,11 +2,12 @@ import { Fragment, useEffect, useMemo, useRef, useState, type KeyboardEvent } fr
 import { functionalUpdate, useTable, type RowSelectionState, type Updater } from "@tanstack/react-table";
 import { SORT_KEYS, type DefectRow, type SortKey } from "../../../schemas/defects";
 import { RowGap } from "../../../components/row-gap";
+import { SortSelects } from "../../../components/sort-selects";
 import { rowsAwaited, useFirstScreenful } from "../../../lib/use-first-screenful";
 import { usePrinting } from "../../../lib/use-printing";
 import { useRowWindow } from "../../../lib/use-row-window";
 import type { RegisterState } from "../url-state";
-import { COLUMN_LABELS, DEFAULT_ORDER, makeColumns, registerFeatures } from "./defect-columns";
+import { COLUMN_LABELS, COLUMN_MIN_WIDTH, DEFAULT_ORDER, makeColumns, registerFeatures } from "./defect-columns";
 
 export interface RegisterRowsProps {
   siteId: string;
@@ -184,7 +185,13 @@ export function RegisterTable(props: RegisterRowsProps) {
                 >
                   {row.getVisibleCells().map((cell) => (
                     <td key={cell.id} className="px-2 py-2 align-top">
-                      <table.FlexRender cell={cell} />
+                      {COLUMN_MIN_WIDTH[cell.column.id] ? (
+                        <div className={COLUMN_MIN_WIDTH[cell.column.id]}>
+                          <table.FlexRender cell={cell} />
+                        </div>
+                      ) : (
+                        <table.FlexRender cell={cell} />
+                      )}
                     </td>
                   ))}
                 </tr>
@@ -207,8 +214,6 @@ const CARD = 212;
 const CARD_GAP = 12;
 const reservedCards = (rows: number) => ({ minHeight: `${rows * (CARD + CARD_GAP) - CARD_GAP}px` });
 
-const selectClass = "mt-1 block min-h-11 w-full rounded-md border border-hull-500 bg-hull-900 px-3 text-chalk";
-
 /**
  * Below Tailwind's `md` (48rem), on a phone, each defect is a card read top to bottom: its selection box, reference
  * and priority score, the title with its flags, severity and status, then board, position, due date and assignee
@@ -221,33 +226,13 @@ export function RegisterCards(props: RegisterRowsProps) {
   const label = (id: string) => COLUMN_LABELS[id] ?? id;
   return (
     <div className="space-y-3">
-      <div className="no-print grid grid-cols-2 gap-3">
-        <label className="text-sm font-semibold text-mist">
-          Sort by
-          <select
-            className={selectClass}
-            value={state.sort}
-            onChange={(e) => onState({ sort: e.target.value as SortKey, page: 0 })}
-          >
-            {SORT_KEYS.map((id) => (
-              <option key={id} value={id}>
-                {label(id)}
-              </option>
-            ))}
-          </select>
-        </label>
-        <label className="text-sm font-semibold text-mist">
-          Direction
-          <select
-            className={selectClass}
-            value={state.dir}
-            onChange={(e) => onState({ dir: e.target.value === "asc" ? "asc" : "desc", page: 0 })}
-          >
-            <option value="desc">Descending ▼</option>
-            <option value="asc">Ascending ▲</option>
-          </select>
-        </label>
-      </div>
+      <SortSelects
+        keys={SORT_KEYS}
+        sort={state.sort}
+        dir={state.dir}
+        label={label}
+        onChange={(sort, dir) => onState({ sort, dir, page: 0 })}
+      />
       <ul
         className={`space-y-3 ${busy ? "opacity-60" : ""}`}
         aria-label="Defects"
@@ -280,12 +265,12 @@ export function RegisterCards(props: RegisterRowsProps) {
                       Priority <span className="text-chalk">{cell("priority")}</span>
                     </span>
                   </div>
-                  <div className="text-sm [&_.min-w-56]:min-w-0">{cell("title")}</div>
+                  <div className="text-sm">{cell("title")}</div>
                   <div className="flex flex-wrap items-center gap-2">
                     {cell("severity")}
                     {cell("status")}
                   </div>
-                  <dl className="grid grid-cols-2 gap-x-4 gap-y-2 text-sm [&_.min-w-32]:min-w-0">
+                  <dl className="grid grid-cols-2 gap-x-4 gap-y-2 text-sm">
                     {item("board")}
                     {item("position")}
                     {item("dueOn")}

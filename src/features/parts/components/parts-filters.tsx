@@ -7,9 +7,7 @@ import {
   PART_STATUSES,
 } from "../../../domain/vocab";
 import type { ListQuery } from "../../../schemas/parts";
-
-/** A labelled select of the list's controls (the filters here, the phone's sort in parts-table.tsx). */
-export const selectClass = "mt-1 block min-h-11 w-full rounded-md border border-hull-500 bg-hull-900 px-2 text-chalk";
+import { selectClass } from "../../../components/sort-selects";
 
 export function PartsFilters({
   value,

@@ -1,10 +1,10 @@
 import { functionalUpdate, useTable } from "@tanstack/react-table";
 import { useMemo } from "react";
+import { SortSelects } from "../../../components/sort-selects";
 import { rowsAwaited, useFirstScreenful } from "../../../lib/use-first-screenful";
 import { useMediaQuery } from "../../../lib/use-media-query";
 import { PART_SORTS, type PartLine, type PartSort } from "../../../schemas/parts";
 import { partColumns, partsFeatures } from "./part-columns";
-import { selectClass } from "./parts-filters";
 
 const ARROW = { asc: " ▲", desc: " ▼" } as const;
 
@@ -64,33 +64,13 @@ export function PartsTable({ siteId, lines, busy = false, sort, dir, onSort }: P
     };
     return (
       <div className="space-y-3">
-        <div className="no-print grid grid-cols-2 gap-3">
-          <label className="text-sm font-semibold text-mist">
-            Sort by
-            <select
-              className={selectClass}
-              value={sort ?? "created"}
-              onChange={(e) => onSort(e.target.value as PartSort, dir ?? "asc")}
-            >
-              {PART_SORTS.map((id) => (
-                <option key={id} value={id}>
-                  {id === "created" ? "Order added" : header(id)}
-                </option>
-              ))}
-            </select>
-          </label>
-          <label className="text-sm font-semibold text-mist">
-            Direction
-            <select
-              className={selectClass}
-              value={dir ?? "asc"}
-              onChange={(e) => onSort(sort ?? "created", e.target.value === "desc" ? "desc" : "asc")}
-            >
-              <option value="asc">Ascending ▲</option>
-              <option value="desc">Descending ▼</option>
-            </select>
-          </label>
-        </div>
+        <SortSelects
+          keys={PART_SORTS}
+          sort={sort ?? "created"}
+          dir={dir ?? "asc"}
+          label={(id) => (id === "created" ? "Order added" : header(id))}
+          onChange={onSort}
+        />
         <ul
           className={`space-y-3 ${busy ? "opacity-60" : ""}`}
           aria-label="Wanted parts"
