@@ -36,10 +36,10 @@
 import "../bench/quiet";
 import { spawn, spawnSync } from "node:child_process";
 import { randomBytes } from "node:crypto";
-import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
+import { readFileSync } from "node:fs";
 import type { AddressInfo } from "node:net";
 import { createServer } from "node:net";
-import { cpus, tmpdir, totalmem } from "node:os";
+import { cpus, totalmem } from "node:os";
 import { join } from "node:path";
 import { Agent, request } from "node:http";
 import { monitorEventLoopDelay } from "node:perf_hooks";
@@ -69,6 +69,7 @@ import { BENCH_PASSWORD, describeSite, generateSite, type BenchSite } from "../b
 import { median, percentile, spread, table } from "../bench/stats";
 import { BOARD_LATER_PAGE, BOARD_PAGE } from "../../src/schemas/inventory";
 import { buildClient } from "./prepare";
+import { startFloor } from "../bench/floor";
 import { benchBoard } from "./bench-board";
 import { benchFleet } from "./bench-fleet";
 import { benchIngest } from "./bench-ingest";
@@ -163,37 +164,6 @@ async function startServer(url: string) {
  * The bare-HTTP side (server/bench/floor-server.ts) as its own process, serving these paths: each one's statements
  * replayed with bare pg and the endpoint's answer sent by node:http alone. BENCH_FLOOR=0 leaves it out.
  */
-async function startFloor(url: string, paths: Record<string, FloorPath>, poolMax: number) {
-  const dir = mkdtempSync(join(tmpdir(), "tideline-floor-"));
-  const file = join(dir, "plans.json");
-  writeFileSync(file, JSON.stringify(paths));
-  const child = spawn(process.execPath, ["--import", "tsx", "server/bench/floor-server.ts", file], {
-    cwd: projectRoot,
-    env: { ...process.env, DATABASE_URL: url, FLOOR_POOL_MAX: String(poolMax) },
-    stdio: ["ignore", "pipe", "inherit"],
-  });
-  const port = await new Promise<number>((resolve, reject) => {
-    let out = "";
-    child.stdout!.on("data", (d: Buffer) => {
-      out += d.toString();
-      const m = /listening (\d+)/.exec(out);
-      if (m) resolve(Number(m[1]));
-    });
-    child.once("exit", (code) => reject(new Error(`the bare-HTTP side exited (code ${code})`)));
-  });
-  return {
-    base: `http://127.0.0.1:${port}`,
-    pid: child.pid!,
-    stop: async () => {
-      if (child.exitCode === null && child.signalCode === null) {
-        child.kill("SIGTERM");
-        await new Promise((r) => child.once("exit", r));
-      }
-      rmSync(dir, { recursive: true, force: true });
-    },
-  };
-}
-
 function rssOf(pid: number): number {
   try {
     const m = /VmRSS:\s+(\d+) kB/.exec(readFileSync(`/proc/${pid}/status`, "utf8"));

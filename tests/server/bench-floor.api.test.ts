@@ -1,23 +1,18 @@
-import { spawn, type ChildProcess } from "node:child_process";
-import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
-import { tmpdir } from "node:os";
-import { join } from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createTestDb, type TestDb } from "../helpers/db";
 import type { FloorPath } from "../../server/bench/floor-server";
 import { planReplay } from "../../server/bench/replay";
+import { startFloor, type Floor } from "../../server/bench/floor";
 
 // The bench's bare-HTTP side (server/bench/floor-server.ts): for a captured path it replays that path's statements on
 // the real PostgreSQL and sends the endpoint's answer as it was, compressed as the server compresses a whole answer.
 let t: TestDb;
-let child: ChildProcess;
+let floor: Floor | undefined;
 let base: string;
-let dir: string;
 const answer = { rows: Array.from({ length: 100 }, (_, i) => ({ id: i, designation: `CB-${i}`, note: "verdigris" })) };
 
 beforeAll(async () => {
   t = await createTestDb();
-  dir = mkdtempSync(join(tmpdir(), "floor-test-"));
   // The statement leaves a mark the test can read: the plan really runs, on the database it is given.
   await t.db.schema.createTable("floor_marks").addColumn("n", "integer").execute();
   const plans: Record<string, FloorPath> = {
@@ -26,28 +21,11 @@ beforeAll(async () => {
       body: JSON.stringify(answer),
     },
   };
-  writeFileSync(join(dir, "plans.json"), JSON.stringify(plans));
-  child = spawn(process.execPath, ["--import", "tsx", "server/bench/floor-server.ts", join(dir, "plans.json")], {
-    env: { ...process.env, DATABASE_URL: t.url, FLOOR_POOL_MAX: "2" },
-    stdio: ["ignore", "pipe", "inherit"],
-  });
-  const port = await new Promise<number>((resolve, reject) => {
-    let out = "";
-    child.stdout!.on("data", (d: Buffer) => {
-      out += d.toString();
-      const m = /listening (\d+)/.exec(out);
-      if (m) resolve(Number(m[1]));
-    });
-    child.once("exit", (code) => reject(new Error(`exited ${code}`)));
-  });
-  base = `http://127.0.0.1:${port}`;
+  floor = await startFloor(t.url, plans, 2);
+  base = floor.base;
 }, 60_000);
 afterAll(async () => {
-  if (child.exitCode === null) {
-    child.kill("SIGTERM");
-    await new Promise((r) => child.once("exit", r));
-  }
-  rmSync(dir, { recursive: true, force: true });
+  await floor?.stop();
   await t.drop();
 });
 
