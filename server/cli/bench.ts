@@ -549,6 +549,8 @@ async function main() {
         bareRps: [] as number[],
         bareRatio: [] as number[],
         bareCpu: [] as number[],
+        pgCpuBare: [] as number[],
+        benchCpuBare: [] as number[],
       };
       const errorKinds = new Map<string, number>();
       const httpHalf = async () => {
@@ -654,6 +656,8 @@ async function main() {
         if (!bare) return;
         const agents = Array.from({ length: CLIENTS }, () => new Agent({ keepAlive: true, maxSockets: 1 }));
         const cpu0 = cpuSecondsOf(bare.pid);
+        const pg0 = clusterCpu(postmaster);
+        const benchCpu0 = process.cpuUsage();
         let bareDone = 0;
         const until = performance.now() + SECONDS * 1000;
         const b0 = performance.now();
@@ -668,6 +672,9 @@ async function main() {
         for (const ag of agents) ag.destroy();
         f2.bareRps.push(bareDone / ((performance.now() - b0) / 1000));
         f2.bareCpu.push(((cpuSecondsOf(bare.pid) - cpu0) * 1000) / Math.max(1, bareDone));
+        f2.pgCpuBare.push((cpuBetween(pg0, clusterCpu(postmaster)) * 1000) / Math.max(1, bareDone));
+        const benchCpu = process.cpuUsage(benchCpu0);
+        f2.benchCpuBare.push((benchCpu.user + benchCpu.system) / 1000 / Math.max(1, bareDone));
       };
       for (let run = 0; run < RUNS; run++) {
         if (run % 2 === 0) {
@@ -715,8 +722,12 @@ async function main() {
             ["server CPU used, cores (1 = its one thread busy)", spread(f2.serverCores, 2)],
             ["PostgreSQL CPU ms per request (HTTP)", spread(f2.pgCpuHttp, 2)],
             ["PostgreSQL CPU ms per request (raw)", spread(f2.pgCpuRaw, 2)],
+            ...(bare ? [["PostgreSQL CPU ms per request (bare HTTP)", spread(f2.pgCpuBare, 2)]] : []),
             ["load generator's (this process's) CPU ms per request (HTTP)", spread(f2.benchCpuHttp, 2)],
             ["load generator's (this process's) CPU ms per request (raw)", spread(f2.benchCpuRaw, 2)],
+            ...(bare
+              ? [["load generator's (this process's) CPU ms per request (bare HTTP)", spread(f2.benchCpuBare, 2)]]
+              : []),
             ["load generator's own event-loop delay beyond resolution, max ms (HTTP)", spread(f2.benchEldMax)],
             ...(f2.hp95InProc.length
               ? [["/api/health p95 ms timed in the load generator's process", spread(f2.hp95InProc)]]
