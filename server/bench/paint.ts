@@ -10,9 +10,11 @@
  * entered the page (a MutationObserver, then requestAnimationFrame), since the LCP element is the page's heading or
  * intro and says nothing of when the rows a person came for appear.
  */
-import { existsSync, readFileSync, rmSync, writeFileSync } from "node:fs";
+import { copyFileSync, existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { chromium, type Browser, type CDPSession } from "@playwright/test";
+import { build } from "vite";
 
 export interface PaintFigures {
   lcp: number;
@@ -46,24 +48,80 @@ const observe = (rowSelector: string | null) => `
 `;
 
 export const STATIC_PAGE = "bench-static.html";
+export const FLOOR_PAGE = "bench-floor.html";
 
-/** Writes the static baseline page next to the built index.html, with the same head. Returns a remover. */
-export function writeStaticPage(clientDir: string): () => void {
+/** The built index.html's head without its scripts and module preloads: the app's stylesheet, fonts, icons. */
+function appHead(clientDir: string): string {
   const html = readFileSync(join(clientDir, "index.html"), "utf8");
   const head = /<head>([\s\S]*?)<\/head>/.exec(html)?.[1] ?? "";
-  const keep = head
+  return head
     .split("\n")
     .filter((l) => !/<script/.test(l) && !/modulepreload/.test(l))
     .join("\n");
+}
+
+/** Writes the static baseline page next to the built index.html, with the same head. Returns a remover. */
+export function writeStaticPage(clientDir: string): () => void {
   const file = join(clientDir, STATIC_PAGE);
   writeFileSync(
     file,
-    `<!doctype html><html lang="en"><head>${keep}</head><body><main id="main" class="p-4">
+    `<!doctype html><html lang="en"><head>${appHead(clientDir)}</head><body><main id="main" class="p-4">
 <h1 class="text-2xl font-bold">Board 001 — Hull 2, deck 2</h1>
 <p>Static reference page for the bench: the app's stylesheet and preloaded fonts, no script. The board's positions,
 their grades and dispositions would be listed here. Nothing on this page is real.</p></main></body></html>`,
   );
   return () => existsSync(file) && rmSync(file);
+}
+
+/**
+ * The client floor: the static page's heading and paragraph rendered by React and React Router alone (src/bench-floor.ts),
+ * built here by Vite's own `build` as a production bundle (React Router's production build, as vite.config.ts
+ * chooses it) and served beside the app with the same head. What any client-rendered page on this stack costs a phone
+ * before Tideline's own code: the page-paint table's floor row, as the bare-HTTP side is the endpoints' floor.
+ * Returns a remover for the page and its script.
+ */
+export async function writeFloorPage(clientDir: string): Promise<() => void> {
+  const root = join(import.meta.dirname, "..", "..");
+  const outDir = mkdtempSync(join(tmpdir(), "tideline-floor-client-"));
+  try {
+    const result = await build({
+      configFile: false,
+      root,
+      mode: "production",
+      logLevel: "warn",
+      resolve: {
+        alias: [
+          { find: /^react-router$/, replacement: join(root, "node_modules/react-router/dist/production/index.mjs") },
+        ],
+      },
+      build: {
+        outDir,
+        emptyOutDir: true,
+        copyPublicDir: false,
+        modulePreload: false,
+        rollupOptions: {
+          input: join(root, "src", "bench-floor.ts"),
+          output: { entryFileNames: "bench-floor-[hash].js", chunkFileNames: "bench-floor-[name]-[hash].js" },
+        },
+      },
+    });
+    const outputs = (Array.isArray(result) ? result : [result]).flatMap((r) => ("output" in r ? r.output : []));
+    const scripts = outputs.filter((o) => o.type === "chunk").map((o) => o.fileName);
+    const entry = outputs.find((o) => o.type === "chunk" && o.isEntry)?.fileName;
+    if (!entry) throw new Error("the client floor's build made no entry chunk");
+    for (const f of scripts) copyFileSync(join(outDir, f), join(clientDir, "assets", f));
+    const file = join(clientDir, FLOOR_PAGE);
+    writeFileSync(
+      file,
+      `<!doctype html><html lang="en"><head>${appHead(clientDir)}
+<script type="module" crossorigin src="/assets/${entry}"></script></head><body><div id="root"></div></body></html>`,
+    );
+    return () => {
+      for (const f of [file, ...scripts.map((s) => join(clientDir, "assets", s))]) if (existsSync(f)) rmSync(f);
+    };
+  } finally {
+    rmSync(outDir, { recursive: true, force: true });
+  }
 }
 
 export async function openBrowser(): Promise<Browser> {

@@ -52,7 +52,15 @@ import { createApp } from "../app";
 import { appPoolMax, createDb, MAINTENANCE_DB_OPTIONS } from "../db";
 import { CSV_COLUMNS, inlineParameters } from "../defects/csv";
 import { applySort, registerBase } from "../defects/list-repository";
-import { measurePaint, openBrowser, STATIC_PAGE, writeStaticPage, type PaintFigures } from "../bench/paint";
+import {
+  FLOOR_PAGE,
+  measurePaint,
+  openBrowser,
+  STATIC_PAGE,
+  writeFloorPage,
+  writeStaticPage,
+  type PaintFigures,
+} from "../bench/paint";
 import { EVENT_LOOP_RESOLUTION_MS } from "../observability/metrics";
 import {
   clusterCpu,
@@ -375,6 +383,15 @@ async function main() {
     );
     const clientDir = buildClient();
     removeStatic = writeStaticPage(clientDir);
+    if (process.env.BENCH_PAINT !== "0") {
+      // The client floor (React and React Router alone) beside the static page, removed with it.
+      const removeStaticPage = removeStatic;
+      const removeFloorPage = await writeFloorPage(clientDir);
+      removeStatic = () => {
+        removeStaticPage();
+        removeFloorPage();
+      };
+    }
     server = await startServer(url);
     const { child, base } = server;
     const cookie = await signIn(base, site.curatorEmail);
@@ -798,6 +815,7 @@ async function main() {
       // [label, path, signed in, a row of the page's list (its "rows" column: when the first was drawn)]
       const pages: Array<[string, string, boolean, string | null]> = [
         ["static page (baseline)", `/${STATIC_PAGE}`, false, null],
+        ["React + React Router alone (the floor)", `/${FLOOR_PAGE}`, false, null],
         ["sign-in page", "/sign-in", false, null],
         ["overview", `/sites/${site.siteId}`, true, 'section[aria-label="By board"] li'],
         [
@@ -821,12 +839,13 @@ async function main() {
         await browser.close();
       }
       const staticLcp = median(figures.get(pages[0][0])!.map((f) => f.lcp));
+      const floorLcp = median(figures.get(pages[1][0])!.map((f) => f.lcp));
       say(
-        `\n4. Page paint, phone profile (360 × 740, 2 × density, touch), CPU 4 × slower, cold cache; ${RUNS} loads each`,
+        `\n4. Page paint, phone profile (360 × 740, 2 × density, touch), CPU 4 × slower, cold cache; ${RUNS} loads each; the floor is the static page's heading and paragraph rendered by React and React Router alone (src/bench-floor.ts), what any client-rendered page on this stack costs before Tideline's own code`,
       );
       say(
         table(
-          ["page", "LCP ms", "LCP / static", "rows drawn ms", "CLS", "longest task ms", "blocking ms"],
+          ["page", "LCP ms", "LCP / static", "LCP / floor", "rows drawn ms", "CLS", "longest task ms", "blocking ms"],
           pages.map(([label]) => {
             const f = figures.get(label)!;
             return [
@@ -836,6 +855,7 @@ async function main() {
                 0,
               ),
               (median(f.map((x) => x.lcp)) / staticLcp).toFixed(2),
+              (median(f.map((x) => x.lcp)) / floorLcp).toFixed(2),
               f[0].rows == null
                 ? "—"
                 : spread(
