@@ -88,7 +88,7 @@ export async function writeFloorPage(clientDir: string): Promise<() => void> {
       configFile: false,
       root,
       mode: "production",
-      logLevel: "warn",
+      logLevel: "error", // not react-router's "use client" directive, which means nothing in a client bundle
       resolve: {
         alias: [
           { find: /^react-router$/, replacement: join(root, "node_modules/react-router/dist/production/index.mjs") },
