@@ -168,10 +168,6 @@ async function startServer(url: string) {
   };
 }
 
-/**
- * The bare-HTTP side (server/bench/floor-server.ts) as its own process, serving these paths: each one's statements
- * replayed with bare pg and the endpoint's answer sent by node:http alone. BENCH_FLOOR=0 leaves it out.
- */
 function rssOf(pid: number): number {
   try {
     const m = /VmRSS:\s+(\d+) kB/.exec(readFileSync(`/proc/${pid}/status`, "utf8"));

@@ -25,13 +25,13 @@ const col = createColumnHelper<typeof registerFeatures, DefectRow>();
 
 const date = (s: string) => s.slice(0, 10);
 
-/** Column labels for the column menu and the CSV (ids match the server's sort keys). */
 /**
  * The least width of a column in the wide table, so a long title or board name wraps into a readable block rather than
  * a column a word wide. The table wraps those cells in it; the phone's cards show the same cells without it.
  */
 export const COLUMN_MIN_WIDTH: Partial<Record<string, string>> = { title: "min-w-56", board: "min-w-32" };
 
+/** Column labels for the column menu and the CSV (ids match the server's sort keys). */
 export const COLUMN_LABELS: Record<string, string> = {
   ref: "Ref",
   priority: "Priority score",
