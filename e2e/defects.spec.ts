@@ -24,6 +24,31 @@ async function dueOrderProblem(page: Page): Promise<string> {
 
 const refs = (page: Page) => page.locator("tbody a[data-row-link]").allInnerTexts();
 
+test("a cold start of the register asks the server for each read once", async ({ page, context, browser }) => {
+  await signIn(page, "curator");
+  await openRegister(page);
+  const register = new URL(page.url()).pathname;
+  // A new browser with the same session and nothing kept on the phone yet (no IndexedDB, no service worker).
+  const cold = await browser.newContext({ storageState: { cookies: await context.cookies(), origins: [] } });
+  const fresh = await cold.newPage();
+  const asked: string[] = [];
+  fresh.on("request", (r) => {
+    const u = new URL(r.url());
+    if (u.pathname.startsWith("/api/") && u.pathname !== "/api/health") asked.push(u.pathname);
+  });
+  await fresh.goto(register);
+  await expect(fresh.getByRole("status").filter({ hasText: /Showing/ })).toBeVisible();
+  await fresh.waitForLoadState("networkidle");
+  const times = (path: string) => asked.filter((a) => a === path).length;
+  // Started by the entry as the page starts (src/app/router.tsx `reads`), taken up by the page, not asked again
+  // once the kept reads are restored (src/app/provider.tsx `restoredFromPhone`).
+  expect(times("/api/session"), asked.join("\n")).toBe(1);
+  expect(times(register.replace(/^\/sites/, "/api/sites").replace(/\/defects$/, "")), asked.join("\n")).toBe(1);
+  expect(times(`/api${register}`), asked.join("\n")).toBe(1);
+  expect(times(`/api${register}/options`), asked.join("\n")).toBe(1);
+  await cold.close();
+});
+
 test("the curator filters and sorts the register, and a shared link opens the same view", async ({ page, context }) => {
   await signIn(page, "curator");
   await openRegister(page);

@@ -20,7 +20,7 @@ if (import.meta.env.PROD && "serviceWorker" in navigator)
 // the router (`earlyReads`) flattened and ranked every route a second time, a long task of its own on a phone.
 setTimeout(() => {
   const router = createRouter();
-  for (const url of readsOf(router.state.matches)) startRead(url);
+  for (const url of readsOf(router.state.matches, new URLSearchParams(router.state.location.search))) startRead(url);
   createRoot(document.getElementById("root")!).render(
     <StrictMode>
       <AppProvider>

@@ -1,5 +1,6 @@
 import { createBrowserRouter, matchRoutes, type LoaderFunctionArgs, type Params, type RouteObject } from "react-router";
 import { paths } from "../config/paths";
+import { localDay } from "../lib/clock";
 import { queryClient } from "./query-client";
 import { RouteError } from "./routes/route-error";
 
@@ -40,7 +41,16 @@ const prefetchParts = prefetch((a) =>
  * entry before anything else (`earlyReads`, src/lib/early-reads.ts), so the answers travel while the entry and the
  * route's code are evaluated. tests/client/early-reads.test.ts holds each URL equal to its feature query's.
  */
-const reads = (urls: (p: Params) => string[]): Pick<RouteObject, "handle"> => ({ handle: { reads: urls } });
+type Reads = (p: Params, search: URLSearchParams) => string[];
+const reads = (urls: Reads): Pick<RouteObject, "handle"> => ({ handle: { reads: urls } });
+
+/**
+ * True when the address asks for a list's first, unfiltered view: no query key but those that only arrange the
+ * page (`layout`). Its read can then be named without the feature's schemas (zod), which read any other view of
+ * the address (the route's loader does, once they have arrived).
+ */
+const plainView = (search: URLSearchParams, layout: readonly string[] = []) =>
+  [...search.keys()].every((k) => layout.includes(k));
 
 const prefetchRegister = prefetch((a) =>
   Promise.all([import("../features/defects/api"), import("../features/defects/url-state")]).then(([m, u]) =>
@@ -116,7 +126,21 @@ export const routes: RouteObject[] = [
           { path: "log", ...page(() => import("./routes/boards/quick-log")) },
           { path: "inventory/import", ...page(() => import("./routes/boards/inventory-import")) },
           { path: "flood", ...page(() => import("./routes/boards/flood-events")) },
-          { path: "defects", ...page(() => import("./routes/defects/register")), loader: prefetchRegister },
+          {
+            path: "defects",
+            ...page(() => import("./routes/defects/register")),
+            loader: prefetchRegister,
+            // The register's first view (its default sort and page, as of today) and the filter choices it offers.
+            // `hide` and `cols` only arrange its columns (url-state.ts `apiQuery` leaves them out).
+            ...reads((p, search) =>
+              plainView(search, ["hide", "cols"])
+                ? [
+                    `/api/sites/${p.siteId}/defects?today=${localDay(new Date())}`,
+                    `/api/sites/${p.siteId}/defects/options`,
+                  ]
+                : [`/api/sites/${p.siteId}/defects/options`],
+            ),
+          },
           { path: "defects/new", ...page(() => import("./routes/defects/raise")) },
           { path: "defects/how-priority-works", ...page(() => import("./routes/defects/priority-help")) },
           { path: "defects/:defectId", ...page(() => import("./routes/defects/detail")) },
@@ -133,7 +157,13 @@ export const routes: RouteObject[] = [
             path: "boards/:boardId/return-to-service/stages/:stageId/sheet",
             ...page(() => import("./routes/return-to-service/stage-sheet")),
           },
-          { path: "parts", ...page(() => import("./routes/parts/parts-list")), loader: prefetchParts },
+          {
+            path: "parts",
+            ...page(() => import("./routes/parts/parts-list")),
+            loader: prefetchParts,
+            // The wanted list's first view: the lines still open (schemas/parts.ts `listQuery`'s default).
+            ...reads((p, search) => (plainView(search) ? [`/api/sites/${p.siteId}/parts?status=open`] : [])),
+          },
           { path: "reports", ...page(() => import("./routes/reports/reports")) },
           { path: "parts/print", ...page(() => import("./routes/parts/parts-print")) },
           { path: "parts/:lineId", ...page(() => import("./routes/parts/part-line")) },
@@ -146,16 +176,20 @@ export const routes: RouteObject[] = [
 ];
 
 /** The URLs the matched routes read whatever they show (their `reads`), outermost first. */
-export const readsOf = (matches: ReadonlyArray<{ route: RouteObject; params: Params }> | null): string[] =>
-  (matches ?? []).flatMap(
-    (m) => (m.route.handle as { reads?: (p: Params) => string[] } | undefined)?.reads?.(m.params) ?? [],
-  );
+export const readsOf = (
+  matches: ReadonlyArray<{ route: RouteObject; params: Params }> | null,
+  search: URLSearchParams,
+): string[] =>
+  (matches ?? []).flatMap((m) => (m.route.handle as { reads?: Reads } | undefined)?.reads?.(m.params, search) ?? []);
 
 /**
- * The reads for `pathname`, matched by React Router's `matchRoutes` (which flattens and ranks every route on each
- * call). The app itself takes them from the router's own first matches instead (src/main.tsx), so the routes are
- * flattened once per page start; this one is for tests and anything without a router.
+ * The reads for an address (`/path?query`), matched by React Router's `matchRoutes` (which flattens and ranks every
+ * route on each call). The app itself takes them from the router's own first matches instead (src/main.tsx), so the
+ * routes are flattened once per page start; this one is for tests and anything without a router.
  */
-export const earlyReads = (pathname: string): string[] => readsOf(matchRoutes(routes, pathname));
+export const earlyReads = (address: string): string[] => {
+  const url = new URL(address, "http://x");
+  return readsOf(matchRoutes(routes, url.pathname), url.searchParams);
+};
 
 export const createRouter = () => createBrowserRouter(routes);

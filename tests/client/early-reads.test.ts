@@ -2,6 +2,10 @@ import { afterEach, describe, expect, it, vi } from "vitest";
 import { z } from "zod";
 import { earlyReads } from "../../src/app/router";
 import { sessionQueryOptions } from "../../src/features/auth/api";
+import { defectChoicesOptions, defectListOptions } from "../../src/features/defects/api";
+import { apiQuery, localToday, readState } from "../../src/features/defects/url-state";
+import { partsListQueryOptions } from "../../src/features/parts/api";
+import { listQuery as partsQuery } from "../../src/schemas/parts";
 import { boardQueryOptions, boardsQueryOptions, overviewQueryOptions } from "../../src/features/inventory/api";
 import { siteQueryOptions } from "../../src/features/sites/api";
 import { api } from "../../src/lib/api-client";
@@ -37,12 +41,35 @@ describe("reads started at page start (src/lib/early-reads.ts, src/app/router.ts
     expect(earlyReads("/sign-in")).toEqual([]);
   });
 
+  it("names a list's first view only when the address asks for nothing else (no zod at page start)", () => {
+    const today = localToday();
+    const first = [`/api/sites/${S}/defects?today=${today}`, `/api/sites/${S}/defects/options`];
+    expect(earlyReads(`/sites/${S}/defects`).slice(2)).toEqual(first);
+    // Columns hidden or reordered: the same rows.
+    expect(earlyReads(`/sites/${S}/defects?hide=board&cols=title,status`).slice(2)).toEqual(first);
+    // A filter, a sort or a page: read by the route's loader with the feature's schemas, once they have arrived.
+    expect(earlyReads(`/sites/${S}/defects?severity=high`).slice(2)).toEqual([`/api/sites/${S}/defects/options`]);
+    expect(earlyReads(`/sites/${S}/defects?page=2`).slice(2)).toEqual([`/api/sites/${S}/defects/options`]);
+    expect(earlyReads(`/sites/${S}/parts`).slice(2)).toEqual([`/api/sites/${S}/parts?status=open`]);
+    expect(earlyReads(`/sites/${S}/parts?status=all`).slice(2)).toEqual([]);
+  });
+
   it("each is the URL the page's own query asks for, so the page takes it up instead of asking again", async () => {
     expect(await urlsOf(sessionQueryOptions().queryFn)).toEqual(["/api/session"]);
     expect(await urlsOf(siteQueryOptions(S).queryFn)).toEqual(earlyReads(`/sites/${S}/members`).slice(1));
     expect(await urlsOf(overviewQueryOptions(S).queryFn)).toEqual(earlyReads(`/sites/${S}`).slice(2));
     expect(await urlsOf(boardsQueryOptions(S).queryFn)).toEqual(earlyReads(`/sites/${S}/boards`).slice(2));
     expect(await urlsOf(boardQueryOptions(S, B).queryFn)).toEqual(earlyReads(`/sites/${S}/boards/${B}`).slice(2));
+    // The register and the wanted list as their pages ask with an address of no query (url-state.ts, the parts
+    // list's useFilterParams): the same URLs, in the same order.
+    const register = apiQuery(readState(new URLSearchParams()), localToday());
+    expect([
+      ...(await urlsOf(defectListOptions(S, register).queryFn)),
+      ...(await urlsOf(defectChoicesOptions(S).queryFn)),
+    ]).toEqual(earlyReads(`/sites/${S}/defects`).slice(2));
+    expect(await urlsOf(partsListQueryOptions(S, partsQuery.parse({})).queryFn)).toEqual(
+      earlyReads(`/sites/${S}/parts`).slice(2),
+    );
   });
 
   it("api.get takes a started answer once; the next read and any read after a write ask the server", async () => {

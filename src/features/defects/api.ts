@@ -42,12 +42,14 @@ export const defectListOptions = (siteId: string, query: string) =>
   });
 export const useDefectList = (siteId: string, query: string) => useQuery(defectListOptions(siteId, query));
 
-export const useDefectOptions = (siteId: string) =>
-  useQuery({
+/** The choices the register's filters and the defect forms offer (boards, assignees). */
+export const defectChoicesOptions = (siteId: string) =>
+  queryOptions({
     queryKey: defectKeys.options(siteId),
     queryFn: ({ signal }) => api.get(`${base(siteId)}/options`, optionsResponse, signal),
     staleTime: 60_000,
   });
+export const useDefectOptions = (siteId: string) => useQuery(defectChoicesOptions(siteId));
 
 export const useBoardPositions = (siteId: string, boardId: string) =>
   useQuery({

@@ -1,4 +1,5 @@
 import type { z } from "zod";
+import { localDay } from "../../lib/clock";
 import { listQuery, type Flag, type SortKey } from "../../schemas/defects";
 import type { DefectCategory, DefectSeverity, DefectStatus } from "../../domain/vocab";
 
@@ -84,7 +85,4 @@ export function apiQuery(s: RegisterState, today: string): string {
 }
 
 /** Today's date in the browser's own time zone, YYYY-MM-DD. */
-export const localToday = () => {
-  const d = new Date();
-  return `${d.getFullYear()}-${String(d.getMonth() + 1).padStart(2, "0")}-${String(d.getDate()).padStart(2, "0")}`;
-};
+export const localToday = () => localDay(new Date());
