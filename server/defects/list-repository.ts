@@ -1,5 +1,6 @@
 import { sql, type Compilable, type Expression, type SelectQueryBuilder, type SqlBool } from "kysely";
 import type { Database } from "../../db/types";
+import { ACTIVE_STATUSES } from "../../src/domain/defect-workflow";
 import type { Flag, ListQuery, SortKey } from "../../src/schemas/defects";
 import type { Db } from "../db";
 import { statementCache } from "../statement-cache";
@@ -211,18 +212,28 @@ const STATUS_ORDER = sql`array_position(ARRAY['raised','scheduled','under_repair
 /**
  * The ranked order as ORDER BY keys (for "priority desc"), equal to rankDefects() of
  * src/domain/priority.ts for non-chained pins: a pinned defect takes its target's key
- * (safety-critical first, score desc, created asc, id asc) and sits just before (above) or after (below) it;
+ * (open work first, safety-critical first, score desc, created asc, id asc) and sits just before (above) or after (below) it;
  * several "above" pins keep their own order, several "below" pins the reverse of it.
  * No window over the whole site: only the page's rows are sorted by keys, not ranks.
  */
 const BELOW = sql`(t.id IS NOT NULL AND pin.direction = 'below')`;
+/**
+ * Settled — not open work (`ACTIVE_STATUSES`): false for open work, which ranks first (Rankable's `settled`). The
+ * statuses are written into the SQL as constants, in the words of the index `defects_site_open_rank_idx`
+ * (migration 2026_12_14_0100), so PostgreSQL matches the index's expression; tests/server/defects-register.api.test.ts
+ * checks that the ranked page is read from that index in order.
+ */
+const settled = (alias: "d" | "t") =>
+  sql<boolean>`(${sql.ref(`${alias}.status`)} NOT IN (${sql.join(ACTIVE_STATUSES.map((x) => sql.lit(x)))}))`;
 export const RANK_KEYS: Array<[ReturnType<typeof sql>, "ASC" | "DESC"]> = [
-  // Safety-critical first: the same key as compareByPriority's first term.
+  // Open work first, then safety-critical first: compareByPriority's first two terms.
+  [sql`coalesce(${settled("t")}, ${settled("d")})`, "ASC"],
   [sql`coalesce(t.safety_critical, d.safety_critical)`, "DESC"],
   [sql`coalesce(t.priority_score, d.priority_score)`, "DESC"],
   [sql`coalesce(t.created_at, d.created_at)`, "ASC"],
   [sql`coalesce(t.id, d.id)`, "ASC"],
   [sql`CASE WHEN t.id IS NULL THEN 0 WHEN pin.direction = 'above' THEN -1 ELSE 1 END`, "ASC"],
+  [sql`CASE WHEN ${BELOW} THEN NOT ${settled("d")} ELSE ${settled("d")} END`, "ASC"],
   [sql`CASE WHEN ${BELOW} THEN NOT d.safety_critical ELSE d.safety_critical END`, "DESC"],
   [sql`CASE WHEN ${BELOW} THEN -d.priority_score ELSE d.priority_score END`, "DESC"],
   [sql`CASE WHEN ${BELOW} THEN NULL ELSE d.created_at END`, "ASC"],
@@ -313,10 +324,10 @@ export const registerCount = async (db: Db, siteId: string, f: ListQuery, today:
 
 /**
  * The ids of one page in the ranked order, index-served. Defects no pin moves rank by
- * their own keys — safety-critical, score, created, id — which the index
- * `defects_site_safety_rank_idx` (migration 2026_12_02_1700) returns in order, so that branch
+ * their own keys — settled, safety-critical, score, created, id — which the index
+ * `defects_site_open_rank_idx` (migration 2026_12_14_0100) returns in order, so that branch
  * stops after the page's last row instead of sorting the whole site; the few pinned defects take
- * their target's keys (RANK_KEYS) in a second branch. Both branches compute the same eleven keys
+ * their target's keys (RANK_KEYS) in a second branch. Both branches compute the same thirteen keys
  * the single query ordered by, so the merged order — and every tie — is exactly the ranked order
  * of `rankDefects()` (tests/server/defects*.api.test.ts check it on pinned data).
  */
@@ -327,11 +338,13 @@ function rankedPageIds(db: Db, s: RegisterShape, v: RegisterValues) {
   const keyNames = RANK_KEYS.map((_, i) => `k${i + 1}`);
   // Unpinned: every rank key reduces to the defect's own (t is NULL; see RANK_KEYS).
   const ownKeys = [
+    settled("d"),
     sql`d.safety_critical`,
     sql`d.priority_score`,
     sql`d.created_at`,
     sql`d.id`,
     sql`0`,
+    settled("d"),
     sql`d.safety_critical`,
     sql`d.priority_score`,
     sql`d.created_at`,
@@ -367,7 +380,7 @@ function rankedPageIds(db: Db, s: RegisterShape, v: RegisterValues) {
   )
     .select((eb) => [eb.ref("d.id").as("id"), ...ownKeys.map((k, i) => k.as(keyNames[i]))])
     .orderBy(
-      sql`d.safety_critical ${dir("DESC")}, d.priority_score ${dir("DESC")}, d.created_at ${dir("ASC")}, d.id ${dir("ASC")}`,
+      sql`${settled("d")} ${dir("ASC")}, d.safety_critical ${dir("DESC")}, d.priority_score ${dir("DESC")}, d.created_at ${dir("ASC")}, d.id ${dir("ASC")}`,
     )
     .limit(want);
   const pinned = filterBy(registerBase(db, v.siteId).where("pin.id", "is not", null), s, v)

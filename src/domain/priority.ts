@@ -91,6 +91,12 @@ export interface Rankable {
   score: number;
   /** A safety-critical defect ranks above every defect that is not: a shock or arc-flash hazard comes first. */
   safetyCritical?: boolean;
+  /**
+   * Settled: no longer open work (closed, deferred or accepted as is; `ACTIVE_STATUSES` of defect-workflow.ts are
+   * the open ones). Every settled defect ranks below all open work, so the register's first rows are what is still
+   * to do. Absent means open.
+   */
+  settled?: boolean;
   pin?: { direction: "above" | "below"; relativeTo: string } | null;
 }
 
@@ -101,10 +107,13 @@ function timeOf(createdAt: string): number {
 }
 
 /**
- * Stable order: safety-critical first (whatever the points: a hazard is never outranked by
- * convenience), then score descending, then older first (createdAt ascending), then id.
+ * Stable order: open work before settled defects, then safety-critical first (whatever the points: a hazard is
+ * never outranked by convenience), then score descending, then older first (createdAt ascending), then id.
  */
 export function compareByPriority(a: Rankable, b: Rankable): number {
+  const da = a.settled ? 1 : 0;
+  const db = b.settled ? 1 : 0;
+  if (da !== db) return da - db;
   const sa = a.safetyCritical ? 1 : 0;
   const sb = b.safetyCritical ? 1 : 0;
   if (sa !== sb) return sb - sa;
@@ -146,7 +155,8 @@ export const PRIORITY_FORMULA_TEXT = [
   `- Parts: in hand or none needed +${PARTS_POINTS.in_hand}, wanted ${PARTS_POINTS.wanted}, unobtainable ${PARTS_POINTS.unobtainable}`,
   `- Effort: minus ${EFFORT_SCALE} × log₂(1 + hours), at most ${EFFORT_CAP}; a blank estimate counts as ${UNKNOWN_EFFORT_HOURS} hours`,
   "",
-  "Safety-critical defects always come before every defect that is not, whatever the points; the points order each group.",
+  "Open work comes first: defects closed, deferred or accepted as is follow every defect still to do.",
+  "Among each, safety-critical defects always come before every defect that is not, whatever the points; the points order each group.",
   "Equal scores: the older defect first, then by reference. The curator can place a defect just before or after another (the curator's order).",
   "The score plans the work; it does not make anything safe. Hazards are for qualified people under NFPA 70E.",
 ].join("\n");

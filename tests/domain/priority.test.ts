@@ -137,6 +137,18 @@ describe("compareByPriority and rankDefects", () => {
       [d("x", 10, undefined, { direction: "above", relativeTo: "x" }), d("y", 30)],
       ["y", "x"],
     ], // self-pin ignored
+    [
+      [{ ...d("done", 90), settled: true, safetyCritical: true }, d("todo", 10), { ...d("later", 5), settled: false }],
+      ["todo", "later", "done"],
+    ], // open work before settled, whatever the points or the hazard
+    [
+      [{ ...d("s1", 20), settled: true }, { ...d("s2", 40), settled: true }, d("o", 1)],
+      ["o", "s2", "s1"],
+    ], // settled ones keep the usual order among themselves
+    [
+      [{ ...d("done", 90, undefined, { direction: "above", relativeTo: "o" }), settled: true }, d("o", 1), d("p", 5)],
+      ["p", "done", "o"],
+    ], // a pin still places a settled defect next to its target
   ])("orders %j as %j", (items, ids) => {
     expect(rankDefects(items).map((i) => i.id)).toEqual(ids);
   });
@@ -178,6 +190,7 @@ describe("PRIORITY_FORMULA_TEXT", () => {
       "log₂(1 + hours)",
       "at most 30",
       "8 hours",
+      "closed, deferred or accepted as is",
     ]) {
       expect(PRIORITY_FORMULA_TEXT).toContain(fragment);
     }

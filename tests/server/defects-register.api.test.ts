@@ -2,15 +2,17 @@ import { mkdtemp, readdir, rm } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import Papa from "papaparse";
-import { sql } from "kysely";
+import { CompiledQuery, sql } from "kysely";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { ACTIVE_STATUSES } from "../../src/domain/defect-workflow";
 import { priorityScore, rankDefects } from "../../src/domain/priority";
-import { DEFECT_CATEGORIES, DEFECT_SEVERITIES, DEFECT_STATUSES } from "../../src/domain/vocab";
+import { DEFECT_CATEGORIES, DEFECT_SEVERITIES, DEFECT_STATUSES, type DefectStatus } from "../../src/domain/vocab";
 import { createTestDb, type TestDb } from "../helpers/db";
 import { makeCrew } from "../helpers/fixtures";
 import { startTestServer, type Client, type TestServer } from "../helpers/http";
 import { makeBoard } from "./defects-fixtures";
 import { writeDefectsCsv } from "../../server/defects/csv";
+import { registerArgs, registerPageStatement } from "../../server/defects/list-repository";
 import { createDb, poolOf } from "../../server/db";
 import { dbFailureOf } from "../../server/db-errors";
 import { exportSpoolFiles } from "../../server/export-stream";
@@ -152,9 +154,11 @@ describe("server-side sorting, each checked against direct SQL", () => {
   it("sort=priority desc is the order of rankDefects() from src/domain/priority.ts, pins included", async () => {
     const all = await t.db
       .selectFrom("defects")
-      .select(["id", "priorityScore", "safetyCritical", "createdAt"])
+      .select(["id", "priorityScore", "safetyCritical", "createdAt", "status"])
       .where("siteId", "=", fx.siteId)
       .execute();
+    // Open work and settled defects both (the fixture cycles through five statuses, "closed" among them).
+    expect(new Set(all.map((d) => ACTIVE_STATUSES.includes(d.status as DefectStatus)))).toEqual(new Set([true, false]));
     const byScore = [...all].sort((a, b) => b.priorityScore - a.priorityScore || +a.createdAt - +b.createdAt);
     const pins = [
       { defectId: byScore[40].id, direction: "above" as const, relativeTo: byScore[2].id },
@@ -176,6 +180,7 @@ describe("server-side sorting, each checked against direct SQL", () => {
         id: d.id,
         score: d.priorityScore,
         safetyCritical: d.safetyCritical,
+        settled: !ACTIVE_STATUSES.includes(d.status as DefectStatus),
         createdAt: d.createdAt.toISOString(),
         pin: pinOf.get(d.id) ?? null,
       })),
@@ -212,6 +217,41 @@ describe("server-side sorting, each checked against direct SQL", () => {
       byScore[40].priorityScore,
     );
   });
+});
+
+describe("the ranked page is read from its index in order", () => {
+  type PlanNode = { "Node Type": string; "Index Name"?: string; Plans?: PlanNode[] };
+  /** Each scan of `index` with the nodes above it, innermost first. */
+  const scansOf = (n: PlanNode, index: string, above: PlanNode[] = []): PlanNode[][] => [
+    ...(n["Index Name"] === index ? [above] : []),
+    ...(n.Plans ?? []).flatMap((c) => scansOf(c, index, [n, ...above])),
+  ];
+
+  // PostgreSQL uses an expression index only when the query's expression is the index's: the ranked order's
+  // "settled" key (server/defects/list-repository.ts) and the index of migration 2026_12_14_0100 must say the same.
+  // Sorting is switched off for the plan, so a page that the index cannot return in order shows a Sort above it.
+  it.each(["desc", "asc"])(
+    "the default view, %s: a scan of defects_site_open_rank_idx under a LIMIT, no sort",
+    async (dir) => {
+      const a = registerArgs(fx.siteId, listQuery.parse({ sort: "priority", dir }), "2027-02-01");
+      const c = registerPageStatement.compile(t.db, a.shape, a.values);
+      const plan = await t.db.transaction().execute(async (tx) => {
+        await sql`SET LOCAL enable_sort = off`.execute(tx);
+        await sql`SET LOCAL enable_seqscan = off`.execute(tx);
+        const r = await tx.executeQuery<{ "QUERY PLAN": Array<{ Plan: PlanNode }> }>(
+          CompiledQuery.raw(`EXPLAIN (FORMAT JSON) ${c.sql}`, [...c.parameters]),
+        );
+        return r.rows[0]["QUERY PLAN"][0].Plan;
+      });
+      const scans = scansOf(plan, "defects_site_open_rank_idx");
+      expect(scans.length, JSON.stringify(plan)).toBeGreaterThan(0);
+      for (const above of scans) {
+        const limit = above.findIndex((n) => n["Node Type"] === "Limit");
+        expect(limit, JSON.stringify(plan)).toBeGreaterThanOrEqual(0);
+        expect(above.slice(0, limit).map((n) => n["Node Type"])).not.toContain("Sort");
+      }
+    },
+  );
 });
 
 describe("filtering, each checked against direct SQL", () => {

@@ -14,7 +14,7 @@ export default function RegisterPage() {
         <div>
           <h1 className="text-2xl font-bold">Defect register</h1>
           <p className="text-mist">
-            Everything found wrong on {site.name}'s boards, highest priority first.{" "}
+            Everything found wrong on {site.name}'s boards: open work first, highest priority first.{" "}
             <Link className="underline" to={paths.priorityHelp.href(site.id)}>
               How priority works
             </Link>
