@@ -141,6 +141,10 @@ test.describe("on a 360 px phone", () => {
     await expect(close).toBeEnabled();
     await close.click();
     await expect(head).toContainText("Closed");
+    // Settled, it ranks after all open work whatever its points (src/domain/priority.ts).
+    await expect(page.getByRole("region", { name: "Why it ranks here" })).toContainText(
+      "— closed, so after all open work.",
+    );
     await expect(fact(page, "Verified by")).toHaveText("Ines Marrow");
     await expect(page.getByTestId("repairer-note")).toHaveCount(0);
     expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(360);
