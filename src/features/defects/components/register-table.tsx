@@ -1,11 +1,8 @@
-import { Fragment, useEffect, useMemo, useRef, useState, type KeyboardEvent } from "react";
+import { useEffect, useMemo, useRef, useState, type KeyboardEvent } from "react";
 import { functionalUpdate, useTable, type RowSelectionState, type Updater } from "@tanstack/react-table";
 import { SORT_KEYS, type DefectRow, type SortKey } from "../../../schemas/defects";
-import { RowGap } from "../../../components/row-gap";
 import { SortSelects } from "../../../components/sort-selects";
 import { rowsAwaited, useFirstScreenful } from "../../../lib/use-first-screenful";
-import { usePrinting } from "../../../lib/use-printing";
-import { useRowWindow } from "../../../lib/use-row-window";
 import type { RegisterState } from "../url-state";
 import { COLUMN_LABELS, COLUMN_MIN_WIDTH, DEFAULT_ORDER, makeColumns, registerFeatures } from "./defect-columns";
 
@@ -81,19 +78,10 @@ export function RegisterTable(props: RegisterRowsProps) {
   const { table, shown } = useRegisterRows(props);
   const rowModel = table.getRowModel().rows;
   const boxRef = useRef<HTMLDivElement>(null);
-  // Only the rows in the box's view are drawn (their layout and paint were the page's longest tasks on a phone);
-  // every row when printed.
-  const win = useRowWindow({
-    count: rowModel.length,
-    rowHeight: ROW,
-    headHeight: HEAD,
-    boxHeight: () => (typeof window === "undefined" ? 0 : window.innerHeight * 0.7),
-    boxRef,
-    whole: usePrinting(),
-  });
-  // The row the keyboard moves to; focused once drawn (it may need a scroll and a render first).
+  // Every row of the page is drawn (at most 200; the first screenful first, useFirstScreenful), so the browser's find,
+  // a screen reader and a selection see the whole page. The table is shown from 768 px wide; a phone draws cards.
+  // The row the keyboard moves to; focused once drawn (past the first screenful it may be a render away).
   const [focusTo, setFocusTo] = useState<number | null>(null);
-  const drawnKey = win.slots.map((s) => s.item.index).join(",");
   useEffect(() => {
     if (focusTo == null) return;
     const link = boxRef.current?.querySelector<HTMLAnchorElement>(`tr[data-index="${focusTo}"] a[data-row-link]`);
@@ -101,9 +89,8 @@ export function RegisterTable(props: RegisterRowsProps) {
       link.focus();
       setFocusTo(null);
     }
-  }, [focusTo, drawnKey]);
+  }, [focusTo, rowModel.length]);
   const firstIndex = state.page * state.size + 2; // aria-rowindex of the first row: the heading row is 1
-  const cols = table.getVisibleLeafColumns().length;
 
   /** Arrow keys move between rows (focus on each row's reference link); Home/End jump; x selects. */
   const onGridKey = (e: KeyboardEvent<HTMLTableSectionElement>) => {
@@ -119,8 +106,6 @@ export function RegisterTable(props: RegisterRowsProps) {
     const to = rowFor(e.key, at, rowModel.length);
     if (to == null) return;
     e.preventDefault();
-    win.keep(to);
-    win.scrollTo(to);
     setFocusTo(to);
   };
 
@@ -165,40 +150,27 @@ export function RegisterTable(props: RegisterRowsProps) {
             </tr>
           ))}
         </thead>
-        <tbody
-          onKeyDown={onGridKey}
-          onFocus={(e) => {
-            const tr = (e.target as HTMLElement).closest<HTMLTableRowElement>("tr[data-index]");
-            if (tr) win.keep(Number(tr.dataset.index));
-          }}
-        >
-          {win.slots.map(({ gap, item }) => {
-            const row = rowModel[item.index];
-            return (
-              <Fragment key={row.id}>
-                {gap > 0 && <RowGap height={gap} cols={cols} />}
-                <tr
-                  ref={win.measure}
-                  data-index={item.index}
-                  aria-rowindex={firstIndex + item.index}
-                  className={`border-b border-hull-700 ${row.getIsSelected() ? "bg-brass-700/25" : item.index % 2 ? "bg-hull-850" : "bg-hull-900"} focus-within:outline focus-within:outline-2 focus-within:outline-brass-400`}
-                >
-                  {row.getVisibleCells().map((cell) => (
-                    <td key={cell.id} className="px-2 py-2 align-top">
-                      {COLUMN_MIN_WIDTH[cell.column.id] ? (
-                        <div className={COLUMN_MIN_WIDTH[cell.column.id]}>
-                          <table.FlexRender cell={cell} />
-                        </div>
-                      ) : (
-                        <table.FlexRender cell={cell} />
-                      )}
-                    </td>
-                  ))}
-                </tr>
-              </Fragment>
-            );
-          })}
-          {win.after > 0 && <RowGap height={win.after} cols={cols} />}
+        <tbody onKeyDown={onGridKey}>
+          {rowModel.map((row, index) => (
+            <tr
+              key={row.id}
+              data-index={index}
+              aria-rowindex={firstIndex + index}
+              className={`scroll-mt-16 border-b border-hull-700 ${row.getIsSelected() ? "bg-brass-700/25" : index % 2 ? "bg-hull-850" : "bg-hull-900"} focus-within:outline focus-within:outline-2 focus-within:outline-brass-400`}
+            >
+              {row.getVisibleCells().map((cell) => (
+                <td key={cell.id} className="px-2 py-2 align-top">
+                  {COLUMN_MIN_WIDTH[cell.column.id] ? (
+                    <div className={COLUMN_MIN_WIDTH[cell.column.id]}>
+                      <table.FlexRender cell={cell} />
+                    </div>
+                  ) : (
+                    <table.FlexRender cell={cell} />
+                  )}
+                </td>
+              ))}
+            </tr>
+          ))}
         </tbody>
       </table>
     </div>
