@@ -86,7 +86,9 @@ export function RegisterTable(props: RegisterRowsProps) {
     if (focusTo == null) return;
     const link = boxRef.current?.querySelector<HTMLAnchorElement>(`tr[data-index="${focusTo}"] a[data-row-link]`);
     if (link) {
-      link.focus();
+      // The whole row in view (the link alone would leave the row cut at the box's edge), below the sticky heading.
+      link.focus({ preventScroll: true });
+      link.closest("tr")?.scrollIntoView({ block: "nearest" });
       setFocusTo(null);
     }
   }, [focusTo, rowModel.length]);
