@@ -76,14 +76,20 @@ export function pgBin(): string {
  */
 export const POSTGRES_MALLOC_TUNABLES = `glibc.malloc.mmap_threshold=${16 * 1024 * 1024}:glibc.malloc.trim_threshold=${32 * 1024 * 1024}`;
 
+/**
+ * GLIBC_TUNABLES for the cluster: ours first, then any the environment already sets, so a value the person running
+ * Tideline chose for the same tunable wins (glibc applies the pairs in order; from memory).
+ */
+export const clusterTunables = (given: string | undefined) =>
+  [POSTGRES_MALLOC_TUNABLES, given].filter(Boolean).join(":");
+
 function asPostgres(cmd: string, args: string[], quiet = false) {
   const [file, argv] = isRoot ? ["runuser", ["-u", "postgres", "--", cmd, ...args]] : [cmd, args];
-  const tunables = [process.env.GLIBC_TUNABLES, POSTGRES_MALLOC_TUNABLES].filter(Boolean).join(":");
   return spawnSync(file, argv, {
     cwd: "/",
     encoding: "utf8",
     stdio: quiet ? "pipe" : ["ignore", "pipe", "pipe"],
-    env: { ...process.env, GLIBC_TUNABLES: tunables },
+    env: { ...process.env, GLIBC_TUNABLES: clusterTunables(process.env.GLIBC_TUNABLES) },
   });
 }
 

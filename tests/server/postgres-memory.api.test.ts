@@ -11,7 +11,7 @@
 import { readFileSync } from "node:fs";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import pg from "pg";
-import { POSTGRES_MALLOC_TUNABLES } from "../../db/pg";
+import { clusterTunables, POSTGRES_MALLOC_TUNABLES } from "../../db/pg";
 import { createTestDb, type TestDb } from "../helpers/db";
 
 let t: TestDb;
@@ -41,6 +41,11 @@ describe("the embedded PostgreSQL's memory between statements", () => {
       .map((e) => e.replace(/^GLIBC_TUNABLES=/, ""))
       .filter((e) => e.startsWith("glibc."));
     for (const pair of POSTGRES_MALLOC_TUNABLES.split(":")) expect(env).toContain(pair);
+  });
+
+  it("leaves a tunable the environment already sets to that setting (it comes after, and glibc applies them in order)", () => {
+    expect(clusterTunables(undefined)).toBe(POSTGRES_MALLOC_TUNABLES);
+    expect(clusterTunables("glibc.malloc.trim_threshold=0").split(":").at(-1)).toBe("glibc.malloc.trim_threshold=0");
   });
 
   it("does not take a repeated statement's memory from the kernel again each time", async () => {
