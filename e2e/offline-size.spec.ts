@@ -3,7 +3,7 @@ import { mkdirSync, readFileSync, statSync, writeFileSync } from "node:fs";
 import { join } from "node:path";
 import { gzipSync } from "node:zlib";
 import { DEMO_PASSWORD, signIn } from "./support/auth";
-import { expectPageKept, keptQueryKeys } from "./support/offline";
+import { expectPageKept, keptQueryKeys, untilControlled } from "./support/offline";
 
 /**
  * What the field app stores on a phone, measured, not estimated.
@@ -178,7 +178,7 @@ test.describe("what the phone keeps, on a 360 px phone", () => {
     await page.goto(`/sites/${siteId}/readings/boards/${boardId}`);
     await expect(page.getByRole("form", { name: "Record an insulation-resistance reading" })).toBeVisible();
     await expectPageKept(page);
-    await expect.poll(() => page.evaluate(() => !!navigator.serviceWorker.controller), { timeout: 30_000 }).toBe(true);
+    await untilControlled(page);
 
     const kept = await keptEntry(page);
     const manifest = precacheManifest();

@@ -2,7 +2,7 @@ import { expect, request, test, type APIRequestContext, type BrowserContext, typ
 import sharp from "sharp";
 import { expectNoSeriousA11yViolations } from "./support/a11y";
 import { DEMO_PASSWORD, signIn } from "./support/auth";
-import { expectKept } from "./support/offline";
+import { expectKept, untilControlled } from "./support/offline";
 
 /**
  * The field app with no signal. The browser context is set offline (Playwright's
@@ -43,10 +43,7 @@ async function visitOnline(page: Page, m: Awaited<ReturnType<typeof makeBreaker>
   await expectKept(page, ["inventory", m.siteId, "board", m.boardId]);
   await page.goto(`/sites/${m.siteId}/log?position=${m.positionId}`);
   await expect(page.getByTestId("log-designation")).toHaveText(m.designation);
-  await page.evaluate(() => navigator.serviceWorker.ready.then(() => undefined));
-  // The first visit is served before the worker exists; once it is active it claims the page.
-  if (!(await page.evaluate(() => !!navigator.serviceWorker.controller))) await page.reload();
-  await expect.poll(() => page.evaluate(() => !!navigator.serviceWorker.controller), { timeout: 15_000 }).toBe(true);
+  await untilControlled(page);
   // The move tab's choices are read after that reload: read before it, they could be lost with it (the kept reads
   // are written at most once a second), and offline the tab then had no moves to offer.
   await expect(page.getByTestId("log-designation")).toHaveText(m.designation);

@@ -86,3 +86,15 @@ export async function expectKept(page: Page, ...prefixes: unknown[][]) {
     )
     .toEqual([]);
 }
+
+/**
+ * Waits until the service worker controls the page. The first visit is served before the worker exists; once it is
+ * active it claims the page (clientsClaim), but its install precaches the whole app first, which on a busy machine
+ * can take longer than a poll's patience: wait for an active worker with the test's own timeout, then reload if it
+ * has still not claimed the page.
+ */
+export async function untilControlled(page: Page) {
+  await page.evaluate(() => navigator.serviceWorker.ready.then(() => undefined));
+  if (!(await page.evaluate(() => !!navigator.serviceWorker.controller))) await page.reload();
+  await expect.poll(() => page.evaluate(() => !!navigator.serviceWorker.controller), { timeout: 15_000 }).toBe(true);
+}
