@@ -11,6 +11,7 @@ import {
 import type { z } from "zod";
 import { api, qs } from "../../lib/api-client";
 import { submitOrQueue, type Submitted } from "../../lib/outbox";
+import { whenIdle } from "../../lib/when-idle";
 import {
   applyInventoryChange,
   fetchBoardPage,
@@ -107,15 +108,6 @@ export function boardOfPages(d: InfiniteData<BoardPage, string | null>): BoardRe
   return read;
 }
 
-/** When the page is idle (after the first page has been drawn), or at once where the browser cannot say. */
-const whenIdle = (fn: () => void) => {
-  if (typeof requestIdleCallback === "function") {
-    const id = requestIdleCallback(fn, { timeout: 500 });
-    return () => cancelIdleCallback(id);
-  }
-  const id = setTimeout(fn, 0);
-  return () => clearTimeout(id);
-};
 export const positionQueryOptions = (siteId: string, positionId: string) =>
   queryOptions({
     queryKey: inventoryKeys.position(siteId, positionId),

@@ -1,4 +1,4 @@
-import { useCallback, useMemo, useState } from "react";
+import { lazy, Suspense, useCallback, useEffect, useMemo, useState } from "react";
 import { Link, useParams, useSearchParams } from "react-router";
 import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
@@ -12,14 +12,27 @@ import {
   tileMatches,
   type TileFilters,
 } from "../../../features/inventory/components/elevation-filters";
-import { PositionPanel } from "../../../features/inventory/components/position-panel";
 import { TileLegend } from "../../../features/inventory/components/tile-legend";
 import { defectHref } from "../../../features/inventory/defect-link";
 import { can } from "../../../domain/permissions";
-import { PanelOperations } from "../../../features/return-to-service/components/breaker-operations";
-import { PositionPhotos } from "../../../features/photos/components/position-photos";
-import { LatestGroundCheck } from "../../../features/readings/components/latest-ground-check";
+import { whenIdle } from "../../../lib/when-idle";
 import { useSiteContext } from "../sites/site-layout";
+
+/*
+ * What the board page shows only once a tile is opened (the position's panel, its photos, its breaker operations) and
+ * the ground-lamp card below the board come in chunks of their own, asked for when first drawn and, once the board is
+ * on screen, at idle time. Imported with the page, their modules (forms, the photo viewer, the readings' and return
+ * to service's schemas) were downloaded and evaluated before the board's first tile could be drawn: on a phone at
+ * 4 × CPU slowdown about a third of a second of script and some fifteen requests of a cold load.
+ */
+const loadPanel = () => import("../../../features/inventory/components/position-panel");
+const loadPhotos = () => import("../../../features/photos/components/position-photos");
+const loadOperations = () => import("../../../features/return-to-service/components/breaker-operations");
+const loadGroundCheck = () => import("../../../features/readings/components/latest-ground-check");
+const PositionPanel = lazy(() => loadPanel().then((m) => ({ default: m.PositionPanel })));
+const PositionPhotos = lazy(() => loadPhotos().then((m) => ({ default: m.PositionPhotos })));
+const PanelOperations = lazy(() => loadOperations().then((m) => ({ default: m.PanelOperations })));
+const LatestGroundCheck = lazy(() => loadGroundCheck().then((m) => ({ default: m.LatestGroundCheck })));
 
 export default function BoardElevationPage() {
   const { site, role } = useSiteContext();
@@ -52,6 +65,16 @@ export default function BoardElevationPage() {
     () => onScreen.positions.filter((t) => tileMatches(t, filters)).length,
     [onScreen.positions, filters],
   );
+  const drawn = !!q.data;
+  useEffect(() => {
+    if (!drawn) return;
+    return whenIdle(() => {
+      void loadGroundCheck();
+      void loadPanel();
+      void loadPhotos();
+      void loadOperations();
+    }, 2000);
+  }, [drawn]);
   if (q.isPending) return <Loading what="Drawing the board" />;
   if (q.isLoadingError || serverRefused(q.error)) return <ErrorPanel error={q.error} />;
   const { board, total, complete } = q.data;
@@ -119,7 +142,9 @@ export default function BoardElevationPage() {
       )}
       <TileLegend />
       <div className="grid gap-4 md:grid-cols-[1fr_auto] md:items-start">
-        <LatestGroundCheck siteId={site.id} boardId={board.id} />
+        <Suspense fallback={<Loading what="Reading the ground lamps" />}>
+          <LatestGroundCheck siteId={site.id} boardId={board.id} />
+        </Suspense>
         <nav aria-label="More about this board" className="flex flex-col gap-2 text-sm">
           <Link
             className="inline-flex min-h-11 items-center rounded-md px-4 ring-1 ring-hull-600"
@@ -142,24 +167,35 @@ export default function BoardElevationPage() {
         </nav>
       </div>
       {selected && (
-        <PositionPanel
-          siteId={site.id}
-          positionId={selected}
-          canDecide={can(role, "inventory.curate")}
-          onClose={close}
-          photos={<PositionPhotos siteId={site.id} positionId={selected} />}
-          extra={<PanelOperations siteId={site.id} boardId={board.id} positionId={selected} role={role} />}
-          links={{
-            readings: (componentId) => paths.readingsComponent.href(site.id, componentId),
-            quickLog: can(role, "inventory.log") ? paths.quickLog.href(site.id, selected) : undefined,
-            setup: can(role, "inventory.curate") ? paths.boardSetup.href(site.id, board.id, selected) : undefined,
-            defect: can(role, "defects.raise")
-              ? (latest) =>
-                  defectHref(site.id, { positionId: selected, componentId: tile?.component?.id, inspection: latest })
-              : undefined,
-          }}
-        />
+        <Suspense fallback={<PanelOpening />}>
+          <PositionPanel
+            siteId={site.id}
+            positionId={selected}
+            canDecide={can(role, "inventory.curate")}
+            onClose={close}
+            photos={<PositionPhotos siteId={site.id} positionId={selected} />}
+            extra={<PanelOperations siteId={site.id} boardId={board.id} positionId={selected} role={role} />}
+            links={{
+              readings: (componentId) => paths.readingsComponent.href(site.id, componentId),
+              quickLog: can(role, "inventory.log") ? paths.quickLog.href(site.id, selected) : undefined,
+              setup: can(role, "inventory.curate") ? paths.boardSetup.href(site.id, board.id, selected) : undefined,
+              defect: can(role, "defects.raise")
+                ? (latest) =>
+                    defectHref(site.id, { positionId: selected, componentId: tile?.component?.id, inspection: latest })
+                : undefined,
+            }}
+          />
+        </Suspense>
       )}
+    </div>
+  );
+}
+
+/** The position panel's place while its code arrives (the panel is a full-height drawer on a phone). */
+function PanelOpening() {
+  return (
+    <div className="fixed inset-0 z-40 bg-hull-900 p-4 ring-1 ring-hull-600 md:inset-y-0 md:left-auto md:right-0 md:w-[28rem]">
+      <Loading what="Opening the position" />
     </div>
   );
 }
