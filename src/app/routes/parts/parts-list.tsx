@@ -1,23 +1,43 @@
+import { lazy, Suspense, useEffect } from "react";
 import { Link } from "react-router";
 import { EmptyState, ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { csvUrl, usePartsList } from "../../../features/parts/api";
 import { BudgetPanel } from "../../../features/parts/components/budget-panel";
-import { NewLineForm } from "../../../features/parts/components/new-line-form";
 import { PartsFilters } from "../../../features/parts/components/parts-filters";
 import { PartsPager } from "../../../features/parts/components/parts-pager";
 import { PartsTable } from "../../../features/parts/components/parts-table";
-import { ShareLinksPanel } from "../../../features/parts/components/share-links-panel";
 import { useFilterParams } from "../../../features/parts/use-filter-params";
-import { CurrencyForm } from "../../../features/sites/components/currency-form";
 import { useSiteContext } from "../sites/site-layout";
 import { can } from "../../../domain/permissions";
+import { whenIdle } from "../../../lib/when-idle";
+
+/*
+ * The forms below the list (a line added by hand, the site's currency, the share links) come in chunks of their own,
+ * asked for when first drawn and at idle time once the list is on screen, so the list's first paint on a phone does
+ * not wait for their code (the form helpers, the currency codes, the share links' reads).
+ */
+const loadNewLine = () => import("../../../features/parts/components/new-line-form");
+const loadCurrency = () => import("../../../features/sites/components/currency-form");
+const loadShareLinks = () => import("../../../features/parts/components/share-links-panel");
+const NewLineForm = lazy(() => loadNewLine().then((m) => ({ default: m.NewLineForm })));
+const CurrencyForm = lazy(() => loadCurrency().then((m) => ({ default: m.CurrencyForm })));
+const ShareLinksPanel = lazy(() => loadShareLinks().then((m) => ({ default: m.ShareLinksPanel })));
 
 export default function PartsListPage() {
   const { site, role } = useSiteContext();
   const [filter, setFilter, search] = useFilterParams();
   const list = usePartsList(site.id, filter);
   const canEdit = can(role, "parts.edit");
+  const listed = !!list.data;
+  useEffect(() => {
+    if (!listed) return;
+    return whenIdle(() => {
+      void loadNewLine();
+      void loadCurrency();
+      void loadShareLinks();
+    }, 2000);
+  }, [listed]);
   return (
     <div className="space-y-5">
       <header className="flex flex-wrap items-end justify-between gap-3">
@@ -77,13 +97,25 @@ export default function PartsListPage() {
           screen when the rows arrive (a layout shift on the phone). */}
       {list.data && (
         <>
-          {canEdit && <NewLineForm siteId={site.id} />}
+          {canEdit && (
+            <Suspense fallback={<Loading what="Opening the form for a new line" />}>
+              <NewLineForm siteId={site.id} />
+            </Suspense>
+          )}
           <div className="grid gap-4 lg:grid-cols-2">
             <BudgetPanel
               budget={list.data.budget}
-              settings={<CurrencyForm siteId={site.id} currency={site.currency} canEdit={can(role, "site.settings")} />}
+              settings={
+                <Suspense fallback={null}>
+                  <CurrencyForm siteId={site.id} currency={site.currency} canEdit={can(role, "site.settings")} />
+                </Suspense>
+              }
             />
-            {canEdit && <ShareLinksPanel siteId={site.id} canRevoke={can(role, "parts.revoke_share")} />}
+            {canEdit && (
+              <Suspense fallback={<Loading what="Reading the share links" />}>
+                <ShareLinksPanel siteId={site.id} canRevoke={can(role, "parts.revoke_share")} />
+              </Suspense>
+            )}
           </div>
         </>
       )}
