@@ -1,4 +1,6 @@
 import { expect, test } from "@playwright/test";
+import { readFileSync, statSync } from "node:fs";
+import { join } from "node:path";
 import { signIn } from "./support/auth";
 
 // The built client under the server's Content-Security-Policy (helmet): no inline-script
@@ -47,4 +49,22 @@ test("too many wrong passwords: the sign-in form says plainly how long to wait",
   await expect(page.getByRole("alert")).toContainText(
     /Too many failed sign-ins for this account\. Try again in \d+ minutes?\./,
   );
+});
+
+// The build writes each script and style beside itself compressed (vite.config.ts); the server sends those bytes.
+test("the built client's scripts and styles travel as the build compressed them", async ({ request }) => {
+  const html = await (await request.get("/")).text();
+  const assets = [...html.matchAll(/(?:src|href)="(\/assets\/[^"]+\.(?:js|css))"/g)].map((m) => m[1]);
+  expect(assets.length).toBeGreaterThan(1);
+  // Files under 1 KiB are left as they are (the build's threshold, and the server's for compressing an answer).
+  const compressed = assets.filter((path) => statSync(join("dist/client", path)).size >= 1024);
+  expect(compressed.some((path) => /\/index-[^/]+\.js$/.test(path))).toBe(true);
+  for (const path of compressed) {
+    const onDisk = readFileSync(join("dist/client", `${path}.br`));
+    const r = await request.get(path, { headers: { "accept-encoding": "br" } });
+    expect(r.status()).toBe(200);
+    expect(r.headers()["content-encoding"]).toBe("br");
+    expect(Number(r.headers()["content-length"])).toBe(onDisk.length);
+    expect(r.headers()["cache-control"]).toBe("public, max-age=31536000, immutable");
+  }
 });
