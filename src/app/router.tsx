@@ -114,13 +114,23 @@ export const routes: RouteObject[] = [
           {
             path: "boards/:boardId",
             ...page(() => import("./routes/boards/board-elevation")),
-            // The board's head and first page (the rest follow in the page, at idle time).
+            // The board's head and first page (the rest follow in the page, at idle time), and its latest
+            // ground-lamp check, whose card below the board comes in a chunk of its own: read with the board, so it
+            // is kept for no signal with it.
             loader: prefetch((a) =>
-              import("../features/inventory/api").then((m) =>
-                queryClient.prefetchInfiniteQuery(m.boardQueryOptions(site(a), a.params.boardId as string)),
-              ),
+              Promise.all([
+                import("../features/inventory/api").then((m) =>
+                  queryClient.prefetchInfiniteQuery(m.boardQueryOptions(site(a), a.params.boardId as string)),
+                ),
+                import("../features/readings/latest-ground-check").then((m) =>
+                  queryClient.prefetchQuery(m.latestGroundQueryOptions(site(a), a.params.boardId as string)),
+                ),
+              ]),
             ),
-            ...reads((p) => [`/api/sites/${p.siteId}/boards/${p.boardId}`]),
+            ...reads((p) => [
+              `/api/sites/${p.siteId}/boards/${p.boardId}`,
+              `/api/sites/${p.siteId}/boards/${p.boardId}/ground-checks/latest`,
+            ]),
           },
           { path: "boards/:boardId/setup", ...page(() => import("./routes/boards/board-setup")) },
           { path: "log", ...page(() => import("./routes/boards/quick-log")) },

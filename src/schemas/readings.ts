@@ -6,7 +6,16 @@
  */
 import { z } from "zod";
 import { text as safeText, int, isoDateTime } from "./common";
-import { CORRECTION_METHODS, VERDICTS } from "../domain/reading-judgement";
+import {
+  groundCheckSchema,
+  LAMP_LOOKS,
+  PHASE_KEYS,
+  phases,
+  readingBase as base,
+  sourceSchema,
+  verdict,
+} from "./ground-check";
+import { CORRECTION_METHODS } from "../domain/reading-judgement";
 import { READING_QUALIFIERS, THERMAL_CLASSES } from "../domain/insulation";
 import { TRIP_UNITS } from "../domain/trip-test";
 import { CONDUCTORS, TRIP_TESTS } from "../domain/vocab";
@@ -20,8 +29,8 @@ export {
   TRIP_TEST_LABELS,
   type Conductors,
 } from "../domain/vocab";
-export const LAMP_LOOKS = ["bright", "dim", "dark"] as const;
-export const PHASE_KEYS = ["A", "B", "C"] as const;
+export { LAMP_LOOKS, PHASE_KEYS, sourceSchema, groundCheckSchema } from "./ground-check";
+export type { CriterionSourceDto, GroundCheck } from "./ground-check";
 export const INSULATION_MEDIA = ["solid", "oil"] as const;
 
 const num = (label: string, min: number, max: number, unit: string) =>
@@ -155,7 +164,6 @@ export const thermalScanBody = z
   });
 export type ThermalScanBody = z.input<typeof thermalScanBody>;
 
-const phases = <T extends z.ZodType>(s: T) => z.object({ A: s, B: s, C: s });
 export const groundCheckBody = z
   .object({
     energisation: text(200),
@@ -205,20 +213,7 @@ export const overrideBody = z
 export type OverrideBody = z.input<typeof overrideBody>;
 
 // ---- Responses ---------------------------------------------------------------------------
-export const sourceSchema = z.object({ table: safeText(), text: safeText() });
 const ratioBound = z.enum(["exact", "at_least", "at_most", "not_computable"]);
-export type CriterionSourceDto = z.infer<typeof sourceSchema>;
-const verdict = z.enum(VERDICTS);
-const base = {
-  id: safeText(),
-  boardId: safeText(),
-  componentId: safeText().nullable(),
-  designation: safeText().nullable(),
-  measuredAt: safeText(),
-  instrument: safeText(),
-  notes: safeText(),
-  recordedBy: safeText().nullable(),
-};
 
 export const insulationReadingSchema = z.object({
   ...base,
@@ -300,32 +295,6 @@ export const thermalScanSchema = z.object({
   }),
 });
 export type ThermalScan = z.infer<typeof thermalScanSchema>;
-
-export const groundCheckSchema = z.object({
-  ...base,
-  energisation: safeText(),
-  lineVolts: z.number(),
-  lamps: phases(z.enum(LAMP_LOOKS)).nullable(),
-  volts: phases(z.number()).nullable(),
-  branchOhms: z.number().nullable(),
-  capacitanceMicroF: z.number().nullable(),
-  judgement: z.object({
-    phase: z.enum(PHASE_KEYS).nullable(),
-    faultOhms: z.number().nullable(),
-    faultRange: z
-      .object({
-        lowOhms: z.number().nullable(),
-        centralOhms: z.number().nullable(),
-        highOhms: z.number().nullable(),
-        capacitanceNeglected: z.boolean(),
-      })
-      .nullable(),
-    words: safeText(),
-    verdict,
-    source: sourceSchema,
-  }),
-});
-export type GroundCheck = z.infer<typeof groundCheckSchema>;
 
 export const criteriaSchema = z.object({
   correctionMethod: z.enum(CORRECTION_METHODS),

@@ -8,6 +8,7 @@ import { partsListQueryOptions } from "../../src/features/parts/api";
 import { listQuery as partsQuery } from "../../src/schemas/parts";
 import { boardQueryOptions, boardsQueryOptions, overviewQueryOptions } from "../../src/features/inventory/api";
 import { siteQueryOptions } from "../../src/features/sites/api";
+import { latestGroundQueryOptions } from "../../src/features/readings/latest-ground-check";
 import { api } from "../../src/lib/api-client";
 import { startRead } from "../../src/lib/early-reads";
 
@@ -36,6 +37,7 @@ describe("reads started at page start (src/lib/early-reads.ts, src/app/router.ts
       "/api/session",
       `/api/sites/${S}`,
       `/api/sites/${S}/boards/${B}`,
+      `/api/sites/${S}/boards/${B}/ground-checks/latest`,
     ]);
     expect(earlyReads(`/sites/${S}`)).toEqual(["/api/session", `/api/sites/${S}`, `/api/sites/${S}/overview`]);
     expect(earlyReads("/sign-in")).toEqual([]);
@@ -59,7 +61,10 @@ describe("reads started at page start (src/lib/early-reads.ts, src/app/router.ts
     expect(await urlsOf(siteQueryOptions(S).queryFn)).toEqual(earlyReads(`/sites/${S}/members`).slice(1));
     expect(await urlsOf(overviewQueryOptions(S).queryFn)).toEqual(earlyReads(`/sites/${S}`).slice(2));
     expect(await urlsOf(boardsQueryOptions(S).queryFn)).toEqual(earlyReads(`/sites/${S}/boards`).slice(2));
-    expect(await urlsOf(boardQueryOptions(S, B).queryFn)).toEqual(earlyReads(`/sites/${S}/boards/${B}`).slice(2));
+    expect([
+      ...(await urlsOf(boardQueryOptions(S, B).queryFn)),
+      ...(await urlsOf(latestGroundQueryOptions(S, B).queryFn)),
+    ]).toEqual(earlyReads(`/sites/${S}/boards/${B}`).slice(2));
     // The register and the wanted list as their pages ask with an address of no query (url-state.ts, the parts
     // list's useFilterParams): the same URLs, in the same order.
     const register = apiQuery(readState(new URLSearchParams()), localToday());

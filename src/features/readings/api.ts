@@ -2,6 +2,7 @@ import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/r
 import { z } from "zod";
 import { api } from "../../lib/api-client";
 import { submitOrQueue } from "../../lib/outbox";
+import { readingKeys } from "./keys";
 import {
   boardReadingsSchema,
   componentReadingsSchema,
@@ -25,15 +26,6 @@ import {
   type OverrideBody,
   type ThermalScanBody,
 } from "../../schemas/readings";
-
-export const readingKeys = {
-  all: (siteId: string) => ["readings", siteId] as const,
-  targets: (siteId: string) => [...readingKeys.all(siteId), "targets"] as const,
-  criteria: (siteId: string) => [...readingKeys.all(siteId), "criteria"] as const,
-  board: (siteId: string, boardId: string) => [...readingKeys.all(siteId), "board", boardId] as const,
-  component: (siteId: string, componentId: string) => [...readingKeys.all(siteId), "component", componentId] as const,
-  latestGround: (siteId: string, boardId: string) => [...readingKeys.all(siteId), "latest-ground", boardId] as const,
-};
 
 const site = (siteId: string) => `/api/sites/${siteId}`;
 
@@ -62,18 +54,6 @@ export const componentReadingsQueryOptions = (siteId: string, componentId: strin
     queryFn: ({ signal }) =>
       api.get(`${site(siteId)}/components/${componentId}/readings`, componentReadingsSchema, signal),
   });
-export const latestGroundQueryOptions = (siteId: string, boardId: string) =>
-  queryOptions({
-    queryKey: readingKeys.latestGround(siteId, boardId),
-    queryFn: ({ signal }) =>
-      api
-        .get(
-          `${site(siteId)}/boards/${boardId}/ground-checks/latest`,
-          z.object({ check: groundCheckSchema.nullable() }),
-          signal,
-        )
-        .then((d) => d.check),
-  });
 
 export const useReadingTargets = (siteId: string) => useQuery(targetsQueryOptions(siteId));
 export const useCriteria = (siteId: string) => useQuery(criteriaQueryOptions(siteId));
@@ -81,8 +61,6 @@ export const useBoardReadings = (siteId: string, boardId: string) =>
   useQuery(boardReadingsQueryOptions(siteId, boardId));
 export const useComponentReadings = (siteId: string, componentId: string) =>
   useQuery(componentReadingsQueryOptions(siteId, componentId));
-export const useLatestGroundCheck = (siteId: string, boardId: string) =>
-  useQuery(latestGroundQueryOptions(siteId, boardId));
 
 /** Every write re-reads the site's readings: verdicts depend on criteria and on each other. */
 function useSiteMutation<B, R>(siteId: string, fn: (b: B) => Promise<R>) {

@@ -1,6 +1,6 @@
 import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { SafetyNotice } from "../../../components/safety-notice";
-import { useLatestGroundCheck } from "../api";
+import { useLatestGroundCheck } from "../latest-ground-check";
 import { GroundCheckCard } from "./ground-check-history";
 
 /**
