@@ -1,3 +1,5 @@
+import { useEffect } from "react";
+
 /**
  * Runs `fn` when the page is next idle (at the latest after `timeoutMs`), or at once where the browser cannot say.
  * Returns a function that cancels it.
@@ -9,4 +11,16 @@ export function whenIdle(fn: () => void, timeoutMs = 500): () => void {
   }
   const id = setTimeout(fn, 0);
   return () => clearTimeout(id);
+}
+
+/**
+ * Once `ready` (the page's own data is on screen), asks for the chunks of what the page shows only later at idle
+ * time, at the latest 2 s on, so they are usually there before anyone opens them. `loads` is a constant list of the
+ * chunks' imports (the same ones their `React.lazy` calls).
+ */
+export function useLoadWhenIdle(ready: boolean, loads: ReadonlyArray<() => Promise<unknown>>) {
+  useEffect(() => {
+    if (!ready) return;
+    return whenIdle(() => loads.forEach((load) => void load()), 2000);
+  }, [ready, loads]);
 }

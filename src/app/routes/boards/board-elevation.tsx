@@ -1,4 +1,4 @@
-import { lazy, Suspense, useCallback, useEffect, useMemo, useState } from "react";
+import { lazy, Suspense, useCallback, useMemo, useState } from "react";
 import { Link, useParams, useSearchParams } from "react-router";
 import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
@@ -15,7 +15,7 @@ import {
 import { TileLegend } from "../../../features/inventory/components/tile-legend";
 import { defectHref } from "../../../features/inventory/defect-link";
 import { can } from "../../../domain/permissions";
-import { whenIdle } from "../../../lib/when-idle";
+import { useLoadWhenIdle } from "../../../lib/when-idle";
 import { useSiteContext } from "../sites/site-layout";
 
 /*
@@ -33,6 +33,7 @@ const PositionPanel = lazy(() => loadPanel().then((m) => ({ default: m.PositionP
 const PositionPhotos = lazy(() => loadPhotos().then((m) => ({ default: m.PositionPhotos })));
 const PanelOperations = lazy(() => loadOperations().then((m) => ({ default: m.PanelOperations })));
 const LatestGroundCheck = lazy(() => loadGroundCheck().then((m) => ({ default: m.LatestGroundCheck })));
+const LATER = [loadGroundCheck, loadPanel, loadPhotos, loadOperations];
 
 export default function BoardElevationPage() {
   const { site, role } = useSiteContext();
@@ -65,16 +66,7 @@ export default function BoardElevationPage() {
     () => onScreen.positions.filter((t) => tileMatches(t, filters)).length,
     [onScreen.positions, filters],
   );
-  const drawn = !!q.data;
-  useEffect(() => {
-    if (!drawn) return;
-    return whenIdle(() => {
-      void loadGroundCheck();
-      void loadPanel();
-      void loadPhotos();
-      void loadOperations();
-    }, 2000);
-  }, [drawn]);
+  useLoadWhenIdle(!!q.data, LATER);
   if (q.isPending) return <Loading what="Drawing the board" />;
   if (q.isLoadingError || serverRefused(q.error)) return <ErrorPanel error={q.error} />;
   const { board, total, complete } = q.data;

@@ -1,4 +1,4 @@
-import { lazy, Suspense, useEffect } from "react";
+import { lazy, Suspense } from "react";
 import { Link } from "react-router";
 import { EmptyState, ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
@@ -10,7 +10,7 @@ import { PartsTable } from "../../../features/parts/components/parts-table";
 import { useFilterParams } from "../../../features/parts/use-filter-params";
 import { useSiteContext } from "../sites/site-layout";
 import { can } from "../../../domain/permissions";
-import { whenIdle } from "../../../lib/when-idle";
+import { useLoadWhenIdle } from "../../../lib/when-idle";
 
 /*
  * The forms below the list (a line added by hand, the site's currency, the share links) come in chunks of their own,
@@ -23,21 +23,14 @@ const loadShareLinks = () => import("../../../features/parts/components/share-li
 const NewLineForm = lazy(() => loadNewLine().then((m) => ({ default: m.NewLineForm })));
 const CurrencyForm = lazy(() => loadCurrency().then((m) => ({ default: m.CurrencyForm })));
 const ShareLinksPanel = lazy(() => loadShareLinks().then((m) => ({ default: m.ShareLinksPanel })));
+const LATER = [loadNewLine, loadCurrency, loadShareLinks];
 
 export default function PartsListPage() {
   const { site, role } = useSiteContext();
   const [filter, setFilter, search] = useFilterParams();
   const list = usePartsList(site.id, filter);
   const canEdit = can(role, "parts.edit");
-  const listed = !!list.data;
-  useEffect(() => {
-    if (!listed) return;
-    return whenIdle(() => {
-      void loadNewLine();
-      void loadCurrency();
-      void loadShareLinks();
-    }, 2000);
-  }, [listed]);
+  useLoadWhenIdle(!!list.data, LATER);
   return (
     <div className="space-y-5">
       <header className="flex flex-wrap items-end justify-between gap-3">
