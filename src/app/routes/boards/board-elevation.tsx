@@ -29,7 +29,10 @@ const loadPanel = () => import("../../../features/inventory/components/position-
 const loadPhotos = () => import("../../../features/photos/components/position-photos");
 const loadOperations = () => import("../../../features/return-to-service/components/breaker-operations");
 const loadGroundCheck = () => import("../../../features/readings/components/latest-ground-check");
-const PositionPanel = lazy(() => loadPanel().then((m) => ({ default: m.PositionPanel })));
+// The panel draws the photos and operations handed to it: all three are asked for at once, not one after another.
+const PositionPanel = lazy(() =>
+  Promise.all([loadPanel(), loadPhotos(), loadOperations()]).then(([m]) => ({ default: m.PositionPanel })),
+);
 const PositionPhotos = lazy(() => loadPhotos().then((m) => ({ default: m.PositionPhotos })));
 const PanelOperations = lazy(() => loadOperations().then((m) => ({ default: m.PanelOperations })));
 const LatestGroundCheck = lazy(() => loadGroundCheck().then((m) => ({ default: m.LatestGroundCheck })));
