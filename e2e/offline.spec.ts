@@ -519,3 +519,69 @@ test.describe("editing a defect with no signal, on a 360 px phone", () => {
     await curator.dispose();
   });
 });
+
+test.describe("code a phone never got, on a 360 px phone", () => {
+  test.setTimeout(120_000);
+  // No service worker: the page's chunks come from the server alone, as in the seconds before a first visit's worker
+  // has kept them. The routes below fail the chunks of what the page shows only later.
+  test.use({ viewport: { width: 360, height: 740 }, serviceWorkers: "block" });
+
+  test("a position's panel whose code never arrived says so in its place and opens when the signal returns", async ({
+    page,
+    context,
+    baseURL,
+  }) => {
+    const m = await makeBreaker(baseURL!);
+    await signIn(page, "volunteer");
+    const later = /\/assets\/(position-panel|position-photos|breaker-operations)-[^/]*\.js$/;
+    await context.route(later, (r) => r.abort("internetdisconnected"));
+    await page.goto(`/sites/${m.siteId}/boards/${m.boardId}`);
+    const boardHeading = page.getByRole("heading", { name: `Hull board ${m.designation.slice(0, -1)}` });
+    await expect(boardHeading).toBeVisible();
+
+    await context.setOffline(true);
+    await page.getByTestId(`tile-${m.designation}`).click();
+    const notLoaded = page.getByTestId("part-not-loaded");
+    await expect(notLoaded).toContainText("This position's panel is not kept on this phone yet");
+    await expect(boardHeading).toBeVisible(); // the page stays, not the route's error page
+    await expect(page.getByRole("heading", { name: /failed to load/ })).toHaveCount(0);
+    await page.screenshot({ path: ".data/test-results/part-not-loaded-phone.png" });
+    // It closes like the panel.
+    await page.getByRole("button", { name: "Close the position panel" }).click();
+    await expect(notLoaded).toHaveCount(0);
+    await page.getByTestId(`tile-${m.designation}`).click();
+    await expect(notLoaded).toBeVisible();
+
+    // The signal returns: the panel opens by itself.
+    await context.unroute(later);
+    await context.setOffline(false);
+    await expect(page.getByTestId("position-panel")).toBeVisible({ timeout: 30_000 });
+    await expect(page.getByTestId("position-panel").getByRole("heading", { name: m.designation })).toBeVisible();
+    await expect(notLoaded).toHaveCount(0);
+  });
+
+  test("a page whose code never arrived says it is not on the phone yet, without a reload button, then opens", async ({
+    page,
+    context,
+    baseURL,
+  }) => {
+    const m = await makeBreaker(baseURL!);
+    await signIn(page, "volunteer");
+    const readings = /\/assets\/board-readings-[^/]*\.js$/;
+    await context.route(readings, (r) => r.abort("internetdisconnected"));
+    await page.goto(`/sites/${m.siteId}/boards/${m.boardId}`);
+    await expect(page.getByRole("heading", { name: `Hull board ${m.designation.slice(0, -1)}` })).toBeVisible();
+
+    await context.setOffline(true);
+    await page.getByRole("link", { name: "Test readings of this board" }).click();
+    await expect(page.getByRole("heading", { name: "Not kept on this phone yet" })).toBeVisible();
+    await expect(page.getByText("it opens when the connection returns")).toBeVisible();
+    await expect(page.getByRole("button", { name: "Reload" })).toHaveCount(0);
+
+    await context.unroute(readings);
+    await context.setOffline(false);
+    await expect(page.getByRole("heading", { name: "Not kept on this phone yet" })).toHaveCount(0, { timeout: 30_000 });
+    await expect(page).toHaveURL(new RegExp(`/readings/boards/${m.boardId}`));
+    await expect(page.getByRole("main").getByRole("heading").first()).toBeVisible();
+  });
+});

@@ -1,4 +1,5 @@
 import { createBrowserRouter, matchRoutes, type LoaderFunctionArgs, type Params, type RouteObject } from "react-router";
+import { markChunk } from "../lib/chunk";
 import { paths } from "../config/paths";
 import { localDay } from "../lib/clock";
 import { queryClient } from "./query-client";
@@ -60,8 +61,10 @@ const prefetchRegister = prefetch((a) =>
   ),
 );
 
+// A page whose chunk cannot be fetched (no signal before the service worker kept it, or a version deployed since)
+// throws ChunkNotLoaded: the route's error page tells that apart and opens the page when the connection returns.
 const page = (load: () => Promise<{ default: React.ComponentType }>): Pick<RouteObject, "lazy"> => ({
-  lazy: () => load().then((m) => ({ Component: m.default })),
+  lazy: () => markChunk("This page", load)().then((m) => ({ Component: m.default })),
 });
 
 export const routes: RouteObject[] = [

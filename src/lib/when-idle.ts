@@ -21,6 +21,7 @@ export function whenIdle(fn: () => void, timeoutMs = 500): () => void {
 export function useLoadWhenIdle(ready: boolean, loads: ReadonlyArray<() => Promise<unknown>>) {
   useEffect(() => {
     if (!ready) return;
-    return whenIdle(() => loads.forEach((load) => void load()), 2000);
+    // a load that fails (no signal yet) is asked for again when the part is drawn, which says so in its place
+    return whenIdle(() => loads.forEach((load) => void load().catch(() => undefined)), 2000);
   }, [ready, loads]);
 }

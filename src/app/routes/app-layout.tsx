@@ -1,5 +1,6 @@
-import { lazy, Suspense, useEffect, useState } from "react";
+import { Suspense, useEffect, useState } from "react";
 import { Link, Navigate, Outlet, useLocation, useNavigate } from "react-router";
+import { laterPart } from "../../components/later-part";
 import { SyncBar } from "../../components/sync-bar";
 import { setOutboxUser, useOutbox } from "../../lib/outbox";
 import { useQueryClient } from "@tanstack/react-query";
@@ -14,8 +15,10 @@ import { useSession, useSignOut } from "../../features/auth/api";
  * module is evaluated) were part of the app layout's chunk, a long task on the phone before any page behind sign-in
  * could render. It shows nothing until its own read answers, as before.
  */
-const NoticeStrip = lazy(() =>
-  import("../../features/prepared-files/components/notice-strip").then((m) => ({ default: m.NoticeStrip })),
+const NoticeStrip = laterPart(
+  "The prepared-files notice",
+  () => import("../../features/prepared-files/components/notice-strip").then((m) => m.NoticeStrip),
+  { quiet: true },
 );
 
 /** Everything behind sign-in: the top bar and the session guard. */

@@ -1,5 +1,6 @@
-import { lazy, Suspense, useCallback, useMemo, useState } from "react";
+import { Suspense, useCallback, useMemo, useState, type ReactNode } from "react";
 import { Link, useParams, useSearchParams } from "react-router";
+import { laterPart } from "../../../components/later-part";
 import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { EARTHING_LABELS } from "../../../domain/vocab";
@@ -30,12 +31,15 @@ const loadPhotos = () => import("../../../features/photos/components/position-ph
 const loadOperations = () => import("../../../features/return-to-service/components/breaker-operations");
 const loadGroundCheck = () => import("../../../features/readings/components/latest-ground-check");
 // The panel draws the photos and operations handed to it: all three are asked for at once, not one after another.
-const PositionPanel = lazy(() =>
-  Promise.all([loadPanel(), loadPhotos(), loadOperations()]).then(([m]) => ({ default: m.PositionPanel })),
+// Each says so in its own place, not as the page's error, when its chunk cannot be fetched (`laterPart`).
+const PositionPanel = laterPart(
+  "This position's panel",
+  () => Promise.all([loadPanel(), loadPhotos(), loadOperations()]).then(([m]) => m.PositionPanel),
+  { frame: (message, p) => <PanelFrame onClose={p.onClose}>{message}</PanelFrame> },
 );
-const PositionPhotos = lazy(() => loadPhotos().then((m) => ({ default: m.PositionPhotos })));
-const PanelOperations = lazy(() => loadOperations().then((m) => ({ default: m.PanelOperations })));
-const LatestGroundCheck = lazy(() => loadGroundCheck().then((m) => ({ default: m.LatestGroundCheck })));
+const PositionPhotos = laterPart("The position's photos", () => loadPhotos().then((m) => m.PositionPhotos));
+const PanelOperations = laterPart("The breaker's operations", () => loadOperations().then((m) => m.PanelOperations));
+const LatestGroundCheck = laterPart("The ground-lamp card", () => loadGroundCheck().then((m) => m.LatestGroundCheck));
 const LATER = [loadGroundCheck, loadPanel, loadPhotos, loadOperations];
 
 export default function BoardElevationPage() {
@@ -186,11 +190,31 @@ export default function BoardElevationPage() {
   );
 }
 
-/** The position panel's place while its code arrives (the panel is a full-height drawer on a phone). */
-function PanelOpening() {
+/** The position panel's place while its code arrives, or when it could not (the panel is a full-height drawer on a phone). */
+function PanelFrame({ children, onClose }: { children: ReactNode; onClose?: () => void }) {
   return (
     <div className="fixed inset-0 z-40 bg-hull-900 p-4 ring-1 ring-hull-600 md:inset-y-0 md:left-auto md:right-0 md:w-[28rem]">
-      <Loading what="Opening the position" />
+      {onClose && (
+        <div className="mb-2 flex justify-end">
+          <button
+            type="button"
+            onClick={onClose}
+            className="min-h-11 min-w-11 rounded-md text-2xl ring-1 ring-hull-600 hover:bg-hull-700"
+            aria-label="Close the position panel"
+          >
+            ×
+          </button>
+        </div>
+      )}
+      {children}
     </div>
+  );
+}
+
+function PanelOpening() {
+  return (
+    <PanelFrame>
+      <Loading what="Opening the position" />
+    </PanelFrame>
   );
 }

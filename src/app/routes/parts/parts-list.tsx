@@ -1,5 +1,6 @@
-import { lazy, Suspense } from "react";
+import { Suspense } from "react";
 import { Link } from "react-router";
+import { laterPart } from "../../../components/later-part";
 import { EmptyState, ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { csvUrl, usePartsList } from "../../../features/parts/api";
@@ -20,9 +21,9 @@ import { useLoadWhenIdle } from "../../../lib/when-idle";
 const loadNewLine = () => import("../../../features/parts/components/new-line-form");
 const loadCurrency = () => import("../../../features/sites/components/currency-form");
 const loadShareLinks = () => import("../../../features/parts/components/share-links-panel");
-const NewLineForm = lazy(() => loadNewLine().then((m) => ({ default: m.NewLineForm })));
-const CurrencyForm = lazy(() => loadCurrency().then((m) => ({ default: m.CurrencyForm })));
-const ShareLinksPanel = lazy(() => loadShareLinks().then((m) => ({ default: m.ShareLinksPanel })));
+const NewLineForm = laterPart("The form for a new line", () => loadNewLine().then((m) => m.NewLineForm));
+const CurrencyForm = laterPart("The currency setting", () => loadCurrency().then((m) => m.CurrencyForm));
+const ShareLinksPanel = laterPart("The share links", () => loadShareLinks().then((m) => m.ShareLinksPanel));
 const LATER = [loadNewLine, loadCurrency, loadShareLinks];
 
 export default function PartsListPage() {
