@@ -93,7 +93,9 @@ test("the return-to-service forms show the schema's messages beside the fields a
   await words.getByRole("button", { name: "Save the hold point" }).click();
   await expect(card).toContainText("Isolate and lock off, checked twice");
 
-  // Breaker operations: why missing, then recorded; a budget not a whole number, then saved.
+  // Breaker operations: none yet is said in words (not an empty table); why missing, then recorded; a budget not a
+  // whole number, then saved.
+  await expect(page.getByTestId("no-operations-yet")).toBeVisible();
   const op = page.getByRole("form", { name: "Record a breaker operation" }).first();
   await op.getByLabel("Breaker").selectOption({ index: 1 });
   await op.getByRole("button", { name: "Record the operation" }).click();

@@ -290,7 +290,11 @@ export function BreakerOperations({
         each). The budget warns; it never blocks. Where a breaker is near its budget, consider energising from the
         temporary supply instead of working it.
       </p>
-      {!wide ? (
+      {shown.length === 0 ? (
+        <p className="text-sm" data-testid="no-operations-yet">
+          No breaker of this board has been operated or given a budget of its own yet.
+        </p>
+      ) : !wide ? (
         <ul className="space-y-2" aria-label="Breaker operations against their budgets">
           {shown.map((b) => (
             <BreakerItem key={b.componentId} siteId={siteId} b={b} role={role} />
