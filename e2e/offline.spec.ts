@@ -546,6 +546,10 @@ test.describe("code a phone never got, on a 360 px phone", () => {
     await expect(boardHeading).toBeVisible(); // the page stays, not the route's error page
     await expect(page.getByRole("heading", { name: /failed to load/ })).toHaveCount(0);
     await page.screenshot({ path: ".data/test-results/part-not-loaded-phone.png" });
+    await page.setViewportSize({ width: 1280, height: 800 }); // the panel is a side drawer on a wide screen
+    await expect(notLoaded).toBeVisible();
+    await page.screenshot({ path: ".data/test-results/part-not-loaded-wide.png" });
+    await page.setViewportSize({ width: 360, height: 740 });
     // It closes like the panel.
     await page.getByRole("button", { name: "Close the position panel" }).click();
     await expect(notLoaded).toHaveCount(0);
@@ -577,6 +581,7 @@ test.describe("code a phone never got, on a 360 px phone", () => {
     await expect(page.getByRole("heading", { name: "Not kept on this phone yet" })).toBeVisible();
     await expect(page.getByText("it opens when the connection returns")).toBeVisible();
     await expect(page.getByRole("button", { name: "Reload" })).toHaveCount(0);
+    await page.screenshot({ path: ".data/test-results/page-not-loaded-phone.png" });
 
     await context.unroute(readings);
     await context.setOffline(false);

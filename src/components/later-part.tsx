@@ -1,15 +1,12 @@
-import { onlineManager } from "@tanstack/react-query";
-import { lazy, useEffect, useReducer, useSyncExternalStore, type ComponentType, type ReactNode } from "react";
+import { lazy, useReducer, type ComponentType, type ReactNode } from "react";
 import { ErrorBoundary } from "react-error-boundary";
 import { ChunkNotLoaded, markChunk } from "../lib/chunk";
-
-const subscribe = (l: () => void) => onlineManager.subscribe(l);
-const isOnline = () => onlineManager.isOnline();
+import { useOnline, useWhenOnline } from "../lib/online";
 
 /** What a part shows in place of code that did not arrive; asks again by itself when the connection returns. */
 function NotLoaded({ what, retry }: { what: string; retry: () => void }) {
-  const online = useSyncExternalStore(subscribe, isOnline);
-  useEffect(() => onlineManager.subscribe((now) => now && retry()), [retry]);
+  const online = useOnline();
+  useWhenOnline(retry);
   return (
     <div
       role="status"
@@ -85,6 +82,6 @@ export function laterPart<P extends object>(
 
 /** The quiet form: nothing on screen, a retry when the connection returns. */
 function Retrying({ retry }: { retry: () => void }) {
-  useEffect(() => onlineManager.subscribe((now) => now && retry()), [retry]);
+  useWhenOnline(retry);
   return null;
 }

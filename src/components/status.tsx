@@ -1,14 +1,11 @@
-import { onlineManager } from "@tanstack/react-query";
-import { useSyncExternalStore, type ReactNode } from "react";
+import { type ReactNode } from "react";
 import { ApiError } from "../lib/api-client";
+import { useOnline } from "../lib/online";
 
 export function Loading({ what = "Loading" }: { what?: string }) {
   // With no signal a read that this phone never kept waits for the connection (it is paused, not
   // failed): say so rather than spin.
-  const online = useSyncExternalStore(
-    (l) => onlineManager.subscribe(l),
-    () => onlineManager.isOnline(),
-  );
+  const online = useOnline();
   return (
     <p role="status" className="p-4 text-mist" data-testid={online ? undefined : "not-on-phone"}>
       {online ? `${what}…` : "Not kept on this phone yet: this opens when the connection returns."}

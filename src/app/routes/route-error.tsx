@@ -1,22 +1,18 @@
-import { onlineManager } from "@tanstack/react-query";
-import { useEffect, useSyncExternalStore } from "react";
 import { isRouteErrorResponse, Link, useRouteError } from "react-router";
 import { ChunkNotLoaded } from "../../lib/chunk";
+import { useOnline, useWhenOnline } from "../../lib/online";
 
-const subscribe = (l: () => void) => onlineManager.subscribe(l);
-const isOnline = () => onlineManager.isOnline();
+const reload = () => window.location.reload();
+const nothing = () => undefined;
 
 /** The error boundary of every route: a plain explanation and a way back, no stack. */
 export function RouteError() {
   const err = useRouteError();
   const notFound = isRouteErrorResponse(err) && err.status === 404;
   const notLoaded = err instanceof ChunkNotLoaded;
-  const online = useSyncExternalStore(subscribe, isOnline);
+  const online = useOnline();
   // A page whose code did not arrive for want of signal opens by itself when the connection returns.
-  useEffect(
-    () => (notLoaded ? onlineManager.subscribe((now) => now && window.location.reload()) : undefined),
-    [notLoaded],
-  );
+  useWhenOnline(notLoaded ? reload : nothing);
   const [title, text] = notFound
     ? ["Nothing here", "The address does not match a page of Tideline."]
     : notLoaded && !online
@@ -40,7 +36,7 @@ export function RouteError() {
       <div className="mt-4 flex gap-4">
         {/* with no signal a reload could only show the browser's own offline page */}
         {!(notLoaded && !online) && (
-          <button type="button" className="underline text-brass-300" onClick={() => window.location.reload()}>
+          <button type="button" className="underline text-brass-300" onClick={reload}>
             Reload
           </button>
         )}

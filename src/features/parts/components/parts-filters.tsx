@@ -42,7 +42,7 @@ export function PartsFilters({
       <label className="text-sm font-semibold text-mist">
         Status
         <select className={selectClass} value={value.status ?? "open"} onChange={set("status")}>
-          <option value="open">Still open (not fitted)</option>
+          <option value="open">Not fitted yet</option>
           <option value="all">Every status</option>
           {PART_STATUSES.map((s) => (
             <option key={s} value={s}>
