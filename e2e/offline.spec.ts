@@ -581,6 +581,10 @@ test.describe("code a phone never got, on a 360 px phone", () => {
     await expect(page.getByRole("heading", { name: "Not kept on this phone yet" })).toBeVisible();
     await expect(page.getByText("it opens when the connection returns")).toBeVisible();
     await expect(page.getByRole("button", { name: "Reload" })).toHaveCount(0);
+    // In the page's place: the sync bar (what waits on the phone) and the site's navigation stay.
+    await expect(page.getByTestId("site-name")).toBeVisible();
+    await expect(page.getByRole("navigation", { name: "Site (phone)" })).toBeVisible();
+    await expect(page.getByRole("main")).toHaveCount(1);
     await page.screenshot({ path: ".data/test-results/page-not-loaded-phone.png" });
 
     await context.unroute(readings);

@@ -1,9 +1,8 @@
 import { createBrowserRouter, matchRoutes, type LoaderFunctionArgs, type Params, type RouteObject } from "react-router";
-import { markChunk } from "../lib/chunk";
 import { paths } from "../config/paths";
 import { localDay } from "../lib/clock";
 import { queryClient } from "./query-client";
-import { RouteError } from "./routes/route-error";
+import { PageNotLoaded, PageNotLoadedInPage, RouteError } from "./routes/route-error";
 
 /**
  * Loaders start a page's data fetches while its code chunk downloads, instead of after the
@@ -61,11 +60,24 @@ const prefetchRegister = prefetch((a) =>
   ),
 );
 
-// A page whose chunk cannot be fetched (no signal before the service worker kept it, or a version deployed since)
-// throws ChunkNotLoaded: the route's error page tells that apart and opens the page when the connection returns.
-const page = (load: () => Promise<{ default: React.ComponentType }>): Pick<RouteObject, "lazy"> => ({
-  lazy: () => markChunk("This page", load)().then((m) => ({ Component: m.default })),
+type PageModule = () => Promise<{ default: React.ComponentType }>;
+/**
+ * A page whose chunk cannot be fetched (no signal before the service worker kept it, or a version deployed since)
+ * is drawn as a page saying so (`PageNotLoaded`), which reloads itself when the connection returns. Not as the
+ * route's error: React Router draws nothing below the first route while a matched route's `lazy` has not resolved,
+ * so the error would lose the top bar, the sync bar (what is waiting on the phone) and the site's navigation.
+ */
+const page = (load: PageModule, inPage = false): Pick<RouteObject, "lazy"> => ({
+  lazy: () =>
+    load().then(
+      (m) => ({ Component: m.default }),
+      () => ({ Component: inPage ? PageNotLoadedInPage : PageNotLoaded }),
+    ),
 });
+// A page behind sign-in that fails as it is drawn shows the error where the page would be, under the top bar and the
+// sync bar, and inside a site under the site's navigation (whose <main> holds it): not on a bare screen.
+const shellPage = (load: PageModule) => ({ ...page(load), errorElement: <RouteError /> });
+const sitePage = (load: PageModule) => ({ ...page(load, true), errorElement: <RouteError inPage /> });
 
 export const routes: RouteObject[] = [
   { path: paths.signIn.path, ...page(() => import("./routes/auth/sign-in")), errorElement: <RouteError /> },
@@ -84,39 +96,39 @@ export const routes: RouteObject[] = [
     ...reads(() => ["/api/session"]),
     errorElement: <RouteError />,
     children: [
-      { path: paths.home.path, ...page(() => import("./routes/home-redirect")) },
-      { path: paths.sites.path, ...page(() => import("./routes/sites/site-picker")) },
-      { path: paths.admin.path, ...page(() => import("./routes/admin/admin-home")) },
-      { path: paths.mailbox.path, ...page(() => import("./routes/admin/mailbox")) },
-      { path: paths.account.path, ...page(() => import("./routes/account/account")) },
-      { path: paths.scan.path, ...page(() => import("./routes/reports/scan")) },
-      { path: paths.tag.path, ...page(() => import("./routes/reports/tag")) },
+      { path: paths.home.path, ...shellPage(() => import("./routes/home-redirect")) },
+      { path: paths.sites.path, ...shellPage(() => import("./routes/sites/site-picker")) },
+      { path: paths.admin.path, ...shellPage(() => import("./routes/admin/admin-home")) },
+      { path: paths.mailbox.path, ...shellPage(() => import("./routes/admin/mailbox")) },
+      { path: paths.account.path, ...shellPage(() => import("./routes/account/account")) },
+      { path: paths.scan.path, ...shellPage(() => import("./routes/reports/scan")) },
+      { path: paths.tag.path, ...shellPage(() => import("./routes/reports/tag")) },
       {
         path: paths.site.path,
-        ...page(() => import("./routes/sites/site-layout")),
+        ...shellPage(() => import("./routes/sites/site-layout")),
         loader: prefetchSite,
         ...reads((p) => [`/api/sites/${p.siteId}`]),
         children: [
           {
             index: true,
-            ...page(() => import("./routes/sites/site-home")),
+            ...sitePage(() => import("./routes/sites/site-home")),
             loader: inventory((m, a) => m.overviewQueryOptions(site(a)) as never),
             ...reads((p) => [`/api/sites/${p.siteId}/overview`]),
           },
-          { path: "members", ...page(() => import("./routes/sites/members")) },
-          { path: "photos", ...page(() => import("./routes/photos/photo-desk")) },
-          { path: "photos/shoot-list", ...page(() => import("./routes/photos/shoot-list")) },
-          { path: "photos/gallery", ...page(() => import("./routes/photos/gallery")) },
+          { path: "members", ...sitePage(() => import("./routes/sites/members")) },
+          { path: "photos", ...sitePage(() => import("./routes/photos/photo-desk")) },
+          { path: "photos/shoot-list", ...sitePage(() => import("./routes/photos/shoot-list")) },
+          { path: "photos/gallery", ...sitePage(() => import("./routes/photos/gallery")) },
           {
             path: "boards",
-            ...page(() => import("./routes/boards/board-list")),
+            ...sitePage(() => import("./routes/boards/board-list")),
             loader: inventory((m, a) => m.boardsQueryOptions(site(a)) as never),
             ...reads((p) => [`/api/sites/${p.siteId}/boards`]),
           },
-          { path: "boards/new", ...page(() => import("./routes/boards/board-new")) },
+          { path: "boards/new", ...sitePage(() => import("./routes/boards/board-new")) },
           {
             path: "boards/:boardId",
-            ...page(() => import("./routes/boards/board-elevation")),
+            ...sitePage(() => import("./routes/boards/board-elevation")),
             // The board's head and first page (the rest follow in the page, at idle time), and its latest
             // ground-lamp check, whose card below the board comes in a chunk of its own: read with the board, so it
             // is kept for no signal with it.
@@ -135,13 +147,13 @@ export const routes: RouteObject[] = [
               `/api/sites/${p.siteId}/boards/${p.boardId}/ground-checks/latest`,
             ]),
           },
-          { path: "boards/:boardId/setup", ...page(() => import("./routes/boards/board-setup")) },
-          { path: "log", ...page(() => import("./routes/boards/quick-log")) },
-          { path: "inventory/import", ...page(() => import("./routes/boards/inventory-import")) },
-          { path: "flood", ...page(() => import("./routes/boards/flood-events")) },
+          { path: "boards/:boardId/setup", ...sitePage(() => import("./routes/boards/board-setup")) },
+          { path: "log", ...sitePage(() => import("./routes/boards/quick-log")) },
+          { path: "inventory/import", ...sitePage(() => import("./routes/boards/inventory-import")) },
+          { path: "flood", ...sitePage(() => import("./routes/boards/flood-events")) },
           {
             path: "defects",
-            ...page(() => import("./routes/defects/register")),
+            ...sitePage(() => import("./routes/defects/register")),
             loader: prefetchRegister,
             // The register's first view (its default sort and page, as of today) and the filter choices it offers.
             // `hide` and `cols` only arrange its columns (url-state.ts `apiQuery` leaves them out).
@@ -154,36 +166,42 @@ export const routes: RouteObject[] = [
                 : [`/api/sites/${p.siteId}/defects/options`],
             ),
           },
-          { path: "defects/new", ...page(() => import("./routes/defects/raise")) },
-          { path: "defects/how-priority-works", ...page(() => import("./routes/defects/priority-help")) },
-          { path: "defects/:defectId", ...page(() => import("./routes/defects/detail")) },
-          { path: "repair-plan", ...page(() => import("./routes/defects/repair-plan")) },
-          { path: "readings", ...page(() => import("./routes/readings/readings-home")) },
-          { path: "readings/criteria", ...page(() => import("./routes/readings/criteria")) },
-          { path: "readings/boards/:boardId", ...page(() => import("./routes/readings/board-readings")) },
-          { path: "readings/components/:componentId", ...page(() => import("./routes/readings/component-readings")) },
-          { path: "return-to-service", ...page(() => import("./routes/return-to-service/overview")) },
-          { path: "return-to-service/settings", ...page(() => import("./routes/return-to-service/settings")) },
-          { path: "boards/:boardId/return-to-service", ...page(() => import("./routes/return-to-service/board-rts")) },
-          { path: "boards/:boardId/watch", ...page(() => import("./routes/return-to-service/watch")) },
+          { path: "defects/new", ...sitePage(() => import("./routes/defects/raise")) },
+          { path: "defects/how-priority-works", ...sitePage(() => import("./routes/defects/priority-help")) },
+          { path: "defects/:defectId", ...sitePage(() => import("./routes/defects/detail")) },
+          { path: "repair-plan", ...sitePage(() => import("./routes/defects/repair-plan")) },
+          { path: "readings", ...sitePage(() => import("./routes/readings/readings-home")) },
+          { path: "readings/criteria", ...sitePage(() => import("./routes/readings/criteria")) },
+          { path: "readings/boards/:boardId", ...sitePage(() => import("./routes/readings/board-readings")) },
+          {
+            path: "readings/components/:componentId",
+            ...sitePage(() => import("./routes/readings/component-readings")),
+          },
+          { path: "return-to-service", ...sitePage(() => import("./routes/return-to-service/overview")) },
+          { path: "return-to-service/settings", ...sitePage(() => import("./routes/return-to-service/settings")) },
+          {
+            path: "boards/:boardId/return-to-service",
+            ...sitePage(() => import("./routes/return-to-service/board-rts")),
+          },
+          { path: "boards/:boardId/watch", ...sitePage(() => import("./routes/return-to-service/watch")) },
           {
             path: "boards/:boardId/return-to-service/stages/:stageId/sheet",
-            ...page(() => import("./routes/return-to-service/stage-sheet")),
+            ...sitePage(() => import("./routes/return-to-service/stage-sheet")),
           },
           {
             path: "parts",
-            ...page(() => import("./routes/parts/parts-list")),
+            ...sitePage(() => import("./routes/parts/parts-list")),
             loader: prefetchParts,
             // The wanted list's first view: the lines still open (schemas/parts.ts `listQuery`'s default).
             ...reads((p, search) => (plainView(search) ? [`/api/sites/${p.siteId}/parts?status=open`] : [])),
           },
-          { path: "reports", ...page(() => import("./routes/reports/reports")) },
-          { path: "parts/print", ...page(() => import("./routes/parts/parts-print")) },
-          { path: "parts/:lineId", ...page(() => import("./routes/parts/part-line")) },
-          { path: "*", ...page(() => import("./routes/not-found")) },
+          { path: "reports", ...sitePage(() => import("./routes/reports/reports")) },
+          { path: "parts/print", ...sitePage(() => import("./routes/parts/parts-print")) },
+          { path: "parts/:lineId", ...sitePage(() => import("./routes/parts/part-line")) },
+          { path: "*", ...sitePage(() => import("./routes/not-found")) },
         ],
       },
-      { path: "*", ...page(() => import("./routes/not-found")) },
+      { path: "*", ...shellPage(() => import("./routes/not-found")) },
     ],
   },
 ];

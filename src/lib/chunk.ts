@@ -1,7 +1,7 @@
 /**
  * A chunk of the client's code that could not be fetched: no signal before the service worker had kept it, or a
- * new version deployed since the page was opened (the old chunk's file is gone). Thrown by the loads of `laterPart`
- * and of the router's pages, so the screens can tell it from a fault in the code itself.
+ * new version deployed since the page was opened (the old chunk's file is gone). Thrown by the loads of `laterPart`,
+ * so its boundary can tell it from a fault in the code itself.
  */
 export class ChunkNotLoaded extends Error {
   override name = "ChunkNotLoaded";
