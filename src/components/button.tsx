@@ -1,4 +1,4 @@
-import type { ButtonHTMLAttributes } from "react";
+import type { ButtonHTMLAttributes, Ref } from "react";
 
 type Tone = "primary" | "quiet" | "danger";
 const TONES: Record<Tone, string> = {
@@ -19,5 +19,28 @@ export function Button({
       className={`inline-flex min-h-11 items-center justify-center gap-2 rounded-md px-4 font-semibold transition-colors disabled:cursor-not-allowed ${TONES[tone]} ${className}`}
       {...rest}
     />
+  );
+}
+
+/** The × that closes a drawer or panel: 44 px square, named for what it closes (`label`). */
+export function CloseButton({
+  label,
+  onClick,
+  ref,
+}: {
+  label: string;
+  onClick: () => void;
+  ref?: Ref<HTMLButtonElement>;
+}) {
+  return (
+    <button
+      ref={ref}
+      type="button"
+      onClick={onClick}
+      className="min-h-11 min-w-11 rounded-md text-2xl ring-1 ring-hull-600 hover:bg-hull-700"
+      aria-label={label}
+    >
+      ×
+    </button>
   );
 }

@@ -1,5 +1,6 @@
 import { Suspense, useCallback, useMemo, useState, type ReactNode } from "react";
 import { Link, useParams, useSearchParams } from "react-router";
+import { CloseButton } from "../../../components/button";
 import { laterPart } from "../../../components/later-part";
 import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
@@ -196,14 +197,7 @@ function PanelFrame({ children, onClose }: { children: ReactNode; onClose?: () =
     <div className="fixed inset-0 z-40 bg-hull-900 p-4 ring-1 ring-hull-600 md:inset-y-0 md:left-auto md:right-0 md:w-[28rem]">
       {onClose && (
         <div className="mb-2 flex justify-end">
-          <button
-            type="button"
-            onClick={onClose}
-            className="min-h-11 min-w-11 rounded-md text-2xl ring-1 ring-hull-600 hover:bg-hull-700"
-            aria-label="Close the position panel"
-          >
-            ×
-          </button>
+          <CloseButton label="Close the position panel" onClick={onClose} />
         </div>
       )}
       {children}

@@ -1,6 +1,7 @@
 import type { ReactNode } from "react";
 import { useEffect, useRef } from "react";
 import { Link } from "react-router";
+import { CloseButton } from "../../../components/button";
 import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { COMPONENT_KIND_LABELS, CUSTODY_LABELS, HERITAGE_LABELS } from "../../../domain/vocab";
 import { usePosition } from "../api";
@@ -98,15 +99,7 @@ export function PositionPanel({
             </p>
           )}
         </div>
-        <button
-          ref={closeRef}
-          type="button"
-          onClick={onClose}
-          className="min-h-11 min-w-11 rounded-md text-2xl ring-1 ring-hull-600 hover:bg-hull-700"
-          aria-label="Close the position panel"
-        >
-          ×
-        </button>
+        <CloseButton ref={closeRef} label="Close the position panel" onClick={onClose} />
       </div>
       {q.isPending && <Loading what="Opening the position" />}
       {(q.isLoadingError || serverRefused(q.error)) && <ErrorPanel error={q.error} />}
