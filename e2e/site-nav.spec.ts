@@ -25,3 +25,21 @@ for (const viewport of [
     }
   });
 }
+
+test("the site's navigation marks where a board, its readings and its return to service belong", async ({ page }) => {
+  await page.setViewportSize({ width: 1280, height: 800 });
+  await signIn(page, "curator");
+  const siteId = page.url().split("/sites/")[1].split("/")[0];
+  const nav = page.getByRole("navigation", { name: "Site", exact: true });
+  await nav.getByRole("link", { name: "Boards" }).click();
+  await expect(nav.getByRole("link", { name: "Boards" })).toHaveAttribute("aria-current", "page");
+  const boards = (await (await page.request.get(`/api/sites/${siteId}/boards`)).json()) as Array<{ id: string }>;
+  await page.goto(`/sites/${siteId}/boards/${boards[0].id}`);
+  await expect(nav.getByRole("link", { name: "Boards" })).toHaveAttribute("aria-current", "true");
+  await page.goto(`/sites/${siteId}/readings/boards/${boards[0].id}`);
+  await expect(nav.getByRole("link", { name: "Readings" })).toHaveAttribute("aria-current", "true");
+  await expect(nav.getByRole("link", { name: "Boards" })).not.toHaveAttribute("aria-current");
+  await page.goto(`/sites/${siteId}/boards/${boards[0].id}/return-to-service`);
+  await expect(nav.getByRole("link", { name: "Return to service" })).toHaveAttribute("aria-current", "true");
+  await expect(page.locator('nav[aria-label="Site"] [aria-current]')).toHaveCount(1);
+});

@@ -6,6 +6,11 @@ export interface NavItem {
   href: (siteId: string) => string;
   /** Who sees the item: those who may do this (src/domain/permissions.ts); absent means every member. */
   action?: Action;
+  /**
+   * The pages below its own that the item stands for (a path after /sites/:siteId), so a board, a defect or a
+   * board's readings still show where in the site one is; its own page is matched exactly.
+   */
+  within?: RegExp;
 }
 
 type Who = SiteRole;
@@ -13,16 +18,20 @@ type Who = SiteRole;
 /** The site's navigation, in order. Each feature adds its pages here. */
 export const SITE_NAV: NavItem[] = [
   { label: "Overview", href: (s) => paths.site.href(s) },
-  { label: "Boards", href: (s) => paths.boards.href(s) },
+  { label: "Boards", href: (s) => paths.boards.href(s), within: /^\/boards\/(new|[^/]+(\/setup)?)$/ },
   { label: "Quick log", href: (s) => paths.quickLog.href(s), action: "inventory.log" },
-  { label: "Defects", href: (s) => paths.defects.href(s) },
+  { label: "Defects", href: (s) => paths.defects.href(s), within: /^\/defects\// },
   { label: "Repair plan", href: (s) => paths.repairPlan.href(s), action: "defects.manage" },
-  { label: "Readings", href: (s) => paths.readings.href(s) },
-  { label: "Return to service", href: (s) => paths.returnToService.href(s) },
+  { label: "Readings", href: (s) => paths.readings.href(s), within: /^\/readings\// },
+  {
+    label: "Return to service",
+    href: (s) => paths.returnToService.href(s),
+    within: /^\/(return-to-service\/|boards\/[^/]+\/(return-to-service|watch)(\/|$))/,
+  },
   { label: "Photo desk", href: (s) => paths.photos.href(s), action: "photos.file" },
   { label: "Shoot list", href: (s) => paths.photoShootList.href(s), action: "photos.file" },
   { label: "Photos", href: (s) => paths.photoGallery.href(s) },
-  { label: "Wanted parts", href: (s) => paths.parts.href(s) },
+  { label: "Wanted parts", href: (s) => paths.parts.href(s), within: /^\/parts\// },
   { label: "Reports", href: (s) => paths.reports.href(s) },
   { label: "Scan tag", href: () => paths.scan.href() },
   { label: "Flood record", href: (s) => paths.floodEvents.href(s), action: "inventory.curate" },
@@ -38,6 +47,12 @@ const PHONE_BAR: Record<Who, string[]> = {
   photographer: ["Photo desk", "Shoot list", "Boards", "Overview"],
   scrounger: ["Wanted parts", "Boards", "Defects", "Overview"],
   viewer: ["Overview", "Boards", "Defects", "Readings"],
+};
+
+/** Does the item stand for the page at `pathname` (its own page is matched by the link itself)? */
+export const isWithin = (item: NavItem, siteId: string, pathname: string) => {
+  const prefix = `/sites/${siteId}`;
+  return pathname.startsWith(prefix + "/") && !!item.within?.test(pathname.slice(prefix.length));
 };
 
 export const visibleNav = (role: Who) => SITE_NAV.filter((n) => !n.action || can(role, n.action));

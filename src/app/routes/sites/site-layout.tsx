@@ -1,6 +1,6 @@
-import { NavLink, Outlet, useOutletContext, useParams } from "react-router";
+import { Link, NavLink, Outlet, useLocation, useOutletContext, useParams } from "react-router";
 import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
-import { phoneNav, visibleNav } from "../../../config/nav";
+import { isWithin, phoneNav, visibleNav, type NavItem } from "../../../config/nav";
 import type { SiteSummary } from "../../../schemas/sites";
 import { useSite } from "../../../features/sites/api";
 import { CurrencyProvider } from "../../../lib/money";
@@ -17,6 +17,25 @@ const phoneTab = ({ isActive }: { isActive: boolean }) =>
 
 const tab = ({ isActive }: { isActive: boolean }) =>
   `whitespace-nowrap rounded-md px-3 py-2 text-sm font-semibold no-underline ${isActive ? "bg-hull-700 text-brass-300" : "text-mist hover:text-chalk"}`;
+
+/**
+ * A link of the site's navigation: marked as the page itself on its own page (`aria-current="page"`), and as where one
+ * is (`aria-current="true"`) on the pages it stands for (a board, a defect, a board's readings: `within`).
+ */
+function SiteTab({ item, siteId, look }: { item: NavItem; siteId: string; look: typeof tab }) {
+  const { pathname } = useLocation();
+  if (isWithin(item, siteId, pathname))
+    return (
+      <Link to={item.href(siteId)} aria-current="true" className={look({ isActive: true })}>
+        {item.label}
+      </Link>
+    );
+  return (
+    <NavLink to={item.href(siteId)} end className={look}>
+      {item.label}
+    </NavLink>
+  );
+}
 
 export default function SiteLayout() {
   const { siteId = "" } = useParams();
@@ -39,9 +58,7 @@ export default function SiteLayout() {
         </p>
         <nav aria-label="Site" className="-mx-1 hidden flex-wrap gap-1 py-2 md:flex">
           {nav.map((n) => (
-            <NavLink key={n.label} to={n.href(siteId)} end className={tab}>
-              {n.label}
-            </NavLink>
+            <SiteTab key={n.label} item={n} siteId={siteId} look={tab} />
           ))}
         </nav>
       </div>
@@ -50,9 +67,7 @@ export default function SiteLayout() {
         className="no-print fixed inset-x-0 bottom-0 z-30 flex gap-1 border-t border-hull-700 bg-hull-900 px-1 py-1 md:hidden"
       >
         {phone.bar.map((n) => (
-          <NavLink key={n.label} to={n.href(siteId)} end className={phoneTab}>
-            {n.label}
-          </NavLink>
+          <SiteTab key={n.label} item={n} siteId={siteId} look={phoneTab} />
         ))}
         {phone.more.length > 0 && (
           <details className="relative min-w-0 flex-1">
@@ -61,9 +76,7 @@ export default function SiteLayout() {
             </summary>
             <div className="absolute bottom-12 right-0 flex w-48 flex-col rounded-md bg-hull-800 p-1 ring-1 ring-hull-600">
               {phone.more.map((n) => (
-                <NavLink key={n.label} to={n.href(siteId)} end className={tab}>
-                  {n.label}
-                </NavLink>
+                <SiteTab key={n.label} item={n} siteId={siteId} look={tab} />
               ))}
             </div>
           </details>
