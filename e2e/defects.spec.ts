@@ -217,10 +217,12 @@ test.describe("on a phone", () => {
     for (const label of ["Board", "Position", "Due", "Assignee"])
       await expect(first.getByText(label, { exact: true })).toBeVisible();
 
+    // One change straight after the other: each is merged into the view as it is then, so both hold.
     await page.getByLabel("Sort by").selectOption({ label: "Due" });
-    await expect(page).toHaveURL(/sort=dueOn/);
     await page.getByLabel("Direction").selectOption("asc");
+    await expect(page).toHaveURL(/sort=dueOn/);
     await expect(page).toHaveURL(/dir=asc/);
+    await expect(page.getByLabel("Sort by")).toHaveValue("dueOn");
     // The cards come in due-date order, earliest first, the undated after them.
     await expect
       .poll(async () => {

@@ -60,7 +60,7 @@ export default function PartsListPage() {
       <PartsFilters
         value={filter}
         boards={list.data?.boards ?? []}
-        onChange={(f) => setFilter({ ...f, page: undefined })}
+        onChange={(change) => setFilter({ ...change, page: undefined })}
       />
       {list.isPending && <Loading what="Gathering the wanted list" />}
       {(list.isLoadingError || serverRefused(list.error)) && <ErrorPanel error={list.error} />}
@@ -73,13 +73,13 @@ export default function PartsListPage() {
               busy={list.isPlaceholderData}
               sort={filter.sort}
               dir={filter.dir}
-              onSort={(sort, dir) => setFilter({ ...filter, sort, dir, page: undefined })}
+              onSort={(change) => setFilter({ ...change, page: undefined })}
             />
             <PartsPager
               total={list.data.total}
               page={list.data.page}
               size={list.data.size}
-              onPage={(page, size) => setFilter({ ...filter, page, size })}
+              onPage={(page, size) => setFilter({ page, size })}
             />
           </>
         ) : (

@@ -205,7 +205,7 @@ export function RegisterCards(props: RegisterRowsProps) {
         sort={state.sort}
         dir={state.dir}
         label={label}
-        onChange={(sort, dir) => onState({ sort, dir, page: 0 })}
+        onChange={(change) => onState({ ...change, page: 0 })}
       />
       <ul
         className={`space-y-3 ${busy ? "opacity-60" : ""}`}

@@ -16,10 +16,11 @@ export function PartsFilters({
 }: {
   value: ListQuery;
   boards: Array<{ id: string; name: string }>;
-  onChange: (f: ListQuery) => void;
+  /** The field changed, merged by the caller into the list's current view. */
+  onChange: (change: Partial<ListQuery>) => void;
 }) {
   const set = (k: keyof ListQuery) => (e: React.ChangeEvent<HTMLSelectElement>) =>
-    onChange({ ...value, [k]: e.target.value || undefined });
+    onChange({ [k]: e.target.value || undefined });
   return (
     <fieldset className="no-print grid grid-cols-2 gap-3 md:grid-cols-5">
       <legend className="sr-only">Filter the wanted list</legend>
@@ -31,11 +32,11 @@ export function PartsFilters({
           defaultValue={value.q ?? ""}
           placeholder="W-12, maker, model, frame…"
           onKeyDown={(e) => {
-            if (e.key === "Enter") onChange({ ...value, q: e.currentTarget.value.trim() || undefined });
+            if (e.key === "Enter") onChange({ q: e.currentTarget.value.trim() || undefined });
           }}
           onBlur={(e) => {
             if ((e.currentTarget.value.trim() || undefined) !== value.q)
-              onChange({ ...value, q: e.currentTarget.value.trim() || undefined });
+              onChange({ q: e.currentTarget.value.trim() || undefined });
           }}
         />
       </label>

@@ -14,7 +14,8 @@ interface Props {
   busy?: boolean;
   sort?: PartSort;
   dir?: "asc" | "desc";
-  onSort: (sort: PartSort, dir: "asc" | "desc") => void;
+  /** A change of the sort, the key or the direction or both, merged by the caller into the list's current view. */
+  onSort: (change: { sort?: PartSort; dir?: "asc" | "desc" }) => void;
 }
 
 /**
@@ -54,7 +55,7 @@ export function PartsTable({ siteId, lines, busy = false, sort, dir, onSort }: P
     state: { sorting },
     onSortingChange: (u) => {
       const next = functionalUpdate(u, sorting)[0];
-      onSort((next?.id ?? "created") as PartSort, next?.desc ? "desc" : "asc");
+      onSort({ sort: (next?.id ?? "created") as PartSort, dir: next?.desc ? "desc" : "asc" });
     },
   });
   if (!wide) {
