@@ -121,6 +121,8 @@ test("the curator places a defect after another with a reason and the order show
 }) => {
   await signIn(page, "curator");
   await openRegister(page);
+  // The count can show before the rows are drawn: read the refs once the rows are there.
+  await expect(page.locator("tbody a[data-row-link]").nth(1)).toBeAttached();
   const all = await refs(page);
   const target = all[1];
   // The 14th row, reached with the keyboard: below the box's view, so the box scrolls to it on the way. In
