@@ -19,6 +19,9 @@ test("a volunteer records three insulation readings on different days and temper
   await signIn(page, "volunteer");
   await openMainBoard(page);
   await expect(page.getByRole("note", { name: "Safety notice" }).first()).toBeVisible();
+  // One caution on the page: the ground-lamp card leaves its own out under the page's (it keeps it on the board).
+  await expect(page.getByRole("heading", { name: "Latest ground-lamp check" })).toBeVisible();
+  await expect(page.getByRole("note", { name: "Safety notice" })).toHaveCount(1);
   const form = page.getByRole("form", { name: "Record an insulation-resistance reading" });
   // NETA Table 100.14 solid multipliers (from memory, see tests/domain): 10 °C 0.63, 20 °C 1.00, 30 °C 1.58.
   // ANSI/NETA MTS-2019 Table 100.1: a 450 V board uses the 600 V row, minimum 100 MΩ.

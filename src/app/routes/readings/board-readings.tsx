@@ -76,7 +76,7 @@ export default function BoardReadingsPage() {
       </p>
       <h1 className="text-2xl font-bold">Readings · {board.name}</h1>
       <SafetyNotice />
-      <LatestGroundCheck siteId={site.id} boardId={boardId} />
+      <LatestGroundCheck siteId={site.id} boardId={boardId} caution={false} />
       {can(role, "readings.record") && (
         <RecordPanel
           siteId={site.id}

@@ -5,9 +5,19 @@ import { GroundCheckCard } from "./ground-check-history";
 
 /**
  * Self-contained: the board page composes it with just the site and board ids.
- * Shows the latest ground-lamp check with the suspected phase in words.
+ * Shows the latest ground-lamp check with the suspected phase in words, and the safety caution with it
+ * unless the page around it shows the caution already (`caution={false}`: the board's readings page
+ * has it just above, and two notices back to back read as noise).
  */
-export function LatestGroundCheck({ siteId, boardId }: { siteId: string; boardId: string }) {
+export function LatestGroundCheck({
+  siteId,
+  boardId,
+  caution = true,
+}: {
+  siteId: string;
+  boardId: string;
+  caution?: boolean;
+}) {
   const latest = useLatestGroundCheck(siteId, boardId);
   return (
     <section
@@ -21,7 +31,7 @@ export function LatestGroundCheck({ siteId, boardId }: { siteId: string; boardId
       {(latest.isLoadingError || serverRefused(latest.error)) && <ErrorPanel error={latest.error} />}
       {latest.data === null && <p className="text-mist">No ground-lamp check recorded on this board yet.</p>}
       {latest.data && <GroundCheckCard check={latest.data} />}
-      <SafetyNotice compact />
+      {caution && <SafetyNotice compact />}
     </section>
   );
 }
