@@ -6,6 +6,8 @@ async function openRegister(page: Page) {
   await page.getByRole("link", { name: "Defects", exact: true }).first().click();
   await expect(page.getByRole("heading", { level: 1, name: "Defect register" })).toBeVisible();
   await expect(page.getByRole("status").filter({ hasText: /Showing/ })).toBeVisible();
+  // The count can show a render before the rows (cards on a phone) are drawn: every caller uses them next.
+  await expect(page.locator("tbody tr[data-index], [data-testid=defect-card]").first()).toBeAttached();
 }
 /** "" when the register's rows are in the Due column's shown order with blanks last; else what is wrong. */
 async function dueOrderProblem(page: Page): Promise<string> {
