@@ -1,10 +1,13 @@
 import { expect, test } from "@playwright/test";
+import { expectNoSeriousA11yViolations } from "./support/a11y";
 import { signIn } from "./support/auth";
 import { uniqueEmail } from "./support/mailbox";
 
 test.use({ viewport: { width: 360, height: 740 } });
 
-test("the instance admin makes a site and an account; a refused field says why beside it", async ({ page }) => {
+test("the instance admin makes a site and an account, a refused field says why beside it, and the account is listed", async ({
+  page,
+}) => {
   await signIn(page, "admin");
   await page.goto("/admin");
   await expect(page.getByRole("heading", { name: "Instance administration" })).toBeVisible();
@@ -30,4 +33,14 @@ test("the instance admin makes a site and an account; a refused field says why b
   await accountForm.getByRole("button", { name: "Create account" }).click();
   await expect(page.getByRole("status")).toHaveText(`Account ${email} created.`);
   await expect(accountForm.getByText("Use at least 10 characters")).toHaveCount(0);
+  // The list of accounts takes the new one in, with no site yet; the demo's curator with her site and role.
+  const accounts = page.getByRole("region", { name: /Accounts on this instance/ });
+  await expect(accounts.getByTestId("account").filter({ hasText: email })).toContainText("No site yet");
+  await expect(accounts.getByTestId("account").filter({ hasText: "curator@tideline.test" })).toContainText(
+    "MV Kestrel Lantern: curator",
+  );
+  await expect(accounts.getByTestId("account").filter({ hasText: "admin@tideline.test" })).toContainText(
+    "Acts as curator on every site",
+  );
+  await expectNoSeriousA11yViolations(page, "instance administration");
 });

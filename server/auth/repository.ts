@@ -37,3 +37,12 @@ export const replacePasswordHash = async (db: Db, userId: string, fromHash: stri
 
 export const findUserById = (db: Db, userId: string) =>
   db.selectFrom("users").selectAll().where("id", "=", userId).executeTakeFirst();
+
+/** Every account of the instance, for its admins: no password hash. */
+export const listUsers = (db: Db) =>
+  db
+    .selectFrom("users")
+    .select(["id", "email", "name", "isAdmin", "createdAt"])
+    .orderBy(sql`lower(name)`)
+    .orderBy("email")
+    .execute();

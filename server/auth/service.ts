@@ -6,7 +6,7 @@ import type { MailDeps } from "../mail/mailer";
 import { sendSignInLockedAlert } from "./alerts";
 import type { AppLucia } from "./lucia";
 import { verifyPassword } from "./password";
-import { findUserByEmail, findUserById, insertUser, setPasswordHash } from "./repository";
+import { findUserByEmail, findUserById, insertUser, listUsers, setPasswordHash } from "./repository";
 import { accountKey, countFailure, LIMITS, refuseIfSpent, type Limiters } from "./throttle";
 
 /**
@@ -60,6 +60,8 @@ export const accountByEmail = (db: Db, email: string) => findUserByEmail(db, ema
 
 /** The account with this id, or undefined. */
 export const accountById = (db: Db, userId: string) => findUserById(db, userId);
+/** Every account, by name (the instance admin's list). */
+export const allAccounts = (db: Db) => listUsers(db);
 
 /** Adds an account (sign-up paths: an admin's form, an accepted invitation); the caller audits. */
 export const addAccount = (

@@ -1,5 +1,6 @@
 import type { SiteRole } from "../../src/domain/permissions";
 import type { Role } from "../../src/domain/vocab";
+import { allAccounts } from "../auth/service";
 import type { Db } from "../db";
 import * as repo from "./repository";
 
@@ -23,6 +24,24 @@ export const siteName = (db: Db, siteId: string) => repo.siteName(db, siteId);
 export const membershipsOf = (db: Db, userId: string) => repo.listMembershipsOfUser(db, userId);
 
 export const listMembers = (db: Db, siteId: string) => repo.listMembers(db, siteId);
+
+/**
+ * Every account of the instance (the auth domain's list) with the sites each is a member of and the role there:
+ * the instance admin's list. Two statements, whatever the number of accounts.
+ */
+export async function accountsWithSites(db: Db) {
+  const [accounts, memberships] = await Promise.all([allAccounts(db), repo.listAllMemberships(db)]);
+  const bySite = new Map<string, typeof memberships>();
+  for (const m of memberships) bySite.set(m.userId, [...(bySite.get(m.userId) ?? []), m]);
+  return accounts.map((a) => ({
+    id: a.id,
+    email: a.email,
+    name: a.name,
+    isAdmin: a.isAdmin,
+    createdAt: a.createdAt.toISOString(),
+    sites: (bySite.get(a.id) ?? []).map(({ siteId, siteName, role }) => ({ siteId, siteName, role })),
+  }));
+}
 
 /**
  * Each site's role of the person whose `users` row the outer statement reads, as one subquery: the

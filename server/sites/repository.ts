@@ -31,6 +31,15 @@ export const listMembershipsOfUser = (db: Db, userId: string) =>
     .orderBy("sites.name")
     .execute();
 
+/** Every membership of the instance with its site's name, by site name (the instance admin's list of accounts). */
+export const listAllMemberships = (db: Db) =>
+  db
+    .selectFrom("memberships")
+    .innerJoin("sites", "sites.id", "memberships.siteId")
+    .select(["memberships.userId", "memberships.siteId", "sites.name as siteName", "memberships.role"])
+    .orderBy("sites.name")
+    .execute();
+
 export const listAllSites = (db: Db) => db.selectFrom("sites").select(siteCols).orderBy("sites.name").execute();
 
 export const findSite = (db: Db, siteId: string) =>

@@ -65,6 +65,11 @@ export function siteRoutes(db: Db) {
     res.json({ members: await reads.listMembers(db, siteId) });
   });
 
+  // The instance's accounts with their sites and roles, for its admins (who create accounts and may help any crew).
+  r.get("/admin/users", requireAdmin, async (_req, res) => {
+    res.json({ users: await reads.accountsWithSites(db) });
+  });
+
   r.post("/admin/users", requireAdmin, async (req, res) => {
     const user = await service.createUser(db, createUserBody.parse(req.body), res.locals.user!.id);
     res.status(201).json({ user });

@@ -58,6 +58,17 @@ export type Member = z.infer<typeof memberSchema>;
 
 export const changeRoleBody = z.object({ role: z.enum(ROLES) });
 
+/** An account as the instance admin's list shows it: who, whether an instance admin, and each site with the role. */
+export const accountSchema = z.object({
+  id: text(),
+  email: text(),
+  name: text(),
+  isAdmin: z.boolean(),
+  createdAt: text(),
+  sites: z.array(z.object({ siteId: text(), siteName: text(), role: z.enum(ROLES) })),
+});
+export type Account = z.infer<typeof accountSchema>;
+
 export const createUserBody = z.object({
   email: text().trim().toLowerCase().email({ message: "Enter an e-mail address" }),
   name: text().trim().min(1).max(200),

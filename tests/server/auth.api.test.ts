@@ -152,6 +152,42 @@ describe("roles", () => {
     expect(r.body.site.name).toBe("Pump house");
   });
 
+  it("the instance admin lists every account with its sites and roles, no password; anyone else gets 403", async () => {
+    const c = server.client();
+    await c.signIn(fx.crew.curator.email);
+    expect((await c.get("/api/admin/users")).status).toBe(403);
+    const a = server.client();
+    await a.signIn(fx.crew.admin.email);
+    const made = await a.post("/api/admin/users", {
+      email: "Listed.Person@Example.test",
+      name: "Listed Person",
+      password: "a-long-enough-one",
+    });
+    expect(made.status).toBe(201);
+    const r = await a.get("/api/admin/users");
+    expect(r.status).toBe(200);
+    const users = r.body.users as Array<Record<string, unknown>>;
+    expect(users.map((u) => u.email)).toEqual(
+      expect.arrayContaining([fx.crew.admin.email, fx.crew.curator.email, "listed.person@example.test"]),
+    );
+    const curator = users.find((u) => u.email === fx.crew.curator.email)!;
+    expect(curator).toMatchObject({
+      isAdmin: false,
+      sites: [{ siteId: fx.siteId, siteName: "Test hulk", role: "curator" }],
+    });
+    expect(users.find((u) => u.email === fx.crew.admin.email)).toMatchObject({ isAdmin: true });
+    expect(users.find((u) => u.email === "listed.person@example.test")).toMatchObject({
+      name: "Listed Person",
+      sites: [],
+    });
+    expect(new Date(String(curator.createdAt)).toISOString()).toBe(curator.createdAt);
+    for (const u of users)
+      expect(Object.keys(u).sort()).toEqual(["createdAt", "email", "id", "isAdmin", "name", "sites"]);
+    // By name, whatever the case.
+    const names = users.map((u) => String(u.name).toLowerCase());
+    expect(names).toEqual([...names].sort());
+  });
+
   it("a bad site id is a 400, not a 500", async () => {
     const c = server.client();
     await c.signIn(fx.crew.curator.email);

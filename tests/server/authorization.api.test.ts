@@ -48,6 +48,7 @@ export const ACCESS: Record<string, Access> = {
   "DELETE /api/sites/:siteId/members/:userId": CURATOR,
   "PUT /api/sites/:siteId/time-zone": CURATOR,
   "PUT /api/sites/:siteId/currency": CURATOR,
+  "GET /api/admin/users": "admin",
   "POST /api/admin/users": "admin",
   "POST /api/sites/:siteId/photos": PHOTO_UP,
   "GET /api/sites/:siteId/photos": "member",

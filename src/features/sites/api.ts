@@ -1,6 +1,6 @@
 import { queryOptions, useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
 import { z } from "zod";
-import { memberSchema, siteSchema } from "../../schemas/sites";
+import { accountSchema, memberSchema, siteSchema } from "../../schemas/sites";
 import { api } from "../../lib/api-client";
 import type { Role } from "../../domain/vocab";
 
@@ -9,6 +9,7 @@ export const siteKeys = {
   list: () => [...siteKeys.all, "list"] as const,
   detail: (siteId: string) => [...siteKeys.all, "detail", siteId] as const,
   members: (siteId: string) => [...siteKeys.all, "members", siteId] as const,
+  accounts: () => [...siteKeys.all, "accounts"] as const,
 };
 
 export const sitesQueryOptions = () =>
@@ -63,11 +64,21 @@ export function useCreateSite() {
 }
 
 export function useCreateUser() {
+  const qc = useQueryClient();
   return useMutation({
     mutationFn: (b: { email: string; name: string; password: string; isAdmin: boolean }) =>
       api.send("POST", "/api/admin/users", b, z.object({ user: z.object({ id: z.string(), email: z.string() }) })),
+    onSuccess: () => qc.invalidateQueries({ queryKey: siteKeys.accounts() }),
   });
 }
+
+/** Every account of the instance with its sites and roles (instance admins only). */
+export const useAccounts = () =>
+  useQuery({
+    queryKey: siteKeys.accounts(),
+    queryFn: ({ signal }) =>
+      api.get("/api/admin/users", z.object({ users: z.array(accountSchema) }), signal).then((d) => d.users),
+  });
 
 /** The curator sets the site's time zone: exports write local times in it and name it. */
 export function useSetTimeZone(siteId: string) {

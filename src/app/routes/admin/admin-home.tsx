@@ -6,7 +6,9 @@ import { Button } from "../../../components/button";
 import { SelectField, TextField } from "../../../components/field";
 import { fieldError, formMessage, showSaveError, useSchemaForm } from "../../../lib/form";
 import { useSession } from "../../../features/auth/api";
-import { useCreateSite, useCreateUser } from "../../../features/sites/api";
+import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
+import { ROLE_LABELS } from "../../../domain/vocab";
+import { useAccounts, useCreateSite, useCreateUser } from "../../../features/sites/api";
 import { createSiteBody, createUserBody } from "../../../schemas/sites";
 
 /** One of the admin's forms: it saves, empties itself and says what it made; a refusal goes beside the fields. */
@@ -124,7 +126,9 @@ export default function AdminHome() {
     <main id="main" className="mx-auto max-w-3xl space-y-6 p-4">
       <h1 className="text-2xl font-bold">Instance administration</h1>
       <p>
-        <Link to={paths.mailbox.href()}>Local mailbox</Link>{" "}
+        <Link to={paths.mailbox.href()} className="underline">
+          Local mailbox
+        </Link>{" "}
         <span className="text-mist">— e-mail kept by the fake mail server when SMTP_URL is unset</span>
       </p>
       {done && (
@@ -134,6 +138,44 @@ export default function AdminHome() {
       )}
       <NewSiteForm onDone={setDone} />
       <NewAccountForm onDone={setDone} />
+      <Accounts />
     </main>
+  );
+}
+
+/** Who has an account here, with each site and role: to see who can sign in before adding someone twice. */
+function Accounts() {
+  const accounts = useAccounts();
+  return (
+    <section aria-labelledby="accounts-heading" className="space-y-2">
+      <h2 id="accounts-heading" className="text-lg font-semibold">
+        Accounts on this instance{accounts.data ? ` (${accounts.data.length})` : ""}
+      </h2>
+      <p className="text-sm text-mist">
+        A curator adds an account to a site from the site&apos;s crew page, or invites someone by e-mail.
+      </p>
+      {accounts.isPending && <Loading what="Reading the accounts" />}
+      {(accounts.isLoadingError || serverRefused(accounts.error)) && <ErrorPanel error={accounts.error} />}
+      {accounts.data && (
+        <ul className="divide-y divide-hull-700 rounded-lg bg-hull-850 ring-1 ring-hull-700">
+          {accounts.data.map((a) => (
+            <li key={a.id} className="space-y-1 p-3" data-testid="account">
+              <p className="flex flex-wrap items-baseline gap-x-3">
+                <span className="font-semibold">{a.name}</span>
+                <span className="text-sm break-all text-mist">{a.email}</span>
+                {a.isAdmin && <span className="rounded-sm bg-hull-700 px-1.5 text-xs text-chalk">Instance admin</span>}
+              </p>
+              <p className="text-sm text-mist">
+                {a.sites.length
+                  ? a.sites.map((m) => `${m.siteName}: ${ROLE_LABELS[m.role].toLowerCase()}`).join(" · ")
+                  : a.isAdmin
+                    ? "Acts as curator on every site"
+                    : "No site yet"}
+              </p>
+            </li>
+          ))}
+        </ul>
+      )}
+    </section>
   );
 }
