@@ -1,6 +1,5 @@
 import type { SiteRole } from "../../src/domain/permissions";
 import type { Role } from "../../src/domain/vocab";
-import { allAccounts } from "../auth/service";
 import type { Db } from "../db";
 import * as repo from "./repository";
 
@@ -26,20 +25,23 @@ export const membershipsOf = (db: Db, userId: string) => repo.listMembershipsOfU
 export const listMembers = (db: Db, siteId: string) => repo.listMembers(db, siteId);
 
 /**
- * Every account of the instance (the auth domain's list) with the sites each is a member of and the role there:
- * the instance admin's list. Two statements, whatever the number of accounts.
+ * The accounts given (the auth domain's list, which the route reads) each with the sites it is a member of and the
+ * role there: the instance admin's list. One statement, whatever the number of accounts.
  */
-export async function accountsWithSites(db: Db) {
-  const [accounts, memberships] = await Promise.all([allAccounts(db), repo.listAllMemberships(db)]);
-  const bySite = new Map<string, typeof memberships>();
-  for (const m of memberships) bySite.set(m.userId, [...(bySite.get(m.userId) ?? []), m]);
+export async function withTheirSites(
+  db: Db,
+  accounts: Array<{ id: string; email: string; name: string; isAdmin: boolean; createdAt: Date }>,
+) {
+  const memberships = await repo.listAllMemberships(db);
+  const byAccount = new Map<string, typeof memberships>();
+  for (const m of memberships) byAccount.set(m.userId, [...(byAccount.get(m.userId) ?? []), m]);
   return accounts.map((a) => ({
     id: a.id,
     email: a.email,
     name: a.name,
     isAdmin: a.isAdmin,
     createdAt: a.createdAt.toISOString(),
-    sites: (bySite.get(a.id) ?? []).map(({ siteId, siteName, role }) => ({ siteId, siteName, role })),
+    sites: (byAccount.get(a.id) ?? []).map(({ siteId, siteName, role }) => ({ siteId, siteName, role })),
   }));
 }
 

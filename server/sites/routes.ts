@@ -7,6 +7,7 @@ import {
   siteCurrencyBody,
   siteTimeZoneBody,
 } from "../../src/schemas/sites";
+import { allAccounts } from "../auth/service";
 import type { Db } from "../db";
 import { notFound } from "../errors";
 import { requireAdmin, requireSiteRole, requireUser } from "../middleware/roles";
@@ -67,7 +68,7 @@ export function siteRoutes(db: Db) {
 
   // The instance's accounts with their sites and roles, for its admins (who create accounts and may help any crew).
   r.get("/admin/users", requireAdmin, async (_req, res) => {
-    res.json({ users: await reads.accountsWithSites(db) });
+    res.json({ users: await reads.withTheirSites(db, await allAccounts(db)) });
   });
 
   r.post("/admin/users", requireAdmin, async (req, res) => {
