@@ -34,7 +34,11 @@ export async function withTheirSites(
 ) {
   const memberships = await repo.listAllMemberships(db);
   const byAccount = new Map<string, typeof memberships>();
-  for (const m of memberships) byAccount.set(m.userId, [...(byAccount.get(m.userId) ?? []), m]);
+  for (const m of memberships) {
+    const theirs = byAccount.get(m.userId);
+    if (theirs) theirs.push(m);
+    else byAccount.set(m.userId, [m]);
+  }
   return accounts.map((a) => ({
     id: a.id,
     email: a.email,

@@ -138,7 +138,8 @@ export default function AdminHome() {
       )}
       <NewSiteForm onDone={setDone} />
       <NewAccountForm onDone={setDone} />
-      <Accounts />
+      {/* Read once the session says admin: no refused read while a non-admin is sent away. */}
+      {session.data?.user.isAdmin && <Accounts />}
     </main>
   );
 }
@@ -152,7 +153,7 @@ function Accounts() {
         Accounts on this instance{accounts.data ? ` (${accounts.data.length})` : ""}
       </h2>
       <p className="text-sm text-mist">
-        A curator adds an account to a site from the site&apos;s crew page, or invites someone by e-mail.
+        A curator brings an account onto a site by inviting its e-mail from the site&apos;s crew page.
       </p>
       {accounts.isPending && <Loading what="Reading the accounts" />}
       {(accounts.isLoadingError || serverRefused(accounts.error)) && <ErrorPanel error={accounts.error} />}
