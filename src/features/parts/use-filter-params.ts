@@ -1,7 +1,7 @@
 import { useSearchParams } from "react-router";
 import { listQuery, type ListQuery } from "../../schemas/parts";
 
-/** The list's filters live in the URL, so a link (and the CSV and print buttons) show the same view. */
+/** The view a URL's query names; an unreadable one falls back to the default (the lines still open). */
 const parse = (params: URLSearchParams): ListQuery => {
   const parsed = listQuery.safeParse(Object.fromEntries(params));
   return parsed.success ? parsed.data : { status: "open" as const };
