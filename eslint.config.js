@@ -110,6 +110,18 @@ export default tseslint.config(
       ...reactHooks.configs.recommended.rules,
       // Only says the React Compiler would skip a component (TanStack Virtual); we do not run the compiler.
       "react-hooks/incompatible-library": "off",
+      // One clock on every page (DEVELOPERS.md "Every page keeps one clock"): times go through src/lib/clock.ts.
+      "no-restricted-syntax": [
+        "error",
+        {
+          selector: "CallExpression[callee.property.name=/^toLocale(Date|Time)String$/]",
+          message: "Write times with src/lib/clock.ts (stamp, dateOf, clockTime, shortDay): 24-hour, ISO day.",
+        },
+        {
+          selector: "CallExpression[callee.property.name='toLocaleString'][callee.object.type='NewExpression']",
+          message: "Write times with src/lib/clock.ts (stamp, dateOf, clockTime, shortDay): 24-hour, ISO day.",
+        },
+      ],
     },
   },
   {

@@ -1,4 +1,8 @@
 /**
+ * How every page writes a time (one convention, DEVELOPERS.md "Every page keeps one clock"): `stamp` for a record's
+ * instant, "YYYY-MM-DD HH:MM"; `dateOf` for its day alone; `clockTime` where today's time alone is the answer (the
+ * sync bar, a watch's next check); `shortDay` for a chart's axis, "5 Dec". All in the browser's own time zone.
+ *
  * When something happened on this phone, as the sync bar says it: 24-hour "HH:MM" in the phone's own time zone
  * when it was today, "YYYY-MM-DD HH:MM" when it was another day, so a crew member offline in a machinery space
  * sees at once that the copy in hand is from yesterday. 24-hour time is how watch and test logs are kept (common
@@ -22,4 +26,29 @@ export function clockTime(at: string | number | null, now: number = Date.now()):
   if (Number.isNaN(d.getTime())) return "never";
   const hm = `${two(d.getHours())}:${two(d.getMinutes())}`;
   return localDay(d) === localDay(new Date(now)) ? hm : `${localDay(d)} ${hm}`;
+}
+
+const parse = (at: string | number | Date | null | undefined): Date | null => {
+  if (at == null) return null;
+  const d = new Date(at);
+  return Number.isNaN(d.getTime()) ? null : d;
+};
+
+/** A record's instant as "YYYY-MM-DD HH:MM" on the local clock, 24-hour; `none` for none. */
+export function stamp(at: string | number | Date | null | undefined, none = "—"): string {
+  const d = parse(at);
+  return d ? `${localDay(d)} ${two(d.getHours())}:${two(d.getMinutes())}` : none;
+}
+
+/** The local day of an instant as "YYYY-MM-DD" (not for DATE columns, which are days already). */
+export function dateOf(at: string | number | Date | null | undefined, none = "—"): string {
+  const d = parse(at);
+  return d ? localDay(d) : none;
+}
+
+const MONTHS = ["Jan", "Feb", "Mar", "Apr", "May", "Jun", "Jul", "Aug", "Sep", "Oct", "Nov", "Dec"];
+/** A chart axis's day: "5 Dec" (the day, then the month's three-letter English abbreviation). */
+export function shortDay(at: string | number | Date): string {
+  const d = parse(at);
+  return d ? `${d.getDate()} ${MONTHS[d.getMonth()]}` : "";
 }

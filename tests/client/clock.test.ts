@@ -2,9 +2,11 @@
  * The sync bar's clock (src/lib/clock.ts) against ICU: Intl.DateTimeFormat with a 24-hour cycle ("h23") in the
  * same time zone, read part by part, is the reference for every instant checked. The zones are set on the process
  * (Node applies a new `process.env.TZ` at once) and include daylight-saving changes and a half-hour offset.
+ * The pages' record times (`stamp`, `dateOf`) and a chart's axis day (`shortDay`) are checked the same way; the
+ * axis's month against ICU's en-US short month names ("Sep", where en-GB now writes "Sept").
  */
 import { afterAll, describe, expect, it } from "vitest";
-import { clockTime, localDay } from "../../src/lib/clock";
+import { clockTime, dateOf, localDay, shortDay, stamp } from "../../src/lib/clock";
 
 const ZONES = ["UTC", "Europe/Lisbon", "America/New_York", "Asia/Kolkata", "Australia/Adelaide"];
 const before = process.env.TZ;
@@ -52,5 +54,31 @@ describe.each(ZONES)("clockTime in %s", (zone) => {
     expect(clockTime(midnight, new Date(2026, 11, 5, 9, 0).getTime())).toBe("2026-12-04 00:05");
     expect(clockTime(null)).toBe("never");
     expect(clockTime("not a time")).toBe("never");
+  });
+});
+
+describe.each(ZONES)("stamp, dateOf and shortDay in %s", (zone) => {
+  it("write a record's instant as YYYY-MM-DD HH:MM and its day as YYYY-MM-DD, as ICU reads the local fields", () => {
+    process.env.TZ = zone;
+    const parts = reference();
+    const axis = new Intl.DateTimeFormat("en-US", { day: "numeric", month: "short" });
+    const start = Date.UTC(2026, 0, 1);
+    for (let ms = start; ms < start + 366 * 86_400_000; ms += 97 * 60_000) {
+      const p = parts(ms);
+      expect(stamp(ms)).toBe(`${p.year}-${p.month}-${p.day} ${p.hour}:${p.minute}`);
+      expect(stamp(new Date(ms).toISOString())).toBe(stamp(ms));
+      expect(dateOf(ms)).toBe(`${p.year}-${p.month}-${p.day}`);
+      const a = Object.fromEntries(axis.formatToParts(ms).map((x) => [x.type, x.value]));
+      expect(shortDay(ms)).toBe(`${a.day} ${a.month}`);
+    }
+  });
+
+  it("say a dash (or what the page asks) for no time or a broken one", () => {
+    process.env.TZ = zone;
+    expect(stamp(null)).toBe("—");
+    expect(stamp(undefined, "")).toBe("");
+    expect(stamp("not a time")).toBe("—");
+    expect(dateOf(null)).toBe("—");
+    expect(shortDay("not a time")).toBe("");
   });
 });

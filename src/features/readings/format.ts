@@ -2,15 +2,8 @@
 export const sig = (n: number, digits = 3) => Number(n.toPrecision(digits)).toLocaleString("en-GB");
 export const megohms = (n: number | null, qualifier?: "at_or_above" | "below" | null) =>
   n == null ? "—" : `${qualifier === "at_or_above" ? "≥ " : qualifier === "below" ? "≤ " : ""}${sig(n)} MΩ`;
-export const when = (iso: string) =>
-  new Date(iso).toLocaleString("en-GB", {
-    day: "numeric",
-    month: "short",
-    year: "numeric",
-    hour: "2-digit",
-    minute: "2-digit",
-  });
-export const day = (ms: number) => new Date(ms).toLocaleDateString("en-GB", { day: "numeric", month: "short" });
+/** Times as every page writes them (src/lib/clock.ts): "2026-12-05 07:18"; a chart's axis "5 Dec". */
+export { stamp as when, shortDay as day } from "../../lib/clock";
 
 /** "2026-11-20T09:30" for a datetime-local input, in the browser's time zone. */
 export function localNow(d = new Date()) {

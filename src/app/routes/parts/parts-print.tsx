@@ -7,6 +7,7 @@ import { PrintSheet } from "../../../features/parts/components/print-sheet";
 import { useFilterParams } from "../../../features/parts/use-filter-params";
 import type { PartLine } from "../../../schemas/parts";
 import { useSiteContext } from "../sites/site-layout";
+import { dateOf } from "../../../lib/clock";
 
 /**
  * The positions a card names: the row's first few (a row carries LINKS_IN_ROW) and how many more the line has,
@@ -36,8 +37,8 @@ export default function PartsPrintPage() {
       </div>
       <h1 className="text-2xl font-bold print:text-black">Parts wanted for {site.name}</h1>
       <p className="text-mist print:text-black">
-        Printed {new Date().toLocaleDateString()}. Shapes mark the heritage rule: ◆ original pattern only, ◈ period
-        equivalent acceptable, ○ modern equivalent acceptable.
+        Printed {dateOf(new Date())}. Shapes mark the heritage rule: ◆ original pattern only, ◈ period equivalent
+        acceptable, ○ modern equivalent acceptable.
       </p>
       {list.isPending && <Loading />}
       {(list.isLoadingError || serverRefused(list.error)) && <ErrorPanel error={list.error} />}

@@ -11,8 +11,7 @@ import { StageCard } from "../../../features/return-to-service/components/stage-
 import { BreakerOperations } from "../../../features/return-to-service/components/breaker-operations";
 import { RtsCaution } from "../../../features/return-to-service/components/rts-caution";
 import { useSiteContext } from "../sites/site-layout";
-
-const when = (iso: string) => new Date(iso).toLocaleString(undefined, { dateStyle: "medium", timeStyle: "short" });
+import { stamp as when } from "../../../lib/clock";
 
 export default function BoardReturnToServicePage() {
   const { site, role } = useSiteContext();

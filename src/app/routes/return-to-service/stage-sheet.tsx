@@ -4,6 +4,7 @@ import { paths } from "../../../config/paths";
 import { SUPPLY_LABELS, VOLTAGE_STEP_LABELS } from "../../../domain/return-to-service";
 import { useRtsBoard } from "../../../features/return-to-service/api";
 import { useSiteContext } from "../sites/site-layout";
+import { stamp } from "../../../lib/clock";
 
 /** The stage on paper for the clipboard: hold points with blank lines for signatures. Prints in black on white. */
 export default function StageSheetPage() {
@@ -78,7 +79,7 @@ export default function StageSheetPage() {
         </tbody>
       </table>
       <p className="text-sm">
-        Watch: {s.watchHours} h, a check every {s.checkEveryHours} h. Printed {new Date().toLocaleString()}.
+        Watch: {s.watchHours} h, a check every {s.checkEveryHours} h. Printed {stamp(new Date())}.
       </p>
     </div>
   );

@@ -10,6 +10,7 @@ import { useRecordWatchCheck, useRtsBoard } from "../../../features/return-to-se
 import { fieldError, formMessage, showSaveError, useSchemaForm } from "../../../lib/form";
 import { RtsCaution } from "../../../features/return-to-service/components/rts-caution";
 import { useSiteContext } from "../sites/site-layout";
+import { clockTime } from "../../../lib/clock";
 
 const big = "min-h-14 flex-1 rounded-md px-3 text-lg font-semibold ring-1";
 const pick = (on: boolean) => (on ? "bg-brass-400 text-hull-950 ring-brass-300" : "bg-hull-800 ring-hull-600");
@@ -124,12 +125,9 @@ export default function WatchPage() {
             <strong>{stage.name}</strong>
             <br />
             {stage.watch?.overdueSince ? (
-              <span className="font-semibold text-rust-300">
-                Overdue since{" "}
-                {new Date(stage.watch.overdueSince).toLocaleTimeString([], { hour: "2-digit", minute: "2-digit" })}
-              </span>
+              <span className="font-semibold text-rust-300">Overdue since {clockTime(stage.watch.overdueSince)}</span>
             ) : stage.watch?.nextDueAt ? (
-              `Next due ${new Date(stage.watch.nextDueAt).toLocaleTimeString([], { hour: "2-digit", minute: "2-digit" })}`
+              `Next due ${clockTime(stage.watch.nextDueAt)}`
             ) : (
               ""
             )}

@@ -13,6 +13,7 @@ import { Money } from "../../../lib/money";
 import { DEFECT_CATEGORY_LABELS, DEFECT_STATUS_LABELS } from "../../../domain/vocab";
 import type { DefectRow } from "../../../schemas/defects";
 import { SeverityBadge, StatusBadge, FlagMarks } from "./badges";
+import { dateOf as date } from "../../../lib/clock";
 
 export const registerFeatures = tableFeatures({
   rowSortingFeature,
@@ -22,8 +23,6 @@ export const registerFeatures = tableFeatures({
   rowSelectionFeature,
 });
 const col = createColumnHelper<typeof registerFeatures, DefectRow>();
-
-const date = (s: string) => s.slice(0, 10);
 
 /**
  * The least width of a column in the wide table, so a long title or board name wraps into a readable block rather than

@@ -1,7 +1,7 @@
 import { DEFECT_STATUS_LABELS, type DefectStatus } from "../../../domain/vocab";
 import type { DefectDetail } from "../../../schemas/defects";
+import { stamp as when } from "../../../lib/clock";
 
-const when = (iso: string) => iso.slice(0, 16).replace("T", " ");
 const label = (s: string | null) => (s ? (DEFECT_STATUS_LABELS[s as DefectStatus] ?? s) : "—");
 
 /** Status history (who moved it, when, why) and the record's audit trail. */

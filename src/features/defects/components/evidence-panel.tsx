@@ -3,6 +3,7 @@ import { Button } from "../../../components/button";
 import { ApiError } from "../../../lib/api-client";
 import type { DefectDetail } from "../../../schemas/defects";
 import { useEvidence, useLinkReading } from "../api";
+import { dateOf, stamp } from "../../../lib/clock";
 
 const VERDICT_WORDS: Record<string, string> = {
   meets: "✓ meets the recorded criterion",
@@ -53,7 +54,7 @@ export function EvidencePanel({
           {ev.linked.map((l) => (
             <li key={l.id} className="border-l-2 border-hull-500 pl-2">
               <span className="font-semibold">{l.role === "raised_from" ? "Raised from" : "Re-test"}:</span> {l.summary}{" "}
-              · {l.measuredAt.slice(0, 16).replace("T", " ")} · {VERDICT_WORDS[l.verdict] ?? l.verdict}
+              · {stamp(l.measuredAt)} · {VERDICT_WORDS[l.verdict] ?? l.verdict}
             </li>
           ))}
         </ul>
@@ -70,7 +71,7 @@ export function EvidencePanel({
               <option value="">Choose a reading…</option>
               {ev.candidates.map((c) => (
                 <option key={`${c.readingKind}:${c.readingId}`} value={`${c.readingKind}:${c.readingId}`}>
-                  {c.measuredAt.slice(0, 10)} · {c.summary} · {VERDICT_WORDS[c.verdict] ?? c.verdict}
+                  {dateOf(c.measuredAt)} · {c.summary} · {VERDICT_WORDS[c.verdict] ?? c.verdict}
                 </option>
               ))}
             </select>

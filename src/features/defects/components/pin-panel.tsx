@@ -6,8 +6,7 @@ import { fieldError, formMessage, showSaveError, useSchemaForm } from "../../../
 import { text } from "../../../schemas/common";
 import { pinBody, type DefectDetail } from "../../../schemas/defects";
 import { findByRef, usePinDefect, useUnpinDefect } from "../api";
-
-const when = (iso: string) => iso.slice(0, 16).replace("T", " ");
+import { stamp as when } from "../../../lib/clock";
 
 /**
  * The form's text → pinBody's direction and reason (the server's own rules) and the reference typed;

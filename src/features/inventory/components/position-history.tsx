@@ -1,15 +1,7 @@
 import { CONTAMINANT_LABELS, CUSTODY_LABELS, INSULATION_STATE_LABELS, MECHANISM_LABELS } from "../../../domain/vocab";
 import type { AuditRow, CustodyMove, Inspection } from "../contract";
 import { gradeTone } from "./tile-style";
-
-export const when = (iso: string) =>
-  new Date(iso).toLocaleString(undefined, {
-    day: "numeric",
-    month: "short",
-    year: "numeric",
-    hour: "2-digit",
-    minute: "2-digit",
-  });
+import { stamp as when } from "../../../lib/clock";
 
 const val = (v: unknown): string => {
   if (v === null || v === undefined || v === "") return "—";

@@ -5,9 +5,7 @@ import { ROLE_LABELS } from "../../../domain/vocab";
 import { ApiError } from "../../../lib/api-client";
 import type { Invitation } from "../../../schemas/invitations";
 import { useInvitationMutations, useInvitations } from "../api";
-
-const day = (iso: string) =>
-  new Date(iso).toLocaleDateString(undefined, { day: "numeric", month: "short", year: "numeric" });
+import { dateOf as day } from "../../../lib/clock";
 
 /** State in words and a glyph, never by colour alone. */
 function SendState({ inv }: { inv: Invitation }) {

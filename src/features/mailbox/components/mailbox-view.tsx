@@ -4,8 +4,8 @@ import { EmptyState, ErrorPanel, Loading, serverRefused } from "../../../compone
 import { ApiError } from "../../../lib/api-client";
 import type { MailboxMessage } from "../../../schemas/mailbox";
 import { useEmptyMailbox, useMailbox } from "../api";
+import { stamp as time } from "../../../lib/clock";
 
-const time = (iso: string) => new Date(iso).toLocaleString(undefined, { dateStyle: "medium", timeStyle: "short" });
 const linksIn = (text: string) => [...new Set(text.match(/https?:\/\/[^\s<>"]+/g) ?? [])];
 
 function Message({ m }: { m: MailboxMessage }) {

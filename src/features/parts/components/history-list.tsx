@@ -1,5 +1,6 @@
 import { PART_STATUS_LABELS } from "../../../domain/vocab";
 import type { LineDetail } from "../../../schemas/parts";
+import { stamp } from "../../../lib/clock";
 
 export function HistoryList({ history }: { history: LineDetail["history"] }) {
   return (
@@ -11,7 +12,7 @@ export function HistoryList({ history }: { history: LineDetail["history"] }) {
         {history.map((h) => (
           <li key={h.id} className="text-sm">
             <time dateTime={h.at} className="font-mono text-fog">
-              {new Date(h.at).toLocaleString()}
+              {stamp(h.at)}
             </time>{" "}
             {h.fromStatus && h.toStatus && (
               <span className="font-semibold">

@@ -6,6 +6,7 @@ import { ApiError } from "../../../lib/api-client";
 import { fieldError, formMessage, showSaveError, useSchemaForm } from "../../../lib/form";
 import { shareLinkBody } from "../../../schemas/parts";
 import { useCreateShareLink, useRevokeShareLink, useShareLinks } from "../api";
+import { dateOf } from "../../../lib/clock";
 
 /** Links for partner organisations: specifications, quantities and photos only. Curators withdraw them. */
 export function ShareLinksPanel({ siteId, canRevoke }: { siteId: string; canRevoke: boolean }) {
@@ -82,7 +83,7 @@ export function ShareLinksPanel({ siteId, canRevoke }: { siteId: string; canRevo
             <span className="flex-1">
               {l.label || "Unlabelled link"}{" "}
               <span className="text-sm text-fog">
-                · {new Date(l.createdAt).toLocaleDateString()}
+                · {dateOf(l.createdAt)}
                 {l.createdByName ? ` · ${l.createdByName}` : ""}
               </span>
             </span>

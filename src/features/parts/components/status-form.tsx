@@ -8,8 +8,9 @@ import { blankAsNull, fieldError, formMessage, numberText, showSaveError, useSch
 import { statusBody, type LineDetail, type StatusBody } from "../../../schemas/parts";
 import { useMoveStatus } from "../api";
 import { defaultFittedHeritage } from "../../../domain/part-workflow";
+import { localDay } from "../../../lib/clock";
 
-const today = () => new Date().toISOString().slice(0, 10);
+const today = () => localDay(new Date());
 
 /**
  * The form's text → the status body; statusBody (the server's own schema) validates it. The purchase

@@ -3,9 +3,10 @@ import { PHOTO_KIND_LABELS } from "../../../domain/vocab";
 import type { Photo } from "../../../schemas/photos";
 import { photoUrl } from "../api";
 import { RenditionImage } from "./rendition-image";
+import { dateOf } from "../../../lib/clock";
 
 const label = (p: Photo) =>
-  `${PHOTO_KIND_LABELS[p.kind]} · ${new Date(p.capturedAt ?? p.createdAt).toLocaleDateString()}${p.caption ? ` · ${p.caption}` : ""}`;
+  `${PHOTO_KIND_LABELS[p.kind]} · ${dateOf(p.capturedAt ?? p.createdAt)}${p.caption ? ` · ${p.caption}` : ""}`;
 
 /** Defaults: the earliest "as found" against the latest "after work" (or the newest). */
 function defaults(photos: Photo[]) {

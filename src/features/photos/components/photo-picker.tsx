@@ -3,6 +3,7 @@ import { PHOTO_KIND_LABELS, type PhotoKind } from "../../../domain/vocab";
 import type { Photo } from "../../../schemas/photos";
 import { photoUrl, usePhotos } from "../api";
 import { RenditionImage } from "./rendition-image";
+import { stamp as when } from "../../../lib/clock";
 
 /**
  * Pick one of a component's photos of a kind (the thermal image of a scan) by its thumbnail:
@@ -32,7 +33,6 @@ export function PhotoPicker({
   const photos = [...(q.data ?? [])].sort((a, b) =>
     (b.capturedAt ?? b.createdAt).localeCompare(a.capturedAt ?? a.createdAt),
   );
-  const when = (iso: string) => new Date(iso).toLocaleString(undefined, { dateStyle: "medium", timeStyle: "short" });
   return (
     <fieldset className="sm:col-span-2" aria-describedby={error ? `${id}-error` : `${id}-hint`}>
       <legend className="text-sm font-semibold text-mist">{legend}</legend>

@@ -5,6 +5,7 @@ import { photoUrl } from "../api";
 import { PhotoTagForm } from "./photo-tag-form";
 import type { UseSiteSearch } from "./position-picker";
 import { RenditionImage } from "./rendition-image";
+import { stamp } from "../../../lib/clock";
 
 interface Props {
   siteId: string;
@@ -132,7 +133,7 @@ export function PhotoViewer({
         </button>
       </div>
       <p className="p-3 text-sm text-mist">
-        {p.caption || "No caption."} {p.capturedAt && <>· taken {new Date(p.capturedAt).toLocaleString()}</>}{" "}
+        {p.caption || "No caption."} {p.capturedAt && <>· taken {stamp(p.capturedAt)}</>}{" "}
         {p.cameraModel && <>· {p.cameraModel}</>} · {p.width}×{p.height}
       </p>
       {tagging && (

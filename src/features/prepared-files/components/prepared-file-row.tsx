@@ -2,11 +2,11 @@ import { Button } from "../../../components/button";
 import { ErrorPanel } from "../../../components/status";
 import { PREPARED_KIND_LABELS, PREPARED_STATE_LABELS, type PreparedFile } from "../../../schemas/prepared-files";
 import { inProgress, useMarkSeen, useRetryFile } from "../api";
+import { stamp } from "../../../lib/clock";
 
 const size = (n: number | null) =>
   n === null ? "" : n >= 1_048_576 ? `${(n / 1_048_576).toFixed(1)} MB` : `${Math.max(1, Math.round(n / 1024))} kB`;
-const when = (iso: string | null) =>
-  iso ? new Date(iso).toLocaleString(undefined, { dateStyle: "medium", timeStyle: "short" }) : "";
+const when = (iso: string | null) => stamp(iso, "");
 const unit = (f: PreparedFile) => (f.kind === "survey_report" ? "positions" : "rows");
 
 /** One prepared file: what it is, where it is in its making, and what the person can do with it. */

@@ -13,6 +13,7 @@ import {
 import { fetchPdf, surveyReportParams, surveyReportUrl, type Progress } from "../api";
 import { DownloadProgress } from "./download-progress";
 import { SaveLink } from "./save-link";
+import { localDay } from "../../../lib/clock";
 
 interface Props {
   siteId: string;
@@ -80,7 +81,7 @@ export function ReportForm({ siteId, siteName, boards, onPrepare, preparing = fa
     abort.current = new AbortController();
     try {
       const blob = await fetchPdf(surveyReportUrl(siteId, query), setProgress, abort.current.signal);
-      setResult({ blob, filename: `condition-survey-${slug}-${new Date().toISOString().slice(0, 10)}.pdf` });
+      setResult({ blob, filename: `condition-survey-${slug}-${localDay(new Date())}.pdf` });
     } catch (e) {
       if ((e as Error).name === "AbortError") setProgress(null);
       else setError(e);

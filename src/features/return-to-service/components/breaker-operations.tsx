@@ -17,8 +17,7 @@ import {
 import { budgetBody, operationBody, type RtsBoardView, type RtsBreaker } from "../../../schemas/return-to-service";
 import { useMediaQuery } from "../../../lib/use-media-query";
 import { useRtsAction, useRtsBoard } from "../api";
-
-const when = (iso: string) => new Date(iso).toLocaleString(undefined, { dateStyle: "medium", timeStyle: "short" });
+import { stamp as when } from "../../../lib/clock";
 
 /** The stage a new operation most likely belongs to: the live one, else the next to come. */
 const likelyStage = (view: RtsBoardView) =>

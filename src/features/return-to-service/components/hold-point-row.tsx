@@ -16,8 +16,8 @@ import {
   type RtsStep,
 } from "../../../schemas/return-to-service";
 import { useRtsAction } from "../api";
+import { stamp as when } from "../../../lib/clock";
 
-const when = (iso: string) => new Date(iso).toLocaleString(undefined, { dateStyle: "medium", timeStyle: "short" });
 const STATE_MARK: Record<HoldPoint["state"], string> = {
   met: "✔",
   released: "⚑",

@@ -1,5 +1,6 @@
 import { CartesianGrid, ResponsiveContainer, Scatter, ScatterChart, Tooltip, XAxis, YAxis } from "recharts";
 import type { RtsEvent } from "../../../schemas/return-to-service";
+import { shortDay, stamp } from "../../../lib/clock";
 
 const LANES: Array<{
   kind: RtsEvent["kind"];
@@ -38,7 +39,7 @@ export function RtsTimeline({ events }: { events: RtsEvent[] }) {
               dataKey="t"
               domain={["dataMin", "dataMax"]}
               scale="time"
-              tickFormatter={(t) => new Date(t).toLocaleDateString(undefined, { month: "short", day: "numeric" })}
+              tickFormatter={(t: number) => shortDay(t)}
               stroke="#b4c3cd"
             />
             <YAxis
@@ -59,7 +60,7 @@ export function RtsTimeline({ events }: { events: RtsEvent[] }) {
                   <div className="rounded bg-hull-950 p-2 text-sm text-chalk ring-1 ring-hull-600">
                     <p className="font-semibold">{e.title}</p>
                     <p>
-                      {new Date(e.t).toLocaleString()}
+                      {stamp(e.t)}
                       {e.by ? ` · ${e.by}` : ""}
                     </p>
                     {e.detail && <p>{e.detail}</p>}

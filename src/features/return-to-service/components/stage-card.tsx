@@ -15,6 +15,7 @@ import { useRtsAction } from "../api";
 import { HoldPointRow } from "./hold-point-row";
 import { AddHoldPoint, StageActions } from "./plan-controls";
 import { StageForm } from "./stage-form";
+import { stamp as when } from "../../../lib/clock";
 
 /** What was done about the incident → the request body; restartBody (the server's own schema) validates it. */
 const restartForm = (version: number) =>
@@ -64,8 +65,6 @@ function RestartForm({ siteId, stage, onDone }: { siteId: string; stage: RtsStag
     </form>
   );
 }
-
-const when = (iso: string) => new Date(iso).toLocaleString(undefined, { dateStyle: "medium", timeStyle: "short" });
 
 export function StageCard({
   siteId,
