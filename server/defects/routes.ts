@@ -1,5 +1,6 @@
 import { Router, type Request, type Response } from "express";
 import { z } from "zod";
+import { localDate } from "../../src/domain/local-time";
 import type { Role } from "../../src/domain/vocab";
 import {
   assignBody,
@@ -26,7 +27,7 @@ import { boardRepairPlan, detail, findingContext, formOptions, positionsOf, repa
 import { defectsOfBoardReadings, evidenceOf } from "./evidence";
 import * as service from "./service";
 import * as views from "./views";
-import { siteTimeZone } from "../sites/service";
+import { siteTimeZone, siteToday } from "../sites/reads";
 
 const site = z.object({ siteId: z.uuid() });
 const one = site.extend({ defectId: z.uuid({ message: "defectId must be a UUID" }) });
@@ -38,8 +39,8 @@ const ctxOf = (req: Request, res: Response): service.Ctx => ({
   actor: { id: res.locals.user!.id, role: res.locals.siteRole as Role | "admin" },
   notices: [],
 });
-/** The client's calendar day (for "overdue"), else the server's in UTC. */
-const todayOf = (q: { today?: string }) => q.today ?? new Date().toISOString().slice(0, 10);
+/** The client's calendar day (for "overdue"), else the site's own (read only when the client sent none). */
+const todayOf = async (db: Db, siteId: string, q: { today?: string }) => q.today ?? (await siteToday(db, siteId));
 
 export function defectRoutes(db: Db, mail?: MailDeps) {
   const r = Router();
@@ -50,14 +51,17 @@ export function defectRoutes(db: Db, mail?: MailDeps) {
 
   r.get(base, member, async (req, res) => {
     const f = listQuery.parse(req.query);
-    const { rows, total } = await registerPage(db, ctxOf(req, res).siteId, f, todayOf(f));
+    const { siteId } = ctxOf(req, res);
+    const { rows, total } = await registerPage(db, siteId, f, await todayOf(db, siteId, f));
     res.json({ rows: rows.map(toJson), total, page: f.page, size: f.size });
   });
 
   r.get(`${base}.csv`, member, limitExports(db), async (req, res) => {
     const f = listQuery.parse(req.query);
     const { siteId } = ctxOf(req, res);
-    await streamCsv(db, siteId, await siteTimeZone(db, siteId), f, todayOf(f), res, `defects-${todayOf(f)}.csv`);
+    const zone = await siteTimeZone(db, siteId);
+    const today = f.today ?? localDate(new Date(), zone);
+    await streamCsv(db, siteId, zone, f, today, res, `defects-${today}.csv`);
   });
 
   r.get(`${base}/options`, member, async (req, res) => {

@@ -2,7 +2,7 @@ import { INVITATION_DAYS } from "../../src/schemas/invitations";
 import type { Role } from "../../src/domain/vocab";
 import { recordAudit } from "../audit";
 import { accountByEmail } from "../auth/service";
-import { siteName } from "../sites/reads";
+import { siteName, siteTimeZone } from "../sites/reads";
 import type { Db } from "../db";
 import { AppError, conflict, notFound } from "../errors";
 import type { MailDeps } from "../mail/mailer";
@@ -74,6 +74,7 @@ async function message(deps: MailDeps, db: Db, p: Delivering) {
     inviterName: p.inviterName,
     url: inviteUrl(deps.publicUrl, p.token),
     expiresAt: p.expiresAt,
+    timeZone: await siteTimeZone(db, p.siteId),
   });
   return { to: p.email, ...msg, fromName: `${p.inviterName} via Tideline` };
 }

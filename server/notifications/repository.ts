@@ -49,7 +49,7 @@ export const curatorIds = async (db: Db, siteId: string) =>
       .execute()
   ).map((c) => c.userId);
 
-export const allSites = (db: Db) => db.selectFrom("sites").select(["id", "name"]).orderBy("name").execute();
+export const allSites = (db: Db) => db.selectFrom("sites").select(["id", "name", "timeZone"]).orderBy("name").execute();
 
 export const curatorAddresses = (db: Db, siteId: string) =>
   db

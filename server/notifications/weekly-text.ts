@@ -2,6 +2,7 @@
  * The weekly summary's words, from numbers already counted: pure (no I/O, no clock),
  * so the wording is tested on its own (tests/server/weekly-text.test.ts).
  */
+import { localDate } from "../../src/domain/local-time";
 import { DEFECT_STATUS_LABELS, type DefectStatus } from "../../src/domain/vocab";
 import { compose, type Composed } from "../mail/compose";
 
@@ -17,6 +18,8 @@ export interface BlockerLine extends DefectLine {
 }
 export interface WeeklyInput {
   siteName: string;
+  /** The site's IANA time zone: the week's days are written on its calendar. */
+  timeZone: string;
   from: Date;
   to: Date;
   siteUrl: string;
@@ -28,7 +31,6 @@ export interface WeeklyInput {
 }
 
 export const LIST_LIMIT = 10;
-const day = (d: Date) => d.toISOString().slice(0, 10);
 const plural = (n: number, one: string, many = `${one}s`) => `${n} ${n === 1 ? one : many}`;
 const where = (d: DefectLine) => (d.designation ? `${d.board} ${d.designation}` : d.board);
 
@@ -49,7 +51,7 @@ export function buildWeeklySummary(w: WeeklyInput): Composed {
   const i = w.inspections;
   const quiet = i.total === 0 && w.opened.count === 0 && w.closed.count === 0;
   const body: Array<string | string[]> = [
-    `Between ${day(w.from)} and ${day(w.to)} on ${w.siteName}:`,
+    `Between ${localDate(w.from, w.timeZone)} and ${localDate(w.to, w.timeZone)} on ${w.siteName}:`,
     [
       `Surveyed: ${plural(i.total, "inspection")} logged on ${plural(i.positions, "position")}`,
       `Defects opened: ${w.opened.count}`,
@@ -83,7 +85,7 @@ export function buildWeeklySummary(w: WeeklyInput): Composed {
       "No unresolved defect is marked as blocking re-energisation or safety-critical. That is not a statement that any board is safe to energise: a qualified person decides.",
     );
   return compose({
-    subject: `Tideline weekly: ${w.siteName}, ${day(w.from)} to ${day(w.to)}${w.blockers.count ? ` — ${plural(w.blockers.count, "blocker")}` : ""}`,
+    subject: `Tideline weekly: ${w.siteName}, ${localDate(w.from, w.timeZone)} to ${localDate(w.to, w.timeZone)}${w.blockers.count ? ` — ${plural(w.blockers.count, "blocker")}` : ""}`,
     greeting: "Hello,",
     body,
     action: { label: `Open ${w.siteName}`, url: w.siteUrl },

@@ -24,7 +24,7 @@ const asSet = <T extends { total: number }>(rows: T[]) => ({ count: rows[0]?.tot
 
 export async function gatherWeek(
   db: Db,
-  site: { id: string; name: string },
+  site: { id: string; name: string; timeZone: string },
   now: Date,
   publicUrl: string,
 ): Promise<WeeklyInput> {
@@ -34,6 +34,7 @@ export async function gatherWeek(
   const blockers = await defectsBlocking(db, site.id);
   return {
     siteName: site.name,
+    timeZone: site.timeZone,
     from,
     to: now,
     siteUrl: `${publicUrl}${paths.site.href(site.id)}`,

@@ -21,7 +21,7 @@ import type { Role } from "../../src/domain/vocab";
 import { AppError } from "../errors";
 import { requireSiteRole } from "../middleware/roles";
 import { limitExports, runExport } from "../export-stream";
-import { siteTimeZone } from "../sites/service";
+import { siteTimeZone } from "../sites/reads";
 import { localDateTime } from "../../src/domain/local-time";
 import { nameplateThumb } from "../photos/reads";
 import * as service from "./service";

@@ -42,12 +42,13 @@ export const labelRows = (db: Db, siteId: string, q: LabelsQuery) =>
 // ── the condition survey report (server/reports/survey-data.ts) ──
 
 /** The report's optional date range (calendar days, inclusive). */
-type DateRange = { from?: string; to?: string };
+/** Days from/to (inclusive) as the site counts them: `zone` is the site's IANA time zone. */
+type DateRange = { from?: string; to?: string; zone: string };
 
 export const siteForReport = (db: Db, siteId: string) =>
   db
     .selectFrom("sites")
-    .select(["id", "name", "kind", "location", "description"])
+    .select(["id", "name", "kind", "location", "description", "timeZone"])
     .where("id", "=", siteId)
     .executeTakeFirstOrThrow();
 
@@ -79,8 +80,8 @@ export const surveyorsOf = (db: Db, boardIds: string[], q: DateRange) =>
       sql<Date>`max(i.inspected_at)`.as("last"),
     ])
     .where("p.boardId", "in", boardIds)
-    .$if(!!q.from, (w) => w.where(sql`i.inspected_at::date`, ">=", q.from!))
-    .$if(!!q.to, (w) => w.where(sql`i.inspected_at::date`, "<=", q.to!))
+    .$if(!!q.from, (w) => w.where(sql`(i.inspected_at at time zone ${q.zone})::date`, ">=", q.from!))
+    .$if(!!q.to, (w) => w.where(sql`(i.inspected_at at time zone ${q.zone})::date`, "<=", q.to!))
     .groupBy("u.name")
     .orderBy(sql`count(*)`, "desc")
     .execute();
@@ -147,8 +148,8 @@ export const latestInspectionsOfBoard = (db: Db, boardId: string, q: DateRange) 
     ])
     .distinctOn("i.positionId")
     .where("p.boardId", "=", boardId)
-    .$if(!!q.from, (w) => w.where(sql`i.inspected_at::date`, ">=", q.from!))
-    .$if(!!q.to, (w) => w.where(sql`i.inspected_at::date`, "<=", q.to!))
+    .$if(!!q.from, (w) => w.where(sql`(i.inspected_at at time zone ${q.zone})::date`, ">=", q.from!))
+    .$if(!!q.to, (w) => w.where(sql`(i.inspected_at at time zone ${q.zone})::date`, "<=", q.to!))
     .orderBy("i.positionId")
     .orderBy("i.inspectedAt", "desc")
     .orderBy("i.createdAt", "desc")

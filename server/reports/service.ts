@@ -5,6 +5,7 @@
  * flat whatever the board's size.
  */
 import { once } from "node:events";
+import { localDate } from "../../src/domain/local-time";
 import type { Writable } from "node:stream";
 import sharp from "sharp";
 import type { SurveyReportQuery } from "../../src/schemas/reports";
@@ -81,7 +82,12 @@ export async function prepareSurveyReport(
     .toLowerCase()
     .replace(/[^a-z0-9]+/g, "-")
     .replace(/^-|-$/g, "");
-  return { data, plan, title, filename: `condition-survey-${slug}-${data.generatedAt.toISOString().slice(0, 10)}.pdf` };
+  return {
+    data,
+    plan,
+    title,
+    filename: `condition-survey-${slug}-${localDate(data.generatedAt, data.site.timeZone)}.pdf`,
+  };
 }
 
 function documentFor(data: ReportData, title: string) {

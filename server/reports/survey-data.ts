@@ -18,6 +18,7 @@ import type {
 import type { Criteria, ContactReading, GroundCheck, InsulationReading, ThermalScan } from "../../src/schemas/readings";
 import type { PartLine } from "../../src/schemas/parts";
 import type { SurveyReportQuery } from "../../src/schemas/reports";
+import { localDate } from "../../src/domain/local-time";
 import type { Db } from "../db";
 import { notFound } from "../errors";
 import * as repo from "./repository";
@@ -128,7 +129,8 @@ export interface ReportBoard {
 }
 
 export interface ReportData {
-  site: { id: string; name: string; kind: string; location: string; description: string };
+  /** `timeZone`: the site's IANA zone, in which the report writes its days and times. */
+  site: { id: string; name: string; kind: string; location: string; description: string; timeZone: string };
   boards: ReportBoard[];
   flood: null | {
     occurredOn: string;
@@ -156,8 +158,9 @@ export const PHOTOS_PER_KIND = 2;
 const REPORT_PHOTO_KINDS: PhotoKind[] = ["as_found", "after_work"];
 const ALL = 1_000_000;
 
-const inRange = (d: Date | string, q: SurveyReportQuery) => {
-  const day = (d instanceof Date ? d : new Date(d)).toISOString().slice(0, 10);
+/** Whether an observation falls within the report's days, counted on the site's calendar. */
+const inRange = (d: Date | string, q: { from?: string; to?: string; zone: string }) => {
+  const day = localDate(d, q.zone);
   return (!q.from || day >= q.from) && (!q.to || day <= q.to);
 };
 
@@ -182,13 +185,15 @@ export async function loadSurveyData(
 
   const boards: ReportBoard[] = [];
   for (const b of boardRows) {
-    const board = await loadBoard(db, siteId, b, q);
+    const board = await loadBoard(db, siteId, b, q, site.timeZone);
     board.rts = !q.sections || q.sections.includes("rts") ? await boardView(db, siteId, b.id, new Date()) : null;
     boards.push(board);
   }
 
   const boardIds = boardRows.map((b) => b.id);
-  const surveyRows = boardIds.length ? await repo.surveyorsOf(db, boardIds, q) : [];
+  const surveyRows = boardIds.length
+    ? await repo.surveyorsOf(db, boardIds, { from: q.from, to: q.to, zone: site.timeZone })
+    : [];
   const firsts = surveyRows.map((r) => new Date(r.first).getTime());
   const lasts = surveyRows.map((r) => new Date(r.last).getTime());
 
@@ -224,14 +229,21 @@ async function openParts(db: Db, siteId: string, boardId?: string) {
 
 type BoardRow = Selectable<BoardsTable>;
 
-async function loadBoard(db: Db, siteId: string, b: BoardRow, q: SurveyReportQuery): Promise<ReportBoard> {
+async function loadBoard(
+  db: Db,
+  siteId: string,
+  b: BoardRow,
+  q: SurveyReportQuery,
+  zone: string,
+): Promise<ReportBoard> {
+  const days = { from: q.from, to: q.to, zone };
   const [sections, positions, components, latest, photos, insulation, contacts, thermal, groundChecks, defects] =
     await Promise.all([
       repo.sectionsOfBoard(db, b.id),
       repo.positionsOfBoard(db, b.id),
       repo.componentsOfBoard(db, b.id),
       // The newest inspection of each position's component inside the date range (DISTINCT ON).
-      repo.latestInspectionsOfBoard(db, b.id, q),
+      repo.latestInspectionsOfBoard(db, b.id, days),
       q.photos === "yes" ? repo.reportPhotosOfBoard(db, b.id, REPORT_PHOTO_KINDS) : Promise.resolve([]),
       readings.listInsulation(db, siteId, { boardId: b.id, limit: ALL }),
       readings.listContacts(db, siteId, { boardId: b.id, limit: ALL }),
@@ -245,15 +257,15 @@ async function loadBoard(db: Db, siteId: string, b: BoardRow, q: SurveyReportQue
   const photosByPos = new Map<string, ReportPhoto[]>();
   for (const ph of photos) {
     const takenAt = new Date(ph.takenAt);
-    if (!inRange(takenAt, q) || !ph.positionId) continue;
+    if (!inRange(takenAt, days) || !ph.positionId) continue;
     const list = photosByPos.get(ph.positionId) ?? [];
     if (list.filter((x) => x.kind === ph.kind).length < PHOTOS_PER_KIND)
       list.push({ id: ph.id, kind: ph.kind, displayKey: ph.displayKey, caption: ph.caption, takenAt });
     photosByPos.set(ph.positionId, list);
   }
-  const ins = insulation.filter((r) => inRange(r.measuredAt, q));
-  const con = contacts.filter((r) => inRange(r.measuredAt, q));
-  const thm = thermal.filter((r) => inRange(r.measuredAt, q));
+  const ins = insulation.filter((r) => inRange(r.measuredAt, days));
+  const con = contacts.filter((r) => inRange(r.measuredAt, days));
+  const thm = thermal.filter((r) => inRange(r.measuredAt, days));
   const byComponent = <T extends { componentId: string | null }>(rows: T[]) => {
     const m = new Map<string, T[]>();
     for (const r of rows) if (r.componentId) m.set(r.componentId, [...(m.get(r.componentId) ?? []), r]);
@@ -361,7 +373,7 @@ async function loadBoard(db: Db, siteId: string, b: BoardRow, q: SurveyReportQue
     sections: sections.map((s) => ({ id: s.id, name: s.name })),
     positions: reportPositions,
     insulationSeries: [...series.values()].sort((x, y) => x.label.localeCompare(y.label, undefined, { numeric: true })),
-    groundChecks: groundChecks.filter((r) => inRange(r.measuredAt, q)),
+    groundChecks: groundChecks.filter((r) => inRange(r.measuredAt, days)),
     defects: defects.map((d) => ({ ...d, priorityScore: Number(d.priorityScore), dueOn: d.dueOn ?? null })),
     rts: null,
   };

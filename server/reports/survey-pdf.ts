@@ -4,6 +4,7 @@
  * of contents, then the real run streams page by page with those numbers. Both runs lay
  * out identical boxes, so the numbers hold.
  */
+import { localDate, localDateTime } from "../../src/domain/local-time";
 import { dryOutSeries } from "../../src/domain/dry-out-series";
 import { VERDICT_LABELS, type Verdict } from "../../src/domain/reading-judgement";
 import {
@@ -61,8 +62,12 @@ const HEADER_H = 26;
 const PHOTO_W = 118;
 const PHOTO_H = 88;
 
-const fmtDate = (d: Date | string | null | undefined) =>
-  d ? (d instanceof Date ? d : new Date(d)).toISOString().slice(0, 10) : "—";
+/** Days and times as the report writes them: on the site's own clock (its IANA zone, named on the cover). */
+const reportClock = (zone: string) => ({
+  date: (d: Date | string | null | undefined) => (d ? localDate(d, zone) : "—"),
+  time: (d: Date | string) => localDateTime(d, zone).slice(0, 16),
+});
+type ReportClock = ReturnType<typeof reportClock>;
 const fmtNum = (n: number | null | undefined, unit = "") =>
   n === null || n === undefined ? "—" : `${Number(n.toPrecision(4))}${unit}`;
 const sectionsOf = (data: ReportData): ReportSection[] =>
@@ -93,6 +98,7 @@ export function tocEntries(data: ReportData): TocEntry[] {
 
 export async function renderSurvey(doc: PDFKit.PDFDocument, data: ReportData, o: RenderOptions): Promise<RenderPlan> {
   const sections = sectionsOf(data);
+  const t = reportClock(data.site.timeZone);
   const pages = new Map<string, number>();
   let pageNo = 0;
   const scopeName = data.boards.length === 1 && data.query.boardId ? data.boards[0].name : "All boards";
@@ -115,7 +121,7 @@ export async function renderSurvey(doc: PDFKit.PDFDocument, data: ReportData, o:
         size: 8,
         color: INK.muted,
       });
-      text(doc, `Report of ${fmtDate(data.generatedAt)}`, pageW() - MARGIN - 110, 20, {
+      text(doc, `Report of ${t.date(data.generatedAt)}`, pageW() - MARGIN - 110, 20, {
         size: 8,
         color: INK.muted,
         width: 110,
@@ -210,7 +216,7 @@ export async function renderSurvey(doc: PDFKit.PDFDocument, data: ReportData, o:
   );
   kv(
     "Survey period",
-    data.inspectedFrom ? `${fmtDate(data.inspectedFrom)} to ${fmtDate(data.inspectedTo)}` : "No inspections recorded",
+    data.inspectedFrom ? `${t.date(data.inspectedFrom)} to ${t.date(data.inspectedTo)}` : "No inspections recorded",
   );
   if (data.query.from || data.query.to)
     kv(
@@ -218,7 +224,8 @@ export async function renderSurvey(doc: PDFKit.PDFDocument, data: ReportData, o:
       `${data.query.from ?? "the start"} to ${data.query.to ?? "today"} (readings, inspections and photos outside are left out)`,
     );
   kv("Surveyed by", data.surveyors.length ? data.surveyors.map((s) => `${s.name} (${s.inspections})`).join(", ") : "—");
-  kv("Report made", `${fmtDate(data.generatedAt)} by ${data.generatedBy}`);
+  kv("Report made", `${t.date(data.generatedAt)} by ${data.generatedBy}`);
+  kv("Days and times", `On the site's clock, ${data.site.timeZone}`);
   kv(
     "Photos",
     data.query.photos === "yes" ? "As found and after work, up to two of each per position" : "Left out of this copy",
@@ -312,7 +319,7 @@ export async function renderSurvey(doc: PDFKit.PDFDocument, data: ReportData, o:
           });
           doc.moveDown(0.4);
         }
-        await drawPosition(doc, p, left, contentW(), ensure, o);
+        await drawPosition(doc, p, left, contentW(), ensure, o, t);
         done++;
         await o.afterPosition?.(done);
       }
@@ -327,14 +334,14 @@ export async function renderSurvey(doc: PDFKit.PDFDocument, data: ReportData, o:
           "with the minimum that applies as a line. The dashed extension is an estimate at the fitted rate, never a promise; re-test before any decision.",
         { size: 8.5, color: INK.muted },
       );
-      drawDryOut(doc, b, left, contentW(), ensure);
+      drawDryOut(doc, b, left, contentW(), ensure, t);
     }
     if (sections.includes("rts")) {
       addPage();
       mark(`rts:${b.id}`, "Return-to-service record", 1);
       text(doc, `${b.name} · Return-to-service record`, left, doc.y, { font: "bold", size: 13, color: INK.brass });
       doc.moveDown(0.3);
-      drawRts(doc, b, left, contentW(), ensure);
+      drawRts(doc, b, left, contentW(), ensure, t);
     }
     if (sections.includes("defects")) {
       addPage();
@@ -711,6 +718,7 @@ async function drawPosition(
   w: number,
   ensure: (h: number) => void,
   o: RenderOptions,
+  t: ReportClock,
 ) {
   const c = p.component;
   const l = p.latest;
@@ -747,7 +755,7 @@ async function drawPosition(
     ]);
     cond.push([
       "Inspected",
-      `${fmtDate(l.inspectedAt)}${l.inspectorName ? ` by ${l.inspectorName}` : ""}${l.belowWaterLine === true ? ", below the water line" : l.belowWaterLine === false ? ", above the water line" : ""}`,
+      `${t.date(l.inspectedAt)}${l.inspectorName ? ` by ${l.inspectorName}` : ""}${l.belowWaterLine === true ? ", below the water line" : l.belowWaterLine === false ? ", above the water line" : ""}`,
     ]);
     const found = [
       ...l.contaminants.map((k) => CONTAMINANT_LABELS[k as Contaminant] ?? k),
@@ -763,7 +771,7 @@ async function drawPosition(
     if (c.disposition) {
       cond.push([
         "Disposition",
-        `${DISPOSITION_LABELS[c.disposition]}${c.decidedByName ? `, decided by ${c.decidedByName}` : ""}${c.dispositionAt ? ` on ${fmtDate(c.dispositionAt)}` : ""}`,
+        `${DISPOSITION_LABELS[c.disposition]}${c.decidedByName ? `, decided by ${c.decidedByName}` : ""}${c.dispositionAt ? ` on ${t.date(c.dispositionAt)}` : ""}`,
       ]);
       if (c.dispositionOverridden && c.dispositionRecommended)
         cond.push([
@@ -781,7 +789,7 @@ async function drawPosition(
     const j = ins.judgement;
     readings.push({
       text:
-        `Insulation ${fmtDate(ins.measuredAt)} (${ins.conductors}, ${ins.testVoltsDc} V DC): ${fmtNum(ins.megohms)} MΩ at ${ins.equipmentTempC} °C` +
+        `Insulation ${t.date(ins.measuredAt)} (${ins.conductors}, ${ins.testVoltsDc} V DC): ${fmtNum(ins.megohms)} MΩ at ${ins.equipmentTempC} °C` +
         `${j.correctedMegohms != null ? `, ${fmtNum(j.correctedMegohms)} MΩ at ${j.baseTemperatureC} °C` : ""}; minimum ${fmtNum(j.minimum.megohms)} MΩ (${j.minimum.source.table})${j.pi != null ? `; PI ${fmtNum(j.pi)}` : ""}`,
       verdict: j.verdict,
     });
@@ -789,13 +797,13 @@ async function drawPosition(
   const con = p.contacts[0];
   if (con)
     readings.push({
-      text: `Contact resistance ${fmtDate(con.measuredAt)} at ${con.testCurrentA} A: ${con.poleMicroOhms.map((v) => fmtNum(v)).join(" / ")} µΩ by pole`,
+      text: `Contact resistance ${t.date(con.measuredAt)} at ${con.testCurrentA} A: ${con.poleMicroOhms.map((v) => fmtNum(v)).join(" / ")} µΩ by pole`,
       verdict: con.judgement.verdict,
     });
   const th = p.thermal[0];
   if (th)
     readings.push({
-      text: `Thermal scan ${fmtDate(th.measuredAt)}: ${fmtNum(th.componentTempC)} °C${th.judgement.overSimilarC != null ? `, ${fmtNum(th.judgement.overSimilarC)} °C over similar parts` : ""}; ${th.judgement.action}`,
+      text: `Thermal scan ${t.date(th.measuredAt)}: ${fmtNum(th.componentTempC)} °C${th.judgement.overSimilarC != null ? `, ${fmtNum(th.judgement.overSimilarC)} °C over similar parts` : ""}; ${th.judgement.action}`,
       verdict: th.judgement.verdict,
     });
 
@@ -863,7 +871,7 @@ async function drawPosition(
           doc.save().rect(px, py, PHOTO_W, PHOTO_H).fill(INK.faint).restore();
         }
       } else doc.save().rect(px, py, PHOTO_W, PHOTO_H).fill(INK.faint).restore();
-      line(doc, `${PHOTO_KIND_LABELS[ph.kind]} · ${fmtDate(ph.takenAt)}`, px, py + PHOTO_H + 2, PHOTO_W, {
+      line(doc, `${PHOTO_KIND_LABELS[ph.kind]} · ${t.date(ph.takenAt)}`, px, py + PHOTO_H + 2, PHOTO_W, {
         size: 7,
         color: INK.muted,
       });
@@ -891,7 +899,14 @@ async function drawPosition(
   doc.y += 12;
 }
 
-function drawDryOut(doc: PDFKit.PDFDocument, b: ReportBoard, x: number, w: number, ensure: (h: number) => void) {
+function drawDryOut(
+  doc: PDFKit.PDFDocument,
+  b: ReportBoard,
+  x: number,
+  w: number,
+  ensure: (h: number) => void,
+  t: ReportClock,
+) {
   if (b.insulationSeries.length === 0) {
     text(doc, "No insulation readings are recorded for this board in this period.", x, doc.y, {
       size: 9.5,
@@ -970,8 +985,8 @@ function drawDryOut(doc: PDFKit.PDFDocument, b: ReportBoard, x: number, w: numbe
           .undash()
           .restore();
       }
-      text(doc, fmtDate(new Date(t0)), gx, gy + gh + 3, { size: 6.5, color: INK.muted, lineBreak: false });
-      text(doc, fmtDate(new Date(t1)), gx + gw - 50, gy + gh + 3, {
+      text(doc, t.date(new Date(t0)), gx, gy + gh + 3, { size: 6.5, color: INK.muted, lineBreak: false });
+      text(doc, t.date(new Date(t1)), gx + gw - 50, gy + gh + 3, {
         size: 6.5,
         color: INK.muted,
         width: 50,
@@ -1080,7 +1095,14 @@ function drawParts(doc: PDFKit.PDFDocument, data: ReportData, x: number, w: numb
 }
 
 /** Stages in order with their hold points and every sign-off entry; released-with-reason items and incidents in red. */
-function drawRts(doc: PDFKit.PDFDocument, b: ReportBoard, x: number, w: number, ensure: (h: number) => void) {
+function drawRts(
+  doc: PDFKit.PDFDocument,
+  b: ReportBoard,
+  x: number,
+  w: number,
+  ensure: (h: number) => void,
+  t: ReportClock,
+) {
   const v = b.rts;
   if (!v || v.stages.length === 0) {
     text(doc, "No return-to-service stages are recorded for this board.", x, doc.y, { size: 9.5, color: INK.muted });
@@ -1109,8 +1131,8 @@ function drawRts(doc: PDFKit.PDFDocument, b: ReportBoard, x: number, w: number, 
       st.qualifiedPerson
         ? `qualified person ${st.qualifiedPerson.name}${st.qualifiedPerson.qualification ? ` (${st.qualifiedPerson.qualification})` : ""}`
         : "",
-      st.energisedAt ? `energised ${fmtDate(st.energisedAt)}` : "",
-      st.releasedAt ? `released ${fmtDate(st.releasedAt)}` : "",
+      st.energisedAt ? `energised ${t.date(st.energisedAt)}` : "",
+      st.releasedAt ? `released ${t.date(st.releasedAt)}` : "",
       `watch ${st.watchHours} h, checks every ${st.checkEveryHours} h`,
       st.positions.length ? `positions ${st.positions.map((p) => p.designation).join(", ")}` : "",
     ].filter(Boolean);
@@ -1132,7 +1154,7 @@ function drawRts(doc: PDFKit.PDFDocument, b: ReportBoard, x: number, w: number, 
           step.entries
             .map(
               (e) =>
-                `${e.kind === "signed" ? "Signed" : e.kind === "released" ? "Released with reason" : "Struck"} by ${e.signerName} ${fmtDate(e.signedAt)} ${new Date(e.signedAt).toISOString().slice(11, 16)} UTC${e.reason ? `: ${e.reason}` : ""}${e.supersededBy ? " (superseded)" : ""}`,
+                `${e.kind === "signed" ? "Signed" : e.kind === "released" ? "Released with reason" : "Struck"} by ${e.signerName} ${t.time(e.signedAt)}${e.reason ? `: ${e.reason}` : ""}${e.supersededBy ? " (superseded)" : ""}`,
             )
             .join("\n") || "Not signed";
         return [
@@ -1169,7 +1191,7 @@ function drawRts(doc: PDFKit.PDFDocument, b: ReportBoard, x: number, w: number, 
       events.map((e) => {
         const red = e.alert || e.kind === "incident";
         return [
-          { text: `${fmtDate(e.at)} ${new Date(e.at).toISOString().slice(11, 16)}` },
+          { text: t.time(e.at) },
           { text: e.stageName },
           { text: `${e.title}${e.detail ? `: ${e.detail}` : ""}`, color: red ? INK.flare : undefined, bold: red },
           { text: e.by ?? "—" },

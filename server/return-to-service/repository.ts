@@ -394,6 +394,7 @@ export const energisedStages = (db: Db) =>
       "s.qualifiedPersonId",
       "b.name as boardName",
       "t.name as siteName",
+      "t.timeZone as siteTimeZone",
     ])
     .where("s.status", "=", "energised")
     .execute();

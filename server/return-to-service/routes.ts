@@ -23,6 +23,7 @@ import type { Db } from "../db";
 import { AppError } from "../errors";
 import { idempotent } from "../idempotency/middleware";
 import { requireSiteRole } from "../middleware/roles";
+import { siteToday } from "../sites/reads";
 import * as service from "./service";
 import { boardView, loadSettings } from "./view";
 
@@ -52,7 +53,6 @@ const ctxOf = (req: Request, res: Response): service.Ctx => ({
   siteId: site.parse(req.params).siteId,
   actor: { id: res.locals.user!.id, role: res.locals.siteRole as Role | "admin" },
 });
-const today = () => new Date().toISOString().slice(0, 10);
 
 /**
  * Return to service under /api/sites/:siteId. Who may do what comes from the permission table
@@ -82,14 +82,15 @@ export function rtsRoutes(db: Db) {
   );
 
   // Qualified persons (the crew page): every member reads, the curator edits.
-  r.get(`${base}/qualified-persons`, requireSiteRole(db, "rts.read"), async (req, res) =>
-    res.json({ people: await service.qualifiedCrew(db, site.parse(req.params).siteId, today()) }),
-  );
+  r.get(`${base}/qualified-persons`, requireSiteRole(db, "rts.read"), async (req, res) => {
+    const { siteId } = site.parse(req.params);
+    res.json({ people: await service.qualifiedCrew(db, siteId, await siteToday(db, siteId)) });
+  });
   r.put(`${base}/qualified-persons/:userId`, requireSiteRole(db, "rts.manage_qualified"), async (req, res) => {
     const { userId } = userP.parse(req.params);
-    res.json({
-      person: await service.saveQualified(db, ctxOf(req, res), userId, qualifiedBody.parse(req.body), today()),
-    });
+    const ctx = ctxOf(req, res);
+    const body = qualifiedBody.parse(req.body);
+    res.json({ person: await service.saveQualified(db, ctx, userId, body, await siteToday(db, ctx.siteId)) });
   });
   r.delete(`${base}/qualified-persons/:userId`, requireSiteRole(db, "rts.manage_qualified"), async (req, res) => {
     await service.removeQualified(db, ctxOf(req, res), userP.parse(req.params).userId);

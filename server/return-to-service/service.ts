@@ -35,6 +35,7 @@ import { recordAudit } from "../audit";
 import type { Db } from "../db";
 import { holdForRaise, raiseIncidentDefect } from "../defects/service";
 import { AppError, conflict, forbidden, notFound } from "../errors";
+import { siteToday } from "../sites/reads";
 import * as repo from "./repository";
 import { boardView, loadSettings } from "./view";
 
@@ -503,7 +504,7 @@ async function checkEvidence(trx: Trx, siteId: string, items: EvidenceItem[]) {
 
 async function assertQualified(trx: Trx, ctx: Ctx, now: Date) {
   const q = await repo.getQualified(trx, ctx.siteId, ctx.actor.id);
-  if (!isQualifiedOn(q ? { expiresOn: q.expiresOn } : null, now.toISOString().slice(0, 10)))
+  if (!isQualifiedOn(q ? { expiresOn: q.expiresOn } : null, await siteToday(trx, ctx.siteId, now)))
     throw forbidden(
       "Only a qualified person for energisation, with a current qualification on the crew page, signs this hold point.",
     );

@@ -4,7 +4,8 @@
  * operations against their budgets.
  */
 import { defaultOperationsBudget, operationsStatus, OPERATED_KINDS } from "../../src/domain/breaker-operations";
-import { DEFAULT_TEMPLATE } from "../../src/domain/return-to-service";
+import { localDate, localDateTime } from "../../src/domain/local-time";
+import { DEFAULT_TEMPLATE, isQualifiedOn } from "../../src/domain/return-to-service";
 import {
   evaluateStage,
   type GateCircuit,
@@ -28,6 +29,7 @@ import { LAMP_LOOK_LABELS, INCIDENT_KIND_LABELS } from "../../src/schemas/return
 import type { Db } from "../db";
 import { notFound } from "../errors";
 import * as readings from "../readings/service";
+import { siteTimeZone } from "../sites/reads";
 import * as repo from "./repository";
 
 /** Kinds whose circuits take an insulation test before a stage is energised (common practice). */
@@ -120,6 +122,7 @@ export async function boardView(db: Db, siteId: string, boardId: string, now: Da
     energisations,
     operations,
     budgets,
+    timeZone,
   ] = await Promise.all([
     loadSettings(db, siteId),
     repo.listStages(db, boardId),
@@ -134,14 +137,15 @@ export async function boardView(db: Db, siteId: string, boardId: string, now: Da
     repo.listEnergisations(db, boardId),
     repo.listOperations(db, boardId),
     repo.listBudgets(db, siteId),
+    siteTimeZone(db, siteId),
   ]);
+  const today = localDate(now, timeZone);
   const ids = stages.map((s) => s.id);
   const [items, steps, signoffs] = await Promise.all([
     repo.listItems(db, ids),
     repo.listSteps(db, ids),
     repo.listSignoffs(db, ids),
   ]);
-  const today = now.toISOString().slice(0, 10);
   const links = linksFor(siteId, boardId);
   const posById = new Map(positions.map((p) => [p.id, p]));
 
@@ -166,7 +170,7 @@ export async function boardView(db: Db, siteId: string, boardId: string, now: Da
       words:
         lastWatch.lamps === "equal"
           ? "all three lamps equal."
-          : `${LAMP_LOOK_LABELS[lastWatch.lamps].toLowerCase()} lamp on phase ${lastWatch.lampPhase ?? "?"} at the watch check of ${iso(lastWatch.at)!.slice(0, 16).replace("T", " ")} UTC.`,
+          : `${LAMP_LOOK_LABELS[lastWatch.lamps].toLowerCase()} lamp on phase ${lastWatch.lampPhase ?? "?"} at the watch check of ${localDateTime(lastWatch.at, timeZone).slice(0, 16)} ${timeZone}.`,
     };
 
   const byComponent = new Map<string, typeof insulation>();
@@ -298,6 +302,7 @@ export async function boardView(db: Db, siteId: string, boardId: string, now: Da
         .filter((i) => i.stageId === s.id && i.attempt === s.attempt)
         .map((i) => ({ id: i.id, at: iso(i.at)!, summary: i.summary, defectId: i.defectId })),
       maxReadingAgeDays: settings.insulationMaxAgeDays,
+      timeZone,
       links,
     };
     const gate = evaluateStage(input, now.toISOString());
@@ -472,7 +477,7 @@ export async function boardView(db: Db, siteId: string, boardId: string, now: Da
       name: q.name,
       qualification: q.qualification,
       expiresOn: q.expiresOn,
-      current: q.expiresOn === null || q.expiresOn >= today,
+      current: isQualifiedOn(q, today),
     })),
     now: now.toISOString(),
   };

@@ -1,3 +1,4 @@
+import { localDate } from "../../src/domain/local-time";
 import type { SiteRole } from "../../src/domain/permissions";
 import type { Role } from "../../src/domain/vocab";
 import type { Db } from "../db";
@@ -15,6 +16,19 @@ export async function sitesFor(db: Db, user: { id: string; isAdmin: boolean }) {
 }
 
 export const findSite = (db: Db, siteId: string) => repo.findSite(db, siteId);
+
+/** The site's IANA time zone, in which exports write local times ("UTC" when the site is gone). */
+export async function siteTimeZone(db: Db, siteId: string): Promise<string> {
+  return (await repo.findSite(db, siteId))?.timeZone ?? "UTC";
+}
+
+/**
+ * The site's calendar day at `at` (now by default), in its own time zone: the day a qualification's expiry, "overdue"
+ * and a file's date are counted in, so a crew east or west of Greenwich is not a day early or late around midnight.
+ */
+export async function siteToday(db: Db, siteId: string, at: Date = new Date()): Promise<string> {
+  return localDate(at, await siteTimeZone(db, siteId));
+}
 
 /** The site's name; throws when the site is gone. */
 export const siteName = (db: Db, siteId: string) => repo.siteName(db, siteId);

@@ -111,11 +111,6 @@ export async function createUser(
   });
 }
 
-/** The site's IANA time zone, in which exports write local times ("UTC" when the site is gone). */
-export async function siteTimeZone(db: Db, siteId: string): Promise<string> {
-  return (await repo.findSite(db, siteId))?.timeZone ?? "UTC";
-}
-
 /** The curator sets the site's time zone (exports write local times in it); audited. */
 export async function setTimeZone(db: Db, siteId: string, timeZone: string, actorId: string) {
   return db.transaction().execute(async (trx) => {

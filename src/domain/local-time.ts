@@ -93,5 +93,8 @@ export function localDateTime(at: Date | string | null | undefined, zone: string
   return `${p.year}-${p.month}-${p.day} ${p.hour}:${p.minute}:${p.second}`;
 }
 
+/** The calendar day "YYYY-MM-DD" of `at` in `zone`: a site's "today" (a qualification's last day, a file's date). */
+export const localDate = (at: Date | string, zone: string) => localDateTime(at, zone).slice(0, 10);
+
 /** The header of a local-time column: `inspected_at (Europe/Lisbon)`. */
 export const localHeader = (column: string, zone: string) => `${column} (${zone})`;

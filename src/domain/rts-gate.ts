@@ -16,6 +16,7 @@
  *   by the lamps, watch checks at the set interval: common practice.
  * - thermal level 3–4: NETA ATS/MTS Table 100.18 via src/domain/thermal.ts.
  */
+import { localDate, localDateTime } from "./local-time";
 import { AFTER_ENERGISE_KINDS, isQualifiedOn, type StageStatus, type StepKind, type Supply } from "./return-to-service";
 import type { Verdict } from "./reading-judgement";
 import { watchSchedule } from "./rts-watch";
@@ -108,6 +109,8 @@ export interface GateInput {
   /** This attempt's incidents. */
   incidents: Array<{ id: string; at: string; summary: string; defectId: string | null }>;
   maxReadingAgeDays: number;
+  /** The site's IANA time zone: a qualification's last day is counted, and the watch's times written, on its clock. */
+  timeZone: string;
   links: GateLinks;
 }
 
@@ -165,8 +168,8 @@ const ms = (iso: string) => {
   return t;
 };
 const fmt = (n: number) => (n >= 100 ? String(Math.round(n)) : String(Number(n.toPrecision(2))));
-/** A moment as people read it on the board, in UTC (the server does not know the crew's zone). */
-const utc = (iso: string) => `${new Date(ms(iso)).toISOString().slice(0, 16).replace("T", " ")} UTC`;
+/** A moment as the crew reads it: on the site's clock, the zone named ("2026-12-06 11:39 Europe/Lisbon"). */
+const onSite = (iso: string, zone: string) => `${localDateTime(new Date(ms(iso)), zone).slice(0, 16)} ${zone}`;
 const daysOld = (fromMs: number, toMs: number) => Math.floor((toMs - fromMs) / DAY_MS);
 const label = (c: GateCircuit) => (c.circuit ? `${c.designation} (${c.circuit})` : c.designation);
 
@@ -358,17 +361,21 @@ function afterEnergiseBlockers(kind: StepKind, input: GateInput, nowMs: number):
     for (const g of w.gaps)
       out.push({
         code: "watch_gap",
-        message: `No check between ${utc(g.from)} and ${utc(g.to)} (every ${fmt(s.checkEveryHours)} h asked).`,
+        message: `No check between ${onSite(g.from, input.timeZone)} and ${onSite(g.to, input.timeZone)} (every ${fmt(s.checkEveryHours)} h asked).`,
         href,
       });
     if (w.overdueSince)
       out.push({
         code: "watch_overdue",
-        message: `A watch check was due at ${utc(w.overdueSince)} and has not been recorded.`,
+        message: `A watch check was due at ${onSite(w.overdueSince, input.timeZone)} and has not been recorded.`,
         href,
       });
     if (!w.complete)
-      out.push({ code: "watch_running", message: `The watch period runs until ${utc(w.endsAt)}.`, href });
+      out.push({
+        code: "watch_running",
+        message: `The watch period runs until ${onSite(w.endsAt, input.timeZone)}.`,
+        href,
+      });
     return out;
   }
   return [];
@@ -385,7 +392,7 @@ function afterEnergiseBlockers(kind: StepKind, input: GateInput, nowMs: number):
  */
 export function evaluateStage(input: GateInput, now: string): GateResult {
   const nowMs = ms(now);
-  const today = now.slice(0, 10);
+  const today = localDate(new Date(nowMs), input.timeZone);
   const { stage: s, links } = input;
   const asOf = s.energisedAt ? Math.min(ms(s.energisedAt), nowMs) : nowMs;
 

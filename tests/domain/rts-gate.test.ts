@@ -1,3 +1,4 @@
+import { icuMinute } from "../helpers/icu";
 import { describe, expect, it } from "vitest";
 import { DEFAULT_TEMPLATE, checkReorder, isQualifiedOn } from "../../src/domain/return-to-service";
 import { can } from "../../src/domain/permissions";
@@ -65,6 +66,7 @@ const good = (): GateInput => ({
   thermal: [],
   incidents: [],
   maxReadingAgeDays: 7,
+  timeZone: "UTC",
   links,
 });
 const codes = (i: GateInput) => evaluateStage(i, NOW).blockers.map((b) => b.code);
@@ -321,6 +323,37 @@ describe("the gate after energising", () => {
     const r = evaluateStage(live(), NOW);
     const w = r.holdPoints.find((h) => h.kind === "watch")!.blockers.map((b) => b.code);
     expect(w).toEqual(["watch_overdue", "watch_running"]);
+  });
+  it("the watch's times are written on the site's clock, the zone named (ICU's tz data as the reference)", () => {
+    const onSite = (iso: string, zone: string) => `${icuMinute(iso, zone)} ${zone}`;
+    for (const zone of ["UTC", "Europe/Lisbon", "Pacific/Auckland", "America/St_Johns"]) {
+      const r = evaluateStage(
+        live((x) => (x.timeZone = zone)),
+        NOW,
+      );
+      const watch = r.holdPoints.find((h) => h.kind === "watch")!.blockers;
+      // The fixture's watch: 24 h from energising at 06:00 UTC, a check every 4 h; none recorded, so one is overdue
+      // since 10:00 UTC.
+      expect(watch.find((b) => b.code === "watch_running")!.message).toBe(
+        `The watch period runs until ${onSite("2026-12-03T06:00:00Z", zone)}.`,
+      );
+      expect(watch.find((b) => b.code === "watch_overdue")!.message).toBe(
+        `A watch check was due at ${onSite("2026-12-02T10:00:00Z", zone)} and has not been recorded.`,
+      );
+    }
+  });
+  it("a qualification's last day is counted on the site's calendar", () => {
+    // 20:00 UTC on 1 December is 09:00 on 2 December in Auckland (UTC+13), 20:00 on the 1st in UTC.
+    const at = "2026-12-01T20:00:00.000Z";
+    const lastDay = (zone: string) =>
+      with_((i) => {
+        i.timeZone = zone;
+        i.stage.qualifiedPerson!.expiresOn = "2026-12-01";
+      });
+    expect(evaluateStage(lastDay("UTC"), at).blockers.map((b) => b.code)).not.toContain("qualification_expired");
+    expect(evaluateStage(lastDay("Pacific/Auckland"), at).blockers.map((b) => b.code)).toContain(
+      "qualification_expired",
+    );
   });
   it("a stopped stage cannot be released", () => {
     const r = evaluateStage(

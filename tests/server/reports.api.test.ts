@@ -3,6 +3,7 @@
  * the project: poppler-utils' pdftotext / pdfinfo / pdffonts / pdftoppm (Debian) and the
  * jsqr decoder (npm). The demo scenario is MV Kestrel Lantern (invented).
  */
+import { icuDay } from "../helpers/icu";
 import { execFile } from "node:child_process";
 import { mkdtemp, readdir, rm, writeFile } from "node:fs/promises";
 import { tmpdir } from "node:os";
@@ -15,6 +16,8 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { seedDemo } from "../../db/seed/demo";
 import { DEMO_PASSWORD } from "../../db/seed/people";
 import { labelSheet, labelSlots } from "../../src/domain/label-sheets";
+import { surveyReportQuery } from "../../src/schemas/reports";
+import { loadSurveyData } from "../../server/reports/survey-data";
 import { createTestDb, type TestDb } from "../helpers/db";
 import { makeSite, makeUser } from "../helpers/fixtures";
 import { Client, startTestServer, TEST_PASSWORD, type TestServer } from "../helpers/http";
@@ -186,6 +189,43 @@ describe("condition survey report", () => {
     expect(st).toContain("Main switchboard");
     expect(st).toContain("Per board");
   }, 120_000);
+
+  it("days are the site's: a date range counts inspections on the site's calendar, and the report names its zone", async () => {
+    // The reference for a zone's day: ICU's tz data (tests/helpers/icu.ts).
+    const all = await t.db
+      .selectFrom("inspections as i")
+      .innerJoin("positions as p", "p.id", "i.positionId")
+      .innerJoin("boards as b", "b.id", "p.boardId")
+      .select("i.inspectedAt")
+      .where("b.siteId", "=", siteId)
+      .execute();
+    const first = new Date(all[0].inspectedAt);
+    // UTC+14 puts an instant from 10:00 UTC on the next day; UTC−11 one before 11:00 UTC on the day before.
+    const zone = first.getUTCHours() >= 10 ? "Pacific/Kiritimati" : "Pacific/Pago_Pago";
+    const day = icuDay(first, zone);
+    expect(day).not.toBe(icuDay(first, "UTC"));
+    const expected = all.filter((r) => icuDay(new Date(r.inspectedAt), zone) === day).length;
+
+    const before = (
+      await t.db.selectFrom("sites").select("timeZone").where("id", "=", siteId).executeTakeFirstOrThrow()
+    ).timeZone;
+    const curator = server.client();
+    await curator.signIn("curator@tideline.test", DEMO_PASSWORD);
+    expect((await curator.put(`/api/sites/${siteId}/time-zone`, { timeZone: zone })).status).toBe(200);
+    try {
+      const q = surveyReportQuery.parse({ from: day, to: day, sections: "summary", photos: "no" });
+      const data = await loadSurveyData(t.db, siteId, q, { id: "x", name: "Test" });
+      expect(data.surveyors.reduce((n, s) => n + s.inspections, 0)).toBe(expected);
+      expect(icuDay(data.inspectedFrom!, zone)).toBe(day);
+
+      const pdf = await getBytes(viewer, `/api/sites/${siteId}/reports/survey.pdf?sections=summary&photos=no`);
+      const text = (await pdfText(await savePdf(pdf.bytes, "zone.pdf"))).replace(/\s+/g, " ");
+      expect(text).toContain(`On the site's clock, ${zone}`);
+      expect(text).toContain(`Report of ${icuDay(new Date(), zone)}`);
+    } finally {
+      await curator.put(`/api/sites/${siteId}/time-zone`, { timeZone: before });
+    }
+  }, 60_000);
 
   it("bad options get a 400 with the field; strangers get 404; signed-out people 401", async () => {
     const bad = await viewer.get(`/api/sites/${siteId}/reports/survey.pdf?sections=everything`);

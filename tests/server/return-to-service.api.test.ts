@@ -1,9 +1,11 @@
+import { icuDay } from "../helpers/icu";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createTestDb, type TestDb } from "../helpers/db";
 import { makeCrew, makeUser } from "../helpers/fixtures";
 import { startTestServer, type Client, type TestServer } from "../helpers/http";
 import { memoryMailer } from "../../server/mail/mailer";
 import { sendOverdueWatchNotices } from "../../server/return-to-service/overdue";
+import * as rts from "../../server/return-to-service/service";
 import { clockNote } from "../../src/domain/device-clock";
 
 let t: TestDb;
@@ -603,5 +605,75 @@ describe("breaker operations", () => {
     expect(
       (await as.curator.put(`${site()}/components/${comp["1-2"]}/operations-budget`, { budget: 5, version: 0 })).status,
     ).toBe(409);
+  });
+});
+
+describe("a qualification counts on the site's own calendar", () => {
+  // The reference for a zone's day: ICU's tz data (tests/helpers/icu.ts).
+  // 20:00 UTC on 5 December is 09:00 on 6 December in Auckland (New Zealand daylight time, UTC+13).
+  const evening = new Date("2026-12-05T20:00:00Z");
+  const qp2Ctx = () => ({ siteId: fx.siteId, actor: { id: qp2.id, role: "curator" as const } });
+  const setZone = async (timeZone: string) =>
+    expect((await as.curator.put(`${site()}/time-zone`, { timeZone })).status).toBe(200);
+  const lastDay = async (expiresOn: string) => {
+    const me = (await as.curator.get(`${site()}/return-to-service/qualified-persons`)).body.people.find(
+      (p: any) => p.userId === qp2.id,
+    );
+    const r = await as.curator.put(`${site()}/return-to-service/qualified-persons/${qp2.id}`, {
+      qualification: "Marine electrician (fictional licence)",
+      expiresOn,
+      version: me.version,
+    });
+    expect(r.status, JSON.stringify(r.body)).toBe(200);
+    return r.body.person;
+  };
+  /** A qualified-only hold point with no entry yet, and its stage's attempt. */
+  const openQualifiedStep = async () => {
+    for (const st of (await view()).stages)
+      for (const step of st.steps)
+        if (step.qualifiedOnly && !step.entries.some((e: any) => e.kind !== "struck"))
+          return { stepId: step.id as string, attempt: st.attempt as number };
+    throw new Error("no open qualified-only hold point");
+  };
+  let before = "UTC";
+  beforeAll(async () => {
+    before = (await t.db.selectFrom("sites").select("timeZone").where("id", "=", fx.siteId).executeTakeFirstOrThrow())
+      .timeZone;
+  });
+  afterAll(() => setZone(before));
+
+  it("refuses a qualified person's sign-off once the site's day is past the last day, though UTC's is not", async () => {
+    expect(icuDay(evening, "UTC")).toBe("2026-12-05");
+    expect(icuDay(evening, "Pacific/Auckland")).toBe("2026-12-06");
+    await lastDay("2026-12-05");
+    const { stepId, attempt } = await openQualifiedStep();
+    const body = { kind: "signed" as const, reason: "", note: "", evidence: [], attempt };
+
+    await setZone("Pacific/Auckland");
+    await expect(rts.sign(t.db, qp2Ctx(), stepId, body, evening)).rejects.toMatchObject({
+      status: 403,
+      message: expect.stringContaining("current qualification"),
+    });
+
+    // The same instant on a site kept in UTC is still the last day: the qualification holds (whatever else the
+    // hold point then asks, it is not refused for the qualification).
+    await setZone("UTC");
+    const onUtc = await rts.sign(t.db, qp2Ctx(), stepId, body, evening).then(
+      () => null,
+      (e: unknown) => e as { status?: number; message?: string },
+    );
+    expect(onUtc?.message ?? "").not.toContain("current qualification");
+  });
+
+  it("the crew page and the board say 'current' by the site's day", async () => {
+    const zone = "Pacific/Kiritimati"; // UTC+14: its day is UTC's or the next
+    await setZone(zone);
+    const now = new Date();
+    const siteDay = icuDay(now, zone);
+    const dayBefore = icuDay(new Date(Date.parse(`${siteDay}T12:00:00Z`) - 86_400_000), "UTC");
+    expect((await lastDay(dayBefore)).current).toBe(false);
+    expect((await view()).qualifiedPersons.find((q: any) => q.userId === qp2.id).current).toBe(false);
+    expect((await lastDay(siteDay)).current).toBe(true);
+    expect((await view()).qualifiedPersons.find((q: any) => q.userId === qp2.id).current).toBe(true);
   });
 });

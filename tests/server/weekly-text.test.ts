@@ -5,6 +5,7 @@ import { buildWeeklySummary, LIST_LIMIT, type WeeklyInput } from "../../server/n
 // tested against rows in notifications.api.test.ts; these are plain arithmetic ('common practice').
 const base: WeeklyInput = {
   siteName: "MV Test <Tender>",
+  timeZone: "UTC",
   from: new Date("2030-03-03T07:00:00Z"),
   to: new Date("2030-03-10T07:00:00Z"),
   siteUrl: "http://t.example/sites/s1",

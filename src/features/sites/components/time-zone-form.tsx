@@ -9,7 +9,7 @@ function zones(current: string) {
   return [...new Set(["UTC", current, ...all])].sort().map((z) => ({ value: z, label: z }));
 }
 
-/** "Times in exports are in …": the site's time zone, which the curator can change. */
+/** The site's clock: the time zone its files, report and e-mails write, which the curator can change. */
 export function TimeZoneForm({ siteId, timeZone, canEdit }: { siteId: string; timeZone: string; canEdit: boolean }) {
   const m = useSetTimeZone(siteId);
   const choices = useMemo(() => zones(timeZone), [timeZone]);
@@ -19,10 +19,11 @@ export function TimeZoneForm({ siteId, timeZone, canEdit }: { siteId: string; ti
       canEdit={canEdit}
       readOnly={
         <>
-          Times in exports are the site&apos;s local time, <span className="font-mono">{timeZone}</span>.
+          The site&apos;s clock is <span className="font-mono">{timeZone}</span>: exports, the survey report and e-mails
+          write times in it, and a qualification&apos;s last day is counted by it.
         </>
       }
-      label="Site time zone (times in exports are written in it)"
+      label="Site time zone (exports, the report, e-mails and qualification days follow it)"
       choices={choices}
       check={siteTimeZoneBody.shape.timeZone}
       save={(value) => m.mutateAsync(value)}
