@@ -9,7 +9,7 @@
  */
 import type { Response } from "express";
 import Papa from "papaparse";
-import { localDateTime, localHeader } from "../../src/domain/local-time";
+import { localDate, localDateTime, localHeader } from "../../src/domain/local-time";
 import { CSV_EXPORT_EXTRA_COLUMNS, CSV_IMPORT_COLUMNS } from "../../src/schemas/inventory";
 import * as repo from "./csv-repository";
 import type { Db } from "../db";
@@ -106,6 +106,6 @@ const slug = (s: string) =>
 export async function exportInventoryCsv(db: Db, siteId: string, res: Response) {
   const site = await findSite(db, siteId);
   if (!site) throw notFound("That site");
-  const day = localDateTime(new Date(), site.timeZone).slice(0, 10);
+  const day = localDate(new Date(), site.timeZone);
   await streamInventoryCsv(db, siteId, site.timeZone, `${slug(site.name)}-inventory-${day}.csv`, res);
 }

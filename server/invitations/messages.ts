@@ -1,9 +1,9 @@
-import { localDateTime } from "../../src/domain/local-time";
+import { localMinute } from "../../src/domain/local-time";
 import { ROLE_LABELS, type Role } from "../../src/domain/vocab";
 import { compose, type Composed } from "../mail/compose";
 
 /** The link's last minute on the site's clock, the zone named: "2026-12-12 13:40 (Europe/Lisbon)". */
-const when = (d: Date, zone: string) => `${localDateTime(d, zone).slice(0, 16)} (${zone})`;
+const when = (d: Date, zone: string) => `${localMinute(d, zone)} (${zone})`;
 
 export function invitationMessage(p: {
   siteName: string;

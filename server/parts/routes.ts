@@ -22,7 +22,7 @@ import { AppError } from "../errors";
 import { requireSiteRole } from "../middleware/roles";
 import { limitExports, runExport } from "../export-stream";
 import { siteTimeZone } from "../sites/reads";
-import { localDateTime } from "../../src/domain/local-time";
+import { localDate } from "../../src/domain/local-time";
 import { nameplateThumb } from "../photos/reads";
 import * as service from "./service";
 import * as share from "./share";
@@ -58,10 +58,7 @@ export function partsRoutes(db: Db, storage: PhotoStorage, mail?: MailDeps) {
     const { page: _p, size: _s, ...filter } = listQuery.parse(req.query);
     const zone = await siteTimeZone(db, req.params.siteId as string);
     res.setHeader("Content-Type", "text/csv; charset=utf-8");
-    res.setHeader(
-      "Content-Disposition",
-      `attachment; filename="wanted-parts-${localDateTime(new Date(), zone).slice(0, 10)}.csv"`,
-    );
+    res.setHeader("Content-Disposition", `attachment; filename="wanted-parts-${localDate(new Date(), zone)}.csv"`);
     await runExport(res, (out) => service.writePartsCsv(db, req.params.siteId as string, filter, zone, out));
   });
 

@@ -9,7 +9,7 @@ import { listQuery as defectsListQuery } from "../../src/schemas/defects";
 import { listQuery as partsListQuery } from "../../src/schemas/parts";
 import type { PreparedKind } from "../../src/schemas/prepared-files";
 import { surveyReportQuery } from "../../src/schemas/reports";
-import { localDateTime } from "../../src/domain/local-time";
+import { localDate } from "../../src/domain/local-time";
 import type { Db } from "../db";
 import { writeDefectsCsv } from "../defects/csv";
 import type { ExportWriter } from "../export-stream";
@@ -81,7 +81,7 @@ export async function renderTo(
   failed.catch(() => {});
   const site = await findSite(db, input.siteId);
   if (!site) throw new Error(`site ${input.siteId} is gone`);
-  const day = localDateTime(new Date(), site.timeZone).slice(0, 10);
+  const day = localDate(new Date(), site.timeZone);
   const work = async (): Promise<string> => {
     switch (input.kind) {
       case "survey_report": {

@@ -4,7 +4,7 @@
  * of contents, then the real run streams page by page with those numbers. Both runs lay
  * out identical boxes, so the numbers hold.
  */
-import { localDate, localDateTime } from "../../src/domain/local-time";
+import { localDate, localMinute } from "../../src/domain/local-time";
 import { dryOutSeries } from "../../src/domain/dry-out-series";
 import { VERDICT_LABELS, type Verdict } from "../../src/domain/reading-judgement";
 import {
@@ -65,7 +65,7 @@ const PHOTO_H = 88;
 /** Days and times as the report writes them: on the site's own clock (its IANA zone, named on the cover). */
 const reportClock = (zone: string) => ({
   date: (d: Date | string | null | undefined) => (d ? localDate(d, zone) : "—"),
-  time: (d: Date | string) => localDateTime(d, zone).slice(0, 16),
+  time: (d: Date | string) => localMinute(d, zone),
 });
 type ReportClock = ReturnType<typeof reportClock>;
 const fmtNum = (n: number | null | undefined, unit = "") =>

@@ -5,7 +5,7 @@
  * second run, or two runs at once, send nothing more). Respects the person's
  * "watch_overdue" switch. Run by `npm run rts:overdue` from a scheduler.
  */
-import { localDateTime } from "../../src/domain/local-time";
+import { localMinute } from "../../src/domain/local-time";
 import { watchSchedule } from "../../src/domain/rts-watch";
 import { paths } from "../../src/config/paths";
 import { compose } from "../mail/compose";
@@ -62,7 +62,7 @@ export async function sendOverdueWatchNotices(deps: MailDeps, now: Date): Promis
         subject: `Watch check overdue: ${s.name} (${s.boardName})`,
         greeting: `Hello ${user.name},`,
         body: [
-          `The watch check on “${s.name}” of ${s.boardName} (${s.siteName}) was due at ${localDateTime(dueAt, s.siteTimeZone).slice(0, 16)} ${s.siteTimeZone} and has not been recorded (${late} min ago).`,
+          `The watch check on “${s.name}” of ${s.boardName} (${s.siteName}) was due at ${localMinute(dueAt, s.siteTimeZone)} ${s.siteTimeZone} and has not been recorded (${late} min ago).`,
           "You are named as the qualified person for this stage. Someone should look at the stage and record the check, or de-energise it.",
         ],
         action: { label: "Open the watch checks", url },

@@ -4,7 +4,7 @@
  * operations against their budgets.
  */
 import { defaultOperationsBudget, operationsStatus, OPERATED_KINDS } from "../../src/domain/breaker-operations";
-import { localDate, localDateTime } from "../../src/domain/local-time";
+import { localDate, localMinute } from "../../src/domain/local-time";
 import { DEFAULT_TEMPLATE, isQualifiedOn } from "../../src/domain/return-to-service";
 import {
   evaluateStage,
@@ -170,7 +170,7 @@ export async function boardView(db: Db, siteId: string, boardId: string, now: Da
       words:
         lastWatch.lamps === "equal"
           ? "all three lamps equal."
-          : `${LAMP_LOOK_LABELS[lastWatch.lamps].toLowerCase()} lamp on phase ${lastWatch.lampPhase ?? "?"} at the watch check of ${localDateTime(lastWatch.at, timeZone).slice(0, 16)} ${timeZone}.`,
+          : `${LAMP_LOOK_LABELS[lastWatch.lamps].toLowerCase()} lamp on phase ${lastWatch.lampPhase ?? "?"} at the watch check of ${localMinute(lastWatch.at, timeZone)} ${timeZone}.`,
     };
 
   const byComponent = new Map<string, typeof insulation>();

@@ -96,5 +96,8 @@ export function localDateTime(at: Date | string | null | undefined, zone: string
 /** The calendar day "YYYY-MM-DD" of `at` in `zone`: a site's "today" (a qualification's last day, a file's date). */
 export const localDate = (at: Date | string, zone: string) => localDateTime(at, zone).slice(0, 10);
 
+/** "YYYY-MM-DD HH:mm" of `at` in `zone`: a time as messages and the report write it (the zone named beside it). */
+export const localMinute = (at: Date | string, zone: string) => localDateTime(at, zone).slice(0, 16);
+
 /** The header of a local-time column: `inspected_at (Europe/Lisbon)`. */
 export const localHeader = (column: string, zone: string) => `${column} (${zone})`;

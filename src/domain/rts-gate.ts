@@ -16,7 +16,7 @@
  *   by the lamps, watch checks at the set interval: common practice.
  * - thermal level 3–4: NETA ATS/MTS Table 100.18 via src/domain/thermal.ts.
  */
-import { localDate, localDateTime } from "./local-time";
+import { localDate, localMinute } from "./local-time";
 import { AFTER_ENERGISE_KINDS, isQualifiedOn, type StageStatus, type StepKind, type Supply } from "./return-to-service";
 import type { Verdict } from "./reading-judgement";
 import { watchSchedule } from "./rts-watch";
@@ -169,7 +169,7 @@ const ms = (iso: string) => {
 };
 const fmt = (n: number) => (n >= 100 ? String(Math.round(n)) : String(Number(n.toPrecision(2))));
 /** A moment as the crew reads it: on the site's clock, the zone named ("2026-12-06 11:39 Europe/Lisbon"). */
-const onSite = (iso: string, zone: string) => `${localDateTime(new Date(ms(iso)), zone).slice(0, 16)} ${zone}`;
+const onSite = (iso: string, zone: string) => `${localMinute(new Date(ms(iso)), zone)} ${zone}`;
 const daysOld = (fromMs: number, toMs: number) => Math.floor((toMs - fromMs) / DAY_MS);
 const label = (c: GateCircuit) => (c.circuit ? `${c.designation} (${c.circuit})` : c.designation);
 

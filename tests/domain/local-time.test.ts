@@ -8,7 +8,8 @@
  * (Pacific/Apia, 30 Dec 2011). Each window is checked to hold an offset change, so none passes for want of one.
  */
 import { describe, expect, it } from "vitest";
-import { localDateTime } from "../../src/domain/local-time";
+import { localDate, localDateTime, localMinute } from "../../src/domain/local-time";
+import { icuDay, icuMinute } from "../helpers/icu";
 
 const formats = new Map<string, Intl.DateTimeFormat>();
 const format = (zone: string, opts: Intl.DateTimeFormatOptions) => {
@@ -80,5 +81,17 @@ describe("localDateTime equals Intl's wall-clock time", () => {
     expect(localDateTime("2026-12-02T09:30:00.999Z", "America/Halifax")).toBe("2026-12-02 05:30:00");
     const early = Date.UTC(999, 5, 1, 12);
     expect(localDateTime(new Date(early), "UTC")).toBe(viaIntl(early, "UTC"));
+  });
+});
+
+describe("localDate and localMinute, the site's day and minute", () => {
+  it("equal ICU's day and minute across the date line and a 45-minute zone, hourly over a year", () => {
+    const zones = ["UTC", "Pacific/Kiritimati", "Pacific/Pago_Pago", "Pacific/Chatham", "America/Halifax"];
+    const start = Date.UTC(2026, 0, 1);
+    for (let ms = start; ms < start + 366 * 86_400_000; ms += 3_600_000)
+      for (const zone of zones) {
+        expect(localDate(new Date(ms), zone)).toBe(icuDay(new Date(ms), zone));
+        expect(localMinute(new Date(ms), zone)).toBe(icuMinute(new Date(ms), zone));
+      }
   });
 });
