@@ -41,8 +41,7 @@ export const labelRows = (db: Db, siteId: string, q: LabelsQuery) =>
 
 // ── the condition survey report (server/reports/survey-data.ts) ──
 
-/** The report's optional date range (calendar days, inclusive). */
-/** Days from/to (inclusive) as the site counts them: `zone` is the site's IANA time zone. */
+/** The report's optional date range: calendar days, inclusive, as the site counts them (`zone`, its IANA time zone). */
 type DateRange = { from?: string; to?: string; zone: string };
 
 export const siteForReport = (db: Db, siteId: string) =>

@@ -5,9 +5,9 @@
  * flat whatever the board's size.
  */
 import { once } from "node:events";
-import { localDate } from "../../src/domain/local-time";
 import type { Writable } from "node:stream";
 import sharp from "sharp";
+import { localDate } from "../../src/domain/local-time";
 import type { SurveyReportQuery } from "../../src/schemas/reports";
 import type { Db } from "../db";
 import { exportWriteTimeoutMs } from "../export-stream";
