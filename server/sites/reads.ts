@@ -17,7 +17,7 @@ export async function sitesFor(db: Db, user: { id: string; isAdmin: boolean }) {
 
 export const findSite = (db: Db, siteId: string) => repo.findSite(db, siteId);
 
-/** The site's IANA time zone, in which exports write local times ("UTC" when the site is gone). */
+/** The site's IANA time zone, its clock for files, the report, e-mails and its days ("UTC" when the site is gone). */
 export async function siteTimeZone(db: Db, siteId: string): Promise<string> {
   return (await repo.findSite(db, siteId))?.timeZone ?? "UTC";
 }
