@@ -19,12 +19,13 @@ import type { Contaminant, Custody, Disposition, Heritage, InsulationState, Mech
 import { astmD610Grade, iso4628RiGrade } from "../../src/domain/corrosion";
 import { recommendDisposition } from "../../src/domain/flood-guidance";
 import { SEED_BOARDS, nameplateFor, seededRandom, type SeedBoard, type SeedPosition } from "./inventory-layout";
+import { onSiteClock } from "./clock";
 
 type Db = Kysely<Database>;
 type Rnd = ReturnType<typeof seededRandom>;
 
 const FLOOD = { occurredOn: "2026-10-14", waterType: "salt" as const, maxDepthM: 1.1, hoursSubmerged: 30 };
-const day = (d: number, hour = 10) => new Date(Date.UTC(2026, 9, 14 + d, hour, Math.floor(d * 7) % 60));
+const day = (d: number, hour = 10) => onSiteClock(2026, 9, 14 + d, hour, Math.floor(d * 7) % 60);
 
 const BELOW_RUST = [0.5, 2, 5, 8, 12, 15, 20, 30, 40, 55, 70];
 const ABOVE_RUST = [0, 0.01, 0.02, 0.05, 0.1, 0.2, 0.5, 1, 2];

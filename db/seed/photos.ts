@@ -13,6 +13,7 @@ import { PHOTO_KIND_LABELS } from "../../src/domain/vocab";
 import { processImage } from "../../server/photos/images";
 import { photoKey, storageFromEnv, type PhotoStorage } from "../../server/photos/storage";
 import type { SeedContext } from "./demo";
+import { onSiteClock } from "./clock";
 
 const SHOTS: Array<{ board: string; designation: string; kind: PhotoKind; caption: string; day: number }> = [
   {
@@ -73,7 +74,7 @@ export async function seedPhotos(db: Kysely<Database>, ctx: SeedContext, storage
       displayKey: photoKey(ctx.siteId, id, "display", "jpg"),
       thumbKey: photoKey(ctx.siteId, id, "thumb", "jpg"),
     };
-    const at = new Date(Date.UTC(2026, 10, shot.day, 10, 0, 0));
+    const at = onSiteClock(2026, 10, shot.day, 10);
     await db
       .insertInto("photos")
       .values({

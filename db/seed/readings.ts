@@ -9,10 +9,11 @@ import type { Kysely } from "kysely";
 import type { Database } from "../types";
 import type { SeedContext } from "./demo";
 import { netaCorrectionFactor } from "../../src/domain/insulation";
+import { onSiteClock } from "./clock";
 
 type Db = Kysely<Database>;
 const MAIN = "Main switchboard (engine room, aft)";
-const at = (day: number, hour: number, minute = 0) => new Date(Date.UTC(2026, 10, 10 + day, hour, minute));
+const at = (day: number, hour: number, minute = 0) => onSiteClock(2026, 10, 10 + day, hour, minute);
 /** Board temperature on each morning of the dry-out, °C: heaters on and off, weather. */
 const TEMPS = [14, 17, 22, 26, 19, 24, 28, 21, 25, 30];
 /** Megohmmeter display: two significant figures below 100, whole megohms above. */

@@ -16,6 +16,9 @@ import type { Database, RtsSignoffsTable } from "../types";
 import type { SeedContext } from "./demo";
 import { DEFAULT_TEMPLATE, QUALIFIED_ONLY_KINDS, type StepKind } from "../../src/domain/return-to-service";
 import { priorityScore } from "../../src/domain/priority";
+import { localDate } from "../../src/domain/local-time";
+import { onSiteClock } from "./clock";
+import { DEMO_SITE } from "./people";
 
 type Db = Kysely<Database>;
 const MAIN = "Main switchboard (engine room, aft)";
@@ -36,8 +39,9 @@ export async function seedReturnToService(db: Db, ctx: SeedContext, now = new Da
   const rufus = ctx.people["scrounger@tideline.test"];
   const names: Record<string, string> = { [ines]: "Ines Marrow", [tobias]: "Tobias Quell" };
   const todayStart = Date.UTC(now.getUTCFullYear(), now.getUTCMonth(), now.getUTCDate());
-  const day = (daysAgo: number, hour: number, minute = 0) =>
-    new Date(todayStart - daysAgo * DAY + hour * HOUR + minute * 60_000);
+  // `daysAgo` days before today on the site's calendar, at `hour`:`minute` on its clock.
+  const [y, m, d] = localDate(now, DEMO_SITE.timeZone).split("-").map(Number);
+  const day = (daysAgo: number, hour: number, minute = 0) => onSiteClock(y, m - 1, d - daysAgo, hour, minute);
   const dateOnly = (ms: number) => new Date(ms).toISOString().slice(0, 10);
 
   await db

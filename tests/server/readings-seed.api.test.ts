@@ -2,6 +2,7 @@ import { afterAll, beforeAll, expect, it } from "vitest";
 import { seedDemo } from "../../db/seed/demo";
 import * as service from "../../server/readings/service";
 import { createTestDb, type TestDb } from "../helpers/db";
+import { icuMinute } from "../helpers/icu";
 
 let t: TestDb;
 let siteId: string;
@@ -50,4 +51,24 @@ it("the demo has one outlier pole, a level-2 thermal finding and a dim phase-B l
     "Phase B lamp dim, A and C bright: suspect a ground on phase B — on a vessel, a fault to the hull.",
   );
   expect(groundChecks[1].judgement.verdict).toBe("meets");
+});
+
+it("the demo's survey and dry-out are logged in working hours on the site's own clock (ICU's reading of its zone)", async () => {
+  const zone = (await t.db.selectFrom("sites").select("timeZone").where("id", "=", siteId).executeTakeFirstOrThrow())
+    .timeZone;
+  expect(zone).toBe("America/Halifax");
+  const hourOf = (at: Date | string) => Number(icuMinute(at, zone).slice(11, 13));
+  const { insulation } = await service.boardReadings(t.db, siteId, boardId);
+  const dryOut = insulation.filter((x) => ["1-1", "1-2", "BUS-A"].includes(x.designation ?? ""));
+  const inspections = await t.db.selectFrom("inspections").select("inspectedAt").execute();
+  const photos = await t.db.selectFrom("photos").select("createdAt").execute();
+  expect(dryOut.length + inspections.length + photos.length).toBeGreaterThan(30);
+  for (const at of [
+    ...dryOut.map((r) => r.measuredAt),
+    ...inspections.map((i) => i.inspectedAt),
+    ...photos.map((p) => p.createdAt),
+  ]) {
+    expect(hourOf(at)).toBeGreaterThanOrEqual(7);
+    expect(hourOf(at)).toBeLessThanOrEqual(18);
+  }
 });
