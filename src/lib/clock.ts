@@ -19,20 +19,18 @@ const two = (n: number) => (n < 10 ? `0${n}` : String(n));
 /** The local calendar day of `d` as YYYY-MM-DD (ISO 8601). */
 export const localDay = (d: Date) => `${d.getFullYear()}-${two(d.getMonth() + 1)}-${two(d.getDate())}`;
 
-/** "HH:MM" when `at` fell on `now`'s local day, else "YYYY-MM-DD HH:MM"; "never" for none. */
-export function clockTime(at: string | number | null, now: number = Date.now()): string {
-  if (at == null) return "never";
-  const d = new Date(at);
-  if (Number.isNaN(d.getTime())) return "never";
-  const hm = `${two(d.getHours())}:${two(d.getMinutes())}`;
-  return localDay(d) === localDay(new Date(now)) ? hm : `${localDay(d)} ${hm}`;
-}
-
 const parse = (at: string | number | Date | null | undefined): Date | null => {
   if (at == null) return null;
   const d = new Date(at);
   return Number.isNaN(d.getTime()) ? null : d;
 };
+
+/** "HH:MM" when `at` fell on `now`'s local day, else "YYYY-MM-DD HH:MM"; "never" for none. */
+export function clockTime(at: string | number | null, now: number = Date.now()): string {
+  const d = parse(at);
+  if (!d) return "never";
+  return localDay(d) === localDay(new Date(now)) ? stamp(d).slice(11) : stamp(d);
+}
 
 /** A record's instant as "YYYY-MM-DD HH:MM" on the local clock, 24-hour; `none` for none. */
 export function stamp(at: string | number | Date | null | undefined, none = "—"): string {
