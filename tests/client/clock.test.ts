@@ -1,12 +1,13 @@
 /**
  * The sync bar's clock (src/lib/clock.ts) against ICU: Intl.DateTimeFormat with a 24-hour cycle ("h23") in the
- * same time zone, read part by part, is the reference for every instant checked. The zones are set on the process
+ * zone named (tests/helpers/icu.ts), read part by part, is the reference for every instant checked. The zones are set on the process
  * (Node applies a new `process.env.TZ` at once) and include daylight-saving changes and a half-hour offset.
  * The pages' record times (`stamp`, `dateOf`) and a chart's axis day (`shortDay`) are checked the same way; the
  * axis's month against ICU's en-US short month names ("Sep", where en-GB now writes "Sept").
  */
 import { afterAll, describe, expect, it } from "vitest";
 import { clockTime, dateOf, localDay, shortDay, stamp } from "../../src/lib/clock";
+import { icuMinute } from "../helpers/icu";
 
 const ZONES = ["UTC", "Europe/Lisbon", "America/New_York", "Asia/Kolkata", "Australia/Adelaide"];
 const before = process.env.TZ;
@@ -15,22 +16,18 @@ afterAll(() => {
   else process.env.TZ = before;
 });
 
-const reference = () => {
-  const f = new Intl.DateTimeFormat("en-GB", {
-    year: "numeric",
-    month: "2-digit",
-    day: "2-digit",
-    hour: "2-digit",
-    minute: "2-digit",
-    hourCycle: "h23",
-  });
-  return (ms: number) => Object.fromEntries(f.formatToParts(new Date(ms)).map((p) => [p.type, p.value]));
+/** ICU's reading of the instant in `zone` (tests/helpers/icu.ts), part by part. */
+const reference = (zone: string) => (ms: number) => {
+  const [day, time] = icuMinute(new Date(ms), zone).split(" ");
+  const [y, mo, d] = day.split("-");
+  const [hour, minute] = time.split(":");
+  return { year: y, month: mo, day: d, hour, minute };
 };
 
 describe.each(ZONES)("clockTime in %s", (zone) => {
   it("writes HH:MM on the same local day and YYYY-MM-DD HH:MM on another, as ICU reads the local fields", () => {
     process.env.TZ = zone;
-    const parts = reference();
+    const parts = reference(zone);
     // Every 97 minutes over a year: every hour of the day is met, and any daylight-saving change of the zone.
     const start = Date.UTC(2026, 0, 1);
     for (let ms = start; ms < start + 366 * 86_400_000; ms += 97 * 60_000) {
@@ -44,7 +41,7 @@ describe.each(ZONES)("clockTime in %s", (zone) => {
 
   it("takes ISO strings as the outbox and the query cache keep them; midnight is 00; says never for none", () => {
     process.env.TZ = zone;
-    const parts = reference();
+    const parts = reference(zone);
     const iso = "2026-12-04T17:21:09.000Z";
     const p = parts(Date.parse(iso));
     expect(clockTime(iso, Date.parse(iso))).toBe(`${p.hour}:${p.minute}`);
@@ -60,7 +57,7 @@ describe.each(ZONES)("clockTime in %s", (zone) => {
 describe.each(ZONES)("stamp, dateOf and shortDay in %s", (zone) => {
   it("write a record's instant as YYYY-MM-DD HH:MM and its day as YYYY-MM-DD, as ICU reads the local fields", () => {
     process.env.TZ = zone;
-    const parts = reference();
+    const parts = reference(zone);
     const axis = new Intl.DateTimeFormat("en-US", { day: "numeric", month: "short" });
     const start = Date.UTC(2026, 0, 1);
     for (let ms = start; ms < start + 366 * 86_400_000; ms += 97 * 60_000) {
