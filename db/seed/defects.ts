@@ -5,7 +5,7 @@
  */
 import type { Insertable, Kysely } from "kysely";
 import type { Database, DefectsTable } from "../types";
-import type { SeedContext } from "./demo";
+import type { SeedContext } from "./context";
 import { priorityScore, type PartsAvailability } from "../../src/domain/priority";
 import type { DefectCategory, DefectSeverity, DefectStatus } from "../../src/domain/vocab";
 

@@ -10,6 +10,7 @@ import { seedPhotos } from "./photos";
 import { seedReadings } from "./readings";
 import { seedReturnToService } from "./return-to-service";
 import { refreshSiteSummaries } from "../../server/inventory/board-summaries-repository";
+import type { SeedContext } from "./context";
 
 type Db = Kysely<Database>;
 
@@ -41,11 +42,6 @@ export async function seedDemo(db: Db) {
   });
 }
 
-export interface SeedContext {
-  siteId: string;
-  /** user id by e-mail */
-  people: Record<string, string>;
-}
 /** Later features append their part of the scenario here, in order. */
 export const SEED_STEPS: Array<(trx: Db, ctx: SeedContext) => Promise<void>> = [
   seedInventory, // boards, positions, components and the survey: first, others hang on it

@@ -14,7 +14,7 @@ import type {
   AuditLogTable,
   ComponentsTable,
 } from "../types";
-import type { SeedContext } from "./demo";
+import type { SeedContext } from "./context";
 import type { Contaminant, Custody, Disposition, Heritage, InsulationState, Mechanism } from "../../src/domain/vocab";
 import { astmD610Grade, iso4628RiGrade } from "../../src/domain/corrosion";
 import { recommendDisposition } from "../../src/domain/flood-guidance";

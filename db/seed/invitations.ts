@@ -1,7 +1,7 @@
 import type { Kysely } from "kysely";
 import { newToken } from "../../server/one-time-token";
 import type { Database } from "../types";
-import type { SeedContext } from "./demo";
+import type { SeedContext } from "./context";
 
 /**
  * One pending invitation on the demo site (a fictional newcomer), so the crew page shows

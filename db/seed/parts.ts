@@ -7,7 +7,7 @@ import type { Kysely } from "kysely";
 import type { Database } from "../types";
 import { rebuildBudget, reconcileDemand } from "../../server/parts/service";
 import { needKey } from "../../src/domain/part-workflow";
-import type { SeedContext } from "./demo";
+import type { SeedContext } from "./context";
 
 type Db = Kysely<Database>;
 

@@ -12,7 +12,7 @@ import type { PhotoKind } from "../../src/domain/vocab";
 import { PHOTO_KIND_LABELS } from "../../src/domain/vocab";
 import { processImage } from "../../server/photos/images";
 import { photoKey, storageFromEnv, type PhotoStorage } from "../../server/photos/storage";
-import type { SeedContext } from "./demo";
+import type { SeedContext } from "./context";
 import { onSiteClock } from "./clock";
 
 const SHOTS: Array<{ board: string; designation: string; kind: PhotoKind; caption: string; day: number }> = [

@@ -7,7 +7,7 @@
  */
 import type { Kysely } from "kysely";
 import type { Database } from "../types";
-import type { SeedContext } from "./demo";
+import type { SeedContext } from "./context";
 import { netaCorrectionFactor } from "../../src/domain/insulation";
 import { onSiteClock } from "./clock";
 

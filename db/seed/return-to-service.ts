@@ -13,7 +13,7 @@
  */
 import type { Insertable, Kysely } from "kysely";
 import type { Database, RtsSignoffsTable } from "../types";
-import type { SeedContext } from "./demo";
+import type { SeedContext } from "./context";
 import { DEFAULT_TEMPLATE, QUALIFIED_ONLY_KINDS, type StepKind } from "../../src/domain/return-to-service";
 import { priorityScore } from "../../src/domain/priority";
 import { localDate } from "../../src/domain/local-time";

@@ -7,7 +7,7 @@
  */
 import type { Db } from "../db";
 import { AppError, notFound } from "../errors";
-import * as readings from "../readings/service";
+import * as readings from "../readings/reads";
 import { recordAudit } from "../audit";
 import * as repo from "./repository";
 

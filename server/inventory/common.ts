@@ -4,14 +4,9 @@
  * turning PostgreSQL's unique violations into clear 409s.
  */
 import type { Response } from "express";
-import type { Selectable } from "kysely";
-import type { Database } from "../../db/types";
 import type { Db } from "../db";
 import { AppError, conflict, notFound } from "../errors";
-import { findOwned, updateIfVersion } from "./owned-repository";
-
-export type Editable = "floodEvents" | "boards" | "sections" | "positions" | "components";
-export type Row<T extends Editable> = Selectable<Database[T]>;
+import { findOwned, updateIfVersion, type Editable, type Row } from "./owned-repository";
 
 export const actorOf = (res: Response) => res.locals.user!.id;
 

@@ -26,7 +26,6 @@ import { AppError } from "../errors";
 import { readTextCell } from "../csv";
 import { guessSeparator, type DecodedText } from "../csv-read";
 import { csvRowSchema, toRecord, type ImportRecord } from "./csv-row";
-import { planOffThread } from "./csv-plan-pool";
 
 interface Parsed {
   line: number;
@@ -116,7 +115,8 @@ export const separatorName = (s: string) =>
 const loadPositions = repo.importPositions;
 export type CurrentPosition = Awaited<ReturnType<typeof loadPositions>>[number];
 
-async function siteState(db: Db, siteId: string) {
+/** The site's inventory as an import is planned against (on the caller's connection or transaction). */
+export async function siteState(db: Db, siteId: string) {
   const boards = await repo.importBoards(db, siteId);
   const sections = await repo.importSections(db, siteId);
   const positions = await loadPositions(db, siteId);
@@ -283,17 +283,6 @@ function cellsOf(boardKey: string, p: { gridRow: number; gridCol: number; rowSpa
   for (let r = p.gridRow; r < p.gridRow + p.rowSpan; r++)
     for (let c = p.gridCol; c < p.gridCol + p.colSpan; c++) out.push(`${boardKey}|${r}|${c}`);
   return out;
-}
-
-/**
- * Reads the site's inventory (on the caller's connection or transaction), then parses, checks and
- * plans the file on a worker thread (./csv-plan-pool.ts): a file of thousands of rows takes
- * seconds of CPU, and on the event loop that stalled every other request.
- */
-export async function validateImport(db: Db, siteId: string, decoded: DecodedText) {
-  const state = await siteState(db, siteId);
-  const { response, planned } = await planOffThread(decoded, state);
-  return { response, planned, state };
 }
 
 /**

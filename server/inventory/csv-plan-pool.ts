@@ -10,7 +10,8 @@
 import { Piscina } from "piscina";
 import type { DecodedText } from "../csv-read";
 import { AppError } from "../errors";
-import type { SiteState } from "./csv-import";
+import type { Db } from "../db";
+import { siteState, type SiteState } from "./csv-import";
 import type { PlanOutcome } from "./csv-plan-worker";
 
 let pool: Piscina | undefined;
@@ -31,10 +32,21 @@ function poolOf(): Piscina {
   return pool;
 }
 
-export async function planOffThread(decoded: DecodedText, state: SiteState) {
+async function planOffThread(decoded: DecodedText, state: SiteState) {
   const out = (await poolOf().run({ decoded, state })) as PlanOutcome;
   if (!out.ok) throw new AppError(out.status, out.code, out.message, out.fields);
   return { response: out.response, planned: out.planned };
+}
+
+/**
+ * Reads the site's inventory (on the caller's connection or transaction), then parses, checks and
+ * plans the file on a worker thread (./csv-plan-worker.ts): a file of thousands of rows takes
+ * seconds of CPU, and on the event loop that stalled every other request.
+ */
+export async function validateImport(db: Db, siteId: string, decoded: DecodedText) {
+  const state = await siteState(db, siteId);
+  const { response, planned } = await planOffThread(decoded, state);
+  return { response, planned, state };
 }
 
 /** Ends the worker threads (graceful shutdown; tests). */

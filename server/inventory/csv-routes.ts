@@ -9,7 +9,8 @@ import { actorOf } from "./common";
 import { decodeCsvBytes, fromText } from "../csv-read";
 import { ImportChanged, ImportInvalid, commitImport } from "./csv-commit";
 import { exportInventoryCsv } from "./csv-export";
-import { answerOf, validateImport } from "./csv-import";
+import { answerOf } from "./csv-import";
+import { validateImport } from "./csv-plan-pool";
 
 /**
  * 2 MB of CSV is some 10 000 rows, more than any board set; larger gets 413 (JSON {csv} too: its

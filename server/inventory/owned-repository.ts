@@ -8,9 +8,13 @@
  * waited for the lock holder, and a writer holding the site's demand lock waited for one waiting for that lock
  * (DEVELOPERS.md, "Lock order of the wanted list's writers").
  */
-import { sql } from "kysely";
+import { sql, type Selectable } from "kysely";
+import type { Database } from "../../db/types";
 import type { Db } from "../db";
-import type { Editable, Row } from "./common";
+
+/** The inventory tables edited this way, and one row of each. */
+export type Editable = "floodEvents" | "boards" | "sections" | "positions" | "components";
+export type Row<T extends Editable> = Selectable<Database[T]>;
 
 export async function findOwned<T extends Editable>(
   db: Db,

@@ -17,7 +17,7 @@ import { recommendFor } from "./recommendation";
 import * as repo from "./survey-repository";
 import * as positions from "./positions-repository";
 import * as boards from "./boards-repository";
-import * as readings from "../readings/service";
+import * as readings from "../readings/reads";
 import {
   CUSTODY,
   type ComponentKind,

@@ -25,6 +25,7 @@ import { siteTimeZone } from "../sites/reads";
 import { localDate } from "../../src/domain/local-time";
 import { nameplateThumb } from "../photos/reads";
 import * as service from "./service";
+import { moveLineStatus } from "./workflow";
 import * as share from "./share";
 
 const lineParams = z.object({ siteId: z.uuid(), lineId: z.uuid({ message: "lineId must be a UUID" }) });
@@ -119,7 +120,7 @@ export function partsRoutes(db: Db, storage: PhotoStorage, mail?: MailDeps) {
   r.post(`${base}/:lineId/status`, requireSiteRole(db, "parts.edit"), async (req, res) => {
     const { siteId, lineId } = lineParams.parse(req.params);
     const who = { id: actor(res), role: res.locals.siteRole as Role | "admin" };
-    const { line, ctx } = await service.moveLineStatus(db, siteId, lineId, statusBody.parse(req.body), who);
+    const { line, ctx } = await moveLineStatus(db, siteId, lineId, statusBody.parse(req.body), who);
     res.json({ line });
     sendDefectNotices(mail, ctx); // a fitted part may have moved a defect on: its notice goes after the commit
   });

@@ -16,7 +16,6 @@ import { LINKS_IN_ROW } from "../../src/schemas/parts";
 
 export { reconcileDemand, syncDemand } from "./demand";
 export { rebuildBudget } from "./budget-repository";
-export { moveLineStatus } from "./workflow";
 export { lineRow } from "./rows";
 
 type Actor = { id: string; role: Role | "admin" };

@@ -15,6 +15,7 @@ import {
 import type { Db } from "../db";
 import { idempotent } from "../idempotency/middleware";
 import { requireSiteRole } from "../middleware/roles";
+import * as reads from "./reads";
 import * as service from "./service";
 
 const boardParams = z.object({ siteId: z.uuid(), boardId: z.uuid({ message: "boardId must be a UUID" }) });
@@ -31,10 +32,10 @@ export function readingRoutes(db: Db) {
   const S = "/sites/:siteId";
 
   r.get(`${S}/readings/targets`, read, async (req, res) => {
-    res.json({ boards: await service.readingTargets(db, req.params.siteId as string) });
+    res.json({ boards: await reads.readingTargets(db, req.params.siteId as string) });
   });
   r.get(`${S}/readings/criteria`, read, async (req, res) => {
-    res.json({ criteria: await service.loadCriteria(db, req.params.siteId as string) });
+    res.json({ criteria: await reads.loadCriteria(db, req.params.siteId as string) });
   });
   r.put(`${S}/readings/criteria`, curate, async (req, res) => {
     res.json({
@@ -45,11 +46,11 @@ export function readingRoutes(db: Db) {
   // ---- per board ----
   r.get(`${S}/boards/:boardId/readings`, read, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);
-    res.json(await service.boardReadings(db, siteId, boardId));
+    res.json(await reads.boardReadings(db, siteId, boardId));
   });
   r.get(`${S}/boards/:boardId/insulation-readings`, read, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);
-    res.json({ readings: await service.listInsulation(db, siteId, { boardId, ...insulationQuery.parse(req.query) }) });
+    res.json({ readings: await reads.listInsulation(db, siteId, { boardId, ...insulationQuery.parse(req.query) }) });
   });
   r.post(`${S}/boards/:boardId/insulation-readings`, record, once, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);
@@ -59,19 +60,19 @@ export function readingRoutes(db: Db) {
   });
   r.get(`${S}/boards/:boardId/contact-readings`, read, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);
-    res.json({ readings: await service.listContacts(db, siteId, { boardId }) });
+    res.json({ readings: await reads.listContacts(db, siteId, { boardId }) });
   });
   r.get(`${S}/boards/:boardId/thermal-scans`, read, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);
-    res.json({ scans: await service.listThermal(db, siteId, { boardId }) });
+    res.json({ scans: await reads.listThermal(db, siteId, { boardId }) });
   });
   r.get(`${S}/boards/:boardId/ground-checks`, read, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);
-    res.json({ checks: await service.listGroundChecks(db, siteId, { boardId }) });
+    res.json({ checks: await reads.listGroundChecks(db, siteId, { boardId }) });
   });
   r.get(`${S}/boards/:boardId/ground-checks/latest`, read, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);
-    res.json({ check: await service.latestGroundCheck(db, siteId, boardId) });
+    res.json({ check: await reads.latestGroundCheck(db, siteId, boardId) });
   });
   r.post(`${S}/boards/:boardId/ground-checks`, record, once, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);
@@ -82,7 +83,7 @@ export function readingRoutes(db: Db) {
 
   r.get(`${S}/boards/:boardId/step-voltage-tests`, read, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);
-    res.json({ tests: await service.listStepTests(db, siteId, { boardId }) });
+    res.json({ tests: await reads.listStepTests(db, siteId, { boardId }) });
   });
   r.post(`${S}/boards/:boardId/step-voltage-tests`, record, once, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);
@@ -92,7 +93,7 @@ export function readingRoutes(db: Db) {
   });
   r.get(`${S}/boards/:boardId/ground-hunts`, read, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);
-    res.json({ hunts: await service.listGroundHunts(db, siteId, boardId) });
+    res.json({ hunts: await reads.listGroundHunts(db, siteId, boardId) });
   });
   r.post(`${S}/boards/:boardId/ground-hunts`, record, once, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);
@@ -104,7 +105,7 @@ export function readingRoutes(db: Db) {
   // ---- per component ----
   r.get(`${S}/components/:componentId/trip-tests`, read, async (req, res) => {
     const { siteId, componentId } = componentParams.parse(req.params);
-    res.json({ tests: await service.listTripTests(db, siteId, { componentId }) });
+    res.json({ tests: await reads.listTripTests(db, siteId, { componentId }) });
   });
   r.post(`${S}/components/:componentId/trip-tests`, record, once, async (req, res) => {
     const { siteId, componentId } = componentParams.parse(req.params);
@@ -114,15 +115,15 @@ export function readingRoutes(db: Db) {
   });
   r.get(`${S}/components/:componentId/readings`, read, async (req, res) => {
     const { siteId, componentId } = componentParams.parse(req.params);
-    res.json(await service.componentReadings(db, siteId, componentId));
+    res.json(await reads.componentReadings(db, siteId, componentId));
   });
   r.get(`${S}/components/:componentId/insulation-readings`, read, async (req, res) => {
     const { siteId, componentId } = componentParams.parse(req.params);
-    res.json({ readings: await service.listInsulation(db, siteId, { componentId }) });
+    res.json({ readings: await reads.listInsulation(db, siteId, { componentId }) });
   });
   r.get(`${S}/components/:componentId/contact-readings`, read, async (req, res) => {
     const { siteId, componentId } = componentParams.parse(req.params);
-    res.json({ readings: await service.listContacts(db, siteId, { componentId }) });
+    res.json({ readings: await reads.listContacts(db, siteId, { componentId }) });
   });
   r.post(`${S}/components/:componentId/contact-readings`, record, once, async (req, res) => {
     const { siteId, componentId } = componentParams.parse(req.params);
@@ -132,7 +133,7 @@ export function readingRoutes(db: Db) {
   });
   r.get(`${S}/components/:componentId/thermal-scans`, read, async (req, res) => {
     const { siteId, componentId } = componentParams.parse(req.params);
-    res.json({ scans: await service.listThermal(db, siteId, { componentId }) });
+    res.json({ scans: await reads.listThermal(db, siteId, { componentId }) });
   });
   r.post(`${S}/components/:componentId/thermal-scans`, record, once, async (req, res) => {
     const { siteId, componentId } = componentParams.parse(req.params);

@@ -1,10 +1,4 @@
-import {
-  DEFAULT_CRITERIA,
-  correctInsulation,
-  judgeGroundCheck,
-  judgeThermalScan,
-  type ReadingCriteria,
-} from "../../src/domain/reading-judgement";
+import { correctInsulation, judgeGroundCheck, judgeThermalScan } from "../../src/domain/reading-judgement";
 import type { z } from "zod";
 import type {
   contactReadingBody,
@@ -13,57 +7,30 @@ import type {
   insulationReadingBody,
   overrideBody,
   thermalScanBody,
-  Criteria,
 } from "../../src/schemas/readings";
 import { recordAudit } from "../audit";
 import type { Db } from "../db";
 import { AppError, conflict, notFound } from "../errors";
 import { onReadingRecorded } from "../return-to-service/hooks";
 import { isUniqueViolation } from "../middleware/pg-errors";
-import { phaseComparisons } from "./comparisons";
-import {
-  contactDto,
-  groundDto,
-  huntStepDto,
-  insulationDto,
-  judgeTrip,
-  stepDto,
-  thermalDto,
-  tripDto,
-  type Overrides,
-} from "./judge";
-import { GROUND_HUNT_SOURCE, groundHuntFinding } from "../../src/domain/ground-detection";
+import { huntStepDto, judgeTrip } from "./judge";
 import { TRIP_TESTABLE_KINDS } from "../../src/domain/trip-test";
-import type { GroundHunt, groundHuntBody, stepVoltageBody, tripTestBody } from "../../src/schemas/readings";
+import type { groundHuntBody, stepVoltageBody, tripTestBody } from "../../src/schemas/readings";
 import * as repo from "./repository";
+import {
+  boardOrThrow,
+  componentOrThrow,
+  listContacts,
+  listGroundChecks,
+  listInsulation,
+  listStepTests,
+  listThermal,
+  listTripTests,
+  loadCriteria,
+  overrideDto,
+} from "./reads";
 
 const invalid = (field: string, message: string) => new AppError(400, "invalid_input", message, { [field]: message });
-
-/** The site's criteria, or the defaults (version 0) when the curator has set none. */
-/** The boards of the site with the positions and components a reading may be taken on. */
-export const readingTargets = async (db: Db, siteId: string) =>
-  (await repo.listTargets(db, siteId)).map((b) => ({
-    id: b.id,
-    name: b.name,
-    nominalVolts: Number(b.nominalVolts),
-    positionCount: Number(b.positionCount ?? 0),
-  }));
-
-export async function loadCriteria(db: Db, siteId: string): Promise<Criteria & ReadingCriteria> {
-  const row = await repo.getCriteria(db, siteId);
-  if (!row) return { ...DEFAULT_CRITERIA, version: 0, updatedAt: null };
-  return {
-    correctionMethod: row.correctionMethod,
-    insulationMedium: row.insulationMedium,
-    thermalClass: row.thermalClass,
-    minimumMegohms: row.minimumMegohms,
-    minimumSource: row.minimumSource,
-    contactOutlierPercent: row.contactOutlierPercent,
-    dewPointMarginK: row.dewPointMarginK,
-    version: row.version,
-    updatedAt: row.updatedAt.toISOString(),
-  };
-}
 
 export async function saveCriteria(db: Db, siteId: string, userId: string, body: z.infer<typeof criteriaBody>) {
   return db
@@ -103,25 +70,6 @@ export async function saveCriteria(db: Db, siteId: string, userId: string, body:
       throw e;
     });
 }
-
-async function overridesFor(db: Db, siteId: string, componentIds: Array<string | null>): Promise<Overrides> {
-  const ids = [...new Set(componentIds.filter((x): x is string => !!x))];
-  const rows = await repo.listOverrides(db, siteId, ids);
-  return new Map(
-    rows.map((o) => [
-      o.componentId,
-      { minimumMegohms: o.minimumMegohms, maximumMicroOhms: o.maximumMicroOhms, source: o.source },
-    ]),
-  );
-}
-
-const overrideDto = (o: NonNullable<Awaited<ReturnType<typeof repo.getOverride>>>) => ({
-  componentId: o.componentId,
-  minimumMegohms: o.minimumMegohms,
-  maximumMicroOhms: o.maximumMicroOhms,
-  source: o.source,
-  version: o.version,
-});
 
 export async function saveOverride(
   db: Db,
@@ -197,17 +145,6 @@ export async function removeOverride(db: Db, siteId: string, componentId: string
 function checkWhen(measuredAt: string, now = Date.now()) {
   if (new Date(measuredAt).getTime() > now + 3600_000)
     throw invalid("measuredAt", "The reading's time is in the future.");
-}
-
-async function boardOrThrow(db: Db, siteId: string, boardId: string) {
-  const board = await repo.findBoard(db, siteId, boardId);
-  if (!board) throw notFound("That board");
-  return board;
-}
-async function componentOrThrow(db: Db, siteId: string, componentId: string) {
-  const c = await repo.findComponent(db, siteId, componentId);
-  if (!c) throw notFound("That component");
-  return c;
 }
 
 export async function recordInsulation(
@@ -431,97 +368,6 @@ export async function recordGroundCheck(
   return (await listGroundChecks(db, siteId, { id }))[0];
 }
 
-type Filter = Omit<repo.ReadingFilter, "siteId"> & { id?: string };
-
-export async function listInsulation(db: Db, siteId: string, f: Filter) {
-  const [criteria, rows] = await Promise.all([loadCriteria(db, siteId), repo.listInsulation(db, { siteId, ...f })]);
-  const overrides = await overridesFor(
-    db,
-    siteId,
-    rows.map((r) => r.componentId),
-  );
-  return rows.map((r) => insulationDto(r, criteria, overrides));
-}
-export async function listContacts(db: Db, siteId: string, f: Filter) {
-  const [criteria, rows] = await Promise.all([loadCriteria(db, siteId), repo.listContacts(db, { siteId, ...f })]);
-  const overrides = await overridesFor(
-    db,
-    siteId,
-    rows.map((r) => r.componentId),
-  );
-  return rows.map((r) => contactDto(r, criteria, overrides));
-}
-export async function listThermal(db: Db, siteId: string, f: Filter) {
-  return (await repo.listThermal(db, { siteId, ...f })).map(thermalDto);
-}
-export async function listGroundChecks(db: Db, siteId: string, f: Filter) {
-  const [s, rows] = await Promise.all([repo.site(db, siteId), repo.listGroundChecks(db, { siteId, ...f })]);
-  return rows.map((r) => groundDto(r, s.kind));
-}
-
-export async function boardReadings(db: Db, siteId: string, boardId: string) {
-  const board = await boardOrThrow(db, siteId, boardId);
-  const [insulation, contacts, thermal, groundChecks, tripTests, stepTests, groundHunts, positions] = await Promise.all(
-    [
-      listInsulation(db, siteId, { boardId }),
-      listContacts(db, siteId, { boardId }),
-      listThermal(db, siteId, { boardId }),
-      listGroundChecks(db, siteId, { boardId }),
-      listTripTests(db, siteId, { boardId }),
-      listStepTests(db, siteId, { boardId }),
-      listGroundHunts(db, siteId, boardId),
-      repo.boardTargets(db, boardId),
-    ],
-  );
-  return {
-    board: { ...board, nominalVolts: Number(board.nominalVolts) },
-    positions,
-    insulation,
-    contacts,
-    thermal,
-    groundChecks,
-    tripTests,
-    stepTests,
-    groundHunts,
-    phaseComparisons: phaseComparisons(insulation),
-  };
-}
-
-export async function componentReadings(db: Db, siteId: string, componentId: string) {
-  const c = await componentOrThrow(db, siteId, componentId);
-  const [insulation, contacts, thermal, override, tripTests, stepTests] = await Promise.all([
-    listInsulation(db, siteId, { componentId }),
-    listContacts(db, siteId, { componentId }),
-    listThermal(db, siteId, { componentId }),
-    repo.getOverride(db, siteId, componentId),
-    listTripTests(db, siteId, { componentId }),
-    listStepTests(db, siteId, { componentId }),
-  ]);
-  return {
-    component: {
-      id: c.id,
-      boardId: c.boardId,
-      boardName: c.boardName,
-      positionId: c.positionId,
-      designation: c.designation,
-      circuit: c.circuit,
-      kind: c.kind,
-      ratedVolts: Number(c.voltageRating ?? c.nominalVolts),
-    },
-    override: override ? overrideDto(override) : null,
-    insulation,
-    contacts,
-    thermal,
-    tripTests,
-    stepTests,
-  };
-}
-
-export async function latestGroundCheck(db: Db, siteId: string, boardId: string) {
-  await boardOrThrow(db, siteId, boardId);
-  return (await listGroundChecks(db, siteId, { boardId, limit: 1 }))[0] ?? null;
-}
-
 export async function recordTripTest(
   db: Db,
   siteId: string,
@@ -648,24 +494,4 @@ export async function recordHuntStep(
     return id;
   });
   return (await repo.listHuntSteps(db, { siteId, id })).map(huntStepDto)[0];
-}
-
-export async function listTripTests(db: Db, siteId: string, f: Filter) {
-  return (await repo.listTripTests(db, { siteId, ...f })).map(tripDto);
-}
-export async function listStepTests(db: Db, siteId: string, f: Filter) {
-  return (await repo.listStepTests(db, { siteId, ...f })).map(stepDto);
-}
-
-/** The board's ground hunts, each with its steps in time order and what they point at (groundHuntFinding). */
-export async function listGroundHunts(db: Db, siteId: string, boardId: string): Promise<GroundHunt[]> {
-  const steps = (await repo.listHuntSteps(db, { siteId, boardId })).map(huntStepDto);
-  const byHunt = new Map<string, typeof steps>();
-  for (const s of steps) {
-    if (!byHunt.has(s.hunt)) byHunt.set(s.hunt, []);
-    byHunt.get(s.hunt)!.push(s);
-  }
-  return [...byHunt]
-    .map(([hunt, st]) => ({ hunt, steps: st, finding: groundHuntFinding(st), source: { ...GROUND_HUNT_SOURCE } }))
-    .sort((a, b) => Date.parse(b.steps.at(-1)!.measuredAt) - Date.parse(a.steps.at(-1)!.measuredAt));
 }

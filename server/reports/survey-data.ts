@@ -23,7 +23,7 @@ import type { Db } from "../db";
 import { notFound } from "../errors";
 import * as repo from "./repository";
 import { allLines } from "../parts/service";
-import * as readings from "../readings/service";
+import * as readings from "../readings/reads";
 import { boardView } from "../return-to-service/view";
 import type { RtsBoardView } from "../../src/schemas/return-to-service";
 

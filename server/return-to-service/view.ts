@@ -28,7 +28,7 @@ import type {
 import { LAMP_LOOK_LABELS, INCIDENT_KIND_LABELS } from "../../src/schemas/return-to-service";
 import type { Db } from "../db";
 import { notFound } from "../errors";
-import * as readings from "../readings/service";
+import * as readings from "../readings/reads";
 import { siteTimeZone } from "../sites/reads";
 import * as repo from "./repository";
 

@@ -110,3 +110,43 @@ describe("queries only in repository files", () => {
     expect(await ruleIds(at, code)).not.toContain(QUERY);
   });
 });
+
+describe("imports go one way (no cycles)", () => {
+  const CYCLE = "import-x/no-cycle";
+  it.each([
+    // readings/service.ts imports ./reads and tells return to service of each reading, which reads readings.
+    [
+      "the readings' reads import their service",
+      "server/readings/reads.ts",
+      'import { recordInsulation } from "./service";',
+    ],
+    // parts/workflow.ts → defects/service.ts → parts/service.ts: the service may not hand the workflow out.
+    [
+      "the parts service re-exports its workflow",
+      "server/parts/service.ts",
+      'export { moveLineStatus } from "./workflow";',
+    ],
+    [
+      "a photo store imports the module that chooses it",
+      "server/photos/storage/s3.ts",
+      'import { photoKey } from "./index";',
+    ],
+  ])("refuses: %s", async (_name, at, code) => {
+    expect(await ruleIds(at, `${code}\nexport {};\n`)).toContain(CYCLE);
+  });
+
+  it.each([
+    [
+      "defects' evidence reads readings' reads",
+      "server/defects/evidence.ts",
+      'import { listInsulation } from "../readings/reads";',
+    ],
+    [
+      "a photo store imports the contract",
+      "server/photos/storage/s3.ts",
+      'import { StorageNotFound } from "./contract";',
+    ],
+  ])("allows: %s", async (_name, at, code) => {
+    expect(await ruleIds(at, `${code}\nexport {};\n`)).not.toContain(CYCLE);
+  });
+});

@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createTestDb, holdInTransaction, untilLockWaiters, type TestDb } from "../helpers/db";
 import { makeCrew } from "../helpers/fixtures";
-import { moveLineStatus } from "../../server/parts/service";
+import { moveLineStatus } from "../../server/parts/workflow";
 import { lockSiteParts } from "../../server/parts/repository";
 import { moveDefect, patchDefect } from "../../server/defects/service";
 import { BREAKER, makeBoard, makeComponent, makeDefect } from "./parts-fixtures";

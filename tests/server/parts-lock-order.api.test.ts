@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { createTestDb, holdInTransaction, untilLockWaiters, type TestDb } from "../helpers/db";
 import { makeCrew } from "../helpers/fixtures";
 import { decideDisposition } from "../../server/inventory/survey-service";
-import { moveLineStatus } from "../../server/parts/service";
+import { moveLineStatus } from "../../server/parts/workflow";
 import { lockSiteParts } from "../../server/parts/repository";
 import { BREAKER, makeBoard, makeComponent } from "./parts-fixtures";
 

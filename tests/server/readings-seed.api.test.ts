@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, expect, it } from "vitest";
 import { seedDemo } from "../../db/seed/demo";
-import * as service from "../../server/readings/service";
+import * as reads from "../../server/readings/reads";
 import { createTestDb, type TestDb } from "../helpers/db";
 import { icuMinute } from "../helpers/icu";
 
@@ -22,7 +22,7 @@ beforeAll(async () => {
 afterAll(async () => t.drop());
 
 it("the demo dry-out has three circuits megged on ten days at varied temperatures, corrected values rising", async () => {
-  const { insulation } = await service.boardReadings(t.db, siteId, boardId);
+  const { insulation } = await reads.boardReadings(t.db, siteId, boardId);
   const byComponent = new Map<string | null, typeof insulation>();
   // The dry-out series (the return-to-service demo adds readings on other circuits).
   for (const r of insulation.filter((x) => ["1-1", "1-2", "BUS-A"].includes(x.designation ?? "")))
@@ -40,7 +40,7 @@ it("the demo dry-out has three circuits megged on ten days at varied temperature
 });
 
 it("the demo has one outlier pole, a level-2 thermal finding and a dim phase-B lamp", async () => {
-  const { contacts, thermal, groundChecks } = await service.boardReadings(t.db, siteId, boardId);
+  const { contacts, thermal, groundChecks } = await reads.boardReadings(t.db, siteId, boardId);
   expect(contacts.filter((c) => c.judgement.outliers.length > 0).map((c) => c.designation)).toEqual(["G1"]);
   // 6.5 °C over a similar lug at 65 % load is level 2 as measured; scaled to rated load
   // (× (100/65)² = 15.4 °C) it is level 4 (NETA Table 100.18).
@@ -58,7 +58,7 @@ it("the demo's survey and dry-out are logged in working hours on the site's own 
     .timeZone;
   expect(zone).toBe("America/Halifax");
   const hourOf = (at: Date | string) => Number(icuMinute(at, zone).slice(11, 13));
-  const { insulation } = await service.boardReadings(t.db, siteId, boardId);
+  const { insulation } = await reads.boardReadings(t.db, siteId, boardId);
   const dryOut = insulation.filter((x) => ["1-1", "1-2", "BUS-A"].includes(x.designation ?? ""));
   const inspections = await t.db.selectFrom("inspections").select("inspectedAt").execute();
   const photos = await t.db.selectFrom("photos").select("createdAt").execute();

@@ -16,7 +16,7 @@ import {
 import { dirname, join, relative, resolve, sep } from "node:path";
 import type { Readable } from "node:stream";
 import { processAlive } from "../../process-alive";
-import { StorageNotFound, type PhotoStorage } from "./index";
+import { StorageNotFound, type PhotoStorage } from "./contract";
 
 /** Photos as files under one folder (the embedded default: .data/photos). */
 export class LocalDiskStorage implements PhotoStorage {

@@ -9,7 +9,7 @@ import {
 import { createReadStream } from "node:fs";
 import { stat } from "node:fs/promises";
 import type { Readable } from "node:stream";
-import { StorageNotFound, type PhotoStorage } from "./index";
+import { StorageNotFound, type PhotoStorage } from "./contract";
 
 export interface S3Options {
   bucket: string;
