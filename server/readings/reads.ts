@@ -106,20 +106,39 @@ export async function listGroundChecks(db: Db, siteId: string, f: Filter) {
   return rows.map((r) => groundDto(r, s.kind));
 }
 
+/** Readings of each kind a board's or a component's page lists, newest first; `totals` counts them all. */
+export const PAGE_LIST_LIMIT = 500;
+/** One insulation series (a component, or a circuit named by hand) is read whole, up to this many. */
+export const SERIES_LIMIT = 5_000;
+
 export async function boardReadings(db: Db, siteId: string, boardId: string) {
   const board = await boardOrThrow(db, siteId, boardId);
-  const [insulation, contacts, thermal, groundChecks, tripTests, stepTests, groundHunts, positions] = await Promise.all(
-    [
-      listInsulation(db, siteId, { boardId }),
-      listContacts(db, siteId, { boardId }),
-      listThermal(db, siteId, { boardId }),
-      listGroundChecks(db, siteId, { boardId }),
-      listTripTests(db, siteId, { boardId }),
-      listStepTests(db, siteId, { boardId }),
-      listGroundHunts(db, siteId, boardId),
-      repo.boardTargets(db, boardId),
-    ],
-  );
+  const limit = PAGE_LIST_LIMIT;
+  const [
+    insulation,
+    contacts,
+    thermal,
+    groundChecks,
+    tripTests,
+    stepTests,
+    groundHunts,
+    positions,
+    totals,
+    series,
+    withReadings,
+  ] = await Promise.all([
+    listInsulation(db, siteId, { boardId, limit }),
+    listContacts(db, siteId, { boardId, limit }),
+    listThermal(db, siteId, { boardId, limit }),
+    listGroundChecks(db, siteId, { boardId, limit }),
+    listTripTests(db, siteId, { boardId, limit }),
+    listStepTests(db, siteId, { boardId, limit }),
+    listGroundHunts(db, siteId, boardId),
+    repo.boardTargets(db, boardId),
+    repo.readingTotals(db, siteId, { boardId }),
+    repo.insulationSeries(db, siteId, boardId),
+    repo.componentsWithReadings(db, siteId, boardId),
+  ]);
   return {
     board: { ...board, nominalVolts: Number(board.nominalVolts) },
     positions,
@@ -131,18 +150,47 @@ export async function boardReadings(db: Db, siteId: string, boardId: string) {
     stepTests,
     groundHunts,
     phaseComparisons: phaseComparisons(insulation),
+    totals,
+    dryOutSeries: series.map((s) => ({
+      componentId: s.componentId,
+      designation: s.designation,
+      circuit: s.circuit,
+      conductors: s.conductors,
+      count: s.count,
+      latestAt: s.latestAt.toISOString(),
+    })),
+    componentsWithReadings: withReadings,
   };
+}
+
+/**
+ * One insulation series of the board, whole (up to SERIES_LIMIT, newest first): a component's readings, or
+ * those of a circuit named by hand. The board's dry-out chart draws from it: the board's page lists only the
+ * newest readings of the board, and a long dry-out has thousands.
+ */
+export async function insulationSeriesOf(
+  db: Db,
+  siteId: string,
+  boardId: string,
+  of: { componentId: string } | { circuit: string },
+) {
+  await boardOrThrow(db, siteId, boardId);
+  const f = "componentId" in of ? { componentId: of.componentId } : { circuit: of.circuit, handNamed: true };
+  const readings = await listInsulation(db, siteId, { boardId, ...f, limit: SERIES_LIMIT });
+  return { readings, complete: readings.length < SERIES_LIMIT };
 }
 
 export async function componentReadings(db: Db, siteId: string, componentId: string) {
   const c = await componentOrThrow(db, siteId, componentId);
-  const [insulation, contacts, thermal, override, tripTests, stepTests] = await Promise.all([
-    listInsulation(db, siteId, { componentId }),
-    listContacts(db, siteId, { componentId }),
-    listThermal(db, siteId, { componentId }),
+  const limit = PAGE_LIST_LIMIT;
+  const [insulation, contacts, thermal, override, tripTests, stepTests, totals] = await Promise.all([
+    listInsulation(db, siteId, { componentId, limit: SERIES_LIMIT }),
+    listContacts(db, siteId, { componentId, limit }),
+    listThermal(db, siteId, { componentId, limit }),
     repo.getOverride(db, siteId, componentId),
-    listTripTests(db, siteId, { componentId }),
-    listStepTests(db, siteId, { componentId }),
+    listTripTests(db, siteId, { componentId, limit }),
+    listStepTests(db, siteId, { componentId, limit }),
+    repo.readingTotals(db, siteId, { componentId }),
   ]);
   return {
     component: {
@@ -161,6 +209,7 @@ export async function componentReadings(db: Db, siteId: string, componentId: str
     thermal,
     tripTests,
     stepTests,
+    totals,
   };
 }
 

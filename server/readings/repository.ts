@@ -1,4 +1,4 @@
-import type { Insertable } from "kysely";
+import { sql, type Insertable } from "kysely";
 import type {
   ComponentReadingOverridesTable,
   ContactReadingsTable,
@@ -146,6 +146,8 @@ export interface ReadingFilter {
   boardId?: string;
   componentId?: string;
   circuit?: string;
+  /** Only readings on a circuit named by hand (no component): one such circuit's series. */
+  handNamed?: boolean;
   limit?: number;
 }
 
@@ -172,6 +174,7 @@ export async function listInsulation(db: Db, f: ReadingFilter & { id?: string })
   if (f.boardId) q = q.where("r.boardId", "=", f.boardId);
   if (f.componentId) q = q.where("r.componentId", "=", f.componentId);
   if (f.circuit) q = q.where("r.circuit", "=", f.circuit);
+  if (f.handNamed) q = q.where("r.componentId", "is", null);
   return q
     .orderBy("r.measuredAt", "desc")
     .orderBy("r.createdAt", "desc")
@@ -311,3 +314,94 @@ export const findPosition = (db: Db, siteId: string, positionId: string) =>
     .where("siteId", "=", siteId)
     .where("id", "=", positionId)
     .executeTakeFirst();
+
+/**
+ * How many readings of each kind the board (or the component) has in all: its page lists the newest
+ * of each kind and says so when there are more. Ground-lamp checks belong to a board, not a component.
+ */
+export async function readingTotals(db: Db, siteId: string, where: { boardId: string } | { componentId: string }) {
+  const on = "boardId" in where ? sql`board_id = ${where.boardId}` : sql`component_id = ${where.componentId}`;
+  const count = (table: string) =>
+    sql<number>`(select count(*)::int from ${sql.table(table)} where site_id = ${siteId} and ${on})`;
+  const { rows } = await sql<{
+    insulation: number;
+    contacts: number;
+    thermal: number;
+    groundChecks: number;
+    tripTests: number;
+    stepTests: number;
+  }>`select ${count("insulation_readings")} as insulation, ${count("contact_readings")} as contacts,
+      ${count("thermal_scans")} as thermal,
+      ${"boardId" in where ? count("ground_lamp_checks") : sql<number>`0`} as ground_checks,
+      ${count("trip_tests")} as trip_tests, ${count("step_voltage_tests")} as step_tests`.execute(db);
+  return rows[0];
+}
+
+/**
+ * The board's insulation series over every reading, newest first: one per component, else one per
+ * circuit named by hand. Each with its count, its newest reading's time and circuit, and the conductor
+ * pairs measured (a dry-out chart draws one series and one pair at a time).
+ */
+export const insulationSeries = (db: Db, siteId: string, boardId: string) =>
+  db
+    .selectFrom("insulationReadings as r")
+    .leftJoin("components as c", "c.id", "r.componentId")
+    .leftJoin("positions as p", "p.id", "c.positionId")
+    .where("r.siteId", "=", siteId)
+    .where("r.boardId", "=", boardId)
+    .groupBy(["r.componentId", sql`case when r.component_id is null then r.circuit end`, "p.designation"])
+    .select([
+      "r.componentId",
+      "p.designation",
+      sql<string>`(array_agg(r.circuit order by r.measured_at desc, r.created_at desc))[1]`.as("circuit"),
+      sql<string[]>`array_agg(distinct r.conductors order by r.conductors)`.as("conductors"),
+      sql<number>`count(*)::int`.as("count"),
+      sql<Date>`max(r.measured_at)`.as("latestAt"),
+    ])
+    .orderBy(sql`max(r.measured_at)`, "desc")
+    .execute();
+
+/** Components on the board with a reading of any kind, in board order (the page's "per component" links). */
+export const componentsWithReadings = (db: Db, siteId: string, boardId: string) =>
+  db
+    .selectFrom("components as c")
+    .innerJoin("positions as p", "p.id", "c.positionId")
+    .select(["c.id as componentId", "p.designation"])
+    .where((eb) =>
+      eb(
+        "c.id",
+        "in",
+        eb
+          .selectFrom("insulationReadings")
+          .select("componentId")
+          .where("siteId", "=", siteId)
+          .where("boardId", "=", boardId)
+          .union((u) =>
+            u
+              .selectFrom("contactReadings")
+              .select("componentId")
+              .where("siteId", "=", siteId)
+              .where("boardId", "=", boardId),
+          )
+          .union((u) =>
+            u
+              .selectFrom("thermalScans")
+              .select("componentId")
+              .where("siteId", "=", siteId)
+              .where("boardId", "=", boardId),
+          )
+          .union((u) =>
+            u.selectFrom("tripTests").select("componentId").where("siteId", "=", siteId).where("boardId", "=", boardId),
+          )
+          .union((u) =>
+            u
+              .selectFrom("stepVoltageTests")
+              .select("componentId")
+              .where("siteId", "=", siteId)
+              .where("boardId", "=", boardId),
+          ),
+      ),
+    )
+    .orderBy("p.sortOrder")
+    .orderBy("p.designation")
+    .execute();

@@ -21,6 +21,14 @@ import * as service from "./service";
 const boardParams = z.object({ siteId: z.uuid(), boardId: z.uuid({ message: "boardId must be a UUID" }) });
 const componentParams = z.object({ siteId: z.uuid(), componentId: z.uuid({ message: "componentId must be a UUID" }) });
 const insulationQuery = z.object({ componentId: z.uuid().optional(), circuit: text().max(120).optional() });
+/** One dry-out series: a component's, or a circuit's named by hand (no component). */
+const seriesQuery = z.union(
+  [
+    z.object({ componentId: z.uuid({ message: "componentId must be a UUID" }) }),
+    z.object({ circuit: text().min(1).max(120) }),
+  ],
+  { error: "Name the series: componentId, or circuit for a circuit named by hand." },
+);
 
 export function readingRoutes(db: Db) {
   const r = Router();
@@ -51,6 +59,10 @@ export function readingRoutes(db: Db) {
   r.get(`${S}/boards/:boardId/insulation-readings`, read, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);
     res.json({ readings: await reads.listInsulation(db, siteId, { boardId, ...insulationQuery.parse(req.query) }) });
+  });
+  r.get(`${S}/boards/:boardId/dry-out`, read, async (req, res) => {
+    const { siteId, boardId } = boardParams.parse(req.params);
+    res.json(await reads.insulationSeriesOf(db, siteId, boardId, seriesQuery.parse(req.query)));
   });
   r.post(`${S}/boards/:boardId/insulation-readings`, record, once, async (req, res) => {
     const { siteId, boardId } = boardParams.parse(req.params);

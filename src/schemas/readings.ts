@@ -502,6 +502,35 @@ export type PhaseComparison = z.infer<typeof phaseComparisonSchema>;
 export const phaseComparisonKey = (r: { componentId: string | null; circuit: string }) =>
   r.componentId ? `c:${r.componentId}` : `circuit:${r.circuit}`;
 
+/** How many readings of each kind there are in all (a page lists the newest of each kind). */
+export const readingTotalsSchema = z.object({
+  insulation: z.number(),
+  contacts: z.number(),
+  thermal: z.number(),
+  groundChecks: z.number(),
+  tripTests: z.number(),
+  stepTests: z.number(),
+});
+export type ReadingTotals = z.infer<typeof readingTotalsSchema>;
+
+/** One insulation series of a board: a component's, or a circuit's named by hand (componentId null). */
+export const dryOutSeriesSchema = z.object({
+  componentId: safeText().nullable(),
+  designation: safeText().nullable(),
+  /** The circuit of its newest reading. */
+  circuit: safeText(),
+  conductors: z.array(z.enum(CONDUCTORS)),
+  count: z.number(),
+  latestAt: isoDateTime(),
+});
+export type DryOutSeries = z.infer<typeof dryOutSeriesSchema>;
+
+/** GET …/boards/:boardId/dry-out?componentId= | ?circuit=: the series whole (`complete` false past 5,000). */
+export const seriesReadingsSchema = z.object({
+  readings: z.array(insulationReadingSchema),
+  complete: z.boolean(),
+});
+
 export const boardReadingsSchema = z.object({
   board: z.object({ id: safeText(), name: safeText(), nominalVolts: z.number() }),
   /** The board's positions in board order: what a reading on this board can be recorded against. */
@@ -514,6 +543,11 @@ export const boardReadingsSchema = z.object({
   stepTests: z.array(stepVoltageSchema),
   groundHunts: z.array(groundHuntSchema),
   phaseComparisons: z.array(phaseComparisonSchema),
+  totals: readingTotalsSchema,
+  /** Every insulation series on the board, newest first, over all its readings (the lists above hold the newest). */
+  dryOutSeries: z.array(dryOutSeriesSchema),
+  /** Components with a reading of any kind, in board order. */
+  componentsWithReadings: z.array(z.object({ componentId: safeText(), designation: safeText() })),
 });
 export type BoardReadings = z.infer<typeof boardReadingsSchema>;
 
@@ -535,5 +569,6 @@ export const componentReadingsSchema = z.object({
   thermal: z.array(thermalScanSchema),
   tripTests: z.array(tripTestSchema),
   stepTests: z.array(stepVoltageSchema),
+  totals: readingTotalsSchema,
 });
 export type ComponentReadings = z.infer<typeof componentReadingsSchema>;

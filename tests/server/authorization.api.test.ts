@@ -67,6 +67,7 @@ export const ACCESS: Record<string, Access> = {
   "GET /api/sites/:siteId/readings/criteria": "member",
   "PUT /api/sites/:siteId/readings/criteria": CURATOR,
   "GET /api/sites/:siteId/boards/:boardId/readings": "member",
+  "GET /api/sites/:siteId/boards/:boardId/dry-out": "member",
   "GET /api/sites/:siteId/boards/:boardId/insulation-readings": "member",
   "POST /api/sites/:siteId/boards/:boardId/insulation-readings": FIELD,
   "GET /api/sites/:siteId/boards/:boardId/contact-readings": "member",

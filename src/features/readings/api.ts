@@ -15,8 +15,12 @@ import {
   tripTestSchema,
   overrideSchema,
   readingTargetsSchema,
+  seriesReadingsSchema,
   thermalScanSchema,
+  type BoardReadings,
+  type ComponentReadings,
   type ContactReadingBody,
+  type DryOutSeries,
   type CriteriaBody,
   type GroundCheckBody,
   type GroundHuntBody,
@@ -47,18 +51,100 @@ export const boardReadingsQueryOptions = (siteId: string, boardId: string) =>
   queryOptions({
     queryKey: readingKeys.board(siteId, boardId),
     queryFn: ({ signal }) => api.get(`${site(siteId)}/boards/${boardId}/readings`, boardReadingsSchema, signal),
+    select: withSeries,
   });
+
+/**
+ * A phone's kept copy of a board's readings from before 2026-12-05 has no totals, series or component list
+ * (kept reads are not parsed again): they are made from the lists it has, as the page made them then, until
+ * the server answers again. A copy with them passes through unchanged.
+ */
+export function withSeries(d: BoardReadings): BoardReadings {
+  const kept = d as Partial<BoardReadings> & Omit<BoardReadings, "totals" | "dryOutSeries" | "componentsWithReadings">;
+  if (kept.totals && kept.dryOutSeries && kept.componentsWithReadings) return d;
+  const series = new Map<string, DryOutSeries>();
+  for (const r of d.insulation) {
+    const key = r.componentId ?? `circuit:${r.circuit}`;
+    const s = series.get(key);
+    if (s) {
+      s.count++;
+      if (!s.conductors.includes(r.conductors)) s.conductors.push(r.conductors);
+    } else
+      series.set(key, {
+        componentId: r.componentId ?? null,
+        designation: r.designation ?? null,
+        circuit: r.circuit,
+        conductors: [r.conductors],
+        count: 1,
+        latestAt: r.measuredAt,
+      });
+  }
+  const components = new Map<string, string>();
+  for (const r of [...d.insulation, ...d.contacts, ...d.thermal, ...d.tripTests, ...d.stepTests])
+    if (r.componentId && !components.has(r.componentId)) components.set(r.componentId, r.designation ?? "");
+  return {
+    ...d,
+    totals: kept.totals ?? {
+      insulation: d.insulation.length,
+      contacts: d.contacts.length,
+      thermal: d.thermal.length,
+      groundChecks: d.groundChecks.length,
+      tripTests: d.tripTests.length,
+      stepTests: d.stepTests.length,
+    },
+    dryOutSeries: kept.dryOutSeries ?? [...series.values()],
+    componentsWithReadings:
+      kept.componentsWithReadings ??
+      [...components].map(([componentId, designation]) => ({ componentId, designation })),
+  };
+}
 export const componentReadingsQueryOptions = (siteId: string, componentId: string) =>
   queryOptions({
     queryKey: readingKeys.component(siteId, componentId),
     queryFn: ({ signal }) =>
       api.get(`${site(siteId)}/components/${componentId}/readings`, componentReadingsSchema, signal),
+    // A phone's kept copy from before 2026-12-05 has no totals: it counts what it lists.
+    select: (d: ComponentReadings): ComponentReadings =>
+      (d as Partial<ComponentReadings>).totals
+        ? d
+        : {
+            ...d,
+            totals: {
+              insulation: d.insulation.length,
+              contacts: d.contacts.length,
+              thermal: d.thermal.length,
+              groundChecks: 0,
+              tripTests: d.tripTests.length,
+              stepTests: d.stepTests.length,
+            },
+          },
+  });
+
+/** One insulation series of a board, whole: a component's, or a circuit's named by hand. */
+export const dryOutQueryOptions = (
+  siteId: string,
+  boardId: string,
+  of: { componentId: string } | { circuit: string },
+) =>
+  queryOptions({
+    queryKey: readingKeys.dryOut(
+      siteId,
+      boardId,
+      "componentId" in of ? `c:${of.componentId}` : `circuit:${of.circuit}`,
+    ),
+    queryFn: ({ signal }) =>
+      api.get(`${site(siteId)}/boards/${boardId}/dry-out?${new URLSearchParams(of)}`, seriesReadingsSchema, signal),
   });
 
 export const useReadingTargets = (siteId: string) => useQuery(targetsQueryOptions(siteId));
 export const useCriteria = (siteId: string) => useQuery(criteriaQueryOptions(siteId));
 export const useBoardReadings = (siteId: string, boardId: string) =>
   useQuery(boardReadingsQueryOptions(siteId, boardId));
+export const useDryOutSeries = (
+  siteId: string,
+  boardId: string,
+  of: { componentId: string } | { circuit: string } | null,
+) => useQuery({ ...dryOutQueryOptions(siteId, boardId, of ?? { circuit: "" }), enabled: of !== null });
 export const useComponentReadings = (siteId: string, componentId: string) =>
   useQuery(componentReadingsQueryOptions(siteId, componentId));
 

@@ -4,7 +4,8 @@ import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { useBoardReadings } from "../../../features/readings/api";
 import { ContactHistory } from "../../../features/readings/components/contact-history";
-import { DryOutSection } from "../../../features/readings/components/dry-out-section";
+import { BoardDryOut } from "../../../features/readings/components/dry-out-section";
+import { ListedOf } from "../../../features/readings/components/listed-of";
 import { GroundCheckHistory } from "../../../features/readings/components/ground-check-history";
 import { InsulationHistory } from "../../../features/readings/components/insulation-history";
 import { LatestGroundCheck } from "../../../features/readings/components/latest-ground-check";
@@ -40,6 +41,9 @@ export default function BoardReadingsPage() {
     stepTests,
     groundHunts,
     phaseComparisons,
+    totals,
+    dryOutSeries,
+    componentsWithReadings,
   } = readings.data;
   const withComponent = positions.filter((p) => p.componentId);
   const option = (p: (typeof positions)[number]) => ({
@@ -60,13 +64,7 @@ export default function BoardReadingsPage() {
     designation: p.designation,
     circuit: p.circuit,
   }));
-  const components = [
-    ...new Map(
-      [...insulation, ...contacts, ...thermal, ...tripTests, ...stepTests]
-        .filter((r) => r.componentId)
-        .map((r) => [r.componentId!, r.designation ?? ""]),
-    ).entries(),
-  ];
+  const elsewhere = "each component's page has all of its own, and the condition survey report every one";
   return (
     <div className="space-y-6">
       <p>
@@ -104,12 +102,12 @@ export default function BoardReadingsPage() {
         <h2 id="dry-out-title" className="text-xl font-bold">
           Dry-out
         </h2>
-        <DryOutSection readings={insulation} />
+        <BoardDryOut siteId={site.id} boardId={boardId} series={dryOutSeries} listed={insulation} />
       </section>
-      {components.length > 0 && (
+      {componentsWithReadings.length > 0 && (
         <nav aria-label="Components with readings" className="flex flex-wrap gap-2 text-sm">
           <span className="self-center text-mist">Per component:</span>
-          {components.map(([id, designation]) => (
+          {componentsWithReadings.map(({ componentId: id, designation }) => (
             <Link
               key={id}
               to={paths.readingsComponent.href(site.id, id)}
@@ -124,6 +122,7 @@ export default function BoardReadingsPage() {
         <h2 id="ins-title" className="text-xl font-bold">
           Insulation readings
         </h2>
+        <ListedOf listed={insulation.length} total={totals.insulation} where={elsewhere} />
         <InsulationHistory readings={insulation} />
       </section>
       <section aria-labelledby="phase-title" className="space-y-2">
@@ -136,24 +135,28 @@ export default function BoardReadingsPage() {
         <h2 id="step-title" className="text-xl font-bold">
           Step-voltage tests
         </h2>
+        <ListedOf listed={stepTests.length} total={totals.stepTests} where={elsewhere} />
         <StepTestHistory tests={stepTests} />
       </section>
       <section aria-labelledby="con-title" className="space-y-2">
         <h2 id="con-title" className="text-xl font-bold">
           Contact resistance
         </h2>
+        <ListedOf listed={contacts.length} total={totals.contacts} where={elsewhere} />
         <ContactHistory readings={contacts} />
       </section>
       <section aria-labelledby="trip-title" className="space-y-2">
         <h2 id="trip-title" className="text-xl font-bold">
           Trip tests
         </h2>
+        <ListedOf listed={tripTests.length} total={totals.tripTests} where={elsewhere} />
         <TripTestHistory tests={tripTests} />
       </section>
       <section aria-labelledby="th-title" className="space-y-2">
         <h2 id="th-title" className="text-xl font-bold">
           Thermal findings
         </h2>
+        <ListedOf listed={thermal.length} total={totals.thermal} where={elsewhere} />
         <ThermalHistory
           scans={thermal}
           image={(photoId, scan) => {
@@ -166,6 +169,11 @@ export default function BoardReadingsPage() {
         <h2 id="gl-title" className="text-xl font-bold">
           Ground-lamp checks
         </h2>
+        <ListedOf
+          listed={groundChecks.length}
+          total={totals.groundChecks}
+          where="the condition survey report has every one"
+        />
         <GroundCheckHistory checks={groundChecks} />
       </section>
       <section aria-labelledby="hunt-title" className="space-y-2">

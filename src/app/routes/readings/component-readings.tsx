@@ -6,6 +6,7 @@ import { useComponentReadings } from "../../../features/readings/api";
 import { ContactHistory } from "../../../features/readings/components/contact-history";
 import { DryOutSection } from "../../../features/readings/components/dry-out-section";
 import { InsulationHistory } from "../../../features/readings/components/insulation-history";
+import { ListedOf } from "../../../features/readings/components/listed-of";
 import { OverrideForm } from "../../../features/readings/components/override-form";
 import { RecordPanel } from "../../../features/readings/components/record-panel";
 import { PhotoPicker, PhotoThumb, usePhotoMap } from "../../../features/photos/components/photo-picker";
@@ -26,7 +27,8 @@ export default function ComponentReadingsPage() {
   );
   if (q.isPending) return <Loading what="Loading the component's readings" />;
   if (q.isLoadingError || serverRefused(q.error)) return <ErrorPanel error={q.error} />;
-  const { component: c, override, insulation, contacts, thermal, tripTests, stepTests } = q.data;
+  const { component: c, override, insulation, contacts, thermal, tripTests, stepTests, totals } = q.data;
+  const elsewhere = "the condition survey report has every one";
   const trippable = (TRIP_TESTABLE_KINDS as readonly string[]).includes(c.kind);
   return (
     <div className="space-y-6">
@@ -74,18 +76,21 @@ export default function ComponentReadingsPage() {
         <h2 id="ins-title" className="text-xl font-bold">
           Insulation readings
         </h2>
+        <ListedOf listed={insulation.length} total={totals.insulation} where={elsewhere} />
         <InsulationHistory readings={insulation} showTarget={false} />
       </section>
       <section aria-labelledby="step-title" className="space-y-2">
         <h2 id="step-title" className="text-xl font-bold">
           Step-voltage tests
         </h2>
+        <ListedOf listed={stepTests.length} total={totals.stepTests} where={elsewhere} />
         <StepTestHistory tests={stepTests} />
       </section>
       <section aria-labelledby="con-title" className="space-y-2">
         <h2 id="con-title" className="text-xl font-bold">
           Contact resistance
         </h2>
+        <ListedOf listed={contacts.length} total={totals.contacts} where={elsewhere} />
         <ContactHistory readings={contacts} />
       </section>
       {(trippable || tripTests.length > 0) && (
@@ -93,6 +98,7 @@ export default function ComponentReadingsPage() {
           <h2 id="trip-title" className="text-xl font-bold">
             Trip tests
           </h2>
+          <ListedOf listed={tripTests.length} total={totals.tripTests} where={elsewhere} />
           <TripTestHistory tests={tripTests} showTarget={false} />
         </section>
       )}
@@ -100,6 +106,7 @@ export default function ComponentReadingsPage() {
         <h2 id="th-title" className="text-xl font-bold">
           Thermal findings
         </h2>
+        <ListedOf listed={thermal.length} total={totals.thermal} where={elsewhere} />
         <ThermalHistory
           scans={thermal}
           image={(photoId, scan) => {

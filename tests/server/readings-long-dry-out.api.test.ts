@@ -1,0 +1,155 @@
+/**
+ * A dry-out of weeks: a board with more insulation readings than its page lists. The page lists the
+ * board's newest 500 and says how many there are; every series stays choosable for the dry-out chart
+ * and is read whole from GET …/dry-out; a component whose readings are all older than the newest 500
+ * keeps its link. (Before, the board's answer held the newest 500 and nothing else: on day three of a
+ * dry-out with 40 circuits read three phases twice a day, the chart lost the start of every series.)
+ */
+import { randomUUID } from "node:crypto";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { createTestDb, type TestDb } from "../helpers/db";
+import { makeCrew } from "../helpers/fixtures";
+import { startTestServer, type Client, type TestServer } from "../helpers/http";
+
+let t: TestDb;
+let server: TestServer;
+let fx: Awaited<ReturnType<typeof makeCrew>>;
+let boardId: string;
+let older: string; // component "1-1": 200 readings, all older than the newest 500 of the board
+let newer: string; // component "1-2": 521 readings, the newest
+let viewer: Client;
+
+const HOUR = 3_600_000;
+const start = Date.parse("2026-11-01T08:00:00Z");
+
+async function component(designation: string, circuit: string, gridCol: number) {
+  const p = await t.db
+    .insertInto("positions")
+    .values({ siteId: fx.siteId, boardId, designation, kind: "molded_case_breaker", gridRow: 1, gridCol, circuit })
+    .returning("id")
+    .executeTakeFirstOrThrow();
+  return (
+    await t.db
+      .insertInto("components")
+      .values({ siteId: fx.siteId, positionId: p.id, kind: "molded_case_breaker", poles: 3 })
+      .returning("id")
+      .executeTakeFirstOrThrow()
+  ).id;
+}
+
+const reading = (componentId: string | null, circuit: string, at: number, megohms: number) => ({
+  siteId: fx.siteId,
+  boardId,
+  componentId,
+  circuit,
+  testVoltsDc: 1000,
+  megohms,
+  conductors: "A-G" as const,
+  equipmentTempC: 20,
+  measuredAt: new Date(at),
+  instrument: "Megohmmeter 1",
+  notes: "",
+  recordedBy: fx.crew.volunteer.id,
+});
+
+beforeAll(async () => {
+  t = await createTestDb();
+  server = await startTestServer({ db: t.db });
+  fx = await makeCrew(t.db);
+  boardId = (
+    await t.db
+      .insertInto("boards")
+      .values({ siteId: fx.siteId, name: "Main switchboard", nominalVolts: 450 })
+      .returning("id")
+      .executeTakeFirstOrThrow()
+  ).id;
+  older = await component("1-1", "Steering gear", 1);
+  newer = await component("1-2", "Galley", 2);
+  const rows = [
+    ...Array.from({ length: 200 }, (_, i) => reading(older, "Steering gear", start + i * HOUR, 5 + i)),
+    ...Array.from({ length: 5 }, (_, i) => reading(null, "Shore supply", start + 100 * HOUR + i * HOUR, 50)),
+    // A component's reading whose circuit has the same words as the circuit named by hand: not in that series.
+    reading(newer, "Shore supply", start + 210 * HOUR, 60),
+    ...Array.from({ length: 520 }, (_, i) => reading(newer, "Galley", start + 220 * HOUR + i * HOUR, 100)),
+  ];
+  await t.db.insertInto("insulationReadings").values(rows).execute();
+  viewer = server.client();
+  await viewer.signIn(fx.crew.viewer.email);
+});
+afterAll(async () => {
+  await server.close();
+  await t.drop();
+});
+
+const site = () => `/api/sites/${fx.siteId}`;
+
+describe("a board with more insulation readings than its page lists", () => {
+  it("lists the newest 500 and counts all 726", async () => {
+    const r = await viewer.get(`${site()}/boards/${boardId}/readings`);
+    expect(r.status).toBe(200);
+    expect(r.body.insulation).toHaveLength(500);
+    expect(r.body.insulation.every((x: { componentId: string }) => x.componentId === newer)).toBe(true);
+    expect(r.body.totals).toMatchObject({ insulation: 726, contacts: 0, thermal: 0, groundChecks: 0 });
+  });
+
+  it("offers every series for the chart, newest first, with its count over every reading", async () => {
+    const r = await viewer.get(`${site()}/boards/${boardId}/readings`);
+    expect(
+      r.body.dryOutSeries.map((s: { componentId: string | null; circuit: string; count: number }) => [
+        s.componentId,
+        s.circuit,
+        s.count,
+      ]),
+    ).toEqual([
+      [newer, "Galley", 521],
+      [older, "Steering gear", 200],
+      [null, "Shore supply", 5],
+    ]);
+    expect(r.body.dryOutSeries[1]).toMatchObject({
+      designation: "1-1",
+      conductors: ["A-G"],
+      latestAt: new Date(start + 199 * HOUR).toISOString(),
+    });
+  });
+
+  it("keeps the link of a component whose readings are all older than the newest 500", async () => {
+    const r = await viewer.get(`${site()}/boards/${boardId}/readings`);
+    expect(r.body.componentsWithReadings).toEqual([
+      { componentId: older, designation: "1-1" },
+      { componentId: newer, designation: "1-2" },
+    ]);
+  });
+
+  it("reads one series whole: the component's 200, oldest included, each judged", async () => {
+    const r = await viewer.get(`${site()}/boards/${boardId}/dry-out?componentId=${older}`);
+    expect(r.status).toBe(200);
+    expect(r.body.complete).toBe(true);
+    expect(r.body.readings).toHaveLength(200);
+    expect(r.body.readings.at(-1).measuredAt).toBe(new Date(start).toISOString());
+    expect(r.body.readings[0].judgement.verdict).toBeTruthy();
+  });
+
+  it("a circuit named by hand is its own series: a component's reading with the same words is not in it", async () => {
+    const r = await viewer.get(`${site()}/boards/${boardId}/dry-out?circuit=${encodeURIComponent("Shore supply")}`);
+    expect(r.status).toBe(200);
+    expect(r.body.readings).toHaveLength(5);
+    expect(r.body.readings.every((x: { componentId: string | null }) => x.componentId === null)).toBe(true);
+  });
+
+  it("a component's page has all of its readings and the same counts", async () => {
+    const r = await viewer.get(`${site()}/components/${newer}/readings`);
+    expect(r.status).toBe(200);
+    expect(r.body.insulation).toHaveLength(521);
+    expect(r.body.totals).toMatchObject({ insulation: 521, groundChecks: 0 });
+  });
+
+  it("a series named neither way, or by a bad id, is a 400 that says so; a board not on the site is a 404", async () => {
+    const none = await viewer.get(`${site()}/boards/${boardId}/dry-out`);
+    expect(none.status).toBe(400);
+    expect(none.body.error.message).toMatch(/componentId|circuit/);
+    const bad = await viewer.get(`${site()}/boards/${boardId}/dry-out?componentId=nope`);
+    expect(bad.status).toBe(400);
+    const unknown = await viewer.get(`${site()}/boards/${randomUUID()}/dry-out?circuit=x`);
+    expect(unknown.status).toBe(404);
+  });
+});
