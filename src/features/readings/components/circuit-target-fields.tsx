@@ -35,7 +35,8 @@ export function CircuitTargetFields({ options, noneLabel }: { options: TargetOpt
         <option value="">{noneLabel}</option>
         {options.map((o) => (
           <option key={o.componentId} value={o.componentId}>
-            {o.designation} · {o.circuit}
+            {o.designation}
+            {o.circuit && ` · ${o.circuit}`}
           </option>
         ))}
       </SelectField>

@@ -13,7 +13,8 @@ import { DryOutChart } from "./dry-out-chart";
 const seriesKey = (s: { componentId: string | null; circuit: string }) =>
   s.componentId ? `c:${s.componentId}` : `circuit:${s.circuit}`;
 const labelOf = (s: { designation: string | null; circuit: string }) =>
-  s.designation ? `${s.designation} · ${s.circuit}` : s.circuit;
+  [s.designation, s.circuit].filter(Boolean).join(" · ");
+const n = (x: number) => x.toLocaleString("en");
 
 interface Choice {
   key: string;
@@ -52,7 +53,7 @@ function DryOutView({
           <select value={chosenKey} onChange={(e) => onChoose(e.target.value)} className={SELECT}>
             {choices.map((s) => (
               <option key={s.key} value={s.key}>
-                {s.label} ({s.count})
+                {s.label} ({n(s.count)})
               </option>
             ))}
           </select>
@@ -148,15 +149,15 @@ export function BoardDryOut({
   if (whole.data && !whole.data.complete)
     note = (
       <p className="text-sm text-mist">
-        The newest {whole.data.readings.length} of {chosen.count} readings are drawn.
+        The newest {n(whole.data.readings.length)} of {n(chosen.count)} readings are drawn.
       </p>
     );
   else if (!whole.data && kept.length > 0 && kept.length < chosen.count)
     note = (
       <p className="text-sm text-mist" role="status">
         {whole.isPending && online
-          ? `Reading all ${chosen.count} readings of this series…`
-          : `Drawn from the ${kept.length} of ${chosen.count} readings kept with this page; the rest are drawn once Tideline's server answers.`}
+          ? `Reading all ${n(chosen.count)} readings of this series…`
+          : `Drawn from the ${n(kept.length)} of ${n(chosen.count)} readings kept with this page; the rest are drawn once Tideline's server answers.`}
       </p>
     );
   return (

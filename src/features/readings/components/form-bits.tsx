@@ -109,7 +109,8 @@ export function ComponentSelect({
       {allowNone && <option value="">{allowNone}</option>}
       {options.map((o) => (
         <option key={o.componentId} value={o.componentId}>
-          {o.designation} · {o.circuit}
+          {o.designation}
+          {o.circuit && ` · ${o.circuit}`}
         </option>
       ))}
     </SelectField>

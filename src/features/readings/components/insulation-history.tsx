@@ -35,7 +35,7 @@ export function InsulationHistory({
               <div className="flex flex-wrap items-baseline justify-between gap-2">
                 <span className="font-semibold">
                   {showTarget && <span className="font-mono">{r.designation ?? r.circuit}</span>}
-                  {showTarget && r.designation && <span className="text-mist"> · {r.circuit}</span>}
+                  {showTarget && r.designation && r.circuit && <span className="text-mist"> · {r.circuit}</span>}
                   <span className="text-mist"> · {CONDUCTOR_LABELS[r.conductors]}</span>
                 </span>
                 <span className="text-sm text-mist">{when(r.measuredAt)}</span>

@@ -6,7 +6,7 @@ export function ListedOf({ listed, total, where }: { listed: number; total: numb
   if (total <= listed) return null;
   return (
     <p className="text-sm text-mist" data-testid="listed-of">
-      The newest {listed} of {total} are listed here; {where}.
+      The newest {listed.toLocaleString("en")} of {total.toLocaleString("en")} are listed here; {where}.
     </p>
   );
 }
