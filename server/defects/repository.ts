@@ -183,7 +183,7 @@ export const listPositions = (db: Db, siteId: string, boardId: string) =>
     .where("p.boardId", "=", boardId)
     .orderBy("p.sortOrder")
     .orderBy("p.designation")
-    .limit(2000)
+    .limit(3600) // the most a board holds: a grid of at most 60 × 60 (src/schemas/inventory.ts)
     .execute();
 
 export const pinsOf = (db: Db, siteId: string, defectId: string) =>

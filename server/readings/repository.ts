@@ -300,11 +300,13 @@ export async function listHuntSteps(db: Db, f: ReadingFilter & { id?: string }) 
     .where("r.siteId", "=", f.siteId);
   if (f.id) q = q.where("r.id", "=", f.id);
   if (f.boardId) q = q.where("r.boardId", "=", f.boardId);
-  return q
-    .orderBy("r.measuredAt", "asc")
-    .orderBy("r.createdAt", "asc")
+  // The newest steps when there are more than the limit (the oldest hunts go first), returned in time order.
+  const rows = await q
+    .orderBy("r.measuredAt", "desc")
+    .orderBy("r.createdAt", "desc")
     .limit(f.limit ?? 1000)
     .execute();
+  return rows.reverse();
 }
 
 export const findPosition = (db: Db, siteId: string, positionId: string) =>

@@ -1,8 +1,11 @@
 /**
+ * Lists that outgrow their first page on a board a crew has worked for weeks; nothing is cut without saying so.
+ *
  * A dry-out of weeks: a board with more insulation readings than its page lists. The page lists the
  * board's newest 500 and says how many there are; every series stays choosable for the dry-out chart
  * and is read whole from GET …/dry-out; a component whose readings are all older than the newest 500
- * keeps its link. (Before, the board's answer held the newest 500 and nothing else: on day three of a
+ * keeps its link. Ground hunts keep the newest when there are more steps than are read; a defect can be raised
+ * on any position of a board of up to 60 × 60. (Before, the board's answer held the newest 500 and nothing else: on day three of a
  * dry-out with 40 circuits read three phases twice a day, the chart lost the start of every series.)
  */
 import { randomUUID } from "node:crypto";
@@ -59,7 +62,7 @@ beforeAll(async () => {
   boardId = (
     await t.db
       .insertInto("boards")
-      .values({ siteId: fx.siteId, name: "Main switchboard", nominalVolts: 450 })
+      .values({ siteId: fx.siteId, name: "Main switchboard", nominalVolts: 450, gridRows: 60, gridCols: 60 })
       .returning("id")
       .executeTakeFirstOrThrow()
   ).id;
@@ -151,5 +154,59 @@ describe("a board with more insulation readings than its page lists", () => {
     expect(bad.status).toBe(400);
     const unknown = await viewer.get(`${site()}/boards/${randomUUID()}/dry-out?circuit=x`);
     expect(unknown.status).toBe(404);
+  });
+});
+
+describe("a board with more ground-hunt steps than its page reads", () => {
+  it("keeps the newest hunt: the oldest steps are the ones left out", async () => {
+    const step = (hunt: string, i: number) => ({
+      siteId: fx.siteId,
+      boardId,
+      hunt,
+      positionId: null,
+      feeder: `F${i}`,
+      action: "opened" as const,
+      lampA: "bright" as const,
+      lampB: "dim" as const,
+      lampC: "bright" as const,
+      measuredAt: new Date(start + i * 60_000),
+      instrument: "",
+      notes: "",
+      recordedBy: fx.crew.volunteer.id,
+    });
+    await t.db
+      .insertInto("groundHuntSteps")
+      .values(Array.from({ length: 1000 }, (_, i) => step("November hunt", i)))
+      .execute();
+    await t.db
+      .insertInto("groundHuntSteps")
+      .values([1, 2, 3].map((i) => step("December hunt", 2000 + i)))
+      .execute();
+    const r = await viewer.get(`${site()}/boards/${boardId}/readings`);
+    expect(r.status).toBe(200);
+    expect(r.body.groundHunts[0].hunt).toBe("December hunt");
+    expect(r.body.groundHunts[0].steps.map((s: { feeder: string }) => s.feeder)).toEqual(["F2001", "F2002", "F2003"]);
+  });
+});
+
+describe("a board of more than 2,000 positions", () => {
+  it("offers every one of its positions when a defect is raised (a grid holds up to 60 × 60)", async () => {
+    const rows = [];
+    for (let gridRow = 2; gridRow <= 46; gridRow++)
+      for (let gridCol = 1; gridCol <= 60; gridCol++)
+        rows.push({
+          siteId: fx.siteId,
+          boardId,
+          designation: `${gridRow}-${gridCol}`,
+          kind: "fuse" as const,
+          gridRow,
+          gridCol,
+          sortOrder: gridRow * 100 + gridCol,
+        });
+    await t.db.insertInto("positions").values(rows).execute();
+    const r = await viewer.get(`${site()}/defect-positions/${boardId}`);
+    expect(r.status).toBe(200);
+    expect(r.body.positions).toHaveLength(2 + 45 * 60);
+    expect(r.body.positions.at(-1).designation).toBe("46-60");
   });
 });
