@@ -110,6 +110,11 @@ export async function listGroundChecks(db: Db, siteId: string, f: Filter) {
 export const PAGE_LIST_LIMIT = 500;
 /** One insulation series (a component, or a circuit named by hand) is read whole, up to this many. */
 export const SERIES_LIMIT = 5_000;
+/**
+ * Readings of each series and conductor pair the phase comparison reads: the newest two that are valid for judging
+ * take part, so a few more in case the newest were taken too close to the dew point.
+ */
+const COMPARED_PER_PAIR = 6;
 
 export async function boardReadings(db: Db, siteId: string, boardId: string) {
   const board = await boardOrThrow(db, siteId, boardId);
@@ -126,6 +131,7 @@ export async function boardReadings(db: Db, siteId: string, boardId: string) {
     totals,
     series,
     withReadings,
+    compared,
   ] = await Promise.all([
     listInsulation(db, siteId, { boardId, limit }),
     listContacts(db, siteId, { boardId, limit }),
@@ -138,6 +144,9 @@ export async function boardReadings(db: Db, siteId: string, boardId: string) {
     repo.readingTotals(db, siteId, { boardId }),
     repo.insulationSeries(db, siteId, boardId),
     repo.componentsWithReadings(db, siteId, boardId),
+    // Each series' newest readings per conductor pair, however old: a circuit tested last week beside others tested
+    // daily keeps its comparison and its trend (the list above holds only the board's newest).
+    listInsulation(db, siteId, { boardId, latestPer: COMPARED_PER_PAIR, limit: SERIES_LIMIT }),
   ]);
   return {
     board: { ...board, nominalVolts: Number(board.nominalVolts) },
@@ -149,7 +158,7 @@ export async function boardReadings(db: Db, siteId: string, boardId: string) {
     tripTests,
     stepTests,
     groundHunts,
-    phaseComparisons: phaseComparisons(insulation),
+    phaseComparisons: phaseComparisons(compared),
     totals,
     dryOutSeries: series.map((s) => ({
       componentId: s.componentId,

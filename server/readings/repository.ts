@@ -148,6 +148,8 @@ export interface ReadingFilter {
   circuit?: string;
   /** Only readings on a circuit named by hand (no component): one such circuit's series. */
   handNamed?: boolean;
+  /** Only the newest this many of each series and conductor pair (phase comparisons and trends). */
+  latestPer?: number;
   limit?: number;
 }
 
@@ -175,6 +177,27 @@ export async function listInsulation(db: Db, f: ReadingFilter & { id?: string })
   if (f.componentId) q = q.where("r.componentId", "=", f.componentId);
   if (f.circuit) q = q.where("r.circuit", "=", f.circuit);
   if (f.handNamed) q = q.where("r.componentId", "is", null);
+  if (f.latestPer)
+    q = q.where(
+      "r.id",
+      "in",
+      db
+        .selectFrom((eb) =>
+          eb
+            .selectFrom("insulationReadings as w")
+            .select([
+              "w.id",
+              sql<number>`row_number() over (partition by w.component_id, case when w.component_id is null then w.circuit end, w.conductors order by w.measured_at desc, w.created_at desc)`.as(
+                "n",
+              ),
+            ])
+            .where("w.siteId", "=", f.siteId)
+            .$if(!!f.boardId, (w) => w.where("w.boardId", "=", f.boardId!))
+            .as("ranked"),
+        )
+        .select("ranked.id")
+        .where("ranked.n", "<=", f.latestPer),
+    );
   return q
     .orderBy("r.measuredAt", "desc")
     .orderBy("r.createdAt", "desc")

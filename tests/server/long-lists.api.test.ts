@@ -123,6 +123,16 @@ describe("a board with more insulation readings than its page lists", () => {
     ]);
   });
 
+  it("compares the phases and the trend of a series whose readings are all older than the listed 500", async () => {
+    const r = await viewer.get(`${site()}/boards/${boardId}/readings`);
+    const mine = r.body.phaseComparisons.find((c: { key: string }) => c.key === `c:${older}`);
+    expect(mine).toBeDefined();
+    expect(mine.measuredAt).toBe(new Date(start + 199 * HOUR).toISOString());
+    expect(mine.trend).toHaveLength(1);
+    expect(mine.trend[0].conductors).toBe("A-G");
+    expect(mine.trend[0].current).toBeGreaterThan(mine.trend[0].previous);
+  });
+
   it("reads one series whole: the component's 200, oldest included, each judged", async () => {
     const r = await viewer.get(`${site()}/boards/${boardId}/dry-out?componentId=${older}`);
     expect(r.status).toBe(200);

@@ -5,13 +5,13 @@ import {
   type Conductors,
   type DryOutSeries,
   type InsulationReading,
+  phaseComparisonKey,
 } from "../../../schemas/readings";
 import { useDryOutSeries } from "../api";
 import { DryOutChart } from "./dry-out-chart";
 
-/** A series is a component's readings, else those of a circuit named by hand. */
-const seriesKey = (s: { componentId: string | null; circuit: string }) =>
-  s.componentId ? `c:${s.componentId}` : `circuit:${s.circuit}`;
+/** A series is a component's readings, else those of a circuit named by hand (the phase comparison's key too). */
+const seriesKey = phaseComparisonKey;
 const labelOf = (s: { designation: string | null; circuit: string }) =>
   [s.designation, s.circuit].filter(Boolean).join(" · ");
 const n = (x: number) => x.toLocaleString("en");
