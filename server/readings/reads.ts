@@ -106,8 +106,12 @@ export async function listGroundChecks(db: Db, siteId: string, f: Filter) {
   return rows.map((r) => groundDto(r, s.kind));
 }
 
-/** Readings of each kind a board's or a component's page lists, newest first; `totals` counts them all. */
-export const PAGE_LIST_LIMIT = 500;
+/**
+ * Readings of each kind a board's or a component's page lists, newest first; `totals` counts them all. A hundred:
+ * an insulation reading is ~1.6 kB judged (its sources and reasons), and 500 of them made a board's answer 835 kB
+ * for a phone in a hull that shows ten at first; the chart reads its series whole on its own.
+ */
+export const PAGE_LIST_LIMIT = 100;
 /** One insulation series (a component, or a circuit named by hand) is read whole, up to this many. */
 export const SERIES_LIMIT = 5_000;
 /**

@@ -2,8 +2,8 @@
  * Lists that outgrow their first page on a board a crew has worked for weeks; nothing is cut without saying so.
  *
  * A dry-out of weeks: a board with more insulation readings than its page lists. The page lists the
- * board's newest 500 and says how many there are; every series stays choosable for the dry-out chart
- * and is read whole from GET …/dry-out; a component whose readings are all older than the newest 500
+ * board's newest 100 and says how many there are; every series stays choosable for the dry-out chart
+ * and is read whole from GET …/dry-out; a component whose readings are all older than the newest listed
  * keeps its link. Ground hunts keep the newest when there are more steps than are read; a defect can be raised
  * on any position of a board of up to 60 × 60. (Before, the board's answer held the newest 500 and nothing else: on day three of a
  * dry-out with 40 circuits read three phases twice a day, the chart lost the start of every series.)
@@ -18,7 +18,7 @@ let t: TestDb;
 let server: TestServer;
 let fx: Awaited<ReturnType<typeof makeCrew>>;
 let boardId: string;
-let older: string; // component "1-1": 200 readings, all older than the newest 500 of the board
+let older: string; // component "1-1": 200 readings, all older than the newest listed of the board
 let newer: string; // component "1-2": 521 readings, the newest
 let viewer: Client;
 
@@ -87,10 +87,10 @@ afterAll(async () => {
 const site = () => `/api/sites/${fx.siteId}`;
 
 describe("a board with more insulation readings than its page lists", () => {
-  it("lists the newest 500 and counts all 726", async () => {
+  it("lists the newest 100 and counts all 726", async () => {
     const r = await viewer.get(`${site()}/boards/${boardId}/readings`);
     expect(r.status).toBe(200);
-    expect(r.body.insulation).toHaveLength(500);
+    expect(r.body.insulation).toHaveLength(100);
     expect(r.body.insulation.every((x: { componentId: string }) => x.componentId === newer)).toBe(true);
     expect(r.body.totals).toMatchObject({ insulation: 726, contacts: 0, thermal: 0, groundChecks: 0 });
   });
@@ -115,7 +115,7 @@ describe("a board with more insulation readings than its page lists", () => {
     });
   });
 
-  it("keeps the link of a component whose readings are all older than the newest 500", async () => {
+  it("keeps the link of a component whose readings are all older than the newest listed", async () => {
     const r = await viewer.get(`${site()}/boards/${boardId}/readings`);
     expect(r.body.componentsWithReadings).toEqual([
       { componentId: older, designation: "1-1" },
@@ -123,7 +123,7 @@ describe("a board with more insulation readings than its page lists", () => {
     ]);
   });
 
-  it("compares the phases and the trend of a series whose readings are all older than the listed 500", async () => {
+  it("compares the phases and the trend of a series whose readings are all older than the listed ones", async () => {
     const r = await viewer.get(`${site()}/boards/${boardId}/readings`);
     const mine = r.body.phaseComparisons.find((c: { key: string }) => c.key === `c:${older}`);
     expect(mine).toBeDefined();
