@@ -42,7 +42,7 @@ const fact = (page: Page, name: string) =>
 
 async function recordInsulation(page: Page, designation: string, megohms: string, when: string) {
   const form = page.getByRole("form", { name: "Record an insulation-resistance reading" });
-  await pickOption(form.getByLabel("Component"), new RegExp(`^${designation} `));
+  await pickOption(form.getByLabel("Component"), new RegExp(`^${designation}( · |$)`));
   await form.getByLabel("Reading (MΩ)").fill(megohms);
   await form.getByLabel("Equipment temperature (°C)").fill("20");
   await form.getByLabel("Measured at").fill(when);
