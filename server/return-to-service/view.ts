@@ -217,6 +217,7 @@ export async function boardView(db: Db, siteId: string, boardId: string, now: Da
         readings: (p.componentId ? (byComponent.get(p.componentId) ?? []) : []).map((r) => ({
           id: r.id,
           measuredAt: r.measuredAt,
+          conductors: r.conductors,
           verdict: r.judgement.verdict,
           correctedMegohms: r.judgement.correctedMegohms,
         })),

@@ -20,6 +20,7 @@ import { localDate, localMinute } from "./local-time";
 import { AFTER_ENERGISE_KINDS, isQualifiedOn, type StageStatus, type StepKind, type Supply } from "./return-to-service";
 import type { Verdict } from "./reading-judgement";
 import { watchSchedule } from "./rts-watch";
+import { CONDUCTOR_LABELS, type Conductors } from "./vocab";
 
 /** Tideline's allowance for repeatability: a fall of more than 10 % of the previous corrected value counts. */
 export const FALL_TOLERANCE = 0.1;
@@ -28,6 +29,8 @@ const DAY_MS = 86_400_000;
 export interface GateReading {
   id: string;
   measuredAt: string;
+  /** Which conductors were tested ("A-G", "A-B", …): only readings of the same pair compare. */
+  conductors: Conductors;
   verdict: Verdict;
   /** Corrected to the site's base temperature; null when it could not be corrected. */
   correctedMegohms: number | null;
@@ -173,7 +176,12 @@ const onSite = (iso: string, zone: string) => `${localMinute(new Date(ms(iso)), 
 const daysOld = (fromMs: number, toMs: number) => Math.floor((toMs - fromMs) / DAY_MS);
 const label = (c: GateCircuit) => (c.circuit ? `${c.designation} (${c.circuit})` : c.designation);
 
-/** Insulation blockers for the circuits as of `asOfMs`. */
+/**
+ * Insulation blockers for the circuits as of `asOfMs`. Each conductor pair a circuit was tested on is judged on its
+ * own: its latest reading must be recent and meet the criterion, and must not have fallen since that pair's reading
+ * before. Readings of different pairs do not compare (phase B after phase A is not a fall), and a pair whose latest
+ * reading fails is not hidden by a later reading of another pair.
+ */
 export function insulationBlockers(
   circuits: GateCircuit[],
   asOfMs: number,
@@ -186,40 +194,42 @@ export function insulationBlockers(
     if (!c.needsInsulation) continue;
     const href = links.circuitReadings(c);
     const usable = c.readings.filter((r) => ms(r.measuredAt) <= asOfMs);
-    const latest = usable[0];
-    if (!latest) {
+    if (!usable[0]) {
       out.push({ code: "insulation_missing", message: `${label(c)}: no insulation reading recorded.`, href });
       continue;
     }
-    const age = asOfMs - ms(latest.measuredAt);
-    if (age > maxAgeDays * DAY_MS) {
-      out.push({
-        code: "insulation_old",
-        message: `${label(c)}: latest insulation reading is ${daysOld(ms(latest.measuredAt), asOfMs)} days old (the site asks for one within ${maxAgeDays}).`,
-        href,
-      });
-      continue;
-    }
-    if (latest.verdict !== "meets") {
-      out.push({
-        code: "insulation_not_met",
-        message: `${label(c)}: latest insulation reading does not meet the recorded criterion.`,
-        href,
-      });
-      continue;
-    }
-    const prev = usable[1];
-    if (
-      prev &&
-      latest.correctedMegohms != null &&
-      prev.correctedMegohms != null &&
-      latest.correctedMegohms < prev.correctedMegohms * (1 - FALL_TOLERANCE)
-    ) {
-      out.push({
-        code: "insulation_fell",
-        message: `${label(c)}: insulation resistance fell from ${fmt(prev.correctedMegohms)} to ${fmt(latest.correctedMegohms)} MΩ (corrected) since the reading before.`,
-        href,
-      });
+    const byPair = new Map<Conductors, GateReading[]>(); // newest first within each pair
+    for (const r of usable) byPair.set(r.conductors, [...(byPair.get(r.conductors) ?? []), r]);
+    for (const [pair, [latest, prev]] of byPair) {
+      const what = byPair.size > 1 ? `${label(c)}, ${CONDUCTOR_LABELS[pair]}` : label(c);
+      if (asOfMs - ms(latest.measuredAt) > maxAgeDays * DAY_MS) {
+        out.push({
+          code: "insulation_old",
+          message: `${what}: latest insulation reading is ${daysOld(ms(latest.measuredAt), asOfMs)} days old (the site asks for one within ${maxAgeDays}).`,
+          href,
+        });
+        continue;
+      }
+      if (latest.verdict !== "meets") {
+        out.push({
+          code: "insulation_not_met",
+          message: `${what}: latest insulation reading does not meet the recorded criterion.`,
+          href,
+        });
+        continue;
+      }
+      if (
+        prev &&
+        latest.correctedMegohms != null &&
+        prev.correctedMegohms != null &&
+        latest.correctedMegohms < prev.correctedMegohms * (1 - FALL_TOLERANCE)
+      ) {
+        out.push({
+          code: "insulation_fell",
+          message: `${what}: insulation resistance fell from ${fmt(prev.correctedMegohms)} to ${fmt(latest.correctedMegohms)} MΩ (corrected) since the reading before.`,
+          href,
+        });
+      }
     }
   }
   return out;

@@ -49,8 +49,8 @@ const good = (): GateInput => ({
       componentId: "c1",
       needsInsulation: true,
       readings: [
-        { id: "r2", measuredAt: "2026-12-01T09:00:00Z", verdict: "meets", correctedMegohms: 200 },
-        { id: "r1", measuredAt: "2026-11-30T09:00:00Z", verdict: "meets", correctedMegohms: 190 },
+        { id: "r2", measuredAt: "2026-12-01T09:00:00Z", conductors: "A-G", verdict: "meets", correctedMegohms: 200 },
+        { id: "r1", measuredAt: "2026-11-30T09:00:00Z", conductors: "A-G", verdict: "meets", correctedMegohms: 190 },
       ],
     },
   ],
@@ -396,6 +396,55 @@ describe("watch schedule (common practice; 15 min grace is Tideline's)", () => {
 describe("insulation blockers directly", () => {
   it("throws on a reading age below one day", () =>
     expect(() => insulationBlockers([], Date.parse(NOW), 0, links)).toThrow(RangeError));
+
+  // Each conductor pair on its own. Source: a trend compares readings taken the same way (IEEE Std 43 on trending
+  // insulation resistance, from memory; common practice: phase to ground per phase, each phase its own history).
+  type Pair = "A-G" | "B-G" | "C-G";
+  type R = [id: string, daysAgo: number, conductors: Pair, verdict: "meets" | "below_minimum", mohm: number];
+  const circuit = (...rs: R[]) => ({
+    ...good().circuits[0],
+    readings: rs.map(([id, daysAgo, conductors, verdict, correctedMegohms]) => ({
+      id,
+      measuredAt: new Date(Date.parse(NOW) - daysAgo * 86_400_000).toISOString(),
+      conductors,
+      verdict,
+      correctedMegohms,
+    })),
+  });
+  /** Newest first, as the gate is handed them. */
+  const blockers = (...rs: R[]) =>
+    insulationBlockers([circuit(...rs)], Date.parse(NOW), 7, links).map((b) => `${b.code}: ${b.message}`);
+
+  it("phase B read lower than phase A just after it is not a fall: readings of different pairs do not compare", () =>
+    expect(
+      blockers(["b", 1, "B-G", "meets", 150], ["c", 1, "C-G", "meets", 260], ["a", 1, "A-G", "meets", 300]),
+    ).toEqual([]));
+
+  it("phase A below the criterion is not hidden by later readings of B and C that meet", () =>
+    expect(
+      blockers(["c", 1, "C-G", "meets", 260], ["b", 1, "B-G", "meets", 250], ["a", 2, "A-G", "below_minimum", 40]),
+    ).toEqual([
+      "insulation_not_met: 1-1 (Steering gear), A to ground: latest insulation reading does not meet the recorded criterion.",
+    ]));
+
+  it("a fall on phase A is seen across a reading of phase B between its two", () =>
+    expect(
+      blockers(["a2", 1, "A-G", "meets", 150], ["b", 2, "B-G", "meets", 400], ["a1", 2, "A-G", "meets", 300]),
+    ).toEqual([
+      "insulation_fell: 1-1 (Steering gear), A to ground: insulation resistance fell from 300 to 150 MΩ (corrected) since the reading before.",
+    ]));
+
+  it("a pair not read again for longer than the site allows is old, though the others are recent", () =>
+    expect(
+      blockers(["b", 1, "B-G", "meets", 250], ["a", 1, "A-G", "meets", 300], ["c", 12, "C-G", "meets", 300]),
+    ).toEqual([
+      "insulation_old: 1-1 (Steering gear), C to ground: latest insulation reading is 12 days old (the site asks for one within 7).",
+    ]));
+
+  it("one pair only: the message names the circuit alone, as before", () =>
+    expect(blockers(["a2", 1, "A-G", "meets", 150], ["a1", 2, "A-G", "meets", 300])).toEqual([
+      "insulation_fell: 1-1 (Steering gear): insulation resistance fell from 300 to 150 MΩ (corrected) since the reading before.",
+    ]));
 });
 
 describe("plan order and permissions", () => {
