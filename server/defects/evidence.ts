@@ -114,7 +114,7 @@ export async function evidenceOf(db: Db, siteId: string, d: { id: string; compon
         readingId: r.id,
         measuredAt: String(r.measuredAt),
         verdict: r.judgement.verdict,
-        summary: `Insulation ${r.megohms} MΩ at ${r.testVoltsDc} V DC`,
+        summary: `Insulation ${r.megohms} MΩ at ${r.testVoltsDc} V DC (${r.conductors})`, // as judgedReading says it
       });
     for (const r of con)
       candidates.push({

@@ -18,6 +18,7 @@ import * as repo from "./survey-repository";
 import * as positions from "./positions-repository";
 import * as boards from "./boards-repository";
 import * as readings from "../readings/reads";
+import type { Verdict } from "../../src/domain/reading-judgement";
 import {
   CUSTODY,
   type ComponentKind,
@@ -136,7 +137,7 @@ async function custodyFacts(
   const [inspection, reading] = await Promise.all([
     repo.latestInspection(trx, c.id),
     READING_REQUIRED_KINDS.has(c.kind)
-      ? readings.listInsulation(trx, siteId, { componentId: c.id, limit: 1 })
+      ? readings.listInsulation(trx, siteId, { componentId: c.id, latestPer: 1 })
       : Promise.resolve([]),
   ]);
   return {
@@ -146,7 +147,7 @@ async function custodyFacts(
     tagNumber: tagNumber ?? c.tagNumber,
     latestInsulation: inspection?.insulation ?? null,
     latestMechanism: inspection?.mechanism ?? null,
-    latestReading: reading[0]?.judgement.verdict ?? null,
+    latestReading: worstOf(reading.map((r) => r.judgement.verdict)),
   };
 }
 
@@ -409,4 +410,17 @@ export async function positionDetail(db: Db, siteId: string, positionId: string)
     photoCount: Number(counts.photoCount ?? 0),
     openDefectCount: Number(counts.openDefectCount ?? 0),
   };
+}
+
+/**
+ * The verdict a refit goes by: that of each conductor pair's latest reading, the worst of them (a failing phase is
+ * not hidden by a later reading of another phase that meets); null when there is none.
+ */
+function worstOf(verdicts: Verdict[]): Verdict | null {
+  if (verdicts.length === 0) return null;
+  return (
+    verdicts.find((v) => v === "below_minimum" || v === "investigate") ??
+    verdicts.find((v) => v === "not_valid") ??
+    "meets"
+  );
 }

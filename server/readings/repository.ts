@@ -193,6 +193,7 @@ export async function listInsulation(db: Db, f: ReadingFilter & { id?: string })
             ])
             .where("w.siteId", "=", f.siteId)
             .$if(!!f.boardId, (w) => w.where("w.boardId", "=", f.boardId!))
+            .$if(!!f.componentId, (w) => w.where("w.componentId", "=", f.componentId!))
             .as("ranked"),
         )
         .select("ranked.id")

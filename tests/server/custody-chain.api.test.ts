@@ -51,14 +51,14 @@ const decide = async (c: { id: string; version: number }, disposition: string) =
     id: string;
     version: number;
   };
-const reading = (componentId: string, megohms: number) =>
+const reading = (componentId: string, megohms: number, conductors = "A-G", measuredAt = "2026-11-20T09:00:00Z") =>
   volunteer.post(`${base}/boards/${boardId}/insulation-readings`, {
     componentId,
     testVoltsDc: 1000,
     megohms,
-    conductors: "A-G",
+    conductors,
     equipmentTempC: 20,
-    measuredAt: "2026-11-20T09:00:00Z",
+    measuredAt,
   });
 
 describe("the custody chain", () => {
@@ -134,6 +134,20 @@ describe("the custody chain", () => {
     await reading(c.id, 0.5); // below ANSI/NETA MTS-2019 Table 100.1's 100 MΩ for the 600 V class
     expect((await move(volunteer, c, { toState: "refitted" })).body.error.code).toBe("reading_failing");
     expect((await reading(c.id, 500)).status).toBe(201);
+    await step(c, "refitted");
+  });
+
+  it("phase A below its criterion is not hidden by later readings of phases B and C that meet", async () => {
+    let c = await component();
+    c = await step(c, "removed", { tagNumber: "KL-7450" });
+    c = await decide(c, "rebuild");
+    c = await step(c, "in_workshop");
+    c = await step(c, "ready_to_refit");
+    expect((await reading(c.id, 0.5, "A-G", "2026-11-20T09:00:00Z")).status).toBe(201);
+    expect((await reading(c.id, 500, "B-G", "2026-11-20T09:05:00Z")).status).toBe(201);
+    expect((await reading(c.id, 500, "C-G", "2026-11-20T09:10:00Z")).status).toBe(201);
+    expect((await move(volunteer, c, { toState: "refitted" })).body.error.code).toBe("reading_failing");
+    expect((await reading(c.id, 480, "A-G", "2026-11-21T09:00:00Z")).status).toBe(201);
     await step(c, "refitted");
   });
 
