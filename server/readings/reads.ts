@@ -80,24 +80,25 @@ export async function componentOrThrow(db: Db, siteId: string, componentId: stri
 
 export type Filter = Omit<repo.ReadingFilter, "siteId"> & { id?: string };
 
-export async function listInsulation(db: Db, siteId: string, f: Filter) {
-  const [criteria, rows] = await Promise.all([loadCriteria(db, siteId), repo.listInsulation(db, { siteId, ...f })]);
+/** Rows judged against the site's criteria and the manufacturer's values of their components. */
+async function judged<R extends { componentId: string | null }, D>(
+  db: Db,
+  siteId: string,
+  rowsOf: Promise<R[]>,
+  dto: (r: R, c: Awaited<ReturnType<typeof loadCriteria>>, o: Overrides) => D,
+) {
+  const [criteria, rows] = await Promise.all([loadCriteria(db, siteId), rowsOf]);
   const overrides = await overridesFor(
     db,
     siteId,
     rows.map((r) => r.componentId),
   );
-  return rows.map((r) => insulationDto(r, criteria, overrides));
+  return rows.map((r) => dto(r, criteria, overrides));
 }
-export async function listContacts(db: Db, siteId: string, f: Filter) {
-  const [criteria, rows] = await Promise.all([loadCriteria(db, siteId), repo.listContacts(db, { siteId, ...f })]);
-  const overrides = await overridesFor(
-    db,
-    siteId,
-    rows.map((r) => r.componentId),
-  );
-  return rows.map((r) => contactDto(r, criteria, overrides));
-}
+export const listInsulation = (db: Db, siteId: string, f: Filter) =>
+  judged(db, siteId, repo.listInsulation(db, { siteId, ...f }), insulationDto);
+export const listContacts = (db: Db, siteId: string, f: Filter) =>
+  judged(db, siteId, repo.listContacts(db, { siteId, ...f }), contactDto);
 export async function listThermal(db: Db, siteId: string, f: Filter) {
   return (await repo.listThermal(db, { siteId, ...f })).map(thermalDto);
 }
