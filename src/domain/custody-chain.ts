@@ -50,7 +50,10 @@ export interface CustodyFacts {
   /** Newest inspection's insulation and mechanism (null when never inspected or not noted). */
   latestInsulation: InsulationState | null;
   latestMechanism: Mechanism | null;
-  /** Verdict of the newest insulation reading of this component, null when none. */
+  /**
+   * Verdict of this component's newest insulation reading of each conductor pair, the worst of them (a failing phase
+   * is not hidden by a later reading of another); null when none.
+   */
   latestReading: "meets" | "below_minimum" | "investigate" | "not_valid" | null;
 }
 
