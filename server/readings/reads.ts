@@ -80,14 +80,20 @@ export async function componentOrThrow(db: Db, siteId: string, componentId: stri
 
 export type Filter = Omit<repo.ReadingFilter, "siteId"> & { id?: string };
 
-/** Rows judged against the site's criteria and the manufacturer's values of their components. */
+type SiteCriteria = Awaited<ReturnType<typeof loadCriteria>>;
+
+/**
+ * Rows judged against the site's criteria and the manufacturer's values of their components. A caller judging
+ * several lists at once hands in one read of the criteria.
+ */
 async function judged<R extends { componentId: string | null }, D>(
   db: Db,
   siteId: string,
   rowsOf: Promise<R[]>,
-  dto: (r: R, c: Awaited<ReturnType<typeof loadCriteria>>, o: Overrides) => D,
+  dto: (r: R, c: SiteCriteria, o: Overrides) => D,
+  criteriaOf: Promise<SiteCriteria> = loadCriteria(db, siteId),
 ) {
-  const [criteria, rows] = await Promise.all([loadCriteria(db, siteId), rowsOf]);
+  const [criteria, rows] = await Promise.all([criteriaOf, rowsOf]);
   const overrides = await overridesFor(
     db,
     siteId,
@@ -95,10 +101,10 @@ async function judged<R extends { componentId: string | null }, D>(
   );
   return rows.map((r) => dto(r, criteria, overrides));
 }
-export const listInsulation = (db: Db, siteId: string, f: Filter) =>
-  judged(db, siteId, repo.listInsulation(db, { siteId, ...f }), insulationDto);
-export const listContacts = (db: Db, siteId: string, f: Filter) =>
-  judged(db, siteId, repo.listContacts(db, { siteId, ...f }), contactDto);
+export const listInsulation = (db: Db, siteId: string, f: Filter, criteria?: Promise<SiteCriteria>) =>
+  judged(db, siteId, repo.listInsulation(db, { siteId, ...f }), insulationDto, criteria);
+export const listContacts = (db: Db, siteId: string, f: Filter, criteria?: Promise<SiteCriteria>) =>
+  judged(db, siteId, repo.listContacts(db, { siteId, ...f }), contactDto, criteria);
 export async function listThermal(db: Db, siteId: string, f: Filter) {
   return (await repo.listThermal(db, { siteId, ...f })).map(thermalDto);
 }
@@ -124,6 +130,7 @@ const COMPARED_PER_PAIR = 6;
 export async function boardReadings(db: Db, siteId: string, boardId: string) {
   const board = await boardOrThrow(db, siteId, boardId);
   const limit = PAGE_LIST_LIMIT;
+  const criteria = loadCriteria(db, siteId); // one read for the three judged lists
   const [
     insulation,
     contacts,
@@ -138,8 +145,8 @@ export async function boardReadings(db: Db, siteId: string, boardId: string) {
     withReadings,
     compared,
   ] = await Promise.all([
-    listInsulation(db, siteId, { boardId, limit }),
-    listContacts(db, siteId, { boardId, limit }),
+    listInsulation(db, siteId, { boardId, limit }, criteria),
+    listContacts(db, siteId, { boardId, limit }, criteria),
     listThermal(db, siteId, { boardId, limit }),
     listGroundChecks(db, siteId, { boardId, limit }),
     listTripTests(db, siteId, { boardId, limit }),
@@ -151,7 +158,7 @@ export async function boardReadings(db: Db, siteId: string, boardId: string) {
     repo.componentsWithReadings(db, siteId, boardId),
     // Each series' newest readings per conductor pair, however old: a circuit tested last week beside others tested
     // daily keeps its comparison and its trend (the list above holds only the board's newest).
-    listInsulation(db, siteId, { boardId, latestPer: COMPARED_PER_PAIR, limit: SERIES_LIMIT }),
+    listInsulation(db, siteId, { boardId, latestPer: COMPARED_PER_PAIR, limit: SERIES_LIMIT }, criteria),
   ]);
   return {
     board: { ...board, nominalVolts: Number(board.nominalVolts) },

@@ -14,6 +14,7 @@ import {
   stepVoltageSchema,
   tripTestSchema,
   overrideSchema,
+  phaseComparisonKey,
   readingTargetsSchema,
   seriesReadingsSchema,
   thermalScanSchema,
@@ -64,7 +65,7 @@ export function withSeries(d: BoardReadings): BoardReadings {
   if (kept.totals && kept.dryOutSeries && kept.componentsWithReadings) return d;
   const series = new Map<string, DryOutSeries>();
   for (const r of d.insulation) {
-    const key = r.componentId ?? `circuit:${r.circuit}`;
+    const key = phaseComparisonKey(r);
     const s = series.get(key);
     if (s) {
       s.count++;
