@@ -150,6 +150,11 @@ export interface ReadingFilter {
   handNamed?: boolean;
   /** Only the newest this many of each series and conductor pair (phase comparisons and trends). */
   latestPer?: number;
+  /**
+   * With `latestPer`: the newest of each series and pair taken at or before each of these moments, together (the hold
+   * points of return to service judge a stage's circuits as they stood when it was energised).
+   */
+  latestAsOf?: Date[];
   limit?: number;
 }
 
@@ -177,28 +182,29 @@ export async function listInsulation(db: Db, f: ReadingFilter & { id?: string })
   if (f.componentId) q = q.where("r.componentId", "=", f.componentId);
   if (f.circuit) q = q.where("r.circuit", "=", f.circuit);
   if (f.handNamed) q = q.where("r.componentId", "is", null);
-  if (f.latestPer)
-    q = q.where(
-      "r.id",
-      "in",
-      db
-        .selectFrom((eb) =>
-          eb
-            .selectFrom("insulationReadings as w")
-            .select([
-              "w.id",
-              sql<number>`row_number() over (partition by w.component_id, case when w.component_id is null then w.circuit end, w.conductors order by w.measured_at desc, w.created_at desc)`.as(
-                "n",
-              ),
-            ])
-            .where("w.siteId", "=", f.siteId)
-            .$if(!!f.boardId, (w) => w.where("w.boardId", "=", f.boardId!))
-            .$if(!!f.componentId, (w) => w.where("w.componentId", "=", f.componentId!))
-            .as("ranked"),
-        )
-        .select("ranked.id")
-        .where("ranked.n", "<=", f.latestPer),
-    );
+  if (f.latestPer) {
+    // Each reading ranked within its series and pair as of each moment (one moment, "infinity", when none is given).
+    const moments = f.latestAsOf ? f.latestAsOf.map((d) => d.toISOString()) : ["infinity"];
+    const ranked = db
+      .selectFrom("insulationReadings as w")
+      .innerJoin(sql<{ at: Date }>`(select unnest(${moments}::timestamptz[]) as at)`.as("t"), (j) =>
+        j.onRef("w.measuredAt", "<=", "t.at"),
+      )
+      .select([
+        "w.id",
+        sql<number>`row_number() over (partition by t.at, w.component_id, case when w.component_id is null then w.circuit end, w.conductors order by w.measured_at desc, w.created_at desc)`.as(
+          "n",
+        ),
+      ])
+      .where("w.siteId", "=", f.siteId)
+      .$if(!!f.boardId, (w) => w.where("w.boardId", "=", f.boardId!))
+      .$if(!!f.componentId, (w) => w.where("w.componentId", "=", f.componentId!));
+    const ids = db.selectFrom(ranked.as("ranked")).select("ranked.id").where("ranked.n", "<=", f.latestPer);
+    // `= any(array(…))`: the ids are gathered once and fetched by key. As `in (…)` the plan rested on the table's
+    // statistics; right after a day's readings arrived they said "one row" and the window was re-sorted for every
+    // reading (1.7 s for a board of 2,560 instead of 0.02).
+    q = q.where(sql<boolean>`r.id = any(array${ids})`);
+  }
   return q
     .orderBy("r.measuredAt", "desc")
     .orderBy("r.createdAt", "desc")

@@ -8,6 +8,7 @@ import { localDate, localMinute } from "../../src/domain/local-time";
 import { DEFAULT_TEMPLATE, isQualifiedOn } from "../../src/domain/return-to-service";
 import {
   evaluateStage,
+  GATE_READINGS_PER_PAIR,
   type GateCircuit,
   type GateInput,
   type GateLampObservation,
@@ -108,6 +109,7 @@ function signoffDto(
 export async function boardView(db: Db, siteId: string, boardId: string, now: Date): Promise<RtsBoardView> {
   const board = await repo.findBoard(db, siteId, boardId);
   if (!board) throw notFound("That board");
+  const stagesOf = repo.listStages(db, boardId);
   const [
     settings,
     stages,
@@ -125,11 +127,20 @@ export async function boardView(db: Db, siteId: string, boardId: string, now: Da
     timeZone,
   ] = await Promise.all([
     loadSettings(db, siteId),
-    repo.listStages(db, boardId),
+    stagesOf,
     repo.listSections(db, boardId),
     repo.listPositions(db, boardId),
     repo.listQualified(db, siteId),
-    readings.listInsulation(db, siteId, { boardId, limit: 10_000 }),
+    // The hold point judges each circuit's newest two readings of each conductor pair, now or as the circuit stood
+    // when its stage was energised: only those are read and judged, not a dry-out's thousands.
+    stagesOf.then((st) =>
+      readings.listInsulation(db, siteId, {
+        boardId,
+        latestPer: GATE_READINGS_PER_PAIR,
+        latestAsOf: [now, ...st.flatMap((s) => (s.energisedAt && s.energisedAt < now ? [s.energisedAt] : []))],
+        limit: 10_000,
+      }),
+    ),
     readings.listThermal(db, siteId, { boardId, limit: 10_000 }),
     readings.latestGroundCheck(db, siteId, boardId),
     repo.listWatchChecks(db, boardId),

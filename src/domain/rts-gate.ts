@@ -176,6 +176,9 @@ const onSite = (iso: string, zone: string) => `${localMinute(new Date(ms(iso)), 
 const daysOld = (fromMs: number, toMs: number) => Math.floor((toMs - fromMs) / DAY_MS);
 const label = (c: GateCircuit) => (c.circuit ? `${c.designation} (${c.circuit})` : c.designation);
 
+/** Readings of each conductor pair the insulation hold point looks at: the latest and the one before it. */
+export const GATE_READINGS_PER_PAIR = 2;
+
 /**
  * Insulation blockers for the circuits as of `asOfMs`. Each conductor pair a circuit was tested on is judged on its
  * own: its latest reading must be recent and meet the criterion, and must not have fallen since that pair's reading

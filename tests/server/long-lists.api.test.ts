@@ -5,7 +5,8 @@
  * board's newest 100 and says how many there are; every series stays choosable for the dry-out chart
  * and is read whole from GET …/dry-out; a component whose readings are all older than the newest listed
  * keeps its link. Ground hunts keep the newest when there are more steps than are read; a defect can be raised
- * on any position of a board of up to 60 × 60. (Before, the board's answer held the newest 500 and nothing else: on day three of a
+ * on any position of a board of up to 60 × 60. The return-to-service view reads each pair's newest two readings
+ * (now, and as each energised stage stood when it was energised), not a dry-out's thousands. (Before, the board's answer held the newest 500 and nothing else: on day three of a
  * dry-out with 40 circuits read three phases twice a day, the chart lost the start of every series.)
  */
 import { randomUUID } from "node:crypto";
@@ -218,5 +219,102 @@ describe("a board of more than 2,000 positions", () => {
     expect(r.status).toBe(200);
     expect(r.body.positions).toHaveLength(2 + 45 * 60);
     expect(r.body.positions.at(-1).designation).toBe("46-60");
+  });
+});
+
+describe("the return-to-service view of a board weeks into its dry-out", () => {
+  // Its own board: the hold point judges readings against today, so they are placed relative to now.
+  const now = Date.now();
+  let shore: string;
+  const stages: Record<string, string> = {};
+
+  async function circuitOf(designation: string, circuit: string, gridCol: number) {
+    const p = await t.db
+      .insertInto("positions")
+      .values({
+        siteId: fx.siteId,
+        boardId: shore,
+        designation,
+        kind: "molded_case_breaker",
+        gridRow: 1,
+        gridCol,
+        circuit,
+      })
+      .returning("id")
+      .executeTakeFirstOrThrow();
+    const c = await t.db
+      .insertInto("components")
+      .values({ siteId: fx.siteId, positionId: p.id, kind: "molded_case_breaker", poles: 3 })
+      .returning("id")
+      .executeTakeFirstOrThrow();
+    return { positionId: p.id, componentId: c.id };
+  }
+  const at = (componentId: string, conductors: "A-G" | "B-G", hoursAgo: number, megohms: number) => ({
+    ...reading(componentId, "", now - hoursAgo * HOUR, megohms),
+    boardId: shore,
+    conductors,
+  });
+  const gateOf = async (name: string) => {
+    const r = await viewer.get(`${site()}/boards/${shore}/return-to-service`);
+    expect(r.status).toBe(200);
+    const stage = r.body.stages.find((s: { id: string }) => s.id === stages[name]);
+    return stage.gate.holdPoints.find((h: { kind: string }) => h.kind === "insulation");
+  };
+
+  beforeAll(async () => {
+    shore = (
+      await t.db
+        .insertInto("boards")
+        .values({ siteId: fx.siteId, name: "Shore connection panel", nominalVolts: 450 })
+        .returning("id")
+        .executeTakeFirstOrThrow()
+    ).id;
+    const fallen = await circuitOf("2-1", "Windlass", 1);
+    const live = await circuitOf("2-2", "Ballast pump", 2);
+    const rows = [
+      // Three weeks of phase A twice an hour at 200 MΩ, then the newest at 100: it fell. Phase B, read once just after
+      // at 150, below the 200s of phase A, is its own pair and not a fall.
+      ...Array.from({ length: 1000 }, (_, i) => at(fallen.componentId, "A-G", 520 - i * 0.5, 200)),
+      at(fallen.componentId, "A-G", 3, 100),
+      at(fallen.componentId, "B-G", 2, 150),
+      // Energised 10 h ago after weeks of readings that met; read again since, below the criterion (a later matter).
+      ...Array.from({ length: 1000 }, (_, i) => at(live.componentId, "A-G", 520 - i * 0.5, 200)),
+      ...[8, 6, 4].map((h) => at(live.componentId, "A-G", h, 0.1)),
+    ];
+    await t.db.insertInto("insulationReadings").values(rows).execute();
+    const curator = server.client();
+    await curator.signIn(fx.crew.curator.email);
+    for (const [name, p] of [
+      ["windlass", fallen],
+      ["ballast", live],
+    ] as const) {
+      const r = await curator.post(`${site()}/boards/${shore}/return-to-service/stages`, {
+        name: `Bring back ${name}`,
+        positionIds: [p.positionId],
+        supply: "temporary_fused",
+        voltageStep: "full",
+        stepVolts: 450,
+      });
+      expect(r.status, JSON.stringify(r.body)).toBe(201);
+      stages[name] = r.body.stage.id;
+    }
+    await t.db
+      .updateTable("rtsStages")
+      .set({ status: "energised", energisedAt: new Date(now - 10 * HOUR) })
+      .where("id", "=", stages.ballast)
+      .execute();
+  });
+
+  it("judges each pair by its newest reading and the one before, past a thousand older ones", async () => {
+    const hold = await gateOf("windlass");
+    expect(hold.state).toBe("blocked");
+    expect(hold.blockers.map((b: { message: string }) => b.message)).toEqual([
+      "2-1 (Windlass), A to ground: insulation resistance fell from 200 to 100 MΩ (corrected) since the reading before.",
+    ]);
+  });
+
+  it("judges an energised stage's circuits as they stood when it was energised, not by the readings since", async () => {
+    const hold = await gateOf("ballast");
+    expect(hold.blockers).toEqual([]);
   });
 });
