@@ -34,6 +34,10 @@ export interface UsersTable {
   isAdmin: Generated<boolean>;
   createdAt: Timestamp;
   updatedAt: Timestamp;
+  /** Set while an instance admin has the account suspended (migration 2026_12_15_0100). */
+  suspendedAt: Date | null;
+  suspendedBy: string | null;
+  suspendedReason: Generated<string>;
 }
 
 export interface SessionsTable {
@@ -798,7 +802,7 @@ export interface RtsOverdueNoticesTable {
   attempt: number;
   dueAt: ColumnType<Date, Date | string, Date | string>;
   sentTo: string | null;
-  outcome: "sent" | "failed" | "switched_off" | "no_qualified_person";
+  outcome: "sent" | "failed" | "switched_off" | "suspended" | "no_qualified_person";
   error: string | null;
   createdAt: Timestamp;
 }

@@ -44,3 +44,65 @@ test("the instance admin makes a site and an account, a refused field says why b
   );
   await expectNoSeriousA11yViolations(page, "instance administration");
 });
+
+test("the instance admin suspends an account: it is signed out at once, told why it cannot sign in, and reinstated", async ({
+  page,
+  browser,
+}) => {
+  await signIn(page, "admin");
+  const email = uniqueEmail("leaver");
+  const made = await page.request.post("/api/admin/users", {
+    data: { email, name: "Jory Trevaskis", password: "long-enough-passphrase" },
+    headers: { origin: new URL(page.url()).origin },
+  });
+  expect(made.status()).toBe(201);
+
+  // The account is signed in on its own phone.
+  const phoneCtx = await browser.newContext({ viewport: { width: 360, height: 740 } });
+  const phone = await phoneCtx.newPage();
+  const signInAs = async () => {
+    await phone.goto("/sign-in");
+    await phone.getByLabel("E-mail").fill(email);
+    await phone.getByLabel("Password").fill("long-enough-passphrase");
+    await phone.getByRole("button", { name: "Sign in" }).click();
+  };
+  await signInAs();
+  await expect(phone.getByRole("button", { name: "Sign out" })).toBeVisible();
+
+  await page.goto("/admin");
+  const row = page.getByTestId("account").filter({ hasText: email });
+  await row.getByRole("button", { name: "Suspend Jory Trevaskis…" }).click();
+  const form = row.getByRole("form", { name: "Suspend Jory Trevaskis" });
+  await form.getByRole("button", { name: "Suspend and sign out everywhere" }).click();
+  await expect(form.getByText("Say why, for the record (at least 3 characters)")).toBeVisible();
+  await form.getByLabel(/^Why/).fill("Left the crew; phone not returned");
+  await form.getByRole("button", { name: "Suspend and sign out everywhere" }).click();
+  await expect(
+    row.getByText(/^Suspended \d{4}-\d{2}-\d{2} \d{2}:\d{2} by .+: Left the crew; phone not returned$/),
+  ).toBeVisible();
+  await expect(row.getByRole("button", { name: "Reinstate Jory Trevaskis" })).toBeVisible();
+  await page.screenshot({ path: ".data/test-results/admin-suspended-phone.png", fullPage: true });
+  await expectNoSeriousA11yViolations(page, "instance administration with a suspended account");
+
+  // The phone's session ended with the suspension: its next page is the sign-in, and signing in says why not.
+  await phone.reload();
+  await expect(phone.getByRole("button", { name: "Sign in" })).toBeVisible();
+  await signInAs();
+  await expect(phone.getByRole("alert")).toContainText(
+    "This account is suspended. Ask your instance's admin if you should have it back.",
+  );
+
+  await row.getByRole("button", { name: "Reinstate Jory Trevaskis" }).click();
+  await expect(row.getByRole("button", { name: "Suspend Jory Trevaskis…" })).toBeVisible();
+  await expect(row.getByText(/^Suspended/)).toHaveCount(0);
+  await signInAs();
+  await expect(phone.getByRole("button", { name: "Sign out" })).toBeVisible();
+  // An admin's own row offers no suspension.
+  await expect(
+    page
+      .getByTestId("account")
+      .filter({ hasText: "admin@tideline.test" })
+      .getByRole("button", { name: /^Suspend/ }),
+  ).toHaveCount(0);
+  await phoneCtx.close();
+});

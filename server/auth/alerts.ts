@@ -16,6 +16,7 @@ export async function sendSignInLockedAlert(
 ) {
   const user = await findUserByEmail(deps.db, email);
   if (!user) return { sent: false as const, reason: "unknown_address" };
+  if (user.suspendedAt) return { sent: false as const, reason: "suspended" };
   const msg = compose({
     subject: "Repeated failed sign-ins to your Tideline account",
     greeting: `Hello ${user.name},`,

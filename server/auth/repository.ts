@@ -38,11 +38,47 @@ export const replacePasswordHash = async (db: Db, userId: string, fromHash: stri
 export const findUserById = (db: Db, userId: string) =>
   db.selectFrom("users").selectAll().where("id", "=", userId).executeTakeFirst();
 
-/** Every account of the instance, for its admins: no password hash. */
+/** Every account of the instance, for its admins: no password hash; who suspended one, by name. */
 export const listUsers = (db: Db) =>
   db
     .selectFrom("users")
-    .select(["id", "email", "name", "isAdmin", "createdAt"])
-    .orderBy(sql`lower(name)`)
-    .orderBy("email")
+    .leftJoin("users as by", "by.id", "users.suspendedBy")
+    .select([
+      "users.id",
+      "users.email",
+      "users.name",
+      "users.isAdmin",
+      "users.createdAt",
+      "users.suspendedAt",
+      "users.suspendedReason",
+      "by.name as suspendedByName",
+    ])
+    .orderBy(sql`lower(users.name)`)
+    .orderBy("users.email")
     .execute();
+
+/** Suspends an account: 0 when it was suspended already (the caller says so, never a silent overwrite). */
+export const suspend = async (db: Db, userId: string, by: string, reason: string) =>
+  Number(
+    (
+      await db
+        .updateTable("users")
+        .set({ suspendedAt: new Date(), suspendedBy: by, suspendedReason: reason, updatedAt: new Date() })
+        .where("id", "=", userId)
+        .where("suspendedAt", "is", null)
+        .executeTakeFirst()
+    ).numUpdatedRows,
+  );
+
+/** Reinstates a suspended account: 0 when it was not suspended. */
+export const reinstate = async (db: Db, userId: string) =>
+  Number(
+    (
+      await db
+        .updateTable("users")
+        .set({ suspendedAt: null, suspendedBy: null, suspendedReason: "", updatedAt: new Date() })
+        .where("id", "=", userId)
+        .where("suspendedAt", "is not", null)
+        .executeTakeFirst()
+    ).numUpdatedRows,
+  );

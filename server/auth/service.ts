@@ -6,6 +6,7 @@ import type { MailDeps } from "../mail/mailer";
 import { sendSignInLockedAlert } from "./alerts";
 import type { AppLucia } from "./lucia";
 import { verifyPassword } from "./password";
+import { suspendedRefusal } from "./suspension";
 import { findUserByEmail, findUserById, insertUser, listUsers, setPasswordHash } from "./repository";
 import { accountKey, countFailure, LIMITS, refuseIfSpent, type Limiters } from "./throttle";
 
@@ -38,6 +39,8 @@ export async function signIn(
     }
     throw new AppError(401, "bad_credentials", "That e-mail and password do not match an account.");
   }
+  // Said only to someone who knows the password: a stranger learns no more than from a wrong one.
+  if (user.suspendedAt) throw suspendedRefusal();
   await limiters.signInAccount.delete(acct);
   const session = await lucia.createSession(user.id, {});
   await recordAudit(db, {

@@ -36,8 +36,14 @@ const sessionStatement = statementCache((db: Db, _shape: null, v: { key: string 
       "users.isAdmin",
       memberRolesOf(eb).as("siteRoles"),
     ])
-    .where("sessions.id", "=", v.key),
+    .where("sessions.id", "=", v.key)
+    // A suspended account's sessions end when it is suspended; this keeps one that raced the suspension from working.
+    .where("users.suspendedAt", "is", null),
 );
+
+/** Ends every session of an account, in the caller's transaction (an account suspended). */
+export const endSessionsOf = (db: Db, userId: string) =>
+  db.deleteFrom("sessions").where("userId", "=", userId).execute();
 
 /** lucia v3's storage contract over Kysely: sessions and users live in PostgreSQL. */
 export function kyselyAdapter(db: Db): Adapter {

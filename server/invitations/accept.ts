@@ -3,6 +3,7 @@ import { acceptExistingAccountBody, acceptNewAccountBody } from "../../src/schem
 import { recordAudit } from "../audit";
 import { hashPassword, verifyPassword } from "../auth/password";
 import { accountByEmail, addAccount } from "../auth/service";
+import { suspendedRefusal } from "../auth/suspension";
 import type { Db } from "../db";
 import { AppError } from "../errors";
 import { hashToken } from "../one-time-token";
@@ -58,6 +59,8 @@ export async function acceptInvitation(db: Db, token: string, body: { name?: str
         throw new AppError(401, "bad_credentials", "That password does not match the account for this address.", {
           password: "Wrong password",
         });
+      // An invitation does not bring back an account an instance admin suspended (server/auth/suspension.ts).
+      if (existing.suspendedAt) throw suspendedRefusal();
       userId = existing.id;
     } else {
       const { name, password } = acceptNewAccountBody.parse(body);

@@ -99,6 +99,14 @@ export async function createInvitation(deps: MailDeps, siteId: string, email: st
   // Everyone joins by accepting: an address with an account gets the same invitation and
   // the same answer as one without (the link then asks for that account's password).
   const existing = await accountByEmail(db, email);
+  // No e-mail goes to a suspended account (server/auth/suspension.ts); the curator hears why and whom to ask.
+  if (existing?.suspendedAt)
+    throw new AppError(
+      409,
+      "account_suspended",
+      "That address belongs to an account the instance's admin has suspended. Ask them whether it should come back.",
+      { email: "Account suspended" },
+    );
   if (existing && (await repo.isMember(db, siteId, existing.id)))
     throw new AppError(409, "already_member", "That person is already on this site's crew.", {
       email: "Already on the crew",

@@ -29,7 +29,7 @@ export const defectForNotice = (db: Db, defectId: string) =>
     .executeTakeFirst();
 
 export const addressesOf = (db: Db, userIds: string[]) =>
-  db.selectFrom("users").select(["id", "email", "name"]).where("id", "in", userIds).execute();
+  db.selectFrom("users").select(["id", "email", "name", "suspendedAt"]).where("id", "in", userIds).execute();
 
 export const isMember = async (db: Db, siteId: string, userId: string) =>
   !!(await db
@@ -58,6 +58,7 @@ export const curatorAddresses = (db: Db, siteId: string) =>
     .select(["users.id", "users.email"])
     .where("memberships.siteId", "=", siteId)
     .where("memberships.role", "=", "curator")
+    .where("users.suspendedAt", "is", null) // a suspended account gets no e-mail (server/auth/suspension.ts)
     .execute();
 
 /** The first LIST_LIMIT defects by priority, each row also carrying the whole set's size. */

@@ -14,7 +14,7 @@ import { addressesOf, curatorIds, defectForNotice, isMember } from "./repository
 
 export interface NotifyResult {
   sent: string[];
-  skipped: Array<{ userId: string; reason: "switched_off" | "is_actor" | "no_address" | "not_on_crew" }>;
+  skipped: Array<{ userId: string; reason: "switched_off" | "is_actor" | "no_address" | "not_on_crew" | "suspended" }>;
   failed: Array<{ userId: string; error: string }>;
 }
 
@@ -57,6 +57,7 @@ async function sendTo(
     if (id === actorId) out.skipped.push({ userId: id, reason: "is_actor" });
     else if (off.has(id)) out.skipped.push({ userId: id, reason: "switched_off" });
     else if (!u) out.skipped.push({ userId: id, reason: "no_address" });
+    else if (u.suspendedAt) out.skipped.push({ userId: id, reason: "suspended" });
     else {
       // Through the outbox when the app runs its job queue: "sent" then means queued for delivery.
       const r = await sendOrQueue(deps, { to: u.email, ...build(u.name) });

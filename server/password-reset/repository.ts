@@ -26,6 +26,7 @@ export const findByTokenHash = (db: Db, tokenHash: string, lock = false) => {
       "passwordResets.expiresAt",
       "passwordResets.usedAt",
       "users.email",
+      "users.suspendedAt",
     ])
     .where("passwordResets.tokenHash", "=", tokenHash);
   return (lock ? q.forUpdate("passwordResets") : q).executeTakeFirst();

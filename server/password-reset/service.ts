@@ -1,5 +1,6 @@
 import { hashPassword } from "../auth/password";
 import { accountByEmail, setPassword } from "../auth/service";
+import { suspendedRefusal } from "../auth/suspension";
 import type { Db } from "../db";
 import { AppError } from "../errors";
 import { compose } from "../mail/compose";
@@ -23,6 +24,8 @@ export const resetUrl = (publicUrl: string, token: string) => `${publicUrl}${pat
 export async function sendResetLink(deps: MailDeps, email: string) {
   const user = await accountByEmail(deps.db, email);
   if (!user) return { sent: false as const, reason: "unknown_address" };
+  // A suspended account gets no link: a reset does not bring it back (server/auth/suspension.ts).
+  if (user.suspendedAt) return { sent: false as const, reason: "suspended" };
   const hourAgo = new Date(Date.now() - 3600_000);
   if ((await repo.countRecent(deps.db, user.id, hourAgo)) >= MAX_PER_HOUR) {
     log.info({ userId: user.id }, `password reset not sent: ${MAX_PER_HOUR} links already in the last hour`);
@@ -59,8 +62,9 @@ export async function sendResetLink(deps: MailDeps, email: string) {
   return { sent: r.ok, reason: r.ok ? undefined : r.error };
 }
 
-function usable<T extends { usedAt: Date | null; expiresAt: Date }>(row: T | undefined): T {
+function usable<T extends { usedAt: Date | null; expiresAt: Date; suspendedAt: Date | null }>(row: T | undefined): T {
   if (!row) throw new AppError(404, "reset_not_found", "This link is not valid. Ask for a new one.");
+  if (row.suspendedAt) throw suspendedRefusal();
   if (row.usedAt)
     throw new AppError(410, "reset_used", "This link has already been used. Ask for a new one if you need it.");
   if (row.expiresAt.getTime() <= Date.now())

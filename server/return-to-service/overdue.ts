@@ -47,12 +47,14 @@ export async function sendOverdueWatchNotices(deps: MailDeps, now: Date): Promis
       continue;
     }
     const off = (await optedOutOf(deps.db, [qp], "watch_overdue")).has(qp);
-    if (!(await repo.claimNotice(deps.db, { ...base, sentTo: qp, outcome: off ? "switched_off" : "sent" }))) continue; // already noticed
-    if (off) {
+    const user = await accountById(deps.db, qp);
+    // A suspended account gets no e-mail (server/auth/suspension.ts); the notice says why none went.
+    const outcome = user?.suspendedAt ? "suspended" : off ? "switched_off" : "sent";
+    if (!(await repo.claimNotice(deps.db, { ...base, sentTo: qp, outcome }))) continue; // already noticed
+    if (outcome !== "sent") {
       out.skipped++;
       continue;
     }
-    const user = await accountById(deps.db, qp);
     if (!user) continue;
     const url = `${deps.publicUrl}${paths.rtsWatch.href(s.siteId, s.boardId, s.id)}`;
     const late = Math.max(1, Math.round((now.getTime() - dueAt.getTime()) / 60_000));

@@ -44,7 +44,16 @@ export const listMembers = (db: Db, siteId: string) => repo.listMembers(db, site
  */
 export async function withTheirSites(
   db: Db,
-  accounts: Array<{ id: string; email: string; name: string; isAdmin: boolean; createdAt: Date }>,
+  accounts: Array<{
+    id: string;
+    email: string;
+    name: string;
+    isAdmin: boolean;
+    createdAt: Date;
+    suspendedAt: Date | null;
+    suspendedReason: string;
+    suspendedByName: string | null;
+  }>,
 ) {
   const memberships = await repo.listAllMemberships(db);
   const byAccount = new Map<string, typeof memberships>();
@@ -59,6 +68,9 @@ export async function withTheirSites(
     name: a.name,
     isAdmin: a.isAdmin,
     createdAt: a.createdAt.toISOString(),
+    suspended: a.suspendedAt
+      ? { at: a.suspendedAt.toISOString(), byName: a.suspendedByName, reason: a.suspendedReason }
+      : null,
     sites: (byAccount.get(a.id) ?? []).map(({ siteId, siteName, role }) => ({ siteId, siteName, role })),
   }));
 }

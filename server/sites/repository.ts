@@ -54,7 +54,13 @@ export const listMembers = (db: Db, siteId: string) =>
   db
     .selectFrom("memberships")
     .innerJoin("users", "users.id", "memberships.userId")
-    .select(["users.id as userId", "users.email", "users.name", "memberships.role"])
+    .select([
+      "users.id as userId",
+      "users.email",
+      "users.name",
+      "memberships.role",
+      (eb) => eb("users.suspendedAt", "is not", null).as("suspended"),
+    ])
     .where("memberships.siteId", "=", siteId)
     .orderBy("users.name")
     .execute();

@@ -5,9 +5,11 @@ import {
   createSiteBody,
   createUserBody,
   siteCurrencyBody,
+  suspendAccountBody,
   siteTimeZoneBody,
 } from "../../src/schemas/sites";
 import { allAccounts } from "../auth/service";
+import { reinstateAccount, suspendAccount } from "../auth/suspension";
 import type { Db } from "../db";
 import { notFound } from "../errors";
 import { requireAdmin, requireSiteRole, requireUser } from "../middleware/roles";
@@ -15,6 +17,7 @@ import * as reads from "./reads";
 import * as service from "./service";
 
 const memberParams = z.object({ siteId: z.uuid(), userId: z.uuid() });
+const accountParams = z.object({ userId: z.uuid({ message: "userId must be a UUID" }) });
 
 export function siteRoutes(db: Db) {
   const r = Router();
@@ -74,6 +77,20 @@ export function siteRoutes(db: Db) {
   r.post("/admin/users", requireAdmin, async (req, res) => {
     const user = await service.createUser(db, createUserBody.parse(req.body), res.locals.user!.id);
     res.status(201).json({ user });
+  });
+
+  // Suspending an account and reinstating it (server/auth/suspension.ts); the answer is the list as it now stands.
+  r.post("/admin/users/:userId/suspension", requireAdmin, async (req, res) => {
+    const { userId } = accountParams.parse(req.params);
+    const { reason } = suspendAccountBody.parse(req.body);
+    await suspendAccount(db, res.locals.user!.id, userId, reason);
+    res.json({ users: await reads.withTheirSites(db, await allAccounts(db)) });
+  });
+
+  r.delete("/admin/users/:userId/suspension", requireAdmin, async (req, res) => {
+    const { userId } = accountParams.parse(req.params);
+    await reinstateAccount(db, res.locals.user!.id, userId);
+    res.json({ users: await reads.withTheirSites(db, await allAccounts(db)) });
   });
 
   return r;

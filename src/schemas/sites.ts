@@ -53,6 +53,8 @@ export const memberSchema = z.object({
   email: text(),
   name: text(),
   role: z.enum(ROLES),
+  /** The instance's admin has suspended the account: it cannot sign in and gets no e-mail (server/auth/suspension.ts). */
+  suspended: z.boolean(),
 });
 export type Member = z.infer<typeof memberSchema>;
 
@@ -65,9 +67,21 @@ export const accountSchema = z.object({
   name: text(),
   isAdmin: z.boolean(),
   createdAt: text(),
+  /** Set while an instance admin has the account suspended: it cannot sign in and gets no e-mail. */
+  suspended: z.object({ at: text(), byName: text().nullable(), reason: text() }).nullable(),
   sites: z.array(z.object({ siteId: text(), siteName: text(), role: z.enum(ROLES) })),
 });
 export type Account = z.infer<typeof accountSchema>;
+
+/** Why an account is suspended: kept with it and in the audit log. */
+export const suspendAccountBody = z
+  .object({
+    reason: text()
+      .trim()
+      .min(3, { message: "Say why, for the record (at least 3 characters)" })
+      .max(500, { message: "At most 500 characters" }),
+  })
+  .strict();
 
 export const createUserBody = z.object({
   email: text().trim().toLowerCase().email({ message: "Enter an e-mail address" }),

@@ -182,7 +182,7 @@ describe("roles", () => {
     });
     expect(new Date(String(curator.createdAt)).toISOString()).toBe(curator.createdAt);
     for (const u of users)
-      expect(Object.keys(u).sort()).toEqual(["createdAt", "email", "id", "isAdmin", "name", "sites"]);
+      expect(Object.keys(u).sort()).toEqual(["createdAt", "email", "id", "isAdmin", "name", "sites", "suspended"]);
     // By name, whatever the case.
     const names = users.map((u) => String(u.name).toLowerCase());
     expect(names).toEqual([...names].sort());

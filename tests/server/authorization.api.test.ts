@@ -50,6 +50,8 @@ export const ACCESS: Record<string, Access> = {
   "PUT /api/sites/:siteId/currency": CURATOR,
   "GET /api/admin/users": "admin",
   "POST /api/admin/users": "admin",
+  "POST /api/admin/users/:userId/suspension": "admin",
+  "DELETE /api/admin/users/:userId/suspension": "admin",
   "POST /api/sites/:siteId/photos": PHOTO_UP,
   "GET /api/sites/:siteId/photos": "member",
   "GET /api/sites/:siteId/photo-targets": "member",

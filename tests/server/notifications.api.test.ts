@@ -44,6 +44,13 @@ const switchOff = async (email: string, key: string) => {
 const switchOn = async (email: string, key: string) =>
   (await signedIn(email)).put(`/api/account/notifications/${key}`, { enabled: true });
 const mailFor = (email: string) => smtp.mailbox.list().filter((m) => m.to.includes(email));
+/** As an instance admin's suspension leaves the account (server/auth/suspension.ts). */
+const suspended = (userId: string) =>
+  t.db
+    .updateTable("users")
+    .set({ suspendedAt: new Date(), suspendedReason: "Left the crew" })
+    .where("id", "=", userId)
+    .execute();
 
 describe("notification switches", () => {
   it("are all on at first, and a switch turned off stays off", async () => {
@@ -157,6 +164,18 @@ describe("a defect assigned to you", () => {
     expect(mailFor(gone.email)).toHaveLength(0);
   });
 
+  it("is not sent to an assignee whose account an instance admin has suspended", async () => {
+    const away = await makeUser(t.db, { siteId: fx.siteId, role: "volunteer", name: "Suspended volunteer" });
+    await suspended(away.id);
+    const d = await makeDefect(t.db, { siteId: fx.siteId, boardId: board.boardId, assigneeId: away.id });
+    expect(await notifyDefectAssigned(deps, { defectId: d.id, actorId: fx.crew.curator.id })).toEqual({
+      sent: [],
+      skipped: [{ userId: away.id, reason: "suspended" }],
+      failed: [],
+    });
+    expect(mailFor(away.email)).toHaveLength(0);
+  });
+
   it("does nothing for a defect with no assignee or that does not exist", async () => {
     const d = await makeDefect(t.db, { siteId: fx.siteId, boardId: board.boardId });
     expect(await notifyDefectAssigned(deps, { defectId: d.id, actorId: null })).toEqual({
@@ -254,6 +273,8 @@ describe("the weekly summary", () => {
     });
     const silent = await makeUser(t.db, { siteId: site, role: "curator" });
     await switchOff(silent.email, "weekly_summary");
+    const away = await makeUser(t.db, { siteId: site, role: "curator" });
+    await suspended(away.id);
     smtp.mailbox.clear();
 
     const r = await sendWeeklySummaries(deps, { now });
@@ -269,6 +290,7 @@ describe("the weekly summary", () => {
     expect(msg.text).not.toMatch(/Salt crust on bus — .*\(blocks/);
     expect(msg.text).not.toContain("Chipped phenolic barrier");
     expect(msg.subject).toBe("Tideline weekly: Another crew's site, 2030-03-03 to 2030-03-10 — 2 blockers");
+    expect(mailFor(away.email)).toHaveLength(0); // suspended: no e-mail goes to it
     expect(mailFor(silent.email)).toHaveLength(0);
     // Non-curators never get it.
     expect(mailFor(fx.crew.volunteer.email)).toHaveLength(0);

@@ -348,6 +348,42 @@ describe("sign-offs", () => {
     expect(s.watch.overdueSince).not.toBeNull();
   });
 
+  it("no overdue e-mail goes to a qualified person whose account is suspended; the notice says why", async () => {
+    const away = await makeUser(t.db, { siteId: fx.siteId, role: "curator", name: "Suspended electrician" });
+    await t.db
+      .updateTable("users")
+      .set({ suspendedAt: new Date(), suspendedReason: "Licence under review" })
+      .where("id", "=", away.id)
+      .execute();
+    const live = await t.db
+      .insertInto("rtsStages")
+      .values({
+        siteId: fx.siteId,
+        boardId,
+        sortOrder: 99,
+        name: "Galley feeders under watch",
+        supply: "temporary_fused",
+        voltageStep: "full",
+        status: "energised",
+        energisedAt: new Date(Date.now() - 5 * hour),
+        watchHours: 24,
+        checkEveryHours: 1,
+        qualifiedPersonId: away.id,
+      })
+      .returning("id")
+      .executeTakeFirstOrThrow();
+    const mailer = memoryMailer();
+    await sendOverdueWatchNotices({ db: t.db, mailer, publicUrl: "http://tideline.test" }, new Date());
+    expect(mailer.sent.filter((m) => m.to === (away as { email: string }).email)).toEqual([]);
+    const notice = await t.db
+      .selectFrom("rtsOverdueNotices")
+      .select(["outcome", "sentTo"])
+      .where("stageId", "=", live.id)
+      .executeTakeFirstOrThrow();
+    expect(notice).toEqual({ outcome: "suspended", sentTo: away.id });
+    await t.db.deleteFrom("rtsStages").where("id", "=", live.id).execute();
+  });
+
   it("volunteers record watch checks; viewers cannot (403)", async () => {
     expect(
       (await as.viewer.post(`${site()}/return-to-service/stages/${stage.id}/watch-checks`, { lamps: "equal" })).status,

@@ -80,6 +80,32 @@ export const useAccounts = () =>
       api.get("/api/admin/users", z.object({ users: z.array(accountSchema) }), signal).then((d) => d.users),
   });
 
+/**
+ * An instance admin suspends an account (with the reason) or reinstates it; the answer is the whole list as it now
+ * stands, put in place at once (server/auth/suspension.ts).
+ */
+export function useSuspension() {
+  const qc = useQueryClient();
+  const accounts = z.object({ users: z.array(accountSchema) });
+  const onSuccess = (d: z.infer<typeof accounts>) => qc.setQueryData(siteKeys.accounts(), d.users);
+  // Refused because another admin got there first: the list is read again, so it shows who and why.
+  const onError = () => qc.invalidateQueries({ queryKey: siteKeys.accounts() });
+  const at = (userId: string) => `/api/admin/users/${userId}/suspension`;
+  return {
+    suspend: useMutation({
+      mutationFn: (b: { userId: string; reason: string }) =>
+        api.send("POST", at(b.userId), { reason: b.reason }, accounts),
+      onSuccess,
+      onError,
+    }),
+    reinstate: useMutation({
+      mutationFn: (userId: string) => api.send("DELETE", at(userId), undefined, accounts),
+      onSuccess,
+      onError,
+    }),
+  };
+}
+
 /** The curator sets the site's time zone: exports write local times in it and name it. */
 export function useSetTimeZone(siteId: string) {
   const qc = useQueryClient();

@@ -3,13 +3,14 @@ import type { FieldValues, UseFormReturn } from "react-hook-form";
 import { Link, Navigate } from "react-router";
 import { paths } from "../../../config/paths";
 import { Button } from "../../../components/button";
-import { SelectField, TextField } from "../../../components/field";
+import { SelectField, TextArea, TextField } from "../../../components/field";
 import { fieldError, formMessage, showSaveError, useSchemaForm } from "../../../lib/form";
 import { useSession } from "../../../features/auth/api";
 import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { ROLE_LABELS } from "../../../domain/vocab";
-import { useAccounts, useCreateSite, useCreateUser } from "../../../features/sites/api";
-import { createSiteBody, createUserBody } from "../../../schemas/sites";
+import { useAccounts, useCreateSite, useCreateUser, useSuspension } from "../../../features/sites/api";
+import { stamp } from "../../../lib/clock";
+import { createSiteBody, createUserBody, suspendAccountBody, type Account } from "../../../schemas/sites";
 
 /** One of the admin's forms: it saves, empties itself and says what it made; a refusal goes beside the fields. */
 function AdminForm<In extends FieldValues, Out, Made>({
@@ -139,13 +140,13 @@ export default function AdminHome() {
       <NewSiteForm onDone={setDone} />
       <NewAccountForm onDone={setDone} />
       {/* Read once the session says admin: no refused read while a non-admin is sent away. */}
-      {session.data?.user.isAdmin && <Accounts />}
+      {session.data?.user.isAdmin && <Accounts selfId={session.data.user.id} />}
     </main>
   );
 }
 
 /** Who has an account here, with each site and role: to see who can sign in before adding someone twice. */
-function Accounts() {
+function Accounts({ selfId }: { selfId: string }) {
   const accounts = useAccounts();
   return (
     <section aria-labelledby="accounts-heading" className="space-y-2">
@@ -153,30 +154,119 @@ function Accounts() {
         Accounts on this instance{accounts.data ? ` (${accounts.data.length})` : ""}
       </h2>
       <p className="text-sm text-mist">
-        A curator brings an account onto a site by inviting its e-mail from the site&apos;s crew page.
+        A curator brings an account onto a site by inviting its e-mail from the site&apos;s crew page. Suspend an
+        account when someone leaves the crew or loses a phone that is signed in: it is signed out everywhere at once,
+        cannot sign in, reset its password or accept an invitation, and gets no e-mail, while everything it recorded
+        keeps its name. Reinstate it to let it back in.
       </p>
       {accounts.isPending && <Loading what="Reading the accounts" />}
       {(accounts.isLoadingError || serverRefused(accounts.error)) && <ErrorPanel error={accounts.error} />}
       {accounts.data && (
         <ul className="divide-y divide-hull-700 rounded-lg bg-hull-850 ring-1 ring-hull-700">
           {accounts.data.map((a) => (
-            <li key={a.id} className="space-y-1 p-3" data-testid="account">
-              <p className="flex flex-wrap items-baseline gap-x-3">
-                <span className="font-semibold">{a.name}</span>
-                <span className="text-sm break-all text-mist">{a.email}</span>
-                {a.isAdmin && <span className="rounded-sm bg-hull-700 px-1.5 text-xs text-chalk">Instance admin</span>}
-              </p>
-              <p className="text-sm text-mist">
-                {a.sites.length
-                  ? a.sites.map((m) => `${m.siteName}: ${ROLE_LABELS[m.role].toLowerCase()}`).join(" · ")
-                  : a.isAdmin
-                    ? "Acts as curator on every site"
-                    : "No site yet"}
-              </p>
-            </li>
+            <AccountRow key={a.id} account={a} isSelf={a.id === selfId} />
           ))}
         </ul>
       )}
     </section>
+  );
+}
+
+/** One account: who, their sites, and whether it is suspended (by whom, when, why), with the admin's controls. */
+function AccountRow({ account: a, isSelf }: { account: Account; isSelf: boolean }) {
+  const { suspend, reinstate } = useSuspension();
+  const [asking, setAsking] = useState(false);
+  const form = useSchemaForm(suspendAccountBody, { reason: "" });
+  const errors = form.formState.errors;
+  const message = formMessage(errors, "above");
+  const submit = form.handleSubmit((b) =>
+    suspend.mutateAsync({ userId: a.id, reason: b.reason }).then(
+      () => {
+        form.reset();
+        setAsking(false);
+      },
+      (err: unknown) => showSaveError(form, err, { fallback: "Not suspended: no answer from the server. Try again." }),
+    ),
+  );
+  return (
+    <li className="space-y-2 p-3" data-testid="account">
+      <p className="flex flex-wrap items-baseline gap-x-3">
+        <span className={`font-semibold ${a.suspended ? "text-mist line-through" : ""}`}>{a.name}</span>
+        <span className="text-sm break-all text-mist">{a.email}</span>
+        {a.isAdmin && <span className="rounded-sm bg-hull-700 px-1.5 text-xs text-chalk">Instance admin</span>}
+        {isSelf && <span className="text-xs text-mist">(you)</span>}
+      </p>
+      <p className="text-sm text-mist">
+        {a.sites.length
+          ? a.sites.map((m) => `${m.siteName}: ${ROLE_LABELS[m.role].toLowerCase()}`).join(" · ")
+          : a.isAdmin
+            ? "Acts as curator on every site"
+            : "No site yet"}
+      </p>
+      {a.suspended && (
+        <p className="rounded-md bg-flare-700/30 p-2 text-sm ring-1 ring-flare-400">
+          <strong>Suspended</strong> {stamp(a.suspended.at)}
+          {a.suspended.byName ? ` by ${a.suspended.byName}` : ""}: {a.suspended.reason}
+        </p>
+      )}
+      {reinstate.error && reinstate.variables === a.id && (
+        <p role="alert" className="text-sm text-flare-300">
+          {reinstate.error.message}
+        </p>
+      )}
+      {!isSelf && !asking && (
+        <div className="flex flex-wrap gap-2">
+          {a.suspended ? (
+            <Button
+              tone="quiet"
+              disabled={reinstate.isPending}
+              onClick={() => reinstate.mutate(a.id)}
+              aria-label={`Reinstate ${a.name}`}
+            >
+              Reinstate
+            </Button>
+          ) : (
+            <Button tone="quiet" onClick={() => setAsking(true)} aria-label={`Suspend ${a.name}…`}>
+              Suspend…
+            </Button>
+          )}
+        </div>
+      )}
+      {asking && (
+        <form
+          onSubmit={(ev) => void submit(ev)}
+          noValidate
+          aria-label={`Suspend ${a.name}`}
+          className="space-y-2 rounded-md bg-hull-800 p-3 ring-1 ring-hull-600"
+        >
+          <TextArea
+            label="Why (kept with the account and in the audit log)"
+            {...form.register("reason")}
+            rows={2}
+            required
+            error={fieldError(errors, "reason")}
+          />
+          {message && (
+            <p role="alert" className="text-sm text-flare-300">
+              {message}
+            </p>
+          )}
+          <div className="flex flex-wrap gap-2">
+            <Button type="submit" tone="danger" disabled={suspend.isPending}>
+              Suspend and sign out everywhere
+            </Button>
+            <Button
+              tone="quiet"
+              onClick={() => {
+                form.reset();
+                setAsking(false);
+              }}
+            >
+              Cancel
+            </Button>
+          </div>
+        </form>
+      )}
+    </li>
   );
 }

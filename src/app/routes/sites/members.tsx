@@ -34,6 +34,11 @@ export default function MembersPage() {
             <span className="min-w-48 flex-1">
               <span className="block font-semibold">{p.name}</span>
               <span className="block text-sm text-mist">{p.email}</span>
+              {p.suspended && (
+                <span className="block text-sm text-flare-300">
+                  Suspended by the instance&apos;s admin: cannot sign in and gets no e-mail
+                </span>
+              )}
             </span>
             <label className="sr-only" htmlFor={`role-${p.userId}`}>
               Role of {p.name}
