@@ -125,7 +125,7 @@ export const listQualified = (db: Db, siteId: string) =>
     .selectFrom("rtsQualifiedPersons as q")
     .innerJoin("users as u", "u.id", "q.userId")
     .innerJoin("memberships as m", (j) => j.onRef("m.userId", "=", "q.userId").onRef("m.siteId", "=", "q.siteId"))
-    .select(["q.userId", "u.name", "q.qualification", "q.expiresOn", "q.version"])
+    .select(["q.userId", "u.name", "q.qualification", "q.expiresOn", "q.version", "u.suspendedAt"])
     .where("q.siteId", "=", siteId)
     .orderBy("u.name")
     .execute();

@@ -257,6 +257,7 @@ export async function boardView(db: Db, siteId: string, boardId: string, now: Da
           name: qp?.name ?? (await repo.userName(db, s.qualifiedPersonId)),
           qualification: qp?.qualification ?? "",
           expiresOn: qp ? qp.expiresOn : null,
+          suspended: !!qp?.suspendedAt,
         }
       : null;
     const dep = s.dependsOnId ? stages.find((x) => x.id === s.dependsOnId) : undefined;
@@ -490,6 +491,7 @@ export async function boardView(db: Db, siteId: string, boardId: string, now: Da
       qualification: q.qualification,
       expiresOn: q.expiresOn,
       current: isQualifiedOn(q, today),
+      suspended: !!q.suspendedAt,
     })),
     now: now.toISOString(),
   };

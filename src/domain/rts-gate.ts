@@ -86,7 +86,14 @@ export interface GateStage {
   energisedAt: string | null;
   watchHours: number;
   checkEveryHours: number;
-  qualifiedPerson: { userId: string; name: string; expiresOn: string | null; qualification: string } | null;
+  qualifiedPerson: {
+    userId: string;
+    name: string;
+    expiresOn: string | null;
+    qualification: string;
+    /** The instance's admin has suspended the account: it cannot sign in, so it cannot sign. */
+    suspended?: boolean;
+  } | null;
   dependsOn: { id: string; name: string; status: StageStatus } | null;
 }
 export interface GateLinks {
@@ -128,6 +135,7 @@ export type BlockerCode =
   | "protection_above_limit"
   | "no_qualified_person"
   | "qualification_expired"
+  | "qualified_person_suspended"
   | "ground_shown"
   | "depends_on"
   | "stopped"
@@ -287,6 +295,12 @@ export function energiseBlockers(input: GateInput, today: string): Blocker[] {
       code: "qualification_expired",
       message: `${s.qualifiedPerson.name}'s qualification expired on ${s.qualifiedPerson.expiresOn}.`,
       href: links.crew(),
+    });
+  else if (s.qualifiedPerson.suspended)
+    out.push({
+      code: "qualified_person_suspended",
+      message: `${s.qualifiedPerson.name}'s account is suspended by the instance's admin, so they cannot sign: name another qualified person for this stage.`,
+      href: links.stage(s.id),
     });
   if (s.dependsOn && s.dependsOn.status !== "released")
     out.push({

@@ -241,7 +241,13 @@ export interface RtsStage {
   voltageStep: VoltageStep;
   stepVolts: number | null;
   dependsOnId: string | null;
-  qualifiedPerson: { userId: string; name: string; qualification: string; expiresOn: string | null } | null;
+  qualifiedPerson: {
+    userId: string;
+    name: string;
+    qualification: string;
+    expiresOn: string | null;
+    suspended: boolean;
+  } | null;
   watchHours: number;
   checkEveryHours: number;
   status: StageStatus;
@@ -308,6 +314,8 @@ export interface RtsBoardView {
     qualification: string;
     expiresOn: string | null;
     current: boolean;
+    /** The account is suspended by the instance's admin (server/auth/suspension.ts): it cannot sign. */
+    suspended: boolean;
   }>;
   now: string;
 }

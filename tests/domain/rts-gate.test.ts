@@ -165,6 +165,12 @@ describe("the gate before energising: one row per blocker (source beside each)",
       "NFPA 70E 110.2 training records (from memory)",
     ],
     [
+      "qualified person's account suspended",
+      (i: GateInput) => (i.stage.qualifiedPerson!.suspended = true),
+      "qualified_person_suspended",
+      "Tideline's own rule: a suspended account cannot sign in, so cannot sign (server/auth/suspension.ts)",
+    ],
+    [
       "latest lamp check suggests a ground",
       (i: GateInput) => (i.lamps!.suggestsGround = true),
       "ground_shown",

@@ -177,6 +177,49 @@ describe("suspending an account", () => {
     expect(refused.status).toBe(409);
     expect(refused.body.error).toMatchObject({ code: "account_suspended", fields: { email: "Account suspended" } });
   });
+  it("a stage whose qualified person is suspended is blocked from energising until another is named", async () => {
+    const curator = server.client();
+    await curator.signIn(fx.crew.curator.email);
+    const qp = await makeUser(t.db, {
+      siteId: fx.siteId,
+      role: "volunteer",
+      name: "Loveday Chenoweth",
+      email: fresh(),
+    });
+    const q = await curator.put(`/api/sites/${fx.siteId}/return-to-service/qualified-persons/${qp.id}`, {
+      qualification: "Marine electrician (fictional licence)",
+      expiresOn: "2099-12-31",
+      version: 0,
+    });
+    expect(q.status, JSON.stringify(q.body)).toBe(200);
+    const board = (
+      await curator.post(`/api/sites/${fx.siteId}/boards`, { name: "Steering gear panel", nominalVolts: 450 })
+    ).body.id;
+    const section = await curator.post(`/api/sites/${fx.siteId}/boards/${board}/sections`, { name: "Port side" });
+    expect(section.status, JSON.stringify(section.body)).toBe(201);
+    const stage = await curator.post(`/api/sites/${fx.siteId}/boards/${board}/return-to-service/stages`, {
+      name: "Port steering motor",
+      sectionIds: [section.body.id],
+      supply: "temporary_fused",
+      voltageStep: "full",
+      stepVolts: 450,
+      qualifiedPersonId: qp.id,
+    });
+    expect(stage.status, JSON.stringify(stage.body)).toBe(201);
+    const codes = async () => {
+      const v = (await curator.get(`/api/sites/${fx.siteId}/boards/${board}/return-to-service`)).body;
+      return {
+        blockers: v.stages[0].gate.blockers.map((b: { code: string }) => b.code),
+        listed: v.qualifiedPersons.find((p: { userId: string }) => p.userId === qp.id),
+      };
+    };
+    expect((await codes()).blockers).not.toContain("qualified_person_suspended");
+    expect((await suspend(qp.id)).status).toBe(200);
+    const after = await codes();
+    expect(after.blockers).toContain("qualified_person_suspended");
+    expect(after.listed).toMatchObject({ suspended: true, current: true });
+  });
+
   // No e-mail goes to it: tests/server/notifications.api.test.ts (assigned defects, the weekly summary) and
   // return-to-service.api.test.ts (overdue watch checks).
 });

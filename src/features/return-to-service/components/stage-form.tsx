@@ -243,7 +243,7 @@ export function StageForm({
           {view.qualifiedPersons.map((q) => (
             <option key={q.userId} value={q.userId}>
               {q.name}
-              {q.current ? "" : " (qualification expired)"}
+              {q.suspended ? " (account suspended)" : q.current ? "" : " (qualification expired)"}
             </option>
           ))}
         </SelectField>
