@@ -157,15 +157,16 @@ export default tseslint.config(
   },
   {
     // Not covered: server/cli and server/bench (scripts that write the bench's generated sites directly and
-    // replay raw SQL as the baseline a figure is measured against), server/health.ts (the readiness probe's
-    // `select 1` is a connection check, not data), db/ (migrations are frozen DDL, the seed writes the demo
-    // scenario directly), tests.
+    // replay raw SQL as the baseline a figure is measured against), server/seed (writes the demo scenario
+    // directly), server/health.ts (the readiness probe's `select 1` is a connection check, not data), db/
+    // (migrations are frozen DDL), tests.
     files: ["server/**/*.ts"],
     ignores: [
       "server/**/repository.ts",
       "server/**/*-repository.ts",
       "server/cli/**",
       "server/bench/**",
+      "server/seed/**",
       "server/health.ts",
     ],
     rules: { "no-restricted-syntax": ["error", ...QUERY_STATEMENTS] },

@@ -16,7 +16,7 @@ const commands = {
   start: { script: "server/cli/start.ts", needs: ["deps", "postgres"] },
   dev: { script: "server/cli/dev.ts", needs: ["deps", "postgres"] },
   test: { script: "tests/run-all.ts", needs: ["deps", "postgres", "chromium", "poppler", "libreoffice"] },
-  migrate: { script: "db/cli/migrate.ts", needs: ["deps", "postgres"] },
+  migrate: { script: "server/cli/migrate.ts", needs: ["deps", "postgres"] },
   "user:create": { script: "server/cli/user-create.ts", needs: ["deps", "postgres"] },
   bench: { script: "server/cli/bench.ts", needs: ["deps", "postgres", "chromium", "poppler"] },
   worker: { script: "server/cli/worker.ts", needs: ["deps", "postgres"] },

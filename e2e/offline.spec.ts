@@ -217,7 +217,7 @@ test.describe("readings, a watch check and a defect with no signal, on a 360 px 
   }) => {
     const m = await makeBreaker(baseURL!);
     const api = await apiAs(baseURL!, "volunteer");
-    // The demo's main switchboard has a stage live under watch (db/seed/return-to-service.ts).
+    // The demo's main switchboard has a stage live under watch (server/seed/return-to-service.ts).
     const overview = (await (await api.get(`/api/sites/${m.siteId}/return-to-service`)).json()) as {
       boards: Array<{ boardId: string; boardName: string }>;
     };

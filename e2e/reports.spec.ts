@@ -15,7 +15,7 @@ import { DEMO_PASSWORD, signIn } from "./support/auth";
 
 const run = promisify(execFile);
 const OUT = join(process.cwd(), ".data", "test-results", "reports-e2e");
-const TAG = "KL-0401"; // on position M-1 of the demo's main switchboard (db/seed/inventory.ts numbers tags from 401)
+const TAG = "KL-0401"; // on position M-1 of the demo's main switchboard (server/seed/inventory.ts numbers tags from 401)
 
 test.beforeAll(async () => {
   await mkdir(OUT, { recursive: true });

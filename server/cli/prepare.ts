@@ -9,7 +9,7 @@ import { join, relative } from "node:path";
 import { gzipSync } from "node:zlib";
 import { openLocalDatabase, type LocalDatabase } from "../../db/local";
 import { migrateToLatest } from "../../db/migrate";
-import { isEmpty, seedDemo } from "../../db/seed/demo";
+import { isEmpty, seedDemo } from "../seed/demo";
 import { projectRoot } from "../../db/pg";
 import { createDb, MAINTENANCE_DB_OPTIONS, type Db } from "../db";
 

@@ -1,7 +1,7 @@
 // `npm start`: set everything up, then serve the API and the built client on one port.
 // Production mode: Express (and its final handler) never prints a stack into a page.
 process.env.NODE_ENV ??= "production";
-import { DEMO_PASSWORD, DEMO_PEOPLE } from "../../db/seed/people";
+import { DEMO_PASSWORD, DEMO_PEOPLE } from "../seed/people";
 import { serve, stopOnSignals } from "../index";
 import { buildClient, log, prepareDatabase } from "./prepare";
 

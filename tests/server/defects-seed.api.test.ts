@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, expect, it } from "vitest";
-import { seedDemo } from "../../db/seed/demo";
+import { seedDemo } from "../../server/seed/demo";
 import { priorityScore } from "../../src/domain/priority";
 import { createTestDb, type TestDb } from "../helpers/db";
 

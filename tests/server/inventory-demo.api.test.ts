@@ -1,7 +1,7 @@
 import { sql } from "kysely";
 import { afterAll, beforeAll, expect, it } from "vitest";
-import { seedDemo } from "../../db/seed/demo";
-import { DEMO_PASSWORD } from "../../db/seed/people";
+import { seedDemo } from "../../server/seed/demo";
+import { DEMO_PASSWORD } from "../../server/seed/people";
 import { boardDetailResponse, boardListResponse, overviewResponse } from "../../src/schemas/inventory";
 import { createTestDb, type TestDb } from "../helpers/db";
 import { Client, startTestServer, type TestServer } from "../helpers/http";

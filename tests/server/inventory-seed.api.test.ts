@@ -1,6 +1,6 @@
 import { afterAll, beforeAll, expect, it } from "vitest";
 import { sql } from "kysely";
-import { seedDemo } from "../../db/seed/demo";
+import { seedDemo } from "../../server/seed/demo";
 import { astmD610Grade } from "../../src/domain/corrosion";
 import { createTestDb, type TestDb } from "../helpers/db";
 

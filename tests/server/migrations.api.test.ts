@@ -4,7 +4,7 @@ import { sql } from "kysely";
 import { ensureDatabase } from "../../db/pg";
 import { migrateAllDown, migrateToLatest } from "../../db/migrate";
 import { createDb } from "../../server/db";
-import { seedDemo } from "../../db/seed/demo";
+import { seedDemo } from "../../server/seed/demo";
 
 const name = `m_${Date.now().toString(36)}`;
 const adminUrl = inject("adminUrl");

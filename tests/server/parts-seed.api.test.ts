@@ -1,9 +1,9 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { seedDemo } from "../../db/seed/demo";
+import { seedDemo } from "../../server/seed/demo";
 import { createTestDb, type TestDb } from "../helpers/db";
 import { startTestServer, type TestServer } from "../helpers/http";
 
-// The demo scenario is invented (db/seed/people.ts); this checks the wanted list it leaves.
+// The demo scenario is invented (server/seed/people.ts); this checks the wanted list it leaves.
 let t: TestDb;
 let server: TestServer;
 

@@ -1,5 +1,5 @@
 import { afterAll, beforeAll, expect, it } from "vitest";
-import { seedDemo } from "../../db/seed/demo";
+import { seedDemo } from "../../server/seed/demo";
 import * as reads from "../../server/readings/reads";
 import { createTestDb, type TestDb } from "../helpers/db";
 import { icuMinute } from "../helpers/icu";

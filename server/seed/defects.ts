@@ -4,7 +4,7 @@
  * assigned among the demo crew. Deterministic; runs after the inventory step.
  */
 import type { Insertable, Kysely } from "kysely";
-import type { Database, DefectsTable } from "../types";
+import type { Database, DefectsTable } from "../../db/types";
 import type { SeedContext } from "./context";
 import { priorityScore, type PartsAvailability } from "../../src/domain/priority";
 import type { DefectCategory, DefectSeverity, DefectStatus } from "../../src/domain/vocab";

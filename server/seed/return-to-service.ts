@@ -12,7 +12,7 @@
  * Qualified persons: Ines Marrow (current) and Rufus Lade (expired). All names invented.
  */
 import type { Insertable, Kysely } from "kysely";
-import type { Database, RtsSignoffsTable } from "../types";
+import type { Database, RtsSignoffsTable } from "../../db/types";
 import type { SeedContext } from "./context";
 import { DEFAULT_TEMPLATE, QUALIFIED_ONLY_KINDS, type StepKind } from "../../src/domain/return-to-service";
 import { priorityScore } from "../../src/domain/priority";

@@ -1,6 +1,6 @@
 import type { Kysely } from "kysely";
-import { newToken } from "../../server/one-time-token";
-import type { Database } from "../types";
+import { newToken } from "../one-time-token";
+import type { Database } from "../../db/types";
 import type { SeedContext } from "./context";
 
 /**

@@ -4,8 +4,8 @@
  * acquisitions. Every source, contact and price is made up.
  */
 import type { Kysely } from "kysely";
-import type { Database } from "../types";
-import { rebuildBudget, reconcileDemand } from "../../server/parts/service";
+import type { Database } from "../../db/types";
+import { rebuildBudget, reconcileDemand } from "../parts/service";
 import { needKey } from "../../src/domain/part-workflow";
 import type { SeedContext } from "./context";
 

@@ -6,7 +6,7 @@
  * checks, the second with phase B's lamp dim. Deterministic. Runs after seedInventory.
  */
 import type { Kysely } from "kysely";
-import type { Database } from "../types";
+import type { Database } from "../../db/types";
 import type { SeedContext } from "./context";
 import { netaCorrectionFactor } from "../../src/domain/insulation";
 import { onSiteClock } from "./clock";

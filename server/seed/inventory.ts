@@ -13,7 +13,7 @@ import type {
   DispositionDecisionsTable,
   AuditLogTable,
   ComponentsTable,
-} from "../types";
+} from "../../db/types";
 import type { SeedContext } from "./context";
 import type { Contaminant, Custody, Disposition, Heritage, InsulationState, Mechanism } from "../../src/domain/vocab";
 import { astmD610Grade, iso4628RiGrade } from "../../src/domain/corrosion";

@@ -1,7 +1,7 @@
 import type { Kysely } from "kysely";
-import type { Database } from "../types";
+import type { Database } from "../../db/types";
 import { seedParts } from "./parts";
-import { hashPassword } from "../../server/auth/password";
+import { hashPassword } from "../auth/password";
 import { DEMO_PASSWORD, DEMO_PEOPLE, DEMO_SITE } from "./people";
 import { seedDefects } from "./defects";
 import { seedInventory } from "./inventory";
@@ -9,7 +9,7 @@ import { seedInvitations } from "./invitations";
 import { seedPhotos } from "./photos";
 import { seedReadings } from "./readings";
 import { seedReturnToService } from "./return-to-service";
-import { refreshSiteSummaries } from "../../server/inventory/board-summaries-repository";
+import { refreshSiteSummaries } from "../inventory/board-summaries-repository";
 import type { SeedContext } from "./context";
 
 type Db = Kysely<Database>;

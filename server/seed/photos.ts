@@ -7,11 +7,11 @@
 import { randomUUID } from "node:crypto";
 import type { Kysely } from "kysely";
 import sharp from "sharp";
-import type { Database } from "../types";
+import type { Database } from "../../db/types";
 import type { PhotoKind } from "../../src/domain/vocab";
 import { PHOTO_KIND_LABELS } from "../../src/domain/vocab";
-import { processImage } from "../../server/photos/images";
-import { photoKey, storageFromEnv, type PhotoStorage } from "../../server/photos/storage";
+import { processImage } from "../photos/images";
+import { photoKey, storageFromEnv, type PhotoStorage } from "../photos/storage";
 import type { SeedContext } from "./context";
 import { onSiteClock } from "./clock";
 

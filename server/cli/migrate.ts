@@ -1,7 +1,7 @@
 // `npm run db:migrate`: brings the database (DATABASE_URL or the embedded one) up to date.
-import { createDb, MAINTENANCE_DB_OPTIONS } from "../../server/db";
-import { openLocalDatabase } from "../local";
-import { migrateToLatest } from "../migrate";
+import { createDb, MAINTENANCE_DB_OPTIONS } from "../db";
+import { openLocalDatabase } from "../../db/local";
+import { migrateToLatest } from "../../db/migrate";
 
 const local = await openLocalDatabase("dev");
 const db = createDb(local.url, MAINTENANCE_DB_OPTIONS);
