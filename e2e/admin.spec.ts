@@ -70,6 +70,10 @@ test("the instance admin suspends an account: it is signed out at once, told why
   await expect(phone.getByRole("button", { name: "Sign out" })).toBeVisible();
 
   await page.goto("/admin");
+  // Found by name among every account of the instance.
+  await page.getByLabel("Find an account").fill("jory trev");
+  await expect(page.getByText(/^1 of \d+ accounts shown\.$/)).toBeVisible();
+  await expect(page.getByTestId("account")).toHaveCount(1);
   const row = page.getByTestId("account").filter({ hasText: email });
   await row.getByRole("button", { name: "Suspend Jory Trevaskis…" }).click();
   const form = row.getByRole("form", { name: "Suspend Jory Trevaskis" });
@@ -81,6 +85,10 @@ test("the instance admin suspends an account: it is signed out at once, told why
     row.getByText(/^Suspended \d{4}-\d{2}-\d{2} \d{2}:\d{2} by .+: Left the crew; phone not returned$/),
   ).toBeVisible();
   await expect(row.getByRole("button", { name: "Reinstate Jory Trevaskis" })).toBeVisible();
+  await page.getByLabel("Find an account").fill("");
+  await page.getByLabel(/^Suspended only/).check();
+  await expect(page.getByTestId("account").filter({ hasText: email })).toHaveCount(1);
+  await expect(page.getByTestId("account").filter({ hasText: "admin@tideline.test" })).toHaveCount(0);
   await page.screenshot({ path: ".data/test-results/admin-suspended-phone.png", fullPage: true });
   await expectNoSeriousA11yViolations(page, "instance administration with a suspended account");
 
@@ -93,6 +101,9 @@ test("the instance admin suspends an account: it is signed out at once, told why
   );
 
   await row.getByRole("button", { name: "Reinstate Jory Trevaskis" }).click();
+  // Reinstated, it leaves the list of the suspended.
+  await expect(row).toHaveCount(0);
+  await page.getByLabel(/^Suspended only/).uncheck();
   await expect(row.getByRole("button", { name: "Suspend Jory Trevaskis…" })).toBeVisible();
   await expect(row.getByText(/^Suspended/)).toHaveCount(0);
   await signInAs();

@@ -148,6 +148,16 @@ export default function AdminHome() {
 /** Who has an account here, with each site and role: to see who can sign in before adding someone twice. */
 function Accounts({ selfId }: { selfId: string }) {
   const accounts = useAccounts();
+  // A yard's instance holds hundreds of accounts: find one by name, e-mail or site, or list the suspended.
+  const [find, setFind] = useState("");
+  const [suspendedOnly, setSuspendedOnly] = useState(false);
+  const words = find.trim().toLowerCase().split(/\s+/).filter(Boolean);
+  const shown = (accounts.data ?? []).filter((a) => {
+    if (suspendedOnly && !a.suspended) return false;
+    const text = [a.name, a.email, ...a.sites.map((m) => m.siteName)].join(" ").toLowerCase();
+    return words.every((w) => text.includes(w));
+  });
+  const suspendedCount = (accounts.data ?? []).filter((a) => a.suspended).length;
   return (
     <section aria-labelledby="accounts-heading" className="space-y-2">
       <h2 id="accounts-heading" className="text-lg font-semibold">
@@ -162,11 +172,41 @@ function Accounts({ selfId }: { selfId: string }) {
       {accounts.isPending && <Loading what="Reading the accounts" />}
       {(accounts.isLoadingError || serverRefused(accounts.error)) && <ErrorPanel error={accounts.error} />}
       {accounts.data && (
-        <ul className="divide-y divide-hull-700 rounded-lg bg-hull-850 ring-1 ring-hull-700">
-          {accounts.data.map((a) => (
-            <AccountRow key={a.id} account={a} isSelf={a.id === selfId} />
-          ))}
-        </ul>
+        <>
+          <div className="flex flex-wrap items-end gap-3">
+            <TextField
+              label="Find an account"
+              type="search"
+              value={find}
+              onChange={(e) => setFind(e.target.value)}
+              hint="Name, e-mail or site"
+              className="min-w-56 flex-1"
+            />
+            <label className="flex min-h-11 items-center gap-2">
+              <input
+                type="checkbox"
+                checked={suspendedOnly}
+                onChange={(e) => setSuspendedOnly(e.target.checked)}
+                className="h-5 w-5"
+              />
+              Suspended only ({suspendedCount})
+            </label>
+          </div>
+          {shown.length < accounts.data.length && (
+            <p className="text-sm text-mist" aria-live="polite">
+              {shown.length} of {accounts.data.length} accounts shown.
+            </p>
+          )}
+          {shown.length > 0 ? (
+            <ul className="divide-y divide-hull-700 rounded-lg bg-hull-850 ring-1 ring-hull-700">
+              {shown.map((a) => (
+                <AccountRow key={a.id} account={a} isSelf={a.id === selfId} />
+              ))}
+            </ul>
+          ) : (
+            <p className="rounded-lg bg-hull-850 p-3 ring-1 ring-hull-700">No account matches.</p>
+          )}
+        </>
       )}
     </section>
   );
