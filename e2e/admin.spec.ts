@@ -108,6 +108,12 @@ test("the instance admin suspends an account: it is signed out at once, told why
   await expect(row.getByText(/^Suspended/)).toHaveCount(0);
   await signInAs();
   await expect(phone.getByRole("button", { name: "Sign out" })).toBeVisible();
+  // Made an instance admin, and no longer one (each asks first).
+  page.on("dialog", (d) => void d.accept());
+  await row.getByRole("button", { name: "Make instance admin" }).click();
+  await expect(row.getByText("Instance admin", { exact: true })).toBeVisible();
+  await row.getByRole("button", { name: "Remove instance admin" }).click();
+  await expect(row.getByText("Instance admin", { exact: true })).toHaveCount(0);
   // An admin's own row offers no suspension.
   await expect(
     page

@@ -82,3 +82,16 @@ export const reinstate = async (db: Db, userId: string) =>
         .executeTakeFirst()
     ).numUpdatedRows,
   );
+
+/** Makes an account an instance admin or not: 0 when it already was as asked (the caller says so). */
+export const setInstanceAdmin = async (db: Db, userId: string, isAdmin: boolean) =>
+  Number(
+    (
+      await db
+        .updateTable("users")
+        .set({ isAdmin, updatedAt: new Date() })
+        .where("id", "=", userId)
+        .where("isAdmin", "=", !isAdmin)
+        .executeTakeFirst()
+    ).numUpdatedRows,
+  );

@@ -6,10 +6,12 @@ import {
   createUserBody,
   siteCurrencyBody,
   suspendAccountBody,
+  instanceAdminBody,
   siteTimeZoneBody,
 } from "../../src/schemas/sites";
 import { allAccounts } from "../auth/service";
 import { reinstateAccount, suspendAccount } from "../auth/suspension";
+import { setAdmin } from "../auth/instance-admins";
 import type { Db } from "../db";
 import { notFound } from "../errors";
 import { requireAdmin, requireSiteRole, requireUser } from "../middleware/roles";
@@ -90,6 +92,14 @@ export function siteRoutes(db: Db) {
   r.delete("/admin/users/:userId/suspension", requireAdmin, async (req, res) => {
     const { userId } = accountParams.parse(req.params);
     await reinstateAccount(db, res.locals.user!.id, userId);
+    res.json({ users: await reads.withTheirSites(db, await allAccounts(db)) });
+  });
+
+  // Making an account an instance admin, or no longer one (server/auth/instance-admins.ts).
+  r.put("/admin/users/:userId/instance-admin", requireAdmin, async (req, res) => {
+    const { userId } = accountParams.parse(req.params);
+    const { isAdmin } = instanceAdminBody.parse(req.body);
+    await setAdmin(db, res.locals.user!.id, userId, isAdmin);
     res.json({ users: await reads.withTheirSites(db, await allAccounts(db)) });
   });
 

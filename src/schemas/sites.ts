@@ -83,6 +83,9 @@ export const suspendAccountBody = z
   })
   .strict();
 
+/** An account made an instance admin, or no longer one. */
+export const instanceAdminBody = z.object({ isAdmin: z.boolean({ message: "isAdmin is true or false" }) }).strict();
+
 export const createUserBody = z.object({
   email: text().trim().toLowerCase().email({ message: "Enter an e-mail address" }),
   name: text().trim().min(1).max(200),

@@ -52,6 +52,7 @@ export const ACCESS: Record<string, Access> = {
   "POST /api/admin/users": "admin",
   "POST /api/admin/users/:userId/suspension": "admin",
   "DELETE /api/admin/users/:userId/suspension": "admin",
+  "PUT /api/admin/users/:userId/instance-admin": "admin",
   "POST /api/sites/:siteId/photos": PHOTO_UP,
   "GET /api/sites/:siteId/photos": "member",
   "GET /api/sites/:siteId/photo-targets": "member",

@@ -81,10 +81,11 @@ export const useAccounts = () =>
   });
 
 /**
- * An instance admin suspends an account (with the reason) or reinstates it; the answer is the whole list as it now
- * stands, put in place at once (server/auth/suspension.ts).
+ * An instance admin suspends an account (with the reason) or reinstates it, and makes an account an instance admin
+ * or no longer one; each answer is the whole list as it now stands, put in place at once (server/auth/suspension.ts,
+ * instance-admins.ts).
  */
-export function useSuspension() {
+export function useAccountStanding() {
   const qc = useQueryClient();
   const accounts = z.object({ users: z.array(accountSchema) });
   const onSuccess = (d: z.infer<typeof accounts>) => qc.setQueryData(siteKeys.accounts(), d.users);
@@ -100,6 +101,12 @@ export function useSuspension() {
     }),
     reinstate: useMutation({
       mutationFn: (userId: string) => api.send("DELETE", at(userId), undefined, accounts),
+      onSuccess,
+      onError,
+    }),
+    setAdmin: useMutation({
+      mutationFn: (b: { userId: string; isAdmin: boolean }) =>
+        api.send("PUT", `/api/admin/users/${b.userId}/instance-admin`, { isAdmin: b.isAdmin }, accounts),
       onSuccess,
       onError,
     }),

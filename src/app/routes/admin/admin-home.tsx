@@ -8,7 +8,7 @@ import { fieldError, formMessage, showSaveError, useSchemaForm } from "../../../
 import { useSession } from "../../../features/auth/api";
 import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { ROLE_LABELS } from "../../../domain/vocab";
-import { useAccounts, useCreateSite, useCreateUser, useSuspension } from "../../../features/sites/api";
+import { useAccounts, useCreateSite, useCreateUser, useAccountStanding } from "../../../features/sites/api";
 import { stamp } from "../../../lib/clock";
 import { createSiteBody, createUserBody, suspendAccountBody, type Account } from "../../../schemas/sites";
 
@@ -214,7 +214,7 @@ function Accounts({ selfId }: { selfId: string }) {
 
 /** One account: who, their sites, and whether it is suspended (by whom, when, why), with the admin's controls. */
 function AccountRow({ account: a, isSelf }: { account: Account; isSelf: boolean }) {
-  const { suspend, reinstate } = useSuspension();
+  const { suspend, reinstate, setAdmin } = useAccountStanding();
   const [asking, setAsking] = useState(false);
   const form = useSchemaForm(suspendAccountBody, { reason: "" });
   const errors = form.formState.errors;
@@ -254,6 +254,11 @@ function AccountRow({ account: a, isSelf }: { account: Account; isSelf: boolean 
           {reinstate.error.message}
         </p>
       )}
+      {setAdmin.error && setAdmin.variables?.userId === a.id && (
+        <p role="alert" className="text-sm text-flare-300">
+          {setAdmin.error.message}
+        </p>
+      )}
       {!isSelf && !asking && (
         <div className="flex flex-wrap gap-2">
           {a.suspended ? (
@@ -270,6 +275,19 @@ function AccountRow({ account: a, isSelf }: { account: Account; isSelf: boolean 
               Suspend…
             </Button>
           )}
+          <Button
+            tone="quiet"
+            disabled={setAdmin.isPending}
+            onClick={() =>
+              confirm(
+                a.isAdmin
+                  ? `Take instance admin away from ${a.name}? They keep their sites and roles.`
+                  : `Make ${a.name} an instance admin? They will act as curator on every site and manage accounts.`,
+              ) && setAdmin.mutate({ userId: a.id, isAdmin: !a.isAdmin })
+            }
+          >
+            {a.isAdmin ? "Remove instance admin" : "Make instance admin"}
+          </Button>
         </div>
       )}
       {asking && (

@@ -1,7 +1,8 @@
 /**
- * An instance admin suspends an account (a volunteer who has left, a phone lost while signed in) and reinstates it:
- * its sessions end at once, it cannot sign in, a reset link or an invitation does not bring it back, no e-mail goes
- * to it, and everything it recorded keeps its name. server/auth/suspension.ts.
+ * An account's standing, set by an instance admin. Suspended (a volunteer who has left, a phone lost while signed
+ * in) and reinstated: its sessions end at once, it cannot sign in, a reset link or an invitation does not bring it
+ * back, no e-mail goes to it, and everything it recorded keeps its name (server/auth/suspension.ts). Made an
+ * instance admin and no longer one (server/auth/instance-admins.ts).
  */
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { backgroundIdle } from "../../server/mail/background";
@@ -263,5 +264,55 @@ describe("what an admin may not do", () => {
     expect((await suspend("not-a-uuid")).status).toBe(400);
     expect((await suspend("00000000-0000-4000-8000-000000000000")).status).toBe(404);
     expect((await listed(u.id)).suspended).toBeNull();
+  });
+});
+
+describe("making an account an instance admin, and taking it away (server/auth/instance-admins.ts)", () => {
+  const setAdmin = (userId: string, isAdmin: unknown, as = admin) =>
+    as.put(`/api/admin/users/${userId}/instance-admin`, { isAdmin });
+
+  it("takes effect on the account's next request, is audited, and refuses a repeat or one's own standing", async () => {
+    const u = await makeUser(t.db, { siteId: fx.siteId, role: "curator", name: "Kerensa Polglase", email: fresh() });
+    const hers = server.client();
+    await hers.signIn(u.email);
+    expect((await hers.get("/api/admin/users")).status).toBe(403);
+
+    const made = await setAdmin(u.id, true);
+    expect(made.status).toBe(200);
+    expect(made.body.users.find((x: { id: string }) => x.id === u.id).isAdmin).toBe(true);
+    expect((await hers.get("/api/admin/users")).status).toBe(200);
+    const again = await setAdmin(u.id, true);
+    expect(again.status).toBe(409);
+    expect(again.body.error.message).toBe(
+      "Kerensa Polglase is an instance admin already: another admin made them one a moment ago.",
+    );
+
+    // Not her own standing: another admin takes it away.
+    expect((await setAdmin(u.id, false, hers)).body.error.code).toBe("own_account");
+    expect((await setAdmin(u.id, false)).status).toBe(200);
+    expect((await hers.get("/api/admin/users")).status).toBe(403);
+    // Still the site's curator.
+    expect((await hers.get(`/api/sites/${fx.siteId}/members`)).status).toBe(200);
+    const audit = await t.db
+      .selectFrom("auditLog")
+      .select(["action", "actorId"])
+      .where("entityId", "=", u.id)
+      .where("action", "in", ["admin_granted", "admin_removed"])
+      .orderBy("at")
+      .execute();
+    expect(audit).toEqual([
+      { action: "admin_granted", actorId: fx.crew.admin.id },
+      { action: "admin_removed", actorId: fx.crew.admin.id },
+    ]);
+  });
+
+  it("a curator cannot, bad input is a 400 and an unknown account a 404", async () => {
+    const curator = server.client();
+    await curator.signIn(fx.crew.curator.email);
+    expect((await setAdmin(fx.crew.curator.id, true, curator)).status).toBe(403);
+    expect((await setAdmin(fx.crew.viewer.id, "yes")).status).toBe(400);
+    expect((await admin.put(`/api/admin/users/${fx.crew.viewer.id}/instance-admin`, {})).status).toBe(400);
+    expect((await setAdmin("00000000-0000-4000-8000-000000000000", true)).status).toBe(404);
+    expect((await listed(fx.crew.viewer.id)).isAdmin).toBe(false);
   });
 });
