@@ -23,7 +23,7 @@ test("each role is offered only the e-mails it receives", async ({ page }) => {
   await page.goto("/account");
   await expect(page.getByRole("switch", { name: /A defect is assigned to me/ })).toBeVisible();
   await expect(page.getByRole("switch")).toHaveCount(1);
-  await page.getByRole("button", { name: "Sign out" }).click();
+  await page.getByRole("button", { name: "Sign out", exact: true }).click();
   await signIn(page, "viewer");
   await page.goto("/account");
   await expect(page.getByText("None of your roles receives e-mail from Tideline")).toBeVisible();
@@ -78,5 +78,37 @@ test.describe("on a phone", () => {
     expect(notice.text).toContain("Hello Wren Halloway");
     expect(notice.text).toContain("/reset-password");
     await admin.dispose();
+  });
+});
+
+test.describe("on a phone, signing out elsewhere", () => {
+  test.use({ viewport: { width: 360, height: 740 } });
+
+  test("a person sees where they are signed in and signs out everywhere else", async ({ page, browser, baseURL }) => {
+    const admin = await adminApi(baseURL!);
+    const email = uniqueEmail("elsewhere");
+    const made = await admin.post("/api/admin/users", {
+      data: { email, name: "Demelza Rowe", password: "second harbour phrase", isAdmin: false },
+    });
+    expect(made.status()).toBe(201);
+    const laptop = await browser.newPage();
+    for (const p of [page, laptop]) {
+      await p.goto("/sign-in");
+      await p.getByLabel("E-mail").fill(email);
+      await p.getByLabel("Password").fill("second harbour phrase");
+      await p.getByRole("button", { name: "Sign in" }).click();
+      await expect(p.getByRole("button", { name: "Sign out" })).toBeVisible();
+    }
+    await page.goto("/account");
+    const places = page.getByRole("region", { name: "Where you are signed in" });
+    await expect(places.getByText("2 places are signed in to this account, this one included.")).toBeVisible();
+    await places.getByRole("button", { name: "Sign out everywhere else" }).click();
+    await expect(places.getByRole("status")).toHaveText("Signed out of 1 place. Anyone there must sign in again.");
+    await expect(places.getByText("Only this place is signed in to this account.")).toBeVisible();
+    await expect(places.getByRole("button", { name: "Sign out everywhere else" })).toBeDisabled();
+    await page.screenshot({ path: ".data/test-results/account-places-phone.png", fullPage: true });
+    await laptop.reload();
+    await expect(laptop.getByRole("button", { name: "Sign in" })).toBeVisible();
+    await laptop.close();
   });
 });

@@ -9,6 +9,7 @@ import { setCookie } from "../middleware/session";
 import { membershipsOf } from "../sites/reads";
 import type { AppLucia } from "./lucia";
 import { signIn } from "./service";
+import { signedInPlaces, signOutElsewhere } from "./other-sessions";
 import { accountKey, countFailure, refuseIfSpent, type Limiters } from "./throttle";
 
 export function authRoutes(db: Db, lucia: AppLucia, opts: { mail: MailDeps; limiters: Limiters }) {
@@ -45,6 +46,15 @@ export function authRoutes(db: Db, lucia: AppLucia, opts: { mail: MailDeps; limi
     const session = await lucia.createSession(user.id, {});
     setCookie(res, lucia.createSessionCookie(session.id));
     res.json({ ok: true });
+  });
+
+  /** In how many places this account is signed in (this one included), and signing out of all but this one. */
+  r.get("/account/sessions", requireUser, async (_req, res) => {
+    res.json({ places: await signedInPlaces(db, res.locals.user!.id) });
+  });
+  r.post("/account/sessions/sign-out-others", requireUser, async (_req, res) => {
+    const ended = await signOutElsewhere(db, res.locals.user!.id, res.locals.session!.id);
+    res.json({ ended, places: await signedInPlaces(db, res.locals.user!.id) });
   });
 
   r.get("/session", requireUser, async (_req, res) => {

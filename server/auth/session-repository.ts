@@ -41,6 +41,31 @@ const sessionStatement = statementCache((db: Db, _shape: null, v: { key: string 
     .where("users.suspendedAt", "is", null),
 );
 
+/** How many live sessions an account has (every place it is signed in). */
+export const countSessionsOf = async (db: Db, userId: string) =>
+  Number(
+    (
+      await db
+        .selectFrom("sessions")
+        .select((eb) => eb.fn.countAll<string>().as("n"))
+        .where("userId", "=", userId)
+        .where("expiresAt", ">", new Date())
+        .executeTakeFirstOrThrow()
+    ).n,
+  );
+
+/** Ends every session of an account but the one given (its cookie's id); how many ended. */
+export const endOtherSessionsOf = async (db: Db, userId: string, keepSessionId: string) =>
+  Number(
+    (
+      await db
+        .deleteFrom("sessions")
+        .where("userId", "=", userId)
+        .where("id", "!=", sessionKey(keepSessionId))
+        .executeTakeFirst()
+    ).numDeletedRows,
+  );
+
 /** Ends every session of an account, in the caller's transaction (an account suspended). */
 export const endSessionsOf = (db: Db, userId: string) =>
   db.deleteFrom("sessions").where("userId", "=", userId).execute();

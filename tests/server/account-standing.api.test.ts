@@ -316,3 +316,35 @@ describe("making an account an instance admin, and taking it away (server/auth/i
     expect((await listed(fx.crew.viewer.id)).isAdmin).toBe(false);
   });
 });
+
+describe("signing out everywhere else (server/auth/other-sessions.ts)", () => {
+  it("counts the places the account is signed in, ends all but this one, and says how many", async () => {
+    const u = await makeUser(t.db, { siteId: fx.siteId, role: "volunteer", email: fresh() });
+    const [here, phone, laptop] = [server.client(), server.client(), server.client()];
+    for (const c of [here, phone, laptop]) await c.signIn(u.email);
+    expect((await here.get("/api/account/sessions")).body).toEqual({ places: 3 });
+
+    const r = await here.post("/api/account/sessions/sign-out-others");
+    expect(r.status).toBe(200);
+    expect(r.body).toEqual({ ended: 2, places: 1 });
+    expect((await phone.get("/api/session")).status).toBe(401);
+    expect((await laptop.get("/api/session")).status).toBe(401);
+    expect((await here.get("/api/session")).status).toBe(200);
+    expect((await here.post("/api/account/sessions/sign-out-others")).body).toEqual({ ended: 0, places: 1 });
+    // Another account's sessions are not touched.
+    expect((await admin.get("/api/session")).status).toBe(200);
+    const audit = await t.db
+      .selectFrom("auditLog")
+      .select(["action", "after"])
+      .where("entityId", "=", u.id)
+      .where("action", "=", "signed_out_elsewhere")
+      .orderBy("at")
+      .execute();
+    expect(audit.map((a) => a.after)).toEqual([{ ended: 2 }, { ended: 0 }]);
+  });
+
+  it("asks for a session", async () => {
+    expect((await server.client().get("/api/account/sessions")).status).toBe(401);
+    expect((await server.client().post("/api/account/sessions/sign-out-others")).status).toBe(401);
+  });
+});

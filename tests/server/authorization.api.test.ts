@@ -53,6 +53,8 @@ export const ACCESS: Record<string, Access> = {
   "POST /api/admin/users/:userId/suspension": "admin",
   "DELETE /api/admin/users/:userId/suspension": "admin",
   "PUT /api/admin/users/:userId/instance-admin": "admin",
+  "GET /api/account/sessions": "user",
+  "POST /api/account/sessions/sign-out-others": "user",
   "POST /api/sites/:siteId/photos": PHOTO_UP,
   "GET /api/sites/:siteId/photos": "member",
   "GET /api/sites/:siteId/photo-targets": "member",

@@ -1,6 +1,7 @@
 import { Link } from "react-router";
 import { paths } from "../../../config/paths";
 import { useSession } from "../../../features/auth/api";
+import { SignedInPlaces } from "../../../features/auth/components/signed-in-places";
 import { NotificationSwitches } from "../../../features/notification-prefs/components/notification-switches";
 import { ChangePasswordForm } from "../../../features/password-reset/components/change-password-form";
 
@@ -19,6 +20,7 @@ export default function AccountPage() {
         </dl>
       )}
       {user && <ChangePasswordForm email={user.email} />}
+      {user && <SignedInPlaces />}
       <NotificationSwitches />
       <p>
         <Link to={paths.home.href()}>Back to your site</Link>
