@@ -96,7 +96,16 @@ export const listCrew = (db: Db, siteId: string) =>
     .leftJoin("rtsQualifiedPersons as q", (j) =>
       j.onRef("q.userId", "=", "m.userId").onRef("q.siteId", "=", "m.siteId"),
     )
-    .select(["u.id as userId", "u.name", "u.email", "m.role", "q.qualification", "q.expiresOn", "q.version"])
+    .select([
+      "u.id as userId",
+      "u.name",
+      "u.email",
+      "m.role",
+      "q.qualification",
+      "q.expiresOn",
+      "q.version",
+      "u.suspendedAt",
+    ])
     .where("m.siteId", "=", siteId)
     .orderBy("u.name")
     .execute();

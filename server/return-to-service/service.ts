@@ -143,6 +143,7 @@ export async function qualifiedCrew(db: Db, siteId: string, today: string): Prom
     expiresOn: m.expiresOn,
     version: m.version ?? 0,
     current: m.qualification != null && isQualifiedOn({ expiresOn: m.expiresOn }, today),
+    suspended: !!m.suspendedAt,
   }));
 }
 

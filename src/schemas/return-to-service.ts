@@ -338,6 +338,8 @@ export interface QualifiedPerson {
   expiresOn: string | null;
   version: number;
   current: boolean;
+  /** The account is suspended by the instance's admin (server/auth/suspension.ts): it cannot sign. */
+  suspended: boolean;
 }
 export interface RtsSettings {
   insulationMaxAgeDays: number;

@@ -219,6 +219,8 @@ describe("suspending an account", () => {
     const after = await codes();
     expect(after.blockers).toContain("qualified_person_suspended");
     expect(after.listed).toMatchObject({ suspended: true, current: true });
+    const crew = (await curator.get(`/api/sites/${fx.siteId}/return-to-service/qualified-persons`)).body.people;
+    expect(crew.find((p: { userId: string }) => p.userId === qp.id)).toMatchObject({ suspended: true });
   });
 
   // No e-mail goes to it: tests/server/notifications.api.test.ts (assigned defects, the weekly summary) and

@@ -86,6 +86,11 @@ function Row({ siteId, p }: { siteId: string; p: QualifiedPerson }) {
         ) : (
           <span className="text-mist">not a qualified person for energisation</span>
         )}
+        {p.suspended && (
+          <span className="block text-sm text-flare-300">
+            Account suspended by the instance&apos;s admin: cannot sign a hold point.
+          </span>
+        )}
       </p>
       {!editing ? (
         <Button tone="quiet" onClick={() => setEditing(true)}>
