@@ -1,7 +1,25 @@
-import { expect, test } from "@playwright/test";
+import { expect, test, type Page } from "@playwright/test";
 import { expectNoSeriousA11yViolations } from "./support/a11y";
 import { signIn } from "./support/auth";
 import { adminApi, uniqueEmail, waitForMail } from "./support/mailbox";
+
+/** An account of its own (made by the demo admin), so the demo's shared accounts never change under other tests. */
+async function personOfTheirOwn(baseURL: string, tag: string, name: string, password: string) {
+  const admin = await adminApi(baseURL);
+  const email = uniqueEmail(tag);
+  const made = await admin.post("/api/admin/users", { data: { email, name, password, isAdmin: false } });
+  expect(made.status()).toBe(201);
+  await admin.dispose();
+  return email;
+}
+
+async function signInWith(p: Page, email: string, password: string) {
+  await p.goto("/sign-in");
+  await p.getByLabel("E-mail").fill(email);
+  await p.getByLabel("Password").fill(password);
+  await p.getByRole("button", { name: "Sign in" }).click();
+  await expect(p.getByRole("button", { name: "Sign out", exact: true })).toBeVisible();
+}
 
 test("a curator switches an e-mail notification off on the account page, and it stays off", async ({ page }) => {
   await signIn(page, "curator");
@@ -38,22 +56,9 @@ test.describe("on a phone", () => {
     browser,
     baseURL,
   }) => {
-    // A person of their own, so the demo's shared password never changes under other tests.
-    const admin = await adminApi(baseURL!);
-    const email = uniqueEmail("pw-change");
-    const made = await admin.post("/api/admin/users", {
-      data: { email, name: "Wren Halloway", password: "first harbour phrase", isAdmin: false },
-    });
-    expect(made.status()).toBe(201);
-
+    const email = await personOfTheirOwn(baseURL!, "pw-change", "Wren Halloway", "first harbour phrase");
     const other = await browser.newPage();
-    for (const p of [page, other]) {
-      await p.goto("/sign-in");
-      await p.getByLabel("E-mail").fill(email);
-      await p.getByLabel("Password").fill("first harbour phrase");
-      await p.getByRole("button", { name: "Sign in" }).click();
-      await expect(p.getByRole("button", { name: "Sign out" })).toBeVisible();
-    }
+    for (const p of [page, other]) await signInWith(p, email, "first harbour phrase");
 
     await page.goto("/account");
     const form = page.getByRole("region", { name: "Change your password" });
@@ -74,6 +79,7 @@ test.describe("on a phone", () => {
     expect((await other.request.get("/api/session")).status()).toBe(401);
     await other.close();
 
+    const admin = await adminApi(baseURL!);
     const notice = await waitForMail(admin, email, /password was changed/);
     expect(notice.text).toContain("Hello Wren Halloway");
     expect(notice.text).toContain("/reset-password");
@@ -85,20 +91,9 @@ test.describe("on a phone, signing out elsewhere", () => {
   test.use({ viewport: { width: 360, height: 740 } });
 
   test("a person sees where they are signed in and signs out everywhere else", async ({ page, browser, baseURL }) => {
-    const admin = await adminApi(baseURL!);
-    const email = uniqueEmail("elsewhere");
-    const made = await admin.post("/api/admin/users", {
-      data: { email, name: "Demelza Rowe", password: "second harbour phrase", isAdmin: false },
-    });
-    expect(made.status()).toBe(201);
+    const email = await personOfTheirOwn(baseURL!, "elsewhere", "Demelza Rowe", "second harbour phrase");
     const laptop = await browser.newPage();
-    for (const p of [page, laptop]) {
-      await p.goto("/sign-in");
-      await p.getByLabel("E-mail").fill(email);
-      await p.getByLabel("Password").fill("second harbour phrase");
-      await p.getByRole("button", { name: "Sign in" }).click();
-      await expect(p.getByRole("button", { name: "Sign out" })).toBeVisible();
-    }
+    for (const p of [page, laptop]) await signInWith(p, email, "second harbour phrase");
     await page.goto("/account");
     const places = page.getByRole("region", { name: "Where you are signed in" });
     await expect(places.getByText("2 places are signed in to this account, this one included.")).toBeVisible();
