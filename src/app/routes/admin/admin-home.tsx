@@ -216,18 +216,6 @@ function Accounts({ selfId }: { selfId: string }) {
 function AccountRow({ account: a, isSelf }: { account: Account; isSelf: boolean }) {
   const { suspend, reinstate, setAdmin } = useAccountStanding();
   const [asking, setAsking] = useState(false);
-  const form = useSchemaForm(suspendAccountBody, { reason: "" });
-  const errors = form.formState.errors;
-  const message = formMessage(errors, "above");
-  const submit = form.handleSubmit((b) =>
-    suspend.mutateAsync({ userId: a.id, reason: b.reason }).then(
-      () => {
-        form.reset();
-        setAsking(false);
-      },
-      (err: unknown) => showSaveError(form, err, { fallback: "Not suspended: no answer from the server. Try again." }),
-    ),
-  );
   return (
     <li className="space-y-2 p-3" data-testid="account">
       <p className="flex flex-wrap items-baseline gap-x-3">
@@ -290,41 +278,57 @@ function AccountRow({ account: a, isSelf }: { account: Account; isSelf: boolean 
           </Button>
         </div>
       )}
-      {asking && (
-        <form
-          onSubmit={(ev) => void submit(ev)}
-          noValidate
-          aria-label={`Suspend ${a.name}`}
-          className="space-y-2 rounded-md bg-hull-800 p-3 ring-1 ring-hull-600"
-        >
-          <TextArea
-            label="Why (kept with the account and in the audit log)"
-            {...form.register("reason")}
-            rows={2}
-            required
-            error={fieldError(errors, "reason")}
-          />
-          {message && (
-            <p role="alert" className="text-sm text-flare-300">
-              {message}
-            </p>
-          )}
-          <div className="flex flex-wrap gap-2">
-            <Button type="submit" tone="danger" disabled={suspend.isPending}>
-              Suspend and sign out everywhere
-            </Button>
-            <Button
-              tone="quiet"
-              onClick={() => {
-                form.reset();
-                setAsking(false);
-              }}
-            >
-              Cancel
-            </Button>
-          </div>
-        </form>
-      )}
+      {asking && <SuspendForm account={a} suspend={suspend} onDone={() => setAsking(false)} />}
     </li>
+  );
+}
+
+/** The reason asked for before an account is suspended: a form only while it is open, not one for every row. */
+function SuspendForm({
+  account: a,
+  suspend,
+  onDone,
+}: {
+  account: Account;
+  suspend: ReturnType<typeof useAccountStanding>["suspend"];
+  onDone: () => void;
+}) {
+  const form = useSchemaForm(suspendAccountBody, { reason: "" });
+  const errors = form.formState.errors;
+  const message = formMessage(errors, "above");
+  const submit = form.handleSubmit((b) =>
+    suspend.mutateAsync({ userId: a.id, reason: b.reason }).then(
+      () => onDone(),
+      (err: unknown) => showSaveError(form, err, { fallback: "Not suspended: no answer from the server. Try again." }),
+    ),
+  );
+  return (
+    <form
+      onSubmit={(ev) => void submit(ev)}
+      noValidate
+      aria-label={`Suspend ${a.name}`}
+      className="space-y-2 rounded-md bg-hull-800 p-3 ring-1 ring-hull-600"
+    >
+      <TextArea
+        label="Why (kept with the account and in the audit log)"
+        {...form.register("reason")}
+        rows={2}
+        required
+        error={fieldError(errors, "reason")}
+      />
+      {message && (
+        <p role="alert" className="text-sm text-flare-300">
+          {message}
+        </p>
+      )}
+      <div className="flex flex-wrap gap-2">
+        <Button type="submit" tone="danger" disabled={suspend.isPending}>
+          Suspend and sign out everywhere
+        </Button>
+        <Button tone="quiet" onClick={onDone}>
+          Cancel
+        </Button>
+      </div>
+    </form>
   );
 }
