@@ -11,6 +11,9 @@ test("the instance admin makes a site and an account, a refused field says why b
   await signIn(page, "admin");
   await page.goto("/admin");
   await expect(page.getByRole("heading", { name: "Instance administration" })).toBeVisible();
+  // The account list comes first; each form opens when asked for.
+  await expect(page.getByRole("heading", { name: "New site" })).toHaveCount(0);
+  await page.getByRole("button", { name: "New site…" }).click();
 
   const siteForm = page.locator("form", { has: page.getByRole("heading", { name: "New site" }) });
   const name = `Pilot cutter Saltmarsh ${Date.now()}`;
@@ -21,6 +24,8 @@ test("the instance admin makes a site and an account, a refused field says why b
   await expect(siteForm.getByLabel("Name")).toHaveValue("");
 
   // The password rule is the server's own (createUserBody): the form says it beside the field before sending.
+  await page.getByRole("button", { name: "New account…" }).click();
+  await expect(siteForm).toHaveCount(0);
   const accountForm = page.locator("form", { has: page.getByRole("heading", { name: "New account" }) });
   const email = uniqueEmail("deckhand");
   await accountForm.getByLabel("E-mail").fill(email);
@@ -85,6 +90,8 @@ test("the instance admin suspends an account: it is signed out at once, told why
     row.getByText(/^Suspended \d{4}-\d{2}-\d{2} \d{2}:\d{2} by .+: Left the crew; phone not returned$/),
   ).toBeVisible();
   await expect(row.getByRole("button", { name: "Reinstate Jory Trevaskis" })).toBeVisible();
+  // Not made an instance admin while suspended: reinstated first.
+  await expect(row.getByRole("button", { name: "Make instance admin" })).toHaveCount(0);
   await page.getByLabel("Find an account").fill("");
   await page.getByLabel(/^Suspended only/).check();
   await expect(page.getByTestId("account").filter({ hasText: email })).toHaveCount(1);

@@ -38,6 +38,10 @@ export const replacePasswordHash = async (db: Db, userId: string, fromHash: stri
 export const findUserById = (db: Db, userId: string) =>
   db.selectFrom("users").selectAll().where("id", "=", userId).executeTakeFirst();
 
+/** The account, its row locked until the transaction ends: a suspension racing a change of standing waits for it. */
+export const lockUserById = (db: Db, userId: string) =>
+  db.selectFrom("users").selectAll().where("id", "=", userId).forUpdate().executeTakeFirst();
+
 /** Every account of the instance, for its admins: no password hash; who suspended one, by name. */
 export const listUsers = (db: Db) =>
   db

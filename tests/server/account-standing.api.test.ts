@@ -308,6 +308,26 @@ describe("making an account an instance admin, and taking it away (server/auth/i
     ]);
   });
 
+  it("does not make a suspended account an instance admin (reinstate first), but takes the standing away", async () => {
+    const u = await makeUser(t.db, { siteId: fx.siteId, role: "viewer", name: "Tamsin Rowe", email: fresh() });
+    expect((await suspend(u.id)).status).toBe(200);
+    const refused = await setAdmin(u.id, true);
+    expect(refused.status).toBe(409);
+    expect(refused.body.error).toMatchObject({
+      code: "account_suspended",
+      message: "Tamsin Rowe's account is suspended: reinstate it first, then make them an instance admin.",
+    });
+    expect((await listed(u.id)).isAdmin).toBe(false);
+
+    const w = await makeUser(t.db, { siteId: fx.siteId, role: "viewer", email: fresh() });
+    expect((await setAdmin(w.id, true)).status).toBe(200);
+    expect((await suspend(w.id)).status).toBe(200);
+    expect((await setAdmin(w.id, false)).status).toBe(200);
+    expect((await listed(w.id)).isAdmin).toBe(false);
+    expect((await reinstate(u.id)).status).toBe(200);
+    expect((await setAdmin(u.id, true)).status).toBe(200);
+  });
+
   it("a curator cannot, bad input is a 400 and an unknown account a 404", async () => {
     const curator = server.client();
     await curator.signIn(fx.crew.curator.email);

@@ -12,20 +12,29 @@ import { useAccounts, useCreateSite, useCreateUser, useAccountStanding } from ".
 import { stamp } from "../../../lib/clock";
 import { createSiteBody, createUserBody, suspendAccountBody, type Account } from "../../../schemas/sites";
 
-/** One of the admin's forms: it saves, empties itself and says what it made; a refusal goes beside the fields. */
+/**
+ * One of the admin's forms, open only when asked for: it saves, empties itself (for the next one) and says what it
+ * made; a refusal goes beside the fields. Close puts it away.
+ */
 function AdminForm<In extends FieldValues, Out, Made>({
   form,
   title,
   save,
   said,
   onDone,
+  onClose,
+  submitLabel,
+  pending,
   children,
 }: {
   form: UseFormReturn<In, unknown, Out>;
   title: string;
+  submitLabel: string;
+  pending: boolean;
   save: (body: Out) => Promise<Made>;
   said: (made: Made) => string;
   onDone: (text: string) => void;
+  onClose: () => void;
   children: ReactNode;
 }) {
   const submit = form.handleSubmit((body) =>
@@ -51,12 +60,20 @@ function AdminForm<In extends FieldValues, Out, Made>({
         </p>
       )}
       {children}
+      <div className="flex flex-wrap gap-2">
+        <Button type="submit" disabled={pending}>
+          {submitLabel}
+        </Button>
+        <Button tone="quiet" onClick={onClose}>
+          Close
+        </Button>
+      </div>
     </form>
   );
 }
 
 /** A new site; createSiteBody (the server's own schema) validates it. */
-function NewSiteForm({ onDone }: { onDone: (text: string) => void }) {
+function NewSiteForm({ onDone, onClose }: { onDone: (text: string) => void; onClose: () => void }) {
   const createSite = useCreateSite();
   const form = useSchemaForm(createSiteBody, { name: "", kind: "vessel", location: "" });
   const { register, formState } = form;
@@ -68,6 +85,9 @@ function NewSiteForm({ onDone }: { onDone: (text: string) => void }) {
       save={(b) => createSite.mutateAsync(b)}
       said={(s) => `Site “${s.name}” created.`}
       onDone={onDone}
+      onClose={onClose}
+      submitLabel="Create site"
+      pending={createSite.isPending}
     >
       <TextField label="Name" {...register("name")} required error={fieldError(errors, "name")} />
       <SelectField label="Kind" {...register("kind")} error={fieldError(errors, "kind")}>
@@ -76,15 +96,12 @@ function NewSiteForm({ onDone }: { onDone: (text: string) => void }) {
         <option value="plant">Plant</option>
       </SelectField>
       <TextField label="Location" {...register("location")} error={fieldError(errors, "location")} />
-      <Button type="submit" disabled={createSite.isPending}>
-        Create site
-      </Button>
     </AdminForm>
   );
 }
 
 /** A new account; createUserBody (the server's own schema) validates it. */
-function NewAccountForm({ onDone }: { onDone: (text: string) => void }) {
+function NewAccountForm({ onDone, onClose }: { onDone: (text: string) => void; onClose: () => void }) {
   const createUser = useCreateUser();
   const form = useSchemaForm(createUserBody, { email: "", name: "", password: "", isAdmin: false });
   const { register, formState } = form;
@@ -96,6 +113,9 @@ function NewAccountForm({ onDone }: { onDone: (text: string) => void }) {
       save={(b) => createUser.mutateAsync(b)}
       said={(d) => `Account ${d.user.email} created.`}
       onDone={onDone}
+      onClose={onClose}
+      submitLabel="Create account"
+      pending={createUser.isPending}
     >
       <TextField label="E-mail" {...register("email")} type="email" required error={fieldError(errors, "email")} />
       <TextField label="Name" {...register("name")} required error={fieldError(errors, "name")} />
@@ -111,9 +131,6 @@ function NewAccountForm({ onDone }: { onDone: (text: string) => void }) {
       <label className="flex min-h-11 items-center gap-2">
         <input type="checkbox" {...register("isAdmin")} className="h-5 w-5" /> Instance admin
       </label>
-      <Button type="submit" disabled={createUser.isPending}>
-        Create account
-      </Button>
     </AdminForm>
   );
 }
@@ -122,6 +139,8 @@ export default function AdminHome() {
   const session = useSession();
   // What the last save made (each form says its own refusals beside its fields).
   const [done, setDone] = useState<string | null>(null);
+  // The forms open when asked for: an admin acting on a lost phone finds the account list first, not two forms.
+  const [making, setMaking] = useState<"site" | "account" | null>(null);
   if (session.data && !session.data.user.isAdmin) return <Navigate to="/" replace />;
   return (
     <main id="main" className="mx-auto max-w-3xl space-y-6 p-4">
@@ -137,8 +156,24 @@ export default function AdminHome() {
           {done}
         </p>
       )}
-      <NewSiteForm onDone={setDone} />
-      <NewAccountForm onDone={setDone} />
+      <div className="flex flex-wrap gap-2">
+        <Button
+          tone={making === "site" ? "primary" : "quiet"}
+          aria-expanded={making === "site"}
+          onClick={() => setMaking(making === "site" ? null : "site")}
+        >
+          New site…
+        </Button>
+        <Button
+          tone={making === "account" ? "primary" : "quiet"}
+          aria-expanded={making === "account"}
+          onClick={() => setMaking(making === "account" ? null : "account")}
+        >
+          New account…
+        </Button>
+      </div>
+      {making === "site" && <NewSiteForm onDone={setDone} onClose={() => setMaking(null)} />}
+      {making === "account" && <NewAccountForm onDone={setDone} onClose={() => setMaking(null)} />}
       {/* Read once the session says admin: no refused read while a non-admin is sent away. */}
       {session.data?.user.isAdmin && <Accounts selfId={session.data.user.id} />}
     </main>
@@ -263,19 +298,22 @@ function AccountRow({ account: a, isSelf }: { account: Account; isSelf: boolean 
               Suspend…
             </Button>
           )}
-          <Button
-            tone="quiet"
-            disabled={setAdmin.isPending}
-            onClick={() =>
-              confirm(
-                a.isAdmin
-                  ? `Take instance admin away from ${a.name}? They keep their sites and roles.`
-                  : `Make ${a.name} an instance admin? They will act as curator on every site and manage accounts.`,
-              ) && setAdmin.mutate({ userId: a.id, isAdmin: !a.isAdmin })
-            }
-          >
-            {a.isAdmin ? "Remove instance admin" : "Make instance admin"}
-          </Button>
+          {/* Not made an admin while suspended (the server refuses it too): reinstate first. */}
+          {(a.isAdmin || !a.suspended) && (
+            <Button
+              tone="quiet"
+              disabled={setAdmin.isPending}
+              onClick={() =>
+                confirm(
+                  a.isAdmin
+                    ? `Take instance admin away from ${a.name}? They keep their sites and roles.`
+                    : `Make ${a.name} an instance admin? They will act as curator on every site and manage accounts.`,
+                ) && setAdmin.mutate({ userId: a.id, isAdmin: !a.isAdmin })
+              }
+            >
+              {a.isAdmin ? "Remove instance admin" : "Make instance admin"}
+            </Button>
+          )}
         </div>
       )}
       {asking && <SuspendForm account={a} suspend={suspend} onDone={() => setAsking(false)} />}
