@@ -3,7 +3,8 @@
  * required, so a session left open on a shared phone cannot take over the account; wrong ones
  * count against the same per-account allowance as sign-in. The change is audited, every session
  * of the person ends (the route then signs this browser in again), and the owner is told by
- * e-mail, with the reset link in case it was not them.
+ * e-mail, with the reset link in case it was not them; the time in the zone the route gives (their sites' own, when
+ * they keep one: server/sites/reads.ts accountTimeZone).
  */
 import { recordAudit } from "../audit";
 import type { Db } from "../db";
@@ -15,13 +16,14 @@ import { log } from "../log";
 import { hashPassword, verifyPassword } from "./password";
 import { findUserById, replacePasswordHash } from "./repository";
 import { paths } from "../../src/config/paths";
+import { localMinute } from "../../src/domain/local-time";
 
-export const passwordChangedMail = (publicUrl: string, name: string, at: Date) =>
+export const passwordChangedMail = (publicUrl: string, name: string, at: Date, timeZone: string) =>
   compose({
     subject: "Your Tideline password was changed",
     greeting: `Hello ${name},`,
     body: [
-      `The password of this Tideline account was changed while signed in, at ${at.toISOString().slice(0, 16).replace("T", " ")} UTC.`,
+      `The password of this Tideline account was changed while signed in, at ${localMinute(at, timeZone)} ${timeZone}.`,
       "Every other place where the account was signed in has been signed out.",
       "If you did not change it, set a new password now with the link below, and tell your site's curator.",
     ],
@@ -36,6 +38,7 @@ export async function changePassword(
   userId: string,
   body: { currentPassword: string; newPassword: string },
   checked: CheckCurrent,
+  timeZone = "UTC",
 ): Promise<void> {
   const user = await findUserById(deps.db, userId);
   if (!user) throw new AppError(401, "unauthenticated", "Sign in first.");
@@ -47,7 +50,7 @@ export async function changePassword(
     });
   const next = await hashPassword(body.newPassword);
   const at = new Date();
-  const msg = { to: user.email, ...passwordChangedMail(deps.publicUrl, user.name, at) };
+  const msg = { to: user.email, ...passwordChangedMail(deps.publicUrl, user.name, at, timeZone) };
   const queued = await deps.db.transaction().execute(async (trx: Db) => {
     if (!(await replacePasswordHash(trx, userId, user.passwordHash!, next)))
       throw new AppError(

@@ -6,7 +6,7 @@ import type { Db } from "../db";
 import type { MailDeps } from "../mail/mailer";
 import { requireUser } from "../middleware/roles";
 import { setCookie } from "../middleware/session";
-import { membershipsOf } from "../sites/reads";
+import { accountTimeZone, membershipsOf } from "../sites/reads";
 import type { AppLucia } from "./lucia";
 import { signIn } from "./service";
 import { signedInPlaces, signOutElsewhere } from "./other-sessions";
@@ -39,9 +39,15 @@ export function authRoutes(db: Db, lucia: AppLucia, opts: { mail: MailDeps; limi
     const user = res.locals.user!;
     const acct = accountKey(user.email);
     await refuseIfSpent(limiters.signInAccount, acct, "Too many wrong passwords for this account.");
-    await changePassword(opts.mail, user.id, body, async (ok) => {
-      if (!ok) await countFailure(limiters.signInAccount, acct);
-    });
+    await changePassword(
+      opts.mail,
+      user.id,
+      body,
+      async (ok) => {
+        if (!ok) await countFailure(limiters.signInAccount, acct);
+      },
+      await accountTimeZone(db, user.id),
+    );
     await lucia.invalidateUserSessions(user.id);
     const session = await lucia.createSession(user.id, {});
     setCookie(res, lucia.createSessionCookie(session.id));

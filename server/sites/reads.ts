@@ -30,6 +30,15 @@ export async function siteToday(db: Db, siteId: string, at: Date = new Date()): 
   return localDate(at, await siteTimeZone(db, siteId));
 }
 
+/**
+ * The clock to write a person's own account messages in (a password change): the time zone of their sites when they
+ * all keep one, else UTC (an account is not a site's; a yard's person on sites in two zones gets UTC, named).
+ */
+export async function accountTimeZone(db: Db, userId: string): Promise<string> {
+  const zones = await repo.timeZonesOfUser(db, userId);
+  return zones.length === 1 ? zones[0] : "UTC";
+}
+
 /** The site's name; throws when the site is gone. */
 export const siteName = (db: Db, siteId: string) => repo.siteName(db, siteId);
 

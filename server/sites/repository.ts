@@ -31,6 +31,19 @@ export const listMembershipsOfUser = (db: Db, userId: string) =>
     .orderBy("sites.name")
     .execute();
 
+/** The distinct time zones of the sites a person is a member of. */
+export const timeZonesOfUser = async (db: Db, userId: string) =>
+  (
+    await db
+      .selectFrom("memberships")
+      .innerJoin("sites", "sites.id", "memberships.siteId")
+      .select("sites.timeZone")
+      .distinct()
+      .where("memberships.userId", "=", userId)
+      .orderBy("sites.timeZone")
+      .execute()
+  ).map((r) => r.timeZone);
+
 /** Every membership of the instance with its site's name, by site name (the instance admin's list of accounts). */
 export const listAllMemberships = (db: Db) =>
   db

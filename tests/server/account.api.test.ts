@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { backgroundIdle } from "../../server/mail/background";
 import type { FakeSmtp } from "../../server/mail/fake-smtp";
 import { createTestDb, type TestDb } from "../helpers/db";
-import { makeCrew, makeUser } from "../helpers/fixtures";
+import { makeCrew, makeSite, makeUser } from "../helpers/fixtures";
 import { TEST_PASSWORD, type TestServer } from "../helpers/http";
 import { startMailTestServer } from "../helpers/mail";
 
@@ -64,6 +64,57 @@ describe("changing one's password while signed in", () => {
     expect(msg.text).toContain("signed out");
     expect(msg.text).toContain("/reset-password");
     expect(msg.text).not.toContain("a longer harbour phrase");
+    // No site: the time is UTC's, named.
+    expect(msg.text).toMatch(/changed while signed in, at \d{4}-\d{2}-\d{2} \d{2}:\d{2} UTC\./);
+  });
+
+  it("writes the time of the change on the clock of the person's sites when they keep one zone, named", async () => {
+    // Reference: the platform's Intl.DateTimeFormat (ICU's zone data), not Tideline's own formatter. Chatham is
+    // UTC+13:45 in December, so an hour-only offset would show.
+    const zone = "Pacific/Chatham";
+    const site = await makeSite(t.db, "Chatham test hulk");
+    await t.db.updateTable("sites").set({ timeZone: zone }).where("id", "=", site.id).execute();
+    const u = await makeUser(t.db, { email: fresh(), siteId: site.id, role: "volunteer" });
+    const c = server.client();
+    await c.signIn(u.email);
+    smtp.mailbox.clear();
+    const icu = new Intl.DateTimeFormat("en-CA", {
+      timeZone: zone,
+      hourCycle: "h23",
+      year: "numeric",
+      month: "2-digit",
+      day: "2-digit",
+      hour: "2-digit",
+      minute: "2-digit",
+    });
+    const minute = (d: Date) => icu.format(d).replace(",", "");
+    const before = minute(new Date());
+    expect(
+      (await c.post("/api/account/password", { currentPassword: TEST_PASSWORD, newPassword: "chatham islands phrase" }))
+        .status,
+    ).toBe(200);
+    const after = minute(new Date());
+    await server.jobsIdle();
+    const msg = await smtp.mailbox.waitFor((m) => m.to.includes(u.email));
+    const said = /changed while signed in, at (\d{4}-\d{2}-\d{2} \d{2}:\d{2}) Pacific\/Chatham\./.exec(msg.text)?.[1];
+    expect([before, after]).toContain(said);
+
+    // On a second site in another zone: UTC, named.
+    const other = await makeSite(t.db, "Lisbon test hulk");
+    await t.db.updateTable("sites").set({ timeZone: "Europe/Lisbon" }).where("id", "=", other.id).execute();
+    await t.db.insertInto("memberships").values({ siteId: other.id, userId: u.id, role: "viewer" }).execute();
+    smtp.mailbox.clear();
+    expect(
+      (
+        await c.post("/api/account/password", {
+          currentPassword: "chatham islands phrase",
+          newPassword: "lisbon harbour phrase",
+        })
+      ).status,
+    ).toBe(200);
+    await server.jobsIdle();
+    const second = await smtp.mailbox.waitFor((m) => m.to.includes(u.email));
+    expect(second.text).toMatch(/changed while signed in, at \d{4}-\d{2}-\d{2} \d{2}:\d{2} UTC\./);
   });
 
   it("a wrong current password is a 400 naming the field, and changes nothing", async () => {
