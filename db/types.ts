@@ -713,6 +713,8 @@ export interface RtsSignoffsTable {
   note: Text;
   evidence: ColumnType<unknown, string | undefined, never>;
   supersedesId: string | null;
+  /** A release's blockers as it saw them (src/domain/rts-gate.ts blockerKey); null otherwise or from before. */
+  covers: string[] | null;
 }
 
 export interface RtsEnergisationsTable {

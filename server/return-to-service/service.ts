@@ -6,6 +6,7 @@
  */
 import type { z } from "zod";
 import { checkReorder, isQualifiedOn, QUALIFIED_ONLY_KINDS } from "../../src/domain/return-to-service";
+import { blockerKey, type HoldPoint } from "../../src/domain/rts-gate";
 import { classifyTemperatureRise } from "../../src/domain/thermal";
 import { judgeDeviceTime } from "../../src/domain/device-clock";
 import { operationsStatus, defaultOperationsBudget } from "../../src/domain/breaker-operations";
@@ -44,6 +45,7 @@ export interface Ctx {
   actor: { id: string; role: Role | "admin" };
 }
 type Trx = Db;
+type StageRow = NonNullable<Awaited<ReturnType<typeof repo.findStage>>>;
 const invalid = (field: string, message: string) => new AppError(400, "invalid_input", message, { [field]: message });
 const must = (ctx: Ctx, action: Action, message: string) => {
   if (!can(ctx.actor.role, action)) throw forbidden(message);
@@ -277,6 +279,67 @@ const SCOPE_FIELDS = [
   "stepVolts",
 ] as const;
 
+const SCOPE_WORDS: Record<(typeof SCOPE_FIELDS)[number], string> = {
+  sectionIds: "sections",
+  positionIds: "positions",
+  supply: "supply",
+  protectionDevice: "protection",
+  protectionRatingA: "protection rating",
+  protectionLimitA: "protection limit",
+  voltageStep: "voltage",
+  stepVolts: "voltage",
+};
+const sameSet = (a: string[], b: string[]) => a.length === b.length && a.every((x) => b.includes(x));
+
+/**
+ * Which of the stage's scope, supply, protection and voltage the edit changes, in words ("protection rating,
+ * positions"): hold points signed before the change attested to the stage as it was.
+ */
+async function scopeChanges(trx: Trx, s: StageRow, body: PatchStageBody) {
+  const items = await repo.listItems(trx, [s.id]);
+  const had = {
+    sectionIds: items.flatMap((i) => (i.sectionId ? [i.sectionId] : [])),
+    positionIds: items.flatMap((i) => (i.positionId ? [i.positionId] : [])),
+  };
+  const changed = SCOPE_FIELDS.filter((f) => {
+    const v = body[f];
+    if (v === undefined) return false;
+    if (f === "sectionIds" || f === "positionIds") return !sameSet(v as string[], had[f]);
+    return v !== s[f];
+  });
+  return [...new Set(changed.map((f) => SCOPE_WORDS[f]))];
+}
+
+/**
+ * Strikes out every entry in force of the stage's current attempt, with the reason: a change of scope, supply,
+ * protection or voltage before the energisation voids what was signed for the stage as it was (common practice: a
+ * changed job is checked again). Each strike supersedes its entry, as a person's would; the log keeps both.
+ */
+async function voidEntries(trx: Trx, ctx: Ctx, s: StageRow, what: string[]) {
+  const all = (await repo.listSignoffs(trx, [s.id])).filter((x) => x.attempt === s.attempt);
+  const live = all.filter((x) => x.kind !== "struck" && !all.some((y) => y.supersedesId === x.id));
+  if (!live.length) return 0;
+  const signerName = await repo.userName(trx, ctx.actor.id);
+  const reason = `Voided: the stage's ${what.join(", ")} changed after this was signed. Check and sign it again.`;
+  for (const x of live)
+    await repo.insertSignoff(trx, {
+      siteId: ctx.siteId,
+      stageId: s.id,
+      stepId: x.stepId,
+      attempt: s.attempt,
+      kind: "struck",
+      signedBy: ctx.actor.id,
+      signerName,
+      signedAt: new Date(),
+      reason,
+      note: "",
+      evidence: "[]",
+      supersedesId: x.id,
+      covers: null,
+    });
+  return live.length;
+}
+
 export async function patchStage(db: Db, ctx: Ctx, stageId: string, body: PatchStageBody) {
   must(ctx, "rts.plan", "Only the curator plans the return to service.");
   return db.transaction().execute(async (trx) => {
@@ -295,6 +358,8 @@ export async function patchStage(db: Db, ctx: Ctx, stageId: string, body: PatchS
         "The stage is live: its scope, supply, protection and voltage stay as energised. De-energise and start a new attempt to change them.",
       );
     await checkScope(trx, ctx, s.boardId, body, stageId);
+    const changed = s.status === "planned" ? await scopeChanges(trx, s, body) : [];
+    const voided = changed.length ? await voidEntries(trx, ctx, s, changed) : 0;
     const { version, sectionIds, positionIds, ...fields } = body;
     if (fields.dependsOnId) {
       const dep = (await repo.findStage(trx, ctx.siteId, fields.dependsOnId))!;
@@ -325,7 +390,7 @@ export async function patchStage(db: Db, ctx: Ctx, stageId: string, body: PatchS
       actorId: ctx.actor.id,
       boardId: s.boardId,
       before: s,
-      after: body,
+      after: voided ? { ...body, voidedEntries: voided } : body,
     });
     return saved;
   });
@@ -511,6 +576,23 @@ async function assertQualified(trx: Trx, ctx: Ctx, now: Date) {
     );
 }
 
+/** A signature needs the hold point ready as if nothing were signed: no blocker, every hold point before it met. */
+function refuseUnlessReady(hp: HoldPoint, view: unknown) {
+  const { state, blockers } = hp.unsigned;
+  if (state === "ready") return;
+  const why =
+    state === "blocked"
+      ? blockers.map((b) => b.message).join(" ")
+      : "An earlier hold point is not met yet, or the stage is not energised.";
+  throw new AppError(
+    409,
+    state === "blocked" ? "blocked" : "waiting",
+    `This hold point cannot be signed yet. ${why}`,
+    undefined,
+    view,
+  );
+}
+
 export async function sign(db: Db, ctx: Ctx, stepId: string, body: z.infer<typeof signBody>, now = new Date()) {
   if (body.kind === "released") must(ctx, "rts.release_blocked", "Only the curator releases a blocked hold point.");
   else must(ctx, "rts.sign", "Your role on this site does not sign hold points.");
@@ -547,19 +629,7 @@ export async function sign(db: Db, ctx: Ctx, stepId: string, body: z.infer<typeo
           );
         if (body.reason.trim().length < 10)
           throw invalid("reason", "Write the reason for releasing a blocked hold point (at least a sentence).");
-      } else if (hp.state !== "ready") {
-        const why =
-          hp.state === "blocked"
-            ? hp.blockers.map((b) => b.message).join(" ")
-            : "An earlier hold point is not met yet, or the stage is not energised.";
-        throw new AppError(
-          409,
-          hp.state === "blocked" ? "blocked" : "waiting",
-          `This hold point cannot be signed yet. ${why}`,
-          undefined,
-          view,
-        );
-      }
+      } else refuseUnlessReady(hp, view);
       await checkEvidence(trx, ctx.siteId, body.evidence);
       const signerName = await repo.userName(trx, ctx.actor.id);
       const entry = await repo.insertSignoff(trx, {
@@ -574,6 +644,7 @@ export async function sign(db: Db, ctx: Ctx, stepId: string, body: z.infer<typeo
         reason: body.reason,
         note: body.note,
         evidence: JSON.stringify(body.evidence),
+        covers: body.kind === "released" ? hp.blockers.map(blockerKey) : null,
       });
       if (body.kind === "signed" && step.kind === "energise") {
         const at = body.at ? new Date(body.at) : now;
@@ -654,6 +725,26 @@ export async function supersede(
         throw forbidden("Only the person who signed, or the curator, strikes out an entry.");
       if (body.kind === "released" && step.qualifiedOnly)
         throw new AppError(409, "not_releasable", "A qualified person's hold point cannot be released by the curator.");
+      // A new signature or release in place of an entry passes the gate as a first one would: judged as if no entry
+      // were in force. (A qualified person's entry of an energisation or release that has happened is corrected
+      // with a new signature as it stands: that records what happened, it does not let anything happen.)
+      const view = (await current())!;
+      const hp = view.gate.holdPoints.find((h) => h.stepId === old.stepId)!;
+      const inEffect =
+        step.qualifiedOnly && (s.status === "energised" || s.status === "released" || s.status === "stopped");
+      if (body.kind === "signed" && !inEffect) refuseUnlessReady(hp, view);
+      if (body.kind === "released") {
+        if (hp.unsigned.state !== "blocked")
+          throw new AppError(
+            409,
+            "not_blocked",
+            "Only a blocked hold point can be released with a reason: nothing blocks this one now.",
+            undefined,
+            view,
+          );
+        if (body.reason.trim().length < 10)
+          throw invalid("reason", "Write the reason for releasing a blocked hold point (at least a sentence).");
+      }
       await checkEvidence(trx, ctx.siteId, body.evidence);
       const entry = await repo.insertSignoff(trx, {
         siteId: ctx.siteId,
@@ -668,6 +759,7 @@ export async function supersede(
         note: body.note,
         evidence: JSON.stringify(body.evidence),
         supersedesId: old.id,
+        covers: body.kind === "released" ? hp.unsigned.blockers.map(blockerKey) : null,
       });
       await recordAudit(trx, {
         siteId: ctx.siteId,

@@ -102,6 +102,7 @@ function signoffDto(
     evidence: (r.evidence ?? []) as EvidenceItem[],
     supersedesId: r.supersedesId,
     supersededBy: all.find((x) => x.supersedesId === r.id)?.id ?? null,
+    covers: r.covers,
   };
 }
 
@@ -294,6 +295,7 @@ export async function boardView(db: Db, siteId: string, boardId: string, now: Da
             signerName: cur.signerName,
             signedAt: cur.signedAt,
             reason: cur.reason,
+            covers: cur.covers,
           },
         };
       }),

@@ -66,6 +66,11 @@ export interface GateSignoff {
   signerName: string;
   signedAt: string;
   reason: string;
+  /**
+   * A release's blockers as they stood when the curator let them pass (`blockerKey`): a blocker that appears after it
+   * is not covered. Null on a release recorded before this was kept (it covers whatever blocks).
+   */
+  covers?: string[] | null;
 }
 export interface GateStep {
   id: string;
@@ -160,7 +165,20 @@ export interface HoldPoint {
   blockers: Blocker[];
   signoff: GateSignoff | null;
   qualifiedOnly: boolean;
+  /**
+   * Before the stage is energised, an entry in force stops counting when the evidence changes under it: a signed
+   * hold point with a blocker now, or a release with a blocker it did not cover, is "blocked" again, and says so.
+   */
+  overtaken: boolean;
+  /**
+   * What the hold point would be with no entry in force, and its blockers then: a new signature (also one that
+   * supersedes) needs "ready", a release "blocked" (server/return-to-service/service.ts).
+   */
+  unsigned: { state: HoldState; blockers: Blocker[] };
 }
+
+/** A blocker's identity across evaluations (its code and what it links to), not its words, which carry counts. */
+export const blockerKey = (b: Blocker) => `${b.code} ${b.href}`;
 export type StageState =
   "released" | "live" | "stopped" | "de_energised" | "ready_to_energise" | "blocked" | "preparing";
 export interface GateResult {
@@ -413,7 +431,8 @@ function afterEnergiseBlockers(kind: StepKind, input: GateInput, nowMs: number):
  * energisation when the stage has been energised (what was true when it was signed), else
  * as of `now`; open defects always count as of now. A hold point is met when signed, or
  * released with a reason by the curator; it can be signed only when it shows no blocker and
- * every hold point before it is met.
+ * every hold point before it is met. Before the energisation a signature stops counting while
+ * a blocker shows, and a release while a blocker it did not cover shows (`overtaken`).
  * @param now the moment of evaluation (ISO string)
  * @throws RangeError on unreadable dates or a non-positive reading age
  */
@@ -440,20 +459,37 @@ export function evaluateStage(input: GateInput, now: string): GateResult {
         ? []
         : (byKind.get(step.kind) ?? []);
     const cur = step.current && step.current.kind !== "struck" ? step.current : null;
-    let state: HoldState;
-    if (cur?.kind === "signed") state = "met";
-    else if (cur?.kind === "released") state = "released";
-    else if (blockers.length) state = "blocked";
-    else if (!allBeforeDone || (AFTER_ENERGISE_KINDS.has(step.kind) && !s.energisedAt)) state = "waiting";
-    else state = "ready";
+    const open: HoldState = blockers.length
+      ? "blocked"
+      : !allBeforeDone || (AFTER_ENERGISE_KINDS.has(step.kind) && !s.energisedAt)
+        ? "waiting"
+        : "ready";
+    // Until the stage is energised its evidence can still change (a defect raised, a reading aged or failed, the
+    // protection changed): an entry made before then holds only while nothing new blocks it (common practice: a
+    // hold point attests to the evidence as it stood, and the energisation needs it to stand).
+    const beforeEnergising = !s.energisedAt && !AFTER_ENERGISE_KINDS.has(step.kind);
+    let state: HoldState = open;
+    let shown = blockers;
+    let overtaken = false;
+    if (cur?.kind === "signed") {
+      if (beforeEnergising && blockers.length) overtaken = true;
+      else [state, shown] = ["met", []];
+    } else if (cur?.kind === "released") {
+      const covered = new Set(cur.covers ?? blockers.map(blockerKey));
+      const fresh = beforeEnergising ? blockers.filter((b) => !covered.has(blockerKey(b))) : [];
+      if (fresh.length) [overtaken, shown] = [true, fresh];
+      else state = "released";
+    }
     holdPoints.push({
       stepId: step.id,
       kind: step.kind,
       title: step.title,
       state,
-      blockers: state === "met" ? [] : blockers,
+      blockers: shown,
       signoff: step.current,
       qualifiedOnly: step.qualifiedOnly,
+      overtaken,
+      unsigned: { state: open, blockers },
     });
     if (state !== "met" && state !== "released") allBeforeDone = false;
   }

@@ -215,6 +215,8 @@ export interface RtsSignoff {
   evidence: EvidenceItem[];
   supersedesId: string | null;
   supersededBy: string | null;
+  /** A release's blockers as it saw them (src/domain/rts-gate.ts blockerKey). */
+  covers: string[] | null;
 }
 export interface RtsStep {
   id: string;

@@ -270,6 +270,107 @@ describe("the gate before energising: one row per blocker (source beside each)",
     expect(r.state).toBe("ready_to_energise");
     expect(JSON.stringify(r)).not.toMatch(/\bsafe\b/i);
   });
+  describe("evidence that changes under an entry before the energisation (common practice: a hold point attests to the evidence as it stood, and the energisation needs it to stand)", () => {
+    const PRE = ["isolate", "insulation", "defects", "protection", "clearance"];
+    it("a signed hold point with a blocker now is blocked again, says why, and nothing after it can be signed", () => {
+      const i = with_((x) => {
+        x.steps = steps(PRE);
+        x.stage.protectionRatingA = 63; // edited after "Temporary protection" was signed at 20 A
+      });
+      const r = evaluateStage(i, NOW);
+      const prot = r.holdPoints.find((h) => h.kind === "protection")!;
+      expect(prot).toMatchObject({ state: "blocked", overtaken: true });
+      expect(prot.signoff?.kind).toBe("signed");
+      expect(prot.blockers.map((b) => b.code)).toEqual(["protection_above_limit"]);
+      expect(r.holdPoints.find((h) => h.kind === "energise")!.state).toBe("waiting");
+      expect(r.state).toBe("blocked");
+      // The blocker goes (the rating put back): the signature counts again.
+      expect(
+        evaluateStage(
+          with_((x) => (x.steps = steps(PRE))),
+          NOW,
+        ).state,
+      ).toBe("ready_to_energise");
+    });
+
+    it("a release covers the blockers it saw, not one that appears after it; a release from before covers all", () => {
+      const d51 = {
+        id: "d51",
+        ref: 51,
+        title: "Lug re-made",
+        designation: "4-1",
+        safetyCritical: false,
+        blocksEnergisation: true,
+      };
+      const d2 = {
+        id: "d2",
+        ref: 2,
+        title: "Tracking on the line side",
+        designation: "1-5",
+        safetyCritical: true,
+        blocksEnergisation: true,
+      };
+      const released = (covers: string[] | null) =>
+        with_((x) => {
+          x.steps = steps(["isolate", "insulation"]);
+          x.steps[2].current = {
+            id: "rel",
+            kind: "released",
+            signerName: "Ines Marrow",
+            signedAt: NOW,
+            reason: "D-51 lug re-made, checked",
+            covers,
+          };
+          x.defects = [d51, d2];
+        });
+      const r = evaluateStage(released(["defect_open /defects/d51"]), NOW);
+      const hp = r.holdPoints.find((h) => h.kind === "defects")!;
+      expect(hp).toMatchObject({ state: "blocked", overtaken: true });
+      expect(hp.blockers.map((b) => b.message)).toEqual([
+        "D-2 open on 1-5: Tracking on the line side (safety-critical, blocks energisation).",
+      ]);
+      expect(hp.unsigned.blockers).toHaveLength(2);
+      expect(r.holdPoints.find((h) => h.kind === "protection")!.state).toBe("waiting");
+      expect(
+        evaluateStage(released(["defect_open /defects/d51", "defect_open /defects/d2"]), NOW).holdPoints[2].state,
+      ).toBe("released");
+      expect(evaluateStage(released(null), NOW).holdPoints[2]).toMatchObject({ state: "released", overtaken: false });
+    });
+
+    it("once energised, pre-energisation entries stand as signed (judged as of the energisation)", () => {
+      const i = with_((x) => {
+        x.steps = steps([...PRE, "energise"]);
+        x.stage.status = "energised";
+        x.stage.energisedAt = "2026-12-02T10:00:00Z";
+        x.defects = [
+          {
+            id: "d9",
+            ref: 9,
+            title: "Raised after",
+            designation: "1-1",
+            safetyCritical: true,
+            blocksEnergisation: true,
+          },
+        ];
+      });
+      const r = evaluateStage(i, NOW);
+      expect(r.holdPoints.find((h) => h.kind === "defects")).toMatchObject({
+        state: "met",
+        overtaken: false,
+        blockers: [],
+      });
+    });
+
+    it("says what the hold point would be with no entry in force (what a new signature or release must pass)", () => {
+      const r = evaluateStage(
+        with_((x) => ((x.steps = steps(["isolate"])), (x.circuits[0].readings = []))),
+        NOW,
+      );
+      expect(r.holdPoints[0]).toMatchObject({ state: "met", unsigned: { state: "ready", blockers: [] } });
+      expect(r.holdPoints[1].unsigned.state).toBe("blocked");
+    });
+  });
+
   it("a struck-out signature no longer counts", () => {
     const i = with_(
       (x) => (x.steps[0].current = { id: "a", kind: "struck", signerName: "T", signedAt: NOW, reason: "wrong board" }),

@@ -262,6 +262,155 @@ describe("the plan and its gate", () => {
   });
 });
 
+describe("entries overtaken before the energisation", () => {
+  const supersede = (who: string, entryId: string, body: Record<string, unknown>) =>
+    as[who].post(`${site()}/return-to-service/signoffs/${entryId}/supersede`, body);
+  const entryOf = (stage: any, kind: string) =>
+    stage.steps
+      .find((x: any) => x.kind === kind)
+      .entries.filter((e: any) => !e.supersededBy)
+      .at(-1);
+  const hold = (stage: any, kind: string) => stage.gate.holdPoints.find((h: any) => h.kind === kind);
+
+  it("a change of protection or scope after hold points were signed strikes them out, with the reason, and audits it", async () => {
+    await megger("1-1", 500);
+    await megger("1-2", 400);
+    const s = await newStage({ name: "Scope change test" });
+    for (const kind of ["isolate", "insulation", "defects", "protection", "clearance"])
+      expect((await sign("volunteer", s, kind, { note: kind === "protection" ? "20 A fuses" : "" })).status).toBe(201);
+    let now = await stageOf(s.id);
+    expect(now.gate.state).toBe("ready_to_energise");
+
+    // The words of the stage are not its scope: nothing is voided.
+    const named = await as.curator.patch(`${site()}/return-to-service/stages/${s.id}`, {
+      name: "Scope change test, renamed",
+      version: now.version,
+    });
+    expect(named.status, JSON.stringify(named.body)).toBe(200);
+    now = await stageOf(s.id);
+    expect(now.gate.state).toBe("ready_to_energise");
+
+    const r = await as.curator.patch(`${site()}/return-to-service/stages/${s.id}`, {
+      protectionRatingA: 25,
+      positionIds: [pos["4-1"]],
+      version: now.version,
+    });
+    expect(r.status, JSON.stringify(r.body)).toBe(200);
+    now = await stageOf(s.id);
+    for (const kind of ["isolate", "insulation", "defects", "protection", "clearance"]) {
+      const e = entryOf(now, kind);
+      expect(e.kind).toBe("struck");
+      expect(e.reason).toBe(
+        "Voided: the stage's positions, protection rating changed after this was signed. Check and sign it again.",
+      );
+    }
+    expect(hold(now, "isolate").state).toBe("ready");
+    expect(now.gate.state).not.toBe("ready_to_energise");
+    const audit = await t.db
+      .selectFrom("auditLog")
+      .select("after")
+      .where("entityId", "=", s.id)
+      .where("action", "=", "update")
+      .execute();
+    expect(audit.map((a: any) => a.after.voidedEntries ?? 0)).toEqual([0, 5]);
+    await as.curator.del(`${site()}/return-to-service/stages/${s.id}`);
+  });
+
+  it("a new signature in place of a release passes the gate as a first one would; a release covers only what it saw", async () => {
+    // A position of its own, so the defects raised here touch no other test.
+    const spare = (
+      await t.db
+        .insertInto("positions")
+        .values({
+          siteId: fx.siteId,
+          boardId,
+          designation: "6-1",
+          kind: "molded_case_breaker",
+          gridRow: 2,
+          gridCol: 1,
+          circuit: "Laundry",
+        })
+        .returning("id")
+        .executeTakeFirstOrThrow()
+    ).id;
+    await t.db
+      .insertInto("components")
+      .values({
+        siteId: fx.siteId,
+        positionId: spare,
+        kind: "molded_case_breaker",
+        poles: 3,
+        voltageRating: 500,
+        year: 1955,
+      })
+      .execute();
+    const s = await newStage({ name: "Supersede test", sectionIds: [], positionIds: [spare] });
+    expect((await sign("volunteer", s, "isolate")).status).toBe(201);
+    const rel = await sign("curator", s, "insulation", {
+      kind: "released",
+      reason: "Galley range disconnected at its isolator.",
+    });
+    expect(rel.status).toBe(201);
+    const released = entryOf(rel.body.stage, "insulation");
+
+    // A volunteer cannot turn the release into a plain signature while the reading is still missing.
+    const turned = await supersede("volunteer", released.id, { kind: "signed", reason: "Looks fine to me" });
+    expect(turned.status).toBe(409);
+    expect(turned.body.error.code).toBe("blocked");
+    expect(turned.body.error.message).toContain("6-1");
+    expect(hold(await stageOf(s.id), "insulation").state).toBe("released");
+    // Nor is a hold point that nothing blocks "released".
+    const iso = entryOf(await stageOf(s.id), "isolate");
+    expect(
+      (await supersede("curator", iso.id, { kind: "released", reason: "Released for no reason at all" })).body.error
+        .code,
+    ).toBe("not_blocked");
+
+    // A safety-critical defect raised on the stage after the release blocks again: the release did not see it.
+    const d = await as.curator.post(`${site()}/defects`, {
+      positionId: spare,
+      title: "Burnt terminal on the range feeder",
+      severity: "impaired",
+      category: "wiring",
+      boardId,
+      safetyCritical: true,
+      blocksEnergisation: true,
+    });
+    expect(d.status, JSON.stringify(d.body)).toBe(201);
+    const blocked = await stageOf(s.id);
+    const defects = hold(blocked, "defects");
+    expect(defects.state).toBe("blocked");
+    expect(defects.overtaken).toBe(false);
+    // Sign "defects" is refused; release the defects hold point, then the defect appears on another position…
+    const relD = await sign("curator", blocked, "defects", {
+      kind: "released",
+      reason: "Terminal replaced, defect kept open for the photo.",
+    });
+    expect(relD.status).toBe(201);
+    expect(hold(relD.body.stage, "defects").state).toBe("released");
+    const d2 = await as.curator.post(`${site()}/defects`, {
+      positionId: spare,
+      title: "Cracked arc chute on the range breaker",
+      severity: "impaired",
+      category: "wiring",
+      boardId,
+      safetyCritical: true,
+      blocksEnergisation: true,
+    });
+    expect(d2.status).toBe(201);
+    const after = hold(await stageOf(s.id), "defects");
+    expect(after).toMatchObject({ state: "blocked", overtaken: true });
+    expect(after.blockers.map((b: any) => b.message)).toEqual([expect.stringContaining("Cracked arc chute")]);
+    // The curator releases again, with a reason that covers both; the new release supersedes the old.
+    const again = await supersede("curator", entryOf(await stageOf(s.id), "defects").id, {
+      kind: "released",
+      reason: "Arc chute replaced from salvage; both defects kept open for their photos.",
+    });
+    expect(again.status, JSON.stringify(again.body)).toBe(201);
+    expect(hold(again.body.stage, "defects").state).toBe("released");
+  });
+});
+
 describe("sign-offs", () => {
   let stage: any;
   beforeAll(async () => {
