@@ -99,11 +99,25 @@ test("the curator plans two stages, fixes the gate's blockers and energises; a v
   await expect(hold(page, STAGE_1, "insulation")).toContainText("Waiting"); // for the hold point before it
 
   // Sign the hold points as the qualified person, then energise.
+  // Each signature asks once more, with room for what was checked; a mistake is struck out with a reason.
   for (const kind of ["isolate", "insulation", "defects", "protection", "clearance"]) {
-    await hold(page, STAGE_1, kind).getByRole("button", { name: "Sign this hold point" }).click();
-    await expect(hold(page, STAGE_1, kind)).toContainText("Signed by Ines Marrow");
+    const row = hold(page, STAGE_1, kind);
+    await row.getByRole("button", { name: "Sign this hold point…" }).click();
+    if (kind === "protection") await row.getByLabel(/^Note/).fill("20 A fuses in the fused disconnect");
+    await row.getByRole("button", { name: "Sign", exact: true }).click();
+    await expect(row).toContainText("Signed by Ines Marrow");
   }
+  await expect(hold(page, STAGE_1, "protection")).toContainText("20 A fuses in the fused disconnect");
+  const clear = hold(page, STAGE_1, "clearance");
+  await clear.getByRole("button", { name: /^Strike out the entry/ }).click();
+  await clear.getByLabel(/^Why strike it out/).fill("Signed before the last person came up the ladder");
+  await clear.getByRole("button", { name: "Strike it out" }).click();
+  await expect(clear).toContainText("Struck out by Ines Marrow");
+  await expect(one.getByTestId("stage-state")).not.toHaveText("Hold points met up to energising");
+  await clear.getByRole("button", { name: "Sign this hold point…" }).click();
+  await clear.getByRole("button", { name: "Sign", exact: true }).click();
   await expect(one.getByTestId("stage-state")).toHaveText("Hold points met up to energising");
+  await hold(page, STAGE_1, "energise").getByRole("button", { name: "Sign: energised now…" }).click();
   await hold(page, STAGE_1, "energise").getByRole("button", { name: "Sign: energised now" }).click();
   await expect(one.getByTestId("stage-state")).toHaveText("Live, under watch");
   await expect(one.getByTestId("watch-state")).toContainText("Next watch check due");

@@ -5,7 +5,12 @@
  * an energisation.
  */
 import type { z } from "zod";
-import { checkReorder, isQualifiedOn, QUALIFIED_ONLY_KINDS } from "../../src/domain/return-to-service";
+import {
+  AFTER_ENERGISE_KINDS,
+  checkReorder,
+  isQualifiedOn,
+  QUALIFIED_ONLY_KINDS,
+} from "../../src/domain/return-to-service";
 import { blockerKey, type HoldPoint } from "../../src/domain/rts-gate";
 import { classifyTemperatureRise } from "../../src/domain/thermal";
 import { judgeDeviceTime } from "../../src/domain/device-clock";
@@ -645,6 +650,8 @@ export async function sign(db: Db, ctx: Ctx, stepId: string, body: z.infer<typeo
         note: body.note,
         evidence: JSON.stringify(body.evidence),
         covers: body.kind === "released" ? hp.blockers.map(blockerKey) : null,
+        // After a strike (a person's, or a change of the stage's scope), the new entry continues the chain.
+        supersedesId: hp.signoff?.kind === "struck" ? hp.signoff.id : null,
       });
       if (body.kind === "signed" && step.kind === "energise") {
         const at = body.at ? new Date(body.at) : now;
@@ -721,6 +728,12 @@ export async function supersede(
           "The energisation or release has happened; correct its entry with a new signature, or de-energise the stage.",
         );
       if (body.kind === "signed" && step.qualifiedOnly) await assertQualified(trx, ctx, now);
+      if (body.kind === "struck" && s.status !== "planned" && !AFTER_ENERGISE_KINDS.has(step.kind))
+        throw new AppError(
+          409,
+          "in_effect",
+          "The stage was energised on this entry: correct it with a new entry, or de-energise and start a new attempt.",
+        );
       if (body.kind === "struck" && old.signedBy !== ctx.actor.id && !can(ctx.actor.role, "rts.plan"))
         throw forbidden("Only the person who signed, or the curator, strikes out an entry.");
       if (body.kind === "released" && step.qualifiedOnly)

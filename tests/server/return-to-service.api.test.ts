@@ -306,6 +306,13 @@ describe("entries overtaken before the energisation", () => {
     }
     expect(hold(now, "isolate").state).toBe("ready");
     expect(now.gate.state).not.toBe("ready_to_energise");
+    // Signed again, each entry continues its chain after the strike.
+    const again = await sign("volunteer", now, "isolate", { note: "Isolated again at the shore box" });
+    expect(again.status, JSON.stringify(again.body)).toBe(201);
+    const chain = again.body.stage.steps.find((x: any) => x.kind === "isolate").entries;
+    expect(chain.map((e: any) => e.kind)).toEqual(["signed", "struck", "signed"]);
+    expect(chain[2].supersedesId).toBe(chain[1].id);
+    expect(hold(again.body.stage, "isolate").state).toBe("met");
     const audit = await t.db
       .selectFrom("auditLog")
       .select("after")
@@ -467,6 +474,14 @@ describe("sign-offs", () => {
     expect(r.body.stage.status).toBe("energised");
     expect(r.body.stage.gate.state).toBe("live");
     expect((await view()).events.some((e: any) => e.kind === "energise" && e.stageId === stage.id)).toBe(true);
+    // The stage was energised on its entries: one is corrected by a new entry, not struck out.
+    const prot = r.body.stage.steps.find((x: any) => x.kind === "protection").entries.at(-1);
+    const struck = await as.curator.post(`${site()}/return-to-service/signoffs/${prot.id}/supersede`, {
+      kind: "struck",
+      reason: "Wrong fuse rating written",
+    });
+    expect(struck.status).toBe(409);
+    expect(struck.body.error.code).toBe("in_effect");
   });
 
   it("a qualification past its expiry no longer signs", async () => {

@@ -67,6 +67,7 @@ export default function BoardReturnToServicePage() {
             stage={s}
             role={role}
             isQualified={isQualified}
+            me={me}
             index={i}
             view={v}
           />

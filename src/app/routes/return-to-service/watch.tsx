@@ -114,11 +114,15 @@ export default function WatchPage() {
       )}
       {stopped.map((s) => (
         <p key={s.id} className="rounded-md border border-rust-400 p-3 text-sm">
-          <strong>{s.name}</strong> is stopped by an incident: no watch checks until the curator starts it again.
+          <strong>{s.name}</strong> is stopped by an incident. Stopped is not dead: treat it as live until its
+          de-energisation is recorded on the return-to-service page, and tell the qualified person what you see. Watch
+          checks start again with the stage's next attempt.
         </p>
       ))}
       {!stage ? (
-        <p>No stage of {q.data.board.name} is live under watch.</p>
+        <p>
+          {stopped.length ? "No other stage" : "No stage"} of {q.data.board.name} is under watch.
+        </p>
       ) : (
         <form className="space-y-4" onSubmit={(e) => void submit(e)} noValidate aria-label="Watch check">
           <p className="text-sm">

@@ -5,6 +5,7 @@ import { Button } from "../../../components/button";
 import { TextArea, TextField } from "../../../components/field";
 import { can } from "../../../domain/permissions";
 import { HOLD_STATE_LABELS, type HoldPoint } from "../../../domain/rts-gate";
+import { AFTER_ENERGISE_KINDS } from "../../../domain/return-to-service";
 import type { Role } from "../../../domain/vocab";
 import { ApiError } from "../../../lib/api-client";
 import { fieldError, formMessage, serverMessage, showSaveError, useSchemaForm } from "../../../lib/form";
@@ -12,6 +13,7 @@ import {
   RELEASE_REASON_MIN,
   patchStepBody,
   signBody,
+  supersedeBody,
   type RtsStage,
   type RtsStep,
 } from "../../../schemas/return-to-service";
@@ -137,6 +139,9 @@ const releaseForm = (attempt: number) =>
     .transform((v) => ({ kind: "released", reason: v.reason, attempt }) as z.input<typeof signBody>)
     .pipe(signBody);
 
+/** The entry in force on a hold point (the last of its chain not superseded), if any. */
+const inForce = (step: RtsStep) => step.entries.filter((e) => !e.supersededBy && e.kind !== "struck").at(-1) ?? null;
+
 /** The curator lets a blocked hold point pass, with a reason recorded and shown in red for ever. */
 function ReleaseForm({
   siteId,
@@ -153,9 +158,19 @@ function ReleaseForm({
   const schema = useMemo(() => releaseForm(stage.attempt), [stage.attempt]);
   const form = useSchemaForm(schema, { reason: "" });
   const { register, formState } = form;
+  // A release that no longer covers what blocks is replaced by a new one (it supersedes the old entry).
+  const entry = inForce(stage.steps.find((x) => x.id === hp.stepId)!);
   const submit = form.handleSubmit((body) =>
     act
-      .mutateAsync({ method: "POST", path: `/return-to-service/steps/${hp.stepId}/signoffs`, body })
+      .mutateAsync(
+        entry
+          ? {
+              method: "POST",
+              path: `/return-to-service/signoffs/${entry.id}/supersede`,
+              body: { kind: "released", reason: body.reason } satisfies z.input<typeof supersedeBody>,
+            }
+          : { method: "POST", path: `/return-to-service/steps/${hp.stepId}/signoffs`, body },
+      )
       .then(onDone, (err: unknown) => showSaveError(form, err)),
   );
   const message = serverMessage(formState.errors);
@@ -191,10 +206,153 @@ function ReleaseForm({
 }
 
 /**
+ * Signing asks once more, with room for what was checked (a fuse's rating, where it was isolated): a signature
+ * cannot be taken back, only struck out with a reason. Energising past a breaker's operation budget says so here.
+ */
+function SignForm({
+  siteId,
+  stage,
+  hp,
+  overBudget,
+  onDone,
+}: {
+  siteId: string;
+  stage: RtsStage;
+  hp: HoldPoint;
+  overBudget: RtsStage["operationWarnings"];
+  onDone: () => void;
+}) {
+  const act = useRtsAction(siteId);
+  const [note, setNote] = useState("");
+  const energise = hp.kind === "energise";
+  const error = act.error instanceof ApiError ? act.error.message : act.error ? String(act.error) : null;
+  const submit = () =>
+    act
+      .mutateAsync({
+        method: "POST",
+        path: `/return-to-service/steps/${hp.stepId}/signoffs`,
+        body: { attempt: stage.attempt, note: note.trim() } satisfies z.input<typeof signBody>,
+      })
+      .then(onDone, () => {});
+  return (
+    <form
+      className="mt-2 space-y-2 rounded-md bg-hull-850 p-2 ring-1 ring-hull-600"
+      aria-label={`Sign ${hp.title}`}
+      onSubmit={(ev) => {
+        ev.preventDefault();
+        void submit();
+      }}
+      noValidate
+    >
+      {overBudget.length > 0 && (
+        <div role="alert" className="rounded-md border border-brass-400 p-2 text-sm">
+          <p className="font-semibold text-brass-300">Energising this stage operates breakers past their budget:</p>
+          <ul className="list-inside list-disc">
+            {overBudget.map((w) => (
+              <li key={w.componentId}>
+                {w.designation}: {w.warning}
+              </li>
+            ))}
+          </ul>
+          <p className="mt-1">The budget warns; it does not stop you. Sign only if the qualified person decides so.</p>
+        </div>
+      )}
+      <TextArea
+        label={energise ? "Note (optional: the supply and device, who was clear)" : "Note (optional: what you checked)"}
+        value={note}
+        maxLength={2000}
+        rows={2}
+        onChange={(e) => setNote(e.target.value)}
+      />
+      <p className="text-sm text-mist">
+        {energise
+          ? "Records the energisation now, in your name. Energise from a safe position, under NFPA 70E and local rules."
+          : "Recorded in your name and kept; a mistake is struck out with a reason, never erased."}
+      </p>
+      {error && (
+        <p role="alert" className="text-sm text-rust-300">
+          {error}
+        </p>
+      )}
+      <div className="flex flex-wrap gap-2">
+        <Button type="submit" disabled={act.isPending}>
+          {energise ? (overBudget.length ? "Sign anyway: energised now" : "Sign: energised now") : "Sign"}
+        </Button>
+        <Button tone="quiet" onClick={onDone}>
+          Cancel
+        </Button>
+      </div>
+    </form>
+  );
+}
+
+/** Strikes out the entry in force, with a reason (it supersedes the entry; both stay in the log). */
+function StrikeForm({
+  siteId,
+  entryId,
+  title,
+  onDone,
+}: {
+  siteId: string;
+  entryId: string;
+  title: string;
+  onDone: () => void;
+}) {
+  const act = useRtsAction(siteId);
+  const [reason, setReason] = useState("");
+  const [tooShort, setTooShort] = useState(false);
+  const error = act.error instanceof ApiError ? act.error.message : act.error ? String(act.error) : null;
+  return (
+    <form
+      className="mt-2 space-y-2 rounded-md bg-hull-850 p-2 ring-1 ring-hull-600"
+      aria-label={`Strike out the entry on ${title}`}
+      onSubmit={(ev) => {
+        ev.preventDefault();
+        if (reason.trim().length < 3) return setTooShort(true);
+        act
+          .mutateAsync({
+            method: "POST",
+            path: `/return-to-service/signoffs/${entryId}/supersede`,
+            body: { kind: "struck", reason: reason.trim() } satisfies z.input<typeof supersedeBody>,
+          })
+          .then(onDone, () => {});
+      }}
+      noValidate
+    >
+      <TextArea
+        label="Why strike it out (kept in the log)"
+        value={reason}
+        maxLength={2000}
+        rows={2}
+        required
+        onChange={(e) => {
+          setReason(e.target.value);
+          setTooShort(false);
+        }}
+        error={tooShort ? "Say why the entry is struck out" : undefined}
+      />
+      {error && (
+        <p role="alert" className="text-sm text-rust-300">
+          {error}
+        </p>
+      )}
+      <div className="flex flex-wrap gap-2">
+        <Button type="submit" tone="danger" disabled={act.isPending}>
+          Strike it out
+        </Button>
+        <Button tone="quiet" onClick={onDone}>
+          Cancel
+        </Button>
+      </div>
+    </form>
+  );
+}
+
+/**
  * One hold point: its state, what blocks it (each with a link), who signed what, and the
- * controls the person's role allows. Energising a stage that would operate a breaker past its
- * budget asks once more, with the suggestion to feed from the temporary supply instead; the
- * budget never blocks.
+ * controls the person's role allows: sign (asked once more, with a note), release with a reason,
+ * strike out. Energising a stage that would operate a breaker past its budget says so before
+ * the signature; the budget never blocks. An entry overtaken by new evidence says so.
  */
 export function HoldPointRow({
   siteId,
@@ -203,6 +361,7 @@ export function HoldPointRow({
   index,
   role,
   isQualified,
+  me,
   editing,
 }: {
   siteId: string;
@@ -211,22 +370,23 @@ export function HoldPointRow({
   index: number;
   role: Role | "admin";
   isQualified: boolean;
+  /** The signed-in person's id: they may strike out their own entries. */
+  me: string | undefined;
   /** The curator is editing this stage's hold points. */
   editing: boolean;
 }) {
-  const act = useRtsAction(siteId);
-  const [releasing, setReleasing] = useState(false);
-  const [confirmBudget, setConfirmBudget] = useState(false);
+  const [open, setOpen] = useState<"sign" | "release" | "strike" | null>(null);
   const step = stage.steps.find((s) => s.id === hp.stepId)!;
   const may = hp.qualifiedOnly ? isQualified && can(role, "rts.sign") : can(role, "rts.sign");
-  const error = act.error instanceof ApiError ? act.error.message : act.error ? String(act.error) : null;
-  const sign = () =>
-    act.mutate({
-      method: "POST",
-      path: `/return-to-service/steps/${hp.stepId}/signoffs`,
-      body: { attempt: stage.attempt } satisfies z.input<typeof signBody>,
-    });
   const overBudget = hp.kind === "energise" ? stage.operationWarnings : [];
+  const entry = inForce(step);
+  // The signer or the curator strikes an entry out while it can still change what happens: before the energisation,
+  // or an after-energisation hold point while the stage is live. Once the stage was energised on an entry, it is
+  // corrected by a new one (the server refuses a strike there).
+  const strikable =
+    stage.status === "planned" ||
+    (stage.status === "energised" && AFTER_ENERGISE_KINDS.has(hp.kind) && !hp.qualifiedOnly);
+  const mayStrike = !!entry && strikable && can(role, "rts.sign") && (entry.signedBy === me || can(role, "rts.plan"));
   return (
     <li className={`rounded-md border-l-4 bg-hull-900 p-3 ${STATE_CLASS[hp.state]}`} data-testid={`hold-${hp.kind}`}>
       <div className="flex flex-wrap items-baseline justify-between gap-2">
@@ -261,43 +421,38 @@ export function HoldPointRow({
           {e.note && ` · ${e.note}`}
         </p>
       ))}
-      {hp.state === "ready" && may && overBudget.length > 0 && confirmBudget && (
-        <div role="alert" className="mt-2 rounded-md border border-brass-400 p-2 text-sm">
-          <p className="font-semibold text-brass-300">Energising this stage operates breakers past their budget:</p>
-          <ul className="list-inside list-disc">
-            {overBudget.map((w) => (
-              <li key={w.componentId}>
-                {w.designation}: {w.warning}
-              </li>
-            ))}
-          </ul>
-          <p className="mt-1">The budget warns; it does not stop you. Sign only if the qualified person decides so.</p>
+      {hp.overtaken && (
+        <p className="mt-2 rounded-md bg-rust-700/30 p-2 text-sm ring-1 ring-rust-400">
+          {hp.signoff?.kind === "released"
+            ? "Something blocks that this release did not cover: it counts again only when that is dealt with, or released again with a reason that covers it."
+            : "Signed before what blocks now: it counts again only when nothing blocks it. Strike it out and sign afresh once the evidence is in place."}
+        </p>
+      )}
+      {open === null && (
+        <div className="mt-2 flex flex-wrap gap-2">
+          {hp.state === "ready" && may && (
+            <Button onClick={() => setOpen("sign")}>
+              {hp.kind === "energise" ? "Sign: energised now…" : "Sign this hold point…"}
+            </Button>
+          )}
+          {hp.state === "blocked" && !hp.qualifiedOnly && can(role, "rts.release_blocked") && (
+            <Button tone="danger" onClick={() => setOpen("release")}>
+              {entry?.kind === "released" ? "Release again with a reason…" : "Release with a reason…"}
+            </Button>
+          )}
+          {mayStrike && (
+            <Button tone="quiet" onClick={() => setOpen("strike")} aria-label={`Strike out the entry on ${hp.title}…`}>
+              Strike out…
+            </Button>
+          )}
         </div>
       )}
-      <div className="mt-2 flex flex-wrap gap-2">
-        {hp.state === "ready" && may && (
-          <Button
-            onClick={() => (overBudget.length && !confirmBudget ? setConfirmBudget(true) : sign())}
-            disabled={act.isPending}
-          >
-            {hp.kind === "energise"
-              ? confirmBudget
-                ? "Sign anyway: energised now"
-                : "Sign: energised now"
-              : "Sign this hold point"}
-          </Button>
-        )}
-        {hp.state === "blocked" && !hp.qualifiedOnly && can(role, "rts.release_blocked") && !releasing && (
-          <Button tone="danger" onClick={() => setReleasing(true)}>
-            Release with a reason…
-          </Button>
-        )}
-      </div>
-      {releasing && <ReleaseForm siteId={siteId} stage={stage} hp={hp} onDone={() => setReleasing(false)} />}
-      {error && (
-        <p role="alert" className="mt-2 text-sm text-rust-300">
-          {error}
-        </p>
+      {open === "sign" && (
+        <SignForm siteId={siteId} stage={stage} hp={hp} overBudget={overBudget} onDone={() => setOpen(null)} />
+      )}
+      {open === "release" && <ReleaseForm siteId={siteId} stage={stage} hp={hp} onDone={() => setOpen(null)} />}
+      {open === "strike" && entry && (
+        <StrikeForm siteId={siteId} entryId={entry.id} title={hp.title} onDone={() => setOpen(null)} />
       )}
       {editing && stage.status === "planned" && can(role, "rts.plan") && (
         <StepEditor siteId={siteId} stage={stage} index={index} hp={hp} />

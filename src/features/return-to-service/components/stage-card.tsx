@@ -72,6 +72,7 @@ export function StageCard({
   stage,
   role,
   isQualified,
+  me,
   index,
   view,
 }: {
@@ -80,6 +81,8 @@ export function StageCard({
   stage: RtsStage;
   role: Role | "admin";
   isQualified: boolean;
+  /** The signed-in person's id: they may strike out their own entries. */
+  me: string | undefined;
   index: number;
   view: RtsBoardView;
 }) {
@@ -101,6 +104,7 @@ export function StageCard({
           index={i}
           role={role}
           isQualified={isQualified}
+          me={me}
           editing={editSteps}
         />
       ))}

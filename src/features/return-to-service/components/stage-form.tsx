@@ -264,6 +264,13 @@ export function StageForm({
         />
       </div>
       <TextArea label="Notes" {...register("notes")} error={e("notes")} />
+      {stage?.status === "planned" && signedCount(stage) > 0 && (
+        <p className="rounded-md bg-brass-700/20 p-2 text-sm ring-1 ring-brass-400">
+          {signedCount(stage) === 1 ? "1 hold point is" : `${signedCount(stage)} hold points are`} signed or released
+          for this stage. Changing its sections, positions, supply, protection or voltage strikes them out, with the
+          reason: they are checked and signed again. Its name, person, watch and notes do not.
+        </p>
+      )}
       {message && (
         <p role="alert" className="text-sm text-rust-300">
           {message}
@@ -280,6 +287,10 @@ export function StageForm({
     </form>
   );
 }
+
+/** Entries in force on the stage's hold points (signed or released, not struck out or superseded). */
+const signedCount = (stage: RtsStage) =>
+  stage.steps.filter((st) => st.entries.some((x) => !x.supersededBy && x.kind !== "struck")).length;
 
 /** "Add a stage" for the curator; the form opens in place. */
 export function NewStageForm({ siteId, view }: { siteId: string; view: RtsBoardView }) {
