@@ -132,3 +132,21 @@ test("an impossible reading is refused with a message beside the field, and noth
   await expect(form.getByLabel("Reading (MΩ)")).toHaveAttribute("aria-invalid", "true");
   await expect(page.getByTestId("insulation-reading").filter({ hasText: "Refused reading check" })).toHaveCount(0);
 });
+
+test("'Measured at' keeps to the clock while the form stays open, until the volunteer types a time", async ({
+  page,
+}) => {
+  // The page's own clock, moved on by Playwright: a form left open at the board must not stamp the minute it opened.
+  await page.clock.install({ time: new Date("2026-12-05T21:00:00") });
+  await signIn(page, "volunteer");
+  await openMainBoard(page);
+  const form = page.getByRole("form", { name: "Record an insulation-resistance reading" });
+  const when = form.getByLabel("Measured at");
+  await expect(when).toHaveValue(/^2026-12-05T21:0\d$/);
+  await page.clock.fastForward("12:00");
+  await expect(when).toHaveValue(/^2026-12-05T21:1\d$/);
+  // Typed by hand, it stays as typed.
+  await when.fill("2026-12-05T18:30");
+  await page.clock.fastForward("05:00");
+  await expect(when).toHaveValue("2026-12-05T18:30");
+});

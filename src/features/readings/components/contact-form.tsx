@@ -6,7 +6,15 @@ import { fieldError, formMessage, localDateTime, numberText, showSaveError, useS
 import { contactReadingBody } from "../../../schemas/readings";
 import { useRecordContact } from "../api";
 import { localNow } from "../format";
-import { ComponentSelect, FormShell, KeptOnPhone, NumberField, WhenField, type TargetOption } from "./form-bits";
+import {
+  ComponentSelect,
+  FormShell,
+  KeptOnPhone,
+  NumberField,
+  WhenField,
+  type TargetOption,
+  useFreshWhen,
+} from "./form-bits";
 import { VerdictBadge } from "./verdict-badge";
 
 const POLE_COUNTS = [1, 2, 3, 4];
@@ -56,6 +64,7 @@ export function ContactForm({
     [defaultComponentId, options],
   );
   const form = useSchemaForm(contactForm, defaults);
+  useFreshWhen(form);
   const errors = form.formState.errors;
   const poles = Number(form.watch("poles"));
   const [saved, setSaved] = useState<null | { verdict: Verdict; reasons: string[] }>(null);

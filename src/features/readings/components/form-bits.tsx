@@ -1,5 +1,7 @@
-import type { ComponentProps, ReactNode } from "react";
+import { useEffect, type ComponentProps, type ReactNode } from "react";
+import type { FieldValues, Path, PathValue, UseFormReturn } from "react-hook-form";
 import { SelectField, TextField } from "../../../components/field";
+import { localNow } from "../format";
 
 export interface TargetOption {
   componentId: string;
@@ -68,6 +70,23 @@ export function KeptOnPhone({ what }: { what: string }) {
       </p>
     </div>
   );
+}
+
+/**
+ * Keeps "Measured at" on the clock while nobody has typed in it: a form left open at the board (or kept for the next
+ * reading after a save) otherwise stamps every reading with the minute the page was opened. A time the person typed
+ * stays as typed.
+ */
+export function useFreshWhen<V extends FieldValues & { measuredAt: string }>(form: UseFormReturn<V, unknown, unknown>) {
+  useEffect(() => {
+    const name = "measuredAt" as Path<V>;
+    const tick = () => {
+      if (!form.getFieldState(name).isDirty)
+        form.setValue(name, localNow() as PathValue<V, Path<V>>, { shouldDirty: false });
+    };
+    const timer = setInterval(tick, 15_000);
+    return () => clearInterval(timer);
+  }, [form]);
 }
 
 /** When the reading was taken: `{...register("measuredAt")}`, its default `localNow()` in the form's defaults. */

@@ -5,7 +5,7 @@ import { fieldError, formMessage, localDateTime, numberText, showSaveError, useS
 import { LAMP_LOOKS, PHASE_KEYS, groundCheckBody } from "../../../schemas/readings";
 import { useRecordGroundCheck } from "../api";
 import { localNow } from "../format";
-import { FormShell, KeptOnPhone, NumberField, WhenField } from "./form-bits";
+import { FormShell, KeptOnPhone, NumberField, WhenField, useFreshWhen } from "./form-bits";
 
 const LOOK_LABEL = { bright: "Bright", dim: "Dim", dark: "Dark" } as const;
 
@@ -62,6 +62,7 @@ export function GroundCheckForm({
     [lineVolts],
   );
   const form = useSchemaForm(groundCheckForm, defaults);
+  useFreshWhen(form);
   const errors = form.formState.errors;
   const mode = form.watch("mode");
   const [saved, setSaved] = useState<string | null>(null);

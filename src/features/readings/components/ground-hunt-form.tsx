@@ -7,7 +7,7 @@ import { pendingFor, useOutbox } from "../../../lib/outbox";
 import { huntStepsUrl, useRecordHuntStep } from "../api";
 import { localNow } from "../format";
 import { ChoiceChips } from "./choice-chips";
-import { FormShell, WhenField } from "./form-bits";
+import { FormShell, WhenField, useFreshWhen } from "./form-bits";
 import { GroundHuntLog } from "./ground-hunt-log";
 import { LiveWorkCaution } from "./live-work-caution";
 
@@ -74,6 +74,7 @@ export function GroundHuntForm({
     measuredAt: localNow(),
   }));
   const form = useSchemaForm(schema, defaults);
+  useFreshWhen(form);
   const errors = form.formState.errors;
   const [hunt, feeder] = form.watch(["hunt", "feederPick"]);
   const [justSaved, setJustSaved] = useState(false);

@@ -21,7 +21,15 @@ import {
 import { useRecordInsulation } from "../api";
 import { localNow, megohms } from "../format";
 import { CircuitTargetFields, circuitOf, targetLabel } from "./circuit-target-fields";
-import { FormShell, NumberField, QualifierField, WhenField, KeptOnPhone, type TargetOption } from "./form-bits";
+import {
+  FormShell,
+  NumberField,
+  QualifierField,
+  WhenField,
+  KeptOnPhone,
+  type TargetOption,
+  useFreshWhen,
+} from "./form-bits";
 import { VerdictBadge } from "./verdict-badge";
 
 /** The form's text → the request body; insulationReadingBody (shared with the server) validates it. */
@@ -92,6 +100,7 @@ export function InsulationForm({
   const save = useRecordInsulation(siteId, boardId);
   const schema = useMemo(() => insulationForm(options), [options]);
   const form = useSchemaForm(schema, blank(defaultComponentId));
+  useFreshWhen(form);
   const errors = form.formState.errors;
   const [last, setLast] = useState<InsulationReading | null>(null);
   const [queued, setQueued] = useState(false);

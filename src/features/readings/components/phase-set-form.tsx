@@ -22,7 +22,7 @@ import {
 import { useRecordInsulation } from "../api";
 import { localNow, megohms } from "../format";
 import { CircuitTargetFields, circuitOf, targetLabel } from "./circuit-target-fields";
-import { FormShell, NumberField, QualifierField, WhenField, type TargetOption } from "./form-bits";
+import { FormShell, NumberField, QualifierField, WhenField, type TargetOption, useFreshWhen } from "./form-bits";
 import { LiveWorkCaution } from "./live-work-caution";
 import { PhaseComparisonCard } from "./phase-comparison-list";
 import { VerdictBadge } from "./verdict-badge";
@@ -109,6 +109,7 @@ function PhaseSet({
     qualifierB: "",
     qualifierC: "",
   });
+  useFreshWhen(form);
   const errors = form.formState.errors;
   const e = (name: keyof PhaseSetValues) => fieldError(errors, name);
   const [notice, setNotice] = useState<string | null>(null);

@@ -15,7 +15,15 @@ import { CONDUCTORS, CONDUCTOR_LABELS, stepVoltageBody, type StepVoltageTest } f
 import { useRecordStepTest } from "../api";
 import { localNow, sig } from "../format";
 import { circuitOf } from "./circuit-target-fields";
-import { ComponentSelect, FormShell, KeptOnPhone, NumberField, WhenField, type TargetOption } from "./form-bits";
+import {
+  ComponentSelect,
+  FormShell,
+  KeptOnPhone,
+  NumberField,
+  WhenField,
+  type TargetOption,
+  useFreshWhen,
+} from "./form-bits";
 import { JudgedResult } from "./judged-result";
 import { LiveWorkCaution } from "./live-work-caution";
 
@@ -75,6 +83,7 @@ export function StepVoltageForm({
     [defaultComponentId],
   );
   const form = useSchemaForm(schema, defaults);
+  useFreshWhen(form);
   const errors = form.formState.errors;
   const steps = useFieldArray({ control: form.control, name: "steps" });
   const [saved, setSaved] = useState<StepVoltageTest | null>(null);

@@ -13,7 +13,15 @@ import {
 import { thermalScanBody } from "../../../schemas/readings";
 import { useRecordThermal } from "../api";
 import { localNow } from "../format";
-import { ComponentSelect, FormShell, KeptOnPhone, NumberField, WhenField, type TargetOption } from "./form-bits";
+import {
+  ComponentSelect,
+  FormShell,
+  KeptOnPhone,
+  NumberField,
+  WhenField,
+  type TargetOption,
+  useFreshWhen,
+} from "./form-bits";
 
 /** The scan and the component it is taken on (a path parameter, so the form alone asks for it). */
 const thermalBody = thermalScanBody.and(
@@ -70,6 +78,7 @@ export function ThermalForm({
     [defaultComponentId, options],
   );
   const form = useSchemaForm(thermalForm, defaults);
+  useFreshWhen(form);
   const errors = form.formState.errors;
   const [saved, setSaved] = useState<string | null>(null);
   const [queued, setQueued] = useState(false);

@@ -7,7 +7,15 @@ import { TRIP_TEST_LABELS, TRIP_TESTS, tripTestBody, type TripTest } from "../..
 import { useRecordTripTest } from "../api";
 import { localNow } from "../format";
 import { ChoiceChips } from "./choice-chips";
-import { ComponentSelect, FormShell, KeptOnPhone, NumberField, WhenField, type TargetOption } from "./form-bits";
+import {
+  ComponentSelect,
+  FormShell,
+  KeptOnPhone,
+  NumberField,
+  WhenField,
+  type TargetOption,
+  useFreshWhen,
+} from "./form-bits";
 import { JudgedResult } from "./judged-result";
 import { LiveWorkCaution } from "./live-work-caution";
 
@@ -108,6 +116,7 @@ export function TripTestForm({
     [defaultComponentId, options, systemVolts],
   );
   const form = useSchemaForm(tripTestForm, defaults);
+  useFreshWhen(form);
   const errors = form.formState.errors;
   const [test, unit, adjustable, noTrip] = form.watch(["test", "tripUnit", "adjustable", "noTrip"]);
   const [saved, setSaved] = useState<TripTest | null>(null);
