@@ -47,7 +47,7 @@ function Facet({
         {chosen.length > 0 && <span className="rounded bg-hull-950 px-1.5 text-xs">{chosen.length}</span>}{" "}
         <span aria-hidden="true">▾</span>
       </summary>
-      <fieldset className="absolute z-20 mt-1 max-h-80 w-64 overflow-auto rounded-md bg-hull-800 p-2 shadow-lg ring-1 ring-hull-600">
+      <fieldset className="absolute z-20 mt-1 max-h-80 w-64 overflow-auto max-sm:fixed max-sm:inset-x-4 max-sm:w-auto rounded-md bg-hull-800 p-2 shadow-lg ring-1 ring-hull-600">
         <legend className="sr-only">{label}</legend>
         {options.map(([v, text]) => (
           <label key={v} className="flex min-h-11 cursor-pointer items-center gap-2 rounded px-2 hover:bg-hull-700">

@@ -14,6 +14,8 @@ export interface RegisterRowsProps {
   onState: (patch: Partial<RegisterState>) => void;
   selection: RowSelectionState;
   onSelection: (s: RowSelectionState) => void;
+  /** Selection serves the bulk actions: a role without them gets no boxes that do nothing. */
+  canSelect: boolean;
   busy: boolean;
 }
 
@@ -42,11 +44,23 @@ const HEAD = 60;
 const reserved = (rows: number) => ({ minHeight: `min(70vh, ${HEAD + rows * ROW}px)` });
 
 /** The register's TanStack table over the rows drawn so far (the first screenful, then the rest): shared by both layouts. */
-function useRegisterRows({ siteId, rows, total, state, onState, selection, onSelection }: RegisterRowsProps) {
+function useRegisterRows({
+  siteId,
+  rows,
+  total,
+  state,
+  onState,
+  selection,
+  onSelection,
+  canSelect,
+}: RegisterRowsProps) {
   const columns = useMemo(() => makeColumns(siteId), [siteId]);
   const shown = useFirstScreenful(rows);
   const order = state.cols.length ? [...new Set(["select", ...state.cols, ...DEFAULT_ORDER])] : DEFAULT_ORDER;
-  const visibility = useMemo(() => Object.fromEntries(state.hide.map((id) => [id, false])), [state.hide]);
+  const visibility = useMemo(
+    () => ({ ...Object.fromEntries(state.hide.map((id) => [id, false])), ...(canSelect ? {} : { select: false }) }),
+    [state.hide, canSelect],
+  );
   const sorting = useMemo(() => [{ id: state.sort, desc: state.dir === "desc" }], [state.sort, state.dir]);
   const pagination = useMemo(() => ({ pageIndex: state.page, pageSize: state.size }), [state.page, state.size]);
   const table = useTable({
@@ -57,6 +71,7 @@ function useRegisterRows({ siteId, rows, total, state, onState, selection, onSel
     rowCount: total,
     manualSorting: true,
     manualPagination: true,
+    enableRowSelection: canSelect,
     enableSortingRemoval: false,
     enableMultiSort: false,
     state: { sorting, pagination, columnVisibility: visibility, columnOrder: order, rowSelection: selection },
@@ -231,7 +246,9 @@ export function RegisterCards(props: RegisterRowsProps) {
               className={`rounded-lg p-3 ring-1 ${row.getIsSelected() ? "bg-brass-700/25 ring-brass-400" : "bg-hull-850 ring-hull-700"} focus-within:outline focus-within:outline-2 focus-within:outline-brass-400`}
             >
               <div className="flex items-start gap-3">
-                <span className="-m-3 flex min-h-11 min-w-11 items-center justify-center">{cell("select")}</span>
+                {props.canSelect && (
+                  <span className="-m-3 flex min-h-11 min-w-11 items-center justify-center">{cell("select")}</span>
+                )}
                 <div className="min-w-0 flex-1 space-y-2">
                   <div className="flex flex-wrap items-baseline justify-between gap-x-3">
                     {cell("ref")}

@@ -59,7 +59,8 @@ export function Register({ siteId, canManage, canRaise }: { siteId: string; canM
       )}
       {wide && (
         <p id="register-keys" className="text-xs text-fog">
-          Keys: ↑ ↓ move between defects, Enter opens one, x selects it. Click a column heading to sort by it.
+          Keys: ↑ ↓ move between defects, Enter opens one{canManage ? ", x selects it" : ""}. Click a column heading to
+          sort by it.
         </p>
       )}
       {list.isPending && <Loading what="Loading the register" />}
@@ -99,6 +100,7 @@ export function Register({ siteId, canManage, canRaise }: { siteId: string; canM
             onState={onState}
             selection={selection}
             onSelection={setSelection}
+            canSelect={canManage}
             busy={list.isFetching}
           />
           <nav aria-label="Pages of the register" className="flex flex-wrap items-center gap-3 text-sm">
