@@ -182,6 +182,8 @@ export interface CustodyMovesTable {
   note: Text;
   movedBy: string | null;
   movedAt: Timestamp;
+  /** When the move was made on the phone (its clock corrected), when it was kept there and sent later; else null. */
+  madeAt: Timestamp | null;
   /** Rules of src/domain/custody-chain.ts the curator released for this move. */
   releasedRules: ColumnType<string[], string[] | undefined, string[]>;
   releaseReason: Generated<string>;

@@ -130,6 +130,7 @@ test.describe("with no signal, on a 360 px phone", () => {
       if (route.request().method() === "POST") await held;
       await route.continue();
     });
+    const backInRange = Date.now();
     await context.setOffline(false);
     await again.evaluate(() => window.dispatchEvent(new Event("online")));
     await expect(again.getByTestId("photo-progress")).toContainText("Sending photos: 0 of 1", { timeout: 30_000 });
@@ -141,10 +142,12 @@ test.describe("with no signal, on a 360 px phone", () => {
     // Through the API: each exists exactly once.
     const api = await apiAs(baseURL!, "volunteer");
     const d = (await (await api.get(`/api/sites/${m.siteId}/positions/${m.positionId}`)).json()) as {
-      inspections: Array<{ percentRusted: number }>;
+      inspections: Array<{ percentRusted: number; inspectedAt: string }>;
       custodyMoves: Array<{ id: string; toState: string; location: string }>;
     };
     expect(d.inspections.map((i) => i.percentRusted).sort((a, b) => a - b)).toEqual([1, 3, 10]);
+    // Each keeps when it was made on the phone, not when the signal came back.
+    for (const i of d.inspections) expect(Date.parse(i.inspectedAt)).toBeLessThan(backInRange);
     expect(d.custodyMoves.filter((c) => c.toState === "removed")).toHaveLength(1);
     const moveId = d.custodyMoves.find((c) => c.toState === "removed")!.id;
     const photos = (await (await api.get(`/api/sites/${m.siteId}/photos?custodyMoveId=${moveId}`)).json()) as {

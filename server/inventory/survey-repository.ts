@@ -92,6 +92,7 @@ const moveCols = [
   "m.movedBy",
   "u.name as movedByName",
   "m.movedAt",
+  "m.madeAt",
   "m.releasedRules",
   "m.releaseReason",
 ] as const;

@@ -3,6 +3,7 @@
  * custody moves; only the curator edits nameplates and decides dispositions.
  */
 import { Router } from "express";
+import { deviceTimeOf } from "../middleware/device-time";
 import {
   componentParams,
   createInspectionBody,
@@ -34,7 +35,14 @@ export function surveyRoutes(db: Db) {
     res
       .status(201)
       .json(
-        await service.createInspection(db, siteId, componentId, actorOf(res), createInspectionBody.parse(req.body)),
+        await service.createInspection(
+          db,
+          siteId,
+          componentId,
+          actorOf(res),
+          createInspectionBody.parse(req.body),
+          deviceTimeOf(req),
+        ),
       );
   });
   r.post(`${C}/custody`, fieldCrew, idempotent(db), async (req, res) => {
@@ -48,6 +56,7 @@ export function surveyRoutes(db: Db) {
           componentId,
           { id: actorOf(res), role: res.locals.siteRole ?? "viewer" },
           custodyBody.parse(req.body),
+          deviceTimeOf(req),
         ),
       );
   });

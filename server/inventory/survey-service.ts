@@ -1,6 +1,7 @@
 /** Use cases on a component: nameplate edits, inspections, custody moves and dispositions. */
 import { astmD610Grade, iso4628RiGrade } from "../../src/domain/corrosion";
 import { can } from "../../src/domain/permissions";
+import { judgeDeviceTime, LATE_ARRIVAL_S } from "../../src/domain/device-clock";
 import type { z } from "zod";
 import type {
   PatchComponentBody,
@@ -85,7 +86,32 @@ export async function patchComponent(db: Db, siteId: string, id: string, actorId
 }
 
 /** Appends an inspection; the ASTM D610 and ISO 4628-3 grades come from src/domain/corrosion.ts. */
-export async function createInspection(db: Db, siteId: string, componentId: string, actorId: string, b: Inspect) {
+/**
+ * When a record was made on the phone, on the server's clock: the phone's time of it (`at`) corrected by how far the
+ * phone's clock was off as it sent (`Tideline-Device-Time`), judged by src/domain/device-clock.ts. Null when the
+ * request gave no time (the server's own then stands). A phone a day or more off, or a time in the future, is refused.
+ */
+function madeAt(at: string | undefined, deviceNow: Date | null, now: Date): Date | null {
+  if (!at) return null;
+  const clock = judgeDeviceTime({ deviceAt: new Date(at), deviceNow, serverNow: now });
+  if (clock.ok) return clock.at;
+  const message =
+    clock.code === "clock_off"
+      ? "The phone's clock is a day or more off the server's: set the phone's date and time, then send it again."
+      : clock.message;
+  throw new AppError(400, "invalid_input", message, { at: message });
+}
+
+export async function createInspection(
+  db: Db,
+  siteId: string,
+  componentId: string,
+  actorId: string,
+  b: Inspect,
+  deviceNow: Date | null = null,
+  now = new Date(),
+) {
+  const inspectedAt = madeAt(b.at, deviceNow, now);
   return db.transaction().execute(async (trx) => {
     const c = await requireOwned(trx, "components", siteId, componentId, "That component");
     const pct = b.percentRusted ?? null;
@@ -94,6 +120,7 @@ export async function createInspection(db: Db, siteId: string, componentId: stri
       componentId,
       positionId: c.positionId,
       inspectorId: actorId,
+      ...(inspectedAt ? { inspectedAt } : {}),
       percentRusted: pct,
       astmGrade: pct === null ? null : astmD610Grade(pct),
       isoRi: pct === null ? null : iso4628RiGrade(pct),
@@ -163,8 +190,14 @@ export async function moveCustody(
   componentId: string,
   actor: { id: string; role: Role | "admin" },
   b: Custody,
+  deviceNow: Date | null = null,
+  now = new Date(),
 ) {
   const actorId = actor.id;
+  // Applied now, in the order the server takes moves (the chain is judged from where the part is now); a move made on
+  // a phone with no signal keeps when it was made beside it, when that was a while before (LATE_ARRIVAL_S).
+  const made = madeAt(b.at, deviceNow, now);
+  const madeAtKept = made && now.getTime() - made.getTime() > LATE_ARRIVAL_S * 1000 ? made : null;
   return db.transaction().execute(async (trx) => {
     const before = await requireOwned(trx, "components", siteId, componentId, "That component", true);
     if (before.version !== b.version) throw stale("component", before);
@@ -206,6 +239,7 @@ export async function moveCustody(
       movedBy: actorId,
       releasedRules: released,
       releaseReason,
+      madeAt: madeAtKept,
     });
     await recordAudit(trx, {
       siteId,

@@ -1,6 +1,6 @@
 import { Router, type Request, type Response } from "express";
 import { z } from "zod";
-import { DEVICE_TIME_HEADER } from "../../src/domain/device-clock";
+import { deviceTimeOf } from "../middleware/device-time";
 import type { Role } from "../../src/domain/vocab";
 import {
   budgetBody,
@@ -34,20 +34,6 @@ const stepP = site.extend({ stepId: z.uuid({ message: "stepId must be a UUID" })
 const signoffP = site.extend({ signoffId: z.uuid({ message: "signoffId must be a UUID" }) });
 const userP = site.extend({ userId: z.uuid() });
 const componentP = site.extend({ componentId: z.uuid() });
-
-/**
- * What the phone's clock read as it sent this request (the outbox's `Tideline-Device-Time` header,
- * ISO 8601), so the server can put a time it gave on its own clock; null when absent. A header that
- * is there but unreadable is bad input, never ignored.
- */
-function deviceTimeOf(req: Request): Date | null {
-  const v = req.get(DEVICE_TIME_HEADER);
-  if (v === undefined) return null;
-  const parsed = z.iso.datetime({ offset: true }).safeParse(v.trim());
-  if (!parsed.success)
-    throw new AppError(400, "invalid_input", `The ${DEVICE_TIME_HEADER} header is not an ISO 8601 date and time.`);
-  return new Date(parsed.data);
-}
 
 const ctxOf = (req: Request, res: Response): service.Ctx => ({
   siteId: site.parse(req.params).siteId,

@@ -368,6 +368,8 @@ export const inspectionSchema = z.object({
   createdAt: stamp,
 });
 export type Inspection = z.infer<typeof inspectionSchema>;
+/** The phone's time of a record it made (ISO 8601 with offset); corrected for the phone's clock by the server. */
+const madeWhen = z.iso.datetime({ offset: true, message: "Give a date and time" }).optional();
 /** POST /components/:id/inspections → 201 inspectionSchema. Appends; the newest is current. */
 export const createInspectionBody = z.object({
   percentRusted: num(0, 100).nullable().optional(),
@@ -376,6 +378,8 @@ export const createInspectionBody = z.object({
   mechanism: z.enum(MECHANISM).nullable().optional(),
   insulation: z.enum(INSULATION_STATES).nullable().optional(),
   notes: text(4000).default(""),
+  /** When it was made, on the phone's clock (an inspection kept on the phone is sent later): server's time if absent. */
+  at: madeWhen,
 });
 export type CreateInspectionBody = z.input<typeof createInspectionBody>;
 
@@ -389,6 +393,8 @@ export const custodyMoveSchema = z.object({
   movedBy: id.nullable(),
   movedByName: safeText().nullable(),
   movedAt: stamp,
+  /** When it was made on the phone, when that differs from when the server applied it (kept with no signal). */
+  madeAt: stamp.nullable().default(null),
   /** Rules of src/domain/custody-chain.ts the curator released for this move, and why. */
   releasedRules: z.array(z.string()).default([]),
   releaseReason: safeText().default(""),
@@ -406,6 +412,8 @@ export const custodyBody = z.object({
   tagNumber: text(40).min(1).optional(),
   /** The curator's release of the chain's refusals (src/domain/custody-chain.ts), with the reason; curator only. */
   releaseReason: text(2000).min(5, "Say why in a few words").optional(),
+  /** When it was made, on the phone's clock (a move kept on the phone is applied when it arrives, and keeps this). */
+  at: madeWhen,
   version,
 });
 export type CustodyBody = z.input<typeof custodyBody>;

@@ -212,3 +212,67 @@ describe("recommendations and dispositions after a salt-water flood", () => {
     expect(r.body.error.code).toBe("same_state");
   });
 });
+
+describe("made on a phone with no signal, sent later (the outbox's body time and Tideline-Device-Time header)", () => {
+  const min = 60_000;
+  const send = (path: string, body: Record<string, unknown>, deviceNow: Date) =>
+    volunteer.call("POST", path, body, { "Tideline-Device-Time": deviceNow.toISOString() });
+
+  it("an inspection keeps when it was made, corrected by the phone's clock; a phone a day off or a time ahead is refused", async () => {
+    const c = await component("fuse", "modern");
+    const url = `${base}/components/${c.id}/inspections`;
+    // Made 50 minutes ago on a phone whose clock runs 7 minutes fast: stored as made on the server's clock.
+    const fast = 7 * min;
+    const made = new Date(Date.now() - 50 * min);
+    const r = await send(
+      url,
+      { percentRusted: 10, at: new Date(made.getTime() + fast).toISOString() },
+      new Date(Date.now() + fast),
+    );
+    expect(r.status, JSON.stringify(r.body)).toBe(201);
+    const row = await t.db.selectFrom("inspections").selectAll().where("id", "=", r.body.id).executeTakeFirstOrThrow();
+    expect(Math.abs(row.inspectedAt.getTime() - made.getTime())).toBeLessThan(5_000);
+    expect(row.createdAt.getTime()).toBeGreaterThan(Date.now() - min);
+    // An inspection made after it on line is the newest, though the phone's arrived later.
+    const online = await volunteer.post(url, { percentRusted: 30 });
+    expect(online.status).toBe(201);
+    const latest = (await curator.get(`${base}/positions/${c.positionId}`)).body;
+    expect(JSON.stringify(latest)).toContain(online.body.id);
+
+    const dayOff = await send(
+      url,
+      { percentRusted: 10, at: new Date().toISOString() },
+      new Date(Date.now() + 26 * 60 * min),
+    );
+    expect(dayOff.status).toBe(400);
+    expect(dayOff.body.error.fields.at).toContain("set the phone's date and time");
+    const ahead = await send(url, { percentRusted: 10, at: new Date(Date.now() + 30 * min).toISOString() }, new Date());
+    expect(ahead.status).toBe(400);
+    expect(ahead.body.error.fields.at).toBe("That time is in the future.");
+  });
+
+  it("a custody move is applied in the order it arrives and keeps when it was made beside it", async () => {
+    const move = async (at: Date) => {
+      const c = await component("fuse", "modern");
+      const r = await send(
+        `${base}/components/${c.id}/custody`,
+        {
+          toState: "removed",
+          tagNumber: `KL-${++n}-${Date.now().toString(36)}`,
+          location: "Bag 4",
+          at: at.toISOString(),
+          version: c.version,
+        },
+        new Date(),
+      );
+      expect(r.status, JSON.stringify(r.body)).toBe(201);
+      return r.body.move;
+    };
+    const made = new Date(Date.now() - 45 * min);
+    const late = await move(made);
+    expect(Math.abs(Date.parse(late.madeAt) - made.getTime())).toBeLessThan(5_000);
+    expect(Date.parse(late.movedAt)).toBeGreaterThan(Date.now() - min);
+    // One made a moment ago (on line) keeps no separate time.
+    expect((await move(new Date())).madeAt).toBeNull();
+  });
+});

@@ -316,7 +316,9 @@ export const useLogInspection = (siteId: string) =>
         kind: "inspection",
         label: `Inspection of ${label}`,
         url: `${base(siteId)}/components/${componentId}/inspections`,
-        body: b,
+        // When it was made: kept on the phone with no signal, it is sent later and keeps this (the server corrects
+        // it by the phone's clock as it sends).
+        body: { ...b, at: b.at ?? new Date().toISOString() },
         parse: (d) => inspectionSchema.parse(d),
       }),
     unlessQueued((i) => ({ kind: "component", componentId: i.componentId, positionId: i.positionId })),
@@ -341,7 +343,7 @@ export const useMoveCustody = (siteId: string) =>
         kind: "custody",
         label: `Move of ${label}`,
         url: `${base(siteId)}/components/${componentId}/custody`,
-        body: b,
+        body: { ...b, at: b.at ?? new Date().toISOString() },
         parse: (d) => custodyResponse.parse(d),
       }),
     unlessQueued((r) => ({ kind: "component", componentId: r.component.id, positionId: r.component.positionId })),

@@ -100,7 +100,10 @@ export function CustodyTrail({ moves }: { moves: CustodyMove[] }) {
             </span>
           )}
           <span className="block text-xs text-fog">
-            {m.movedByName ?? "Someone"} · {when(m.movedAt)}
+            {m.movedByName ?? "Someone"} ·{" "}
+            {m.madeAt
+              ? `made ${when(m.madeAt)} on a phone with no signal, applied ${when(m.movedAt)}`
+              : when(m.movedAt)}
           </span>
         </li>
       ))}
