@@ -123,3 +123,28 @@ test("an address that already has an account gets the same invitation and joins 
   await ctx.close();
   await api.dispose();
 });
+
+test("a viewer who opens the crew page reads who may sign the energisation, and is offered nothing their role is refused", async ({
+  page,
+}) => {
+  await signIn(page, "viewer");
+  await page.waitForURL(/\/sites\/[^/]+/);
+  const siteUrl = page.url().match(/\/sites\/[^/]+/)![0];
+  await page.goto(`${siteUrl}/members`);
+  await expect(page.getByRole("heading", { name: /^Crew on / })).toBeVisible();
+  await expect(page.getByRole("heading", { name: "Qualified persons for energisation" })).toBeVisible();
+  await expect(page.getByText("Ines Marrow")).toBeVisible();
+  await expect(page.getByRole("alert")).toHaveCount(0);
+  await expect(
+    page.getByRole("button", { name: /Send invitation|Mark as qualified person|Edit qualification/ }),
+  ).toHaveCount(0);
+  await expect(page.getByRole("combobox")).toHaveCount(0);
+  // The same on the watch page of the demo's live stage: when the check is due, and no lamp buttons to press.
+  const boards = (await (await page.request.get(`/api${siteUrl}/boards`)).json()) as
+    Array<{ id: string; name: string }> | { boards: Array<{ id: string; name: string }> };
+  const main = (Array.isArray(boards) ? boards : boards.boards).find((b) => b.name.startsWith("Main switchboard"))!;
+  await page.goto(`${siteUrl}/boards/${main.id}/watch`);
+  await expect(page.getByText("Your role reads the watch; volunteers and the curator record checks.")).toBeVisible();
+  await expect(page.getByRole("form", { name: "Watch check" })).toHaveCount(0);
+  await expect(page.getByRole("checkbox")).toHaveCount(0);
+});

@@ -5,7 +5,7 @@ import { Button } from "../../../components/button";
 import { ErrorPanel, Loading, serverRefused } from "../../../components/status";
 import { paths } from "../../../config/paths";
 import { can } from "../../../domain/permissions";
-import { LAMP_LOOKS, LAMP_LOOK_LABELS, watchCheckBody } from "../../../schemas/return-to-service";
+import { LAMP_LOOKS, LAMP_LOOK_LABELS, watchCheckBody, type RtsStage } from "../../../schemas/return-to-service";
 import { useRecordWatchCheck, useRtsBoard } from "../../../features/return-to-service/api";
 import { fieldError, formMessage, showSaveError, useSchemaForm } from "../../../lib/form";
 import { RtsCaution } from "../../../features/return-to-service/components/rts-caution";
@@ -123,19 +123,15 @@ export default function WatchPage() {
         <p>
           {stopped.length ? "No other stage" : "No stage"} of {q.data.board.name} is under watch.
         </p>
+      ) : !can(role, "rts.record_watch") ? (
+        // A reader sees the stage and when its check is due; no controls their role could not save.
+        <div className="space-y-2">
+          <StageDue stage={stage} />
+          <p className="text-mist">Your role reads the watch; volunteers and the curator record checks.</p>
+        </div>
       ) : (
         <form className="space-y-4" onSubmit={(e) => void submit(e)} noValidate aria-label="Watch check">
-          <p className="text-sm">
-            <strong>{stage.name}</strong>
-            <br />
-            {stage.watch?.overdueSince ? (
-              <span className="font-semibold text-rust-300">Overdue since {clockTime(stage.watch.overdueSince)}</span>
-            ) : stage.watch?.nextDueAt ? (
-              `Next due ${clockTime(stage.watch.nextDueAt)}`
-            ) : (
-              ""
-            )}
-          </p>
+          <StageDue stage={stage} />
           <fieldset className="space-y-2">
             <legend className="font-semibold">
               Ground-detection lamps{" "}
@@ -226,17 +222,13 @@ export default function WatchPage() {
               {fieldError(errors, "note")}
             </p>
           )}
-          {can(role, "rts.record_watch") ? (
-            <Button
-              type="submit"
-              className="w-full"
-              disabled={!lamps || (needsPhase && !phase) || formState.isSubmitting}
-            >
-              Save the check
-            </Button>
-          ) : (
-            <p className="text-mist">Your role reads the watch; volunteers and the curator record checks.</p>
-          )}
+          <Button
+            type="submit"
+            className="w-full"
+            disabled={!lamps || (needsPhase && !phase) || formState.isSubmitting}
+          >
+            Save the check
+          </Button>
           {message && (
             <p role="alert" className="text-rust-300">
               {message}
@@ -245,5 +237,22 @@ export default function WatchPage() {
         </form>
       )}
     </div>
+  );
+}
+
+/** The stage under watch and when its next check is due (or since when it is overdue). */
+function StageDue({ stage }: { stage: RtsStage }) {
+  return (
+    <p className="text-sm">
+      <strong>{stage.name}</strong>
+      <br />
+      {stage.watch?.overdueSince ? (
+        <span className="font-semibold text-rust-300">Overdue since {clockTime(stage.watch.overdueSince)}</span>
+      ) : stage.watch?.nextDueAt ? (
+        `Next due ${clockTime(stage.watch.nextDueAt)}`
+      ) : (
+        ""
+      )}
+    </p>
   );
 }

@@ -9,8 +9,26 @@ import { InviteForm } from "../../../features/invitations/components/invite-form
 import { PendingInvitations } from "../../../features/invitations/components/pending-invitations";
 import { QualifiedPersons } from "../../../features/return-to-service/components/qualified-persons";
 import { useSiteContext } from "./site-layout";
+import { can } from "../../../domain/permissions";
 
 export default function MembersPage() {
+  const { site, role } = useSiteContext();
+  // The curator manages the crew; anyone else who arrives here (a hold point's "qualification expired" links here)
+  // reads who may sign the energisation, with nothing offered that their role would be refused.
+  if (!can(role, "members.manage"))
+    return (
+      <div className="space-y-6">
+        <h1 className="text-2xl font-bold">Crew on {site.name}</h1>
+        <p className="text-mist">
+          The curator manages the crew: invitations, roles, and who is recorded as a qualified person for energisation.
+        </p>
+        <QualifiedPersons siteId={site.id} canManage={false} />
+      </div>
+    );
+  return <ManageCrew />;
+}
+
+function ManageCrew() {
   const { site } = useSiteContext();
   const members = useMembers(site.id);
   const m = useMemberMutations(site.id);
@@ -68,7 +86,7 @@ export default function MembersPage() {
       </ul>
       <InviteForm siteId={site.id} onSent={() => qc.invalidateQueries({ queryKey: siteKeys.members(site.id) })} />
       <PendingInvitations siteId={site.id} />
-      <QualifiedPersons siteId={site.id} />
+      <QualifiedPersons siteId={site.id} canManage />
     </div>
   );
 }

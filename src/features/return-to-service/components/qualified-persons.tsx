@@ -72,7 +72,7 @@ function QualificationForm({ siteId, p, onDone }: { siteId: string; p: Qualified
   );
 }
 
-function Row({ siteId, p }: { siteId: string; p: QualifiedPerson }) {
+function Row({ siteId, p, canManage }: { siteId: string; p: QualifiedPerson; canManage: boolean }) {
   const [editing, setEditing] = useState(false);
   return (
     <li className="p-3" data-testid={`qp-${p.userId}`}>
@@ -92,19 +92,23 @@ function Row({ siteId, p }: { siteId: string; p: QualifiedPerson }) {
           </span>
         )}
       </p>
-      {!editing ? (
-        <Button tone="quiet" onClick={() => setEditing(true)}>
-          {p.qualification ? "Edit qualification" : "Mark as qualified person"}
-        </Button>
-      ) : (
-        <QualificationForm siteId={siteId} p={p} onDone={() => setEditing(false)} />
-      )}
+      {canManage &&
+        (!editing ? (
+          <Button tone="quiet" onClick={() => setEditing(true)}>
+            {p.qualification ? "Edit qualification" : "Mark as qualified person"}
+          </Button>
+        ) : (
+          <QualificationForm siteId={siteId} p={p} onDone={() => setEditing(false)} />
+        ))}
     </li>
   );
 }
 
-/** The crew page's list of qualified persons for energisation (only they sign energise and release). */
-export function QualifiedPersons({ siteId }: { siteId: string }) {
+/**
+ * The crew page's list of qualified persons for energisation (only they sign energise and release); the curator
+ * records and edits them (`canManage`), every other member reads who they are (a gate blocker links here).
+ */
+export function QualifiedPersons({ siteId, canManage }: { siteId: string; canManage: boolean }) {
   const q = useQualifiedPersons(siteId);
   return (
     <section aria-labelledby="qp-title" className="space-y-2">
@@ -117,7 +121,7 @@ export function QualifiedPersons({ siteId }: { siteId: string }) {
       </p>
       <ul className="divide-y divide-hull-700 rounded-lg ring-1 ring-hull-700">
         {q.data?.map((p) => (
-          <Row key={p.userId} siteId={siteId} p={p} />
+          <Row key={p.userId} siteId={siteId} p={p} canManage={canManage} />
         ))}
       </ul>
     </section>
