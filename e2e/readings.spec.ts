@@ -66,6 +66,14 @@ test("a volunteer records three insulation readings on different days and temper
   await expect(mine.first().getByTestId("corrected")).toHaveText("111 MΩ at 20 °C");
   await mine.first().getByText("Source").click();
   await expect(mine.first().getByText("ANSI/NETA MTS-2019 Table 100.1")).toBeVisible();
+  // Only A–G was measured: the comparison says which phases were not, not "nothing flagged" as if all were fine.
+  const compared = page
+    .getByRole("list", { name: "Phase comparisons" })
+    .getByTestId("phase-comparison")
+    .filter({ hasText: circuit });
+  await expect(compared.getByTestId("phase-missing")).toHaveText(
+    "Not measured: B–G, C–G. One phase alone is not compared with the others.",
+  );
 
   await page.getByLabel("Component or circuit").selectOption({ label: `${circuit} (3)` });
   const chart = page.getByTestId("dry-out-chart");

@@ -5,6 +5,15 @@ import { SourceDetails } from "./source-details";
 /** A, B and C to ground side by side (a flagged phase marked with ▼ and words), then the trend. */
 export function PhaseComparisonCard({ comparison: c }: { comparison: PhaseComparison }) {
   const flaggedTrend = c.trend.some((t) => t.flagged);
+  // A phase not measured is not "fine": say which were not, and that a lone phase has nothing to be compared with.
+  const missing = (["A", "B", "C"] as const).filter((p) => c.values[p] == null).map((p) => `${p}–G`);
+  const alone = 3 - missing.length < 2;
+  const verdict =
+    c.flagged.length || flaggedTrend
+      ? "▼ Flagged: investigate before going on"
+      : alone && c.trend.length === 0
+        ? "Nothing to compare yet"
+        : "Nothing flagged";
   return (
     <div className="space-y-2" data-testid="phase-comparison">
       <p className="font-semibold">
@@ -36,10 +45,19 @@ export function PhaseComparisonCard({ comparison: c }: { comparison: PhaseCompar
         </ul>
       )}
       <p className="font-semibold" data-testid="phase-flag">
-        {c.flagged.length || flaggedTrend ? "▼ Flagged: investigate before going on" : "Nothing flagged"}
+        {verdict}
       </p>
       <ul className="text-sm">
-        {c.reasons.length ? c.reasons.map((r) => <li key={r}>{r}</li>) : <li>No phase low, no drop flagged.</li>}
+        {c.reasons.map((r) => (
+          <li key={r}>{r}</li>
+        ))}
+        {missing.length > 0 && (
+          <li data-testid="phase-missing">
+            Not measured: {missing.join(", ")}.{" "}
+            {alone ? "One phase alone is not compared with the others." : "The phases measured are compared."}
+          </li>
+        )}
+        {!c.reasons.length && !alone && <li>No phase low, no drop flagged.</li>}
       </ul>
       <SourceDetails sources={[{ title: "Comparison rules", source: c.source }]} />
     </div>
