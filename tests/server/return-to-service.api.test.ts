@@ -318,6 +318,7 @@ describe("entries overtaken before the energisation", () => {
       .select("after")
       .where("entityId", "=", s.id)
       .where("action", "=", "update")
+      .orderBy("id")
       .execute();
     expect(audit.map((a: any) => a.after.voidedEntries ?? 0)).toEqual([0, 5]);
     await as.curator.del(`${site()}/return-to-service/stages/${s.id}`);
