@@ -321,7 +321,9 @@ export function judgeContactReading(
  * Rises over a similar component and over ambient, classified by NETA Table 100.18; with
  * the load known (below 100 %), each rise is also scaled to rated load (thermal.ts,
  * ΔT ∝ (I/I_rated)², common practice) and the more severe of the measured and scaled
- * levels is the level. Scans under 40 % load carry a warning (common practice).
+ * levels is the level — from 40 % load up. Below it (common practice: a scan shows little
+ * there, and scaling multiplies every error: ×400 at 5 %) the level is the measured one,
+ * and the scaled level is given in the warning, for reference, with "re-scan under more load".
  */
 export function judgeThermalScan(s: {
   componentTempC: number;
@@ -342,13 +344,17 @@ export function judgeThermalScan(s: {
     scaledSimilarC !== undefined || scaledAmbientC !== undefined
       ? classifyTemperatureRise({ overSimilarC: scaledSimilarC, overAmbientC: scaledAmbientC })
       : null;
-  const level = Math.max(measured.level, scaled?.level ?? 0) as ThermalLevel;
+  const lowLoad = load !== null && load < LOW_LOAD_PERCENT;
+  const level = (lowLoad ? measured.level : Math.max(measured.level, scaled?.level ?? 0)) as ThermalLevel;
   const action = THERMAL_ACTIONS[level];
   const warnings: string[] = [];
   if (load === null) warnings.push("Load not recorded: the rise cannot be scaled to rated load.");
-  else if (load < LOW_LOAD_PERCENT)
+  else if (lowLoad)
     warnings.push(
-      `Scanned at ${fmt(load)} % load: below about ${LOW_LOAD_PERCENT} % a scan shows little, and scaling to full load magnifies every error (common practice). Re-scan under more load.`,
+      `Scanned at ${fmt(load)} % load: below about ${LOW_LOAD_PERCENT} % a scan shows little, and scaling to full load magnifies every error (common practice), so the level is the one measured` +
+        (scaled && scaled.level > measured.level
+          ? `; scaled to full load the same rise would read level ${scaled.level}. Re-scan under more load before relying on either.`
+          : ". Re-scan under more load."),
     );
   return {
     overSimilarC: overSimilarC ?? null,
@@ -366,7 +372,8 @@ export function judgeThermalScan(s: {
       text:
         `Level ${level}: ${action}` +
         (scaled
-          ? `. Rises scaled to rated load by (100 / ${fmt(load!)} %)^${LOAD_SCALING_EXPONENT} (ΔT ∝ I², common practice)`
+          ? `. Rises scaled to rated load by (100 / ${fmt(load!)} %)^${LOAD_SCALING_EXPONENT} (ΔT ∝ I², common practice)` +
+            (lowLoad ? `, for reference only under ${LOW_LOAD_PERCENT} % load` : "")
           : ""),
     },
   };

@@ -207,13 +207,27 @@ describe("dry-out levelling off", () => {
 });
 
 describe("thermal rise scaled to rated load (ΔT ∝ (I/I_rated)², common practice)", () => {
-  it("8 °C over a similar part at 30 % load scales to 88.9 °C: NETA Table 100.18 level 2 → level 4", () => {
-    expect(scaleRiseToRatedLoad(8, 30).scaledRiseC).toBeCloseTo(88.89, 2);
-    const j = judgeThermalScan({ componentTempC: 38, similarTempC: 30, loadPercent: 30 });
+  it("8 °C over a similar part at 50 % load scales to 32 °C: NETA Table 100.18 level 2 → level 4", () => {
+    expect(scaleRiseToRatedLoad(8, 50).scaledRiseC).toBeCloseTo(32, 6); // 8 · (100/50)² = 32
+    const j = judgeThermalScan({ componentTempC: 38, similarTempC: 30, loadPercent: 50 });
     expect(j.measuredLevel).toBe(2);
     expect(j.scaledLevel).toBe(4);
     expect(j.level).toBe(4);
-    expect(j.warnings[0]).toMatch(/below about 40 %/);
+    expect(j.warnings).toEqual([]);
+  });
+  it("under 40 % load the measured level stands and the scaled one is for reference (common practice: low-load scans show little)", () => {
+    expect(scaleRiseToRatedLoad(8, 30).scaledRiseC).toBeCloseTo(88.89, 2); // 8 · (1/0.3)²
+    const j = judgeThermalScan({ componentTempC: 38, similarTempC: 30, loadPercent: 30 });
+    expect(j.measuredLevel).toBe(2);
+    expect(j.scaledLevel).toBe(4);
+    expect(j.level).toBe(2);
+    expect(j.warnings[0]).toMatch(
+      /below about 40 %.*the level is the one measured; scaled to full load the same rise would read level 4/,
+    );
+    // 0.5 °C at 5 % load is ×400 when scaled (200 °C): not a level-4 "repair immediately" on its own.
+    const faint = judgeThermalScan({ componentTempC: 20.5, similarTempC: 20, loadPercent: 5 });
+    expect(faint.scaledOverSimilarC).toBeCloseTo(200, 6);
+    expect(faint.level).toBe(0);
   });
   it("at full load nothing is scaled", () => {
     const j = judgeThermalScan({ componentTempC: 38, similarTempC: 30, loadPercent: 100 });
