@@ -124,7 +124,13 @@ export function correctInsulation(
     baseTemperatureC: 20,
     source: {
       table: "NETA ATS/MTS Table 100.14, correction to 20 °C",
-      text: `Multiplier ${Number(factor.toFixed(3))} at ${fmt(temperatureC)} °C, ${c.insulationMedium} insulation (interpolated between 5 °C rows)`,
+      // The solid column, and the oil rows outside 0–75 °C, are recalled, not checked against a copy of the table
+      // (src/domain/insulation-tables.ts): the screen says so beside the figure.
+      text:
+        `Multiplier ${Number(factor.toFixed(3))} at ${fmt(temperatureC)} °C, ${c.insulationMedium} insulation (interpolated between 5 °C rows)` +
+        (c.insulationMedium === "solid" || temperatureC < 0 || temperatureC > 75
+          ? ". Tideline's copy of this row is from memory: check it against your edition of the table"
+          : ""),
     },
   };
 }

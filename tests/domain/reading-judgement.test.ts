@@ -35,6 +35,13 @@ describe("correctInsulation", () => {
     expect(r.source.table).toMatch(c.correctionMethod === "neta_20c" ? /100\.14/ : /IEEE Std 43/);
   });
 
+  it("says beside the figure when the row it used is recalled rather than checked against the table", () => {
+    expect(correctInsulation(60, 30, neta).source.text).toMatch(/from memory: check it against your edition/);
+    const oil = { ...neta, insulationMedium: "oil" as const };
+    expect(correctInsulation(60, 30, oil).source.text).not.toMatch(/from memory/);
+    expect(correctInsulation(60, 80, oil).source.text).toMatch(/from memory/);
+  });
+
   it.each([
     [120, neta],
     [105, ieee],
