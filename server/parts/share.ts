@@ -57,6 +57,9 @@ export async function siteOfToken(db: Db, token: string) {
   return link.siteId;
 }
 
+/** What a partner reads on a line for a part of a unit (its own words stay on the site). */
+export const SUB_PART = "a part of this unit, not the whole unit: ask the crew which";
+
 /** The public list. A read only: it never writes (demand is kept current by the writes). */
 export async function sharedList(db: Db, token: string): Promise<SharedList> {
   const siteId = await siteOfToken(db, token);
@@ -82,7 +85,8 @@ export async function sharedList(db: Db, token: string): Promise<SharedList> {
       // (phone numbers and prices have turned up there), so neither leaves the site.
       maker: l.maker,
       model: l.model,
-      need: "",
+      // …but a line for a part of a unit says it is one, in fixed words: otherwise a partner reads a whole breaker.
+      need: l.need.trim() ? SUB_PART : "",
       title: partTitle({ ...l, mustMatch: undefined }),
       qty: l.qty,
       heritageRule: l.heritageRule,

@@ -127,13 +127,15 @@ export function budgetByBoard(lines: readonly BudgetLineInput[]): {
  * One readable line for a spec, e.g. "Power (open-frame) breaker · 225 A · 3-pole · 600 V ·
  * frame K-225 · Drawout · Northbay Electric NB 3 — arc chute". Blank fields are left out.
  */
+/** A frame in words: "frame L-400", but "100 A frame" as given ("frame 100 A frame" reads doubled). */
+export const frameWords = (frame: string) => (/\bframe\b/i.test(frame) ? frame.trim() : `frame ${frame.trim()}`);
+
 export function partTitle(spec: PartSpec, need?: string | null): string {
   const bits = [COMPONENT_KIND_LABELS[spec.kind] ?? spec.kind];
   if (spec.ratingAmps != null) bits.push(`${spec.ratingAmps} A`);
   if (spec.poles != null) bits.push(`${spec.poles}-pole`);
   if (spec.voltageRating != null) bits.push(`${spec.voltageRating} V`);
-  // "frame 50 A frame" reads doubled: only prefix the word when the value does not carry it.
-  if (spec.frame?.trim()) bits.push(/\bframe\b/i.test(spec.frame) ? spec.frame.trim() : `frame ${spec.frame.trim()}`);
+  if (spec.frame?.trim()) bits.push(frameWords(spec.frame));
   if (spec.mounting?.trim()) bits.push(spec.mounting.trim());
   const maker = [spec.maker?.trim(), spec.model?.trim()].filter(Boolean).join(" ");
   if (maker) bits.push(maker);

@@ -218,7 +218,11 @@ describe("public share link", () => {
       expect(json, `share JSON leaks ${secret}`).not.toContain(secret);
     // Free text typed on a line or a defect never leaves the site; the line is still there by its spec.
     expect(json).not.toContain("clear lamp lens");
-    expect(r.body.lines.find((l: any) => l.kind === "ground_lamp")).toMatchObject({ qty: 3, need: "" });
+    // …but the partner reads that the line is for a part of the unit, not a whole one, in fixed words.
+    expect(r.body.lines.find((l: any) => l.kind === "ground_lamp")).toMatchObject({
+      qty: 3,
+      need: "a part of this unit, not the whole unit: ask the crew which",
+    });
     const withPhoto = r.body.lines.find((l: any) => l.photoUrls.length);
     expect(withPhoto.photoUrls).toEqual([`/api/share/parts/${made.body.token}/photos/${photoId}`]);
     const img = await fetch(server.base + withPhoto.photoUrls[0]);

@@ -4,6 +4,7 @@ import {
   type ComponentKind,
   type HeritageRule,
 } from "../../../domain/vocab";
+import { frameWords } from "../../../domain/part-workflow";
 
 export interface SheetLine {
   ref: string;
@@ -61,7 +62,7 @@ export function PrintSheet({ lines }: { lines: SheetLine[] }) {
                 l.ratingAmps != null && `${l.ratingAmps} A`,
                 l.poles != null && `${l.poles} poles`,
                 l.voltageRating != null && `${l.voltageRating} V`,
-                l.frame && `frame ${l.frame}`,
+                l.frame && frameWords(l.frame),
                 l.mounting,
                 [l.maker, l.model].filter(Boolean).join(" "),
               ]
