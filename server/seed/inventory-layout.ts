@@ -322,8 +322,22 @@ const YEARS: Record<Heritage, [number, number]> = {
   modern: [2003, 2019],
 };
 
-/** An invented nameplate for a component of this kind and heritage. */
-export function nameplateFor(kind: ComponentKind, heritage: Heritage, rnd: ReturnType<typeof seededRandom>): Nameplate {
+/** A meter's scale from what it measures, as its circuit names it ("Ammeter, generator 2" → amperes). */
+function meterRangeFor(circuit: string, drawn: string): string {
+  if (/frequency/i.test(circuit)) return "55–65 Hz";
+  if (/kilowatt/i.test(circuit)) return "0–1000 kW";
+  if (/ammeter/i.test(circuit)) return /emergency/i.test(circuit) ? "0–400 A" : "0–1500 A";
+  if (/voltmeter/i.test(circuit)) return "0–600 V";
+  return drawn;
+}
+
+/** An invented nameplate for a component of this kind and heritage (a meter's scale follows its circuit). */
+export function nameplateFor(
+  kind: ComponentKind,
+  heritage: Heritage,
+  rnd: ReturnType<typeof seededRandom>,
+  circuit = "",
+): Nameplate {
   const maker = rnd.pick(MAKERS[heritage]);
   const [y0, y1] = YEARS[heritage];
   const year = Math.round(rnd.between(y0, y1));
@@ -379,7 +393,8 @@ export function nameplateFor(kind: ComponentKind, heritage: Heritage, rnd: Retur
         ...base,
         maker: heritage === "original" ? "Calloway Instrument Works" : maker,
         model: "Switchboard pattern, 6 in. dial",
-        meterRange: rnd.pick(["0–600 V", "0–1500 A", "0–1000 kW", "55–65 Hz"]),
+        // Drawn as before (the demo's later random values stay as they were), then set by what the meter measures.
+        meterRange: meterRangeFor(circuit, rnd.pick(["0–600 V", "0–1500 A", "0–1000 kW", "55–65 Hz"])),
       };
     case "ground_lamp":
       return {

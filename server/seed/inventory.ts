@@ -186,7 +186,7 @@ class SurveyBuilder {
       siteId: this.siteId,
       positionId: s.positionId,
       kind: s.p.kind,
-      ...nameplateFor(s.p.kind, s.heritage, this.rnd),
+      ...nameplateFor(s.p.kind, s.heritage, this.rnd, s.p.circuit),
       heritage: s.heritage,
       serial: `${s.p.kind === "meter" ? "CIW" : "HB"}-${(4600 + this.n * 37) % 99999}`,
       tagNumber: tagged ? `KL-${String(this.tag++).padStart(4, "0")}` : null,

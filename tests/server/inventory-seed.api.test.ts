@@ -94,3 +94,15 @@ it("a position above the water line on the flooded board is never recorded as be
     where b.water_line_mm is not null and i.below_water_line <> (b.face_height_mm - (p.grid_row - 1 + p.row_span) * (b.face_height_mm::numeric / b.grid_rows) < b.water_line_mm)`);
   expect(wrong).toEqual([]);
 });
+
+it("a demo meter's scale fits what its circuit says it measures (a voltmeter reads volts, not hertz)", async () => {
+  const rows = (
+    await sql<{ circuit: string; range: string }>`select p.circuit, c.meter_range as range from components c
+      join positions p on p.id = c.position_id where c.kind = 'meter' and c.retired_at is null`.execute(t.db)
+  ).rows;
+  expect(rows.length).toBeGreaterThan(4);
+  const unit = (circuit: string) =>
+    /frequency/i.test(circuit) ? "Hz" : /kilowatt/i.test(circuit) ? "kW" : /ammeter/i.test(circuit) ? "A" : "V";
+  for (const r of rows.filter((x) => /voltmeter|ammeter|kilowatt|frequency/i.test(x.circuit)))
+    expect(r.range, r.circuit).toMatch(new RegExp(` ${unit(r.circuit)}$`));
+});
