@@ -23,6 +23,8 @@ import { DEMO_SITE } from "./people";
 type Db = Kysely<Database>;
 const MAIN = "Main switchboard (engine room, aft)";
 const HOUR = 3_600_000;
+/** A demo watch check reached the server as it was made (with signal): received 20 s after, not at seed time. */
+const receivedAtOnce = <C extends { at: Date }>(c: C) => ({ ...c, createdAt: new Date(c.at.getTime() + 20_000) });
 const DAY = 24 * HOUR;
 
 export async function seedReturnToService(db: Db, ctx: SeedContext, now = new Date()) {
@@ -377,7 +379,7 @@ export async function seedReturnToService(db: Db, ctx: SeedContext, now = new Da
   };
   await db
     .insertInto("rtsWatchChecks")
-    .values([firstLook, ...checks1])
+    .values([firstLook, ...checks1].map(receivedAtOnce))
     .execute();
   await db
     .insertInto("thermalScans")
@@ -440,7 +442,7 @@ export async function seedReturnToService(db: Db, ctx: SeedContext, now = new Da
       recordedBy: tobias,
     },
   ].filter((c) => c.at.getTime() <= now.getTime());
-  await db.insertInto("rtsWatchChecks").values(checks2).execute();
+  await db.insertInto("rtsWatchChecks").values(checks2.map(receivedAtOnce)).execute();
 
   // ---- the log: energisations and breaker operations ----
   const ev = (

@@ -51,3 +51,9 @@ it("an earlier day's incident (a blown fuse) opened a defect, and the log shows 
   expect(incident.defectId).toBeTruthy();
   expect(Date.parse(incident.at)).toBeLessThan(Date.now() - 86_400_000);
 });
+
+it("the demo's watch checks reached the server as they were made (none reads 'kept on the phone')", async () => {
+  const rows = await t.db.selectFrom("rtsWatchChecks").select(["at", "createdAt"]).execute();
+  expect(rows.length).toBeGreaterThan(10);
+  for (const r of rows) expect(r.createdAt.getTime() - r.at.getTime()).toBeLessThan(10 * 60_000);
+});
