@@ -116,6 +116,10 @@ test.describe("with no signal, on a 360 px phone", () => {
     await page.getByRole("button", { name: "Stay signed in" }).click();
     await expect(page.getByRole("alertdialog")).toHaveCount(0);
     await expectNoSeriousA11yViolations(page, "quick log offline with changes waiting");
+    // Typed search needs the server: with no signal the finder says so, and points at the board list.
+    await page.goto(`/sites/${m.siteId}/log`);
+    await page.getByLabel("Designation or tag number").fill("ZZ-404");
+    await expect(page.getByTestId("finder-offline")).toContainText("Pick the board below");
 
     // Closing the page mid-queue loses nothing: a new page (still offline) shows the same five.
     const again = await context.newPage();

@@ -46,6 +46,12 @@ export function PositionFinder({ siteId, onPick }: { siteId: string; onPick: (po
         </p>
         <div aria-live="polite" className="mt-2">
           {q && hits.isFetching && !hits.data && <p className="text-sm text-mist">Looking…</p>}
+          {/* No signal and no answer kept for these words: say so, and the way that works without signal. */}
+          {q && hits.fetchStatus === "paused" && !hits.data && (
+            <p role="status" className="text-sm text-mist" data-testid="finder-offline">
+              No signal: typed search needs the server. Pick the board below and tap the position instead.
+            </p>
+          )}
           {q && hits.data?.length === 0 && (
             <p className="text-sm text-mist">No designation, tag, circuit or kind like “{q}”.</p>
           )}
