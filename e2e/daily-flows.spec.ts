@@ -75,7 +75,7 @@ test.describe("on a 360 px phone", () => {
     for (const row of await page.getByTestId("staged-row").all())
       if (!(await row.innerText()).includes(stamp)) await row.getByRole("button", { name: /^Unfile/ }).click();
     await page.getByRole("button", { name: /^Save 2 assignments$/ }).click();
-    await expect(page.getByText("2 photo(s) filed.")).toBeVisible();
+    await expect(page.getByText("2 photos filed.")).toBeVisible();
 
     const photos = (await (await page.request.get(`/api/sites/${siteId}/photos`)).json()).photos as Array<{
       originalName: string;

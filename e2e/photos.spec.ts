@@ -70,7 +70,7 @@ test("the photographer drops three photos, watches them finish, files them to po
   await page.screenshot({ path: "/tmp/photos-desk-desktop.png", fullPage: true });
 
   await page.getByRole("button", { name: /^Save 3 assignments$/ }).click();
-  await expect(page.getByText("3 photo(s) filed.")).toBeVisible();
+  await expect(page.getByText("3 photos filed.")).toBeVisible();
 
   // Each position now counts its photo (the board tiles' camera badge reads the same rows).
   const id = await siteId(page);

@@ -59,6 +59,7 @@ const INSPECTION_LABELS: FieldLabels = {
   mechanism: "Mechanism",
   insulation: "Insulation",
   notes: "Notes",
+  at: "Made on the phone at",
 };
 
 const CUSTODY_LABELS: FieldLabels = {
@@ -68,6 +69,7 @@ const CUSTODY_LABELS: FieldLabels = {
   note: "Note",
   tagNumber: "Tag number on the bag",
   releaseReason: "Reason for releasing the chain's rule",
+  at: "Made on the phone at",
   version: "Version",
 };
 

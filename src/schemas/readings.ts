@@ -33,14 +33,19 @@ export { LAMP_LOOKS, PHASE_KEYS, sourceSchema, groundCheckSchema } from "./groun
 export type { CriterionSourceDto, GroundCheck } from "./ground-check";
 export const INSULATION_MEDIA = ["solid", "oil"] as const;
 
+/** "Reading" → "Enter the reading" for a blank field; "must be a number" only for what is not one. */
+const numberError = (label: string) => (iss: { input?: unknown }) =>
+  iss.input == null
+    ? `Enter the ${/^[A-Z][a-z]/.test(label) ? label[0].toLowerCase() + label.slice(1) : label}`
+    : `${label} must be a number`;
 const num = (label: string, min: number, max: number, unit: string) =>
   z
-    .number({ message: `${label} must be a number` })
+    .number({ error: numberError(label) })
     .min(min, { message: `${label} must be at least ${min} ${unit}` })
     .max(max, { message: `${label} must be at most ${max} ${unit}` });
 const positive = (label: string, max: number, unit: string) =>
   z
-    .number({ message: `${label} must be a number` })
+    .number({ error: numberError(label) })
     .positive({ message: `${label} must be more than 0 ${unit}` })
     .max(max, { message: `${label} must be at most ${max} ${unit}` });
 const opt = <T extends z.ZodType>(s: T) => s.nullish().transform((v) => v ?? null);

@@ -161,7 +161,7 @@ export function BatchAssign({ siteId, photos, boards, useSiteSearch }: Props) {
         onSuccess: (saved) => {
           setStaged({});
           setIndex(0);
-          setNote(`${saved.length} photo(s) filed.`);
+          setNote(`${saved.length} ${saved.length === 1 ? "photo" : "photos"} filed.`);
         },
       },
     );
@@ -221,7 +221,8 @@ export function BatchAssign({ siteId, photos, boards, useSiteSearch }: Props) {
             />
           </label>
           <p id="assign-help" className="hidden text-xs text-fog sm:block">
-            Enter files this photo to the first match and moves on. Page Up / Page Down step without filing.
+            Press Enter to file this photo to the first match and move on to the next. Page Up / Page Down step without
+            filing.
           </p>
           <ul aria-label="Matching positions" className="space-y-1" aria-busy={searching}>
             {suggestions.map((t, i) => (
