@@ -78,6 +78,9 @@ async function fits(page: Page, url: string, ready: (p: Page) => Promise<void>) 
       .soft(scroll, `${url} is ${scroll} px wide:\n${(await overflowing(page)).join("\n")}`)
       .toBeLessThanOrEqual(inner);
   expect.soft(await sidewaysBoxes(page), `${url}: boxes that scroll sideways`).toEqual([]);
+  // Nothing written against the screen's edge: the page's heading sits inside its margin.
+  const heading = await page.getByRole("heading", { level: 1 }).first().boundingBox();
+  expect.soft(heading?.x ?? 0, `${url}: the heading touches the screen's left edge`).toBeGreaterThanOrEqual(8);
 }
 
 const h1 = (name?: RegExp | string) => async (p: Page) => {

@@ -12,7 +12,7 @@ export default function TagPage() {
   if (q.isError) {
     const notFound = q.error instanceof ApiError && q.error.status === 404;
     return (
-      <div className="mx-auto max-w-xl space-y-4">
+      <main id="main" className="mx-auto max-w-xl space-y-4 p-4">
         <h1 className="text-2xl font-bold">
           Tag <span className="font-mono">{tag}</span>
         </h1>
@@ -26,7 +26,7 @@ export default function TagPage() {
         <Link to={paths.scan.href()} className="inline-flex min-h-11 items-center underline">
           Scan another tag
         </Link>
-      </div>
+      </main>
     );
   }
   const matches = q.data.matches;
@@ -35,7 +35,7 @@ export default function TagPage() {
     return <Navigate to={paths.board.href(m.siteId, m.boardId, m.positionId)} replace />;
   }
   return (
-    <div className="mx-auto max-w-xl space-y-4">
+    <main id="main" className="mx-auto max-w-xl space-y-4 p-4">
       <h1 className="text-2xl font-bold">
         Tag <span className="font-mono">{tag}</span> is on more than one of your sites
       </h1>
@@ -51,6 +51,6 @@ export default function TagPage() {
           </li>
         ))}
       </ul>
-    </div>
+    </main>
   );
 }
