@@ -308,7 +308,9 @@ test("when someone else decides first, the curator sees their value and can appl
   await panel.getByRole("button", { name: "Save override" }).click();
   const notice = panel.getByTestId("conflict-notice");
   await expect(notice).toContainText("Someone else saved this");
-  await expect(notice).toContainText("clean");
+  // In the form's own words: the disposition's label, a flag as yes / no.
+  await expect(notice).toContainText("Disposition: — → Clean");
+  await expect(notice).not.toContainText("false");
   await expect(panel.getByLabel(/Why override/)).toHaveValue("Original part: find a period spare.");
   await notice.getByRole("button", { name: "Apply mine again" }).click();
   await expect(panel.getByRole("status").filter({ hasText: "Saved." })).toBeVisible();

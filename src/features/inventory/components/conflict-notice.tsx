@@ -1,8 +1,19 @@
 import { Button } from "../../../components/button";
 import { ApiError } from "../../../lib/api-client";
 
-const show = (v: unknown) =>
-  v === null || v === undefined || v === "" ? "—" : Array.isArray(v) ? v.join(", ") : String(v);
+/** A value in words: blank as "—", yes/no for a flag; `words` turns a field's stored value into its label. */
+const show = (v: unknown, words?: (v: string) => string) =>
+  v === null || v === undefined || v === ""
+    ? "—"
+    : typeof v === "boolean"
+      ? v
+        ? "yes"
+        : "no"
+      : Array.isArray(v)
+        ? v.join(", ")
+        : words && typeof v === "string"
+          ? words(v)
+          : String(v);
 
 /** Fields whose value on the server now differs from the one the form started from. */
 export function changedOnServer(
@@ -33,10 +44,13 @@ export function ConflictNotice({
   onUseTheirs,
   onApplyMine,
   busy,
+  words = {},
 }: {
   base: Record<string, unknown>;
   current: Record<string, unknown>;
   labels: Record<string, string>;
+  /** Per field, its stored value in the words the form shows ("clean" → "Clean"). */
+  words?: Record<string, (v: string) => string>;
   onUseTheirs: () => void;
   onApplyMine: () => void;
   busy?: boolean;
@@ -54,8 +68,8 @@ export function ConflictNotice({
         <ul className="mt-2 space-y-1">
           {changes.map((c) => (
             <li key={c.key}>
-              <span className="font-semibold">{c.label}:</span> <s className="text-fog">{show(c.was)}</s> →{" "}
-              <span className="text-chalk">{show(c.now)}</span>
+              <span className="font-semibold">{c.label}:</span> <s className="text-fog">{show(c.was, words[c.key])}</s>{" "}
+              → <span className="text-chalk">{show(c.now, words[c.key])}</span>
             </li>
           ))}
         </ul>

@@ -164,6 +164,7 @@ export function DispositionControl({
               base={base}
               current={conflict}
               labels={LABELS}
+              words={{ disposition: (v) => DISPOSITION_LABELS[v as Disposition] ?? v }}
               busy={decide.isPending}
               onUseTheirs={() => {
                 setBase(conflict);
