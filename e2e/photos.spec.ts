@@ -154,3 +154,25 @@ test("the shoot list shows what is missing, and the gallery's viewer steps with 
   await expect(page.getByRole("button", { name: /^Open photo/ }).first()).toBeFocused();
   expect(await page.evaluate(() => getComputedStyle(document.documentElement).overflow)).toBe("visible");
 });
+
+test("a file the server refuses as a picture fails with its reason and no Retry (sending it again cannot help)", async ({
+  page,
+}) => {
+  await signIn(page, "photographer");
+  await page.getByRole("link", { name: "Photo desk" }).first().click();
+  await expect(page.getByRole("heading", { level: 1, name: "Photo desk" })).toBeVisible();
+  await page
+    .getByTestId("photo-input")
+    .setInputFiles([
+      {
+        name: `broken-${Date.now().toString(36)}.jpg`,
+        mimeType: "image/jpeg",
+        buffer: Buffer.from("not a picture at all"),
+      },
+    ]);
+  const failed = page.locator('[data-testid="upload-row"][data-state="failed"]');
+  await expect(failed).toHaveCount(1, { timeout: 20_000 });
+  await expect(failed).toContainText("Failed");
+  await expect(failed.getByRole("button", { name: /^Retry/ })).toHaveCount(0);
+  await expect(failed.getByRole("progressbar")).toHaveAttribute("value", "0");
+});

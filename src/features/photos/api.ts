@@ -198,6 +198,16 @@ export interface UploadTags {
  * does (xhr.upload "progress" events). Resolves with the stored photo; rejects with
  * the server's message.
  */
+/** Why an upload failed, and whether sending the same file again can help. */
+export class UploadError extends Error {
+  constructor(
+    message: string,
+    readonly retryable: boolean,
+  ) {
+    super(message);
+  }
+}
+
 export function uploadOne(
   siteId: string,
   file: File,
@@ -219,9 +229,21 @@ export function uploadOne(
     xhr.addEventListener("load", () => {
       const body = xhr.response as { photos?: unknown[]; error?: { message?: string } } | null;
       if (xhr.status === 201 && body?.photos?.[0]) return resolve(photoSchema.parse(body.photos[0]));
-      reject(new Error(body?.error?.message ?? `The server answered ${xhr.status}.`));
+      // A refusal of the file itself (not a picture, too large, bad input) is not helped by sending it again.
+      const final =
+        xhr.status >= 400 && xhr.status < 500 && xhr.status !== 401 && xhr.status !== 408 && xhr.status !== 429;
+      reject(new UploadError(body?.error?.message ?? `The server answered ${xhr.status}.`, !final));
     });
-    xhr.addEventListener("error", () => reject(new Error("The connection dropped during the upload.")));
+    xhr.addEventListener("error", () =>
+      reject(
+        new UploadError(
+          navigator.onLine
+            ? "The connection dropped during the upload."
+            : "No signal: the photo was not sent. Retry once the connection is back.",
+          true,
+        ),
+      ),
+    );
     xhr.addEventListener("abort", () => reject(new Error("Upload cancelled.")));
     signal?.addEventListener("abort", () => xhr.abort());
     xhr.send(fd);

@@ -1,7 +1,7 @@
 import { useCallback, useEffect, useLayoutEffect, useReducer, useRef } from "react";
 import { kindFromFileName } from "../../domain/photo-matching";
 import type { Photo } from "../../schemas/photos";
-import { uploadOne, type UploadTags } from "./api";
+import { UploadError, uploadOne, type UploadTags } from "./api";
 
 export type UploadState = "queued" | "uploading" | "processing" | "done" | "failed";
 export interface UploadItem {
@@ -11,6 +11,8 @@ export interface UploadItem {
   state: UploadState;
   progress: number;
   error?: string;
+  /** False when the server refused the file itself: sending it again cannot help. */
+  retryable?: boolean;
   photo?: Photo;
 }
 
@@ -60,7 +62,13 @@ export function useUploadQueue(siteId: string, onDone?: (p: Photo) => void) {
           dispatch({ type: "patch", key: item.key, patch: { state: "done", progress: 1, photo } });
           onDoneRef.current?.(photo);
         })
-        .catch((e: Error) => dispatch({ type: "patch", key: item.key, patch: { state: "failed", error: e.message } }))
+        .catch((e: Error) =>
+          dispatch({
+            type: "patch",
+            key: item.key,
+            patch: { state: "failed", error: e.message, retryable: !(e instanceof UploadError) || e.retryable },
+          }),
+        )
         .finally(() => started.current.delete(item.key));
     },
     [siteId],

@@ -40,9 +40,9 @@ export function UploadList({ items, onRetry }: { items: UploadItem[]; onRetry: (
               {i.file.name}
             </span>
             <progress
-              className="h-3 w-32 overflow-hidden rounded [&::-webkit-progress-bar]:bg-hull-700 [&::-webkit-progress-value]:bg-brass-400"
+              className={`h-3 w-32 overflow-hidden rounded [&::-webkit-progress-bar]:bg-hull-700 ${i.state === "failed" ? "[&::-webkit-progress-value]:bg-flare-400" : "[&::-webkit-progress-value]:bg-brass-400"}`}
               max={100}
-              value={i.state === "queued" ? 0 : pct}
+              value={i.state === "queued" || i.state === "failed" ? 0 : pct}
               aria-label={`Upload progress of ${i.file.name}`}
             />
             <span className="w-44 text-sm text-mist" role="status">
@@ -53,9 +53,11 @@ export function UploadList({ items, onRetry }: { items: UploadItem[]; onRetry: (
             {i.state === "failed" && (
               <div className="flex w-full items-center gap-3">
                 <p className="flex-1 text-sm text-flare-300">{i.error}</p>
-                <Button tone="quiet" onClick={() => onRetry(i.key)} aria-label={`Retry ${i.file.name}`}>
-                  Retry
-                </Button>
+                {i.retryable !== false && (
+                  <Button tone="quiet" onClick={() => onRetry(i.key)} aria-label={`Retry ${i.file.name}`}>
+                    Retry
+                  </Button>
+                )}
               </div>
             )}
           </li>
