@@ -161,6 +161,28 @@ test.describe("with no signal, on a 360 px phone", () => {
     await api.dispose();
   });
 
+  test("a part whose moves were never read with signal still offers them offline, worked out on the phone", async ({
+    page,
+    context,
+    baseURL,
+  }) => {
+    const m = await makeBreaker(baseURL!);
+    await signIn(page, "volunteer");
+    await page.goto(`/sites/${m.siteId}/log?position=${m.positionId}`);
+    await expect(page.getByTestId("log-designation")).toHaveText(m.designation);
+    await untilControlled(page);
+    await expectKept(page, ["inventory", m.siteId, "position", m.positionId]);
+    await goOffline(context, page);
+    await page.getByRole("tab", { name: "Move the part" }).click();
+    await expect(page.getByTestId("custody-on-phone")).toContainText("worked out on this phone");
+    await page.getByLabel("Tag number on the bag").fill(`TP-${m.designation}`);
+    await page.getByRole("button", { name: "Save move: Removed (tagged)" }).click();
+    await expect(page.getByTestId("logged-pending")).toContainText("Move kept on this phone");
+    await context.setOffline(false);
+    await page.evaluate(() => window.dispatchEvent(new Event("online")));
+    await expect(page.getByTestId("waiting-count")).toHaveText("nothing waiting", { timeout: 30_000 });
+  });
+
   test("a move made offline that meets a newer one comes back side by side; the person keeps the server's", async ({
     page,
     context,

@@ -234,6 +234,7 @@ export default function QuickLogPage() {
                     key={positionId}
                     siteId={site.id}
                     component={q.data.component}
+                    latestInspection={newestInspection(q.data.inspections)}
                     label={q.data.position.designation}
                     canRelease={can(role, "custody.release")}
                     onSaved={(r) => {
@@ -257,4 +258,13 @@ export default function QuickLogPage() {
       <SafetyNotice compact />
     </div>
   );
+}
+
+/** The newest of a position's inspections the phone holds (its insulation and mechanism), or undefined. */
+function newestInspection(list: PositionDetail["inspections"]) {
+  const newest = list.reduce<PositionDetail["inspections"][number] | undefined>(
+    (a, b) => (!a || b.inspectedAt > a.inspectedAt ? b : a),
+    undefined,
+  );
+  return newest && { insulation: newest.insulation, mechanism: newest.mechanism };
 }

@@ -2,7 +2,8 @@ import { useMemo, useState } from "react";
 import { z } from "zod";
 import { Button } from "../../../components/button";
 import { TextField } from "../../../components/field";
-import { CUSTODY_LABELS, type Custody } from "../../../domain/vocab";
+import { CUSTODY, CUSTODY_LABELS, type Custody } from "../../../domain/vocab";
+import { checkCustodyMove, proposeNext, type CustodyFacts } from "../../../domain/custody-chain";
 import { ApiError } from "../../../lib/api-client";
 import { fieldError, formMessage, showSaveError, useSchemaForm } from "../../../lib/form";
 import { custodyBody, type CustodyMove, type CustodyOptions, type CustodyRefusalDto } from "../../../schemas/inventory";
@@ -10,7 +11,31 @@ import { fetchNextTag, useCustodyOptions, useMoveCustody } from "../api";
 import type { Component } from "../contract";
 import { ConflictNotice } from "./conflict-notice";
 
-type Held = Pick<Component, "id" | "custody" | "version" | "tagNumber"> & { custodyLocation?: string };
+type Held = Pick<Component, "id" | "custody" | "version" | "tagNumber"> &
+  Partial<Pick<Component, "kind" | "disposition">> & { custodyLocation?: string };
+
+/**
+ * With no signal and no answer kept for this part: the chain's options worked out on the phone with the same rules
+ * (src/domain/custody-chain.ts) from what the phone holds. A reading it does not hold counts as not recorded, so a
+ * move that needs one shows as needing its proof; the server judges the move again when it arrives.
+ */
+function optionsOnPhone(c: Held, latest: Latest | undefined): CustodyOptions | null {
+  if (!c.kind) return null;
+  const facts: CustodyFacts = {
+    from: c.custody,
+    kind: c.kind,
+    disposition: c.disposition ?? null,
+    tagNumber: c.tagNumber,
+    latestInsulation: latest?.insulation ?? null,
+    latestMechanism: latest?.mechanism ?? null,
+    latestReading: null,
+  };
+  return {
+    proposed: proposeNext(facts),
+    moves: CUSTODY.filter((s) => s !== c.custody).map((to) => ({ to, refusals: checkCustodyMove(facts, to) })),
+  };
+}
+type Latest = { insulation: CustodyFacts["latestInsulation"]; mechanism: CustodyFacts["latestMechanism"] };
 const LABELS = { custody: "Where it is", custodyLocation: "Location", tagNumber: "Tag" };
 
 /** A stale version's 409 carries the record as it is now (a chain refusal's 409 carries its rules instead). */
@@ -66,9 +91,12 @@ export function CustodyForm({
   label,
   canRelease,
   onSaved,
+  latestInspection,
 }: {
   siteId: string;
   component: Held;
+  /** The newest inspection the phone holds, for the chain's options worked out with no signal. */
+  latestInspection?: Latest;
   /** The position's designation, for the outbox's list when saved with no signal. */
   label: string;
   canRelease: boolean;
@@ -77,7 +105,13 @@ export function CustodyForm({
 }) {
   // The record the form started from (its version goes with the move): not an input.
   const [base, setBase] = useState<Held>(component);
-  const options = useCustodyOptions(siteId, base.id);
+  const asked = useCustodyOptions(siteId, base.id);
+  const onPhone = !asked.data && asked.fetchStatus === "paused";
+  const phoneOptions = useMemo(
+    () => (onPhone ? optionsOnPhone(base, latestInspection) : null),
+    [onPhone, base, latestInspection],
+  );
+  const options = { data: asked.data ?? phoneOptions ?? undefined, isFetching: asked.isFetching };
   const move = useMoveCustody(siteId);
   const schema = useMemo(() => custodyForm(!!base.tagNumber, options.data), [base.tagNumber, options.data]);
   const form = useSchemaForm(schema, EMPTY);
@@ -143,6 +177,13 @@ export function CustodyForm({
         Now: <strong data-testid="custody-now">{CUSTODY_LABELS[base.custody]}</strong>
         {base.tagNumber && <span className="font-mono text-mist"> · tag {base.tagNumber}</span>}
       </p>
+      {onPhone && (
+        <p className="text-sm text-mist" data-testid="custody-on-phone">
+          {phoneOptions
+            ? "No signal: these moves are worked out on this phone from what it kept. The server checks the move again when it arrives."
+            : "No signal, and the moves this part can make are not kept on this phone yet: they show when the connection returns."}
+        </p>
+      )}
       {options.data && (
         <p className="text-sm text-mist" data-testid="custody-proposal">
           {options.data.proposed ? (
