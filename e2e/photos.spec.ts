@@ -161,15 +161,13 @@ test("a file the server refuses as a picture fails with its reason and no Retry 
   await signIn(page, "photographer");
   await page.getByRole("link", { name: "Photo desk" }).first().click();
   await expect(page.getByRole("heading", { level: 1, name: "Photo desk" })).toBeVisible();
-  await page
-    .getByTestId("photo-input")
-    .setInputFiles([
-      {
-        name: `broken-${Date.now().toString(36)}.jpg`,
-        mimeType: "image/jpeg",
-        buffer: Buffer.from("not a picture at all"),
-      },
-    ]);
+  await page.getByTestId("photo-input").setInputFiles([
+    {
+      name: `broken-${Date.now().toString(36)}.jpg`,
+      mimeType: "image/jpeg",
+      buffer: Buffer.from("not a picture at all"),
+    },
+  ]);
   const failed = page.locator('[data-testid="upload-row"][data-state="failed"]');
   await expect(failed).toHaveCount(1, { timeout: 20_000 });
   await expect(failed).toContainText("Failed");
