@@ -110,6 +110,8 @@ test("the curator plans two stages, fixes the gate's blockers and energises; a v
   await expect(hold(page, STAGE_1, "protection")).toContainText("20 A fuses in the fused disconnect");
   const clear = hold(page, STAGE_1, "clearance");
   await clear.getByRole("button", { name: /^Strike out the entry/ }).click();
+  await clear.getByRole("button", { name: "Strike it out" }).click();
+  await expect(clear.getByText("Say why the entry is corrected")).toBeVisible(); // supersedeBody's own words
   await clear.getByLabel(/^Why strike it out/).fill("Signed before the last person came up the ladder");
   await clear.getByRole("button", { name: "Strike it out" }).click();
   await expect(clear).toContainText("Struck out by Ines Marrow");

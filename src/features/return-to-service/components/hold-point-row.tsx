@@ -205,6 +205,13 @@ function ReleaseForm({
   );
 }
 
+/** The note → a signature's request body; signBody (the server's own schema) validates it. */
+const signForm = (attempt: number) =>
+  z
+    .object({ note: z.string() })
+    .transform((v) => ({ attempt, note: v.note }) as z.input<typeof signBody>)
+    .pipe(signBody);
+
 /**
  * Signing asks once more, with room for what was checked (a fuse's rating, where it was isolated): a signature
  * cannot be taken back, only struck out with a reason. Energising past a breaker's operation budget says so here.
@@ -223,25 +230,21 @@ function SignForm({
   onDone: () => void;
 }) {
   const act = useRtsAction(siteId);
-  const [note, setNote] = useState("");
+  const schema = useMemo(() => signForm(stage.attempt), [stage.attempt]);
+  const form = useSchemaForm(schema, { note: "" });
+  const { register, formState } = form;
   const energise = hp.kind === "energise";
-  const error = act.error instanceof ApiError ? act.error.message : act.error ? String(act.error) : null;
-  const submit = () =>
+  const submit = form.handleSubmit((body) =>
     act
-      .mutateAsync({
-        method: "POST",
-        path: `/return-to-service/steps/${hp.stepId}/signoffs`,
-        body: { attempt: stage.attempt, note: note.trim() } satisfies z.input<typeof signBody>,
-      })
-      .then(onDone, () => {});
+      .mutateAsync({ method: "POST", path: `/return-to-service/steps/${hp.stepId}/signoffs`, body })
+      .then(onDone, (err: unknown) => showSaveError(form, err)),
+  );
+  const message = serverMessage(formState.errors);
   return (
     <form
       className="mt-2 space-y-2 rounded-md bg-hull-850 p-2 ring-1 ring-hull-600"
       aria-label={`Sign ${hp.title}`}
-      onSubmit={(ev) => {
-        ev.preventDefault();
-        void submit();
-      }}
+      onSubmit={(ev) => void submit(ev)}
       noValidate
     >
       {overBudget.length > 0 && (
@@ -259,23 +262,22 @@ function SignForm({
       )}
       <TextArea
         label={energise ? "Note (optional: the supply and device, who was clear)" : "Note (optional: what you checked)"}
-        value={note}
-        maxLength={2000}
+        {...register("note")}
         rows={2}
-        onChange={(e) => setNote(e.target.value)}
+        error={fieldError(formState.errors, "note")}
       />
       <p className="text-sm text-mist">
         {energise
           ? "Records the energisation now, in your name. Energise from a safe position, under NFPA 70E and local rules."
           : "Recorded in your name and kept; a mistake is struck out with a reason, never erased."}
       </p>
-      {error && (
+      {message && (
         <p role="alert" className="text-sm text-rust-300">
-          {error}
+          {message}
         </p>
       )}
       <div className="flex flex-wrap gap-2">
-        <Button type="submit" disabled={act.isPending}>
+        <Button type="submit" disabled={formState.isSubmitting}>
           {energise ? (overBudget.length ? "Sign anyway: energised now" : "Sign: energised now") : "Sign"}
         </Button>
         <Button tone="quiet" onClick={onDone}>
@@ -285,6 +287,12 @@ function SignForm({
     </form>
   );
 }
+
+/** The reason → a strike's request body; supersedeBody (the server's own schema) validates it. */
+const strikeForm = z
+  .object({ reason: z.string() })
+  .transform((v) => ({ kind: "struck", reason: v.reason }) as z.input<typeof supersedeBody>)
+  .pipe(supersedeBody);
 
 /** Strikes out the entry in force, with a reason (it supersedes the entry; both stay in the log). */
 function StrikeForm({
@@ -299,45 +307,35 @@ function StrikeForm({
   onDone: () => void;
 }) {
   const act = useRtsAction(siteId);
-  const [reason, setReason] = useState("");
-  const [tooShort, setTooShort] = useState(false);
-  const error = act.error instanceof ApiError ? act.error.message : act.error ? String(act.error) : null;
+  const form = useSchemaForm(strikeForm, { reason: "" });
+  const { register, formState } = form;
+  const submit = form.handleSubmit((body) =>
+    act
+      .mutateAsync({ method: "POST", path: `/return-to-service/signoffs/${entryId}/supersede`, body })
+      .then(onDone, (err: unknown) => showSaveError(form, err)),
+  );
+  const message = serverMessage(formState.errors);
   return (
     <form
       className="mt-2 space-y-2 rounded-md bg-hull-850 p-2 ring-1 ring-hull-600"
       aria-label={`Strike out the entry on ${title}`}
-      onSubmit={(ev) => {
-        ev.preventDefault();
-        if (reason.trim().length < 3) return setTooShort(true);
-        act
-          .mutateAsync({
-            method: "POST",
-            path: `/return-to-service/signoffs/${entryId}/supersede`,
-            body: { kind: "struck", reason: reason.trim() } satisfies z.input<typeof supersedeBody>,
-          })
-          .then(onDone, () => {});
-      }}
+      onSubmit={(ev) => void submit(ev)}
       noValidate
     >
       <TextArea
         label="Why strike it out (kept in the log)"
-        value={reason}
-        maxLength={2000}
+        {...register("reason")}
         rows={2}
         required
-        onChange={(e) => {
-          setReason(e.target.value);
-          setTooShort(false);
-        }}
-        error={tooShort ? "Say why the entry is struck out" : undefined}
+        error={fieldError(formState.errors, "reason")}
       />
-      {error && (
+      {message && (
         <p role="alert" className="text-sm text-rust-300">
-          {error}
+          {message}
         </p>
       )}
       <div className="flex flex-wrap gap-2">
-        <Button type="submit" tone="danger" disabled={act.isPending}>
+        <Button type="submit" tone="danger" disabled={formState.isSubmitting}>
           Strike it out
         </Button>
         <Button tone="quiet" onClick={onDone}>
