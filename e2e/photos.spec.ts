@@ -174,3 +174,24 @@ test("a file the server refuses as a picture fails with its reason and no Retry 
   await expect(failed.getByRole("button", { name: /^Retry/ })).toHaveCount(0);
   await expect(failed.getByRole("progressbar")).toHaveAttribute("value", "0");
 });
+
+test.describe("on a phone", () => {
+  test.use({ viewport: { width: 360, height: 740 } });
+  test("chosen photos bring their progress into view (it starts below the form and the drop area)", async ({
+    page,
+  }) => {
+    await signIn(page, "photographer");
+    await page.getByRole("link", { name: "Photo desk" }).first().click();
+    await expect(page.getByRole("heading", { level: 1, name: "Photo desk" })).toBeVisible();
+    // From the top of the page (the kind, caption and place fields fill the phone's screen).
+    await page.evaluate(() => window.scrollTo(0, 0));
+    await expect(page.getByTestId("upload-summary")).toHaveCount(0);
+    await page
+      .getByTestId("photo-input")
+      .setInputFiles([
+        { name: `phone-${Date.now().toString(36)}.jpg`, mimeType: "image/jpeg", buffer: await jpeg("#4a5b6c") },
+      ]);
+    await expect(page.getByTestId("upload-summary")).toBeInViewport();
+    await expect(page.locator('[data-testid="upload-row"][data-state="done"]')).toHaveCount(1, { timeout: 20_000 });
+  });
+});

@@ -1,4 +1,4 @@
-import { useState } from "react";
+import { useEffect, useRef, useState } from "react";
 import { useDropzone } from "react-dropzone";
 import { SelectField, TextField } from "../../../components/field";
 import { PHOTO_KINDS, PHOTO_KIND_LABELS, type PhotoKind } from "../../../domain/vocab";
@@ -33,6 +33,14 @@ export function UploadPanel({
   const [place, setPlace] = useState<Place>({ boardId: "", positionId: "" });
   const where = { boardId: place.boardId || undefined, positionId: place.positionId || undefined };
   const queue = useUploadQueue(siteId, onUploaded);
+  // New files bring their progress into view: on a phone it starts below the fold, under the form and the drop area.
+  const progress = useRef<HTMLParagraphElement>(null);
+  const count = queue.items.length;
+  const seen = useRef(count);
+  useEffect(() => {
+    if (count > seen.current) progress.current?.scrollIntoView({ block: "nearest", behavior: "smooth" });
+    seen.current = count;
+  }, [count]);
   const { getRootProps, getInputProps, isDragActive, open } = useDropzone({
     accept: ACCEPT,
     multiple: true,
@@ -117,7 +125,7 @@ export function UploadPanel({
         </p>
       </div>
       {queue.items.length > 0 && (
-        <p className="text-sm text-mist" aria-live="polite">
+        <p ref={progress} className="scroll-mb-24 text-sm text-mist" aria-live="polite" data-testid="upload-summary">
           {done} of {queue.items.length} uploaded{queue.inFlight ? " — keep this page open until they finish." : "."}
         </p>
       )}
