@@ -316,6 +316,9 @@ test.describe("readings, a watch check and a defect with no signal, on a 360 px 
     await expect(page.getByTestId("photo-pending")).toContainText("verdigris-offline.jpg");
     await expect(page.getByTestId("waiting-count")).toHaveText("6 waiting to send");
     await page.screenshot({ path: ".data/test-results/offline-defect-pending.png" });
+    // A board whose positions the phone never kept: the position list says why it offers only the board.
+    await page.goto(`/sites/${m.siteId}/defects/new?boardId=${mainId}`);
+    await expect(page.getByText("this board's positions are not kept on this phone yet")).toBeVisible();
 
     await context.setOffline(false);
     await page.evaluate(() => window.dispatchEvent(new Event("online")));

@@ -160,6 +160,11 @@ export function DefectForm({
           if (chosen) setValue("sectionId", chosen.sectionId ?? "");
         }}
         error={e("positionId")}
+        hint={
+          positions.fetchStatus === "paused" && !positions.data
+            ? "No signal, and this board's positions are not kept on this phone yet: raise it against the board and name the position in what is wrong, or raise it from the position's quick log."
+            : undefined
+        }
       >
         <option value="">Whole board or section</option>
         {positions.data?.map((p) => (
